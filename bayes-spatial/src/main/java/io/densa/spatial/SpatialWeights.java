@@ -328,6 +328,9 @@ public final class SpatialWeights {
         int[][] nb = new int[n][];
         double[][] wt = new double[n][];
         withinBand(locations, maxDistance, nb, wt);
+        for (double[] row : wt) {
+            Arrays.fill(row, 1.0);
+        }
         return assemble(n, nb, wt);
     }
 
