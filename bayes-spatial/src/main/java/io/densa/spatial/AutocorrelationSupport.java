@@ -246,7 +246,9 @@ final class AutocorrelationSupport {
     /** Normal-approximation test from analytic moments. */
     static AutocorrelationMoments moments(double statistic, double expectation, double variance, String what,
             String assumption, int n) {
-        if (!(variance > 0) || !Double.isFinite(variance)) {
+        // Relative test: a variance that is zero up to rounding (e.g. every pair linked equally,
+        // where I = -1/(n - 1) for every arrangement) must not give a huge meaningless z.
+        if (!(variance > 1e-10 * (variance + expectation * expectation)) || !Double.isFinite(variance)) {
             throw new DensaException("the variance of " + what + " under " + assumption + " is " + variance
                     + " for these weights and values: the statistic's null distribution is degenerate"
                     + " (e.g. every pair of units linked with equal weight)",

@@ -109,6 +109,24 @@ class AutocorrelationInputTest {
     }
 
     @Test
+    void degenerateNullDistributionIsANumericalFailure() {
+        // Every pair linked with equal weight: Σ_ij w_ij z_i z_j = -Σ z², so I = -1/(n-1) for every
+        // arrangement and both null variances are 0 (by hand from the Cliff & Ord formulas).
+        int n = 6;
+        double[][] all = new double[n][n];
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j < n; j++) {
+                all[i][j] = i == j ? 0 : 1;
+            }
+        }
+        io.densa.core.DensaException e = assertThrows(io.densa.core.DensaException.class,
+                () -> MoranI.test(SpatialWeights.fromMatrix(all), new double[] {1, 2, 3, 5, 8, 13}));
+        assertTrue(e.getMessage().matches("the variance of Moran's I under normality is .* degenerate.*"),
+                e.getMessage());
+        assertTrue(e.diagnostics() != null);
+    }
+
+    @Test
     void badBuilderArguments() {
         Locations loc = Locations.planar(new double[] {0, 1, 2, 2}, new double[] {0, 0, 0, 0});
         fails("k = 4 nearest neighbours requested for 4 units; k must be in 1..3",

@@ -131,6 +131,21 @@ class SpatialWeightsTest {
     }
 
     @Test
+    void multiPolygonUnits() {
+        // Unit 0 is two separate squares (a multipolygon) on both sides of unit 1 in a 1 x 3 strip;
+        // unit 2 is the square above unit 1.
+        org.locationtech.jts.geom.GeometryFactory gf = new org.locationtech.jts.geom.GeometryFactory();
+        org.locationtech.jts.geom.Geometry split = gf.createMultiPolygon(new Polygon[] {box(0, 0, 1, 1),
+            box(2, 0, 3, 1)});
+        List<org.locationtech.jts.geom.Geometry> units = List.of(split, box(1, 0, 2, 1), box(1, 1, 2, 2));
+        SpatialWeights rook = SpatialWeights.contiguity(units, SpatialWeights.Contiguity.ROOK, 0);
+        SpatialWeights queen = SpatialWeights.contiguity(units, SpatialWeights.Contiguity.QUEEN, 0);
+        assertArrayEquals(new int[] {0, 2}, rook.neighbours(1));
+        assertArrayEquals(new int[] {1}, rook.neighbours(0));
+        assertArrayEquals(new int[] {1, 2}, queen.neighbours(0)); // corners (1, 1) and (2, 1)
+    }
+
+    @Test
     void nearestNeighboursMatchBruteForceAndSymmetrise() {
         Random rnd = new Random(17);
         int n = 150, k = 6;
