@@ -262,6 +262,27 @@ class FunctionOnFunctionTest {
         ScalarOnFunctionFit cv = FunctionalRegression.truncation().fitScalarResponse(List.of(d[0]), null, y);
         assertTrue(cv.crossValidatedError() > 0.05 && cv.crossValidatedError() < 0.2,
                 "CV mean squared error " + cv.crossValidatedError() + " (noise variance 0.09)");
+        // penalised alternative: ridge with one λ equals OLS on rows augmented by √(nλ) e_l
+        double lambda = 0.02;
+        ScalarOnFunctionFit ridge = FunctionalRegression.ridge().withLambdas(lambda)
+                .fitScalarResponse(List.of(d[0]), null, y);
+        double[] ya = new double[n + kx];
+        double[][] xa = new double[n + kx][kx + 1];
+        for (int i = 0; i < n; i++) {
+            ya[i] = y[i];
+            xa[i][0] = 1;
+            System.arraycopy(x[i], 0, xa[i], 1, kx);
+        }
+        for (int l = 0; l < kx; l++) {
+            xa[n + l][l + 1] = Math.sqrt(n * lambda);
+        }
+        OLSMultipleLinearRegression aug = new OLSMultipleLinearRegression();
+        aug.setNoIntercept(true);
+        aug.newSampleData(ya, xa);
+        double[] ba = aug.estimateRegressionParameters();
+        for (int l = 0; l < kx; l++) {
+            assertEquals(ba[l + 1], ridge.coefficientFunction(0).coordinate(l), 1e-9);
+        }
         double[] pred = cv.predict(List.of(d[0]), null);
         assertEquals(cv.fitted()[5], pred[5], 1e-12);
         assertEquals(cv.coefficientFunction(0).clr(0.3), cv.coefficientClr(0, 0.3)[0], 1e-10);
