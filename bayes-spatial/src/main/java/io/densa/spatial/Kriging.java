@@ -458,8 +458,8 @@ public final class Kriging {
     /** Centres of a square grid of the given spacing covered by the polygon (package-private for tests). */
     static double[][] discretise(Polygon polygon, double spacing) {
         Envelope env = polygon.getEnvelopeInternal();
-        long nx = (long) Math.ceil(env.getWidth() / spacing);
-        long ny = (long) Math.ceil(env.getHeight() / spacing);
+        long nx = (long) Math.ceil(env.getWidth() / spacing - 1e-9);
+        long ny = (long) Math.ceil(env.getHeight() / spacing - 1e-9);
         nx = Math.max(1, nx);
         ny = Math.max(1, ny);
         if (nx * ny > 1L << 22) {
