@@ -70,6 +70,8 @@ public final class Kriging {
     private final double cy;
     private final double scale;
     private final double[] centre;
+    private final double[] sx;
+    private final double[] sy;
     private final double[] diagExtra;
     private final double[] errorVariances;
     final KrigingOptions options;
@@ -135,6 +137,8 @@ public final class Kriging {
             System.arraycopy(mean.coordinates(), 0, centre, 0, k);
         }
         this.index = NeighbourIndex.of(loc);
+        this.sx = loc.xs();
+        this.sy = loc.ys();
         double[] bb = loc.boundingBox();
         this.cx = 0.5 * (bb[0] + bb[2]);
         this.cy = 0.5 * (bb[1] + bb[3]);
@@ -247,10 +251,28 @@ public final class Kriging {
 
     /** The (pseudo-)covariance at lag h; C(0) at h = 0. */
     double cov(double h) {
-        if (h == 0) {
-            return c00;
+        return model.covariance(h, pseudoSill);
+    }
+
+    /** Distances from (x, y) to stations idx[0..m) (all stations 0..m−1 if idx is null) into out. */
+    void distances(int[] idx, int m, double x, double yy, double[] out) {
+        if (loc.kind() == Locations.Kind.PLANAR) {
+            for (int r = 0; r < m; r++) {
+                int i = idx == null ? r : idx[r];
+                double dx = sx[i] - x, dy = sy[i] - yy;
+                out[r] = Math.sqrt(dx * dx + dy * dy);
+            }
+        } else {
+            for (int r = 0; r < m; r++) {
+                out[r] = loc.distanceTo(idx == null ? r : idx[r], x, yy);
+            }
         }
-        return pseudoSill - model.gammaUnchecked(h);
+    }
+
+    /** Covariances from (x, y) to stations idx[0..m) (all if idx is null) into out; dist is scratch. */
+    void targetCovariances(int[] idx, int m, double x, double yy, double[] dist, double[] out) {
+        distances(idx, m, x, yy, dist);
+        model.covariances(dist, m, pseudoSill, out);
     }
 
     double stationCovariance(int i, int j) {
@@ -270,10 +292,12 @@ public final class Kriging {
                     double[] m = new double[n * n];
                     int blocks = (n + 63) / 64;
                     Kernels.forEachBlock(blocks, options.parallel() && n > 256, b -> {
+                        double[] d = new double[n];
+                        double[] row = new double[n];
                         for (int i = b * 64; i < Math.min(n, b * 64 + 64); i++) {
-                            for (int j = 0; j < n; j++) {
-                                m[i * n + j] = i == j ? c00 : cov(loc.distance(i, j));
-                            }
+                            targetCovariances(null, n, loc.x(i), loc.y(i), d, row);
+                            row[i] = c00;
+                            System.arraycopy(row, 0, m, i * n, n);
                         }
                     });
                     stationCov = m;
@@ -359,9 +383,7 @@ public final class Kriging {
         int[] nb = neighbours(x, yy, exclude);
         LocalSystem sys = systemFor(nb);
         double[] c0 = new double[nb.length];
-        for (int r = 0; r < nb.length; r++) {
-            c0[r] = cov(loc.distanceTo(nb[r], x, yy));
-        }
+        targetCovariances(nb, nb.length, x, yy, new double[nb.length], c0);
         double[] out = new double[k];
         double[] w = withWeights ? new double[nb.length] : null;
         double var = sys.predict(c0, f0, c00, centre, out, 0, w, new LocalSystem.Scratch(p));
@@ -427,9 +449,12 @@ public final class Kriging {
         double[] c0 = new double[nb.length];
         double[] f0 = new double[p];
         double[] fb = new double[p];
+        double[] dist = new double[nb.length];
+        double[] cu = new double[nb.length];
         for (double[] u : pts) {
+            targetCovariances(nb, nb.length, u[0], u[1], dist, cu);
             for (int r = 0; r < nb.length; r++) {
-                c0[r] += cov(loc.distanceTo(nb[r], u[0], u[1]));
+                c0[r] += cu[r];
             }
             driftAt(u[0], u[1], null, fb);
             for (int j = 0; j < p; j++) {
