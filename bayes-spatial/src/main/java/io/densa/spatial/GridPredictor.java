@@ -76,29 +76,8 @@ final class GridPredictor {
         final double[] beta;
 
         Dual(Kriging kr) {
-            LocalSystem g = kr.globalSystem();
-            int n = kr.n, p = kr.p, k = kr.k;
-            double[][] b = kr.driftCoefficients();
-            beta = new double[p * k];
-            for (int j = 0; j < p; j++) {
-                System.arraycopy(b[j], 0, beta, j * k, k);
-            }
-            double[] a = new double[n * k];
-            double[] col = new double[n];
-            for (int c = 0; c < k; c++) {
-                for (int r = 0; r < n; r++) {
-                    double s = g.ly[r * k + c];
-                    for (int j = 0; j < p; j++) {
-                        s -= g.g[r * p + j] * beta[j * k + c];
-                    }
-                    col[r] = s;
-                }
-                LocalSystem.backward(g.l, n, col);
-                for (int r = 0; r < n; r++) {
-                    a[r * k + c] = col[r];
-                }
-            }
-            alpha = a;
+            beta = kr.driftCoefficientsFlat();
+            alpha = kr.dualWeights(beta);
         }
     }
 

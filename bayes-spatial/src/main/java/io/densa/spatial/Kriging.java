@@ -585,39 +585,11 @@ public final class Kriging {
                 u[r * p + j] = col[r];
             }
         }
-        double[] gty = new double[p * k];
-        for (int r = 0; r < n; r++) {
-            for (int j = 0; j < p; j++) {
-                double gj = g.g[r * p + j];
-                for (int c = 0; c < k; c++) {
-                    gty[j * k + c] += gj * g.ly[r * k + c];
-                }
-            }
-        }
-        double[] beta = new double[p * k];
-        for (int i = 0; i < p; i++) {
-            for (int j = 0; j < p; j++) {
-                double s = g.sInv[i * p + j];
-                for (int c = 0; c < k; c++) {
-                    beta[i * k + c] += s * gty[j * k + c];
-                }
-            }
-        }
+        double[] alpha = dualWeights(driftCoefficientsFlat());
         double[][] err = new double[n][k];
         double[] var = new double[n];
-        double[] alphaCol = new double[n];
-        for (int c = 0; c < k; c++) {
-            for (int r = 0; r < n; r++) {
-                double s = g.ly[r * k + c];
-                for (int j = 0; j < p; j++) {
-                    s -= g.g[r * p + j] * beta[j * k + c];
-                }
-                alphaCol[r] = s;
-            }
-            LocalSystem.backward(l, n, alphaCol);
-            for (int i = 0; i < n; i++) {
-                err[i][c] = alphaCol[i];
-            }
+        for (int i = 0; i < n; i++) {
+            System.arraycopy(alpha, i * k, err[i], 0, k);
         }
         for (int i = 0; i < n; i++) {
             double b = diag[i];
@@ -681,24 +653,60 @@ public final class Kriging {
      * (p × K; p = 0 for simple kriging).
      */
     public double[][] driftCoefficients() {
-        LocalSystem g = globalSystem();
+        double[] flat = driftCoefficientsFlat();
         double[][] beta = new double[p][k];
+        for (int j = 0; j < p; j++) {
+            System.arraycopy(flat, j * k, beta[j], 0, k);
+        }
+        return beta;
+    }
+
+    /** β̂ = S⁻¹ Gᵀ L⁻¹Y, row-major p × K. */
+    double[] driftCoefficientsFlat() {
+        LocalSystem g = globalSystem();
         double[] gty = new double[p * k];
         for (int r = 0; r < n; r++) {
             for (int j = 0; j < p; j++) {
+                double gj = g.g[r * p + j];
                 for (int c = 0; c < k; c++) {
-                    gty[j * k + c] += g.g[r * p + j] * g.ly[r * k + c];
+                    gty[j * k + c] += gj * g.ly[r * k + c];
                 }
             }
         }
+        double[] beta = new double[p * k];
         for (int i = 0; i < p; i++) {
             for (int j = 0; j < p; j++) {
+                double si = g.sInv[i * p + j];
                 for (int c = 0; c < k; c++) {
-                    beta[i][c] += g.sInv[i * p + j] * gty[j * k + c];
+                    beta[i * k + c] += si * gty[j * k + c];
                 }
             }
         }
         return beta;
+    }
+
+    /**
+     * Dual weights α = C⁻¹(Y − m − Fβ̂) = L⁻ᵀ(L⁻¹Y − Gβ̂) (row-major n × K) of the global system, so
+     * that the prediction at s_0 is m + c0ᵀα + f0ᵀβ̂.
+     */
+    double[] dualWeights(double[] beta) {
+        LocalSystem g = globalSystem();
+        double[] a = new double[n * k];
+        double[] col = new double[n];
+        for (int c = 0; c < k; c++) {
+            for (int r = 0; r < n; r++) {
+                double s = g.ly[r * k + c];
+                for (int j = 0; j < p; j++) {
+                    s -= g.g[r * p + j] * beta[j * k + c];
+                }
+                col[r] = s;
+            }
+            LocalSystem.backward(g.l, n, col);
+            for (int r = 0; r < n; r++) {
+                a[r * k + c] = col[r];
+            }
+        }
+        return a;
     }
 
     /** Drift residuals Y − F β̂ (row-major n × K), for re-estimating the residual variogram. */
