@@ -3,6 +3,7 @@ package io.densa.regression;
 import io.densa.core.BayesSpace;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
 import io.densa.core.internal.Kernels;
 import java.util.Objects;
 import org.ejml.data.DMatrixRMaj;
@@ -275,7 +276,20 @@ public final class Fpca {
      * @param seed     seed of the random fold assignment
      */
     public static ComponentChoice crossValidate(DensitySet data, int maxM, double fraction, int folds, long seed) {
+        return crossValidate(data, maxM, fraction, folds, seed, ProgressListener.NONE);
+    }
+
+    /**
+     * {@link #crossValidate(DensitySet, int, double, int, long)} reporting progress to a listener:
+     * task {@code "cross-validation"}, one unit per fold, from the calling thread; the count
+     * reaches {@code folds}. The listener does not change the result.
+     *
+     * @param listener progress listener, or {@link ProgressListener#NONE}
+     */
+    public static ComponentChoice crossValidate(DensitySet data, int maxM, double fraction, int folds, long seed,
+            ProgressListener listener) {
         Objects.requireNonNull(data, "data");
+        Objects.requireNonNull(listener, "listener");
         int kk = data.dimension();
         if (maxM < 1 || maxM > kk) {
             throw new IllegalArgumentException("maxM must be in [1, K = " + kk + "], got " + maxM);
@@ -314,6 +328,7 @@ public final class Fpca {
                 explained += q;
                 err[m] += tr - explained;
             }
+            listener.progress("cross-validation", f + 1, folds);
         }
         for (int m = 0; m <= maxM; m++) {
             err[m] /= n;

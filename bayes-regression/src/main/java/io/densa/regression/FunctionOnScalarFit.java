@@ -3,6 +3,7 @@ package io.densa.regression;
 import io.densa.core.BayesSpace;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -346,6 +347,19 @@ public final class FunctionOnScalarFit {
      * @return one band per design column, in column order
      */
     public List<CoefficientBand> bootstrapBands(double[] grid, int replicates, double level, long seed) {
+        return bootstrapBands(grid, replicates, level, seed, ProgressListener.NONE);
+    }
+
+    /**
+     * {@link #bootstrapBands(double[], int, double, long)} reporting progress to a listener: task
+     * {@code "bootstrap"}, one unit per replicate, from the calling thread; the count reaches
+     * {@code replicates}. The listener does not change the result.
+     *
+     * @param listener progress listener, or {@link ProgressListener#NONE}
+     */
+    public List<CoefficientBand> bootstrapBands(double[] grid, int replicates, double level, long seed,
+            ProgressListener listener) {
+        Objects.requireNonNull(listener, "listener");
         double[] g = Linear.grid(grid, "grid");
         if (replicates < 20) {
             throw new IllegalArgumentException("need at least 20 bootstrap replicates, got " + replicates);
@@ -385,6 +399,7 @@ public final class FunctionOnScalarFit {
             }
             double[] db = solve(rhs, p, k, u, inverses);
             deltas[b] = Linear.mult(db, p, k, et, m);
+            listener.progress("bootstrap", b + 1, replicates);
         }
         List<CoefficientBand> out = new ArrayList<>();
         double alpha = 1 - level;
@@ -475,6 +490,18 @@ public final class FunctionOnScalarFit {
      * @param seed         random seed
      */
     public PermutationTest permutationTest(String term, int permutations, long seed) {
+        return permutationTest(term, permutations, seed, ProgressListener.NONE);
+    }
+
+    /**
+     * {@link #permutationTest(String, int, long)} reporting progress to a listener: task
+     * {@code "permutation test"}, one unit per permutation, from the calling thread; the count
+     * reaches {@code permutations}. The listener does not change the result.
+     *
+     * @param listener progress listener, or {@link ProgressListener#NONE}
+     */
+    public PermutationTest permutationTest(String term, int permutations, long seed, ProgressListener listener) {
+        Objects.requireNonNull(listener, "listener");
         Design.Term t = design.term(term);
         if (t.name().equals(Design.INTERCEPT)) {
             throw new IllegalArgumentException("the permutation test is for covariates, not the intercept");
@@ -516,6 +543,7 @@ public final class FunctionOnScalarFit {
             if (f >= fObs * (1 - 1e-12)) {
                 exceed++;
             }
+            listener.progress("permutation test", b + 1, permutations);
         }
         return new PermutationTest(term, fObs, (1.0 + exceed) / (permutations + 1.0), df1, df2, permutations, seed);
     }

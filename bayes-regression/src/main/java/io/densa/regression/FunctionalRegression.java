@@ -2,6 +2,7 @@ package io.densa.regression;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -66,9 +67,15 @@ public final class FunctionalRegression {
     private final double[] lambdas;         // null: default grid
     private final int folds;
     private final long seed;
+    private final ProgressListener progress;
 
     private FunctionalRegression(Method method, int minComponents, int maxComponents, int[] responseComponents,
             double[] lambdas, int folds, long seed) {
+        this(method, minComponents, maxComponents, responseComponents, lambdas, folds, seed, ProgressListener.NONE);
+    }
+
+    private FunctionalRegression(Method method, int minComponents, int maxComponents, int[] responseComponents,
+            double[] lambdas, int folds, long seed, ProgressListener progress) {
         this.method = method;
         this.minComponents = minComponents;
         this.maxComponents = maxComponents;
@@ -76,6 +83,7 @@ public final class FunctionalRegression {
         this.lambdas = lambdas;
         this.folds = folds;
         this.seed = seed;
+        this.progress = progress;
     }
 
     /** FPCA truncation with m chosen from 1..20 (capped at each predictor's K) by 5-fold CV, seed 0. */
@@ -120,7 +128,7 @@ public final class FunctionalRegression {
         if (!(min >= 1 && max >= min)) {
             throw new IllegalArgumentException("need 1 <= min <= max, got [" + min + ", " + max + "]");
         }
-        return new FunctionalRegression(method, min, max, responseComponents, lambdas, folds, seed);
+        return new FunctionalRegression(method, min, max, responseComponents, lambdas, folds, seed, progress);
     }
 
     /**
@@ -140,7 +148,8 @@ public final class FunctionalRegression {
                 throw new IllegalArgumentException("response component counts must be >= 1, got " + c);
             }
         }
-        return new FunctionalRegression(method, minComponents, maxComponents, counts.clone(), lambdas, folds, seed);
+        return new FunctionalRegression(method, minComponents, maxComponents, counts.clone(), lambdas, folds, seed,
+                progress);
     }
 
     /**
@@ -160,7 +169,7 @@ public final class FunctionalRegression {
             }
         }
         return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, values.clone(),
-                folds, seed);
+                folds, seed, progress);
     }
 
     /**
@@ -172,12 +181,32 @@ public final class FunctionalRegression {
         if (k < 2) {
             throw new IllegalArgumentException("need at least 2 folds, got " + k);
         }
-        return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, lambdas, k, seed);
+        return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, lambdas, k, seed,
+                progress);
     }
 
     /** Seed of the random fold assignment. */
     public FunctionalRegression withSeed(long s) {
-        return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, lambdas, folds, s);
+        return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, lambdas, folds, s,
+                progress);
+    }
+
+    /**
+     * With a listener that receives the progress of the cross-validation: task
+     * {@code "cross-validation"}, one unit per fold, from the calling thread; the count reaches the
+     * number of folds. No calls when a single candidate skips the cross-validation. The listener
+     * does not change the fit.
+     *
+     * @param listener progress listener, or {@link ProgressListener#NONE} (the default)
+     */
+    public FunctionalRegression withProgressListener(ProgressListener listener) {
+        return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, lambdas, folds,
+                seed, Objects.requireNonNull(listener, "listener"));
+    }
+
+    /** The progress listener ({@link ProgressListener#NONE} by default). */
+    public ProgressListener progressListener() {
+        return progress;
     }
 
     private void requireMethod(Method m, String what) {

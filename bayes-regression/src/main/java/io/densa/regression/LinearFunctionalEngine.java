@@ -75,6 +75,7 @@ final class LinearFunctionalEngine {
                     double[] beta = fd.solve(cands.get(c));
                     err[c] += heldOutError(mf, w, pz, r, beta);
                 }
+                cfg.progressListener().progress("cross-validation", f + 1, folds);
             }
             int best = 0;
             for (int c = 0; c < cands.size(); c++) {
