@@ -45,8 +45,9 @@ public final class FunctionOnScalarRegression {
      *
      * @param lambda  ≥ 0, finite
      * @param penalty K × K symmetric positive semi-definite matrix (copied)
-     * @throws IllegalArgumentException if λ is negative or NaN, or R is not square, symmetric
-     *                                  and finite
+     * @throws IllegalArgumentException if λ is negative or NaN, or R is not square, symmetric,
+     *                                  finite and positive semi-definite (smallest eigenvalue ≥
+     *                                  −10⁻¹⁰ times the largest)
      */
     public FunctionOnScalarRegression withPenalty(double lambda, DMatrixRMaj penalty) {
         if (!(lambda >= 0) || Double.isInfinite(lambda)) {
@@ -66,6 +67,12 @@ public final class FunctionOnScalarRegression {
                             + ", " + j + ") = " + v);
                 }
             }
+        }
+        double[] range = Linear.eigenvalueRange(penalty.data, k);
+        if (!(range[0] >= -1e-10 * Math.max(Math.abs(range[1]), Double.MIN_NORMAL))) {
+            throw new IllegalArgumentException("penalty matrix must be positive semi-definite; its smallest"
+                    + " eigenvalue is " + range[0] + " (largest " + range[1] + "); a negative direction would"
+                    + " reward roughness instead of penalising it");
         }
         return new FunctionOnScalarRegression(lambda, penalty.copy());
     }

@@ -86,6 +86,29 @@ final class Linear {
     }
 
     /**
+     * Smallest and largest eigenvalue of a symmetric matrix, without clipping (EJML symmetric QR
+     * algorithm).
+     *
+     * @return {smallest, largest}
+     */
+    static double[] eigenvalueRange(double[] a, int k) {
+        DMatrixRMaj m = DMatrixRMaj.wrap(k, k, a.clone());
+        EigenDecomposition_F64<DMatrixRMaj> eig = DecompositionFactory_DDRM.eig(k, false, true);
+        if (!eig.decompose(m)) {
+            throw new DensaException("symmetric eigen-decomposition of a " + k + " x " + k + " matrix failed",
+                    new SolveDiagnostics("eigen", k, Double.NaN));
+        }
+        double lo = Double.POSITIVE_INFINITY;
+        double hi = Double.NEGATIVE_INFINITY;
+        for (int i = 0; i < k; i++) {
+            double v = eig.getEigenvalue(i).getReal();
+            lo = Math.min(lo, v);
+            hi = Math.max(hi, v);
+        }
+        return new double[] {lo, hi};
+    }
+
+    /**
      * Solves A X = B for symmetric positive definite A (p × p) and B (p × r) by Cholesky.
      *
      * @throws DensaException if A is not numerically positive definite

@@ -406,5 +406,18 @@ class FunctionOnScalarTest {
         e = assertThrows(IllegalArgumentException.class,
                 () -> m.withPenalty(Double.NaN, Penalties.ridge(k)));
         assertTrue(e.getMessage().matches(".*must be finite and >= 0, got NaN"), e.getMessage());
+        // an indefinite penalty (eigenvalues 3 and -1) would reward roughness: rejected, not clipped
+        DMatrixRMaj indefinite = Penalties.ridge(k);
+        indefinite.set(0, 0, 1);
+        indefinite.set(0, 1, 2);
+        indefinite.set(1, 0, 2);
+        indefinite.set(1, 1, 1);
+        e = assertThrows(IllegalArgumentException.class, () -> m.withPenalty(0.1, indefinite));
+        assertTrue(e.getMessage().matches("penalty matrix must be positive semi-definite; its smallest eigenvalue is"
+                + " -(1\\.0|0\\.9999).* \\(largest (3\\.0|2\\.9999).*"), e.getMessage());
+        // a semi-definite one (rank 1) is accepted
+        DMatrixRMaj rankOne = new DMatrixRMaj(k, k);
+        rankOne.set(2, 2, 1.0);
+        assertEquals(0.1, m.withPenalty(0.1, rankOne).lambda(), 0.0);
     }
 }
