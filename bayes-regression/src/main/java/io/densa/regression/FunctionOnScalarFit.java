@@ -488,6 +488,9 @@ public final class FunctionOnScalarFit {
      * @param term         covariate name (not the intercept)
      * @param permutations number of permutations, ≥ 19
      * @param seed         random seed
+     * @throws IllegalArgumentException for the intercept or an unknown term, fewer than 19
+     *                                  permutations, no residual degrees of freedom, or a response
+     *                                  that the full model fits exactly (F undefined)
      */
     public PermutationTest permutationTest(String term, int permutations, long seed) {
         return permutationTest(term, permutations, seed, ProgressListener.NONE);
@@ -530,6 +533,17 @@ public final class FunctionOnScalarFit {
         // reduced-model residuals e0 = (I − Q0 Q0ᵀ) C̃
         double[] e0 = residualise(q0, p0, c);
         int df1 = t.columns().size();
+        double tot = 0;
+        for (double v : e0) {
+            tot += v * v;
+        }
+        double rss1 = tot - projectedSq(q1, p, e0);
+        if (!(rss1 > 1e-20 * tot)) {
+            // F = 0/0 or x/0: NaN or ∞ would give a meaningless p-value of 1/(permutations + 1)
+            throw new IllegalArgumentException("permutation test of '" + term + "': the full model fits the"
+                    + " response exactly (residual sum of squares " + rss1 + " of " + tot + " for the reduced"
+                    + " model), so the F statistic is undefined; the test needs residual variation");
+        }
         double fObs = fStat(q0, p0, q1, e0, df1, df2);
         SplittableRandom rnd = new SplittableRandom(seed);
         double[] perm = new double[n * k];
@@ -595,7 +609,8 @@ public final class FunctionOnScalarFit {
         }
         QRDecomposition<DMatrixRMaj> qr = DecompositionFactory_DDRM.qr(rows, cols);
         if (!qr.decompose(DMatrixRMaj.wrap(rows, cols, xw))) {
-            throw new io.densa.core.DensaException("QR decomposition of the " + rows + " x " + cols + " design failed", null);
+            throw new io.densa.core.DensaException("QR decomposition of the " + rows + " x " + cols + " design failed",
+                    new Linear.SolveDiagnostics("QR of the weighted design", cols, Double.NaN));
         }
         return qr.getQ(null, true).data;
     }

@@ -415,6 +415,12 @@ class FunctionOnScalarTest {
         e = assertThrows(IllegalArgumentException.class, () -> m.withPenalty(0.1, indefinite));
         assertTrue(e.getMessage().matches("penalty matrix must be positive semi-definite; its smallest eigenvalue is"
                 + " -(1\\.0|0\\.9999).* \\(largest (3\\.0|2\\.9999).*"), e.getMessage());
+        // permutation test of a response that the model fits exactly: F = 0/0 must not give a p-value
+        Sim exact = simulate(12, 20, 1.0, 0.0);
+        FunctionOnScalarFit exactFit = m.fit(exact.design, exact.response);
+        e = assertThrows(IllegalArgumentException.class, () -> exactFit.permutationTest("dose", 99, 1));
+        assertTrue(e.getMessage().matches("permutation test of 'dose': the full model fits the response exactly.*"),
+                e.getMessage());
         // a semi-definite one (rank 1) is accepted
         DMatrixRMaj rankOne = new DMatrixRMaj(k, k);
         rankOne.set(2, 2, 1.0);
