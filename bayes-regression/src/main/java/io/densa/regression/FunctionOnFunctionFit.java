@@ -68,12 +68,14 @@ public final class FunctionOnFunctionFit {
     /**
      * FPCA of predictor j on the full data (truncation only).
      *
-     * @throws IllegalStateException for a ridge fit
+     * @throws IllegalStateException    for a ridge fit
+     * @throws IllegalArgumentException if j is not a predictor index
      */
     public Fpca predictorFpca(int j) {
         if (res.predictorFpca().isEmpty()) {
             throw new IllegalStateException("a ridge fit has no predictor FPCA");
         }
+        checkPredictor(j);
         return res.predictorFpca().get(j);
     }
 

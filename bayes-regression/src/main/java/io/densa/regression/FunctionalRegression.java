@@ -275,13 +275,13 @@ public final class FunctionalRegression {
                 throw new IllegalArgumentException("predictor " + j + " has " + s.size() + " rows but the response has "
                         + n + "; every predictor needs one density per observation");
             }
-            if (responseSpace != null && j == 0 && !s.space().equals(responseSpace)
+            if (responseSpace != null && !s.space().equals(responseSpace)
                     && s.space().lower() == responseSpace.lower() && s.space().upper() == responseSpace.upper()
                     && s.dimension() == responseSpace.dimension()) {
                 // same domain and dimension but another basis or reference: almost surely a mistake
-                throw new IllegalArgumentException("predictor 0 lives in " + s.space() + " and the response in "
-                        + responseSpace + ": the spaces have the same domain and dimension but differ; project one"
-                        + " onto the other's space (BayesSpace.project) first");
+                throw new IllegalArgumentException("predictor " + j + " lives in " + s.space()
+                        + " and the response in " + responseSpace + ": the spaces have the same domain and"
+                        + " dimension but differ; project one onto the other's space (BayesSpace.project) first");
             }
         }
         Design d = covariates == null ? Design.interceptOnly(n) : covariates;

@@ -302,8 +302,16 @@ class FunctionOnFunctionTest {
         DensitySet ys = DensitySet.of(poly, TestData.gaussian(new Random(2), 50, 5, 1));
         e = assertThrows(IllegalArgumentException.class, () -> cfg.fitDensityResponse(List.of(xs), null, ys));
         assertTrue(e.getMessage().matches("predictor 0 lives in .* and the response in .*differ.*"), e.getMessage());
+        // the same check for every predictor, not only the first
+        DensitySet xs2 = DensitySet.of(spl, TestData.gaussian(new Random(3), 50, 5, 1));
+        DensitySet xok = DensitySet.of(BayesSpace.splines(0, 1, 4, 2), TestData.gaussian(new Random(4), 50, 5, 1));
+        e = assertThrows(IllegalArgumentException.class,
+                () -> cfg.fitDensityResponse(List.of(xok, xs2), null, ys));
+        assertTrue(e.getMessage().matches("predictor 1 lives in .* and the response in .*differ.*"), e.getMessage());
         // prediction with predictors from another space
         FunctionOnFunctionFit fit = cfg.fitDensityResponse(List.of(d[0]), null, d[1]);
+        e = assertThrows(IllegalArgumentException.class, () -> fit.predictorFpca(1));
+        assertTrue(e.getMessage().matches("predictor index 1 outside \\[0, 1\\)"), e.getMessage());
         e = assertThrows(IllegalArgumentException.class, () -> fit.predict(List.of(ys), null));
         assertTrue(e.getMessage().matches("predictor 0 lives in .* but the model expects .*"), e.getMessage());
         // fewer observations than parameters
