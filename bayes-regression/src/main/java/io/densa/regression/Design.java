@@ -132,8 +132,16 @@ public final class Design {
         return DMatrixRMaj.wrap(n, p, x.clone());
     }
 
-    /** Value at row i, column j. */
+    /**
+     * Value at row i, column j.
+     *
+     * @throws IllegalArgumentException if i is outside [0, n) or j outside [0, p)
+     */
     public double value(int i, int j) {
+        if (i < 0 || i >= n || j < 0 || j >= p) {
+            throw new IllegalArgumentException("design entry (" + i + ", " + j + ") outside the " + n + " x " + p
+                    + " design (rows 0.." + (n - 1) + ", columns " + columnNames + ")");
+        }
         return x[i * p + j];
     }
 

@@ -421,6 +421,11 @@ class FunctionOnScalarTest {
         e = assertThrows(IllegalArgumentException.class, () -> exactFit.permutationTest("dose", 99, 1));
         assertTrue(e.getMessage().matches("permutation test of 'dose': the full model fits the response exactly.*"),
                 e.getMessage());
+        // design entries outside the matrix (column p of row 0 used to return row 1's intercept)
+        int cols = s.design.columns();
+        e = assertThrows(IllegalArgumentException.class, () -> s.design.value(0, cols));
+        assertTrue(e.getMessage().matches("design entry \\(0, 4\\) outside the 20 x 4 design.*"), e.getMessage());
+        assertThrows(IllegalArgumentException.class, () -> s.design.value(20, 0));
         // a semi-definite one (rank 1) is accepted
         DMatrixRMaj rankOne = new DMatrixRMaj(k, k);
         rankOne.set(2, 2, 1.0);
