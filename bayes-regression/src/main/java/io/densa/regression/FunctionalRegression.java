@@ -7,6 +7,7 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Objects;
+import java.util.OptionalDouble;
 
 /**
  * Configuration of the linear models with density predictors: function-on-function regression
@@ -54,10 +55,14 @@ public final class FunctionalRegression {
      * @param predictorComponents m (truncation), or 0 for ridge
      * @param responseComponents  m_Y (truncation; K_Y or 1 when the response is not truncated), 0 for ridge
      * @param lambda              λ (ridge), 0 for truncation
-     * @param cvError             mean held-out squared prediction error per observation (NaN when
-     *                            no cross-validation was run)
+     * @param cvError             mean held-out squared prediction error per observation, empty
+     *                            when no cross-validation was run (a single candidate)
      */
-    public record Candidate(int predictorComponents, int responseComponents, double lambda, double cvError) {
+    public record Candidate(int predictorComponents, int responseComponents, double lambda, OptionalDouble cvError) {
+        /** Canonical constructor: requires a non-null error (use {@link OptionalDouble#empty()}). */
+        public Candidate {
+            Objects.requireNonNull(cvError, "cvError");
+        }
     }
 
     private final Method method;
@@ -236,7 +241,7 @@ public final class FunctionalRegression {
                 }
             }
             for (double l : ls) {
-                out.add(new Candidate(0, 0, l, Double.NaN));
+                out.add(new Candidate(0, 0, l, OptionalDouble.empty()));
             }
             return out;
         }
@@ -250,7 +255,7 @@ public final class FunctionalRegression {
                 : Arrays.stream(responseComponents).map(c -> Math.min(c, r)).distinct().sorted().toArray();
         for (int m = lo; m <= hi; m++) {
             for (int my : ry) {
-                out.add(new Candidate(m, my, 0.0, Double.NaN));
+                out.add(new Candidate(m, my, 0.0, OptionalDouble.empty()));
             }
         }
         return out;

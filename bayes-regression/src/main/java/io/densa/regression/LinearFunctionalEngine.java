@@ -81,7 +81,7 @@ final class LinearFunctionalEngine {
             for (int c = 0; c < cands.size(); c++) {
                 FunctionalRegression.Candidate cd = cands.get(c);
                 scored.add(new FunctionalRegression.Candidate(cd.predictorComponents(), cd.responseComponents(),
-                        cd.lambda(), err[c] / n));
+                        cd.lambda(), java.util.OptionalDouble.of(err[c] / n)));
                 if (err[c] < err[best]) {
                     best = c;
                 }

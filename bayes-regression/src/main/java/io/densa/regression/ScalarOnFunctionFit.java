@@ -55,8 +55,11 @@ public final class ScalarOnFunctionFit {
         return res.candidates();
     }
 
-    /** Cross-validated mean squared prediction error of the chosen tuning (NaN without CV). */
-    public double crossValidatedError() {
+    /**
+     * Cross-validated mean squared prediction error (1/n) Σ_i (y_i − ŷ_i^(−fold(i)))² of the chosen
+     * tuning; empty when a single candidate was fitted without cross-validation.
+     */
+    public java.util.OptionalDouble crossValidatedError() {
         return res.chosen().cvError();
     }
 
