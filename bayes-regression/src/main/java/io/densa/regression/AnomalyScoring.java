@@ -89,7 +89,7 @@ public final class AnomalyScoring {
         if (calibrationResiduals.size() < 1) {
             throw new IllegalArgumentException("calibration set is empty");
         }
-        double[] g = Linear.grid(grid, "grid");
+        double[] g = Linear.grid(calibrationResiduals.space(), grid, "grid");
         for (int i = 1; i < g.length; i++) {
             if (!(g[i] > g[i - 1])) {
                 throw new IllegalArgumentException("grid must be strictly increasing; grid[" + i + "] = " + g[i]

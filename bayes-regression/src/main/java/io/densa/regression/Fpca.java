@@ -172,7 +172,7 @@ public final class Fpca {
 
     /** The clr function ξ_j(t) = Σ_k v_kj e_k(t) of component j at the given points. */
     public double[] componentClr(int j, double... xs) {
-        return Linear.clrAt(space, componentCoordinates(j), Linear.grid(xs, "points"));
+        return Linear.clrAt(space, componentCoordinates(j), Linear.grid(space, xs, "points"));
     }
 
     /** K × m matrix of the first m eigenvectors (row-major; fresh). */

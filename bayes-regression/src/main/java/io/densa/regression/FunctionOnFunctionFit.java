@@ -105,8 +105,8 @@ public final class FunctionOnFunctionFit {
      */
     public DMatrixRMaj kernel(int j, double[] s, double[] t) {
         DMatrixRMaj g = kernelCoefficients(j);
-        DMatrixRMaj es = predictorSpaces.get(j).basisMatrix(Linear.grid(s, "s"));
-        DMatrixRMaj et = space.basisMatrix(Linear.grid(t, "t"));
+        DMatrixRMaj es = predictorSpaces.get(j).basisMatrix(Linear.grid(predictorSpaces.get(j), s, "s"));
+        DMatrixRMaj et = space.basisMatrix(Linear.grid(space, t, "t"));
         double[] left = Linear.mult(es.data, s.length, g.numRows, g.data, k);
         DMatrixRMaj out = new DMatrixRMaj(s.length, t.length);
         org.ejml.dense.row.CommonOps_DDRM.multTransB(DMatrixRMaj.wrap(s.length, k, left), et, out);

@@ -196,7 +196,7 @@ public final class FunctionOnScalarFit {
     /** clr β_j at the given points. */
     public double[] coefficientClr(String column, double... xs) {
         int j = design.columnIndex(column);
-        return Linear.clrAt(space, Arrays.copyOfRange(coef, j * k, (j + 1) * k), Linear.grid(xs, "points"));
+        return Linear.clrAt(space, Arrays.copyOfRange(coef, j * k, (j + 1) * k), Linear.grid(space, xs, "points"));
     }
 
     /** Fitted densities ŷ_i = ⊕_j x_ij ⊙ β_j (ids kept). */
@@ -360,7 +360,7 @@ public final class FunctionOnScalarFit {
     public List<CoefficientBand> bootstrapBands(double[] grid, int replicates, double level, long seed,
             ProgressListener listener) {
         Objects.requireNonNull(listener, "listener");
-        double[] g = Linear.grid(grid, "grid");
+        double[] g = Linear.grid(space, grid, "grid");
         if (replicates < 20) {
             throw new IllegalArgumentException("need at least 20 bootstrap replicates, got " + replicates);
         }

@@ -218,6 +218,21 @@ final class Linear {
         return xs.clone();
     }
 
+    /**
+     * Copies of evaluation points, each checked to be finite and inside the space's domain
+     * (naming the offending index).
+     */
+    static double[] grid(BayesSpace space, double[] xs, String name) {
+        double[] g = grid(xs, name);
+        for (int i = 0; i < g.length; i++) {
+            if (!(g[i] >= space.lower() && g[i] <= space.upper())) {
+                throw new IllegalArgumentException(name + "[" + i + "] = " + g[i] + " is outside the domain ["
+                        + space.lower() + ", " + space.upper() + "]; evaluation points must lie in the domain");
+            }
+        }
+        return g;
+    }
+
     /** Requires two spaces to be equal, naming both. */
     static void sameSpace(BayesSpace expected, BayesSpace got, String what) {
         if (!expected.equals(got)) {

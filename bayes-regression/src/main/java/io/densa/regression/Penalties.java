@@ -128,7 +128,8 @@ public final class Penalties {
             for (int j = 0; j < np; j++) {
                 xs[j] = j == 0 ? lo : j == degree ? hi : mid + half * cheb[j];
             }
-            // differentiation matrix on the actual points: D_ij = (w_j / w_i) / (x_i − x_j), D_ii = −Σ_{j≠i} D_ij
+            // differentiation matrix on the actual points:
+            // D_ij = (w_j / w_i) / (x_i − x_j), D_ii = −Σ_{j≠i} D_ij
             for (int i = 0; i < np; i++) {
                 double diag = 0;
                 for (int j = 0; j < np; j++) {

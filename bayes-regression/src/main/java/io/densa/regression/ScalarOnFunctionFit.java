@@ -79,7 +79,9 @@ public final class ScalarOnFunctionFit {
 
     /** clr β_j at the given points. */
     public double[] coefficientClr(int j, double... xs) {
-        return Linear.clrAt(predictorSpaces.get(j), coefficientFunction(j).coordinates(), Linear.grid(xs, "points"));
+        double[] c = coefficientFunction(j).coordinates(); // checks j
+        BayesSpace s = predictorSpaces.get(j);
+        return Linear.clrAt(s, c, Linear.grid(s, xs, "points"));
     }
 
     /** Fitted values (fresh). */

@@ -426,6 +426,13 @@ class FunctionOnScalarTest {
         e = assertThrows(IllegalArgumentException.class, () -> s.design.value(0, cols));
         assertTrue(e.getMessage().matches("design entry \\(0, 4\\) outside the 20 x 4 design.*"), e.getMessage());
         assertThrows(IllegalArgumentException.class, () -> s.design.value(20, 0));
+        // evaluation points outside the domain are named by index
+        e = assertThrows(IllegalArgumentException.class,
+                () -> fit.bootstrapBands(new double[] {0.2, 1.5}, 20, 0.9, 1));
+        assertTrue(e.getMessage().matches("grid\\[1\\] = 1\\.5 is outside the domain \\[0\\.0, 1\\.0\\].*"),
+                e.getMessage());
+        e = assertThrows(IllegalArgumentException.class, () -> fit.coefficientClr("dose", Double.NaN));
+        assertTrue(e.getMessage().matches("points\\[0\\] is not finite: NaN"), e.getMessage());
         // a semi-definite one (rank 1) is accepted
         DMatrixRMaj rankOne = new DMatrixRMaj(k, k);
         rankOne.set(2, 2, 1.0);
