@@ -326,6 +326,25 @@ class FunctionOnFunctionTest {
                 () -> FunctionalRegression.truncation().fitDensityResponse(List.of(small[0]), null, small[1]));
         assertTrue(e.getMessage().matches(".*8 observations .* need more observations than parameters.*"),
                 e.getMessage());
+        // rank-deficient truncated designs name the offending columns: a duplicated predictor, and a
+        // predictor whose coordinates span only 2 directions (components 3 and 4 have no variance)
+        e = assertThrows(IllegalArgumentException.class,
+                () -> cfg.fitDensityResponse(List.of(d[0], d[0]), null, d[1]));
+        assertTrue(e.getMessage().matches(".*column\\(s\\) \\[predictor 1 component 1, predictor 1 component 2,"
+                + " predictor 1 component 3, predictor 1 component 4\\] have no variance or are linear combinations.*"),
+                e.getMessage());
+        double[][] flat = new double[50][kx];
+        Random rf = new Random(16);
+        for (int i = 0; i < 50; i++) {
+            flat[i][0] = rf.nextGaussian();
+            flat[i][1] = rf.nextGaussian();
+        }
+        e = assertThrows(IllegalArgumentException.class,
+                () -> cfg.fitDensityResponse(List.of(DensitySet.of(xSpace, flat)), null, d[1]));
+        assertTrue(e.getMessage().matches(".*\\[predictor 0 component 3, predictor 0 component 4\\] have no variance.*"
+                + "lower the component range.*"), e.getMessage());
+        // ridge handles collinear predictors
+        FunctionalRegression.ridge().withLambdas(0.1).fitDensityResponse(List.of(d[0], d[0]), null, d[1]);
         // design without intercept, NaN scalar response
         Design noInt = Design.builder().withoutIntercept().numeric("u", new double[50]).build();
         e = assertThrows(IllegalArgumentException.class, () -> cfg.fitDensityResponse(List.of(d[0]), noInt, d[1]));
