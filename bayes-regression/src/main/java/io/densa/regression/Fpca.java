@@ -350,8 +350,38 @@ public final class Fpca {
      * @param meanError  mean held-out squared B2 reconstruction error for m = 0..maxM (index m)
      * @param folds      number of folds
      * @param seed       seed of the fold assignment
+     *
+     * <p>A value: the error array is copied in and out, and {@code equals} compares its contents.
      */
     public record ComponentChoice(int components, double[] meanError, int folds, long seed) {
+        /** Canonical constructor: copies the error array. */
+        public ComponentChoice {
+            meanError = meanError.clone();
+        }
+
+        /** Mean held-out squared errors for m = 0..maxM (fresh). */
+        @Override
+        public double[] meanError() {
+            return meanError.clone();
+        }
+
+        /** Equal fields and error contents. */
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof ComponentChoice c && components == c.components && folds == c.folds && seed == c.seed
+                    && java.util.Arrays.equals(meanError, c.meanError);
+        }
+
+        @Override
+        public int hashCode() {
+            return java.util.Objects.hash(components, folds, seed, java.util.Arrays.hashCode(meanError));
+        }
+
+        @Override
+        public String toString() {
+            return "ComponentChoice[components=" + components + ", meanError=" + java.util.Arrays.toString(meanError)
+                    + ", folds=" + folds + ", seed=" + seed + "]";
+        }
     }
 
     @Override

@@ -323,10 +323,93 @@ public final class FunctionOnScalarFit {
      * @param simultaneousUpper   simultaneous upper limit β̂ + c·sd
      * @param standardError       bootstrap standard deviation sd(t)
      * @param simultaneousCritical the critical value c (level-quantile of max_t |β* − β̂| / sd)
+     *
+     * <p>A value: arrays are copied in and out, and {@code equals} compares their contents.
      */
     public record CoefficientBand(String column, double[] grid, double[] estimate, double[] pointwiseLower,
             double[] pointwiseUpper, double[] simultaneousLower, double[] simultaneousUpper, double[] standardError,
             double simultaneousCritical) {
+        /** Canonical constructor: copies the arrays, which must all have the grid's length. */
+        public CoefficientBand {
+            Objects.requireNonNull(column, "column");
+            grid = grid.clone();
+            estimate = estimate.clone();
+            pointwiseLower = pointwiseLower.clone();
+            pointwiseUpper = pointwiseUpper.clone();
+            simultaneousLower = simultaneousLower.clone();
+            simultaneousUpper = simultaneousUpper.clone();
+            standardError = standardError.clone();
+            int m = grid.length;
+            if (estimate.length != m || pointwiseLower.length != m || pointwiseUpper.length != m
+                    || simultaneousLower.length != m || simultaneousUpper.length != m || standardError.length != m) {
+                throw new IllegalArgumentException("every band array must have the grid's " + m + " points");
+            }
+        }
+
+        /** The evaluation points (fresh). */
+        @Override
+        public double[] grid() {
+            return grid.clone();
+        }
+
+        /** clr β̂_j on the grid (fresh). */
+        @Override
+        public double[] estimate() {
+            return estimate.clone();
+        }
+
+        /** Pointwise lower limit (fresh). */
+        @Override
+        public double[] pointwiseLower() {
+            return pointwiseLower.clone();
+        }
+
+        /** Pointwise upper limit (fresh). */
+        @Override
+        public double[] pointwiseUpper() {
+            return pointwiseUpper.clone();
+        }
+
+        /** Simultaneous lower limit (fresh). */
+        @Override
+        public double[] simultaneousLower() {
+            return simultaneousLower.clone();
+        }
+
+        /** Simultaneous upper limit (fresh). */
+        @Override
+        public double[] simultaneousUpper() {
+            return simultaneousUpper.clone();
+        }
+
+        /** Bootstrap standard deviation (fresh). */
+        @Override
+        public double[] standardError() {
+            return standardError.clone();
+        }
+
+        /** Equal column, critical value and array contents ({@link Arrays#equals(double[], double[])}). */
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof CoefficientBand b && column.equals(b.column)
+                    && Double.compare(simultaneousCritical, b.simultaneousCritical) == 0
+                    && Arrays.equals(grid, b.grid) && Arrays.equals(estimate, b.estimate)
+                    && Arrays.equals(pointwiseLower, b.pointwiseLower) && Arrays.equals(pointwiseUpper, b.pointwiseUpper)
+                    && Arrays.equals(simultaneousLower, b.simultaneousLower)
+                    && Arrays.equals(simultaneousUpper, b.simultaneousUpper)
+                    && Arrays.equals(standardError, b.standardError);
+        }
+
+        @Override
+        public int hashCode() {
+            return Objects.hash(column, simultaneousCritical, Arrays.hashCode(grid), Arrays.hashCode(estimate),
+                    Arrays.hashCode(pointwiseLower), Arrays.hashCode(pointwiseUpper));
+        }
+
+        @Override
+        public String toString() {
+            return "CoefficientBand[" + column + ", " + grid.length + " points, c=" + simultaneousCritical + "]";
+        }
     }
 
     /**
