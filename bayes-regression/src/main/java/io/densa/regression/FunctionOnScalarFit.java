@@ -421,7 +421,9 @@ public final class FunctionOnScalarFit {
      * the {@code level}-quantile of max_t |β*(t) − β̂(t)| / sd*(t) over replicates (a
      * studentised sup-band; Efron and Tibshirani (1993), An Introduction to the Bootstrap, for
      * the residual bootstrap and basic limits [from memory]). Residuals are not inflated for
-     * leverage, so bands are slightly narrow when p is large relative to n.
+     * leverage, so bands are slightly narrow when p is large relative to n. With a penalty the
+     * refit shrinks the fitted values once more, so β* − β̂ = [S(XᵀWŶ) − β̂] + S(XᵀW r*) (S the
+     * penalised solve) carries that deterministic shift, and the basic limits correct for it.
      *
      * @param grid       evaluation points in the domain
      * @param replicates number of bootstrap replicates, ≥ 20
@@ -463,6 +465,22 @@ public final class FunctionOnScalarFit {
         }
         SplittableRandom rnd = new SplittableRandom(seed);
         double[] x = design.internal();
+        // β* − β̂ = [S(XᵀWŶ) − β̂] + S(XᵀW r*) with S the (penalised) solve: the first term is zero
+        // without penalty and the shrinkage of the refit on the fitted values with one
+        double[] shift = new double[p * m];
+        if (u != null) {
+            double[] xw = x.clone();
+            for (int i = 0; i < n; i++) {
+                for (int j = 0; j < p; j++) {
+                    xw[i * p + j] *= w(i);
+                }
+            }
+            double[] refit = solve(Linear.multTransA(xw, n, p, fitted, k), p, k, u, inverses);
+            for (int i = 0; i < refit.length; i++) {
+                refit[i] -= coef[i];
+            }
+            shift = Linear.mult(refit, p, k, et, m);
+        }
         double[] rhs = new double[p * k];
         for (int b = 0; b < replicates; b++) {
             Arrays.fill(rhs, 0.0);
@@ -481,7 +499,11 @@ public final class FunctionOnScalarFit {
                 }
             }
             double[] db = solve(rhs, p, k, u, inverses);
-            deltas[b] = Linear.mult(db, p, k, et, m);
+            double[] dg = Linear.mult(db, p, k, et, m);
+            for (int q = 0; q < dg.length; q++) {
+                dg[q] += shift[q];
+            }
+            deltas[b] = dg;
             listener.progress("bootstrap", b + 1, replicates);
         }
         List<CoefficientBand> out = new ArrayList<>();
