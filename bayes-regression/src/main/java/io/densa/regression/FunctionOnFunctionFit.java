@@ -134,7 +134,10 @@ public final class FunctionOnFunctionFit {
         return FunctionOnScalarFit.norms(res.residuals(), response.size(), k);
     }
 
-    /** Functional R² = 1 − Σ ‖Y_i ⊖ Ŷ_i‖² / Σ ‖Y_i ⊖ Ȳ‖² on the training data. */
+    /**
+     * Functional R² = 1 − Σ ‖Y_i ⊖ Ŷ_i‖² / Σ ‖Y_i ⊖ Ȳ‖² on the training data (0 when every
+     * response equals the ⊕-mean Ȳ).
+     */
     public double rSquared() {
         return res.rSquared();
     }

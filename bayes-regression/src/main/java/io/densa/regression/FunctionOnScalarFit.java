@@ -215,7 +215,10 @@ public final class FunctionOnScalarFit {
     }
 
     /**
-     * Functional R² = 1 − Σ w_i ‖y_i ⊖ ŷ_i‖² / Σ w_i ‖y_i ⊖ ȳ_w‖², ȳ_w the weighted ⊕-mean.
+     * Functional R² = 1 − Σ w_i ‖y_i ⊖ ŷ_i‖² / Σ w_i ‖y_i ⊖ ȳ_w‖², ȳ_w the weighted ⊕-mean
+     * (Talská et al. (2018), Compositional regression with functional response, Comput. Stat.
+     * Data Anal. 123). Reported as 0 when every response equals ȳ_w (nothing to explain). With a
+     * penalty or without an intercept it can be negative.
      */
     public double rSquared() {
         return rSquared;

@@ -94,7 +94,9 @@ public final class ScalarOnFunctionFit {
         return res.residuals().clone();
     }
 
-    /** R² = 1 − RSS / TSS on the training data. */
+    /**
+     * R² = 1 − Σ (y_i − ŷ_i)² / Σ (y_i − ȳ)² on the training data (0 for a constant response).
+     */
     public double rSquared() {
         return res.rSquared();
     }
