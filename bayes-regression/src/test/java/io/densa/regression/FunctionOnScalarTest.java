@@ -497,6 +497,17 @@ class FunctionOnScalarTest {
                 e.getMessage());
         e = assertThrows(IllegalArgumentException.class, () -> fit.coefficientClr("dose", Double.NaN));
         assertTrue(e.getMessage().matches("points\\[0\\] is not finite: NaN"), e.getMessage());
+        // empty subsets, null levels and null rows are named
+        e = assertThrows(IllegalArgumentException.class, () -> s.design.subset());
+        assertTrue(e.getMessage().matches("a design subset needs at least one row.*"), e.getMessage());
+        e = assertThrows(IllegalArgumentException.class, () -> s.design.subset(3, 20));
+        assertTrue(e.getMessage().matches("row 20 outside \\[0, 20\\)"), e.getMessage());
+        e = assertThrows(IllegalArgumentException.class,
+                () -> Design.builder().categorical("g", new String[] {"a", "b"}, "a", "a", null, "b"));
+        assertTrue(e.getMessage().matches("covariate 'g': level 1 is null.*"), e.getMessage());
+        e = assertThrows(IllegalArgumentException.class,
+                () -> Design.builder().categorical("g", new String[] {"a", null}, "a"));
+        assertTrue(e.getMessage().matches("covariate 'g' row 1 is null; every row needs a level.*"), e.getMessage());
         // a semi-definite one (rank 1) is accepted
         DMatrixRMaj rankOne = new DMatrixRMaj(k, k);
         rankOne.set(2, 2, 1.0);
