@@ -36,9 +36,11 @@ public final class FunctionOnScalarFit {
     private final double[] fitted;     // n × K
     private final double[] resid;      // n × K
     private final double rSquared;
+    private final double effectiveParameters;
 
     private FunctionOnScalarFit(FunctionOnScalarRegression config, Design design, DensitySet response,
-            double[] weights, double[] u, double[][] inverses, double[] coef) {
+            double[] weights, double[] u, double[][] inverses, double[] coef, double effectiveParameters) {
+        this.effectiveParameters = effectiveParameters;
         this.config = config;
         this.design = design;
         this.response = response;
@@ -118,7 +120,18 @@ public final class FunctionOnScalarFit {
         }
         double[] xtwc = Linear.multTransA(xw, n, p, response.coordinatesRowMajor(), k);
         double[] coef = solve(xtwc, p, k, u, inv);
-        return new FunctionOnScalarFit(cfg, design, response, w, u, inv, coef);
+        // effective number of parameters: mean over the K penalty directions of tr H_l,
+        // H_l = X (XᵀWX + λ Λ_l D)⁻¹ XᵀW, so tr H_l = tr((XᵀWX + λ Λ_l D)⁻¹ XᵀWX)
+        double edf = 0;
+        for (double[] a : inv) {
+            for (int i = 0; i < p; i++) {
+                for (int j = 0; j < p; j++) {
+                    edf += a[i * p + j] * xtwx[j * p + i];
+                }
+            }
+        }
+        edf /= inv.length;
+        return new FunctionOnScalarFit(cfg, design, response, w, u, inv, coef, edf);
     }
 
     /** B = the solution of the (penalised) normal equations with right-hand side XᵀWC (p × K). */
@@ -242,19 +255,27 @@ public final class FunctionOnScalarFit {
      *
      * @param observations       n
      * @param parameters         p (design columns)
-     * @param residualDf         n − p
+     * @param residualDf         n − p (the unpenalised count; see effectiveParameters)
      * @param residualSumOfSquares Σ w_i ‖y_i ⊖ ŷ_i‖²
      * @param rSquared           functional R²
      * @param lambda             penalty weight (0 without penalty)
      * @param weighted           whether observation weights were used
+     * @param effectiveParameters the effective number of parameters per coordinate,
+     *                           (1/K) Σ_l tr H_l with H_l = X (XᵀWX + λ Λ_l D)⁻¹ XᵀW the hat
+     *                           matrix of penalty direction l (Λ, D as in
+     *                           {@link FunctionOnScalarRegression}); p without penalty, smaller
+     *                           with one (Hastie and Tibshirani (1990), Generalized Additive
+     *                           Models, Chapman &amp; Hall, for tr H as degrees of freedom [from
+     *                           memory])
      */
     public record Diagnostics(int observations, int parameters, int residualDf, double residualSumOfSquares,
-            double rSquared, double lambda, boolean weighted) {
+            double rSquared, double lambda, boolean weighted, double effectiveParameters) {
     }
 
     /** Fit diagnostics as a record. */
     public Diagnostics diagnostics() {
-        return new Diagnostics(n, p, n - p, residualSumOfSquares(), rSquared, config.lambda(), weights != null);
+        return new Diagnostics(n, p, n - p, residualSumOfSquares(), rSquared, config.lambda(), weights != null,
+                effectiveParameters);
     }
 
     static String[] ids(DensitySet s) {

@@ -148,6 +148,54 @@ class FunctionOnScalarTest {
         }
     }
 
+    /**
+     * Effective number of parameters tr H: p without penalty; with the ridge penalty R = I every
+     * direction has the same hat matrix X (XᵀWX + λD)⁻¹ XᵀW, whose trace is computed here directly
+     * with EJML (inverse and products); with a roughness penalty it falls as λ grows.
+     */
+    @Test
+    void effectiveParametersAreTheTraceOfTheHatMatrix() {
+        Sim s = simulate(31, 50, 1.0, 0.5);
+        double[] w = new double[50];
+        for (int i = 0; i < 50; i++) {
+            w[i] = 1 + (i % 3);
+        }
+        int p = s.design.columns();
+        FunctionOnScalarFit ols = FunctionOnScalarRegression.withDefaults().fit(s.design, s.response, w);
+        assertEquals(p, ols.diagnostics().effectiveParameters(), 1e-10);
+        double lambda = 7.0;
+        FunctionOnScalarFit ridge = FunctionOnScalarRegression.withDefaults().withPenalty(lambda, Penalties.ridge(k))
+                .fit(s.design, s.response, w);
+        DMatrixRMaj x = s.design.matrix();
+        DMatrixRMaj xw = x.copy();
+        for (int i = 0; i < 50; i++) {
+            for (int j = 0; j < p; j++) {
+                xw.set(i, j, xw.get(i, j) * w[i]);
+            }
+        }
+        DMatrixRMaj a = new DMatrixRMaj(p, p);
+        org.ejml.dense.row.CommonOps_DDRM.multTransA(x, xw, a);
+        for (int j = 1; j < p; j++) {
+            a.add(j, j, lambda);
+        }
+        DMatrixRMaj ainv = new DMatrixRMaj(p, p);
+        assertTrue(org.ejml.dense.row.CommonOps_DDRM.invert(a, ainv));
+        DMatrixRMaj xa = new DMatrixRMaj(50, p);
+        org.ejml.dense.row.CommonOps_DDRM.mult(x, ainv, xa);
+        DMatrixRMaj hat = new DMatrixRMaj(50, 50);
+        org.ejml.dense.row.CommonOps_DDRM.multTransB(xa, xw, hat);
+        assertEquals(org.ejml.dense.row.CommonOps_DDRM.trace(hat), ridge.diagnostics().effectiveParameters(), 1e-10);
+        assertTrue(ridge.diagnostics().effectiveParameters() < p);
+        DMatrixRMaj rough = Penalties.secondDerivative(space);
+        double prev = p + 1e-9;
+        for (double l : new double[] {0, 1e-4, 1e-2, 1}) {
+            double edf = FunctionOnScalarRegression.withDefaults().withPenalty(l, rough).fit(s.design, s.response)
+                    .diagnostics().effectiveParameters();
+            assertTrue(edf < prev && edf >= 1 - 1e-9, "λ = " + l + ": " + edf);
+            prev = edf;
+        }
+    }
+
     /** A roughness penalty solves its normal equations XᵀX B + λ D B R = XᵀC (closed form). */
     @Test
     void roughnessPenaltySolvesItsNormalEquations() {
