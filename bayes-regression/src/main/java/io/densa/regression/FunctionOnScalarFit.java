@@ -89,37 +89,63 @@ public final class FunctionOnScalarFit {
         int p = design.columns();
         int k = response.dimension();
         double[] x = design.internal();
-        double[] xw = x.clone();
+        double[] c = response.coordinatesRowMajor();
+        // whitened system √W X, √W C, solved by QR (accuracy governed by cond(√W X), not its square)
+        double[] xs = x.clone();
+        double[] cs = c.clone();
         if (w != null) {
             for (int i = 0; i < n; i++) {
+                double s = Math.sqrt(w[i]);
                 for (int j = 0; j < p; j++) {
-                    xw[i * p + j] *= w[i];
+                    xs[i * p + j] *= s;
+                }
+                for (int l = 0; l < k; l++) {
+                    cs[i * k + l] *= s;
                 }
             }
         }
-        double[] xtwx = Linear.multTransA(xw, n, p, x, p);
+        double[] xtwx = Linear.multTransA(xs, n, p, xs, p);
         double lambda = cfg.lambda();
         double[] u = null;
         double[][] inv;
+        double[] coef;
+        String what = "function-on-scalar regression";
         if (lambda > 0) {
+            // column l of B U minimises ‖√W X b − (√W C U)_l‖² + λ Λ_l Σ_{j penalised} b_j²:
+            // least squares on the rows of √W X augmented by √(λ Λ_l) e_j for penalised j
             Linear.Eigen e = Linear.symmetricEigen(cfg.penalty().data, k);
             u = e.vectors();
             inv = new double[k][];
             boolean intercept = design.hasIntercept();
+            double[] ct = Linear.mult(cs, n, k, u, k);
+            double[] aug = new double[(n + p) * p];
+            double[] rhs = new double[n + p];
+            double[] bt = new double[p * k];
             for (int l = 0; l < k; l++) {
-                double[] a = xtwx.clone();
+                System.arraycopy(xs, 0, aug, 0, n * p);
+                java.util.Arrays.fill(aug, n * p, (n + p) * p, 0.0);
+                double root = Math.sqrt(lambda * e.values()[l]);
                 for (int j = 0; j < p; j++) {
                     if (!(intercept && j == 0)) {
-                        a[j * p + j] += lambda * e.values()[l];
+                        aug[(n + j) * p + j] = root;
                     }
                 }
-                inv[l] = Linear.inverseSpd(a, p, "function-on-scalar regression");
+                for (int i = 0; i < n; i++) {
+                    rhs[i] = ct[i * k + l];
+                }
+                java.util.Arrays.fill(rhs, n, n + p, 0.0);
+                Linear.LeastSquares ls = Linear.leastSquares(aug, n + p, p, rhs, 1, what);
+                inv[l] = ls.inverseGram();
+                for (int j = 0; j < p; j++) {
+                    bt[j * k + l] = ls.solution()[j];
+                }
             }
+            coef = Linear.multTransB(bt, p, k, u, k);
         } else {
-            inv = new double[][] {Linear.inverseSpd(xtwx, p, "function-on-scalar regression")};
+            Linear.LeastSquares ls = Linear.leastSquares(xs, n, p, cs, k, what);
+            inv = new double[][] {ls.inverseGram()};
+            coef = ls.solution();
         }
-        double[] xtwc = Linear.multTransA(xw, n, p, response.coordinatesRowMajor(), k);
-        double[] coef = solve(xtwc, p, k, u, inv);
         // effective number of parameters: mean over the K penalty directions of tr H_l,
         // H_l = X (XᵀWX + λ Λ_l D)⁻¹ XᵀW, so tr H_l = tr((XᵀWX + λ Λ_l D)⁻¹ XᵀWX)
         double edf = 0;

@@ -17,8 +17,11 @@ import org.ejml.data.DMatrixRMaj;
  *
  * <p>With λ = 0 this is B̂ = (XᵀWX)⁻¹ XᵀWC, per coordinate the (weighted) least-squares fit. With
  * λ &gt; 0 the normal equations XᵀWX B + λ D B R = XᵀWC (D the indicator of penalised columns)
- * are solved through R = U Λ Uᵀ: column l of B U solves (XᵀWX + λ Λ_l D) b̃_l = (XᵀWC U)_l. The
- * intercept is never penalised. {@link Penalties#secondDerivative} gives a roughness penalty
+ * decouple through R = U Λ Uᵀ: column l of B U solves (XᵀWX + λ Λ_l D) b̃_l = (XᵀWC U)_l. The
+ * intercept is never penalised. Both are computed by Householder QR of the whitened design √W X
+ * (augmented by the rows √(λ Λ_l) e_jᵀ of the penalised columns), never by forming XᵀWX, so the
+ * accuracy depends on cond(√W X) rather than its square (Golub and Van Loan (2013), Matrix
+ * Computations, 4th ed., §5.3). {@link Penalties#secondDerivative} gives a roughness penalty
  * ∫ (β'')², {@link Penalties#ridge} the B2 norm.
  *
  * <p>Weights are population sizes or inverse estimation variances (larger = more reliable);
