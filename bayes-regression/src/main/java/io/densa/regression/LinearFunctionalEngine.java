@@ -55,8 +55,11 @@ final class LinearFunctionalEngine {
                 System.arraycopy(y, i * r, z, i * w + pz, r);
             }
         });
+        // every column but the intercept (column 0; the design always has one) is shifted by its
+        // mean before the cross products are accumulated, so a covariate like a calendar year does
+        // not square its offset into the normal equations
         boolean[] centre = new boolean[w];
-        for (int j = q; j < w; j++) {
+        for (int j = 1; j < w; j++) {
             centre[j] = true;
         }
         int folds = cfg.folds();
@@ -102,11 +105,11 @@ final class LinearFunctionalEngine {
             scored.add(chosen);
         }
         double[] beta = all.solve(chosen);
-        // back to original units: ŷ = shift_y + dᵀβ_d + Σ (x − shift_x)ᵀ G
-        int ic = design.hasIntercept() ? 0 : -1;
+        // back to original units: ŷ = shift_y + β_0 + Σ_{j ≥ 1} (z_j − shift_j) β_j
+        int ic = 0;
         for (int c = 0; c < r; c++) {
             double adj = mom.shift[pz + c];
-            for (int j = q; j < pz; j++) {
+            for (int j = 1; j < pz; j++) {
                 adj -= mom.shift[j] * beta[j * r + c];
             }
             beta[ic * r + c] += adj;

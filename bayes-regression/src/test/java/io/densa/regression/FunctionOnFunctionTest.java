@@ -234,6 +234,50 @@ class FunctionOnFunctionTest {
         assertTrue(res.get(10).equalsWithin(fit.residuals().get(10), 1e-12));
     }
 
+    /**
+     * A year-like covariate (offset 10⁴, spread 1) with a density predictor: with all components
+     * kept, truncation is OLS of each response coordinate on [1, year, predictor coordinates];
+     * the coefficients must match Commons Math {@code OLSMultipleLinearRegression} (QR) to 1e-8
+     * relative although cond(XᵀX) ≈ 10¹⁰.
+     */
+    @Test
+    void illConditionedCovariateMatchesCommonsMathOls() {
+        int n = 200;
+        DensitySet[] d = simulate(41, n, 0.5);
+        Random r = new Random(42);
+        double[] year = new double[n];
+        double[][] y = d[1].coordinates();
+        for (int i = 0; i < n; i++) {
+            year[i] = 1e4 + r.nextDouble();
+            for (int m = 0; m < ky; m++) {
+                y[i][m] += 0.5 * (year[i] - 1e4);
+            }
+        }
+        Design cov = Design.builder().numeric("year", year).build();
+        FunctionOnFunctionFit fit = FunctionalRegression.truncation().withComponents(kx, kx)
+                .fitDensityResponse(List.of(d[0]), cov, DensitySet.of(ySpace, y));
+        double[][] x = d[0].coordinates();
+        double[][] xa = new double[n][kx + 1];
+        for (int i = 0; i < n; i++) {
+            xa[i][0] = year[i];
+            System.arraycopy(x[i], 0, xa[i], 1, kx);
+        }
+        for (int m = 0; m < ky; m++) {
+            double[] ym = new double[n];
+            for (int i = 0; i < n; i++) {
+                ym[i] = y[i][m];
+            }
+            OLSMultipleLinearRegression ols = new OLSMultipleLinearRegression();
+            ols.newSampleData(ym, xa);
+            double[] b = ols.estimateRegressionParameters();
+            assertEquals(b[0], fit.coefficient("intercept").coordinate(m), 1e-8 * Math.abs(b[0]));
+            assertEquals(b[1], fit.coefficient("year").coordinate(m), 1e-8 * Math.abs(b[1]));
+            for (int l = 0; l < kx; l++) {
+                assertEquals(b[l + 2], fit.kernelCoefficients(0).get(l, m), 1e-8 * (1 + Math.abs(b[l + 2])));
+            }
+        }
+    }
+
     /** Scalar-on-function: with m = K the coefficients equal Commons Math OLS; CV error is reported. */
     @Test
     void scalarOnFunctionRegression() {
