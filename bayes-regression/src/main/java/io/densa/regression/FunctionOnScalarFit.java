@@ -111,30 +111,30 @@ public final class FunctionOnScalarFit {
         double[] coef;
         String what = "function-on-scalar regression";
         if (lambda > 0) {
-            // column l of B U minimises ‖√W X b − (√W C U)_l‖² + λ Λ_l Σ_{j penalised} b_j²:
-            // least squares on the rows of √W X augmented by √(λ Λ_l) e_j for penalised j
+            // column l of B U minimises ‖√W X b − (√W C U)_l‖² + λ Λ_l Σ_{j penalised} b_j²; with
+            // √W X = Q R this is ‖R b − (Qᵀ√W C U)_l‖² + ‖√(λ Λ_l) D b‖² + const: a 2p × p least-squares
+            // problem per direction l after one QR of the data
             Linear.Eigen e = Linear.symmetricEigen(cfg.penalty().data, k);
             u = e.vectors();
             inv = new double[k][];
             boolean intercept = design.hasIntercept();
-            double[] ct = Linear.mult(cs, n, k, u, k);
-            double[] aug = new double[(n + p) * p];
-            double[] rhs = new double[n + p];
+            Linear.Reduced red = Linear.reduce(xs, n, p, cs, k, what);
+            double[] qtcu = Linear.mult(red.qtb(), p, k, u, k); // (Qᵀ√W C) U, p × K
+            double[] aug = new double[2 * p * p];
+            double[] rhs = new double[2 * p];
             double[] bt = new double[p * k];
             for (int l = 0; l < k; l++) {
-                System.arraycopy(xs, 0, aug, 0, n * p);
-                java.util.Arrays.fill(aug, n * p, (n + p) * p, 0.0);
+                System.arraycopy(red.r(), 0, aug, 0, p * p);
+                java.util.Arrays.fill(aug, p * p, 2 * p * p, 0.0);
                 double root = Math.sqrt(lambda * e.values()[l]);
                 for (int j = 0; j < p; j++) {
                     if (!(intercept && j == 0)) {
-                        aug[(n + j) * p + j] = root;
+                        aug[(p + j) * p + j] = root;
                     }
+                    rhs[j] = qtcu[j * k + l];
+                    rhs[p + j] = 0.0;
                 }
-                for (int i = 0; i < n; i++) {
-                    rhs[i] = ct[i * k + l];
-                }
-                java.util.Arrays.fill(rhs, n, n + p, 0.0);
-                Linear.LeastSquares ls = Linear.leastSquares(aug, n + p, p, rhs, 1, what);
+                Linear.LeastSquares ls = Linear.leastSquares(aug, 2 * p, p, rhs, 1, what);
                 inv[l] = ls.inverseGram();
                 for (int j = 0; j < p; j++) {
                     bt[j * k + l] = ls.solution()[j];

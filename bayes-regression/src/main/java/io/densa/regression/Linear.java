@@ -178,12 +178,32 @@ final class Linear {
      *                        largest, the QR analogue of the pivot test of {@link #solveSpd})
      */
     static LeastSquares leastSquares(double[] a, int rows, int p, double[] b, int r, String what) {
+        Reduced red = reduce(a, rows, p, b, r, what);
+        return triangularSolve(red.r(), p, red.qtb(), r, rows, what);
+    }
+
+    /**
+     * A least-squares problem reduced by QR: ‖A X − B‖² = ‖R X − QᵀB‖² + const.
+     *
+     * @param r   p × p upper triangular factor
+     * @param qtb QᵀB, p × r
+     */
+    record Reduced(double[] r, double[] qtb) {
+    }
+
+    /** Householder QR of A (rows × p, not modified) and QᵀB (B rows × r, not modified). */
+    static Reduced reduce(double[] a, int rows, int p, double[] b, int r, String what) {
         QRDecomposition<DMatrixRMaj> qr = DecompositionFactory_DDRM.qr(rows, p);
         if (!qr.decompose(DMatrixRMaj.wrap(rows, p, a.clone()))) {
             throw new DensaException(what + ": QR decomposition of the " + rows + " x " + p + " system failed",
                     new SolveDiagnostics(what, p, Double.NaN));
         }
-        double[] rr = qr.getR(null, true).data; // p × p upper triangular
+        double[] q = qr.getQ(null, true).data; // rows × p
+        return new Reduced(qr.getR(null, true).data, multTransA(q, rows, p, b, r));
+    }
+
+    /** X = R⁻¹ QᵀB and R⁻¹R⁻ᵀ from an upper triangular R, with the rank test of {@link #leastSquares}. */
+    private static LeastSquares triangularSolve(double[] rr, int p, double[] qtb, int r, int rows, String what) {
         double lo = Double.POSITIVE_INFINITY;
         double hi = 0;
         for (int j = 0; j < p; j++) {
@@ -196,8 +216,7 @@ final class Linear {
             throw new DensaException(what + ": the " + rows + " x " + p + " system is numerically rank deficient"
                     + " (smallest |R_jj| / largest " + ratio + ")", new SolveDiagnostics(what, p, ratio * ratio));
         }
-        double[] q = qr.getQ(null, true).data; // rows × p
-        double[] x = multTransA(q, rows, p, b, r);
+        double[] x = qtb.clone();
         for (int c = 0; c < r; c++) {
             for (int i = p - 1; i >= 0; i--) {
                 double s = x[i * r + c];
