@@ -51,10 +51,10 @@ class AutocorrelationProgressTest {
 
     @Test
     void globalStatisticsReportEveryPermutationAndKeepTheirResults() {
-        // 30 x 30 rook lattice, 5,000 permutations: enough work for the parallel path.
-        SpatialWeights w = SpatialWeights.fromNeighbours(rookLattice(30, 30));
-        double[] x = field(900, 3);
-        int perms = 5000;
+        // 20 x 20 rook lattice, 1,000 permutations (16 blocks): enough work for the parallel path.
+        SpatialWeights w = SpatialWeights.fromNeighbours(rookLattice(20, 20));
+        double[] x = field(400, 3);
+        int perms = 1000;
         for (boolean parallel : new boolean[] {false, true}) {
             AutocorrelationOptions plain = AutocorrelationOptions.withDefaults().withPermutations(perms, 9)
                     .withParallel(parallel);
@@ -76,14 +76,14 @@ class AutocorrelationProgressTest {
 
     @Test
     void localMoranReportsEveryUnitAndKeepsItsResults() {
-        SpatialWeights w = SpatialWeights.fromNeighbours(rookLattice(30, 30));
-        double[] x = field(900, 4);
-        AutocorrelationOptions plain = AutocorrelationOptions.withDefaults().withPermutations(199, 5);
+        SpatialWeights w = SpatialWeights.fromNeighbours(rookLattice(20, 30));
+        double[] x = field(600, 4);
+        AutocorrelationOptions plain = AutocorrelationOptions.withDefaults().withPermutations(99, 5);
         Recorder rec = new Recorder();
         LocalMoran.Result a = LocalMoran.test(w, x, plain);
         LocalMoran.Result b = LocalMoran.test(w, x, plain.withProgressListener(rec));
         assertEquals(a, b);
-        rec.assertCompleteMonotone(900);
+        rec.assertCompleteMonotone(600); // 3 blocks of up to 256 units
         assertEquals("local Moran's I permutations", rec.tasks.get(0));
     }
 
