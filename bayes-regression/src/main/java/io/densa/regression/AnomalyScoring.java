@@ -89,7 +89,7 @@ public final class AnomalyScoring {
         if (calibrationResiduals.size() < 1) {
             throw new IllegalArgumentException("calibration set is empty");
         }
-        double[] g = Linear.grid(grid, "grid");
+        double[] g = Linear.grid(calibrationResiduals.space(), grid, "grid");
         for (int i = 1; i < g.length; i++) {
             if (!(g[i] > g[i - 1])) {
                 throw new IllegalArgumentException("grid must be strictly increasing; grid[" + i + "] = " + g[i]
@@ -121,6 +121,16 @@ public final class AnomalyScoring {
         EXCESS,
         /** Residual clr below the band: less mass than predicted. */
         DEFICIT
+    }
+
+    /**
+     * One grid point of the calibrated pointwise band of residual clr values.
+     *
+     * @param x     grid point
+     * @param lower lower band limit at x
+     * @param upper upper band limit at x
+     */
+    public record BandPoint(double x, double lower, double upper) {
     }
 
     /**
@@ -194,19 +204,18 @@ public final class AnomalyScoring {
             return sorted.length;
         }
 
-        /** The band grid (fresh). */
-        public double[] grid() {
-            return grid.clone();
-        }
-
-        /** Pointwise lower band limit on the grid (fresh). */
-        public double[] lowerBand() {
-            return lower.clone();
-        }
-
-        /** Pointwise upper band limit on the grid (fresh). */
-        public double[] upperBand() {
-            return upper.clone();
+        /**
+         * The pointwise band: for each grid point x, the (1 ∓ level)/2 quantiles (type 7, linear
+         * interpolation between order statistics) of the calibration residual clr values at x.
+         *
+         * @return one point per grid point, in grid order (unmodifiable)
+         */
+        public List<BandPoint> band() {
+            List<BandPoint> out = new ArrayList<>(grid.length);
+            for (int q = 0; q < grid.length; q++) {
+                out.add(new BandPoint(grid[q], lower[q], upper[q]));
+            }
+            return List.copyOf(out);
         }
 
         /**

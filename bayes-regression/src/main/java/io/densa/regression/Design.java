@@ -132,8 +132,16 @@ public final class Design {
         return DMatrixRMaj.wrap(n, p, x.clone());
     }
 
-    /** Value at row i, column j. */
+    /**
+     * Value at row i, column j.
+     *
+     * @throws IllegalArgumentException if i is outside [0, n) or j outside [0, p)
+     */
     public double value(int i, int j) {
+        if (i < 0 || i >= n || j < 0 || j >= p) {
+            throw new IllegalArgumentException("design entry (" + i + ", " + j + ") outside the " + n + " x " + p
+                    + " design (rows 0.." + (n - 1) + ", columns " + columnNames + ")");
+        }
         return x[i * p + j];
     }
 
@@ -141,8 +149,18 @@ public final class Design {
         return x;
     }
 
-    /** The rows at the given indices, in that order (a new design with the same columns). */
+    /**
+     * The rows at the given indices, in that order (a new design with the same columns).
+     *
+     * @param rowIdx at least one row index in [0, n); repeats allowed (not modified)
+     * @throws IllegalArgumentException on an empty selection or an index out of range
+     */
     public Design subset(int... rowIdx) {
+        Objects.requireNonNull(rowIdx, "rowIdx");
+        if (rowIdx.length == 0) {
+            throw new IllegalArgumentException("a design subset needs at least one row; give indices in [0, " + n
+                    + ")");
+        }
         double[] out = new double[rowIdx.length * p];
         for (int r = 0; r < rowIdx.length; r++) {
             if (rowIdx[r] < 0 || rowIdx[r] >= n) {
@@ -324,7 +342,8 @@ public final class Design {
             TreeSet<String> levels = new TreeSet<>();
             for (int i = 0; i < values.length; i++) {
                 if (values[i] == null) {
-                    throw new IllegalArgumentException("covariate '" + name + "' row " + i + " is null");
+                    throw new IllegalArgumentException("covariate '" + name + "' row " + i
+                            + " is null; every row needs a level (a non-null string)");
                 }
                 levels.add(values[i]);
             }
@@ -341,6 +360,13 @@ public final class Design {
             addName(name);
             Objects.requireNonNull(values, "values");
             Objects.requireNonNull(reference, "reference");
+            Objects.requireNonNull(levels, "levels");
+            for (int i = 0; i < levels.length; i++) {
+                if (levels[i] == null) {
+                    throw new IllegalArgumentException("covariate '" + name + "': level " + i
+                            + " is null; levels must be non-null strings");
+                }
+            }
             List<String> lv = new ArrayList<>(new LinkedHashSet<>(Arrays.asList(levels)));
             if (!lv.contains(reference)) {
                 throw new IllegalArgumentException("covariate '" + name + "': reference level '" + reference

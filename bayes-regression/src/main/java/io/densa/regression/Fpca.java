@@ -3,6 +3,7 @@ package io.densa.regression;
 import io.densa.core.BayesSpace;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
 import io.densa.core.internal.Kernels;
 import java.util.Objects;
 import org.ejml.data.DMatrixRMaj;
@@ -171,7 +172,7 @@ public final class Fpca {
 
     /** The clr function ξ_j(t) = Σ_k v_kj e_k(t) of component j at the given points. */
     public double[] componentClr(int j, double... xs) {
-        return Linear.clrAt(space, componentCoordinates(j), Linear.grid(xs, "points"));
+        return Linear.clrAt(space, componentCoordinates(j), Linear.grid(space, xs, "points"));
     }
 
     /** K × m matrix of the first m eigenvectors (row-major; fresh). */
@@ -275,7 +276,20 @@ public final class Fpca {
      * @param seed     seed of the random fold assignment
      */
     public static ComponentChoice crossValidate(DensitySet data, int maxM, double fraction, int folds, long seed) {
+        return crossValidate(data, maxM, fraction, folds, seed, ProgressListener.NONE);
+    }
+
+    /**
+     * {@link #crossValidate(DensitySet, int, double, int, long)} reporting progress to a listener:
+     * task {@code "cross-validation"}, one unit per fold, from the calling thread; the count
+     * reaches {@code folds}. The listener does not change the result.
+     *
+     * @param listener progress listener, or {@link ProgressListener#NONE}
+     */
+    public static ComponentChoice crossValidate(DensitySet data, int maxM, double fraction, int folds, long seed,
+            ProgressListener listener) {
         Objects.requireNonNull(data, "data");
+        Objects.requireNonNull(listener, "listener");
         int kk = data.dimension();
         if (maxM < 1 || maxM > kk) {
             throw new IllegalArgumentException("maxM must be in [1, K = " + kk + "], got " + maxM);
@@ -314,6 +328,7 @@ public final class Fpca {
                 explained += q;
                 err[m] += tr - explained;
             }
+            listener.progress("cross-validation", f + 1, folds);
         }
         for (int m = 0; m <= maxM; m++) {
             err[m] /= n;
@@ -335,8 +350,38 @@ public final class Fpca {
      * @param meanError  mean held-out squared B2 reconstruction error for m = 0..maxM (index m)
      * @param folds      number of folds
      * @param seed       seed of the fold assignment
+     *
+     * <p>A value: the error array is copied in and out, and {@code equals} compares its contents.
      */
     public record ComponentChoice(int components, double[] meanError, int folds, long seed) {
+        /** Canonical constructor: copies the error array. */
+        public ComponentChoice {
+            meanError = meanError.clone();
+        }
+
+        /** Mean held-out squared errors for m = 0..maxM (fresh). */
+        @Override
+        public double[] meanError() {
+            return meanError.clone();
+        }
+
+        /** Equal fields and error contents. */
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof ComponentChoice c && components == c.components && folds == c.folds && seed == c.seed
+                    && java.util.Arrays.equals(meanError, c.meanError);
+        }
+
+        @Override
+        public int hashCode() {
+            return java.util.Objects.hash(components, folds, seed, java.util.Arrays.hashCode(meanError));
+        }
+
+        @Override
+        public String toString() {
+            return "ComponentChoice[components=" + components + ", meanError=" + java.util.Arrays.toString(meanError)
+                    + ", folds=" + folds + ", seed=" + seed + "]";
+        }
     }
 
     @Override

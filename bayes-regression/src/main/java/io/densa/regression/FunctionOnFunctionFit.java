@@ -68,12 +68,14 @@ public final class FunctionOnFunctionFit {
     /**
      * FPCA of predictor j on the full data (truncation only).
      *
-     * @throws IllegalStateException for a ridge fit
+     * @throws IllegalStateException    for a ridge fit
+     * @throws IllegalArgumentException if j is not a predictor index
      */
     public Fpca predictorFpca(int j) {
         if (res.predictorFpca().isEmpty()) {
             throw new IllegalStateException("a ridge fit has no predictor FPCA");
         }
+        checkPredictor(j);
         return res.predictorFpca().get(j);
     }
 
@@ -103,8 +105,8 @@ public final class FunctionOnFunctionFit {
      */
     public DMatrixRMaj kernel(int j, double[] s, double[] t) {
         DMatrixRMaj g = kernelCoefficients(j);
-        DMatrixRMaj es = predictorSpaces.get(j).basisMatrix(Linear.grid(s, "s"));
-        DMatrixRMaj et = space.basisMatrix(Linear.grid(t, "t"));
+        DMatrixRMaj es = predictorSpaces.get(j).basisMatrix(Linear.grid(predictorSpaces.get(j), s, "s"));
+        DMatrixRMaj et = space.basisMatrix(Linear.grid(space, t, "t"));
         double[] left = Linear.mult(es.data, s.length, g.numRows, g.data, k);
         DMatrixRMaj out = new DMatrixRMaj(s.length, t.length);
         org.ejml.dense.row.CommonOps_DDRM.multTransB(DMatrixRMaj.wrap(s.length, k, left), et, out);
@@ -132,7 +134,10 @@ public final class FunctionOnFunctionFit {
         return FunctionOnScalarFit.norms(res.residuals(), response.size(), k);
     }
 
-    /** Functional R² = 1 − Σ ‖Y_i ⊖ Ŷ_i‖² / Σ ‖Y_i ⊖ Ȳ‖² on the training data. */
+    /**
+     * Functional R² = 1 − Σ ‖Y_i ⊖ Ŷ_i‖² / Σ ‖Y_i ⊖ Ȳ‖² on the training data (0 when every
+     * response equals the ⊕-mean Ȳ).
+     */
     public double rSquared() {
         return res.rSquared();
     }

@@ -3,6 +3,7 @@ package io.densa.regression;
 import io.densa.core.BayesSpace;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -35,9 +36,11 @@ public final class FunctionOnScalarFit {
     private final double[] fitted;     // n × K
     private final double[] resid;      // n × K
     private final double rSquared;
+    private final double effectiveParameters;
 
     private FunctionOnScalarFit(FunctionOnScalarRegression config, Design design, DensitySet response,
-            double[] weights, double[] u, double[][] inverses, double[] coef) {
+            double[] weights, double[] u, double[][] inverses, double[] coef, double effectiveParameters) {
+        this.effectiveParameters = effectiveParameters;
         this.config = config;
         this.design = design;
         this.response = response;
@@ -86,38 +89,75 @@ public final class FunctionOnScalarFit {
         int p = design.columns();
         int k = response.dimension();
         double[] x = design.internal();
-        double[] xw = x.clone();
+        double[] c = response.coordinatesRowMajor();
+        // whitened system √W X, √W C, solved by QR (accuracy governed by cond(√W X), not its square)
+        double[] xs = x.clone();
+        double[] cs = c.clone();
         if (w != null) {
             for (int i = 0; i < n; i++) {
+                double s = Math.sqrt(w[i]);
                 for (int j = 0; j < p; j++) {
-                    xw[i * p + j] *= w[i];
+                    xs[i * p + j] *= s;
+                }
+                for (int l = 0; l < k; l++) {
+                    cs[i * k + l] *= s;
                 }
             }
         }
-        double[] xtwx = Linear.multTransA(xw, n, p, x, p);
+        double[] xtwx = Linear.multTransA(xs, n, p, xs, p);
         double lambda = cfg.lambda();
         double[] u = null;
         double[][] inv;
+        double[] coef;
+        String what = "function-on-scalar regression";
         if (lambda > 0) {
+            // column l of B U minimises ‖√W X b − (√W C U)_l‖² + λ Λ_l Σ_{j penalised} b_j²; with
+            // √W X = Q R this is ‖R b − (Qᵀ√W C U)_l‖² + ‖√(λ Λ_l) D b‖² + const: a 2p × p least-squares
+            // problem per direction l after one QR of the data
             Linear.Eigen e = Linear.symmetricEigen(cfg.penalty().data, k);
             u = e.vectors();
             inv = new double[k][];
             boolean intercept = design.hasIntercept();
+            Linear.Reduced red = Linear.reduce(xs, n, p, cs, k, what);
+            double[] qtcu = Linear.mult(red.qtb(), p, k, u, k); // (Qᵀ√W C) U, p × K
+            double[] aug = new double[2 * p * p];
+            double[] rhs = new double[2 * p];
+            double[] bt = new double[p * k];
             for (int l = 0; l < k; l++) {
-                double[] a = xtwx.clone();
+                System.arraycopy(red.r(), 0, aug, 0, p * p);
+                java.util.Arrays.fill(aug, p * p, 2 * p * p, 0.0);
+                double root = Math.sqrt(lambda * e.values()[l]);
                 for (int j = 0; j < p; j++) {
                     if (!(intercept && j == 0)) {
-                        a[j * p + j] += lambda * e.values()[l];
+                        aug[(p + j) * p + j] = root;
                     }
+                    rhs[j] = qtcu[j * k + l];
+                    rhs[p + j] = 0.0;
                 }
-                inv[l] = Linear.inverseSpd(a, p, "function-on-scalar regression");
+                Linear.LeastSquares ls = Linear.leastSquares(aug, 2 * p, p, rhs, 1, what);
+                inv[l] = ls.inverseGram();
+                for (int j = 0; j < p; j++) {
+                    bt[j * k + l] = ls.solution()[j];
+                }
             }
+            coef = Linear.multTransB(bt, p, k, u, k);
         } else {
-            inv = new double[][] {Linear.inverseSpd(xtwx, p, "function-on-scalar regression")};
+            Linear.LeastSquares ls = Linear.leastSquares(xs, n, p, cs, k, what);
+            inv = new double[][] {ls.inverseGram()};
+            coef = ls.solution();
         }
-        double[] xtwc = Linear.multTransA(xw, n, p, response.coordinatesRowMajor(), k);
-        double[] coef = solve(xtwc, p, k, u, inv);
-        return new FunctionOnScalarFit(cfg, design, response, w, u, inv, coef);
+        // effective number of parameters: mean over the K penalty directions of tr H_l,
+        // H_l = X (XᵀWX + λ Λ_l D)⁻¹ XᵀW, so tr H_l = tr((XᵀWX + λ Λ_l D)⁻¹ XᵀWX)
+        double edf = 0;
+        for (double[] a : inv) {
+            for (int i = 0; i < p; i++) {
+                for (int j = 0; j < p; j++) {
+                    edf += a[i * p + j] * xtwx[j * p + i];
+                }
+            }
+        }
+        edf /= inv.length;
+        return new FunctionOnScalarFit(cfg, design, response, w, u, inv, coef, edf);
     }
 
     /** B = the solution of the (penalised) normal equations with right-hand side XᵀWC (p × K). */
@@ -195,7 +235,7 @@ public final class FunctionOnScalarFit {
     /** clr β_j at the given points. */
     public double[] coefficientClr(String column, double... xs) {
         int j = design.columnIndex(column);
-        return Linear.clrAt(space, Arrays.copyOfRange(coef, j * k, (j + 1) * k), Linear.grid(xs, "points"));
+        return Linear.clrAt(space, Arrays.copyOfRange(coef, j * k, (j + 1) * k), Linear.grid(space, xs, "points"));
     }
 
     /** Fitted densities ŷ_i = ⊕_j x_ij ⊙ β_j (ids kept). */
@@ -214,7 +254,10 @@ public final class FunctionOnScalarFit {
     }
 
     /**
-     * Functional R² = 1 − Σ w_i ‖y_i ⊖ ŷ_i‖² / Σ w_i ‖y_i ⊖ ȳ_w‖², ȳ_w the weighted ⊕-mean.
+     * Functional R² = 1 − Σ w_i ‖y_i ⊖ ŷ_i‖² / Σ w_i ‖y_i ⊖ ȳ_w‖², ȳ_w the weighted ⊕-mean
+     * (Talská et al. (2018), Compositional regression with functional response, Comput. Stat.
+     * Data Anal. 123). Reported as 0 when every response equals ȳ_w (nothing to explain). With a
+     * penalty or without an intercept it can be negative.
      */
     public double rSquared() {
         return rSquared;
@@ -238,19 +281,27 @@ public final class FunctionOnScalarFit {
      *
      * @param observations       n
      * @param parameters         p (design columns)
-     * @param residualDf         n − p
+     * @param residualDf         n − p (the unpenalised count; see effectiveParameters)
      * @param residualSumOfSquares Σ w_i ‖y_i ⊖ ŷ_i‖²
      * @param rSquared           functional R²
      * @param lambda             penalty weight (0 without penalty)
      * @param weighted           whether observation weights were used
+     * @param effectiveParameters the effective number of parameters per coordinate,
+     *                           (1/K) Σ_l tr H_l with H_l = X (XᵀWX + λ Λ_l D)⁻¹ XᵀW the hat
+     *                           matrix of penalty direction l (Λ, D as in
+     *                           {@link FunctionOnScalarRegression}); p without penalty, smaller
+     *                           with one (Hastie and Tibshirani (1990), Generalized Additive
+     *                           Models, Chapman &amp; Hall, for tr H as degrees of freedom [from
+     *                           memory])
      */
     public record Diagnostics(int observations, int parameters, int residualDf, double residualSumOfSquares,
-            double rSquared, double lambda, boolean weighted) {
+            double rSquared, double lambda, boolean weighted, double effectiveParameters) {
     }
 
     /** Fit diagnostics as a record. */
     public Diagnostics diagnostics() {
-        return new Diagnostics(n, p, n - p, residualSumOfSquares(), rSquared, config.lambda(), weights != null);
+        return new Diagnostics(n, p, n - p, residualSumOfSquares(), rSquared, config.lambda(), weights != null,
+                effectiveParameters);
     }
 
     static String[] ids(DensitySet s) {
@@ -322,10 +373,93 @@ public final class FunctionOnScalarFit {
      * @param simultaneousUpper   simultaneous upper limit β̂ + c·sd
      * @param standardError       bootstrap standard deviation sd(t)
      * @param simultaneousCritical the critical value c (level-quantile of max_t |β* − β̂| / sd)
+     *
+     * <p>A value: arrays are copied in and out, and {@code equals} compares their contents.
      */
     public record CoefficientBand(String column, double[] grid, double[] estimate, double[] pointwiseLower,
             double[] pointwiseUpper, double[] simultaneousLower, double[] simultaneousUpper, double[] standardError,
             double simultaneousCritical) {
+        /** Canonical constructor: copies the arrays, which must all have the grid's length. */
+        public CoefficientBand {
+            Objects.requireNonNull(column, "column");
+            grid = grid.clone();
+            estimate = estimate.clone();
+            pointwiseLower = pointwiseLower.clone();
+            pointwiseUpper = pointwiseUpper.clone();
+            simultaneousLower = simultaneousLower.clone();
+            simultaneousUpper = simultaneousUpper.clone();
+            standardError = standardError.clone();
+            int m = grid.length;
+            if (estimate.length != m || pointwiseLower.length != m || pointwiseUpper.length != m
+                    || simultaneousLower.length != m || simultaneousUpper.length != m || standardError.length != m) {
+                throw new IllegalArgumentException("every band array must have the grid's " + m + " points");
+            }
+        }
+
+        /** The evaluation points (fresh). */
+        @Override
+        public double[] grid() {
+            return grid.clone();
+        }
+
+        /** clr β̂_j on the grid (fresh). */
+        @Override
+        public double[] estimate() {
+            return estimate.clone();
+        }
+
+        /** Pointwise lower limit (fresh). */
+        @Override
+        public double[] pointwiseLower() {
+            return pointwiseLower.clone();
+        }
+
+        /** Pointwise upper limit (fresh). */
+        @Override
+        public double[] pointwiseUpper() {
+            return pointwiseUpper.clone();
+        }
+
+        /** Simultaneous lower limit (fresh). */
+        @Override
+        public double[] simultaneousLower() {
+            return simultaneousLower.clone();
+        }
+
+        /** Simultaneous upper limit (fresh). */
+        @Override
+        public double[] simultaneousUpper() {
+            return simultaneousUpper.clone();
+        }
+
+        /** Bootstrap standard deviation (fresh). */
+        @Override
+        public double[] standardError() {
+            return standardError.clone();
+        }
+
+        /** Equal column, critical value and array contents ({@link Arrays#equals(double[], double[])}). */
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof CoefficientBand b && column.equals(b.column)
+                    && Double.compare(simultaneousCritical, b.simultaneousCritical) == 0
+                    && Arrays.equals(grid, b.grid) && Arrays.equals(estimate, b.estimate)
+                    && Arrays.equals(pointwiseLower, b.pointwiseLower) && Arrays.equals(pointwiseUpper, b.pointwiseUpper)
+                    && Arrays.equals(simultaneousLower, b.simultaneousLower)
+                    && Arrays.equals(simultaneousUpper, b.simultaneousUpper)
+                    && Arrays.equals(standardError, b.standardError);
+        }
+
+        @Override
+        public int hashCode() {
+            return Objects.hash(column, simultaneousCritical, Arrays.hashCode(grid), Arrays.hashCode(estimate),
+                    Arrays.hashCode(pointwiseLower), Arrays.hashCode(pointwiseUpper));
+        }
+
+        @Override
+        public String toString() {
+            return "CoefficientBand[" + column + ", " + grid.length + " points, c=" + simultaneousCritical + "]";
+        }
     }
 
     /**
@@ -337,7 +471,9 @@ public final class FunctionOnScalarFit {
      * the {@code level}-quantile of max_t |β*(t) − β̂(t)| / sd*(t) over replicates (a
      * studentised sup-band; Efron and Tibshirani (1993), An Introduction to the Bootstrap, for
      * the residual bootstrap and basic limits [from memory]). Residuals are not inflated for
-     * leverage, so bands are slightly narrow when p is large relative to n.
+     * leverage, so bands are slightly narrow when p is large relative to n. With a penalty the
+     * refit shrinks the fitted values once more, so β* − β̂ = [S(XᵀWŶ) − β̂] + S(XᵀW r*) (S the
+     * penalised solve) carries that deterministic shift, and the basic limits correct for it.
      *
      * @param grid       evaluation points in the domain
      * @param replicates number of bootstrap replicates, ≥ 20
@@ -346,7 +482,20 @@ public final class FunctionOnScalarFit {
      * @return one band per design column, in column order
      */
     public List<CoefficientBand> bootstrapBands(double[] grid, int replicates, double level, long seed) {
-        double[] g = Linear.grid(grid, "grid");
+        return bootstrapBands(grid, replicates, level, seed, ProgressListener.NONE);
+    }
+
+    /**
+     * {@link #bootstrapBands(double[], int, double, long)} reporting progress to a listener: task
+     * {@code "bootstrap"}, one unit per replicate, from the calling thread; the count reaches
+     * {@code replicates}. The listener does not change the result.
+     *
+     * @param listener progress listener, or {@link ProgressListener#NONE}
+     */
+    public List<CoefficientBand> bootstrapBands(double[] grid, int replicates, double level, long seed,
+            ProgressListener listener) {
+        Objects.requireNonNull(listener, "listener");
+        double[] g = Linear.grid(space, grid, "grid");
         if (replicates < 20) {
             throw new IllegalArgumentException("need at least 20 bootstrap replicates, got " + replicates);
         }
@@ -366,6 +515,22 @@ public final class FunctionOnScalarFit {
         }
         SplittableRandom rnd = new SplittableRandom(seed);
         double[] x = design.internal();
+        // β* − β̂ = [S(XᵀWŶ) − β̂] + S(XᵀW r*) with S the (penalised) solve: the first term is zero
+        // without penalty and the shrinkage of the refit on the fitted values with one
+        double[] shift = new double[p * m];
+        if (u != null) {
+            double[] xw = x.clone();
+            for (int i = 0; i < n; i++) {
+                for (int j = 0; j < p; j++) {
+                    xw[i * p + j] *= w(i);
+                }
+            }
+            double[] refit = solve(Linear.multTransA(xw, n, p, fitted, k), p, k, u, inverses);
+            for (int i = 0; i < refit.length; i++) {
+                refit[i] -= coef[i];
+            }
+            shift = Linear.mult(refit, p, k, et, m);
+        }
         double[] rhs = new double[p * k];
         for (int b = 0; b < replicates; b++) {
             Arrays.fill(rhs, 0.0);
@@ -384,7 +549,12 @@ public final class FunctionOnScalarFit {
                 }
             }
             double[] db = solve(rhs, p, k, u, inverses);
-            deltas[b] = Linear.mult(db, p, k, et, m);
+            double[] dg = Linear.mult(db, p, k, et, m);
+            for (int q = 0; q < dg.length; q++) {
+                dg[q] += shift[q];
+            }
+            deltas[b] = dg;
+            listener.progress("bootstrap", b + 1, replicates);
         }
         List<CoefficientBand> out = new ArrayList<>();
         double alpha = 1 - level;
@@ -473,8 +643,23 @@ public final class FunctionOnScalarFit {
      * @param term         covariate name (not the intercept)
      * @param permutations number of permutations, ≥ 19
      * @param seed         random seed
+     * @throws IllegalArgumentException for the intercept or an unknown term, fewer than 19
+     *                                  permutations, no residual degrees of freedom, or a response
+     *                                  that the full model fits exactly (F undefined)
      */
     public PermutationTest permutationTest(String term, int permutations, long seed) {
+        return permutationTest(term, permutations, seed, ProgressListener.NONE);
+    }
+
+    /**
+     * {@link #permutationTest(String, int, long)} reporting progress to a listener: task
+     * {@code "permutation test"}, one unit per permutation, from the calling thread; the count
+     * reaches {@code permutations}. The listener does not change the result.
+     *
+     * @param listener progress listener, or {@link ProgressListener#NONE}
+     */
+    public PermutationTest permutationTest(String term, int permutations, long seed, ProgressListener listener) {
+        Objects.requireNonNull(listener, "listener");
         Design.Term t = design.term(term);
         if (t.name().equals(Design.INTERCEPT)) {
             throw new IllegalArgumentException("the permutation test is for covariates, not the intercept");
@@ -503,6 +688,17 @@ public final class FunctionOnScalarFit {
         // reduced-model residuals e0 = (I − Q0 Q0ᵀ) C̃
         double[] e0 = residualise(q0, p0, c);
         int df1 = t.columns().size();
+        double tot = 0;
+        for (double v : e0) {
+            tot += v * v;
+        }
+        double rss1 = tot - projectedSq(q1, p, e0);
+        if (!(rss1 > 1e-20 * tot)) {
+            // F = 0/0 or x/0: NaN or ∞ would give a meaningless p-value of 1/(permutations + 1)
+            throw new IllegalArgumentException("permutation test of '" + term + "': the full model fits the"
+                    + " response exactly (residual sum of squares " + rss1 + " of " + tot + " for the reduced"
+                    + " model), so the F statistic is undefined; the test needs residual variation");
+        }
         double fObs = fStat(q0, p0, q1, e0, df1, df2);
         SplittableRandom rnd = new SplittableRandom(seed);
         double[] perm = new double[n * k];
@@ -516,6 +712,7 @@ public final class FunctionOnScalarFit {
             if (f >= fObs * (1 - 1e-12)) {
                 exceed++;
             }
+            listener.progress("permutation test", b + 1, permutations);
         }
         return new PermutationTest(term, fObs, (1.0 + exceed) / (permutations + 1.0), df1, df2, permutations, seed);
     }
@@ -567,7 +764,8 @@ public final class FunctionOnScalarFit {
         }
         QRDecomposition<DMatrixRMaj> qr = DecompositionFactory_DDRM.qr(rows, cols);
         if (!qr.decompose(DMatrixRMaj.wrap(rows, cols, xw))) {
-            throw new io.densa.core.DensaException("QR decomposition of the " + rows + " x " + cols + " design failed", null);
+            throw new io.densa.core.DensaException("QR decomposition of the " + rows + " x " + cols + " design failed",
+                    new Linear.SolveDiagnostics("QR of the weighted design", cols, Double.NaN));
         }
         return qr.getQ(null, true).data;
     }

@@ -17,8 +17,11 @@ import org.ejml.data.DMatrixRMaj;
  *
  * <p>With λ = 0 this is B̂ = (XᵀWX)⁻¹ XᵀWC, per coordinate the (weighted) least-squares fit. With
  * λ &gt; 0 the normal equations XᵀWX B + λ D B R = XᵀWC (D the indicator of penalised columns)
- * are solved through R = U Λ Uᵀ: column l of B U solves (XᵀWX + λ Λ_l D) b̃_l = (XᵀWC U)_l. The
- * intercept is never penalised. {@link Penalties#secondDerivative} gives a roughness penalty
+ * decouple through R = U Λ Uᵀ: column l of B U solves (XᵀWX + λ Λ_l D) b̃_l = (XᵀWC U)_l. The
+ * intercept is never penalised. Both are computed by Householder QR of the whitened design √W X
+ * (augmented by the rows √(λ Λ_l) e_jᵀ of the penalised columns), never by forming XᵀWX, so the
+ * accuracy depends on cond(√W X) rather than its square (Golub and Van Loan (2013), Matrix
+ * Computations, 4th ed., §5.3). {@link Penalties#secondDerivative} gives a roughness penalty
  * ∫ (β'')², {@link Penalties#ridge} the B2 norm.
  *
  * <p>Weights are population sizes or inverse estimation variances (larger = more reliable);
@@ -45,8 +48,9 @@ public final class FunctionOnScalarRegression {
      *
      * @param lambda  ≥ 0, finite
      * @param penalty K × K symmetric positive semi-definite matrix (copied)
-     * @throws IllegalArgumentException if λ is negative or NaN, or R is not square, symmetric
-     *                                  and finite
+     * @throws IllegalArgumentException if λ is negative or NaN, or R is not square, symmetric,
+     *                                  finite and positive semi-definite (smallest eigenvalue ≥
+     *                                  −10⁻¹⁰ times the largest)
      */
     public FunctionOnScalarRegression withPenalty(double lambda, DMatrixRMaj penalty) {
         if (!(lambda >= 0) || Double.isInfinite(lambda)) {
@@ -66,6 +70,12 @@ public final class FunctionOnScalarRegression {
                             + ", " + j + ") = " + v);
                 }
             }
+        }
+        double[] range = Linear.eigenvalueRange(penalty.data, k);
+        if (!(range[0] >= -1e-10 * Math.max(Math.abs(range[1]), Double.MIN_NORMAL))) {
+            throw new IllegalArgumentException("penalty matrix must be positive semi-definite; its smallest"
+                    + " eigenvalue is " + range[0] + " (largest " + range[1] + "); a negative direction would"
+                    + " reward roughness instead of penalising it");
         }
         return new FunctionOnScalarRegression(lambda, penalty.copy());
     }

@@ -2,10 +2,12 @@ package io.densa.regression;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Objects;
+import java.util.OptionalDouble;
 
 /**
  * Configuration of the linear models with density predictors: function-on-function regression
@@ -53,10 +55,14 @@ public final class FunctionalRegression {
      * @param predictorComponents m (truncation), or 0 for ridge
      * @param responseComponents  m_Y (truncation; K_Y or 1 when the response is not truncated), 0 for ridge
      * @param lambda              λ (ridge), 0 for truncation
-     * @param cvError             mean held-out squared prediction error per observation (NaN when
-     *                            no cross-validation was run)
+     * @param cvError             mean held-out squared prediction error per observation, empty
+     *                            when no cross-validation was run (a single candidate)
      */
-    public record Candidate(int predictorComponents, int responseComponents, double lambda, double cvError) {
+    public record Candidate(int predictorComponents, int responseComponents, double lambda, OptionalDouble cvError) {
+        /** Canonical constructor: requires a non-null error (use {@link OptionalDouble#empty()}). */
+        public Candidate {
+            Objects.requireNonNull(cvError, "cvError");
+        }
     }
 
     private final Method method;
@@ -66,9 +72,15 @@ public final class FunctionalRegression {
     private final double[] lambdas;         // null: default grid
     private final int folds;
     private final long seed;
+    private final ProgressListener progress;
 
     private FunctionalRegression(Method method, int minComponents, int maxComponents, int[] responseComponents,
             double[] lambdas, int folds, long seed) {
+        this(method, minComponents, maxComponents, responseComponents, lambdas, folds, seed, ProgressListener.NONE);
+    }
+
+    private FunctionalRegression(Method method, int minComponents, int maxComponents, int[] responseComponents,
+            double[] lambdas, int folds, long seed, ProgressListener progress) {
         this.method = method;
         this.minComponents = minComponents;
         this.maxComponents = maxComponents;
@@ -76,6 +88,7 @@ public final class FunctionalRegression {
         this.lambdas = lambdas;
         this.folds = folds;
         this.seed = seed;
+        this.progress = progress;
     }
 
     /** FPCA truncation with m chosen from 1..20 (capped at each predictor's K) by 5-fold CV, seed 0. */
@@ -120,7 +133,7 @@ public final class FunctionalRegression {
         if (!(min >= 1 && max >= min)) {
             throw new IllegalArgumentException("need 1 <= min <= max, got [" + min + ", " + max + "]");
         }
-        return new FunctionalRegression(method, min, max, responseComponents, lambdas, folds, seed);
+        return new FunctionalRegression(method, min, max, responseComponents, lambdas, folds, seed, progress);
     }
 
     /**
@@ -140,7 +153,8 @@ public final class FunctionalRegression {
                 throw new IllegalArgumentException("response component counts must be >= 1, got " + c);
             }
         }
-        return new FunctionalRegression(method, minComponents, maxComponents, counts.clone(), lambdas, folds, seed);
+        return new FunctionalRegression(method, minComponents, maxComponents, counts.clone(), lambdas, folds, seed,
+                progress);
     }
 
     /**
@@ -160,7 +174,7 @@ public final class FunctionalRegression {
             }
         }
         return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, values.clone(),
-                folds, seed);
+                folds, seed, progress);
     }
 
     /**
@@ -172,12 +186,32 @@ public final class FunctionalRegression {
         if (k < 2) {
             throw new IllegalArgumentException("need at least 2 folds, got " + k);
         }
-        return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, lambdas, k, seed);
+        return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, lambdas, k, seed,
+                progress);
     }
 
     /** Seed of the random fold assignment. */
     public FunctionalRegression withSeed(long s) {
-        return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, lambdas, folds, s);
+        return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, lambdas, folds, s,
+                progress);
+    }
+
+    /**
+     * With a listener that receives the progress of the cross-validation: task
+     * {@code "cross-validation"}, one unit per fold, from the calling thread; the count reaches the
+     * number of folds. No calls when a single candidate skips the cross-validation. The listener
+     * does not change the fit.
+     *
+     * @param listener progress listener, or {@link ProgressListener#NONE} (the default)
+     */
+    public FunctionalRegression withProgressListener(ProgressListener listener) {
+        return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, lambdas, folds,
+                seed, Objects.requireNonNull(listener, "listener"));
+    }
+
+    /** The progress listener ({@link ProgressListener#NONE} by default). */
+    public ProgressListener progressListener() {
+        return progress;
     }
 
     private void requireMethod(Method m, String what) {
@@ -207,7 +241,7 @@ public final class FunctionalRegression {
                 }
             }
             for (double l : ls) {
-                out.add(new Candidate(0, 0, l, Double.NaN));
+                out.add(new Candidate(0, 0, l, OptionalDouble.empty()));
             }
             return out;
         }
@@ -221,7 +255,7 @@ public final class FunctionalRegression {
                 : Arrays.stream(responseComponents).map(c -> Math.min(c, r)).distinct().sorted().toArray();
         for (int m = lo; m <= hi; m++) {
             for (int my : ry) {
-                out.add(new Candidate(m, my, 0.0, Double.NaN));
+                out.add(new Candidate(m, my, 0.0, OptionalDouble.empty()));
             }
         }
         return out;
@@ -246,13 +280,13 @@ public final class FunctionalRegression {
                 throw new IllegalArgumentException("predictor " + j + " has " + s.size() + " rows but the response has "
                         + n + "; every predictor needs one density per observation");
             }
-            if (responseSpace != null && j == 0 && !s.space().equals(responseSpace)
+            if (responseSpace != null && !s.space().equals(responseSpace)
                     && s.space().lower() == responseSpace.lower() && s.space().upper() == responseSpace.upper()
                     && s.dimension() == responseSpace.dimension()) {
                 // same domain and dimension but another basis or reference: almost surely a mistake
-                throw new IllegalArgumentException("predictor 0 lives in " + s.space() + " and the response in "
-                        + responseSpace + ": the spaces have the same domain and dimension but differ; project one"
-                        + " onto the other's space (BayesSpace.project) first");
+                throw new IllegalArgumentException("predictor " + j + " lives in " + s.space()
+                        + " and the response in " + responseSpace + ": the spaces have the same domain and"
+                        + " dimension but differ; project one onto the other's space (BayesSpace.project) first");
             }
         }
         Design d = covariates == null ? Design.interceptOnly(n) : covariates;

@@ -9,6 +9,7 @@ import org.ejml.dense.row.CommonOps_DDRM;
 import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
 import org.ejml.interfaces.decomposition.CholeskyDecomposition_F64;
 import org.ejml.interfaces.decomposition.EigenDecomposition_F64;
+import org.ejml.interfaces.decomposition.QRDecomposition;
 
 /** Small dense linear-algebra helpers on row-major arrays (package-private). */
 final class Linear {
@@ -86,6 +87,29 @@ final class Linear {
     }
 
     /**
+     * Smallest and largest eigenvalue of a symmetric matrix, without clipping (EJML symmetric QR
+     * algorithm).
+     *
+     * @return {smallest, largest}
+     */
+    static double[] eigenvalueRange(double[] a, int k) {
+        DMatrixRMaj m = DMatrixRMaj.wrap(k, k, a.clone());
+        EigenDecomposition_F64<DMatrixRMaj> eig = DecompositionFactory_DDRM.eig(k, false, true);
+        if (!eig.decompose(m)) {
+            throw new DensaException("symmetric eigen-decomposition of a " + k + " x " + k + " matrix failed",
+                    new SolveDiagnostics("eigen", k, Double.NaN));
+        }
+        double lo = Double.POSITIVE_INFINITY;
+        double hi = Double.NEGATIVE_INFINITY;
+        for (int i = 0; i < k; i++) {
+            double v = eig.getEigenvalue(i).getReal();
+            lo = Math.min(lo, v);
+            hi = Math.max(hi, v);
+        }
+        return new double[] {lo, hi};
+    }
+
+    /**
      * Solves A X = B for symmetric positive definite A (p × p) and B (p × r) by Cholesky.
      *
      * @throws DensaException if A is not numerically positive definite
@@ -134,6 +158,99 @@ final class Linear {
         return xd;
     }
 
+    /**
+     * Least-squares solution and inverse Gram matrix of a full-column-rank system.
+     *
+     * @param solution     X (p × r) minimising ‖A X − B‖_F
+     * @param inverseGram  (AᵀA)⁻¹ = R⁻¹R⁻ᵀ (p × p)
+     */
+    record LeastSquares(double[] solution, double[] inverseGram) {
+    }
+
+    /**
+     * Least squares by Householder QR (EJML): A = QR, X = R⁻¹ QᵀB, (AᵀA)⁻¹ = R⁻¹R⁻ᵀ. Unlike the
+     * normal equations, the error grows with cond(A), not cond(A)² (Golub and Van Loan (2013),
+     * Matrix Computations, 4th ed., §5.3).
+     *
+     * @param a rows × p, not modified
+     * @param b rows × r, not modified
+     * @throws DensaException if R is numerically singular (smallest |R_jj| at most 1e-7 times the
+     *                        largest, the QR analogue of the pivot test of {@link #solveSpd})
+     */
+    static LeastSquares leastSquares(double[] a, int rows, int p, double[] b, int r, String what) {
+        Reduced red = reduce(a, rows, p, b, r, what);
+        return triangularSolve(red.r(), p, red.qtb(), r, rows, what);
+    }
+
+    /**
+     * A least-squares problem reduced by QR: ‖A X − B‖² = ‖R X − QᵀB‖² + const.
+     *
+     * @param r   p × p upper triangular factor
+     * @param qtb QᵀB, p × r
+     */
+    record Reduced(double[] r, double[] qtb) {
+    }
+
+    /** Householder QR of A (rows × p, not modified) and QᵀB (B rows × r, not modified). */
+    static Reduced reduce(double[] a, int rows, int p, double[] b, int r, String what) {
+        QRDecomposition<DMatrixRMaj> qr = DecompositionFactory_DDRM.qr(rows, p);
+        if (!qr.decompose(DMatrixRMaj.wrap(rows, p, a.clone()))) {
+            throw new DensaException(what + ": QR decomposition of the " + rows + " x " + p + " system failed",
+                    new SolveDiagnostics(what, p, Double.NaN));
+        }
+        double[] q = qr.getQ(null, true).data; // rows × p
+        return new Reduced(qr.getR(null, true).data, multTransA(q, rows, p, b, r));
+    }
+
+    /** X = R⁻¹ QᵀB and R⁻¹R⁻ᵀ from an upper triangular R, with the rank test of {@link #leastSquares}. */
+    private static LeastSquares triangularSolve(double[] rr, int p, double[] qtb, int r, int rows, String what) {
+        double lo = Double.POSITIVE_INFINITY;
+        double hi = 0;
+        for (int j = 0; j < p; j++) {
+            double d = Math.abs(rr[j * p + j]);
+            lo = Math.min(lo, d);
+            hi = Math.max(hi, d);
+        }
+        double ratio = hi > 0 ? lo / hi : 0.0;
+        if (!(ratio > 1e-7)) {
+            throw new DensaException(what + ": the " + rows + " x " + p + " system is numerically rank deficient"
+                    + " (smallest |R_jj| / largest " + ratio + ")", new SolveDiagnostics(what, p, ratio * ratio));
+        }
+        double[] x = qtb.clone();
+        for (int c = 0; c < r; c++) {
+            for (int i = p - 1; i >= 0; i--) {
+                double s = x[i * r + c];
+                for (int j = i + 1; j < p; j++) {
+                    s -= rr[i * p + j] * x[j * r + c];
+                }
+                x[i * r + c] = s / rr[i * p + i];
+            }
+        }
+        // R⁻¹ by back substitution, then R⁻¹R⁻ᵀ
+        double[] ri = new double[p * p];
+        for (int c = 0; c < p; c++) {
+            for (int i = p - 1; i >= 0; i--) {
+                double s = i == c ? 1.0 : 0.0;
+                for (int j = i + 1; j < p; j++) {
+                    s -= rr[i * p + j] * ri[j * p + c];
+                }
+                ri[i * p + c] = s / rr[i * p + i];
+            }
+        }
+        double[] g = new double[p * p];
+        for (int i = 0; i < p; i++) {
+            for (int j = i; j < p; j++) {
+                double s = 0;
+                for (int m = Math.max(i, j); m < p; m++) {
+                    s += ri[i * p + m] * ri[j * p + m];
+                }
+                g[i * p + j] = s;
+                g[j * p + i] = s;
+            }
+        }
+        return new LeastSquares(x, g);
+    }
+
     /** Inverse of a symmetric positive definite matrix. */
     static double[] inverseSpd(double[] a, int p, String what) {
         double[] id = new double[p * p];
@@ -154,6 +271,13 @@ final class Linear {
     static double[] multTransA(double[] a, int n, int k, double[] b, int m) {
         DMatrixRMaj c = new DMatrixRMaj(k, m);
         CommonOps_DDRM.multTransA(DMatrixRMaj.wrap(n, k, a), DMatrixRMaj.wrap(n, m, b), c);
+        return c.data;
+    }
+
+    /** C (n × m) = A Bᵀ for A (n × k), B (m × k). */
+    static double[] multTransB(double[] a, int n, int k, double[] b, int m) {
+        DMatrixRMaj c = new DMatrixRMaj(n, m);
+        CommonOps_DDRM.multTransB(DMatrixRMaj.wrap(n, k, a), DMatrixRMaj.wrap(m, k, b), c);
         return c.data;
     }
 
@@ -193,6 +317,21 @@ final class Linear {
             }
         }
         return xs.clone();
+    }
+
+    /**
+     * Copies of evaluation points, each checked to be finite and inside the space's domain
+     * (naming the offending index).
+     */
+    static double[] grid(BayesSpace space, double[] xs, String name) {
+        double[] g = grid(xs, name);
+        for (int i = 0; i < g.length; i++) {
+            if (!(g[i] >= space.lower() && g[i] <= space.upper())) {
+                throw new IllegalArgumentException(name + "[" + i + "] = " + g[i] + " is outside the domain ["
+                        + space.lower() + ", " + space.upper() + "]; evaluation points must lie in the domain");
+            }
+        }
+        return g;
     }
 
     /** Requires two spaces to be equal, naming both. */

@@ -55,18 +55,31 @@ final class LinearFunctionalEngine {
                 System.arraycopy(y, i * r, z, i * w + pz, r);
             }
         });
+        // every column but the intercept (column 0; the design always has one) is shifted by its
+        // mean before the cross products are accumulated, so a covariate like a calendar year does
+        // not square its offset into the normal equations
         boolean[] centre = new boolean[w];
-        for (int j = q; j < w; j++) {
+        for (int j = 1; j < w; j++) {
             centre[j] = true;
         }
         int folds = cfg.folds();
         List<FunctionalRegression.Candidate> cands = cfg.candidates(predictors, r);
         FunctionalRegression.Candidate chosen;
         List<FunctionalRegression.Candidate> scored = new ArrayList<>();
-        Moments mom;
-        if (cands.size() > 1) {
-            int[] fold = Linear.folds(n, folds, cfg.seed());
-            mom = Moments.of(z, n, w, fold, folds, centre);
+        boolean cv = cands.size() > 1;
+        Moments mom = cv ? Moments.of(z, n, w, Linear.folds(n, folds, cfg.seed()), folds, centre)
+                : Moments.of(z, n, w, null, 1, centre);
+        Fold all = new Fold(cfg, mom, -1, off, pz, r, predictors);
+        if (cfg.method() == FunctionalRegression.Method.TRUNCATION) {
+            FunctionalRegression.Candidate largest = cands.get(0);
+            for (FunctionalRegression.Candidate c : cands) {
+                if (c.predictorComponents() > largest.predictorComponents()) {
+                    largest = c;
+                }
+            }
+            all.requireIndependentScores(largest.predictorComponents(), design.columnNames());
+        }
+        if (cv) {
             double[] err = new double[cands.size()];
             for (int f = 0; f < folds; f++) {
                 Fold fd = new Fold(cfg, mom, f, off, pz, r, predictors);
@@ -75,29 +88,28 @@ final class LinearFunctionalEngine {
                     double[] beta = fd.solve(cands.get(c));
                     err[c] += heldOutError(mf, w, pz, r, beta);
                 }
+                cfg.progressListener().progress("cross-validation", f + 1, folds);
             }
             int best = 0;
             for (int c = 0; c < cands.size(); c++) {
                 FunctionalRegression.Candidate cd = cands.get(c);
                 scored.add(new FunctionalRegression.Candidate(cd.predictorComponents(), cd.responseComponents(),
-                        cd.lambda(), err[c] / n));
+                        cd.lambda(), java.util.OptionalDouble.of(err[c] / n)));
                 if (err[c] < err[best]) {
                     best = c;
                 }
             }
             chosen = scored.get(best);
         } else {
-            mom = Moments.of(z, n, w, null, 1, centre);
             chosen = cands.get(0);
             scored.add(chosen);
         }
-        Fold all = new Fold(cfg, mom, -1, off, pz, r, predictors);
         double[] beta = all.solve(chosen);
-        // back to original units: ŷ = shift_y + dᵀβ_d + Σ (x − shift_x)ᵀ G
-        int ic = design.hasIntercept() ? 0 : -1;
+        // back to original units: ŷ = shift_y + β_0 + Σ_{j ≥ 1} (z_j − shift_j) β_j
+        int ic = 0;
         for (int c = 0; c < r; c++) {
             double adj = mom.shift[pz + c];
-            for (int j = q; j < pz; j++) {
+            for (int j = 1; j < pz; j++) {
                 adj -= mom.shift[j] * beta[j * r + c];
             }
             beta[ic * r + c] += adj;
@@ -245,6 +257,85 @@ final class LinearFunctionalEngine {
             }
         }
 
+        /**
+         * Requires the columns of the largest truncated model (design columns, then the first m
+         * scores of each predictor) to be linearly independent on the full data: modified
+         * Cholesky of their cross-product matrix in column order; a column whose pivot is at
+         * most 1e-12 times its own sum of squares (or whose sum of squares is 0) is named.
+         *
+         * @throws IllegalArgumentException naming the dependent columns
+         */
+        void requireIndependentScores(int m, List<String> designColumns) {
+            List<Integer> keep = keep(m);
+            List<String> names = new ArrayList<>();
+            for (int i : keep) {
+                if (i < q) {
+                    names.add(designColumns.get(i));
+                } else {
+                    int pr = 0;
+                    while (off[pr + 1] <= i) {
+                        pr++;
+                    }
+                    names.add("predictor " + pr + " component " + (i - off[pr] + 1));
+                }
+            }
+            int s = keep.size();
+            double[] l = new double[s * s];
+            List<String> bad = new ArrayList<>();
+            boolean[] ok = new boolean[s];
+            double scale = 0;
+            for (int i = 0; i < s; i++) {
+                scale = Math.max(scale, azz[keep.get(i) * pz + keep.get(i)]);
+            }
+            for (int i = 0; i < s; i++) {
+                int ki = keep.get(i);
+                double own = azz[ki * pz + ki];
+                // row i of L over the accepted columns: L_ij = (A_ij − Σ_{h<j} L_ih L_jh) / L_jj
+                double d = own;
+                for (int j = 0; j < i; j++) {
+                    if (!ok[j]) {
+                        continue;
+                    }
+                    double v = azz[ki * pz + keep.get(j)];
+                    for (int h = 0; h < j; h++) {
+                        if (ok[h]) {
+                            v -= l[i * s + h] * l[j * s + h];
+                        }
+                    }
+                    v /= l[j * s + j];
+                    l[i * s + j] = v;
+                    d -= v * v;
+                }
+                if (!(own > 1e-14 * scale) || !(d > 1e-12 * own)) {
+                    bad.add(names.get(i));
+                } else {
+                    ok[i] = true;
+                    l[i * s + i] = Math.sqrt(d);
+                }
+            }
+            if (!bad.isEmpty()) {
+                throw new IllegalArgumentException("truncated functional regression with up to " + m
+                        + " components per predictor: column(s) " + bad + " have no variance or are linear"
+                        + " combinations of earlier columns of " + names + "; remove duplicate or collinear"
+                        + " predictors and covariates, or lower the component range (withComponents)");
+            }
+        }
+
+        /** Indices kept by a truncated model with m components: design columns, then m per predictor. */
+        private List<Integer> keep(int m) {
+            List<Integer> keep = new ArrayList<>();
+            for (int j = 0; j < q; j++) {
+                keep.add(j);
+            }
+            for (int p = 0; p < off.length - 1; p++) {
+                int kp = off[p + 1] - off[p];
+                for (int l = 0; l < Math.min(m, kp); l++) {
+                    keep.add(off[p] + l);
+                }
+            }
+            return keep;
+        }
+
         List<Fpca> fpcaList() {
             return List.copyOf(fpcas);
         }
@@ -259,17 +350,7 @@ final class LinearFunctionalEngine {
                 return Linear.solveSpd(a, pz, mzy, r, "ridge functional regression");
             }
             // indices kept: design columns, first m components of each predictor
-            int m = c.predictorComponents();
-            List<Integer> keep = new ArrayList<>();
-            for (int j = 0; j < q; j++) {
-                keep.add(j);
-            }
-            for (int p = 0; p < off.length - 1; p++) {
-                int kp = off[p + 1] - off[p];
-                for (int l = 0; l < Math.min(m, kp); l++) {
-                    keep.add(off[p] + l);
-                }
-            }
+            List<Integer> keep = keep(c.predictorComponents());
             int s = keep.size();
             double[] a = new double[s * s];
             double[] b = new double[s * r];

@@ -55,8 +55,11 @@ public final class ScalarOnFunctionFit {
         return res.candidates();
     }
 
-    /** Cross-validated mean squared prediction error of the chosen tuning (NaN without CV). */
-    public double crossValidatedError() {
+    /**
+     * Cross-validated mean squared prediction error (1/n) Σ_i (y_i − ŷ_i^(−fold(i)))² of the chosen
+     * tuning; empty when a single candidate was fitted without cross-validation.
+     */
+    public java.util.OptionalDouble crossValidatedError() {
         return res.chosen().cvError();
     }
 
@@ -76,7 +79,9 @@ public final class ScalarOnFunctionFit {
 
     /** clr β_j at the given points. */
     public double[] coefficientClr(int j, double... xs) {
-        return Linear.clrAt(predictorSpaces.get(j), coefficientFunction(j).coordinates(), Linear.grid(xs, "points"));
+        double[] c = coefficientFunction(j).coordinates(); // checks j
+        BayesSpace s = predictorSpaces.get(j);
+        return Linear.clrAt(s, c, Linear.grid(s, xs, "points"));
     }
 
     /** Fitted values (fresh). */
@@ -89,7 +94,9 @@ public final class ScalarOnFunctionFit {
         return res.residuals().clone();
     }
 
-    /** R² = 1 − RSS / TSS on the training data. */
+    /**
+     * R² = 1 − Σ (y_i − ŷ_i)² / Σ (y_i − ȳ)² on the training data (0 for a constant response).
+     */
     public double rSquared() {
         return res.rSquared();
     }

@@ -8,6 +8,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import java.util.List;
 import java.util.Random;
 import org.apache.commons.math3.distribution.UniformRealDistribution;
 import org.apache.commons.math3.stat.inference.KolmogorovSmirnovTest;
@@ -203,6 +204,32 @@ class AnomalyScoringTest {
         }
         assertEquals(1, rep.flaggedCount());
         assertEquals(1000, rep.calibrationSize());
+    }
+
+    /**
+     * The calibrated band at each grid point is the pair of (1 ∓ level)/2 quantiles of the
+     * calibration residual clr values there, checked against Commons Math {@code Percentile} with
+     * the R-7 estimation type (linear interpolation between order statistics).
+     */
+    @Test
+    void bandIsThePointwiseQuantileOfCalibrationResiduals() {
+        DensitySet cal = DensitySet.of(space, TestData.gaussian(new Random(41), 57, k, 1));
+        double[] grid = {0.05, 0.3, 0.77, 1.0};
+        AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults().withBandLevel(0.9).calibrate(cal, grid);
+        List<AnomalyScoring.BandPoint> band = c.band();
+        assertEquals(grid.length, band.size());
+        org.apache.commons.math3.stat.descriptive.rank.Percentile pct =
+                new org.apache.commons.math3.stat.descriptive.rank.Percentile()
+                        .withEstimationType(org.apache.commons.math3.stat.descriptive.rank.Percentile.EstimationType.R_7);
+        for (int q = 0; q < grid.length; q++) {
+            double[] v = new double[cal.size()];
+            for (int i = 0; i < cal.size(); i++) {
+                v[i] = cal.get(i).clr(grid[q]);
+            }
+            assertEquals(grid[q], band.get(q).x(), 0.0);
+            assertEquals(pct.evaluate(v, 5.0), band.get(q).lower(), 1e-12);
+            assertEquals(pct.evaluate(v, 95.0), band.get(q).upper(), 1e-12);
+        }
     }
 
     @Test

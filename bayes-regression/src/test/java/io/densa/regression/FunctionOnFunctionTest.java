@@ -234,6 +234,50 @@ class FunctionOnFunctionTest {
         assertTrue(res.get(10).equalsWithin(fit.residuals().get(10), 1e-12));
     }
 
+    /**
+     * A year-like covariate (offset 10⁴, spread 1) with a density predictor: with all components
+     * kept, truncation is OLS of each response coordinate on [1, year, predictor coordinates];
+     * the coefficients must match Commons Math {@code OLSMultipleLinearRegression} (QR) to 1e-8
+     * relative although cond(XᵀX) ≈ 10¹⁰.
+     */
+    @Test
+    void illConditionedCovariateMatchesCommonsMathOls() {
+        int n = 200;
+        DensitySet[] d = simulate(41, n, 0.5);
+        Random r = new Random(42);
+        double[] year = new double[n];
+        double[][] y = d[1].coordinates();
+        for (int i = 0; i < n; i++) {
+            year[i] = 1e4 + r.nextDouble();
+            for (int m = 0; m < ky; m++) {
+                y[i][m] += 0.5 * (year[i] - 1e4);
+            }
+        }
+        Design cov = Design.builder().numeric("year", year).build();
+        FunctionOnFunctionFit fit = FunctionalRegression.truncation().withComponents(kx, kx)
+                .fitDensityResponse(List.of(d[0]), cov, DensitySet.of(ySpace, y));
+        double[][] x = d[0].coordinates();
+        double[][] xa = new double[n][kx + 1];
+        for (int i = 0; i < n; i++) {
+            xa[i][0] = year[i];
+            System.arraycopy(x[i], 0, xa[i], 1, kx);
+        }
+        for (int m = 0; m < ky; m++) {
+            double[] ym = new double[n];
+            for (int i = 0; i < n; i++) {
+                ym[i] = y[i][m];
+            }
+            OLSMultipleLinearRegression ols = new OLSMultipleLinearRegression();
+            ols.newSampleData(ym, xa);
+            double[] b = ols.estimateRegressionParameters();
+            assertEquals(b[0], fit.coefficient("intercept").coordinate(m), 1e-8 * Math.abs(b[0]));
+            assertEquals(b[1], fit.coefficient("year").coordinate(m), 1e-8 * Math.abs(b[1]));
+            for (int l = 0; l < kx; l++) {
+                assertEquals(b[l + 2], fit.kernelCoefficients(0).get(l, m), 1e-8 * (1 + Math.abs(b[l + 2])));
+            }
+        }
+    }
+
     /** Scalar-on-function: with m = K the coefficients equal Commons Math OLS; CV error is reported. */
     @Test
     void scalarOnFunctionRegression() {
@@ -260,8 +304,14 @@ class FunctionOnFunctionTest {
         }
         assertEquals(ols.calculateRSquared(), fit.rSquared(), 1e-9);
         ScalarOnFunctionFit cv = FunctionalRegression.truncation().fitScalarResponse(List.of(d[0]), null, y);
-        assertTrue(cv.crossValidatedError() > 0.05 && cv.crossValidatedError() < 0.2,
-                "CV mean squared error " + cv.crossValidatedError() + " (noise variance 0.09)");
+        double cvErr = cv.crossValidatedError().orElseThrow();
+        assertTrue(cvErr > 0.05 && cvErr < 0.2, "CV mean squared error " + cvErr + " (noise variance 0.09)");
+        // a single candidate runs no cross-validation: the error is absent, not NaN
+        ScalarOnFunctionFit single = FunctionalRegression.truncation().withComponents(3, 3)
+                .fitScalarResponse(List.of(d[0]), null, y);
+        assertTrue(single.crossValidatedError().isEmpty());
+        assertTrue(single.chosen().cvError().isEmpty());
+        assertEquals(1, single.crossValidation().size());
         // penalised alternative: ridge with one λ equals OLS on rows augmented by √(nλ) e_l
         double lambda = 0.02;
         ScalarOnFunctionFit ridge = FunctionalRegression.ridge().withLambdas(lambda)
@@ -302,8 +352,16 @@ class FunctionOnFunctionTest {
         DensitySet ys = DensitySet.of(poly, TestData.gaussian(new Random(2), 50, 5, 1));
         e = assertThrows(IllegalArgumentException.class, () -> cfg.fitDensityResponse(List.of(xs), null, ys));
         assertTrue(e.getMessage().matches("predictor 0 lives in .* and the response in .*differ.*"), e.getMessage());
+        // the same check for every predictor, not only the first
+        DensitySet xs2 = DensitySet.of(spl, TestData.gaussian(new Random(3), 50, 5, 1));
+        DensitySet xok = DensitySet.of(BayesSpace.splines(0, 1, 4, 2), TestData.gaussian(new Random(4), 50, 5, 1));
+        e = assertThrows(IllegalArgumentException.class,
+                () -> cfg.fitDensityResponse(List.of(xok, xs2), null, ys));
+        assertTrue(e.getMessage().matches("predictor 1 lives in .* and the response in .*differ.*"), e.getMessage());
         // prediction with predictors from another space
         FunctionOnFunctionFit fit = cfg.fitDensityResponse(List.of(d[0]), null, d[1]);
+        e = assertThrows(IllegalArgumentException.class, () -> fit.predictorFpca(1));
+        assertTrue(e.getMessage().matches("predictor index 1 outside \\[0, 1\\)"), e.getMessage());
         e = assertThrows(IllegalArgumentException.class, () -> fit.predict(List.of(ys), null));
         assertTrue(e.getMessage().matches("predictor 0 lives in .* but the model expects .*"), e.getMessage());
         // fewer observations than parameters
@@ -312,6 +370,25 @@ class FunctionOnFunctionTest {
                 () -> FunctionalRegression.truncation().fitDensityResponse(List.of(small[0]), null, small[1]));
         assertTrue(e.getMessage().matches(".*8 observations .* need more observations than parameters.*"),
                 e.getMessage());
+        // rank-deficient truncated designs name the offending columns: a duplicated predictor, and a
+        // predictor whose coordinates span only 2 directions (components 3 and 4 have no variance)
+        e = assertThrows(IllegalArgumentException.class,
+                () -> cfg.fitDensityResponse(List.of(d[0], d[0]), null, d[1]));
+        assertTrue(e.getMessage().matches(".*column\\(s\\) \\[predictor 1 component 1, predictor 1 component 2,"
+                + " predictor 1 component 3, predictor 1 component 4\\] have no variance or are linear combinations.*"),
+                e.getMessage());
+        double[][] flat = new double[50][kx];
+        Random rf = new Random(16);
+        for (int i = 0; i < 50; i++) {
+            flat[i][0] = rf.nextGaussian();
+            flat[i][1] = rf.nextGaussian();
+        }
+        e = assertThrows(IllegalArgumentException.class,
+                () -> cfg.fitDensityResponse(List.of(DensitySet.of(xSpace, flat)), null, d[1]));
+        assertTrue(e.getMessage().matches(".*\\[predictor 0 component 3, predictor 0 component 4\\] have no variance.*"
+                + "lower the component range.*"), e.getMessage());
+        // ridge handles collinear predictors
+        FunctionalRegression.ridge().withLambdas(0.1).fitDensityResponse(List.of(d[0], d[0]), null, d[1]);
         // design without intercept, NaN scalar response
         Design noInt = Design.builder().withoutIntercept().numeric("u", new double[50]).build();
         e = assertThrows(IllegalArgumentException.class, () -> cfg.fitDensityResponse(List.of(d[0]), noInt, d[1]));

@@ -148,11 +148,96 @@ class FunctionOnScalarTest {
         }
     }
 
+    /**
+     * Accuracy on an ill-conditioned design: a covariate like a calendar year (offset 10⁴, spread
+     * 1, so cond(X) ≈ 10⁴·√12 and cond(XᵀX) ≈ 10¹⁰). The coefficients must still match Commons
+     * Math {@code OLSMultipleLinearRegression} (Householder QR) to 1e-9 relative; solving the
+     * normal equations loses about cond(XᵀX)·ε ≈ 10⁻⁶.
+     */
+    @Test
+    void illConditionedDesignMatchesCommonsMathOls() {
+        for (double offset : new double[] {1e3, 1e4}) {
+            Random r = new Random(3);
+            int n = 60;
+            double[] year = new double[n];
+            double[][] c = new double[n][k];
+            for (int i = 0; i < n; i++) {
+                year[i] = offset + r.nextDouble();
+                for (int l = 0; l < k; l++) {
+                    c[i][l] = 0.3 * (year[i] - offset) + r.nextGaussian();
+                }
+            }
+            Design d = Design.builder().numeric("year", year).build();
+            FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().fit(d, DensitySet.of(space, c));
+            for (int l = 0; l < k; l++) {
+                double[] y = new double[n];
+                double[][] x = new double[n][1];
+                for (int i = 0; i < n; i++) {
+                    y[i] = c[i][l];
+                    x[i][0] = year[i];
+                }
+                OLSMultipleLinearRegression o = new OLSMultipleLinearRegression();
+                o.newSampleData(y, x);
+                double[] b = o.estimateRegressionParameters();
+                assertEquals(b[1], fit.coefficients().get(1, l), 1e-9 * Math.abs(b[1]), "offset " + offset);
+                assertEquals(b[0], fit.coefficients().get(0, l), 1e-9 * Math.abs(b[0]), "offset " + offset);
+            }
+        }
+    }
+
+    /**
+     * Effective number of parameters tr H: p without penalty; with the ridge penalty R = I every
+     * direction has the same hat matrix X (XᵀWX + λD)⁻¹ XᵀW, whose trace is computed here directly
+     * with EJML (inverse and products); with a roughness penalty it falls as λ grows.
+     */
+    @Test
+    void effectiveParametersAreTheTraceOfTheHatMatrix() {
+        Sim s = simulate(31, 50, 1.0, 0.5);
+        double[] w = new double[50];
+        for (int i = 0; i < 50; i++) {
+            w[i] = 1 + (i % 3);
+        }
+        int p = s.design.columns();
+        FunctionOnScalarFit ols = FunctionOnScalarRegression.withDefaults().fit(s.design, s.response, w);
+        assertEquals(p, ols.diagnostics().effectiveParameters(), 1e-10);
+        double lambda = 7.0;
+        FunctionOnScalarFit ridge = FunctionOnScalarRegression.withDefaults().withPenalty(lambda, Penalties.ridge(k))
+                .fit(s.design, s.response, w);
+        DMatrixRMaj x = s.design.matrix();
+        DMatrixRMaj xw = x.copy();
+        for (int i = 0; i < 50; i++) {
+            for (int j = 0; j < p; j++) {
+                xw.set(i, j, xw.get(i, j) * w[i]);
+            }
+        }
+        DMatrixRMaj a = new DMatrixRMaj(p, p);
+        org.ejml.dense.row.CommonOps_DDRM.multTransA(x, xw, a);
+        for (int j = 1; j < p; j++) {
+            a.add(j, j, lambda);
+        }
+        DMatrixRMaj ainv = new DMatrixRMaj(p, p);
+        assertTrue(org.ejml.dense.row.CommonOps_DDRM.invert(a, ainv));
+        DMatrixRMaj xa = new DMatrixRMaj(50, p);
+        org.ejml.dense.row.CommonOps_DDRM.mult(x, ainv, xa);
+        DMatrixRMaj hat = new DMatrixRMaj(50, 50);
+        org.ejml.dense.row.CommonOps_DDRM.multTransB(xa, xw, hat);
+        assertEquals(org.ejml.dense.row.CommonOps_DDRM.trace(hat), ridge.diagnostics().effectiveParameters(), 1e-10);
+        assertTrue(ridge.diagnostics().effectiveParameters() < p);
+        DMatrixRMaj rough = Penalties.secondDerivative(space);
+        double prev = p + 1e-9;
+        for (double l : new double[] {0, 1e-4, 1e-2, 1}) {
+            double edf = FunctionOnScalarRegression.withDefaults().withPenalty(l, rough).fit(s.design, s.response)
+                    .diagnostics().effectiveParameters();
+            assertTrue(edf < prev && edf >= 1 - 1e-9, "λ = " + l + ": " + edf);
+            prev = edf;
+        }
+    }
+
     /** A roughness penalty solves its normal equations XᵀX B + λ D B R = XᵀC (closed form). */
     @Test
     void roughnessPenaltySolvesItsNormalEquations() {
         Sim s = simulate(4, 50, 1.0, 0.5);
-        DMatrixRMaj rough = Penalties.secondDerivative(space, 201);
+        DMatrixRMaj rough = Penalties.secondDerivative(space);
         double lambda = 1e-3;
         FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().withPenalty(lambda, rough)
                 .fit(s.design, s.response);
@@ -179,10 +264,10 @@ class FunctionOnScalarTest {
         FunctionOnScalarFit ols = FunctionOnScalarRegression.withDefaults().fit(s.design, s.response);
         assertTrue(quad(fit.coefficient("dose").coordinates(), rough) < quad(ols.coefficient("dose").coordinates(),
                 rough));
-        // second-derivative matrix: a clr function of degree ≤ 2 has roughness ∫ (f'')² (closed form:
-        // f = t² gives 4 on [0, 1]; coordinates from projecting exp(t²))
+        // second-derivative matrix: f = t² has ∫_0^1 (f'')² = 4 (closed form; coordinates from
+        // projecting exp(t²)); see PenaltiesTest for the exactness checks
         double[] c2 = space.project(t -> Math.exp(t * t)).density().coordinates();
-        assertEquals(4.0, quad(c2, rough), 1e-6);
+        assertEquals(4.0, quad(c2, rough), 1e-9);
     }
 
     private static double quad(double[] b, DMatrixRMaj r) {
@@ -232,6 +317,70 @@ class FunctionOnScalarTest {
         double sc = simHits / (double) reps;
         assertTrue(pc >= 0.75 && pc <= 0.99, "pointwise coverage " + pc);
         assertTrue(sc >= 0.75, "simultaneous coverage " + sc);
+    }
+
+    /**
+     * The bootstrap is what its definition says: with a roughness penalty and weights, replicate
+     * b refits the model to ŷ_i + √w_src r_src / √w_i (the same draws as the implementation: one
+     * {@code SplittableRandom(seed).nextInt(n)} per row and replicate), and the bands are the
+     * basic limits and standard deviations of β* − β̂ computed here by brute force.
+     */
+    @Test
+    void penalisedBootstrapEqualsBruteForceRefits() {
+        Sim s = simulate(21, 40, 1.0, 0.5);
+        int n = 40;
+        double[] w = new double[n];
+        for (int i = 0; i < n; i++) {
+            w[i] = 0.5 + (i % 4);
+        }
+        FunctionOnScalarRegression cfg = FunctionOnScalarRegression.withDefaults()
+                .withPenalty(0.05, Penalties.secondDerivative(space));
+        FunctionOnScalarFit fit = cfg.fit(s.design, s.response, w);
+        double[] grid = {0.1, 0.45, 0.8};
+        int reps = 40;
+        double level = 0.8;
+        List<FunctionOnScalarFit.CoefficientBand> bands = fit.bootstrapBands(grid, reps, level, 99L);
+        double[][] fitted = fit.fitted().coordinates();
+        double[][] res = fit.residuals().coordinates();
+        java.util.SplittableRandom rnd = new java.util.SplittableRandom(99L);
+        int p = s.design.columns();
+        double[][][] delta = new double[p][grid.length][reps];
+        for (int b = 0; b < reps; b++) {
+            double[][] y = new double[n][k];
+            for (int i = 0; i < n; i++) {
+                int src = rnd.nextInt(n);
+                for (int l = 0; l < k; l++) {
+                    y[i][l] = fitted[i][l] + res[src][l] * Math.sqrt(w[src] / w[i]);
+                }
+            }
+            FunctionOnScalarFit star = cfg.fit(s.design, DensitySet.of(space, y), w);
+            for (int j = 0; j < p; j++) {
+                String col = s.design.columnNames().get(j);
+                double[] bs = star.coefficientClr(col, grid);
+                double[] bh = fit.coefficientClr(col, grid);
+                for (int q = 0; q < grid.length; q++) {
+                    delta[j][q][b] = bs[q] - bh[q];
+                }
+            }
+        }
+        for (int j = 0; j < p; j++) {
+            FunctionOnScalarFit.CoefficientBand band = bands.get(j);
+            for (int q = 0; q < grid.length; q++) {
+                double[] d = delta[j][q].clone();
+                double mean = java.util.Arrays.stream(d).average().orElseThrow();
+                double ss = 0;
+                for (double v : d) {
+                    ss += (v - mean) * (v - mean);
+                }
+                java.util.Arrays.sort(d);
+                double scale = 1e-9 * (1 + Math.abs(band.estimate()[q]));
+                assertEquals(Math.sqrt(ss / (reps - 1)), band.standardError()[q], scale);
+                assertEquals(band.estimate()[q] - Linear.quantileSorted(d, 1 - (1 - level) / 2),
+                        band.pointwiseLower()[q], scale);
+                assertEquals(band.estimate()[q] - Linear.quantileSorted(d, (1 - level) / 2),
+                        band.pointwiseUpper()[q], scale);
+            }
+        }
     }
 
     /**
@@ -406,5 +555,47 @@ class FunctionOnScalarTest {
         e = assertThrows(IllegalArgumentException.class,
                 () -> m.withPenalty(Double.NaN, Penalties.ridge(k)));
         assertTrue(e.getMessage().matches(".*must be finite and >= 0, got NaN"), e.getMessage());
+        // an indefinite penalty (eigenvalues 3 and -1) would reward roughness: rejected, not clipped
+        DMatrixRMaj indefinite = Penalties.ridge(k);
+        indefinite.set(0, 0, 1);
+        indefinite.set(0, 1, 2);
+        indefinite.set(1, 0, 2);
+        indefinite.set(1, 1, 1);
+        e = assertThrows(IllegalArgumentException.class, () -> m.withPenalty(0.1, indefinite));
+        assertTrue(e.getMessage().matches("penalty matrix must be positive semi-definite; its smallest eigenvalue is"
+                + " -(1\\.0|0\\.9999).* \\(largest (3\\.0|2\\.9999).*"), e.getMessage());
+        // permutation test of a response that the model fits exactly: F = 0/0 must not give a p-value
+        Sim exact = simulate(12, 20, 1.0, 0.0);
+        FunctionOnScalarFit exactFit = m.fit(exact.design, exact.response);
+        e = assertThrows(IllegalArgumentException.class, () -> exactFit.permutationTest("dose", 99, 1));
+        assertTrue(e.getMessage().matches("permutation test of 'dose': the full model fits the response exactly.*"),
+                e.getMessage());
+        // design entries outside the matrix (column p of row 0 used to return row 1's intercept)
+        int cols = s.design.columns();
+        e = assertThrows(IllegalArgumentException.class, () -> s.design.value(0, cols));
+        assertTrue(e.getMessage().matches("design entry \\(0, 4\\) outside the 20 x 4 design.*"), e.getMessage());
+        assertThrows(IllegalArgumentException.class, () -> s.design.value(20, 0));
+        // evaluation points outside the domain are named by index
+        e = assertThrows(IllegalArgumentException.class,
+                () -> fit.bootstrapBands(new double[] {0.2, 1.5}, 20, 0.9, 1));
+        assertTrue(e.getMessage().matches("grid\\[1\\] = 1\\.5 is outside the domain \\[0\\.0, 1\\.0\\].*"),
+                e.getMessage());
+        e = assertThrows(IllegalArgumentException.class, () -> fit.coefficientClr("dose", Double.NaN));
+        assertTrue(e.getMessage().matches("points\\[0\\] is not finite: NaN"), e.getMessage());
+        // empty subsets, null levels and null rows are named
+        e = assertThrows(IllegalArgumentException.class, () -> s.design.subset());
+        assertTrue(e.getMessage().matches("a design subset needs at least one row.*"), e.getMessage());
+        e = assertThrows(IllegalArgumentException.class, () -> s.design.subset(3, 20));
+        assertTrue(e.getMessage().matches("row 20 outside \\[0, 20\\)"), e.getMessage());
+        e = assertThrows(IllegalArgumentException.class,
+                () -> Design.builder().categorical("g", new String[] {"a", "b"}, "a", "a", null, "b"));
+        assertTrue(e.getMessage().matches("covariate 'g': level 1 is null.*"), e.getMessage());
+        e = assertThrows(IllegalArgumentException.class,
+                () -> Design.builder().categorical("g", new String[] {"a", null}, "a"));
+        assertTrue(e.getMessage().matches("covariate 'g' row 1 is null; every row needs a level.*"), e.getMessage());
+        // a semi-definite one (rank 1) is accepted
+        DMatrixRMaj rankOne = new DMatrixRMaj(k, k);
+        rankOne.set(2, 2, 1.0);
+        assertEquals(0.1, m.withPenalty(0.1, rankOne).lambda(), 0.0);
     }
 }

@@ -1,5 +1,6 @@
 package io.densa.spatial;
 
+import io.densa.core.ProgressListener;
 import java.util.Objects;
 
 /**
@@ -7,26 +8,29 @@ import java.util.Objects;
  * {@link LocalMoran}): number of random permutations and their seed, the island policy, and
  * whether the permutations may run in parallel.
  *
- * <p>Defaults ({@link #withDefaults()}): no permutations, islands are an error, parallel on.
+ * <p>Defaults ({@link #withDefaults()}): no permutations, islands are an error, parallel on, no
+ * progress reports ({@link ProgressListener#NONE}).
  * Parallel and serial runs give bit-identical results: permutations are drawn in fixed blocks,
  * each with its own random generator seeded from (seed, block) (global statistics) or from
  * (seed, unit) (local statistics), and combined in order.
  */
 public final class AutocorrelationOptions {
     private static final AutocorrelationOptions DEFAULTS =
-            new AutocorrelationOptions(0, 0L, SpatialWeights.IslandPolicy.ERROR, true);
+            new AutocorrelationOptions(0, 0L, SpatialWeights.IslandPolicy.ERROR, true, ProgressListener.NONE);
 
     private final int permutations;
     private final long seed;
     private final SpatialWeights.IslandPolicy islandPolicy;
     private final boolean parallel;
+    private final ProgressListener progress;
 
     private AutocorrelationOptions(int permutations, long seed, SpatialWeights.IslandPolicy islandPolicy,
-            boolean parallel) {
+            boolean parallel, ProgressListener progress) {
         this.permutations = permutations;
         this.seed = seed;
         this.islandPolicy = islandPolicy;
         this.parallel = parallel;
+        this.progress = progress;
     }
 
     /** No permutations, {@link SpatialWeights.IslandPolicy#ERROR}, parallel. */
@@ -46,17 +50,38 @@ public final class AutocorrelationOptions {
         if (!(count >= 0 && count <= 10_000_000)) {
             throw new IllegalArgumentException("permutation count " + count + " must be in 0..10000000");
         }
-        return new AutocorrelationOptions(count, seed, islandPolicy, parallel);
+        return new AutocorrelationOptions(count, seed, islandPolicy, parallel, progress);
     }
 
     /** With the given treatment of units without neighbours. */
     public AutocorrelationOptions withIslandPolicy(SpatialWeights.IslandPolicy policy) {
-        return new AutocorrelationOptions(permutations, seed, Objects.requireNonNull(policy, "policy"), parallel);
+        return new AutocorrelationOptions(permutations, seed, Objects.requireNonNull(policy, "policy"), parallel,
+                progress);
     }
 
     /** Whether permutations may use the common ForkJoin pool (results do not depend on it). */
     public AutocorrelationOptions withParallel(boolean parallel) {
-        return new AutocorrelationOptions(permutations, seed, islandPolicy, parallel);
+        return new AutocorrelationOptions(permutations, seed, islandPolicy, parallel, progress);
+    }
+
+    /**
+     * With a listener that receives the progress of the permutation tests: task
+     * {@code "Moran's I permutations"}, {@code "Geary's c permutations"} or
+     * {@code "Moran's I of densities permutations"} counted in permutations, and
+     * {@code "local Moran's I permutations"} counted in units. Calls may come from worker threads
+     * of the common pool, are serialised, and their count is non-decreasing and reaches the
+     * total. The listener does not change any result.
+     *
+     * @param listener a thread-safe listener, or {@link ProgressListener#NONE}
+     */
+    public AutocorrelationOptions withProgressListener(ProgressListener listener) {
+        return new AutocorrelationOptions(permutations, seed, islandPolicy, parallel,
+                Objects.requireNonNull(listener, "listener"));
+    }
+
+    /** The progress listener ({@link ProgressListener#NONE} by default). */
+    public ProgressListener progressListener() {
+        return progress;
     }
 
     /** Number of permutations (0 = no permutation test). */
@@ -82,6 +107,7 @@ public final class AutocorrelationOptions {
     @Override
     public String toString() {
         return "AutocorrelationOptions[permutations=" + permutations + ", seed=" + seed + ", islands="
-                + islandPolicy + ", parallel=" + parallel + "]";
+                + islandPolicy + ", parallel=" + parallel + (progress == ProgressListener.NONE ? "" : ", with progress")
+                + "]";
     }
 }

@@ -49,12 +49,11 @@ final class AutocorrelationSupport {
 
     /** The permutation test of a global statistic if the options ask for one. */
     static Optional<AutocorrelationPermutation> permutationTest(ScalarField f, AutocorrelationOptions o,
-            double observed, double expectation, PermutedStatistic stat) {
+            double observed, double expectation, String what, PermutedStatistic stat) {
         if (o.permutations() == 0) {
             return Optional.empty();
         }
-        double[] sims = simulate(f.size(), o.permutations(), o.seed(), o.parallel(),
-                f.weights().linkCount() + 2L * f.size(), stat);
+        double[] sims = simulate(f.size(), o, f.weights().linkCount() + 2L * f.size(), what, stat);
         return Optional.of(summarise(observed, expectation, sims, o.seed()));
     }
 
@@ -197,11 +196,15 @@ final class AutocorrelationSupport {
      * R permuted statistics; permutation r belongs to block r / {@link #PERMUTATION_BLOCK}, whose
      * generator is seeded by mix(seed, block) and which starts from the identity permutation.
      */
-    static double[] simulate(int n, int permutations, long seed, boolean parallel, long workPerPermutation,
+    static double[] simulate(int n, AutocorrelationOptions o, long workPerPermutation, String what,
             PermutedStatistic stat) {
+        int permutations = o.permutations();
+        long seed = o.seed();
         double[] sims = new double[permutations];
         int blocks = (permutations + PERMUTATION_BLOCK - 1) / PERMUTATION_BLOCK;
-        boolean par = parallel && Kernels.parallelWorth((long) permutations * workPerPermutation);
+        boolean par = o.parallel() && Kernels.parallelWorth((long) permutations * workPerPermutation);
+        AutocorrelationProgress progress = new AutocorrelationProgress(o.progressListener(), what + " permutations",
+                permutations);
         Kernels.forEachBlock(blocks, par, b -> {
             SplittableRandom rng = new SplittableRandom(mix(seed, b));
             int[] perm = IntStream.range(0, n).toArray();
@@ -210,6 +213,7 @@ final class AutocorrelationSupport {
                 shuffle(perm, rng);
                 sims[r] = stat.evaluate(perm);
             }
+            progress.advance(r1 - b * PERMUTATION_BLOCK);
         });
         return sims;
     }

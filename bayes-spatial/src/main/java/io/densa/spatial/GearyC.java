@@ -95,7 +95,7 @@ public final class GearyC {
         AutocorrelationMoments random = AutocorrelationSupport.moments(stat, 1.0, varR, "Geary's c",
                 "randomisation", n);
         Optional<AutocorrelationPermutation> perm = AutocorrelationSupport.permutationTest(f, options, stat, 1.0,
-                pi -> scale * squaredDifferences(w, z, pi));
+                "Geary's c", pi -> scale * squaredDifferences(w, z, pi));
         return new Result(stat, n, f.excluded(), b2, normal, random, perm);
     }
 

@@ -172,6 +172,8 @@ public final class LocalMoran {
         double[] condE = new double[n];
         int blocks = (n + UNIT_BLOCK - 1) / UNIT_BLOCK;
         boolean par = options.parallel() && Kernels.parallelWorth((long) r * (w.linkCount() + n));
+        AutocorrelationProgress progress = new AutocorrelationProgress(options.progressListener(),
+                "local Moran's I permutations", n);
         Kernels.forEachBlock(blocks, par, b -> {
             int[] pool = AutocorrelationSupport.identity(n);
             int[] swaps = new int[n];
@@ -228,6 +230,7 @@ public final class LocalMoran {
                 pGt[i] = (1.0 + ge) / (r + 1);
                 pLt[i] = (1.0 + le) / (r + 1);
             }
+            progress.advance(i1 - b * UNIT_BLOCK);
         });
         double[] adj = benjaminiHochberg(pTwo);
         List<Unit> units = new ArrayList<>(n);

@@ -129,7 +129,8 @@ public final class MoranI {
         int[] cs = w.columnArray();
         double[] vs = w.valueArray();
         double scale = n / (s0 * m2);
-        Optional<AutocorrelationPermutation> perm = AutocorrelationSupport.permutationTest(f, options, stat, e, pi -> {
+        Optional<AutocorrelationPermutation> perm = AutocorrelationSupport.permutationTest(f, options, stat, e,
+                "Moran's I", pi -> {
             double s = 0;
             for (int i = 0; i < n; i++) {
                 double lag = 0;
@@ -201,8 +202,8 @@ public final class MoranI {
         double e = -1.0 / (n - 1);
         Optional<AutocorrelationPermutation> perm = Optional.empty();
         if (options.permutations() > 0) {
-            double[] sims = AutocorrelationSupport.simulate(n, options.permutations(), options.seed(),
-                    options.parallel(), (w.linkCount() + 2L * n) * k, pi -> densityStatistic(w, z, k, pi));
+            double[] sims = AutocorrelationSupport.simulate(n, options, (w.linkCount() + 2L * n) * k,
+                    "Moran's I of densities", pi -> densityStatistic(w, z, k, pi));
             perm = Optional.of(AutocorrelationSupport.summarise(stat, e, sims, options.seed()));
         }
         return new DensityResult(stat, n, p.excluded(), e, perm);
