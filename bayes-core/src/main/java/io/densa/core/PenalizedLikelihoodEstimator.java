@@ -260,25 +260,29 @@ public final class PenalizedLikelihoodEstimator {
     }
 
     /**
-     * Cost of one Newton iteration for one unit with these bin edges and every bin occupied
-     * (the upper bound; empty bins save the W_j² rank-one update of their bin): per node 2W (η) +
-     * 4W (gradient, mean) + W(W+1) (information, lower triangle) + 2W (η at the line-search
-     * trial), per occupied bin R_j(R_j+1) (R_j raw functions touching the bin), plus K² (rank-one
-     * update), K³/3 + 2K² (Cholesky and solve), 4K² (penalty); 2Q exp calls.
+     * Cost of one Newton iteration for one unit with these bin edges, every bin occupied (the upper
+     * bound; an empty bin saves its rank-one update), counted from the loops with a multiply and an
+     * add as one flop each and one line-search trial per iteration (the usual case near the
+     * optimum): per quadrature node 2W (bin moments) + 2W + W(W + 1) (second-moment block, lower
+     * triangle) + 2W + 3 (η, weight and sum at the trial point) for W raw functions nonzero at a
+     * point; per bin 3R + R(R + 1) (R raw functions touching it); per iteration K²/2 + 4K² (rank-one
+     * update and penalty) + K³/3 + 2K² (Cholesky and solve) + 2K; one {@code exp} per node.
+     * Multiply flops by the iterations a unit takes (its diagnostics report them) and add the final
+     * covariance, about 2.5 K³.
      */
     public NewtonCost newtonCost(double[] edges) {
         double[] e = EstimationSupport.checkEdges(space, edges);
         BinLayout lay = new BinLayout(space, e, points);
         long w = lay.width;
         long q = lay.nodes;
-        long flops = q * (2 * w + 4 * w + w * (w + 1) + 2 * w + 2);
+        long flops = q * (6 * w + w * (w + 1) + 3);
         for (int j = 0; j < lay.bins; j++) {
             long r = lay.binHi[j] - lay.binLo[j];
-            flops += r * (r + 1) + 2 * r;
+            flops += 3 * r + r * (r + 1);
         }
         long kk = k;
-        flops += kk * kk + kk * kk * kk / 3 + 2 * kk * kk + 4 * kk * kk;
-        return new NewtonCost(lay.nodes, lay.width, k, flops, 2 * q);
+        flops += kk * kk / 2 + 4 * kk * kk + kk * kk * kk / 3 + 2 * kk * kk + 2 * kk;
+        return new NewtonCost(lay.nodes, lay.width, k, flops, q);
     }
 
     // ---------------------------------------------------------------- binned counts
