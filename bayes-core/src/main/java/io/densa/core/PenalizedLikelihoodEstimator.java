@@ -46,8 +46,11 @@ import org.ejml.data.DMatrixRMaj;
  * The scan stops once the criterion has risen at two consecutive grid points after its best
  * value, so the local minimum with the largest λ is taken (criteria for smoothing often have
  * several local minima and the smallest-λ ones undersmooth; common practice), and that grid
- * point is refined by golden-section search on log λ within one grid step (seven steps; fits during
- * the search use the tolerance max(tol, 10⁻⁹), the final fit tol). With very sparse
+ * point is refined within one grid step by three steps of successive parabolic interpolation in
+ * log λ through the neighbouring grid values (Brent (1973), Algorithms for Minimization without
+ * Derivatives, ch. 5; from memory), or by golden-section search at the ends of the grid or where
+ * the criterion is not convex (fits during the search use the tolerance max(tol, 10⁻⁹), the final
+ * fit tol). With very sparse
  * counts the criteria may decrease all the way down to the end of the grid (undersmoothing);
  * {@link #withSmoothingGrid} sets a floor.
  *
@@ -185,7 +188,7 @@ public final class PenalizedLikelihoodEstimator {
 
     /**
      * The search grid for λ = N s 10^g: g from {@code log10Hi} down to {@code log10Lo} in steps of
-     * {@code step}, then golden-section refinement.
+     * {@code step}, then refinement within one step (see the class documentation).
      */
     public PenalizedLikelihoodEstimator withSmoothingGrid(double log10Lo, double log10Hi, double step) {
         if (!(Double.isFinite(log10Lo) && Double.isFinite(log10Hi) && log10Lo < log10Hi && step > 0
@@ -615,6 +618,8 @@ public final class PenalizedLikelihoodEstimator {
             double bestG = gridHi, bestC = Double.POSITIVE_INFINITY;
             double[] bestBeta = new double[k + 1];
             int rising = 0;
+            double prev = Double.POSITIVE_INFINITY;
+            double cAbove = Double.POSITIVE_INFINITY, cBelow = Double.POSITIVE_INFINITY;
             for (int s = 0; s <= steps && rising < 2; s++) {
                 double g = gridHi - s * gridStep;
                 double c = criterionAt(eng, lambdaAt(eng.total, scale, g), cv);
@@ -622,47 +627,84 @@ public final class PenalizedLikelihoodEstimator {
                     bestC = c;
                     bestG = g;
                     rising = 0;
+                    cAbove = s > 0 ? prev : Double.POSITIVE_INFINITY;
+                    cBelow = Double.POSITIVE_INFINITY;
                     System.arraycopy(eng.beta, 0, bestBeta, 0, k + 1);
                 } else if (bestC < Double.POSITIVE_INFINITY) {
+                    if (rising == 0) {
+                        cBelow = c;
+                    }
                     rising++;
                 }
+                prev = c;
             }
-            // golden-section refinement on [bestG − step, bestG + step]
-            double lo = Math.max(gridLo, bestG - gridStep), hi = Math.min(gridHi, bestG + gridStep);
-            double ratio = 0.5 * (Math.sqrt(5) - 1);
-            double x1 = hi - ratio * (hi - lo), x2 = lo + ratio * (hi - lo);
-            System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-            double f1 = criterionAt(eng, lambdaAt(eng.total, scale, x1), cv);
-            System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-            double f2 = criterionAt(eng, lambdaAt(eng.total, scale, x2), cv);
-            for (int it = 0; it < GOLDEN_STEPS; it++) {
-                if (f1 <= f2) {
-                    hi = x2;
-                    x2 = x1;
-                    f2 = f1;
-                    x1 = hi - ratio * (hi - lo);
+            double denom = cAbove - 2 * bestC + cBelow;
+            if (Double.isFinite(denom) && denom > 0) {
+                // three steps of successive parabolic interpolation in g = log10(λ) (Brent 1973,
+                // Algorithms for Minimization without Derivatives, ch. 5; from memory)
+                double[] gs = {bestG - gridStep, bestG, bestG + gridStep, 0};
+                double[] cs = {cBelow, bestC, cAbove, 0};
+                int m = 3;
+                for (int pass = 0; pass < 3; pass++) {
+                    int b = 0;
+                    for (int i = 1; i < m; i++) {
+                        if (cs[i] < cs[b]) {
+                            b = i;
+                        }
+                    }
+                    // neighbours of the best point in g order
+                    int left = -1, right = -1;
+                    for (int i = 0; i < m; i++) {
+                        if (gs[i] < gs[b] && (left < 0 || gs[i] > gs[left])) {
+                            left = i;
+                        }
+                        if (gs[i] > gs[b] && (right < 0 || gs[i] < gs[right])) {
+                            right = i;
+                        }
+                    }
+                    if (left < 0 || right < 0) {
+                        break;
+                    }
+                    double x0 = gs[left], x1 = gs[b], x2 = gs[right];
+                    double f0 = cs[left], f1 = cs[b], f2 = cs[right];
+                    double num = (x1 - x0) * (x1 - x0) * (f1 - f2) - (x1 - x2) * (x1 - x2) * (f1 - f0);
+                    double den = (x1 - x0) * (f1 - f2) - (x1 - x2) * (f1 - f0);
+                    if (!(den != 0) || !Double.isFinite(num / den)) {
+                        break;
+                    }
+                    double x = x1 - 0.5 * num / den;
+                    x = Math.max(x0, Math.min(x2, x));
+                    if (Math.abs(x - x1) < 1e-3 * gridStep) {
+                        break;
+                    }
                     System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-                    f1 = criterionAt(eng, lambdaAt(eng.total, scale, x1), cv);
-                } else {
-                    lo = x1;
-                    x1 = x2;
-                    f1 = f2;
-                    x2 = lo + ratio * (hi - lo);
-                    System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-                    f2 = criterionAt(eng, lambdaAt(eng.total, scale, x2), cv);
+                    double c = criterionAt(eng, lambdaAt(eng.total, scale, x), cv);
+                    if (m == 3) {
+                        gs[3] = x;
+                        cs[3] = c;
+                        m = 4;
+                    } else {
+                        // drop the point farthest from the best
+                        int far = 0;
+                        for (int i = 1; i < 4; i++) {
+                            if (Math.abs(gs[i] - gs[b]) > Math.abs(gs[far] - gs[b])) {
+                                far = i;
+                            }
+                        }
+                        gs[far] = x;
+                        cs[far] = c;
+                    }
+                    if (c < bestC) {
+                        bestC = c;
+                        bestG = x;
+                        System.arraycopy(eng.beta, 0, bestBeta, 0, k + 1);
+                    }
                 }
+                lambda = lambdaAt(eng.total, scale, bestG);
+                System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+            } else {
+                lambda = golden(eng, scale, cv, bestG, bestC, bestBeta);
             }
-            double gBest = bestG;
-            double cBest = bestC;
-            if (f1 < cBest) {
-                gBest = x1;
-                cBest = f1;
-            }
-            if (f2 < cBest) {
-                gBest = x2;
-            }
-            lambda = lambdaAt(eng.total, scale, gBest);
-            System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
         }
         boolean ok = eng.solve(lambda, maxIterations, tolerance);
         String reason = ok ? "" : eng.failure;
@@ -691,6 +733,46 @@ public final class PenalizedLikelihoodEstimator {
         return new EstimationDiagnostics(id, ok ? EstimationDiagnostics.Status.CONVERGED
                 : EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose, criterion, crit, edf, loglik,
                 eng.total, iterations, cov, EstimationSupport.trace(cov, k));
+    }
+
+    /** Golden-section refinement of log10 λ on [bestG − step, bestG + step] (grid ends or flat spots). */
+    private double golden(PenalizedNewton eng, double scale, Folds cv, double bestG, double bestC, double[] bestBeta) {
+        // golden-section refinement on [bestG − step, bestG + step]
+        double lo = Math.max(gridLo, bestG - gridStep), hi = Math.min(gridHi, bestG + gridStep);
+        double ratio = 0.5 * (Math.sqrt(5) - 1);
+        double x1 = hi - ratio * (hi - lo), x2 = lo + ratio * (hi - lo);
+        System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+        double f1 = criterionAt(eng, lambdaAt(eng.total, scale, x1), cv);
+        System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+        double f2 = criterionAt(eng, lambdaAt(eng.total, scale, x2), cv);
+        for (int it = 0; it < GOLDEN_STEPS; it++) {
+            if (f1 <= f2) {
+                hi = x2;
+                x2 = x1;
+                f2 = f1;
+                x1 = hi - ratio * (hi - lo);
+                System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+                f1 = criterionAt(eng, lambdaAt(eng.total, scale, x1), cv);
+            } else {
+                lo = x1;
+                x1 = x2;
+                f1 = f2;
+                x2 = lo + ratio * (hi - lo);
+                System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+                f2 = criterionAt(eng, lambdaAt(eng.total, scale, x2), cv);
+            }
+        }
+        double gBest = bestG;
+        double cBest = bestC;
+        if (f1 < cBest) {
+            gBest = x1;
+            cBest = f1;
+        }
+        if (f2 < cBest) {
+            gBest = x2;
+        }
+        System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+        return lambdaAt(eng.total, scale, gBest);
     }
 
     /** Fits at λ from the current beta and returns the criterion (+∞ on failure). */
