@@ -435,7 +435,7 @@ public final class DensitySet {
             double[] clr = new double[m * q];
             Kernels.multiply(Arrays.copyOfRange(data, r0 * k, r1 * k), m, k, bt, q, clr, false);
             for (int i = 0; i < m; i++) {
-                out[r0 + i] = space.logNormaliser(clr, i * q);
+                out[r0 + i] = space.logNormaliser(clr, i * q, data, (r0 + i) * k);
             }
         });
         return out;
@@ -538,19 +538,7 @@ public final class DensitySet {
         if (Double.isNaN(t)) {
             throw new IllegalArgumentException("threshold is NaN");
         }
-        return perRow((s, scratch) -> {
-            if (t <= space.lower()) {
-                return 1.0;
-            }
-            if (t >= space.upper()) {
-                return 0.0;
-            }
-            int j = space.panelOf(t);
-            double[] cum = s.cum;
-            double upperPanels = cum[cum.length - 1] - cum[j + 1];
-            double inPanel = (cum[j + 1] - cum[j]) - space.partial(s, j, t, scratch);
-            return Math.min(1.0, Math.max(0.0, upperPanels + inPanel));
-        });
+        return perRow((s, scratch) -> space.tail(s, t, scratch));
     }
 
     /**
