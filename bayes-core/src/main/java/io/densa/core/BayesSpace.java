@@ -640,7 +640,7 @@ public final class BayesSpace {
     /** Panels whose largest node value is below exp(−40) of the largest overall are not refined. */
     private static final double NEGLIGIBLE = -40.0;
     /** Relative tolerance of the adaptive panel integration. */
-    private static final double ADAPT_REL = 4e-15;
+    private static final double ADAPT_REL = 1e-14;
     private static final int ADAPT_DEPTH = 40;
     private static final int ADAPT_BUDGET = 20_000;
 
@@ -983,7 +983,7 @@ public final class BayesSpace {
     /**
      * The x with P(X ≤ x) = p. Lower halves solve cdf(x) = p from the left, upper halves solve
      * P(X &gt; x) = 1 − p from the right (1 − p is exact for p ≥ 1/2), so both tails keep relative
-     * accuracy; within the panel, safeguarded Newton steps (bisection fallback) to a few ulps of max(|a|, |b|).
+     * accuracy; within the panel, safeguarded Newton steps (bisection fallback) down to the double spacing at x.
      */
     double quantile(Shape sh, double p, double[] scratch) {
         if (!(p > 0 && p < 1)) {
@@ -1024,9 +1024,9 @@ public final class BayesSpace {
         double frac = massJ > 0 ? Math.min(1, Math.max(0, need / massJ)) : 0.5;
         double x = upper ? v - (v - u) * frac : u + (v - u) * frac;
         double left = u, right = v;
-        // a few ulps of x: a sharply peaked density needs x to full double resolution
-        double tol = 4 * Math.ulp(Math.max(Math.abs(a), Math.abs(b)));
+        // to the double spacing at x: a sharply peaked density needs x to full resolution
         for (int it = 0; it < 200; it++) {
+            double tol = Math.ulp(Math.max(Math.abs(left), Math.abs(right)));
             // g increasing in x for both branches
             double g = upper ? need - upperPartial(sh, j, x, scratch) : partial(sh, j, x, scratch) - need;
             if (g > 0) {

@@ -233,7 +233,8 @@ public final class Density {
     }
 
     /**
-     * Quantile: the x in [a, b] with cdf(x) = p, to a few ulps of max(|a|, |b|); the upper half
+     * Quantile: the x in [a, b] with cdf(x) = p, to within a couple of double spacings of x (so |cdf(x) − p| is about
+     * pdf(x)·ulp(x) at worst); the upper half
      * p &gt; 1/2 is solved on the upper tail 1 − p so that both tails keep relative accuracy.
      *
      * @throws IllegalArgumentException if p is not in (0, 1)
