@@ -637,12 +637,16 @@ public final class BayesSpace {
      * 8-point rule loses about 1e-14 relative accuracy at a log-range of 4, 1e-11 at 6).
      */
     private static final double SHARP_RANGE = 3.0;
-    /** Panels whose largest node value is below exp(−40) of the largest overall are not refined. */
-    private static final double NEGLIGIBLE = -40.0;
-    /** Relative tolerance of the adaptive panel integration. */
-    private static final double ADAPT_REL = 1e-14;
-    private static final int ADAPT_DEPTH = 40;
-    private static final int ADAPT_BUDGET = 20_000;
+    /** Panels whose largest node value is below exp(−60) of the largest overall are not refined (tails down to ~1e-16 keep ~1e-10 relative accuracy). */
+    private static final double NEGLIGIBLE = -60.0;
+    /**
+     * Relative tolerance of the adaptive panel integration; raised to the rounding noise of the
+     * integrand, 8 ε |exponent terms|, when the clr is so large that its cancellation dominates.
+     */
+    private static final double ADAPT_REL = 1e-12;
+    private static final double NOISE = 8 * Math.ulp(1.0);
+    private static final int ADAPT_DEPTH = 50;
+    private static final int ADAPT_BUDGET = 100_000;
 
     /** Computes the shape (normaliser, panel masses) of coordinates c[off..off+K). */
     Shape shape(double[] c, int off, double[] clrNodes) {
@@ -804,14 +808,20 @@ public final class BayesSpace {
             this.scratch = new double[basis.scratchSize()];
         }
 
+        /** Largest |clr term| seen by the last {@link #rule} call (for the noise level). */
+        private double terms;
+
         double value(double y) {
-            double f = referenceDensity(y) * Math.exp(basis.combine(y, bc, scratch) - offset - shift);
+            double comb = basis.combine(y, bc, scratch);
+            terms = Math.max(terms, Math.abs(comb) + Math.abs(offset) + Math.abs(shift));
+            double f = referenceDensity(y) * Math.exp(comb - offset - shift);
             double d = y - center;
             return power == 0 ? f : power == 1 ? f * d : f * d * d;
         }
 
         /** The panel's Gauss–Legendre rule mapped to [u, v]. */
         double rule(double u, double v) {
+            terms = 0;
             double h = 0.5 * (v - u), c = 0.5 * (u + v);
             double s = 0;
             for (int i = 0; i < pts; i++) {
@@ -839,10 +849,13 @@ public final class BayesSpace {
 
         private double refine(double u, double v, double whole, int depth) {
             double m = 0.5 * (u + v);
-            double l = rule(u, m), r = rule(m, v);
+            double l = rule(u, m);
+            double t = terms;
+            double r = rule(m, v);
             budget -= 2;
             double both = l + r;
-            if (depth == 0 || budget <= 0 || Math.abs(both - whole) <= ADAPT_REL * Math.abs(both)) {
+            double rel = Math.max(ADAPT_REL, NOISE * Math.max(t, terms));
+            if (depth == 0 || budget <= 0 || Math.abs(both - whole) <= rel * Math.abs(both)) {
                 leaf(u, l);
                 leaf(m, r);
                 return both;
