@@ -167,42 +167,34 @@ public final class Kernels {
     /**
      * Cross-product matrix Σ_i (a_i − c)(a_i − c)ᵀ (k × k, row-major, symmetric) of the rows of A
      * about a centre c (null for none), in fixed blocks of {@link #BLOCK} rows combined in order.
-     * Within a block four rows are folded into the upper triangle per pass (the innermost loop is
-     * unit-stride), and the lower triangle is mirrored at the end.
+     * Within a block eight (centred) rows are folded into the matrix per pass, so each entry is
+     * loaded and stored once per eight rows; the innermost loop runs unit-stride over a full row
+     * of length k. Entry (j, l) and (l, j) sum the same products in the same order, so the result
+     * is exactly symmetric.
      */
     public static double[] crossProduct(double[] a, int n, int k, double[] center, boolean parallel) {
         int blocks = (n + BLOCK - 1) / BLOCK;
         double[][] partial = new double[blocks][];
         forEachBlock(blocks, parallel && parallelWorth((long) n * k * k), blk -> {
             double[] s = new double[k * k];
-            double[] r = new double[4 * k];
+            double[] r = new double[8 * k];
             int r0 = blk * BLOCK, r1 = Math.min(n, r0 + BLOCK);
-            int i = r0;
-            for (; i + 4 <= r1; i += 4) {
-                for (int t = 0; t < 4; t++) {
+            for (int i = r0; i < r1; i += 8) {
+                int rows = Math.min(8, r1 - i);
+                for (int t = 0; t < 8; t++) {
                     int o = (i + t) * k;
                     for (int j = 0; j < k; j++) {
-                        r[t * k + j] = center == null ? a[o + j] : a[o + j] - center[j];
+                        r[t * k + j] = t >= rows ? 0.0 : center == null ? a[o + j] : a[o + j] - center[j];
                     }
                 }
+                int k1 = k, k2 = 2 * k, k3 = 3 * k, k4 = 4 * k, k5 = 5 * k, k6 = 6 * k, k7 = 7 * k;
                 for (int j = 0; j < k; j++) {
-                    double x0 = r[j], x1 = r[k + j], x2 = r[2 * k + j], x3 = r[3 * k + j];
+                    double x0 = r[j], x1 = r[k1 + j], x2 = r[k2 + j], x3 = r[k3 + j];
+                    double x4 = r[k4 + j], x5 = r[k5 + j], x6 = r[k6 + j], x7 = r[k7 + j];
                     int so = j * k;
-                    for (int l = j; l < k; l++) {
-                        s[so + l] += x0 * r[l] + x1 * r[k + l] + x2 * r[2 * k + l] + x3 * r[3 * k + l];
-                    }
-                }
-            }
-            for (; i < r1; i++) {
-                int o = i * k;
-                for (int j = 0; j < k; j++) {
-                    r[j] = center == null ? a[o + j] : a[o + j] - center[j];
-                }
-                for (int j = 0; j < k; j++) {
-                    double x0 = r[j];
-                    int so = j * k;
-                    for (int l = j; l < k; l++) {
-                        s[so + l] += x0 * r[l];
+                    for (int l = 0; l < k; l++) {
+                        s[so + l] += x0 * r[l] + x1 * r[k1 + l] + x2 * r[k2 + l] + x3 * r[k3 + l]
+                                + x4 * r[k4 + l] + x5 * r[k5 + l] + x6 * r[k6 + l] + x7 * r[k7 + l];
                     }
                 }
             }
@@ -212,11 +204,6 @@ public final class Kernels {
         for (double[] p : partial) {
             for (int j = 0; j < k * k; j++) {
                 sum[j] += p[j];
-            }
-        }
-        for (int j = 0; j < k; j++) {
-            for (int l = 0; l < j; l++) {
-                sum[j * k + l] = sum[l * k + j];
             }
         }
         return sum;
