@@ -34,9 +34,14 @@ import org.ejml.interfaces.linsol.LinearSolverDense;
  * Gauss–Legendre quadrature on panels that never straddle a knot or bin edge, with at least as
  * many points per panel as the spline order: for Lebesgue and uniform references it is exact for
  * products of basis functions, hence the round trip coordinates → clr → coordinates is exact to
- * rounding. Non-linear functionals (normalising constants, cdf, moments) use the same panels
- * (at least 64 of them for splines and polynomials), accurate to about machine precision for
- * densities whose log varies smoothly on the panel scale.
+ * rounding. Non-linear functionals (normalising constants, cdf, tail probabilities, quantiles,
+ * moments) use the same panels (at least 64 of them for splines and polynomials); a panel on
+ * which the clr varies by more than 3 across its nodes (a sharply peaked density, or one piled
+ * up at an end) is integrated by adaptive bisection of its rule instead, to a relative
+ * tolerance of 1e-12 or the rounding noise of the clr, whichever is larger. Cumulative panel
+ * masses are kept from both ends, so lower tails (cdf) and upper tails
+ * ({@link Density#tailProbability}) both keep their relative accuracy; quantiles are solved to
+ * the double spacing at the answer.
  *
  * <p>Immutable and thread-safe. Equality compares domain, reference and basis.
  */
