@@ -21,6 +21,7 @@ public final class Density {
     private final BayesSpace space;
     private final double[] c;
     private volatile Shape shape;
+    private volatile double[] raw; // raw-function coefficients, then the offset (clr needs no normaliser)
 
     Density(BayesSpace space, double[] coordinates, boolean check) {
         this.space = space;
@@ -65,6 +66,21 @@ public final class Density {
             shape = s;
         }
         return s;
+    }
+
+    /** Raw-function coefficients b (K values) followed by the offset, so clr(x) = φ(x)·b − offset. */
+    private double[] raw() {
+        double[] r = raw;
+        if (r == null) {
+            r = new double[c.length + 1];
+            r[c.length] = space.rawCoefficients(c, 0, r);
+            raw = r;
+        }
+        return r;
+    }
+
+    private double clrAt(double[] r, double x, double[] scratch) {
+        return space.basis().combine(x, r, scratch) - r[c.length];
     }
 
     // ------------------------------------------------------------- algebra
@@ -165,17 +181,17 @@ public final class Density {
      */
     public double clr(double x) {
         space.checkPoint(x);
-        return space.clrRaw(shape(), x, new double[space.scratchSize()]);
+        return clrAt(raw(), x, new double[space.scratchSize()]);
     }
 
     /** The clr function at many points (fresh array). */
     public double[] clr(double[] xs) {
-        Shape s = shape();
+        double[] r = raw();
         double[] scratch = new double[space.scratchSize()];
         double[] out = new double[xs.length];
         for (int i = 0; i < xs.length; i++) {
             space.checkPoint(xs[i]);
-            out[i] = space.clrRaw(s, xs[i], scratch);
+            out[i] = clrAt(r, xs[i], scratch);
         }
         return out;
     }
@@ -207,13 +223,19 @@ public final class Density {
         return out;
     }
 
-    /** Cumulative distribution function P(X ≤ x). */
+    /**
+     * Cumulative distribution function P(X ≤ x): 0 for x ≤ a, 1 for x ≥ b, non-decreasing.
+     *
+     * @throws IllegalArgumentException if x is NaN
+     */
     public double cdf(double x) {
         return space.cdf(shape(), x, new double[space.scratchSize()]);
     }
 
     /**
-     * Quantile: the x with cdf(x) = p.
+     * Quantile: the x in [a, b] with cdf(x) = p, to within a couple of double spacings of x (so |cdf(x) − p| is about
+     * pdf(x)·ulp(x) at worst); the upper half
+     * p &gt; 1/2 is solved on the upper tail 1 − p so that both tails keep relative accuracy.
      *
      * @throws IllegalArgumentException if p is not in (0, 1)
      */
@@ -231,7 +253,17 @@ public final class Density {
         Shape s = shape();
         double[] nodesClr = new double[space.nodeCount()];
         space.clrAtNodes(c, 0, nodesClr);
-        return space.moment2(s, s.mean, nodesClr);
+        return space.variance(s, nodesClr);
+    }
+
+    /**
+     * Upper tail probability P(X &gt; t) = 1 − cdf(t), computed from the right so that small tails
+     * keep their relative accuracy.
+     *
+     * @throws IllegalArgumentException if t is NaN
+     */
+    public double tailProbability(double t) {
+        return space.tail(shape(), t, new double[space.scratchSize()]);
     }
 
     // ------------------------------------------------------------- identity

@@ -305,21 +305,7 @@ public final class DensitySet {
     public DMatrixRMaj gram() {
         checkSquare("gram");
         double[] g = new double[n * n];
-        int blocks = (n + 63) / 64;
-        Kernels.forEachBlock(blocks, Kernels.parallelWorth((long) n * n * k), blk -> {
-            int r0 = blk * 64, r1 = Math.min(n, r0 + 64);
-            for (int i = r0; i < r1; i++) {
-                int oi = i * k;
-                for (int j = 0; j < n; j++) {
-                    int oj = j * k;
-                    double s = 0;
-                    for (int l = 0; l < k; l++) {
-                        s += data[oi + l] * data[oj + l];
-                    }
-                    g[i * n + j] = s;
-                }
-            }
-        });
+        Kernels.gram(data, n, k, g, true);
         return DMatrixRMaj.wrap(n, n, g);
     }
 
@@ -433,9 +419,9 @@ public final class DensitySet {
             int r0 = blk * rows, r1 = Math.min(n, r0 + rows);
             int m = r1 - r0;
             double[] clr = new double[m * q];
-            Kernels.multiply(Arrays.copyOfRange(data, r0 * k, r1 * k), m, k, bt, q, clr, false);
+            Kernels.multiplyRows(data, r0 * k, m, k, bt, q, clr, 0);
             for (int i = 0; i < m; i++) {
-                out[r0 + i] = space.logNormaliser(clr, i * q);
+                out[r0 + i] = space.logNormaliser(clr, i * q, data, (r0 + i) * k);
             }
         });
         return out;
@@ -443,40 +429,45 @@ public final class DensitySet {
 
     /**
      * Lebesgue pdfs of every density on a grid, written row-major into {@code out} (n × m): one
-     * matrix product C Eᵀ, then exp(clr − log Z_i) times the reference density.
+     * matrix product C Eᵀ (E the basis at the grid, blocked by {@link Kernels#multiplyRows}), then
+     * one pass of exp(clr − log Z_i) times the reference density. Points outside [a, b] give 0,
+     * as {@link Density#pdf(double)} does. The log normalisers log Z_i are computed on the first
+     * call and cached.
      *
-     * @param grid m points in the domain (not modified)
+     * @param grid m points (not modified)
      * @param out  array of length ≥ n·m, overwritten
+     * @throws IllegalArgumentException if a grid point is NaN or out is too short
      */
     public void pdf(double[] grid, double[] out) {
         Objects.requireNonNull(grid, "grid");
+        Objects.requireNonNull(out, "out");
         int m = grid.length;
         if (out.length < (long) n * m) {
             throw new IllegalArgumentException("output has " + out.length + " slots, need n·m = " + (long) n * m);
         }
-        double[] et = space.basisTransposed(grid);
+        double[] inside = new double[m];
         double[] ref = new double[m];
         for (int j = 0; j < m; j++) {
-            ref[j] = space.referenceDensity(grid[j]);
+            double x = grid[j];
+            if (Double.isNaN(x)) {
+                throw new IllegalArgumentException("grid point " + j + " is NaN");
+            }
+            inside[j] = Math.min(space.upper(), Math.max(space.lower(), x));
+            ref[j] = space.referenceDensity(x);
         }
+        double[] et = space.basisTransposed(inside);
         double[] z = logNormalisers();
-        int rows = 64;
+        int rows = 16;
         int blocks = (n + rows - 1) / rows;
         Kernels.forEachBlock(blocks, Kernels.parallelWorth((long) n * k * m), blk -> {
             int r0 = blk * rows, r1 = Math.min(n, r0 + rows);
+            Kernels.multiplyRows(data, r0 * k, r1 - r0, k, et, m, out, r0 * m);
             for (int i = r0; i < r1; i++) {
                 int o = i * m;
-                Arrays.fill(out, o, o + m, 0.0);
-                for (int j = 0; j < k; j++) {
-                    double cij = data[i * k + j];
-                    int bo = j * m;
-                    for (int q = 0; q < m; q++) {
-                        out[o + q] += cij * et[bo + q];
-                    }
-                }
                 double zi = z[i];
                 for (int q = 0; q < m; q++) {
-                    out[o + q] = ref[q] * Math.exp(out[o + q] - zi);
+                    double r = ref[q];
+                    out[o + q] = r == 0 ? 0.0 : r * Math.exp(out[o + q] - zi);
                 }
             }
         });
@@ -513,7 +504,7 @@ public final class DensitySet {
             int r0 = blk * rows, r1 = Math.min(n, r0 + rows);
             int m = r1 - r0;
             double[] clr = new double[m * q];
-            Kernels.multiply(Arrays.copyOfRange(data, r0 * k, r1 * k), m, k, bt, q, clr, false);
+            Kernels.multiplyRows(data, r0 * k, m, k, bt, q, clr, 0);
             double[] nodeRow = new double[q];
             double[] scratch = new double[space.scratchSize()];
             for (int i = 0; i < m; i++) {
@@ -538,19 +529,7 @@ public final class DensitySet {
         if (Double.isNaN(t)) {
             throw new IllegalArgumentException("threshold is NaN");
         }
-        return perRow((s, scratch) -> {
-            if (t <= space.lower()) {
-                return 1.0;
-            }
-            if (t >= space.upper()) {
-                return 0.0;
-            }
-            int j = space.panelOf(t);
-            double[] cum = s.cum;
-            double upperPanels = cum[cum.length - 1] - cum[j + 1];
-            double inPanel = (cum[j + 1] - cum[j]) - space.partial(s, j, t, scratch);
-            return Math.min(1.0, Math.max(0.0, upperPanels + inPanel));
-        });
+        return perRow((s, scratch) -> space.tail(s, t, scratch));
     }
 
     /**
