@@ -726,8 +726,9 @@ public final class BayesSpace {
                 leafTail[j] = ta;
             }
         }
-        Shape sh = new Shape(logZ, mass, cum, tail, leafEdges, leafCum, leafTail, bc, offset, Double.NaN);
-        return sh.withMean(moment(sh, clrNodes, 1, 0.0));
+        // the mean is not computed here: it costs a second exp pass and most callers (cdf, tail,
+        // quantile, pdf) do not need it; see mean(Shape, double[])
+        return new Shape(logZ, mass, cum, tail, leafEdges, leafCum, leafTail, bc, offset);
     }
 
     /**
@@ -1140,9 +1141,14 @@ public final class BayesSpace {
         return Math.min(b, Math.max(a, x));
     }
 
+    /** Mean ∫ x f(x) dx of a shape, from its clr values at the nodes. */
+    double mean(Shape sh, double[] clrNodes) {
+        return moment(sh, clrNodes, 1, 0.0);
+    }
+
     /** Variance ∫ (x − mean)² f(x) dx. */
     double variance(Shape sh, double[] clrNodes) {
-        return moment(sh, clrNodes, 2, sh.mean);
+        return moment(sh, clrNodes, 2, mean(sh, clrNodes));
     }
 
     void clrAtNodes(double[] c, int off, double[] out) {

@@ -245,7 +245,10 @@ public final class Density {
 
     /** Mean E[X]. */
     public double mean() {
-        return shape().mean;
+        Shape s = shape();
+        double[] nodesClr = new double[space.nodeCount()];
+        space.clrAtNodes(c, 0, nodesClr);
+        return space.mean(s, nodesClr);
     }
 
     /** Variance Var[X]. */

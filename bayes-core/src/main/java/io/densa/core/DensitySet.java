@@ -491,7 +491,7 @@ public final class DensitySet {
     }
 
     private interface RowFunction {
-        double apply(Shape shape, double[] scratch);
+        double apply(Shape shape, double[] clrNodes, double[] scratch);
     }
 
     private double[] perRow(RowFunction f) {
@@ -510,7 +510,7 @@ public final class DensitySet {
             for (int i = 0; i < m; i++) {
                 System.arraycopy(clr, i * q, nodeRow, 0, q);
                 Shape s = space.shape(data, (r0 + i) * k, nodeRow);
-                out[r0 + i] = f.apply(s, scratch);
+                out[r0 + i] = f.apply(s, nodeRow, scratch);
             }
         });
         return out;
@@ -521,7 +521,7 @@ public final class DensitySet {
         if (Double.isNaN(x)) {
             throw new IllegalArgumentException("x is NaN");
         }
-        return perRow((s, scratch) -> space.cdf(s, x, scratch));
+        return perRow((s, nodes, scratch) -> space.cdf(s, x, scratch));
     }
 
     /** Tail probabilities P(X_i &gt; t) for every density. */
@@ -529,7 +529,7 @@ public final class DensitySet {
         if (Double.isNaN(t)) {
             throw new IllegalArgumentException("threshold is NaN");
         }
-        return perRow((s, scratch) -> space.tail(s, t, scratch));
+        return perRow((s, nodes, scratch) -> space.tail(s, t, scratch));
     }
 
     /**
@@ -541,12 +541,12 @@ public final class DensitySet {
         if (!(p > 0 && p < 1)) {
             throw new IllegalArgumentException("probability must be in (0, 1), got " + p);
         }
-        return perRow((s, scratch) -> space.quantile(s, p, scratch));
+        return perRow((s, nodes, scratch) -> space.quantile(s, p, scratch));
     }
 
     /** E[X_i] for every density. */
     public double[] means() {
-        return perRow((s, scratch) -> s.mean);
+        return perRow((s, nodes, scratch) -> space.mean(s, nodes));
     }
 
     @Override

@@ -2,8 +2,8 @@ package io.densa.core;
 
 /**
  * Derived quantities of one density needed to evaluate it: log normaliser, panel masses with
- * their prefix and suffix sums, which panels need adaptive quadrature, raw-function coefficients
- * and the mean. Built once by {@link BayesSpace} and not modified afterwards; internal.
+ * their prefix and suffix sums, which panels need adaptive quadrature, raw-function
+ * coefficients. Built once by {@link BayesSpace} and not modified afterwards; internal.
  */
 final class Shape {
     /** log ∫ exp(clr) dP. */
@@ -24,11 +24,9 @@ final class Shape {
     /** Raw-function coefficients: clr(x) = φ(x)·rawCoef − offset. */
     final double[] rawCoef;
     final double offset;
-    /** E[X] (NaN in the preliminary shape used to compute it). */
-    final double mean;
 
     Shape(double logZ, double[] mass, double[] cum, double[] tail, double[][] leafEdges, double[][] leafCum,
-            double[][] leafTail, double[] rawCoef, double offset, double mean) {
+            double[][] leafTail, double[] rawCoef, double offset) {
         this.logZ = logZ;
         this.mass = mass;
         this.cum = cum;
@@ -38,11 +36,5 @@ final class Shape {
         this.leafTail = leafTail;
         this.rawCoef = rawCoef;
         this.offset = offset;
-        this.mean = mean;
-    }
-
-    /** The same shape with its mean set. */
-    Shape withMean(double m) {
-        return new Shape(logZ, mass, cum, tail, leafEdges, leafCum, leafTail, rawCoef, offset, m);
     }
 }
