@@ -11,13 +11,17 @@ import org.apache.commons.math3.stat.correlation.Covariance;
 import org.junit.jupiter.api.Test;
 
 /**
- * Calibration of the reported coordinate covariance (sandwich J⁻¹FJ⁻¹ at a fixed λ): over many
- * simulated replicates of one unit, the trace of the empirical covariance of the estimated
- * coordinates (Commons Math {@link Covariance}) must match the mean reported trace within 20 %
- * for dense counts (2,000 events over 50 bins) and raw samples; for sparse counts (40–100 events over
- * 50 bins) it is conservative by 30–40 %.
- * λ is fixed (the covariance is conditional on λ; a per-replicate choice adds variability the
- * formula does not describe), taken from an AIC fit of a pilot replicate.
+ * Calibration of the reported coordinate covariance (sandwich J⁻¹MJ⁻¹ at a fixed λ; for counts
+ * M is the empirical information with the N/(N − edf) factor): over many simulated replicates of
+ * one unit, the trace of the empirical covariance of the estimated coordinates (Commons Math
+ * {@link Covariance}) must match the mean reported trace within 20 % for dense counts (2,000
+ * events over 50 bins), 100 events over 50 bins and raw samples, and within 25 % (lower side) for
+ * 40 and 20 events over 50 bins.
+ * λ is fixed, taken from the default (marginal-likelihood) choice on a pilot replicate, because
+ * the covariance is conditional on λ: with λ chosen per replicate the spread of λ̂ adds
+ * variability that the formula does not describe (observed with AICc per replicate: reported /
+ * empirical 0.48 at 2,000 events, 0.38 at 100, 0.67 at 40, dominated by a few replicates whose
+ * criterion picked a much smaller λ).
  */
 class EstimationCalibrationTest {
     private static final int REPLICATES = 400;
@@ -30,18 +34,21 @@ class EstimationCalibrationTest {
     }
 
     /**
-     * Sparse counts, 100 and 40 events over 50 bins: the first-order sandwich over-reports (observed
-     * ratios about 1.3 and 1.4 with these seeds), i.e. it is conservative; asserted as
-     * 1 &lt; ratio &lt; 1.6. The over-report is not plug-in noise (the sandwich evaluated at the
-     * expected counts is as large) but the curvature approximation itself, which overstates the
-     * variability of a strongly penalised fit of a few tens of events. Not within the 20 % we aimed
-     * for: downstream weights for very sparse units are conservative.
+     * Sparse counts, 100 events over 50 bins: within 20 % (observed 0.93). 40 and 20 events:
+     * observed 0.81 and 0.80, asserted 0.75 &lt; ratio &lt; 1.2. The remaining under-report is the
+     * first-order linearisation itself at these λ (the exact first-order variance at the penalised
+     * target, with the true score variance, is already 5–20 % below the empirical one when λ is
+     * smaller than the AIC choice), plus the Monte Carlo error of a trace from 400 replicates (about
+     * ±7 %). The model-based meat F over-reported by 30–40 % here, because a strongly smoothed fit
+     * is not the law of the data; see {@link PenalizedLikelihoodEstimator}.
      */
     @Test
-    void sparseCountsCovarianceIsConservative() {
-        for (int events : new int[] {100, 40}) {
+    void sparseCountsCovarianceIsCalibrated() {
+        double r100 = ratio(100, false);
+        assertTrue(r100 > 0.8 && r100 < 1.2, "100 events: reported / empirical trace = " + r100);
+        for (int events : new int[] {40, 20}) {
             double ratio = ratio(events, false);
-            assertTrue(ratio > 1.0 && ratio < 1.6, events + " events: reported / empirical trace = " + ratio);
+            assertTrue(ratio > 0.75 && ratio < 1.2, events + " events: reported / empirical trace = " + ratio);
         }
     }
 

@@ -9,6 +9,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.EstimationTestSupport.Truth;
 import java.util.List;
+import org.apache.commons.math3.distribution.BetaDistribution;
 import org.apache.commons.math3.random.RandomGenerator;
 import org.ejml.data.DMatrixRMaj;
 import org.junit.jupiter.api.Test;
@@ -119,17 +120,20 @@ class PenalizedLikelihoodEstimatorTest {
 
     /**
      * Sparse counts (20–50 events over 50 bins, 200 units per truth): the penalised likelihood
-     * (default corrected AIC) has a smaller mean B2 error than zero replacement
-     * (Bayesian-multiplicative, Jeffreys) + compositional smoothing spline (GCV); the margins are
-     * printed (observed: about 2 % lower for the normal, 37 % for the mixture). Plain AIC, GCV and
-     * 5-fold cross-validation lose this comparison on the normal truth: they undersmooth some sparse
-     * units badly.
+     * (default restricted marginal likelihood choice of λ) has a mean B2 error at least 20 % lower
+     * than zero replacement (Bayesian-multiplicative, Jeffreys) + compositional smoothing spline
+     * (GCV), both in the same space with the same second-derivative penalty, each with its own
+     * data-driven λ; the margins are printed (observed: 49 % lower for the normal, 38 % for the
+     * mixture, 34 % for the beta; with AICc they were 2 %, 37 % and 24 %). Not every truth wins:
+     * for a wide, nearly flat normal (sd 0.35 on [0, 1]) the smoothing spline is about 13 % better,
+     * since the Jeffreys replacement shrinks towards the uniform, which is close to that truth.
      */
     @Test
     void beatsZeroReplacementPlusSmoothingSplineOnSparseCounts() {
         BayesSpace space = BayesSpace.splines(0, 1, 4, 8);
         double[] e = edges(0, 1, 50);
-        for (Truth truth : List.of(EstimationTestSupport.normal(), EstimationTestSupport.mixture())) {
+        Truth beta = new Truth("beta", 0, 1, new BetaDistribution(null, 2.5, 4.0), null, 1);
+        for (Truth truth : List.of(EstimationTestSupport.normal(), EstimationTestSupport.mixture(), beta)) {
             Density target = space.project(truth.pdfFunction()).density();
             RandomGenerator r = rng(31);
             int n = 200;
@@ -137,17 +141,12 @@ class PenalizedLikelihoodEstimatorTest {
             for (int i = 0; i < n; i++) {
                 counts[i] = truth.counts(20 + r.nextInt(31), 50, r);
             }
-            BatchEstimate ss = SmoothingSplineEstimator.of(space).fitAll(e, counts, null);
-            double mSs = meanError(ss, target);
-            List<PenalizedLikelihoodEstimator> ests = List.of(PenalizedLikelihoodEstimator.of(space));
-            List<String> labels = List.of("AICc");
-            for (int v = 0; v < ests.size(); v++) {
-                double mPl = meanError(ests.get(v).fitAll(e, counts, null), target);
-                System.out.printf("sparse %-8s mean B2 error: penalised likelihood (%s) %.4f, zero replacement +"
-                        + " smoothing spline %.4f, margin %.4f (%.0f %% lower)%n", truth.name, labels.get(v), mPl, mSs,
-                        mSs - mPl, 100 * (mSs - mPl) / mSs);
-                assertTrue(mPl < mSs, truth.name + ": penalised likelihood " + mPl + " vs smoothing spline " + mSs);
-            }
+            double mSs = meanError(SmoothingSplineEstimator.of(space).fitAll(e, counts, null), target);
+            double mPl = meanError(PenalizedLikelihoodEstimator.of(space).fitAll(e, counts, null), target);
+            System.out.printf("sparse %-8s mean B2 error: penalised likelihood (marginal likelihood) %.4f, zero"
+                    + " replacement + smoothing spline %.4f, margin %.4f (%.0f %% lower)%n", truth.name, mPl, mSs,
+                    mSs - mPl, 100 * (mSs - mPl) / mSs);
+            assertTrue(mPl < 0.8 * mSs, truth.name + ": penalised likelihood " + mPl + " vs smoothing spline " + mSs);
         }
     }
 
