@@ -162,14 +162,15 @@ class PenalizedLikelihoodEstimatorTest {
      * The chosen λ agrees with a brute-force grid of fixed-λ fits of the same criterion: the
      * estimator's choice (largest-λ local minimum, refined) must match the brute-force grid's
      * largest-λ local minimum within 0.1 decade, and its criterion value must not exceed the grid
-     * minimum near it by more than 10⁻⁴ (relative). Checked for GCV, AIC and AICc on dense counts.
+     * minimum near it by more than 10⁻⁴ (relative). Checked for GCV, AIC, AICc and the marginal likelihood on dense counts.
      */
     @Test
     void criterionChoiceAgreesWithBruteForceGrid() {
         BayesSpace space = BayesSpace.splines(0, 1, 4, 8);
         double[] e = edges(0, 1, 40);
         int[] counts = EstimationTestSupport.mixture().counts(3000, 40, rng(77));
-        for (SmoothingCriterion c : List.of(SmoothingCriterion.GCV, SmoothingCriterion.AIC, SmoothingCriterion.AICC)) {
+        for (SmoothingCriterion c : List.of(SmoothingCriterion.GCV, SmoothingCriterion.AIC, SmoothingCriterion.AICC,
+                SmoothingCriterion.MARGINAL_LIKELIHOOD)) {
             PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space).withCriterion(c);
             EstimationDiagnostics chosen = est.fit(e, counts).diagnostics();
             double step = 0.02;
@@ -262,6 +263,34 @@ class PenalizedLikelihoodEstimatorTest {
         }
         // expected Fisher information of the multinomial in clr coordinates gives edf = K = D − 1
         assertEquals(4, f.diagnostics().effectiveDegreesOfFreedom(), 1e-9);
+    }
+
+    /**
+     * Closed form for the reported covariance: at λ = 0 in a step space the empirical information
+     * equals the Fisher information at the MLE π̂ = n/N, so the reported B2 variance is
+     * N/(N − edf) times the delta-method variance of the clr of the proportions,
+     * Cov(log π̂) = (diag(1/π) − 11')/N (delta method for the multinomial, e.g. Agresti (2002),
+     * Categorical Data Analysis, §14.1; from memory): with clr = C log π + const,
+     * C = I − 1h'/|I|, the trace is Σ_j h_j (C diag(1/π) C')_jj / (N − edf), edf = D − 1.
+     */
+    @Test
+    void stepSpaceCovarianceMatchesDeltaMethod() {
+        double[] e = {0, 0.1, 0.3, 0.6, 0.7, 1.0};
+        BayesSpace space = BayesSpace.steps(e);
+        int[] n = {3, 5, 7, 2, 9};
+        int total = 26;
+        EstimationDiagnostics d = PenalizedLikelihoodEstimator.of(space).withSmoothing(0).fit(e, n).diagnostics();
+        double expected = 0;
+        for (int j = 0; j < n.length; j++) {
+            double v = 0;
+            for (int i = 0; i < n.length; i++) {
+                double c = (i == j ? 1.0 : 0.0) - (e[i + 1] - e[i]);
+                v += c * c * total / n[i];
+            }
+            expected += (e[j + 1] - e[j]) * v;
+        }
+        expected /= total - (n.length - 1);
+        assertEquals(expected, d.estimationVariance(), 1e-8 * expected);
     }
 
     /**
