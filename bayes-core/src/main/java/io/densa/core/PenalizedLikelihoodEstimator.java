@@ -66,7 +66,8 @@ import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DD
  * under the distribution that generated the data:
  * <ul>
  * <li>binned counts: the empirical (model-robust) information M = N/(N − edf) · Σ_j n_j (m_j −
- * m̄)(m_j − m̄)', m̄ = Σ_j n_j m_j / N (Huber (1967), The behavior of maximum likelihood estimates
+ * m̄)(m_j − m̄)', m̄ = Σ_j n_j m_j / N, the variance of the per-event scores over the observed
+ * events (Huber (1967), The behavior of maximum likelihood estimates
  * under nonstandard conditions, Proc. 5th Berkeley Symp. 1; small-sample factor as HC1 in
  * MacKinnon &amp; White (1985), J. Econometrics 29; both from memory), or F when N ≤ edf + 1. The
  * model-based choice M = F describes the variance only if the data came from the smoothed fit
@@ -76,7 +77,10 @@ import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DD
  * while the exact first-order variance J⁻¹ Var_true(∇ℓ) J⁻¹ at c_λ matched within 6 %: the
  * mismatch was the meat, not nonlinearity, not the multinomial constraint (the basis functions
  * integrate to zero, so F has full rank K when the bins resolve the space);</li>
- * <li>raw samples: M = F (calibrated within 5 % at 1,000 observations).</li>
+ * <li>raw samples x_i with weights w_i: likewise M = n/(n − edf) · (Σ w_i²/W) Σ_i w_i (e(x_i) −
+ * ē)(e(x_i) − ē)', ē the weighted sample mean of the basis functions, n = W²/Σ w_i² (Kish's
+ * effective sample size), or F when n ≤ edf + 1 (with M = F: reported / empirical 1.26 at 40
+ * and 1.23 at 100 observations);</li>
  * </ul>
  * It is conditional on λ: with λ chosen per unit the variability of λ̂ is not included, and
  * with strong undersmoothing (λ far below the chosen one) the linearisation itself under-reports.
@@ -536,6 +540,10 @@ public final class PenalizedLikelihoodEstimator {
                 eng.total = totals[i];
                 eng.total2 = totals2[i];
                 System.arraycopy(sd.linear, 0, eng.linear, 0, k + 1);
+                eng.sampleFirst = sd.first;
+                eng.sampleVals = sd.vals;
+                eng.sampleWeights = sd.w;
+                eng.sampleWidth = sd.width;
                 diag[i] = fitUnit(eng, domainScale, id, i, out, sd);
             }
         });

@@ -524,14 +524,64 @@ final class PenalizedNewton {
         }
     }
 
+    /** Sample mode: per-observation first raw index, local basis values (n × width) and weights. */
+    int[] sampleFirst;
+    double[] sampleVals;
+    double[] sampleWeights;
+    int sampleWidth;
+
+    /**
+     * The empirical information of a weighted sample (sample mode, arrays set): with φ_i the raw
+     * functions at x_i, M = (Σ w_i²/W) Σ_i w_i (φ_i − φ̄)(φ_i − φ̄)', φ̄ = Σ_i w_i φ_i / W — the
+     * score variance Σ w_i² Cov(φ) with Cov(φ) estimated from the sample instead of the fit.
+     * Written into {@link #meat}.
+     */
+    void empiricalInformationSample() {
+        Arrays.fill(meat, 0.0);
+        Arrays.fill(mvec, 0.0);
+        final int w = sampleWidth, n = sampleFirst.length;
+        for (int o = 0; o < n; o++) {
+            double wo = sampleWeights[o];
+            if (wo == 0.0) {
+                continue;
+            }
+            int f = sampleFirst[o], base = o * w;
+            for (int i = 0; i < w && f + i < k; i++) {
+                double vi = wo * sampleVals[base + i];
+                mvec[f + i] += vi;
+                int row = (f + i) * k + f;
+                for (int l = 0; l <= i; l++) {
+                    meat[row + l] += vi * sampleVals[base + l];
+                }
+            }
+        }
+        double c = 1.0 / total;
+        for (int i = 0; i < k; i++) {
+            double mi = c * mvec[i];
+            int row = i * k;
+            for (int l = 0; l <= i; l++) {
+                meat[row + l] -= mi * mvec[l];
+            }
+        }
+        double g = total2 / total;
+        for (int i = 0; i < k; i++) {
+            for (int l = 0; l <= i; l++) {
+                double v = g * meat[i * k + l];
+                meat[i * k + l] = v;
+                meat[l * k + i] = v;
+            }
+        }
+    }
+
     /**
      * After {@link #fisherInformation()}: factors J = F + 2λP = LL' (log det J into
      * {@link #logDetJ}) and returns edf = tr(J⁻¹F) = tr(W), W = L⁻¹ F L⁻ᵀ, or NaN if J is singular.
      * If cov != null, writes the sandwich covariance of the coordinates c = U β there:
      * U J⁻¹ M J⁻¹ U' = G W_M G' with the upper triangular G = U L⁻ᵀ (K × K) and W_M = L⁻¹ M L⁻ᵀ,
      * where the meat M is F, or, when {@code robust} is set, the empirical information
-     * ({@link #empiricalInformation()}, counts mode only) times N/(N − edf) (falling back to F when
-     * N ≤ edf + 1).
+     * ({@link #empiricalInformation()} for counts, {@link #empiricalInformationSample()} for a
+     * sample whose arrays are set) times n/(n − edf), n = N for counts and the effective sample
+     * size W²/Σw² for samples (falling back to F when n ≤ edf + 1).
      */
     double sandwich(double lambda, double[] u, double[] cov) {
         return sandwich(lambda, u, cov, false);
@@ -570,9 +620,14 @@ final class PenalizedNewton {
             return edf;
         }
         robustUsed = false;
-        if (robust && counts != null && total > edf + 1) {
-            empiricalInformation();
-            double f = total / (total - edf);
+        double nEff = counts != null ? total : total * total / total2;
+        if (robust && (counts != null || sampleFirst != null) && nEff > edf + 1) {
+            if (counts != null) {
+                empiricalInformation();
+            } else {
+                empiricalInformationSample();
+            }
+            double f = nEff / (nEff - edf);
             for (int i = 0; i < n * n; i++) {
                 meat[i] *= f;
             }

@@ -11,12 +11,12 @@ import org.apache.commons.math3.stat.correlation.Covariance;
 import org.junit.jupiter.api.Test;
 
 /**
- * Calibration of the reported coordinate covariance (sandwich J⁻¹MJ⁻¹ at a fixed λ; for counts
- * M is the empirical information with the N/(N − edf) factor): over many simulated replicates of
+ * Calibration of the reported coordinate covariance (sandwich J⁻¹MJ⁻¹ at a fixed λ, M the
+ * empirical information with the n/(n − edf) factor): over many simulated replicates of
  * one unit, the trace of the empirical covariance of the estimated coordinates (Commons Math
  * {@link Covariance}) must match the mean reported trace within 20 % for dense counts (2,000
- * events over 50 bins), 100 events over 50 bins and raw samples, and within 25 % (lower side) for
- * 40 and 20 events over 50 bins.
+ * events over 50 bins), 100 events over 50 bins and raw samples of 1,000 and 100 observations,
+ * and within 25 % (lower side) for 40 and 20 events over 50 bins and 40 observations.
  * λ is fixed, taken from the default (marginal-likelihood) choice on a pilot replicate, because
  * the covariance is conditional on λ: with λ chosen per replicate the spread of λ̂ adds
  * variability that the formula does not describe (observed with AICc per replicate: reported /
@@ -52,11 +52,19 @@ class EstimationCalibrationTest {
         }
     }
 
-    /** 1,000 raw observations: within 20 %. */
+    /**
+     * Raw samples (empirical information of the sample as meat): 1,000 and 100 observations within
+     * 20 % (observed 0.97, 0.93), 40 observations asserted 0.75 &lt; ratio &lt; 1.2 (observed 0.81;
+     * the model-based meat gave 1.06, 1.23 and 1.26).
+     */
     @Test
     void sampleCovarianceIsCalibrated() {
-        double ratio = ratio(1000, true);
-        assertTrue(ratio > 0.8 && ratio < 1.2, "reported / empirical trace = " + ratio);
+        for (int n : new int[] {1000, 100}) {
+            double ratio = ratio(n, true);
+            assertTrue(ratio > 0.8 && ratio < 1.2, n + " observations: reported / empirical trace = " + ratio);
+        }
+        double r40 = ratio(40, true);
+        assertTrue(r40 > 0.75 && r40 < 1.2, "40 observations: reported / empirical trace = " + r40);
     }
 
     private static double ratio(int events, boolean sample) {
