@@ -82,8 +82,18 @@ import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DD
  * effective sample size), or F when n ≤ edf + 1 (with M = F: reported / empirical 1.26 at 40
  * and 1.23 at 100 observations);</li>
  * </ul>
- * It is conditional on λ: with λ chosen per unit the variability of λ̂ is not included, and
- * with strong undersmoothing (λ far below the chosen one) the linearisation itself under-reports.
+ * With a fixed λ it is conditional on λ. With λ chosen per unit by
+ * {@link SmoothingCriterion#MARGINAL_LIKELIHOOD} (the default) the first-order effect of the
+ * uncertainty of ρ = ln λ̂ is added, V_ρ (dĉ/dρ)(dĉ/dρ)' with dĉ/dρ = −J⁻¹ 2λΩĉ (implicit
+ * differentiation of the penalised score equation) and V_ρ = 2/V''(ρ) from a
+ * central difference of the criterion over ±0.25 decade (two more warm-started fits per unit;
+ * Wood, Pya &amp; Säfken (2016), Smoothing parameter and model selection for general smooth
+ * models, JASA 111, §3; from memory); without it, reported / empirical traces over replicates with
+ * their own λ̂ were 0.92, 0.74 and 0.51 at 2,000, 100 and 40 events (normal truth), with it 0.98,
+ * 0.91 and 0.81 (mixture truth: 0.93, 0.79, 0.74). With the other criteria the variability of λ̂
+ * is not included (AICc picks λ over five decades on such replicates; reported / empirical
+ * 0.2–0.3). With strong undersmoothing (λ far below the chosen one) the linearisation itself
+ * under-reports.
  * It describes the sampling variability of the estimate, not its smoothing bias; its trace is the
  * unit's B2 estimation variance.
  *
@@ -95,6 +105,8 @@ public final class PenalizedLikelihoodEstimator {
     private static final int UNITS_PER_BLOCK = 32;
     private static final int GOLDEN_STEPS = 7;
     private static final double SEARCH_TOLERANCE = 1e-9;
+    /** Half-width in decades of the central difference for the curvature of the marginal likelihood. */
+    private static final double SMOOTHING_STEP = 0.25;
 
     private final BayesSpace space;
     private final int penaltyOrder;
@@ -777,6 +789,10 @@ public final class PenalizedLikelihoodEstimator {
         if (!Double.isFinite(crit) && criterion == SmoothingCriterion.GCV && ok) {
             crit = Double.POSITIVE_INFINITY; // edf ≥ number of bins: GCV undefined, reported as +∞
         }
+        if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD
+                && Double.isFinite(crit)) {
+            addSmoothingUncertainty(eng, lambda, crit, cv, cov);
+        }
         EstimationSupport.toCoordinates(u, k, eng.beta, out, index * k);
         for (int i = 0; i < k; i++) {
             if (!Double.isFinite(out[index * k + i])) {
@@ -786,6 +802,48 @@ public final class PenalizedLikelihoodEstimator {
         return new EstimationDiagnostics(id, ok ? EstimationDiagnostics.Status.CONVERGED
                 : EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose, criterion, crit, edf, loglik,
                 eng.total, iterations, cov, EstimationSupport.trace(cov, k));
+    }
+
+    /**
+     * Adds the first-order effect of the uncertainty of ρ = ln λ chosen by the marginal likelihood:
+     * cov += V_ρ (dc/dρ)(dc/dρ)', dc/dρ = −U J⁻¹ 2λPβ (implicit differentiation of the penalised
+     * score equation), V_ρ = 2 / V''(ρ) from a central difference of the criterion V = −2 log
+     * marginal likelihood over ±h decades (Wood, Pya &amp; Säfken (2016), Smoothing parameter and
+     * model selection for general smooth models, JASA 111, §3; from memory). Needs the Cholesky
+     * factor of J in the engine (left by the last sandwich); restores the engine state.
+     */
+    private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, Folds cv, double[] cov) {
+        double[] dBeta = new double[k + 1];
+        double[] pb = new double[k];
+        for (int i = 0; i < k; i++) {
+            double r = 0;
+            for (int j = 0; j < k; j++) {
+                r += rawPenalty[i * k + j] * eng.beta[j];
+            }
+            pb[i] = -2 * lambda * r;
+        }
+        System.arraycopy(pb, 0, dBeta, 0, k);
+        PenalizedNewton.cholSolve(eng.solveA, k, k, dBeta, 0);
+        double[] dc = new double[k];
+        EstimationSupport.toCoordinates(u, k, dBeta, dc, 0);
+        double[] saved = eng.beta.clone();
+        double h = SMOOTHING_STEP;
+        double up = criterionAt(eng, lambda * Math.pow(10, h), cv);
+        System.arraycopy(saved, 0, eng.beta, 0, k + 1);
+        double down = criterionAt(eng, lambda * Math.pow(10, -h), cv);
+        System.arraycopy(saved, 0, eng.beta, 0, k + 1);
+        eng.evaluate(eng.beta, lambda);
+        double curvG = (up - 2 * crit + down) / (h * h);
+        if (!(curvG > 0) || !Double.isFinite(curvG)) {
+            return;
+        }
+        double ln10 = Math.log(10);
+        double varRho = 2 * ln10 * ln10 / curvG;
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j < k; j++) {
+                cov[i * k + j] += varRho * dc[i] * dc[j];
+            }
+        }
     }
 
     /** Golden-section refinement of log10 λ on [bestG − step, bestG + step] (grid ends or flat spots). */
