@@ -5,6 +5,7 @@ import java.util.Arrays;
 import java.util.Objects;
 import java.util.SplittableRandom;
 import org.ejml.data.DMatrixRMaj;
+import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DDRM;
 
 /**
  * Penalised maximum-likelihood estimation of densities from binned counts or raw samples,
@@ -39,8 +40,10 @@ import org.ejml.data.DMatrixRMaj;
  *
  * <h2>Smoothing parameter</h2>
  * Fixed ({@link #withSmoothing}) or chosen per unit by {@link SmoothingCriterion} (default
- * {@link SmoothingCriterion#AICC}; plain AIC and GCV undersmooth badly on sparse counts): the
- * criterion is evaluated on a grid λ = N s 10^g,
+ * {@link SmoothingCriterion#MARGINAL_LIKELIHOOD}, the empirical-Bayes choice that reads the
+ * penalty as a Gaussian prior on the coordinates; on sparse simulated counts (20–50 events over
+ * 50 bins) it has a markedly smaller mean B2 error than AICc, and AIC and GCV undersmooth badly
+ * there): the criterion is evaluated on a grid λ = N s 10^g,
  * g = hi, hi − step, …, lo (warm starts from strong to weak smoothing; N the total count and s a
  * scale making the penalty commensurate with the per-event Fisher information at the reference).
  * The scan stops once the criterion has risen at two consecutive grid points after its best
@@ -55,11 +58,44 @@ import org.ejml.data.DMatrixRMaj;
  * {@link #withSmoothingGrid} sets a floor.
  *
  * <h2>Covariance</h2>
- * The reported coordinate covariance is the sandwich J⁻¹ F J⁻¹ with F the expected Fisher
- * information of the unpenalised log-likelihood at the estimate (multinomial: F = N(Σ_j π_j m_j
- * m_j' − m m'); samples: (Σ w_i²) Cov_f(e)) and J = F + 2λΩ the expected penalised information;
- * edf = tr(J⁻¹F). It describes the sampling variability of the estimate (not its smoothing
- * bias); its trace is the unit's B2 estimation variance.
+ * The reported coordinate covariance is the sandwich J⁻¹ M J⁻¹ of the first-order (Newton)
+ * linearisation ĉ − c_λ ≈ J⁻¹ ∇ℓ(c_λ) around the penalised target c_λ, with J = F + 2λΩ, F the
+ * expected Fisher information of the unpenalised log-likelihood at the estimate (multinomial:
+ * F = N(Σ_j π_j m_j m_j' − m m'), m_j the mean of the basis functions over bin j under the fit;
+ * samples: (Σ w_i²) Cov_f(e)) and edf = tr(J⁻¹F). The meat M estimates the variance of the score
+ * under the distribution that generated the data:
+ * <ul>
+ * <li>binned counts: the empirical (model-robust) information M = N/(N − edf) · Σ_j n_j (m_j −
+ * m̄)(m_j − m̄)', m̄ = Σ_j n_j m_j / N, the variance of the per-event scores over the observed
+ * events (Huber (1967), The behavior of maximum likelihood estimates
+ * under nonstandard conditions, Proc. 5th Berkeley Symp. 1; small-sample factor as HC1 in
+ * MacKinnon &amp; White (1985), J. Econometrics 29; both from memory), or F when N ≤ edf + 1. The
+ * model-based choice M = F describes the variance only if the data came from the smoothed fit
+ * π(ĉ); a strongly penalised fit of a few tens of events is far from the truth (smoothing bias),
+ * and F then over-reports: in our simulations (normal truth, 50 bins, K = 11, λ fixed) F gave a
+ * reported / empirical trace of 1.31 at 100 events and 1.37 at 40 (1.7–1.9 at ten times the λ),
+ * while the exact first-order variance J⁻¹ Var_true(∇ℓ) J⁻¹ at c_λ matched within 6 %: the
+ * mismatch was the meat, not nonlinearity, not the multinomial constraint (the basis functions
+ * integrate to zero, so F has full rank K when the bins resolve the space);</li>
+ * <li>raw samples x_i with weights w_i: likewise M = n/(n − edf) · (Σ w_i²/W) Σ_i w_i (e(x_i) −
+ * ē)(e(x_i) − ē)', ē the weighted sample mean of the basis functions, n = W²/Σ w_i² (Kish's
+ * effective sample size), or F when n ≤ edf + 1 (with M = F: reported / empirical 1.26 at 40
+ * and 1.23 at 100 observations);</li>
+ * </ul>
+ * With a fixed λ it is conditional on λ. With λ chosen per unit by
+ * {@link SmoothingCriterion#MARGINAL_LIKELIHOOD} (the default) the first-order effect of the
+ * uncertainty of ρ = ln λ̂ is added, V_ρ (dĉ/dρ)(dĉ/dρ)' with dĉ/dρ = −J⁻¹ 2λΩĉ (implicit
+ * differentiation of the penalised score equation) and V_ρ = 2/V''(ρ) from a
+ * central difference of the criterion over ±0.25 decade (two more warm-started fits per unit;
+ * Wood, Pya &amp; Säfken (2016), Smoothing parameter and model selection for general smooth
+ * models, JASA 111, §3; from memory); without it, reported / empirical traces over replicates with
+ * their own λ̂ were 0.92, 0.74 and 0.51 at 2,000, 100 and 40 events (normal truth), with it 0.98,
+ * 0.91 and 0.81 (mixture truth: 0.93, 0.79, 0.74). With the other criteria the variability of λ̂
+ * is not included (AICc picks λ over five decades on such replicates; reported / empirical
+ * 0.2–0.3). With strong undersmoothing (λ far below the chosen one) the linearisation itself
+ * under-reports.
+ * It describes the sampling variability of the estimate, not its smoothing bias; its trace is the
+ * unit's B2 estimation variance.
  *
  * <p>Immutable and thread-safe; arrays passed in are not modified. {@code fitAll} runs units in
  * parallel on the common pool (fixed blocks, each unit independent), bit-identical to the serial
@@ -69,6 +105,8 @@ public final class PenalizedLikelihoodEstimator {
     private static final int UNITS_PER_BLOCK = 32;
     private static final int GOLDEN_STEPS = 7;
     private static final double SEARCH_TOLERANCE = 1e-9;
+    /** Half-width in decades of the central difference for the curvature of the marginal likelihood. */
+    private static final double SMOOTHING_STEP = 0.25;
 
     private final BayesSpace space;
     private final int penaltyOrder;
@@ -92,6 +130,7 @@ public final class PenalizedLikelihoodEstimator {
     private final double[] u;
     private final BinLayout domain;
     private final double domainScale;
+    private final int penaltyRank;
 
     private PenalizedLikelihoodEstimator(BayesSpace space, int penaltyOrder, double fixedLambda,
             SmoothingCriterion criterion, int folds, long seed, double gridLo, double gridHi, double gridStep,
@@ -118,6 +157,26 @@ public final class PenalizedLikelihoodEstimator {
         this.u = EstimationSupport.upperU(t, k);
         this.domain = new BinLayout(space, new double[] {space.lower(), space.upper()}, points);
         this.domainScale = scale(domain, false);
+        this.penaltyRank = rank(rawPenalty, k);
+    }
+
+    /** Numerical rank of a symmetric positive semi-definite K × K matrix (eigenvalues above 10⁻⁹ max). */
+    private static int rank(double[] m, int k) {
+        SymmetricQRAlgorithmDecomposition_DDRM eig = new SymmetricQRAlgorithmDecomposition_DDRM(false);
+        if (!eig.decompose(new DMatrixRMaj(k, k, true, m))) {
+            return k;
+        }
+        double max = 0;
+        for (int i = 0; i < k; i++) {
+            max = Math.max(max, Math.abs(eig.getEigenvalue(i).getReal()));
+        }
+        int r = 0;
+        for (int i = 0; i < k; i++) {
+            if (eig.getEigenvalue(i).getReal() > 1e-9 * max) {
+                r++;
+            }
+        }
+        return r;
     }
 
     private PenalizedLikelihoodEstimator copy(int order, double lambda, SmoothingCriterion crit, int nFolds,
@@ -129,7 +188,8 @@ public final class PenalizedLikelihoodEstimator {
 
     /**
      * The estimator for a space with defaults: penalty on the second derivative (first for
-     * linear splines or step bases with two bins), smoothing chosen by the corrected AIC on the grid g = 3, 2, …, −6
+     * linear splines or step bases with two bins), smoothing chosen by the restricted marginal
+     * likelihood ({@link SmoothingCriterion#MARGINAL_LIKELIHOOD}) on the grid g = 3, 2, …, −6
      * (step 1), at most 100 Newton iterations, tolerance 10⁻¹², automatic Gauss–Legendre points per
      * piece, zero-total units rejected, whole-number counts required, parallel batches.
      *
@@ -138,7 +198,8 @@ public final class PenalizedLikelihoodEstimator {
     public static PenalizedLikelihoodEstimator of(BayesSpace space) {
         Objects.requireNonNull(space, "space");
         int order = Math.min(2, RoughnessPenalty.maxOrder(space.basis()));
-        return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.AICC, 5, 1L, -6, 3, 1,
+        return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.MARGINAL_LIKELIHOOD, 5,
+                1L, -6, 3, 1,
                 100, 1e-12, 0, ZeroTotalPolicy.REJECT, false, true);
     }
 
@@ -491,6 +552,10 @@ public final class PenalizedLikelihoodEstimator {
                 eng.total = totals[i];
                 eng.total2 = totals2[i];
                 System.arraycopy(sd.linear, 0, eng.linear, 0, k + 1);
+                eng.sampleFirst = sd.first;
+                eng.sampleVals = sd.vals;
+                eng.sampleWeights = sd.w;
+                eng.sampleWidth = sd.width;
                 diag[i] = fitUnit(eng, domainScale, id, i, out, sd);
             }
         });
@@ -713,7 +778,7 @@ public final class PenalizedLikelihoodEstimator {
         double[] cov = new double[k * k];
         eng.evaluate(eng.beta, lambda);
         eng.fisherInformation();
-        double edf = eng.sandwich(lambda, u, cov);
+        double edf = eng.sandwich(lambda, u, cov, true);
         if (Double.isNaN(edf)) {
             ok = false;
             reason = (reason.isEmpty() ? "" : reason + "; ")
@@ -724,6 +789,10 @@ public final class PenalizedLikelihoodEstimator {
         if (!Double.isFinite(crit) && criterion == SmoothingCriterion.GCV && ok) {
             crit = Double.POSITIVE_INFINITY; // edf ≥ number of bins: GCV undefined, reported as +∞
         }
+        if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD
+                && Double.isFinite(crit)) {
+            addSmoothingUncertainty(eng, lambda, crit, cv, cov);
+        }
         EstimationSupport.toCoordinates(u, k, eng.beta, out, index * k);
         for (int i = 0; i < k; i++) {
             if (!Double.isFinite(out[index * k + i])) {
@@ -733,6 +802,48 @@ public final class PenalizedLikelihoodEstimator {
         return new EstimationDiagnostics(id, ok ? EstimationDiagnostics.Status.CONVERGED
                 : EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose, criterion, crit, edf, loglik,
                 eng.total, iterations, cov, EstimationSupport.trace(cov, k));
+    }
+
+    /**
+     * Adds the first-order effect of the uncertainty of ρ = ln λ chosen by the marginal likelihood:
+     * cov += V_ρ (dc/dρ)(dc/dρ)', dc/dρ = −U J⁻¹ 2λPβ (implicit differentiation of the penalised
+     * score equation), V_ρ = 2 / V''(ρ) from a central difference of the criterion V = −2 log
+     * marginal likelihood over ±h decades (Wood, Pya &amp; Säfken (2016), Smoothing parameter and
+     * model selection for general smooth models, JASA 111, §3; from memory). Needs the Cholesky
+     * factor of J in the engine (left by the last sandwich); restores the engine state.
+     */
+    private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, Folds cv, double[] cov) {
+        double[] dBeta = new double[k + 1];
+        double[] pb = new double[k];
+        for (int i = 0; i < k; i++) {
+            double r = 0;
+            for (int j = 0; j < k; j++) {
+                r += rawPenalty[i * k + j] * eng.beta[j];
+            }
+            pb[i] = -2 * lambda * r;
+        }
+        System.arraycopy(pb, 0, dBeta, 0, k);
+        PenalizedNewton.cholSolve(eng.solveA, k, k, dBeta, 0);
+        double[] dc = new double[k];
+        EstimationSupport.toCoordinates(u, k, dBeta, dc, 0);
+        double[] saved = eng.beta.clone();
+        double h = SMOOTHING_STEP;
+        double up = criterionAt(eng, lambda * Math.pow(10, h), cv);
+        System.arraycopy(saved, 0, eng.beta, 0, k + 1);
+        double down = criterionAt(eng, lambda * Math.pow(10, -h), cv);
+        System.arraycopy(saved, 0, eng.beta, 0, k + 1);
+        eng.evaluate(eng.beta, lambda);
+        double curvG = (up - 2 * crit + down) / (h * h);
+        if (!(curvG > 0) || !Double.isFinite(curvG)) {
+            return;
+        }
+        double ln10 = Math.log(10);
+        double varRho = 2 * ln10 * ln10 / curvG;
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j < k; j++) {
+                cov[i * k + j] += varRho * dc[i] * dc[j];
+            }
+        }
     }
 
     /** Golden-section refinement of log10 λ on [bestG − step, bestG + step] (grid ends or flat spots). */
@@ -798,6 +909,13 @@ public final class PenalizedLikelihoodEstimator {
         switch (criterion) {
             case AIC:
                 return -2 * loglik + 2 * edf;
+            case MARGINAL_LIKELIHOOD: {
+                double ld = eng.logDetJ;
+                if (!(lambda > 0) || Double.isNaN(ld)) {
+                    return Double.POSITIVE_INFINITY;
+                }
+                return -2 * loglik + 2 * lambda * eng.penalty(eng.beta) + ld - penaltyRank * Math.log(2 * lambda);
+            }
             case AICC: {
                 double nEff = eng.total;
                 return nEff > edf + 1 ? -2 * loglik + 2 * edf * nEff / (nEff - edf - 1) : Double.POSITIVE_INFINITY;

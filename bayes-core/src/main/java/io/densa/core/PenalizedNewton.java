@@ -50,7 +50,12 @@ final class PenalizedNewton {
     final double[] solveB;
     final double[] scratch1;
     final double[] scratch2;
+    final double[] meat;
     double zScaled;
+    /** log det(F + 2λP) from the last {@link #sandwich} (NaN if singular). */
+    double logDetJ;
+    /** Whether the last covariance from {@link #sandwich} used the empirical information. */
+    boolean robustUsed;
     double shift;
     double loglik;
     double objective;
@@ -79,6 +84,7 @@ final class PenalizedNewton {
         solveB = new double[k * k];
         scratch1 = new double[k * k];
         scratch2 = new double[k * k];
+        meat = new double[k * k];
     }
 
     /** Optional K × D map from log(n_j + 1/2) to starting coefficients, and its constant. */
@@ -463,19 +469,139 @@ final class PenalizedNewton {
     }
 
     /**
-     * After {@link #fisherInformation()}: factors J = F + 2λP = LL' and returns
-     * edf = tr(J⁻¹F) = tr(W), W = L⁻¹ F L⁻ᵀ, or NaN if J is singular. If cov != null, writes the
-     * sandwich covariance of the coordinates c = U β there: U J⁻¹ F J⁻¹ U' = M W M' with the upper
-     * triangular M = U L⁻ᵀ (K × K).
+     * The empirical (model-robust) information of the counts at the last evaluated point (beta):
+     * with m_j = ∫_{bin j} φ e^η dP / A_j the within-bin mean of the raw functions,
+     * M = Σ_j n_j m_j m_j' − t t'/N, t = Σ_j n_j m_j, i.e. N times the covariance of the per-event
+     * scores m_{j(i)} − m over the observed events (centred at their own mean, which absorbs the
+     * penalty gradient). Written into {@link #meat} (K × K, row-major).
+     */
+    void empiricalInformation() {
+        Arrays.fill(meat, 0.0);
+        Arrays.fill(mvec, 0.0);
+        final int w = lay.width;
+        final double[] vals = lay.vals;
+        final int[] first = lay.first;
+        final int[] start = lay.binStart;
+        for (int j = 0; j < lay.bins; j++) {
+            double nj = counts[j];
+            if (!(nj > 0)) {
+                continue;
+            }
+            int lo = lay.binLo[j], hi = Math.min(lay.binHi[j], k);
+            Arrays.fill(uj, lo, hi, 0.0);
+            for (int q = start[j]; q < start[j + 1]; q++) {
+                double e = ex[q];
+                int f = first[q], base = q * w;
+                for (int i = 0; i < w && f + i < k; i++) {
+                    uj[f + i] += e * vals[base + i];
+                }
+            }
+            double inv = 1.0 / mass[j];
+            for (int i = lo; i < hi; i++) {
+                uj[i] *= inv;
+                mvec[i] += nj * uj[i];
+            }
+            for (int i = lo; i < hi; i++) {
+                double ui = nj * uj[i];
+                int row = i * k;
+                for (int l = lo; l <= i; l++) {
+                    meat[row + l] += ui * uj[l];
+                }
+            }
+        }
+        double c = 1.0 / total;
+        for (int i = 0; i < k; i++) {
+            double mi = c * mvec[i];
+            int row = i * k;
+            for (int l = 0; l <= i; l++) {
+                meat[row + l] -= mi * mvec[l];
+            }
+        }
+        for (int i = 0; i < k; i++) {
+            for (int l = 0; l < i; l++) {
+                meat[l * k + i] = meat[i * k + l];
+            }
+        }
+    }
+
+    /** Sample mode: per-observation first raw index, local basis values (n × width) and weights. */
+    int[] sampleFirst;
+    double[] sampleVals;
+    double[] sampleWeights;
+    int sampleWidth;
+
+    /**
+     * The empirical information of a weighted sample (sample mode, arrays set): with φ_i the raw
+     * functions at x_i, M = (Σ w_i²/W) Σ_i w_i (φ_i − φ̄)(φ_i − φ̄)', φ̄ = Σ_i w_i φ_i / W — the
+     * score variance Σ w_i² Cov(φ) with Cov(φ) estimated from the sample instead of the fit.
+     * Written into {@link #meat}.
+     */
+    void empiricalInformationSample() {
+        Arrays.fill(meat, 0.0);
+        Arrays.fill(mvec, 0.0);
+        final int w = sampleWidth, n = sampleFirst.length;
+        for (int o = 0; o < n; o++) {
+            double wo = sampleWeights[o];
+            if (wo == 0.0) {
+                continue;
+            }
+            int f = sampleFirst[o], base = o * w;
+            for (int i = 0; i < w && f + i < k; i++) {
+                double vi = wo * sampleVals[base + i];
+                mvec[f + i] += vi;
+                int row = (f + i) * k + f;
+                for (int l = 0; l <= i; l++) {
+                    meat[row + l] += vi * sampleVals[base + l];
+                }
+            }
+        }
+        double c = 1.0 / total;
+        for (int i = 0; i < k; i++) {
+            double mi = c * mvec[i];
+            int row = i * k;
+            for (int l = 0; l <= i; l++) {
+                meat[row + l] -= mi * mvec[l];
+            }
+        }
+        double g = total2 / total;
+        for (int i = 0; i < k; i++) {
+            for (int l = 0; l <= i; l++) {
+                double v = g * meat[i * k + l];
+                meat[i * k + l] = v;
+                meat[l * k + i] = v;
+            }
+        }
+    }
+
+    /**
+     * After {@link #fisherInformation()}: factors J = F + 2λP = LL' (log det J into
+     * {@link #logDetJ}) and returns edf = tr(J⁻¹F) = tr(W), W = L⁻¹ F L⁻ᵀ, or NaN if J is singular.
+     * If cov != null, writes the sandwich covariance of the coordinates c = U β there:
+     * U J⁻¹ M J⁻¹ U' = G W_M G' with the upper triangular G = U L⁻ᵀ (K × K) and W_M = L⁻¹ M L⁻ᵀ,
+     * where the meat M is F, or, when {@code robust} is set, the empirical information
+     * ({@link #empiricalInformation()} for counts, {@link #empiricalInformationSample()} for a
+     * sample whose arrays are set) times n/(n − edf), n = N for counts and the effective sample
+     * size W²/Σw² for samples (falling back to F when n ≤ edf + 1).
      */
     double sandwich(double lambda, double[] u, double[] cov) {
+        return sandwich(lambda, u, cov, false);
+    }
+
+    /** See {@link #sandwich(double, double[], double[])}. */
+    double sandwich(double lambda, double[] u, double[] cov, boolean robust) {
         final int n = k;
         for (int i = 0; i < n * n; i++) {
             solveA[i] = fisher[i] + 2 * lambda * pen[i];
         }
         if (!cholesky(solveA, n, n)) {
+            logDetJ = Double.NaN;
             return Double.NaN;
         }
+        double ld = 0;
+        for (int i = 0; i < n; i++) {
+            ld += Math.log(solveA[i * n + i]);
+        }
+        logDetJ = 2 * ld;
         double[] linv = solveB;
         Arrays.fill(linv, 0.0);
         for (int c = 0; c < n; c++) {
@@ -488,37 +614,27 @@ final class PenalizedNewton {
                 linv[ri + c] = s / solveA[ri + i];
             }
         }
-        // t1 = L⁻¹ F
-        double[] t1 = scratch1;
-        for (int i = 0; i < n; i++) {
-            int ri = i * n;
-            Arrays.fill(t1, ri, ri + n, 0.0);
-            for (int p = 0; p <= i; p++) {
-                double l = linv[ri + p];
-                int rp = p * n;
-                for (int j = 0; j < n; j++) {
-                    t1[ri + j] += l * fisher[rp + j];
-                }
-            }
-        }
-        // w = t1 L⁻ᵀ (symmetric): w_ij = Σ_{p ≤ j} t1_ip linv_jp
         double[] wm = scratch2;
-        double edf = 0;
-        for (int i = 0; i < n; i++) {
-            for (int j = 0; j <= i; j++) {
-                double s = 0;
-                int ri = i * n, rj = j * n;
-                for (int p = 0; p <= j; p++) {
-                    s += t1[ri + p] * linv[rj + p];
-                }
-                wm[ri + j] = s;
-                wm[rj + i] = s;
-            }
-            edf += wm[i * n + i];
-        }
+        double edf = whiten(fisher, linv, wm);
         if (cov == null) {
             return edf;
         }
+        robustUsed = false;
+        double nEff = counts != null ? total : total * total / total2;
+        if (robust && (counts != null || sampleFirst != null) && nEff > edf + 1) {
+            if (counts != null) {
+                empiricalInformation();
+            } else {
+                empiricalInformationSample();
+            }
+            double f = nEff / (nEff - edf);
+            for (int i = 0; i < n * n; i++) {
+                meat[i] *= f;
+            }
+            whiten(meat, linv, wm);
+            robustUsed = true;
+        }
+        double[] t1 = scratch1;
         // m = U L⁻ᵀ (upper): m_ij = Σ_{i ≤ p ≤ j} u_ip linv_jp ; stored in t1
         double[] m = t1;
         Arrays.fill(m, 0.0);
@@ -559,5 +675,37 @@ final class PenalizedNewton {
             }
         }
         return edf;
+    }
+
+    /** wm = L⁻¹ a L⁻ᵀ (symmetric, linv = L⁻¹ lower triangular); returns its trace. Uses scratch1. */
+    private double whiten(double[] a, double[] linv, double[] wm) {
+        final int n = k;
+        double[] t1 = scratch1;
+        for (int i = 0; i < n; i++) {
+            int ri = i * n;
+            Arrays.fill(t1, ri, ri + n, 0.0);
+            for (int p = 0; p <= i; p++) {
+                double l = linv[ri + p];
+                int rp = p * n;
+                for (int j = 0; j < n; j++) {
+                    t1[ri + j] += l * a[rp + j];
+                }
+            }
+        }
+        // w_ij = Σ_{p ≤ j} t1_ip linv_jp
+        double tr = 0;
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j <= i; j++) {
+                double s = 0;
+                int ri = i * n, rj = j * n;
+                for (int p = 0; p <= j; p++) {
+                    s += t1[ri + p] * linv[rj + p];
+                }
+                wm[ri + j] = s;
+                wm[rj + i] = s;
+            }
+            tr += wm[i * n + i];
+        }
+        return tr;
     }
 }

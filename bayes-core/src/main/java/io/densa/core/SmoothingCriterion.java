@@ -16,9 +16,26 @@ public enum SmoothingCriterion {
      * (+∞ when N ≤ edf + 1): Hurvich, Simonoff &amp; Tsai (1998), Smoothing parameter selection in
      * nonparametric regression using an improved Akaike information criterion, J. R. Stat. Soc. B
      * 60(2) (from memory). Equal to AIC for large N, it resists the undersmoothing of AIC and GCV on
-     * sparse counts; the default of {@link PenalizedLikelihoodEstimator}.
+     * sparse counts (the default before {@link #MARGINAL_LIKELIHOOD}, which does better there).
      */
     AICC,
+    /**
+     * Laplace-approximate restricted marginal likelihood (empirical Bayes): the roughness penalty
+     * is read as an improper Gaussian prior c ~ N(0, (2λΩ)⁻) on the coordinates, flat on the
+     * penalty's null space (the clr polynomials of degree below the penalty order), and λ
+     * minimises
+     * <pre>
+     *   V(λ) = −2ℓ(ĉ) + 2λ ĉ'Ωĉ + log det(F + 2λΩ) − r log(2λ),
+     * </pre>
+     * r = rank Ω, F the Fisher information at the estimate ĉ(λ): minus twice the Laplace
+     * approximation of log ∫ L(c) p(c | λ) dc up to a constant. Wahba (1985), A comparison of GCV and
+     * GML for choosing the smoothing parameter in the generalized spline smoothing problem, Ann.
+     * Statist. 13(4); Wood (2011), Fast stable restricted maximum likelihood and marginal likelihood
+     * estimation of semiparametric generalized linear models, J. R. Stat. Soc. B 73(1) (both from
+     * memory). Unlike AIC-type criteria it accounts for the unpenalised null space through r and
+     * does not need N ≫ edf.
+     */
+    MARGINAL_LIKELIHOOD,
     /**
      * Generalised cross-validation (Craven &amp; Wahba (1979), Smoothing noisy data with spline
      * functions, Numer. Math. 31; from memory). For least squares D·RSS/(D − edf)²; for counts
