@@ -67,6 +67,11 @@ public final class BayesSpace {
     private final double mass;
     /** log of the reference weight at each node (0 for flat references): part of the integrand's log-range. */
     private final double[] logRefNodes;
+    private final boolean flatReference;
+    /** Local raw-basis table at the nodes: node q uses raw functions nodeFirst[q] + i, i &lt; width. */
+    private final int[] nodeFirst;
+    private final double[] nodeLocal;
+    private final int localWidth;
 
     private final double[] t; // K×K lower triangular, row-major
     private final double[] mbar; // K
@@ -134,6 +139,7 @@ public final class BayesSpace {
                 weights[i] /= norm;
             }
         }
+        flatReference = reference.isFlat();
         logRefNodes = new double[q];
         if (!reference.isFlat()) {
             for (int i = 0; i < q; i++) {
@@ -184,6 +190,18 @@ public final class BayesSpace {
         for (int i = 0; i < q; i++) {
             for (int j = 0; j < k; j++) {
                 basisT[j * q + i] = e[i * k + j];
+            }
+        }
+        localWidth = basis.supportWidth();
+        nodeFirst = new int[q];
+        nodeLocal = new double[q * localWidth];
+        double[] scratch = new double[basis.scratchSize()];
+        for (int i = 0; i < q; i++) {
+            nodeFirst[i] = basis.evalLocal(nodes[i], scratch);
+            for (int j = 0; j < localWidth; j++) {
+                // the dropped raw function (index k) gets weight 0 through the zero padding of the
+                // raw coefficients in clrAtNodes
+                nodeLocal[i * localWidth + j] = scratch[j];
             }
         }
         neutral = new Density(this, new double[k], false);
@@ -624,9 +642,6 @@ public final class BayesSpace {
         return weights;
     }
 
-    double[] basisAtNodesTransposed() {
-        return basisT;
-    }
 
     /** Raw-function coefficients b = T'c and offset b·φ̄, so clr(x) = φ(x)·b − offset. */
     double rawCoefficients(double[] c, int off, double[] out) {
@@ -741,7 +756,10 @@ public final class BayesSpace {
         int q = nodes.length;
         double max = Double.NEGATIVE_INFINITY;
         for (int i = 0; i < q; i++) {
-            max = Math.max(max, clrNodes[off + i]);
+            double v = clrNodes[off + i];
+            if (v > max) { // values are finite: plain comparisons are cheaper than Math.max
+                max = v;
+            }
         }
         int np = panelLo.length;
         double total = 0;
@@ -799,11 +817,20 @@ public final class BayesSpace {
         double lw = Double.POSITIVE_INFINITY, hw = Double.NEGATIVE_INFINITY;
         for (int i = j * pts; i < (j + 1) * pts; i++) {
             double v = clrNodes[off + i];
-            lo = Math.min(lo, v);
-            hi = Math.max(hi, v);
-            double w = v + logRefNodes[i];
-            lw = Math.min(lw, w);
-            hw = Math.max(hw, w);
+            if (v < lo) {
+                lo = v;
+            }
+            if (v > hi) {
+                hi = v;
+            }
+            if (!flatReference) {
+                double w = v + logRefNodes[i];
+                lw = Math.min(lw, w);
+                hw = Math.max(hw, w);
+            }
+        }
+        if (flatReference) {
+            return hi - lo;
         }
         return Math.max(hi - lo, hw - lw);
     }
@@ -1151,15 +1178,23 @@ public final class BayesSpace {
         return moment(sh, clrNodes, 2, mean(sh, clrNodes));
     }
 
+    /**
+     * clr values of coordinates c[off..off+K) at every quadrature node, evaluated in the local raw
+     * basis (b = Tᵀc once, then width-many terms per node: 4 for cubic splines instead of K).
+     */
     void clrAtNodes(double[] c, int off, double[] out) {
         int q = nodes.length;
-        Arrays.fill(out, 0, q, 0.0);
-        for (int k = 0; k < dim; k++) {
-            double ck = c[off + k];
-            int base = k * q;
-            for (int i = 0; i < q; i++) {
-                out[i] += ck * basisT[base + i];
+        int w = localWidth;
+        double[] bc = new double[dim + w];
+        double offset = rawCoefficients(c, off, bc);
+        for (int i = 0; i < q; i++) {
+            int f = nodeFirst[i];
+            int base = i * w;
+            double v = 0;
+            for (int j = 0; j < w; j++) {
+                v += nodeLocal[base + j] * bc[f + j];
             }
+            out[i] = v - offset;
         }
     }
 

@@ -411,17 +411,15 @@ public final class DensitySet {
 
     private double[] computeLogNormalisers() {
         int q = space.nodeCount();
-        double[] bt = space.basisAtNodesTransposed();
         double[] out = new double[n];
         int rows = 256;
         int blocks = (n + rows - 1) / rows;
         Kernels.forEachBlock(blocks, Kernels.parallelWorth((long) n * k * q), blk -> {
             int r0 = blk * rows, r1 = Math.min(n, r0 + rows);
-            int m = r1 - r0;
-            double[] clr = new double[m * q];
-            Kernels.multiplyRows(data, r0 * k, m, k, bt, q, clr, 0);
-            for (int i = 0; i < m; i++) {
-                out[r0 + i] = space.logNormaliser(clr, i * q, data, (r0 + i) * k);
+            double[] clr = new double[q];
+            for (int i = r0; i < r1; i++) {
+                space.clrAtNodes(data, i * k, clr);
+                out[i] = space.logNormaliser(clr, 0, data, i * k);
             }
         });
         return out;
@@ -496,21 +494,17 @@ public final class DensitySet {
 
     private double[] perRow(RowFunction f) {
         int q = space.nodeCount();
-        double[] bt = space.basisAtNodesTransposed();
         double[] out = new double[n];
         int rows = 128;
         int blocks = (n + rows - 1) / rows;
         Kernels.forEachBlock(blocks, Kernels.parallelWorth((long) n * k * q), blk -> {
             int r0 = blk * rows, r1 = Math.min(n, r0 + rows);
-            int m = r1 - r0;
-            double[] clr = new double[m * q];
-            Kernels.multiplyRows(data, r0 * k, m, k, bt, q, clr, 0);
             double[] nodeRow = new double[q];
             double[] scratch = new double[space.scratchSize()];
-            for (int i = 0; i < m; i++) {
-                System.arraycopy(clr, i * q, nodeRow, 0, q);
-                Shape s = space.shape(data, (r0 + i) * k, nodeRow);
-                out[r0 + i] = f.apply(s, nodeRow, scratch);
+            for (int i = r0; i < r1; i++) {
+                space.clrAtNodes(data, i * k, nodeRow);
+                Shape s = space.shape(data, i * k, nodeRow);
+                out[i] = f.apply(s, nodeRow, scratch);
             }
         });
         return out;
