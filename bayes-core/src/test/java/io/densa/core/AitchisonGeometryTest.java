@@ -9,8 +9,8 @@ import org.junit.jupiter.api.Test;
 /**
  * Step densities on D equal bins reproduce the Aitchison geometry of D-part compositions up to
  * the bin-width factor η/D (Lebesgue reference) or 1/D (uniform probability reference). Inner
- * product definition: Pawlowsky-Glahn, Egozcue, Tolosana-Delgado (2007) Lecture Notes on
- * Compositional Data Analysis, Def. 3.3, ⟨x, y⟩_a = (1/(2D)) Σ_i Σ_j ln(x_i/x_j) ln(y_i/y_j). The
+ * product definition (Aitchison (1986), The Statistical Analysis of Compositional Data, Chapman &amp;
+ * Hall — from memory): ⟨x, y⟩_a = (1/(2D)) Σ_i Σ_j ln(x_i/x_j) ln(y_i/y_j). The
  * worked example x = (.1, .3, .4, .2), y = (.2, .4, .2, .2) on [0, 2] and its numbers are as
  * derived in REFERENCES.md §3 (given there to 6–10 digits; compared to their last digit). The
  * Aitchison quantities are also recomputed from their definitions in the test to 1e-12.
@@ -57,7 +57,7 @@ class AitchisonGeometryTest {
         return c;
     }
 
-    /** Def. 3.3 of Pawlowsky-Glahn, Egozcue, Tolosana-Delgado (2007), summed as written. */
+    /** The Aitchison inner product (Aitchison 1986, from memory), summed as written. */
     static double aitchisonInner(double[] x, double[] y) {
         int d = x.length;
         double s = 0;
