@@ -1,5 +1,6 @@
 package io.densa.regression;
 
+import io.densa.core.BenjaminiHochberg;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
 import java.util.ArrayList;

@@ -21,7 +21,7 @@
  * {@link io.densa.regression.ScalarOnFunctionFit}: density predictors, by FPCA truncation or
  * ridge with cross-validated tuning.</li>
  * <li>{@link io.densa.regression.AnomalyScoring} and
- * {@link io.densa.regression.BenjaminiHochberg}: split-conformal anomaly scores, FDR flags
+ * {@link io.densa.core.BenjaminiHochberg}: split-conformal anomaly scores, FDR flags
  * and the parts of the domain where a unit departs.</li>
  * </ul>
  *

@@ -1,5 +1,6 @@
 package io.densa.regression;
 
+import io.densa.core.BenjaminiHochberg;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;

@@ -1,5 +1,6 @@
 package io.densa.spatial;
 
+import io.densa.core.BenjaminiHochberg;
 import io.densa.core.internal.Kernels;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -43,7 +44,7 @@ import java.util.SplittableRandom;
  * {@link Unit#pAdjusted()} is the Benjamini–Hochberg step-up adjustment of the two-sided
  * p-values over the analysed units (Benjamini &amp; Hochberg (1995), Controlling the false
  * discovery rate, JRSS B 57 — from memory); a unit is significant at false discovery rate q when
- * pAdjusted ≤ q. {@link #benjaminiHochberg(double[])} adjusts any other set of p-values.
+ * pAdjusted ≤ q. {@link io.densa.core.BenjaminiHochberg#adjust(double[])} adjusts any other set of p-values.
  *
  * <p>Inputs are not modified; methods are thread-safe.
  */
@@ -232,7 +233,7 @@ public final class LocalMoran {
             }
             progress.advance(i1 - b * UNIT_BLOCK);
         });
-        double[] adj = benjaminiHochberg(pTwo);
+        double[] adj = BenjaminiHochberg.adjust(pTwo);
         List<Unit> units = new ArrayList<>(n);
         double sum = 0;
         for (int i = 0; i < n; i++) {
@@ -259,38 +260,5 @@ public final class LocalMoran {
             return lag > 0 ? Quadrant.HIGH_HIGH : Quadrant.HIGH_LOW;
         }
         return lag > 0 ? Quadrant.LOW_HIGH : Quadrant.LOW_LOW;
-    }
-
-    /**
-     * Benjamini–Hochberg step-up adjusted p-values: with p sorted increasingly,
-     * p̃_(k) = min_{j ≥ k} min(1, m p_(j) / j), returned in the original order (Benjamini &amp;
-     * Hochberg (1995), JRSS B 57 — from memory).
-     *
-     * @param p p-values in [0, 1] (not modified)
-     * @return a fresh array of adjusted p-values
-     * @throws IllegalArgumentException if a p-value is outside [0, 1] or NaN (naming its index)
-     */
-    public static double[] benjaminiHochberg(double[] p) {
-        Objects.requireNonNull(p, "p");
-        int m = p.length;
-        for (int i = 0; i < m; i++) {
-            if (!(p[i] >= 0 && p[i] <= 1)) {
-                throw new IllegalArgumentException("p-value " + i + " = " + p[i] + " is outside [0, 1]");
-            }
-        }
-        Integer[] order = new Integer[m];
-        Arrays.setAll(order, i -> i);
-        Arrays.sort(order, (a, b) -> {
-            int c = Double.compare(p[a], p[b]);
-            return c != 0 ? c : Integer.compare(a, b);
-        });
-        double[] out = new double[m];
-        double running = 1.0;
-        for (int k = m - 1; k >= 0; k--) {
-            int i = order[k];
-            running = Math.min(running, (double) m * p[i] / (k + 1));
-            out[i] = Math.min(1.0, running);
-        }
-        return out;
     }
 }

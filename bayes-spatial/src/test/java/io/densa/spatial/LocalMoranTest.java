@@ -1,5 +1,6 @@
 package io.densa.spatial;
 
+import io.densa.core.BenjaminiHochberg;
 import static io.densa.spatial.AutocorrelationTestSupport.forEachPermutation;
 import static io.densa.spatial.AutocorrelationTestSupport.rookLattice;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
@@ -186,7 +187,7 @@ class LocalMoranTest {
         assertTrue(a.significant(0.05).contains(centre));
         double[] two = a.units().stream().mapToDouble(LocalMoran.Unit::pTwoSided).toArray();
         double[] adj = a.units().stream().mapToDouble(LocalMoran.Unit::pAdjusted).toArray();
-        assertArrayEquals(LocalMoran.benjaminiHochberg(two), adj, 0);
+        assertArrayEquals(BenjaminiHochberg.adjust(two), adj, 0);
     }
 
     @Test
@@ -211,12 +212,12 @@ class LocalMoranTest {
         // Benjamini & Hochberg (1995, from memory), computed by hand: p = (0.01, 0.04, 0.03, 0.20),
         // m = 4; sorted m·p/rank = 0.04, 0.06, 0.0533.., 0.20; step-up minima from the top give
         // 0.04, 0.0533.., 0.0533.., 0.20 in the sorted order.
-        double[] adj = LocalMoran.benjaminiHochberg(new double[] {0.01, 0.04, 0.03, 0.20});
+        double[] adj = BenjaminiHochberg.adjust(new double[] {0.01, 0.04, 0.03, 0.20});
         assertArrayEquals(new double[] {0.04, 0.16 / 3, 0.16 / 3, 0.20}, adj, 1e-15);
-        assertArrayEquals(new double[] {1.0, 1.0}, LocalMoran.benjaminiHochberg(new double[] {0.9, 1.0}), 0);
+        assertArrayEquals(new double[] {1.0, 1.0}, BenjaminiHochberg.adjust(new double[] {0.9, 1.0}), 0);
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-                () -> LocalMoran.benjaminiHochberg(new double[] {0.1, Double.NaN}));
-        assertTrue(e.getMessage().matches("p-value 1 = NaN is outside \\[0, 1\\]"), e.getMessage());
+                () -> BenjaminiHochberg.adjust(new double[] {0.1, Double.NaN}));
+        assertTrue(e.getMessage().matches("p-value 1 is NaN; p-values must be in \\[0, 1\\]"), e.getMessage());
     }
 
     @Test

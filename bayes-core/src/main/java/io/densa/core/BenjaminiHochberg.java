@@ -1,4 +1,4 @@
-package io.densa.regression;
+package io.densa.core;
 
 import java.util.Arrays;
 import java.util.Objects;
@@ -7,7 +7,10 @@ import java.util.Objects;
  * The Benjamini–Hochberg step-up procedure controlling the false discovery rate (Benjamini &amp;
  * Hochberg (1995), J. R. Stat. Soc. B 57(1)): with ordered p-values p_(1) ≤ … ≤ p_(m), reject
  * the hypotheses of p_(1), …, p_(k) for the largest k with p_(k) ≤ (k/m) q. Under independent
- * (or positively dependent) true nulls the FDR is at most (m₀/m) q.
+ * (or positively dependent) true nulls the FDR is at most (m₀/m) q. Shared by the regression
+ * (anomaly flags) and spatial (local Moran's I) modules.
+ *
+ * <p>Stateless and thread-safe; inputs are not modified.
  */
 public final class BenjaminiHochberg {
     private BenjaminiHochberg() {
@@ -23,8 +26,9 @@ public final class BenjaminiHochberg {
     }
 
     /**
-     * Adjusted p-values (q-values) p̃_(i) = min_{j ≥ i} min(1, m p_(j) / j), in the input order;
-     * hypothesis i is rejected at level q exactly when p̃_i ≤ q.
+     * Benjamini–Hochberg adjusted p-values p̃_(i) = min_{j ≥ i} min(1, m p_(j) / j), in the input
+     * order (ties broken by input index); hypothesis i is rejected at level q when p̃_i ≤ q, which
+     * agrees with {@link #reject} up to rounding of m p / j at the boundary.
      *
      * @param p p-values in [0, 1] (not modified)
      */
@@ -35,7 +39,10 @@ public final class BenjaminiHochberg {
         for (int i = 0; i < m; i++) {
             order[i] = i;
         }
-        Arrays.sort(order, (a, b) -> Double.compare(p[a], p[b]));
+        Arrays.sort(order, (a, b) -> {
+            int c = Double.compare(p[a], p[b]);
+            return c != 0 ? c : Integer.compare(a, b);
+        });
         double[] out = new double[m];
         double run = 1.0;
         for (int r = m - 1; r >= 0; r--) {
