@@ -1,6 +1,7 @@
 package io.densa.core;
 
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.Seeds;
 import java.util.Arrays;
 import java.util.Objects;
 import java.util.SplittableRandom;
@@ -944,6 +945,15 @@ public final class PenalizedLikelihoodEstimator {
         }
     }
 
+    /**
+     * The generator of the cross-validation folds of unit {@code index}: an independent stream per
+     * unit from {@link Seeds#stream} (SplitMix64 finaliser), so that no unit's stream is a shifted
+     * copy of another's and the folds do not depend on the number of threads.
+     */
+    static SplittableRandom foldStream(long seed, int index) {
+        return Seeds.stream(seed, index);
+    }
+
     /** Fold structure of one unit for cross-validation. */
     private final class Folds {
         final PenalizedNewton eng;
@@ -961,7 +971,7 @@ public final class PenalizedLikelihoodEstimator {
         Folds(PenalizedNewton eng, SampleData sample, int nf, long seed, int index) {
             this.eng = eng;
             this.nf = nf;
-            SplittableRandom rnd = new SplittableRandom(seed ^ (0x9E3779B97F4A7C15L * (index + 1L)));
+            SplittableRandom rnd = foldStream(seed, index);
             testTotal = new double[nf];
             testTotal2 = new double[nf];
             fullTotal = eng.total;
@@ -982,7 +992,7 @@ public final class PenalizedLikelihoodEstimator {
                         events[p++] = j;
                     }
                 }
-                shuffle(events, rnd);
+                Seeds.shuffle(events, rnd);
                 test = new double[nf][d];
                 for (int i = 0; i < events.length; i++) {
                     test[i % nf][events[i]] += 1;
@@ -995,7 +1005,7 @@ public final class PenalizedLikelihoodEstimator {
                 for (int i = 0; i < order.length; i++) {
                     order[i] = i;
                 }
-                shuffle(order, rnd);
+                Seeds.shuffle(order, rnd);
                 test = new double[nf][k + 1];
                 for (int i = 0; i < order.length; i++) {
                     int obs = order[i], f = i % nf;
@@ -1008,15 +1018,6 @@ public final class PenalizedLikelihoodEstimator {
                     }
                 }
                 train = new double[k + 1];
-            }
-        }
-
-        private void shuffle(int[] a, SplittableRandom rnd) {
-            for (int i = a.length - 1; i > 0; i--) {
-                int j = rnd.nextInt(i + 1);
-                int tmp = a[i];
-                a[i] = a[j];
-                a[j] = tmp;
             }
         }
 

@@ -3,6 +3,7 @@ package io.densa.regression;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
 import io.densa.core.DensitySet;
+import io.densa.core.internal.Seeds;
 import java.util.Arrays;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.CommonOps_DDRM;
@@ -349,18 +350,13 @@ final class Linear {
         }
     }
 
-    /** Seeded permutation of 0..n−1 (Fisher–Yates on a SplittableRandom). */
+    /** Seeded permutation of 0..n−1 (the library's Fisher–Yates shuffle, {@link Seeds#shuffle}). */
     static int[] permutation(int n, java.util.SplittableRandom rnd) {
         int[] p = new int[n];
         for (int i = 0; i < n; i++) {
             p[i] = i;
         }
-        for (int i = n - 1; i > 0; i--) {
-            int j = rnd.nextInt(i + 1);
-            int t = p[i];
-            p[i] = p[j];
-            p[j] = t;
-        }
+        Seeds.shuffle(p, rnd);
         return p;
     }
 
