@@ -108,6 +108,8 @@ public final class PenalizedLikelihoodEstimator {
     private static final double SEARCH_TOLERANCE = 1e-9;
     /** Half-width in decades of the central difference for the curvature of the marginal likelihood. */
     private static final double SMOOTHING_STEP = 0.25;
+    /** Task name of the progress reports of batch fits. */
+    public static final String PROGRESS_TASK = "penalised likelihood";
 
     private final BayesSpace space;
     private final int penaltyOrder;
@@ -124,6 +126,7 @@ public final class PenalizedLikelihoodEstimator {
     private final ZeroTotalPolicy zeroTotal;
     private final boolean fractional;
     private final boolean parallel;
+    private final ProgressListener progress;
 
     private final int k;
     private final double[] rawPenalty;
@@ -136,7 +139,7 @@ public final class PenalizedLikelihoodEstimator {
     private PenalizedLikelihoodEstimator(BayesSpace space, int penaltyOrder, double fixedLambda,
             SmoothingCriterion criterion, int folds, long seed, double gridLo, double gridHi, double gridStep,
             int maxIterations, double tolerance, int points, ZeroTotalPolicy zeroTotal, boolean fractional,
-            boolean parallel) {
+            boolean parallel, ProgressListener progress) {
         this.space = space;
         this.penaltyOrder = penaltyOrder;
         this.fixedLambda = fixedLambda;
@@ -152,6 +155,7 @@ public final class PenalizedLikelihoodEstimator {
         this.zeroTotal = zeroTotal;
         this.fractional = fractional;
         this.parallel = parallel;
+        this.progress = progress;
         this.k = space.dimension();
         this.rawPenalty = RoughnessPenalty.raw(space.basis(), penaltyOrder);
         this.t = EstimationSupport.lowerT(space);
@@ -184,7 +188,7 @@ public final class PenalizedLikelihoodEstimator {
             long s, double lo, double hi, double st, int maxIt, double tol, int pts, ZeroTotalPolicy zt,
             boolean frac, boolean par) {
         return new PenalizedLikelihoodEstimator(space, order, lambda, crit, nFolds, s, lo, hi, st, maxIt, tol, pts,
-                zt, frac, par);
+                zt, frac, par, progress);
     }
 
     /**
@@ -201,7 +205,7 @@ public final class PenalizedLikelihoodEstimator {
         int order = Math.min(2, RoughnessPenalty.maxOrder(space.basis()));
         return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.MARGINAL_LIKELIHOOD, 5,
                 1L, -6, 3, 1,
-                100, 1e-12, 0, ZeroTotalPolicy.REJECT, false, true);
+                100, 1e-12, 0, ZeroTotalPolicy.REJECT, false, true, ProgressListener.NONE);
     }
 
     /**
@@ -312,6 +316,18 @@ public final class PenalizedLikelihoodEstimator {
     public PenalizedLikelihoodEstimator withParallel(boolean p) {
         return copy(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, maxIterations,
                 tolerance, points, zeroTotal, fractional, p);
+    }
+
+    /**
+     * Reports the units finished by {@code fitAll} and {@code fitAllSamples} (task
+     * {@value #PROGRESS_TASK}, after each block of units; {@code done} is non-decreasing and reaches
+     * the number of units). Calls may come from worker threads of the common pool, one at a time.
+     * The default is {@link ProgressListener#NONE}; results do not depend on the listener.
+     */
+    public PenalizedLikelihoodEstimator withProgressListener(ProgressListener listener) {
+        Objects.requireNonNull(listener, "listener");
+        return new PenalizedLikelihoodEstimator(space, penaltyOrder, fixedLambda, criterion, folds, seed, gridLo,
+                gridHi, gridStep, maxIterations, tolerance, points, zeroTotal, fractional, parallel, listener);
     }
 
     /** The space. */
@@ -430,6 +446,7 @@ public final class PenalizedLikelihoodEstimator {
         double[] out = new double[n * k];
         EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
+        EstimationSupport.Progress done = new EstimationSupport.Progress(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty);
             eng.startMap = startMap;
@@ -449,6 +466,7 @@ public final class PenalizedLikelihoodEstimator {
                 Arrays.fill(eng.linear, 0.0);
                 diag[i] = fitUnit(eng, scale, id, i, out, null);
             }
+            done.add(i1 - blk * UNITS_PER_BLOCK);
         });
         String[] idCopy = ids == null ? null : ids.clone();
         return new BatchEstimate(DensitySet.wrap(space, out, n, idCopy), Arrays.asList(diag));
@@ -536,6 +554,7 @@ public final class PenalizedLikelihoodEstimator {
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
         Basis basis = space.basis();
         int width = basis.supportWidth();
+        EstimationSupport.Progress done = new EstimationSupport.Progress(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(domain, rawPenalty);
             double[] scratch = new double[basis.scratchSize()];
@@ -559,6 +578,7 @@ public final class PenalizedLikelihoodEstimator {
                 eng.sampleWidth = sd.width;
                 diag[i] = fitUnit(eng, domainScale, id, i, out, sd);
             }
+            done.add(i1 - blk * UNITS_PER_BLOCK);
         });
         String[] idCopy = ids == null ? null : ids.clone();
         return new BatchEstimate(DensitySet.wrap(space, out, n, idCopy), Arrays.asList(diag));

@@ -46,6 +46,8 @@ import org.ejml.interfaces.decomposition.EigenDecomposition_F64;
 public final class SmoothingSplineEstimator {
     private static final int UNITS_PER_BLOCK = 64;
     private static final double GRID_STEP = 0.05;
+    /** Task name of the progress reports of batch fits. */
+    public static final String PROGRESS_TASK = "smoothing spline";
 
     private final BayesSpace space;
     private final ZeroReplacement zeros;
@@ -55,13 +57,15 @@ public final class SmoothingSplineEstimator {
     private final double gridHi;
     private final ZeroTotalPolicy zeroTotal;
     private final boolean parallel;
+    private final ProgressListener progress;
     private final int k;
     private final double[] t;
     private final double[] rawPenalty;
     private final double[] omega;
 
     private SmoothingSplineEstimator(BayesSpace space, ZeroReplacement zeros, int penaltyOrder, double fixedLambda,
-            double gridLo, double gridHi, ZeroTotalPolicy zeroTotal, boolean parallel) {
+            double gridLo, double gridHi, ZeroTotalPolicy zeroTotal, boolean parallel,
+            ProgressListener progress) {
         this.space = space;
         this.zeros = zeros;
         this.penaltyOrder = penaltyOrder;
@@ -70,6 +74,7 @@ public final class SmoothingSplineEstimator {
         this.gridHi = gridHi;
         this.zeroTotal = zeroTotal;
         this.parallel = parallel;
+        this.progress = progress;
         this.k = space.dimension();
         this.t = EstimationSupport.lowerT(space);
         this.rawPenalty = RoughnessPenalty.raw(space.basis(), penaltyOrder);
@@ -85,18 +90,19 @@ public final class SmoothingSplineEstimator {
         Objects.requireNonNull(space, "space");
         return new SmoothingSplineEstimator(space, ZeroReplacement.bayesianMultiplicative(ZeroReplacement.Prior.JEFFREYS),
                 Math.min(2, RoughnessPenalty.maxOrder(space.basis())), Double.NaN, -12, 6, ZeroTotalPolicy.REJECT,
-                true);
+                true, ProgressListener.NONE);
     }
 
     /** Uses the given zero replacement. */
     public SmoothingSplineEstimator withZeroReplacement(ZeroReplacement z) {
         return new SmoothingSplineEstimator(space, Objects.requireNonNull(z, "zero replacement"), penaltyOrder,
-                fixedLambda, gridLo, gridHi, zeroTotal, parallel);
+                fixedLambda, gridLo, gridHi, zeroTotal, parallel, progress);
     }
 
     /** Penalises the l-th derivative of the clr (l-th differences for step bases). */
     public SmoothingSplineEstimator withPenaltyOrder(int l) {
-        return new SmoothingSplineEstimator(space, zeros, l, fixedLambda, gridLo, gridHi, zeroTotal, parallel);
+        return new SmoothingSplineEstimator(space, zeros, l, fixedLambda, gridLo, gridHi, zeroTotal, parallel,
+                progress);
     }
 
     /** Uses a fixed λ ≥ 0 (GCV is still reported). */
@@ -104,7 +110,8 @@ public final class SmoothingSplineEstimator {
         if (!(lambda >= 0 && Double.isFinite(lambda))) {
             throw new IllegalArgumentException("smoothing parameter must be finite and >= 0, got " + lambda);
         }
-        return new SmoothingSplineEstimator(space, zeros, penaltyOrder, lambda, gridLo, gridHi, zeroTotal, parallel);
+        return new SmoothingSplineEstimator(space, zeros, penaltyOrder, lambda, gridLo, gridHi, zeroTotal, parallel,
+                progress);
     }
 
     /** Chooses λ by GCV over λ = s 10^g, g ∈ [log10Lo, log10Hi] (undoes {@link #withSmoothing}). */
@@ -114,18 +121,31 @@ public final class SmoothingSplineEstimator {
                     + ", " + log10Hi);
         }
         return new SmoothingSplineEstimator(space, zeros, penaltyOrder, Double.NaN, log10Lo, log10Hi, zeroTotal,
-                parallel);
+                parallel, progress);
     }
 
     /** What to do with units without events. */
     public SmoothingSplineEstimator withZeroTotal(ZeroTotalPolicy policy) {
         return new SmoothingSplineEstimator(space, zeros, penaltyOrder, fixedLambda, gridLo, gridHi,
-                Objects.requireNonNull(policy, "policy"), parallel);
+                Objects.requireNonNull(policy, "policy"), parallel, progress);
     }
 
     /** Whether {@code fitAll} may use the common pool (results are identical either way). */
     public SmoothingSplineEstimator withParallel(boolean p) {
-        return new SmoothingSplineEstimator(space, zeros, penaltyOrder, fixedLambda, gridLo, gridHi, zeroTotal, p);
+        return new SmoothingSplineEstimator(space, zeros, penaltyOrder, fixedLambda, gridLo, gridHi, zeroTotal, p,
+                progress);
+    }
+
+    /**
+     * Reports the units finished by {@code fitAll} (task {@value #PROGRESS_TASK}, after each block
+     * of units; {@code done} is non-decreasing and reaches the number of units). Calls may come
+     * from worker threads of the common pool, one at a time. The default is
+     * {@link ProgressListener#NONE}; results do not depend on the listener.
+     */
+    public SmoothingSplineEstimator withProgressListener(ProgressListener listener) {
+        Objects.requireNonNull(listener, "listener");
+        return new SmoothingSplineEstimator(space, zeros, penaltyOrder, fixedLambda, gridLo, gridHi, zeroTotal,
+                parallel, listener);
     }
 
     /** The penalty matrix Ω in the space's coordinates, K × K. */
@@ -207,6 +227,7 @@ public final class SmoothingSplineEstimator {
         double[] out = new double[n * k];
         EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
+        EstimationSupport.Progress done = new EstimationSupport.Progress(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty);
             double[] z = new double[k + 1];
@@ -239,6 +260,7 @@ public final class SmoothingSplineEstimator {
                         SmoothingCriterion.GCV, g[0], g[2], eng.loglik, totals[i], 0, cov,
                         EstimationSupport.trace(cov, k));
             }
+            done.add(i1 - blk * UNITS_PER_BLOCK);
         });
         return new BatchEstimate(DensitySet.wrap(space, out, n, ids == null ? null : ids.clone()),
                 Arrays.asList(diag));
