@@ -206,8 +206,10 @@ public final class AnomalyScoring {
         }
 
         /**
-         * The pointwise band: for each grid point x, the (1 ∓ level)/2 quantiles (type 7, linear
-         * interpolation between order statistics) of the calibration residual clr values at x.
+         * The pointwise band: for each grid point x, the (1 ∓ level)/2 sample quantiles of the
+         * calibration residual clr values at x, by linear interpolation between order statistics
+         * (definition 7 of Hyndman &amp; Fan (1996), Sample quantiles in statistical packages, Am.
+         * Stat. 50(4) — from memory).
          *
          * @return one point per grid point, in grid order (unmodifiable)
          */

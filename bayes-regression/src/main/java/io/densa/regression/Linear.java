@@ -373,7 +373,11 @@ final class Linear {
         return fold;
     }
 
-    /** Empirical quantile, type 7 (linear interpolation between order statistics), of a sorted array. */
+    /**
+     * Sample quantile of a sorted array by linear interpolation between order statistics
+     * (definition 7 of Hyndman &amp; Fan (1996), Sample quantiles in statistical packages, Am. Stat.
+     * 50(4) — from memory): x_(⌊h⌋) + (h − ⌊h⌋)(x_(⌊h⌋+1) − x_(⌊h⌋)) with h = (n − 1)p, 0-based.
+     */
     static double quantileSorted(double[] sorted, double p) {
         int n = sorted.length;
         if (n == 1) {
