@@ -753,21 +753,62 @@ public final class FunctionOnScalarFit {
         return r;
     }
 
-    private static double[] orthonormalColumns(Design d, double[] sw) {
+    /**
+     * Relative tolerance on |R_jj| / ‖column j‖ below which a column of the weighted design counts
+     * as zero or a combination of earlier columns (the squared-norm tolerance 10⁻²⁰ of
+     * {@code Design.requireFullRank}).
+     */
+    static final double RANK_TOLERANCE = 1e-10;
+
+    /**
+     * Orthonormal basis Q (n × p, row-major) of the columns of √W X by Householder QR. Without a
+     * rank check a rank-deficient design would give p columns of which some are arbitrary, and so
+     * wrong degrees of freedom: |R_jj| is the norm of column j after projecting out the columns
+     * before it, so each |R_jj| must exceed {@link #RANK_TOLERANCE} times the norm of column j.
+     *
+     * @throws IllegalArgumentException naming the first column that is zero or a linear
+     *                                  combination of earlier columns
+     */
+    static double[] orthonormalColumns(Design d, double[] sw) {
         int rows = d.rows();
         int cols = d.columns();
         double[] xw = d.internal().clone();
+        double[] norms = new double[cols];
         for (int i = 0; i < rows; i++) {
             for (int j = 0; j < cols; j++) {
                 xw[i * cols + j] *= sw[i];
+                norms[j] += xw[i * cols + j] * xw[i * cols + j];
+            }
+        }
+        if (rows < cols) {
+            throw new IllegalArgumentException("the weighted design has " + rows + " rows for " + cols
+                    + " columns " + d.columnNames() + "; need at least as many rows as columns");
+        }
+        for (int j = 0; j < cols; j++) {
+            if (!(norms[j] > 0)) {
+                throw rankDeficient(d, j, 0.0, Math.sqrt(norms[j]));
             }
         }
         QRDecomposition<DMatrixRMaj> qr = DecompositionFactory_DDRM.qr(rows, cols);
-        if (!qr.decompose(DMatrixRMaj.wrap(rows, cols, xw))) {
+        if (!qr.decompose(DMatrixRMaj.wrap(rows, cols, xw.clone()))) {
             throw new io.densa.core.DensaException("QR decomposition of the " + rows + " x " + cols + " design failed",
                     new Linear.SolveDiagnostics("QR of the weighted design", cols, Double.NaN));
         }
+        DMatrixRMaj r = qr.getR(null, true);
+        for (int j = 0; j < cols; j++) {
+            double norm = Math.sqrt(norms[j]);
+            if (!(Math.abs(r.get(j, j)) > RANK_TOLERANCE * norm)) {
+                throw rankDeficient(d, j, Math.abs(r.get(j, j)), norm);
+            }
+        }
         return qr.getQ(null, true).data;
+    }
+
+    private static IllegalArgumentException rankDeficient(Design d, int j, double rjj, double norm) {
+        return new IllegalArgumentException("the weighted design is rank deficient: column '"
+                + d.columnNames().get(j) + "' (index " + j + ", |R_jj| = " + rjj + ", weighted column norm "
+                + norm + ") is zero or a linear combination of earlier columns of " + d.columnNames()
+                + "; drop or recode it");
     }
 
     @Override
