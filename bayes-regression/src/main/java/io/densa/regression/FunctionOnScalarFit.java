@@ -468,9 +468,12 @@ public final class FunctionOnScalarFit {
      * divided by √w of the receiving row, are added to the fitted values and the model is
      * refitted (with the same penalty). Pointwise limits are basic bootstrap limits
      * 2β̂(t) − q*_{1−α/2}(t), 2β̂(t) − q*_{α/2}(t); the simultaneous band is β̂(t) ± c sd*(t) with c
-     * the {@code level}-quantile of max_t |β*(t) − β̂(t)| / sd*(t) over replicates (a
-     * studentised sup-band; Efron and Tibshirani (1993), An Introduction to the Bootstrap, for
-     * the residual bootstrap and basic limits [from memory]). Residuals are not inflated for
+     * the {@code level}-quantile of max_t |β*(t) − β̂(t)| / sd*(t) over replicates, sd*(t) the
+     * bootstrap standard deviation at t and the maximum taken over the grid (a studentised
+     * sup-band: the maximum-|t| calibration of simultaneous bands from resampling draws is common
+     * practice; no specific source is claimed for it). The residual bootstrap and the basic
+     * limits follow Efron and Tibshirani (1993), An Introduction to the Bootstrap [from memory].
+     * Residuals are not inflated for
      * leverage, so bands are slightly narrow when p is large relative to n. With a penalty the
      * refit shrinks the fitted values once more, so β* − β̂ = [S(XᵀWŶ) − β̂] + S(XᵀW r*) (S the
      * penalised solve) carries that deterministic shift, and the basic limits correct for it.
