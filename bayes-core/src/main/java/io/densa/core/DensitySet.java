@@ -236,7 +236,7 @@ public final class DensitySet {
     /**
      * ⊕-mean (Fréchet mean in B2): the density whose coordinates are the column means.
      *
-     * @throws IllegalStateException if the set is empty
+     * @throws IllegalArgumentException if the set is empty
      */
     public Density mean() {
         requireNonEmpty("mean");
@@ -247,8 +247,13 @@ public final class DensitySet {
         return new Density(space, s, false);
     }
 
-    /** Every density ⊖ the ⊕-mean (ids kept). */
+    /**
+     * Every density ⊖ the ⊕-mean (ids kept).
+     *
+     * @throws IllegalArgumentException if the set is empty
+     */
     public DensitySet centred() {
+        requireNonEmpty("centring");
         double[] m = mean().coordinatesInternal();
         double[] out = new double[data.length];
         Kernels.subtractRow(data, n, k, m, out, true);
@@ -270,6 +275,8 @@ public final class DensitySet {
     /**
      * K × K cross-product matrix Cᵀ C of the coordinates (the Gram matrix of the coordinate
      * columns); with {@code centred}, of the centred coordinates.
+     *
+     * @throws IllegalArgumentException if {@code centred} and the set is empty
      */
     public DMatrixRMaj crossProducts(boolean centred) {
         double[] center = null;
@@ -284,11 +291,11 @@ public final class DensitySet {
      * K × K sample covariance of the coordinates, divisor n − 1 (the covariance operator of the
      * densities in the orthonormal basis).
      *
-     * @throws IllegalStateException if n &lt; 2
+     * @throws IllegalArgumentException if n &lt; 2
      */
     public DMatrixRMaj covariance() {
         if (n < 2) {
-            throw new IllegalStateException("covariance needs at least 2 densities, have " + n);
+            throw new IllegalArgumentException("covariance of a density set needs at least 2 densities, have " + n);
         }
         DMatrixRMaj c = crossProducts(true);
         for (int i = 0; i < c.data.length; i++) {
@@ -347,7 +354,8 @@ public final class DensitySet {
 
     private void requireNonEmpty(String what) {
         if (n == 0) {
-            throw new IllegalStateException(what + " of an empty density set");
+            throw new IllegalArgumentException(what + " of an empty density set (0 densities); at least one"
+                    + " density is needed");
         }
     }
 

@@ -1,5 +1,6 @@
 package io.densa.core;
 
+import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -131,5 +132,17 @@ class BadInputTest {
     void badReferenceParameters() {
         fails("sd must be finite and > 0, got -1.0", () -> Reference.normal(0, -1));
         fails("shapes must be finite and >= 1, got alpha=NaN", () -> Reference.beta(Double.NaN, 2));
+    }
+
+    /** Moments of an empty (or one-density) set are bad input, not a model used before fitting. */
+    @Test
+    void momentsOfTooSmallSets() {
+        DensitySet empty = DensitySet.of(S, new double[0][]);
+        fails("mean of an empty density set", empty::mean);
+        fails("centring of an empty density set", empty::centred);
+        fails("centred cross products of an empty density set", () -> empty.crossProducts(true));
+        fails("covariance of a density set needs at least 2 densities, have 0", empty::covariance);
+        fails("needs at least 2 densities, have 1", () -> DensitySet.of(S, new double[][] {new double[6]}).covariance());
+        assertEquals(0.0, empty.crossProducts(false).get(0, 0)); // uncentred: the zero matrix
     }
 }
