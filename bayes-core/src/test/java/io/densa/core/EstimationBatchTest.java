@@ -33,14 +33,9 @@ class EstimationBatchTest {
         }
         BayesSpace space = BayesSpace.splines(0, 1, 4, 8);
         double[] e = edges(0, 1, bins);
-        long t0 = System.nanoTime();
         BatchEstimate pl = PenalizedLikelihoodEstimator.of(space).withCriterion(SmoothingCriterion.GCV)
                 .fitAll(e, counts, null);
-        long t1 = System.nanoTime();
         BatchEstimate ss = SmoothingSplineEstimator.of(space).fitAll(e, counts, null);
-        long t2 = System.nanoTime();
-        System.out.printf("10,000 units, GCV: penalised likelihood %.2f s, smoothing spline %.2f s (%s)%n",
-                (t1 - t0) / 1e9, (t2 - t1) / 1e9, Runtime.getRuntime().availableProcessors() + " cpus");
         for (BatchEstimate b : List.of(pl, ss)) {
             assertEquals(List.of(), b.flaggedRows());
             // a density exp(clr)/Z is positive wherever its clr is finite (checked in log space:

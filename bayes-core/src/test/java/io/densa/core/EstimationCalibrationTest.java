@@ -88,7 +88,6 @@ class EstimationCalibrationTest {
             BatchEstimate b = PenalizedLikelihoodEstimator.of(space).fitAll(e, counts, null);
             assertEquals(0, b.flaggedRows().size());
             double ratio = meanReported(b) / empiricalTrace(b);
-            System.out.printf("calibration counts, %d events, lambda per replicate: ratio %.3f%n", events, ratio);
             double lo = events >= 100 ? 0.8 : 0.7;
             assertTrue(ratio > lo && ratio < 1.2, events + " events: reported / empirical trace = " + ratio);
         }
@@ -139,9 +138,6 @@ class EstimationCalibrationTest {
         assertEquals(0, b.flaggedRows().size());
         double empirical = empiricalTrace(b);
         double reported = meanReported(b);
-        double ratio = reported / empirical;
-        System.out.printf("calibration %s, %d events, lambda %.4g: reported trace %.5g, empirical %.5g, ratio %.3f%n",
-                sample ? "sample" : "counts", events, lambda, reported, empirical, ratio);
-        return ratio;
+        return reported / empirical;
     }
 }

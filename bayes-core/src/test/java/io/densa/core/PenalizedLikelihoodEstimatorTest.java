@@ -76,15 +76,15 @@ class PenalizedLikelihoodEstimatorTest {
                 ksS[s] = median(m[2]);
                 ksC[s] = median(m[3]);
             }
-            System.out.printf("recovery %-8s samples B2 %s KS %s | counts B2 %s KS %s%n", truth.name,
-                    java.util.Arrays.toString(dS), java.util.Arrays.toString(ksS), java.util.Arrays.toString(dC),
-                    java.util.Arrays.toString(ksC));
+            String medians = truth.name + ": median samples B2 " + java.util.Arrays.toString(dS) + " KS "
+                    + java.util.Arrays.toString(ksS) + ", counts B2 " + java.util.Arrays.toString(dC) + " KS "
+                    + java.util.Arrays.toString(ksC);
             for (double[] d : List.of(dS, dC, ksS, ksC)) {
-                assertTrue(d[1] < d[0] && d[2] < d[1], truth.name + " not shrinking: " + java.util.Arrays.toString(d));
+                assertTrue(d[1] < d[0] && d[2] < d[1], "not shrinking: " + medians);
             }
             // bounds at n = 20,000 (stated, generous relative to the observed values)
-            assertTrue(ksS[2] < 0.015 && ksC[2] < 0.015, truth.name + " KS at n = 20000");
-            assertTrue(dS[2] < 0.25 && dC[2] < 0.25, truth.name + " B2 at n = 20000");
+            assertTrue(ksS[2] < 0.015 && ksC[2] < 0.015, "KS at n = 20000: " + medians);
+            assertTrue(dS[2] < 0.25 && dC[2] < 0.25, "B2 at n = 20000: " + medians);
         }
     }
 
@@ -190,12 +190,12 @@ class PenalizedLikelihoodEstimatorTest {
                     break; // largest-λ local minimum
                 }
             }
-            System.out.printf("%s: chosen log10 lambda %.3f (criterion %.8g), brute-force grid %.3f (%.8g)%n", c,
-                    Math.log10(chosen.smoothing()), chosen.criterionValue(), gs[best], crit[best]);
-            assertTrue(best > 0, "no local minimum on the grid");
-            assertEquals(gs[best], Math.log10(chosen.smoothing()), 0.1);
+            assertTrue(best > 0, c + ": no local minimum on the grid");
+            String where = c + ": chosen log10 lambda " + Math.log10(chosen.smoothing()) + " (criterion "
+                    + chosen.criterionValue() + "), brute-force grid " + gs[best] + " (" + crit[best] + ")";
+            assertEquals(gs[best], Math.log10(chosen.smoothing()), 0.1, where);
             // the search fits use tolerance 1e-9 instead of 1e-12, which moves the refined minimum slightly
-            assertTrue(chosen.criterionValue() <= crit[best] + 1e-4 * Math.abs(crit[best]));
+            assertTrue(chosen.criterionValue() <= crit[best] + 1e-4 * Math.abs(crit[best]), where);
         }
     }
 

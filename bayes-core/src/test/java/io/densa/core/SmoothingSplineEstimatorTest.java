@@ -74,10 +74,11 @@ class SmoothingSplineEstimatorTest {
                 assertEquals(v, est.gcv(e, counts, lambda), 1e-9 * v, "GCV at lambda = " + lambda);
             }
         }
-        System.out.printf("GCV: chosen lambda %.5g (GCV %.8g), brute-force grid lambda %.5g (GCV %.8g)%n", chosen,
-                fit.diagnostics().criterionValue(), bestL, best);
-        assertTrue(fit.diagnostics().criterionValue() <= best * (1 + 1e-9), "chosen GCV above the grid minimum");
-        assertEquals(Math.log10(bestL), Math.log10(chosen), 0.02, "chosen lambda");
+        String where = "chosen lambda " + chosen + " (GCV " + fit.diagnostics().criterionValue()
+                + "), brute-force grid lambda " + bestL + " (GCV " + best + ")";
+        assertTrue(fit.diagnostics().criterionValue() <= best * (1 + 1e-9), "chosen GCV above the grid minimum: "
+                + where);
+        assertEquals(Math.log10(bestL), Math.log10(chosen), 0.02, where);
         // and the coordinates equal the brute-force penalised least-squares solution
         DMatrixRMaj lhs = new DMatrixRMaj(k + 1, k + 1);
         CommonOps_DDRM.multTransA(x, x, lhs);
@@ -136,10 +137,10 @@ class SmoothingSplineEstimatorTest {
                 d[s] = dd[reps / 2];
                 kd[s] = kk[reps / 2];
             }
-            System.out.printf("smoothing spline %-8s B2 %s KS %s%n", truth.name, Arrays.toString(d), Arrays.toString(kd));
-            assertTrue(d[1] < d[0] && d[2] < d[1], truth.name + " B2 not shrinking");
-            assertTrue(kd[1] < kd[0] && kd[2] < kd[1], truth.name + " KS not shrinking");
-            assertTrue(kd[2] < 0.02, truth.name + " KS at N = 50000");
+            String medians = truth.name + ": median B2 " + Arrays.toString(d) + " KS " + Arrays.toString(kd);
+            assertTrue(d[1] < d[0] && d[2] < d[1], "B2 not shrinking: " + medians);
+            assertTrue(kd[1] < kd[0] && kd[2] < kd[1], "KS not shrinking: " + medians);
+            assertTrue(kd[2] < 0.02, "KS at N = 50000: " + medians);
         }
     }
 
