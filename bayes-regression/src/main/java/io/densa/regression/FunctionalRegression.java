@@ -178,7 +178,22 @@ public final class FunctionalRegression {
     }
 
     /**
-     * Number of cross-validation folds.
+     * Chooses the tuning parameter by k-fold cross-validation with the given number of folds and
+     * seed of the random fold assignment (the same option as
+     * {@code PenalizedLikelihoodEstimator.withCrossValidation(k, seed)} in core); equivalent to
+     * {@code withFolds(folds).withSeed(seed)}.
+     *
+     * @param folds number of folds, 2 or more (and at most the number of observations when fitting)
+     * @param seed  seed of the random fold assignment
+     * @throws IllegalArgumentException if {@code folds} &lt; 2
+     */
+    public FunctionalRegression withCrossValidation(int folds, long seed) {
+        return withFolds(folds).withSeed(seed);
+    }
+
+    /**
+     * Number of cross-validation folds (see {@link #withCrossValidation(int, long)}, which sets the
+     * folds and the seed together).
      *
      * @param k 2 or more
      */
@@ -190,7 +205,7 @@ public final class FunctionalRegression {
                 progress);
     }
 
-    /** Seed of the random fold assignment. */
+    /** Seed of the random fold assignment (see {@link #withCrossValidation(int, long)}). */
     public FunctionalRegression withSeed(long s) {
         return new FunctionalRegression(method, minComponents, maxComponents, responseComponents, lambdas, folds, s,
                 progress);
