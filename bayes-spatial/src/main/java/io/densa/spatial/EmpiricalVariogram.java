@@ -12,7 +12,9 @@ import java.util.Objects;
  * Ecol. Stat. 18 — from memory), where N(h_b) are the unordered pairs whose distance falls in bin
  * b (and, with directions, in the sector). Each bin reports its pair count and mean lag.
  *
- * <p>Computation: squared B2 distances come from coordinates by ‖a‖² + ‖b‖² − 2a·b, with the a·b
+ * <p>Computation: the coordinates are first centred on their column means (distances are
+ * unchanged, and densities far from the neutral element keep the digits of their differences);
+ * squared B2 distances then come from the centred coordinates by ‖a‖² + ‖b‖² − 2a·b, with the a·b
  * products of an i-tile × j-tile of locations formed as a small matrix product (unit-stride over a
  * transposed coordinate copy) so that they stay in cache; pairs beyond the maximum lag are rejected
  * on the squared spatial distance (chord distance for geographic locations) before any square
@@ -94,6 +96,9 @@ public final class EmpiricalVariogram {
             }
         }
         double max2 = geo ? sq(2 * Math.sin(Math.min(Math.PI, maxLag / Locations.EARTH_RADIUS_KM) / 2)) : maxLag * maxLag;
+        // centre the coordinates first (distances are unchanged): ‖a‖² + ‖b‖² − 2a·b on uncentred
+        // coordinates far from the neutral element cancels the leading digits of small differences
+        y = centredCopy(y, n, k);
         double[] nsq = Kernels.rowNormsSq(y, n, k);
         double[] yt = new double[k * n];
         for (int i = 0; i < n; i++) {
@@ -323,6 +328,26 @@ public final class EmpiricalVariogram {
                 }
             }
         }
+    }
+
+    /** y minus its column means (a new array; y is not modified). */
+    private static double[] centredCopy(double[] y, int n, int k) {
+        double[] mean = new double[k];
+        for (int i = 0; i < n; i++) {
+            for (int c = 0; c < k; c++) {
+                mean[c] += y[i * k + c];
+            }
+        }
+        for (int c = 0; c < k; c++) {
+            mean[c] /= n;
+        }
+        double[] out = new double[n * k];
+        for (int i = 0; i < n; i++) {
+            for (int c = 0; c < k; c++) {
+                out[i * k + c] = y[i * k + c] - mean[c];
+            }
+        }
+        return out;
     }
 
     private static double sq(double v) {
