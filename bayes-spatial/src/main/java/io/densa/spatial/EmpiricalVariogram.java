@@ -126,11 +126,14 @@ public final class EmpiricalVariogram {
         long[][] pc = new long[tiles][];
         Pass pass = new Pass(n, k, y, yt, nsq, p, geo, max2, e, uniform, invWidth, ns, dcos, dsin, cosTol,
                 dirs != null);
+        AutocorrelationProgress progress = new AutocorrelationProgress(options.progressListener(), "variogram tiles",
+                tiles);
         Kernels.forEachBlock(tiles, options.parallel() && Kernels.parallelWorth((long) n * n * k / 2), t -> {
             TileSums acc = pass.tile(t * ITILE, Math.min(n, t * ITILE + ITILE));
             pg[t] = acc.gamma;
             ph[t] = acc.lag;
             pc[t] = acc.count;
+            progress.advance(1);
         });
         long[][] counts = new long[ns][nb];
         double[][] lag = new double[ns][nb];

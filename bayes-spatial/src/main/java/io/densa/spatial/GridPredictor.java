@@ -1,6 +1,7 @@
 package io.densa.spatial;
 
 import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
 import io.densa.core.internal.Kernels;
 import java.util.Arrays;
 import java.util.LinkedHashMap;
@@ -65,8 +66,8 @@ final class GridPredictor {
                 }
                 out[b] = null;
             }
-            if (opt.listener() != null) {
-                opt.listener().progress(start + count, total);
+            if (opt.listener() != ProgressListener.NONE) {
+                opt.listener().progress("grid tiles", start + count, total);
             }
         }
     }
