@@ -46,7 +46,7 @@ class VariogramFittingTest {
     }
 
     @Test
-    void familiesCompareByCriterionAndMaternSmoothnessIsRespected() {
+    void familiesCompareByCriterion() {
         Locations loc = TestData.uniformSquare(500, 1, 31);
         VariogramModel truth = VariogramModel.gaussian(1, 0.5);
         DensitySet d = TestData.gaussianField(K10, loc, truth, 32);
