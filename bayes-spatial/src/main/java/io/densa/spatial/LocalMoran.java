@@ -2,6 +2,7 @@ package io.densa.spatial;
 
 import io.densa.core.BenjaminiHochberg;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.Seeds;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Collections;
@@ -195,7 +196,7 @@ public final class LocalMoran {
                 // Exclude unit i: move it to the last slot and draw from the first n − 1.
                 pool[i] = n - 1;
                 pool[n - 1] = i;
-                SplittableRandom rng = new SplittableRandom(AutocorrelationSupport.mix(seed, i));
+                SplittableRandom rng = Seeds.stream(seed, i);
                 int ge = 0, le = 0, two = 0;
                 int size = n - 1;
                 for (int t = 0; t < r; t++) {
