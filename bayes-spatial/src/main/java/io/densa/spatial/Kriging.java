@@ -164,7 +164,7 @@ public final class Kriging {
     }
 
     private void checkCoincident() {
-        int[][] pairs = index.closePairs(0);
+        int[][] pairs = index.pairsWithin(0);
         for (int[] pr : pairs) {
             if (diagExtra[pr[0]] > 0 || diagExtra[pr[1]] > 0) {
                 continue;

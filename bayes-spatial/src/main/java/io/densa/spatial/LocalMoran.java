@@ -42,10 +42,10 @@ import java.util.SplittableRandom;
  * generator seeded from (seed, i), so results depend neither on threads nor on blocking.
  *
  * <h2>Multiple testing</h2>
- * {@link Unit#pAdjusted()} is the Benjamini–Hochberg step-up adjustment of the two-sided
+ * {@link Unit#adjustedPValue()} is the Benjamini–Hochberg step-up adjustment of the two-sided
  * p-values over the analysed units (Benjamini &amp; Hochberg (1995), Controlling the false
  * discovery rate, JRSS B 57 — from memory); a unit is significant at false discovery rate q when
- * pAdjusted ≤ q. {@link io.densa.core.BenjaminiHochberg#adjust(double[])} adjusts any other set of p-values.
+ * adjustedPValue ≤ q. {@link io.densa.core.BenjaminiHochberg#adjust(double[])} adjusts any other set of p-values.
  *
  * <p>Inputs are not modified; methods are thread-safe.
  */
@@ -83,11 +83,11 @@ public final class LocalMoran {
      * @param pTwoSided              two-sided conditional-permutation pseudo p-value
      * @param pGreater               one-sided pseudo p-value for I_i larger than expected
      * @param pLess                  one-sided pseudo p-value for I_i smaller than expected
-     * @param pAdjusted              Benjamini–Hochberg adjusted two-sided p-value
+     * @param adjustedPValue         Benjamini–Hochberg adjusted two-sided p-value
      */
     public record Unit(int index, double statistic, double deviation, double lag, Quadrant quadrant,
             double expectation, double variance, double conditionalExpectation, double pTwoSided, double pGreater,
-            double pLess, double pAdjusted) {
+            double pLess, double adjustedPValue) {
     }
 
     /**
@@ -109,7 +109,7 @@ public final class LocalMoran {
             }
             List<Unit> out = new ArrayList<>();
             for (Unit u : units) {
-                if (u.pAdjusted() <= q) {
+                if (u.adjustedPValue() <= q) {
                     out.add(u);
                 }
             }
