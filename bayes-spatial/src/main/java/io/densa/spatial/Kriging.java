@@ -575,11 +575,13 @@ public final class Kriging {
      * the datum is 1 / B_ii (= σ²_{−i} + v_i). Here B_ii = (C⁻¹)_ii − u_iᵀ S⁻¹ u_i with U = C⁻¹F
      * and S = FᵀC⁻¹F, all from the one Cholesky factor of C.
      *
-     * @throws IllegalStateException if the neighbourhood is not global
+     * @throws IllegalArgumentException if the neighbourhood is not global
      */
     public CrossValidation leaveOneOutFast() {
         if (!options.neighbourhood().isGlobal()) {
-            throw new IllegalStateException("fast leave-one-out needs the global neighbourhood; use crossValidate()");
+            throw new IllegalArgumentException("fast leave-one-out needs the global neighbourhood"
+                    + " (Neighbourhood.global()), got " + options.neighbourhood()
+                    + "; use crossValidate() or leaveOneOutBruteForce() for local neighbourhoods");
         }
         if (n < p + 2) {
             throw new IllegalArgumentException("leave-one-out with " + p + " drift function(s) needs at least "
