@@ -104,8 +104,9 @@ public final class GridOptions {
     /**
      * With a listener that receives the progress of grid prediction: task {@code "grid tiles"},
      * done = tiles delivered so far (empty and masked-out tiles included), total = tiles in the grid.
-     * It is called from the thread that called predictGrid, after the consumer has received the
-     * tiles counted. The listener does not change any result.
+     * It is called from the thread that called predictGrid, after each batch of 16 tiles (a fixed
+     * number, whatever the machine) and once at the end, after the consumer has received the tiles
+     * counted. The listener does not change any result.
      *
      * @param l a listener, or {@link ProgressListener#NONE}
      */

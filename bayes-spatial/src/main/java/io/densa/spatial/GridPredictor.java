@@ -30,6 +30,12 @@ import org.locationtech.jts.geom.prep.PreparedGeometry;
  */
 final class GridPredictor {
     private static final int CACHE_LIMIT = 256;
+    /**
+     * Tiles computed (in parallel) before they are handed to the consumer in order: fixed, so that
+     * the memory held and the progress granularity do not depend on the machine (16 tiles keep a
+     * few dozen worker threads busy; common practice).
+     */
+    static final int TILE_BATCH = 16;
 
     private GridPredictor() {
     }
@@ -51,7 +57,7 @@ final class GridPredictor {
         if (kr.options.neighbourhood().isGlobal()) {
             kr.globalSystem();
         }
-        int batch = Math.max(1, 2 * Runtime.getRuntime().availableProcessors());
+        int batch = TILE_BATCH;
         GridTile[] out = new GridTile[batch];
         for (int start = 0; start < total; start += batch) {
             int count = Math.min(batch, total - start);

@@ -66,4 +66,19 @@ class SpatialProgressTest {
             CrossValidationTest.assertSame(k.crossValidate(), with);
         }
     }
+
+    @Test
+    void gridProgressComesInFixedBatchesOfSixteenTiles() {
+        Locations loc = TestData.uniformSquare(30, 1, 13);
+        DensitySet data = TestData.independentCoordinates(TestData.K3, 30, 14);
+        Kriging k = Kriging.ordinary(loc, data, VariogramModel.exponential(1, 0.5), KrigingOptions.withDefaults());
+        Recorder rec = new Recorder();
+        // 28 × 20 cells in tiles of 4 × 4: 7 × 5 = 35 tiles, reported after 16, 32 and 35
+        k.predictGrid(Grid.over(0, 0, 1, 1, 28, 20), GridOptions.withDefaults().withTileSize(4).withVariance(false)
+                .withProgressListener(rec), t -> { });
+        rec.check("grid tiles", 35);
+        assertEquals(3, rec.calls.size());
+        assertEquals(16, rec.calls.get(0)[0]);
+        assertEquals(32, rec.calls.get(1)[0]);
+    }
 }
