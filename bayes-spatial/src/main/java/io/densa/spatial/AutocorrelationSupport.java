@@ -2,6 +2,7 @@ package io.densa.spatial;
 
 import io.densa.core.DensaException;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.Seeds;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Objects;
@@ -18,7 +19,6 @@ import org.apache.commons.math3.special.Erf;
 final class AutocorrelationSupport {
     /** Permutations per block; each block has its own generator, so results ignore threads. */
     static final int PERMUTATION_BLOCK = 64;
-    private static final long GOLDEN = 0x9E3779B97F4A7C15L;
 
     private AutocorrelationSupport() {
     }
@@ -174,27 +174,9 @@ final class AutocorrelationSupport {
         return z;
     }
 
-    /** SplitMix64 finaliser: a well-mixed seed for stream (seed, index). */
-    static long mix(long seed, long index) {
-        long z = seed + (index + 1) * GOLDEN;
-        z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9L;
-        z = (z ^ (z >>> 27)) * 0x94D049BB133111EBL;
-        return z ^ (z >>> 31);
-    }
-
-    /** Fisher–Yates shuffle (Durstenfeld) of the whole array. */
-    static void shuffle(int[] a, SplittableRandom rng) {
-        for (int i = a.length - 1; i > 0; i--) {
-            int j = rng.nextInt(i + 1);
-            int t = a[i];
-            a[i] = a[j];
-            a[j] = t;
-        }
-    }
-
     /**
      * R permuted statistics; permutation r belongs to block r / {@link #PERMUTATION_BLOCK}, whose
-     * generator is seeded by mix(seed, block) and which starts from the identity permutation.
+     * generator is {@code Seeds.stream(seed, block)} (SplitMix64 stream derivation in core) and which starts from the identity permutation.
      */
     static double[] simulate(int n, AutocorrelationOptions o, long workPerPermutation, String what,
             PermutedStatistic stat) {
@@ -206,11 +188,11 @@ final class AutocorrelationSupport {
         AutocorrelationProgress progress = new AutocorrelationProgress(o.progressListener(), what + " permutations",
                 permutations);
         Kernels.forEachBlock(blocks, par, b -> {
-            SplittableRandom rng = new SplittableRandom(mix(seed, b));
+            SplittableRandom rng = Seeds.stream(seed, b);
             int[] perm = IntStream.range(0, n).toArray();
             int r1 = Math.min(permutations, (b + 1) * PERMUTATION_BLOCK);
             for (int r = b * PERMUTATION_BLOCK; r < r1; r++) {
-                shuffle(perm, rng);
+                Seeds.shuffle(perm, rng);
                 sims[r] = stat.evaluate(perm);
             }
             progress.advance(r1 - b * PERMUTATION_BLOCK);

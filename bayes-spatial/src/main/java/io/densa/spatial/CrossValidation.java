@@ -4,7 +4,10 @@ package io.densa.spatial;
  * Leave-one-out cross-validation of a kriging predictor: for each data location i the error
  * e_i = X(s_i) ⊖ X̂_{−i}(s_i) of predicting the datum from the others.
  *
- * @param errors                       n × K coordinates of e_i (owned by the record)
+ *
+ * <p>Immutable: arrays are copied on construction and by every accessor; equality is by content.
+ *
+ * @param errors                       n × K coordinates of e_i 
  * @param errorNorms                   ‖e_i‖_B
  * @param krigingVariances             σ²_{−i}, the kriging variance of the error-free field at s_i
  * @param standardisedErrors           ‖e_i‖_B / √(σ²_{−i} + v_i) with v_i the location's error variance
@@ -16,6 +19,60 @@ package io.densa.spatial;
 public record CrossValidation(double[][] errors, double[] errorNorms, double[] krigingVariances,
         double[] standardisedErrors, double meanError, double meanSquaredError, double meanStandardisedSquaredError,
         double biasNorm) {
+
+    /** Copies the array components (the caller keeps its arrays). */
+    public CrossValidation {
+        errors = RecordArrays.copy(errors);
+        errorNorms = RecordArrays.copy(errorNorms);
+        krigingVariances = RecordArrays.copy(krigingVariances);
+        standardisedErrors = RecordArrays.copy(standardisedErrors);
+    }
+
+    /** A copy of the {@code errors} component. */
+    @Override
+    public double[][] errors() {
+        return RecordArrays.copy(errors);
+    }
+
+    /** A copy of the {@code errorNorms} component. */
+    @Override
+    public double[] errorNorms() {
+        return RecordArrays.copy(errorNorms);
+    }
+
+    /** A copy of the {@code krigingVariances} component. */
+    @Override
+    public double[] krigingVariances() {
+        return RecordArrays.copy(krigingVariances);
+    }
+
+    /** A copy of the {@code standardisedErrors} component. */
+    @Override
+    public double[] standardisedErrors() {
+        return RecordArrays.copy(standardisedErrors);
+    }
+
+    private Object[] parts() {
+        return new Object[] {errors, errorNorms, krigingVariances, standardisedErrors, meanError, meanSquaredError, meanStandardisedSquaredError, biasNorm};
+    }
+
+    /** Equality by content of every component (arrays element by element). */
+    @Override
+    public boolean equals(Object o) {
+        return o instanceof CrossValidation other && RecordArrays.equal(parts(), other.parts());
+    }
+
+    /** Hash of the content of every component. */
+    @Override
+    public int hashCode() {
+        return RecordArrays.hash(parts());
+    }
+
+    /** The components, arrays printed by content. */
+    @Override
+    public String toString() {
+        return RecordArrays.describe("CrossValidation", new String[] {"errors", "errorNorms", "krigingVariances", "standardisedErrors", "meanError", "meanSquaredError", "meanStandardisedSquaredError", "biasNorm"}, parts());
+    }
 
     static CrossValidation of(double[][] errors, double[] variances, double[] errorVariances) {
         int n = errors.length;

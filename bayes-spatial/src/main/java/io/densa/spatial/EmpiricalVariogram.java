@@ -12,11 +12,13 @@ import java.util.Objects;
  * Ecol. Stat. 18 — from memory), where N(h_b) are the unordered pairs whose distance falls in bin
  * b (and, with directions, in the sector). Each bin reports its pair count and mean lag.
  *
- * <p>Computation: squared B2 distances come from coordinates by ‖a‖² + ‖b‖² − 2a·b, with the a·b
+ * <p>Computation: the coordinates are first centred on their column means (distances are
+ * unchanged, and densities far from the neutral element keep the digits of their differences);
+ * squared B2 distances then come from the centred coordinates by ‖a‖² + ‖b‖² − 2a·b, with the a·b
  * products of an i-tile × j-tile of locations formed as a small matrix product (unit-stride over a
  * transposed coordinate copy) so that they stay in cache; pairs beyond the maximum lag are rejected
  * on the squared spatial distance (chord distance for geographic locations) before any square
- * root. Tiles of locations are processed in parallel, each into its own bin totals, and totals are
+ * root, and lags are computed by the same operations as {@link Locations#distance(int, int)}. Tiles of locations are processed in parallel, each into its own bin totals, and totals are
  * combined in tile order, so the result is bit-identical to the serial run.
  *
  * <p>Immutable; accessors return copies.
@@ -84,16 +86,19 @@ public final class EmpiricalVariogram {
         double[] p = new double[n * dim];
         for (int i = 0; i < n; i++) {
             if (geo) {
-                double lon = Math.toRadians(loc.x(i)), lat = Math.toRadians(loc.y(i));
-                p[3 * i] = Math.cos(lat) * Math.cos(lon);
-                p[3 * i + 1] = Math.cos(lat) * Math.sin(lon);
-                p[3 * i + 2] = Math.sin(lat);
+                Locations.unitVector(loc.x(i), loc.y(i), p, 3 * i);
             } else {
                 p[2 * i] = loc.x(i);
                 p[2 * i + 1] = loc.y(i);
             }
         }
-        double max2 = geo ? sq(2 * Math.sin(Math.min(Math.PI, maxLag / Locations.EARTH_RADIUS_KM) / 2)) : maxLag * maxLag;
+        // prefilter on the squared spatial (chord) distance, widened by a relative 1e-12 so that no
+        // pair at distance <= maxLag is lost to rounding; the exact test is on the lag itself
+        double max2 = (1 + 1e-12) * (geo ? sq(2 * Math.sin(Math.min(Math.PI, maxLag / Locations.EARTH_RADIUS_KM) / 2))
+                : maxLag * maxLag);
+        // centre the coordinates first (distances are unchanged): ‖a‖² + ‖b‖² − 2a·b on uncentred
+        // coordinates far from the neutral element cancels the leading digits of small differences
+        y = centredCopy(y, n, k);
         double[] nsq = Kernels.rowNormsSq(y, n, k);
         double[] yt = new double[k * n];
         for (int i = 0; i < n; i++) {
@@ -121,11 +126,14 @@ public final class EmpiricalVariogram {
         long[][] pc = new long[tiles][];
         Pass pass = new Pass(n, k, y, yt, nsq, p, geo, max2, e, uniform, invWidth, ns, dcos, dsin, cosTol,
                 dirs != null);
+        AutocorrelationProgress progress = new AutocorrelationProgress(options.progressListener(), "variogram tiles",
+                tiles);
         Kernels.forEachBlock(tiles, options.parallel() && Kernels.parallelWorth((long) n * n * k / 2), t -> {
             TileSums acc = pass.tile(t * ITILE, Math.min(n, t * ITILE + ITILE));
             pg[t] = acc.gamma;
             ph[t] = acc.lag;
             pc[t] = acc.count;
+            progress.advance(1);
         });
         long[][] counts = new long[ns][nb];
         double[][] lag = new double[ns][nb];
@@ -296,8 +304,11 @@ public final class EmpiricalVariogram {
                 if (d2 > max2) {
                     continue;
                 }
-                double h = geo ? 2 * Locations.EARTH_RADIUS_KM * Math.asin(Math.min(1, Math.sqrt(d2) / 2))
-                        : Math.sqrt(d2);
+                // the same operations as Locations.distance, so a pair on a bin edge bins the same way
+                double h = geo ? Locations.kmFromChordSq(p, 3 * i, 3 * j, d2) : Math.sqrt(d2);
+                if (h > e[nb]) {
+                    continue;
+                }
                 int b = uniform ? Math.max(0, Math.min(nb - 1, (int) Math.ceil(h * invWidth) - 1)) : bin(e, h);
                 if (b < 0) {
                     continue;
@@ -323,6 +334,26 @@ public final class EmpiricalVariogram {
                 }
             }
         }
+    }
+
+    /** y minus its column means (a new array; y is not modified). */
+    private static double[] centredCopy(double[] y, int n, int k) {
+        double[] mean = new double[k];
+        for (int i = 0; i < n; i++) {
+            for (int c = 0; c < k; c++) {
+                mean[c] += y[i * k + c];
+            }
+        }
+        for (int c = 0; c < k; c++) {
+            mean[c] /= n;
+        }
+        double[] out = new double[n * k];
+        for (int i = 0; i < n; i++) {
+            for (int c = 0; c < k; c++) {
+                out[i * k + c] = y[i * k + c] - mean[c];
+            }
+        }
+        return out;
     }
 
     private static double sq(double v) {

@@ -1,5 +1,6 @@
 package io.densa.spatial;
 
+import io.densa.core.ProgressListener;
 import java.util.ArrayList;
 import java.util.Collections;
 import java.util.List;
@@ -14,19 +15,9 @@ import java.util.function.ToDoubleFunction;
  * coordinates.
  *
  * <p>Defaults: tiles of 64 × 64 cells, variance on, no derived quantities, parallel, no progress
- * listener.
+ * reports ({@link ProgressListener#NONE}).
  */
 public final class GridOptions {
-    /** Progress callback, called from the thread that called predictGrid. */
-    @FunctionalInterface
-    public interface ProgressListener {
-        /**
-         * @param tilesDone  tiles delivered so far
-         * @param tilesTotal tiles in the grid
-         */
-        void progress(int tilesDone, int tilesTotal);
-    }
-
     private final int tileSize;
     private final boolean variance;
     private final double[] thresholds;
@@ -50,7 +41,7 @@ public final class GridOptions {
 
     /** The defaults described above. */
     public static GridOptions withDefaults() {
-        return new GridOptions(64, true, new double[0], new double[0], false, List.of(), true, null);
+        return new GridOptions(64, true, new double[0], new double[0], false, List.of(), true, ProgressListener.NONE);
     }
 
     /** Tile edge in cells (tiles are tileSize × tileSize), in [1, 1024]. */
@@ -110,9 +101,18 @@ public final class GridOptions {
         return new GridOptions(tileSize, variance, thresholds, probabilities, means, functions, p, listener);
     }
 
-    /** A progress listener (null for none). */
+    /**
+     * With a listener that receives the progress of grid prediction: task {@code "grid tiles"},
+     * done = tiles delivered so far (empty and masked-out tiles included), total = tiles in the grid.
+     * It is called from the thread that called predictGrid, after each batch of 16 tiles (a fixed
+     * number, whatever the machine) and once at the end, after the consumer has received the tiles
+     * counted. The listener does not change any result.
+     *
+     * @param l a listener, or {@link ProgressListener#NONE}
+     */
     public GridOptions withProgressListener(ProgressListener l) {
-        return new GridOptions(tileSize, variance, thresholds, probabilities, means, functions, parallel, l);
+        return new GridOptions(tileSize, variance, thresholds, probabilities, means, functions, parallel,
+                Objects.requireNonNull(l, "listener"));
     }
 
     int tileSize() {

@@ -1,6 +1,7 @@
 package io.densa.spatial;
 
 import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
 import io.densa.core.internal.Kernels;
 import java.util.Arrays;
 import java.util.LinkedHashMap;
@@ -29,6 +30,12 @@ import org.locationtech.jts.geom.prep.PreparedGeometry;
  */
 final class GridPredictor {
     private static final int CACHE_LIMIT = 256;
+    /**
+     * Tiles computed (in parallel) before they are handed to the consumer in order: fixed, so that
+     * the memory held and the progress granularity do not depend on the machine (16 tiles keep a
+     * few dozen worker threads busy; common practice).
+     */
+    static final int TILE_BATCH = 16;
 
     private GridPredictor() {
     }
@@ -50,7 +57,7 @@ final class GridPredictor {
         if (kr.options.neighbourhood().isGlobal()) {
             kr.globalSystem();
         }
-        int batch = Math.max(1, 2 * Runtime.getRuntime().availableProcessors());
+        int batch = TILE_BATCH;
         GridTile[] out = new GridTile[batch];
         for (int start = 0; start < total; start += batch) {
             int count = Math.min(batch, total - start);
@@ -65,8 +72,8 @@ final class GridPredictor {
                 }
                 out[b] = null;
             }
-            if (opt.listener() != null) {
-                opt.listener().progress(start + count, total);
+            if (opt.listener() != ProgressListener.NONE) {
+                opt.listener().progress("grid tiles", start + count, total);
             }
         }
     }

@@ -4,8 +4,15 @@ import io.densa.core.DensitySet;
 
 /**
  * One predicted tile of a {@link Grid}: the cells of the tile that lie inside the mask, in row-major
- * order within the tile, with their predictions and per-cell quantities. Arrays are owned by the
- * record (fresh for each tile).
+ * order within the tile, with their predictions and per-cell quantities.
+ *
+ * <p><b>A per-tile buffer, not a copied value.</b> Unlike the other result records, a tile does not
+ * copy its arrays (a grid delivers millions of cells, and copying each tile's arrays in and out
+ * would double the memory traffic of prediction): the accessors return the record's own arrays.
+ * They are freshly allocated for each tile and never touched by the library after the tile is
+ * passed to the consumer, so they belong to the consumer, who may keep, modify or reuse them;
+ * code that shares a tile with others must copy what it needs first. For the same reason
+ * {@code equals} and {@code hashCode} are the record defaults (array components by reference).
  *
  * @param tileColumn        tile column index
  * @param tileRow           tile row index

@@ -4,6 +4,7 @@ import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
 import io.densa.core.internal.Kernels;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -163,7 +164,7 @@ public final class Kriging {
     }
 
     private void checkCoincident() {
-        int[][] pairs = index.closePairs(0);
+        int[][] pairs = index.pairsWithin(0);
         for (int[] pr : pairs) {
             if (diagExtra[pr[0]] > 0 || diagExtra[pr[1]] > 0) {
                 continue;
@@ -544,7 +545,26 @@ public final class Kriging {
      * neighbourhood ({@link #leaveOneOutFast()}), refitting per location otherwise.
      */
     public CrossValidation crossValidate() {
-        return options.neighbourhood().isGlobal() ? leaveOneOutFast() : leaveOneOutBruteForce();
+        return crossValidate(ProgressListener.NONE);
+    }
+
+    /**
+     * {@link #crossValidate()} with a listener that receives its progress: task
+     * {@code "cross-validation"}, done = locations left out so far, total = number of locations
+     * (the fast formulas report once, at the end). Calls may come from worker threads (they are
+     * serialised, and done is non-decreasing). The listener does not change any result.
+     *
+     * @param listener a thread-safe listener, or {@link ProgressListener#NONE}
+     */
+    public CrossValidation crossValidate(ProgressListener listener) {
+        Objects.requireNonNull(listener, "listener");
+        AutocorrelationProgress progress = new AutocorrelationProgress(listener, "cross-validation", n);
+        if (options.neighbourhood().isGlobal()) {
+            CrossValidation cv = leaveOneOutFast();
+            progress.advance(n);
+            return cv;
+        }
+        return leaveOneOutBruteForce(progress);
     }
 
     /**
@@ -555,11 +575,13 @@ public final class Kriging {
      * the datum is 1 / B_ii (= σ²_{−i} + v_i). Here B_ii = (C⁻¹)_ii − u_iᵀ S⁻¹ u_i with U = C⁻¹F
      * and S = FᵀC⁻¹F, all from the one Cholesky factor of C.
      *
-     * @throws IllegalStateException if the neighbourhood is not global
+     * @throws IllegalArgumentException if the neighbourhood is not global
      */
     public CrossValidation leaveOneOutFast() {
         if (!options.neighbourhood().isGlobal()) {
-            throw new IllegalStateException("fast leave-one-out needs the global neighbourhood; use crossValidate()");
+            throw new IllegalArgumentException("fast leave-one-out needs the global neighbourhood"
+                    + " (Neighbourhood.global()), got " + options.neighbourhood()
+                    + "; use crossValidate() or leaveOneOutBruteForce() for local neighbourhoods");
         }
         if (n < p + 2) {
             throw new IllegalArgumentException("leave-one-out with " + p + " drift function(s) needs at least "
@@ -625,6 +647,10 @@ public final class Kriging {
      * neighbourhood) at its position. Locations are processed in parallel, each writing its own row.
      */
     public CrossValidation leaveOneOutBruteForce() {
+        return leaveOneOutBruteForce(new AutocorrelationProgress(ProgressListener.NONE, "cross-validation", n));
+    }
+
+    private CrossValidation leaveOneOutBruteForce(AutocorrelationProgress progress) {
         if (n < p + 2) {
             throw new IllegalArgumentException("leave-one-out with " + p + " drift function(s) needs at least "
                     + (p + 2) + " locations, got " + n);
@@ -643,6 +669,7 @@ public final class Kriging {
                 err[i][j] = y[i * k + j] - c[j];
             }
             var[i] = pr.variance();
+            progress.advance(1);
         });
         return CrossValidation.of(err, var, diagExtra.clone());
     }

@@ -2,7 +2,8 @@ package io.densa.spatial;
 
 /**
  * Diagnostics attached to a {@link io.densa.core.DensaException} when a kriging system cannot be
- * solved reliably.
+ * solved reliably. Immutable: the array is copied on construction and by its accessor; equality
+ * is by content.
  *
  * @param systemSize        number of data locations in the system
  * @param conditionEstimate estimate of the 2-norm condition number of the covariance matrix
@@ -12,4 +13,37 @@ package io.densa.spatial;
  * @param detail            what failed
  */
 public record KrigingDiagnostics(int systemSize, double conditionEstimate, int[] locations, String detail) {
+
+    /** Copies the array components (the caller keeps its arrays). */
+    public KrigingDiagnostics {
+        locations = RecordArrays.copy(locations);
+    }
+
+    /** A copy of the {@code locations} component. */
+    @Override
+    public int[] locations() {
+        return RecordArrays.copy(locations);
+    }
+
+    private Object[] parts() {
+        return new Object[] {systemSize, conditionEstimate, locations, detail};
+    }
+
+    /** Equality by content of every component (arrays element by element). */
+    @Override
+    public boolean equals(Object o) {
+        return o instanceof KrigingDiagnostics other && RecordArrays.equal(parts(), other.parts());
+    }
+
+    /** Hash of the content of every component. */
+    @Override
+    public int hashCode() {
+        return RecordArrays.hash(parts());
+    }
+
+    /** The components, arrays printed by content. */
+    @Override
+    public String toString() {
+        return RecordArrays.describe("KrigingDiagnostics", new String[] {"systemSize", "conditionEstimate", "locations", "detail"}, parts());
+    }
 }

@@ -2,6 +2,7 @@ package io.densa.spatial;
 
 import io.densa.core.BenjaminiHochberg;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.Seeds;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Collections;
@@ -41,10 +42,10 @@ import java.util.SplittableRandom;
  * generator seeded from (seed, i), so results depend neither on threads nor on blocking.
  *
  * <h2>Multiple testing</h2>
- * {@link Unit#pAdjusted()} is the Benjamini–Hochberg step-up adjustment of the two-sided
+ * {@link Unit#adjustedPValue()} is the Benjamini–Hochberg step-up adjustment of the two-sided
  * p-values over the analysed units (Benjamini &amp; Hochberg (1995), Controlling the false
  * discovery rate, JRSS B 57 — from memory); a unit is significant at false discovery rate q when
- * pAdjusted ≤ q. {@link io.densa.core.BenjaminiHochberg#adjust(double[])} adjusts any other set of p-values.
+ * adjustedPValue ≤ q. {@link io.densa.core.BenjaminiHochberg#adjust(double[])} adjusts any other set of p-values.
  *
  * <p>Inputs are not modified; methods are thread-safe.
  */
@@ -82,11 +83,11 @@ public final class LocalMoran {
      * @param pTwoSided              two-sided conditional-permutation pseudo p-value
      * @param pGreater               one-sided pseudo p-value for I_i larger than expected
      * @param pLess                  one-sided pseudo p-value for I_i smaller than expected
-     * @param pAdjusted              Benjamini–Hochberg adjusted two-sided p-value
+     * @param adjustedPValue         Benjamini–Hochberg adjusted two-sided p-value
      */
     public record Unit(int index, double statistic, double deviation, double lag, Quadrant quadrant,
             double expectation, double variance, double conditionalExpectation, double pTwoSided, double pGreater,
-            double pLess, double pAdjusted) {
+            double pLess, double adjustedPValue) {
     }
 
     /**
@@ -108,7 +109,7 @@ public final class LocalMoran {
             }
             List<Unit> out = new ArrayList<>();
             for (Unit u : units) {
-                if (u.pAdjusted() <= q) {
+                if (u.adjustedPValue() <= q) {
                     out.add(u);
                 }
             }
@@ -195,7 +196,7 @@ public final class LocalMoran {
                 // Exclude unit i: move it to the last slot and draw from the first n − 1.
                 pool[i] = n - 1;
                 pool[n - 1] = i;
-                SplittableRandom rng = new SplittableRandom(AutocorrelationSupport.mix(seed, i));
+                SplittableRandom rng = Seeds.stream(seed, i);
                 int ge = 0, le = 0, two = 0;
                 int size = n - 1;
                 for (int t = 0; t < r; t++) {

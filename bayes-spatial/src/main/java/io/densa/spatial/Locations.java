@@ -147,15 +147,42 @@ public final class Locations {
     }
 
     /**
-     * Great-circle distance in km between two (longitude, latitude) points in degrees, by the
+     * Great-circle distance in km between two (longitude, latitude) points in degrees on the sphere
+     * of radius R = {@link #EARTH_RADIUS_KM}, from the chord c = ‖u_1 − u_2‖ between the points'
+     * unit vectors u = (cos φ cos λ, cos φ sin λ, sin φ): d = 2R asin(c / 2), which equals the
      * haversine formula (Sinnott (1984), Virtues of the haversine, Sky and Telescope 68(2) — from
-     * memory), on the sphere of radius {@link #EARTH_RADIUS_KM}.
+     * memory) since hav(d / R) = (c / 2)². Beyond a quarter circle (c² &gt; 2), where asin loses
+     * accuracy, d = R (π − 2 asin(c' / 2)) with the chord c' = ‖u_1 + u_2‖ to the antipode. The
+     * chord form is the one the variogram uses to reject pairs on the squared chord before any
+     * square root, so every geographic distance in the module is computed by the same operations
+     * and a pair on a bin edge bins the same way everywhere.
      */
     public static double greatCircleKm(double lon1, double lat1, double lon2, double lat2) {
-        double p1 = Math.toRadians(lat1), p2 = Math.toRadians(lat2);
-        double dp = p2 - p1, dl = Math.toRadians(lon2 - lon1);
-        double h = Math.sin(dp / 2) * Math.sin(dp / 2) + Math.cos(p1) * Math.cos(p2) * Math.sin(dl / 2) * Math.sin(dl / 2);
-        return 2 * EARTH_RADIUS_KM * Math.asin(Math.min(1.0, Math.sqrt(h)));
+        double[] u = new double[6];
+        unitVector(lon1, lat1, u, 0);
+        unitVector(lon2, lat2, u, 3);
+        double ex = u[0] - u[3], ey = u[1] - u[4], ez = u[2] - u[5];
+        return kmFromChordSq(u, 0, 3, ex * ex + ey * ey + ez * ez);
+    }
+
+    /** Writes the unit vector of (longitude, latitude) in degrees to out[off..off+2]. */
+    static void unitVector(double lon, double lat, double[] out, int off) {
+        double l = Math.toRadians(lon), p = Math.toRadians(lat);
+        out[off] = Math.cos(p) * Math.cos(l);
+        out[off + 1] = Math.cos(p) * Math.sin(l);
+        out[off + 2] = Math.sin(p);
+    }
+
+    /**
+     * Great-circle km between the unit vectors u[a..a+2] and u[b..b+2] whose squared chord
+     * (‖u_a − u_b‖², summed x, y, z in that order) is chordSq; see {@link #greatCircleKm}.
+     */
+    static double kmFromChordSq(double[] u, int a, int b, double chordSq) {
+        if (chordSq <= 2) {
+            return 2 * EARTH_RADIUS_KM * Math.asin(Math.sqrt(chordSq) / 2);
+        }
+        double sx = u[a] + u[b], sy = u[a + 1] + u[b + 1], sz = u[a + 2] + u[b + 2];
+        return EARTH_RADIUS_KM * (Math.PI - 2 * Math.asin(Math.min(1, Math.sqrt(sx * sx + sy * sy + sz * sz) / 2)));
     }
 
     /** Bounding box {minX, minY, maxX, maxY}. */

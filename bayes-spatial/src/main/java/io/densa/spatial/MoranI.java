@@ -23,12 +23,15 @@ import java.util.Optional;
  * independent normal values. The test needs n ≥ 4 units (Var_R divides by (n − 1)(n − 2)(n − 3)).
  *
  * <h2>Densities</h2>
- * For densities X_1..X_n with ⊕-mean X̄, using B2 inner products of the centred densities
- * (computed on coordinates: B2 is Euclidean in the orthonormal coordinates):
+ * The density form is derived here, not taken from a published source: Moran's I with the
+ * product z_i z_j of centred values replaced by the B2 inner product of the centred densities.
+ * For densities X_1..X_n with ⊕-mean X̄ (inner products computed on coordinates: B2 is
+ * Euclidean in the orthonormal coordinates):
  * <pre>
  *   I_B = (n / S0) Σ_i Σ_j w_ij ⟨X_i ⊖ X̄, X_j ⊖ X̄⟩_B / Σ_i ‖X_i ⊖ X̄‖²_B.
  * </pre>
- * For a one-coordinate space (K = 1) this is exactly the scalar Moran's I of the coordinate. In
+ * For a one-coordinate space (K = 1) this is exactly the scalar Moran's I of the coordinate (the
+ * B2 inner product is then the product of the single coordinates; checked in the tests). In
  * general it is the average of the K coordinate-wise Moran's I weighted by the coordinates'
  * variances, and it does not depend on the orthonormal basis chosen. Its permutation
  * expectation is still −1/(n − 1) (whole densities are permuted over the units); its

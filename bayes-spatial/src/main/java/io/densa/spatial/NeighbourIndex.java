@@ -108,7 +108,7 @@ public final class NeighbourIndex {
      * Pairs (i, j), i &lt; j, of locations closer than or at distance tol, in lexicographic
      * order; tol = 0 finds exactly coincident locations.
      */
-    public int[][] closePairs(double tol) {
+    public int[][] pairsWithin(double tol) {
         if (!(tol >= 0) || Double.isInfinite(tol)) {
             throw new IllegalArgumentException("tolerance must be finite and >= 0, got " + tol);
         }

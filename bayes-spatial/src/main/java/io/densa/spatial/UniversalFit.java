@@ -15,6 +15,9 @@ import java.util.Objects;
  * neighbourhood (O(n³)); the returned predictor uses the caller's kriging options. Residual
  * variograms are biased low at large lags (the drift absorbs variation), a known limitation.
  *
+ * <p>Immutable record: the coefficient array is copied on construction and by its accessor;
+ * equality is by content.
+ *
  * @param kriging             the universal kriging predictor with the final model
  * @param fit                 the final variogram fit of the residuals
  * @param residualVariogram   the final empirical residual variogram
@@ -24,6 +27,39 @@ import java.util.Objects;
  */
 public record UniversalFit(Kriging kriging, VariogramFit fit, EmpiricalVariogram residualVariogram,
         double[][] driftCoefficients, int iterations, boolean converged) {
+
+    /** Copies the array components (the caller keeps its arrays). */
+    public UniversalFit {
+        driftCoefficients = RecordArrays.copy(driftCoefficients);
+    }
+
+    /** A copy of the {@code driftCoefficients} component. */
+    @Override
+    public double[][] driftCoefficients() {
+        return RecordArrays.copy(driftCoefficients);
+    }
+
+    private Object[] parts() {
+        return new Object[] {kriging, fit, residualVariogram, driftCoefficients, iterations, converged};
+    }
+
+    /** Equality by content of every component (arrays element by element). */
+    @Override
+    public boolean equals(Object o) {
+        return o instanceof UniversalFit other && RecordArrays.equal(parts(), other.parts());
+    }
+
+    /** Hash of the content of every component. */
+    @Override
+    public int hashCode() {
+        return RecordArrays.hash(parts());
+    }
+
+    /** The components, arrays printed by content. */
+    @Override
+    public String toString() {
+        return RecordArrays.describe("UniversalFit", new String[] {"kriging", "fit", "residualVariogram", "driftCoefficients", "iterations", "converged"}, parts());
+    }
 
     /**
      * Runs the iteration.

@@ -1,13 +1,16 @@
 package io.densa.spatial;
 
+import io.densa.core.ProgressListener;
 import java.util.Arrays;
+import java.util.Objects;
 
 /**
  * Immutable options of the empirical trace-variogram: distance bins (a count, a width or explicit
  * edges), maximum lag, optional direction sectors, optional variogram cloud, parallelism.
  *
  * <p>Defaults: 15 equal bins up to half the diagonal of the locations' bounding box (a common
- * practice rule of thumb), omnidirectional, no cloud, parallel.
+ * practice rule of thumb), omnidirectional, no cloud, parallel, no progress reports
+ * ({@link ProgressListener#NONE}).
  *
  * <p>Directions are angles in degrees measured counter-clockwise from the first coordinate axis,
  * taken modulo 180° (a pair and its reverse are the same pair); a pair belongs to a sector when the
@@ -23,9 +26,10 @@ public final class VariogramOptions {
     private final double tolerance;
     private final int cloudPairs;
     private final boolean parallel;
+    private final ProgressListener progress;
 
     private VariogramOptions(int binCount, double binWidth, double[] edges, double maxLag, double[] directions,
-            double tolerance, int cloudPairs, boolean parallel) {
+            double tolerance, int cloudPairs, boolean parallel, ProgressListener progress) {
         this.binCount = binCount;
         this.binWidth = binWidth;
         this.edges = edges;
@@ -34,11 +38,12 @@ public final class VariogramOptions {
         this.tolerance = tolerance;
         this.cloudPairs = cloudPairs;
         this.parallel = parallel;
+        this.progress = progress;
     }
 
     /** The defaults described above. */
     public static VariogramOptions withDefaults() {
-        return new VariogramOptions(15, Double.NaN, null, Double.NaN, null, Double.NaN, 0, true);
+        return new VariogramOptions(15, Double.NaN, null, Double.NaN, null, Double.NaN, 0, true, ProgressListener.NONE);
     }
 
     /** Equal-width bins of this number between 0 and the maximum lag. */
@@ -46,7 +51,7 @@ public final class VariogramOptions {
         if (count < 1 || count > 100_000) {
             throw new IllegalArgumentException("bin count must be in [1, 100000], got " + count);
         }
-        return new VariogramOptions(count, Double.NaN, null, maxLag, directions, tolerance, cloudPairs, parallel);
+        return new VariogramOptions(count, Double.NaN, null, maxLag, directions, tolerance, cloudPairs, parallel, progress);
     }
 
     /** Equal-width bins of this width between 0 and the maximum lag. */
@@ -54,7 +59,7 @@ public final class VariogramOptions {
         if (!(width > 0) || Double.isInfinite(width)) {
             throw new IllegalArgumentException("bin width must be finite and > 0, got " + width);
         }
-        return new VariogramOptions(0, width, null, maxLag, directions, tolerance, cloudPairs, parallel);
+        return new VariogramOptions(0, width, null, maxLag, directions, tolerance, cloudPairs, parallel, progress);
     }
 
     /**
@@ -72,7 +77,7 @@ public final class VariogramOptions {
             }
         }
         double[] e = binEdges.clone();
-        return new VariogramOptions(0, Double.NaN, e, e[e.length - 1], directions, tolerance, cloudPairs, parallel);
+        return new VariogramOptions(0, Double.NaN, e, e[e.length - 1], directions, tolerance, cloudPairs, parallel, progress);
     }
 
     /** Maximum lag (ignored with explicit edges). */
@@ -81,7 +86,7 @@ public final class VariogramOptions {
             throw new IllegalArgumentException("maximum lag must be finite and > 0, got " + lag);
         }
         return new VariogramOptions(binCount, binWidth, edges, edges != null ? maxLag : lag, directions, tolerance,
-                cloudPairs, parallel);
+                cloudPairs, parallel, progress);
     }
 
     /**
@@ -101,7 +106,7 @@ public final class VariogramOptions {
             }
         }
         return new VariogramOptions(binCount, binWidth, edges, maxLag, directionsDegrees.clone(), toleranceDegrees,
-                cloudPairs, parallel);
+                cloudPairs, parallel, progress);
     }
 
     /** Also return the variogram cloud: the first maxPairs pairs within the maximum lag, in (i, j) order. */
@@ -109,12 +114,30 @@ public final class VariogramOptions {
         if (maxPairs < 1) {
             throw new IllegalArgumentException("cloud pair limit must be >= 1, got " + maxPairs);
         }
-        return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, maxPairs, parallel);
+        return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, maxPairs, parallel, progress);
     }
 
     /** Whether to use the common ForkJoin pool (results are identical either way). */
     public VariogramOptions withParallel(boolean p) {
-        return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, cloudPairs, p);
+        return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, cloudPairs, p, progress);
+    }
+
+    /**
+     * With a listener that receives the progress of the estimation: task {@code "variogram tiles"},
+     * done = tiles of 64 locations whose pairs are binned, total = number of such tiles. Calls may
+     * come from worker threads (they are serialised, and done is non-decreasing). The listener does
+     * not change any result.
+     *
+     * @param listener a thread-safe listener, or {@link ProgressListener#NONE}
+     */
+    public VariogramOptions withProgressListener(ProgressListener listener) {
+        return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, cloudPairs, parallel,
+                Objects.requireNonNull(listener, "listener"));
+    }
+
+    /** The progress listener ({@link ProgressListener#NONE} by default). */
+    public ProgressListener progressListener() {
+        return progress;
     }
 
     /** Resolved bin edges for a given default maximum lag. */

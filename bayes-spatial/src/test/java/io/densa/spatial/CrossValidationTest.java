@@ -68,7 +68,8 @@ class CrossValidationTest {
         }
         assertEquals(ms / 40, cv.meanSquaredError(), 1e-12);
         assertEquals(mn / 40, cv.meanError(), 1e-12);
-        assertThrows(IllegalStateException.class, k::leaveOneOutFast);
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class, k::leaveOneOutFast);
+        org.junit.jupiter.api.Assertions.assertTrue(e.getMessage().contains("Neighbourhood.global()"), e.getMessage());
         List<CrossValidation> cmp = Kriging.compareModels(loc, data,
                 List.of(model, VariogramModel.exponential(1, 0.3)), KrigingOptions.withDefaults());
         assertEquals(2, cmp.size());

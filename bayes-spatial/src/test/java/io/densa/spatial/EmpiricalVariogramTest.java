@@ -122,6 +122,83 @@ class EmpiricalVariogramTest {
     }
 
     @Test
+    void largeCommonOffsetKeepsTheDigitsOfSmallDifferences() {
+        // Perturbation by a fixed density is a translation in B2 (Egozcue, Diaz-Barrero,
+        // Pawlowsky-Glahn (2006), Hilbert space of probability density functions based on
+        // Aitchison geometry, Acta Math. Sin. 22 — from memory), so every ‖X_i ⊖ X_j‖ and hence
+        // every γ̂ is unchanged; the reference is the pair-by-pair difference loop.
+        Locations loc = TestData.uniformSquare(200, 10, 5);
+        DensitySet field = TestData.gaussianField(TestData.K3, loc, VariogramModel.exponential(2, 4), 6);
+        double[][] small = field.coordinates();
+        for (double[] row : small) {
+            for (int c = 0; c < row.length; c++) {
+                row[c] *= 1e-2; // differences of order 1e-2
+            }
+        }
+        DensitySet d = DensitySet.of(TestData.K3, small);
+        double[] off = new double[TestData.K3.dimension()];
+        java.util.Arrays.fill(off, 1e4 / Math.sqrt(off.length));
+        DensitySet shifted = d.perturb(TestData.K3.density(off));
+        assertEquals(1e4, TestData.K3.density(off).norm(), 1e-8);
+        VariogramOptions o = VariogramOptions.withDefaults().withBinCount(10).withMaxLag(6);
+        double[] plain = EmpiricalVariogram.of(loc, d, o).semivariances();
+        EmpiricalVariogram ev = EmpiricalVariogram.of(loc, shifted, o);
+        double[] far = ev.semivariances();
+        double[][] ref = naive(loc, shifted, ev.edges(), Double.NaN, 0);
+        for (int b = 0; b < plain.length; b++) {
+            // tolerance: coordinates of size 1e4 carry absolute rounding 1e4 · 2^-52 ≈ 2e-12 against
+            // differences of 1e-2, so γ̂ keeps about 9 digits (the Gram identity on uncentred
+            // coordinates keeps about 4)
+            assertEquals(plain[b], far[b], 1e-7 * plain[b], "bin " + b);
+            assertEquals(ref[2][b], far[b], 1e-7 * ref[2][b], "bin " + b + " against the pair loop");
+        }
+    }
+
+    @Test
+    void pairsExactlyOnABinEdgeBinAsLocationsDistanceSays() {
+        // edges placed at the exact distances Locations.distance reports for some pairs: bins are
+        // (e_b, e_{b+1}], so each such pair must land in the lower bin, as in the pair loop
+        java.util.Random r = new java.util.Random(17);
+        int n = 60;
+        double[] lon = new double[n], lat = new double[n];
+        for (int i = 0; i < n; i++) {
+            lon[i] = 10 + 3 * r.nextDouble();
+            lat[i] = 45 + 2 * r.nextDouble();
+        }
+        Locations geo = Locations.geographic(lon, lat);
+        Locations plane = TestData.uniformSquare(n, 7.3, 18);
+        DensitySet d = TestData.independentCoordinates(TestData.K3, n, 19);
+        for (Locations loc : new Locations[] {geo, plane}) {
+            double[] edges = {0, loc.distance(0, 1), loc.distance(2, 3), loc.distance(4, 5), loc.distance(6, 7)};
+            java.util.Arrays.sort(edges);
+            EmpiricalVariogram ev = EmpiricalVariogram.of(loc, d, VariogramOptions.withDefaults().withEdges(edges));
+            check(ev, 0, naive(loc, d, edges, Double.NaN, 0));
+            // uniform bins whose maximum lag is exactly a pair distance
+            EmpiricalVariogram u = EmpiricalVariogram.of(loc, d, VariogramOptions.withDefaults().withBinCount(4)
+                    .withMaxLag(edges[4]));
+            check(u, 0, naive(loc, d, u.edges(), Double.NaN, 0));
+        }
+    }
+
+    @Test
+    void greatCircleMatchesTheHaversineFormula() {
+        // haversine (Sinnott (1984), Virtues of the haversine, Sky and Telescope 68(2) — from
+        // memory) written out independently; 1 degree of a meridian = π R / 180 km
+        java.util.Random r = new java.util.Random(23);
+        for (int t = 0; t < 200; t++) {
+            double lo1 = 360 * r.nextDouble() - 180, la1 = 170 * r.nextDouble() - 85;
+            double lo2 = lo1 + (r.nextDouble() - 0.5) * Math.pow(10, -4 + 6 * r.nextDouble());
+            double la2 = Math.max(-89, Math.min(89, la1 + (r.nextDouble() - 0.5) * 10));
+            double p1 = Math.toRadians(la1), p2 = Math.toRadians(la2);
+            double hv = Math.pow(Math.sin((p2 - p1) / 2), 2)
+                    + Math.cos(p1) * Math.cos(p2) * Math.pow(Math.sin(Math.toRadians(lo2 - lo1) / 2), 2);
+            double ref = 2 * Locations.EARTH_RADIUS_KM * Math.asin(Math.sqrt(hv));
+            assertEquals(ref, Locations.greatCircleKm(lo1, la1, lo2, la2), 1e-9 * Math.max(1, ref));
+        }
+        assertEquals(Math.PI * Locations.EARTH_RADIUS_KM / 180, Locations.greatCircleKm(5, 10, 5, 11), 1e-9);
+    }
+
+    @Test
     void badOptionsAreRejected() {
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
                 () -> VariogramOptions.withDefaults().withEdges(0, 2, 1));

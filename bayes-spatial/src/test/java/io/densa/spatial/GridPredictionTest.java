@@ -92,7 +92,11 @@ class GridPredictionTest {
         Kriging gk = Kriging.ordinary(loc, data, model, KrigingOptions.withDefaults());
         int[] progress = {0};
         List<GridTile> dual = collect(gk, Grid.over(0, 0, 1, 1, 20, 20), GridOptions.withDefaults().withVariance(false)
-                .withTileSize(16).withProgressListener((done, total) -> progress[0] = done));
+                .withTileSize(16).withProgressListener((task, done, total) -> {
+                    assertEquals("grid tiles", task);
+                    assertEquals(4, total);
+                    progress[0] = (int) done;
+                }));
         assertEquals(4, progress[0]);
         Grid g2 = Grid.over(0, 0, 1, 1, 20, 20);
         for (GridTile t : dual) {

@@ -183,10 +183,10 @@ class LocalMoranTest {
         // and significant after FDR control at 5 %.
         LocalMoran.Unit centre = a.units().get(2 * cols + 2);
         assertEquals(LocalMoran.Quadrant.HIGH_HIGH, centre.quadrant());
-        assertTrue(centre.pAdjusted() <= 0.05, "adjusted p " + centre.pAdjusted());
+        assertTrue(centre.adjustedPValue() <= 0.05, "adjusted p " + centre.adjustedPValue());
         assertTrue(a.significant(0.05).contains(centre));
         double[] two = a.units().stream().mapToDouble(LocalMoran.Unit::pTwoSided).toArray();
-        double[] adj = a.units().stream().mapToDouble(LocalMoran.Unit::pAdjusted).toArray();
+        double[] adj = a.units().stream().mapToDouble(LocalMoran.Unit::adjustedPValue).toArray();
         assertArrayEquals(BenjaminiHochberg.adjust(two), adj, 0);
     }
 

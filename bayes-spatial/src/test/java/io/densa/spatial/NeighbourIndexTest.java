@@ -58,11 +58,11 @@ class NeighbourIndexTest {
     }
 
     @Test
-    void closePairsFindsCoincidences() {
+    void pairsWithinFindsCoincidences() {
         Locations loc = Locations.planar(new double[] {0, 1, 0, 1, 5}, new double[] {0, 1, 0, 1.0000001, 5});
-        int[][] p = NeighbourIndex.of(loc).closePairs(0);
+        int[][] p = NeighbourIndex.of(loc).pairsWithin(0);
         assertEquals(1, p.length);
         assertArrayEquals(new int[] {0, 2}, p[0]);
-        assertEquals(2, NeighbourIndex.of(loc).closePairs(1e-6).length);
+        assertEquals(2, NeighbourIndex.of(loc).pairsWithin(1e-6).length);
     }
 }

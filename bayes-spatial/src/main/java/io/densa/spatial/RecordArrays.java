@@ -1,0 +1,55 @@
+package io.densa.spatial;
+
+import java.util.Arrays;
+
+/**
+ * Defensive copies and content-based equality for the public result records with array
+ * components (package-private): records compare arrays by reference, so each such record copies
+ * its arrays in and out and compares, hashes and prints them by content.
+ */
+final class RecordArrays {
+    private RecordArrays() {
+    }
+
+    static int[] copy(int[] a) {
+        return a == null ? null : a.clone();
+    }
+
+    static double[] copy(double[] a) {
+        return a == null ? null : a.clone();
+    }
+
+    static double[][] copy(double[][] a) {
+        if (a == null) {
+            return null;
+        }
+        double[][] out = new double[a.length][];
+        for (int i = 0; i < a.length; i++) {
+            out[i] = a[i] == null ? null : a[i].clone();
+        }
+        return out;
+    }
+
+    /** Content equality of the components of two records of the same type. */
+    static boolean equal(Object[] a, Object[] b) {
+        return Arrays.deepEquals(a, b);
+    }
+
+    /** Content hash of a record's components. */
+    static int hash(Object[] parts) {
+        return Arrays.deepHashCode(parts);
+    }
+
+    /** "Name[c1=v1, c2=v2, ...]" with arrays printed by content. */
+    static String describe(String name, String[] names, Object[] parts) {
+        StringBuilder sb = new StringBuilder(name).append('[');
+        for (int i = 0; i < parts.length; i++) {
+            if (i > 0) {
+                sb.append(", ");
+            }
+            String v = Arrays.deepToString(new Object[] {parts[i]});
+            sb.append(names[i]).append('=').append(v, 1, v.length() - 1);
+        }
+        return sb.append(']').toString();
+    }
+}
