@@ -1,0 +1,870 @@
+package io.densa.spatial;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Objects;
+import java.util.stream.IntStream;
+import org.locationtech.jts.geom.Dimension;
+import org.locationtech.jts.geom.Envelope;
+import org.locationtech.jts.geom.Geometry;
+import org.locationtech.jts.geom.IntersectionMatrix;
+import org.locationtech.jts.geom.Location;
+import org.locationtech.jts.geom.MultiPolygon;
+import org.locationtech.jts.geom.Polygon;
+import org.locationtech.jts.index.strtree.ItemBoundable;
+import org.locationtech.jts.index.strtree.STRtree;
+import org.locationtech.jts.operation.overlay.snap.GeometrySnapper;
+
+/**
+ * Spatial weights W = (w_ij) between n units, stored as an immutable sparse matrix in
+ * compressed-row form (row i lists the neighbours j of unit i in increasing order with their
+ * weights w_ij &gt; 0).
+ *
+ * <h2>Semantics</h2>
+ * <ul>
+ *   <li>Weights are finite and non-negative, the diagonal is zero (a unit is never its own
+ *       neighbour), and only positive weights are stored. W need not be symmetric.</li>
+ *   <li>The constants of Cliff &amp; Ord (1981), Spatial Processes (from memory) are computed
+ *       from the stored entries without assuming symmetry:
+ *       S0 = Σ_i Σ_j w_ij, S1 = ½ Σ_i Σ_j (w_ij + w_ji)², S2 = Σ_i (w_i· + w_·i)², where w_i·
+ *       and w_·i are the row and column sums; sums use Neumaier compensated summation.</li>
+ *   <li>An <em>island</em> is a unit whose row is empty (no neighbours). Islands are reported by
+ *       {@link #islands()}; the statistics handle them by an {@link IslandPolicy} (an error by
+ *       default, or the islands are excluded from the analysis).</li>
+ *   <li>{@link #rowStandardised()} divides every non-empty row by its sum (rows then sum to
+ *       one); island rows stay empty.</li>
+ * </ul>
+ *
+ * <h2>Builders</h2>
+ * k nearest neighbours ({@link #nearestNeighbours}), distance band ({@link #distanceBand}),
+ * inverse distance ({@link #inverseDistance}), polygon contiguity ({@link #contiguity}), and
+ * explicit matrices or neighbour lists ({@link #fromMatrix}, {@link #fromNeighbours}).
+ * Neighbour searches on planar locations use a JTS {@code STRtree}; geographic locations
+ * (great-circle distances) use an exact scan over all pairs, O(n²).
+ *
+ * <p>Immutable and thread-safe; arrays are copied in and out.
+ */
+public final class SpatialWeights {
+
+    /** Polygon contiguity rule. */
+    public enum Contiguity {
+        /** Neighbours share a stretch of boundary of positive length (an edge). */
+        ROOK,
+        /** Neighbours share at least one boundary point (a vertex or an edge). */
+        QUEEN
+    }
+
+    /** How k-nearest-neighbour relations are made symmetric. */
+    public enum Symmetry {
+        /** j is a neighbour of i when j is among the k nearest of i (W is in general asymmetric). */
+        DIRECTED,
+        /** i and j are neighbours when either is among the k nearest of the other. */
+        UNION,
+        /** i and j are neighbours only when each is among the k nearest of the other. */
+        MUTUAL
+    }
+
+    /** What a statistic does with islands (units without neighbours). */
+    public enum IslandPolicy {
+        /** Throw an {@link IllegalArgumentException} naming the islands (the default). */
+        ERROR,
+        /**
+         * Remove the islands (their rows and columns, and their values) and analyse the other
+         * units; results report which units were excluded.
+         */
+        EXCLUDE
+    }
+
+    private final int n;
+    private final int[] rowStart;
+    private final int[] cols;
+    private final double[] vals;
+    private final boolean rowStandardised;
+    private final double s0;
+    private final double s1;
+    private final double s2;
+    private final int[] islands;
+    private final boolean symmetric;
+
+    private SpatialWeights(int n, int[] rowStart, int[] cols, double[] vals, boolean rowStandardised) {
+        this.n = n;
+        this.rowStart = rowStart;
+        this.cols = cols;
+        this.vals = vals;
+        this.rowStandardised = rowStandardised;
+        // Transpose by counting sort: columns of the transpose come out in increasing order.
+        int[] tStart = new int[n + 1];
+        for (int c : cols) {
+            tStart[c + 1]++;
+        }
+        for (int i = 0; i < n; i++) {
+            tStart[i + 1] += tStart[i];
+        }
+        int[] fill = Arrays.copyOf(tStart, n);
+        int[] tCols = new int[cols.length];
+        double[] tVals = new double[cols.length];
+        for (int i = 0; i < n; i++) {
+            for (int p = rowStart[i]; p < rowStart[i + 1]; p++) {
+                int q = fill[cols[p]]++;
+                tCols[q] = i;
+                tVals[q] = vals[p];
+            }
+        }
+        double[] acc0 = new double[2];
+        double[] acc1 = new double[2];
+        double[] acc2 = new double[2];
+        boolean sym = true;
+        List<Integer> isl = new ArrayList<>();
+        for (int i = 0; i < n; i++) {
+            int p = rowStart[i], pe = rowStart[i + 1];
+            int q = tStart[i], qe = tStart[i + 1];
+            if (p == pe) {
+                isl.add(i);
+            }
+            double rowSum = 0, colSum = 0;
+            while (p < pe || q < qe) {
+                double a = 0, b = 0;
+                int cp = p < pe ? cols[p] : Integer.MAX_VALUE;
+                int cq = q < qe ? tCols[q] : Integer.MAX_VALUE;
+                if (cp == cq) {
+                    a = vals[p++];
+                    b = tVals[q++];
+                } else if (cp < cq) {
+                    a = vals[p++];
+                } else {
+                    b = tVals[q++];
+                }
+                if (a != b) {
+                    sym = false;
+                }
+                rowSum += a;
+                colSum += b;
+                add(acc0, a);
+                add(acc1, 0.5 * (a + b) * (a + b));
+            }
+            add(acc2, (rowSum + colSum) * (rowSum + colSum));
+        }
+        this.s0 = acc0[0] + acc0[1];
+        this.s1 = acc1[0] + acc1[1];
+        this.s2 = acc2[0] + acc2[1];
+        this.symmetric = sym;
+        this.islands = isl.stream().mapToInt(Integer::intValue).toArray();
+    }
+
+    /** Neumaier compensated addition: acc = {sum, compensation}. */
+    private static void add(double[] acc, double x) {
+        double s = acc[0], t = s + x;
+        if (Math.abs(s) >= Math.abs(x)) {
+            acc[1] += (s - t) + x;
+        } else {
+            acc[1] += (x - t) + s;
+        }
+        acc[0] = t;
+    }
+
+    // ------------------------------------------------------------------ explicit builders
+
+    /**
+     * Weights from a dense n × n matrix (row i = weights of the neighbours of unit i).
+     *
+     * @param matrix square matrix of finite, non-negative weights with zero diagonal (not
+     *               modified); zero entries are not stored
+     * @throws IllegalArgumentException if the matrix is not square, an entry is negative or not
+     *                                  finite, or a diagonal entry is non-zero (naming the entry)
+     */
+    public static SpatialWeights fromMatrix(double[][] matrix) {
+        Objects.requireNonNull(matrix, "matrix");
+        int n = matrix.length;
+        checkUnits(n);
+        int[][] nb = new int[n][];
+        double[][] wt = new double[n][];
+        for (int i = 0; i < n; i++) {
+            if (matrix[i] == null || matrix[i].length != n) {
+                throw new IllegalArgumentException("weights matrix row " + i + " has "
+                        + (matrix[i] == null ? "no" : String.valueOf(matrix[i].length))
+                        + " entries; a square " + n + " x " + n + " matrix is required");
+            }
+            int count = 0;
+            for (int j = 0; j < n; j++) {
+                checkWeight(matrix[i][j], i, j);
+                if (matrix[i][j] > 0) {
+                    count++;
+                }
+            }
+            nb[i] = new int[count];
+            wt[i] = new double[count];
+            int c = 0;
+            for (int j = 0; j < n; j++) {
+                if (matrix[i][j] > 0) {
+                    nb[i][c] = j;
+                    wt[i][c++] = matrix[i][j];
+                }
+            }
+        }
+        return assemble(n, nb, wt);
+    }
+
+    /**
+     * Binary weights (w_ij = 1) from neighbour lists.
+     *
+     * @param neighbours neighbours[i] = indices of the neighbours of unit i (any order, not
+     *                   modified); an empty list makes unit i an island
+     * @throws IllegalArgumentException on an index out of range, a self-neighbour or a repeated
+     *                                  neighbour (naming the unit)
+     */
+    public static SpatialWeights fromNeighbours(int[][] neighbours) {
+        Objects.requireNonNull(neighbours, "neighbours");
+        double[][] ones = new double[neighbours.length][];
+        for (int i = 0; i < neighbours.length; i++) {
+            if (neighbours[i] == null) {
+                throw new IllegalArgumentException("neighbour list of unit " + i + " is null; use an empty array");
+            }
+            ones[i] = new double[neighbours[i].length];
+            Arrays.fill(ones[i], 1.0);
+        }
+        return fromNeighbours(neighbours, ones);
+    }
+
+    /**
+     * Weights from neighbour lists with a weight per link.
+     *
+     * @param neighbours neighbours[i] = indices of the neighbours of unit i (not modified)
+     * @param weights    weights[i][m] = weight of the link from i to neighbours[i][m]; finite and
+     *                   positive (not modified)
+     * @throws IllegalArgumentException on mismatched lengths, an index out of range, a
+     *                                  self-neighbour, a repeated neighbour, or a weight that is
+     *                                  not finite and positive (naming the unit)
+     */
+    public static SpatialWeights fromNeighbours(int[][] neighbours, double[][] weights) {
+        Objects.requireNonNull(neighbours, "neighbours");
+        Objects.requireNonNull(weights, "weights");
+        int n = neighbours.length;
+        checkUnits(n);
+        if (weights.length != n) {
+            throw new IllegalArgumentException("weights has " + weights.length + " rows but neighbours has " + n);
+        }
+        int[][] nb = new int[n][];
+        double[][] wt = new double[n][];
+        for (int i = 0; i < n; i++) {
+            if (neighbours[i] == null || weights[i] == null || neighbours[i].length != weights[i].length) {
+                throw new IllegalArgumentException("unit " + i + ": neighbour list and weight list must both be"
+                        + " given and have the same length");
+            }
+            nb[i] = neighbours[i].clone();
+            wt[i] = weights[i].clone();
+            for (int m = 0; m < nb[i].length; m++) {
+                int j = nb[i][m];
+                if (j < 0 || j >= n) {
+                    throw new IllegalArgumentException("unit " + i + " lists neighbour " + j
+                            + ", outside 0.." + (n - 1));
+                }
+                if (j == i) {
+                    throw new IllegalArgumentException("unit " + i + " lists itself as a neighbour;"
+                            + " the diagonal of the weights must be zero");
+                }
+                if (!(wt[i][m] > 0 && wt[i][m] < Double.POSITIVE_INFINITY)) {
+                    throw new IllegalArgumentException("weight of link " + i + " -> " + j + " is " + wt[i][m]
+                            + "; weights must be finite and positive");
+                }
+            }
+        }
+        return assemble(n, nb, wt);
+    }
+
+    // ------------------------------------------------------------------ distance builders
+
+    /**
+     * k-nearest-neighbour binary weights: w_ij = 1 when j is among the k nearest units of i
+     * (ties in distance broken by the smaller index), made symmetric as requested.
+     *
+     * @param locations unit locations (planar: Euclidean distance; geographic: great-circle)
+     * @param k         number of neighbours, 1 ≤ k ≤ n − 1
+     * @param symmetry  {@link Symmetry#DIRECTED} to keep the k-nearest relation as is,
+     *                  {@link Symmetry#UNION} or {@link Symmetry#MUTUAL} to symmetrise it
+     * @throws IllegalArgumentException if k is out of range
+     */
+    public static SpatialWeights nearestNeighbours(Locations locations, int k, Symmetry symmetry) {
+        Objects.requireNonNull(locations, "locations");
+        Objects.requireNonNull(symmetry, "symmetry");
+        int n = locations.size();
+        checkUnits(n);
+        if (!(k >= 1 && k <= n - 1)) {
+            throw new IllegalArgumentException("k = " + k + " nearest neighbours requested for " + n
+                    + " units; k must be in 1.." + (n - 1));
+        }
+        int[][] nb = new int[n][];
+        if (locations.kind() == Locations.Kind.PLANAR) {
+            STRtree tree = pointTree(locations);
+            IntStream.range(0, n).parallel().forEach(i -> nb[i] = nearestPlanar(locations, tree, i, k));
+        } else {
+            IntStream.range(0, n).parallel().forEach(i -> nb[i] = nearestByScan(locations, i, k));
+        }
+        if (symmetry != Symmetry.DIRECTED) {
+            symmetrise(nb, symmetry == Symmetry.UNION);
+        }
+        double[][] ones = new double[n][];
+        for (int i = 0; i < n; i++) {
+            ones[i] = new double[nb[i].length];
+            Arrays.fill(ones[i], 1.0);
+        }
+        return assemble(n, nb, ones);
+    }
+
+    /**
+     * Distance-band binary weights: w_ij = 1 when 0 ≤ d(i, j) ≤ maxDistance, i ≠ j (coincident
+     * units are neighbours). Units farther than maxDistance from every other unit are islands.
+     *
+     * @param maxDistance band radius, finite and positive, in the unit of the locations' distance
+     * @throws IllegalArgumentException if maxDistance is not finite and positive
+     */
+    public static SpatialWeights distanceBand(Locations locations, double maxDistance) {
+        Objects.requireNonNull(locations, "locations");
+        if (!(maxDistance > 0 && maxDistance < Double.POSITIVE_INFINITY)) {
+            throw new IllegalArgumentException("distance band " + maxDistance + " must be finite and positive");
+        }
+        int n = locations.size();
+        checkUnits(n);
+        int[][] nb = new int[n][];
+        double[][] wt = new double[n][];
+        withinBand(locations, maxDistance, nb, wt);
+        return assemble(n, nb, wt);
+    }
+
+    /**
+     * Inverse-distance weights w_ij = d(i, j)^(−power) for 0 &lt; d(i, j) ≤ maxDistance.
+     * With {@code maxDistance = Double.POSITIVE_INFINITY} every pair is linked (n(n − 1)
+     * stored entries: use a band for large n).
+     *
+     * @param power       exponent, finite and positive (1 and 2 are usual)
+     * @param maxDistance band radius, positive, or {@code Double.POSITIVE_INFINITY} for no band
+     * @throws IllegalArgumentException on a bad power or band, or on two coincident units (named),
+     *                                  whose weight would be infinite
+     */
+    public static SpatialWeights inverseDistance(Locations locations, double power, double maxDistance) {
+        Objects.requireNonNull(locations, "locations");
+        if (!(power > 0 && power < Double.POSITIVE_INFINITY)) {
+            throw new IllegalArgumentException("inverse-distance power " + power + " must be finite and positive");
+        }
+        if (!(maxDistance > 0)) {
+            throw new IllegalArgumentException("distance band " + maxDistance
+                    + " must be positive (or +Infinity for none)");
+        }
+        int n = locations.size();
+        checkUnits(n);
+        int[][] nb = new int[n][];
+        double[][] wt = new double[n][];
+        if (maxDistance == Double.POSITIVE_INFINITY) {
+            if ((long) n * (n - 1) > Integer.MAX_VALUE - 8) {
+                throw new IllegalArgumentException("inverse-distance weights without a band for " + n
+                        + " units would store n(n-1) entries; give a finite band");
+            }
+            IntStream.range(0, n).parallel().forEach(i -> {
+                int[] c = new int[n - 1];
+                double[] d = new double[n - 1];
+                int m = 0;
+                for (int j = 0; j < n; j++) {
+                    if (j != i) {
+                        c[m] = j;
+                        d[m++] = locations.distance(i, j);
+                    }
+                }
+                nb[i] = c;
+                wt[i] = d;
+            });
+        } else {
+            withinBand(locations, maxDistance, nb, wt);
+        }
+        for (int i = 0; i < n; i++) {
+            for (int m = 0; m < nb[i].length; m++) {
+                double d = wt[i][m];
+                if (!(d > 0)) {
+                    throw new IllegalArgumentException("units " + Math.min(i, nb[i][m]) + " and "
+                            + Math.max(i, nb[i][m]) + " are coincident; inverse-distance weight is infinite"
+                            + " (merge them or use binary weights)");
+                }
+                wt[i][m] = power == 1 ? 1 / d : Math.pow(d, -power);
+            }
+        }
+        return assemble(n, nb, wt);
+    }
+
+    // ------------------------------------------------------------------ contiguity
+
+    /**
+     * Binary polygon contiguity: rook (shared boundary of positive length) or queen (at least
+     * one shared boundary point). Units whose interiors overlap are neighbours under both rules.
+     *
+     * <p>To tolerate digitising errors (tiny gaps or overlaps), with {@code tolerance &gt; 0}
+     * each candidate pair is first snapped together with JTS {@code GeometrySnapper} (vertices
+     * within the tolerance moved onto each other, vertices within the tolerance of the other
+     * polygon's segments inserted into them); the rules are then applied exactly to the snapped
+     * pair through the DE-9IM relation (rook: boundary ∩ boundary of dimension 1 or interiors
+     * intersecting in an area; queen: the polygons intersect). Coordinates are treated as
+     * planar.
+     *
+     * @param polygons  one {@link Polygon} or {@link MultiPolygon} per unit, non-empty (not
+     *                  modified)
+     * @param rule      rook or queen
+     * @param tolerance snapping distance, ≥ 0 (0 for exact contiguity), in the polygons' unit
+     * @throws IllegalArgumentException if a geometry is not a non-empty polygon or multipolygon
+     *                                  (naming the unit) or the tolerance is negative or NaN
+     */
+    public static SpatialWeights contiguity(List<? extends Geometry> polygons, Contiguity rule, double tolerance) {
+        Objects.requireNonNull(polygons, "polygons");
+        Objects.requireNonNull(rule, "rule");
+        if (!(tolerance >= 0 && tolerance < Double.POSITIVE_INFINITY)) {
+            throw new IllegalArgumentException("contiguity tolerance " + tolerance + " must be finite and >= 0");
+        }
+        int n = polygons.size();
+        checkUnits(n);
+        Geometry[] g = new Geometry[n];
+        STRtree tree = new STRtree();
+        for (int i = 0; i < n; i++) {
+            Geometry gi = polygons.get(i);
+            if (!(gi instanceof Polygon || gi instanceof MultiPolygon) || gi.isEmpty()) {
+                throw new IllegalArgumentException("unit " + i + " is " + (gi == null ? "null"
+                        : gi.isEmpty() ? "an empty geometry" : "a " + gi.getGeometryType())
+                        + "; contiguity needs a non-empty Polygon or MultiPolygon per unit");
+            }
+            g[i] = gi;
+            Envelope e = new Envelope(gi.getEnvelopeInternal());
+            e.expandBy(tolerance);
+            tree.insert(e, i);
+        }
+        tree.build();
+        int[][] nb = new int[n][];
+        IntStream.range(0, n).parallel().forEach(i -> {
+            Envelope e = new Envelope(g[i].getEnvelopeInternal());
+            e.expandBy(tolerance);
+            List<?> cand = tree.query(e);
+            int[] found = new int[cand.size()];
+            int m = 0;
+            for (Object o : cand) {
+                int j = (Integer) o;
+                if (j != i && contiguous(g[Math.min(i, j)], g[Math.max(i, j)], rule, tolerance)) {
+                    found[m++] = j;
+                }
+            }
+            nb[i] = Arrays.copyOf(found, m);
+        });
+        double[][] ones = new double[n][];
+        for (int i = 0; i < n; i++) {
+            ones[i] = new double[nb[i].length];
+            Arrays.fill(ones[i], 1.0);
+        }
+        return assemble(n, nb, ones);
+    }
+
+    /** Symmetric test: a is always the lower-indexed unit, so i→j and j→i agree. */
+    private static boolean contiguous(Geometry a, Geometry b, Contiguity rule, double tolerance) {
+        Geometry ga = a, gb = b;
+        if (tolerance > 0) {
+            if (a.distance(b) > tolerance) {
+                return false;
+            }
+            Geometry[] s = GeometrySnapper.snap(a, b, tolerance);
+            ga = s[0];
+            gb = s[1];
+        } else if (!a.getEnvelopeInternal().intersects(b.getEnvelopeInternal())) {
+            return false;
+        }
+        IntersectionMatrix im = ga.relate(gb);
+        if (rule == Contiguity.QUEEN) {
+            return im.isIntersects();
+        }
+        return im.get(Location.BOUNDARY, Location.BOUNDARY) == Dimension.L
+                || im.get(Location.INTERIOR, Location.INTERIOR) == Dimension.A;
+    }
+
+    // ------------------------------------------------------------------ neighbour search
+
+    private static STRtree pointTree(Locations loc) {
+        STRtree tree = new STRtree();
+        for (int i = 0; i < loc.size(); i++) {
+            tree.insert(new Envelope(loc.x(i), loc.x(i), loc.y(i), loc.y(i)), i);
+        }
+        tree.build();
+        return tree;
+    }
+
+    /** The k nearest of unit i (planar), exact, ties broken by index. */
+    private static int[] nearestPlanar(Locations loc, STRtree tree, int i, int k) {
+        Envelope env = new Envelope(loc.x(i), loc.x(i), loc.y(i), loc.y(i));
+        Object[] near = tree.nearestNeighbour(env, i, (ItemBoundable a, ItemBoundable b) ->
+                loc.distance((Integer) a.getItem(), (Integer) b.getItem()), k + 1);
+        double radius = 0;
+        for (Object o : near) {
+            radius = Math.max(radius, loc.distance(i, (Integer) o));
+        }
+        // Every unit within the (k+1)-th smallest distance (self included) is a candidate.
+        Envelope box = new Envelope(loc.x(i) - radius, loc.x(i) + radius, loc.y(i) - radius, loc.y(i) + radius);
+        List<?> cand = tree.query(box);
+        int[] idx = new int[cand.size()];
+        double[] dist = new double[cand.size()];
+        int m = 0;
+        for (Object o : cand) {
+            int j = (Integer) o;
+            if (j != i) {
+                double d = loc.distance(i, j);
+                if (d <= radius) {
+                    idx[m] = j;
+                    dist[m++] = d;
+                }
+            }
+        }
+        return smallest(idx, dist, m, k);
+    }
+
+    private static int[] nearestByScan(Locations loc, int i, int k) {
+        int n = loc.size();
+        int[] idx = new int[n - 1];
+        double[] dist = new double[n - 1];
+        int m = 0;
+        for (int j = 0; j < n; j++) {
+            if (j != i) {
+                idx[m] = j;
+                dist[m++] = loc.distance(i, j);
+            }
+        }
+        return smallest(idx, dist, m, k);
+    }
+
+    /** The k entries of idx[0..m) with smallest (dist, idx), sorted by index. */
+    private static int[] smallest(int[] idx, double[] dist, int m, int k) {
+        Integer[] order = new Integer[m];
+        for (int a = 0; a < m; a++) {
+            order[a] = a;
+        }
+        Arrays.sort(order, (a, b) -> {
+            int c = Double.compare(dist[a], dist[b]);
+            return c != 0 ? c : Integer.compare(idx[a], idx[b]);
+        });
+        int[] out = new int[Math.min(k, m)];
+        for (int a = 0; a < out.length; a++) {
+            out[a] = idx[order[a]];
+        }
+        Arrays.sort(out);
+        return out;
+    }
+
+    /** Fills nb[i] and wt[i] (= distances) with the units within the band of unit i. */
+    private static void withinBand(Locations loc, double band, int[][] nb, double[][] wt) {
+        int n = loc.size();
+        STRtree tree = loc.kind() == Locations.Kind.PLANAR ? pointTree(loc) : null;
+        IntStream.range(0, n).parallel().forEach(i -> {
+            int[] idx;
+            double[] dist;
+            int m = 0;
+            if (tree != null) {
+                List<?> cand = tree.query(new Envelope(loc.x(i) - band, loc.x(i) + band, loc.y(i) - band,
+                        loc.y(i) + band));
+                idx = new int[cand.size()];
+                dist = new double[cand.size()];
+                for (Object o : cand) {
+                    int j = (Integer) o;
+                    double d = loc.distance(i, j);
+                    if (j != i && d <= band) {
+                        idx[m] = j;
+                        dist[m++] = d;
+                    }
+                }
+            } else {
+                idx = new int[n];
+                dist = new double[n];
+                for (int j = 0; j < n; j++) {
+                    double d = loc.distance(i, j);
+                    if (j != i && d <= band) {
+                        idx[m] = j;
+                        dist[m++] = d;
+                    }
+                }
+            }
+            nb[i] = Arrays.copyOf(idx, m);
+            wt[i] = Arrays.copyOf(dist, m);
+        });
+    }
+
+    /** In place: union (either direction) or mutual (both directions) of the relation. */
+    private static void symmetrise(int[][] nb, boolean union) {
+        int n = nb.length;
+        for (int[] row : nb) {
+            Arrays.sort(row);
+        }
+        int[][] out = new int[n][];
+        List<List<Integer>> extra = new ArrayList<>(n);
+        for (int i = 0; i < n; i++) {
+            extra.add(new ArrayList<>());
+        }
+        if (union) {
+            for (int i = 0; i < n; i++) {
+                for (int j : nb[i]) {
+                    if (Arrays.binarySearch(nb[j], i) < 0) {
+                        extra.get(j).add(i);
+                    }
+                }
+            }
+            for (int i = 0; i < n; i++) {
+                int[] r = Arrays.copyOf(nb[i], nb[i].length + extra.get(i).size());
+                for (int a = 0; a < extra.get(i).size(); a++) {
+                    r[nb[i].length + a] = extra.get(i).get(a);
+                }
+                out[i] = r;
+            }
+        } else {
+            for (int i = 0; i < n; i++) {
+                final int ii = i;
+                out[i] = Arrays.stream(nb[i]).filter(j -> Arrays.binarySearch(nb[j], ii) >= 0).toArray();
+            }
+        }
+        System.arraycopy(out, 0, nb, 0, n);
+    }
+
+    // ------------------------------------------------------------------ assembly
+
+    private static void checkUnits(int n) {
+        if (n < 2) {
+            throw new IllegalArgumentException("spatial weights need at least 2 units, got " + n);
+        }
+    }
+
+    private static void checkWeight(double w, int i, int j) {
+        if (!(w >= 0 && w < Double.POSITIVE_INFINITY)) {
+            throw new IllegalArgumentException("weight (" + i + ", " + j + ") = " + w
+                    + "; weights must be finite and >= 0");
+        }
+        if (i == j && w != 0) {
+            throw new IllegalArgumentException("diagonal weight (" + i + ", " + i + ") = " + w
+                    + "; a unit cannot be its own neighbour (diagonal must be 0)");
+        }
+    }
+
+    /** Sorts every row by column, optionally checking for duplicates, and builds the CSR arrays. */
+    private static SpatialWeights assemble(int n, int[][] nb, double[][] wt) {
+        int[] start = new int[n + 1];
+        for (int i = 0; i < n; i++) {
+            start[i + 1] = start[i] + nb[i].length;
+        }
+        int[] cols = new int[start[n]];
+        double[] vals = new double[start[n]];
+        for (int i = 0; i < n; i++) {
+            int len = nb[i].length;
+            int[] c = nb[i];
+            double[] w = wt[i];
+            Integer[] order = new Integer[len];
+            for (int a = 0; a < len; a++) {
+                order[a] = a;
+            }
+            Arrays.sort(order, (a, b) -> Integer.compare(c[a], c[b]));
+            for (int a = 0; a < len; a++) {
+                cols[start[i] + a] = c[order[a]];
+                vals[start[i] + a] = w[order[a]];
+                if (a > 0 && cols[start[i] + a] == cols[start[i] + a - 1]) {
+                    throw new IllegalArgumentException("unit " + i + " lists neighbour "
+                            + cols[start[i] + a] + " more than once");
+                }
+            }
+        }
+        return new SpatialWeights(n, start, cols, vals, false);
+    }
+
+    // ------------------------------------------------------------------ transforms
+
+    /**
+     * Row-standardised copy: w*_ij = w_ij / Σ_k w_ik for every unit with neighbours (rows sum to
+     * one, S0 = n − number of islands); island rows stay empty. Returns this object if it is
+     * already row-standardised.
+     */
+    public SpatialWeights rowStandardised() {
+        if (rowStandardised) {
+            return this;
+        }
+        double[] v = new double[vals.length];
+        for (int i = 0; i < n; i++) {
+            double s = 0;
+            for (int p = rowStart[i]; p < rowStart[i + 1]; p++) {
+                s += vals[p];
+            }
+            for (int p = rowStart[i]; p < rowStart[i + 1]; p++) {
+                v[p] = vals[p] / s;
+            }
+        }
+        return new SpatialWeights(n, rowStart, cols, v, true);
+    }
+
+    /**
+     * Weights restricted to the given units (rows and columns), renumbered 0..m−1 in the given
+     * order. Package-private: used to exclude islands.
+     */
+    SpatialWeights restrict(int[] keep) {
+        int[] newIndex = new int[n];
+        Arrays.fill(newIndex, -1);
+        for (int a = 0; a < keep.length; a++) {
+            newIndex[keep[a]] = a;
+        }
+        int m = keep.length;
+        int[][] nb = new int[m][];
+        double[][] wt = new double[m][];
+        for (int a = 0; a < m; a++) {
+            int i = keep[a];
+            int[] c = new int[rowStart[i + 1] - rowStart[i]];
+            double[] w = new double[c.length];
+            int q = 0;
+            for (int p = rowStart[i]; p < rowStart[i + 1]; p++) {
+                if (newIndex[cols[p]] >= 0) {
+                    c[q] = newIndex[cols[p]];
+                    w[q++] = vals[p];
+                }
+            }
+            nb[a] = Arrays.copyOf(c, q);
+            wt[a] = Arrays.copyOf(w, q);
+        }
+        SpatialWeights r = assemble(m, nb, wt);
+        return rowStandardised ? new SpatialWeights(r.n, r.rowStart, r.cols, r.vals, true) : r;
+    }
+
+    // ------------------------------------------------------------------ accessors
+
+    /** Number of units n. */
+    public int size() {
+        return n;
+    }
+
+    /** Number of stored (positive) weights. */
+    public int linkCount() {
+        return cols.length;
+    }
+
+    /** Number of neighbours of unit i. */
+    public int neighbourCount(int i) {
+        checkIndex(i);
+        return rowStart[i + 1] - rowStart[i];
+    }
+
+    /** Neighbours of unit i in increasing order (fresh copy). */
+    public int[] neighbours(int i) {
+        checkIndex(i);
+        return Arrays.copyOfRange(cols, rowStart[i], rowStart[i + 1]);
+    }
+
+    /** Weights of the neighbours of unit i, in the order of {@link #neighbours(int)} (fresh copy). */
+    public double[] neighbourWeights(int i) {
+        checkIndex(i);
+        return Arrays.copyOfRange(vals, rowStart[i], rowStart[i + 1]);
+    }
+
+    /** w_ij (0 if j is not a neighbour of i). */
+    public double weight(int i, int j) {
+        checkIndex(i);
+        checkIndex(j);
+        int p = Arrays.binarySearch(cols, rowStart[i], rowStart[i + 1], j);
+        return p >= 0 ? vals[p] : 0.0;
+    }
+
+    /** Row sum w_i· = Σ_j w_ij. */
+    public double rowSum(int i) {
+        checkIndex(i);
+        double s = 0;
+        for (int p = rowStart[i]; p < rowStart[i + 1]; p++) {
+            s += vals[p];
+        }
+        return s;
+    }
+
+    /** S0 = Σ_i Σ_j w_ij. */
+    public double s0() {
+        return s0;
+    }
+
+    /** S1 = ½ Σ_i Σ_j (w_ij + w_ji)². */
+    public double s1() {
+        return s1;
+    }
+
+    /** S2 = Σ_i (w_i· + w_·i)². */
+    public double s2() {
+        return s2;
+    }
+
+    /** Whether w_ij = w_ji exactly for all pairs. */
+    public boolean isSymmetric() {
+        return symmetric;
+    }
+
+    /** Whether this is the result of {@link #rowStandardised()}. */
+    public boolean isRowStandardised() {
+        return rowStandardised;
+    }
+
+    /** Units without neighbours, in increasing order (fresh copy; empty if none). */
+    public int[] islands() {
+        return islands.clone();
+    }
+
+    /** Whether some unit has no neighbours. */
+    public boolean hasIslands() {
+        return islands.length > 0;
+    }
+
+    /**
+     * Spatial lag (W v)_i = Σ_j w_ij v_j.
+     *
+     * @param values n values (not modified)
+     * @return a fresh n-vector
+     * @throws IllegalArgumentException if the length is not n
+     */
+    public double[] spatialLag(double[] values) {
+        Objects.requireNonNull(values, "values");
+        if (values.length != n) {
+            throw new IllegalArgumentException("values has " + values.length + " entries but the weights have "
+                    + n + " units");
+        }
+        double[] out = new double[n];
+        for (int i = 0; i < n; i++) {
+            double s = 0;
+            for (int p = rowStart[i]; p < rowStart[i + 1]; p++) {
+                s += vals[p] * values[cols[p]];
+            }
+            out[i] = s;
+        }
+        return out;
+    }
+
+    /** Dense n × n copy of W (for small n). */
+    public double[][] toMatrix() {
+        double[][] m = new double[n][n];
+        for (int i = 0; i < n; i++) {
+            for (int p = rowStart[i]; p < rowStart[i + 1]; p++) {
+                m[i][cols[p]] = vals[p];
+            }
+        }
+        return m;
+    }
+
+    private void checkIndex(int i) {
+        if (i < 0 || i >= n) {
+            throw new IllegalArgumentException("unit " + i + " is outside 0.." + (n - 1));
+        }
+    }
+
+    /** Row starts (internal array, not copied; callers must not modify). */
+    int[] rowStartArray() {
+        return rowStart;
+    }
+
+    /** Column indices (internal array, not copied; callers must not modify). */
+    int[] columnArray() {
+        return cols;
+    }
+
+    /** Weights (internal array, not copied; callers must not modify). */
+    double[] valueArray() {
+        return vals;
+    }
+
+    @Override
+    public String toString() {
+        return "SpatialWeights[n=" + n + ", links=" + cols.length + ", S0=" + s0 + (rowStandardised
+                ? ", row-standardised" : "") + (islands.length > 0 ? ", islands=" + islands.length : "") + "]";
+    }
+}
