@@ -1,86 +1,566 @@
 package io.densa.examples;
 
+import io.densa.core.BayesSpace;
+import io.densa.core.Density;
+import io.densa.core.DensitySet;
+import io.densa.regression.Design;
+import io.densa.regression.Fpca;
+import io.densa.regression.FunctionOnScalarFit;
+import io.densa.regression.FunctionOnScalarRegression;
+import io.densa.spatial.AutocorrelationOptions;
+import io.densa.spatial.LocalMoran;
+import io.densa.spatial.MoranI;
+import io.densa.spatial.SpatialWeights;
 import java.awt.Color;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Locale;
 import java.util.Map;
+import org.ejml.data.DMatrixRMaj;
+import org.jfree.chart.JFreeChart;
 
 /**
  * Study 1: age-profile surveillance in the districts of an invented region. See
  * {@link AgeScenario} for the scenario; the pipeline is documented in the report it writes.
  */
 final class Study1 {
+    /** False discovery rate of the flags. */
+    static final double FDR = 0.10;
+    /** Age ticks: single years 0..99, bin midpoints. */
+    static final double[] AGE_MID = new double[AgeScenario.AGES];
+
+    static {
+        for (int a = 0; a < AGE_MID.length; a++) {
+            AGE_MID[a] = a + 0.5;
+        }
+    }
+
     private Study1() {
     }
 
-    static StudyResult run(Main.Options options, Progress progress) {
-        int n = options.unitsOr(60, 150, 300);
-        int seasons = 6;
-        Path dir = options.out();
-        progress.line("generating the invented region (" + n + " districts, " + seasons + " seasons, seed "
-                + options.seed() + ")");
-        AgeScenario sc = AgeScenario.generate(options.seed(), n, seasons);
-        Region region = sc.region();
-        int m = region.size();
-        List<String> files = new ArrayList<>();
-        List<String> missing = new ArrayList<>();
-        Map<String, Double> metrics = new LinkedHashMap<>();
-        Report report = new Report(dir, "Densa study 1 — age profiles of emergency visits in an invented region");
+    /** State shared by the steps of one run. */
+    static final class Run {
+        final Main.Options options;
+        final Progress progress;
+        final AgeScenario sc;
+        final Region region;
+        final int n;
+        final Path dir;
+        final Report report;
+        final List<String> files = new ArrayList<>();
+        final List<String> missing = new ArrayList<>();
+        final Map<String, Double> metrics = new LinkedHashMap<>();
+        final UnitTable table;
+        BayesSpace space;
+        DensitySet[] seasons;
 
-        int latest = seasons - 1;
-        double[] visits = new double[m];
-        int minVisits = Integer.MAX_VALUE;
-        int maxVisits = 0;
-        long totalVisits = 0;
-        for (int i = 0; i < m; i++) {
-            int t = sc.total(i, latest);
-            visits[i] = t;
-            minVisits = Math.min(minVisits, t);
-            maxVisits = Math.max(maxVisits, t);
-            for (int s = 0; s < seasons; s++) {
-                totalVisits += sc.total(i, s);
+        Run(Main.Options options, Progress progress, AgeScenario sc) {
+            this.options = options;
+            this.progress = progress;
+            this.sc = sc;
+            this.region = sc.region();
+            this.n = region.size();
+            this.dir = options.out();
+            this.report = new Report(dir, "Densa study 1 — age profiles of emergency visits in an invented region");
+            this.table = new UnitTable(n);
+        }
+
+        String file(String name) {
+            files.add(name);
+            return name;
+        }
+
+        Path path(String name) {
+            return dir.resolve(file(name));
+        }
+    }
+
+    static StudyResult run(Main.Options options, Progress progress) {
+        int size = options.unitsOr(60, 150, 300);
+        int seasons = 6;
+        progress.line("generating the invented region (" + size + " districts, " + seasons + " seasons, seed "
+                + options.seed() + ")");
+        Run run = new Run(options, progress, AgeScenario.generate(options.seed(), size, seasons));
+        describeScenario(run);
+        estimateDensities(run);
+        Baseline baseline = baseline(run);
+        Flags flags = flag(run, baseline);
+        autocorrelation(run, baseline);
+        residualFpca(run, baseline);
+        writeTables(run, baseline, flags);
+        run.metrics.put("seconds", run.progress.seconds());
+        run.report.heading("Timing").paragraph(String.format(Locale.ROOT,
+                "The whole study took %.1f s on this machine (%d processors available to the JVM).",
+                run.progress.seconds(), Runtime.getRuntime().availableProcessors()));
+        if (!run.missing.isEmpty()) {
+            run.report.heading("Steps not run").bullets(run.missing);
+        }
+        run.report.caution();
+        run.report.write();
+        run.files.add("summary.md");
+        run.files.add("summary.html");
+        return new StudyResult(run.dir, run.n, List.copyOf(run.files), Map.copyOf(run.metrics),
+                List.copyOf(run.missing));
+    }
+
+    // ------------------------------------------------------------------ scenario
+
+    static void describeScenario(Run run) {
+        AgeScenario sc = run.sc;
+        int n = run.n;
+        int latest = sc.seasons() - 1;
+        double[] visits = new double[n];
+        long total = 0;
+        int small = 0;
+        for (int i = 0; i < n; i++) {
+            visits[i] = sc.total(i, latest);
+            if (visits[i] < 100) {
+                small++;
+            }
+            for (int s = 0; s < sc.seasons(); s++) {
+                total += sc.total(i, s);
             }
         }
-        progress.line(String.format(java.util.Locale.ROOT,
-                "%d districts, %,d visits in all; latest season %d to %d visits per district", m, totalVisits,
-                minVisits, maxVisits));
-
-        report.heading("What was run")
-                .paragraph("An invented region of " + m + " districts (Voronoi cells of random sites clipped to an "
-                        + "invented outline, seed " + options.seed() + ") with " + seasons + " seasons of emergency-visit "
-                        + "counts by single year of age 0–99. In the latest season a spatially clustered group of "
-                        + count(sc.shifted()) + " districts moves part of its visits toward children and young adults; "
-                        + "the generator records which, so the report scores its own flags.");
-
-        // --- figures of the scenario
-        double[] logVisits = new double[m];
-        for (int i = 0; i < m; i++) {
+        run.progress.line(String.format(Locale.ROOT, "%d districts, %,d visits in all; latest season %.0f to %.0f "
+                + "visits per district", n, total, Study2.min(visits), Study2.max(visits)));
+        run.report.heading("What was run").paragraph("An invented region of " + n + " districts (Voronoi cells of "
+                + "random sites clipped to an invented outline; seed " + run.options.seed() + ") with "
+                + sc.seasons() + " seasons of emergency-visit counts by single year of age 0–99, "
+                + String.format(Locale.ROOT, "%,d", total) + " visits in all. District sizes differ by two orders of "
+                + "magnitude: in the latest season the smallest district has " + (int) Study2.min(visits)
+                + " visits and " + small + " districts have fewer than 100. Profiles vary smoothly from district to "
+                + "district (urbanity, share of older residents, smooth random fields) and drift slowly over the "
+                + "seasons. In the latest season a spatially clustered group of " + count(sc.shifted())
+                + " districts (a simulated Gaussian random field above its 92 % quantile) moves 22–34 % of its "
+                + "visits to a child and young-adult profile (normal, mean 16, sd 7 years). The generator records "
+                + "which districts were shifted, so the report scores its own flags.");
+        run.report.paragraph("Coordinates: computations use planar kilometres (" + run.region.projection().describe()
+                + "); the GeoJSON is in WGS 84 longitude/latitude as RFC 7946 requires. The invented region is "
+                + "placed over open ocean so that it cannot be mistaken for a real place.");
+        double[] logVisits = new double[n];
+        for (int i = 0; i < n; i++) {
             logVisits[i] = Math.log10(Math.max(1, visits[i]));
         }
-        Maps.choropleth(region, logVisits, ColourScale.of(logVisits, "log10 visits in the latest season"), 1,
-                "Visits in the latest season (log10)", dir.resolve("map_visits.png"));
-        files.add("map_visits.png");
-        int[] truthCat = new int[m];
-        for (int i = 0; i < m; i++) {
-            truthCat[i] = sc.shifted()[i] ? 1 : 0;
+        Maps.choropleth(run.region, logVisits, ColourScale.of(logVisits, "log10 visits in the latest season"), 1,
+                "Visits per district, latest season (log10)", run.path("map_visits.png"));
+        run.report.figure("map_visits.png", "Visits per district in the latest season (log10 scale).");
+        run.table.text("code", codes(run.region)).text("name", names(run.region))
+                .number("lon", lon(run.region)).number("lat", lat(run.region))
+                .number("area_km2", areas(run.region)).number("urbanity", sc.urbanity())
+                .number("older_share", sc.olderShare());
+        int[] latestVisits = new int[n];
+        for (int i = 0; i < n; i++) {
+            latestVisits[i] = sc.total(i, latest);
         }
-        Maps.categories(region, truthCat, new String[] {"not shifted", "shifted (truth)"},
-                new Color[] {Maps.NO_FLAG, Maps.TRUTH_ONLY}, "Injected shift", "Districts with an injected shift",
-                dir.resolve("map_truth.png"));
-        files.add("map_truth.png");
-        report.figure("map_visits.png", "Visits per district in the latest season (log10 scale): the "
-                + "populations differ by two orders of magnitude.");
-
-        metrics.put("districts", (double) m);
-        metrics.put("seconds", progress.seconds());
-        report.caution();
-        report.write();
-        files.add("summary.md");
-        files.add("summary.html");
-        return new StudyResult(dir, m, files, metrics, missing);
+        run.table.integer("visits_latest", latestVisits);
     }
+
+    // ------------------------------------------------------------------ estimation
+
+    static void estimateDensities(Run run) {
+        AgeScenario sc = run.sc;
+        run.space = BayesSpace.splines(0, 100, 4, new double[] {2, 6, 12, 20, 30, 42, 55, 68, 80, 90});
+        run.seasons = new DensitySet[sc.seasons()];
+        String[] ids = codes(run.region);
+        for (int s = 0; s < sc.seasons(); s++) {
+            double[][] counts = new double[run.n][];
+            for (int i = 0; i < run.n; i++) {
+                counts[i] = toDouble(sc.counts()[i][s]);
+            }
+            run.seasons[s] = AgeDensities.estimate(run.space, counts, ids);
+        }
+        run.progress.line("estimated " + run.n * sc.seasons() + " age densities (" + AgeDensities.describe() + ")");
+        run.report.heading("Age densities").paragraph("Each district-season's counts by single year of age are "
+                + "turned into a density on [0, 100) years in " + run.space + " by " + AgeDensities.describe()
+                + ". Dots are the observed shares by year of age; lines the estimated densities.");
+        densityFigure(run, null);
+    }
+
+    /** Chart of counts and estimated densities for four districts of different sizes. */
+    static void densityFigure(Run run, DensitySet predicted) {
+        AgeScenario sc = run.sc;
+        int latest = sc.seasons() - 1;
+        int[] order = sortedBy(run.n, i -> sc.total(i, latest));
+        int shiftedBig = -1;
+        for (int k = order.length - 1; k >= 0; k--) {
+            if (sc.shifted()[order[k]]) {
+                shiftedBig = order[k];
+                break;
+            }
+        }
+        int[] pick = {order[0], order[order.length / 3], order[order.length - 1],
+            shiftedBig >= 0 ? shiftedBig : order[order.length / 2]};
+        List<JFreeChart> charts = new ArrayList<>();
+        for (int i : pick) {
+            int total = sc.total(i, latest);
+            double[] share = new double[AgeScenario.AGES];
+            for (int a = 0; a < share.length; a++) {
+                share[a] = sc.counts()[i][latest][a] / (double) Math.max(1, total);
+            }
+            List<Charts.Series> series = new ArrayList<>();
+            series.add(new Charts.Series("observed share", AGE_MID, share, Charts.Style.POINTS, 7));
+            series.add(new Charts.Series("estimated density", AGE_MID, run.seasons[latest].get(i).pdf(AGE_MID),
+                    Charts.Style.LINE, 0));
+            if (predicted != null) {
+                series.add(new Charts.Series("baseline prediction", AGE_MID, predicted.get(i).pdf(AGE_MID),
+                        Charts.Style.DASHED, 1));
+            }
+            String title = run.region.units().get(i).code() + " " + run.region.units().get(i).name() + " — "
+                    + total + " visits" + (sc.shifted()[i] ? " (shifted)" : "");
+            charts.add(Charts.chart(title, "age (years)", "density", series));
+        }
+        String name = predicted == null ? "fig_densities.png" : "fig_baseline.png";
+        Charts.panel(predicted == null ? "Latest season: counts and estimated age densities"
+                : "Latest season: estimated density against the baseline prediction", charts, 2, 560, 360,
+                run.path(name));
+        run.report.figure(name, predicted == null
+                ? "Four districts (smallest, a small one, the largest, the largest shifted one): observed shares "
+                        + "by year of age and the estimated density."
+                : "The same districts with the baseline model's prediction (dashed).");
+    }
+
+    // ------------------------------------------------------------------ baseline model
+
+    /** The baseline model and its residuals. */
+    record Baseline(int predictorComponents, double trainR2, DensitySet predictedLatest, DensitySet residualLatest,
+            double[] scoreLatest, double[] scoreCalibration, double[] normLatest, double varianceA,
+            double varianceB) {
+    }
+
+    /**
+     * Function-on-function regression with scalar covariates: the response is a season's density,
+     * the predictor the previous season's density, entered through its first FPCA scores (Yao,
+     * Müller, Wang (2005) truncation), beside urbanity and the share of older residents. Fitted on
+     * the transitions of the early seasons; the transition into the second-last season calibrates;
+     * the latest season is scored.
+     */
+    static Baseline baseline(Run run) {
+        AgeScenario sc = run.sc;
+        int n = run.n;
+        int seasons = sc.seasons();
+        int trainTransitions = seasons - 3;
+        DensitySet predictors = run.seasons[0];
+        DensitySet responses = run.seasons[1];
+        for (int s = 1; s < trainTransitions; s++) {
+            predictors = predictors.concat(run.seasons[s]);
+            responses = responses.concat(run.seasons[s + 1]);
+        }
+        Fpca predictorPca = Fpca.fit(predictors);
+        int m = Math.min(4, predictorPca.componentsForVariance(0.95));
+        double[] urban = repeat(sc.urbanity(), trainTransitions);
+        double[] older = repeat(sc.olderShare(), trainTransitions);
+        Design train = design(predictorPca.scores(predictors, m), urban, older);
+        FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().fit(train, responses);
+        double[] trainNorm = fit.residualNorms();
+        double[] inverseSize = new double[trainNorm.length];
+        for (int s = 0; s < trainTransitions; s++) {
+            for (int i = 0; i < n; i++) {
+                inverseSize[s * n + i] = 1.0 / sc.total(i, s) + 1.0 / sc.total(i, s + 1);
+            }
+        }
+        // E‖r‖² ≈ a (1/N_pred + 1/N_resp) + b: estimation noise plus genuine season-to-season change
+        double[] ab = nonNegativeLine(inverseSize, square(trainNorm));
+        int cal = seasons - 2;
+        int test = seasons - 1;
+        double[] calScore = score(run, fit, predictorPca, m, cal, ab);
+        double[] testScore = score(run, fit, predictorPca, m, test, ab);
+        Design testDesign = design(predictorPca.scores(run.seasons[test - 1], m), sc.urbanity(), sc.olderShare());
+        DensitySet predicted = fit.predict(testDesign);
+        DensitySet residual = fit.residuals(testDesign, run.seasons[test]);
+        run.progress.line(String.format(Locale.ROOT, "baseline model fitted: %d predictor FPCA scores + 2 covariates, "
+                + "functional R² %.3f on %d training rows", m, fit.rSquared(), trainNorm.length));
+        run.report.heading("Baseline model").paragraph(String.format(Locale.ROOT, "The expected age profile of a "
+                + "district in a season is modelled from its profile in the previous season and two district "
+                + "covariates: a function-on-function regression in which the previous season's density enters "
+                + "through its first %d FPCA scores (they explain %.1f %% of its variation; Yao, Müller and Wang "
+                + "2005 truncation), fitted with Densa's function-on-scalar regression together with urbanity and "
+                + "the share of residents aged 65+. Fitted on the %d transitions between the first %d seasons "
+                + "(%d rows, functional R² %.3f); the transition into season %d is held out for calibration; the "
+                + "latest season %d is scored.", m, 100 * predictorPca.cumulativeVariance()[m - 1],
+                trainTransitions, trainTransitions + 1, trainNorm.length, fit.rSquared(), cal + 1, test + 1));
+        run.report.paragraph(String.format(Locale.ROOT, "Residual norms grow as districts get smaller (fewer visits "
+                + "give noisier densities). The squared residual norm was modelled as a·(1/N_previous + 1/N_current) "
+                + "+ b on the training rows (a = %.3g, b = %.3g), and each district's anomaly score is its squared "
+                + "residual norm divided by that expectation.", ab[0], ab[1]));
+        densityFigure(run, predicted);
+        double[] norms = residual.norms();
+        return new Baseline(m, fit.rSquared(), predicted, residual, testScore, calScore, norms, ab[0], ab[1]);
+    }
+
+    static double[] score(Run run, FunctionOnScalarFit fit, Fpca predictorPca, int m, int season, double[] ab) {
+        AgeScenario sc = run.sc;
+        Design d = design(predictorPca.scores(run.seasons[season - 1], m), sc.urbanity(), sc.olderShare());
+        double[] norms = fit.residuals(d, run.seasons[season]).norms();
+        double[] out = new double[run.n];
+        for (int i = 0; i < run.n; i++) {
+            double expected = ab[0] * (1.0 / sc.total(i, season - 1) + 1.0 / sc.total(i, season)) + ab[1];
+            out[i] = norms[i] * norms[i] / expected;
+        }
+        return out;
+    }
+
+    static Design design(DMatrixRMaj scores, double[] urban, double[] older) {
+        Design.Builder b = Design.builder();
+        for (int j = 0; j < scores.numCols; j++) {
+            double[] col = new double[scores.numRows];
+            for (int i = 0; i < col.length; i++) {
+                col[i] = scores.get(i, j);
+            }
+            b.numeric("prev_pc" + (j + 1), col);
+        }
+        return b.numeric("urbanity", urban).numeric("older_share", older).build();
+    }
+
+    // ------------------------------------------------------------------ flags
+
+    /** Conformal p-values, BH-adjusted p-values, flags and the self-score. */
+    record Flags(double[] p, double[] q, boolean[] flagged, String[] band, double[] youngObserved,
+            double[] youngExpected, int truePositives, int falsePositives, int falseNegatives) {
+    }
+
+    static Flags flag(Run run, Baseline b) {
+        AgeScenario sc = run.sc;
+        int n = run.n;
+        double[] p = Conformal.pValues(b.scoreCalibration(), b.scoreLatest());
+        double[] q = LocalMoran.benjaminiHochberg(p);
+        boolean[] flagged = new boolean[n];
+        String[] band = new String[n];
+        double[] youngObs = new double[n];
+        double[] youngExp = new double[n];
+        int tp = 0;
+        int fp = 0;
+        int fn = 0;
+        int latest = sc.seasons() - 1;
+        for (int i = 0; i < n; i++) {
+            flagged[i] = q[i] <= FDR;
+            youngExp[i] = b.predictedLatest().get(i).cdf(25);
+            int young = 0;
+            for (int a = 0; a < 25; a++) {
+                young += sc.counts()[i][latest][a];
+            }
+            youngObs[i] = young / (double) sc.total(i, latest);
+            band[i] = flagged[i] ? departureBand(b.residualLatest().get(i)) : "";
+            if (flagged[i] && sc.shifted()[i]) {
+                tp++;
+            } else if (flagged[i]) {
+                fp++;
+            } else if (sc.shifted()[i]) {
+                fn++;
+            }
+        }
+        double precision = tp + fp == 0 ? 0 : tp / (double) (tp + fp);
+        double recall = tp + fn == 0 ? 1 : tp / (double) (tp + fn);
+        run.metrics.put("precision", precision);
+        run.metrics.put("recall", recall);
+        run.metrics.put("flagged", (double) (tp + fp));
+        run.progress.line(String.format(Locale.ROOT, "%d districts flagged at FDR %.2f: precision %.2f, recall %.2f "
+                + "against the injected truth", tp + fp, FDR, precision, recall));
+
+        run.report.heading("Flags").paragraph(String.format(Locale.ROOT, "Split-conformal p-values (Vovk, Gammerman "
+                + "and Shafer 2005): p_i = (1 + #{calibration scores ≥ s_i}) / (n_cal + 1), with the %d scores of the "
+                + "held-out transition as the calibration set; flags where the Benjamini–Hochberg (1995) adjusted "
+                + "p-value is at most %.2f.", b.scoreCalibration().length, FDR));
+        run.report.paragraph(String.format(Locale.ROOT, "**Self-score against the injected truth:** %d flagged, %d "
+                + "of them truly shifted; %d shifted districts missed. Precision %.2f, recall %.2f. Missed districts "
+                + "are mostly small ones, where a shift of a fifth of a few dozen visits is within sampling noise.",
+                tp + fp, tp, fn, precision, recall));
+        int[] cat = new int[n];
+        for (int i = 0; i < n; i++) {
+            cat[i] = flagged[i] && sc.shifted()[i] ? 1 : flagged[i] ? 2 : sc.shifted()[i] ? 3 : 0;
+        }
+        Maps.categories(run.region, cat, new String[] {"not flagged", "flagged, shifted", "flagged, not shifted",
+            "shifted, missed"}, new Color[] {Maps.NO_FLAG, Maps.FLAG, Maps.FALSE_ALARM, Maps.TRUTH_ONLY},
+                "Flags vs truth", "Flagged districts (FDR " + Tables.fmt(FDR, 2) + ") against the injected truth",
+                run.path("map_flags.png"));
+        run.report.figure("map_flags.png", "Flags against the injected truth.");
+        double[] logScore = new double[n];
+        for (int i = 0; i < n; i++) {
+            logScore[i] = Math.log10(b.scoreLatest()[i]);
+        }
+        Maps.choropleth(run.region, logScore, ColourScale.of(logScore, "log10 anomaly score (residual² / expected)"),
+                1, "Anomaly score of the latest season", run.path("map_score.png"));
+        run.report.figure("map_score.png", "Anomaly score (squared residual norm over its expectation, log10).");
+
+        List<String[]> rows = new ArrayList<>();
+        int[] order = sortedBy(n, i -> p[i]);
+        for (int i : order) {
+            if (!flagged[i]) {
+                continue;
+            }
+            Region.Unit u = run.region.units().get(i);
+            rows.add(new String[] {u.code(), u.name(), String.valueOf(sc.total(i, latest)), Tables.fmt(p[i], 4),
+                Tables.fmt(q[i], 4), band[i], Tables.fmt(100 * youngObs[i], 1) + " %",
+                Tables.fmt(100 * youngExp[i], 1) + " %", sc.shifted()[i] ? "yes" : "no"});
+        }
+        run.report.subheading("Flagged districts").paragraph("Where the district departs: the age band in which "
+                + "the residual density's clr is above half its maximum (visits in excess of the baseline), and the "
+                + "share of visits under 25 observed against the baseline's expectation.");
+        run.report.table(new String[] {"code", "name", "visits", "p", "BH q", "excess at ages", "under 25 observed",
+            "under 25 expected", "shifted (truth)"}, rows);
+        return new Flags(p, q, flagged, band, youngObs, youngExp, tp, fp, fn);
+    }
+
+    /** The age band around the largest positive clr of a residual density. */
+    static String departureBand(Density residual) {
+        double[] clr = residual.clr(AGE_MID);
+        int peak = 0;
+        for (int a = 1; a < clr.length; a++) {
+            if (clr[a] > clr[peak]) {
+                peak = a;
+            }
+        }
+        double half = clr[peak] / 2;
+        int lo = peak;
+        int hi = peak;
+        while (lo > 0 && clr[lo - 1] > half) {
+            lo--;
+        }
+        while (hi < clr.length - 1 && clr[hi + 1] > half) {
+            hi++;
+        }
+        return lo + "–" + (hi + 1);
+    }
+
+    // ------------------------------------------------------------------ spatial structure
+
+    static void autocorrelation(Run run, Baseline b) {
+        List<org.locationtech.jts.geom.Geometry> shapes = Maps.shapes(run.region);
+        SpatialWeights w = SpatialWeights.contiguity(shapes, SpatialWeights.Contiguity.QUEEN, 1e-6)
+                .rowStandardised();
+        double[] logScore = new double[run.n];
+        for (int i = 0; i < run.n; i++) {
+            logScore[i] = Math.log(b.scoreLatest()[i]);
+        }
+        AutocorrelationOptions opt = AutocorrelationOptions.withDefaults().withPermutations(999, run.options.seed());
+        MoranI.Result global = MoranI.test(w, logScore, opt);
+        double pPerm = global.permutation().map(x -> x.pGreater()).orElse(Double.NaN);
+        LocalMoran.Result local = LocalMoran.test(w, logScore, opt);
+        int[] cat = new int[run.n];
+        int hh = 0;
+        for (LocalMoran.Unit u : local.units()) {
+            if (u.pAdjusted() <= FDR) {
+                cat[u.index()] = switch (u.quadrant()) {
+                    case HIGH_HIGH -> 1;
+                    case LOW_LOW -> 2;
+                    case HIGH_LOW, LOW_HIGH -> 3;
+                    default -> 0;
+                };
+                if (u.quadrant() == LocalMoran.Quadrant.HIGH_HIGH) {
+                    hh++;
+                }
+            }
+        }
+        run.metrics.put("moranI", global.statistic());
+        run.progress.line(String.format(Locale.ROOT, "Moran's I of the log anomaly scores %.3f (permutation p %.4f);"
+                + " %d high-high local clusters", global.statistic(), pPerm, hh));
+        run.report.heading("Spatial structure of the departures").paragraph(String.format(Locale.ROOT,
+                "Queen contiguity of the district polygons (row-standardised, %d links). Moran's I of the log anomaly "
+                + "score: %.3f (expectation %.3f under no autocorrelation; z = %.2f under randomisation; one-sided "
+                + "permutation p = %.4f with 999 permutations). Local Moran's I with conditional permutations, "
+                + "Benjamini–Hochberg adjusted at %.2f: %d districts are high-high cores.", w.linkCount(),
+                global.statistic(), global.randomisation().expectation(), global.randomisation().z(), pPerm, FDR, hh));
+        Maps.categories(run.region, cat, new String[] {"not significant", "high-high", "low-low", "high-low / low-high"},
+                new Color[] {Maps.NO_FLAG, new Color(0xd7301f), new Color(0x2b8cbe), new Color(0xbcbddc)},
+                "Local Moran (BH " + Tables.fmt(FDR, 2) + ")", "Local clusters of the anomaly score",
+                run.path("map_local_moran.png"));
+        run.report.figure("map_local_moran.png", "Local Moran's I clusters of the log anomaly score.");
+        String[] quadrant = new String[run.n];
+        double[] localP = new double[run.n];
+        java.util.Arrays.fill(quadrant, "excluded");
+        java.util.Arrays.fill(localP, Double.NaN);
+        for (LocalMoran.Unit u : local.units()) {
+            quadrant[u.index()] = u.pAdjusted() <= FDR ? u.quadrant().name().toLowerCase(Locale.ROOT) : "none";
+            localP[u.index()] = u.pAdjusted();
+        }
+        run.table.text("local_moran_cluster", quadrant).number("local_moran_q", localP);
+    }
+
+    static void residualFpca(Run run, Baseline b) {
+        Fpca pca = Fpca.fit(b.residualLatest());
+        DMatrixRMaj scores = pca.scores(b.residualLatest(), 2);
+        double[] ev = pca.explainedVariance();
+        run.progress.line(String.format(Locale.ROOT, "FPCA of the residuals: first two components explain %.1f %% and "
+                + "%.1f %%", 100 * ev[0], 100 * ev[1]));
+        List<JFreeChart> charts = new ArrayList<>();
+        for (int j = 0; j < 2; j++) {
+            List<Charts.Series> s = new ArrayList<>();
+            s.add(new Charts.Series("mean", AGE_MID, pca.mean().clr(AGE_MID), Charts.Style.LINE, 7));
+            s.add(new Charts.Series("mean ⊕ 2 sd", AGE_MID, pca.modeOfVariation(j, 2).clr(AGE_MID),
+                    Charts.Style.LINE, 1));
+            s.add(new Charts.Series("mean ⊖ 2 sd", AGE_MID, pca.modeOfVariation(j, -2).clr(AGE_MID),
+                    Charts.Style.DASHED, 0));
+            charts.add(Charts.chart(String.format(Locale.ROOT, "Component %d (%.1f %% of variance)", j + 1,
+                    100 * ev[j]), "age (years)", "clr of residual density", s));
+        }
+        Charts.panel("Modes of variation of the residual densities", charts, 2, 560, 380,
+                run.path("fig_fpca_modes.png"));
+        run.report.heading("Principal modes of the departures").paragraph("Simplicial FPCA of the latest season's "
+                + "residual densities (observed ⊖ baseline). The modes are drawn on the clr scale (log-ratio against "
+                + "the geometric mean over ages): a positive value at an age means more visits at that age than the "
+                + "baseline expects.");
+        run.report.figure("fig_fpca_modes.png", "Residual mean ⊕/⊖ two standard deviations along each component.");
+        double[] pc1 = column(scores, 0);
+        double[] pc2 = column(scores, 1);
+        for (int j = 0; j < 2; j++) {
+            double[] v = j == 0 ? pc1 : pc2;
+            double max = 0;
+            for (double x : v) {
+                max = Math.max(max, Math.abs(x));
+            }
+            String name = "map_pc" + (j + 1) + ".png";
+            Maps.choropleth(run.region, v, ColourScale.diverging(max, "score on residual component " + (j + 1)), 2,
+                    "Residual FPCA score, component " + (j + 1), run.path(name));
+            run.report.figure(name, "District scores on residual component " + (j + 1) + ".");
+        }
+        run.table.number("residual_pc1", pc1).number("residual_pc2", pc2);
+    }
+
+    // ------------------------------------------------------------------ output
+
+    static void writeTables(Run run, Baseline b, Flags f) {
+        AgeScenario sc = run.sc;
+        int n = run.n;
+        double[] median = run.seasons[sc.seasons() - 1].quantiles(0.5);
+        double[] expectedMedian = b.predictedLatest().quantiles(0.5);
+        run.table.number("median_age", median).number("expected_median_age", expectedMedian)
+                .number("residual_norm", b.normLatest()).number("anomaly_score", b.scoreLatest())
+                .number("p_conformal", f.p()).number("q_bh", f.q()).flag("flagged", f.flagged())
+                .text("excess_ages", f.band()).number("under25_observed", f.youngObserved())
+                .number("under25_expected", f.youngExpected()).flag("truth_shifted", sc.shifted())
+                .number("truth_shift_fraction", sc.shiftFraction());
+        run.table.writeCsv(run.path("districts.csv"));
+        run.table.writeGeoJson(run.path("districts.geojson"), Maps.shapes(run.region), run.region.projection());
+        List<Object[]> rows = new ArrayList<>();
+        for (int i = 0; i < n; i++) {
+            for (int s = 0; s < sc.seasons(); s++) {
+                int[] c = sc.counts()[i][s];
+                Object[] row = new Object[2 + AgeScenario.AGES];
+                row[0] = run.region.units().get(i).code();
+                row[1] = s + 1;
+                for (int a = 0; a < AgeScenario.AGES; a++) {
+                    row[2 + a] = c[a];
+                }
+                rows.add(row);
+            }
+        }
+        String[] header = new String[2 + AgeScenario.AGES];
+        header[0] = "code";
+        header[1] = "season";
+        for (int a = 0; a < AgeScenario.AGES; a++) {
+            header[2 + a] = "age_" + a;
+        }
+        Tables.writeCsv(run.path("counts.csv"), header, rows);
+        run.report.heading("Files").bullets(List.of(
+                "`districts.csv` and `districts.geojson` — one row / feature per district: covariates, visits, "
+                        + "median age, residual norm, anomaly score, conformal p-value, BH q-value, flag, excess age "
+                        + "band, local Moran cluster, residual FPCA scores and the injected truth.",
+                "`counts.csv` — the invented input: visits by district, season and single year of age.",
+                "PNG figures shown above."));
+    }
+
+    // ------------------------------------------------------------------ helpers
 
     static int count(boolean[] b) {
         int c = 0;
@@ -90,5 +570,86 @@ final class Study1 {
             }
         }
         return c;
+    }
+
+    static double[] toDouble(int[] v) {
+        double[] out = new double[v.length];
+        for (int i = 0; i < v.length; i++) {
+            out[i] = v[i];
+        }
+        return out;
+    }
+
+    static double[] repeat(double[] v, int times) {
+        double[] out = new double[v.length * times];
+        for (int t = 0; t < times; t++) {
+            System.arraycopy(v, 0, out, t * v.length, v.length);
+        }
+        return out;
+    }
+
+    static double[] square(double[] v) {
+        double[] out = new double[v.length];
+        for (int i = 0; i < v.length; i++) {
+            out[i] = v[i] * v[i];
+        }
+        return out;
+    }
+
+    static double[] column(DMatrixRMaj m, int j) {
+        double[] out = new double[m.numRows];
+        for (int i = 0; i < out.length; i++) {
+            out[i] = m.get(i, j);
+        }
+        return out;
+    }
+
+    /** Least-squares line y ≈ a x + b with a, b ≥ 0 (a clamped fit, then b refitted). */
+    static double[] nonNegativeLine(double[] x, double[] y) {
+        int n = x.length;
+        double mx = 0;
+        double my = 0;
+        for (int i = 0; i < n; i++) {
+            mx += x[i] / n;
+            my += y[i] / n;
+        }
+        double sxy = 0;
+        double sxx = 0;
+        for (int i = 0; i < n; i++) {
+            sxy += (x[i] - mx) * (y[i] - my);
+            sxx += (x[i] - mx) * (x[i] - mx);
+        }
+        double a = Math.max(0, sxy / sxx);
+        double b = my - a * mx;
+        if (b <= 0) {
+            b = 1e-3 * my;
+        }
+        return new double[] {a, b};
+    }
+
+    static int[] sortedBy(int n, java.util.function.IntToDoubleFunction key) {
+        return java.util.stream.IntStream.range(0, n).boxed()
+                .sorted(java.util.Comparator.comparingDouble(key::applyAsDouble)).mapToInt(Integer::intValue)
+                .toArray();
+    }
+
+    static String[] codes(Region r) {
+        return r.units().stream().map(Region.Unit::code).toArray(String[]::new);
+    }
+
+    static String[] names(Region r) {
+        return r.units().stream().map(Region.Unit::name).toArray(String[]::new);
+    }
+
+    static double[] areas(Region r) {
+        return r.units().stream().mapToDouble(Region.Unit::areaKm2).toArray();
+    }
+
+    static double[] lon(Region r) {
+        return r.units().stream().mapToDouble(u -> r.projection().lon(u.x())).toArray();
+    }
+
+    static double[] lat(Region r) {
+        return r.units().stream().mapToDouble(u -> r.projection().lat(u.y())).toArray();
     }
 }
