@@ -31,9 +31,10 @@ public final class Penalties {
     /**
      * Second-derivative roughness R_kl ≈ ∫ e_k''(t) e_l''(t) dt, so that bᵀ R b ≈ ∫ (β'')² dt for
      * the clr function β = Σ b_k e_k: second differences of the basis on {@code points} equally
-     * spaced points of the domain, summed with weight h (a finite-difference approximation, exact
-     * for clr functions of degree ≤ 3 within each cell; meant for spline and polynomial spaces,
-     * not for step spaces whose clr functions jump).
+     * spaced points of the domain; the second differences at the points − 2 interior points are
+     * summed with equal weights (b − a)/(points − 2) (a finite-difference approximation, exact for
+     * clr functions of degree ≤ 2 and accurate to O(h) otherwise; meant for spline and polynomial
+     * spaces, not for step spaces whose clr functions jump).
      *
      * @param points grid size, at least 5
      */
@@ -53,13 +54,14 @@ public final class Penalties {
         DMatrixRMaj e = space.basisMatrix(xs);
         double[] r = new double[k * k];
         double[] d = new double[k];
+        double wq = (b - a) / (points - 2); // the interior points share the whole length
         for (int q = 1; q < points - 1; q++) {
             for (int j = 0; j < k; j++) {
                 d[j] = (e.data[(q - 1) * k + j] - 2 * e.data[q * k + j] + e.data[(q + 1) * k + j]) / (h * h);
             }
             for (int j = 0; j < k; j++) {
                 for (int l = 0; l < k; l++) {
-                    r[j * k + l] += h * d[j] * d[l];
+                    r[j * k + l] += wq * d[j] * d[l];
                 }
             }
         }

@@ -1,0 +1,286 @@
+package io.densa.regression;
+
+import io.densa.core.BayesSpace;
+import io.densa.core.DensitySet;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Objects;
+import org.ejml.data.DMatrixRMaj;
+
+/**
+ * Anomaly scoring of densities against a fitted model, by split-conformal inference on residual
+ * norms (Vovk, Gammerman, Shafer (2005), Algorithmic Learning in a Random World [from memory]):
+ * <ol>
+ * <li>the model is fitted on a training set; its residual densities on a separate calibration
+ * set give calibration norms s_1..s_n (a model's {@code residuals(...)} method for new data
+ * produces them);</li>
+ * <li>a new unit with residual norm s gets the conformal p-value
+ * (1 + #{i : s_i ≥ s}) / (n + 1), valid (P(p ≤ α) ≤ α) when the unit is exchangeable with the
+ * calibration units;</li>
+ * <li>the p-values of a batch are adjusted by Benjamini–Hochberg ({@link BenjaminiHochberg}) and
+ * units with adjusted p-value ≤ q are flagged;</li>
+ * <li>for each flagged unit, the grid points where its residual clr lies above the calibration
+ * set's pointwise upper quantile (an excess of mass relative to the prediction) or below the
+ * lower quantile (a deficit) are merged into intervals.</li>
+ * </ol>
+ *
+ * <p>Immutable and thread-safe.
+ */
+public final class AnomalyScoring {
+    private final double fdr;
+    private final double bandLevel;
+
+    private AnomalyScoring(double fdr, double bandLevel) {
+        this.fdr = fdr;
+        this.bandLevel = bandLevel;
+    }
+
+    /** FDR level 0.05 and a central pointwise band of 95 %. */
+    public static AnomalyScoring withDefaults() {
+        return new AnomalyScoring(0.05, 0.95);
+    }
+
+    /**
+     * The false discovery rate level q.
+     *
+     * @param q in (0, 1)
+     */
+    public AnomalyScoring withFdr(double q) {
+        if (!(q > 0 && q < 1)) {
+            throw new IllegalArgumentException("FDR level must be in (0, 1), got " + q);
+        }
+        return new AnomalyScoring(q, bandLevel);
+    }
+
+    /**
+     * Coverage of the pointwise band: limits are the (1 ∓ level)/2 quantiles of the calibration
+     * residual clr values at each grid point.
+     *
+     * @param level in (0, 1)
+     */
+    public AnomalyScoring withBandLevel(double level) {
+        if (!(level > 0 && level < 1)) {
+            throw new IllegalArgumentException("band level must be in (0, 1), got " + level);
+        }
+        return new AnomalyScoring(fdr, level);
+    }
+
+    /** The FDR level q. */
+    public double fdr() {
+        return fdr;
+    }
+
+    /** The pointwise band coverage. */
+    public double bandLevel() {
+        return bandLevel;
+    }
+
+    /**
+     * Calibrates on the residual densities of a calibration set (not used to fit the model).
+     *
+     * @param calibrationResiduals at least 1 residual density
+     * @param grid                 points of the domain where bands are evaluated (copied)
+     */
+    public Calibrated calibrate(DensitySet calibrationResiduals, double[] grid) {
+        Objects.requireNonNull(calibrationResiduals, "calibrationResiduals");
+        if (calibrationResiduals.size() < 1) {
+            throw new IllegalArgumentException("calibration set is empty");
+        }
+        double[] g = Linear.grid(grid, "grid");
+        for (int i = 1; i < g.length; i++) {
+            if (!(g[i] > g[i - 1])) {
+                throw new IllegalArgumentException("grid must be strictly increasing; grid[" + i + "] = " + g[i]
+                        + " after " + g[i - 1]);
+            }
+        }
+        double[] norms = calibrationResiduals.norms();
+        Arrays.sort(norms);
+        DMatrixRMaj clr = calibrationResiduals.clr(g);
+        int n = calibrationResiduals.size();
+        int m = g.length;
+        double[] lo = new double[m];
+        double[] hi = new double[m];
+        double[] col = new double[n];
+        for (int q = 0; q < m; q++) {
+            for (int i = 0; i < n; i++) {
+                col[i] = clr.data[i * m + q];
+            }
+            Arrays.sort(col);
+            lo[q] = Linear.quantileSorted(col, (1 - bandLevel) / 2);
+            hi[q] = Linear.quantileSorted(col, (1 + bandLevel) / 2);
+        }
+        return new Calibrated(this, calibrationResiduals.space(), norms, g, lo, hi);
+    }
+
+    /** Direction of a departure. */
+    public enum Direction {
+        /** Residual clr above the band: more mass than predicted. */
+        EXCESS,
+        /** Residual clr below the band: less mass than predicted. */
+        DEFICIT
+    }
+
+    /**
+     * A maximal run of grid points where the residual clr leaves the band.
+     *
+     * @param from      first grid point of the run
+     * @param to        last grid point of the run
+     * @param direction excess or deficit
+     * @param extreme   residual clr value farthest outside the band in the run
+     */
+    public record Excursion(double from, double to, Direction direction, double extreme) {
+    }
+
+    /**
+     * Score of one unit.
+     *
+     * @param row            row in the scored set
+     * @param id             id of the unit ("#row" without ids)
+     * @param residualNorm   B2 norm of the residual density
+     * @param pValue         split-conformal p-value
+     * @param adjustedPValue Benjamini–Hochberg adjusted p-value within the batch
+     * @param flagged        adjusted p-value ≤ q
+     * @param excursions     band departures (computed for flagged units only, else empty)
+     */
+    public record UnitScore(int row, String id, double residualNorm, double pValue, double adjustedPValue,
+            boolean flagged, List<Excursion> excursions) {
+        /** Canonical constructor: copies the excursion list. */
+        public UnitScore {
+            excursions = List.copyOf(excursions);
+        }
+    }
+
+    /**
+     * Scores of a batch.
+     *
+     * @param units           one score per unit, in input order
+     * @param fdr             FDR level used
+     * @param bandLevel       pointwise band coverage used
+     * @param calibrationSize number of calibration units
+     * @param flaggedCount    number of flagged units
+     */
+    public record Report(List<UnitScore> units, double fdr, double bandLevel, int calibrationSize,
+            int flaggedCount) {
+        /** Canonical constructor: copies the unit list. */
+        public Report {
+            units = List.copyOf(units);
+        }
+    }
+
+    /** A calibrated scorer: sorted calibration norms and pointwise bands. Immutable and thread-safe. */
+    public static final class Calibrated {
+        private final AnomalyScoring cfg;
+        private final BayesSpace space;
+        private final double[] sorted;
+        private final double[] grid;
+        private final double[] lower;
+        private final double[] upper;
+
+        private Calibrated(AnomalyScoring cfg, BayesSpace space, double[] sorted, double[] grid, double[] lower,
+                double[] upper) {
+            this.cfg = cfg;
+            this.space = space;
+            this.sorted = sorted;
+            this.grid = grid;
+            this.lower = lower;
+            this.upper = upper;
+        }
+
+        /** Number of calibration units. */
+        public int calibrationSize() {
+            return sorted.length;
+        }
+
+        /** The band grid (fresh). */
+        public double[] grid() {
+            return grid.clone();
+        }
+
+        /** Pointwise lower band limit on the grid (fresh). */
+        public double[] lowerBand() {
+            return lower.clone();
+        }
+
+        /** Pointwise upper band limit on the grid (fresh). */
+        public double[] upperBand() {
+            return upper.clone();
+        }
+
+        /**
+         * Split-conformal p-value (1 + #{calibration norms ≥ s}) / (n + 1) of each score.
+         *
+         * @param norms non-negative residual norms (not modified)
+         */
+        public double[] pValues(double[] norms) {
+            Objects.requireNonNull(norms, "norms");
+            int n = sorted.length;
+            double[] p = new double[norms.length];
+            for (int i = 0; i < norms.length; i++) {
+                double s = norms[i];
+                if (!(s >= 0) || Double.isInfinite(s)) {
+                    throw new IllegalArgumentException("norm " + i + " is " + s + "; norms must be finite and >= 0");
+                }
+                // first index with sorted[idx] >= s
+                int lo = 0;
+                int hi = n;
+                while (lo < hi) {
+                    int mid = (lo + hi) >>> 1;
+                    if (sorted[mid] >= s) {
+                        hi = mid;
+                    } else {
+                        lo = mid + 1;
+                    }
+                }
+                p[i] = (1.0 + (n - lo)) / (n + 1.0);
+            }
+            return p;
+        }
+
+        /**
+         * Scores the residual densities of new units.
+         *
+         * @param residuals residuals of the model for the new units, in the calibration space
+         */
+        public Report score(DensitySet residuals) {
+            Objects.requireNonNull(residuals, "residuals");
+            Linear.sameSpace(space, residuals.space(), "residuals");
+            double[] norms = residuals.norms();
+            double[] p = pValues(norms);
+            double[] adj = BenjaminiHochberg.adjust(p);
+            List<UnitScore> out = new ArrayList<>();
+            int flagged = 0;
+            int m = grid.length;
+            for (int i = 0; i < residuals.size(); i++) {
+                boolean f = adj[i] <= cfg.fdr;
+                List<Excursion> ex = List.of();
+                if (f) {
+                    flagged++;
+                    ex = excursions(residuals.get(i).clr(grid), m);
+                }
+                out.add(new UnitScore(i, residuals.id(i), norms[i], p[i], adj[i], f, ex));
+            }
+            return new Report(out, cfg.fdr, cfg.bandLevel, sorted.length, flagged);
+        }
+
+        private List<Excursion> excursions(double[] clr, int m) {
+            List<Excursion> ex = new ArrayList<>();
+            int q = 0;
+            while (q < m) {
+                Direction d = clr[q] > upper[q] ? Direction.EXCESS : clr[q] < lower[q] ? Direction.DEFICIT : null;
+                if (d == null) {
+                    q++;
+                    continue;
+                }
+                int start = q;
+                double extreme = clr[q];
+                while (q < m && (d == Direction.EXCESS ? clr[q] > upper[q] : clr[q] < lower[q])) {
+                    extreme = d == Direction.EXCESS ? Math.max(extreme, clr[q]) : Math.min(extreme, clr[q]);
+                    q++;
+                }
+                ex.add(new Excursion(grid[start], grid[q - 1], d, extreme));
+            }
+            return ex;
+        }
+    }
+}

@@ -1,0 +1,123 @@
+package io.densa.regression;
+
+import io.densa.core.BayesSpace;
+import io.densa.core.Density;
+import io.densa.core.DensitySet;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Objects;
+
+/**
+ * A fitted scalar-on-function regression y_i = β_0 + Σ_l γ_l u_il + Σ_j ⟨β_j, X_ij⟩_B + ε_i (see
+ * {@link FunctionalRegression}): coefficient functions β_j, the cross-validation record and
+ * prediction.
+ *
+ * <p>Immutable and thread-safe.
+ */
+public final class ScalarOnFunctionFit {
+    private final FunctionalRegression config;
+    private final Design design;
+    private final List<BayesSpace> predictorSpaces;
+    private final LinearFunctionalEngine.Result res;
+    private final int n;
+
+    ScalarOnFunctionFit(FunctionalRegression config, Design design, List<DensitySet> predictors, double[] y,
+            LinearFunctionalEngine.Result res) {
+        this.config = config;
+        this.design = design;
+        List<BayesSpace> sp = new ArrayList<>();
+        for (DensitySet s : predictors) {
+            sp.add(s.space());
+        }
+        this.predictorSpaces = List.copyOf(sp);
+        this.res = res;
+        this.n = y.length;
+    }
+
+    /** The configuration. */
+    public FunctionalRegression configuration() {
+        return config;
+    }
+
+    /** The covariate design. */
+    public Design design() {
+        return design;
+    }
+
+    /** Spaces of the density predictors. */
+    public List<BayesSpace> predictorSpaces() {
+        return predictorSpaces;
+    }
+
+    /** The tuning used, with its cross-validated mean squared error. */
+    public FunctionalRegression.Candidate chosen() {
+        return res.chosen();
+    }
+
+    /** Every candidate with its cross-validated mean squared error. */
+    public List<FunctionalRegression.Candidate> crossValidation() {
+        return res.candidates();
+    }
+
+    /** Cross-validated mean squared prediction error of the chosen tuning (NaN without CV). */
+    public double crossValidatedError() {
+        return res.chosen().cvError();
+    }
+
+    /** Coefficient of a design column (intercept or scalar covariate). */
+    public double coefficient(String column) {
+        return res.beta()[design.columnIndex(column)];
+    }
+
+    /** The coefficient function β_j as an element of the predictor's space. */
+    public Density coefficientFunction(int j) {
+        if (j < 0 || j >= predictorSpaces.size()) {
+            throw new IllegalArgumentException("predictor index " + j + " outside [0, " + predictorSpaces.size() + ")");
+        }
+        int[] off = res.offsets();
+        return predictorSpaces.get(j).density(Arrays.copyOfRange(res.beta(), off[j], off[j + 1]));
+    }
+
+    /** clr β_j at the given points. */
+    public double[] coefficientClr(int j, double... xs) {
+        return Linear.clrAt(predictorSpaces.get(j), coefficientFunction(j).coordinates(), Linear.grid(xs, "points"));
+    }
+
+    /** Fitted values (fresh). */
+    public double[] fitted() {
+        return res.fitted().clone();
+    }
+
+    /** Residuals y_i − ŷ_i (fresh). */
+    public double[] residuals() {
+        return res.residuals().clone();
+    }
+
+    /** R² = 1 − RSS / TSS on the training data. */
+    public double rSquared() {
+        return res.rSquared();
+    }
+
+    /** Number of training observations. */
+    public int sampleSize() {
+        return n;
+    }
+
+    /**
+     * Predictions for new predictors.
+     *
+     * @param predictors densities of the model's predictor spaces
+     * @param covariates design with the model's columns, or null if it had none
+     */
+    public double[] predict(List<DensitySet> predictors, Design covariates) {
+        Objects.requireNonNull(predictors, "predictors");
+        return LinearFunctionalEngine.predict(res.beta(), res.pz(), 1, res.offsets(), design, predictorSpaces,
+                predictors, covariates);
+    }
+
+    @Override
+    public String toString() {
+        return "ScalarOnFunctionFit[" + config.method() + ", chosen=" + res.chosen() + ", R²=" + res.rSquared() + "]";
+    }
+}

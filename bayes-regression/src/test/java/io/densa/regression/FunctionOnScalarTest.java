@@ -1,0 +1,342 @@
+package io.densa.regression;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import io.densa.core.BayesSpace;
+import io.densa.core.DensitySet;
+import java.util.List;
+import java.util.Random;
+import org.apache.commons.math3.stat.regression.OLSMultipleLinearRegression;
+import org.ejml.data.DMatrixRMaj;
+import org.junit.jupiter.api.Test;
+
+class FunctionOnScalarTest {
+    private final BayesSpace space = TestData.space8();
+    private final int k = space.dimension();
+
+    /** Simulated data: intercept, numeric dose, 3-level group; known coefficient coordinates. */
+    private static final class Sim {
+        Design design;
+        DensitySet response;
+        double[][] beta; // p × K true
+    }
+
+    private Sim simulate(long seed, int n, double effect, double noise) {
+        Random r = new Random(seed);
+        double[] dose = new double[n];
+        String[] group = new String[n];
+        for (int i = 0; i < n; i++) {
+            dose[i] = r.nextDouble() * 2 - 1;
+            group[i] = new String[] {"a", "b", "c"}[r.nextInt(3)];
+        }
+        Sim s = new Sim();
+        s.design = Design.builder().numeric("dose", dose).categorical("group", group, "a").build();
+        int p = s.design.columns();
+        s.beta = new double[p][k];
+        for (int j = 0; j < p; j++) {
+            for (int l = 0; l < k; l++) {
+                s.beta[j][l] = j == 1 ? effect * Math.cos(l) : 0.5 * Math.sin(j + l);
+            }
+        }
+        double[][] c = new double[n][k];
+        for (int i = 0; i < n; i++) {
+            for (int l = 0; l < k; l++) {
+                double v = noise * r.nextGaussian();
+                for (int j = 0; j < p; j++) {
+                    v += s.design.value(i, j) * s.beta[j][l];
+                }
+                c[i][l] = v;
+            }
+        }
+        s.response = DensitySet.of(space, c);
+        return s;
+    }
+
+    private double[][] designRows(Design d) {
+        double[][] x = new double[d.rows()][d.columns()];
+        for (int i = 0; i < d.rows(); i++) {
+            for (int j = 0; j < d.columns(); j++) {
+                x[i][j] = d.value(i, j);
+            }
+        }
+        return x;
+    }
+
+    /**
+     * Reference: Apache Commons Math {@code OLSMultipleLinearRegression} (a general-purpose
+     * regression), fitted separately for every coordinate with the intercept in the design.
+     */
+    @Test
+    void coefficientsEqualCommonsMathOlsPerCoordinate() {
+        Sim s = simulate(1, 80, 1.0, 0.3);
+        FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().fit(s.design, s.response);
+        DMatrixRMaj b = fit.coefficients();
+        double[][] c = s.response.coordinates();
+        for (int l = 0; l < k; l++) {
+            double[] y = new double[80];
+            for (int i = 0; i < 80; i++) {
+                y[i] = c[i][l];
+            }
+            OLSMultipleLinearRegression ols = new OLSMultipleLinearRegression();
+            ols.setNoIntercept(true);
+            ols.newSampleData(y, designRows(s.design));
+            double[] ref = ols.estimateRegressionParameters();
+            for (int j = 0; j < ref.length; j++) {
+                assertEquals(ref[j], b.get(j, l), 1e-10, "coefficient " + j + ", coordinate " + l);
+            }
+        }
+        assertEquals(List.of("intercept", "dose", "group=b", "group=c"), fit.design().columnNames());
+        assertTrue(fit.rSquared() > 0.5 && fit.rSquared() < 1);
+        // residual norms are the B2 distances between observed and fitted densities
+        double[] rn = fit.residualNorms();
+        assertEquals(s.response.get(3).distance(fit.fitted().get(3)), rn[3], 1e-12);
+        // coefficient clr at points = Σ b_k e_k(t)
+        assertEquals(fit.coefficient("dose").clr(0.4), fit.coefficientClr("dose", 0.4)[0], 1e-10);
+    }
+
+    /**
+     * Weighted least squares equals OLS on rows scaled by √w (Commons Math reference); ridge with
+     * R = I equals OLS on the data augmented by rows √λ e_j for every penalised column (a
+     * textbook identity, Hoerl and Kennard (1970), Technometrics 12(1) [from memory]).
+     */
+    @Test
+    void weightsAndRidgeMatchAugmentedOls() {
+        Sim s = simulate(2, 60, 1.0, 0.3);
+        Random r = new Random(3);
+        double[] w = new double[60];
+        for (int i = 0; i < 60; i++) {
+            w[i] = 0.5 + 3 * r.nextDouble();
+        }
+        double lambda = 2.5;
+        FunctionOnScalarFit wf = FunctionOnScalarRegression.withDefaults().fit(s.design, s.response, w);
+        FunctionOnScalarFit rf = FunctionOnScalarRegression.withDefaults().withPenalty(lambda, Penalties.ridge(k))
+                .fit(s.design, s.response);
+        double[][] x = designRows(s.design);
+        int p = x[0].length;
+        double[][] c = s.response.coordinates();
+        for (int l = 0; l < k; l++) {
+            double[] yw = new double[60];
+            double[][] xw = new double[60][p];
+            double[] ya = new double[60 + p - 1];
+            double[][] xa = new double[60 + p - 1][p];
+            for (int i = 0; i < 60; i++) {
+                double sw = Math.sqrt(w[i]);
+                yw[i] = sw * c[i][l];
+                ya[i] = c[i][l];
+                for (int j = 0; j < p; j++) {
+                    xw[i][j] = sw * x[i][j];
+                    xa[i][j] = x[i][j];
+                }
+            }
+            for (int j = 1; j < p; j++) {
+                xa[60 + j - 1][j] = Math.sqrt(lambda);
+            }
+            OLSMultipleLinearRegression o1 = new OLSMultipleLinearRegression();
+            o1.setNoIntercept(true);
+            o1.newSampleData(yw, xw);
+            OLSMultipleLinearRegression o2 = new OLSMultipleLinearRegression();
+            o2.setNoIntercept(true);
+            o2.newSampleData(ya, xa);
+            double[] b1 = o1.estimateRegressionParameters();
+            double[] b2 = o2.estimateRegressionParameters();
+            for (int j = 0; j < p; j++) {
+                assertEquals(b1[j], wf.coefficients().get(j, l), 1e-10);
+                assertEquals(b2[j], rf.coefficients().get(j, l), 1e-10);
+            }
+        }
+    }
+
+    /** A roughness penalty solves its normal equations XᵀX B + λ D B R = XᵀC (closed form). */
+    @Test
+    void roughnessPenaltySolvesItsNormalEquations() {
+        Sim s = simulate(4, 50, 1.0, 0.5);
+        DMatrixRMaj rough = Penalties.secondDerivative(space, 201);
+        double lambda = 1e-3;
+        FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().withPenalty(lambda, rough)
+                .fit(s.design, s.response);
+        DMatrixRMaj x = s.design.matrix();
+        DMatrixRMaj b = fit.coefficients();
+        DMatrixRMaj c = s.response.coordinateMatrix();
+        int p = x.numCols;
+        DMatrixRMaj xtx = new DMatrixRMaj(p, p);
+        org.ejml.dense.row.CommonOps_DDRM.multTransA(x, x, xtx);
+        DMatrixRMaj lhs = new DMatrixRMaj(p, k);
+        org.ejml.dense.row.CommonOps_DDRM.mult(xtx, b, lhs);
+        DMatrixRMaj br = new DMatrixRMaj(p, k);
+        org.ejml.dense.row.CommonOps_DDRM.mult(b, rough, br);
+        DMatrixRMaj rhs = new DMatrixRMaj(p, k);
+        org.ejml.dense.row.CommonOps_DDRM.multTransA(x, c, rhs);
+        double scale = org.ejml.dense.row.NormOps_DDRM.normF(rhs);
+        for (int j = 0; j < p; j++) {
+            for (int l = 0; l < k; l++) {
+                double v = lhs.get(j, l) + (j == 0 ? 0 : lambda * br.get(j, l)) - rhs.get(j, l);
+                assertEquals(0.0, v, 1e-9 * scale);
+            }
+        }
+        // the penalty lowers the roughness of the dose coefficient
+        FunctionOnScalarFit ols = FunctionOnScalarRegression.withDefaults().fit(s.design, s.response);
+        assertTrue(quad(fit.coefficient("dose").coordinates(), rough) < quad(ols.coefficient("dose").coordinates(),
+                rough));
+        // second-derivative matrix: a clr function of degree ≤ 2 has roughness ∫ (f'')² (closed form:
+        // f = t² gives 4 on [0, 1]; coordinates from projecting exp(t²))
+        double[] c2 = space.project(t -> Math.exp(t * t)).density().coordinates();
+        assertEquals(4.0, quad(c2, rough), 1e-6);
+    }
+
+    private static double quad(double[] b, DMatrixRMaj r) {
+        double s = 0;
+        for (int i = 0; i < b.length; i++) {
+            for (int j = 0; j < b.length; j++) {
+                s += b[i] * r.get(i, j) * b[j];
+            }
+        }
+        return s;
+    }
+
+    /**
+     * Bootstrap bands: coverage of the true coefficient over 60 simulated data sets, nominal 90 %;
+     * we accept pointwise coverage in [0.75, 0.99] at a fixed point (binomial sd ≈ 0.04) and
+     * simultaneous coverage ≥ 0.75 of the whole curve on the grid. Simultaneous bands are wider.
+     */
+    @Test
+    void bootstrapBandsCoverTheTruth() {
+        double[] grid = new double[21];
+        for (int q = 0; q <= 20; q++) {
+            grid[q] = q / 20.0;
+        }
+        int pointHits = 0;
+        int simHits = 0;
+        int reps = 60;
+        for (int rep = 0; rep < reps; rep++) {
+            Sim s = simulate(100 + rep, 60, 1.0, 0.4);
+            FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().fit(s.design, s.response);
+            FunctionOnScalarFit.CoefficientBand band = fit.bootstrapBands(grid, 200, 0.9, rep).get(1);
+            assertEquals("dose", band.column());
+            double[] truth = Linear.clrAt(space, s.beta[1], grid);
+            if (truth[7] >= band.pointwiseLower()[7] && truth[7] <= band.pointwiseUpper()[7]) {
+                pointHits++;
+            }
+            boolean all = true;
+            for (int q = 0; q < grid.length; q++) {
+                all &= truth[q] >= band.simultaneousLower()[q] && truth[q] <= band.simultaneousUpper()[q];
+                assertTrue(band.simultaneousUpper()[q] - band.simultaneousLower()[q]
+                        >= 0.9 * (band.pointwiseUpper()[q] - band.pointwiseLower()[q]));
+            }
+            if (all) {
+                simHits++;
+            }
+        }
+        double pc = pointHits / (double) reps;
+        double sc = simHits / (double) reps;
+        assertTrue(pc >= 0.75 && pc <= 0.99, "pointwise coverage " + pc);
+        assertTrue(sc >= 0.75, "simultaneous coverage " + sc);
+    }
+
+    /**
+     * Permutation F-test (Freedman–Lane): under H₀ (no dose effect) the rejection rate at 5 % over
+     * 150 simulated data sets lies in [0.01, 0.11] (binomial 99 % range for p = 0.05 is about
+     * [0.01, 0.10]); under an effect it rejects in ≥ 90 % of 40 data sets.
+     */
+    @Test
+    void permutationTestHasNominalSizeAndPower() {
+        int rej = 0;
+        int reps = 150;
+        for (int rep = 0; rep < reps; rep++) {
+            Sim s = simulate(1000 + rep, 30, 0.0, 1.0);
+            FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().fit(s.design, s.response);
+            if (fit.permutationTest("dose", 99, rep).pValue() <= 0.05) {
+                rej++;
+            }
+        }
+        double size = rej / (double) reps;
+        assertTrue(size >= 0.01 && size <= 0.11, "size " + size);
+        int power = 0;
+        for (int rep = 0; rep < 40; rep++) {
+            Sim s = simulate(5000 + rep, 30, 0.9, 1.0);
+            FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().fit(s.design, s.response);
+            FunctionOnScalarFit.PermutationTest t = fit.permutationTest("dose", 99, rep);
+            assertEquals(1, t.df1());
+            assertEquals(26, t.df2());
+            if (t.pValue() <= 0.05) {
+                power++;
+            }
+        }
+        assertTrue(power >= 36, "power " + power + "/40");
+        // a categorical term is tested jointly over its level columns
+        Sim s = simulate(7, 40, 0.0, 1.0);
+        assertEquals(2, FunctionOnScalarRegression.withDefaults().fit(s.design, s.response)
+                .permutationTest("group", 19, 1).df1());
+    }
+
+    @Test
+    void predictionAndNewResiduals() {
+        Sim s = simulate(9, 40, 1.0, 0.2);
+        FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().fit(s.design, s.response);
+        DensitySet pred = fit.predict(s.design);
+        DensitySet res = fit.residuals(s.design, s.response);
+        for (int i = 0; i < 5; i++) {
+            assertTrue(pred.get(i).equalsWithin(fit.fitted().get(i), 1e-12));
+            assertTrue(res.get(i).equalsWithin(fit.residuals().get(i), 1e-12));
+        }
+        Design interceptOnly = Design.interceptOnly(40);
+        FunctionOnScalarFit mean = FunctionOnScalarRegression.withDefaults().fit(interceptOnly, s.response);
+        assertEquals(0.0, mean.rSquared(), 1e-12);
+        assertTrue(mean.coefficient("intercept").equalsWithin(s.response.mean(), 1e-12));
+    }
+
+    @Test
+    void badInputGivesClearErrors() {
+        Sim s = simulate(11, 20, 1.0, 0.2);
+        FunctionOnScalarRegression m = FunctionOnScalarRegression.withDefaults();
+        // mismatched row counts
+        DensitySet fewer = s.response.subset(0, 1, 2);
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> m.fit(s.design, fewer));
+        assertTrue(e.getMessage().matches("response has 3 rows, expected 20.*"), e.getMessage());
+        e = assertThrows(IllegalArgumentException.class, () -> Design.builder().numeric("a", new double[3])
+                .numeric("b", new double[4]));
+        assertTrue(e.getMessage().matches("covariate 'b' has 4 values but 'a' has 3.*"), e.getMessage());
+        // NaN covariate
+        e = assertThrows(IllegalArgumentException.class,
+                () -> Design.builder().numeric("x", new double[] {1, Double.NaN, 2}));
+        assertTrue(e.getMessage().matches("covariate 'x' row 1 is not finite: NaN.*"), e.getMessage());
+        // rank deficiency names the offending columns
+        double[] x1 = new double[20];
+        double[] x2 = new double[20];
+        double[] x3 = new double[20];
+        Random r = new Random(1);
+        for (int i = 0; i < 20; i++) {
+            x1[i] = r.nextGaussian();
+            x2[i] = r.nextGaussian();
+            x3[i] = 2 * x1[i] - x2[i];
+        }
+        Design bad = Design.builder().numeric("x1", x1).numeric("x2", x2).numeric("x3", x3).build();
+        e = assertThrows(IllegalArgumentException.class, () -> m.fit(bad, s.response));
+        assertTrue(e.getMessage().matches(".*rank deficient; column\\(s\\) \\[x3\\] are .*"), e.getMessage());
+        // fewer observations than parameters
+        Design wide = Design.builder().numeric("x1", new double[] {1, 2}).numeric("x2", new double[] {3, 1})
+                .build();
+        DensitySet two = s.response.subset(0, 1);
+        e = assertThrows(IllegalArgumentException.class, () -> m.fit(wide, two));
+        assertTrue(e.getMessage().matches(".*2 observations for 3 parameters.*"), e.getMessage());
+        // weights
+        double[] w = new double[20];
+        java.util.Arrays.fill(w, 1.0);
+        w[4] = Double.NaN;
+        e = assertThrows(IllegalArgumentException.class, () -> m.fit(s.design, s.response, w));
+        assertTrue(e.getMessage().matches("weight of row 4 .* is NaN.*"), e.getMessage());
+        // new data from another space
+        FunctionOnScalarFit fit = m.fit(s.design, s.response);
+        DensitySet alien = DensitySet.of(BayesSpace.polynomials(0, 1, 8), new double[20][8]);
+        e = assertThrows(IllegalArgumentException.class, () -> fit.residuals(s.design, alien));
+        assertTrue(e.getMessage().matches("response lives in .* but the model expects .*"), e.getMessage());
+        // categorical without the reference level / unknown level
+        e = assertThrows(IllegalArgumentException.class,
+                () -> Design.builder().categorical("g", new String[] {"a", "b"}, "z"));
+        assertTrue(e.getMessage().matches(".*reference level 'z' is not among its levels.*"), e.getMessage());
+        e = assertThrows(IllegalArgumentException.class,
+                () -> m.withPenalty(Double.NaN, Penalties.ridge(k)));
+        assertTrue(e.getMessage().matches(".*must be finite and >= 0, got NaN"), e.getMessage());
+    }
+}

@@ -1,0 +1,357 @@
+package io.densa.spatial;
+
+import io.densa.core.DensitySet;
+import io.densa.core.internal.Kernels;
+import java.util.Arrays;
+import java.util.Objects;
+
+/**
+ * The empirical trace-semivariogram of densities at locations,
+ * γ̂(h_b) = (1 / (2|N(h_b)|)) Σ_{(i,j) ∈ N(h_b)} ‖X(s_i) ⊖ X(s_j)‖²_B
+ * (Giraldo, Delicado, Mateu (2011), Ordinary kriging for function-valued spatial data, Environ.
+ * Ecol. Stat. 18 — from memory), where N(h_b) are the unordered pairs whose distance falls in bin
+ * b (and, with directions, in the sector). Each bin reports its pair count and mean lag.
+ *
+ * <p>Computation: squared B2 distances come from coordinates by ‖a‖² + ‖b‖² − 2a·b, with the a·b
+ * products of an i-tile × j-tile of locations formed as a small matrix product (unit-stride over a
+ * transposed coordinate copy) so that they stay in cache; pairs beyond the maximum lag are rejected
+ * on the squared spatial distance (chord distance for geographic locations) before any square
+ * root. Tiles of locations are processed in parallel, each into its own bin totals, and totals are
+ * combined in tile order, so the result is bit-identical to the serial run.
+ *
+ * <p>Immutable; accessors return copies.
+ */
+public final class EmpiricalVariogram {
+    private static final int ITILE = 64;
+    private static final int JTILE = 256;
+
+    private final double[] edges;
+    private final double[] directions; // null: omnidirectional
+    private final double tolerance;
+    private final long[][] counts;
+    private final double[][] meanLag;
+    private final double[][] gamma;
+    private final VariogramCloud cloud;
+
+    private EmpiricalVariogram(double[] edges, double[] directions, double tolerance, long[][] counts,
+            double[][] meanLag, double[][] gamma, VariogramCloud cloud) {
+        this.edges = edges;
+        this.directions = directions;
+        this.tolerance = tolerance;
+        this.counts = counts;
+        this.meanLag = meanLag;
+        this.gamma = gamma;
+        this.cloud = cloud;
+    }
+
+    /**
+     * Estimates the trace-semivariogram of the densities at the locations.
+     *
+     * @throws IllegalArgumentException if the sizes differ, there are fewer than 2 locations,
+     *                                  or directions are requested for geographic locations
+     */
+    public static EmpiricalVariogram of(Locations locations, DensitySet densities, VariogramOptions options) {
+        Objects.requireNonNull(densities, "densities");
+        Objects.requireNonNull(locations, "locations");
+        if (locations.size() != densities.size()) {
+            throw new IllegalArgumentException("locations (" + locations.size() + ") and densities ("
+                    + densities.size() + ") differ in number");
+        }
+        return of(locations, densities.coordinatesRowMajor(), densities.dimension(), options);
+    }
+
+    /** The same from a row-major n × k coordinate array (not modified). */
+    static EmpiricalVariogram of(Locations loc, double[] y, int k, VariogramOptions options) {
+        Objects.requireNonNull(options, "options");
+        int n = loc.size();
+        if (n < 2) {
+            throw new IllegalArgumentException("need at least 2 locations for a variogram, got " + n);
+        }
+        boolean geo = loc.kind() == Locations.Kind.GEOGRAPHIC;
+        double[] dirs = options.directions();
+        if (dirs != null && geo) {
+            throw new IllegalArgumentException("direction sectors need planar locations");
+        }
+        double[] bb = loc.boundingBox();
+        double diag = geo ? geoDiameterBound(loc) : Math.hypot(bb[2] - bb[0], bb[3] - bb[1]);
+        double[] e = options.resolveEdges(diag / 2);
+        int nb = e.length - 1;
+        int ns = dirs == null ? 1 : dirs.length;
+        double maxLag = e[nb];
+        // spatial vectors: planar (x, y); geographic unit vectors (3D) with chord distances
+        int dim = geo ? 3 : 2;
+        double[] p = new double[n * dim];
+        for (int i = 0; i < n; i++) {
+            if (geo) {
+                double lon = Math.toRadians(loc.x(i)), lat = Math.toRadians(loc.y(i));
+                p[3 * i] = Math.cos(lat) * Math.cos(lon);
+                p[3 * i + 1] = Math.cos(lat) * Math.sin(lon);
+                p[3 * i + 2] = Math.sin(lat);
+            } else {
+                p[2 * i] = loc.x(i);
+                p[2 * i + 1] = loc.y(i);
+            }
+        }
+        double max2 = geo ? sq(2 * Math.sin(Math.min(Math.PI, maxLag / Locations.EARTH_RADIUS_KM) / 2)) : maxLag * maxLag;
+        double[] nsq = Kernels.rowNormsSq(y, n, k);
+        double[] yt = new double[k * n];
+        for (int i = 0; i < n; i++) {
+            for (int c = 0; c < k; c++) {
+                yt[c * n + i] = y[i * k + c];
+            }
+        }
+        double[] dcos = new double[ns];
+        double[] dsin = new double[ns];
+        double cosTol = 0;
+        if (dirs != null) {
+            for (int s = 0; s < ns; s++) {
+                dcos[s] = Math.cos(Math.toRadians(dirs[s]));
+                dsin[s] = Math.sin(Math.toRadians(dirs[s]));
+            }
+            cosTol = Math.cos(Math.toRadians(options.tolerance()));
+        }
+        boolean uniform = options.uniformBins() && e[0] == 0;
+        double invWidth = uniform ? nb / maxLag : 0;
+        int tiles = (n + ITILE - 1) / ITILE;
+        double[][] pg = new double[tiles][];
+        double[][] ph = new double[tiles][];
+        long[][] pc = new long[tiles][];
+        final double cosT = cosTol;
+        final boolean directional = dirs != null;
+        Kernels.forEachBlock(tiles, options.parallel() && Kernels.parallelWorth((long) n * n * k / 2), t -> {
+            double[] sg = new double[ns * nb];
+            double[] sh = new double[ns * nb];
+            long[] sc = new long[ns * nb];
+            double[] dot = new double[JTILE];
+            int i0 = t * ITILE, i1 = Math.min(n, i0 + ITILE);
+            for (int j0 = i0; j0 < n; j0 += JTILE) {
+                int j1 = Math.min(n, j0 + JTILE);
+                for (int i = i0; i < i1; i++) {
+                    int js = Math.max(j0, i + 1);
+                    if (js >= j1) {
+                        continue;
+                    }
+                    int len = j1 - js;
+                    Arrays.fill(dot, 0, len, 0.0);
+                    int io = i * k;
+                    for (int c = 0; c < k; c++) {
+                        double a = y[io + c];
+                        int off = c * n + js;
+                        for (int q = 0; q < len; q++) {
+                            dot[q] += a * yt[off + q];
+                        }
+                    }
+                    double ni = nsq[i];
+                    for (int q = 0; q < len; q++) {
+                        int j = js + q;
+                        double d2;
+                        double dx = 0, dy = 0;
+                        if (geo) {
+                            double ex = p[3 * i] - p[3 * j], ey = p[3 * i + 1] - p[3 * j + 1], ez = p[3 * i + 2] - p[3 * j + 2];
+                            d2 = ex * ex + ey * ey + ez * ez;
+                        } else {
+                            dx = p[2 * j] - p[2 * i];
+                            dy = p[2 * j + 1] - p[2 * i + 1];
+                            d2 = dx * dx + dy * dy;
+                        }
+                        if (d2 > max2) {
+                            continue;
+                        }
+                        double h = geo ? 2 * Locations.EARTH_RADIUS_KM * Math.asin(Math.min(1, Math.sqrt(d2) / 2))
+                                : Math.sqrt(d2);
+                        int b = uniform ? Math.min(nb - 1, (int) (h * invWidth)) : bin(e, h);
+                        if (b < 0) {
+                            continue;
+                        }
+                        double g = ni + nsq[j] - 2 * dot[q];
+                        if (g < 0) {
+                            g = 0;
+                        }
+                        if (!directional) {
+                            sg[b] += g;
+                            sh[b] += h;
+                            sc[b]++;
+                        } else {
+                            for (int s = 0; s < ns; s++) {
+                                if (Math.abs(dx * dcos[s] + dy * dsin[s]) >= cosT * h) {
+                                    int o = s * nb + b;
+                                    sg[o] += g;
+                                    sh[o] += h;
+                                    sc[o]++;
+                                }
+                            }
+                        }
+                    }
+                }
+            }
+            pg[t] = sg;
+            ph[t] = sh;
+            pc[t] = sc;
+        });
+        long[][] counts = new long[ns][nb];
+        double[][] lag = new double[ns][nb];
+        double[][] gam = new double[ns][nb];
+        for (int t = 0; t < tiles; t++) {
+            for (int s = 0; s < ns; s++) {
+                for (int b = 0; b < nb; b++) {
+                    counts[s][b] += pc[t][s * nb + b];
+                    lag[s][b] += ph[t][s * nb + b];
+                    gam[s][b] += pg[t][s * nb + b];
+                }
+            }
+        }
+        for (int s = 0; s < ns; s++) {
+            for (int b = 0; b < nb; b++) {
+                long c = counts[s][b];
+                lag[s][b] = c > 0 ? lag[s][b] / c : Double.NaN;
+                gam[s][b] = c > 0 ? gam[s][b] / (2.0 * c) : Double.NaN;
+            }
+        }
+        VariogramCloud cloud = options.cloudPairs() > 0 ? cloud(loc, y, k, maxLag, options.cloudPairs()) : null;
+        return new EmpiricalVariogram(e, dirs, options.tolerance(), counts, lag, gam, cloud);
+    }
+
+    private static double sq(double v) {
+        return v * v;
+    }
+
+    /** Upper bound of the largest great-circle distance between the locations (for the default maximum lag). */
+    private static double geoDiameterBound(Locations loc) {
+        double[] bb = loc.boundingBox();
+        return Math.min(Math.PI * Locations.EARTH_RADIUS_KM, loc.distance(bb[0], bb[1], bb[2], bb[3])
+                + loc.distance(bb[0], bb[3], bb[2], bb[1]));
+    }
+
+    /** Bin of lag h for edges e: (e_b, e_{b+1}], first bin closed at e_0; −1 outside. */
+    private static int bin(double[] e, double h) {
+        if (h < e[0] || h > e[e.length - 1]) {
+            return -1;
+        }
+        int lo = 0, hi = e.length - 1; // find smallest index hi with e[hi] >= h
+        while (hi - lo > 1) {
+            int mid = (lo + hi) >>> 1;
+            if (e[mid] >= h) {
+                hi = mid;
+            } else {
+                lo = mid;
+            }
+        }
+        return hi - 1;
+    }
+
+    private static VariogramCloud cloud(Locations loc, double[] y, int k, double maxLag, int limit) {
+        int n = loc.size();
+        int cap = Math.min(limit, 1 << 16);
+        int[] a = new int[cap];
+        int[] b = new int[cap];
+        double[] d = new double[cap];
+        double[] g = new double[cap];
+        int count = 0;
+        boolean truncated = false;
+        outer:
+        for (int i = 0; i < n; i++) {
+            for (int j = i + 1; j < n; j++) {
+                double h = loc.distance(i, j);
+                if (h > maxLag) {
+                    continue;
+                }
+                if (count == limit) {
+                    truncated = true;
+                    break outer;
+                }
+                if (count == a.length) {
+                    int nc = (int) Math.min(limit, 2L * count);
+                    a = Arrays.copyOf(a, nc);
+                    b = Arrays.copyOf(b, nc);
+                    d = Arrays.copyOf(d, nc);
+                    g = Arrays.copyOf(g, nc);
+                }
+                double s = 0;
+                for (int c = 0; c < k; c++) {
+                    double t = y[i * k + c] - y[j * k + c];
+                    s += t * t;
+                }
+                a[count] = i;
+                b[count] = j;
+                d[count] = h;
+                g[count] = 0.5 * s;
+                count++;
+            }
+        }
+        return new VariogramCloud(Arrays.copyOf(a, count), Arrays.copyOf(b, count), Arrays.copyOf(d, count),
+                Arrays.copyOf(g, count), truncated);
+    }
+
+    /** Number of bins. */
+    public int binCount() {
+        return edges.length - 1;
+    }
+
+    /** Number of sectors (1 when omnidirectional). */
+    public int sectorCount() {
+        return counts.length;
+    }
+
+    /** Bin edges e_0..e_B. */
+    public double[] edges() {
+        return edges.clone();
+    }
+
+    /** Sector directions in degrees, or an empty array when omnidirectional. */
+    public double[] directions() {
+        return directions == null ? new double[0] : directions.clone();
+    }
+
+    /** Angular tolerance in degrees (NaN when omnidirectional). */
+    public double tolerance() {
+        return tolerance;
+    }
+
+    /** Pair counts per bin of sector s. */
+    public long[] counts(int sector) {
+        return counts[checkSector(sector)].clone();
+    }
+
+    /** Mean lag per bin of sector s (NaN for an empty bin). */
+    public double[] meanLags(int sector) {
+        return meanLag[checkSector(sector)].clone();
+    }
+
+    /** γ̂ per bin of sector s (NaN for an empty bin). */
+    public double[] semivariances(int sector) {
+        return gamma[checkSector(sector)].clone();
+    }
+
+    /** Pair counts of the first (or only) sector. */
+    public long[] counts() {
+        return counts(0);
+    }
+
+    /** Mean lags of the first (or only) sector. */
+    public double[] meanLags() {
+        return meanLags(0);
+    }
+
+    /** γ̂ of the first (or only) sector. */
+    public double[] semivariances() {
+        return semivariances(0);
+    }
+
+    /** The variogram cloud, or null if not requested. */
+    public VariogramCloud cloud() {
+        return cloud;
+    }
+
+    private int checkSector(int s) {
+        if (s < 0 || s >= counts.length) {
+            throw new IllegalArgumentException("sector " + s + " out of range [0, " + counts.length + ")");
+        }
+        return s;
+    }
+
+    @Override
+    public String toString() {
+        return "EmpiricalVariogram[bins=" + binCount() + ", sectors=" + sectorCount() + ", maxLag="
+                + edges[edges.length - 1] + "]";
+    }
+}

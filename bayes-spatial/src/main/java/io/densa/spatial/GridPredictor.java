@@ -1,0 +1,386 @@
+package io.densa.spatial;
+
+import io.densa.core.DensitySet;
+import io.densa.core.internal.Kernels;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Objects;
+import java.util.function.Consumer;
+import java.util.function.ToDoubleFunction;
+import org.locationtech.jts.geom.Coordinate;
+import org.locationtech.jts.geom.Envelope;
+import org.locationtech.jts.geom.GeometryFactory;
+import org.locationtech.jts.geom.prep.PreparedGeometry;
+
+/**
+ * Tile-by-tile grid prediction (package-private engine behind {@link Kriging#predictGrid}).
+ *
+ * <p>Local neighbourhoods: for a tile with centre t and half-diagonal δ, the k nearest data
+ * locations of any cell c lie within d_k(t) + 2δ of t (triangle inequality: d_k(c) ≤ d_k(t) + δ),
+ * so one radius query per tile gives a candidate list, and each cell selects its k nearest from it
+ * exactly (ties by index, as {@link NeighbourIndex#nearest}). Factorised systems are cached per
+ * tile by neighbour set, so adjacent cells that share their neighbours share one factorisation;
+ * station–station covariances come from the kriging's station matrix. Global neighbourhood
+ * without variance uses the dual form: predictions = C0 α + F0 β for the tile's m × n covariance
+ * block C0, with α, β from one factorisation (O(nK) per cell after the covariances).
+ */
+final class GridPredictor {
+    private static final int CACHE_LIMIT = 2048;
+
+    private GridPredictor() {
+    }
+
+    static void run(Kriging kr, Grid grid, GridOptions opt, Consumer<GridTile> consumer) {
+        Objects.requireNonNull(grid, "grid");
+        Objects.requireNonNull(opt, "options");
+        Objects.requireNonNull(consumer, "consumer");
+        if (kr.drift != null && kr.drift.covariateCount() > 0 && kr.type == Kriging.Type.UNIVERSAL) {
+            throw new IllegalArgumentException("grid prediction with external drift covariates is not supported;"
+                    + " predict cell by cell with predict(x, y, covariates)");
+        }
+        int ts = opt.tileSize();
+        int tilesX = (grid.columns() + ts - 1) / ts;
+        int tilesY = (grid.rows() + ts - 1) / ts;
+        int total = tilesX * tilesY;
+        boolean dual = kr.options.neighbourhood().isGlobal() && !opt.variance();
+        Dual d = dual ? new Dual(kr) : null;
+        if (kr.options.neighbourhood().isGlobal()) {
+            kr.globalSystem();
+        }
+        int batch = Math.max(1, 2 * Runtime.getRuntime().availableProcessors());
+        GridTile[] out = new GridTile[batch];
+        for (int start = 0; start < total; start += batch) {
+            int count = Math.min(batch, total - start);
+            final int s0 = start;
+            Kernels.forEachBlock(count, opt.parallel(), b -> {
+                int t = s0 + b;
+                out[b] = tile(kr, grid, opt, t % tilesX, t / tilesX, d);
+            });
+            for (int b = 0; b < count; b++) {
+                if (out[b] != null) {
+                    consumer.accept(out[b]);
+                }
+                out[b] = null;
+            }
+            if (opt.listener() != null) {
+                opt.listener().progress(start + count, total);
+            }
+        }
+    }
+
+    /** Dual-form weights for the global neighbourhood: α = C⁻¹(Y − Fβ) (n × K), β (p × K). */
+    static final class Dual {
+        final double[] alpha;
+        final double[] beta;
+
+        Dual(Kriging kr) {
+            LocalSystem g = kr.globalSystem();
+            int n = kr.n, p = kr.p, k = kr.k;
+            double[][] b = kr.driftCoefficients();
+            beta = new double[p * k];
+            for (int j = 0; j < p; j++) {
+                System.arraycopy(b[j], 0, beta, j * k, k);
+            }
+            double[] a = new double[n * k];
+            double[] col = new double[n];
+            for (int c = 0; c < k; c++) {
+                for (int r = 0; r < n; r++) {
+                    double s = g.ly[r * k + c];
+                    for (int j = 0; j < p; j++) {
+                        s -= g.g[r * p + j] * beta[j * k + c];
+                    }
+                    col[r] = s;
+                }
+                LocalSystem.backward(g.l, n, col);
+                for (int r = 0; r < n; r++) {
+                    a[r * k + c] = col[r];
+                }
+            }
+            alpha = a;
+        }
+    }
+
+    private static final class Key {
+        final int[] idx;
+        final int hash;
+
+        Key(int[] idx) {
+            this.idx = idx;
+            this.hash = Arrays.hashCode(idx);
+        }
+
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof Key && Arrays.equals(idx, ((Key) o).idx);
+        }
+
+        @Override
+        public int hashCode() {
+            return hash;
+        }
+    }
+
+    private static GridTile tile(Kriging kr, Grid grid, GridOptions opt, int tx, int ty, Dual dual) {
+        int ts = opt.tileSize();
+        int c0 = tx * ts, c1 = Math.min(grid.columns(), c0 + ts);
+        int r0 = ty * ts, r1 = Math.min(grid.rows(), r0 + ts);
+        int cap = (c1 - c0) * (r1 - r0);
+        int[] cols = new int[cap];
+        int[] rows = new int[cap];
+        PreparedGeometry mask = grid.prepared();
+        boolean all = true;
+        boolean none = false;
+        if (mask != null) {
+            Envelope env = new Envelope(grid.x(c0), grid.x(c1 - 1), grid.y(r0), grid.y(r1 - 1));
+            GeometryFactory gf = grid.mask().getFactory();
+            org.locationtech.jts.geom.Geometry box = gf.toGeometry(env);
+            all = mask.covers(box);
+            none = !all && mask.disjoint(box);
+        }
+        if (none) {
+            return null;
+        }
+        int m = 0;
+        GeometryFactory gf = mask == null ? null : grid.mask().getFactory();
+        for (int r = r0; r < r1; r++) {
+            for (int c = c0; c < c1; c++) {
+                if (all || mask.covers(gf.createPoint(new Coordinate(grid.x(c), grid.y(r))))) {
+                    cols[m] = c;
+                    rows[m] = r;
+                    m++;
+                }
+            }
+        }
+        if (m == 0) {
+            return null;
+        }
+        cols = Arrays.copyOf(cols, m);
+        rows = Arrays.copyOf(rows, m);
+        int k = kr.k;
+        double[] coords = new double[m * k];
+        double[] var = opt.variance() ? new double[m] : null;
+        if (dual != null) {
+            dualTile(kr, grid, cols, rows, coords, dual);
+        } else if (kr.options.neighbourhood().isGlobal()) {
+            LocalSystem g = kr.globalSystem();
+            double[] cv = new double[kr.n];
+            double[] f0 = new double[kr.p];
+            LocalSystem.Scratch sc = new LocalSystem.Scratch(kr.p);
+            for (int q = 0; q < m; q++) {
+                double x = grid.x(cols[q]), y = grid.y(rows[q]);
+                for (int i = 0; i < kr.n; i++) {
+                    cv[i] = kr.cov(kr.loc.distanceTo(i, x, y));
+                }
+                kr.driftAt(x, y, null, f0);
+                double v = g.predict(cv, f0, kr.c00, kr.centre(), coords, q * k, null, sc);
+                if (var != null) {
+                    var[q] = v;
+                }
+            }
+        } else {
+            localTile(kr, grid, cols, rows, coords, var);
+        }
+        DensitySet set = DensitySet.ofRowMajor(kr.space, coords, m, null);
+        double[] t = opt.thresholds();
+        double[][] tails = new double[t.length][];
+        for (int i = 0; i < t.length; i++) {
+            tails[i] = set.tailProbability(t[i]);
+        }
+        double[] pr = opt.probabilities();
+        double[][] qs = new double[pr.length][];
+        for (int i = 0; i < pr.length; i++) {
+            qs[i] = set.quantiles(pr[i]);
+        }
+        double[] means = opt.means() ? set.means() : null;
+        List<ToDoubleFunction<double[]>> fs = opt.functions();
+        double[][] vals = new double[fs.size()][m];
+        if (!fs.isEmpty()) {
+            double[] row = new double[k];
+            for (int q = 0; q < m; q++) {
+                for (int f = 0; f < fs.size(); f++) {
+                    System.arraycopy(coords, q * k, row, 0, k);
+                    vals[f][q] = fs.get(f).applyAsDouble(row);
+                }
+            }
+        }
+        return new GridTile(tx, ty, cols, rows, set, var, tails, qs, means, vals);
+    }
+
+    private static void dualTile(Kriging kr, Grid grid, int[] cols, int[] rows, double[] coords, Dual d) {
+        int m = cols.length, n = kr.n, k = kr.k, p = kr.p;
+        int chunk = 64;
+        double[] c0 = new double[chunk * n];
+        double[] part = new double[chunk * k];
+        double[] f0 = new double[p];
+        for (int q0 = 0; q0 < m; q0 += chunk) {
+            int len = Math.min(chunk, m - q0);
+            for (int q = 0; q < len; q++) {
+                double x = grid.x(cols[q0 + q]), y = grid.y(rows[q0 + q]);
+                int o = q * n;
+                for (int i = 0; i < n; i++) {
+                    c0[o + i] = kr.cov(kr.loc.distanceTo(i, x, y));
+                }
+            }
+            Kernels.multiply(c0, len, n, d.alpha, k, part, false);
+            for (int q = 0; q < len; q++) {
+                double x = grid.x(cols[q0 + q]), y = grid.y(rows[q0 + q]);
+                kr.driftAt(x, y, null, f0);
+                int o = (q0 + q) * k;
+                double[] centre = kr.centre();
+                for (int c = 0; c < k; c++) {
+                    double s = centre[c] + part[q * k + c];
+                    for (int j = 0; j < p; j++) {
+                        s += f0[j] * d.beta[j * k + c];
+                    }
+                    coords[o + c] = s;
+                }
+            }
+        }
+    }
+
+    private static void localTile(Kriging kr, Grid grid, int[] cols, int[] rows, double[] coords, double[] var) {
+        int m = cols.length, k = kr.k, p = kr.p;
+        Neighbourhood hood = kr.options.neighbourhood();
+        // tile centre and half-diagonal
+        double xa = grid.x(cols[0]), xb = xa, ya = grid.y(rows[0]), yb = ya;
+        for (int q = 0; q < m; q++) {
+            xa = Math.min(xa, grid.x(cols[q]));
+            xb = Math.max(xb, grid.x(cols[q]));
+            ya = Math.min(ya, grid.y(rows[q]));
+            yb = Math.max(yb, grid.y(rows[q]));
+        }
+        double cx = 0.5 * (xa + xb), cy = 0.5 * (ya + yb);
+        Locations loc = kr.loc;
+        double delta = Math.max(Math.max(loc.distance(cx, cy, xa, ya), loc.distance(cx, cy, xb, yb)),
+                Math.max(loc.distance(cx, cy, xa, yb), loc.distance(cx, cy, xb, ya)));
+        int want = Math.min(hood.count(), kr.n);
+        int[] cand;
+        if (hood.kind() == Neighbourhood.Kind.NEAREST) {
+            double rk = kr.index.kthDistance(cx, cy, want);
+            cand = kr.index.within(cx, cy, (rk + 2 * delta) * (1 + 1e-12) + 1e-300);
+        } else {
+            cand = kr.index.within(cx, cy, hood.radius() + delta);
+        }
+        int nc = cand.length;
+        double[] dist = new double[nc];
+        Heap heap = new Heap(want);
+        Map<Key, LocalSystem> cache = new HashMap<>();
+        double[] f0 = new double[p];
+        LocalSystem.Scratch sc = new LocalSystem.Scratch(p);
+        int need = Math.max(1, p + 1);
+        double[] c0 = new double[want];
+        for (int q = 0; q < m; q++) {
+            double x = grid.x(cols[q]), y = grid.y(rows[q]);
+            heap.clear();
+            for (int a = 0; a < nc; a++) {
+                double dd = loc.distanceTo(cand[a], x, y);
+                dist[a] = dd;
+                if (hood.kind() == Neighbourhood.Kind.RADIUS && dd > hood.radius()) {
+                    continue;
+                }
+                heap.offer(dd, cand[a]);
+            }
+            int[] nb = heap.sortedIndices();
+            if (nb.length < Math.min(need, kr.n)) {
+                // fall back to the exact per-target path, which reports the failure with diagnostics
+                kr.neighbours(x, y, -1);
+            }
+            Key key = new Key(nb);
+            LocalSystem sys = cache.get(key);
+            if (sys == null) {
+                if (cache.size() >= CACHE_LIMIT) {
+                    cache.clear();
+                }
+                sys = LocalSystem.build(kr, nb);
+                cache.put(key, sys);
+            }
+            int mm = nb.length;
+            double[] cv = mm == c0.length ? c0 : new double[mm];
+            for (int r = 0; r < mm; r++) {
+                cv[r] = kr.cov(loc.distanceTo(nb[r], x, y));
+            }
+            kr.driftAt(x, y, null, f0);
+            double v = sys.predict(cv, f0, kr.c00, kr.centre(), coords, q * k, null, sc);
+            if (var != null) {
+                var[q] = v;
+            }
+        }
+    }
+
+    /** Bounded max-heap of (distance, index) keeping the smallest entries, ordered by (distance, index). */
+    static final class Heap {
+        private final double[] d;
+        private final int[] ix;
+        private final int cap;
+        private int size;
+
+        Heap(int cap) {
+            this.cap = cap;
+            d = new double[cap];
+            ix = new int[cap];
+        }
+
+        void clear() {
+            size = 0;
+        }
+
+        private boolean greater(int a, int b) {
+            return d[a] > d[b] || (d[a] == d[b] && ix[a] > ix[b]);
+        }
+
+        void offer(double dist, int index) {
+            if (size < cap) {
+                d[size] = dist;
+                ix[size] = index;
+                int c = size++;
+                while (c > 0) {
+                    int par = (c - 1) >> 1;
+                    if (greater(c, par)) {
+                        swap(c, par);
+                        c = par;
+                    } else {
+                        break;
+                    }
+                }
+                return;
+            }
+            if (dist > d[0] || (dist == d[0] && index > ix[0])) {
+                return;
+            }
+            d[0] = dist;
+            ix[0] = index;
+            int c = 0;
+            while (true) {
+                int l = 2 * c + 1, r = l + 1, big = c;
+                if (l < size && greater(l, big)) {
+                    big = l;
+                }
+                if (r < size && greater(r, big)) {
+                    big = r;
+                }
+                if (big == c) {
+                    break;
+                }
+                swap(c, big);
+                c = big;
+            }
+        }
+
+        private void swap(int a, int b) {
+            double td = d[a];
+            d[a] = d[b];
+            d[b] = td;
+            int ti = ix[a];
+            ix[a] = ix[b];
+            ix[b] = ti;
+        }
+
+        int[] sortedIndices() {
+            int[] out = Arrays.copyOf(ix, size);
+            Arrays.sort(out);
+            return out;
+        }
+    }
+}

@@ -1,0 +1,734 @@
+package io.densa.spatial;
+
+import io.densa.core.BayesSpace;
+import io.densa.core.DensaException;
+import io.densa.core.Density;
+import io.densa.core.DensitySet;
+import io.densa.core.internal.Kernels;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Objects;
+import java.util.function.Consumer;
+import org.locationtech.jts.geom.Coordinate;
+import org.locationtech.jts.geom.Envelope;
+import org.locationtech.jts.geom.GeometryFactory;
+import org.locationtech.jts.geom.Point;
+import org.locationtech.jts.geom.Polygon;
+import org.locationtech.jts.geom.prep.PreparedGeometry;
+import org.locationtech.jts.geom.prep.PreparedGeometryFactory;
+
+/**
+ * Kriging of densities: the predictor X̂(s_0) = ⊕_i λ_i ⊙ X(s_i) has coordinates Σ_i λ_i c_i, so
+ * every prediction is a density of the data's space. The weights solve the scalar kriging system
+ * of the trace-covariance C(h) = sill − γ(h) of a {@link VariogramModel} (Giraldo, Delicado,
+ * Mateu (2011), Ordinary kriging for function-valued spatial data, Environ. Ecol. Stat. 18 — from
+ * memory; REFERENCES.md §7):
+ * <ul>
+ * <li>simple kriging (known mean density m): C λ = c0, X̂ = m ⊕ ⊕ λ_i ⊙ (X_i ⊖ m),
+ *     σ² = C(0) − λᵀc0;</li>
+ * <li>ordinary kriging: C λ + μ1 = c0, Σ λ_i = 1, σ² = C(0) − λᵀc0 − μ;</li>
+ * <li>universal kriging with drift functions F: C λ + F μ = c0, Fᵀλ = f0,
+ *     σ² = C(0) − λᵀc0 − μᵀf0 ("A Universal Kriging predictor for spatially dependent functional
+ *     data of a Hilbert Space", Electron. J. Statist. 7 (2013), doi:10.1214/13-EJS843 — from
+ *     memory).</li>
+ * </ul>
+ * σ² is the kriging variance E‖X(s_0) ⊖ X̂(s_0)‖²_B in B2 norm squared. An unbounded (power)
+ * variogram is used through the pseudo-covariance A − γ(h) with a constant A; ordinary and
+ * universal weights and variances do not depend on A because the weights sum to one; simple
+ * kriging needs a bounded model. Measurement-error variances follow the convention of
+ * {@link KrigingOptions}.
+ *
+ * <p>Immutable after construction and safe to share between threads; factorisations are computed
+ * lazily (the global one once).
+ */
+public final class Kriging {
+    /** The kriging variant. */
+    public enum Type {
+        /** Known mean density. */
+        SIMPLE,
+        /** Unknown constant mean. */
+        ORDINARY,
+        /** Unknown drift Σ f_l(s) β_l. */
+        UNIVERSAL
+    }
+
+    private static final int STATION_MATRIX_LIMIT = 4096;
+
+    final Type type;
+    final Locations loc;
+    final NeighbourIndex index;
+    final BayesSpace space;
+    final double[] y;
+    final int n;
+    final int k;
+    final VariogramModel model;
+    final Drift drift;
+    final int p;
+    private final double[] fRows;
+    private final double cx;
+    private final double cy;
+    private final double scale;
+    private final double[] centre;
+    private final double[] diagExtra;
+    private final double[] errorVariances;
+    final KrigingOptions options;
+    final double c00;
+    private final double pseudoSill;
+    private volatile double[] stationCov;
+    private volatile LocalSystem global;
+
+    private Kriging(Type type, Locations loc, DensitySet data, Density mean, VariogramModel model, Drift drift,
+            KrigingOptions options) {
+        Objects.requireNonNull(loc, "locations");
+        Objects.requireNonNull(data, "densities");
+        Objects.requireNonNull(model, "model");
+        Objects.requireNonNull(options, "options");
+        this.type = type;
+        this.loc = loc;
+        this.n = loc.size();
+        if (data.size() != n) {
+            throw new IllegalArgumentException("locations (" + n + ") and densities (" + data.size()
+                    + ") differ in number");
+        }
+        this.space = data.space();
+        this.k = data.dimension();
+        this.y = data.coordinatesRowMajor();
+        this.model = model;
+        this.drift = drift;
+        this.options = options;
+        this.p = type == Type.SIMPLE ? 0 : drift.size();
+        int need = p + 1;
+        if (n < Math.max(1, need)) {
+            throw new IllegalArgumentException(type + " kriging with " + p + " drift function(s) needs at least "
+                    + need + " locations, got " + n);
+        }
+        Neighbourhood hood = options.neighbourhood();
+        if (!hood.isGlobal() && hood.count() < need) {
+            throw new IllegalArgumentException("a neighbourhood of at most " + hood.count() + " locations cannot"
+                    + " support " + type + " kriging with " + p + " drift function(s); need at least " + need);
+        }
+        if (type == Type.SIMPLE && !model.bounded()) {
+            throw new IllegalArgumentException("simple kriging needs a bounded variogram model, got " + model);
+        }
+        if (drift != null && drift.covariateCount() > 0 && drift.covariateRows() != n) {
+            throw new IllegalArgumentException("drift covariates have " + drift.covariateRows() + " rows but there are "
+                    + n + " locations");
+        }
+        double[] ev = options.errorVariances();
+        if (ev != null && ev.length != n) {
+            throw new IllegalArgumentException("error variances have " + ev.length + " entries but there are " + n
+                    + " locations");
+        }
+        this.errorVariances = ev == null ? new double[n] : ev;
+        this.diagExtra = new double[n];
+        for (int i = 0; i < n; i++) {
+            diagExtra[i] = errorVariances[i] + options.coincidentNugget();
+        }
+        this.centre = new double[k];
+        if (type == Type.SIMPLE) {
+            Objects.requireNonNull(mean, "mean");
+            if (!mean.space().equals(space)) {
+                throw new IllegalArgumentException("the mean density's space " + mean.space()
+                        + " differs from the data's space " + space);
+            }
+            System.arraycopy(mean.coordinates(), 0, centre, 0, k);
+        }
+        this.index = NeighbourIndex.of(loc);
+        double[] bb = loc.boundingBox();
+        this.cx = 0.5 * (bb[0] + bb[2]);
+        this.cy = 0.5 * (bb[1] + bb[3]);
+        double s = 0.5 * Math.max(bb[2] - bb[0], bb[3] - bb[1]);
+        this.scale = s > 0 ? s : 1;
+        double diam = loc.distance(bb[0], bb[1], bb[2], bb[3]);
+        this.pseudoSill = model.bounded() ? model.sill() : 2 * model.gammaUnchecked(Math.max(diam, 1e-300)) + 1;
+        this.c00 = pseudoSill;
+        this.fRows = new double[n * p];
+        double[] cov = new double[drift == null ? 0 : drift.covariateCount()];
+        for (int i = 0; i < n && p > 0; i++) {
+            for (int j = 0; j < cov.length; j++) {
+                cov[j] = drift.covariate(i, j);
+            }
+            drift.evaluate((loc.x(i) - cx) / scale, (loc.y(i) - cy) / scale, cov, fRows, i * p);
+        }
+        checkCoincident();
+    }
+
+    private void checkCoincident() {
+        int[][] pairs = index.closePairs(0);
+        for (int[] pr : pairs) {
+            if (diagExtra[pr[0]] > 0 || diagExtra[pr[1]] > 0) {
+                continue;
+            }
+            throw new IllegalArgumentException("locations " + pr[0] + " and " + pr[1] + " coincide at (" + loc.x(pr[0])
+                    + ", " + loc.y(pr[0]) + ") (" + pairs.length + " coincident pair(s) in total): merge them, give"
+                    + " error variances, or use KrigingOptions.withCoincidentNugget");
+        }
+    }
+
+    /**
+     * Ordinary kriging (unknown constant mean density).
+     *
+     * @throws IllegalArgumentException on mismatched sizes, fewer than 2 locations, coincident
+     *                                  locations (unless allowed by the options) or invalid options
+     */
+    public static Kriging ordinary(Locations locations, DensitySet densities, VariogramModel model,
+            KrigingOptions options) {
+        return new Kriging(Type.ORDINARY, locations, densities, null, model, Drift.constant(), options);
+    }
+
+    /**
+     * Simple kriging with a known mean density (same space as the data); the model must be bounded.
+     */
+    public static Kriging simple(Locations locations, DensitySet densities, Density mean, VariogramModel model,
+            KrigingOptions options) {
+        return new Kriging(Type.SIMPLE, locations, densities, mean, model, null, options);
+    }
+
+    /**
+     * Universal kriging with the given drift (monomials in the coordinates and optional external
+     * covariates; a drift of degree 0 without covariates is ordinary kriging).
+     */
+    public static Kriging universal(Locations locations, DensitySet densities, Drift drift, VariogramModel model,
+            KrigingOptions options) {
+        Objects.requireNonNull(drift, "drift");
+        return new Kriging(Type.UNIVERSAL, locations, densities, null, model, drift, options);
+    }
+
+    // ------------------------------------------------------------------ internals used by systems
+
+    int driftSize() {
+        return p;
+    }
+
+    int dimension() {
+        return k;
+    }
+
+    double[] centre() {
+        return centre;
+    }
+
+    double conditionLimit() {
+        return options.conditionLimit();
+    }
+
+    double diagonalExtra(int i) {
+        return diagExtra[i];
+    }
+
+    double errorVariance(int i) {
+        return errorVariances[i];
+    }
+
+    void driftRow(int i, double[] out, int off) {
+        System.arraycopy(fRows, i * p, out, off, p);
+    }
+
+    /** Drift vector at a target into out[0..p). */
+    void driftAt(double x, double yy, double[] cov, double[] out) {
+        if (p == 0) {
+            return;
+        }
+        int q = drift.covariateCount();
+        if (q > 0) {
+            if (cov == null || cov.length != q) {
+                throw new IllegalArgumentException("the drift has " + q + " covariate(s); the target supplies "
+                        + (cov == null ? "none" : cov.length));
+            }
+            for (int j = 0; j < q; j++) {
+                if (!Double.isFinite(cov[j])) {
+                    throw new IllegalArgumentException("target covariate " + j + " is not finite: " + cov[j]);
+                }
+            }
+        }
+        drift.evaluate((x - cx) / scale, (yy - cy) / scale, cov, out, 0);
+    }
+
+    /** The (pseudo-)covariance at lag h; C(0) at h = 0. */
+    double cov(double h) {
+        if (h == 0) {
+            return c00;
+        }
+        return pseudoSill - model.gammaUnchecked(h);
+    }
+
+    double stationCovariance(int i, int j) {
+        double[] sc = stationMatrix();
+        return sc != null ? sc[i * n + j] : cov(loc.distance(i, j));
+    }
+
+    private double[] stationMatrix() {
+        if (n > STATION_MATRIX_LIMIT) {
+            return null;
+        }
+        double[] sc = stationCov;
+        if (sc == null) {
+            synchronized (this) {
+                sc = stationCov;
+                if (sc == null) {
+                    double[] m = new double[n * n];
+                    int blocks = (n + 63) / 64;
+                    Kernels.forEachBlock(blocks, options.parallel() && n > 256, b -> {
+                        for (int i = b * 64; i < Math.min(n, b * 64 + 64); i++) {
+                            for (int j = 0; j < n; j++) {
+                                m[i * n + j] = i == j ? c00 : cov(loc.distance(i, j));
+                            }
+                        }
+                    });
+                    stationCov = m;
+                    sc = m;
+                }
+            }
+        }
+        return sc;
+    }
+
+    LocalSystem globalSystem() {
+        LocalSystem g = global;
+        if (g == null) {
+            synchronized (this) {
+                g = global;
+                if (g == null) {
+                    int[] all = new int[n];
+                    for (int i = 0; i < n; i++) {
+                        all[i] = i;
+                    }
+                    g = LocalSystem.build(this, all);
+                    global = g;
+                }
+            }
+        }
+        return g;
+    }
+
+    /** Neighbour indices (ascending) for a target, leaving out location {@code exclude} (−1 for none). */
+    int[] neighbours(double x, double yy, int exclude) {
+        Neighbourhood hood = options.neighbourhood();
+        int[] nb;
+        switch (hood.kind()) {
+            case GLOBAL: {
+                nb = new int[exclude >= 0 ? n - 1 : n];
+                int c = 0;
+                for (int i = 0; i < n; i++) {
+                    if (i != exclude) {
+                        nb[c++] = i;
+                    }
+                }
+                return nb;
+            }
+            case NEAREST:
+                nb = index.nearest(x, yy, exclude >= 0 ? hood.count() + 1 : hood.count());
+                break;
+            default:
+                nb = index.within(x, yy, hood.radius());
+                break;
+        }
+        int[] kept = new int[nb.length];
+        int c = 0;
+        for (int j : nb) {
+            if (j != exclude && c < hood.count()) {
+                kept[c++] = j;
+            }
+        }
+        nb = Arrays.copyOf(kept, c);
+        int need = Math.max(1, p + 1);
+        if (nb.length < Math.min(need, n - (exclude >= 0 ? 1 : 0))) {
+            throw new DensaException("only " + nb.length + " data location(s) within radius " + hood.radius()
+                    + " of target (" + x + ", " + yy + "); " + type + " kriging needs " + need,
+                    new KrigingDiagnostics(nb.length, Double.NaN, nb, "too few neighbours"));
+        }
+        Arrays.sort(nb);
+        return nb;
+    }
+
+    LocalSystem systemFor(int[] nb) {
+        return options.neighbourhood().isGlobal() && nb.length == n ? globalSystem() : LocalSystem.build(this, nb);
+    }
+
+    private static void checkTarget(double x, double yy) {
+        if (!Double.isFinite(x) || !Double.isFinite(yy)) {
+            throw new IllegalArgumentException("target must be finite, got (" + x + ", " + yy + ")");
+        }
+    }
+
+    private KrigingPrediction predictAt(double x, double yy, double[] covariates, int exclude, boolean withWeights) {
+        checkTarget(x, yy);
+        double[] f0 = new double[p];
+        driftAt(x, yy, covariates, f0);
+        int[] nb = neighbours(x, yy, exclude);
+        LocalSystem sys = systemFor(nb);
+        double[] c0 = new double[nb.length];
+        for (int r = 0; r < nb.length; r++) {
+            c0[r] = cov(loc.distanceTo(nb[r], x, yy));
+        }
+        double[] out = new double[k];
+        double[] w = withWeights ? new double[nb.length] : null;
+        double var = sys.predict(c0, f0, c00, centre, out, 0, w, new LocalSystem.Scratch(p));
+        return new KrigingPrediction(space.density(out), var, nb, w);
+    }
+
+    // ------------------------------------------------------------------ public prediction API
+
+    /**
+     * Predicts the density at a target (no external covariates).
+     *
+     * @throws IllegalArgumentException if the target is not finite or the drift needs covariates
+     * @throws DensaException           if the system is singular or ill-conditioned (diagnostics
+     *                                  in a {@link KrigingDiagnostics})
+     */
+    public KrigingPrediction predict(double x, double y) {
+        return predictAt(x, y, null, -1, false);
+    }
+
+    /** Predicts at a target with the drift's external covariates there. */
+    public KrigingPrediction predict(double x, double y, double[] covariates) {
+        return predictAt(x, y, covariates, -1, false);
+    }
+
+    /** Predicts at a target and reports the weights λ_i of the neighbours. */
+    public KrigingPrediction predictWithWeights(double x, double y) {
+        return predictAt(x, y, null, -1, true);
+    }
+
+    /** Predicts at a target with covariates and reports the weights. */
+    public KrigingPrediction predictWithWeights(double x, double y, double[] covariates) {
+        return predictAt(x, y, covariates, -1, true);
+    }
+
+    /**
+     * Block kriging of the mean density of a polygon: the polygon is discretised into the centres
+     * of a square grid of the given spacing lying inside it (its interior point if none does), and
+     * the point covariances are averaged: c̄_i = mean_b C(s_i − u_b), C̄(V, V) = mean_{b,b'} C(u_b −
+     * u_b') with C(0) on the diagonal, f̄ = mean_b f(u_b) (Journel &amp; Huijbregts (1978), Mining
+     * Geostatistics, ch. V — from memory). The block's neighbours are those of its interior point.
+     * Coordinates (and spacing) are in the locations' system (degrees for geographic).
+     *
+     * @throws IllegalArgumentException for an empty polygon, a spacing that gives more than 4096
+     *                                  points, or a drift with external covariates
+     */
+    public KrigingPrediction predictBlock(Polygon polygon, double spacing) {
+        Objects.requireNonNull(polygon, "polygon");
+        if (polygon.isEmpty()) {
+            throw new IllegalArgumentException("block polygon is empty");
+        }
+        if (!(spacing > 0) || Double.isInfinite(spacing)) {
+            throw new IllegalArgumentException("block discretisation spacing must be finite and > 0, got " + spacing);
+        }
+        if (drift != null && drift.covariateCount() > 0 && type == Type.UNIVERSAL) {
+            throw new IllegalArgumentException("block kriging with external drift covariates is not supported;"
+                    + " use a polynomial drift");
+        }
+        double[][] pts = discretise(polygon, spacing);
+        int m = pts.length;
+        Point ip = polygon.getInteriorPoint();
+        int[] nb = neighbours(ip.getX(), ip.getY(), -1);
+        LocalSystem sys = systemFor(nb);
+        double[] c0 = new double[nb.length];
+        double[] f0 = new double[p];
+        double[] fb = new double[p];
+        for (double[] u : pts) {
+            for (int r = 0; r < nb.length; r++) {
+                c0[r] += cov(loc.distanceTo(nb[r], u[0], u[1]));
+            }
+            driftAt(u[0], u[1], null, fb);
+            for (int j = 0; j < p; j++) {
+                f0[j] += fb[j];
+            }
+        }
+        for (int r = 0; r < nb.length; r++) {
+            c0[r] /= m;
+        }
+        for (int j = 0; j < p; j++) {
+            f0[j] /= m;
+        }
+        double cvv = 0;
+        for (int a = 0; a < m; a++) {
+            for (int b = 0; b < m; b++) {
+                cvv += a == b ? c00 : cov(loc.distance(pts[a][0], pts[a][1], pts[b][0], pts[b][1]));
+            }
+        }
+        cvv /= (double) m * m;
+        double[] out = new double[k];
+        double[] w = new double[nb.length];
+        double var = sys.predict(c0, f0, cvv, centre, out, 0, w, new LocalSystem.Scratch(p));
+        return new KrigingPrediction(space.density(out), var, nb, w);
+    }
+
+    /** Centres of a square grid of the given spacing covered by the polygon (package-private for tests). */
+    static double[][] discretise(Polygon polygon, double spacing) {
+        Envelope env = polygon.getEnvelopeInternal();
+        long nx = (long) Math.ceil(env.getWidth() / spacing);
+        long ny = (long) Math.ceil(env.getHeight() / spacing);
+        nx = Math.max(1, nx);
+        ny = Math.max(1, ny);
+        if (nx * ny > 1L << 22) {
+            throw new IllegalArgumentException("spacing " + spacing + " gives " + nx + " x " + ny
+                    + " candidate points; use a coarser spacing");
+        }
+        PreparedGeometry prep = PreparedGeometryFactory.prepare(polygon);
+        GeometryFactory gf = polygon.getFactory();
+        double x0 = env.getMinX() + 0.5 * (env.getWidth() - (nx - 1) * spacing);
+        double y0 = env.getMinY() + 0.5 * (env.getHeight() - (ny - 1) * spacing);
+        List<double[]> pts = new ArrayList<>();
+        for (long iy = 0; iy < ny; iy++) {
+            for (long ix = 0; ix < nx; ix++) {
+                double px = x0 + ix * spacing, py = y0 + iy * spacing;
+                if (prep.covers(gf.createPoint(new Coordinate(px, py)))) {
+                    pts.add(new double[] {px, py});
+                    if (pts.size() > 4096) {
+                        throw new IllegalArgumentException("spacing " + spacing + " puts more than 4096 points in"
+                                + " the block; use a coarser spacing");
+                    }
+                }
+            }
+        }
+        if (pts.isEmpty()) {
+            Point ip = polygon.getInteriorPoint();
+            pts.add(new double[] {ip.getX(), ip.getY()});
+        }
+        return pts.toArray(new double[0][]);
+    }
+
+    /**
+     * Predicts a regular grid tile by tile into the consumer; see {@link GridOptions} for the
+     * per-cell quantities computed in the same pass. Tiles are computed in parallel (in batches)
+     * and delivered in tile order from the calling thread, so the consumer need not be thread-safe
+     * and at most a batch of tiles is held in memory.
+     */
+    public void predictGrid(Grid grid, GridOptions gridOptions, Consumer<GridTile> consumer) {
+        GridPredictor.run(this, grid, gridOptions, consumer);
+    }
+
+    // ------------------------------------------------------------------ cross-validation
+
+    /**
+     * Leave-one-out cross-validation: the fast formulas of Dubrule (1983) for the global
+     * neighbourhood ({@link #leaveOneOutFast()}), refitting per location otherwise.
+     */
+    public CrossValidation crossValidate() {
+        return options.neighbourhood().isGlobal() ? leaveOneOutFast() : leaveOneOutBruteForce();
+    }
+
+    /**
+     * Fast leave-one-out for the global neighbourhood from one inverse of the kriging matrix
+     * (Dubrule (1983), Cross validation of kriging in a unique neighborhood, Math. Geol. 15(6) —
+     * from memory): with A the (bordered) kriging matrix, B = A⁻¹ and α the dual weights
+     * B [Y; 0], the leave-one-out error at i is e_i = α_i / B_ii and the variance of predicting
+     * the datum is 1 / B_ii (= σ²_{−i} + v_i). Here B_ii = (C⁻¹)_ii − u_iᵀ S⁻¹ u_i with U = C⁻¹F
+     * and S = FᵀC⁻¹F, all from the one Cholesky factor of C.
+     *
+     * @throws IllegalStateException if the neighbourhood is not global
+     */
+    public CrossValidation leaveOneOutFast() {
+        if (!options.neighbourhood().isGlobal()) {
+            throw new IllegalStateException("fast leave-one-out needs the global neighbourhood; use crossValidate()");
+        }
+        if (n < p + 2) {
+            throw new IllegalArgumentException("leave-one-out with " + p + " drift function(s) needs at least "
+                    + (p + 2) + " locations, got " + n);
+        }
+        LocalSystem g = globalSystem();
+        double[] l = g.l;
+        // diag(C^{-1})_i = Σ_r (L^{-1})_{ri}^2 from the triangular inverse
+        double[] diag = new double[n];
+        double[] linv = new double[n];
+        for (int col = 0; col < n; col++) {
+            Arrays.fill(linv, 0);
+            linv[col] = 1;
+            double s = 0;
+            for (int r = col; r < n; r++) {
+                int lo = r * n;
+                double t = r == col ? 1 : 0;
+                for (int c = col; c < r; c++) {
+                    t -= l[lo + c] * linv[c];
+                }
+                linv[r] = t / l[lo + r];
+                s += linv[r] * linv[r];
+            }
+            diag[col] = s;
+        }
+        // U = L^{-T} G (n × p), beta = S^{-1} Gᵀ LY (p × k), alpha = L^{-T}(LY − G beta)
+        double[] u = new double[n * p];
+        double[] col = new double[n];
+        for (int j = 0; j < p; j++) {
+            for (int r = 0; r < n; r++) {
+                col[r] = g.g[r * p + j];
+            }
+            LocalSystem.backward(l, n, col);
+            for (int r = 0; r < n; r++) {
+                u[r * p + j] = col[r];
+            }
+        }
+        double[] gty = new double[p * k];
+        for (int r = 0; r < n; r++) {
+            for (int j = 0; j < p; j++) {
+                double gj = g.g[r * p + j];
+                for (int c = 0; c < k; c++) {
+                    gty[j * k + c] += gj * g.ly[r * k + c];
+                }
+            }
+        }
+        double[] beta = new double[p * k];
+        for (int i = 0; i < p; i++) {
+            for (int j = 0; j < p; j++) {
+                double s = g.sInv[i * p + j];
+                for (int c = 0; c < k; c++) {
+                    beta[i * k + c] += s * gty[j * k + c];
+                }
+            }
+        }
+        double[][] err = new double[n][k];
+        double[] var = new double[n];
+        double[] alphaCol = new double[n];
+        for (int c = 0; c < k; c++) {
+            for (int r = 0; r < n; r++) {
+                double s = g.ly[r * k + c];
+                for (int j = 0; j < p; j++) {
+                    s -= g.g[r * p + j] * beta[j * k + c];
+                }
+                alphaCol[r] = s;
+            }
+            LocalSystem.backward(l, n, alphaCol);
+            for (int i = 0; i < n; i++) {
+                err[i][c] = alphaCol[i];
+            }
+        }
+        for (int i = 0; i < n; i++) {
+            double b = diag[i];
+            for (int a = 0; a < p; a++) {
+                double s = 0;
+                for (int j = 0; j < p; j++) {
+                    s += g.sInv[a * p + j] * u[i * p + j];
+                }
+                b -= u[i * p + a] * s;
+            }
+            for (int c = 0; c < k; c++) {
+                err[i][c] /= b;
+            }
+            var[i] = Math.max(0, 1 / b - diagExtra[i]);
+        }
+        return CrossValidation.of(err, var, diagExtra.clone());
+    }
+
+    /**
+     * Leave-one-out by refitting: for each location, kriging from the others (within this
+     * neighbourhood) at its position. Locations are processed in parallel, each writing its own row.
+     */
+    public CrossValidation leaveOneOutBruteForce() {
+        if (n < p + 2) {
+            throw new IllegalArgumentException("leave-one-out with " + p + " drift function(s) needs at least "
+                    + (p + 2) + " locations, got " + n);
+        }
+        double[][] err = new double[n][k];
+        double[] var = new double[n];
+        int q = drift == null ? 0 : drift.covariateCount();
+        Kernels.forEachBlock(n, options.parallel() && n >= 32, i -> {
+            double[] cov = new double[q];
+            for (int j = 0; j < q; j++) {
+                cov[j] = drift.covariate(i, j);
+            }
+            KrigingPrediction pr = predictAt(loc.x(i), loc.y(i), q > 0 ? cov : null, i, false);
+            double[] c = pr.density().coordinates();
+            for (int j = 0; j < k; j++) {
+                err[i][j] = y[i * k + j] - c[j];
+            }
+            var[i] = pr.variance();
+        });
+        return CrossValidation.of(err, var, diagExtra.clone());
+    }
+
+    /**
+     * Cross-validates each candidate model with the same data and options (model comparison by
+     * cross-validation); results in the order of the models.
+     */
+    public static List<CrossValidation> compareModels(Locations locations, DensitySet densities,
+            List<VariogramModel> models, KrigingOptions options) {
+        List<CrossValidation> out = new ArrayList<>();
+        for (VariogramModel m : models) {
+            out.add(ordinary(locations, densities, m, options).crossValidate());
+        }
+        return out;
+    }
+
+    /**
+     * Generalised-least-squares drift coefficients β̂ = (FᵀC⁻¹F)⁻¹FᵀC⁻¹Y from the global system
+     * (p × K; p = 0 for simple kriging).
+     */
+    public double[][] driftCoefficients() {
+        LocalSystem g = globalSystem();
+        double[][] beta = new double[p][k];
+        double[] gty = new double[p * k];
+        for (int r = 0; r < n; r++) {
+            for (int j = 0; j < p; j++) {
+                for (int c = 0; c < k; c++) {
+                    gty[j * k + c] += g.g[r * p + j] * g.ly[r * k + c];
+                }
+            }
+        }
+        for (int i = 0; i < p; i++) {
+            for (int j = 0; j < p; j++) {
+                for (int c = 0; c < k; c++) {
+                    beta[i][c] += g.sInv[i * p + j] * gty[j * k + c];
+                }
+            }
+        }
+        return beta;
+    }
+
+    /** Drift residuals Y − F β̂ (row-major n × K), for re-estimating the residual variogram. */
+    double[] driftResiduals(double[][] beta) {
+        double[] r = y.clone();
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j < p; j++) {
+                double f = fRows[i * p + j];
+                for (int c = 0; c < k; c++) {
+                    r[i * k + c] -= f * beta[j][c];
+                }
+            }
+        }
+        return r;
+    }
+
+    // ------------------------------------------------------------------ accessors
+
+    /** The kriging variant. */
+    public Type type() {
+        return type;
+    }
+
+    /** The variogram model. */
+    public VariogramModel model() {
+        return model;
+    }
+
+    /** The data locations. */
+    public Locations locations() {
+        return loc;
+    }
+
+    /** The data's space. */
+    public BayesSpace space() {
+        return space;
+    }
+
+    /** Number of data locations. */
+    public int size() {
+        return n;
+    }
+
+    /** The options. */
+    public KrigingOptions options() {
+        return options;
+    }
+
+    /** The drift (null for simple kriging). */
+    public Drift drift() {
+        return drift;
+    }
+
+    @Override
+    public String toString() {
+        return "Kriging[" + type + ", n=" + n + ", " + model + ", " + options.neighbourhood() + "]";
+    }
+}

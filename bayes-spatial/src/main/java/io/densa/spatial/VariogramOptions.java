@@ -1,0 +1,168 @@
+package io.densa.spatial;
+
+import java.util.Arrays;
+
+/**
+ * Immutable options of the empirical trace-variogram: distance bins (a count, a width or explicit
+ * edges), maximum lag, optional direction sectors, optional variogram cloud, parallelism.
+ *
+ * <p>Defaults: 15 equal bins up to half the diagonal of the locations' bounding box (a common
+ * practice rule of thumb), omnidirectional, no cloud, parallel.
+ *
+ * <p>Directions are angles in degrees measured counter-clockwise from the first coordinate axis,
+ * taken modulo 180° (a pair and its reverse are the same pair); a pair belongs to a sector when the
+ * angle between its separation vector and the sector direction is at most the tolerance.
+ * Directions are only defined for planar locations.
+ */
+public final class VariogramOptions {
+    private final int binCount;
+    private final double binWidth;
+    private final double[] edges;
+    private final double maxLag;
+    private final double[] directions;
+    private final double tolerance;
+    private final int cloudPairs;
+    private final boolean parallel;
+
+    private VariogramOptions(int binCount, double binWidth, double[] edges, double maxLag, double[] directions,
+            double tolerance, int cloudPairs, boolean parallel) {
+        this.binCount = binCount;
+        this.binWidth = binWidth;
+        this.edges = edges;
+        this.maxLag = maxLag;
+        this.directions = directions;
+        this.tolerance = tolerance;
+        this.cloudPairs = cloudPairs;
+        this.parallel = parallel;
+    }
+
+    /** The defaults described above. */
+    public static VariogramOptions withDefaults() {
+        return new VariogramOptions(15, Double.NaN, null, Double.NaN, null, Double.NaN, 0, true);
+    }
+
+    /** Equal-width bins of this number between 0 and the maximum lag. */
+    public VariogramOptions withBinCount(int count) {
+        if (count < 1 || count > 100_000) {
+            throw new IllegalArgumentException("bin count must be in [1, 100000], got " + count);
+        }
+        return new VariogramOptions(count, Double.NaN, null, maxLag, directions, tolerance, cloudPairs, parallel);
+    }
+
+    /** Equal-width bins of this width between 0 and the maximum lag. */
+    public VariogramOptions withBinWidth(double width) {
+        if (!(width > 0) || Double.isInfinite(width)) {
+            throw new IllegalArgumentException("bin width must be finite and > 0, got " + width);
+        }
+        return new VariogramOptions(0, width, null, maxLag, directions, tolerance, cloudPairs, parallel);
+    }
+
+    /**
+     * Explicit bin edges e_0 &lt; e_1 &lt; … &lt; e_B (at least two, e_0 ≥ 0); bin b holds lags in
+     * (e_b, e_{b+1}] (the first bin also holds lag e_0); the maximum lag becomes e_B.
+     */
+    public VariogramOptions withEdges(double... binEdges) {
+        if (binEdges == null || binEdges.length < 2) {
+            throw new IllegalArgumentException("need at least two bin edges");
+        }
+        for (int i = 0; i < binEdges.length; i++) {
+            if (!Double.isFinite(binEdges[i]) || binEdges[i] < 0 || (i > 0 && !(binEdges[i] > binEdges[i - 1]))) {
+                throw new IllegalArgumentException("bin edges must be finite, >= 0 and strictly increasing; edge " + i
+                        + " = " + binEdges[i]);
+            }
+        }
+        double[] e = binEdges.clone();
+        return new VariogramOptions(0, Double.NaN, e, e[e.length - 1], directions, tolerance, cloudPairs, parallel);
+    }
+
+    /** Maximum lag (ignored with explicit edges). */
+    public VariogramOptions withMaxLag(double lag) {
+        if (!(lag > 0) || Double.isInfinite(lag)) {
+            throw new IllegalArgumentException("maximum lag must be finite and > 0, got " + lag);
+        }
+        return new VariogramOptions(binCount, binWidth, edges, edges != null ? maxLag : lag, directions, tolerance,
+                cloudPairs, parallel);
+    }
+
+    /**
+     * Direction sectors: one variogram per direction (degrees, counter-clockwise from the first
+     * axis), with angular tolerance in (0, 90] degrees.
+     */
+    public VariogramOptions withDirections(double toleranceDegrees, double... directionsDegrees) {
+        if (!(toleranceDegrees > 0 && toleranceDegrees <= 90)) {
+            throw new IllegalArgumentException("angular tolerance must be in (0, 90] degrees, got " + toleranceDegrees);
+        }
+        if (directionsDegrees == null || directionsDegrees.length == 0) {
+            throw new IllegalArgumentException("need at least one direction");
+        }
+        for (int i = 0; i < directionsDegrees.length; i++) {
+            if (!Double.isFinite(directionsDegrees[i])) {
+                throw new IllegalArgumentException("direction " + i + " is not finite: " + directionsDegrees[i]);
+            }
+        }
+        return new VariogramOptions(binCount, binWidth, edges, maxLag, directionsDegrees.clone(), toleranceDegrees,
+                cloudPairs, parallel);
+    }
+
+    /** Also return the variogram cloud: the first maxPairs pairs within the maximum lag, in (i, j) order. */
+    public VariogramOptions withCloud(int maxPairs) {
+        if (maxPairs < 1) {
+            throw new IllegalArgumentException("cloud pair limit must be >= 1, got " + maxPairs);
+        }
+        return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, maxPairs, parallel);
+    }
+
+    /** Whether to use the common ForkJoin pool (results are identical either way). */
+    public VariogramOptions withParallel(boolean p) {
+        return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, cloudPairs, p);
+    }
+
+    /** Resolved bin edges for a given default maximum lag. */
+    double[] resolveEdges(double defaultMaxLag) {
+        if (edges != null) {
+            return edges.clone();
+        }
+        double m = Double.isNaN(maxLag) ? defaultMaxLag : maxLag;
+        if (!(m > 0)) {
+            throw new IllegalArgumentException("maximum lag resolves to " + m + "; the locations may all coincide");
+        }
+        int b = binCount > 0 ? binCount : (int) Math.ceil(m / binWidth - 1e-12);
+        if (b > 100_000) {
+            throw new IllegalArgumentException("bin width " + binWidth + " gives " + b + " bins; at most 100000");
+        }
+        double w = binCount > 0 ? m / b : binWidth;
+        double[] e = new double[b + 1];
+        for (int i = 0; i <= b; i++) {
+            e[i] = Math.min(m, i * w);
+        }
+        e[b] = m;
+        return e;
+    }
+
+    /** Whether bins are of equal width starting at 0. */
+    boolean uniformBins() {
+        return edges == null;
+    }
+
+    double[] directions() {
+        return directions == null ? null : directions.clone();
+    }
+
+    double tolerance() {
+        return tolerance;
+    }
+
+    int cloudPairs() {
+        return cloudPairs;
+    }
+
+    boolean parallel() {
+        return parallel;
+    }
+
+    @Override
+    public String toString() {
+        return "VariogramOptions[bins=" + (edges != null ? Arrays.toString(edges) : binCount > 0 ? binCount
+                : "width " + binWidth) + ", maxLag=" + maxLag + ", directions=" + Arrays.toString(directions) + "]";
+    }
+}
