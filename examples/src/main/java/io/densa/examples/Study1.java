@@ -1,12 +1,12 @@
 package io.densa.examples;
 
 import io.densa.core.BayesSpace;
-import io.densa.core.Density;
 import io.densa.core.DensitySet;
+import io.densa.regression.AnomalyScoring;
 import io.densa.regression.Design;
 import io.densa.regression.Fpca;
-import io.densa.regression.FunctionOnScalarFit;
-import io.densa.regression.FunctionOnScalarRegression;
+import io.densa.regression.FunctionOnFunctionFit;
+import io.densa.regression.FunctionalRegression;
 import io.densa.spatial.AutocorrelationOptions;
 import io.densa.spatial.LocalMoran;
 import io.densa.spatial.MoranI;
@@ -225,16 +225,16 @@ final class Study1 {
 
     /** The baseline model and its residuals. */
     record Baseline(int predictorComponents, double trainR2, DensitySet predictedLatest, DensitySet residualLatest,
-            double[] scoreLatest, double[] scoreCalibration, double[] normLatest, double varianceA,
-            double varianceB) {
+            DensitySet standardisedCalibration, DensitySet standardisedLatest, double[] normLatest,
+            double[] scoreLatest, double varianceA, double varianceB) {
     }
 
     /**
-     * Function-on-function regression with scalar covariates: the response is a season's density,
-     * the predictor the previous season's density, entered through its first FPCA scores (Yao,
-     * Müller, Wang (2005) truncation), beside urbanity and the share of older residents. Fitted on
-     * the transitions of the early seasons; the transition into the second-last season calibrates;
-     * the latest season is scored.
+     * Function-on-function regression with scalar covariates ({@link FunctionalRegression}, FPCA
+     * truncation with the number of components chosen by cross-validation): the response is a
+     * season's density, the predictor the previous season's density, the scalar covariates
+     * urbanity and the share of older residents. Fitted on the transitions of the early seasons;
+     * the transition into the second-last season calibrates; the latest season is scored.
      */
     static Baseline baseline(Run run) {
         AgeScenario sc = run.sc;
@@ -247,12 +247,10 @@ final class Study1 {
             predictors = predictors.concat(run.seasons[s]);
             responses = responses.concat(run.seasons[s + 1]);
         }
-        Fpca predictorPca = Fpca.fit(predictors);
-        int m = Math.min(4, predictorPca.componentsForVariance(0.95));
-        double[] urban = repeat(sc.urbanity(), trainTransitions);
-        double[] older = repeat(sc.olderShare(), trainTransitions);
-        Design train = design(predictorPca.scores(predictors, m), urban, older);
-        FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().fit(train, responses);
+        Design train = covariates(repeat(sc.urbanity(), trainTransitions), repeat(sc.olderShare(), trainTransitions));
+        FunctionOnFunctionFit fit = FunctionalRegression.truncation().withComponents(1, 8).withSeed(run.options.seed())
+                .fitDensityResponse(List.of(predictors), train, responses);
+        int m = fit.chosen().predictorComponents();
         double[] trainNorm = fit.residualNorms();
         double[] inverseSize = new double[trainNorm.length];
         for (int s = 0; s < trainTransitions; s++) {
@@ -260,57 +258,54 @@ final class Study1 {
                 inverseSize[s * n + i] = 1.0 / sc.total(i, s) + 1.0 / sc.total(i, s + 1);
             }
         }
-        // E‖r‖² ≈ a (1/N_pred + 1/N_resp) + b: estimation noise plus genuine season-to-season change
+        // E‖r‖² ≈ a (1/N_previous + 1/N_current) + b: estimation noise plus genuine change
         double[] ab = nonNegativeLine(inverseSize, square(trainNorm));
         int cal = seasons - 2;
         int test = seasons - 1;
-        double[] calScore = score(run, fit, predictorPca, m, cal, ab);
-        double[] testScore = score(run, fit, predictorPca, m, test, ab);
-        Design testDesign = design(predictorPca.scores(run.seasons[test - 1], m), sc.urbanity(), sc.olderShare());
-        DensitySet predicted = fit.predict(testDesign);
-        DensitySet residual = fit.residuals(testDesign, run.seasons[test]);
-        run.progress.line(String.format(Locale.ROOT, "baseline model fitted: %d predictor FPCA scores + 2 covariates, "
-                + "functional R² %.3f on %d training rows", m, fit.rSquared(), trainNorm.length));
+        Design d = covariates(sc.urbanity(), sc.olderShare());
+        DensitySet calResidual = fit.residuals(List.of(run.seasons[cal - 1]), d, run.seasons[cal]);
+        DensitySet residual = fit.residuals(List.of(run.seasons[test - 1]), d, run.seasons[test]);
+        DensitySet predicted = fit.predict(List.of(run.seasons[test - 1]), d);
+        DensitySet calStd = standardise(run, calResidual, cal, ab);
+        DensitySet testStd = standardise(run, residual, test, ab);
+        double[] score = square(testStd.norms());
+        run.progress.line(String.format(Locale.ROOT, "baseline model fitted: function-on-function with %d predictor "
+                + "FPCA components (chosen by CV) + 2 covariates, functional R² %.3f on %d training rows", m,
+                fit.rSquared(), trainNorm.length));
         run.report.heading("Baseline model").paragraph(String.format(Locale.ROOT, "The expected age profile of a "
                 + "district in a season is modelled from its profile in the previous season and two district "
-                + "covariates: a function-on-function regression in which the previous season's density enters "
-                + "through its first %d FPCA scores (they explain %.1f %% of its variation; Yao, Müller and Wang "
-                + "2005 truncation), fitted with Densa's function-on-scalar regression together with urbanity and "
-                + "the share of residents aged 65+. Fitted on the %d transitions between the first %d seasons "
-                + "(%d rows, functional R² %.3f); the transition into season %d is held out for calibration; the "
-                + "latest season %d is scored.", m, 100 * predictorPca.cumulativeVariance()[m - 1],
-                trainTransitions, trainTransitions + 1, trainNorm.length, fit.rSquared(), cal + 1, test + 1));
+                + "covariates (urbanity and the share of residents aged 65+): a function-on-function regression "
+                + "in which the previous season's density enters through its first %d FPCA scores (Yao, Müller "
+                + "and Wang 2005 truncation; the number chosen by 5-fold cross-validation from 1–8). Fitted on the "
+                + "%d transitions between the first %d seasons (%d rows, functional R² %.3f); the transition into "
+                + "season %d is held out for calibration; the latest season %d is scored.", m, trainTransitions,
+                trainTransitions + 1, trainNorm.length, fit.rSquared(), cal + 1, test + 1));
         run.report.paragraph(String.format(Locale.ROOT, "Residual norms grow as districts get smaller (fewer visits "
-                + "give noisier densities). The squared residual norm was modelled as a·(1/N_previous + 1/N_current) "
-                + "+ b on the training rows (a = %.3g, b = %.3g), and each district's anomaly score is its squared "
-                + "residual norm divided by that expectation.", ab[0], ab[1]));
+                + "give noisier densities), so raw norms would flag small districts. The squared residual norm was "
+                + "modelled on the training rows as a·(1/N_previous + 1/N_current) + b (a = %.3g, b = %.3g), and "
+                + "each residual density r_i was standardised by powering, r_i ⊙ (1/√v_i) with v_i that expectation,"
+                + " so that its B2 norm is comparable across district sizes. The anomaly score is the squared norm "
+                + "of the standardised residual.", ab[0], ab[1]));
         densityFigure(run, predicted);
-        double[] norms = residual.norms();
-        return new Baseline(m, fit.rSquared(), predicted, residual, testScore, calScore, norms, ab[0], ab[1]);
+        return new Baseline(m, fit.rSquared(), predicted, residual, calStd, testStd, residual.norms(), score, ab[0],
+                ab[1]);
     }
 
-    static double[] score(Run run, FunctionOnScalarFit fit, Fpca predictorPca, int m, int season, double[] ab) {
-        AgeScenario sc = run.sc;
-        Design d = design(predictorPca.scores(run.seasons[season - 1], m), sc.urbanity(), sc.olderShare());
-        double[] norms = fit.residuals(d, run.seasons[season]).norms();
-        double[] out = new double[run.n];
-        for (int i = 0; i < run.n; i++) {
-            double expected = ab[0] * (1.0 / sc.total(i, season - 1) + 1.0 / sc.total(i, season)) + ab[1];
-            out[i] = norms[i] * norms[i] / expected;
-        }
-        return out;
-    }
-
-    static Design design(DMatrixRMaj scores, double[] urban, double[] older) {
-        Design.Builder b = Design.builder();
-        for (int j = 0; j < scores.numCols; j++) {
-            double[] col = new double[scores.numRows];
-            for (int i = 0; i < col.length; i++) {
-                col[i] = scores.get(i, j);
+    /** r_i ⊙ (1 / √v_i) for every row: v_i = a (1/N_{s−1} + 1/N_s) + b. */
+    static DensitySet standardise(Run run, DensitySet residual, int season, double[] ab) {
+        double[][] c = residual.coordinates();
+        for (int i = 0; i < c.length; i++) {
+            double v = ab[0] * (1.0 / run.sc.total(i, season - 1) + 1.0 / run.sc.total(i, season)) + ab[1];
+            double f = 1 / Math.sqrt(v);
+            for (int k = 0; k < c[i].length; k++) {
+                c[i][k] *= f;
             }
-            b.numeric("prev_pc" + (j + 1), col);
         }
-        return b.numeric("urbanity", urban).numeric("older_share", older).build();
+        return DensitySet.of(residual.space(), c, codes(run.region));
+    }
+
+    static Design covariates(double[] urban, double[] older) {
+        return Design.builder().numeric("urbanity", urban).numeric("older_share", older).build();
     }
 
     // ------------------------------------------------------------------ flags
@@ -323,8 +318,11 @@ final class Study1 {
     static Flags flag(Run run, Baseline b) {
         AgeScenario sc = run.sc;
         int n = run.n;
-        double[] p = Conformal.pValues(b.scoreCalibration(), b.scoreLatest());
-        double[] q = LocalMoran.benjaminiHochberg(p);
+        AnomalyScoring.Calibrated scorer = AnomalyScoring.withDefaults().withFdr(FDR)
+                .calibrate(b.standardisedCalibration(), AGE_MID);
+        AnomalyScoring.Report scores = scorer.score(b.standardisedLatest());
+        double[] p = new double[n];
+        double[] q = new double[n];
         boolean[] flagged = new boolean[n];
         String[] band = new String[n];
         double[] youngObs = new double[n];
@@ -334,14 +332,17 @@ final class Study1 {
         int fn = 0;
         int latest = sc.seasons() - 1;
         for (int i = 0; i < n; i++) {
-            flagged[i] = q[i] <= FDR;
+            AnomalyScoring.UnitScore u = scores.units().get(i);
+            p[i] = u.pValue();
+            q[i] = u.adjustedPValue();
+            flagged[i] = u.flagged();
             youngExp[i] = b.predictedLatest().get(i).cdf(25);
             int young = 0;
             for (int a = 0; a < 25; a++) {
                 young += sc.counts()[i][latest][a];
             }
             youngObs[i] = young / (double) sc.total(i, latest);
-            band[i] = flagged[i] ? departureBand(b.residualLatest().get(i)) : "";
+            band[i] = flagged[i] ? describe(u.excursions()) : "";
             if (flagged[i] && sc.shifted()[i]) {
                 tp++;
             } else if (flagged[i]) {
@@ -359,13 +360,14 @@ final class Study1 {
                 + "against the injected truth", tp + fp, FDR, precision, recall));
 
         run.report.heading("Flags").paragraph(String.format(Locale.ROOT, "Split-conformal p-values (Vovk, Gammerman "
-                + "and Shafer 2005): p_i = (1 + #{calibration scores ≥ s_i}) / (n_cal + 1), with the %d scores of the "
-                + "held-out transition as the calibration set; flags where the Benjamini–Hochberg (1995) adjusted "
-                + "p-value is at most %.2f.", b.scoreCalibration().length, FDR));
+                + "and Shafer 2005) of the standardised residual norms, p_i = (1 + #{calibration norms ≥ s_i}) / "
+                + "(n_cal + 1), with the %d districts of the held-out transition as the calibration set; flags where "
+                + "the Benjamini–Hochberg (1995) adjusted p-value is at most %.2f (Densa's `AnomalyScoring`).",
+                scores.calibrationSize(), FDR));
         run.report.paragraph(String.format(Locale.ROOT, "**Self-score against the injected truth:** %d flagged, %d "
-                + "of them truly shifted; %d shifted districts missed. Precision %.2f, recall %.2f. Missed districts "
-                + "are mostly small ones, where a shift of a fifth of a few dozen visits is within sampling noise.",
-                tp + fp, tp, fn, precision, recall));
+                + "of them truly shifted; %d shifted districts missed. **Precision %.2f, recall %.2f.** Missed "
+                + "districts tend to be small ones, where moving a fifth of a few dozen visits is within sampling "
+                + "noise.", tp + fp, tp, fn, precision, recall));
         int[] cat = new int[n];
         for (int i = 0; i < n; i++) {
             cat[i] = flagged[i] && sc.shifted()[i] ? 1 : flagged[i] ? 2 : sc.shifted()[i] ? 3 : 0;
@@ -379,9 +381,10 @@ final class Study1 {
         for (int i = 0; i < n; i++) {
             logScore[i] = Math.log10(b.scoreLatest()[i]);
         }
-        Maps.choropleth(run.region, logScore, ColourScale.of(logScore, "log10 anomaly score (residual² / expected)"),
-                1, "Anomaly score of the latest season", run.path("map_score.png"));
-        run.report.figure("map_score.png", "Anomaly score (squared residual norm over its expectation, log10).");
+        Maps.choropleth(run.region, logScore, ColourScale.of(logScore, "log10 anomaly score"), 1,
+                "Anomaly score of the latest season (log10)", run.path("map_score.png"));
+        run.report.figure("map_score.png", "Anomaly score: squared norm of the standardised residual density, "
+                + "log10.");
 
         List<String[]> rows = new ArrayList<>();
         int[] order = sortedBy(n, i -> p[i]);
@@ -394,33 +397,26 @@ final class Study1 {
                 Tables.fmt(q[i], 4), band[i], Tables.fmt(100 * youngObs[i], 1) + " %",
                 Tables.fmt(100 * youngExp[i], 1) + " %", sc.shifted()[i] ? "yes" : "no"});
         }
-        run.report.subheading("Flagged districts").paragraph("Where the district departs: the age band in which "
-                + "the residual density's clr is above half its maximum (visits in excess of the baseline), and the "
-                + "share of visits under 25 observed against the baseline's expectation.");
-        run.report.table(new String[] {"code", "name", "visits", "p", "BH q", "excess at ages", "under 25 observed",
+        run.report.subheading("Flagged districts").paragraph("Where each flagged district departs: the age ranges "
+                + "where its standardised residual clr leaves the calibration set's central 95 % pointwise band "
+                + "(excess: more visits at those ages than the baseline expects; deficit: fewer), and the share of "
+                + "visits under 25 observed against the baseline's expectation.");
+        run.report.table(new String[] {"code", "name", "visits", "p", "BH q", "departs at ages", "under 25 observed",
             "under 25 expected", "shifted (truth)"}, rows);
         return new Flags(p, q, flagged, band, youngObs, youngExp, tp, fp, fn);
     }
 
-    /** The age band around the largest positive clr of a residual density. */
-    static String departureBand(Density residual) {
-        double[] clr = residual.clr(AGE_MID);
-        int peak = 0;
-        for (int a = 1; a < clr.length; a++) {
-            if (clr[a] > clr[peak]) {
-                peak = a;
+    /** Excursions as text, e.g. {@code excess 8–27; deficit 62–88}. */
+    static String describe(List<AnomalyScoring.Excursion> excursions) {
+        StringBuilder sb = new StringBuilder();
+        for (AnomalyScoring.Excursion e : excursions) {
+            if (sb.length() > 0) {
+                sb.append("; ");
             }
+            sb.append(e.direction() == AnomalyScoring.Direction.EXCESS ? "excess " : "deficit ")
+                    .append((int) Math.floor(e.from())).append('–').append((int) Math.floor(e.to()));
         }
-        double half = clr[peak] / 2;
-        int lo = peak;
-        int hi = peak;
-        while (lo > 0 && clr[lo - 1] > half) {
-            lo--;
-        }
-        while (hi < clr.length - 1 && clr[hi + 1] > half) {
-            hi++;
-        }
-        return lo + "–" + (hi + 1);
+        return sb.length() == 0 ? "within band" : sb.toString();
     }
 
     // ------------------------------------------------------------------ spatial structure
