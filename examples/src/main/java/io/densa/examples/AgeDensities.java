@@ -14,11 +14,21 @@ final class AgeDensities {
     private AgeDensities() {
     }
 
+    static String varianceSource() {
+        return "here the proxy 1/N, N the visits, until the estimator reports variances";
+    }
+
     static String describe() {
         return "least-squares fit of log (count + ½)/(N + 50) (provisional core-only estimator)";
     }
 
-    static DensitySet estimate(BayesSpace space, double[][] counts, String[] ids) {
+    static Estimates estimate(BayesSpace space, int[][] intCounts, String[] ids) {
+        double[][] counts = new double[intCounts.length][];
+        double[] proxy = new double[intCounts.length];
+        for (int i = 0; i < counts.length; i++) {
+            counts[i] = Study1.toDouble(intCounts[i]);
+            proxy[i] = 1.0 / java.util.Arrays.stream(intCounts[i]).sum();
+        }
         List<Density> out = new ArrayList<>();
         double[] mid = Study1.AGE_MID;
         for (double[] c : counts) {
@@ -32,7 +42,7 @@ final class AgeDensities {
             }
             out.add(leastSquaresLog(space, mid, pdf));
         }
-        return DensitySet.of(out, ids);
+        return new Estimates(DensitySet.of(out, ids), proxy, 0, Double.NaN, Double.NaN);
     }
 
     /**

@@ -8,18 +8,33 @@ import io.densa.regression.Fpca;
 import io.densa.regression.FunctionOnFunctionFit;
 import io.densa.regression.FunctionalRegression;
 import io.densa.spatial.AutocorrelationOptions;
+import io.densa.spatial.EmpiricalVariogram;
+import io.densa.spatial.Grid;
+import io.densa.spatial.GridOptions;
+import io.densa.spatial.Kriging;
+import io.densa.spatial.KrigingOptions;
+import io.densa.spatial.Locations;
+import io.densa.spatial.Neighbourhood;
+import io.densa.spatial.VariogramFit;
+import io.densa.spatial.VariogramFitOptions;
+import io.densa.spatial.VariogramFitting;
+import io.densa.spatial.VariogramModel;
+import io.densa.spatial.VariogramOptions;
 import io.densa.spatial.LocalMoran;
 import io.densa.spatial.MoranI;
 import io.densa.spatial.SpatialWeights;
 import java.awt.Color;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import org.ejml.data.DMatrixRMaj;
 import org.jfree.chart.JFreeChart;
+import org.locationtech.jts.geom.Envelope;
+import org.locationtech.jts.geom.Polygon;
 
 /**
  * Study 1: age-profile surveillance in the districts of an invented region. See
@@ -55,6 +70,7 @@ final class Study1 {
         final UnitTable table;
         BayesSpace space;
         DensitySet[] seasons;
+        double[][] estimationVariance;
 
         Run(Main.Options options, Progress progress, AgeScenario sc) {
             this.options = options;
@@ -78,8 +94,8 @@ final class Study1 {
     }
 
     static StudyResult run(Main.Options options, Progress progress) {
-        int size = options.unitsOr(60, 150, 300);
-        int seasons = 6;
+        int size = options.unitsOr(120, 200, 300);
+        int seasons = 8;
         progress.line("generating the invented region (" + size + " districts, " + seasons + " seasons, seed "
                 + options.seed() + ")");
         Run run = new Run(options, progress, AgeScenario.generate(options.seed(), size, seasons));
@@ -89,6 +105,7 @@ final class Study1 {
         Flags flags = flag(run, baseline);
         autocorrelation(run, baseline);
         residualFpca(run, baseline);
+        variogramAndSurface(run, baseline);
         writeTables(run, baseline, flags);
         run.metrics.put("seconds", run.progress.seconds());
         run.report.heading("Timing").paragraph(String.format(Locale.ROOT,
@@ -163,18 +180,34 @@ final class Study1 {
         AgeScenario sc = run.sc;
         run.space = BayesSpace.splines(0, 100, 4, new double[] {2, 6, 12, 20, 30, 42, 55, 68, 80, 90});
         run.seasons = new DensitySet[sc.seasons()];
+        run.estimationVariance = new double[sc.seasons()][];
         String[] ids = codes(run.region);
+        int notConverged = 0;
+        double minEdf = Double.POSITIVE_INFINITY;
+        double maxEdf = Double.NEGATIVE_INFINITY;
         for (int s = 0; s < sc.seasons(); s++) {
-            double[][] counts = new double[run.n][];
+            int[][] counts = new int[run.n][];
             for (int i = 0; i < run.n; i++) {
-                counts[i] = toDouble(sc.counts()[i][s]);
+                counts[i] = sc.counts()[i][s];
             }
-            run.seasons[s] = AgeDensities.estimate(run.space, counts, ids);
+            Estimates est = AgeDensities.estimate(run.space, counts, ids);
+            run.seasons[s] = est.densities();
+            run.estimationVariance[s] = est.variances();
+            notConverged += est.notConverged();
+            minEdf = Math.min(minEdf, est.minEdf());
+            maxEdf = Math.max(maxEdf, est.maxEdf());
         }
-        run.progress.line("estimated " + run.n * sc.seasons() + " age densities (" + AgeDensities.describe() + ")");
+        run.metrics.put("notConverged", (double) notConverged);
+        run.progress.line("estimated " + run.n * sc.seasons() + " age densities (" + notConverged + " fits did not "
+                + "converge)");
         run.report.heading("Age densities").paragraph("Each district-season's counts by single year of age are "
                 + "turned into a density on [0, 100) years in " + run.space + " by " + AgeDensities.describe()
                 + ". Dots are the observed shares by year of age; lines the estimated densities.");
+        if (Double.isFinite(minEdf)) {
+            run.report.paragraph(String.format(Locale.ROOT, "%d of %d fits converged; effective degrees of freedom "
+                    + "range from %.1f (small districts: strong smoothing) to %.1f.", run.n * sc.seasons()
+                    - notConverged, run.n * sc.seasons(), minEdf, maxEdf));
+        }
         densityFigure(run, null);
     }
 
@@ -240,7 +273,7 @@ final class Study1 {
         AgeScenario sc = run.sc;
         int n = run.n;
         int seasons = sc.seasons();
-        int trainTransitions = seasons - 3;
+        int trainTransitions = (seasons - 1) / 2;
         DensitySet predictors = run.seasons[0];
         DensitySet responses = run.seasons[1];
         for (int s = 1; s < trainTransitions; s++) {
@@ -255,18 +288,20 @@ final class Study1 {
         double[] inverseSize = new double[trainNorm.length];
         for (int s = 0; s < trainTransitions; s++) {
             for (int i = 0; i < n; i++) {
-                inverseSize[s * n + i] = 1.0 / sc.total(i, s) + 1.0 / sc.total(i, s + 1);
+                inverseSize[s * n + i] = run.estimationVariance[s][i] + run.estimationVariance[s + 1][i];
             }
         }
-        // E‖r‖² ≈ a (1/N_previous + 1/N_current) + b: estimation noise plus genuine change
+        // E‖r‖² ≈ a (u_previous + u_current) + b: estimation variances plus genuine change
         double[] ab = nonNegativeLine(inverseSize, square(trainNorm));
-        int cal = seasons - 2;
         int test = seasons - 1;
         Design d = covariates(sc.urbanity(), sc.olderShare());
-        DensitySet calResidual = fit.residuals(List.of(run.seasons[cal - 1]), d, run.seasons[cal]);
+        DensitySet calStd = null;
+        for (int cal = trainTransitions + 1; cal < test; cal++) {
+            DensitySet r = standardise(run, fit.residuals(List.of(run.seasons[cal - 1]), d, run.seasons[cal]), cal, ab);
+            calStd = calStd == null ? r : calStd.concat(r);
+        }
         DensitySet residual = fit.residuals(List.of(run.seasons[test - 1]), d, run.seasons[test]);
         DensitySet predicted = fit.predict(List.of(run.seasons[test - 1]), d);
-        DensitySet calStd = standardise(run, calResidual, cal, ab);
         DensitySet testStd = standardise(run, residual, test, ab);
         double[] score = square(testStd.norms());
         run.progress.line(String.format(Locale.ROOT, "baseline model fitted: function-on-function with %d predictor "
@@ -277,12 +312,13 @@ final class Study1 {
                 + "covariates (urbanity and the share of residents aged 65+): a function-on-function regression "
                 + "in which the previous season's density enters through its first %d FPCA scores (Yao, Müller "
                 + "and Wang 2005 truncation; the number chosen by 5-fold cross-validation from 1–8). Fitted on the "
-                + "%d transitions between the first %d seasons (%d rows, functional R² %.3f); the transition into "
-                + "season %d is held out for calibration; the latest season %d is scored.", m, trainTransitions,
-                trainTransitions + 1, trainNorm.length, fit.rSquared(), cal + 1, test + 1));
+                + "%d transitions between the first %d seasons (%d rows, functional R² %.3f); the transitions into "
+                + "seasons %d–%d are held out for calibration; the latest season %d is scored.", m, trainTransitions,
+                trainTransitions + 1, trainNorm.length, fit.rSquared(), trainTransitions + 2, test, test + 1));
         run.report.paragraph(String.format(Locale.ROOT, "Residual norms grow as districts get smaller (fewer visits "
-                + "give noisier densities), so raw norms would flag small districts. The squared residual norm was "
-                + "modelled on the training rows as a·(1/N_previous + 1/N_current) + b (a = %.3g, b = %.3g), and "
+                + "give noisier densities), so raw norms would flag small districts. With u the B2 estimation variance "
+                + "of a density (" + AgeDensities.varianceSource() + "), the squared residual norm was modelled on "
+                + "the training rows as a·(u_previous + u_current) + b (a = %.3g, b = %.3g), and "
                 + "each residual density r_i was standardised by powering, r_i ⊙ (1/√v_i) with v_i that expectation,"
                 + " so that its B2 norm is comparable across district sizes. The anomaly score is the squared norm "
                 + "of the standardised residual.", ab[0], ab[1]));
@@ -291,17 +327,17 @@ final class Study1 {
                 ab[1]);
     }
 
-    /** r_i ⊙ (1 / √v_i) for every row: v_i = a (1/N_{s−1} + 1/N_s) + b. */
+    /** r_i ⊙ (1 / √v_i) for every row: v_i = a (u_{i,s−1} + u_{i,s}) + b with u the estimation variances. */
     static DensitySet standardise(Run run, DensitySet residual, int season, double[] ab) {
         double[][] c = residual.coordinates();
         for (int i = 0; i < c.length; i++) {
-            double v = ab[0] * (1.0 / run.sc.total(i, season - 1) + 1.0 / run.sc.total(i, season)) + ab[1];
+            double v = ab[0] * (run.estimationVariance[season - 1][i] + run.estimationVariance[season][i]) + ab[1];
             double f = 1 / Math.sqrt(v);
             for (int k = 0; k < c[i].length; k++) {
                 c[i][k] *= f;
             }
         }
-        return DensitySet.of(residual.space(), c, codes(run.region));
+        return DensitySet.of(residual.space(), c);
     }
 
     static Design covariates(double[] urban, double[] older) {
@@ -361,7 +397,7 @@ final class Study1 {
 
         run.report.heading("Flags").paragraph(String.format(Locale.ROOT, "Split-conformal p-values (Vovk, Gammerman "
                 + "and Shafer 2005) of the standardised residual norms, p_i = (1 + #{calibration norms ≥ s_i}) / "
-                + "(n_cal + 1), with the %d districts of the held-out transition as the calibration set; flags where "
+                + "(n_cal + 1), with the %d district-transitions held out for calibration; flags where "
                 + "the Benjamini–Hochberg (1995) adjusted p-value is at most %.2f (Densa's `AnomalyScoring`).",
                 scores.calibrationSize(), FDR));
         run.report.paragraph(String.format(Locale.ROOT, "**Self-score against the injected truth:** %d flagged, %d "
@@ -511,6 +547,83 @@ final class Study1 {
             run.report.figure(name, "District scores on residual component " + (j + 1) + ".");
         }
         run.table.number("residual_pc1", pc1).number("residual_pc2", pc2);
+    }
+
+    // ------------------------------------------------------------------ variogram and kriged surface
+
+    static void variogramAndSurface(Run run, Baseline b) {
+        int latest = run.sc.seasons() - 1;
+        Locations loc = Locations.planar(run.region.xs(), run.region.ys());
+        Envelope env = run.region.outline().getEnvelopeInternal();
+        double maxLag = 0.35 * Math.hypot(env.getWidth(), env.getHeight());
+        VariogramOptions vo = VariogramOptions.withDefaults().withBinCount(15).withMaxLag(maxLag);
+        VariogramFitOptions fo = VariogramFitOptions.withDefaults().withFamily(VariogramModel.Family.EXPONENTIAL);
+        EmpiricalVariogram evResid = EmpiricalVariogram.of(loc, b.standardisedLatest(), vo);
+        VariogramFit fitResid = VariogramFitting.fit(evResid, fo);
+        EmpiricalVariogram evDens = EmpiricalVariogram.of(loc, run.seasons[latest], vo);
+        VariogramFit fitDens = VariogramFitting.fit(evDens, fo);
+        List<JFreeChart> charts = List.of(
+                variogramChart("Standardised residual densities", evResid, fitResid.model(), maxLag),
+                variogramChart("Latest-season densities", evDens, fitDens.model(), maxLag));
+        Charts.panel("Trace-variograms (points: empirical; line: fitted nugget + exponential)", charts, 2, 560, 400,
+                run.path("fig_variogram.png"));
+        run.progress.line("trace-variograms fitted: residuals " + ModelText.variogram(fitResid.model()) + "; densities "
+                + ModelText.variogram(fitDens.model()));
+        run.report.heading("Trace-variograms").paragraph("Empirical trace-variogram γ̂(h) = (1/(2|N(h)|)) Σ "
+                + "‖X_i ⊖ X_j‖²_B (Giraldo, Delicado and Mateu 2011) in 15 bins up to " + Tables.fmt(maxLag, 1)
+                + " km between district sites, with a nugget + exponential model (practical range) fitted by "
+                + "Cressie's (1985) weighted least squares. Standardised residuals: " + ModelText.variogram(fitResid.model())
+                + "; latest-season densities: " + ModelText.variogram(fitDens.model()) + ". A partial sill on the residuals means the "
+                + "departures from the baseline are spatially correlated, as the injected cluster is.");
+        run.report.figure("fig_variogram.png", "Trace-variograms of the residual and of the latest-season densities.");
+
+        // kriged median age: ordinary kriging of the latest season's densities, estimation variances as
+        // measurement error, median of each predicted density
+        Kriging ok = Kriging.ordinary(loc, run.seasons[latest], fitDens.model(), KrigingOptions.withDefaults()
+                .withErrorVariances(run.estimationVariance[latest]).withNeighbourhood(Neighbourhood.nearest(32)));
+        int nx = run.n >= 200 ? 240 : 140;
+        int ny = (int) Math.round(nx * env.getHeight() / env.getWidth());
+        Grid grid = Grid.over(env.getMinX(), env.getMinY(), env.getMaxX(), env.getMaxY(), nx, ny)
+                .withMask((Polygon) run.region.outline());
+        double[] median = new double[nx * ny];
+        Arrays.fill(median, Double.NaN);
+        int[] cells = {0};
+        long t0 = System.nanoTime();
+        ok.predictGrid(grid, GridOptions.withDefaults().withVariance(false).withQuantiles(0.5), tile -> {
+            for (int q = 0; q < tile.size(); q++) {
+                median[tile.rows()[q] * nx + tile.columns()[q]] = tile.quantiles()[0][q];
+            }
+            cells[0] += tile.size();
+        });
+        double secs = (System.nanoTime() - t0) / 1e9;
+        run.progress.line(String.format(Locale.ROOT, "kriged the latest-season densities onto %,d cells (%.1f s)",
+                cells[0], secs));
+        ColourScale scale = ColourScale.of(median, "median age of visits (years)");
+        Color[] dots = new Color[run.n];
+        Arrays.fill(dots, Color.WHITE);
+        new MapPainter(env, 760, "Median age of visits, latest season (kriged densities)", Maps.caption(run.region))
+                .raster(env, nx, ny, median, scale, run.region.outline())
+                .stroke(Maps.shapes(run.region), new Color(255, 255, 255, 90), 0.5f)
+                .stroke(List.of(run.region.outline()), Color.DARK_GRAY, 1.5f).colourBar(scale, 1).scaleBar()
+                .save(run.path("map_median_age.png"));
+        run.report.heading("Smooth surface of the median age").paragraph(String.format(Locale.ROOT, "Ordinary kriging "
+                + "of the latest season's densities (32 nearest districts, the fitted variogram above, each density's "
+                + "estimation variance as measurement error) onto a %d × %d grid over the region; the median of each "
+                + "predicted density gives a smooth surface of the median age of visits (%,d cells inside the outline, "
+                + "%.1f s). District borders are drawn faintly.", nx, ny, cells[0], secs));
+        run.report.figure("map_median_age.png", "Median age of visits from the kriged densities.");
+    }
+
+    static JFreeChart variogramChart(String title, EmpiricalVariogram ev, VariogramModel model, double maxLag) {
+        double[] h = new double[120];
+        double[] g = new double[h.length];
+        for (int i = 0; i < h.length; i++) {
+            h[i] = maxLag * i / (h.length - 1.0);
+            g[i] = model.gamma(h[i]);
+        }
+        return Charts.chart(title, "distance h (km)", "γ(h), squared B2 norm", List.of(
+                new Charts.Series("empirical", ev.meanLags(), ev.semivariances(), Charts.Style.POINTS, 0),
+                new Charts.Series("fitted", h, g, Charts.Style.LINE, 1)));
     }
 
     // ------------------------------------------------------------------ output
