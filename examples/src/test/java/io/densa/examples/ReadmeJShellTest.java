@@ -47,18 +47,27 @@ class ReadmeJShellTest {
         return blocks;
     }
 
-    /** Splits source into complete snippets the way JShell would read them. */
+    /**
+     * Splits source into snippets the way interactive JShell reads it: line by line, a snippet
+     * ends at the first line where the text so far is complete. Comment-only lines are skipped.
+     */
     static List<String> snippets(JShell shell, String source) {
         List<String> out = new ArrayList<>();
         SourceCodeAnalysis analysis = shell.sourceCodeAnalysis();
-        String rest = source;
-        while (!rest.isBlank()) {
-            SourceCodeAnalysis.CompletionInfo info = analysis.analyzeCompletion(rest);
-            if (!info.completeness().isComplete()) {
-                fail("incomplete snippet in the README or startup script: " + rest);
+        StringBuilder buffer = new StringBuilder();
+        for (String line : source.split("\n", -1)) {
+            if (buffer.length() == 0 && (line.isBlank() || line.strip().startsWith("//"))) {
+                continue;
             }
-            out.add(info.source());
-            rest = info.remaining();
+            buffer.append(line).append('\n');
+            SourceCodeAnalysis.CompletionInfo info = analysis.analyzeCompletion(buffer.toString());
+            if (info.completeness().isComplete() && info.remaining().isBlank()) {
+                out.add(info.source());
+                buffer.setLength(0);
+            }
+        }
+        if (!buffer.toString().isBlank()) {
+            fail("incomplete snippet at the end of the README or startup script: " + buffer);
         }
         return out;
     }
