@@ -16,7 +16,7 @@ import org.locationtech.jts.geom.Polygon;
  * and a second field), δ is a slow ageing drift, and the g's wobble a little from season to
  * season. In the latest season a spatially clustered group of districts (a third random field
  * above its upper quantile) moves a share p_i of its visits to a child and young-adult profile
- * N(16, 7²). Counts are multinomial draws of the season's total visits.
+ * N(14, 6²) (p_i between 0.30 and 0.45). Counts are multinomial draws of the season's total visits.
  *
  * @param region        the districts
  * @param seasons       number of seasons (the last one is the season under surveillance)
@@ -32,8 +32,8 @@ record AgeScenario(Region region, int seasons, int[][][] counts, double[] urbani
 
     static final int AGES = 100;
     /** Mean and sd of the age profile that shifted visits move to. */
-    static final double SHIFT_MEAN = 16;
-    static final double SHIFT_SD = 7;
+    static final double SHIFT_MEAN = 14;
+    static final double SHIFT_SD = 6;
 
     /** Generates the scenario with {@code n} districts (about; Voronoi clipping may drop none). */
     static AgeScenario generate(long seed, int n, int seasons) {
@@ -81,7 +81,7 @@ record AgeScenario(Region region, int seasons, int[][][] counts, double[] urbani
         for (int i = 0; i < m; i++) {
             if (hot[i] > cut) {
                 shifted[i] = true;
-                fraction[i] = 0.22 + 0.12 * Math.min(1, (hot[i] - cut) / 1.0);
+                fraction[i] = 0.30 + 0.15 * Math.min(1, (hot[i] - cut) / 1.0);
             }
         }
 

@@ -150,8 +150,9 @@ final class Study1 {
                 + " visits and " + small + " districts have fewer than 100. Profiles vary smoothly from district to "
                 + "district (urbanity, share of older residents, smooth random fields) and drift slowly over the "
                 + "seasons. In the latest season a spatially clustered group of " + count(sc.shifted())
-                + " districts (a simulated Gaussian random field above its 92 % quantile) moves 22–34 % of its "
-                + "visits to a child and young-adult profile (normal, mean 16, sd 7 years). The generator records "
+                + " districts (a simulated Gaussian random field above its 92 % quantile) moves 30–45 % of its "
+                + "visits to a child and young-adult profile (normal, mean " + (int) AgeScenario.SHIFT_MEAN + ", sd "
+                + (int) AgeScenario.SHIFT_SD + " years). The generator records "
                 + "which districts were shifted, so the report scores its own flags.");
         run.report.paragraph("Coordinates: computations use planar kilometres (" + run.region.projection().describe()
                 + "); the GeoJSON is in WGS 84 longitude/latitude as RFC 7946 requires. The invented region is "
@@ -402,7 +403,7 @@ final class Study1 {
                 scores.calibrationSize(), FDR));
         run.report.paragraph(String.format(Locale.ROOT, "**Self-score against the injected truth:** %d flagged, %d "
                 + "of them truly shifted; %d shifted districts missed. **Precision %.2f, recall %.2f.** Missed "
-                + "districts tend to be small ones, where moving a fifth of a few dozen visits is within sampling "
+                + "districts tend to be small ones, where moving a third of a few dozen visits is within sampling "
                 + "noise.", tp + fp, tp, fn, precision, recall));
         int[] cat = new int[n];
         for (int i = 0; i < n; i++) {
