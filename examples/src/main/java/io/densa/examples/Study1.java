@@ -619,7 +619,7 @@ final class Study1 {
         double[] h = new double[120];
         double[] g = new double[h.length];
         for (int i = 0; i < h.length; i++) {
-            h[i] = maxLag * i / (h.length - 1.0);
+            h[i] = maxLag * (i + 1) / h.length; // from just above 0: the nugget is a jump at h = 0
             g[i] = model.gamma(h[i]);
         }
         return Charts.chart(title, "distance h (km)", "γ(h), squared B2 norm", List.of(

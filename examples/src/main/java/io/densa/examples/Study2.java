@@ -388,7 +388,7 @@ final class Study2 {
         double[] g1 = new double[h.length];
         double[] g2 = new double[h.length];
         for (int i = 0; i < h.length; i++) {
-            h[i] = maxLag * i / (h.length - 1.0);
+            h[i] = maxLag * (i + 1) / h.length; // from just above 0: the nugget is a jump at h = 0
             g1[i] = rawModel.gamma(h[i]);
             g2[i] = residModel.gamma(h[i]);
         }
