@@ -1,0 +1,563 @@
+package io.densa.core;
+
+import java.util.Arrays;
+
+/**
+ * Damped Newton maximisation of a penalised log-likelihood in raw basis coefficients, with its
+ * working arrays (one instance per thread; nothing is allocated inside the iteration). Internal.
+ *
+ * <p>With η(x) = φ(x)·β, A_j = ∫_{bin j} e^η dP and Z = Σ_j A_j (all by the layout's quadrature,
+ * shifted by max η for log-sum-exp):
+ * <ul>
+ * <li>binned counts: ℓ(β) = Σ_j n_j log(A_j / Z) (the multinomial log-likelihood of the counts
+ * given that an observation falls in the bins);</li>
+ * <li>raw samples: ℓ(β) = Σ_i w_i η(x_i) − W log Z = t·β − W log Z with t = Σ_i w_i φ(x_i),
+ * W = Σ_i w_i.</li>
+ * </ul>
+ * The objective is Φ(β) = ℓ(β) − λ β'Pβ. Gradient ℓ' = t + Σ_q r_q φ_q with
+ * r_q = w_q e^{η_q}(n_{j(q)}/A_{j(q)} − N/Z). Observed information (counts)
+ * −ℓ'' = N(S/Z − m m') − Σ_j n_j (S_j/A_j − m_j m_j'), m and S the mean and second moment of φ
+ * under the density, m_j, S_j within bin j; expected (Fisher) information
+ * F = N (Σ_j π_j m_j m_j' − m m'). The step solves (−ℓ'' + 2λP) Δ = Φ'; when the observed matrix
+ * is not positive definite the Fisher matrix is used (Fisher scoring). Steps are halved until
+ * the Armijo condition Φ(β + tΔ) ≥ Φ(β) + 10⁻⁴ t Φ'·Δ holds.
+ */
+final class PenalizedNewton {
+    final BinLayout lay;
+    final int k;
+    final int k1;
+    private final double[] pen;
+
+    // unit data
+    double[] counts; // null: sample mode
+    double total;
+    double total2;
+    final double[] linear;
+
+    // state
+    final double[] beta;
+    final double[] trial;
+    final double[] grad;
+    final double[] hess;
+    final double[] fisher;
+    final double[] step;
+    final double[] eta;
+    final double[] ex;
+    final double[] mass;
+    final double[] mvec;
+    final double[] uj;
+    final double[] solveA;
+    final double[] solveB;
+    final double[] scratch1;
+    final double[] scratch2;
+    double zScaled;
+    double shift;
+    double loglik;
+    double objective;
+    int iterations;
+    boolean usedFisher;
+    String failure;
+
+    PenalizedNewton(BinLayout lay, double[] rawPenalty) {
+        this.lay = lay;
+        this.k = lay.k;
+        this.k1 = k + 1;
+        this.pen = rawPenalty;
+        linear = new double[k1];
+        beta = new double[k1];
+        trial = new double[k1];
+        grad = new double[k1];
+        hess = new double[k1 * k1];
+        fisher = new double[k * k];
+        step = new double[k1];
+        eta = new double[lay.nodes];
+        ex = new double[lay.nodes];
+        mass = new double[lay.bins];
+        mvec = new double[k1];
+        uj = new double[k1];
+        solveA = new double[k * k];
+        solveB = new double[k * k];
+        scratch1 = new double[k * k];
+        scratch2 = new double[k * k];
+    }
+
+    /** Optional K × D map from log(n_j + 1/2) to starting coefficients, and its constant. */
+    double[] startMap;
+    double[] startConst;
+
+    /**
+     * Starting coefficients from the counts: a lightly penalised least-squares fit of the log
+     * histogram heights log((n_j + 1/2)/(h_j p(x_j))) (zero start when no map is set).
+     */
+    void startFromCounts() {
+        Arrays.fill(beta, 0.0);
+        if (startMap == null || counts == null) {
+            return;
+        }
+        int d = lay.bins;
+        System.arraycopy(startConst, 0, beta, 0, k);
+        for (int j = 0; j < d; j++) {
+            double lj = Math.log(counts[j] + 0.5);
+            for (int i = 0; i < k; i++) {
+                beta[i] += startMap[i * d + j] * lj;
+            }
+        }
+        beta[k] = 0.0;
+    }
+
+    /** β'Pβ over the first K coefficients. */
+    double penalty(double[] b) {
+        double s = 0;
+        for (int i = 0; i < k; i++) {
+            double r = 0;
+            int o = i * k;
+            for (int j = 0; j < k; j++) {
+                r += pen[o + j] * b[j];
+            }
+            s += b[i] * r;
+        }
+        return s;
+    }
+
+    /** Evaluates Φ at b, filling eta, ex, mass, zScaled, shift and loglik. */
+    double evaluate(double[] b, double lambda) {
+        final int nq = lay.nodes, w = lay.width;
+        final double[] vals = lay.vals;
+        final int[] first = lay.first;
+        double max = Double.NEGATIVE_INFINITY;
+        for (int q = 0; q < nq; q++) {
+            int f = first[q], base = q * w;
+            double s = 0;
+            for (int i = 0; i < w; i++) {
+                s += vals[base + i] * b[f + i];
+            }
+            eta[q] = s;
+            if (s > max) {
+                max = s;
+            }
+        }
+        shift = max;
+        final double[] wt = lay.weight;
+        final int[] start = lay.binStart;
+        double z = 0;
+        for (int j = 0; j < lay.bins; j++) {
+            double s = 0;
+            for (int q = start[j]; q < start[j + 1]; q++) {
+                double e = wt[q] * Math.exp(eta[q] - max);
+                ex[q] = e;
+                s += e;
+            }
+            mass[j] = s;
+            z += s;
+        }
+        zScaled = z;
+        double ll;
+        if (counts != null) {
+            double logZ = Math.log(z);
+            ll = 0;
+            for (int j = 0; j < lay.bins; j++) {
+                double n = counts[j];
+                if (n > 0) {
+                    ll += n * (Math.log(mass[j]) - logZ);
+                }
+            }
+        } else {
+            double tb = 0;
+            for (int i = 0; i < k; i++) {
+                tb += linear[i] * b[i];
+            }
+            ll = tb - total * (max + Math.log(z));
+        }
+        loglik = ll;
+        if (Double.isNaN(ll)) {
+            ll = Double.NEGATIVE_INFINITY;
+        }
+        return ll - lambda * penalty(b);
+    }
+
+    /**
+     * Gradient of Φ and the information matrix (+ 2λP) at the last evaluated point (which must
+     * be beta), into grad and hess (full symmetric, stride k1).
+     */
+    void derivatives(double lambda, boolean expected) {
+        Arrays.fill(grad, 0.0);
+        Arrays.fill(hess, 0.0);
+        Arrays.fill(mvec, 0.0);
+        final int w = lay.width;
+        final double[] vals = lay.vals;
+        final int[] first = lay.first;
+        final int[] start = lay.binStart;
+        final double z = zScaled;
+        final double nz = total / z;
+        final boolean countsMode = counts != null;
+        final boolean sTerm = !expected || !countsMode;
+        // running 4 × 4 block of the second-moment term for the current local index (W = 4)
+        int fcur = -1;
+        double h00 = 0, h10 = 0, h11 = 0, h20 = 0, h21 = 0, h22 = 0, h30 = 0, h31 = 0, h32 = 0, h33 = 0;
+        for (int j = 0; j < lay.bins; j++) {
+            double a = mass[j];
+            double nj = countsMode ? counts[j] : 0.0;
+            double cj = nj > 0 ? nj / a : 0.0;
+            double coefR = cj - nz; // r_q = e_q coefR
+            int lo = lay.binLo[j], hi = lay.binHi[j];
+            Arrays.fill(uj, lo, hi, 0.0);
+            int q0 = start[j], q1 = start[j + 1];
+            if (w == 4) {
+                for (int q = q0; q < q1; q++) {
+                    double e = ex[q];
+                    int f = first[q], base = q << 2;
+                    double v0 = vals[base], v1 = vals[base + 1], v2 = vals[base + 2], v3 = vals[base + 3];
+                    uj[f] += e * v0;
+                    uj[f + 1] += e * v1;
+                    uj[f + 2] += e * v2;
+                    uj[f + 3] += e * v3;
+                    if (sTerm) {
+                        if (f != fcur) {
+                            if (fcur >= 0) {
+                                flush4(fcur, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
+                            }
+                            fcur = f;
+                            h00 = h10 = h11 = h20 = h21 = h22 = h30 = h31 = h32 = h33 = 0;
+                        }
+                        double m0 = -e * coefR * v0, m1 = -e * coefR * v1, m2 = -e * coefR * v2;
+                        double m3 = -e * coefR * v3;
+                        h00 += m0 * v0;
+                        h10 += m1 * v0;
+                        h11 += m1 * v1;
+                        h20 += m2 * v0;
+                        h21 += m2 * v1;
+                        h22 += m2 * v2;
+                        h30 += m3 * v0;
+                        h31 += m3 * v1;
+                        h32 += m3 * v2;
+                        h33 += m3 * v3;
+                    }
+                }
+            } else {
+                for (int q = q0; q < q1; q++) {
+                    double e = ex[q];
+                    if (e == 0.0) {
+                        continue;
+                    }
+                    int f = first[q], base = q * w;
+                    for (int i = 0; i < w; i++) {
+                        uj[f + i] += e * vals[base + i];
+                    }
+                    if (sTerm) {
+                        double mr = -e * coefR;
+                        for (int i = 0; i < w; i++) {
+                            double vi = mr * vals[base + i];
+                            int row = (f + i) * k1 + f;
+                            for (int l = 0; l <= i; l++) {
+                                hess[row + l] += vi * vals[base + l];
+                            }
+                        }
+                    }
+                }
+            }
+            for (int i = lo; i < hi; i++) {
+                grad[i] += coefR * uj[i];
+                mvec[i] += uj[i];
+            }
+            boolean rank = countsMode && (expected ? a > 0 : nj > 0);
+            if (rank) {
+                double coef = expected ? total / (z * a) : nj / (a * a);
+                for (int i = lo; i < hi; i++) {
+                    double ui = coef * uj[i];
+                    int row = i * k1;
+                    for (int l = lo; l <= i; l++) {
+                        hess[row + l] += ui * uj[l];
+                    }
+                }
+            }
+        }
+        if (fcur >= 0) {
+            flush4(fcur, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
+        }
+        double c1 = total / (z * z);
+        for (int i = 0; i < k; i++) {
+            double mi = c1 * mvec[i];
+            int row = i * k1;
+            for (int l = 0; l <= i; l++) {
+                hess[row + l] -= mi * mvec[l];
+            }
+        }
+        for (int i = 0; i < k; i++) {
+            grad[i] += linear[i];
+        }
+        symmetrize();
+        if (lambda != 0.0) {
+            for (int i = 0; i < k; i++) {
+                double r = 0;
+                int o = i * k;
+                int row = i * k1;
+                for (int j = 0; j < k; j++) {
+                    double p = pen[o + j];
+                    r += p * beta[j];
+                    hess[row + j] += 2 * lambda * p;
+                }
+                grad[i] -= 2 * lambda * r;
+            }
+        }
+    }
+
+    private void flush4(int f, double h00, double h10, double h11, double h20, double h21, double h22, double h30,
+            double h31, double h32, double h33) {
+        int r0 = f * k1 + f, r1 = r0 + k1, r2 = r1 + k1, r3 = r2 + k1;
+        hess[r0] += h00;
+        hess[r1] += h10;
+        hess[r1 + 1] += h11;
+        hess[r2] += h20;
+        hess[r2 + 1] += h21;
+        hess[r2 + 2] += h22;
+        hess[r3] += h30;
+        hess[r3 + 1] += h31;
+        hess[r3 + 2] += h32;
+        hess[r3 + 3] += h33;
+    }
+
+    private void symmetrize() {
+        for (int i = 0; i < k; i++) {
+            for (int l = 0; l < i; l++) {
+                hess[l * k1 + i] = hess[i * k1 + l];
+            }
+        }
+    }
+
+    /** In-place Cholesky of the leading K × K block of m (stride s); false if not positive definite. */
+    static boolean cholesky(double[] m, int k, int s) {
+        for (int j = 0; j < k; j++) {
+            int rj = j * s;
+            double d = m[rj + j];
+            for (int p = 0; p < j; p++) {
+                d -= m[rj + p] * m[rj + p];
+            }
+            if (!(d > 0) || !Double.isFinite(d)) {
+                return false;
+            }
+            d = Math.sqrt(d);
+            m[rj + j] = d;
+            double inv = 1.0 / d;
+            for (int i = j + 1; i < k; i++) {
+                int ri = i * s;
+                double v = m[ri + j];
+                for (int p = 0; p < j; p++) {
+                    v -= m[ri + p] * m[rj + p];
+                }
+                m[ri + j] = v * inv;
+            }
+        }
+        return true;
+    }
+
+    /** Solves L L' x = rhs in place (L the lower factor in m, stride s). */
+    static void cholSolve(double[] m, int k, int s, double[] x, int xo) {
+        for (int i = 0; i < k; i++) {
+            double v = x[xo + i];
+            int ri = i * s;
+            for (int p = 0; p < i; p++) {
+                v -= m[ri + p] * x[xo + p];
+            }
+            x[xo + i] = v / m[ri + i];
+        }
+        for (int i = k - 1; i >= 0; i--) {
+            double v = x[xo + i];
+            for (int p = i + 1; p < k; p++) {
+                v -= m[p * s + i] * x[xo + p];
+            }
+            x[xo + i] = v / m[i * s + i];
+        }
+    }
+
+    /**
+     * Newton iterations from the current beta at smoothing λ.
+     *
+     * @return true on convergence; otherwise {@link #failure} says why
+     */
+    boolean solve(double lambda, int maxIter, double tol) {
+        failure = null;
+        usedFisher = false;
+        iterations = 0;
+        double obj = evaluate(beta, lambda);
+        if (!(obj > Double.NEGATIVE_INFINITY)) {
+            failure = "the starting coefficients give probability 0 to an occupied bin";
+            objective = obj;
+            return false;
+        }
+        double lastDec = Double.NaN;
+        for (int it = 1; it <= maxIter; it++) {
+            iterations = it;
+            derivatives(lambda, false);
+            if (!cholesky(hess, k, k1)) {
+                usedFisher = true;
+                derivatives(lambda, true);
+                if (!cholesky(hess, k, k1)) {
+                    failure = "penalised information matrix is singular at iteration " + it
+                            + " (too few occupied bins for K = " + k + " without enough smoothing)";
+                    objective = obj;
+                    return false;
+                }
+            }
+            System.arraycopy(grad, 0, step, 0, k);
+            cholSolve(hess, k, k1, step, 0);
+            double dec = 0;
+            for (int i = 0; i < k; i++) {
+                dec += grad[i] * step[i];
+            }
+            lastDec = dec;
+            if (!(dec >= 0) || !Double.isFinite(dec)) {
+                failure = "non-finite Newton step at iteration " + it;
+                objective = obj;
+                return false;
+            }
+            double scale = 1 + Math.abs(obj);
+            if (dec <= tol * scale) {
+                objective = obj;
+                return true;
+            }
+            double t = 1.0;
+            boolean accepted = false;
+            double o = obj;
+            for (int ls = 0; ls < 60; ls++) {
+                for (int i = 0; i < k; i++) {
+                    trial[i] = beta[i] + t * step[i];
+                }
+                trial[k] = 0.0;
+                o = evaluate(trial, lambda);
+                if (o >= obj + 1e-4 * t * dec) {
+                    accepted = true;
+                    break;
+                }
+                t *= 0.5;
+            }
+            if (!accepted) {
+                evaluate(beta, lambda);
+                objective = obj;
+                if (dec <= 1e-7 * scale) {
+                    return true; // at the rounding limit of Φ
+                }
+                failure = "line search failed at iteration " + it + " (Newton decrement " + dec + ")";
+                return false;
+            }
+            System.arraycopy(trial, 0, beta, 0, k1);
+            obj = o;
+        }
+        objective = obj;
+        failure = "no convergence in " + maxIter + " Newton iterations (last decrement " + lastDec + ")";
+        return false;
+    }
+
+    /**
+     * The unpenalised Fisher information F (K × K, row-major, into {@link #fisher}) at the last
+     * evaluated point (beta): expected multinomial information for counts, (Σw²/W) times the
+     * observed information for samples.
+     */
+    void fisherInformation() {
+        derivatives(0.0, true);
+        double f = counts == null ? total2 / total : 1.0;
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j < k; j++) {
+                fisher[i * k + j] = f * hess[i * k1 + j];
+            }
+        }
+    }
+
+    /**
+     * After {@link #fisherInformation()}: factors J = F + 2λP = LL' and returns
+     * edf = tr(J⁻¹F) = tr(W), W = L⁻¹ F L⁻ᵀ, or NaN if J is singular. If cov != null, writes the
+     * sandwich covariance of the coordinates c = U β there: U J⁻¹ F J⁻¹ U' = M W M' with the upper
+     * triangular M = U L⁻ᵀ (K × K).
+     */
+    double sandwich(double lambda, double[] u, double[] cov) {
+        final int n = k;
+        for (int i = 0; i < n * n; i++) {
+            solveA[i] = fisher[i] + 2 * lambda * pen[i];
+        }
+        if (!cholesky(solveA, n, n)) {
+            return Double.NaN;
+        }
+        double[] linv = solveB;
+        Arrays.fill(linv, 0.0);
+        for (int c = 0; c < n; c++) {
+            for (int i = c; i < n; i++) {
+                double s = i == c ? 1.0 : 0.0;
+                int ri = i * n;
+                for (int p = c; p < i; p++) {
+                    s -= solveA[ri + p] * linv[p * n + c];
+                }
+                linv[ri + c] = s / solveA[ri + i];
+            }
+        }
+        // t1 = L⁻¹ F
+        double[] t1 = scratch1;
+        for (int i = 0; i < n; i++) {
+            int ri = i * n;
+            Arrays.fill(t1, ri, ri + n, 0.0);
+            for (int p = 0; p <= i; p++) {
+                double l = linv[ri + p];
+                int rp = p * n;
+                for (int j = 0; j < n; j++) {
+                    t1[ri + j] += l * fisher[rp + j];
+                }
+            }
+        }
+        // w = t1 L⁻ᵀ (symmetric): w_ij = Σ_{p ≤ j} t1_ip linv_jp
+        double[] wm = scratch2;
+        double edf = 0;
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j <= i; j++) {
+                double s = 0;
+                int ri = i * n, rj = j * n;
+                for (int p = 0; p <= j; p++) {
+                    s += t1[ri + p] * linv[rj + p];
+                }
+                wm[ri + j] = s;
+                wm[rj + i] = s;
+            }
+            edf += wm[i * n + i];
+        }
+        if (cov == null) {
+            return edf;
+        }
+        // m = U L⁻ᵀ (upper): m_ij = Σ_{i ≤ p ≤ j} u_ip linv_jp ; stored in t1
+        double[] m = t1;
+        Arrays.fill(m, 0.0);
+        for (int i = 0; i < n; i++) {
+            int ri = i * n;
+            for (int j = i; j < n; j++) {
+                double s = 0;
+                int rj = j * n;
+                for (int p = i; p <= j; p++) {
+                    s += u[ri + p] * linv[rj + p];
+                }
+                m[ri + j] = s;
+            }
+        }
+        // t2 = m w (into linv, no longer needed), cov = t2 m'
+        double[] t2 = linv;
+        for (int i = 0; i < n; i++) {
+            int ri = i * n;
+            Arrays.fill(t2, ri, ri + n, 0.0);
+            for (int p = i; p < n; p++) {
+                double mv = m[ri + p];
+                int rp = p * n;
+                for (int j = 0; j < n; j++) {
+                    t2[ri + j] += mv * wm[rp + j];
+                }
+            }
+        }
+        for (int i = 0; i < n; i++) {
+            int ri = i * n;
+            for (int j = 0; j <= i; j++) {
+                double s = 0;
+                int rj = j * n;
+                for (int p = j; p < n; p++) {
+                    s += t2[ri + p] * m[rj + p];
+                }
+                cov[ri + j] = s;
+                cov[rj + i] = s;
+            }
+        }
+        return edf;
+    }
+}
