@@ -1,43 +1,36 @@
 package io.densa.examples;
 
+import io.densa.core.BatchEstimate;
 import io.densa.core.BayesSpace;
-import io.densa.core.Density;
-import io.densa.core.DensitySet;
-import java.util.ArrayList;
-import java.util.List;
+import io.densa.core.EstimationDiagnostics;
+import io.densa.core.PenalizedLikelihoodEstimator;
 
 /**
- * Densities from samples. Provisional: a 30-bin histogram with add-half counts fitted by least
- * squares on the log scale (core only), used until the penalised-likelihood estimator is merged;
- * it reports no estimation variances.
+ * Densities from samples with Densa's penalised-likelihood estimator: roughness penalty on the
+ * third derivative of the clr and one common smoothing parameter (the median of the AIC choices).
  */
 final class SampleDensities {
     private SampleDensities() {
     }
 
     static String describe() {
-        return "least-squares fit of the log of a 30-bin add-half histogram (provisional core-only estimator)";
+        return "Densa's penalised-likelihood estimator with a roughness penalty on the third derivative of the clr "
+                + "(whose null space holds the normal densities, a natural default for log concentrations) and one "
+                + "common smoothing parameter, the median of the per-monitor AIC choices";
     }
 
     static Estimates estimate(BayesSpace space, double[][] values, String[] ids) {
-        int bins = 30;
-        double lo = space.lower();
-        double w = (space.upper() - lo) / bins;
-        double[] mid = new double[bins];
-        for (int b = 0; b < bins; b++) {
-            mid[b] = lo + (b + 0.5) * w;
+        PenalizedLikelihoodEstimator base = PenalizedLikelihoodEstimator.of(space).withPenaltyOrder(3);
+        BatchEstimate first = base.fitAllSamples(values, null, ids);
+        double[] lambda = first.diagnostics().stream().mapToDouble(EstimationDiagnostics::smoothing).sorted()
+                .toArray();
+        BatchEstimate est = base.withSmoothing(lambda[lambda.length / 2]).fitAllSamples(values, null, ids);
+        double lo = Double.POSITIVE_INFINITY;
+        double hi = Double.NEGATIVE_INFINITY;
+        for (EstimationDiagnostics d : est.diagnostics()) {
+            lo = Math.min(lo, d.effectiveDegreesOfFreedom());
+            hi = Math.max(hi, d.effectiveDegreesOfFreedom());
         }
-        List<Density> out = new ArrayList<>();
-        for (double[] v : values) {
-            double[] h = new double[bins];
-            for (double x : v) {
-                h[Math.min(bins - 1, Math.max(0, (int) Math.floor((x - lo) / w)))]++;
-            }
-            for (int b = 0; b < bins; b++) {
-                h[b] = (h[b] + 0.5) / ((v.length + 0.5 * bins) * w);
-            }
-            out.add(AgeDensities.leastSquaresLog(space, mid, h));
-        }
-        return new Estimates(DensitySet.of(out, ids), null, 0, Double.NaN, Double.NaN);
+        return new Estimates(est.densities(), est.estimationVariances(), est.flaggedRows().size(), lo, hi);
     }
 }

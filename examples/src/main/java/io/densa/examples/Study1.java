@@ -186,12 +186,17 @@ final class Study1 {
         int notConverged = 0;
         double minEdf = Double.POSITIVE_INFINITY;
         double maxEdf = Double.NEGATIVE_INFINITY;
+        int[][] first = new int[run.n][];
+        for (int i = 0; i < run.n; i++) {
+            first[i] = sc.counts()[i][0];
+        }
+        double lambda = AgeDensities.commonSmoothing(run.space, first);
         for (int s = 0; s < sc.seasons(); s++) {
             int[][] counts = new int[run.n][];
             for (int i = 0; i < run.n; i++) {
                 counts[i] = sc.counts()[i][s];
             }
-            Estimates est = AgeDensities.estimate(run.space, counts, ids);
+            Estimates est = AgeDensities.estimate(run.space, counts, ids, lambda);
             run.seasons[s] = est.densities();
             run.estimationVariance[s] = est.variances();
             notConverged += est.notConverged();
@@ -199,11 +204,12 @@ final class Study1 {
             maxEdf = Math.max(maxEdf, est.maxEdf());
         }
         run.metrics.put("notConverged", (double) notConverged);
-        run.progress.line("estimated " + run.n * sc.seasons() + " age densities (" + notConverged + " fits did not "
-                + "converge)");
+        run.progress.line(String.format(Locale.ROOT, "estimated %d age densities by penalised likelihood (common "
+                + "smoothing λ = %.3g; %d fits did not converge)", run.n * sc.seasons(), lambda, notConverged));
         run.report.heading("Age densities").paragraph("Each district-season's counts by single year of age are "
                 + "turned into a density on [0, 100) years in " + run.space + " by " + AgeDensities.describe()
-                + ". Dots are the observed shares by year of age; lines the estimated densities.");
+                + String.format(Locale.ROOT, " (λ = %.3g)", lambda) + ". Dots are the observed shares by year of age; "
+                + "lines the estimated densities.");
         if (Double.isFinite(minEdf)) {
             run.report.paragraph(String.format(Locale.ROOT, "%d of %d fits converged; effective degrees of freedom "
                     + "range from %.1f (small districts: strong smoothing) to %.1f.", run.n * sc.seasons()
