@@ -1,5 +1,6 @@
 package io.densa.examples;
 
+import io.densa.core.BayesSpace;
 import io.densa.spatial.VariogramModel;
 import java.util.Locale;
 
@@ -29,5 +30,17 @@ final class ModelText {
             }
         }
         return sb.toString();
+    }
+
+    /** E.g. {@code cubic B-splines on [0, 100] with 10 interior knots (K = 13), Lebesgue reference}. */
+    static String space(BayesSpace space, String interiorKnots) {
+        return String.format(Locale.ROOT, "the Bayes space of cubic B-splines on [%s, %s] with the Lebesgue reference "
+                + "and %s (K = %d orthonormal clr coordinates)", num(space.lower()), num(space.upper()), interiorKnots,
+                space.dimension());
+    }
+
+    /** Up to three significant digits, no trailing zeros. */
+    static String num(double v) {
+        return new java.math.BigDecimal(String.format(Locale.ROOT, "%.3g", v)).stripTrailingZeros().toPlainString();
     }
 }

@@ -127,7 +127,7 @@ final class Study2 {
         int notConverged = est.notConverged();
         progress.line("estimated " + m + " densities of log daily means (" + notConverged + " fits did not converge)");
         report.heading("Densities per monitor").paragraph("Each monitor's log daily means are turned into a density in "
-                + space + " by " + SampleDensities.describe() + "; " + notConverged + " fits did not converge. "
+                + ModelText.space(space, "8 equally spaced interior knots") + " by " + SampleDensities.describe() + "; " + notConverged + " fits did not converge. "
                 + (estVar == null ? "No estimation variances are available, so the kriging below treats the densities "
                 + "as exact." : "The estimator also reports each density's B2 estimation variance (trace of its "
                 + "coordinate covariance), used below as the measurement-error variance of the kriging."));
