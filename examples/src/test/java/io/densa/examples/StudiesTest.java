@@ -121,6 +121,11 @@ class StudiesTest {
     void study2WritesItsReport(@TempDir Path dir) throws IOException {
         StudyResult r = run(dir, "study2");
         checkFolder(r);
+        // The invented field is spatially correlated by construction (AirScenario), so kriging must
+        // predict held-out monitors better than the mean density of the others (simulation recovery).
+        assertTrue(r.metrics().get("looMseUniversal") < r.metrics().get("looMseMeanDensity"),
+                "kriging should beat the mean-density baseline: " + r.metrics());
+        assertTrue(r.metrics().get("gridCells") > 1000, "grid prediction missing: " + r.metrics());
     }
 
     @Test
