@@ -64,12 +64,6 @@ final class AgeDensities {
 
     static Estimates estimate(BayesSpace space, int[][] counts, String[] ids, double lambda) {
         BatchEstimate est = PenalizedLikelihoodEstimator.of(space).withSmoothing(lambda).fitAll(EDGES, counts, ids);
-        double lo = Double.POSITIVE_INFINITY;
-        double hi = Double.NEGATIVE_INFINITY;
-        for (EstimationDiagnostics d : est.diagnostics()) {
-            lo = Math.min(lo, d.effectiveDegreesOfFreedom());
-            hi = Math.max(hi, d.effectiveDegreesOfFreedom());
-        }
-        return new Estimates(est.densities(), est.estimationVariances(), est.flaggedRows().size(), lo, hi);
+        return Estimates.of(est);
     }
 }

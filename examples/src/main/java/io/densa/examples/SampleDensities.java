@@ -25,12 +25,6 @@ final class SampleDensities {
         double[] lambda = first.diagnostics().stream().mapToDouble(EstimationDiagnostics::smoothing).sorted()
                 .toArray();
         BatchEstimate est = base.withSmoothing(lambda[lambda.length / 2]).fitAllSamples(values, null, ids);
-        double lo = Double.POSITIVE_INFINITY;
-        double hi = Double.NEGATIVE_INFINITY;
-        for (EstimationDiagnostics d : est.diagnostics()) {
-            lo = Math.min(lo, d.effectiveDegreesOfFreedom());
-            hi = Math.max(hi, d.effectiveDegreesOfFreedom());
-        }
-        return new Estimates(est.densities(), est.estimationVariances(), est.flaggedRows().size(), lo, hi);
+        return Estimates.of(est);
     }
 }
