@@ -24,6 +24,8 @@ import org.ejml.data.DMatrixRMaj;
  * set's pointwise upper quantile (an excess of mass relative to the prediction) or below the
  * lower quantile (a deficit) are merged into intervals.</li>
  * </ol>
+ * The smallest possible p-value is 1/(n + 1), so a batch of m units can produce a flag only
+ * when n + 1 ≥ m/q: calibrate on enough units.
  *
  * <p>Immutable and thread-safe.
  */

@@ -200,7 +200,6 @@ public final class Design {
             throw new IllegalArgumentException(what + ": " + n + " observations for " + (p + extraParameters)
                     + " parameters; need at least as many observations as parameters");
         }
-        double[][] q = new double[p][];
         List<String> bad = new ArrayList<>();
         List<double[]> basis = new ArrayList<>();
         for (int j = 0; j < p; j++) {
@@ -233,7 +232,6 @@ public final class Design {
                     c[i] *= s;
                 }
                 basis.add(c);
-                q[j] = c;
             }
         }
         if (!bad.isEmpty()) {

@@ -3,7 +3,6 @@ package io.densa.regression;
 import io.densa.core.BayesSpace;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
-import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Objects;
@@ -29,11 +28,7 @@ public final class FunctionOnFunctionFit {
             DensitySet response, LinearFunctionalEngine.Result res) {
         this.config = config;
         this.design = design;
-        List<BayesSpace> sp = new ArrayList<>();
-        for (DensitySet s : predictors) {
-            sp.add(s.space());
-        }
-        this.predictorSpaces = List.copyOf(sp);
+        this.predictorSpaces = res.predictorSpaces();
         this.space = response.space();
         this.response = response;
         this.res = res;

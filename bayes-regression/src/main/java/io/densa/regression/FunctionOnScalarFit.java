@@ -233,6 +233,26 @@ public final class FunctionOnScalarFit {
         return s;
     }
 
+    /**
+     * Fit diagnostics.
+     *
+     * @param observations       n
+     * @param parameters         p (design columns)
+     * @param residualDf         n − p
+     * @param residualSumOfSquares Σ w_i ‖y_i ⊖ ŷ_i‖²
+     * @param rSquared           functional R²
+     * @param lambda             penalty weight (0 without penalty)
+     * @param weighted           whether observation weights were used
+     */
+    public record Diagnostics(int observations, int parameters, int residualDf, double residualSumOfSquares,
+            double rSquared, double lambda, boolean weighted) {
+    }
+
+    /** Fit diagnostics as a record. */
+    public Diagnostics diagnostics() {
+        return new Diagnostics(n, p, n - p, residualSumOfSquares(), rSquared, config.lambda(), weights != null);
+    }
+
     static String[] ids(DensitySet s) {
         return s.hasIds() ? s.ids().toArray(new String[0]) : null;
     }

@@ -23,7 +23,7 @@ final class LinearFunctionalEngine {
     /** Output of {@link #fit}. */
     record Result(double[] beta, int pz, int r, int[] offsets, FunctionalRegression.Candidate chosen,
             List<FunctionalRegression.Candidate> candidates, double[] fitted, double[] residuals, double rSquared,
-            List<Fpca> predictorFpca) {
+            List<Fpca> predictorFpca, List<BayesSpace> predictorSpaces) {
     }
 
     static Result fit(FunctionalRegression cfg, Design design, List<DensitySet> predictors, double[] y, int r) {
@@ -121,7 +121,12 @@ final class LinearFunctionalEngine {
             tss += mt[jj * w + jj] - st[jj] * st[jj] / n;
         }
         double r2 = tss > 0 ? 1 - rss / tss : 0.0;
-        return new Result(beta, pz, r, off, chosen, List.copyOf(scored), fitted, res, r2, all.fpcaList());
+        List<BayesSpace> spaces = new ArrayList<>();
+        for (DensitySet s : predictors) {
+            spaces.add(s.space());
+        }
+        return new Result(beta, pz, r, off, chosen, List.copyOf(scored), fitted, res, r2, all.fpcaList(),
+                List.copyOf(spaces));
     }
 
     private static double[] extend(double[] beta, int pz, int r, int w) {

@@ -40,7 +40,12 @@ final class Moments {
      * @param centre which columns to shift by their global mean
      */
     static Moments of(double[] x, int n, int w, int[] fold, int folds, boolean[] centre) {
-        double[] colSums = Kernels.columnSums(x, n, w, true);
+        return of(x, n, w, fold, folds, centre, true);
+    }
+
+    /** As above; {@code parallel = false} forces the serial path (same blocks, same result). */
+    static Moments of(double[] x, int n, int w, int[] fold, int folds, boolean[] centre, boolean parallel) {
+        double[] colSums = Kernels.columnSums(x, n, w, parallel);
         double[] shift = new double[w];
         for (int j = 0; j < w; j++) {
             shift[j] = centre[j] && n > 0 ? colSums[j] / n : 0.0;
@@ -49,7 +54,7 @@ final class Moments {
         double[][][] pc = new double[blocks][][];
         double[][][] ps = new double[blocks][][];
         int[][] pn = new int[blocks][];
-        Kernels.forEachBlock(blocks, Kernels.parallelWorth((long) n * w * w), blk -> {
+        Kernels.forEachBlock(blocks, parallel && Kernels.parallelWorth((long) n * w * w), blk -> {
             double[][] c = new double[folds][w * w];
             double[][] s = new double[folds][w];
             int[] cnt = new int[folds];

@@ -5,6 +5,7 @@ import io.densa.core.internal.Kernels;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Objects;
+import java.util.Optional;
 import java.util.SplittableRandom;
 import java.util.stream.Collectors;
 import java.util.stream.IntStream;
@@ -24,6 +25,37 @@ final class AutocorrelationSupport {
 
     /** Weights and values after the island policy: kept[a] = original index of unit a. */
     record Prepared(SpatialWeights weights, int[] kept, List<Integer> excluded) {
+    }
+
+    /**
+     * A scalar field ready for a statistic: weights after the island policy, deviations z from
+     * the mean of the kept values, Σ z², the kurtosis b2 and the excluded units.
+     */
+    record ScalarField(SpatialWeights weights, int[] kept, double[] z, double sumSq, double kurtosis,
+            List<Integer> excluded) {
+        int size() {
+            return z.length;
+        }
+    }
+
+    /** Checks the values, applies the island policy and centres the kept values. */
+    static ScalarField scalarField(SpatialWeights w, double[] values, SpatialWeights.IslandPolicy policy,
+            int minUnits, String what) {
+        checkValues(values, w);
+        Prepared p = prepare(w, policy, minUnits, what);
+        double[] z = centre(select(values, p.kept()), what);
+        return new ScalarField(p.weights(), p.kept(), z, sumSq(z), kurtosis(z), p.excluded());
+    }
+
+    /** The permutation test of a global statistic if the options ask for one. */
+    static Optional<AutocorrelationPermutation> permutationTest(ScalarField f, AutocorrelationOptions o,
+            double observed, double expectation, PermutedStatistic stat) {
+        if (o.permutations() == 0) {
+            return Optional.empty();
+        }
+        double[] sims = simulate(f.size(), o.permutations(), o.seed(), o.parallel(),
+                f.weights().linkCount() + 2L * f.size(), stat);
+        return Optional.of(summarise(observed, expectation, sims, o.seed()));
     }
 
     /** Degenerate-variance diagnostics. */
@@ -214,7 +246,9 @@ final class AutocorrelationSupport {
     /** Normal-approximation test from analytic moments. */
     static AutocorrelationMoments moments(double statistic, double expectation, double variance, String what,
             String assumption, int n) {
-        if (!(variance > 0) || !Double.isFinite(variance)) {
+        // Relative test: a variance that is zero up to rounding (e.g. every pair linked equally,
+        // where I = -1/(n - 1) for every arrangement) must not give a huge meaningless z.
+        if (!(variance > 1e-10 * (variance + expectation * expectation)) || !Double.isFinite(variance)) {
             throw new DensaException("the variance of " + what + " under " + assumption + " is " + variance
                     + " for these weights and values: the statistic's null distribution is degenerate"
                     + " (e.g. every pair of units linked with equal weight)",

@@ -51,12 +51,11 @@ public final class GearyC {
      *                                  a constant field or islands
      */
     public static double statistic(SpatialWeights weights, double[] values) {
-        AutocorrelationSupport.checkValues(values, weights);
-        AutocorrelationSupport.Prepared p = AutocorrelationSupport.prepare(weights,
+        AutocorrelationSupport.ScalarField f = AutocorrelationSupport.scalarField(weights, values,
                 SpatialWeights.IslandPolicy.ERROR, 2, "Geary's c");
-        double[] z = AutocorrelationSupport.centre(values, "Geary's c");
-        return (z.length - 1) * squaredDifferences(p.weights(), z, AutocorrelationSupport.identity(z.length))
-                / (2 * p.weights().s0() * AutocorrelationSupport.sumSq(z));
+        int n = f.size();
+        return (n - 1) * squaredDifferences(f.weights(), f.z(), AutocorrelationSupport.identity(n))
+                / (2 * f.weights().s0() * f.sumSq());
     }
 
     /** {@link #test(SpatialWeights, double[], AutocorrelationOptions)} with default options. */
@@ -75,18 +74,17 @@ public final class GearyC {
      */
     public static Result test(SpatialWeights weights, double[] values, AutocorrelationOptions options) {
         Objects.requireNonNull(options, "options");
-        AutocorrelationSupport.checkValues(values, weights);
-        AutocorrelationSupport.Prepared p = AutocorrelationSupport.prepare(weights, options.islandPolicy(), 4,
-                "the Geary's c test");
-        SpatialWeights w = p.weights();
-        double[] z = AutocorrelationSupport.centre(AutocorrelationSupport.select(values, p.kept()), "Geary's c");
-        int n = w.size();
+        AutocorrelationSupport.ScalarField f = AutocorrelationSupport.scalarField(weights, values,
+                options.islandPolicy(), 4, "the Geary's c test");
+        SpatialWeights w = f.weights();
+        double[] z = f.z();
+        int n = f.size();
         double nn = n;
-        double m2 = AutocorrelationSupport.sumSq(z);
+        double m2 = f.sumSq();
+        double b2 = f.kurtosis();
         double s0 = w.s0(), s1 = w.s1(), s2 = w.s2();
         double scale = (nn - 1) / (2 * s0 * m2);
         double stat = scale * squaredDifferences(w, z, AutocorrelationSupport.identity(n));
-        double b2 = AutocorrelationSupport.kurtosis(z);
         double s02 = s0 * s0;
         double varN = ((2 * s1 + s2) * (nn - 1) - 4 * s02) / (2 * (nn + 1) * s02);
         double varR = ((nn - 1) * s1 * (nn * nn - 3 * nn + 3 - (nn - 1) * b2)
@@ -96,13 +94,9 @@ public final class GearyC {
         AutocorrelationMoments normal = AutocorrelationSupport.moments(stat, 1.0, varN, "Geary's c", "normality", n);
         AutocorrelationMoments random = AutocorrelationSupport.moments(stat, 1.0, varR, "Geary's c",
                 "randomisation", n);
-        Optional<AutocorrelationPermutation> perm = Optional.empty();
-        if (options.permutations() > 0) {
-            double[] sims = AutocorrelationSupport.simulate(n, options.permutations(), options.seed(),
-                    options.parallel(), w.linkCount() + 2L * n, pi -> scale * squaredDifferences(w, z, pi));
-            perm = Optional.of(AutocorrelationSupport.summarise(stat, 1.0, sims, options.seed()));
-        }
-        return new Result(stat, n, p.excluded(), b2, normal, random, perm);
+        Optional<AutocorrelationPermutation> perm = AutocorrelationSupport.permutationTest(f, options, stat, 1.0,
+                pi -> scale * squaredDifferences(w, z, pi));
+        return new Result(stat, n, f.excluded(), b2, normal, random, perm);
     }
 
     /** Σ_i Σ_j w_ij (z_pi[i] − z_pi[j])². */

@@ -76,29 +76,8 @@ final class GridPredictor {
         final double[] beta;
 
         Dual(Kriging kr) {
-            LocalSystem g = kr.globalSystem();
-            int n = kr.n, p = kr.p, k = kr.k;
-            double[][] b = kr.driftCoefficients();
-            beta = new double[p * k];
-            for (int j = 0; j < p; j++) {
-                System.arraycopy(b[j], 0, beta, j * k, k);
-            }
-            double[] a = new double[n * k];
-            double[] col = new double[n];
-            for (int c = 0; c < k; c++) {
-                for (int r = 0; r < n; r++) {
-                    double s = g.ly[r * k + c];
-                    for (int j = 0; j < p; j++) {
-                        s -= g.g[r * p + j] * beta[j * k + c];
-                    }
-                    col[r] = s;
-                }
-                LocalSystem.backward(g.l, n, col);
-                for (int r = 0; r < n; r++) {
-                    a[r * k + c] = col[r];
-                }
-            }
-            alpha = a;
+            beta = kr.driftCoefficientsFlat();
+            alpha = kr.dualWeights(beta);
         }
     }
 
@@ -166,13 +145,12 @@ final class GridPredictor {
         } else if (kr.options.neighbourhood().isGlobal()) {
             LocalSystem g = kr.globalSystem();
             double[] cv = new double[kr.n];
+            double[] dist = new double[kr.n];
             double[] f0 = new double[kr.p];
             LocalSystem.Scratch sc = new LocalSystem.Scratch(kr.p);
             for (int q = 0; q < m; q++) {
                 double x = grid.x(cols[q]), y = grid.y(rows[q]);
-                for (int i = 0; i < kr.n; i++) {
-                    cv[i] = kr.cov(kr.loc.distanceTo(i, x, y));
-                }
+                kr.targetCovariances(null, kr.n, x, y, dist, cv);
                 kr.driftAt(x, y, null, f0);
                 double v = g.predict(cv, f0, kr.c00, kr.centre(), coords, q * k, null, sc);
                 if (var != null) {
@@ -214,14 +192,14 @@ final class GridPredictor {
         double[] c0 = new double[chunk * n];
         double[] part = new double[chunk * k];
         double[] f0 = new double[p];
+        double[] dist = new double[n];
+        double[] row = new double[n];
         for (int q0 = 0; q0 < m; q0 += chunk) {
             int len = Math.min(chunk, m - q0);
             for (int q = 0; q < len; q++) {
                 double x = grid.x(cols[q0 + q]), y = grid.y(rows[q0 + q]);
-                int o = q * n;
-                for (int i = 0; i < n; i++) {
-                    c0[o + i] = kr.cov(kr.loc.distanceTo(i, x, y));
-                }
+                kr.targetCovariances(null, n, x, y, dist, row);
+                System.arraycopy(row, 0, c0, q * n, n);
             }
             Kernels.multiply(c0, len, n, d.alpha, k, part, false);
             for (int q = 0; q < len; q++) {
@@ -271,12 +249,13 @@ final class GridPredictor {
         LocalSystem.Scratch sc = new LocalSystem.Scratch(p);
         int need = Math.max(1, p + 1);
         double[] c0 = new double[want];
+        double[] nd = new double[want];
         for (int q = 0; q < m; q++) {
             double x = grid.x(cols[q]), y = grid.y(rows[q]);
             heap.clear();
+            kr.distances(cand, nc, x, y, dist);
             for (int a = 0; a < nc; a++) {
-                double dd = loc.distanceTo(cand[a], x, y);
-                dist[a] = dd;
+                double dd = dist[a];
                 if (hood.kind() == Neighbourhood.Kind.RADIUS && dd > hood.radius()) {
                     continue;
                 }
@@ -298,9 +277,8 @@ final class GridPredictor {
             }
             int mm = nb.length;
             double[] cv = mm == c0.length ? c0 : new double[mm];
-            for (int r = 0; r < mm; r++) {
-                cv[r] = kr.cov(loc.distanceTo(nb[r], x, y));
-            }
+            double[] dv = mm == nd.length ? nd : new double[mm];
+            kr.targetCovariances(nb, mm, x, y, dv, cv);
             kr.driftAt(x, y, null, f0);
             double v = sys.predict(cv, f0, kr.c00, kr.centre(), coords, q * k, null, sc);
             if (var != null) {

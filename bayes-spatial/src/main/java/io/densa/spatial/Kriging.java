@@ -70,6 +70,8 @@ public final class Kriging {
     private final double cy;
     private final double scale;
     private final double[] centre;
+    private final double[] sx;
+    private final double[] sy;
     private final double[] diagExtra;
     private final double[] errorVariances;
     final KrigingOptions options;
@@ -135,6 +137,8 @@ public final class Kriging {
             System.arraycopy(mean.coordinates(), 0, centre, 0, k);
         }
         this.index = NeighbourIndex.of(loc);
+        this.sx = loc.xs();
+        this.sy = loc.ys();
         double[] bb = loc.boundingBox();
         this.cx = 0.5 * (bb[0] + bb[2]);
         this.cy = 0.5 * (bb[1] + bb[3]);
@@ -247,10 +251,28 @@ public final class Kriging {
 
     /** The (pseudo-)covariance at lag h; C(0) at h = 0. */
     double cov(double h) {
-        if (h == 0) {
-            return c00;
+        return model.covariance(h, pseudoSill);
+    }
+
+    /** Distances from (x, y) to stations idx[0..m) (all stations 0..m−1 if idx is null) into out. */
+    void distances(int[] idx, int m, double x, double yy, double[] out) {
+        if (loc.kind() == Locations.Kind.PLANAR) {
+            for (int r = 0; r < m; r++) {
+                int i = idx == null ? r : idx[r];
+                double dx = sx[i] - x, dy = sy[i] - yy;
+                out[r] = Math.sqrt(dx * dx + dy * dy);
+            }
+        } else {
+            for (int r = 0; r < m; r++) {
+                out[r] = loc.distanceTo(idx == null ? r : idx[r], x, yy);
+            }
         }
-        return pseudoSill - model.gammaUnchecked(h);
+    }
+
+    /** Covariances from (x, y) to stations idx[0..m) (all if idx is null) into out; dist is scratch. */
+    void targetCovariances(int[] idx, int m, double x, double yy, double[] dist, double[] out) {
+        distances(idx, m, x, yy, dist);
+        model.covariances(dist, m, pseudoSill, out);
     }
 
     double stationCovariance(int i, int j) {
@@ -270,10 +292,12 @@ public final class Kriging {
                     double[] m = new double[n * n];
                     int blocks = (n + 63) / 64;
                     Kernels.forEachBlock(blocks, options.parallel() && n > 256, b -> {
+                        double[] d = new double[n];
+                        double[] row = new double[n];
                         for (int i = b * 64; i < Math.min(n, b * 64 + 64); i++) {
-                            for (int j = 0; j < n; j++) {
-                                m[i * n + j] = i == j ? c00 : cov(loc.distance(i, j));
-                            }
+                            targetCovariances(null, n, loc.x(i), loc.y(i), d, row);
+                            row[i] = c00;
+                            System.arraycopy(row, 0, m, i * n, n);
                         }
                     });
                     stationCov = m;
@@ -359,9 +383,7 @@ public final class Kriging {
         int[] nb = neighbours(x, yy, exclude);
         LocalSystem sys = systemFor(nb);
         double[] c0 = new double[nb.length];
-        for (int r = 0; r < nb.length; r++) {
-            c0[r] = cov(loc.distanceTo(nb[r], x, yy));
-        }
+        targetCovariances(nb, nb.length, x, yy, new double[nb.length], c0);
         double[] out = new double[k];
         double[] w = withWeights ? new double[nb.length] : null;
         double var = sys.predict(c0, f0, c00, centre, out, 0, w, new LocalSystem.Scratch(p));
@@ -427,9 +449,12 @@ public final class Kriging {
         double[] c0 = new double[nb.length];
         double[] f0 = new double[p];
         double[] fb = new double[p];
+        double[] dist = new double[nb.length];
+        double[] cu = new double[nb.length];
         for (double[] u : pts) {
+            targetCovariances(nb, nb.length, u[0], u[1], dist, cu);
             for (int r = 0; r < nb.length; r++) {
-                c0[r] += cov(loc.distanceTo(nb[r], u[0], u[1]));
+                c0[r] += cu[r];
             }
             driftAt(u[0], u[1], null, fb);
             for (int j = 0; j < p; j++) {
@@ -458,8 +483,8 @@ public final class Kriging {
     /** Centres of a square grid of the given spacing covered by the polygon (package-private for tests). */
     static double[][] discretise(Polygon polygon, double spacing) {
         Envelope env = polygon.getEnvelopeInternal();
-        long nx = (long) Math.ceil(env.getWidth() / spacing);
-        long ny = (long) Math.ceil(env.getHeight() / spacing);
+        long nx = (long) Math.ceil(env.getWidth() / spacing - 1e-9);
+        long ny = (long) Math.ceil(env.getHeight() / spacing - 1e-9);
         nx = Math.max(1, nx);
         ny = Math.max(1, ny);
         if (nx * ny > 1L << 22) {
@@ -560,39 +585,11 @@ public final class Kriging {
                 u[r * p + j] = col[r];
             }
         }
-        double[] gty = new double[p * k];
-        for (int r = 0; r < n; r++) {
-            for (int j = 0; j < p; j++) {
-                double gj = g.g[r * p + j];
-                for (int c = 0; c < k; c++) {
-                    gty[j * k + c] += gj * g.ly[r * k + c];
-                }
-            }
-        }
-        double[] beta = new double[p * k];
-        for (int i = 0; i < p; i++) {
-            for (int j = 0; j < p; j++) {
-                double s = g.sInv[i * p + j];
-                for (int c = 0; c < k; c++) {
-                    beta[i * k + c] += s * gty[j * k + c];
-                }
-            }
-        }
+        double[] alpha = dualWeights(driftCoefficientsFlat());
         double[][] err = new double[n][k];
         double[] var = new double[n];
-        double[] alphaCol = new double[n];
-        for (int c = 0; c < k; c++) {
-            for (int r = 0; r < n; r++) {
-                double s = g.ly[r * k + c];
-                for (int j = 0; j < p; j++) {
-                    s -= g.g[r * p + j] * beta[j * k + c];
-                }
-                alphaCol[r] = s;
-            }
-            LocalSystem.backward(l, n, alphaCol);
-            for (int i = 0; i < n; i++) {
-                err[i][c] = alphaCol[i];
-            }
+        for (int i = 0; i < n; i++) {
+            System.arraycopy(alpha, i * k, err[i], 0, k);
         }
         for (int i = 0; i < n; i++) {
             double b = diag[i];
@@ -656,24 +653,60 @@ public final class Kriging {
      * (p × K; p = 0 for simple kriging).
      */
     public double[][] driftCoefficients() {
-        LocalSystem g = globalSystem();
+        double[] flat = driftCoefficientsFlat();
         double[][] beta = new double[p][k];
+        for (int j = 0; j < p; j++) {
+            System.arraycopy(flat, j * k, beta[j], 0, k);
+        }
+        return beta;
+    }
+
+    /** β̂ = S⁻¹ Gᵀ L⁻¹Y, row-major p × K. */
+    double[] driftCoefficientsFlat() {
+        LocalSystem g = globalSystem();
         double[] gty = new double[p * k];
         for (int r = 0; r < n; r++) {
             for (int j = 0; j < p; j++) {
+                double gj = g.g[r * p + j];
                 for (int c = 0; c < k; c++) {
-                    gty[j * k + c] += g.g[r * p + j] * g.ly[r * k + c];
+                    gty[j * k + c] += gj * g.ly[r * k + c];
                 }
             }
         }
+        double[] beta = new double[p * k];
         for (int i = 0; i < p; i++) {
             for (int j = 0; j < p; j++) {
+                double si = g.sInv[i * p + j];
                 for (int c = 0; c < k; c++) {
-                    beta[i][c] += g.sInv[i * p + j] * gty[j * k + c];
+                    beta[i * k + c] += si * gty[j * k + c];
                 }
             }
         }
         return beta;
+    }
+
+    /**
+     * Dual weights α = C⁻¹(Y − m − Fβ̂) = L⁻ᵀ(L⁻¹Y − Gβ̂) (row-major n × K) of the global system, so
+     * that the prediction at s_0 is m + c0ᵀα + f0ᵀβ̂.
+     */
+    double[] dualWeights(double[] beta) {
+        LocalSystem g = globalSystem();
+        double[] a = new double[n * k];
+        double[] col = new double[n];
+        for (int c = 0; c < k; c++) {
+            for (int r = 0; r < n; r++) {
+                double s = g.ly[r * k + c];
+                for (int j = 0; j < p; j++) {
+                    s -= g.g[r * p + j] * beta[j * k + c];
+                }
+                col[r] = s;
+            }
+            LocalSystem.backward(g.l, n, col);
+            for (int r = 0; r < n; r++) {
+                a[r * k + c] = col[r];
+            }
+        }
+        return a;
     }
 
     /** Drift residuals Y − F β̂ (row-major n × K), for re-estimating the residual variogram. */

@@ -123,11 +123,11 @@ public final class LocalMoran {
      *                                  a constant field or islands
      */
     public static double[] statistics(SpatialWeights weights, double[] values) {
-        AutocorrelationSupport.checkValues(values, weights);
-        AutocorrelationSupport.prepare(weights, SpatialWeights.IslandPolicy.ERROR, 2, "local Moran's I");
-        double[] z = AutocorrelationSupport.centre(values, "local Moran's I");
-        double m2 = AutocorrelationSupport.sumSq(z) / z.length;
-        double[] lag = weights.spatialLag(z);
+        AutocorrelationSupport.ScalarField f = AutocorrelationSupport.scalarField(weights, values,
+                SpatialWeights.IslandPolicy.ERROR, 2, "local Moran's I");
+        double[] z = f.z();
+        double m2 = f.sumSq() / z.length;
+        double[] lag = f.weights().spatialLag(z);
         double[] out = new double[z.length];
         for (int i = 0; i < z.length; i++) {
             out[i] = z[i] / m2 * lag[i];
@@ -151,15 +151,14 @@ public final class LocalMoran {
             throw new IllegalArgumentException("local Moran's I needs permutations for its p-values; use"
                     + " AutocorrelationOptions.withPermutations(999, seed)");
         }
-        AutocorrelationSupport.Prepared p = AutocorrelationSupport.prepare(weights, options.islandPolicy(), 3,
-                "local Moran's I");
-        SpatialWeights w = p.weights();
-        double[] z = AutocorrelationSupport.centre(AutocorrelationSupport.select(values, p.kept()),
-                "local Moran's I");
+        AutocorrelationSupport.ScalarField f = AutocorrelationSupport.scalarField(weights, values,
+                options.islandPolicy(), 3, "local Moran's I");
+        SpatialWeights w = f.weights();
+        double[] z = f.z();
         int n = z.length;
         double nn = n;
-        double m2 = AutocorrelationSupport.sumSq(z) / n;
-        double b2 = AutocorrelationSupport.kurtosis(z);
+        double m2 = f.sumSq() / n;
+        double b2 = f.kurtosis();
         double[] lag = w.spatialLag(z);
         int[] rs = w.rowStartArray();
         int[] cs = w.columnArray();
@@ -243,10 +242,10 @@ public final class LocalMoran {
             double var = wi2 * (nn - b2) / (nn - 1) + (wi * wi - wi2) * (2 * b2 - nn) / ((nn - 1) * (nn - 2))
                     - e * e;
             sum += stat[i];
-            units.add(new Unit(p.kept()[i], stat[i], z[i], lag[i], quadrant(z[i], lag[i]), e, var, condE[i], pTwo[i],
+            units.add(new Unit(f.kept()[i], stat[i], z[i], lag[i], quadrant(z[i], lag[i]), e, var, condE[i], pTwo[i],
                     pGt[i], pLt[i], adj[i]));
         }
-        return new Result(Collections.unmodifiableList(units), sum, w.s0(), p.excluded(), r, seed);
+        return new Result(Collections.unmodifiableList(units), sum, w.s0(), f.excluded(), r, seed);
     }
 
     private static Quadrant quadrant(double z, double lag) {

@@ -140,7 +140,8 @@ public final class Locations {
     /** Distance between two points in this coordinate system. */
     public double distance(double x1, double y1, double x2, double y2) {
         if (kind == Kind.PLANAR) {
-            return Math.hypot(x1 - x2, y1 - y2);
+            double dx = x1 - x2, dy = y1 - y2;
+            return Math.sqrt(dx * dx + dy * dy);
         }
         return greatCircleKm(x1, y1, x2, y2);
     }

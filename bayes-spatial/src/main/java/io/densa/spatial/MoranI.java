@@ -81,11 +81,9 @@ public final class MoranI {
      *                                  a constant field or islands
      */
     public static double statistic(SpatialWeights weights, double[] values) {
-        AutocorrelationSupport.checkValues(values, weights);
-        AutocorrelationSupport.Prepared p = AutocorrelationSupport.prepare(weights,
+        AutocorrelationSupport.ScalarField f = AutocorrelationSupport.scalarField(weights, values,
                 SpatialWeights.IslandPolicy.ERROR, 2, "Moran's I");
-        double[] z = AutocorrelationSupport.centre(values, "Moran's I");
-        return statistic(p.weights(), z, AutocorrelationSupport.sumSq(z));
+        return statistic(f.weights(), f.z(), f.sumSq());
     }
 
     /** {@link #test(SpatialWeights, double[], AutocorrelationOptions)} with default options. */
@@ -108,16 +106,15 @@ public final class MoranI {
      */
     public static Result test(SpatialWeights weights, double[] values, AutocorrelationOptions options) {
         Objects.requireNonNull(options, "options");
-        AutocorrelationSupport.checkValues(values, weights);
-        AutocorrelationSupport.Prepared p = AutocorrelationSupport.prepare(weights, options.islandPolicy(), 4,
-                "the Moran's I test");
-        SpatialWeights w = p.weights();
-        double[] z = AutocorrelationSupport.centre(AutocorrelationSupport.select(values, p.kept()), "Moran's I");
-        double m2 = AutocorrelationSupport.sumSq(z);
+        AutocorrelationSupport.ScalarField f = AutocorrelationSupport.scalarField(weights, values,
+                options.islandPolicy(), 4, "the Moran's I test");
+        SpatialWeights w = f.weights();
+        double[] z = f.z();
+        double m2 = f.sumSq();
         double stat = statistic(w, z, m2);
-        int n = w.size();
+        int n = f.size();
         double s0 = w.s0(), s1 = w.s1(), s2 = w.s2();
-        double b2 = AutocorrelationSupport.kurtosis(z);
+        double b2 = f.kurtosis();
         double nn = n;
         double e = -1.0 / (nn - 1);
         double s02 = s0 * s0;
@@ -128,27 +125,22 @@ public final class MoranI {
         AutocorrelationMoments normal = AutocorrelationSupport.moments(stat, e, varN, "Moran's I", "normality", n);
         AutocorrelationMoments random = AutocorrelationSupport.moments(stat, e, varR, "Moran's I", "randomisation",
                 n);
-        Optional<AutocorrelationPermutation> perm = Optional.empty();
-        if (options.permutations() > 0) {
-            int[] rs = w.rowStartArray();
-            int[] cs = w.columnArray();
-            double[] vs = w.valueArray();
-            double scale = n / (s0 * m2);
-            double[] sims = AutocorrelationSupport.simulate(n, options.permutations(), options.seed(),
-                    options.parallel(), w.linkCount() + 2L * n, pi -> {
-                        double s = 0;
-                        for (int i = 0; i < n; i++) {
-                            double lag = 0;
-                            for (int q = rs[i]; q < rs[i + 1]; q++) {
-                                lag += vs[q] * z[pi[cs[q]]];
-                            }
-                            s += z[pi[i]] * lag;
-                        }
-                        return scale * s;
-                    });
-            perm = Optional.of(AutocorrelationSupport.summarise(stat, e, sims, options.seed()));
-        }
-        return new Result(stat, n, p.excluded(), s0, s1, s2, b2, normal, random, perm);
+        int[] rs = w.rowStartArray();
+        int[] cs = w.columnArray();
+        double[] vs = w.valueArray();
+        double scale = n / (s0 * m2);
+        Optional<AutocorrelationPermutation> perm = AutocorrelationSupport.permutationTest(f, options, stat, e, pi -> {
+            double s = 0;
+            for (int i = 0; i < n; i++) {
+                double lag = 0;
+                for (int q = rs[i]; q < rs[i + 1]; q++) {
+                    lag += vs[q] * z[pi[cs[q]]];
+                }
+                s += z[pi[i]] * lag;
+            }
+            return scale * s;
+        });
+        return new Result(stat, n, f.excluded(), s0, s1, s2, b2, normal, random, perm);
     }
 
     /** (n/S0) Σ w_ij z_i z_j / Σ z². */

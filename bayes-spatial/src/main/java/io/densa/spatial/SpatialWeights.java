@@ -328,6 +328,9 @@ public final class SpatialWeights {
         int[][] nb = new int[n][];
         double[][] wt = new double[n][];
         withinBand(locations, maxDistance, nb, wt);
+        for (double[] row : wt) {
+            Arrays.fill(row, 1.0);
+        }
         return assemble(n, nb, wt);
     }
 
@@ -433,7 +436,8 @@ public final class SpatialWeights {
             tree.insert(e, i);
         }
         tree.build();
-        int[][] nb = new int[n][];
+        // Each pair is tested once (j > i), then the relation is mirrored.
+        int[][] upper = new int[n][];
         IntStream.range(0, n).parallel().forEach(i -> {
             Envelope e = new Envelope(g[i].getEnvelopeInternal());
             e.expandBy(tolerance);
@@ -442,12 +446,30 @@ public final class SpatialWeights {
             int m = 0;
             for (Object o : cand) {
                 int j = (Integer) o;
-                if (j != i && contiguous(g[Math.min(i, j)], g[Math.max(i, j)], rule, tolerance)) {
+                if (j > i && contiguous(g[i], g[j], rule, tolerance)) {
                     found[m++] = j;
                 }
             }
-            nb[i] = Arrays.copyOf(found, m);
+            upper[i] = Arrays.copyOf(found, m);
         });
+        int[] count = new int[n];
+        for (int i = 0; i < n; i++) {
+            count[i] += upper[i].length;
+            for (int j : upper[i]) {
+                count[j]++;
+            }
+        }
+        int[][] nb = new int[n][];
+        int[] fill = new int[n];
+        for (int i = 0; i < n; i++) {
+            nb[i] = new int[count[i]];
+        }
+        for (int i = 0; i < n; i++) {
+            for (int j : upper[i]) {
+                nb[i][fill[i]++] = j;
+                nb[j][fill[j]++] = i;
+            }
+        }
         double[][] ones = new double[n][];
         for (int i = 0; i < n; i++) {
             ones[i] = new double[nb[i].length];
@@ -456,7 +478,7 @@ public final class SpatialWeights {
         return assemble(n, nb, ones);
     }
 
-    /** Symmetric test: a is always the lower-indexed unit, so i→j and j→i agree. */
+    /** Whether polygons a and b are neighbours under the rule (after snapping when tolerance &gt; 0). */
     private static boolean contiguous(Geometry a, Geometry b, Contiguity rule, double tolerance) {
         Geometry ga = a, gb = b;
         if (tolerance > 0) {

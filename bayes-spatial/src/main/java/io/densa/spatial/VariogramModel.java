@@ -244,6 +244,90 @@ public final class VariogramModel {
         return g;
     }
 
+    /**
+     * out[i] = base − γ(h[i]) for h[i] &gt; 0 and base for h[i] = 0, i &lt; len (the pseudo-covariance
+     * with C(0) = base); one simple loop per structure.
+     */
+    void covariances(double[] h, int len, double base, double[] out) {
+        java.util.Arrays.fill(out, 0, len, base);
+        for (int p = 0; p < parts.length; p++) {
+            Structure s = parts[p];
+            double c = s.partialSill;
+            double a = s.range;
+            switch (s.family) {
+                case NUGGET:
+                    for (int i = 0; i < len; i++) {
+                        if (h[i] > 0) {
+                            out[i] -= c;
+                        }
+                    }
+                    break;
+                case EXPONENTIAL: {
+                    double r = -3 / a;
+                    for (int i = 0; i < len; i++) {
+                        out[i] += c * Math.expm1(r * h[i]);
+                    }
+                    break;
+                }
+                case GAUSSIAN: {
+                    double r = -3 / (a * a);
+                    for (int i = 0; i < len; i++) {
+                        out[i] += c * Math.expm1(r * h[i] * h[i]);
+                    }
+                    break;
+                }
+                default:
+                    for (int i = 0; i < len; i++) {
+                        if (h[i] > 0) {
+                            out[i] -= single(p, h[i]);
+                        }
+                    }
+            }
+        }
+    }
+
+    /** Scalar form of {@link #covariances}, with the same arithmetic (bit-identical). */
+    double covariance(double h, double base) {
+        double v = base;
+        for (int p = 0; p < parts.length; p++) {
+            Structure s = parts[p];
+            double c = s.partialSill;
+            switch (s.family) {
+                case NUGGET:
+                    if (h > 0) {
+                        v -= c;
+                    }
+                    break;
+                case EXPONENTIAL:
+                    v += c * Math.expm1((-3 / s.range) * h);
+                    break;
+                case GAUSSIAN:
+                    v += c * Math.expm1((-3 / (s.range * s.range)) * h * h);
+                    break;
+                default:
+                    if (h > 0) {
+                        v -= single(p, h);
+                    }
+            }
+        }
+        return v;
+    }
+
+    private double single(int p, double h) {
+        Structure s = parts[p];
+        double c = s.partialSill;
+        switch (s.family) {
+            case SPHERICAL: {
+                double t = h / s.range;
+                return t >= 1 ? c : c * (1.5 * t - 0.5 * t * t * t);
+            }
+            case MATERN:
+                return c * (1 - maternCorrelation(p, h / s.range));
+            default:
+                return c * Math.pow(h, s.range);
+        }
+    }
+
     private double maternCorrelation(int part, double t) {
         double nu = parts[part].smoothness;
         if (t > 745 + 50 * nu) {

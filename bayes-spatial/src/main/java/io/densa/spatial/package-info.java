@@ -1,11 +1,37 @@
 /**
- * Spatial statistics of densities: locations and distances, trace-variograms, kriging of
- * densities, spatial autocorrelation.
+ * Spatial statistics of densities: locations and distances, trace-variograms, variogram models
+ * and fitting, kriging of densities, cross-validation, grid and block prediction.
  *
  * <h2>Semantics</h2>
  * Everything works on the coordinates of a {@link io.densa.core.DensitySet}: the
- * trace-semivariogram γ(h) = ½ E‖X(s) ⊖ X(s+h)‖²_B is computed from coordinate distances, and a
- * kriged density ⊕_i λ_i ⊙ X(s_i) is the weighted sum of coordinate rows, so predictions are in
- * the data's space. Locations are planar or geographic ({@link io.densa.spatial.Locations}).
+ * trace-semivariogram γ(h) = ½ E‖X(s) ⊖ X(s+h)‖²_B is computed from coordinate distances
+ * ({@link io.densa.spatial.EmpiricalVariogram}), and a kriged density ⊕_i λ_i ⊙ X(s_i) is the
+ * weighted sum of coordinate rows, so predictions are in the data's space
+ * ({@link io.densa.spatial.Kriging}). Locations are planar or geographic
+ * ({@link io.densa.spatial.Locations}); neighbour queries go through a JTS STRtree
+ * ({@link io.densa.spatial.NeighbourIndex}).
+ *
+ * <h2>Workflow</h2>
+ * <ol>
+ * <li>{@link io.densa.spatial.EmpiricalVariogram#of} with {@link io.densa.spatial.VariogramOptions}
+ *     (bins, maximum lag, direction sectors, cloud);</li>
+ * <li>{@link io.densa.spatial.VariogramFitting#fit} with {@link io.densa.spatial.VariogramFitOptions}
+ *     gives a {@link io.densa.spatial.VariogramFit} holding a {@link io.densa.spatial.VariogramModel}
+ *     (exponential and Gaussian ranges are practical ranges; Matérn uses a scale);</li>
+ * <li>{@link io.densa.spatial.Kriging#ordinary}, {@link io.densa.spatial.Kriging#simple} or
+ *     {@link io.densa.spatial.Kriging#universal} (or {@link io.densa.spatial.UniversalFit#estimate}
+ *     with the residual variogram iterated) with {@link io.densa.spatial.KrigingOptions}
+ *     (neighbourhood, measurement-error variances);</li>
+ * <li>{@link io.densa.spatial.Kriging#predict}, {@link io.densa.spatial.Kriging#predictBlock},
+ *     {@link io.densa.spatial.Kriging#predictGrid} (tiles streamed to a consumer) and
+ *     {@link io.densa.spatial.Kriging#crossValidate}.</li>
+ * </ol>
+ *
+ * <h2>Guarantees</h2>
+ * Value and model types are immutable and thread-safe. Parallel work uses the common ForkJoin pool
+ * in fixed blocks combined in order, so results are bit-identical to the serial path. Bad input
+ * throws {@link java.lang.IllegalArgumentException} naming the location, bin or index; a singular
+ * or ill-conditioned kriging system throws {@link io.densa.core.DensaException} with a
+ * {@link io.densa.spatial.KrigingDiagnostics} record.
  */
 package io.densa.spatial;

@@ -50,25 +50,15 @@ final class AutocorrelationTestSupport {
 
     /** Moran's I straight from Moran (1950): (n/S0) Σ w_ij z_i z_j / Σ z_i², on a dense matrix. */
     static double moranDense(double[][] w, double[] x) {
-        int n = x.length;
-        double mean = 0;
-        for (double v : x) {
-            mean += v;
-        }
-        mean /= n;
-        double num = 0, den = 0, s0 = 0;
-        for (int i = 0; i < n; i++) {
-            den += (x[i] - mean) * (x[i] - mean);
-            for (int j = 0; j < n; j++) {
-                num += w[i][j] * (x[i] - mean) * (x[j] - mean);
-                s0 += w[i][j];
-            }
-        }
-        return n / s0 * num / den;
+        return pairSum(w, x, false);
     }
 
     /** Geary's c straight from Geary (1954): (n−1) Σ w_ij (x_i − x_j)² / (2 S0 Σ z_i²). */
     static double gearyDense(double[][] w, double[] x) {
+        return pairSum(w, x, true);
+    }
+
+    private static double pairSum(double[][] w, double[] x, boolean geary) {
         int n = x.length;
         double mean = 0;
         for (double v : x) {
@@ -79,11 +69,28 @@ final class AutocorrelationTestSupport {
         for (int i = 0; i < n; i++) {
             den += (x[i] - mean) * (x[i] - mean);
             for (int j = 0; j < n; j++) {
-                num += w[i][j] * (x[i] - x[j]) * (x[i] - x[j]);
+                num += w[i][j] * (geary ? (x[i] - x[j]) * (x[i] - x[j]) : (x[i] - mean) * (x[j] - mean));
                 s0 += w[i][j];
             }
         }
-        return (n - 1) * num / (2 * s0 * den);
+        return geary ? (n - 1) * num / (2 * s0 * den) : n / s0 * num / den;
+    }
+
+    /** {mean, variance} of a statistic over seeded draws of n iid N(0, 1) values. */
+    static double[] normalSimulation(int n, int draws, long seed, java.util.function.ToDoubleFunction<double[]> stat) {
+        java.util.Random rnd = new java.util.Random(seed);
+        double s = 0, ss = 0;
+        double[] x = new double[n];
+        for (int d = 0; d < draws; d++) {
+            for (int i = 0; i < n; i++) {
+                x[i] = rnd.nextGaussian();
+            }
+            double v = stat.applyAsDouble(x);
+            s += v;
+            ss += v * v;
+        }
+        double mean = s / draws;
+        return new double[] {mean, ss / draws - mean * mean};
     }
 
     /** Calls body for every permutation of a (in place; Heap's algorithm, iterative). */

@@ -85,19 +85,9 @@ class GearyCTest {
         double varN = r.normality().variance();
         // By hand: ((2·48 + 272)·8 − 4·576) / (2·10·576) = 640 / 11520.
         assertEquals(640.0 / 11520, varN, 1e-15);
-        Random rnd = new Random(6);
         int draws = 200_000;
-        double s = 0, ss = 0;
-        double[] x = new double[9];
-        for (int d = 0; d < draws; d++) {
-            for (int i = 0; i < 9; i++) {
-                x[i] = rnd.nextGaussian();
-            }
-            double v = gearyDense(w, x);
-            s += v;
-            ss += v * v;
-        }
-        double mean = s / draws, var = ss / draws - mean * mean;
+        double[] mv = AutocorrelationTestSupport.normalSimulation(9, draws, 6, x -> gearyDense(w, x));
+        double mean = mv[0], var = mv[1];
         assertEquals(1.0, mean, 4 * Math.sqrt(varN / draws));
         assertEquals(varN, var, 0.02 * varN);
     }

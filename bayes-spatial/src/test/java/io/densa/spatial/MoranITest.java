@@ -95,20 +95,9 @@ class MoranITest {
         // memory): 200,000 seeded draws of 9 iid N(0,1) values on the rook grid; the relative
         // standard error of a sample variance is about sqrt(2/N) = 0.3 %, tolerance 2 %.
         double[][] w = dense(rookLattice(3, 3));
-        Random rnd = new Random(5);
         int draws = 200_000;
-        double s = 0, ss = 0;
-        double[] x = new double[9];
-        for (int d = 0; d < draws; d++) {
-            for (int i = 0; i < 9; i++) {
-                x[i] = rnd.nextGaussian();
-            }
-            double v = moranDense(w, x);
-            s += v;
-            ss += v * v;
-        }
-        double mean = s / draws;
-        double var = ss / draws - mean * mean;
+        double[] mv = AutocorrelationTestSupport.normalSimulation(9, draws, 5, x -> moranDense(w, x));
+        double mean = mv[0], var = mv[1];
         assertEquals(-0.125, mean, 4 * Math.sqrt(0.053125 / draws));
         assertEquals(0.053125, var, 0.02 * 0.053125);
     }
