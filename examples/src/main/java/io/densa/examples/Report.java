@@ -44,6 +44,7 @@ final class Report {
     private final Path dir;
     private final String title;
     private final List<Block> blocks = new ArrayList<>();
+    private final List<String> keyNumbers = new ArrayList<>();
 
     Report(Path dir, String title) {
         this.dir = dir;
@@ -85,6 +86,24 @@ final class Report {
         return this;
     }
 
+    /** A line of the "Key numbers" list shown first, whenever it is added. */
+    Report keyNumber(String text) {
+        keyNumbers.add(text);
+        return this;
+    }
+
+    private List<Block> allBlocks() {
+        List<Block> all = new ArrayList<>();
+        all.add(new Para("*Invented data throughout. The results are statistical signals for trained analysts, not "
+                + "diagnoses or regulatory assessments; see the caution at the end.*"));
+        if (!keyNumbers.isEmpty()) {
+            all.add(new Heading(2, "Key numbers"));
+            all.add(new Bullets(List.copyOf(keyNumbers)));
+        }
+        all.addAll(blocks);
+        return all;
+    }
+
     Report caution() {
         heading("Caution");
         return paragraph(CAUTION);
@@ -102,7 +121,7 @@ final class Report {
 
     String markdown() {
         StringBuilder sb = new StringBuilder("# ").append(title).append("\n\n");
-        for (Block b : blocks) {
+        for (Block b : allBlocks()) {
             if (b instanceof Heading h) {
                 sb.append("#".repeat(h.level())).append(' ').append(h.text()).append("\n\n");
             } else if (b instanceof Para p) {
@@ -150,7 +169,7 @@ final class Report {
                         + "figcaption{font-style:italic;color:#444}\n")
                 .append("code{background:#f3f3f3;padding:0 3px}\n</style>\n</head>\n<body>\n<h1>")
                 .append(escape(title)).append("</h1>\n");
-        for (Block b : blocks) {
+        for (Block b : allBlocks()) {
             if (b instanceof Heading h) {
                 sb.append("<h").append(h.level()).append('>').append(inline(h.text())).append("</h")
                         .append(h.level()).append(">\n");
@@ -207,6 +226,7 @@ final class Report {
         String e = escape(s);
         e = e.replaceAll("`([^`]+)`", "<code>$1</code>");
         e = e.replaceAll("\\*\\*([^*]+)\\*\\*", "<strong>$1</strong>");
+        e = e.replaceAll("(?<![*\\w])\\*([^*]+)\\*(?![*\\w])", "<em>$1</em>");
         return e;
     }
 }

@@ -108,6 +108,7 @@ final class Study1 {
         variogramAndSurface(run, baseline);
         writeTables(run, baseline, flags);
         run.metrics.put("seconds", run.progress.seconds());
+        run.report.keyNumber(String.format(Locale.ROOT, "Run time: %.1f s.", run.progress.seconds()));
         run.report.heading("Timing").paragraph(String.format(Locale.ROOT,
                 "The whole study took %.1f s on this machine (%d processors available to the JVM).",
                 run.progress.seconds(), Runtime.getRuntime().availableProcessors()));
@@ -142,6 +143,9 @@ final class Study1 {
         }
         run.progress.line(String.format(Locale.ROOT, "%d districts, %,d visits in all; latest season %.0f to %.0f "
                 + "visits per district", n, total, Study2.min(visits), Study2.max(visits)));
+        run.report.keyNumber(String.format(Locale.ROOT, "%d invented districts, %d seasons, %,d visits; the latest "
+                + "season's districts have %.0f to %.0f visits.", n, sc.seasons(), total, Study2.min(visits),
+                Study2.max(visits)));
         run.report.heading("What was run").paragraph("An invented region of " + n + " districts (Voronoi cells of "
                 + "random sites clipped to an invented outline; seed " + run.options.seed() + ") with "
                 + sc.seasons() + " seasons of emergency-visit counts by single year of age 0–99, "
@@ -402,6 +406,9 @@ final class Study1 {
         run.metrics.put("flagged", (double) (tp + fp));
         run.progress.line(String.format(Locale.ROOT, "%d districts flagged at FDR %.2f: precision %.2f, recall %.2f "
                 + "against the injected truth", tp + fp, FDR, precision, recall));
+        run.report.keyNumber(String.format(Locale.ROOT, "%d of %d districts flagged at a false discovery rate of %.2f;"
+                + " against the injected truth (%d shifted districts): **precision %.2f, recall %.2f**.", tp + fp, n,
+                FDR, tp + fn, precision, recall));
 
         run.report.heading("Flags").paragraph(String.format(Locale.ROOT, "Split-conformal p-values (Vovk, Gammerman "
                 + "and Shafer 2005) of the standardised residual norms, p_i = (1 + #{calibration norms ≥ s_i}) / "
@@ -516,6 +523,8 @@ final class Study1 {
             }
         }
         run.metrics.put("moranI", global.statistic());
+        run.report.keyNumber(String.format(Locale.ROOT, "Moran's I of the log anomaly scores %.3f (permutation p = "
+                + "%.4f); %d districts in high-high local clusters.", global.statistic(), pPerm, hh));
         run.progress.line(String.format(Locale.ROOT, "Moran's I of the log anomaly scores %.3f (permutation p %.4f);"
                 + " %d high-high local clusters", global.statistic(), pPerm, hh));
         run.report.heading("Spatial structure of the departures").paragraph(String.format(Locale.ROOT,

@@ -101,6 +101,9 @@ final class Study2 {
         progress.line(String.format(Locale.ROOT, "%d monitors: %d–%d valid days each, annual means %.1f–%.1f µg/m³",
                 m, Arrays.stream(validDays).min().orElse(0), Arrays.stream(validDays).max().orElse(0),
                 min(annualMean), max(annualMean)));
+        report.keyNumber(String.format(Locale.ROOT, "%d invented monitors, a year of hourly values; %.1f %% of hours "
+                + "missing; annual means %.1f–%.1f µg/m³.", m, 100 * mean(missingShare), min(annualMean),
+                max(annualMean)));
         report.heading("What was run").paragraph("An invented city with " + m + " monitors (" + count(sc.roadside())
                 + " of them next to heavy-traffic hot spots) and a year of hourly fine-particle (PM2.5-like) "
                 + "concentrations with missing hours (outages and single hours; " + Tables.fmt(100 * mean(missingShare), 1)
@@ -205,6 +208,9 @@ final class Study2 {
         metrics.put("looMseMeanDensity", baseSq);
         metrics.put("looExceedanceMaeUniversal", maeUk);
         metrics.put("looExceedanceMaeMeanDensity", maeBase);
+        report.keyNumber(String.format(Locale.ROOT, "Leave-one-out mean squared B2 error: %.3g by universal kriging "
+                + "against %.3g by the mean density of the other monitors; mean absolute error of P(daily mean > 15 "
+                + "µg/m³): %.3f against %.3f.", cv.meanSquaredError(), baseSq, maeUk, maeBase));
         progress.line(String.format(Locale.ROOT, "leave-one-out: mean squared B2 error %.4f (universal kriging) vs %.4f"
                 + " (mean density of the other monitors)", cv.meanSquaredError(), baseSq));
         report.heading("Leave-one-out cross-validation").paragraph("Each monitor's density is predicted from the "
@@ -254,6 +260,9 @@ final class Study2 {
         });
         double gridSeconds = (System.nanoTime() - t0) / 1e9;
         metrics.put("gridCells", (double) cells[0]);
+        report.keyNumber(String.format(Locale.ROOT, "Kriged %,d cells of a %d × %d grid over the city in %.1f s; "
+                + "P(daily mean > 15 µg/m³) ranges from %.2f to %.2f over the city (demo threshold).", cells[0], side,
+                side, gridSeconds, min(gP), max(gP)));
         metrics.put("gridSeconds", gridSeconds);
         progress.line(String.format(Locale.ROOT, "kriged %,d grid cells (%d × %d over the city) in %.1f s", cells[0],
                 side, side, gridSeconds));
@@ -316,6 +325,7 @@ final class Study2 {
                         + "estimation variance and leave-one-out errors.", "PNG figures shown above."));
         metrics.put("monitors", (double) m);
         metrics.put("seconds", progress.seconds());
+        report.keyNumber(String.format(Locale.ROOT, "Run time: %.1f s.", progress.seconds()));
         report.heading("Timing").paragraph(String.format(Locale.ROOT, "The whole study took %.1f s on this machine "
                 + "(%d processors available to the JVM).", progress.seconds(),
                 Runtime.getRuntime().availableProcessors()));
