@@ -41,8 +41,14 @@ import org.ejml.data.DMatrixRMaj;
  * Fixed ({@link #withSmoothing}) or chosen per unit by {@link SmoothingCriterion} (default
  * {@link SmoothingCriterion#AIC}): the criterion is evaluated on a grid λ = N s 10^g,
  * g = hi, hi − step, …, lo (warm starts from strong to weak smoothing; N the total count and s a
- * scale making the penalty commensurate with the per-event Fisher information at the reference),
- * then refined by golden-section search on log λ around the best grid point.
+ * scale making the penalty commensurate with the per-event Fisher information at the reference).
+ * The scan stops once the criterion has risen at two consecutive grid points after its best
+ * value, so the local minimum with the largest λ is taken (criteria for smoothing often have
+ * several local minima and the smallest-λ ones undersmooth; common practice), and that grid
+ * point is refined by golden-section search on log λ within one grid step (six steps; fits during
+ * the search use the tolerance max(tol, 10⁻⁹), the final fit tol). With very sparse
+ * counts the criteria may decrease all the way down to the end of the grid (undersmoothing);
+ * {@link #withSmoothingGrid} sets a floor.
  *
  * <h2>Covariance</h2>
  * The reported coordinate covariance is the sandwich J⁻¹ F J⁻¹ with F the expected Fisher
@@ -57,7 +63,8 @@ import org.ejml.data.DMatrixRMaj;
  */
 public final class PenalizedLikelihoodEstimator {
     private static final int UNITS_PER_BLOCK = 32;
-    private static final int GOLDEN_STEPS = 8;
+    private static final int GOLDEN_STEPS = 6;
+    private static final double SEARCH_TOLERANCE = 1e-9;
 
     private final BayesSpace space;
     private final int penaltyOrder;
@@ -118,7 +125,7 @@ public final class PenalizedLikelihoodEstimator {
 
     /**
      * The estimator for a space with defaults: penalty on the second derivative (first for
-     * linear splines or step bases with two bins), smoothing chosen by AIC on the grid 10^−9..10^3
+     * linear splines or step bases with two bins), smoothing chosen by AIC on the grid g = 4, 3, …, −6
      * (step 1), at most 100 Newton iterations, tolerance 10⁻¹², automatic Gauss–Legendre points per
      * piece, zero-total units rejected, whole-number counts required, parallel batches.
      *
@@ -127,7 +134,7 @@ public final class PenalizedLikelihoodEstimator {
     public static PenalizedLikelihoodEstimator of(BayesSpace space) {
         Objects.requireNonNull(space, "space");
         int order = Math.min(2, RoughnessPenalty.maxOrder(space.basis()));
-        return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.AIC, 5, 1L, -9, 3, 1,
+        return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.AIC, 5, 1L, -6, 4, 1,
                 100, 1e-12, 0, ZeroTotalPolicy.REJECT, false, true);
     }
 
@@ -602,13 +609,17 @@ public final class PenalizedLikelihoodEstimator {
             int steps = (int) Math.floor((gridHi - gridLo) / gridStep + 1e-9);
             double bestG = gridHi, bestC = Double.POSITIVE_INFINITY;
             double[] bestBeta = new double[k + 1];
-            for (int s = 0; s <= steps; s++) {
+            int rising = 0;
+            for (int s = 0; s <= steps && rising < 2; s++) {
                 double g = gridHi - s * gridStep;
                 double c = criterionAt(eng, lambdaAt(eng.total, scale, g), cv);
                 if (c < bestC) {
                     bestC = c;
                     bestG = g;
+                    rising = 0;
                     System.arraycopy(eng.beta, 0, bestBeta, 0, k + 1);
+                } else if (bestC < Double.POSITIVE_INFINITY) {
+                    rising++;
                 }
             }
             // golden-section refinement on [bestG − step, bestG + step]
@@ -679,7 +690,7 @@ public final class PenalizedLikelihoodEstimator {
 
     /** Fits at λ from the current beta and returns the criterion (+∞ on failure). */
     private double criterionAt(PenalizedNewton eng, double lambda, Folds cv) {
-        if (!eng.solve(lambda, maxIterations, tolerance)) {
+        if (!eng.solve(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE))) {
             return Double.POSITIVE_INFINITY;
         }
         double loglik = eng.loglik;
@@ -815,7 +826,7 @@ public final class PenalizedLikelihoodEstimator {
                     }
                     eng.counts = train;
                     eng.total = fullTotal - testTotal[f];
-                    eng.solve(lambda, maxIterations, tolerance);
+                    eng.solve(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
                     eng.evaluate(eng.beta, lambda);
                     double logZ = Math.log(eng.zScaled);
                     for (int j = 0; j < train.length; j++) {
@@ -830,7 +841,7 @@ public final class PenalizedLikelihoodEstimator {
                     }
                     eng.total = fullTotal - testTotal[f];
                     eng.total2 = fullTotal2 - testTotal2[f];
-                    eng.solve(lambda, maxIterations, tolerance);
+                    eng.solve(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
                     eng.evaluate(eng.beta, lambda);
                     double tb = 0;
                     for (int j = 0; j < k; j++) {

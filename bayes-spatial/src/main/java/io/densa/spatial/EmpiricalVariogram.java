@@ -112,7 +112,9 @@ public final class EmpiricalVariogram {
             cosTol = Math.cos(Math.toRadians(options.tolerance()));
         }
         boolean uniform = options.uniformBins() && e[0] == 0;
-        double invWidth = uniform ? nb / maxLag : 0;
+        // equal widths w = e_1 − e_0 (the last bin may be narrower when a width does not divide the
+        // maximum lag): bin b = ⌈h/w⌉ − 1 holds (e_b, e_{b+1}] like the general search
+        double invWidth = uniform ? 1 / (e[1] - e[0]) : 0;
         int tiles = (n + ITILE - 1) / ITILE;
         double[][] pg = new double[tiles][];
         double[][] ph = new double[tiles][];
@@ -296,7 +298,7 @@ public final class EmpiricalVariogram {
                 }
                 double h = geo ? 2 * Locations.EARTH_RADIUS_KM * Math.asin(Math.min(1, Math.sqrt(d2) / 2))
                         : Math.sqrt(d2);
-                int b = uniform ? Math.min(nb - 1, (int) (h * invWidth)) : bin(e, h);
+                int b = uniform ? Math.max(0, Math.min(nb - 1, (int) Math.ceil(h * invWidth) - 1)) : bin(e, h);
                 if (b < 0) {
                     continue;
                 }

@@ -3,7 +3,7 @@ package io.densa.spatial;
 import io.densa.core.DensitySet;
 import io.densa.core.internal.Kernels;
 import java.util.Arrays;
-import java.util.HashMap;
+import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Objects;
@@ -20,14 +20,15 @@ import org.locationtech.jts.geom.prep.PreparedGeometry;
  * <p>Local neighbourhoods: for a tile with centre t and half-diagonal δ, the k nearest data
  * locations of any cell c lie within d_k(t) + 2δ of t (triangle inequality: d_k(c) ≤ d_k(t) + δ),
  * so one radius query per tile gives a candidate list, and each cell selects its k nearest from it
- * exactly (ties by index, as {@link NeighbourIndex#nearest}). Factorised systems are cached per
- * tile by neighbour set, so adjacent cells that share their neighbours share one factorisation;
+ * exactly (ties by index, as {@link NeighbourIndex#nearest}). Factorised systems are kept per
+ * tile in a least-recently-used cache of 256 neighbour sets, so adjacent cells that share their
+ * neighbours share one factorisation and memory stays bounded by the tile;
  * station–station covariances come from the kriging's station matrix. Global neighbourhood
  * without variance uses the dual form: predictions = C0 α + F0 β for the tile's m × n covariance
  * block C0, with α, β from one factorisation (O(nK) per cell after the covariances).
  */
 final class GridPredictor {
-    private static final int CACHE_LIMIT = 2048;
+    private static final int CACHE_LIMIT = 256;
 
     private GridPredictor() {
     }
@@ -244,7 +245,14 @@ final class GridPredictor {
         int nc = cand.length;
         double[] dist = new double[nc];
         Heap heap = new Heap(want);
-        Map<Key, LocalSystem> cache = new HashMap<>();
+        Map<Key, LocalSystem> cache = new LinkedHashMap<>(2 * CACHE_LIMIT, 0.75f, true) {
+            private static final long serialVersionUID = 1L;
+
+            @Override
+            protected boolean removeEldestEntry(Map.Entry<Key, LocalSystem> eldest) {
+                return size() > CACHE_LIMIT;
+            }
+        };
         double[] f0 = new double[p];
         LocalSystem.Scratch sc = new LocalSystem.Scratch(p);
         int need = Math.max(1, p + 1);
@@ -269,9 +277,6 @@ final class GridPredictor {
             Key key = new Key(nb);
             LocalSystem sys = cache.get(key);
             if (sys == null) {
-                if (cache.size() >= CACHE_LIMIT) {
-                    cache.clear();
-                }
                 sys = LocalSystem.build(kr, nb);
                 cache.put(key, sys);
             }

@@ -53,7 +53,7 @@ public final class Kriging {
         UNIVERSAL
     }
 
-    private static final int STATION_MATRIX_LIMIT = 4096;
+    private static final int STATION_MATRIX_LIMIT = 2500;
 
     final Type type;
     final Locations loc;
@@ -519,7 +519,15 @@ public final class Kriging {
      * Predicts a regular grid tile by tile into the consumer; see {@link GridOptions} for the
      * per-cell quantities computed in the same pass. Tiles are computed in parallel (in batches)
      * and delivered in tile order from the calling thread, so the consumer need not be thread-safe
-     * and at most a batch of tiles is held in memory.
+     * and at most a batch of tiles is held in memory. Tiles with no cell inside the mask are skipped.
+     *
+     * <p>Cost: local neighbourhoods factorise each distinct neighbour set once per tile. With the
+     * global neighbourhood and the variance off, the dual form costs O(nK) per cell after one
+     * factorisation; with the variance on, each cell needs a triangular solve of order n (O(n²)),
+     * which is only sensible for small grids.
+     *
+     * @throws IllegalArgumentException for a universal drift with external covariates (which have
+     *                                  no values at grid cells)
      */
     public void predictGrid(Grid grid, GridOptions gridOptions, Consumer<GridTile> consumer) {
         GridPredictor.run(this, grid, gridOptions, consumer);

@@ -246,7 +246,8 @@ public final class VariogramModel {
 
     /**
      * out[i] = base − γ(h[i]) for h[i] &gt; 0 and base for h[i] = 0, i &lt; len (the pseudo-covariance
-     * with C(0) = base); one simple loop per structure.
+     * with C(0) = base); one simple loop per structure. Uses exp rather than expm1 (a covariance
+     * needs absolute, not relative, accuracy near h = 0, and exp is an intrinsic).
      */
     void covariances(double[] h, int len, double base, double[] out) {
         java.util.Arrays.fill(out, 0, len, base);
@@ -265,14 +266,14 @@ public final class VariogramModel {
                 case EXPONENTIAL: {
                     double r = -3 / a;
                     for (int i = 0; i < len; i++) {
-                        out[i] += c * Math.expm1(r * h[i]);
+                        out[i] -= c * (1 - Math.exp(r * h[i]));
                     }
                     break;
                 }
                 case GAUSSIAN: {
                     double r = -3 / (a * a);
                     for (int i = 0; i < len; i++) {
-                        out[i] += c * Math.expm1(r * h[i] * h[i]);
+                        out[i] -= c * (1 - Math.exp(r * h[i] * h[i]));
                     }
                     break;
                 }
@@ -299,10 +300,10 @@ public final class VariogramModel {
                     }
                     break;
                 case EXPONENTIAL:
-                    v += c * Math.expm1((-3 / s.range) * h);
+                    v -= c * (1 - Math.exp((-3 / s.range) * h));
                     break;
                 case GAUSSIAN:
-                    v += c * Math.expm1((-3 / (s.range * s.range)) * h * h);
+                    v -= c * (1 - Math.exp((-3 / (s.range * s.range)) * h * h));
                     break;
                 default:
                     if (h > 0) {

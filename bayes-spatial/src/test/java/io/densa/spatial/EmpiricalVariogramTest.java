@@ -67,6 +67,11 @@ class EmpiricalVariogramTest {
                 .withMaxLag(6));
         assertEquals(12, w.binCount());
         check(w, 0, naive(loc, d, w.edges(), Double.NaN, 0));
+        EmpiricalVariogram w2 = EmpiricalVariogram.of(loc, d, VariogramOptions.withDefaults().withBinWidth(0.7)
+                .withMaxLag(6));
+        assertEquals(9, w2.binCount());
+        assertEquals(5.6, w2.edges()[8], 1e-12);
+        check(w2, 0, naive(loc, d, w2.edges(), Double.NaN, 0));
         double[] edges = {0.2, 0.5, 1, 2, 3.5, 5};
         EmpiricalVariogram e = EmpiricalVariogram.of(loc, d, VariogramOptions.withDefaults().withEdges(edges));
         assertArrayEquals(edges, e.edges(), 0);
