@@ -12,17 +12,24 @@ import io.densa.core.EstimationDiagnostics;
  * @param notConverged units whose fit did not converge
  * @param minEdf       smallest effective degrees of freedom (NaN if not reported)
  * @param maxEdf       largest effective degrees of freedom (NaN if not reported)
+ * @param problems     "id: reason" for every unit that did not converge
  */
-record Estimates(DensitySet densities, double[] variances, int notConverged, double minEdf, double maxEdf) {
+record Estimates(DensitySet densities, double[] variances, int notConverged, double minEdf, double maxEdf,
+        java.util.List<String> problems) {
 
     /** Summarises a batch from the estimator. */
     static Estimates of(BatchEstimate est) {
         double lo = Double.POSITIVE_INFINITY;
         double hi = Double.NEGATIVE_INFINITY;
+        java.util.List<String> problems = new java.util.ArrayList<>();
         for (EstimationDiagnostics d : est.diagnostics()) {
             lo = Math.min(lo, d.effectiveDegreesOfFreedom());
             hi = Math.max(hi, d.effectiveDegreesOfFreedom());
+            if (!d.converged()) {
+                problems.add(d.id() + ": " + d.reason());
+            }
         }
-        return new Estimates(est.densities(), est.estimationVariances(), est.flaggedRows().size(), lo, hi);
+        return new Estimates(est.densities(), est.estimationVariances(), est.flaggedRows().size(), lo, hi,
+                java.util.List.copyOf(problems));
     }
 }

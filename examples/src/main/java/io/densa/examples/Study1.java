@@ -188,6 +188,7 @@ final class Study1 {
         run.estimationVariance = new double[sc.seasons()][];
         String[] ids = codes(run.region);
         int notConverged = 0;
+        List<String> problems = new ArrayList<>();
         double minEdf = Double.POSITIVE_INFINITY;
         double maxEdf = Double.NEGATIVE_INFINITY;
         int[][] first = new int[run.n][];
@@ -203,6 +204,7 @@ final class Study1 {
             Estimates est = AgeDensities.estimate(run.space, counts, ids, lambda);
             run.seasons[s] = est.densities();
             run.estimationVariance[s] = est.variances();
+            problems.addAll(est.problems());
             notConverged += est.notConverged();
             minEdf = Math.min(minEdf, est.minEdf());
             maxEdf = Math.max(maxEdf, est.maxEdf());
@@ -219,6 +221,10 @@ final class Study1 {
             run.report.paragraph(String.format(Locale.ROOT, "%d of %d fits converged; effective degrees of freedom "
                     + "range from %.1f (small districts: strong smoothing) to %.1f.", run.n * sc.seasons()
                     - notConverged, run.n * sc.seasons(), minEdf, maxEdf));
+        }
+        if (!problems.isEmpty()) {
+            run.report.paragraph("Fits that did not converge (kept, with the estimator's reason):")
+                    .bullets(problems.subList(0, Math.min(20, problems.size())));
         }
         densityFigure(run, null);
     }

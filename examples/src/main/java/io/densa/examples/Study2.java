@@ -129,11 +129,17 @@ final class Study2 {
         double[] median = exp(dens.quantiles(0.5));
         int notConverged = est.notConverged();
         progress.line("estimated " + m + " densities of log daily means (" + notConverged + " fits did not converge)");
+        for (String problem : est.problems()) {
+            progress.line("  not converged: " + problem);
+        }
         report.heading("Densities per monitor").paragraph("Each monitor's log daily means are turned into a density in "
                 + ModelText.space(space, "8 equally spaced interior knots") + " by " + SampleDensities.describe() + "; " + notConverged + " fits did not converge. "
                 + (estVar == null ? "No estimation variances are available, so the kriging below treats the densities "
                 + "as exact." : "The estimator also reports each density's B2 estimation variance (trace of its "
                 + "coordinate covariance), used below as the measurement-error variance of the kriging."));
+        if (!est.problems().isEmpty()) {
+            report.bullets(est.problems());
+        }
         densityFigure(sc, logDaily, dens, dir.resolve(file(files, "fig_densities.png")));
         report.figure("fig_densities.png", "Four monitors (lowest, median and highest mean, and a roadside one): "
                 + "histogram of log daily means and the estimated density; the dashed line is the 15 µg/m³ demo "
