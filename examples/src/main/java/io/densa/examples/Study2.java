@@ -289,7 +289,8 @@ final class Study2 {
                 + "in units of the B2 norm of log-concentration densities.", side, side, cells[0], gridSeconds));
         report.figure("map_exceedance.png", "P(daily mean > 15 µg/m³) from the kriged densities; dots are the "
                 + "monitors. Demo threshold only — not a regulatory assessment.");
-        report.figure("map_median.png", "Median of the kriged daily-mean density.");
+        report.figure("map_median.png", "Median daily mean: exp of the median of the kriged density of the log daily "
+                + "mean (the median commutes with the monotone log).");
         report.figure("map_kriging_sd.png", "Kriging standard deviation: small near monitors, large in gaps and at "
                 + "the edges.");
 
