@@ -12,6 +12,14 @@ public enum SmoothingCriterion {
      */
     AIC,
     /**
+     * Small-sample corrected AIC, −2ℓ(λ) + 2 edf N/(N − edf − 1) with N the number of events
+     * (+∞ when N ≤ edf + 1): Hurvich, Simonoff &amp; Tsai (1998), Smoothing parameter selection in
+     * nonparametric regression using an improved Akaike information criterion, J. R. Stat. Soc. B
+     * 60(2) (from memory). Equal to AIC for large N, it resists the undersmoothing of AIC and GCV on
+     * sparse counts; the default of {@link PenalizedLikelihoodEstimator}.
+     */
+    AICC,
+    /**
      * Generalised cross-validation (Craven &amp; Wahba (1979), Smoothing noisy data with spline
      * functions, Numer. Math. 31; from memory). For least squares D·RSS/(D − edf)²; for counts
      * the deviance form D·Dev(λ)/(D − edf)² over D bins (O'Sullivan, Yandell &amp; Raynor (1986),

@@ -116,4 +116,133 @@ class PenalizedLikelihoodEstimatorTest {
         UnitEstimate one = est.fit(edges(0, 1, 40), counts[0]);
         assertArrayEquals(one.density().coordinates(), par.densities().get(0).coordinates());
     }
+
+    /**
+     * Sparse counts (20–50 events over 50 bins, 200 units per truth): the penalised likelihood
+     * (default corrected AIC) has a smaller mean B2 error than zero replacement
+     * (Bayesian-multiplicative, Jeffreys) + compositional smoothing spline (GCV); the margins are
+     * printed (observed: about 2 % lower for the normal, 37 % for the mixture). Plain AIC, GCV and
+     * 5-fold cross-validation lose this comparison on the normal truth: they undersmooth some sparse
+     * units badly.
+     */
+    @Test
+    void beatsZeroReplacementPlusSmoothingSplineOnSparseCounts() {
+        BayesSpace space = BayesSpace.splines(0, 1, 4, 8);
+        double[] e = edges(0, 1, 50);
+        for (Truth truth : List.of(EstimationTestSupport.normal(), EstimationTestSupport.mixture())) {
+            Density target = space.project(truth.pdfFunction()).density();
+            RandomGenerator r = rng(31);
+            int n = 200;
+            int[][] counts = new int[n][];
+            for (int i = 0; i < n; i++) {
+                counts[i] = truth.counts(20 + r.nextInt(31), 50, r);
+            }
+            BatchEstimate ss = SmoothingSplineEstimator.of(space).fitAll(e, counts, null);
+            double mSs = meanError(ss, target);
+            List<PenalizedLikelihoodEstimator> ests = List.of(PenalizedLikelihoodEstimator.of(space));
+            List<String> labels = List.of("AICc");
+            for (int v = 0; v < ests.size(); v++) {
+                double mPl = meanError(ests.get(v).fitAll(e, counts, null), target);
+                System.out.printf("sparse %-8s mean B2 error: penalised likelihood (%s) %.4f, zero replacement +"
+                        + " smoothing spline %.4f, margin %.4f (%.0f %% lower)%n", truth.name, labels.get(v), mPl, mSs,
+                        mSs - mPl, 100 * (mSs - mPl) / mSs);
+                assertTrue(mPl < mSs, truth.name + ": penalised likelihood " + mPl + " vs smoothing spline " + mSs);
+            }
+        }
+    }
+
+    private static double meanError(BatchEstimate b, Density target) {
+        double m = 0;
+        for (int i = 0; i < b.size(); i++) {
+            m += b.densities().get(i).distance(target) / b.size();
+        }
+        return m;
+    }
+
+    /**
+     * The chosen λ agrees with a brute-force grid of fixed-λ fits of the same criterion: the
+     * estimator's choice (largest-λ local minimum, refined) must match the brute-force grid's
+     * largest-λ local minimum within 0.1 decade, and its criterion value must not exceed the grid
+     * minimum near it by more than 10⁻⁴ (relative). Checked for GCV, AIC and AICc on dense counts.
+     */
+    @Test
+    void criterionChoiceAgreesWithBruteForceGrid() {
+        BayesSpace space = BayesSpace.splines(0, 1, 4, 8);
+        double[] e = edges(0, 1, 40);
+        int[] counts = EstimationTestSupport.mixture().counts(3000, 40, rng(77));
+        for (SmoothingCriterion c : List.of(SmoothingCriterion.GCV, SmoothingCriterion.AIC, SmoothingCriterion.AICC)) {
+            PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space).withCriterion(c);
+            EstimationDiagnostics chosen = est.fit(e, counts).diagnostics();
+            double step = 0.02;
+            double[] gs = new double[(int) Math.round(8 / step) + 1];
+            double[] crit = new double[gs.length];
+            double hi = Math.log10(chosen.smoothing()) + 4;
+            for (int i = 0; i < gs.length; i++) {
+                gs[i] = hi - i * step;
+                EstimationDiagnostics d = est.withSmoothing(Math.pow(10, gs[i])).fit(e, counts).diagnostics();
+                assertTrue(d.converged());
+                crit[i] = d.criterionValue();
+            }
+            int best = -1;
+            for (int i = 1; i + 1 < gs.length; i++) {
+                if (crit[i] <= crit[i - 1] && crit[i] <= crit[i + 1]) {
+                    best = i;
+                    break; // largest-λ local minimum
+                }
+            }
+            System.out.printf("%s: chosen log10 lambda %.3f (criterion %.8g), brute-force grid %.3f (%.8g)%n", c,
+                    Math.log10(chosen.smoothing()), chosen.criterionValue(), gs[best], crit[best]);
+            assertTrue(best > 0, "no local minimum on the grid");
+            assertEquals(gs[best], Math.log10(chosen.smoothing()), 0.1);
+            // the search fits use tolerance 1e-9 instead of 1e-12, which moves the refined minimum slightly
+            assertTrue(chosen.criterionValue() <= crit[best] + 1e-4 * Math.abs(crit[best]));
+        }
+    }
+
+    /** Units without events: rejected by default, or the reference density flagged in the diagnostics. */
+    @Test
+    void zeroTotalUnitGivesFlaggedReference() {
+        BayesSpace space = BayesSpace.splines(0, 1, 4, 5);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space).withZeroTotal(ZeroTotalPolicy.REFERENCE);
+        BatchEstimate b = est.fitAll(edges(0, 1, 10), new int[][] {{1, 2, 3, 4, 5, 4, 3, 2, 1, 1}, new int[10]},
+                new String[] {"a", "b"});
+        EstimationDiagnostics d = b.diagnostics().get(1);
+        assertEquals(EstimationDiagnostics.Status.EMPTY_UNIT_REFERENCE, d.status());
+        assertEquals("b", d.id());
+        assertEquals(Double.POSITIVE_INFINITY, d.estimationVariance());
+        assertArrayEquals(new double[space.dimension()], b.densities().get(1).coordinates());
+        assertEquals(List.of(1), b.flaggedRows());
+    }
+
+    /** A fit that cannot converge within the iteration budget says so in its diagnostics. */
+    @Test
+    void nonConvergenceIsReported() {
+        BayesSpace space = BayesSpace.splines(0, 1, 4, 10);
+        int[] counts = EstimationTestSupport.mixture().counts(500, 40, rng(3));
+        EstimationDiagnostics d = PenalizedLikelihoodEstimator.of(space).withSmoothing(1e-6).withMaxIterations(1)
+                .fit(edges(0, 1, 40), counts).diagnostics();
+        assertEquals(EstimationDiagnostics.Status.NOT_CONVERGED, d.status());
+        assertTrue(d.reason().matches("no convergence in 1 Newton iterations.*"), d.reason());
+    }
+
+    /** Weighted samples: integer weights equal repeated observations (same log-likelihood). */
+    @Test
+    void integerWeightsEqualRepeatedValues() {
+        BayesSpace space = BayesSpace.splines(0, 1, 4, 6);
+        double[] x = EstimationTestSupport.normal().sample(300, rng(8));
+        double[] w = new double[x.length];
+        double[] rep = new double[x.length + x.length / 3];
+        int p = 0;
+        for (int i = 0; i < x.length; i++) {
+            w[i] = i % 3 == 0 ? 2 : 1;
+            rep[p++] = x[i];
+            if (i % 3 == 0) {
+                rep[p++] = x[i];
+            }
+        }
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space).withSmoothing(1e-3);
+        Density a = est.fitSample(x, w).density();
+        Density b = est.fitSample(java.util.Arrays.copyOf(rep, p)).density();
+        assertTrue(a.equalsWithin(b, 1e-8), a.distance(b) + "");
+    }
 }

@@ -17,9 +17,9 @@ import org.locationtech.jts.geom.prep.PreparedGeometry;
 /**
  * Tile-by-tile grid prediction (package-private engine behind {@link Kriging#predictGrid}).
  *
- * <p>Local neighbourhoods: for a tile with centre t and half-diagonal δ, the k nearest data
- * locations of any cell c lie within d_k(t) + 2δ of t (triangle inequality: d_k(c) ≤ d_k(t) + δ),
- * so one radius query per tile gives a candidate list, and each cell selects its k nearest from it
+ * <p>Local neighbourhoods: for a block of cells with centre t and half-diagonal δ, the k nearest
+ * data locations of any cell c lie within d_k(t) + 2δ of t (triangle inequality:
+ * d_k(c) ≤ d_k(t) + δ), so one radius query per 16 × 16 sub-block of a tile gives a candidate list, and each cell selects its k nearest from it
  * exactly (ties by index, as {@link NeighbourIndex#nearest}). Factorised systems are kept per
  * tile in a least-recently-used cache of 256 neighbour sets, so adjacent cells that share their
  * neighbours share one factorisation and memory stays bounded by the tile;
@@ -219,12 +219,63 @@ final class GridPredictor {
         }
     }
 
+    /** Cells per side of the sub-blocks that share one candidate query. */
+    private static final int SUB = 16;
+
     private static void localTile(Kriging kr, Grid grid, int[] cols, int[] rows, double[] coords, double[] var) {
-        int m = cols.length, k = kr.k, p = kr.p;
-        Neighbourhood hood = kr.options.neighbourhood();
-        // tile centre and half-diagonal
-        double xa = grid.x(cols[0]), xb = xa, ya = grid.y(rows[0]), yb = ya;
+        int m = cols.length;
+        int cmin = Integer.MAX_VALUE, rmin = Integer.MAX_VALUE, cmax = 0;
         for (int q = 0; q < m; q++) {
+            cmin = Math.min(cmin, cols[q]);
+            rmin = Math.min(rmin, rows[q]);
+            cmax = Math.max(cmax, cols[q]);
+        }
+        int nsx = (cmax - cmin) / SUB + 1;
+        // group cells by sub-block (counting sort keeps the cells' order inside each group)
+        int[] sub = new int[m];
+        int groups = 0;
+        for (int q = 0; q < m; q++) {
+            sub[q] = ((rows[q] - rmin) / SUB) * nsx + (cols[q] - cmin) / SUB;
+            groups = Math.max(groups, sub[q] + 1);
+        }
+        int[] start = new int[groups + 1];
+        for (int q = 0; q < m; q++) {
+            start[sub[q] + 1]++;
+        }
+        for (int gI = 0; gI < groups; gI++) {
+            start[gI + 1] += start[gI];
+        }
+        int[] order = new int[m];
+        int[] fill = start.clone();
+        for (int q = 0; q < m; q++) {
+            order[fill[sub[q]]++] = q;
+        }
+        Map<Key, LocalSystem> cache = new LinkedHashMap<>(2 * CACHE_LIMIT, 0.75f, true) {
+            private static final long serialVersionUID = 1L;
+
+            @Override
+            protected boolean removeEldestEntry(Map.Entry<Key, LocalSystem> eldest) {
+                return size() > CACHE_LIMIT;
+            }
+        };
+        LocalSystem.Scratch sc = new LocalSystem.Scratch(kr.p);
+        for (int gI = 0; gI < groups; gI++) {
+            if (start[gI + 1] > start[gI]) {
+                localCells(kr, grid, cols, rows, order, start[gI], start[gI + 1], coords, var, cache, sc);
+            }
+        }
+    }
+
+    /** Predicts the cells order[from..to) sharing one candidate query. */
+    private static void localCells(Kriging kr, Grid grid, int[] cols, int[] rows, int[] order, int from, int to,
+            double[] coords, double[] var, Map<Key, LocalSystem> cache, LocalSystem.Scratch sc) {
+        int k = kr.k, p = kr.p;
+        Neighbourhood hood = kr.options.neighbourhood();
+        // centre and half-diagonal of the group's cells
+        int q0 = order[from];
+        double xa = grid.x(cols[q0]), xb = xa, ya = grid.y(rows[q0]), yb = ya;
+        for (int o = from; o < to; o++) {
+            int q = order[o];
             xa = Math.min(xa, grid.x(cols[q]));
             xb = Math.max(xb, grid.x(cols[q]));
             ya = Math.min(ya, grid.y(rows[q]));
@@ -245,20 +296,12 @@ final class GridPredictor {
         int nc = cand.length;
         double[] dist = new double[nc];
         Heap heap = new Heap(want);
-        Map<Key, LocalSystem> cache = new LinkedHashMap<>(2 * CACHE_LIMIT, 0.75f, true) {
-            private static final long serialVersionUID = 1L;
-
-            @Override
-            protected boolean removeEldestEntry(Map.Entry<Key, LocalSystem> eldest) {
-                return size() > CACHE_LIMIT;
-            }
-        };
         double[] f0 = new double[p];
-        LocalSystem.Scratch sc = new LocalSystem.Scratch(p);
         int need = Math.max(1, p + 1);
         double[] c0 = new double[want];
         double[] nd = new double[want];
-        for (int q = 0; q < m; q++) {
+        for (int o = from; o < to; o++) {
+            int q = order[o];
             double x = grid.x(cols[q]), y = grid.y(rows[q]);
             heap.clear();
             kr.distances(cand, nc, x, y, dist);

@@ -37,7 +37,11 @@ import org.locationtech.jts.geom.prep.PreparedGeometryFactory;
  * variogram is used through the pseudo-covariance A − γ(h) with a constant A; ordinary and
  * universal weights and variances do not depend on A because the weights sum to one; simple
  * kriging needs a bounded model. Measurement-error variances follow the convention of
- * {@link KrigingOptions}.
+ * {@link KrigingOptions}. With geographic locations the lag is the great-circle distance in km;
+ * not every model stays positive definite on the sphere with that distance (the exponential and
+ * spherical do, the Gaussian does not: Gneiting (2013), Strictly and non-strictly positive
+ * definite functions on spheres, Bernoulli 19(4) — from memory); a failure shows as a Cholesky
+ * breakdown ({@link DensaException}).
  *
  * <p>Immutable after construction and safe to share between threads; factorisations are computed
  * lazily (the global one once).

@@ -106,4 +106,47 @@ class GridPredictionTest {
         GridTile t = withVar.get(0);
         assertEquals(gk.predict(g3.x(t.columns()[5]), g3.y(t.rows()[5])).variance(), t.variances()[5], 1e-10);
     }
+
+    @Test
+    void geographicGridEqualsPointPredictions() {
+        java.util.Random r = new java.util.Random(43);
+        double[] lon = new double[150], lat = new double[150];
+        for (int i = 0; i < 150; i++) {
+            lon[i] = -10 + 20 * r.nextDouble();
+            lat[i] = 35 + 25 * r.nextDouble();
+        }
+        Locations geo = Locations.geographic(lon, lat);
+        DensitySet d = TestData.independentCoordinates(TestData.K3, 150, 44);
+        Kriging k = Kriging.ordinary(geo, d, VariogramModel.exponential(1, 800).withNugget(0.05),
+                KrigingOptions.withDefaults().withNeighbourhood(Neighbourhood.nearest(16)));
+        Grid g = Grid.over(-12, 33, 12, 62, 24, 29);
+        List<GridTile> tiles = collect(k, g, GridOptions.withDefaults().withTileSize(10));
+        int cells = 0;
+        for (GridTile t : tiles) {
+            for (int q = 0; q < t.size(); q++) {
+                KrigingPrediction p = k.predict(g.x(t.columns()[q]), g.y(t.rows()[q]));
+                assertTrue(t.predictions().get(q).equalsWithin(p.density(), 1e-12));
+                assertEquals(p.variance(), t.variances()[q], 1e-12);
+                cells++;
+            }
+        }
+        assertEquals(24 * 29, cells);
+    }
+
+    @Test
+    void badGridInputs() {
+        IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> Grid.over(0, 0, Double.NaN, 1, 10, 10));
+        assertTrue(e.getMessage().matches("grid box must be finite with min < max.*"), e.getMessage());
+        org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class, () -> Grid.over(0, 0, 1, 1, 0, 5));
+        e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> GridOptions.withDefaults().withQuantiles(0.5, 1));
+        assertTrue(e.getMessage().matches("quantile probability 1 must be in \\(0, 1\\), got 1.0"), e.getMessage());
+        org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> GridOptions.withDefaults().withTailProbabilities(Double.NaN));
+        Kriging uk = Kriging.universal(loc, data, Drift.polynomial(1).withCovariates(new double[200][1]), model,
+                KrigingOptions.withDefaults());
+        org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> uk.predictGrid(Grid.over(0, 0, 1, 1, 2, 2), GridOptions.withDefaults(), t -> { }));
+    }
 }

@@ -65,4 +65,17 @@ class VariogramFittingTest {
         double w = pow.model().structures().get(0).range();
         assertTrue(w > 0 && w < 2, "exponent " + w);
     }
+
+    @Test
+    void tooFewBinsAreRejected() {
+        Locations loc = TestData.uniformSquare(50, 1, 33);
+        DensitySet d = TestData.independentCoordinates(TestData.K3, 50, 34);
+        EmpiricalVariogram ev = EmpiricalVariogram.of(loc, d, VariogramOptions.withDefaults().withBinCount(3));
+        IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> VariogramFitting.fit(ev, VariogramFitOptions.withDefaults()));
+        assertTrue(e.getMessage().matches("fitting 3 parameters needs at least 4 non-empty bins, got 3"),
+                e.getMessage());
+        VariogramFit two = VariogramFitting.fit(ev, VariogramFitOptions.withDefaults().withNugget(false));
+        assertEquals(3, two.binsUsed());
+    }
 }
