@@ -190,7 +190,7 @@ final class MapPainter {
     MapPainter colourBar(ColourScale colours, int digits) {
         int x0 = LEFT + plotW + 24;
         int barW = 22;
-        int y0 = wrapped(colours.label(), x0 - 4, TOP + 4, RIGHT - 16) + 16;
+        int y0 = wrapped(colours.label(), x0 - 4, TOP + 4, RIGHT - 32) + 16;
         int barH = Math.min(plotH - (y0 - TOP) - 10, 320);
         for (int k = 0; k < barH; k++) {
             double v = colours.max() - (colours.max() - colours.min()) * k / (barH - 1.0);
@@ -216,7 +216,7 @@ final class MapPainter {
         int y = TOP + 4;
         g.setFont(LABEL);
         g.setColor(Color.BLACK);
-        y = wrapped(heading, x0 - 4, y, RIGHT - 16) + 8;
+        y = wrapped(heading, x0 - 4, y, RIGHT - 32) + 8;
         g.setFont(SMALL);
         for (int i = 0; i < labels.length; i++) {
             g.setColor(colours[i]);

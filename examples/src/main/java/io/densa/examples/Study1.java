@@ -556,8 +556,8 @@ final class Study1 {
     }
 
     static void residualFpca(Run run, Baseline b) {
-        Fpca pca = Fpca.fit(b.residualLatest());
-        DMatrixRMaj scores = pca.scores(b.residualLatest(), 2);
+        Fpca pca = Fpca.fit(b.standardisedLatest());
+        DMatrixRMaj scores = pca.scores(b.standardisedLatest(), 2);
         double[] ev = pca.explainedVariance();
         run.progress.line(String.format(Locale.ROOT, "FPCA of the residuals: first two components explain %.1f %% and "
                 + "%.1f %%", 100 * ev[0], 100 * ev[1]));
@@ -570,25 +570,29 @@ final class Study1 {
             s.add(new Charts.Series("mean ⊖ 2 sd", AGE_MID, pca.modeOfVariation(j, -2).clr(AGE_MID),
                     Charts.Style.DASHED, 0));
             charts.add(Charts.chart(String.format(Locale.ROOT, "Component %d (%.1f %% of variance)", j + 1,
-                    100 * ev[j]), "age (years)", "clr of residual density", s));
+                    100 * ev[j]), "age (years)", "clr of standardised residual", s));
         }
         Charts.panel("Modes of variation of the residual densities", charts, 2, 560, 380,
                 run.path("fig_fpca_modes.png"));
         run.report.heading("Principal modes of the departures").paragraph("Simplicial FPCA of the latest season's "
-                + "residual densities (observed ⊖ baseline). The modes are drawn on the clr scale (log-ratio against "
-                + "the geometric mean over ages): a positive value at an age means more visits at that age than the "
-                + "baseline expects.");
+                + "standardised residual densities (observed ⊖ baseline, powered by 1/√v_i as above, so that small "
+                + "districts' sampling noise does not dominate the components). The modes are drawn on the clr scale "
+                + "(log-ratio against the geometric mean over ages, in standardised units): a positive value at an age"
+                + " means more visits at that age than the baseline expects.");
         run.report.figure("fig_fpca_modes.png", "Residual mean ⊕/⊖ two standard deviations along each component.");
         double[] pc1 = column(scores, 0);
         double[] pc2 = column(scores, 1);
         for (int j = 0; j < 2; j++) {
             double[] v = j == 0 ? pc1 : pc2;
-            double max = 0;
-            for (double x : v) {
-                max = Math.max(max, Math.abs(x));
+            double[] abs = new double[v.length];
+            for (int i = 0; i < v.length; i++) {
+                abs[i] = Math.abs(v[i]);
             }
+            Arrays.sort(abs);
+            double max = abs[(int) Math.floor(0.98 * (abs.length - 1))];
             String name = "map_pc" + (j + 1) + ".png";
-            Maps.choropleth(run.region, v, ColourScale.diverging(max, "score on residual component " + (j + 1)), 2,
+            Maps.choropleth(run.region, v, ColourScale.diverging(max, "score on residual component " + (j + 1)
+                    + " (colours saturate at ±" + Tables.fmt(max, 1) + ", the 98th percentile)"), 2,
                     "Residual FPCA score, component " + (j + 1), run.path(name));
             run.report.figure(name, "District scores on residual component " + (j + 1) + ".");
         }
