@@ -119,6 +119,21 @@ final class Study2 {
                 + "); `monitors.geojson` is in WGS 84 longitude/latitude (RFC 7946). The invented city is placed over "
                 + "open ocean so that it cannot be mistaken for a real place.");
 
+        Color[] fills = new Color[m];
+        ColourScale meanScale = ColourScale.of(annualMean, "annual mean of daily means, µg/m³ (large dots: roadside)");
+        for (int i = 0; i < m; i++) {
+            fills[i] = meanScale.colour(annualMean[i]);
+        }
+        MapPainter monitors = new MapPainter(sc.outline().getEnvelopeInternal(), 760, "Monitors and their annual mean",
+                caption).fill(List.of(sc.outline()), new Color[] {new Color(0xFBFBF5)}, Color.DARK_GRAY, 1.5f);
+        for (int i = 0; i < m; i++) {
+            monitors.points(new double[] {sc.x()[i]}, new double[] {sc.y()[i]}, new Color[] {fills[i]},
+                    sc.roadside()[i] ? 9 : 5.5);
+        }
+        monitors.colourBar(meanScale, 1).scaleBar().save(dir.resolve(file(files, "map_monitors.png")));
+        report.figure("map_monitors.png", "The invented monitors coloured by the annual mean of their daily means; "
+                + "large dots are next to heavy-traffic hot spots.");
+
         // ---------------------------------------------------------------- densities
         BayesSpace space = BayesSpace.splines(LOG_LO, LOG_HI, 4, 8);
         String[] codes = sc.codes();
