@@ -283,30 +283,32 @@ final class Study1 {
     /**
      * Function-on-function regression with scalar covariates ({@link FunctionalRegression}, FPCA
      * truncation with the number of components chosen by cross-validation): the response is a
-     * season's density, the predictor the previous season's density, the scalar covariates
-     * urbanity and the share of older residents. Fitted on the transitions of the early seasons;
-     * the transition into the second-last season calibrates; the latest season is scored.
+     * season's density, the predictors the densities of the two previous seasons, the scalar
+     * covariates urbanity and the share of older residents. Fitted on the transitions of the
+     * early seasons; the following transitions calibrate; the latest season is scored.
      */
     static Baseline baseline(Run run) {
         AgeScenario sc = run.sc;
         int n = run.n;
         int seasons = sc.seasons();
         int trainTransitions = (seasons - 1) / 2;
-        DensitySet predictors = run.seasons[0];
-        DensitySet responses = run.seasons[1];
-        for (int s = 1; s < trainTransitions; s++) {
+        DensitySet predictors = run.seasons[1];
+        DensitySet predictors2 = run.seasons[0];
+        DensitySet responses = run.seasons[2];
+        for (int s = 2; s < trainTransitions + 1; s++) {
             predictors = predictors.concat(run.seasons[s]);
+            predictors2 = predictors2.concat(run.seasons[s - 1]);
             responses = responses.concat(run.seasons[s + 1]);
         }
         Design train = covariates(repeat(sc.urbanity(), trainTransitions), repeat(sc.olderShare(), trainTransitions));
         FunctionOnFunctionFit fit = FunctionalRegression.truncation().withComponents(1, 8).withSeed(run.options.seed())
-                .fitDensityResponse(List.of(predictors), train, responses);
+                .fitDensityResponse(List.of(predictors, predictors2), train, responses);
         int m = fit.chosen().predictorComponents();
         double[] trainNorm = fit.residualNorms();
         double[] inverseSize = new double[trainNorm.length];
         for (int s = 0; s < trainTransitions; s++) {
             for (int i = 0; i < n; i++) {
-                inverseSize[s * n + i] = run.estimationVariance[s][i] + run.estimationVariance[s + 1][i];
+                inverseSize[s * n + i] = run.estimationVariance[s + 1][i] + run.estimationVariance[s + 2][i];
             }
         }
         // E‖r‖² ≈ a (u_previous + u_current) + b: estimation variances plus genuine change
@@ -314,25 +316,27 @@ final class Study1 {
         int test = seasons - 1;
         Design d = covariates(sc.urbanity(), sc.olderShare());
         DensitySet calStd = null;
-        for (int cal = trainTransitions + 1; cal < test; cal++) {
-            DensitySet r = standardise(run, fit.residuals(List.of(run.seasons[cal - 1]), d, run.seasons[cal]), cal, ab);
+        for (int cal = trainTransitions + 2; cal < test; cal++) {
+            DensitySet r = standardise(run, fit.residuals(List.of(run.seasons[cal - 1], run.seasons[cal - 2]), d,
+                    run.seasons[cal]), cal, ab);
             calStd = calStd == null ? r : calStd.concat(r);
         }
-        DensitySet residual = fit.residuals(List.of(run.seasons[test - 1]), d, run.seasons[test]);
-        DensitySet predicted = fit.predict(List.of(run.seasons[test - 1]), d);
+        DensitySet residual = fit.residuals(List.of(run.seasons[test - 1], run.seasons[test - 2]), d, run.seasons[test]);
+        DensitySet predicted = fit.predict(List.of(run.seasons[test - 1], run.seasons[test - 2]), d);
         DensitySet testStd = standardise(run, residual, test, ab);
         double[] score = square(testStd.norms());
-        run.progress.line(String.format(Locale.ROOT, "baseline model fitted: function-on-function with %d predictor "
-                + "FPCA components (chosen by CV) + 2 covariates, functional R² %.3f on %d training rows", m,
+        run.progress.line(String.format(Locale.ROOT, "baseline model fitted: function-on-function on the two previous "
+                + "seasons, %d FPCA components each (chosen by CV) + 2 covariates, functional R² %.3f on %d training rows", m,
                 fit.rSquared(), trainNorm.length));
         run.report.heading("Baseline model").paragraph(String.format(Locale.ROOT, "The expected age profile of a "
-                + "district in a season is modelled from its profile in the previous season and two district "
+                + "district in a season is modelled from its profiles in the two previous seasons and two district "
                 + "covariates (urbanity and the share of residents aged 65+): a function-on-function regression "
-                + "in which the previous season's density enters through its first %d FPCA scores (Yao, Müller "
-                + "and Wang 2005 truncation; the number chosen by 5-fold cross-validation from 1–8). Fitted on the "
-                + "%d transitions between the first %d seasons (%d rows, functional R² %.3f); the transitions into "
-                + "seasons %d–%d are held out for calibration; the latest season %d is scored.", m, trainTransitions,
-                trainTransitions + 1, trainNorm.length, fit.rSquared(), trainTransitions + 2, test, test + 1));
+                + "(Densa's `FunctionalRegression`) in which each previous season's density enters through its first "
+                + "%d FPCA scores (Yao, Müller and Wang 2005 truncation; the number chosen by 5-fold cross-validation "
+                + "from 1–8). Fitted on the %d transitions into seasons 3–%d (%d rows, functional R² %.3f); the "
+                + "transitions into seasons %d–%d are held out for calibration; the latest season %d is scored.", m,
+                trainTransitions, trainTransitions + 2, trainNorm.length, fit.rSquared(), trainTransitions + 3, test,
+                test + 1));
         run.report.paragraph(String.format(Locale.ROOT, "Residual norms grow as districts get smaller (fewer visits "
                 + "give noisier densities), so raw norms would flag small districts. With u the B2 estimation variance "
                 + "of a density (" + AgeDensities.varianceSource() + "), the squared residual norm was modelled on "
