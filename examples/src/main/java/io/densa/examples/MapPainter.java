@@ -30,7 +30,7 @@ import org.locationtech.jts.geom.Polygon;
 final class MapPainter {
     private static final int LEFT = 20;
     private static final int TOP = 56;
-    private static final int RIGHT = 170;
+    private static final int RIGHT = 196;
     private static final int BOTTOM = 64;
     private static final Font TITLE = new Font(Font.SANS_SERIF, Font.BOLD, 18);
     private static final Font LABEL = new Font(Font.SANS_SERIF, Font.PLAIN, 13);
