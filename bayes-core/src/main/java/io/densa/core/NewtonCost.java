@@ -2,14 +2,13 @@ package io.densa.core;
 
 /**
  * Arithmetic cost of one damped-Newton iteration of {@link PenalizedLikelihoodEstimator} for one
- * unit, counted from the loops (multiply and add count as one flop each; one line-search trial
- * per iteration assumed, as near convergence).
+ * unit, counted from the loops (see {@link PenalizedLikelihoodEstimator#newtonCost(double[])}).
  *
  * @param quadratureNodes nodes Q of the bin quadrature
  * @param supportWidth    raw basis functions nonzero at a point (W; the spline order)
  * @param dimension       K
  * @param flops           floating-point operations per iteration
- * @param expCalls        calls of {@code Math.exp} per iteration (2Q)
+ * @param expCalls        calls of {@code Math.exp} per iteration (Q)
  */
 public record NewtonCost(int quadratureNodes, int supportWidth, int dimension, long flops, long expCalls) {
 }

@@ -46,8 +46,11 @@ import org.ejml.data.DMatrixRMaj;
  * The scan stops once the criterion has risen at two consecutive grid points after its best
  * value, so the local minimum with the largest λ is taken (criteria for smoothing often have
  * several local minima and the smallest-λ ones undersmooth; common practice), and that grid
- * point is refined by golden-section search on log λ within one grid step (ten steps; fits during
- * the search use the tolerance max(tol, 10⁻⁹), the final fit tol). With very sparse
+ * point is refined within one grid step by three steps of successive parabolic interpolation in
+ * log λ through the neighbouring grid values (Brent (1973), Algorithms for Minimization without
+ * Derivatives, ch. 5; from memory), or by golden-section search at the ends of the grid or where
+ * the criterion is not convex (fits during the search use the tolerance max(tol, 10⁻⁹), the final
+ * fit tol). With very sparse
  * counts the criteria may decrease all the way down to the end of the grid (undersmoothing);
  * {@link #withSmoothingGrid} sets a floor.
  *
@@ -64,7 +67,7 @@ import org.ejml.data.DMatrixRMaj;
  */
 public final class PenalizedLikelihoodEstimator {
     private static final int UNITS_PER_BLOCK = 32;
-    private static final int GOLDEN_STEPS = 10;
+    private static final int GOLDEN_STEPS = 7;
     private static final double SEARCH_TOLERANCE = 1e-9;
 
     private final BayesSpace space;
@@ -126,7 +129,7 @@ public final class PenalizedLikelihoodEstimator {
 
     /**
      * The estimator for a space with defaults: penalty on the second derivative (first for
-     * linear splines or step bases with two bins), smoothing chosen by the corrected AIC on the grid g = 4, 3, …, −6
+     * linear splines or step bases with two bins), smoothing chosen by the corrected AIC on the grid g = 3, 2, …, −6
      * (step 1), at most 100 Newton iterations, tolerance 10⁻¹², automatic Gauss–Legendre points per
      * piece, zero-total units rejected, whole-number counts required, parallel batches.
      *
@@ -135,7 +138,7 @@ public final class PenalizedLikelihoodEstimator {
     public static PenalizedLikelihoodEstimator of(BayesSpace space) {
         Objects.requireNonNull(space, "space");
         int order = Math.min(2, RoughnessPenalty.maxOrder(space.basis()));
-        return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.AICC, 5, 1L, -6, 4, 1,
+        return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.AICC, 5, 1L, -6, 3, 1,
                 100, 1e-12, 0, ZeroTotalPolicy.REJECT, false, true);
     }
 
@@ -185,7 +188,7 @@ public final class PenalizedLikelihoodEstimator {
 
     /**
      * The search grid for λ = N s 10^g: g from {@code log10Hi} down to {@code log10Lo} in steps of
-     * {@code step}, then golden-section refinement.
+     * {@code step}, then refinement within one step (see the class documentation).
      */
     public PenalizedLikelihoodEstimator withSmoothingGrid(double log10Lo, double log10Hi, double step) {
         if (!(Double.isFinite(log10Lo) && Double.isFinite(log10Hi) && log10Lo < log10Hi && step > 0
@@ -260,25 +263,29 @@ public final class PenalizedLikelihoodEstimator {
     }
 
     /**
-     * Cost of one Newton iteration for one unit with these bin edges and every bin occupied
-     * (the upper bound; empty bins save the W_j² rank-one update of their bin): per node 2W (η) +
-     * 4W (gradient, mean) + W(W+1) (information, lower triangle) + 2W (η at the line-search
-     * trial), per occupied bin R_j(R_j+1) (R_j raw functions touching the bin), plus K² (rank-one
-     * update), K³/3 + 2K² (Cholesky and solve), 4K² (penalty); 2Q exp calls.
+     * Cost of one Newton iteration for one unit with these bin edges, every bin occupied (the upper
+     * bound; an empty bin saves its rank-one update), counted from the loops with a multiply and an
+     * add as one flop each and one line-search trial per iteration (the usual case near the
+     * optimum): per quadrature node 2W (bin moments) + 2W + W(W + 1) (second-moment block, lower
+     * triangle) + 2W + 3 (η, weight and sum at the trial point) for W raw functions nonzero at a
+     * point; per bin 3R + R(R + 1) (R raw functions touching it); per iteration K²/2 + 4K² (rank-one
+     * update and penalty) + K³/3 + 2K² (Cholesky and solve) + 2K; one {@code exp} per node.
+     * Multiply flops by the iterations a unit takes (its diagnostics report them) and add the final
+     * covariance, about 2.5 K³.
      */
     public NewtonCost newtonCost(double[] edges) {
         double[] e = EstimationSupport.checkEdges(space, edges);
         BinLayout lay = new BinLayout(space, e, points);
         long w = lay.width;
         long q = lay.nodes;
-        long flops = q * (2 * w + 4 * w + w * (w + 1) + 2 * w + 2);
+        long flops = q * (6 * w + w * (w + 1) + 3);
         for (int j = 0; j < lay.bins; j++) {
             long r = lay.binHi[j] - lay.binLo[j];
-            flops += r * (r + 1) + 2 * r;
+            flops += 3 * r + r * (r + 1);
         }
         long kk = k;
-        flops += kk * kk + kk * kk * kk / 3 + 2 * kk * kk + 4 * kk * kk;
-        return new NewtonCost(lay.nodes, lay.width, k, flops, 2 * q);
+        flops += kk * kk / 2 + 4 * kk * kk + kk * kk * kk / 3 + 2 * kk * kk + 2 * kk;
+        return new NewtonCost(lay.nodes, lay.width, k, flops, q);
     }
 
     // ---------------------------------------------------------------- binned counts
@@ -611,6 +618,8 @@ public final class PenalizedLikelihoodEstimator {
             double bestG = gridHi, bestC = Double.POSITIVE_INFINITY;
             double[] bestBeta = new double[k + 1];
             int rising = 0;
+            double prev = Double.POSITIVE_INFINITY;
+            double cAbove = Double.POSITIVE_INFINITY, cBelow = Double.POSITIVE_INFINITY;
             for (int s = 0; s <= steps && rising < 2; s++) {
                 double g = gridHi - s * gridStep;
                 double c = criterionAt(eng, lambdaAt(eng.total, scale, g), cv);
@@ -618,47 +627,84 @@ public final class PenalizedLikelihoodEstimator {
                     bestC = c;
                     bestG = g;
                     rising = 0;
+                    cAbove = s > 0 ? prev : Double.POSITIVE_INFINITY;
+                    cBelow = Double.POSITIVE_INFINITY;
                     System.arraycopy(eng.beta, 0, bestBeta, 0, k + 1);
                 } else if (bestC < Double.POSITIVE_INFINITY) {
+                    if (rising == 0) {
+                        cBelow = c;
+                    }
                     rising++;
                 }
+                prev = c;
             }
-            // golden-section refinement on [bestG − step, bestG + step]
-            double lo = Math.max(gridLo, bestG - gridStep), hi = Math.min(gridHi, bestG + gridStep);
-            double ratio = 0.5 * (Math.sqrt(5) - 1);
-            double x1 = hi - ratio * (hi - lo), x2 = lo + ratio * (hi - lo);
-            System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-            double f1 = criterionAt(eng, lambdaAt(eng.total, scale, x1), cv);
-            System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-            double f2 = criterionAt(eng, lambdaAt(eng.total, scale, x2), cv);
-            for (int it = 0; it < GOLDEN_STEPS; it++) {
-                if (f1 <= f2) {
-                    hi = x2;
-                    x2 = x1;
-                    f2 = f1;
-                    x1 = hi - ratio * (hi - lo);
+            double denom = cAbove - 2 * bestC + cBelow;
+            if (Double.isFinite(denom) && denom > 0) {
+                // three steps of successive parabolic interpolation in g = log10(λ) (Brent 1973,
+                // Algorithms for Minimization without Derivatives, ch. 5; from memory)
+                double[] gs = {bestG - gridStep, bestG, bestG + gridStep, 0};
+                double[] cs = {cBelow, bestC, cAbove, 0};
+                int m = 3;
+                for (int pass = 0; pass < 3; pass++) {
+                    int b = 0;
+                    for (int i = 1; i < m; i++) {
+                        if (cs[i] < cs[b]) {
+                            b = i;
+                        }
+                    }
+                    // neighbours of the best point in g order
+                    int left = -1, right = -1;
+                    for (int i = 0; i < m; i++) {
+                        if (gs[i] < gs[b] && (left < 0 || gs[i] > gs[left])) {
+                            left = i;
+                        }
+                        if (gs[i] > gs[b] && (right < 0 || gs[i] < gs[right])) {
+                            right = i;
+                        }
+                    }
+                    if (left < 0 || right < 0) {
+                        break;
+                    }
+                    double x0 = gs[left], x1 = gs[b], x2 = gs[right];
+                    double f0 = cs[left], f1 = cs[b], f2 = cs[right];
+                    double num = (x1 - x0) * (x1 - x0) * (f1 - f2) - (x1 - x2) * (x1 - x2) * (f1 - f0);
+                    double den = (x1 - x0) * (f1 - f2) - (x1 - x2) * (f1 - f0);
+                    if (!(den != 0) || !Double.isFinite(num / den)) {
+                        break;
+                    }
+                    double x = x1 - 0.5 * num / den;
+                    x = Math.max(x0, Math.min(x2, x));
+                    if (Math.abs(x - x1) < 1e-3 * gridStep) {
+                        break;
+                    }
                     System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-                    f1 = criterionAt(eng, lambdaAt(eng.total, scale, x1), cv);
-                } else {
-                    lo = x1;
-                    x1 = x2;
-                    f1 = f2;
-                    x2 = lo + ratio * (hi - lo);
-                    System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-                    f2 = criterionAt(eng, lambdaAt(eng.total, scale, x2), cv);
+                    double c = criterionAt(eng, lambdaAt(eng.total, scale, x), cv);
+                    if (m == 3) {
+                        gs[3] = x;
+                        cs[3] = c;
+                        m = 4;
+                    } else {
+                        // drop the point farthest from the best
+                        int far = 0;
+                        for (int i = 1; i < 4; i++) {
+                            if (Math.abs(gs[i] - gs[b]) > Math.abs(gs[far] - gs[b])) {
+                                far = i;
+                            }
+                        }
+                        gs[far] = x;
+                        cs[far] = c;
+                    }
+                    if (c < bestC) {
+                        bestC = c;
+                        bestG = x;
+                        System.arraycopy(eng.beta, 0, bestBeta, 0, k + 1);
+                    }
                 }
+                lambda = lambdaAt(eng.total, scale, bestG);
+                System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+            } else {
+                lambda = golden(eng, scale, cv, bestG, bestC, bestBeta);
             }
-            double gBest = bestG;
-            double cBest = bestC;
-            if (f1 < cBest) {
-                gBest = x1;
-                cBest = f1;
-            }
-            if (f2 < cBest) {
-                gBest = x2;
-            }
-            lambda = lambdaAt(eng.total, scale, gBest);
-            System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
         }
         boolean ok = eng.solve(lambda, maxIterations, tolerance);
         String reason = ok ? "" : eng.failure;
@@ -687,6 +733,46 @@ public final class PenalizedLikelihoodEstimator {
         return new EstimationDiagnostics(id, ok ? EstimationDiagnostics.Status.CONVERGED
                 : EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose, criterion, crit, edf, loglik,
                 eng.total, iterations, cov, EstimationSupport.trace(cov, k));
+    }
+
+    /** Golden-section refinement of log10 λ on [bestG − step, bestG + step] (grid ends or flat spots). */
+    private double golden(PenalizedNewton eng, double scale, Folds cv, double bestG, double bestC, double[] bestBeta) {
+        // golden-section refinement on [bestG − step, bestG + step]
+        double lo = Math.max(gridLo, bestG - gridStep), hi = Math.min(gridHi, bestG + gridStep);
+        double ratio = 0.5 * (Math.sqrt(5) - 1);
+        double x1 = hi - ratio * (hi - lo), x2 = lo + ratio * (hi - lo);
+        System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+        double f1 = criterionAt(eng, lambdaAt(eng.total, scale, x1), cv);
+        System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+        double f2 = criterionAt(eng, lambdaAt(eng.total, scale, x2), cv);
+        for (int it = 0; it < GOLDEN_STEPS; it++) {
+            if (f1 <= f2) {
+                hi = x2;
+                x2 = x1;
+                f2 = f1;
+                x1 = hi - ratio * (hi - lo);
+                System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+                f1 = criterionAt(eng, lambdaAt(eng.total, scale, x1), cv);
+            } else {
+                lo = x1;
+                x1 = x2;
+                f1 = f2;
+                x2 = lo + ratio * (hi - lo);
+                System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+                f2 = criterionAt(eng, lambdaAt(eng.total, scale, x2), cv);
+            }
+        }
+        double gBest = bestG;
+        double cBest = bestC;
+        if (f1 < cBest) {
+            gBest = x1;
+            cBest = f1;
+        }
+        if (f2 < cBest) {
+            gBest = x2;
+        }
+        System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+        return lambdaAt(eng.total, scale, gBest);
     }
 
     /** Fits at λ from the current beta and returns the criterion (+∞ on failure). */

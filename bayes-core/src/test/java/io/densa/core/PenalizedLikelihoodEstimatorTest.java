@@ -245,4 +245,72 @@ class PenalizedLikelihoodEstimatorTest {
         Density b = est.fitSample(java.util.Arrays.copyOf(rep, p)).density();
         assertTrue(a.equalsWithin(b, 1e-8), a.distance(b) + "");
     }
+
+    /**
+     * Closed form: in a step space whose bins are the count bins, the unpenalised multinomial MLE is
+     * the observed proportions, π_j = n_j / N (Lebesgue pdf n_j / (N h_j)).
+     */
+    @Test
+    void stepSpaceMleIsObservedProportions() {
+        double[] e = {0, 0.1, 0.3, 0.6, 0.7, 1.0};
+        BayesSpace space = BayesSpace.steps(e);
+        int[] n = {3, 5, 7, 2, 9};
+        UnitEstimate f = PenalizedLikelihoodEstimator.of(space).withSmoothing(0).fit(e, n);
+        assertTrue(f.diagnostics().converged(), f.diagnostics().toString());
+        for (int j = 0; j < n.length; j++) {
+            double mid = 0.5 * (e[j] + e[j + 1]);
+            assertEquals(n[j] / 26.0 / (e[j + 1] - e[j]), f.density().pdf(mid), 1e-9);
+        }
+        // expected Fisher information of the multinomial in clr coordinates gives edf = K = D − 1
+        assertEquals(4, f.diagnostics().effectiveDegreesOfFreedom(), 1e-9);
+    }
+
+    /**
+     * Closed form (exponential families, REFERENCES.md §2): in a polynomial space of degree 2 the
+     * unpenalised sample MLE is the truncated normal whose first two moments equal the sample's
+     * (score equations Σ T(x_i) = n E_f[T]).
+     */
+    @Test
+    void polynomialSampleMleMatchesMoments() {
+        BayesSpace space = BayesSpace.polynomials(0, 1, 2);
+        double[] x = EstimationTestSupport.beta().sample(5000, rng(21));
+        UnitEstimate f = PenalizedLikelihoodEstimator.of(space).withSmoothing(0).fitSample(x);
+        double m1 = 0, m2 = 0;
+        for (double v : x) {
+            m1 += v / x.length;
+            m2 += v * v / x.length;
+        }
+        assertEquals(m1, f.density().mean(), 1e-9);
+        assertEquals(m2 - m1 * m1, f.density().variance(), 1e-9);
+    }
+
+    /**
+     * A weighted reference changes coordinates, not the estimated pdf: the same counts fitted in the
+     * Lebesgue space and in the space with a normal reference give nearly the same density (the
+     * spline spans differ only through the reference, so agreement is to the smoothing level).
+     */
+    @Test
+    void weightedReferenceGivesTheSamePdf() {
+        BayesSpace leb = BayesSpace.splines(0, 1, 4, 10);
+        BayesSpace wtd = leb.withReference(Reference.normal(0.5, 0.3));
+        int[] counts = EstimationTestSupport.mixture().counts(20000, 50, rng(4));
+        double[] e = edges(0, 1, 50);
+        Density a = PenalizedLikelihoodEstimator.of(leb).fit(e, counts).density();
+        Density b = PenalizedLikelihoodEstimator.of(wtd).fit(e, counts).density();
+        for (double x = 0.05; x < 1; x += 0.05) {
+            assertEquals(a.cdf(x), b.cdf(x), 0.01, "cdf at " + x);
+        }
+        assertTrue(EstimationTestSupport.ks(b, EstimationTestSupport.mixture()) < 0.01);
+    }
+
+    /** Bins covering only part of the domain: the conditional likelihood still gives a converged fit. */
+    @Test
+    void binsInsideTheDomain() {
+        BayesSpace space = BayesSpace.splines(0, 1, 4, 6);
+        double[] e = {0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8};
+        UnitEstimate f = PenalizedLikelihoodEstimator.of(space).fit(e, new int[] {5, 9, 14, 12, 8, 3});
+        assertTrue(f.diagnostics().converged(), f.diagnostics().toString());
+        double mass = f.density().cdf(0.8) - f.density().cdf(0.2);
+        assertTrue(mass > 0.5 && mass <= 1, "mass on the binned range " + mass);
+    }
 }
