@@ -8,6 +8,7 @@ final class Progress {
     private final String name;
     private final PrintStream out;
     private final long start = System.nanoTime();
+    private final java.util.List<String> lines = new java.util.ArrayList<>();
 
     Progress(String name, PrintStream out) {
         this.name = name;
@@ -15,8 +16,15 @@ final class Progress {
     }
 
     void line(String message) {
-        out.printf(Locale.ROOT, "[%6.1f s] %s: %s%n", seconds(), name, message);
+        String text = String.format(Locale.ROOT, "[%6.1f s] %s: %s", seconds(), name, message);
+        lines.add(text);
+        out.println(text);
         out.flush();
+    }
+
+    /** The lines printed so far. */
+    java.util.List<String> lines() {
+        return java.util.List.copyOf(lines);
     }
 
     double seconds() {

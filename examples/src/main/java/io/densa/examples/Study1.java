@@ -111,7 +111,8 @@ final class Study1 {
         run.report.keyNumber(String.format(Locale.ROOT, "Run time: %.1f s.", run.progress.seconds()));
         run.report.heading("Timing").paragraph(String.format(Locale.ROOT,
                 "The whole study took %.1f s on this machine (%d processors available to the JVM).",
-                run.progress.seconds(), Runtime.getRuntime().availableProcessors()));
+                run.progress.seconds(), Runtime.getRuntime().availableProcessors())).paragraph("The progress log of this run:")
+                .bullets(run.progress.lines().stream().map(l -> "`" + l.strip() + "`").toList());
         if (!run.missing.isEmpty()) {
             run.report.heading("Steps not run").bullets(run.missing);
         }

@@ -350,7 +350,8 @@ final class Study2 {
         report.keyNumber(String.format(Locale.ROOT, "Run time: %.1f s.", progress.seconds()));
         report.heading("Timing").paragraph(String.format(Locale.ROOT, "The whole study took %.1f s on this machine "
                 + "(%d processors available to the JVM).", progress.seconds(),
-                Runtime.getRuntime().availableProcessors()));
+                Runtime.getRuntime().availableProcessors())).paragraph("The progress log of this run:")
+                .bullets(progress.lines().stream().map(l -> "`" + l.strip() + "`").toList());
         if (!missing.isEmpty()) {
             report.heading("Steps not run").bullets(missing);
         }
