@@ -22,8 +22,7 @@ import org.junit.jupiter.api.Test;
  * Runs the README's JShell session (every {@code ```jshell} block of the section "Using Densa
  * from JShell") after the startup script {@code jshell/densa.jsh}, through the JDK's
  * {@code jdk.jshell} API in this JVM, so that the documented session cannot rot. Each snippet
- * must be valid and throw nothing; values the README announces in a trailing {@code // ⇒}
- * comment are not checked (they are illustrative), but every numeric result must be finite.
+ * must be valid and throw nothing, and every numeric result must be finite.
  */
 class ReadmeJShellTest {
     static final Path ROOT = Path.of("..").toAbsolutePath().normalize();
