@@ -118,6 +118,19 @@ class StudiesTest {
     }
 
     @Test
+    void study1IsReproducibleFromItsSeed(@TempDir Path dir) throws IOException {
+        Path a = dir.resolve("a");
+        Path b = dir.resolve("b");
+        run(a, "study1", "--seed", "5");
+        run(b, "study1", "--seed", "5");
+        assertEquals(Files.readString(a.resolve("districts.csv")), Files.readString(b.resolve("districts.csv")),
+                "same seed, same results");
+        run(dir.resolve("c"), "study1", "--seed", "6");
+        assertTrue(!Files.readString(a.resolve("districts.csv")).equals(
+                Files.readString(dir.resolve("c").resolve("districts.csv"))), "another seed, another scenario");
+    }
+
+    @Test
     void study2WritesItsReport(@TempDir Path dir) throws IOException {
         StudyResult r = run(dir, "study2");
         checkFolder(r);
