@@ -1,0 +1,489 @@
+package io.densa.examples;
+
+import io.densa.core.BayesSpace;
+import io.densa.core.DensitySet;
+import io.densa.spatial.CrossValidation;
+import io.densa.spatial.Drift;
+import io.densa.spatial.EmpiricalVariogram;
+import io.densa.spatial.Grid;
+import io.densa.spatial.GridOptions;
+import io.densa.spatial.KrigingOptions;
+import io.densa.spatial.Locations;
+import io.densa.spatial.UniversalFit;
+import io.densa.spatial.VariogramFit;
+import io.densa.spatial.VariogramFitOptions;
+import io.densa.spatial.VariogramFitting;
+import io.densa.spatial.VariogramModel;
+import io.densa.spatial.VariogramOptions;
+import java.awt.Color;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import org.jfree.chart.JFreeChart;
+import org.locationtech.jts.geom.Envelope;
+import org.locationtech.jts.geom.Geometry;
+import org.locationtech.jts.geom.Point;
+
+/**
+ * Study 2: distributions of daily mean fine-particle concentrations at the monitors of an
+ * invented city. See {@link AirScenario} for the scenario; the pipeline is documented in the
+ * report it writes.
+ */
+final class Study2 {
+    /** Demo threshold: WHO global air quality guidelines (2021), PM2.5 24-hour mean 15 µg/m³. */
+    static final double THRESHOLD = 15.0;
+    /** Domain of the log daily mean: ln 1 to ln 150 µg/m³. */
+    static final double LOG_LO = 0.0;
+    static final double LOG_HI = Math.log(150);
+
+    private Study2() {
+    }
+
+    static StudyResult run(Main.Options options, Progress progress) {
+        int n = options.unitsOr(30, 50, 80);
+        int side = options.units() > 0 ? 500 : switch (options.size()) {
+            case "small" -> 120;
+            case "medium" -> 250;
+            default -> 500;
+        };
+        Path dir = options.out();
+        progress.line("generating the invented monitor network (" + n + " monitors, 8,760 hours, seed "
+                + options.seed() + ")");
+        AirScenario sc = AirScenario.generate(options.seed(), n);
+        int m = sc.size();
+        List<String> files = new ArrayList<>();
+        List<String> missing = new ArrayList<>();
+        Map<String, Double> metrics = new LinkedHashMap<>();
+        Report report = new Report(dir, "Densa study 2 — daily fine-particle concentration distributions in an "
+                + "invented city");
+        UnitTable table = new UnitTable(m);
+        String caption = "Invented data. Drawn in planar km: " + sc.projection().describe() + ".";
+        double logT = Math.log(THRESHOLD);
+
+        // ---------------------------------------------------------------- daily means
+        double[][] logDaily = new double[m][];
+        double[] missingShare = new double[m];
+        int[] validDays = new int[m];
+        double[] annualMean = new double[m];
+        double[] empiricalExceed = new double[m];
+        int clipped = 0;
+        for (int i = 0; i < m; i++) {
+            double[] daily = sc.dailyMeans(i);
+            missingShare[i] = sc.missingShare(i);
+            double[] vals = new double[daily.length];
+            int c = 0;
+            double s = 0;
+            int over = 0;
+            for (double v : daily) {
+                if (Double.isNaN(v)) {
+                    continue;
+                }
+                s += v;
+                if (v > THRESHOLD) {
+                    over++;
+                }
+                double lv = Math.log(v);
+                if (lv < LOG_LO || lv > LOG_HI) {
+                    clipped++;
+                    lv = Math.max(LOG_LO, Math.min(LOG_HI, lv));
+                }
+                vals[c++] = lv;
+            }
+            logDaily[i] = Arrays.copyOf(vals, c);
+            validDays[i] = c;
+            annualMean[i] = s / c;
+            empiricalExceed[i] = over / (double) c;
+        }
+        progress.line(String.format(Locale.ROOT, "%d monitors: %d–%d valid days each, annual means %.1f–%.1f µg/m³",
+                m, Arrays.stream(validDays).min().orElse(0), Arrays.stream(validDays).max().orElse(0),
+                min(annualMean), max(annualMean)));
+        report.keyNumber(String.format(Locale.ROOT, "%d invented monitors, a year of hourly values; %.1f %% of hours "
+                + "missing; annual means %.1f–%.1f µg/m³.", m, 100 * mean(missingShare), min(annualMean),
+                max(annualMean)));
+        report.heading("What was run").paragraph("An invented city with " + m + " monitors (" + count(sc.roadside())
+                + " of them next to heavy-traffic hot spots) and a year of hourly fine-particle (PM2.5-like) "
+                + "concentrations with missing hours (outages and single hours; " + Tables.fmt(100 * mean(missingShare), 1)
+                + " % of hours missing on average; seed " + options.seed() + "). Each monitor's hours are averaged to "
+                + "**daily means** (a day counts when at least " + AirScenario.MIN_HOURS_PER_DAY + " of its 24 hours "
+                + "are present). **The densities in this report are densities of the natural log of the daily mean "
+                + "concentration**, on [ln 1, ln 150] (ln µg/m³), because the threshold below is a 24-hour value; "
+                + clipped + " daily values fell outside that range and were clipped to it.");
+        report.paragraph("Demo threshold: WHO global air quality guidelines (2021), PM2.5 24-hour mean 15 µg/m³. It is "
+                + "used here only as a demonstration threshold on invented data: P(daily mean > 15 µg/m³) is the "
+                + "share of days a monitor's (or a location's) density puts above it, not a regulatory statistic.");
+        report.paragraph("Coordinates: computations in planar kilometres (" + sc.projection().describe()
+                + "); `monitors.geojson` is in WGS 84 longitude/latitude (RFC 7946). The invented city is placed over "
+                + "open ocean so that it cannot be mistaken for a real place.");
+
+        Color[] fills = new Color[m];
+        ColourScale meanScale = ColourScale.of(annualMean, "annual mean of daily means, µg/m³ (large dots: roadside)");
+        for (int i = 0; i < m; i++) {
+            fills[i] = meanScale.colour(annualMean[i]);
+        }
+        MapPainter monitors = new MapPainter(sc.outline().getEnvelopeInternal(), 760, "Monitors and their annual mean",
+                caption).fill(List.of(sc.outline()), new Color[] {new Color(0xFBFBF5)}, Color.DARK_GRAY, 1.5f);
+        for (int i = 0; i < m; i++) {
+            monitors.points(new double[] {sc.x()[i]}, new double[] {sc.y()[i]}, new Color[] {fills[i]},
+                    sc.roadside()[i] ? 9 : 5.5);
+        }
+        monitors.colourBar(meanScale, 1).scaleBar().save(dir.resolve(file(files, "map_monitors.png")));
+        report.figure("map_monitors.png", "The invented monitors coloured by the annual mean of their daily means; "
+                + "large dots are next to heavy-traffic hot spots.");
+
+        // ---------------------------------------------------------------- densities
+        BayesSpace space = BayesSpace.splines(LOG_LO, LOG_HI, 4, 8);
+        String[] codes = sc.codes();
+        Estimates est = SampleDensities.estimate(space, logDaily, codes);
+        DensitySet dens = est.densities();
+        double[] estVar = est.variances();
+        double[] pExceed = dens.tailProbability(logT);
+        double[] median = exp(dens.quantiles(0.5));
+        int notConverged = est.notConverged();
+        progress.line("estimated " + m + " densities of log daily means (" + notConverged + " fits did not converge)");
+        for (String problem : est.problems()) {
+            progress.line("  not converged: " + problem);
+        }
+        report.heading("Densities per monitor").paragraph("Each monitor's log daily means are turned into a density in "
+                + ModelText.space(space, "8 equally spaced interior knots") + " by " + SampleDensities.describe() + "; " + notConverged + " fits did not converge. "
+                + (estVar == null ? "No estimation variances are available, so the kriging below treats the densities "
+                + "as exact." : "The estimator also reports each density's B2 estimation variance (trace of its "
+                + "coordinate covariance), used below as the measurement-error variance of the kriging."));
+        if (!est.problems().isEmpty()) {
+            report.bullets(est.problems());
+        }
+        densityFigure(sc, logDaily, dens, dir.resolve(file(files, "fig_densities.png")));
+        report.figure("fig_densities.png", "Four monitors (lowest, median and highest mean, and a roadside one): "
+                + "histogram of log daily means and the estimated density; the dashed line is the 15 µg/m³ demo "
+                + "threshold (ln 15 = 2.71).");
+
+        // ---------------------------------------------------------------- variogram
+        Locations loc = Locations.planar(sc.x(), sc.y());
+        Envelope env = sc.outline().getEnvelopeInternal();
+        double maxLag = 0.5 * Math.hypot(env.getWidth(), env.getHeight());
+        VariogramOptions vOpt = VariogramOptions.withDefaults().withBinCount(12).withMaxLag(maxLag);
+        VariogramFitOptions fOpt = VariogramFitOptions.withDefaults().withFamily(VariogramModel.Family.EXPONENTIAL);
+        EmpiricalVariogram raw = EmpiricalVariogram.of(loc, dens, vOpt);
+        VariogramFit rawFit = VariogramFitting.fit(raw, fOpt);
+        KrigingOptions kOpt = estVar == null ? KrigingOptions.withDefaults()
+                : KrigingOptions.withDefaults().withErrorVariances(estVar);
+        UniversalFit uk = UniversalFit.estimate(loc, dens, Drift.polynomial(1), vOpt, fOpt, kOpt, 10);
+        VariogramModel model = uk.fit().model();
+        progress.line("trace-variogram fitted: raw " + describe(rawFit.model()) + "; universal-kriging residuals "
+                + describe(model)
+                + " after " + uk.iterations() + " iterations" + (uk.converged() ? "" : " (not converged)"));
+        variogramFigure(raw, rawFit.model(), uk.residualVariogram(), model, maxLag,
+                dir.resolve(file(files, "fig_variogram.png")));
+        report.heading("Trace-variogram").paragraph("Empirical trace-variogram γ̂(h) = (1/(2|N(h)|)) Σ ‖X_i ⊖ X_j‖²_B "
+                + "(Giraldo, Delicado and Mateu 2011) in 12 bins up to " + Tables.fmt(maxLag, 1) + " km, and an "
+                + "exponential model (nugget + exponential, practical range) fitted by Cressie's (1985) weighted "
+                + "least squares. Raw densities: " + describe(rawFit.model()) + ". For universal kriging with a linear "
+                + "drift in the coordinates the variogram of the drift residuals was re-fitted with the GLS drift "
+                + "until it settled (" + uk.iterations() + " fits" + (uk.converged() ? "" : ", not converged") + "): "
+                + describe(model) + ".");
+        report.figure("fig_variogram.png", "Empirical trace-variograms (points) and fitted models (lines).");
+
+        // ---------------------------------------------------------------- cross-validation
+        CrossValidation cv = uk.kriging().crossValidate();
+        double[][] c = dens.coordinates();
+        int k = space.dimension();
+        double[] meanAll = new double[k];
+        for (double[] row : c) {
+            for (int j = 0; j < k; j++) {
+                meanAll[j] += row[j] / m;
+            }
+        }
+        double[] baseErr = new double[m];
+        double baseSq = 0;
+        double[][] looCoords = new double[m][k];
+        for (int i = 0; i < m; i++) {
+            double s = 0;
+            for (int j = 0; j < k; j++) {
+                double other = (m * meanAll[j] - c[i][j]) / (m - 1);
+                double e = c[i][j] - other;
+                s += e * e;
+                looCoords[i][j] = c[i][j] - cv.errors()[i][j];
+            }
+            baseErr[i] = Math.sqrt(s);
+            baseSq += s / m;
+        }
+        DensitySet looPred = DensitySet.of(space, looCoords, codes);
+        double[] looExceed = looPred.tailProbability(logT);
+        double maeUk = 0;
+        double maeBase = 0;
+        double[] meanExceedOthers = new double[m];
+        for (int i = 0; i < m; i++) {
+            double[] mc = new double[k];
+            for (int j = 0; j < k; j++) {
+                mc[j] = (m * meanAll[j] - c[i][j]) / (m - 1);
+            }
+            meanExceedOthers[i] = space.density(mc).cdf(logT);
+            meanExceedOthers[i] = 1 - meanExceedOthers[i];
+            maeUk += Math.abs(looExceed[i] - empiricalExceed[i]) / m;
+            maeBase += Math.abs(meanExceedOthers[i] - empiricalExceed[i]) / m;
+        }
+        metrics.put("looMseUniversal", cv.meanSquaredError());
+        metrics.put("looMseMeanDensity", baseSq);
+        metrics.put("looExceedanceMaeUniversal", maeUk);
+        metrics.put("looExceedanceMaeMeanDensity", maeBase);
+        report.keyNumber(String.format(Locale.ROOT, "Leave-one-out mean squared B2 error: %.3g by universal kriging "
+                + "against %.3g by the mean density of the other monitors; mean absolute error of P(daily mean > 15 "
+                + "µg/m³): %.3f against %.3f.", cv.meanSquaredError(), baseSq, maeUk, maeBase));
+        progress.line(String.format(Locale.ROOT, "leave-one-out: mean squared B2 error %.4f (universal kriging) vs %.4f"
+                + " (mean density of the other monitors)", cv.meanSquaredError(), baseSq));
+        report.heading("Leave-one-out cross-validation").paragraph("Each monitor's density is predicted from the "
+                + "others (fast leave-one-out of the global universal-kriging system, Dubrule 1983) and compared with "
+                + "the simplest alternative, the ⊕-mean density of the other monitors. The last column compares the "
+                + "predicted P(daily mean > 15 µg/m³) with the held-out monitor's observed share of days above it.");
+        report.table(new String[] {"predictor", "mean B2 error", "mean squared B2 error", "mean standardised squared "
+            + "error", "mean abs. error of P(> 15 µg/m³)"}, List.of(
+                new String[] {"universal kriging (linear drift)", Tables.fmt(cv.meanError(), 4),
+                    Tables.fmt(cv.meanSquaredError(), 4), Tables.fmt(cv.meanStandardisedSquaredError(), 3),
+                    Tables.fmt(maeUk, 4)},
+                new String[] {"mean density of the other monitors", Tables.fmt(mean(baseErr), 4),
+                    Tables.fmt(baseSq, 4), "—", Tables.fmt(maeBase, 4)}));
+        report.paragraph(String.format(Locale.ROOT, "Kriging reduces the mean squared leave-one-out error by %.0f %% "
+                + "against the mean density. A mean standardised squared error near 1 means the kriging variances "
+                + "describe the errors well (%.2f here).", 100 * (1 - cv.meanSquaredError() / baseSq),
+                cv.meanStandardisedSquaredError()));
+
+        // ---------------------------------------------------------------- grid
+        Grid grid = Grid.over(env.getMinX(), env.getMinY(), env.getMaxX(), env.getMaxY(), side, side)
+                .withMask(sc.outline());
+        double[] gP = new double[side * side];
+        double[] gMed = new double[side * side];
+        double[] gSd = new double[side * side];
+        Arrays.fill(gP, Double.NaN);
+        Arrays.fill(gMed, Double.NaN);
+        Arrays.fill(gSd, Double.NaN);
+        long t0 = System.nanoTime();
+        int[] lastTenth = {0};
+        GridOptions gOpt = GridOptions.withDefaults().withVariance(true).withTailProbabilities(logT)
+                .withQuantiles(0.5).withProgressListener((done, total) -> {
+                    int tenth = (int) (10L * done / total);
+                    if (tenth > lastTenth[0]) {
+                        lastTenth[0] = tenth;
+                        progress.line("grid prediction " + 10 * tenth + " % (" + done + "/" + total + " tiles)");
+                    }
+                });
+        int[] cells = {0};
+        uk.kriging().predictGrid(grid, gOpt, tile -> {
+            for (int q = 0; q < tile.size(); q++) {
+                int idx = tile.rows()[q] * side + tile.columns()[q];
+                gP[idx] = tile.tailProbabilities()[0][q];
+                gMed[idx] = Math.exp(tile.quantiles()[0][q]);
+                gSd[idx] = Math.sqrt(Math.max(0, tile.variances()[q]));
+            }
+            cells[0] += tile.size();
+        });
+        double gridSeconds = (System.nanoTime() - t0) / 1e9;
+        metrics.put("gridCells", (double) cells[0]);
+        report.keyNumber(String.format(Locale.ROOT, "Kriged %,d cells of a %d × %d grid over the city in %.1f s; "
+                + "P(daily mean > 15 µg/m³) ranges from %.2f to %.2f over the city (demo threshold).", cells[0], side,
+                side, gridSeconds, min(gP), max(gP)));
+        metrics.put("gridSeconds", gridSeconds);
+        progress.line(String.format(Locale.ROOT, "kriged %,d grid cells (%d × %d over the city) in %.1f s", cells[0],
+                side, side, gridSeconds));
+        Envelope gridEnv = new Envelope(env);
+        rasterMap(sc, gridEnv, side, gP, ColourScale.sequential(0, Math.max(0.05, max(gP)),
+                "P(daily mean > 15 µg/m³)"), 2, "Probability that a day exceeds 15 µg/m³ (demo threshold)", caption,
+                dir.resolve(file(files, "map_exceedance.png")));
+        rasterMap(sc, gridEnv, side, gMed, ColourScale.of(gMed, "median daily mean, µg/m³"), 1,
+                "Median daily mean concentration", caption, dir.resolve(file(files, "map_median.png")));
+        rasterMap(sc, gridEnv, side, gSd, ColourScale.of(gSd, "kriging standard deviation (B2 norm units)"), 3,
+                "Kriging standard deviation", caption, dir.resolve(file(files, "map_kriging_sd.png")));
+        report.heading("Maps from universal kriging").paragraph(String.format(Locale.ROOT, "The monitors' densities "
+                + "were kriged (universal kriging with a linear drift, the fitted residual variogram and each "
+                + "density's estimation variance as measurement error) onto a %d × %d grid over the city's bounding "
+                + "box; the %,d cells inside the outline were predicted in tiles, and from each predicted density "
+                + "the probability of a daily mean above 15 µg/m³ and the median daily mean were computed in the same "
+                + "pass (%.1f s). The kriging standard deviation is the square root of the trace kriging variance, "
+                + "in units of the B2 norm of log-concentration densities.", side, side, cells[0], gridSeconds));
+        report.figure("map_exceedance.png", "P(daily mean > 15 µg/m³) from the kriged densities; dots are the "
+                + "monitors. Demo threshold only — not a regulatory assessment.");
+        report.figure("map_median.png", "Median daily mean: exp of the median of the kriged density of the log daily "
+                + "mean (the median commutes with the monotone log).");
+        report.figure("map_kriging_sd.png", "Kriging standard deviation: small near monitors, large in gaps and at "
+                + "the edges.");
+
+        // ---------------------------------------------------------------- tables
+        double[] lon = new double[m];
+        double[] lat = new double[m];
+        List<Geometry> points = new ArrayList<>();
+        for (int i = 0; i < m; i++) {
+            lon[i] = sc.projection().lon(sc.x()[i]);
+            lat[i] = sc.projection().lat(sc.y()[i]);
+            Point pt = Region.GEOMETRY.createPoint(new org.locationtech.jts.geom.Coordinate(sc.x()[i], sc.y()[i]));
+            points.add(pt);
+        }
+        table.text("code", codes).text("name", sc.names()).number("lon", lon).number("lat", lat)
+                .flag("roadside", sc.roadside()).number("missing_hour_share", missingShare)
+                .integer("valid_days", validDays).number("annual_mean", annualMean)
+                .number("observed_share_over_15", empiricalExceed).number("density_p_over_15", pExceed)
+                .number("density_median", median)
+                .number("loo_error_universal", cv.errorNorms()).number("loo_error_mean_density", baseErr)
+                .number("loo_p_over_15", looExceed);
+        if (estVar != null) {
+            table.number("estimation_variance", estVar);
+        }
+        table.writeCsv(dir.resolve(file(files, "monitors.csv")));
+        table.writeGeoJson(dir.resolve(file(files, "monitors.geojson")), points, sc.projection());
+        List<String[]> top = new ArrayList<>();
+        int[] order = Study1.sortedBy(m, i -> -pExceed[i]);
+        for (int r = 0; r < Math.min(10, m); r++) {
+            int i = order[r];
+            top.add(new String[] {codes[i], sc.names()[i], sc.roadside()[i] ? "yes" : "no",
+                Tables.fmt(annualMean[i], 1), Tables.fmt(100 * empiricalExceed[i], 1) + " %",
+                Tables.fmt(100 * pExceed[i], 1) + " %", Tables.fmt(100 * looExceed[i], 1) + " %"});
+        }
+        report.heading("Monitors with the highest exceedance probability").table(new String[] {"code", "name",
+            "roadside", "annual mean µg/m³", "observed days > 15", "density P(> 15)", "leave-one-out P(> 15)"}, top);
+        report.heading("Files").bullets(List.of(
+                "`monitors.csv` and `monitors.geojson` — one row / feature per monitor: location, missing hours, "
+                        + "valid days, annual mean, observed and density-based share of days over 15 µg/m³, median, "
+                        + "estimation variance and leave-one-out errors.", "PNG figures shown above."));
+        metrics.put("monitors", (double) m);
+        metrics.put("seconds", progress.seconds());
+        report.keyNumber(String.format(Locale.ROOT, "Run time: %.1f s.", progress.seconds()));
+        report.heading("Timing").paragraph(String.format(Locale.ROOT, "The whole study took %.1f s on this machine "
+                + "(%d processors available to the JVM).", progress.seconds(),
+                Runtime.getRuntime().availableProcessors())).paragraph("The progress log of this run:")
+                .bullets(progress.lines().stream().map(l -> "`" + l.strip() + "`").toList());
+        if (!missing.isEmpty()) {
+            report.heading("Steps not run").bullets(missing);
+        }
+        report.caution();
+        report.write();
+        files.add("summary.md");
+        files.add("summary.html");
+        return new StudyResult(dir, m, List.copyOf(files), Map.copyOf(metrics), List.copyOf(missing));
+    }
+
+    static String describe(VariogramModel model) {
+        return ModelText.variogram(model);
+    }
+
+    static String file(List<String> files, String name) {
+        files.add(name);
+        return name;
+    }
+
+    static void densityFigure(AirScenario sc, double[][] logDaily, DensitySet dens, Path file) {
+        int m = sc.size();
+        int[] order = Study1.sortedBy(m, i -> mean(logDaily[i]));
+        int road = order[3 * m / 4];
+        for (int i = 0; i < m; i++) {
+            if (sc.roadside()[i] && i != order[m - 1] && i != order[m / 2] && i != order[0]) {
+                road = i;
+                break;
+            }
+        }
+        int[] pick = {order[0], order[m / 2], order[m - 1], road};
+        double[] grid = new double[200];
+        for (int g = 0; g < grid.length; g++) {
+            grid[g] = LOG_LO + (LOG_HI - LOG_LO) * (g + 0.5) / grid.length;
+        }
+        List<JFreeChart> charts = new ArrayList<>();
+        for (int i : pick) {
+            int bins = 40;
+            double[] mid = new double[bins];
+            double[] h = new double[bins];
+            double lo = 0.5;
+            double hi = 4.5;
+            double w = (hi - lo) / bins;
+            for (int b = 0; b < bins; b++) {
+                mid[b] = lo + (b + 0.5) * w;
+            }
+            for (double v : logDaily[i]) {
+                int b = (int) Math.floor((v - lo) / w);
+                if (b >= 0 && b < bins) {
+                    h[b] += 1.0 / (logDaily[i].length * w);
+                }
+            }
+            double[] pdf = dens.get(i).pdf(grid);
+            double top = Math.max(max(pdf), max(h));
+            List<Charts.Series> s = new ArrayList<>();
+            s.add(new Charts.Series("histogram of log daily means", mid, h, Charts.Style.POINTS, 7));
+            s.add(new Charts.Series("estimated density", grid, pdf, Charts.Style.LINE, 0));
+            s.add(new Charts.Series("15 µg/m³", new double[] {Math.log(THRESHOLD), Math.log(THRESHOLD)},
+                    new double[] {0, top}, Charts.Style.DASHED, 1));
+            charts.add(Charts.chart(sc.codes()[i] + " " + sc.names()[i] + " — " + logDaily[i].length + " days",
+                    "ln(daily mean, µg/m³)", "density", s));
+        }
+        Charts.panel("Densities of the log daily mean concentration", charts, 2, 560, 360, file);
+    }
+
+    static void variogramFigure(EmpiricalVariogram raw, VariogramModel rawModel, EmpiricalVariogram resid,
+            VariogramModel residModel, double maxLag, Path file) {
+        double[] h = new double[120];
+        double[] g1 = new double[h.length];
+        double[] g2 = new double[h.length];
+        for (int i = 0; i < h.length; i++) {
+            h[i] = maxLag * (i + 1) / h.length; // from just above 0: the nugget is a jump at h = 0
+            g1[i] = rawModel.gamma(h[i]);
+            g2[i] = residModel.gamma(h[i]);
+        }
+        List<Charts.Series> s = new ArrayList<>();
+        s.add(new Charts.Series("empirical, densities", raw.meanLags(), raw.semivariances(), Charts.Style.POINTS, 0));
+        s.add(new Charts.Series("fitted, densities", h, g1, Charts.Style.LINE, 0));
+        s.add(new Charts.Series("empirical, drift residuals", resid.meanLags(), resid.semivariances(),
+                Charts.Style.POINTS, 1));
+        s.add(new Charts.Series("fitted, drift residuals", h, g2, Charts.Style.DASHED, 1));
+        JFreeChart chart = Charts.chart("Trace-variogram of the monitor densities", "distance h (km)",
+                "semivariance γ(h) (squared B2 norm)", s);
+        Charts.save(chart, file, 900, 560);
+    }
+
+    static void rasterMap(AirScenario sc, Envelope cells, int side, double[] values, ColourScale scale, int digits,
+            String title, String caption, Path file) {
+        Color[] fills = new Color[sc.size()];
+        Arrays.fill(fills, Color.WHITE);
+        new MapPainter(sc.outline().getEnvelopeInternal(), 760, title, caption)
+                .raster(cells, side, side, values, scale, sc.outline())
+                .stroke(List.of(sc.outline()), Color.DARK_GRAY, 1.5f)
+                .points(sc.x(), sc.y(), fills, 3.5).colourBar(scale, digits).scaleBar().save(file);
+    }
+
+    static double[] exp(double[] v) {
+        double[] out = new double[v.length];
+        for (int i = 0; i < v.length; i++) {
+            out[i] = Math.exp(v[i]);
+        }
+        return out;
+    }
+
+    static double mean(double[] v) {
+        double s = 0;
+        for (double d : v) {
+            s += d;
+        }
+        return s / v.length;
+    }
+
+    static double min(double[] v) {
+        double r = Double.POSITIVE_INFINITY;
+        for (double d : v) {
+            if (!Double.isNaN(d)) {
+                r = Math.min(r, d);
+            }
+        }
+        return r;
+    }
+
+    static double max(double[] v) {
+        double r = Double.NEGATIVE_INFINITY;
+        for (double d : v) {
+            if (!Double.isNaN(d)) {
+                r = Math.max(r, d);
+            }
+        }
+        return r;
+    }
+
+    static int count(boolean[] b) {
+        return Study1.count(b);
+    }
+}

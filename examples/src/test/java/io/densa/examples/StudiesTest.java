@@ -1,0 +1,155 @@
+package io.densa.examples;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertNotNull;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import com.google.gson.JsonArray;
+import com.google.gson.JsonElement;
+import com.google.gson.JsonObject;
+import com.google.gson.JsonParser;
+import java.awt.image.BufferedImage;
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.stream.Stream;
+import javax.imageio.ImageIO;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/**
+ * Runs each study at its small size and checks the report folder: summary.md and summary.html
+ * exist and carry the caution; every CSV has one row per unit; every GeoJSON parses (with Gson,
+ * an independent JSON parser) as an RFC 7946 FeatureCollection with one feature per unit and
+ * longitude/latitude positions; every PNG decodes with ImageIO. Study 1 also scores its flags
+ * against the injected truth, and the recall must reach the bound stated below.
+ */
+class StudiesTest {
+    /**
+     * Lowest acceptable recall of study 1's flags at the small size with the default seed (our own
+     * acceptance bound for the demo, not a published value).
+     */
+    static final double RECALL_BOUND = 0.5;
+
+    static StudyResult run(Path dir, String... args) {
+        ByteArrayOutputStream buffer = new ByteArrayOutputStream();
+        String[] all = Stream.concat(Stream.of(args), Stream.of("--out", dir.toString(), "--size", "small"))
+                .toArray(String[]::new);
+        StudyResult result = Main.run(Main.Options.parse(all), new PrintStream(buffer, true, StandardCharsets.UTF_8));
+        String log = buffer.toString(StandardCharsets.UTF_8);
+        assertTrue(log.lines().count() >= 3, "expected progress lines, got: " + log);
+        return result;
+    }
+
+    static void checkFolder(StudyResult result) throws IOException {
+        Path dir = result.folder();
+        String md = Files.readString(dir.resolve("summary.md"));
+        String html = Files.readString(dir.resolve("summary.html"));
+        assertTrue(md.contains("not diagnoses") && html.contains("not diagnoses"), "caution missing");
+        assertTrue(html.contains("data:image/png;base64,"), "HTML must inline its pictures");
+        assertTrue(!html.contains("src=\"map_") && !html.contains("src=\"fig_"), "HTML must not link PNG files");
+        int csv = 0;
+        int geo = 0;
+        int png = 0;
+        try (Stream<Path> files = Files.list(dir)) {
+            for (Path f : files.toList()) {
+                String name = f.getFileName().toString();
+                if (name.endsWith(".png")) {
+                    BufferedImage img = ImageIO.read(f.toFile());
+                    assertNotNull(img, name + " does not decode");
+                    assertTrue(img.getWidth() >= 400 && img.getHeight() >= 300, name + " is too small");
+                    assertTrue(md.contains("(" + name + ")"), name + " is not shown in summary.md");
+                    png++;
+                } else if (name.equals("districts.csv") || name.equals("monitors.csv")) {
+                    List<String> lines = Files.readAllLines(f);
+                    assertEquals(result.units() + 1, lines.size(), name + ": header plus one row per unit");
+                    csv++;
+                } else if (name.endsWith(".csv")) {
+                    assertTrue(Files.readAllLines(f).size() >= 2, name + " is empty");
+                    csv++;
+                } else if (name.endsWith(".geojson")) {
+                    checkGeoJson(f, result.units());
+                    geo++;
+                }
+            }
+        }
+        assertTrue(png >= 3, "expected at least three figures, found " + png);
+        assertTrue(csv >= 1, "expected CSV tables");
+        assertTrue(geo >= 1, "expected GeoJSON");
+    }
+
+    static void checkGeoJson(Path file, int units) throws IOException {
+        JsonObject root = JsonParser.parseString(Files.readString(file)).getAsJsonObject();
+        assertEquals("FeatureCollection", root.get("type").getAsString());
+        JsonArray features = root.getAsJsonArray("features");
+        assertEquals(units, features.size(), file.getFileName() + ": one feature per unit");
+        for (JsonElement e : features) {
+            JsonObject f = e.getAsJsonObject();
+            assertEquals("Feature", f.get("type").getAsString());
+            assertTrue(f.get("properties").isJsonObject());
+            JsonObject g = f.getAsJsonObject("geometry");
+            String type = g.get("type").getAsString();
+            JsonArray first = switch (type) {
+                case "Point" -> g.getAsJsonArray("coordinates");
+                case "Polygon" -> g.getAsJsonArray("coordinates").get(0).getAsJsonArray().get(0).getAsJsonArray();
+                case "MultiPolygon" -> g.getAsJsonArray("coordinates").get(0).getAsJsonArray().get(0)
+                        .getAsJsonArray().get(0).getAsJsonArray();
+                default -> throw new AssertionError("unexpected geometry " + type);
+            };
+            double lon = first.get(0).getAsDouble();
+            double lat = first.get(1).getAsDouble();
+            // RFC 7946 section 3.1.1: positions are [longitude, latitude] in WGS 84.
+            assertTrue(lon >= -180 && lon <= 180 && lat >= -90 && lat <= 90, "position out of range: " + first);
+        }
+    }
+
+    @Test
+    void study1WritesItsReportAndFindsTheInjectedShift(@TempDir Path dir) throws IOException {
+        StudyResult r = run(dir, "study1");
+        checkFolder(r);
+        Double recall = r.metrics().get("recall");
+        assertNotNull(recall, "study 1 must score its flags; missing steps: " + r.missing());
+        assertTrue(recall >= RECALL_BOUND, "recall " + recall + " below " + RECALL_BOUND);
+        assertTrue(r.metrics().get("precision") > 0, "no true flag at all");
+    }
+
+    @Test
+    void study1IsReproducibleFromItsSeed(@TempDir Path dir) throws IOException {
+        Path a = dir.resolve("a");
+        Path b = dir.resolve("b");
+        run(a, "study1", "--seed", "5");
+        run(b, "study1", "--seed", "5");
+        assertEquals(Files.readString(a.resolve("districts.csv")), Files.readString(b.resolve("districts.csv")),
+                "same seed, same results");
+        run(dir.resolve("c"), "study1", "--seed", "6");
+        assertTrue(!Files.readString(a.resolve("districts.csv")).equals(
+                Files.readString(dir.resolve("c").resolve("districts.csv"))), "another seed, another scenario");
+    }
+
+    @Test
+    void study2WritesItsReport(@TempDir Path dir) throws IOException {
+        StudyResult r = run(dir, "study2");
+        checkFolder(r);
+        // The invented field is spatially correlated by construction (AirScenario), so kriging must
+        // predict held-out monitors better than the mean density of the others (simulation recovery).
+        assertTrue(r.metrics().get("looMseUniversal") < r.metrics().get("looMseMeanDensity"),
+                "kriging should beat the mean-density baseline: " + r.metrics());
+        assertTrue(r.metrics().get("gridCells") > 1000, "grid prediction missing: " + r.metrics());
+    }
+
+    @Test
+    void optionsAreParsedAndBadOnesExplained() {
+        Main.Options o = Main.Options.parse("study2", "--seed", "7", "--size", "40", "--out", "x");
+        assertEquals("study2", o.study());
+        assertEquals(7, o.seed());
+        assertEquals(40, o.unitsOr(1, 2, 3));
+        assertEquals(Path.of("x"), o.out());
+        IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> Main.Options.parse("--size", "huge"));
+        assertTrue(e.getMessage().contains("small, medium, full"));
+    }
+}

@@ -1,0 +1,10 @@
+// Densa JShell startup script: imports for an interactive session.
+// Start JShell from the repository root after `bash demo.sh` (or the package build) with:
+//   jshell --class-path examples/target/densa-all.jar --startup DEFAULT --startup jshell/densa.jsh
+// densa-all.jar bundles bayes-core, bayes-regression, bayes-spatial and their dependencies
+// (EJML, Commons Math, JTS) plus the examples and JFreeChart.
+import io.densa.core.*;
+import io.densa.regression.*;
+import io.densa.spatial.*;
+import java.util.*;
+import java.util.stream.*;
