@@ -521,7 +521,7 @@ final class Study1 {
         int[] cat = new int[run.n];
         int hh = 0;
         for (LocalMoran.Unit u : local.units()) {
-            if (u.pAdjusted() <= FDR) {
+            if (u.adjustedPValue() <= FDR) {
                 cat[u.index()] = switch (u.quadrant()) {
                     case HIGH_HIGH -> 1;
                     case LOW_LOW -> 2;
@@ -554,8 +554,8 @@ final class Study1 {
         java.util.Arrays.fill(quadrant, "excluded");
         java.util.Arrays.fill(localP, Double.NaN);
         for (LocalMoran.Unit u : local.units()) {
-            quadrant[u.index()] = u.pAdjusted() <= FDR ? u.quadrant().name().toLowerCase(Locale.ROOT) : "none";
-            localP[u.index()] = u.pAdjusted();
+            quadrant[u.index()] = u.adjustedPValue() <= FDR ? u.quadrant().name().toLowerCase(Locale.ROOT) : "none";
+            localP[u.index()] = u.adjustedPValue();
         }
         run.table.text("local_moran_cluster", quadrant).number("local_moran_q", localP);
     }

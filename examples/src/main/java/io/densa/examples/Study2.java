@@ -262,7 +262,7 @@ final class Study2 {
         long t0 = System.nanoTime();
         int[] lastTenth = {0};
         GridOptions gOpt = GridOptions.withDefaults().withVariance(true).withTailProbabilities(logT)
-                .withQuantiles(0.5).withProgressListener((done, total) -> {
+                .withQuantiles(0.5).withProgressListener((task, done, total) -> {
                     int tenth = (int) (10L * done / total);
                     if (tenth > lastTenth[0]) {
                         lastTenth[0] = tenth;
