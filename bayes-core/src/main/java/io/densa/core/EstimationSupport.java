@@ -5,28 +5,6 @@ final class EstimationSupport {
     private EstimationSupport() {
     }
 
-    /**
-     * Counts finished units of one batch and reports them; reports are serialised, so the
-     * listener sees a non-decreasing {@code done} even when blocks finish on several threads.
-     */
-    static final class Progress {
-        private final ProgressListener listener;
-        private final String task;
-        private final long total;
-        private long done;
-
-        Progress(ProgressListener listener, String task, long total) {
-            this.listener = listener;
-            this.task = task;
-            this.total = total;
-        }
-
-        synchronized void add(int units) {
-            done += units;
-            listener.progress(task, done, total);
-        }
-    }
-
     /** "unit 'id' (row i)" or "unit row i". */
     static String unit(String[] ids, int i) {
         return ids == null ? "unit row " + i : "unit '" + ids[i] + "' (row " + i + ")";

@@ -1,5 +1,6 @@
 package io.densa.core;
 
+import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.Seeds;
 import java.util.Arrays;
@@ -446,7 +447,7 @@ public final class PenalizedLikelihoodEstimator {
         double[] out = new double[n * k];
         EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
-        EstimationSupport.Progress done = new EstimationSupport.Progress(progress, PROGRESS_TASK, n);
+        ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty);
             eng.startMap = startMap;
@@ -466,7 +467,7 @@ public final class PenalizedLikelihoodEstimator {
                 Arrays.fill(eng.linear, 0.0);
                 diag[i] = fitUnit(eng, scale, id, i, out, null);
             }
-            done.add(i1 - blk * UNITS_PER_BLOCK);
+            done.advance(i1 - blk * UNITS_PER_BLOCK);
         });
         String[] idCopy = ids == null ? null : ids.clone();
         return new BatchEstimate(DensitySet.wrap(space, out, n, idCopy), Arrays.asList(diag));
@@ -554,7 +555,7 @@ public final class PenalizedLikelihoodEstimator {
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
         Basis basis = space.basis();
         int width = basis.supportWidth();
-        EstimationSupport.Progress done = new EstimationSupport.Progress(progress, PROGRESS_TASK, n);
+        ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(domain, rawPenalty);
             double[] scratch = new double[basis.scratchSize()];
@@ -578,7 +579,7 @@ public final class PenalizedLikelihoodEstimator {
                 eng.sampleWidth = sd.width;
                 diag[i] = fitUnit(eng, domainScale, id, i, out, sd);
             }
-            done.add(i1 - blk * UNITS_PER_BLOCK);
+            done.advance(i1 - blk * UNITS_PER_BLOCK);
         });
         String[] idCopy = ids == null ? null : ids.clone();
         return new BatchEstimate(DensitySet.wrap(space, out, n, idCopy), Arrays.asList(diag));

@@ -1,5 +1,6 @@
 package io.densa.core;
 
+import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.Kernels;
 import java.util.Arrays;
 import java.util.Objects;
@@ -227,7 +228,7 @@ public final class SmoothingSplineEstimator {
         double[] out = new double[n * k];
         EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
-        EstimationSupport.Progress done = new EstimationSupport.Progress(progress, PROGRESS_TASK, n);
+        ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty);
             double[] z = new double[k + 1];
@@ -260,7 +261,7 @@ public final class SmoothingSplineEstimator {
                         SmoothingCriterion.GCV, g[0], g[2], eng.loglik, totals[i], 0, cov,
                         EstimationSupport.trace(cov, k));
             }
-            done.add(i1 - blk * UNITS_PER_BLOCK);
+            done.advance(i1 - blk * UNITS_PER_BLOCK);
         });
         return new BatchEstimate(DensitySet.wrap(space, out, n, ids == null ? null : ids.clone()),
                 Arrays.asList(diag));

@@ -1,5 +1,6 @@
 package io.densa.spatial;
 
+import io.densa.core.internal.ProgressCounter;
 import io.densa.core.DensaException;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.Seeds;
@@ -185,7 +186,7 @@ final class AutocorrelationSupport {
         double[] sims = new double[permutations];
         int blocks = (permutations + PERMUTATION_BLOCK - 1) / PERMUTATION_BLOCK;
         boolean par = o.parallel() && Kernels.parallelWorth((long) permutations * workPerPermutation);
-        AutocorrelationProgress progress = new AutocorrelationProgress(o.progressListener(), what + " permutations",
+        ProgressCounter progress = new ProgressCounter(o.progressListener(), what + " permutations",
                 permutations);
         Kernels.forEachBlock(blocks, par, b -> {
             SplittableRandom rng = Seeds.stream(seed, b);

@@ -1,5 +1,6 @@
 package io.densa.spatial;
 
+import io.densa.core.internal.ProgressCounter;
 import io.densa.core.DensitySet;
 import io.densa.core.internal.Kernels;
 import java.util.Arrays;
@@ -126,7 +127,7 @@ public final class EmpiricalVariogram {
         long[][] pc = new long[tiles][];
         Pass pass = new Pass(n, k, y, yt, nsq, p, geo, max2, e, uniform, invWidth, ns, dcos, dsin, cosTol,
                 dirs != null);
-        AutocorrelationProgress progress = new AutocorrelationProgress(options.progressListener(), "variogram tiles",
+        ProgressCounter progress = new ProgressCounter(options.progressListener(), "variogram tiles",
                 tiles);
         Kernels.forEachBlock(tiles, options.parallel() && Kernels.parallelWorth((long) n * n * k / 2), t -> {
             TileSums acc = pass.tile(t * ITILE, Math.min(n, t * ITILE + ITILE));

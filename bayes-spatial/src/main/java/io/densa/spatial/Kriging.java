@@ -1,5 +1,6 @@
 package io.densa.spatial;
 
+import io.densa.core.internal.ProgressCounter;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
 import io.densa.core.Density;
@@ -558,7 +559,7 @@ public final class Kriging {
      */
     public CrossValidation crossValidate(ProgressListener listener) {
         Objects.requireNonNull(listener, "listener");
-        AutocorrelationProgress progress = new AutocorrelationProgress(listener, "cross-validation", n);
+        ProgressCounter progress = new ProgressCounter(listener, "cross-validation", n);
         if (options.neighbourhood().isGlobal()) {
             CrossValidation cv = leaveOneOutFast();
             progress.advance(n);
@@ -647,10 +648,10 @@ public final class Kriging {
      * neighbourhood) at its position. Locations are processed in parallel, each writing its own row.
      */
     public CrossValidation leaveOneOutBruteForce() {
-        return leaveOneOutBruteForce(new AutocorrelationProgress(ProgressListener.NONE, "cross-validation", n));
+        return leaveOneOutBruteForce(new ProgressCounter(ProgressListener.NONE, "cross-validation", n));
     }
 
-    private CrossValidation leaveOneOutBruteForce(AutocorrelationProgress progress) {
+    private CrossValidation leaveOneOutBruteForce(ProgressCounter progress) {
         if (n < p + 2) {
             throw new IllegalArgumentException("leave-one-out with " + p + " drift function(s) needs at least "
                     + (p + 2) + " locations, got " + n);

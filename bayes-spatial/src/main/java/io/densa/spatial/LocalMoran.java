@@ -1,5 +1,6 @@
 package io.densa.spatial;
 
+import io.densa.core.internal.ProgressCounter;
 import io.densa.core.BenjaminiHochberg;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.Seeds;
@@ -174,7 +175,7 @@ public final class LocalMoran {
         double[] condE = new double[n];
         int blocks = (n + UNIT_BLOCK - 1) / UNIT_BLOCK;
         boolean par = options.parallel() && Kernels.parallelWorth((long) r * (w.linkCount() + n));
-        AutocorrelationProgress progress = new AutocorrelationProgress(options.progressListener(),
+        ProgressCounter progress = new ProgressCounter(options.progressListener(),
                 "local Moran's I permutations", n);
         Kernels.forEachBlock(blocks, par, b -> {
             int[] pool = AutocorrelationSupport.identity(n);
