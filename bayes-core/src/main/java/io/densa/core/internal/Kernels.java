@@ -173,9 +173,9 @@ public final class Kernels {
      * Cross-product matrix Σ_i (a_i − c)(a_i − c)ᵀ (k × k, row-major, symmetric) of the rows of A
      * about a centre c (null for none), in fixed blocks of {@link #BLOCK} rows combined in order.
      * Within a block eight (centred) rows are folded into the matrix per pass, so each entry is
-     * loaded and stored once per eight rows; the innermost loop runs unit-stride over a full row
-     * of length k. Entry (j, l) and (l, j) sum the same products in the same order, so the result
-     * is exactly symmetric.
+     * loaded and stored once per eight rows; the innermost loop runs unit-stride over the upper
+     * part (l ≥ j) of a row, and the lower triangle is a copy of the upper, so the result is
+     * exactly symmetric.
      */
     public static double[] crossProduct(double[] a, int n, int k, double[] center, boolean parallel) {
         int blocks = (n + BLOCK - 1) / BLOCK;
@@ -197,7 +197,8 @@ public final class Kernels {
                     double x0 = r[j], x1 = r[k1 + j], x2 = r[k2 + j], x3 = r[k3 + j];
                     double x4 = r[k4 + j], x5 = r[k5 + j], x6 = r[k6 + j], x7 = r[k7 + j];
                     int so = j * k;
-                    for (int l = 0; l < k; l++) {
+                    // upper triangle only (l ≥ j): half the arithmetic; mirrored after the sum
+                    for (int l = j; l < k; l++) {
                         s[so + l] += x0 * r[l] + x1 * r[k1 + l] + x2 * r[k2 + l] + x3 * r[k3 + l]
                                 + x4 * r[k4 + l] + x5 * r[k5 + l] + x6 * r[k6 + l] + x7 * r[k7 + l];
                     }
@@ -209,6 +210,11 @@ public final class Kernels {
         for (double[] p : partial) {
             for (int j = 0; j < k * k; j++) {
                 sum[j] += p[j];
+            }
+        }
+        for (int j = 0; j < k; j++) {
+            for (int l = 0; l < j; l++) {
+                sum[j * k + l] = sum[l * k + j];
             }
         }
         return sum;
