@@ -4,6 +4,7 @@ import java.util.Arrays;
 import java.util.Objects;
 import java.util.function.DoubleUnaryOperator;
 import org.ejml.data.DMatrixRMaj;
+import org.ejml.dense.row.SingularOps_DDRM;
 import org.ejml.dense.row.factory.LinearSolverFactory_DDRM;
 import org.ejml.interfaces.linsol.LinearSolverDense;
 
@@ -562,10 +563,19 @@ public final class BayesSpace {
             }
             y.set(i, 0, values[i]);
         }
+        // rank check by the singular values (EJML's solver quality shrinks with the dimension and
+        // rejected well-posed designs): reciprocal condition number below 1e-10 is rank-deficient
+        double[] sv = SingularOps_DDRM.singularValues(design.copy());
+        double svMax = 0, svMin = Double.POSITIVE_INFINITY;
+        for (double v : sv) {
+            svMax = Math.max(svMax, v);
+            svMin = Math.min(svMin, v);
+        }
         LinearSolverDense<DMatrixRMaj> solver = LinearSolverFactory_DDRM.leastSquaresQrPivot(true, false);
-        if (!solver.setA(design) || solver.quality() < 1e-12) {
+        if (sv.length < dim + 1 || !(svMin > 1e-10 * svMax) || !solver.setA(design)) {
             throw new IllegalArgumentException("the " + xs.length + " points do not determine the " + dim
-                    + " coordinates of " + this + " (rank-deficient design; spread the points over the domain)");
+                    + " coordinates of " + this + " (rank-deficient design, reciprocal condition "
+                    + (svMax > 0 ? svMin / svMax : 0.0) + "; spread the points over the domain)");
         }
         DMatrixRMaj sol = new DMatrixRMaj(dim + 1, 1);
         solver.solve(y, sol);
