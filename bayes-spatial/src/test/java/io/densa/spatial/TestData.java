@@ -48,8 +48,17 @@ final class TestData {
             }
             c.add(i, i, 1e-10);
         }
+        return correlatedCoordinates(space, c, seed);
+    }
+
+    /**
+     * n densities whose K coordinates are independent zero-mean Gaussian vectors with the given
+     * n × n covariance, sampled as L z with L the Cholesky factor (seeded).
+     */
+    static DensitySet correlatedCoordinates(BayesSpace space, DMatrixRMaj c, long seed) {
+        int n = c.numRows, k = space.dimension();
         CholeskyDecomposition_F64<DMatrixRMaj> chol = DecompositionFactory_DDRM.chol(n, true);
-        if (!chol.decompose(c)) {
+        if (!chol.decompose(c.copy())) {
             throw new IllegalStateException("covariance not positive definite");
         }
         DMatrixRMaj l = chol.getT(null);

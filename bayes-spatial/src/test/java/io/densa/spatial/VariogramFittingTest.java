@@ -93,25 +93,7 @@ class VariogramFittingTest {
             }
             c.add(i, i, 1e-10);
         }
-        var chol = org.ejml.dense.row.factory.DecompositionFactory_DDRM.chol(n, true);
-        assertTrue(chol.decompose(c));
-        org.ejml.data.DMatrixRMaj l = chol.getT(null);
-        java.util.Random r = new java.util.Random(seed);
-        double[][] out = new double[n][k];
-        double[] z = new double[n];
-        for (int col = 0; col < k; col++) {
-            for (int i = 0; i < n; i++) {
-                z[i] = r.nextGaussian();
-            }
-            for (int i = 0; i < n; i++) {
-                double v = 0;
-                for (int j = 0; j <= i; j++) {
-                    v += l.get(i, j) * z[j];
-                }
-                out[i][col] = v;
-            }
-        }
-        return DensitySet.of(K40, out);
+        return TestData.correlatedCoordinates(K40, c, seed);
     }
 
     @Test
