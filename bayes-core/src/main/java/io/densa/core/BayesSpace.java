@@ -58,6 +58,8 @@ public final class BayesSpace {
     private final int dim;
 
     private final int pts;
+    /** (Λ − 1)/2, Λ the Lebesgue constant of the panel rule's nodes: see {@link #panelSums}. */
+    private final double overshoot;
     private final double[] glx;
     private final double[] glw;
     private final double[] panelLo;
@@ -100,6 +102,7 @@ public final class BayesSpace {
         }
         glx = GaussLegendre.nodes(pts);
         glw = GaussLegendre.weights(pts);
+        overshoot = (GaussLegendre.lebesgueConstant(pts) - 1) / 2;
         int panels = spans * perSpan;
         panelLo = new double[panels];
         panelHi = new double[panels];
@@ -288,12 +291,41 @@ public final class BayesSpace {
         return new BayesSpace(a, b, newReference, basis);
     }
 
+    /** Largest accepted |a|, |b|: moments such as the variance, of order (b − a)², stay representable. */
+    static final double MAX_DOMAIN_END = 1e150;
+    /** Smallest accepted width b − a, for the same reason at the small end. */
+    static final double MIN_DOMAIN_WIDTH = 1e-150;
+    /**
+     * Smallest accepted width relative to max(|a|, |b|): a point of the domain is then known to
+     * about 2e-8 of the width (double spacing 2.2e-16 relative), enough to place the quadrature
+     * nodes and knots distinctly.
+     */
+    static final double MIN_RELATIVE_WIDTH = 1e-8;
+
     private static void checkDomain(double a, double b) {
         if (!Double.isFinite(a) || !Double.isFinite(b)) {
             throw new IllegalArgumentException("domain ends must be finite, got [" + a + ", " + b + "]");
         }
         if (!(a < b)) {
             throw new IllegalArgumentException("domain must satisfy a < b, got [" + a + ", " + b + "]");
+        }
+        double mag = Math.max(Math.abs(a), Math.abs(b));
+        if (!(mag <= MAX_DOMAIN_END)) {
+            throw new IllegalArgumentException("domain [" + a + ", " + b + "] reaches " + mag + "; ends up to "
+                    + MAX_DOMAIN_END + " in magnitude are accepted (so that moments such as the variance stay"
+                    + " representable): express the data in larger units");
+        }
+        double width = b - a;
+        if (!(width >= MIN_DOMAIN_WIDTH)) {
+            throw new IllegalArgumentException("domain [" + a + ", " + b + "] has width " + width
+                    + "; widths from " + MIN_DOMAIN_WIDTH + " are accepted: express the data in smaller units");
+        }
+        if (!(width >= MIN_RELATIVE_WIDTH * mag)) {
+            throw new IllegalArgumentException("domain [" + a + ", " + b + "] is too narrow relative to its"
+                    + " magnitude: width " + width + " is " + (width / mag) + " of max(|a|, |b|) = " + mag
+                    + ", and at least " + MIN_RELATIVE_WIDTH + " of it is accepted (points inside are then"
+                    + " resolved to about 2e-8 of the width); subtract an offset from the data first, e.g. use ["
+                    + 0.0 + ", " + width + "] for values minus " + a);
         }
     }
 
@@ -411,7 +443,9 @@ public final class BayesSpace {
 
     void checkPoint(double x) {
         if (!(x >= a && x <= b)) {
-            throw new IllegalArgumentException("x = " + x + " is outside the domain [" + a + ", " + b + "]");
+            throw new IllegalArgumentException("x = " + x + " is outside the domain [" + a + ", " + b + "]: the clr"
+                    + " and the basis are defined on the domain only (pdf, cdf and tail probabilities accept"
+                    + " any x but NaN)");
         }
     }
 
@@ -693,6 +727,15 @@ public final class BayesSpace {
     private static final double NOISE = 8 * Math.ulp(1.0);
     private static final int ADAPT_DEPTH = 50;
     private static final int ADAPT_BUDGET = 100_000;
+    /** Depth limit of the peak search (a panel halved 60 times is below the double spacing). */
+    private static final int PEAK_DEPTH = 60;
+    /**
+     * An adaptive interval is accepted only if the clr varies by at most this across its rule's
+     * nodes (the 8-point rule's relative error for exp is then below about 1e-9, see ruleError) ...
+     */
+    private static final double ACCEPT_RANGE = 8.0;
+    /** ... or if it cannot exceed e^−100 of the shift anywhere (below every tail we resolve). */
+    private static final double LEAF_NEGLIGIBLE = -100.0;
 
     /** Computes the shape (normaliser, panel masses) of coordinates c[off..off+K). */
     Shape shape(double[] c, int off, double[] clrNodes) {
@@ -706,14 +749,18 @@ public final class BayesSpace {
         int np = panelLo.length;
         double[] sums = new double[np];
         double[][] leaves = new double[np][];
-        double shift = panelSums(clrNodes, 0, bc, offset, sums, leaves);
+        double[] peak = new double[1];
+        double shift = panelSums(clrNodes, 0, bc, offset, sums, leaves, peak);
         double total = 0;
         boolean anySharp = false;
         for (int j = 0; j < np; j++) {
             total += sums[j];
             anySharp |= leaves[j] != null;
         }
-        double logZ = shift + Math.log(total);
+        if (!(total > 0)) {
+            return pointMass(peak[0], bc, offset);
+        }
+        double logTotal = Math.log(total);
         double[] mass = new double[np];
         double[] cum = new double[np + 1];
         double[] tail = new double[np + 1];
@@ -753,23 +800,61 @@ public final class BayesSpace {
         }
         // the mean is not computed here: it costs a second exp pass and most callers (cdf, tail,
         // quantile, pdf) do not need it; see mean(Shape, double[])
-        return new Shape(logZ, mass, cum, tail, leafEdges, leafCum, leafTail, bc, offset);
+        return new Shape(shift, logTotal, mass, cum, tail, leafEdges, leafCum, leafTail, bc, offset, Double.NaN);
+    }
+
+    /**
+     * The shape of a density whose whole mass lies within the resolution of the adaptive rule
+     * (about 1e-17 of a panel) around x: every evaluated point but those next to x underflows.
+     * Probabilities, quantiles and moments treat it as a point mass at x; its pdf is not
+     * representable (see {@link #pdf(Shape, double, double[])}).
+     */
+    private Shape pointMass(double x, double[] bc, double offset) {
+        int np = panelLo.length;
+        int j = panelOf(x);
+        double[] mass = new double[np];
+        double[] cum = new double[np + 1];
+        double[] tail = new double[np + 1];
+        mass[j] = 1.0;
+        for (int i = 0; i < np; i++) {
+            cum[i + 1] = cum[i] + mass[i];
+        }
+        for (int i = np - 1; i >= 0; i--) {
+            tail[i] = tail[i + 1] + mass[i];
+        }
+        return new Shape(Double.NaN, Double.NaN, mass, cum, tail, null, null, null, bc, offset, x);
     }
 
     /**
      * Panel integrals exp(−shift) ∫_panel exp(clr) dP into sums, refining sharp panels adaptively
      * (their leaf intervals and masses go to leaves[j] as (lo, mass) pairs when leaves is not
-     * null); returns the shift (the largest clr value at the nodes).
+     * null); returns the shift and writes the point of the largest clr value found to peakAt[0]
+     * (when peakAt is not null).
+     *
+     * <p>The shift is the largest clr value at the nodes when no panel is sharp. Otherwise a sharp
+     * clr may peak between the nodes far above that value (at a domain end, a knot, or inside a
+     * panel), so that exp would overflow: the shift is then the clr's maximum over the sharp panels
+     * to within 1, found by {@link #peakSearch} (log-sum-exp with a guaranteed shift: no term of the
+     * sums exceeds e times its weight).
+     *
+     * @throws DensaException if the clr cannot be evaluated accurately enough (see
+     *                        {@link #requireResolvable})
      */
     private double panelSums(double[] clrNodes, int off, double[] bc, double offset, double[] sums,
-            double[][] leaves) {
+            double[][] leaves, double[] peakAt) {
+        requireResolvable(bc, offset);
         int q = nodes.length;
         double max = Double.NEGATIVE_INFINITY;
+        int maxAt = 0;
         for (int i = 0; i < q; i++) {
             double v = clrNodes[off + i];
             if (v > max) { // values are finite: plain comparisons are cheaper than Math.max
                 max = v;
+                maxAt = i;
             }
+        }
+        if (peakAt != null) {
+            peakAt[0] = nodes[maxAt];
         }
         int np = panelLo.length;
         double total = 0;
@@ -786,14 +871,45 @@ public final class BayesSpace {
         if (!any) {
             return max;
         }
-        Integrand g = new Integrand(bc, offset, max, 0, 0.0);
+        // A sharp clr may peak between the nodes (at a domain end, a knot, or inside a panel) far
+        // above their largest value, and exp would overflow: find its maximum over the sharp panels
+        // to within 1 first (branch and bound on the Lebesgue bound), and shift by that.
+        double[] scratch = new double[basis.scratchSize()];
+        double[] best = {max, nodes[maxAt]};
+        for (int j = 0; j < np; j++) {
+            double range = logRange(clrNodes, off, j);
+            if (range > SHARP_RANGE) {
+                double top = Double.NEGATIVE_INFINITY;
+                for (int i = j * pts; i < (j + 1) * pts; i++) {
+                    top = Math.max(top, clrNodes[off + i]);
+                }
+                if (top + overshoot * range > best[0] + 1) {
+                    peakSearch(panelLo[j], panelHi[j], bc, offset, scratch, best, PEAK_DEPTH);
+                }
+            }
+        }
+        double shift = best[0];
+        if (peakAt != null) {
+            peakAt[0] = best[1];
+        }
+        if (shift > max) {
+            double scale = Math.exp(max - shift);
+            total = 0;
+            for (int j = 0; j < np; j++) {
+                sums[j] *= scale;
+                total += sums[j];
+            }
+        }
+        Integrand g = new Integrand(bc, offset, shift, 0.0, 0, 0.0);
         for (int j = 0; j < np; j++) {
             double top = Double.NEGATIVE_INFINITY;
             for (int i = j * pts; i < (j + 1) * pts; i++) {
                 top = Math.max(top, clrNodes[off + i]);
             }
             double range = logRange(clrNodes, off, j);
-            if (!(range > SHARP_RANGE && top - max > NEGLIGIBLE)) {
+            // the clr is a polynomial of degree < pts on the panel: it exceeds its largest node
+            // value by at most (Λ − 1)·range/2 (Λ the Lebesgue constant of the nodes)
+            if (!(range > SHARP_RANGE && top + overshoot * range - shift > NEGLIGIBLE)) {
                 continue;
             }
             // estimated relative error of the panel's rule: matters on its own (tails keep relative
@@ -809,7 +925,43 @@ public final class BayesSpace {
                 leaves[j] = g.leaves();
             }
         }
-        return max;
+        return shift;
+    }
+
+    /**
+     * Raises best[0] to the largest clr value on [u, v] (inside one panel) to within 1, with its
+     * point in best[1]: the clr at the panel rule's nodes mapped to [u, v] gives its largest node
+     * value and, through the Lebesgue constant, a bound on the whole interval; an interval whose
+     * bound is within 1 of the best value found is done, others are halved (the half with the
+     * larger node values first, so that the best value rises early and prunes the other).
+     */
+    private void peakSearch(double u, double v, double[] bc, double offset, double[] scratch, double[] best,
+            int depth) {
+        double h = 0.5 * (v - u), c = 0.5 * (u + v);
+        double lo = Double.POSITIVE_INFINITY, hi = Double.NEGATIVE_INFINITY, at = c;
+        for (int i = 0; i < pts; i++) {
+            double x = c + h * glx[i];
+            double y = basis.combine(x, bc, scratch) - offset;
+            lo = Math.min(lo, y);
+            if (y > hi) {
+                hi = y;
+                at = x;
+            }
+        }
+        if (hi > best[0]) {
+            best[0] = hi;
+            best[1] = at;
+        }
+        if (depth == 0 || !(hi + overshoot * (hi - lo) > best[0] + 1) || !(v - u > Math.ulp(c))) {
+            return;
+        }
+        if (at < c) {
+            peakSearch(u, c, bc, offset, scratch, best, depth - 1);
+            peakSearch(c, v, bc, offset, scratch, best, depth - 1);
+        } else {
+            peakSearch(c, v, bc, offset, scratch, best, depth - 1);
+            peakSearch(u, c, bc, offset, scratch, best, depth - 1);
+        }
     }
 
     /**
@@ -852,18 +1004,61 @@ public final class BayesSpace {
 
     /**
      * log ∫ exp(clr) dP from clr values at the nodes (and the coordinates, for sharp panels), by
-     * log-sum-exp.
+     * log-sum-exp, as three numbers written to out[outOff..outOff+3): the shift (largest clr value),
+     * log ∫ exp(clr − shift) dP (NaN for a density concentrated below the double resolution), and
+     * the point of the largest clr value.
      */
-    double logNormaliser(double[] clrNodes, int off, double[] c, int coff) {
+    void logNormaliser(double[] clrNodes, int off, double[] c, int coff, double[] out, int outOff) {
         double[] bc = new double[dim];
         double offset = rawCoefficients(c, coff, bc);
         double[] sums = new double[panelLo.length];
-        double shift = panelSums(clrNodes, off, bc, offset, sums, null);
+        double[] peak = new double[1];
+        double shift = panelSums(clrNodes, off, bc, offset, sums, null, peak);
         double total = 0;
         for (double s : sums) {
             total += s;
         }
-        return shift + Math.log(total);
+        out[outOff] = shift;
+        // NaN marks a density concentrated below the double resolution (see concentrated)
+        out[outOff + 1] = total > 0 ? Math.log(total) : Double.NaN;
+        out[outOff + 2] = peak[0];
+    }
+
+    /**
+     * Largest rounding error of a clr value accepted for pdf, cdf, quantile and moment
+     * evaluation (the pdf is then known to about 1 %).
+     */
+    static final double MAX_CLR_ERROR = 0.01;
+
+    /**
+     * Requires that the clr of raw coefficients bc (and offset) can be evaluated to within
+     * {@link #MAX_CLR_ERROR}: its rounding error is at most 8ε (w max_j |b_j| + |offset|), w the
+     * number of raw functions that overlap at a point (B-splines and steps are at most 1 and sum
+     * to at most 1, Legendre polynomials are at most 1 in absolute value on the domain).
+     *
+     * @throws DensaException if it cannot
+     */
+    private void requireResolvable(double[] bc, double offset) {
+        double big = 0;
+        for (int j = 0; j < dim; j++) {
+            big = Math.max(big, Math.abs(bc[j]));
+        }
+        double error = NOISE * (localWidth * big + Math.abs(offset));
+        if (!(error <= MAX_CLR_ERROR)) {
+            throw new DensaException("the density's clr reaches about " + String.format("%.3g", localWidth * big
+                    + Math.abs(offset)) + " in magnitude, so its rounding error in double precision is about "
+                    + String.format("%.3g", error) + ", above the " + MAX_CLR_ERROR + " that pdf, cdf, quantile and"
+                    + " moment evaluation accept: coordinates about " + String.format("%.3g", error / MAX_CLR_ERROR)
+                    + " times smaller would be evaluated (algebra, norms and distances work at any size)", null);
+        }
+    }
+
+    /** The failure of pdf-type evaluations for a density concentrated below the double resolution. */
+    static DensaException concentrated(double x) {
+        return new DensaException("the density is concentrated within the double resolution at x = " + x
+                + " (its clr falls by more than 745 within about 1e-17 of the domain there): its pdf is not"
+                + " representable; cdf, tail probabilities, quantiles and moments treat it as a point mass at x"
+                + " (coordinates of this size are beyond what double precision resolves)", null);
     }
 
     /**
@@ -872,7 +1067,7 @@ public final class BayesSpace {
      */
     double moment(Shape sh, double[] clrNodes, int power, double center) {
         int np = panelLo.length;
-        Integrand g = sh.leafEdges == null ? null : new Integrand(sh.rawCoef, sh.offset, sh.logZ, power, center);
+        Integrand g = sh.leafEdges == null ? null : new Integrand(sh.rawCoef, sh.offset, sh.shift, sh.logTotal, power, center);
         double s = 0;
         for (int j = 0; j < np; j++) {
             double[] e = sh.leafEdges == null ? null : sh.leafEdges[j];
@@ -884,7 +1079,7 @@ public final class BayesSpace {
             }
             for (int i = j * pts; i < (j + 1) * pts; i++) {
                 double d = nodes[i] - center;
-                double f = weights[i] * Math.exp(clrNodes[i] - sh.logZ);
+                double f = weights[i] * Math.exp(sh.logRelative(clrNodes[i]));
                 s += power == 1 ? f * d : f * d * d;
             }
         }
@@ -896,6 +1091,8 @@ public final class BayesSpace {
         private final double[] bc;
         private final double offset;
         private final double shift;
+        /** Subtracted after the shift: the integrand is ref · exp((clr − shift) − logScale) · (y − center)^power. */
+        private final double logScale;
         private final int power;
         private final double center;
         private final double[] scratch;
@@ -903,10 +1100,11 @@ public final class BayesSpace {
         private double[] leafBuf;
         private int leafCount;
 
-        Integrand(double[] bc, double offset, double shift, int power, double center) {
+        Integrand(double[] bc, double offset, double shift, double logScale, int power, double center) {
             this.bc = bc;
             this.offset = offset;
             this.shift = shift;
+            this.logScale = logScale;
             this.power = power;
             this.center = center;
             this.scratch = new double[basis.scratchSize()];
@@ -914,11 +1112,17 @@ public final class BayesSpace {
 
         /** Largest |clr term| seen by the last {@link #rule} call (for the noise level). */
         private double terms;
+        /** Smallest and largest clr value at the nodes of the last {@link #rule} call. */
+        private double ruleLo;
+        private double ruleHi;
 
         double value(double y) {
             double comb = basis.combine(y, bc, scratch);
             terms = Math.max(terms, Math.abs(comb) + Math.abs(offset) + Math.abs(shift));
-            double f = referenceDensity(y) * Math.exp(comb - offset - shift);
+            double clr = comb - offset;
+            ruleLo = Math.min(ruleLo, clr);
+            ruleHi = Math.max(ruleHi, clr);
+            double f = referenceDensity(y) * Math.exp((clr - shift) - logScale);
             double d = y - center;
             return power == 0 ? f : power == 1 ? f * d : f * d * d;
         }
@@ -926,12 +1130,26 @@ public final class BayesSpace {
         /** The panel's Gauss–Legendre rule mapped to [u, v]. */
         double rule(double u, double v) {
             terms = 0;
+            ruleLo = Double.POSITIVE_INFINITY;
+            ruleHi = Double.NEGATIVE_INFINITY;
             double h = 0.5 * (v - u), c = 0.5 * (u + v);
             double s = 0;
             for (int i = 0; i < pts; i++) {
                 s += glw[i] * value(c + h * glx[i]);
             }
             return h * s;
+        }
+
+        /**
+         * Whether the last {@link #rule} can be trusted on its own: the clr varied little across its
+         * nodes (or no more than its rounding noise), or even the largest value the clr can take
+         * between them (the Lebesgue bound) is negligible next to the shift. Without this, an
+         * interval whose nodes all underflow would be accepted although a peak lies between them.
+         */
+        private boolean ruleTrusted() {
+            double range = ruleHi - ruleLo;
+            return range <= ACCEPT_RANGE + NOISE * terms
+                    || ruleHi + overshoot * range - shift < LEAF_NEGLIGIBLE;
         }
 
         /** Starts a new panel: resets the budget and, if asked, the leaf list. */
@@ -968,11 +1186,13 @@ public final class BayesSpace {
             double m = 0.5 * (u + v);
             double l = rule(u, m);
             double t = terms;
+            boolean trusted = ruleTrusted();
             double r = rule(m, v);
+            trusted &= ruleTrusted();
             budget -= 2;
             double both = l + r;
             double rel = Math.max(ADAPT_REL, NOISE * Math.max(t, terms));
-            if (depth == 0 || budget <= 0 || Math.abs(both - whole) <= rel * Math.abs(both)) {
+            if (depth == 0 || budget <= 0 || trusted && Math.abs(both - whole) <= rel * Math.abs(both)) {
                 leaf(u, l);
                 leaf(m, r);
                 return both;
@@ -997,15 +1217,60 @@ public final class BayesSpace {
         return basis.combine(x, sh.rawCoef, scratch) - sh.offset;
     }
 
-    /** Lebesgue pdf at x for a shape. */
+    /**
+     * Lebesgue pdf at x for a shape: 0 outside the domain.
+     *
+     * @throws IllegalArgumentException if x is NaN
+     * @throws DensaException           if the value exceeds the largest double, or the shape is a
+     *                                  point mass below the double resolution
+     */
     double pdf(Shape sh, double x, double[] scratch) {
         if (!(x >= a && x <= b)) {
             if (Double.isNaN(x)) {
-                throw new IllegalArgumentException("x is NaN");
+                throw new IllegalArgumentException("x is NaN; pdf accepts any other x (0 outside the domain ["
+                        + a + ", " + b + "])");
             }
             return 0.0;
         }
-        return referenceDensity(x) * Math.exp(clrRaw(sh, x, scratch) - sh.logZ);
+        if (sh.isPointMass()) {
+            throw concentrated(sh.atom);
+        }
+        double clr = clrRaw(sh, x, scratch);
+        double v = referenceDensity(x) * Math.exp(sh.logRelative(clr));
+        if (v == Double.POSITIVE_INFINITY) {
+            double log = Math.log(referenceDensity(x)) + sh.logRelative(clr);
+            if (!(log < MAX_LOG)) {
+                throw new DensaException("the pdf at x = " + x + " is e^" + log
+                        + ", beyond the largest double; logPdf(x) gives its logarithm", null);
+            }
+            v = Math.exp(log);
+        }
+        return v;
+    }
+
+    /** log of the largest double. */
+    private static final double MAX_LOG = Math.log(Double.MAX_VALUE);
+
+    /**
+     * Natural log of the Lebesgue pdf at x in [a, b].
+     *
+     * @throws IllegalArgumentException if x is outside the domain or NaN (the log pdf is −∞ there)
+     * @throws DensaException           if the shape is a point mass below the double resolution
+     */
+    double logPdf(Shape sh, double x, double[] scratch) {
+        if (!(x >= a && x <= b)) {
+            throw new IllegalArgumentException("logPdf accepts x in the domain [" + a + ", " + b + "] only (the pdf is 0"
+                    + " outside it, its log −∞), got x = " + x);
+        }
+        if (sh.isPointMass()) {
+            throw concentrated(sh.atom);
+        }
+        return Math.log(referenceDensity(x)) + sh.logRelative(clrRaw(sh, x, scratch));
+    }
+
+    /** The pdf inside the domain, unchecked (may overflow to +∞; used as a Newton slope). */
+    private double density(Shape sh, double x, double[] scratch) {
+        return referenceDensity(x) * Math.exp(sh.logRelative(clrRaw(sh, x, scratch)));
     }
 
     int panelOf(double x) {
@@ -1030,7 +1295,7 @@ public final class BayesSpace {
         double s = 0;
         for (int i = 0; i < pts; i++) {
             double y = c + h * glx[i];
-            s += glw[i] * referenceDensity(y) * Math.exp(clrRaw(sh, y, scratch) - sh.logZ);
+            s += glw[i] * referenceDensity(y) * Math.exp(sh.logRelative(clrRaw(sh, y, scratch)));
         }
         return h * s;
     }
@@ -1075,16 +1340,22 @@ public final class BayesSpace {
         return Math.min(sh.mass[j], v);
     }
 
-    /** P(X ≤ x): panel masses to the left plus the partial panel; non-decreasing in x. */
+    /**
+     * P(X ≤ x): panel masses to the left plus the partial panel; non-decreasing in x, 0 for
+     * x ≤ a and 1 for x ≥ b.
+     *
+     * @throws IllegalArgumentException if x is NaN
+     */
     double cdf(Shape sh, double x, double[] scratch) {
-        if (Double.isNaN(x)) {
-            throw new IllegalArgumentException("x is NaN");
-        }
+        checkCdfPoint(x);
         if (x <= a) {
             return 0.0;
         }
         if (x >= b) {
             return 1.0;
+        }
+        if (sh.isPointMass()) {
+            return x < sh.atom ? 0.0 : 1.0;
         }
         int j = panelOf(x);
         double v = sh.cum[j] + partial(sh, j, x, scratch);
@@ -1096,14 +1367,15 @@ public final class BayesSpace {
      * that small upper tails keep their relative accuracy.
      */
     double tail(Shape sh, double t, double[] scratch) {
-        if (Double.isNaN(t)) {
-            throw new IllegalArgumentException("threshold is NaN");
-        }
+        checkThreshold(t);
         if (t <= a) {
             return 1.0;
         }
         if (t >= b) {
             return 0.0;
+        }
+        if (sh.isPointMass()) {
+            return t < sh.atom ? 1.0 : 0.0;
         }
         int j = panelOf(t);
         double v = sh.tail[j + 1] + upperPartial(sh, j, t, scratch);
@@ -1116,8 +1388,15 @@ public final class BayesSpace {
      * accuracy; within the panel, safeguarded Newton steps (bisection fallback) down to the double spacing at x.
      */
     double quantile(Shape sh, double p, double[] scratch) {
-        if (!(p > 0 && p < 1)) {
-            throw new IllegalArgumentException("probability must be in (0, 1), got " + p);
+        checkProbability(p);
+        if (p == 0) {
+            return a;
+        }
+        if (p == 1) {
+            return b;
+        }
+        if (sh.isPointMass()) {
+            return sh.atom;
         }
         int np = panelLo.length;
         boolean upper = p > 0.5;
@@ -1164,8 +1443,8 @@ public final class BayesSpace {
             } else {
                 left = x;
             }
-            double d = pdf(sh, x, scratch);
-            double nx = d > 0 ? x - g / d : Double.NaN;
+            double d = density(sh, x, scratch);
+            double nx = d > 0 && d < Double.POSITIVE_INFINITY ? x - g / d : Double.NaN;
             if (!(nx > left && nx < right)) {
                 nx = 0.5 * (left + right);
             }
@@ -1178,14 +1457,48 @@ public final class BayesSpace {
         return Math.min(b, Math.max(a, x));
     }
 
-    /** Mean ∫ x f(x) dx of a shape, from its clr values at the nodes. */
+    /** Mean ∫ x f(x) dx of a shape, from its clr values at the nodes (within [a, b]). */
     double mean(Shape sh, double[] clrNodes) {
-        return moment(sh, clrNodes, 1, 0.0);
+        if (sh.isPointMass()) {
+            return sh.atom;
+        }
+        return Math.min(b, Math.max(a, moment(sh, clrNodes, 1, 0.0)));
     }
 
-    /** Variance ∫ (x − mean)² f(x) dx. */
+    /** Variance ∫ (x − mean)² f(x) dx (≥ 0). */
     double variance(Shape sh, double[] clrNodes) {
-        return moment(sh, clrNodes, 2, mean(sh, clrNodes));
+        if (sh.isPointMass()) {
+            return 0.0;
+        }
+        return Math.max(0.0, moment(sh, clrNodes, 2, mean(sh, clrNodes)));
+    }
+
+    /** Requires a cdf evaluation point that is not NaN (any other x is accepted). */
+    void checkCdfPoint(double x) {
+        if (Double.isNaN(x)) {
+            throw new IllegalArgumentException("x is NaN; cdf accepts any other x, including points outside the"
+                    + " domain [" + a + ", " + b + "] (0 below it, 1 above)");
+        }
+    }
+
+    /** Requires a tail-probability threshold that is not NaN (any other t is accepted). */
+    void checkThreshold(double t) {
+        if (Double.isNaN(t)) {
+            throw new IllegalArgumentException("threshold is NaN; tail probabilities accept any other threshold,"
+                    + " including points outside the domain [" + a + ", " + b + "] (1 below it, 0 above)");
+        }
+    }
+
+    /**
+     * Requires a probability in [0, 1] (quantile(0) = a, quantile(1) = b).
+     *
+     * @throws IllegalArgumentException otherwise, NaN included
+     */
+    void checkProbability(double p) {
+        if (!(p >= 0 && p <= 1)) {
+            throw new IllegalArgumentException("probability must be in [0, 1] (0 gives the domain's lower end " + a
+                    + ", 1 its upper end " + b + "), got " + p);
+        }
     }
 
     /**
@@ -1266,7 +1579,9 @@ public final class BayesSpace {
                     s -= l[i * k + m] * l[j * k + m];
                 }
                 if (i == j) {
-                    if (!(s > 1e-14 * Math.max(1, Math.abs(g[i * k + i])))) {
+                    // relative to the function's own squared norm: a narrow domain scales every Gram
+                    // entry down, which is not degeneracy
+                    if (!(s > 1e-14 * Math.abs(g[i * k + i]))) {
                         throw new IllegalArgumentException("basis " + basis
                                 + " is numerically degenerate on this reference (Gram pivot " + s + " at function "
                                 + i + "); use fewer knots or a lower degree");

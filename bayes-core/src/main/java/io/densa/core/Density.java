@@ -12,6 +12,29 @@ import java.util.Objects;
  * c_f · c_g. Evaluations (pdf, cdf, quantile, moments) use the space's quadrature; see
  * {@link BayesSpace}.
  *
+ * <h2>Evaluation rule (the same for {@link DensitySet})</h2>
+ * <ul>
+ * <li><b>Evaluation points may lie anywhere.</b> {@link #pdf}, {@link #cdf} and
+ * {@link #tailProbability} accept every x that is not NaN, also outside the domain [a, b] and
+ * ±∞: the pdf is 0 there, the cdf 0 at or below a and 1 at or above b, the tail probability 1
+ * below a and 0 at or above b. {@link #clr} and {@link #logPdf} exist on [a, b] only (the clr
+ * is not defined outside, and the log pdf would be −∞) and throw
+ * {@link IllegalArgumentException} for x outside [a, b].</li>
+ * <li><b>Probabilities must be probabilities.</b> {@link #quantile} accepts p in [0, 1]
+ * (quantile(0) = a, quantile(1) = b) and throws {@link IllegalArgumentException} for any other p,
+ * NaN included.</li>
+ * <li><b>No result is ±∞ or NaN.</b> A value beyond the double range (the squared norm or an
+ * inner product of coordinates near 1e154 and above, a norm or distance above 1.8e308, a pdf
+ * value above the largest double) throws {@link IllegalArgumentException} or
+ * {@link DensaException} saying so; {@link #norm()} and {@link #distance} scale their sums, so
+ * they work up to that limit.</li>
+ * <li><b>Coordinates evaluation can resolve.</b> pdf, cdf, quantile and moments need the clr
+ * to be computable to within 0.01 in double precision; coordinates so large that its rounding
+ * error exceeds that (on a unit domain, about 1e12 and above) throw {@link DensaException},
+ * which says how much smaller they would have to be. Below that limit sharply peaked densities are
+ * integrated adaptively (see {@link BayesSpace}).</li>
+ * </ul>
+ *
  * <p>Immutable and thread-safe (derived quantities are cached lazily, idempotently). Arrays
  * passed in are copied and arrays returned are fresh. {@link #equals} is exact (same space and
  * bit-identical coordinates); use {@link #equalsWithin} for a tolerance comparison. Mixing
@@ -29,7 +52,9 @@ public final class Density {
         if (check) {
             for (int i = 0; i < c.length; i++) {
                 if (!Double.isFinite(c[i])) {
-                    throw new IllegalArgumentException("coordinate " + i + " is not finite: " + c[i]);
+                    throw new IllegalArgumentException("coordinate " + i + " of the result is " + c[i]
+                            + ": the operation leaves the double range (coordinates up to " + Double.MAX_VALUE
+                            + " in magnitude are representable)");
                 }
             }
         }
@@ -132,44 +157,130 @@ public final class Density {
         return new Density(space, r, true);
     }
 
-    /** B2 inner product ⟨f, g⟩_B = ∫ clr f clr g dP. */
+    /**
+     * B2 inner product ⟨f, g⟩_B = ∫ clr f clr g dP.
+     *
+     * @throws IllegalArgumentException if the value is beyond the double range (coordinates near
+     *                                  1e154 and above)
+     */
     public double inner(Density g) {
         double[] gc = other(g).c;
         double s = 0;
         for (int i = 0; i < c.length; i++) {
             s += c[i] * gc[i];
         }
-        return s;
-    }
-
-    /** Squared B2 norm. */
-    public double normSq() {
-        double s = 0;
-        for (double v : c) {
-            s += v * v;
+        if (!Double.isFinite(s)) {
+            throw outOfRange("inner product", s);
         }
         return s;
     }
 
-    /** B2 norm. */
-    public double norm() {
-        return Math.sqrt(normSq());
+    /**
+     * Squared B2 norm.
+     *
+     * @throws IllegalArgumentException if it is beyond the double range ({@link #norm()} is not)
+     */
+    public double normSq() {
+        double s = sumSq(c, null);
+        if (s == Double.POSITIVE_INFINITY) {
+            throw outOfRange("squared norm", s);
+        }
+        return s;
     }
 
-    /** Squared B2 distance ‖f ⊖ g‖²_B. */
+    /**
+     * B2 norm: a plain sum of squares, redone with scaling when it overflows or underflows (as LAPACK's dnrm2 scales; Blue (1978), A portable Fortran
+     * program to find the Euclidean norm of a vector, ACM TOMS 4(1)).
+     *
+     * @throws IllegalArgumentException only if the norm exceeds the largest double (coordinates
+     *                                  near 1.8e308)
+     */
+    public double norm() {
+        double r = scaledNorm(c, null);
+        if (r == Double.POSITIVE_INFINITY) {
+            throw outOfRange("norm", r);
+        }
+        return r;
+    }
+
+    /**
+     * Squared B2 distance ‖f ⊖ g‖²_B.
+     *
+     * @throws IllegalArgumentException if it is beyond the double range ({@link #distance} is not,
+     *                                  unless the distance itself is)
+     */
     public double distanceSq(Density g) {
-        double[] gc = other(g).c;
+        double s = sumSq(c, other(g).c);
+        if (s == Double.POSITIVE_INFINITY) {
+            throw outOfRange("squared distance", s);
+        }
+        return s;
+    }
+
+    /**
+     * B2 distance ‖f ⊖ g‖_B, scaled like {@link #norm()}.
+     *
+     * @throws IllegalArgumentException only if the distance exceeds the largest double (coordinates
+     *                                  of opposite sign near 1e308)
+     */
+    public double distance(Density g) {
+        double d = scaledNorm(c, other(g).c);
+        if (d == Double.POSITIVE_INFINITY) {
+            throw outOfRange("distance", d);
+        }
+        return d;
+    }
+
+    /** Σ (x_i − y_i)² (y null: Σ x_i²), unscaled. */
+    private static double sumSq(double[] x, double[] y) {
         double s = 0;
-        for (int i = 0; i < c.length; i++) {
-            double d = c[i] - gc[i];
+        for (int i = 0; i < x.length; i++) {
+            double d = y == null ? x[i] : x[i] - y[i];
             s += d * d;
         }
         return s;
     }
 
-    /** B2 distance ‖f ⊖ g‖_B. */
-    public double distance(Density g) {
-        return Math.sqrt(distanceSq(g));
+    /** Sums of squares below this may have lost terms to underflow. */
+    private static final double SMALL_SUM = 0x1p-900;
+
+    /**
+     * ‖x − y‖ (y null: ‖x‖): the plain sum of squares when it lies in [2^−900, ∞), else m times
+     * the root of the sum of squares of d_i/m, m the largest |d_i|, d_i = x_i − y_i (formed from
+     * halves after an overflow, so that the difference itself cannot overflow). +∞ only if the
+     * result exceeds the largest double.
+     */
+    static double scaledNorm(double[] x, double[] y) {
+        double s = sumSq(x, y);
+        if (s >= SMALL_SUM && s < Double.POSITIVE_INFINITY) {
+            return Math.sqrt(s);
+        }
+        boolean halve = y != null && s == Double.POSITIVE_INFINITY;
+        double m = 0;
+        for (int i = 0; i < x.length; i++) {
+            m = Math.max(m, Math.abs(difference(x, y, i, halve)));
+        }
+        if (m == 0) {
+            return 0.0;
+        }
+        double t = 0;
+        for (int i = 0; i < x.length; i++) {
+            double d = difference(x, y, i, halve) / m;
+            t += d * d;
+        }
+        double r = m * Math.sqrt(t);
+        return halve ? 2 * r : r;
+    }
+
+    private static double difference(double[] x, double[] y, int i, boolean halve) {
+        return y == null ? x[i] : halve ? 0.5 * x[i] - 0.5 * y[i] : x[i] - y[i];
+    }
+
+    private static IllegalArgumentException outOfRange(String what, double value) {
+        return new IllegalArgumentException("the " + what + " is " + value + ": beyond the double range"
+                + " (largest " + Double.MAX_VALUE + ") for these coordinates; values up to about 1e154 in"
+                + " magnitude are accepted here (norm() and distance() scale: they accept coordinates up to"
+                + " about 1e307)");
     }
 
     // ------------------------------------------------------------- evaluation
@@ -177,14 +288,20 @@ public final class Density {
     /**
      * The clr function at x.
      *
-     * @throws IllegalArgumentException if x is outside the domain or NaN
+     * @throws IllegalArgumentException if x is outside the domain [a, b] or NaN (the clr is
+     *                                  defined on the domain only)
      */
     public double clr(double x) {
         space.checkPoint(x);
         return clrAt(raw(), x, new double[space.scratchSize()]);
     }
 
-    /** The clr function at many points (fresh array). */
+    /**
+     * The clr function at many points (fresh array).
+     *
+     * @param xs points in [a, b] (not modified)
+     * @throws IllegalArgumentException naming the first point outside the domain
+     */
     public double[] clr(double[] xs) {
         double[] r = raw();
         double[] scratch = new double[space.scratchSize()];
@@ -199,20 +316,31 @@ public final class Density {
     /**
      * Natural log of the Lebesgue pdf at x.
      *
-     * @throws IllegalArgumentException if x is outside the domain or NaN
+     * @throws IllegalArgumentException if x is outside the domain [a, b] or NaN (the log pdf is −∞
+     *                                  outside the domain)
+     * @throws DensaException           if the coordinates are too large to evaluate (see the class
+     *                                  description)
      */
     public double logPdf(double x) {
-        space.checkPoint(x);
-        Shape s = shape();
-        return Math.log(space.referenceDensity(x)) + space.clrRaw(s, x, new double[space.scratchSize()]) - s.logZ;
+        return space.logPdf(shape(), x, new double[space.scratchSize()]);
     }
 
-    /** Lebesgue pdf at x (0 outside the domain). */
+    /**
+     * Lebesgue pdf at x: 0 outside the domain.
+     *
+     * @throws IllegalArgumentException if x is NaN
+     * @throws DensaException           if the value exceeds the largest double ({@link #logPdf} gives
+     *                                  its logarithm) or the coordinates are too large to evaluate
+     */
     public double pdf(double x) {
         return space.pdf(shape(), x, new double[space.scratchSize()]);
     }
 
-    /** Lebesgue pdf at many points (fresh array). */
+    /**
+     * Lebesgue pdf at many points (fresh array), each as {@link #pdf(double)}.
+     *
+     * @param xs points, anywhere but NaN (not modified)
+     */
     public double[] pdf(double[] xs) {
         Shape s = shape();
         double[] scratch = new double[space.scratchSize()];
@@ -224,9 +352,11 @@ public final class Density {
     }
 
     /**
-     * Cumulative distribution function P(X ≤ x): 0 for x ≤ a, 1 for x ≥ b, non-decreasing.
+     * Cumulative distribution function P(X ≤ x): 0 for x ≤ a, 1 for x ≥ b (x may be ±∞),
+     * non-decreasing.
      *
      * @throws IllegalArgumentException if x is NaN
+     * @throws DensaException           if the coordinates are too large to evaluate
      */
     public double cdf(double x) {
         return space.cdf(shape(), x, new double[space.scratchSize()]);
@@ -236,14 +366,20 @@ public final class Density {
      * Quantile: the x in [a, b] with cdf(x) = p, to within a couple of double spacings of x (so |cdf(x) − p| is about
      * pdf(x)·ulp(x) at worst); the upper half
      * p &gt; 1/2 is solved on the upper tail 1 − p so that both tails keep relative accuracy.
+     * quantile(0) = a and quantile(1) = b.
      *
-     * @throws IllegalArgumentException if p is not in (0, 1)
+     * @throws IllegalArgumentException if p is not in [0, 1] (NaN included)
+     * @throws DensaException           if the coordinates are too large to evaluate
      */
     public double quantile(double p) {
         return space.quantile(shape(), p, new double[space.scratchSize()]);
     }
 
-    /** Mean E[X]. */
+    /**
+     * Mean E[X], in [a, b].
+     *
+     * @throws DensaException if the coordinates are too large to evaluate
+     */
     public double mean() {
         Shape s = shape();
         double[] nodesClr = new double[space.nodeCount()];
@@ -251,7 +387,11 @@ public final class Density {
         return space.mean(s, nodesClr);
     }
 
-    /** Variance Var[X]. */
+    /**
+     * Variance Var[X] (≥ 0).
+     *
+     * @throws DensaException if the coordinates are too large to evaluate
+     */
     public double variance() {
         Shape s = shape();
         double[] nodesClr = new double[space.nodeCount()];
@@ -261,9 +401,10 @@ public final class Density {
 
     /**
      * Upper tail probability P(X &gt; t) = 1 − cdf(t), computed from the right so that small tails
-     * keep their relative accuracy.
+     * keep their relative accuracy: 1 for t below the domain, 0 for t ≥ b (t may be ±∞).
      *
      * @throws IllegalArgumentException if t is NaN
+     * @throws DensaException           if the coordinates are too large to evaluate
      */
     public double tailProbability(double t) {
         return space.tail(shape(), t, new double[space.scratchSize()]);
@@ -280,7 +421,7 @@ public final class Density {
         if (!(tolerance >= 0)) {
             throw new IllegalArgumentException("tolerance must be >= 0, got " + tolerance);
         }
-        return other != null && space.equals(other.space) && distance(other) <= tolerance;
+        return other != null && space.equals(other.space) && scaledNorm(c, other.c) <= tolerance;
     }
 
     /** Exact equality: equal spaces and bit-identical coordinates. */

@@ -18,6 +18,15 @@ import org.ejml.data.DMatrixRMaj;
  * Large batches run on the common ForkJoin pool in fixed row blocks; results are bit-identical to
  * the serial computation.
  *
+ * <p>Evaluation follows the rule stated on {@link Density}: evaluation points (cdf, tail
+ * probabilities, pdfs on a grid) may lie anywhere but NaN and give 0 or 1 outside the domain,
+ * probabilities (quantiles) must be in [0, 1], no result is ±∞ or NaN (a value beyond the double
+ * range throws, saying so), and a row whose coordinates are too large to evaluate throws a
+ * {@link DensaException} naming the row. Sums over rows (mean, centring, cross products) detect
+ * overflow with one comparison against the largest |coordinate| and only then take a slower,
+ * scaled or checked path. Row and column indices outside the set throw
+ * {@link IllegalArgumentException}.
+ *
  * <p>Immutable and thread-safe; arrays in and out are copies.
  */
 public final class DensitySet {
@@ -29,6 +38,8 @@ public final class DensitySet {
     private final double[] data;
     private final String[] ids; // null when absent
     private volatile double[] logZ;
+    /** Largest |coordinate| (NaN until computed): decides whether sums can overflow. */
+    private volatile double maxAbs = Double.NaN;
 
     private DensitySet(BayesSpace space, int n, double[] data, String[] ids) {
         this.space = space;
@@ -52,9 +63,9 @@ public final class DensitySet {
     /**
      * A set from a coordinate array with ids.
      *
-     * @param ids n distinct-or-not labels, or null (copied)
-     * @throws IllegalArgumentException on ragged rows, non-finite values (naming row and column) or
-     *                                  an id array of the wrong length
+     * @param ids n distinct-or-not non-null labels, or null for none (copied)
+     * @throws IllegalArgumentException on ragged rows, non-finite values (naming row and column), an
+     *                                  id array of the wrong length or a null id (naming the row)
      */
     public static DensitySet of(BayesSpace space, double[][] coordinates, String[] ids) {
         Objects.requireNonNull(space, "space");
@@ -146,6 +157,12 @@ public final class DensitySet {
                 throw new IllegalArgumentException("ids has " + ids.length + " entries for " + n + " densities");
             }
             idCopy = ids.clone();
+            for (int i = 0; i < n; i++) {
+                if (idCopy[i] == null) {
+                    throw new IllegalArgumentException("id of row " + i + " is null; give every row a (not"
+                            + " necessarily distinct) id, or pass no id array at all");
+                }
+            }
         }
         return new DensitySet(space, n, d, idCopy);
     }
@@ -197,7 +214,8 @@ public final class DensitySet {
     public double coordinate(int i, int j) {
         checkRow(i);
         if (j < 0 || j >= k) {
-            throw new IndexOutOfBoundsException("column " + j + " outside [0, " + k + ")");
+            throw new IllegalArgumentException("column " + j + " is outside [0, " + k + "): the space has K = " + k
+                    + " coordinates");
         }
         return data[i * k + j];
     }
@@ -227,7 +245,8 @@ public final class DensitySet {
 
     private void checkRow(int i) {
         if (i < 0 || i >= n) {
-            throw new IndexOutOfBoundsException("row " + i + " outside [0, " + n + ")");
+            throw new IllegalArgumentException("row index " + i + " is outside [0, " + n + "): the set has " + n
+                    + " densities");
         }
     }
 
@@ -240,11 +259,58 @@ public final class DensitySet {
      */
     public Density mean() {
         requireNonEmpty("mean");
-        double[] s = Kernels.columnSums(data, n, k, true);
-        for (int j = 0; j < k; j++) {
-            s[j] /= n;
+        return new Density(space, meanCoordinates(), false);
+    }
+
+    /**
+     * Column means. The plain column sums cannot overflow when n·max|c| is below the largest
+     * double (the usual case, one check); otherwise every value is scaled by a power of two first
+     * (exact), so that rows near 1e308 still give their (representable) mean.
+     */
+    private double[] meanCoordinates() {
+        double big = maxAbs();
+        double scale = 1.0;
+        if (!(big * n < Double.MAX_VALUE)) {
+            scale = 0x1p-64; // n < 2^31 rows: sums of scaled values stay below 2^31 · 2^1024 · 2^-64
         }
-        return new Density(space, s, false);
+        double[] s;
+        if (scale == 1.0) {
+            s = Kernels.columnSums(data, n, k, true);
+        } else {
+            double[] scaled = new double[data.length];
+            for (int i = 0; i < data.length; i++) {
+                scaled[i] = data[i] * scale;
+            }
+            s = Kernels.columnSums(scaled, n, k, true);
+        }
+        for (int j = 0; j < k; j++) {
+            s[j] = s[j] / n / scale;
+        }
+        return s;
+    }
+
+    /** Largest |coordinate| of the set (cached; 0 for an empty set). */
+    double maxAbs() {
+        double m = maxAbs;
+        if (Double.isNaN(m)) {
+            m = 0;
+            for (double v : data) {
+                m = Math.max(m, Math.abs(v));
+            }
+            maxAbs = m;
+        }
+        return m;
+    }
+
+    /** Fails when a result of the set's arithmetic left the double range (checked only when it could). */
+    private static void requireFinite(double[] values, String what, String hint) {
+        for (int i = 0; i < values.length; i++) {
+            if (!Double.isFinite(values[i])) {
+                throw new IllegalArgumentException(what + " has entry " + i + " = " + values[i]
+                        + ": beyond the double range (largest " + Double.MAX_VALUE + ") for these coordinates; "
+                        + hint);
+            }
+        }
     }
 
     /**
@@ -254,21 +320,34 @@ public final class DensitySet {
      */
     public DensitySet centred() {
         requireNonEmpty("centring");
-        double[] m = mean().coordinatesInternal();
+        double[] m = meanCoordinates();
         double[] out = new double[data.length];
         Kernels.subtractRow(data, n, k, m, out, true);
+        if (!(maxAbs() * 2 < Double.MAX_VALUE)) {
+            requireFinite(out, "the centred coordinate array", "coordinates up to about 8.9e307 are accepted");
+        }
         return new DensitySet(space, n, out, ids);
     }
 
-    /** Every density ⊕ d (ids kept). */
+    /**
+     * Every density ⊕ d (ids kept).
+     *
+     * @throws IllegalArgumentException if a sum of coordinates leaves the double range
+     */
     public DensitySet perturb(Density d) {
         space.requireSame(d.space());
         double[] neg = d.coordinatesInternal().clone();
+        double dMax = 0;
         for (int j = 0; j < k; j++) {
             neg[j] = -neg[j];
+            dMax = Math.max(dMax, Math.abs(neg[j]));
         }
         double[] out = new double[data.length];
         Kernels.subtractRow(data, n, k, neg, out, true);
+        if (!(maxAbs() + dMax < Double.MAX_VALUE)) {
+            requireFinite(out, "the perturbed coordinate array", "sums of coordinates up to "
+                    + Double.MAX_VALUE + " are accepted");
+        }
         return new DensitySet(space, n, out, ids);
     }
 
@@ -282,9 +361,15 @@ public final class DensitySet {
         double[] center = null;
         if (centred) {
             requireNonEmpty("centred cross products");
-            center = mean().coordinatesInternal();
+            center = meanCoordinates();
         }
-        return DMatrixRMaj.wrap(k, k, Kernels.crossProduct(data, n, k, center, true));
+        double[] out = Kernels.crossProduct(data, n, k, center, true);
+        double big = centred ? 2 * maxAbs() : maxAbs();
+        if (!(big * big * n < Double.MAX_VALUE)) {
+            requireFinite(out, "the K × K cross-product matrix", "its entries are sums of n products of"
+                    + " coordinates: coordinates up to about 1e154 / √n are accepted");
+        }
+        return DMatrixRMaj.wrap(k, k, out);
     }
 
     /**
@@ -307,12 +392,19 @@ public final class DensitySet {
     /**
      * n × n Gram matrix of B2 inner products ⟨f_i, f_j⟩_B.
      *
-     * @throws IllegalArgumentException if n² exceeds 1.5·10⁸ entries (use {@link #crossProducts})
+     * @throws IllegalArgumentException if n² exceeds 1.5·10⁸ entries (use {@link #crossProducts}),
+     *                                  or if an inner product is beyond the double range (coordinates
+     *                                  near 1e154 and above): it is never returned as ±∞ or NaN
      */
     public DMatrixRMaj gram() {
         checkSquare("gram");
         double[] g = new double[n * n];
         Kernels.gram(data, n, k, g, true);
+        double big = maxAbs();
+        if (!(big * big * k < Double.MAX_VALUE)) {
+            requireFinite(g, "the n × n Gram matrix", "its entries are inner products of K coordinates:"
+                    + " coordinates up to about 1e154 / √K are accepted (distances() and norms() accept more)");
+        }
         return DMatrixRMaj.wrap(n, n, g);
     }
 
@@ -321,6 +413,10 @@ public final class DensitySet {
      * rounding clipped to 0, and exact zeros on the diagonal.
      */
     public DMatrixRMaj distances() {
+        double big = maxAbs();
+        if (!(big * big * k < Double.MAX_VALUE) || big * big < 0x1p-900) {
+            return scaledDistances(); // sums of squares would overflow or underflow
+        }
         DMatrixRMaj g = gram();
         double[] d = g.data;
         double[] diag = new double[n];
@@ -336,13 +432,63 @@ public final class DensitySet {
         return g;
     }
 
-    /** B2 norms of every density. */
+    /**
+     * Distances for coordinates too large for the Gram identity: each pair by the scaled norm of
+     * its difference (O(n² K), only for such sets).
+     */
+    private DMatrixRMaj scaledDistances() {
+        checkSquare("distances");
+        double[] d = new double[n * n];
+        double[] x = new double[k];
+        double[] y = new double[k];
+        for (int i = 0; i < n; i++) {
+            System.arraycopy(data, i * k, x, 0, k);
+            for (int j = i + 1; j < n; j++) {
+                System.arraycopy(data, j * k, y, 0, k);
+                double v = Density.scaledNorm(x, y);
+                if (v == Double.POSITIVE_INFINITY) {
+                    throw new IllegalArgumentException("the distance between rows " + i + " and " + j
+                            + " exceeds the largest double " + Double.MAX_VALUE);
+                }
+                d[i * n + j] = v;
+                d[j * n + i] = v;
+            }
+        }
+        return DMatrixRMaj.wrap(n, n, d);
+    }
+
+    /**
+     * B2 norms of every density (scaled where the plain sum of squares overflows or underflows, as
+     * {@link Density#norm()}).
+     *
+     * @throws IllegalArgumentException if a norm exceeds the largest double
+     */
     public double[] norms() {
         double[] s = Kernels.rowNormsSq(data, n, k);
+        double[] row = null;
         for (int i = 0; i < n; i++) {
-            s[i] = Math.sqrt(s[i]);
+            if (s[i] < Double.POSITIVE_INFINITY && (s[i] >= 0x1p-900 || s[i] == 0 && rowIsZero(i))) {
+                s[i] = Math.sqrt(s[i]);
+                continue;
+            }
+            row = row == null ? new double[k] : row;
+            System.arraycopy(data, i * k, row, 0, k);
+            s[i] = Density.scaledNorm(row, null);
+            if (s[i] == Double.POSITIVE_INFINITY) {
+                throw new IllegalArgumentException("the norm of row " + i + " exceeds the largest double "
+                        + Double.MAX_VALUE);
+            }
         }
         return s;
+    }
+
+    private boolean rowIsZero(int i) {
+        for (int j = i * k; j < (i + 1) * k; j++) {
+            if (data[j] != 0) {
+                return false;
+            }
+        }
+        return true;
     }
 
     private void checkSquare(String what) {
@@ -361,12 +507,21 @@ public final class DensitySet {
 
     // ---------------------------------------------------------------- subsets
 
-    /** Rows at the given indices, in that order (ids kept). */
+    /**
+     * Rows at the given indices, in that order (ids kept; repeats allowed).
+     *
+     * @param rows indices in [0, n) (not modified)
+     * @throws IllegalArgumentException if an index is outside [0, n), naming its position, value and n
+     */
     public DensitySet subset(int... rows) {
+        Objects.requireNonNull(rows, "rows");
         double[] out = new double[rows.length * k];
         String[] newIds = ids == null ? null : new String[rows.length];
         for (int r = 0; r < rows.length; r++) {
-            checkRow(rows[r]);
+            if (rows[r] < 0 || rows[r] >= n) {
+                throw new IllegalArgumentException("subset index " + r + " is row " + rows[r] + ", outside [0, " + n
+                        + "): the set has " + n + " densities");
+            }
             System.arraycopy(data, rows[r] * k, out, r * k, k);
             if (newIds != null) {
                 newIds[r] = ids[rows[r]];
@@ -407,7 +562,10 @@ public final class DensitySet {
 
     // ---------------------------------------------------------------- batch evaluation
 
-    /** log ∫ exp(clr f_i) dP for every row (cached). */
+    /**
+     * log ∫ exp(clr f_i) dP for every row (cached), as triples (shift, log of the shifted integral,
+     * point of the largest clr) per row: see {@link BayesSpace#logNormaliser}.
+     */
     double[] logNormalisers() {
         double[] z = logZ;
         if (z == null) {
@@ -419,7 +577,7 @@ public final class DensitySet {
 
     private double[] computeLogNormalisers() {
         int q = space.nodeCount();
-        double[] out = new double[n];
+        double[] out = new double[3 * n];
         int rows = 256;
         int blocks = (n + rows - 1) / rows;
         Kernels.forEachBlock(blocks, Kernels.parallelWorth((long) n * k * q), blk -> {
@@ -427,7 +585,7 @@ public final class DensitySet {
             double[] clr = new double[q];
             for (int i = r0; i < r1; i++) {
                 space.clrAtNodes(data, i * k, clr);
-                out[i] = space.logNormaliser(clr, 0, data, i * k);
+                space.logNormaliser(clr, 0, data, i * k, out, 3 * i);
             }
         });
         return out;
@@ -463,6 +621,12 @@ public final class DensitySet {
         }
         double[] et = space.basisTransposed(inside);
         double[] z = logNormalisers();
+        for (int i = 0; i < n; i++) {
+            if (Double.isNaN(z[3 * i + 1])) {
+                throw new DensaException("row " + i + " (" + id(i) + "): " + BayesSpace.concentrated(z[3 * i + 2])
+                        .getMessage(), null);
+            }
+        }
         int rows = 16;
         int blocks = (n + rows - 1) / rows;
         Kernels.forEachBlock(blocks, Kernels.parallelWorth((long) n * k * m), blk -> {
@@ -470,10 +634,17 @@ public final class DensitySet {
             Kernels.multiplyRows(data, r0 * k, r1 - r0, k, et, m, out, r0 * m);
             for (int i = r0; i < r1; i++) {
                 int o = i * m;
-                double zi = z[i];
+                double shift = z[3 * i], logTotal = z[3 * i + 1];
                 for (int q = 0; q < m; q++) {
                     double r = ref[q];
-                    out[o + q] = r == 0 ? 0.0 : r * Math.exp(out[o + q] - zi);
+                    out[o + q] = r == 0 ? 0.0 : r * Math.exp((out[o + q] - shift) - logTotal);
+                }
+                for (int q = 0; q < m; q++) {
+                    if (out[o + q] == Double.POSITIVE_INFINITY) {
+                        // beyond the largest double, or rounding noise of a huge clr: the checked
+                        // single-density path decides (and names the row if it overflows)
+                        out[o + q] = rowPdf(i, grid[q]);
+                    }
                 }
             }
         });
@@ -496,6 +667,14 @@ public final class DensitySet {
         return out;
     }
 
+    private double rowPdf(int i, double x) {
+        try {
+            return get(i).pdf(x);
+        } catch (DensaException e) {
+            throw new DensaException("row " + i + " (" + id(i) + "): " + e.getMessage(), e.diagnostics());
+        }
+    }
+
     private interface RowFunction {
         double apply(Shape shape, double[] clrNodes, double[] scratch);
     }
@@ -511,42 +690,58 @@ public final class DensitySet {
             double[] scratch = new double[space.scratchSize()];
             for (int i = r0; i < r1; i++) {
                 space.clrAtNodes(data, i * k, nodeRow);
-                Shape s = space.shape(data, i * k, nodeRow);
-                out[i] = f.apply(s, nodeRow, scratch);
+                try {
+                    Shape s = space.shape(data, i * k, nodeRow);
+                    out[i] = f.apply(s, nodeRow, scratch);
+                } catch (DensaException e) {
+                    throw new DensaException("row " + i + " (" + id(i) + "): " + e.getMessage(), e.diagnostics());
+                }
             }
         });
         return out;
     }
 
-    /** P(X_i ≤ x) for every density. */
+    /**
+     * P(X_i ≤ x) for every density; x may lie outside the domain [a, b] (0 below it, 1 above), as
+     * for {@link Density#cdf}.
+     *
+     * @throws IllegalArgumentException if x is NaN
+     * @throws DensaException           naming the row, if a density's coordinates are too large to
+     *                                  evaluate (see {@link Density})
+     */
     public double[] cdf(double x) {
-        if (Double.isNaN(x)) {
-            throw new IllegalArgumentException("x is NaN");
-        }
+        space.checkCdfPoint(x);
         return perRow((s, nodes, scratch) -> space.cdf(s, x, scratch));
     }
 
-    /** Tail probabilities P(X_i &gt; t) for every density. */
+    /**
+     * Tail probabilities P(X_i &gt; t) for every density; t may lie outside the domain (1 below it,
+     * 0 above), as for {@link Density#tailProbability}.
+     *
+     * @throws IllegalArgumentException if t is NaN
+     * @throws DensaException           naming the row, as {@link #cdf}
+     */
     public double[] tailProbability(double t) {
-        if (Double.isNaN(t)) {
-            throw new IllegalArgumentException("threshold is NaN");
-        }
+        space.checkThreshold(t);
         return perRow((s, nodes, scratch) -> space.tail(s, t, scratch));
     }
 
     /**
-     * The p-quantile of every density.
+     * The p-quantile of every density; p = 0 gives the domain's lower end, p = 1 its upper end.
      *
-     * @throws IllegalArgumentException if p is not in (0, 1)
+     * @throws IllegalArgumentException if p is not in [0, 1] (NaN included)
+     * @throws DensaException           naming the row, as {@link #cdf}
      */
     public double[] quantiles(double p) {
-        if (!(p > 0 && p < 1)) {
-            throw new IllegalArgumentException("probability must be in (0, 1), got " + p);
-        }
+        space.checkProbability(p);
         return perRow((s, nodes, scratch) -> space.quantile(s, p, scratch));
     }
 
-    /** E[X_i] for every density. */
+    /**
+     * E[X_i] for every density.
+     *
+     * @throws DensaException naming the row, as {@link #cdf}
+     */
     public double[] means() {
         return perRow((s, nodes, scratch) -> space.mean(s, nodes));
     }

@@ -6,8 +6,14 @@ package io.densa.core;
  * coefficients. Built once by {@link BayesSpace} and not modified afterwards; internal.
  */
 final class Shape {
-    /** log ∫ exp(clr) dP. */
-    final double logZ;
+    /**
+     * log ∫ exp(clr) dP = shift + logTotal, kept as two terms: the shift is the largest clr value
+     * (possibly huge), logTotal = log ∫ exp(clr − shift) dP a moderate number; evaluating
+     * exp((clr − shift) − logTotal) keeps logTotal even when the shift is so large that
+     * shift + logTotal would round it away.
+     */
+    final double shift;
+    final double logTotal;
     /** Probability of each quadrature panel. */
     final double[] mass;
     /** cum[j] = Σ_{i &lt; j} mass[i] (length panels + 1). */
@@ -24,10 +30,16 @@ final class Shape {
     /** Raw-function coefficients: clr(x) = φ(x)·rawCoef − offset. */
     final double[] rawCoef;
     final double offset;
+    /**
+     * NaN, or the point where a density concentrated below the double resolution puts its whole
+     * mass (logTotal is then NaN: the pdf is not representable).
+     */
+    final double atom;
 
-    Shape(double logZ, double[] mass, double[] cum, double[] tail, double[][] leafEdges, double[][] leafCum,
-            double[][] leafTail, double[] rawCoef, double offset) {
-        this.logZ = logZ;
+    Shape(double shift, double logTotal, double[] mass, double[] cum, double[] tail, double[][] leafEdges, double[][] leafCum,
+            double[][] leafTail, double[] rawCoef, double offset, double atom) {
+        this.shift = shift;
+        this.logTotal = logTotal;
         this.mass = mass;
         this.cum = cum;
         this.tail = tail;
@@ -36,5 +48,20 @@ final class Shape {
         this.leafTail = leafTail;
         this.rawCoef = rawCoef;
         this.offset = offset;
+        this.atom = atom;
+    }
+
+    /** log ∫ exp(clr) dP (rounded: see {@link #shift}). */
+    double logZ() {
+        return shift + logTotal;
+    }
+
+    /** log pdf relative to the reference: clr − log ∫ exp(clr) dP, in the accurate order. */
+    double logRelative(double clr) {
+        return (clr - shift) - logTotal;
+    }
+
+    boolean isPointMass() {
+        return !Double.isNaN(atom);
     }
 }

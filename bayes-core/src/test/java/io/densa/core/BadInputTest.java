@@ -44,9 +44,15 @@ class BadInputTest {
     @Test
     void nanPoint() {
         fails("x = NaN is outside the domain \\[0.0, 1.0\\]", () -> S.neutral().clr(Double.NaN));
-        fails("x is NaN", () -> S.neutral().pdf(Double.NaN));
-        fails("x is NaN", () -> S.neutral().cdf(Double.NaN));
-        fails("threshold is NaN", () -> S.neutral().tailProbability(Double.NaN));
+        fails("x is NaN; pdf accepts any other x \\(0 outside the domain \\[0.0, 1.0\\]\\)",
+                () -> S.neutral().pdf(Double.NaN));
+        fails("x is NaN; cdf accepts any other x, including points outside the domain \\[0.0, 1.0\\] \\(0 below"
+                + " it, 1 above\\)", () -> S.neutral().cdf(Double.NaN));
+        fails("threshold is NaN; tail probabilities accept any other threshold.*\\(1 below it, 0 above\\)",
+                () -> S.neutral().tailProbability(Double.NaN));
+        fails("x is NaN; cdf accepts any other x", () -> DensitySet.of(List.of(S.neutral())).cdf(Double.NaN));
+        fails("threshold is NaN; tail probabilities accept",
+                () -> DensitySet.of(List.of(S.neutral())).tailProbability(Double.NaN));
     }
 
     @Test
@@ -111,16 +117,19 @@ class BadInputTest {
 
     @Test
     void quantileOutsideZeroOne() {
-        fails("probability must be in \\(0, 1\\), got 0.0", () -> S.neutral().quantile(0));
-        fails("probability must be in \\(0, 1\\), got 1.0", () -> S.neutral().quantile(1));
-        fails("probability must be in \\(0, 1\\), got -0.1", () -> S.neutral().quantile(-0.1));
-        fails("probability must be in \\(0, 1\\), got 1.5", () -> DensitySet.of(List.of(S.neutral())).quantiles(1.5));
+        String accepted = "probability must be in \\[0, 1\\] \\(0 gives the domain's lower end 0.0, 1 its upper end"
+                + " 1.0\\), got ";
+        fails(accepted + "-0.1", () -> S.neutral().quantile(-0.1));
+        fails(accepted + "1.0000000000000002", () -> S.neutral().quantile(Math.nextUp(1.0)));
+        fails(accepted + "1.5", () -> DensitySet.of(List.of(S.neutral())).quantiles(1.5));
+        fails(accepted + "-Infinity", () -> S.neutral().quantile(Double.NEGATIVE_INFINITY));
     }
 
     @Test
     void quantileNaN() {
-        fails("probability must be in \\(0, 1\\), got NaN", () -> S.neutral().quantile(Double.NaN));
-        fails("probability must be in \\(0, 1\\), got NaN", () -> DensitySet.of(List.of(S.neutral())).quantiles(Double.NaN));
+        fails("probability must be in \\[0, 1\\] .*got NaN", () -> S.neutral().quantile(Double.NaN));
+        fails("probability must be in \\[0, 1\\] .*got NaN",
+                () -> DensitySet.of(List.of(S.neutral())).quantiles(Double.NaN));
     }
 
     @Test
