@@ -207,7 +207,10 @@ public final class Design {
 
     /**
      * Checks that the weighted design has full column rank and at least as many rows as
-     * columns, by modified Gram–Schmidt on the columns in order.
+     * columns, by modified Gram–Schmidt on the columns in order. Each column is first scaled by a
+     * power of two to a largest |value| in [1, 2) (rank does not depend on column scales), so that
+     * covariates near 1e300 or 1e-170 are judged by their direction, not by the overflow or
+     * underflow of their squares.
      *
      * @param w observation weights or null
      * @throws IllegalArgumentException naming the columns that are (numerically) linear
@@ -222,9 +225,12 @@ public final class Design {
         List<double[]> basis = new ArrayList<>();
         for (int j = 0; j < p; j++) {
             double[] c = new double[n];
-            double norm0 = 0;
             for (int i = 0; i < n; i++) {
                 c[i] = x[i * p + j] * (w == null ? 1.0 : Math.sqrt(w[i]));
+            }
+            scaleToUnit(c, 0, 1, n);
+            double norm0 = 0;
+            for (int i = 0; i < n; i++) {
                 norm0 += c[i] * c[i];
             }
             for (int pass = 0; pass < 2; pass++) {
@@ -257,6 +263,29 @@ public final class Design {
                     + " are zero or linear combinations of earlier columns of " + columnNames
                     + "; drop or recode them");
         }
+    }
+
+    /**
+     * Multiplies the count values v[off], v[off + stride], … by the power of two that brings their
+     * largest magnitude into [1, 2) (exact); all zeros are left alone.
+     * Returns the factor.
+     */
+    static double scaleToUnit(double[] v, int off, int stride, int count) {
+        double m = 0;
+        for (int i = 0; i < count; i++) {
+            m = Math.max(m, Math.abs(v[off + i * stride]));
+        }
+        if (m == 0 || !Double.isFinite(m)) {
+            return 1.0;
+        }
+        double f = Math.scalb(1.0, -Math.getExponent(m));
+        if (f == 1.0) {
+            return 1.0;
+        }
+        for (int i = 0; i < count; i++) {
+            v[off + i * stride] *= f; // f ≤ 2^1023: subnormal columns end up below [1, 2), still normal
+        }
+        return f;
     }
 
     @Override
@@ -312,18 +341,30 @@ public final class Design {
         /**
          * Adds a numeric covariate.
          *
-         * @param values one finite value per observation (copied)
-         * @throws IllegalArgumentException on a NaN or infinite value (naming the row) or a
-         *                                  length that differs from earlier covariates
+         * @param values one finite value per observation (copied); any magnitude up to the largest
+         *               double, but a column that is not all zero needs one |value| of at least
+         *               {@link Double#MIN_NORMAL} (the fit scales columns, see
+         *               {@link FunctionOnScalarRegression})
+         * @throws IllegalArgumentException on a NaN or infinite value (naming the row), a column of
+         *                                  subnormal values or a length that differs from earlier
+         *                                  covariates
          */
         public Builder numeric(String name, double[] values) {
             addName(name);
             Objects.requireNonNull(values, "values");
+            double largest = 0;
             for (int i = 0; i < values.length; i++) {
                 if (!Double.isFinite(values[i])) {
                     throw new IllegalArgumentException("covariate '" + name + "' row " + i + " is not finite: "
                             + values[i] + "; numeric covariates must be finite");
                 }
+                largest = Math.max(largest, Math.abs(values[i]));
+            }
+            if (largest > 0 && largest < Double.MIN_NORMAL) {
+                throw new IllegalArgumentException("covariate '" + name + "' has largest |value| " + largest
+                        + ", below the smallest normal double " + Double.MIN_NORMAL + ": such values keep fewer"
+                        + " significant digits than the fit needs; express the covariate in smaller units (or"
+                        + " give an all-zero column, which the fit names as rank deficient)");
             }
             setRows(values.length, name);
             specs.add(new Object[] {name, values.clone()});

@@ -31,7 +31,10 @@ public final class FunctionOnScalarFit {
     private final int p;
     private final int k;
     private final double[] u;          // K × K eigenvectors of R (null: unpenalised)
-    private final double[][] inverses; // per transformed column l (or one)
+    private final double[][] inverses; // per transformed column l (or one), for the scaled design
+    private final double[] scale;      // p powers of two: column j of the scaled design is f_j x_j
+    private final double[] xScaled;    // n × p design with scaled columns
+    private final double[] coefScaled; // p × K coefficients of the scaled design (row j = β_j / f_j)
     private final double[] coef;       // p × K
     private final double[] fitted;     // n × K
     private final double[] resid;      // n × K
@@ -39,7 +42,8 @@ public final class FunctionOnScalarFit {
     private final double effectiveParameters;
 
     private FunctionOnScalarFit(FunctionOnScalarRegression config, Design design, DensitySet response,
-            double[] weights, double[] u, double[][] inverses, double[] coef, double effectiveParameters) {
+            double[] weights, double[] u, double[][] inverses, double[] scale, double[] xScaled, double[] coefScaled,
+            double effectiveParameters) {
         this.effectiveParameters = effectiveParameters;
         this.config = config;
         this.design = design;
@@ -51,8 +55,20 @@ public final class FunctionOnScalarFit {
         this.k = space.dimension();
         this.u = u;
         this.inverses = inverses;
-        this.coef = coef;
-        this.fitted = Linear.mult(design.internal(), n, p, coef, k);
+        this.scale = scale;
+        this.xScaled = xScaled;
+        this.coefScaled = coefScaled;
+        this.coef = unscaleRows(coefScaled, scale, k);
+        for (int i = 0; i < coef.length; i++) {
+            if (!Double.isFinite(coef[i])) {
+                String col = design.columnNames().get(i / k);
+                throw new IllegalArgumentException("the coefficient of column '" + col + "' is " + coef[i]
+                        + ", beyond the double range: the column's values (largest |x| "
+                        + (1 / scale[i / k]) + " within a factor 2) are too small for the response; express the"
+                        + " covariate in smaller units");
+            }
+        }
+        this.fitted = Linear.mult(xScaled, n, p, coefScaled, k);
         double[] c = response.coordinatesRowMajor();
         this.resid = new double[n * k];
         for (int i = 0; i < n * k; i++) {
@@ -88,7 +104,13 @@ public final class FunctionOnScalarFit {
         int n = design.rows();
         int p = design.columns();
         int k = response.dimension();
-        double[] x = design.internal();
+        // columns scaled by powers of two (exact): covariates near 1e300 or 1e-170 keep a well
+        // scaled system, whose rank test and squares neither overflow nor underflow
+        double[] x = design.internal().clone();
+        double[] scale = new double[p];
+        for (int j = 0; j < p; j++) {
+            scale[j] = Design.scaleToUnit(x, j, p, n);
+        }
         double[] c = response.coordinatesRowMajor();
         // whitened system √W X, √W C, solved by QR (accuracy governed by cond(√W X), not its square)
         double[] xs = x.clone();
@@ -129,7 +151,7 @@ public final class FunctionOnScalarFit {
                 double root = Math.sqrt(lambda * e.values()[l]);
                 for (int j = 0; j < p; j++) {
                     if (!(intercept && j == 0)) {
-                        aug[(p + j) * p + j] = root;
+                        aug[(p + j) * p + j] = root * scale[j]; // λ Λ_l β_j² = λ Λ_l f_j² β̃_j²
                     }
                     rhs[j] = qtcu[j * k + l];
                     rhs[p + j] = 0.0;
@@ -157,7 +179,18 @@ public final class FunctionOnScalarFit {
             }
         }
         edf /= inv.length;
-        return new FunctionOnScalarFit(cfg, design, response, w, u, inv, coef, edf);
+        return new FunctionOnScalarFit(cfg, design, response, w, u, inv, scale, x, coef, edf);
+    }
+
+    /** Row j of a (p × cols) times f_j: coefficients of the scaled design back to the original columns. */
+    private static double[] unscaleRows(double[] a, double[] f, int cols) {
+        double[] out = a.clone();
+        for (int j = 0; j < f.length; j++) {
+            for (int l = 0; l < cols; l++) {
+                out[j * cols + l] *= f[j];
+            }
+        }
+        return out;
     }
 
     /** B = the solution of the (penalised) normal equations with right-hand side XᵀWC (p × K). */
@@ -517,7 +550,7 @@ public final class FunctionOnScalarFit {
             }
         }
         SplittableRandom rnd = new SplittableRandom(seed);
-        double[] x = design.internal();
+        double[] x = xScaled; // solves run on the scaled design; band widths are unscaled per column
         // β* − β̂ = [S(XᵀWŶ) − β̂] + S(XᵀW r*) with S the (penalised) solve: the first term is zero
         // without penalty and the shrinkage of the refit on the fitted values with one
         double[] shift = new double[p * m];
@@ -530,7 +563,7 @@ public final class FunctionOnScalarFit {
             }
             double[] refit = solve(Linear.multTransA(xw, n, p, fitted, k), p, k, u, inverses);
             for (int i = 0; i < refit.length; i++) {
-                refit[i] -= coef[i];
+                refit[i] -= coefScaled[i];
             }
             shift = Linear.mult(refit, p, k, et, m);
         }
@@ -552,7 +585,7 @@ public final class FunctionOnScalarFit {
                 }
             }
             double[] db = solve(rhs, p, k, u, inverses);
-            double[] dg = Linear.mult(db, p, k, et, m);
+            double[] dg = Linear.mult(db, p, k, et, m); // in the scaled design's units: row j is δβ_j / f_j
             for (int q = 0; q < dg.length; q++) {
                 dg[q] += shift[q];
             }
@@ -563,6 +596,9 @@ public final class FunctionOnScalarFit {
         double alpha = 1 - level;
         double[] col = new double[replicates];
         for (int j = 0; j < p; j++) {
+            // the deltas of column j are δβ_j / f_j (f_j a power of two): percentiles and standard
+            // deviations are taken on them and multiplied by f_j, the critical value is scale-free
+            double f = scale[j];
             double[] e = Arrays.copyOfRange(est, j * m, (j + 1) * m);
             double[] pl = new double[m];
             double[] pu = new double[m];
@@ -579,8 +615,8 @@ public final class FunctionOnScalarFit {
                 double mean = s / replicates;
                 sd[q] = Math.sqrt(Math.max(0, (s2 - replicates * mean * mean) / (replicates - 1)));
                 Arrays.sort(col);
-                pl[q] = e[q] - Linear.quantileSorted(col, 1 - alpha / 2);
-                pu[q] = e[q] - Linear.quantileSorted(col, alpha / 2);
+                pl[q] = e[q] - f * Linear.quantileSorted(col, 1 - alpha / 2);
+                pu[q] = e[q] - f * Linear.quantileSorted(col, alpha / 2);
             }
             double[] maxDev = new double[replicates];
             for (int b = 0; b < replicates; b++) {
@@ -597,6 +633,7 @@ public final class FunctionOnScalarFit {
             double[] sl = new double[m];
             double[] su = new double[m];
             for (int q = 0; q < m; q++) {
+                sd[q] *= f;
                 sl[q] = e[q] - c * sd[q];
                 su[q] = e[q] + c * sd[q];
             }
@@ -780,6 +817,15 @@ public final class FunctionOnScalarFit {
         for (int i = 0; i < rows; i++) {
             for (int j = 0; j < cols; j++) {
                 xw[i * cols + j] *= sw[i];
+            }
+        }
+        // columns scaled by powers of two (Q does not change): covariates near 1e300 or 1e-170
+        // would otherwise overflow or underflow their squared norms and look rank deficient
+        for (int j = 0; j < cols; j++) {
+            Design.scaleToUnit(xw, j, cols, rows);
+        }
+        for (int i = 0; i < rows; i++) {
+            for (int j = 0; j < cols; j++) {
                 norms[j] += xw[i * cols + j] * xw[i * cols + j];
             }
         }
