@@ -533,10 +533,21 @@ public final class BayesSpace {
     }
 
     private Projection projectLogNodes(double[] h) {
+        // scaled by the largest |h| (a power of two, exact) so that log-pdf values near the double
+        // limit neither overflow the weighted sums nor the residual's squares
+        double big = 0;
+        for (double v : h) {
+            big = Math.max(big, Math.abs(v));
+        }
+        double scale = big > 0 ? Math.scalb(1.0, -Math.getExponent(big)) : 1.0;
         int q = nodes.length;
+        double[] hs = new double[q];
+        for (int i = 0; i < q; i++) {
+            hs[i] = h[i] * scale;
+        }
         double meanH = 0;
         for (int i = 0; i < q; i++) {
-            meanH += weights[i] * h[i];
+            meanH += weights[i] * hs[i];
         }
         meanH /= mass;
         double[] c = new double[dim];
@@ -544,7 +555,7 @@ public final class BayesSpace {
             double s = 0;
             int base = k * q;
             for (int i = 0; i < q; i++) {
-                s += weights[i] * h[i] * basisT[base + i];
+                s += weights[i] * hs[i] * basisT[base + i];
             }
             c[k] = s;
         }
@@ -554,13 +565,26 @@ public final class BayesSpace {
             for (int k = 0; k < dim; k++) {
                 fit += c[k] * basisT[k * q + i];
             }
-            double hc = h[i] - meanH;
+            double hc = hs[i] - meanH;
             double r = hc - fit;
             res += weights[i] * r * r;
             tot += weights[i] * hc * hc;
         }
-        double err = Math.sqrt(res);
+        double err = Math.sqrt(res) / scale;
         double rel = tot > 0 ? Math.sqrt(res / tot) : 0.0;
+        for (int k = 0; k < dim; k++) {
+            c[k] /= scale;
+            if (!Double.isFinite(c[k])) {
+                throw new IllegalArgumentException("the log-pdf reaches " + big + " in magnitude at the quadrature"
+                        + " nodes: its coordinate " + k + " in " + this + " is beyond the double range; smaller log-pdf"
+                        + " values are accepted");
+            }
+        }
+        if (!Double.isFinite(err)) {
+            throw new IllegalArgumentException("the log-pdf reaches " + big + " in magnitude at the quadrature nodes:"
+                    + " the norm of its projection residual is beyond the double range; smaller log-pdf values are"
+                    + " accepted");
+        }
         return new Projection(new Density(this, c, false), err, rel);
     }
 
@@ -586,6 +610,13 @@ public final class BayesSpace {
         DMatrixRMaj y = new DMatrixRMaj(xs.length, 1);
         double[] raw = new double[dim];
         double[] row = new double[dim];
+        // values scaled by a power of two (exact) so that values near the double limit do not
+        // overflow the solver; the coordinates are scaled back at the end
+        double big = 0;
+        for (double v : values) {
+            big = Math.max(big, Math.abs(v));
+        }
+        double scale = big > 0 && Double.isFinite(big) ? Math.scalb(1.0, -Math.getExponent(big)) : 1.0;
         for (int i = 0; i < xs.length; i++) {
             if (!Double.isFinite(values[i])) {
                 throw new IllegalArgumentException("value " + i + " (x = " + xs[i] + ") is not finite: " + values[i]);
@@ -595,7 +626,7 @@ public final class BayesSpace {
             for (int k = 0; k < dim; k++) {
                 design.set(i, k + 1, row[k]);
             }
-            y.set(i, 0, values[i]);
+            y.set(i, 0, values[i] * scale);
         }
         // rank check by the singular values (EJML's solver quality shrinks with the dimension and
         // rejected well-posed designs): reciprocal condition number below 1e-10 is rank-deficient
@@ -614,7 +645,13 @@ public final class BayesSpace {
         DMatrixRMaj sol = new DMatrixRMaj(dim + 1, 1);
         solver.solve(y, sol);
         double[] c = new double[dim];
-        System.arraycopy(sol.data, 1, c, 0, dim);
+        for (int k = 0; k < dim; k++) {
+            c[k] = sol.data[k + 1] / scale;
+            if (!Double.isFinite(c[k])) {
+                throw new IllegalArgumentException("the clr values (up to " + big + " in magnitude) give coordinate "
+                        + k + " = " + c[k] + ", beyond the double range; smaller values are accepted");
+            }
+        }
         return new Density(this, c, false);
     }
 
@@ -1187,12 +1224,20 @@ public final class BayesSpace {
             double l = rule(u, m);
             double t = terms;
             boolean trusted = ruleTrusted();
+            double range = ruleHi - ruleLo;
             double r = rule(m, v);
             trusted &= ruleTrusted();
+            range = Math.max(range, ruleHi - ruleLo);
             budget -= 2;
             double both = l + r;
-            double rel = Math.max(ADAPT_REL, NOISE * Math.max(t, terms));
-            if (depth == 0 || budget <= 0 || trusted && Math.abs(both - whole) <= rel * Math.abs(both)) {
+            // the nodes are rounded to the double spacing of x, which moves the integrand by about
+            // |clr'| ulp(x) relative: on intervals a few spacings wide that is the accuracy limit
+            double spacing = Math.ulp(Math.max(Math.abs(u), Math.abs(v)));
+            double rel = Math.max(Math.max(ADAPT_REL, NOISE * Math.max(t, terms)), 8 * range * spacing / (m - u));
+            // an interval a few double spacings wide cannot be halved usefully, trusted or not
+            boolean atResolution = v - u <= 64 * spacing;
+            if (depth == 0 || budget <= 0 || atResolution
+                    || trusted && Math.abs(both - whole) <= rel * Math.abs(both)) {
                 leaf(u, l);
                 leaf(m, r);
                 return both;
@@ -1265,7 +1310,16 @@ public final class BayesSpace {
         if (sh.isPointMass()) {
             throw concentrated(sh.atom);
         }
-        return Math.log(referenceDensity(x)) + sh.logRelative(clrRaw(sh, x, scratch));
+        double ref = referenceDensity(x);
+        if (!(ref > 0)) {
+            throw new IllegalArgumentException("logPdf at x = " + x + " is −∞: the reference " + reference
+                    + " has weight 0 there (the pdf is 0); points where the reference weight is positive are accepted");
+        }
+        double v = Math.log(ref) + sh.logRelative(clrRaw(sh, x, scratch));
+        if (!Double.isFinite(v)) {
+            throw new IllegalArgumentException("logPdf at x = " + x + " is " + v + ": beyond the double range");
+        }
+        return v;
     }
 
     /** The pdf inside the domain, unchecked (may overflow to +∞; used as a Newton slope). */

@@ -289,11 +289,20 @@ public final class Density {
      * The clr function at x.
      *
      * @throws IllegalArgumentException if x is outside the domain [a, b] or NaN (the clr is
-     *                                  defined on the domain only)
+     *                                  defined on the domain only), or if the value is beyond the
+     *                                  double range (coordinates near 1e308)
      */
     public double clr(double x) {
         space.checkPoint(x);
-        return clrAt(raw(), x, new double[space.scratchSize()]);
+        return finiteClr(clrAt(raw(), x, new double[space.scratchSize()]), x);
+    }
+
+    private double finiteClr(double v, double x) {
+        if (!Double.isFinite(v)) {
+            throw new IllegalArgumentException("the clr at x = " + x + " is " + v + ": beyond the double range for"
+                    + " these coordinates (norm " + String.format("%.3g", Density.scaledNorm(c, null)) + ")");
+        }
+        return v;
     }
 
     /**
@@ -308,7 +317,7 @@ public final class Density {
         double[] out = new double[xs.length];
         for (int i = 0; i < xs.length; i++) {
             space.checkPoint(xs[i]);
-            out[i] = clrAt(r, xs[i], scratch);
+            out[i] = finiteClr(clrAt(r, xs[i], scratch), xs[i]);
         }
         return out;
     }

@@ -659,11 +659,23 @@ public final class DensitySet {
 
     /**
      * clr values of every density on a grid as an n × m matrix (one matrix product).
+     *
+     * @param grid points in the domain [a, b] (not modified)
+     * @throws IllegalArgumentException for a point outside the domain or a clr value beyond the
+     *                                  double range (naming row and point)
      */
     public DMatrixRMaj clr(double... grid) {
         double[] et = space.basisTransposed(grid);
         DMatrixRMaj out = new DMatrixRMaj(n, grid.length);
         Kernels.multiply(data, n, k, et, grid.length, out.data, true);
+        for (int i = 0; i < out.data.length; i++) { // one pass, against n·K per entry for the product
+            if (!Double.isFinite(out.data[i])) {
+                int row = i / grid.length;
+                throw new IllegalArgumentException("the clr of row " + row + " (" + id(row) + ") at x = "
+                        + grid[i % grid.length] + " is " + out.data[i] + ": beyond the double range for its"
+                        + " coordinates");
+            }
+        }
         return out;
     }
 

@@ -78,21 +78,35 @@ final class GaussLegendre {
     static double lebesgueConstant(int n) {
         check(n);
         double[] x = NODES[n];
+        // barycentric weights w_i = 1 / Π_{j≠i} (x_i − x_j): ℓ_i(t) = (w_i / (t − x_i)) / Σ_j w_j / (t − x_j)
+        double[] w = new double[n];
+        for (int i = 0; i < n; i++) {
+            double p = 1;
+            for (int j = 0; j < n; j++) {
+                if (j != i) {
+                    p *= x[i] - x[j];
+                }
+            }
+            w[i] = 1 / p;
+        }
         double max = 1;
         int samples = 2000;
         for (int s = 0; s <= samples; s++) {
             double t = -1 + 2.0 * s / samples;
-            double sum = 0;
+            double num = 0, den = 0;
+            boolean atNode = false;
             for (int i = 0; i < n; i++) {
-                double l = 1;
-                for (int j = 0; j < n; j++) {
-                    if (j != i) {
-                        l *= (t - x[j]) / (x[i] - x[j]);
-                    }
+                double d = t - x[i];
+                if (d == 0) {
+                    atNode = true; // Σ |ℓ_i| = 1 at a node
+                    break;
                 }
-                sum += Math.abs(l);
+                num += Math.abs(w[i] / d);
+                den += w[i] / d;
             }
-            max = Math.max(max, sum);
+            if (!atNode) {
+                max = Math.max(max, num / Math.abs(den));
+            }
         }
         return 1.1 * max;
     }
