@@ -47,6 +47,12 @@ final class FuzzCheck {
     private static final boolean COLLECT = System.getenv("DENSA_FUZZ_COLLECT") != null;
     private static final Map<String, String> COLLECTED = new java.util.concurrent.ConcurrentSkipListMap<>();
 
+    /** Per operation: calls that returned, calls that threw an accepted exception (exploration mode). */
+    private static final Map<String, long[]> OUTCOMES = new java.util.concurrent.ConcurrentSkipListMap<>();
+
+    /** Accepted exceptions by operation and message shape (exploration mode). */
+    private static final Map<String, Long> ACCEPTED = new java.util.concurrent.ConcurrentSkipListMap<>();
+
     private static final ThreadLocal<String> CONTEXT = ThreadLocal.withInitial(() -> "");
 
     /** Describes the current try (property, case seed, configuration) for collected examples. */
@@ -61,6 +67,9 @@ final class FuzzCheck {
         }
         StringBuilder sb = new StringBuilder();
         COLLECTED.forEach((k, v) -> sb.append("FUZZ ").append(k).append("\n    ").append(v).append("\n"));
+        OUTCOMES.forEach((k, v) -> sb.append("OUTCOME ").append(k).append(": returned ").append(v[0])
+                .append(", threw an accepted exception ").append(v[1]).append("\n"));
+        ACCEPTED.forEach((k, v) -> sb.append("ACCEPTED ").append(v).append(" × ").append(k).append("\n"));
         java.nio.file.Files.writeString(file, sb.toString());
     }
 
@@ -96,6 +105,11 @@ final class FuzzCheck {
                 failure = new Violation(operation, "exception without a message", e);
             }
             result = null;
+            if (COLLECT && failure == null) {
+                ACCEPTED.merge(operation + " | " + String.valueOf(e.getMessage()).replaceAll("[-0-9.E]+", "#")
+                        .substring(0, Math.min(100, String.valueOf(e.getMessage()).replaceAll("[-0-9.E]+", "#")
+                        .length())), 1L, Long::sum);
+            }
         } catch (Throwable t) {
             failure = new Violation(operation, "foreign exception " + t, t);
         }
@@ -106,6 +120,12 @@ final class FuzzCheck {
                 if (failure != v) {
                     failure.addSuppressed(v);
                 }
+            }
+        }
+        if (COLLECT) {
+            long[] o = OUTCOMES.computeIfAbsent(operation, x -> new long[2]);
+            synchronized (o) {
+                o[result != null || failure != null ? 0 : 1]++;
             }
         }
         if (failure != null) {

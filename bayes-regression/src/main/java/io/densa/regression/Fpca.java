@@ -297,6 +297,7 @@ public final class Fpca {
         if (!(fraction > 0 && fraction < 1)) {
             throw new IllegalArgumentException("fraction must be in (0, 1), got " + fraction);
         }
+        Linear.requireModerate(data, "density");
         int n = data.size();
         int[] fold = Linear.folds(n, folds, seed);
         double[] x = data.coordinatesRowMajor();

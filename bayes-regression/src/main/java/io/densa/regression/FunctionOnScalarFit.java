@@ -25,7 +25,10 @@ public final class FunctionOnScalarFit {
     private final FunctionOnScalarRegression config;
     private final Design design;
     private final DensitySet response;
-    private final double[] weights; // null: unit
+    private final double[] weights; // null: unit; as given
+    private final double[] unitWeights; // null: unit; weights × a power of two, the largest in [1, 2)
+    private final double weightScale; // weights = unitWeights × weightScale
+    private final double rss;
     private final BayesSpace space;
     private final int n;
     private final int p;
@@ -49,6 +52,8 @@ public final class FunctionOnScalarFit {
         this.design = design;
         this.response = response;
         this.weights = weights;
+        this.unitWeights = weights == null ? null : weights.clone();
+        this.weightScale = weights == null ? 1.0 : 1 / Design.scaleToUnit(unitWeights, 0, 1, weights.length);
         this.space = response.space();
         this.n = design.rows();
         this.p = design.columns();
@@ -94,10 +99,27 @@ public final class FunctionOnScalarFit {
             }
         }
         this.rSquared = tss > 0 ? 1 - rss / tss : 0.0;
+        this.rss = rss * weightScale;
+        if (!Double.isFinite(this.rss) || !Double.isFinite(rSquared)) {
+            throw new IllegalArgumentException("the weighted residual sum of squares (" + this.rss + ") is beyond the"
+                    + " double range: weights up to " + maxOf(weights) + " times squared residuals; rescale the"
+                    + " weights (only their ratios matter for the estimates)");
+        }
     }
 
+    private static double maxOf(double[] w) {
+        double m = 1;
+        if (w != null) {
+            for (double v : w) {
+                m = Math.max(m, v);
+            }
+        }
+        return m;
+    }
+
+    /** The weight of row i relative to the largest (times a power of two): what every solve uses. */
     private double w(int i) {
-        return weights == null ? 1.0 : weights[i];
+        return unitWeights == null ? 1.0 : unitWeights[i];
     }
 
     static FunctionOnScalarFit fit(FunctionOnScalarRegression cfg, Design design, DensitySet response, double[] w) {
@@ -116,8 +138,10 @@ public final class FunctionOnScalarFit {
         double[] xs = x.clone();
         double[] cs = c.clone();
         if (w != null) {
+            double[] wn = w.clone(); // only ratios of weights matter: the largest scaled into [1, 2)
+            Design.scaleToUnit(wn, 0, 1, n);
             for (int i = 0; i < n; i++) {
-                double s = Math.sqrt(w[i]);
+                double s = Math.sqrt(wn[i]);
                 for (int j = 0; j < p; j++) {
                     xs[i * p + j] *= s;
                 }
@@ -298,15 +322,7 @@ public final class FunctionOnScalarFit {
 
     /** Weighted residual sum of squares Σ w_i ‖y_i ⊖ ŷ_i‖². */
     public double residualSumOfSquares() {
-        double s = 0;
-        for (int i = 0; i < n; i++) {
-            double r = 0;
-            for (int j = 0; j < k; j++) {
-                r += resid[i * k + j] * resid[i * k + j];
-            }
-            s += w(i) * r;
-        }
-        return s;
+        return rss;
     }
 
     /**

@@ -100,16 +100,21 @@ public final class FunctionOnScalarRegression {
      *
      * @param design   n × p design
      * @param response n densities
-     * @param weights  n positive finite observation weights, or null for unit weights (copied)
+     * @param weights  n finite observation weights of at least {@link Double#MIN_NORMAL}, the largest
+     *                 at most 1e300 times the smallest (only their ratios change the estimates), or
+     *                 null for unit weights (copied)
      * @throws IllegalArgumentException on mismatched row counts, bad weights, a penalty of the
      *                                  wrong dimension, fewer observations than parameters or a
-     *                                  rank-deficient design (naming the columns)
+     *                                  rank-deficient design (naming the columns), or response
+     *                                  coordinates above 1e150 / √(n·K) in magnitude (their
+     *                                  squares would leave the double range)
      */
     public FunctionOnScalarFit fit(Design design, DensitySet response, double[] weights) {
         Objects.requireNonNull(design, "design");
         Objects.requireNonNull(response, "response");
         int n = design.rows();
         Linear.rows(response, n, "response");
+        Linear.requireModerate(response, "response");
         if (penalty != null && penalty.numRows != response.dimension()) {
             throw new IllegalArgumentException("penalty matrix is " + penalty.numRows + " x " + penalty.numRows
                     + " but the response space has K = " + response.dimension());
@@ -121,11 +126,19 @@ public final class FunctionOnScalarRegression {
                         + " observations");
             }
             w = weights.clone();
+            double lo = Double.POSITIVE_INFINITY, hi = 0;
             for (int i = 0; i < n; i++) {
-                if (!(w[i] > 0) || Double.isInfinite(w[i])) {
+                if (!(w[i] >= Double.MIN_NORMAL) || Double.isInfinite(w[i])) {
                     throw new IllegalArgumentException("weight of row " + i + " (id " + response.id(i) + ") is "
-                            + w[i] + "; weights must be positive and finite");
+                            + w[i] + "; weights must be finite and at least " + Double.MIN_NORMAL
+                            + " (positive normal doubles)");
                 }
+                lo = Math.min(lo, w[i]);
+                hi = Math.max(hi, w[i]);
+            }
+            if (!(hi / lo <= 1e300)) {
+                throw new IllegalArgumentException("weights span from " + lo + " to " + hi + "; a ratio of the largest"
+                        + " to the smallest weight up to 1e300 is accepted (only ratios matter)");
             }
         }
         design.requireFullRank(w, 0, "function-on-scalar regression");

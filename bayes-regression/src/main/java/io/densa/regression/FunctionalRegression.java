@@ -295,6 +295,7 @@ public final class FunctionalRegression {
                 throw new IllegalArgumentException("predictor " + j + " has " + s.size() + " rows but the response has "
                         + n + "; every predictor needs one density per observation");
             }
+            Linear.requireModerate(s, "predictor " + j);
             if (responseSpace != null && !s.space().equals(responseSpace)
                     && s.space().lower() == responseSpace.lower() && s.space().upper() == responseSpace.upper()
                     && s.dimension() == responseSpace.dimension()) {
@@ -332,11 +333,14 @@ public final class FunctionalRegression {
      * @throws IllegalArgumentException on mismatched rows, a predictor whose space has the
      *                                  response's domain and dimension but differs from it, a
      *                                  design without intercept or rank deficient, or too few
-     *                                  observations for the largest candidate model
+     *                                  observations for the largest candidate model, or
+     *                                  coordinates of a predictor or the response above
+     *                                  1e150 / √(n·K) in magnitude
      */
     public FunctionOnFunctionFit fitDensityResponse(List<DensitySet> predictors, Design covariates,
             DensitySet response) {
         Objects.requireNonNull(response, "response");
+        Linear.requireModerate(response, "response");
         Design d = check(predictors, covariates, response.size(), response.space());
         LinearFunctionalEngine.Result res = LinearFunctionalEngine.fit(this, d, predictors,
                 response.coordinatesRowMajor(), response.dimension());
@@ -362,6 +366,7 @@ public final class FunctionalRegression {
         if (responseComponents != null) {
             throw new IllegalArgumentException("response truncation applies to density responses only");
         }
+        Linear.requireModerate(response, 1, "response value");
         Design d = check(predictors, covariates, response.length, null);
         LinearFunctionalEngine.Result res = LinearFunctionalEngine.fit(this, d, predictors, response.clone(), 1);
         return new ScalarOnFunctionFit(this, d, predictors, response, res);

@@ -342,6 +342,43 @@ final class Linear {
         }
     }
 
+    /**
+     * Largest accepted |value| of data whose squares are summed (n·K of them for n densities of
+     * dimension K): 1e150 / √(count), so that residual sums of squares, R², variances and
+     * cross-validation errors stay within the double range.
+     */
+    static double magnitudeLimit(long count) {
+        return 1e150 / Math.sqrt(Math.max(1, count));
+    }
+
+    /**
+     * Requires a set's coordinates to be at most {@link #magnitudeLimit} in magnitude.
+     *
+     * @throws IllegalArgumentException naming the row and column of the largest value
+     */
+    static void requireModerate(DensitySet set, String what) {
+        requireModerate(set.coordinatesRowMajor(), set.dimension(), what + " coordinate");
+    }
+
+    /** The same for a row-major array of values with {@code width} columns. */
+    static void requireModerate(double[] values, int width, String what) {
+        double limit = magnitudeLimit(values.length);
+        int at = -1;
+        double big = 0;
+        for (int i = 0; i < values.length; i++) {
+            if (Math.abs(values[i]) > big) {
+                big = Math.abs(values[i]);
+                at = i;
+            }
+        }
+        if (!(big <= limit)) {
+            throw new IllegalArgumentException(what + " (row " + at / width + ", column " + at % width + ") is "
+                    + values[at] + "; the regression sums squares of " + values.length + " such values, so magnitudes"
+                    + " up to " + String.format("%.3g", limit) + " are accepted (power(α) with a small α shrinks"
+                    + " densities towards the reference)");
+        }
+    }
+
     /** Requires a set to have n rows. */
     static void rows(DensitySet set, int n, String what) {
         if (set.size() != n) {
