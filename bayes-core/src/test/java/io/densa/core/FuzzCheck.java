@@ -55,9 +55,14 @@ final class FuzzCheck {
 
     private static final ThreadLocal<String> CONTEXT = ThreadLocal.withInitial(() -> "");
 
-    /** Describes the current try (property, case seed, configuration) for collected examples. */
-    static void context(String text) {
-        CONTEXT.set(text);
+    /**
+     * Describes the current try (property, case seed, configuration) for collected examples; the
+     * text is built only in exploration mode.
+     */
+    static void context(Supplier<String> text) {
+        if (COLLECT) {
+            CONTEXT.set(text.get());
+        }
     }
 
     /** Writes the collected violations (signature → first example), in exploration mode. */
@@ -223,6 +228,8 @@ final class FuzzCheck {
             requireFinite(op, ((Density) o).coordinates(), path + ".coordinates", depth + 1);
         } else if (o instanceof DensitySet) {
             requireFinite(op, ((DensitySet) o).coordinatesRowMajor(), path + ".coordinates", depth + 1);
+        } else if (o instanceof java.util.Optional) {
+            requireFinite(op, ((java.util.Optional<?>) o).orElse(null), path, depth + 1);
         } else if (o instanceof OptionalDouble) {
             OptionalDouble d = (OptionalDouble) o;
             if (d.isPresent()) {

@@ -80,7 +80,7 @@ class FuzzProperties {
     @Property(tries = 8_000, seed = "9101", shrinking = ShrinkingMode.OFF, edgeCases = EdgeCasesMode.NONE)
     void fpca(@ForAll("cases") long seed) {
         Random r = new Random(seed);
-        FuzzCheck.context("fpca seed=" + seed);
+        FuzzCheck.context(() -> "fpca seed=" + seed);
         BayesSpace s = SPACES.get(r.nextInt(SPACES.size()));
         DensitySet data = densities(r, s, FuzzValues.size(r, 15));
         Fpca f = CHECK.run("Fpca.fit", () -> Fpca.fit(data));
@@ -111,7 +111,7 @@ class FuzzProperties {
     @Property(tries = 2_500, seed = "9102", shrinking = ShrinkingMode.OFF, edgeCases = EdgeCasesMode.NONE)
     void functionOnScalar(@ForAll("cases") long seed) {
         Random r = new Random(seed);
-        FuzzCheck.context("functionOnScalar seed=" + seed);
+        FuzzCheck.context(() -> "functionOnScalar seed=" + seed);
         BayesSpace s = SPACES.get(r.nextInt(SPACES.size()));
         int n = FuzzValues.size(r, 14);
         DensitySet y = densities(r, s, n);
@@ -172,7 +172,7 @@ class FuzzProperties {
     @Property(tries = 1_100, seed = "9103", shrinking = ShrinkingMode.OFF, edgeCases = EdgeCasesMode.NONE)
     void functionalRegression(@ForAll("cases") long seed) {
         Random r = new Random(seed);
-        FuzzCheck.context("functionalRegression seed=" + seed);
+        FuzzCheck.context(() -> "functionalRegression seed=" + seed);
         BayesSpace s = SPACES.get(r.nextInt(SPACES.size()));
         BayesSpace sp = SPACES.get(r.nextInt(SPACES.size()));
         int n = r.nextInt(5) == 0 ? 2 + r.nextInt(5) : 8 + r.nextInt(13);
@@ -216,7 +216,7 @@ class FuzzProperties {
     @Property(tries = 13_000, seed = "9104", shrinking = ShrinkingMode.OFF, edgeCases = EdgeCasesMode.NONE)
     void anomalyScoring(@ForAll("cases") long seed) {
         Random r = new Random(seed);
-        FuzzCheck.context("anomalyScoring seed=" + seed);
+        FuzzCheck.context(() -> "anomalyScoring seed=" + seed);
         BayesSpace s = SPACES.get(r.nextInt(SPACES.size()));
         DensitySet calibration = densities(r, s, FuzzValues.size(r, 20));
         DensitySet fresh = densities(r, s, FuzzValues.size(r, 8));
