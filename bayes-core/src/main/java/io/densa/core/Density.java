@@ -190,7 +190,7 @@ public final class Density {
 
     /**
      * B2 norm: a plain sum of squares, redone with scaling when it overflows or underflows (as LAPACK's dnrm2 scales; Blue (1978), A portable Fortran
-     * program to find the Euclidean norm of a vector, ACM TOMS 4(1)).
+     * program to find the Euclidean norm of a vector, ACM TOMS 4(1) — from memory).
      *
      * @throws IllegalArgumentException only if the norm exceeds the largest double (coordinates
      *                                  near 1.8e308)

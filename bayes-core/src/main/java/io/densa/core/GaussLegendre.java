@@ -73,7 +73,8 @@ final class GaussLegendre {
      * (ℓ_i the Lagrange polynomials), sampled at 2,001 points including the ends and raised by 10 %
      * for the points between samples: a polynomial p of degree &lt; n satisfies
      * |p(x) − C| ≤ Λ max_i |p(x_i) − C| on [−1, 1] for any constant C (the interpolation error
-     * bound; e.g. Trefethen (2013), Approximation Theory and Approximation Practice, ch. 15).
+     * bound; e.g. Trefethen (2013), Approximation Theory and Approximation Practice, SIAM, the chapter on
+     * Lebesgue constants — from memory; the bound itself is the triangle inequality on the Lagrange form).
      */
     static double lebesgueConstant(int n) {
         check(n);

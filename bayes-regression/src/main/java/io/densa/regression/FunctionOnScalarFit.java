@@ -137,9 +137,12 @@ public final class FunctionOnScalarFit {
         // whitened system √W X, √W C, solved by QR (accuracy governed by cond(√W X), not its square)
         double[] xs = x.clone();
         double[] cs = c.clone();
+        // weights w = s w̃ with the largest w̃ in [1, 2): Σ w r² + λ pen = s (Σ w̃ r² + (λ / s) pen), so
+        // the solves use w̃ and λ / s and give the same estimates without under- or overflow
+        double weightFactor = 1.0; // 1 / s
         if (w != null) {
-            double[] wn = w.clone(); // only ratios of weights matter: the largest scaled into [1, 2)
-            Design.scaleToUnit(wn, 0, 1, n);
+            double[] wn = w.clone();
+            weightFactor = Design.scaleToUnit(wn, 0, 1, n);
             for (int i = 0; i < n; i++) {
                 double s = Math.sqrt(wn[i]);
                 for (int j = 0; j < p; j++) {
@@ -151,7 +154,12 @@ public final class FunctionOnScalarFit {
             }
         }
         double[] xtwx = Linear.multTransA(xs, n, p, xs, p);
-        double lambda = cfg.lambda();
+        double lambda = cfg.lambda() * weightFactor;
+        if (!Double.isFinite(lambda)) {
+            throw new IllegalArgumentException("penalty weight λ = " + cfg.lambda() + " is too large for weights"
+                    + " as small as these (λ divided by the largest weight exceeds the double range); scale the"
+                    + " weights up or λ down by the same factor");
+        }
         double[] u = null;
         double[][] inv;
         double[] coef;

@@ -18,9 +18,10 @@ import org.junit.jupiter.api.Test;
  * Covariates of any magnitude are judged by their direction, not by the overflow or underflow of
  * their squares. Least squares is equivariant under column scaling: multiplying covariate x₁ by s
  * divides its coefficient by s and leaves fitted values, R², F statistics and the scale-free
- * bootstrap critical values unchanged (common practice; e.g. Golub and Van Loan (2013), Matrix
- * Computations, 4th ed., §5.3 on column scaling of least-squares problems). The unit-scale fit is
- * itself checked against Apache Commons Math {@code OLSMultipleLinearRegression}.
+ * bootstrap critical values unchanged (common practice: X β = (X D)(D⁻¹ β) for a diagonal D; least
+ * squares by QR as in Golub and Van Loan (2013), Matrix Computations, 4th ed., ch. 5, from memory).
+ * The unit-scale fit is itself checked against Apache Commons Math
+ * {@code OLSMultipleLinearRegression}.
  */
 class ExtremeCovariateTest {
     private static final BayesSpace S = BayesSpace.splines(0, 1, 4, 2);
