@@ -450,6 +450,7 @@ public final class PenalizedLikelihoodEstimator {
         ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty);
+            eng.coordinateMap = u;
             eng.startMap = startMap;
             eng.startConst = startConst;
             double[] row = new double[lay.bins];
@@ -558,6 +559,7 @@ public final class PenalizedLikelihoodEstimator {
         ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(domain, rawPenalty);
+            eng.coordinateMap = u;
             double[] scratch = new double[basis.scratchSize()];
             int i1 = Math.min(n, (blk + 1) * UNITS_PER_BLOCK);
             for (int i = blk * UNITS_PER_BLOCK; i < i1; i++) {
