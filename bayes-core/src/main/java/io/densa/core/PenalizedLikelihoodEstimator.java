@@ -23,20 +23,57 @@ import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DD
  * than (b − a)/64 (the nodes and the basis at them are computed once per set of edges and shared
  * by all units). The estimate maximises
  * <pre>
- *   Φ(c) = Σ_j n_j log π_j(c) − λ c'Ωc,      c'Ωc = ∫_a^b (clr^{(l)}(x))² dx,
+ *   Φ(c) = Σ_j n_j log π_j(c) − λ c'Ωc − (w / (2 P(I))) ‖c‖²,      c'Ωc = ∫_a^b (clr^{(l)}(x))² dx,
  * </pre>
  * the roughness penalty of derivative order l (default 2; computed exactly from the derivatives
- * of the B-splines or polynomials, a difference penalty of order l for step bases). For a sample
+ * of the B-splines or polynomials, a difference penalty of order l for step bases) and the
+ * reference prior of weight w (default 1, see below; ‖c‖² = ‖f‖²_B = ∫ clr² dP). For a sample
  * x_1..x_n with weights w_i (default 1) the log-likelihood is Σ_i w_i log f_P(x_i). This is the
  * penalised likelihood density estimator of Silverman (1982), On the estimation of a probability
  * density function by the maximum penalized likelihood method, Ann. Statist. 10(3) (from memory),
  * written in Bayes-space coordinates.
  *
+ * <h2>Reference prior: regions without events</h2>
+ * Where a unit has no events (a run of empty bins at one end, as when values below a detection
+ * limit are not reported or are set to the limit), the likelihood says only that the density is
+ * small there, not how small. With the roughness penalty alone the estimate there is pure
+ * extrapolation: a second-derivative penalty continues the slope at the edge of the data, and when
+ * the data end abruptly the criterion picks a small λ and the clr dives far below anything the
+ * data support (to −100 and below on the simulated network of the examples' clipped-network test,
+ * −2,500 at worst); those units then rule every B2 distance, FPCA and kriging. The term
+ * (w / (2 P(I))) ‖c‖² is a Gaussian prior c ~ N(0, (P(I)/w) I) centred at the reference density,
+ * the neutral element of B2(P), and isotropic in its geometry (van den Boogaart, Egozcue &amp;
+ * Pawlowsky-Glahn (2014), Bayes Hilbert spaces, Aust. N. Z. J. Stat. 56(2); from memory). Its
+ * precision is the Fisher information of w observations drawn from the reference (the
+ * per-observation information of the coordinates there is Cov(e) = I / P(I), e orthonormal with
+ * zero P-integral), so with w = 1 it is the unit-information prior of Kass &amp; Wasserman (1995), A
+ * reference Bayesian test for nested hypotheses and its relationship to the Schwarz criterion,
+ * JASA 90(431) (from memory): where there are N events it weighs as one observation among N (a
+ * change of order 1/N); where there are none it sets the level, balancing N f(x) ≈ (w / P(I))
+ * |clr(x)| for the P-density f, i.e. the clr settles where the expected number of events in the
+ * empty region is of order one instead of diving without limit. It also makes the penalised
+ * information positive definite in every direction. On the clipped network (56 units, 1,000–4,000
+ * events over 40 bins, eight with 10–15 empty low bins) it brought the leave-one-out
+ * ordinary-kriging error from the level of the mean-density baseline (ratio ≈ 1) to 0.3–0.6 of it
+ * and the FPCA first-component share from 0.03–0.19 away from that of the true densities to
+ * 0.00–0.04 (ten networks). Measured alternatives that did less: a penalty that also damps the
+ * slope (adding κ ∫ clr'², κ up to 100/(b − a)²: no change); one pseudo-event spread over the bins
+ * like the reference (the conjugate prior of Diaconis &amp; Ylvisaker (1979), Conjugate priors for
+ * exponential families, Ann. Statist. 7(2); from memory), whose cost grows only linearly with the
+ * depth of the dive (dives to −30 remained); a floor on λ (g ≥ −1), which oversmoothed the units
+ * with data. A reference measure weighted towards where the network's data lie (B2(P) with P the
+ * pooled histogram; a choice of the space, {@link BayesSpace#withReference}) also helped and
+ * combines with the prior. {@link #withReferencePrior}(0) restores the plain penalised likelihood.
+ *
  * <h2>Algorithm</h2>
  * Damped Newton on the K raw B-spline coefficients (local support: O(Q W²) per iteration for Q
  * quadrature nodes and W = spline order), with log-sum-exp normalisation, the observed
  * information when it is positive definite and Fisher scoring otherwise, and step halving
- * (Armijo). Converged when the Newton decrement Φ'·Δ ≤ tol (1 + |Φ|). A unit that does not
+ * (Armijo). Every accepted step is taken; converged after a full Newton step Δ with Newton
+ * decrement Φ'·Δ ≤ tol (1 + |Φ|) and coordinate step ‖Δc‖∞ ≤ √tol (1 + ‖c‖∞), so the remaining
+ * error is of the order of the square of that step (tested against an independent maximiser to
+ * 10⁻⁸). When the predicted gain is below what Φ can resolve (10⁻¹¹ (1 + |Φ|)) the full step is
+ * taken without the Armijo test. A unit that does not
  * converge is returned with status {@link EstimationDiagnostics.Status#NOT_CONVERGED} and the
  * reason; nothing is returned silently. {@link #newtonCost} gives the flop count of an iteration.
  *
@@ -61,7 +98,8 @@ import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DD
  *
  * <h2>Covariance</h2>
  * The reported coordinate covariance is the sandwich J⁻¹ M J⁻¹ of the first-order (Newton)
- * linearisation ĉ − c_λ ≈ J⁻¹ ∇ℓ(c_λ) around the penalised target c_λ, with J = F + 2λΩ, F the
+ * linearisation ĉ − c_λ ≈ J⁻¹ ∇ℓ(c_λ) around the penalised target c_λ, with J = F + 2λΩ +
+ * (w / P(I)) I (the reference prior's precision included), F the
  * expected Fisher information of the unpenalised log-likelihood at the estimate (multinomial:
  * F = N(Σ_j π_j m_j m_j' − m m'), m_j the mean of the basis functions over bin j under the fit;
  * samples: (Σ w_i²) Cov_f(e)) and edf = tr(J⁻¹F). The meat M estimates the variance of the score
@@ -92,7 +130,9 @@ import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DD
  * Wood, Pya &amp; Säfken (2016), Smoothing parameter and model selection for general smooth
  * models, JASA 111, §3; from memory); without it, reported / empirical traces over replicates with
  * their own λ̂ were 0.92, 0.74 and 0.51 at 2,000, 100 and 40 events (normal truth), with it 0.98,
- * 0.91 and 0.81 (mixture truth: 0.93, 0.79, 0.74). With the other criteria the variability of λ̂
+ * 0.91 and 0.81 (mixture truth: 0.93, 0.79, 0.74); these figures are from before the reference
+ * prior, with which the same normal-truth replicates gave 0.98, 0.95 and 0.91. With the other
+ * criteria the variability of λ̂
  * is not included (AICc picks λ over five decades on such replicates; reported / empirical
  * 0.2–0.3). With strong undersmoothing (λ far below the chosen one) the linearisation itself
  * under-reports.
@@ -111,6 +151,11 @@ public final class PenalizedLikelihoodEstimator {
     private static final double SMOOTHING_STEP = 0.25;
     /** Task name of the progress reports of batch fits. */
     public static final String PROGRESS_TASK = "penalised likelihood";
+    /**
+     * Default weight of the reference prior, in observations: 1, the unit-information prior (see the
+     * class documentation).
+     */
+    public static final double DEFAULT_PRIOR_WEIGHT = 1.0;
 
     private final BayesSpace space;
     private final int penaltyOrder;
@@ -136,12 +181,16 @@ public final class PenalizedLikelihoodEstimator {
     private final BinLayout domain;
     private final double domainScale;
     private final int penaltyRank;
+    private final double priorWeight;
+    /** Raw K × K matrix Q of the reference prior β'Qβ = (w / (2 P(I))) ‖c‖², or null when w = 0. */
+    private final double[] prior;
 
     private PenalizedLikelihoodEstimator(BayesSpace space, int penaltyOrder, double fixedLambda,
             SmoothingCriterion criterion, int folds, long seed, double gridLo, double gridHi, double gridStep,
             int maxIterations, double tolerance, int points, ZeroTotalPolicy zeroTotal, boolean fractional,
-            boolean parallel, ProgressListener progress) {
+            boolean parallel, ProgressListener progress, double priorWeight) {
         this.space = space;
+        this.priorWeight = priorWeight;
         this.penaltyOrder = penaltyOrder;
         this.fixedLambda = fixedLambda;
         this.criterion = criterion;
@@ -164,6 +213,39 @@ public final class PenalizedLikelihoodEstimator {
         this.domain = new BinLayout(space, new double[] {space.lower(), space.upper()}, points);
         this.domainScale = scale(domain, false);
         this.penaltyRank = rank(rawPenalty, k);
+        if (priorWeight > 0) {
+            // (w / (2 P(I))) c'c with c = U β: raw matrix (w / (2 P(I))) U'U
+            double eps = priorWeight / (2 * space.referenceMass());
+            double[] q = new double[k * k];
+            for (int i = 0; i < k; i++) {
+                for (int j = 0; j < k; j++) {
+                    double s = 0;
+                    for (int m = 0; m <= Math.min(i, j); m++) {
+                        s += u[m * k + i] * u[m * k + j];
+                    }
+                    q[i * k + j] = eps * s;
+                }
+            }
+            this.prior = q;
+        } else {
+            this.prior = null;
+        }
+    }
+
+    /** log det(2λP + 2Q) (raw coordinates), or NaN if not positive definite. */
+    private double logDetPrior(double lambda) {
+        double[] m = new double[k * k];
+        for (int i = 0; i < k * k; i++) {
+            m[i] = 2 * lambda * rawPenalty[i] + 2 * prior[i];
+        }
+        if (!PenalizedNewton.cholesky(m, k, k)) {
+            return Double.NaN;
+        }
+        double ld = 0;
+        for (int i = 0; i < k; i++) {
+            ld += Math.log(m[i * k + i]);
+        }
+        return 2 * ld;
     }
 
     /** Numerical rank of a symmetric positive semi-definite K × K matrix (eigenvalues above 10⁻⁹ max). */
@@ -189,7 +271,7 @@ public final class PenalizedLikelihoodEstimator {
             long s, double lo, double hi, double st, int maxIt, double tol, int pts, ZeroTotalPolicy zt,
             boolean frac, boolean par) {
         return new PenalizedLikelihoodEstimator(space, order, lambda, crit, nFolds, s, lo, hi, st, maxIt, tol, pts,
-                zt, frac, par, progress);
+                zt, frac, par, progress, priorWeight);
     }
 
     /**
@@ -206,7 +288,7 @@ public final class PenalizedLikelihoodEstimator {
         int order = Math.min(2, RoughnessPenalty.maxOrder(space.basis()));
         return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.MARGINAL_LIKELIHOOD, 5,
                 1L, -6, 3, 1,
-                100, 1e-12, 0, ZeroTotalPolicy.REJECT, false, true, ProgressListener.NONE);
+                100, 1e-12, 0, ZeroTotalPolicy.REJECT, false, true, ProgressListener.NONE, DEFAULT_PRIOR_WEIGHT);
     }
 
     /**
@@ -265,6 +347,31 @@ public final class PenalizedLikelihoodEstimator {
         }
         return copy(penaltyOrder, fixedLambda, criterion, folds, seed, log10Lo, log10Hi, step, maxIterations,
                 tolerance, points, zeroTotal, fractional, parallel);
+    }
+
+    /**
+     * Weight w ≥ 0 of the reference prior, in observations: the objective subtracts
+     * (w / (2 P(I))) ‖c‖²_B, a Gaussian prior centred at the reference density (the neutral element)
+     * with the information of w observations drawn from it (default
+     * {@value #DEFAULT_PRIOR_WEIGHT}, the unit-information prior; see the class documentation). 0
+     * removes it and gives the plain penalised likelihood, whose estimate in regions without events
+     * is then limited by the roughness penalty alone.
+     *
+     * @param observations finite weight ≥ 0
+     */
+    public PenalizedLikelihoodEstimator withReferencePrior(double observations) {
+        if (!(observations >= 0) || Double.isInfinite(observations)) {
+            throw new IllegalArgumentException("reference prior weight must be finite and >= 0 (in observations; 0"
+                    + " removes the prior), got " + observations);
+        }
+        return new PenalizedLikelihoodEstimator(space, penaltyOrder, fixedLambda, criterion, folds, seed, gridLo,
+                gridHi, gridStep, maxIterations, tolerance, points, zeroTotal, fractional, parallel, progress,
+                observations);
+    }
+
+    /** The weight of the reference prior in observations (see {@link #withReferencePrior}). */
+    public double referencePriorWeight() {
+        return priorWeight;
     }
 
     /** Maximum Newton iterations per fit (≥ 1). */
@@ -328,7 +435,7 @@ public final class PenalizedLikelihoodEstimator {
     public PenalizedLikelihoodEstimator withProgressListener(ProgressListener listener) {
         Objects.requireNonNull(listener, "listener");
         return new PenalizedLikelihoodEstimator(space, penaltyOrder, fixedLambda, criterion, folds, seed, gridLo,
-                gridHi, gridStep, maxIterations, tolerance, points, zeroTotal, fractional, parallel, listener);
+                gridHi, gridStep, maxIterations, tolerance, points, zeroTotal, fractional, parallel, listener, priorWeight);
     }
 
     /** The space. */
@@ -449,7 +556,7 @@ public final class PenalizedLikelihoodEstimator {
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
         ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
-            PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty);
+            PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
             eng.coordinateMap = u;
             eng.startMap = startMap;
             eng.startConst = startConst;
@@ -558,7 +665,7 @@ public final class PenalizedLikelihoodEstimator {
         int width = basis.supportWidth();
         ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
-            PenalizedNewton eng = new PenalizedNewton(domain, rawPenalty);
+            PenalizedNewton eng = new PenalizedNewton(domain, rawPenalty, prior);
             eng.coordinateMap = u;
             double[] scratch = new double[basis.scratchSize()];
             int i1 = Math.min(n, (blk + 1) * UNITS_PER_BLOCK);
@@ -626,7 +733,7 @@ public final class PenalizedLikelihoodEstimator {
 
     /** Scale s with λ = N s 10^g: tr(F₁) / tr(P), F₁ the per-event information at the reference. */
     private double scale(BinLayout lay, boolean countsMode) {
-        PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty);
+        PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
         eng.counts = countsMode ? new double[lay.bins] : null;
         eng.total = 1.0;
         eng.total2 = 1.0;
@@ -937,6 +1044,10 @@ public final class PenalizedLikelihoodEstimator {
                 double ld = eng.logDetJ;
                 if (!(lambda > 0) || Double.isNaN(ld)) {
                     return Double.POSITIVE_INFINITY;
+                }
+                if (prior != null) {
+                    return -2 * loglik + 2 * lambda * eng.penalty(eng.beta) + 2 * eng.priorPenalty(eng.beta) + ld
+                            - logDetPrior(lambda);
                 }
                 return -2 * loglik + 2 * lambda * eng.penalty(eng.beta) + ld - penaltyRank * Math.log(2 * lambda);
             }

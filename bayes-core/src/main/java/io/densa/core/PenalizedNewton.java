@@ -27,6 +27,8 @@ final class PenalizedNewton {
     final int k;
     final int k1;
     private final double[] pen;
+    /** Fixed quadratic prior β'Qβ subtracted from Φ (raw K × K), or null. */
+    final double[] prior;
 
     // unit data
     double[] counts; // null: sample mode
@@ -64,6 +66,12 @@ final class PenalizedNewton {
     String failure;
 
     PenalizedNewton(BinLayout lay, double[] rawPenalty) {
+        this(lay, rawPenalty, null);
+    }
+
+    /** With a fixed quadratic prior term β'Qβ (raw K × K, already weighted; null for none). */
+    PenalizedNewton(BinLayout lay, double[] rawPenalty, double[] prior) {
+        this.prior = prior;
         this.lay = lay;
         this.k = lay.k;
         this.k1 = k + 1;
@@ -113,12 +121,21 @@ final class PenalizedNewton {
 
     /** β'Pβ over the first K coefficients. */
     double penalty(double[] b) {
+        return quadratic(pen, b);
+    }
+
+    /** β'Qβ of the prior (0 without one). */
+    double priorPenalty(double[] b) {
+        return prior == null ? 0.0 : quadratic(prior, b);
+    }
+
+    private double quadratic(double[] m, double[] b) {
         double s = 0;
         for (int i = 0; i < k; i++) {
             double r = 0;
             int o = i * k;
             for (int j = 0; j < k; j++) {
-                r += pen[o + j] * b[j];
+                r += m[o + j] * b[j];
             }
             s += b[i] * r;
         }
@@ -178,7 +195,7 @@ final class PenalizedNewton {
         if (Double.isNaN(ll)) {
             ll = Double.NEGATIVE_INFINITY;
         }
-        return ll - lambda * penalty(b);
+        return ll - lambda * penalty(b) - priorPenalty(b);
     }
 
     /**
@@ -186,6 +203,11 @@ final class PenalizedNewton {
      * be beta), into grad and hess (full symmetric, stride k1).
      */
     void derivatives(double lambda, boolean expected) {
+        derivatives(lambda, expected, true);
+    }
+
+    /** As {@link #derivatives(double, boolean)}; without the penalty and prior when not penalised. */
+    void derivatives(double lambda, boolean expected, boolean penalised) {
         Arrays.fill(grad, 0.0);
         Arrays.fill(hess, 0.0);
         Arrays.fill(mvec, 0.0);
@@ -292,6 +314,22 @@ final class PenalizedNewton {
             grad[i] += linear[i];
         }
         symmetrize();
+        if (!penalised) {
+            return;
+        }
+        if (prior != null) {
+            for (int i = 0; i < k; i++) {
+                double r = 0;
+                int o = i * k;
+                int row = i * k1;
+                for (int j = 0; j < k; j++) {
+                    double p = prior[o + j];
+                    r += p * beta[j];
+                    hess[row + j] += 2 * p;
+                }
+                grad[i] -= 2 * r;
+            }
+        }
         if (lambda != 0.0) {
             for (int i = 0; i < k; i++) {
                 double r = 0;
@@ -506,7 +544,7 @@ final class PenalizedNewton {
      * observed information for samples.
      */
     void fisherInformation() {
-        derivatives(0.0, true);
+        derivatives(0.0, true, false);
         double f = counts == null ? total2 / total : 1.0;
         for (int i = 0; i < k; i++) {
             for (int j = 0; j < k; j++) {
@@ -638,7 +676,7 @@ final class PenalizedNewton {
     double sandwich(double lambda, double[] u, double[] cov, boolean robust) {
         final int n = k;
         for (int i = 0; i < n * n; i++) {
-            solveA[i] = fisher[i] + 2 * lambda * pen[i];
+            solveA[i] = fisher[i] + 2 * lambda * pen[i] + (prior == null ? 0.0 : 2 * prior[i]);
         }
         if (!cholesky(solveA, n, n)) {
             logDetJ = Double.NaN;

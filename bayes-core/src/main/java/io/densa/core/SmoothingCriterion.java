@@ -33,7 +33,15 @@ public enum SmoothingCriterion {
      * Statist. 13(4); Wood (2011), Fast stable restricted maximum likelihood and marginal likelihood
      * estimation of semiparametric generalized linear models, J. R. Stat. Soc. B 73(1) (both from
      * memory). Unlike AIC-type criteria it accounts for the unpenalised null space through r and
-     * does not need N ≫ edf.
+     * does not need N ≫ edf. With the reference prior of {@link PenalizedLikelihoodEstimator}
+     * (weight w &gt; 0, the default) the prior on c is the proper N(0, (2λΩ + (w/P(I)) I)⁻¹) and the
+     * criterion is
+     * <pre>
+     *   V(λ) = −2ℓ(ĉ) + 2λ ĉ'Ωĉ + (w/P(I)) ‖ĉ‖² + log det(F + 2λΩ + (w/P(I)) I)
+     *          − log det(2λΩ + (w/P(I)) I),
+     * </pre>
+     * the same Laplace approximation with the prior's exact normalising constant in place of
+     * r log(2λ).
      */
     MARGINAL_LIKELIHOOD,
     /**

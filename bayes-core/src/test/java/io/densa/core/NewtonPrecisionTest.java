@@ -48,6 +48,13 @@ class NewtonPrecisionTest {
         check(t.counts(20_000, 40, rng(101)), null, 40);
     }
 
+    /** The plain penalised likelihood (reference prior removed), dense counts. */
+    @Test
+    void denseCountsWithoutReferencePriorAreTheExactMaximiser() {
+        Truth t = EstimationTestSupport.mixture();
+        check(t.counts(20_000, 40, rng(105)), null, 40, 0.0);
+    }
+
     @Test
     void sparseCountsAreTheExactMaximiser() {
         Truth t = EstimationTestSupport.mixture();
@@ -65,12 +72,16 @@ class NewtonPrecisionTest {
     }
 
     private static void check(int[] counts, double[] sample, int bins) {
+        check(counts, sample, bins, PenalizedLikelihoodEstimator.DEFAULT_PRIOR_WEIGHT);
+    }
+
+    private static void check(int[] counts, double[] sample, int bins, double priorWeight) {
         BayesSpace space = BayesSpace.splines(0, 1, 4, KNOTS);
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space).withReferencePrior(priorWeight);
         UnitEstimate fit = counts != null ? est.fit(edges(0, 1, bins), counts) : est.fitSample(sample);
         assertTrue(fit.diagnostics().converged(), fit.diagnostics().toString());
         double lambda = fit.diagnostics().smoothing();
-        Objective phi = new Objective(space, counts, sample, bins, lambda, 0.0);
+        Objective phi = new Objective(space, counts, sample, bins, lambda, est.referencePriorWeight());
         double[] exact = phi.maximise();
         double[] c = fit.density().coordinates();
         double maxDiff = 0;
