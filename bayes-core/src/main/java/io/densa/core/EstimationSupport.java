@@ -177,4 +177,101 @@ final class EstimationSupport {
         }
         return s;
     }
+
+    /** η(x_q) = φ(x_q)·β at node q of a layout (β of length K + 1, β[K] = 0). */
+    private static double eta(BinLayout lay, int q, double[] beta) {
+        int w = lay.width, f = lay.first[q], base = q * w;
+        double s = 0;
+        for (int i = 0; i < w; i++) {
+            s += lay.vals[base + i] * beta[f + i];
+        }
+        return s;
+    }
+
+    /**
+     * Share of the squared B2 norm of an estimate that lies deeper than its data can tell apart
+     * (see {@link EstimationDiagnostics#extrapolationShare()}): with clr = φ·β − m (m the P-mean of
+     * φ·β over the domain), Z = ∫ e^{clr} dP, and for every region E_j without events (an empty bin,
+     * or a part of the domain outside the bins) of reference mass P_j the detection level
+     * c*_j = log(Z / (N P_j)), at which a constant clr would give the region one expected event,
+     * <pre>
+     *   share = Σ_j ∫_{E_j} (c*_j − clr)₊² dP / ‖c‖²,
+     * </pre>
+     * clamped to [0, 1]; 0 for the reference density (‖c‖ = 0). Integrals by the layouts'
+     * quadrature; the parts of the domain outside the bins by the domain layout's nodes there.
+     *
+     * @param domain layout of [a, b] (one bin)
+     * @param bins   layout of the bins
+     * @param empty  per bin of {@code bins}: whether it had no events
+     * @param beta   raw coefficients, length K + 1
+     * @param normSq ‖c‖² of the estimate
+     * @param total  number of events N (or total weight), &gt; 0
+     */
+    static double extrapolationShare(BinLayout domain, BinLayout bins, boolean[] empty, double[] beta,
+            double normSq, double total) {
+        if (!(normSq > 0)) {
+            return 0.0;
+        }
+        int nq = domain.nodes;
+        double[] eta = new double[nq];
+        double sw = 0, se = 0;
+        for (int q = 0; q < nq; q++) {
+            eta[q] = eta(domain, q, beta);
+            sw += domain.weight[q];
+            se += domain.weight[q] * eta[q];
+        }
+        double m = se / sw;
+        double max = Double.NEGATIVE_INFINITY;
+        for (int q = 0; q < nq; q++) {
+            max = Math.max(max, eta[q]);
+        }
+        double z = 0;
+        for (int q = 0; q < nq; q++) {
+            z += domain.weight[q] * Math.exp(eta[q] - max);
+        }
+        double logZ = max - m + Math.log(z); // log ∫ e^{clr} dP
+        double deep = 0;
+        for (int j = 0; j < bins.bins; j++) {
+            if (!empty[j]) {
+                continue;
+            }
+            double pj = 0;
+            for (int q = bins.binStart[j]; q < bins.binStart[j + 1]; q++) {
+                pj += bins.weight[q];
+            }
+            if (!(pj > 0)) {
+                continue;
+            }
+            double level = logZ - Math.log(total * pj);
+            for (int q = bins.binStart[j]; q < bins.binStart[j + 1]; q++) {
+                double d = level - (eta(bins, q, beta) - m);
+                if (d > 0) {
+                    deep += bins.weight[q] * d * d;
+                }
+            }
+        }
+        // parts of the domain outside the bins: below the first edge and above the last
+        double lo = bins.edges[0], hi = bins.edges[bins.edges.length - 1];
+        for (int side = 0; side < 2; side++) {
+            double pj = 0;
+            for (int q = 0; q < nq; q++) {
+                if (side == 0 ? domain.x[q] < lo : domain.x[q] > hi) {
+                    pj += domain.weight[q];
+                }
+            }
+            if (!(pj > 0)) {
+                continue;
+            }
+            double level = logZ - Math.log(total * pj);
+            for (int q = 0; q < nq; q++) {
+                if (side == 0 ? domain.x[q] < lo : domain.x[q] > hi) {
+                    double d = level - (eta[q] - m);
+                    if (d > 0) {
+                        deep += domain.weight[q] * d * d;
+                    }
+                }
+            }
+        }
+        return Math.max(0.0, Math.min(1.0, deep / normSq));
+    }
 }

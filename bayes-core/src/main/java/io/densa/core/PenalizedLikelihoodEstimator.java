@@ -702,9 +702,28 @@ public final class PenalizedLikelihoodEstimator {
         final double[] w;
         final double[] linear;
         final int width;
+        /** Smallest and largest value with positive weight. */
+        final double min;
+        final double max;
+        /** Total weight. */
+        final double total;
 
         SampleData(double[] v, double[] weights, Basis basis, int width, int k, double[] scratch) {
             n = v.length;
+            double lo = Double.POSITIVE_INFINITY, hi = Double.NEGATIVE_INFINITY;
+            for (int i = 0; i < n; i++) {
+                if (weights == null || weights[i] > 0) {
+                    lo = Math.min(lo, v[i]);
+                    hi = Math.max(hi, v[i]);
+                }
+            }
+            min = lo;
+            max = hi;
+            double tw = 0;
+            for (int i = 0; i < n; i++) {
+                tw += weights == null ? 1.0 : weights[i];
+            }
+            total = tw;
             this.width = width;
             first = new int[n];
             vals = new double[n * width];
@@ -728,7 +747,7 @@ public final class PenalizedLikelihoodEstimator {
     private EstimationDiagnostics emptyUnit(String id) {
         return new EstimationDiagnostics(id, EstimationDiagnostics.Status.EMPTY_UNIT_REFERENCE,
                 "no events (zero total); the reference density is returned", Double.NaN, false, criterion, Double.NaN,
-                0.0, 0.0, 0.0, 0, EstimationSupport.infiniteCovariance(k), Double.POSITIVE_INFINITY);
+                0.0, 0.0, 0.0, 0, EstimationSupport.infiniteCovariance(k), Double.POSITIVE_INFINITY, 1.0);
     }
 
     /** Scale s with λ = N s 10^g: tr(F₁) / tr(P), F₁ the per-event information at the reference. */
@@ -930,9 +949,47 @@ public final class PenalizedLikelihoodEstimator {
                 throw new DensaException("unit " + id + ": estimate is not finite (" + reason + ")", null);
             }
         }
+        double normSq = 0;
+        for (int i = 0; i < k; i++) {
+            normSq += out[index * k + i] * out[index * k + i];
+        }
+        double share = eng.counts != null ? countsShare(eng, normSq) : sampleShare(sample, eng.beta, normSq);
         return new EstimationDiagnostics(id, ok ? EstimationDiagnostics.Status.CONVERGED
                 : EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose, criterion, crit, edf, loglik,
-                eng.total, iterations, cov, EstimationSupport.trace(cov, k));
+                eng.total, iterations, cov, EstimationSupport.trace(cov, k), share);
+    }
+
+    /** Extrapolation share of a counts unit: bins without events and the domain outside the bins. */
+    private double countsShare(PenalizedNewton eng, double normSq) {
+        boolean[] empty = new boolean[eng.lay.bins];
+        for (int j = 0; j < empty.length; j++) {
+            empty[j] = !(eng.counts[j] > 0);
+        }
+        return EstimationSupport.extrapolationShare(domain, eng.lay, empty, eng.beta, normSq, eng.total);
+    }
+
+    /** Extrapolation share of a sample: the domain below its smallest and above its largest value. */
+    private double sampleShare(SampleData sample, double[] beta, double normSq) {
+        double a = space.lower(), b = space.upper();
+        double lo = sample.min, hi = sample.max;
+        if (!(hi > lo)) {
+            return normSq > 0 ? 1.0 : 0.0; // a single distinct value: everything else is extrapolated
+        }
+        double[] e = new double[4];
+        boolean[] empty = new boolean[3];
+        int m = 0;
+        e[m] = a;
+        if (lo > a) {
+            empty[m] = true;
+            e[++m] = lo;
+        }
+        e[++m] = hi;
+        if (hi < b) {
+            empty[m] = true;
+            e[++m] = b;
+        }
+        BinLayout lay = new BinLayout(space, Arrays.copyOf(e, m + 1), points);
+        return EstimationSupport.extrapolationShare(domain, lay, Arrays.copyOf(empty, m), beta, normSq, sample.total);
     }
 
     /**

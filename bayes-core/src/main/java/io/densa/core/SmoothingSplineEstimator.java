@@ -225,6 +225,7 @@ public final class SmoothingSplineEstimator {
         }
         Design des = new Design(edges);
         BinLayout lay = new BinLayout(space, edges, 4);
+        BinLayout whole = new BinLayout(space, new double[] {space.lower(), space.upper()}, 4);
         double[] out = new double[n * k];
         EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
@@ -241,7 +242,7 @@ public final class SmoothingSplineEstimator {
                     diag[i] = new EstimationDiagnostics(id, EstimationDiagnostics.Status.EMPTY_UNIT_REFERENCE,
                             "no events (zero total); the reference density is returned", Double.NaN, false,
                             SmoothingCriterion.GCV, Double.NaN, 0.0, 0.0, 0.0, 0,
-                            EstimationSupport.infiniteCovariance(k), Double.POSITIVE_INFINITY);
+                            EstimationSupport.infiniteCovariance(k), Double.POSITIVE_INFINITY, 1.0);
                     continue;
                 }
                 double yy = des.transform(counts[i], edges, EstimationSupport.unit(ids, i), z);
@@ -257,9 +258,18 @@ public final class SmoothingSplineEstimator {
                 eng.counts = counts[i];
                 eng.total = totals[i];
                 eng.evaluate(eng.beta, 0.0);
+                boolean[] empty = new boolean[lay.bins];
+                double normSq = 0;
+                for (int j = 0; j < lay.bins; j++) {
+                    empty[j] = !(counts[i][j] > 0);
+                }
+                for (int c = 0; c < k; c++) {
+                    normSq += out[i * k + c] * out[i * k + c];
+                }
+                double share = EstimationSupport.extrapolationShare(whole, lay, empty, eng.beta, normSq, totals[i]);
                 diag[i] = new EstimationDiagnostics(id, EstimationDiagnostics.Status.CONVERGED, "", lambda, choose,
                         SmoothingCriterion.GCV, g[0], g[2], eng.loglik, totals[i], 0, cov,
-                        EstimationSupport.trace(cov, k));
+                        EstimationSupport.trace(cov, k), share);
             }
             done.advance(i1 - blk * UNITS_PER_BLOCK);
         });
