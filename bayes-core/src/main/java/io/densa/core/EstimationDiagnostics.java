@@ -19,12 +19,17 @@ import org.ejml.data.DMatrixRMaj;
  * @param id                        the unit's id, or "#i" for row i when no ids were given
  * @param status                    outcome of the fit
  * @param reason                    human-readable explanation when the status is not
- *                                  {@link Status#CONVERGED}, else empty
+ *                                  {@link Status#CONVERGED}; for a converged fit empty, or a note
+ *                                  saying why the criterion value is +∞ (the criterion is undefined
+ *                                  at that λ, e.g. AICc with N ≤ edf + 1, GCV with edf ≥ the number
+ *                                  of bins, the marginal likelihood at λ = 0 without the reference
+ *                                  prior)
  * @param smoothing                 the smoothing parameter λ used
  * @param smoothingChosen           whether λ was chosen by the criterion (false: fixed by the
  *                                  user)
  * @param criterion                 the criterion used to choose (or reported at fixed) λ
- * @param criterionValue            its value at λ (smaller is better)
+ * @param criterionValue            its value at λ (smaller is better); +∞ where the criterion is
+ *                                  undefined, with the reason
  * @param effectiveDegreesOfFreedom edf = tr(J⁻¹F) (penalised likelihood) or tr(hat matrix)
  *                                  (least squares)
  * @param logLikelihood             the log-likelihood at the estimate (multinomial without the

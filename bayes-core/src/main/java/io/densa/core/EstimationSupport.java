@@ -15,8 +15,17 @@ final class EstimationSupport {
     }
 
     static void checkIds(String[] ids, int n) {
-        if (ids != null && ids.length != n) {
+        if (ids == null) {
+            return;
+        }
+        if (ids.length != n) {
             throw new IllegalArgumentException("ids has " + ids.length + " entries for " + n + " units");
+        }
+        for (int i = 0; i < n; i++) {
+            if (ids[i] == null) {
+                throw new IllegalArgumentException("id of unit row " + i + " is null; give every unit an id or pass"
+                        + " ids = null (rows are then named #0, #1, …)");
+            }
         }
     }
 

@@ -376,19 +376,35 @@ public final class PenalizedLikelihoodEstimator {
         return priorWeight;
     }
 
-    /** Maximum Newton iterations per fit (≥ 1). */
+    /** Largest accepted {@link #withMaxIterations} value. */
+    public static final int MAX_ITERATIONS_LIMIT = 10_000;
+    /** Smallest accepted {@link #withTolerance} value (below it the criterion is under double rounding). */
+    public static final double MIN_TOLERANCE = 1e-15;
+    /** Largest accepted {@link #withTolerance} value. */
+    public static final double MAX_TOLERANCE = 1e-3;
+
+    /**
+     * Maximum Newton iterations per fit, 1..{@value #MAX_ITERATIONS_LIMIT} (default 100; a fit that
+     * converges takes a handful).
+     */
     public PenalizedLikelihoodEstimator withMaxIterations(int n) {
-        if (n < 1) {
-            throw new IllegalArgumentException("max iterations must be >= 1, got " + n);
+        if (n < 1 || n > MAX_ITERATIONS_LIMIT) {
+            throw new IllegalArgumentException("max iterations must be in [1, " + MAX_ITERATIONS_LIMIT + "], got " + n);
         }
         return copy(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, n, tolerance,
                 points, zeroTotal, fractional, parallel);
     }
 
-    /** Relative tolerance on the Newton decrement, in (0, 1). */
+    /**
+     * Convergence tolerance τ (default 10⁻¹²): a fit has converged after a full Newton step with
+     * Newton decrement ≤ τ (1 + |Φ|) and coordinate step ≤ √τ (1 + ‖c‖∞).
+     *
+     * @param tol in [{@value #MIN_TOLERANCE}, {@value #MAX_TOLERANCE}]
+     */
     public PenalizedLikelihoodEstimator withTolerance(double tol) {
-        if (!(tol > 0 && tol < 1)) {
-            throw new IllegalArgumentException("tolerance must be in (0, 1), got " + tol);
+        if (!(tol >= MIN_TOLERANCE && tol <= MAX_TOLERANCE)) {
+            throw new IllegalArgumentException("tolerance must be in [" + MIN_TOLERANCE + ", " + MAX_TOLERANCE
+                    + "] (smaller values are below the rounding of the objective), got " + tol);
         }
         return copy(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, maxIterations, tol,
                 points, zeroTotal, fractional, parallel);
@@ -938,8 +954,9 @@ public final class PenalizedLikelihoodEstimator {
             cov = EstimationSupport.infiniteCovariance(k);
         }
         double crit = criterionValue(eng, lambda, edf, loglik, cv);
-        if (!Double.isFinite(crit) && criterion == SmoothingCriterion.GCV && ok) {
-            crit = Double.POSITIVE_INFINITY; // edf ≥ number of bins: GCV undefined, reported as +∞
+        if (!Double.isFinite(crit) && ok) {
+            crit = Double.POSITIVE_INFINITY;
+            reason = undefinedCriterion(eng, lambda, edf);
         }
         if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD
                 && Double.isFinite(crit)) {
@@ -992,6 +1009,26 @@ public final class PenalizedLikelihoodEstimator {
         }
         BinLayout lay = new BinLayout(space, Arrays.copyOf(e, m + 1), points);
         return EstimationSupport.extrapolationShare(domain, lay, Arrays.copyOf(empty, m), beta, normSq, sample.total);
+    }
+
+    /** Why the criterion is +∞ at a converged fit (it is undefined there), for the diagnostics. */
+    private String undefinedCriterion(PenalizedNewton eng, double lambda, double edf) {
+        String tail = "; the fit converged, the criterion value is reported as +Infinity";
+        switch (criterion) {
+            case MARGINAL_LIKELIHOOD:
+                if (prior == null && !(lambda > 0)) {
+                    return "marginal likelihood undefined at lambda = 0 without the reference prior (its improper"
+                            + " prior has no normalising constant)" + tail;
+                }
+                break;
+            case AICC:
+                return "AICc undefined with N = " + eng.total + " <= edf + 1 = " + (edf + 1) + tail;
+            case GCV:
+                return "GCV undefined with edf = " + edf + " >= number of bins " + eng.lay.bins + tail;
+            default:
+                break;
+        }
+        return criterion + " could not be evaluated at lambda = " + lambda + tail;
     }
 
     /**
@@ -1101,12 +1138,17 @@ public final class PenalizedLikelihoodEstimator {
                 return -2 * loglik + 2 * edf;
             case MARGINAL_LIKELIHOOD: {
                 double ld = eng.logDetJ;
-                if (!(lambda > 0) || Double.isNaN(ld)) {
+                if (Double.isNaN(ld)) {
                     return Double.POSITIVE_INFINITY;
                 }
                 if (prior != null) {
-                    return -2 * loglik + 2 * lambda * eng.penalty(eng.beta) + 2 * eng.priorPenalty(eng.beta) + ld
-                            - logDetPrior(lambda);
+                    // proper prior: defined at every λ ≥ 0
+                    double lp = logDetPrior(lambda);
+                    return Double.isNaN(lp) ? Double.POSITIVE_INFINITY : -2 * loglik + 2 * lambda * eng.penalty(eng.beta)
+                            + 2 * eng.priorPenalty(eng.beta) + ld - lp;
+                }
+                if (!(lambda > 0)) {
+                    return Double.POSITIVE_INFINITY; // improper prior without normalising constant at λ = 0
                 }
                 return -2 * loglik + 2 * lambda * eng.penalty(eng.beta) + ld - penaltyRank * Math.log(2 * lambda);
             }
@@ -1129,7 +1171,7 @@ public final class PenalizedLikelihoodEstimator {
                         dev += nj * Math.log(nj / (eng.total * eng.mass[j] / z));
                     }
                 }
-                dev *= 2;
+                dev = Math.max(0.0, 2 * dev); // ≥ 0 by Gibbs' inequality; rounding can give −1e-15
                 double den = d - edf;
                 return den > 0 ? d * dev / (den * den) : Double.POSITIVE_INFINITY;
             }
@@ -1145,6 +1187,34 @@ public final class PenalizedLikelihoodEstimator {
      */
     static SplittableRandom foldStream(long seed, int index) {
         return Seeds.stream(seed, index);
+    }
+
+    /**
+     * Deals the events of each bin into folds independently with equal probabilities: for bin j
+     * with n_j events the fold counts are multinomial(n_j; 1/k, …, 1/k), drawn as successive
+     * binomials x_f ~ Bin(n_j − x_0 − … − x_{f−1}, 1/(k − f)) by inversion of the binomial
+     * distribution function (Commons Math). Memory O(D k), independent of the number of events.
+     *
+     * @throws IllegalArgumentException for a bin with more than 2³¹ − 1 events
+     */
+    static void splitCounts(double[] counts, int nf, SplittableRandom rnd, double[][] test, double[] testTotal) {
+        for (int j = 0; j < counts.length; j++) {
+            double remaining = counts[j];
+            if (remaining > Integer.MAX_VALUE) {
+                throw new IllegalArgumentException("cross-validation supports at most " + Integer.MAX_VALUE
+                        + " events per bin, bin " + j + " has " + remaining);
+            }
+            for (int f = 0; f < nf - 1 && remaining > 0; f++) {
+                double u = rnd.nextDouble();
+                double x = new org.apache.commons.math3.distribution.BinomialDistribution(null, (int) remaining,
+                        1.0 / (nf - f)).inverseCumulativeProbability(u);
+                test[f][j] = x;
+                testTotal[f] += x;
+                remaining -= x;
+            }
+            test[nf - 1][j] += remaining;
+            testTotal[nf - 1] += remaining;
+        }
     }
 
     /** Fold structure of one unit for cross-validation. */
@@ -1174,23 +1244,8 @@ public final class PenalizedLikelihoodEstimator {
             if (eng.counts != null) {
                 int d = eng.lay.bins;
                 fullCounts = eng.counts;
-                long n = Math.round(fullTotal);
-                if (n > Integer.MAX_VALUE - 8) {
-                    throw new IllegalArgumentException("cross-validation supports at most 2^31 events per unit");
-                }
-                int[] events = new int[(int) n];
-                int p = 0;
-                for (int j = 0; j < d; j++) {
-                    for (long c = Math.round(fullCounts[j]); c > 0; c--) {
-                        events[p++] = j;
-                    }
-                }
-                Seeds.shuffle(events, rnd);
                 test = new double[nf][d];
-                for (int i = 0; i < events.length; i++) {
-                    test[i % nf][events[i]] += 1;
-                    testTotal[i % nf] += 1;
-                }
+                splitCounts(fullCounts, nf, rnd, test, testTotal);
                 train = new double[d];
             } else {
                 fullCounts = null;

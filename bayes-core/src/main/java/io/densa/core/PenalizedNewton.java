@@ -199,6 +199,50 @@ final class PenalizedNewton {
     }
 
     /**
+     * The multinomial log-likelihood Σ_j n_j log(A_j / Z) of the counts at b, with a log-sum-exp
+     * shift per bin instead of one for the whole domain: finite whenever η is, also where a bin's
+     * mass underflows relative to the largest (for reporting; {@link #evaluate} is the fast path).
+     */
+    double logLikelihoodPerBinShift(double[] b) {
+        final int w = lay.width;
+        final double[] vals = lay.vals;
+        final int[] first = lay.first;
+        final double[] wt = lay.weight;
+        double[] logA = new double[lay.bins];
+        double top = Double.NEGATIVE_INFINITY;
+        for (int j = 0; j < lay.bins; j++) {
+            int q0 = lay.binStart[j], q1 = lay.binStart[j + 1];
+            double m = Double.NEGATIVE_INFINITY;
+            for (int q = q0; q < q1; q++) {
+                double s = 0;
+                for (int i = 0; i < w; i++) {
+                    s += vals[q * w + i] * b[first[q] + i];
+                }
+                eta[q] = s;
+                m = Math.max(m, s);
+            }
+            double sum = 0;
+            for (int q = q0; q < q1; q++) {
+                sum += wt[q] * Math.exp(eta[q] - m);
+            }
+            logA[j] = m + Math.log(sum);
+            top = Math.max(top, logA[j]);
+        }
+        double z = 0;
+        for (int j = 0; j < lay.bins; j++) {
+            z += Math.exp(logA[j] - top);
+        }
+        double logZ = top + Math.log(z);
+        double ll = 0;
+        for (int j = 0; j < lay.bins; j++) {
+            if (counts[j] > 0) {
+                ll += counts[j] * (logA[j] - logZ);
+            }
+        }
+        return ll;
+    }
+
+    /**
      * Gradient of Φ and the information matrix (+ 2λP) at the last evaluated point (which must
      * be beta), into grad and hess (full symmetric, stride k1).
      */

@@ -257,7 +257,7 @@ public final class SmoothingSplineEstimator {
                 eng.beta[k] = 0;
                 eng.counts = counts[i];
                 eng.total = totals[i];
-                eng.evaluate(eng.beta, 0.0);
+                double loglik = eng.logLikelihoodPerBinShift(eng.beta);
                 boolean[] empty = new boolean[lay.bins];
                 double normSq = 0;
                 for (int j = 0; j < lay.bins; j++) {
@@ -268,7 +268,7 @@ public final class SmoothingSplineEstimator {
                 }
                 double share = EstimationSupport.extrapolationShare(whole, lay, empty, eng.beta, normSq, totals[i]);
                 diag[i] = new EstimationDiagnostics(id, EstimationDiagnostics.Status.CONVERGED, "", lambda, choose,
-                        SmoothingCriterion.GCV, g[0], g[2], eng.loglik, totals[i], 0, cov,
+                        SmoothingCriterion.GCV, g[0], g[2], loglik, totals[i], 0, cov,
                         EstimationSupport.trace(cov, k), share);
             }
             done.advance(i1 - blk * UNITS_PER_BLOCK);
@@ -404,12 +404,12 @@ public final class SmoothingSplineEstimator {
 
         /** Zero replacement and clr heights; z = Ũ'y; returns ‖y‖². */
         double transform(double[] counts, double[] edges, String unit, double[] z) {
-            double[] r = new double[d];
-            zeros.replace(counts, 0, d, r, unit);
+            double[] logR = new double[d];
+            zeros.replaceLog(counts, 0, d, logR, unit);
             double[] y = new double[d];
             double mean = 0;
             for (int j = 0; j < d; j++) {
-                y[j] = Math.log(r[j]) - logWidthRef[j];
+                y[j] = logR[j] - logWidthRef[j];
                 mean += y[j];
             }
             mean /= d;
