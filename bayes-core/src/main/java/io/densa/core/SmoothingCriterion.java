@@ -53,9 +53,11 @@ public enum SmoothingCriterion {
      */
     GCV,
     /**
-     * k-fold cross-validation of the log-likelihood: events (or observations) are dealt at
-     * random, with the estimator's seed, into k folds; the criterion is minus the held-out
-     * log-likelihood summed over folds.
+     * k-fold cross-validation of the log-likelihood, with the estimator's seed: the events of each
+     * bin are assigned to the k folds independently with equal probabilities (a multinomial split
+     * per bin, drawn without listing the events, so memory does not grow with their number); raw
+     * observations are shuffled and dealt into the folds in turn. The criterion is minus the
+     * held-out log-likelihood summed over folds.
      */
     CROSS_VALIDATION
 }
