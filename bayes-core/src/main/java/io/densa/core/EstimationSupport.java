@@ -200,23 +200,25 @@ final class EstimationSupport {
     /**
      * Share of the squared B2 norm of an estimate that lies deeper than its data can tell apart
      * (see {@link EstimationDiagnostics#extrapolationShare()}): with clr = φ·β − m (m the P-mean of
-     * φ·β over the domain), Z = ∫ e^{clr} dP, and for every region E_j without events (an empty bin,
-     * or a part of the domain outside the bins) of reference mass P_j the detection level
-     * c*_j = log(Z / (N P_j)), at which a constant clr would give the region one expected event,
+     * φ·β over the domain) and Z = ∫ e^{clr} dP, for each of the two extrapolated regions E (the
+     * domain below the first bin with events, and above the last one) of reference mass P_E, the
+     * detection level c* = log(Z / (N P_E)), at which a constant clr would give the region one
+     * expected event,
      * <pre>
-     *   share = Σ_j ∫_{E_j} (c*_j − clr)₊² dP / ‖c‖²,
+     *   share = Σ_E ∫_E (c* − clr)₊² dP / ‖c‖²,
      * </pre>
      * clamped to [0, 1]; 0 for the reference density (‖c‖ = 0). Integrals by the layouts'
-     * quadrature; the parts of the domain outside the bins by the domain layout's nodes there.
+     * quadrature (the domain layout's nodes outside the bins).
      *
      * @param domain layout of [a, b] (one bin)
      * @param bins   layout of the bins
-     * @param empty  per bin of {@code bins}: whether it had no events
+     * @param first  first bin with events
+     * @param last   last bin with events
      * @param beta   raw coefficients, length K + 1
      * @param normSq ‖c‖² of the estimate
      * @param total  number of events N (or total weight), &gt; 0
      */
-    static double extrapolationShare(BinLayout domain, BinLayout bins, boolean[] empty, double[] beta,
+    static double extrapolationShare(BinLayout domain, BinLayout bins, int first, int last, double[] beta,
             double normSq, double total) {
         if (!(normSq > 0)) {
             return 0.0;
@@ -239,39 +241,30 @@ final class EstimationSupport {
             z += domain.weight[q] * Math.exp(eta[q] - max);
         }
         double logZ = max - m + Math.log(z); // log ∫ e^{clr} dP
+        double lo = bins.edges[0], hi = bins.edges[bins.edges.length - 1];
         double deep = 0;
-        for (int j = 0; j < bins.bins; j++) {
-            if (!empty[j]) {
+        for (int side = 0; side < 2; side++) {
+            int b0 = side == 0 ? 0 : last + 1;
+            int b1 = side == 0 ? first : bins.bins; // bins [b0, b1) without events on this side
+            double mass = 0;
+            for (int q = bins.binStart[b0]; q < bins.binStart[b1]; q++) {
+                mass += bins.weight[q];
+            }
+            for (int q = 0; q < nq; q++) {
+                if (side == 0 ? domain.x[q] < lo : domain.x[q] > hi) {
+                    mass += domain.weight[q];
+                }
+            }
+            if (!(mass > 0)) {
                 continue;
             }
-            double pj = 0;
-            for (int q = bins.binStart[j]; q < bins.binStart[j + 1]; q++) {
-                pj += bins.weight[q];
-            }
-            if (!(pj > 0)) {
-                continue;
-            }
-            double level = logZ - Math.log(total * pj);
-            for (int q = bins.binStart[j]; q < bins.binStart[j + 1]; q++) {
+            double level = logZ - Math.log(total * mass);
+            for (int q = bins.binStart[b0]; q < bins.binStart[b1]; q++) {
                 double d = level - (eta(bins, q, beta) - m);
                 if (d > 0) {
                     deep += bins.weight[q] * d * d;
                 }
             }
-        }
-        // parts of the domain outside the bins: below the first edge and above the last
-        double lo = bins.edges[0], hi = bins.edges[bins.edges.length - 1];
-        for (int side = 0; side < 2; side++) {
-            double pj = 0;
-            for (int q = 0; q < nq; q++) {
-                if (side == 0 ? domain.x[q] < lo : domain.x[q] > hi) {
-                    pj += domain.weight[q];
-                }
-            }
-            if (!(pj > 0)) {
-                continue;
-            }
-            double level = logZ - Math.log(total * pj);
             for (int q = 0; q < nq; q++) {
                 if (side == 0 ? domain.x[q] < lo : domain.x[q] > hi) {
                     double d = level - (eta[q] - m);

@@ -978,13 +978,16 @@ public final class PenalizedLikelihoodEstimator {
                 eng.total, iterations, cov, EstimationSupport.trace(cov, k), share);
     }
 
-    /** Extrapolation share of a counts unit: bins without events and the domain outside the bins. */
+    /** Extrapolation share of a counts unit: the domain below its first and above its last bin with events. */
     private double countsShare(PenalizedNewton eng, double normSq) {
-        boolean[] empty = new boolean[eng.lay.bins];
-        for (int j = 0; j < empty.length; j++) {
-            empty[j] = !(eng.counts[j] > 0);
+        int first = 0, last = eng.lay.bins - 1;
+        while (first < last && !(eng.counts[first] > 0)) {
+            first++;
         }
-        return EstimationSupport.extrapolationShare(domain, eng.lay, empty, eng.beta, normSq, eng.total);
+        while (last > first && !(eng.counts[last] > 0)) {
+            last--;
+        }
+        return EstimationSupport.extrapolationShare(domain, eng.lay, first, last, eng.beta, normSq, eng.total);
     }
 
     /** Extrapolation share of a sample: the domain below its smallest and above its largest value. */
@@ -995,20 +998,19 @@ public final class PenalizedLikelihoodEstimator {
             return normSq > 0 ? 1.0 : 0.0; // a single distinct value: everything else is extrapolated
         }
         double[] e = new double[4];
-        boolean[] empty = new boolean[3];
         int m = 0;
         e[m] = a;
+        int first = 0;
         if (lo > a) {
-            empty[m] = true;
             e[++m] = lo;
+            first = 1;
         }
         e[++m] = hi;
         if (hi < b) {
-            empty[m] = true;
             e[++m] = b;
         }
         BinLayout lay = new BinLayout(space, Arrays.copyOf(e, m + 1), points);
-        return EstimationSupport.extrapolationShare(domain, lay, Arrays.copyOf(empty, m), beta, normSq, sample.total);
+        return EstimationSupport.extrapolationShare(domain, lay, first, first, beta, normSq, sample.total);
     }
 
     /** Why the criterion is +∞ at a converged fit (it is undefined there), for the diagnostics. */

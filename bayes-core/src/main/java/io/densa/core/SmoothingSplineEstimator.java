@@ -258,15 +258,19 @@ public final class SmoothingSplineEstimator {
                 eng.counts = counts[i];
                 eng.total = totals[i];
                 double loglik = eng.logLikelihoodPerBinShift(eng.beta);
-                boolean[] empty = new boolean[lay.bins];
-                double normSq = 0;
-                for (int j = 0; j < lay.bins; j++) {
-                    empty[j] = !(counts[i][j] > 0);
+                int first = 0, last = lay.bins - 1;
+                while (first < last && !(counts[i][first] > 0)) {
+                    first++;
                 }
+                while (last > first && !(counts[i][last] > 0)) {
+                    last--;
+                }
+                double normSq = 0;
                 for (int c = 0; c < k; c++) {
                     normSq += out[i * k + c] * out[i * k + c];
                 }
-                double share = EstimationSupport.extrapolationShare(whole, lay, empty, eng.beta, normSq, totals[i]);
+                double share = EstimationSupport.extrapolationShare(whole, lay, first, last, eng.beta, normSq,
+                        totals[i]);
                 diag[i] = new EstimationDiagnostics(id, EstimationDiagnostics.Status.CONVERGED, "", lambda, choose,
                         SmoothingCriterion.GCV, g[0], g[2], loglik, totals[i], 0, cov,
                         EstimationSupport.trace(cov, k), share);

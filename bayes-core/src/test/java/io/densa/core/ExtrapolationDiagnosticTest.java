@@ -41,7 +41,11 @@ class ExtrapolationDiagnosticTest {
         return new IterativeLegendreGaussIntegrator(16, 1e-13, 1e-13).integrate(1_000_000, f, lo, hi);
     }
 
-    /** The definition, evaluated on the returned density: Σ_j ∫_{E_j} (c*_j − clr)₊² dx / ‖f‖². */
+    /**
+     * The definition, evaluated on the returned density: Σ_E ∫_E (c*_E − clr)₊² dx / ‖f‖², c*_E =
+     * log(Z / (N |E|)), Z = ∫ e^{clr} dx, over the regions E before the first and after the last
+     * event.
+     */
     private static double share(Density f, double[][] regions, double total) {
         double z = integrate(x -> Math.exp(f.clr(x)), 0, 1);
         double deep = 0;
@@ -61,13 +65,18 @@ class ExtrapolationDiagnosticTest {
         int[] counts = clippedCounts();
         for (double w : new double[] {0, 1}) {
             UnitEstimate e = PenalizedLikelihoodEstimator.of(SPACE).withReferencePrior(w).fit(EDGES, counts);
-            java.util.List<double[]> regions = new java.util.ArrayList<>();
-            for (int j = 0; j < 40; j++) {
-                if (counts[j] == 0) {
-                    regions.add(new double[] {EDGES[j], EDGES[j + 1]});
-                }
+            int first = 0;
+            int last = 39;
+            while (counts[first] == 0) {
+                first++;
             }
-            double expected = share(e.density(), regions.toArray(new double[0][]), 3000);
+            while (counts[last] == 0) {
+                last--;
+            }
+            // the regions below the first and above the last bin with events (the upper may be empty)
+            double[][] regions = last == 39 ? new double[][] {{0, EDGES[first]}}
+                    : new double[][] {{0, EDGES[first]}, {EDGES[last + 1], 1}};
+            double expected = share(e.density(), regions, 3000);
             assertEquals(expected, e.diagnostics().extrapolationShare(), 1e-6 + 1e-4 * expected, "prior " + w);
         }
     }

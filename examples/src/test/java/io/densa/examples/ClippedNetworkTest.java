@@ -63,7 +63,7 @@ import org.junit.jupiter.api.Test;
  * <p>With every default (unit-information reference prior): MSE ratio 0.33–0.74 (mean 0.48),
  * share deviation −0.047 … −0.012 (mean |·| 0.030), lowest clr of a clipped unit −6.7 … −10.8, at
  * most one unit per network flagged by {@link EstimationDiagnostics#extrapolated()} (the plain
- * penalised likelihood flags many more). The issue that asked for this change set two bounds
+ * penalised likelihood: 19–39 of the 56). The issue that asked for this change set two bounds
  * (not published values): MSE ratio ≤ 0.75, met on every network and asserted; FPCA share within
  * 0.02 of the true densities' share, <b>not met</b>: within 0.02 on 2 of the 10 networks. Part of
  * the gap is the sampling noise of any estimate from 1,000–4,000 values: the true densities plus
