@@ -75,7 +75,8 @@ import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DD
  * decrement Φ'·Δ ≤ tol (1 + |Φ|) and coordinate step ‖Δc‖∞ ≤ √tol (1 + ‖c‖∞), so the remaining
  * error is of the order of the square of that step (tested against an independent maximiser to
  * 10⁻⁸). When the predicted gain is below what Φ can resolve (10⁻¹¹ (1 + |Φ|)) the full step is
- * taken without the Armijo test. A unit that does not
+ * taken without the Armijo test. The fits of the smoothing-parameter search, which only need the
+ * criterion, stop on the decrement alone without that last step. A unit that does not
  * converge is returned with status {@link EstimationDiagnostics.Status#NOT_CONVERGED} and the
  * reason; nothing is returned silently. {@link #newtonCost} gives the flop count of an iteration.
  *
@@ -1117,7 +1118,7 @@ public final class PenalizedLikelihoodEstimator {
 
     /** Fits at λ from the current beta and returns the criterion (+∞ on failure). */
     private double criterionAt(PenalizedNewton eng, double lambda, Folds cv) {
-        if (!eng.solve(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE))) {
+        if (!eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE))) {
             return Double.POSITIVE_INFINITY;
         }
         double loglik = eng.loglik;
@@ -1286,7 +1287,7 @@ public final class PenalizedLikelihoodEstimator {
                     }
                     eng.counts = train;
                     eng.total = fullTotal - testTotal[f];
-                    eng.solve(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
+                    eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
                     eng.evaluate(eng.beta, lambda);
                     double logZ = Math.log(eng.zScaled);
                     for (int j = 0; j < train.length; j++) {
@@ -1301,7 +1302,7 @@ public final class PenalizedLikelihoodEstimator {
                     }
                     eng.total = fullTotal - testTotal[f];
                     eng.total2 = fullTotal2 - testTotal2[f];
-                    eng.solve(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
+                    eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
                     eng.evaluate(eng.beta, lambda);
                     double tb = 0;
                     for (int j = 0; j < k; j++) {

@@ -498,6 +498,20 @@ final class PenalizedNewton {
      * @return true on convergence; otherwise {@link #failure} says why
      */
     boolean solve(double lambda, int maxIter, double tol) {
+        return solve(lambda, maxIter, tol, true);
+    }
+
+    /**
+     * As {@link #solve(double, int, double)} for the fits of the smoothing-parameter search, whose
+     * criterion only needs Φ to O(tol (1 + |Φ|)): returns as soon as the Newton decrement is below
+     * tol (1 + |Φ|), without taking that last step (one evaluation fewer per fit; the final fit at
+     * the chosen λ uses the exact rule).
+     */
+    boolean solveForSearch(double lambda, int maxIter, double tol) {
+        return solve(lambda, maxIter, tol, false);
+    }
+
+    private boolean solve(double lambda, int maxIter, double tol, boolean exact) {
         failure = null;
         usedFisher = false;
         iterations = 0;
@@ -538,6 +552,10 @@ final class PenalizedNewton {
             double size = coordinateNorm(step) / (1 + coordinateNorm(beta));
             lastDec = dec / scale;
             lastStep = size;
+            if (!exact && dec <= tol * scale) {
+                objective = obj;
+                return true;
+            }
             double t = 1.0;
             boolean accepted = false;
             double o = obj;
