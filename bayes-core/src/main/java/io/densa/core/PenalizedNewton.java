@@ -14,11 +14,12 @@ import java.util.Arrays;
  * <li>raw samples: ℓ(β) = Σ_i w_i η(x_i) − W log Z = t·β − W log Z with t = Σ_i w_i φ(x_i),
  * W = Σ_i w_i.</li>
  * </ul>
- * The objective is Φ(β) = ℓ(β) − λ β'Pβ. Gradient ℓ' = t + Σ_q r_q φ_q with
+ * The objective is Φ(β) = ℓ(β) − λ β'Pβ − β'Qβ, Q the fixed reference prior (none when null).
+ * Gradient ℓ' = t + Σ_q r_q φ_q with
  * r_q = w_q e^{η_q}(n_{j(q)}/A_{j(q)} − N/Z). Observed information (counts)
  * −ℓ'' = N(S/Z − m m') − Σ_j n_j (S_j/A_j − m_j m_j'), m and S the mean and second moment of φ
  * under the density, m_j, S_j within bin j; expected (Fisher) information
- * F = N (Σ_j π_j m_j m_j' − m m'). The step solves (−ℓ'' + 2λP) Δ = Φ'; when the observed matrix
+ * F = N (Σ_j π_j m_j m_j' − m m'). The step solves (−ℓ'' + 2λP + 2Q) Δ = Φ'; when the observed matrix
  * is not positive definite the Fisher matrix is used (Fisher scoring). Steps are halved until
  * the Armijo condition Φ(β + tΔ) ≥ Φ(β) + 10⁻⁴ t Φ'·Δ holds.
  */
