@@ -34,6 +34,29 @@ public record BatchEstimate(DensitySet densities, List<EstimationDiagnostics> di
         return v;
     }
 
+    /** {@link EstimationDiagnostics#extrapolationShare()} of every unit, in input order. */
+    public double[] extrapolationShares() {
+        double[] v = new double[diagnostics.size()];
+        for (int i = 0; i < v.length; i++) {
+            v[i] = diagnostics.get(i).extrapolationShare();
+        }
+        return v;
+    }
+
+    /**
+     * Ids of the units whose estimate is carried by extrapolation
+     * ({@link EstimationDiagnostics#extrapolated()}), in input order ("#i" for row i without ids).
+     */
+    public List<String> extrapolatedIds() {
+        List<String> out = new ArrayList<>();
+        for (EstimationDiagnostics d : diagnostics) {
+            if (d.extrapolated()) {
+                out.add(d.id());
+            }
+        }
+        return out;
+    }
+
     /** Rows whose status is not {@link EstimationDiagnostics.Status#CONVERGED}. */
     public List<Integer> flaggedRows() {
         List<Integer> out = new ArrayList<>();

@@ -15,8 +15,17 @@ final class EstimationSupport {
     }
 
     static void checkIds(String[] ids, int n) {
-        if (ids != null && ids.length != n) {
+        if (ids == null) {
+            return;
+        }
+        if (ids.length != n) {
             throw new IllegalArgumentException("ids has " + ids.length + " entries for " + n + " units");
+        }
+        for (int i = 0; i < n; i++) {
+            if (ids[i] == null) {
+                throw new IllegalArgumentException("id of unit row " + i + " is null; give every unit an id or pass"
+                        + " ids = null (rows are then named #0, #1, …)");
+            }
         }
     }
 
@@ -176,5 +185,95 @@ final class EstimationSupport {
             s += m[i * k + i];
         }
         return s;
+    }
+
+    /** η(x_q) = φ(x_q)·β at node q of a layout (β of length K + 1, β[K] = 0). */
+    private static double eta(BinLayout lay, int q, double[] beta) {
+        int w = lay.width, f = lay.first[q], base = q * w;
+        double s = 0;
+        for (int i = 0; i < w; i++) {
+            s += lay.vals[base + i] * beta[f + i];
+        }
+        return s;
+    }
+
+    /**
+     * Share of the squared B2 norm of an estimate that lies deeper than its data can tell apart
+     * (see {@link EstimationDiagnostics#extrapolationShare()}): with clr = φ·β − m (m the P-mean of
+     * φ·β over the domain) and Z = ∫ e^{clr} dP, for each of the two extrapolated regions E (the
+     * domain below the first bin with events, and above the last one) of reference mass P_E, the
+     * detection level c* = log(Z / (N P_E)), at which a constant clr would give the region one
+     * expected event,
+     * <pre>
+     *   share = Σ_E ∫_E (c* − clr)₊² dP / ‖c‖²,
+     * </pre>
+     * clamped to [0, 1]; 0 for the reference density (‖c‖ = 0). Integrals by the layouts'
+     * quadrature (the domain layout's nodes outside the bins).
+     *
+     * @param domain layout of [a, b] (one bin)
+     * @param bins   layout of the bins
+     * @param first  first bin with events
+     * @param last   last bin with events
+     * @param beta   raw coefficients, length K + 1
+     * @param normSq ‖c‖² of the estimate
+     * @param total  number of events N (or total weight), &gt; 0
+     */
+    static double extrapolationShare(BinLayout domain, BinLayout bins, int first, int last, double[] beta,
+            double normSq, double total) {
+        if (!(normSq > 0)) {
+            return 0.0;
+        }
+        int nq = domain.nodes;
+        double[] eta = new double[nq];
+        double sw = 0, se = 0;
+        for (int q = 0; q < nq; q++) {
+            eta[q] = eta(domain, q, beta);
+            sw += domain.weight[q];
+            se += domain.weight[q] * eta[q];
+        }
+        double m = se / sw;
+        double max = Double.NEGATIVE_INFINITY;
+        for (int q = 0; q < nq; q++) {
+            max = Math.max(max, eta[q]);
+        }
+        double z = 0;
+        for (int q = 0; q < nq; q++) {
+            z += domain.weight[q] * Math.exp(eta[q] - max);
+        }
+        double logZ = max - m + Math.log(z); // log ∫ e^{clr} dP
+        double lo = bins.edges[0], hi = bins.edges[bins.edges.length - 1];
+        double deep = 0;
+        for (int side = 0; side < 2; side++) {
+            int b0 = side == 0 ? 0 : last + 1;
+            int b1 = side == 0 ? first : bins.bins; // bins [b0, b1) without events on this side
+            double mass = 0;
+            for (int q = bins.binStart[b0]; q < bins.binStart[b1]; q++) {
+                mass += bins.weight[q];
+            }
+            for (int q = 0; q < nq; q++) {
+                if (side == 0 ? domain.x[q] < lo : domain.x[q] > hi) {
+                    mass += domain.weight[q];
+                }
+            }
+            if (!(mass > 0)) {
+                continue;
+            }
+            double level = logZ - Math.log(total * mass);
+            for (int q = bins.binStart[b0]; q < bins.binStart[b1]; q++) {
+                double d = level - (eta(bins, q, beta) - m);
+                if (d > 0) {
+                    deep += bins.weight[q] * d * d;
+                }
+            }
+            for (int q = 0; q < nq; q++) {
+                if (side == 0 ? domain.x[q] < lo : domain.x[q] > hi) {
+                    double d = level - (eta[q] - m);
+                    if (d > 0) {
+                        deep += domain.weight[q] * d * d;
+                    }
+                }
+            }
+        }
+        return Math.max(0.0, Math.min(1.0, deep / normSq));
     }
 }

@@ -23,20 +23,60 @@ import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DD
  * than (b − a)/64 (the nodes and the basis at them are computed once per set of edges and shared
  * by all units). The estimate maximises
  * <pre>
- *   Φ(c) = Σ_j n_j log π_j(c) − λ c'Ωc,      c'Ωc = ∫_a^b (clr^{(l)}(x))² dx,
+ *   Φ(c) = Σ_j n_j log π_j(c) − λ c'Ωc − (w / (2 P(I))) ‖c‖²,      c'Ωc = ∫_a^b (clr^{(l)}(x))² dx,
  * </pre>
  * the roughness penalty of derivative order l (default 2; computed exactly from the derivatives
- * of the B-splines or polynomials, a difference penalty of order l for step bases). For a sample
+ * of the B-splines or polynomials, a difference penalty of order l for step bases) and the
+ * reference prior of weight w (default 1, see below; ‖c‖² = ‖f‖²_B = ∫ clr² dP). For a sample
  * x_1..x_n with weights w_i (default 1) the log-likelihood is Σ_i w_i log f_P(x_i). This is the
  * penalised likelihood density estimator of Silverman (1982), On the estimation of a probability
  * density function by the maximum penalized likelihood method, Ann. Statist. 10(3) (from memory),
  * written in Bayes-space coordinates.
  *
+ * <h2>Reference prior: regions without events</h2>
+ * Where a unit has no events (a run of empty bins at one end, as when values below a detection
+ * limit are not reported or are set to the limit), the likelihood says only that the density is
+ * small there, not how small. With the roughness penalty alone the estimate there is pure
+ * extrapolation: a second-derivative penalty continues the slope at the edge of the data, and when
+ * the data end abruptly the criterion picks a small λ and the clr dives far below anything the
+ * data support (−24 to −268 on the simulated networks of the examples' clipped-network test);
+ * those units then rule every B2 distance, FPCA and kriging. The term
+ * (w / (2 P(I))) ‖c‖² is a Gaussian prior c ~ N(0, (P(I)/w) I) centred at the reference density,
+ * the neutral element of B2(P), and isotropic in its geometry (van den Boogaart, Egozcue &amp;
+ * Pawlowsky-Glahn (2014), Bayes Hilbert spaces, Aust. N. Z. J. Stat. 56(2); from memory). Its
+ * precision is the Fisher information of w observations drawn from the reference (the
+ * per-observation information of the coordinates there is Cov(e) = I / P(I), e orthonormal with
+ * zero P-integral), so with w = 1 it is the unit-information prior of Kass &amp; Wasserman (1995), A
+ * reference Bayesian test for nested hypotheses and its relationship to the Schwarz criterion,
+ * JASA 90(431) (from memory): where there are N events it weighs as one observation among N (a
+ * change of order 1/N); where there are none it sets the level, balancing N f(x) ≈ (w / P(I))
+ * |clr(x)| for the P-density f, i.e. the clr settles where the expected number of events in the
+ * empty region is of order one instead of diving without limit. It also makes the penalised
+ * information positive definite in every direction. On ten simulated clipped networks (56 units,
+ * 1,000–4,000 events over 40 bins, up to eight clipped at a detection limit with 10–15 empty low
+ * bins) it brought the lowest clr of a clipped unit to −6.7 … −10.8, the leave-one-out
+ * ordinary-kriging MSE from 0.69–1.00 (mean 0.84) of the mean-density baseline to 0.33–0.74 (mean
+ * 0.48), and the deviation of the FPCA first-component share from that of the true densities from a
+ * mean of 0.049 (up to 0.134) to 0.030 (up to 0.047; about 0.01 of it is the sampling noise any
+ * estimate from these counts has). Measured alternatives that did less: a penalty that also damps the
+ * slope (adding κ ∫ clr'², κ up to 100/(b − a)²: no change); one pseudo-event spread over the bins
+ * like the reference (the conjugate prior of Diaconis &amp; Ylvisaker (1979), Conjugate priors for
+ * exponential families, Ann. Statist. 7(2); from memory), whose cost grows only linearly with the
+ * depth of the dive (dives to −30 remained); a floor on λ (g ≥ −1), which oversmoothed the units
+ * with data. A reference measure weighted towards where the network's data lie (B2(P) with P the
+ * pooled histogram; a choice of the space, {@link BayesSpace#withReference}) also helped and
+ * combines with the prior. {@link #withReferencePrior}(0) restores the plain penalised likelihood.
+ *
  * <h2>Algorithm</h2>
  * Damped Newton on the K raw B-spline coefficients (local support: O(Q W²) per iteration for Q
  * quadrature nodes and W = spline order), with log-sum-exp normalisation, the observed
  * information when it is positive definite and Fisher scoring otherwise, and step halving
- * (Armijo). Converged when the Newton decrement Φ'·Δ ≤ tol (1 + |Φ|). A unit that does not
+ * (Armijo). Every accepted step is taken; converged after a full Newton step Δ with Newton
+ * decrement Φ'·Δ ≤ tol (1 + |Φ|) and coordinate step ‖Δc‖∞ ≤ √tol (1 + ‖c‖∞), so the remaining
+ * error is of the order of the square of that step (tested against an independent maximiser to
+ * 10⁻⁸). When the predicted gain is below what Φ can resolve (10⁻¹¹ (1 + |Φ|)) the full step is
+ * taken without the Armijo test. The fits of the smoothing-parameter search, which only need the
+ * criterion, stop on the decrement alone without that last step. A unit that does not
  * converge is returned with status {@link EstimationDiagnostics.Status#NOT_CONVERGED} and the
  * reason; nothing is returned silently. {@link #newtonCost} gives the flop count of an iteration.
  *
@@ -61,7 +101,8 @@ import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DD
  *
  * <h2>Covariance</h2>
  * The reported coordinate covariance is the sandwich J⁻¹ M J⁻¹ of the first-order (Newton)
- * linearisation ĉ − c_λ ≈ J⁻¹ ∇ℓ(c_λ) around the penalised target c_λ, with J = F + 2λΩ, F the
+ * linearisation ĉ − c_λ ≈ J⁻¹ ∇ℓ(c_λ) around the penalised target c_λ, with J = F + 2λΩ +
+ * (w / P(I)) I (the reference prior's precision included), F the
  * expected Fisher information of the unpenalised log-likelihood at the estimate (multinomial:
  * F = N(Σ_j π_j m_j m_j' − m m'), m_j the mean of the basis functions over bin j under the fit;
  * samples: (Σ w_i²) Cov_f(e)) and edf = tr(J⁻¹F). The meat M estimates the variance of the score
@@ -92,7 +133,9 @@ import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DD
  * Wood, Pya &amp; Säfken (2016), Smoothing parameter and model selection for general smooth
  * models, JASA 111, §3; from memory); without it, reported / empirical traces over replicates with
  * their own λ̂ were 0.92, 0.74 and 0.51 at 2,000, 100 and 40 events (normal truth), with it 0.98,
- * 0.91 and 0.81 (mixture truth: 0.93, 0.79, 0.74). With the other criteria the variability of λ̂
+ * 0.91 and 0.81 (mixture truth: 0.93, 0.79, 0.74); these figures are from before the reference
+ * prior, with which the same normal-truth replicates gave 0.98, 0.95 and 0.91. With the other
+ * criteria the variability of λ̂
  * is not included (AICc picks λ over five decades on such replicates; reported / empirical
  * 0.2–0.3). With strong undersmoothing (λ far below the chosen one) the linearisation itself
  * under-reports.
@@ -111,6 +154,11 @@ public final class PenalizedLikelihoodEstimator {
     private static final double SMOOTHING_STEP = 0.25;
     /** Task name of the progress reports of batch fits. */
     public static final String PROGRESS_TASK = "penalised likelihood";
+    /**
+     * Default weight of the reference prior, in observations: 1, the unit-information prior (see the
+     * class documentation).
+     */
+    public static final double DEFAULT_PRIOR_WEIGHT = 1.0;
 
     private final BayesSpace space;
     private final int penaltyOrder;
@@ -136,12 +184,16 @@ public final class PenalizedLikelihoodEstimator {
     private final BinLayout domain;
     private final double domainScale;
     private final int penaltyRank;
+    private final double priorWeight;
+    /** Raw K × K matrix Q of the reference prior β'Qβ = (w / (2 P(I))) ‖c‖², or null when w = 0. */
+    private final double[] prior;
 
     private PenalizedLikelihoodEstimator(BayesSpace space, int penaltyOrder, double fixedLambda,
             SmoothingCriterion criterion, int folds, long seed, double gridLo, double gridHi, double gridStep,
             int maxIterations, double tolerance, int points, ZeroTotalPolicy zeroTotal, boolean fractional,
-            boolean parallel, ProgressListener progress) {
+            boolean parallel, ProgressListener progress, double priorWeight) {
         this.space = space;
+        this.priorWeight = priorWeight;
         this.penaltyOrder = penaltyOrder;
         this.fixedLambda = fixedLambda;
         this.criterion = criterion;
@@ -164,6 +216,39 @@ public final class PenalizedLikelihoodEstimator {
         this.domain = new BinLayout(space, new double[] {space.lower(), space.upper()}, points);
         this.domainScale = scale(domain, false);
         this.penaltyRank = rank(rawPenalty, k);
+        if (priorWeight > 0) {
+            // (w / (2 P(I))) c'c with c = U β: raw matrix (w / (2 P(I))) U'U
+            double eps = priorWeight / (2 * space.referenceMass());
+            double[] q = new double[k * k];
+            for (int i = 0; i < k; i++) {
+                for (int j = 0; j < k; j++) {
+                    double s = 0;
+                    for (int m = 0; m <= Math.min(i, j); m++) {
+                        s += u[m * k + i] * u[m * k + j];
+                    }
+                    q[i * k + j] = eps * s;
+                }
+            }
+            this.prior = q;
+        } else {
+            this.prior = null;
+        }
+    }
+
+    /** log det(2λP + 2Q) (raw coordinates), or NaN if not positive definite. */
+    private double logDetPrior(double lambda) {
+        double[] m = new double[k * k];
+        for (int i = 0; i < k * k; i++) {
+            m[i] = 2 * lambda * rawPenalty[i] + 2 * prior[i];
+        }
+        if (!PenalizedNewton.cholesky(m, k, k)) {
+            return Double.NaN;
+        }
+        double ld = 0;
+        for (int i = 0; i < k; i++) {
+            ld += Math.log(m[i * k + i]);
+        }
+        return 2 * ld;
     }
 
     /** Numerical rank of a symmetric positive semi-definite K × K matrix (eigenvalues above 10⁻⁹ max). */
@@ -189,7 +274,7 @@ public final class PenalizedLikelihoodEstimator {
             long s, double lo, double hi, double st, int maxIt, double tol, int pts, ZeroTotalPolicy zt,
             boolean frac, boolean par) {
         return new PenalizedLikelihoodEstimator(space, order, lambda, crit, nFolds, s, lo, hi, st, maxIt, tol, pts,
-                zt, frac, par, progress);
+                zt, frac, par, progress, priorWeight);
     }
 
     /**
@@ -206,7 +291,7 @@ public final class PenalizedLikelihoodEstimator {
         int order = Math.min(2, RoughnessPenalty.maxOrder(space.basis()));
         return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.MARGINAL_LIKELIHOOD, 5,
                 1L, -6, 3, 1,
-                100, 1e-12, 0, ZeroTotalPolicy.REJECT, false, true, ProgressListener.NONE);
+                100, 1e-12, 0, ZeroTotalPolicy.REJECT, false, true, ProgressListener.NONE, DEFAULT_PRIOR_WEIGHT);
     }
 
     /**
@@ -267,19 +352,60 @@ public final class PenalizedLikelihoodEstimator {
                 tolerance, points, zeroTotal, fractional, parallel);
     }
 
-    /** Maximum Newton iterations per fit (≥ 1). */
+    /**
+     * Weight w ≥ 0 of the reference prior, in observations: the objective subtracts
+     * (w / (2 P(I))) ‖c‖²_B, a Gaussian prior centred at the reference density (the neutral element)
+     * with the information of w observations drawn from it (default
+     * {@value #DEFAULT_PRIOR_WEIGHT}, the unit-information prior; see the class documentation). 0
+     * removes it and gives the plain penalised likelihood, whose estimate in regions without events
+     * is then limited by the roughness penalty alone.
+     *
+     * @param observations finite weight ≥ 0
+     */
+    public PenalizedLikelihoodEstimator withReferencePrior(double observations) {
+        if (!(observations >= 0) || Double.isInfinite(observations)) {
+            throw new IllegalArgumentException("reference prior weight must be finite and >= 0 (in observations; 0"
+                    + " removes the prior), got " + observations);
+        }
+        return new PenalizedLikelihoodEstimator(space, penaltyOrder, fixedLambda, criterion, folds, seed, gridLo,
+                gridHi, gridStep, maxIterations, tolerance, points, zeroTotal, fractional, parallel, progress,
+                observations);
+    }
+
+    /** The weight of the reference prior in observations (see {@link #withReferencePrior}). */
+    public double referencePriorWeight() {
+        return priorWeight;
+    }
+
+    /** Largest accepted {@link #withMaxIterations} value. */
+    public static final int MAX_ITERATIONS_LIMIT = 10_000;
+    /** Smallest accepted {@link #withTolerance} value (below it the criterion is under double rounding). */
+    public static final double MIN_TOLERANCE = 1e-15;
+    /** Largest accepted {@link #withTolerance} value. */
+    public static final double MAX_TOLERANCE = 1e-3;
+
+    /**
+     * Maximum Newton iterations per fit, 1..{@value #MAX_ITERATIONS_LIMIT} (default 100; a fit that
+     * converges takes a handful).
+     */
     public PenalizedLikelihoodEstimator withMaxIterations(int n) {
-        if (n < 1) {
-            throw new IllegalArgumentException("max iterations must be >= 1, got " + n);
+        if (n < 1 || n > MAX_ITERATIONS_LIMIT) {
+            throw new IllegalArgumentException("max iterations must be in [1, " + MAX_ITERATIONS_LIMIT + "], got " + n);
         }
         return copy(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, n, tolerance,
                 points, zeroTotal, fractional, parallel);
     }
 
-    /** Relative tolerance on the Newton decrement, in (0, 1). */
+    /**
+     * Convergence tolerance τ (default 10⁻¹²): a fit has converged after a full Newton step with
+     * Newton decrement ≤ τ (1 + |Φ|) and coordinate step ≤ √τ (1 + ‖c‖∞).
+     *
+     * @param tol in [{@value #MIN_TOLERANCE}, {@value #MAX_TOLERANCE}]
+     */
     public PenalizedLikelihoodEstimator withTolerance(double tol) {
-        if (!(tol > 0 && tol < 1)) {
-            throw new IllegalArgumentException("tolerance must be in (0, 1), got " + tol);
+        if (!(tol >= MIN_TOLERANCE && tol <= MAX_TOLERANCE)) {
+            throw new IllegalArgumentException("tolerance must be in [" + MIN_TOLERANCE + ", " + MAX_TOLERANCE
+                    + "] (smaller values are below the rounding of the objective), got " + tol);
         }
         return copy(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, maxIterations, tol,
                 points, zeroTotal, fractional, parallel);
@@ -328,7 +454,7 @@ public final class PenalizedLikelihoodEstimator {
     public PenalizedLikelihoodEstimator withProgressListener(ProgressListener listener) {
         Objects.requireNonNull(listener, "listener");
         return new PenalizedLikelihoodEstimator(space, penaltyOrder, fixedLambda, criterion, folds, seed, gridLo,
-                gridHi, gridStep, maxIterations, tolerance, points, zeroTotal, fractional, parallel, listener);
+                gridHi, gridStep, maxIterations, tolerance, points, zeroTotal, fractional, parallel, listener, priorWeight);
     }
 
     /** The space. */
@@ -449,7 +575,8 @@ public final class PenalizedLikelihoodEstimator {
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
         ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
-            PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty);
+            PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
+            eng.coordinateMap = u;
             eng.startMap = startMap;
             eng.startConst = startConst;
             double[] row = new double[lay.bins];
@@ -557,7 +684,8 @@ public final class PenalizedLikelihoodEstimator {
         int width = basis.supportWidth();
         ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
-            PenalizedNewton eng = new PenalizedNewton(domain, rawPenalty);
+            PenalizedNewton eng = new PenalizedNewton(domain, rawPenalty, prior);
+            eng.coordinateMap = u;
             double[] scratch = new double[basis.scratchSize()];
             int i1 = Math.min(n, (blk + 1) * UNITS_PER_BLOCK);
             for (int i = blk * UNITS_PER_BLOCK; i < i1; i++) {
@@ -593,9 +721,28 @@ public final class PenalizedLikelihoodEstimator {
         final double[] w;
         final double[] linear;
         final int width;
+        /** Smallest and largest value with positive weight. */
+        final double min;
+        final double max;
+        /** Total weight. */
+        final double total;
 
         SampleData(double[] v, double[] weights, Basis basis, int width, int k, double[] scratch) {
             n = v.length;
+            double lo = Double.POSITIVE_INFINITY, hi = Double.NEGATIVE_INFINITY;
+            for (int i = 0; i < n; i++) {
+                if (weights == null || weights[i] > 0) {
+                    lo = Math.min(lo, v[i]);
+                    hi = Math.max(hi, v[i]);
+                }
+            }
+            min = lo;
+            max = hi;
+            double tw = 0;
+            for (int i = 0; i < n; i++) {
+                tw += weights == null ? 1.0 : weights[i];
+            }
+            total = tw;
             this.width = width;
             first = new int[n];
             vals = new double[n * width];
@@ -619,12 +766,12 @@ public final class PenalizedLikelihoodEstimator {
     private EstimationDiagnostics emptyUnit(String id) {
         return new EstimationDiagnostics(id, EstimationDiagnostics.Status.EMPTY_UNIT_REFERENCE,
                 "no events (zero total); the reference density is returned", Double.NaN, false, criterion, Double.NaN,
-                0.0, 0.0, 0.0, 0, EstimationSupport.infiniteCovariance(k), Double.POSITIVE_INFINITY);
+                0.0, 0.0, 0.0, 0, EstimationSupport.infiniteCovariance(k), Double.POSITIVE_INFINITY, 1.0);
     }
 
     /** Scale s with λ = N s 10^g: tr(F₁) / tr(P), F₁ the per-event information at the reference. */
     private double scale(BinLayout lay, boolean countsMode) {
-        PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty);
+        PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
         eng.counts = countsMode ? new double[lay.bins] : null;
         eng.total = 1.0;
         eng.total2 = 1.0;
@@ -808,8 +955,9 @@ public final class PenalizedLikelihoodEstimator {
             cov = EstimationSupport.infiniteCovariance(k);
         }
         double crit = criterionValue(eng, lambda, edf, loglik, cv);
-        if (!Double.isFinite(crit) && criterion == SmoothingCriterion.GCV && ok) {
-            crit = Double.POSITIVE_INFINITY; // edf ≥ number of bins: GCV undefined, reported as +∞
+        if (!Double.isFinite(crit) && ok) {
+            crit = Double.POSITIVE_INFINITY;
+            reason = undefinedCriterion(eng, lambda, edf);
         }
         if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD
                 && Double.isFinite(crit)) {
@@ -821,9 +969,69 @@ public final class PenalizedLikelihoodEstimator {
                 throw new DensaException("unit " + id + ": estimate is not finite (" + reason + ")", null);
             }
         }
+        double normSq = 0;
+        for (int i = 0; i < k; i++) {
+            normSq += out[index * k + i] * out[index * k + i];
+        }
+        double share = eng.counts != null ? countsShare(eng, normSq) : sampleShare(sample, eng.beta, normSq);
         return new EstimationDiagnostics(id, ok ? EstimationDiagnostics.Status.CONVERGED
                 : EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose, criterion, crit, edf, loglik,
-                eng.total, iterations, cov, EstimationSupport.trace(cov, k));
+                eng.total, iterations, cov, EstimationSupport.trace(cov, k), share);
+    }
+
+    /** Extrapolation share of a counts unit: the domain below its first and above its last bin with events. */
+    private double countsShare(PenalizedNewton eng, double normSq) {
+        int first = 0, last = eng.lay.bins - 1;
+        while (first < last && !(eng.counts[first] > 0)) {
+            first++;
+        }
+        while (last > first && !(eng.counts[last] > 0)) {
+            last--;
+        }
+        return EstimationSupport.extrapolationShare(domain, eng.lay, first, last, eng.beta, normSq, eng.total);
+    }
+
+    /** Extrapolation share of a sample: the domain below its smallest and above its largest value. */
+    private double sampleShare(SampleData sample, double[] beta, double normSq) {
+        double a = space.lower(), b = space.upper();
+        double lo = sample.min, hi = sample.max;
+        if (!(hi > lo)) {
+            return normSq > 0 ? 1.0 : 0.0; // a single distinct value: everything else is extrapolated
+        }
+        double[] e = new double[4];
+        int m = 0;
+        e[m] = a;
+        int first = 0;
+        if (lo > a) {
+            e[++m] = lo;
+            first = 1;
+        }
+        e[++m] = hi;
+        if (hi < b) {
+            e[++m] = b;
+        }
+        BinLayout lay = new BinLayout(space, Arrays.copyOf(e, m + 1), points);
+        return EstimationSupport.extrapolationShare(domain, lay, first, first, beta, normSq, sample.total);
+    }
+
+    /** Why the criterion is +∞ at a converged fit (it is undefined there), for the diagnostics. */
+    private String undefinedCriterion(PenalizedNewton eng, double lambda, double edf) {
+        String tail = "; the fit converged, the criterion value is reported as +Infinity";
+        switch (criterion) {
+            case MARGINAL_LIKELIHOOD:
+                if (prior == null && !(lambda > 0)) {
+                    return "marginal likelihood undefined at lambda = 0 without the reference prior (its improper"
+                            + " prior has no normalising constant)" + tail;
+                }
+                break;
+            case AICC:
+                return "AICc undefined with N = " + eng.total + " <= edf + 1 = " + (edf + 1) + tail;
+            case GCV:
+                return "GCV undefined with edf = " + edf + " >= number of bins " + eng.lay.bins + tail;
+            default:
+                break;
+        }
+        return criterion + " could not be evaluated at lambda = " + lambda + tail;
     }
 
     /**
@@ -910,7 +1118,7 @@ public final class PenalizedLikelihoodEstimator {
 
     /** Fits at λ from the current beta and returns the criterion (+∞ on failure). */
     private double criterionAt(PenalizedNewton eng, double lambda, Folds cv) {
-        if (!eng.solve(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE))) {
+        if (!eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE))) {
             return Double.POSITIVE_INFINITY;
         }
         double loglik = eng.loglik;
@@ -933,8 +1141,17 @@ public final class PenalizedLikelihoodEstimator {
                 return -2 * loglik + 2 * edf;
             case MARGINAL_LIKELIHOOD: {
                 double ld = eng.logDetJ;
-                if (!(lambda > 0) || Double.isNaN(ld)) {
+                if (Double.isNaN(ld)) {
                     return Double.POSITIVE_INFINITY;
+                }
+                if (prior != null) {
+                    // proper prior: defined at every λ ≥ 0
+                    double lp = logDetPrior(lambda);
+                    return Double.isNaN(lp) ? Double.POSITIVE_INFINITY : -2 * loglik + 2 * lambda * eng.penalty(eng.beta)
+                            + 2 * eng.priorPenalty(eng.beta) + ld - lp;
+                }
+                if (!(lambda > 0)) {
+                    return Double.POSITIVE_INFINITY; // improper prior without normalising constant at λ = 0
                 }
                 return -2 * loglik + 2 * lambda * eng.penalty(eng.beta) + ld - penaltyRank * Math.log(2 * lambda);
             }
@@ -957,7 +1174,7 @@ public final class PenalizedLikelihoodEstimator {
                         dev += nj * Math.log(nj / (eng.total * eng.mass[j] / z));
                     }
                 }
-                dev *= 2;
+                dev = Math.max(0.0, 2 * dev); // ≥ 0 by Gibbs' inequality; rounding can give −1e-15
                 double den = d - edf;
                 return den > 0 ? d * dev / (den * den) : Double.POSITIVE_INFINITY;
             }
@@ -973,6 +1190,34 @@ public final class PenalizedLikelihoodEstimator {
      */
     static SplittableRandom foldStream(long seed, int index) {
         return Seeds.stream(seed, index);
+    }
+
+    /**
+     * Deals the events of each bin into folds independently with equal probabilities: for bin j
+     * with n_j events the fold counts are multinomial(n_j; 1/k, …, 1/k), drawn as successive
+     * binomials x_f ~ Bin(n_j − x_0 − … − x_{f−1}, 1/(k − f)) by inversion of the binomial
+     * distribution function (Commons Math). Memory O(D k), independent of the number of events.
+     *
+     * @throws IllegalArgumentException for a bin with more than 2³¹ − 1 events
+     */
+    static void splitCounts(double[] counts, int nf, SplittableRandom rnd, double[][] test, double[] testTotal) {
+        for (int j = 0; j < counts.length; j++) {
+            double remaining = counts[j];
+            if (remaining > Integer.MAX_VALUE) {
+                throw new IllegalArgumentException("cross-validation supports at most " + Integer.MAX_VALUE
+                        + " events per bin, bin " + j + " has " + remaining);
+            }
+            for (int f = 0; f < nf - 1 && remaining > 0; f++) {
+                double u = rnd.nextDouble();
+                double x = new org.apache.commons.math3.distribution.BinomialDistribution(null, (int) remaining,
+                        1.0 / (nf - f)).inverseCumulativeProbability(u);
+                test[f][j] = x;
+                testTotal[f] += x;
+                remaining -= x;
+            }
+            test[nf - 1][j] += remaining;
+            testTotal[nf - 1] += remaining;
+        }
     }
 
     /** Fold structure of one unit for cross-validation. */
@@ -1002,23 +1247,8 @@ public final class PenalizedLikelihoodEstimator {
             if (eng.counts != null) {
                 int d = eng.lay.bins;
                 fullCounts = eng.counts;
-                long n = Math.round(fullTotal);
-                if (n > Integer.MAX_VALUE - 8) {
-                    throw new IllegalArgumentException("cross-validation supports at most 2^31 events per unit");
-                }
-                int[] events = new int[(int) n];
-                int p = 0;
-                for (int j = 0; j < d; j++) {
-                    for (long c = Math.round(fullCounts[j]); c > 0; c--) {
-                        events[p++] = j;
-                    }
-                }
-                Seeds.shuffle(events, rnd);
                 test = new double[nf][d];
-                for (int i = 0; i < events.length; i++) {
-                    test[i % nf][events[i]] += 1;
-                    testTotal[i % nf] += 1;
-                }
+                splitCounts(fullCounts, nf, rnd, test, testTotal);
                 train = new double[d];
             } else {
                 fullCounts = null;
@@ -1057,7 +1287,7 @@ public final class PenalizedLikelihoodEstimator {
                     }
                     eng.counts = train;
                     eng.total = fullTotal - testTotal[f];
-                    eng.solve(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
+                    eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
                     eng.evaluate(eng.beta, lambda);
                     double logZ = Math.log(eng.zScaled);
                     for (int j = 0; j < train.length; j++) {
@@ -1072,7 +1302,7 @@ public final class PenalizedLikelihoodEstimator {
                     }
                     eng.total = fullTotal - testTotal[f];
                     eng.total2 = fullTotal2 - testTotal2[f];
-                    eng.solve(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
+                    eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
                     eng.evaluate(eng.beta, lambda);
                     double tb = 0;
                     for (int j = 0; j < k; j++) {

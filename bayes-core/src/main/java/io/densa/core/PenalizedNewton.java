@@ -14,11 +14,12 @@ import java.util.Arrays;
  * <li>raw samples: ℓ(β) = Σ_i w_i η(x_i) − W log Z = t·β − W log Z with t = Σ_i w_i φ(x_i),
  * W = Σ_i w_i.</li>
  * </ul>
- * The objective is Φ(β) = ℓ(β) − λ β'Pβ. Gradient ℓ' = t + Σ_q r_q φ_q with
+ * The objective is Φ(β) = ℓ(β) − λ β'Pβ − β'Qβ, Q the fixed reference prior (none when null).
+ * Gradient ℓ' = t + Σ_q r_q φ_q with
  * r_q = w_q e^{η_q}(n_{j(q)}/A_{j(q)} − N/Z). Observed information (counts)
  * −ℓ'' = N(S/Z − m m') − Σ_j n_j (S_j/A_j − m_j m_j'), m and S the mean and second moment of φ
  * under the density, m_j, S_j within bin j; expected (Fisher) information
- * F = N (Σ_j π_j m_j m_j' − m m'). The step solves (−ℓ'' + 2λP) Δ = Φ'; when the observed matrix
+ * F = N (Σ_j π_j m_j m_j' − m m'). The step solves (−ℓ'' + 2λP + 2Q) Δ = Φ'; when the observed matrix
  * is not positive definite the Fisher matrix is used (Fisher scoring). Steps are halved until
  * the Armijo condition Φ(β + tΔ) ≥ Φ(β) + 10⁻⁴ t Φ'·Δ holds.
  */
@@ -27,6 +28,8 @@ final class PenalizedNewton {
     final int k;
     final int k1;
     private final double[] pen;
+    /** Fixed quadratic prior β'Qβ subtracted from Φ (raw K × K), or null. */
+    final double[] prior;
 
     // unit data
     double[] counts; // null: sample mode
@@ -64,6 +67,12 @@ final class PenalizedNewton {
     String failure;
 
     PenalizedNewton(BinLayout lay, double[] rawPenalty) {
+        this(lay, rawPenalty, null);
+    }
+
+    /** With a fixed quadratic prior term β'Qβ (raw K × K, already weighted; null for none). */
+    PenalizedNewton(BinLayout lay, double[] rawPenalty, double[] prior) {
+        this.prior = prior;
         this.lay = lay;
         this.k = lay.k;
         this.k1 = k + 1;
@@ -113,12 +122,21 @@ final class PenalizedNewton {
 
     /** β'Pβ over the first K coefficients. */
     double penalty(double[] b) {
+        return quadratic(pen, b);
+    }
+
+    /** β'Qβ of the prior (0 without one). */
+    double priorPenalty(double[] b) {
+        return prior == null ? 0.0 : quadratic(prior, b);
+    }
+
+    private double quadratic(double[] m, double[] b) {
         double s = 0;
         for (int i = 0; i < k; i++) {
             double r = 0;
             int o = i * k;
             for (int j = 0; j < k; j++) {
-                r += pen[o + j] * b[j];
+                r += m[o + j] * b[j];
             }
             s += b[i] * r;
         }
@@ -178,7 +196,51 @@ final class PenalizedNewton {
         if (Double.isNaN(ll)) {
             ll = Double.NEGATIVE_INFINITY;
         }
-        return ll - lambda * penalty(b);
+        return ll - lambda * penalty(b) - priorPenalty(b);
+    }
+
+    /**
+     * The multinomial log-likelihood Σ_j n_j log(A_j / Z) of the counts at b, with a log-sum-exp
+     * shift per bin instead of one for the whole domain: finite whenever η is, also where a bin's
+     * mass underflows relative to the largest (for reporting; {@link #evaluate} is the fast path).
+     */
+    double logLikelihoodPerBinShift(double[] b) {
+        final int w = lay.width;
+        final double[] vals = lay.vals;
+        final int[] first = lay.first;
+        final double[] wt = lay.weight;
+        double[] logA = new double[lay.bins];
+        double top = Double.NEGATIVE_INFINITY;
+        for (int j = 0; j < lay.bins; j++) {
+            int q0 = lay.binStart[j], q1 = lay.binStart[j + 1];
+            double m = Double.NEGATIVE_INFINITY;
+            for (int q = q0; q < q1; q++) {
+                double s = 0;
+                for (int i = 0; i < w; i++) {
+                    s += vals[q * w + i] * b[first[q] + i];
+                }
+                eta[q] = s;
+                m = Math.max(m, s);
+            }
+            double sum = 0;
+            for (int q = q0; q < q1; q++) {
+                sum += wt[q] * Math.exp(eta[q] - m);
+            }
+            logA[j] = m + Math.log(sum);
+            top = Math.max(top, logA[j]);
+        }
+        double z = 0;
+        for (int j = 0; j < lay.bins; j++) {
+            z += Math.exp(logA[j] - top);
+        }
+        double logZ = top + Math.log(z);
+        double ll = 0;
+        for (int j = 0; j < lay.bins; j++) {
+            if (counts[j] > 0) {
+                ll += counts[j] * (logA[j] - logZ);
+            }
+        }
+        return ll;
     }
 
     /**
@@ -186,6 +248,11 @@ final class PenalizedNewton {
      * be beta), into grad and hess (full symmetric, stride k1).
      */
     void derivatives(double lambda, boolean expected) {
+        derivatives(lambda, expected, true);
+    }
+
+    /** As {@link #derivatives(double, boolean)}; without the penalty and prior when not penalised. */
+    void derivatives(double lambda, boolean expected, boolean penalised) {
         Arrays.fill(grad, 0.0);
         Arrays.fill(hess, 0.0);
         Arrays.fill(mvec, 0.0);
@@ -292,6 +359,22 @@ final class PenalizedNewton {
             grad[i] += linear[i];
         }
         symmetrize();
+        if (!penalised) {
+            return;
+        }
+        if (prior != null) {
+            for (int i = 0; i < k; i++) {
+                double r = 0;
+                int o = i * k;
+                int row = i * k1;
+                for (int j = 0; j < k; j++) {
+                    double p = prior[o + j];
+                    r += p * beta[j];
+                    hess[row + j] += 2 * p;
+                }
+                grad[i] -= 2 * r;
+            }
+        }
         if (lambda != 0.0) {
             for (int i = 0; i < k; i++) {
                 double r = 0;
@@ -376,11 +459,60 @@ final class PenalizedNewton {
     }
 
     /**
-     * Newton iterations from the current beta at smoothing λ.
+     * Relative size of a predicted gain Φ'·Δ below which Φ can no longer rank two points (sums of
+     * many logarithms carry rounding errors of this order): the full Newton step is then taken
+     * without the Armijo test, which would only compare rounding errors.
+     */
+    private static final double RESOLUTION = 1e-11;
+
+    /** Optional K × K upper triangular map from raw coefficients to coordinates (c = U β). */
+    double[] coordinateMap;
+
+    /** ‖U v‖∞ over the first K entries (‖v‖∞ without a map). */
+    private double coordinateNorm(double[] v) {
+        double m = 0;
+        for (int i = 0; i < k; i++) {
+            double s;
+            if (coordinateMap == null) {
+                s = v[i];
+            } else {
+                s = 0;
+                int o = i * k;
+                for (int j = i; j < k; j++) {
+                    s += coordinateMap[o + j] * v[j];
+                }
+            }
+            m = Math.max(m, Math.abs(s));
+        }
+        return m;
+    }
+
+    /**
+     * Newton iterations from the current beta at smoothing λ. Every accepted step is taken; the
+     * fit has converged after a full Newton step Δ (no halving) with Newton decrement
+     * Φ'·Δ ≤ tol (1 + |Φ|) and coordinate step ‖UΔ‖∞ ≤ √tol (1 + ‖Uβ‖∞): the decrement is the
+     * gradient in the metric of the penalised information, the step size guards the directions of
+     * low curvature, and because the last step is taken, the remaining error is of the order of
+     * its square (quadratic convergence of Newton's method; Nocedal &amp; Wright (2006), Numerical
+     * Optimization, 2nd ed., Springer, Thm. 3.5; from memory).
      *
      * @return true on convergence; otherwise {@link #failure} says why
      */
     boolean solve(double lambda, int maxIter, double tol) {
+        return solve(lambda, maxIter, tol, true);
+    }
+
+    /**
+     * As {@link #solve(double, int, double)} for the fits of the smoothing-parameter search, whose
+     * criterion only needs Φ to O(tol (1 + |Φ|)): returns as soon as the Newton decrement is below
+     * tol (1 + |Φ|), without taking that last step (one evaluation fewer per fit; the final fit at
+     * the chosen λ uses the exact rule).
+     */
+    boolean solveForSearch(double lambda, int maxIter, double tol) {
+        return solve(lambda, maxIter, tol, false);
+    }
+
+    private boolean solve(double lambda, int maxIter, double tol, boolean exact) {
         failure = null;
         usedFisher = false;
         iterations = 0;
@@ -390,7 +522,9 @@ final class PenalizedNewton {
             objective = obj;
             return false;
         }
+        double stepTol = Math.sqrt(tol);
         double lastDec = Double.NaN;
+        double lastStep = Double.NaN;
         for (int it = 1; it <= maxIter; it++) {
             iterations = it;
             derivatives(lambda, false);
@@ -410,21 +544,32 @@ final class PenalizedNewton {
             for (int i = 0; i < k; i++) {
                 dec += grad[i] * step[i];
             }
-            lastDec = dec;
             if (!(dec >= 0) || !Double.isFinite(dec)) {
                 failure = "non-finite Newton step at iteration " + it;
                 objective = obj;
                 return false;
             }
             double scale = 1 + Math.abs(obj);
-            if (dec <= tol * scale) {
+            double size = coordinateNorm(step) / (1 + coordinateNorm(beta));
+            lastDec = dec / scale;
+            lastStep = size;
+            if (!exact && dec <= tol * scale) {
                 objective = obj;
                 return true;
             }
             double t = 1.0;
             boolean accepted = false;
             double o = obj;
-            for (int ls = 0; ls < 60; ls++) {
+            if (dec <= RESOLUTION * scale) {
+                for (int i = 0; i < k; i++) {
+                    trial[i] = beta[i] + step[i];
+                }
+                trial[k] = 0.0;
+                o = evaluate(trial, lambda);
+                // Φ cannot resolve the predicted gain; accept unless it clearly decreased
+                accepted = o >= obj - RESOLUTION * scale;
+            }
+            for (int ls = 0; ls < 60 && !accepted; ls++) {
                 for (int i = 0; i < k; i++) {
                     trial[i] = beta[i] + t * step[i];
                 }
@@ -439,17 +584,20 @@ final class PenalizedNewton {
             if (!accepted) {
                 evaluate(beta, lambda);
                 objective = obj;
-                if (dec <= 1e-7 * scale) {
-                    return true; // at the rounding limit of Φ
-                }
-                failure = "line search failed at iteration " + it + " (Newton decrement " + dec + ")";
+                failure = "line search failed at iteration " + it + " (relative Newton decrement " + lastDec
+                        + ", relative step " + lastStep + ")";
                 return false;
             }
             System.arraycopy(trial, 0, beta, 0, k1);
             obj = o;
+            if (t == 1.0 && dec <= tol * scale && size <= stepTol) {
+                objective = obj;
+                return true;
+            }
         }
         objective = obj;
-        failure = "no convergence in " + maxIter + " Newton iterations (last decrement " + lastDec + ")";
+        failure = "no convergence in " + maxIter + " Newton iterations (last relative Newton decrement " + lastDec
+                + ", relative coordinate step " + lastStep + ")";
         return false;
     }
 
@@ -459,7 +607,7 @@ final class PenalizedNewton {
      * observed information for samples.
      */
     void fisherInformation() {
-        derivatives(0.0, true);
+        derivatives(0.0, true, false);
         double f = counts == null ? total2 / total : 1.0;
         for (int i = 0; i < k; i++) {
             for (int j = 0; j < k; j++) {
@@ -591,7 +739,7 @@ final class PenalizedNewton {
     double sandwich(double lambda, double[] u, double[] cov, boolean robust) {
         final int n = k;
         for (int i = 0; i < n * n; i++) {
-            solveA[i] = fisher[i] + 2 * lambda * pen[i];
+            solveA[i] = fisher[i] + 2 * lambda * pen[i] + (prior == null ? 0.0 : 2 * prior[i]);
         }
         if (!cholesky(solveA, n, n)) {
             logDetJ = Double.NaN;

@@ -33,7 +33,15 @@ public enum SmoothingCriterion {
      * Statist. 13(4); Wood (2011), Fast stable restricted maximum likelihood and marginal likelihood
      * estimation of semiparametric generalized linear models, J. R. Stat. Soc. B 73(1) (both from
      * memory). Unlike AIC-type criteria it accounts for the unpenalised null space through r and
-     * does not need N ≫ edf.
+     * does not need N ≫ edf. With the reference prior of {@link PenalizedLikelihoodEstimator}
+     * (weight w &gt; 0, the default) the prior on c is the proper N(0, (2λΩ + (w/P(I)) I)⁻¹) and the
+     * criterion is
+     * <pre>
+     *   V(λ) = −2ℓ(ĉ) + 2λ ĉ'Ωĉ + (w/P(I)) ‖ĉ‖² + log det(F + 2λΩ + (w/P(I)) I)
+     *          − log det(2λΩ + (w/P(I)) I),
+     * </pre>
+     * the same Laplace approximation with the prior's exact normalising constant in place of
+     * r log(2λ).
      */
     MARGINAL_LIKELIHOOD,
     /**
@@ -45,9 +53,11 @@ public enum SmoothingCriterion {
      */
     GCV,
     /**
-     * k-fold cross-validation of the log-likelihood: events (or observations) are dealt at
-     * random, with the estimator's seed, into k folds; the criterion is minus the held-out
-     * log-likelihood summed over folds.
+     * k-fold cross-validation of the log-likelihood, with the estimator's seed: the events of each
+     * bin are assigned to the k folds independently with equal probabilities (a multinomial split
+     * per bin, drawn without listing the events, so memory does not grow with their number); raw
+     * observations are shuffled and dealt into the folds in turn. The criterion is minus the
+     * held-out log-likelihood summed over folds.
      */
     CROSS_VALIDATION
 }

@@ -225,6 +225,7 @@ public final class SmoothingSplineEstimator {
         }
         Design des = new Design(edges);
         BinLayout lay = new BinLayout(space, edges, 4);
+        BinLayout whole = new BinLayout(space, new double[] {space.lower(), space.upper()}, 4);
         double[] out = new double[n * k];
         EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
@@ -241,7 +242,7 @@ public final class SmoothingSplineEstimator {
                     diag[i] = new EstimationDiagnostics(id, EstimationDiagnostics.Status.EMPTY_UNIT_REFERENCE,
                             "no events (zero total); the reference density is returned", Double.NaN, false,
                             SmoothingCriterion.GCV, Double.NaN, 0.0, 0.0, 0.0, 0,
-                            EstimationSupport.infiniteCovariance(k), Double.POSITIVE_INFINITY);
+                            EstimationSupport.infiniteCovariance(k), Double.POSITIVE_INFINITY, 1.0);
                     continue;
                 }
                 double yy = des.transform(counts[i], edges, EstimationSupport.unit(ids, i), z);
@@ -256,10 +257,23 @@ public final class SmoothingSplineEstimator {
                 eng.beta[k] = 0;
                 eng.counts = counts[i];
                 eng.total = totals[i];
-                eng.evaluate(eng.beta, 0.0);
+                double loglik = eng.logLikelihoodPerBinShift(eng.beta);
+                int first = 0, last = lay.bins - 1;
+                while (first < last && !(counts[i][first] > 0)) {
+                    first++;
+                }
+                while (last > first && !(counts[i][last] > 0)) {
+                    last--;
+                }
+                double normSq = 0;
+                for (int c = 0; c < k; c++) {
+                    normSq += out[i * k + c] * out[i * k + c];
+                }
+                double share = EstimationSupport.extrapolationShare(whole, lay, first, last, eng.beta, normSq,
+                        totals[i]);
                 diag[i] = new EstimationDiagnostics(id, EstimationDiagnostics.Status.CONVERGED, "", lambda, choose,
-                        SmoothingCriterion.GCV, g[0], g[2], eng.loglik, totals[i], 0, cov,
-                        EstimationSupport.trace(cov, k));
+                        SmoothingCriterion.GCV, g[0], g[2], loglik, totals[i], 0, cov,
+                        EstimationSupport.trace(cov, k), share);
             }
             done.advance(i1 - blk * UNITS_PER_BLOCK);
         });
@@ -394,12 +408,12 @@ public final class SmoothingSplineEstimator {
 
         /** Zero replacement and clr heights; z = Ũ'y; returns ‖y‖². */
         double transform(double[] counts, double[] edges, String unit, double[] z) {
-            double[] r = new double[d];
-            zeros.replace(counts, 0, d, r, unit);
+            double[] logR = new double[d];
+            zeros.replaceLog(counts, 0, d, logR, unit);
             double[] y = new double[d];
             double mean = 0;
             for (int j = 0; j < d; j++) {
-                y[j] = Math.log(r[j]) - logWidthRef[j];
+                y[j] = logR[j] - logWidthRef[j];
                 mean += y[j];
             }
             mean /= d;

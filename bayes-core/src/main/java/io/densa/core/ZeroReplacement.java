@@ -130,45 +130,96 @@ public final class ZeroReplacement {
         return out;
     }
 
-    /** Core: counts[off..off+d) to out[0..d). */
+    /**
+     * Core: counts[off..off+d) to the closed composition out[0..d). The counts are scaled by their
+     * largest value first, so that totals beyond the overflow limit stay finite. Every part is
+     * &gt; 0 (possibly subnormal); a positive count so small relative to the total that its
+     * proportion underflows to 0 is rejected.
+     */
     void replace(double[] counts, int off, int d, double[] out, String where) {
+        Scaled sc = scale(counts, off, d, where);
+        double zeroPart = prior == null ? delta : Math.exp(sc.logZero);
+        double shrink = 1 - sc.zeros * zeroPart;
+        for (int j = 0; j < d; j++) {
+            double c = counts[off + j];
+            double q = c / sc.max;
+            double r = c == 0 ? zeroPart : q >= Double.MIN_NORMAL ? q / sc.scaled * shrink
+                    : Math.exp(Math.log(c) - sc.logTotal + Math.log1p(-sc.zeros * zeroPart));
+            if (!(r > 0)) {
+                throw new IllegalArgumentException(where + ", part " + j + ": count " + c
+                        + " is too small relative to the total for its proportion to be a double > 0; rescale"
+                        + " the counts or drop the part");
+            }
+            out[j] = r;
+        }
+    }
+
+    /**
+     * The natural logarithm of the replaced composition, counts[off..off+d) to outLog[0..d): finite
+     * also where a proportion itself would underflow (log c_j − log n is used then).
+     */
+    void replaceLog(double[] counts, int off, int d, double[] outLog, String where) {
+        Scaled sc = scale(counts, off, d, where);
+        double logShrink = Math.log1p(-sc.zeros * (prior == null ? delta : Math.exp(sc.logZero)));
+        for (int j = 0; j < d; j++) {
+            double c = counts[off + j];
+            double q = c / sc.max;
+            outLog[j] = c == 0 ? sc.logZero : q >= Double.MIN_NORMAL ? Math.log(q / sc.scaled) + logShrink
+                    : Math.log(c) - sc.logTotal + logShrink;
+        }
+    }
+
+    /** Validated counts scaled by their maximum, with the log of the replacement of a zero. */
+    private record Scaled(double max, double scaled, double logTotal, int zeros, double logZero) {
+    }
+
+    private Scaled scale(double[] counts, int off, int d, String where) {
         if (d < 2) {
             throw new IllegalArgumentException(where + ": a composition needs at least 2 parts, got " + d);
         }
-        double n = 0;
+        double s = 0;
         int zeros = 0;
         for (int j = 0; j < d; j++) {
             double c = counts[off + j];
             if (!(c >= 0 && Double.isFinite(c))) {
                 throw new IllegalArgumentException(where + ", part " + j + ": count must be finite and >= 0, got " + c);
             }
-            n += c;
+            s = Math.max(s, c);
             if (c == 0) {
                 zeros++;
             }
         }
-        if (!(n > 0)) {
+        if (!(s > 0)) {
             throw new IllegalArgumentException(where + ": total count is 0; zero replacement needs at least one event");
         }
+        double scaled = 0; // n / s, in [1, d]
+        for (int j = 0; j < d; j++) {
+            scaled += counts[off + j] / s;
+        }
+        double logS = Math.log(s);
+        double logN = logS + Math.log(scaled);
+        double logZero;
         if (prior != null) {
-            double s = priorStrength(d, n);
-            double zeroPart = (1.0 / d) * s / (n + s);
-            double shrink = 1 - zeros * zeroPart;
-            for (int j = 0; j < d; j++) {
-                double c = counts[off + j];
-                out[j] = c == 0 ? zeroPart : (c / n) * shrink;
+            // zero part t s_p / (n + s_p), t = 1/D, in logarithms: n + s_p = s (n/s + s_p/s)
+            double logSp;
+            double spOverS;
+            if (prior == Prior.SQUARE_ROOT) {
+                logSp = 0.5 * logN;
+                spOverS = Math.exp(logSp - logS);
+            } else {
+                double sp = priorStrength(d, 0);
+                logSp = Math.log(sp);
+                spOverS = sp / s;
             }
+            logZero = -Math.log(d) + logSp - (logS + Math.log(scaled + spOverS));
         } else {
             if (!(zeros * delta < 1)) {
                 throw new IllegalArgumentException(where + ": " + zeros + " zeros times delta = " + delta
                         + " must stay below 1");
             }
-            double shrink = 1 - zeros * delta;
-            for (int j = 0; j < d; j++) {
-                double c = counts[off + j];
-                out[j] = c == 0 ? delta : (c / n) * shrink;
-            }
+            logZero = Math.log(delta);
         }
+        return new Scaled(s, scaled, logN, zeros, logZero);
     }
 
     @Override

@@ -114,4 +114,32 @@ class ZeroReplacementTest {
                 () -> ZeroReplacement.multiplicative(0.4).replace(new double[] {0, 0, 0, 1}));
         assertTrue(e.getMessage().matches(".*3 zeros times delta = 0.4 must stay below 1"), e.getMessage());
     }
+
+    /**
+     * Counts near the overflow limit: the total 2 × 10³⁰⁸ overflows, so the counts are scaled by
+     * their maximum first; the result is closed, positive, and keeps the ratios of the non-zero
+     * parts (the definition above).
+     */
+    @Test
+    void hugeCountsGiveClosedCompositions() {
+        for (ZeroReplacement z : new ZeroReplacement[] {ZeroReplacement.multiplicative(0.01),
+            ZeroReplacement.bayesianMultiplicative(ZeroReplacement.Prior.JEFFREYS),
+            ZeroReplacement.bayesianMultiplicative(ZeroReplacement.Prior.SQUARE_ROOT)}) {
+            double[] r = z.replace(new double[] {1e308, 0, 1e308});
+            assertEquals(1.0, r[0] + r[1] + r[2], 1e-15, z.toString());
+            assertTrue(r[1] > 0, z.toString());
+            assertEquals(r[0], r[2], 0.0, z.toString());
+        }
+        double[] r = ZeroReplacement.multiplicative(0.01).replace(new double[] {1e308, 0, 1e308});
+        assertEquals(0.01, r[1], 0.0);
+        assertEquals(0.495, r[0], 1e-16);
+    }
+
+    /** A count whose proportion underflows cannot be returned as a part &gt; 0: rejected, naming it. */
+    @Test
+    void underflowingProportionIsRejected() {
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> ZeroReplacement
+                .bayesianMultiplicative(ZeroReplacement.Prior.PERKS).replace(new double[] {Double.MIN_VALUE, 10, 10}));
+        assertTrue(e.getMessage().matches("composition, part 0: count 4.9E-324 is too small.*"), e.getMessage());
+    }
 }

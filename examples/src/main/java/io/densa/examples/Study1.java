@@ -197,6 +197,7 @@ final class Study1 {
             first[i] = sc.counts()[i][0];
         }
         double lambda = AgeDensities.commonSmoothing(run.space, first);
+        List<String> extrapolated = new ArrayList<>();
         for (int s = 0; s < sc.seasons(); s++) {
             int[][] counts = new int[run.n][];
             for (int i = 0; i < run.n; i++) {
@@ -209,8 +210,15 @@ final class Study1 {
             notConverged += est.notConverged();
             minEdf = Math.min(minEdf, est.minEdf());
             maxEdf = Math.max(maxEdf, est.maxEdf());
+            for (String id : est.extrapolated()) {
+                extrapolated.add(id + " (season " + (s + 1) + ")");
+            }
+            if (s == sc.seasons() - 1) {
+                run.table.number("extrapolation_share_latest", est.extrapolationShares());
+            }
         }
         run.metrics.put("notConverged", (double) notConverged);
+        run.metrics.put("extrapolatedEstimates", (double) extrapolated.size());
         run.progress.line(String.format(Locale.ROOT, "estimated %d age densities by penalised likelihood (common "
                 + "smoothing λ = %.3g; %d fits did not converge)", run.n * sc.seasons(), lambda, notConverged));
         run.report.heading("Age densities").paragraph("Each district-season's counts by single year of age are "
@@ -223,6 +231,7 @@ final class Study1 {
                     + "range from %.1f (small districts: strong smoothing) to %.1f.", run.n * sc.seasons()
                     - notConverged, run.n * sc.seasons(), minEdf, maxEdf));
         }
+        run.report.paragraph(Estimates.extrapolationSentence(extrapolated, run.n * sc.seasons(), 10));
         if (!problems.isEmpty()) {
             run.report.paragraph("Fits that did not converge (kept, with the estimator's reason):")
                     .bullets(problems.subList(0, Math.min(20, problems.size())));

