@@ -32,8 +32,8 @@ public record VariogramFit(VariogramModel model, VariogramFitOptions.Method meth
         /**
          * The fitted practical range (the lag where the structure reaches 95% of its partial sill;
          * the range itself for the spherical) lies beyond the largest lag of the empirical
-         * variogram: the sill and the range are extrapolated beyond the lags observed, and the data
-         * cannot tell a long range from a larger sill.
+         * variogram: the sill and the range are extrapolated beyond the lags observed, over which a
+         * longer range and a larger sill are hard to tell apart.
          */
         RANGE_BEYOND_LAGS,
         /** A parameter ended on a bound that was not widened (the message names it and the bound). */

@@ -235,8 +235,8 @@ public final class VariogramFitting {
             if (reach > hmax) {
                 warnings.add(new VariogramFit.Warning(VariogramFit.WarningKind.RANGE_BEYOND_LAGS, fmt("the fitted"
                         + " practical range %.4g is %.2f times the largest lag %.4g of the empirical variogram: the"
-                        + " sill and the range are extrapolated beyond the lags observed (a longer range with a"
-                        + " larger sill fits these lags almost as well)", reach, reach / hmax, hmax)));
+                        + " sill and the range are extrapolated beyond the lags observed, over which a longer range"
+                        + " and a larger sill are hard to tell apart", reach, reach / hmax, hmax)));
             }
         }
         if (best.fallback != null) {
