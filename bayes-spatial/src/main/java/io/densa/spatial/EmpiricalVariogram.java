@@ -396,7 +396,9 @@ public final class EmpiricalVariogram {
                     continue;
                 }
                 // the same operations as Locations.distance, so a pair on a bin edge bins the same way
-                double h = geo ? Locations.kmFromChordSq(p, 3 * i, 3 * j, d2) : Locations.normFromSq(d2, dx, dy);
+                // planar: √d2 wherever d2 is in range, as Locations.planarNorm (the scaled form only beyond)
+                double h = geo ? Locations.kmFromChordSq(p, 3 * i, 3 * j, d2)
+                        : d2 <= 0x1p960 && d2 >= 0x1p-960 ? Math.sqrt(d2) : Locations.planarNorm(dx, dy);
                 if (h > e[nb]) {
                     continue;
                 }

@@ -226,14 +226,6 @@ public final class Locations {
         return scaledNorm(dx, dy);
     }
 
-    /** {@link #planarNorm} when d2 = dx * dx + dy * dy is already computed. */
-    static double normFromSq(double d2, double dx, double dy) {
-        if (d2 <= 0x1p960 && d2 >= 0x1p-960) {
-            return Math.sqrt(d2);
-        }
-        return scaledNorm(dx, dy);
-    }
-
     private static double scaledNorm(double dx, double dy) {
         double m = Math.max(Math.abs(dx), Math.abs(dy));
         if (m == 0 || !(m <= Double.MAX_VALUE)) {

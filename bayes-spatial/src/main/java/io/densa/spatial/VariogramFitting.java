@@ -142,6 +142,10 @@ public final class VariogramFitting {
         if (power) {
             rlo = Double.isNaN(options.minRange()) ? 0.01 : options.minRange();
             rhi = userMax ? Math.min(1.99, options.maxRange()) : 1.99;
+            if (!(rlo < rhi)) {
+                throw new IllegalArgumentException("power exponent bounds [" + rlo + ", " + rhi + "] are empty; the"
+                        + " exponent lies in (0, 2), so give bounds below 1.99");
+            }
             a = 1.0;
             c = g[used - 1] - c0; // the structure's value at h_max
         } else {

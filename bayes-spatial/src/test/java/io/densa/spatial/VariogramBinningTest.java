@@ -105,7 +105,7 @@ class VariogramBinningTest {
             assertTrue(c >= 30, "bin of " + c + " pairs");
         }
         EmpiricalVariogramTest.check(ev, 0, EmpiricalVariogramTest.naive(loc, d, ev.edges(), Double.NaN, 0));
-        // explicit edges with empty bins between 0 and 0.1: those merge into the next bin, and every
+        // explicit edges with empty bins between 0 and 0.03: those merge into the next bin, and every
         // non-empty bin keeps its pair loop values
         double[] edges = {0, 0.01, 0.02, 0.03, 20, 40, 60};
         double[][] ref = EmpiricalVariogramTest.naive(loc, d, edges, Double.NaN, 0);

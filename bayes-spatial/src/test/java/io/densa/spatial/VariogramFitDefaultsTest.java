@@ -124,6 +124,17 @@ class VariogramFitDefaultsTest {
     }
 
     @Test
+    void powerExponentBoundsOutsideTheModelAreRejected() {
+        Locations loc = TestData.uniformSquare(40, 1, 3);
+        EmpiricalVariogram ev = EmpiricalVariogram.of(loc, TestData.independentCoordinates(TestData.K3, 40, 4),
+                VariogramOptions.withDefaults());
+        IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> VariogramFitting.fit(ev, VariogramFitOptions.withDefaults()
+                        .withFamily(VariogramModel.Family.POWER).withRangeBounds(2.5, 3)));
+        assertTrue(e.getMessage().matches("power exponent bounds \\[2.5, 1.99\\] are empty; .*"), e.getMessage());
+    }
+
+    @Test
     void maternPracticalRangeHasItsClosedFormForHalfSmoothness() {
         // Matérn(c, a, 1/2) is exponential with scale a: 1 − e^{−h/a} = 0.95 at h = a ln 20
         assertEquals(2 * Math.log(20), VariogramFitting.practicalRange(VariogramModel.Family.MATERN, 2, 0.5), 1e-9);
