@@ -30,9 +30,11 @@ final class AutocorrelationSupport {
 
     /**
      * A scalar field ready for a statistic: weights after the island policy, deviations z from
-     * the mean of the kept values, Σ z², the kurtosis b2 and the excluded units.
+     * the mean of the kept values in units of {@code scale} (a power of two: the deviations in the
+     * values' own units are z · scale), Σ z², the kurtosis b2 and the excluded units. Every
+     * statistic built on z (Moran's I, Geary's c, local Moran's I) is invariant to that scale.
      */
-    record ScalarField(SpatialWeights weights, int[] kept, double[] z, double sumSq, double kurtosis,
+    record ScalarField(SpatialWeights weights, int[] kept, double[] z, double scale, double sumSq, double kurtosis,
             List<Integer> excluded) {
         int size() {
             return z.length;
@@ -44,8 +46,10 @@ final class AutocorrelationSupport {
             int minUnits, String what) {
         checkValues(values, w);
         Prepared p = prepare(w, policy, minUnits, what);
-        double[] z = centre(select(values, p.kept()), what);
-        return new ScalarField(p.weights(), p.kept(), z, sumSq(z), kurtosis(z), p.excluded());
+        double[] x = select(values, p.kept());
+        double scale = powerOfTwoScale(x);
+        double[] z = centre(x, scale, what);
+        return new ScalarField(p.weights(), p.kept(), z, scale, sumSq(z), kurtosis(z), p.excluded());
     }
 
     /** The permutation test of a global statistic if the options ask for one. */
@@ -153,23 +157,42 @@ final class AutocorrelationSupport {
         return out;
     }
 
-    /** Deviations from the mean; fails on a constant field. */
-    static double[] centre(double[] x, String what) {
-        int n = x.length;
-        double mean = 0, scale = 0;
+    /**
+     * The power of two 2^e nearest below max |x_i| (1 if every value is 0): dividing by it is exact
+     * and brings the largest value into [1, 2), so that sums of squares neither overflow (values
+     * near 1e300) nor underflow (values near 1e-300) before a field is judged constant.
+     */
+    static double powerOfTwoScale(double[] x) {
+        double max = 0;
         for (double v : x) {
-            mean += v;
-            scale = Math.max(scale, Math.abs(v));
+            max = Math.max(max, Math.abs(v));
+        }
+        return max > 0 ? Math.scalb(1.0, Math.getExponent(max)) : 1.0;
+    }
+
+    /**
+     * Deviations (x_i − x̄) / scale from the mean, computed on the scaled values x_i / scale (exact
+     * for a power of two); fails on a constant field: Σ z² ≤ n (10⁻¹³ max |x_i / scale|)², i.e.
+     * the spread is at the rounding level of the values themselves.
+     */
+    static double[] centre(double[] x, double scale, String what) {
+        int n = x.length;
+        double inv = 1 / scale;
+        double mean = 0, max = 0;
+        double[] z = new double[n];
+        for (int i = 0; i < n; i++) {
+            z[i] = x[i] * inv;
+            mean += z[i];
+            max = Math.max(max, Math.abs(z[i]));
         }
         mean /= n;
-        double[] z = new double[n];
         double m2 = 0;
         for (int i = 0; i < n; i++) {
-            z[i] = x[i] - mean;
+            z[i] -= mean;
             m2 += z[i] * z[i];
         }
-        if (!(m2 > n * Math.pow(1e-13 * scale, 2))) {
-            throw new IllegalArgumentException("the values are constant (zero variance, all equal to " + mean
+        if (!(m2 > n * Math.pow(1e-13 * max, 2))) {
+            throw new IllegalArgumentException("the values are constant (zero variance, all equal to " + mean * scale
                     + "); " + what + " is undefined");
         }
         return z;

@@ -86,6 +86,31 @@ public final class Drift {
         return covariates[i][j];
     }
 
+    /** Number of monomials (degree + 1)(degree + 2) / 2; the covariates follow them. */
+    int monomialCount() {
+        return (degree + 1) * (degree + 2) / 2;
+    }
+
+    /**
+     * The name of drift function col in the order of {@link #evaluate}: "1", "x", "y", "x^2",
+     * "x*y", "y^2", ... (in the centred and scaled coordinates), then "covariate j".
+     */
+    String functionName(int col) {
+        int c = 0;
+        for (int d = 0; d <= degree; d++) {
+            for (int b = 0; b <= d; b++) {
+                if (c++ == col) {
+                    return d == 0 ? "1" : power("x", d - b) + (d - b > 0 && b > 0 ? "*" : "") + power("y", b);
+                }
+            }
+        }
+        return "covariate " + (col - monomialCount());
+    }
+
+    private static String power(String var, int e) {
+        return e == 0 ? "" : e == 1 ? var : var + "^" + e;
+    }
+
     /**
      * Writes the p drift functions at scaled coordinates (u, v) and covariates cov into out[off..).
      */

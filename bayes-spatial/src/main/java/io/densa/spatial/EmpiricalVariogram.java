@@ -11,7 +11,10 @@ import java.util.Objects;
  * γ̂(h_b) = (1 / (2|N(h_b)|)) Σ_{(i,j) ∈ N(h_b)} ‖X(s_i) ⊖ X(s_j)‖²_B
  * (Giraldo, Delicado, Mateu (2011), Ordinary kriging for function-valued spatial data, Environ.
  * Ecol. Stat. 18 — from memory), where N(h_b) are the unordered pairs whose distance falls in bin
- * b (and, with directions, in the sector). Each bin reports its pair count and mean lag.
+ * b (and, with directions, in the sector). Each bin reports its pair count and mean lag. After
+ * counting, adjacent bins holding too few pairs are merged ({@link VariogramOptions}, "Pairs per
+ * bin"), so every reported bin holds at least one pair and no NaN is reported; the edges reported
+ * are the merged ones, per sector.
  *
  * <p>Computation: the coordinates are first centred on their column means (distances are
  * unchanged, and densities far from the neutral element keep the digits of their differences);
@@ -19,7 +22,10 @@ import java.util.Objects;
  * products of an i-tile × j-tile of locations formed as a small matrix product (unit-stride over a
  * transposed coordinate copy) so that they stay in cache; pairs beyond the maximum lag are rejected
  * on the squared spatial distance (chord distance for geographic locations) before any square
- * root, and lags are computed by the same operations as {@link Locations#distance(int, int)}. Tiles of locations are processed in parallel, each into its own bin totals, and totals are
+ * root, and lags are computed by the same operations as {@link Locations#distance(int, int)}
+ * (which neither overflow nor underflow); the centred coordinates are divided by the power of two
+ * of their largest magnitude (exact) so that squared B2 distances neither overflow nor underflow
+ * for coordinates far from 1, and γ̂ is scaled back at the end. Tiles of locations are processed in parallel, each into its own bin totals, and totals are
  * combined in tile order, so the result is bit-identical to the serial run.
  *
  * <p>Immutable; accessors return copies.
@@ -29,7 +35,7 @@ public final class EmpiricalVariogram {
     private static final int JTILE = 256;
     private static final int LANES = 4;
 
-    private final double[] edges;
+    private final double[][] edges; // per sector (bins merged per sector)
     private final double[] directions; // null: omnidirectional
     private final double tolerance;
     private final long[][] counts;
@@ -37,7 +43,7 @@ public final class EmpiricalVariogram {
     private final double[][] gamma;
     private final VariogramCloud cloud;
 
-    private EmpiricalVariogram(double[] edges, double[] directions, double tolerance, long[][] counts,
+    private EmpiricalVariogram(double[][] edges, double[] directions, double tolerance, long[][] counts,
             double[][] meanLag, double[][] gamma, VariogramCloud cloud) {
         this.edges = edges;
         this.directions = directions;
@@ -100,6 +106,13 @@ public final class EmpiricalVariogram {
         // centre the coordinates first (distances are unchanged): ‖a‖² + ‖b‖² − 2a·b on uncentred
         // coordinates far from the neutral element cancels the leading digits of small differences
         y = centredCopy(y, n, k);
+        // then divide by the power of two of the largest |centred coordinate| (exact): squared
+        // distances of coordinates near 1e200 would overflow, of coordinates near 1e-200 underflow
+        double yScale = AutocorrelationSupport.powerOfTwoScale(y);
+        double yInv = 1 / yScale;
+        for (int i = 0; i < y.length; i++) {
+            y[i] *= yInv;
+        }
         double[] nsq = Kernels.rowNormsSq(y, n, k);
         double[] yt = new double[k * n];
         for (int i = 0; i < n; i++) {
@@ -148,15 +161,92 @@ public final class EmpiricalVariogram {
                 }
             }
         }
+        double[][] mEdges = new double[ns][];
+        long[][] mCounts = new long[ns][];
+        double[][] mLag = new double[ns][];
+        double[][] mGam = new double[ns][];
+        double g2 = yScale * yScale;
         for (int s = 0; s < ns; s++) {
-            for (int b = 0; b < nb; b++) {
-                long c = counts[s][b];
-                lag[s][b] = c > 0 ? lag[s][b] / c : Double.NaN;
-                gam[s][b] = c > 0 ? gam[s][b] / (2.0 * c) : Double.NaN;
+            long pairs = 0;
+            for (long c : counts[s]) {
+                pairs += c;
+            }
+            if (pairs == 0) {
+                throw new IllegalArgumentException("no pair of locations lies within the lags [" + e[0] + ", "
+                        + maxLag + "]" + (dirs == null ? "" : " in the sector of direction " + dirs[s] + " degrees")
+                        + "; give a larger maximum lag, other bin edges" + (dirs == null ? "" : " or a wider angular"
+                        + " tolerance"));
+            }
+            long min = options.minimumPairs(pairs);
+            int[] first = mergeGroups(counts[s], min);
+            if (options.automaticMinimumPairs()) {
+                // keep at least four bins where the pairs allow (a three-parameter model needs them)
+                int nonEmpty = 0;
+                for (long c : counts[s]) {
+                    nonEmpty += c > 0 ? 1 : 0;
+                }
+                int want = Math.min(VariogramOptions.FEWEST_BINS, nonEmpty);
+                while (first.length - 1 < want && min > 1) {
+                    min = Math.max(1, min / 2);
+                    first = mergeGroups(counts[s], min);
+                }
+            }
+            int g = first.length - 1;
+            mEdges[s] = new double[g + 1];
+            mCounts[s] = new long[g];
+            mLag[s] = new double[g];
+            mGam[s] = new double[g];
+            for (int q = 0; q < g; q++) {
+                mEdges[s][q] = e[first[q]];
+                long c = 0;
+                double sh = 0, sg = 0;
+                for (int b = first[q]; b < first[q + 1]; b++) {
+                    c += counts[s][b];
+                    sh += lag[s][b];
+                    sg += gam[s][b];
+                }
+                mCounts[s][q] = c;
+                mLag[s][q] = sh / c;
+                mGam[s][q] = sg / (2.0 * c) * g2;
+                if (!Double.isFinite(mGam[s][q])) {
+                    throw new IllegalArgumentException("the squared B2 distances of bin " + q + " overflow a double"
+                            + " (centred coordinates up to about " + yScale + "); the densities are too far apart"
+                            + " to compare");
+                }
+            }
+            mEdges[s][g] = e[nb];
+        }
+        VariogramCloud cloud = options.cloudPairs() > 0
+                ? cloud(loc, y, k, maxLag, options.cloudPairs(), g2) : null;
+        return new EmpiricalVariogram(mEdges, dirs, options.tolerance(), mCounts, mLag, mGam, cloud);
+    }
+
+    /**
+     * Groups of adjacent bins, scanning from the shortest lag: a group closes when it holds at least
+     * min pairs; a remainder (fewer than min pairs, possibly none) joins the last closed group, or
+     * forms the only group if none closed. Returns the first bin of each group and, last, the
+     * number of bins. Needs at least one pair in all.
+     */
+    static int[] mergeGroups(long[] counts, long min) {
+        int nb = counts.length;
+        int[] first = new int[nb + 1];
+        int g = 0;
+        long acc = 0;
+        int start = 0;
+        for (int b = 0; b < nb; b++) {
+            acc += counts[b];
+            if (acc >= min) {
+                first[g++] = start;
+                start = b + 1;
+                acc = 0;
             }
         }
-        VariogramCloud cloud = options.cloudPairs() > 0 ? cloud(loc, y, k, maxLag, options.cloudPairs()) : null;
-        return new EmpiricalVariogram(e, dirs, options.tolerance(), counts, lag, gam, cloud);
+        if (g == 0) {
+            first[g++] = 0; // fewer pairs than min in all: one bin
+        }
+        // a remainder start..nb-1 (if any) joins the last group: nothing to do, it ends at nb
+        first[g] = nb;
+        return java.util.Arrays.copyOf(first, g + 1);
     }
 
     /** Per-tile bin totals: sums of squared B2 distances, sums of lags, pair counts. */
@@ -306,7 +396,9 @@ public final class EmpiricalVariogram {
                     continue;
                 }
                 // the same operations as Locations.distance, so a pair on a bin edge bins the same way
-                double h = geo ? Locations.kmFromChordSq(p, 3 * i, 3 * j, d2) : Math.sqrt(d2);
+                // planar: √d2 wherever d2 is in range, as Locations.planarNorm (the scaled form only beyond)
+                double h = geo ? Locations.kmFromChordSq(p, 3 * i, 3 * j, d2)
+                        : d2 <= 0x1p960 && d2 >= 0x1p-960 ? Math.sqrt(d2) : Locations.planarNorm(dx, dy);
                 if (h > e[nb]) {
                     continue;
                 }
@@ -385,7 +477,7 @@ public final class EmpiricalVariogram {
         return hi - 1;
     }
 
-    private static VariogramCloud cloud(Locations loc, double[] y, int k, double maxLag, int limit) {
+    private static VariogramCloud cloud(Locations loc, double[] y, int k, double maxLag, int limit, double g2) {
         int n = loc.size();
         int cap = Math.min(limit, 1 << 16);
         int[] a = new int[cap];
@@ -420,7 +512,11 @@ public final class EmpiricalVariogram {
                 a[count] = i;
                 b[count] = j;
                 d[count] = h;
-                g[count] = 0.5 * s;
+                g[count] = 0.5 * s * g2;
+                if (!Double.isFinite(g[count])) {
+                    throw new IllegalArgumentException("the squared B2 distance of locations " + i + " and " + j
+                            + " overflows a double; the densities are too far apart to compare");
+                }
                 count++;
             }
         }
@@ -428,9 +524,14 @@ public final class EmpiricalVariogram {
                 Arrays.copyOf(g, count), truncated);
     }
 
-    /** Number of bins. */
+    /** Number of bins of the first (or only) sector. */
     public int binCount() {
-        return edges.length - 1;
+        return binCount(0);
+    }
+
+    /** Number of bins of sector s (bins are merged per sector; see {@link VariogramOptions}). */
+    public int binCount(int sector) {
+        return edges[checkSector(sector)].length - 1;
     }
 
     /** Number of sectors (1 when omnidirectional). */
@@ -438,9 +539,14 @@ public final class EmpiricalVariogram {
         return counts.length;
     }
 
-    /** Bin edges e_0..e_B. */
+    /** Bin edges e_0..e_B of the first (or only) sector, after merging sparse bins. */
     public double[] edges() {
-        return edges.clone();
+        return edges(0);
+    }
+
+    /** Bin edges e_0..e_B of sector s, after merging sparse bins. */
+    public double[] edges(int sector) {
+        return edges[checkSector(sector)].clone();
     }
 
     /** Sector directions in degrees, or an empty array when omnidirectional. */
@@ -458,12 +564,12 @@ public final class EmpiricalVariogram {
         return counts[checkSector(sector)].clone();
     }
 
-    /** Mean lag per bin of sector s (NaN for an empty bin). */
+    /** Mean lag per bin of sector s (every bin holds at least one pair). */
     public double[] meanLags(int sector) {
         return meanLag[checkSector(sector)].clone();
     }
 
-    /** γ̂ per bin of sector s (NaN for an empty bin). */
+    /** γ̂ per bin of sector s (every bin holds at least one pair). */
     public double[] semivariances(int sector) {
         return gamma[checkSector(sector)].clone();
     }
@@ -498,6 +604,6 @@ public final class EmpiricalVariogram {
     @Override
     public String toString() {
         return "EmpiricalVariogram[bins=" + binCount() + ", sectors=" + sectorCount() + ", maxLag="
-                + edges[edges.length - 1] + "]";
+                + edges[0][edges[0].length - 1] + "]";
     }
 }

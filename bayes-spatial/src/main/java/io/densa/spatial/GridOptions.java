@@ -14,8 +14,8 @@ import java.util.function.ToDoubleFunction;
  * {@link io.densa.core.DensitySet} batches of one tile) and caller functions of the predicted
  * coordinates.
  *
- * <p>Defaults: tiles of 64 × 64 cells, variance on, no derived quantities, parallel, no progress
- * reports ({@link ProgressListener#NONE}).
+ * <p>Defaults: tiles of 64 × 64 cells, variance on, no derived quantities, no nearest-station
+ * distances, parallel, no progress reports ({@link ProgressListener#NONE}).
  */
 public final class GridOptions {
     private final int tileSize;
@@ -26,9 +26,16 @@ public final class GridOptions {
     private final List<ToDoubleFunction<double[]>> functions;
     private final boolean parallel;
     private final ProgressListener listener;
+    private final boolean nearest;
 
     private GridOptions(int tileSize, boolean variance, double[] thresholds, double[] probabilities, boolean means,
             List<ToDoubleFunction<double[]>> functions, boolean parallel, ProgressListener listener) {
+        this(tileSize, variance, thresholds, probabilities, means, functions, parallel, listener, false);
+    }
+
+    private GridOptions(int tileSize, boolean variance, double[] thresholds, double[] probabilities, boolean means,
+            List<ToDoubleFunction<double[]>> functions, boolean parallel, ProgressListener listener, boolean nearest) {
+        this.nearest = nearest;
         this.tileSize = tileSize;
         this.variance = variance;
         this.thresholds = thresholds;
@@ -49,12 +56,12 @@ public final class GridOptions {
         if (cells < 1 || cells > 1024) {
             throw new IllegalArgumentException("tile size must be in [1, 1024], got " + cells);
         }
-        return new GridOptions(cells, variance, thresholds, probabilities, means, functions, parallel, listener);
+        return new GridOptions(cells, variance, thresholds, probabilities, means, functions, parallel, listener, nearest);
     }
 
     /** Whether to compute the kriging variance per cell. */
     public GridOptions withVariance(boolean v) {
-        return new GridOptions(tileSize, v, thresholds, probabilities, means, functions, parallel, listener);
+        return new GridOptions(tileSize, v, thresholds, probabilities, means, functions, parallel, listener, nearest);
     }
 
     /** Tail probabilities P(X &gt; t) per cell for each threshold t (finite). */
@@ -65,7 +72,7 @@ public final class GridOptions {
                 throw new IllegalArgumentException("threshold " + i + " is not finite: " + t[i]);
             }
         }
-        return new GridOptions(tileSize, variance, t.clone(), probabilities, means, functions, parallel, listener);
+        return new GridOptions(tileSize, variance, t.clone(), probabilities, means, functions, parallel, listener, nearest);
     }
 
     /** Quantiles per cell for each probability in (0, 1). */
@@ -76,12 +83,12 @@ public final class GridOptions {
                 throw new IllegalArgumentException("quantile probability " + i + " must be in (0, 1), got " + probs[i]);
             }
         }
-        return new GridOptions(tileSize, variance, thresholds, probs.clone(), means, functions, parallel, listener);
+        return new GridOptions(tileSize, variance, thresholds, probs.clone(), means, functions, parallel, listener, nearest);
     }
 
     /** Whether to compute the mean E[X] of each predicted density. */
     public GridOptions withMeans(boolean m) {
-        return new GridOptions(tileSize, variance, thresholds, probabilities, m, functions, parallel, listener);
+        return new GridOptions(tileSize, variance, thresholds, probabilities, m, functions, parallel, listener, nearest);
     }
 
     /**
@@ -93,12 +100,12 @@ public final class GridOptions {
         List<ToDoubleFunction<double[]>> l = new ArrayList<>(functions);
         l.add(f);
         return new GridOptions(tileSize, variance, thresholds, probabilities, means, Collections.unmodifiableList(l),
-                parallel, listener);
+                parallel, listener, nearest);
     }
 
     /** Whether tiles are computed on the common ForkJoin pool (results are identical either way). */
     public GridOptions withParallel(boolean p) {
-        return new GridOptions(tileSize, variance, thresholds, probabilities, means, functions, p, listener);
+        return new GridOptions(tileSize, variance, thresholds, probabilities, means, functions, p, listener, nearest);
     }
 
     /**
@@ -112,7 +119,20 @@ public final class GridOptions {
      */
     public GridOptions withProgressListener(ProgressListener l) {
         return new GridOptions(tileSize, variance, thresholds, probabilities, means, functions, parallel,
-                Objects.requireNonNull(l, "listener"));
+                Objects.requireNonNull(l, "listener"), nearest);
+    }
+
+    /**
+     * Whether to report, per cell, the distance to the nearest data location
+     * ({@link GridTile#nearestDistances()}), in the locations' units: cells far from every station
+     * are extrapolations. The distances are a by-product of the prediction (no extra search).
+     */
+    public GridOptions withNearestDistances(boolean n) {
+        return new GridOptions(tileSize, variance, thresholds, probabilities, means, functions, parallel, listener, n);
+    }
+
+    boolean nearestDistances() {
+        return nearest;
     }
 
     int tileSize() {

@@ -48,6 +48,11 @@ final class GridPredictor {
             throw new IllegalArgumentException("grid prediction with external drift covariates is not supported;"
                     + " predict cell by cell with predict(x, y, covariates)");
         }
+        if (kr.loc.kind() == Locations.Kind.GEOGRAPHIC) {
+            // the corners bound every cell
+            kr.loc.requirePoint(grid.x(0), grid.y(0), "grid corner");
+            kr.loc.requirePoint(grid.x(grid.columns() - 1), grid.y(grid.rows() - 1), "grid corner");
+        }
         int ts = opt.tileSize();
         int tilesX = (grid.columns() + ts - 1) / ts;
         int tilesY = (grid.rows() + ts - 1) / ts;
@@ -148,8 +153,9 @@ final class GridPredictor {
         int k = kr.k;
         double[] coords = new double[m * k];
         double[] var = opt.variance() ? new double[m] : null;
+        double[] near = opt.nearestDistances() ? new double[m] : null;
         if (dual != null) {
-            dualTile(kr, grid, cols, rows, coords, dual);
+            dualTile(kr, grid, cols, rows, coords, dual, near);
         } else if (kr.options.neighbourhood().isGlobal()) {
             LocalSystem g = kr.globalSystem();
             double[] cv = new double[kr.n];
@@ -161,12 +167,18 @@ final class GridPredictor {
                 kr.targetCovariances(null, kr.n, x, y, dist, cv);
                 kr.driftAt(x, y, null, f0);
                 double v = g.predict(cv, f0, kr.c00, kr.centre(), coords, q * k, null, sc);
+                if (sc.residual > LocalSystem.CONSTRAINT_TOLERANCE) {
+                    kr.checkConstraints(sc.residual, x, y, g, Kriging.min(dist, kr.n));
+                }
                 if (var != null) {
                     var[q] = v;
                 }
+                if (near != null) {
+                    near[q] = Kriging.min(dist, kr.n);
+                }
             }
         } else {
-            localTile(kr, grid, cols, rows, coords, var);
+            localTile(kr, grid, cols, rows, coords, var, near);
         }
         DensitySet set = DensitySet.ofRowMajor(kr.space, coords, m, null);
         double[] t = opt.thresholds();
@@ -191,10 +203,11 @@ final class GridPredictor {
                 }
             }
         }
-        return new GridTile(tx, ty, cols, rows, set, var, tails, qs, means, vals);
+        return new GridTile(tx, ty, cols, rows, set, var, tails, qs, means, vals, near);
     }
 
-    private static void dualTile(Kriging kr, Grid grid, int[] cols, int[] rows, double[] coords, Dual d) {
+    private static void dualTile(Kriging kr, Grid grid, int[] cols, int[] rows, double[] coords, Dual d,
+            double[] near) {
         int m = cols.length, n = kr.n, k = kr.k, p = kr.p;
         int chunk = 64;
         double[] c0 = new double[chunk * n];
@@ -208,6 +221,9 @@ final class GridPredictor {
                 double x = grid.x(cols[q0 + q]), y = grid.y(rows[q0 + q]);
                 kr.targetCovariances(null, n, x, y, dist, row);
                 System.arraycopy(row, 0, c0, q * n, n);
+                if (near != null) {
+                    near[q0 + q] = Kriging.min(dist, n);
+                }
             }
             Kernels.multiply(c0, len, n, d.alpha, k, part, false);
             for (int q = 0; q < len; q++) {
@@ -229,7 +245,8 @@ final class GridPredictor {
     /** Cells per side of the sub-blocks that share one candidate query. */
     private static final int SUB = 16;
 
-    private static void localTile(Kriging kr, Grid grid, int[] cols, int[] rows, double[] coords, double[] var) {
+    private static void localTile(Kriging kr, Grid grid, int[] cols, int[] rows, double[] coords, double[] var,
+            double[] near) {
         int m = cols.length;
         int cmin = Integer.MAX_VALUE, rmin = Integer.MAX_VALUE, cmax = 0;
         for (int q = 0; q < m; q++) {
@@ -268,14 +285,14 @@ final class GridPredictor {
         LocalSystem.Scratch sc = new LocalSystem.Scratch(kr.p);
         for (int gI = 0; gI < groups; gI++) {
             if (start[gI + 1] > start[gI]) {
-                localCells(kr, grid, cols, rows, order, start[gI], start[gI + 1], coords, var, cache, sc);
+                localCells(kr, grid, cols, rows, order, start[gI], start[gI + 1], coords, var, near, cache, sc);
             }
         }
     }
 
     /** Predicts the cells order[from..to) sharing one candidate query. */
     private static void localCells(Kriging kr, Grid grid, int[] cols, int[] rows, int[] order, int from, int to,
-            double[] coords, double[] var, Map<Key, LocalSystem> cache, LocalSystem.Scratch sc) {
+            double[] coords, double[] var, double[] near, Map<Key, LocalSystem> cache, LocalSystem.Scratch sc) {
         int k = kr.k, p = kr.p;
         Neighbourhood hood = kr.options.neighbourhood();
         // centre and half-diagonal of the group's cells
@@ -336,8 +353,14 @@ final class GridPredictor {
             kr.targetCovariances(nb, mm, x, y, dv, cv);
             kr.driftAt(x, y, null, f0);
             double v = sys.predict(cv, f0, kr.c00, kr.centre(), coords, q * k, null, sc);
+            if (sc.residual > LocalSystem.CONSTRAINT_TOLERANCE) {
+                kr.checkConstraints(sc.residual, x, y, sys, Kriging.min(dv, mm));
+            }
             if (var != null) {
                 var[q] = v;
+            }
+            if (near != null) {
+                near[q] = Kriging.min(dv, mm);
             }
         }
     }

@@ -24,10 +24,12 @@ import io.densa.core.DensitySet;
  * @param quantiles         [probability][cell] quantiles, in the order given
  * @param means             E[X] per cell, or null if not requested
  * @param cellValues        [function][cell] values of the caller functions, in the order added
+ * @param nearestDistances  distance from each cell to the nearest data location (locations' units),
+ *                          or null if not requested ({@link GridOptions#withNearestDistances})
  */
 public record GridTile(int tileColumn, int tileRow, int[] columns, int[] rows, DensitySet predictions,
         double[] variances, double[][] tailProbabilities, double[][] quantiles, double[] means,
-        double[][] cellValues) {
+        double[][] cellValues, double[] nearestDistances) {
     /** Number of cells in the tile (after masking). */
     public int size() {
         return columns.length;

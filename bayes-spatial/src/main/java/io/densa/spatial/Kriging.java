@@ -45,6 +45,18 @@ import org.locationtech.jts.geom.prep.PreparedGeometryFactory;
  * definite functions on spheres, Bernoulli 19(4) — from memory); a failure shows as a Cholesky
  * breakdown ({@link DensaException}).
  *
+ * <p><b>Numerical safeguards.</b> Drift monomials are evaluated on coordinates centred and scaled
+ * by the data's bounding box, drift covariates standardised (see {@link #driftCoefficients()});
+ * a drift function that the data locations cannot identify (a constant covariate, a covariate
+ * that is a combination of the monomials, y on locations along a horizontal line) is named: an
+ * {@link IllegalArgumentException} at construction, a {@link DensaException} for a local
+ * neighbourhood. After each solve the unbiasedness constraints Fᵀλ = f(s_0) are checked; when
+ * their relative residual exceeds 10⁻⁶ after one step of iterative refinement (a polynomial drift
+ * extrapolated far outside the data), the prediction throws a {@link DensaException} naming the
+ * target, the residual and the distance to the nearest station. Every prediction reports that
+ * distance ({@link KrigingPrediction#nearestStationDistance()}), so a caller can tell
+ * extrapolation; grids can report it per cell ({@link GridOptions#withNearestDistances}).
+ *
  * <p>Immutable after construction and safe to share between threads; factorisations are computed
  * lazily (the global one once).
  */
@@ -72,6 +84,9 @@ public final class Kriging {
     final Drift drift;
     final int p;
     private final double[] fRows;
+    private final double[] covShift;
+    private final double[] covUnit;
+    private final double[] covSpread;
     private final double cx;
     private final double cy;
     private final double scale;
@@ -150,18 +165,133 @@ public final class Kriging {
         this.cy = 0.5 * (bb[1] + bb[3]);
         double s = 0.5 * Math.max(bb[2] - bb[0], bb[3] - bb[1]);
         this.scale = s > 0 ? s : 1;
-        double diam = loc.distance(bb[0], bb[1], bb[2], bb[3]);
+        double diam = loc.unchecked(bb[0], bb[1], bb[2], bb[3]);
         this.pseudoSill = model.bounded() ? model.sill() : 2 * model.gammaUnchecked(Math.max(diam, 1e-300)) + 1;
         this.c00 = pseudoSill;
         this.fRows = new double[n * p];
-        double[] cov = new double[drift == null ? 0 : drift.covariateCount()];
+        int q = p > 0 ? drift.covariateCount() : 0;
+        this.covShift = new double[q];
+        this.covUnit = new double[q];
+        this.covSpread = new double[q];
+        standardiseCovariates(q);
+        double[] cov = new double[q];
         for (int i = 0; i < n && p > 0; i++) {
-            for (int j = 0; j < cov.length; j++) {
-                cov[j] = drift.covariate(i, j);
+            for (int j = 0; j < q; j++) {
+                cov[j] = standardised(j, drift.covariate(i, j));
             }
             drift.evaluate((loc.x(i) - cx) / scale, (loc.y(i) - cy) / scale, cov, fRows, i * p);
         }
+        if (p > 1) {
+            int dep = dependentColumn(fRows, n, p, null);
+            if (dep >= 0) {
+                throw new IllegalArgumentException(dependentMessage(dep, n));
+            }
+        }
         checkCoincident();
+    }
+
+    /**
+     * Drift covariates enter the drift standardised, (c / u − shift) / spread with u the power of two
+     * of the column's largest |value| and shift, spread the mean and largest deviation of c / u
+     * (columns near 1e300 or 1e-300 neither overflow nor underflow F'C⁻¹F): with the constant term
+     * always in the drift this spans the same functions, so predictions are unchanged, and
+     * {@link #driftCoefficients()} converts the coefficients back to the covariates' own units.
+     *
+     * @throws IllegalArgumentException naming a covariate that is constant over the data locations
+     */
+    private void standardiseCovariates(int q) {
+        for (int j = 0; j < q; j++) {
+            double max = 0;
+            for (int i = 0; i < n; i++) {
+                max = Math.max(max, Math.abs(drift.covariate(i, j)));
+            }
+            double u = max > 0 ? Math.scalb(1.0, Math.getExponent(max)) : 1;
+            double mean = 0;
+            for (int i = 0; i < n; i++) {
+                mean += drift.covariate(i, j) / u;
+            }
+            mean /= n;
+            double spread = 0;
+            for (int i = 0; i < n; i++) {
+                spread = Math.max(spread, Math.abs(drift.covariate(i, j) / u - mean));
+            }
+            if (!(spread > 1e-13)) {
+                throw new IllegalArgumentException("drift covariate " + j + " is constant over the " + n + " data"
+                        + " locations (every value is " + drift.covariate(0, j) + "): it duplicates the constant term"
+                        + " of the drift, so its coefficient is not identifiable; drop it");
+            }
+            covUnit[j] = u;
+            covShift[j] = mean;
+            covSpread[j] = spread;
+        }
+    }
+
+    private double standardised(int j, double value) {
+        return (value / covUnit[j] - covShift[j]) / covSpread[j];
+    }
+
+    /**
+     * The first drift column (of the m × p row-major f, rows idx or all) that is a linear combination
+     * of the earlier ones, by modified Gram–Schmidt with reorthogonalisation on the columns: column
+     * j is dependent when its component orthogonal to the earlier columns has norm at most 10⁻⁹ of
+     * its own; −1 if none. The columns are monomials of coordinates scaled to [−1, 1] and
+     * standardised covariates, so the threshold is relative to columns of comparable size.
+     */
+    static int dependentColumn(double[] f, int m, int p, double[] work) {
+        double[] qm = work != null && work.length >= m * p ? work : new double[m * p];
+        for (int j = 0; j < p; j++) {
+            double norm0 = 0;
+            for (int r = 0; r < m; r++) {
+                double v = f[r * p + j];
+                qm[r * p + j] = v;
+                norm0 += v * v;
+            }
+            norm0 = Math.sqrt(norm0);
+            for (int pass = 0; pass < 2; pass++) {
+                for (int i = 0; i < j; i++) {
+                    double d = 0;
+                    for (int r = 0; r < m; r++) {
+                        d += qm[r * p + i] * qm[r * p + j];
+                    }
+                    for (int r = 0; r < m; r++) {
+                        qm[r * p + j] -= d * qm[r * p + i];
+                    }
+                }
+            }
+            double norm = 0;
+            for (int r = 0; r < m; r++) {
+                norm += qm[r * p + j] * qm[r * p + j];
+            }
+            norm = Math.sqrt(norm);
+            if (!(norm > 1e-9 * norm0)) {
+                return j;
+            }
+            for (int r = 0; r < m; r++) {
+                qm[r * p + j] /= norm;
+            }
+        }
+        return -1;
+    }
+
+    /** The message for a drift column that the others determine over m locations. */
+    String dependentMessage(int col, int m) {
+        String name = drift.functionName(col);
+        int q = col - drift.monomialCount();
+        if (q >= 0) {
+            return "drift covariate " + q + " is a linear combination of the earlier drift functions (" + earlier(col)
+                    + ") over the " + m + " data locations, so its coefficient is not identifiable; drop it";
+        }
+        return "drift function " + name + " (column " + col + ") is a linear combination of the earlier drift"
+                + " functions (" + earlier(col) + ") over the " + m + " data locations (for instance all of them on a"
+                + " line), so its coefficient is not identifiable; use a lower drift degree or more locations";
+    }
+
+    private String earlier(int col) {
+        StringBuilder sb = new StringBuilder();
+        for (int j = 0; j < col; j++) {
+            sb.append(j == 0 ? "" : ", ").append(drift.functionName(j));
+        }
+        return sb.toString();
     }
 
     private void checkCoincident() {
@@ -198,6 +328,10 @@ public final class Kriging {
     /**
      * Universal kriging with the given drift (monomials in the coordinates and optional external
      * covariates; a drift of degree 0 without covariates is ordinary kriging).
+     *
+     * @throws IllegalArgumentException as {@link #ordinary}, and naming a drift function (a
+     *                                  constant covariate, or one that is a linear combination of
+     *                                  the earlier drift functions over the data locations)
      */
     public static Kriging universal(Locations locations, DensitySet densities, Drift drift, VariogramModel model,
             KrigingOptions options) {
@@ -241,18 +375,28 @@ public final class Kriging {
             return;
         }
         int q = drift.covariateCount();
+        double[] sc = cov;
         if (q > 0) {
             if (cov == null || cov.length != q) {
                 throw new IllegalArgumentException("the drift has " + q + " covariate(s); the target supplies "
                         + (cov == null ? "none" : cov.length));
             }
+            sc = new double[q];
             for (int j = 0; j < q; j++) {
                 if (!Double.isFinite(cov[j])) {
                     throw new IllegalArgumentException("target covariate " + j + " is not finite: " + cov[j]);
                 }
+                sc[j] = standardised(j, cov[j]);
             }
         }
-        drift.evaluate((x - cx) / scale, (yy - cy) / scale, cov, out, 0);
+        drift.evaluate((x - cx) / scale, (yy - cy) / scale, sc, out, 0);
+        for (int j = 0; j < p; j++) {
+            if (!Double.isFinite(out[j])) {
+                throw new IllegalArgumentException("drift function " + drift.functionName(j) + " is not finite at"
+                        + " target (" + x + ", " + yy + ") (" + out[j] + "): the target is too far from the data"
+                        + " locations (their centre (" + cx + ", " + cy + "), half-width " + scale + ")");
+            }
+        }
     }
 
     /** The (pseudo-)covariance at lag h; C(0) at h = 0. */
@@ -265,12 +409,12 @@ public final class Kriging {
         if (loc.kind() == Locations.Kind.PLANAR) {
             for (int r = 0; r < m; r++) {
                 int i = idx == null ? r : idx[r];
-                double dx = sx[i] - x, dy = sy[i] - yy;
-                out[r] = Math.sqrt(dx * dx + dy * dy);
+                out[r] = Locations.planarNorm(sx[i] - x, sy[i] - yy);
             }
         } else {
             for (int r = 0; r < m; r++) {
-                out[r] = loc.distanceTo(idx == null ? r : idx[r], x, yy);
+                int i = idx == null ? r : idx[r];
+                out[r] = loc.unchecked(sx[i], sy[i], x, yy);
             }
         }
     }
@@ -376,10 +520,8 @@ public final class Kriging {
         return options.neighbourhood().isGlobal() && nb.length == n ? globalSystem() : LocalSystem.build(this, nb);
     }
 
-    private static void checkTarget(double x, double yy) {
-        if (!Double.isFinite(x) || !Double.isFinite(yy)) {
-            throw new IllegalArgumentException("target must be finite, got (" + x + ", " + yy + ")");
-        }
+    private void checkTarget(double x, double yy) {
+        loc.requirePoint(x, yy, "target");
     }
 
     private KrigingPrediction predictAt(double x, double yy, double[] covariates, int exclude, boolean withWeights) {
@@ -389,11 +531,58 @@ public final class Kriging {
         int[] nb = neighbours(x, yy, exclude);
         LocalSystem sys = systemFor(nb);
         double[] c0 = new double[nb.length];
-        targetCovariances(nb, nb.length, x, yy, new double[nb.length], c0);
+        double[] dist = new double[nb.length];
+        targetCovariances(nb, nb.length, x, yy, dist, c0);
+        double nearest = min(dist, nb.length);
         double[] out = new double[k];
         double[] w = withWeights ? new double[nb.length] : null;
-        double var = sys.predict(c0, f0, c00, centre, out, 0, w, new LocalSystem.Scratch(p));
-        return new KrigingPrediction(space.density(out), var, nb, w);
+        LocalSystem.Scratch sc = new LocalSystem.Scratch(p);
+        double var = sys.predict(c0, f0, c00, centre, out, 0, w, sc);
+        checkConstraints(sc.residual, x, yy, sys, nearest);
+        if (w != null && p > 0) {
+            checkConstraints(weightResidual(nb, w, f0), x, yy, sys, nearest);
+        }
+        return new KrigingPrediction(space.density(out), var, nb, w, nearest);
+    }
+
+    static double min(double[] a, int m) {
+        double v = Double.POSITIVE_INFINITY;
+        for (int i = 0; i < m; i++) {
+            v = Math.min(v, a[i]);
+        }
+        return v;
+    }
+
+    /** max_j |Σ_r λ_r F_{idx[r], j} − f0_j| / max(1, |f0_j|) for the reported weights. */
+    private double weightResidual(int[] idx, double[] w, double[] f0) {
+        double worst = 0;
+        for (int j = 0; j < p; j++) {
+            double s = -f0[j];
+            for (int r = 0; r < idx.length; r++) {
+                s += fRows[idx[r] * p + j] * w[r];
+            }
+            worst = Math.max(worst, Math.abs(s) / Math.max(1, Math.abs(f0[j])));
+        }
+        return Double.isNaN(worst) ? Double.POSITIVE_INFINITY : worst;
+    }
+
+    /**
+     * Throws when the unbiasedness constraints Fᵀλ = f(s_0) hold only to a relative residual above
+     * {@link LocalSystem#CONSTRAINT_TOLERANCE}: the system is too ill-conditioned at this target
+     * (typically a polynomial drift extrapolated far outside the data).
+     */
+    void checkConstraints(double residual, double x, double yy, LocalSystem sys, double nearest) {
+        if (residual <= LocalSystem.CONSTRAINT_TOLERANCE) {
+            return;
+        }
+        throw new DensaException(String.format(java.util.Locale.ROOT, "%s kriging at target (%s, %s) is numerically"
+                + " unreliable: its weights satisfy the unbiasedness constraints F'lambda = f(s0) only to a relative"
+                + " residual of %.3g (accepted: %.0e; the weights should sum to 1). The target is %.4g from the"
+                + " nearest data location, while the data span a half-width of %.4g, so the drift (%s) is"
+                + " extrapolated far beyond the data; predict closer to the data or use a lower drift degree",
+                type, x, yy, residual, LocalSystem.CONSTRAINT_TOLERANCE, nearest, scale, drift),
+                new KrigingDiagnostics(sys.m, sys.condition, sys.idx.clone(), "unbiasedness constraint residual "
+                        + residual));
     }
 
     // ------------------------------------------------------------------ public prediction API
@@ -449,6 +638,11 @@ public final class Kriging {
         }
         double[][] pts = discretise(polygon, spacing);
         int m = pts.length;
+        double nearest = Double.POSITIVE_INFINITY;
+        for (double[] u : pts) {
+            loc.requirePoint(u[0], u[1], "block point");
+            nearest = Math.min(nearest, index.kthDistance(u[0], u[1], 1));
+        }
         Point ip = polygon.getInteriorPoint();
         int[] nb = neighbours(ip.getX(), ip.getY(), -1);
         LocalSystem sys = systemFor(nb);
@@ -476,14 +670,19 @@ public final class Kriging {
         double cvv = 0;
         for (int a = 0; a < m; a++) {
             for (int b = 0; b < m; b++) {
-                cvv += a == b ? c00 : cov(loc.distance(pts[a][0], pts[a][1], pts[b][0], pts[b][1]));
+                cvv += a == b ? c00 : cov(loc.unchecked(pts[a][0], pts[a][1], pts[b][0], pts[b][1]));
             }
         }
         cvv /= (double) m * m;
         double[] out = new double[k];
         double[] w = new double[nb.length];
-        double var = sys.predict(c0, f0, cvv, centre, out, 0, w, new LocalSystem.Scratch(p));
-        return new KrigingPrediction(space.density(out), var, nb, w);
+        LocalSystem.Scratch sc = new LocalSystem.Scratch(p);
+        double var = sys.predict(c0, f0, cvv, centre, out, 0, w, sc);
+        checkConstraints(sc.residual, ip.getX(), ip.getY(), sys, nearest);
+        if (p > 0) {
+            checkConstraints(weightResidual(nb, w, f0), ip.getX(), ip.getY(), sys, nearest);
+        }
+        return new KrigingPrediction(space.density(out), var, nb, w, nearest);
     }
 
     /** Centres of a square grid of the given spacing covered by the polygon (package-private for tests). */
@@ -690,13 +889,30 @@ public final class Kriging {
 
     /**
      * Generalised-least-squares drift coefficients β̂ = (FᵀC⁻¹F)⁻¹FᵀC⁻¹Y from the global system
-     * (p × K; p = 0 for simple kriging).
+     * (p × K; p = 0 for simple kriging), of the drift functions as {@link Drift} defines them:
+     * monomials of the centred and scaled coordinates, then the covariates in their own units.
+     *
+     * @throws DensaException if a covariate's coefficient in the covariate's own units overflows a
+     *                        double (covariate values far below 1e-300)
      */
     public double[][] driftCoefficients() {
         double[] flat = driftCoefficientsFlat();
         double[][] beta = new double[p][k];
         for (int j = 0; j < p; j++) {
             System.arraycopy(flat, j * k, beta[j], 0, k);
+        }
+        int mono = p - covUnit.length;
+        for (int j = 0; j < covUnit.length; j++) {
+            for (int c = 0; c < k; c++) {
+                double b = beta[mono + j][c] / covSpread[j];
+                beta[0][c] -= b * covShift[j];
+                beta[mono + j][c] = b / covUnit[j];
+                if (!Double.isFinite(beta[mono + j][c]) || !Double.isFinite(beta[0][c])) {
+                    throw new DensaException("the coefficient of drift covariate " + j + " overflows a double in the"
+                            + " covariate's units (values up to " + covUnit[j] + ")",
+                            new KrigingDiagnostics(n, Double.NaN, new int[0], "drift coefficient overflow"));
+                }
+            }
         }
         return beta;
     }
@@ -749,14 +965,15 @@ public final class Kriging {
         return a;
     }
 
-    /** Drift residuals Y − F β̂ (row-major n × K), for re-estimating the residual variogram. */
-    double[] driftResiduals(double[][] beta) {
+    /** Drift residuals Y − F β̂ (row-major n × K) of the GLS drift, for re-estimating the residual variogram. */
+    double[] driftResiduals() {
+        double[] beta = driftCoefficientsFlat();
         double[] r = y.clone();
         for (int i = 0; i < n; i++) {
             for (int j = 0; j < p; j++) {
                 double f = fRows[i * p + j];
                 for (int c = 0; c < k; c++) {
-                    r[i * k + c] -= f * beta[j][c];
+                    r[i * k + c] -= f * beta[j * k + c];
                 }
             }
         }

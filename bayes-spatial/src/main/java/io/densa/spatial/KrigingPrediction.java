@@ -10,8 +10,15 @@ import io.densa.core.Density;
  * @param variance   the kriging variance E‖X(s_0) ⊖ X̂(s_0)‖²_B (B2 norm squared)
  * @param neighbours the data location indices used (ascending)
  * @param weights    λ_i for those neighbours, or null when not requested
+ * @param nearestStationDistance distance from the target to the nearest data location (in
+ *                   the locations' units: planar units, or km for geographic locations; for a
+ *                   block, from its nearest discretisation point to the nearest data location;
+ *                   in leave-one-out, the left-out location does not count): a target many
+ *                   ranges away from every station is an extrapolation, whose prediction is the
+ *                   drift alone with a variance near the sill (or growing with the drift)
  */
-public record KrigingPrediction(Density density, double variance, int[] neighbours, double[] weights) {
+public record KrigingPrediction(Density density, double variance, int[] neighbours, double[] weights,
+        double nearestStationDistance) {
 
     /** Copies the array components (the caller keeps its arrays). */
     public KrigingPrediction {
@@ -32,7 +39,7 @@ public record KrigingPrediction(Density density, double variance, int[] neighbou
     }
 
     private Object[] parts() {
-        return new Object[] {density, variance, neighbours, weights};
+        return new Object[] {density, variance, neighbours, weights, nearestStationDistance};
     }
 
     /** Equality by content of every component (arrays element by element). */
@@ -50,6 +57,7 @@ public record KrigingPrediction(Density density, double variance, int[] neighbou
     /** The components, arrays printed by content. */
     @Override
     public String toString() {
-        return RecordArrays.describe("KrigingPrediction", new String[] {"density", "variance", "neighbours", "weights"}, parts());
+        return RecordArrays.describe("KrigingPrediction", new String[] {"density", "variance", "neighbours", "weights",
+            "nearestStationDistance"}, parts());
     }
 }

@@ -248,10 +248,23 @@ public final class LocalMoran {
             double var = wi2 * (nn - b2) / (nn - 1) + (wi * wi - wi2) * (2 * b2 - nn) / ((nn - 1) * (nn - 2))
                     - e * e;
             sum += stat[i];
-            units.add(new Unit(f.kept()[i], stat[i], z[i], lag[i], quadrant(z[i], lag[i]), e, var, condE[i], pTwo[i],
+            double dev = z[i] * f.scale(), lg = lag[i] * f.scale();
+            if (!Double.isFinite(dev) || !Double.isFinite(lg)) {
+                throw new IllegalArgumentException("the deviation from the mean or the spatial lag of unit " + f.kept()[i]
+                        + " overflows a double (values up to " + maxAbs(values) + "); rescale the values");
+            }
+            units.add(new Unit(f.kept()[i], stat[i], dev, lg, quadrant(z[i], lag[i]), e, var, condE[i], pTwo[i],
                     pGt[i], pLt[i], adj[i]));
         }
         return new Result(Collections.unmodifiableList(units), sum, w.s0(), f.excluded(), r, seed);
+    }
+
+    private static double maxAbs(double[] v) {
+        double m = 0;
+        for (double x : v) {
+            m = Math.max(m, Math.abs(x));
+        }
+        return m;
     }
 
     private static Quadrant quadrant(double z, double lag) {

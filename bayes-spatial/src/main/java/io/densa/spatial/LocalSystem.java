@@ -19,6 +19,13 @@ import org.ejml.interfaces.decomposition.CholeskyDecomposition_F64;
  */
 final class LocalSystem {
     private static final int EJML_THRESHOLD = 160;
+    /**
+     * Largest accepted relative residual of the unbiasedness constraints Fᵀλ = f0, per drift
+     * function |(Fᵀλ − f0)_j| / max(1, |f0_j|): weights that sum to 1 ± 10⁻⁶ (our choice; well
+     * conditioned systems give about 10⁻¹⁵, and far outside the data the residual grows with the
+     * drift's extrapolation until it reaches order 1).
+     */
+    static final double CONSTRAINT_TOLERANCE = 1e-6;
 
     final int[] idx;
     final int m;
@@ -76,6 +83,15 @@ final class LocalSystem {
         forwardRows(l, m, g, p);
         double[] sInv = new double[p * p];
         if (p > 0) {
+            double[] f = new double[m * p];
+            for (int r = 0; r < m; r++) {
+                kr.driftRow(idx[r], f, r * p);
+            }
+            int dep = p > 1 ? Kriging.dependentColumn(f, m, p, null) : -1;
+            if (dep >= 0) {
+                throw new DensaException(kr.dependentMessage(dep, m), new KrigingDiagnostics(m, cond, idx.clone(),
+                        "dependent drift function " + dep));
+            }
             double[] s = new double[p * p];
             for (int r = 0; r < m; r++) {
                 for (int i = 0; i < p; i++) {
@@ -173,7 +189,15 @@ final class LocalSystem {
     }
 
     private static double[] inverseSpd(double[] s, int p, int[] idx) {
-        double[] l = cholesky(s.clone(), p, idx, "drift matrix F'C^-1F");
+        double[] l;
+        try {
+            l = cholesky(s.clone(), p, idx, "drift matrix F'C^-1F");
+        } catch (DensaException e) {
+            throw new DensaException("the drift is not identifiable from these " + idx.length + " locations (the "
+                    + p + " x " + p + " matrix F'C^-1F of the drift functions is not positive definite): use fewer"
+                    + " drift functions or more neighbours", new KrigingDiagnostics(idx.length,
+                    Double.POSITIVE_INFINITY, idx.clone(), "singular drift matrix"));
+        }
         double dmax = 0, dmin = Double.POSITIVE_INFINITY;
         for (int r = 0; r < p; r++) {
             dmax = Math.max(dmax, l[r * p + r]);
@@ -236,6 +260,8 @@ final class LocalSystem {
     static final class Scratch {
         final double[] r;
         final double[] mu;
+        /** Relative residual of the unbiasedness constraints of the last {@link #predict} (0 if p = 0). */
+        double residual;
 
         Scratch(int p) {
             r = new double[Math.max(1, p)];
@@ -244,9 +270,32 @@ final class LocalSystem {
     }
 
     /**
+     * The unbiasedness constraints in the factorised form: the weights λ = L⁻ᵀz satisfy
+     * Fᵀλ = (LG)ᵀL⁻ᵀz = Gᵀz, and the prediction zᵀL⁻¹Y has exactly these effective weights. Writes
+     * Gᵀz − f0 into rr and returns max_j |rr_j| / max(1, |f0_j|).
+     */
+    private double constraintResidual(double[] z, double[] f0, double[] rr) {
+        java.util.Arrays.fill(rr, 0, p, 0.0);
+        for (int r = 0; r < m; r++) {
+            double zr = z[r];
+            for (int j = 0; j < p; j++) {
+                rr[j] += g[r * p + j] * zr;
+            }
+        }
+        double worst = 0;
+        for (int j = 0; j < p; j++) {
+            rr[j] -= f0[j];
+            worst = Math.max(worst, Math.abs(rr[j]) / Math.max(1, Math.abs(f0[j])));
+        }
+        return Double.isNaN(worst) ? Double.POSITIVE_INFINITY : worst;
+    }
+
+    /**
      * Predicts at a target. c0 (length m) is overwritten with z = v − Gμ; f0 the drift at the target;
      * c00 the covariance at lag 0. Writes centre + zᵀL⁻¹Y into out[off..off+k) and returns the
-     * variance (rounding below zero reported as 0). If weights is non-null, writes λ into it.
+     * variance (rounding below zero reported as 0). If weights is non-null, writes λ into it. The
+     * relative residual of the unbiasedness constraints goes to scratch.residual (after one step of
+     * iterative refinement when it exceeds {@link #CONSTRAINT_TOLERANCE}); the caller checks it.
      */
     double predict(double[] c0, double[] f0, double c00, double[] centre, double[] out, int off, double[] weights,
             Scratch scratch) {
@@ -284,6 +333,28 @@ final class LocalSystem {
                 }
                 c0[r] -= s;
             }
+            double res = constraintResidual(c0, f0, rr);
+            if (res > CONSTRAINT_TOLERANCE) {
+                // one step of iterative refinement: z −= G S⁻¹ (Gᵀz − f0)
+                for (int i = 0; i < p; i++) {
+                    double s = 0;
+                    for (int j = 0; j < p; j++) {
+                        s += sInv[i * p + j] * rr[j];
+                    }
+                    mu[i] = s;
+                }
+                for (int r = 0; r < m; r++) {
+                    double s = 0;
+                    for (int j = 0; j < p; j++) {
+                        s += g[r * p + j] * mu[j];
+                    }
+                    c0[r] -= s;
+                }
+                res = constraintResidual(c0, f0, rr);
+            }
+            scratch.residual = res;
+        } else {
+            scratch.residual = 0;
         }
         for (int c = 0; c < k; c++) {
             out[off + c] = centre[c];

@@ -40,11 +40,12 @@ public final class Locations {
      *
      * @param x first coordinates (copied)
      * @param y second coordinates (copied)
-     * @throws IllegalArgumentException on mismatched lengths or a non-finite coordinate (naming the
-     *                                  index)
+     * @throws IllegalArgumentException on mismatched lengths, a non-finite coordinate (naming the
+     *                                  index), or a bounding box whose diagonal overflows a double
      */
     public static Locations planar(double[] x, double[] y) {
         check(x, y);
+        checkSpan(x, y);
         return new Locations(Kind.PLANAR, x.clone(), y.clone());
     }
 
@@ -67,33 +68,82 @@ public final class Locations {
      * Geographic locations in degrees.
      *
      * @throws IllegalArgumentException if a latitude is outside [−90, 90], a longitude outside
-     *                                  [−180, 360], or a value is not finite
+     *                                  [−180, 360], or a value is not finite (the check of
+     *                                  {@link #requirePoint}, naming the index)
      */
     public static Locations geographic(double[] longitude, double[] latitude) {
-        check(longitude, latitude);
+        checkLengths(longitude, latitude);
         for (int i = 0; i < latitude.length; i++) {
-            if (!(latitude[i] >= -90 && latitude[i] <= 90)) {
-                throw new IllegalArgumentException("latitude " + i + " = " + latitude[i] + " is outside [-90, 90]");
-            }
-            if (!(longitude[i] >= -180 && longitude[i] <= 360)) {
-                throw new IllegalArgumentException("longitude " + i + " = " + longitude[i]
-                        + " is outside [-180, 360]");
-            }
+            checkGeographic(longitude[i], latitude[i], "location " + i);
         }
         return new Locations(Kind.GEOGRAPHIC, longitude.clone(), latitude.clone());
     }
 
-    private static void check(double[] x, double[] y) {
+    /**
+     * The one check of a geographic point: longitude in [−180, 360] and latitude in [−90, 90]
+     * (NaN fails both). Used for locations, for targets of prediction and neighbour queries, and by
+     * {@link #greatCircleKm}.
+     *
+     * @param what names the point in the message ("location 3", "target", ...)
+     */
+    static void checkGeographic(double lon, double lat, String what) {
+        if (!(lat >= -90 && lat <= 90) || !(lon >= -180 && lon <= 360)) {
+            throw new IllegalArgumentException(what + " (longitude " + lon + ", latitude " + lat + ") is not a"
+                    + " geographic point: longitude must be in [-180, 360] and latitude in [-90, 90] degrees");
+        }
+    }
+
+    /**
+     * Checks a point given in this coordinate system, as every query with a caller's point does
+     * (prediction targets, neighbour queries, {@link #distanceTo}): planar points must be finite and
+     * lie close enough to the locations that their distances stay finite; geographic points as in
+     * {@link #geographic}.
+     *
+     * @param what names the point in the message
+     * @throws IllegalArgumentException naming the point and what would be accepted
+     */
+    public void requirePoint(double px, double py, String what) {
+        if (kind == Kind.GEOGRAPHIC) {
+            checkGeographic(px, py, what);
+            return;
+        }
+        if (!Double.isFinite(px) || !Double.isFinite(py)) {
+            throw new IllegalArgumentException(what + " must be finite, got (" + px + ", " + py + ")");
+        }
+    }
+
+    private static void checkLengths(double[] x, double[] y) {
         Objects.requireNonNull(x, "x");
         Objects.requireNonNull(y, "y");
         if (x.length != y.length) {
             throw new IllegalArgumentException("coordinate arrays differ in length: " + x.length + " and " + y.length);
         }
+    }
+
+    private static void check(double[] x, double[] y) {
+        checkLengths(x, y);
         for (int i = 0; i < x.length; i++) {
             if (!Double.isFinite(x[i]) || !Double.isFinite(y[i])) {
                 throw new IllegalArgumentException("location " + i + " has a non-finite coordinate (" + x[i] + ", "
                         + y[i] + ")");
             }
+        }
+    }
+
+    /** Planar only: the distance between the two farthest corners of the bounding box must be finite. */
+    private static void checkSpan(double[] x, double[] y) {
+        double x0 = Double.POSITIVE_INFINITY, x1 = Double.NEGATIVE_INFINITY;
+        double y0 = Double.POSITIVE_INFINITY, y1 = Double.NEGATIVE_INFINITY;
+        for (int i = 0; i < x.length; i++) {
+            x0 = Math.min(x0, x[i]);
+            x1 = Math.max(x1, x[i]);
+            y0 = Math.min(y0, y[i]);
+            y1 = Math.max(y1, y[i]);
+        }
+        if (x.length > 0 && !Double.isFinite(planarNorm(x1 - x0, y1 - y0))) {
+            throw new IllegalArgumentException("the locations span [" + x0 + ", " + x1 + "] x [" + y0 + ", " + y1
+                    + "], whose diagonal overflows a double; shift or rescale the coordinates (spans up to about"
+                    + " 1e308 are accepted)");
         }
     }
 
@@ -129,21 +179,61 @@ public final class Locations {
 
     /** Distance between locations i and j. */
     public double distance(int i, int j) {
-        return distance(x[i], y[i], x[j], y[j]);
+        return unchecked(x[i], y[i], x[j], y[j]);
     }
 
-    /** Distance from location i to a point given in the same coordinate system. */
+    /**
+     * Distance from location i to a point given in the same coordinate system.
+     *
+     * @throws IllegalArgumentException if the point fails {@link #requirePoint}
+     */
     public double distanceTo(int i, double px, double py) {
-        return distance(x[i], y[i], px, py);
+        requirePoint(px, py, "point");
+        return unchecked(x[i], y[i], px, py);
     }
 
-    /** Distance between two points in this coordinate system. */
+    /**
+     * Distance between two points in this coordinate system: Euclidean for planar points
+     * ({@link #planarNorm}, which neither overflows nor underflows), great-circle km otherwise.
+     *
+     * @throws IllegalArgumentException if a point fails {@link #requirePoint}
+     */
     public double distance(double x1, double y1, double x2, double y2) {
+        requirePoint(x1, y1, "first point");
+        requirePoint(x2, y2, "second point");
+        return unchecked(x1, y1, x2, y2);
+    }
+
+    /** {@link #distance(double, double, double, double)} for points already checked. */
+    double unchecked(double x1, double y1, double x2, double y2) {
         if (kind == Kind.PLANAR) {
-            double dx = x1 - x2, dy = y1 - y2;
-            return Math.sqrt(dx * dx + dy * dy);
+            return planarNorm(x1 - x2, y1 - y2);
         }
-        return greatCircleKm(x1, y1, x2, y2);
+        return chordKm(x1, y1, x2, y2);
+    }
+
+    /**
+     * √(dx² + dy²) without overflow or underflow: the plain formula, whose result is bit-identical to
+     * the square root of the sum of squares, whenever that sum lies in [2⁻⁹⁶⁰, 2⁹⁶⁰]; otherwise the
+     * two components are first scaled by the power of two of the larger one (exact), like
+     * {@link Math#hypot} but without its cost on the common path.
+     */
+    static double planarNorm(double dx, double dy) {
+        double s = dx * dx + dy * dy;
+        if (s <= 0x1p960 && s >= 0x1p-960) {
+            return Math.sqrt(s);
+        }
+        return scaledNorm(dx, dy);
+    }
+
+    private static double scaledNorm(double dx, double dy) {
+        double m = Math.max(Math.abs(dx), Math.abs(dy));
+        if (m == 0 || !(m <= Double.MAX_VALUE)) {
+            return m; // 0, +inf or NaN
+        }
+        int e = Math.getExponent(m);
+        double a = Math.scalb(dx, -e), b = Math.scalb(dy, -e);
+        return Math.scalb(Math.sqrt(a * a + b * b), e);
     }
 
     /**
@@ -156,8 +246,17 @@ public final class Locations {
      * chord form is the one the variogram uses to reject pairs on the squared chord before any
      * square root, so every geographic distance in the module is computed by the same operations
      * and a pair on a bin edge bins the same way everywhere.
+     *
+     * @throws IllegalArgumentException if a point is not a geographic point (longitude in
+     *                                  [−180, 360], latitude in [−90, 90]; NaN fails)
      */
     public static double greatCircleKm(double lon1, double lat1, double lon2, double lat2) {
+        checkGeographic(lon1, lat1, "first point");
+        checkGeographic(lon2, lat2, "second point");
+        return chordKm(lon1, lat1, lon2, lat2);
+    }
+
+    private static double chordKm(double lon1, double lat1, double lon2, double lat2) {
         double[] u = new double[6];
         unitVector(lon1, lat1, u, 0);
         unitVector(lon2, lat2, u, 3);

@@ -220,14 +220,20 @@ public final class MoranI {
         }
     }
 
-    /** Row-major coordinates minus their column means; fails if every density is the same. */
+    /**
+     * Row-major coordinates minus their column means, divided by the power of two of the largest
+     * |coordinate| (exact; I_B does not depend on a common scale), so that coordinates near 1e300
+     * or 1e-300 neither overflow nor underflow; fails if every density is the same.
+     */
     private static double[] centredRows(double[] c, int n, int k) {
+        double inv = 1 / AutocorrelationSupport.powerOfTwoScale(c);
         double[] mean = new double[k];
         double scale = 0;
         for (int i = 0; i < n; i++) {
             for (int j = 0; j < k; j++) {
-                mean[j] += c[i * k + j];
-                scale = Math.max(scale, Math.abs(c[i * k + j]));
+                double v = c[i * k + j] * inv;
+                mean[j] += v;
+                scale = Math.max(scale, Math.abs(v));
             }
         }
         for (int j = 0; j < k; j++) {
@@ -237,7 +243,7 @@ public final class MoranI {
         double ss = 0;
         for (int i = 0; i < n; i++) {
             for (int j = 0; j < k; j++) {
-                double v = c[i * k + j] - mean[j];
+                double v = c[i * k + j] * inv - mean[j];
                 z[i * k + j] = v;
                 ss += v * v;
             }

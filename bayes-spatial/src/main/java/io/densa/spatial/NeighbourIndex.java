@@ -31,7 +31,7 @@ public final class NeighbourIndex {
         }
         tree.build();
         double[] bb = n == 0 ? new double[] {0, 0, 0, 0} : locations.boundingBox();
-        double diag = locations.distance(bb[0], bb[1], bb[2], bb[3]);
+        double diag = locations.unchecked(bb[0], bb[1], bb[2], bb[3]);
         this.initialRadius = diag > 0 ? diag / Math.sqrt(Math.max(1, n)) : 1.0;
     }
 
@@ -57,7 +57,8 @@ public final class NeighbourIndex {
      * Indices of all locations within distance r of (px, py) (inclusive), ordered by distance then
      * index.
      *
-     * @throws IllegalArgumentException if r is negative or NaN, or the point is not finite
+     * @throws IllegalArgumentException if r is negative or NaN, or the point fails
+     *                                  {@link Locations#requirePoint}
      */
     public int[] within(double px, double py, double r) {
         checkPoint(px, py);
@@ -73,7 +74,7 @@ public final class NeighbourIndex {
      * Indices of the k nearest locations to (px, py), ordered by distance then index; all
      * locations if k is at least their number.
      *
-     * @throws IllegalArgumentException if k &lt; 1 or the point is not finite
+     * @throws IllegalArgumentException if k &lt; 1 or the point fails {@link Locations#requirePoint}
      */
     public int[] nearest(double px, double py, int k) {
         checkPoint(px, py);
@@ -134,10 +135,8 @@ public final class NeighbourIndex {
         return res;
     }
 
-    private static void checkPoint(double px, double py) {
-        if (!Double.isFinite(px) || !Double.isFinite(py)) {
-            throw new IllegalArgumentException("query point must be finite, got (" + px + ", " + py + ")");
-        }
+    private void checkPoint(double px, double py) {
+        locations.requirePoint(px, py, "query point");
     }
 
     /** Adds every location within distance r of (px, py) to c (unsorted). */
@@ -169,7 +168,7 @@ public final class NeighbourIndex {
     private void query(Envelope env, double px, double py, double r, Candidates c) {
         tree.query(env, item -> {
             int j = (Integer) item;
-            double d = locations.distanceTo(j, px, py);
+            double d = locations.unchecked(locations.x(j), locations.y(j), px, py);
             if (d <= r) {
                 c.add(j, d);
             }

@@ -79,7 +79,7 @@ public record UniversalFit(Kriging kriging, VariogramFit fit, EmpiricalVariogram
         // OLS: GLS with C = I (a pure unit nugget)
         Kriging ols = Kriging.universal(locations, densities, drift, VariogramModel.nugget(1), glsOptions);
         double[][] beta = ols.driftCoefficients();
-        double[] resid = ols.driftResiduals(beta);
+        double[] resid = ols.driftResiduals();
         int k = densities.dimension();
         VariogramFit fit = null;
         EmpiricalVariogram ev = null;
@@ -93,7 +93,7 @@ public record UniversalFit(Kriging kriging, VariogramFit fit, EmpiricalVariogram
             fit = next;
             Kriging gls = Kriging.universal(locations, densities, drift, fit.model(), glsOptions);
             beta = gls.driftCoefficients();
-            resid = gls.driftResiduals(beta);
+            resid = gls.driftResiduals();
             if (settled) {
                 converged = true;
                 break;

@@ -6,8 +6,10 @@ import java.util.Objects;
  * Immutable options of variogram fitting: the family, whether a nugget is fitted, the criterion,
  * the Matérn smoothness (held fixed), bounds on the range and the evaluation budget.
  *
- * <p>Defaults: exponential with nugget, Cressie's weighted least squares, ν = 0.5, range bounded
- * to [10⁻³, 3] × the largest bin lag (power exponent to [0.01, 1.99]), 4000 evaluations.
+ * <p>Defaults: exponential with nugget, Cressie's weighted least squares, ν = 0.5, range from
+ * 10⁻³ × the largest bin lag up to 3 × that lag, an upper bound that is widened while the fit ends
+ * on it (up to 1000 ×; see {@link VariogramFitting}), power exponent in [0.01, 1.99], 4000
+ * evaluations per optimiser run. Bounds set with {@link #withRangeBounds} are kept as given.
  */
 public final class VariogramFitOptions {
     /** The fit criterion. */
@@ -74,7 +76,11 @@ public final class VariogramFitOptions {
         return new VariogramFitOptions(family, nugget, method, nu, minRange, maxRange, maxEvaluations);
     }
 
-    /** Bounds 0 &lt; min &lt; max on the range parameter (the exponent for the power model). */
+    /**
+     * Bounds 0 &lt; min &lt; max on the range parameter (the exponent for the power model), kept as
+     * given: a fit ending on one carries a {@link VariogramFit.WarningKind#PARAMETER_AT_BOUND}
+     * warning.
+     */
     public VariogramFitOptions withRangeBounds(double min, double max) {
         if (!(min > 0) || !(max > min) || Double.isInfinite(max)) {
             throw new IllegalArgumentException("range bounds must satisfy 0 < min < max < inf, got [" + min + ", "
@@ -83,7 +89,7 @@ public final class VariogramFitOptions {
         return new VariogramFitOptions(family, nugget, method, smoothness, min, max, maxEvaluations);
     }
 
-    /** The evaluation budget (≥ 100). */
+    /** The evaluation budget of each optimiser run (≥ 100). */
     public VariogramFitOptions withMaxEvaluations(int count) {
         if (count < 100) {
             throw new IllegalArgumentException("evaluation budget must be >= 100, got " + count);

@@ -9,8 +9,23 @@ import java.util.Objects;
  * edges), maximum lag, optional direction sectors, optional variogram cloud, parallelism.
  *
  * <p>Defaults: 15 equal bins up to half the diagonal of the locations' bounding box (a common
- * practice rule of thumb), omnidirectional, no cloud, parallel, no progress reports
- * ({@link ProgressListener#NONE}).
+ * practice rule of thumb), merged where they hold too few pairs (below), omnidirectional, no
+ * cloud, parallel, no progress reports ({@link ProgressListener#NONE}).
+ *
+ * <p><b>Pairs per bin.</b> A bin's γ̂ is a mean over its pairs, and a bin with a handful of pairs
+ * is mostly noise (an empty one has no value at all). After the pairs are counted, adjacent bins
+ * are therefore merged, scanning from the shortest lags: a merged bin closes as soon as it holds
+ * at least m pairs, and a remainder at the long-lag end joins the last closed bin. With the
+ * default binning m = min(30, max(1, ⌊P/8⌋)) where P is the number of pairs within the maximum
+ * lag: at least 30 pairs per bin (the usual rule of thumb, common practice; often attributed to
+ * Journel &amp; Huijbregts (1978), Mining Geostatistics, Academic Press — from memory), lowered
+ * for small networks so that about eight bins remain (12 stations give about 45 pairs within half
+ * the diagonal, which 30-pair bins would reduce to one), and halved, down to 1, while fewer than
+ * four bins would remain of at least four non-empty ones (a model with a nugget has three
+ * parameters to fit; clustered locations put most pairs in few bins). With explicit bins (a count, a width or
+ * edges) m = 1: only empty bins are merged into a neighbour, which changes no γ̂, mean lag or
+ * count. {@link #withMinimumPairs} sets m for any binning. So no bin of a result is empty and no
+ * NaN reaches it; the merged edges are those the result reports (per sector with directions).
  *
  * <p>Directions are angles in degrees measured counter-clockwise from the first coordinate axis,
  * taken modulo 180° (a pair and its reverse are the same pair); a pair belongs to a sector when the
@@ -27,9 +42,14 @@ public final class VariogramOptions {
     private final int cloudPairs;
     private final boolean parallel;
     private final ProgressListener progress;
+    private final boolean defaultBins;
+    private final int minPairs; // 0: automatic
 
     private VariogramOptions(int binCount, double binWidth, double[] edges, double maxLag, double[] directions,
-            double tolerance, int cloudPairs, boolean parallel, ProgressListener progress) {
+            double tolerance, int cloudPairs, boolean parallel, ProgressListener progress, boolean defaultBins,
+            int minPairs) {
+        this.defaultBins = defaultBins;
+        this.minPairs = minPairs;
         this.binCount = binCount;
         this.binWidth = binWidth;
         this.edges = edges;
@@ -43,7 +63,44 @@ public final class VariogramOptions {
 
     /** The defaults described above. */
     public static VariogramOptions withDefaults() {
-        return new VariogramOptions(15, Double.NaN, null, Double.NaN, null, Double.NaN, 0, true, ProgressListener.NONE);
+        return new VariogramOptions(15, Double.NaN, null, Double.NaN, null, Double.NaN, 0, true, ProgressListener.NONE,
+                true, 0);
+    }
+
+    /** The default pairs-per-bin target (common practice; see the class comment). */
+    static final int DEFAULT_MIN_PAIRS = 30;
+
+    /** With the default binning, at least this many bins are kept when pairs are few. */
+    static final int SMALL_NETWORK_BINS = 8;
+
+    /**
+     * Merge adjacent bins until each holds at least this many pairs (see the class comment); 1
+     * merges only empty bins.
+     *
+     * @throws IllegalArgumentException unless count ≥ 1
+     */
+    public VariogramOptions withMinimumPairs(int count) {
+        if (count < 1) {
+            throw new IllegalArgumentException("minimum pairs per bin must be >= 1, got " + count);
+        }
+        return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, cloudPairs, parallel,
+                progress, defaultBins, count);
+    }
+
+    /** With the automatic minimum, m is halved while fewer bins than this would remain. */
+    static final int FEWEST_BINS = 4;
+
+    /** Whether m is the automatic one (default binning, no {@link #withMinimumPairs}). */
+    boolean automaticMinimumPairs() {
+        return minPairs == 0 && defaultBins;
+    }
+
+    /** The pairs-per-bin minimum m for a sector with the given number of pairs within the maximum lag. */
+    long minimumPairs(long pairs) {
+        if (minPairs > 0) {
+            return minPairs;
+        }
+        return defaultBins ? Math.min(DEFAULT_MIN_PAIRS, Math.max(1, pairs / SMALL_NETWORK_BINS)) : 1;
     }
 
     /** Equal-width bins of this number between 0 and the maximum lag. */
@@ -51,7 +108,8 @@ public final class VariogramOptions {
         if (count < 1 || count > 100_000) {
             throw new IllegalArgumentException("bin count must be in [1, 100000], got " + count);
         }
-        return new VariogramOptions(count, Double.NaN, null, maxLag, directions, tolerance, cloudPairs, parallel, progress);
+        return new VariogramOptions(count, Double.NaN, null, maxLag, directions, tolerance, cloudPairs, parallel,
+                progress, false, minPairs);
     }
 
     /** Equal-width bins of this width between 0 and the maximum lag. */
@@ -59,7 +117,8 @@ public final class VariogramOptions {
         if (!(width > 0) || Double.isInfinite(width)) {
             throw new IllegalArgumentException("bin width must be finite and > 0, got " + width);
         }
-        return new VariogramOptions(0, width, null, maxLag, directions, tolerance, cloudPairs, parallel, progress);
+        return new VariogramOptions(0, width, null, maxLag, directions, tolerance, cloudPairs, parallel,
+                progress, false, minPairs);
     }
 
     /**
@@ -77,7 +136,8 @@ public final class VariogramOptions {
             }
         }
         double[] e = binEdges.clone();
-        return new VariogramOptions(0, Double.NaN, e, e[e.length - 1], directions, tolerance, cloudPairs, parallel, progress);
+        return new VariogramOptions(0, Double.NaN, e, e[e.length - 1], directions, tolerance, cloudPairs, parallel,
+                progress, false, minPairs);
     }
 
     /** Maximum lag (ignored with explicit edges). */
@@ -86,7 +146,7 @@ public final class VariogramOptions {
             throw new IllegalArgumentException("maximum lag must be finite and > 0, got " + lag);
         }
         return new VariogramOptions(binCount, binWidth, edges, edges != null ? maxLag : lag, directions, tolerance,
-                cloudPairs, parallel, progress);
+                cloudPairs, parallel, progress, defaultBins, minPairs);
     }
 
     /**
@@ -106,7 +166,7 @@ public final class VariogramOptions {
             }
         }
         return new VariogramOptions(binCount, binWidth, edges, maxLag, directionsDegrees.clone(), toleranceDegrees,
-                cloudPairs, parallel, progress);
+                cloudPairs, parallel, progress, defaultBins, minPairs);
     }
 
     /** Also return the variogram cloud: the first maxPairs pairs within the maximum lag, in (i, j) order. */
@@ -114,12 +174,14 @@ public final class VariogramOptions {
         if (maxPairs < 1) {
             throw new IllegalArgumentException("cloud pair limit must be >= 1, got " + maxPairs);
         }
-        return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, maxPairs, parallel, progress);
+        return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, maxPairs, parallel,
+                progress, defaultBins, minPairs);
     }
 
     /** Whether to use the common ForkJoin pool (results are identical either way). */
     public VariogramOptions withParallel(boolean p) {
-        return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, cloudPairs, p, progress);
+        return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, cloudPairs, p,
+                progress, defaultBins, minPairs);
     }
 
     /**
@@ -132,7 +194,7 @@ public final class VariogramOptions {
      */
     public VariogramOptions withProgressListener(ProgressListener listener) {
         return new VariogramOptions(binCount, binWidth, edges, maxLag, directions, tolerance, cloudPairs, parallel,
-                Objects.requireNonNull(listener, "listener"));
+                Objects.requireNonNull(listener, "listener"), defaultBins, minPairs);
     }
 
     /** The progress listener ({@link ProgressListener#NONE} by default). */
@@ -186,6 +248,7 @@ public final class VariogramOptions {
     @Override
     public String toString() {
         return "VariogramOptions[bins=" + (edges != null ? Arrays.toString(edges) : binCount > 0 ? binCount
-                : "width " + binWidth) + ", maxLag=" + maxLag + ", directions=" + Arrays.toString(directions) + "]";
+                : "width " + binWidth) + ", maxLag=" + maxLag + ", directions=" + Arrays.toString(directions) + ", minimumPairs="
+                + (minPairs > 0 ? String.valueOf(minPairs) : defaultBins ? "automatic" : "1") + "]";
     }
 }

@@ -14,10 +14,11 @@
  * <h2>Workflow</h2>
  * <ol>
  * <li>{@link io.densa.spatial.EmpiricalVariogram#of} with {@link io.densa.spatial.VariogramOptions}
- *     (bins, maximum lag, direction sectors, cloud);</li>
+ *     (bins, maximum lag, direction sectors, cloud; sparse bins are merged, so none is empty);</li>
  * <li>{@link io.densa.spatial.VariogramFitting#fit} with {@link io.densa.spatial.VariogramFitOptions}
  *     gives a {@link io.densa.spatial.VariogramFit} holding a {@link io.densa.spatial.VariogramModel}
- *     (exponential and Gaussian ranges are practical ranges; Matérn uses a scale);</li>
+ *     (exponential and Gaussian ranges are practical ranges; Matérn uses a scale) and the
+ *     fit's warnings (a range beyond the largest lag, a parameter on a bound, ...);</li>
  * <li>{@link io.densa.spatial.Kriging#ordinary}, {@link io.densa.spatial.Kriging#simple} or
  *     {@link io.densa.spatial.Kriging#universal} (or {@link io.densa.spatial.UniversalFit#estimate}
  *     with the residual variogram iterated) with {@link io.densa.spatial.KrigingOptions}
@@ -31,7 +32,11 @@
  * Value and model types are immutable and thread-safe. Parallel work uses the common ForkJoin pool
  * in fixed blocks combined in order, so results are bit-identical to the serial path. Bad input
  * throws {@link java.lang.IllegalArgumentException} naming the location, bin or index; a singular
- * or ill-conditioned kriging system throws {@link io.densa.core.DensaException} with a
- * {@link io.densa.spatial.KrigingDiagnostics} record.
+ * or ill-conditioned kriging system, or weights that miss the unbiasedness constraints (far
+ * outside the data), throws {@link io.densa.core.DensaException} with a
+ * {@link io.densa.spatial.KrigingDiagnostics} record. No Commons Math exception escapes, and finite
+ * input gives finite output: distances, squared B2 distances and autocorrelation sums are scaled
+ * where they would over- or underflow. Every prediction reports its distance to the nearest data
+ * location, so that extrapolation can be told apart.
  */
 package io.densa.spatial;

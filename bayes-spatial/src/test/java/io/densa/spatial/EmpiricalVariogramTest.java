@@ -188,6 +188,7 @@ class EmpiricalVariogramTest {
         for (int t = 0; t < 200; t++) {
             double lo1 = 360 * r.nextDouble() - 180, la1 = 170 * r.nextDouble() - 85;
             double lo2 = lo1 + (r.nextDouble() - 0.5) * Math.pow(10, -4 + 6 * r.nextDouble());
+            lo2 = lo2 < -180 ? lo2 + 360 : lo2; // the same meridian, inside the accepted [-180, 360]
             double la2 = Math.max(-89, Math.min(89, la1 + (r.nextDouble() - 0.5) * 10));
             double p1 = Math.toRadians(la1), p2 = Math.toRadians(la2);
             double hv = Math.pow(Math.sin((p2 - p1) / 2), 2)

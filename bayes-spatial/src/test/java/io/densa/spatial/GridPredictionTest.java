@@ -148,9 +148,15 @@ class GridPredictionTest {
         assertTrue(e.getMessage().matches("quantile probability 1 must be in \\(0, 1\\), got 1.0"), e.getMessage());
         org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
                 () -> GridOptions.withDefaults().withTailProbabilities(Double.NaN));
-        Kriging uk = Kriging.universal(loc, data, Drift.polynomial(1).withCovariates(new double[200][1]), model,
+        double[][] cov = new double[200][1];
+        for (int i = 0; i < cov.length; i++) {
+            cov[i][0] = Math.sin(i);
+        }
+        Kriging uk = Kriging.universal(loc, data, Drift.polynomial(1).withCovariates(cov), model,
                 KrigingOptions.withDefaults());
-        org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+        e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
                 () -> uk.predictGrid(Grid.over(0, 0, 1, 1, 2, 2), GridOptions.withDefaults(), t -> { }));
+        assertTrue(e.getMessage().matches("grid prediction with external drift covariates is not supported.*"),
+                e.getMessage());
     }
 }

@@ -180,12 +180,34 @@ final class Study2 {
         variogramFigure(raw, rawFit.model(), uk.residualVariogram(), model, maxLag,
                 dir.resolve(file(files, "fig_variogram.png")));
         report.heading("Trace-variogram").paragraph("Empirical trace-variogram γ̂(h) = (1/(2|N(h)|)) Σ ‖X_i ⊖ X_j‖²_B "
-                + "(Giraldo, Delicado and Mateu 2011) in 12 bins up to " + Tables.fmt(maxLag, 1) + " km, and an "
+                + "(Giraldo, Delicado and Mateu 2011) in " + raw.binCount() + " bins up to " + Tables.fmt(maxLag, 1)
+                + " km (12 equal bins, empty ones merged into a neighbour), and an "
                 + "exponential model (nugget + exponential, practical range) fitted by Cressie's (1985) weighted "
                 + "least squares. Raw densities: " + describe(rawFit.model()) + ". For universal kriging with a linear "
                 + "drift in the coordinates the variogram of the drift residuals was re-fitted with the GLS drift "
                 + "until it settled (" + uk.iterations() + " fits" + (uk.converged() ? "" : ", not converged") + "): "
                 + describe(model) + ".");
+        List<String> fitWarnings = new ArrayList<>();
+        for (VariogramFit.Warning w : rawFit.warnings()) {
+            fitWarnings.add("Raw densities: " + w.message() + ".");
+        }
+        for (VariogramFit.Warning w : uk.fit().warnings()) {
+            fitWarnings.add("Drift residuals: " + w.message() + ".");
+        }
+        metrics.put("variogramFitWarnings", (double) fitWarnings.size());
+        if (fitWarnings.isEmpty()) {
+            report.paragraph("Neither fit raised a warning: both practical ranges lie within the lags of the empirical "
+                    + "variogram and no parameter ended on a bound.");
+        } else {
+            report.paragraph("The fits raised these warnings. A practical range beyond the largest lag means that "
+                    + "the sill and range are extrapolated beyond the distances observed, over which a longer range and a "
+                    + "larger sill are hard to tell apart: the fitted range is poorly determined. Predictions between "
+                    + "nearby monitors depend mostly on the short-lag part of the model, which the points do "
+                    + "constrain.").bullets(fitWarnings);
+            for (String w : fitWarnings) {
+                progress.line("  variogram warning: " + w);
+            }
+        }
         report.figure("fig_variogram.png", "Empirical trace-variograms (points) and fitted models (lines).");
 
         // ---------------------------------------------------------------- cross-validation

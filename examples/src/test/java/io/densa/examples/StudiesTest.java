@@ -139,6 +139,11 @@ class StudiesTest {
         assertTrue(r.metrics().get("looMseUniversal") < r.metrics().get("looMseMeanDensity"),
                 "kriging should beat the mean-density baseline: " + r.metrics());
         assertTrue(r.metrics().get("gridCells") > 1000, "grid prediction missing: " + r.metrics());
+        // the variogram fits' warnings (or their absence) are printed in the report
+        String md = Files.readString(r.folder().resolve("summary.md"));
+        double warnings = r.metrics().get("variogramFitWarnings");
+        assertTrue(warnings == 0 ? md.contains("Neither fit raised a warning")
+                : md.contains("The fits raised these warnings"), "variogram warnings missing from the report");
     }
 
     @Test
