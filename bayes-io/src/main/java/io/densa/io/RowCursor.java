@@ -24,6 +24,7 @@ import java.util.regex.Pattern;
 import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVParser;
 import org.apache.commons.csv.CSVRecord;
+import org.apache.commons.csv.DuplicateHeaderMode;
 
 /**
  * Row-by-row access to a {@link TableSource}, with limits and locations for messages. Package-private.
@@ -205,7 +206,8 @@ abstract class RowCursor implements AutoCloseable {
                 CharsetDecoder dec = StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
                         .onUnmappableCharacter(CodingErrorAction.REPORT);
                 guard = new GuardReader(new InputStreamReader(in, dec), limits.maxRecordChars(), source);
-                CSVFormat fmt = src.format.builder().setHeader().setSkipHeaderRecord(true).get();
+                CSVFormat fmt = src.format.builder().setHeader().setSkipHeaderRecord(true)
+                        .setDuplicateHeaderMode(DuplicateHeaderMode.DISALLOW).get();
                 p = CSVParser.builder().setReader(guard).setFormat(fmt).get();
                 List<String> h = new ArrayList<>(p.getHeaderNames());
                 if (!h.isEmpty() && h.get(0).startsWith("\uFEFF")) {

@@ -42,8 +42,8 @@ public final class TableSource {
 
     /**
      * A CSV file in UTF-8 (a leading byte-order mark is skipped): comma-separated, double-quoted
-     * fields as in RFC 4180, the first record the header, empty lines skipped, every record with as
-     * many fields as the header.
+     * fields as in RFC 4180, the first record the header (names distinct), empty lines skipped, every
+     * record with as many fields as the header.
      */
     public static TableSource csv(Path file) {
         return csv(file, CSVFormat.RFC4180.builder().setIgnoreEmptyLines(true).get());
@@ -51,7 +51,7 @@ public final class TableSource {
 
     /**
      * A CSV file in UTF-8 read with a caller's format (delimiter, quote, …); the first record is
-     * always taken as the header, whatever the format says about headers.
+     * always taken as the header, whatever the format says about headers, and its names must be distinct.
      */
     public static TableSource csv(Path file, CSVFormat format) {
         Objects.requireNonNull(file, "file");
