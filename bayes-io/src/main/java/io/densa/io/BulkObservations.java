@@ -444,10 +444,25 @@ public final class BulkObservations {
         BulkSummary histograms(Bins bins, OutsidePolicy policy, Consumer<CountTable> consumer) {
             int d = bins.count();
             double[] e = bins.edges();
+            String inner = projection("");
+            String inside;
+            if (uniform(e)) {
+                // j0 = floor((v - e0) D / (eD - e0)) is the bin up to rounding; one comparison with each
+                // neighbouring edge, computed by the same formula as Bins.uniform, makes it exact
+                String range = "(" + dbl(e[d]) + " - " + dbl(e[0]) + ")";
+                inner = "(SELECT *, least(greatest(floor((v - " + dbl(e[0]) + ") * (" + d + " / " + range
+                        + "))::INTEGER, 0), " + (d - 1) + ") AS j0 FROM " + inner + ")";
+                inside = "CASE WHEN v < " + edge(e[0], range, d, "j0") + " THEN j0 - 1 WHEN j0 < " + (d - 1)
+                        + " AND v >= " + edge(e[0], range, d, "j0 + 1") + " THEN j0 + 1 ELSE j0 END";
+            } else {
+                inside = tree(e, 0, d);
+            }
             String binExpr = "CASE WHEN v IS NULL OR isnan(v) THEN " + (d + 2) + " WHEN v < " + dbl(e[0]) + " THEN " + d
-                    + " WHEN v > " + dbl(e[d]) + " THEN " + (d + 1) + " ELSE " + tree(e, 0, d) + " END";
-            update("CREATE TEMP TABLE densa_h AS SELECT u, p, (" + binExpr + ") AS b, count(*) AS n, sum(w) AS sw,"
-                    + " count(*) FILTER (WHERE " + badWeight() + ") AS bad FROM " + projection("") + " GROUP BY ALL");
+                    + " WHEN v > " + dbl(e[d]) + " THEN " + (d + 1) + " ELSE " + inside + " END";
+            String weights = weight == null ? "NULL AS sw, 0 AS bad"
+                    : "sum(w) AS sw, count(*) FILTER (WHERE " + badWeight() + ") AS bad";
+            update("CREATE TEMP TABLE densa_h AS SELECT u, p, (" + binExpr + ") AS b, count(*) AS n, " + weights
+                    + " FROM " + inner + " GROUP BY u, p, b");
             String kept = policy == OutsidePolicy.CLAMP ? "b <= " + (d + 1) : "b < " + d;
             long[] s = new long[9];
             query("SELECT count(*) FILTER (WHERE u IS NULL), count(*) FILTER (WHERE p IS NULL), "
@@ -517,6 +532,22 @@ public final class BulkObservations {
                 periods.clear();
             }
             consumer.accept(t);
+        }
+
+        /** Whether the edges are exactly those of Bins.uniform(e0, eD, D). */
+        private boolean uniform(double[] e) {
+            int d = e.length - 1;
+            for (int j = 1; j < d; j++) {
+                if (e[j] != e[0] + j * (e[d] - e[0]) / d) {
+                    return false;
+                }
+            }
+            return true;
+        }
+
+        /** Edge k of a uniform layout in SQL, by the same operations as Bins.uniform: e0 + (k (eD − e0)) / D. */
+        private String edge(double e0, String range, int d, String k) {
+            return "(" + dbl(e0) + " + ((" + k + ")::DOUBLE * " + range + ") / " + d + ")";
         }
 
         /** Nested CASE: binary search for the bin of v in [e[lo], e[hi]]. */

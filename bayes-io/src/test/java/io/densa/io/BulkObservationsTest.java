@@ -190,6 +190,34 @@ class BulkObservationsTest {
     }
 
     @Test
+    void valuesOnAndNextToEdgesFallInTheBinsOfBinsIndexOf() throws Exception {
+        // uniform layouts take the arithmetic path, others the comparison tree; both must agree with
+        // Bins.indexOf bit for bit, including values exactly on an edge and one ulp either side of it
+        for (Bins bins : List.of(Bins.uniform(0.1, 0.7, 6), Bins.of(0.1, 0.15, 0.3, 0.30000000000000004, 0.7))) {
+            StringBuilder rows = new StringBuilder();
+            Map<String, double[]> want = new TreeMap<>();
+            double[] e = bins.edges();
+            for (double edge : e) {
+                for (double x : new double[] {Math.nextDown(edge), edge, Math.nextUp(edge)}) {
+                    rows.append(rows.length() == 0 ? "" : ", ").append("('A', CAST('").append(x).append("' AS DOUBLE))");
+                    int b = bins.indexOf(x);
+                    if (b >= 0 && b < bins.count()) {
+                        want.computeIfAbsent("A", k -> new double[bins.count()])[b]++;
+                    }
+                }
+            }
+            Path f = dir.resolve("edges-" + bins.count() + ".parquet");
+            try (Connection c = DriverManager.getConnection("jdbc:duckdb:"); Statement st = c.createStatement()) {
+                st.execute("COPY (SELECT * FROM (VALUES " + rows + ") t(unit, value)) TO '" + f + "' (FORMAT parquet)");
+            }
+            List<CountTable> got = new ArrayList<>();
+            BulkSummary s = BulkObservations.of(f, "unit", "value").histograms(bins, OutsidePolicy.DROP, got::add);
+            assertArrayEquals(want.get("A"), got.get(0).counts(0), bins.toString());
+            assertEquals(2, s.outside().dropped());
+        }
+    }
+
+    @Test
     void badFilesAndBadRowsAreNamed() throws Exception {
         rejects(() -> BulkObservations.of(parquet, "unit", "reading").histograms(BINS, OutsidePolicy.DROP, t -> { }),
                 "missing value column 'reading'", "[unit, value, w, year]");
