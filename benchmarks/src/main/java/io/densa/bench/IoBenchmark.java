@@ -48,69 +48,79 @@ import org.openjdk.jmh.annotations.Warmup;
  *     cells under 10 s with heap under 512 MB (the fork runs with -Xmx512m).</li>
  * </ul>
  */
-@State(Scope.Benchmark)
 @BenchmarkMode(Mode.SingleShotTime)
 @OutputTimeUnit(TimeUnit.MILLISECONDS)
 @Warmup(iterations = 1)
 @Measurement(iterations = 3)
 @Fork(value = 1, jvmArgsAppend = "-Xmx512m")
 public class IoBenchmark {
-    @Param({"100000000"})
-    public long rows;
+    /** The observation file, generated once. */
+    @State(Scope.Benchmark)
+    public static class Events {
+        @Param({"100000000"})
+        public long rows;
 
-    @Param({"100000"})
-    public int units;
+        @Param({"100000"})
+        public int units;
 
-    @Param({"INTEGER"})
-    public String unitType;
+        @Param({"INTEGER"})
+        public String unitType;
 
-    @Param({"10000000"})
-    public int cells;
+        Path parquet;
 
-    private Path parquet;
-    private Path tiffDir;
-    private long nRows;
-    private int nUnits;
-    private int side;
-
-    @Setup
-    public void setUp() throws IOException, SQLException {
-        nRows = BenchConfig.quick() ? Math.min(rows, 20_000) : rows;
-        nUnits = BenchConfig.size(units, 100);
-        Path dir = Path.of(System.getProperty("java.io.tmpdir"), "densa-bench");
-        Files.createDirectories(dir);
-        parquet = dir.resolve("events-" + nRows + "-" + nUnits + "-" + unitType + ".parquet");
-        if (!Files.exists(parquet)) {
-            String unit = unitType.equals("VARCHAR")
-                    ? "'u' || lpad((hash(i, 1) % " + nUnits + ")::VARCHAR, 6, '0')"
-                    : "(hash(i, 1) % " + nUnits + ")::INTEGER";
-            String u = "(hash(i, %d) >> 11)::DOUBLE / 9007199254740992";
-            String sql = "COPY (SELECT " + unit + " AS unit, 20 + 60 * ((hash(i, 1) % " + nUnits + ") % 97)::DOUBLE / 97"
-                    + " + 10 * (" + String.format(u, 2) + " + " + String.format(u, 3) + " + " + String.format(u, 4)
-                    + " - 1.5) AS value FROM range(" + nRows + ") t(i)) TO '" + parquet + ".tmp' (FORMAT parquet)";
-            try (Connection c = DriverManager.getConnection("jdbc:duckdb:"); Statement st = c.createStatement()) {
-                st.execute(sql);
+        @Setup
+        public void setUp() throws IOException, SQLException {
+            long nRows = BenchConfig.quick() ? Math.min(rows, 20_000) : rows;
+            int nUnits = BenchConfig.size(units, 100);
+            Path dir = Path.of(System.getProperty("java.io.tmpdir"), "densa-bench");
+            Files.createDirectories(dir);
+            parquet = dir.resolve("events-" + nRows + "-" + nUnits + "-" + unitType + ".parquet");
+            if (!Files.exists(parquet)) {
+                String unit = unitType.equals("VARCHAR")
+                        ? "'u' || lpad((hash(i, 1) % " + nUnits + ")::VARCHAR, 6, '0')"
+                        : "(hash(i, 1) % " + nUnits + ")::INTEGER";
+                String u = "(hash(i, %d) >> 11)::DOUBLE / 9007199254740992";
+                String sql = "COPY (SELECT " + unit + " AS unit, 20 + 60 * ((hash(i, 1) % " + nUnits + ") % 97)::DOUBLE / 97"
+                        + " + 10 * (" + String.format(u, 2) + " + " + String.format(u, 3) + " + " + String.format(u, 4)
+                        + " - 1.5) AS value FROM range(" + nRows + ") t(i)) TO '" + parquet + ".tmp' (FORMAT parquet)";
+                try (Connection c = DriverManager.getConnection("jdbc:duckdb:"); Statement st = c.createStatement()) {
+                    st.execute(sql);
+                }
+                Files.move(Path.of(parquet + ".tmp"), parquet);
             }
-            Files.move(Path.of(parquet + ".tmp"), parquet);
         }
-        tiffDir = Files.createTempDirectory("densa-tiff");
-        side = (int) Math.round(Math.sqrt(BenchConfig.quick() ? Math.min(cells, 10_000) : cells));
     }
 
-    @TearDown
-    public void tearDown() throws IOException {
-        try (var s = Files.list(tiffDir)) {
-            for (Path p : (Iterable<Path>) s::iterator) {
-                Files.deleteIfExists(p);
-            }
+    /** The output directory of the GeoTIFF benchmark. */
+    @State(Scope.Benchmark)
+    public static class Raster {
+        @Param({"10000000"})
+        public int cells;
+
+        Path dir;
+        int side;
+
+        @Setup
+        public void setUp() throws IOException {
+            dir = Files.createTempDirectory("densa-tiff");
+            side = (int) Math.round(Math.sqrt(BenchConfig.quick() ? Math.min(cells, 10_000) : cells));
         }
-        Files.deleteIfExists(tiffDir);
+
+        @TearDown
+        public void tearDown() throws IOException {
+            try (var s = Files.list(dir)) {
+                for (Path p : (Iterable<Path>) s::iterator) {
+                    Files.deleteIfExists(p);
+                }
+            }
+            Files.deleteIfExists(dir);
+        }
     }
 
     @Benchmark
-    public long histogramsFromParquet() {
+    public long histogramsFromParquet(Events ev) {
         long[] seen = {0};
-        BulkSummary s = BulkObservations.of(parquet, "unit", "value").withBatchUnits(8192)
+        BulkSummary s = BulkObservations.of(ev.parquet, "unit", "value").withBatchUnits(8192)
                 .histograms(Bins.uniform(0, 100, 50), OutsidePolicy.DROP, t -> seen[0] += t.size());
         if (s.units() != seen[0]) {
             throw new IllegalStateException("units delivered " + seen[0] + " != " + s.units());
@@ -119,14 +129,15 @@ public class IoBenchmark {
     }
 
     @Benchmark
-    public long geoTiffWrite() {
+    public long geoTiffWrite(Raster r) {
+        int side = r.side;
         int strip = 64;
         RasterLayout lay = new RasterLayout(side, side, 500_000, 5_000_000, 10, 10, Crs.projected(32633),
                 List.of("median", "q90", "p_exceed", "kriging_sd"));
         int[] cs = new int[side * strip];
         int[] js = new int[side * strip];
         double[][] v = new double[4][side * strip];
-        try (GeoTiffWriter w = GeoTiffWriter.create(tiffDir.resolve("bench.tif"), lay, GeoTiffOptions.defaults())) {
+        try (GeoTiffWriter w = GeoTiffWriter.create(r.dir.resolve("bench.tif"), lay, GeoTiffOptions.defaults())) {
             for (int j0 = 0; j0 < side; j0 += strip) {
                 int n = 0;
                 for (int j = j0; j < Math.min(side, j0 + strip); j++) {
