@@ -461,8 +461,11 @@ public final class BulkObservations {
                     + " WHEN v > " + dbl(e[d]) + " THEN " + (d + 1) + " ELSE " + inside + " END";
             String weights = weight == null ? "NULL AS sw, 0 AS bad"
                     : "sum(w) AS sw, count(*) FILTER (WHERE " + badWeight() + ") AS bad";
-            update("CREATE TEMP TABLE densa_h AS SELECT u, p, (" + binExpr + ") AS b, count(*) AS n, " + weights
-                    + " FROM " + inner + " GROUP BY u, p, b");
+            // without a period column p is a constant NULL: leave it out of the grouping key
+            String keys = period == null ? "u, b" : "u, p, b";
+            update("CREATE TEMP TABLE densa_h AS SELECT u, " + (period == null ? "NULL AS p" : "p") + ", b, n, sw, bad"
+                    + " FROM (SELECT u, " + (period == null ? "" : "p, ") + "(" + binExpr + ") AS b, count(*) AS n, "
+                    + weights + " FROM " + inner + " GROUP BY " + keys + ")");
             String kept = policy == OutsidePolicy.CLAMP ? "b <= " + (d + 1) : "b < " + d;
             long[] s = new long[9];
             query("SELECT count(*) FILTER (WHERE u IS NULL), count(*) FILTER (WHERE p IS NULL), "

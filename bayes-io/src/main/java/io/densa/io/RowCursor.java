@@ -201,8 +201,9 @@ abstract class RowCursor implements AutoCloseable {
                         + limits.maxFileBytes() + " (ReadLimits.withMaxFileBytes)");
             }
             CSVParser p = null;
+            InputStream in = null;
             try {
-                InputStream in = Files.newInputStream(f);
+                in = Files.newInputStream(f);
                 CharsetDecoder dec = StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
                         .onUnmappableCharacter(CodingErrorAction.REPORT);
                 guard = new GuardReader(new InputStreamReader(in, dec), limits.maxRecordChars(), source);
@@ -217,6 +218,13 @@ abstract class RowCursor implements AutoCloseable {
                 it = p.iterator();
             } catch (IOException | UncheckedIOException | IllegalArgumentException | IllegalStateException e) {
                 closeQuietly(p);
+                if (p == null && in != null) {
+                    try {
+                        in.close();
+                    } catch (IOException ignored) {
+                        // already failing
+                    }
+                }
                 throw bad(e, "header");
             }
             parser = p;
