@@ -227,6 +227,33 @@ class GeoTiffWriterTest {
     }
 
     @Test
+    void northToSouthRowsWithFinishRowsAboveKeepOneRowOfTilesOpen() throws Exception {
+        Path f = dir.resolve("n.tif");
+        RasterLayout lay = layout(Crs.projected(32633), "v");
+        try (GeoTiffWriter w = GeoTiffWriter.create(f, lay, GeoTiffOptions.defaults().withTileSize(16)
+                .withMaxOpenTileRows(2))) {
+            for (int j = ROWS - 1; j >= 0; j--) {
+                int[] cs = new int[COLS];
+                int[] js = new int[COLS];
+                double[][] v = new double[1][COLS];
+                int n = 0;
+                for (int c = 0; c < COLS; c++) {
+                    if (!masked(c, j)) {
+                        cs[n] = c;
+                        js[n] = j;
+                        v[0][n++] = value(0, c, j);
+                    }
+                }
+                w.writeCells(n, cs, js, v);
+                w.finishRowsAbove(j - 1);
+            }
+            w.finish();
+        }
+        reader(f);
+        checkPixels(pixels, 1, -9999, true);
+    }
+
+    @Test
     void misuseIsRefusedAndAnUnfinishedFileIsRemoved() {
         RasterLayout lay = layout(Crs.projected(32633), "v");
         Path f = dir.resolve("m.tif");
