@@ -9,6 +9,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.Objects;
 import java.util.function.Consumer;
+import java.util.function.Function;
 import java.util.function.ToDoubleFunction;
 import org.locationtech.jts.geom.Coordinate;
 import org.locationtech.jts.geom.Envelope;
@@ -41,6 +42,15 @@ final class GridPredictor {
     }
 
     static void run(Kriging kr, Grid grid, GridOptions opt, Consumer<GridTile> consumer) {
+        run(kr, grid, opt, t -> t, consumer);
+    }
+
+    /**
+     * As {@link #run(Kriging, Grid, GridOptions, Consumer)}, with per-tile work applied to each
+     * predicted tile on the worker thread that computed it; the results reach the consumer in tile
+     * order from the calling thread.
+     */
+    static <T> void run(Kriging kr, Grid grid, GridOptions opt, Function<GridTile, T> work, Consumer<T> consumer) {
         Objects.requireNonNull(grid, "grid");
         Objects.requireNonNull(opt, "options");
         Objects.requireNonNull(consumer, "consumer");
@@ -63,17 +73,20 @@ final class GridPredictor {
             kr.globalSystem();
         }
         int batch = TILE_BATCH;
-        GridTile[] out = new GridTile[batch];
+        Object[] out = new Object[batch];
         for (int start = 0; start < total; start += batch) {
             int count = Math.min(batch, total - start);
             final int s0 = start;
             Kernels.forEachBlock(count, opt.parallel(), b -> {
                 int t = s0 + b;
-                out[b] = tile(kr, grid, opt, t % tilesX, t / tilesX, d);
+                GridTile tile = tile(kr, grid, opt, t % tilesX, t / tilesX, d);
+                out[b] = tile == null ? null : work.apply(tile);
             });
             for (int b = 0; b < count; b++) {
                 if (out[b] != null) {
-                    consumer.accept(out[b]);
+                    @SuppressWarnings("unchecked")
+                    T done = (T) out[b];
+                    consumer.accept(done);
                 }
                 out[b] = null;
             }
