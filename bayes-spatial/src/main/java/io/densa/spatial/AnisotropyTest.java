@@ -13,8 +13,9 @@ import java.util.Objects;
  * (pair counts N_sb, mean lags h_sb) and the kriging's isotropic model γ, each sector's level
  * relative to the model is the pair-weighted mean log ratio
  * <pre>  l_s = Σ_b N_sb ln(γ̂_s(b) / γ(h_sb)) / Σ_b N_sb</pre>
- * over the bins up to the model's reach (the first lag where γ attains 95 % of its sill; all bins
- * for unbounded models, or when a sector has no bin that short), and T = max_s l_s − min_s l_s:
+ * over the bins up to the model's correlation length (the first lag where γ attains 1 − e⁻¹ ≈ 63 %
+ * of its sill; all bins for unbounded models, or when a sector has no bin that short), and
+ * T = max_s l_s − min_s l_s:
  * under isotropy every sector scatters around the same level, while a direction of greater
  * continuity has a lower variogram at short lags. exp(T) is the ratio of the largest to the
  * smallest directional semivariance at short lags (near the squared ratio of the directional
@@ -26,7 +27,10 @@ import java.util.Objects;
  * (1 + #{T* ≥ T}) / (1 + B), exact when the model is the truth (Besag &amp; Diggle (1977), Simple
  * Monte Carlo tests for spatial pattern, Appl. Statist. 26(3) — from memory). Using the model
  * fitted to the same data makes the test somewhat conservative (common practice for plug-in
- * Monte Carlo tests). Decision rule: the variogram is anisotropic at level α when p ≤ α; then
+ * Monte Carlo tests). The test has power only when several bins lie below the correlation length:
+ * with 150 locations in a unit square, 12 bins to 0.6 and sectors of ±22.5°, it detected a range
+ * ratio of 5 in 6 of 6 simulated fields at level 0.05 and rejected 3 of 30 isotropic ones at 0.1
+ * (see the tests). Decision rule: the variogram is anisotropic at level α when p ≤ α; then
  * the directional variogram ({@link #variogram()}) should be modelled or at least reported.
  *
  * <p>Immutable record: arrays are copied; equality is by content (the variogram by reference).
@@ -43,6 +47,13 @@ import java.util.Objects;
  */
 public record AnisotropyTest(double[] directions, double[] relativeSemivariances, double statistic, double pValue,
         int replicates, double majorDirection, double minorDirection, EmpiricalVariogram variogram) {
+
+    /**
+     * Share of the sill that bounds the lags compared: 1 − e⁻¹, the lag of an exponential model's
+     * correlation length (e-folding distance), below which directional differences of a geometric
+     * anisotropy are largest relative to the noise (our choice, checked by simulation in the tests).
+     */
+    static final double REACH_SHARE = 1 - Math.exp(-1);
 
     /** Copies the array components. */
     public AnisotropyTest {
@@ -159,7 +170,7 @@ public record AnisotropyTest(double[] directions, double[] relativeSemivariances
         return new AnisotropyTest(dirs, rel, t, (1.0 + above) / (1.0 + replicates), replicates, dirs[lo], dirs[hi], ev);
     }
 
-    /** The first lag at which the model reaches 95 % of its sill (+∞ if unbounded or beyond the bins). */
+    /** The first lag at which the model reaches {@link #REACH_SHARE} of its sill (+∞ if unbounded or beyond the bins). */
     private static double reach(VariogramModel model, EmpiricalVariogram ev) {
         if (!model.bounded()) {
             return Double.POSITIVE_INFINITY;
@@ -169,7 +180,7 @@ public record AnisotropyTest(double[] directions, double[] relativeSemivariances
             double[] e = ev.edges(s);
             maxLag = Math.max(maxLag, e[e.length - 1]);
         }
-        double target = 0.95 * model.sill();
+        double target = REACH_SHARE * model.sill();
         int steps = 1000;
         for (int i = 1; i <= steps; i++) {
             double h = maxLag * i / steps;
