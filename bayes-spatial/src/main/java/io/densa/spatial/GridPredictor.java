@@ -42,7 +42,7 @@ final class GridPredictor {
     }
 
     static void run(Kriging kr, Grid grid, GridOptions opt, Consumer<GridTile> consumer) {
-        run(kr, grid, opt, t -> t, consumer);
+        run(kr, grid, opt, null, t -> t, consumer);
     }
 
     /**
@@ -50,13 +50,22 @@ final class GridPredictor {
      * predicted tile on the worker thread that computed it; the results reach the consumer in tile
      * order from the calling thread.
      */
-    static <T> void run(Kriging kr, Grid grid, GridOptions opt, Function<GridTile, T> work, Consumer<T> consumer) {
+    static <T> void run(Kriging kr, Grid grid, GridOptions opt, CovariateGrid cg, Function<GridTile, T> work,
+            Consumer<T> consumer) {
         Objects.requireNonNull(grid, "grid");
         Objects.requireNonNull(opt, "options");
         Objects.requireNonNull(consumer, "consumer");
-        if (kr.drift != null && kr.drift.covariateCount() > 0 && kr.type == Kriging.Type.UNIVERSAL) {
-            throw new IllegalArgumentException("grid prediction with external drift covariates is not supported;"
-                    + " predict cell by cell with predict(x, y, covariates)");
+        int q = kr.drift != null && kr.type == Kriging.Type.UNIVERSAL ? kr.drift.covariateCount() : 0;
+        if (q > 0 && cg == null) {
+            throw new IllegalArgumentException("the drift has " + q + " external covariate(s): give their values at"
+                    + " every cell with predictGrid(grid, covariateGrid, options, consumer)");
+        }
+        if (cg != null) {
+            if (q == 0) {
+                throw new IllegalArgumentException("a covariate grid was given but the kriging's drift has no external"
+                        + " covariates (" + kr.drift + ")");
+            }
+            cg.requireMatches(grid, q);
         }
         if (kr.loc.kind() == Locations.Kind.GEOGRAPHIC) {
             // the corners bound every cell
@@ -79,7 +88,7 @@ final class GridPredictor {
             final int s0 = start;
             Kernels.forEachBlock(count, opt.parallel(), b -> {
                 int t = s0 + b;
-                GridTile tile = tile(kr, grid, opt, t % tilesX, t / tilesX, d);
+                GridTile tile = tile(kr, grid, opt, t % tilesX, t / tilesX, d, cg);
                 out[b] = tile == null ? null : work.apply(tile);
             });
             for (int b = 0; b < count; b++) {
@@ -127,7 +136,8 @@ final class GridPredictor {
         }
     }
 
-    private static GridTile tile(Kriging kr, Grid grid, GridOptions opt, int tx, int ty, Dual dual) {
+    private static GridTile tile(Kriging kr, Grid grid, GridOptions opt, int tx, int ty, Dual dual,
+            CovariateGrid cg) {
         int ts = opt.tileSize();
         int c0 = tx * ts, c1 = Math.min(grid.columns(), c0 + ts);
         int r0 = ty * ts, r1 = Math.min(grid.rows(), r0 + ts);
@@ -168,17 +178,18 @@ final class GridPredictor {
         double[] var = opt.variance() ? new double[m] : null;
         double[] near = opt.nearestDistances() ? new double[m] : null;
         if (dual != null) {
-            dualTile(kr, grid, cols, rows, coords, dual, near);
+            dualTile(kr, grid, cols, rows, coords, dual, near, cg);
         } else if (kr.options.neighbourhood().isGlobal()) {
             LocalSystem g = kr.globalSystem();
             double[] cv = new double[kr.n];
             double[] dist = new double[kr.n];
             double[] f0 = new double[kr.p];
             LocalSystem.Scratch sc = new LocalSystem.Scratch(kr.p);
+            double[] cov = cg == null ? null : new double[cg.count()];
             for (int q = 0; q < m; q++) {
                 double x = grid.x(cols[q]), y = grid.y(rows[q]);
                 kr.targetCovariances(null, kr.n, x, y, dist, cv);
-                kr.driftAt(x, y, null, f0);
+                kr.driftAt(x, y, covariates(cg, cols[q], rows[q], cov), f0);
                 double v = g.predict(cv, f0, kr.c00, kr.centre(), coords, q * k, null, sc);
                 if (sc.residual > LocalSystem.CONSTRAINT_TOLERANCE) {
                     kr.checkConstraints(sc.residual, x, y, g, Kriging.min(dist, kr.n));
@@ -191,7 +202,7 @@ final class GridPredictor {
                 }
             }
         } else {
-            localTile(kr, grid, cols, rows, coords, var, near);
+            localTile(kr, grid, cols, rows, coords, var, near, cg);
         }
         DensitySet set = DensitySet.ofRowMajor(kr.space, coords, m, null);
         double[] t = opt.thresholds();
@@ -220,7 +231,7 @@ final class GridPredictor {
     }
 
     private static void dualTile(Kriging kr, Grid grid, int[] cols, int[] rows, double[] coords, Dual d,
-            double[] near) {
+            double[] near, CovariateGrid cg) {
         int m = cols.length, n = kr.n, k = kr.k, p = kr.p;
         int chunk = 64;
         double[] c0 = new double[chunk * n];
@@ -228,6 +239,7 @@ final class GridPredictor {
         double[] f0 = new double[p];
         double[] dist = new double[n];
         double[] row = new double[n];
+        double[] cov = cg == null ? null : new double[cg.count()];
         for (int q0 = 0; q0 < m; q0 += chunk) {
             int len = Math.min(chunk, m - q0);
             for (int q = 0; q < len; q++) {
@@ -241,7 +253,7 @@ final class GridPredictor {
             Kernels.multiply(c0, len, n, d.alpha, k, part, false);
             for (int q = 0; q < len; q++) {
                 double x = grid.x(cols[q0 + q]), y = grid.y(rows[q0 + q]);
-                kr.driftAt(x, y, null, f0);
+                kr.driftAt(x, y, covariates(cg, cols[q0 + q], rows[q0 + q], cov), f0);
                 int o = (q0 + q) * k;
                 double[] centre = kr.centre();
                 for (int c = 0; c < k; c++) {
@@ -255,11 +267,20 @@ final class GridPredictor {
         }
     }
 
+    /** The drift covariates of a cell into buf, or null without a covariate grid. */
+    private static double[] covariates(CovariateGrid cg, int column, int row, double[] buf) {
+        if (cg == null) {
+            return null;
+        }
+        cg.values(column, row, buf);
+        return buf;
+    }
+
     /** Cells per side of the sub-blocks that share one candidate query. */
     private static final int SUB = 16;
 
     private static void localTile(Kriging kr, Grid grid, int[] cols, int[] rows, double[] coords, double[] var,
-            double[] near) {
+            double[] near, CovariateGrid cg) {
         int m = cols.length;
         int cmin = Integer.MAX_VALUE, rmin = Integer.MAX_VALUE, cmax = 0;
         for (int q = 0; q < m; q++) {
@@ -298,14 +319,16 @@ final class GridPredictor {
         LocalSystem.Scratch sc = new LocalSystem.Scratch(kr.p);
         for (int gI = 0; gI < groups; gI++) {
             if (start[gI + 1] > start[gI]) {
-                localCells(kr, grid, cols, rows, order, start[gI], start[gI + 1], coords, var, near, cache, sc);
+                localCells(kr, grid, cols, rows, order, start[gI], start[gI + 1], coords, var, near, cache, sc,
+                        cg);
             }
         }
     }
 
     /** Predicts the cells order[from..to) sharing one candidate query. */
     private static void localCells(Kriging kr, Grid grid, int[] cols, int[] rows, int[] order, int from, int to,
-            double[] coords, double[] var, double[] near, Map<Key, LocalSystem> cache, LocalSystem.Scratch sc) {
+            double[] coords, double[] var, double[] near, Map<Key, LocalSystem> cache, LocalSystem.Scratch sc,
+            CovariateGrid cg) {
         int k = kr.k, p = kr.p;
         Neighbourhood hood = kr.options.neighbourhood();
         // centre and half-diagonal of the group's cells
@@ -337,6 +360,7 @@ final class GridPredictor {
         int need = Math.max(1, p + 1);
         double[] c0 = new double[want];
         double[] nd = new double[want];
+        double[] cov = cg == null ? null : new double[cg.count()];
         for (int o = from; o < to; o++) {
             int q = order[o];
             double x = grid.x(cols[q]), y = grid.y(rows[q]);
@@ -364,7 +388,7 @@ final class GridPredictor {
             double[] cv = mm == c0.length ? c0 : new double[mm];
             double[] dv = mm == nd.length ? nd : new double[mm];
             kr.targetCovariances(nb, mm, x, y, dv, cv);
-            kr.driftAt(x, y, null, f0);
+            kr.driftAt(x, y, covariates(cg, cols[q], rows[q], cov), f0);
             double v = sys.predict(cv, f0, kr.c00, kr.centre(), coords, q * k, null, sc);
             if (sc.residual > LocalSystem.CONSTRAINT_TOLERANCE) {
                 kr.checkConstraints(sc.residual, x, y, sys, Kriging.min(dv, mm));

@@ -731,11 +731,26 @@ public final class Kriging {
      * factorisation; with the variance on, each cell needs a triangular solve of order n (O(n²)),
      * which is only sensible for small grids.
      *
-     * @throws IllegalArgumentException for a universal drift with external covariates (which have
-     *                                  no values at grid cells)
+     * @throws IllegalArgumentException for a universal drift with external covariates (use
+     *                                  {@link #predictGrid(Grid, CovariateGrid, GridOptions, Consumer)})
      */
     public void predictGrid(Grid grid, GridOptions gridOptions, Consumer<GridTile> consumer) {
         GridPredictor.run(this, grid, gridOptions, consumer);
+    }
+
+    /**
+     * Kriging with an external drift on a grid: as {@link #predictGrid(Grid, GridOptions, Consumer)},
+     * with the drift's covariates at every cell from the covariate grid (standardised as at the
+     * data locations, see {@link #driftCoefficients()}).
+     *
+     * @throws IllegalArgumentException if the drift has no external covariates, the covariate grid
+     *                                  does not match the grid or the drift's covariate count, or a
+     *                                  cell's covariate is not finite (naming the cell)
+     */
+    public void predictGrid(Grid grid, CovariateGrid covariates, GridOptions gridOptions,
+            Consumer<GridTile> consumer) {
+        Objects.requireNonNull(covariates, "covariates");
+        GridPredictor.run(this, grid, gridOptions, covariates, t -> t, consumer);
     }
 
     // ------------------------------------------------------------------ cross-validation

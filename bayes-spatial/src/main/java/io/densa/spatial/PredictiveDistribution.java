@@ -286,13 +286,23 @@ public final class PredictiveDistribution {
      */
     public void summariseGrid(Grid grid, GridOptions gridOptions, UncertaintyOptions options,
             Consumer<UncertaintyTile> consumer) {
+        summariseGrid(grid, null, gridOptions, options, consumer);
+    }
+
+    /**
+     * {@link #summariseGrid(Grid, GridOptions, UncertaintyOptions, Consumer)} for a universal
+     * kriging with external drift covariates, whose values at the cells the covariate grid gives
+     * (null when the drift has none).
+     */
+    public void summariseGrid(Grid grid, CovariateGrid covariates, GridOptions gridOptions,
+            UncertaintyOptions options, Consumer<UncertaintyTile> consumer) {
         Objects.requireNonNull(grid, "grid");
         Objects.requireNonNull(gridOptions, "gridOptions");
         Objects.requireNonNull(options, "options");
         Objects.requireNonNull(consumer, "consumer");
         DrawEngine engine = engine(options);
         long columns = grid.columns();
-        GridPredictor.run(kriging, grid, gridOptions.withVariance(true), tile -> {
+        GridPredictor.run(kriging, grid, gridOptions.withVariance(true), covariates, tile -> {
             DrawEngine.Scratch s = engine.scratch();
             int m = tile.size();
             int nq = engine.probs.length, nt = engine.thresholds.length;

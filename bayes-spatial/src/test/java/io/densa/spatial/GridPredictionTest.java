@@ -156,7 +156,7 @@ class GridPredictionTest {
                 KrigingOptions.withDefaults());
         e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
                 () -> uk.predictGrid(Grid.over(0, 0, 1, 1, 2, 2), GridOptions.withDefaults(), t -> { }));
-        assertTrue(e.getMessage().matches("grid prediction with external drift covariates is not supported.*"),
+        assertTrue(e.getMessage().matches("the drift has 1 external covariate\\(s\\): give their values at every cell.*"),
                 e.getMessage());
     }
 }
