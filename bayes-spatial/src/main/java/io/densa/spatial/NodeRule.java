@@ -14,8 +14,9 @@ import org.apache.commons.math3.analysis.integration.gauss.GaussIntegratorFactor
  * engine of {@link UncertaintyOptions.Evaluation#NODE_RULE}).
  *
  * <p><b>Nodes.</b> The domain is cut into panels at the basis breakpoints (spline knots, bin
- * edges; polynomial spaces get 16 equal panels), spans are split further so that there are at
- * least 8 panels, and every exceedance threshold inside the domain becomes a panel edge. Each
+ * edges; polynomial spaces get 16 equal panels), spans are split evenly so that there are at
+ * least 16 panels (the cubic-spline space of study 2, 9 spans, gets 2 per span: with one, about
+ * 40 % of its draws failed the error check below), and every exceedance threshold inside the domain becomes a panel edge. Each
  * panel carries the q-point Gauss–Legendre rule, q = max(4, clr degree + 1) (1 for step bases
  * with a flat reference, whose clr is constant on each bin): the clr of a density is a
  * polynomial of degree below q on every panel, so its node values determine it exactly there.
@@ -28,19 +29,20 @@ import org.apache.commons.math3.analysis.integration.gauss.GaussIntegratorFactor
  * the polynomial that interpolates exp(y) at the panel's nodes (Newton steps on a polynomial of
  * degree q), followed by one Newton step on the exact partial integral, in which the clr is
  * interpolated (exactly, see above) and exp(clr) integrated by the q-point rule on the partial
- * panel. The mean of u(X) is the Gauss–Legendre sum of u · exp(y).
+ * panel (the interpolant alone was off by up to 3·10⁻⁴ in the tests, the step brings that to the
+ * panel rule's own error). The mean of u(X) is the Gauss–Legendre sum of u · exp(y).
  *
  * <p><b>Error.</b> The q-point Gauss–Legendre rule on a panel of width h has error
  * h (q!)⁴/((2q+1)((2q)!)³) f^{(2q)}(ξ) for f(u) = exp(clr) in the panel fraction u (Davis &amp;
  * Rabinowitz (1984), Methods of Numerical Integration, 2nd ed., §2.7 — from memory). The engine
  * estimates f^{(2q)} by (2q)! e_{2q} exp(c_max), with e_{2q} the t^{2q} coefficient of
  * exp(Σ_m |β_m| t^m), β_m the Taylor coefficients of the clr about the panel centre and c_max the
- * largest clr value at the nodes and both panel ends (all exact, the clr being a polynomial of
- * degree below q there), times a safety factor of 4; over 4,000 random cubic clr on one panel this
- * estimate was never below the true error (at worst 0.26 of it before the factor 4, typically 6
- * times above it: a committed check in the tests). The panel estimates are added, and the engine
- * evaluates a density exactly when their total exceeds its tolerance of the mass. Exponentials
- * are computed by {@link #exp},
+ * largest clr value at the nodes and both panel ends (for 4-point panels the bound
+ * c(½) + |β₁|/2 + |β₂|/4 + |β₃|/8 instead; all exact, the clr being a polynomial of degree below
+ * q there), times a safety factor of 4; over 3,000 random cubic clr on one panel this estimate was
+ * never below the true error (at worst 0.42 of it before the factor 4: a committed check in the
+ * tests). The panel estimates are added, and the engine evaluates a density exactly when their
+ * total exceeds its tolerance (10⁻⁴ of the mass). Exponentials are computed by {@link #exp},
  * relative error below 3·10⁻¹⁰.
  */
 final class NodeRule {
@@ -76,6 +78,10 @@ final class NodeRule {
     final double[] taylor;
     /** ℓ_i(0) then ℓ_i(1), i &lt; q: the interpolated clr at the panel's ends from its node values. */
     final double[] endWeights;
+    /** ℓ_i(½): the clr at the panel centre from its node values. */
+    final double[] centreWeights;
+    /** q × q: the clr's power coefficients in the panel fraction from its node values (see {@link #powerWeights}). */
+    final double[] power;
     /** Per threshold: the first panel right of it (0 below the domain, panels above it). */
     final int[] tailPanel;
 
@@ -180,26 +186,45 @@ final class NodeRule {
         }
         ruleConstant = q == 1 ? 0 : SAFETY * Math.pow(fq, 4) / ((2 * q + 1) * f2q * f2q);
         taylor = taylorWeights(un, q);
+        power = powerWeights(un, q);
         endWeights = new double[2 * q];
         double[] l0 = new double[q];
         lagrange(0, l0);
         System.arraycopy(l0, 0, endWeights, 0, q);
         lagrange(1, l0);
         System.arraycopy(l0, 0, endWeights, q, q);
+        centreWeights = new double[q];
+        lagrange(0.5, centreWeights);
     }
 
-    /** Rows m = 1..q−1 of the inverse of the Vandermonde matrix V_{im} = (un_i − ½)^m, m = 0..q−1. */
-    private static double[] taylorWeights(double[] un, int q) {
+    /** q × q: power coefficients γ_m = Σ_i power[m q + i] y_i of the clr in the panel fraction u, c(u) = Σ γ_m u^m. */
+    private static double[] powerWeights(double[] un, int q) {
+        return inverseVandermonde(un, q);
+    }
+
+    /** The inverse of V_{im} = un_i^m (q × q, row m holds the weights of coefficient m). */
+    private static double[] inverseVandermonde(double[] un, int q) {
         double[][] a = new double[q][2 * q];
         for (int i = 0; i < q; i++) {
-            double t = un[i] - 0.5, p = 1;
+            double p = 1;
             for (int mm = 0; mm < q; mm++) {
                 a[i][mm] = p;
-                p *= t;
+                p *= un[i];
             }
             a[i][q + i] = 1;
         }
-        // Gauss–Jordan with partial pivoting on [V | I] gives [I | V⁻¹]
+        gaussJordan(a, q);
+        double[] out = new double[q * q];
+        for (int mm = 0; mm < q; mm++) {
+            for (int i = 0; i < q; i++) {
+                out[mm * q + i] = a[mm][q + i];
+            }
+        }
+        return out;
+    }
+
+    /** Gauss–Jordan with partial pivoting on [V | I], leaving [I | V⁻¹]. */
+    private static void gaussJordan(double[][] a, int q) {
         for (int c = 0; c < q; c++) {
             int piv = c;
             for (int r = c + 1; r < q; r++) {
@@ -223,6 +248,20 @@ final class NodeRule {
                 }
             }
         }
+    }
+
+    /** Rows m = 1..q−1 of the inverse of the Vandermonde matrix V_{im} = (un_i − ½)^m, m = 0..q−1. */
+    private static double[] taylorWeights(double[] un, int q) {
+        double[][] a = new double[q][2 * q];
+        for (int i = 0; i < q; i++) {
+            double t = un[i] - 0.5, p = 1;
+            for (int mm = 0; mm < q; mm++) {
+                a[i][mm] = p;
+                p *= t;
+            }
+            a[i][q + i] = 1;
+        }
+        gaussJordan(a, q);
         double[] out = new double[(q - 1) * q];
         for (int mm = 1; mm < q; mm++) {
             for (int i = 0; i < q; i++) {
@@ -340,17 +379,6 @@ final class NodeRule {
         }
     }
 
-    /** exp(clr interpolated in panel j at fraction v − shift), y the node values at stride. */
-    private double interpolatedExp(double v, int j, double[] y, int yOff, int stride, double shift, double[] lag) {
-        lagrange(v, lag);
-        double c = 0;
-        int base = yOff + j * q * stride;
-        for (int i = 0; i < q; i++) {
-            c += lag[i] * y[base + i * stride];
-        }
-        return exp(c - shift);
-    }
-
     /**
      * The quantile of probability p of one density, from its panel masses (mass[j·stride + col],
      * total z), node exponentials g and node values y (both at yOff + i·stride) and shift (the
@@ -383,7 +411,7 @@ final class NodeRule {
         }
         double u = need / mj;
         double left = 0, right = 1;
-        for (int it = 0; it < 30; it++) {
+        for (int it = 0; it < 12; it++) {
             double val = 0, der = 0;
             for (int d = q - 1; d >= 0; d--) {
                 val = val * u + a[d];
@@ -398,36 +426,42 @@ final class NodeRule {
             }
             double nu = der > 0 ? u - f / der : Double.NaN;
             nu = nu > left && nu < right ? nu : 0.5 * (left + right);
-            boolean done = Math.abs(nu - u) <= 1e-12;
+            // the exact Newton step below squares this error
+            boolean done = Math.abs(nu - u) <= 1e-7;
             u = nu;
-            if (done || right - left <= 1e-12) {
+            if (done || right - left <= 1e-7) {
                 break;
             }
         }
-        // Newton steps on the exact partial integral ∫_0^u exp(clr) (clr interpolated exactly),
-        // bracketed; the interpolant gives the start, so one or two steps usually suffice
-        left = 0;
-        right = 1;
-        for (int it = 0; it < 6; it++) {
-            double part = 0;
+        // one Newton step on the exact partial integral ∫_0^u exp(clr) (the clr interpolated exactly,
+        // in power form); the interpolant's root is within about 10⁻⁴ of the panel, so the step
+        // leaves an error of order its square (measured in the tests)
+        double[] gam = lag;
+        int yb = yOff + j * q * stride;
+        for (int mm = 0; mm < q; mm++) {
+            double c = 0;
             for (int i = 0; i < q; i++) {
-                part += uw[i] * interpolatedExp(u * un[i], j, y, yOff, stride, shift, lag);
+                c += power[mm * q + i] * y[yb + i * stride];
             }
-            double f = part * h * u - need;
-            if (f > 0) {
-                right = u;
-            } else {
-                left = u;
+            gam[mm] = c;
+        }
+        double part = 0;
+        for (int i = 0; i < q; i++) {
+            double v = u * un[i], c = 0;
+            for (int mm = q - 1; mm >= 0; mm--) {
+                c = c * v + gam[mm];
             }
-            double dens = h * interpolatedExp(u, j, y, yOff, stride, shift, lag);
-            double nu = dens > 0 ? u - f / dens : Double.NaN;
-            nu = nu >= left && nu <= right ? nu : 0.5 * (left + right);
-            double step = Math.abs(nu - u);
+            part += uw[i] * exp(c - shift);
+        }
+        double cu = 0;
+        for (int mm = q - 1; mm >= 0; mm--) {
+            cu = cu * u + gam[mm];
+        }
+        double f = part * h * u - need;
+        double dens = h * exp(cu - shift);
+        double nu = dens > 0 ? u - f / dens : Double.NaN;
+        if (nu >= 0 && nu <= 1) {
             u = nu;
-            // quadratic convergence: after a step below 1e-7 the remaining error is near rounding
-            if (step <= 1e-7) {
-                break;
-            }
         }
         return lo[j] + u * h;
     }

@@ -46,12 +46,15 @@ import java.util.function.Consumer;
  *
  * <p><b>Evaluation error.</b> With {@link UncertaintyOptions.Evaluation#NODE_RULE} (the default)
  * each draw is evaluated on a fixed Gauss–Legendre node set whose panels end at the basis
- * breakpoints and at the thresholds; a draw whose estimated rule error exceeds 10⁻⁶ of its
- * mass is evaluated with the space's exact methods instead (counted in
- * {@link LocationUncertainty#exactDraws()}). Measured against the exact methods on smooth and
- * sharp densities of a cubic-spline space (see the tests), exceedance probabilities agree to
- * about 10⁻⁶, quantiles to about 10⁻⁵ of the domain and means to about 10⁻⁶ of it, far below the
- * Monte Carlo error of a few hundred draws.
+ * breakpoints and at the thresholds; a draw whose estimated rule error exceeds 10⁻⁴ of its mass
+ * is evaluated with the space's exact methods instead (counted in
+ * {@link LocationUncertainty#exactDraws()}). Measured against the exact methods on the same draws
+ * (cubic splines with 8 and 29 interior knots, quadratic splines, polynomials, steps, uniform and
+ * normal references; kriging standard deviations up to 5 B2 units; see the tests), quantiles
+ * agreed to within 10⁻⁴ of the domain's length and exceedance probabilities and means to within
+ * 10⁻⁵ (of the length for means): far below the Monte Carlo error of a few hundred draws (an end
+ * of a 90 % interval from 200 draws has a standard error of about 0.15 predictive standard
+ * deviations: √(0.05 · 0.95 / 200) / φ(1.645)).
  *
  * <p>Immutable and thread-safe.
  */
@@ -167,7 +170,11 @@ public final class PredictiveDistribution {
         return eigenvalues.clone();
     }
 
-    /** Number of principal directions with positive variance (the dimension of the draws). */
+    /**
+     * Number r of principal directions the draws use: all but the trailing ones that together hold
+     * at most 10⁻⁶ of the trace (their omission changes the predictive covariance by at most 10⁻⁶
+     * of the kriging variance).
+     */
     public int rank() {
         return rank;
     }

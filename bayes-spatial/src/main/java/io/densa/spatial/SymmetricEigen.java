@@ -51,15 +51,21 @@ record SymmetricEigen(double[] values, double[] vectors) {
     }
 
     /**
-     * The K × r factor F = V_r diag(√λ_r) over the r eigenvalues above 10⁻¹² of the largest (so
-     * F Fᵀ reproduces the matrix up to rounding); r is factor.length / K.
+     * The K × r factor F = V_r diag(√λ_r) of the leading r eigenvalues: the trailing ones are left
+     * out while together they hold at most 10⁻⁶ of the trace (so F Fᵀ differs from the matrix by
+     * at most 10⁻⁶ of its trace); r is factor.length / K.
      */
     double[] factor() {
         int k = values.length;
-        double top = Math.max(0, values[0]);
-        int r = 0;
-        while (r < k && values[r] > 1e-12 * top) {
-            r++;
+        double trace = 0;
+        for (double v : values) {
+            trace += Math.max(0, v);
+        }
+        int r = k;
+        double dropped = 0;
+        while (r > 0 && dropped + Math.max(0, values[r - 1]) <= 1e-6 * trace) {
+            dropped += Math.max(0, values[r - 1]);
+            r--;
         }
         double[] f = new double[k * Math.max(r, 1)];
         for (int j = 0; j < r; j++) {

@@ -33,7 +33,7 @@ public final class UncertaintyOptions {
          * The fast rule: the draw's clr on a fixed set of Gauss–Legendre nodes (the space's
          * breakpoints and the thresholds are panel edges), normalising constant and tail masses by
          * the panel sums, quantiles by inverting the panel's interpolated cumulative mass with one
-         * exact Newton step; draws whose estimated rule error exceeds 10⁻⁶ of the total mass are
+         * exact Newton step; draws whose estimated rule error exceeds 10⁻⁴ of the total mass are
          * evaluated {@link #EXACT}ly (see {@link PredictiveDistribution} for the error).
          */
         NODE_RULE,

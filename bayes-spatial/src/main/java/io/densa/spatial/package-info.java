@@ -24,8 +24,14 @@
  *     with the residual variogram iterated) with {@link io.densa.spatial.KrigingOptions}
  *     (neighbourhood, measurement-error variances);</li>
  * <li>{@link io.densa.spatial.Kriging#predict}, {@link io.densa.spatial.Kriging#predictBlock},
- *     {@link io.densa.spatial.Kriging#predictGrid} (tiles streamed to a consumer) and
- *     {@link io.densa.spatial.Kriging#crossValidate}.</li>
+ *     {@link io.densa.spatial.Kriging#predictGrid} (tiles streamed to a consumer; with a
+ *     {@link io.densa.spatial.CovariateGrid} for an external drift) and
+ *     {@link io.densa.spatial.Kriging#crossValidate};</li>
+ * <li>uncertainty in the data's units: {@link io.densa.spatial.PredictiveDistribution} gives the
+ *     Gaussian law of the coordinates at a location (proportional covariance model) and seeded
+ *     Monte Carlo intervals of quantiles, exceedance probabilities and means at locations or per
+ *     grid cell ({@link io.densa.spatial.UncertaintyOptions}); model checks:
+ *     {@link io.densa.spatial.ProportionalityCheck} and {@link io.densa.spatial.AnisotropyTest}.</li>
  * </ol>
  *
  * <h2>Guarantees</h2>

@@ -77,11 +77,14 @@ class NodeRuleAccuracyTest {
         return space.project(x -> Math.exp(-0.5 * Math.pow((x - m) / sd, 2))).density().coordinates();
     }
 
-    /** Quantiles within 5·10⁻⁵ of the domain, probabilities and means within 2·10⁻⁵ (of the domain). */
+    /**
+     * Quantiles within 10⁻⁴ of the domain's length, exceedance probabilities within 10⁻⁵ and means
+     * within 10⁻⁵ of the length (the rule's tolerance is 10⁻⁴ of the mass; what it keeps is smaller).
+     */
     static void assertAccurate(BayesSpace space, double[] w, int quantiles) {
         double len = space.upper() - space.lower();
         for (int q = 0; q < w.length; q++) {
-            double tol = q < quantiles ? 5e-5 * len : q == w.length - 1 ? 2e-5 * len : 2e-5;
+            double tol = q < quantiles ? 1e-4 * len : q == w.length - 1 ? 1e-5 * len : 1e-5;
             assertTrue(w[q] <= tol, space + ": quantity " + q + " differs by " + w[q] + " > " + tol);
         }
     }
