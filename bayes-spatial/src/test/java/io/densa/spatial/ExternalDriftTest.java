@@ -136,6 +136,17 @@ class ExternalDriftTest {
             }
         }
         assertEquals(nx * ny, checked);
+        // the dual form (global neighbourhood, no variance) gives the same predictions
+        List<GridTile> withVar = tiles(kr, grid, cg, GridOptions.withDefaults());
+        List<GridTile> dual = tiles(kr, grid, cg, GridOptions.withDefaults().withVariance(false));
+        for (int t = 0; t < withVar.size(); t++) {
+            for (int q = 0; q < withVar.get(t).size(); q++) {
+                for (int j = 0; j < SPACE.dimension(); j++) {
+                    assertEquals(withVar.get(t).predictions().coordinate(q, j), dual.get(t).predictions()
+                            .coordinate(q, j), 1e-9);
+                }
+            }
+        }
     }
 
     @Test
