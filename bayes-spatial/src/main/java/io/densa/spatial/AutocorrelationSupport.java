@@ -24,8 +24,12 @@ final class AutocorrelationSupport {
     private AutocorrelationSupport() {
     }
 
-    /** Weights and values after the island policy: kept[a] = original index of unit a. */
-    record Prepared(SpatialWeights weights, int[] kept, List<Integer> excluded) {
+    /**
+     * Weights after the island policy: kept[a] = original index of unit a; {@code weights} are
+     * {@code original} normalised for the global statistics
+     * ({@link SpatialWeights#normalisedForStatistics}), which do not depend on a common factor.
+     */
+    record Prepared(SpatialWeights weights, int[] kept, List<Integer> excluded, SpatialWeights original) {
     }
 
     /**
@@ -35,7 +39,7 @@ final class AutocorrelationSupport {
      * statistic built on z (Moran's I, Geary's c, local Moran's I) is invariant to that scale.
      */
     record ScalarField(SpatialWeights weights, int[] kept, double[] z, double scale, double sumSq, double kurtosis,
-            List<Integer> excluded) {
+            List<Integer> excluded, SpatialWeights original) {
         int size() {
             return z.length;
         }
@@ -49,7 +53,7 @@ final class AutocorrelationSupport {
         double[] x = select(values, p.kept());
         double scale = powerOfTwoScale(x);
         double[] z = centre(x, scale, what);
-        return new ScalarField(p.weights(), p.kept(), z, scale, sumSq(z), kurtosis(z), p.excluded());
+        return new ScalarField(p.weights(), p.kept(), z, scale, sumSq(z), kurtosis(z), p.excluded(), p.original());
     }
 
     /** The permutation test of a global statistic if the options ask for one. */
@@ -132,7 +136,7 @@ final class AutocorrelationSupport {
             throw new IllegalArgumentException("the weights have no positive entry (S0 = 0); " + what
                     + " is undefined");
         }
-        return new Prepared(cur, keptF, excluded);
+        return new Prepared(cur.normalisedForStatistics(), keptF, excluded, cur);
     }
 
     private static String islandMessage(int[] islands) {

@@ -48,10 +48,11 @@ final class GridPredictor {
             throw new IllegalArgumentException("grid prediction with external drift covariates is not supported;"
                     + " predict cell by cell with predict(x, y, covariates)");
         }
-        if (kr.loc.kind() == Locations.Kind.GEOGRAPHIC) {
-            // the corners bound every cell
-            kr.loc.requirePoint(grid.x(0), grid.y(0), "grid corner");
-            kr.loc.requirePoint(grid.x(grid.columns() - 1), grid.y(grid.rows() - 1), "grid corner");
+        // the corners bound every cell (geographic ranges; planar distances to the data)
+        for (int cc : new int[] {0, grid.columns() - 1}) {
+            for (int rr : new int[] {0, grid.rows() - 1}) {
+                kr.loc.requirePoint(grid.x(cc), grid.y(rr), "grid corner");
+            }
         }
         int ts = opt.tileSize();
         int tilesX = (grid.columns() + ts - 1) / ts;
@@ -171,7 +172,7 @@ final class GridPredictor {
                     kr.checkConstraints(sc.residual, x, y, g, Kriging.min(dist, kr.n));
                 }
                 if (var != null) {
-                    var[q] = v;
+                    var[q] = kr.variance(v, x, y, g);
                 }
                 if (near != null) {
                     near[q] = Kriging.min(dist, kr.n);
@@ -357,7 +358,7 @@ final class GridPredictor {
                 kr.checkConstraints(sc.residual, x, y, sys, Kriging.min(dv, mm));
             }
             if (var != null) {
-                var[q] = v;
+                var[q] = kr.variance(v, x, y, sys);
             }
             if (near != null) {
                 near[q] = Kriging.min(dv, mm);

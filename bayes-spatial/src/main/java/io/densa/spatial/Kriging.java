@@ -56,6 +56,11 @@ import org.locationtech.jts.geom.prep.PreparedGeometryFactory;
  * target, the residual and the distance to the nearest station. Every prediction reports that
  * distance ({@link KrigingPrediction#nearestStationDistance()}), so a caller can tell
  * extrapolation; grids can report it per cell ({@link GridOptions#withNearestDistances}).
+ * The system is solved in units of the sill: covariances, error variances and the variance are
+ * divided by an even power of two 2^e near the (pseudo-)sill, which is exact (weights and
+ * predictions are bit-identical to the unscaled solve) and keeps sills near 1e-300 or 1e300 from
+ * under- or overflowing the system; a kriging variance that still exceeds the double range
+ * (a sill near 1.8e308) throws a {@link DensaException} naming the target.
  *
  * <p>Immutable after construction and safe to share between threads; factorisations are computed
  * lazily (the global one once).
@@ -81,6 +86,10 @@ public final class Kriging {
     final int n;
     final int k;
     final VariogramModel model;
+    /** The model in units of 2^unitExponent (the sills scaled, exact): what the systems use. */
+    private final VariogramModel unitModel;
+    /** e of the scale 2^e (even) of covariances and variances in the systems. */
+    private final int unitExponent;
     final Drift drift;
     final int p;
     private final double[] fRows;
@@ -93,7 +102,8 @@ public final class Kriging {
     private final double[] centre;
     private final double[] sx;
     private final double[] sy;
-    private final double[] diagExtra;
+    private final double[] diagExtra; // in units of 2^unitExponent
+    private final double[] diagExtraRaw; // in the data's units
     private final double[] errorVariances;
     final KrigingOptions options;
     final double c00;
@@ -144,9 +154,14 @@ public final class Kriging {
                     + " locations");
         }
         this.errorVariances = ev == null ? new double[n] : ev;
-        this.diagExtra = new double[n];
+        this.diagExtraRaw = new double[n];
         for (int i = 0; i < n; i++) {
-            diagExtra[i] = errorVariances[i] + options.coincidentNugget();
+            diagExtraRaw[i] = errorVariances[i] + options.coincidentNugget();
+            if (!(diagExtraRaw[i] <= Double.MAX_VALUE)) {
+                throw new IllegalArgumentException("the error variance of location " + i + " plus the coincident"
+                        + " nugget (" + errorVariances[i] + " + " + options.coincidentNugget() + ") overflows a"
+                        + " double; accepted are sums below about 1.8e308");
+            }
         }
         this.centre = new double[k];
         if (type == Type.SIMPLE) {
@@ -166,8 +181,26 @@ public final class Kriging {
         double s = 0.5 * Math.max(bb[2] - bb[0], bb[3] - bb[1]);
         this.scale = s > 0 ? s : 1;
         double diam = loc.unchecked(bb[0], bb[1], bb[2], bb[3]);
-        this.pseudoSill = model.bounded() ? model.sill() : 2 * model.gammaUnchecked(Math.max(diam, 1e-300)) + 1;
+        double sill = model.bounded() ? model.sill() : 2 * model.gammaUnchecked(Math.max(diam, 1e-300)) + 1;
+        if (!(sill <= Double.MAX_VALUE)) {
+            throw new IllegalArgumentException("the variogram " + model + " overflows a double at the largest"
+                    + " distance between the data locations (" + diam + "); accepted are power models whose value"
+                    + " there stays below about 1e308: rescale the coordinates or the data");
+        }
+        // an even exponent keeps the Cholesky factor's scale 2^(e/2) a power of two (exact)
+        this.unitExponent = Math.getExponent(sill) & ~1;
+        this.unitModel = model.scaledBy(-unitExponent);
+        this.pseudoSill = Math.scalb(sill, -unitExponent);
         this.c00 = pseudoSill;
+        this.diagExtra = new double[n];
+        for (int i = 0; i < n; i++) {
+            diagExtra[i] = Math.scalb(diagExtraRaw[i], -unitExponent);
+            if (!(diagExtra[i] <= Double.MAX_VALUE)) {
+                throw new IllegalArgumentException("the error variance of location " + i + " plus the coincident"
+                        + " nugget (" + diagExtraRaw[i] + ") is too large beside the variogram's sill " + sill
+                        + " (their ratio overflows a double); accepted are ratios below about 1e308");
+            }
+        }
         this.fRows = new double[n * p];
         int q = p > 0 ? drift.covariateCount() : 0;
         this.covShift = new double[q];
@@ -401,7 +434,7 @@ public final class Kriging {
 
     /** The (pseudo-)covariance at lag h; C(0) at h = 0. */
     double cov(double h) {
-        return model.covariance(h, pseudoSill);
+        return unitModel.covariance(h, pseudoSill);
     }
 
     /** Distances from (x, y) to stations idx[0..m) (all stations 0..m−1 if idx is null) into out. */
@@ -422,7 +455,7 @@ public final class Kriging {
     /** Covariances from (x, y) to stations idx[0..m) (all if idx is null) into out; dist is scratch. */
     void targetCovariances(int[] idx, int m, double x, double yy, double[] dist, double[] out) {
         distances(idx, m, x, yy, dist);
-        model.covariances(dist, m, pseudoSill, out);
+        unitModel.covariances(dist, m, pseudoSill, out);
     }
 
     double stationCovariance(int i, int j) {
@@ -542,7 +575,45 @@ public final class Kriging {
         if (w != null && p > 0) {
             checkConstraints(weightResidual(nb, w, f0), x, yy, sys, nearest);
         }
-        return new KrigingPrediction(space.density(out), var, nb, w, nearest);
+        return new KrigingPrediction(density(out, x, yy, sys), variance(var, x, yy, sys), nb, w, nearest);
+    }
+
+    /**
+     * A variance of the system (in units of 2^unitExponent) in the data's units.
+     *
+     * @throws DensaException naming the target when it exceeds the double range
+     */
+    double variance(double unitVariance, double x, double yy, LocalSystem sys) {
+        double v = Math.scalb(unitVariance, unitExponent);
+        if (!(v <= Double.MAX_VALUE)) {
+            throw new DensaException(String.format(java.util.Locale.ROOT, "%s kriging at target (%s, %s): the kriging"
+                    + " variance %.6g x 2^%d exceeds the double range; the variogram's sill (%s) leaves no room for"
+                    + " it: rescale the data", type, x, yy, unitVariance, unitExponent, model),
+                    new KrigingDiagnostics(sys.m, sys.condition, sys.idx.clone(), "kriging variance overflow"));
+        }
+        return v;
+    }
+
+    /** The predicted density from its coordinates, or a DensaException naming the target if one overflowed. */
+    private Density density(double[] coords, double x, double yy, LocalSystem sys) {
+        for (int c = 0; c < coords.length; c++) {
+            if (!Double.isFinite(coords[c])) {
+                throw new DensaException(String.format(java.util.Locale.ROOT, "%s kriging at target (%s, %s):"
+                        + " predicted coordinate %d is %s (the weighted sum of the data's coordinates, up to %.4g in"
+                        + " magnitude, overflows); rescale the densities' coordinates", type, x, yy, c, coords[c],
+                        maxAbs(y)), new KrigingDiagnostics(sys.m, sys.condition, sys.idx.clone(),
+                        "predicted coordinate overflow"));
+            }
+        }
+        return space.density(coords);
+    }
+
+    private static double maxAbs(double[] a) {
+        double m = 0;
+        for (double v : a) {
+            m = Math.max(m, Math.abs(v));
+        }
+        return m;
     }
 
     static double min(double[] a, int m) {
@@ -682,7 +753,8 @@ public final class Kriging {
         if (p > 0) {
             checkConstraints(weightResidual(nb, w, f0), ip.getX(), ip.getY(), sys, nearest);
         }
-        return new KrigingPrediction(space.density(out), var, nb, w, nearest);
+        return new KrigingPrediction(density(out, ip.getX(), ip.getY(), sys), variance(var, ip.getX(), ip.getY(), sys),
+                nb, w, nearest);
     }
 
     /** Centres of a square grid of the given spacing covered by the polygon (package-private for tests). */
@@ -837,9 +909,9 @@ public final class Kriging {
             for (int c = 0; c < k; c++) {
                 err[i][c] /= b;
             }
-            var[i] = Math.max(0, 1 / b - diagExtra[i]);
+            var[i] = Math.scalb(Math.max(0, 1 / b - diagExtra[i]), unitExponent);
         }
-        return CrossValidation.of(err, var, diagExtra.clone());
+        return CrossValidation.of(err, var, diagExtraRaw.clone());
     }
 
     /**
@@ -871,7 +943,7 @@ public final class Kriging {
             var[i] = pr.variance();
             progress.advance(1);
         });
-        return CrossValidation.of(err, var, diagExtra.clone());
+        return CrossValidation.of(err, var, diagExtraRaw.clone());
     }
 
     /**

@@ -130,7 +130,7 @@ public final class LocalMoran {
                 SpatialWeights.IslandPolicy.ERROR, 2, "local Moran's I");
         double[] z = f.z();
         double m2 = f.sumSq() / z.length;
-        double[] lag = f.weights().spatialLag(z);
+        double[] lag = f.original().spatialLag(z);
         double[] out = new double[z.length];
         for (int i = 0; i < z.length; i++) {
             out[i] = z[i] / m2 * lag[i];
@@ -156,7 +156,7 @@ public final class LocalMoran {
         }
         AutocorrelationSupport.ScalarField f = AutocorrelationSupport.scalarField(weights, values,
                 options.islandPolicy(), 3, "local Moran's I");
-        SpatialWeights w = f.weights();
+        SpatialWeights w = f.original(); // I_i scales with the weights: the caller's own
         double[] z = f.z();
         int n = z.length;
         double nn = n;
@@ -245,13 +245,19 @@ public final class LocalMoran {
                 wi2 += vs[q] * vs[q];
             }
             double e = -wi / (nn - 1);
-            double var = wi2 * (nn - b2) / (nn - 1) + (wi * wi - wi2) * (2 * b2 - nn) / ((nn - 1) * (nn - 2))
+            // factors grouped so that weights near the accepted limit do not overflow on the way
+            double var = wi2 * ((nn - b2) / (nn - 1)) + (wi * wi - wi2) * ((2 * b2 - nn) / ((nn - 1) * (nn - 2)))
                     - e * e;
             sum += stat[i];
             double dev = z[i] * f.scale(), lg = lag[i] * f.scale();
             if (!Double.isFinite(dev) || !Double.isFinite(lg)) {
                 throw new IllegalArgumentException("the deviation from the mean or the spatial lag of unit " + f.kept()[i]
                         + " overflows a double (values up to " + maxAbs(values) + "); rescale the values");
+            }
+            if (!Double.isFinite(var) || !Double.isFinite(stat[i]) || !Double.isFinite(condE[i])) {
+                throw new IllegalArgumentException("the local Moran statistic of unit " + f.kept()[i] + " or its"
+                        + " variance overflows a double (its weights sum to " + wi + "); divide the weights by a"
+                        + " common factor");
             }
             units.add(new Unit(f.kept()[i], stat[i], dev, lg, quadrant(z[i], lag[i]), e, var, condE[i], pTwo[i],
                     pGt[i], pLt[i], adj[i]));

@@ -116,7 +116,7 @@ public final class MoranI {
         double m2 = f.sumSq();
         double stat = statistic(w, z, m2);
         int n = f.size();
-        double s0 = w.s0(), s1 = w.s1(), s2 = w.s2();
+        double s0 = w.s0(), s1 = w.s1(), s2 = w.s2(); // of the normalised weights (scale-free formulas)
         double b2 = f.kurtosis();
         double nn = n;
         double e = -1.0 / (nn - 1);
@@ -144,7 +144,8 @@ public final class MoranI {
             }
             return scale * s;
         });
-        return new Result(stat, n, f.excluded(), s0, s1, s2, b2, normal, random, perm);
+        SpatialWeights ow = f.original();
+        return new Result(stat, n, f.excluded(), ow.s0(), ow.s1(), ow.s2(), b2, normal, random, perm);
     }
 
     /** (n/S0) Σ w_ij z_i z_j / Σ z². */

@@ -198,9 +198,12 @@ public final class VariogramFitting {
         for (int b = 0; b < lag.length; b++) {
             fitted[b] = cnt[b] > 0 ? m.gamma(lag[b]) : Double.NaN;
         }
+        // in units of the power of two of max γ̂ (exact), so that the squares of semivariances beyond
+        // 1e154 do not overflow
+        double unit = Math.scalb(1.0, -Math.getExponent(gmax));
         double sse = 0;
         for (int i = 0; i < used; i++) {
-            double d = g[i] - m.gamma(h[i]);
+            double d = (g[i] - m.gamma(h[i])) * unit;
             sse += d * d;
         }
         boolean lowRange = par[1] <= rlo * 1.001;
@@ -253,7 +256,13 @@ public final class VariogramFitting {
                     + options.maxEvaluations() + " criterion evaluations per optimiser run was spent before"
                     + " convergence; raise it with VariogramFitOptions.withMaxEvaluations"));
         }
-        return new VariogramFit(m, options.method(), crit, Math.sqrt(sse / used), fitted, used,
+        double rmse = Math.sqrt(sse / used) / unit;
+        if (!Double.isFinite(rmse)) {
+            throw new DensaException("the root mean squared difference between the fitted and the empirical"
+                    + " semivariances (" + rmse + ") exceeds the double range; rescale the densities' coordinates",
+                    new FitStart(fam, par[0], par[1], nug ? par[2] : 0));
+        }
+        return new VariogramFit(m, options.method(), crit, rmse, fitted, used,
                 pr.evaluations, best.converged, lowRange || highRange, hmax, warnings);
     }
 

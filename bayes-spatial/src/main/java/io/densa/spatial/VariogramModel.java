@@ -24,6 +24,12 @@ import org.apache.commons.math3.special.Gamma;
  * For a bounded model the covariance is C(h) = sill − γ(h), with C(0) = sill (the nugget
  * included), so kriging with a nugget interpolates exactly at data locations.
  *
+ * <p><b>Parameter ranges.</b> Every partial sill, range and coefficient is finite and positive, and
+ * the total sill of the bounded structures must be a finite double (checked when structures are
+ * combined): a bounded model's γ and C are then finite at every lag, whatever h / a underflows or
+ * overflows to (h / a = 0 gives γ = 0; h / a = ∞ gives the sill). Only the power model can
+ * exceed the double range; {@link #gamma} then throws.
+ *
  * <p>Immutable and thread-safe; {@code equals} is exact on the structure list.
  */
 public final class VariogramModel {
@@ -56,15 +62,50 @@ public final class VariogramModel {
 
     private final Structure[] parts;
     private final double[] maternConst; // 2^{1−ν}/Γ(ν) per part (NaN if not Matérn)
+    /**
+     * Per part, the rate of the exponential or Gaussian covariance loop (−3/a, −3/a²), or NaN when
+     * that rate is not a finite non-zero number (a range below about 1.7e-308, or a Gaussian range
+     * whose square under- or overflows): such parts take the guarded per-lag path, so that the
+     * unguarded loop never forms 0 · ∞.
+     */
+    private final double[] rate;
 
     private VariogramModel(Structure[] parts) {
         this.parts = parts;
         this.maternConst = new double[parts.length];
+        this.rate = new double[parts.length];
+        double sill = 0;
         for (int i = 0; i < parts.length; i++) {
             Structure s = parts[i];
             maternConst[i] = s.family == Family.MATERN
                     ? Math.exp((1 - s.smoothness) * Math.log(2) - Gamma.logGamma(s.smoothness)) : Double.NaN;
+            double r = s.family == Family.EXPONENTIAL ? -3 / s.range
+                    : s.family == Family.GAUSSIAN ? -3 / (s.range * s.range) : Double.NaN;
+            rate[i] = r < 0 && r > Double.NEGATIVE_INFINITY ? r : Double.NaN;
+            if (s.family != Family.POWER) {
+                sill += s.partialSill;
+            }
         }
+        if (!(sill <= Double.MAX_VALUE)) {
+            throw new IllegalArgumentException("the total sill of " + describe(parts) + " overflows a double;"
+                    + " accepted are partial sills (nugget included) whose sum is below about 1.8e308: rescale the"
+                    + " data");
+        }
+    }
+
+    /**
+     * This model with every partial sill (and power coefficient) multiplied by the power of two
+     * 2^e, which is exact unless a sill underflows; γ and C scale by the same factor. Internal:
+     * kriging solves its system in units of the sill, so that neither the system nor the
+     * variance overflows or underflows for sills near the ends of the double range.
+     */
+    VariogramModel scaledBy(int e) {
+        Structure[] p = new Structure[parts.length];
+        for (int i = 0; i < parts.length; i++) {
+            Structure s = parts[i];
+            p[i] = new Structure(s.family, Math.scalb(s.partialSill, e), s.range, s.smoothness);
+        }
+        return new VariogramModel(p);
     }
 
     private static void positive(String what, double v) {
@@ -185,10 +226,14 @@ public final class VariogramModel {
         return s;
     }
 
-    /** Total sill (sum of partial sills), +∞ for an unbounded model. */
+    /**
+     * Total sill (sum of partial sills, finite by construction).
+     *
+     * @throws IllegalStateException for an unbounded (power) model, which has no sill
+     */
     public double sill() {
         if (!bounded()) {
-            return Double.POSITIVE_INFINITY;
+            throw new IllegalStateException("an unbounded (power) variogram has no sill: " + this);
         }
         double s = 0;
         for (Structure p : parts) {
@@ -198,15 +243,22 @@ public final class VariogramModel {
     }
 
     /**
-     * γ(h).
+     * γ(h); finite for every lag h ≥ 0 of a bounded model (at most the sill).
      *
-     * @throws IllegalArgumentException if h is negative or NaN
+     * @throws IllegalArgumentException if h is negative or NaN, or (power model) γ(h) = c h^ω
+     *                                  overflows a double at this lag
      */
     public double gamma(double h) {
         if (!(h >= 0)) {
             throw new IllegalArgumentException("lag must be >= 0, got " + h);
         }
-        return gammaUnchecked(h);
+        double g = gammaUnchecked(h);
+        if (!(g <= Double.MAX_VALUE)) {
+            throw new IllegalArgumentException("the variogram " + this + " at lag " + h + " exceeds the double range"
+                    + " (a power structure c h^w overflows); accepted are lags where c h^w stays below about 1.8e308:"
+                    + " rescale the distances or the data");
+        }
+        return g;
     }
 
     double gammaUnchecked(double h) {
@@ -264,14 +316,22 @@ public final class VariogramModel {
                     }
                     break;
                 case EXPONENTIAL: {
-                    double r = -3 / a;
+                    double r = rate[p];
+                    if (r != r) {
+                        guarded(p, h, len, out);
+                        break;
+                    }
                     for (int i = 0; i < len; i++) {
                         out[i] -= c * (1 - Math.exp(r * h[i]));
                     }
                     break;
                 }
                 case GAUSSIAN: {
-                    double r = -3 / (a * a);
+                    double r = rate[p];
+                    if (r != r) {
+                        guarded(p, h, len, out);
+                        break;
+                    }
                     for (int i = 0; i < len; i++) {
                         out[i] -= c * (1 - Math.exp(r * h[i] * h[i]));
                     }
@@ -287,12 +347,22 @@ public final class VariogramModel {
         }
     }
 
+    /** out[i] −= the structure p at h[i] for h[i] &gt; 0, by {@link #single} (no 0 · ∞). */
+    private void guarded(int p, double[] h, int len, double[] out) {
+        for (int i = 0; i < len; i++) {
+            if (h[i] > 0) {
+                out[i] -= single(p, h[i]);
+            }
+        }
+    }
+
     /** Scalar form of {@link #covariances}, with the same arithmetic (bit-identical). */
     double covariance(double h, double base) {
         double v = base;
         for (int p = 0; p < parts.length; p++) {
             Structure s = parts[p];
             double c = s.partialSill;
+            double r = rate[p];
             switch (s.family) {
                 case NUGGET:
                     if (h > 0) {
@@ -300,10 +370,18 @@ public final class VariogramModel {
                     }
                     break;
                 case EXPONENTIAL:
-                    v -= c * (1 - Math.exp((-3 / s.range) * h));
+                    if (r != r) {
+                        v -= h > 0 ? single(p, h) : 0;
+                    } else {
+                        v -= c * (1 - Math.exp(r * h));
+                    }
                     break;
                 case GAUSSIAN:
-                    v -= c * (1 - Math.exp((-3 / (s.range * s.range)) * h * h));
+                    if (r != r) {
+                        v -= h > 0 ? single(p, h) : 0;
+                    } else {
+                        v -= c * (1 - Math.exp(r * h * h));
+                    }
                     break;
                 default:
                     if (h > 0) {
@@ -324,18 +402,33 @@ public final class VariogramModel {
             }
             case MATERN:
                 return c * (1 - maternCorrelation(p, h / s.range));
+            case EXPONENTIAL:
+                return c * -Math.expm1(-3 * (h / s.range));
+            case GAUSSIAN: {
+                double t = h / s.range;
+                return c * -Math.expm1(-3 * t * t);
+            }
             default:
                 return c * Math.pow(h, s.range);
         }
     }
 
+    /**
+     * The Matérn correlation 2^{1−ν}/Γ(ν) t^ν K_ν(t), which tends to 1 as t → 0: at t = 0 (h / a
+     * underflowed) it is 1, and where K_ν(t) overflows (t^ν below about 1e-308 / Γ(ν)2^{ν−1}) the
+     * product is within rounding of 1 (its deviation from 1 is O(t^{2 min(ν, 1)}), A&amp;S 9.6.9 —
+     * from memory), so it is 1 too.
+     */
     private double maternCorrelation(int part, double t) {
         double nu = parts[part].smoothness;
         if (t > 745 + 50 * nu) {
             return 0;
         }
+        if (t == 0) {
+            return 1;
+        }
         double r = maternConst[part] * Math.pow(t, nu) * BesselK.k(nu, t);
-        return Math.min(1.0, r);
+        return r < 1 ? r : 1.0; // NaN (0 · ∞) and +∞ both mean the limit 1
     }
 
     /**
@@ -371,6 +464,10 @@ public final class VariogramModel {
 
     @Override
     public String toString() {
+        return describe(parts);
+    }
+
+    private static String describe(Structure[] parts) {
         StringBuilder b = new StringBuilder("VariogramModel[");
         for (int i = 0; i < parts.length; i++) {
             Structure s = parts[i];
