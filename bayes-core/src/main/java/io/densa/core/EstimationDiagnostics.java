@@ -10,9 +10,15 @@ import org.ejml.data.DMatrixRMaj;
  * <p>The coordinate covariance is a K × K row-major matrix in the space's orthonormal
  * coordinates; because B2 is Euclidean in those coordinates, its trace is the expected squared B2
  * distance between the estimate and its own mean, reported as {@link #estimationVariance()}.
- * Which approximation it is depends on the estimator (see its documentation). For a unit without
- * events returned as the reference density the diagonal is +∞ (no information) and the
- * off-diagonal entries 0.
+ * Which approximation it is depends on the estimator (see its documentation). It is positive
+ * semi-definite (a sandwich that rounding leaves slightly indefinite is projected onto the nearest
+ * positive semi-definite matrix). For a unit without events returned as the reference density (only
+ * the penalised likelihood with its reference prior of weight w) it is the prior's, (P(I)/w) I.
+ *
+ * <p>Every number is finite. Inputs outside the estimators' accepted range are rejected with an
+ * {@link IllegalArgumentException} instead: a total count or total sample weight above 2⁵³, a
+ * criterion that is undefined at every λ it could choose (e.g. AICc with N ≤ 1), units without
+ * events where no prior gives them a covariance.
  *
  * <p>Equality compares the covariance by content.
  *
@@ -20,21 +26,27 @@ import org.ejml.data.DMatrixRMaj;
  * @param status                    outcome of the fit
  * @param reason                    human-readable explanation when the status is not
  *                                  {@link Status#CONVERGED}; for a converged fit empty, or a note
- *                                  saying why the criterion value is +∞ (the criterion is undefined
- *                                  at that λ, e.g. AICc with N ≤ edf + 1, GCV with edf ≥ the number
- *                                  of bins, the marginal likelihood at λ = 0 without the reference
- *                                  prior)
- * @param smoothing                 the smoothing parameter λ used
+ *                                  that the requested criterion is undefined at the user's fixed λ
+ *                                  (AICc with N ≤ edf + 1, GCV with edf ≥ the number of bins, the
+ *                                  marginal likelihood at λ = 0 without the reference prior) and
+ *                                  AIC is reported instead (see {@link #criterion()}); when the
+ *                                  penalised information is singular (possible only without the
+ *                                  reference prior) the status is {@link Status#NOT_CONVERGED} and
+ *                                  the reason says that edf, covariance and criterion were computed
+ *                                  with the default reference prior added
+ * @param smoothing                 the smoothing parameter λ used (0 for a unit without events)
  * @param smoothingChosen           whether λ was chosen by the criterion (false: fixed by the
- *                                  user)
- * @param criterion                 the criterion used to choose (or reported at fixed) λ
- * @param criterionValue            its value at λ (smaller is better); +∞ where the criterion is
- *                                  undefined, with the reason
+ *                                  user, or a unit without events)
+ * @param criterion                 the criterion used to choose (or reported at fixed) λ; AIC
+ *                                  when the requested one is undefined at a fixed λ (see reason)
+ * @param criterionValue            its value at λ (smaller is better); 0 for a unit without events
+ *                                  (−2 log of the marginal likelihood of no data)
  * @param effectiveDegreesOfFreedom edf = tr(J⁻¹F) (penalised likelihood) or tr(hat matrix)
  *                                  (least squares)
  * @param logLikelihood             the log-likelihood at the estimate (multinomial without the
- *                                  constant, or Σ w_i log f(x_i) w.r.t. the reference); NaN
- *                                  for the least-squares smoothing spline
+ *                                  constant, or Σ w_i log f(x_i) w.r.t. the reference); for the
+ *                                  least-squares smoothing spline the multinomial log-likelihood of
+ *                                  the counts under its estimate
  * @param total                     total count, or total weight of the sample
  * @param iterations                Newton iterations of the final fit (0 for closed forms)
  * @param covariance                K × K coordinate covariance, row-major (copied in and out)

@@ -1,5 +1,8 @@
 package io.densa.core;
 
+import org.ejml.data.DMatrixRMaj;
+import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
+
 /** Validation and coordinate transforms shared by the estimators. Internal. */
 final class EstimationSupport {
     private EstimationSupport() {
@@ -56,7 +59,22 @@ final class EstimationSupport {
         return "bin " + j + " [" + edges[j] + ", " + edges[j + 1] + ")";
     }
 
-    /** Validates a row of counts; returns the total. */
+    /**
+     * Largest accepted total count (or total weight of a sample): 2⁵³ ≈ 9.0·10¹⁵. Beyond it a double
+     * cannot tell N events from N + 1, and the log-likelihood and the criteria, sums of terms of
+     * order N log N, lose every digit (at N near 10³⁰⁸ they overflow).
+     */
+    static final double MAX_TOTAL = 0x1p53;
+
+    /** Rejects a total above {@link #MAX_TOTAL} (or an overflowing sum), naming the unit. */
+    static void checkTotalRange(double total, String unit, String what) {
+        if (!(total <= MAX_TOTAL)) {
+            throw new IllegalArgumentException(unit + ": " + what + " " + total + " is too large; the total must be"
+                    + " at most 2^53 = " + MAX_TOTAL + " (rescale the weights or counts)");
+        }
+    }
+
+    /** Validates a row of counts (total at most {@link #MAX_TOTAL}); returns the total. */
     static double checkCounts(double[] row, double[] edges, String unit, boolean wholeNumbers) {
         int d = edges.length - 1;
         if (row == null) {
@@ -79,6 +97,7 @@ final class EstimationSupport {
             }
             n += c;
         }
+        checkTotalRange(n, unit, "total count");
         return n;
     }
 
@@ -170,13 +189,70 @@ final class EstimationSupport {
         return out;
     }
 
-    /** Covariance for a unit without information: +∞ on the diagonal, 0 elsewhere. */
-    static double[] infiniteCovariance(int k) {
+    /** The diagonal covariance v·I, K × K row-major. */
+    static double[] diagonalCovariance(int k, double v) {
         double[] c = new double[k * k];
         for (int i = 0; i < k; i++) {
-            c[i * k + i] = Double.POSITIVE_INFINITY;
+            c[i * k + i] = v;
         }
         return c;
+    }
+
+    /**
+     * Makes a symmetric covariance positive semi-definite in place when it is not: cov = V Λ V' is
+     * replaced by V Λ₊ V' (negative eigenvalues set to 0), the nearest positive semi-definite matrix
+     * in the Frobenius norm (Higham (1988), Computing a nearest symmetric positive semidefinite
+     * matrix, Linear Algebra Appl. 103; from memory). A matrix whose eigenvalues are all ≥ 0 is left
+     * untouched (bit for bit). Sandwich covariances are positive semi-definite in exact arithmetic;
+     * when the data carry almost no information in some direction (e.g. identical observations)
+     * rounding can leave eigenvalues of −1e-20 and a diagonal entry slightly below 0.
+     *
+     * @return true when the matrix was changed
+     */
+    static boolean projectPsd(double[] cov, int k) {
+        boolean negDiag = false;
+        for (int i = 0; i < k; i++) {
+            negDiag |= cov[i * k + i] < 0;
+        }
+        DMatrixRMaj m = new DMatrixRMaj(k, k, true, cov);
+        org.ejml.interfaces.decomposition.EigenDecomposition_F64<DMatrixRMaj> eig =
+                DecompositionFactory_DDRM.eig(k, true, true);
+        if (!eig.decompose(m)) {
+            if (negDiag) {
+                throw new DensaException("covariance eigen-decomposition failed (" + k + " x " + k + ")", null);
+            }
+            return false;
+        }
+        boolean neg = false;
+        for (int i = 0; i < k; i++) {
+            neg |= eig.getEigenvalue(i).getReal() < 0;
+        }
+        if (!neg && !negDiag) {
+            return false;
+        }
+        double[] out = new double[k * k];
+        for (int e = 0; e < k; e++) {
+            double l = eig.getEigenvalue(e).getReal();
+            DMatrixRMaj v = eig.getEigenVector(e);
+            if (!(l > 0) || v == null) {
+                continue;
+            }
+            for (int i = 0; i < k; i++) {
+                double vi = l * v.data[i];
+                for (int j = 0; j < k; j++) {
+                    out[i * k + j] += vi * v.data[j];
+                }
+            }
+        }
+        for (int i = 0; i < k; i++) { // exact symmetry
+            for (int j = 0; j < i; j++) {
+                double a = 0.5 * (out[i * k + j] + out[j * k + i]);
+                out[i * k + j] = a;
+                out[j * k + i] = a;
+            }
+        }
+        System.arraycopy(out, 0, cov, 0, k * k);
+        return true;
     }
 
     static double trace(double[] m, int k) {

@@ -187,6 +187,8 @@ public final class PenalizedLikelihoodEstimator {
     private final double priorWeight;
     /** Raw K × K matrix Q of the reference prior β'Qβ = (w / (2 P(I))) ‖c‖², or null when w = 0. */
     private final double[] prior;
+    /** The prior matrix of the default weight, for a covariance where J is singular without a prior. */
+    private final double[] unitPrior;
 
     private PenalizedLikelihoodEstimator(BayesSpace space, int penaltyOrder, double fixedLambda,
             SmoothingCriterion criterion, int folds, long seed, double gridLo, double gridHi, double gridStep,
@@ -216,23 +218,24 @@ public final class PenalizedLikelihoodEstimator {
         this.domain = new BinLayout(space, new double[] {space.lower(), space.upper()}, points);
         this.domainScale = scale(domain, false);
         this.penaltyRank = rank(rawPenalty, k);
-        if (priorWeight > 0) {
-            // (w / (2 P(I))) c'c with c = U β: raw matrix (w / (2 P(I))) U'U
-            double eps = priorWeight / (2 * space.referenceMass());
-            double[] q = new double[k * k];
-            for (int i = 0; i < k; i++) {
-                for (int j = 0; j < k; j++) {
-                    double s = 0;
-                    for (int m = 0; m <= Math.min(i, j); m++) {
-                        s += u[m * k + i] * u[m * k + j];
-                    }
-                    q[i * k + j] = eps * s;
+        this.prior = priorWeight > 0 ? priorMatrix(priorWeight) : null;
+        this.unitPrior = priorMatrix(DEFAULT_PRIOR_WEIGHT);
+    }
+
+    /** Raw K × K matrix of the reference prior of weight w: (w / (2 P(I))) c'c with c = U β, i.e. (w / (2 P(I))) U'U. */
+    private double[] priorMatrix(double w) {
+        double eps = w / (2 * space.referenceMass());
+        double[] q = new double[k * k];
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j < k; j++) {
+                double s = 0;
+                for (int m = 0; m <= Math.min(i, j); m++) {
+                    s += u[m * k + i] * u[m * k + j];
                 }
+                q[i * k + j] = eps * s;
             }
-            this.prior = q;
-        } else {
-            this.prior = null;
         }
+        return q;
     }
 
     /** log det(2λP + 2Q) (raw coordinates), or NaN if not positive definite. */
@@ -559,6 +562,15 @@ public final class PenalizedLikelihoodEstimator {
             throw new IllegalArgumentException(EstimationSupport.unit(ids, i) + ": total count is 0 (every bin"
                     + " empty); give the unit at least one event or choose ZeroTotalPolicy.REFERENCE");
         }
+        checkEmptyWithoutPrior(total, EstimationSupport.unit(ids, i));
+    }
+
+    private void checkEmptyWithoutPrior(double total, String unit) {
+        if (!(total > 0) && prior == null) {
+            throw new IllegalArgumentException(unit + ": no events (zero total); without the reference prior"
+                    + " (withReferencePrior(0)) such a unit has no finite covariance; give it events or use a"
+                    + " reference prior weight > 0");
+        }
     }
 
     private interface RowSource {
@@ -669,11 +681,13 @@ public final class PenalizedLikelihoodEstimator {
                 s += wj;
                 s2 += wj * wj;
             }
+            EstimationSupport.checkTotalRange(s, unit, "total weight");
             if (!(s > 0) && zeroTotal == ZeroTotalPolicy.REJECT) {
                 throw new IllegalArgumentException(unit + ": empty sample (" + v.length + " values, total weight "
                         + s + "); at least one observation with positive weight is needed, or choose"
                         + " ZeroTotalPolicy.REFERENCE");
             }
+            checkEmptyWithoutPrior(s, unit);
             totals[i] = s;
             totals2[i] = s2;
         }
@@ -763,10 +777,20 @@ public final class PenalizedLikelihoodEstimator {
 
     // ---------------------------------------------------------------- one unit
 
+    /**
+     * A unit without events: the reference density. With the reference prior the posterior is the
+     * prior, c ~ N(0, (P(I)/w) I), and −2 log of the marginal likelihood (of no data) is 0; without
+     * it no covariance exists and the unit is rejected (see {@link ZeroTotalPolicy#REFERENCE}).
+     */
     private EstimationDiagnostics emptyUnit(String id) {
+        if (prior == null) { // rejected before fitting (checkEmptyWithoutPrior)
+            throw new IllegalStateException("unit " + id + ": no events and no reference prior");
+        }
+        double v = space.referenceMass() / priorWeight;
         return new EstimationDiagnostics(id, EstimationDiagnostics.Status.EMPTY_UNIT_REFERENCE,
-                "no events (zero total); the reference density is returned", Double.NaN, false, criterion, Double.NaN,
-                0.0, 0.0, 0.0, 0, EstimationSupport.infiniteCovariance(k), Double.POSITIVE_INFINITY, 1.0);
+                "no events (zero total); the reference density is returned with the reference prior's covariance"
+                + " (P(I)/w) I", 0.0, false, criterion, 0.0, 0.0, 0.0, 0.0, 0,
+                EstimationSupport.diagonalCovariance(k, v), k * v, 1.0);
     }
 
     /** Scale s with λ = N s 10^g: tr(F₁) / tr(P), F₁ the per-event information at the reference. */
@@ -948,21 +972,49 @@ public final class PenalizedLikelihoodEstimator {
         eng.evaluate(eng.beta, lambda);
         eng.fisherInformation();
         double edf = eng.sandwich(lambda, u, cov, true);
+        if (Double.isNaN(edf) && prior != null) {
+            // J = F + 2λΩ + 2Q is positive definite in exact arithmetic; seen only with absurd fixed λ
+            // (1e167), where rounding of 2λΩ swamps the prior in Ω's null space
+            throw new DensaException("unit " + id + ": penalised information F + 2 lambda Omega + prior is"
+                    + " numerically singular at lambda = " + lambda + " (lambda too large for double precision"
+                    + " against the information of " + eng.total + " events; use a smaller lambda)"
+                    + (reason.isEmpty() ? "" : "; " + reason), null);
+        }
         if (Double.isNaN(edf)) {
+            // without the reference prior: report the numbers the default prior would give, and say so
             ok = false;
             reason = (reason.isEmpty() ? "" : reason + "; ")
-                    + "penalised information F + 2 lambda Omega is singular: covariance unavailable";
-            cov = EstimationSupport.infiniteCovariance(k);
+                    + "penalised information F + 2 lambda Omega is singular (no reference prior): the data do not"
+                    + " determine every coordinate; edf, covariance and criterion are reported with the default"
+                    + " reference prior (weight " + DEFAULT_PRIOR_WEIGHT + ") added";
+            edf = eng.sandwich(lambda, u, cov, true, unitPrior);
+            if (Double.isNaN(edf)) {
+                throw new DensaException("unit " + id + ": penalised information is singular even with the"
+                        + " reference prior at lambda = " + lambda + " (" + reason + ")", null);
+            }
         }
         double crit = criterionValue(eng, lambda, edf, loglik, cv);
-        if (!Double.isFinite(crit) && ok) {
-            crit = Double.POSITIVE_INFINITY;
-            reason = undefinedCriterion(eng, lambda, edf);
+        SmoothingCriterion reported = criterion;
+        if (!Double.isFinite(crit) && ok && !choose && Double.isFinite(-2 * loglik + 2 * edf)) {
+            // at a fixed λ the criterion is only reported: report AIC, defined at every λ, and say so
+            reason = undefinedCriterion(eng, lambda, edf) + "; AIC is reported instead";
+            crit = -2 * loglik + 2 * edf;
+            reported = SmoothingCriterion.AIC;
         }
-        if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD
-                && Double.isFinite(crit)) {
+        if (!Double.isFinite(crit)) {
+            if (ok) {
+                throw new IllegalArgumentException("unit " + id + ": " + undefinedCriterion(eng, lambda, edf)
+                        + "; choose a criterion defined there (e.g. SmoothingCriterion.AIC), a reference prior > 0"
+                        + " or more events");
+            }
+            throw new DensaException("unit " + id + ": the fit did not converge and " + criterion
+                    + " cannot be evaluated at lambda = " + lambda + " (" + reason + ")", null);
+        }
+        if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD) {
             addSmoothingUncertainty(eng, lambda, crit, cv, cov);
         }
+        EstimationSupport.projectPsd(cov, k);
+        edf = Math.max(0.0, edf); // tr(J⁻¹F) ≥ 0; rounding gives −1e-22 when F vanishes
         EstimationSupport.toCoordinates(u, k, eng.beta, out, index * k);
         for (int i = 0; i < k; i++) {
             if (!Double.isFinite(out[index * k + i])) {
@@ -975,7 +1027,7 @@ public final class PenalizedLikelihoodEstimator {
         }
         double share = eng.counts != null ? countsShare(eng, normSq) : sampleShare(sample, eng.beta, normSq);
         return new EstimationDiagnostics(id, ok ? EstimationDiagnostics.Status.CONVERGED
-                : EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose, criterion, crit, edf, loglik,
+                : EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose, reported, crit, edf, loglik,
                 eng.total, iterations, cov, EstimationSupport.trace(cov, k), share);
     }
 
@@ -1014,24 +1066,25 @@ public final class PenalizedLikelihoodEstimator {
         return EstimationSupport.extrapolationShare(domain, lay, first, first, beta, normSq, sample.total);
     }
 
-    /** Why the criterion is +∞ at a converged fit (it is undefined there), for the diagnostics. */
+    /** Why the criterion cannot be evaluated at a converged fit (it is undefined there). */
     private String undefinedCriterion(PenalizedNewton eng, double lambda, double edf) {
-        String tail = "; the fit converged, the criterion value is reported as +Infinity";
         switch (criterion) {
             case MARGINAL_LIKELIHOOD:
                 if (prior == null && !(lambda > 0)) {
-                    return "marginal likelihood undefined at lambda = 0 without the reference prior (its improper"
-                            + " prior has no normalising constant)" + tail;
+                    return "the marginal likelihood is undefined at lambda = 0 without the reference prior (its"
+                            + " improper prior has no normalising constant)";
                 }
                 break;
             case AICC:
-                return "AICc undefined with N = " + eng.total + " <= edf + 1 = " + (edf + 1) + tail;
+                return "AICc is undefined with N = " + eng.total + " <= edf + 1 = " + (edf + 1)
+                        + " at lambda = " + lambda + " (it needs more than edf + 1 events)";
             case GCV:
-                return "GCV undefined with edf = " + edf + " >= number of bins " + eng.lay.bins + tail;
+                return "GCV is undefined with edf = " + edf + " >= number of bins " + eng.lay.bins
+                        + " at lambda = " + lambda;
             default:
                 break;
         }
-        return criterion + " could not be evaluated at lambda = " + lambda + tail;
+        return criterion + " could not be evaluated at lambda = " + lambda;
     }
 
     /**

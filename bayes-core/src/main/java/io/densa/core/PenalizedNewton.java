@@ -737,9 +737,19 @@ final class PenalizedNewton {
 
     /** See {@link #sandwich(double, double[], double[])}. */
     double sandwich(double lambda, double[] u, double[] cov, boolean robust) {
+        return sandwich(lambda, u, cov, robust, null);
+    }
+
+    /**
+     * See {@link #sandwich(double, double[], double[])}; extra (raw K × K, or null) is a quadratic
+     * term β'Eβ added to the prior in J = F + 2λP + 2Q + 2E (used to report a covariance where J is
+     * singular without it).
+     */
+    double sandwich(double lambda, double[] u, double[] cov, boolean robust, double[] extra) {
         final int n = k;
         for (int i = 0; i < n * n; i++) {
-            solveA[i] = fisher[i] + 2 * lambda * pen[i] + (prior == null ? 0.0 : 2 * prior[i]);
+            solveA[i] = fisher[i] + 2 * lambda * pen[i] + (prior == null ? 0.0 : 2 * prior[i])
+                    + (extra == null ? 0.0 : 2 * extra[i]);
         }
         if (!cholesky(solveA, n, n)) {
             logDetJ = Double.NaN;

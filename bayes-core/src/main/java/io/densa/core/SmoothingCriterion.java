@@ -13,7 +13,8 @@ public enum SmoothingCriterion {
     AIC,
     /**
      * Small-sample corrected AIC, −2ℓ(λ) + 2 edf N/(N − edf − 1) with N the number of events
-     * (+∞ when N ≤ edf + 1): Hurvich, Simonoff &amp; Tsai (1998), Smoothing parameter selection in
+     * (undefined when N ≤ edf + 1: a search skips such λ, and a fit whose final λ has it is
+     * rejected with an IllegalArgumentException): Hurvich, Simonoff &amp; Tsai (1998), Smoothing parameter selection in
      * nonparametric regression using an improved Akaike information criterion, J. R. Stat. Soc. B
      * 60(2) (from memory). Equal to AIC for large N, it resists the undersmoothing of AIC and GCV on
      * sparse counts (the default before {@link #MARGINAL_LIKELIHOOD}, which does better there).

@@ -125,8 +125,20 @@ public final class SmoothingSplineEstimator {
                 parallel, progress);
     }
 
-    /** What to do with units without events. */
+    /**
+     * What to do with units without events: only {@link ZeroTotalPolicy#REJECT} (the default). The
+     * least-squares smoothing spline has no prior, so a unit without events has no finite
+     * covariance to report; {@link PenalizedLikelihoodEstimator} with its reference prior accepts
+     * {@link ZeroTotalPolicy#REFERENCE}.
+     *
+     * @throws IllegalArgumentException for {@link ZeroTotalPolicy#REFERENCE}
+     */
     public SmoothingSplineEstimator withZeroTotal(ZeroTotalPolicy policy) {
+        if (policy == ZeroTotalPolicy.REFERENCE) {
+            throw new IllegalArgumentException("the smoothing spline cannot return units without events: it has no"
+                    + " prior, so their covariance would be infinite; accepted: ZeroTotalPolicy.REJECT, or use"
+                    + " PenalizedLikelihoodEstimator (reference prior) with ZeroTotalPolicy.REFERENCE");
+        }
         return new SmoothingSplineEstimator(space, zeros, penaltyOrder, fixedLambda, gridLo, gridHi,
                 Objects.requireNonNull(policy, "policy"), parallel, progress);
     }
@@ -218,7 +230,7 @@ public final class SmoothingSplineEstimator {
                 s += c;
             }
             totals[i] = s;
-            if (!(s > 0) && zeroTotal == ZeroTotalPolicy.REJECT) {
+            if (!(s > 0)) {
                 throw new IllegalArgumentException(EstimationSupport.unit(ids, i) + ": total count is 0 (every bin"
                         + " empty); give the unit at least one event or choose ZeroTotalPolicy.REFERENCE");
             }
@@ -238,18 +250,12 @@ public final class SmoothingSplineEstimator {
             int i1 = Math.min(n, (blk + 1) * UNITS_PER_BLOCK);
             for (int i = blk * UNITS_PER_BLOCK; i < i1; i++) {
                 String id = EstimationSupport.id(ids, i);
-                if (!(totals[i] > 0)) {
-                    diag[i] = new EstimationDiagnostics(id, EstimationDiagnostics.Status.EMPTY_UNIT_REFERENCE,
-                            "no events (zero total); the reference density is returned", Double.NaN, false,
-                            SmoothingCriterion.GCV, Double.NaN, 0.0, 0.0, 0.0, 0,
-                            EstimationSupport.infiniteCovariance(k), Double.POSITIVE_INFINITY, 1.0);
-                    continue;
-                }
                 double yy = des.transform(counts[i], edges, EstimationSupport.unit(ids, i), z);
                 boolean choose = Double.isNaN(fixedLambda);
                 double lambda = choose ? des.choose(z, yy) : fixedLambda;
                 double[] g = des.gcv(z, yy, lambda);
                 double[] cov = des.fitted(z, lambda, g[1], coef);
+                EstimationSupport.projectPsd(cov, k);
                 System.arraycopy(coef, 1, out, i * k, k);
                 // multinomial log-likelihood of the counts under the fit
                 space.rawCoefficients(out, i * k, raw);

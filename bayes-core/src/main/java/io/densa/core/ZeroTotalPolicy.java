@@ -6,8 +6,11 @@ public enum ZeroTotalPolicy {
     REJECT,
     /**
      * Return the reference density (the neutral element), flagged in the diagnostics with status
-     * {@link EstimationDiagnostics.Status#EMPTY_UNIT_REFERENCE} and infinite estimation variance,
-     * so that downstream weighting gives the unit no weight.
+     * {@link EstimationDiagnostics.Status#EMPTY_UNIT_REFERENCE}; with the penalised likelihood's
+     * reference prior of weight w the covariance is the prior's, (P(I)/w) I, large against any unit
+     * with data, so that downstream weighting gives the unit little weight. Estimators without a
+     * proper prior (the smoothing spline, the penalised likelihood with reference prior 0) reject
+     * units without events instead: they have no finite covariance.
      */
     REFERENCE
 }

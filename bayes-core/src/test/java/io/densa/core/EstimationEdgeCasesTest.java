@@ -1,6 +1,7 @@
 package io.densa.core;
 
 import static io.densa.core.EstimationTestSupport.edges;
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -53,7 +54,8 @@ class EstimationEdgeCasesTest {
 
     /**
      * λ = 0: with the reference prior the marginal likelihood is defined and finite; without it the
-     * criterion is undefined, reported as +∞ with the reason; the smoothing spline's GCV is finite.
+     * marginal likelihood is undefined there, and AIC = −2ℓ + 2 edf (Akaike 1974) is reported instead,
+     * as the reason says; the smoothing spline's GCV is finite.
      */
     @Test
     void zeroSmoothingReportsTheCriterionHonestly() {
@@ -64,9 +66,163 @@ class EstimationEdgeCasesTest {
         EstimationDiagnostics d = PenalizedLikelihoodEstimator.of(SPACE).withSmoothing(0).withReferencePrior(0)
                 .fit(EDGES, c).diagnostics();
         assertTrue(d.converged());
-        assertEquals(Double.POSITIVE_INFINITY, d.criterionValue());
-        assertTrue(d.reason().startsWith("marginal likelihood undefined at lambda = 0"), d.reason());
+        assertEquals(SmoothingCriterion.AIC, d.criterion());
+        assertEquals(-2 * d.logLikelihood() + 2 * d.effectiveDegreesOfFreedom(), d.criterionValue(), 0.0);
+        assertTrue(d.reason().startsWith("the marginal likelihood is undefined at lambda = 0 without the reference"
+                + " prior") && d.reason().endsWith("AIC is reported instead"), d.reason());
         assertFinite(SmoothingSplineEstimator.of(SPACE).withSmoothing(0).fit(EDGES, c));
+    }
+
+    // ---- fuzz findings (reproductions from the fuzz of issue 9 §4), edges E and two small spaces
+
+    private static final double[] E = {0, 0.1, 0.25, 0.5, 0.6, 0.9, 1};
+    private static final BayesSpace SPL = BayesSpace.splines(0, 1, 3, 2);
+    private static final BayesSpace STEPS = BayesSpace.steps(0, 1, 4);
+
+    /** Every number finite, covariance diagonal ≥ 0 (the status may be anything). */
+    private static void assertFiniteAnyStatus(UnitEstimate u) {
+        EstimationDiagnostics d = u.diagnostics();
+        for (double c : u.density().coordinates()) {
+            assertTrue(Double.isFinite(c), d.toString());
+        }
+        assertTrue(Double.isFinite(d.criterionValue()) && Double.isFinite(d.smoothing())
+                && Double.isFinite(d.estimationVariance()) && Double.isFinite(d.logLikelihood())
+                && Double.isFinite(d.effectiveDegreesOfFreedom()) && d.effectiveDegreesOfFreedom() >= 0, d.toString());
+        double[] cov = d.covariance();
+        int k = u.density().coordinates().length;
+        for (int i = 0; i < k; i++) {
+            assertTrue(cov[i * k + i] >= 0, d.toString());
+        }
+        for (double v : cov) {
+            assertTrue(Double.isFinite(v), d.toString());
+        }
+    }
+
+    private static void assertTooLarge(org.junit.jupiter.api.function.Executable fit) {
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class, fit);
+        assertTrue(e.getMessage().matches("unit row 0: total (count|weight) .* is too large; the total must be at most"
+                + " 2\\^53 = 9.007199254740992E15.*"), e.getMessage());
+    }
+
+    /**
+     * PL-1, PL-3, SS-2: totals beyond 2⁵³ (criterion, λ or log-likelihood used to overflow) are
+     * refused naming the unit; the bound 2⁵³ is the largest integer up to which every count is a
+     * double (IEEE 754 binary64: 53-bit significand).
+     */
+    @Test
+    void totalsBeyondTwoToThe53AreRefused() {
+        PenalizedLikelihoodEstimator frac = PenalizedLikelihoodEstimator.of(SPL).withParallel(false)
+                .withFractionalCounts(true);
+        assertTooLarge(() -> frac.fit(E, new double[] {7, 0.5, 0.5, 7, 7, 1e308}));
+        assertTooLarge(() -> frac.withCriterion(SmoothingCriterion.AIC)
+                .fit(E, new double[] {4, 0.5, 1e308, 4.9e-324, 26, 4.9e-324}));
+        assertTooLarge(() -> PenalizedLikelihoodEstimator.of(STEPS).withFractionalCounts(true)
+                .fit(E, new double[] {3, 0.5, 20, 15, 30, 1e308}));
+        assertTooLarge(() -> frac.fit(E, new double[] {1e308, 1e308, 1e308, 1e308, 1e308, 1e308})); // sum overflows
+        assertTooLarge(() -> PenalizedLikelihoodEstimator.of(SPL).fitSample(new double[] {0.2, 0.5, 0.7},
+                new double[] {1e-236, 1.7976931348623157E308, 1}));
+        assertTooLarge(() -> SmoothingSplineEstimator.of(SPL).fit(E, new double[] {7, 0.5, 0.5, 7, 7, 1e308}));
+        // just below the bound is accepted and finite
+        double big = 0x1p53 / 8;
+        assertFinite(PenalizedLikelihoodEstimator.of(SPL).withFractionalCounts(true)
+                .fit(E, new double[] {big, big / 2, big, big, big / 4, big}));
+    }
+
+    /**
+     * PL-1 (λ = 0 with the default prior): the marginal likelihood is finite; PL-4 (AICc on subnormal
+     * counts, N ≤ edf + 1 at every λ): refused with the reason; the same counts with the default
+     * criterion give finite numbers.
+     */
+    @Test
+    void undefinedCriterionIsRefusedAndSubnormalCountsAreFinite() {
+        assertFinite(PenalizedLikelihoodEstimator.of(SPL).withParallel(false).withSmoothing(0)
+                .fit(E, new int[] {3, 5, 8, 2, 6, 1}));
+        double[] tiny = new double[6];
+        Arrays.fill(tiny, Double.MIN_VALUE);
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> PenalizedLikelihoodEstimator
+                .of(STEPS).withFractionalCounts(true).withCriterion(SmoothingCriterion.AICC).fit(E, tiny));
+        assertTrue(e.getMessage().matches("unit #0: AICc is undefined with N = 3.0E-323 <= edf \\+ 1 = .*choose a"
+                + " criterion defined there.*"), e.getMessage());
+        assertFiniteAnyStatus(PenalizedLikelihoodEstimator.of(STEPS).withFractionalCounts(true).fit(E, tiny));
+    }
+
+    /**
+     * PL-2: all events in two adjacent bins. With the default reference prior the fit converges with
+     * finite numbers; without it the penalised information is singular: NOT_CONVERGED, and edf,
+     * covariance and criterion are those with the default prior added, as the reason says.
+     */
+    @Test
+    void singularInformationGivesFiniteNumbersAndSaysWhy() {
+        double[] c = {14, 14, 0, 0, 0, 0};
+        PenalizedLikelihoodEstimator cv = PenalizedLikelihoodEstimator.of(STEPS).withParallel(false)
+                .withFractionalCounts(true).withCrossValidation(4, 7L);
+        UnitEstimate u = cv.fit(E, c);
+        assertFinite(u);
+        UnitEstimate noPrior = cv.withReferencePrior(0).fit(E, c);
+        assertFiniteAnyStatus(noPrior);
+        assertEquals(EstimationDiagnostics.Status.NOT_CONVERGED, noPrior.diagnostics().status());
+        assertTrue(noPrior.diagnostics().reason().contains("edf, covariance and criterion are reported with the"
+                + " default reference prior (weight 1.0) added"), noPrior.diagnostics().reason());
+    }
+
+    /**
+     * PL-3 (empty sample under ZeroTotalPolicy.REFERENCE, λ used to be NaN): the reference density
+     * with the reference prior's covariance (P(I)/w) I = I here (Lebesgue on [0, 1]); without a prior,
+     * and for the smoothing spline, such units are refused.
+     */
+    @Test
+    void emptyUnitHasThePriorCovariance() {
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(SPL).withParallel(false)
+                .withZeroTotal(ZeroTotalPolicy.REFERENCE);
+        UnitEstimate u = est.fitSample(new double[] {0.2, 0.3}, new double[] {0, 0});
+        assertFiniteAnyStatus(u);
+        EstimationDiagnostics d = u.diagnostics();
+        assertEquals(EstimationDiagnostics.Status.EMPTY_UNIT_REFERENCE, d.status());
+        assertArrayEquals(new double[] {1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1}, d.covariance(), 0.0);
+        assertEquals(0.25, est.withReferencePrior(4).fitSample(new double[] {0.2}, new double[] {0})
+                .diagnostics().covariance()[0], 1e-15);
+        assertThrows(IllegalArgumentException.class, () -> est.withReferencePrior(0)
+                .fitSample(new double[] {0.2, 0.3}, new double[] {0, 0}));
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+                () -> SmoothingSplineEstimator.of(SPL).withZeroTotal(ZeroTotalPolicy.REFERENCE));
+        assertTrue(e.getMessage().startsWith("the smoothing spline cannot return units without events"),
+                e.getMessage());
+    }
+
+    /**
+     * PL-5: identical observations (no information across most directions). The sandwich used to
+     * come out slightly indefinite (diagonal −5.5e-7, variance −1.96e-4); it is now positive
+     * semi-definite: every eigenvalue ≥ −1e-12 × the largest, checked with EJML's symmetric
+     * eigen-decomposition (an independent implementation).
+     */
+    @Test
+    void identicalObservationsGivePositiveSemiDefiniteCovariance() {
+        for (SmoothingCriterion crit : new SmoothingCriterion[] {SmoothingCriterion.MARGINAL_LIKELIHOOD,
+            SmoothingCriterion.AIC, SmoothingCriterion.AICC, SmoothingCriterion.CROSS_VALIDATION}) {
+            for (double x : new double[] {0.5, Math.nextDown(1.0), 0.0}) {
+                double[] v = new double[10];
+                Arrays.fill(v, x);
+                UnitEstimate u = PenalizedLikelihoodEstimator.of(SPL).withParallel(false).withCriterion(crit)
+                        .fitSample(v);
+                assertFiniteAnyStatus(u);
+                org.ejml.interfaces.decomposition.EigenDecomposition_F64<org.ejml.data.DMatrixRMaj> eig =
+                        org.ejml.dense.row.factory.DecompositionFactory_DDRM.eig(4, false, true);
+                assertTrue(eig.decompose(u.diagnostics().covarianceMatrix()));
+                double max = 0, min = Double.POSITIVE_INFINITY;
+                for (int i = 0; i < 4; i++) {
+                    max = Math.max(max, eig.getEigenvalue(i).getReal());
+                    min = Math.min(min, eig.getEigenvalue(i).getReal());
+                }
+                assertTrue(min >= -1e-12 * max, crit + " x=" + x + ": eigenvalues in [" + min + ", " + max + "]");
+            }
+        }
+    }
+
+    /** SS-1: a subnormal count (4.9e-324) among ordinary ones gives finite coordinates and diagnostics. */
+    @Test
+    void smoothingSplineSubnormalCountOnSteps() {
+        assertFinite(SmoothingSplineEstimator.of(STEPS).withParallel(false)
+                .fit(E, new double[] {2, 3.8e-191, 9, 4.9e-324, 20, 2.38}));
     }
 
     /** A tolerance below double rounding or an unbounded iteration budget is refused up front. */

@@ -5,6 +5,7 @@ import static io.densa.core.EstimationTestSupport.ks;
 import static io.densa.core.EstimationTestSupport.rng;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.EstimationTestSupport.Truth;
@@ -211,7 +212,12 @@ class PenalizedLikelihoodEstimatorTest {
         EstimationDiagnostics d = b.diagnostics().get(1);
         assertEquals(EstimationDiagnostics.Status.EMPTY_UNIT_REFERENCE, d.status());
         assertEquals("b", d.id());
-        assertEquals(Double.POSITIVE_INFINITY, d.estimationVariance());
+        // the posterior of no data is the reference prior N(0, (P(I)/w) I): P(I) = 1 (Lebesgue on [0, 1]), w = 1
+        assertEquals(space.dimension() * 1.0, d.estimationVariance(), 1e-12);
+        assertEquals(0.0, d.criterionValue());
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> est.withReferencePrior(0)
+                .fitAll(edges(0, 1, 10), new int[][] {{1, 2, 3, 4, 5, 4, 3, 2, 1, 1}, new int[10]}, null));
+        assertTrue(e.getMessage().startsWith("unit row 1: no events"), e.getMessage());
         assertArrayEquals(new double[space.dimension()], b.densities().get(1).coordinates());
         assertEquals(List.of(1), b.flaggedRows());
     }
