@@ -1,5 +1,7 @@
 package io.densa.core;
 
+import io.densa.core.internal.Cholesky;
+import io.densa.core.internal.GaussLegendre;
 import java.util.Arrays;
 import java.util.Objects;
 import java.util.function.DoubleUnaryOperator;
@@ -330,7 +332,7 @@ public final class BayesSpace {
     }
 
     private static double[] breakpointsFor(Basis basis, double a, double b) {
-        return basis.knotsInternal().clone();
+        return basis.breakpoints();
     }
 
     // ---------------------------------------------------------------- accessors
@@ -353,6 +355,16 @@ public final class BayesSpace {
     /** The reference measure. */
     public Reference reference() {
         return reference;
+    }
+
+    /**
+     * The matrix T of the orthonormalisation e(x) = T(φ(x) − φ̄), with φ the raw functions of
+     * {@link #basis()} and φ̄ their means under the reference (see the class description): K × K,
+     * lower triangular, row-major, a fresh copy. A density with coordinates c has the clr
+     * cᵀT(φ(x) − φ̄), i.e. raw coefficients Tᵀc.
+     */
+    public double[] basisTransform() {
+        return t.clone();
     }
 
     /** The basis family. */
@@ -726,14 +738,7 @@ public final class BayesSpace {
 
     /** Raw-function coefficients b = T'c and offset b·φ̄, so clr(x) = φ(x)·b − offset. */
     double rawCoefficients(double[] c, int off, double[] out) {
-        Arrays.fill(out, 0, dim, 0.0);
-        for (int i = 0; i < dim; i++) {
-            double ci = c[off + i];
-            int base = i * dim;
-            for (int j = 0; j <= i; j++) {
-                out[j] += t[base + j] * ci;
-            }
-        }
+        Cholesky.transposeTimes(t, dim, c, off, out);
         double s = 0;
         for (int j = 0; j < dim; j++) {
             s += out[j] * mbar[j];

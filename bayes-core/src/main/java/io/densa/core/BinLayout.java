@@ -1,5 +1,8 @@
 package io.densa.core;
 
+import io.densa.core.internal.GaussLegendre;
+import io.densa.core.internal.RawBasis;
+
 /**
  * Quadrature of a space's raw basis over a set of bins, prepared once and shared by every unit
  * with those bin edges. Internal.
@@ -36,7 +39,7 @@ final class BinLayout {
      * @param points Gauss–Legendre points per piece, or 0 for automatic
      */
     BinLayout(BayesSpace space, double[] edges, int points) {
-        Basis basis = space.basis();
+        RawBasis basis = EstimationSupport.rawBasis(space.basis());
         this.edges = edges.clone();
         this.bins = edges.length - 1;
         this.k = space.dimension();
@@ -48,7 +51,7 @@ final class BinLayout {
             gxs[m] = GaussLegendre.nodes(m);
             gws[m] = GaussLegendre.weights(m);
         }
-        double[] br = basis.knotsInternal();
+        double[] br = basis.knotsView();
         double maxPiece = (space.upper() - space.lower()) / MAX_PIECE_FRACTION;
         // count pieces
         int total = 0;

@@ -1,5 +1,7 @@
 package io.densa.core;
 
+import io.densa.core.internal.Cholesky;
+import io.densa.core.internal.RawBasis;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
 
@@ -120,34 +122,25 @@ final class EstimationSupport {
         return n;
     }
 
-    /** T (K × K lower triangular, row-major) with e = T(φ − φ̄), from the space. */
-    static double[] lowerT(BayesSpace space) {
-        int k = space.dimension();
-        double[] t = new double[k * k];
-        double[] unit = new double[k];
-        double[] row = new double[k];
-        for (int i = 0; i < k; i++) {
-            unit[i] = 1.0;
-            space.rawCoefficients(unit, 0, row);
-            System.arraycopy(row, 0, t, i * k, k);
-            unit[i] = 0.0;
+    /** The raw functions of a basis, rebuilt from its public description. */
+    static RawBasis rawBasis(Basis b) {
+        switch (b.kind()) {
+            case SPLINE:
+                return RawBasis.spline(b.order(), b.breakpoints());
+            case POLYNOMIAL: {
+                double[] ab = b.breakpoints();
+                return RawBasis.polynomial(b.order(), ab[0], ab[1]);
+            }
+            default:
+                return RawBasis.step(b.breakpoints());
         }
-        return t;
     }
 
     /** U = (T')⁻¹, upper triangular, so that coordinates c = U b for raw coefficients b. */
     static double[] upperU(double[] t, int k) {
         // T' is upper triangular with (T')_ij = T_ji; invert column by column
         double[] u = new double[k * k];
-        for (int c = 0; c < k; c++) {
-            for (int i = c; i >= 0; i--) {
-                double s = i == c ? 1.0 : 0.0;
-                for (int m = i + 1; m <= c; m++) {
-                    s -= t[m * k + i] * u[m * k + c];
-                }
-                u[i * k + c] = s / t[i * k + i];
-            }
-        }
+        Cholesky.invertUpper(t, k, 1, k, u);
         return u;
     }
 

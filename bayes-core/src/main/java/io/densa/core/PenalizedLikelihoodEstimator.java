@@ -1,7 +1,10 @@
 package io.densa.core;
 
+import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.RawBasis;
+import io.densa.core.internal.RoughnessPenalty;
 import io.densa.core.internal.Seeds;
 import java.util.Arrays;
 import java.util.Objects;
@@ -178,6 +181,7 @@ public final class PenalizedLikelihoodEstimator {
     private final ProgressListener progress;
 
     private final int k;
+    private final RawBasis raw;
     private final double[] rawPenalty;
     private final double[] t;
     private final double[] u;
@@ -212,8 +216,9 @@ public final class PenalizedLikelihoodEstimator {
         this.parallel = parallel;
         this.progress = progress;
         this.k = space.dimension();
-        this.rawPenalty = RoughnessPenalty.raw(space.basis(), penaltyOrder);
-        this.t = EstimationSupport.lowerT(space);
+        this.raw = EstimationSupport.rawBasis(space.basis());
+        this.rawPenalty = RoughnessPenalty.raw(raw, penaltyOrder);
+        this.t = space.basisTransform();
         this.u = EstimationSupport.upperU(t, k);
         this.domain = new BinLayout(space, new double[] {space.lower(), space.upper()}, points);
         this.domainScale = scale(domain, false);
@@ -244,7 +249,7 @@ public final class PenalizedLikelihoodEstimator {
         for (int i = 0; i < k * k; i++) {
             m[i] = 2 * lambda * rawPenalty[i] + 2 * prior[i];
         }
-        if (!PenalizedNewton.cholesky(m, k, k)) {
+        if (Cholesky.factor(m, k, k, 0) >= 0) {
             return Double.NaN;
         }
         double ld = 0;
@@ -291,7 +296,7 @@ public final class PenalizedLikelihoodEstimator {
      */
     public static PenalizedLikelihoodEstimator of(BayesSpace space) {
         Objects.requireNonNull(space, "space");
-        int order = Math.min(2, RoughnessPenalty.maxOrder(space.basis()));
+        int order = Math.min(2, RoughnessPenalty.maxOrder(EstimationSupport.rawBasis(space.basis())));
         return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.MARGINAL_LIKELIHOOD, 5,
                 1L, -6, 3, 1,
                 100, 1e-12, 0, ZeroTotalPolicy.REJECT, false, true, ProgressListener.NONE, DEFAULT_PRIOR_WEIGHT);
@@ -694,7 +699,7 @@ public final class PenalizedLikelihoodEstimator {
         double[] out = new double[n * k];
         EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
-        Basis basis = space.basis();
+        RawBasis basis = raw;
         int width = basis.supportWidth();
         ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
@@ -741,7 +746,7 @@ public final class PenalizedLikelihoodEstimator {
         /** Total weight. */
         final double total;
 
-        SampleData(double[] v, double[] weights, Basis basis, int width, int k, double[] scratch) {
+        SampleData(double[] v, double[] weights, RawBasis basis, int width, int k, double[] scratch) {
             n = v.length;
             double lo = Double.POSITIVE_INFINITY, hi = Double.NEGATIVE_INFINITY;
             for (int i = 0; i < n; i++) {
@@ -823,7 +828,7 @@ public final class PenalizedLikelihoodEstimator {
         double[] row = new double[k];
         for (int j = 0; j < d; j++) {
             double mid = 0.5 * (lay.edges[j] + lay.edges[j + 1]);
-            space.basis().evalDense(mid, row);
+            raw.evalDense(mid, row);
             x[j * p] = 1.0;
             System.arraycopy(row, 0, x, j * p + 1, k);
             off[j] = -Math.log((lay.edges[j + 1] - lay.edges[j]) * space.referenceDensity(mid));
@@ -847,14 +852,14 @@ public final class PenalizedLikelihoodEstimator {
         for (int r = 0; r < p; r++) {
             a[r * p + r] += 1e-9 * trX / p;
         }
-        if (!PenalizedNewton.cholesky(a, p, p)) {
+        if (Cholesky.factor(a, p, p, 0) >= 0) {
             return null; // zero start
         }
         double[] map = new double[k * d];
         double[] col = new double[p];
         for (int j = 0; j < d; j++) {
             System.arraycopy(x, j * p, col, 0, p);
-            PenalizedNewton.cholSolve(a, p, p, col, 0);
+            Cholesky.solve(a, p, p, col, 0);
             for (int i = 0; i < k; i++) {
                 map[i * d + j] = col[i + 1];
                 constOut[i] += col[i + 1] * off[j];
@@ -1106,7 +1111,7 @@ public final class PenalizedLikelihoodEstimator {
             pb[i] = -2 * lambda * r;
         }
         System.arraycopy(pb, 0, dBeta, 0, k);
-        PenalizedNewton.cholSolve(eng.solveA, k, k, dBeta, 0);
+        Cholesky.solve(eng.solveA, k, k, dBeta, 0);
         double[] dc = new double[k];
         EstimationSupport.toCoordinates(u, k, dBeta, dc, 0);
         double[] saved = eng.beta.clone();

@@ -1,5 +1,6 @@
 package io.densa.core;
 
+import io.densa.core.internal.Cholesky;
 import java.util.Arrays;
 
 /**
@@ -413,51 +414,6 @@ final class PenalizedNewton {
         }
     }
 
-    /** In-place Cholesky of the leading K × K block of m (stride s); false if not positive definite. */
-    static boolean cholesky(double[] m, int k, int s) {
-        for (int j = 0; j < k; j++) {
-            int rj = j * s;
-            double d = m[rj + j];
-            for (int p = 0; p < j; p++) {
-                d -= m[rj + p] * m[rj + p];
-            }
-            if (!(d > 0) || !Double.isFinite(d)) {
-                return false;
-            }
-            d = Math.sqrt(d);
-            m[rj + j] = d;
-            double inv = 1.0 / d;
-            for (int i = j + 1; i < k; i++) {
-                int ri = i * s;
-                double v = m[ri + j];
-                for (int p = 0; p < j; p++) {
-                    v -= m[ri + p] * m[rj + p];
-                }
-                m[ri + j] = v * inv;
-            }
-        }
-        return true;
-    }
-
-    /** Solves L L' x = rhs in place (L the lower factor in m, stride s). */
-    static void cholSolve(double[] m, int k, int s, double[] x, int xo) {
-        for (int i = 0; i < k; i++) {
-            double v = x[xo + i];
-            int ri = i * s;
-            for (int p = 0; p < i; p++) {
-                v -= m[ri + p] * x[xo + p];
-            }
-            x[xo + i] = v / m[ri + i];
-        }
-        for (int i = k - 1; i >= 0; i--) {
-            double v = x[xo + i];
-            for (int p = i + 1; p < k; p++) {
-                v -= m[p * s + i] * x[xo + p];
-            }
-            x[xo + i] = v / m[i * s + i];
-        }
-    }
-
     /**
      * Relative size of a predicted gain Φ'·Δ below which Φ can no longer rank two points (sums of
      * many logarithms carry rounding errors of this order): the full Newton step is then taken
@@ -528,10 +484,10 @@ final class PenalizedNewton {
         for (int it = 1; it <= maxIter; it++) {
             iterations = it;
             derivatives(lambda, false);
-            if (!cholesky(hess, k, k1)) {
+            if (Cholesky.factor(hess, k, k1, 0) >= 0) {
                 usedFisher = true;
                 derivatives(lambda, true);
-                if (!cholesky(hess, k, k1)) {
+                if (Cholesky.factor(hess, k, k1, 0) >= 0) {
                     failure = "penalised information matrix is singular at iteration " + it
                             + " (too few occupied bins for K = " + k + " without enough smoothing)";
                     objective = obj;
@@ -539,7 +495,7 @@ final class PenalizedNewton {
                 }
             }
             System.arraycopy(grad, 0, step, 0, k);
-            cholSolve(hess, k, k1, step, 0);
+            Cholesky.solve(hess, k, k1, step, 0);
             double dec = 0;
             for (int i = 0; i < k; i++) {
                 dec += grad[i] * step[i];
@@ -751,7 +707,7 @@ final class PenalizedNewton {
             solveA[i] = fisher[i] + 2 * lambda * pen[i] + (prior == null ? 0.0 : 2 * prior[i])
                     + (extra == null ? 0.0 : 2 * extra[i]);
         }
-        if (!cholesky(solveA, n, n)) {
+        if (Cholesky.factor(solveA, n, n, 0) >= 0) {
             logDetJ = Double.NaN;
             return Double.NaN;
         }
@@ -761,17 +717,7 @@ final class PenalizedNewton {
         }
         logDetJ = 2 * ld;
         double[] linv = solveB;
-        Arrays.fill(linv, 0.0);
-        for (int c = 0; c < n; c++) {
-            for (int i = c; i < n; i++) {
-                double s = i == c ? 1.0 : 0.0;
-                int ri = i * n;
-                for (int p = c; p < i; p++) {
-                    s -= solveA[ri + p] * linv[p * n + c];
-                }
-                linv[ri + c] = s / solveA[ri + i];
-            }
-        }
+        Cholesky.invertLower(solveA, n, linv);
         double[] wm = scratch2;
         double edf = whiten(fisher, linv, wm);
         if (cov == null) {

@@ -1,7 +1,9 @@
 package io.densa.core;
 
+import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.RoughnessPenalty;
 import java.util.Arrays;
 import java.util.Objects;
 import org.ejml.data.DMatrixRMaj;
@@ -77,8 +79,8 @@ public final class SmoothingSplineEstimator {
         this.parallel = parallel;
         this.progress = progress;
         this.k = space.dimension();
-        this.t = EstimationSupport.lowerT(space);
-        this.rawPenalty = RoughnessPenalty.raw(space.basis(), penaltyOrder);
+        this.t = space.basisTransform();
+        this.rawPenalty = RoughnessPenalty.raw(EstimationSupport.rawBasis(space.basis()), penaltyOrder);
         this.omega = EstimationSupport.congruenceLower(t, rawPenalty, k);
     }
 
@@ -90,7 +92,7 @@ public final class SmoothingSplineEstimator {
     public static SmoothingSplineEstimator of(BayesSpace space) {
         Objects.requireNonNull(space, "space");
         return new SmoothingSplineEstimator(space, ZeroReplacement.bayesianMultiplicative(ZeroReplacement.Prior.JEFFREYS),
-                Math.min(2, RoughnessPenalty.maxOrder(space.basis())), Double.NaN, -12, 6, ZeroTotalPolicy.REJECT,
+                Math.min(2, RoughnessPenalty.maxOrder(EstimationSupport.rawBasis(space.basis()))), Double.NaN, -12, 6, ZeroTotalPolicy.REJECT,
                 true, ProgressListener.NONE);
     }
 
@@ -258,7 +260,7 @@ public final class SmoothingSplineEstimator {
                 EstimationSupport.projectPsd(cov, k);
                 System.arraycopy(coef, 1, out, i * k, k);
                 // multinomial log-likelihood of the counts under the fit
-                space.rawCoefficients(out, i * k, raw);
+                Cholesky.transposeTimes(t, k, out, i * k, raw);
                 System.arraycopy(raw, 0, eng.beta, 0, k);
                 eng.beta[k] = 0;
                 eng.counts = counts[i];
@@ -330,21 +332,13 @@ public final class SmoothingSplineEstimator {
                 }
             }
             double trX = EstimationSupport.trace(xtx, p);
-            if (!PenalizedNewton.cholesky(xtx, p, p)) {
+            if (Cholesky.factor(xtx, p, p, 0) >= 0) {
                 throw new IllegalArgumentException("the bin midpoints do not determine the " + k
                         + " coordinates (singular design); use more or better spread bins");
             }
             // L^{-1} explicitly (lower)
             double[] linv = new double[p * p];
-            for (int c = 0; c < p; c++) {
-                for (int i = c; i < p; i++) {
-                    double s = i == c ? 1.0 : 0.0;
-                    for (int q = c; q < i; q++) {
-                        s -= xtx[i * p + q] * linv[q * p + c];
-                    }
-                    linv[i * p + c] = s / xtx[i * p + i];
-                }
-            }
+            Cholesky.invertLower(xtx, p, linv);
             // B = L^{-1} Ω̃ L^{-T}, Ω̃ = blockdiag(0, Ω)
             double[] om = new double[p * p];
             for (int a = 0; a < k; a++) {

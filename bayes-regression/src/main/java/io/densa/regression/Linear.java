@@ -3,12 +3,13 @@ package io.densa.regression;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
 import io.densa.core.DensitySet;
+import io.densa.core.internal.Cholesky;
+import io.densa.core.internal.SampleQuantiles;
 import io.densa.core.internal.Seeds;
 import java.util.Arrays;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.CommonOps_DDRM;
 import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
-import org.ejml.interfaces.decomposition.CholeskyDecomposition_F64;
 import org.ejml.interfaces.decomposition.EigenDecomposition_F64;
 import org.ejml.interfaces.decomposition.QRDecomposition;
 
@@ -116,46 +117,39 @@ final class Linear {
      * @throws DensaException if A is not numerically positive definite
      */
     static double[] solveSpd(double[] a, int p, double[] b, int r, String what) {
-        DMatrixRMaj am = DMatrixRMaj.wrap(p, p, a.clone());
-        CholeskyDecomposition_F64<DMatrixRMaj> chol = DecompositionFactory_DDRM.chol(p, true);
+        // the factor reads the lower triangle; A's upper one is what the solve has always used
+        double[] l = a.clone();
+        for (int i = 0; i < p; i++) {
+            for (int j = i + 1; j < p; j++) {
+                l[j * p + i] = l[i * p + j];
+            }
+        }
         double maxDiag = 0;
         for (int i = 0; i < p; i++) {
             maxDiag = Math.max(maxDiag, Math.abs(a[i * p + i]));
         }
-        if (!chol.decompose(am)) {
+        int bad = Cholesky.factor(l, p, p, 0);
+        if (bad >= 0) {
+            double d = l[bad * p + bad];
+            if (!(d <= 0)) { // NaN or +Inf: reported as a numerically singular system
+                double ratio = maxDiag > 0 ? Double.NaN : 0.0;
+                throw new DensaException(what + ": the " + p + " x " + p + " normal equations are numerically"
+                        + " singular (smallest pivot ratio " + ratio + ")", new SolveDiagnostics(what, p, ratio));
+            }
             throw new DensaException(what + ": the " + p + " x " + p + " normal equations are not positive definite",
                     new SolveDiagnostics(what, p, 0.0));
         }
-        DMatrixRMaj l = chol.getT(null);
         double minPivot = Double.POSITIVE_INFINITY;
         for (int i = 0; i < p; i++) {
-            minPivot = Math.min(minPivot, l.data[i * p + i] * l.data[i * p + i]);
+            minPivot = Math.min(minPivot, l[i * p + i] * l[i * p + i]);
         }
         double ratio = maxDiag > 0 ? minPivot / maxDiag : 0.0;
         if (!(ratio > 1e-14)) {
             throw new DensaException(what + ": the " + p + " x " + p + " normal equations are numerically singular"
                     + " (smallest pivot ratio " + ratio + ")", new SolveDiagnostics(what, p, ratio));
         }
-        DMatrixRMaj x = DMatrixRMaj.wrap(p, r, b.clone());
-        // forward and back substitution with L Lᵀ
-        double[] ld = l.data;
-        double[] xd = x.data;
-        for (int c = 0; c < r; c++) {
-            for (int i = 0; i < p; i++) {
-                double s = xd[i * r + c];
-                for (int j = 0; j < i; j++) {
-                    s -= ld[i * p + j] * xd[j * r + c];
-                }
-                xd[i * r + c] = s / ld[i * p + i];
-            }
-            for (int i = p - 1; i >= 0; i--) {
-                double s = xd[i * r + c];
-                for (int j = i + 1; j < p; j++) {
-                    s -= ld[j * p + i] * xd[j * r + c];
-                }
-                xd[i * r + c] = s / ld[i * p + i];
-            }
-        }
+        double[] xd = b.clone();
+        Cholesky.solveColumns(l, p, xd, r);
         return xd;
     }
 
@@ -229,15 +223,7 @@ final class Linear {
         }
         // R⁻¹ by back substitution, then R⁻¹R⁻ᵀ
         double[] ri = new double[p * p];
-        for (int c = 0; c < p; c++) {
-            for (int i = p - 1; i >= 0; i--) {
-                double s = i == c ? 1.0 : 0.0;
-                for (int j = i + 1; j < p; j++) {
-                    s -= rr[i * p + j] * ri[j * p + c];
-                }
-                ri[i * p + c] = s / rr[i * p + i];
-            }
-        }
+        Cholesky.invertUpper(rr, p, p, 1, ri);
         double[] g = new double[p * p];
         for (int i = 0; i < p; i++) {
             for (int j = i; j < p; j++) {
@@ -389,25 +375,12 @@ final class Linear {
 
     /** Seeded permutation of 0..n−1 (the library's Fisher–Yates shuffle, {@link Seeds#shuffle}). */
     static int[] permutation(int n, java.util.SplittableRandom rnd) {
-        int[] p = new int[n];
-        for (int i = 0; i < n; i++) {
-            p[i] = i;
-        }
-        Seeds.shuffle(p, rnd);
-        return p;
+        return Seeds.permutation(n, rnd);
     }
 
     /** Fold index of every row for k-fold cross-validation (balanced sizes, seeded). */
     static int[] folds(int n, int k, long seed) {
-        if (k < 2 || k > n) {
-            throw new IllegalArgumentException("fold count must be in [2, n = " + n + "], got " + k);
-        }
-        int[] perm = permutation(n, new java.util.SplittableRandom(seed));
-        int[] fold = new int[n];
-        for (int r = 0; r < n; r++) {
-            fold[perm[r]] = (int) ((long) r * k / n);
-        }
-        return fold;
+        return Seeds.folds(n, k, seed);
     }
 
     /**
@@ -416,13 +389,6 @@ final class Linear {
      * 50(4) — from memory): x_(⌊h⌋) + (h − ⌊h⌋)(x_(⌊h⌋+1) − x_(⌊h⌋)) with h = (n − 1)p, 0-based.
      */
     static double quantileSorted(double[] sorted, double p) {
-        int n = sorted.length;
-        if (n == 1) {
-            return sorted[0];
-        }
-        double h = (n - 1) * p;
-        int lo = (int) Math.floor(h);
-        int hi = Math.min(n - 1, lo + 1);
-        return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
+        return SampleQuantiles.sorted(sorted, p);
     }
 }

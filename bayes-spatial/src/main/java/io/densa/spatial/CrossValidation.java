@@ -1,5 +1,7 @@
 package io.densa.spatial;
 
+import io.densa.core.internal.RecordArrays;
+
 /**
  * Leave-one-out cross-validation of a kriging predictor: for each data location i the error
  * e_i = X(s_i) ⊖ X̂_{−i}(s_i) of predicting the datum from the others.

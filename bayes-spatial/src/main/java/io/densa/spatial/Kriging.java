@@ -1,5 +1,6 @@
 package io.densa.spatial;
 
+import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
@@ -865,16 +866,9 @@ public final class Kriging {
         double[] diag = new double[n];
         double[] linv = new double[n];
         for (int col = 0; col < n; col++) {
-            Arrays.fill(linv, 0);
-            linv[col] = 1;
+            Cholesky.invertLowerColumn(l, n, col, linv);
             double s = 0;
             for (int r = col; r < n; r++) {
-                int lo = r * n;
-                double t = r == col ? 1 : 0;
-                for (int c = col; c < r; c++) {
-                    t -= l[lo + c] * linv[c];
-                }
-                linv[r] = t / l[lo + r];
                 s += linv[r] * linv[r];
             }
             diag[col] = s;
@@ -886,7 +880,7 @@ public final class Kriging {
             for (int r = 0; r < n; r++) {
                 col[r] = g.g[r * p + j];
             }
-            LocalSystem.backward(l, n, col);
+            Cholesky.backward(l, n, n, col, 0);
             for (int r = 0; r < n; r++) {
                 u[r * p + j] = col[r];
             }
@@ -1029,7 +1023,7 @@ public final class Kriging {
                 }
                 col[r] = s;
             }
-            LocalSystem.backward(g.l, n, col);
+            Cholesky.backward(g.l, n, n, col, 0);
             for (int r = 0; r < n; r++) {
                 a[r * k + c] = col[r];
             }

@@ -1,5 +1,7 @@
 package io.densa.spatial;
 
+import io.densa.core.internal.RecordArrays;
+
 /**
  * Diagnostics attached to a {@link io.densa.core.DensaException} when a kriging system cannot be
  * solved reliably. Immutable: the array is copied on construction and by its accessor; equality

@@ -1,6 +1,7 @@
 package io.densa.spatial;
 
 import io.densa.core.Density;
+import io.densa.core.internal.RecordArrays;
 
 /**
  * One kriging prediction. Immutable: arrays are copied on construction and by every accessor;

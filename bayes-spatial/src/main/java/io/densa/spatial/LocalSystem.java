@@ -1,9 +1,8 @@
 package io.densa.spatial;
 
 import io.densa.core.DensaException;
+import io.densa.core.internal.Cholesky;
 import org.ejml.data.DMatrixRMaj;
-import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
-import org.ejml.interfaces.decomposition.CholeskyDecomposition_F64;
 
 /**
  * A factorised kriging system for one neighbour set (package-private). With C the m × m data
@@ -18,7 +17,12 @@ import org.ejml.interfaces.decomposition.CholeskyDecomposition_F64;
  * reduced through the Schur complement; p = 0 is simple kriging, p = 1 with f ≡ 1 ordinary kriging.
  */
 final class LocalSystem {
-    private static final int EJML_THRESHOLD = 160;
+    /**
+     * Largest system factorised by the division-form loop below; larger ones (up to
+     * {@link Cholesky#LARGE}) use {@link Cholesky#factor}, whose reciprocal form differs in the last
+     * bits.
+     */
+    private static final int OWN_FACTOR_LIMIT = 160;
     /**
      * Largest accepted relative residual of the unbiasedness constraints Fᵀλ = f0, per drift
      * function |(Fᵀλ − f0)_j| / max(1, |f0_j|): weights that sum to 1 ± 10⁻⁶ (our choice; well
@@ -80,7 +84,7 @@ final class LocalSystem {
         for (int r = 0; r < m; r++) {
             kr.driftRow(idx[r], g, r * p);
         }
-        forwardRows(l, m, g, p);
+        Cholesky.forwardRows(l, m, g, p);
         double[] sInv = new double[p * p];
         if (p > 0) {
             double[] f = new double[m * p];
@@ -111,41 +115,17 @@ final class LocalSystem {
                 ly[r * k + c] = kr.y[o + c] - mean[c];
             }
         }
-        forwardRows(l, m, ly, k);
+        Cholesky.forwardRows(l, m, ly, k);
         return new LocalSystem(idx, p, k, l, g, sInv, ly, cond);
-    }
-
-    /** In-place row-major forward substitution L X = B for B of w columns (rows of length w). */
-    static void forwardRows(double[] l, int m, double[] b, int w) {
-        for (int r = 0; r < m; r++) {
-            int ro = r * w;
-            int lo = r * m;
-            for (int c = 0; c < r; c++) {
-                double f = l[lo + c];
-                if (f == 0) {
-                    continue;
-                }
-                int co = c * w;
-                for (int q = 0; q < w; q++) {
-                    b[ro + q] -= f * b[co + q];
-                }
-            }
-            double d = l[lo + r];
-            for (int q = 0; q < w; q++) {
-                b[ro + q] /= d;
-            }
-        }
     }
 
     /** Lower Cholesky factor of the symmetric matrix a (m × m, overwritten for small m). */
     static double[] cholesky(double[] a, int m, int[] idx, String what) {
-        if (m > EJML_THRESHOLD) {
-            DMatrixRMaj mat = DMatrixRMaj.wrap(m, m, a);
-            CholeskyDecomposition_F64<DMatrixRMaj> chol = DecompositionFactory_DDRM.chol(m, true);
-            if (!chol.decompose(mat)) {
+        if (m >= Cholesky.LARGE) {
+            double[] l = Cholesky.factorLarge(DMatrixRMaj.wrap(m, m, a));
+            if (l == null) {
                 throw breakdown(m, idx, what);
             }
-            double[] l = chol.getT(null).data;
             for (int r = 0; r < m; r++) {
                 if (!(l[r * m + r] > 0) || Double.isInfinite(l[r * m + r])) {
                     throw breakdown(m, idx, what);
@@ -155,6 +135,18 @@ final class LocalSystem {
                 }
             }
             return l;
+        }
+        if (m > OWN_FACTOR_LIMIT) {
+            // the same arithmetic as EJML's inner Cholesky, which served these sizes before
+            if (Cholesky.factor(a, m, m, 0) >= 0) {
+                throw breakdown(m, idx, what);
+            }
+            for (int r = 0; r < m; r++) {
+                for (int c = r + 1; c < m; c++) {
+                    a[r * m + c] = 0;
+                }
+            }
+            return a;
         }
         for (int j = 0; j < m; j++) {
             int jo = j * m;
@@ -219,41 +211,12 @@ final class LocalSystem {
         for (int col = 0; col < p; col++) {
             java.util.Arrays.fill(e, 0);
             e[col] = 1;
-            solve(l, p, e);
+            Cholesky.solve(l, p, p, e, 0);
             for (int r = 0; r < p; r++) {
                 out[r * p + col] = e[r];
             }
         }
         return out;
-    }
-
-    /** Solves L Lᵀ x = b in place. */
-    static void solve(double[] l, int m, double[] b) {
-        forward(l, m, b);
-        backward(l, m, b);
-    }
-
-    /** In-place forward substitution L x = b. */
-    static void forward(double[] l, int m, double[] b) {
-        for (int r = 0; r < m; r++) {
-            int lo = r * m;
-            double s = b[r];
-            for (int c = 0; c < r; c++) {
-                s -= l[lo + c] * b[c];
-            }
-            b[r] = s / l[lo + r];
-        }
-    }
-
-    /** In-place back substitution Lᵀ x = b. */
-    static void backward(double[] l, int m, double[] b) {
-        for (int r = m - 1; r >= 0; r--) {
-            double s = b[r];
-            for (int c = r + 1; c < m; c++) {
-                s -= l[c * m + r] * b[c];
-            }
-            b[r] = s / l[r * m + r];
-        }
     }
 
     /** Scratch space for {@link #predict}. */
@@ -299,7 +262,7 @@ final class LocalSystem {
      */
     double predict(double[] c0, double[] f0, double c00, double[] centre, double[] out, int off, double[] weights,
             Scratch scratch) {
-        forward(l, m, c0);
+        Cholesky.forward(l, m, m, c0, 0);
         double vv = 0;
         for (int r = 0; r < m; r++) {
             vv += c0[r] * c0[r];
@@ -368,7 +331,7 @@ final class LocalSystem {
         }
         if (weights != null) {
             System.arraycopy(c0, 0, weights, 0, m);
-            backward(l, m, weights);
+            Cholesky.backward(l, m, m, weights, 0);
         }
         double var = c00 - vv + rmu;
         return var > 0 ? var : 0;

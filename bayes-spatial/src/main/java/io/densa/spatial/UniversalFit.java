@@ -1,6 +1,7 @@
 package io.densa.spatial;
 
 import io.densa.core.DensitySet;
+import io.densa.core.internal.RecordArrays;
 import java.util.List;
 import java.util.Objects;
 

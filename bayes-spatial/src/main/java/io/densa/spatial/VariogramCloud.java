@@ -1,5 +1,7 @@
 package io.densa.spatial;
 
+import io.densa.core.internal.RecordArrays;
+
 /**
  * The variogram cloud: for each listed pair (first[p], second[p]) of locations, their distance
  * and half the squared B2 distance ½‖X_i ⊖ X_j‖²_B of their densities. Immutable: arrays are

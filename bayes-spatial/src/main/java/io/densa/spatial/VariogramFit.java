@@ -1,5 +1,6 @@
 package io.densa.spatial;
 
+import io.densa.core.internal.RecordArrays;
 import java.util.List;
 import java.util.Objects;
 

@@ -1,4 +1,4 @@
-package io.densa.core;
+package io.densa.core.internal;
 
 /**
  * Roughness penalty matrices of a basis, in raw (pre-orthonormalisation) coefficients b with
@@ -19,45 +19,39 @@ package io.densa.core;
  * </ul>
  * Because the basis is centred and orthonormalised by e = T(φ − φ̄), the penalty of coordinates c
  * is c'Ωc with Ω = T P T'.
+ *
+ * <p>Internal: not exported outside the Densa modules; may change without notice.
  */
-final class RoughnessPenalty {
+public final class RoughnessPenalty {
     private RoughnessPenalty() {
     }
 
     /** Largest admissible derivative order for a basis. */
-    static int maxOrder(Basis basis) {
-        switch (basis.kind()) {
-            case SPLINE:
-                return basis.order() - 1;
-            case POLYNOMIAL:
-                return basis.order();
-            default:
-                return basis.size();
+    public static int maxOrder(RawBasis basis) {
+        if (basis.isSpline()) {
+            return basis.order() - 1;
         }
+        return basis.isPolynomial() ? basis.order() : basis.size();
     }
 
     /** The raw K × K penalty (row-major) for derivative / difference order l ≥ 1. */
-    static double[] raw(Basis basis, int l) {
+    public static double[] raw(RawBasis basis, int l) {
         if (!(l >= 1 && l <= maxOrder(basis))) {
             throw new IllegalArgumentException("penalty order must be in [1, " + maxOrder(basis) + "] for " + basis
                     + " (derivatives of order >= the spline order vanish), got " + l);
         }
-        switch (basis.kind()) {
-            case SPLINE:
-                return spline(basis, l);
-            case POLYNOMIAL:
-                return polynomial(basis, l);
-            default:
-                return steps(basis, l);
+        if (basis.isSpline()) {
+            return spline(basis, l);
         }
+        return basis.isPolynomial() ? polynomial(basis, l) : steps(basis, l);
     }
 
-    private static double[] spline(Basis basis, int l) {
+    private static double[] spline(RawBasis basis, int l) {
         int k = basis.order();
         int p = k - 1;
         int size = basis.size();
         int m = size + 1; // number of B-splines
-        double[] br = basis.knotsInternal();
+        double[] br = basis.knotsView();
         int g = br.length - 2;
         double[] u = new double[g + 2 * k];
         for (int i = 0; i < k; i++) {
@@ -158,9 +152,9 @@ final class RoughnessPenalty {
         }
     }
 
-    private static double[] polynomial(Basis basis, int l) {
+    private static double[] polynomial(RawBasis basis, int l) {
         int deg = basis.order();
-        double a = basis.knotsInternal()[0], b = basis.knotsInternal()[1];
+        double a = basis.knotsView()[0], b = basis.knotsView()[1];
         int npts = deg + 1;
         double[] gx = GaussLegendre.nodes(npts);
         double[] gw = GaussLegendre.weights(npts);
@@ -195,7 +189,7 @@ final class RoughnessPenalty {
         return pen;
     }
 
-    private static double[] steps(Basis basis, int l) {
+    private static double[] steps(RawBasis basis, int l) {
         int bins = basis.size() + 1;
         int size = basis.size();
         // difference matrix of order l on `bins` values, rows = bins − l

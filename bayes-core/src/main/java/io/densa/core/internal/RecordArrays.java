@@ -1,25 +1,26 @@
-package io.densa.spatial;
+package io.densa.core.internal;
 
 import java.util.Arrays;
 
 /**
  * Defensive copies and content-based equality for the public result records with array
- * components (package-private): records compare arrays by reference, so each such record copies
- * its arrays in and out and compares, hashes and prints them by content.
+ * components: records compare arrays by reference, so each such record copies
+ * its arrays in and out and compares, hashes and prints them by content. Internal: not exported
+ * outside the Densa modules; may change without notice.
  */
-final class RecordArrays {
+public final class RecordArrays {
     private RecordArrays() {
     }
 
-    static int[] copy(int[] a) {
+    public static int[] copy(int[] a) {
         return a == null ? null : a.clone();
     }
 
-    static double[] copy(double[] a) {
+    public static double[] copy(double[] a) {
         return a == null ? null : a.clone();
     }
 
-    static double[][] copy(double[][] a) {
+    public static double[][] copy(double[][] a) {
         if (a == null) {
             return null;
         }
@@ -31,17 +32,17 @@ final class RecordArrays {
     }
 
     /** Content equality of the components of two records of the same type. */
-    static boolean equal(Object[] a, Object[] b) {
+    public static boolean equal(Object[] a, Object[] b) {
         return Arrays.deepEquals(a, b);
     }
 
     /** Content hash of a record's components. */
-    static int hash(Object[] parts) {
+    public static int hash(Object[] parts) {
         return Arrays.deepHashCode(parts);
     }
 
     /** "Name[c1=v1, c2=v2, ...]" with arrays printed by content. */
-    static String describe(String name, String[] names, Object[] parts) {
+    public static String describe(String name, String[] names, Object[] parts) {
         StringBuilder sb = new StringBuilder(name).append('[');
         for (int i = 0; i < parts.length; i++) {
             if (i > 0) {

@@ -1,4 +1,4 @@
-package io.densa.core;
+package io.densa.core.internal;
 
 /**
  * Gauss–Legendre nodes and weights on [−1, 1], computed by Newton's method on the
@@ -6,7 +6,7 @@ package io.densa.core;
  * equivalent eigenvalue form; Abramowitz &amp; Stegun 1964, 25.4.29, the rule itself).
  * An n-point rule integrates polynomials of degree ≤ 2n − 1 exactly.
  */
-final class GaussLegendre {
+public final class GaussLegendre {
     private static final int MAX = 64;
     private static final double[][] NODES = new double[MAX + 1][];
     private static final double[][] WEIGHTS = new double[MAX + 1][];
@@ -57,13 +57,13 @@ final class GaussLegendre {
     }
 
     /** Nodes of the n-point rule on [−1, 1], ascending (a fresh copy). */
-    static double[] nodes(int n) {
+    public static double[] nodes(int n) {
         check(n);
         return NODES[n].clone();
     }
 
     /** Weights of the n-point rule on [−1, 1] (a fresh copy). */
-    static double[] weights(int n) {
+    public static double[] weights(int n) {
         check(n);
         return WEIGHTS[n].clone();
     }
@@ -76,7 +76,7 @@ final class GaussLegendre {
      * bound; e.g. Trefethen (2013), Approximation Theory and Approximation Practice, SIAM, the chapter on
      * Lebesgue constants — from memory; the bound itself is the triangle inequality on the Lagrange form).
      */
-    static double lebesgueConstant(int n) {
+    public static double lebesgueConstant(int n) {
         check(n);
         double[] x = NODES[n];
         // barycentric weights w_i = 1 / Π_{j≠i} (x_i − x_j): ℓ_i(t) = (w_i / (t − x_i)) / Σ_j w_j / (t − x_j)
