@@ -4,6 +4,7 @@
 // densa-all.jar bundles bayes-core, bayes-regression, bayes-spatial and their dependencies
 // (EJML, Commons Math, JTS) plus the examples and JFreeChart.
 import io.densa.core.*;
+import io.densa.core.estimate.*;
 import io.densa.regression.*;
 import io.densa.spatial.*;
 import java.util.*;

@@ -136,11 +136,6 @@ public final class DensitySet {
         return of(densities, null);
     }
 
-    /** Wraps an array this package owns (no copy). */
-    static DensitySet wrap(BayesSpace space, double[] data, int n, String[] ids) {
-        return new DensitySet(space, n, data, ids);
-    }
-
     private static DensitySet fromRowMajor(BayesSpace space, double[] d, int n, String[] ids, boolean trusted) {
         int k = space.dimension();
         if (!trusted) {

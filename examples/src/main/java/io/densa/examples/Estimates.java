@@ -1,8 +1,8 @@
 package io.densa.examples;
 
-import io.densa.core.BatchEstimate;
+import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.DensitySet;
-import io.densa.core.EstimationDiagnostics;
+import io.densa.core.estimate.EstimationDiagnostics;
 
 /**
  * Densities estimated for a batch of units with what the report needs to say about them.

@@ -3,12 +3,12 @@ package io.densa.examples;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import io.densa.core.BatchEstimate;
+import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.BayesSpace;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
-import io.densa.core.EstimationDiagnostics;
-import io.densa.core.PenalizedLikelihoodEstimator;
+import io.densa.core.estimate.EstimationDiagnostics;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 import io.densa.regression.Fpca;
 import io.densa.spatial.EmpiricalVariogram;
 import io.densa.spatial.Kriging;

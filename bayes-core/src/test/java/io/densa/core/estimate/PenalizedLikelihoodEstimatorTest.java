@@ -1,14 +1,17 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
-import static io.densa.core.EstimationTestSupport.edges;
-import static io.densa.core.EstimationTestSupport.ks;
-import static io.densa.core.EstimationTestSupport.rng;
+import static io.densa.core.estimate.EstimationTestSupport.edges;
+import static io.densa.core.estimate.EstimationTestSupport.ks;
+import static io.densa.core.estimate.EstimationTestSupport.rng;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import io.densa.core.EstimationTestSupport.Truth;
+import io.densa.core.BayesSpace;
+import io.densa.core.Density;
+import io.densa.core.Reference;
+import io.densa.core.estimate.EstimationTestSupport.Truth;
 import java.util.List;
 import org.apache.commons.math3.distribution.BetaDistribution;
 import org.apache.commons.math3.random.RandomGenerator;

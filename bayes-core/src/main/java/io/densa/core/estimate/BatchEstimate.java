@@ -1,5 +1,6 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
+import io.densa.core.DensitySet;
 import java.util.ArrayList;
 import java.util.List;
 

@@ -1,5 +1,6 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
+import io.densa.core.Density;
 import java.util.function.DoubleUnaryOperator;
 import org.apache.commons.math3.distribution.AbstractRealDistribution;
 import org.apache.commons.math3.distribution.BetaDistribution;

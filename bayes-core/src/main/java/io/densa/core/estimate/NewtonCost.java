@@ -1,4 +1,4 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
 /**
  * Arithmetic cost of one damped-Newton iteration of {@link PenalizedLikelihoodEstimator} for one

@@ -1,11 +1,13 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
-import static io.densa.core.EstimationTestSupport.edges;
-import static io.densa.core.EstimationTestSupport.rng;
+import static io.densa.core.estimate.EstimationTestSupport.edges;
+import static io.densa.core.estimate.EstimationTestSupport.rng;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import io.densa.core.BayesSpace;
+import io.densa.core.Density;
 import java.util.List;
 import org.apache.commons.math3.analysis.UnivariateFunction;
 import org.apache.commons.math3.analysis.integration.IterativeLegendreGaussIntegrator;

@@ -1,11 +1,12 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
-import static io.densa.core.EstimationTestSupport.edges;
-import static io.densa.core.EstimationTestSupport.rng;
+import static io.densa.core.estimate.EstimationTestSupport.edges;
+import static io.densa.core.estimate.EstimationTestSupport.rng;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import io.densa.core.EstimationTestSupport.Truth;
+import io.densa.core.BayesSpace;
+import io.densa.core.estimate.EstimationTestSupport.Truth;
 import org.apache.commons.math3.random.RandomGenerator;
 import org.apache.commons.math3.stat.correlation.Covariance;
 import org.junit.jupiter.api.Test;

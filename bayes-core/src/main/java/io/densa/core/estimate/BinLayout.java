@@ -1,5 +1,6 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
+import io.densa.core.BayesSpace;
 import io.densa.core.internal.GaussLegendre;
 import io.densa.core.internal.RawBasis;
 

@@ -1,4 +1,4 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
 /**
  * How an estimator chooses its smoothing parameter λ (or, with a fixed λ, which criterion it

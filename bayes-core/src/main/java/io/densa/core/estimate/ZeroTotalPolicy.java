@@ -1,4 +1,4 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
 /** What an estimator does with a unit that has no events (zero total count or empty sample). */
 public enum ZeroTotalPolicy {

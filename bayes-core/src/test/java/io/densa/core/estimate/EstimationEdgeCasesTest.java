@@ -1,11 +1,12 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
-import static io.densa.core.EstimationTestSupport.edges;
+import static io.densa.core.estimate.EstimationTestSupport.edges;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import io.densa.core.BayesSpace;
 import java.util.Arrays;
 import java.util.SplittableRandom;
 import org.junit.jupiter.api.Test;

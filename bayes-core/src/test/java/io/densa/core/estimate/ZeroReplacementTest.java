@@ -1,4 +1,4 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;

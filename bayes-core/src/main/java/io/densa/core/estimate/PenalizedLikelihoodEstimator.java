@@ -1,5 +1,10 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
+import io.densa.core.BayesSpace;
+import io.densa.core.DensaException;
+import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
+import io.densa.core.Reference;
 import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.Kernels;
@@ -614,7 +619,7 @@ public final class PenalizedLikelihoodEstimator {
             done.advance(i1 - blk * UNITS_PER_BLOCK);
         });
         String[] idCopy = ids == null ? null : ids.clone();
-        return new BatchEstimate(DensitySet.wrap(space, out, n, idCopy), Arrays.asList(diag));
+        return new BatchEstimate(DensitySet.ofRowMajor(space, out, n, idCopy), Arrays.asList(diag));
     }
 
     // ---------------------------------------------------------------- raw samples
@@ -729,7 +734,7 @@ public final class PenalizedLikelihoodEstimator {
             done.advance(i1 - blk * UNITS_PER_BLOCK);
         });
         String[] idCopy = ids == null ? null : ids.clone();
-        return new BatchEstimate(DensitySet.wrap(space, out, n, idCopy), Arrays.asList(diag));
+        return new BatchEstimate(DensitySet.ofRowMajor(space, out, n, idCopy), Arrays.asList(diag));
     }
 
     /** Per-observation local basis values of one sample and its sufficient statistic. */

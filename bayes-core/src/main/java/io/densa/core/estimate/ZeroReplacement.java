@@ -1,4 +1,4 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
 import java.util.Objects;
 

@@ -1,5 +1,9 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
+import io.densa.core.BayesSpace;
+import io.densa.core.DensaException;
+import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
 import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.Kernels;
@@ -285,7 +289,7 @@ public final class SmoothingSplineEstimator {
             }
             done.advance(i1 - blk * UNITS_PER_BLOCK);
         });
-        return new BatchEstimate(DensitySet.wrap(space, out, n, ids == null ? null : ids.clone()),
+        return new BatchEstimate(DensitySet.ofRowMajor(space, out, n, ids == null ? null : ids.clone()),
                 Arrays.asList(diag));
     }
 

@@ -1,4 +1,4 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
 import io.densa.core.internal.Cholesky;
 import java.util.Arrays;

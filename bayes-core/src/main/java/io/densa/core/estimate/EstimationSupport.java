@@ -1,5 +1,8 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
+import io.densa.core.Basis;
+import io.densa.core.BayesSpace;
+import io.densa.core.DensaException;
 import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.RawBasis;
 import org.ejml.data.DMatrixRMaj;

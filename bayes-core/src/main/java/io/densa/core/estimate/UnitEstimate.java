@@ -1,4 +1,6 @@
-package io.densa.core;
+package io.densa.core.estimate;
+
+import io.densa.core.Density;
 
 /**
  * One estimated density with its diagnostics.

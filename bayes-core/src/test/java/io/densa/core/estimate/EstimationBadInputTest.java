@@ -1,8 +1,9 @@
-package io.densa.core;
+package io.densa.core.estimate;
 
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import io.densa.core.BayesSpace;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.function.Executable;
 
