@@ -5,6 +5,14 @@ import static io.densa.core.FuzzValues.mild;
 import static io.densa.core.FuzzValues.nonNegative;
 import static io.densa.core.FuzzValues.vector;
 
+import io.densa.core.estimate.BatchEstimate;
+import io.densa.core.estimate.EstimationDiagnostics;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator;
+import io.densa.core.estimate.SmoothingCriterion;
+import io.densa.core.estimate.SmoothingSplineEstimator;
+import io.densa.core.estimate.UnitEstimate;
+import io.densa.core.estimate.ZeroReplacement;
+import io.densa.core.estimate.ZeroTotalPolicy;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Random;
@@ -24,15 +32,8 @@ import net.jqwik.api.ShrinkingMode;
  * {@link DensaException} thrown by Densa, and must not modify their inputs (see
  * {@link FuzzCheck}). 49,350 tries in all. Each try draws its inputs from a case seed (jqwik reports it on failure;
  * {@link FuzzValues} turns it into inputs), the properties' seeds are fixed.
- *
- * <p>{@link #KNOWN_OPEN} would list accepted open findings (title as in the project's fuzz-findings
- * notes); it is empty: every core finding is fixed and checked here.
  */
 class FuzzProperties {
-
-    /** Known open findings (accepted failures): none. */
-    static final List<FuzzCheck.KnownOpen> KNOWN_OPEN = List.of();
-
     /** Runs an estimator call and also requires a non-negative estimation variance. */
     private static void estimate(String op, java.util.function.Supplier<Object> fit, Object... watched) {
         Object result = CHECK.run(op, fit::get, watched);
@@ -56,7 +57,7 @@ class FuzzProperties {
         }
     }
 
-    private static final FuzzCheck CHECK = new FuzzCheck(KNOWN_OPEN);
+    private static final FuzzCheck CHECK = new FuzzCheck();
 
     /** In exploration mode (see {@link FuzzCheck}), writes what was collected to target/fuzz-collected.txt. */
     @net.jqwik.api.lifecycle.AfterContainer
