@@ -7,5 +7,8 @@ import io.densa.core.*;
 import io.densa.core.estimate.*;
 import io.densa.regression.*;
 import io.densa.spatial.*;
+import io.densa.spatial.variogram.*;
+import io.densa.spatial.kriging.*;
+import io.densa.spatial.autocorrelation.*;
 import java.util.*;
 import java.util.stream.*;

@@ -1,7 +1,7 @@
 package io.densa.io;
 
-import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.BayesSpace;
+import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 import java.io.IOException;
 import java.nio.file.Files;

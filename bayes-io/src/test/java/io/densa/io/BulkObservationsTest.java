@@ -6,8 +6,8 @@ import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.BayesSpace;
+import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 import java.nio.file.Files;
 import java.nio.file.Path;

@@ -1,5 +1,7 @@
 package io.densa.spatial;
 
+import io.densa.spatial.internal.GreatCircle;
+import io.densa.spatial.internal.Scaling;
 import java.util.Objects;
 
 /**
@@ -15,7 +17,7 @@ import java.util.Objects;
  */
 public final class Locations {
     /** Mean Earth radius R1 in kilometres used for geographic distances. */
-    public static final double EARTH_RADIUS_KM = 6371.0088;
+    public static final double EARTH_RADIUS_KM = GreatCircle.RADIUS_KM;
 
     /** Coordinate system of the locations. */
     public enum Kind {
@@ -128,7 +130,7 @@ public final class Locations {
         if (box != null) {
             double dx = Math.max(Math.abs(px - box[0]), Math.abs(px - box[2]));
             double dy = Math.max(Math.abs(py - box[1]), Math.abs(py - box[3]));
-            if (!(planarNorm(dx, dy) <= Double.MAX_VALUE)) {
+            if (!(Scaling.planarNorm(dx, dy) <= Double.MAX_VALUE)) {
                 throw new IllegalArgumentException(what + " (" + px + ", " + py + ") is so far from the locations"
                         + " (bounding box [" + box[0] + ", " + box[2] + "] x [" + box[1] + ", " + box[3] + "]) that"
                         + " its distance to them overflows a double; accepted are points whose distance to every"
@@ -174,7 +176,7 @@ public final class Locations {
             y0 = Math.min(y0, y[i]);
             y1 = Math.max(y1, y[i]);
         }
-        if (x.length > 0 && !Double.isFinite(planarNorm(x1 - x0, y1 - y0))) {
+        if (x.length > 0 && !Double.isFinite(Scaling.planarNorm(x1 - x0, y1 - y0))) {
             throw new IllegalArgumentException("the locations span [" + x0 + ", " + x1 + "] x [" + y0 + ", " + y1
                     + "], whose diagonal overflows a double; shift or rescale the coordinates (spans up to about"
                     + " 1e308 are accepted)");
@@ -246,7 +248,7 @@ public final class Locations {
 
     /**
      * Distance between two points in this coordinate system: Euclidean for planar points
-     * ({@link #planarNorm}, which neither overflows nor underflows), great-circle km otherwise.
+     * (computed so that it neither overflows nor underflows), great-circle km otherwise.
      *
      * @throws IllegalArgumentException if a point fails {@link #requirePoint}, or (planar) the
      *                                  distance between the two points overflows a double
@@ -265,34 +267,9 @@ public final class Locations {
     /** {@link #distance(double, double, double, double)} for points already checked. */
     double unchecked(double x1, double y1, double x2, double y2) {
         if (kind == Kind.PLANAR) {
-            return planarNorm(x1 - x2, y1 - y2);
+            return Scaling.planarNorm(x1 - x2, y1 - y2);
         }
-        return chordKm(x1, y1, x2, y2);
-    }
-
-    /**
-     * √(dx² + dy²) without overflow or underflow: the plain formula, whose result is bit-identical to
-     * the square root of the sum of squares, whenever that sum lies in [2⁻⁹⁶⁰, 2⁹⁶⁰]; otherwise the
-     * two components are first scaled by the power of two of the larger one (exact), like
-     * {@link Math#hypot} but without its cost on the common path. +∞ only when the true norm exceeds
-     * the double range (or a component is already infinite).
-     */
-    static double planarNorm(double dx, double dy) {
-        double s = dx * dx + dy * dy;
-        if (s <= 0x1p960 && s >= 0x1p-960) {
-            return Math.sqrt(s);
-        }
-        return scaledNorm(dx, dy);
-    }
-
-    private static double scaledNorm(double dx, double dy) {
-        double m = Math.max(Math.abs(dx), Math.abs(dy));
-        if (m == 0 || !(m <= Double.MAX_VALUE)) {
-            return m; // 0, +inf or NaN
-        }
-        int e = Math.getExponent(m);
-        double a = Math.scalb(dx, -e), b = Math.scalb(dy, -e);
-        return Math.scalb(Math.sqrt(a * a + b * b), e);
+        return GreatCircle.km(x1, y1, x2, y2);
     }
 
     /**
@@ -312,35 +289,7 @@ public final class Locations {
     public static double greatCircleKm(double lon1, double lat1, double lon2, double lat2) {
         checkGeographic(lon1, lat1, "first point");
         checkGeographic(lon2, lat2, "second point");
-        return chordKm(lon1, lat1, lon2, lat2);
-    }
-
-    private static double chordKm(double lon1, double lat1, double lon2, double lat2) {
-        double[] u = new double[6];
-        unitVector(lon1, lat1, u, 0);
-        unitVector(lon2, lat2, u, 3);
-        double ex = u[0] - u[3], ey = u[1] - u[4], ez = u[2] - u[5];
-        return kmFromChordSq(u, 0, 3, ex * ex + ey * ey + ez * ez);
-    }
-
-    /** Writes the unit vector of (longitude, latitude) in degrees to out[off..off+2]. */
-    static void unitVector(double lon, double lat, double[] out, int off) {
-        double l = Math.toRadians(lon), p = Math.toRadians(lat);
-        out[off] = Math.cos(p) * Math.cos(l);
-        out[off + 1] = Math.cos(p) * Math.sin(l);
-        out[off + 2] = Math.sin(p);
-    }
-
-    /**
-     * Great-circle km between the unit vectors u[a..a+2] and u[b..b+2] whose squared chord
-     * (‖u_a − u_b‖², summed x, y, z in that order) is chordSq; see {@link #greatCircleKm}.
-     */
-    static double kmFromChordSq(double[] u, int a, int b, double chordSq) {
-        if (chordSq <= 2) {
-            return 2 * EARTH_RADIUS_KM * Math.asin(Math.sqrt(chordSq) / 2);
-        }
-        double sx = u[a] + u[b], sy = u[a + 1] + u[b + 1], sz = u[a + 2] + u[b + 2];
-        return EARTH_RADIUS_KM * (Math.PI - 2 * Math.asin(Math.min(1, Math.sqrt(sx * sx + sy * sy + sz * sz) / 2)));
+        return GreatCircle.km(lon1, lat1, lon2, lat2);
     }
 
     /**

@@ -35,7 +35,7 @@ import org.locationtech.jts.operation.overlay.snap.GeometrySnapper;
  *       S0 = Σ_i Σ_j w_ij, S1 = ½ Σ_i Σ_j (w_ij + w_ji)², S2 = Σ_i (w_i· + w_·i)², where w_i·
  *       and w_·i are the row and column sums; sums use Neumaier compensated summation.</li>
  *   <li>An <em>island</em> is a unit whose row is empty (no neighbours). Islands are reported by
- *       {@link #islands()}; the statistics handle them by an {@link IslandPolicy} (an error by
+ *       {@link #islands()}; the statistics handle them by an island policy (an error by
  *       default, or the islands are excluded from the analysis).</li>
  *   <li>{@link #rowStandardised()} divides every non-empty row by its sum (rows then sum to
  *       one); island rows stay empty.</li>
@@ -68,17 +68,6 @@ public final class SpatialWeights {
         UNION,
         /** i and j are neighbours only when each is among the k nearest of the other. */
         MUTUAL
-    }
-
-    /** What a statistic does with islands (units without neighbours). */
-    public enum IslandPolicy {
-        /** Throw an {@link IllegalArgumentException} naming the islands (the default). */
-        ERROR,
-        /**
-         * Remove the islands (their rows and columns, and their values) and analyse the other
-         * units; results report which units were excluded.
-         */
-        EXCLUDE
     }
 
     private final int n;
@@ -182,9 +171,10 @@ public final class SpatialWeights {
      * These weights divided by the power of two 2^e of the largest weight (exact) when that lies
      * outside [2^-64, 2^65), otherwise this object: what the global statistics compute on, so
      * that n / S0, S0² and the weighted sums neither overflow nor underflow. Moran's I, Geary's c
-     * and their moments do not depend on a common factor of the weights.
+     * and their moments do not depend on a common factor of the weights. The result keeps the
+     * links and {@link #isRowStandardised()} of this object.
      */
-    SpatialWeights normalisedForStatistics() {
+    public SpatialWeights normalisedForStatistics() {
         int e = Math.getExponent(maxWeight);
         if (vals.length == 0 || (e >= -64 && e <= 64)) {
             return this;
@@ -768,13 +758,24 @@ public final class SpatialWeights {
     }
 
     /**
-     * Weights restricted to the given units (rows and columns), renumbered 0..m−1 in the given
-     * order. Package-private: used to exclude islands.
+     * The weights among the given units: rows and columns of these units, renumbered 0..m−1 in the
+     * given order (links to other units are dropped); a row-standardised object stays marked as
+     * such (its kept rows are not re-standardised).
+     *
+     * @param units distinct unit indices in 0..n−1 (not modified)
+     * @throws IllegalArgumentException on an index outside 0..n−1 or a repeated index
      */
-    SpatialWeights restrict(int[] keep) {
+    public SpatialWeights restrictedTo(int... units) {
+        Objects.requireNonNull(units, "units");
+        int[] keep = units.clone();
         int[] newIndex = new int[n];
         Arrays.fill(newIndex, -1);
         for (int a = 0; a < keep.length; a++) {
+            checkIndex(keep[a]);
+            if (newIndex[keep[a]] >= 0) {
+                throw new IllegalArgumentException("unit " + keep[a] + " is listed twice (positions "
+                        + newIndex[keep[a]] + " and " + a + "); give each unit once");
+            }
             newIndex[keep[a]] = a;
         }
         int m = keep.length;
@@ -934,19 +935,23 @@ public final class SpatialWeights {
         }
     }
 
-    /** Row starts (internal array, not copied; callers must not modify). */
-    int[] rowStartArray() {
-        return rowStart;
+    /**
+     * Row starts of the compressed-row form (n + 1 values, a fresh copy): the links of unit i are
+     * the entries rowStarts()[i] .. rowStarts()[i + 1] − 1 of {@link #columnIndices()} and
+     * {@link #linkWeights()}, in increasing column order.
+     */
+    public int[] rowStarts() {
+        return rowStart.clone();
     }
 
-    /** Column indices (internal array, not copied; callers must not modify). */
-    int[] columnArray() {
-        return cols;
+    /** Neighbour (column) index of every link, in compressed-row order (a fresh copy). */
+    public int[] columnIndices() {
+        return cols.clone();
     }
 
-    /** Weights (internal array, not copied; callers must not modify). */
-    double[] valueArray() {
-        return vals;
+    /** Weight of every link, in compressed-row order (a fresh copy). */
+    public double[] linkWeights() {
+        return vals.clone();
     }
 
     @Override

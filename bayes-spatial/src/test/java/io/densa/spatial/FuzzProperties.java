@@ -5,6 +5,20 @@ import static io.densa.spatial.FuzzValues.vector;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.spatial.autocorrelation.AutocorrelationOptions;
+import io.densa.spatial.autocorrelation.GearyC;
+import io.densa.spatial.autocorrelation.IslandPolicy;
+import io.densa.spatial.autocorrelation.LocalMoran;
+import io.densa.spatial.autocorrelation.MoranI;
+import io.densa.spatial.kriging.Drift;
+import io.densa.spatial.kriging.Kriging;
+import io.densa.spatial.kriging.KrigingOptions;
+import io.densa.spatial.kriging.Neighbourhood;
+import io.densa.spatial.variogram.EmpiricalVariogram;
+import io.densa.spatial.variogram.VariogramFitOptions;
+import io.densa.spatial.variogram.VariogramFitting;
+import io.densa.spatial.variogram.VariogramModel;
+import io.densa.spatial.variogram.VariogramOptions;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Random;
@@ -25,22 +39,9 @@ import net.jqwik.api.ShrinkingMode;
  * {@link IllegalStateException} / {@link io.densa.core.DensaException} thrown by Densa, and must
  * not modify its inputs (see {@link FuzzCheck}). Fixed seeds; 29,500 tries in all; each try draws
  * its inputs from a case seed that jqwik reports on failure.
- *
- * <p>{@link #KNOWN_OPEN} would list findings left open (each with the title of its entry in the
- * project's fuzz-findings notes); it is empty.
  */
 class FuzzProperties {
-
-    // ------------------------------------------------------------------ known open findings
-
-    /**
-     * Known open findings (temporary exclusions, titled as in the fuzz-findings notes): none. SP-1
-     * to SP-9 are fixed, and each is checked by this fuzz and by a named regression test
-     * ({@link SpatialFuzzRegressionTest}).
-     */
-    static final List<FuzzCheck.KnownOpen> KNOWN_OPEN = List.of();
-
-    private static final FuzzCheck CHECK = new FuzzCheck(KNOWN_OPEN);
+    private static final FuzzCheck CHECK = new FuzzCheck();
 
     /** In exploration mode (see {@link FuzzCheck}), writes what was collected to target/fuzz-collected.txt. */
     @net.jqwik.api.lifecycle.AfterContainer
@@ -189,7 +190,7 @@ class FuzzProperties {
         double[] values = vector(r, n, r.nextBoolean() ? FuzzValues::extreme : FuzzValues::mild);
         CHECK.run("spatialLag", () -> w.spatialLag(values), values);
         AutocorrelationOptions opt = AutocorrelationOptions.withDefaults()
-                .withIslandPolicy(SpatialWeights.IslandPolicy.values()[r.nextInt(SpatialWeights.IslandPolicy.values().length)])
+                .withIslandPolicy(IslandPolicy.values()[r.nextInt(IslandPolicy.values().length)])
                 .withPermutations(19, 5L).withParallel(false);
         CHECK.run("MoranI.statistic", () -> MoranI.statistic(w, values), values);
         CHECK.run("MoranI.test", () -> MoranI.test(w, values, opt), values);

@@ -1,7 +1,7 @@
 package io.densa.bench;
 
-import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.BayesSpace;
+import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.estimate.NewtonCost;
 import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 import io.densa.core.estimate.SmoothingSplineEstimator;

@@ -1,7 +1,7 @@
 package io.densa.examples;
 
-import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.DensitySet;
+import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.estimate.EstimationDiagnostics;
 
 /**

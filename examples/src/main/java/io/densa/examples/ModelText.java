@@ -1,7 +1,7 @@
 package io.densa.examples;
 
 import io.densa.core.BayesSpace;
-import io.densa.spatial.VariogramModel;
+import io.densa.spatial.variogram.VariogramModel;
 import java.util.Locale;
 
 /** Readable descriptions of fitted models for the reports. */

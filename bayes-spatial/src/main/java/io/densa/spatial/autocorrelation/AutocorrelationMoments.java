@@ -1,4 +1,4 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
 /**
  * Analytic moments of an autocorrelation statistic under one null hypothesis (normality or

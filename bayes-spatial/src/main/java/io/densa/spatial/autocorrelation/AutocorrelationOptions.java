@@ -1,4 +1,4 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
 import io.densa.core.ProgressListener;
 import java.util.Objects;
@@ -16,15 +16,15 @@ import java.util.Objects;
  */
 public final class AutocorrelationOptions {
     private static final AutocorrelationOptions DEFAULTS =
-            new AutocorrelationOptions(0, 0L, SpatialWeights.IslandPolicy.ERROR, true, ProgressListener.NONE);
+            new AutocorrelationOptions(0, 0L, IslandPolicy.ERROR, true, ProgressListener.NONE);
 
     private final int permutations;
     private final long seed;
-    private final SpatialWeights.IslandPolicy islandPolicy;
+    private final IslandPolicy islandPolicy;
     private final boolean parallel;
     private final ProgressListener progress;
 
-    private AutocorrelationOptions(int permutations, long seed, SpatialWeights.IslandPolicy islandPolicy,
+    private AutocorrelationOptions(int permutations, long seed, IslandPolicy islandPolicy,
             boolean parallel, ProgressListener progress) {
         this.permutations = permutations;
         this.seed = seed;
@@ -33,7 +33,7 @@ public final class AutocorrelationOptions {
         this.progress = progress;
     }
 
-    /** No permutations, {@link SpatialWeights.IslandPolicy#ERROR}, parallel. */
+    /** No permutations, {@link IslandPolicy#ERROR}, parallel. */
     public static AutocorrelationOptions withDefaults() {
         return DEFAULTS;
     }
@@ -54,7 +54,7 @@ public final class AutocorrelationOptions {
     }
 
     /** With the given treatment of units without neighbours. */
-    public AutocorrelationOptions withIslandPolicy(SpatialWeights.IslandPolicy policy) {
+    public AutocorrelationOptions withIslandPolicy(IslandPolicy policy) {
         return new AutocorrelationOptions(permutations, seed, Objects.requireNonNull(policy, "policy"), parallel,
                 progress);
     }
@@ -95,7 +95,7 @@ public final class AutocorrelationOptions {
     }
 
     /** Island policy. */
-    public SpatialWeights.IslandPolicy islandPolicy() {
+    public IslandPolicy islandPolicy() {
         return islandPolicy;
     }
 

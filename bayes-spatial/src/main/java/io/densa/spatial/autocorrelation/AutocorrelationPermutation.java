@@ -1,4 +1,4 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
 /**
  * Result of a permutation test of an autocorrelation statistic T: the values are randomly

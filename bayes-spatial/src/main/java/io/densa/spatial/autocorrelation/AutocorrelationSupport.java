@@ -1,9 +1,11 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
-import io.densa.core.internal.ProgressCounter;
 import io.densa.core.DensaException;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.Seeds;
+import io.densa.spatial.SpatialWeights;
+import io.densa.spatial.internal.Scaling;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Objects;
@@ -46,12 +48,12 @@ final class AutocorrelationSupport {
     }
 
     /** Checks the values, applies the island policy and centres the kept values. */
-    static ScalarField scalarField(SpatialWeights w, double[] values, SpatialWeights.IslandPolicy policy,
+    static ScalarField scalarField(SpatialWeights w, double[] values, IslandPolicy policy,
             int minUnits, String what) {
         checkValues(values, w);
         Prepared p = prepare(w, policy, minUnits, what);
         double[] x = select(values, p.kept());
-        double scale = powerOfTwoScale(x);
+        double scale = Scaling.powerOfTwoScale(x);
         double[] z = centre(x, scale, what);
         return new ScalarField(p.weights(), p.kept(), z, scale, sumSq(z), kurtosis(z), p.excluded(), p.original());
     }
@@ -92,11 +94,11 @@ final class AutocorrelationSupport {
     }
 
     /** Applies the island policy and checks the number of remaining units. */
-    static Prepared prepare(SpatialWeights w, SpatialWeights.IslandPolicy policy, int minUnits, String what) {
+    static Prepared prepare(SpatialWeights w, IslandPolicy policy, int minUnits, String what) {
         SpatialWeights cur = w;
         int[] kept = IntStream.range(0, w.size()).toArray();
         if (w.hasIslands()) {
-            if (policy == SpatialWeights.IslandPolicy.ERROR) {
+            if (policy == IslandPolicy.ERROR) {
                 throw new IllegalArgumentException(islandMessage(w.islands())
                         + "; use other weights or AutocorrelationOptions.withIslandPolicy(EXCLUDE)");
             }
@@ -118,7 +120,7 @@ final class AutocorrelationSupport {
                     nk[a] = kept[keepLocal[a]];
                 }
                 kept = nk;
-                cur = cur.restrict(keepLocal);
+                cur = cur.restrictedTo(keepLocal);
             }
         }
         if (cur.size() < minUnits) {
@@ -159,19 +161,6 @@ final class AutocorrelationSupport {
             out[a] = values[kept[a]];
         }
         return out;
-    }
-
-    /**
-     * The power of two 2^e nearest below max |x_i| (1 if every value is 0): dividing by it is exact
-     * and brings the largest value into [1, 2), so that sums of squares neither overflow (values
-     * near 1e300) nor underflow (values near 1e-300) before a field is judged constant.
-     */
-    static double powerOfTwoScale(double[] x) {
-        double max = 0;
-        for (double v : x) {
-            max = Math.max(max, Math.abs(v));
-        }
-        return max > 0 ? Math.scalb(1.0, Math.getExponent(max)) : 1.0;
     }
 
     /**

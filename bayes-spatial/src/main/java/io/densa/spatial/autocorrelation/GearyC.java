@@ -1,5 +1,6 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
+import io.densa.spatial.SpatialWeights;
 import java.util.List;
 import java.util.Objects;
 import java.util.Optional;
@@ -52,9 +53,11 @@ public final class GearyC {
      */
     public static double statistic(SpatialWeights weights, double[] values) {
         AutocorrelationSupport.ScalarField f = AutocorrelationSupport.scalarField(weights, values,
-                SpatialWeights.IslandPolicy.ERROR, 2, "Geary's c");
+                IslandPolicy.ERROR, 2, "Geary's c");
         int n = f.size();
-        return (n - 1) * squaredDifferences(f.weights(), f.z(), AutocorrelationSupport.identity(n))
+        SpatialWeights w = f.weights();
+        return (n - 1) * squaredDifferences(w.rowStarts(), w.columnIndices(), w.linkWeights(), f.z(),
+                AutocorrelationSupport.identity(n))
                 / (2 * f.weights().s0() * f.sumSq());
     }
 
@@ -84,7 +87,10 @@ public final class GearyC {
         double b2 = f.kurtosis();
         double s0 = w.s0(), s1 = w.s1(), s2 = w.s2();
         double scale = (nn - 1) / (2 * s0 * m2);
-        double stat = scale * squaredDifferences(w, z, AutocorrelationSupport.identity(n));
+        int[] rs = w.rowStarts();
+        int[] cs = w.columnIndices();
+        double[] vs = w.linkWeights();
+        double stat = scale * squaredDifferences(rs, cs, vs, z, AutocorrelationSupport.identity(n));
         double s02 = s0 * s0;
         double varN = ((2 * s1 + s2) * (nn - 1) - 4 * s02) / (2 * (nn + 1) * s02);
         double varR = ((nn - 1) * s1 * (nn * nn - 3 * nn + 3 - (nn - 1) * b2)
@@ -95,15 +101,12 @@ public final class GearyC {
         AutocorrelationMoments random = AutocorrelationSupport.moments(stat, 1.0, varR, "Geary's c",
                 "randomisation", n);
         Optional<AutocorrelationPermutation> perm = AutocorrelationSupport.permutationTest(f, options, stat, 1.0,
-                "Geary's c", pi -> scale * squaredDifferences(w, z, pi));
+                "Geary's c", pi -> scale * squaredDifferences(rs, cs, vs, z, pi));
         return new Result(stat, n, f.excluded(), b2, normal, random, perm);
     }
 
-    /** Σ_i Σ_j w_ij (z_pi[i] − z_pi[j])². */
-    private static double squaredDifferences(SpatialWeights w, double[] z, int[] pi) {
-        int[] rs = w.rowStartArray();
-        int[] cs = w.columnArray();
-        double[] vs = w.valueArray();
+    /** Σ_i Σ_j w_ij (z_pi[i] − z_pi[j])², the weights in compressed-row form (rs, cs, vs). */
+    private static double squaredDifferences(int[] rs, int[] cs, double[] vs, double[] z, int[] pi) {
         double s = 0;
         for (int i = 0; i < z.length; i++) {
             double zi = z[pi[i]];

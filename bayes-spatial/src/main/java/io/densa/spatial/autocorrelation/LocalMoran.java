@@ -1,9 +1,10 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
-import io.densa.core.internal.ProgressCounter;
 import io.densa.core.BenjaminiHochberg;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.Seeds;
+import io.densa.spatial.SpatialWeights;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Collections;
@@ -127,7 +128,7 @@ public final class LocalMoran {
      */
     public static double[] statistics(SpatialWeights weights, double[] values) {
         AutocorrelationSupport.ScalarField f = AutocorrelationSupport.scalarField(weights, values,
-                SpatialWeights.IslandPolicy.ERROR, 2, "local Moran's I");
+                IslandPolicy.ERROR, 2, "local Moran's I");
         double[] z = f.z();
         double m2 = f.sumSq() / z.length;
         double[] lag = f.original().spatialLag(z);
@@ -163,9 +164,9 @@ public final class LocalMoran {
         double m2 = f.sumSq() / n;
         double b2 = f.kurtosis();
         double[] lag = w.spatialLag(z);
-        int[] rs = w.rowStartArray();
-        int[] cs = w.columnArray();
-        double[] vs = w.valueArray();
+        int[] rs = w.rowStarts();
+        int[] cs = w.columnIndices();
+        double[] vs = w.linkWeights();
         int r = options.permutations();
         long seed = options.seed();
         double[] stat = new double[n];

@@ -1,6 +1,8 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
 import io.densa.core.DensitySet;
+import io.densa.spatial.SpatialWeights;
+import io.densa.spatial.internal.Scaling;
 import java.util.List;
 import java.util.Objects;
 import java.util.Optional;
@@ -85,7 +87,7 @@ public final class MoranI {
      */
     public static double statistic(SpatialWeights weights, double[] values) {
         AutocorrelationSupport.ScalarField f = AutocorrelationSupport.scalarField(weights, values,
-                SpatialWeights.IslandPolicy.ERROR, 2, "Moran's I");
+                IslandPolicy.ERROR, 2, "Moran's I");
         return statistic(f.weights(), f.z(), f.sumSq());
     }
 
@@ -128,9 +130,9 @@ public final class MoranI {
         AutocorrelationMoments normal = AutocorrelationSupport.moments(stat, e, varN, "Moran's I", "normality", n);
         AutocorrelationMoments random = AutocorrelationSupport.moments(stat, e, varR, "Moran's I", "randomisation",
                 n);
-        int[] rs = w.rowStartArray();
-        int[] cs = w.columnArray();
-        double[] vs = w.valueArray();
+        int[] rs = w.rowStarts();
+        int[] cs = w.columnIndices();
+        double[] vs = w.linkWeights();
         double scale = n / (s0 * m2);
         Optional<AutocorrelationPermutation> perm = AutocorrelationSupport.permutationTest(f, options, stat, e,
                 "Moran's I", pi -> {
@@ -150,9 +152,9 @@ public final class MoranI {
 
     /** (n/S0) Σ w_ij z_i z_j / Σ z². */
     static double statistic(SpatialWeights w, double[] z, double sumSq) {
-        int[] rs = w.rowStartArray();
-        int[] cs = w.columnArray();
-        double[] vs = w.valueArray();
+        int[] rs = w.rowStarts();
+        int[] cs = w.columnIndices();
+        double[] vs = w.linkWeights();
         double s = 0;
         for (int i = 0; i < z.length; i++) {
             double lag = 0;
@@ -176,10 +178,11 @@ public final class MoranI {
     public static double statistic(SpatialWeights weights, DensitySet densities) {
         Objects.requireNonNull(densities, "densities");
         checkSize(weights, densities);
-        AutocorrelationSupport.prepare(weights, SpatialWeights.IslandPolicy.ERROR, 2, "Moran's I of densities");
+        AutocorrelationSupport.prepare(weights, IslandPolicy.ERROR, 2, "Moran's I of densities");
         int k = densities.dimension();
         double[] z = centredRows(densities.coordinatesRowMajor(), densities.size(), k);
-        return densityStatistic(weights, z, k, AutocorrelationSupport.identity(densities.size()));
+        return densityStatistic(weights.rowStarts(), weights.columnIndices(), weights.linkWeights(), weights.s0(), z,
+                k, AutocorrelationSupport.identity(densities.size()));
     }
 
     /**
@@ -202,12 +205,16 @@ public final class MoranI {
         DensitySet d = p.excluded().isEmpty() ? densities : densities.subset(p.kept());
         int n = d.size(), k = d.dimension();
         double[] z = centredRows(d.coordinatesRowMajor(), n, k);
-        double stat = densityStatistic(w, z, k, AutocorrelationSupport.identity(n));
+        int[] rs = w.rowStarts();
+        int[] cs = w.columnIndices();
+        double[] vs = w.linkWeights();
+        double s0 = w.s0();
+        double stat = densityStatistic(rs, cs, vs, s0, z, k, AutocorrelationSupport.identity(n));
         double e = -1.0 / (n - 1);
         Optional<AutocorrelationPermutation> perm = Optional.empty();
         if (options.permutations() > 0) {
             double[] sims = AutocorrelationSupport.simulate(n, options, (w.linkCount() + 2L * n) * k,
-                    "Moran's I of densities", pi -> densityStatistic(w, z, k, pi));
+                    "Moran's I of densities", pi -> densityStatistic(rs, cs, vs, s0, z, k, pi));
             perm = Optional.of(AutocorrelationSupport.summarise(stat, e, sims, options.seed()));
         }
         return new DensityResult(stat, n, p.excluded(), e, perm);
@@ -227,7 +234,7 @@ public final class MoranI {
      * or 1e-300 neither overflow nor underflow; fails if every density is the same.
      */
     private static double[] centredRows(double[] c, int n, int k) {
-        double inv = 1 / AutocorrelationSupport.powerOfTwoScale(c);
+        double inv = 1 / Scaling.powerOfTwoScale(c);
         double[] mean = new double[k];
         double scale = 0;
         for (int i = 0; i < n; i++) {
@@ -256,12 +263,9 @@ public final class MoranI {
         return z;
     }
 
-    /** I_B with unit i holding centred row pi[i]. */
-    private static double densityStatistic(SpatialWeights w, double[] z, int k, int[] pi) {
-        int n = w.size();
-        int[] rs = w.rowStartArray();
-        int[] cs = w.columnArray();
-        double[] vs = w.valueArray();
+    /** I_B with unit i holding centred row pi[i], the weights in compressed-row form (rs, cs, vs), S0 = s0. */
+    private static double densityStatistic(int[] rs, int[] cs, double[] vs, double s0, double[] z, int k, int[] pi) {
+        int n = rs.length - 1;
         double num = 0, den = 0;
         for (int i = 0; i < n; i++) {
             int oi = pi[i] * k;
@@ -277,6 +281,6 @@ public final class MoranI {
                 den += z[oi + t] * z[oi + t];
             }
         }
-        return n / w.s0() * num / den;
+        return n / s0 * num / den;
     }
 }

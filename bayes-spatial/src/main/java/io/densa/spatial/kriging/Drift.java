@@ -1,4 +1,4 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
 
 import java.util.Objects;
 

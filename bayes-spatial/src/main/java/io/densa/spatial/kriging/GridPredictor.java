@@ -1,8 +1,10 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
 
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
 import io.densa.core.internal.Kernels;
+import io.densa.spatial.Locations;
+import io.densa.spatial.NeighbourIndex;
 import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;

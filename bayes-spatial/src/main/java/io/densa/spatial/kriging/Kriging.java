@@ -1,13 +1,18 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
 
-import io.densa.core.internal.Cholesky;
-import io.densa.core.internal.ProgressCounter;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
+import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.ProgressCounter;
+import io.densa.spatial.Locations;
+import io.densa.spatial.NeighbourIndex;
+import io.densa.spatial.internal.GreatCircle;
+import io.densa.spatial.internal.Scaling;
+import io.densa.spatial.variogram.VariogramModel;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -181,8 +186,8 @@ public final class Kriging {
         this.cy = 0.5 * (bb[1] + bb[3]);
         double s = 0.5 * Math.max(bb[2] - bb[0], bb[3] - bb[1]);
         this.scale = s > 0 ? s : 1;
-        double diam = loc.unchecked(bb[0], bb[1], bb[2], bb[3]);
-        double sill = model.bounded() ? model.sill() : 2 * model.gammaUnchecked(Math.max(diam, 1e-300)) + 1;
+        double diam = distance(bb[0], bb[1], bb[2], bb[3]);
+        double sill = model.bounded() ? model.sill() : 2 * gammaOrInfinity(model, Math.max(diam, 1e-300)) + 1;
         if (!(sill <= Double.MAX_VALUE)) {
             throw new IllegalArgumentException("the variogram " + model + " overflows a double at the largest"
                     + " distance between the data locations (" + diam + "); accepted are power models whose value"
@@ -433,9 +438,24 @@ public final class Kriging {
         }
     }
 
+    /** Distance between two checked points, computed as {@link Locations} computes it. */
+    private double distance(double x1, double y1, double x2, double y2) {
+        return loc.kind() == Locations.Kind.PLANAR ? Scaling.planarNorm(x1 - x2, y1 - y2)
+                : GreatCircle.km(x1, y1, x2, y2);
+    }
+
+    /** γ(h) (h &gt; 0), or +∞ where it exceeds the double range (reported by the caller). */
+    private static double gammaOrInfinity(VariogramModel model, double h) {
+        try {
+            return model.gamma(h);
+        } catch (IllegalArgumentException overflow) {
+            return Double.POSITIVE_INFINITY;
+        }
+    }
+
     /** The (pseudo-)covariance at lag h; C(0) at h = 0. */
     double cov(double h) {
-        return unitModel.covariance(h, pseudoSill);
+        return unitModel.pseudoCovariance(h, pseudoSill);
     }
 
     /** Distances from (x, y) to stations idx[0..m) (all stations 0..m−1 if idx is null) into out. */
@@ -443,12 +463,12 @@ public final class Kriging {
         if (loc.kind() == Locations.Kind.PLANAR) {
             for (int r = 0; r < m; r++) {
                 int i = idx == null ? r : idx[r];
-                out[r] = Locations.planarNorm(sx[i] - x, sy[i] - yy);
+                out[r] = Scaling.planarNorm(sx[i] - x, sy[i] - yy);
             }
         } else {
             for (int r = 0; r < m; r++) {
                 int i = idx == null ? r : idx[r];
-                out[r] = loc.unchecked(sx[i], sy[i], x, yy);
+                out[r] = GreatCircle.km(sx[i], sy[i], x, yy);
             }
         }
     }
@@ -456,7 +476,7 @@ public final class Kriging {
     /** Covariances from (x, y) to stations idx[0..m) (all if idx is null) into out; dist is scratch. */
     void targetCovariances(int[] idx, int m, double x, double yy, double[] dist, double[] out) {
         distances(idx, m, x, yy, dist);
-        unitModel.covariances(dist, m, pseudoSill, out);
+        unitModel.pseudoCovariances(dist, m, pseudoSill, out);
     }
 
     double stationCovariance(int i, int j) {
@@ -742,7 +762,7 @@ public final class Kriging {
         double cvv = 0;
         for (int a = 0; a < m; a++) {
             for (int b = 0; b < m; b++) {
-                cvv += a == b ? c00 : cov(loc.unchecked(pts[a][0], pts[a][1], pts[b][0], pts[b][1]));
+                cvv += a == b ? c00 : cov(distance(pts[a][0], pts[a][1], pts[b][0], pts[b][1]));
             }
         }
         cvv /= (double) m * m;

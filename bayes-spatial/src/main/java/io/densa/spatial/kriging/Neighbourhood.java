@@ -1,4 +1,6 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
+
+import io.densa.spatial.Locations;
 
 /**
  * Which data locations enter the kriging system at a target: all of them (global, one

@@ -1,7 +1,14 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
 
 import io.densa.core.DensitySet;
 import io.densa.core.internal.RecordArrays;
+import io.densa.spatial.Locations;
+import io.densa.spatial.variogram.EmpiricalVariogram;
+import io.densa.spatial.variogram.VariogramFit;
+import io.densa.spatial.variogram.VariogramFitOptions;
+import io.densa.spatial.variogram.VariogramFitting;
+import io.densa.spatial.variogram.VariogramModel;
+import io.densa.spatial.variogram.VariogramOptions;
 import java.util.List;
 import java.util.Objects;
 
@@ -81,13 +88,13 @@ public record UniversalFit(Kriging kriging, VariogramFit fit, EmpiricalVariogram
         Kriging ols = Kriging.universal(locations, densities, drift, VariogramModel.nugget(1), glsOptions);
         double[][] beta = ols.driftCoefficients();
         double[] resid = ols.driftResiduals();
-        int k = densities.dimension();
         VariogramFit fit = null;
         EmpiricalVariogram ev = null;
         boolean converged = false;
         int it = 0;
         while (it < maxIterations) {
-            ev = EmpiricalVariogram.of(locations, resid, k, variogramOptions);
+            ev = EmpiricalVariogram.of(locations, DensitySet.ofRowMajor(densities.space(), resid, densities.size(), null),
+                    variogramOptions);
             VariogramFit next = VariogramFitting.fit(ev, fitOptions);
             it++;
             boolean settled = fit != null && close(fit.model(), next.model());

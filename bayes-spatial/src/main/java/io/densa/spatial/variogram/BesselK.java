@@ -1,4 +1,4 @@
-package io.densa.spatial;
+package io.densa.spatial.variogram;
 
 /**
  * Modified Bessel function of the second kind K_ν(x) for real order ν and x &gt; 0 (Commons

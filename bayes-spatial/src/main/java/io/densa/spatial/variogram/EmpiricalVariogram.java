@@ -1,8 +1,11 @@
-package io.densa.spatial;
+package io.densa.spatial.variogram;
 
-import io.densa.core.internal.ProgressCounter;
 import io.densa.core.DensitySet;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.ProgressCounter;
+import io.densa.spatial.Locations;
+import io.densa.spatial.internal.GreatCircle;
+import io.densa.spatial.internal.Scaling;
 import java.util.Arrays;
 import java.util.Objects;
 
@@ -93,7 +96,7 @@ public final class EmpiricalVariogram {
         double[] p = new double[n * dim];
         for (int i = 0; i < n; i++) {
             if (geo) {
-                Locations.unitVector(loc.x(i), loc.y(i), p, 3 * i);
+                GreatCircle.unitVector(loc.x(i), loc.y(i), p, 3 * i);
             } else {
                 p[2 * i] = loc.x(i);
                 p[2 * i + 1] = loc.y(i);
@@ -108,7 +111,7 @@ public final class EmpiricalVariogram {
         y = centredCopy(y, n, k);
         // then divide by the power of two of the largest |centred coordinate| (exact): squared
         // distances of coordinates near 1e200 would overflow, of coordinates near 1e-200 underflow
-        double yScale = AutocorrelationSupport.powerOfTwoScale(y);
+        double yScale = Scaling.powerOfTwoScale(y);
         double yInv = 1 / yScale;
         for (int i = 0; i < y.length; i++) {
             y[i] *= yInv;
@@ -396,9 +399,9 @@ public final class EmpiricalVariogram {
                     continue;
                 }
                 // the same operations as Locations.distance, so a pair on a bin edge bins the same way
-                // planar: √d2 wherever d2 is in range, as Locations.planarNorm (the scaled form only beyond)
-                double h = geo ? Locations.kmFromChordSq(p, 3 * i, 3 * j, d2)
-                        : d2 <= 0x1p960 && d2 >= 0x1p-960 ? Math.sqrt(d2) : Locations.planarNorm(dx, dy);
+                // planar: √d2 wherever d2 is in range, as Scaling.planarNorm (the scaled form only beyond)
+                double h = geo ? GreatCircle.kmFromChordSq(p, 3 * i, 3 * j, d2)
+                        : d2 <= 0x1p960 && d2 >= 0x1p-960 ? Math.sqrt(d2) : Scaling.planarNorm(dx, dy);
                 if (h > e[nb]) {
                     continue;
                 }

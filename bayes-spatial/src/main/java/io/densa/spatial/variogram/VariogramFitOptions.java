@@ -1,4 +1,4 @@
-package io.densa.spatial;
+package io.densa.spatial.variogram;
 
 import java.util.Objects;
 

@@ -1,4 +1,4 @@
-package io.densa.spatial;
+package io.densa.spatial.variogram;
 
 import io.densa.core.DensaException;
 import java.util.ArrayList;

@@ -1,4 +1,4 @@
-package io.densa.spatial;
+package io.densa.spatial.variogram;
 
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -95,11 +95,11 @@ public final class VariogramModel {
 
     /**
      * This model with every partial sill (and power coefficient) multiplied by the power of two
-     * 2^e, which is exact unless a sill underflows; γ and C scale by the same factor. Internal:
-     * kriging solves its system in units of the sill, so that neither the system nor the
-     * variance overflows or underflows for sills near the ends of the double range.
+     * 2^e, which is exact unless a sill underflows; γ and C scale by the same factor (kriging solves
+     * its system in units of the sill, so that neither the system nor the variance overflows or
+     * underflows for sills near the ends of the double range).
      */
-    VariogramModel scaledBy(int e) {
+    public VariogramModel scaledBy(int e) {
         Structure[] p = new Structure[parts.length];
         for (int i = 0; i < parts.length; i++) {
             Structure s = parts[i];
@@ -297,20 +297,27 @@ public final class VariogramModel {
     }
 
     /**
-     * out[i] = base − γ(h[i]) for h[i] &gt; 0 and base for h[i] = 0, i &lt; len (the pseudo-covariance
-     * with C(0) = base); one simple loop per structure. Uses exp rather than expm1 (a covariance
-     * needs absolute, not relative, accuracy near h = 0, and exp is an intrinsic).
+     * Pseudo-covariances at many lags: out[i] = c0 − γ(lags[i]) for lags[i] &gt; 0 and c0 for
+     * lags[i] = 0, i &lt; count, as {@link #pseudoCovariance} computes them (bit-identical); one
+     * simple loop per structure. Uses exp rather than expm1 (a covariance needs absolute, not
+     * relative, accuracy near h = 0, and exp is an intrinsic). Lags are not checked (they must be
+     * ≥ 0).
+     *
+     * @param lags  lags (not modified)
+     * @param count number of lags used
+     * @param c0    the value at lag 0
+     * @param out   at least count values, overwritten; must not alias lags
      */
-    void covariances(double[] h, int len, double base, double[] out) {
-        java.util.Arrays.fill(out, 0, len, base);
+    public void pseudoCovariances(double[] lags, int count, double c0, double[] out) {
+        java.util.Arrays.fill(out, 0, count, c0);
         for (int p = 0; p < parts.length; p++) {
             Structure s = parts[p];
             double c = s.partialSill;
             double a = s.range;
             switch (s.family) {
                 case NUGGET:
-                    for (int i = 0; i < len; i++) {
-                        if (h[i] > 0) {
+                    for (int i = 0; i < count; i++) {
+                        if (lags[i] > 0) {
                             out[i] -= c;
                         }
                     }
@@ -318,29 +325,29 @@ public final class VariogramModel {
                 case EXPONENTIAL: {
                     double r = rate[p];
                     if (r != r) {
-                        guarded(p, h, len, out);
+                        guarded(p, lags, count, out);
                         break;
                     }
-                    for (int i = 0; i < len; i++) {
-                        out[i] -= c * (1 - Math.exp(r * h[i]));
+                    for (int i = 0; i < count; i++) {
+                        out[i] -= c * (1 - Math.exp(r * lags[i]));
                     }
                     break;
                 }
                 case GAUSSIAN: {
                     double r = rate[p];
                     if (r != r) {
-                        guarded(p, h, len, out);
+                        guarded(p, lags, count, out);
                         break;
                     }
-                    for (int i = 0; i < len; i++) {
-                        out[i] -= c * (1 - Math.exp(r * h[i] * h[i]));
+                    for (int i = 0; i < count; i++) {
+                        out[i] -= c * (1 - Math.exp(r * lags[i] * lags[i]));
                     }
                     break;
                 }
                 default:
-                    for (int i = 0; i < len; i++) {
-                        if (h[i] > 0) {
-                            out[i] -= single(p, h[i]);
+                    for (int i = 0; i < count; i++) {
+                        if (lags[i] > 0) {
+                            out[i] -= single(p, lags[i]);
                         }
                     }
             }
@@ -356,9 +363,13 @@ public final class VariogramModel {
         }
     }
 
-    /** Scalar form of {@link #covariances}, with the same arithmetic (bit-identical). */
-    double covariance(double h, double base) {
-        double v = base;
+    /**
+     * The pseudo-covariance c0 − γ(h) for h &gt; 0, c0 at h = 0: with c0 = {@link #sill()} the
+     * covariance of a bounded model; ordinary and universal kriging accept any constant c0, so
+     * unbounded models have one too. The lag is not checked (it must be ≥ 0).
+     */
+    public double pseudoCovariance(double h, double c0) {
+        double v = c0;
         for (int p = 0; p < parts.length; p++) {
             Structure s = parts[p];
             double c = s.partialSill;

@@ -1,12 +1,14 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
-import static io.densa.spatial.AutocorrelationTestSupport.rookLattice;
-import static io.densa.spatial.AutocorrelationTestSupport.squareLattice;
+import static io.densa.spatial.Lattices.rookLattice;
+import static io.densa.spatial.Lattices.squareLattice;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.spatial.Locations;
+import io.densa.spatial.SpatialWeights;
 import java.util.List;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.function.Executable;

@@ -1,12 +1,13 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
-import static io.densa.spatial.AutocorrelationTestSupport.rookLattice;
+import static io.densa.spatial.Lattices.rookLattice;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
+import io.densa.spatial.SpatialWeights;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Random;

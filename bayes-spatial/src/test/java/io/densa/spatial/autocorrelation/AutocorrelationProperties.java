@@ -1,8 +1,10 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
-import static io.densa.spatial.AutocorrelationTestSupport.rookLattice;
+import static io.densa.spatial.Lattices.rookLattice;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
+import io.densa.spatial.Locations;
+import io.densa.spatial.SpatialWeights;
 import java.util.Random;
 import net.jqwik.api.Arbitraries;
 import net.jqwik.api.Arbitrary;

@@ -1,11 +1,12 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
-import static io.densa.spatial.AutocorrelationTestSupport.rookLattice;
+import static io.densa.spatial.Lattices.rookLattice;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.spatial.SpatialWeights;
 import org.junit.jupiter.api.Test;
 
 /**

@@ -1,51 +1,11 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
-import java.util.ArrayList;
-import java.util.List;
-import org.locationtech.jts.geom.Coordinate;
-import org.locationtech.jts.geom.GeometryFactory;
-import org.locationtech.jts.geom.Polygon;
-
-/** Fixtures shared by the autocorrelation tests: lattices built by hand, brute-force formulas. */
+/**
+ * Fixtures shared by the autocorrelation tests: brute-force formulas (lattices are in
+ * {@link io.densa.spatial.Lattices}).
+ */
 final class AutocorrelationTestSupport {
-    private static final GeometryFactory GF = new GeometryFactory();
-
     private AutocorrelationTestSupport() {
-    }
-
-    /** Rook neighbours of an r × c lattice, units numbered row-wise, built directly from the definition. */
-    static int[][] rookLattice(int rows, int cols) {
-        int[][] nb = new int[rows * cols][];
-        for (int r = 0; r < rows; r++) {
-            for (int c = 0; c < cols; c++) {
-                List<Integer> l = new ArrayList<>();
-                if (r > 0) {
-                    l.add((r - 1) * cols + c);
-                }
-                if (c > 0) {
-                    l.add(r * cols + c - 1);
-                }
-                if (c < cols - 1) {
-                    l.add(r * cols + c + 1);
-                }
-                if (r < rows - 1) {
-                    l.add((r + 1) * cols + c);
-                }
-                nb[r * cols + c] = l.stream().mapToInt(Integer::intValue).toArray();
-            }
-        }
-        return nb;
-    }
-
-    /** Dense binary matrix of neighbour lists. */
-    static double[][] dense(int[][] nb) {
-        double[][] w = new double[nb.length][nb.length];
-        for (int i = 0; i < nb.length; i++) {
-            for (int j : nb[i]) {
-                w[i][j] = 1;
-            }
-        }
-        return w;
     }
 
     /** Moran's I straight from Moran (1950): (n/S0) Σ w_ij z_i z_j / Σ z_i², on a dense matrix. */
@@ -113,22 +73,5 @@ final class AutocorrelationTestSupport {
                 i++;
             }
         }
-    }
-
-    /** Axis-aligned rectangle polygon. */
-    static Polygon box(double x0, double y0, double x1, double y1) {
-        return GF.createPolygon(new Coordinate[] {new Coordinate(x0, y0), new Coordinate(x1, y0),
-            new Coordinate(x1, y1), new Coordinate(x0, y1), new Coordinate(x0, y0)});
-    }
-
-    /** r × c lattice of unit squares numbered row-wise, each shrunk (gap &gt; 0) or grown (gap &lt; 0) by gap. */
-    static List<Polygon> squareLattice(int rows, int cols, double gap) {
-        List<Polygon> out = new ArrayList<>();
-        for (int r = 0; r < rows; r++) {
-            for (int c = 0; c < cols; c++) {
-                out.add(box(c + gap, r + gap, c + 1 - gap, r + 1 - gap));
-            }
-        }
-        return out;
     }
 }

@@ -1,12 +1,13 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
-import static io.densa.spatial.AutocorrelationTestSupport.dense;
-import static io.densa.spatial.AutocorrelationTestSupport.forEachPermutation;
-import static io.densa.spatial.AutocorrelationTestSupport.gearyDense;
-import static io.densa.spatial.AutocorrelationTestSupport.rookLattice;
+import static io.densa.spatial.Lattices.dense;
+import static io.densa.spatial.Lattices.rookLattice;
+import static io.densa.spatial.autocorrelation.AutocorrelationTestSupport.forEachPermutation;
+import static io.densa.spatial.autocorrelation.AutocorrelationTestSupport.gearyDense;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import io.densa.spatial.SpatialWeights;
 import java.util.Random;
 import org.junit.jupiter.api.Test;
 

@@ -1,13 +1,15 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
-import io.densa.core.BenjaminiHochberg;
-import static io.densa.spatial.AutocorrelationTestSupport.forEachPermutation;
-import static io.densa.spatial.AutocorrelationTestSupport.rookLattice;
+import static io.densa.spatial.Lattices.rookLattice;
+import static io.densa.spatial.autocorrelation.AutocorrelationTestSupport.forEachPermutation;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
+import io.densa.core.BenjaminiHochberg;
 
+import io.densa.spatial.Locations;
+import io.densa.spatial.SpatialWeights;
 import java.util.List;
 import java.util.Random;
 import org.junit.jupiter.api.Test;
@@ -234,7 +236,7 @@ class LocalMoranTest {
         SpatialWeights w = SpatialWeights.fromNeighbours(nb);
         AutocorrelationOptions o = AutocorrelationOptions.withDefaults().withPermutations(99, 2);
         assertThrows(IllegalArgumentException.class, () -> LocalMoran.test(w, v, o));
-        LocalMoran.Result r = LocalMoran.test(w, v, o.withIslandPolicy(SpatialWeights.IslandPolicy.EXCLUDE));
+        LocalMoran.Result r = LocalMoran.test(w, v, o.withIslandPolicy(IslandPolicy.EXCLUDE));
         assertEquals(List.of(0), r.excludedUnits());
         assertEquals(9, r.units().size());
         assertEquals(1, r.units().get(0).index());

@@ -1,15 +1,17 @@
-package io.densa.spatial;
+package io.densa.spatial.autocorrelation;
 
-import static io.densa.spatial.AutocorrelationTestSupport.dense;
-import static io.densa.spatial.AutocorrelationTestSupport.forEachPermutation;
-import static io.densa.spatial.AutocorrelationTestSupport.moranDense;
-import static io.densa.spatial.AutocorrelationTestSupport.rookLattice;
+import static io.densa.spatial.Lattices.dense;
+import static io.densa.spatial.Lattices.rookLattice;
+import static io.densa.spatial.autocorrelation.AutocorrelationTestSupport.forEachPermutation;
+import static io.densa.spatial.autocorrelation.AutocorrelationTestSupport.moranDense;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNotEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.spatial.Locations;
+import io.densa.spatial.SpatialWeights;
 import java.util.List;
 import java.util.Random;
 import org.junit.jupiter.api.Test;
@@ -221,7 +223,7 @@ class MoranITest {
                 () -> MoranI.test(w, v));
         assertTrue(e.getMessage().matches("unit 9 has no neighbours \\(island\\).*EXCLUDE.*"), e.getMessage());
         MoranI.Result r = MoranI.test(w, v,
-                AutocorrelationOptions.withDefaults().withIslandPolicy(SpatialWeights.IslandPolicy.EXCLUDE));
+                AutocorrelationOptions.withDefaults().withIslandPolicy(IslandPolicy.EXCLUDE));
         assertEquals(List.of(9), r.excludedUnits());
         assertEquals(9, r.units());
         assertEquals(0.5, r.statistic(), 1e-14);

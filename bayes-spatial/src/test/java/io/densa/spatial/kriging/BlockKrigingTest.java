@@ -1,10 +1,13 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.DensitySet;
+import io.densa.spatial.Locations;
+import io.densa.spatial.TestData;
+import io.densa.spatial.variogram.VariogramModel;
 import org.junit.jupiter.api.Test;
 import org.locationtech.jts.geom.Coordinate;
 import org.locationtech.jts.geom.GeometryFactory;

@@ -1,4 +1,4 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
@@ -6,6 +6,9 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.DensaException;
 import io.densa.core.DensitySet;
+import io.densa.spatial.Locations;
+import io.densa.spatial.TestData;
+import io.densa.spatial.variogram.VariogramModel;
 import java.util.ArrayList;
 import java.util.List;
 import org.junit.jupiter.api.Test;

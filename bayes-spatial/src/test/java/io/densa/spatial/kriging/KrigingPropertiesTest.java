@@ -1,9 +1,12 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.DensitySet;
+import io.densa.spatial.Locations;
+import io.densa.spatial.TestData;
+import io.densa.spatial.variogram.VariogramModel;
 import net.jqwik.api.ForAll;
 import net.jqwik.api.Property;
 import net.jqwik.api.constraints.DoubleRange;

@@ -1,10 +1,13 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.DensitySet;
+import io.densa.spatial.Locations;
+import io.densa.spatial.TestData;
+import io.densa.spatial.variogram.VariogramModel;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.CommonOps_DDRM;
 import org.junit.jupiter.api.Test;

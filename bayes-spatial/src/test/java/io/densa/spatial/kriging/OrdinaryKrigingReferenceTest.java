@@ -1,9 +1,11 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.spatial.Locations;
+import io.densa.spatial.variogram.VariogramModel;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.CommonOps_DDRM;
 import org.junit.jupiter.api.Test;
@@ -14,13 +16,16 @@ import org.junit.jupiter.api.Test;
  * Applied Geostatistics, ch. 12 (REFERENCES.md §8: values from memory, re-solved), with
  * C(h) = 10 e^{−0.3h}, i.e. exponential(sill 10, practical range 10) in our convention.
  */
-class OrdinaryKrigingReferenceTest {
-    static final double[][] XY = {{61, 139}, {63, 140}, {64, 129}, {68, 128}, {71, 140}, {73, 141}, {75, 128}};
+public class OrdinaryKrigingReferenceTest {
+    /** Sample locations. */
+    public static final double[][] XY = {{61, 139}, {63, 140}, {64, 129}, {68, 128}, {71, 140}, {73, 141}, {75, 128}};
     static final double[] V = {477, 696, 227, 646, 606, 791, 783};
-    static final double X0 = 65, Y0 = 137;
+    /** The target. */
+    public static final double X0 = 65, Y0 = 137;
     static final BayesSpace K1 = BayesSpace.polynomials(0, 1, 1);
 
-    static DensitySet data() {
+    /** The sample values as the single coordinate of K = 1 densities. */
+    public static DensitySet data() {
         double[][] c = new double[V.length][];
         for (int i = 0; i < V.length; i++) {
             c[i] = new double[] {V[i]};

@@ -1,4 +1,4 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNotEquals;
@@ -6,6 +6,15 @@ import static org.junit.jupiter.api.Assertions.assertNotSame;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.DensitySet;
+import io.densa.spatial.Locations;
+import io.densa.spatial.TestData;
+import io.densa.spatial.variogram.EmpiricalVariogram;
+import io.densa.spatial.variogram.VariogramCloud;
+import io.densa.spatial.variogram.VariogramFit;
+import io.densa.spatial.variogram.VariogramFitOptions;
+import io.densa.spatial.variogram.VariogramFitting;
+import io.densa.spatial.variogram.VariogramModel;
+import io.densa.spatial.variogram.VariogramOptions;
 import org.junit.jupiter.api.Test;
 
 /**

@@ -1,4 +1,4 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
@@ -7,6 +7,11 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
+import io.densa.spatial.Locations;
+import io.densa.spatial.TestData;
+import io.densa.spatial.variogram.EmpiricalVariogram;
+import io.densa.spatial.variogram.VariogramModel;
+import io.densa.spatial.variogram.VariogramOptions;
 import java.util.ArrayList;
 import java.util.List;
 import org.junit.jupiter.api.Test;

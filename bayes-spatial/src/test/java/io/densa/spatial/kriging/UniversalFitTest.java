@@ -1,9 +1,14 @@
-package io.densa.spatial;
+package io.densa.spatial.kriging;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.DensitySet;
+import io.densa.spatial.Locations;
+import io.densa.spatial.TestData;
+import io.densa.spatial.variogram.VariogramFitOptions;
+import io.densa.spatial.variogram.VariogramModel;
+import io.densa.spatial.variogram.VariogramOptions;
 import org.junit.jupiter.api.Test;
 
 /**
@@ -16,12 +21,12 @@ class UniversalFitTest {
     @Test
     void iteratedResidualVariogramRecoversDriftAndRange() {
         Locations loc = TestData.uniformSquare(400, 1, 71);
-        DensitySet field = TestData.gaussianField(VariogramFittingTest.K10, loc, VariogramModel.exponential(1, 0.2), 72);
+        DensitySet field = TestData.gaussianField(TestData.K10, loc, VariogramModel.exponential(1, 0.2), 72);
         double[][] c = field.coordinates();
         for (int i = 0; i < c.length; i++) {
             c[i][0] += 3 * loc.x(i) - 2 * loc.y(i);
         }
-        DensitySet d = DensitySet.of(VariogramFittingTest.K10, c);
+        DensitySet d = DensitySet.of(TestData.K10, c);
         UniversalFit fit = UniversalFit.estimate(loc, d, Drift.polynomial(1), VariogramOptions.withDefaults()
                 .withMaxLag(0.5), VariogramFitOptions.withDefaults(), KrigingOptions.withDefaults()
                 .withNeighbourhood(Neighbourhood.nearest(30)), 10);
@@ -34,6 +39,6 @@ class UniversalFitTest {
         double range = fit.fit().model().structures().get(0).range();
         assertEquals(0.2, range, 0.1, "residual range");
         KrigingPrediction p = fit.kriging().predict(0.5, 0.5);
-        assertEquals(VariogramFittingTest.K10, p.density().space());
+        assertEquals(TestData.K10, p.density().space());
     }
 }

@@ -1,10 +1,12 @@
-package io.densa.spatial;
+package io.densa.spatial.variogram;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.spatial.Locations;
+import io.densa.spatial.TestData;
 import java.util.List;
 import org.junit.jupiter.api.Test;
 
@@ -16,7 +18,7 @@ import org.junit.jupiter.api.Test;
  * practice).
  */
 class VariogramFittingTest {
-    static final BayesSpace K10 = BayesSpace.polynomials(0, 1, 10);
+    private static final BayesSpace K10 = TestData.K10;
     static final BayesSpace K40 = BayesSpace.steps(0, 1, 41);
 
     @Test
