@@ -706,10 +706,20 @@ public final class BayesSpace {
     }
 
     /** Requires that a density belongs to this space. */
-    void requireSame(BayesSpace other) {
+    /**
+     * Requires {@code other} to be this space (equal domain, reference and basis): the one check
+     * for values from different spaces across the library.
+     *
+     * @param other the space of the argument
+     * @param what  names the argument in the message ("density", "response", "predictor 0", …)
+     * @throws IllegalArgumentException "&lt;what&gt; lives in &lt;other&gt; but &lt;this&gt; is
+     *                                  required; use space.project(density) to move a density into
+     *                                  another space"
+     */
+    public void requireSame(BayesSpace other, String what) {
         if (other != this && !equals(other)) {
-            throw new IllegalArgumentException("densities from different spaces: " + this + " and " + other
-                    + " (use space.project(density) to move one into the other)");
+            throw new IllegalArgumentException(what + " lives in " + other + " but " + this + " is required; use"
+                    + " space.project(density) to move a density into another space");
         }
     }
 

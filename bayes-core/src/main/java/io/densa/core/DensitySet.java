@@ -125,7 +125,7 @@ public final class DensitySet {
         double[] d = new double[densities.size() * k];
         for (int i = 0; i < densities.size(); i++) {
             Density f = densities.get(i);
-            space.requireSame(f.space());
+            space.requireSame(f.space(), "density " + i);
             System.arraycopy(f.coordinatesInternal(), 0, d, i * k, k);
         }
         return fromRowMajor(space, d, densities.size(), ids, true);
@@ -330,7 +330,7 @@ public final class DensitySet {
      * @throws IllegalArgumentException if a sum of coordinates leaves the double range
      */
     public DensitySet perturb(Density d) {
-        space.requireSame(d.space());
+        space.requireSame(d.space(), "density");
         double[] neg = d.coordinatesInternal().clone();
         double dMax = 0;
         for (int j = 0; j < k; j++) {
@@ -530,7 +530,7 @@ public final class DensitySet {
      * one has them the other's rows get "#i" labels.
      */
     public DensitySet concat(DensitySet other) {
-        space.requireSame(other.space);
+        space.requireSame(other.space, "density set");
         double[] out = Arrays.copyOf(data, data.length + other.data.length);
         System.arraycopy(other.data, 0, out, data.length, other.data.length);
         String[] newIds = null;

@@ -172,10 +172,7 @@ public final class Kriging {
         this.centre = new double[k];
         if (type == Type.SIMPLE) {
             Objects.requireNonNull(mean, "mean");
-            if (!mean.space().equals(space)) {
-                throw new IllegalArgumentException("the mean density's space " + mean.space()
-                        + " differs from the data's space " + space);
-            }
+            space.requireSame(mean.space(), "the mean density");
             System.arraycopy(mean.coordinates(), 0, centre, 0, k);
         }
         this.index = NeighbourIndex.of(loc);

@@ -79,7 +79,7 @@ class BadInputTest {
         matches("the drift has 1 covariate\\(s\\); the target supplies none", assertThrows(
                 IllegalArgumentException.class, () -> uk.predict(0.5, 0.5)));
         BayesSpace other = BayesSpace.polynomials(0, 2, 3);
-        matches("the mean density's space .* differs from the data's space .*", assertThrows(
+        matches("the mean density lives in .* but .* is required; use space.project.*", assertThrows(
                 IllegalArgumentException.class, () -> Kriging.simple(six, data, other.neutral(), model,
                         KrigingOptions.withDefaults())));
         matches("simple kriging needs a bounded variogram model, got .*power.*", assertThrows(

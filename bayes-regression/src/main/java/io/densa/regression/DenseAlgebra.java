@@ -2,10 +2,8 @@ package io.densa.regression;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
-import io.densa.core.DensitySet;
+import io.densa.core.SolveDiagnostics;
 import io.densa.core.internal.Cholesky;
-import io.densa.core.internal.SampleQuantiles;
-import io.densa.core.internal.Seeds;
 import java.util.Arrays;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.CommonOps_DDRM;
@@ -13,13 +11,12 @@ import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
 import org.ejml.interfaces.decomposition.EigenDecomposition_F64;
 import org.ejml.interfaces.decomposition.QRDecomposition;
 
-/** Small dense linear-algebra helpers on row-major arrays (package-private). */
-final class Linear {
-    private Linear() {
-    }
-
-    /** Diagnostics of a failed factorisation. */
-    record SolveDiagnostics(String system, int size, double smallestPivotRatio) {
+/**
+ * Dense linear algebra on row-major arrays for the regression models (package-private): the
+ * symmetric eigenproblem, Cholesky solves of the normal equations, least squares by QR, products.
+ */
+final class DenseAlgebra {
+    private DenseAlgebra() {
     }
 
     /** Eigen-decomposition of a symmetric matrix: values descending, vectors as columns. */
@@ -238,15 +235,6 @@ final class Linear {
         return new LeastSquares(x, g);
     }
 
-    /** Inverse of a symmetric positive definite matrix. */
-    static double[] inverseSpd(double[] a, int p, String what) {
-        double[] id = new double[p * p];
-        for (int i = 0; i < p; i++) {
-            id[i * p + i] = 1.0;
-        }
-        return solveSpd(a, p, id, p, what);
-    }
-
     /** C (n × m) = A (n × k) B (k × m), all row-major. */
     static double[] mult(double[] a, int n, int k, double[] b, int m) {
         DMatrixRMaj c = new DMatrixRMaj(n, m);
@@ -293,102 +281,4 @@ final class Linear {
         return out;
     }
 
-    /** Copies of grid points, each checked to be finite. */
-    static double[] grid(double[] xs, String name) {
-        if (xs == null || xs.length == 0) {
-            throw new IllegalArgumentException(name + " must contain at least one point");
-        }
-        for (int i = 0; i < xs.length; i++) {
-            if (!Double.isFinite(xs[i])) {
-                throw new IllegalArgumentException(name + "[" + i + "] is not finite: " + xs[i]);
-            }
-        }
-        return xs.clone();
-    }
-
-    /**
-     * Copies of evaluation points, each checked to be finite and inside the space's domain
-     * (naming the offending index).
-     */
-    static double[] grid(BayesSpace space, double[] xs, String name) {
-        double[] g = grid(xs, name);
-        for (int i = 0; i < g.length; i++) {
-            if (!(g[i] >= space.lower() && g[i] <= space.upper())) {
-                throw new IllegalArgumentException(name + "[" + i + "] = " + g[i] + " is outside the domain ["
-                        + space.lower() + ", " + space.upper() + "]; evaluation points must lie in the domain");
-            }
-        }
-        return g;
-    }
-
-    /** Requires two spaces to be equal, naming both. */
-    static void sameSpace(BayesSpace expected, BayesSpace got, String what) {
-        if (!expected.equals(got)) {
-            throw new IllegalArgumentException(what + " lives in " + got + " but the model expects " + expected);
-        }
-    }
-
-    /**
-     * Largest accepted |value| of data whose squares are summed (n·K of them for n densities of
-     * dimension K): 1e150 / √(count), so that residual sums of squares, R², variances and
-     * cross-validation errors stay within the double range.
-     */
-    static double magnitudeLimit(long count) {
-        return 1e150 / Math.sqrt(Math.max(1, count));
-    }
-
-    /**
-     * Requires a set's coordinates to be at most {@link #magnitudeLimit} in magnitude.
-     *
-     * @throws IllegalArgumentException naming the row and column of the largest value
-     */
-    static void requireModerate(DensitySet set, String what) {
-        requireModerate(set.coordinatesRowMajor(), set.dimension(), what + " coordinate");
-    }
-
-    /** The same for a row-major array of values with {@code width} columns. */
-    static void requireModerate(double[] values, int width, String what) {
-        double limit = magnitudeLimit(values.length);
-        int at = -1;
-        double big = 0;
-        for (int i = 0; i < values.length; i++) {
-            if (Math.abs(values[i]) > big) {
-                big = Math.abs(values[i]);
-                at = i;
-            }
-        }
-        if (!(big <= limit)) {
-            throw new IllegalArgumentException(what + " (row " + at / width + ", column " + at % width + ") is "
-                    + values[at] + "; the regression sums squares of " + values.length + " such values, so magnitudes"
-                    + " up to " + String.format("%.3g", limit) + " are accepted (power(α) with a small α shrinks"
-                    + " densities towards the reference)");
-        }
-    }
-
-    /** Requires a set to have n rows. */
-    static void rows(DensitySet set, int n, String what) {
-        if (set.size() != n) {
-            throw new IllegalArgumentException(what + " has " + set.size() + " rows, expected " + n
-                    + " (one per observation)");
-        }
-    }
-
-    /** Seeded permutation of 0..n−1 (the library's Fisher–Yates shuffle, {@link Seeds#shuffle}). */
-    static int[] permutation(int n, java.util.SplittableRandom rnd) {
-        return Seeds.permutation(n, rnd);
-    }
-
-    /** Fold index of every row for k-fold cross-validation (balanced sizes, seeded). */
-    static int[] folds(int n, int k, long seed) {
-        return Seeds.folds(n, k, seed);
-    }
-
-    /**
-     * Sample quantile of a sorted array by linear interpolation between order statistics
-     * (definition 7 of Hyndman &amp; Fan (1996), Sample quantiles in statistical packages, Am. Stat.
-     * 50(4) — from memory): x_(⌊h⌋) + (h − ⌊h⌋)(x_(⌊h⌋+1) − x_(⌊h⌋)) with h = (n − 1)p, 0-based.
-     */
-    static double quantileSorted(double[] sorted, double p) {
-        return SampleQuantiles.sorted(sorted, p);
-    }
 }
