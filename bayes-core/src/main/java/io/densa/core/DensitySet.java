@@ -588,7 +588,7 @@ public final class DensitySet {
 
     /**
      * Lebesgue pdfs of every density on a grid, written row-major into {@code out} (n × m): one
-     * matrix product C Eᵀ (E the basis at the grid, blocked by {@link Kernels#multiplyRows}), then
+     * matrix product C Eᵀ (E the basis at the grid, blocked by {@code Kernels.multiplyRows}), then
      * one pass of exp(clr − log Z_i) times the reference density. Points outside [a, b] give 0,
      * as {@link Density#pdf(double)} does. The log normalisers log Z_i are computed on the first
      * call and cached.

@@ -17,6 +17,10 @@ import org.junit.jupiter.api.Test;
  * C(h) = 10 e^{−0.3h}, i.e. exponential(sill 10, practical range 10) in our convention.
  */
 public class OrdinaryKrigingReferenceTest {
+    /** Public (with its data) for the edge-case tests of the spatial package; JUnit creates instances. */
+    public OrdinaryKrigingReferenceTest() {
+    }
+
     /** Sample locations. */
     public static final double[][] XY = {{61, 139}, {63, 140}, {64, 129}, {68, 128}, {71, 140}, {73, 141}, {75, 128}};
     static final double[] V = {477, 696, 227, 646, 606, 791, 783};
