@@ -16,6 +16,7 @@ import org.jfree.chart.JFreeChart;
 import org.jfree.chart.axis.NumberAxis;
 import org.jfree.chart.block.BlockBorder;
 import org.jfree.chart.plot.CombinedDomainXYPlot;
+import org.jfree.chart.plot.SeriesRenderingOrder;
 import org.jfree.chart.plot.ValueMarker;
 import org.jfree.chart.plot.XYPlot;
 import org.jfree.chart.renderer.xy.ClusteredXYBarRenderer;
@@ -251,8 +252,20 @@ public final class Chart implements Figure {
         XYSeriesCollection data = new XYSeriesCollection();
         XYLineAndShapeRenderer renderer = new XYLineAndShapeRenderer();
         renderer.setDrawSeriesLineAsPath(true);
-        for (int s = 0; s < series.size(); s++) {
-            Series sr = series.get(s);
+        // lines first, points on top of them
+        List<Series> ordered = new ArrayList<>();
+        for (Series sr : series) {
+            if (sr.style() != Style.POINTS) {
+                ordered.add(sr);
+            }
+        }
+        for (Series sr : series) {
+            if (sr.style() == Style.POINTS) {
+                ordered.add(sr);
+            }
+        }
+        for (int s = 0; s < ordered.size(); s++) {
+            Series sr = ordered.get(s);
             XYSeries xy = new XYSeries(s + ":" + sr.name(), false, true);
             for (int i = 0; i < sr.x.length; i++) {
                 double px = xAxis.toPlot(sr.x[i]);
@@ -285,17 +298,19 @@ public final class Chart implements Figure {
                 }
             }
         }
-        renderer.setLegendItemLabelGenerator((dataset, s) -> series.get(s).name());
+        renderer.setLegendItemLabelGenerator((dataset, s) -> ordered.get(s).name());
         NumberAxis x = axis(xAxis);
         NumberAxis y = axis(yAxis);
         XYPlot plot = new XYPlot(data, null, y, renderer);
         style(plot);
+        plot.setSeriesRenderingOrder(SeriesRenderingOrder.FORWARD);
         for (Marker m : markers) {
             ValueMarker vm = new ValueMarker(m.x(), m.colour(), new BasicStroke(1.6f, BasicStroke.CAP_BUTT,
                     BasicStroke.JOIN_ROUND, 1f, new float[] {6f, 4f}, 0f));
             vm.setLabel(m.label());
             vm.setLabelFont(TICKS);
             vm.setLabelPaint(m.colour());
+            vm.setLabelBackgroundColor(new Color(255, 255, 255, 220));
             vm.setLabelAnchor(RectangleAnchor.TOP_RIGHT);
             vm.setLabelTextAnchor(TextAnchor.TOP_LEFT);
             vm.setLabelOffset(new RectangleInsets(4, 4, 4, 4));

@@ -391,8 +391,8 @@ final class MapCanvas {
         String end = Numbers.significant(len, 3) + " " + lengthUnit;
         g.drawString(end, x + w - 6, y + 22);
         for (int p = 0; p < panels; p++) {
-            int ax = x0(p) + plotW - 22;
-            int ay = top + 12;
+            int ax = x0(p) + plotW - 14;
+            int ay = top + plotH + 10;
             Path2D.Double arrow = new Path2D.Double();
             arrow.moveTo(ax, ay);
             arrow.lineTo(ax - 8, ay + 22);
@@ -411,7 +411,7 @@ final class MapCanvas {
             g.setStroke(new BasicStroke(1f));
             g.draw(right);
             g.setFont(LABEL_BOLD);
-            g.drawString("N", ax - 5, ay + 38);
+            g.drawString("N", ax - 22, ay + 18);
         }
     }
 
