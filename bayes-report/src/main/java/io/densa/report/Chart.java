@@ -109,9 +109,10 @@ public final class Chart implements Figure {
     private final List<String> subtitles;
     private final int width;
     private final int height;
+    private final boolean yFromZero;
 
     private Chart(String title, Axis xAxis, Axis yAxis, List<Series> series, List<Marker> markers,
-            List<Counts> counts, String countsLabel, List<String> subtitles, int width, int height) {
+            List<Counts> counts, String countsLabel, List<String> subtitles, int width, int height, boolean yFromZero) {
         this.title = title;
         this.xAxis = xAxis;
         this.yAxis = yAxis;
@@ -122,6 +123,7 @@ public final class Chart implements Figure {
         this.subtitles = List.copyOf(subtitles);
         this.width = width;
         this.height = height;
+        this.yFromZero = yFromZero;
     }
 
     /** An empty chart with a title and two axes, 900 × 560 pixels. */
@@ -129,11 +131,11 @@ public final class Chart implements Figure {
         Objects.requireNonNull(title, "title");
         Objects.requireNonNull(x, "x");
         Objects.requireNonNull(y, "y");
-        return new Chart(title, x, y, List.of(), List.of(), List.of(), "", List.of(), 900, 560);
+        return new Chart(title, x, y, List.of(), List.of(), List.of(), "", List.of(), 900, 560, false);
     }
 
     private Chart withSeries(List<Series> s) {
-        return new Chart(title, xAxis, yAxis, s, markers, counts, countsLabel, subtitles, width, height);
+        return new Chart(title, xAxis, yAxis, s, markers, counts, countsLabel, subtitles, width, height, yFromZero);
     }
 
     /** With one more series. */
@@ -175,7 +177,7 @@ public final class Chart implements Figure {
         }
         List<Marker> m = new ArrayList<>(markers);
         m.add(new Marker(label, x, Palette.BRICK));
-        return new Chart(title, xAxis, yAxis, series, m, counts, countsLabel, subtitles, width, height);
+        return new Chart(title, xAxis, yAxis, series, m, counts, countsLabel, subtitles, width, height, yFromZero);
     }
 
     /**
@@ -201,14 +203,14 @@ public final class Chart implements Figure {
         }
         List<Counts> c = new ArrayList<>(counts);
         c.add(new Counts(name, x.clone(), v, colour));
-        return new Chart(title, xAxis, yAxis, series, markers, c, label, subtitles, width, height);
+        return new Chart(title, xAxis, yAxis, series, markers, c, label, subtitles, width, height, yFromZero);
     }
 
     /** A line of text under the title. */
     public Chart subtitle(String text) {
         List<String> s = new ArrayList<>(subtitles);
         s.add(Objects.requireNonNull(text, "text"));
-        return new Chart(title, xAxis, yAxis, series, markers, counts, countsLabel, s, width, height);
+        return new Chart(title, xAxis, yAxis, series, markers, counts, countsLabel, s, width, height, yFromZero);
     }
 
     /** The size of the image when rendered alone, in pixels (each in [200, 4000]). */
@@ -216,7 +218,12 @@ public final class Chart implements Figure {
         if (w < 200 || w > 4000 || h < 200 || h > 4000) {
             throw new IllegalArgumentException("chart size must be in [200, 4000] pixels, got " + w + " x " + h);
         }
-        return new Chart(title, xAxis, yAxis, series, markers, counts, countsLabel, subtitles, w, h);
+        return new Chart(title, xAxis, yAxis, series, markers, counts, countsLabel, subtitles, w, h, yFromZero);
+    }
+
+    /** The same chart with a y axis that always includes zero (e.g. variograms, where the nugget is the gap at 0). */
+    public Chart yFromZero() {
+        return new Chart(title, xAxis, yAxis, series, markers, counts, countsLabel, subtitles, width, height, true);
     }
 
     /** The series, in drawing order. */
@@ -301,6 +308,7 @@ public final class Chart implements Figure {
         renderer.setLegendItemLabelGenerator((dataset, s) -> ordered.get(s).name());
         NumberAxis x = axis(xAxis);
         NumberAxis y = axis(yAxis);
+        y.setAutoRangeIncludesZero(yFromZero);
         XYPlot plot = new XYPlot(data, null, y, renderer);
         style(plot);
         plot.setSeriesRenderingOrder(SeriesRenderingOrder.FORWARD);

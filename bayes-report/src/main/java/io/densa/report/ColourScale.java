@@ -63,7 +63,7 @@ public final class ColourScale {
         double step = Numbers.tickStep(lo, hi, 5);
         double a = Math.floor(lo / step + 1e-9) * step;
         double b = Math.ceil(hi / step - 1e-9) * step;
-        return new ColourScale(ramp, a, b, false, quantity, unit, Numbers.ticks(a, b, 5));
+        return new ColourScale(ramp, a, b, false, quantity, unit, stepTicks(a, b, step));
     }
 
     /** A linear scale on the sequential ramp over the finite range of {@code values} (0..1 if none). */
@@ -104,7 +104,26 @@ public final class ColourScale {
         }
         double step = Numbers.tickStep(0, absMax, 3);
         double m = Math.ceil(absMax / step - 1e-9) * step;
-        return new ColourScale(ColourRamp.diverging(), -m, m, false, quantity, unit, Numbers.ticks(-m, m, 5));
+        return new ColourScale(ColourRamp.diverging(), -m, m, false, quantity, unit, stepTicks(-m, m, step));
+    }
+
+    /**
+     * Multiples of {@code step} from a to b (both multiples of it); when there would be more than
+     * eight, every k-th one with k the smallest divisor of the number of steps that leaves at most
+     * eight, so that both ends stay labelled.
+     */
+    private static double[] stepTicks(double a, double b, double step) {
+        int steps = (int) Math.round((b - a) / step);
+        int stride = 1;
+        while (steps / stride + 1 > 8 || steps % stride != 0) {
+            stride++;
+        }
+        double[] out = new double[steps / stride + 1];
+        for (int k = 0; k < out.length; k++) {
+            out[k] = new java.math.BigDecimal(a + k * stride * step).round(new java.math.MathContext(12))
+                    .doubleValue();
+        }
+        return out;
     }
 
     /**

@@ -147,7 +147,7 @@ public final class Figures {
             h[i] = maxLag * (i + 1) / h.length; // from just above 0: the nugget is a jump at h = 0
         }
         Chart c = Chart.of(title, Axis.linear("distance h", lengthUnit),
-                Axis.linear("semivariance γ(h)", "squared B2 norm"));
+                Axis.linear("semivariance γ(h)", "squared B2 norm")).yFromZero();
         for (int k = 0; k < layers.size(); k++) {
             VariogramLayer l = layers.get(k);
             java.awt.Color colour = Palette.categorical(k);

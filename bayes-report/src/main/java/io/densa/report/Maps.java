@@ -98,7 +98,7 @@ public final class Maps {
 
     /**
      * A local-cluster map of local Moran's I in Densa's own visual language. The fill is the
-     * local statistic I_i on the diverging ramp (brick: a unit like its neighbours; slate: a unit
+     * local statistic I_i on the diverging ramp (brick: a unit like its neighbours; blue: a unit
      * unlike them); units significant at false discovery rate {@code fdr} carry a heavy outline,
      * and their type is a line pattern: rising lines for a raised unit among raised neighbours,
      * falling lines for a lowered unit among lowered neighbours, horizontal lines for a raised unit
@@ -162,7 +162,7 @@ public final class Maps {
         List<MapFigure.Layer> layers = List.of((c, p) -> {
             c.fill(p, frame.units(), fills, BORDER, 0.6f);
             for (int i = 0; i < n; i++) {
-                c.hatch(p, frame.units().get(i), hatch[i], new Color(0x23, 0x26, 0x2b, 210));
+                c.hatch(p, frame.units().get(i), hatch[i], hatchColour(fills[i]));
             }
             c.stroke(p, sig, Color.WHITE, 4.4f);
             c.stroke(p, sig, Palette.TEXT, 2.4f);
@@ -171,7 +171,7 @@ public final class Maps {
         Color swatch = ColourRamp.diverging().colour(0.62);
         List<MapFigure.LegendItem> legend = new ArrayList<>();
         legend.add(c -> c.colourBar(scale));
-        legend.add(c -> c.legendNote("Brick: like its neighbours; slate: unlike them. Colours saturate at "
+        legend.add(c -> c.legendNote("Brick: like its neighbours; blue: unlike them. Colours saturate at "
                 + Numbers.significant(scale.upper(), 2) + "."));
         legend.add(MapCanvas::legendGap);
         legend.add(c -> c.legendHeading("Local pattern, heavy outline where the Benjamini–Hochberg q ≤ " + q));
@@ -187,6 +187,11 @@ public final class Maps {
                     MapCanvas.Hatch.NONE, Palette.MUTED, 0.8f));
         }
         return MapFigure.single(frame, title, layers, legend);
+    }
+
+    /** Dark lines on light fills, light lines on dark fills, so that the pattern reads on any fill. */
+    static Color hatchColour(Color fill) {
+        return Oklab.of(fill)[0] < 0.6 ? new Color(255, 255, 255, 225) : new Color(0x23, 0x26, 0x2b, 215);
     }
 
     /** Line patterns of the four significant local-pattern classes. */
