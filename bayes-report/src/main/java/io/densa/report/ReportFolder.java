@@ -112,9 +112,15 @@ final class ReportFolder {
     }
 
     private static String reason(Exception e) {
-        String m = e.getMessage();
-        String kind = e.getClass().getSimpleName().replace("Exception", "").replaceAll("([a-z])([A-Z])", "$1 $2")
-                .toLowerCase(java.util.Locale.ROOT);
-        return m == null ? kind : kind + " (" + m + ")";
+        if (e instanceof java.nio.file.AccessDeniedException) {
+            return "permission denied";
+        }
+        if (e instanceof java.nio.file.NoSuchFileException) {
+            return "the file system refuses the path (no such file or folder)";
+        }
+        if (e instanceof java.nio.file.FileSystemException f && f.getReason() != null) {
+            return f.getReason().toLowerCase(java.util.Locale.ROOT);
+        }
+        return e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
     }
 }
