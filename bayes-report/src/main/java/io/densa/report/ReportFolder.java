@@ -46,14 +46,6 @@ final class ReportFolder {
         } catch (IOException | SecurityException e) {
             throw new IllegalArgumentException("cannot create the report folder " + dir + ": " + reason(e));
         }
-        Path probe = dir.resolve(".densa-write-check");
-        try {
-            Files.deleteIfExists(probe);
-            Files.createFile(probe);
-            Files.delete(probe);
-        } catch (IOException | SecurityException e) {
-            throw new IllegalArgumentException("cannot write into the report folder " + dir + ": " + reason(e));
-        }
         Path manifest = dir.resolve(MANIFEST);
         List<String> others = new ArrayList<>();
         try (DirectoryStream<Path> entries = Files.newDirectoryStream(dir)) {
@@ -73,8 +65,10 @@ final class ReportFolder {
                         + (others.size() > 5 ? " and " + (others.size() - 5) + " more" : "") + "); give a new or "
                         + "empty folder so that no file of yours is overwritten");
             }
+            probe(dir);
             return List.of();
         }
+        probe(dir);
         try {
             List<String> listed = new ArrayList<>();
             for (String line : Files.readAllLines(manifest, StandardCharsets.UTF_8)) {
@@ -86,6 +80,15 @@ final class ReportFolder {
             return listed;
         } catch (IOException e) {
             throw new IllegalArgumentException("cannot read " + manifest + ": " + reason(e));
+        }
+    }
+
+    /** Checks that the folder takes a new file: creates a fresh uniquely named file and deletes it. */
+    private static void probe(Path dir) {
+        try {
+            Files.delete(Files.createTempFile(dir, ".densa-write-check", ".tmp"));
+        } catch (IOException | SecurityException e) {
+            throw new IllegalArgumentException("cannot write into the report folder " + dir + ": " + reason(e));
         }
     }
 
