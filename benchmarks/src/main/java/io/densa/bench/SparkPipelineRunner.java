@@ -1,0 +1,138 @@
+package io.densa.bench;
+
+import static org.apache.spark.sql.functions.col;
+import static org.apache.spark.sql.functions.collect_list;
+import static org.apache.spark.sql.functions.floor;
+import static org.apache.spark.sql.functions.greatest;
+import static org.apache.spark.sql.functions.least;
+import static org.apache.spark.sql.functions.lit;
+import static org.apache.spark.sql.functions.pmod;
+import static org.apache.spark.sql.functions.randn;
+import static org.apache.spark.sql.functions.struct;
+import static org.apache.spark.sql.functions.xxhash64;
+
+import io.densa.core.BatchEstimate;
+import io.densa.core.BayesSpace;
+import io.densa.core.DensitySet;
+import io.densa.regression.Fpca;
+import io.densa.spark.EstimatorSpec;
+import io.densa.spark.FpcaSpec;
+import io.densa.spark.SparkDensities;
+import io.densa.spark.SparkFpca;
+import io.densa.spark.SpaceSpec;
+import java.util.List;
+import java.util.Locale;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.SparkSession;
+
+/**
+ * Runner (a plain main, not JMH: a Spark local session needs the JVM options of the bayes-spark module
+ * and a class path of some 200 jars that JMH's forked, shaded-jar runs do not carry) of the pipeline
+ * events → densities → FPCA → scores in Spark local mode, and of the same work on one machine without
+ * Spark from the same counts, for the per-unit overhead.
+ *
+ * <p>Events are invented in Spark: event i goes to unit hash(i) mod U and has value clamp(μ_u + σ_u
+ * N(0, 1), 0, 10) with μ_u, σ_u from the unit number and N from Spark's seeded {@code randn} over a
+ * fixed 16 partitions, so local[1] and local[2] see identical data. Space: cubic splines on [0, 10]
+ * with 8 interior knots (K = 11); 20 bins; the estimator's defaults (λ per unit by the marginal
+ * likelihood).
+ *
+ * <p>Arguments: master (local[1] or local[2]), events, units, rounds. Prints one line per stage and
+ * round with wall times; run it with the bayes-spark module's JVM options (see benchmarks/RESULTS.md).
+ */
+public final class SparkPipelineRunner {
+    private SparkPipelineRunner() {
+    }
+
+    public static void main(String[] args) {
+        String master = args.length > 0 ? args[0] : "local[2]";
+        long events = args.length > 1 ? Long.parseLong(args[1]) : 10_000_000L;
+        int units = args.length > 2 ? Integer.parseInt(args[2]) : 100_000;
+        int rounds = args.length > 3 ? Integer.parseInt(args[3]) : 2;
+        int cores = Integer.parseInt(master.replaceAll("\\D", ""));
+        SparkSession spark = SparkSession.builder().master(master).appName("densa-bench")
+                .config("spark.ui.enabled", "false").config("spark.sql.shuffle.partitions", String.valueOf(4 * cores))
+                .config("spark.driver.host", "127.0.0.1").config("spark.driver.bindAddress", "127.0.0.1")
+                .config("spark.sql.adaptive.enabled", "false").getOrCreate();
+        spark.sparkContext().setLogLevel("ERROR");
+        BayesSpace space = BayesSpace.splines(0, 10, 4, 8);
+        double[] edges = new double[21];
+        for (int j = 0; j <= 20; j++) {
+            edges[j] = 0.5 * j;
+        }
+        EstimatorSpec spec = EstimatorSpec.of(SpaceSpec.of(space), edges);
+        System.out.printf(Locale.ROOT, "machine: %s; master %s; %d events, %d units, K = %d, %d bins%n",
+                BenchConfig.machine(), master, events, units, space.dimension(), edges.length - 1);
+        Dataset<Row> ev = spark.range(0, events, 1, 16)
+                .withColumn("unit", pmod(xxhash64(col("id")), lit(units)))
+                .withColumn("mu", lit(2.0).plus(lit(6.0).multiply(pmod(col("unit").multiply(0.6180339887), lit(1.0)))))
+                .withColumn("sigma", lit(0.7).plus(lit(0.1).multiply(pmod(col("unit"), lit(13)))))
+                .withColumn("value", least(lit(10.0), greatest(lit(0.0),
+                        col("mu").plus(col("sigma").multiply(randn(7))))))
+                .select("unit", "value");
+        for (int r = 0; r < rounds; r++) {
+            long t0 = System.nanoTime();
+            Dataset<Row> dens = SparkDensities.of(spec).fromEvents(ev);
+            long t1 = System.nanoTime();
+            FpcaSpec fpca = SparkFpca.fit(dens, "coordinates", spec.space());
+            long t2 = System.nanoTime();
+            SparkFpca.scores(dens, "coordinates", fpca, 3, "scores").write().format("noop").mode("overwrite").save();
+            long t3 = System.nanoTime();
+            System.out.printf(Locale.ROOT, "spark round %d: densities %.2f s, fpca %.2f s, scores %.2f s, total %.2f s;"
+                    + " %.1f us/unit%n", r, s(t1 - t0), s(t2 - t1), s(t3 - t2), s(t3 - t0), 1e-3 * (t3 - t0) / units);
+            if (r == rounds - 1) {
+                single(spec, ev, dens, cores);
+            }
+            dens.unpersist();
+        }
+        spark.stop();
+    }
+
+    /**
+     * The same work from the same counts on one machine, without Spark: the counts per unit are made
+     * by Spark (not timed; floor(2x) is the bin of x for edges 0, 0.5, …, 10, as Bins.indexOf) and
+     * collected, then fitted, analysed and scored by the library alone; the Spark coordinates of the
+     * first units are checked against the single-machine ones.
+     */
+    private static void single(EstimatorSpec spec, Dataset<Row> events, Dataset<Row> dens, int cores) {
+        List<Row> rows = events.withColumn("bin", least(lit(19L), floor(col("value").multiply(2))))
+                .groupBy("unit", "bin").count().groupBy("unit")
+                .agg(collect_list(struct(col("bin"), col("count"))).as("cells")).orderBy("unit").collectAsList();
+        int n = rows.size();
+        double[][] c = new double[n][20];
+        String[] ids = new String[n];
+        for (int i = 0; i < n; i++) {
+            ids[i] = String.valueOf(rows.get(i).getLong(0));
+            for (Row cell : rows.get(i).<Row>getList(1)) {
+                c[i][(int) cell.getLong(0)] = cell.getLong(1);
+            }
+        }
+        long t0 = System.nanoTime();
+        BatchEstimate est = spec.estimator().withParallel(cores > 1).fitAll(spec.edges(), c, ids);
+        long t1 = System.nanoTime();
+        DensitySet set = est.densities();
+        Fpca f = Fpca.fit(set);
+        long t2 = System.nanoTime();
+        double z = f.scores(set, 3).get(0, 0);
+        long t3 = System.nanoTime();
+        List<Row> first = dens.orderBy("unit").limit(3).collectAsList();
+        for (Row r : first) {
+            int i = java.util.Arrays.asList(ids).indexOf(r.getString(0));
+            List<Double> l = r.getList(1);
+            for (int j = 0; j < l.size(); j++) {
+                if (l.get(j) != set.coordinate(i, j)) {
+                    throw new IllegalStateException("unit " + ids[i] + ": Spark and single-machine coordinates differ");
+                }
+            }
+        }
+        System.out.printf(Locale.ROOT, "single machine (%s): densities %.2f s, fpca %.3f s, scores %.3f s, total %.2f s;"
+                + " %.1f us/unit (first score %.4f; Spark coordinates of 3 units checked equal)%n",
+                cores > 1 ? "common pool" : "serial", s(t1 - t0), s(t2 - t1), s(t3 - t2), s(t3 - t0),
+                1e-3 * (t3 - t0) / n, z);
+    }
+
+    private static double s(long nanos) {
+        return nanos * 1e-9;
+    }
+}
