@@ -184,7 +184,7 @@ public final class SparkScoring {
         }
         v[r.length()] = adj;
         v[r.length() + 1] = flagged;
-        v[r.length() + 2] = ex;
+        v[r.length() + 2] = ex.toArray(new Row[0]);
         return RowFactory.create(v);
     }
 

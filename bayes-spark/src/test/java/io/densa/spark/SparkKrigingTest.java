@@ -148,7 +148,7 @@ class SparkKrigingTest {
         try (ImageInputStream in = ImageIO.createImageInputStream(f)) {
             ImageReader r = ImageIO.getImageReadersByFormatName("tiff").next();
             r.setInput(in);
-            return r.readRaster(0, null);
+            return r.read(0).getRaster();
         }
     }
 
