@@ -46,6 +46,10 @@ public final class SparkPipelineRunner {
     }
 
     public static void main(String[] args) {
+        if (args.length > 0 && (args[0].equals("grid") || args[0].equals("variogram"))) {
+            spatial(args);
+            return;
+        }
         String master = args.length > 0 ? args[0] : "local[2]";
         long events = args.length > 1 ? Long.parseLong(args[1]) : 10_000_000L;
         int units = args.length > 2 ? Integer.parseInt(args[2]) : 100_000;
@@ -130,6 +134,72 @@ public final class SparkPipelineRunner {
                 + " %.1f us/unit (first score %.4f; Spark coordinates of 3 units checked equal)%n",
                 cores > 1 ? "common pool" : "serial", s(t1 - t0), s(t2 - t1), s(t3 - t2), s(t3 - t0),
                 1e-3 * (t3 - t0) / n, z);
+    }
+
+    /**
+     * Per-task rates of the spatial operations: {@code grid master side stations} kriges a side × side
+     * grid (ordinary, exponential model, 32 nearest, variance and P(X &gt; t) per cell, tiles of 64) from
+     * invented stations into Spark's no-op sink, and the same grid with {@code Kriging.predictGrid}
+     * on one machine; {@code variogram master n} the variogram of n invented locations by pair blocks
+     * and on one machine. K = 11 in both.
+     */
+    private static void spatial(String[] args) {
+        String master = args[1];
+        int cores = Integer.parseInt(master.replaceAll("\\D", ""));
+        SparkSession spark = SparkSession.builder().master(master).appName("densa-bench")
+                .config("spark.ui.enabled", "false").config("spark.driver.host", "127.0.0.1")
+                .config("spark.driver.bindAddress", "127.0.0.1").getOrCreate();
+        spark.sparkContext().setLogLevel("ERROR");
+        BayesSpace space = BayesSpace.splines(0, 10, 4, 8);
+        int n = Integer.parseInt(args[args[0].equals("grid") ? 3 : 2]);
+        java.util.SplittableRandom rnd = new java.util.SplittableRandom(5);
+        double[] x = new double[n];
+        double[] y = new double[n];
+        double[][] c = new double[n][space.dimension()];
+        for (int i = 0; i < n; i++) {
+            x[i] = 100 * rnd.nextDouble();
+            y[i] = 100 * rnd.nextDouble();
+            for (int j = 0; j < c[i].length; j++) {
+                c[i][j] = Math.sin(x[i] / (10 + j)) + Math.cos(y[i] / 15) + 0.3 * (rnd.nextDouble() - 0.5);
+            }
+        }
+        io.densa.spatial.Locations loc = io.densa.spatial.Locations.planar(x, y);
+        DensitySet set = DensitySet.of(space, c);
+        io.densa.spark.LocationData data = io.densa.spark.LocationData.of(loc, set);
+        System.out.printf(Locale.ROOT, "machine: %s; master %s; %s%n", BenchConfig.machine(), master,
+                String.join(" ", args));
+        if (args[0].equals("grid")) {
+            int side = Integer.parseInt(args[2]);
+            io.densa.spark.KrigingSpec model = io.densa.spark.KrigingSpec.ordinary(data,
+                    io.densa.spatial.VariogramModel.exponential(0.5, 30).withNugget(0.02),
+                    io.densa.spatial.KrigingOptions.withDefaults().withNeighbourhood(
+                            io.densa.spatial.Neighbourhood.nearest(32)));
+            io.densa.spark.GridSpec grid = io.densa.spark.GridSpec.over(0, 0, 100, 100, side, side)
+                    .withTailProbabilities(5.0);
+            long t0 = System.nanoTime();
+            io.densa.spark.SparkKriging.cells(spark, model, grid, 4 * cores, false).write().format("noop")
+                    .mode("overwrite").save();
+            long t1 = System.nanoTime();
+            long[] cells = new long[1];
+            model.kriging().predictGrid(grid.grid(), grid.options().withParallel(cores > 1), t -> cells[0] += t.size());
+            long t2 = System.nanoTime();
+            double cellsTotal = (double) side * side;
+            System.out.printf(Locale.ROOT, "grid %d x %d: spark %.2f s (%.0f cells/s), single machine %.2f s (%.0f cells/s)%n",
+                    side, side, s(t1 - t0), cellsTotal / s(t1 - t0), s(t2 - t1), cells[0] / s(t2 - t1));
+        } else {
+            io.densa.spark.VariogramSpec opt = io.densa.spark.VariogramSpec.withDefaults();
+            long t0 = System.nanoTime();
+            io.densa.spatial.EmpiricalVariogram v = io.densa.spark.SparkVariogram.of(spark, data, opt, 4 * cores);
+            long t1 = System.nanoTime();
+            io.densa.spatial.EmpiricalVariogram w = io.densa.spatial.EmpiricalVariogram.of(loc, set,
+                    opt.options().withParallel(cores > 1));
+            long t2 = System.nanoTime();
+            double pairs = 0.5 * n * (n - 1.0);
+            System.out.printf(Locale.ROOT, "variogram n=%d: spark %.2f s (%.3g pairs/s), single machine %.2f s (%.3g"
+                    + " pairs/s); equal: %b%n", n, s(t1 - t0), pairs / s(t1 - t0), s(t2 - t1), pairs / s(t2 - t1),
+                    java.util.Arrays.equals(v.semivariances(), w.semivariances()));
+        }
+        spark.stop();
     }
 
     private static double s(long nanos) {
