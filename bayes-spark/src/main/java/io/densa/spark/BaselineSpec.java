@@ -102,8 +102,13 @@ public final class BaselineSpec implements Serializable {
     public Model model() {
         Model m = model;
         if (m == null) {
-            m = build();
-            model = m;
+            synchronized (this) { // one build per JVM even when several tasks start at once
+                m = model;
+                if (m == null) {
+                    m = build();
+                    model = m;
+                }
+            }
         }
         return m;
     }

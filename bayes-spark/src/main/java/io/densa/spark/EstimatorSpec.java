@@ -159,8 +159,13 @@ public final class EstimatorSpec implements Serializable {
     public PenalizedLikelihoodEstimator estimator() {
         PenalizedLikelihoodEstimator e = estimator;
         if (e == null) {
-            e = build();
-            estimator = e;
+            synchronized (this) { // one build per JVM even when several tasks start at once
+                e = estimator;
+                if (e == null) {
+                    e = build();
+                    estimator = e;
+                }
+            }
         }
         return e;
     }

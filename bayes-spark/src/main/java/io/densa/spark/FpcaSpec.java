@@ -45,8 +45,13 @@ public final class FpcaSpec implements Serializable {
     public Fpca fpca() {
         Fpca f = fpca;
         if (f == null) {
-            f = FpcaMoments.fit(space.space(), n, mean, covariance);
-            fpca = f;
+            synchronized (this) { // one build per JVM even when several tasks start at once
+                f = fpca;
+                if (f == null) {
+                    f = FpcaMoments.fit(space.space(), n, mean, covariance);
+                    fpca = f;
+                }
+            }
         }
         return f;
     }
