@@ -77,10 +77,11 @@ public final class SparkVariogram {
     }
 
     /**
-     * The variogram of a dataset of locations: x, y and coordinate columns, rows ordered by the id
-     * column (the result depends on the order of the locations in the last bits only through
-     * {@link EmpiricalVariogram#of}'s summation; sorting makes it independent of the partitioning).
-     * The locations are collected to the driver (n × (K + 2) numbers).
+     * The variogram of a dataset of locations: x, y and coordinate columns. The rows are sorted by the
+     * id column first: the sums of {@link EmpiricalVariogram#of} run in the order of the locations, so
+     * the last bits depend on that order, and sorting makes the result independent of the
+     * partitioning (equal to {@code EmpiricalVariogram.of} of the rows in id order). The locations
+     * are collected to the driver (n × (K + 2) numbers) and broadcast.
      */
     public static EmpiricalVariogram of(Dataset<Row> data, String id, String x, String y, String coordinates,
             boolean geographic, SpaceSpec space, VariogramSpec options, int tasks) {

@@ -76,6 +76,7 @@ public final class SparkPipelineRunner {
                         col("mu").plus(col("sigma").multiply(randn(7))))))
                 .select("unit", "value");
         for (int r = 0; r < rounds; r++) {
+            long c0 = cpu();
             long t0 = System.nanoTime();
             Dataset<Row> dens = SparkDensities.of(spec).fromEvents(ev);
             long t1 = System.nanoTime();
@@ -83,8 +84,10 @@ public final class SparkPipelineRunner {
             long t2 = System.nanoTime();
             SparkFpca.scores(dens, "coordinates", fpca, 3, "scores").write().format("noop").mode("overwrite").save();
             long t3 = System.nanoTime();
+            long c3 = cpu();
             System.out.printf(Locale.ROOT, "spark round %d: densities %.2f s, fpca %.2f s, scores %.2f s, total %.2f s;"
-                    + " %.1f us/unit%n", r, s(t1 - t0), s(t2 - t1), s(t3 - t2), s(t3 - t0), 1e-3 * (t3 - t0) / units);
+                    + " %.1f us/unit; process CPU %.2f s (%.2f cores used)%n", r, s(t1 - t0), s(t2 - t1), s(t3 - t2),
+                    s(t3 - t0), 1e-3 * (t3 - t0) / units, s(c3 - c0), (double) (c3 - c0) / (t3 - t0));
             if (r == rounds - 1) {
                 single(spec, ev, dens, cores);
             }
@@ -100,9 +103,14 @@ public final class SparkPipelineRunner {
      * first units are checked against the single-machine ones.
      */
     private static void single(EstimatorSpec spec, Dataset<Row> events, Dataset<Row> dens, int cores) {
+        long ac = cpu();
+        long a0 = System.nanoTime();
         List<Row> rows = events.withColumn("bin", least(lit(19L), floor(col("value").multiply(2))))
                 .groupBy("unit", "bin").count().groupBy("unit")
                 .agg(collect_list(struct(col("bin"), col("count"))).as("cells")).orderBy("unit").collectAsList();
+        long a1 = System.nanoTime();
+        System.out.printf(Locale.ROOT, "spark events -> counts alone (generate, bin, two aggregations, collect): %.2f s;"
+                + " process CPU %.2f s%n", s(a1 - a0), s(cpu() - ac));
         int n = rows.size();
         double[][] c = new double[n][20];
         String[] ids = new String[n];
@@ -112,6 +120,7 @@ public final class SparkPipelineRunner {
                 c[i][(int) cell.getLong(0)] = cell.getLong(1);
             }
         }
+        long c0 = cpu();
         long t0 = System.nanoTime();
         BatchEstimate est = spec.estimator().withParallel(cores > 1).fitAll(spec.edges(), c, ids);
         long t1 = System.nanoTime();
@@ -120,6 +129,7 @@ public final class SparkPipelineRunner {
         long t2 = System.nanoTime();
         double z = f.scores(set, 3).get(0, 0);
         long t3 = System.nanoTime();
+        long c3 = cpu();
         List<Row> first = dens.orderBy("unit").limit(3).collectAsList();
         for (Row r : first) {
             int i = java.util.Arrays.asList(ids).indexOf(r.getString(0));
@@ -131,9 +141,9 @@ public final class SparkPipelineRunner {
             }
         }
         System.out.printf(Locale.ROOT, "single machine (%s): densities %.2f s, fpca %.3f s, scores %.3f s, total %.2f s;"
-                + " %.1f us/unit (first score %.4f; Spark coordinates of 3 units checked equal)%n",
-                cores > 1 ? "common pool" : "serial", s(t1 - t0), s(t2 - t1), s(t3 - t2), s(t3 - t0),
-                1e-3 * (t3 - t0) / n, z);
+                + " %.1f us/unit; process CPU %.2f s (%.2f cores used) (first score %.4f; Spark coordinates of 3"
+                + " units checked equal)%n", cores > 1 ? "common pool" : "serial", s(t1 - t0), s(t2 - t1), s(t3 - t2),
+                s(t3 - t0), 1e-3 * (t3 - t0) / n, s(c3 - c0), (double) (c3 - c0) / (t3 - t0), z);
     }
 
     /**
@@ -176,30 +186,44 @@ public final class SparkPipelineRunner {
                             io.densa.spatial.Neighbourhood.nearest(32)));
             io.densa.spark.GridSpec grid = io.densa.spark.GridSpec.over(0, 0, 100, 100, side, side)
                     .withTailProbabilities(5.0);
+            long c0 = cpu();
             long t0 = System.nanoTime();
             io.densa.spark.SparkKriging.cells(spark, model, grid, 4 * cores, false).write().format("noop")
                     .mode("overwrite").save();
             long t1 = System.nanoTime();
+            long c1 = cpu();
             long[] cells = new long[1];
             model.kriging().predictGrid(grid.grid(), grid.options().withParallel(cores > 1), t -> cells[0] += t.size());
             long t2 = System.nanoTime();
+            long c2 = cpu();
             double cellsTotal = (double) side * side;
-            System.out.printf(Locale.ROOT, "grid %d x %d: spark %.2f s (%.0f cells/s), single machine %.2f s (%.0f cells/s)%n",
-                    side, side, s(t1 - t0), cellsTotal / s(t1 - t0), s(t2 - t1), cells[0] / s(t2 - t1));
+            System.out.printf(Locale.ROOT, "grid %d x %d: spark %.2f s (%.0f cells/s; CPU %.2f s), single machine %.2f s"
+                    + " (%.0f cells/s; CPU %.2f s)%n", side, side, s(t1 - t0), cellsTotal / s(t1 - t0), s(c1 - c0),
+                    s(t2 - t1), cells[0] / s(t2 - t1), s(c2 - c1));
         } else {
             io.densa.spark.VariogramSpec opt = io.densa.spark.VariogramSpec.withDefaults();
+            long c0 = cpu();
             long t0 = System.nanoTime();
             io.densa.spatial.EmpiricalVariogram v = io.densa.spark.SparkVariogram.of(spark, data, opt, 4 * cores);
             long t1 = System.nanoTime();
+            long c1 = cpu();
             io.densa.spatial.EmpiricalVariogram w = io.densa.spatial.EmpiricalVariogram.of(loc, set,
                     opt.options().withParallel(cores > 1));
             long t2 = System.nanoTime();
+            long c2 = cpu();
             double pairs = 0.5 * n * (n - 1.0);
-            System.out.printf(Locale.ROOT, "variogram n=%d: spark %.2f s (%.3g pairs/s), single machine %.2f s (%.3g"
-                    + " pairs/s); equal: %b%n", n, s(t1 - t0), pairs / s(t1 - t0), s(t2 - t1), pairs / s(t2 - t1),
-                    java.util.Arrays.equals(v.semivariances(), w.semivariances()));
+            System.out.printf(Locale.ROOT, "variogram n=%d: spark %.2f s (%.3g pairs/s; CPU %.2f s), single machine %.2f s"
+                    + " (%.3g pairs/s; CPU %.2f s); equal: %b%n", n, s(t1 - t0), pairs / s(t1 - t0), s(c1 - c0),
+                    s(t2 - t1), pairs / s(t2 - t1), s(c2 - c1), java.util.Arrays.equals(v.semivariances(),
+                    w.semivariances()));
         }
         spark.stop();
+    }
+
+    /** CPU time of the whole process (all threads, including Spark's and the JIT's), in nanoseconds. */
+    private static long cpu() {
+        return ((com.sun.management.OperatingSystemMXBean) java.lang.management.ManagementFactory
+                .getOperatingSystemMXBean()).getProcessCpuTime();
     }
 
     private static double s(long nanos) {
