@@ -43,6 +43,28 @@ final class GridPredictor {
     }
 
     static void run(Kriging kr, Grid grid, GridOptions opt, Consumer<GridTile> consumer) {
+        Objects.requireNonNull(opt, "options");
+        runRange(kr, grid, opt, 0, tileCount(grid, opt), consumer);
+    }
+
+    /** Number of tiles of the grid: ⌈columns / s⌉ × ⌈rows / s⌉ for tile size s, numbered row-major. */
+    static int tileCount(Grid grid, GridOptions opt) {
+        Objects.requireNonNull(grid, "grid");
+        int ts = opt.tileSize();
+        long count = (long) ((grid.columns() + ts - 1) / ts) * ((grid.rows() + ts - 1) / ts);
+        if (count > Integer.MAX_VALUE) {
+            throw new IllegalArgumentException("grid " + grid.columns() + " x " + grid.rows() + " has " + count
+                    + " tiles of " + ts + " x " + ts + " cells; at most " + Integer.MAX_VALUE + " are supported: use"
+                    + " larger tiles");
+        }
+        return (int) count;
+    }
+
+    /**
+     * Predicts tiles [from, to) of the grid (tile t at tile column t mod tilesX, tile row t / tilesX)
+     * into the consumer, in tile order; each tile is computed exactly as by {@link #run}.
+     */
+    static void runRange(Kriging kr, Grid grid, GridOptions opt, int from, int to, Consumer<GridTile> consumer) {
         Objects.requireNonNull(grid, "grid");
         Objects.requireNonNull(opt, "options");
         Objects.requireNonNull(consumer, "consumer");
@@ -58,8 +80,11 @@ final class GridPredictor {
         }
         int ts = opt.tileSize();
         int tilesX = (grid.columns() + ts - 1) / ts;
-        int tilesY = (grid.rows() + ts - 1) / ts;
-        int total = tilesX * tilesY;
+        int total = tileCount(grid, opt);
+        if (from < 0 || to > total || from > to) {
+            throw new IllegalArgumentException("tile range [" + from + ", " + to + ") outside the grid's " + total
+                    + " tiles");
+        }
         boolean dual = kr.options.neighbourhood().isGlobal() && !opt.variance();
         Dual d = dual ? new Dual(kr) : null;
         if (kr.options.neighbourhood().isGlobal()) {
@@ -67,8 +92,8 @@ final class GridPredictor {
         }
         int batch = TILE_BATCH;
         GridTile[] out = new GridTile[batch];
-        for (int start = 0; start < total; start += batch) {
-            int count = Math.min(batch, total - start);
+        for (int start = from; start < to; start += batch) {
+            int count = Math.min(batch, to - start);
             final int s0 = start;
             Kernels.forEachBlock(count, opt.parallel(), b -> {
                 int t = s0 + b;
@@ -81,7 +106,7 @@ final class GridPredictor {
                 out[b] = null;
             }
             if (opt.listener() != ProgressListener.NONE) {
-                opt.listener().progress("grid tiles", start + count, total);
+                opt.listener().progress("grid tiles", start - from + count, to - from);
             }
         }
     }

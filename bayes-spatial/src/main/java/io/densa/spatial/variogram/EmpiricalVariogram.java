@@ -75,6 +75,46 @@ public final class EmpiricalVariogram {
 
     /** The same from a row-major n × k coordinate array (not modified). */
     static EmpiricalVariogram of(Locations loc, double[] y, int k, VariogramOptions options) {
+        Prepared pr = prepare(loc, y, k, options);
+        int tiles = pr.tiles();
+        double[][] pg = new double[tiles][];
+        double[][] ph = new double[tiles][];
+        long[][] pc = new long[tiles][];
+        int n = pr.n();
+        ProgressCounter progress = new ProgressCounter(options.progressListener(), "variogram tiles",
+                tiles);
+        Kernels.forEachBlock(tiles, options.parallel() && Kernels.parallelWorth((long) n * n * k / 2), t -> {
+            TileSums acc = pr.tile(t);
+            pg[t] = acc.gamma;
+            ph[t] = acc.lag;
+            pc[t] = acc.count;
+            progress.advance(1);
+        });
+        return finish(pr, options, pg, ph, pc, loc);
+    }
+
+    /** Locations per tile (block) of the pair loop: tile t holds the pairs (i, j &gt; i) with i in [64t, 64t + 64). */
+    static final int TILE_LOCATIONS = ITILE;
+
+    /**
+     * The inputs shared by all tiles of one estimation: the pass, resolved edges, directions and the
+     * coordinate scale. Read-only; {@link #tile} may be called from several threads.
+     */
+    record Prepared(Pass pass, int n, int k, double[] edges, double[] directions, double yScale, double[] y,
+            int tiles) {
+        /** Bin totals of tile t (pairs (i, j &gt; i), i in [64t, min(n, 64t + 64))). */
+        TileSums tile(int t) {
+            return pass.tile(t * ITILE, Math.min(n, t * ITILE + ITILE));
+        }
+
+        /** Entries of each tile's total arrays: sectors × bins before merging. */
+        int stride() {
+            return pass.stride;
+        }
+    }
+
+    /** Validates, resolves the bins and prepares the shared pass (see the class documentation). */
+    static Prepared prepare(Locations loc, double[] y, int k, VariogramOptions options) {
         Objects.requireNonNull(options, "options");
         int n = loc.size();
         if (n < 2) {
@@ -138,20 +178,26 @@ public final class EmpiricalVariogram {
         // maximum lag): bin b = ⌈h/w⌉ − 1 holds (e_b, e_{b+1}] like the general search
         double invWidth = uniform ? 1 / (e[1] - e[0]) : 0;
         int tiles = (n + ITILE - 1) / ITILE;
-        double[][] pg = new double[tiles][];
-        double[][] ph = new double[tiles][];
-        long[][] pc = new long[tiles][];
         Pass pass = new Pass(n, k, y, yt, nsq, p, geo, max2, e, uniform, invWidth, ns, dcos, dsin, cosTol,
                 dirs != null);
-        ProgressCounter progress = new ProgressCounter(options.progressListener(), "variogram tiles",
-                tiles);
-        Kernels.forEachBlock(tiles, options.parallel() && Kernels.parallelWorth((long) n * n * k / 2), t -> {
-            TileSums acc = pass.tile(t * ITILE, Math.min(n, t * ITILE + ITILE));
-            pg[t] = acc.gamma;
-            ph[t] = acc.lag;
-            pc[t] = acc.count;
-            progress.advance(1);
-        });
+        return new Prepared(pass, n, k, e, dirs, yScale, y, tiles);
+    }
+
+    /**
+     * Combines the tile totals in tile order, merges sparse bins and scales back (the tail of the
+     * estimation, shared by the serial, parallel and pair-block paths).
+     */
+    static EmpiricalVariogram finish(Prepared pr, VariogramOptions options, double[][] pg, double[][] ph, long[][] pc,
+            Locations loc) {
+        int tiles = pr.tiles();
+        double[] e = pr.edges();
+        double[] dirs = pr.directions();
+        int nb = e.length - 1;
+        int ns = dirs == null ? 1 : dirs.length;
+        double maxLag = e[nb];
+        double yScale = pr.yScale();
+        double[] y = pr.y();
+        int k = pr.k();
         long[][] counts = new long[ns][nb];
         double[][] lag = new double[ns][nb];
         double[][] gam = new double[ns][nb];
@@ -253,11 +299,11 @@ public final class EmpiricalVariogram {
     }
 
     /** Per-tile bin totals: sums of squared B2 distances, sums of lags, pair counts. */
-    private record TileSums(double[] gamma, double[] lag, long[] count) {
+    record TileSums(double[] gamma, double[] lag, long[] count) {
     }
 
     /** One estimation pass: the inputs shared by all tiles (read-only). */
-    private static final class Pass {
+    static final class Pass {
         final int n;
         final int k;
         final double[] y;
