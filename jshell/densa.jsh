@@ -4,7 +4,11 @@
 // densa-all.jar bundles bayes-core, bayes-regression, bayes-spatial and their dependencies
 // (EJML, Commons Math, JTS) plus the examples and JFreeChart.
 import io.densa.core.*;
+import io.densa.core.estimate.*;
 import io.densa.regression.*;
 import io.densa.spatial.*;
+import io.densa.spatial.variogram.*;
+import io.densa.spatial.kriging.*;
+import io.densa.spatial.autocorrelation.*;
 import java.util.*;
 import java.util.stream.*;

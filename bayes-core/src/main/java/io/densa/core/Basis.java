@@ -1,5 +1,6 @@
 package io.densa.core;
 
+import io.densa.core.internal.RawBasis;
 import java.util.Arrays;
 import java.util.Objects;
 
@@ -36,29 +37,25 @@ public final class Basis {
     private final Kind kind;
     private final int order; // spline order, polynomial degree, or 0 for steps
     private final double[] knots; // spline: a, interior..., b; step: edges; poly: a, b
-    private final double[] ext; // spline extended knot vector
+    private final RawBasis raw;
     private final int size; // K
 
     private Basis(Kind kind, int order, double[] knots) {
         this.kind = kind;
         this.order = order;
         this.knots = knots;
-        if (kind == Kind.SPLINE) {
-            int g = knots.length - 2;
-            ext = new double[g + 2 * order];
-            for (int i = 0; i < order; i++) {
-                ext[i] = knots[0];
-                ext[g + order + i] = knots[g + 1];
-            }
-            System.arraycopy(knots, 1, ext, order, g);
-            size = g + order - 1;
-        } else if (kind == Kind.POLYNOMIAL) {
-            ext = null;
-            size = order;
-        } else {
-            ext = null;
-            size = knots.length - 2;
+        switch (kind) {
+            case SPLINE:
+                raw = RawBasis.spline(order, knots);
+                break;
+            case POLYNOMIAL:
+                raw = RawBasis.polynomial(order, knots[0], knots[1]);
+                break;
+            default:
+                raw = RawBasis.step(knots);
+                break;
         }
+        size = raw.size();
     }
 
     static Basis spline(double a, double b, int order, double[] interior) {
@@ -135,137 +132,34 @@ public final class Basis {
         return knots.clone();
     }
 
-    double[] knotsInternal() {
-        return knots;
+    /** The raw functions, for the kernels in {@code io.densa.core.internal}. */
+    RawBasis raw() {
+        return raw;
     }
 
     /** Number of nonzero raw functions at a point (local support width). */
     int supportWidth() {
-        switch (kind) {
-            case SPLINE:
-                return order;
-            case STEP:
-                return 1;
-            default:
-                return size;
-        }
+        return raw.supportWidth();
     }
 
     /** Length of the scratch array {@link #evalLocal} and {@link #combine} need. */
     int scratchSize() {
-        return kind == Kind.SPLINE ? 3 * order : supportWidth();
+        return raw.scratchSize();
     }
 
-    /**
-     * Evaluates the raw functions that may be nonzero at x into vals[0..supportWidth) (vals of
-     * length ≥ {@link #scratchSize()}) and returns
-     * the raw index of vals[0]; indices ≥ size() are to be ignored (the dropped function).
-     */
+    /** See {@link RawBasis#evalLocal}. */
     int evalLocal(double x, double[] vals) {
-        switch (kind) {
-            case SPLINE:
-                return splineLocal(x, vals);
-            case STEP: {
-                int j = bin(x);
-                vals[0] = 1.0;
-                return j;
-            }
-            default: {
-                double a = knots[0], b = knots[1];
-                double t = (2 * x - a - b) / (b - a);
-                double p0 = 1, p1 = t;
-                vals[0] = t;
-                for (int j = 2; j <= order; j++) {
-                    double p2 = ((2.0 * j - 1) * t * p1 - (j - 1.0) * p0) / j;
-                    p0 = p1;
-                    p1 = p2;
-                    vals[j - 1] = p2;
-                }
-                return 0;
-            }
-        }
+        return raw.evalLocal(x, vals);
     }
 
     /** Dense raw values φ_1..φ_K at x. */
     void evalDense(double x, double[] out) {
-        Arrays.fill(out, 0, size, 0.0);
-        double[] vals = new double[scratchSize()];
-        int first = evalLocal(x, vals);
-        int w = supportWidth();
-        for (int i = 0; i < w; i++) {
-            int j = first + i;
-            if (j < size) {
-                out[j] = vals[i];
-            }
-        }
+        raw.evalDense(x, out);
     }
 
     /** Σ_j φ_j(x) coef[j], using local support. */
     double combine(double x, double[] coef, double[] scratch) {
-        int first = evalLocal(x, scratch);
-        int w = supportWidth();
-        double s = 0;
-        for (int i = 0; i < w; i++) {
-            int j = first + i;
-            if (j < size) {
-                s += scratch[i] * coef[j];
-            }
-        }
-        return s;
-    }
-
-    int bin(double x) {
-        int lo = 0, hi = knots.length - 2; // bins 0..D-1
-        if (x >= knots[hi]) {
-            return hi;
-        }
-        while (lo < hi) {
-            int mid = (lo + hi + 1) >>> 1;
-            if (knots[mid] <= x) {
-                lo = mid;
-            } else {
-                hi = mid - 1;
-            }
-        }
-        return lo;
-    }
-
-    private int splineLocal(double x, double[] n) {
-        int k = order;
-        int p = k - 1;
-        int m = size + 1; // number of B-splines
-        // span s with ext[s] <= x < ext[s+1], p <= s <= m-1
-        int s;
-        if (x >= ext[m]) {
-            s = m - 1;
-        } else if (x <= ext[p]) {
-            s = p;
-        } else {
-            int lo = p, hi = m - 1;
-            while (lo < hi) {
-                int mid = (lo + hi + 1) >>> 1;
-                if (ext[mid] <= x) {
-                    lo = mid;
-                } else {
-                    hi = mid - 1;
-                }
-            }
-            s = lo;
-        }
-        // n[0..k) values, n[k..2k) left differences, n[2k..3k) right differences
-        n[0] = 1.0;
-        for (int j = 1; j <= p; j++) {
-            n[k + j] = x - ext[s + 1 - j];
-            n[2 * k + j] = ext[s + j] - x;
-            double saved = 0.0;
-            for (int r = 0; r < j; r++) {
-                double temp = n[r] / (n[2 * k + r + 1] + n[k + j - r]);
-                n[r] = saved + n[2 * k + r + 1] * temp;
-                saved = n[k + j - r] * temp;
-            }
-            n[j] = saved;
-        }
-        return s - p;
+        return raw.combine(x, coef, scratch);
     }
 
     @Override

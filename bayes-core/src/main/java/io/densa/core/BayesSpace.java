@@ -1,5 +1,7 @@
 package io.densa.core;
 
+import io.densa.core.internal.Cholesky;
+import io.densa.core.internal.GaussLegendre;
 import java.util.Arrays;
 import java.util.Objects;
 import java.util.function.DoubleUnaryOperator;
@@ -330,7 +332,7 @@ public final class BayesSpace {
     }
 
     private static double[] breakpointsFor(Basis basis, double a, double b) {
-        return basis.knotsInternal().clone();
+        return basis.breakpoints();
     }
 
     // ---------------------------------------------------------------- accessors
@@ -353,6 +355,16 @@ public final class BayesSpace {
     /** The reference measure. */
     public Reference reference() {
         return reference;
+    }
+
+    /**
+     * The matrix T of the orthonormalisation e(x) = T(φ(x) − φ̄), with φ the raw functions of
+     * {@link #basis()} and φ̄ their means under the reference (see the class description): K × K,
+     * lower triangular, row-major, a fresh copy. A density with coordinates c has the clr
+     * cᵀT(φ(x) − φ̄), i.e. raw coefficients Tᵀc.
+     */
+    public double[] basisTransform() {
+        return t.clone();
     }
 
     /** The basis family. */
@@ -694,10 +706,20 @@ public final class BayesSpace {
     }
 
     /** Requires that a density belongs to this space. */
-    void requireSame(BayesSpace other) {
+    /**
+     * Requires {@code other} to be this space (equal domain, reference and basis): the one check
+     * for values from different spaces across the library.
+     *
+     * @param other the space of the argument
+     * @param what  names the argument in the message ("density", "response", "predictor 0", …)
+     * @throws IllegalArgumentException "&lt;what&gt; lives in &lt;other&gt; but &lt;this&gt; is
+     *                                  required; use space.project(density) to move a density into
+     *                                  another space"
+     */
+    public void requireSame(BayesSpace other, String what) {
         if (other != this && !equals(other)) {
-            throw new IllegalArgumentException("densities from different spaces: " + this + " and " + other
-                    + " (use space.project(density) to move one into the other)");
+            throw new IllegalArgumentException(what + " lives in " + other + " but " + this + " is required; use"
+                    + " space.project(density) to move a density into another space");
         }
     }
 
@@ -726,14 +748,7 @@ public final class BayesSpace {
 
     /** Raw-function coefficients b = T'c and offset b·φ̄, so clr(x) = φ(x)·b − offset. */
     double rawCoefficients(double[] c, int off, double[] out) {
-        Arrays.fill(out, 0, dim, 0.0);
-        for (int i = 0; i < dim; i++) {
-            double ci = c[off + i];
-            int base = i * dim;
-            for (int j = 0; j <= i; j++) {
-                out[j] += t[base + j] * ci;
-            }
-        }
+        Cholesky.transposeTimes(t, dim, c, off, out);
         double s = 0;
         for (int j = 0; j < dim; j++) {
             s += out[j] * mbar[j];

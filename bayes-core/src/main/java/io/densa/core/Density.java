@@ -112,7 +112,7 @@ public final class Density {
 
     private Density other(Density g) {
         Objects.requireNonNull(g, "density");
-        space.requireSame(g.space);
+        space.requireSame(g.space, "density");
         return g;
     }
 

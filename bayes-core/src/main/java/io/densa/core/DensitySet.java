@@ -125,7 +125,7 @@ public final class DensitySet {
         double[] d = new double[densities.size() * k];
         for (int i = 0; i < densities.size(); i++) {
             Density f = densities.get(i);
-            space.requireSame(f.space());
+            space.requireSame(f.space(), "density " + i);
             System.arraycopy(f.coordinatesInternal(), 0, d, i * k, k);
         }
         return fromRowMajor(space, d, densities.size(), ids, true);
@@ -134,11 +134,6 @@ public final class DensitySet {
     /** A set from densities of one space, without ids. */
     public static DensitySet of(List<Density> densities) {
         return of(densities, null);
-    }
-
-    /** Wraps an array this package owns (no copy). */
-    static DensitySet wrap(BayesSpace space, double[] data, int n, String[] ids) {
-        return new DensitySet(space, n, data, ids);
     }
 
     private static DensitySet fromRowMajor(BayesSpace space, double[] d, int n, String[] ids, boolean trusted) {
@@ -335,7 +330,7 @@ public final class DensitySet {
      * @throws IllegalArgumentException if a sum of coordinates leaves the double range
      */
     public DensitySet perturb(Density d) {
-        space.requireSame(d.space());
+        space.requireSame(d.space(), "density");
         double[] neg = d.coordinatesInternal().clone();
         double dMax = 0;
         for (int j = 0; j < k; j++) {
@@ -535,7 +530,7 @@ public final class DensitySet {
      * one has them the other's rows get "#i" labels.
      */
     public DensitySet concat(DensitySet other) {
-        space.requireSame(other.space);
+        space.requireSame(other.space, "density set");
         double[] out = Arrays.copyOf(data, data.length + other.data.length);
         System.arraycopy(other.data, 0, out, data.length, other.data.length);
         String[] newIds = null;
@@ -593,7 +588,7 @@ public final class DensitySet {
 
     /**
      * Lebesgue pdfs of every density on a grid, written row-major into {@code out} (n × m): one
-     * matrix product C Eᵀ (E the basis at the grid, blocked by {@link Kernels#multiplyRows}), then
+     * matrix product C Eᵀ (E the basis at the grid, blocked by {@code Kernels.multiplyRows}), then
      * one pass of exp(clr − log Z_i) times the reference density. Points outside [a, b] give 0,
      * as {@link Density#pdf(double)} does. The log normalisers log Z_i are computed on the first
      * call and cached.

@@ -107,12 +107,13 @@ class BadInputTest {
     @Test
     void densitiesFromDifferentSpaces() {
         BayesSpace other = BayesSpace.polynomials(0, 1, 6);
-        String both = "densities from different spaces: " + Pattern.quote(S.toString()) + " and "
-                + Pattern.quote(other.toString());
-        fails(both, () -> S.neutral().perturb(other.neutral()));
-        fails(both, () -> S.neutral().inner(other.neutral()));
-        fails(both, () -> DensitySet.of(List.of(S.neutral(), other.neutral())));
-        fails(both, () -> DensitySet.of(List.of(S.neutral())).concat(DensitySet.of(List.of(other.neutral()))));
+        String both = " lives in " + Pattern.quote(other.toString()) + " but " + Pattern.quote(S.toString())
+                + " is required; use space.project\\(density\\) to move a density into another space";
+        fails("density" + both, () -> S.neutral().perturb(other.neutral()));
+        fails("density" + both, () -> S.neutral().inner(other.neutral()));
+        fails("density 1" + both, () -> DensitySet.of(List.of(S.neutral(), other.neutral())));
+        fails("density set" + both,
+                () -> DensitySet.of(List.of(S.neutral())).concat(DensitySet.of(List.of(other.neutral()))));
     }
 
     @Test

@@ -1,10 +1,8 @@
 package io.densa.core;
 
 import java.lang.reflect.RecordComponent;
-import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Collection;
-import java.util.List;
 import java.util.Map;
 import java.util.OptionalDouble;
 import java.util.function.Supplier;
@@ -17,10 +15,7 @@ import org.ejml.data.DMatrixRMaj;
  * thrown by Densa code (never a subclass from another library, never another type); and no
  * input array is modified.
  *
- * <p>Failures that belong to code other branches are fixing are matched against a list of
- * known open findings (see each module's {@code FuzzProperties.KNOWN_OPEN}) and then accepted;
- * each entry names its finding in the project's fuzz-findings notes. Test code; the same class
- * is copied in each module's tests (modules do not share test code).
+ * <p>Test code; the same class is copied in each module's tests (modules do not share test code).
  */
 final class FuzzCheck {
     /** A violation of the contract (foreign exception, non-finite output, modified input). */
@@ -33,12 +28,6 @@ final class FuzzCheck {
             this.operation = operation;
         }
     }
-
-    /** A known open finding: its title and the failures it covers. */
-    record KnownOpen(String title, java.util.function.BiPredicate<String, Throwable> matches) {
-    }
-
-    private final List<KnownOpen> known;
 
     /**
      * Exploration mode (environment variable {@code DENSA_FUZZ_COLLECT}): violations are collected, one
@@ -78,14 +67,10 @@ final class FuzzCheck {
         java.nio.file.Files.writeString(file, sb.toString());
     }
 
-    FuzzCheck(List<KnownOpen> known) {
-        this.known = known;
-    }
-
     /**
      * Runs op; checks the outcome and that the watched arrays are unchanged.
      *
-     * @return the result, or null when op threw an allowed exception (or a known open finding)
+     * @return the result, or null when op threw an allowed exception
      */
     <T> T run(String operation, Supplier<T> op, Object... watched) {
         Object[] copies = new Object[watched.length];
@@ -134,11 +119,6 @@ final class FuzzCheck {
             }
         }
         if (failure != null) {
-            for (KnownOpen k : known) {
-                if (k.matches().test(operation, failure)) {
-                    return null;
-                }
-            }
             if (COLLECT) {
                 String msg = String.valueOf(failure.getMessage());
                 String signature = operation + " | " + msg.replaceAll("[-0-9.E]+", "#").substring(0,
@@ -260,28 +240,5 @@ final class FuzzCheck {
                 requireFinite(op, v, path + "." + c.getName(), depth + 1);
             }
         }
-    }
-
-    /** Failure signature helpers for the known-open lists. */
-    static boolean causedBy(Throwable t, Class<? extends Throwable> type) {
-        for (Throwable c = t; c != null; c = c.getCause()) {
-            if (type.isInstance(c)) {
-                return true;
-            }
-        }
-        return false;
-    }
-
-    static boolean messageContains(Throwable t, String text) {
-        List<Throwable> all = new ArrayList<>();
-        for (Throwable c = t; c != null; c = c.getCause()) {
-            all.add(c);
-        }
-        for (Throwable c : all) {
-            if (c.getMessage() != null && c.getMessage().contains(text)) {
-                return true;
-            }
-        }
-        return false;
     }
 }

@@ -5,6 +5,14 @@ import static io.densa.core.FuzzValues.mild;
 import static io.densa.core.FuzzValues.nonNegative;
 import static io.densa.core.FuzzValues.vector;
 
+import io.densa.core.estimate.BatchEstimate;
+import io.densa.core.estimate.EstimationDiagnostics;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator;
+import io.densa.core.estimate.SmoothingCriterion;
+import io.densa.core.estimate.SmoothingSplineEstimator;
+import io.densa.core.estimate.UnitEstimate;
+import io.densa.core.estimate.ZeroReplacement;
+import io.densa.core.estimate.ZeroTotalPolicy;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Random;
@@ -24,51 +32,8 @@ import net.jqwik.api.ShrinkingMode;
  * {@link DensaException} thrown by Densa, and must not modify their inputs (see
  * {@link FuzzCheck}). 49,350 tries in all. Each try draws its inputs from a case seed (jqwik reports it on failure;
  * {@link FuzzValues} turns it into inputs), the properties' seeds are fixed.
- *
- * <p>{@link #KNOWN_OPEN} lists findings in code other branches are changing (estimators), each
- * with the title of its entry in the project's fuzz-findings notes; a failure matching one is
- * accepted. TEMPORARY: remove each entry once its fix is merged.
  */
 class FuzzProperties {
-
-    // ------------------------------------------------------------------ known open findings
-    // TEMPORARY exclusions for findings in code other branches are changing; titles as in the
-    // fuzz-findings notes. Remove an entry (and its uses) once its fix is merged.
-
-    static final FuzzCheck.KnownOpen PL_CRITERION_NONFINITE = new FuzzCheck.KnownOpen(
-            "PL-1 PenalizedLikelihoodEstimator reports a non-finite criterionValue",
-            (op, t) -> op.startsWith("PL fit") && FuzzCheck.messageContains(t, "criterionValue"));
-    static final FuzzCheck.KnownOpen PL_EDF_NAN = new FuzzCheck.KnownOpen(
-            "PL-2 PenalizedLikelihoodEstimator reports effectiveDegreesOfFreedom = NaN",
-            (op, t) -> op.startsWith("PL fit") && FuzzCheck.messageContains(t, "effectiveDegreesOfFreedom"));
-    static final FuzzCheck.KnownOpen PL_SMOOTHING_NONFINITE = new FuzzCheck.KnownOpen(
-            "PL-3 PenalizedLikelihoodEstimator reports smoothing = +Infinity or NaN",
-            (op, t) -> op.startsWith("PL fit") && FuzzCheck.messageContains(t, "diagnostics.smoothing")
-                    || op.startsWith("PL fit") && FuzzCheck.messageContains(t, "].smoothing"));
-    static final FuzzCheck.KnownOpen PL_COVARIANCE_INF = new FuzzCheck.KnownOpen(
-            "PL-4 PenalizedLikelihoodEstimator reports an infinite covariance for a unit of subnormal counts",
-            (op, t) -> op.startsWith("PL fit") && FuzzCheck.messageContains(t, "covariance"));
-    static final FuzzCheck.KnownOpen SS_NAN_COORDINATES = new FuzzCheck.KnownOpen(
-            "SS-1 SmoothingSplineEstimator returns NaN coordinates for a subnormal count",
-            (op, t) -> op.startsWith("SS fit") && FuzzCheck.messageContains(t, "density.coordinates"));
-    static final FuzzCheck.KnownOpen SS_LOGLIK_INF = new FuzzCheck.KnownOpen(
-            "SS-2 SmoothingSplineEstimator reports logLikelihood = -Infinity for counts near 1e308",
-            (op, t) -> op.startsWith("SS fit") && FuzzCheck.messageContains(t, "logLikelihood"));
-    static final FuzzCheck.KnownOpen ZR_NOT_CLOSED = new FuzzCheck.KnownOpen(
-            "ZR-1 ZeroReplacement returns NaN or parts that underflow to 0 when counts span beyond the double range",
-            (op, t) -> op.startsWith("replace"));
-    static final FuzzCheck.KnownOpen PL_NEGATIVE_VARIANCE = new FuzzCheck.KnownOpen(
-            "PL-5 PenalizedLikelihoodEstimator reports a negative estimation variance",
-            (op, t) -> FuzzCheck.messageContains(t, "negative estimation variance"));
-    /** Skipped before running (it would take minutes or exhaust the heap): see its use. */
-    static final FuzzCheck.KnownOpen CV_ALLOCATES_PER_EVENT = new FuzzCheck.KnownOpen(
-            "CV-1 k-fold cross-validation on counts allocates one int per event", (op, t) -> false);
-
-    /** Known open findings (temporary exclusions). */
-    static final List<FuzzCheck.KnownOpen> KNOWN_OPEN = List.of(PL_CRITERION_NONFINITE, PL_EDF_NAN,
-            PL_SMOOTHING_NONFINITE, PL_COVARIANCE_INF, PL_NEGATIVE_VARIANCE, SS_NAN_COORDINATES, SS_LOGLIK_INF,
-            ZR_NOT_CLOSED, CV_ALLOCATES_PER_EVENT);
-
     /** Runs an estimator call and also requires a non-negative estimation variance. */
     private static void estimate(String op, java.util.function.Supplier<Object> fit, Object... watched) {
         Object result = CHECK.run(op, fit::get, watched);
@@ -77,6 +42,13 @@ class FuzzProperties {
                 : result instanceof BatchEstimate ? ((BatchEstimate) result).diagnostics() : List.of();
         for (EstimationDiagnostics d : diags) {
             CHECK.run(op, () -> {
+                double[] cov = d.covariance();
+                int k = (int) Math.round(Math.sqrt(cov.length));
+                for (int i = 0; i < k; i++) {
+                    if (cov[i * k + i] < 0) {
+                        throw new FuzzCheck.Violation(op, "negative covariance diagonal " + cov[i * k + i], null);
+                    }
+                }
                 if (d.estimationVariance() < 0) {
                     throw new FuzzCheck.Violation(op, "negative estimation variance " + d.estimationVariance(), null);
                 }
@@ -85,7 +57,7 @@ class FuzzProperties {
         }
     }
 
-    private static final FuzzCheck CHECK = new FuzzCheck(KNOWN_OPEN);
+    private static final FuzzCheck CHECK = new FuzzCheck();
 
     /** In exploration mode (see {@link FuzzCheck}), writes what was collected to target/fuzz-collected.txt. */
     @net.jqwik.api.lifecycle.AfterContainer
@@ -342,9 +314,6 @@ class FuzzProperties {
         });
         int option = r.nextInt(6);
         double setting = extreme(r);
-        if (KNOWN_OPEN.contains(CV_ALLOCATES_PER_EVENT) && option == 3 && Arrays.stream(counts).sum() > 1e6) {
-            return; // known open finding CV-1: would run for minutes or exhaust the heap
-        }
         FuzzCheck.context(() -> "estimatorsOnCounts seed=" + seed + " space=" + s + " option=" + option + " setting=" + setting);
         PenalizedLikelihoodEstimator pl = CHECK.run("PL options", () -> configure(
                 PenalizedLikelihoodEstimator.of(s).withParallel(false).withFractionalCounts(true), option, setting));

@@ -1,8 +1,8 @@
 package io.densa.io;
 
-import io.densa.core.BatchEstimate;
 import io.densa.core.BayesSpace;
-import io.densa.core.PenalizedLikelihoodEstimator;
+import io.densa.core.estimate.BatchEstimate;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 import java.io.IOException;
 import java.nio.file.Files;
 import java.nio.file.Path;

@@ -49,7 +49,7 @@ import java.util.zip.Deflater;
  * to the GDAL_METADATA tag (42112) as band descriptions.
  *
  * <h2>Use</h2>
- * Rows are numbered as in {@link io.densa.spatial.Grid}: row 0 is the southernmost. After
+ * Rows are numbered as in {@link io.densa.spatial.kriging.Grid}: row 0 is the southernmost. After
  * {@link #finishRowsBelow}(j) (or {@link #finishRowsAbove}) no cell of those rows may be written; the
  * tiles they complete are written at once. {@link #finish()} writes the rest and the directory and
  * moves the file into place; {@link #close()} without {@code finish()} deletes the partial file, so

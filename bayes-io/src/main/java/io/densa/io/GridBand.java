@@ -1,6 +1,6 @@
 package io.densa.io;
 
-import io.densa.spatial.GridTile;
+import io.densa.spatial.kriging.GridTile;
 import java.util.Objects;
 import java.util.function.DoubleUnaryOperator;
 import java.util.function.ToDoubleFunction;

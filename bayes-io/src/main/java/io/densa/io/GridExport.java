@@ -1,10 +1,10 @@
 package io.densa.io;
 
 import io.densa.core.ProgressListener;
-import io.densa.spatial.Grid;
-import io.densa.spatial.GridOptions;
-import io.densa.spatial.GridTile;
-import io.densa.spatial.Kriging;
+import io.densa.spatial.kriging.Grid;
+import io.densa.spatial.kriging.GridOptions;
+import io.densa.spatial.kriging.GridTile;
+import io.densa.spatial.kriging.Kriging;
 import java.io.BufferedWriter;
 import java.io.IOException;
 import java.io.UncheckedIOException;

@@ -1,6 +1,6 @@
 package io.densa.io;
 
-import io.densa.spatial.Grid;
+import io.densa.spatial.kriging.Grid;
 import java.util.List;
 import java.util.Objects;
 

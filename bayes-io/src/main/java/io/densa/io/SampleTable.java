@@ -1,7 +1,7 @@
 package io.densa.io;
 
-import io.densa.core.BatchEstimate;
-import io.densa.core.PenalizedLikelihoodEstimator;
+import io.densa.core.estimate.BatchEstimate;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 import java.util.Arrays;
 import java.util.Objects;
 

@@ -6,7 +6,7 @@
  * <ul>
  * <li><b>Count tables</b> in long format (unit, optional period, bin, count) from CSV (RFC 4180) or
  *     any JDBC source ({@link io.densa.io.TableSource}) into a {@link io.densa.io.CountTable}, the
- *     input of {@link io.densa.core.PenalizedLikelihoodEstimator#fitAll(double[], double[][], String[])}:
+ *     input of {@link io.densa.core.estimate.PenalizedLikelihoodEstimator#fitAll(double[], double[][], String[])}:
  * <pre>{@code
  * CountTable t = CountTableReader.of("district", "count")
  *         .withBinIndex("age_band", Bins.uniform(0, 90, 18))

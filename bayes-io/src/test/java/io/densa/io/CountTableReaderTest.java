@@ -6,9 +6,9 @@ import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNull;
 
-import io.densa.core.BatchEstimate;
 import io.densa.core.BayesSpace;
-import io.densa.core.PenalizedLikelihoodEstimator;
+import io.densa.core.estimate.BatchEstimate;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 import java.nio.file.Path;
 import java.sql.Connection;
 import java.sql.DriverManager;

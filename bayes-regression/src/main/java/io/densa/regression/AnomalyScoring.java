@@ -3,6 +3,7 @@ package io.densa.regression;
 import io.densa.core.BenjaminiHochberg;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.core.internal.SampleQuantiles;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -90,7 +91,7 @@ public final class AnomalyScoring {
         if (calibrationResiduals.size() < 1) {
             throw new IllegalArgumentException("calibration set is empty");
         }
-        double[] g = Linear.grid(calibrationResiduals.space(), grid, "grid");
+        double[] g = Arguments.grid(calibrationResiduals.space(), grid, "grid");
         for (int i = 1; i < g.length; i++) {
             if (!(g[i] > g[i - 1])) {
                 throw new IllegalArgumentException("grid must be strictly increasing; grid[" + i + "] = " + g[i]
@@ -110,8 +111,8 @@ public final class AnomalyScoring {
                 col[i] = clr.data[i * m + q];
             }
             Arrays.sort(col);
-            lo[q] = Linear.quantileSorted(col, (1 - bandLevel) / 2);
-            hi[q] = Linear.quantileSorted(col, (1 + bandLevel) / 2);
+            lo[q] = SampleQuantiles.sorted(col, (1 - bandLevel) / 2);
+            hi[q] = SampleQuantiles.sorted(col, (1 + bandLevel) / 2);
         }
         return new Calibrated(this, calibrationResiduals.space(), norms, g, lo, hi);
     }
@@ -258,7 +259,7 @@ public final class AnomalyScoring {
          */
         public Report score(DensitySet residuals) {
             Objects.requireNonNull(residuals, "residuals");
-            Linear.sameSpace(space, residuals.space(), "residuals");
+            space.requireSame(residuals.space(), "residuals");
             double[] norms = residuals.norms();
             double[] p = pValues(norms);
             double[] adj = BenjaminiHochberg.adjust(p);

@@ -5,6 +5,7 @@ import io.densa.core.Density;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.Seeds;
 import java.util.Objects;
 import org.ejml.data.DMatrixRMaj;
 
@@ -41,7 +42,7 @@ public final class Fpca {
     private final double[] vectors; // K × K, column j = v_j
     private final double total;
 
-    private Fpca(BayesSpace space, int n, double[] mean, Linear.Eigen eig) {
+    private Fpca(BayesSpace space, int n, double[] mean, DenseAlgebra.Eigen eig) {
         this.space = space;
         this.n = n;
         this.k = space.dimension();
@@ -68,12 +69,12 @@ public final class Fpca {
         }
         DMatrixRMaj cov = data.covariance();
         return new Fpca(data.space(), data.size(), data.mean().coordinates(),
-                Linear.symmetricEigen(cov.data, data.dimension()));
+                DenseAlgebra.symmetricEigen(cov.data, data.dimension()));
     }
 
     /** FPCA from precomputed moments (mean and covariance of n rows); used by the regressions. */
     static Fpca fromMoments(BayesSpace space, int n, double[] mean, double[] covariance) {
-        return new Fpca(space, n, mean.clone(), Linear.symmetricEigen(covariance, space.dimension()));
+        return new Fpca(space, n, mean.clone(), DenseAlgebra.symmetricEigen(covariance, space.dimension()));
     }
 
     /** The space of the analysed densities. */
@@ -172,12 +173,12 @@ public final class Fpca {
 
     /** The clr function ξ_j(t) = Σ_k v_kj e_k(t) of component j at the given points. */
     public double[] componentClr(int j, double... xs) {
-        return Linear.clrAt(space, componentCoordinates(j), Linear.grid(space, xs, "points"));
+        return DenseAlgebra.clrAt(space, componentCoordinates(j), Arguments.grid(space, xs, "points"));
     }
 
     /** K × m matrix of the first m eigenvectors (row-major; fresh). */
     double[] loadings(int m) {
-        return Linear.columns(vectors, k, k, 0, m);
+        return DenseAlgebra.columns(vectors, k, k, 0, m);
     }
 
     double[] meanInternal() {
@@ -197,7 +198,7 @@ public final class Fpca {
      */
     public DMatrixRMaj scores(DensitySet data, int m) {
         Objects.requireNonNull(data, "data");
-        Linear.sameSpace(space, data.space(), "data");
+        space.requireSame(data.space(), "data");
         checkCount(m);
         int rows = data.size();
         double[] v = loadings(m);
@@ -297,9 +298,9 @@ public final class Fpca {
         if (!(fraction > 0 && fraction < 1)) {
             throw new IllegalArgumentException("fraction must be in (0, 1), got " + fraction);
         }
-        Linear.requireModerate(data, "density");
+        Arguments.requireModerate(data, "density");
         int n = data.size();
-        int[] fold = Linear.folds(n, folds, seed);
+        int[] fold = Seeds.folds(n, folds, seed);
         double[] x = data.coordinatesRowMajor();
         Moments mom = Moments.of(x, n, kk, fold, folds);
         double[] err = new double[maxM + 1];

@@ -105,9 +105,9 @@ public final class FunctionOnFunctionFit {
      */
     public DMatrixRMaj kernel(int j, double[] s, double[] t) {
         DMatrixRMaj g = kernelCoefficients(j);
-        DMatrixRMaj es = predictorSpaces.get(j).basisMatrix(Linear.grid(predictorSpaces.get(j), s, "s"));
-        DMatrixRMaj et = space.basisMatrix(Linear.grid(space, t, "t"));
-        double[] left = Linear.mult(es.data, s.length, g.numRows, g.data, k);
+        DMatrixRMaj es = predictorSpaces.get(j).basisMatrix(Arguments.grid(predictorSpaces.get(j), s, "s"));
+        DMatrixRMaj et = space.basisMatrix(Arguments.grid(space, t, "t"));
+        double[] left = DenseAlgebra.mult(es.data, s.length, g.numRows, g.data, k);
         DMatrixRMaj out = new DMatrixRMaj(s.length, t.length);
         org.ejml.dense.row.CommonOps_DDRM.multTransB(DMatrixRMaj.wrap(s.length, k, left), et, out);
         return out;
@@ -157,10 +157,10 @@ public final class FunctionOnFunctionFit {
     /** Residual densities of new observations (for anomaly scoring; ids of the response kept). */
     public DensitySet residuals(List<DensitySet> predictors, Design covariates, DensitySet newResponse) {
         Objects.requireNonNull(newResponse, "response");
-        Linear.sameSpace(space, newResponse.space(), "response");
+        space.requireSame(newResponse.space(), "response");
         double[] y = LinearFunctionalEngine.predict(res.beta(), res.pz(), k, res.offsets(), design, predictorSpaces,
                 predictors, covariates);
-        Linear.rows(newResponse, y.length / k, "response");
+        Arguments.rows(newResponse, y.length / k, "response");
         double[] c = newResponse.coordinatesRowMajor();
         for (int i = 0; i < c.length; i++) {
             c[i] -= y[i];

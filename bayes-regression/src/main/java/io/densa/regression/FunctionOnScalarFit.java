@@ -4,6 +4,9 @@ import io.densa.core.BayesSpace;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
+import io.densa.core.SolveDiagnostics;
+import io.densa.core.internal.SampleQuantiles;
+import io.densa.core.internal.Seeds;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -73,7 +76,7 @@ public final class FunctionOnScalarFit {
                         + " covariate in smaller units");
             }
         }
-        this.fitted = Linear.mult(xScaled, n, p, coefScaled, k);
+        this.fitted = DenseAlgebra.mult(xScaled, n, p, coefScaled, k);
         double[] c = response.coordinatesRowMajor();
         this.resid = new double[n * k];
         for (int i = 0; i < n * k; i++) {
@@ -153,7 +156,7 @@ public final class FunctionOnScalarFit {
                 }
             }
         }
-        double[] xtwx = Linear.multTransA(xs, n, p, xs, p);
+        double[] xtwx = DenseAlgebra.multTransA(xs, n, p, xs, p);
         double lambda = cfg.lambda() * weightFactor;
         if (!Double.isFinite(lambda)) {
             throw new IllegalArgumentException("penalty weight λ = " + cfg.lambda() + " is too large for weights"
@@ -168,12 +171,12 @@ public final class FunctionOnScalarFit {
             // column l of B U minimises ‖√W X b − (√W C U)_l‖² + λ Λ_l Σ_{j penalised} b_j²; with
             // √W X = Q R this is ‖R b − (Qᵀ√W C U)_l‖² + ‖√(λ Λ_l) D b‖² + const: a 2p × p least-squares
             // problem per direction l after one QR of the data
-            Linear.Eigen e = Linear.symmetricEigen(cfg.penalty().data, k);
+            DenseAlgebra.Eigen e = DenseAlgebra.symmetricEigen(cfg.penalty().data, k);
             u = e.vectors();
             inv = new double[k][];
             boolean intercept = design.hasIntercept();
-            Linear.Reduced red = Linear.reduce(xs, n, p, cs, k, what);
-            double[] qtcu = Linear.mult(red.qtb(), p, k, u, k); // (Qᵀ√W C) U, p × K
+            DenseAlgebra.Reduced red = DenseAlgebra.reduce(xs, n, p, cs, k, what);
+            double[] qtcu = DenseAlgebra.mult(red.qtb(), p, k, u, k); // (Qᵀ√W C) U, p × K
             double[] aug = new double[2 * p * p];
             double[] rhs = new double[2 * p];
             double[] bt = new double[p * k];
@@ -188,15 +191,15 @@ public final class FunctionOnScalarFit {
                     rhs[j] = qtcu[j * k + l];
                     rhs[p + j] = 0.0;
                 }
-                Linear.LeastSquares ls = Linear.leastSquares(aug, 2 * p, p, rhs, 1, what);
+                DenseAlgebra.LeastSquares ls = DenseAlgebra.leastSquares(aug, 2 * p, p, rhs, 1, what);
                 inv[l] = ls.inverseGram();
                 for (int j = 0; j < p; j++) {
                     bt[j * k + l] = ls.solution()[j];
                 }
             }
-            coef = Linear.multTransB(bt, p, k, u, k);
+            coef = DenseAlgebra.multTransB(bt, p, k, u, k);
         } else {
-            Linear.LeastSquares ls = Linear.leastSquares(xs, n, p, cs, k, what);
+            DenseAlgebra.LeastSquares ls = DenseAlgebra.leastSquares(xs, n, p, cs, k, what);
             inv = new double[][] {ls.inverseGram()};
             coef = ls.solution();
         }
@@ -228,9 +231,9 @@ public final class FunctionOnScalarFit {
     /** B = the solution of the (penalised) normal equations with right-hand side XᵀWC (p × K). */
     private static double[] solve(double[] rhs, int p, int k, double[] u, double[][] inv) {
         if (u == null) {
-            return Linear.mult(inv[0], p, p, rhs, k);
+            return DenseAlgebra.mult(inv[0], p, p, rhs, k);
         }
-        double[] t = Linear.mult(rhs, p, k, u, k); // XᵀWC U
+        double[] t = DenseAlgebra.mult(rhs, p, k, u, k); // XᵀWC U
         double[] bt = new double[p * k];
         double[] col = new double[p];
         for (int l = 0; l < k; l++) {
@@ -300,7 +303,7 @@ public final class FunctionOnScalarFit {
     /** clr β_j at the given points. */
     public double[] coefficientClr(String column, double... xs) {
         int j = design.columnIndex(column);
-        return Linear.clrAt(space, Arrays.copyOfRange(coef, j * k, (j + 1) * k), Linear.grid(space, xs, "points"));
+        return DenseAlgebra.clrAt(space, Arrays.copyOfRange(coef, j * k, (j + 1) * k), Arguments.grid(space, xs, "points"));
     }
 
     /** Fitted densities ŷ_i = ⊕_j x_ij ⊙ β_j (ids kept). */
@@ -393,7 +396,7 @@ public final class FunctionOnScalarFit {
      */
     public DensitySet predict(Design newDesign) {
         requireSameColumns(newDesign);
-        return DensitySet.ofRowMajor(space, Linear.mult(newDesign.internal(), newDesign.rows(), p, coef, k),
+        return DensitySet.ofRowMajor(space, DenseAlgebra.mult(newDesign.internal(), newDesign.rows(), p, coef, k),
                 newDesign.rows(), null);
     }
 
@@ -405,10 +408,10 @@ public final class FunctionOnScalarFit {
     public DensitySet residuals(Design newDesign, DensitySet newResponse) {
         requireSameColumns(newDesign);
         Objects.requireNonNull(newResponse, "response");
-        Linear.sameSpace(space, newResponse.space(), "response");
-        Linear.rows(newResponse, newDesign.rows(), "response");
+        space.requireSame(newResponse.space(), "response");
+        Arguments.rows(newResponse, newDesign.rows(), "response");
         int m = newDesign.rows();
-        double[] f = Linear.mult(newDesign.internal(), m, p, coef, k);
+        double[] f = DenseAlgebra.mult(newDesign.internal(), m, p, coef, k);
         double[] c = newResponse.coordinatesRowMajor();
         for (int i = 0; i < c.length; i++) {
             c[i] -= f[i];
@@ -555,7 +558,7 @@ public final class FunctionOnScalarFit {
     public List<CoefficientBand> bootstrapBands(double[] grid, int replicates, double level, long seed,
             ProgressListener listener) {
         Objects.requireNonNull(listener, "listener");
-        double[] g = Linear.grid(space, grid, "grid");
+        double[] g = Arguments.grid(space, grid, "grid");
         if (replicates < 20) {
             throw new IllegalArgumentException("need at least 20 bootstrap replicates, got " + replicates);
         }
@@ -564,7 +567,7 @@ public final class FunctionOnScalarFit {
         }
         int m = g.length;
         double[] et = basisTransposed(g); // K × m
-        double[] est = Linear.mult(coef, p, k, et, m); // p × m
+        double[] est = DenseAlgebra.mult(coef, p, k, et, m); // p × m
         double[][] deltas = new double[replicates][]; // each p × m
         double[] std = new double[n * k];
         for (int i = 0; i < n; i++) {
@@ -585,11 +588,11 @@ public final class FunctionOnScalarFit {
                     xw[i * p + j] *= w(i);
                 }
             }
-            double[] refit = solve(Linear.multTransA(xw, n, p, fitted, k), p, k, u, inverses);
+            double[] refit = solve(DenseAlgebra.multTransA(xw, n, p, fitted, k), p, k, u, inverses);
             for (int i = 0; i < refit.length; i++) {
                 refit[i] -= coefScaled[i];
             }
-            shift = Linear.mult(refit, p, k, et, m);
+            shift = DenseAlgebra.mult(refit, p, k, et, m);
         }
         double[] rhs = new double[p * k];
         for (int b = 0; b < replicates; b++) {
@@ -609,7 +612,7 @@ public final class FunctionOnScalarFit {
                 }
             }
             double[] db = solve(rhs, p, k, u, inverses);
-            double[] dg = Linear.mult(db, p, k, et, m); // in the scaled design's units: row j is δβ_j / f_j
+            double[] dg = DenseAlgebra.mult(db, p, k, et, m); // in the scaled design's units: row j is δβ_j / f_j
             for (int q = 0; q < dg.length; q++) {
                 dg[q] += shift[q];
             }
@@ -639,8 +642,8 @@ public final class FunctionOnScalarFit {
                 double mean = s / replicates;
                 sd[q] = Math.sqrt(Math.max(0, (s2 - replicates * mean * mean) / (replicates - 1)));
                 Arrays.sort(col);
-                pl[q] = e[q] - f * Linear.quantileSorted(col, 1 - alpha / 2);
-                pu[q] = e[q] - f * Linear.quantileSorted(col, alpha / 2);
+                pl[q] = e[q] - f * SampleQuantiles.sorted(col, 1 - alpha / 2);
+                pu[q] = e[q] - f * SampleQuantiles.sorted(col, alpha / 2);
             }
             double[] maxDev = new double[replicates];
             for (int b = 0; b < replicates; b++) {
@@ -653,7 +656,7 @@ public final class FunctionOnScalarFit {
                 maxDev[b] = mx;
             }
             Arrays.sort(maxDev);
-            double c = Linear.quantileSorted(maxDev, level);
+            double c = SampleQuantiles.sorted(maxDev, level);
             double[] sl = new double[m];
             double[] su = new double[m];
             for (int q = 0; q < m; q++) {
@@ -768,7 +771,7 @@ public final class FunctionOnScalarFit {
         double[] perm = new double[n * k];
         int exceed = 0;
         for (int b = 0; b < permutations; b++) {
-            int[] pi = Linear.permutation(n, rnd);
+            int[] pi = Seeds.permutation(n, rnd);
             for (int i = 0; i < n; i++) {
                 System.arraycopy(e0, pi[i] * k, perm, i * k, k);
             }
@@ -796,7 +799,7 @@ public final class FunctionOnScalarFit {
         if (cols == 0) {
             return 0;
         }
-        double[] qe = Linear.multTransA(q, n, cols, e, k);
+        double[] qe = DenseAlgebra.multTransA(q, n, cols, e, k);
         double s = 0;
         for (double v : qe) {
             s += v * v;
@@ -808,8 +811,8 @@ public final class FunctionOnScalarFit {
         if (cols == 0) {
             return c.clone();
         }
-        double[] qc = Linear.multTransA(q, n, cols, c, k);
-        double[] fit = Linear.mult(q, n, cols, qc, k);
+        double[] qc = DenseAlgebra.multTransA(q, n, cols, c, k);
+        double[] fit = DenseAlgebra.mult(q, n, cols, qc, k);
         double[] r = new double[c.length];
         for (int i = 0; i < r.length; i++) {
             r[i] = c[i] - fit[i];
@@ -865,7 +868,7 @@ public final class FunctionOnScalarFit {
         QRDecomposition<DMatrixRMaj> qr = DecompositionFactory_DDRM.qr(rows, cols);
         if (!qr.decompose(DMatrixRMaj.wrap(rows, cols, xw.clone()))) {
             throw new io.densa.core.DensaException("QR decomposition of the " + rows + " x " + cols + " design failed",
-                    new Linear.SolveDiagnostics("QR of the weighted design", cols, Double.NaN));
+                    new SolveDiagnostics("QR of the weighted design", cols, Double.NaN));
         }
         DMatrixRMaj r = qr.getR(null, true);
         for (int j = 0; j < cols; j++) {

@@ -71,7 +71,7 @@ public final class FunctionOnScalarRegression {
                 }
             }
         }
-        double[] range = Linear.eigenvalueRange(penalty.data, k);
+        double[] range = DenseAlgebra.eigenvalueRange(penalty.data, k);
         if (!(range[0] >= -1e-10 * Math.max(Math.abs(range[1]), Double.MIN_NORMAL))) {
             throw new IllegalArgumentException("penalty matrix must be positive semi-definite; its smallest"
                     + " eigenvalue is " + range[0] + " (largest " + range[1] + "); a negative direction would"
@@ -113,8 +113,8 @@ public final class FunctionOnScalarRegression {
         Objects.requireNonNull(design, "design");
         Objects.requireNonNull(response, "response");
         int n = design.rows();
-        Linear.rows(response, n, "response");
-        Linear.requireModerate(response, "response");
+        Arguments.rows(response, n, "response");
+        Arguments.requireModerate(response, "response");
         if (penalty != null && penalty.numRows != response.dimension()) {
             throw new IllegalArgumentException("penalty matrix is " + penalty.numRows + " x " + penalty.numRows
                     + " but the response space has K = " + response.dimension());

@@ -295,7 +295,7 @@ public final class FunctionalRegression {
                 throw new IllegalArgumentException("predictor " + j + " has " + s.size() + " rows but the response has "
                         + n + "; every predictor needs one density per observation");
             }
-            Linear.requireModerate(s, "predictor " + j);
+            Arguments.requireModerate(s, "predictor " + j);
             if (responseSpace != null && !s.space().equals(responseSpace)
                     && s.space().lower() == responseSpace.lower() && s.space().upper() == responseSpace.upper()
                     && s.dimension() == responseSpace.dimension()) {
@@ -340,7 +340,7 @@ public final class FunctionalRegression {
     public FunctionOnFunctionFit fitDensityResponse(List<DensitySet> predictors, Design covariates,
             DensitySet response) {
         Objects.requireNonNull(response, "response");
-        Linear.requireModerate(response, "response");
+        Arguments.requireModerate(response, "response");
         Design d = check(predictors, covariates, response.size(), response.space());
         LinearFunctionalEngine.Result res = LinearFunctionalEngine.fit(this, d, predictors,
                 response.coordinatesRowMajor(), response.dimension());
@@ -366,7 +366,7 @@ public final class FunctionalRegression {
         if (responseComponents != null) {
             throw new IllegalArgumentException("response truncation applies to density responses only");
         }
-        Linear.requireModerate(response, 1, "response value");
+        Arguments.requireModerate(response, 1, "response value");
         Design d = check(predictors, covariates, response.length, null);
         LinearFunctionalEngine.Result res = LinearFunctionalEngine.fit(this, d, predictors, response.clone(), 1);
         return new ScalarOnFunctionFit(this, d, predictors, response, res);

@@ -3,6 +3,7 @@ package io.densa.regression;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.Seeds;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -67,7 +68,7 @@ final class LinearFunctionalEngine {
         FunctionalRegression.Candidate chosen;
         List<FunctionalRegression.Candidate> scored = new ArrayList<>();
         boolean cv = cands.size() > 1;
-        Moments mom = cv ? Moments.of(z, n, w, Linear.folds(n, folds, cfg.seed()), folds, centre)
+        Moments mom = cv ? Moments.of(z, n, w, Seeds.folds(n, folds, cfg.seed()), folds, centre)
                 : Moments.of(z, n, w, null, 1, centre);
         Fold all = new Fold(cfg, mom, -1, off, pz, r, predictors);
         if (cfg.method() == FunctionalRegression.Method.TRUNCATION) {
@@ -236,8 +237,8 @@ final class LinearFunctionalEngine {
                         System.arraycopy(v, i * kp, tfull, (a + i) * pz + a, kp);
                     }
                 }
-                azz = Linear.mult(Linear.multTransA(tfull, pz, pz, mzz, pz), pz, pz, tfull, pz);
-                azy = Linear.multTransA(tfull, pz, pz, mzy, r);
+                azz = DenseAlgebra.mult(DenseAlgebra.multTransA(tfull, pz, pz, mzz, pz), pz, pz, tfull, pz);
+                azy = DenseAlgebra.multTransA(tfull, pz, pz, mzy, r);
                 if (cfg.usesResponseTruncation()) {
                     double[] cy = new double[r * r];
                     for (int i = 0; i < r; i++) {
@@ -245,7 +246,7 @@ final class LinearFunctionalEngine {
                             cy[i * r + l] = cov[(pz + i) * w + pz + l];
                         }
                     }
-                    vy = Linear.symmetricEigen(cy, r).vectors();
+                    vy = DenseAlgebra.symmetricEigen(cy, r).vectors();
                 } else {
                     vy = null;
                 }
@@ -347,7 +348,7 @@ final class LinearFunctionalEngine {
                 for (int j = q; j < pz; j++) {
                     a[j * pz + j] += ntr * c.lambda();
                 }
-                return Linear.solveSpd(a, pz, mzy, r, "ridge functional regression");
+                return DenseAlgebra.solveSpd(a, pz, mzy, r, "ridge functional regression");
             }
             // indices kept: design columns, first m components of each predictor
             List<Integer> keep = keep(c.predictorComponents());
@@ -361,7 +362,7 @@ final class LinearFunctionalEngine {
                 }
                 System.arraycopy(azy, ki * r, b, i * r, r);
             }
-            double[] g = Linear.solveSpd(a, s, b, r, "truncated functional regression");
+            double[] g = DenseAlgebra.solveSpd(a, s, b, r, "truncated functional regression");
             // β = T_keep g
             double[] beta = new double[pz * r];
             for (int j = 0; j < pz; j++) {
@@ -388,7 +389,7 @@ final class LinearFunctionalEngine {
                         pm[i * r + l] = sum;
                     }
                 }
-                double[] out = Linear.mult(beta, pz, r, pm, r);
+                double[] out = DenseAlgebra.mult(beta, pz, r, pm, r);
                 for (int l = 0; l < r; l++) {
                     double sum = ybar[l];
                     for (int i = 0; i < r; i++) {
@@ -413,7 +414,7 @@ final class LinearFunctionalEngine {
         int n = predictors.get(0).size();
         for (int j = 0; j < spaces.size(); j++) {
             DensitySet s = Objects.requireNonNull(predictors.get(j), "predictor " + j);
-            Linear.sameSpace(spaces.get(j), s.space(), "predictor " + j);
+            spaces.get(j).requireSame(s.space(), "predictor " + j);
             if (s.size() != n) {
                 throw new IllegalArgumentException("predictor " + j + " has " + s.size() + " rows, predictor 0 has " + n);
             }
@@ -427,7 +428,7 @@ final class LinearFunctionalEngine {
             throw new IllegalArgumentException("covariates have " + d.rows() + " rows, predictors " + n);
         }
         int q = d.columns();
-        double[] out = Linear.mult(d.internal(), n, q, Arrays.copyOfRange(beta, 0, q * r), r);
+        double[] out = DenseAlgebra.mult(d.internal(), n, q, Arrays.copyOfRange(beta, 0, q * r), r);
         for (int j = 0; j < spaces.size(); j++) {
             int kj = off[j + 1] - off[j];
             double[] part = new double[n * r];

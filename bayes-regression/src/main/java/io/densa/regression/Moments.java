@@ -4,7 +4,7 @@ import io.densa.core.internal.Kernels;
 
 /**
  * Per-fold first and second moments of the rows of an n × w matrix, computed in one blocked
- * pass (fixed blocks of {@link Kernels#BLOCK} rows combined in order, so parallel and serial
+ * pass (fixed blocks of {@code Kernels.BLOCK} rows combined in order, so parallel and serial
  * results are bit-identical). Columns flagged for centring are shifted by their global mean
  * before accumulation (to avoid cancellation); everything returned by the package-private
  * accessors is in these shifted units unless stated otherwise.

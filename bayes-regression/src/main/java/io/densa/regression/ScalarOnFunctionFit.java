@@ -81,7 +81,7 @@ public final class ScalarOnFunctionFit {
     public double[] coefficientClr(int j, double... xs) {
         double[] c = coefficientFunction(j).coordinates(); // checks j
         BayesSpace s = predictorSpaces.get(j);
-        return Linear.clrAt(s, c, Linear.grid(s, xs, "points"));
+        return DenseAlgebra.clrAt(s, c, Arguments.grid(s, xs, "points"));
     }
 
     /** Fitted values (fresh). */

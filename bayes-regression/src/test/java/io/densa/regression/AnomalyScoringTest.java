@@ -242,7 +242,7 @@ class AnomalyScoringTest {
         AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults().calibrate(cal, new double[] {0.5});
         DensitySet other = DensitySet.of(BayesSpace.polynomials(0, 1, 8), new double[2][8]);
         e = assertThrows(IllegalArgumentException.class, () -> c.score(other));
-        assertTrue(e.getMessage().matches("residuals lives in .* but the model expects .*"), e.getMessage());
+        assertTrue(e.getMessage().matches("residuals lives in .* but .* is required; use space.project.*"), e.getMessage());
         e = assertThrows(IllegalArgumentException.class, () -> c.pValues(new double[] {Double.NaN}));
         assertTrue(e.getMessage().matches("norm 0 is NaN.*"), e.getMessage());
         assertThrows(IllegalArgumentException.class, () -> AnomalyScoring.withDefaults().withFdr(Double.NaN));

@@ -194,7 +194,7 @@ class FpcaTest {
         Fpca f = Fpca.fit(two);
         DensitySet other = DensitySet.of(BayesSpace.splines(0, 2, 4, 5), new double[3][8]);
         e = assertThrows(IllegalArgumentException.class, () -> f.scores(other, 2));
-        assertTrue(e.getMessage().matches("data lives in .* but the model expects .*"), e.getMessage());
+        assertTrue(e.getMessage().matches("data lives in .* but .* is required; use space.project.*"), e.getMessage());
         assertThrows(IllegalArgumentException.class, () -> f.componentsForVariance(Double.NaN));
         assertThrows(IllegalArgumentException.class, () -> f.scores(two, 9));
     }

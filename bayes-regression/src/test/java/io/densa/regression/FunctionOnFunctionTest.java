@@ -363,7 +363,7 @@ class FunctionOnFunctionTest {
         e = assertThrows(IllegalArgumentException.class, () -> fit.predictorFpca(1));
         assertTrue(e.getMessage().matches("predictor index 1 outside \\[0, 1\\)"), e.getMessage());
         e = assertThrows(IllegalArgumentException.class, () -> fit.predict(List.of(ys), null));
-        assertTrue(e.getMessage().matches("predictor 0 lives in .* but the model expects .*"), e.getMessage());
+        assertTrue(e.getMessage().matches("predictor 0 lives in .* but .* is required; use space.project.*"), e.getMessage());
         // fewer observations than parameters
         DensitySet[] small = simulate(15, 8, 0.5);
         e = assertThrows(IllegalArgumentException.class,

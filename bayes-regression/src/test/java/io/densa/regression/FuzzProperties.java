@@ -26,11 +26,7 @@ import net.jqwik.api.ShrinkingMode;
  * seed that jqwik reports on failure.
  */
 class FuzzProperties {
-
-    /** Known open findings (temporary exclusions; titles as in the fuzz-findings notes). None in this module. */
-    static final List<FuzzCheck.KnownOpen> KNOWN_OPEN = List.of();
-
-    private static final FuzzCheck CHECK = new FuzzCheck(KNOWN_OPEN);
+    private static final FuzzCheck CHECK = new FuzzCheck();
 
     /** In exploration mode (see {@link FuzzCheck}), writes what was collected to target/fuzz-collected.txt. */
     @net.jqwik.api.lifecycle.AfterContainer

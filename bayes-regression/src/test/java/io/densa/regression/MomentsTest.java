@@ -3,6 +3,7 @@ package io.densa.regression;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
+import io.densa.core.internal.Seeds;
 import java.util.Random;
 import org.junit.jupiter.api.Test;
 
@@ -20,7 +21,7 @@ class MomentsTest {
         for (int i = 0; i < x.length; i++) {
             x[i] = 5 + r.nextGaussian();
         }
-        int[] fold = Linear.folds(n, 5, 9L);
+        int[] fold = Seeds.folds(n, 5, 9L);
         boolean[] centre = {false, true, true, true, true, true, true};
         Moments par = Moments.of(x, n, w, fold, 5, centre, true);
         Moments ser = Moments.of(x, n, w, fold, 5, centre, false);

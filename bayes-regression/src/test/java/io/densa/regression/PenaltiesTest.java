@@ -107,7 +107,7 @@ class PenaltiesTest {
                         // interior points only, so the span's own polynomial piece is sampled
                         xs[j] = lo + (hi - lo) * (j + 0.5) / (degree + 1);
                     }
-                    double[] ys = Linear.clrAt(s, c, xs);
+                    double[] ys = DenseAlgebra.clrAt(s, c, xs);
                     PolynomialFunction p = new PolynomialFunction(
                             new PolynomialFunctionLagrangeForm(xs, ys).getCoefficients());
                     PolynomialFunction p2 = p.polynomialDerivative().polynomialDerivative();

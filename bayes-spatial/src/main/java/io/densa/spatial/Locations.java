@@ -1,5 +1,7 @@
 package io.densa.spatial;
 
+import io.densa.spatial.internal.GreatCircle;
+import io.densa.spatial.internal.Scaling;
 import java.util.Objects;
 
 /**
@@ -15,7 +17,7 @@ import java.util.Objects;
  */
 public final class Locations {
     /** Mean Earth radius R1 in kilometres used for geographic distances. */
-    public static final double EARTH_RADIUS_KM = 6371.0088;
+    public static final double EARTH_RADIUS_KM = GreatCircle.RADIUS_KM;
 
     /** Coordinate system of the locations. */
     public enum Kind {
@@ -28,11 +30,25 @@ public final class Locations {
     private final Kind kind;
     private final double[] x;
     private final double[] y;
+    /** Bounding box {minX, minY, maxX, maxY}; null when there are no locations. */
+    private final double[] box;
 
     private Locations(Kind kind, double[] x, double[] y) {
         this.kind = kind;
         this.x = x;
         this.y = y;
+        this.box = x.length == 0 ? null : box(x, y);
+    }
+
+    private static double[] box(double[] x, double[] y) {
+        double[] bb = {x[0], y[0], x[0], y[0]};
+        for (int i = 1; i < x.length; i++) {
+            bb[0] = Math.min(bb[0], x[i]);
+            bb[1] = Math.min(bb[1], y[i]);
+            bb[2] = Math.max(bb[2], x[i]);
+            bb[3] = Math.max(bb[3], y[i]);
+        }
+        return bb;
     }
 
     /**
@@ -96,8 +112,9 @@ public final class Locations {
     /**
      * Checks a point given in this coordinate system, as every query with a caller's point does
      * (prediction targets, neighbour queries, {@link #distanceTo}): planar points must be finite and
-     * lie close enough to the locations that their distances stay finite; geographic points as in
-     * {@link #geographic}.
+     * lie close enough to the locations that their distances stay finite — the distance from the
+     * point to the farthest corner of the locations' bounding box must be a finite double, which
+     * bounds its distance to every location; geographic points as in {@link #geographic}. O(1).
      *
      * @param what names the point in the message
      * @throws IllegalArgumentException naming the point and what would be accepted
@@ -109,6 +126,25 @@ public final class Locations {
         }
         if (!Double.isFinite(px) || !Double.isFinite(py)) {
             throw new IllegalArgumentException(what + " must be finite, got (" + px + ", " + py + ")");
+        }
+        if (box != null) {
+            double dx = Math.max(Math.abs(px - box[0]), Math.abs(px - box[2]));
+            double dy = Math.max(Math.abs(py - box[1]), Math.abs(py - box[3]));
+            if (!(Scaling.planarNorm(dx, dy) <= Double.MAX_VALUE)) {
+                throw new IllegalArgumentException(what + " (" + px + ", " + py + ") is so far from the locations"
+                        + " (bounding box [" + box[0] + ", " + box[2] + "] x [" + box[1] + ", " + box[3] + "]) that"
+                        + " its distance to them overflows a double; accepted are points whose distance to every"
+                        + " corner of that box is below about 1.8e308");
+            }
+        }
+    }
+
+    /** Throws unless 0 &lt;= i &lt; size(), naming the index, what it was for, and the size. */
+    private void checkIndex(int i, String what) {
+        if (i < 0 || i >= x.length) {
+            throw new IllegalArgumentException(what + " index " + i + " is out of range: "
+                    + (x.length == 0 ? "there are no locations" : "accepted are 0.." + (x.length - 1) + " ("
+                    + x.length + " locations)"));
         }
     }
 
@@ -140,7 +176,7 @@ public final class Locations {
             y0 = Math.min(y0, y[i]);
             y1 = Math.max(y1, y[i]);
         }
-        if (x.length > 0 && !Double.isFinite(planarNorm(x1 - x0, y1 - y0))) {
+        if (x.length > 0 && !Double.isFinite(Scaling.planarNorm(x1 - x0, y1 - y0))) {
             throw new IllegalArgumentException("the locations span [" + x0 + ", " + x1 + "] x [" + y0 + ", " + y1
                     + "], whose diagonal overflows a double; shift or rescale the coordinates (spans up to about"
                     + " 1e308 are accepted)");
@@ -157,13 +193,23 @@ public final class Locations {
         return kind;
     }
 
-    /** First coordinate (x, or longitude) of location i. */
+    /**
+     * First coordinate (x, or longitude) of location i.
+     *
+     * @throws IllegalArgumentException unless 0 &lt;= i &lt; {@link #size()}
+     */
     public double x(int i) {
+        checkIndex(i, "location");
         return x[i];
     }
 
-    /** Second coordinate (y, or latitude) of location i. */
+    /**
+     * Second coordinate (y, or latitude) of location i.
+     *
+     * @throws IllegalArgumentException unless 0 &lt;= i &lt; {@link #size()}
+     */
     public double y(int i) {
+        checkIndex(i, "location");
         return y[i];
     }
 
@@ -177,63 +223,53 @@ public final class Locations {
         return y.clone();
     }
 
-    /** Distance between locations i and j. */
+    /**
+     * Distance between locations i and j (always finite: planar locations are checked at
+     * construction so that the diagonal of their bounding box is finite).
+     *
+     * @throws IllegalArgumentException unless both indices are in 0..size()−1
+     */
     public double distance(int i, int j) {
+        checkIndex(i, "first location");
+        checkIndex(j, "second location");
         return unchecked(x[i], y[i], x[j], y[j]);
     }
 
     /**
      * Distance from location i to a point given in the same coordinate system.
      *
-     * @throws IllegalArgumentException if the point fails {@link #requirePoint}
+     * @throws IllegalArgumentException if i is out of range or the point fails {@link #requirePoint}
      */
     public double distanceTo(int i, double px, double py) {
+        checkIndex(i, "location");
         requirePoint(px, py, "point");
         return unchecked(x[i], y[i], px, py);
     }
 
     /**
      * Distance between two points in this coordinate system: Euclidean for planar points
-     * ({@link #planarNorm}, which neither overflows nor underflows), great-circle km otherwise.
+     * (computed so that it neither overflows nor underflows), great-circle km otherwise.
      *
-     * @throws IllegalArgumentException if a point fails {@link #requirePoint}
+     * @throws IllegalArgumentException if a point fails {@link #requirePoint}, or (planar) the
+     *                                  distance between the two points overflows a double
      */
     public double distance(double x1, double y1, double x2, double y2) {
         requirePoint(x1, y1, "first point");
         requirePoint(x2, y2, "second point");
-        return unchecked(x1, y1, x2, y2);
+        double d = unchecked(x1, y1, x2, y2);
+        if (!(d <= Double.MAX_VALUE)) {
+            throw new IllegalArgumentException("the distance between (" + x1 + ", " + y1 + ") and (" + x2 + ", " + y2
+                    + ") overflows a double; accepted are points less than about 1.8e308 apart");
+        }
+        return d;
     }
 
     /** {@link #distance(double, double, double, double)} for points already checked. */
     double unchecked(double x1, double y1, double x2, double y2) {
         if (kind == Kind.PLANAR) {
-            return planarNorm(x1 - x2, y1 - y2);
+            return Scaling.planarNorm(x1 - x2, y1 - y2);
         }
-        return chordKm(x1, y1, x2, y2);
-    }
-
-    /**
-     * √(dx² + dy²) without overflow or underflow: the plain formula, whose result is bit-identical to
-     * the square root of the sum of squares, whenever that sum lies in [2⁻⁹⁶⁰, 2⁹⁶⁰]; otherwise the
-     * two components are first scaled by the power of two of the larger one (exact), like
-     * {@link Math#hypot} but without its cost on the common path.
-     */
-    static double planarNorm(double dx, double dy) {
-        double s = dx * dx + dy * dy;
-        if (s <= 0x1p960 && s >= 0x1p-960) {
-            return Math.sqrt(s);
-        }
-        return scaledNorm(dx, dy);
-    }
-
-    private static double scaledNorm(double dx, double dy) {
-        double m = Math.max(Math.abs(dx), Math.abs(dy));
-        if (m == 0 || !(m <= Double.MAX_VALUE)) {
-            return m; // 0, +inf or NaN
-        }
-        int e = Math.getExponent(m);
-        double a = Math.scalb(dx, -e), b = Math.scalb(dy, -e);
-        return Math.scalb(Math.sqrt(a * a + b * b), e);
+        return GreatCircle.km(x1, y1, x2, y2);
     }
 
     /**
@@ -253,55 +289,33 @@ public final class Locations {
     public static double greatCircleKm(double lon1, double lat1, double lon2, double lat2) {
         checkGeographic(lon1, lat1, "first point");
         checkGeographic(lon2, lat2, "second point");
-        return chordKm(lon1, lat1, lon2, lat2);
-    }
-
-    private static double chordKm(double lon1, double lat1, double lon2, double lat2) {
-        double[] u = new double[6];
-        unitVector(lon1, lat1, u, 0);
-        unitVector(lon2, lat2, u, 3);
-        double ex = u[0] - u[3], ey = u[1] - u[4], ez = u[2] - u[5];
-        return kmFromChordSq(u, 0, 3, ex * ex + ey * ey + ez * ez);
-    }
-
-    /** Writes the unit vector of (longitude, latitude) in degrees to out[off..off+2]. */
-    static void unitVector(double lon, double lat, double[] out, int off) {
-        double l = Math.toRadians(lon), p = Math.toRadians(lat);
-        out[off] = Math.cos(p) * Math.cos(l);
-        out[off + 1] = Math.cos(p) * Math.sin(l);
-        out[off + 2] = Math.sin(p);
+        return GreatCircle.km(lon1, lat1, lon2, lat2);
     }
 
     /**
-     * Great-circle km between the unit vectors u[a..a+2] and u[b..b+2] whose squared chord
-     * (‖u_a − u_b‖², summed x, y, z in that order) is chordSq; see {@link #greatCircleKm}.
+     * Bounding box {minX, minY, maxX, maxY} (fresh array).
+     *
+     * @throws IllegalStateException if there are no locations (an empty set has no bounding box)
      */
-    static double kmFromChordSq(double[] u, int a, int b, double chordSq) {
-        if (chordSq <= 2) {
-            return 2 * EARTH_RADIUS_KM * Math.asin(Math.sqrt(chordSq) / 2);
-        }
-        double sx = u[a] + u[b], sy = u[a + 1] + u[b + 1], sz = u[a + 2] + u[b + 2];
-        return EARTH_RADIUS_KM * (Math.PI - 2 * Math.asin(Math.min(1, Math.sqrt(sx * sx + sy * sy + sz * sz) / 2)));
-    }
-
-    /** Bounding box {minX, minY, maxX, maxY}. */
     public double[] boundingBox() {
-        double[] bb = {Double.POSITIVE_INFINITY, Double.POSITIVE_INFINITY, Double.NEGATIVE_INFINITY,
-            Double.NEGATIVE_INFINITY};
-        for (int i = 0; i < x.length; i++) {
-            bb[0] = Math.min(bb[0], x[i]);
-            bb[1] = Math.min(bb[1], y[i]);
-            bb[2] = Math.max(bb[2], x[i]);
-            bb[3] = Math.max(bb[3], y[i]);
+        if (box == null) {
+            throw new IllegalStateException("there are no locations, so there is no bounding box; check size() > 0"
+                    + " first");
         }
-        return bb;
+        return box.clone();
     }
 
-    /** Subset of locations in the given order. */
+    /**
+     * Subset of locations in the given order (repeats allowed).
+     *
+     * @throws IllegalArgumentException naming the first row index outside 0..size()−1
+     */
     public Locations subset(int... rows) {
+        Objects.requireNonNull(rows, "rows");
         double[] nx = new double[rows.length];
         double[] ny = new double[rows.length];
         for (int r = 0; r < rows.length; r++) {
+            checkIndex(rows[r], "subset row " + r + ": location");
             nx[r] = x[rows[r]];
             ny[r] = y[rows[r]];
         }

@@ -25,12 +25,17 @@ import org.locationtech.jts.operation.overlay.snap.GeometrySnapper;
  * <ul>
  *   <li>Weights are finite and non-negative, the diagonal is zero (a unit is never its own
  *       neighbour), and only positive weights are stored. W need not be symmetric.</li>
+ *   <li>Their range is checked: S0, S1 and S2 below must be finite doubles (weights up to about
+ *       1e150 pass; larger ones are rejected with an {@link IllegalArgumentException} naming the
+ *       largest weight — Moran's I and Geary's c do not depend on a common factor of the weights,
+ *       so dividing them by one loses nothing). Very small weights are accepted; the statistics
+ *       compute on the weights divided by the power of two of the largest (exact).</li>
  *   <li>The constants of Cliff &amp; Ord (1981), Spatial Processes (from memory) are computed
  *       from the stored entries without assuming symmetry:
  *       S0 = Σ_i Σ_j w_ij, S1 = ½ Σ_i Σ_j (w_ij + w_ji)², S2 = Σ_i (w_i· + w_·i)², where w_i·
  *       and w_·i are the row and column sums; sums use Neumaier compensated summation.</li>
  *   <li>An <em>island</em> is a unit whose row is empty (no neighbours). Islands are reported by
- *       {@link #islands()}; the statistics handle them by an {@link IslandPolicy} (an error by
+ *       {@link #islands()}; the statistics handle them by an island policy (an error by
  *       default, or the islands are excluded from the analysis).</li>
  *   <li>{@link #rowStandardised()} divides every non-empty row by its sum (rows then sum to
  *       one); island rows stay empty.</li>
@@ -65,17 +70,6 @@ public final class SpatialWeights {
         MUTUAL
     }
 
-    /** What a statistic does with islands (units without neighbours). */
-    public enum IslandPolicy {
-        /** Throw an {@link IllegalArgumentException} naming the islands (the default). */
-        ERROR,
-        /**
-         * Remove the islands (their rows and columns, and their values) and analyse the other
-         * units; results report which units were excluded.
-         */
-        EXCLUDE
-    }
-
     private final int n;
     private final int[] rowStart;
     private final int[] cols;
@@ -86,6 +80,7 @@ public final class SpatialWeights {
     private final double s2;
     private final int[] islands;
     private final boolean symmetric;
+    private final double maxWeight;
 
     private SpatialWeights(int n, int[] rowStart, int[] cols, double[] vals, boolean rowStandardised) {
         this.n = n;
@@ -150,6 +145,45 @@ public final class SpatialWeights {
         this.s2 = acc2[0] + acc2[1];
         this.symmetric = sym;
         this.islands = isl.stream().mapToInt(Integer::intValue).toArray();
+        double max = 0;
+        int at = -1;
+        for (int p = 0; p < vals.length; p++) {
+            if (vals[p] > max) {
+                max = vals[p];
+                at = p;
+            }
+        }
+        this.maxWeight = max;
+        if (!(s0 <= Double.MAX_VALUE && s1 <= Double.MAX_VALUE && s2 <= Double.MAX_VALUE)) {
+            int row = 0;
+            while (rowStart[row + 1] <= at) {
+                row++;
+            }
+            throw new IllegalArgumentException("the weights are too large: their sums S0 = Σ w_ij, S1 and S2 (sums"
+                    + " of squared weights) overflow a double; the largest weight is " + max
+                    + " (link " + row + " -> " + cols[at] + "). Accepted are weights whose sums stay finite (up to"
+                    + " about 1e150 each); divide them by a common factor, which changes neither Moran's I nor"
+                    + " Geary's c");
+        }
+    }
+
+    /**
+     * These weights divided by the power of two 2^e of the largest weight (exact) when that lies
+     * outside [2^-64, 2^65), otherwise this object: what the global statistics compute on, so
+     * that n / S0, S0² and the weighted sums neither overflow nor underflow. Moran's I, Geary's c
+     * and their moments do not depend on a common factor of the weights. The result keeps the
+     * links and {@link #isRowStandardised()} of this object.
+     */
+    public SpatialWeights normalisedForStatistics() {
+        int e = Math.getExponent(maxWeight);
+        if (vals.length == 0 || (e >= -64 && e <= 64)) {
+            return this;
+        }
+        double[] v = new double[vals.length];
+        for (int p = 0; p < vals.length; p++) {
+            v[p] = Math.scalb(vals[p], -e);
+        }
+        return new SpatialWeights(n, rowStart, cols, v, rowStandardised);
     }
 
     /** Neumaier compensated addition: acc = {sum, compensation}. */
@@ -341,8 +375,10 @@ public final class SpatialWeights {
      *
      * @param power       exponent, finite and positive (1 and 2 are usual)
      * @param maxDistance band radius, positive, or {@code Double.POSITIVE_INFINITY} for no band
-     * @throws IllegalArgumentException on a bad power or band, or on two coincident units (named),
-     *                                  whose weight would be infinite
+     * @throws IllegalArgumentException on a bad power or band, on two coincident units (named),
+     *                                  whose weight would be infinite, or on a weight that over-
+     *                                  or underflows a double (named), or weights whose sums
+     *                                  overflow
      */
     public static SpatialWeights inverseDistance(Locations locations, double power, double maxDistance) {
         Objects.requireNonNull(locations, "locations");
@@ -386,7 +422,14 @@ public final class SpatialWeights {
                             + Math.max(i, nb[i][m]) + " are coincident; inverse-distance weight is infinite"
                             + " (merge them or use binary weights)");
                 }
-                wt[i][m] = power == 1 ? 1 / d : Math.pow(d, -power);
+                double w = power == 1 ? 1 / d : Math.pow(d, -power);
+                if (!(w > 0 && w <= Double.MAX_VALUE)) {
+                    throw new IllegalArgumentException("the inverse-distance weight of units " + i + " and " + nb[i][m]
+                            + " at distance " + d + " with power " + power + " is " + w + " (d^-power "
+                            + (w > 0 ? "overflows" : "underflows to 0") + "); accepted are powers and distances whose"
+                            + " weights are positive finite doubles: use a smaller power or rescale the coordinates");
+                }
+                wt[i][m] = w;
             }
         }
         return assemble(n, nb, wt);
@@ -715,13 +758,24 @@ public final class SpatialWeights {
     }
 
     /**
-     * Weights restricted to the given units (rows and columns), renumbered 0..m−1 in the given
-     * order. Package-private: used to exclude islands.
+     * The weights among the given units: rows and columns of these units, renumbered 0..m−1 in the
+     * given order (links to other units are dropped); a row-standardised object stays marked as
+     * such (its kept rows are not re-standardised).
+     *
+     * @param units distinct unit indices in 0..n−1 (not modified)
+     * @throws IllegalArgumentException on an index outside 0..n−1 or a repeated index
      */
-    SpatialWeights restrict(int[] keep) {
+    public SpatialWeights restrictedTo(int... units) {
+        Objects.requireNonNull(units, "units");
+        int[] keep = units.clone();
         int[] newIndex = new int[n];
         Arrays.fill(newIndex, -1);
         for (int a = 0; a < keep.length; a++) {
+            checkIndex(keep[a]);
+            if (newIndex[keep[a]] >= 0) {
+                throw new IllegalArgumentException("unit " + keep[a] + " is listed twice (positions "
+                        + newIndex[keep[a]] + " and " + a + "); give each unit once");
+            }
             newIndex[keep[a]] = a;
         }
         int m = keep.length;
@@ -833,7 +887,8 @@ public final class SpatialWeights {
      *
      * @param values n values (not modified)
      * @return a fresh n-vector
-     * @throws IllegalArgumentException if the length is not n
+     * @throws IllegalArgumentException if the length is not n, a value is not finite, or a unit's
+     *                                  lag overflows a double (naming the unit)
      */
     public double[] spatialLag(double[] values) {
         Objects.requireNonNull(values, "values");
@@ -846,6 +901,17 @@ public final class SpatialWeights {
             double s = 0;
             for (int p = rowStart[i]; p < rowStart[i + 1]; p++) {
                 s += vals[p] * values[cols[p]];
+            }
+            if (!Double.isFinite(s)) {
+                for (int j = 0; j < n; j++) {
+                    if (!Double.isFinite(values[j])) {
+                        throw new IllegalArgumentException("value of unit " + j + " is " + values[j]
+                                + "; every value must be finite");
+                    }
+                }
+                throw new IllegalArgumentException("the spatial lag of unit " + i + " overflows a double (its "
+                        + (rowStart[i + 1] - rowStart[i]) + " weighted neighbour values sum beyond about 1.8e308);"
+                        + " rescale the values or the weights");
             }
             out[i] = s;
         }
@@ -869,19 +935,23 @@ public final class SpatialWeights {
         }
     }
 
-    /** Row starts (internal array, not copied; callers must not modify). */
-    int[] rowStartArray() {
-        return rowStart;
+    /**
+     * Row starts of the compressed-row form (n + 1 values, a fresh copy): the links of unit i are
+     * the entries rowStarts()[i] .. rowStarts()[i + 1] − 1 of {@link #columnIndices()} and
+     * {@link #linkWeights()}, in increasing column order.
+     */
+    public int[] rowStarts() {
+        return rowStart.clone();
     }
 
-    /** Column indices (internal array, not copied; callers must not modify). */
-    int[] columnArray() {
-        return cols;
+    /** Neighbour (column) index of every link, in compressed-row order (a fresh copy). */
+    public int[] columnIndices() {
+        return cols.clone();
     }
 
-    /** Weights (internal array, not copied; callers must not modify). */
-    double[] valueArray() {
-        return vals;
+    /** Weight of every link, in compressed-row order (a fresh copy). */
+    public double[] linkWeights() {
+        return vals.clone();
     }
 
     @Override

@@ -5,6 +5,20 @@ import static io.densa.spatial.FuzzValues.vector;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.spatial.autocorrelation.AutocorrelationOptions;
+import io.densa.spatial.autocorrelation.GearyC;
+import io.densa.spatial.autocorrelation.IslandPolicy;
+import io.densa.spatial.autocorrelation.LocalMoran;
+import io.densa.spatial.autocorrelation.MoranI;
+import io.densa.spatial.kriging.Drift;
+import io.densa.spatial.kriging.Kriging;
+import io.densa.spatial.kriging.KrigingOptions;
+import io.densa.spatial.kriging.Neighbourhood;
+import io.densa.spatial.variogram.EmpiricalVariogram;
+import io.densa.spatial.variogram.VariogramFitOptions;
+import io.densa.spatial.variogram.VariogramFitting;
+import io.densa.spatial.variogram.VariogramModel;
+import io.densa.spatial.variogram.VariogramOptions;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Random;
@@ -25,61 +39,9 @@ import net.jqwik.api.ShrinkingMode;
  * {@link IllegalStateException} / {@link io.densa.core.DensaException} thrown by Densa, and must
  * not modify its inputs (see {@link FuzzCheck}). Fixed seeds; 29,500 tries in all; each try draws
  * its inputs from a case seed that jqwik reports on failure.
- *
- * <p>{@link #KNOWN_OPEN} lists findings in code another branch is changing, each with the title
- * of its entry in the project's fuzz-findings notes. TEMPORARY: remove each entry once its fix is
- * merged.
  */
 class FuzzProperties {
-
-    // ------------------------------------------------------------------ known open findings
-    // TEMPORARY exclusions for findings in bayes-spatial, which another branch is changing; titles
-    // as in the fuzz-findings notes. Remove an entry once its fix is merged.
-
-    private static boolean nonFinite(Throwable t) {
-        return FuzzCheck.messageContains(t, "non-finite ");
-    }
-
-    private static boolean oneOf(String op, String... ops) {
-        return Arrays.asList(ops).contains(op);
-    }
-
-    static final FuzzCheck.KnownOpen LOCATION_INDEX = new FuzzCheck.KnownOpen(
-            "SP-1 Locations index methods throw ArrayIndexOutOfBoundsException",
-            (op, t) -> oneOf(op, "distance(i, j)", "distanceTo", "subset")
-                    && FuzzCheck.causedBy(t, ArrayIndexOutOfBoundsException.class));
-    static final FuzzCheck.KnownOpen EMPTY_BOUNDING_BOX = new FuzzCheck.KnownOpen(
-            "SP-2 Locations.boundingBox of no locations returns infinities",
-            (op, t) -> op.equals("boundingBox") && nonFinite(t));
-    static final FuzzCheck.KnownOpen PLANAR_DISTANCE_OVERFLOW = new FuzzCheck.KnownOpen(
-            "SP-3 planar distances overflow to +Infinity near 1e300",
-            (op, t) -> oneOf(op, "distance(i, j)", "distance(points)", "distanceTo", "kthDistance") && nonFinite(t));
-    static final FuzzCheck.KnownOpen MODEL_OVERFLOW = new FuzzCheck.KnownOpen(
-            "SP-4 VariogramModel gamma, covariance and sill overflow for parameters near the double limit",
-            (op, t) -> oneOf(op, "gamma", "covariance", "sill") && nonFinite(t));
-    static final FuzzCheck.KnownOpen EMPIRICAL_VARIOGRAM_NAN = new FuzzCheck.KnownOpen(
-            "SP-5 EmpiricalVariogram returns NaN or infinite lags and semivariances",
-            (op, t) -> oneOf(op, "semivariances", "meanLags", "edges") && nonFinite(t));
-    static final FuzzCheck.KnownOpen VARIOGRAM_FIT = new FuzzCheck.KnownOpen(
-            "SP-6 VariogramFitting leaks Commons Math exceptions and returns NaN fitted values or infinite RMSE",
-            (op, t) -> op.equals("VariogramFitting.fit"));
-    static final FuzzCheck.KnownOpen KRIGING_NONFINITE = new FuzzCheck.KnownOpen(
-            "SP-7 Kriging returns infinite variances and NaN or infinite cross-validation errors",
-            (op, t) -> oneOf(op, "predict", "predictWithWeights", "crossValidate") && nonFinite(t));
-    static final FuzzCheck.KnownOpen AUTOCORRELATION_NONFINITE = new FuzzCheck.KnownOpen(
-            "SP-8 Moran's I, Geary's c and local Moran return NaN or infinite statistics",
-            (op, t) -> oneOf(op, "MoranI.statistic", "MoranI.test", "GearyC.test", "LocalMoran.test", "MoranI densities")
-                    && nonFinite(t));
-    static final FuzzCheck.KnownOpen WEIGHTS_OVERFLOW = new FuzzCheck.KnownOpen(
-            "SP-9 SpatialWeights accept weights whose sums overflow (S0, S1, S2, spatial lag)",
-            (op, t) -> oneOf(op, "s0", "s1", "s2", "spatialLag", "rowStandardised") && nonFinite(t));
-
-    /** Known open findings (temporary exclusions). */
-    static final List<FuzzCheck.KnownOpen> KNOWN_OPEN = List.of(LOCATION_INDEX, EMPTY_BOUNDING_BOX,
-            PLANAR_DISTANCE_OVERFLOW, MODEL_OVERFLOW, EMPIRICAL_VARIOGRAM_NAN, VARIOGRAM_FIT, KRIGING_NONFINITE,
-            AUTOCORRELATION_NONFINITE, WEIGHTS_OVERFLOW);
-
-    private static final FuzzCheck CHECK = new FuzzCheck(KNOWN_OPEN);
+    private static final FuzzCheck CHECK = new FuzzCheck();
 
     /** In exploration mode (see {@link FuzzCheck}), writes what was collected to target/fuzz-collected.txt. */
     @net.jqwik.api.lifecycle.AfterContainer
@@ -228,7 +190,7 @@ class FuzzProperties {
         double[] values = vector(r, n, r.nextBoolean() ? FuzzValues::extreme : FuzzValues::mild);
         CHECK.run("spatialLag", () -> w.spatialLag(values), values);
         AutocorrelationOptions opt = AutocorrelationOptions.withDefaults()
-                .withIslandPolicy(SpatialWeights.IslandPolicy.values()[r.nextInt(SpatialWeights.IslandPolicy.values().length)])
+                .withIslandPolicy(IslandPolicy.values()[r.nextInt(IslandPolicy.values().length)])
                 .withPermutations(19, 5L).withParallel(false);
         CHECK.run("MoranI.statistic", () -> MoranI.statistic(w, values), values);
         CHECK.run("MoranI.test", () -> MoranI.test(w, values, opt), values);
@@ -321,7 +283,7 @@ class FuzzProperties {
         double h = Math.abs(extreme(r));
         CHECK.run("gamma", () -> model.gamma(h));
         CHECK.run("covariance", () -> model.bounded() ? model.covariance(h) : 0.0);
-        CHECK.run("sill", model::sill);
+        CHECK.run("sill", model::sill); // an IllegalStateException for a power model, which has no sill
         FuzzCheck.context(() -> "kriging seed=" + seed + " model=" + model + " h=" + h);
         if (r.nextInt(4) > 0) {
             return; // model evaluation is cheap; kriging systems run on a quarter of the tries

@@ -5,6 +5,14 @@ import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.DensitySet;
+import io.densa.spatial.internal.Scaling;
+import io.densa.spatial.kriging.Grid;
+import io.densa.spatial.kriging.GridOptions;
+import io.densa.spatial.kriging.Kriging;
+import io.densa.spatial.kriging.KrigingOptions;
+import io.densa.spatial.kriging.KrigingPrediction;
+import io.densa.spatial.kriging.OrdinaryKrigingReferenceTest;
+import io.densa.spatial.variogram.VariogramModel;
 import java.util.Random;
 import org.junit.jupiter.api.Test;
 
@@ -33,7 +41,7 @@ class LocationEdgesTest {
         for (int t = 0; t < 20_000; t++) {
             double dx = (r.nextDouble() - 0.5) * Math.pow(10, r.nextInt(600) - 300);
             double dy = (r.nextDouble() - 0.5) * Math.pow(10, r.nextInt(600) - 300);
-            double d = Locations.planarNorm(dx, dy);
+            double d = Scaling.planarNorm(dx, dy);
             double ref = Math.hypot(dx, dy);
             assertEquals(ref, d, 3 * Math.ulp(ref), dx + ", " + dy);
             double s = dx * dx + dy * dy;

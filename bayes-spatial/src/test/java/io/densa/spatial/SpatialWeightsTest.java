@@ -1,8 +1,8 @@
 package io.densa.spatial;
 
-import static io.densa.spatial.AutocorrelationTestSupport.box;
-import static io.densa.spatial.AutocorrelationTestSupport.rookLattice;
-import static io.densa.spatial.AutocorrelationTestSupport.squareLattice;
+import static io.densa.spatial.Lattices.box;
+import static io.densa.spatial.Lattices.rookLattice;
+import static io.densa.spatial.Lattices.squareLattice;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;

@@ -2,19 +2,21 @@ package io.densa.spatial;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.spatial.variogram.VariogramModel;
 import java.util.Random;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
 import org.ejml.interfaces.decomposition.CholeskyDecomposition_F64;
 
 /** Seeded invented data for tests (not reference values). */
-final class TestData {
-    static final BayesSpace K3 = BayesSpace.polynomials(-1, 1, 3);
+public final class TestData {
+    public static final BayesSpace K3 = BayesSpace.polynomials(-1, 1, 3);
+    public static final BayesSpace K10 = BayesSpace.polynomials(0, 1, 10);
 
     private TestData() {
     }
 
-    static Locations uniformSquare(int n, double side, long seed) {
+    public static Locations uniformSquare(int n, double side, long seed) {
         Random r = new Random(seed);
         double[] x = new double[n], y = new double[n];
         for (int i = 0; i < n; i++) {
@@ -24,7 +26,7 @@ final class TestData {
         return Locations.planar(x, y);
     }
 
-    static DensitySet independentCoordinates(BayesSpace space, int n, long seed) {
+    public static DensitySet independentCoordinates(BayesSpace space, int n, long seed) {
         Random r = new Random(seed);
         double[][] c = new double[n][space.dimension()];
         for (int i = 0; i < n; i++) {
@@ -39,7 +41,7 @@ final class TestData {
      * Gaussian random field by Cholesky: each of the K coordinates is an independent zero-mean
      * field with covariance C(h)/K, so the trace-covariance of the densities is C(h).
      */
-    static DensitySet gaussianField(BayesSpace space, Locations loc, VariogramModel model, long seed) {
+    public static DensitySet gaussianField(BayesSpace space, Locations loc, VariogramModel model, long seed) {
         int n = loc.size(), k = space.dimension();
         DMatrixRMaj c = new DMatrixRMaj(n, n);
         for (int i = 0; i < n; i++) {
@@ -55,7 +57,7 @@ final class TestData {
      * n densities whose K coordinates are independent zero-mean Gaussian vectors with the given
      * n × n covariance, sampled as L z with L the Cholesky factor (seeded).
      */
-    static DensitySet correlatedCoordinates(BayesSpace space, DMatrixRMaj c, long seed) {
+    public static DensitySet correlatedCoordinates(BayesSpace space, DMatrixRMaj c, long seed) {
         int n = c.numRows, k = space.dimension();
         CholeskyDecomposition_F64<DMatrixRMaj> chol = DecompositionFactory_DDRM.chol(n, true);
         if (!chol.decompose(c.copy())) {

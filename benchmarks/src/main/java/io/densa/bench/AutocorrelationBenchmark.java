@@ -1,10 +1,10 @@
 package io.densa.bench;
 
-import io.densa.spatial.AutocorrelationOptions;
-import io.densa.spatial.LocalMoran;
 import io.densa.spatial.Locations;
-import io.densa.spatial.MoranI;
 import io.densa.spatial.SpatialWeights;
+import io.densa.spatial.autocorrelation.AutocorrelationOptions;
+import io.densa.spatial.autocorrelation.LocalMoran;
+import io.densa.spatial.autocorrelation.MoranI;
 import java.util.Random;
 import java.util.concurrent.TimeUnit;
 import org.openjdk.jmh.annotations.Benchmark;

@@ -1,10 +1,10 @@
 package io.densa.bench;
 
-import io.densa.core.BatchEstimate;
 import io.densa.core.BayesSpace;
-import io.densa.core.NewtonCost;
-import io.densa.core.PenalizedLikelihoodEstimator;
-import io.densa.core.SmoothingSplineEstimator;
+import io.densa.core.estimate.BatchEstimate;
+import io.densa.core.estimate.NewtonCost;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator;
+import io.densa.core.estimate.SmoothingSplineEstimator;
 import java.util.SplittableRandom;
 import java.util.concurrent.TimeUnit;
 import org.openjdk.jmh.annotations.Benchmark;

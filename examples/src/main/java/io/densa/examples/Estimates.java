@@ -1,8 +1,8 @@
 package io.densa.examples;
 
-import io.densa.core.BatchEstimate;
 import io.densa.core.DensitySet;
-import io.densa.core.EstimationDiagnostics;
+import io.densa.core.estimate.BatchEstimate;
+import io.densa.core.estimate.EstimationDiagnostics;
 
 /**
  * Densities estimated for a batch of units with what the report needs to say about them.
@@ -35,23 +35,5 @@ record Estimates(DensitySet densities, double[] variances, int notConverged, dou
         }
         return new Estimates(est.densities(), est.estimationVariances(), est.flaggedRows().size(), lo, hi,
                 java.util.List.copyOf(problems), est.extrapolationShares(), est.extrapolatedIds());
-    }
-
-    /**
-     * One sentence for a report on the units carried by extrapolation (at most {@code listed} ids
-     * named), e.g. "2 of 80 estimates are carried by extrapolation …".
-     */
-    static String extrapolationSentence(java.util.List<String> flagged, int units, int listed) {
-        String what = " (more than " + (int) Math.round(100 * EstimationDiagnostics.EXTRAPOLATION_THRESHOLD)
-                + " % of the squared B2 norm lies beyond the unit's data, below the level at which that region is"
-                + " already expected to be empty: that part is set by the estimator, not by the data)";
-        if (flagged.isEmpty()) {
-            return "No estimate is carried by extrapolation" + what + ".";
-        }
-        String names = String.join(", ", flagged.subList(0, Math.min(listed, flagged.size())))
-                + (flagged.size() > listed ? ", …" : "");
-        return flagged.size() + " of " + units + " estimates are carried by extrapolation" + what + ": " + names
-                + ". Their distances to the others say more about how the estimator fills empty regions than about"
-                + " their data.";
     }
 }

@@ -45,6 +45,29 @@ final class LocalProjection {
         return lat0 + Math.toDegrees(y / KM_PER_RAD);
     }
 
+    /** A copy of a planar-km geometry in WGS 84 longitude/latitude degrees. */
+    org.locationtech.jts.geom.Geometry toLonLat(org.locationtech.jts.geom.Geometry planar) {
+        org.locationtech.jts.geom.Geometry g = planar.copy();
+        g.apply(new org.locationtech.jts.geom.CoordinateSequenceFilter() {
+            @Override
+            public void filter(org.locationtech.jts.geom.CoordinateSequence seq, int i) {
+                seq.setOrdinate(i, 0, lon(seq.getX(i)));
+                seq.setOrdinate(i, 1, lat(seq.getY(i)));
+            }
+
+            @Override
+            public boolean isDone() {
+                return false;
+            }
+
+            @Override
+            public boolean isGeometryChanged() {
+                return true;
+            }
+        });
+        return g;
+    }
+
     String describe() {
         return String.format(java.util.Locale.ROOT,
                 "equirectangular projection centred on %.4f°%s %.4f°%s, kilometres east/north", Math.abs(lon0),

@@ -1,9 +1,9 @@
 package io.densa.examples;
 
-import io.densa.core.BatchEstimate;
 import io.densa.core.BayesSpace;
-import io.densa.core.EstimationDiagnostics;
-import io.densa.core.PenalizedLikelihoodEstimator;
+import io.densa.core.estimate.BatchEstimate;
+import io.densa.core.estimate.EstimationDiagnostics;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 
 /**
  * Densities from samples with Densa's penalised-likelihood estimator: roughness penalty on the

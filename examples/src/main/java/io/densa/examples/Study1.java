@@ -7,22 +7,38 @@ import io.densa.regression.Design;
 import io.densa.regression.Fpca;
 import io.densa.regression.FunctionOnFunctionFit;
 import io.densa.regression.FunctionalRegression;
-import io.densa.spatial.AutocorrelationOptions;
-import io.densa.spatial.EmpiricalVariogram;
-import io.densa.spatial.Grid;
-import io.densa.spatial.GridOptions;
-import io.densa.spatial.Kriging;
-import io.densa.spatial.KrigingOptions;
+import io.densa.spatial.autocorrelation.AutocorrelationOptions;
+import io.densa.spatial.variogram.EmpiricalVariogram;
+import io.densa.spatial.kriging.Grid;
+import io.densa.spatial.kriging.GridOptions;
+import io.densa.spatial.kriging.Kriging;
+import io.densa.spatial.kriging.KrigingOptions;
 import io.densa.spatial.Locations;
-import io.densa.spatial.Neighbourhood;
-import io.densa.spatial.VariogramFit;
-import io.densa.spatial.VariogramFitOptions;
-import io.densa.spatial.VariogramFitting;
-import io.densa.spatial.VariogramModel;
-import io.densa.spatial.VariogramOptions;
-import io.densa.spatial.LocalMoran;
-import io.densa.spatial.MoranI;
+import io.densa.spatial.kriging.Neighbourhood;
+import io.densa.spatial.variogram.VariogramFit;
+import io.densa.spatial.variogram.VariogramFitOptions;
+import io.densa.spatial.variogram.VariogramFitting;
+import io.densa.spatial.variogram.VariogramModel;
+import io.densa.spatial.variogram.VariogramOptions;
+import io.densa.spatial.autocorrelation.LocalMoran;
+import io.densa.spatial.autocorrelation.MoranI;
 import io.densa.spatial.SpatialWeights;
+import io.densa.report.Axis;
+import io.densa.report.Chart;
+import io.densa.report.ChartGrid;
+import io.densa.report.ColourScale;
+import io.densa.report.Describe;
+import io.densa.report.Figures;
+import io.densa.report.Findings;
+import io.densa.report.GridValues;
+import io.densa.report.MapFrame;
+import io.densa.report.Maps;
+import io.densa.report.Numbers;
+import io.densa.report.Observed;
+import io.densa.report.Palette;
+import io.densa.report.Report;
+import io.densa.report.ReportFiles;
+import io.densa.report.Table;
 import java.awt.Color;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -32,7 +48,6 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import org.ejml.data.DMatrixRMaj;
-import org.jfree.chart.JFreeChart;
 import org.locationtech.jts.geom.Envelope;
 import org.locationtech.jts.geom.Polygon;
 
@@ -43,6 +58,8 @@ import org.locationtech.jts.geom.Polygon;
 final class Study1 {
     /** False discovery rate of the flags. */
     static final double FDR = 0.10;
+    /** Level of the global test of spatial clustering. */
+    static final double ALPHA = 0.05;
     /** Age ticks: single years 0..99, bin midpoints. */
     static final double[] AGE_MID = new double[AgeScenario.AGES];
 
@@ -64,10 +81,11 @@ final class Study1 {
         final int n;
         final Path dir;
         final Report report;
-        final List<String> files = new ArrayList<>();
+        final MapFrame frame;
         final List<String> missing = new ArrayList<>();
         final Map<String, Double> metrics = new LinkedHashMap<>();
-        final UnitTable table;
+        Table table;
+        String clustering;
         BayesSpace space;
         DensitySet[] seasons;
         double[][] estimationVariance;
@@ -79,18 +97,19 @@ final class Study1 {
             this.region = sc.region();
             this.n = region.size();
             this.dir = options.out();
-            this.report = new Report(dir, "Densa study 1 — age profiles of emergency visits in an invented region");
-            this.table = new UnitTable(n);
+            this.report = Report.titled("Densa study 1 — age profiles of emergency visits in an invented region")
+                    .note(Main.INVENTED);
+            this.table = Table.of(n);
+            this.frame = MapFrame.km(shapes(region), region.outline(), caption(region));
         }
+    }
 
-        String file(String name) {
-            files.add(name);
-            return name;
-        }
+    static List<org.locationtech.jts.geom.Geometry> shapes(Region region) {
+        return region.units().stream().map(Region.Unit::shape).toList();
+    }
 
-        Path path(String name) {
-            return dir.resolve(file(name));
-        }
+    static String caption(Region region) {
+        return "Invented data. Drawn in planar km: " + region.projection().describe() + ".";
     }
 
     static StudyResult run(Main.Options options, Progress progress) {
@@ -116,12 +135,8 @@ final class Study1 {
         if (!run.missing.isEmpty()) {
             run.report.heading("Steps not run").bullets(run.missing);
         }
-        run.report.caution();
-        run.report.write();
-        run.files.add("summary.md");
-        run.files.add("summary.html");
-        return new StudyResult(run.dir, run.n, List.copyOf(run.files), Map.copyOf(run.metrics),
-                List.copyOf(run.missing));
+        ReportFiles written = run.report.writeTo(run.dir);
+        return new StudyResult(run.dir, run.n, written.files(), Map.copyOf(run.metrics), List.copyOf(run.missing));
     }
 
     // ------------------------------------------------------------------ scenario
@@ -162,22 +177,20 @@ final class Study1 {
         run.report.paragraph("Coordinates: computations use planar kilometres (" + run.region.projection().describe()
                 + "); the GeoJSON is in WGS 84 longitude/latitude as RFC 7946 requires. The invented region is "
                 + "placed over open ocean so that it cannot be mistaken for a real place.");
-        double[] logVisits = new double[n];
-        for (int i = 0; i < n; i++) {
-            logVisits[i] = Math.log10(Math.max(1, visits[i]));
-        }
-        Maps.choropleth(run.region, logVisits, ColourScale.of(logVisits, "log10 visits in the latest season"), 1,
-                "Visits per district, latest season (log10)", run.path("map_visits.png"));
-        run.report.figure("map_visits.png", "Visits per district in the latest season (log10 scale).");
-        run.table.text("code", codes(run.region)).text("name", names(run.region))
-                .number("lon", lon(run.region)).number("lat", lat(run.region))
-                .number("area_km2", areas(run.region)).number("urbanity", sc.urbanity())
-                .number("older_share", sc.olderShare());
+        run.report.figure("map_visits.png", Maps.choropleth(run.frame, visits, ColourScale.log(visits,
+                "visits in the latest season", ""), "Visits per district, latest season"),
+                "Visits per district in the latest season, on a logarithmic colour scale labelled in visits.");
         int[] latestVisits = new int[n];
         for (int i = 0; i < n; i++) {
             latestVisits[i] = sc.total(i, latest);
         }
-        run.table.integer("visits_latest", latestVisits);
+        run.table = run.table.text("code", codes(run.region)).text("name", names(run.region))
+                .number("lon", "longitude (degrees)", lon(run.region), 4)
+                .number("lat", "latitude (degrees)", lat(run.region), 4)
+                .number("area_km2", "area (km²)", areas(run.region), 1)
+                .number("urbanity", "urbanity", sc.urbanity(), 2)
+                .number("older_share", "share aged 65+", sc.olderShare(), 3)
+                .integer("visits_latest", "visits", latestVisits);
     }
 
     // ------------------------------------------------------------------ estimation
@@ -198,6 +211,7 @@ final class Study1 {
         }
         double lambda = AgeDensities.commonSmoothing(run.space, first);
         List<String> extrapolated = new ArrayList<>();
+        double[] extrapolationLatest = null;
         for (int s = 0; s < sc.seasons(); s++) {
             int[][] counts = new int[run.n][];
             for (int i = 0; i < run.n; i++) {
@@ -214,15 +228,16 @@ final class Study1 {
                 extrapolated.add(id + " (season " + (s + 1) + ")");
             }
             if (s == sc.seasons() - 1) {
-                run.table.number("extrapolation_share_latest", est.extrapolationShares());
+                extrapolationLatest = est.extrapolationShares();
             }
         }
         run.metrics.put("notConverged", (double) notConverged);
         run.metrics.put("extrapolatedEstimates", (double) extrapolated.size());
         run.progress.line(String.format(Locale.ROOT, "estimated %d age densities by penalised likelihood (common "
                 + "smoothing λ = %.3g; %d fits did not converge)", run.n * sc.seasons(), lambda, notConverged));
+        run.table = run.table.number("extrapolation_share_latest", "extrapolation share", extrapolationLatest, 3);
         run.report.heading("Age densities").paragraph("Each district-season's counts by single year of age are "
-                + "turned into a density on [0, 100) years in " + ModelText.space(run.space, "interior knots at 2, 6, 12, "
+                + "turned into a density on [0, 100) years in " + Describe.splineSpace(run.space, "interior knots at 2, 6, 12, "
                 + "20, 30, 42, 55, 68, 80 and 90 years (denser where profiles bend: infancy, youth)") + " by " + AgeDensities.describe()
                 + String.format(Locale.ROOT, " (λ = %.3g)", lambda) + ". Dots are the observed shares by year of age; "
                 + "lines the estimated densities.");
@@ -231,7 +246,7 @@ final class Study1 {
                     + "range from %.1f (small districts: strong smoothing) to %.1f.", run.n * sc.seasons()
                     - notConverged, run.n * sc.seasons(), minEdf, maxEdf));
         }
-        run.report.paragraph(Estimates.extrapolationSentence(extrapolated, run.n * sc.seasons(), 10));
+        run.report.paragraph(Findings.extrapolated(extrapolated, run.n * sc.seasons(), 10));
         if (!problems.isEmpty()) {
             run.report.paragraph("Fits that did not converge (kept, with the estimator's reason):")
                     .bullets(problems.subList(0, Math.min(20, problems.size())));
@@ -253,33 +268,31 @@ final class Study1 {
         }
         int[] pick = {order[0], order[order.length / 3], order[order.length - 1],
             shiftedBig >= 0 ? shiftedBig : order[order.length / 2]};
-        List<JFreeChart> charts = new ArrayList<>();
+        double[] lower = new double[AgeScenario.AGES];
+        double[] upper = new double[AgeScenario.AGES];
+        for (int a = 0; a < lower.length; a++) {
+            lower[a] = a;
+            upper[a] = a + 1;
+        }
+        Axis age = Axis.linear("age", "years");
+        List<Chart> charts = new ArrayList<>();
         for (int i : pick) {
             int total = sc.total(i, latest);
-            double[] share = new double[AgeScenario.AGES];
-            for (int a = 0; a < share.length; a++) {
-                share[a] = sc.counts()[i][latest][a] / (double) Math.max(1, total);
-            }
-            List<Charts.Series> series = new ArrayList<>();
-            series.add(new Charts.Series("observed share", AGE_MID, share, Charts.Style.POINTS, 7));
-            series.add(new Charts.Series("estimated density", AGE_MID, run.seasons[latest].get(i).pdf(AGE_MID),
-                    Charts.Style.LINE, 0));
-            if (predicted != null) {
-                series.add(new Charts.Series("baseline prediction", AGE_MID, predicted.get(i).pdf(AGE_MID),
-                        Charts.Style.DASHED, 1));
-            }
             String title = run.region.units().get(i).code() + " " + run.region.units().get(i).name() + " — "
                     + total + " visits" + (sc.shifted()[i] ? " (shifted)" : "");
-            charts.add(Charts.chart(title, "age (years)", "density", series));
+            Observed observed = total == 0 ? null
+                    : Observed.counts("observed share per year of age", lower, upper, sc.counts()[i][latest]);
+            charts.add(predicted == null ? Figures.density(title, run.seasons[latest].get(i), observed, age)
+                    : Figures.baseline(title, run.seasons[latest].get(i), predicted.get(i), observed, age));
         }
         String name = predicted == null ? "fig_densities.png" : "fig_baseline.png";
-        Charts.panel(predicted == null ? "Latest season: counts and estimated age densities"
-                : "Latest season: estimated density against the baseline prediction", charts, 2, 560, 360,
-                run.path(name));
-        run.report.figure(name, predicted == null
+        run.report.figure(name, ChartGrid.of(predicted == null ? "Latest season: counts and estimated age densities"
+                : "Latest season: estimated density against the baseline prediction", charts, 2)
+                .withCellSize(560, 380), predicted == null
                 ? "Four districts (smallest, a small one, the largest, the largest shifted one): observed shares "
-                        + "by year of age and the estimated density."
-                : "The same districts with the baseline model's prediction (dashed).");
+                        + "by year of age (points) and the estimated density (line)."
+                : "The same districts: observed shares (points), the estimated density (solid) and the baseline "
+                        + "model's prediction (dashed).");
     }
 
     // ------------------------------------------------------------------ baseline model
@@ -379,7 +392,7 @@ final class Study1 {
     // ------------------------------------------------------------------ flags
 
     /** Conformal p-values, BH-adjusted p-values, flags and the self-score. */
-    record Flags(double[] p, double[] q, boolean[] flagged, String[] band, double[] youngObserved,
+    record Flags(double[] p, double[] q, boolean[] flagged, String[] excess, String[] deficit, double[] youngObserved,
             double[] youngExpected, int truePositives, int falsePositives, int falseNegatives) {
     }
 
@@ -392,7 +405,8 @@ final class Study1 {
         double[] p = new double[n];
         double[] q = new double[n];
         boolean[] flagged = new boolean[n];
-        String[] band = new String[n];
+        String[] excess = new String[n];
+        String[] deficit = new String[n];
         double[] youngObs = new double[n];
         double[] youngExp = new double[n];
         int tp = 0;
@@ -410,7 +424,8 @@ final class Study1 {
                 young += sc.counts()[i][latest][a];
             }
             youngObs[i] = young / (double) sc.total(i, latest);
-            band[i] = flagged[i] ? describe(u.excursions()) : "";
+            excess[i] = flagged[i] ? ages(u.excursions(), AnomalyScoring.Direction.EXCESS) : "";
+            deficit[i] = flagged[i] ? ages(u.excursions(), AnomalyScoring.Direction.DEFICIT) : "";
             if (flagged[i] && sc.shifted()[i]) {
                 tp++;
             } else if (flagged[i]) {
@@ -436,44 +451,40 @@ final class Study1 {
                 + "the Benjamini–Hochberg (1995) adjusted p-value is at most %.2f (Densa's `AnomalyScoring`).",
                 scores.calibrationSize(), FDR));
         run.report.paragraph(String.format(Locale.ROOT, "**Self-score against the injected truth:** %d flagged, %d "
-                + "of them truly shifted; %d shifted districts missed. **Precision %.2f, recall %.2f.**", tp + fp, tp, fn,
-                precision, recall) + sizeComparison(run, flagged));
+                + "of them truly shifted; %d shifted %s missed. **Precision %.2f, recall %.2f.**", tp + fp, tp, fn,
+                fn == 1 ? "district" : "districts", precision, recall) + sizeComparison(run, flagged));
         int[] cat = new int[n];
         for (int i = 0; i < n; i++) {
             cat[i] = flagged[i] && sc.shifted()[i] ? 1 : flagged[i] ? 2 : sc.shifted()[i] ? 3 : 0;
         }
-        Maps.categories(run.region, cat, new String[] {"not flagged", "flagged, shifted", "flagged, not shifted",
-            "shifted, missed"}, new Color[] {Maps.NO_FLAG, Maps.FLAG, Maps.FALSE_ALARM, Maps.TRUTH_ONLY},
-                "Flags vs truth", "Flagged districts (FDR " + Tables.fmt(FDR, 2) + ") against the injected truth",
-                run.path("map_flags.png"));
-        run.report.figure("map_flags.png", "Flags against the injected truth.");
-        double[] logScore = new double[n];
-        for (int i = 0; i < n; i++) {
-            logScore[i] = Math.log10(b.scoreLatest()[i]);
-        }
-        Maps.choropleth(run.region, logScore, ColourScale.of(logScore, "log10 anomaly score"), 1,
-                "Anomaly score of the latest season (log10)", run.path("map_score.png"));
-        run.report.figure("map_score.png", "Anomaly score: squared norm of the standardised residual density, "
-                + "log10.");
+        String fdr = Numbers.fixed(FDR, 2);
+        run.report.figure("map_flags.png", Maps.categories(run.frame, cat, new String[] {"not flagged",
+            "flagged and shifted", "flagged, not shifted", "shifted but not flagged"}, new Color[] {Palette.QUIET,
+                Palette.BRICK, Palette.INK, Palette.OCHRE}, "Flags against the injected truth",
+                "Flagged districts (false discovery rate " + fdr + ") against the injected truth"),
+                "Flags against the injected truth, with the number of districts in each class.");
+        run.report.figure("map_score.png", Maps.choropleth(run.frame, b.scoreLatest(), ColourScale.log(
+                b.scoreLatest(), "anomaly score", "squared B2 norm of the standardised residual"),
+                "Anomaly score of the latest season").withFlagged(flagged, "flagged at a false discovery rate of "
+                + fdr), "Anomaly score: squared B2 norm of the standardised residual density (logarithmic colour "
+                + "scale); flagged districts outlined.");
 
-        List<String[]> rows = new ArrayList<>();
         int[] order = sortedBy(n, i -> p[i]);
-        for (int i : order) {
-            if (!flagged[i]) {
-                continue;
-            }
-            Region.Unit u = run.region.units().get(i);
-            rows.add(new String[] {u.code(), u.name(), String.valueOf(sc.total(i, latest)), Tables.fmt(p[i], 4),
-                Tables.fmt(q[i], 4), band[i], Tables.fmt(100 * youngObs[i], 1) + " %",
-                Tables.fmt(100 * youngExp[i], 1) + " %", sc.shifted()[i] ? "yes" : "no"});
-        }
+        int[] flaggedRows = Arrays.stream(order).filter(i -> flagged[i]).toArray();
+        Table shown = Table.of(n).text("code", codes(run.region)).text("name", names(run.region))
+                .integer("visits", "visits", latestTotals(run)).probability("p", "conformal p", p)
+                .probability("q", "BH q", q).text("excess_ages", "excess at ages", excess)
+                .text("deficit_ages", "deficit at ages", deficit)
+                .percent("under25_observed", "under 25 observed", youngObs, 1)
+                .percent("under25_expected", "under 25 expected", youngExp, 1)
+                .flag("truth_shifted", "shifted (truth)", sc.shifted()).select(flaggedRows);
         run.report.subheading("Flagged districts").paragraph("Where each flagged district departs: the age ranges "
                 + "where its standardised residual clr leaves the calibration set's central 95 % pointwise band "
                 + "(excess: more visits at those ages than the baseline expects; deficit: fewer), and the share of "
-                + "visits under 25 observed against the baseline's expectation.");
-        run.report.table(new String[] {"code", "name", "visits", "p", "BH q", "departs at ages", "under 25 observed",
-            "under 25 expected", "shifted (truth)"}, rows);
-        return new Flags(p, q, flagged, band, youngObs, youngExp, tp, fp, fn);
+                + "visits under 25 observed against the baseline's expectation. Ordered by p-value; p- and q-values "
+                + "are shown with the digits needed to rank them (equal values are true ties).");
+        run.report.table(shown);
+        return new Flags(p, q, flagged, excess, deficit, youngObs, youngExp, tp, fp, fn);
     }
 
     /** Median visits of the detected and of the missed shifted districts, as a sentence. */
@@ -500,23 +511,33 @@ final class Study1 {
         return s.get(s.size() / 2);
     }
 
-    /** Excursions as text, e.g. {@code excess 8–27; deficit 62–88}. */
-    static String describe(List<AnomalyScoring.Excursion> excursions) {
+    /** The age ranges of the excursions in one direction, in ASCII, e.g. {@code 8-27; 40-44}. */
+    static String ages(List<AnomalyScoring.Excursion> excursions, AnomalyScoring.Direction direction) {
         StringBuilder sb = new StringBuilder();
         for (AnomalyScoring.Excursion e : excursions) {
+            if (e.direction() != direction) {
+                continue;
+            }
             if (sb.length() > 0) {
                 sb.append("; ");
             }
-            sb.append(e.direction() == AnomalyScoring.Direction.EXCESS ? "excess " : "deficit ")
-                    .append((int) Math.floor(e.from())).append('–').append((int) Math.floor(e.to()));
+            sb.append((int) Math.floor(e.from())).append('-').append((int) Math.floor(e.to()));
         }
-        return sb.length() == 0 ? "within band" : sb.toString();
+        return sb.toString();
+    }
+
+    static int[] latestTotals(Run run) {
+        int[] out = new int[run.n];
+        for (int i = 0; i < run.n; i++) {
+            out[i] = run.sc.total(i, run.sc.seasons() - 1);
+        }
+        return out;
     }
 
     // ------------------------------------------------------------------ spatial structure
 
     static void autocorrelation(Run run, Baseline b) {
-        List<org.locationtech.jts.geom.Geometry> shapes = Maps.shapes(run.region);
+        List<org.locationtech.jts.geom.Geometry> shapes = shapes(run.region);
         SpatialWeights w = SpatialWeights.contiguity(shapes, SpatialWeights.Contiguity.QUEEN, 1e-6)
                 .rowStandardised();
         double[] logScore = new double[run.n];
@@ -527,46 +548,50 @@ final class Study1 {
         MoranI.Result global = MoranI.test(w, logScore, opt);
         double pPerm = global.permutation().map(x -> x.pGreater()).orElse(Double.NaN);
         LocalMoran.Result local = LocalMoran.test(w, logScore, opt);
-        int[] cat = new int[run.n];
         int hh = 0;
         for (LocalMoran.Unit u : local.units()) {
-            if (u.adjustedPValue() <= FDR) {
-                cat[u.index()] = switch (u.quadrant()) {
-                    case HIGH_HIGH -> 1;
-                    case LOW_LOW -> 2;
-                    case HIGH_LOW, LOW_HIGH -> 3;
-                    default -> 0;
-                };
-                if (u.quadrant() == LocalMoran.Quadrant.HIGH_HIGH) {
-                    hh++;
-                }
+            if (u.adjustedPValue() <= FDR && u.quadrant() == LocalMoran.Quadrant.HIGH_HIGH) {
+                hh++;
             }
         }
         run.metrics.put("moranI", global.statistic());
+        run.metrics.put("moranPermutationP", pPerm);
+        run.clustering = Findings.clustering("Departures from the baseline", "log anomaly score", global, ALPHA);
         run.report.keyNumber(String.format(Locale.ROOT, "Moran's I of the log anomaly scores %.3f (permutation p = "
-                + "%.4f); %d districts in high-high local clusters.", global.statistic(), pPerm, hh));
+                + "%s); %d districts raised among raised neighbours (local Moran, false discovery rate %.2f).",
+                global.statistic(), Numbers.significant(pPerm, 2), hh, FDR));
         run.progress.line(String.format(Locale.ROOT, "Moran's I of the log anomaly scores %.3f (permutation p %.4f);"
-                + " %d high-high local clusters", global.statistic(), pPerm, hh));
+                + " %d districts raised among raised neighbours", global.statistic(), pPerm, hh));
         run.report.heading("Spatial structure of the departures").paragraph(String.format(Locale.ROOT,
                 "Queen contiguity of the district polygons (row-standardised, %d links). Moran's I of the log anomaly "
                 + "score: %.3f (expectation %.3f under no autocorrelation; z = %.2f under randomisation; one-sided "
-                + "permutation p = %.4f with 999 permutations). Local Moran's I with conditional permutations, "
-                + "Benjamini–Hochberg adjusted at %.2f: %d districts are high-high cores.", w.linkCount(),
-                global.statistic(), global.randomisation().expectation(), global.randomisation().z(), pPerm, FDR, hh));
-        Maps.categories(run.region, cat, new String[] {"not significant", "high-high", "low-low", "high-low / low-high"},
-                new Color[] {Maps.NO_FLAG, new Color(0xd7301f), new Color(0x2b8cbe), new Color(0xbcbddc)},
-                "Local Moran (BH " + Tables.fmt(FDR, 2) + ")", "Local clusters of the anomaly score",
-                run.path("map_local_moran.png"));
-        run.report.figure("map_local_moran.png", "Local Moran's I clusters of the log anomaly score.");
-        String[] quadrant = new String[run.n];
+                + "permutation p = %s with 999 permutations).", w.linkCount(), global.statistic(),
+                global.randomisation().expectation(), global.randomisation().z(), Numbers.significant(pPerm, 2)))
+                .paragraph("**" + run.clustering + "**")
+                .paragraph(String.format(Locale.ROOT, "Local Moran's I with conditional permutations, "
+                + "Benjamini–Hochberg adjusted at a false discovery rate of %.2f: %d districts are raised among raised "
+                + "neighbours. On the map the fill is the local statistic (brick where a district resembles its "
+                + "neighbours, blue where it differs from them); significant districts carry a heavy outline and a "
+                + "line pattern for their kind, and the legend counts each kind.", FDR, hh));
+        run.report.figure("map_local_moran.png", Maps.clusters(run.frame, local, FDR, "log anomaly score",
+                "Local pattern of the anomaly score"), "Local Moran's I of the log anomaly score: fill, outline and "
+                + "pattern as described above.");
+        String[] pattern = new String[run.n];
         double[] localP = new double[run.n];
-        java.util.Arrays.fill(quadrant, "excluded");
+        java.util.Arrays.fill(pattern, "left out");
         java.util.Arrays.fill(localP, Double.NaN);
         for (LocalMoran.Unit u : local.units()) {
-            quadrant[u.index()] = u.adjustedPValue() <= FDR ? u.quadrant().name().toLowerCase(Locale.ROOT) : "none";
+            pattern[u.index()] = u.adjustedPValue() > FDR ? "none" : switch (u.quadrant()) {
+                case HIGH_HIGH -> "raised among raised";
+                case LOW_LOW -> "lowered among lowered";
+                case HIGH_LOW -> "raised among lowered";
+                case LOW_HIGH -> "lowered among raised";
+                default -> "none";
+            };
             localP[u.index()] = u.adjustedPValue();
         }
-        run.table.text("local_moran_cluster", quadrant).number("local_moran_q", localP);
+        run.table = run.table.text("local_pattern", "local pattern", pattern)
+                .probability("local_pattern_q", "local pattern q", localP);
     }
 
     static void residualFpca(Run run, Baseline b) {
@@ -575,25 +600,14 @@ final class Study1 {
         double[] ev = pca.explainedVariance();
         run.progress.line(String.format(Locale.ROOT, "FPCA of the residuals: first two components explain %.1f %% and "
                 + "%.1f %%", 100 * ev[0], 100 * ev[1]));
-        List<JFreeChart> charts = new ArrayList<>();
-        for (int j = 0; j < 2; j++) {
-            List<Charts.Series> s = new ArrayList<>();
-            s.add(new Charts.Series("mean", AGE_MID, pca.mean().clr(AGE_MID), Charts.Style.LINE, 7));
-            s.add(new Charts.Series("mean ⊕ 2 sd", AGE_MID, pca.modeOfVariation(j, 2).clr(AGE_MID),
-                    Charts.Style.LINE, 1));
-            s.add(new Charts.Series("mean ⊖ 2 sd", AGE_MID, pca.modeOfVariation(j, -2).clr(AGE_MID),
-                    Charts.Style.DASHED, 0));
-            charts.add(Charts.chart(String.format(Locale.ROOT, "Component %d (%.1f %% of variance)", j + 1,
-                    100 * ev[j]), "age (years)", "clr of standardised residual", s));
-        }
-        Charts.panel("Modes of variation of the residual densities", charts, 2, 560, 380,
-                run.path("fig_fpca_modes.png"));
         run.report.heading("Principal modes of the departures").paragraph("Simplicial FPCA of the latest season's "
                 + "standardised residual densities (observed ⊖ baseline, powered by 1/√v_i as above, so that small "
                 + "districts' sampling noise does not dominate the components). The modes are drawn on the clr scale "
                 + "(log-ratio against the geometric mean over ages, in standardised units): a positive value at an age"
                 + " means more visits at that age than the baseline expects.");
-        run.report.figure("fig_fpca_modes.png", "Residual mean ⊕/⊖ two standard deviations along each component.");
+        run.report.figure("fig_fpca_modes.png", Figures.fpcaModes("Modes of variation of the residual densities",
+                pca, 2, 2, Axis.linear("age", "years"), Axis.linear("clr of standardised residual", "log-ratio")),
+                "Residual mean (grey), ⊕ two standard deviations along each component (solid) and ⊖ two (dashed).");
         double[] pc1 = column(scores, 0);
         double[] pc2 = column(scores, 1);
         for (int j = 0; j < 2; j++) {
@@ -604,13 +618,14 @@ final class Study1 {
             }
             Arrays.sort(abs);
             double max = abs[(int) Math.floor(0.98 * (abs.length - 1))];
-            String name = "map_pc" + (j + 1) + ".png";
-            Maps.choropleth(run.region, v, ColourScale.diverging(max, "score on residual component " + (j + 1)
-                    + " (colours saturate at ±" + Tables.fmt(max, 1) + ", the 98th percentile)"), 2,
-                    "Residual FPCA score, component " + (j + 1), run.path(name));
-            run.report.figure(name, "District scores on residual component " + (j + 1) + ".");
+            ColourScale scale = ColourScale.diverging(max, "score on residual component " + (j + 1), "");
+            run.report.figure("map_pc" + (j + 1) + ".png", Maps.choropleth(run.frame, v, scale,
+                    "Residual FPCA score, component " + (j + 1)).withLegendNote("Colours saturate at ±"
+                    + Numbers.significant(scale.upper(), 3) + " (the 98th percentile of |score| is "
+                    + Numbers.significant(max, 3) + ")."), "District scores on residual component " + (j + 1) + ".");
         }
-        run.table.number("residual_pc1", pc1).number("residual_pc2", pc2);
+        run.table = run.table.number("residual_pc1", "residual PC1 score", pc1, 3)
+                .number("residual_pc2", "residual PC2 score", pc2, 3);
     }
 
     // ------------------------------------------------------------------ variogram and kriged surface
@@ -626,20 +641,27 @@ final class Study1 {
         VariogramFit fitResid = VariogramFitting.fit(evResid, fo);
         EmpiricalVariogram evDens = EmpiricalVariogram.of(loc, run.seasons[latest], vo);
         VariogramFit fitDens = VariogramFitting.fit(evDens, fo);
-        List<JFreeChart> charts = List.of(
-                variogramChart("Standardised residual densities", evResid, fitResid.model(), maxLag),
-                variogramChart("Latest-season densities", evDens, fitDens.model(), maxLag));
-        Charts.panel("Trace-variograms (points: empirical; line: fitted nugget + exponential)", charts, 2, 560, 400,
-                run.path("fig_variogram.png"));
-        run.progress.line("trace-variograms fitted: residuals " + ModelText.variogram(fitResid.model()) + "; densities "
-                + ModelText.variogram(fitDens.model()));
+        run.progress.line("trace-variograms fitted: residuals " + Describe.variogram(fitResid.model(), "km")
+                + "; densities " + Describe.variogram(fitDens.model(), "km"));
         run.report.heading("Trace-variograms").paragraph("Empirical trace-variogram γ̂(h) = (1/(2|N(h)|)) Σ "
-                + "‖X_i ⊖ X_j‖²_B (Giraldo, Delicado and Mateu 2011) in 15 bins up to " + Tables.fmt(maxLag, 1)
+                + "‖X_i ⊖ X_j‖²_B (Giraldo, Delicado and Mateu 2011) in 15 bins up to " + Numbers.fixed(maxLag, 1)
                 + " km between district sites, with a nugget + exponential model (practical range) fitted by "
-                + "Cressie's (1985) weighted least squares. Standardised residuals: " + ModelText.variogram(fitResid.model())
-                + "; latest-season densities: " + ModelText.variogram(fitDens.model()) + ". " + residualVariogramReading(
-                        fitResid.model(), evResid.meanLags()[0]));
-        run.report.figure("fig_variogram.png", "Trace-variograms of the residual and of the latest-season densities.");
+                + "Cressie's (1985) weighted least squares. Standardised residuals: "
+                + Describe.variogram(fitResid.model(), "km") + "; latest-season densities: "
+                + Describe.variogram(fitDens.model(), "km") + ". " + residualVariogramReading(fitResid.model(),
+                        evResid.meanLags()[0]) + " " + run.clustering);
+        List<String> fitNotes = new ArrayList<>(Findings.variogramFit("Standardised residuals", fitResid, "km"));
+        fitNotes.addAll(Findings.variogramFit("Latest-season densities", fitDens, "km"));
+        run.report.bullets(fitNotes);
+        run.metrics.put("variogramFitWarnings", (double) (fitResid.warnings().size() + fitDens.warnings().size()));
+        run.report.figure("fig_variogram.png", ChartGrid.of("Trace-variograms: empirical (points) and fitted nugget + "
+                + "exponential (line); pairs per bin below", List.of(
+                    Figures.variogram("Standardised residual densities", "km", List.of(new Figures.VariogramLayer(
+                            "residuals", evResid, fitResid.model()))),
+                    Figures.variogram("Latest-season densities", "km", List.of(new Figures.VariogramLayer(
+                            "densities", evDens, fitDens.model())))), 2).withCellSize(560, 440),
+                "Trace-variograms of the standardised residual and of the latest-season densities, with the number "
+                        + "of district pairs in each distance bin.");
 
         // kriged median age: ordinary kriging of the latest season's densities, estimation variances as
         // measurement error, median of each predicted density
@@ -662,23 +684,21 @@ final class Study1 {
         double secs = (System.nanoTime() - t0) / 1e9;
         run.progress.line(String.format(Locale.ROOT, "kriged the latest-season densities onto %,d cells (%.1f s)",
                 cells[0], secs));
-        ColourScale scale = ColourScale.of(median, "median age of visits (years)");
-        Color[] dots = new Color[run.n];
-        Arrays.fill(dots, Color.WHITE);
-        new MapPainter(env, 760, "Median age of visits, latest season (kriged densities)", Maps.caption(run.region))
-                .raster(env, nx, ny, median, scale, run.region.outline())
-                .stroke(Maps.shapes(run.region), new Color(255, 255, 255, 90), 0.5f)
-                .stroke(List.of(run.region.outline()), Color.DARK_GRAY, 1.5f).colourBar(scale, 1).scaleBar()
-                .save(run.path("map_median_age.png"));
         run.report.heading("Smooth surface of the median age").paragraph(String.format(Locale.ROOT, "Ordinary kriging "
                 + "of the latest season's densities (32 nearest districts, the fitted variogram above, each density's "
                 + "estimation variance as measurement error) onto a %d × %d grid over the region; the median of each "
                 + "predicted density gives a smooth surface of the median age of visits (%,d cells inside the outline, "
                 + "%.1f s). District borders are drawn faintly.", nx, ny, cells[0], secs));
-        run.report.figure("map_median_age.png", "Median age of visits from the kriged densities.");
+        run.report.figure("map_median_age.png", Maps.grid(run.frame, GridValues.of(grid, median),
+                ColourScale.of(median, "median age of visits", "years"),
+                "Median age of visits, latest season (kriged densities)").withUnitBorders(),
+                "Median age of visits from the kriged densities.");
     }
 
-    /** What the residual variogram says, in words that follow the fitted numbers. */
+    /**
+     * What the residual variogram's fitted model says, in words that follow its numbers; whether the
+     * departures cluster in space is said by the clustering test, not here.
+     */
     static String residualVariogramReading(VariogramModel model, double firstLag) {
         double nugget = model.nugget();
         double sill = model.sill();
@@ -689,26 +709,12 @@ final class Study1 {
             }
         }
         if (range < firstLag || sill - nugget < 0.1 * sill) {
-            return "The residual variogram is essentially flat beyond the first lag (" + Tables.fmt(firstLag, 1)
-                    + " km): most of the departure variance is district-level noise, and the spatial clustering of "
-                    + "the injected shift shows in the autocorrelation of the anomaly scores (above) rather than in "
-                    + "the average squared difference between neighbouring residual densities.";
+            return "The residual variogram is essentially flat beyond the first lag (" + Numbers.fixed(firstLag, 1)
+                    + " km): most of the variance of the departures is district-level noise rather than a smooth "
+                    + "difference between neighbouring residual densities.";
         }
-        return String.format(Locale.ROOT, "The residuals keep a spatially correlated part (%.0f %% of their sill, "
-                + "practical range %.1f km): departures from the baseline cluster in space, as the injected shift "
-                + "does.", 100 * (sill - nugget) / sill, range);
-    }
-
-    static JFreeChart variogramChart(String title, EmpiricalVariogram ev, VariogramModel model, double maxLag) {
-        double[] h = new double[120];
-        double[] g = new double[h.length];
-        for (int i = 0; i < h.length; i++) {
-            h[i] = maxLag * (i + 1) / h.length; // from just above 0: the nugget is a jump at h = 0
-            g[i] = model.gamma(h[i]);
-        }
-        return Charts.chart(title, "distance h (km)", "γ(h), squared B2 norm", List.of(
-                new Charts.Series("empirical", ev.meanLags(), ev.semivariances(), Charts.Style.POINTS, 0),
-                new Charts.Series("fitted", h, g, Charts.Style.LINE, 1)));
+        return String.format(Locale.ROOT, "The residuals' fitted model keeps a spatially correlated part (%.0f %% of "
+                + "its sill, practical range %.1f km).", 100 * (sill - nugget) / sill, range);
     }
 
     // ------------------------------------------------------------------ output
@@ -718,38 +724,43 @@ final class Study1 {
         int n = run.n;
         double[] median = run.seasons[sc.seasons() - 1].quantiles(0.5);
         double[] expectedMedian = b.predictedLatest().quantiles(0.5);
-        run.table.number("median_age", median).number("expected_median_age", expectedMedian)
-                .number("residual_norm", b.normLatest()).number("anomaly_score", b.scoreLatest())
-                .number("p_conformal", f.p()).number("q_bh", f.q()).flag("flagged", f.flagged())
-                .text("excess_ages", f.band()).number("under25_observed", f.youngObserved())
-                .number("under25_expected", f.youngExpected()).flag("truth_shifted", sc.shifted())
-                .number("truth_shift_fraction", sc.shiftFraction());
-        run.table.writeCsv(run.path("districts.csv"));
-        run.table.writeGeoJson(run.path("districts.geojson"), Maps.shapes(run.region), run.region.projection());
-        List<Object[]> rows = new ArrayList<>();
+        run.table = run.table.number("median_age", "median age (years)", median, 1)
+                .number("expected_median_age", "expected median age (years)", expectedMedian, 1)
+                .number("residual_norm", "residual norm", b.normLatest(), 3)
+                .number("anomaly_score", "anomaly score", b.scoreLatest(), 3)
+                .probability("p_conformal", "conformal p", f.p()).probability("q_bh", "BH q", f.q())
+                .flag("flagged", "flagged", f.flagged()).text("excess_ages", "excess at ages", f.excess())
+                .text("deficit_ages", "deficit at ages", f.deficit())
+                .percent("under25_observed", "under 25 observed", f.youngObserved(), 1)
+                .percent("under25_expected", "under 25 expected", f.youngExpected(), 1)
+                .flag("truth_shifted", "shifted (truth)", sc.shifted())
+                .number("truth_shift_fraction", "shifted share of visits (truth)", sc.shiftFraction(), 3);
+        run.report.csv("districts.csv", run.table);
+        run.report.geoJson("districts.geojson", shapes(run.region).stream().map(run.region.projection()::toLonLat)
+                .toList(), run.table.unitValues("code"));
+        String[] code = new String[n * sc.seasons()];
+        int[] season = new int[code.length];
+        int[][] byAge = new int[AgeScenario.AGES][code.length];
         for (int i = 0; i < n; i++) {
             for (int s = 0; s < sc.seasons(); s++) {
-                int[] c = sc.counts()[i][s];
-                Object[] row = new Object[2 + AgeScenario.AGES];
-                row[0] = run.region.units().get(i).code();
-                row[1] = s + 1;
+                int r = i * sc.seasons() + s;
+                code[r] = run.region.units().get(i).code();
+                season[r] = s + 1;
                 for (int a = 0; a < AgeScenario.AGES; a++) {
-                    row[2 + a] = c[a];
+                    byAge[a][r] = sc.counts()[i][s][a];
                 }
-                rows.add(row);
             }
         }
-        String[] header = new String[2 + AgeScenario.AGES];
-        header[0] = "code";
-        header[1] = "season";
+        Table counts = Table.of(code.length).text("code", code).integer("season", "season", season);
         for (int a = 0; a < AgeScenario.AGES; a++) {
-            header[2 + a] = "age_" + a;
+            counts = counts.integer("age_" + a, "age " + a, byAge[a]);
         }
-        Tables.writeCsv(run.path("counts.csv"), header, rows);
+        run.report.csv("counts.csv", counts);
         run.report.heading("Files").bullets(List.of(
                 "`districts.csv` and `districts.geojson` — one row / feature per district: covariates, visits, "
-                        + "median age, residual norm, anomaly score, conformal p-value, BH q-value, flag, excess age "
-                        + "band, local Moran cluster, residual FPCA scores and the injected truth.",
+                        + "median age, residual norm, anomaly score, conformal p-value, BH q-value, flag, the age "
+                        + "ranges of excess and of deficit (columns `excess_ages` and `deficit_ages`), local pattern, "
+                        + "residual FPCA scores and the injected truth.",
                 "`counts.csv` — the invented input: visits by district, season and single year of age.",
                 "PNG figures shown above."));
     }

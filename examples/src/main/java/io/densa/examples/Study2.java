@@ -2,27 +2,42 @@ package io.densa.examples;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
-import io.densa.spatial.AnisotropyTest;
-import io.densa.spatial.CrossValidation;
-import io.densa.spatial.DerivedInterval;
-import io.densa.spatial.Drift;
-import io.densa.spatial.EmpiricalVariogram;
-import io.densa.spatial.Grid;
-import io.densa.spatial.GridOptions;
-import io.densa.spatial.GridTile;
-import io.densa.spatial.KrigingOptions;
-import io.densa.spatial.LocationUncertainty;
+import io.densa.spatial.kriging.CrossValidation;
+import io.densa.spatial.kriging.Drift;
+import io.densa.spatial.variogram.EmpiricalVariogram;
+import io.densa.spatial.kriging.Grid;
+import io.densa.spatial.kriging.GridOptions;
+import io.densa.spatial.kriging.KrigingOptions;
 import io.densa.spatial.Locations;
-import io.densa.spatial.PredictiveDistribution;
-import io.densa.spatial.ProportionalityCheck;
-import io.densa.spatial.UncertaintyOptions;
-import io.densa.spatial.UniversalFit;
-import io.densa.spatial.VariogramFit;
-import io.densa.spatial.VariogramFitOptions;
-import io.densa.spatial.VariogramFitting;
-import io.densa.spatial.VariogramModel;
-import io.densa.spatial.VariogramOptions;
-import java.awt.Color;
+import io.densa.spatial.kriging.UniversalFit;
+import io.densa.spatial.variogram.VariogramFit;
+import io.densa.spatial.variogram.VariogramFitOptions;
+import io.densa.spatial.variogram.VariogramFitting;
+import io.densa.spatial.variogram.VariogramModel;
+import io.densa.spatial.variogram.VariogramOptions;
+import io.densa.spatial.kriging.AnisotropyTest;
+import io.densa.spatial.kriging.DerivedInterval;
+import io.densa.spatial.kriging.GridTile;
+import io.densa.spatial.kriging.LocationUncertainty;
+import io.densa.spatial.kriging.PredictiveDistribution;
+import io.densa.spatial.kriging.ProportionalityCheck;
+import io.densa.spatial.kriging.UncertaintyOptions;
+import io.densa.report.Axis;
+import io.densa.report.Chart;
+import io.densa.report.ChartGrid;
+import io.densa.report.ColourScale;
+import io.densa.report.Describe;
+import io.densa.report.Figures;
+import io.densa.report.Findings;
+import io.densa.report.GridValues;
+import io.densa.report.MapFigure;
+import io.densa.report.MapFrame;
+import io.densa.report.Maps;
+import io.densa.report.Numbers;
+import io.densa.report.Observed;
+import io.densa.report.Report;
+import io.densa.report.ReportFiles;
+import io.densa.report.Table;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -30,7 +45,6 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
-import org.jfree.chart.JFreeChart;
 import org.locationtech.jts.geom.Envelope;
 import org.locationtech.jts.geom.Geometry;
 import org.locationtech.jts.geom.Point;
@@ -41,7 +55,10 @@ import org.locationtech.jts.geom.Point;
  * report it writes.
  */
 final class Study2 {
-    /** Demo threshold: WHO global air quality guidelines (2021), PM2.5 24-hour mean 15 µg/m³. */
+    /**
+     * Demo threshold: 15 µg/m³, the 24-hour PM2.5 guideline level published in "Global air quality
+     * guidelines" (2021); cited as a source in the report's text, never used as a label.
+     */
     static final double THRESHOLD = 15.0;
     /** Domain of the log daily mean: ln 1 to ln 150 µg/m³. */
     static final double LOG_LO = 0.0;
@@ -62,13 +79,12 @@ final class Study2 {
                 + options.seed() + ")");
         AirScenario sc = AirScenario.generate(options.seed(), n);
         int m = sc.size();
-        List<String> files = new ArrayList<>();
         List<String> missing = new ArrayList<>();
         Map<String, Double> metrics = new LinkedHashMap<>();
-        Report report = new Report(dir, "Densa study 2 — daily fine-particle concentration distributions in an "
-                + "invented city");
-        UnitTable table = new UnitTable(m);
+        Report report = Report.titled("Densa study 2 — daily fine-particle concentration distributions in an "
+                + "invented city").note(Main.INVENTED);
         String caption = "Invented data. Drawn in planar km: " + sc.projection().describe() + ".";
+        MapFrame frame = MapFrame.km(List.of(), sc.outline(), caption);
         double logT = Math.log(THRESHOLD);
 
         // ---------------------------------------------------------------- daily means
@@ -113,33 +129,25 @@ final class Study2 {
                 max(annualMean)));
         report.heading("What was run").paragraph("An invented city with " + m + " monitors (" + count(sc.roadside())
                 + " of them next to heavy-traffic hot spots) and a year of hourly fine-particle (PM2.5-like) "
-                + "concentrations with missing hours (outages and single hours; " + Tables.fmt(100 * mean(missingShare), 1)
+                + "concentrations with missing hours (outages and single hours; " + Numbers.fixed(100 * mean(missingShare), 1)
                 + " % of hours missing on average; seed " + options.seed() + "). Each monitor's hours are averaged to "
                 + "**daily means** (a day counts when at least " + AirScenario.MIN_HOURS_PER_DAY + " of its 24 hours "
                 + "are present). **The densities in this report are densities of the natural log of the daily mean "
                 + "concentration**, on [ln 1, ln 150] (ln µg/m³), because the threshold below is a 24-hour value; "
                 + clipped + " daily values fell outside that range and were clipped to it.");
-        report.paragraph("Demo threshold: WHO global air quality guidelines (2021), PM2.5 24-hour mean 15 µg/m³. It is "
-                + "used here only as a demonstration threshold on invented data: P(daily mean > 15 µg/m³) is the "
-                + "share of days a monitor's (or a location's) density puts above it, not a regulatory statistic.");
+        report.paragraph("Threshold: 15 µg/m³ for the daily mean, the 24-hour PM2.5 guideline level published in "
+                + "*Global air quality guidelines: particulate matter (PM2.5 and PM10), ozone, nitrogen dioxide, "
+                + "sulfur dioxide and carbon monoxide* (2021). It serves here only as a demonstration on invented "
+                + "data: P(daily mean > 15 µg/m³) is the share of days a monitor's (or a location's) density puts "
+                + "above it, not a regulatory statistic.");
         report.paragraph("Coordinates: computations in planar kilometres (" + sc.projection().describe()
                 + "); `monitors.geojson` is in WGS 84 longitude/latitude (RFC 7946). The invented city is placed over "
                 + "open ocean so that it cannot be mistaken for a real place.");
 
-        Color[] fills = new Color[m];
-        ColourScale meanScale = ColourScale.of(annualMean, "annual mean of daily means, µg/m³ (large dots: roadside)");
-        for (int i = 0; i < m; i++) {
-            fills[i] = meanScale.colour(annualMean[i]);
-        }
-        MapPainter monitors = new MapPainter(sc.outline().getEnvelopeInternal(), 760, "Monitors and their annual mean",
-                caption).fill(List.of(sc.outline()), new Color[] {new Color(0xFBFBF5)}, Color.DARK_GRAY, 1.5f);
-        for (int i = 0; i < m; i++) {
-            monitors.points(new double[] {sc.x()[i]}, new double[] {sc.y()[i]}, new Color[] {fills[i]},
-                    sc.roadside()[i] ? 9 : 5.5);
-        }
-        monitors.colourBar(meanScale, 1).scaleBar().save(dir.resolve(file(files, "map_monitors.png")));
-        report.figure("map_monitors.png", "The invented monitors coloured by the annual mean of their daily means; "
-                + "large dots are next to heavy-traffic hot spots.");
+        report.figure("map_monitors.png", Maps.points(frame, sc.x(), sc.y(), annualMean, ColourScale.of(annualMean,
+                "annual mean of daily means", "µg/m³"), sc.roadside(), "next to a heavy-traffic hot spot",
+                "other monitors", "Monitors and their annual mean"), "The invented monitors coloured by the annual "
+                + "mean of their daily means; large dots are next to heavy-traffic hot spots.");
 
         // ---------------------------------------------------------------- densities
         BayesSpace space = BayesSpace.splines(LOG_LO, LOG_HI, 4, 8);
@@ -155,19 +163,18 @@ final class Study2 {
             progress.line("  not converged: " + problem);
         }
         report.heading("Densities per monitor").paragraph("Each monitor's log daily means are turned into a density in "
-                + ModelText.space(space, "8 equally spaced interior knots") + " by " + SampleDensities.describe() + "; " + notConverged + " fits did not converge. "
+                + Describe.splineSpace(space, "8 equally spaced interior knots") + " by " + SampleDensities.describe() + "; " + notConverged + " fits did not converge. "
                 + (estVar == null ? "No estimation variances are available, so the kriging below treats the densities "
                 + "as exact." : "The estimator also reports each density's B2 estimation variance (trace of its "
                 + "coordinate covariance), used below as the measurement-error variance of the kriging."));
         if (!est.problems().isEmpty()) {
             report.bullets(est.problems());
         }
-        report.paragraph(Estimates.extrapolationSentence(est.extrapolated(), m, 10));
+        report.paragraph(Findings.extrapolated(est.extrapolated(), m, 10));
         metrics.put("extrapolatedEstimates", (double) est.extrapolated().size());
-        densityFigure(sc, logDaily, dens, dir.resolve(file(files, "fig_densities.png")));
-        report.figure("fig_densities.png", "Four monitors (lowest, median and highest mean, and a roadside one): "
-                + "histogram of log daily means and the estimated density; the dashed line is the 15 µg/m³ demo "
-                + "threshold (ln 15 = 2.71).");
+        report.figure("fig_densities.png", densityFigure(sc, logDaily, dens), "Four monitors (lowest, median and "
+                + "highest mean, and a roadside one): histogram of the daily means (points) and the estimated "
+                + "density (line) on a logarithmic axis labelled in µg/m³; the dashed line marks 15 µg/m³.");
 
         // ---------------------------------------------------------------- variogram
         Locations loc = Locations.planar(sc.x(), sc.y());
@@ -184,38 +191,29 @@ final class Study2 {
         progress.line("trace-variogram fitted: raw " + describe(rawFit.model()) + "; universal-kriging residuals "
                 + describe(model)
                 + " after " + uk.iterations() + " iterations" + (uk.converged() ? "" : " (not converged)"));
-        variogramFigure(raw, rawFit.model(), uk.residualVariogram(), model, maxLag,
-                dir.resolve(file(files, "fig_variogram.png")));
         report.heading("Trace-variogram").paragraph("Empirical trace-variogram γ̂(h) = (1/(2|N(h)|)) Σ ‖X_i ⊖ X_j‖²_B "
-                + "(Giraldo, Delicado and Mateu 2011) in " + raw.binCount() + " bins up to " + Tables.fmt(maxLag, 1)
+                + "(Giraldo, Delicado and Mateu 2011) in " + raw.binCount() + " bins up to " + Numbers.fixed(maxLag, 1)
                 + " km (12 equal bins, empty ones merged into a neighbour), and an "
                 + "exponential model (nugget + exponential, practical range) fitted by Cressie's (1985) weighted "
                 + "least squares. Raw densities: " + describe(rawFit.model()) + ". For universal kriging with a linear "
                 + "drift in the coordinates the variogram of the drift residuals was re-fitted with the GLS drift "
                 + "until it settled (" + uk.iterations() + " fits" + (uk.converged() ? "" : ", not converged") + "): "
                 + describe(model) + ".");
-        List<String> fitWarnings = new ArrayList<>();
+        List<String> fitNotes = new ArrayList<>(Findings.variogramFit("Raw densities", rawFit, "km"));
+        fitNotes.addAll(Findings.variogramFit("Drift residuals", uk.fit(), "km"));
+        metrics.put("variogramFitWarnings", (double) (rawFit.warnings().size() + uk.fit().warnings().size()));
+        report.bullets(fitNotes);
         for (VariogramFit.Warning w : rawFit.warnings()) {
-            fitWarnings.add("Raw densities: " + w.message() + ".");
+            progress.line("  variogram warning (raw densities): " + w.message());
         }
         for (VariogramFit.Warning w : uk.fit().warnings()) {
-            fitWarnings.add("Drift residuals: " + w.message() + ".");
+            progress.line("  variogram warning (drift residuals): " + w.message());
         }
-        metrics.put("variogramFitWarnings", (double) fitWarnings.size());
-        if (fitWarnings.isEmpty()) {
-            report.paragraph("Neither fit raised a warning: both practical ranges lie within the lags of the empirical "
-                    + "variogram and no parameter ended on a bound.");
-        } else {
-            report.paragraph("The fits raised these warnings. A practical range beyond the largest lag means that "
-                    + "the sill and range are extrapolated beyond the distances observed, over which a longer range and a "
-                    + "larger sill are hard to tell apart: the fitted range is poorly determined. Predictions between "
-                    + "nearby monitors depend mostly on the short-lag part of the model, which the points do "
-                    + "constrain.").bullets(fitWarnings);
-            for (String w : fitWarnings) {
-                progress.line("  variogram warning: " + w);
-            }
-        }
-        report.figure("fig_variogram.png", "Empirical trace-variograms (points) and fitted models (lines).");
+        report.figure("fig_variogram.png", Figures.variogram("Trace-variogram of the monitor densities", "km",
+                List.of(new Figures.VariogramLayer("densities", raw, rawFit.model()),
+                    new Figures.VariogramLayer("drift residuals", uk.residualVariogram(), model))),
+                "Empirical trace-variograms (points), fitted models (solid: densities; dashed: drift residuals) "
+                        + "and the number of monitor pairs in each distance bin.");
 
         // ---------------------------------------------------------------- cross-validation
         CrossValidation cv = uk.kriging().crossValidate();
@@ -269,13 +267,13 @@ final class Study2 {
                 + "others (fast leave-one-out of the global universal-kriging system, Dubrule 1983) and compared with "
                 + "the simplest alternative, the ⊕-mean density of the other monitors. The last column compares the "
                 + "predicted P(daily mean > 15 µg/m³) with the held-out monitor's observed share of days above it.");
-        report.table(new String[] {"predictor", "mean B2 error", "mean squared B2 error", "mean standardised squared "
-            + "error", "mean abs. error of P(> 15 µg/m³)"}, List.of(
-                new String[] {"universal kriging (linear drift)", Tables.fmt(cv.meanError(), 4),
-                    Tables.fmt(cv.meanSquaredError(), 4), Tables.fmt(cv.meanStandardisedSquaredError(), 3),
-                    Tables.fmt(maeUk, 4)},
-                new String[] {"mean density of the other monitors", Tables.fmt(mean(baseErr), 4),
-                    Tables.fmt(baseSq, 4), "—", Tables.fmt(maeBase, 4)}));
+        report.table(Table.of(2).text("predictor", new String[] {"universal kriging (linear drift)",
+            "mean density of the other monitors"})
+                .number("mean_error", "mean B2 error", new double[] {cv.meanError(), mean(baseErr)}, 4)
+                .number("mean_squared_error", "mean squared B2 error", new double[] {cv.meanSquaredError(), baseSq}, 4)
+                .number("mean_standardised_squared_error", "mean standardised squared error",
+                        new double[] {cv.meanStandardisedSquaredError(), Double.NaN}, 3)
+                .number("mae_p_over_15", "mean abs. error of P(> 15 µg/m³)", new double[] {maeUk, maeBase}, 4));
         report.paragraph(String.format(Locale.ROOT, "Kriging reduces the mean squared leave-one-out error by %.0f %% "
                 + "against the mean density. A mean standardised squared error near 1 means the kriging variances "
                 + "describe the errors well (%.2f here).", 100 * (1 - cv.meanSquaredError() / baseSq),
@@ -308,9 +306,11 @@ final class Study2 {
         // predictive SDs), 2,000 at the three locations of the table
         UncertaintyOptions uOpt = UncertaintyOptions.withSeed(options.seed()).withDraws(100).withQuantiles(0.5)
                 .withExceedances(logT).withDataUnits(Math::exp);
-        double[] gPWidth = new double[side * side];
+        double[] gPLo = new double[side * side];
+        double[] gPHi = new double[side * side];
         double[] gMedSd = new double[side * side];
-        Arrays.fill(gPWidth, Double.NaN);
+        Arrays.fill(gPLo, Double.NaN);
+        Arrays.fill(gPHi, Double.NaN);
         Arrays.fill(gMedSd, Double.NaN);
         pd.summariseGrid(grid, gOpt, uOpt, ut -> {
             GridTile tile = ut.tile();
@@ -319,7 +319,8 @@ final class Study2 {
                 gP[idx] = tile.tailProbabilities()[0][q];
                 gMed[idx] = Math.exp(tile.quantiles()[0][q]);
                 gSd[idx] = Math.sqrt(Math.max(0, tile.variances()[q]));
-                gPWidth[idx] = ut.exceedances().get(0).uppers()[q] - ut.exceedances().get(0).lowers()[q];
+                gPLo[idx] = ut.exceedances().get(0).lowers()[q];
+                gPHi[idx] = ut.exceedances().get(0).uppers()[q];
                 gMedSd[idx] = ut.quantiles().get(0).sds()[q];
             }
             for (int e : ut.exactDraws()) {
@@ -331,19 +332,11 @@ final class Study2 {
         double gridSeconds = (System.nanoTime() - t0) / 1e9;
         metrics.put("gridCells", (double) cells[0]);
         report.keyNumber(String.format(Locale.ROOT, "Kriged %,d cells of a %d × %d grid over the city in %.1f s; "
-                + "P(daily mean > 15 µg/m³) ranges from %.2f to %.2f over the city (demo threshold).", cells[0], side,
+                + "P(daily mean > 15 µg/m³) ranges from %.2f to %.2f over the city.", cells[0], side,
                 side, gridSeconds, min(gP), max(gP)));
         metrics.put("gridSeconds", gridSeconds);
         progress.line(String.format(Locale.ROOT, "kriged %,d grid cells (%d × %d over the city) in %.1f s", cells[0],
                 side, side, gridSeconds));
-        Envelope gridEnv = new Envelope(env);
-        rasterMap(sc, gridEnv, side, gP, ColourScale.sequential(0, Math.max(0.05, max(gP)),
-                "P(daily mean > 15 µg/m³)"), 2, "Probability that a day exceeds 15 µg/m³ (demo threshold)", caption,
-                dir.resolve(file(files, "map_exceedance.png")));
-        rasterMap(sc, gridEnv, side, gMed, ColourScale.of(gMed, "median daily mean, µg/m³"), 1,
-                "Median daily mean concentration", caption, dir.resolve(file(files, "map_median.png")));
-        rasterMap(sc, gridEnv, side, gSd, ColourScale.of(gSd, "kriging standard deviation (B2 norm units)"), 3,
-                "Kriging standard deviation", caption, dir.resolve(file(files, "map_kriging_sd.png")));
         report.heading("Maps from universal kriging").paragraph(String.format(Locale.ROOT, "The monitors' densities "
                 + "were kriged (universal kriging with a linear drift, the fitted residual variogram and each "
                 + "density's estimation variance as measurement error) onto a %d × %d grid over the city's bounding "
@@ -351,14 +344,17 @@ final class Study2 {
                 + "the probability of a daily mean above 15 µg/m³ and the median daily mean were computed in the same "
                 + "pass (%.1f s). The kriging standard deviation is the square root of the trace kriging variance, "
                 + "in units of the B2 norm of log-concentration densities.", side, side, cells[0], gridSeconds));
-        report.figure("map_exceedance.png", "P(daily mean > 15 µg/m³) from the kriged densities; dots are the "
-                + "monitors. Demo threshold only — not a regulatory assessment.");
-        report.figure("map_median.png", "Median daily mean: exp of the median of the kriged density of the log daily "
-                + "mean (the median commutes with the monotone log).");
-        report.figure("map_kriging_sd.png", "Kriging standard deviation: small near monitors, large in gaps and at "
-                + "the edges.");
-        uncertaintySection(report, sc, pd, uOpt, gridEnv, side, gPWidth, gMedSd, gP, grid, caption, files, dir,
-                metrics, progress);
+        report.figure("map_exceedance.png", gridMap(sc, frame, grid, gP, ColourScale.probability(
+                "P(daily mean > 15 µg/m³)"), "Probability that a day's mean exceeds 15 µg/m³"),
+                "P(daily mean > 15 µg/m³) from the kriged densities, on the fixed scale from 0 to 1; dots are the "
+                + "monitors. A demonstration on invented data, not a regulatory assessment.");
+        report.figure("map_median.png", gridMap(sc, frame, grid, gMed, ColourScale.of(gMed, "median daily mean",
+                "µg/m³"), "Median daily mean concentration"), "Median daily mean: exp of the median of the kriged "
+                + "density of the log daily mean (the median commutes with the monotone log).");
+        report.figure("map_kriging_sd.png", gridMap(sc, frame, grid, gSd, ColourScale.of(gSd, "kriging standard "
+                + "deviation", "B2 norm of log-concentration densities"), "Kriging standard deviation"),
+                "Kriging standard deviation: small near monitors, large in gaps and at the edges.");
+        uncertaintySection(report, sc, frame, pd, uOpt, side, gPLo, gP, gPHi, gMedSd, grid, metrics, progress);
 
         // ---------------------------------------------------------------- tables
         double[] lon = new double[m];
@@ -370,29 +366,29 @@ final class Study2 {
             Point pt = Region.GEOMETRY.createPoint(new org.locationtech.jts.geom.Coordinate(sc.x()[i], sc.y()[i]));
             points.add(pt);
         }
-        table.text("code", codes).text("name", sc.names()).number("lon", lon).number("lat", lat)
-                .flag("roadside", sc.roadside()).number("missing_hour_share", missingShare)
-                .integer("valid_days", validDays).number("annual_mean", annualMean)
-                .number("observed_share_over_15", empiricalExceed).number("density_p_over_15", pExceed)
-                .number("density_median", median)
-                .number("loo_error_universal", cv.errorNorms()).number("loo_error_mean_density", baseErr)
-                .number("loo_p_over_15", looExceed);
+        Table table = Table.of(m).text("code", codes).text("name", sc.names())
+                .number("lon", "longitude (degrees)", lon, 4).number("lat", "latitude (degrees)", lat, 4)
+                .flag("roadside", "roadside", sc.roadside())
+                .percent("missing_hour_share", "missing hours", missingShare, 1)
+                .integer("valid_days", "valid days", validDays)
+                .number("annual_mean", "annual mean (µg/m³)", annualMean, 1)
+                .percent("observed_share_over_15", "observed days > 15 µg/m³", empiricalExceed, 1)
+                .percent("density_p_over_15", "density P(> 15 µg/m³)", pExceed, 1)
+                .number("density_median", "density median (µg/m³)", median, 1)
+                .number("loo_error_universal", "leave-one-out B2 error, kriging", cv.errorNorms(), 4)
+                .number("loo_error_mean_density", "leave-one-out B2 error, mean density", baseErr, 4)
+                .percent("loo_p_over_15", "leave-one-out P(> 15 µg/m³)", looExceed, 1);
         if (estVar != null) {
-            table.number("estimation_variance", estVar);
+            table = table.number("estimation_variance", "estimation variance", estVar, 4);
         }
-        table.number("extrapolation_share", est.extrapolationShares());
-        table.writeCsv(dir.resolve(file(files, "monitors.csv")));
-        table.writeGeoJson(dir.resolve(file(files, "monitors.geojson")), points, sc.projection());
-        List<String[]> top = new ArrayList<>();
+        table = table.number("extrapolation_share", "extrapolation share", est.extrapolationShares(), 3);
+        report.csv("monitors.csv", table);
+        report.geoJson("monitors.geojson", points.stream().map(sc.projection()::toLonLat).toList(),
+                table.unitValues("code"));
         int[] order = Study1.sortedBy(m, i -> -pExceed[i]);
-        for (int r = 0; r < Math.min(10, m); r++) {
-            int i = order[r];
-            top.add(new String[] {codes[i], sc.names()[i], sc.roadside()[i] ? "yes" : "no",
-                Tables.fmt(annualMean[i], 1), Tables.fmt(100 * empiricalExceed[i], 1) + " %",
-                Tables.fmt(100 * pExceed[i], 1) + " %", Tables.fmt(100 * looExceed[i], 1) + " %"});
-        }
-        report.heading("Monitors with the highest exceedance probability").table(new String[] {"code", "name",
-            "roadside", "annual mean µg/m³", "observed days > 15", "density P(> 15)", "leave-one-out P(> 15)"}, top);
+        report.heading("Monitors with the highest exceedance probability").table(table
+                .select(Arrays.copyOf(order, Math.min(10, m))).columns("code", "name", "roadside", "annual_mean",
+                        "observed_share_over_15", "density_p_over_15", "loo_p_over_15"));
         report.heading("Files").bullets(List.of(
                 "`monitors.csv` and `monitors.geojson` — one row / feature per monitor: location, missing hours, "
                         + "valid days, annual mean, observed and density-based share of days over 15 µg/m³, median, "
@@ -407,25 +403,22 @@ final class Study2 {
         if (!missing.isEmpty()) {
             report.heading("Steps not run").bullets(missing);
         }
-        report.caution();
-        report.write();
-        files.add("summary.md");
-        files.add("summary.html");
-        return new StudyResult(dir, m, List.copyOf(files), Map.copyOf(metrics), List.copyOf(missing));
+        ReportFiles written = report.writeTo(dir);
+        return new StudyResult(dir, m, written.files(), Map.copyOf(metrics), List.copyOf(missing));
     }
 
-    /** Intervals in the analyst's units: map of the 90 % interval width of P(> 15), SD of the median in µg/m³. */
-    static void uncertaintySection(Report report, AirScenario sc, PredictiveDistribution pd, UncertaintyOptions uOpt,
-            Envelope gridEnv, int side, double[] gPWidth, double[] gMedSd, double[] gP, Grid grid, String caption,
-            List<String> files, Path dir, Map<String, Double> metrics, Progress progress) {
-        rasterMap(sc, gridEnv, side, gPWidth, ColourScale.sequential(0, Math.max(0.02, max(gPWidth)),
-                "90 % interval width of P(> 15 µg/m³)"), 2,
-                "Uncertainty of the exceedance probability (demo threshold)", caption,
-                dir.resolve(file(files, "map_exceedance_interval_width.png")));
+    /** Intervals in the analyst's units: the 90 % interval of P(> 15) mapped, the SD of the median in µg/m³. */
+    static void uncertaintySection(Report report, AirScenario sc, MapFrame frame, PredictiveDistribution pd,
+            UncertaintyOptions uOpt, int side, double[] gPLo, double[] gP, double[] gPHi, double[] gMedSd, Grid grid,
+            Map<String, Double> metrics, Progress progress) {
+        double[] width = new double[gP.length];
+        for (int i = 0; i < width.length; i++) {
+            width[i] = gPHi[i] - gPLo[i];
+        }
         double[] sds = Arrays.stream(gMedSd).filter(v -> !Double.isNaN(v)).sorted().toArray();
         double sdMedian = sds[sds.length / 2];
         metrics.put("medianSdMicrograms", sdMedian);
-        metrics.put("exceedanceIntervalWidthMax", max(gPWidth));
+        metrics.put("exceedanceIntervalWidthMax", max(width));
         ProportionalityCheck pc = pd.checkProportionality(VariogramOptions.withDefaults().withBinCount(8),
                 Math.min(2, pd.rank()), 99, 2);
         AnisotropyTest at = AnisotropyTest.of(pd.kriging(), VariogramOptions.withDefaults().withBinCount(12)
@@ -436,7 +429,8 @@ final class Study2 {
                 + " proportional covariance p = %.2f, anisotropy p = %.2f", uOpt.draws(), sds[0], sds[sds.length - 1],
                 pc.pValue(), at.pValue()));
         report.keyNumber(String.format(Locale.ROOT, "Standard deviation of the predicted median daily mean: %.2f µg/m³ "
-                + "at the median cell (%.2f–%.2f over the city).", sdMedian, sds[0], sds[sds.length - 1]));
+                + "at the median cell (%.2f–%.2f over the city); the 90 %% interval of P(daily mean > 15 µg/m³) is "
+                + "at most %.2f wide.", sdMedian, sds[0], sds[sds.length - 1], max(width)));
         report.heading("Uncertainty in µg/m³ and in days").paragraph(String.format(Locale.ROOT, "The kriging variance "
                 + "says how far the predicted density may be from the true one, in B2 units. To state that in the units "
                 + "of the data, the coordinates of the density at a location are given a Gaussian predictive law: "
@@ -444,9 +438,9 @@ final class Study2 {
                 + "of the coordinates (estimated from the drift residuals). This holds when all coordinates share one "
                 + "spatial correlation (the proportional covariance, or intrinsic correlation, model). From %d seeded "
                 + "draws of that law per cell (2,000 at the locations of the table below), each quantity is computed on "
-                + "every draw and the 5 %% and 95 %% points of the draws give its 90 %% interval. The standard deviation of the predicted median daily mean is "
-                + "%.2f µg/m³ at the median cell of the city (%.2f–%.2f µg/m³).", uOpt.draws(), sdMedian, sds[0],
-                sds[sds.length - 1]));
+                + "every draw and the 5 %% and 95 %% points of the draws give its 90 %% interval. The standard deviation "
+                + "of the predicted median daily mean is %.2f µg/m³ at the median cell of the city (%.2f–%.2f µg/m³).",
+                uOpt.draws(), sdMedian, sds[0], sds[sds.length - 1]));
         report.paragraph(String.format(Locale.ROOT, "Checks of the model on these data (Monte Carlo tests, 99 simulated "
                 + "fields each): the variograms of the two leading principal directions of the coordinates were compared "
                 + "in shape with the trace-variogram (statistic %.3f, p = %.2f: %s); the directional trace-variograms of "
@@ -457,52 +451,62 @@ final class Study2 {
                 at.pValue(), at.anisotropic(0.05) ? "anisotropic at the 5 % level: the isotropic variogram smooths "
                 + "across the direction of greatest continuity, " + at.majorDirection() + "°" : "no evidence of "
                 + "anisotropy, so the isotropic variogram is kept"));
+        report.figure("map_exceedance_interval.png", Maps.interval(frame, GridValues.of(grid, gPLo),
+                GridValues.of(grid, gP), GridValues.of(grid, gPHi), ColourScale.probability("P(daily mean > 15 µg/m³)"),
+                "90 % interval of P(daily mean > 15 µg/m³)", new String[] {"lower end (5 %)", "estimate",
+                    "upper end (95 %)"}),
+                "The 90 % interval of the exceedance probability per cell, on the fixed scale from 0 to 1: the "
+                + "interval is narrow where the outer panels agree (near monitors) and wide where they differ (gaps "
+                + "between monitors, edges); speckle is the Monte Carlo error of " + uOpt.draws() + " draws per cell.");
+        report.figure("map_median_sd.png", gridMap(sc, frame, grid, gMedSd, ColourScale.of(gMedSd,
+                "SD of the median daily mean", "µg/m³"), "Uncertainty of the median daily mean"),
+                "Standard deviation of the predicted median daily mean, in µg/m³, from the predictive law.");
         // three locations: the city centre, the cell with the highest P(> 15) and the one with the widest interval
         int hi = 0, wide = 0;
         for (int i = 0; i < gP.length; i++) {
             if (!Double.isNaN(gP[i]) && (Double.isNaN(gP[hi]) || gP[i] > gP[hi])) {
                 hi = i;
             }
-            if (!Double.isNaN(gPWidth[i]) && (Double.isNaN(gPWidth[wide]) || gPWidth[i] > gPWidth[wide])) {
+            if (!Double.isNaN(width[i]) && (Double.isNaN(width[wide]) || width[i] > width[wide])) {
                 wide = i;
             }
         }
         Point centre = sc.outline().getInteriorPoint();
         double[] xs = {centre.getX(), grid.x(hi % side), grid.x(wide % side)};
         double[] ys = {centre.getY(), grid.y(hi / side), grid.y(wide / side)};
-        String[] what = {"city centre", "highest P(> 15 µg/m³)", "widest interval of P"};
         List<LocationUncertainty> at3 = pd.summarise(xs, ys, null, uOpt.withDraws(2000));
-        List<String[]> rows = new ArrayList<>();
+        double[][] c = new double[12][3];
         for (int i = 0; i < 3; i++) {
             DerivedInterval med = at3.get(i).quantiles().get(0);
             DerivedInterval p = at3.get(i).exceedances().get(0);
             DerivedInterval days = p.scaled(365);
-            rows.add(new String[] {what[i], Tables.fmt(xs[i], 1) + ", " + Tables.fmt(ys[i], 1),
-                Tables.fmt(med.estimate(), 1) + " ± " + Tables.fmt(med.sd(), 2) + " (" + Tables.fmt(med.lower(), 1)
-                        + "–" + Tables.fmt(med.upper(), 1) + ")",
-                Tables.fmt(p.estimate(), 3) + " (" + Tables.fmt(p.lower(), 3) + "–" + Tables.fmt(p.upper(), 3) + ")",
-                Tables.fmt(days.estimate(), 0) + " (" + Tables.fmt(days.lower(), 0) + "–" + Tables.fmt(days.upper(), 0)
-                        + ")"});
+            double[] row = {med.estimate(), med.sd(), med.lower(), med.upper(), p.estimate(), p.lower(), p.upper(),
+                days.estimate(), days.lower(), days.upper(), xs[i], ys[i]};
+            for (int j = 0; j < row.length; j++) {
+                c[j][i] = row[j];
+            }
         }
-        report.table(new String[] {"location", "x, y (km)", "median daily mean µg/m³ ± SD (90 % interval)",
-            "P(daily mean > 15 µg/m³) (90 % interval)", "expected days > 15 µg/m³ per year (90 % interval)"}, rows);
+        report.table(Table.of(3).text("location", new String[] {"city centre", "highest P(> 15 µg/m³)",
+            "widest interval of P"})
+                .number("x_km", "x (km)", c[10], 1).number("y_km", "y (km)", c[11], 1)
+                .number("median", "median daily mean (µg/m³)", c[0], 1)
+                .number("median_sd", "SD of the median (µg/m³)", c[1], 2)
+                .number("median_lo90", "median 5 %", c[2], 1).number("median_hi90", "median 95 %", c[3], 1)
+                .number("p_over_15", "P(> 15 µg/m³)", c[4], 3)
+                .number("p_lo90", "P 5 %", c[5], 3).number("p_hi90", "P 95 %", c[6], 3)
+                .number("days_over_15", "expected days > 15 µg/m³ per year", c[7], 0)
+                .number("days_lo90", "days 5 %", c[8], 0).number("days_hi90", "days 95 %", c[9], 0),
+                "uncertainty_locations.csv");
         report.paragraph("Expected days per year are 365 × P(daily mean > 15 µg/m³) (demo threshold; a share of days, "
-                + "not a regulatory count).");
-        report.figure("map_exceedance_interval_width.png", "Width of the 90 % interval of P(daily mean > 15 µg/m³): "
-                + "narrow near monitors, wide in the gaps between them and towards the edges; the speckle is the "
-                + "Monte Carlo error of 100 draws per cell.");
+                + "not a regulatory count); each interval is the central 90 % interval of the quantity under the "
+                + "predictive law (2,000 draws).");
     }
 
     static String describe(VariogramModel model) {
-        return ModelText.variogram(model);
+        return Describe.variogram(model, "km");
     }
 
-    static String file(List<String> files, String name) {
-        files.add(name);
-        return name;
-    }
-
-    static void densityFigure(AirScenario sc, double[][] logDaily, DensitySet dens, Path file) {
+    static ChartGrid densityFigure(AirScenario sc, double[][] logDaily, DensitySet dens) {
         int m = sc.size();
         int[] order = Study1.sortedBy(m, i -> mean(logDaily[i]));
         int road = order[3 * m / 4];
@@ -513,69 +517,20 @@ final class Study2 {
             }
         }
         int[] pick = {order[0], order[m / 2], order[m - 1], road};
-        double[] grid = new double[200];
-        for (int g = 0; g < grid.length; g++) {
-            grid[g] = LOG_LO + (LOG_HI - LOG_LO) * (g + 0.5) / grid.length;
-        }
-        List<JFreeChart> charts = new ArrayList<>();
+        Axis daily = Axis.loggedData("daily mean", "µg/m³");
+        List<Chart> charts = new ArrayList<>();
         for (int i : pick) {
-            int bins = 40;
-            double[] mid = new double[bins];
-            double[] h = new double[bins];
-            double lo = 0.5;
-            double hi = 4.5;
-            double w = (hi - lo) / bins;
-            for (int b = 0; b < bins; b++) {
-                mid[b] = lo + (b + 0.5) * w;
-            }
-            for (double v : logDaily[i]) {
-                int b = (int) Math.floor((v - lo) / w);
-                if (b >= 0 && b < bins) {
-                    h[b] += 1.0 / (logDaily[i].length * w);
-                }
-            }
-            double[] pdf = dens.get(i).pdf(grid);
-            double top = Math.max(max(pdf), max(h));
-            List<Charts.Series> s = new ArrayList<>();
-            s.add(new Charts.Series("histogram of log daily means", mid, h, Charts.Style.POINTS, 7));
-            s.add(new Charts.Series("estimated density", grid, pdf, Charts.Style.LINE, 0));
-            s.add(new Charts.Series("15 µg/m³", new double[] {Math.log(THRESHOLD), Math.log(THRESHOLD)},
-                    new double[] {0, top}, Charts.Style.DASHED, 1));
-            charts.add(Charts.chart(sc.codes()[i] + " " + sc.names()[i] + " — " + logDaily[i].length + " days",
-                    "ln(daily mean, µg/m³)", "density", s));
+            Observed histogram = Observed.sample("histogram of daily means", logDaily[i], 0.5, 4.5, 40);
+            charts.add(Figures.density(sc.codes()[i] + " " + sc.names()[i] + " — " + logDaily[i].length + " days",
+                    dens.get(i), histogram, daily).verticalLine("15 µg/m³", Math.log(THRESHOLD)));
         }
-        Charts.panel("Densities of the log daily mean concentration", charts, 2, 560, 360, file);
+        return ChartGrid.of("Densities of the daily mean concentration (log scale)", charts, 2).withCellSize(560, 380);
     }
 
-    static void variogramFigure(EmpiricalVariogram raw, VariogramModel rawModel, EmpiricalVariogram resid,
-            VariogramModel residModel, double maxLag, Path file) {
-        double[] h = new double[120];
-        double[] g1 = new double[h.length];
-        double[] g2 = new double[h.length];
-        for (int i = 0; i < h.length; i++) {
-            h[i] = maxLag * (i + 1) / h.length; // from just above 0: the nugget is a jump at h = 0
-            g1[i] = rawModel.gamma(h[i]);
-            g2[i] = residModel.gamma(h[i]);
-        }
-        List<Charts.Series> s = new ArrayList<>();
-        s.add(new Charts.Series("empirical, densities", raw.meanLags(), raw.semivariances(), Charts.Style.POINTS, 0));
-        s.add(new Charts.Series("fitted, densities", h, g1, Charts.Style.LINE, 0));
-        s.add(new Charts.Series("empirical, drift residuals", resid.meanLags(), resid.semivariances(),
-                Charts.Style.POINTS, 1));
-        s.add(new Charts.Series("fitted, drift residuals", h, g2, Charts.Style.DASHED, 1));
-        JFreeChart chart = Charts.chart("Trace-variogram of the monitor densities", "distance h (km)",
-                "semivariance γ(h) (squared B2 norm)", s);
-        Charts.save(chart, file, 900, 560);
-    }
-
-    static void rasterMap(AirScenario sc, Envelope cells, int side, double[] values, ColourScale scale, int digits,
-            String title, String caption, Path file) {
-        Color[] fills = new Color[sc.size()];
-        Arrays.fill(fills, Color.WHITE);
-        new MapPainter(sc.outline().getEnvelopeInternal(), 760, title, caption)
-                .raster(cells, side, side, values, scale, sc.outline())
-                .stroke(List.of(sc.outline()), Color.DARK_GRAY, 1.5f)
-                .points(sc.x(), sc.y(), fills, 3.5).colourBar(scale, digits).scaleBar().save(file);
+    /** A grid map of the city with the monitors marked. */
+    static MapFigure gridMap(AirScenario sc, MapFrame frame, Grid grid, double[] values, ColourScale scale,
+            String title) {
+        return Maps.grid(frame, GridValues.of(grid, values), scale, title).withSites(sc.x(), sc.y(), "monitors");
     }
 
     static double[] exp(double[] v) {

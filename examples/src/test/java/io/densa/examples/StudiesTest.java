@@ -47,6 +47,11 @@ class StudiesTest {
 
     static void checkFolder(StudyResult result) throws IOException {
         Path dir = result.folder();
+        try (Stream<Path> all = Files.list(dir)) {
+            List<String> present = all.map(p -> p.getFileName().toString()).filter(n -> !n.startsWith("."))
+                    .sorted().toList();
+            assertEquals(result.files().stream().sorted().toList(), present, "the folder holds this run's files");
+        }
         String md = Files.readString(dir.resolve("summary.md"));
         String html = Files.readString(dir.resolve("summary.html"));
         assertTrue(md.contains("not diagnoses") && html.contains("not diagnoses"), "caution missing");
@@ -115,6 +120,16 @@ class StudiesTest {
         assertNotNull(recall, "study 1 must score its flags; missing steps: " + r.missing());
         assertTrue(recall >= RECALL_BOUND, "recall " + recall + " below " + RECALL_BOUND);
         assertTrue(r.metrics().get("precision") > 0, "no true flag at all");
+        // the clustering sentence follows the permutation test at the study's level
+        String md = Files.readString(r.folder().resolve("summary.md"));
+        boolean significant = r.metrics().get("moranPermutationP") <= Study1.ALPHA;
+        assertEquals(significant, md.contains("Departures from the baseline cluster in space:"), "clustering claim");
+        assertEquals(!significant, md.contains("Departures from the baseline show no clustering in space"));
+        // CSV headers are ASCII, excess and deficit ages have their own columns
+        String header = Files.readAllLines(r.folder().resolve("districts.csv")).get(0);
+        assertTrue(header.chars().allMatch(c -> c < 128), "non-ASCII header: " + header);
+        assertTrue(header.contains(",excess_ages,deficit_ages,"), header);
+        assertTrue(md.contains("Benjamini–Hochberg"), "wording");
     }
 
     @Test
@@ -139,11 +154,44 @@ class StudiesTest {
         assertTrue(r.metrics().get("looMseUniversal") < r.metrics().get("looMseMeanDensity"),
                 "kriging should beat the mean-density baseline: " + r.metrics());
         assertTrue(r.metrics().get("gridCells") > 1000, "grid prediction missing: " + r.metrics());
-        // the variogram fits' warnings (or their absence) are printed in the report
+        // the variogram fits' warnings (or their absence) are said in the report
         String md = Files.readString(r.folder().resolve("summary.md"));
         double warnings = r.metrics().get("variogramFitWarnings");
-        assertTrue(warnings == 0 ? md.contains("Neither fit raised a warning")
-                : md.contains("The fits raised these warnings"), "variogram warnings missing from the report");
+        long said = md.lines().filter(l -> l.startsWith("- Raw densities (lags in km):")
+                || l.startsWith("- Drift residuals (lags in km):")).count();
+        assertEquals(warnings, said, "one line per variogram warning");
+        long quiet = md.lines().filter(l -> l.contains("no parameter ended on a bound")).count();
+        assertTrue(warnings == 0 ? quiet == 2 : quiet <= 1, "each fit without warnings says so (" + quiet + ")");
+        // no real organisation is named; the threshold is cited beside the number
+        assertTrue(md.contains("guideline level published in *Global air quality guidelines"), "threshold citation");
+    }
+
+    @Test
+    void helpGoesToStandardOutputAndBadFoldersGetAMessage(@TempDir Path dir) throws IOException {
+        ByteArrayOutputStream out = new ByteArrayOutputStream();
+        ByteArrayOutputStream err = new ByteArrayOutputStream();
+        assertEquals(0, Main.main(new String[] {"--help"}, new PrintStream(out, true, StandardCharsets.UTF_8),
+                new PrintStream(err, true, StandardCharsets.UTF_8)));
+        assertTrue(out.toString(StandardCharsets.UTF_8).contains("small    study1 120 districts"), "size presets");
+        assertEquals("", err.toString(StandardCharsets.UTF_8));
+        Path file = dir.resolve("existing.txt");
+        Files.writeString(file, "x");
+        for (String target : new String[] {file.toString(), file.resolve("sub").toString()}) {
+            err.reset();
+            assertEquals(2, Main.main(new String[] {"--out", target, "--size", "small"}, new PrintStream(out, true,
+                    StandardCharsets.UTF_8), new PrintStream(err, true, StandardCharsets.UTF_8)));
+            String message = err.toString(StandardCharsets.UTF_8);
+            assertTrue(message.startsWith("densa examples: --out " + target + ": "), message);
+            assertTrue(!message.contains("Exception") && !message.contains("\tat "), "no stack trace: " + message);
+        }
+        Path foreign = dir.resolve("foreign");
+        Files.createDirectories(foreign);
+        Files.writeString(foreign.resolve("notes.txt"), "mine");
+        err.reset();
+        assertEquals(2, Main.main(new String[] {"--out", foreign.toString()}, new PrintStream(out, true,
+                StandardCharsets.UTF_8), new PrintStream(err, true, StandardCharsets.UTF_8)));
+        assertTrue(err.toString(StandardCharsets.UTF_8).contains("holds no report written by Densa"));
+        assertEquals("mine", Files.readString(foreign.resolve("notes.txt")));
     }
 
     @Test

@@ -36,4 +36,32 @@ public final class Seeds {
             a[j] = t;
         }
     }
+
+    /** Seeded permutation of 0..n−1 (the Fisher–Yates shuffle {@link #shuffle} of the identity). */
+    public static int[] permutation(int n, SplittableRandom rnd) {
+        int[] p = new int[n];
+        for (int i = 0; i < n; i++) {
+            p[i] = i;
+        }
+        shuffle(p, rnd);
+        return p;
+    }
+
+    /**
+     * Fold index of every row for k-fold cross-validation: rows in the order of a seeded
+     * {@link #permutation} fall into folds of balanced sizes.
+     *
+     * @throws IllegalArgumentException unless 2 ≤ k ≤ n
+     */
+    public static int[] folds(int n, int k, long seed) {
+        if (k < 2 || k > n) {
+            throw new IllegalArgumentException("fold count must be in [2, n = " + n + "], got " + k);
+        }
+        int[] perm = permutation(n, new SplittableRandom(seed));
+        int[] fold = new int[n];
+        for (int r = 0; r < n; r++) {
+            fold[perm[r]] = (int) ((long) r * k / n);
+        }
+        return fold;
+    }
 }

@@ -1,0 +1,71 @@
+package io.densa.core.estimate;
+
+import io.densa.core.DensitySet;
+import java.util.ArrayList;
+import java.util.List;
+
+/**
+ * Densities estimated for many units, in input order, with per-unit diagnostics.
+ *
+ * @param densities   the estimates (ids kept when given)
+ * @param diagnostics one record per unit, same order (unmodifiable)
+ */
+public record BatchEstimate(DensitySet densities, List<EstimationDiagnostics> diagnostics) {
+    /** Copies the list into an unmodifiable one. */
+    public BatchEstimate {
+        diagnostics = List.copyOf(diagnostics);
+    }
+
+    /** Number of units. */
+    public int size() {
+        return densities.size();
+    }
+
+    /** Row i as a single estimate (density and diagnostics). */
+    public UnitEstimate unit(int i) {
+        return new UnitEstimate(densities.get(i), diagnostics.get(i));
+    }
+
+    /** B2 estimation variance of every unit (trace of its coordinate covariance). */
+    public double[] estimationVariances() {
+        double[] v = new double[diagnostics.size()];
+        for (int i = 0; i < v.length; i++) {
+            v[i] = diagnostics.get(i).estimationVariance();
+        }
+        return v;
+    }
+
+    /** {@link EstimationDiagnostics#extrapolationShare()} of every unit, in input order. */
+    public double[] extrapolationShares() {
+        double[] v = new double[diagnostics.size()];
+        for (int i = 0; i < v.length; i++) {
+            v[i] = diagnostics.get(i).extrapolationShare();
+        }
+        return v;
+    }
+
+    /**
+     * Ids of the units whose estimate is carried by extrapolation
+     * ({@link EstimationDiagnostics#extrapolated()}), in input order ("#i" for row i without ids).
+     */
+    public List<String> extrapolatedIds() {
+        List<String> out = new ArrayList<>();
+        for (EstimationDiagnostics d : diagnostics) {
+            if (d.extrapolated()) {
+                out.add(d.id());
+            }
+        }
+        return out;
+    }
+
+    /** Rows whose status is not {@link EstimationDiagnostics.Status#CONVERGED}. */
+    public List<Integer> flaggedRows() {
+        List<Integer> out = new ArrayList<>();
+        for (int i = 0; i < diagnostics.size(); i++) {
+            if (!diagnostics.get(i).converged()) {
+                out.add(i);
+            }
+        }
+        return out;
+    }
+}

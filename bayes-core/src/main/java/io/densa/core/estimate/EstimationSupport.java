@@ -1,0 +1,351 @@
+package io.densa.core.estimate;
+
+import io.densa.core.Basis;
+import io.densa.core.BayesSpace;
+import io.densa.core.DensaException;
+import io.densa.core.internal.Cholesky;
+import io.densa.core.internal.RawBasis;
+import org.ejml.data.DMatrixRMaj;
+import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
+
+/** Validation and coordinate transforms shared by the estimators. Internal. */
+final class EstimationSupport {
+    private EstimationSupport() {
+    }
+
+    /** "unit 'id' (row i)" or "unit row i". */
+    static String unit(String[] ids, int i) {
+        return ids == null ? "unit row " + i : "unit '" + ids[i] + "' (row " + i + ")";
+    }
+
+    static String id(String[] ids, int i) {
+        return ids == null ? "#" + i : ids[i];
+    }
+
+    static void checkIds(String[] ids, int n) {
+        if (ids == null) {
+            return;
+        }
+        if (ids.length != n) {
+            throw new IllegalArgumentException("ids has " + ids.length + " entries for " + n + " units");
+        }
+        for (int i = 0; i < n; i++) {
+            if (ids[i] == null) {
+                throw new IllegalArgumentException("id of unit row " + i + " is null; give every unit an id or pass"
+                        + " ids = null (rows are then named #0, #1, …)");
+            }
+        }
+    }
+
+    /** Validates bin edges against the domain of the space; returns a copy. */
+    static double[] checkEdges(BayesSpace space, double[] edges) {
+        if (edges == null) {
+            throw new IllegalArgumentException("bin edges are null");
+        }
+        if (edges.length < 2) {
+            throw new IllegalArgumentException("need at least 2 bin edges (1 bin), got " + edges.length);
+        }
+        double a = space.lower(), b = space.upper();
+        for (int i = 0; i < edges.length; i++) {
+            double e = edges[i];
+            if (!(e >= a && e <= b)) {
+                throw new IllegalArgumentException("bin edge " + i + " = " + e + " lies outside the domain [" + a
+                        + ", " + b + "] of the space; edges must be finite and inside the domain");
+            }
+            if (i > 0 && !(e > edges[i - 1])) {
+                throw new IllegalArgumentException("bin edges must be strictly increasing: edge " + i + " = " + e
+                        + " does not exceed edge " + (i - 1) + " = " + edges[i - 1]);
+            }
+        }
+        return edges.clone();
+    }
+
+    static String bin(double[] edges, int j) {
+        return "bin " + j + " [" + edges[j] + ", " + edges[j + 1] + ")";
+    }
+
+    /**
+     * Largest accepted total count (or total weight of a sample): 2⁵³ ≈ 9.0·10¹⁵. Beyond it a double
+     * cannot tell N events from N + 1, and the log-likelihood and the criteria, sums of terms of
+     * order N log N, lose every digit (at N near 10³⁰⁸ they overflow).
+     */
+    static final double MAX_TOTAL = 0x1p53;
+
+    /** Rejects a total above {@link #MAX_TOTAL} (or an overflowing sum), naming the unit. */
+    static void checkTotalRange(double total, String unit, String what) {
+        if (!(total <= MAX_TOTAL)) {
+            throw new IllegalArgumentException(unit + ": " + what + " " + total + " is too large; the total must be"
+                    + " at most 2^53 = " + MAX_TOTAL + " (rescale the weights or counts)");
+        }
+    }
+
+    /** Validates a row of counts (total at most {@link #MAX_TOTAL}); returns the total. */
+    static double checkCounts(double[] row, double[] edges, String unit, boolean wholeNumbers) {
+        int d = edges.length - 1;
+        if (row == null) {
+            throw new IllegalArgumentException(unit + ": counts are null");
+        }
+        if (row.length != d) {
+            throw new IllegalArgumentException(unit + ": " + row.length + " counts for " + d + " bins");
+        }
+        double n = 0;
+        for (int j = 0; j < d; j++) {
+            double c = row[j];
+            if (!(c >= 0) || !Double.isFinite(c)) {
+                throw new IllegalArgumentException(unit + ", " + bin(edges, j) + ": count " + c
+                        + " is not allowed; counts must be finite and >= 0");
+            }
+            if (wholeNumbers && c != Math.rint(c)) {
+                throw new IllegalArgumentException(unit + ", " + bin(edges, j) + ": count " + c
+                        + " is not a whole number; counts must be integers (allow fractional counts in the"
+                        + " options for weighted counts)");
+            }
+            n += c;
+        }
+        checkTotalRange(n, unit, "total count");
+        return n;
+    }
+
+    static long checkCounts(int[] row, double[] edges, String unit) {
+        int d = edges.length - 1;
+        if (row == null) {
+            throw new IllegalArgumentException(unit + ": counts are null");
+        }
+        if (row.length != d) {
+            throw new IllegalArgumentException(unit + ": " + row.length + " counts for " + d + " bins");
+        }
+        long n = 0;
+        for (int j = 0; j < d; j++) {
+            if (row[j] < 0) {
+                throw new IllegalArgumentException(unit + ", " + bin(edges, j) + ": count " + row[j]
+                        + " is negative; counts must be >= 0");
+            }
+            n += row[j];
+        }
+        return n;
+    }
+
+    /** The raw functions of a basis, rebuilt from its public description. */
+    static RawBasis rawBasis(Basis b) {
+        switch (b.kind()) {
+            case SPLINE:
+                return RawBasis.spline(b.order(), b.breakpoints());
+            case POLYNOMIAL: {
+                double[] ab = b.breakpoints();
+                return RawBasis.polynomial(b.order(), ab[0], ab[1]);
+            }
+            default:
+                return RawBasis.step(b.breakpoints());
+        }
+    }
+
+    /** U = (T')⁻¹, upper triangular, so that coordinates c = U b for raw coefficients b. */
+    static double[] upperU(double[] t, int k) {
+        // T' is upper triangular with (T')_ij = T_ji; invert column by column
+        double[] u = new double[k * k];
+        Cholesky.invertUpper(t, k, 1, k, u);
+        return u;
+    }
+
+    /** out = U b (first K entries of b). */
+    static void toCoordinates(double[] u, int k, double[] b, double[] out, int off) {
+        for (int i = 0; i < k; i++) {
+            double s = 0;
+            int o = i * k;
+            for (int j = i; j < k; j++) {
+                s += u[o + j] * b[j];
+            }
+            out[off + i] = s;
+        }
+    }
+
+    /** Returns T M T' for a symmetric K × K raw matrix M (T lower triangular). */
+    static double[] congruenceLower(double[] t, double[] m, int k) {
+        double[] tmp = new double[k * k];
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j < k; j++) {
+                double s = 0;
+                for (int p = 0; p <= i; p++) {
+                    s += t[i * k + p] * m[p * k + j];
+                }
+                tmp[i * k + j] = s;
+            }
+        }
+        double[] out = new double[k * k];
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j <= i; j++) {
+                double s = 0;
+                for (int p = 0; p <= j; p++) {
+                    s += tmp[i * k + p] * t[j * k + p];
+                }
+                out[i * k + j] = s;
+                out[j * k + i] = s;
+            }
+        }
+        return out;
+    }
+
+    /** The diagonal covariance v·I, K × K row-major. */
+    static double[] diagonalCovariance(int k, double v) {
+        double[] c = new double[k * k];
+        for (int i = 0; i < k; i++) {
+            c[i * k + i] = v;
+        }
+        return c;
+    }
+
+    /**
+     * Makes a symmetric covariance positive semi-definite in place when it is not: cov = V Λ V' is
+     * replaced by V Λ₊ V' (negative eigenvalues set to 0), the nearest positive semi-definite matrix
+     * in the Frobenius norm (Higham (1988), Computing a nearest symmetric positive semidefinite
+     * matrix, Linear Algebra Appl. 103; from memory). A matrix whose eigenvalues are all ≥ 0 is left
+     * untouched (bit for bit). Sandwich covariances are positive semi-definite in exact arithmetic;
+     * when the data carry almost no information in some direction (e.g. identical observations)
+     * rounding can leave eigenvalues of −1e-20 and a diagonal entry slightly below 0.
+     *
+     * @return true when the matrix was changed
+     */
+    static boolean projectPsd(double[] cov, int k) {
+        boolean negDiag = false;
+        for (int i = 0; i < k; i++) {
+            negDiag |= cov[i * k + i] < 0;
+        }
+        DMatrixRMaj m = new DMatrixRMaj(k, k, true, cov);
+        org.ejml.interfaces.decomposition.EigenDecomposition_F64<DMatrixRMaj> eig =
+                DecompositionFactory_DDRM.eig(k, true, true);
+        if (!eig.decompose(m)) {
+            if (negDiag) {
+                throw new DensaException("covariance eigen-decomposition failed (" + k + " x " + k + ")", null);
+            }
+            return false;
+        }
+        boolean neg = false;
+        for (int i = 0; i < k; i++) {
+            neg |= eig.getEigenvalue(i).getReal() < 0;
+        }
+        if (!neg && !negDiag) {
+            return false;
+        }
+        double[] out = new double[k * k];
+        for (int e = 0; e < k; e++) {
+            double l = eig.getEigenvalue(e).getReal();
+            DMatrixRMaj v = eig.getEigenVector(e);
+            if (!(l > 0) || v == null) {
+                continue;
+            }
+            for (int i = 0; i < k; i++) {
+                double vi = l * v.data[i];
+                for (int j = 0; j < k; j++) {
+                    out[i * k + j] += vi * v.data[j];
+                }
+            }
+        }
+        for (int i = 0; i < k; i++) { // exact symmetry
+            for (int j = 0; j < i; j++) {
+                double a = 0.5 * (out[i * k + j] + out[j * k + i]);
+                out[i * k + j] = a;
+                out[j * k + i] = a;
+            }
+        }
+        System.arraycopy(out, 0, cov, 0, k * k);
+        return true;
+    }
+
+    static double trace(double[] m, int k) {
+        double s = 0;
+        for (int i = 0; i < k; i++) {
+            s += m[i * k + i];
+        }
+        return s;
+    }
+
+    /** η(x_q) = φ(x_q)·β at node q of a layout (β of length K + 1, β[K] = 0). */
+    private static double eta(BinLayout lay, int q, double[] beta) {
+        int w = lay.width, f = lay.first[q], base = q * w;
+        double s = 0;
+        for (int i = 0; i < w; i++) {
+            s += lay.vals[base + i] * beta[f + i];
+        }
+        return s;
+    }
+
+    /**
+     * Share of the squared B2 norm of an estimate that lies deeper than its data can tell apart
+     * (see {@link EstimationDiagnostics#extrapolationShare()}): with clr = φ·β − m (m the P-mean of
+     * φ·β over the domain) and Z = ∫ e^{clr} dP, for each of the two extrapolated regions E (the
+     * domain below the first bin with events, and above the last one) of reference mass P_E, the
+     * detection level c* = log(Z / (N P_E)), at which a constant clr would give the region one
+     * expected event,
+     * <pre>
+     *   share = Σ_E ∫_E (c* − clr)₊² dP / ‖c‖²,
+     * </pre>
+     * clamped to [0, 1]; 0 for the reference density (‖c‖ = 0). Integrals by the layouts'
+     * quadrature (the domain layout's nodes outside the bins).
+     *
+     * @param domain layout of [a, b] (one bin)
+     * @param bins   layout of the bins
+     * @param first  first bin with events
+     * @param last   last bin with events
+     * @param beta   raw coefficients, length K + 1
+     * @param normSq ‖c‖² of the estimate
+     * @param total  number of events N (or total weight), &gt; 0
+     */
+    static double extrapolationShare(BinLayout domain, BinLayout bins, int first, int last, double[] beta,
+            double normSq, double total) {
+        if (!(normSq > 0)) {
+            return 0.0;
+        }
+        int nq = domain.nodes;
+        double[] eta = new double[nq];
+        double sw = 0, se = 0;
+        for (int q = 0; q < nq; q++) {
+            eta[q] = eta(domain, q, beta);
+            sw += domain.weight[q];
+            se += domain.weight[q] * eta[q];
+        }
+        double m = se / sw;
+        double max = Double.NEGATIVE_INFINITY;
+        for (int q = 0; q < nq; q++) {
+            max = Math.max(max, eta[q]);
+        }
+        double z = 0;
+        for (int q = 0; q < nq; q++) {
+            z += domain.weight[q] * Math.exp(eta[q] - max);
+        }
+        double logZ = max - m + Math.log(z); // log ∫ e^{clr} dP
+        double lo = bins.edges[0], hi = bins.edges[bins.edges.length - 1];
+        double deep = 0;
+        for (int side = 0; side < 2; side++) {
+            int b0 = side == 0 ? 0 : last + 1;
+            int b1 = side == 0 ? first : bins.bins; // bins [b0, b1) without events on this side
+            double mass = 0;
+            for (int q = bins.binStart[b0]; q < bins.binStart[b1]; q++) {
+                mass += bins.weight[q];
+            }
+            for (int q = 0; q < nq; q++) {
+                if (side == 0 ? domain.x[q] < lo : domain.x[q] > hi) {
+                    mass += domain.weight[q];
+                }
+            }
+            if (!(mass > 0)) {
+                continue;
+            }
+            double level = logZ - Math.log(total * mass);
+            for (int q = bins.binStart[b0]; q < bins.binStart[b1]; q++) {
+                double d = level - (eta(bins, q, beta) - m);
+                if (d > 0) {
+                    deep += bins.weight[q] * d * d;
+                }
+            }
+            for (int q = 0; q < nq; q++) {
+                if (side == 0 ? domain.x[q] < lo : domain.x[q] > hi) {
+                    double d = level - (eta[q] - m);
+                    if (d > 0) {
+                        deep += domain.weight[q] * d * d;
+                    }
+                }
+            }
+        }
+        return Math.max(0.0, Math.min(1.0, deep / normSq));
+    }
+}

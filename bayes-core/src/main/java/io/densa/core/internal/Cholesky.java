@@ -1,0 +1,229 @@
+package io.densa.core.internal;
+
+import java.util.Arrays;
+import org.ejml.data.DMatrixRMaj;
+import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
+import org.ejml.interfaces.decomposition.CholeskyDecomposition_F64;
+
+/**
+ * The Cholesky factorisation A = L Lᵀ of a symmetric positive definite matrix and the triangular
+ * solves and inverses built on it (Golub &amp; Van Loan (2013), Matrix Computations, 4th ed., Johns
+ * Hopkins, §4.2 and §3.1). Matrices are row-major {@code double[]} with an explicit row stride;
+ * only the lower triangle of a factor is read. Kernels follow the EJML convention
+ * {@code (inputs, out) -> out}: an output array must not alias an input unless the method says
+ * "in place".
+ *
+ * <p>Internal: not exported outside the Densa modules; may change without notice. Stateless and
+ * thread-safe.
+ */
+public final class Cholesky {
+    /**
+     * Size from which {@link #factorLarge} is the better choice: EJML switches from its inner-product
+     * Cholesky to a blocked one at this size ({@code EjmlParameters.SWITCH_BLOCK64_CHOLESKY}).
+     */
+    public static final int LARGE = 1000;
+
+    private Cholesky() {
+    }
+
+    /**
+     * In-place lower Cholesky factor of the leading n × n block of a (row stride s), reading and
+     * writing the lower triangle only (the strict upper triangle is left as it was). The pivots are
+     * formed column by column and the off-diagonal entries are scaled by the reciprocal pivot, as
+     * LAPACK's dpotf2 and EJML's inner Cholesky do, so that for an exactly symmetric matrix the
+     * result equals EJML's {@code CholeskyDecompositionInner_DDRM} bit for bit.
+     *
+     * @param a                the matrix, overwritten by L on success
+     * @param minRelativePivot a column j fails when its pivot d (before the square root) is not
+     *                         greater than {@code minRelativePivot · max(1, |a_jj|)} (0: d must be
+     *                         positive) or is +∞; NaN always fails
+     * @return -1 on success, or the first failing column j; its d is left in {@code a[j*s+j]}
+     */
+    public static int factor(double[] a, int n, int s, double minRelativePivot) {
+        for (int j = 0; j < n; j++) {
+            int rj = j * s;
+            double ajj = a[rj + j];
+            double d = ajj;
+            for (int p = 0; p < j; p++) {
+                d -= a[rj + p] * a[rj + p];
+            }
+            double floor = minRelativePivot == 0 ? 0.0 : minRelativePivot * Math.max(1, Math.abs(ajj));
+            if (!(d > floor) || d == Double.POSITIVE_INFINITY) {
+                a[rj + j] = d;
+                return j;
+            }
+            d = Math.sqrt(d);
+            a[rj + j] = d;
+            double inv = 1.0 / d;
+            for (int i = j + 1; i < n; i++) {
+                int ri = i * s;
+                double v = a[ri + j];
+                for (int p = 0; p < j; p++) {
+                    v -= a[ri + p] * a[rj + p];
+                }
+                a[ri + j] = v * inv;
+            }
+        }
+        return -1;
+    }
+
+    /**
+     * Lower Cholesky factor of a large symmetric matrix by EJML's blocked algorithm (for n ≥
+     * {@link #LARGE}; any size is accepted). The matrix is overwritten.
+     *
+     * @return the factor (n × n, zero above the diagonal), or null if EJML reports a breakdown
+     */
+    public static double[] factorLarge(DMatrixRMaj a) {
+        CholeskyDecomposition_F64<DMatrixRMaj> chol = DecompositionFactory_DDRM.chol(a.numRows, true);
+        if (!chol.decompose(a)) {
+            return null;
+        }
+        return chol.getT(null).data;
+    }
+
+    /** Solves L Lᵀ x = b in place, b in x[off..off+n) (L lower in l, row stride s). */
+    public static void solve(double[] l, int n, int s, double[] x, int off) {
+        forward(l, n, s, x, off);
+        backward(l, n, s, x, off);
+    }
+
+    /** Forward substitution L x = b in place, b in x[off..off+n). */
+    public static void forward(double[] l, int n, int s, double[] x, int off) {
+        for (int i = 0; i < n; i++) {
+            double v = x[off + i];
+            int ri = i * s;
+            for (int p = 0; p < i; p++) {
+                v -= l[ri + p] * x[off + p];
+            }
+            x[off + i] = v / l[ri + i];
+        }
+    }
+
+    /** Back substitution Lᵀ x = b in place, b in x[off..off+n). */
+    public static void backward(double[] l, int n, int s, double[] x, int off) {
+        for (int i = n - 1; i >= 0; i--) {
+            double v = x[off + i];
+            for (int p = i + 1; p < n; p++) {
+                v -= l[p * s + i] * x[off + p];
+            }
+            x[off + i] = v / l[i * s + i];
+        }
+    }
+
+    /**
+     * Solves L Lᵀ X = B in place for B row-major n × w, one column at a time (L row stride n).
+     */
+    public static void solveColumns(double[] l, int n, double[] b, int w) {
+        for (int c = 0; c < w; c++) {
+            for (int i = 0; i < n; i++) {
+                double s = b[i * w + c];
+                for (int j = 0; j < i; j++) {
+                    s -= l[i * n + j] * b[j * w + c];
+                }
+                b[i * w + c] = s / l[i * n + i];
+            }
+            for (int i = n - 1; i >= 0; i--) {
+                double s = b[i * w + c];
+                for (int j = i + 1; j < n; j++) {
+                    s -= l[j * n + i] * b[j * w + c];
+                }
+                b[i * w + c] = s / l[i * n + i];
+            }
+        }
+    }
+
+    /**
+     * Forward substitution L X = B in place for B row-major n × w (rows of length w; L row stride
+     * n), row by row; zero entries of L are skipped.
+     */
+    public static void forwardRows(double[] l, int n, double[] b, int w) {
+        for (int r = 0; r < n; r++) {
+            int ro = r * w;
+            int lo = r * n;
+            for (int c = 0; c < r; c++) {
+                double f = l[lo + c];
+                if (f == 0) {
+                    continue;
+                }
+                int co = c * w;
+                for (int q = 0; q < w; q++) {
+                    b[ro + q] -= f * b[co + q];
+                }
+            }
+            double d = l[lo + r];
+            for (int q = 0; q < w; q++) {
+                b[ro + q] /= d;
+            }
+        }
+    }
+
+    /**
+     * L⁻¹ (n × n lower, row-major, zero above the diagonal) of a lower factor with row stride n,
+     * column by column.
+     *
+     * @param out n·n values, overwritten (must not alias l)
+     */
+    public static void invertLower(double[] l, int n, double[] out) {
+        Arrays.fill(out, 0, n * n, 0.0);
+        for (int c = 0; c < n; c++) {
+            for (int i = c; i < n; i++) {
+                double s = i == c ? 1.0 : 0.0;
+                int ri = i * n;
+                for (int p = c; p < i; p++) {
+                    s -= l[ri + p] * out[p * n + c];
+                }
+                out[ri + c] = s / l[ri + i];
+            }
+        }
+    }
+
+    /**
+     * Column col of L⁻¹ for a lower factor with row stride n: out[i] for i ≥ col (entries above
+     * are not written).
+     */
+    public static void invertLowerColumn(double[] l, int n, int col, double[] out) {
+        for (int i = col; i < n; i++) {
+            double s = i == col ? 1.0 : 0.0;
+            int ri = i * n;
+            for (int p = col; p < i; p++) {
+                s -= l[ri + p] * out[p];
+            }
+            out[i] = s / l[ri + i];
+        }
+    }
+
+    /**
+     * Inverse of an upper triangular matrix R whose entry (i, j), j ≥ i, is
+     * {@code r[i*rowStride + j*colStride]} (so a lower factor L read as Lᵀ has strides (1, n)),
+     * column by column by back substitution.
+     *
+     * @param out n·n values, row-major; the upper triangle and diagonal are written, the strict
+     *            lower triangle is left as it was (zero for a fresh array); must not alias r
+     */
+    public static void invertUpper(double[] r, int n, int rowStride, int colStride, double[] out) {
+        for (int c = 0; c < n; c++) {
+            for (int i = c; i >= 0; i--) {
+                double s = i == c ? 1.0 : 0.0;
+                for (int m = i + 1; m <= c; m++) {
+                    s -= r[i * rowStride + m * colStride] * out[m * n + c];
+                }
+                out[i * n + c] = s / r[i * rowStride + i * colStride];
+            }
+        }
+    }
+
+    /**
+     * out = Tᵀ c for T lower triangular (n × n, row-major), c in c[off..off+n); out (length ≥ n) is
+     * overwritten and must not alias c. The sum runs over the rows of T in order.
+     */
+    public static void transposeTimes(double[] t, int n, double[] c, int off, double[] out) {
+        Arrays.fill(out, 0, n, 0.0);
+        for (int i = 0; i < n; i++) {
+            double ci = c[off + i];
+            int base = i * n;
+            for (int j = 0; j <= i; j++) {
+                out[j] += t[base + j] * ci;
+            }
+        }
+    }
+}

@@ -1,0 +1,253 @@
+package io.densa.core.internal;
+
+import java.util.Arrays;
+
+/**
+ * Evaluation of the raw functions φ_1..φ_K of a basis (before centring and orthonormalisation):
+ * B-splines of order k on knots a = λ_0 &lt; … &lt; λ_{g+1} = b with k-fold boundary knots, the
+ * last one dropped (de Boor (1978), A Practical Guide to Splines, Springer, the triangular
+ * recurrence); Legendre polynomials P_1..P_d of the variable mapped affinely onto [−1, 1]
+ * (three-term recurrence, Abramowitz &amp; Stegun (1964), 22.7.10); indicators of the bins
+ * [e_j, e_{j+1}) of a step basis (the last bin closed), the last one dropped.
+ *
+ * <p>Internal: not exported outside the Densa modules; may change without notice. The arguments are
+ * validated by {@code io.densa.core.Basis}, which owns one instance; the factories here only copy.
+ * Immutable and thread-safe.
+ */
+public final class RawBasis {
+    private static final int SPLINE = 0;
+    private static final int POLYNOMIAL = 1;
+    private static final int STEP = 2;
+
+    private final int kind;
+    private final int order; // spline order, polynomial degree, or 0 for steps
+    private final double[] knots; // spline: a, interior..., b; step: edges; poly: a, b
+    private final double[] ext; // spline extended knot vector
+    private final int size; // K
+
+    private RawBasis(int kind, int order, double[] knots) {
+        this.kind = kind;
+        this.order = order;
+        this.knots = knots;
+        if (kind == SPLINE) {
+            int g = knots.length - 2;
+            ext = new double[g + 2 * order];
+            for (int i = 0; i < order; i++) {
+                ext[i] = knots[0];
+                ext[g + order + i] = knots[g + 1];
+            }
+            System.arraycopy(knots, 1, ext, order, g);
+            size = g + order - 1;
+        } else if (kind == POLYNOMIAL) {
+            ext = null;
+            size = order;
+        } else {
+            ext = null;
+            size = knots.length - 2;
+        }
+    }
+
+    /**
+     * B-splines of the given order on the breakpoints a, interior..., b (copied; strictly
+     * increasing, checked by the caller).
+     */
+    public static RawBasis spline(int order, double[] knots) {
+        return new RawBasis(SPLINE, order, knots.clone());
+    }
+
+    /** Legendre polynomials of degrees 1..degree on [a, b]. */
+    public static RawBasis polynomial(int degree, double a, double b) {
+        return new RawBasis(POLYNOMIAL, degree, new double[] {a, b});
+    }
+
+    /** Indicators of the bins between the given edges (copied; at least 3, strictly increasing). */
+    public static RawBasis step(double[] edges) {
+        return new RawBasis(STEP, 0, edges.clone());
+    }
+
+    /** True for B-splines. */
+    public boolean isSpline() {
+        return kind == SPLINE;
+    }
+
+    /** True for Legendre polynomials. */
+    public boolean isPolynomial() {
+        return kind == POLYNOMIAL;
+    }
+
+    /** True for step functions. */
+    public boolean isStep() {
+        return kind == STEP;
+    }
+
+    /** Spline order, polynomial degree, or 0 for steps. */
+    public int order() {
+        return order;
+    }
+
+    /** Number of raw functions K. */
+    public int size() {
+        return size;
+    }
+
+    /** Breakpoints (a, interior..., b; the edges; or {a, b}), a fresh copy. */
+    public double[] knots() {
+        return knots.clone();
+    }
+
+    /** The breakpoints themselves, not a copy, for hot loops: do not modify. */
+    public double[] knotsView() {
+        return knots;
+    }
+
+    /** Number of nonzero raw functions at a point (local support width). */
+    public int supportWidth() {
+        if (kind == SPLINE) {
+            return order;
+        }
+        return kind == STEP ? 1 : size;
+    }
+
+    /** Length of the scratch array {@link #evalLocal} and {@link #combine} need. */
+    public int scratchSize() {
+        return kind == SPLINE ? 3 * order : supportWidth();
+    }
+
+    /**
+     * Evaluates the raw functions that may be nonzero at x into vals[0..supportWidth) (vals of
+     * length ≥ {@link #scratchSize()}) and returns
+     * the raw index of vals[0]; indices ≥ size() are to be ignored (the dropped function).
+     */
+    public int evalLocal(double x, double[] vals) {
+        if (kind == SPLINE) {
+            return splineLocal(x, vals);
+        }
+        if (kind == STEP) {
+            int j = bin(x);
+            vals[0] = 1.0;
+            return j;
+        }
+        double a = knots[0], b = knots[1];
+        double t = (2 * x - a - b) / (b - a);
+        double p0 = 1, p1 = t;
+        vals[0] = t;
+        for (int j = 2; j <= order; j++) {
+            double p2 = ((2.0 * j - 1) * t * p1 - (j - 1.0) * p0) / j;
+            p0 = p1;
+            p1 = p2;
+            vals[j - 1] = p2;
+        }
+        return 0;
+    }
+
+    /** Dense raw values φ_1..φ_K at x. */
+    public void evalDense(double x, double[] out) {
+        Arrays.fill(out, 0, size, 0.0);
+        double[] vals = new double[scratchSize()];
+        int first = evalLocal(x, vals);
+        int w = supportWidth();
+        for (int i = 0; i < w; i++) {
+            int j = first + i;
+            if (j < size) {
+                out[j] = vals[i];
+            }
+        }
+    }
+
+    /** Σ_j φ_j(x) coef[j], using local support. */
+    public double combine(double x, double[] coef, double[] scratch) {
+        int first = evalLocal(x, scratch);
+        int w = supportWidth();
+        double s = 0;
+        for (int i = 0; i < w; i++) {
+            int j = first + i;
+            if (j < size) {
+                s += scratch[i] * coef[j];
+            }
+        }
+        return s;
+    }
+
+    public int bin(double x) {
+        int lo = 0, hi = knots.length - 2; // bins 0..D-1
+        if (x >= knots[hi]) {
+            return hi;
+        }
+        while (lo < hi) {
+            int mid = (lo + hi + 1) >>> 1;
+            if (knots[mid] <= x) {
+                lo = mid;
+            } else {
+                hi = mid - 1;
+            }
+        }
+        return lo;
+    }
+
+    private int splineLocal(double x, double[] n) {
+        int k = order;
+        int p = k - 1;
+        int m = size + 1; // number of B-splines
+        // span s with ext[s] <= x < ext[s+1], p <= s <= m-1
+        int s;
+        if (x >= ext[m]) {
+            s = m - 1;
+        } else if (x <= ext[p]) {
+            s = p;
+        } else {
+            int lo = p, hi = m - 1;
+            while (lo < hi) {
+                int mid = (lo + hi + 1) >>> 1;
+                if (ext[mid] <= x) {
+                    lo = mid;
+                } else {
+                    hi = mid - 1;
+                }
+            }
+            s = lo;
+        }
+        // n[0..k) values, n[k..2k) left differences, n[2k..3k) right differences
+        n[0] = 1.0;
+        for (int j = 1; j <= p; j++) {
+            n[k + j] = x - ext[s + 1 - j];
+            n[2 * k + j] = ext[s + j] - x;
+            double saved = 0.0;
+            for (int r = 0; r < j; r++) {
+                double temp = n[r] / (n[2 * k + r + 1] + n[k + j - r]);
+                n[r] = saved + n[2 * k + r + 1] * temp;
+                saved = n[k + j - r] * temp;
+            }
+            n[j] = saved;
+        }
+        return s - p;
+    }
+
+    @Override
+    public boolean equals(Object o) {
+        if (this == o) {
+            return true;
+        }
+        if (!(o instanceof RawBasis)) {
+            return false;
+        }
+        RawBasis other = (RawBasis) o;
+        return kind == other.kind && order == other.order && Arrays.equals(knots, other.knots);
+    }
+
+    @Override
+    public int hashCode() {
+        return 31 * (31 * kind + order) + Arrays.hashCode(knots);
+    }
+
+    /** The same text as the basis it was built from. */
+    @Override
+    public String toString() {
+        if (kind == SPLINE) {
+            return "splines(order " + order + ", " + (knots.length - 2) + " interior knots, K=" + size + ")";
+        }
+        if (kind == POLYNOMIAL) {
+            return "polynomials(degree " + order + ", K=" + size + ")";
+        }
+        return "steps(" + (knots.length - 1) + " bins, K=" + size + ")";
+    }
+}

@@ -1,0 +1,187 @@
+package io.densa.core.internal;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertNotNull;
+
+import java.util.Random;
+import org.ejml.data.DMatrixRMaj;
+import org.ejml.dense.row.CommonOps_DDRM;
+import org.ejml.dense.row.decomposition.chol.CholeskyDecompositionInner_DDRM;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.ValueSource;
+
+/**
+ * The Cholesky kernel against EJML (ejml-ddense 0.43.1): the factor equals EJML's inner-product
+ * Cholesky ({@code CholeskyDecompositionInner_DDRM}) bit for bit on exactly symmetric input, the
+ * solves and inverses agree with {@code CommonOps_DDRM.solve/invert} to 1e-10 relative (the test
+ * matrices have condition numbers below about 10⁴), and failures name the first failing column.
+ */
+class CholeskyTest {
+    /** A random symmetric positive definite n × n matrix (B Bᵀ + n I), exactly symmetric. */
+    private static double[] spd(int n, long seed) {
+        Random r = new Random(seed);
+        double[] b = new double[n * n];
+        for (int i = 0; i < b.length; i++) {
+            b[i] = r.nextGaussian();
+        }
+        double[] a = new double[n * n];
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j <= i; j++) {
+                double s = 0;
+                for (int q = 0; q < n; q++) {
+                    s += b[i * n + q] * b[j * n + q];
+                }
+                a[i * n + j] = s + (i == j ? n : 0);
+                a[j * n + i] = a[i * n + j];
+            }
+        }
+        return a;
+    }
+
+    private static double[] lowerOf(double[] a, int n) {
+        double[] l = a.clone();
+        for (int i = 0; i < n; i++) {
+            for (int j = i + 1; j < n; j++) {
+                l[i * n + j] = 0;
+            }
+        }
+        return l;
+    }
+
+    private static void close(double[] expected, double[] actual, double tol) {
+        assertEquals(expected.length, actual.length);
+        double scale = 0;
+        for (double e : expected) {
+            scale = Math.max(scale, Math.abs(e));
+        }
+        for (int i = 0; i < expected.length; i++) {
+            assertEquals(expected[i], actual[i], tol * Math.max(1, scale), "entry " + i);
+        }
+    }
+
+    @ParameterizedTest
+    @ValueSource(ints = {1, 2, 3, 7, 16, 41})
+    void factorEqualsEjmlInnerCholeskyBitForBit(int n) {
+        double[] a = spd(n, n);
+        DMatrixRMaj ej = DMatrixRMaj.wrap(n, n, a.clone());
+        CholeskyDecompositionInner_DDRM chol = new CholeskyDecompositionInner_DDRM(true);
+        assertEquals(true, chol.decompose(ej));
+        double[] expected = chol.getT(null).data;
+        double[] l = a.clone();
+        assertEquals(-1, Cholesky.factor(l, n, n, 0));
+        assertArrayEquals(expected, lowerOf(l, n));
+        double[] large = Cholesky.factorLarge(DMatrixRMaj.wrap(n, n, a.clone()));
+        assertNotNull(large);
+        close(expected, large, 1e-14);
+    }
+
+    @Test
+    void factorWorksOnAStridedBlockAndLeavesTheRestAlone() {
+        int n = 5, s = 7;
+        double[] a = spd(n, 3);
+        double[] big = new double[n * s];
+        java.util.Arrays.fill(big, 42.0);
+        for (int i = 0; i < n; i++) {
+            System.arraycopy(a, i * n, big, i * s, n);
+        }
+        assertEquals(-1, Cholesky.factor(big, n, s, 0));
+        double[] l = a.clone();
+        Cholesky.factor(l, n, n, 0);
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j < s; j++) {
+                double expected = j <= i ? l[i * n + j] : j < n ? a[i * n + j] : 42.0;
+                assertEquals(expected, big[i * s + j], 0.0, "(" + i + ", " + j + ")");
+            }
+        }
+    }
+
+    @Test
+    void failureNamesTheFirstBadColumnAndLeavesItsPivot() {
+        // [[4, 2, 0], [2, 1, 0], [0, 0, 1]]: the second pivot is 1 − 2²/4 = 0
+        double[] a = {4, 2, 0, 2, 1, 0, 0, 0, 1};
+        assertEquals(1, Cholesky.factor(a, 3, 3, 0));
+        assertEquals(0.0, a[4], 0.0);
+        double[] nan = {1, 0, 0, Double.NaN};
+        assertEquals(1, Cholesky.factor(nan, 2, 2, 0));
+        double[] inf = {Double.POSITIVE_INFINITY};
+        assertEquals(0, Cholesky.factor(inf, 1, 1, 0));
+        // a relative pivot floor: the pivot 1e-12 of [[1, 1], [1, 1 + 1e-12]] passes 0 but not 1e-10
+        double[] near = {1, 1, 1, 1 + 1e-12};
+        assertEquals(-1, Cholesky.factor(near.clone(), 2, 2, 0));
+        assertEquals(1, Cholesky.factor(near.clone(), 2, 2, 1e-10));
+    }
+
+    @ParameterizedTest
+    @ValueSource(ints = {1, 4, 13, 30})
+    void solvesAndInversesAgreeWithEjml(int n) {
+        double[] a = spd(n, 100 + n);
+        double[] l = a.clone();
+        Cholesky.factor(l, n, n, 0);
+        Random r = new Random(n);
+        int w = 3;
+        double[] b = new double[n * w];
+        for (int i = 0; i < b.length; i++) {
+            b[i] = r.nextGaussian();
+        }
+        DMatrixRMaj x = new DMatrixRMaj(n, w);
+        CommonOps_DDRM.solve(DMatrixRMaj.wrap(n, n, a.clone()), DMatrixRMaj.wrap(n, w, b.clone()), x);
+        double[] cols = b.clone();
+        Cholesky.solveColumns(l, n, cols, w);
+        close(x.data, cols, 1e-10);
+        double[] first = new double[n];
+        for (int i = 0; i < n; i++) {
+            first[i] = b[i * w];
+        }
+        double[] one = new double[n + 2];
+        System.arraycopy(first, 0, one, 2, n);
+        Cholesky.solve(l, n, n, one, 2);
+        for (int i = 0; i < n; i++) {
+            assertEquals(x.get(i, 0), one[2 + i], 1e-10 * Math.max(1, Math.abs(x.get(i, 0))));
+        }
+        // L⁻¹ and its columns, L X = B row by row, and (Lᵀ)⁻¹ read through strides
+        DMatrixRMaj lm = DMatrixRMaj.wrap(n, n, lowerOf(l, n));
+        DMatrixRMaj linvE = new DMatrixRMaj(n, n);
+        CommonOps_DDRM.invert(lm.copy(), linvE);
+        double[] linv = new double[n * n];
+        Cholesky.invertLower(l, n, linv);
+        close(linvE.data, linv, 1e-10);
+        double[] column = new double[n];
+        for (int c = 0; c < n; c++) {
+            Cholesky.invertLowerColumn(l, n, c, column);
+            for (int i = c; i < n; i++) {
+                assertEquals(linv[i * n + c], column[i], 0.0);
+            }
+        }
+        double[] rows = b.clone();
+        Cholesky.forwardRows(l, n, rows, w);
+        DMatrixRMaj fr = new DMatrixRMaj(n, w);
+        CommonOps_DDRM.mult(linvE, DMatrixRMaj.wrap(n, w, b), fr);
+        close(fr.data, rows, 1e-10);
+        double[] u = new double[n * n];
+        Cholesky.invertUpper(l, n, 1, n, u);
+        DMatrixRMaj ltInv = new DMatrixRMaj(n, n);
+        CommonOps_DDRM.transpose(linvE, ltInv);
+        close(ltInv.data, u, 1e-10);
+        double[] lt = new double[n * n];
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j < n; j++) {
+                lt[i * n + j] = lm.get(j, i);
+            }
+        }
+        double[] u2 = new double[n * n];
+        Cholesky.invertUpper(lt, n, n, 1, u2);
+        assertArrayEquals(u, u2);
+        // Tᵀc
+        double[] c = new double[n + 1];
+        for (int i = 0; i <= n; i++) {
+            c[i] = r.nextGaussian();
+        }
+        double[] out = new double[n];
+        Cholesky.transposeTimes(lm.data, n, c, 1, out);
+        DMatrixRMaj expected = new DMatrixRMaj(n, 1);
+        CommonOps_DDRM.multTransA(lm, DMatrixRMaj.wrap(n, 1, java.util.Arrays.copyOfRange(c, 1, n + 1)), expected);
+        close(expected.data, out, 1e-12);
+    }
+}

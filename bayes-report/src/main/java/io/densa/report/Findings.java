@@ -1,0 +1,172 @@
+package io.densa.report;
+
+import io.densa.core.estimate.BatchEstimate;
+import io.densa.core.estimate.EstimationDiagnostics;
+import io.densa.spatial.autocorrelation.AutocorrelationPermutation;
+import io.densa.spatial.autocorrelation.MoranI;
+import io.densa.spatial.variogram.VariogramFit;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Objects;
+import java.util.Optional;
+
+/**
+ * Sentences for reports generated from the numbers and tests that decide them, so that the words
+ * cannot contradict the figures: a finding is stated only when its test says so at the stated
+ * level, and the opposite sentence is written otherwise; fit warnings, extrapolated estimates and
+ * non-converged fits are always said.
+ *
+ * <p>Stateless and thread-safe.
+ */
+public final class Findings {
+    private Findings() {
+    }
+
+    /**
+     * Whether values cluster in space, decided by a one-sided test of positive autocorrelation at
+     * level {@code alpha}: "Subject cluster in space: test = 0.41, p = 0.001 ≤ 0.05." when p ≤ alpha,
+     * otherwise "Subject show no clustering in space at the 0.05 level: …, p = 0.31 &gt; 0.05."
+     *
+     * @param subject   what is tested, plural, e.g. "Departures from the baseline"
+     * @param testName  the statistic's name, e.g. "Moran's I of the log anomaly score"
+     * @param statistic its value
+     * @param pValue    the one-sided p-value for clustering, in [0, 1]
+     * @param alpha     the level, in (0, 1)
+     */
+    public static String clustering(String subject, String testName, double statistic, double pValue,
+            double alpha) {
+        Objects.requireNonNull(subject, "subject");
+        Objects.requireNonNull(testName, "testName");
+        checkLevel(alpha);
+        if (!(pValue >= 0 && pValue <= 1) || !Double.isFinite(statistic)) {
+            throw new IllegalArgumentException("clustering finding needs a p-value in [0, 1] and a finite statistic,"
+                    + " got p = " + pValue + ", statistic = " + statistic);
+        }
+        String numbers = testName + " = " + Numbers.significant(statistic, 3) + ", p = "
+                + Numbers.significant(pValue, 2);
+        String level = Numbers.significant(alpha, 3);
+        if (pValue <= alpha) {
+            return subject + " cluster in space: " + numbers + " ≤ " + level + ".";
+        }
+        return subject + " show no clustering in space at the " + level + " level: " + numbers + " > " + level
+                + ".";
+    }
+
+    /**
+     * {@link #clustering(String, String, double, double, double)} from Moran's I: the one-sided
+     * permutation p-value when permutations were run, otherwise the one-sided test under
+     * randomisation; the sentence names which.
+     */
+    public static String clustering(String subject, String valueName, MoranI.Result result, double alpha) {
+        Objects.requireNonNull(result, "result");
+        Optional<AutocorrelationPermutation> perm = result.permutation();
+        double p = perm.map(AutocorrelationPermutation::pGreater).orElse(result.randomisation().pGreater());
+        String how = perm.map(x -> " (one-sided, " + x.permutations() + " permutations)")
+                .orElse(" (one-sided, normal approximation under randomisation)");
+        return clustering(subject, "Moran's I of the " + valueName + how, result.statistic(), p, alpha);
+    }
+
+    /** Whether a one-sided Moran test is significant at alpha (the rule {@link #clustering} applies). */
+    public static boolean clusters(MoranI.Result result, double alpha) {
+        checkLevel(alpha);
+        return result.permutation().map(AutocorrelationPermutation::pGreater)
+                .orElse(result.randomisation().pGreater()) <= alpha;
+    }
+
+    private static void checkLevel(double alpha) {
+        if (!(alpha > 0 && alpha < 1)) {
+            throw new IllegalArgumentException("level must be in (0, 1), got " + alpha);
+        }
+    }
+
+    /**
+     * What a reader of a variogram fit must know: one sentence per warning (range beyond the
+     * largest lag, a parameter at a bound, no convergence, optimiser fallback) with what it means,
+     * or one sentence saying that none was raised.
+     *
+     * @param label      which fit, e.g. "Raw densities"
+     * @param fit        the fit
+     * @param lengthUnit unit of the lags, e.g. "km"
+     */
+    public static List<String> variogramFit(String label, VariogramFit fit, String lengthUnit) {
+        Objects.requireNonNull(label, "label");
+        Objects.requireNonNull(fit, "fit");
+        List<String> out = new ArrayList<>();
+        if (fit.warnings().isEmpty()) {
+            out.add(label + ": the fit converged, its practical range lies within the largest lag ("
+                    + Numbers.significant(fit.largestLag(), 3) + " " + lengthUnit + ") and no parameter ended on a "
+                    + "bound.");
+            return out;
+        }
+        for (VariogramFit.Warning w : fit.warnings()) {
+            String meaning = switch (w.kind()) {
+                case RANGE_BEYOND_LAGS -> " The range and the sill are therefore poorly determined; predictions "
+                        + "between nearby sites rest mostly on the short-lag part of the model, which the data do "
+                        + "constrain.";
+                case PARAMETER_AT_BOUND -> " A value on a bound is a limit of the search, not an estimate.";
+                case NOT_CONVERGED -> " The fitted model is approximate.";
+                case OPTIMISER_FALLBACK -> "";
+            };
+            out.add(label + " (lags in " + lengthUnit + "): " + w.message() + "." + meaning);
+        }
+        return out;
+    }
+
+    /**
+     * The units whose estimate is carried by extrapolation
+     * ({@link EstimationDiagnostics#extrapolated()}), naming at most {@code listed} of them, or a
+     * sentence saying there are none.
+     *
+     * @param ids   ids of the extrapolated units (e.g. {@link BatchEstimate#extrapolatedIds()})
+     * @param units number of estimates
+     */
+    public static String extrapolated(List<String> ids, int units, int listed) {
+        Objects.requireNonNull(ids, "ids");
+        String what = " (more than " + Math.round(100 * EstimationDiagnostics.EXTRAPOLATION_THRESHOLD)
+                + " % of the squared B2 norm lies beyond the unit's data, below the level at which that region is"
+                + " already expected to be empty: that part is set by the estimator, not by the data)";
+        if (ids.isEmpty()) {
+            return "No estimate is carried by extrapolation" + what + ".";
+        }
+        return ids.size() + " of " + units + " estimates " + (ids.size() == 1 ? "is" : "are")
+                + " carried by extrapolation" + what + ": " + list(ids, listed) + ". Their distances to the others say"
+                + " more about how the estimator fills empty regions than about their data.";
+    }
+
+    /** {@link #extrapolated(List, int, int)} for a batch. */
+    public static String extrapolated(BatchEstimate estimate, int listed) {
+        return extrapolated(estimate.extrapolatedIds(), estimate.size(), listed);
+    }
+
+    /**
+     * Whether every density fit converged, naming at most {@code listed} of those that did not,
+     * with the estimator's reason.
+     */
+    public static String convergence(List<EstimationDiagnostics> diagnostics, int listed) {
+        Objects.requireNonNull(diagnostics, "diagnostics");
+        List<String> bad = new ArrayList<>();
+        int empty = 0;
+        for (EstimationDiagnostics d : diagnostics) {
+            if (d.status() == EstimationDiagnostics.Status.NOT_CONVERGED) {
+                bad.add(d.id() + " (" + d.reason() + ")");
+            } else if (d.status() == EstimationDiagnostics.Status.EMPTY_UNIT_REFERENCE) {
+                empty++;
+            }
+        }
+        String emptyText = empty == 0 ? "" : " " + empty + " unit" + (empty == 1 ? " had" : "s had")
+                + " no events and " + (empty == 1 ? "was" : "were") + " given the reference density.";
+        if (bad.isEmpty()) {
+            return "All " + (diagnostics.size() - empty) + " density fits with data converged." + emptyText;
+        }
+        return bad.size() + " of " + diagnostics.size() + " density fits did not converge and are kept as the "
+                + "estimator left them: " + list(bad, listed) + "." + emptyText;
+    }
+
+    private static String list(List<String> items, int listed) {
+        if (listed < 1) {
+            throw new IllegalArgumentException("listed must be at least 1, got " + listed);
+        }
+        return String.join(", ", items.subList(0, Math.min(listed, items.size())))
+                + (items.size() > listed ? " and " + (items.size() - listed) + " more" : "");
+    }
+}

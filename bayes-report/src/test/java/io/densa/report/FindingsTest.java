@@ -1,0 +1,84 @@
+package io.densa.report;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import io.densa.core.estimate.EstimationDiagnostics;
+import io.densa.core.estimate.SmoothingCriterion;
+import io.densa.spatial.variogram.VariogramFit;
+import io.densa.spatial.variogram.VariogramFitOptions;
+import io.densa.spatial.variogram.VariogramModel;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+
+/** Sentences that follow the numbers: the test decides which sentence is written. */
+class FindingsTest {
+    @Test
+    void clusteringIsClaimedOnlyWhenTheTestIsSignificant() {
+        String yes = Findings.clustering("Departures", "Moran's I", 0.41, 0.001, 0.05);
+        assertTrue(yes.startsWith("Departures cluster in space:"), yes);
+        assertTrue(yes.contains("p = 0.001 ≤ 0.05"), yes);
+        String no = Findings.clustering("Departures", "Moran's I", 0.02, 0.31, 0.05);
+        assertTrue(no.startsWith("Departures show no clustering in space at the 0.05 level"), no);
+        assertFalse(no.contains("cluster in space:"), no);
+        // the level itself counts as significant (p ≤ alpha), just above it does not
+        assertTrue(Findings.clustering("D", "I", 0.1, 0.05, 0.05).contains("cluster in space:"));
+        assertTrue(Findings.clustering("D", "I", 0.1, 0.0501, 0.05).contains("no clustering"));
+        assertThrows(IllegalArgumentException.class, () -> Findings.clustering("D", "I", 0.1, Double.NaN, 0.05));
+        assertThrows(IllegalArgumentException.class, () -> Findings.clustering("D", "I", 0.1, 0.01, 1.5));
+    }
+
+    @Test
+    void moranSentenceUsesThePermutationTestWhenThereIsOne() {
+        Fixtures f = new Fixtures(5);
+        String s = Findings.clustering("Values", "value", f.moran, 0.05);
+        double p = f.moran.permutation().orElseThrow().pGreater();
+        assertTrue(s.contains("199 permutations"), s);
+        assertEquals(p <= 0.05, s.contains("cluster in space:"), s);
+        assertEquals(p <= 0.05, Findings.clusters(f.moran, 0.05));
+    }
+
+    static VariogramFit fit(List<VariogramFit.Warning> warnings) {
+        return new VariogramFit(VariogramModel.exponential(1, 40), VariogramFitOptions.Method.WEIGHTED_CRESSIE, 0.1, 0.1,
+                new double[] {0.5, 0.8}, 2, 100, true, false, 20, warnings);
+    }
+
+    @Test
+    void variogramWarningsAreSaidAndTheirAbsenceToo() {
+        List<String> none = Findings.variogramFit("Raw densities", fit(List.of()), "km");
+        assertEquals(1, none.size());
+        assertTrue(none.get(0).contains("no parameter ended on a bound"), none.get(0));
+        assertTrue(none.get(0).contains("20 km"), none.get(0));
+        List<String> two = Findings.variogramFit("Residuals", fit(List.of(
+                new VariogramFit.Warning(VariogramFit.WarningKind.RANGE_BEYOND_LAGS, "the fitted practical range 40"
+                        + " is 2.00 times the largest lag 20"),
+                new VariogramFit.Warning(VariogramFit.WarningKind.PARAMETER_AT_BOUND, "the range 40 ended on its upper"
+                        + " bound 40"))), "km");
+        assertEquals(2, two.size());
+        assertTrue(two.get(0).contains("2.00 times the largest lag") && two.get(0).contains("poorly determined"));
+        assertTrue(two.get(1).contains("upper bound") && two.get(1).contains("not an estimate"));
+    }
+
+    static EstimationDiagnostics diag(String id, EstimationDiagnostics.Status status, double extrapolation) {
+        return new EstimationDiagnostics(id, status, status == EstimationDiagnostics.Status.NOT_CONVERGED
+                ? "iteration budget spent" : "", 1, true, SmoothingCriterion.values()[0], 1, 3, -10, 100, 5,
+                new double[] {1}, 1, extrapolation);
+    }
+
+    @Test
+    void extrapolatedAndNonConvergedFitsAreNamed() {
+        assertTrue(Findings.extrapolated(List.of(), 10, 5).startsWith("No estimate is carried by extrapolation"));
+        String two = Findings.extrapolated(List.of("A", "B", "C"), 10, 2);
+        assertTrue(two.startsWith("3 of 10 estimates are carried by extrapolation"), two);
+        assertTrue(two.contains("A, B and 1 more"), two);
+        List<EstimationDiagnostics> d = List.of(diag("A", EstimationDiagnostics.Status.CONVERGED, 0),
+                diag("B", EstimationDiagnostics.Status.NOT_CONVERGED, 0),
+                diag("C", EstimationDiagnostics.Status.EMPTY_UNIT_REFERENCE, 1));
+        String c = Findings.convergence(d, 5);
+        assertTrue(c.startsWith("1 of 3 density fits did not converge"), c);
+        assertTrue(c.contains("B (iteration budget spent)") && c.contains("1 unit had no events"), c);
+        assertTrue(Findings.convergence(d.subList(0, 1), 5).startsWith("All 1 density fits with data converged"));
+    }
+}

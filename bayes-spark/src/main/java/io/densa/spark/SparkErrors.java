@@ -1,0 +1,85 @@
+package io.densa.spark;
+
+import io.densa.core.DensaException;
+import java.util.function.Supplier;
+
+/**
+ * Turns a failed Spark job back into the exception Densa threw inside the task: Spark wraps a task's
+ * exception in a {@code SparkException} ("Job aborted due to stage failure: … Lost task …") whose
+ * message buries the cause under a stack trace. {@link #unwrap} finds the first
+ * {@link IllegalArgumentException}, {@link IllegalStateException} or {@link DensaException} in the
+ * cause chain and rethrows one of the same kind with the same message (the Spark exception as its
+ * cause); when the cause did not survive the trip from the executor, the message line Spark
+ * recorded for it is used. Every action this module runs goes through {@link #run}.
+ */
+public final class SparkErrors {
+    private static final String[] KINDS = {"java.lang.IllegalArgumentException: ", "java.lang.IllegalStateException: ",
+        DensaException.class.getName() + ": "};
+
+    private SparkErrors() {
+    }
+
+    /** Runs the action, rethrowing a Densa exception from a failed job as described above. */
+    public static <T> T run(Supplier<T> action) {
+        try {
+            return action.get();
+        } catch (Exception e) { // Spark's SparkException is checked but thrown undeclared from Scala code
+            throw SparkErrors.<RuntimeException>sneaky(unwrap(e));
+        }
+    }
+
+    @SuppressWarnings("unchecked")
+    private static <E extends Throwable> E sneaky(Throwable t) throws E {
+        throw (E) t;
+    }
+
+    /**
+     * The Densa exception carried by a failed job, or the exception itself when it carries none.
+     *
+     * @param e an exception thrown by a Spark action ({@code SparkException} is a checked exception that
+     *          Spark's Scala code throws undeclared)
+     * @return the exception to throw: a Densa exception, or e itself
+     */
+    public static Exception unwrap(Exception e) {
+        for (Throwable t = e; t != null; t = t.getCause()) {
+            if (t instanceof DensaException) {
+                if (t == e) {
+                    return e;
+                }
+                DensaException d = new DensaException(t.getMessage(), ((DensaException) t).diagnostics());
+                d.initCause(e);
+                return d;
+            }
+            if (t instanceof IllegalArgumentException) {
+                return t == e ? e : new IllegalArgumentException(t.getMessage(), e);
+            }
+            if (t instanceof IllegalStateException) {
+                return t == e ? e : new IllegalStateException(t.getMessage(), e);
+            }
+            if (t.getCause() == t) {
+                break;
+            }
+        }
+        String m = e.getMessage();
+        if (m != null) {
+            for (int i = 0; i < KINDS.length; i++) {
+                int at = m.indexOf(KINDS[i]);
+                if (at >= 0) {
+                    int from = at + KINDS[i].length();
+                    int end = m.indexOf('\n', from);
+                    String text = (end < 0 ? m.substring(from) : m.substring(from, end)).trim();
+                    if (i == 0) {
+                        return new IllegalArgumentException(text, e);
+                    }
+                    if (i == 1) {
+                        return new IllegalStateException(text, e);
+                    }
+                    DensaException d = new DensaException(text, null);
+                    d.initCause(e);
+                    return d;
+                }
+            }
+        }
+        return e;
+    }
+}

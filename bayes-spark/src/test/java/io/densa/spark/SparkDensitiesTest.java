@@ -1,0 +1,167 @@
+package io.densa.spark;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import io.densa.core.estimate.BatchEstimate;
+import io.densa.core.BayesSpace;
+import io.densa.core.estimate.EstimationDiagnostics;
+import io.densa.io.Bins;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.SplittableRandom;
+import java.util.TreeMap;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.RowFactory;
+import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.types.DataTypes;
+import org.apache.spark.sql.types.StructType;
+import org.junit.jupiter.api.Test;
+
+/**
+ * Density estimation in Spark against the single-machine estimator: every unit's coordinates and
+ * diagnostics bit for bit (a unit's fit depends only on its own counts), for several partitionings,
+ * for events and for counts, with a skewed unit; bad input fails with Densa's message.
+ */
+class SparkDensitiesTest {
+    static final BayesSpace SPACE = BayesSpace.splines(0, 10, 4, 5);
+    static final double[] EDGES = Bins.uniform(0, 10, 20).edges();
+
+    /** Invented events: 30 units with 20–200 events each from normals truncated to [0, 10], one unit with 20,000. */
+    static List<Row> events(long seed) {
+        SplittableRandom rnd = new SplittableRandom(seed);
+        List<Row> rows = new ArrayList<>();
+        for (int u = 0; u < 31; u++) {
+            int n = u == 30 ? 20_000 : 20 + rnd.nextInt(181);
+            double mu = 2 + 6 * rnd.nextDouble();
+            double sd = 0.8 + 1.5 * rnd.nextDouble();
+            for (int i = 0; i < n; i++) {
+                double v;
+                do {
+                    v = mu + sd * gaussian(rnd);
+                } while (!(v >= 0 && v <= 10));
+                rows.add(RowFactory.create("u" + u, v, u % 3 == 0 ? "2025" : "2026"));
+            }
+        }
+        return rows;
+    }
+
+    static double gaussian(SplittableRandom rnd) {
+        return Math.sqrt(-2 * Math.log(1 - rnd.nextDouble())) * Math.cos(2 * Math.PI * rnd.nextDouble());
+    }
+
+    static final StructType EVENTS = new StructType().add("unit", DataTypes.StringType, true)
+            .add("value", DataTypes.DoubleType, true).add("period", DataTypes.StringType, true);
+
+    static Dataset<Row> frame(List<Row> rows, StructType schema, int partitions) {
+        return SparkTestSession.get().createDataFrame(rows, schema).repartition(partitions);
+    }
+
+    /** The single-machine counts of the same events: unit → D counts. */
+    static TreeMap<String, double[]> counts(List<Row> rows) {
+        Bins bins = Bins.of(EDGES);
+        TreeMap<String, double[]> m = new TreeMap<>();
+        for (Row r : rows) {
+            m.computeIfAbsent(r.getString(0), k -> new double[bins.count()])[bins.indexOf(r.getDouble(1))] += 1;
+        }
+        return m;
+    }
+
+    @Test
+    void eventsGiveTheSingleMachineFitsBitForBit() {
+        List<Row> rows = events(11);
+        EstimatorSpec spec = EstimatorSpec.of(SpaceSpec.of(SPACE), EDGES);
+        TreeMap<String, double[]> counts = counts(rows);
+        String[] ids = counts.keySet().toArray(new String[0]);
+        BatchEstimate local = spec.estimator().fitAll(EDGES, counts.values().toArray(new double[0][]), ids);
+
+        SparkDensities sd = SparkDensities.of(spec).withBatchSize(7);
+        List<Row> five = sd.fromEvents(frame(rows, EVENTS, 5)).orderBy("unit").collectAsList();
+        List<Row> one = SparkDensities.of(spec).fromEvents(frame(rows, EVENTS, 1)).orderBy("unit").collectAsList();
+        assertEquals(ids.length, five.size());
+        for (int i = 0; i < ids.length; i++) {
+            Row r = five.get(i);
+            assertEquals(ids[i], r.getString(0));
+            EstimationDiagnostics g = local.diagnostics().get(i);
+            assertArrayEquals(local.densities().get(i).coordinates(), SparkRows.doubles(r, 1), 0.0, ids[i]);
+            assertEquals(g.status().name(), r.getString(2));
+            assertEquals(g.smoothing(), r.getDouble(4), 0.0);
+            assertEquals(g.effectiveDegreesOfFreedom(), r.getDouble(6), 0.0);
+            assertEquals(g.total(), r.getDouble(8), 0.0);
+            assertEquals(g.iterations(), r.getInt(9));
+            assertEquals(g.estimationVariance(), r.getDouble(10), 0.0);
+            assertEquals(g.extrapolationShare(), r.getDouble(11), 0.0);
+            assertEquals(r, one.get(i), "5 partitions against 1");
+        }
+        // the skewed unit: 20,000 events aggregated to 20 counts before its fit
+        assertEquals(20_000.0, five.get(java.util.Arrays.asList(ids).indexOf("u30")).getDouble(8), 0.0);
+    }
+
+    @Test
+    void periodsGiveOneDensityPerUnitAndPeriod() {
+        List<Row> rows = events(12);
+        EstimatorSpec spec = EstimatorSpec.of(SpaceSpec.of(SPACE), EDGES);
+        List<Row> out = SparkDensities.of(spec).withPeriodColumn("period").fromEvents(frame(rows, EVENTS, 3))
+                .orderBy("unit").collectAsList();
+        assertEquals(31, out.size());
+        for (Row r : out) {
+            int u = Integer.parseInt(r.getString(0).substring(1));
+            assertEquals(u % 3 == 0 ? "2025" : "2026", r.getString(1));
+        }
+    }
+
+    static final StructType COUNTS = new StructType().add("unit", DataTypes.StringType, true)
+            .add("bin", DataTypes.IntegerType, true).add("count", DataTypes.LongType, true);
+
+    @Test
+    void countsGiveTheSingleMachineFitsBitForBit() {
+        TreeMap<String, double[]> counts = counts(events(13));
+        List<Row> rows = new ArrayList<>();
+        for (var e : counts.entrySet()) {
+            for (int j = 0; j < e.getValue().length; j++) {
+                long c = (long) e.getValue()[j];
+                if (c > 0) {
+                    // split each count over two rows: the aggregation adds them back
+                    rows.add(RowFactory.create(e.getKey(), j, c / 2));
+                    rows.add(RowFactory.create(e.getKey(), j, c - c / 2));
+                }
+            }
+        }
+        EstimatorSpec spec = EstimatorSpec.of(SpaceSpec.of(SPACE), EDGES).withSmoothing(0.5);
+        String[] ids = counts.keySet().toArray(new String[0]);
+        BatchEstimate local = spec.estimator().fitAll(EDGES, counts.values().toArray(new double[0][]), ids);
+        List<Row> out = SparkDensities.of(spec).fromCounts(frame(rows, COUNTS, 4)).orderBy("unit").collectAsList();
+        for (int i = 0; i < ids.length; i++) {
+            assertArrayEquals(local.densities().get(i).coordinates(), SparkRows.doubles(out.get(i), 1), 0.0, ids[i]);
+        }
+    }
+
+    @Test
+    void badInputFailsWithDensasMessageNamingTheUnit() {
+        EstimatorSpec spec = EstimatorSpec.of(SpaceSpec.of(SPACE), EDGES);
+        SparkSession s = SparkTestSession.get();
+        IllegalArgumentException nullUnit = assertThrows(IllegalArgumentException.class, () -> SparkDensities.of(spec)
+                .fromEvents(s.createDataFrame(List.of(RowFactory.create("a", 1.0, null),
+                        RowFactory.create(null, 2.5, null)), EVENTS)));
+        assertTrue(nullUnit.getMessage().startsWith("an event has a null unit id (value 2.5)"), nullUnit.getMessage());
+
+        IllegalArgumentException outside = assertThrows(IllegalArgumentException.class, () -> SparkDensities.of(spec)
+                .fromEvents(s.createDataFrame(List.of(RowFactory.create("a", 1.0, null),
+                        RowFactory.create("b7", 10.5, null)), EVENTS)));
+        assertTrue(outside.getMessage().startsWith("unit 'b7': value 10.5 lies outside the bin layout [0.0, 10.0]"),
+                outside.getMessage());
+
+        IllegalArgumentException negative = assertThrows(IllegalArgumentException.class, () -> SparkDensities.of(spec)
+                .fromCounts(s.createDataFrame(List.of(RowFactory.create("a", 1, 3L),
+                        RowFactory.create("c3", 4, -2L)), COUNTS)));
+        assertTrue(negative.getMessage().startsWith("unit 'c3', bin 4: count -2.0 is negative"), negative.getMessage());
+
+        IllegalArgumentException bin = assertThrows(IllegalArgumentException.class, () -> SparkDensities.of(spec)
+                .fromCounts(s.createDataFrame(List.of(RowFactory.create("d9", 20, 1L)), COUNTS)));
+        assertTrue(bin.getMessage().startsWith("unit 'd9': bin 20 lies outside the layout; its 20 bins are numbered"
+                + " 0..19"), bin.getMessage());
+    }
+}

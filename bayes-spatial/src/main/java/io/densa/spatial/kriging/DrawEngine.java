@@ -1,0 +1,442 @@
+package io.densa.spatial.kriging;
+
+import io.densa.core.BayesSpace;
+import io.densa.core.DensaException;
+import io.densa.core.Density;
+import io.densa.core.internal.Seeds;
+import java.util.SplittableRandom;
+import java.util.function.DoubleUnaryOperator;
+
+/**
+ * Monte Carlo draws of one location's predictive law and their summaries (package-private engine
+ * of {@link PredictiveDistribution}).
+ *
+ * <p>Draw d of a location with kriged coordinates ĉ, kriging variance σ² and stream s has
+ * coordinates ĉ + σ F z_d, with F the K × r factor of the coordinate covariance shape (F Fᵀ = Σ/tr Σ)
+ * and z_d the next r standard normals of the generator {@code Seeds.stream(seed, s)}
+ * ({@link SplittableRandom#nextGaussian()}, draws in order, components in order), so the draws do
+ * not depend on threads or tiling. One extra column, z = 0, gives the plug-in value at ĉ.
+ *
+ * <p>The node rule works on all draws of a location at once in a node-major layout (node i, draw
+ * d at i·C + d, C = draws + 1), so that the inner loops are unit-stride over the draws.
+ */
+final class DrawEngine {
+    /** A draw whose estimated rule error exceeds this share of its mass is evaluated exactly. */
+    static final double RULE_TOLERANCE = 1e-4;
+
+    final BayesSpace space;
+    final NodeRule rule;
+    final int k;
+    final int r;
+    /** K × r, row-major. */
+    final double[] factor;
+    /** r × m: column-space perturbation per unit normal, bt[l m + i] = (E F)_{il}. */
+    private final double[] bt;
+    final int draws;
+    final int cols;
+    final double[] probs;
+    final double[] thresholds;
+    final boolean mean;
+    final int quantities;
+    private final DoubleUnaryOperator units;
+    private final double[] meanWeights;
+    private final boolean exactOnly;
+    private final long seed;
+
+    DrawEngine(BayesSpace space, double[] factor, int r, UncertaintyOptions opt) {
+        this.space = space;
+        this.k = space.dimension();
+        this.r = r;
+        this.factor = factor;
+        this.draws = opt.draws();
+        this.cols = draws + 1;
+        this.probs = opt.probabilitiesInternal();
+        this.thresholds = opt.thresholdsInternal();
+        this.mean = opt.mean();
+        this.quantities = probs.length + thresholds.length + (mean ? 1 : 0);
+        if (quantities == 0) {
+            throw new IllegalArgumentException("no quantity to summarise: add quantiles, exceedances or the mean to"
+                    + " the uncertainty options");
+        }
+        this.units = opt.dataUnits();
+        this.seed = opt.seed();
+        this.exactOnly = opt.evaluation() == UncertaintyOptions.Evaluation.EXACT;
+        this.rule = new NodeRule(space, thresholds);
+        int m = rule.m;
+        bt = new double[r * m];
+        for (int i = 0; i < m; i++) {
+            for (int l = 0; l < r; l++) {
+                double s = 0;
+                for (int j = 0; j < k; j++) {
+                    s += rule.e[i * k + j] * factor[j * r + l];
+                }
+                bt[l * m + i] = s;
+            }
+        }
+        double[] u = units == null ? rule.x.clone() : rule.unitsAtNodes(units);
+        meanWeights = new double[m];
+        for (int i = 0; i < m; i++) {
+            meanWeights[i] = rule.w[i] * u[i];
+        }
+    }
+
+    /** Per-thread working storage. */
+    final class Scratch {
+        final double[] base = new double[rule.m];
+        final double[] z = new double[r * cols];
+        final double[] y = new double[rule.m * cols];
+        final double[] g = new double[rule.m * cols];
+        final double[] shift = new double[cols];
+        final double[] mass = new double[rule.panels * cols];
+        final double[] total = new double[cols];
+        final double[] err = new double[cols];
+        final double[] panelError = new double[rule.panels * cols];
+        final double[] lag = new double[rule.q];
+        final double[] beta = new double[Math.max(1, rule.q - 1) * cols];
+        final double[] series = new double[(2 * rule.q + 1) * cols];
+        final double[] hi = new double[cols];
+        final double[] panelTop = new double[rule.panels * cols];
+        final double[] shiftTmp = new double[cols];
+        final double[] errTmp = new double[cols];
+        final double[] coords = new double[k];
+        /** values[quantity][column]: quantiles, then exceedances, then the mean. */
+        final double[][] values = new double[quantities][cols];
+        final double[] sel = new double[draws];
+        int exact;
+    }
+
+    Scratch scratch() {
+        return new Scratch();
+    }
+
+    /**
+     * Draws and evaluates one location: c[off..off+K) the kriged coordinates, variance σ², stream
+     * s. Values go to s.values; s.exact counts the draws evaluated exactly.
+     *
+     * @throws DensaException if a draw cannot be evaluated (coordinates beyond what double precision resolves)
+     */
+    void evaluate(double[] c, int off, double variance, long stream, Scratch s) {
+        double sigma = Math.sqrt(Math.max(0, variance));
+        SplittableRandom rng = Seeds.stream(seed, stream);
+        double[] z = s.z;
+        for (int d = 0; d < draws; d++) {
+            for (int l = 0; l < r; l++) {
+                z[l * cols + d] = sigma * rng.nextGaussian();
+            }
+        }
+        for (int l = 0; l < r; l++) {
+            z[l * cols + draws] = 0;
+        }
+        s.exact = 0;
+        if (exactOnly) {
+            for (int d = 0; d < cols; d++) {
+                exactDraw(c, off, d, s);
+            }
+            return;
+        }
+        nodeDraws(c, off, s);
+    }
+
+    private void nodeDraws(double[] c, int off, Scratch s) {
+        NodeRule nr = rule;
+        int m = nr.m, q = nr.q, np = nr.panels, nc = cols;
+        double[] y = s.y, g = s.g, z = s.z, mx = s.shift, mass = s.mass, tot = s.total, err = s.err, rp = s.panelError;
+        nr.nodeValues(c, off, s.base);
+        for (int i = 0; i < m; i++) {
+            int o = i * nc;
+            double bi = s.base[i];
+            for (int d = 0; d < nc; d++) {
+                y[o + d] = bi;
+            }
+            for (int l = 0; l < r; l++) {
+                double b = bt[l * m + i];
+                int zo = l * nc;
+                for (int d = 0; d < nc; d++) {
+                    y[o + d] += b * z[zo + d];
+                }
+            }
+        }
+        System.arraycopy(y, 0, mx, 0, nc);
+        for (int i = 1; i < m; i++) {
+            int o = i * nc;
+            for (int d = 0; d < nc; d++) {
+                mx[d] = Math.max(mx[d], y[o + d]);
+            }
+        }
+        if (q == 4) {
+            panelsOfFour(y, mx, g, mass, rp, s);
+        } else {
+            // per-panel error estimate h C e_{2q}(|β|) exp(c_max − shift) (see NodeRule), vectorised over draws
+            java.util.Arrays.fill(rp, 0);
+            if (nr.ruleConstant > 0) {
+                panelErrors(y, mx, rp, s);
+            }
+            for (int i = 0; i < m; i++) {
+                int o = i * nc;
+                for (int d = 0; d < nc; d++) {
+                    g[o + d] = NodeRule.exp(y[o + d] - mx[d]);
+                }
+            }
+            java.util.Arrays.fill(mass, 0);
+            for (int i = 0; i < m; i++) {
+                int o = i * nc, mo = (i / q) * nc;
+                double wi = nr.w[i];
+                for (int d = 0; d < nc; d++) {
+                    mass[mo + d] += wi * g[o + d];
+                }
+            }
+        }
+        java.util.Arrays.fill(tot, 0);
+        java.util.Arrays.fill(err, 0);
+        for (int j = 0; j < np; j++) {
+            int mo = j * nc;
+            for (int d = 0; d < nc; d++) {
+                tot[d] += mass[mo + d];
+                err[d] += rp[mo + d];
+            }
+        }
+        int qi = 0;
+        for (int p = 0; p < probs.length; p++, qi++) {
+            double[] v = s.values[qi];
+            for (int d = 0; d < nc; d++) {
+                double xq = nr.quantile(probs[p], mass, d, nc, tot[d], g, y, d, mx[d], s.lag);
+                v[d] = units == null ? xq : units.applyAsDouble(xq);
+            }
+        }
+        for (int t = 0; t < thresholds.length; t++, qi++) {
+            double[] v = s.values[qi];
+            java.util.Arrays.fill(v, 0);
+            for (int j = nr.tailPanel[t]; j < np; j++) {
+                int mo = j * nc;
+                for (int d = 0; d < nc; d++) {
+                    v[d] += mass[mo + d];
+                }
+            }
+            for (int d = 0; d < nc; d++) {
+                v[d] = Math.min(1, v[d] / tot[d]);
+            }
+        }
+        if (mean) {
+            double[] v = s.values[qi];
+            java.util.Arrays.fill(v, 0);
+            for (int i = 0; i < m; i++) {
+                int o = i * nc;
+                double wi = meanWeights[i];
+                for (int d = 0; d < nc; d++) {
+                    v[d] += wi * g[o + d];
+                }
+            }
+            for (int d = 0; d < nc; d++) {
+                v[d] /= tot[d];
+            }
+        }
+        for (int d = 0; d < nc; d++) {
+            if (!(err[d] <= RULE_TOLERANCE * tot[d])) {
+                exactDraw(c, off, d, s);
+            }
+        }
+    }
+
+    /**
+     * The panel pass for 4-point panels: node exponentials into g, panel masses, and the error
+     * estimate of {@link #panelErrors} with e_8 in closed form; each loop is short and unit-stride
+     * over the draws so that the JIT vectorises it.
+     */
+    private void panelsOfFour(double[] y, double[] mx, double[] g, double[] mass, double[] rp, Scratch s) {
+        NodeRule nr = rule;
+        int np = nr.panels, nc = cols, m = nr.m;
+        // (the JIT vectorises exp over one flat array, not with the per-draw shift indexed apart)
+        for (int i = 0; i < m; i++) {
+            int o = i * nc;
+            for (int d = 0; d < nc; d++) {
+                g[o + d] = y[o + d] - mx[d];
+            }
+        }
+        int all = m * nc;
+        for (int k = 0; k < all; k++) {
+            g[k] = NodeRule.exp(g[k]);
+        }
+        double[] tw = nr.taylor;
+        double[] cw = nr.centreWeights;
+        double m0 = cw[0], m1 = cw[1], m2 = cw[2], m3 = cw[3];
+        double a0 = tw[0], a1 = tw[1], a2 = tw[2], a3 = tw[3];
+        double b0 = tw[4], b1 = tw[5], b2 = tw[6], b3 = tw[7];
+        double c0 = tw[8], c1 = tw[9], c2 = tw[10], c3 = tw[11];
+        double[] top = s.panelTop;
+        double[] ta = s.beta, tb = s.series, tc = s.hi, tt = s.shiftTmp, te = s.errTmp;
+        for (int j = 0; j < np; j++) {
+            int o0 = 4 * j * nc, o1 = o0 + nc, o2 = o1 + nc, o3 = o2 + nc, po = j * nc;
+            double w0 = nr.w[4 * j], w1 = nr.w[4 * j + 1], w2 = nr.w[4 * j + 2], w3 = nr.w[4 * j + 3];
+            for (int d = 0; d < nc; d++) {
+                mass[po + d] = w0 * g[o0 + d] + w1 * g[o1 + d] + w2 * g[o2 + d] + w3 * g[o3 + d];
+            }
+            double cj = nr.ruleConstant * nr.width[j];
+            // |β₁|, |β₂|, |β₃| and the largest clr value (nodes and ends), in separate short loops
+            for (int d = 0; d < nc; d++) {
+                ta[d] = Math.abs(a0 * y[o0 + d] + a1 * y[o1 + d] + a2 * y[o2 + d] + a3 * y[o3 + d]);
+            }
+            for (int d = 0; d < nc; d++) {
+                tb[d] = Math.abs(b0 * y[o0 + d] + b1 * y[o1 + d] + b2 * y[o2 + d] + b3 * y[o3 + d]);
+            }
+            for (int d = 0; d < nc; d++) {
+                tc[d] = Math.abs(c0 * y[o0 + d] + c1 * y[o1 + d] + c2 * y[o2 + d] + c3 * y[o3 + d]);
+            }
+            // the largest clr value on the panel is at most c(½) + |β₁|/2 + |β₂|/4 + |β₃|/8 (exact for a cubic)
+            for (int d = 0; d < nc; d++) {
+                tt[d] = m0 * y[o0 + d] + m1 * y[o1 + d] + m2 * y[o2 + d] + m3 * y[o3 + d] + 0.5 * ta[d] + 0.25 * tb[d]
+                        + 0.125 * tc[d] - mx[d];
+            }
+            // e_8 of exp(a t + b t² + c t³): Σ_{i+2j+3k=8} a^i b^j c^k / (i! j! k!)
+            for (int d = 0; d < nc; d++) {
+                double a = ta[d], b = tb[d], c = tc[d];
+                double aa = a * a, a4 = aa * aa, bb = b * b, cc = c * c;
+                te[d] = cj * (a4 * a4 * (1.0 / 40320) + a4 * aa * b * (1.0 / 720) + a4 * bb * (1.0 / 48)
+                        + aa * bb * b * (1.0 / 12) + bb * bb * (1.0 / 24) + a4 * a * c * (1.0 / 120)
+                        + aa * a * b * c * (1.0 / 6) + a * bb * c * 0.5 + aa * cc * 0.25 + b * cc * 0.5);
+            }
+            System.arraycopy(te, 0, rp, po, nc);
+            for (int d = 0; d < nc; d++) {
+                tt[d] = Math.min(40.0, tt[d]);
+            }
+            System.arraycopy(tt, 0, top, po, nc);
+        }
+        int pn = np * nc;
+        for (int k = 0; k < pn; k++) {
+            rp[k] *= NodeRule.exp(top[k]);
+        }
+    }
+
+    /**
+     * Error estimates of every panel and draw into rp (j·C + d). A panel whose clr stays more than
+     * 60 below every draw's largest node value (nodes and ends) is skipped: its estimate carries
+     * the factor e^−60 ≈ 10⁻²⁶.
+     */
+    private void panelErrors(double[] y, double[] mx, double[] rp, Scratch s) {
+        NodeRule nr = rule;
+        int q = nr.q, np = nr.panels, nc = cols;
+        double[] ew = nr.endWeights;
+        double[] tw = nr.taylor;
+        double[] beta = s.beta;
+        double[] ser = s.series;
+        double[] hi = s.hi;
+        int nb = q - 1;
+        int two = 2 * q;
+        for (int j = 0; j < np; j++) {
+            int o = j * q * nc, po = j * nc;
+            System.arraycopy(y, o, hi, 0, nc);
+            java.util.Arrays.fill(ser, 0, 2 * nc, 0.0);
+            for (int i = 0; i < q; i++) {
+                int yo = o + i * nc;
+                double w0 = ew[i], w1 = ew[q + i];
+                for (int d = 0; d < nc; d++) {
+                    double v = y[yo + d];
+                    hi[d] = Math.max(hi[d], v);
+                    ser[d] += w0 * v;
+                    ser[nc + d] += w1 * v;
+                }
+            }
+            double top = Double.NEGATIVE_INFINITY;
+            for (int d = 0; d < nc; d++) {
+                hi[d] = Math.max(hi[d], Math.max(ser[d], ser[nc + d])) - mx[d];
+                top = Math.max(top, hi[d]);
+            }
+            if (!(top > -60)) {
+                continue;
+            }
+            java.util.Arrays.fill(beta, 0);
+            for (int i = 0; i < q; i++) {
+                int yo = o + i * nc;
+                for (int mm = 0; mm < nb; mm++) {
+                    double t = tw[mm * q + i];
+                    int bo = mm * nc;
+                    for (int d = 0; d < nc; d++) {
+                        beta[bo + d] += t * y[yo + d];
+                    }
+                }
+            }
+            double cj = nr.ruleConstant * nr.width[j];
+            if (q == 4) {
+                // e_8 of exp(a t + b t² + c t³) in closed form: Σ_{i+2j+3k=8} a^i b^j c^k / (i! j! k!)
+                for (int d = 0; d < nc; d++) {
+                    double a = Math.abs(beta[d]), b = Math.abs(beta[nc + d]), c = Math.abs(beta[2 * nc + d]);
+                    double a2 = a * a, a3 = a2 * a, a4 = a2 * a2, b2 = b * b, c2 = c * c;
+                    double e8 = a4 * a4 / 40320 + a4 * a2 * b / 720 + a4 * b2 / 48 + a2 * b2 * b / 12 + b2 * b2 / 24
+                            + a4 * a * c / 120 + a3 * b * c / 6 + a * b2 * c / 2 + a2 * c2 / 4 + b * c2 / 2;
+                    rp[po + d] = cj * e8 * NodeRule.exp(Math.min(40.0, hi[d]));
+                }
+                continue;
+            }
+            for (int i = 0; i < beta.length; i++) {
+                beta[i] = Math.abs(beta[i]);
+            }
+            // power series of exp(Σ_m |β_m| t^m): n e_n = Σ_m m |β_m| e_{n−m}, e_0 = 1, rows of ser
+            java.util.Arrays.fill(ser, 0, nc, 1.0);
+            for (int kk = 1; kk <= two; kk++) {
+                int eo = kk * nc;
+                java.util.Arrays.fill(ser, eo, eo + nc, 0.0);
+                for (int mm = 1; mm <= nb && mm <= kk; mm++) {
+                    int bo = (mm - 1) * nc, po2 = (kk - mm) * nc;
+                    double f = (double) mm / kk;
+                    for (int d = 0; d < nc; d++) {
+                        ser[eo + d] += f * beta[bo + d] * ser[po2 + d];
+                    }
+                }
+            }
+            int eo = two * nc;
+            for (int d = 0; d < nc; d++) {
+                rp[po + d] = cj * ser[eo + d] * NodeRule.exp(Math.min(40.0, hi[d]));
+            }
+        }
+    }
+
+    /** Evaluates draw d (column) through the space's exact methods. */
+    private void exactDraw(double[] c, int off, int d, Scratch s) {
+        double[] cc = s.coords;
+        double[] z = s.z;
+        for (int j = 0; j < k; j++) {
+            double v = c[off + j];
+            for (int l = 0; l < r; l++) {
+                v += factor[j * r + l] * z[l * cols + d];
+            }
+            cc[j] = v;
+        }
+        Density dd = space.density(cc);
+        int qi = 0;
+        for (double p : probs) {
+            double xq = dd.quantile(p);
+            s.values[qi++][d] = units == null ? xq : units.applyAsDouble(xq);
+        }
+        for (double t : thresholds) {
+            s.values[qi++][d] = dd.tailProbability(t);
+        }
+        if (mean) {
+            s.values[qi][d] = units == null ? dd.mean() : space.integrate(
+                    xx -> units.applyAsDouble(xx) * dd.pdf(xx) / space.referenceDensity(xx));
+        }
+        s.exact++;
+    }
+
+    /**
+     * Summary of quantity qi of the last evaluated location: writes estimate (plug-in), mean, sd,
+     * lower and upper (central interval at level) into out[0..5).
+     */
+    void summary(Scratch s, int qi, double level, double[] out) {
+        double[] v = s.values[qi];
+        double sum = 0;
+        for (int d = 0; d < draws; d++) {
+            sum += v[d];
+        }
+        double mu = sum / draws;
+        double ss = 0;
+        for (int d = 0; d < draws; d++) {
+            double e = v[d] - mu;
+            ss += e * e;
+        }
+        System.arraycopy(v, 0, s.sel, 0, draws);
+        double a = 0.5 * (1 - level);
+        out[0] = v[draws];
+        out[1] = mu;
+        out[2] = Math.sqrt(ss / (draws - 1));
+        Selection.centralInterval(s.sel, draws, a, out, 3);
+    }
+}

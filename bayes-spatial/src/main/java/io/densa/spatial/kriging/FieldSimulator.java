@@ -1,0 +1,167 @@
+package io.densa.spatial.kriging;
+
+import java.util.SplittableRandom;
+
+/**
+ * Gaussian fields of coordinates at the data locations under the proportional-covariance model,
+ * and the drift residuals used by the model checks (package-private).
+ *
+ * <p>Simulation: with C the n × n trace-covariance of the data (the kriging system's matrix: the
+ * model's covariance plus the error variances on the diagonal), C = L Lᵀ, and F the K × r factor of
+ * the shape Σ/tr Σ, the n × K field E = L Z Fᵀ (Z standard normal, n × r) has Cov(e_i, e_j) =
+ * C_ij Σ/tr Σ: every coordinate shares the spatial correlation and E‖e_i‖² = C_ii.
+ *
+ * <p>Residuals: the data (or a simulated field) minus its ordinary-least-squares projection on the
+ * drift functions (minus the known mean for simple kriging). Any fixed quadratic form RᵀAR of
+ * the residuals of a field whose coordinates have covariance C ⊗ Σ has expectation proportional
+ * to Σ, so RᵀR / tr(RᵀR) estimates the shape Σ/tr Σ whatever the spatial correlation.
+ */
+final class FieldSimulator {
+    private final Kriging kr;
+    final int n;
+    final int k;
+    private final int p;
+    /** n × p orthonormal basis of the drift columns (modified Gram–Schmidt, twice). */
+    private final double[] q;
+    private double[] chol;
+
+    FieldSimulator(Kriging kr) {
+        this.kr = kr;
+        this.n = kr.n;
+        this.k = kr.k;
+        this.p = kr.type == Kriging.Type.SIMPLE ? 0 : kr.p;
+        q = new double[n * p];
+        for (int i = 0; i < n; i++) {
+            kr.driftRow(i, q, i * p);
+        }
+        for (int j = 0; j < p; j++) {
+            for (int pass = 0; pass < 2; pass++) {
+                for (int c = 0; c < j; c++) {
+                    double d = 0;
+                    for (int i = 0; i < n; i++) {
+                        d += q[i * p + c] * q[i * p + j];
+                    }
+                    for (int i = 0; i < n; i++) {
+                        q[i * p + j] -= d * q[i * p + c];
+                    }
+                }
+            }
+            double norm = 0;
+            for (int i = 0; i < n; i++) {
+                norm += q[i * p + j] * q[i * p + j];
+            }
+            norm = Math.sqrt(norm);
+            for (int i = 0; i < n; i++) {
+                q[i * p + j] /= norm;
+            }
+        }
+    }
+
+    /** Residuals of the data coordinates (a new n × K array). */
+    double[] dataResiduals() {
+        double[] y = kr.y.clone();
+        if (kr.type == Kriging.Type.SIMPLE) {
+            double[] m = kr.centre();
+            for (int i = 0; i < n; i++) {
+                for (int c = 0; c < k; c++) {
+                    y[i * k + c] -= m[c];
+                }
+            }
+            return y;
+        }
+        project(y);
+        return y;
+    }
+
+    /** Residuals of a simulated zero-mean field, in place. */
+    void simulatedResiduals(double[] e) {
+        if (kr.type != Kriging.Type.SIMPLE) {
+            project(e);
+        }
+    }
+
+    /** y −= Q Qᵀ y (n × K, in place). */
+    private void project(double[] y) {
+        double[] qty = new double[p * k];
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j < p; j++) {
+                double qi = q[i * p + j];
+                for (int c = 0; c < k; c++) {
+                    qty[j * k + c] += qi * y[i * k + c];
+                }
+            }
+        }
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j < p; j++) {
+                double qi = q[i * p + j];
+                for (int c = 0; c < k; c++) {
+                    y[i * k + c] -= qi * qty[j * k + c];
+                }
+            }
+        }
+    }
+
+    /** A field E = L Z Fᵀ (n × K) with F the K × r factor; Z from rng in row order. */
+    double[] simulate(double[] factor, int r, SplittableRandom rng) {
+        double[] l = cholesky();
+        double[] w = new double[n * k];
+        double[] z = new double[r];
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j < r; j++) {
+                z[j] = rng.nextGaussian();
+            }
+            for (int c = 0; c < k; c++) {
+                double s = 0;
+                for (int j = 0; j < r; j++) {
+                    s += factor[c * r + j] * z[j];
+                }
+                w[i * k + c] = s;
+            }
+        }
+        double[] e = new double[n * k];
+        for (int i = 0; i < n; i++) {
+            int lo = i * n;
+            for (int j = 0; j <= i; j++) {
+                double lij = l[lo + j];
+                if (lij == 0) {
+                    continue;
+                }
+                for (int c = 0; c < k; c++) {
+                    e[i * k + c] += lij * w[j * k + c];
+                }
+            }
+        }
+        return e;
+    }
+
+    private synchronized double[] cholesky() {
+        if (chol == null) {
+            chol = kr.globalSystem().l;
+        }
+        return chol;
+    }
+
+    /** RᵀR / tr(RᵀR) of an n × K array (K × K), or null if R is zero. */
+    static double[] shape(double[] r, int n, int k) {
+        double[] s = new double[k * k];
+        for (int i = 0; i < n; i++) {
+            for (int a = 0; a < k; a++) {
+                double ra = r[i * k + a];
+                for (int b = 0; b < k; b++) {
+                    s[a * k + b] += ra * r[i * k + b];
+                }
+            }
+        }
+        double tr = 0;
+        for (int a = 0; a < k; a++) {
+            tr += s[a * k + a];
+        }
+        if (!(tr > 0) || Double.isInfinite(tr)) {
+            return null;
+        }
+        for (int i = 0; i < s.length; i++) {
+            s[i] /= tr;
+        }
+        return s;
+    }
+}

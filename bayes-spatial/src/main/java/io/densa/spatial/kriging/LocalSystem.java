@@ -1,0 +1,339 @@
+package io.densa.spatial.kriging;
+
+import io.densa.core.DensaException;
+import io.densa.core.internal.Cholesky;
+import org.ejml.data.DMatrixRMaj;
+
+/**
+ * A factorised kriging system for one neighbour set (package-private). With C the m × m data
+ * covariance (plus error variances on the diagonal), C = L Lᵀ, drift matrix F (m × p), it keeps
+ * G = L⁻¹F, S⁻¹ = (GᵀG)⁻¹ = (FᵀC⁻¹F)⁻¹ and L⁻¹Y (Y the data coordinates, centred by the known mean
+ * for simple kriging). A target with covariance vector c0 and drift vector f0 then needs one
+ * forward solve v = L⁻¹c0 and gives, with r = Gᵀv − f0 and μ = S⁻¹r,
+ * prediction (v − Gμ)ᵀ L⁻¹Y, variance C(0) − vᵀv + rᵀμ and weights λ = L⁻ᵀ(v − Gμ).
+ * These are the universal kriging equations Cλ + Fμ = c0, Fᵀλ = f0,
+ * σ² = C(0) − λᵀc0 − μᵀf0 ("A Universal Kriging predictor for spatially dependent functional data
+ * of a Hilbert Space", Electron. J. Statist. 7 (2013), doi:10.1214/13-EJS843 — from memory),
+ * reduced through the Schur complement; p = 0 is simple kriging, p = 1 with f ≡ 1 ordinary kriging.
+ */
+final class LocalSystem {
+    /**
+     * Largest system factorised by the division-form loop below; larger ones (up to
+     * {@link Cholesky#LARGE}) use {@link Cholesky#factor}, whose reciprocal form differs in the last
+     * bits.
+     */
+    private static final int OWN_FACTOR_LIMIT = 160;
+    /**
+     * Largest accepted relative residual of the unbiasedness constraints Fᵀλ = f0, per drift
+     * function |(Fᵀλ − f0)_j| / max(1, |f0_j|): weights that sum to 1 ± 10⁻⁶ (our choice; well
+     * conditioned systems give about 10⁻¹⁵, and far outside the data the residual grows with the
+     * drift's extrapolation until it reaches order 1).
+     */
+    static final double CONSTRAINT_TOLERANCE = 1e-6;
+
+    final int[] idx;
+    final int m;
+    final int p;
+    final int k;
+    final double[] l;   // m × m lower
+    final double[] g;   // m × p
+    final double[] sInv; // p × p
+    final double[] ly;  // m × k
+    final double condition;
+
+    private LocalSystem(int[] idx, int p, int k, double[] l, double[] g, double[] sInv, double[] ly, double condition) {
+        this.idx = idx;
+        this.m = idx.length;
+        this.p = p;
+        this.k = k;
+        this.l = l;
+        this.g = g;
+        this.sInv = sInv;
+        this.ly = ly;
+        this.condition = condition;
+    }
+
+    static LocalSystem build(Kriging kr, int[] idx) {
+        int m = idx.length;
+        int p = kr.driftSize();
+        int k = kr.dimension();
+        double[] a = new double[m * m];
+        for (int r = 0; r < m; r++) {
+            int ir = idx[r];
+            for (int c = 0; c <= r; c++) {
+                double v = kr.stationCovariance(ir, idx[c]);
+                a[r * m + c] = v;
+                a[c * m + r] = v;
+            }
+            a[r * m + r] += kr.diagonalExtra(ir);
+        }
+        double[] l = cholesky(a, m, idx, "covariance matrix");
+        double dmax = 0, dmin = Double.POSITIVE_INFINITY;
+        for (int r = 0; r < m; r++) {
+            dmax = Math.max(dmax, l[r * m + r]);
+            dmin = Math.min(dmin, l[r * m + r]);
+        }
+        double cond = (dmax / dmin) * (dmax / dmin);
+        if (!(cond <= kr.conditionLimit())) {
+            throw new DensaException("kriging system of " + m + " locations is ill-conditioned (condition estimate "
+                    + cond + " > limit " + kr.conditionLimit() + "); locations may nearly coincide: add error"
+                    + " variances, a nugget or withCoincidentNugget", new KrigingDiagnostics(m, cond, idx.clone(),
+                    "ill-conditioned covariance matrix"));
+        }
+        double[] g = new double[m * p];
+        for (int r = 0; r < m; r++) {
+            kr.driftRow(idx[r], g, r * p);
+        }
+        Cholesky.forwardRows(l, m, g, p);
+        double[] sInv = new double[p * p];
+        if (p > 0) {
+            double[] f = new double[m * p];
+            for (int r = 0; r < m; r++) {
+                kr.driftRow(idx[r], f, r * p);
+            }
+            int dep = p > 1 ? Kriging.dependentColumn(f, m, p, null) : -1;
+            if (dep >= 0) {
+                throw new DensaException(kr.dependentMessage(dep, m), new KrigingDiagnostics(m, cond, idx.clone(),
+                        "dependent drift function " + dep));
+            }
+            double[] s = new double[p * p];
+            for (int r = 0; r < m; r++) {
+                for (int i = 0; i < p; i++) {
+                    double gi = g[r * p + i];
+                    for (int j = 0; j < p; j++) {
+                        s[i * p + j] += gi * g[r * p + j];
+                    }
+                }
+            }
+            sInv = inverseSpd(s, p, idx);
+        }
+        double[] ly = new double[m * k];
+        double[] mean = kr.centre();
+        for (int r = 0; r < m; r++) {
+            int o = idx[r] * k;
+            for (int c = 0; c < k; c++) {
+                ly[r * k + c] = kr.y[o + c] - mean[c];
+            }
+        }
+        Cholesky.forwardRows(l, m, ly, k);
+        return new LocalSystem(idx, p, k, l, g, sInv, ly, cond);
+    }
+
+    /** Lower Cholesky factor of the symmetric matrix a (m × m, overwritten for small m). */
+    static double[] cholesky(double[] a, int m, int[] idx, String what) {
+        if (m >= Cholesky.LARGE) {
+            double[] l = Cholesky.factorLarge(DMatrixRMaj.wrap(m, m, a));
+            if (l == null) {
+                throw breakdown(m, idx, what);
+            }
+            for (int r = 0; r < m; r++) {
+                if (!(l[r * m + r] > 0) || Double.isInfinite(l[r * m + r])) {
+                    throw breakdown(m, idx, what);
+                }
+                for (int c = r + 1; c < m; c++) {
+                    l[r * m + c] = 0;
+                }
+            }
+            return l;
+        }
+        if (m > OWN_FACTOR_LIMIT) {
+            // the same arithmetic as EJML's inner Cholesky, which served these sizes before
+            if (Cholesky.factor(a, m, m, 0) >= 0) {
+                throw breakdown(m, idx, what);
+            }
+            for (int r = 0; r < m; r++) {
+                for (int c = r + 1; c < m; c++) {
+                    a[r * m + c] = 0;
+                }
+            }
+            return a;
+        }
+        for (int j = 0; j < m; j++) {
+            int jo = j * m;
+            double d = a[jo + j];
+            for (int c = 0; c < j; c++) {
+                d -= a[jo + c] * a[jo + c];
+            }
+            if (!(d > 0) || Double.isInfinite(d)) {
+                throw breakdown(m, idx, what);
+            }
+            double ljj = Math.sqrt(d);
+            a[jo + j] = ljj;
+            for (int i = j + 1; i < m; i++) {
+                int io = i * m;
+                double s = a[io + j];
+                for (int c = 0; c < j; c++) {
+                    s -= a[io + c] * a[jo + c];
+                }
+                a[io + j] = s / ljj;
+            }
+            for (int c = j + 1; c < m; c++) {
+                a[jo + c] = 0;
+            }
+        }
+        return a;
+    }
+
+    private static DensaException breakdown(int m, int[] idx, String what) {
+        return new DensaException("kriging " + what + " of " + m + " locations is not positive definite (Cholesky"
+                + " breakdown): the model may be invalid for these locations or locations nearly coincide",
+                new KrigingDiagnostics(m, Double.POSITIVE_INFINITY, idx.clone(), "Cholesky breakdown of " + what));
+    }
+
+    private static double[] inverseSpd(double[] s, int p, int[] idx) {
+        double[] l;
+        try {
+            l = cholesky(s.clone(), p, idx, "drift matrix F'C^-1F");
+        } catch (DensaException e) {
+            throw new DensaException("the drift is not identifiable from these " + idx.length + " locations (the "
+                    + p + " x " + p + " matrix F'C^-1F of the drift functions is not positive definite): use fewer"
+                    + " drift functions or more neighbours", new KrigingDiagnostics(idx.length,
+                    Double.POSITIVE_INFINITY, idx.clone(), "singular drift matrix"));
+        }
+        double dmax = 0, dmin = Double.POSITIVE_INFINITY;
+        for (int r = 0; r < p; r++) {
+            dmax = Math.max(dmax, l[r * p + r]);
+            dmin = Math.min(dmin, l[r * p + r]);
+        }
+        double cond = (dmax / dmin) * (dmax / dmin);
+        if (!(cond < 1e14)) {
+            throw new DensaException("the drift is not identifiable from these " + idx.length + " locations"
+                    + " (F'C^-1F condition estimate " + cond + "): use fewer drift functions or more neighbours",
+                    new KrigingDiagnostics(idx.length, cond, idx.clone(), "singular drift matrix"));
+        }
+        double[] inv = new double[p * p];
+        for (int i = 0; i < p; i++) {
+            inv[i * p + i] = 1;
+        }
+        // inv = L^{-T} L^{-1}: solve columns
+        double[] e = new double[p];
+        double[] out = new double[p * p];
+        for (int col = 0; col < p; col++) {
+            java.util.Arrays.fill(e, 0);
+            e[col] = 1;
+            Cholesky.solve(l, p, p, e, 0);
+            for (int r = 0; r < p; r++) {
+                out[r * p + col] = e[r];
+            }
+        }
+        return out;
+    }
+
+    /** Scratch space for {@link #predict}. */
+    static final class Scratch {
+        final double[] r;
+        final double[] mu;
+        /** Relative residual of the unbiasedness constraints of the last {@link #predict} (0 if p = 0). */
+        double residual;
+
+        Scratch(int p) {
+            r = new double[Math.max(1, p)];
+            mu = new double[Math.max(1, p)];
+        }
+    }
+
+    /**
+     * The unbiasedness constraints in the factorised form: the weights λ = L⁻ᵀz satisfy
+     * Fᵀλ = (LG)ᵀL⁻ᵀz = Gᵀz, and the prediction zᵀL⁻¹Y has exactly these effective weights. Writes
+     * Gᵀz − f0 into rr and returns max_j |rr_j| / max(1, |f0_j|).
+     */
+    private double constraintResidual(double[] z, double[] f0, double[] rr) {
+        java.util.Arrays.fill(rr, 0, p, 0.0);
+        for (int r = 0; r < m; r++) {
+            double zr = z[r];
+            for (int j = 0; j < p; j++) {
+                rr[j] += g[r * p + j] * zr;
+            }
+        }
+        double worst = 0;
+        for (int j = 0; j < p; j++) {
+            rr[j] -= f0[j];
+            worst = Math.max(worst, Math.abs(rr[j]) / Math.max(1, Math.abs(f0[j])));
+        }
+        return Double.isNaN(worst) ? Double.POSITIVE_INFINITY : worst;
+    }
+
+    /**
+     * Predicts at a target. c0 (length m) is overwritten with z = v − Gμ; f0 the drift at the target;
+     * c00 the covariance at lag 0. Writes centre + zᵀL⁻¹Y into out[off..off+k) and returns the
+     * variance (rounding below zero reported as 0). If weights is non-null, writes λ into it. The
+     * relative residual of the unbiasedness constraints goes to scratch.residual (after one step of
+     * iterative refinement when it exceeds {@link #CONSTRAINT_TOLERANCE}); the caller checks it.
+     */
+    double predict(double[] c0, double[] f0, double c00, double[] centre, double[] out, int off, double[] weights,
+            Scratch scratch) {
+        Cholesky.forward(l, m, m, c0, 0);
+        double vv = 0;
+        for (int r = 0; r < m; r++) {
+            vv += c0[r] * c0[r];
+        }
+        double rmu = 0;
+        if (p > 0) {
+            double[] rr = scratch.r;
+            double[] mu = scratch.mu;
+            java.util.Arrays.fill(rr, 0, p, 0.0);
+            for (int r = 0; r < m; r++) {
+                double vr = c0[r];
+                for (int j = 0; j < p; j++) {
+                    rr[j] += g[r * p + j] * vr;
+                }
+            }
+            for (int j = 0; j < p; j++) {
+                rr[j] -= f0[j];
+            }
+            for (int i = 0; i < p; i++) {
+                double s = 0;
+                for (int j = 0; j < p; j++) {
+                    s += sInv[i * p + j] * rr[j];
+                }
+                mu[i] = s;
+                rmu += rr[i] * s;
+            }
+            for (int r = 0; r < m; r++) {
+                double s = 0;
+                for (int j = 0; j < p; j++) {
+                    s += g[r * p + j] * mu[j];
+                }
+                c0[r] -= s;
+            }
+            double res = constraintResidual(c0, f0, rr);
+            if (res > CONSTRAINT_TOLERANCE) {
+                // one step of iterative refinement: z −= G S⁻¹ (Gᵀz − f0)
+                for (int i = 0; i < p; i++) {
+                    double s = 0;
+                    for (int j = 0; j < p; j++) {
+                        s += sInv[i * p + j] * rr[j];
+                    }
+                    mu[i] = s;
+                }
+                for (int r = 0; r < m; r++) {
+                    double s = 0;
+                    for (int j = 0; j < p; j++) {
+                        s += g[r * p + j] * mu[j];
+                    }
+                    c0[r] -= s;
+                }
+                res = constraintResidual(c0, f0, rr);
+            }
+            scratch.residual = res;
+        } else {
+            scratch.residual = 0;
+        }
+        for (int c = 0; c < k; c++) {
+            out[off + c] = centre[c];
+        }
+        for (int r = 0; r < m; r++) {
+            double z = c0[r];
+            int o = r * k;
+            for (int c = 0; c < k; c++) {
+                out[off + c] += z * ly[o + c];
+            }
+        }
+        if (weights != null) {
+            System.arraycopy(c0, 0, weights, 0, m);
+            Cholesky.backward(l, m, m, weights, 0);
+        }
+        double var = c00 - vv + rmu;
+        return var > 0 ? var : 0;
+    }
+}
