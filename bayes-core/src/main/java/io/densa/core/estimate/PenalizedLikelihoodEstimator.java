@@ -553,6 +553,27 @@ public final class PenalizedLikelihoodEstimator {
         });
     }
 
+    /**
+     * Fits many units sharing bin edges, some of which recorded values beyond a detection limit at
+     * the limit (left- or right-censored data, {@link DetectionLimits}). For such a unit the bins
+     * from the domain's end up to the bin holding its limit form one cell that reaches the end of
+     * the domain, and its likelihood uses the probability of that cell (interval censoring): the
+     * values piled at the limit say "at most L", not "exactly here", and the empty bins below say
+     * nothing. Units without a limit are fitted exactly as by
+     * {@link #fitAll(double[], int[][], String[])}, in one batch; each censored unit is fitted on its
+     * own cells (the progress listener sees these batches separately).
+     *
+     * @param limits one entry per unit (NaN: no limit)
+     * @throws IllegalArgumentException as {@link #fitAll(double[], int[][], String[])}, or for a
+     *                                  limit outside the binned range or limits that leave no
+     *                                  uncensored bin (naming the unit)
+     */
+    public BatchEstimate fitAll(double[] edges, int[][] counts, String[] ids, DetectionLimits limits) {
+        Objects.requireNonNull(counts, "counts");
+        Objects.requireNonNull(limits, "limits");
+        return CensoredCounts.fitAll(this, edges, counts, ids, limits);
+    }
+
     /** Fits many units of counts given as doubles; see {@link #fitAll(double[], int[][], String[])}. */
     public BatchEstimate fitAll(double[] edges, double[][] counts, String[] ids) {
         Objects.requireNonNull(counts, "counts");

@@ -17,6 +17,9 @@
  * non-negative (whole numbers unless fractional counts are allowed), one row per unit with one
  * count per bin; samples finite and inside the domain; ids, when given, one non-null id per unit.
  * What a unit without events yields is set by {@link io.densa.core.estimate.ZeroTotalPolicy}.
+ * Units whose values beyond a detection limit were recorded at the limit are declared with
+ * {@link io.densa.core.estimate.DetectionLimits}: their censored counts enter the likelihood as
+ * "at most (at least) the limit" instead of a spike at the limit.
  * Outputs: immutable estimators and results; no argument is modified. Batches run in fixed blocks
  * combined in order, so parallel and serial runs give bit-identical results. Bad input throws
  * {@link java.lang.IllegalArgumentException} naming the unit and bin; a fit that fails numerically

@@ -72,6 +72,57 @@ class NewtonPrecisionTest {
         check(null, EstimationTestSupport.mixture().sample(30, rng(104)), 0);
     }
 
+    /**
+     * Counts with a lower detection limit (values below edge 10 of 40 recorded in bin 10): the
+     * estimate is the exact maximiser of the interval-censored likelihood, in which the cell
+     * [0, e_11) carries the counts of bins 0–10 (Turnbull (1976), J. R. Stat. Soc. B 38(3)): Φ above
+     * on the merged cells, maximised independently.
+     */
+    @Test
+    void censoredCountsAreTheExactMaximiserOfTheCensoredLikelihood() {
+        Truth t = EstimationTestSupport.mixture();
+        int[] raw = t.counts(20_000, 40, rng(107));
+        double[] e = edges(0, 1, 40);
+        int[] clipped = raw.clone();
+        for (int j = 0; j < 10; j++) {
+            clipped[10] += clipped[j];
+            clipped[j] = 0;
+        }
+        BayesSpace space = BayesSpace.splines(0, 1, 4, KNOTS);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space);
+        BatchEstimate fit = est.fitAll(e, new int[][] {clipped, raw}, new String[] {"clipped", "plain"},
+                new DetectionLimits(new double[] {e[10], Double.NaN}, new double[] {Double.NaN, Double.NaN}));
+        assertTrue(fit.diagnostics().get(0).converged(), fit.diagnostics().get(0).toString());
+        // the unit without a limit is fitted exactly as without limits
+        assertTrue(java.util.Arrays.equals(est.fit(e, raw).density().coordinates(), fit.densities().get(1)
+                .coordinates()));
+        double[] cells = new double[31];
+        int[] merged = new int[30];
+        cells[0] = 0;
+        for (int j = 11; j <= 40; j++) {
+            cells[j - 10] = e[j];
+        }
+        for (int j = 0; j <= 10; j++) {
+            merged[0] += clipped[j];
+        }
+        System.arraycopy(clipped, 11, merged, 1, 29);
+        double lambda = fit.diagnostics().get(0).smoothing();
+        double[] exact = new Objective(space, merged, null, cells, lambda, est.referencePriorWeight()).maximise();
+        double[] c = fit.densities().get(0).coordinates();
+        double maxDiff = 0;
+        for (int k = 0; k < c.length; k++) {
+            maxDiff = Math.max(maxDiff, Math.abs(c[k] - exact[k]));
+        }
+        assertTrue(maxDiff <= TOL, "max coordinate difference " + maxDiff);
+        // and it is not the uncensored fit of the same counts (the spike is gone)
+        double[] uncensored = est.fit(e, clipped).density().coordinates();
+        double gap = 0;
+        for (int k = 0; k < c.length; k++) {
+            gap = Math.max(gap, Math.abs(c[k] - uncensored[k]));
+        }
+        assertTrue(gap > 0.1, "censoring changed the coordinates by only " + gap);
+    }
+
     private static void check(int[] counts, double[] sample, int bins) {
         check(counts, sample, bins, PenalizedLikelihoodEstimator.DEFAULT_PRIOR_WEIGHT);
     }
@@ -82,7 +133,8 @@ class NewtonPrecisionTest {
         UnitEstimate fit = counts != null ? est.fit(edges(0, 1, bins), counts) : est.fitSample(sample);
         assertTrue(fit.diagnostics().converged(), fit.diagnostics().toString());
         double lambda = fit.diagnostics().smoothing();
-        Objective phi = new Objective(space, counts, sample, bins, lambda, est.referencePriorWeight());
+        Objective phi = new Objective(space, counts, sample, counts != null ? edges(0, 1, bins) : null, lambda,
+                est.referencePriorWeight());
         double[] exact = phi.maximise();
         double[] c = fit.density().coordinates();
         double maxDiff = 0;
@@ -124,7 +176,8 @@ class NewtonPrecisionTest {
         final double[] nodeWeight;
         final int[] binStart;
 
-        Objective(BayesSpace space, int[] counts, double[] sample, int bins, double lambda, double priorWeight) {
+        Objective(BayesSpace space, int[] counts, double[] sample, double[] binEdges, double lambda,
+                double priorWeight) {
             this.k = space.dimension();
             this.lambda = lambda;
             this.ridge = priorWeight / (2 * (space.upper() - space.lower()));
@@ -156,7 +209,7 @@ class NewtonPrecisionTest {
                 }
             }
             // integration nodes: each bin (or the whole domain) cut at the knots, 12 points a piece
-            double[] e = counts != null ? edges(0, 1, bins) : new double[] {0, 1};
+            double[] e = counts != null ? binEdges : new double[] {0, 1};
             int groups = e.length - 1;
             java.util.List<double[]> basisList = new java.util.ArrayList<>();
             java.util.List<Double> weights = new java.util.ArrayList<>();
