@@ -10,5 +10,7 @@ import io.densa.spatial.*;
 import io.densa.spatial.variogram.*;
 import io.densa.spatial.kriging.*;
 import io.densa.spatial.autocorrelation.*;
+import io.densa.io.*;
+import java.nio.file.*;
 import java.util.*;
 import java.util.stream.*;

@@ -84,7 +84,10 @@ class ReadmeJShellTest {
                 shell.addToClasspath(entry);
             }
             int count = 0;
-            for (String snippet : snippets(shell, startup + "\n" + String.join("\n", blocks))) {
+            // the README's paths are relative to the repository root; this JVM runs in examples/
+            String session = String.join("\n", blocks).replace("Path.of(\"data\"", "Path.of(\""
+                    + ROOT.resolve("data").toString().replace("\\", "/") + "\"");
+            for (String snippet : snippets(shell, startup + "\n" + session)) {
                 for (SnippetEvent event : shell.eval(snippet)) {
                     String where = "snippet: " + snippet.strip();
                     assertNull(event.exception(), () -> where + " threw " + event.exception());
