@@ -64,6 +64,21 @@ class ExcessCountsTest {
     }
 
     @Test
+    void bandProbabilitiesMatchTheSpacesCdfOnASplineSpace() {
+        // a bimodal age profile in a cubic-spline space: the quadrature against Density.cdf (the space's own
+        // Gauss–Legendre rule per knot span, checked by its own tests), relative error below 1e-6
+        BayesSpace splines = BayesSpace.splines(0, 100, 4, new double[] {2, 6, 12, 20, 30, 42, 55, 68, 80, 90});
+        io.densa.core.Density f = splines.projectLogPdf(x -> Math.log(0.6 * Math.exp(-Math.pow((x - 8) / 5, 2))
+                + 0.4 * Math.exp(-Math.pow((x - 70) / 12, 2)) + 1e-3)).density();
+        double[] bands = {0, 15, 25, 45, 65, 100};
+        double[] p = ExcessCounts.bandProbabilities(splines, f.coordinates(), bands);
+        for (int t = 0; t + 1 < bands.length; t++) {
+            double ref = f.cdf(bands[t + 1]) - f.cdf(bands[t]);
+            assertEquals(ref, p[t], 1e-6 * ref, "band " + t);
+        }
+    }
+
+    @Test
     void knownBaselineIntervalMatchesDeltaMethod() {
         // O(B) − N π(B) under independent Poisson band counts: variance O(1 − π)² + π²(N − O), the delta
         // method (common practice); with thousands of events the percentile interval must match the normal one.
