@@ -182,6 +182,39 @@ class ExcessCountsTest {
     }
 
     @Test
+    void selectedQuantilesEqualSortedOnes() {
+        // selection against core's sorted-array quantile (both definition 7 of Hyndman & Fan 1996), with ties
+        SplittableRandom rng = new SplittableRandom(4);
+        for (int len : new int[] {9, 10, 999, 1000}) {
+            for (int rep = 0; rep < 20; rep++) {
+                double[] x = new double[len];
+                for (int i = 0; i < len; i++) {
+                    x[i] = rep % 2 == 0 ? rng.nextGaussian() : rng.nextInt(7);
+                }
+                double[] sorted = x.clone();
+                java.util.Arrays.sort(sorted);
+                for (double p : new double[] {0, 0.05, 0.5, 0.95, 1}) {
+                    assertEquals(io.densa.core.internal.SampleQuantiles.sorted(sorted, p),
+                            ExcessCounts.Plan.quantile(x.clone(), p), 0.0, "len " + len + " p " + p);
+                }
+            }
+        }
+    }
+
+    @Test
+    void fastExponentialAgreesWithMathExp() {
+        // against java.lang.Math.exp (within 1 ulp of the exact value by its specification), relative 1e-14
+        SplittableRandom rng = new SplittableRandom(5);
+        for (int i = 0; i < 200_000; i++) {
+            double y = i < 100 ? -i * 0.5 : -rng.nextDouble() * (i % 2 == 0 ? 50 : 700);
+            double ref = Math.exp(y);
+            assertEquals(ref, ExcessCounts.expNonPositive(y), 1e-14 * ref, "y = " + y);
+        }
+        assertEquals(1.0, ExcessCounts.expNonPositive(0), 1e-16);
+        assertTrue(ExcessCounts.expNonPositive(-1e6) < 1e-300);
+    }
+
+    @Test
     void badInputIsNamed() {
         DensitySet b = DensitySet.of(SPACE, new double[][] {truncatedNormal(4, 2)});
         ExcessCounts ex = ExcessCounts.withDefaults();

@@ -92,6 +92,54 @@ public final class CountSampling {
     }
 
     /**
+     * A Poisson sampler prepared for one mean (the same variates as {@link #poisson(double,
+     * SplittableRandom)}, without recomputing the PTRS constants at every draw). Immutable.
+     */
+    public static final class Poisson {
+        private final double mean;
+        private final double a;
+        private final double b;
+        private final double logInvAlpha;
+        private final double vr;
+        private final double logMean;
+
+        /**
+         * @param mean finite, ≥ 0
+         */
+        public Poisson(double mean) {
+            this.mean = mean;
+            double smu = Math.sqrt(Math.max(mean, 0));
+            this.b = 0.931 + 2.53 * smu;
+            this.a = -0.059 + 0.02483 * b;
+            this.logInvAlpha = Math.log(1.1239 + 1.1328 / (b - 3.4));
+            this.vr = 0.9277 - 3.6224 / (b - 2);
+            this.logMean = mean > 0 ? Math.log(mean) : 0;
+        }
+
+        /** One variate. */
+        public long sample(SplittableRandom rng) {
+            if (mean < 10) {
+                return poisson(mean, rng);
+            }
+            while (true) {
+                double u = rng.nextDouble() - 0.5;
+                double v = rng.nextDouble();
+                double us = 0.5 - Math.abs(u);
+                long k = (long) Math.floor((2 * a / us + b) * u + mean + 0.43);
+                if (us >= 0.07 && v <= vr) {
+                    return k;
+                }
+                if (k < 0 || (us < 0.013 && v > us)) {
+                    continue;
+                }
+                if (Math.log(v) + logInvAlpha - Math.log(a / (us * us) + b) <= -mean + k * logMean - logFactorial(k)) {
+                    return k;
+                }
+            }
+        }
+    }
+
+    /**
      * A binomial variate.
      *
      * @param n trials, ≥ 0

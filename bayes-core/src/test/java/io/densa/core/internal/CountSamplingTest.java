@@ -70,6 +70,17 @@ class CountSamplingTest {
     }
 
     @ParameterizedTest
+    @CsvSource({"3.5", "25", "12345.6"})
+    void preparedPoissonGivesTheSameVariates(double mean) {
+        SplittableRandom a = new SplittableRandom(21);
+        SplittableRandom b = new SplittableRandom(21);
+        CountSampling.Poisson p = new CountSampling.Poisson(mean);
+        for (int r = 0; r < 10_000; r++) {
+            assertEquals(CountSampling.poisson(mean, a), p.sample(b));
+        }
+    }
+
+    @ParameterizedTest
     @CsvSource({"10, 0.3", "50, 0.9", "1000, 0.3", "1000, 0.97", "1000000, 0.01", "7, 0.5", "200000, 0.5"})
     void binomialMatchesCommonsMath(int n, double p) {
         SplittableRandom rng = new SplittableRandom(12);
