@@ -1,8 +1,9 @@
 /**
  * Densa spatial statistics: locations, neighbour index and spatial weights
  * ({@code io.densa.spatial}), variograms ({@code io.densa.spatial.variogram}), kriging
- * ({@code io.densa.spatial.kriging}) and spatial autocorrelation
- * ({@code io.densa.spatial.autocorrelation}). {@code io.densa.spatial.internal} is not exported.
+ * ({@code io.densa.spatial.kriging}), spatial autocorrelation
+ * ({@code io.densa.spatial.autocorrelation}) and the spatial scan statistic
+ * ({@code io.densa.spatial.scan}). {@code io.densa.spatial.internal} is not exported.
  */
 module io.densa.spatial {
     requires transitive io.densa.core;
@@ -17,4 +18,5 @@ module io.densa.spatial {
     exports io.densa.spatial.variogram;
     exports io.densa.spatial.kriging;
     exports io.densa.spatial.autocorrelation;
+    exports io.densa.spatial.scan;
 }

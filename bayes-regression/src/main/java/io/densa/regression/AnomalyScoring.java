@@ -4,6 +4,7 @@ import io.densa.core.BenjaminiHochberg;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
 import io.densa.core.internal.SampleQuantiles;
+import io.densa.core.internal.Seeds;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -29,20 +30,35 @@ import org.ejml.data.DMatrixRMaj;
  * The smallest possible p-value is 1/(n + 1), so a batch of m units can produce a flag only
  * when n + 1 ≥ m/q: calibrate on enough units.
  *
+ * <p><b>Ties and resolution.</b> Every unit whose norm exceeds all n calibration norms gets the same
+ * p-value 1/(n + 1). {@link #withRandomisedTies(long)} switches to the <em>smoothed</em> conformal
+ * p-value (Vovk, Gammerman, Shafer (2005), Algorithmic Learning in a Random World, Springer, §2.4
+ * on smoothed conformal predictors [from memory]):
+ * p = (#{i : s_i &gt; s} + U·(1 + #{i : s_i = s})) / (n + 1) with U ~ Uniform(0, 1) drawn from a
+ * seeded stream per unit. Under exchangeability it is exactly Uniform(0, 1) (not merely
+ * conservative), it is never larger than the ordinary p-value, and it does not tie. Its order
+ * among units that exceed the same number of calibration norms is random and carries no evidence:
+ * rank such units by their score ({@link Report#ranking()}) or by an excess in counts
+ * ({@link ExcessCounts}), and calibrate on more units to resolve smaller p-values.
+ *
  * <p>Immutable and thread-safe.
  */
 public final class AnomalyScoring {
     private final double fdr;
     private final double bandLevel;
+    private final boolean randomisedTies;
+    private final long tieSeed;
 
-    private AnomalyScoring(double fdr, double bandLevel) {
+    private AnomalyScoring(double fdr, double bandLevel, boolean randomisedTies, long tieSeed) {
         this.fdr = fdr;
         this.bandLevel = bandLevel;
+        this.randomisedTies = randomisedTies;
+        this.tieSeed = tieSeed;
     }
 
     /** FDR level 0.05 and a central pointwise band of 95 %. */
     public static AnomalyScoring withDefaults() {
-        return new AnomalyScoring(0.05, 0.95);
+        return new AnomalyScoring(0.05, 0.95, false, 0);
     }
 
     /**
@@ -54,7 +70,7 @@ public final class AnomalyScoring {
         if (!(q > 0 && q < 1)) {
             throw new IllegalArgumentException("FDR level must be in (0, 1), got " + q);
         }
-        return new AnomalyScoring(q, bandLevel);
+        return new AnomalyScoring(q, bandLevel, randomisedTies, tieSeed);
     }
 
     /**
@@ -67,7 +83,22 @@ public final class AnomalyScoring {
         if (!(level > 0 && level < 1)) {
             throw new IllegalArgumentException("band level must be in (0, 1), got " + level);
         }
-        return new AnomalyScoring(fdr, level);
+        return new AnomalyScoring(fdr, level, randomisedTies, tieSeed);
+    }
+
+    /**
+     * Smoothed conformal p-values (see the class description): ties, including the floor
+     * 1/(n + 1), are broken by a seeded uniform per unit (stream = row of the scored set).
+     *
+     * @param seed seed of the uniforms
+     */
+    public AnomalyScoring withRandomisedTies(long seed) {
+        return new AnomalyScoring(fdr, bandLevel, true, seed);
+    }
+
+    /** Whether p-values are smoothed (randomised ties). */
+    public boolean randomisedTies() {
+        return randomisedTies;
     }
 
     /** The FDR level q. */
@@ -152,7 +183,7 @@ public final class AnomalyScoring {
      * @param row            row in the scored set
      * @param id             id of the unit ("#row" without ids)
      * @param residualNorm   B2 norm of the residual density
-     * @param pValue         split-conformal p-value
+     * @param pValue         split-conformal p-value (smoothed when ties are randomised)
      * @param adjustedPValue Benjamini–Hochberg adjusted p-value within the batch
      * @param flagged        adjusted p-value ≤ q
      * @param excursions     band departures (computed for flagged units only, else empty)
@@ -179,6 +210,22 @@ public final class AnomalyScoring {
         /** Canonical constructor: copies the unit list. */
         public Report {
             units = List.copyOf(units);
+        }
+
+        /**
+         * Rows ranked by p-value, ascending; equal p-values (for example all units at the floor
+         * 1/(n + 1) without randomised ties) by residual norm, largest first; then by row.
+         */
+        public int[] ranking() {
+            return java.util.stream.IntStream.range(0, units.size()).boxed().sorted((a, b) -> {
+                UnitScore x = units.get(a);
+                UnitScore y = units.get(b);
+                int c = Double.compare(x.pValue(), y.pValue());
+                if (c == 0) {
+                    c = Double.compare(y.residualNorm(), x.residualNorm());
+                }
+                return c != 0 ? c : Integer.compare(a, b);
+            }).mapToInt(Integer::intValue).toArray();
         }
     }
 
@@ -232,24 +279,55 @@ public final class AnomalyScoring {
             int n = sorted.length;
             double[] p = new double[norms.length];
             for (int i = 0; i < norms.length; i++) {
-                double s = norms[i];
-                if (!(s >= 0) || Double.isInfinite(s)) {
-                    throw new IllegalArgumentException("norm " + i + " is " + s + "; norms must be finite and >= 0");
-                }
-                // first index with sorted[idx] >= s
-                int lo = 0;
-                int hi = n;
-                while (lo < hi) {
-                    int mid = (lo + hi) >>> 1;
-                    if (sorted[mid] >= s) {
-                        hi = mid;
-                    } else {
-                        lo = mid + 1;
-                    }
-                }
-                p[i] = (1.0 + (n - lo)) / (n + 1.0);
+                double s = checkedNorm(norms, i);
+                p[i] = (1.0 + (n - firstAtLeast(s, false))) / (n + 1.0);
             }
             return p;
+        }
+
+        /**
+         * Smoothed conformal p-value (#{s_i &gt; s} + U·(1 + #{s_i = s})) / (n + 1) of each score, U
+         * uniform on (0, 1) from stream j of the seed for score j (see the class description).
+         *
+         * @param norms non-negative residual norms (not modified)
+         * @param seed  seed of the uniforms
+         */
+        public double[] smoothedPValues(double[] norms, long seed) {
+            Objects.requireNonNull(norms, "norms");
+            int n = sorted.length;
+            double[] p = new double[norms.length];
+            for (int i = 0; i < norms.length; i++) {
+                double s = checkedNorm(norms, i);
+                int atLeast = n - firstAtLeast(s, false);
+                int greater = n - firstAtLeast(s, true);
+                // U in (0, 1): 53 random bits, centred in their cell
+                double u = ((Seeds.stream(seed, i).nextLong() >>> 11) + 0.5) * 0x1.0p-53;
+                p[i] = (greater + u * (1 + atLeast - greater)) / (n + 1.0);
+            }
+            return p;
+        }
+
+        private static double checkedNorm(double[] norms, int i) {
+            double s = norms[i];
+            if (!(s >= 0) || Double.isInfinite(s)) {
+                throw new IllegalArgumentException("norm " + i + " is " + s + "; norms must be finite and >= 0");
+            }
+            return s;
+        }
+
+        /** First index with sorted[idx] ≥ s (or &gt; s when strict). */
+        private int firstAtLeast(double s, boolean strict) {
+            int lo = 0;
+            int hi = sorted.length;
+            while (lo < hi) {
+                int mid = (lo + hi) >>> 1;
+                if (strict ? sorted[mid] > s : sorted[mid] >= s) {
+                    hi = mid;
+                } else {
+                    lo = mid + 1;
+                }
+            }
+            return lo;
         }
 
         /**
@@ -261,7 +339,7 @@ public final class AnomalyScoring {
             Objects.requireNonNull(residuals, "residuals");
             space.requireSame(residuals.space(), "residuals");
             double[] norms = residuals.norms();
-            double[] p = pValues(norms);
+            double[] p = cfg.randomisedTies ? smoothedPValues(norms, cfg.tieSeed) : pValues(norms);
             double[] adj = BenjaminiHochberg.adjust(p);
             List<UnitScore> out = new ArrayList<>();
             int flagged = 0;

@@ -1,6 +1,6 @@
 /**
  * Models on densities: simplicial functional PCA, function-on-scalar, function-on-function and
- * scalar-on-function regression, and anomaly scoring.
+ * scalar-on-function regression, anomaly scoring and excess counts.
  *
  * <h2>Semantics</h2>
  * Models take a {@link io.densa.core.DensitySet} (an n × K coordinate matrix in an orthonormal
@@ -22,7 +22,9 @@
  * ridge with cross-validated tuning.</li>
  * <li>{@link io.densa.regression.AnomalyScoring} and
  * {@link io.densa.core.BenjaminiHochberg}: split-conformal anomaly scores, FDR flags
- * and the parts of the domain where a unit departs.</li>
+ * and the parts of the domain where a unit departs (smoothed p-values on request).</li>
+ * <li>{@link io.densa.regression.ExcessCounts}: events in excess of a baseline per band, overall
+ * and displaced, with seeded parametric bootstrap intervals.</li>
  * </ul>
  *
  * <p>Random procedures (folds, bootstrap, permutations) take a seed and use

@@ -4,6 +4,7 @@ import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.estimate.EstimationDiagnostics;
 import io.densa.spatial.autocorrelation.AutocorrelationPermutation;
 import io.densa.spatial.autocorrelation.MoranI;
+import io.densa.spatial.scan.SpatialScan;
 import io.densa.spatial.variogram.VariogramFit;
 import java.util.ArrayList;
 import java.util.List;
@@ -64,6 +65,61 @@ public final class Findings {
         String how = perm.map(x -> " (one-sided, " + x.permutations() + " permutations)")
                 .orElse(" (one-sided, normal approximation under randomisation)");
         return clustering(subject, "Moran's I of the " + valueName + how, result.statistic(), p, alpha);
+    }
+
+    /**
+     * The cluster statement of a spatial scan, decided by its Monte Carlo test at level
+     * {@code alpha}: when p ≤ alpha, "Subject: a cluster of raised counts — k units (names) with O
+     * observed against E expected, an excess of X (relative risk R); Kulldorff's scan statistic LLR =
+     * …, p = … ≤ alpha (R replicates)."; otherwise "Subject: no cluster of raised counts at the alpha
+     * level — the most likely zone (…) has LLR = …, p = … &gt; alpha." (or that no zone has raised
+     * counts at all).
+     *
+     * @param subject   what was scanned, e.g. "Visits under 25 against the baseline"
+     * @param result    the scan
+     * @param unitNames a name per unit, in the scan's order
+     * @param maxNames  at most this many member names are listed (≥ 1); the rest are counted
+     * @param alpha     the level, in (0, 1)
+     */
+    public static String scanCluster(String subject, SpatialScan.Result result, String[] unitNames, int maxNames,
+            double alpha) {
+        Objects.requireNonNull(subject, "subject");
+        Objects.requireNonNull(result, "result");
+        Objects.requireNonNull(unitNames, "unitNames");
+        checkLevel(alpha);
+        if (maxNames < 1) {
+            throw new IllegalArgumentException("maxNames must be at least 1, got " + maxNames);
+        }
+        SpatialScan.Cluster c = result.mostLikely();
+        String level = Numbers.significant(alpha, 3);
+        int[] members = c.members();
+        if (members.length == 0) {
+            return subject + ": no cluster of raised counts — no zone has more observed than expected events.";
+        }
+        StringBuilder names = new StringBuilder();
+        for (int i = 0; i < Math.min(maxNames, members.length); i++) {
+            int u = members[i];
+            if (u < 0 || u >= unitNames.length) {
+                throw new IllegalArgumentException("cluster member " + u + " has no name: " + unitNames.length
+                        + " names given");
+            }
+            names.append(i == 0 ? "" : ", ").append(unitNames[u]);
+        }
+        if (members.length > maxNames) {
+            names.append(" and ").append(members.length - maxNames).append(" more");
+        }
+        String zone = members.length + (members.length == 1 ? " unit" : " units") + " (" + names + ") with "
+                + Numbers.fixed(c.observed(), 0) + " observed against " + Numbers.fixed(c.expected(), 0)
+                + " expected, an excess of " + Numbers.fixed(c.excess(), 0) + " (relative risk "
+                + (Double.isInfinite(c.relativeRisk()) ? "unbounded" : Numbers.significant(c.relativeRisk(), 3)) + ")";
+        String test = "Kulldorff's scan statistic LLR = " + Numbers.significant(c.logLikelihoodRatio(), 3) + ", p = "
+                + Numbers.significant(result.pValue(), 2);
+        String reps = " (" + result.replicates() + " Monte Carlo replicates)";
+        if (result.pValue() <= alpha) {
+            return subject + ": a cluster of raised counts — " + zone + "; " + test + " ≤ " + level + reps + ".";
+        }
+        return subject + ": no cluster of raised counts at the " + level + " level — the most likely zone, " + zone
+                + ", has " + test + " > " + level + reps + ".";
     }
 
     /** Whether a one-sided Moran test is significant at alpha (the rule {@link #clustering} applies). */

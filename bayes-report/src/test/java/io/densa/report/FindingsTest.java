@@ -7,6 +7,8 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.estimate.EstimationDiagnostics;
 import io.densa.core.estimate.SmoothingCriterion;
+import io.densa.spatial.Locations;
+import io.densa.spatial.scan.SpatialScan;
 import io.densa.spatial.variogram.VariogramFit;
 import io.densa.spatial.variogram.VariogramFitOptions;
 import io.densa.spatial.variogram.VariogramModel;
@@ -28,6 +30,28 @@ class FindingsTest {
         assertTrue(Findings.clustering("D", "I", 0.1, 0.0501, 0.05).contains("no clustering"));
         assertThrows(IllegalArgumentException.class, () -> Findings.clustering("D", "I", 0.1, Double.NaN, 0.05));
         assertThrows(IllegalArgumentException.class, () -> Findings.clustering("D", "I", 0.1, 0.01, 1.5));
+    }
+
+    @Test
+    void scanClusterIsClaimedOnlyWhenItsTestIsSignificant() {
+        Locations line = Locations.planar(new double[] {0, 1, 2, 3, 4}, new double[5]);
+        double[] expected = {10, 10, 10, 10, 10};
+        String[] names = {"A", "B", "C", "D", "E"};
+        SpatialScan scan = SpatialScan.withDefaults().withReplicates(99, 1);
+        SpatialScan.Result strong = scan.test(line, new long[] {20, 18, 5, 4, 3}, expected);
+        String yes = Findings.scanCluster("Events", strong, names, 1, 0.05);
+        assertTrue(yes.startsWith("Events: a cluster of raised counts — 2 units (A and 1 more) with 38 observed "
+                + "against 20 expected, an excess of 18"), yes);
+        assertTrue(yes.contains("p = 0.01 ≤ 0.05 (99 Monte Carlo replicates)"), yes);
+        SpatialScan.Result weak = scan.test(line, new long[] {12, 9, 8, 11, 10}, expected);
+        String no = Findings.scanCluster("Events", weak, names, 3, 0.05);
+        assertTrue(weak.pValue() > 0.05, "" + weak.pValue());
+        assertTrue(no.startsWith("Events: no cluster of raised counts at the 0.05 level — the most likely zone"), no);
+        assertFalse(no.contains("a cluster of raised"), no);
+        String none = Findings.scanCluster("Events", scan.test(line, new long[] {10, 10, 10, 10, 10}, expected), names,
+                3, 0.05);
+        assertTrue(none.contains("no zone has more observed than expected events"), none);
+        assertThrows(IllegalArgumentException.class, () -> Findings.scanCluster("E", strong, names, 0, 0.05));
     }
 
     @Test

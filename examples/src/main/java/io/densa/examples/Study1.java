@@ -4,6 +4,7 @@ import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
 import io.densa.regression.AnomalyScoring;
 import io.densa.regression.Design;
+import io.densa.regression.ExcessCounts;
 import io.densa.regression.Fpca;
 import io.densa.regression.FunctionOnFunctionFit;
 import io.densa.regression.FunctionalRegression;
@@ -22,6 +23,7 @@ import io.densa.spatial.variogram.VariogramModel;
 import io.densa.spatial.variogram.VariogramOptions;
 import io.densa.spatial.autocorrelation.LocalMoran;
 import io.densa.spatial.autocorrelation.MoranI;
+import io.densa.spatial.scan.SpatialScan;
 import io.densa.spatial.SpatialWeights;
 import io.densa.report.Axis;
 import io.densa.report.Chart;
@@ -121,11 +123,13 @@ final class Study1 {
         describeScenario(run);
         estimateDensities(run);
         Baseline baseline = baseline(run);
-        Flags flags = flag(run, baseline);
+        Excess excess = excessCounts(run, baseline);
+        Flags flags = flag(run, baseline, excess);
         autocorrelation(run, baseline);
+        scan(run, excess);
         residualFpca(run, baseline);
         variogramAndSurface(run, baseline);
-        writeTables(run, baseline, flags);
+        writeTables(run, baseline, flags, excess);
         run.metrics.put("seconds", run.progress.seconds());
         run.report.keyNumber(String.format(Locale.ROOT, "Run time: %.1f s.", run.progress.seconds()));
         run.report.heading("Timing").paragraph(String.format(Locale.ROOT,
@@ -396,11 +400,11 @@ final class Study1 {
             double[] youngExpected, int truePositives, int falsePositives, int falseNegatives) {
     }
 
-    static Flags flag(Run run, Baseline b) {
+    static Flags flag(Run run, Baseline b, Excess ex) {
         AgeScenario sc = run.sc;
         int n = run.n;
         AnomalyScoring.Calibrated scorer = AnomalyScoring.withDefaults().withFdr(FDR)
-                .calibrate(b.standardisedCalibration(), AGE_MID);
+                .withRandomisedTies(run.options.seed()).calibrate(b.standardisedCalibration(), AGE_MID);
         AnomalyScoring.Report scores = scorer.score(b.standardisedLatest());
         double[] p = new double[n];
         double[] q = new double[n];
@@ -445,11 +449,24 @@ final class Study1 {
                 + " against the injected truth (%d shifted districts): **precision %.2f, recall %.2f**.", tp + fp, n,
                 FDR, tp + fn, precision, recall));
 
-        run.report.heading("Flags").paragraph(String.format(Locale.ROOT, "Split-conformal p-values (Vovk, Gammerman "
-                + "and Shafer 2005) of the standardised residual norms, p_i = (1 + #{calibration norms ≥ s_i}) / "
-                + "(n_cal + 1), with the %d district-transitions held out for calibration; flags where "
-                + "the Benjamini–Hochberg (1995) adjusted p-value is at most %.2f (Densa's `AnomalyScoring`).",
-                scores.calibrationSize(), FDR));
+        int n1 = scores.calibrationSize() + 1;
+        int beyond = 0;
+        for (int i = 0; i < n; i++) {
+            if (flagged[i] && p[i] < 1.0 / n1) {
+                beyond++;
+            }
+        }
+        run.metrics.put("flagsBeyondCalibration", (double) beyond);
+        run.report.heading("Flags").paragraph(String.format(Locale.ROOT, "Smoothed split-conformal p-values (Vovk, "
+                + "Gammerman and Shafer 2005) of the standardised residual norms, p_i = (#{calibration norms > s_i} + "
+                + "U_i·(1 + #{calibration norms = s_i})) / (n_cal + 1) with U_i uniform on (0, 1) (seeded), with the %d "
+                + "district-transitions held out for calibration; flags where the Benjamini–Hochberg (1995) adjusted "
+                + "p-value is at most %.2f (Densa's `AnomalyScoring`). Under no change the smoothed p-value is exactly "
+                + "uniform, and it never exceeds the ordinary one, (1 + #{calibration norms ≥ s_i}) / (n_cal + 1). "
+                + "%d of the %d flagged districts exceed every calibration norm: the ordinary p-value would give them "
+                + "all the same 1/%d, and the smoothed one orders them at random, so neither ranks them. The table "
+                + "below ranks flagged districts by their displaced visits instead.", scores.calibrationSize(), FDR,
+                beyond, tp + fp, n1));
         run.report.paragraph(String.format(Locale.ROOT, "**Self-score against the injected truth:** %d flagged, %d "
                 + "of them truly shifted; %d shifted %s missed. **Precision %.2f, recall %.2f.**", tp + fp, tp, fn,
                 fn == 1 ? "district" : "districts", precision, recall) + sizeComparison(run, flagged));
@@ -469,22 +486,197 @@ final class Study1 {
                 + fdr), "Anomaly score: squared B2 norm of the standardised residual density (logarithmic colour "
                 + "scale); flagged districts outlined.");
 
-        int[] order = sortedBy(n, i -> p[i]);
-        int[] flaggedRows = Arrays.stream(order).filter(i -> flagged[i]).toArray();
+        int[] flaggedRows = Arrays.stream(ex.result().rankByDisplaced()).filter(i -> flagged[i]).toArray();
+        String[] displacedText = new String[n];
+        String[][] bandText = new String[2][n];
+        for (int i = 0; i < n; i++) {
+            ExcessCounts.UnitExcess u = ex.result().units().get(i);
+            displacedText[i] = withInterval(u.displaced().value(), u.displaced().lower(), u.displaced().upper(), false);
+            for (int t = 0; t < 2; t++) {
+                ExcessCounts.BandExcess e = u.bands().get(t);
+                bandText[t][i] = withInterval(e.excess(), e.lower(), e.upper(), true);
+            }
+        }
         Table shown = Table.of(n).text("code", codes(run.region)).text("name", names(run.region))
-                .integer("visits", "visits", latestTotals(run)).probability("p", "conformal p", p)
-                .probability("q", "BH q", q).text("excess_ages", "excess at ages", excess)
-                .text("deficit_ages", "deficit at ages", deficit)
-                .percent("under25_observed", "under 25 observed", youngObs, 1)
-                .percent("under25_expected", "under 25 expected", youngExp, 1)
+                .integer("visits", "visits", latestTotals(run)).probability("p", "smoothed conformal p", p)
+                .probability("q", "BH q", q)
+                .text("displaced", "visits displaced (90 % interval)", displacedText)
+                .text("excess_0_14", "excess ages 0–14", bandText[0])
+                .text("excess_15_24", "excess ages 15–24", bandText[1])
+                .text("excess_ages", "excess at ages", excess)
                 .flag("truth_shifted", "shifted (truth)", sc.shifted()).select(flaggedRows);
-        run.report.subheading("Flagged districts").paragraph("Where each flagged district departs: the age ranges "
-                + "where its standardised residual clr leaves the calibration set's central 95 % pointwise band "
-                + "(excess: more visits at those ages than the baseline expects; deficit: fewer), and the share of "
-                + "visits under 25 observed against the baseline's expectation. Ordered by p-value; p- and q-values "
-                + "are shown with the digits needed to rank them (equal values are true ties).");
+        if (flaggedRows.length > 0) {
+            ExcessCounts.UnitExcess top = ex.result().units().get(flaggedRows[0]);
+            run.report.keyNumber(String.format(Locale.ROOT, "Largest departure among the flags: %s %s, %s visits "
+                    + "displaced between age bands (90 %% interval %s to %s) of %d.", codes(run.region)[flaggedRows[0]],
+                    names(run.region)[flaggedRows[0]], Numbers.fixed(top.displaced().value(), 0),
+                    Numbers.fixed(top.displaced().lower(), 0), Numbers.fixed(top.displaced().upper(), 0),
+                    run.sc.total(flaggedRows[0], latest)));
+        }
+        run.report.subheading("Flagged districts").paragraph("Where each flagged district departs, in visits: the "
+                + "visits displaced between the age bands " + ex.bandNames() + " against the baseline (see "
+                + "\"Excess visits\" above), the excess (observed − expected) at ages 0–14 and 15–24, each with its 90 % "
+                + "bootstrap interval, and the age ranges where the standardised residual clr leaves the calibration "
+                + "set's central 95 % pointwise band (more visits at those ages than the baseline expects). Ranked by "
+                + "displaced visits, largest first.");
         run.report.table(shown);
         return new Flags(p, q, flagged, excess, deficit, youngObs, youngExp, tp, fp, fn);
+    }
+
+    // ------------------------------------------------------------------ excess visits
+
+    /** Age bands of the excess counts (years). */
+    static final double[] BANDS = {0, 15, 25, 45, 65, 100};
+
+    /** Excess counts of every district against the baseline. */
+    record Excess(ExcessCounts.Result result, long[] youngObserved, double[] youngExpected, double[] youngExcess) {
+        String bandNames() {
+            StringBuilder sb = new StringBuilder();
+            for (int t = 0; t + 1 < BANDS.length; t++) {
+                sb.append(t == 0 ? "" : t + 2 == BANDS.length ? " and " : ", ");
+                sb.append(t + 2 == BANDS.length ? (int) BANDS[t] + "+" : (int) BANDS[t] + "–" + ((int) BANDS[t + 1] - 1));
+            }
+            return sb.toString();
+        }
+    }
+
+    /**
+     * Visits in excess of the baseline by age band, with a parametric bootstrap interval that
+     * carries the counting noise (Poisson band counts) and the baseline's prediction uncertainty
+     * (Gaussian coordinates with covariance (a·u_previous + b)·S/tr S: the part of the residual
+     * variance model not due to the current season's counting noise, shaped like the calibration
+     * residuals' second moments S).
+     */
+    static Excess excessCounts(Run run, Baseline b) {
+        AgeScenario sc = run.sc;
+        int n = run.n;
+        int latest = sc.seasons() - 1;
+        long[][] counts = new long[n][AgeScenario.AGES];
+        for (int i = 0; i < n; i++) {
+            for (int a = 0; a < AgeScenario.AGES; a++) {
+                counts[i][a] = sc.counts()[i][latest][a];
+            }
+        }
+        double[] edges = new double[AgeScenario.AGES + 1];
+        for (int a = 0; a <= AgeScenario.AGES; a++) {
+            edges[a] = a;
+        }
+        double[][] cal = b.standardisedCalibration().coordinates();
+        int k = run.space.dimension();
+        double[][] shape = new double[k][k];
+        double trace = 0;
+        for (double[] row : cal) {
+            for (int r = 0; r < k; r++) {
+                for (int c = 0; c < k; c++) {
+                    shape[r][c] += row[r] * row[c] / cal.length;
+                }
+            }
+        }
+        for (int r = 0; r < k; r++) {
+            trace += shape[r][r];
+        }
+        for (double[] row : shape) {
+            for (int c = 0; c < k; c++) {
+                row[c] /= trace;
+            }
+        }
+        double[] scales = new double[n];
+        for (int i = 0; i < n; i++) {
+            scales[i] = b.varianceA() * run.estimationVariance[latest - 1][i] + b.varianceB();
+        }
+        long t0 = System.nanoTime();
+        ExcessCounts.Result r = ExcessCounts.withDefaults().withLevel(0.90).withDraws(999, run.options.seed())
+                .estimate(b.predictedLatest(), counts, edges, BANDS, ExcessCounts.BaselineError.scaled(shape, scales));
+        long[] youngObs = new long[n];
+        double[] youngExp = new double[n];
+        double[] youngExcess = new double[n];
+        double displacedAll = 0;
+        for (int i = 0; i < n; i++) {
+            ExcessCounts.UnitExcess u = r.units().get(i);
+            for (int t = 0; t < 2; t++) {
+                youngObs[i] += (long) u.bands().get(t).observed();
+                youngExp[i] += u.bands().get(t).expected();
+            }
+            youngExcess[i] = youngObs[i] - youngExp[i];
+            displacedAll += u.displaced().value();
+        }
+        Excess ex = new Excess(r, youngObs, youngExp, youngExcess);
+        double secs = (System.nanoTime() - t0) / 1e9;
+        run.progress.line(String.format(Locale.ROOT, "excess visits by age band for %d districts (%d bootstrap draws "
+                + "each, %.1f s)", n, r.draws(), secs));
+        run.report.heading("Excess visits").paragraph("For each district and age band (" + ex.bandNames() + " years) "
+                + "the expected visits are the district's visits in the latest season times the baseline prediction's "
+                + "share of that band (Densa's `ExcessCounts`); the excess is observed − expected, and the visits "
+                + "displaced are the sum of the positive excesses over the bands (the visits that would have to change "
+                + "band for the district to match its baseline). Each comes with a 90 % interval from a parametric "
+                + "bootstrap (Efron and Tibshirani 1993) of 999 seeded draws that carries both the counting noise "
+                + "(band counts redrawn as Poisson with the observed means) and the baseline's prediction uncertainty "
+                + String.format(Locale.ROOT, "(its coordinates redrawn from a normal law whose size, a·u_previous + b "
+                + "with a = %.3g and b = %.3g from the residual model above, leaves out the current season's counting "
+                + "noise, and whose shape is that of the calibration residuals). ", b.varianceA(), b.varianceB())
+                + "Counting noise alone makes displaced visits positive, so compare a district's interval with those "
+                + "of unflagged districts of its size rather than with zero.");
+        run.report.paragraph(String.format(Locale.ROOT, "Across all %d districts %,.0f visits are displaced between "
+                + "bands in the latest season; at ages 0–24 the districts have %,d visits against %,.0f expected.",
+                n, displacedAll, Arrays.stream(youngObs).sum(), Arrays.stream(youngExp).sum()));
+        return ex;
+    }
+
+    /** "+212 (170 to 251)" or "212 (170 to 251)". */
+    static String withInterval(double v, double lo, double hi, boolean signed) {
+        return signed ? String.format(Locale.ROOT, "%+.0f (%+.0f to %+.0f)", v, lo, hi)
+                : String.format(Locale.ROOT, "%.0f (%.0f to %.0f)", v, lo, hi);
+    }
+
+    /** Kulldorff's scan statistic on the visits at ages 0–24 against the baseline's expectation. */
+    static void scan(Run run, Excess ex) {
+        Locations loc = Locations.planar(run.region.xs(), run.region.ys());
+        SpatialScan.Result r = SpatialScan.withDefaults().withMaxShare(0.5).withReplicates(999, run.options.seed())
+                .test(loc, ex.youngObserved(), ex.youngExpected());
+        SpatialScan.Cluster c = r.mostLikely();
+        boolean[] member = new boolean[run.n];
+        int shiftedInside = 0;
+        for (int u : c.members()) {
+            member[u] = true;
+            if (run.sc.shifted()[u]) {
+                shiftedInside++;
+            }
+        }
+        String[] label = new String[run.n];
+        for (int i = 0; i < run.n; i++) {
+            label[i] = run.region.units().get(i).code() + " " + run.region.units().get(i).name();
+        }
+        String statement = Findings.scanCluster("Visits at ages 0–24 against the baseline", r, label, 6, ALPHA);
+        run.metrics.put("scanP", r.pValue());
+        run.metrics.put("scanClusterSize", (double) c.members().length);
+        run.metrics.put("scanClusterShifted", (double) shiftedInside);
+        run.progress.line(String.format(Locale.ROOT, "spatial scan of visits at ages 0–24: most likely cluster of %d "
+                + "districts (%d shifted), excess %.0f, p = %.3f", c.members().length, shiftedInside, c.excess(),
+                r.pValue()));
+        run.report.keyNumber(statement);
+        run.report.heading("Cluster of excess young visits").paragraph(String.format(Locale.ROOT, "Kulldorff's (1997) "
+                + "spatial scan statistic under the Poisson model (Densa's `SpatialScan`): observed visits at ages 0–24 "
+                + "per district against the baseline's expected visits at those ages. Candidate zones are circles "
+                + "around each district's site, grown by nearest districts up to half the expected visits; each zone's "
+                + "log-likelihood ratio compares a raised rate inside with one rate everywhere (expected counts "
+                + "rescaled to the observed total, %,d visits; %,d zones), and the most likely cluster is tested by "
+                + "%d seeded Monte Carlo replicates that spread the visits over the districts in proportion to their "
+                + "expectation.", r.totalObserved(), r.zones(), r.replicates()))
+                .paragraph("**" + statement + "**");
+        if (c.members().length > 0) {
+            run.report.paragraph(String.format(Locale.ROOT, "Against the injected truth: %d of the zone's %d districts "
+                    + "were shifted (of %d shifted in all).", shiftedInside, c.members().length, count(run.sc.shifted())));
+        }
+        double[] abs = Arrays.stream(ex.youngExcess()).map(Math::abs).sorted().toArray();
+        double max = Math.max(1, abs[(int) Math.floor(0.98 * (abs.length - 1))]);
+        ColourScale scale = ColourScale.diverging(max, "excess visits at ages 0–24", "visits");
+        run.report.figure("map_excess.png", Maps.choropleth(run.frame, ex.youngExcess(), scale,
+                "Excess visits at ages 0–24 and the most likely cluster").withFlagged(member, "most likely cluster "
+                + "(scan p = " + Numbers.significant(r.pValue(), 2) + ")").withLegendNote("Colours saturate at ±"
+                + Numbers.significant(scale.upper(), 3) + " visits (the 98th percentile of |excess| is "
+                + Numbers.significant(max, 3) + ")."),
+                "Observed − expected visits at ages 0–24 per district (diverging colours: brick above the baseline, "
+                + "blue below); the districts of the scan's most likely cluster are outlined.");
     }
 
     /** Median visits of the detected and of the missed shifted districts, as a sentence. */
@@ -719,7 +911,7 @@ final class Study1 {
 
     // ------------------------------------------------------------------ output
 
-    static void writeTables(Run run, Baseline b, Flags f) {
+    static void writeTables(Run run, Baseline b, Flags f, Excess ex) {
         AgeScenario sc = run.sc;
         int n = run.n;
         double[] median = run.seasons[sc.seasons() - 1].quantiles(0.5);
@@ -735,6 +927,30 @@ final class Study1 {
                 .percent("under25_expected", "under 25 expected", f.youngExpected(), 1)
                 .flag("truth_shifted", "shifted (truth)", sc.shifted())
                 .number("truth_shift_fraction", "shifted share of visits (truth)", sc.shiftFraction(), 3);
+        int nb = BANDS.length - 1;
+        double[][] bandValues = new double[3 * nb + 3][n];
+        for (int i = 0; i < n; i++) {
+            ExcessCounts.UnitExcess u = ex.result().units().get(i);
+            for (int t = 0; t < nb; t++) {
+                ExcessCounts.BandExcess e = u.bands().get(t);
+                bandValues[3 * t][i] = e.excess();
+                bandValues[3 * t + 1][i] = e.lower();
+                bandValues[3 * t + 2][i] = e.upper();
+            }
+            bandValues[3 * nb][i] = u.displaced().value();
+            bandValues[3 * nb + 1][i] = u.displaced().lower();
+            bandValues[3 * nb + 2][i] = u.displaced().upper();
+        }
+        for (int t = 0; t < nb; t++) {
+            String band = (int) BANDS[t] + "_" + ((int) BANDS[t + 1] - 1);
+            String label = "excess ages " + (int) BANDS[t] + "–" + ((int) BANDS[t + 1] - 1);
+            run.table = run.table.number("excess_" + band, label, bandValues[3 * t], 1)
+                    .number("excess_" + band + "_lo90", label + ", 90 % interval from", bandValues[3 * t + 1], 1)
+                    .number("excess_" + band + "_hi90", label + ", 90 % interval to", bandValues[3 * t + 2], 1);
+        }
+        run.table = run.table.number("displaced", "visits displaced", bandValues[3 * nb], 1)
+                .number("displaced_lo90", "visits displaced, 90 % interval from", bandValues[3 * nb + 1], 1)
+                .number("displaced_hi90", "visits displaced, 90 % interval to", bandValues[3 * nb + 2], 1);
         run.report.csv("districts.csv", run.table);
         run.report.geoJson("districts.geojson", shapes(run.region).stream().map(run.region.projection()::toLonLat)
                 .toList(), run.table.unitValues("code"));
@@ -760,7 +976,9 @@ final class Study1 {
                 "`districts.csv` and `districts.geojson` — one row / feature per district: covariates, visits, "
                         + "median age, residual norm, anomaly score, conformal p-value, BH q-value, flag, the age "
                         + "ranges of excess and of deficit (columns `excess_ages` and `deficit_ages`), local pattern, "
-                        + "residual FPCA scores and the injected truth.",
+                        + "residual FPCA scores, the injected truth, and the excess visits per age band and the "
+                        + "visits displaced with their 90 % intervals (`excess_0_14`, `excess_0_14_lo90`, "
+                        + "`excess_0_14_hi90`, …, `displaced`, `displaced_lo90`, `displaced_hi90`).",
                 "`counts.csv` — the invented input: visits by district, season and single year of age.",
                 "PNG figures shown above."));
     }

@@ -129,6 +129,14 @@ class StudiesTest {
         String header = Files.readAllLines(r.folder().resolve("districts.csv")).get(0);
         assertTrue(header.chars().allMatch(c -> c < 128), "non-ASCII header: " + header);
         assertTrue(header.contains(",excess_ages,deficit_ages,"), header);
+        assertTrue(header.contains(",excess_0_14,excess_0_14_lo90,excess_0_14_hi90,") && header.contains(
+                ",displaced,displaced_lo90,displaced_hi90"), header);
+        // the scan's cluster statement follows its Monte Carlo test at the study's level
+        boolean cluster = r.metrics().get("scanP") <= Study1.ALPHA;
+        assertEquals(cluster, md.contains("Visits at ages 0–24 against the baseline: a cluster of raised counts"));
+        assertEquals(!cluster, md.contains("Visits at ages 0–24 against the baseline: no cluster of raised counts"));
+        // the injected shift is spatially clustered, so the scan must find a cluster of shifted districts
+        assertTrue(cluster && r.metrics().get("scanClusterShifted") >= 1, "scan: " + r.metrics());
         assertTrue(md.contains("Benjamini–Hochberg"), "wording");
     }
 

@@ -2,8 +2,9 @@
  * Internal kernels shared by the Densa modules: dense row-major products and blocked sums
  * ({@code Kernels}), seeded streams, permutations and folds ({@code Seeds}), the Cholesky
  * factorisation with its triangular solves and inverses ({@code Cholesky}), Gauss–Legendre rules,
- * the raw basis functions and their roughness penalty, record array helpers, sample quantiles and
- * progress counting. Internal: exported only to the regression and spatial modules and not
+ * the raw basis functions and their roughness penalty, record array helpers, sample quantiles,
+ * exact count samplers ({@code CountSampling}) and progress counting. Internal: exported only to
+ * the regression and spatial modules and not
  * published in the javadoc; may change without notice. Every kernel is deterministic: parallel and
  * serial runs give bit-identical results.
  */

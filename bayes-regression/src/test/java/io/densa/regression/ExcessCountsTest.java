@@ -1,0 +1,236 @@
+package io.densa.regression;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import io.densa.core.BayesSpace;
+import io.densa.core.DensitySet;
+import java.util.SplittableRandom;
+import org.apache.commons.math3.distribution.NormalDistribution;
+import org.apache.commons.math3.distribution.PoissonDistribution;
+import org.apache.commons.math3.random.Well19937c;
+import org.junit.jupiter.api.Test;
+
+/**
+ * {@link ExcessCounts} against outside references: band probabilities of truncated normal
+ * densities (a polynomial Bayes space of degree 2 holds them exactly) against Commons Math's normal
+ * CDF; the bootstrap interval with a known baseline against the delta-method normal interval of the
+ * Poisson model; and the coverage of 90 % intervals on simulated data with known truth.
+ */
+class ExcessCountsTest {
+    private static final double A = 0;
+    private static final double B = 10;
+    private static final BayesSpace SPACE = BayesSpace.polynomials(A, B, 2);
+    private static final double[] BIN_EDGES = new double[11];
+    private static final double[] BANDS = {0, 2, 5, 10};
+
+    static {
+        for (int j = 0; j <= 10; j++) {
+            BIN_EDGES[j] = j;
+        }
+    }
+
+    private static double[] truncatedNormal(double mu, double sd) {
+        return SPACE.projectLogPdf(x -> -(x - mu) * (x - mu) / (2 * sd * sd)).density().coordinates();
+    }
+
+    /** P(X in [lo, hi]) for a normal(mu, sd) truncated to [A, B] (Commons Math 3.6.1 normal CDF). */
+    private static double truncatedNormalProbability(double mu, double sd, double lo, double hi) {
+        NormalDistribution nd = new NormalDistribution(null, mu, sd);
+        return (nd.cumulativeProbability(hi) - nd.cumulativeProbability(lo))
+                / (nd.cumulativeProbability(B) - nd.cumulativeProbability(A));
+    }
+
+    private static long[] counts(double[] bandCounts) {
+        // spread each band's count over its first bin (band totals are all that matter)
+        long[] c = new long[10];
+        c[0] = (long) bandCounts[0];
+        c[2] = (long) bandCounts[1];
+        c[5] = (long) bandCounts[2];
+        return c;
+    }
+
+    @Test
+    void bandProbabilitiesMatchTruncatedNormal() {
+        double[] bands = {0, 1.5, 2, 4.25, 7, 10};
+        for (double[] ms : new double[][] {{3, 1.2}, {6.5, 2.5}, {-1, 4}, {9.5, 0.8}}) {
+            double[] p = ExcessCounts.bandProbabilities(SPACE, truncatedNormal(ms[0], ms[1]), bands);
+            for (int t = 0; t + 1 < bands.length; t++) {
+                assertEquals(truncatedNormalProbability(ms[0], ms[1], bands[t], bands[t + 1]), p[t], 1e-8,
+                        "mu " + ms[0] + " sd " + ms[1] + " band " + t);
+            }
+        }
+    }
+
+    @Test
+    void bandProbabilitiesMatchTheSpacesCdfOnASplineSpace() {
+        // a bimodal age profile in a cubic-spline space: the quadrature against Density.cdf (the space's own
+        // Gauss–Legendre rule per knot span, checked by its own tests), relative error below 1e-6
+        BayesSpace splines = BayesSpace.splines(0, 100, 4, new double[] {2, 6, 12, 20, 30, 42, 55, 68, 80, 90});
+        io.densa.core.Density f = splines.projectLogPdf(x -> Math.log(0.6 * Math.exp(-Math.pow((x - 8) / 5, 2))
+                + 0.4 * Math.exp(-Math.pow((x - 70) / 12, 2)) + 1e-3)).density();
+        double[] bands = {0, 15, 25, 45, 65, 100};
+        double[] p = ExcessCounts.bandProbabilities(splines, f.coordinates(), bands);
+        for (int t = 0; t + 1 < bands.length; t++) {
+            double ref = f.cdf(bands[t + 1]) - f.cdf(bands[t]);
+            assertEquals(ref, p[t], 1e-6 * ref, "band " + t);
+        }
+    }
+
+    @Test
+    void knownBaselineIntervalMatchesDeltaMethod() {
+        // O(B) − N π(B) under independent Poisson band counts: variance O(1 − π)² + π²(N − O), the delta
+        // method (common practice); with thousands of events the percentile interval must match the normal one.
+        double[] c = truncatedNormal(4, 2);
+        double[] pi = {truncatedNormalProbability(4, 2, 0, 2), truncatedNormalProbability(4, 2, 2, 5),
+            truncatedNormalProbability(4, 2, 5, 10)};
+        double[] band = {3000, 9000, 8000};
+        double n = band[0] + band[1] + band[2];
+        DensitySet baseline = DensitySet.of(SPACE, new double[][] {c});
+        ExcessCounts.Result r = ExcessCounts.withDefaults().withDraws(4000, 5).estimate(baseline,
+                new long[][] {counts(band)}, BIN_EDGES, BANDS, ExcessCounts.BaselineError.none());
+        double z = new NormalDistribution().inverseCumulativeProbability(0.95);
+        for (int t = 0; t < 3; t++) {
+            ExcessCounts.BandExcess e = r.units().get(0).bands().get(t);
+            double sd = Math.sqrt(band[t] * (1 - pi[t]) * (1 - pi[t]) + pi[t] * pi[t] * (n - band[t]));
+            assertEquals(band[t] - n * pi[t], e.excess(), 1e-6 * n, "point estimate, band " + t);
+            // Monte Carlo error of a 5 % quantile from 4000 draws ≈ 0.033 sd; allow 0.12 sd
+            assertEquals(e.excess() - z * sd, e.lower(), 0.12 * sd, "lower end, band " + t);
+            assertEquals(e.excess() + z * sd, e.upper(), 0.12 * sd, "upper end, band " + t);
+        }
+        assertEquals(0, r.units().get(0).overall().excess(), 0);
+    }
+
+    @Test
+    void expectedTotalsGiveOverallPoissonInterval() {
+        // overall excess N − T with T known: N* ~ Poisson(N), interval N − T ± 1.645 √N (normal approximation)
+        double[] c = truncatedNormal(4, 2);
+        double[] band = {300, 900, 800};
+        ExcessCounts.Result r = ExcessCounts.withDefaults().withDraws(4000, 6).estimate(
+                DensitySet.of(SPACE, new double[][] {c}), new long[][] {counts(band)}, BIN_EDGES, BANDS,
+                ExcessCounts.BaselineError.none(), new double[] {1800});
+        ExcessCounts.BandExcess o = r.units().get(0).overall();
+        assertEquals(200, o.excess(), 1e-9);
+        double sd = Math.sqrt(2000);
+        assertEquals(200 - 1.645 * sd, o.lower(), 0.15 * sd);
+        assertEquals(200 + 1.645 * sd, o.upper(), 0.15 * sd);
+        assertEquals(1800 * truncatedNormalProbability(4, 2, 0, 2), r.units().get(0).bands().get(0).expected(), 1e-5);
+    }
+
+    @Test
+    void ninetyPercentIntervalsCoverWithBaselineError() {
+        // Simulation with known truth: true baseline c0 (normal 4, 2), the unit's true profile mixes in a
+        // young component (normal 1.5, 0.8) with share 0.25; λ = 400 expected events, counts Poisson per
+        // band; the baseline given to the method is c0 + F z with Σ = diag(0.2, 0.1). Target quantity:
+        // λ(p(B) − π(B)). 300 units = 300 replicates, 299 draws each.
+        double[] c0 = truncatedNormal(4, 2);
+        double[] pi = {truncatedNormalProbability(4, 2, 0, 2), truncatedNormalProbability(4, 2, 2, 5),
+            truncatedNormalProbability(4, 2, 5, 10)};
+        double share = 0.25;
+        double[] p = new double[3];
+        double[][] young = {{0, 2}, {2, 5}, {5, 10}};
+        for (int t = 0; t < 3; t++) {
+            p[t] = (1 - share) * pi[t] + share * truncatedNormalProbability(1.5, 0.8, young[t][0], young[t][1]);
+        }
+        double lambda = 400;
+        int n = 300;
+        double[][] cov = {{0.2, 0}, {0, 0.1}};
+        SplittableRandom rng = new SplittableRandom(77);
+        double[][] cHat = new double[n][];
+        long[][] cnt = new long[n][];
+        for (int i = 0; i < n; i++) {
+            cHat[i] = new double[] {c0[0] + Math.sqrt(0.2) * rng.nextGaussian(), c0[1] + Math.sqrt(0.1) * rng.nextGaussian()};
+            double[] band = new double[3];
+            for (int t = 0; t < 3; t++) {
+                PoissonDistribution pd = new PoissonDistribution(new Well19937c(rng.nextLong()), lambda * p[t],
+                        PoissonDistribution.DEFAULT_EPSILON, PoissonDistribution.DEFAULT_MAX_ITERATIONS);
+                band[t] = pd.sample();
+            }
+            cnt[i] = counts(band);
+        }
+        ExcessCounts.Result r = ExcessCounts.withDefaults().withDraws(299, 8).estimate(DensitySet.of(SPACE, cHat),
+                cnt, BIN_EDGES, BANDS, ExcessCounts.BaselineError.common(cov));
+        for (int t = 0; t < 3; t++) {
+            double truth = lambda * (p[t] - pi[t]);
+            int covered = 0;
+            for (ExcessCounts.UnitExcess u : r.units()) {
+                ExcessCounts.BandExcess e = u.bands().get(t);
+                if (e.lower() <= truth && truth <= e.upper()) {
+                    covered++;
+                }
+            }
+            double coverage = covered / (double) n;
+            assertTrue(coverage >= 0.85 && coverage <= 0.95, "band " + t + ": coverage " + coverage
+                    + " (truth " + truth + ")");
+        }
+    }
+
+    @Test
+    void baselineErrorWidensTheInterval() {
+        double[] c = truncatedNormal(4, 2);
+        DensitySet b = DensitySet.of(SPACE, new double[][] {c});
+        long[][] cnt = {counts(new double[] {300, 900, 800})};
+        ExcessCounts ex = ExcessCounts.withDefaults().withDraws(999, 3);
+        ExcessCounts.BandExcess none = ex.estimate(b, cnt, BIN_EDGES, BANDS, ExcessCounts.BaselineError.none())
+                .units().get(0).bands().get(0);
+        ExcessCounts.BandExcess some = ex.estimate(b, cnt, BIN_EDGES, BANDS,
+                ExcessCounts.BaselineError.common(new double[][] {{0.05, 0}, {0, 0.05}})).units().get(0).bands().get(0);
+        assertTrue(some.upper() - some.lower() > 1.2 * (none.upper() - none.lower()),
+                none + " vs " + some);
+        assertEquals(none.excess(), some.excess(), 0);
+    }
+
+    @Test
+    void selectedQuantilesEqualSortedOnes() {
+        // selection against core's sorted-array quantile (both definition 7 of Hyndman & Fan 1996), with ties
+        SplittableRandom rng = new SplittableRandom(4);
+        for (int len : new int[] {9, 10, 999, 1000}) {
+            for (int rep = 0; rep < 20; rep++) {
+                double[] x = new double[len];
+                for (int i = 0; i < len; i++) {
+                    x[i] = rep % 2 == 0 ? rng.nextGaussian() : rng.nextInt(7);
+                }
+                double[] sorted = x.clone();
+                java.util.Arrays.sort(sorted);
+                for (double p : new double[] {0, 0.05, 0.5, 0.95, 1}) {
+                    assertEquals(io.densa.core.internal.SampleQuantiles.sorted(sorted, p),
+                            ExcessCounts.Plan.quantile(x.clone(), p), 0.0, "len " + len + " p " + p);
+                }
+            }
+        }
+    }
+
+    @Test
+    void fastExponentialAgreesWithMathExp() {
+        // against java.lang.Math.exp (within 1 ulp of the exact value by its specification), relative 1e-14
+        SplittableRandom rng = new SplittableRandom(5);
+        for (int i = 0; i < 200_000; i++) {
+            double y = i < 100 ? -i * 0.5 : -rng.nextDouble() * (i % 2 == 0 ? 50 : 700);
+            double ref = Math.exp(y);
+            assertEquals(ref, ExcessCounts.expNonPositive(y), 1e-14 * ref, "y = " + y);
+        }
+        assertEquals(1.0, ExcessCounts.expNonPositive(0), 1e-16);
+        assertTrue(ExcessCounts.expNonPositive(-1e6) < 1e-300);
+    }
+
+    @Test
+    void badInputIsNamed() {
+        DensitySet b = DensitySet.of(SPACE, new double[][] {truncatedNormal(4, 2)});
+        ExcessCounts ex = ExcessCounts.withDefaults();
+        long[][] cnt = {new long[10]};
+        ExcessCounts.BaselineError none = ExcessCounts.BaselineError.none();
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+                () -> ex.estimate(b, cnt, BIN_EDGES, new double[] {0, 2.5, 10}, none));
+        assertTrue(e.getMessage().contains("bandEdges[1] = 2.5"), e.getMessage());
+        long[][] neg = {new long[10]};
+        neg[0][3] = -1;
+        e = assertThrows(IllegalArgumentException.class, () -> ex.estimate(b, neg, BIN_EDGES, BANDS, none));
+        assertTrue(e.getMessage().contains("bin 3"), e.getMessage());
+        assertThrows(IllegalArgumentException.class, () -> ExcessCounts.BaselineError.common(
+                new double[][] {{1, 0}, {0, -1}}));
+        assertThrows(IllegalArgumentException.class, () -> ex.withLevel(Double.NaN));
+        assertThrows(IllegalArgumentException.class, () -> ex.estimate(b, cnt, BIN_EDGES, BANDS,
+                ExcessCounts.BaselineError.common(new double[][] {{1}})));
+    }
+}
