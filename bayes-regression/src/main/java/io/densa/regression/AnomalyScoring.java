@@ -206,6 +206,21 @@ public final class AnomalyScoring {
             return sorted.length;
         }
 
+        /** The configuration (FDR and band level) this calibration scores with. */
+        public AnomalyScoring configuration() {
+            return cfg;
+        }
+
+        /** The space of the calibration residuals. */
+        public BayesSpace space() {
+            return space;
+        }
+
+        /** Residual norms of the calibration units, sorted ascending (fresh array). */
+        public double[] calibrationNorms() {
+            return sorted.clone();
+        }
+
         /**
          * The pointwise band: for each grid point x, the (1 ∓ level)/2 sample quantiles of the
          * calibration residual clr values at x, by linear interpolation between order statistics
