@@ -12,9 +12,8 @@ import java.util.Objects;
  *
  * @param coefficients     stacked coefficients, {@code offsets[last]} rows × r columns, row-major: the
  *                         design columns first, then the coordinates of each predictor's kernel
- * @param designColumns    number of design columns (the first offset)
- * @param offsets          row offsets of the blocks: offsets[0] = designColumns, offsets[j + 1] −
- *                         offsets[j] = dimension of predictor j
+ * @param offsets          row offsets of the blocks: offsets[0] = number of design columns,
+ *                         offsets[j + 1] − offsets[j] = dimension of predictor j
  * @param chosen           the tuning of the final fit
  * @param candidates       every candidate tried, in order
  * @param fitted           n × r fitted values (row-major)
@@ -23,7 +22,7 @@ import java.util.Objects;
  * @param predictorFpca    FPCA of each predictor (truncation), or empty (ridge)
  * @param predictorSpaces  the space of each predictor
  */
-public record FunctionalFitState(double[] coefficients, int designColumns, int[] offsets,
+public record FunctionalFitState(double[] coefficients, int[] offsets,
         FunctionalRegression.Candidate chosen, List<FunctionalRegression.Candidate> candidates, double[] fitted,
         double[] residuals, double rSquared, List<Fpca> predictorFpca, List<BayesSpace> predictorSpaces) {
 
@@ -64,7 +63,7 @@ public record FunctionalFitState(double[] coefficients, int designColumns, int[]
     }
 
     static FunctionalFitState of(LinearFunctionalEngine.Result res) {
-        return new FunctionalFitState(res.beta(), res.pz(), res.offsets(), res.chosen(), res.candidates(),
+        return new FunctionalFitState(res.beta(), res.offsets(), res.chosen(), res.candidates(),
                 res.fitted(), res.residuals(), res.rSquared(), res.predictorFpca(), res.predictorSpaces());
     }
 
@@ -76,7 +75,7 @@ public record FunctionalFitState(double[] coefficients, int designColumns, int[]
         if (np < 1) {
             throw new IllegalArgumentException(what + ": at least one predictor space is required");
         }
-        if (designColumns != design.columns() || offsets.length != np + 1 || offsets[0] != designColumns) {
+        if (offsets.length != np + 1 || offsets[0] != design.columns()) {
             throw new IllegalArgumentException(what + ": offsets " + java.util.Arrays.toString(offsets)
                     + " do not match " + design.columns() + " design column(s) and " + np + " predictor(s)");
         }
@@ -100,7 +99,7 @@ public record FunctionalFitState(double[] coefficients, int designColumns, int[]
         if (!Double.isFinite(rSquared)) {
             throw new IllegalArgumentException(what + ": R² is not finite: " + rSquared);
         }
-        return new LinearFunctionalEngine.Result(coefficients.clone(), designColumns, r, offsets.clone(), chosen,
+        return new LinearFunctionalEngine.Result(coefficients.clone(), offsets[np], r, offsets.clone(), chosen,
                 candidates, fitted.clone(), residuals.clone(), rSquared, predictorFpca, predictorSpaces);
     }
 }

@@ -303,7 +303,7 @@ final class Codecs {
     static void state(Out o, String name, FunctionalFitState s, int r) {
         int[] off = s.offsets();
         o.begin(name).doubles("coefficients", s.coefficients(), off[off.length - 1], r)
-                .integer("designColumns", s.designColumns()).beginList("offsets");
+                .beginList("offsets");
         for (int v : off) {
             o.integerItem(v);
         }
@@ -709,7 +709,6 @@ final class Codecs {
             off[i] = offNodes.get(i).integer(0, n.context().limits.maxElements());
         }
         double[] coef = n.get("coefficients").doubles(off[off.length - 1], r);
-        int pz = n.get("designColumns").integer(0, Integer.MAX_VALUE);
         FunctionalRegression.Candidate chosen = readCandidate(n.get("chosen"));
         List<FunctionalRegression.Candidate> cands = new ArrayList<>();
         for (Node c : n.get("candidates").list()) {
@@ -726,7 +725,7 @@ final class Codecs {
         for (Node s : n.get("predictorSpaces").list()) {
             sp.add(readSpace(s.get("space")));
         }
-        return restoring(n, () -> new FunctionalFitState(coef, pz, off, chosen, cands, fitted, resid, r2, fp, sp));
+        return restoring(n, () -> new FunctionalFitState(coef, off, chosen, cands, fitted, resid, r2, fp, sp));
     }
 
     static FunctionOnFunctionFit readFunctionOnFunction(Node p) {
