@@ -169,7 +169,7 @@ class HostileModelFileTest {
         String lied = p.replace("\"rows\":5", "\"rows\":50000").replaceFirst("\"shape\":\\[5,6\\]",
                 "\"shape\":[50000,6]");
         refused(envelope("density-set", lied), DensitySet.class, "densities.coordinates.f64le",
-                "declared shape needs 2400000 bytes");
+                "holds 240 bytes of base64 data, but the declared shape needs 2400000 bytes");
     }
 
     @Test
