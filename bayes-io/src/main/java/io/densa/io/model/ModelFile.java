@@ -30,8 +30,8 @@ import java.util.Objects;
  * <p>Loading a file it did not write is safe: no Java object deserialization and no class named
  * by the file is ever used (the type is one of the fixed names above); the file's size, the
  * nesting depth, text lengths, the number of JSON values and every declared array shape are
- * checked against {@link ModelLimits} (and each shape against the bytes actually present) before
- * anything is allocated for them; nothing in a file makes the reader open another file. A
+ * checked against {@link ModelLimits} before anything is allocated for them (and each shape
+ * against the bytes actually present); nothing in a file makes the reader open another file. A
  * truncated, malformed, altered (checksum mismatch) or newer-version file, or one over a limit,
  * is an {@link IllegalArgumentException} naming the file and the field, and nothing is loaded.
  *

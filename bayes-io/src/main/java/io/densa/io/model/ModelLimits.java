@@ -3,8 +3,8 @@ package io.densa.io.model;
 /**
  * Limits a model file must stay within before anything it declares is allocated. A reader checks
  * the file's size first, then parses with the depth, text and count limits, and checks every
- * declared array shape against {@link #maxElements()} and against the real length of its encoded
- * bytes before decoding it. Exceeding a limit is an {@link IllegalArgumentException} naming the
+ * declared array shape against {@link #maxElements()} before allocating the array, and against the
+ * number of bytes its base64 data holds. Exceeding a limit is an {@link IllegalArgumentException} naming the
  * file, the field and the limit (and this record's {@code with…} method that raises it).
  *
  * @param maxFileBytes largest accepted file, in bytes (default 256 MiB)
