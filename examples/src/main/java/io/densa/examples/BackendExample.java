@@ -249,8 +249,7 @@ public final class BackendExample {
             System.out.println("scored " + ids.length + " districts from " + EVENTS + " through the SQL engine: "
                     + fromSql.flaggedCount() + " flagged");
         } catch (IllegalStateException e) {
-            System.out.println("SQL engine path skipped: " + e.getMessage()
-                    + " (add org.duckdb:duckdb_jdbc to the class path)");
+            System.out.println("SQL engine path skipped: " + e.getMessage());
         }
     }
 

@@ -377,7 +377,6 @@ class ModelFileRoundTripTest {
         assertEquals(List.copyOf(m.keySet()), new ArrayList<>(back.entries().keySet()));
         assertBits(f.scores(d, 2).data, back.get("fpca", Fpca.class).scores(d, 2).data);
         assertEquals(SPACE, back.get("space", BayesSpace.class));
-        assertEquals(Object.class, Object.class);
         assertTrue(ModelFile.load(writeBytes(ModelFile.toBytes(SPACE)), Object.class) instanceof BayesSpace);
     }
 
