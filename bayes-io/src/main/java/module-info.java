@@ -1,6 +1,7 @@
 /**
  * Densa io: count tables, samples and observations from CSV files and JDBC queries, bulk files
- * through an embedded SQL engine, GeoJSON and GeoTIFF output ({@code io.densa.io}).
+ * through an embedded SQL engine, GeoJSON and GeoTIFF output ({@code io.densa.io}); saved models
+ * ({@code io.densa.io.model}).
  */
 module io.densa.io {
     requires transitive io.densa.core;
@@ -12,9 +13,14 @@ module io.densa.io {
     requires transitive java.sql;
     // CSVFormat in public signatures (TableSource)
     requires transitive org.apache.commons.csv;
+    // Fpca, regression fits and AnomalyScoring in the model files' public signatures
+    requires transitive io.densa.regression;
+    // saved model files: streaming JSON only
+    requires com.fasterxml.jackson.core;
     requires org.locationtech.jts.io;
     // json-simple 1.1.1 has no module name: the name comes from its file name
     requires json.simple;
 
     exports io.densa.io;
+    exports io.densa.io.model;
 }

@@ -108,6 +108,15 @@ public final class Reference {
         return kind;
     }
 
+    /**
+     * The parameters of a normal (mean, sd) or beta (α, β) reference; an empty array for the
+     * Lebesgue, uniform and custom references (a fresh copy). With {@link #kind()} they rebuild an
+     * equal reference through {@link #normal} or {@link #beta}.
+     */
+    public double[] parameters() {
+        return kind == Kind.NORMAL || kind == Kind.BETA ? new double[] {p1, p2} : new double[0];
+    }
+
     /** True for Lebesgue and uniform references (weight constant on the domain). */
     public boolean isFlat() {
         return kind == Kind.LEBESGUE || kind == Kind.UNIFORM;

@@ -58,6 +58,11 @@
  * }</pre></li>
  * </ul>
  *
+ * <h2>Models out and in</h2>
+ * Fitted models (spaces, density sets, estimator settings, FPCA, regressions, anomaly calibrations,
+ * variograms, kriging, spatial weights) are saved and loaded by {@link io.densa.io.model.ModelFile}
+ * in Densa's versioned JSON model format; see the package {@code io.densa.io.model}.
+ *
  * <h2>Guarantees</h2>
  * <ul>
  * <li>All or nothing: a reader returns a complete result or throws an

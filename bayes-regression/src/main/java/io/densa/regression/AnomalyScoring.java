@@ -148,6 +148,55 @@ public final class AnomalyScoring {
         return new Calibrated(this, calibrationResiduals.space(), norms, g, lo, hi);
     }
 
+    /**
+     * A calibration from its saved state (what {@link Calibrated#calibrationNorms()} and
+     * {@link Calibrated#band()} return, with this object's FDR and band level): scores equal those
+     * of the calibration the state came from, bit for bit.
+     *
+     * @param space            the space of the residuals
+     * @param calibrationNorms residual norms of the calibration units, finite, ≥ 0 and sorted
+     *                         ascending (copied)
+     * @param band             the pointwise band, grid strictly increasing inside the domain
+     * @throws IllegalArgumentException on an empty calibration, an unsorted or negative norm, a
+     *                                  grid point outside the domain or out of order, or a band
+     *                                  value that is not finite
+     */
+    public Calibrated restore(BayesSpace space, double[] calibrationNorms, List<BandPoint> band) {
+        Objects.requireNonNull(space, "space");
+        Objects.requireNonNull(calibrationNorms, "calibrationNorms");
+        Objects.requireNonNull(band, "band");
+        double[] sorted = calibrationNorms.clone();
+        if (sorted.length < 1) {
+            throw new IllegalArgumentException("calibration set is empty");
+        }
+        for (int i = 0; i < sorted.length; i++) {
+            if (!(sorted[i] >= 0) || Double.isInfinite(sorted[i]) || i > 0 && !(sorted[i] >= sorted[i - 1])) {
+                throw new IllegalArgumentException("calibration norm " + i + " is " + sorted[i]
+                        + "; norms must be finite, >= 0 and sorted ascending");
+            }
+        }
+        int m = band.size();
+        double[] g = new double[m];
+        double[] lo = new double[m];
+        double[] hi = new double[m];
+        for (int q = 0; q < m; q++) {
+            BandPoint b = Objects.requireNonNull(band.get(q), "band point");
+            g[q] = b.x();
+            lo[q] = b.lower();
+            hi[q] = b.upper();
+            if (!Double.isFinite(lo[q]) || !Double.isFinite(hi[q])) {
+                throw new IllegalArgumentException("band point " + q + " has bounds [" + lo[q] + ", " + hi[q]
+                        + "]; finite bounds are required");
+            }
+            if (q > 0 && !(g[q] > g[q - 1])) {
+                throw new IllegalArgumentException("band grid must be strictly increasing; point " + q + " = " + g[q]
+                        + " after " + g[q - 1]);
+            }
+        }
+        Arguments.grid(space, g, "band grid");
+        return new Calibrated(this, space, sorted, g, lo, hi);
+    }
+
     /** Direction of a departure. */
     public enum Direction {
         /** Residual clr above the band: more mass than predicted. */
@@ -251,6 +300,21 @@ public final class AnomalyScoring {
         /** Number of calibration units. */
         public int calibrationSize() {
             return sorted.length;
+        }
+
+        /** The configuration (FDR and band level) this calibration scores with. */
+        public AnomalyScoring configuration() {
+            return cfg;
+        }
+
+        /** The space of the calibration residuals. */
+        public BayesSpace space() {
+            return space;
+        }
+
+        /** Residual norms of the calibration units, sorted ascending (fresh array). */
+        public double[] calibrationNorms() {
+            return sorted.clone();
         }
 
         /**

@@ -80,4 +80,17 @@ final class Arguments {
                     + " (one per observation)");
         }
     }
+
+    /** Checks that a is non-null, of length len and finite; names {@code what} and the index. */
+    static void finiteArray(double[] a, int len, String what) {
+        java.util.Objects.requireNonNull(a, what);
+        if (a.length != len) {
+            throw new IllegalArgumentException(what + " has " + a.length + " values; " + len + " are required");
+        }
+        for (int i = 0; i < len; i++) {
+            if (!Double.isFinite(a[i])) {
+                throw new IllegalArgumentException(what + "[" + i + "] is not finite: " + a[i]);
+            }
+        }
+    }
 }

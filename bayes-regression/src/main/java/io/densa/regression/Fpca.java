@@ -122,6 +122,33 @@ public final class Fpca {
         return new Fpca(data.space(), n, data.mean().coordinates(), new DenseAlgebra.Eigen(values, eig.vectors(), k));
     }
 
+    /**
+     * An FPCA from its saved state (what {@link #sampleSize()}, {@link #mean()},
+     * {@link #eigenvalues()} and {@link #componentCoordinates(int)} return): scores,
+     * reconstructions and modes of the result equal those of the fit the state came from, bit for
+     * bit. Nothing is refitted.
+     *
+     * @param space        the space of the analysed densities
+     * @param sampleSize   n ≥ 2
+     * @param mean         K mean coordinates (copied)
+     * @param eigenvalues  K finite eigenvalues (copied)
+     * @param eigenvectors K × K row-major, column j = coordinates of component j (copied)
+     * @throws IllegalArgumentException on a wrong length or a value that is not finite
+     */
+    public static Fpca restore(BayesSpace space, int sampleSize, double[] mean, double[] eigenvalues,
+            double[] eigenvectors) {
+        Objects.requireNonNull(space, "space");
+        int k = space.dimension();
+        if (sampleSize < 2) {
+            throw new IllegalArgumentException("FPCA sample size must be >= 2, got " + sampleSize);
+        }
+        Arguments.finiteArray(mean, k, "FPCA mean");
+        Arguments.finiteArray(eigenvalues, k, "FPCA eigenvalues");
+        Arguments.finiteArray(eigenvectors, k * k, "FPCA eigenvectors");
+        return new Fpca(space, sampleSize, mean.clone(),
+                new DenseAlgebra.Eigen(eigenvalues.clone(), eigenvectors.clone(), k));
+    }
+
     /** FPCA from precomputed moments (mean and covariance of n rows); used by the regressions. */
     static Fpca fromMoments(BayesSpace space, int n, double[] mean, double[] covariance) {
         return new Fpca(space, n, mean.clone(), DenseAlgebra.symmetricEigen(covariance, space.dimension()));

@@ -35,6 +35,32 @@ public final class FunctionOnFunctionFit {
         this.k = space.dimension();
     }
 
+    /** The fitted state (see {@link FunctionalFitState}); {@link #restore} rebuilds this fit from it. */
+    public FunctionalFitState state() {
+        return FunctionalFitState.of(res);
+    }
+
+    /**
+     * A fit from its saved parts: predictions, coefficients, kernels, fitted values and residuals
+     * equal those of the fit they came from, bit for bit; nothing is refitted.
+     *
+     * @param config        the configuration ({@link #configuration()})
+     * @param design        the training design ({@link #design()})
+     * @param responseSpace the response space ({@link #space()})
+     * @param ids           ids of the training rows, or null
+     * @param state         the fitted state ({@link #state()})
+     * @throws IllegalArgumentException when the parts do not fit together (naming the part)
+     */
+    public static FunctionOnFunctionFit restore(FunctionalRegression config, Design design, BayesSpace responseSpace,
+            String[] ids, FunctionalFitState state) {
+        Objects.requireNonNull(config, "config");
+        Objects.requireNonNull(responseSpace, "responseSpace");
+        Objects.requireNonNull(state, "state");
+        LinearFunctionalEngine.Result res = state.toResult(design, responseSpace.dimension(), "function-on-function fit");
+        DensitySet rows = DensitySet.ofRowMajor(responseSpace, res.fitted(), design.rows(), ids);
+        return new FunctionOnFunctionFit(config, design, null, rows, res);
+    }
+
     /** The configuration. */
     public FunctionalRegression configuration() {
         return config;

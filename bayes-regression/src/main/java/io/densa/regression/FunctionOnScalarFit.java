@@ -306,6 +306,11 @@ public final class FunctionOnScalarFit {
         return DenseAlgebra.clrAt(space, Arrays.copyOfRange(coef, j * k, (j + 1) * k), Arguments.grid(space, xs, "points"));
     }
 
+    /** The training response densities (ids kept), as given to the fit. */
+    public DensitySet response() {
+        return response;
+    }
+
     /** Fitted densities ŷ_i = ⊕_j x_ij ⊙ β_j (ids kept). */
     public DensitySet fitted() {
         return DensitySet.ofRowMajor(space, fitted, n, ids(response));

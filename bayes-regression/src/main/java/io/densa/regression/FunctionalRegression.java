@@ -119,6 +119,26 @@ public final class FunctionalRegression {
         return seed;
     }
 
+    /** Smallest number of predictor components tried (truncation; 0 for ridge). */
+    public int minComponents() {
+        return minComponents;
+    }
+
+    /** Largest number of predictor components tried (truncation; 0 for ridge). */
+    public int maxComponents() {
+        return maxComponents;
+    }
+
+    /** Response component counts tried (fresh copy), or null without response truncation. */
+    public int[] responseComponents() {
+        return responseComponents == null ? null : responseComponents.clone();
+    }
+
+    /** The λ values tried (ridge; fresh copy), or null for the default grid. */
+    public double[] lambdas() {
+        return lambdas == null ? null : lambdas.clone();
+    }
+
     boolean usesResponseTruncation() {
         return responseComponents != null;
     }

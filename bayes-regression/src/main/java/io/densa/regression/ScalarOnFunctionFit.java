@@ -30,6 +30,27 @@ public final class ScalarOnFunctionFit {
         this.n = y.length;
     }
 
+    /** The fitted state (see {@link FunctionalFitState}); {@link #restore} rebuilds this fit from it. */
+    public FunctionalFitState state() {
+        return FunctionalFitState.of(res);
+    }
+
+    /**
+     * A fit from its saved parts: predictions, coefficients and fitted values equal those of the
+     * fit they came from, bit for bit; nothing is refitted.
+     *
+     * @param config the configuration ({@link #configuration()})
+     * @param design the training design ({@link #design()})
+     * @param state  the fitted state ({@link #state()})
+     * @throws IllegalArgumentException when the parts do not fit together (naming the part)
+     */
+    public static ScalarOnFunctionFit restore(FunctionalRegression config, Design design, FunctionalFitState state) {
+        Objects.requireNonNull(config, "config");
+        Objects.requireNonNull(state, "state");
+        LinearFunctionalEngine.Result res = state.toResult(design, 1, "scalar-on-function fit");
+        return new ScalarOnFunctionFit(config, design, null, new double[design.rows()], res);
+    }
+
     /** The configuration. */
     public FunctionalRegression configuration() {
         return config;

@@ -306,6 +306,52 @@ public final class SpatialWeights {
         return assemble(n, nb, wt);
     }
 
+    /**
+     * Weights from their compressed rows (what {@link #rowStarts()}, {@link #columnIndices()},
+     * {@link #linkWeights()} and {@link #isRowStandardised()} return): every statistic of the result
+     * equals that of the object the arrays came from, bit for bit. The links are checked as
+     * {@link #fromNeighbours(int[][], double[][])} checks them; a row-standardised flag is kept as
+     * given (the weights are not re-standardised).
+     *
+     * @param rowStarts       n + 1 non-decreasing offsets, the first 0 and the last the link count (not modified)
+     * @param columns         neighbour index per link, increasing within a row (not modified)
+     * @param weights         weight per link, finite and positive (not modified)
+     * @param rowStandardised whether the weights are marked row-standardised
+     * @throws IllegalArgumentException on inconsistent lengths or offsets, or a link that
+     *                                  {@code fromNeighbours} refuses (naming the unit)
+     */
+    public static SpatialWeights fromCompressedRows(int[] rowStarts, int[] columns, double[] weights,
+            boolean rowStandardised) {
+        Objects.requireNonNull(rowStarts, "rowStarts");
+        Objects.requireNonNull(columns, "columns");
+        Objects.requireNonNull(weights, "weights");
+        if (rowStarts.length < 1 || rowStarts[0] != 0 || rowStarts[rowStarts.length - 1] != columns.length
+                || weights.length != columns.length) {
+            throw new IllegalArgumentException("compressed rows need rowStarts[0] = 0 and rowStarts[n] = number of"
+                    + " links = columns.length = weights.length; got " + rowStarts.length + " row starts, "
+                    + columns.length + " columns and " + weights.length + " weights");
+        }
+        int n = rowStarts.length - 1;
+        int[][] nb = new int[n][];
+        double[][] wt = new double[n][];
+        for (int i = 0; i < n; i++) {
+            if (!(rowStarts[i + 1] >= rowStarts[i])) {
+                throw new IllegalArgumentException("row start " + (i + 1) + " (" + rowStarts[i + 1]
+                        + ") is below row start " + i + " (" + rowStarts[i] + "); offsets must not decrease");
+            }
+            nb[i] = Arrays.copyOfRange(columns, rowStarts[i], rowStarts[i + 1]);
+            wt[i] = Arrays.copyOfRange(weights, rowStarts[i], rowStarts[i + 1]);
+            for (int m = 1; m < nb[i].length; m++) {
+                if (!(nb[i][m] > nb[i][m - 1])) {
+                    throw new IllegalArgumentException("unit " + i + ": neighbours must be strictly increasing in"
+                            + " compressed rows; " + nb[i][m] + " follows " + nb[i][m - 1]);
+                }
+            }
+        }
+        SpatialWeights w = fromNeighbours(nb, wt);
+        return rowStandardised ? new SpatialWeights(w.n, w.rowStart, w.cols, w.vals, true) : w;
+    }
+
     // ------------------------------------------------------------------ distance builders
 
     /**

@@ -470,6 +470,64 @@ public final class PenalizedLikelihoodEstimator {
                 gridHi, gridStep, maxIterations, tolerance, points, zeroTotal, fractional, parallel, listener, priorWeight);
     }
 
+    /**
+     * Every setting of this estimator except the space and the progress listener, as plain values
+     * (what a saved model file stores; see {@link #withSettings}).
+     *
+     * @param penaltyOrder         derivative order l of the roughness penalty
+     * @param smoothing            the fixed λ, or NaN when λ is chosen per unit
+     * @param criterion            the criterion that chooses λ (evaluated and reported with a fixed λ too)
+     * @param folds                folds of cross-validation
+     * @param seed                 seed of cross-validation
+     * @param gridLog10Lo          lower end of the λ search grid (log10 of the factor)
+     * @param gridLog10Hi          upper end of the λ search grid
+     * @param gridStep             step of the λ search grid
+     * @param maxIterations        Newton iterations per fit
+     * @param tolerance            convergence tolerance
+     * @param quadraturePoints     Gauss–Legendre points per piece (0: automatic)
+     * @param zeroTotal            what happens to units without events
+     * @param fractionalCounts     whether fractional counts are accepted
+     * @param parallel             whether batches use the common pool
+     * @param referencePriorWeight weight of the reference prior in observations
+     */
+    public record Settings(int penaltyOrder, double smoothing, SmoothingCriterion criterion, int folds, long seed,
+            double gridLog10Lo, double gridLog10Hi, double gridStep, int maxIterations, double tolerance,
+            int quadraturePoints, ZeroTotalPolicy zeroTotal, boolean fractionalCounts, boolean parallel,
+            double referencePriorWeight) {
+    }
+
+    /** The settings of this estimator (see {@link Settings}). */
+    public Settings settings() {
+        return new Settings(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, maxIterations,
+                tolerance, points, zeroTotal, fractional, parallel, priorWeight);
+    }
+
+    /**
+     * This estimator's space and progress listener with every other setting taken from
+     * {@code s}, each checked as its {@code with…} method checks it (an estimator built this way
+     * from {@link #settings()} fits exactly as the original).
+     *
+     * @throws IllegalArgumentException naming the first setting that its {@code with…} method refuses
+     */
+    public PenalizedLikelihoodEstimator withSettings(Settings s) {
+        Objects.requireNonNull(s, "settings");
+        Objects.requireNonNull(s.criterion(), "settings.criterion");
+        Objects.requireNonNull(s.zeroTotal(), "settings.zeroTotal");
+        if (!Double.isNaN(s.smoothing())) {
+            withSmoothing(s.smoothing());
+        }
+        withCrossValidation(s.folds(), s.seed());
+        withSmoothingGrid(s.gridLog10Lo(), s.gridLog10Hi(), s.gridStep());
+        withMaxIterations(s.maxIterations());
+        withTolerance(s.tolerance());
+        withQuadraturePoints(s.quadraturePoints());
+        withReferencePrior(s.referencePriorWeight());
+        return new PenalizedLikelihoodEstimator(space, s.penaltyOrder(), s.smoothing(), s.criterion(), s.folds(),
+                s.seed(), s.gridLog10Lo(), s.gridLog10Hi(), s.gridStep(), s.maxIterations(), s.tolerance(),
+                s.quadraturePoints(), s.zeroTotal(), s.fractionalCounts(), s.parallel(), progress,
+                s.referencePriorWeight());
+    }
+
     /** The space. */
     public BayesSpace space() {
         return space;

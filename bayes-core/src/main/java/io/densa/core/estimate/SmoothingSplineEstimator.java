@@ -149,6 +149,45 @@ public final class SmoothingSplineEstimator {
                 Objects.requireNonNull(policy, "policy"), parallel, progress);
     }
 
+    /**
+     * Every setting of this estimator except the space and the progress listener (what a saved
+     * model file stores; see {@link #withSettings}).
+     *
+     * @param zeroReplacement the zero replacement
+     * @param penaltyOrder    derivative order l of the roughness penalty
+     * @param smoothing       the fixed λ, or NaN when λ is chosen by GCV
+     * @param gcvLog10Lo      lower end of the GCV range
+     * @param gcvLog10Hi      upper end of the GCV range
+     * @param zeroTotal       what happens to units without events
+     * @param parallel        whether batches use the common pool
+     */
+    public record Settings(ZeroReplacement zeroReplacement, int penaltyOrder, double smoothing, double gcvLog10Lo,
+            double gcvLog10Hi, ZeroTotalPolicy zeroTotal, boolean parallel) {
+    }
+
+    /** The settings of this estimator (see {@link Settings}). */
+    public Settings settings() {
+        return new Settings(zeros, penaltyOrder, fixedLambda, gridLo, gridHi, zeroTotal, parallel);
+    }
+
+    /**
+     * This estimator's space and progress listener with every other setting taken from
+     * {@code s}, each checked as its {@code with…} method checks it.
+     *
+     * @throws IllegalArgumentException naming the first setting that its {@code with…} method refuses
+     */
+    public SmoothingSplineEstimator withSettings(Settings s) {
+        Objects.requireNonNull(s, "settings");
+        Objects.requireNonNull(s.zeroReplacement(), "settings.zeroReplacement");
+        if (!Double.isNaN(s.smoothing())) {
+            withSmoothing(s.smoothing());
+        }
+        withGcv(s.gcvLog10Lo(), s.gcvLog10Hi());
+        withZeroTotal(s.zeroTotal());
+        return new SmoothingSplineEstimator(space, s.zeroReplacement(), s.penaltyOrder(), s.smoothing(), s.gcvLog10Lo(),
+                s.gcvLog10Hi(), s.zeroTotal(), s.parallel(), progress);
+    }
+
     /** Whether {@code fitAll} may use the common pool (results are identical either way). */
     public SmoothingSplineEstimator withParallel(boolean p) {
         return new SmoothingSplineEstimator(space, zeros, penaltyOrder, fixedLambda, gridLo, gridHi, zeroTotal, p,

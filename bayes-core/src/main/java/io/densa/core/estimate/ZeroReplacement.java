@@ -76,6 +76,11 @@ public final class ZeroReplacement {
         return prior;
     }
 
+    /** The replacement proportion δ of simple multiplicative replacement (0 for the Bayesian one). */
+    public double delta() {
+        return delta;
+    }
+
     /**
      * Prior strength s for a composition of D parts with total n (0 for simple multiplicative
      * replacement).

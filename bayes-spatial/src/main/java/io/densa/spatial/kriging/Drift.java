@@ -73,6 +73,18 @@ public final class Drift {
         return covariates == null || covariates.length == 0 ? 0 : covariates[0].length;
     }
 
+    /** The external covariates at the data locations, n × q (fresh copies; empty when there are none). */
+    public double[][] covariates() {
+        if (covariates == null) {
+            return new double[0][];
+        }
+        double[][] c = new double[covariates.length][];
+        for (int i = 0; i < c.length; i++) {
+            c[i] = covariates[i].clone();
+        }
+        return c;
+    }
+
     /** Number of drift functions p (monomials plus covariates). */
     public int size() {
         return (degree + 1) * (degree + 2) / 2 + covariateCount();

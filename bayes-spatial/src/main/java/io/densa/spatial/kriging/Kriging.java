@@ -1105,6 +1105,16 @@ public final class Kriging {
         return n;
     }
 
+    /** The data densities (without ids; the space's coordinates as given, fresh copies). */
+    public DensitySet densities() {
+        return DensitySet.ofRowMajor(space, y.clone(), n, null);
+    }
+
+    /** The known mean density of simple kriging, or null for ordinary and universal kriging. */
+    public Density mean() {
+        return type == Type.SIMPLE ? space.density(centre.clone()) : null;
+    }
+
     /** The options. */
     public KrigingOptions options() {
         return options;
