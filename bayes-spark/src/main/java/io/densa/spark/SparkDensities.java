@@ -14,7 +14,6 @@ import java.io.Serializable;
 import java.util.ArrayList;
 import java.util.Iterator;
 import java.util.List;
-import java.util.NoSuchElementException;
 import java.util.Objects;
 import org.apache.spark.api.java.function.MapPartitionsFunction;
 import org.apache.spark.broadcast.Broadcast;
@@ -292,42 +291,19 @@ public final class SparkDensities implements Serializable {
     }
 
     /** Fits the units of a partition batch by batch. */
-    private static final class Batches implements Iterator<Row> {
-        private final Iterator<Row> in;
+    private static final class Batches extends BufferedRows {
         private final EstimatorSpec spec;
         private final int size;
-        private final List<Row> ready = new ArrayList<>();
-        private int next;
 
         Batches(Iterator<Row> in, EstimatorSpec spec, int size) {
-            this.in = in;
+            super(in);
             this.spec = spec;
             this.size = size;
         }
 
-        @Override
-        public boolean hasNext() {
-            if (next < ready.size()) {
-                return true;
-            }
-            ready.clear();
-            next = 0;
-            if (!in.hasNext()) {
-                return false;
-            }
-            fill();
-            return true;
-        }
 
         @Override
-        public Row next() {
-            if (!hasNext()) {
-                throw new NoSuchElementException();
-            }
-            return ready.get(next++);
-        }
-
-        private void fill() {
+        protected void fill() {
             int d = spec.bins();
             List<String> units = new ArrayList<>();
             List<String> periods = new ArrayList<>();

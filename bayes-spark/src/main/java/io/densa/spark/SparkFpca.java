@@ -6,7 +6,6 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Iterator;
 import java.util.List;
-import java.util.NoSuchElementException;
 import java.util.Objects;
 import org.apache.spark.api.java.JavaRDD;
 import org.apache.spark.api.java.function.MapPartitionsFunction;
@@ -112,31 +111,20 @@ public final class SparkFpca {
                 Encoders.row(schema));
     }
 
-    private static final class Scored implements Iterator<Row> {
-        private final Iterator<Row> in;
+    private static final class Scored extends BufferedRows {
         private final FpcaSpec spec;
         private final int ci;
         private final int m;
-        private final List<Row> ready = new ArrayList<>();
-        private int next;
 
         Scored(Iterator<Row> in, FpcaSpec spec, int ci, int m) {
-            this.in = in;
+            super(in);
             this.spec = spec;
             this.ci = ci;
             this.m = m;
         }
 
         @Override
-        public boolean hasNext() {
-            if (next < ready.size()) {
-                return true;
-            }
-            ready.clear();
-            next = 0;
-            if (!in.hasNext()) {
-                return false;
-            }
+        protected void fill() {
             Fpca f = spec.fpca();
             int k = f.componentCount();
             List<Row> rows = new ArrayList<>();
@@ -162,15 +150,6 @@ public final class SparkFpca {
                 v[r.length()] = Arrays.copyOfRange(z.data, i * m, i * m + m);
                 ready.add(RowFactory.create(v));
             }
-            return true;
-        }
-
-        @Override
-        public Row next() {
-            if (!hasNext()) {
-                throw new NoSuchElementException();
-            }
-            return ready.get(next++);
         }
     }
 }

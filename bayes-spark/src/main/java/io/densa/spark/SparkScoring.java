@@ -7,7 +7,6 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Iterator;
 import java.util.List;
-import java.util.NoSuchElementException;
 import java.util.Objects;
 import org.apache.spark.api.java.function.MapPartitionsFunction;
 import org.apache.spark.broadcast.Broadcast;
@@ -256,17 +255,14 @@ public final class SparkScoring {
         }
     }
 
-    private static final class Batched implements Iterator<Row> {
-        private final Iterator<Row> in;
+    private static final class Batched extends BufferedRows {
         private final BaselineSpec spec;
         private final int ri;
         private final int[] pi;
         private final int[] zi;
-        private final List<Row> ready = new ArrayList<>();
-        private int next;
 
         Batched(Iterator<Row> in, BaselineSpec spec, int ri, int[] pi, int[] zi) {
-            this.in = in;
+            super(in);
             this.spec = spec;
             this.ri = ri;
             this.pi = pi;
@@ -274,15 +270,7 @@ public final class SparkScoring {
         }
 
         @Override
-        public boolean hasNext() {
-            if (next < ready.size()) {
-                return true;
-            }
-            ready.clear();
-            next = 0;
-            if (!in.hasNext()) {
-                return false;
-            }
+        protected void fill() {
             List<Row> rows = new ArrayList<>();
             while (in.hasNext() && rows.size() < BATCH) {
                 rows.add(in.next());
@@ -301,15 +289,6 @@ public final class SparkScoring {
                 v[r.length() + 1] = p[i];
                 ready.add(RowFactory.create(v));
             }
-            return true;
-        }
-
-        @Override
-        public Row next() {
-            if (!hasNext()) {
-                throw new NoSuchElementException();
-            }
-            return ready.get(next++);
         }
     }
 }
