@@ -186,8 +186,7 @@ public final class BayesSpace {
         for (int pass = 0; pass < 2; pass++) {
             double[] e = applyLower(tt, phi, q, k);
             double[] gram = weightedGram(e, weights, q, k);
-            double[] l = cholesky(gram, k, basis);
-            double[] linv = invertLower(l, k);
+            double[] linv = inverseCholeskyFactor(gram, k, basis);
             tt = multiplyLower(linv, tt, k);
         }
         t = tt;
@@ -1639,43 +1638,19 @@ public final class BayesSpace {
         return g;
     }
 
-    private static double[] cholesky(double[] g, int k, Basis basis) {
-        double[] l = new double[k * k];
-        for (int i = 0; i < k; i++) {
-            for (int j = 0; j <= i; j++) {
-                double s = g[i * k + j];
-                for (int m = 0; m < j; m++) {
-                    s -= l[i * k + m] * l[j * k + m];
-                }
-                if (i == j) {
-                    // relative to the function's own squared norm: a narrow domain scales every Gram
-                    // entry down, which is not degeneracy
-                    if (!(s > 1e-14 * Math.abs(g[i * k + i]))) {
-                        throw new IllegalArgumentException("basis " + basis
-                                + " is numerically degenerate on this reference (Gram pivot " + s + " at function "
-                                + i + "); use fewer knots or a lower degree");
-                    }
-                    l[i * k + i] = Math.sqrt(s);
-                } else {
-                    l[i * k + j] = s / l[j * k + j];
-                }
-            }
+    /** L⁻¹ for the Gram matrix g = L Lᵀ (g is overwritten by L). */
+    private static double[] inverseCholeskyFactor(double[] g, int k, Basis basis) {
+        // the pivot floor is relative to the function's own squared norm: a narrow domain scales
+        // every Gram entry down, which is not degeneracy
+        int bad = Cholesky.factor(g, k, k, 1e-14);
+        if (bad >= 0) {
+            throw new IllegalArgumentException("basis " + basis
+                    + " is numerically degenerate on this reference (Gram pivot " + g[bad * k + bad]
+                    + " at function " + bad + "); use fewer knots or a lower degree");
         }
-        return l;
-    }
-
-    private static double[] invertLower(double[] l, int k) {
-        double[] inv = new double[k * k];
-        for (int c = 0; c < k; c++) {
-            for (int i = c; i < k; i++) {
-                double s = i == c ? 1.0 : 0.0;
-                for (int m = c; m < i; m++) {
-                    s -= l[i * k + m] * inv[m * k + c];
-                }
-                inv[i * k + c] = s / l[i * k + i];
-            }
-        }
-        return inv;
+        double[] linv = new double[k * k];
+        Cholesky.invertLower(g, k, linv);
+        return linv;
     }
 
     private static double[] multiplyLower(double[] x, double[] y, int k) {
