@@ -159,32 +159,6 @@ final class EstimationSupport {
         }
     }
 
-    /** Returns T M T' for a symmetric K × K raw matrix M (T lower triangular). */
-    static double[] congruenceLower(double[] t, double[] m, int k) {
-        double[] tmp = new double[k * k];
-        for (int i = 0; i < k; i++) {
-            for (int j = 0; j < k; j++) {
-                double s = 0;
-                for (int p = 0; p <= i; p++) {
-                    s += t[i * k + p] * m[p * k + j];
-                }
-                tmp[i * k + j] = s;
-            }
-        }
-        double[] out = new double[k * k];
-        for (int i = 0; i < k; i++) {
-            for (int j = 0; j <= i; j++) {
-                double s = 0;
-                for (int p = 0; p <= j; p++) {
-                    s += tmp[i * k + p] * t[j * k + p];
-                }
-                out[i * k + j] = s;
-                out[j * k + i] = s;
-            }
-        }
-        return out;
-    }
-
     /** The diagonal covariance v·I, K × K row-major. */
     static double[] diagonalCovariance(int k, double v) {
         double[] c = new double[k * k];

@@ -477,7 +477,7 @@ public final class PenalizedLikelihoodEstimator {
 
     /** The penalty matrix Ω in the space's coordinates (c'Ωc = roughness of the clr), K × K. */
     public DMatrixRMaj penalty() {
-        return new DMatrixRMaj(k, k, true, EstimationSupport.congruenceLower(t, rawPenalty, k));
+        return new DMatrixRMaj(k, k, true, RoughnessPenalty.inCoordinates(t, rawPenalty, k));
     }
 
     /**

@@ -85,7 +85,7 @@ public final class SmoothingSplineEstimator {
         this.k = space.dimension();
         this.t = space.basisTransform();
         this.rawPenalty = RoughnessPenalty.raw(EstimationSupport.rawBasis(space.basis()), penaltyOrder);
-        this.omega = EstimationSupport.congruenceLower(t, rawPenalty, k);
+        this.omega = RoughnessPenalty.inCoordinates(t, rawPenalty, k);
     }
 
     /**
