@@ -1100,7 +1100,8 @@ public final class BayesSpace {
                     + Math.abs(offset)) + " in magnitude, so its rounding error in double precision is about "
                     + String.format("%.3g", error) + ", above the " + MAX_CLR_ERROR + " that pdf, cdf, quantile and"
                     + " moment evaluation accept: coordinates about " + String.format("%.3g", error / MAX_CLR_ERROR)
-                    + " times smaller would be evaluated (algebra, norms and distances work at any size)", null);
+                    + " times smaller would be evaluated (algebra, norms and distances work at any size)",
+                    new EvaluationDiagnostics("clr magnitude", Double.NaN, localWidth * big + Math.abs(offset)));
         }
     }
 
@@ -1109,7 +1110,8 @@ public final class BayesSpace {
         return new DensaException("the density is concentrated within the double resolution at x = " + x
                 + " (its clr falls by more than 745 within about 1e-17 of the domain there): its pdf is not"
                 + " representable; cdf, tail probabilities, quantiles and moments treat it as a point mass at x"
-                + " (coordinates of this size are beyond what double precision resolves)", null);
+                + " (coordinates of this size are beyond what double precision resolves)",
+                new EvaluationDiagnostics("pdf of a point mass", x, Double.POSITIVE_INFINITY));
     }
 
     /**
@@ -1300,7 +1302,8 @@ public final class BayesSpace {
             double log = Math.log(referenceDensity(x)) + sh.logRelative(clr);
             if (!(log < MAX_LOG)) {
                 throw new DensaException("the pdf at x = " + x + " is e^" + log
-                        + ", beyond the largest double; logPdf(x) gives its logarithm", null);
+                        + ", beyond the largest double; logPdf(x) gives its logarithm",
+                        new EvaluationDiagnostics("log pdf", x, log));
             }
             v = Math.exp(log);
         }

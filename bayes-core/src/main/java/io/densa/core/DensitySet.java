@@ -619,7 +619,7 @@ public final class DensitySet {
         for (int i = 0; i < n; i++) {
             if (Double.isNaN(z[3 * i + 1])) {
                 throw new DensaException("row " + i + " (" + id(i) + "): " + BayesSpace.concentrated(z[3 * i + 2])
-                        .getMessage(), null);
+                        .getMessage(), BayesSpace.concentrated(z[3 * i + 2]).diagnostics());
             }
         }
         int rows = 16;

@@ -3,6 +3,7 @@ package io.densa.core.estimate;
 import io.densa.core.Basis;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
+import io.densa.core.SolveDiagnostics;
 import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.RawBasis;
 import org.ejml.data.DMatrixRMaj;
@@ -189,7 +190,8 @@ final class EstimationSupport {
                 DecompositionFactory_DDRM.eig(k, true, true);
         if (!eig.decompose(m)) {
             if (negDiag) {
-                throw new DensaException("covariance eigen-decomposition failed (" + k + " x " + k + ")", null);
+                throw new DensaException("covariance eigen-decomposition failed (" + k + " x " + k + ")",
+                        new SolveDiagnostics("eigen-decomposition of a covariance", k, Double.NaN));
             }
             return false;
         }

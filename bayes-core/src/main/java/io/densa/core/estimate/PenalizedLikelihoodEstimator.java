@@ -2,6 +2,7 @@ package io.densa.core.estimate;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
+import io.densa.core.SolveDiagnostics;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
 import io.densa.core.Reference;
@@ -988,7 +989,8 @@ public final class PenalizedLikelihoodEstimator {
             throw new DensaException("unit " + id + ": penalised information F + 2 lambda Omega + prior is"
                     + " numerically singular at lambda = " + lambda + " (lambda too large for double precision"
                     + " against the information of " + eng.total + " events; use a smaller lambda)"
-                    + (reason.isEmpty() ? "" : "; " + reason), null);
+                    + (reason.isEmpty() ? "" : "; " + reason),
+                    new SolveDiagnostics("penalised information F + 2 lambda Omega + prior", k, 0.0));
         }
         if (Double.isNaN(edf)) {
             // without the reference prior: report the numbers the default prior would give, and say so
@@ -1000,7 +1002,8 @@ public final class PenalizedLikelihoodEstimator {
             edf = eng.sandwich(lambda, u, cov, true, unitPrior);
             if (Double.isNaN(edf)) {
                 throw new DensaException("unit " + id + ": penalised information is singular even with the"
-                        + " reference prior at lambda = " + lambda + " (" + reason + ")", null);
+                        + " reference prior at lambda = " + lambda + " (" + reason + ")",
+                        new SolveDiagnostics("penalised information F + 2 lambda Omega + prior", k, 0.0));
             }
         }
         double crit = criterionValue(eng, lambda, edf, loglik, cv);
@@ -1018,7 +1021,9 @@ public final class PenalizedLikelihoodEstimator {
                         + " or more events");
             }
             throw new DensaException("unit " + id + ": the fit did not converge and " + criterion
-                    + " cannot be evaluated at lambda = " + lambda + " (" + reason + ")", null);
+                    + " cannot be evaluated at lambda = " + lambda + " (" + reason + ")",
+                    new EstimationDiagnostics(id, EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose,
+                            criterion, crit, edf, loglik, eng.total, iterations, cov, Double.NaN, Double.NaN));
         }
         if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD) {
             addSmoothingUncertainty(eng, lambda, crit, cv, cov);
@@ -1028,7 +1033,9 @@ public final class PenalizedLikelihoodEstimator {
         EstimationSupport.toCoordinates(u, k, eng.beta, out, index * k);
         for (int i = 0; i < k; i++) {
             if (!Double.isFinite(out[index * k + i])) {
-                throw new DensaException("unit " + id + ": estimate is not finite (" + reason + ")", null);
+                throw new DensaException("unit " + id + ": estimate is not finite (" + reason + ")",
+                        new EstimationDiagnostics(id, EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda,
+                                choose, reported, crit, edf, loglik, eng.total, iterations, cov, Double.NaN, Double.NaN));
             }
         }
         double normSq = 0;

@@ -2,6 +2,7 @@ package io.densa.core.estimate;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
+import io.densa.core.SolveDiagnostics;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
 import io.densa.core.internal.Cholesky;
@@ -374,7 +375,8 @@ public final class SmoothingSplineEstimator {
             }
             EigenDecomposition_F64<DMatrixRMaj> eigd = DecompositionFactory_DDRM.eig(p, true, true);
             if (!eigd.decompose(bm)) {
-                throw new DensaException("eigen decomposition of the penalised design failed", null);
+                throw new DensaException("eigen decomposition of the penalised design failed",
+                        new SolveDiagnostics("eigen-decomposition of the penalised design", p, Double.NaN));
             }
             eig = new double[p];
             double[] v = new double[p * p]; // columns = eigenvectors
