@@ -3,6 +3,7 @@ package io.densa.regression;
 import io.densa.core.BenjaminiHochberg;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.core.TestResult;
 import io.densa.core.internal.SampleQuantiles;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -158,10 +159,22 @@ public final class AnomalyScoring {
      * @param excursions     band departures (computed for flagged units only, else empty)
      */
     public record UnitScore(int row, String id, double residualNorm, double pValue, double adjustedPValue,
-            boolean flagged, List<Excursion> excursions) {
+            boolean flagged, List<Excursion> excursions) implements TestResult {
         /** Canonical constructor: copies the excursion list. */
         public UnitScore {
             excursions = List.copyOf(excursions);
+        }
+
+        /** The residual norm, {@link #residualNorm()}. */
+        @Override
+        public double statistic() {
+            return residualNorm;
+        }
+
+        @Override
+        public String method() {
+            return "split-conformal rank of the residual norm among the calibration units, upper tail"
+                    + " (not adjusted; see adjustedPValue)";
         }
     }
 

@@ -4,6 +4,7 @@ import io.densa.core.BayesSpace;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
+import io.densa.core.TestResult;
 import io.densa.core.SolveDiagnostics;
 import io.densa.core.internal.SampleQuantiles;
 import io.densa.core.internal.Seeds;
@@ -696,7 +697,17 @@ public final class FunctionOnScalarFit {
      * @param seed         random seed
      */
     public record PermutationTest(String term, double fStatistic, double pValue, int df1, int df2,
-            int permutations, long seed) {
+            int permutations, long seed) implements TestResult {
+        /** The observed F, {@link #fStatistic()}. */
+        @Override
+        public double statistic() {
+            return fStatistic;
+        }
+
+        @Override
+        public String method() {
+            return "Freedman-Lane permutation (" + permutations + " permutations, seed " + seed + "), upper tail";
+        }
     }
 
     /**
@@ -714,18 +725,18 @@ public final class FunctionOnScalarFit {
      *                                  permutations, no residual degrees of freedom, or a response
      *                                  that the full model fits exactly (F undefined)
      */
-    public PermutationTest permutationTest(String term, int permutations, long seed) {
-        return permutationTest(term, permutations, seed, ProgressListener.NONE);
+    public PermutationTest test(String term, int permutations, long seed) {
+        return test(term, permutations, seed, ProgressListener.NONE);
     }
 
     /**
-     * {@link #permutationTest(String, int, long)} reporting progress to a listener: task
+     * {@link #test(String, int, long)} reporting progress to a listener: task
      * {@code "permutation test"}, one unit per permutation, from the calling thread; the count
      * reaches {@code permutations}. The listener does not change the result.
      *
      * @param listener progress listener, or {@link ProgressListener#NONE}
      */
-    public PermutationTest permutationTest(String term, int permutations, long seed, ProgressListener listener) {
+    public PermutationTest test(String term, int permutations, long seed, ProgressListener listener) {
         Objects.requireNonNull(listener, "listener");
         Design.Term t = design.term(term);
         if (t.name().equals(Design.INTERCEPT)) {

@@ -191,6 +191,7 @@ class AnomalyScoringTest {
         AnomalyScoring.Report rep = c.score(fit.residuals(d, batch));
         AnomalyScoring.UnitScore u = rep.units().get(30);
         assertTrue(u.flagged(), "p = " + u.pValue());
+        assertEquals(u.residualNorm(), ((io.densa.core.TestResult) u).statistic(), 0.0);
         boolean found = false;
         for (AnomalyScoring.Excursion e : u.excursions()) {
             if (e.direction() == AnomalyScoring.Direction.EXCESS && e.from() <= 0.4 && e.to() >= 0.4) {

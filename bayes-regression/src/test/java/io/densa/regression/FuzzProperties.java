@@ -159,7 +159,7 @@ class FuzzProperties {
             CHECK.run("bootstrapBands", () -> fit.bootstrapBands(grid, 20, FuzzValues.probability(r), 3L), grid);
         }
         if (r.nextInt(3) == 0) {
-            CHECK.run("permutationTest", () -> fit.permutationTest("x1", 19, 4L));
+            CHECK.run("permutationTest", () -> fit.test("x1", 19, 4L));
         }
     }
 

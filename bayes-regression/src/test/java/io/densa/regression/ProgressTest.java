@@ -79,8 +79,8 @@ class ProgressTest {
     void permutationTestReportsEveryPermutation() {
         FunctionOnScalarFit fit = fosFit();
         Recorder rec = new Recorder();
-        FunctionOnScalarFit.PermutationTest a = fit.permutationTest("dose", 99, 4L);
-        FunctionOnScalarFit.PermutationTest b = fit.permutationTest("dose", 99, 4L, rec);
+        FunctionOnScalarFit.PermutationTest a = fit.test("dose", 99, 4L);
+        FunctionOnScalarFit.PermutationTest b = fit.test("dose", 99, 4L, rec);
         rec.assertCompleteMonotone("permutation test", 99);
         assertEquals(a, b);
     }
