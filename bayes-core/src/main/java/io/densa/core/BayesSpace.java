@@ -215,8 +215,21 @@ public final class BayesSpace {
     // ---------------------------------------------------------------- factories
 
     /**
-     * Space of cubic-or-other-order splines with equally spaced interior knots and Lebesgue
-     * reference.
+     * Space of cubic splines (order 4) with equally spaced interior knots and Lebesgue reference:
+     * the usual choice, {@code splines(a, b, 4, interiorKnotCount)}.
+     *
+     * @param a                 lower end of the domain
+     * @param b                 upper end of the domain, b &gt; a
+     * @param interiorKnotCount number of equally spaced interior knots, ≥ 0
+     * @return the space, of dimension K = interiorKnotCount + 3
+     */
+    public static BayesSpace cubicSplines(double a, double b, int interiorKnotCount) {
+        return splines(a, b, 4, interiorKnotCount);
+    }
+
+    /**
+     * Space of splines of any order with equally spaced interior knots and Lebesgue reference: the
+     * order (4 = cubic; see {@link #cubicSplines}) comes first, then the knot count.
      *
      * @param a                 lower end of the domain
      * @param b                 upper end of the domain, b &gt; a

@@ -41,6 +41,11 @@ public final class AnomalyScoring {
         this.bandLevel = bandLevel;
     }
 
+    @Override
+    public String toString() {
+        return "AnomalyScoring[fdr=" + fdr + ", bandLevel=" + bandLevel + "]";
+    }
+
     /** FDR level 0.05 and a central pointwise band of 95 %. */
     public static AnomalyScoring withDefaults() {
         return new AnomalyScoring(0.05, 0.95);
@@ -87,7 +92,7 @@ public final class AnomalyScoring {
      * @param calibrationResiduals at least 1 residual density
      * @param grid                 points of the domain where bands are evaluated (copied)
      */
-    public Calibrated calibrate(DensitySet calibrationResiduals, double[] grid) {
+    public Calibrated fit(DensitySet calibrationResiduals, double[] grid) {
         Objects.requireNonNull(calibrationResiduals, "calibrationResiduals");
         if (calibrationResiduals.size() < 1) {
             throw new IllegalArgumentException("calibration set is empty");
@@ -193,6 +198,25 @@ public final class AnomalyScoring {
         public Report {
             units = List.copyOf(units);
         }
+
+        /** The settings, the counts and the flagged units (at most five). */
+        @Override
+        public String toString() {
+            StringBuilder sb = new StringBuilder("AnomalyScoring.Report[").append(units.size()).append(" units, ")
+                    .append(flaggedCount).append(" flagged at FDR ").append(fdr).append(", band level ")
+                    .append(bandLevel).append(", ").append(calibrationSize).append(" calibration units]");
+            int shown = 0;
+            for (UnitScore u : units) {
+                if (u.flagged() && shown++ < 5) {
+                    sb.append(String.format(java.util.Locale.ROOT, "%n  %s: norm %.4g, p %.3g, adjusted %.3g",
+                            u.id(), u.residualNorm(), u.pValue(), u.adjustedPValue()));
+                }
+            }
+            if (shown > 5) {
+                sb.append("\n  … (").append(shown - 5).append(" more flagged)");
+            }
+            return sb.toString();
+        }
     }
 
     /** A calibrated scorer: sorted calibration norms and pointwise bands. Immutable and thread-safe. */
@@ -289,6 +313,11 @@ public final class AnomalyScoring {
                 out.add(new UnitScore(i, residuals.id(i), norms[i], p[i], adj[i], f, ex));
             }
             return new Report(out, cfg.fdr, cfg.bandLevel, sorted.length, flagged);
+        }
+
+        @Override
+        public String toString() {
+            return "AnomalyScoring.Calibrated[n=" + sorted.length + ", grid=" + grid.length + " points, " + cfg + "]";
         }
 
         private List<Excursion> excursions(double[] clr, int m) {

@@ -319,7 +319,7 @@ class ClippedNetworkTest {
     /** The ten networks with every default (computed once, shared by the tests). */
     static synchronized Outcome[] withDefaults() {
         if (defaultsCache == null) {
-            defaultsCache = runAll(PenalizedLikelihoodEstimator.of(space()));
+            defaultsCache = runAll(PenalizedLikelihoodEstimator.withDefaults(space()));
         }
         return defaultsCache;
     }
@@ -346,7 +346,7 @@ class ClippedNetworkTest {
      */
     @Test
     void plainPenalisedLikelihoodReproducesTheFailure() {
-        Outcome[] plain = runAll(PenalizedLikelihoodEstimator.of(space()).withReferencePrior(0));
+        Outcome[] plain = runAll(PenalizedLikelihoodEstimator.withDefaults(space()).withReferencePrior(0));
         Outcome[] defaults = withDefaults();
         int diving = 0;
         double worst = 0;

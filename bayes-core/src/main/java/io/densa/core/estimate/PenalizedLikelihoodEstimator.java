@@ -300,7 +300,7 @@ public final class PenalizedLikelihoodEstimator {
      *
      * @param space the space the densities belong to
      */
-    public static PenalizedLikelihoodEstimator of(BayesSpace space) {
+    public static PenalizedLikelihoodEstimator withDefaults(BayesSpace space) {
         Objects.requireNonNull(space, "space");
         int order = Math.min(2, RoughnessPenalty.maxOrder(EstimationSupport.rawBasis(space.basis())));
         return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.MARGINAL_LIKELIHOOD, 5,
@@ -1390,5 +1390,17 @@ public final class PenalizedLikelihoodEstimator {
             eng.evaluate(eng.beta, lambda);
             return Double.isNaN(sum) ? Double.POSITIVE_INFINITY : sum;
         }
+    }
+
+    /** The space and every setting, e.g. for a log or a JShell session. */
+    @Override
+    public String toString() {
+        return "PenalizedLikelihoodEstimator[" + space + ", penalty order " + penaltyOrder
+                + (Double.isNaN(fixedLambda) ? ", lambda by " + criterion + " over log10 in [" + gridLo + ", " + gridHi
+                        + "] step " + gridStep + (criterion == SmoothingCriterion.CROSS_VALIDATION ? ", " + folds
+                        + " folds, seed " + seed : "") : ", lambda " + fixedLambda)
+                + ", prior weight " + priorWeight + ", at most " + maxIterations + " iterations, tolerance " + tolerance
+                + ", " + (points == 0 ? "automatic" : String.valueOf(points)) + " quadrature points, zero totals "
+                + zeroTotal + (fractional ? ", fractional counts" : "") + (parallel ? ", parallel" : "") + "]";
     }
 }

@@ -94,7 +94,7 @@ public final class SmoothingSplineEstimator {
      * penalty (first for linear splines), λ by GCV over λ = s 10^g, g ∈ [−12, 6] (s = tr(X'X)/tr(Ω)),
      * zero-total units rejected, parallel batches.
      */
-    public static SmoothingSplineEstimator of(BayesSpace space) {
+    public static SmoothingSplineEstimator withDefaults(BayesSpace space) {
         Objects.requireNonNull(space, "space");
         return new SmoothingSplineEstimator(space, ZeroReplacement.bayesianMultiplicative(ZeroReplacement.Prior.JEFFREYS),
                 Math.min(2, RoughnessPenalty.maxOrder(EstimationSupport.rawBasis(space.basis()))), Double.NaN, -12, 6, ZeroTotalPolicy.REJECT,
@@ -526,5 +526,13 @@ public final class SmoothingSplineEstimator {
             }
             return cov;
         }
+    }
+
+    /** The space and every setting, e.g. for a log or a JShell session. */
+    @Override
+    public String toString() {
+        return "SmoothingSplineEstimator[" + space + ", zeros " + zeros + ", penalty order " + penaltyOrder
+                + (Double.isNaN(fixedLambda) ? ", lambda by GCV over log10 in [" + gridLo + ", " + gridHi + "]"
+                        : ", lambda " + fixedLambda) + ", zero totals " + zeroTotal + (parallel ? ", parallel" : "") + "]";
     }
 }

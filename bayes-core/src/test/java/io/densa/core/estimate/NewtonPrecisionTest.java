@@ -78,7 +78,7 @@ class NewtonPrecisionTest {
 
     private static void check(int[] counts, double[] sample, int bins, double priorWeight) {
         BayesSpace space = BayesSpace.splines(0, 1, 4, KNOTS);
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space).withReferencePrior(priorWeight);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space).withReferencePrior(priorWeight);
         UnitEstimate fit = counts != null ? est.fit(edges(0, 1, bins), counts) : est.fitSample(sample);
         assertTrue(fit.diagnostics().converged(), fit.diagnostics().toString());
         double lambda = fit.diagnostics().smoothing();
