@@ -100,7 +100,9 @@ class FunctionOnScalarTest {
     /**
      * Weighted least squares equals OLS on rows scaled by √w (Commons Math reference); ridge with
      * R = I equals OLS on the data augmented by rows √λ e_j for every penalised column (a
-     * textbook identity, Hoerl and Kennard (1970), Technometrics 12(1) [from memory]).
+     * textbook identity, Hoerl and Kennard (1970), Technometrics 12(1) [from memory]; derived in one
+     * line: the normal equations of the augmented system [X; √λ E] b = [y; 0] are
+     * (XᵀX + λ EᵀE) b = Xᵀy, the ridge equations).
      */
     @Test
     void weightsAndRidgeMatchAugmentedOls() {

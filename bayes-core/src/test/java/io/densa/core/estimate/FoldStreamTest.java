@@ -16,7 +16,8 @@ import org.junit.jupiter.api.Test;
  * Cross-validation fold streams: one independent stream per unit. A SplittableRandom seeded with
  * seed ^ (γ·(i + 1)) for its own increment γ gives, for seed 1, unit i + 2 the stream of unit i
  * shifted by two draws (SplittableRandom adds γ to its state each draw; Steele, Lea &amp; Flood
- * (2014), Fast splittable pseudorandom number generators, OOPSLA — from memory).
+ * (2014), Fast splittable pseudorandom number generators, OOPSLA — from memory; the JDK's
+ * SplittableRandom is the independent implementation it is checked against, see also SeedsTest).
  */
 class FoldStreamTest {
 
@@ -62,7 +63,7 @@ class FoldStreamTest {
         for (int i = 0; i < n; i++) {
             counts[i] = truth.counts(60 + r.nextInt(100), 20, r);
         }
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(BayesSpace.splines(0, 1, 4, 6))
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(BayesSpace.splines(0, 1, 4, 6))
                 .withCrossValidation(5, 1);
         BatchEstimate par = est.withParallel(true).fitAll(edges(0, 1, 20), counts, null);
         BatchEstimate ser = est.withParallel(false).fitAll(edges(0, 1, 20), counts, null);
