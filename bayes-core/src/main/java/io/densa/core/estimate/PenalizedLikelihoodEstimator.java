@@ -155,7 +155,7 @@ import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DD
  * parallel on the common pool (fixed blocks, each unit independent), bit-identical to the serial
  * path.
  */
-public final class PenalizedLikelihoodEstimator {
+public final class PenalizedLikelihoodEstimator implements CountEstimator {
     private static final int UNITS_PER_BLOCK = 32;
     private static final int GOLDEN_STEPS = 7;
     private static final double SEARCH_TOLERANCE = 1e-9;
@@ -472,6 +472,7 @@ public final class PenalizedLikelihoodEstimator {
     }
 
     /** The space. */
+    @Override
     public BayesSpace space() {
         return space;
     }
@@ -510,26 +511,6 @@ public final class PenalizedLikelihoodEstimator {
     // ---------------------------------------------------------------- binned counts
 
     /**
-     * Fits one unit of whole-number counts.
-     *
-     * @param edges  D + 1 strictly increasing bin edges inside the domain (not modified)
-     * @param counts D counts ≥ 0 (not modified)
-     * @throws IllegalArgumentException on bad edges or counts (naming the bin), or a zero total
-     *                                  under {@link ZeroTotalPolicy#REJECT}
-     */
-    public UnitEstimate fit(double[] edges, int[] counts) {
-        return fitAll(edges, new int[][] {Objects.requireNonNull(counts, "counts")}, null).unit(0);
-    }
-
-    /**
-     * Fits one unit of counts given as doubles (whole numbers unless
-     * {@link #withFractionalCounts} allows weights).
-     */
-    public UnitEstimate fit(double[] edges, double[] counts) {
-        return fitAll(edges, new double[][] {Objects.requireNonNull(counts, "counts")}, null).unit(0);
-    }
-
-    /**
      * Fits many units sharing bin edges.
      *
      * @param counts n rows of D counts (not modified)
@@ -537,6 +518,7 @@ public final class PenalizedLikelihoodEstimator {
      * @return the densities (ids kept) and per-unit diagnostics, in input order
      * @throws IllegalArgumentException naming the unit id and bin of the first bad count
      */
+    @Override
     public BatchEstimate fitAll(double[] edges, int[][] counts, String[] ids) {
         Objects.requireNonNull(counts, "counts");
         double[] e = EstimationSupport.checkEdges(space, edges);
@@ -555,6 +537,7 @@ public final class PenalizedLikelihoodEstimator {
     }
 
     /** Fits many units of counts given as doubles; see {@link #fitAll(double[], int[][], String[])}. */
+    @Override
     public BatchEstimate fitAll(double[] edges, double[][] counts, String[] ids) {
         Objects.requireNonNull(counts, "counts");
         double[] e = EstimationSupport.checkEdges(space, edges);

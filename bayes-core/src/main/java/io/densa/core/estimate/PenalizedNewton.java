@@ -348,14 +348,7 @@ final class PenalizedNewton {
         if (fcur >= 0) {
             flush4(fcur, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
         }
-        double c1 = total / (z * z);
-        for (int i = 0; i < k; i++) {
-            double mi = c1 * mvec[i];
-            int row = i * k1;
-            for (int l = 0; l <= i; l++) {
-                hess[row + l] -= mi * mvec[l];
-            }
-        }
+        subtractOuter(hess, k1, total / (z * z), mvec, k);
         for (int i = 0; i < k; i++) {
             grad[i] += linear[i];
         }
@@ -613,14 +606,7 @@ final class PenalizedNewton {
                 }
             }
         }
-        double c = 1.0 / total;
-        for (int i = 0; i < k; i++) {
-            double mi = c * mvec[i];
-            int row = i * k;
-            for (int l = 0; l <= i; l++) {
-                meat[row + l] -= mi * mvec[l];
-            }
-        }
+        subtractOuter(meat, k, 1.0 / total, mvec, k);
         for (int i = 0; i < k; i++) {
             for (int l = 0; l < i; l++) {
                 meat[l * k + i] = meat[i * k + l];
@@ -811,5 +797,16 @@ final class PenalizedNewton {
             tr += wm[i * n + i];
         }
         return tr;
+    }
+
+    /** Lower triangle of the k × k block of a (row stride s) minus c·m mᵀ, entry by entry as (c m_i) m_l. */
+    private static void subtractOuter(double[] a, int s, double c, double[] m, int k) {
+        for (int i = 0; i < k; i++) {
+            double mi = c * m[i];
+            int row = i * s;
+            for (int l = 0; l <= i; l++) {
+                a[row + l] -= mi * m[l];
+            }
+        }
     }
 }

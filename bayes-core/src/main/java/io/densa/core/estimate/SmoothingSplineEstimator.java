@@ -51,7 +51,7 @@ import org.ejml.interfaces.decomposition.EigenDecomposition_F64;
  * <p>Immutable and thread-safe; inputs are not modified; {@code fitAll} is parallel and
  * bit-identical to the serial path.
  */
-public final class SmoothingSplineEstimator {
+public final class SmoothingSplineEstimator implements CountEstimator {
     private static final int UNITS_PER_BLOCK = 64;
     private static final double GRID_STEP = 0.05;
     /** Task name of the progress reports of batch fits. */
@@ -174,6 +174,7 @@ public final class SmoothingSplineEstimator {
     }
 
     /** The space. */
+    @Override
     public BayesSpace space() {
         return space;
     }
@@ -191,17 +192,8 @@ public final class SmoothingSplineEstimator {
         return des.gcv(z, yy, lambda)[0];
     }
 
-    /** Fits one unit. */
-    public UnitEstimate fit(double[] edges, int[] counts) {
-        return fitAll(edges, new int[][] {Objects.requireNonNull(counts, "counts")}, null).unit(0);
-    }
-
-    /** Fits one unit of counts given as doubles (may be fractional). */
-    public UnitEstimate fit(double[] edges, double[] counts) {
-        return fitAll(edges, new double[][] {Objects.requireNonNull(counts, "counts")}, null).unit(0);
-    }
-
     /** Fits many units sharing bin edges; see {@link PenalizedLikelihoodEstimator#fitAll(double[], int[][], String[])}. */
+    @Override
     public BatchEstimate fitAll(double[] edges, int[][] counts, String[] ids) {
         Objects.requireNonNull(counts, "counts");
         double[] e = EstimationSupport.checkEdges(space, edges);
@@ -218,6 +210,7 @@ public final class SmoothingSplineEstimator {
     }
 
     /** Fits many units of counts given as doubles (finite, ≥ 0, may be fractional). */
+    @Override
     public BatchEstimate fitAll(double[] edges, double[][] counts, String[] ids) {
         Objects.requireNonNull(counts, "counts");
         double[] e = EstimationSupport.checkEdges(space, edges);

@@ -129,26 +129,7 @@ public final class Kernels {
      * @return a fresh k-vector
      */
     public static double[] columnSums(double[] a, int n, int k, boolean parallel) {
-        int blocks = (n + BLOCK - 1) / BLOCK;
-        double[][] partial = new double[blocks][];
-        forEachBlock(blocks, parallel && parallelWorth((long) n * k), blk -> {
-            double[] s = new double[k];
-            int r0 = blk * BLOCK, r1 = Math.min(n, r0 + BLOCK);
-            for (int i = r0; i < r1; i++) {
-                int o = i * k;
-                for (int j = 0; j < k; j++) {
-                    s[j] += a[o + j];
-                }
-            }
-            partial[blk] = s;
-        });
-        double[] sum = new double[k];
-        for (double[] p : partial) {
-            for (int j = 0; j < k; j++) {
-                sum[j] += p[j];
-            }
-        }
-        return sum;
+        return columnSumsOfRows(a, k, null, 0, n, null, parallel);
     }
 
     /**
