@@ -11,10 +11,8 @@ import io.densa.core.internal.Kernels;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.RawBasis;
 import io.densa.core.internal.RoughnessPenalty;
-import io.densa.core.internal.Seeds;
 import java.util.Arrays;
 import java.util.Objects;
-import java.util.SplittableRandom;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DDRM;
 
@@ -722,7 +720,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
     }
 
     /** Per-observation local basis values of one sample and its sufficient statistic. */
-    private static final class SampleData {
+    static final class SampleData {
         final int n;
         final int[] first;
         final double[] vals;
@@ -861,7 +859,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             SampleData sample) {
         eng.startFromCounts();
         boolean choose = Double.isNaN(fixedLambda);
-        Folds cv = criterion == SmoothingCriterion.CROSS_VALIDATION ? new Folds(eng, sample, folds, seed, index) : null;
+        CrossValidationFolds cv = criterion == SmoothingCriterion.CROSS_VALIDATION ? new CrossValidationFolds(eng, sample, folds, seed, index, k, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE)) : null;
         double lambda;
         if (!choose) {
             lambda = fixedLambda;
@@ -1095,7 +1093,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
      * model selection for general smooth models, JASA 111, §3; from memory). Needs the Cholesky
      * factor of J in the engine (left by the last sandwich); restores the engine state.
      */
-    private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, Folds cv, double[] cov) {
+    private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, CrossValidationFolds cv, double[] cov) {
         double[] dBeta = new double[k + 1];
         double[] pb = new double[k];
         for (int i = 0; i < k; i++) {
@@ -1130,7 +1128,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
     }
 
     /** Golden-section refinement of log10 λ on [bestG − step, bestG + step] (grid ends or flat spots). */
-    private double golden(PenalizedNewton eng, double scale, Folds cv, double bestG, double bestC, double[] bestBeta) {
+    private double golden(PenalizedNewton eng, double scale, CrossValidationFolds cv, double bestG, double bestC, double[] bestBeta) {
         // golden-section refinement on [bestG − step, bestG + step]
         double lo = Math.max(gridLo, bestG - gridStep), hi = Math.min(gridHi, bestG + gridStep);
         double ratio = 0.5 * (Math.sqrt(5) - 1);
@@ -1170,7 +1168,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
     }
 
     /** Fits at λ from the current beta and returns the criterion (+∞ on failure). */
-    private double criterionAt(PenalizedNewton eng, double lambda, Folds cv) {
+    private double criterionAt(PenalizedNewton eng, double lambda, CrossValidationFolds cv) {
         if (!eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE))) {
             return Double.POSITIVE_INFINITY;
         }
@@ -1188,7 +1186,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
     }
 
     /** The criterion at the fitted beta (eng arrays must hold beta's evaluation for GCV). */
-    private double criterionValue(PenalizedNewton eng, double lambda, double edf, double loglik, Folds cv) {
+    private double criterionValue(PenalizedNewton eng, double lambda, double edf, double loglik, CrossValidationFolds cv) {
         switch (criterion) {
             case AIC:
                 return -2 * loglik + 2 * edf;
@@ -1233,145 +1231,6 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             }
             default:
                 return cv.score(lambda);
-        }
-    }
-
-    /**
-     * The generator of the cross-validation folds of unit {@code index}: an independent stream per
-     * unit from {@link Seeds#stream} (SplitMix64 finaliser), so that no unit's stream is a shifted
-     * copy of another's and the folds do not depend on the number of threads.
-     */
-    static SplittableRandom foldStream(long seed, int index) {
-        return Seeds.stream(seed, index);
-    }
-
-    /**
-     * Deals the events of each bin into folds independently with equal probabilities: for bin j
-     * with n_j events the fold counts are multinomial(n_j; 1/k, …, 1/k), drawn as successive
-     * binomials x_f ~ Bin(n_j − x_0 − … − x_{f−1}, 1/(k − f)) by inversion of the binomial
-     * distribution function (Commons Math). Memory O(D k), independent of the number of events.
-     *
-     * @throws IllegalArgumentException for a bin with more than 2³¹ − 1 events
-     */
-    static void splitCounts(double[] counts, int nf, SplittableRandom rnd, double[][] test, double[] testTotal) {
-        for (int j = 0; j < counts.length; j++) {
-            double remaining = counts[j];
-            if (remaining > Integer.MAX_VALUE) {
-                throw new IllegalArgumentException("cross-validation supports at most " + Integer.MAX_VALUE
-                        + " events per bin, bin " + j + " has " + remaining);
-            }
-            for (int f = 0; f < nf - 1 && remaining > 0; f++) {
-                double u = rnd.nextDouble();
-                double x = new org.apache.commons.math3.distribution.BinomialDistribution(null, (int) remaining,
-                        1.0 / (nf - f)).inverseCumulativeProbability(u);
-                test[f][j] = x;
-                testTotal[f] += x;
-                remaining -= x;
-            }
-            test[nf - 1][j] += remaining;
-            testTotal[nf - 1] += remaining;
-        }
-    }
-
-    /** Fold structure of one unit for cross-validation. */
-    private final class Folds {
-        final PenalizedNewton eng;
-        final int nf;
-        final double[][] test; // counts mode: per fold test counts; sample mode: test linear stats
-        final double[] testTotal;
-        final double[] testTotal2;
-        final double[] train;
-        final double[] fullLinear;
-        final double[] fullCounts;
-        final double fullTotal;
-        final double fullTotal2;
-        final double[] start;
-
-        Folds(PenalizedNewton eng, SampleData sample, int nf, long seed, int index) {
-            this.eng = eng;
-            this.nf = nf;
-            SplittableRandom rnd = foldStream(seed, index);
-            testTotal = new double[nf];
-            testTotal2 = new double[nf];
-            fullTotal = eng.total;
-            fullTotal2 = eng.total2;
-            fullLinear = eng.linear.clone();
-            start = new double[k + 1];
-            if (eng.counts != null) {
-                int d = eng.lay.bins;
-                fullCounts = eng.counts;
-                test = new double[nf][d];
-                splitCounts(fullCounts, nf, rnd, test, testTotal);
-                train = new double[d];
-            } else {
-                fullCounts = null;
-                int[] order = new int[sample.n];
-                for (int i = 0; i < order.length; i++) {
-                    order[i] = i;
-                }
-                Seeds.shuffle(order, rnd);
-                test = new double[nf][k + 1];
-                for (int i = 0; i < order.length; i++) {
-                    int obs = order[i], f = i % nf;
-                    double w = sample.w[obs];
-                    testTotal[f] += w;
-                    testTotal2[f] += w * w;
-                    int fi = sample.first[obs];
-                    for (int j = 0; j < sample.width; j++) {
-                        test[f][fi + j] += w * sample.vals[obs * sample.width + j];
-                    }
-                }
-                train = new double[k + 1];
-            }
-        }
-
-        /** Minus the held-out log-likelihood summed over folds, fits started from the full fit. */
-        double score(double lambda) {
-            System.arraycopy(eng.beta, 0, start, 0, k + 1);
-            double sum = 0;
-            for (int f = 0; f < nf && sum < Double.POSITIVE_INFINITY; f++) {
-                if (!(testTotal[f] > 0) || !(fullTotal - testTotal[f] > 0)) {
-                    continue;
-                }
-                System.arraycopy(start, 0, eng.beta, 0, k + 1);
-                if (fullCounts != null) {
-                    for (int j = 0; j < train.length; j++) {
-                        train[j] = fullCounts[j] - test[f][j];
-                    }
-                    eng.counts = train;
-                    eng.total = fullTotal - testTotal[f];
-                    eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
-                    eng.evaluate(eng.beta, lambda);
-                    double logZ = Math.log(eng.zScaled);
-                    for (int j = 0; j < train.length; j++) {
-                        double c = test[f][j];
-                        if (c > 0) {
-                            sum -= c * (Math.log(eng.mass[j]) - logZ);
-                        }
-                    }
-                } else {
-                    for (int j = 0; j <= k; j++) {
-                        eng.linear[j] = fullLinear[j] - test[f][j];
-                    }
-                    eng.total = fullTotal - testTotal[f];
-                    eng.total2 = fullTotal2 - testTotal2[f];
-                    eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
-                    eng.evaluate(eng.beta, lambda);
-                    double tb = 0;
-                    for (int j = 0; j < k; j++) {
-                        tb += test[f][j] * eng.beta[j];
-                    }
-                    sum -= tb - testTotal[f] * (eng.shift + Math.log(eng.zScaled));
-                }
-            }
-            // restore the full data and the full fit
-            eng.counts = fullCounts;
-            eng.total = fullTotal;
-            eng.total2 = fullTotal2;
-            System.arraycopy(fullLinear, 0, eng.linear, 0, k + 1);
-            System.arraycopy(start, 0, eng.beta, 0, k + 1);
-            eng.evaluate(eng.beta, lambda);
-            return Double.isNaN(sum) ? Double.POSITIVE_INFINITY : sum;
         }
     }
 

@@ -255,7 +255,7 @@ class EstimationEdgeCasesTest {
         int k = 5;
         double[][] test = new double[k][counts.length];
         double[] totals = new double[k];
-        PenalizedLikelihoodEstimator.splitCounts(counts, k, new SplittableRandom(3), test, totals);
+        CrossValidationFolds.splitCounts(counts, k, new SplittableRandom(3), test, totals);
         for (int j = 0; j < counts.length; j++) {
             double s = 0;
             for (int f = 0; f < k; f++) {
@@ -272,7 +272,7 @@ class EstimationEdgeCasesTest {
             }
         }
         double[][] big = new double[k][1];
-        assertThrows(IllegalArgumentException.class, () -> PenalizedLikelihoodEstimator.splitCounts(
+        assertThrows(IllegalArgumentException.class, () -> CrossValidationFolds.splitCounts(
                 new double[] {3e9}, k, new SplittableRandom(1), big, new double[k]));
     }
 

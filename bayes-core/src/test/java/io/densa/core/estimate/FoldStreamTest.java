@@ -35,9 +35,9 @@ class FoldStreamTest {
         int m = 64;
         for (long seed : new long[] {0, 1, 2, 42, -1}) {
             for (int i = 0; i < 20; i++) {
-                long[] a = draws(PenalizedLikelihoodEstimator.foldStream(seed, i), m);
+                long[] a = draws(CrossValidationFolds.foldStream(seed, i), m);
                 for (int s = 1; s <= 4; s++) {
-                    long[] b = draws(PenalizedLikelihoodEstimator.foldStream(seed, i + s), m);
+                    long[] b = draws(CrossValidationFolds.foldStream(seed, i + s), m);
                     int equal = 0;
                     for (int j = 0; j + s < m; j++) {
                         if (a[j + s] == b[j]) {
@@ -47,7 +47,7 @@ class FoldStreamTest {
                     assertEquals(0, equal, "seed " + seed + ": unit " + (i + s) + " repeats unit " + i
                             + " shifted by " + s + " draws in " + equal + " places");
                 }
-                long[] other = draws(PenalizedLikelihoodEstimator.foldStream(seed, i + 1), m);
+                long[] other = draws(CrossValidationFolds.foldStream(seed, i + 1), m);
                 assertFalse(java.util.Arrays.equals(a, other), "seed " + seed + ", unit " + i);
             }
         }
