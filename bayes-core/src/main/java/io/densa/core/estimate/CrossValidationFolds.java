@@ -35,13 +35,13 @@ final class CrossValidationFolds {
         SplittableRandom rnd = foldStream(seed, index);
         testTotal = new double[nf];
         testTotal2 = new double[nf];
-        fullTotal = eng.total;
-        fullTotal2 = eng.total2;
-        fullLinear = eng.linear.clone();
+        fullTotal = eng.total();
+        fullTotal2 = eng.total2();
+        fullLinear = eng.sampleStatistics();
         start = new double[k + 1];
-        if (eng.counts != null) {
-            int d = eng.lay.bins;
-            fullCounts = eng.counts;
+        if (eng.hasCounts()) {
+            int d = eng.bins().bins;
+            fullCounts = eng.counts();
             test = new double[nf][d];
             splitCounts(fullCounts, nf, rnd, test, testTotal);
             train = new double[d];
@@ -69,50 +69,46 @@ final class CrossValidationFolds {
 
     /** Minus the held-out log-likelihood summed over folds, fits started from the full fit. */
     double score(double lambda) {
-        System.arraycopy(eng.beta, 0, start, 0, k + 1);
+        eng.copyCoefficientsTo(start);
         double sum = 0;
         for (int f = 0; f < nf && sum < Double.POSITIVE_INFINITY; f++) {
             if (!(testTotal[f] > 0) || !(fullTotal - testTotal[f] > 0)) {
                 continue;
             }
-            System.arraycopy(start, 0, eng.beta, 0, k + 1);
+            eng.setCoefficients(start);
             if (fullCounts != null) {
                 for (int j = 0; j < train.length; j++) {
                     train[j] = fullCounts[j] - test[f][j];
                 }
-                eng.counts = train;
-                eng.total = fullTotal - testTotal[f];
+                eng.setCounts(train, fullTotal - testTotal[f]);
                 eng.solveForSearch(lambda, maxIterations, searchTolerance);
-                eng.evaluate(eng.beta, lambda);
-                double logZ = Math.log(eng.zScaled);
+                eng.evaluate(lambda);
+                double logZ = Math.log(eng.zScaled());
                 for (int j = 0; j < train.length; j++) {
                     double c = test[f][j];
                     if (c > 0) {
-                        sum -= c * (Math.log(eng.mass[j]) - logZ);
+                        sum -= c * (Math.log(eng.mass(j)) - logZ);
                     }
                 }
             } else {
                 for (int j = 0; j <= k; j++) {
-                    eng.linear[j] = fullLinear[j] - test[f][j];
+                    train[j] = fullLinear[j] - test[f][j];
                 }
-                eng.total = fullTotal - testTotal[f];
-                eng.total2 = fullTotal2 - testTotal2[f];
+                eng.setSampleStatistics(train, fullTotal - testTotal[f], fullTotal2 - testTotal2[f]);
                 eng.solveForSearch(lambda, maxIterations, searchTolerance);
-                eng.evaluate(eng.beta, lambda);
+                eng.evaluate(lambda);
+                double[] beta = eng.coefficients();
                 double tb = 0;
                 for (int j = 0; j < k; j++) {
-                    tb += test[f][j] * eng.beta[j];
+                    tb += test[f][j] * beta[j];
                 }
-                sum -= tb - testTotal[f] * (eng.shift + Math.log(eng.zScaled));
+                sum -= tb - testTotal[f] * (eng.shift() + Math.log(eng.zScaled()));
             }
         }
         // restore the full data and the full fit
-        eng.counts = fullCounts;
-        eng.total = fullTotal;
-        eng.total2 = fullTotal2;
-        System.arraycopy(fullLinear, 0, eng.linear, 0, k + 1);
-        System.arraycopy(start, 0, eng.beta, 0, k + 1);
-        eng.evaluate(eng.beta, lambda);
+        eng.restoreData(fullCounts, fullTotal, fullTotal2, fullLinear);
+        eng.setCoefficients(start);
+        eng.evaluate(lambda);
         return Double.isNaN(sum) ? Double.POSITIVE_INFINITY : sum;
     }
 

@@ -580,9 +580,8 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
-            eng.coordinateMap = u;
-            eng.startMap = startMap;
-            eng.startConst = startConst;
+            eng.setCoordinateMap(u);
+            eng.setStartMap(startMap, startConst);
             double[] row = new double[lay.bins];
             int i1 = Math.min(n, (blk + 1) * UNITS_PER_BLOCK);
             for (int i = blk * UNITS_PER_BLOCK; i < i1; i++) {
@@ -592,10 +591,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
                     diag[i] = emptyUnit(id);
                     continue;
                 }
-                eng.counts = row;
-                eng.total = totals[i];
-                eng.total2 = totals[i];
-                Arrays.fill(eng.linear, 0.0);
+                eng.useCounts(row, totals[i]);
                 diag[i] = fitUnit(eng, scale, id, i, out, null);
             }
             done.advance(i1 - blk * UNITS_PER_BLOCK);
@@ -691,7 +687,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(domain, rawPenalty, prior);
-            eng.coordinateMap = u;
+            eng.setCoordinateMap(u);
             double[] scratch = new double[basis.scratchSize()];
             int i1 = Math.min(n, (blk + 1) * UNITS_PER_BLOCK);
             for (int i = blk * UNITS_PER_BLOCK; i < i1; i++) {
@@ -703,14 +699,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
                 double[] v = values[i];
                 double[] w = weights == null ? null : weights[i];
                 SampleData sd = new SampleData(v, w, basis, width, k, scratch);
-                eng.counts = null;
-                eng.total = totals[i];
-                eng.total2 = totals2[i];
-                System.arraycopy(sd.linear, 0, eng.linear, 0, k + 1);
-                eng.sampleFirst = sd.first;
-                eng.sampleVals = sd.vals;
-                eng.sampleWeights = sd.w;
-                eng.sampleWidth = sd.width;
+                eng.useSample(sd.linear, sd.first, sd.vals, sd.w, sd.width, totals[i], totals2[i]);
                 diag[i] = fitUnit(eng, domainScale, id, i, out, sd);
             }
             done.advance(i1 - blk * UNITS_PER_BLOCK);
@@ -788,13 +777,11 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
     /** Scale s with λ = N s 10^g: tr(F₁) / tr(P), F₁ the per-event information at the reference. */
     private double scale(BinLayout lay, boolean countsMode) {
         PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
-        eng.counts = countsMode ? new double[lay.bins] : null;
-        eng.total = 1.0;
-        eng.total2 = 1.0;
-        Arrays.fill(eng.beta, 0.0);
-        eng.evaluate(eng.beta, 0.0);
+        eng.restoreData(countsMode ? new double[lay.bins] : null, 1.0, 1.0, new double[k + 1]);
+        eng.clearCoefficients();
+        eng.evaluate(0.0);
         eng.fisherInformation();
-        double tf = EstimationSupport.trace(eng.fisher, k);
+        double tf = eng.fisherTrace();
         double tp = EstimationSupport.trace(rawPenalty, k);
         return tf > 0 && tp > 0 ? tf / tp : 1.0;
     }
@@ -872,14 +859,14 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             double cAbove = Double.POSITIVE_INFINITY, cBelow = Double.POSITIVE_INFINITY;
             for (int s = 0; s <= steps && rising < 2; s++) {
                 double g = gridHi - s * gridStep;
-                double c = criterionAt(eng, lambdaAt(eng.total, scale, g), cv);
+                double c = criterionAt(eng, lambdaAt(eng.total(), scale, g), cv);
                 if (c < bestC) {
                     bestC = c;
                     bestG = g;
                     rising = 0;
                     cAbove = s > 0 ? prev : Double.POSITIVE_INFINITY;
                     cBelow = Double.POSITIVE_INFINITY;
-                    System.arraycopy(eng.beta, 0, bestBeta, 0, k + 1);
+                    eng.copyCoefficientsTo(bestBeta);
                 } else if (bestC < Double.POSITIVE_INFINITY) {
                     if (rising == 0) {
                         cBelow = c;
@@ -927,8 +914,8 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
                     if (Math.abs(x - x1) < 1e-3 * gridStep) {
                         break;
                     }
-                    System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-                    double c = criterionAt(eng, lambdaAt(eng.total, scale, x), cv);
+                    eng.setCoefficients(bestBeta);
+                    double c = criterionAt(eng, lambdaAt(eng.total(), scale, x), cv);
                     if (m == 3) {
                         gs[3] = x;
                         cs[3] = c;
@@ -947,21 +934,21 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
                     if (c < bestC) {
                         bestC = c;
                         bestG = x;
-                        System.arraycopy(eng.beta, 0, bestBeta, 0, k + 1);
+                        eng.copyCoefficientsTo(bestBeta);
                     }
                 }
-                lambda = lambdaAt(eng.total, scale, bestG);
-                System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+                lambda = lambdaAt(eng.total(), scale, bestG);
+                eng.setCoefficients(bestBeta);
             } else {
                 lambda = golden(eng, scale, cv, bestG, bestC, bestBeta);
             }
         }
         boolean ok = eng.solve(lambda, maxIterations, tolerance);
-        String reason = ok ? "" : eng.failure;
-        int iterations = eng.iterations;
-        double loglik = eng.loglik;
+        String reason = ok ? "" : eng.failure();
+        int iterations = eng.iterations();
+        double loglik = eng.logLikelihood();
         double[] cov = new double[k * k];
-        eng.evaluate(eng.beta, lambda);
+        eng.evaluate(lambda);
         eng.fisherInformation();
         double edf = eng.sandwich(lambda, u, cov, true);
         if (Double.isNaN(edf) && prior != null) {
@@ -969,7 +956,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             // (1e167), where rounding of 2λΩ swamps the prior in Ω's null space
             throw new DensaException("unit " + id + ": penalised information F + 2 lambda Omega + prior is"
                     + " numerically singular at lambda = " + lambda + " (lambda too large for double precision"
-                    + " against the information of " + eng.total + " events; use a smaller lambda)"
+                    + " against the information of " + eng.total() + " events; use a smaller lambda)"
                     + (reason.isEmpty() ? "" : "; " + reason),
                     new SolveDiagnostics("penalised information F + 2 lambda Omega + prior", k, 0.0));
         }
@@ -1004,41 +991,43 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             throw new DensaException("unit " + id + ": the fit did not converge and " + criterion
                     + " cannot be evaluated at lambda = " + lambda + " (" + reason + ")",
                     new EstimationDiagnostics(id, EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose,
-                            criterion, crit, edf, loglik, eng.total, iterations, cov, Double.NaN, Double.NaN));
+                            criterion, crit, edf, loglik, eng.total(), iterations, cov, Double.NaN, Double.NaN));
         }
         if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD) {
             addSmoothingUncertainty(eng, lambda, crit, cv, cov);
         }
         EstimationSupport.projectPsd(cov, k);
         edf = Math.max(0.0, edf); // tr(J⁻¹F) ≥ 0; rounding gives −1e-22 when F vanishes
-        EstimationSupport.toCoordinates(u, k, eng.beta, out, index * k);
+        eng.coordinatesInto(u, out, index * k);
         for (int i = 0; i < k; i++) {
             if (!Double.isFinite(out[index * k + i])) {
                 throw new DensaException("unit " + id + ": estimate is not finite (" + reason + ")",
                         new EstimationDiagnostics(id, EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda,
-                                choose, reported, crit, edf, loglik, eng.total, iterations, cov, Double.NaN, Double.NaN));
+                                choose, reported, crit, edf, loglik, eng.total(), iterations, cov, Double.NaN, Double.NaN));
             }
         }
         double normSq = 0;
         for (int i = 0; i < k; i++) {
             normSq += out[index * k + i] * out[index * k + i];
         }
-        double share = eng.counts != null ? countsShare(eng, normSq) : sampleShare(sample, eng.beta, normSq);
+        double share = eng.hasCounts() ? countsShare(eng, normSq) : sampleShare(sample, eng.coefficients(), normSq);
         return new EstimationDiagnostics(id, ok ? EstimationDiagnostics.Status.CONVERGED
                 : EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose, reported, crit, edf, loglik,
-                eng.total, iterations, cov, EstimationSupport.trace(cov, k), share);
+                eng.total(), iterations, cov, EstimationSupport.trace(cov, k), share);
     }
 
     /** Extrapolation share of a counts unit: the domain below its first and above its last bin with events. */
     private double countsShare(PenalizedNewton eng, double normSq) {
-        int first = 0, last = eng.lay.bins - 1;
-        while (first < last && !(eng.counts[first] > 0)) {
+        double[] counts = eng.counts();
+        int first = 0, last = eng.bins().bins - 1;
+        while (first < last && !(counts[first] > 0)) {
             first++;
         }
-        while (last > first && !(eng.counts[last] > 0)) {
+        while (last > first && !(counts[last] > 0)) {
             last--;
         }
-        return EstimationSupport.extrapolationShare(domain, eng.lay, first, last, eng.beta, normSq, eng.total);
+        return EstimationSupport.extrapolationShare(domain, eng.bins(), first, last, eng.coefficients(), normSq,
+                eng.total());
     }
 
     /** Extrapolation share of a sample: the domain below its smallest and above its largest value. */
@@ -1074,10 +1063,10 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
                 }
                 break;
             case AICC:
-                return "AICc is undefined with N = " + eng.total + " <= edf + 1 = " + (edf + 1)
+                return "AICc is undefined with N = " + eng.total() + " <= edf + 1 = " + (edf + 1)
                         + " at lambda = " + lambda + " (it needs more than edf + 1 events)";
             case GCV:
-                return "GCV is undefined with edf = " + edf + " >= number of bins " + eng.lay.bins
+                return "GCV is undefined with edf = " + edf + " >= number of bins " + eng.bins().bins
                         + " at lambda = " + lambda;
             default:
                 break;
@@ -1093,27 +1082,29 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
      * model selection for general smooth models, JASA 111, §3; from memory). Needs the Cholesky
      * factor of J in the engine (left by the last sandwich); restores the engine state.
      */
-    private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, CrossValidationFolds cv, double[] cov) {
+    private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, CrossValidationFolds cv,
+            double[] cov) {
         double[] dBeta = new double[k + 1];
         double[] pb = new double[k];
+        double[] beta = eng.coefficients();
         for (int i = 0; i < k; i++) {
             double r = 0;
             for (int j = 0; j < k; j++) {
-                r += rawPenalty[i * k + j] * eng.beta[j];
+                r += rawPenalty[i * k + j] * beta[j];
             }
             pb[i] = -2 * lambda * r;
         }
         System.arraycopy(pb, 0, dBeta, 0, k);
-        Cholesky.solve(eng.solveA, k, k, dBeta, 0);
+        eng.solveWithInformationFactor(dBeta);
         double[] dc = new double[k];
         EstimationSupport.toCoordinates(u, k, dBeta, dc, 0);
-        double[] saved = eng.beta.clone();
+        double[] saved = eng.coefficients();
         double h = SMOOTHING_STEP;
         double up = criterionAt(eng, lambda * Math.pow(10, h), cv);
-        System.arraycopy(saved, 0, eng.beta, 0, k + 1);
+        eng.setCoefficients(saved);
         double down = criterionAt(eng, lambda * Math.pow(10, -h), cv);
-        System.arraycopy(saved, 0, eng.beta, 0, k + 1);
-        eng.evaluate(eng.beta, lambda);
+        eng.setCoefficients(saved);
+        eng.evaluate(lambda);
         double curvG = (up - 2 * crit + down) / (h * h);
         if (!(curvG > 0) || !Double.isFinite(curvG)) {
             return;
@@ -1133,25 +1124,25 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         double lo = Math.max(gridLo, bestG - gridStep), hi = Math.min(gridHi, bestG + gridStep);
         double ratio = 0.5 * (Math.sqrt(5) - 1);
         double x1 = hi - ratio * (hi - lo), x2 = lo + ratio * (hi - lo);
-        System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-        double f1 = criterionAt(eng, lambdaAt(eng.total, scale, x1), cv);
-        System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-        double f2 = criterionAt(eng, lambdaAt(eng.total, scale, x2), cv);
+        eng.setCoefficients(bestBeta);
+        double f1 = criterionAt(eng, lambdaAt(eng.total(), scale, x1), cv);
+        eng.setCoefficients(bestBeta);
+        double f2 = criterionAt(eng, lambdaAt(eng.total(), scale, x2), cv);
         for (int it = 0; it < GOLDEN_STEPS; it++) {
             if (f1 <= f2) {
                 hi = x2;
                 x2 = x1;
                 f2 = f1;
                 x1 = hi - ratio * (hi - lo);
-                System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-                f1 = criterionAt(eng, lambdaAt(eng.total, scale, x1), cv);
+                eng.setCoefficients(bestBeta);
+                f1 = criterionAt(eng, lambdaAt(eng.total(), scale, x1), cv);
             } else {
                 lo = x1;
                 x1 = x2;
                 f1 = f2;
                 x2 = lo + ratio * (hi - lo);
-                System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-                f2 = criterionAt(eng, lambdaAt(eng.total, scale, x2), cv);
+                eng.setCoefficients(bestBeta);
+                f2 = criterionAt(eng, lambdaAt(eng.total(), scale, x2), cv);
             }
         }
         double gBest = bestG;
@@ -1163,8 +1154,8 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         if (f2 < cBest) {
             gBest = x2;
         }
-        System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-        return lambdaAt(eng.total, scale, gBest);
+        eng.setCoefficients(bestBeta);
+        return lambdaAt(eng.total(), scale, gBest);
     }
 
     /** Fits at λ from the current beta and returns the criterion (+∞ on failure). */
@@ -1172,7 +1163,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         if (!eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE))) {
             return Double.POSITIVE_INFINITY;
         }
-        double loglik = eng.loglik;
+        double loglik = eng.logLikelihood();
         double edf = Double.NaN;
         if (criterion != SmoothingCriterion.CROSS_VALIDATION) {
             eng.fisherInformation();
@@ -1191,38 +1182,38 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             case AIC:
                 return -2 * loglik + 2 * edf;
             case MARGINAL_LIKELIHOOD: {
-                double ld = eng.logDetJ;
+                double ld = eng.logDetJ();
                 if (Double.isNaN(ld)) {
                     return Double.POSITIVE_INFINITY;
                 }
                 if (prior != null) {
                     // proper prior: defined at every λ ≥ 0
                     double lp = logDetPrior(lambda);
-                    return Double.isNaN(lp) ? Double.POSITIVE_INFINITY : -2 * loglik + 2 * lambda * eng.penalty(eng.beta)
-                            + 2 * eng.priorPenalty(eng.beta) + ld - lp;
+                    return Double.isNaN(lp) ? Double.POSITIVE_INFINITY : -2 * loglik + 2 * lambda * eng.penalty()
+                            + 2 * eng.priorPenalty() + ld - lp;
                 }
                 if (!(lambda > 0)) {
                     return Double.POSITIVE_INFINITY; // improper prior without normalising constant at λ = 0
                 }
-                return -2 * loglik + 2 * lambda * eng.penalty(eng.beta) + ld - penaltyRank * Math.log(2 * lambda);
+                return -2 * loglik + 2 * lambda * eng.penalty() + ld - penaltyRank * Math.log(2 * lambda);
             }
             case AICC: {
-                double nEff = eng.total;
+                double nEff = eng.total();
                 return nEff > edf + 1 ? -2 * loglik + 2 * edf * nEff / (nEff - edf - 1) : Double.POSITIVE_INFINITY;
             }
             case GCV: {
-                if (eng.counts == null) {
+                if (!eng.hasCounts()) {
                     throw new IllegalArgumentException("GCV needs binned counts; for raw samples use"
                             + " SmoothingCriterion.AIC or CROSS_VALIDATION");
                 }
-                eng.evaluate(eng.beta, lambda);
-                int d = eng.lay.bins;
+                eng.evaluate(lambda);
+                int d = eng.bins().bins;
                 double dev = 0;
-                double z = eng.zScaled;
+                double z = eng.zScaled();
                 for (int j = 0; j < d; j++) {
-                    double nj = eng.counts[j];
+                    double nj = eng.counts()[j];
                     if (nj > 0) {
-                        dev += nj * Math.log(nj / (eng.total * eng.mass[j] / z));
+                        dev += nj * Math.log(nj / (eng.total() * eng.mass(j) / z));
                     }
                 }
                 dev = Math.max(0.0, 2 * dev); // ≥ 0 by Gibbs' inequality; rounding can give −1e-15

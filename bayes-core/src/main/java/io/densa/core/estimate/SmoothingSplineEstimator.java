@@ -259,11 +259,9 @@ public final class SmoothingSplineEstimator implements CountEstimator {
                 System.arraycopy(coef, 1, out, i * k, k);
                 // multinomial log-likelihood of the counts under the fit
                 Cholesky.transposeTimes(t, k, out, i * k, raw);
-                System.arraycopy(raw, 0, eng.beta, 0, k);
-                eng.beta[k] = 0;
-                eng.counts = counts[i];
-                eng.total = totals[i];
-                double loglik = eng.logLikelihoodPerBinShift(eng.beta);
+                eng.setRawCoefficients(raw);
+                eng.setCounts(counts[i], totals[i]);
+                double loglik = eng.logLikelihoodPerBinShift();
                 int first = 0, last = lay.bins - 1;
                 while (first < last && !(counts[i][first] > 0)) {
                     first++;
@@ -275,7 +273,7 @@ public final class SmoothingSplineEstimator implements CountEstimator {
                 for (int c = 0; c < k; c++) {
                     normSq += out[i * k + c] * out[i * k + c];
                 }
-                double share = EstimationSupport.extrapolationShare(whole, lay, first, last, eng.beta, normSq,
+                double share = EstimationSupport.extrapolationShare(whole, lay, first, last, eng.coefficients(), normSq,
                         totals[i]);
                 diag[i] = new EstimationDiagnostics(id, EstimationDiagnostics.Status.CONVERGED, "", lambda, choose,
                         SmoothingCriterion.GCV, g[0], g[2], loglik, totals[i], 0, cov,
