@@ -65,7 +65,7 @@ final class ResidualBootstrap {
                     xw[i * p + j] *= fit.w(i);
                 }
             }
-            double[] refit = FunctionOnScalarFit.solve(DenseAlgebra.multTransA(xw, n, p, fitted, k), p, k, u, inverses);
+            double[] refit = solve(DenseAlgebra.multTransA(xw, n, p, fitted, k), p, k, u, inverses);
             for (int i = 0; i < refit.length; i++) {
                 refit[i] -= coefScaled[i];
             }
@@ -88,7 +88,7 @@ final class ResidualBootstrap {
                     }
                 }
             }
-            double[] db = FunctionOnScalarFit.solve(rhs, p, k, u, inverses);
+            double[] db = solve(rhs, p, k, u, inverses);
             double[] dg = DenseAlgebra.mult(db, p, k, et, m); // in the scaled design's units: row j is δβ_j / f_j
             for (int q = 0; q < dg.length; q++) {
                 dg[q] += shift[q];
@@ -156,5 +156,40 @@ final class ResidualBootstrap {
             }
         }
         return t;
+    }
+
+    /** B = the solution of the (penalised) normal equations with right-hand side XᵀWC (p × K). */
+    private static double[] solve(double[] rhs, int p, int k, double[] u, double[][] inv) {
+        if (u == null) {
+            return DenseAlgebra.mult(inv[0], p, p, rhs, k);
+        }
+        double[] t = DenseAlgebra.mult(rhs, p, k, u, k); // XᵀWC U
+        double[] bt = new double[p * k];
+        double[] col = new double[p];
+        for (int l = 0; l < k; l++) {
+            double[] a = inv[l];
+            for (int j = 0; j < p; j++) {
+                double s = 0;
+                for (int m = 0; m < p; m++) {
+                    s += a[j * p + m] * t[m * k + l];
+                }
+                col[j] = s;
+            }
+            for (int j = 0; j < p; j++) {
+                bt[j * k + l] = col[j];
+            }
+        }
+        // B = B̃ Uᵀ
+        double[] b = new double[p * k];
+        for (int j = 0; j < p; j++) {
+            for (int c = 0; c < k; c++) {
+                double s = 0;
+                for (int l = 0; l < k; l++) {
+                    s += bt[j * k + l] * u[c * k + l];
+                }
+                b[j * k + c] = s;
+            }
+        }
+        return b;
     }
 }
