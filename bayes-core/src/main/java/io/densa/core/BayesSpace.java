@@ -186,8 +186,7 @@ public final class BayesSpace {
         for (int pass = 0; pass < 2; pass++) {
             double[] e = applyLower(tt, phi, q, k);
             double[] gram = weightedGram(e, weights, q, k);
-            double[] l = cholesky(gram, k, basis);
-            double[] linv = invertLower(l, k);
+            double[] linv = inverseCholeskyFactor(gram, k, basis);
             tt = multiplyLower(linv, tt, k);
         }
         t = tt;
@@ -216,8 +215,21 @@ public final class BayesSpace {
     // ---------------------------------------------------------------- factories
 
     /**
-     * Space of cubic-or-other-order splines with equally spaced interior knots and Lebesgue
-     * reference.
+     * Space of cubic splines (order 4) with equally spaced interior knots and Lebesgue reference:
+     * the usual choice, {@code splines(a, b, 4, interiorKnotCount)}.
+     *
+     * @param a                 lower end of the domain
+     * @param b                 upper end of the domain, b &gt; a
+     * @param interiorKnotCount number of equally spaced interior knots, ≥ 0
+     * @return the space, of dimension K = interiorKnotCount + 3
+     */
+    public static BayesSpace cubicSplines(double a, double b, int interiorKnotCount) {
+        return splines(a, b, 4, interiorKnotCount);
+    }
+
+    /**
+     * Space of splines of any order with equally spaced interior knots and Lebesgue reference: the
+     * order (4 = cubic; see {@link #cubicSplines}) comes first, then the knot count.
      *
      * @param a                 lower end of the domain
      * @param b                 upper end of the domain, b &gt; a
@@ -1101,7 +1113,8 @@ public final class BayesSpace {
                     + Math.abs(offset)) + " in magnitude, so its rounding error in double precision is about "
                     + String.format("%.3g", error) + ", above the " + MAX_CLR_ERROR + " that pdf, cdf, quantile and"
                     + " moment evaluation accept: coordinates about " + String.format("%.3g", error / MAX_CLR_ERROR)
-                    + " times smaller would be evaluated (algebra, norms and distances work at any size)", null);
+                    + " times smaller would be evaluated (algebra, norms and distances work at any size)",
+                    new EvaluationDiagnostics("clr magnitude", Double.NaN, localWidth * big + Math.abs(offset)));
         }
     }
 
@@ -1110,7 +1123,8 @@ public final class BayesSpace {
         return new DensaException("the density is concentrated within the double resolution at x = " + x
                 + " (its clr falls by more than 745 within about 1e-17 of the domain there): its pdf is not"
                 + " representable; cdf, tail probabilities, quantiles and moments treat it as a point mass at x"
-                + " (coordinates of this size are beyond what double precision resolves)", null);
+                + " (coordinates of this size are beyond what double precision resolves)",
+                new EvaluationDiagnostics("pdf of a point mass", x, Double.POSITIVE_INFINITY));
     }
 
     /**
@@ -1301,7 +1315,8 @@ public final class BayesSpace {
             double log = Math.log(referenceDensity(x)) + sh.logRelative(clr);
             if (!(log < MAX_LOG)) {
                 throw new DensaException("the pdf at x = " + x + " is e^" + log
-                        + ", beyond the largest double; logPdf(x) gives its logarithm", null);
+                        + ", beyond the largest double; logPdf(x) gives its logarithm",
+                        new EvaluationDiagnostics("log pdf", x, log));
             }
             v = Math.exp(log);
         }
@@ -1639,43 +1654,19 @@ public final class BayesSpace {
         return g;
     }
 
-    private static double[] cholesky(double[] g, int k, Basis basis) {
-        double[] l = new double[k * k];
-        for (int i = 0; i < k; i++) {
-            for (int j = 0; j <= i; j++) {
-                double s = g[i * k + j];
-                for (int m = 0; m < j; m++) {
-                    s -= l[i * k + m] * l[j * k + m];
-                }
-                if (i == j) {
-                    // relative to the function's own squared norm: a narrow domain scales every Gram
-                    // entry down, which is not degeneracy
-                    if (!(s > 1e-14 * Math.abs(g[i * k + i]))) {
-                        throw new IllegalArgumentException("basis " + basis
-                                + " is numerically degenerate on this reference (Gram pivot " + s + " at function "
-                                + i + "); use fewer knots or a lower degree");
-                    }
-                    l[i * k + i] = Math.sqrt(s);
-                } else {
-                    l[i * k + j] = s / l[j * k + j];
-                }
-            }
+    /** L⁻¹ for the Gram matrix g = L Lᵀ (g is overwritten by L). */
+    private static double[] inverseCholeskyFactor(double[] g, int k, Basis basis) {
+        // the pivot floor is relative to the function's own squared norm: a narrow domain scales
+        // every Gram entry down, which is not degeneracy
+        int bad = Cholesky.factor(g, k, k, 1e-14);
+        if (bad >= 0) {
+            throw new IllegalArgumentException("basis " + basis
+                    + " is numerically degenerate on this reference (Gram pivot " + g[bad * k + bad]
+                    + " at function " + bad + "); use fewer knots or a lower degree");
         }
-        return l;
-    }
-
-    private static double[] invertLower(double[] l, int k) {
-        double[] inv = new double[k * k];
-        for (int c = 0; c < k; c++) {
-            for (int i = c; i < k; i++) {
-                double s = i == c ? 1.0 : 0.0;
-                for (int m = c; m < i; m++) {
-                    s -= l[i * k + m] * inv[m * k + c];
-                }
-                inv[i * k + c] = s / l[i * k + i];
-            }
-        }
-        return inv;
+        double[] linv = new double[k * k];
+        Cholesky.invertLower(g, k, linv);
+        return linv;
     }
 
     private static double[] multiplyLower(double[] x, double[] y, int k) {

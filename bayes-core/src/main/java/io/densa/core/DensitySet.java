@@ -30,12 +30,10 @@ import org.ejml.data.DMatrixRMaj;
  * <p>Immutable and thread-safe; arrays in and out are copies.
  */
 public final class DensitySet {
-    private static final long MAX_SQUARE = 150_000_000L;
-
-    private final BayesSpace space;
-    private final int n;
-    private final int k;
-    private final double[] data;
+    final BayesSpace space;
+    final int n;
+    final int k;
+    final double[] data;
     private final String[] ids; // null when absent
     private volatile double[] logZ;
     /** Largest |coordinate| (NaN until computed): decides whether sums can overflow. */
@@ -392,7 +390,7 @@ public final class DensitySet {
      *                                  near 1e154 and above): it is never returned as ±∞ or NaN
      */
     public DMatrixRMaj gram() {
-        checkSquare("gram");
+        RowEvaluation.checkSquare(n, "gram");
         double[] g = new double[n * n];
         Kernels.gram(data, n, k, g, true);
         double big = maxAbs();
@@ -408,48 +406,7 @@ public final class DensitySet {
      * rounding clipped to 0, and exact zeros on the diagonal.
      */
     public DMatrixRMaj distances() {
-        double big = maxAbs();
-        if (!(big * big * k < Double.MAX_VALUE) || big * big < 0x1p-900) {
-            return scaledDistances(); // sums of squares would overflow or underflow
-        }
-        DMatrixRMaj g = gram();
-        double[] d = g.data;
-        double[] diag = new double[n];
-        for (int i = 0; i < n; i++) {
-            diag[i] = d[i * n + i];
-        }
-        for (int i = 0; i < n; i++) {
-            for (int j = 0; j < n; j++) {
-                double v = i == j ? 0.0 : diag[i] + diag[j] - 2 * d[i * n + j];
-                d[i * n + j] = v > 0 ? Math.sqrt(v) : 0.0;
-            }
-        }
-        return g;
-    }
-
-    /**
-     * Distances for coordinates too large for the Gram identity: each pair by the scaled norm of
-     * its difference (O(n² K), only for such sets).
-     */
-    private DMatrixRMaj scaledDistances() {
-        checkSquare("distances");
-        double[] d = new double[n * n];
-        double[] x = new double[k];
-        double[] y = new double[k];
-        for (int i = 0; i < n; i++) {
-            System.arraycopy(data, i * k, x, 0, k);
-            for (int j = i + 1; j < n; j++) {
-                System.arraycopy(data, j * k, y, 0, k);
-                double v = Density.scaledNorm(x, y);
-                if (v == Double.POSITIVE_INFINITY) {
-                    throw new IllegalArgumentException("the distance between rows " + i + " and " + j
-                            + " exceeds the largest double " + Double.MAX_VALUE);
-                }
-                d[i * n + j] = v;
-                d[j * n + i] = v;
-            }
-        }
-        return DMatrixRMaj.wrap(n, n, d);
+        return RowEvaluation.distances(this);
     }
 
     /**
@@ -459,38 +416,7 @@ public final class DensitySet {
      * @throws IllegalArgumentException if a norm exceeds the largest double
      */
     public double[] norms() {
-        double[] s = Kernels.rowNormsSq(data, n, k);
-        double[] row = null;
-        for (int i = 0; i < n; i++) {
-            if (s[i] < Double.POSITIVE_INFINITY && (s[i] >= 0x1p-900 || s[i] == 0 && rowIsZero(i))) {
-                s[i] = Math.sqrt(s[i]);
-                continue;
-            }
-            row = row == null ? new double[k] : row;
-            System.arraycopy(data, i * k, row, 0, k);
-            s[i] = Density.scaledNorm(row, null);
-            if (s[i] == Double.POSITIVE_INFINITY) {
-                throw new IllegalArgumentException("the norm of row " + i + " exceeds the largest double "
-                        + Double.MAX_VALUE);
-            }
-        }
-        return s;
-    }
-
-    private boolean rowIsZero(int i) {
-        for (int j = i * k; j < (i + 1) * k; j++) {
-            if (data[j] != 0) {
-                return false;
-            }
-        }
-        return true;
-    }
-
-    private void checkSquare(String what) {
-        if ((long) n * n > MAX_SQUARE) {
-            throw new IllegalArgumentException(what + ": n = " + n + " would need an n × n matrix of " + (long) n * n
-                    + " entries (limit " + MAX_SQUARE + "); use crossProducts() for the K × K form");
-        }
+        return RowEvaluation.norms(this);
     }
 
     private void requireNonEmpty(String what) {
@@ -564,26 +490,10 @@ public final class DensitySet {
     double[] logNormalisers() {
         double[] z = logZ;
         if (z == null) {
-            z = computeLogNormalisers();
+            z = RowEvaluation.logNormalisers(this);
             logZ = z;
         }
         return z;
-    }
-
-    private double[] computeLogNormalisers() {
-        int q = space.nodeCount();
-        double[] out = new double[3 * n];
-        int rows = 256;
-        int blocks = (n + rows - 1) / rows;
-        Kernels.forEachBlock(blocks, Kernels.parallelWorth((long) n * k * q), blk -> {
-            int r0 = blk * rows, r1 = Math.min(n, r0 + rows);
-            double[] clr = new double[q];
-            for (int i = r0; i < r1; i++) {
-                space.clrAtNodes(data, i * k, clr);
-                space.logNormaliser(clr, 0, data, i * k, out, 3 * i);
-            }
-        });
-        return out;
     }
 
     /**
@@ -598,51 +508,7 @@ public final class DensitySet {
      * @throws IllegalArgumentException if a grid point is NaN or out is too short
      */
     public void pdf(double[] grid, double[] out) {
-        Objects.requireNonNull(grid, "grid");
-        Objects.requireNonNull(out, "out");
-        int m = grid.length;
-        if (out.length < (long) n * m) {
-            throw new IllegalArgumentException("output has " + out.length + " slots, need n·m = " + (long) n * m);
-        }
-        double[] inside = new double[m];
-        double[] ref = new double[m];
-        for (int j = 0; j < m; j++) {
-            double x = grid[j];
-            if (Double.isNaN(x)) {
-                throw new IllegalArgumentException("grid point " + j + " is NaN");
-            }
-            inside[j] = Math.min(space.upper(), Math.max(space.lower(), x));
-            ref[j] = space.referenceDensity(x);
-        }
-        double[] et = space.basisTransposed(inside);
-        double[] z = logNormalisers();
-        for (int i = 0; i < n; i++) {
-            if (Double.isNaN(z[3 * i + 1])) {
-                throw new DensaException("row " + i + " (" + id(i) + "): " + BayesSpace.concentrated(z[3 * i + 2])
-                        .getMessage(), null);
-            }
-        }
-        int rows = 16;
-        int blocks = (n + rows - 1) / rows;
-        Kernels.forEachBlock(blocks, Kernels.parallelWorth((long) n * k * m), blk -> {
-            int r0 = blk * rows, r1 = Math.min(n, r0 + rows);
-            Kernels.multiplyRows(data, r0 * k, r1 - r0, k, et, m, out, r0 * m);
-            for (int i = r0; i < r1; i++) {
-                int o = i * m;
-                double shift = z[3 * i], logTotal = z[3 * i + 1];
-                for (int q = 0; q < m; q++) {
-                    double r = ref[q];
-                    out[o + q] = r == 0 ? 0.0 : r * Math.exp((out[o + q] - shift) - logTotal);
-                }
-                for (int q = 0; q < m; q++) {
-                    if (out[o + q] == Double.POSITIVE_INFINITY) {
-                        // beyond the largest double, or rounding noise of a huge clr: the checked
-                        // single-density path decides (and names the row if it overflows)
-                        out[o + q] = rowPdf(i, grid[q]);
-                    }
-                }
-            }
-        });
+        RowEvaluation.pdf(this, grid, out);
     }
 
     /** Lebesgue pdfs on a grid as an n × m matrix. */
@@ -674,40 +540,6 @@ public final class DensitySet {
         return out;
     }
 
-    private double rowPdf(int i, double x) {
-        try {
-            return get(i).pdf(x);
-        } catch (DensaException e) {
-            throw new DensaException("row " + i + " (" + id(i) + "): " + e.getMessage(), e.diagnostics());
-        }
-    }
-
-    private interface RowFunction {
-        double apply(Shape shape, double[] clrNodes, double[] scratch);
-    }
-
-    private double[] perRow(RowFunction f) {
-        int q = space.nodeCount();
-        double[] out = new double[n];
-        int rows = 128;
-        int blocks = (n + rows - 1) / rows;
-        Kernels.forEachBlock(blocks, Kernels.parallelWorth((long) n * k * q), blk -> {
-            int r0 = blk * rows, r1 = Math.min(n, r0 + rows);
-            double[] nodeRow = new double[q];
-            double[] scratch = new double[space.scratchSize()];
-            for (int i = r0; i < r1; i++) {
-                space.clrAtNodes(data, i * k, nodeRow);
-                try {
-                    Shape s = space.shape(data, i * k, nodeRow);
-                    out[i] = f.apply(s, nodeRow, scratch);
-                } catch (DensaException e) {
-                    throw new DensaException("row " + i + " (" + id(i) + "): " + e.getMessage(), e.diagnostics());
-                }
-            }
-        });
-        return out;
-    }
-
     /**
      * P(X_i ≤ x) for every density; x may lie outside the domain [a, b] (0 below it, 1 above), as
      * for {@link Density#cdf}.
@@ -718,7 +550,7 @@ public final class DensitySet {
      */
     public double[] cdf(double x) {
         space.checkCdfPoint(x);
-        return perRow((s, nodes, scratch) -> space.cdf(s, x, scratch));
+        return RowEvaluation.perRow(this, (s, nodes, scratch) -> space.cdf(s, x, scratch));
     }
 
     /**
@@ -730,7 +562,7 @@ public final class DensitySet {
      */
     public double[] tailProbability(double t) {
         space.checkThreshold(t);
-        return perRow((s, nodes, scratch) -> space.tail(s, t, scratch));
+        return RowEvaluation.perRow(this, (s, nodes, scratch) -> space.tail(s, t, scratch));
     }
 
     /**
@@ -741,7 +573,7 @@ public final class DensitySet {
      */
     public double[] quantiles(double p) {
         space.checkProbability(p);
-        return perRow((s, nodes, scratch) -> space.quantile(s, p, scratch));
+        return RowEvaluation.perRow(this, (s, nodes, scratch) -> space.quantile(s, p, scratch));
     }
 
     /**
@@ -750,7 +582,7 @@ public final class DensitySet {
      * @throws DensaException naming the row, as {@link #cdf}
      */
     public double[] means() {
-        return perRow((s, nodes, scratch) -> space.mean(s, nodes));
+        return RowEvaluation.perRow(this, (s, nodes, scratch) -> space.mean(s, nodes));
     }
 
     @Override

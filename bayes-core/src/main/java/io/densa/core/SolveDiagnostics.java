@@ -10,5 +10,5 @@ package io.densa.core;
  *                           for QR), 0 when the matrix is not positive definite, NaN when a
  *                           decomposition failed outright
  */
-public record SolveDiagnostics(String system, int size, double smallestPivotRatio) {
+public record SolveDiagnostics(String system, int size, double smallestPivotRatio) implements NumericalDiagnostics {
 }

@@ -10,10 +10,11 @@ import org.junit.jupiter.api.Test;
  * Step densities on D equal bins reproduce the Aitchison geometry of D-part compositions up to
  * the bin-width factor η/D (Lebesgue reference) or 1/D (uniform probability reference). Inner
  * product definition (Aitchison (1986), The Statistical Analysis of Compositional Data, Chapman &amp;
- * Hall — from memory): ⟨x, y⟩_a = (1/(2D)) Σ_i Σ_j ln(x_i/x_j) ln(y_i/y_j). The
- * worked example x = (.1, .3, .4, .2), y = (.2, .4, .2, .2) on [0, 2] and its numbers are as
- * derived in REFERENCES.md §3 (given there to 6–10 digits; compared to their last digit). The
- * Aitchison quantities are also recomputed from their definitions in the test to 1e-12.
+ * Hall — from memory; Pawlowsky-Glahn, Egozcue, Tolosana-Delgado (2007), Lecture Notes on
+ * Compositional Data Analysis, Def. 3.3): ⟨x, y⟩_a = (1/(2D)) Σ_i Σ_j ln(x_i/x_j) ln(y_i/y_j)
+ * = clr(x) · clr(y) (both forms are checked). The worked example x = (.1, .3, .4, .2),
+ * y = (.2, .4, .2, .2) on [0, 2] and its numbers (written to 6–10 digits and compared to their last
+ * digit) were derived from these definitions, and are recomputed in this test to 1e-12.
  */
 class AitchisonGeometryTest {
     private static final double[] X = {.1, .3, .4, .2};
@@ -72,7 +73,7 @@ class AitchisonGeometryTest {
     @Test
     void clrOnBinsIsClrOfComposition() {
         Density x = composition(S, X);
-        double[] listed = {-0.794513, 0.304099, 0.591781, -0.101366}; // REFERENCES.md §3
+        double[] listed = {-0.794513, 0.304099, 0.591781, -0.101366}; // clr(X), derived by hand
         double[] listedY = {-0.173287, 0.519860, -0.173287, -0.173287};
         assertArrayEquals(listed, x.clr(MID), 1e-6);
         assertArrayEquals(clr(X), x.clr(MID), 1e-12);
@@ -83,12 +84,18 @@ class AitchisonGeometryTest {
     void innerProductNormAndDistance() {
         Density x = composition(S, X), y = composition(S, Y);
         assertEquals(0.2107852474, aitchisonInner(X, Y), 1e-10);
-        // Lebesgue reference: η/D = 0.5 times the Aitchison inner product (REFERENCES.md §3: 0.1053926)
+        // the second form of the definition: ⟨x, y⟩_a = clr(x) · clr(y)
+        double dot = 0;
+        for (int i = 0; i < X.length; i++) {
+            dot += clr(X)[i] * clr(Y)[i];
+        }
+        assertEquals(aitchisonInner(X, Y), dot, 1e-12);
+        // Lebesgue reference: η/D = 0.5 times the Aitchison inner product (0.1053926)
         assertEquals(0.1053926, x.inner(y), 1e-7);
         assertEquals(0.5 * aitchisonInner(X, Y), x.inner(y), 1e-12);
         assertEquals(1.041253 * Math.sqrt(0.5), x.norm(), 1e-6);
         assertEquals(1.011423 * Math.sqrt(0.5), x.distance(y), 1e-6);
-        // uniform probability reference: 1/D (REFERENCES.md §3: 0.0526963)
+        // uniform probability reference: 1/D (0.0526963)
         BayesSpace u = S.withReference(Reference.uniform());
         assertEquals(0.0526963, composition(u, X).inner(composition(u, Y)), 1e-7);
         assertEquals(aitchisonInner(X, Y) / 4, composition(u, X).inner(composition(u, Y)), 1e-12);

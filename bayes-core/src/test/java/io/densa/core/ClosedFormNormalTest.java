@@ -8,16 +8,27 @@ import net.jqwik.api.Arbitrary;
 import net.jqwik.api.ForAll;
 import net.jqwik.api.Property;
 import net.jqwik.api.Provide;
+import org.apache.commons.math3.analysis.integration.IterativeLegendreGaussIntegrator;
 import org.apache.commons.math3.distribution.NormalDistribution;
 import org.junit.jupiter.api.Test;
 
 /**
- * Closed forms for normal and exponential densities on a bounded interval, derived in
- * REFERENCES.md §2 (exponential families as linear subspaces): for f_θ ∝ exp(θ'T(x)) the clr is
- * θ'(T − T̄), so normals have a centred quadratic clr and lie exactly in a polynomial space of
- * degree ≥ 2 and in a cubic-spline space. Where possible the numbers are re-derived in the test
- * with Apache Commons Math integrators. Lebesgue reference unless stated. Relative tolerance
- * 1e-10 (table values given to fewer digits are compared to their last digit).
+ * Closed forms for normal and exponential densities on a bounded interval. Exponential families
+ * are linear subspaces of B2 (Egozcue, Díaz-Barrero, Pawlowsky-Glahn (2006), Hilbert space of
+ * probability density functions based on Aitchison geometry, Acta Math. Sinica 22(4); van den
+ * Boogaart, Egozcue, Pawlowsky-Glahn (2014), Bayes Hilbert spaces, Aust. N. Z. J. Stat. 56(2)):
+ * for f_θ ∝ exp(θ'T(x)) the clr is θ'(T − T̄), T̄ the mean of T over [a, b], so normals have a
+ * centred quadratic clr and lie exactly in a polynomial space of degree ≥ 2 and in a cubic-spline
+ * space.
+ *
+ * <p>The formulas are derived here. With T = (x, x²), θ = (μ/σ², −1/(2σ²)), η = b − a and
+ * x = (a + b)/2 + t, t ∈ [−η/2, η/2]: x − x̄ = t and x² − mean(x²) = (a + b) t + (t² − η²/12), so
+ * clr f − clr g = (Δθ1 + (a + b)Δθ2) t + Δθ2 (t² − η²/12). The two terms are orthogonal on the
+ * symmetric interval, ∫ t² dt = η³/12 and ∫ (t² − η²/12)² dt = η⁵/180, hence
+ * d² = η[(η²/12)(Δθ1 + (a + b)Δθ2)² + (η⁴/180)Δθ2²]. The table values below follow from these
+ * formulas, and where possible the test recomputes them independently with Apache Commons Math
+ * integrators ({@code TestSpaces.integrate}). Lebesgue reference unless stated. Relative
+ * tolerance 1e-10 (values given to fewer digits are compared to their last digit).
  */
 class ClosedFormNormalTest {
     private static final double REL = 1e-10;
@@ -29,14 +40,14 @@ class ClosedFormNormalTest {
         return p.density();
     }
 
-    /** clr of N(μ, σ²) on [a, b] (REFERENCES.md §2): −(1/(2σ²)) [ (x−μ)² − ((b−μ)³ − (a−μ)³)/(3η) ]. */
+    /** clr of N(μ, σ²) on [a, b] (derived in the class comment): −(1/(2σ²)) [ (x−μ)² − ((b−μ)³ − (a−μ)³)/(3η) ]. */
     static double clrNormal(double x, double mu, double sigma, double a, double b) {
         double eta = b - a;
         double cube = (Math.pow(b - mu, 3) - Math.pow(a - mu, 3)) / (3 * eta);
         return -((x - mu) * (x - mu) - cube) / (2 * sigma * sigma);
     }
 
-    /** d² between two normals on [a, b] (REFERENCES.md §2), with θ1 = μ/σ², θ2 = −1/(2σ²). */
+    /** d² between two normals on [a, b] (derived in the class comment), with θ1 = μ/σ², θ2 = −1/(2σ²). */
     static double distanceSqFormula(double a, double b, double m1, double s1, double m2, double s2) {
         double eta = b - a;
         double d1 = m1 / (s1 * s1) - m2 / (s2 * s2);
@@ -47,7 +58,7 @@ class ClosedFormNormalTest {
 
     @Test
     void clrOfNormalIsCentredQuadratic() {
-        // table of REFERENCES.md §2: on [−1, 1], clr N(0, 0.5²)(x) = −2x² + 2/3
+        // from clrNormal: on [−1, 1], clr N(0, 0.5²)(x) = −2x² + 2/3
         for (BayesSpace s : new BayesSpace[] {BayesSpace.polynomials(-1, 1, 2), BayesSpace.splines(-1, 1, 4, 3)}) {
             Density f = normal(s, 0, 0.5);
             // the constant 2/3 re-derived: −(1/η) ∫ −2x² dx by a Commons Math integrator
@@ -66,7 +77,7 @@ class ClosedFormNormalTest {
         BayesSpace s = BayesSpace.polynomials(-1, 1, 2);
         Density f = normal(s, 0, 0.5);
         Density g = normal(s, 0.3, 0.8);
-        // table of REFERENCES.md §2: ⟨N(0, .5²), N(.3, .8²)⟩ = 5/18, d² = 0.410546875
+        // from the formulas above: ⟨N(0, .5²), N(.3, .8²)⟩ = 5/18, d² = 0.410546875
         assertEquals(5.0 / 18, f.inner(g), REL);
         assertEquals(0.410546875, f.distanceSq(g), REL);
         // re-derived: ∫ clr f clr g dx and ∫ (clr f − clr g)² dx with the closed-form clr, Commons Math
@@ -81,7 +92,7 @@ class ClosedFormNormalTest {
 
     @Test
     void distanceOnZeroThreeInSplineSpace() {
-        // table of REFERENCES.md §2: on [0, 3], d²(N(1, .5²), N(1.5, 1)) = 12.0375; exact in a cubic
+        // from distanceSqFormula: on [0, 3], d²(N(1, .5²), N(1.5, 1)) = 12.0375; exact in a cubic
         // spline space because cubic splines contain the quadratics
         BayesSpace s = BayesSpace.splines(0, 3, 4, 5);
         double d2 = normal(s, 1, 0.5).distanceSq(normal(s, 1.5, 1));
@@ -96,7 +107,7 @@ class ClosedFormNormalTest {
 
     @Test
     void perturbationAndPoweringOfNormals() {
-        // REFERENCES.md §2: N(0, 1) ⊕ N(2, 1) = N(1, 1/2); α ⊙ N(μ, σ²) = N(μ, σ²/α)
+        // perturbation adds natural parameters (Egozcue et al. 2006): N(0, 1) ⊕ N(2, 1) = N(1, 1/2); α ⊙ N(μ, σ²) = N(μ, σ²/α)
         for (BayesSpace s : new BayesSpace[] {BayesSpace.polynomials(-2, 3, 2), BayesSpace.splines(-2, 3, 4, 4)}) {
             Density sum = normal(s, 0, 1).perturb(normal(s, 2, 1));
             assertTrue(sum.distance(normal(s, 1, Math.sqrt(0.5))) < REL, s + ": " + sum);
@@ -117,7 +128,7 @@ class ClosedFormNormalTest {
         });
     }
 
-    /** The general d² formula of REFERENCES.md §2 over random intervals and normal parameters. */
+    /** The general d² formula (class comment) over random intervals and normal parameters. */
     @Property(tries = 1000, seed = "20261220")
     void distanceFormulaForRandomNormals(@ForAll("normalPairs") double[] v) {
         BayesSpace s = BayesSpace.polynomials(v[0], v[1], 2);
@@ -128,7 +139,7 @@ class ClosedFormNormalTest {
 
     @Test
     void exponentialDistance() {
-        // REFERENCES.md §2: Exp(λ) has clr −λ (x − (a+b)/2); d² = (λ1 − λ2)² η³ / 12
+        // derived as in the class comment with T = x: Exp(λ) has clr −λ (x − (a+b)/2); d² = (λ1 − λ2)² η³ / 12
         for (BayesSpace s : new BayesSpace[] {BayesSpace.polynomials(0.5, 3, 1), BayesSpace.splines(0.5, 3, 4, 2)}) {
             double l1 = 0.7, l2 = 2.9, eta = 2.5;
             Density f = s.projectLogPdf(x -> -l1 * x).density();
@@ -143,7 +154,7 @@ class ClosedFormNormalTest {
      * pdf and cdf of N(0, 0.5²) truncated to [−1, 1] against Commons Math's
      * {@link NormalDistribution}: pdf = φ/(Φ(1) − Φ(−1)), cdf = (Φ(x) − Φ(−1))/(Φ(1) − Φ(−1)); mean
      * and variance of the truncated normal (Johnson, Kotz, Balakrishnan (1994), Continuous
-     * Univariate Distributions vol. 1, ch. 13, from memory).
+     * Univariate Distributions vol. 1, ch. 13, from memory; confirmed by integration below).
      */
     @Test
     void normalAgainstCommonsMathTruncated() {
@@ -170,6 +181,13 @@ class ClosedFormNormalTest {
                     - Math.pow((std.density(al) - std.density(be)) / zz, 2));
             assertEquals(mean, f.mean(), REL);
             assertEquals(var, f.variance(), REL * var);
+            // second derivation of the recalled moment formulas: ∫ x φ and ∫ x² φ over [−1, 1] by
+            // Commons Math integration, divided by the mass Φ(1) − Φ(−1)
+            IterativeLegendreGaussIntegrator gl = new IterativeLegendreGaussIntegrator(16, 1e-14, 1e-16);
+            double m1 = gl.integrate(10_000, x -> x * n.density(x), -1, 1) / z;
+            double m2 = gl.integrate(10_000, x -> x * x * n.density(x), -1, 1) / z;
+            assertEquals(m1, mean, REL);
+            assertEquals(m2 - m1 * m1, var, REL * var);
         }
     }
 }

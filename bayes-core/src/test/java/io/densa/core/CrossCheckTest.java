@@ -11,9 +11,11 @@ import org.junit.jupiter.params.provider.MethodSource;
  * integral computed by Apache Commons Math (commons-math3 3.6.1,
  * {@code IterativeLegendreGaussIntegrator}) instead of the space's quadrature. Definitions from
  * Egozcue, Díaz-Barrero, Pawlowsky-Glahn (2006), Hilbert space of probability density functions
- * based on Aitchison geometry, Acta Math. Sinica 22(4), and for weighted references REFERENCES.md
- * §1 (derived there): with Lebesgue pdfs g and reference density p, g1 ⊕ g2 ∝ g1 g2 / p and
- * α ⊙ g ∝ p (g/p)^α. Relative tolerance 1e-10 throughout.
+ * based on Aitchison geometry, Acta Math. Sinica 22(4), and for weighted references Talská,
+ * Menafoglio, Hron, Egozcue, Palarea-Albaladejo (2020), Weighting the domain of probability
+ * densities in functional data analysis, Stat 9:e283 (from memory): with Lebesgue pdfs g and
+ * reference density p, a density with respect to P is g/p, so g1 ⊕ g2 ∝ (g1/p)(g2/p) p = g1 g2 / p
+ * and α ⊙ g ∝ p (g/p)^α (derived from the definition of B2(P)). Relative tolerance 1e-10 throughout.
  */
 class CrossCheckTest {
     private static final double REL = 1e-10;
@@ -70,8 +72,9 @@ class CrossCheckTest {
 
     /**
      * ⟨f, g⟩_B = (1 / (2 P(I))) ∫∫ ln(f(x)/f(y)) ln(g(x)/g(y)) dP(x) dP(y), with f, g the densities
-     * with respect to P (REFERENCES.md §1; van den Boogaart, Egozcue, Pawlowsky-Glahn (2014), Bayes
-     * Hilbert spaces, Aust. N. Z. J. Stat. 56(2), from memory). Nested Commons Math integrals.
+     * with respect to P (van den Boogaart, Egozcue, Pawlowsky-Glahn (2014), Bayes Hilbert spaces,
+     * Aust. N. Z. J. Stat. 56(2), from memory). Nested Commons Math integrals; the second form of
+     * the same inner product, ∫ clr f clr g dP, is checked against it below.
      */
     @ParameterizedTest(name = "{0}")
     @MethodSource("io.densa.core.TestSpaces#spaces")
@@ -89,6 +92,13 @@ class CrossCheckTest {
         }, nudge(s, s.lower(), 1), nudge(s, s.upper(), -1));
         double expected = outer / (2 * s.referenceMass());
         assertEquals(expected, f.inner(g), REL * Math.max(1, Math.abs(expected)), "double-integral form");
+        // second form: ∫ clr f clr g dP, clr = log P-density minus its P-mean
+        double lo = nudge(s, s.lower(), 1), hi = nudge(s, s.upper(), -1);
+        double mf = TestSpaces.integrate(s, x -> s.referenceDensity(x) * lf.applyAsDouble(x), lo, hi) / s.referenceMass();
+        double mg = TestSpaces.integrate(s, x -> s.referenceDensity(x) * lg.applyAsDouble(x), lo, hi) / s.referenceMass();
+        double single = TestSpaces.integrate(s,
+                x -> s.referenceDensity(x) * (lf.applyAsDouble(x) - mf) * (lg.applyAsDouble(x) - mg), lo, hi);
+        assertEquals(expected, single, REL * Math.max(1, Math.abs(expected)), "single-integral form");
     }
 
     /** Moves an end point inwards by a hair when the reference weight vanishes there (beta). */

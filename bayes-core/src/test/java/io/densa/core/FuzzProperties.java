@@ -316,7 +316,7 @@ class FuzzProperties {
         double setting = extreme(r);
         FuzzCheck.context(() -> "estimatorsOnCounts seed=" + seed + " space=" + s + " option=" + option + " setting=" + setting);
         PenalizedLikelihoodEstimator pl = CHECK.run("PL options", () -> configure(
-                PenalizedLikelihoodEstimator.of(s).withParallel(false).withFractionalCounts(true), option, setting));
+                PenalizedLikelihoodEstimator.withDefaults(s).withParallel(false).withFractionalCounts(true), option, setting));
         if (pl != null) {
             estimate("PL fit", () -> pl.fit(EDGES, counts), EDGES, counts);
             if (r.nextInt(4) == 0) {
@@ -325,8 +325,8 @@ class FuzzProperties {
             }
         }
         SmoothingSplineEstimator ss = CHECK.run("SS options", () -> option % 2 == 0
-                ? SmoothingSplineEstimator.of(s).withParallel(false)
-                : SmoothingSplineEstimator.of(s).withParallel(false).withSmoothing(Math.abs(setting)));
+                ? SmoothingSplineEstimator.withDefaults(s).withParallel(false)
+                : SmoothingSplineEstimator.withDefaults(s).withParallel(false).withSmoothing(Math.abs(setting)));
         if (ss != null) {
             estimate("SS fit", () -> ss.fit(EDGES, counts), EDGES, counts);
         }
@@ -363,7 +363,7 @@ class FuzzProperties {
         double setting = extreme(r);
         FuzzCheck.context(() -> "estimatorsOnSamples seed=" + seed + " option=" + option + " setting=" + setting);
         PenalizedLikelihoodEstimator pl = CHECK.run("PL options", () -> configure(
-                PenalizedLikelihoodEstimator.of(EST_SPLINES).withParallel(false), option, setting));
+                PenalizedLikelihoodEstimator.withDefaults(EST_SPLINES).withParallel(false), option, setting));
         if (pl != null) {
             estimate("PL fitSample", () -> pl.fitSample(values), values);
             estimate("PL fitSample weighted", () -> pl.fitSample(values, w), values, w);

@@ -182,6 +182,11 @@ class PeakedDensityTest {
         DensitySet set = DensitySet.of(java.util.List.of(s.neutral(), f));
         DensaException e = assertThrows(DensaException.class, () -> set.cdf(0.5));
         assertTrue(e.getMessage().startsWith("row 1 (#1): "), e.getMessage());
+        // typed diagnostics: the clr magnitude that could not be evaluated
+        EvaluationDiagnostics d = e.diagnostics(EvaluationDiagnostics.class).orElseThrow();
+        assertEquals("clr magnitude", d.quantity());
+        assertTrue(d.size() > 1e299, d.toString());
+        assertTrue(e.diagnostics(SolveDiagnostics.class).isEmpty());
         assertEquals(1e300 * Math.sqrt(c.length), f.norm(), 1e-15 * 1e300 * Math.sqrt(c.length));
     }
 

@@ -9,7 +9,7 @@ import org.apache.commons.math3.distribution.NormalDistribution;
 import org.junit.jupiter.api.Test;
 
 /**
- * Weighted reference measures (REFERENCES.md §1, derived there; Talská et al. (2020), Weighting
+ * Weighted reference measures (Talská et al. (2020), Weighting
  * the domain of probability densities in functional data analysis, Stat 9:e283, from memory): the
  * reference P has Lebesgue density p, which is the neutral element; the axioms themselves run in
  * {@link WeightedSplineProperties}, {@link WeightedPolynomialProperties} and
@@ -55,7 +55,7 @@ class WeightedReferenceTest {
         Density f = s.density(TestSpaces.randomCoordinates(s, rnd, 1));
         Density g = s.density(TestSpaces.randomCoordinates(s, rnd, 1));
         assertEquals(1.0, TestSpaces.integrate(s, f::pdf), REL);
-        // g1 ⊕ g2 ∝ g1 g2 / p (REFERENCES.md §1)
+        // g1 ⊕ g2 ∝ g1 g2 / p: the P-densities g/p multiply, (g1/p)(g2/p) p = g1 g2 / p (definition of B2(P))
         Density fg = f.perturb(g);
         double r0 = fg.pdf(0.0) * s.referenceDensity(0.0) / (f.pdf(0.0) * g.pdf(0.0));
         for (double x : TestSpaces.grid(s, 9)) {

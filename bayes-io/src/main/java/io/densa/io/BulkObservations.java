@@ -57,7 +57,7 @@ import java.util.stream.Stream;
  * <p>Example:
  * <pre>{@code
  * BulkObservations file = BulkObservations.of(Path.of("events.parquet"), "station", "value");
- * BulkSummary s = file.fitHistograms(PenalizedLikelihoodEstimator.of(space), Bins.uniform(space, 50),
+ * BulkSummary s = file.fitHistograms(PenalizedLikelihoodEstimator.withDefaults(space), Bins.uniform(space, 50),
  *         OutsidePolicy.DROP, (counts, estimate) -> store(estimate.densities()));
  * }</pre>
  *

@@ -36,7 +36,7 @@ import java.util.Objects;
  *         .withBinEdges("age_from", "age_to")
  *         .withSpace(space)
  *         .read(TableSource.csv(Path.of("ages.csv")));
- * BatchEstimate est = t.fit(PenalizedLikelihoodEstimator.of(space));
+ * BatchEstimate est = t.fit(PenalizedLikelihoodEstimator.withDefaults(space));
  * }</pre>
  *
  * <p>Immutable and thread-safe.

@@ -23,7 +23,7 @@ import java.util.Objects;
  * <pre>{@code
  * SampleTable s = ObservationReader.of("monitor", "pm25")
  *         .samples(TableSource.csv(Path.of("readings.csv")), space, OutsidePolicy.DROP);
- * BatchEstimate est = s.fit(PenalizedLikelihoodEstimator.of(space));
+ * BatchEstimate est = s.fit(PenalizedLikelihoodEstimator.withDefaults(space));
  * }</pre>
  *
  * <p>Immutable and thread-safe.

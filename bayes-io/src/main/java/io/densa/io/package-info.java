@@ -12,7 +12,7 @@
  *         .withBinIndex("age_band", Bins.uniform(0, 90, 18))
  *         .withSpace(space)
  *         .read(TableSource.csv(Path.of("counts.csv")));   // or TableSource.query(connection, sql)
- * BatchEstimate est = t.fit(PenalizedLikelihoodEstimator.of(space));
+ * BatchEstimate est = t.fit(PenalizedLikelihoodEstimator.withDefaults(space));
  * }</pre></li>
  * <li><b>Raw observations</b> (unit, value, optional weight and period) kept as samples or binned,
  *     with an {@link io.densa.io.OutsidePolicy} for values outside the range
@@ -20,7 +20,7 @@
  * <pre>{@code
  * SampleTable s = ObservationReader.of("monitor", "value").withWeight("hours")
  *         .samples(TableSource.csv(Path.of("readings.csv")), space, OutsidePolicy.DROP);
- * BatchEstimate est = s.fit(PenalizedLikelihoodEstimator.of(space));
+ * BatchEstimate est = s.fit(PenalizedLikelihoodEstimator.withDefaults(space));
  * }</pre></li>
  * <li><b>Large files</b> (10⁸ rows, CSV or Parquet) binned by an embedded SQL engine and streamed per
  *     unit without the events entering the heap ({@link io.densa.io.BulkObservations}; needs the

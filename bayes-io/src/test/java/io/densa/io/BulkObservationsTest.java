@@ -173,7 +173,7 @@ class BulkObservationsTest {
         }
         assertEquals(N, s.observations());
 
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space).withSmoothing(1);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(1);
         List<BatchEstimate> fits = new ArrayList<>();
         List<CountTable> tables = new ArrayList<>();
         BulkObservations.of(parquet, "unit", "value").withBatchUnits(4)

@@ -149,7 +149,7 @@ class CountTableReaderTest {
                     "failed");
         }
         BayesSpace space = BayesSpace.splines(0, 80, 3, 3);
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space).withSmoothing(0.5);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(0.5);
         BatchEstimate viaTable = fromCsv.fit(est);
         BatchEstimate direct = est.fitAll(FOUR.edges(), new int[][] {{3, 9, 4, 0}, {0, 2, 5, 6}}, new String[] {"A", "B"});
         assertArrayEquals(direct.densities().coordinatesRowMajor(), viaTable.densities().coordinatesRowMajor());

@@ -30,8 +30,8 @@ class ObservationReaderTest {
         assertArrayEquals(new double[] {9.5, 10}, s.values(1));
         assertArrayEquals(new double[][] {{1, 1}, {2, 1}}, s.weights());
         assertEquals(new OutsideReport(OutsidePolicy.DROP, 0, 10, 6, 2, 0, 0), s.outside());
-        BatchEstimate est = s.fit(PenalizedLikelihoodEstimator.of(SPACE).withSmoothing(1));
-        BatchEstimate direct = PenalizedLikelihoodEstimator.of(SPACE).withSmoothing(1)
+        BatchEstimate est = s.fit(PenalizedLikelihoodEstimator.withDefaults(SPACE).withSmoothing(1));
+        BatchEstimate direct = PenalizedLikelihoodEstimator.withDefaults(SPACE).withSmoothing(1)
                 .fitAllSamples(new double[][] {{1.5, 0}, {9.5, 10}}, new double[][] {{1, 1}, {2, 1}},
                         new String[] {"A", "B"});
         assertArrayEquals(direct.densities().coordinatesRowMajor(), est.densities().coordinatesRowMajor());

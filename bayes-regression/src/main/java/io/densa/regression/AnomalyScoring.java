@@ -3,6 +3,7 @@ package io.densa.regression;
 import io.densa.core.BenjaminiHochberg;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.core.TestResult;
 import io.densa.core.internal.SampleQuantiles;
 import io.densa.core.internal.Seeds;
 import java.util.ArrayList;
@@ -54,6 +55,12 @@ public final class AnomalyScoring {
         this.bandLevel = bandLevel;
         this.randomisedTies = randomisedTies;
         this.tieSeed = tieSeed;
+    }
+
+    @Override
+    public String toString() {
+        return "AnomalyScoring[fdr=" + fdr + ", bandLevel=" + bandLevel
+                + (randomisedTies ? ", randomisedTies seed " + tieSeed : "") + "]";
     }
 
     /** FDR level 0.05 and a central pointwise band of 95 %. */
@@ -117,7 +124,7 @@ public final class AnomalyScoring {
      * @param calibrationResiduals at least 1 residual density
      * @param grid                 points of the domain where bands are evaluated (copied)
      */
-    public Calibrated calibrate(DensitySet calibrationResiduals, double[] grid) {
+    public Calibrated fit(DensitySet calibrationResiduals, double[] grid) {
         Objects.requireNonNull(calibrationResiduals, "calibrationResiduals");
         if (calibrationResiduals.size() < 1) {
             throw new IllegalArgumentException("calibration set is empty");
@@ -238,10 +245,22 @@ public final class AnomalyScoring {
      * @param excursions     band departures (computed for flagged units only, else empty)
      */
     public record UnitScore(int row, String id, double residualNorm, double pValue, double adjustedPValue,
-            boolean flagged, List<Excursion> excursions) {
+            boolean flagged, List<Excursion> excursions) implements TestResult {
         /** Canonical constructor: copies the excursion list. */
         public UnitScore {
             excursions = List.copyOf(excursions);
+        }
+
+        /** The residual norm, {@link #residualNorm()}. */
+        @Override
+        public double statistic() {
+            return residualNorm;
+        }
+
+        @Override
+        public String method() {
+            return "split-conformal rank of the residual norm among the calibration units, upper tail"
+                    + " (not adjusted; see adjustedPValue)";
         }
     }
 
@@ -275,6 +294,25 @@ public final class AnomalyScoring {
                 }
                 return c != 0 ? c : Integer.compare(a, b);
             }).mapToInt(Integer::intValue).toArray();
+        }
+
+        /** The settings, the counts and the flagged units (at most five). */
+        @Override
+        public String toString() {
+            StringBuilder sb = new StringBuilder("AnomalyScoring.Report[").append(units.size()).append(" units, ")
+                    .append(flaggedCount).append(" flagged at FDR ").append(fdr).append(", band level ")
+                    .append(bandLevel).append(", ").append(calibrationSize).append(" calibration units]");
+            int shown = 0;
+            for (UnitScore u : units) {
+                if (u.flagged() && shown++ < 5) {
+                    sb.append(String.format(java.util.Locale.ROOT, "%n  %s: norm %.4g, p %.3g, adjusted %.3g",
+                            u.id(), u.residualNorm(), u.pValue(), u.adjustedPValue()));
+                }
+            }
+            if (shown > 5) {
+                sb.append("\n  … (").append(shown - 5).append(" more flagged)");
+            }
+            return sb.toString();
         }
     }
 
@@ -418,6 +456,11 @@ public final class AnomalyScoring {
                 out.add(new UnitScore(i, residuals.id(i), norms[i], p[i], adj[i], f, ex));
             }
             return new Report(out, cfg.fdr, cfg.bandLevel, sorted.length, flagged);
+        }
+
+        @Override
+        public String toString() {
+            return "AnomalyScoring.Calibrated[n=" + sorted.length + ", grid=" + grid.length + " points, " + cfg + "]";
         }
 
         private List<Excursion> excursions(double[] clr, int m) {

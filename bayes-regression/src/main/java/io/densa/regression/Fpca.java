@@ -8,6 +8,7 @@ import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.estimate.EstimationDiagnostics;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.Seeds;
+import java.util.List;
 import java.util.Objects;
 import org.ejml.data.DMatrixRMaj;
 
@@ -270,10 +271,15 @@ public final class Fpca {
      * Scores z_ij = (c_i − c̄)ᵀ v_j of the given densities on the first m components: one n × K by
      * K × m product, then subtraction of c̄ᵀV_m.
      *
-     * @return an n × m matrix
+     * @return the n × m scores, with the set's ids
      * @throws IllegalArgumentException if the set is of another space or m is outside [0, K]
      */
-    public DMatrixRMaj scores(DensitySet data, int m) {
+    public Scores scores(DensitySet data, int m) {
+        double[] z = scoreValues(data, m);
+        return new Scores(data.size(), m, z, data.hasIds() ? data.ids() : List.of());
+    }
+
+    private double[] scoreValues(DensitySet data, int m) {
         Objects.requireNonNull(data, "data");
         space.requireSame(data.space(), "data");
         checkCount(m);
@@ -291,14 +297,14 @@ public final class Fpca {
         }
         double[] res = new double[rows * m];
         Kernels.subtractRow(out, rows, m, shift, res, true);
-        return DMatrixRMaj.wrap(rows, m, res);
+        return res;
     }
 
     /**
      * Reconstruction f̄ ⊕ ⊕_{j ≤ m} z_ij ⊙ ξ_j of every density from its first m scores (ids kept).
      */
     public DensitySet reconstruct(DensitySet data, int m) {
-        DMatrixRMaj z = scores(data, m);
+        double[] z = scoreValues(data, m);
         double[] vt = new double[m * k];
         for (int j = 0; j < m; j++) {
             for (int i = 0; i < k; i++) {
@@ -307,7 +313,7 @@ public final class Fpca {
         }
         int rows = data.size();
         double[] out = new double[rows * k];
-        Kernels.multiply(z.data, rows, m, vt, k, out, true);
+        Kernels.multiply(z, rows, m, vt, k, out, true);
         double[] neg = new double[k];
         for (int i = 0; i < k; i++) {
             neg[i] = -mean[i];
@@ -347,24 +353,20 @@ public final class Fpca {
      *
      * <p>Cost: one pass for per-fold cross products, then per fold a K × K eigenproblem.
      *
-     * @param data     at least {@code folds} densities, at least 2 per training set
-     * @param maxM     largest count tried, 1..K
-     * @param fraction target fraction in (0, 1)
-     * @param folds    number of folds, 2..n
-     * @param seed     seed of the random fold assignment
+     * @param data      at least {@code folds} densities, at least 2 per training set
+     * @param selection the largest count, the fraction, the folds and their seed, a progress
+     *                  listener ({@link ComponentSelection#withDefaults()})
+     * @throws IllegalArgumentException if the largest count exceeds K, a training set has fewer
+     *                                  than 2 densities, or the folds exceed the densities
      */
-    public static ComponentChoice crossValidate(DensitySet data, int maxM, double fraction, int folds, long seed) {
-        return crossValidate(data, maxM, fraction, folds, seed, ProgressListener.NONE);
+    public static ComponentChoice chooseComponents(DensitySet data, ComponentSelection selection) {
+        Objects.requireNonNull(data, "data");
+        Objects.requireNonNull(selection, "selection");
+        return crossValidate(data, selection.maxFor(data.dimension()), selection.fraction(), selection.folds(),
+                selection.seed(), selection.progress());
     }
 
-    /**
-     * {@link #crossValidate(DensitySet, int, double, int, long)} reporting progress to a listener:
-     * task {@code "cross-validation"}, one unit per fold, from the calling thread; the count
-     * reaches {@code folds}. The listener does not change the result.
-     *
-     * @param listener progress listener, or {@link ProgressListener#NONE}
-     */
-    public static ComponentChoice crossValidate(DensitySet data, int maxM, double fraction, int folds, long seed,
+    private static ComponentChoice crossValidate(DensitySet data, int maxM, double fraction, int folds, long seed,
             ProgressListener listener) {
         Objects.requireNonNull(data, "data");
         Objects.requireNonNull(listener, "listener");
@@ -423,7 +425,7 @@ public final class Fpca {
     }
 
     /**
-     * Result of {@link #crossValidate}.
+     * Result of {@link #chooseComponents}.
      *
      * @param components the chosen m
      * @param meanError  mean held-out squared B2 reconstruction error for m = 0..maxM (index m)

@@ -15,29 +15,17 @@ import org.ejml.data.DMatrixRMaj;
  *
  * <p>Immutable and thread-safe.
  */
-public final class FunctionOnFunctionFit {
-    private final FunctionalRegression config;
-    private final Design design;
-    private final List<BayesSpace> predictorSpaces;
+public final class FunctionOnFunctionFit extends FunctionalFit {
     private final BayesSpace space;
     private final DensitySet response;
-    private final LinearFunctionalEngine.Result res;
     private final int k;
 
     FunctionOnFunctionFit(FunctionalRegression config, Design design, List<DensitySet> predictors,
             DensitySet response, LinearFunctionalEngine.Result res) {
-        this.config = config;
-        this.design = design;
-        this.predictorSpaces = res.predictorSpaces();
+        super(config, design, res);
         this.space = response.space();
         this.response = response;
-        this.res = res;
         this.k = space.dimension();
-    }
-
-    /** The fitted state (see {@link FunctionalFitState}); {@link #restore} rebuilds this fit from it. */
-    public FunctionalFitState state() {
-        return FunctionalFitState.of(res);
     }
 
     /**
@@ -61,34 +49,9 @@ public final class FunctionOnFunctionFit {
         return new FunctionOnFunctionFit(config, design, null, rows, res);
     }
 
-    /** The configuration. */
-    public FunctionalRegression configuration() {
-        return config;
-    }
-
-    /** The covariate design (intercept-only when no covariates were given). */
-    public Design design() {
-        return design;
-    }
-
     /** Response space. */
     public BayesSpace space() {
         return space;
-    }
-
-    /** Spaces of the density predictors, in order. */
-    public List<BayesSpace> predictorSpaces() {
-        return predictorSpaces;
-    }
-
-    /** The tuning used for the final fit, with its cross-validated error. */
-    public FunctionalRegression.Candidate chosen() {
-        return res.chosen();
-    }
-
-    /** Every candidate with its cross-validated error, in the order tried. */
-    public List<FunctionalRegression.Candidate> crossValidation() {
-        return res.candidates();
     }
 
     /**
@@ -137,12 +100,6 @@ public final class FunctionOnFunctionFit {
         DMatrixRMaj out = new DMatrixRMaj(s.length, t.length);
         org.ejml.dense.row.CommonOps_DDRM.multTransB(DMatrixRMaj.wrap(s.length, k, left), et, out);
         return out;
-    }
-
-    private void checkPredictor(int j) {
-        if (j < 0 || j >= predictorSpaces.size()) {
-            throw new IllegalArgumentException("predictor index " + j + " outside [0, " + predictorSpaces.size() + ")");
-        }
     }
 
     /** Fitted densities (ids kept). */

@@ -4,6 +4,7 @@ import io.densa.core.BayesSpace;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
+import io.densa.core.TestResult;
 import io.densa.core.SolveDiagnostics;
 import io.densa.core.internal.SampleQuantiles;
 import io.densa.core.internal.Seeds;
@@ -27,28 +28,28 @@ import org.ejml.interfaces.decomposition.QRDecomposition;
 public final class FunctionOnScalarFit {
     private final FunctionOnScalarRegression config;
     private final Design design;
-    private final DensitySet response;
+    final DensitySet response;
     private final double[] weights; // null: unit; as given
     private final double[] unitWeights; // null: unit; weights × a power of two, the largest in [1, 2)
     private final double weightScale; // weights = unitWeights × weightScale
     private final double rss;
     private final BayesSpace space;
-    private final int n;
-    private final int p;
-    private final int k;
-    private final double[] u;          // K × K eigenvectors of R (null: unpenalised)
-    private final double[][] inverses; // per transformed column l (or one), for the scaled design
-    private final double[] scale;      // p powers of two: column j of the scaled design is f_j x_j
-    private final double[] xScaled;    // n × p design with scaled columns
-    private final double[] coefScaled; // p × K coefficients of the scaled design (row j = β_j / f_j)
-    private final double[] coef;       // p × K
-    private final double[] fitted;     // n × K
-    private final double[] resid;      // n × K
+    final int n;
+    final int p;
+    final int k;
+    final double[] u;          // K × K eigenvectors of R (null: unpenalised)
+    final double[][] inverses; // per transformed column l (or one), for the scaled design
+    final double[] scale;      // p powers of two: column j of the scaled design is f_j x_j
+    final double[] xScaled;    // n × p design with scaled columns
+    final double[] coefScaled; // p × K coefficients of the scaled design (row j = β_j / f_j)
+    final double[] coef;       // p × K
+    final double[] fitted;     // n × K
+    final double[] resid;      // n × K
     private final double rSquared;
     private final double effectiveParameters;
 
     private FunctionOnScalarFit(FunctionOnScalarRegression config, Design design, DensitySet response,
-            double[] weights, double[] u, double[][] inverses, double[] scale, double[] xScaled, double[] coefScaled,
+            double[] c, double[] weights, double[] u, double[][] inverses, double[] scale, double[] xScaled, double[] coefScaled,
             double effectiveParameters) {
         this.effectiveParameters = effectiveParameters;
         this.config = config;
@@ -77,7 +78,6 @@ public final class FunctionOnScalarFit {
             }
         }
         this.fitted = DenseAlgebra.mult(xScaled, n, p, coefScaled, k);
-        double[] c = response.coordinatesRowMajor();
         this.resid = new double[n * k];
         for (int i = 0; i < n * k; i++) {
             resid[i] = c[i] - fitted[i];
@@ -121,7 +121,7 @@ public final class FunctionOnScalarFit {
     }
 
     /** The weight of row i relative to the largest (times a power of two): what every solve uses. */
-    private double w(int i) {
+    double w(int i) {
         return unitWeights == null ? 1.0 : unitWeights[i];
     }
 
@@ -138,8 +138,9 @@ public final class FunctionOnScalarFit {
         }
         double[] c = response.coordinatesRowMajor();
         // whitened system √W X, √W C, solved by QR (accuracy governed by cond(√W X), not its square)
-        double[] xs = x.clone();
-        double[] cs = c.clone();
+        // copies only when the weights scale them (the solves below read xs and cs, never write them)
+        double[] xs = w != null ? x.clone() : x;
+        double[] cs = w != null ? c.clone() : c;
         // weights w = s w̃ with the largest w̃ in [1, 2): Σ w r² + λ pen = s (Σ w̃ r² + (λ / s) pen), so
         // the solves use w̃ and λ / s and give the same estimates without under- or overflow
         double weightFactor = 1.0; // 1 / s
@@ -214,7 +215,7 @@ public final class FunctionOnScalarFit {
             }
         }
         edf /= inv.length;
-        return new FunctionOnScalarFit(cfg, design, response, w, u, inv, scale, x, coef, edf);
+        return new FunctionOnScalarFit(cfg, design, response, c, w, u, inv, scale, x, coef, edf);
     }
 
     /** Row j of a (p × cols) times f_j: coefficients of the scaled design back to the original columns. */
@@ -226,41 +227,6 @@ public final class FunctionOnScalarFit {
             }
         }
         return out;
-    }
-
-    /** B = the solution of the (penalised) normal equations with right-hand side XᵀWC (p × K). */
-    private static double[] solve(double[] rhs, int p, int k, double[] u, double[][] inv) {
-        if (u == null) {
-            return DenseAlgebra.mult(inv[0], p, p, rhs, k);
-        }
-        double[] t = DenseAlgebra.mult(rhs, p, k, u, k); // XᵀWC U
-        double[] bt = new double[p * k];
-        double[] col = new double[p];
-        for (int l = 0; l < k; l++) {
-            double[] a = inv[l];
-            for (int j = 0; j < p; j++) {
-                double s = 0;
-                for (int m = 0; m < p; m++) {
-                    s += a[j * p + m] * t[m * k + l];
-                }
-                col[j] = s;
-            }
-            for (int j = 0; j < p; j++) {
-                bt[j * k + l] = col[j];
-            }
-        }
-        // B = B̃ Uᵀ
-        double[] b = new double[p * k];
-        for (int j = 0; j < p; j++) {
-            for (int c = 0; c < k; c++) {
-                double s = 0;
-                for (int l = 0; l < k; l++) {
-                    s += bt[j * k + l] * u[c * k + l];
-                }
-                b[j * k + c] = s;
-            }
-        }
-        return b;
     }
 
     // ------------------------------------------------------------------ accessors
@@ -562,129 +528,9 @@ public final class FunctionOnScalarFit {
      */
     public List<CoefficientBand> bootstrapBands(double[] grid, int replicates, double level, long seed,
             ProgressListener listener) {
-        Objects.requireNonNull(listener, "listener");
-        double[] g = Arguments.grid(space, grid, "grid");
-        if (replicates < 20) {
-            throw new IllegalArgumentException("need at least 20 bootstrap replicates, got " + replicates);
-        }
-        if (!(level > 0 && level < 1)) {
-            throw new IllegalArgumentException("level must be in (0, 1), got " + level);
-        }
-        int m = g.length;
-        double[] et = basisTransposed(g); // K × m
-        double[] est = DenseAlgebra.mult(coef, p, k, et, m); // p × m
-        double[][] deltas = new double[replicates][]; // each p × m
-        double[] std = new double[n * k];
-        for (int i = 0; i < n; i++) {
-            double s = Math.sqrt(w(i));
-            for (int j = 0; j < k; j++) {
-                std[i * k + j] = resid[i * k + j] * s;
-            }
-        }
-        SplittableRandom rnd = new SplittableRandom(seed);
-        double[] x = xScaled; // solves run on the scaled design; band widths are unscaled per column
-        // β* − β̂ = [S(XᵀWŶ) − β̂] + S(XᵀW r*) with S the (penalised) solve: the first term is zero
-        // without penalty and the shrinkage of the refit on the fitted values with one
-        double[] shift = new double[p * m];
-        if (u != null) {
-            double[] xw = x.clone();
-            for (int i = 0; i < n; i++) {
-                for (int j = 0; j < p; j++) {
-                    xw[i * p + j] *= w(i);
-                }
-            }
-            double[] refit = solve(DenseAlgebra.multTransA(xw, n, p, fitted, k), p, k, u, inverses);
-            for (int i = 0; i < refit.length; i++) {
-                refit[i] -= coefScaled[i];
-            }
-            shift = DenseAlgebra.mult(refit, p, k, et, m);
-        }
-        double[] rhs = new double[p * k];
-        for (int b = 0; b < replicates; b++) {
-            Arrays.fill(rhs, 0.0);
-            for (int i = 0; i < n; i++) {
-                int src = rnd.nextInt(n);
-                // XᵀW r*: row i contributes w_i x_i (e_src / √w_i) = √w_i x_i e_src
-                double sw = Math.sqrt(w(i));
-                for (int j = 0; j < p; j++) {
-                    double xij = x[i * p + j] * sw;
-                    if (xij == 0) {
-                        continue;
-                    }
-                    for (int l = 0; l < k; l++) {
-                        rhs[j * k + l] += xij * std[src * k + l];
-                    }
-                }
-            }
-            double[] db = solve(rhs, p, k, u, inverses);
-            double[] dg = DenseAlgebra.mult(db, p, k, et, m); // in the scaled design's units: row j is δβ_j / f_j
-            for (int q = 0; q < dg.length; q++) {
-                dg[q] += shift[q];
-            }
-            deltas[b] = dg;
-            listener.progress("bootstrap", b + 1, replicates);
-        }
-        List<CoefficientBand> out = new ArrayList<>();
-        double alpha = 1 - level;
-        double[] col = new double[replicates];
-        for (int j = 0; j < p; j++) {
-            // the deltas of column j are δβ_j / f_j (f_j a power of two): percentiles and standard
-            // deviations are taken on them and multiplied by f_j, the critical value is scale-free
-            double f = scale[j];
-            double[] e = Arrays.copyOfRange(est, j * m, (j + 1) * m);
-            double[] pl = new double[m];
-            double[] pu = new double[m];
-            double[] sd = new double[m];
-            for (int q = 0; q < m; q++) {
-                double s = 0;
-                double s2 = 0;
-                for (int b = 0; b < replicates; b++) {
-                    double d = deltas[b][j * m + q];
-                    col[b] = d;
-                    s += d;
-                    s2 += d * d;
-                }
-                double mean = s / replicates;
-                sd[q] = Math.sqrt(Math.max(0, (s2 - replicates * mean * mean) / (replicates - 1)));
-                Arrays.sort(col);
-                pl[q] = e[q] - f * SampleQuantiles.sorted(col, 1 - alpha / 2);
-                pu[q] = e[q] - f * SampleQuantiles.sorted(col, alpha / 2);
-            }
-            double[] maxDev = new double[replicates];
-            for (int b = 0; b < replicates; b++) {
-                double mx = 0;
-                for (int q = 0; q < m; q++) {
-                    if (sd[q] > 0) {
-                        mx = Math.max(mx, Math.abs(deltas[b][j * m + q]) / sd[q]);
-                    }
-                }
-                maxDev[b] = mx;
-            }
-            Arrays.sort(maxDev);
-            double c = SampleQuantiles.sorted(maxDev, level);
-            double[] sl = new double[m];
-            double[] su = new double[m];
-            for (int q = 0; q < m; q++) {
-                sd[q] *= f;
-                sl[q] = e[q] - c * sd[q];
-                su[q] = e[q] + c * sd[q];
-            }
-            out.add(new CoefficientBand(design.columnNames().get(j), g.clone(), e, pl, pu, sl, su, sd, c));
-        }
-        return List.copyOf(out);
+        return ResidualBootstrap.bands(this, grid, replicates, level, seed, listener);
     }
 
-    private double[] basisTransposed(double[] g) {
-        DMatrixRMaj e = space.basisMatrix(g);
-        int m = g.length;
-        double[] t = new double[k * m];
-        for (int q = 0; q < m; q++) {
-            for (int j = 0; j < k; j++) {
-                t[j * m + q] = e.data[q * k + j];
-            }
-        }
-        return t;
-    }
 
     // ------------------------------------------------------------------ permutation F-test
 
@@ -701,7 +547,17 @@ public final class FunctionOnScalarFit {
      * @param seed         random seed
      */
     public record PermutationTest(String term, double fStatistic, double pValue, int df1, int df2,
-            int permutations, long seed) {
+            int permutations, long seed) implements TestResult {
+        /** The observed F, {@link #fStatistic()}. */
+        @Override
+        public double statistic() {
+            return fStatistic;
+        }
+
+        @Override
+        public String method() {
+            return "Freedman-Lane permutation (" + permutations + " permutations, seed " + seed + "), upper tail";
+        }
     }
 
     /**
@@ -719,178 +575,21 @@ public final class FunctionOnScalarFit {
      *                                  permutations, no residual degrees of freedom, or a response
      *                                  that the full model fits exactly (F undefined)
      */
-    public PermutationTest permutationTest(String term, int permutations, long seed) {
-        return permutationTest(term, permutations, seed, ProgressListener.NONE);
+    public PermutationTest test(String term, int permutations, long seed) {
+        return test(term, permutations, seed, ProgressListener.NONE);
     }
 
     /**
-     * {@link #permutationTest(String, int, long)} reporting progress to a listener: task
+     * {@link #test(String, int, long)} reporting progress to a listener: task
      * {@code "permutation test"}, one unit per permutation, from the calling thread; the count
      * reaches {@code permutations}. The listener does not change the result.
      *
      * @param listener progress listener, or {@link ProgressListener#NONE}
      */
-    public PermutationTest permutationTest(String term, int permutations, long seed, ProgressListener listener) {
-        Objects.requireNonNull(listener, "listener");
-        Design.Term t = design.term(term);
-        if (t.name().equals(Design.INTERCEPT)) {
-            throw new IllegalArgumentException("the permutation test is for covariates, not the intercept");
-        }
-        if (permutations < 19) {
-            throw new IllegalArgumentException("need at least 19 permutations, got " + permutations);
-        }
-        int df2 = n - p;
-        if (df2 < 1) {
-            throw new IllegalArgumentException("no residual degrees of freedom (n = " + n + ", p = " + p + ")");
-        }
-        Design reduced = design.without(term);
-        double[] sw = new double[n];
-        for (int i = 0; i < n; i++) {
-            sw[i] = Math.sqrt(w(i));
-        }
-        double[] q1 = orthonormalColumns(design, sw);
-        double[] q0 = reduced.columns() == 0 ? new double[0] : orthonormalColumns(reduced, sw);
-        int p0 = reduced.columns();
-        double[] c = response.coordinatesRowMajor();
-        for (int i = 0; i < n; i++) {
-            for (int j = 0; j < k; j++) {
-                c[i * k + j] *= sw[i];
-            }
-        }
-        // reduced-model residuals e0 = (I − Q0 Q0ᵀ) C̃
-        double[] e0 = residualise(q0, p0, c);
-        int df1 = t.columns().size();
-        double tot = 0;
-        for (double v : e0) {
-            tot += v * v;
-        }
-        double rss1 = tot - projectedSq(q1, p, e0);
-        if (!(rss1 > 1e-20 * tot)) {
-            // F = 0/0 or x/0: NaN or ∞ would give a meaningless p-value of 1/(permutations + 1)
-            throw new IllegalArgumentException("permutation test of '" + term + "': the full model fits the"
-                    + " response exactly (residual sum of squares " + rss1 + " of " + tot + " for the reduced"
-                    + " model), so the F statistic is undefined; the test needs residual variation");
-        }
-        double fObs = fStat(q0, p0, q1, e0, df1, df2);
-        SplittableRandom rnd = new SplittableRandom(seed);
-        double[] perm = new double[n * k];
-        int exceed = 0;
-        for (int b = 0; b < permutations; b++) {
-            int[] pi = Seeds.permutation(n, rnd);
-            for (int i = 0; i < n; i++) {
-                System.arraycopy(e0, pi[i] * k, perm, i * k, k);
-            }
-            double f = fStat(q0, p0, q1, perm, df1, df2);
-            if (f >= fObs * (1 - 1e-12)) {
-                exceed++;
-            }
-            listener.progress("permutation test", b + 1, permutations);
-        }
-        return new PermutationTest(term, fObs, (1.0 + exceed) / (permutations + 1.0), df1, df2, permutations, seed);
+    public PermutationTest test(String term, int permutations, long seed, ProgressListener listener) {
+        return FreedmanLaneTest.test(this, term, permutations, seed, listener);
     }
 
-    private double fStat(double[] q0, int p0, double[] q1, double[] e, int df1, int df2) {
-        // (I − H0)(Ĉ0 + e*) = (I − H0) e*, (I − H1)(Ĉ0 + e*) = (I − H1) e*
-        double tot = 0;
-        for (double v : e) {
-            tot += v * v;
-        }
-        double rss0 = tot - projectedSq(q0, p0, e);
-        double rss1 = tot - projectedSq(q1, p, e);
-        return ((rss0 - rss1) / df1) / (rss1 / df2);
-    }
-
-    private double projectedSq(double[] q, int cols, double[] e) {
-        if (cols == 0) {
-            return 0;
-        }
-        double[] qe = DenseAlgebra.multTransA(q, n, cols, e, k);
-        double s = 0;
-        for (double v : qe) {
-            s += v * v;
-        }
-        return s;
-    }
-
-    private double[] residualise(double[] q, int cols, double[] c) {
-        if (cols == 0) {
-            return c.clone();
-        }
-        double[] qc = DenseAlgebra.multTransA(q, n, cols, c, k);
-        double[] fit = DenseAlgebra.mult(q, n, cols, qc, k);
-        double[] r = new double[c.length];
-        for (int i = 0; i < r.length; i++) {
-            r[i] = c[i] - fit[i];
-        }
-        return r;
-    }
-
-    /**
-     * Relative tolerance on |R_jj| / ‖column j‖ below which a column of the weighted design counts
-     * as zero or a combination of earlier columns (the squared-norm tolerance 10⁻²⁰ of
-     * {@code Design.requireFullRank}).
-     */
-    static final double RANK_TOLERANCE = 1e-10;
-
-    /**
-     * Orthonormal basis Q (n × p, row-major) of the columns of √W X by Householder QR. Without a
-     * rank check a rank-deficient design would give p columns of which some are arbitrary, and so
-     * wrong degrees of freedom: |R_jj| is the norm of column j after projecting out the columns
-     * before it, so each |R_jj| must exceed {@link #RANK_TOLERANCE} times the norm of column j.
-     *
-     * @throws IllegalArgumentException naming the first column that is zero or a linear
-     *                                  combination of earlier columns
-     */
-    static double[] orthonormalColumns(Design d, double[] sw) {
-        int rows = d.rows();
-        int cols = d.columns();
-        double[] xw = d.internal().clone();
-        double[] norms = new double[cols];
-        for (int i = 0; i < rows; i++) {
-            for (int j = 0; j < cols; j++) {
-                xw[i * cols + j] *= sw[i];
-            }
-        }
-        // columns scaled by powers of two (Q does not change): covariates near 1e300 or 1e-170
-        // would otherwise overflow or underflow their squared norms and look rank deficient
-        for (int j = 0; j < cols; j++) {
-            Design.scaleToUnit(xw, j, cols, rows);
-        }
-        for (int i = 0; i < rows; i++) {
-            for (int j = 0; j < cols; j++) {
-                norms[j] += xw[i * cols + j] * xw[i * cols + j];
-            }
-        }
-        if (rows < cols) {
-            throw new IllegalArgumentException("the weighted design has " + rows + " rows for " + cols
-                    + " columns " + d.columnNames() + "; need at least as many rows as columns");
-        }
-        for (int j = 0; j < cols; j++) {
-            if (!(norms[j] > 0)) {
-                throw rankDeficient(d, j, 0.0, Math.sqrt(norms[j]));
-            }
-        }
-        QRDecomposition<DMatrixRMaj> qr = DecompositionFactory_DDRM.qr(rows, cols);
-        if (!qr.decompose(DMatrixRMaj.wrap(rows, cols, xw.clone()))) {
-            throw new io.densa.core.DensaException("QR decomposition of the " + rows + " x " + cols + " design failed",
-                    new SolveDiagnostics("QR of the weighted design", cols, Double.NaN));
-        }
-        DMatrixRMaj r = qr.getR(null, true);
-        for (int j = 0; j < cols; j++) {
-            double norm = Math.sqrt(norms[j]);
-            if (!(Math.abs(r.get(j, j)) > RANK_TOLERANCE * norm)) {
-                throw rankDeficient(d, j, Math.abs(r.get(j, j)), norm);
-            }
-        }
-        return qr.getQ(null, true).data;
-    }
-
-    private static IllegalArgumentException rankDeficient(Design d, int j, double rjj, double norm) {
-        return new IllegalArgumentException("the weighted design is rank deficient: column '"
-                + d.columnNames().get(j) + "' (index " + j + ", |R_jj| = " + rjj + ", weighted column norm "
-                + norm + ") is zero or a linear combination of earlier columns of " + d.columnNames()
-                + "; drop or recode it");
-    }
 
     @Override
     public String toString() {

@@ -357,8 +357,7 @@ public final class FunctionalRegression {
      *                                  coordinates of a predictor or the response above
      *                                  1e150 / √(n·K) in magnitude
      */
-    public FunctionOnFunctionFit fitDensityResponse(List<DensitySet> predictors, Design covariates,
-            DensitySet response) {
+    public FunctionOnFunctionFit fit(List<DensitySet> predictors, Design covariates, DensitySet response) {
         Objects.requireNonNull(response, "response");
         Arguments.requireModerate(response, "response");
         Design d = check(predictors, covariates, response.size(), response.space());
@@ -373,10 +372,10 @@ public final class FunctionalRegression {
      * @param predictors one or more density sets with one row per observation
      * @param covariates scalar covariates with intercept, or null
      * @param response   n finite values (copied)
-     * @throws IllegalArgumentException as {@link #fitDensityResponse}, or on a non-finite
+     * @throws IllegalArgumentException as {@link #fit(java.util.List, io.densa.regression.Design, io.densa.core.DensitySet)}, or on a non-finite
      *                                  response (naming the row)
      */
-    public ScalarOnFunctionFit fitScalarResponse(List<DensitySet> predictors, Design covariates, double[] response) {
+    public ScalarOnFunctionFit fit(List<DensitySet> predictors, Design covariates, double[] response) {
         Objects.requireNonNull(response, "response");
         for (int i = 0; i < response.length; i++) {
             if (!Double.isFinite(response[i])) {
@@ -390,6 +389,22 @@ public final class FunctionalRegression {
         Design d = check(predictors, covariates, response.length, null);
         LinearFunctionalEngine.Result res = LinearFunctionalEngine.fit(this, d, predictors, response.clone(), 1);
         return new ScalarOnFunctionFit(this, d, predictors, response, res);
+    }
+
+    /**
+     * Fits a function-on-function regression with the intercept as the only scalar covariate:
+     * {@code fit(predictors, null, response)}.
+     */
+    public FunctionOnFunctionFit fit(List<DensitySet> predictors, DensitySet response) {
+        return fit(predictors, null, response);
+    }
+
+    /**
+     * Fits a scalar-on-function regression with the intercept as the only scalar covariate:
+     * {@code fit(predictors, null, response)}.
+     */
+    public ScalarOnFunctionFit fit(List<DensitySet> predictors, double[] response) {
+        return fit(predictors, null, response);
     }
 
     @Override

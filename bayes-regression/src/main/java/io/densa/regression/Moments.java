@@ -3,8 +3,9 @@ package io.densa.regression;
 import io.densa.core.internal.Kernels;
 
 /**
- * Per-fold first and second moments of the rows of an n × w matrix, computed in one blocked
- * pass (fixed blocks of {@code Kernels.BLOCK} rows combined in order, so parallel and serial
+ * Per-fold first and second moments of the rows of an n × w matrix: the rows are grouped by
+ * fold and each fold's rows go through the shared kernels {@code Kernels.columnSumsOfRows} and
+ * {@code Kernels.crossProductOfRows} (fixed blocks combined in order, so parallel and serial
  * results are bit-identical). Columns flagged for centring are shifted by their global mean
  * before accumulation (to avoid cancellation); everything returned by the package-private
  * accessors is in these shifted units unless stated otherwise.
@@ -50,60 +51,33 @@ final class Moments {
         for (int j = 0; j < w; j++) {
             shift[j] = centre[j] && n > 0 ? colSums[j] / n : 0.0;
         }
-        int blocks = (n + Kernels.BLOCK - 1) / Kernels.BLOCK;
-        double[][][] pc = new double[blocks][][];
-        double[][][] ps = new double[blocks][][];
-        int[][] pn = new int[blocks][];
-        Kernels.forEachBlock(blocks, parallel && Kernels.parallelWorth((long) n * w * w), blk -> {
-            double[][] c = new double[folds][w * w];
-            double[][] s = new double[folds][w];
-            int[] cnt = new int[folds];
-            double[] row = new double[w];
-            int r0 = blk * Kernels.BLOCK, r1 = Math.min(n, r0 + Kernels.BLOCK);
-            for (int i = r0; i < r1; i++) {
-                int f = fold == null ? 0 : fold[i];
-                int o = i * w;
-                for (int j = 0; j < w; j++) {
-                    row[j] = x[o + j] - shift[j];
-                }
-                double[] cf = c[f];
-                double[] sf = s[f];
-                cnt[f]++;
-                for (int j = 0; j < w; j++) {
-                    double rj = row[j];
-                    sf[j] += rj;
-                    int co = j * w;
-                    for (int l = 0; l <= j; l++) {
-                        cf[co + l] += rj * row[l];
-                    }
-                }
-            }
-            pc[blk] = c;
-            ps[blk] = s;
-            pn[blk] = cnt;
-        });
+        // rows sorted by fold (stable counting sort), then each fold's range through the shared kernels
         int[] counts = new int[folds];
-        double[][] sums = new double[folds][w];
-        double[][] cross = new double[folds][w * w];
-        for (int b = 0; b < blocks; b++) {
+        int[] order = null;
+        int[] start = new int[folds + 1];
+        if (fold == null) {
+            counts[0] = n;
+        } else {
+            for (int i = 0; i < n; i++) {
+                counts[fold[i]]++;
+            }
             for (int f = 0; f < folds; f++) {
-                counts[f] += pn[b][f];
-                double[] s = ps[b][f];
-                double[] c = pc[b][f];
-                for (int j = 0; j < w; j++) {
-                    sums[f][j] += s[j];
-                }
-                for (int j = 0; j < w * w; j++) {
-                    cross[f][j] += c[j];
-                }
+                start[f + 1] = start[f] + counts[f];
+            }
+            order = new int[n];
+            int[] next = start.clone();
+            for (int i = 0; i < n; i++) {
+                order[next[fold[i]]++] = i;
             }
         }
-        for (double[] c : cross) {
-            for (int j = 0; j < w; j++) {
-                for (int l = 0; l < j; l++) {
-                    c[l * w + j] = c[j * w + l];
-                }
-            }
+        start[folds] = n;
+        double[][] sums = new double[folds][];
+        double[][] cross = new double[folds][];
+        for (int f = 0; f < folds; f++) {
+            int from = fold == null ? (f == 0 ? 0 : n) : start[f];
+            int to = fold == null ? n : start[f + 1];
+            sums[f] = Kernels.columnSumsOfRows(x, w, order, from, to, shift, parallel);
+            cross[f] = Kernels.crossProductOfRows(x, w, order, from, to, shift, parallel);
         }
         return new Moments(n, w, folds, shift, counts, sums, cross);
     }

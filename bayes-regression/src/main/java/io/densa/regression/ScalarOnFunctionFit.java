@@ -14,25 +14,13 @@ import java.util.Objects;
  *
  * <p>Immutable and thread-safe.
  */
-public final class ScalarOnFunctionFit {
-    private final FunctionalRegression config;
-    private final Design design;
-    private final List<BayesSpace> predictorSpaces;
-    private final LinearFunctionalEngine.Result res;
+public final class ScalarOnFunctionFit extends FunctionalFit {
     private final int n;
 
     ScalarOnFunctionFit(FunctionalRegression config, Design design, List<DensitySet> predictors, double[] y,
             LinearFunctionalEngine.Result res) {
-        this.config = config;
-        this.design = design;
-        this.predictorSpaces = res.predictorSpaces();
-        this.res = res;
+        super(config, design, res);
         this.n = y.length;
-    }
-
-    /** The fitted state (see {@link FunctionalFitState}); {@link #restore} rebuilds this fit from it. */
-    public FunctionalFitState state() {
-        return FunctionalFitState.of(res);
     }
 
     /**
@@ -51,31 +39,6 @@ public final class ScalarOnFunctionFit {
         return new ScalarOnFunctionFit(config, design, null, new double[design.rows()], res);
     }
 
-    /** The configuration. */
-    public FunctionalRegression configuration() {
-        return config;
-    }
-
-    /** The covariate design. */
-    public Design design() {
-        return design;
-    }
-
-    /** Spaces of the density predictors. */
-    public List<BayesSpace> predictorSpaces() {
-        return predictorSpaces;
-    }
-
-    /** The tuning used, with its cross-validated mean squared error. */
-    public FunctionalRegression.Candidate chosen() {
-        return res.chosen();
-    }
-
-    /** Every candidate with its cross-validated mean squared error. */
-    public List<FunctionalRegression.Candidate> crossValidation() {
-        return res.candidates();
-    }
-
     /**
      * Cross-validated mean squared prediction error (1/n) Σ_i (y_i − ŷ_i^(−fold(i)))² of the chosen
      * tuning; empty when a single candidate was fitted without cross-validation.
@@ -91,9 +54,7 @@ public final class ScalarOnFunctionFit {
 
     /** The coefficient function β_j as an element of the predictor's space. */
     public Density coefficientFunction(int j) {
-        if (j < 0 || j >= predictorSpaces.size()) {
-            throw new IllegalArgumentException("predictor index " + j + " outside [0, " + predictorSpaces.size() + ")");
-        }
+        checkPredictor(j);
         int[] off = res.offsets();
         return predictorSpaces.get(j).density(Arrays.copyOfRange(res.beta(), off[j], off[j + 1]));
     }

@@ -46,7 +46,7 @@ class AnomalyScoringTest {
     void conformalPValueFormula() {
         BayesSpace s = BayesSpace.steps(0, 1, 2); // K = 1: residual norm = |coordinate|
         DensitySet cal = DensitySet.of(s, new double[][] {{1}, {-2}, {3}, {4}});
-        AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults().calibrate(cal, new double[] {0.25, 0.75});
+        AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults().fit(cal, new double[] {0.25, 0.75});
         // s = 2.5: calibration norms ≥ 2.5 are 3 and 4 → (1 + 2)/5; s = 5 → 1/5; s = 0 → 5/5; ties count
         assertArrayEquals(new double[] {0.6, 0.2, 1.0, 0.8}, c.pValues(new double[] {2.5, 5, 0, 2}), 1e-15);
     }
@@ -70,7 +70,7 @@ class AnomalyScoringTest {
             Units cal = fosData(r, 199, 0, 0, 0);
             Units test = fosData(r, 1, 0, 0, 0);
             AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults()
-                    .calibrate(fit.residuals(design(cal), cal.y()), grid);
+                    .fit(fit.residuals(design(cal), cal.y()), grid);
             p[rep] = c.score(fit.residuals(design(test), test.y())).units().get(0).pValue();
         }
         double ks = new KolmogorovSmirnovTest().kolmogorovSmirnovTest(new UniformRealDistribution(0, 1), p);
@@ -95,6 +95,15 @@ class AnomalyScoringTest {
         for (int i = 0; i < p.length; i++) {
             assertEquals(rej[i], adj[i] <= 0.05);
         }
+        // second derivation, from the definition of the step-up rule: reject the k smallest for the
+        // largest k with p_(k) <= k q / m (the p-values are already sorted)
+        int k = 0;
+        for (int i = 1; i <= p.length; i++) {
+            if (p[i - 1] <= i * 0.05 / p.length) {
+                k = i;
+            }
+        }
+        assertEquals(4, k);
     }
 
     /**
@@ -140,7 +149,7 @@ class AnomalyScoringTest {
                     units[i][l] += shift[l];
                 }
             }
-            AnomalyScoring.Report rep = AnomalyScoring.withDefaults().withFdr(0.05).calibrate(cal, grid)
+            AnomalyScoring.Report rep = AnomalyScoring.withDefaults().withFdr(0.05).fit(cal, grid)
                     .score(DensitySet.of(space, units));
             int fp = 0;
             int tp = 0;
@@ -180,7 +189,7 @@ class AnomalyScoringTest {
             grid[q] = q / 50.0;
         }
         AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults().withBandLevel(0.99)
-                .calibrate(fit.residuals(design(cal), cal.y()), grid);
+                .fit(fit.residuals(design(cal), cal.y()), grid);
         Units odd = fosData(r, 1, 0.3, 0.5, 4.0);
         Units normal = fosData(r, 30, 0, 0, 0);
         DensitySet batch = normal.y().concat(odd.y());
@@ -191,6 +200,7 @@ class AnomalyScoringTest {
         AnomalyScoring.Report rep = c.score(fit.residuals(d, batch));
         AnomalyScoring.UnitScore u = rep.units().get(30);
         assertTrue(u.flagged(), "p = " + u.pValue());
+        assertEquals(u.residualNorm(), ((io.densa.core.TestResult) u).statistic(), 0.0);
         boolean found = false;
         for (AnomalyScoring.Excursion e : u.excursions()) {
             if (e.direction() == AnomalyScoring.Direction.EXCESS && e.from() <= 0.4 && e.to() >= 0.4) {
@@ -216,7 +226,7 @@ class AnomalyScoringTest {
     void bandIsThePointwiseQuantileOfCalibrationResiduals() {
         DensitySet cal = DensitySet.of(space, TestData.gaussian(new Random(41), 57, k, 1));
         double[] grid = {0.05, 0.3, 0.77, 1.0};
-        AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults().withBandLevel(0.9).calibrate(cal, grid);
+        AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults().withBandLevel(0.9).fit(cal, grid);
         List<AnomalyScoring.BandPoint> band = c.band();
         assertEquals(grid.length, band.size());
         org.apache.commons.math3.stat.descriptive.rank.Percentile pct =
@@ -237,9 +247,9 @@ class AnomalyScoringTest {
     void badInput() {
         DensitySet cal = DensitySet.of(space, TestData.gaussian(new Random(1), 10, k, 1));
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-                () -> AnomalyScoring.withDefaults().calibrate(cal, new double[] {0.5, 0.2}));
+                () -> AnomalyScoring.withDefaults().fit(cal, new double[] {0.5, 0.2}));
         assertTrue(e.getMessage().matches("grid must be strictly increasing.*"), e.getMessage());
-        AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults().calibrate(cal, new double[] {0.5});
+        AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults().fit(cal, new double[] {0.5});
         DensitySet other = DensitySet.of(BayesSpace.polynomials(0, 1, 8), new double[2][8]);
         e = assertThrows(IllegalArgumentException.class, () -> c.score(other));
         assertTrue(e.getMessage().matches("residuals lives in .* but .* is required; use space.project.*"), e.getMessage());

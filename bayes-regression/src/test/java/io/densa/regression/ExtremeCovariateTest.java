@@ -72,7 +72,7 @@ class ExtremeCovariateTest {
         }
         assertEquals(a.rSquared(), b.rSquared(), 1e-9);
         assertEquals(a.diagnostics().effectiveParameters(), b.diagnostics().effectiveParameters(), 1e-9);
-        assertEquals(a.permutationTest("x1", 49, 3).fStatistic(), b.permutationTest("x1", 49, 3).fStatistic(), 1e-7);
+        assertEquals(a.test("x1", 49, 3).fStatistic(), b.test("x1", 49, 3).fStatistic(), 1e-7);
         List<FunctionOnScalarFit.CoefficientBand> ba = a.bootstrapBands(new double[] {0.2, 0.7}, 40, 0.9, 5);
         List<FunctionOnScalarFit.CoefficientBand> bb = b.bootstrapBands(new double[] {0.2, 0.7}, 40, 0.9, 5);
         assertEquals(ba.get(1).simultaneousCritical(), bb.get(1).simultaneousCritical(), 1e-7);

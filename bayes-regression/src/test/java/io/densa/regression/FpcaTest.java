@@ -55,7 +55,7 @@ class FpcaTest {
         DMatrixRMaj vt = svd.getV(null, true);
         SingularOps_DDRM.descendingOrder(u, false, w, vt, true);
         double[] ev = f.eigenvalues();
-        DMatrixRMaj scores = f.scores(data, k);
+        Scores scores = f.scores(data, k);
         for (int j = 0; j < k; j++) {
             double s = w.get(j, j);
             assertEquals(s * s / 299, ev[j], 1e-10 * ev[0]);
@@ -137,7 +137,7 @@ class FpcaTest {
             assertTrue(f.reconstruct(data, 0).get(i).equalsWithin(data.mean(), 1e-12));
         }
         // reconstruction error with m components = Σ_{j>m} of squared scores (Pythagoras in B2)
-        DMatrixRMaj z = f.scores(data, k);
+        Scores z = f.scores(data, k);
         DensitySet rec2 = f.reconstruct(data, 2);
         for (int i = 0; i < 10; i++) {
             double tail = 0;
@@ -175,14 +175,14 @@ class FpcaTest {
         int k = space.dimension();
         double[][] v = TestData.orthogonal(r, k);
         DensitySet data = sample(22, 2000, new double[] {3, 2, 1.5, 0.2, 0.2, 0.2, 0.2, 0.2}, v, new double[k]);
-        Fpca.ComponentChoice c = Fpca.crossValidate(data, 6, 0.9, 5, 42L);
+        Fpca.ComponentChoice c = Fpca.chooseComponents(data, ComponentSelection.withDefaults().withMaxComponents(6).withFraction(0.9).withCrossValidation(5, 42L));
         assertEquals(3, c.components());
         double[] e = c.meanError();
         for (int m = 1; m < e.length; m++) {
             assertTrue(e[m] <= e[m - 1] + 1e-12);
         }
         // same seed, same folds, same curve
-        org.junit.jupiter.api.Assertions.assertArrayEquals(e, Fpca.crossValidate(data, 6, 0.9, 5, 42L).meanError());
+        org.junit.jupiter.api.Assertions.assertArrayEquals(e, Fpca.chooseComponents(data, ComponentSelection.withDefaults().withMaxComponents(6).withFraction(0.9).withCrossValidation(5, 42L)).meanError());
     }
 
     @Test

@@ -87,14 +87,14 @@ class FunctionOnFunctionTest {
         for (int a = 0; a < 3; a++) {
             for (int rep = 0; rep < 5; rep++) {
                 DensitySet[] d = simulate(10 * a + rep, ns[a], 0.5);
-                mean[a] += ise(cfg.fitDensityResponse(List.of(d[0]), null, d[1])) / 5;
+                mean[a] += ise(cfg.fit(List.of(d[0]), null, d[1])) / 5;
             }
         }
         assertTrue(mean[1] < mean[0] / 4 && mean[2] < mean[1] / 4,
                 "ISE " + java.util.Arrays.toString(mean));
         // the kernel on a grid is Σ G_km e_k(s) e_m(t)
         DensitySet[] d = simulate(1, 500, 0.5);
-        FunctionOnFunctionFit fit = cfg.fitDensityResponse(List.of(d[0]), null, d[1]);
+        FunctionOnFunctionFit fit = cfg.fit(List.of(d[0]), null, d[1]);
         DMatrixRMaj kern = fit.kernel(0, new double[] {0.1, 0.6}, new double[] {0.3, 1.9});
         DMatrixRMaj g = fit.kernelCoefficients(0);
         double[] es = xSpace.basisAt(0.6);
@@ -115,7 +115,7 @@ class FunctionOnFunctionTest {
         for (int rep = 0; rep < 10; rep++) {
             DensitySet[] d = simulate(300 + rep, 400, 1.0);
             FunctionOnFunctionFit fit = FunctionalRegression.truncation().withComponents(1, 8).withSeed(rep)
-                    .fitDensityResponse(List.of(d[0]), null, d[1]);
+                    .fit(List.of(d[0]), null, d[1]);
             int m = fit.chosen().predictorComponents();
             assertTrue(m >= 4, "chose " + m + " < 4 (too few components lose the signal)");
             if (m <= 5) {
@@ -135,7 +135,7 @@ class FunctionOnFunctionTest {
     void fullTruncationEqualsCommonsMathOls() {
         DensitySet[] d = simulate(5, 120, 0.5);
         FunctionOnFunctionFit fit = FunctionalRegression.truncation().withComponents(kx, kx)
-                .fitDensityResponse(List.of(d[0]), null, d[1]);
+                .fit(List.of(d[0]), null, d[1]);
         double[][] x = d[0].coordinates();
         double[][] y = d[1].coordinates();
         DMatrixRMaj g = fit.kernelCoefficients(0);
@@ -167,7 +167,8 @@ class FunctionOnFunctionTest {
 
     /**
      * Ridge with a single λ equals OLS on data augmented by rows √(nλ) e_j for every kernel
-     * coordinate (Hoerl and Kennard (1970), Technometrics 12(1) [from memory]; Commons Math OLS).
+     * coordinate (Hoerl and Kennard (1970), Technometrics 12(1) [from memory]; Commons Math OLS). Derived
+     * in one line: the normal equations of [X; √(nλ) E] b = [y; 0] are (XᵀX + nλ EᵀE) b = Xᵀy.
      */
     @Test
     void ridgeMatchesAugmentedOls() {
@@ -175,7 +176,7 @@ class FunctionOnFunctionTest {
         DensitySet[] d = simulate(6, n, 0.5);
         double lambda = 0.05;
         FunctionOnFunctionFit fit = FunctionalRegression.ridge().withLambdas(lambda)
-                .fitDensityResponse(List.of(d[0]), null, d[1]);
+                .fit(List.of(d[0]), null, d[1]);
         double[][] x = d[0].coordinates();
         double[][] y = d[1].coordinates();
         for (int m = 0; m < ky; m++) {
@@ -199,7 +200,7 @@ class FunctionOnFunctionTest {
         }
         // ridge with CV over its default grid is a sensible estimator too
         DensitySet[] big = simulate(7, 2000, 0.5);
-        FunctionOnFunctionFit cv = FunctionalRegression.ridge().fitDensityResponse(List.of(big[0]), null, big[1]);
+        FunctionOnFunctionFit cv = FunctionalRegression.ridge().fit(List.of(big[0]), null, big[1]);
         assertEquals(17, cv.crossValidation().size());
         assertTrue(ise(cv) < 0.05, "ridge ISE " + ise(cv));
     }
@@ -223,7 +224,7 @@ class FunctionOnFunctionTest {
         DensitySet ys = DensitySet.of(ySpace, y);
         Design cov = Design.builder().numeric("u", u).build();
         FunctionOnFunctionFit fit = FunctionalRegression.truncation().withComponents(1, 8)
-                .withResponseComponents(2, ky).fitDensityResponse(List.of(d[0], x2s), cov, ys);
+                .withResponseComponents(2, ky).fit(List.of(d[0], x2s), cov, ys);
         assertEquals(0.7, fit.coefficient("u").coordinate(0), 0.03);
         assertEquals(0.4, fit.kernelCoefficients(1).get(2, 2), 0.03);
         assertEquals(0.0, fit.kernelCoefficients(1).get(2, 3), 0.03);
@@ -255,7 +256,7 @@ class FunctionOnFunctionTest {
         }
         Design cov = Design.builder().numeric("year", year).build();
         FunctionOnFunctionFit fit = FunctionalRegression.truncation().withComponents(kx, kx)
-                .fitDensityResponse(List.of(d[0]), cov, DensitySet.of(ySpace, y));
+                .fit(List.of(d[0]), cov, DensitySet.of(ySpace, y));
         double[][] x = d[0].coordinates();
         double[][] xa = new double[n][kx + 1];
         for (int i = 0; i < n; i++) {
@@ -294,7 +295,7 @@ class FunctionOnFunctionTest {
             }
         }
         ScalarOnFunctionFit fit = FunctionalRegression.truncation().withComponents(kx, kx)
-                .fitScalarResponse(List.of(d[0]), null, y);
+                .fit(List.of(d[0]), null, y);
         OLSMultipleLinearRegression ols = new OLSMultipleLinearRegression();
         ols.newSampleData(y.clone(), x);
         double[] b = ols.estimateRegressionParameters();
@@ -303,19 +304,19 @@ class FunctionOnFunctionTest {
             assertEquals(b[l + 1], fit.coefficientFunction(0).coordinate(l), 1e-9);
         }
         assertEquals(ols.calculateRSquared(), fit.rSquared(), 1e-9);
-        ScalarOnFunctionFit cv = FunctionalRegression.truncation().fitScalarResponse(List.of(d[0]), null, y);
+        ScalarOnFunctionFit cv = FunctionalRegression.truncation().fit(List.of(d[0]), null, y);
         double cvErr = cv.crossValidatedError().orElseThrow();
         assertTrue(cvErr > 0.05 && cvErr < 0.2, "CV mean squared error " + cvErr + " (noise variance 0.09)");
         // a single candidate runs no cross-validation: the error is absent, not NaN
         ScalarOnFunctionFit single = FunctionalRegression.truncation().withComponents(3, 3)
-                .fitScalarResponse(List.of(d[0]), null, y);
+                .fit(List.of(d[0]), null, y);
         assertTrue(single.crossValidatedError().isEmpty());
         assertTrue(single.chosen().cvError().isEmpty());
         assertEquals(1, single.crossValidation().size());
         // penalised alternative: ridge with one λ equals OLS on rows augmented by √(nλ) e_l
         double lambda = 0.02;
         ScalarOnFunctionFit ridge = FunctionalRegression.ridge().withLambdas(lambda)
-                .fitScalarResponse(List.of(d[0]), null, y);
+                .fit(List.of(d[0]), null, y);
         double[] ya = new double[n + kx];
         double[][] xa = new double[n + kx][kx + 1];
         for (int i = 0; i < n; i++) {
@@ -343,23 +344,23 @@ class FunctionOnFunctionTest {
         DensitySet[] d = simulate(14, 50, 0.5);
         FunctionalRegression cfg = FunctionalRegression.truncation().withComponents(1, 4);
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-                () -> cfg.fitDensityResponse(List.of(d[0].subset(0, 1, 2)), null, d[1]));
+                () -> cfg.fit(List.of(d[0].subset(0, 1, 2)), null, d[1]));
         assertTrue(e.getMessage().matches("predictor 0 has 3 rows but the response has 50.*"), e.getMessage());
         // predictor and response in different spaces of the same domain and dimension
         BayesSpace poly = BayesSpace.polynomials(0, 2, 5);
         BayesSpace spl = BayesSpace.splines(0, 2, 3, 3);
         DensitySet xs = DensitySet.of(spl, TestData.gaussian(new Random(1), 50, 5, 1));
         DensitySet ys = DensitySet.of(poly, TestData.gaussian(new Random(2), 50, 5, 1));
-        e = assertThrows(IllegalArgumentException.class, () -> cfg.fitDensityResponse(List.of(xs), null, ys));
+        e = assertThrows(IllegalArgumentException.class, () -> cfg.fit(List.of(xs), null, ys));
         assertTrue(e.getMessage().matches("predictor 0 lives in .* and the response in .*differ.*"), e.getMessage());
         // the same check for every predictor, not only the first
         DensitySet xs2 = DensitySet.of(spl, TestData.gaussian(new Random(3), 50, 5, 1));
         DensitySet xok = DensitySet.of(BayesSpace.splines(0, 1, 4, 2), TestData.gaussian(new Random(4), 50, 5, 1));
         e = assertThrows(IllegalArgumentException.class,
-                () -> cfg.fitDensityResponse(List.of(xok, xs2), null, ys));
+                () -> cfg.fit(List.of(xok, xs2), null, ys));
         assertTrue(e.getMessage().matches("predictor 1 lives in .* and the response in .*differ.*"), e.getMessage());
         // prediction with predictors from another space
-        FunctionOnFunctionFit fit = cfg.fitDensityResponse(List.of(d[0]), null, d[1]);
+        FunctionOnFunctionFit fit = cfg.fit(List.of(d[0]), null, d[1]);
         e = assertThrows(IllegalArgumentException.class, () -> fit.predictorFpca(1));
         assertTrue(e.getMessage().matches("predictor index 1 outside \\[0, 1\\)"), e.getMessage());
         e = assertThrows(IllegalArgumentException.class, () -> fit.predict(List.of(ys), null));
@@ -367,13 +368,13 @@ class FunctionOnFunctionTest {
         // fewer observations than parameters
         DensitySet[] small = simulate(15, 8, 0.5);
         e = assertThrows(IllegalArgumentException.class,
-                () -> FunctionalRegression.truncation().fitDensityResponse(List.of(small[0]), null, small[1]));
+                () -> FunctionalRegression.truncation().fit(List.of(small[0]), null, small[1]));
         assertTrue(e.getMessage().matches(".*8 observations .* need more observations than parameters.*"),
                 e.getMessage());
         // rank-deficient truncated designs name the offending columns: a duplicated predictor, and a
         // predictor whose coordinates span only 2 directions (components 3 and 4 have no variance)
         e = assertThrows(IllegalArgumentException.class,
-                () -> cfg.fitDensityResponse(List.of(d[0], d[0]), null, d[1]));
+                () -> cfg.fit(List.of(d[0], d[0]), null, d[1]));
         assertTrue(e.getMessage().matches(".*column\\(s\\) \\[predictor 1 component 1, predictor 1 component 2,"
                 + " predictor 1 component 3, predictor 1 component 4\\] have no variance or are linear combinations.*"),
                 e.getMessage());
@@ -384,18 +385,18 @@ class FunctionOnFunctionTest {
             flat[i][1] = rf.nextGaussian();
         }
         e = assertThrows(IllegalArgumentException.class,
-                () -> cfg.fitDensityResponse(List.of(DensitySet.of(xSpace, flat)), null, d[1]));
+                () -> cfg.fit(List.of(DensitySet.of(xSpace, flat)), null, d[1]));
         assertTrue(e.getMessage().matches(".*\\[predictor 0 component 3, predictor 0 component 4\\] have no variance.*"
                 + "lower the component range.*"), e.getMessage());
         // ridge handles collinear predictors
-        FunctionalRegression.ridge().withLambdas(0.1).fitDensityResponse(List.of(d[0], d[0]), null, d[1]);
+        FunctionalRegression.ridge().withLambdas(0.1).fit(List.of(d[0], d[0]), null, d[1]);
         // design without intercept, NaN scalar response
         Design noInt = Design.builder().withoutIntercept().numeric("u", new double[50]).build();
-        e = assertThrows(IllegalArgumentException.class, () -> cfg.fitDensityResponse(List.of(d[0]), noInt, d[1]));
+        e = assertThrows(IllegalArgumentException.class, () -> cfg.fit(List.of(d[0]), noInt, d[1]));
         assertTrue(e.getMessage().matches(".*must contain the intercept.*"), e.getMessage());
         double[] y = new double[50];
         y[7] = Double.NaN;
-        e = assertThrows(IllegalArgumentException.class, () -> cfg.fitScalarResponse(List.of(d[0]), null, y));
+        e = assertThrows(IllegalArgumentException.class, () -> cfg.fit(List.of(d[0]), null, y));
         assertTrue(e.getMessage().matches("response row 7 is not finite: NaN"), e.getMessage());
         e = assertThrows(IllegalArgumentException.class, () -> FunctionalRegression.ridge().withLambdas(-1));
         assertTrue(e.getMessage().matches("λ must be positive and finite, got -1.0"), e.getMessage());

@@ -100,7 +100,9 @@ class FunctionOnScalarTest {
     /**
      * Weighted least squares equals OLS on rows scaled by √w (Commons Math reference); ridge with
      * R = I equals OLS on the data augmented by rows √λ e_j for every penalised column (a
-     * textbook identity, Hoerl and Kennard (1970), Technometrics 12(1) [from memory]).
+     * textbook identity, Hoerl and Kennard (1970), Technometrics 12(1) [from memory]; derived in one
+     * line: the normal equations of the augmented system [X; √λ E] b = [y; 0] are
+     * (XᵀX + λ EᵀE) b = Xᵀy, the ridge equations).
      */
     @Test
     void weightsAndRidgeMatchAugmentedOls() {
@@ -396,7 +398,7 @@ class FunctionOnScalarTest {
         for (int rep = 0; rep < reps; rep++) {
             Sim s = simulate(1000 + rep, 30, 0.0, 1.0);
             FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().fit(s.design, s.response);
-            if (fit.permutationTest("dose", 99, rep).pValue() <= 0.05) {
+            if (fit.test("dose", 99, rep).pValue() <= 0.05) {
                 rej++;
             }
         }
@@ -406,9 +408,12 @@ class FunctionOnScalarTest {
         for (int rep = 0; rep < 40; rep++) {
             Sim s = simulate(5000 + rep, 30, 0.9, 1.0);
             FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().fit(s.design, s.response);
-            FunctionOnScalarFit.PermutationTest t = fit.permutationTest("dose", 99, rep);
+            FunctionOnScalarFit.PermutationTest t = fit.test("dose", 99, rep);
             assertEquals(1, t.df1());
             assertEquals(26, t.df2());
+            io.densa.core.TestResult r = t; // the shared statistic-and-p-value view
+            assertEquals(t.fStatistic(), r.statistic(), 0.0);
+            assertTrue(r.method().contains("99 permutations"), r.method());
             if (t.pValue() <= 0.05) {
                 power++;
             }
@@ -417,7 +422,7 @@ class FunctionOnScalarTest {
         // a categorical term is tested jointly over its level columns
         Sim s = simulate(7, 40, 0.0, 1.0);
         assertEquals(2, FunctionOnScalarRegression.withDefaults().fit(s.design, s.response)
-                .permutationTest("group", 19, 1).df1());
+                .test("group", 19, 1).df1());
     }
 
     /**
@@ -442,7 +447,7 @@ class FunctionOnScalarTest {
             }
             Design d = Design.builder().numeric("u", u).numeric("v", v).build();
             FunctionOnScalarFit fit = FunctionOnScalarRegression.withDefaults().fit(d, DensitySet.of(two, c));
-            FunctionOnScalarFit.PermutationTest t = fit.permutationTest("u", 1999, rep);
+            FunctionOnScalarFit.PermutationTest t = fit.test("u", 1999, rep);
             double classical = 1 - new org.apache.commons.math3.distribution.FDistribution(1, n - 3)
                     .cumulativeProbability(t.fStatistic());
             assertEquals(classical, t.pValue(), 0.04, "replicate " + rep + ", F = " + t.fStatistic());
@@ -568,7 +573,7 @@ class FunctionOnScalarTest {
         // permutation test of a response that the model fits exactly: F = 0/0 must not give a p-value
         Sim exact = simulate(12, 20, 1.0, 0.0);
         FunctionOnScalarFit exactFit = m.fit(exact.design, exact.response);
-        e = assertThrows(IllegalArgumentException.class, () -> exactFit.permutationTest("dose", 99, 1));
+        e = assertThrows(IllegalArgumentException.class, () -> exactFit.test("dose", 99, 1));
         assertTrue(e.getMessage().matches("permutation test of 'dose': the full model fits the response exactly.*"),
                 e.getMessage());
         // design entries outside the matrix (column p of row 0 used to return row 1's intercept)

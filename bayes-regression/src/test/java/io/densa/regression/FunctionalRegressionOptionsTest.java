@@ -36,12 +36,12 @@ class FunctionalRegressionOptionsTest {
             FunctionalRegression b = base.withFolds(4).withSeed(9);
             assertEquals(4, a.folds());
             assertEquals(9L, a.seed());
-            ScalarOnFunctionFit fa = a.fitScalarResponse(preds, null, y);
-            ScalarOnFunctionFit fb = b.fitScalarResponse(preds, null, y);
+            ScalarOnFunctionFit fa = a.fit(preds, null, y);
+            ScalarOnFunctionFit fb = b.fit(preds, null, y);
             assertEquals(fb.chosen(), fa.chosen());
             assertArrayEquals(fb.fitted(), fa.fitted(), 0.0);
             assertEquals(fb.crossValidation(), fa.crossValidation());
-            ScalarOnFunctionFit other = base.withCrossValidation(4, 10).fitScalarResponse(preds, null, y);
+            ScalarOnFunctionFit other = base.withCrossValidation(4, 10).fit(preds, null, y);
             assertTrue(!other.crossValidation().equals(fa.crossValidation()), "seed has no effect");
             ProgressListener l = (t, d, tot) -> { };
             assertTrue(base.withProgressListener(l).withCrossValidation(3, 1).progressListener() == l);

@@ -98,7 +98,7 @@ class FuzzProperties {
         CHECK.run("componentClr", () -> f.componentClr(Math.max(0, m - 1), s.lower(), s.upper()));
         CHECK.run("modeOfVariation", () -> f.modeOfVariation(Math.max(0, m - 1), t));
         if (data.size() <= 8 && r.nextInt(4) == 0) {
-            CHECK.run("crossValidate", () -> Fpca.crossValidate(data, Math.max(1, m), frac, 2 + r.nextInt(3), 5L));
+            CHECK.run("crossValidate", () -> Fpca.chooseComponents(data, ComponentSelection.withDefaults().withMaxComponents(Math.max(1, m)).withFraction(frac).withCrossValidation(2 + r.nextInt(3), 5L)));
         }
     }
 
@@ -159,7 +159,7 @@ class FuzzProperties {
             CHECK.run("bootstrapBands", () -> fit.bootstrapBands(grid, 20, FuzzValues.probability(r), 3L), grid);
         }
         if (r.nextInt(3) == 0) {
-            CHECK.run("permutationTest", () -> fit.permutationTest("x1", 19, 4L));
+            CHECK.run("permutationTest", () -> fit.test("x1", 19, 4L));
         }
     }
 
@@ -185,7 +185,7 @@ class FuzzProperties {
         if (reg == null) {
             return;
         }
-        FunctionOnFunctionFit ff = CHECK.run("fitDensityResponse", () -> reg.fitDensityResponse(List.of(x), cov, y));
+        FunctionOnFunctionFit ff = CHECK.run("fitDensityResponse", () -> reg.fit(List.of(x), cov, y));
         if (ff != null) {
             CHECK.run("fof fitted", ff::fitted);
             CHECK.run("fof residualNorms", ff::residualNorms);
@@ -195,7 +195,7 @@ class FuzzProperties {
             CHECK.run("fof kernelCoefficients", () -> ff.kernelCoefficients(0));
             CHECK.run("fof predict", () -> ff.predict(List.of(x), cov));
         }
-        ScalarOnFunctionFit sf = CHECK.run("fitScalarResponse", () -> reg.fitScalarResponse(List.of(x), cov, scalar),
+        ScalarOnFunctionFit sf = CHECK.run("fitScalarResponse", () -> reg.fit(List.of(x), cov, scalar),
                 scalar);
         if (sf != null) {
             CHECK.run("sof fitted", sf::fitted);
@@ -228,7 +228,7 @@ class FuzzProperties {
             a = AnomalyScoring.withDefaults();
         }
         AnomalyScoring scoring = a;
-        AnomalyScoring.Calibrated cal = CHECK.run("calibrate", () -> scoring.calibrate(calibration, grid), grid);
+        AnomalyScoring.Calibrated cal = CHECK.run("calibrate", () -> scoring.fit(calibration, grid), grid);
         if (cal == null) {
             return;
         }

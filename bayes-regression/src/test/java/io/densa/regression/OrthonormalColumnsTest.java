@@ -12,8 +12,8 @@ import org.junit.jupiter.api.Test;
  * Rank check of the QR basis used by the permutation F-test: a rank-deficient weighted design must
  * be rejected naming the column (otherwise the test's degrees of freedom would be wrong), a full-rank
  * one gives orthonormal columns spanning the weighted design (QᵀQ = I and QQᵀ(√W X) = √W X, the
- * defining properties of a thin QR; Golub &amp; Van Loan (2013), Matrix Computations, 4th ed., §5.2
- * — from memory).
+ * definition of a thin QR, checked directly; Golub &amp; Van Loan (2013), Matrix Computations, 4th
+ * ed., §5.2).
  */
 class OrthonormalColumnsTest {
     private static final int N = 30;
@@ -42,7 +42,7 @@ class OrthonormalColumnsTest {
         }
         Design d = Design.builder().numeric("a", a).numeric("b", b).numeric("c", random(2)).build();
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-                () -> FunctionOnScalarFit.orthonormalColumns(d, ones()));
+                () -> FreedmanLaneTest.orthonormalColumns(d, ones()));
         assertTrue(e.getMessage().contains("column 'b'") && e.getMessage().contains("index 2"), e.getMessage());
     }
 
@@ -56,7 +56,7 @@ class OrthonormalColumnsTest {
         }
         Design d = Design.builder().numeric("x", random(3)).numeric("flag", flag).build();
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-                () -> FunctionOnScalarFit.orthonormalColumns(d, sw));
+                () -> FreedmanLaneTest.orthonormalColumns(d, sw));
         assertTrue(e.getMessage().contains("column 'flag'"), e.getMessage());
     }
 
@@ -68,7 +68,7 @@ class OrthonormalColumnsTest {
             sw[i] = 0.5 + Math.abs(sw[i]);
         }
         int p = d.columns();
-        double[] q = FunctionOnScalarFit.orthonormalColumns(d, sw);
+        double[] q = FreedmanLaneTest.orthonormalColumns(d, sw);
         assertEquals(N * p, q.length);
         double[] x = d.internal();
         for (int j = 0; j < p; j++) {

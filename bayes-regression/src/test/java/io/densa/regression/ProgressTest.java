@@ -79,8 +79,8 @@ class ProgressTest {
     void permutationTestReportsEveryPermutation() {
         FunctionOnScalarFit fit = fosFit();
         Recorder rec = new Recorder();
-        FunctionOnScalarFit.PermutationTest a = fit.permutationTest("dose", 99, 4L);
-        FunctionOnScalarFit.PermutationTest b = fit.permutationTest("dose", 99, 4L, rec);
+        FunctionOnScalarFit.PermutationTest a = fit.test("dose", 99, 4L);
+        FunctionOnScalarFit.PermutationTest b = fit.test("dose", 99, 4L, rec);
         rec.assertCompleteMonotone("permutation test", 99);
         assertEquals(a, b);
     }
@@ -89,8 +89,8 @@ class ProgressTest {
     void fpcaCrossValidationReportsEveryFold() {
         DensitySet data = DensitySet.of(space, TestData.gaussian(new Random(5), 60, space.dimension(), 1.0));
         Recorder rec = new Recorder();
-        Fpca.ComponentChoice a = Fpca.crossValidate(data, 5, 0.8, 6, 1L);
-        Fpca.ComponentChoice b = Fpca.crossValidate(data, 5, 0.8, 6, 1L, rec);
+        Fpca.ComponentChoice a = Fpca.chooseComponents(data, ComponentSelection.withDefaults().withMaxComponents(5).withFraction(0.8).withCrossValidation(6, 1L));
+        Fpca.ComponentChoice b = Fpca.chooseComponents(data, ComponentSelection.withDefaults().withMaxComponents(5).withFraction(0.8).withCrossValidation(6, 1L).withProgressListener(rec));
         rec.assertCompleteMonotone("cross-validation", 6);
         assertEquals(a, b);
         b.meanError()[0] = -1;
@@ -110,8 +110,8 @@ class ProgressTest {
         for (FunctionalRegression cfg : List.of(FunctionalRegression.truncation().withComponents(1, 6).withFolds(4),
                 FunctionalRegression.ridge().withFolds(4))) {
             Recorder rec = new Recorder();
-            ScalarOnFunctionFit a = cfg.fitScalarResponse(preds, null, y);
-            ScalarOnFunctionFit b = cfg.withProgressListener(rec).fitScalarResponse(preds, null, y);
+            ScalarOnFunctionFit a = cfg.fit(preds, null, y);
+            ScalarOnFunctionFit b = cfg.withProgressListener(rec).fit(preds, null, y);
             rec.assertCompleteMonotone("cross-validation", 4);
             assertEquals(a.chosen(), b.chosen());
             assertArrayEquals(a.fitted(), b.fitted(), 0.0);

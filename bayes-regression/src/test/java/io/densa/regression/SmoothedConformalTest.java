@@ -31,7 +31,7 @@ class SmoothedConformalTest {
             for (double[] row : c) {
                 row[0] = poisson2(rng);
             }
-            AnomalyScoring.Calibrated cal = AnomalyScoring.withDefaults().calibrate(DensitySet.of(SPACE, c), GRID);
+            AnomalyScoring.Calibrated cal = AnomalyScoring.withDefaults().fit(DensitySet.of(SPACE, c), GRID);
             double[] s = {poisson2(rng)};
             smooth[r] = cal.smoothedPValues(s, rng.nextLong())[0];
             plain[r] = cal.pValues(s)[0];
@@ -74,7 +74,7 @@ class SmoothedConformalTest {
     @Test
     void smoothedFormulaAndNoTiesAtTheFloor() {
         DensitySet cal = DensitySet.of(SPACE, new double[][] {{1}, {-2}, {3}, {4}});
-        AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults().calibrate(cal, GRID);
+        AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults().fit(cal, GRID);
         double[] s = {2.5, 5, 6, 7, 2};
         double[] plain = c.pValues(s);
         double[] smooth = c.smoothedPValues(s, 9);
@@ -96,12 +96,12 @@ class SmoothedConformalTest {
     void scoreUsesSmoothedPValuesAndRankingBreaksTiesByNorm() {
         DensitySet cal = DensitySet.of(SPACE, new double[][] {{1}, {-2}, {3}, {4}});
         DensitySet units = DensitySet.of(SPACE, new double[][] {{6}, {7}, {0.5}, {5}});
-        AnomalyScoring.Report plain = AnomalyScoring.withDefaults().calibrate(cal, GRID).score(units);
+        AnomalyScoring.Report plain = AnomalyScoring.withDefaults().fit(cal, GRID).score(units);
         // three units tie at the floor 1/5: ranked by norm 7, 6, 5, then the unit with p = 1
         assertArrayEquals(new int[] {1, 0, 3, 2}, plain.ranking());
-        AnomalyScoring.Report smooth = AnomalyScoring.withDefaults().withRandomisedTies(3).calibrate(cal, GRID)
+        AnomalyScoring.Report smooth = AnomalyScoring.withDefaults().withRandomisedTies(3).fit(cal, GRID)
                 .score(units);
-        double[] expected = AnomalyScoring.withDefaults().calibrate(cal, GRID).smoothedPValues(units.norms(), 3);
+        double[] expected = AnomalyScoring.withDefaults().fit(cal, GRID).smoothedPValues(units.norms(), 3);
         for (int i = 0; i < 4; i++) {
             assertEquals(expected[i], smooth.units().get(i).pValue(), 0.0);
         }

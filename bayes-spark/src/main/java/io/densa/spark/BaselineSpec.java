@@ -12,7 +12,7 @@ import java.util.Objects;
 
 /**
  * A fitted baseline for anomaly scoring — a function-on-function regression
- * ({@link FunctionalRegression#fitDensityResponse}) of a density response on density predictors and
+ * ({@link FunctionalRegression#fit(java.util.List, io.densa.regression.Design, io.densa.core.DensitySet)}) of a density response on density predictors and
  * numeric covariates, calibrated by {@link AnomalyScoring} on a separate calibration set — held as the
  * inputs it is fitted from (spaces, training and calibration coordinates and covariates, the
  * regression and scoring settings), to broadcast to executors. {@link #model()} fits and calibrates
@@ -160,12 +160,12 @@ public final class BaselineSpec implements Serializable {
             tx[j] = trainX[j][0];
             cx[j] = calX[j][0];
         }
-        FunctionOnFunctionFit fit = configuration().fitDensityResponse(predictorSets(tx, trainN), design(trainZ, trainN),
+        FunctionOnFunctionFit fit = configuration().fit(predictorSets(tx, trainN), design(trainZ, trainN),
                 DensitySet.ofRowMajor(response.space(), trainY[0], trainN, null));
         DensitySet residuals = fit.residuals(predictorSets(cx, calN), design(calZ, calN),
                 DensitySet.ofRowMajor(response.space(), calY[0], calN, null));
         AnomalyScoring.Calibrated c = AnomalyScoring.withDefaults().withFdr(fdr).withBandLevel(bandLevel)
-                .calibrate(residuals, grid);
+                .fit(residuals, grid);
         return new Model(fit, c, fdr);
     }
 

@@ -12,7 +12,7 @@ import java.util.Objects;
  * primitives to broadcast to Spark executors. The {@code with…} methods mirror the estimator's and
  * are validated by it at once; {@link #estimator()} builds the estimator once per JVM (a transient
  * lazy field) by applying the same methods in the same order to {@code
- * PenalizedLikelihoodEstimator.of(space)}. The estimator is deterministic and each unit's fit depends
+ * PenalizedLikelihoodEstimator.withDefaults(space)}. The estimator is deterministic and each unit's fit depends
  * only on its own counts, so an executor computes for a unit exactly what the driver computes.
  *
  * <p>Cross-validated smoothing is not offered: its folds depend on a unit's row in the batch. The
@@ -153,7 +153,7 @@ public final class EstimatorSpec implements Serializable {
     }
 
     /**
-     * The estimator, built once per JVM: {@code PenalizedLikelihoodEstimator.of(space)} with the
+     * The estimator, built once per JVM: {@code PenalizedLikelihoodEstimator.withDefaults(space)} with the
      * settings applied, fractional counts allowed (weighted events), no thread pool of its own.
      */
     public PenalizedLikelihoodEstimator estimator() {
@@ -171,7 +171,7 @@ public final class EstimatorSpec implements Serializable {
     }
 
     private PenalizedLikelihoodEstimator build() {
-        PenalizedLikelihoodEstimator e = PenalizedLikelihoodEstimator.of(space.space());
+        PenalizedLikelihoodEstimator e = PenalizedLikelihoodEstimator.withDefaults(space.space());
         if (penaltyOrder > 0) {
             e = e.withPenaltyOrder(penaltyOrder);
         }

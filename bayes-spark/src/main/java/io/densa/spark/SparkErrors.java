@@ -74,7 +74,7 @@ public final class SparkErrors {
                     if (i == 1) {
                         return new IllegalStateException(text, e);
                     }
-                    DensaException d = new DensaException(text, null);
+                    DensaException d = new DensaException(text, new RemoteFailure(text));
                     d.initCause(e);
                     return d;
                 }

@@ -2,6 +2,7 @@ package io.densa.spark;
 
 import io.densa.core.DensitySet;
 import io.densa.regression.Fpca;
+import io.densa.regression.Scores;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Iterator;
@@ -140,14 +141,14 @@ public final class SparkFpca {
                 rows.add(r);
             }
             int n = rows.size();
-            DMatrixRMaj z = f.scores(DensitySet.ofRowMajor(f.space(), Arrays.copyOf(c, n * k), n, null), m);
+            Scores z = f.scores(DensitySet.ofRowMajor(f.space(), Arrays.copyOf(c, n * k), n, null), m);
             for (int i = 0; i < n; i++) {
                 Row r = rows.get(i);
                 Object[] v = new Object[r.length() + 1];
                 for (int j = 0; j < r.length(); j++) {
                     v[j] = r.get(j);
                 }
-                v[r.length()] = Arrays.copyOfRange(z.data, i * m, i * m + m);
+                v[r.length()] = z.row(i);
                 ready.add(RowFactory.create(v));
             }
         }

@@ -8,6 +8,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
 import io.densa.regression.Fpca;
+import io.densa.regression.Scores;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
@@ -94,8 +95,8 @@ class SparkFpcaTest {
         FpcaSpec fit = SparkFpca.fit(frame(c, 3), "coordinates", SpaceSpec.of(SPACE));
         List<Row> rows = SparkErrors.run(() -> SparkFpca.scores(frame(c, 3), "coordinates", fit, 3, "scores")
                 .orderBy("id").collectAsList());
-        DMatrixRMaj z = fit.fpca().scores(DensitySet.of(SPACE, c), 3);
-        DMatrixRMaj zLocal = Fpca.fit(DensitySet.of(SPACE, c)).scores(DensitySet.of(SPACE, c), 3);
+        Scores z = fit.fpca().scores(DensitySet.of(SPACE, c), 3);
+        Scores zLocal = Fpca.fit(DensitySet.of(SPACE, c)).scores(DensitySet.of(SPACE, c), 3);
         for (int i = 0; i < c.length; i++) {
             double[] s = SparkRows.doubles(rows.get(i), 2);
             for (int j = 0; j < 3; j++) {

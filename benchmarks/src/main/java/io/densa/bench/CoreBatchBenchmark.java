@@ -59,7 +59,7 @@ public class CoreBatchBenchmark {
 
     @Setup
     public void setup() {
-        BayesSpace space = BayesSpace.splines(0, 1, 4, knots);
+        BayesSpace space = BayesSpace.cubicSplines(0, 1, knots);
         set = randomSet(space, BenchConfig.size(n, 20_000), 1);
         small = randomSet(space, BenchConfig.size(gramN, 300), 2);
     }

@@ -72,7 +72,7 @@ public class EstimationBenchmark {
 
     /** Flops and exp calls of one Newton iteration for one unit of this benchmark. */
     public static NewtonCost newtonCost() {
-        return PenalizedLikelihoodEstimator.of(benchmarkSpace()).newtonCost(dailyEdges());
+        return PenalizedLikelihoodEstimator.withDefaults(benchmarkSpace()).newtonCost(dailyEdges());
     }
 
     /** Seeded invented counts (see the class comment). */
@@ -120,9 +120,9 @@ public class EstimationBenchmark {
         space = benchmarkSpace();
         edges = dailyEdges();
         counts = simulate(n, 20261201L);
-        fixed = PenalizedLikelihoodEstimator.of(space).withSmoothing(FIXED_LAMBDA);
-        chosen = PenalizedLikelihoodEstimator.of(space);
-        spline = SmoothingSplineEstimator.of(space);
+        fixed = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(FIXED_LAMBDA);
+        chosen = PenalizedLikelihoodEstimator.withDefaults(space);
+        spline = SmoothingSplineEstimator.withDefaults(space);
     }
 
     /** Baseline: read every count once. */

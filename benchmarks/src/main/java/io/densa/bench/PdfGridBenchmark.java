@@ -59,7 +59,7 @@ public class PdfGridBenchmark {
 
     @Setup
     public void setup() {
-        space = BayesSpace.splines(0, 1, 4, knots);
+        space = BayesSpace.cubicSplines(0, 1, knots);
         int rows = BenchConfig.size(n, 2_000);
         set = "SMOOTH".equals(input) ? smoothSet(space, rows, 3) : CoreBatchBenchmark.randomSet(space, rows, 3);
         coords = set.coordinatesRowMajor();

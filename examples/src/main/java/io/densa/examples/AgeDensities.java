@@ -57,13 +57,13 @@ final class AgeDensities {
         for (int k = 0; k < top; k++) {
             big[k] = counts[order[k]];
         }
-        BatchEstimate est = PenalizedLikelihoodEstimator.of(space).fitAll(EDGES, big, null);
+        BatchEstimate est = PenalizedLikelihoodEstimator.withDefaults(space).fitAll(EDGES, big, null);
         double[] lambda = est.diagnostics().stream().mapToDouble(EstimationDiagnostics::smoothing).sorted().toArray();
         return lambda[lambda.length / 2];
     }
 
     static Estimates estimate(BayesSpace space, int[][] counts, String[] ids, double lambda) {
-        BatchEstimate est = PenalizedLikelihoodEstimator.of(space).withSmoothing(lambda).fitAll(EDGES, counts, ids);
+        BatchEstimate est = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(lambda).fitAll(EDGES, counts, ids);
         return Estimates.of(est);
     }
 }

@@ -73,7 +73,7 @@ public final class BackendExample {
             }
         }
         double lambda = AgeDensities.commonSmoothing(space, bySeason[0]);
-        PenalizedLikelihoodEstimator estimator = PenalizedLikelihoodEstimator.of(space).withSmoothing(lambda);
+        PenalizedLikelihoodEstimator estimator = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(lambda);
         DensitySet[] seasons = new DensitySet[SEASONS - 1];
         for (int s = 0; s < SEASONS - 1; s++) {
             seasons[s] = estimator.fitAll(AgeDensities.EDGES, bySeason[s], ids).densities();
@@ -83,7 +83,7 @@ public final class BackendExample {
         Design two = Design.builder().numeric("urbanity", twice(sc.urbanity()))
                 .numeric("older_share", twice(sc.olderShare())).build();
         FunctionOnFunctionFit fit = FunctionalRegression.truncation().withComponents(1, 5).withSeed(seed)
-                .fitDensityResponse(List.of(seasons[0].concat(seasons[1])), two, seasons[1].concat(seasons[2]));
+                .fit(List.of(seasons[0].concat(seasons[1])), two, seasons[1].concat(seasons[2]));
         double[][] totals = new double[SEASONS][n];
         for (int s = 0; s < SEASONS; s++) {
             for (int i = 0; i < n; i++) {
@@ -93,7 +93,7 @@ public final class BackendExample {
         DensitySet calibration = standardise(fit.residuals(List.of(seasons[2]), one, seasons[3]), totals[2], totals[3])
                 .concat(standardise(fit.residuals(List.of(seasons[3]), one, seasons[4]), totals[3], totals[4]));
         AnomalyScoring.Calibrated calibrated = AnomalyScoring.withDefaults().withFdr(0.2)
-                .calibrate(calibration, grid());
+                .fit(calibration, grid());
         Map<String, Object> m = new LinkedHashMap<>();
         m.put("estimator", estimator);
         m.put("fit", fit);

@@ -23,7 +23,7 @@ final class SampleDensities {
         // Tolerance 1e-10 instead of the default 1e-12: with this penalty a few fits stall at Newton
         // decrements near 1e-9 (rounding level for a log-likelihood of a few hundred) and would be
         // reported as not converged although the estimate no longer moves.
-        PenalizedLikelihoodEstimator base = PenalizedLikelihoodEstimator.of(space).withPenaltyOrder(3)
+        PenalizedLikelihoodEstimator base = PenalizedLikelihoodEstimator.withDefaults(space).withPenaltyOrder(3)
                 .withTolerance(1e-10);
         BatchEstimate first = base.fitAllSamples(values, null, ids);
         double[] lambda = first.diagnostics().stream().mapToDouble(EstimationDiagnostics::smoothing).sorted()

@@ -6,6 +6,7 @@ import io.densa.regression.AnomalyScoring;
 import io.densa.regression.Design;
 import io.densa.regression.ExcessCounts;
 import io.densa.regression.Fpca;
+import io.densa.regression.Scores;
 import io.densa.regression.FunctionOnFunctionFit;
 import io.densa.regression.FunctionalRegression;
 import io.densa.spatial.autocorrelation.AutocorrelationOptions;
@@ -49,7 +50,6 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
-import org.ejml.data.DMatrixRMaj;
 import org.locationtech.jts.geom.Envelope;
 import org.locationtech.jts.geom.Polygon;
 
@@ -329,7 +329,7 @@ final class Study1 {
         }
         Design train = covariates(repeat(sc.urbanity(), trainTransitions), repeat(sc.olderShare(), trainTransitions));
         FunctionOnFunctionFit fit = FunctionalRegression.truncation().withComponents(1, 8).withSeed(run.options.seed())
-                .fitDensityResponse(List.of(predictors, predictors2), train, responses);
+                .fit(List.of(predictors, predictors2), train, responses);
         int m = fit.chosen().predictorComponents();
         double[] trainNorm = fit.residualNorms();
         double[] inverseSize = new double[trainNorm.length];
@@ -404,7 +404,7 @@ final class Study1 {
         AgeScenario sc = run.sc;
         int n = run.n;
         AnomalyScoring.Calibrated scorer = AnomalyScoring.withDefaults().withFdr(FDR)
-                .withRandomisedTies(run.options.seed()).calibrate(b.standardisedCalibration(), AGE_MID);
+                .withRandomisedTies(run.options.seed()).fit(b.standardisedCalibration(), AGE_MID);
         AnomalyScoring.Report scores = scorer.score(b.standardisedLatest());
         double[] p = new double[n];
         double[] q = new double[n];
@@ -788,7 +788,7 @@ final class Study1 {
 
     static void residualFpca(Run run, Baseline b) {
         Fpca pca = Fpca.fit(b.standardisedLatest());
-        DMatrixRMaj scores = pca.scores(b.standardisedLatest(), 2);
+        Scores scores = pca.scores(b.standardisedLatest(), 2);
         double[] ev = pca.explainedVariance();
         run.progress.line(String.format(Locale.ROOT, "FPCA of the residuals: first two components explain %.1f %% and "
                 + "%.1f %%", 100 * ev[0], 100 * ev[1]));
@@ -800,8 +800,8 @@ final class Study1 {
         run.report.figure("fig_fpca_modes.png", Figures.fpcaModes("Modes of variation of the residual densities",
                 pca, 2, 2, Axis.linear("age", "years"), Axis.linear("clr of standardised residual", "log-ratio")),
                 "Residual mean (grey), ⊕ two standard deviations along each component (solid) and ⊖ two (dashed).");
-        double[] pc1 = column(scores, 0);
-        double[] pc2 = column(scores, 1);
+        double[] pc1 = scores.column(0);
+        double[] pc2 = scores.column(1);
         for (int j = 0; j < 2; j++) {
             double[] v = j == 0 ? pc1 : pc2;
             double[] abs = new double[v.length];
@@ -1015,14 +1015,6 @@ final class Study1 {
         double[] out = new double[v.length];
         for (int i = 0; i < v.length; i++) {
             out[i] = v[i] * v[i];
-        }
-        return out;
-    }
-
-    static double[] column(DMatrixRMaj m, int j) {
-        double[] out = new double[m.numRows];
-        for (int i = 0; i < out.length; i++) {
-            out[i] = m.get(i, j);
         }
         return out;
     }

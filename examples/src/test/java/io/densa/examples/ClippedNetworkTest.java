@@ -322,7 +322,7 @@ class ClippedNetworkTest {
     /** The ten networks with every default (computed once, shared by the tests). */
     static synchronized Outcome[] withDefaults() {
         if (defaultsCache == null) {
-            defaultsCache = runAll(PenalizedLikelihoodEstimator.of(space()), true, true);
+            defaultsCache = runAll(PenalizedLikelihoodEstimator.withDefaults(space()), true, true);
         }
         return defaultsCache;
     }
@@ -349,7 +349,7 @@ class ClippedNetworkTest {
      */
     @Test
     void plainPenalisedLikelihoodReproducesTheFailure() {
-        Outcome[] plain = runAll(PenalizedLikelihoodEstimator.of(space()).withReferencePrior(0), false, false);
+        Outcome[] plain = runAll(PenalizedLikelihoodEstimator.withDefaults(space()).withReferencePrior(0), false, false);
         Outcome[] defaults = withDefaults();
         int diving = 0;
         double worst = 0;
@@ -373,7 +373,7 @@ class ClippedNetworkTest {
     /** Every default, the detection limits not declared (the data read as they are). */
     static synchronized Outcome[] undeclared() {
         if (undeclaredCache == null) {
-            undeclaredCache = runAll(PenalizedLikelihoodEstimator.of(space()), false, true);
+            undeclaredCache = runAll(PenalizedLikelihoodEstimator.withDefaults(space()), false, true);
         }
         return undeclaredCache;
     }

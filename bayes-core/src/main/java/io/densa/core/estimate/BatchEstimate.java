@@ -17,6 +17,20 @@ public record BatchEstimate(DensitySet densities, List<EstimationDiagnostics> di
     }
 
     /** Number of units. */
+    /** The count, the space and the first few units' diagnostics. */
+    @Override
+    public String toString() {
+        StringBuilder sb = new StringBuilder("BatchEstimate[n=").append(size()).append(", ")
+                .append(densities.space()).append(']');
+        for (int i = 0; i < Math.min(3, size()); i++) {
+            sb.append("\n  ").append(diagnostics.get(i));
+        }
+        if (size() > 3) {
+            sb.append("\n  … (").append(size() - 3).append(" more units)");
+        }
+        return sb.toString();
+    }
+
     public int size() {
         return densities.size();
     }

@@ -1,5 +1,6 @@
 package io.densa.core.estimate;
 
+import io.densa.core.NumericalDiagnostics;
 import java.util.Arrays;
 import java.util.Objects;
 import org.ejml.data.DMatrixRMaj;
@@ -74,7 +75,7 @@ import org.ejml.data.DMatrixRMaj;
 public record EstimationDiagnostics(String id, Status status, String reason, double smoothing,
         boolean smoothingChosen, SmoothingCriterion criterion, double criterionValue,
         double effectiveDegreesOfFreedom, double logLikelihood, double total, int iterations,
-        double[] covariance, double estimationVariance, double extrapolationShare) {
+        double[] covariance, double estimationVariance, double extrapolationShare) implements NumericalDiagnostics {
 
     /**
      * Threshold of {@link #extrapolated()}: a unit is flagged when more than this share of its

@@ -3,6 +3,7 @@ package io.densa.core.estimate;
 import io.densa.core.Basis;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
+import io.densa.core.SolveDiagnostics;
 import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.RawBasis;
 import org.ejml.data.DMatrixRMaj;
@@ -159,32 +160,6 @@ final class EstimationSupport {
         }
     }
 
-    /** Returns T M T' for a symmetric K × K raw matrix M (T lower triangular). */
-    static double[] congruenceLower(double[] t, double[] m, int k) {
-        double[] tmp = new double[k * k];
-        for (int i = 0; i < k; i++) {
-            for (int j = 0; j < k; j++) {
-                double s = 0;
-                for (int p = 0; p <= i; p++) {
-                    s += t[i * k + p] * m[p * k + j];
-                }
-                tmp[i * k + j] = s;
-            }
-        }
-        double[] out = new double[k * k];
-        for (int i = 0; i < k; i++) {
-            for (int j = 0; j <= i; j++) {
-                double s = 0;
-                for (int p = 0; p <= j; p++) {
-                    s += tmp[i * k + p] * t[j * k + p];
-                }
-                out[i * k + j] = s;
-                out[j * k + i] = s;
-            }
-        }
-        return out;
-    }
-
     /** The diagonal covariance v·I, K × K row-major. */
     static double[] diagonalCovariance(int k, double v) {
         double[] c = new double[k * k];
@@ -215,7 +190,8 @@ final class EstimationSupport {
                 DecompositionFactory_DDRM.eig(k, true, true);
         if (!eig.decompose(m)) {
             if (negDiag) {
-                throw new DensaException("covariance eigen-decomposition failed (" + k + " x " + k + ")", null);
+                throw new DensaException("covariance eigen-decomposition failed (" + k + " x " + k + ")",
+                        new SolveDiagnostics("eigen-decomposition of a covariance", k, Double.NaN));
             }
             return false;
         }

@@ -2,6 +2,7 @@ package io.densa.core.estimate;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
+import io.densa.core.SolveDiagnostics;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
 import io.densa.core.Reference;
@@ -10,10 +11,8 @@ import io.densa.core.internal.Kernels;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.RawBasis;
 import io.densa.core.internal.RoughnessPenalty;
-import io.densa.core.internal.Seeds;
 import java.util.Arrays;
 import java.util.Objects;
-import java.util.SplittableRandom;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DDRM;
 
@@ -154,7 +153,7 @@ import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DD
  * parallel on the common pool (fixed blocks, each unit independent), bit-identical to the serial
  * path.
  */
-public final class PenalizedLikelihoodEstimator {
+public final class PenalizedLikelihoodEstimator implements CountEstimator {
     private static final int UNITS_PER_BLOCK = 32;
     private static final int GOLDEN_STEPS = 7;
     private static final double SEARCH_TOLERANCE = 1e-9;
@@ -299,7 +298,7 @@ public final class PenalizedLikelihoodEstimator {
      *
      * @param space the space the densities belong to
      */
-    public static PenalizedLikelihoodEstimator of(BayesSpace space) {
+    public static PenalizedLikelihoodEstimator withDefaults(BayesSpace space) {
         Objects.requireNonNull(space, "space");
         int order = Math.min(2, RoughnessPenalty.maxOrder(EstimationSupport.rawBasis(space.basis())));
         return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.MARGINAL_LIKELIHOOD, 5,
@@ -529,13 +528,14 @@ public final class PenalizedLikelihoodEstimator {
     }
 
     /** The space. */
+    @Override
     public BayesSpace space() {
         return space;
     }
 
     /** The penalty matrix Ω in the space's coordinates (c'Ωc = roughness of the clr), K × K. */
     public DMatrixRMaj penalty() {
-        return new DMatrixRMaj(k, k, true, EstimationSupport.congruenceLower(t, rawPenalty, k));
+        return new DMatrixRMaj(k, k, true, RoughnessPenalty.inCoordinates(t, rawPenalty, k));
     }
 
     /**
@@ -567,26 +567,6 @@ public final class PenalizedLikelihoodEstimator {
     // ---------------------------------------------------------------- binned counts
 
     /**
-     * Fits one unit of whole-number counts.
-     *
-     * @param edges  D + 1 strictly increasing bin edges inside the domain (not modified)
-     * @param counts D counts ≥ 0 (not modified)
-     * @throws IllegalArgumentException on bad edges or counts (naming the bin), or a zero total
-     *                                  under {@link ZeroTotalPolicy#REJECT}
-     */
-    public UnitEstimate fit(double[] edges, int[] counts) {
-        return fitAll(edges, new int[][] {Objects.requireNonNull(counts, "counts")}, null).unit(0);
-    }
-
-    /**
-     * Fits one unit of counts given as doubles (whole numbers unless
-     * {@link #withFractionalCounts} allows weights).
-     */
-    public UnitEstimate fit(double[] edges, double[] counts) {
-        return fitAll(edges, new double[][] {Objects.requireNonNull(counts, "counts")}, null).unit(0);
-    }
-
-    /**
      * Fits many units sharing bin edges.
      *
      * @param counts n rows of D counts (not modified)
@@ -594,6 +574,7 @@ public final class PenalizedLikelihoodEstimator {
      * @return the densities (ids kept) and per-unit diagnostics, in input order
      * @throws IllegalArgumentException naming the unit id and bin of the first bad count
      */
+    @Override
     public BatchEstimate fitAll(double[] edges, int[][] counts, String[] ids) {
         Objects.requireNonNull(counts, "counts");
         double[] e = EstimationSupport.checkEdges(space, edges);
@@ -633,6 +614,7 @@ public final class PenalizedLikelihoodEstimator {
     }
 
     /** Fits many units of counts given as doubles; see {@link #fitAll(double[], int[][], String[])}. */
+    @Override
     public BatchEstimate fitAll(double[] edges, double[][] counts, String[] ids) {
         Objects.requireNonNull(counts, "counts");
         double[] e = EstimationSupport.checkEdges(space, edges);
@@ -677,9 +659,8 @@ public final class PenalizedLikelihoodEstimator {
         ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
-            eng.coordinateMap = u;
-            eng.startMap = startMap;
-            eng.startConst = startConst;
+            eng.setCoordinateMap(u);
+            eng.setStartMap(startMap, startConst);
             double[] row = new double[lay.bins];
             int i1 = Math.min(n, (blk + 1) * UNITS_PER_BLOCK);
             for (int i = blk * UNITS_PER_BLOCK; i < i1; i++) {
@@ -689,10 +670,7 @@ public final class PenalizedLikelihoodEstimator {
                     diag[i] = emptyUnit(id);
                     continue;
                 }
-                eng.counts = row;
-                eng.total = totals[i];
-                eng.total2 = totals[i];
-                Arrays.fill(eng.linear, 0.0);
+                eng.useCounts(row, totals[i]);
                 diag[i] = fitUnit(eng, scale, id, i, out, null);
             }
             done.advance(i1 - blk * UNITS_PER_BLOCK);
@@ -788,7 +766,7 @@ public final class PenalizedLikelihoodEstimator {
         ProgressCounter done = new ProgressCounter(progress, PROGRESS_TASK, n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(domain, rawPenalty, prior);
-            eng.coordinateMap = u;
+            eng.setCoordinateMap(u);
             double[] scratch = new double[basis.scratchSize()];
             int i1 = Math.min(n, (blk + 1) * UNITS_PER_BLOCK);
             for (int i = blk * UNITS_PER_BLOCK; i < i1; i++) {
@@ -800,14 +778,7 @@ public final class PenalizedLikelihoodEstimator {
                 double[] v = values[i];
                 double[] w = weights == null ? null : weights[i];
                 SampleData sd = new SampleData(v, w, basis, width, k, scratch);
-                eng.counts = null;
-                eng.total = totals[i];
-                eng.total2 = totals2[i];
-                System.arraycopy(sd.linear, 0, eng.linear, 0, k + 1);
-                eng.sampleFirst = sd.first;
-                eng.sampleVals = sd.vals;
-                eng.sampleWeights = sd.w;
-                eng.sampleWidth = sd.width;
+                eng.useSample(sd.linear, sd.first, sd.vals, sd.w, sd.width, totals[i], totals2[i]);
                 diag[i] = fitUnit(eng, domainScale, id, i, out, sd);
             }
             done.advance(i1 - blk * UNITS_PER_BLOCK);
@@ -817,7 +788,7 @@ public final class PenalizedLikelihoodEstimator {
     }
 
     /** Per-observation local basis values of one sample and its sufficient statistic. */
-    private static final class SampleData {
+    static final class SampleData {
         final int n;
         final int[] first;
         final double[] vals;
@@ -885,13 +856,11 @@ public final class PenalizedLikelihoodEstimator {
     /** Scale s with λ = N s 10^g: tr(F₁) / tr(P), F₁ the per-event information at the reference. */
     private double scale(BinLayout lay, boolean countsMode) {
         PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
-        eng.counts = countsMode ? new double[lay.bins] : null;
-        eng.total = 1.0;
-        eng.total2 = 1.0;
-        Arrays.fill(eng.beta, 0.0);
-        eng.evaluate(eng.beta, 0.0);
+        eng.restoreData(countsMode ? new double[lay.bins] : null, 1.0, 1.0, new double[k + 1]);
+        eng.clearCoefficients();
+        eng.evaluate(0.0);
         eng.fisherInformation();
-        double tf = EstimationSupport.trace(eng.fisher, k);
+        double tf = eng.fisherTrace();
         double tp = EstimationSupport.trace(rawPenalty, k);
         return tf > 0 && tp > 0 ? tf / tp : 1.0;
     }
@@ -956,7 +925,7 @@ public final class PenalizedLikelihoodEstimator {
             SampleData sample) {
         eng.startFromCounts();
         boolean choose = Double.isNaN(fixedLambda);
-        Folds cv = criterion == SmoothingCriterion.CROSS_VALIDATION ? new Folds(eng, sample, folds, seed, index) : null;
+        CrossValidationFolds cv = criterion == SmoothingCriterion.CROSS_VALIDATION ? new CrossValidationFolds(eng, sample, folds, seed, index, k, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE)) : null;
         double lambda;
         if (!choose) {
             lambda = fixedLambda;
@@ -969,14 +938,14 @@ public final class PenalizedLikelihoodEstimator {
             double cAbove = Double.POSITIVE_INFINITY, cBelow = Double.POSITIVE_INFINITY;
             for (int s = 0; s <= steps && rising < 2; s++) {
                 double g = gridHi - s * gridStep;
-                double c = criterionAt(eng, lambdaAt(eng.total, scale, g), cv);
+                double c = criterionAt(eng, lambdaAt(eng.total(), scale, g), cv);
                 if (c < bestC) {
                     bestC = c;
                     bestG = g;
                     rising = 0;
                     cAbove = s > 0 ? prev : Double.POSITIVE_INFINITY;
                     cBelow = Double.POSITIVE_INFINITY;
-                    System.arraycopy(eng.beta, 0, bestBeta, 0, k + 1);
+                    eng.copyCoefficientsTo(bestBeta);
                 } else if (bestC < Double.POSITIVE_INFINITY) {
                     if (rising == 0) {
                         cBelow = c;
@@ -1024,8 +993,8 @@ public final class PenalizedLikelihoodEstimator {
                     if (Math.abs(x - x1) < 1e-3 * gridStep) {
                         break;
                     }
-                    System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-                    double c = criterionAt(eng, lambdaAt(eng.total, scale, x), cv);
+                    eng.setCoefficients(bestBeta);
+                    double c = criterionAt(eng, lambdaAt(eng.total(), scale, x), cv);
                     if (m == 3) {
                         gs[3] = x;
                         cs[3] = c;
@@ -1044,21 +1013,21 @@ public final class PenalizedLikelihoodEstimator {
                     if (c < bestC) {
                         bestC = c;
                         bestG = x;
-                        System.arraycopy(eng.beta, 0, bestBeta, 0, k + 1);
+                        eng.copyCoefficientsTo(bestBeta);
                     }
                 }
-                lambda = lambdaAt(eng.total, scale, bestG);
-                System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
+                lambda = lambdaAt(eng.total(), scale, bestG);
+                eng.setCoefficients(bestBeta);
             } else {
                 lambda = golden(eng, scale, cv, bestG, bestC, bestBeta);
             }
         }
         boolean ok = eng.solve(lambda, maxIterations, tolerance);
-        String reason = ok ? "" : eng.failure;
-        int iterations = eng.iterations;
-        double loglik = eng.loglik;
+        String reason = ok ? "" : eng.failure();
+        int iterations = eng.iterations();
+        double loglik = eng.logLikelihood();
         double[] cov = new double[k * k];
-        eng.evaluate(eng.beta, lambda);
+        eng.evaluate(lambda);
         eng.fisherInformation();
         double edf = eng.sandwich(lambda, u, cov, true);
         if (Double.isNaN(edf) && prior != null) {
@@ -1066,8 +1035,9 @@ public final class PenalizedLikelihoodEstimator {
             // (1e167), where rounding of 2λΩ swamps the prior in Ω's null space
             throw new DensaException("unit " + id + ": penalised information F + 2 lambda Omega + prior is"
                     + " numerically singular at lambda = " + lambda + " (lambda too large for double precision"
-                    + " against the information of " + eng.total + " events; use a smaller lambda)"
-                    + (reason.isEmpty() ? "" : "; " + reason), null);
+                    + " against the information of " + eng.total() + " events; use a smaller lambda)"
+                    + (reason.isEmpty() ? "" : "; " + reason),
+                    new SolveDiagnostics("penalised information F + 2 lambda Omega + prior", k, 0.0));
         }
         if (Double.isNaN(edf)) {
             // without the reference prior: report the numbers the default prior would give, and say so
@@ -1079,7 +1049,8 @@ public final class PenalizedLikelihoodEstimator {
             edf = eng.sandwich(lambda, u, cov, true, unitPrior);
             if (Double.isNaN(edf)) {
                 throw new DensaException("unit " + id + ": penalised information is singular even with the"
-                        + " reference prior at lambda = " + lambda + " (" + reason + ")", null);
+                        + " reference prior at lambda = " + lambda + " (" + reason + ")",
+                        new SolveDiagnostics("penalised information F + 2 lambda Omega + prior", k, 0.0));
             }
         }
         double crit = criterionValue(eng, lambda, edf, loglik, cv);
@@ -1097,39 +1068,45 @@ public final class PenalizedLikelihoodEstimator {
                         + " or more events");
             }
             throw new DensaException("unit " + id + ": the fit did not converge and " + criterion
-                    + " cannot be evaluated at lambda = " + lambda + " (" + reason + ")", null);
+                    + " cannot be evaluated at lambda = " + lambda + " (" + reason + ")",
+                    new EstimationDiagnostics(id, EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose,
+                            criterion, crit, edf, loglik, eng.total(), iterations, cov, Double.NaN, Double.NaN));
         }
         if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD) {
             addSmoothingUncertainty(eng, lambda, crit, cv, cov);
         }
         EstimationSupport.projectPsd(cov, k);
         edf = Math.max(0.0, edf); // tr(J⁻¹F) ≥ 0; rounding gives −1e-22 when F vanishes
-        EstimationSupport.toCoordinates(u, k, eng.beta, out, index * k);
+        eng.coordinatesInto(u, out, index * k);
         for (int i = 0; i < k; i++) {
             if (!Double.isFinite(out[index * k + i])) {
-                throw new DensaException("unit " + id + ": estimate is not finite (" + reason + ")", null);
+                throw new DensaException("unit " + id + ": estimate is not finite (" + reason + ")",
+                        new EstimationDiagnostics(id, EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda,
+                                choose, reported, crit, edf, loglik, eng.total(), iterations, cov, Double.NaN, Double.NaN));
             }
         }
         double normSq = 0;
         for (int i = 0; i < k; i++) {
             normSq += out[index * k + i] * out[index * k + i];
         }
-        double share = eng.counts != null ? countsShare(eng, normSq) : sampleShare(sample, eng.beta, normSq);
+        double share = eng.hasCounts() ? countsShare(eng, normSq) : sampleShare(sample, eng.coefficients(), normSq);
         return new EstimationDiagnostics(id, ok ? EstimationDiagnostics.Status.CONVERGED
                 : EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose, reported, crit, edf, loglik,
-                eng.total, iterations, cov, EstimationSupport.trace(cov, k), share);
+                eng.total(), iterations, cov, EstimationSupport.trace(cov, k), share);
     }
 
     /** Extrapolation share of a counts unit: the domain below its first and above its last bin with events. */
     private double countsShare(PenalizedNewton eng, double normSq) {
-        int first = 0, last = eng.lay.bins - 1;
-        while (first < last && !(eng.counts[first] > 0)) {
+        double[] counts = eng.counts();
+        int first = 0, last = eng.bins().bins - 1;
+        while (first < last && !(counts[first] > 0)) {
             first++;
         }
-        while (last > first && !(eng.counts[last] > 0)) {
+        while (last > first && !(counts[last] > 0)) {
             last--;
         }
-        return EstimationSupport.extrapolationShare(domain, eng.lay, first, last, eng.beta, normSq, eng.total);
+        return EstimationSupport.extrapolationShare(domain, eng.bins(), first, last, eng.coefficients(), normSq,
+                eng.total());
     }
 
     /** Extrapolation share of a sample: the domain below its smallest and above its largest value. */
@@ -1165,10 +1142,10 @@ public final class PenalizedLikelihoodEstimator {
                 }
                 break;
             case AICC:
-                return "AICc is undefined with N = " + eng.total + " <= edf + 1 = " + (edf + 1)
+                return "AICc is undefined with N = " + eng.total() + " <= edf + 1 = " + (edf + 1)
                         + " at lambda = " + lambda + " (it needs more than edf + 1 events)";
             case GCV:
-                return "GCV is undefined with edf = " + edf + " >= number of bins " + eng.lay.bins
+                return "GCV is undefined with edf = " + edf + " >= number of bins " + eng.bins().bins
                         + " at lambda = " + lambda;
             default:
                 break;
@@ -1184,27 +1161,29 @@ public final class PenalizedLikelihoodEstimator {
      * model selection for general smooth models, JASA 111, §3; from memory). Needs the Cholesky
      * factor of J in the engine (left by the last sandwich); restores the engine state.
      */
-    private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, Folds cv, double[] cov) {
+    private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, CrossValidationFolds cv,
+            double[] cov) {
         double[] dBeta = new double[k + 1];
         double[] pb = new double[k];
+        double[] beta = eng.coefficients();
         for (int i = 0; i < k; i++) {
             double r = 0;
             for (int j = 0; j < k; j++) {
-                r += rawPenalty[i * k + j] * eng.beta[j];
+                r += rawPenalty[i * k + j] * beta[j];
             }
             pb[i] = -2 * lambda * r;
         }
         System.arraycopy(pb, 0, dBeta, 0, k);
-        Cholesky.solve(eng.solveA, k, k, dBeta, 0);
+        eng.solveWithInformationFactor(dBeta);
         double[] dc = new double[k];
         EstimationSupport.toCoordinates(u, k, dBeta, dc, 0);
-        double[] saved = eng.beta.clone();
+        double[] saved = eng.coefficients();
         double h = SMOOTHING_STEP;
         double up = criterionAt(eng, lambda * Math.pow(10, h), cv);
-        System.arraycopy(saved, 0, eng.beta, 0, k + 1);
+        eng.setCoefficients(saved);
         double down = criterionAt(eng, lambda * Math.pow(10, -h), cv);
-        System.arraycopy(saved, 0, eng.beta, 0, k + 1);
-        eng.evaluate(eng.beta, lambda);
+        eng.setCoefficients(saved);
+        eng.evaluate(lambda);
         double curvG = (up - 2 * crit + down) / (h * h);
         if (!(curvG > 0) || !Double.isFinite(curvG)) {
             return;
@@ -1219,30 +1198,30 @@ public final class PenalizedLikelihoodEstimator {
     }
 
     /** Golden-section refinement of log10 λ on [bestG − step, bestG + step] (grid ends or flat spots). */
-    private double golden(PenalizedNewton eng, double scale, Folds cv, double bestG, double bestC, double[] bestBeta) {
+    private double golden(PenalizedNewton eng, double scale, CrossValidationFolds cv, double bestG, double bestC, double[] bestBeta) {
         // golden-section refinement on [bestG − step, bestG + step]
         double lo = Math.max(gridLo, bestG - gridStep), hi = Math.min(gridHi, bestG + gridStep);
         double ratio = 0.5 * (Math.sqrt(5) - 1);
         double x1 = hi - ratio * (hi - lo), x2 = lo + ratio * (hi - lo);
-        System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-        double f1 = criterionAt(eng, lambdaAt(eng.total, scale, x1), cv);
-        System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-        double f2 = criterionAt(eng, lambdaAt(eng.total, scale, x2), cv);
+        eng.setCoefficients(bestBeta);
+        double f1 = criterionAt(eng, lambdaAt(eng.total(), scale, x1), cv);
+        eng.setCoefficients(bestBeta);
+        double f2 = criterionAt(eng, lambdaAt(eng.total(), scale, x2), cv);
         for (int it = 0; it < GOLDEN_STEPS; it++) {
             if (f1 <= f2) {
                 hi = x2;
                 x2 = x1;
                 f2 = f1;
                 x1 = hi - ratio * (hi - lo);
-                System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-                f1 = criterionAt(eng, lambdaAt(eng.total, scale, x1), cv);
+                eng.setCoefficients(bestBeta);
+                f1 = criterionAt(eng, lambdaAt(eng.total(), scale, x1), cv);
             } else {
                 lo = x1;
                 x1 = x2;
                 f1 = f2;
                 x2 = lo + ratio * (hi - lo);
-                System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-                f2 = criterionAt(eng, lambdaAt(eng.total, scale, x2), cv);
+                eng.setCoefficients(bestBeta);
+                f2 = criterionAt(eng, lambdaAt(eng.total(), scale, x2), cv);
             }
         }
         double gBest = bestG;
@@ -1254,16 +1233,16 @@ public final class PenalizedLikelihoodEstimator {
         if (f2 < cBest) {
             gBest = x2;
         }
-        System.arraycopy(bestBeta, 0, eng.beta, 0, k + 1);
-        return lambdaAt(eng.total, scale, gBest);
+        eng.setCoefficients(bestBeta);
+        return lambdaAt(eng.total(), scale, gBest);
     }
 
     /** Fits at λ from the current beta and returns the criterion (+∞ on failure). */
-    private double criterionAt(PenalizedNewton eng, double lambda, Folds cv) {
+    private double criterionAt(PenalizedNewton eng, double lambda, CrossValidationFolds cv) {
         if (!eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE))) {
             return Double.POSITIVE_INFINITY;
         }
-        double loglik = eng.loglik;
+        double loglik = eng.logLikelihood();
         double edf = Double.NaN;
         if (criterion != SmoothingCriterion.CROSS_VALIDATION) {
             eng.fisherInformation();
@@ -1277,43 +1256,43 @@ public final class PenalizedLikelihoodEstimator {
     }
 
     /** The criterion at the fitted beta (eng arrays must hold beta's evaluation for GCV). */
-    private double criterionValue(PenalizedNewton eng, double lambda, double edf, double loglik, Folds cv) {
+    private double criterionValue(PenalizedNewton eng, double lambda, double edf, double loglik, CrossValidationFolds cv) {
         switch (criterion) {
             case AIC:
                 return -2 * loglik + 2 * edf;
             case MARGINAL_LIKELIHOOD: {
-                double ld = eng.logDetJ;
+                double ld = eng.logDetJ();
                 if (Double.isNaN(ld)) {
                     return Double.POSITIVE_INFINITY;
                 }
                 if (prior != null) {
                     // proper prior: defined at every λ ≥ 0
                     double lp = logDetPrior(lambda);
-                    return Double.isNaN(lp) ? Double.POSITIVE_INFINITY : -2 * loglik + 2 * lambda * eng.penalty(eng.beta)
-                            + 2 * eng.priorPenalty(eng.beta) + ld - lp;
+                    return Double.isNaN(lp) ? Double.POSITIVE_INFINITY : -2 * loglik + 2 * lambda * eng.penalty()
+                            + 2 * eng.priorPenalty() + ld - lp;
                 }
                 if (!(lambda > 0)) {
                     return Double.POSITIVE_INFINITY; // improper prior without normalising constant at λ = 0
                 }
-                return -2 * loglik + 2 * lambda * eng.penalty(eng.beta) + ld - penaltyRank * Math.log(2 * lambda);
+                return -2 * loglik + 2 * lambda * eng.penalty() + ld - penaltyRank * Math.log(2 * lambda);
             }
             case AICC: {
-                double nEff = eng.total;
+                double nEff = eng.total();
                 return nEff > edf + 1 ? -2 * loglik + 2 * edf * nEff / (nEff - edf - 1) : Double.POSITIVE_INFINITY;
             }
             case GCV: {
-                if (eng.counts == null) {
+                if (!eng.hasCounts()) {
                     throw new IllegalArgumentException("GCV needs binned counts; for raw samples use"
                             + " SmoothingCriterion.AIC or CROSS_VALIDATION");
                 }
-                eng.evaluate(eng.beta, lambda);
-                int d = eng.lay.bins;
+                eng.evaluate(lambda);
+                int d = eng.bins().bins;
                 double dev = 0;
-                double z = eng.zScaled;
+                double z = eng.zScaled();
                 for (int j = 0; j < d; j++) {
-                    double nj = eng.counts[j];
+                    double nj = eng.counts()[j];
                     if (nj > 0) {
-                        dev += nj * Math.log(nj / (eng.total * eng.mass[j] / z));
+                        dev += nj * Math.log(nj / (eng.total() * eng.mass(j) / z));
                     }
                 }
                 dev = Math.max(0.0, 2 * dev); // ≥ 0 by Gibbs' inequality; rounding can give −1e-15
@@ -1325,142 +1304,15 @@ public final class PenalizedLikelihoodEstimator {
         }
     }
 
-    /**
-     * The generator of the cross-validation folds of unit {@code index}: an independent stream per
-     * unit from {@link Seeds#stream} (SplitMix64 finaliser), so that no unit's stream is a shifted
-     * copy of another's and the folds do not depend on the number of threads.
-     */
-    static SplittableRandom foldStream(long seed, int index) {
-        return Seeds.stream(seed, index);
-    }
-
-    /**
-     * Deals the events of each bin into folds independently with equal probabilities: for bin j
-     * with n_j events the fold counts are multinomial(n_j; 1/k, …, 1/k), drawn as successive
-     * binomials x_f ~ Bin(n_j − x_0 − … − x_{f−1}, 1/(k − f)) by inversion of the binomial
-     * distribution function (Commons Math). Memory O(D k), independent of the number of events.
-     *
-     * @throws IllegalArgumentException for a bin with more than 2³¹ − 1 events
-     */
-    static void splitCounts(double[] counts, int nf, SplittableRandom rnd, double[][] test, double[] testTotal) {
-        for (int j = 0; j < counts.length; j++) {
-            double remaining = counts[j];
-            if (remaining > Integer.MAX_VALUE) {
-                throw new IllegalArgumentException("cross-validation supports at most " + Integer.MAX_VALUE
-                        + " events per bin, bin " + j + " has " + remaining);
-            }
-            for (int f = 0; f < nf - 1 && remaining > 0; f++) {
-                double u = rnd.nextDouble();
-                double x = new org.apache.commons.math3.distribution.BinomialDistribution(null, (int) remaining,
-                        1.0 / (nf - f)).inverseCumulativeProbability(u);
-                test[f][j] = x;
-                testTotal[f] += x;
-                remaining -= x;
-            }
-            test[nf - 1][j] += remaining;
-            testTotal[nf - 1] += remaining;
-        }
-    }
-
-    /** Fold structure of one unit for cross-validation. */
-    private final class Folds {
-        final PenalizedNewton eng;
-        final int nf;
-        final double[][] test; // counts mode: per fold test counts; sample mode: test linear stats
-        final double[] testTotal;
-        final double[] testTotal2;
-        final double[] train;
-        final double[] fullLinear;
-        final double[] fullCounts;
-        final double fullTotal;
-        final double fullTotal2;
-        final double[] start;
-
-        Folds(PenalizedNewton eng, SampleData sample, int nf, long seed, int index) {
-            this.eng = eng;
-            this.nf = nf;
-            SplittableRandom rnd = foldStream(seed, index);
-            testTotal = new double[nf];
-            testTotal2 = new double[nf];
-            fullTotal = eng.total;
-            fullTotal2 = eng.total2;
-            fullLinear = eng.linear.clone();
-            start = new double[k + 1];
-            if (eng.counts != null) {
-                int d = eng.lay.bins;
-                fullCounts = eng.counts;
-                test = new double[nf][d];
-                splitCounts(fullCounts, nf, rnd, test, testTotal);
-                train = new double[d];
-            } else {
-                fullCounts = null;
-                int[] order = new int[sample.n];
-                for (int i = 0; i < order.length; i++) {
-                    order[i] = i;
-                }
-                Seeds.shuffle(order, rnd);
-                test = new double[nf][k + 1];
-                for (int i = 0; i < order.length; i++) {
-                    int obs = order[i], f = i % nf;
-                    double w = sample.w[obs];
-                    testTotal[f] += w;
-                    testTotal2[f] += w * w;
-                    int fi = sample.first[obs];
-                    for (int j = 0; j < sample.width; j++) {
-                        test[f][fi + j] += w * sample.vals[obs * sample.width + j];
-                    }
-                }
-                train = new double[k + 1];
-            }
-        }
-
-        /** Minus the held-out log-likelihood summed over folds, fits started from the full fit. */
-        double score(double lambda) {
-            System.arraycopy(eng.beta, 0, start, 0, k + 1);
-            double sum = 0;
-            for (int f = 0; f < nf && sum < Double.POSITIVE_INFINITY; f++) {
-                if (!(testTotal[f] > 0) || !(fullTotal - testTotal[f] > 0)) {
-                    continue;
-                }
-                System.arraycopy(start, 0, eng.beta, 0, k + 1);
-                if (fullCounts != null) {
-                    for (int j = 0; j < train.length; j++) {
-                        train[j] = fullCounts[j] - test[f][j];
-                    }
-                    eng.counts = train;
-                    eng.total = fullTotal - testTotal[f];
-                    eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
-                    eng.evaluate(eng.beta, lambda);
-                    double logZ = Math.log(eng.zScaled);
-                    for (int j = 0; j < train.length; j++) {
-                        double c = test[f][j];
-                        if (c > 0) {
-                            sum -= c * (Math.log(eng.mass[j]) - logZ);
-                        }
-                    }
-                } else {
-                    for (int j = 0; j <= k; j++) {
-                        eng.linear[j] = fullLinear[j] - test[f][j];
-                    }
-                    eng.total = fullTotal - testTotal[f];
-                    eng.total2 = fullTotal2 - testTotal2[f];
-                    eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE));
-                    eng.evaluate(eng.beta, lambda);
-                    double tb = 0;
-                    for (int j = 0; j < k; j++) {
-                        tb += test[f][j] * eng.beta[j];
-                    }
-                    sum -= tb - testTotal[f] * (eng.shift + Math.log(eng.zScaled));
-                }
-            }
-            // restore the full data and the full fit
-            eng.counts = fullCounts;
-            eng.total = fullTotal;
-            eng.total2 = fullTotal2;
-            System.arraycopy(fullLinear, 0, eng.linear, 0, k + 1);
-            System.arraycopy(start, 0, eng.beta, 0, k + 1);
-            eng.evaluate(eng.beta, lambda);
-            return Double.isNaN(sum) ? Double.POSITIVE_INFINITY : sum;
-        }
+    /** The space and every setting, e.g. for a log or a JShell session. */
+    @Override
+    public String toString() {
+        return "PenalizedLikelihoodEstimator[" + space + ", penalty order " + penaltyOrder
+                + (Double.isNaN(fixedLambda) ? ", lambda by " + criterion + " over log10 in [" + gridLo + ", " + gridHi
+                        + "] step " + gridStep + (criterion == SmoothingCriterion.CROSS_VALIDATION ? ", " + folds
+                        + " folds, seed " + seed : "") : ", lambda " + fixedLambda)
+                + ", prior weight " + priorWeight + ", at most " + maxIterations + " iterations, tolerance " + tolerance
+                + ", " + (points == 0 ? "automatic" : String.valueOf(points)) + " quadrature points, zero totals "
+                + zeroTotal + (fractional ? ", fractional counts" : "") + (parallel ? ", parallel" : "") + "]";
     }
 }

@@ -25,47 +25,47 @@ import java.util.Arrays;
  * the Armijo condition Φ(β + tΔ) ≥ Φ(β) + 10⁻⁴ t Φ'·Δ holds.
  */
 final class PenalizedNewton {
-    final BinLayout lay;
-    final int k;
-    final int k1;
+    private final BinLayout lay;
+    private final int k;
+    private final int k1;
     private final double[] pen;
     /** Fixed quadratic prior β'Qβ subtracted from Φ (raw K × K), or null. */
-    final double[] prior;
+    private final double[] prior;
 
     // unit data
-    double[] counts; // null: sample mode
-    double total;
-    double total2;
-    final double[] linear;
+    private double[] counts; // null: sample mode
+    private double total;
+    private double total2;
+    private final double[] linear;
 
     // state
-    final double[] beta;
-    final double[] trial;
-    final double[] grad;
-    final double[] hess;
-    final double[] fisher;
-    final double[] step;
-    final double[] eta;
-    final double[] ex;
-    final double[] mass;
-    final double[] mvec;
-    final double[] uj;
-    final double[] solveA;
-    final double[] solveB;
-    final double[] scratch1;
-    final double[] scratch2;
-    final double[] meat;
-    double zScaled;
+    private final double[] beta;
+    private final double[] trial;
+    private final double[] grad;
+    private final double[] hess;
+    private final double[] fisher;
+    private final double[] step;
+    private final double[] eta;
+    private final double[] ex;
+    private final double[] mass;
+    private final double[] mvec;
+    private final double[] uj;
+    private final double[] solveA;
+    private final double[] solveB;
+    private final double[] scratch1;
+    private final double[] scratch2;
+    private final double[] meat;
+    private double zScaled;
     /** log det(F + 2λP) from the last {@link #sandwich} (NaN if singular). */
-    double logDetJ;
+    private double logDetJ;
     /** Whether the last covariance from {@link #sandwich} used the empirical information. */
-    boolean robustUsed;
-    double shift;
-    double loglik;
-    double objective;
-    int iterations;
-    boolean usedFisher;
-    String failure;
+    private boolean robustUsed;
+    private double shift;
+    private double loglik;
+    private double objective;
+    private int iterations;
+    private boolean usedFisher;
+    private String failure;
 
     PenalizedNewton(BinLayout lay, double[] rawPenalty) {
         this(lay, rawPenalty, null);
@@ -98,8 +98,8 @@ final class PenalizedNewton {
     }
 
     /** Optional K × D map from log(n_j + 1/2) to starting coefficients, and its constant. */
-    double[] startMap;
-    double[] startConst;
+    private double[] startMap;
+    private double[] startConst;
 
     /**
      * Starting coefficients from the counts: a lightly penalised least-squares fit of the log
@@ -348,14 +348,7 @@ final class PenalizedNewton {
         if (fcur >= 0) {
             flush4(fcur, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
         }
-        double c1 = total / (z * z);
-        for (int i = 0; i < k; i++) {
-            double mi = c1 * mvec[i];
-            int row = i * k1;
-            for (int l = 0; l <= i; l++) {
-                hess[row + l] -= mi * mvec[l];
-            }
-        }
+        subtractOuter(hess, k1, total / (z * z), mvec, k);
         for (int i = 0; i < k; i++) {
             grad[i] += linear[i];
         }
@@ -422,7 +415,7 @@ final class PenalizedNewton {
     private static final double RESOLUTION = 1e-11;
 
     /** Optional K × K upper triangular map from raw coefficients to coordinates (c = U β). */
-    double[] coordinateMap;
+    private double[] coordinateMap;
 
     /** ‖U v‖∞ over the first K entries (‖v‖∞ without a map). */
     private double coordinateNorm(double[] v) {
@@ -613,14 +606,7 @@ final class PenalizedNewton {
                 }
             }
         }
-        double c = 1.0 / total;
-        for (int i = 0; i < k; i++) {
-            double mi = c * mvec[i];
-            int row = i * k;
-            for (int l = 0; l <= i; l++) {
-                meat[row + l] -= mi * mvec[l];
-            }
-        }
+        subtractOuter(meat, k, 1.0 / total, mvec, k);
         for (int i = 0; i < k; i++) {
             for (int l = 0; l < i; l++) {
                 meat[l * k + i] = meat[i * k + l];
@@ -629,10 +615,10 @@ final class PenalizedNewton {
     }
 
     /** Sample mode: per-observation first raw index, local basis values (n × width) and weights. */
-    int[] sampleFirst;
-    double[] sampleVals;
-    double[] sampleWeights;
-    int sampleWidth;
+    private int[] sampleFirst;
+    private double[] sampleVals;
+    private double[] sampleWeights;
+    private int sampleWidth;
 
     /**
      * The empirical information of a weighted sample (sample mode, arrays set): with φ_i the raw
@@ -811,5 +797,194 @@ final class PenalizedNewton {
             tr += wm[i * n + i];
         }
         return tr;
+    }
+
+    // ---------------------------------------------------------------- state, owned here
+
+    /** Counts mode: the unit's counts (not copied; not modified here) and total N, with Σw² = N and no sample. */
+    void useCounts(double[] c, double n) {
+        setCounts(c, n);
+        total2 = n;
+        Arrays.fill(linear, 0.0);
+    }
+
+    /** Replaces the counts and the total only (the training part of a fold, or a unit of the smoothing spline). */
+    void setCounts(double[] c, double n) {
+        counts = c;
+        total = n;
+    }
+
+    /** Sample mode: the sufficient statistic (K + 1 values, copied), the local basis values and weights, the totals. */
+    void useSample(double[] lin, int[] first, double[] vals, double[] weights, int width, double n, double n2) {
+        counts = null;
+        total = n;
+        total2 = n2;
+        System.arraycopy(lin, 0, linear, 0, k + 1);
+        sampleFirst = first;
+        sampleVals = vals;
+        sampleWeights = weights;
+        sampleWidth = width;
+    }
+
+    /** Replaces the sample statistic (K + 1 values, copied) and the totals (a fold's training part). */
+    void setSampleStatistics(double[] lin, double n, double n2) {
+        System.arraycopy(lin, 0, linear, 0, k + 1);
+        total = n;
+        total2 = n2;
+    }
+
+    /** Restores counts (may be null), totals and the sample statistic (copied) saved before a cross-validation. */
+    void restoreData(double[] c, double n, double n2, double[] lin) {
+        counts = c;
+        total = n;
+        total2 = n2;
+        System.arraycopy(lin, 0, linear, 0, k + 1);
+    }
+
+    /** A fresh copy of the sample statistic (K + 1 values). */
+    double[] sampleStatistics() {
+        return linear.clone();
+    }
+
+    /** The current counts (null in sample mode); the array given to {@link #useCounts}, not to be modified. */
+    double[] counts() {
+        return counts;
+    }
+
+    boolean hasCounts() {
+        return counts != null;
+    }
+
+    /** Total weight N of the current data. */
+    double total() {
+        return total;
+    }
+
+    /** Σw² of the current data (N for counts). */
+    double total2() {
+        return total2;
+    }
+
+    /** The bin layout of the unit. */
+    BinLayout bins() {
+        return lay;
+    }
+
+    /** Map from raw coefficients to coordinates (c = U β), used by the convergence test; null for none. */
+    void setCoordinateMap(double[] u) {
+        coordinateMap = u;
+    }
+
+    /** Optional K × D map from log(n_j + 1/2) to starting coefficients and its constant (both null: zero start). */
+    void setStartMap(double[] map, double[] constant) {
+        startMap = map;
+        startConst = constant;
+    }
+
+    /** Copies the K + 1 coefficients β into dst. */
+    void copyCoefficientsTo(double[] dst) {
+        System.arraycopy(beta, 0, dst, 0, k + 1);
+    }
+
+    /** A fresh copy of the K + 1 coefficients β. */
+    double[] coefficients() {
+        return beta.clone();
+    }
+
+    /** Sets the K + 1 coefficients β from src. */
+    void setCoefficients(double[] src) {
+        System.arraycopy(src, 0, beta, 0, k + 1);
+    }
+
+    /** Sets β to K raw coefficients and β_K = 0. */
+    void setRawCoefficients(double[] raw) {
+        System.arraycopy(raw, 0, beta, 0, k);
+        beta[k] = 0;
+    }
+
+    /** β = 0. */
+    void clearCoefficients() {
+        Arrays.fill(beta, 0.0);
+    }
+
+    /** Coordinates c = U β of the current coefficients into out[off..off+K). */
+    void coordinatesInto(double[] u, double[] out, int off) {
+        EstimationSupport.toCoordinates(u, k, beta, out, off);
+    }
+
+    /** Φ at the current β; see {@link #evaluate(double[], double)}. */
+    double evaluate(double lambda) {
+        return evaluate(beta, lambda);
+    }
+
+    /** β'Pβ at the current β. */
+    double penalty() {
+        return penalty(beta);
+    }
+
+    /** β'Qβ of the prior at the current β. */
+    double priorPenalty() {
+        return priorPenalty(beta);
+    }
+
+    /** {@link #logLikelihoodPerBinShift(double[])} at the current β. */
+    double logLikelihoodPerBinShift() {
+        return logLikelihoodPerBinShift(beta);
+    }
+
+    /** Z / e^shift of the last evaluation. */
+    double zScaled() {
+        return zScaled;
+    }
+
+    /** Bin mass A_j / e^shift of the last evaluation. */
+    double mass(int j) {
+        return mass[j];
+    }
+
+    /** The log-sum-exp shift of the last evaluation. */
+    double shift() {
+        return shift;
+    }
+
+    /** Log-likelihood at the last evaluated point. */
+    double logLikelihood() {
+        return loglik;
+    }
+
+    /** log det(F + 2λP) from the last {@link #sandwich} (NaN if singular). */
+    double logDetJ() {
+        return logDetJ;
+    }
+
+    /** Newton iterations of the last solve. */
+    int iterations() {
+        return iterations;
+    }
+
+    /** Why the last solve failed ("" or null when it converged). */
+    String failure() {
+        return failure;
+    }
+
+    /** Trace of the K × K Fisher information (after {@link #fisherInformation}). */
+    double fisherTrace() {
+        return EstimationSupport.trace(fisher, k);
+    }
+
+    /** Solves (L Lᵀ) x = rhs in place with the information factor left by the last {@link #sandwich}. */
+    void solveWithInformationFactor(double[] rhs) {
+        io.densa.core.internal.Cholesky.solve(solveA, k, k, rhs, 0);
+    }
+
+    /** Lower triangle of the k × k block of a (row stride s) minus c·m mᵀ, entry by entry as (c m_i) m_l. */
+    private static void subtractOuter(double[] a, int s, double c, double[] m, int k) {
+        for (int i = 0; i < k; i++) {
+            double mi = c * m[i];
+            int row = i * s;
+            for (int l = 0; l <= i; l++) {
+                a[row + l] -= mi * m[l];
+            }
+        }
     }
 }

@@ -2,6 +2,7 @@ package io.densa.core.estimate;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
+import io.densa.core.SolveDiagnostics;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
 import io.densa.core.internal.Cholesky;
@@ -50,7 +51,7 @@ import org.ejml.interfaces.decomposition.EigenDecomposition_F64;
  * <p>Immutable and thread-safe; inputs are not modified; {@code fitAll} is parallel and
  * bit-identical to the serial path.
  */
-public final class SmoothingSplineEstimator {
+public final class SmoothingSplineEstimator implements CountEstimator {
     private static final int UNITS_PER_BLOCK = 64;
     private static final double GRID_STEP = 0.05;
     /** Task name of the progress reports of batch fits. */
@@ -85,7 +86,7 @@ public final class SmoothingSplineEstimator {
         this.k = space.dimension();
         this.t = space.basisTransform();
         this.rawPenalty = RoughnessPenalty.raw(EstimationSupport.rawBasis(space.basis()), penaltyOrder);
-        this.omega = EstimationSupport.congruenceLower(t, rawPenalty, k);
+        this.omega = RoughnessPenalty.inCoordinates(t, rawPenalty, k);
     }
 
     /**
@@ -93,7 +94,7 @@ public final class SmoothingSplineEstimator {
      * penalty (first for linear splines), λ by GCV over λ = s 10^g, g ∈ [−12, 6] (s = tr(X'X)/tr(Ω)),
      * zero-total units rejected, parallel batches.
      */
-    public static SmoothingSplineEstimator of(BayesSpace space) {
+    public static SmoothingSplineEstimator withDefaults(BayesSpace space) {
         Objects.requireNonNull(space, "space");
         return new SmoothingSplineEstimator(space, ZeroReplacement.bayesianMultiplicative(ZeroReplacement.Prior.JEFFREYS),
                 Math.min(2, RoughnessPenalty.maxOrder(EstimationSupport.rawBasis(space.basis()))), Double.NaN, -12, 6, ZeroTotalPolicy.REJECT,
@@ -212,6 +213,7 @@ public final class SmoothingSplineEstimator {
     }
 
     /** The space. */
+    @Override
     public BayesSpace space() {
         return space;
     }
@@ -229,17 +231,8 @@ public final class SmoothingSplineEstimator {
         return des.gcv(z, yy, lambda)[0];
     }
 
-    /** Fits one unit. */
-    public UnitEstimate fit(double[] edges, int[] counts) {
-        return fitAll(edges, new int[][] {Objects.requireNonNull(counts, "counts")}, null).unit(0);
-    }
-
-    /** Fits one unit of counts given as doubles (may be fractional). */
-    public UnitEstimate fit(double[] edges, double[] counts) {
-        return fitAll(edges, new double[][] {Objects.requireNonNull(counts, "counts")}, null).unit(0);
-    }
-
     /** Fits many units sharing bin edges; see {@link PenalizedLikelihoodEstimator#fitAll(double[], int[][], String[])}. */
+    @Override
     public BatchEstimate fitAll(double[] edges, int[][] counts, String[] ids) {
         Objects.requireNonNull(counts, "counts");
         double[] e = EstimationSupport.checkEdges(space, edges);
@@ -256,6 +249,7 @@ public final class SmoothingSplineEstimator {
     }
 
     /** Fits many units of counts given as doubles (finite, ≥ 0, may be fractional). */
+    @Override
     public BatchEstimate fitAll(double[] edges, double[][] counts, String[] ids) {
         Objects.requireNonNull(counts, "counts");
         double[] e = EstimationSupport.checkEdges(space, edges);
@@ -304,11 +298,9 @@ public final class SmoothingSplineEstimator {
                 System.arraycopy(coef, 1, out, i * k, k);
                 // multinomial log-likelihood of the counts under the fit
                 Cholesky.transposeTimes(t, k, out, i * k, raw);
-                System.arraycopy(raw, 0, eng.beta, 0, k);
-                eng.beta[k] = 0;
-                eng.counts = counts[i];
-                eng.total = totals[i];
-                double loglik = eng.logLikelihoodPerBinShift(eng.beta);
+                eng.setRawCoefficients(raw);
+                eng.setCounts(counts[i], totals[i]);
+                double loglik = eng.logLikelihoodPerBinShift();
                 int first = 0, last = lay.bins - 1;
                 while (first < last && !(counts[i][first] > 0)) {
                     first++;
@@ -320,7 +312,7 @@ public final class SmoothingSplineEstimator {
                 for (int c = 0; c < k; c++) {
                     normSq += out[i * k + c] * out[i * k + c];
                 }
-                double share = EstimationSupport.extrapolationShare(whole, lay, first, last, eng.beta, normSq,
+                double share = EstimationSupport.extrapolationShare(whole, lay, first, last, eng.coefficients(), normSq,
                         totals[i]);
                 diag[i] = new EstimationDiagnostics(id, EstimationDiagnostics.Status.CONVERGED, "", lambda, choose,
                         SmoothingCriterion.GCV, g[0], g[2], loglik, totals[i], 0, cov,
@@ -413,7 +405,8 @@ public final class SmoothingSplineEstimator {
             }
             EigenDecomposition_F64<DMatrixRMaj> eigd = DecompositionFactory_DDRM.eig(p, true, true);
             if (!eigd.decompose(bm)) {
-                throw new DensaException("eigen decomposition of the penalised design failed", null);
+                throw new DensaException("eigen decomposition of the penalised design failed",
+                        new SolveDiagnostics("eigen-decomposition of the penalised design", p, Double.NaN));
             }
             eig = new double[p];
             double[] v = new double[p * p]; // columns = eigenvectors
@@ -563,5 +556,13 @@ public final class SmoothingSplineEstimator {
             }
             return cov;
         }
+    }
+
+    /** The space and every setting, e.g. for a log or a JShell session. */
+    @Override
+    public String toString() {
+        return "SmoothingSplineEstimator[" + space + ", zeros " + zeros + ", penalty order " + penaltyOrder
+                + (Double.isNaN(fixedLambda) ? ", lambda by GCV over log10 in [" + gridLo + ", " + gridHi + "]"
+                        : ", lambda " + fixedLambda) + ", zero totals " + zeroTotal + (parallel ? ", parallel" : "") + "]";
     }
 }

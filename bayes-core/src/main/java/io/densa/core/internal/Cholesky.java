@@ -35,8 +35,9 @@ public final class Cholesky {
      *
      * @param a                the matrix, overwritten by L on success
      * @param minRelativePivot a column j fails when its pivot d (before the square root) is not
-     *                         greater than {@code minRelativePivot · max(1, |a_jj|)} (0: d must be
-     *                         positive) or is +∞; NaN always fails
+     *                         greater than {@code minRelativePivot · |a_jj|} (relative to the
+     *                         column's own diagonal, so a uniformly small matrix is not called
+     *                         degenerate; 0: d must be positive) or is +∞; NaN always fails
      * @return -1 on success, or the first failing column j; its d is left in {@code a[j*s+j]}
      */
     public static int factor(double[] a, int n, int s, double minRelativePivot) {
@@ -47,7 +48,7 @@ public final class Cholesky {
             for (int p = 0; p < j; p++) {
                 d -= a[rj + p] * a[rj + p];
             }
-            double floor = minRelativePivot == 0 ? 0.0 : minRelativePivot * Math.max(1, Math.abs(ajj));
+            double floor = minRelativePivot == 0 ? 0.0 : minRelativePivot * Math.abs(ajj);
             if (!(d > floor) || d == Double.POSITIVE_INFINITY) {
                 a[rj + j] = d;
                 return j;

@@ -17,29 +17,16 @@ public final class GaussLegendre {
             double[] w = new double[n];
             for (int i = 0; i < (n + 1) / 2; i++) {
                 double z = Math.cos(Math.PI * (i + 0.75) / (n + 0.5));
-                double dp = 0;
                 for (int it = 0; it < 100; it++) {
-                    double p0 = 1, p1 = 0;
-                    for (int j = 1; j <= n; j++) {
-                        double p2 = p1;
-                        p1 = p0;
-                        p0 = ((2.0 * j - 1) * z * p1 - (j - 1.0) * p2) / j;
-                    }
-                    dp = n * (z * p0 - p1) / (z * z - 1);
-                    double dz = p0 / dp;
+                    double[] pd = legendre(n, z);
+                    double dz = pd[0] / pd[1];
                     z -= dz;
                     if (Math.abs(dz) < 1e-16) {
                         break;
                     }
                 }
                 // recompute derivative at the converged node
-                double p0 = 1, p1 = 0;
-                for (int j = 1; j <= n; j++) {
-                    double p2 = p1;
-                    p1 = p0;
-                    p0 = ((2.0 * j - 1) * z * p1 - (j - 1.0) * p2) / j;
-                }
-                dp = n * (z * p0 - p1) / (z * z - 1);
+                double dp = legendre(n, z)[1];
                 x[i] = -z;
                 x[n - 1 - i] = z;
                 w[i] = 2 / ((1 - z * z) * dp * dp);
@@ -51,6 +38,17 @@ public final class GaussLegendre {
             NODES[n] = x;
             WEIGHTS[n] = w;
         }
+    }
+
+    /** P_n(z) and P_n'(z) by the three-term recurrence. */
+    private static double[] legendre(int n, double z) {
+        double p0 = 1, p1 = 0;
+        for (int j = 1; j <= n; j++) {
+            double p2 = p1;
+            p1 = p0;
+            p0 = ((2.0 * j - 1) * z * p1 - (j - 1.0) * p2) / j;
+        }
+        return new double[] {p0, n * (z * p0 - p1) / (z * z - 1)};
     }
 
     private GaussLegendre() {

@@ -129,26 +129,7 @@ public final class Kernels {
      * @return a fresh k-vector
      */
     public static double[] columnSums(double[] a, int n, int k, boolean parallel) {
-        int blocks = (n + BLOCK - 1) / BLOCK;
-        double[][] partial = new double[blocks][];
-        forEachBlock(blocks, parallel && parallelWorth((long) n * k), blk -> {
-            double[] s = new double[k];
-            int r0 = blk * BLOCK, r1 = Math.min(n, r0 + BLOCK);
-            for (int i = r0; i < r1; i++) {
-                int o = i * k;
-                for (int j = 0; j < k; j++) {
-                    s[j] += a[o + j];
-                }
-            }
-            partial[blk] = s;
-        });
-        double[] sum = new double[k];
-        for (double[] p : partial) {
-            for (int j = 0; j < k; j++) {
-                sum[j] += p[j];
-            }
-        }
-        return sum;
+        return columnSumsOfRows(a, k, null, 0, n, null, parallel);
     }
 
     /**
@@ -178,31 +159,25 @@ public final class Kernels {
      * exactly symmetric.
      */
     public static double[] crossProduct(double[] a, int n, int k, double[] center, boolean parallel) {
+        return crossProductOfRows(a, k, null, 0, n, center, parallel);
+    }
+
+    /**
+     * As {@link #crossProduct}, over the rows {@code rows[from..to)} of A (k columns) in that order
+     * ({@code rows == null}: the rows from..to−1 themselves), in fixed blocks of {@link #BLOCK}
+     * indices combined in order.
+     */
+    public static double[] crossProductOfRows(double[] a, int k, int[] rows, int from, int to, double[] center,
+            boolean parallel) {
+        int n = to - from;
         int blocks = (n + BLOCK - 1) / BLOCK;
         double[][] partial = new double[blocks][];
         forEachBlock(blocks, parallel && parallelWorth((long) n * k * k), blk -> {
             double[] s = new double[k * k];
             double[] r = new double[8 * k];
-            int r0 = blk * BLOCK, r1 = Math.min(n, r0 + BLOCK);
+            int r0 = from + blk * BLOCK, r1 = Math.min(to, r0 + BLOCK);
             for (int i = r0; i < r1; i += 8) {
-                int rows = Math.min(8, r1 - i);
-                for (int t = 0; t < 8; t++) {
-                    int o = (i + t) * k;
-                    for (int j = 0; j < k; j++) {
-                        r[t * k + j] = t >= rows ? 0.0 : center == null ? a[o + j] : a[o + j] - center[j];
-                    }
-                }
-                int k1 = k, k2 = 2 * k, k3 = 3 * k, k4 = 4 * k, k5 = 5 * k, k6 = 6 * k, k7 = 7 * k;
-                for (int j = 0; j < k; j++) {
-                    double x0 = r[j], x1 = r[k1 + j], x2 = r[k2 + j], x3 = r[k3 + j];
-                    double x4 = r[k4 + j], x5 = r[k5 + j], x6 = r[k6 + j], x7 = r[k7 + j];
-                    int so = j * k;
-                    // upper triangle only (l ≥ j): half the arithmetic; mirrored after the sum
-                    for (int l = j; l < k; l++) {
-                        s[so + l] += x0 * r[l] + x1 * r[k1 + l] + x2 * r[k2 + l] + x3 * r[k3 + l]
-                                + x4 * r[k4 + l] + x5 * r[k5 + l] + x6 * r[k6 + l] + x7 * r[k7 + l];
-                    }
-                }
+                addEightRows(a, k, rows, i, Math.min(8, r1 - i), center, r, s);
             }
             partial[blk] = s;
         });
@@ -215,6 +190,59 @@ public final class Kernels {
         for (int j = 0; j < k; j++) {
             for (int l = 0; l < j; l++) {
                 sum[j * k + l] = sum[l * k + j];
+            }
+        }
+        return sum;
+    }
+
+    /** Folds up to eight (centred) rows, positions i..i+count−1 of the row list, into the upper triangle of s. */
+    private static void addEightRows(double[] a, int k, int[] rows, int i, int count, double[] center, double[] r,
+            double[] s) {
+        for (int t = 0; t < 8; t++) {
+            int o = t >= count ? 0 : (rows == null ? i + t : rows[i + t]) * k;
+            for (int j = 0; j < k; j++) {
+                r[t * k + j] = t >= count ? 0.0 : center == null ? a[o + j] : a[o + j] - center[j];
+            }
+        }
+        int k1 = k, k2 = 2 * k, k3 = 3 * k, k4 = 4 * k, k5 = 5 * k, k6 = 6 * k, k7 = 7 * k;
+        for (int j = 0; j < k; j++) {
+            double x0 = r[j], x1 = r[k1 + j], x2 = r[k2 + j], x3 = r[k3 + j];
+            double x4 = r[k4 + j], x5 = r[k5 + j], x6 = r[k6 + j], x7 = r[k7 + j];
+            int so = j * k;
+            // upper triangle only (l ≥ j): half the arithmetic; mirrored after the sum
+            for (int l = j; l < k; l++) {
+                s[so + l] += x0 * r[l] + x1 * r[k1 + l] + x2 * r[k2 + l] + x3 * r[k3 + l]
+                        + x4 * r[k4 + l] + x5 * r[k5 + l] + x6 * r[k6 + l] + x7 * r[k7 + l];
+            }
+        }
+    }
+
+    /**
+     * Column sums Σ (a_i − c) of the rows {@code rows[from..to)} of A (k columns) about a centre c
+     * (null for none), in fixed blocks of {@link #BLOCK} indices combined in order.
+     *
+     * @return a fresh k-vector
+     */
+    public static double[] columnSumsOfRows(double[] a, int k, int[] rows, int from, int to, double[] center,
+            boolean parallel) {
+        int n = to - from;
+        int blocks = (n + BLOCK - 1) / BLOCK;
+        double[][] partial = new double[blocks][];
+        forEachBlock(blocks, parallel && parallelWorth((long) n * k), blk -> {
+            double[] s = new double[k];
+            int r0 = from + blk * BLOCK, r1 = Math.min(to, r0 + BLOCK);
+            for (int i = r0; i < r1; i++) {
+                int o = (rows == null ? i : rows[i]) * k;
+                for (int j = 0; j < k; j++) {
+                    s[j] += center == null ? a[o + j] : a[o + j] - center[j];
+                }
+            }
+            partial[blk] = s;
+        });
+        double[] sum = new double[k];
+        for (double[] p : partial) {
+            for (int j = 0; j < k; j++) {
+                sum[j] += p[j];
             }
         }
         return sum;

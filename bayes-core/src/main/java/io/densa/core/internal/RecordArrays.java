@@ -41,16 +41,42 @@ public final class RecordArrays {
         return Arrays.deepHashCode(parts);
     }
 
-    /** "Name[c1=v1, c2=v2, ...]" with arrays printed by content. */
+    /** Array elements printed by {@link #describe} before it abbreviates. */
+    public static final int SHOWN = 6;
+
+    /**
+     * "Name[c1=v1, c2=v2, ...]" with arrays printed by content, each array (and each nested row)
+     * abbreviated after {@value #SHOWN} elements as "[a, b, …, f, … (length n)]", so that a large
+     * result prints readably (in JShell, for example).
+     */
     public static String describe(String name, String[] names, Object[] parts) {
         StringBuilder sb = new StringBuilder(name).append('[');
         for (int i = 0; i < parts.length; i++) {
             if (i > 0) {
                 sb.append(", ");
             }
-            String v = Arrays.deepToString(new Object[] {parts[i]});
-            sb.append(names[i]).append('=').append(v, 1, v.length() - 1);
+            sb.append(names[i]).append('=');
+            append(sb, parts[i]);
         }
         return sb.append(']').toString();
+    }
+
+    private static void append(StringBuilder sb, Object v) {
+        if (v == null || !v.getClass().isArray()) {
+            sb.append(v);
+            return;
+        }
+        int n = java.lang.reflect.Array.getLength(v);
+        sb.append('[');
+        for (int j = 0; j < Math.min(n, SHOWN); j++) {
+            if (j > 0) {
+                sb.append(", ");
+            }
+            append(sb, java.lang.reflect.Array.get(v, j));
+        }
+        if (n > SHOWN) {
+            sb.append(", … (length ").append(n).append(')');
+        }
+        sb.append(']');
     }
 }

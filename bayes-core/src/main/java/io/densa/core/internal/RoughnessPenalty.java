@@ -26,6 +26,37 @@ public final class RoughnessPenalty {
     private RoughnessPenalty() {
     }
 
+    /**
+     * The penalty in coordinates, Ω = T P Tᵀ, for a symmetric K × K raw penalty P (row-major) and
+     * the lower-triangular basis transform T of the space (coordinates c = (Tᵀ)⁻¹ b).
+     *
+     * @return a fresh symmetric K × K matrix, row-major
+     */
+    public static double[] inCoordinates(double[] t, double[] m, int k) {
+        double[] tmp = new double[k * k];
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j < k; j++) {
+                double s = 0;
+                for (int p = 0; p <= i; p++) {
+                    s += t[i * k + p] * m[p * k + j];
+                }
+                tmp[i * k + j] = s;
+            }
+        }
+        double[] out = new double[k * k];
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j <= i; j++) {
+                double s = 0;
+                for (int p = 0; p <= j; p++) {
+                    s += tmp[i * k + p] * t[j * k + p];
+                }
+                out[i * k + j] = s;
+                out[j * k + i] = s;
+            }
+        }
+        return out;
+    }
+
     /** Largest admissible derivative order for a basis. */
     public static int maxOrder(RawBasis basis) {
         if (basis.isSpline()) {

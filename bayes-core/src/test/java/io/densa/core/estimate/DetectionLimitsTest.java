@@ -17,7 +17,7 @@ class DetectionLimitsTest {
     @Test
     void upperLimitMergesTheTopCells() {
         int[] counts = {3, 9, 20, 31, 40, 31, 20, 9, 0, 12};
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(SPACE);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(SPACE);
         BatchEstimate b = est.fitAll(EDGES, new int[][] {counts}, null, DetectionLimits.upper(8.5));
         // the same as fitting the merged cells directly: [0,1) … [7,8) and [8, 10]
         int[] merged = {3, 9, 20, 31, 40, 31, 20, 9, 12};
@@ -30,7 +30,7 @@ class DetectionLimitsTest {
     @Test
     void idsAndOrderAreKept() {
         int[][] counts = {{0, 0, 0, 30, 40, 31, 20, 9, 2, 1}, {3, 9, 20, 31, 40, 31, 20, 9, 2, 1}};
-        BatchEstimate b = PenalizedLikelihoodEstimator.of(SPACE).fitAll(EDGES, counts, new String[] {"a", "b"},
+        BatchEstimate b = PenalizedLikelihoodEstimator.withDefaults(SPACE).fitAll(EDGES, counts, new String[] {"a", "b"},
                 DetectionLimits.lower(3, Double.NaN));
         assertEquals("a", b.diagnostics().get(0).id());
         assertEquals("b", b.diagnostics().get(1).id());
@@ -40,7 +40,7 @@ class DetectionLimitsTest {
 
     @Test
     void badLimitsAreRejectedNamingTheUnit() {
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(SPACE);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(SPACE);
         int[][] counts = {{3, 9, 20, 31, 40, 31, 20, 9, 2, 1}};
         String[] ids = {"site-7"};
         IllegalArgumentException outside = assertThrows(IllegalArgumentException.class,
@@ -63,7 +63,7 @@ class DetectionLimitsTest {
         assertEquals(2.5, d.lower()[0]);
         int[][] counts = {{3, 9, 20, 31, 40, 31, 20, 9, 2, 1}};
         int[] copy = counts[0].clone();
-        PenalizedLikelihoodEstimator.of(SPACE).fitAll(EDGES, counts, null, d);
+        PenalizedLikelihoodEstimator.withDefaults(SPACE).fitAll(EDGES, counts, null, d);
         assertArrayEquals(copy, counts[0]);
     }
 }

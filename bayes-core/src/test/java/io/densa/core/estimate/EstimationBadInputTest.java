@@ -11,8 +11,8 @@ import org.junit.jupiter.api.function.Executable;
 class EstimationBadInputTest {
     private static final BayesSpace SPACE = BayesSpace.splines(0, 1, 4, 3);
     private static final double[] EDGES = {0, 0.2, 0.4, 0.6, 0.8, 1.0};
-    private static final PenalizedLikelihoodEstimator PL = PenalizedLikelihoodEstimator.of(SPACE);
-    private static final SmoothingSplineEstimator SS = SmoothingSplineEstimator.of(BayesSpace.splines(0, 1, 2, 0));
+    private static final PenalizedLikelihoodEstimator PL = PenalizedLikelihoodEstimator.withDefaults(SPACE);
+    private static final SmoothingSplineEstimator SS = SmoothingSplineEstimator.withDefaults(BayesSpace.splines(0, 1, 2, 0));
     private static final String[] IDS = {"north", "south"};
 
     private static void fails(String regex, Executable e) {
@@ -81,7 +81,7 @@ class EstimationBadInputTest {
         fails("smoothing parameter must be finite and >= 0, got NaN", () -> PL.withSmoothing(Double.NaN));
         fails("penalty order must be in \\[1, 3\\].*got 4", () -> PL.withPenaltyOrder(4));
         fails("number of folds must be in \\[2, 50\\], got 1", () -> PL.withCrossValidation(1, 0));
-        fails("the smoothing spline needs at least K \\+ 2 = .*", () -> SmoothingSplineEstimator.of(SPACE)
+        fails("the smoothing spline needs at least K \\+ 2 = .*", () -> SmoothingSplineEstimator.withDefaults(SPACE)
                 .fit(new double[] {0, 0.5, 1}, new int[] {1, 2}));
     }
 }

@@ -34,9 +34,9 @@ class EstimationBatchTest {
         }
         BayesSpace space = BayesSpace.splines(0, 1, 4, 8);
         double[] e = edges(0, 1, bins);
-        BatchEstimate pl = PenalizedLikelihoodEstimator.of(space).withCriterion(SmoothingCriterion.GCV)
+        BatchEstimate pl = PenalizedLikelihoodEstimator.withDefaults(space).withCriterion(SmoothingCriterion.GCV)
                 .fitAll(e, counts, null);
-        BatchEstimate ss = SmoothingSplineEstimator.of(space).fitAll(e, counts, null);
+        BatchEstimate ss = SmoothingSplineEstimator.withDefaults(space).fitAll(e, counts, null);
         for (BatchEstimate b : List.of(pl, ss)) {
             assertEquals(List.of(), b.flaggedRows());
             // a density exp(clr)/Z is positive wherever its clr is finite (checked in log space:

@@ -88,7 +88,7 @@ class EstimationCalibrationTest {
             for (int i = 0; i < REPLICATES; i++) {
                 counts[i] = truth.counts(events, 50, r);
             }
-            BatchEstimate b = PenalizedLikelihoodEstimator.of(space).fitAll(e, counts, null);
+            BatchEstimate b = PenalizedLikelihoodEstimator.withDefaults(space).fitAll(e, counts, null);
             assertEquals(0, b.flaggedRows().size());
             double ratio = meanReported(b) / empiricalTrace(b);
             double lo = events >= 100 ? 0.8 : 0.7;
@@ -118,7 +118,7 @@ class EstimationCalibrationTest {
         BayesSpace space = BayesSpace.splines(0, 1, 4, 8);
         int bins = 50;
         double[] e = edges(0, 1, bins);
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space);
         RandomGenerator pilotRng = rng(99);
         double lambda = sample ? est.fitSample(truth.sample(events, pilotRng)).diagnostics().smoothing()
                 : est.fit(e, truth.counts(events, bins, pilotRng)).diagnostics().smoothing();

@@ -38,7 +38,7 @@ class EstimationEdgeCasesTest {
         double[] c = new double[20];
         Arrays.fill(c, 3);
         c[4] = Double.MIN_VALUE;
-        assertFinite(SmoothingSplineEstimator.of(SPACE).fit(EDGES, c));
+        assertFinite(SmoothingSplineEstimator.withDefaults(SPACE).fit(EDGES, c));
     }
 
     /**
@@ -49,7 +49,7 @@ class EstimationEdgeCasesTest {
     void multiplicativeReplacementWithLargeCountsHasFiniteLogLikelihood() {
         double[] c = {4216247, 15526871, 29694526, 15531565, 55125777, 38065573, 52593749, 0, 0, 0, 0, 0, 0, 0, 0,
             57069961, 1315168, 0, 0, 14093509};
-        assertFinite(SmoothingSplineEstimator.of(SPACE)
+        assertFinite(SmoothingSplineEstimator.withDefaults(SPACE)
                 .withZeroReplacement(ZeroReplacement.multiplicative(2.025468424977529E-273)).fit(EDGES, c));
     }
 
@@ -63,15 +63,15 @@ class EstimationEdgeCasesTest {
         double[] c = new double[20];
         Arrays.fill(c, 5);
         c[7] = 12;
-        assertFinite(PenalizedLikelihoodEstimator.of(SPACE).withSmoothing(0).fit(EDGES, c));
-        EstimationDiagnostics d = PenalizedLikelihoodEstimator.of(SPACE).withSmoothing(0).withReferencePrior(0)
+        assertFinite(PenalizedLikelihoodEstimator.withDefaults(SPACE).withSmoothing(0).fit(EDGES, c));
+        EstimationDiagnostics d = PenalizedLikelihoodEstimator.withDefaults(SPACE).withSmoothing(0).withReferencePrior(0)
                 .fit(EDGES, c).diagnostics();
         assertTrue(d.converged());
         assertEquals(SmoothingCriterion.AIC, d.criterion());
         assertEquals(-2 * d.logLikelihood() + 2 * d.effectiveDegreesOfFreedom(), d.criterionValue(), 0.0);
         assertTrue(d.reason().startsWith("the marginal likelihood is undefined at lambda = 0 without the reference"
                 + " prior") && d.reason().endsWith("AIC is reported instead"), d.reason());
-        assertFinite(SmoothingSplineEstimator.of(SPACE).withSmoothing(0).fit(EDGES, c));
+        assertFinite(SmoothingSplineEstimator.withDefaults(SPACE).withSmoothing(0).fit(EDGES, c));
     }
 
     // ---- fuzz findings (reproductions from the fuzz of issue 9 §4), edges E and two small spaces
@@ -112,20 +112,20 @@ class EstimationEdgeCasesTest {
      */
     @Test
     void totalsBeyondTwoToThe53AreRefused() {
-        PenalizedLikelihoodEstimator frac = PenalizedLikelihoodEstimator.of(SPL).withParallel(false)
+        PenalizedLikelihoodEstimator frac = PenalizedLikelihoodEstimator.withDefaults(SPL).withParallel(false)
                 .withFractionalCounts(true);
         assertTooLarge(() -> frac.fit(E, new double[] {7, 0.5, 0.5, 7, 7, 1e308}));
         assertTooLarge(() -> frac.withCriterion(SmoothingCriterion.AIC)
                 .fit(E, new double[] {4, 0.5, 1e308, 4.9e-324, 26, 4.9e-324}));
-        assertTooLarge(() -> PenalizedLikelihoodEstimator.of(STEPS).withFractionalCounts(true)
+        assertTooLarge(() -> PenalizedLikelihoodEstimator.withDefaults(STEPS).withFractionalCounts(true)
                 .fit(E, new double[] {3, 0.5, 20, 15, 30, 1e308}));
         assertTooLarge(() -> frac.fit(E, new double[] {1e308, 1e308, 1e308, 1e308, 1e308, 1e308})); // sum overflows
-        assertTooLarge(() -> PenalizedLikelihoodEstimator.of(SPL).fitSample(new double[] {0.2, 0.5, 0.7},
+        assertTooLarge(() -> PenalizedLikelihoodEstimator.withDefaults(SPL).fitSample(new double[] {0.2, 0.5, 0.7},
                 new double[] {1e-236, 1.7976931348623157E308, 1}));
-        assertTooLarge(() -> SmoothingSplineEstimator.of(SPL).fit(E, new double[] {7, 0.5, 0.5, 7, 7, 1e308}));
+        assertTooLarge(() -> SmoothingSplineEstimator.withDefaults(SPL).fit(E, new double[] {7, 0.5, 0.5, 7, 7, 1e308}));
         // just below the bound is accepted and finite
         double big = 0x1p53 / 8;
-        assertFinite(PenalizedLikelihoodEstimator.of(SPL).withFractionalCounts(true)
+        assertFinite(PenalizedLikelihoodEstimator.withDefaults(SPL).withFractionalCounts(true)
                 .fit(E, new double[] {big, big / 2, big, big, big / 4, big}));
     }
 
@@ -136,15 +136,15 @@ class EstimationEdgeCasesTest {
      */
     @Test
     void undefinedCriterionIsRefusedAndSubnormalCountsAreFinite() {
-        assertFinite(PenalizedLikelihoodEstimator.of(SPL).withParallel(false).withSmoothing(0)
+        assertFinite(PenalizedLikelihoodEstimator.withDefaults(SPL).withParallel(false).withSmoothing(0)
                 .fit(E, new int[] {3, 5, 8, 2, 6, 1}));
         double[] tiny = new double[6];
         Arrays.fill(tiny, Double.MIN_VALUE);
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> PenalizedLikelihoodEstimator
-                .of(STEPS).withFractionalCounts(true).withCriterion(SmoothingCriterion.AICC).fit(E, tiny));
+                .withDefaults(STEPS).withFractionalCounts(true).withCriterion(SmoothingCriterion.AICC).fit(E, tiny));
         assertTrue(e.getMessage().matches("unit #0: AICc is undefined with N = 3.0E-323 <= edf \\+ 1 = .*choose a"
                 + " criterion defined there.*"), e.getMessage());
-        assertFiniteAnyStatus(PenalizedLikelihoodEstimator.of(STEPS).withFractionalCounts(true).fit(E, tiny));
+        assertFiniteAnyStatus(PenalizedLikelihoodEstimator.withDefaults(STEPS).withFractionalCounts(true).fit(E, tiny));
     }
 
     /**
@@ -155,7 +155,7 @@ class EstimationEdgeCasesTest {
     @Test
     void singularInformationGivesFiniteNumbersAndSaysWhy() {
         double[] c = {14, 14, 0, 0, 0, 0};
-        PenalizedLikelihoodEstimator cv = PenalizedLikelihoodEstimator.of(STEPS).withParallel(false)
+        PenalizedLikelihoodEstimator cv = PenalizedLikelihoodEstimator.withDefaults(STEPS).withParallel(false)
                 .withFractionalCounts(true).withCrossValidation(4, 7L);
         UnitEstimate u = cv.fit(E, c);
         assertFinite(u);
@@ -173,7 +173,7 @@ class EstimationEdgeCasesTest {
      */
     @Test
     void emptyUnitHasThePriorCovariance() {
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(SPL).withParallel(false)
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(SPL).withParallel(false)
                 .withZeroTotal(ZeroTotalPolicy.REFERENCE);
         UnitEstimate u = est.fitSample(new double[] {0.2, 0.3}, new double[] {0, 0});
         assertFiniteAnyStatus(u);
@@ -185,7 +185,7 @@ class EstimationEdgeCasesTest {
         assertThrows(IllegalArgumentException.class, () -> est.withReferencePrior(0)
                 .fitSample(new double[] {0.2, 0.3}, new double[] {0, 0}));
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-                () -> SmoothingSplineEstimator.of(SPL).withZeroTotal(ZeroTotalPolicy.REFERENCE));
+                () -> SmoothingSplineEstimator.withDefaults(SPL).withZeroTotal(ZeroTotalPolicy.REFERENCE));
         assertTrue(e.getMessage().startsWith("the smoothing spline cannot return units without events"),
                 e.getMessage());
     }
@@ -203,7 +203,7 @@ class EstimationEdgeCasesTest {
             for (double x : new double[] {0.5, Math.nextDown(1.0), 0.0}) {
                 double[] v = new double[10];
                 Arrays.fill(v, x);
-                UnitEstimate u = PenalizedLikelihoodEstimator.of(SPL).withParallel(false).withCriterion(crit)
+                UnitEstimate u = PenalizedLikelihoodEstimator.withDefaults(SPL).withParallel(false).withCriterion(crit)
                         .fitSample(v);
                 assertFiniteAnyStatus(u);
                 org.ejml.interfaces.decomposition.EigenDecomposition_F64<org.ejml.data.DMatrixRMaj> eig =
@@ -222,14 +222,14 @@ class EstimationEdgeCasesTest {
     /** SS-1: a subnormal count (4.9e-324) among ordinary ones gives finite coordinates and diagnostics. */
     @Test
     void smoothingSplineSubnormalCountOnSteps() {
-        assertFinite(SmoothingSplineEstimator.of(STEPS).withParallel(false)
+        assertFinite(SmoothingSplineEstimator.withDefaults(STEPS).withParallel(false)
                 .fit(E, new double[] {2, 3.8e-191, 9, 4.9e-324, 20, 2.38}));
     }
 
     /** A tolerance below double rounding or an unbounded iteration budget is refused up front. */
     @Test
     void toleranceAndIterationBudgetAreValidated() {
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(SPACE);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(SPACE);
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> est.withTolerance(1e-300));
         assertTrue(e.getMessage().matches("tolerance must be in \\[1.0E-15, 0.001\\].*got 1.0E-300"), e.getMessage());
         assertThrows(IllegalArgumentException.class, () -> est.withTolerance(Double.NaN));
@@ -255,7 +255,7 @@ class EstimationEdgeCasesTest {
         int k = 5;
         double[][] test = new double[k][counts.length];
         double[] totals = new double[k];
-        PenalizedLikelihoodEstimator.splitCounts(counts, k, new SplittableRandom(3), test, totals);
+        CrossValidationFolds.splitCounts(counts, k, new SplittableRandom(3), test, totals);
         for (int j = 0; j < counts.length; j++) {
             double s = 0;
             for (int f = 0; f < k; f++) {
@@ -272,7 +272,7 @@ class EstimationEdgeCasesTest {
             }
         }
         double[][] big = new double[k][1];
-        assertThrows(IllegalArgumentException.class, () -> PenalizedLikelihoodEstimator.splitCounts(
+        assertThrows(IllegalArgumentException.class, () -> CrossValidationFolds.splitCounts(
                 new double[] {3e9}, k, new SplittableRandom(1), big, new double[k]));
     }
 
@@ -283,7 +283,7 @@ class EstimationEdgeCasesTest {
         for (int j = 0; j < 20; j++) {
             c[j] = Math.round(3e7 * Math.exp(-Math.pow((j - 9.5) / 5, 2)));
         }
-        assertFinite(PenalizedLikelihoodEstimator.of(SPACE).withCrossValidation(5, 9).fit(EDGES, c));
+        assertFinite(PenalizedLikelihoodEstimator.withDefaults(SPACE).withCrossValidation(5, 9).fit(EDGES, c));
     }
 
     /** A null id is named by its row instead of a NullPointerException from deep inside. */
@@ -292,12 +292,12 @@ class EstimationEdgeCasesTest {
         int[][] counts = {{1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10}, new int[20]};
         counts[1][3] = 4;
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-                () -> PenalizedLikelihoodEstimator.of(SPACE).fitAll(EDGES, counts, new String[] {"a", null}));
+                () -> PenalizedLikelihoodEstimator.withDefaults(SPACE).fitAll(EDGES, counts, new String[] {"a", null}));
         assertTrue(e.getMessage().startsWith("id of unit row 1 is null"), e.getMessage());
         e = assertThrows(IllegalArgumentException.class,
-                () -> SmoothingSplineEstimator.of(SPACE).fitAll(EDGES, counts, new String[] {null, "b"}));
+                () -> SmoothingSplineEstimator.withDefaults(SPACE).fitAll(EDGES, counts, new String[] {null, "b"}));
         assertTrue(e.getMessage().startsWith("id of unit row 0 is null"), e.getMessage());
-        assertThrows(IllegalArgumentException.class, () -> PenalizedLikelihoodEstimator.of(SPACE)
+        assertThrows(IllegalArgumentException.class, () -> PenalizedLikelihoodEstimator.withDefaults(SPACE)
                 .fitAllSamples(new double[][] {{0.5}}, null, new String[] {null}));
     }
 }

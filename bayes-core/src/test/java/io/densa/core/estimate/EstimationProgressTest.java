@@ -61,7 +61,7 @@ class EstimationProgressTest {
     void penalisedLikelihoodReportsUnitsDoneAndKeepsResults() {
         int n = 150;
         int[][] counts = counts(n, 3);
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(BayesSpace.splines(0, 1, 4, 6));
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(BayesSpace.splines(0, 1, 4, 6));
         BatchEstimate plain = est.fitAll(edges(0, 1, 25), counts, null);
         for (boolean par : new boolean[] {true, false}) {
             Recorder rec = new Recorder();
@@ -78,7 +78,7 @@ class EstimationProgressTest {
         for (int i = 0; i < samples.length; i++) {
             samples[i] = truth.sample(50 + r.nextInt(50), r);
         }
-        PenalizedLikelihoodEstimator se = PenalizedLikelihoodEstimator.of(BayesSpace.splines(truth.a, truth.b, 4, 6));
+        PenalizedLikelihoodEstimator se = PenalizedLikelihoodEstimator.withDefaults(BayesSpace.splines(truth.a, truth.b, 4, 6));
         Recorder rec = new Recorder();
         BatchEstimate a = se.fitAllSamples(samples, null, null);
         BatchEstimate b = se.withProgressListener(rec).fitAllSamples(samples, null, null);
@@ -91,7 +91,7 @@ class EstimationProgressTest {
     void smoothingSplineReportsUnitsDoneAndKeepsResults() {
         int n = 300;
         int[][] counts = counts(n, 8);
-        SmoothingSplineEstimator est = SmoothingSplineEstimator.of(BayesSpace.splines(0, 1, 4, 6));
+        SmoothingSplineEstimator est = SmoothingSplineEstimator.withDefaults(BayesSpace.splines(0, 1, 4, 6));
         BatchEstimate plain = est.fitAll(edges(0, 1, 25), counts, null);
         for (boolean par : new boolean[] {true, false}) {
             Recorder rec = new Recorder();

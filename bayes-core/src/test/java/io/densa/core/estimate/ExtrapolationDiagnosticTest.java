@@ -66,7 +66,7 @@ class ExtrapolationDiagnosticTest {
     void countsShareMatchesTheDefinition() {
         int[] counts = clippedCounts();
         for (double w : new double[] {0, 1}) {
-            UnitEstimate e = PenalizedLikelihoodEstimator.of(SPACE).withReferencePrior(w).fit(EDGES, counts);
+            UnitEstimate e = PenalizedLikelihoodEstimator.withDefaults(SPACE).withReferencePrior(w).fit(EDGES, counts);
             int first = 0;
             int last = 39;
             while (counts[first] == 0) {
@@ -89,7 +89,7 @@ class ExtrapolationDiagnosticTest {
         double[] kept = java.util.Arrays.stream(x).filter(v -> v < 0.6).toArray();
         double max = java.util.Arrays.stream(kept).max().getAsDouble();
         double min = java.util.Arrays.stream(kept).min().getAsDouble();
-        UnitEstimate e = PenalizedLikelihoodEstimator.of(SPACE).withReferencePrior(0).fitSample(kept);
+        UnitEstimate e = PenalizedLikelihoodEstimator.withDefaults(SPACE).withReferencePrior(0).fitSample(kept);
         double expected = share(e.density(), new double[][] {{0, min}, {max, 1}}, kept.length);
         assertEquals(expected, e.diagnostics().extrapolationShare(), 1e-6 + 1e-4 * expected);
     }
@@ -104,14 +104,14 @@ class ExtrapolationDiagnosticTest {
         int[] full = EstimationTestSupport.normal().counts(3000, 40, rng(7));
         int[][] rows = {full, clipped};
         String[] ids = {"full", "clipped"};
-        BatchEstimate plain = PenalizedLikelihoodEstimator.of(SPACE).withReferencePrior(0).fitAll(EDGES, rows, ids);
+        BatchEstimate plain = PenalizedLikelihoodEstimator.withDefaults(SPACE).withReferencePrior(0).fitAll(EDGES, rows, ids);
         double low = Double.POSITIVE_INFINITY;
         for (int i = 0; i <= 100; i++) {
             low = Math.min(low, plain.densities().get(1).clr(i / 100.0));
         }
         assertTrue(low < -15, "lowest clr " + low);
         assertEquals(List.of("clipped"), plain.extrapolatedIds(), plain.diagnostics().toString());
-        BatchEstimate def = PenalizedLikelihoodEstimator.of(SPACE).fitAll(EDGES, rows, ids);
+        BatchEstimate def = PenalizedLikelihoodEstimator.withDefaults(SPACE).fitAll(EDGES, rows, ids);
         assertEquals(List.of(), def.extrapolatedIds(), def.diagnostics().toString());
         assertTrue(def.diagnostics().get(1).extrapolationShare() < plain.diagnostics().get(1).extrapolationShare());
     }
@@ -122,17 +122,17 @@ class ExtrapolationDiagnosticTest {
         int[] c = new int[40];
         java.util.Arrays.fill(c, 5);
         c[17] = 40;
-        EstimationDiagnostics d = PenalizedLikelihoodEstimator.of(SPACE).fit(EDGES, c).diagnostics();
+        EstimationDiagnostics d = PenalizedLikelihoodEstimator.withDefaults(SPACE).fit(EDGES, c).diagnostics();
         assertEquals(0.0, d.extrapolationShare());
         assertFalse(d.extrapolated());
-        EstimationDiagnostics s = SmoothingSplineEstimator.of(SPACE).fit(EDGES, c).diagnostics();
+        EstimationDiagnostics s = SmoothingSplineEstimator.withDefaults(SPACE).fit(EDGES, c).diagnostics();
         assertEquals(0.0, s.extrapolationShare());
     }
 
     /** A unit without events returned as the reference is entirely prior: share 1, flagged. */
     @Test
     void emptyUnitIsFlagged() {
-        BatchEstimate b = PenalizedLikelihoodEstimator.of(SPACE).withZeroTotal(ZeroTotalPolicy.REFERENCE)
+        BatchEstimate b = PenalizedLikelihoodEstimator.withDefaults(SPACE).withZeroTotal(ZeroTotalPolicy.REFERENCE)
                 .fitAll(EDGES, new int[][] {clippedCounts(), new int[40]}, new String[] {"a", "b"});
         assertEquals(1.0, b.diagnostics().get(1).extrapolationShare());
         assertTrue(b.extrapolatedIds().contains("b"));

@@ -16,7 +16,8 @@ import org.junit.jupiter.api.Test;
  * Cross-validation fold streams: one independent stream per unit. A SplittableRandom seeded with
  * seed ^ (γ·(i + 1)) for its own increment γ gives, for seed 1, unit i + 2 the stream of unit i
  * shifted by two draws (SplittableRandom adds γ to its state each draw; Steele, Lea &amp; Flood
- * (2014), Fast splittable pseudorandom number generators, OOPSLA — from memory).
+ * (2014), Fast splittable pseudorandom number generators, OOPSLA — from memory; the JDK's
+ * SplittableRandom is the independent implementation it is checked against, see also SeedsTest).
  */
 class FoldStreamTest {
 
@@ -34,9 +35,9 @@ class FoldStreamTest {
         int m = 64;
         for (long seed : new long[] {0, 1, 2, 42, -1}) {
             for (int i = 0; i < 20; i++) {
-                long[] a = draws(PenalizedLikelihoodEstimator.foldStream(seed, i), m);
+                long[] a = draws(CrossValidationFolds.foldStream(seed, i), m);
                 for (int s = 1; s <= 4; s++) {
-                    long[] b = draws(PenalizedLikelihoodEstimator.foldStream(seed, i + s), m);
+                    long[] b = draws(CrossValidationFolds.foldStream(seed, i + s), m);
                     int equal = 0;
                     for (int j = 0; j + s < m; j++) {
                         if (a[j + s] == b[j]) {
@@ -46,7 +47,7 @@ class FoldStreamTest {
                     assertEquals(0, equal, "seed " + seed + ": unit " + (i + s) + " repeats unit " + i
                             + " shifted by " + s + " draws in " + equal + " places");
                 }
-                long[] other = draws(PenalizedLikelihoodEstimator.foldStream(seed, i + 1), m);
+                long[] other = draws(CrossValidationFolds.foldStream(seed, i + 1), m);
                 assertFalse(java.util.Arrays.equals(a, other), "seed " + seed + ", unit " + i);
             }
         }
@@ -62,7 +63,7 @@ class FoldStreamTest {
         for (int i = 0; i < n; i++) {
             counts[i] = truth.counts(60 + r.nextInt(100), 20, r);
         }
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(BayesSpace.splines(0, 1, 4, 6))
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(BayesSpace.splines(0, 1, 4, 6))
                 .withCrossValidation(5, 1);
         BatchEstimate par = est.withParallel(true).fitAll(edges(0, 1, 20), counts, null);
         BatchEstimate ser = est.withParallel(false).fitAll(edges(0, 1, 20), counts, null);

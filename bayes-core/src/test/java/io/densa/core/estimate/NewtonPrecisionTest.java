@@ -89,7 +89,7 @@ class NewtonPrecisionTest {
             clipped[j] = 0;
         }
         BayesSpace space = BayesSpace.splines(0, 1, 4, KNOTS);
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space);
         BatchEstimate fit = est.fitAll(e, new int[][] {clipped, raw}, new String[] {"clipped", "plain"},
                 new DetectionLimits(new double[] {e[10], Double.NaN}, new double[] {Double.NaN, Double.NaN}));
         assertTrue(fit.diagnostics().get(0).converged(), fit.diagnostics().get(0).toString());
@@ -129,7 +129,7 @@ class NewtonPrecisionTest {
 
     private static void check(int[] counts, double[] sample, int bins, double priorWeight) {
         BayesSpace space = BayesSpace.splines(0, 1, 4, KNOTS);
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space).withReferencePrior(priorWeight);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space).withReferencePrior(priorWeight);
         UnitEstimate fit = counts != null ? est.fit(edges(0, 1, bins), counts) : est.fitSample(sample);
         assertTrue(fit.diagnostics().converged(), fit.diagnostics().toString());
         double lambda = fit.diagnostics().smoothing();

@@ -21,7 +21,8 @@ import org.junit.jupiter.api.Test;
 class PenalizedLikelihoodEstimatorTest {
 
     /**
-     * Closed form (REFERENCES.md §2, derived there): on [−1, 1] with Lebesgue reference,
+     * Closed form (derived in ClosedFormNormalTest's class comment; exponential families are linear
+     * subspaces, Egozcue et al. (2006); van den Boogaart et al. (2014)): on [−1, 1] with Lebesgue reference,
      * clr N(0, 0.5²)(x) = −2x² + 2/3, so ∫ (clr'')² dx = ∫ 16 dx = 32 and ∫ (clr')² dx = ∫ 16 x² dx
      * = 32/3. The quadratic lies exactly in cubic-spline and quartic-polynomial spaces.
      */
@@ -31,7 +32,7 @@ class PenalizedLikelihoodEstimatorTest {
                 BayesSpace.splines(-1, 1, 5, new double[] {-0.6, -0.1, 0.3, 0.35, 0.8}))) {
             Density f = space.project(x -> Math.exp(-x * x / (2 * 0.25))).density();
             for (int order = 1; order <= 2; order++) {
-                DMatrixRMaj omega = PenalizedLikelihoodEstimator.of(space).withPenaltyOrder(order).penalty();
+                DMatrixRMaj omega = PenalizedLikelihoodEstimator.withDefaults(space).withPenaltyOrder(order).penalty();
                 double[] c = f.coordinates();
                 double q = 0;
                 for (int i = 0; i < c.length; i++) {
@@ -58,7 +59,7 @@ class PenalizedLikelihoodEstimatorTest {
                 EstimationTestSupport.gamma(), EstimationTestSupport.mixture())) {
             BayesSpace space = BayesSpace.splines(truth.a, truth.b, 4, 12);
             Density target = space.project(truth.pdfFunction()).density();
-            PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space);
+            PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space);
             int[] sizes = {200, 2000, 20000};
             int reps = 5;
             double[] dS = new double[3], ksS = new double[3], dC = new double[3], ksC = new double[3];
@@ -111,7 +112,7 @@ class PenalizedLikelihoodEstimatorTest {
             ids[i] = "unit-" + i;
         }
         BayesSpace space = BayesSpace.splines(0, 1, 4, 10);
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space);
         BatchEstimate par = est.withParallel(true).fitAll(edges(0, 1, 40), counts, ids);
         BatchEstimate ser = est.withParallel(false).fitAll(edges(0, 1, 40), counts, ids);
         assertArrayEquals(ser.densities().coordinatesRowMajor(), par.densities().coordinatesRowMajor());
@@ -147,8 +148,8 @@ class PenalizedLikelihoodEstimatorTest {
             for (int i = 0; i < n; i++) {
                 counts[i] = truth.counts(20 + r.nextInt(31), 50, r);
             }
-            double mSs = meanError(SmoothingSplineEstimator.of(space).fitAll(e, counts, null), target);
-            double mPl = meanError(PenalizedLikelihoodEstimator.of(space).fitAll(e, counts, null), target);
+            double mSs = meanError(SmoothingSplineEstimator.withDefaults(space).fitAll(e, counts, null), target);
+            double mPl = meanError(PenalizedLikelihoodEstimator.withDefaults(space).fitAll(e, counts, null), target);
             System.out.printf("sparse %-8s mean B2 error: penalised likelihood (marginal likelihood) %.4f, zero"
                     + " replacement + smoothing spline %.4f, margin %.4f (%.0f %% lower)%n", truth.name, mPl, mSs,
                     mSs - mPl, 100 * (mSs - mPl) / mSs);
@@ -177,7 +178,7 @@ class PenalizedLikelihoodEstimatorTest {
         int[] counts = EstimationTestSupport.mixture().counts(3000, 40, rng(77));
         for (SmoothingCriterion c : List.of(SmoothingCriterion.GCV, SmoothingCriterion.AIC, SmoothingCriterion.AICC,
                 SmoothingCriterion.MARGINAL_LIKELIHOOD)) {
-            PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space).withCriterion(c);
+            PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space).withCriterion(c);
             EstimationDiagnostics chosen = est.fit(e, counts).diagnostics();
             double step = 0.02;
             double[] gs = new double[(int) Math.round(8 / step) + 1];
@@ -209,7 +210,7 @@ class PenalizedLikelihoodEstimatorTest {
     @Test
     void zeroTotalUnitGivesFlaggedReference() {
         BayesSpace space = BayesSpace.splines(0, 1, 4, 5);
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space).withZeroTotal(ZeroTotalPolicy.REFERENCE);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space).withZeroTotal(ZeroTotalPolicy.REFERENCE);
         BatchEstimate b = est.fitAll(edges(0, 1, 10), new int[][] {{1, 2, 3, 4, 5, 4, 3, 2, 1, 1}, new int[10]},
                 new String[] {"a", "b"});
         EstimationDiagnostics d = b.diagnostics().get(1);
@@ -230,7 +231,7 @@ class PenalizedLikelihoodEstimatorTest {
     void nonConvergenceIsReported() {
         BayesSpace space = BayesSpace.splines(0, 1, 4, 10);
         int[] counts = EstimationTestSupport.mixture().counts(500, 40, rng(3));
-        EstimationDiagnostics d = PenalizedLikelihoodEstimator.of(space).withSmoothing(1e-6).withMaxIterations(1)
+        EstimationDiagnostics d = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(1e-6).withMaxIterations(1)
                 .fit(edges(0, 1, 40), counts).diagnostics();
         assertEquals(EstimationDiagnostics.Status.NOT_CONVERGED, d.status());
         assertTrue(d.reason().matches("no convergence in 1 Newton iterations.*"), d.reason());
@@ -251,7 +252,7 @@ class PenalizedLikelihoodEstimatorTest {
                 rep[p++] = x[i];
             }
         }
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.of(space).withSmoothing(1e-3);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(1e-3);
         Density a = est.fitSample(x, w).density();
         Density b = est.fitSample(java.util.Arrays.copyOf(rep, p)).density();
         assertTrue(a.equalsWithin(b, 1e-8), a.distance(b) + "");
@@ -267,7 +268,7 @@ class PenalizedLikelihoodEstimatorTest {
         BayesSpace space = BayesSpace.steps(e);
         int[] n = {3, 5, 7, 2, 9};
         // the closed form is the plain MLE: no penalty and no reference prior
-        UnitEstimate f = PenalizedLikelihoodEstimator.of(space).withSmoothing(0).withReferencePrior(0).fit(e, n);
+        UnitEstimate f = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(0).withReferencePrior(0).fit(e, n);
         assertTrue(f.diagnostics().converged(), f.diagnostics().toString());
         for (int j = 0; j < n.length; j++) {
             double mid = 0.5 * (e[j] + e[j + 1]);
@@ -282,7 +283,7 @@ class PenalizedLikelihoodEstimatorTest {
      * equals the Fisher information at the MLE π̂ = n/N, so the reported B2 variance is
      * N/(N − edf) times the delta-method variance of the clr of the proportions,
      * Cov(log π̂) = (diag(1/π) − 11')/N (delta method for the multinomial, e.g. Agresti (2002),
-     * Categorical Data Analysis, §14.1; from memory): with clr = C log π + const,
+     * Categorical Data Analysis, §14.1; from memory, confirmed below by a numerical Jacobian): with clr = C log π + const,
      * C = I − 1h'/|I|, the trace is Σ_j h_j (C diag(1/π) C')_jj / (N − edf), edf = D − 1.
      */
     @Test
@@ -291,7 +292,7 @@ class PenalizedLikelihoodEstimatorTest {
         BayesSpace space = BayesSpace.steps(e);
         int[] n = {3, 5, 7, 2, 9};
         int total = 26;
-        EstimationDiagnostics d = PenalizedLikelihoodEstimator.of(space).withSmoothing(0).withReferencePrior(0).fit(e, n)
+        EstimationDiagnostics d = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(0).withReferencePrior(0).fit(e, n)
                 .diagnostics();
         double expected = 0;
         for (int j = 0; j < n.length; j++) {
@@ -304,10 +305,61 @@ class PenalizedLikelihoodEstimatorTest {
         }
         expected /= total - (n.length - 1);
         assertEquals(expected, d.estimationVariance(), 1e-8 * expected);
+        // second derivation of the recalled delta method: the Jacobian J of π ↦ clr (per bin,
+        // clr_j = log(π_j/h_j) − Σ_i h_i log(π_i/h_i)) by central differences, the multinomial
+        // covariance (diag(π) − ππ')/N, and Cov(clr) = J Σ J' by EJML products
+        int dd = n.length;
+        double[] pi = new double[dd];
+        for (int j = 0; j < dd; j++) {
+            pi[j] = n[j] / (double) total;
+        }
+        org.ejml.data.DMatrixRMaj jac = new org.ejml.data.DMatrixRMaj(dd, dd);
+        for (int i = 0; i < dd; i++) {
+            double step = 1e-6 * pi[i];
+            double[] up = pi.clone(), down = pi.clone();
+            up[i] += step;
+            down[i] -= step;
+            double[] cu = binClr(up, e), cd = binClr(down, e);
+            for (int j = 0; j < dd; j++) {
+                jac.set(j, i, (cu[j] - cd[j]) / (2 * step));
+            }
+        }
+        org.ejml.data.DMatrixRMaj sigma = new org.ejml.data.DMatrixRMaj(dd, dd);
+        for (int i = 0; i < dd; i++) {
+            for (int j = 0; j < dd; j++) {
+                sigma.set(i, j, ((i == j ? pi[i] : 0) - pi[i] * pi[j]) / total);
+            }
+        }
+        org.ejml.data.DMatrixRMaj tmp = new org.ejml.data.DMatrixRMaj(dd, dd);
+        org.ejml.data.DMatrixRMaj cov = new org.ejml.data.DMatrixRMaj(dd, dd);
+        org.ejml.dense.row.CommonOps_DDRM.mult(jac, sigma, tmp);
+        org.ejml.dense.row.CommonOps_DDRM.multTransB(tmp, jac, cov);
+        double trace = 0;
+        for (int j = 0; j < dd; j++) {
+            trace += (e[j + 1] - e[j]) * cov.get(j, j);
+        }
+        trace *= total / (double) (total - (dd - 1));
+        assertEquals(trace, d.estimationVariance(), 1e-6 * trace);
+    }
+
+    /** clr of the step density with bin probabilities π on bins of widths h (Lebesgue on [0, 1]), per bin. */
+    private static double[] binClr(double[] pi, double[] e) {
+        double mean = 0;
+        double[] l = new double[pi.length];
+        for (int i = 0; i < pi.length; i++) {
+            double h = e[i + 1] - e[i];
+            l[i] = Math.log(pi[i] / h);
+            mean += h * l[i];
+        }
+        for (int i = 0; i < pi.length; i++) {
+            l[i] -= mean;
+        }
+        return l;
     }
 
     /**
-     * Closed form (exponential families, REFERENCES.md §2): in a polynomial space of degree 2 the
+     * Closed form (exponential families are linear subspaces: Egozcue et al. (2006), van den Boogaart
+     * et al. (2014)): in a polynomial space of degree 2 the
      * unpenalised sample MLE is the truncated normal whose first two moments equal the sample's
      * (score equations Σ T(x_i) = n E_f[T]).
      */
@@ -315,7 +367,7 @@ class PenalizedLikelihoodEstimatorTest {
     void polynomialSampleMleMatchesMoments() {
         BayesSpace space = BayesSpace.polynomials(0, 1, 2);
         double[] x = EstimationTestSupport.beta().sample(5000, rng(21));
-        UnitEstimate f = PenalizedLikelihoodEstimator.of(space).withSmoothing(0).withReferencePrior(0).fitSample(x);
+        UnitEstimate f = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(0).withReferencePrior(0).fitSample(x);
         double m1 = 0, m2 = 0;
         for (double v : x) {
             m1 += v / x.length;
@@ -336,8 +388,8 @@ class PenalizedLikelihoodEstimatorTest {
         BayesSpace wtd = leb.withReference(Reference.normal(0.5, 0.3));
         int[] counts = EstimationTestSupport.mixture().counts(20000, 50, rng(4));
         double[] e = edges(0, 1, 50);
-        Density a = PenalizedLikelihoodEstimator.of(leb).fit(e, counts).density();
-        Density b = PenalizedLikelihoodEstimator.of(wtd).fit(e, counts).density();
+        Density a = PenalizedLikelihoodEstimator.withDefaults(leb).fit(e, counts).density();
+        Density b = PenalizedLikelihoodEstimator.withDefaults(wtd).fit(e, counts).density();
         for (double x = 0.05; x < 1; x += 0.05) {
             assertEquals(a.cdf(x), b.cdf(x), 0.01, "cdf at " + x);
         }
@@ -349,7 +401,7 @@ class PenalizedLikelihoodEstimatorTest {
     void binsInsideTheDomain() {
         BayesSpace space = BayesSpace.splines(0, 1, 4, 6);
         double[] e = {0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8};
-        UnitEstimate f = PenalizedLikelihoodEstimator.of(space).fit(e, new int[] {5, 9, 14, 12, 8, 3});
+        UnitEstimate f = PenalizedLikelihoodEstimator.withDefaults(space).fit(e, new int[] {5, 9, 14, 12, 8, 3});
         assertTrue(f.diagnostics().converged(), f.diagnostics().toString());
         double mass = f.density().cdf(0.8) - f.density().cdf(0.2);
         assertTrue(mass > 0.5 && mass <= 1, "mass on the binned range " + mass);

@@ -31,7 +31,7 @@ class SmoothingSplineEstimatorTest {
         int bins = 30;
         double[] e = edges(0, 1, bins);
         double[] counts = Arrays.stream(truth.counts(400, bins, rng(11))).asDoubleStream().toArray();
-        SmoothingSplineEstimator est = SmoothingSplineEstimator.of(space);
+        SmoothingSplineEstimator est = SmoothingSplineEstimator.withDefaults(space);
         UnitEstimate fit = est.fit(e, counts);
         double chosen = fit.diagnostics().smoothing();
 
@@ -123,7 +123,7 @@ class SmoothingSplineEstimatorTest {
                 EstimationTestSupport.gamma())) {
             BayesSpace space = BayesSpace.splines(truth.a, truth.b, 4, 10);
             Density target = space.project(truth.pdfFunction()).density();
-            SmoothingSplineEstimator est = SmoothingSplineEstimator.of(space);
+            SmoothingSplineEstimator est = SmoothingSplineEstimator.withDefaults(space);
             int[] sizes = {500, 5000, 50000};
             double[] d = new double[3], kd = new double[3];
             int reps = 5;
@@ -154,7 +154,7 @@ class SmoothingSplineEstimatorTest {
         for (int i = 0; i < counts.length; i++) {
             counts[i] = truth.counts(30 + r.nextInt(300), 30, r);
         }
-        SmoothingSplineEstimator est = SmoothingSplineEstimator.of(BayesSpace.splines(0, 1, 4, 8));
+        SmoothingSplineEstimator est = SmoothingSplineEstimator.withDefaults(BayesSpace.splines(0, 1, 4, 8));
         BatchEstimate p = est.withParallel(true).fitAll(edges(0, 1, 30), counts, null);
         BatchEstimate s = est.withParallel(false).fitAll(edges(0, 1, 30), counts, null);
         assertArrayEquals(s.densities().coordinatesRowMajor(), p.densities().coordinatesRowMajor());

@@ -14,8 +14,9 @@ class ZeroReplacementTest {
     /**
      * Worked example, counts (0, 3, 7, 10): the formulas are from memory of Martín-Fernández, Hron,
      * Templ, Filzmoser, Palarea-Albaladejo (2015), Bayesian-multiplicative treatment of count zeros in
-     * compositional data sets, Statistical Modelling 15(2); the numbers are the ones derived in
-     * REFERENCES.md §5 (tag [D]: derived there and verified two ways), not values printed in the paper.
+     * compositional data sets, Statistical Modelling 15(2); the numbers were derived by hand from
+     * those formulas (they are not values printed in the paper) and are derived a second way in
+     * {@link #zeroPartIsDirichletPosteriorMean()} (Dirichlet–multinomial conjugacy).
      */
     @Test
     void reproducesWorkedExample() {

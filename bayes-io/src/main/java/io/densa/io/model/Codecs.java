@@ -569,7 +569,7 @@ final class Codecs {
                 t.get("tolerance").real(), t.get("quadraturePoints").integer(0, 16),
                 t.get("zeroTotal").enumValue(ZeroTotalPolicy.class), t.get("fractionalCounts").bool(),
                 t.get("parallel").bool(), t.get("referencePriorWeight").real());
-        return restoring(t, () -> PenalizedLikelihoodEstimator.of(s).withSettings(st));
+        return restoring(t, () -> PenalizedLikelihoodEstimator.withDefaults(s).withSettings(st));
     }
 
     static SmoothingSplineEstimator readSmoothing(Node p) {
@@ -591,7 +591,7 @@ final class Codecs {
                 t.get("penaltyOrder").integer(1, 64), t.get("smoothing").real(), t.get("gcvLog10Lo").real(),
                 t.get("gcvLog10Hi").real(), t.get("zeroTotal").enumValue(ZeroTotalPolicy.class),
                 t.get("parallel").bool());
-        return restoring(t, () -> SmoothingSplineEstimator.of(s).withSettings(st));
+        return restoring(t, () -> SmoothingSplineEstimator.withDefaults(s).withSettings(st));
     }
 
     static Design readDesign(Node n) {

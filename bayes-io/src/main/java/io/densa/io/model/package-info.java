@@ -4,8 +4,8 @@
  *
  * <p>A baseline fitted once and scored in another process:
  * <pre>{@code
- * FunctionOnFunctionFit fit = FunctionalRegression.truncation().fitDensityResponse(List.of(past), null, now);
- * AnomalyScoring.Calibrated calibrated = AnomalyScoring.withDefaults().calibrate(heldOutResiduals, grid);
+ * FunctionOnFunctionFit fit = FunctionalRegression.truncation().fit(List.of(past), null, now);
+ * AnomalyScoring.Calibrated calibrated = AnomalyScoring.withDefaults().fit(heldOutResiduals, grid);
  * ModelFile.save(Path.of("baseline.densa.json"),
  *         ModelBundle.of(Map.of("fit", fit, "calibration", calibrated)));
  *

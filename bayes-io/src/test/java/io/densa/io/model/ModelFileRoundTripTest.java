@@ -142,22 +142,22 @@ class ModelFileRoundTripTest {
             }
         }
         String[] ids = {"a", "b", "c", "d", "e", "f"};
-        PenalizedLikelihoodEstimator ple = PenalizedLikelihoodEstimator.of(SPACE).withCrossValidation(3, 77)
+        PenalizedLikelihoodEstimator ple = PenalizedLikelihoodEstimator.withDefaults(SPACE).withCrossValidation(3, 77)
                 .withSmoothingGrid(-5, 2, 0.5).withReferencePrior(2).withMaxIterations(60).withTolerance(1e-11);
         PenalizedLikelihoodEstimator pleBack = roundTrip(ple);
         assertEquals(ple.settings(), pleBack.settings());
         assertBits(ple.fitAll(edges, counts, ids).densities().coordinatesRowMajor(),
                 pleBack.fitAll(edges, counts, ids).densities().coordinatesRowMajor());
-        PenalizedLikelihoodEstimator fixed = PenalizedLikelihoodEstimator.of(SPACE).withSmoothing(0.25)
+        PenalizedLikelihoodEstimator fixed = PenalizedLikelihoodEstimator.withDefaults(SPACE).withSmoothing(0.25)
                 .withCriterion(SmoothingCriterion.AIC).withSmoothing(0.25);
         assertEquals(fixed.settings(), roundTrip(fixed).settings());
 
-        SmoothingSplineEstimator sse = SmoothingSplineEstimator.of(SPACE)
+        SmoothingSplineEstimator sse = SmoothingSplineEstimator.withDefaults(SPACE)
                 .withZeroReplacement(ZeroReplacement.multiplicative(0.01)).withGcv(-8, 4).withParallel(false);
         SmoothingSplineEstimator sseBack = roundTrip(sse);
         assertBits(sse.fitAll(edges, counts, ids).densities().coordinatesRowMajor(),
                 sseBack.fitAll(edges, counts, ids).densities().coordinatesRowMajor());
-        SmoothingSplineEstimator bayes = SmoothingSplineEstimator.of(SPACE).withSmoothing(3);
+        SmoothingSplineEstimator bayes = SmoothingSplineEstimator.withDefaults(SPACE).withSmoothing(3);
         assertBits(bayes.fitAll(edges, counts, ids).densities().coordinatesRowMajor(),
                 roundTrip(bayes).fitAll(edges, counts, ids).densities().coordinatesRowMajor());
     }
@@ -168,7 +168,7 @@ class ModelFileRoundTripTest {
         Fpca f = Fpca.fit(d);
         Fpca back = roundTrip(f);
         DensitySet fresh = profiles(SPACE, 9, 4, "v");
-        assertBits(f.scores(fresh, 4).data, back.scores(fresh, 4).data);
+        assertBits(f.scores(fresh, 4).values(), back.scores(fresh, 4).values());
         assertBits(f.reconstruct(fresh, 3).coordinatesRowMajor(), back.reconstruct(fresh, 3).coordinatesRowMajor());
         assertBits(f.explainedVariance(), back.explainedVariance());
         assertBits(f.totalVariance(), back.totalVariance());
@@ -226,7 +226,7 @@ class ModelFileRoundTripTest {
         DensitySet now = profiles(SPACE, n, 10, "d");
         Design cov = Design.builder().numeric("rate", new Random(11).doubles(n, 0, 1).toArray()).build();
         FunctionOnFunctionFit fit = FunctionalRegression.truncation().withComponents(1, 4).withCrossValidation(4, 12)
-                .fitDensityResponse(List.of(past), cov, now);
+                .fit(List.of(past), cov, now);
         FunctionOnFunctionFit back = roundTrip(fit);
         DensitySet pastNew = profiles(PREDICTOR_SPACE, 7, 13, "e");
         DensitySet nowNew = profiles(SPACE, 7, 14, "e");
@@ -239,12 +239,12 @@ class ModelFileRoundTripTest {
         assertBits(fit.residualNorms(), back.residualNorms());
         assertEquals(fit.chosen(), back.chosen());
         assertEquals(fit.crossValidation(), back.crossValidation());
-        assertBits(fit.predictorFpca(0).scores(pastNew, 3).data, back.predictorFpca(0).scores(pastNew, 3).data);
+        assertBits(fit.predictorFpca(0).scores(pastNew, 3).values(), back.predictorFpca(0).scores(pastNew, 3).values());
         assertBits(fit.kernel(0, new double[] {5, 40}, new double[] {10, 90}).data,
                 back.kernel(0, new double[] {5, 40}, new double[] {10, 90}).data);
 
         FunctionOnFunctionFit ridge = FunctionalRegression.ridge().withLambdas(0.01, 0.1, 1).withCrossValidation(3, 1)
-                .fitDensityResponse(List.of(past), null, now);
+                .fit(List.of(past), null, now);
         assertBits(ridge.predict(List.of(pastNew), null).coordinatesRowMajor(),
                 roundTrip(ridge).predict(List.of(pastNew), null).coordinatesRowMajor());
     }
@@ -258,7 +258,7 @@ class ModelFileRoundTripTest {
         for (int i = 0; i < n; i++) {
             y[i] = x.get(i).mean() * 0.1 + r.nextGaussian();
         }
-        ScalarOnFunctionFit fit = FunctionalRegression.truncation().withComponents(1, 3).fitScalarResponse(List.of(x),
+        ScalarOnFunctionFit fit = FunctionalRegression.truncation().withComponents(1, 3).fit(List.of(x),
                 null, y);
         ScalarOnFunctionFit back = roundTrip(fit);
         DensitySet fresh = profiles(PREDICTOR_SPACE, 6, 18, "t");
@@ -273,7 +273,7 @@ class ModelFileRoundTripTest {
         DensitySet resid = base.centred();
         double[] grid = {5, 20, 35, 50, 65, 80, 95};
         AnomalyScoring.Calibrated cal = AnomalyScoring.withDefaults().withFdr(0.2).withBandLevel(0.8)
-                .calibrate(resid, grid);
+                .fit(resid, grid);
         AnomalyScoring.Calibrated back = roundTrip(cal);
         DensitySet fresh = profiles(SPACE, 10, 20, "n").perturb(SPACE.density(1.5, -1, 0.5, 0.2, 0, 0.3, -0.2, 0.1))
                 .centred();
@@ -375,7 +375,7 @@ class ModelFileRoundTripTest {
         m.put("data", d);
         ModelBundle back = roundTrip(ModelBundle.of(m));
         assertEquals(List.copyOf(m.keySet()), new ArrayList<>(back.entries().keySet()));
-        assertBits(f.scores(d, 2).data, back.get("fpca", Fpca.class).scores(d, 2).data);
+        assertBits(f.scores(d, 2).values(), back.get("fpca", Fpca.class).scores(d, 2).values());
         assertEquals(SPACE, back.get("space", BayesSpace.class));
         assertTrue(ModelFile.load(writeBytes(ModelFile.toBytes(SPACE)), Object.class) instanceof BayesSpace);
     }

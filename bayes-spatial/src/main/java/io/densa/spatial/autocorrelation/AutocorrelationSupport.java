@@ -1,6 +1,7 @@
 package io.densa.spatial.autocorrelation;
 
 import io.densa.core.DensaException;
+import io.densa.core.NumericalDiagnostics;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.Seeds;
@@ -69,7 +70,8 @@ final class AutocorrelationSupport {
     }
 
     /** Degenerate-variance diagnostics. */
-    record VarianceDiagnostics(String statistic, String assumption, double variance, int units) {
+    record VarianceDiagnostics(String statistic, String assumption, double variance, int units)
+            implements NumericalDiagnostics {
     }
 
     /** A statistic of the values permuted by perm (value of unit i is the original value of perm[i]). */

@@ -1,5 +1,6 @@
 package io.densa.spatial.kriging;
 
+import io.densa.core.NumericalDiagnostics;
 import io.densa.core.internal.RecordArrays;
 
 /**
@@ -14,7 +15,8 @@ import io.densa.core.internal.RecordArrays;
  * @param locations         the data location indices of the system (ascending)
  * @param detail            what failed
  */
-public record KrigingDiagnostics(int systemSize, double conditionEstimate, int[] locations, String detail) {
+public record KrigingDiagnostics(int systemSize, double conditionEstimate, int[] locations, String detail)
+        implements NumericalDiagnostics {
 
     /** Copies the array components (the caller keeps its arrays). */
     public KrigingDiagnostics {

@@ -1,6 +1,7 @@
 package io.densa.spatial.kriging;
 
 import io.densa.core.DensaException;
+import io.densa.core.SolveDiagnostics;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
 import org.ejml.interfaces.decomposition.EigenDecomposition_F64;
@@ -24,7 +25,8 @@ record SymmetricEigen(double[] values, double[] vectors) {
         EigenDecomposition_F64<DMatrixRMaj> eig = DecompositionFactory_DDRM.eig(k, true, true);
         if (!eig.decompose(m)) {
             throw new DensaException("the eigen-decomposition of the " + k + " x " + k + " coordinate covariance did"
-                    + " not converge", null);
+                    + " not converge", new SolveDiagnostics("eigen-decomposition of the coordinate covariance", k,
+                    Double.NaN));
         }
         Integer[] order = new Integer[k];
         double[] val = new double[k];

@@ -1,6 +1,7 @@
 package io.densa.spatial.variogram;
 
 import io.densa.core.DensaException;
+import io.densa.core.NumericalDiagnostics;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
@@ -310,7 +311,8 @@ public final class VariogramFitting {
     }
 
     /** Starting point at which the criterion failed. */
-    record FitStart(VariogramModel.Family family, double partialSill, double range, double nugget) {
+    record FitStart(VariogramModel.Family family, double partialSill, double range, double nugget)
+            implements NumericalDiagnostics {
     }
 
     /** One optimiser run: end point, criterion, whether it converged, the fallback reason if any. */
