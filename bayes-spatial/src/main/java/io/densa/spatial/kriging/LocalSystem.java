@@ -18,12 +18,6 @@ import org.ejml.data.DMatrixRMaj;
  */
 final class LocalSystem {
     /**
-     * Largest system factorised by the division-form loop below; larger ones (up to
-     * {@link Cholesky#LARGE}) use {@link Cholesky#factor}, whose reciprocal form differs in the last
-     * bits.
-     */
-    private static final int OWN_FACTOR_LIMIT = 160;
-    /**
      * Largest accepted relative residual of the unbiasedness constraints Fᵀλ = f0, per drift
      * function |(Fᵀλ − f0)_j| / max(1, |f0_j|): weights that sum to 1 ± 10⁻⁶ (our choice; well
      * conditioned systems give about 10⁻¹⁵, and far outside the data the residual grows with the
@@ -136,39 +130,12 @@ final class LocalSystem {
             }
             return l;
         }
-        if (m > OWN_FACTOR_LIMIT) {
-            // the same arithmetic as EJML's inner Cholesky, which served these sizes before
-            if (Cholesky.factor(a, m, m, 0) >= 0) {
-                throw breakdown(m, idx, what);
-            }
-            for (int r = 0; r < m; r++) {
-                for (int c = r + 1; c < m; c++) {
-                    a[r * m + c] = 0;
-                }
-            }
-            return a;
+        if (Cholesky.factor(a, m, m, 0) >= 0) {
+            throw breakdown(m, idx, what);
         }
-        for (int j = 0; j < m; j++) {
-            int jo = j * m;
-            double d = a[jo + j];
-            for (int c = 0; c < j; c++) {
-                d -= a[jo + c] * a[jo + c];
-            }
-            if (!(d > 0) || Double.isInfinite(d)) {
-                throw breakdown(m, idx, what);
-            }
-            double ljj = Math.sqrt(d);
-            a[jo + j] = ljj;
-            for (int i = j + 1; i < m; i++) {
-                int io = i * m;
-                double s = a[io + j];
-                for (int c = 0; c < j; c++) {
-                    s -= a[io + c] * a[jo + c];
-                }
-                a[io + j] = s / ljj;
-            }
-            for (int c = j + 1; c < m; c++) {
-                a[jo + c] = 0;
+        for (int r = 0; r < m; r++) {
+            for (int c = r + 1; c < m; c++) {
+                a[r * m + c] = 0;
             }
         }
         return a;
