@@ -1,7 +1,8 @@
 /**
  * Densa spatial statistics: locations, neighbour index and spatial weights
  * ({@code io.densa.spatial}), variograms ({@code io.densa.spatial.variogram}), kriging
- * ({@code io.densa.spatial.kriging}) and spatial autocorrelation
+ * ({@code io.densa.spatial.kriging}), predictive uncertainty and model checks
+ * ({@code io.densa.spatial.uncertainty}) and spatial autocorrelation
  * ({@code io.densa.spatial.autocorrelation}). {@code io.densa.spatial.internal} is not exported.
  */
 module io.densa.spatial {
@@ -16,5 +17,6 @@ module io.densa.spatial {
     exports io.densa.spatial;
     exports io.densa.spatial.variogram;
     exports io.densa.spatial.kriging;
+    exports io.densa.spatial.uncertainty;
     exports io.densa.spatial.autocorrelation;
 }

@@ -2,6 +2,7 @@ package io.densa.spatial.kriging;
 
 import java.util.Objects;
 import java.util.function.Consumer;
+import java.util.function.Function;
 
 /**
  * Grid prediction of a range of tiles, for splitting {@link Kriging#predictGrid} over threads,
@@ -47,5 +48,22 @@ public final class GridTiles {
             Consumer<GridTile> consumer) {
         Objects.requireNonNull(kriging, "kriging");
         GridPredictor.runRange(kriging, grid, options, from, to, consumer);
+    }
+
+    /**
+     * Predicts the whole grid as {@link Kriging#predictGrid(Grid, GridOptions, Consumer)} (or, with a
+     * covariate grid, {@link Kriging#predictGrid(Grid, CovariateGrid, GridOptions, Consumer)}) and
+     * applies {@code work} to each predicted tile on the worker thread that computed it; the
+     * results reach the consumer in tile order from the calling thread. {@code work} must be
+     * thread-safe; a tile it receives is the same object {@code predictGrid} would deliver.
+     *
+     * @param covariates the drift's covariates at every cell, or null when the drift has none
+     * @throws IllegalArgumentException as {@link Kriging#predictGrid}
+     */
+    public static <T> void map(Kriging kriging, Grid grid, CovariateGrid covariates, GridOptions options,
+            Function<GridTile, T> work, Consumer<T> consumer) {
+        Objects.requireNonNull(kriging, "kriging");
+        Objects.requireNonNull(work, "work");
+        GridPredictor.run(kriging, grid, options, covariates, work, consumer);
     }
 }

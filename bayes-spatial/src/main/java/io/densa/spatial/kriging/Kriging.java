@@ -381,7 +381,8 @@ public final class Kriging {
         return p;
     }
 
-    int dimension() {
+    /** K, the number of coordinates of the data's densities. */
+    public int dimension() {
         return k;
     }
 

@@ -1,5 +1,7 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
+import io.densa.spatial.kriging.GridOptions;
+import io.densa.spatial.kriging.GridTile;
 import java.util.List;
 
 /**
