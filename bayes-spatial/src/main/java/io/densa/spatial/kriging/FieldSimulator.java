@@ -35,12 +35,12 @@ public final class FieldSimulator {
 
     private FieldSimulator(Kriging kr) {
         this.kr = kr;
-        this.n = kr.n;
-        this.k = kr.k;
-        this.p = kr.type == Kriging.Type.SIMPLE ? 0 : kr.p;
+        this.n = kr.size();
+        this.k = kr.dimension();
+        this.p = kr.type() == Kriging.Type.SIMPLE ? 0 : kr.driftSize();
         q = new double[n * p];
         for (int i = 0; i < n; i++) {
-            kr.driftRow(i, q, i * p);
+            kr.design().driftRow(i, q, i * p);
         }
         for (int j = 0; j < p; j++) {
             for (int pass = 0; pass < 2; pass++) {
@@ -67,8 +67,8 @@ public final class FieldSimulator {
 
     /** Residuals of the data coordinates (a new n × K array, row-major). */
     public double[] dataResiduals() {
-        double[] y = kr.y.clone();
-        if (kr.type == Kriging.Type.SIMPLE) {
+        double[] y = kr.dataCoordinates();
+        if (kr.type() == Kriging.Type.SIMPLE) {
             double[] m = kr.centre();
             for (int i = 0; i < n; i++) {
                 for (int c = 0; c < k; c++) {
@@ -83,7 +83,7 @@ public final class FieldSimulator {
 
     /** Residuals of a simulated zero-mean field (n × K, row-major), in place. */
     public void simulatedResiduals(double[] e) {
-        if (kr.type != Kriging.Type.SIMPLE) {
+        if (kr.type() != Kriging.Type.SIMPLE) {
             project(e);
         }
     }
@@ -147,7 +147,7 @@ public final class FieldSimulator {
 
     private synchronized double[] cholesky() {
         if (chol == null) {
-            chol = kr.globalSystem().l;
+            chol = kr.globalSystem().lowerFactor();
         }
         return chol;
     }
