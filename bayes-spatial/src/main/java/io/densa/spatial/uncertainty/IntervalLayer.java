@@ -27,4 +27,10 @@ public record IntervalLayer(double[] estimates, double[] means, double[] sds, do
     public DerivedInterval cell(int q, double level, int draws) {
         return new DerivedInterval(estimates[q], means[q], sds[q], lowers[q], uppers[q], level, draws);
     }
+
+    /** The number of cells (not the arrays). */
+    @Override
+    public String toString() {
+        return "IntervalLayer[" + estimates.length + " cells]";
+    }
 }

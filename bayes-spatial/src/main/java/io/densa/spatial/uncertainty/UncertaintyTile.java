@@ -23,4 +23,12 @@ public record UncertaintyTile(GridTile tile, List<IntervalLayer> quantiles, List
     public int size() {
         return tile.size();
     }
+
+    /** Tile position, cell count and layer counts (not the arrays). */
+    @Override
+    public String toString() {
+        return "UncertaintyTile[tile (" + tile.tileColumn() + ", " + tile.tileRow() + "), " + size() + " cells, "
+                + quantiles.size() + " quantile layers, " + exceedances.size() + " exceedance layers"
+                + (mean != null ? ", mean" : "") + "]";
+    }
 }
