@@ -23,7 +23,7 @@ import org.locationtech.jts.geom.Polygon;
  * every prediction is a density of the data's space. The weights solve the scalar kriging system
  * of the trace-covariance C(h) = sill − γ(h) of a {@link VariogramModel} (Giraldo, Delicado,
  * Mateu (2011), Ordinary kriging for function-valued spatial data, Environ. Ecol. Stat. 18 — from
- * memory; REFERENCES.md §7):
+ * memory):
  * <ul>
  * <li>simple kriging (known mean density m): C λ = c0, X̂ = m ⊕ ⊕ λ_i ⊙ (X_i ⊖ m),
  *     σ² = C(0) − λᵀc0;</li>
