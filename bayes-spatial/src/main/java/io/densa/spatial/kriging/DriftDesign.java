@@ -158,7 +158,9 @@ final class DriftDesign {
      * of the earlier ones, by modified Gram–Schmidt with reorthogonalisation on the columns: column
      * j is dependent when its component orthogonal to the earlier columns has norm at most 10⁻⁹ of
      * its own; −1 if none. The columns are monomials of coordinates scaled to [−1, 1] and
-     * standardised covariates, so the threshold is relative to columns of comparable size.
+     * standardised covariates, so the threshold is relative to columns of comparable size. A work
+     * array of at least m·p entries receives the orthonormalised columns (all p of them when −1 is
+     * returned); f is not modified.
      */
     static int dependentColumn(double[] f, int m, int p, double[] work) {
         double[] qm = work != null && work.length >= m * p ? work : new double[m * p];

@@ -39,30 +39,13 @@ public final class FieldSimulator {
         this.k = kr.dimension();
         this.p = kr.type() == Kriging.Type.SIMPLE ? 0 : kr.driftSize();
         q = new double[n * p];
+        double[] f = new double[n * p];
         for (int i = 0; i < n; i++) {
-            kr.design().driftRow(i, q, i * p);
+            kr.design().driftRow(i, f, i * p);
         }
-        for (int j = 0; j < p; j++) {
-            for (int pass = 0; pass < 2; pass++) {
-                for (int c = 0; c < j; c++) {
-                    double d = 0;
-                    for (int i = 0; i < n; i++) {
-                        d += q[i * p + c] * q[i * p + j];
-                    }
-                    for (int i = 0; i < n; i++) {
-                        q[i * p + j] -= d * q[i * p + c];
-                    }
-                }
-            }
-            double norm = 0;
-            for (int i = 0; i < n; i++) {
-                norm += q[i * p + j] * q[i * p + j];
-            }
-            norm = Math.sqrt(norm);
-            for (int i = 0; i < n; i++) {
-                q[i * p + j] /= norm;
-            }
-        }
+        // the orthonormal columns of F by the drift design's modified Gram–Schmidt (twice); the
+        // drift was checked at construction, so no column is dependent
+        DriftDesign.dependentColumn(f, n, p, q);
     }
 
     /** Residuals of the data coordinates (a new n × K array, row-major). */
