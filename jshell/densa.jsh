@@ -9,6 +9,7 @@ import io.densa.regression.*;
 import io.densa.spatial.*;
 import io.densa.spatial.variogram.*;
 import io.densa.spatial.kriging.*;
+import io.densa.spatial.uncertainty.*;
 import io.densa.spatial.autocorrelation.*;
 import io.densa.io.*;
 import java.nio.file.*;

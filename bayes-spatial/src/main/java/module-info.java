@@ -1,7 +1,8 @@
 /**
  * Densa spatial statistics: locations, neighbour index and spatial weights
  * ({@code io.densa.spatial}), variograms ({@code io.densa.spatial.variogram}), kriging
- * ({@code io.densa.spatial.kriging}), spatial autocorrelation
+ * ({@code io.densa.spatial.kriging}), predictive uncertainty and model checks
+ * ({@code io.densa.spatial.uncertainty}), spatial autocorrelation
  * ({@code io.densa.spatial.autocorrelation}) and the spatial scan statistic
  * ({@code io.densa.spatial.scan}). {@code io.densa.spatial.internal} is not exported.
  */
@@ -17,6 +18,7 @@ module io.densa.spatial {
     exports io.densa.spatial;
     exports io.densa.spatial.variogram;
     exports io.densa.spatial.kriging;
+    exports io.densa.spatial.uncertainty;
     exports io.densa.spatial.autocorrelation;
     exports io.densa.spatial.scan;
 }

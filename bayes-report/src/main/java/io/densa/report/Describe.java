@@ -34,7 +34,7 @@ public final class Describe {
                 case EXPONENTIAL, GAUSSIAN -> sb.append(family).append(" (partial sill ").append(c)
                         .append(", practical range ").append(a).append(' ').append(lengthUnit).append(')');
                 case MATERN -> sb.append("Matérn ν = ").append(Numbers.fixed(s.smoothness(), 2))
-                        .append(" (partial sill ").append(c).append(", scale ").append(a).append(' ')
+                        .append(" (partial sill ").append(c).append(", practical range ").append(a).append(' ')
                         .append(lengthUnit).append(')');
                 case POWER -> sb.append("power (coefficient ").append(c).append(", exponent ").append(a).append(')');
                 default -> sb.append(family).append(" (partial sill ").append(c).append(", range ").append(a)

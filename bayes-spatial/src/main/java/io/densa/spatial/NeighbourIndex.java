@@ -225,4 +225,9 @@ public final class NeighbourIndex {
             return out;
         }
     }
+
+    @Override
+    public String toString() {
+        return "NeighbourIndex[n=" + locations.size() + ", " + locations.kind() + "]";
+    }
 }

@@ -82,7 +82,7 @@ public final class SpatialWeights {
     private final boolean symmetric;
     private final double maxWeight;
 
-    private SpatialWeights(int n, int[] rowStart, int[] cols, double[] vals, boolean rowStandardised) {
+    SpatialWeights(int n, int[] rowStart, int[] cols, double[] vals, boolean rowStandardised) {
         this.n = n;
         this.rowStart = rowStart;
         this.cols = cols;
@@ -208,35 +208,7 @@ public final class SpatialWeights {
      *                                  finite, or a diagonal entry is non-zero (naming the entry)
      */
     public static SpatialWeights fromMatrix(double[][] matrix) {
-        Objects.requireNonNull(matrix, "matrix");
-        int n = matrix.length;
-        checkUnits(n);
-        int[][] nb = new int[n][];
-        double[][] wt = new double[n][];
-        for (int i = 0; i < n; i++) {
-            if (matrix[i] == null || matrix[i].length != n) {
-                throw new IllegalArgumentException("weights matrix row " + i + " has "
-                        + (matrix[i] == null ? "no" : String.valueOf(matrix[i].length))
-                        + " entries; a square " + n + " x " + n + " matrix is required");
-            }
-            int count = 0;
-            for (int j = 0; j < n; j++) {
-                checkWeight(matrix[i][j], i, j);
-                if (matrix[i][j] > 0) {
-                    count++;
-                }
-            }
-            nb[i] = new int[count];
-            wt[i] = new double[count];
-            int c = 0;
-            for (int j = 0; j < n; j++) {
-                if (matrix[i][j] > 0) {
-                    nb[i][c] = j;
-                    wt[i][c++] = matrix[i][j];
-                }
-            }
-        }
-        return assemble(n, nb, wt);
+        return WeightsAssembly.fromMatrix(matrix);
     }
 
     /**
@@ -271,39 +243,7 @@ public final class SpatialWeights {
      *                                  not finite and positive (naming the unit)
      */
     public static SpatialWeights fromNeighbours(int[][] neighbours, double[][] weights) {
-        Objects.requireNonNull(neighbours, "neighbours");
-        Objects.requireNonNull(weights, "weights");
-        int n = neighbours.length;
-        checkUnits(n);
-        if (weights.length != n) {
-            throw new IllegalArgumentException("weights has " + weights.length + " rows but neighbours has " + n);
-        }
-        int[][] nb = new int[n][];
-        double[][] wt = new double[n][];
-        for (int i = 0; i < n; i++) {
-            if (neighbours[i] == null || weights[i] == null || neighbours[i].length != weights[i].length) {
-                throw new IllegalArgumentException("unit " + i + ": neighbour list and weight list must both be"
-                        + " given and have the same length");
-            }
-            nb[i] = neighbours[i].clone();
-            wt[i] = weights[i].clone();
-            for (int m = 0; m < nb[i].length; m++) {
-                int j = nb[i][m];
-                if (j < 0 || j >= n) {
-                    throw new IllegalArgumentException("unit " + i + " lists neighbour " + j
-                            + ", outside 0.." + (n - 1));
-                }
-                if (j == i) {
-                    throw new IllegalArgumentException("unit " + i + " lists itself as a neighbour;"
-                            + " the diagonal of the weights must be zero");
-                }
-                if (!(wt[i][m] > 0 && wt[i][m] < Double.POSITIVE_INFINITY)) {
-                    throw new IllegalArgumentException("weight of link " + i + " -> " + j + " is " + wt[i][m]
-                            + "; weights must be finite and positive");
-                }
-            }
-        }
-        return assemble(n, nb, wt);
+        return WeightsAssembly.fromNeighbours(neighbours, weights);
     }
 
     /**
@@ -365,30 +305,7 @@ public final class SpatialWeights {
      * @throws IllegalArgumentException if k is out of range
      */
     public static SpatialWeights nearestNeighbours(Locations locations, int k, Symmetry symmetry) {
-        Objects.requireNonNull(locations, "locations");
-        Objects.requireNonNull(symmetry, "symmetry");
-        int n = locations.size();
-        checkUnits(n);
-        if (!(k >= 1 && k <= n - 1)) {
-            throw new IllegalArgumentException("k = " + k + " nearest neighbours requested for " + n
-                    + " units; k must be in 1.." + (n - 1));
-        }
-        int[][] nb = new int[n][];
-        if (locations.kind() == Locations.Kind.PLANAR) {
-            STRtree tree = pointTree(locations);
-            IntStream.range(0, n).parallel().forEach(i -> nb[i] = nearestPlanar(locations, tree, i, k));
-        } else {
-            IntStream.range(0, n).parallel().forEach(i -> nb[i] = nearestByScan(locations, i, k));
-        }
-        if (symmetry != Symmetry.DIRECTED) {
-            symmetrise(nb, symmetry == Symmetry.UNION);
-        }
-        double[][] ones = new double[n][];
-        for (int i = 0; i < n; i++) {
-            ones[i] = new double[nb[i].length];
-            Arrays.fill(ones[i], 1.0);
-        }
-        return assemble(n, nb, ones);
+        return DistanceWeights.nearestNeighbours(locations, k, symmetry);
     }
 
     /**
@@ -399,19 +316,7 @@ public final class SpatialWeights {
      * @throws IllegalArgumentException if maxDistance is not finite and positive
      */
     public static SpatialWeights distanceBand(Locations locations, double maxDistance) {
-        Objects.requireNonNull(locations, "locations");
-        if (!(maxDistance > 0 && maxDistance < Double.POSITIVE_INFINITY)) {
-            throw new IllegalArgumentException("distance band " + maxDistance + " must be finite and positive");
-        }
-        int n = locations.size();
-        checkUnits(n);
-        int[][] nb = new int[n][];
-        double[][] wt = new double[n][];
-        withinBand(locations, maxDistance, nb, wt);
-        for (double[] row : wt) {
-            Arrays.fill(row, 1.0);
-        }
-        return assemble(n, nb, wt);
+        return DistanceWeights.distanceBand(locations, maxDistance);
     }
 
     /**
@@ -427,58 +332,7 @@ public final class SpatialWeights {
      *                                  overflow
      */
     public static SpatialWeights inverseDistance(Locations locations, double power, double maxDistance) {
-        Objects.requireNonNull(locations, "locations");
-        if (!(power > 0 && power < Double.POSITIVE_INFINITY)) {
-            throw new IllegalArgumentException("inverse-distance power " + power + " must be finite and positive");
-        }
-        if (!(maxDistance > 0)) {
-            throw new IllegalArgumentException("distance band " + maxDistance
-                    + " must be positive (or +Infinity for none)");
-        }
-        int n = locations.size();
-        checkUnits(n);
-        int[][] nb = new int[n][];
-        double[][] wt = new double[n][];
-        if (maxDistance == Double.POSITIVE_INFINITY) {
-            if ((long) n * (n - 1) > Integer.MAX_VALUE - 8) {
-                throw new IllegalArgumentException("inverse-distance weights without a band for " + n
-                        + " units would store n(n-1) entries; give a finite band");
-            }
-            IntStream.range(0, n).parallel().forEach(i -> {
-                int[] c = new int[n - 1];
-                double[] d = new double[n - 1];
-                int m = 0;
-                for (int j = 0; j < n; j++) {
-                    if (j != i) {
-                        c[m] = j;
-                        d[m++] = locations.distance(i, j);
-                    }
-                }
-                nb[i] = c;
-                wt[i] = d;
-            });
-        } else {
-            withinBand(locations, maxDistance, nb, wt);
-        }
-        for (int i = 0; i < n; i++) {
-            for (int m = 0; m < nb[i].length; m++) {
-                double d = wt[i][m];
-                if (!(d > 0)) {
-                    throw new IllegalArgumentException("units " + Math.min(i, nb[i][m]) + " and "
-                            + Math.max(i, nb[i][m]) + " are coincident; inverse-distance weight is infinite"
-                            + " (merge them or use binary weights)");
-                }
-                double w = power == 1 ? 1 / d : Math.pow(d, -power);
-                if (!(w > 0 && w <= Double.MAX_VALUE)) {
-                    throw new IllegalArgumentException("the inverse-distance weight of units " + i + " and " + nb[i][m]
-                            + " at distance " + d + " with power " + power + " is " + w + " (d^-power "
-                            + (w > 0 ? "overflows" : "underflows to 0") + "); accepted are powers and distances whose"
-                            + " weights are positive finite doubles: use a smaller power or rescale the coordinates");
-                }
-                wt[i][m] = w;
-            }
-        }
-        return assemble(n, nb, wt);
+        return DistanceWeights.inverseDistance(locations, power, maxDistance);
     }
 
     // ------------------------------------------------------------------ contiguity
@@ -503,280 +357,7 @@ public final class SpatialWeights {
      *                                  (naming the unit) or the tolerance is negative or NaN
      */
     public static SpatialWeights contiguity(List<? extends Geometry> polygons, Contiguity rule, double tolerance) {
-        Objects.requireNonNull(polygons, "polygons");
-        Objects.requireNonNull(rule, "rule");
-        if (!(tolerance >= 0 && tolerance < Double.POSITIVE_INFINITY)) {
-            throw new IllegalArgumentException("contiguity tolerance " + tolerance + " must be finite and >= 0");
-        }
-        int n = polygons.size();
-        checkUnits(n);
-        Geometry[] g = new Geometry[n];
-        STRtree tree = new STRtree();
-        for (int i = 0; i < n; i++) {
-            Geometry gi = polygons.get(i);
-            if (!(gi instanceof Polygon || gi instanceof MultiPolygon) || gi.isEmpty()) {
-                throw new IllegalArgumentException("unit " + i + " is " + (gi == null ? "null"
-                        : gi.isEmpty() ? "an empty geometry" : "a " + gi.getGeometryType())
-                        + "; contiguity needs a non-empty Polygon or MultiPolygon per unit");
-            }
-            g[i] = gi;
-            Envelope e = new Envelope(gi.getEnvelopeInternal());
-            e.expandBy(tolerance);
-            tree.insert(e, i);
-        }
-        tree.build();
-        // Each pair is tested once (j > i), then the relation is mirrored.
-        int[][] upper = new int[n][];
-        IntStream.range(0, n).parallel().forEach(i -> {
-            Envelope e = new Envelope(g[i].getEnvelopeInternal());
-            e.expandBy(tolerance);
-            List<?> cand = tree.query(e);
-            int[] found = new int[cand.size()];
-            int m = 0;
-            for (Object o : cand) {
-                int j = (Integer) o;
-                if (j > i && contiguous(g[i], g[j], rule, tolerance)) {
-                    found[m++] = j;
-                }
-            }
-            upper[i] = Arrays.copyOf(found, m);
-        });
-        int[] count = new int[n];
-        for (int i = 0; i < n; i++) {
-            count[i] += upper[i].length;
-            for (int j : upper[i]) {
-                count[j]++;
-            }
-        }
-        int[][] nb = new int[n][];
-        int[] fill = new int[n];
-        for (int i = 0; i < n; i++) {
-            nb[i] = new int[count[i]];
-        }
-        for (int i = 0; i < n; i++) {
-            for (int j : upper[i]) {
-                nb[i][fill[i]++] = j;
-                nb[j][fill[j]++] = i;
-            }
-        }
-        double[][] ones = new double[n][];
-        for (int i = 0; i < n; i++) {
-            ones[i] = new double[nb[i].length];
-            Arrays.fill(ones[i], 1.0);
-        }
-        return assemble(n, nb, ones);
-    }
-
-    /** Whether polygons a and b are neighbours under the rule (after snapping when tolerance &gt; 0). */
-    private static boolean contiguous(Geometry a, Geometry b, Contiguity rule, double tolerance) {
-        Geometry ga = a, gb = b;
-        if (tolerance > 0) {
-            if (a.distance(b) > tolerance) {
-                return false;
-            }
-            Geometry[] s = GeometrySnapper.snap(a, b, tolerance);
-            ga = s[0];
-            gb = s[1];
-        } else if (!a.getEnvelopeInternal().intersects(b.getEnvelopeInternal())) {
-            return false;
-        }
-        IntersectionMatrix im = ga.relate(gb);
-        if (rule == Contiguity.QUEEN) {
-            return im.isIntersects();
-        }
-        return im.get(Location.BOUNDARY, Location.BOUNDARY) == Dimension.L
-                || im.get(Location.INTERIOR, Location.INTERIOR) == Dimension.A;
-    }
-
-    // ------------------------------------------------------------------ neighbour search
-
-    private static STRtree pointTree(Locations loc) {
-        STRtree tree = new STRtree();
-        for (int i = 0; i < loc.size(); i++) {
-            tree.insert(new Envelope(loc.x(i), loc.x(i), loc.y(i), loc.y(i)), i);
-        }
-        tree.build();
-        return tree;
-    }
-
-    /** The k nearest of unit i (planar), exact, ties broken by index. */
-    private static int[] nearestPlanar(Locations loc, STRtree tree, int i, int k) {
-        Envelope env = new Envelope(loc.x(i), loc.x(i), loc.y(i), loc.y(i));
-        Object[] near = tree.nearestNeighbour(env, i, (ItemBoundable a, ItemBoundable b) ->
-                loc.distance((Integer) a.getItem(), (Integer) b.getItem()), k + 1);
-        double radius = 0;
-        for (Object o : near) {
-            radius = Math.max(radius, loc.distance(i, (Integer) o));
-        }
-        // Every unit within the (k+1)-th smallest distance (self included) is a candidate.
-        Envelope box = new Envelope(loc.x(i) - radius, loc.x(i) + radius, loc.y(i) - radius, loc.y(i) + radius);
-        List<?> cand = tree.query(box);
-        int[] idx = new int[cand.size()];
-        double[] dist = new double[cand.size()];
-        int m = 0;
-        for (Object o : cand) {
-            int j = (Integer) o;
-            if (j != i) {
-                double d = loc.distance(i, j);
-                if (d <= radius) {
-                    idx[m] = j;
-                    dist[m++] = d;
-                }
-            }
-        }
-        return smallest(idx, dist, m, k);
-    }
-
-    private static int[] nearestByScan(Locations loc, int i, int k) {
-        int n = loc.size();
-        int[] idx = new int[n - 1];
-        double[] dist = new double[n - 1];
-        int m = 0;
-        for (int j = 0; j < n; j++) {
-            if (j != i) {
-                idx[m] = j;
-                dist[m++] = loc.distance(i, j);
-            }
-        }
-        return smallest(idx, dist, m, k);
-    }
-
-    /** The k entries of idx[0..m) with smallest (dist, idx), sorted by index. */
-    private static int[] smallest(int[] idx, double[] dist, int m, int k) {
-        Integer[] order = new Integer[m];
-        for (int a = 0; a < m; a++) {
-            order[a] = a;
-        }
-        Arrays.sort(order, (a, b) -> {
-            int c = Double.compare(dist[a], dist[b]);
-            return c != 0 ? c : Integer.compare(idx[a], idx[b]);
-        });
-        int[] out = new int[Math.min(k, m)];
-        for (int a = 0; a < out.length; a++) {
-            out[a] = idx[order[a]];
-        }
-        Arrays.sort(out);
-        return out;
-    }
-
-    /** Fills nb[i] and wt[i] (= distances) with the units within the band of unit i. */
-    private static void withinBand(Locations loc, double band, int[][] nb, double[][] wt) {
-        int n = loc.size();
-        STRtree tree = loc.kind() == Locations.Kind.PLANAR ? pointTree(loc) : null;
-        IntStream.range(0, n).parallel().forEach(i -> {
-            int[] idx;
-            double[] dist;
-            int m = 0;
-            if (tree != null) {
-                List<?> cand = tree.query(new Envelope(loc.x(i) - band, loc.x(i) + band, loc.y(i) - band,
-                        loc.y(i) + band));
-                idx = new int[cand.size()];
-                dist = new double[cand.size()];
-                for (Object o : cand) {
-                    int j = (Integer) o;
-                    double d = loc.distance(i, j);
-                    if (j != i && d <= band) {
-                        idx[m] = j;
-                        dist[m++] = d;
-                    }
-                }
-            } else {
-                idx = new int[n];
-                dist = new double[n];
-                for (int j = 0; j < n; j++) {
-                    double d = loc.distance(i, j);
-                    if (j != i && d <= band) {
-                        idx[m] = j;
-                        dist[m++] = d;
-                    }
-                }
-            }
-            nb[i] = Arrays.copyOf(idx, m);
-            wt[i] = Arrays.copyOf(dist, m);
-        });
-    }
-
-    /** In place: union (either direction) or mutual (both directions) of the relation. */
-    private static void symmetrise(int[][] nb, boolean union) {
-        int n = nb.length;
-        for (int[] row : nb) {
-            Arrays.sort(row);
-        }
-        int[][] out = new int[n][];
-        List<List<Integer>> extra = new ArrayList<>(n);
-        for (int i = 0; i < n; i++) {
-            extra.add(new ArrayList<>());
-        }
-        if (union) {
-            for (int i = 0; i < n; i++) {
-                for (int j : nb[i]) {
-                    if (Arrays.binarySearch(nb[j], i) < 0) {
-                        extra.get(j).add(i);
-                    }
-                }
-            }
-            for (int i = 0; i < n; i++) {
-                int[] r = Arrays.copyOf(nb[i], nb[i].length + extra.get(i).size());
-                for (int a = 0; a < extra.get(i).size(); a++) {
-                    r[nb[i].length + a] = extra.get(i).get(a);
-                }
-                out[i] = r;
-            }
-        } else {
-            for (int i = 0; i < n; i++) {
-                final int ii = i;
-                out[i] = Arrays.stream(nb[i]).filter(j -> Arrays.binarySearch(nb[j], ii) >= 0).toArray();
-            }
-        }
-        System.arraycopy(out, 0, nb, 0, n);
-    }
-
-    // ------------------------------------------------------------------ assembly
-
-    private static void checkUnits(int n) {
-        if (n < 2) {
-            throw new IllegalArgumentException("spatial weights need at least 2 units, got " + n);
-        }
-    }
-
-    private static void checkWeight(double w, int i, int j) {
-        if (!(w >= 0 && w < Double.POSITIVE_INFINITY)) {
-            throw new IllegalArgumentException("weight (" + i + ", " + j + ") = " + w
-                    + "; weights must be finite and >= 0");
-        }
-        if (i == j && w != 0) {
-            throw new IllegalArgumentException("diagonal weight (" + i + ", " + i + ") = " + w
-                    + "; a unit cannot be its own neighbour (diagonal must be 0)");
-        }
-    }
-
-    /** Sorts every row by column, optionally checking for duplicates, and builds the CSR arrays. */
-    private static SpatialWeights assemble(int n, int[][] nb, double[][] wt) {
-        int[] start = new int[n + 1];
-        for (int i = 0; i < n; i++) {
-            start[i + 1] = start[i] + nb[i].length;
-        }
-        int[] cols = new int[start[n]];
-        double[] vals = new double[start[n]];
-        for (int i = 0; i < n; i++) {
-            int len = nb[i].length;
-            int[] c = nb[i];
-            double[] w = wt[i];
-            Integer[] order = new Integer[len];
-            for (int a = 0; a < len; a++) {
-                order[a] = a;
-            }
-            Arrays.sort(order, (a, b) -> Integer.compare(c[a], c[b]));
-            for (int a = 0; a < len; a++) {
-                cols[start[i] + a] = c[order[a]];
-                vals[start[i] + a] = w[order[a]];
-                if (a > 0 && cols[start[i] + a] == cols[start[i] + a - 1]) {
-                    throw new IllegalArgumentException("unit " + i + " lists neighbour "
-                            + cols[start[i] + a] + " more than once");
-                }
-            }
-        }
-        return new SpatialWeights(n, start, cols, vals, false);
+        return ContiguityWeights.contiguity(polygons, rule, tolerance);
     }
 
     // ------------------------------------------------------------------ transforms
@@ -841,7 +422,7 @@ public final class SpatialWeights {
             nb[a] = Arrays.copyOf(c, q);
             wt[a] = Arrays.copyOf(w, q);
         }
-        SpatialWeights r = assemble(m, nb, wt);
+        SpatialWeights r = WeightsAssembly.assemble(m, nb, wt);
         return rowStandardised ? new SpatialWeights(r.n, r.rowStart, r.cols, r.vals, true) : r;
     }
 

@@ -102,13 +102,15 @@ class SpatialFuzzRegressionTest {
                 () -> VariogramModel.power(1e300, 1.9).gamma(1e300));
         assertThrows(IllegalStateException.class, () -> VariogramModel.power(1, 1).sill());
         // h / a underflows to 0: the Matérn structure is at its value at lag 0. The Matérn with ν = 1/2
-        // is the exponential 1 − e^{−t} (Stein (1999), Interpolation of Spatial Data, §2.7 — from
+        // is the exponential 1 − e^{−t}, t = 3h/a (Stein (1999), Interpolation of Spatial Data, §2.7 — from
         // memory), ν = 3/2 gives 1 − (1 + t) e^{−t}
         assertEquals(0, VariogramModel.matern(1, 1e300, 1.5).gamma(1e-300), 0);
-        assertEquals(-Math.expm1(-1e-320), VariogramModel.matern(1, 1, 0.5).gamma(1e-320), 1e-300);
+        assertEquals(-Math.expm1(-3e-320), VariogramModel.matern(1, 1, 0.5).gamma(1e-320), 1e-300);
         double t = 1e-160; // K_ν(t) ≈ Γ(ν) 2^{ν−1} t^{−ν} overflows for ν = 2.5
         assertEquals(0, VariogramModel.matern(1, 1, 2.5).gamma(t), 1e-300);
-        assertEquals(1 - 1.5 * Math.exp(-0.5), VariogramModel.matern(1, 1, 1.5).gamma(0.5), 1e-12);
+        // a is the practical range: t = h / φ with the scale φ the structure reports
+        double t15 = 0.5 / VariogramModel.matern(1, 1, 1.5).structures().get(0).scale();
+        assertEquals(1 - (1 + t15) * Math.exp(-t15), VariogramModel.matern(1, 1, 1.5).gamma(0.5), 1e-12);
     }
 
     @Test

@@ -20,7 +20,11 @@ class SpatialWeightsTest {
 
     @Test
     void constantsOfTheRookGrid() {
-        // REFERENCES.md §9 [D]: 3 x 3 rook grid, binary weights: S0 = 24, S1 = 48, S2 = 272.
+        // Cliff & Ord (1981), Spatial Processes (from memory): S0 = Σ w_ij, S1 = ½ Σ (w_ij + w_ji)²,
+        // S2 = Σ (w_i. + w_.i)². By hand for the 3 x 3 rook grid with binary weights: 4 corners of
+        // degree 2, 4 edge cells of degree 3 and the centre of degree 4 give S0 = 8 + 12 + 4 = 24
+        // ordered links; symmetric binary weights give S1 = ½ · 24 · 2² = 48 and
+        // S2 = Σ (2 deg_i)² = 4 (4·4 + 4·9 + 16) = 272.
         SpatialWeights w = SpatialWeights.fromNeighbours(rookLattice(3, 3));
         assertEquals(24, w.s0(), 0);
         assertEquals(48, w.s1(), 0);

@@ -13,7 +13,6 @@ import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 import io.densa.regression.Fpca;
 import io.densa.spatial.Locations;
 import io.densa.spatial.kriging.Kriging;
-import io.densa.spatial.kriging.KrigingOptions;
 import io.densa.spatial.variogram.EmpiricalVariogram;
 import io.densa.spatial.variogram.VariogramFitOptions;
 import io.densa.spatial.variogram.VariogramFitting;
@@ -193,7 +192,7 @@ class ClippedNetworkTest {
         Locations loc = Locations.planar(net.x(), net.y());
         EmpiricalVariogram ev = EmpiricalVariogram.of(loc, d, VariogramOptions.withDefaults());
         VariogramModel model = VariogramFitting.fit(ev, VariogramFitOptions.withDefaults()).model();
-        double mse = Kriging.ordinary(loc, d, model, KrigingOptions.withDefaults()).crossValidate()
+        double mse = Kriging.ordinary(loc, d, model).crossValidate()
                 .meanSquaredError();
         double[][] c = d.coordinates();
         int n = c.length;

@@ -14,7 +14,10 @@ class LocalProjectionTest {
         assertEquals(-20.9, proj.lon(proj.x(-20.9)), 1e-12);
         assertEquals(-28.4, proj.lat(proj.y(-28.4)), 1e-12);
         // 0.1 degree of latitude is R · 0.1 · π / 180 with the mean Earth radius R = 6371.0088 km
-        // (IUGG mean radius, from memory; the value Locations.EARTH_RADIUS_KM uses)
+        // (IUGG mean radius R1, from memory; the value Locations.EARTH_RADIUS_KM uses). Second
+        // derivation: R1 = (2a + b) / 3 with the GRS80 semi-axes a = 6378.137 km, b = 6356.7523141 km
+        // (Moritz (2000), Geodetic Reference System 1980, J. Geodesy 74) = 6371.00877 km
+        assertEquals(6371.0088, (2 * 6378.137 + 6356.7523141) / 3, 5e-5);
         assertEquals(6371.0088 * Math.toRadians(0.1), proj.y(-28.4), 1e-9);
         // along the centre parallel, the planar distance matches the great circle to well under 1 %
         double planar = proj.x(-20.9);

@@ -4,7 +4,7 @@ import java.util.SplittableRandom;
 
 /**
  * Gaussian fields of coordinates at the data locations under the proportional-covariance model,
- * and the drift residuals used by the model checks (package-private).
+ * and the drift residuals used by the model checks of {@code io.densa.spatial.uncertainty}.
  *
  * <p>Simulation: with C the n × n trace-covariance of the data (the kriging system's matrix: the
  * model's covariance plus the error variances on the diagonal), C = L Lᵀ, and F the K × r factor of
@@ -16,51 +16,42 @@ import java.util.SplittableRandom;
  * the residuals of a field whose coordinates have covariance C ⊗ Σ has expectation proportional
  * to Σ, so RᵀR / tr(RᵀR) estimates the shape Σ/tr Σ whatever the spatial correlation.
  */
-final class FieldSimulator {
+public final class FieldSimulator {
     private final Kriging kr;
-    final int n;
-    final int k;
+    private final int n;
+    private final int k;
     private final int p;
     /** n × p orthonormal basis of the drift columns (modified Gram–Schmidt, twice). */
     private final double[] q;
     private double[] chol;
 
-    FieldSimulator(Kriging kr) {
-        this.kr = kr;
-        this.n = kr.n;
-        this.k = kr.k;
-        this.p = kr.type == Kriging.Type.SIMPLE ? 0 : kr.p;
-        q = new double[n * p];
-        for (int i = 0; i < n; i++) {
-            kr.driftRow(i, q, i * p);
-        }
-        for (int j = 0; j < p; j++) {
-            for (int pass = 0; pass < 2; pass++) {
-                for (int c = 0; c < j; c++) {
-                    double d = 0;
-                    for (int i = 0; i < n; i++) {
-                        d += q[i * p + c] * q[i * p + j];
-                    }
-                    for (int i = 0; i < n; i++) {
-                        q[i * p + j] -= d * q[i * p + c];
-                    }
-                }
-            }
-            double norm = 0;
-            for (int i = 0; i < n; i++) {
-                norm += q[i * p + j] * q[i * p + j];
-            }
-            norm = Math.sqrt(norm);
-            for (int i = 0; i < n; i++) {
-                q[i * p + j] /= norm;
-            }
-        }
+    /**
+     * The simulator of a kriging's data locations and model; the Cholesky factor of the data
+     * covariance is the kriging's global one, computed when first needed.
+     */
+    public static FieldSimulator of(Kriging kriging) {
+        return new FieldSimulator(java.util.Objects.requireNonNull(kriging, "kriging"));
     }
 
-    /** Residuals of the data coordinates (a new n × K array). */
-    double[] dataResiduals() {
-        double[] y = kr.y.clone();
-        if (kr.type == Kriging.Type.SIMPLE) {
+    private FieldSimulator(Kriging kr) {
+        this.kr = kr;
+        this.n = kr.size();
+        this.k = kr.dimension();
+        this.p = kr.type() == Kriging.Type.SIMPLE ? 0 : kr.driftSize();
+        q = new double[n * p];
+        double[] f = new double[n * p];
+        for (int i = 0; i < n; i++) {
+            kr.design().driftRow(i, f, i * p);
+        }
+        // the orthonormal columns of F by the drift design's modified Gram–Schmidt (twice); the
+        // drift was checked at construction, so no column is dependent
+        DriftDesign.dependentColumn(f, n, p, q);
+    }
+
+    /** Residuals of the data coordinates (a new n × K array, row-major). */
+    public double[] dataResiduals() {
+        double[] y = kr.dataCoordinates();
+        if (kr.type() == Kriging.Type.SIMPLE) {
             double[] m = kr.centre();
             for (int i = 0; i < n; i++) {
                 for (int c = 0; c < k; c++) {
@@ -73,9 +64,9 @@ final class FieldSimulator {
         return y;
     }
 
-    /** Residuals of a simulated zero-mean field, in place. */
-    void simulatedResiduals(double[] e) {
-        if (kr.type != Kriging.Type.SIMPLE) {
+    /** Residuals of a simulated zero-mean field (n × K, row-major), in place. */
+    public void simulatedResiduals(double[] e) {
+        if (kr.type() != Kriging.Type.SIMPLE) {
             project(e);
         }
     }
@@ -101,8 +92,11 @@ final class FieldSimulator {
         }
     }
 
-    /** A field E = L Z Fᵀ (n × K) with F the K × r factor; Z from rng in row order. */
-    double[] simulate(double[] factor, int r, SplittableRandom rng) {
+    /**
+     * A field E = L Z Fᵀ (n × K, row-major) with F the K × r factor (row-major); Z from rng in row
+     * order (r standard normal draws per location).
+     */
+    public double[] simulate(double[] factor, int r, SplittableRandom rng) {
         double[] l = cholesky();
         double[] w = new double[n * k];
         double[] z = new double[r];
@@ -136,32 +130,8 @@ final class FieldSimulator {
 
     private synchronized double[] cholesky() {
         if (chol == null) {
-            chol = kr.globalSystem().l;
+            chol = kr.globalSystem().lowerFactor();
         }
         return chol;
-    }
-
-    /** RᵀR / tr(RᵀR) of an n × K array (K × K), or null if R is zero. */
-    static double[] shape(double[] r, int n, int k) {
-        double[] s = new double[k * k];
-        for (int i = 0; i < n; i++) {
-            for (int a = 0; a < k; a++) {
-                double ra = r[i * k + a];
-                for (int b = 0; b < k; b++) {
-                    s[a * k + b] += ra * r[i * k + b];
-                }
-            }
-        }
-        double tr = 0;
-        for (int a = 0; a < k; a++) {
-            tr += s[a * k + a];
-        }
-        if (!(tr > 0) || Double.isInfinite(tr)) {
-            return null;
-        }
-        for (int i = 0; i < s.length; i++) {
-            s[i] /= tr;
-        }
-        return s;
     }
 }

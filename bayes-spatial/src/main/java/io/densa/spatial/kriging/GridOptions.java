@@ -166,4 +166,12 @@ public final class GridOptions {
     ProgressListener listener() {
         return listener;
     }
+
+    @Override
+    public String toString() {
+        return "GridOptions[tileSize=" + tileSize + ", variance=" + variance + ", thresholds="
+                + java.util.Arrays.toString(thresholds) + ", probabilities=" + java.util.Arrays.toString(probabilities)
+                + ", means=" + means + ", functions=" + functions.size() + ", nearestDistances=" + nearest
+                + ", parallel=" + parallel + "]";
+    }
 }

@@ -34,4 +34,14 @@ public record GridTile(int tileColumn, int tileRow, int[] columns, int[] rows, D
     public int size() {
         return columns.length;
     }
+
+    /** Tile position, cell count and which per-cell quantities it holds (not the arrays). */
+    @Override
+    public String toString() {
+        return "GridTile[tile (" + tileColumn + ", " + tileRow + "), " + columns.length + " cells, K="
+                + predictions.dimension() + (variances != null ? ", variances" : "") + ", " + tailProbabilities.length
+                + " tail probabilities, " + quantiles.length + " quantiles" + (means != null ? ", means" : "")
+                + (cellValues.length > 0 ? ", " + cellValues.length + " cell functions" : "")
+                + (nearestDistances != null ? ", nearest distances" : "") + "]";
+    }
 }

@@ -6,12 +6,9 @@ import io.densa.core.Density;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
 import io.densa.core.internal.Cholesky;
-import io.densa.core.internal.Kernels;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.spatial.Locations;
 import io.densa.spatial.NeighbourIndex;
-import io.densa.spatial.internal.GreatCircle;
-import io.densa.spatial.internal.Scaling;
 import io.densa.spatial.variogram.VariogramModel;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -19,19 +16,14 @@ import java.util.List;
 import java.util.Objects;
 import java.util.function.Consumer;
 import org.locationtech.jts.geom.Coordinate;
-import org.locationtech.jts.geom.Envelope;
-import org.locationtech.jts.geom.GeometryFactory;
-import org.locationtech.jts.geom.Point;
 import org.locationtech.jts.geom.Polygon;
-import org.locationtech.jts.geom.prep.PreparedGeometry;
-import org.locationtech.jts.geom.prep.PreparedGeometryFactory;
 
 /**
  * Kriging of densities: the predictor X̂(s_0) = ⊕_i λ_i ⊙ X(s_i) has coordinates Σ_i λ_i c_i, so
  * every prediction is a density of the data's space. The weights solve the scalar kriging system
  * of the trace-covariance C(h) = sill − γ(h) of a {@link VariogramModel} (Giraldo, Delicado,
  * Mateu (2011), Ordinary kriging for function-valued spatial data, Environ. Ecol. Stat. 18 — from
- * memory; REFERENCES.md §7):
+ * memory):
  * <ul>
  * <li>simple kriging (known mean density m): C λ = c0, X̂ = m ⊕ ⊕ λ_i ⊙ (X_i ⊖ m),
  *     σ² = C(0) − λᵀc0;</li>
@@ -82,39 +74,27 @@ public final class Kriging {
         UNIVERSAL
     }
 
-    private static final int STATION_MATRIX_LIMIT = 2500;
-
-    final Type type;
-    final Locations loc;
-    final NeighbourIndex index;
-    final BayesSpace space;
-    final double[] y;
-    final int n;
-    final int k;
-    final VariogramModel model;
-    /** The model in units of 2^unitExponent (the sills scaled, exact): what the systems use. */
-    private final VariogramModel unitModel;
+    private final Type type;
+    private final Locations loc;
+    private final NeighbourIndex index;
+    private final BayesSpace space;
+    private final double[] y;
+    private final int n;
+    private final int k;
+    private final VariogramModel model;
     /** e of the scale 2^e (even) of covariances and variances in the systems. */
     private final int unitExponent;
-    final Drift drift;
-    final int p;
-    private final double[] fRows;
-    private final double[] covShift;
-    private final double[] covUnit;
-    private final double[] covSpread;
-    private final double cx;
-    private final double cy;
-    private final double scale;
+    private final Drift drift;
+    private final int p;
+    private final DriftDesign design;
     private final double[] centre;
-    private final double[] sx;
-    private final double[] sy;
     private final double[] diagExtra; // in units of 2^unitExponent
     private final double[] diagExtraRaw; // in the data's units
-    private final double[] errorVariances;
-    final KrigingOptions options;
-    final double c00;
-    private final double pseudoSill;
-    private volatile double[] stationCov;
+    private final KrigingOptions options;
+    private final double c00;
+    private final StationCovariances covariances;
+    /** 0, 1, …, n − 1: the neighbours of every target in the global neighbourhood. */
+    private final int[] allStations;
     private volatile LocalSystem global;
 
     private Kriging(Type type, Locations loc, DensitySet data, Density mean, VariogramModel model, Drift drift,
@@ -154,21 +134,7 @@ public final class Kriging {
             throw new IllegalArgumentException("drift covariates have " + drift.covariateRows() + " rows but there are "
                     + n + " locations");
         }
-        double[] ev = options.errorVariances();
-        if (ev != null && ev.length != n) {
-            throw new IllegalArgumentException("error variances have " + ev.length + " entries but there are " + n
-                    + " locations");
-        }
-        this.errorVariances = ev == null ? new double[n] : ev;
-        this.diagExtraRaw = new double[n];
-        for (int i = 0; i < n; i++) {
-            diagExtraRaw[i] = errorVariances[i] + options.coincidentNugget();
-            if (!(diagExtraRaw[i] <= Double.MAX_VALUE)) {
-                throw new IllegalArgumentException("the error variance of location " + i + " plus the coincident"
-                        + " nugget (" + errorVariances[i] + " + " + options.coincidentNugget() + ") overflows a"
-                        + " double; accepted are sums below about 1.8e308");
-            }
-        }
+        this.diagExtraRaw = options.diagonalExtras(n);
         this.centre = new double[k];
         if (type == Type.SIMPLE) {
             Objects.requireNonNull(mean, "mean");
@@ -176,25 +142,16 @@ public final class Kriging {
             System.arraycopy(mean.coordinates(), 0, centre, 0, k);
         }
         this.index = NeighbourIndex.of(loc);
-        this.sx = loc.xs();
-        this.sy = loc.ys();
-        double[] bb = loc.boundingBox();
-        this.cx = 0.5 * (bb[0] + bb[2]);
-        this.cy = 0.5 * (bb[1] + bb[3]);
-        double s = 0.5 * Math.max(bb[2] - bb[0], bb[3] - bb[1]);
-        this.scale = s > 0 ? s : 1;
-        double diam = distance(bb[0], bb[1], bb[2], bb[3]);
-        double sill = model.bounded() ? model.sill() : 2 * gammaOrInfinity(model, Math.max(diam, 1e-300)) + 1;
-        if (!(sill <= Double.MAX_VALUE)) {
-            throw new IllegalArgumentException("the variogram " + model + " overflows a double at the largest"
-                    + " distance between the data locations (" + diam + "); accepted are power models whose value"
-                    + " there stays below about 1e308: rescale the coordinates or the data");
+        this.allStations = new int[n];
+        for (int i = 0; i < n; i++) {
+            allStations[i] = i;
         }
-        // an even exponent keeps the Cholesky factor's scale 2^(e/2) a power of two (exact)
-        this.unitExponent = Math.getExponent(sill) & ~1;
-        this.unitModel = model.scaledBy(-unitExponent);
-        this.pseudoSill = Math.scalb(sill, -unitExponent);
-        this.c00 = pseudoSill;
+        double[] bb = loc.boundingBox();
+        this.design = new DriftDesign(drift, p, loc, bb);
+        this.covariances = new StationCovariances(loc, model, bb, options.parallel());
+        double sill = covariances.sill();
+        this.unitExponent = covariances.unitExponent();
+        this.c00 = covariances.pseudoSill();
         this.diagExtra = new double[n];
         for (int i = 0; i < n; i++) {
             diagExtra[i] = Math.scalb(diagExtraRaw[i], -unitExponent);
@@ -204,130 +161,8 @@ public final class Kriging {
                         + " (their ratio overflows a double); accepted are ratios below about 1e308");
             }
         }
-        this.fRows = new double[n * p];
-        int q = p > 0 ? drift.covariateCount() : 0;
-        this.covShift = new double[q];
-        this.covUnit = new double[q];
-        this.covSpread = new double[q];
-        standardiseCovariates(q);
-        double[] cov = new double[q];
-        for (int i = 0; i < n && p > 0; i++) {
-            for (int j = 0; j < q; j++) {
-                cov[j] = standardised(j, drift.covariate(i, j));
-            }
-            drift.evaluate((loc.x(i) - cx) / scale, (loc.y(i) - cy) / scale, cov, fRows, i * p);
-        }
-        if (p > 1) {
-            int dep = dependentColumn(fRows, n, p, null);
-            if (dep >= 0) {
-                throw new IllegalArgumentException(dependentMessage(dep, n));
-            }
-        }
+        design.evaluateRows(loc);
         checkCoincident();
-    }
-
-    /**
-     * Drift covariates enter the drift standardised, (c / u − shift) / spread with u the power of two
-     * of the column's largest |value| and shift, spread the mean and largest deviation of c / u
-     * (columns near 1e300 or 1e-300 neither overflow nor underflow F'C⁻¹F): with the constant term
-     * always in the drift this spans the same functions, so predictions are unchanged, and
-     * {@link #driftCoefficients()} converts the coefficients back to the covariates' own units.
-     *
-     * @throws IllegalArgumentException naming a covariate that is constant over the data locations
-     */
-    private void standardiseCovariates(int q) {
-        for (int j = 0; j < q; j++) {
-            double max = 0;
-            for (int i = 0; i < n; i++) {
-                max = Math.max(max, Math.abs(drift.covariate(i, j)));
-            }
-            double u = max > 0 ? Math.scalb(1.0, Math.getExponent(max)) : 1;
-            double mean = 0;
-            for (int i = 0; i < n; i++) {
-                mean += drift.covariate(i, j) / u;
-            }
-            mean /= n;
-            double spread = 0;
-            for (int i = 0; i < n; i++) {
-                spread = Math.max(spread, Math.abs(drift.covariate(i, j) / u - mean));
-            }
-            if (!(spread > 1e-13)) {
-                throw new IllegalArgumentException("drift covariate " + j + " is constant over the " + n + " data"
-                        + " locations (every value is " + drift.covariate(0, j) + "): it duplicates the constant term"
-                        + " of the drift, so its coefficient is not identifiable; drop it");
-            }
-            covUnit[j] = u;
-            covShift[j] = mean;
-            covSpread[j] = spread;
-        }
-    }
-
-    private double standardised(int j, double value) {
-        return (value / covUnit[j] - covShift[j]) / covSpread[j];
-    }
-
-    /**
-     * The first drift column (of the m × p row-major f, rows idx or all) that is a linear combination
-     * of the earlier ones, by modified Gram–Schmidt with reorthogonalisation on the columns: column
-     * j is dependent when its component orthogonal to the earlier columns has norm at most 10⁻⁹ of
-     * its own; −1 if none. The columns are monomials of coordinates scaled to [−1, 1] and
-     * standardised covariates, so the threshold is relative to columns of comparable size.
-     */
-    static int dependentColumn(double[] f, int m, int p, double[] work) {
-        double[] qm = work != null && work.length >= m * p ? work : new double[m * p];
-        for (int j = 0; j < p; j++) {
-            double norm0 = 0;
-            for (int r = 0; r < m; r++) {
-                double v = f[r * p + j];
-                qm[r * p + j] = v;
-                norm0 += v * v;
-            }
-            norm0 = Math.sqrt(norm0);
-            for (int pass = 0; pass < 2; pass++) {
-                for (int i = 0; i < j; i++) {
-                    double d = 0;
-                    for (int r = 0; r < m; r++) {
-                        d += qm[r * p + i] * qm[r * p + j];
-                    }
-                    for (int r = 0; r < m; r++) {
-                        qm[r * p + j] -= d * qm[r * p + i];
-                    }
-                }
-            }
-            double norm = 0;
-            for (int r = 0; r < m; r++) {
-                norm += qm[r * p + j] * qm[r * p + j];
-            }
-            norm = Math.sqrt(norm);
-            if (!(norm > 1e-9 * norm0)) {
-                return j;
-            }
-            for (int r = 0; r < m; r++) {
-                qm[r * p + j] /= norm;
-            }
-        }
-        return -1;
-    }
-
-    /** The message for a drift column that the others determine over m locations. */
-    String dependentMessage(int col, int m) {
-        String name = drift.functionName(col);
-        int q = col - drift.monomialCount();
-        if (q >= 0) {
-            return "drift covariate " + q + " is a linear combination of the earlier drift functions (" + earlier(col)
-                    + ") over the " + m + " data locations, so its coefficient is not identifiable; drop it";
-        }
-        return "drift function " + name + " (column " + col + ") is a linear combination of the earlier drift"
-                + " functions (" + earlier(col) + ") over the " + m + " data locations (for instance all of them on a"
-                + " line), so its coefficient is not identifiable; use a lower drift degree or more locations";
-    }
-
-    private String earlier(int col) {
-        StringBuilder sb = new StringBuilder();
-        for (int j = 0; j < col; j++) {
-            sb.append(j == 0 ? "" : ", ").append(drift.functionName(j));
-        }
-        return sb.toString();
     }
 
     private void checkCoincident() {
@@ -353,12 +188,22 @@ public final class Kriging {
         return new Kriging(Type.ORDINARY, locations, densities, null, model, Drift.constant(), options);
     }
 
+    /** Ordinary kriging with {@link KrigingOptions#withDefaults()}. */
+    public static Kriging ordinary(Locations locations, DensitySet densities, VariogramModel model) {
+        return ordinary(locations, densities, model, KrigingOptions.withDefaults());
+    }
+
     /**
      * Simple kriging with a known mean density (same space as the data); the model must be bounded.
      */
     public static Kriging simple(Locations locations, DensitySet densities, Density mean, VariogramModel model,
             KrigingOptions options) {
         return new Kriging(Type.SIMPLE, locations, densities, mean, model, null, options);
+    }
+
+    /** Simple kriging with {@link KrigingOptions#withDefaults()}. */
+    public static Kriging simple(Locations locations, DensitySet densities, Density mean, VariogramModel model) {
+        return simple(locations, densities, mean, model, KrigingOptions.withDefaults());
     }
 
     /**
@@ -375,13 +220,19 @@ public final class Kriging {
         return new Kriging(Type.UNIVERSAL, locations, densities, null, model, drift, options);
     }
 
+    /** Universal kriging with {@link KrigingOptions#withDefaults()}. */
+    public static Kriging universal(Locations locations, DensitySet densities, Drift drift, VariogramModel model) {
+        return universal(locations, densities, drift, model, KrigingOptions.withDefaults());
+    }
+
     // ------------------------------------------------------------------ internals used by systems
 
     int driftSize() {
         return p;
     }
 
-    int dimension() {
+    /** K, the number of coordinates of the data's densities. */
+    public int dimension() {
         return k;
     }
 
@@ -389,124 +240,38 @@ public final class Kriging {
         return centre;
     }
 
-    double conditionLimit() {
-        return options.conditionLimit();
-    }
-
     double diagonalExtra(int i) {
         return diagExtra[i];
     }
 
-    double errorVariance(int i) {
-        return errorVariances[i];
+    /** Error variance plus coincident nugget of every location, in the data's units (a copy). */
+    double[] errorAndNuggetVariances() {
+        return diagExtraRaw.clone();
     }
 
-    void driftRow(int i, double[] out, int off) {
-        System.arraycopy(fRows, i * p, out, off, p);
+    /** A variance of the systems (in units of 2^unitExponent) in the data's units, without checks. */
+    double inDataUnits(double unitVariance) {
+        return Math.scalb(unitVariance, unitExponent);
     }
 
-    /** Drift vector at a target into out[0..p). */
-    void driftAt(double x, double yy, double[] cov, double[] out) {
-        if (p == 0) {
-            return;
-        }
-        int q = drift.covariateCount();
-        double[] sc = cov;
-        if (q > 0) {
-            if (cov == null || cov.length != q) {
-                throw new IllegalArgumentException("the drift has " + q + " covariate(s); the target supplies "
-                        + (cov == null ? "none" : cov.length));
-            }
-            sc = new double[q];
-            for (int j = 0; j < q; j++) {
-                if (!Double.isFinite(cov[j])) {
-                    throw new IllegalArgumentException("target covariate " + j + " is not finite: " + cov[j]);
-                }
-                sc[j] = standardised(j, cov[j]);
-            }
-        }
-        drift.evaluate((x - cx) / scale, (yy - cy) / scale, sc, out, 0);
-        for (int j = 0; j < p; j++) {
-            if (!Double.isFinite(out[j])) {
-                throw new IllegalArgumentException("drift function " + drift.functionName(j) + " is not finite at"
-                        + " target (" + x + ", " + yy + ") (" + out[j] + "): the target is too far from the data"
-                        + " locations (their centre (" + cx + ", " + cy + "), half-width " + scale + ")");
-            }
-        }
+    /** The data coordinates (a new n × K row-major array). */
+    double[] dataCoordinates() {
+        return y.clone();
     }
 
-    /** Distance between two checked points, computed as {@link Locations} computes it. */
-    private double distance(double x1, double y1, double x2, double y2) {
-        return loc.kind() == Locations.Kind.PLANAR ? Scaling.planarNorm(x1 - x2, y1 - y2)
-                : GreatCircle.km(x1, y1, x2, y2);
+    /** The neighbour index of the data locations. */
+    NeighbourIndex index() {
+        return index;
     }
 
-    /** γ(h) (h &gt; 0), or +∞ where it exceeds the double range (reported by the caller). */
-    private static double gammaOrInfinity(VariogramModel model, double h) {
-        try {
-            return model.gamma(h);
-        } catch (IllegalArgumentException overflow) {
-            return Double.POSITIVE_INFINITY;
-        }
+    /** Covariances between stations and targets in the systems' units. */
+    StationCovariances covariances() {
+        return covariances;
     }
 
-    /** The (pseudo-)covariance at lag h; C(0) at h = 0. */
-    double cov(double h) {
-        return unitModel.pseudoCovariance(h, pseudoSill);
-    }
-
-    /** Distances from (x, y) to stations idx[0..m) (all stations 0..m−1 if idx is null) into out. */
-    void distances(int[] idx, int m, double x, double yy, double[] out) {
-        if (loc.kind() == Locations.Kind.PLANAR) {
-            for (int r = 0; r < m; r++) {
-                int i = idx == null ? r : idx[r];
-                out[r] = Scaling.planarNorm(sx[i] - x, sy[i] - yy);
-            }
-        } else {
-            for (int r = 0; r < m; r++) {
-                int i = idx == null ? r : idx[r];
-                out[r] = GreatCircle.km(sx[i], sy[i], x, yy);
-            }
-        }
-    }
-
-    /** Covariances from (x, y) to stations idx[0..m) (all if idx is null) into out; dist is scratch. */
-    void targetCovariances(int[] idx, int m, double x, double yy, double[] dist, double[] out) {
-        distances(idx, m, x, yy, dist);
-        unitModel.pseudoCovariances(dist, m, pseudoSill, out);
-    }
-
-    double stationCovariance(int i, int j) {
-        double[] sc = stationMatrix();
-        return sc != null ? sc[i * n + j] : cov(loc.distance(i, j));
-    }
-
-    private double[] stationMatrix() {
-        if (n > STATION_MATRIX_LIMIT) {
-            return null;
-        }
-        double[] sc = stationCov;
-        if (sc == null) {
-            synchronized (this) {
-                sc = stationCov;
-                if (sc == null) {
-                    double[] m = new double[n * n];
-                    int blocks = (n + 63) / 64;
-                    Kernels.forEachBlock(blocks, options.parallel() && n > 256, b -> {
-                        double[] d = new double[n];
-                        double[] row = new double[n];
-                        for (int i = b * 64; i < Math.min(n, b * 64 + 64); i++) {
-                            targetCovariances(null, n, loc.x(i), loc.y(i), d, row);
-                            row[i] = c00;
-                            System.arraycopy(row, 0, m, i * n, n);
-                        }
-                    });
-                    stationCov = m;
-                    sc = m;
-                }
-            }
-        }
-        return sc;
+    /** The drift functions as the systems evaluate them. */
+    DriftDesign design() {
+        return design;
     }
 
     LocalSystem globalSystem() {
@@ -515,11 +280,7 @@ public final class Kriging {
             synchronized (this) {
                 g = global;
                 if (g == null) {
-                    int[] all = new int[n];
-                    for (int i = 0; i < n; i++) {
-                        all[i] = i;
-                    }
-                    g = LocalSystem.build(this, all);
+                    g = system(allStations);
                     global = g;
                 }
             }
@@ -529,69 +290,63 @@ public final class Kriging {
 
     /** Neighbour indices (ascending) for a target, leaving out location {@code exclude} (−1 for none). */
     int[] neighbours(double x, double yy, int exclude) {
-        Neighbourhood hood = options.neighbourhood();
-        int[] nb;
-        switch (hood.kind()) {
-            case GLOBAL: {
-                nb = new int[exclude >= 0 ? n - 1 : n];
-                int c = 0;
-                for (int i = 0; i < n; i++) {
-                    if (i != exclude) {
-                        nb[c++] = i;
-                    }
-                }
-                return nb;
-            }
-            case NEAREST:
-                nb = index.nearest(x, yy, exclude >= 0 ? hood.count() + 1 : hood.count());
-                break;
-            default:
-                nb = index.within(x, yy, hood.radius());
-                break;
+        if (exclude < 0 && options.neighbourhood().isGlobal()) {
+            return allStations; // shared, never modified: systems and predictions copy what they keep
         }
-        int[] kept = new int[nb.length];
-        int c = 0;
-        for (int j : nb) {
-            if (j != exclude && c < hood.count()) {
-                kept[c++] = j;
-            }
-        }
-        nb = Arrays.copyOf(kept, c);
-        int need = Math.max(1, p + 1);
-        if (nb.length < Math.min(need, n - (exclude >= 0 ? 1 : 0))) {
-            throw new DensaException("only " + nb.length + " data location(s) within radius " + hood.radius()
-                    + " of target (" + x + ", " + yy + "); " + type + " kriging needs " + need,
-                    new KrigingDiagnostics(nb.length, Double.NaN, nb, "too few neighbours"));
-        }
-        Arrays.sort(nb);
-        return nb;
+        return options.neighbourhood().select(index, n, Math.max(1, p + 1), type, x, yy, exclude);
     }
 
     LocalSystem systemFor(int[] nb) {
-        return options.neighbourhood().isGlobal() && nb.length == n ? globalSystem() : LocalSystem.build(this, nb);
+        return options.neighbourhood().isGlobal() && nb.length == n ? globalSystem() : system(nb);
     }
 
-    private void checkTarget(double x, double yy) {
+    /**
+     * The factorised system of stations idx: the covariance block (with the diagonal extras), the
+     * drift rows and the centred data rows, handed to {@link LocalSystem#factor}.
+     */
+    LocalSystem system(int[] idx) {
+        int m = idx.length;
+        double[] a = new double[m * m];
+        for (int r = 0; r < m; r++) {
+            int ir = idx[r];
+            for (int c = 0; c <= r; c++) {
+                double v = covariances.station(ir, idx[c]);
+                a[r * m + c] = v;
+                a[c * m + r] = v;
+            }
+            a[r * m + r] += diagExtra[ir];
+        }
+        double[] f = new double[m * p];
+        for (int r = 0; r < m; r++) {
+            design.driftRow(idx[r], f, r * p);
+        }
+        double[] ly = new double[m * k];
+        for (int r = 0; r < m; r++) {
+            int o = idx[r] * k;
+            for (int c = 0; c < k; c++) {
+                ly[r * k + c] = y[o + c] - centre[c];
+            }
+        }
+        return LocalSystem.factor(idx, a, f, ly, p, k, options.conditionLimit(), dep -> design.dependentMessage(dep, m));
+    }
+
+    KrigingPrediction predictAt(double x, double yy, double[] covariates, int exclude, boolean withWeights) {
         loc.requirePoint(x, yy, "target");
-    }
-
-    private KrigingPrediction predictAt(double x, double yy, double[] covariates, int exclude, boolean withWeights) {
-        checkTarget(x, yy);
         double[] f0 = new double[p];
-        driftAt(x, yy, covariates, f0);
+        design.driftAt(x, yy, covariates, f0);
         int[] nb = neighbours(x, yy, exclude);
         LocalSystem sys = systemFor(nb);
         double[] c0 = new double[nb.length];
         double[] dist = new double[nb.length];
-        targetCovariances(nb, nb.length, x, yy, dist, c0);
-        double nearest = min(dist, nb.length);
+        covariances.targets(nb, nb.length, x, yy, dist, c0);
+        double nearest = StationCovariances.nearest(dist, nb.length);
         double[] out = new double[k];
         double[] w = withWeights ? new double[nb.length] : null;
         LocalSystem.Scratch sc = new LocalSystem.Scratch(p);
         double var = sys.predict(c0, f0, c00, centre, out, 0, w, sc);
         checkConstraints(sc.residual, x, yy, sys, nearest);
         if (w != null && p > 0) {
-            checkConstraints(weightResidual(nb, w, f0), x, yy, sys, nearest);
+            checkConstraints(design.weightResidual(nb, w, f0), x, yy, sys, nearest);
         }
         return new KrigingPrediction(density(out, x, yy, sys), variance(var, x, yy, sys), nb, w, nearest);
     }
@@ -607,20 +362,19 @@ public final class Kriging {
             throw new DensaException(String.format(java.util.Locale.ROOT, "%s kriging at target (%s, %s): the kriging"
                     + " variance %.6g x 2^%d exceeds the double range; the variogram's sill (%s) leaves no room for"
                     + " it: rescale the data", type, x, yy, unitVariance, unitExponent, model),
-                    new KrigingDiagnostics(sys.m, sys.condition, sys.idx.clone(), "kriging variance overflow"));
+                    sys.diagnostics("kriging variance overflow"));
         }
         return v;
     }
 
     /** The predicted density from its coordinates, or a DensaException naming the target if one overflowed. */
-    private Density density(double[] coords, double x, double yy, LocalSystem sys) {
+    Density density(double[] coords, double x, double yy, LocalSystem sys) {
         for (int c = 0; c < coords.length; c++) {
             if (!Double.isFinite(coords[c])) {
                 throw new DensaException(String.format(java.util.Locale.ROOT, "%s kriging at target (%s, %s):"
                         + " predicted coordinate %d is %s (the weighted sum of the data's coordinates, up to %.4g in"
                         + " magnitude, overflows); rescale the densities' coordinates", type, x, yy, c, coords[c],
-                        maxAbs(y)), new KrigingDiagnostics(sys.m, sys.condition, sys.idx.clone(),
-                        "predicted coordinate overflow"));
+                        maxAbs(y)), sys.diagnostics("predicted coordinate overflow"));
             }
         }
         return space.density(coords);
@@ -632,27 +386,6 @@ public final class Kriging {
             m = Math.max(m, Math.abs(v));
         }
         return m;
-    }
-
-    static double min(double[] a, int m) {
-        double v = Double.POSITIVE_INFINITY;
-        for (int i = 0; i < m; i++) {
-            v = Math.min(v, a[i]);
-        }
-        return v;
-    }
-
-    /** max_j |Σ_r λ_r F_{idx[r], j} − f0_j| / max(1, |f0_j|) for the reported weights. */
-    private double weightResidual(int[] idx, double[] w, double[] f0) {
-        double worst = 0;
-        for (int j = 0; j < p; j++) {
-            double s = -f0[j];
-            for (int r = 0; r < idx.length; r++) {
-                s += fRows[idx[r] * p + j] * w[r];
-            }
-            worst = Math.max(worst, Math.abs(s) / Math.max(1, Math.abs(f0[j])));
-        }
-        return Double.isNaN(worst) ? Double.POSITIVE_INFINITY : worst;
     }
 
     /**
@@ -669,9 +402,8 @@ public final class Kriging {
                 + " residual of %.3g (accepted: %.0e; the weights should sum to 1). The target is %.4g from the"
                 + " nearest data location, while the data span a half-width of %.4g, so the drift (%s) is"
                 + " extrapolated far beyond the data; predict closer to the data or use a lower drift degree",
-                type, x, yy, residual, LocalSystem.CONSTRAINT_TOLERANCE, nearest, scale, drift),
-                new KrigingDiagnostics(sys.m, sys.condition, sys.idx.clone(), "unbiasedness constraint residual "
-                        + residual));
+                type, x, yy, residual, LocalSystem.CONSTRAINT_TOLERANCE, nearest, design.scale(), drift),
+                sys.diagnostics("unbiasedness constraint residual " + residual));
     }
 
     // ------------------------------------------------------------------ public prediction API
@@ -714,100 +446,7 @@ public final class Kriging {
      *                                  points, or a drift with external covariates
      */
     public KrigingPrediction predictBlock(Polygon polygon, double spacing) {
-        Objects.requireNonNull(polygon, "polygon");
-        if (polygon.isEmpty()) {
-            throw new IllegalArgumentException("block polygon is empty");
-        }
-        if (!(spacing > 0) || Double.isInfinite(spacing)) {
-            throw new IllegalArgumentException("block discretisation spacing must be finite and > 0, got " + spacing);
-        }
-        if (drift != null && drift.covariateCount() > 0 && type == Type.UNIVERSAL) {
-            throw new IllegalArgumentException("block kriging with external drift covariates is not supported;"
-                    + " use a polynomial drift");
-        }
-        double[][] pts = discretise(polygon, spacing);
-        int m = pts.length;
-        double nearest = Double.POSITIVE_INFINITY;
-        for (double[] u : pts) {
-            loc.requirePoint(u[0], u[1], "block point");
-            nearest = Math.min(nearest, index.kthDistance(u[0], u[1], 1));
-        }
-        Point ip = polygon.getInteriorPoint();
-        int[] nb = neighbours(ip.getX(), ip.getY(), -1);
-        LocalSystem sys = systemFor(nb);
-        double[] c0 = new double[nb.length];
-        double[] f0 = new double[p];
-        double[] fb = new double[p];
-        double[] dist = new double[nb.length];
-        double[] cu = new double[nb.length];
-        for (double[] u : pts) {
-            targetCovariances(nb, nb.length, u[0], u[1], dist, cu);
-            for (int r = 0; r < nb.length; r++) {
-                c0[r] += cu[r];
-            }
-            driftAt(u[0], u[1], null, fb);
-            for (int j = 0; j < p; j++) {
-                f0[j] += fb[j];
-            }
-        }
-        for (int r = 0; r < nb.length; r++) {
-            c0[r] /= m;
-        }
-        for (int j = 0; j < p; j++) {
-            f0[j] /= m;
-        }
-        double cvv = 0;
-        for (int a = 0; a < m; a++) {
-            for (int b = 0; b < m; b++) {
-                cvv += a == b ? c00 : cov(distance(pts[a][0], pts[a][1], pts[b][0], pts[b][1]));
-            }
-        }
-        cvv /= (double) m * m;
-        double[] out = new double[k];
-        double[] w = new double[nb.length];
-        LocalSystem.Scratch sc = new LocalSystem.Scratch(p);
-        double var = sys.predict(c0, f0, cvv, centre, out, 0, w, sc);
-        checkConstraints(sc.residual, ip.getX(), ip.getY(), sys, nearest);
-        if (p > 0) {
-            checkConstraints(weightResidual(nb, w, f0), ip.getX(), ip.getY(), sys, nearest);
-        }
-        return new KrigingPrediction(density(out, ip.getX(), ip.getY(), sys), variance(var, ip.getX(), ip.getY(), sys),
-                nb, w, nearest);
-    }
-
-    /** Centres of a square grid of the given spacing covered by the polygon (package-private for tests). */
-    static double[][] discretise(Polygon polygon, double spacing) {
-        Envelope env = polygon.getEnvelopeInternal();
-        long nx = (long) Math.ceil(env.getWidth() / spacing - 1e-9);
-        long ny = (long) Math.ceil(env.getHeight() / spacing - 1e-9);
-        nx = Math.max(1, nx);
-        ny = Math.max(1, ny);
-        if (nx * ny > 1L << 22) {
-            throw new IllegalArgumentException("spacing " + spacing + " gives " + nx + " x " + ny
-                    + " candidate points; use a coarser spacing");
-        }
-        PreparedGeometry prep = PreparedGeometryFactory.prepare(polygon);
-        GeometryFactory gf = polygon.getFactory();
-        double x0 = env.getMinX() + 0.5 * (env.getWidth() - (nx - 1) * spacing);
-        double y0 = env.getMinY() + 0.5 * (env.getHeight() - (ny - 1) * spacing);
-        List<double[]> pts = new ArrayList<>();
-        for (long iy = 0; iy < ny; iy++) {
-            for (long ix = 0; ix < nx; ix++) {
-                double px = x0 + ix * spacing, py = y0 + iy * spacing;
-                if (prep.covers(gf.createPoint(new Coordinate(px, py)))) {
-                    pts.add(new double[] {px, py});
-                    if (pts.size() > 4096) {
-                        throw new IllegalArgumentException("spacing " + spacing + " puts more than 4096 points in"
-                                + " the block; use a coarser spacing");
-                    }
-                }
-            }
-        }
-        if (pts.isEmpty()) {
-            Point ip = polygon.getInteriorPoint();
-            pts.add(new double[] {ip.getX(), ip.getY()});
-        }
-        return pts.toArray(new double[0][]);
+        return BlockKriging.predict(this, polygon, spacing);
     }
 
     /**
@@ -825,7 +464,7 @@ public final class Kriging {
      *                                  {@link #predictGrid(Grid, CovariateGrid, GridOptions, Consumer)})
      */
     public void predictGrid(Grid grid, GridOptions gridOptions, Consumer<GridTile> consumer) {
-        GridPredictor.run(this, grid, gridOptions, consumer);
+        GridTiles.run(this, grid, gridOptions, consumer);
     }
 
     /**
@@ -840,7 +479,7 @@ public final class Kriging {
     public void predictGrid(Grid grid, CovariateGrid covariates, GridOptions gridOptions,
             Consumer<GridTile> consumer) {
         Objects.requireNonNull(covariates, "covariates");
-        GridPredictor.run(this, grid, gridOptions, covariates, t -> t, consumer);
+        GridTiles.run(this, grid, gridOptions, covariates, t -> t, consumer);
     }
 
     // ------------------------------------------------------------------ cross-validation
@@ -862,114 +501,25 @@ public final class Kriging {
      * @param listener a thread-safe listener, or {@link ProgressListener#NONE}
      */
     public CrossValidation crossValidate(ProgressListener listener) {
-        Objects.requireNonNull(listener, "listener");
-        ProgressCounter progress = new ProgressCounter(listener, "cross-validation", n);
-        if (options.neighbourhood().isGlobal()) {
-            CrossValidation cv = leaveOneOutFast();
-            progress.advance(n);
-            return cv;
-        }
-        return leaveOneOutBruteForce(progress);
+        return LeaveOneOut.crossValidate(this, listener);
     }
 
     /**
-     * Fast leave-one-out for the global neighbourhood from one inverse of the kriging matrix
-     * (Dubrule (1983), Cross validation of kriging in a unique neighborhood, Math. Geol. 15(6) —
-     * from memory): with A the (bordered) kriging matrix, B = A⁻¹ and α the dual weights
-     * B [Y; 0], the leave-one-out error at i is e_i = α_i / B_ii and the variance of predicting
-     * the datum is 1 / B_ii (= σ²_{−i} + v_i). Here B_ii = (C⁻¹)_ii − u_iᵀ S⁻¹ u_i with U = C⁻¹F
-     * and S = FᵀC⁻¹F, all from the one Cholesky factor of C.
+     * Fast leave-one-out for the global neighbourhood (see {@link LeaveOneOut#fast}); package-private:
+     * {@link #crossValidate()} chooses it for the global neighbourhood.
      *
      * @throws IllegalArgumentException if the neighbourhood is not global
      */
-    public CrossValidation leaveOneOutFast() {
-        if (!options.neighbourhood().isGlobal()) {
-            throw new IllegalArgumentException("fast leave-one-out needs the global neighbourhood"
-                    + " (Neighbourhood.global()), got " + options.neighbourhood()
-                    + "; use crossValidate() or leaveOneOutBruteForce() for local neighbourhoods");
-        }
-        if (n < p + 2) {
-            throw new IllegalArgumentException("leave-one-out with " + p + " drift function(s) needs at least "
-                    + (p + 2) + " locations, got " + n);
-        }
-        LocalSystem g = globalSystem();
-        double[] l = g.l;
-        // diag(C^{-1})_i = Σ_r (L^{-1})_{ri}^2 from the triangular inverse
-        double[] diag = new double[n];
-        double[] linv = new double[n];
-        for (int col = 0; col < n; col++) {
-            Cholesky.invertLowerColumn(l, n, col, linv);
-            double s = 0;
-            for (int r = col; r < n; r++) {
-                s += linv[r] * linv[r];
-            }
-            diag[col] = s;
-        }
-        // U = L^{-T} G (n × p), beta = S^{-1} Gᵀ LY (p × k), alpha = L^{-T}(LY − G beta)
-        double[] u = new double[n * p];
-        double[] col = new double[n];
-        for (int j = 0; j < p; j++) {
-            for (int r = 0; r < n; r++) {
-                col[r] = g.g[r * p + j];
-            }
-            Cholesky.backward(l, n, n, col, 0);
-            for (int r = 0; r < n; r++) {
-                u[r * p + j] = col[r];
-            }
-        }
-        double[] alpha = dualWeights(driftCoefficientsFlat());
-        double[][] err = new double[n][k];
-        double[] var = new double[n];
-        for (int i = 0; i < n; i++) {
-            System.arraycopy(alpha, i * k, err[i], 0, k);
-        }
-        for (int i = 0; i < n; i++) {
-            double b = diag[i];
-            for (int a = 0; a < p; a++) {
-                double s = 0;
-                for (int j = 0; j < p; j++) {
-                    s += g.sInv[a * p + j] * u[i * p + j];
-                }
-                b -= u[i * p + a] * s;
-            }
-            for (int c = 0; c < k; c++) {
-                err[i][c] /= b;
-            }
-            var[i] = Math.scalb(Math.max(0, 1 / b - diagExtra[i]), unitExponent);
-        }
-        return CrossValidation.of(err, var, diagExtraRaw.clone());
+    CrossValidation leaveOneOutFast() {
+        return LeaveOneOut.fast(this);
     }
 
     /**
-     * Leave-one-out by refitting: for each location, kriging from the others (within this
-     * neighbourhood) at its position. Locations are processed in parallel, each writing its own row.
+     * Leave-one-out by refitting for each location (see {@link LeaveOneOut#bruteForce}); package-private:
+     * {@link #crossValidate()} chooses it for local neighbourhoods.
      */
-    public CrossValidation leaveOneOutBruteForce() {
-        return leaveOneOutBruteForce(new ProgressCounter(ProgressListener.NONE, "cross-validation", n));
-    }
-
-    private CrossValidation leaveOneOutBruteForce(ProgressCounter progress) {
-        if (n < p + 2) {
-            throw new IllegalArgumentException("leave-one-out with " + p + " drift function(s) needs at least "
-                    + (p + 2) + " locations, got " + n);
-        }
-        double[][] err = new double[n][k];
-        double[] var = new double[n];
-        int q = drift == null ? 0 : drift.covariateCount();
-        Kernels.forEachBlock(n, options.parallel() && n >= 32, i -> {
-            double[] cov = new double[q];
-            for (int j = 0; j < q; j++) {
-                cov[j] = drift.covariate(i, j);
-            }
-            KrigingPrediction pr = predictAt(loc.x(i), loc.y(i), q > 0 ? cov : null, i, false);
-            double[] c = pr.density().coordinates();
-            for (int j = 0; j < k; j++) {
-                err[i][j] = y[i * k + j] - c[j];
-            }
-            var[i] = pr.variance();
-            progress.advance(1);
-        });
-        return CrossValidation.of(err, var, diagExtraRaw.clone());
+    CrossValidation leaveOneOutBruteForce() {
+        return LeaveOneOut.bruteForce(this, new ProgressCounter(ProgressListener.NONE, "cross-validation", n));
     }
 
     /**
@@ -994,88 +544,12 @@ public final class Kriging {
      *                        double (covariate values far below 1e-300)
      */
     public double[][] driftCoefficients() {
-        double[] flat = driftCoefficientsFlat();
-        double[][] beta = new double[p][k];
-        for (int j = 0; j < p; j++) {
-            System.arraycopy(flat, j * k, beta[j], 0, k);
-        }
-        int mono = p - covUnit.length;
-        for (int j = 0; j < covUnit.length; j++) {
-            for (int c = 0; c < k; c++) {
-                double b = beta[mono + j][c] / covSpread[j];
-                beta[0][c] -= b * covShift[j];
-                beta[mono + j][c] = b / covUnit[j];
-                if (!Double.isFinite(beta[mono + j][c]) || !Double.isFinite(beta[0][c])) {
-                    throw new DensaException("the coefficient of drift covariate " + j + " overflows a double in the"
-                            + " covariate's units (values up to " + covUnit[j] + ")",
-                            new KrigingDiagnostics(n, Double.NaN, new int[0], "drift coefficient overflow"));
-                }
-            }
-        }
-        return beta;
-    }
-
-    /** β̂ = S⁻¹ Gᵀ L⁻¹Y, row-major p × K. */
-    double[] driftCoefficientsFlat() {
-        LocalSystem g = globalSystem();
-        double[] gty = new double[p * k];
-        for (int r = 0; r < n; r++) {
-            for (int j = 0; j < p; j++) {
-                double gj = g.g[r * p + j];
-                for (int c = 0; c < k; c++) {
-                    gty[j * k + c] += gj * g.ly[r * k + c];
-                }
-            }
-        }
-        double[] beta = new double[p * k];
-        for (int i = 0; i < p; i++) {
-            for (int j = 0; j < p; j++) {
-                double si = g.sInv[i * p + j];
-                for (int c = 0; c < k; c++) {
-                    beta[i * k + c] += si * gty[j * k + c];
-                }
-            }
-        }
-        return beta;
-    }
-
-    /**
-     * Dual weights α = C⁻¹(Y − m − Fβ̂) = L⁻ᵀ(L⁻¹Y − Gβ̂) (row-major n × K) of the global system, so
-     * that the prediction at s_0 is m + c0ᵀα + f0ᵀβ̂.
-     */
-    double[] dualWeights(double[] beta) {
-        LocalSystem g = globalSystem();
-        double[] a = new double[n * k];
-        double[] col = new double[n];
-        for (int c = 0; c < k; c++) {
-            for (int r = 0; r < n; r++) {
-                double s = g.ly[r * k + c];
-                for (int j = 0; j < p; j++) {
-                    s -= g.g[r * p + j] * beta[j * k + c];
-                }
-                col[r] = s;
-            }
-            Cholesky.backward(g.l, n, n, col, 0);
-            for (int r = 0; r < n; r++) {
-                a[r * k + c] = col[r];
-            }
-        }
-        return a;
+        return design.inOwnUnits(globalSystem().driftCoefficients(), k, n);
     }
 
     /** Drift residuals Y − F β̂ (row-major n × K) of the GLS drift, for re-estimating the residual variogram. */
     double[] driftResiduals() {
-        double[] beta = driftCoefficientsFlat();
-        double[] r = y.clone();
-        for (int i = 0; i < n; i++) {
-            for (int j = 0; j < p; j++) {
-                double f = fRows[i * p + j];
-                for (int c = 0; c < k; c++) {
-                    r[i * k + c] -= f * beta[j * k + c];
-                }
-            }
-        }
-        return r;
+        return design.residuals(y, globalSystem().driftCoefficients(), n, k);
     }
 
     // ------------------------------------------------------------------ accessors

@@ -107,4 +107,36 @@ public final class KrigingOptions {
     public boolean parallel() {
         return parallel;
     }
+
+    /**
+     * Error variance plus coincident nugget of each of n locations, in the data's units (a new array;
+     * package-private, for {@link Kriging}).
+     *
+     * @throws IllegalArgumentException if the error variances do not have n entries or a sum overflows
+     */
+    double[] diagonalExtras(int n) {
+        double[] ev = errorVariances();
+        if (ev != null && ev.length != n) {
+            throw new IllegalArgumentException("error variances have " + ev.length + " entries but there are " + n
+                    + " locations");
+        }
+        double[] errorVariances = ev == null ? new double[n] : ev;
+        double[] diagExtraRaw = new double[n];
+        for (int i = 0; i < n; i++) {
+            diagExtraRaw[i] = errorVariances[i] + coincidentNugget();
+            if (!(diagExtraRaw[i] <= Double.MAX_VALUE)) {
+                throw new IllegalArgumentException("the error variance of location " + i + " plus the coincident"
+                        + " nugget (" + errorVariances[i] + " + " + coincidentNugget() + ") overflows a"
+                        + " double; accepted are sums below about 1.8e308");
+            }
+        }
+        return diagExtraRaw;
+    }
+
+    @Override
+    public String toString() {
+        return "KrigingOptions[" + neighbourhood + ", errorVariances=" + (errorVariances == null ? "none"
+                : errorVariances.length + " values") + ", coincidentNugget=" + coincidentNugget + ", conditionLimit="
+                + conditionLimit + ", parallel=" + parallel + "]";
+    }
 }

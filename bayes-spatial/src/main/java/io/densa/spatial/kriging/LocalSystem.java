@@ -2,6 +2,7 @@ package io.densa.spatial.kriging;
 
 import io.densa.core.DensaException;
 import io.densa.core.internal.Cholesky;
+import java.util.function.IntFunction;
 import org.ejml.data.DMatrixRMaj;
 
 /**
@@ -18,12 +19,6 @@ import org.ejml.data.DMatrixRMaj;
  */
 final class LocalSystem {
     /**
-     * Largest system factorised by the division-form loop below; larger ones (up to
-     * {@link Cholesky#LARGE}) use {@link Cholesky#factor}, whose reciprocal form differs in the last
-     * bits.
-     */
-    private static final int OWN_FACTOR_LIMIT = 160;
-    /**
      * Largest accepted relative residual of the unbiasedness constraints Fᵀλ = f0, per drift
      * function |(Fᵀλ − f0)_j| / max(1, |f0_j|): weights that sum to 1 ± 10⁻⁶ (our choice; well
      * conditioned systems give about 10⁻¹⁵, and far outside the data the residual grows with the
@@ -31,15 +26,15 @@ final class LocalSystem {
      */
     static final double CONSTRAINT_TOLERANCE = 1e-6;
 
-    final int[] idx;
-    final int m;
-    final int p;
-    final int k;
-    final double[] l;   // m × m lower
-    final double[] g;   // m × p
-    final double[] sInv; // p × p
-    final double[] ly;  // m × k
-    final double condition;
+    private final int[] idx;
+    private final int m;
+    private final int p;
+    private final int k;
+    private final double[] l;   // m × m lower
+    private final double[] g;   // m × p
+    private final double[] sInv; // p × p
+    private final double[] ly;  // m × k
+    private final double condition;
 
     private LocalSystem(int[] idx, int p, int k, double[] l, double[] g, double[] sInv, double[] ly, double condition) {
         this.idx = idx;
@@ -53,49 +48,44 @@ final class LocalSystem {
         this.condition = condition;
     }
 
-    static LocalSystem build(Kriging kr, int[] idx) {
+    /**
+     * Factorises a kriging system given as arrays: C = L Lᵀ, G = L⁻¹F, L⁻¹Y and S⁻¹ = (GᵀG)⁻¹.
+     *
+     * @param idx               the stations of the system (kept, not copied; reported in diagnostics)
+     * @param cov               C, m × m symmetric with the diagonal extras included (overwritten by L)
+     * @param driftRows         F, m × p row-major (overwritten by G)
+     * @param dataRows          Y, m × k row-major, already centred (overwritten by L⁻¹Y)
+     * @param conditionLimit    the largest accepted condition estimate of C
+     * @param dependentMessage  the message for drift column j that the others determine over these
+     *                          m stations
+     * @throws DensaException with {@link KrigingDiagnostics} on a Cholesky breakdown, an
+     *                        ill-conditioned C or a singular drift
+     */
+    static LocalSystem factor(int[] idx, double[] cov, double[] driftRows, double[] dataRows, int p, int k,
+            double conditionLimit, IntFunction<String> dependentMessage) {
         int m = idx.length;
-        int p = kr.driftSize();
-        int k = kr.dimension();
-        double[] a = new double[m * m];
-        for (int r = 0; r < m; r++) {
-            int ir = idx[r];
-            for (int c = 0; c <= r; c++) {
-                double v = kr.stationCovariance(ir, idx[c]);
-                a[r * m + c] = v;
-                a[c * m + r] = v;
-            }
-            a[r * m + r] += kr.diagonalExtra(ir);
-        }
-        double[] l = cholesky(a, m, idx, "covariance matrix");
+        double[] l = cholesky(cov, m, idx, "covariance matrix");
         double dmax = 0, dmin = Double.POSITIVE_INFINITY;
         for (int r = 0; r < m; r++) {
             dmax = Math.max(dmax, l[r * m + r]);
             dmin = Math.min(dmin, l[r * m + r]);
         }
         double cond = (dmax / dmin) * (dmax / dmin);
-        if (!(cond <= kr.conditionLimit())) {
+        if (!(cond <= conditionLimit)) {
             throw new DensaException("kriging system of " + m + " locations is ill-conditioned (condition estimate "
-                    + cond + " > limit " + kr.conditionLimit() + "); locations may nearly coincide: add error"
+                    + cond + " > limit " + conditionLimit + "); locations may nearly coincide: add error"
                     + " variances, a nugget or withCoincidentNugget", new KrigingDiagnostics(m, cond, idx.clone(),
                     "ill-conditioned covariance matrix"));
         }
-        double[] g = new double[m * p];
-        for (int r = 0; r < m; r++) {
-            kr.driftRow(idx[r], g, r * p);
+        int dep = p > 1 ? DriftDesign.dependentColumn(driftRows, m, p, null) : -1;
+        if (dep >= 0) {
+            throw new DensaException(dependentMessage.apply(dep), new KrigingDiagnostics(m, cond, idx.clone(),
+                    "dependent drift function " + dep));
         }
+        double[] g = driftRows;
         Cholesky.forwardRows(l, m, g, p);
         double[] sInv = new double[p * p];
         if (p > 0) {
-            double[] f = new double[m * p];
-            for (int r = 0; r < m; r++) {
-                kr.driftRow(idx[r], f, r * p);
-            }
-            int dep = p > 1 ? Kriging.dependentColumn(f, m, p, null) : -1;
-            if (dep >= 0) {
-                throw new DensaException(kr.dependentMessage(dep, m), new KrigingDiagnostics(m, cond, idx.clone(),
-                        "dependent drift function " + dep));
-            }
             double[] s = new double[p * p];
             for (int r = 0; r < m; r++) {
                 for (int i = 0; i < p; i++) {
@@ -107,16 +97,111 @@ final class LocalSystem {
             }
             sInv = inverseSpd(s, p, idx);
         }
-        double[] ly = new double[m * k];
-        double[] mean = kr.centre();
-        for (int r = 0; r < m; r++) {
-            int o = idx[r] * k;
-            for (int c = 0; c < k; c++) {
-                ly[r * k + c] = kr.y[o + c] - mean[c];
-            }
-        }
+        double[] ly = dataRows;
         Cholesky.forwardRows(l, m, ly, k);
         return new LocalSystem(idx, p, k, l, g, sInv, ly, cond);
+    }
+
+    /** Number of stations m. */
+    int size() {
+        return m;
+    }
+
+    /** Diagnostics of this system with the given reason (the station indices copied). */
+    KrigingDiagnostics diagnostics(String reason) {
+        return new KrigingDiagnostics(m, condition, idx.clone(), reason);
+    }
+
+    /** L, the m × m lower Cholesky factor of C (the internal array: callers must not modify it). */
+    double[] lowerFactor() {
+        return l;
+    }
+
+    /** β̂ = S⁻¹ Gᵀ L⁻¹Y = (FᵀC⁻¹F)⁻¹FᵀC⁻¹Y, row-major p × k. */
+    double[] driftCoefficients() {
+        double[] gty = new double[p * k];
+        for (int r = 0; r < m; r++) {
+            for (int j = 0; j < p; j++) {
+                double gj = g[r * p + j];
+                for (int c = 0; c < k; c++) {
+                    gty[j * k + c] += gj * ly[r * k + c];
+                }
+            }
+        }
+        double[] beta = new double[p * k];
+        for (int i = 0; i < p; i++) {
+            for (int j = 0; j < p; j++) {
+                double si = sInv[i * p + j];
+                for (int c = 0; c < k; c++) {
+                    beta[i * k + c] += si * gty[j * k + c];
+                }
+            }
+        }
+        return beta;
+    }
+
+    /**
+     * Dual weights α = C⁻¹(Y − Fβ) = L⁻ᵀ(L⁻¹Y − Gβ) (row-major m × k), so that the prediction at s_0
+     * is centre + c0ᵀα + f0ᵀβ.
+     */
+    double[] dualWeights(double[] beta) {
+        double[] a = new double[m * k];
+        double[] col = new double[m];
+        for (int c = 0; c < k; c++) {
+            for (int r = 0; r < m; r++) {
+                double s = ly[r * k + c];
+                for (int j = 0; j < p; j++) {
+                    s -= g[r * p + j] * beta[j * k + c];
+                }
+                col[r] = s;
+            }
+            Cholesky.backward(l, m, m, col, 0);
+            for (int r = 0; r < m; r++) {
+                a[r * k + c] = col[r];
+            }
+        }
+        return a;
+    }
+
+    /**
+     * The diagonal of the inverse of the bordered kriging matrix [[C, F], [Fᵀ, 0]] in its C block:
+     * B_ii = (C⁻¹)_ii − u_iᵀ S⁻¹ u_i with U = C⁻¹F = L⁻ᵀG (m entries).
+     */
+    double[] borderedInverseDiagonal() {
+        // diag(C^{-1})_i = Σ_r (L^{-1})_{ri}^2 from the triangular inverse
+        double[] diag = new double[m];
+        double[] linv = new double[m];
+        for (int col = 0; col < m; col++) {
+            Cholesky.invertLowerColumn(l, m, col, linv);
+            double s = 0;
+            for (int r = col; r < m; r++) {
+                s += linv[r] * linv[r];
+            }
+            diag[col] = s;
+        }
+        double[] u = new double[m * p];
+        double[] col = new double[m];
+        for (int j = 0; j < p; j++) {
+            for (int r = 0; r < m; r++) {
+                col[r] = g[r * p + j];
+            }
+            Cholesky.backward(l, m, m, col, 0);
+            for (int r = 0; r < m; r++) {
+                u[r * p + j] = col[r];
+            }
+        }
+        for (int i = 0; i < m; i++) {
+            double b = diag[i];
+            for (int a = 0; a < p; a++) {
+                double s = 0;
+                for (int j = 0; j < p; j++) {
+                    s += sInv[a * p + j] * u[i * p + j];
+                }
+                b -= u[i * p + a] * s;
+            }
+            diag[i] = b;
+        }
+        return diag;
     }
 
     /** Lower Cholesky factor of the symmetric matrix a (m × m, overwritten for small m). */
@@ -136,39 +221,12 @@ final class LocalSystem {
             }
             return l;
         }
-        if (m > OWN_FACTOR_LIMIT) {
-            // the same arithmetic as EJML's inner Cholesky, which served these sizes before
-            if (Cholesky.factor(a, m, m, 0) >= 0) {
-                throw breakdown(m, idx, what);
-            }
-            for (int r = 0; r < m; r++) {
-                for (int c = r + 1; c < m; c++) {
-                    a[r * m + c] = 0;
-                }
-            }
-            return a;
+        if (Cholesky.factor(a, m, m, 0) >= 0) {
+            throw breakdown(m, idx, what);
         }
-        for (int j = 0; j < m; j++) {
-            int jo = j * m;
-            double d = a[jo + j];
-            for (int c = 0; c < j; c++) {
-                d -= a[jo + c] * a[jo + c];
-            }
-            if (!(d > 0) || Double.isInfinite(d)) {
-                throw breakdown(m, idx, what);
-            }
-            double ljj = Math.sqrt(d);
-            a[jo + j] = ljj;
-            for (int i = j + 1; i < m; i++) {
-                int io = i * m;
-                double s = a[io + j];
-                for (int c = 0; c < j; c++) {
-                    s -= a[io + c] * a[jo + c];
-                }
-                a[io + j] = s / ljj;
-            }
-            for (int c = j + 1; c < m; c++) {
-                a[jo + c] = 0;
+        for (int r = 0; r < m; r++) {
+            for (int c = r + 1; c < m; c++) {
+                a[r * m + c] = 0;
             }
         }
         return a;

@@ -1,6 +1,9 @@
 package io.densa.spatial.kriging;
 
+import io.densa.core.DensaException;
+import io.densa.spatial.NeighbourIndex;
 import io.densa.spatial.Locations;
+import java.util.Arrays;
 
 /**
  * Which data locations enter the kriging system at a target: all of them (global, one
@@ -71,6 +74,50 @@ public final class Neighbourhood {
     /** True for the global neighbourhood. */
     public boolean isGlobal() {
         return kind == Kind.GLOBAL;
+    }
+
+    /**
+     * Neighbour indices (ascending) of a target among n stations, leaving out station {@code exclude}
+     * (−1 for none); package-private, for {@link Kriging}.
+     *
+     * @param need the number of neighbours the kriging type needs (a DensaException below it)
+     */
+    int[] select(NeighbourIndex index, int n, int need, Kriging.Type type, double x, double yy, int exclude) {
+        Neighbourhood hood = this;
+        int[] nb;
+        switch (hood.kind()) {
+            case GLOBAL: {
+                nb = new int[exclude >= 0 ? n - 1 : n];
+                int c = 0;
+                for (int i = 0; i < n; i++) {
+                    if (i != exclude) {
+                        nb[c++] = i;
+                    }
+                }
+                return nb;
+            }
+            case NEAREST:
+                nb = index.nearest(x, yy, exclude >= 0 ? hood.count() + 1 : hood.count());
+                break;
+            default:
+                nb = index.within(x, yy, hood.radius());
+                break;
+        }
+        int[] kept = new int[nb.length];
+        int c = 0;
+        for (int j : nb) {
+            if (j != exclude && c < hood.count()) {
+                kept[c++] = j;
+            }
+        }
+        nb = Arrays.copyOf(kept, c);
+        if (nb.length < Math.min(need, n - (exclude >= 0 ? 1 : 0))) {
+            throw new DensaException("only " + nb.length + " data location(s) within radius " + hood.radius()
+                    + " of target (" + x + ", " + yy + "); " + type + " kriging needs " + need,
+                    new KrigingDiagnostics(nb.length, Double.NaN, nb, "too few neighbours"));
+        }
+        Arrays.sort(nb);
+        return nb;
     }
 
     @Override

@@ -15,12 +15,11 @@
  * {@link io.densa.spatial.kriging.CovariateGrid} for an external drift) and
  * {@link io.densa.spatial.kriging.Kriging#crossValidate}.
  *
- * <p>Uncertainty in the data's units: {@link io.densa.spatial.kriging.PredictiveDistribution} gives
- * the Gaussian law of the coordinates at a location (proportional covariance model) and seeded
- * Monte Carlo intervals of quantiles, exceedance probabilities and means at locations or per grid
- * cell ({@link io.densa.spatial.kriging.UncertaintyOptions}); checks of the model:
- * {@link io.densa.spatial.kriging.ProportionalityCheck} and
- * {@link io.densa.spatial.kriging.AnisotropyTest}.
+ * <p>Uncertainty in the data's units (predictive distributions, Monte Carlo intervals) and the
+ * checks of the proportional covariance model live in {@code io.densa.spatial.uncertainty}, which
+ * builds on this package; {@link io.densa.spatial.kriging.FieldSimulator} (fields simulated under
+ * a kriging's model) and {@link io.densa.spatial.kriging.GridTiles#map} (per-tile work on the grid
+ * stream) are the two entry points it uses.
  *
  * <h2>Guarantees</h2>
  * A prepared {@link io.densa.spatial.kriging.Kriging} is immutable and thread-safe; results are

@@ -128,4 +128,11 @@ public final class VariogramFitOptions {
     int maxEvaluations() {
         return maxEvaluations;
     }
+
+    @Override
+    public String toString() {
+        return "VariogramFitOptions[family=" + family + ", nugget=" + nugget + ", method=" + method
+                + ", smoothness=" + smoothness + ", range=[" + minRange + ", " + maxRange + "], maxEvaluations="
+                + maxEvaluations + "]";
+    }
 }

@@ -31,7 +31,7 @@ import org.apache.commons.math3.optim.nonlinear.scalar.noderiv.BOBYQAOptimizer;
  *
  * <p>Starting values (common practice): sill = mean γ̂ of the last third of the bins, nugget = the
  * straight line through the first two bins at lag 0 (clamped to [0, ½ sill]), range = the first
- * lag where γ̂ reaches 95% of the sill (divided by 3 for the Matérn scale). BOBYQA runs from
+ * lag where γ̂ reaches 95% of the sill. BOBYQA runs from
  * there and from the best point of a profile over 25 ranges spaced evenly on a log scale (for
  * each range the partial sill and nugget solve a weighted linear least-squares problem, with
  * weights |N(h_j)| / γ̂(h_j)² for Cressie's criterion); the better end point is kept.
@@ -150,9 +150,6 @@ public final class VariogramFitting {
             a = 1.0;
             c = g[used - 1] - c0; // the structure's value at h_max
         } else {
-            if (fam == VariogramModel.Family.MATERN) {
-                a /= 3;
-            }
             rlo = Double.isNaN(options.minRange()) ? 1e-3 * hmax : options.minRange();
             rhi = userMax ? options.maxRange() : 3 * hmax;
         }
@@ -239,7 +236,7 @@ public final class VariogramFitting {
                     + " ended on its upper bound, twice the largest semivariance", par[2])));
         }
         if (!power) {
-            double reach = practicalRange(fam, par[1], options.smoothness());
+            double reach = par[1]; // the practical range, by the parametrisation of every bounded family
             if (reach > hmax) {
                 warnings.add(new VariogramFit.Warning(VariogramFit.WarningKind.RANGE_BEYOND_LAGS, fmt("the fitted"
                         + " practical range %.4g is %.2f times the largest lag %.4g of the empirical variogram: the"
@@ -282,32 +279,6 @@ public final class VariogramFitting {
             out[i] = Math.min(box[1][i], Math.max(box[0][i], out[i]));
         }
         return out;
-    }
-
-    /**
-     * The practical range of a bounded structure: the range itself for the spherical (sill reached)
-     * and for the exponential and Gaussian (95% of the partial sill reached, by their
-     * parametrisation); for the Matérn the lag where it reaches 95% of its partial sill (bisection).
-     */
-    static double practicalRange(VariogramModel.Family fam, double a, double nu) {
-        if (fam != VariogramModel.Family.MATERN) {
-            return a;
-        }
-        VariogramModel unit = VariogramModel.matern(1, a, nu);
-        double lo = 0, hi = a;
-        while (unit.gammaUnchecked(hi) < 0.95 && hi < 1e6 * a) {
-            lo = hi;
-            hi *= 2;
-        }
-        for (int it = 0; it < 60; it++) {
-            double mid = 0.5 * (lo + hi);
-            if (unit.gammaUnchecked(mid) < 0.95) {
-                lo = mid;
-            } else {
-                hi = mid;
-            }
-        }
-        return hi;
     }
 
     /** Starting point at which the criterion failed. */

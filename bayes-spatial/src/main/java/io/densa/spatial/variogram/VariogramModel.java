@@ -5,24 +5,32 @@ import java.util.Arrays;
 import java.util.Collections;
 import java.util.List;
 import java.util.Objects;
+import org.apache.commons.math3.analysis.UnivariateFunction;
+import org.apache.commons.math3.analysis.solvers.BrentSolver;
 import org.apache.commons.math3.special.Gamma;
 
 /**
  * An isotropic (trace-)semivariogram model γ(h), a nested sum of basic structures, each with a
  * partial sill c and a range parameter a. With t = h/a (Cressie (1993), Statistics for Spatial
- * Data, §2.3.1 — from memory; REFERENCES.md §8):
+ * Data, §2.3.1 — from memory):
  * <ul>
  * <li>nugget: γ(h) = c for h &gt; 0, γ(0) = 0;</li>
  * <li>spherical: c (1.5 t − 0.5 t³) for t ≤ 1, c beyond; a is the range;</li>
  * <li>exponential: c (1 − e^{−3t}); <b>a is the practical range</b> (γ reaches 95% of c at
  *     h = a), so C(h) = 10 e^{−0.3h} is exponential(10, 10);</li>
  * <li>Gaussian: c (1 − e^{−3t²}); a is the practical range;</li>
- * <li>Matérn(ν): c (1 − 2^{1−ν}/Γ(ν) t^ν K_ν(t)); a is the scale φ (not a practical range), so
- *     Matérn(c, a, ½) equals exponential(c, 3a);</li>
+ * <li>Matérn(ν): c (1 − 2^{1−ν}/Γ(ν) (h/φ)^ν K_ν(h/φ)) with the scale φ = a / r(ν), where r(ν)
+ *     solves 2^{1−ν}/Γ(ν) r^ν K_ν(r) = e^{−3}: a is the practical range here too, so Matérn(c, a, ½)
+ *     equals exponential(c, a) (r(½) = 3) and {@link Structure#scale()} gives φ;</li>
  * <li>power: c h^ω with 0 &lt; ω &lt; 2 (unbounded; the "range" slot holds ω).</li>
  * </ul>
  * For a bounded model the covariance is C(h) = sill − γ(h), with C(0) = sill (the nugget
  * included), so kriging with a nugget interpolates exactly at data locations.
+ *
+ * <p><b>One range convention.</b> For the exponential, Gaussian and Matérn families a is the
+ * <em>practical range</em>: the lag at which the correlation C(h)/C(0) of the structure falls to
+ * e^{−3} ≈ 0.0498 (γ reaches 95.02% of its partial sill). For the spherical it is the range, where
+ * γ reaches the partial sill.
  *
  * <p><b>Parameter ranges.</b> Every partial sill, range and coefficient is finite and positive, and
  * the total sill of the bounded structures must be a finite double (checked when structures are
@@ -43,7 +51,7 @@ public final class VariogramModel {
         EXPONENTIAL,
         /** Gaussian (practical range). */
         GAUSSIAN,
-        /** Matérn with smoothness ν (scale parameter). */
+        /** Matérn with smoothness ν (practical range). */
         MATERN,
         /** Power c h^ω (unbounded). */
         POWER
@@ -58,10 +66,25 @@ public final class VariogramModel {
      * @param smoothness  ν for Matérn, NaN otherwise
      */
     public record Structure(Family family, double partialSill, double range, double smoothness) {
+        /**
+         * The scale φ with which the structure's correlation is written as a function of h/φ: for the
+         * Matérn a / r(ν) (see the class description), for the exponential a / 3, for the Gaussian
+         * a / √3; the range a itself for the spherical, the exponent for the power model and NaN
+         * for the nugget.
+         */
+        public double scale() {
+            switch (family) {
+                case MATERN: return range / practicalRangeFactor(smoothness);
+                case EXPONENTIAL: return range / 3;
+                case GAUSSIAN: return range / Math.sqrt(3);
+                default: return range;
+            }
+        }
     }
 
     private final Structure[] parts;
     private final double[] maternConst; // 2^{1−ν}/Γ(ν) per part (NaN if not Matérn)
+    private final double[] maternScale; // φ = a / r(ν) per part (NaN if not Matérn)
     /**
      * Per part, the rate of the exponential or Gaussian covariance loop (−3/a, −3/a²), or NaN when
      * that rate is not a finite non-zero number (a range below about 1.7e-308, or a Gaussian range
@@ -73,12 +96,13 @@ public final class VariogramModel {
     private VariogramModel(Structure[] parts) {
         this.parts = parts;
         this.maternConst = new double[parts.length];
+        this.maternScale = new double[parts.length];
         this.rate = new double[parts.length];
         double sill = 0;
         for (int i = 0; i < parts.length; i++) {
             Structure s = parts[i];
-            maternConst[i] = s.family == Family.MATERN
-                    ? Math.exp((1 - s.smoothness) * Math.log(2) - Gamma.logGamma(s.smoothness)) : Double.NaN;
+            maternConst[i] = s.family == Family.MATERN ? maternConstant(s.smoothness) : Double.NaN;
+            maternScale[i] = s.family == Family.MATERN ? s.range / practicalRangeFactor(s.smoothness) : Double.NaN;
             double r = s.family == Family.EXPONENTIAL ? -3 / s.range
                     : s.family == Family.GAUSSIAN ? -3 / (s.range * s.range) : Double.NaN;
             rate[i] = r < 0 && r > Double.NEGATIVE_INFINITY ? r : Double.NaN;
@@ -145,8 +169,37 @@ public final class VariogramModel {
         return single(Family.GAUSSIAN, c, a, Double.NaN);
     }
 
+    /** 2^{1−ν}/Γ(ν). */
+    private static double maternConstant(double nu) {
+        return Math.exp((1 - nu) * Math.log(2) - Gamma.logGamma(nu));
+    }
+
     /**
-     * Matérn with partial sill c, scale a and smoothness ν.
+     * r(ν), the root of 2^{1−ν}/Γ(ν) r^ν K_ν(r) = e^{−3}: the practical range of the Matérn
+     * correlation in units of its scale. r(½) = 3 exactly (the correlation is e^{−r}); otherwise
+     * Brent's method (Commons Math {@code BrentSolver}, relative accuracy 1e-15) on a bracket
+     * that starts at [1e-3, 50] (the correlation decreases strictly from 1 to 0).
+     */
+    static double practicalRangeFactor(double nu) {
+        if (nu == 0.5) {
+            return 3;
+        }
+        double c = maternConstant(nu);
+        double target = Math.exp(-3);
+        UnivariateFunction f = t -> maternCorrelation(nu, c, t) - target;
+        double lo = 1e-3, hi = 50;
+        while (f.value(lo) < 0 && lo > 1e-300) {
+            lo *= 1e-3;
+        }
+        while (f.value(hi) > 0 && hi < 1e6) {
+            hi *= 2;
+        }
+        return new BrentSolver(1e-15, 1e-15, 1e-300).solve(1000, f, lo, hi);
+    }
+
+    /**
+     * Matérn with partial sill c, practical range a (the correlation is e^{−3} at h = a; scale
+     * φ = a / r(ν), see the class description) and smoothness ν.
      *
      * @throws IllegalArgumentException unless c, a &gt; 0 and 0 &lt; ν ≤ 50
      */
@@ -287,7 +340,7 @@ public final class VariogramModel {
                     break;
                 }
                 case MATERN:
-                    g += c * (1 - maternCorrelation(i, h / s.range));
+                    g += c * (1 - maternCorrelation(i, h / maternScale[i]));
                     break;
                 default:
                     g += c * Math.pow(h, s.range);
@@ -412,7 +465,7 @@ public final class VariogramModel {
                 return t >= 1 ? c : c * (1.5 * t - 0.5 * t * t * t);
             }
             case MATERN:
-                return c * (1 - maternCorrelation(p, h / s.range));
+                return c * (1 - maternCorrelation(p, h / maternScale[p]));
             case EXPONENTIAL:
                 return c * -Math.expm1(-3 * (h / s.range));
             case GAUSSIAN: {
@@ -431,14 +484,17 @@ public final class VariogramModel {
      * from memory), so it is 1 too.
      */
     private double maternCorrelation(int part, double t) {
-        double nu = parts[part].smoothness;
+        return maternCorrelation(parts[part].smoothness, maternConst[part], t);
+    }
+
+    private static double maternCorrelation(double nu, double constant, double t) {
         if (t > 745 + 50 * nu) {
             return 0;
         }
         if (t == 0) {
             return 1;
         }
-        double r = maternConst[part] * Math.pow(t, nu) * BesselK.k(nu, t);
+        double r = constant * Math.pow(t, nu) * BesselK.k(nu, t);
         return r < 1 ? r : 1.0; // NaN (0 · ∞) and +∞ both mean the limit 1
     }
 

@@ -90,7 +90,7 @@ public final class VariogramPairBlocks {
     /** Computes the totals of block b (fresh arrays). */
     public BlockSums block(int block) {
         checkBlock(block);
-        EmpiricalVariogram.TileSums t = prepared.tile(block);
+        VariogramPass.TileSums t = prepared.tile(block);
         int m = prepared.stride();
         return new BlockSums(block, java.util.Arrays.copyOf(t.gamma(), m), java.util.Arrays.copyOf(t.lag(), m),
                 java.util.Arrays.copyOf(t.count(), m));

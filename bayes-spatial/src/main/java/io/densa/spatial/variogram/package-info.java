@@ -9,8 +9,8 @@
  * cloud; sparse bins are merged, so none is empty). {@link io.densa.spatial.variogram.VariogramFitting#fit}
  * with {@link io.densa.spatial.variogram.VariogramFitOptions} gives a
  * {@link io.densa.spatial.variogram.VariogramFit} holding a
- * {@link io.densa.spatial.variogram.VariogramModel} (nested structures; exponential and Gaussian
- * ranges are practical ranges, Matérn uses a scale) and the fit's warnings (a range beyond the
+ * {@link io.densa.spatial.variogram.VariogramModel} (nested structures; exponential, Gaussian and
+ * Matérn ranges are practical ranges: correlation e^{−3} there) and the fit's warnings (a range beyond the
  * largest lag, a parameter on a bound, ...).
  *
  * <h2>Guarantees</h2>

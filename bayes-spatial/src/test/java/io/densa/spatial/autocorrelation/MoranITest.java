@@ -21,9 +21,15 @@ class MoranITest {
 
     @Test
     void workedExampleOnTheRookGrid() {
-        // REFERENCES.md §9 [D]: 3 x 3 rook grid, binary weights, values 1..9 row-wise:
-        // I = 0.5, S0 = 24, S1 = 48, S2 = 272, b2 = 1.77, Var_N = 0.053125, Var_R = 0.0596875
-        // (Moran 1950; moment formulas Cliff & Ord 1981, from memory).
+        // Moran (1950), Notes on continuous stochastic phenomena, Biometrika 37; moments from Cliff &
+        // Ord (1981), Spatial Processes (from memory). 3 x 3 rook grid, binary weights, values 1..9
+        // row-wise, computed by hand: deviations z = −4..4, Σz² = 60; the 12 rook edges give
+        // Σ z_i z_j = 18 + 0 + 18 (rows) + 2 + 0 + 2 (columns) = 40, so Σ_ij w_ij z_i z_j = 80 and
+        // I = (n / S0) · 80 / 60 = (9/24)(4/3) = 0.5 with S0 = 24, S1 = 48, S2 = 272 (see
+        // SpatialWeightsTest); b2 = n Σz⁴ / (Σz²)² = 9 · 708 / 3600 = 1.77;
+        // Var_N = (n²S1 − nS2 + 3S0²) / ((n² − 1) S0²) − E[I]² = 3168 / 46080 − 1/64 = 0.053125;
+        // Var_R = 0.0596875 from the randomisation formula; the enumeration of all 9! arrangements
+        // in this class confirms E[I] and Var_R.
         SpatialWeights w = SpatialWeights.fromNeighbours(rookLattice(3, 3));
         MoranI.Result r = MoranI.test(w, ONE_TO_NINE);
         assertEquals(0.5, r.statistic(), 1e-14);

@@ -35,7 +35,7 @@ class BlockKrigingTest {
         Kriging k = Kriging.ordinary(loc, data, model, KrigingOptions.withDefaults());
         Polygon block = square(0.3, 0.2, 0.25);
         double spacing = 0.05;
-        double[][] pts = Kriging.discretise(block, spacing);
+        double[][] pts = BlockKriging.discretise(block, spacing);
         assertEquals(25, pts.length);
         KrigingPrediction b = k.predictBlock(block, spacing);
         double[] mean = new double[3];

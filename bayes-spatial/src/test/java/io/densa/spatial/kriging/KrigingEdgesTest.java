@@ -32,7 +32,7 @@ class KrigingEdgesTest {
     /** The drift functions of Drift.polynomial(degree) at location i, in the kriging's scaled coordinates. */
     static double[] driftRow(Kriging k, int i) {
         double[] f = new double[k.driftSize()];
-        k.driftRow(i, f, 0);
+        k.design().driftRow(i, f, 0);
         return f;
     }
 
@@ -50,7 +50,7 @@ class KrigingEdgesTest {
                 try {
                     KrigingPrediction p = k.predictWithWeights(x, y);
                     double[] f0 = new double[k.driftSize()];
-                    k.driftAt(x, y, null, f0);
+                    k.design().driftAt(x, y, null, f0);
                     for (int j = 0; j < f0.length; j++) {
                         double s = 0;
                         for (int r = 0; r < p.weights().length; r++) {
@@ -193,7 +193,7 @@ class KrigingEdgesTest {
         GeometryFactory gf = new GeometryFactory();
         Polygon square = gf.createPolygon(new Coordinate[] {new Coordinate(2, 2), new Coordinate(3, 2),
             new Coordinate(3, 3), new Coordinate(2, 3), new Coordinate(2, 2)});
-        double[][] pts = Kriging.discretise(square, 0.25);
+        double[][] pts = BlockKriging.discretise(square, 0.25);
         double ref = Double.POSITIVE_INFINITY;
         for (double[] pt : pts) {
             ref = Math.min(ref, nearest(loc, pt[0], pt[1], -1));

@@ -23,7 +23,7 @@ class KrigingPropertiesTest {
             case 0: return VariogramModel.exponential(1.5, range);
             case 1: return VariogramModel.spherical(1.5, range);
             case 2: return VariogramModel.gaussian(1.5, range).withNugget(0.1);
-            default: return VariogramModel.matern(1.5, range / 3, 1.5);
+            default: return VariogramModel.matern(1.5, range, 1.5);
         }
     }
 

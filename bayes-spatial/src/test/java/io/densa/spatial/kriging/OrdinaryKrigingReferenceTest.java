@@ -13,7 +13,8 @@ import org.junit.jupiter.api.Test;
 /**
  * With K = 1 kriging of densities is scalar kriging of the single coordinate. Reference: the
  * seven-sample ordinary-kriging example of Isaaks &amp; Srivastava (1989), An Introduction to
- * Applied Geostatistics, ch. 12 (REFERENCES.md §8: values from memory, re-solved), with
+ * Applied Geostatistics, ch. 12 (values from memory; re-derived in
+ * {@link #textbookDigitsFromAnIndependentCommonsMathSolve}), with
  * C(h) = 10 e^{−0.3h}, i.e. exponential(sill 10, practical range 10) in our convention.
  */
 public class OrdinaryKrigingReferenceTest {
@@ -50,7 +51,7 @@ public class OrdinaryKrigingReferenceTest {
     @Test
     void baseCaseWeightsEstimateAndVariance() {
         KrigingPrediction p = krige(VariogramModel.exponential(10, 10));
-        // Isaaks & Srivastava (1989) ch. 12 (from memory, REFERENCES.md §8)
+        // Isaaks & Srivastava (1989), An Introduction to Applied Geostatistics, ch. 12 (from memory)
         double[] w = {0.1729, 0.3178, 0.1287, 0.0864, 0.1511, 0.0572, 0.0858};
         for (int i = 0; i < w.length; i++) {
             assertEquals(w[i], p.weights()[i], 5e-4, "weight " + i);
@@ -61,7 +62,8 @@ public class OrdinaryKrigingReferenceTest {
 
     @Test
     void otherModelRowsOfTheTable() {
-        // Isaaks & Srivastava (1989) ch. 12, table of alternative models (from memory, REFERENCES.md §8)
+        // Isaaks & Srivastava (1989), An Introduction to Applied Geostatistics, ch. 12, table of
+        // alternative models (from memory)
         KrigingPrediction sill20 = krige(VariogramModel.exponential(20, 10));
         assertEquals(593, sill20.density().coordinate(0), 0.5);
         assertEquals(592.73, sill20.density().coordinate(0), 0.01); // weights do not depend on the sill
@@ -128,5 +130,61 @@ public class OrdinaryKrigingReferenceTest {
     @Test
     void lagrangeMultiplierOfTheTextbook() {
         assertEquals(-0.9066, directSolve(VariogramModel.exponential(10, 10))[XY.length], 5e-4);
+    }
+
+    /**
+     * Second derivation of the textbook digits, independent of the library and of EJML: the
+     * bordered system [C 1; 1ᵀ 0][λ; μ] = [c0; 1] with the covariance written out here and solved by
+     * Commons Math's LU decomposition; estimate Σ λ_i v_i, variance C(0) − λᵀc0 − μ. Each row
+     * asserts the digits Isaaks &amp; Srivastava (1989) print.
+     */
+    @Test
+    void textbookDigitsFromAnIndependentCommonsMathSolve() {
+        double[] base = luSolve(h -> 10 * Math.exp(-0.3 * h), 10);
+        double[] w = {0.1729, 0.3178, 0.1287, 0.0864, 0.1511, 0.0572, 0.0858};
+        for (int i = 0; i < w.length; i++) {
+            assertEquals(w[i], base[i], 5e-5, "weight " + i);
+        }
+        assertEquals(592.73, base[XY.length], 0.005);
+        assertEquals(8.956, base[XY.length + 1], 0.0005);
+        double[] sill20 = luSolve(h -> 20 * Math.exp(-0.3 * h), 20);
+        assertEquals(17.91, sill20[XY.length + 1], 0.005);
+        double[] gauss = luSolve(h -> 10 * Math.exp(-3 * (h / 10) * (h / 10)), 10);
+        assertEquals(559.37, gauss[XY.length], 0.005);
+        assertEquals(4.781, gauss[XY.length + 1], 0.0005);
+        double[] nug = luSolve(h -> h == 0 ? 10 : 5 * Math.exp(-0.3 * h), 10);
+        assertEquals(596.78, nug[XY.length], 0.005);
+        assertEquals(10.306, nug[XY.length + 1], 0.0005);
+        double[] range20 = luSolve(h -> 10 * Math.exp(-0.15 * h), 10);
+        assertEquals(572.39, range20[XY.length], 0.005);
+        assertEquals(5.758, range20[XY.length + 1], 0.0005);
+    }
+
+    /** λ (n values), then the estimate and the variance, from Commons Math LU. */
+    private static double[] luSolve(java.util.function.DoubleUnaryOperator cov, double c0) {
+        int n = XY.length;
+        double[][] a = new double[n + 1][n + 1];
+        double[] b = new double[n + 1];
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j < n; j++) {
+                a[i][j] = cov.applyAsDouble(Math.hypot(XY[i][0] - XY[j][0], XY[i][1] - XY[j][1]));
+            }
+            a[i][n] = 1;
+            a[n][i] = 1;
+            b[i] = cov.applyAsDouble(Math.hypot(XY[i][0] - X0, XY[i][1] - Y0));
+        }
+        b[n] = 1;
+        double[] x = new org.apache.commons.math3.linear.LUDecomposition(
+                new org.apache.commons.math3.linear.Array2DRowRealMatrix(a)).getSolver()
+                .solve(new org.apache.commons.math3.linear.ArrayRealVector(b)).toArray();
+        double[] out = new double[n + 2];
+        double var = c0 - x[n];
+        for (int i = 0; i < n; i++) {
+            out[i] = x[i];
+            out[n] += x[i] * V[i];
+            var -= x[i] * b[i];
+        }
+        out[n + 1] = var;
+        return out;
     }
 }

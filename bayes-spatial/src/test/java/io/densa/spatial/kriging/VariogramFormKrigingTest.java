@@ -12,8 +12,8 @@ import org.junit.jupiter.api.Test;
 
 /**
  * Ordinary kriging in variogram form, [Γ 1; 1ᵀ 0][λ; μ] = [γ0; 1], σ² = λᵀγ0 + μ (Giraldo,
- * Delicado, Mateu (2011), Environ. Ecol. Stat. 18 — from memory; REFERENCES.md §7), solved directly
- * with EJML: checks the unbounded power model (used through a pseudo-covariance) and geographic
+ * Delicado, Mateu (2011), Ordinary kriging for function-valued spatial data, Environ. Ecol. Stat. 18
+ * — from memory), solved directly and independently of the library with EJML: checks the unbounded power model (used through a pseudo-covariance) and geographic
  * locations with great-circle distances.
  */
 class VariogramFormKrigingTest {

@@ -10,7 +10,7 @@ import org.junit.jupiter.api.Test;
 
 /**
  * Variogram formulas against their published definitions (Cressie (1993), Statistics for Spatial
- * Data, §2.3.1 — from memory; REFERENCES.md §8) evaluated in closed form at tabulated points, and
+ * Data, §2.3.1 — from memory) evaluated in closed form at tabulated points, and
  * the modified Bessel function K_ν against closed forms and handbook values.
  */
 class VariogramModelTest {
@@ -27,7 +27,8 @@ class VariogramModelTest {
 
     @Test
     void exponentialAndGaussianUsePracticalRange() {
-        // practical range: γ(a) = c (1 − e^{−3}) ≈ 0.950213 c (REFERENCES.md §8)
+        // by the definition of the practical range (correlation e^{−3} at h = a):
+        // γ(a) = c (1 − e^{−3}) = 0.9502129316321360 c (e^{−3} = 0.049787068367863944)
         assertEquals(0.9502129316321360, VariogramModel.exponential(1, 7).gamma(7), 1e-15);
         assertEquals(0.9502129316321360, VariogramModel.gaussian(1, 7).gamma(7), 1e-15);
         assertEquals(3 * (1 - Math.exp(-3 * 2.0 / 7)), VariogramModel.exponential(3, 7).gamma(2), 1e-14);
@@ -52,17 +53,31 @@ class VariogramModelTest {
 
     @Test
     void maternHalfEqualsExponentialAndThreeHalvesClosedForm() {
-        for (double h : new double[] {1e-6, 0.01, 0.3, 1, 2.5, 7, 40}) {
-            // Matérn ν = 1/2 with scale a is exponential with practical range 3a
-            assertEquals(VariogramModel.exponential(2, 3 * 1.7).gamma(h), VariogramModel.matern(2, 1.7, 0.5).gamma(h),
+        // the practical range a: correlation e^{-3} at h = a for every family with that convention.
+        // For ν = 3/2 and 5/2 the Matérn correlation has closed forms (Stein (1999), Interpolation of
+        // Spatial Data, §2.7 — from memory): (1 + t) e^{−t} and (1 + t + t²/3) e^{−t} with t = h/φ.
+        // Derivation: Γ(3/2) = √π/2 and K_{3/2}(t) = √(π/(2t)) e^{−t} (1 + 1/t) (Abramowitz & Stegun
+        // (1964) 10.2.17) give 2^{−1/2}/Γ(3/2) t^{3/2} K_{3/2}(t) = (1 + t) e^{−t}; K_{5/2}(t) =
+        // √(π/(2t)) e^{−t} (1 + 3/t + 3/t²) with Γ(5/2) = 3√π/4 gives (1 + t + t²/3) e^{−t}. The
+        // scale φ = a / r follows from solving the closed form for r = e^{-3} by bisection here, an
+        // independent derivation of the library's Brent root on the Bessel-function form.
+        double r32 = root(t -> (1 + t) * Math.exp(-t));
+        double r52 = root(t -> (1 + t + t * t / 3) * Math.exp(-t));
+        assertEquals(1.7 / r32, VariogramModel.matern(2, 1.7, 1.5).structures().get(0).scale(), 1e-14);
+        for (double h : new double[] {1e-6, 0.01, 0.3, 1, 1.7, 2.5, 7, 40}) {
+            // Matérn ν = 1/2 with practical range a is the exponential with practical range a (e^{−3h/a})
+            assertEquals(VariogramModel.exponential(2, 1.7).gamma(h), VariogramModel.matern(2, 1.7, 0.5).gamma(h),
                     1e-13, "h=" + h);
-            // ν = 3/2: c [1 − (1 + t) e^{−t}] (Stein (1999), Interpolation of Spatial Data — from memory)
-            double t = h / 1.7;
+            double t = h * r32 / 1.7;
             assertEquals(2 * (1 - (1 + t) * Math.exp(-t)), VariogramModel.matern(2, 1.7, 1.5).gamma(h), 1e-12,
                     "h=" + h);
-            // ν = 5/2: c [1 − (1 + t + t²/3) e^{−t}]
-            assertEquals(2 * (1 - (1 + t + t * t / 3) * Math.exp(-t)), VariogramModel.matern(2, 1.7, 2.5).gamma(h),
+            double u = h * r52 / 1.7;
+            assertEquals(2 * (1 - (1 + u + u * u / 3) * Math.exp(-u)), VariogramModel.matern(2, 1.7, 2.5).gamma(h),
                     1e-12, "h=" + h);
+        }
+        for (double nu : new double[] {0.3, 0.8, 1.5, 4, 20}) {
+            // γ(a) = c (1 − e^{−3}) at the practical range, whatever the smoothness
+            assertEquals(2 * -Math.expm1(-3), VariogramModel.matern(2, 1.7, nu).gamma(1.7), 1e-12, "nu=" + nu);
         }
         // general order through the integral: continuous in ν near 1/2
         assertEquals(VariogramModel.matern(1, 1, 0.5).gamma(0.8), VariogramModel.matern(1, 1, 0.5000001).gamma(0.8),
@@ -110,5 +125,19 @@ class VariogramModelTest {
         assertThrows(IllegalArgumentException.class, () -> VariogramModel.matern(1, 1, 0));
         assertThrows(IllegalArgumentException.class, () -> VariogramModel.exponential(1, 1).gamma(-1));
         assertThrows(IllegalArgumentException.class, () -> VariogramModel.exponential(1, 1).gamma(Double.NaN));
+    }
+
+    /** The t in (0, 50) where the decreasing correlation rho falls to e^{-3}, by bisection. */
+    private static double root(java.util.function.DoubleUnaryOperator rho) {
+        double lo = 0, hi = 50, target = Math.exp(-3);
+        for (int it = 0; it < 200; it++) {
+            double mid = 0.5 * (lo + hi);
+            if (rho.applyAsDouble(mid) > target) {
+                lo = mid;
+            } else {
+                hi = mid;
+            }
+        }
+        return 0.5 * (lo + hi);
     }
 }

@@ -1,5 +1,6 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
+import io.densa.spatial.kriging.KrigingPrediction;
 import io.densa.core.internal.RecordArrays;
 
 /**

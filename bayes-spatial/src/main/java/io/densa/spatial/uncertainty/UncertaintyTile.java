@@ -1,5 +1,7 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
+import io.densa.spatial.kriging.GridOptions;
+import io.densa.spatial.kriging.GridTile;
 import java.util.List;
 
 /**
@@ -20,5 +22,13 @@ public record UncertaintyTile(GridTile tile, List<IntervalLayer> quantiles, List
     /** Number of cells. */
     public int size() {
         return tile.size();
+    }
+
+    /** Tile position, cell count and layer counts (not the arrays). */
+    @Override
+    public String toString() {
+        return "UncertaintyTile[tile (" + tile.tileColumn() + ", " + tile.tileRow() + "), " + size() + " cells, "
+                + quantiles.size() + " quantile layers, " + exceedances.size() + " exceedance layers"
+                + (mean != null ? ", mean" : "") + "]";
     }
 }

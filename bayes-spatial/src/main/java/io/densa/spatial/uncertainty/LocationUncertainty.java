@@ -1,4 +1,4 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
 import java.util.List;
 

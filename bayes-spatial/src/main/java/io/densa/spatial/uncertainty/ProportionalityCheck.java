@@ -1,5 +1,7 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
+import io.densa.spatial.kriging.FieldSimulator;
+import io.densa.spatial.kriging.Kriging;
 import io.densa.core.internal.RecordArrays;
 import io.densa.spatial.variogram.VariogramOptions;
 import io.densa.spatial.Locations;
@@ -120,15 +122,15 @@ public record ProportionalityCheck(double[] shares, double[] lags, double[][] ra
             throw new IllegalArgumentException("replicates must be in [1, 100000], got " + replicates);
         }
         Kriging kr = pd.kriging();
-        FieldSimulator sim = new FieldSimulator(kr);
-        Stat observed = statistic(kr.loc, sim.dataResiduals(), kr.k, options, directions);
+        FieldSimulator sim = FieldSimulator.of(kr);
+        Stat observed = statistic(kr.locations(), sim.dataResiduals(), kr.dimension(), options, directions);
         double[] factor = pd.factorInternal();
         int r = pd.rank();
         double[] sims = new double[replicates];
         Kernels.forEachBlock(replicates, options.parallel() && replicates > 1, b -> {
             double[] e = sim.simulate(factor, r, Seeds.stream(seed, b));
             sim.simulatedResiduals(e);
-            sims[b] = statistic(kr.loc, e, kr.k, options, directions).total;
+            sims[b] = statistic(kr.locations(), e, kr.dimension(), options, directions).total;
         });
         int above = 0;
         for (double t : sims) {
@@ -143,7 +145,7 @@ public record ProportionalityCheck(double[] shares, double[] lags, double[][] ra
 
     private static Stat statistic(Locations loc, double[] res, int k, VariogramOptions options, int directions) {
         int n = loc.size();
-        double[] s = FieldSimulator.shape(res, n, k);
+        double[] s = SymmetricEigen.shape(res, n, k);
         if (s == null) {
             throw new IllegalArgumentException("the coordinates' drift residuals are all zero: nothing to check");
         }

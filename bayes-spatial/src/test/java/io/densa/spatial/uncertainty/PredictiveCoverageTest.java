@@ -1,5 +1,7 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
+import io.densa.spatial.kriging.KrigingOptions;
+import io.densa.spatial.kriging.Kriging;
 import io.densa.spatial.TestData;
 import io.densa.spatial.variogram.VariogramModel;
 import io.densa.spatial.Locations;

@@ -1,5 +1,13 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
+import io.densa.spatial.kriging.CovariateGrid;
+import io.densa.spatial.kriging.FieldSimulator;
+import io.densa.spatial.kriging.Grid;
+import io.densa.spatial.kriging.GridOptions;
+import io.densa.spatial.kriging.GridTiles;
+import io.densa.spatial.kriging.Kriging;
+import io.densa.spatial.kriging.KrigingOptions;
+import io.densa.spatial.kriging.KrigingPrediction;
 import io.densa.spatial.variogram.VariogramOptions;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
@@ -69,7 +77,7 @@ public final class PredictiveDistribution {
     private PredictiveDistribution(Kriging kriging, double[] shape) {
         this.kriging = kriging;
         this.shape = shape;
-        int k = kriging.k;
+        int k = kriging.dimension();
         SymmetricEigen eig = SymmetricEigen.of(shape, k);
         this.eigenvalues = eig.values();
         double[] f = eig.factor();
@@ -86,8 +94,8 @@ public final class PredictiveDistribution {
      */
     public static PredictiveDistribution of(Kriging kriging) {
         Objects.requireNonNull(kriging, "kriging");
-        FieldSimulator sim = new FieldSimulator(kriging);
-        double[] s = FieldSimulator.shape(sim.dataResiduals(), kriging.n, kriging.k);
+        FieldSimulator sim = FieldSimulator.of(kriging);
+        double[] s = SymmetricEigen.shape(sim.dataResiduals(), kriging.size(), kriging.dimension());
         if (s == null) {
             throw new IllegalArgumentException("the coordinates' drift residuals are all zero (or overflow): the"
                     + " coordinate covariance shape cannot be estimated; give it with of(kriging, covariance)");
@@ -105,7 +113,7 @@ public final class PredictiveDistribution {
     public static PredictiveDistribution of(Kriging kriging, double[][] covariance) {
         Objects.requireNonNull(kriging, "kriging");
         Objects.requireNonNull(covariance, "covariance");
-        int k = kriging.k;
+        int k = kriging.dimension();
         if (covariance.length != k) {
             throw new IllegalArgumentException("coordinate covariance must be " + k + " x " + k + ", got "
                     + covariance.length + " rows");
@@ -158,7 +166,7 @@ public final class PredictiveDistribution {
 
     /** The shape Σ/tr Σ of the coordinate covariance (K × K, trace 1; a copy). */
     public double[][] shape() {
-        int k = kriging.k;
+        int k = kriging.dimension();
         double[][] out = new double[k][k];
         for (int i = 0; i < k; i++) {
             System.arraycopy(shape, i * k, out[i], 0, k);
@@ -191,7 +199,7 @@ public final class PredictiveDistribution {
     }
 
     private CoordinateLaw law(KrigingPrediction pr) {
-        int k = kriging.k;
+        int k = kriging.dimension();
         double[][] cov = new double[k][k];
         for (int i = 0; i < k; i++) {
             for (int j = 0; j < k; j++) {
@@ -275,7 +283,7 @@ public final class PredictiveDistribution {
     }
 
     private DrawEngine engine(UncertaintyOptions options) {
-        BayesSpace space = kriging.space;
+        BayesSpace space = kriging.space();
         if (rank == 0) {
             throw new IllegalArgumentException("the coordinate covariance shape has rank 0");
         }
@@ -310,7 +318,7 @@ public final class PredictiveDistribution {
         Objects.requireNonNull(consumer, "consumer");
         DrawEngine engine = engine(options);
         long columns = grid.columns();
-        GridPredictor.run(kriging, grid, gridOptions.withVariance(true), covariates, tile -> {
+        GridTiles.map(kriging, grid, covariates, gridOptions.withVariance(true), tile -> {
             DrawEngine.Scratch s = engine.scratch();
             int m = tile.size();
             int nq = engine.probs.length, nt = engine.thresholds.length;
@@ -322,7 +330,7 @@ public final class PredictiveDistribution {
             for (int c = 0; c < m; c++) {
                 long stream = tile.rows()[c] * columns + tile.columns()[c];
                 try {
-                    engine.evaluate(coords, c * kriging.k, tile.variances()[c], stream, s);
+                    engine.evaluate(coords, c * kriging.dimension(), tile.variances()[c], stream, s);
                 } catch (DensaException e) {
                     throw new DensaException("grid cell (column " + tile.columns()[c] + ", row " + tile.rows()[c]
                             + "): " + e.getMessage(), e.diagnostics());

@@ -1,4 +1,4 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
 import io.densa.core.DensaException;
 import io.densa.core.SolveDiagnostics;
@@ -77,5 +77,29 @@ record SymmetricEigen(double[] values, double[] vectors) {
             }
         }
         return r == 0 ? new double[0] : f;
+    }
+
+    /** RᵀR / tr(RᵀR) of an n × K array (K × K), or null if R is zero. */
+    static double[] shape(double[] r, int n, int k) {
+        double[] s = new double[k * k];
+        for (int i = 0; i < n; i++) {
+            for (int a = 0; a < k; a++) {
+                double ra = r[i * k + a];
+                for (int b = 0; b < k; b++) {
+                    s[a * k + b] += ra * r[i * k + b];
+                }
+            }
+        }
+        double tr = 0;
+        for (int a = 0; a < k; a++) {
+            tr += s[a * k + a];
+        }
+        if (!(tr > 0) || Double.isInfinite(tr)) {
+            return null;
+        }
+        for (int i = 0; i < s.length; i++) {
+            s[i] /= tr;
+        }
+        return s;
     }
 }

@@ -1,5 +1,7 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
+import io.densa.spatial.kriging.FieldSimulator;
+import io.densa.spatial.kriging.Kriging;
 import io.densa.core.internal.RecordArrays;
 import io.densa.spatial.variogram.VariogramOptions;
 import io.densa.spatial.variogram.VariogramModel;
@@ -131,17 +133,17 @@ public record AnisotropyTest(double[] directions, double[] relativeSemivariances
         if (replicates < 1 || replicates > 100_000) {
             throw new IllegalArgumentException("replicates must be in [1, 100000], got " + replicates);
         }
-        FieldSimulator sim = new FieldSimulator(kriging);
+        FieldSimulator sim = FieldSimulator.of(kriging);
         double[] res = sim.dataResiduals();
-        double[] shape = FieldSimulator.shape(res, kriging.n, kriging.k);
+        double[] shape = SymmetricEigen.shape(res, kriging.size(), kriging.dimension());
         if (shape == null) {
             throw new IllegalArgumentException("the coordinates' drift residuals are all zero: nothing to test");
         }
-        SymmetricEigen eig = SymmetricEigen.of(shape, kriging.k);
+        SymmetricEigen eig = SymmetricEigen.of(shape, kriging.dimension());
         double[] factor = eig.factor();
-        int r = factor.length / kriging.k;
+        int r = factor.length / kriging.dimension();
         VariogramModel model = kriging.model();
-        EmpiricalVariogram ev = EmpiricalVariogram.of(kriging.loc, res, kriging.k, options);
+        EmpiricalVariogram ev = EmpiricalVariogram.of(kriging.locations(), res, kriging.dimension(), options);
         double reach = reach(model, ev);
         double[] level = levels(ev, model, reach);
         double t = spread(level);
@@ -149,7 +151,7 @@ public record AnisotropyTest(double[] directions, double[] relativeSemivariances
         Kernels.forEachBlock(replicates, options.parallel() && replicates > 1, b -> {
             double[] e = sim.simulate(factor, r, Seeds.stream(seed, b));
             sim.simulatedResiduals(e);
-            EmpiricalVariogram evb = EmpiricalVariogram.of(kriging.loc, e, kriging.k, options);
+            EmpiricalVariogram evb = EmpiricalVariogram.of(kriging.locations(), e, kriging.dimension(), options);
             sims[b] = spread(levels(evb, model, reach));
         });
         int above = 0;

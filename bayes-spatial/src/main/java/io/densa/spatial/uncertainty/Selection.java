@@ -1,4 +1,4 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
 /**
  * Sample quantiles by selection (package-private): the quantile of probability p of n values is

@@ -1,5 +1,10 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
+import io.densa.spatial.kriging.Neighbourhood;
+import io.densa.spatial.kriging.KrigingOptions;
+import io.densa.spatial.kriging.Kriging;
+import io.densa.spatial.kriging.GridOptions;
+import io.densa.spatial.kriging.Grid;
 import io.densa.spatial.TestData;
 import io.densa.spatial.variogram.VariogramModel;
 import io.densa.spatial.Locations;

@@ -1,9 +1,9 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
 /**
  * Per-cell Monte Carlo summaries of one derived quantity for the cells of one tile, in the cell
- * order of its {@link GridTile}: the arrays of a {@link DerivedInterval} per cell. Like
- * {@link GridTile}, a per-tile buffer: the arrays are fresh for each tile, belong to the consumer
+ * order of its {@link io.densa.spatial.kriging.GridTile}: the arrays of a {@link DerivedInterval} per cell. Like
+ * {@link io.densa.spatial.kriging.GridTile}, a per-tile buffer: the arrays are fresh for each tile, belong to the consumer
  * and are returned without copying; equality is by reference.
  *
  * @param estimates plug-in values at the kriged densities
@@ -26,5 +26,11 @@ public record IntervalLayer(double[] estimates, double[] means, double[] sds, do
     /** The summary of cell q of the tile as a record. */
     public DerivedInterval cell(int q, double level, int draws) {
         return new DerivedInterval(estimates[q], means[q], sds[q], lowers[q], uppers[q], level, draws);
+    }
+
+    /** The number of cells (not the arrays). */
+    @Override
+    public String toString() {
+        return "IntervalLayer[" + estimates.length + " cells]";
     }
 }

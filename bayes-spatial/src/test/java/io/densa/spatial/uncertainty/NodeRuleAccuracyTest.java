@@ -1,4 +1,4 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
 import static org.junit.jupiter.api.Assertions.assertTrue;
 

@@ -1,4 +1,4 @@
-package io.densa.spatial.kriging;
+package io.densa.spatial.uncertainty;
 
 /**
  * The Monte Carlo summary of one derived quantity (a quantile, an exceedance probability, a mean)
