@@ -1,6 +1,7 @@
 /**
  * Densa regression: functional principal components, function-on-scalar and functional
- * regression, anomaly scoring ({@code io.densa.regression}).
+ * regression, anomaly scoring ({@code io.densa.regression}); surveillance period by period from a
+ * rolling baseline ({@code io.densa.regression.surveillance}).
  */
 module io.densa.regression {
     requires transitive io.densa.core;
@@ -8,4 +9,5 @@ module io.densa.regression {
     requires ejml.ddense;
 
     exports io.densa.regression;
+    exports io.densa.regression.surveillance;
 }
