@@ -63,6 +63,7 @@ final class Codecs {
         TYPES.put("variogram-fit", VariogramFit.class);
         TYPES.put("kriging", Kriging.class);
         TYPES.put("spatial-weights", SpatialWeights.class);
+        TYPES.put("baseline-monitor", io.densa.regression.surveillance.BaselineMonitor.class);
         TYPES.put("bundle", ModelBundle.class);
     }
 
@@ -114,6 +115,7 @@ final class Codecs {
             case "variogram-fit": variogramFit(o, (VariogramFit) m); break;
             case "kriging": kriging(o, (Kriging) m); break;
             case "spatial-weights": weights(o, (SpatialWeights) m); break;
+            case "baseline-monitor": MonitorCodec.write(o, (io.densa.regression.surveillance.BaselineMonitor) m); break;
             case "bundle": bundle(o, (ModelBundle) m); break;
             default: throw new IllegalStateException("no codec for " + type);
         }
@@ -485,13 +487,14 @@ final class Codecs {
             case "variogram-fit": return readVariogramFit(p);
             case "kriging": return readKriging(p);
             case "spatial-weights": return readWeights(p);
+            case "baseline-monitor": return MonitorCodec.read(p);
             case "bundle": return readBundle(p);
             default: throw p.error("unknown model type '" + type + "'; this Densa reads " + TYPES.keySet());
         }
     }
 
     /** Runs a library restore step; its IllegalArgumentException is reported against the field. */
-    private static <T> T restoring(Node at, java.util.function.Supplier<T> step) {
+    static <T> T restoring(Node at, java.util.function.Supplier<T> step) {
         try {
             return step.get();
         } catch (IllegalArgumentException | IllegalStateException | NullPointerException e) {

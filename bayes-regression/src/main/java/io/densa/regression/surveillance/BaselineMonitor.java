@@ -18,7 +18,8 @@ import java.util.List;
  *
  * <p>Immutable: {@link #absorb} returns a new monitor and leaves this one as it was, so scoring on
  * one thread while the next monitor is prepared on another is safe, and a backend can keep the
- * previous monitor until the new one is ready.
+ * previous monitor until the new one is ready. {@link #state()} and {@link #restore} carry a
+ * monitor across processes (bayes-io saves it as a model file).
  */
 public final class BaselineMonitor {
     private final RollingBaseline config;
@@ -104,6 +105,122 @@ public final class BaselineMonitor {
         return h;
     }
 
+    /** Everything this monitor holds besides its configuration (fresh arrays). */
+    public MonitorState state() {
+        int w = windowMoments.size();
+        double[] wzz = new double[w * d * d];
+        double[] wzy = new double[w * d * k];
+        for (int t = 0; t < w; t++) {
+            System.arraycopy(windowMoments.get(t)[0], 0, wzz, t * d * d, d * d);
+            System.arraycopy(windowMoments.get(t)[1], 0, wzy, t * d * k, d * k);
+        }
+        double[] rec = new double[recent.size() * n * k];
+        for (int l = 0; l < recent.size(); l++) {
+            System.arraycopy(recent.get(l), 0, rec, l * n * k, n * k);
+        }
+        int c = calibration.size();
+        double[] cal = new double[c * n * k];
+        double[] calX = new double[c * n];
+        int[] hasX = new int[c];
+        for (int t = 0; t < c; t++) {
+            System.arraycopy(calibration.get(t), 0, cal, t * n * k, n * k);
+            if (calibrationX.get(t) != null) {
+                hasX[t] = 1;
+                System.arraycopy(calibrationX.get(t), 0, calX, t * n, n);
+            }
+        }
+        return new MonitorState(space, ids, q, szz, szy, w, wzz, wzy, rec,
+                recentVariances == null ? new double[0] : recentVariances, c, cal, calX, hasX, history, lastPeriod,
+                absorbed);
+    }
+
+    /**
+     * The monitor saved as {@link #state()} with its configuration: predictions, scores and later
+     * updates equal those of the saved monitor, bit for bit.
+     *
+     * @throws IllegalArgumentException when the parts do not fit together (naming the part)
+     */
+    public static BaselineMonitor restore(RollingBaseline config, MonitorState s) {
+        java.util.Objects.requireNonNull(config, "config");
+        java.util.Objects.requireNonNull(s, "state");
+        BayesSpace space = java.util.Objects.requireNonNull(s.space(), "space");
+        String[] ids = s.ids();
+        int n = ids.length;
+        int k = space.dimension();
+        int q = s.covariates();
+        if (n < 1 || q < 0 || s.absorbed() < 1) {
+            throw new IllegalArgumentException("monitor state needs at least 1 unit, q >= 0 and an absorbed period; got "
+                    + n + " units, q " + q + ", " + s.absorbed() + " absorbed");
+        }
+        int d = 1 + config.lags * k + q;
+        int w = s.windowCount();
+        int c = s.calibrationCount();
+        requireLength("momentsZZ", s.momentsZZ(), (long) d * d);
+        requireLength("momentsZY", s.momentsZY(), (long) d * k);
+        if (w < 0 || (config.window == 0 ? w != 0 : w > config.window)) {
+            throw new IllegalArgumentException("monitor state holds " + w + " window periods; the configuration's window is "
+                    + config.window);
+        }
+        requireLength("windowZZ", s.windowZZ(), (long) w * d * d);
+        requireLength("windowZY", s.windowZY(), (long) w * d * k);
+        requireLength("recent", s.recent(), (long) config.lags * n * k);
+        if (s.recentVariances().length != 0) {
+            requireLength("recentVariances", s.recentVariances(), n);
+        }
+        if (c < 0 || c > config.calibrationPeriods) {
+            throw new IllegalArgumentException("monitor state holds " + c + " calibration periods; at most "
+                    + config.calibrationPeriods + " are configured");
+        }
+        requireLength("calibration", s.calibration(), (long) c * n * k);
+        requireLength("calibrationX", s.calibrationX(), (long) c * n);
+        if (s.hasX().length != c || s.history().size() != n) {
+            throw new IllegalArgumentException("monitor state has " + s.hasX().length + " calibration flags and "
+                    + s.history().size() + " histories; expected " + c + " and " + n);
+        }
+        for (int i = 0; i < n; i++) {
+            if (!java.util.Objects.equals(s.history().get(i).id(), ids[i])) {
+                throw new IllegalArgumentException("history " + i + " belongs to " + s.history().get(i).id()
+                        + ", unit " + i + " is " + ids[i]);
+            }
+        }
+        List<double[][]> wm = new ArrayList<>();
+        double[] wzz = s.windowZZ();
+        double[] wzy = s.windowZY();
+        for (int t = 0; t < w; t++) {
+            wm.add(new double[][] {Arrays.copyOfRange(wzz, t * d * d, (t + 1) * d * d),
+                Arrays.copyOfRange(wzy, t * d * k, (t + 1) * d * k)});
+        }
+        List<double[]> rec = new ArrayList<>();
+        double[] r = s.recent();
+        for (int l = 0; l < config.lags; l++) {
+            rec.add(Arrays.copyOfRange(r, l * n * k, (l + 1) * n * k));
+        }
+        List<double[]> cal = new ArrayList<>();
+        List<double[]> calX = new ArrayList<>();
+        double[] cr = s.calibration();
+        double[] cx = s.calibrationX();
+        for (int t = 0; t < c; t++) {
+            cal.add(Arrays.copyOfRange(cr, t * n * k, (t + 1) * n * k));
+            calX.add(s.hasX()[t] == 1 ? Arrays.copyOfRange(cx, t * n, (t + 1) * n) : null);
+        }
+        return new BaselineMonitor(config, space, ids, q, s.momentsZZ(), s.momentsZY(), wm, rec,
+                s.recentVariances().length == 0 ? null : s.recentVariances(), cal, calX, s.history(), s.lastPeriod(),
+                s.absorbed());
+    }
+
+    private static void requireLength(String what, double[] a, long expected) {
+        if (a.length != expected) {
+            throw new IllegalArgumentException("monitor state member " + what + " has " + a.length + " values, expected "
+                    + expected);
+        }
+        for (int j = 0; j < a.length; j++) {
+            if (!Double.isFinite(a[j])) {
+                throw new IllegalArgumentException("monitor state member " + what + "[" + j + "] is " + a[j]
+                        + "; finite values are required");
+            }
+        }
+    }
+
     /** The configuration. */
     public RollingBaseline configuration() {
         return config;
@@ -168,13 +285,13 @@ public final class BaselineMonitor {
             r[j] = y[j] - yhat[j];
         }
         double[] x = xValues(period);
-        double[] ab = varianceLine();
+        double[] ab = ResidualCalibration.varianceLine(calibration, calibrationX, n, k);
         DensitySet cal = null;
         for (int c = 0; c < calibration.size(); c++) {
-            DensitySet s = standardised(calibration.get(c), calibrationX.get(c), ab, null);
+            DensitySet s = ResidualCalibration.standardised(space, calibration.get(c), calibrationX.get(c), ab, n, k, null);
             cal = cal == null ? s : cal.concat(s);
         }
-        DensitySet current = standardised(r, x, ab, idsOrNull());
+        DensitySet current = ResidualCalibration.standardised(space, r, x, ab, n, k, idsOrNull());
         double[] grid = new double[101];
         for (int g = 0; g < grid.length; g++) {
             grid[g] = space.lower() + (space.upper() - space.lower()) * (g + 0.5) / grid.length;
@@ -188,7 +305,7 @@ public final class BaselineMonitor {
             double[] edges = period.binEdges();
             excess = ExcessCounts.withDefaults().withDraws(config.draws, Seeds.mix(config.seed, 2L * period.index() + 1))
                     .estimate(expected, period.counts(), edges, new double[] {edges[0], edges[edges.length - 1]},
-                            ExcessCounts.BaselineError.common(calibrationCovariance()));
+                            ExcessCounts.BaselineError.common(ResidualCalibration.covariance(calibration, n, k)));
         }
         return new PeriodReport(period.index(), expected, current, scores, excess);
     }
@@ -362,95 +479,6 @@ public final class BaselineMonitor {
             x[i] = p.estimationVariance(i) + recentVariances[i];
         }
         return x;
-    }
-
-    /**
-     * (a, b) ≥ 0 minimising Σ (‖r‖² − a x − b)² over the calibration residuals, or null when a
-     * calibration period lacks estimation variances.
-     */
-    private double[] varianceLine() {
-        double sw = 0;
-        double sx = 0;
-        double sxx = 0;
-        double sy = 0;
-        double sxy = 0;
-        for (int c = 0; c < calibration.size(); c++) {
-            double[] x = calibrationX.get(c);
-            if (x == null) {
-                return null;
-            }
-            double[] r = calibration.get(c);
-            for (int i = 0; i < n; i++) {
-                double s = 0;
-                for (int j = 0; j < k; j++) {
-                    s += r[i * k + j] * r[i * k + j];
-                }
-                sw += 1;
-                sx += x[i];
-                sxx += x[i] * x[i];
-                sy += s;
-                sxy += x[i] * s;
-            }
-        }
-        double det = sw * sxx - sx * sx;
-        double a = det > 0 ? (sw * sxy - sx * sy) / det : 0;
-        double b = (sy - a * sx) / sw;
-        if (a < 0) {
-            a = 0;
-            b = sy / sw;
-        } else if (b < 0) {
-            b = 0;
-            a = sxx > 0 ? sxy / sxx : 0;
-        }
-        if (!(a * (sx / sw) + b > 0)) {
-            return null;
-        }
-        return new double[] {a, b};
-    }
-
-    /** Residual rows powered by 1/√(a x_i + b) (unchanged without the line). */
-    private DensitySet standardised(double[] r, double[] x, double[] ab, String[] rowIds) {
-        double[] s = r.clone();
-        if (ab != null && x != null) {
-            double floor = 1e-12 * (ab[1] + ab[0] * Arrays.stream(x).average().orElse(0));
-            for (int i = 0; i < n; i++) {
-                double f = 1 / Math.sqrt(Math.max(ab[0] * x[i] + ab[1], floor));
-                for (int j = 0; j < k; j++) {
-                    s[i * k + j] *= f;
-                }
-            }
-        }
-        return DensitySet.ofRowMajor(space, s, n, rowIds);
-    }
-
-    /** Covariance (K × K, divisor m − 1) of the raw calibration residuals. */
-    private double[][] calibrationCovariance() {
-        int m = calibration.size() * n;
-        double[] mean = new double[k];
-        for (double[] r : calibration) {
-            for (int i = 0; i < n; i++) {
-                for (int j = 0; j < k; j++) {
-                    mean[j] += r[i * k + j] / m;
-                }
-            }
-        }
-        double[][] c = new double[k][k];
-        for (double[] r : calibration) {
-            for (int i = 0; i < n; i++) {
-                for (int a = 0; a < k; a++) {
-                    double ea = r[i * k + a] - mean[a];
-                    for (int b = 0; b <= a; b++) {
-                        c[a][b] += ea * (r[i * k + b] - mean[b]) / Math.max(1, m - 1);
-                    }
-                }
-            }
-        }
-        for (int a = 0; a < k; a++) {
-            for (int b = 0; b < a; b++) {
-                c[b][a] = c[a][b];
-            }
-        }
-        return c;
     }
 
     private String[] idsOrNull() {

@@ -166,6 +166,26 @@ public final class RollingBaseline {
         return fdr;
     }
 
+    /** Pointwise band level. */
+    public double bandLevel() {
+        return bandLevel;
+    }
+
+    /** Relative ridge ρ. */
+    public double ridge() {
+        return ridge;
+    }
+
+    /** Bootstrap draws of the excess-count intervals. */
+    public int draws() {
+        return draws;
+    }
+
+    /** Seed of all random choices. */
+    public long seed() {
+        return seed;
+    }
+
     /**
      * Fits the baseline on past periods, oldest first: the first L periods start the lags, the
      * following ones up to the last C are absorbed as training periods, and the last C periods are

@@ -1,0 +1,96 @@
+package io.densa.io.model;
+
+import io.densa.core.BayesSpace;
+import io.densa.regression.surveillance.AlertHistory;
+import io.densa.regression.surveillance.BaselineMonitor;
+import io.densa.regression.surveillance.MonitorState;
+import io.densa.regression.surveillance.RollingBaseline;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+
+/** The payload of a surveillance monitor ("baseline-monitor"; see docs/model-format.md). */
+final class MonitorCodec {
+    private MonitorCodec() {
+    }
+
+    static void write(Out o, BaselineMonitor m) {
+        RollingBaseline c = m.configuration();
+        MonitorState s = m.state();
+        o.begin();
+        o.begin("configuration").integer("lags", c.lags()).real("forgetting", c.forgetting())
+                .integer("window", c.window()).integer("calibrationPeriods", c.calibrationPeriods())
+                .real("fdr", c.fdr()).real("bandLevel", c.bandLevel()).real("ridge", c.ridge())
+                .integer("draws", c.draws()).int64("seed", c.seed()).end();
+        Codecs.space(o, "space", s.space());
+        Codecs.ids(o, "ids", Arrays.asList(s.ids()));
+        o.integer("covariates", s.covariates());
+        o.doubles("momentsZZ", s.momentsZZ()).doubles("momentsZY", s.momentsZY());
+        o.integer("windowCount", s.windowCount()).doubles("windowZZ", s.windowZZ()).doubles("windowZY", s.windowZY());
+        o.doubles("recent", s.recent()).doubles("recentVariances", s.recentVariances());
+        o.integer("calibrationCount", s.calibrationCount()).doubles("calibration", s.calibration())
+                .doubles("calibrationX", s.calibrationX()).ints("hasX", s.hasX());
+        int n = s.history().size();
+        int[] first = new int[n];
+        int[] last = new int[n];
+        int[] consecutive = new int[n];
+        int[] flagged = new int[n];
+        double[] excess = new double[n];
+        for (int i = 0; i < n; i++) {
+            AlertHistory h = s.history().get(i);
+            first[i] = h.firstFlagged();
+            last[i] = h.lastFlagged();
+            consecutive[i] = h.consecutive();
+            flagged[i] = h.flaggedPeriods();
+            excess[i] = h.cumulativeExcess();
+        }
+        o.begin("history").ints("firstFlagged", first).ints("lastFlagged", last).ints("consecutive", consecutive)
+                .ints("flaggedPeriods", flagged).doubles("cumulativeExcess", excess).end();
+        o.integer("lastPeriod", s.lastPeriod()).integer("absorbed", s.absorbed());
+        o.end();
+    }
+
+    static BaselineMonitor read(Node p) {
+        Node c = p.get("configuration");
+        int lags = c.get("lags").integer(1, 12);
+        double forgetting = c.get("forgetting").real();
+        int window = c.get("window").integer(0, Integer.MAX_VALUE);
+        int calibrationPeriods = c.get("calibrationPeriods").integer(1, Integer.MAX_VALUE);
+        double fdr = c.get("fdr").real();
+        double bandLevel = c.get("bandLevel").real();
+        double ridge = c.get("ridge").real();
+        int draws = c.get("draws").integer(99, Integer.MAX_VALUE);
+        long seed = c.get("seed").longValue();
+        RollingBaseline config = Codecs.restoring(c, () -> {
+            RollingBaseline r = RollingBaseline.withDefaults().withLags(lags).withCalibrationPeriods(calibrationPeriods)
+                    .withFdr(fdr).withBandLevel(bandLevel).withRidge(ridge).withDraws(draws, seed);
+            return window > 0 ? r.withWindow(window) : r.withForgetting(forgetting);
+        });
+        BayesSpace space = Codecs.readSpace(p.get("space"));
+        List<Node> idNodes = p.get("ids").list();
+        int n = idNodes.size();
+        String[] ids = new String[n];
+        for (int i = 0; i < n; i++) {
+            ids[i] = idNodes.get(i).text();
+        }
+        Node h = p.get("history");
+        int[] first = h.get("firstFlagged").ints(n);
+        int[] last = h.get("lastFlagged").ints(n);
+        int[] consecutive = h.get("consecutive").ints(n);
+        int[] flagged = h.get("flaggedPeriods").ints(n);
+        double[] excess = h.get("cumulativeExcess").doubles(n);
+        List<AlertHistory> history = new ArrayList<>(n);
+        for (int i = 0; i < n; i++) {
+            history.add(new AlertHistory(ids[i], first[i], last[i], consecutive[i], flagged[i], excess[i]));
+        }
+        MonitorState s = new MonitorState(space, ids, p.get("covariates").integer(0, Integer.MAX_VALUE),
+                p.get("momentsZZ").doubles(), p.get("momentsZY").doubles(),
+                p.get("windowCount").integer(0, Integer.MAX_VALUE), p.get("windowZZ").doubles(),
+                p.get("windowZY").doubles(), p.get("recent").doubles(), p.get("recentVariances").doubles(),
+                p.get("calibrationCount").integer(0, Integer.MAX_VALUE), p.get("calibration").doubles(),
+                p.get("calibrationX").doubles(), p.get("hasX").ints(), history,
+                p.get("lastPeriod").integer(Integer.MIN_VALUE, Integer.MAX_VALUE),
+                p.get("absorbed").integer(1, Integer.MAX_VALUE));
+        return Codecs.restoring(p, () -> BaselineMonitor.restore(config, s));
+    }
+}

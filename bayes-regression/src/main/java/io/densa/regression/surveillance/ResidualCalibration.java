@@ -1,0 +1,102 @@
+package io.densa.regression.surveillance;
+
+import io.densa.core.BayesSpace;
+import io.densa.core.DensitySet;
+import java.util.Arrays;
+import java.util.List;
+
+/** The rolling calibration set's arithmetic: the variance line, standardisation, covariance. */
+final class ResidualCalibration {
+    private ResidualCalibration() {
+    }
+
+    /**
+     * (a, b) ≥ 0 minimising Σ (‖r‖² − a x − b)² over the calibration residuals, or null when a
+     * calibration period lacks estimation variances.
+     */
+    static double[] varianceLine(List<double[]> calibration, List<double[]> calibrationX, int n, int k) {
+        double sw = 0;
+        double sx = 0;
+        double sxx = 0;
+        double sy = 0;
+        double sxy = 0;
+        for (int c = 0; c < calibration.size(); c++) {
+            double[] x = calibrationX.get(c);
+            if (x == null) {
+                return null;
+            }
+            double[] r = calibration.get(c);
+            for (int i = 0; i < n; i++) {
+                double s = 0;
+                for (int j = 0; j < k; j++) {
+                    s += r[i * k + j] * r[i * k + j];
+                }
+                sw += 1;
+                sx += x[i];
+                sxx += x[i] * x[i];
+                sy += s;
+                sxy += x[i] * s;
+            }
+        }
+        double det = sw * sxx - sx * sx;
+        double a = det > 0 ? (sw * sxy - sx * sy) / det : 0;
+        double b = (sy - a * sx) / sw;
+        if (a < 0) {
+            a = 0;
+            b = sy / sw;
+        } else if (b < 0) {
+            b = 0;
+            a = sxx > 0 ? sxy / sxx : 0;
+        }
+        if (!(a * (sx / sw) + b > 0)) {
+            return null;
+        }
+        return new double[] {a, b};
+    }
+
+    /** Residual rows powered by 1/√(a x_i + b) (unchanged without the line). */
+    static DensitySet standardised(BayesSpace space, double[] r, double[] x, double[] ab, int n, int k,
+            String[] rowIds) {
+        double[] s = r.clone();
+        if (ab != null && x != null) {
+            double floor = 1e-12 * (ab[1] + ab[0] * Arrays.stream(x).average().orElse(0));
+            for (int i = 0; i < n; i++) {
+                double f = 1 / Math.sqrt(Math.max(ab[0] * x[i] + ab[1], floor));
+                for (int j = 0; j < k; j++) {
+                    s[i * k + j] *= f;
+                }
+            }
+        }
+        return DensitySet.ofRowMajor(space, s, n, rowIds);
+    }
+
+    /** Covariance (K × K, divisor m − 1) of the raw calibration residuals. */
+    static double[][] covariance(List<double[]> calibration, int n, int k) {
+        int m = calibration.size() * n;
+        double[] mean = new double[k];
+        for (double[] r : calibration) {
+            for (int i = 0; i < n; i++) {
+                for (int j = 0; j < k; j++) {
+                    mean[j] += r[i * k + j] / m;
+                }
+            }
+        }
+        double[][] c = new double[k][k];
+        for (double[] r : calibration) {
+            for (int i = 0; i < n; i++) {
+                for (int a = 0; a < k; a++) {
+                    double ea = r[i * k + a] - mean[a];
+                    for (int b = 0; b <= a; b++) {
+                        c[a][b] += ea * (r[i * k + b] - mean[b]) / Math.max(1, m - 1);
+                    }
+                }
+            }
+        }
+        for (int a = 0; a < k; a++) {
+            for (int b = 0; b < a; b++) {
+                c[b][a] = c[a][b];
+            }
+        }
+        return c;
+    }
+}
