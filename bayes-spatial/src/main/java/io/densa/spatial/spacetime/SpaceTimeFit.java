@@ -23,10 +23,11 @@ import java.util.Objects;
  *                          nugget on 0 or β on 0 or 1 may be genuine; a range on its bound
  *                          means the lags observed cannot place it)
  * @param optimiserFallback true when BOBYQA failed and a compass search finished the fit
+ * @param evaluations       criterion evaluations by BOBYQA over all starting points
  */
 public record SpaceTimeFit(SpaceTimeModel model, VariogramFitOptions.Method method, double criterion, double rmse,
         int classesUsed, List<String> parameterNames, double[] parameters, List<String> atBound,
-        boolean optimiserFallback) {
+        boolean optimiserFallback, int evaluations) {
 
     /** Validates and copies. */
     public SpaceTimeFit {
@@ -74,18 +75,20 @@ public record SpaceTimeFit(SpaceTimeModel model, VariogramFitOptions.Method meth
         return model.equals(f.model) && method == f.method && Double.compare(criterion, f.criterion) == 0
                 && Double.compare(rmse, f.rmse) == 0 && classesUsed == f.classesUsed
                 && parameterNames.equals(f.parameterNames) && Arrays.equals(parameters, f.parameters)
-                && atBound.equals(f.atBound) && optimiserFallback == f.optimiserFallback;
+                && atBound.equals(f.atBound) && optimiserFallback == f.optimiserFallback
+                && evaluations == f.evaluations;
     }
 
     @Override
     public int hashCode() {
         return Objects.hash(model, method, criterion, rmse, classesUsed, parameterNames, Arrays.hashCode(parameters),
-                atBound, optimiserFallback);
+                atBound, optimiserFallback, evaluations);
     }
 
     @Override
     public String toString() {
         return "SpaceTimeFit[" + model + ", " + method + ", criterion " + criterion + ", rmse " + rmse + ", classes "
-                + classesUsed + ", at bound " + atBound + (optimiserFallback ? ", compass-search fallback" : "") + "]";
+                + classesUsed + ", at bound " + atBound + (optimiserFallback ? ", compass-search fallback" : "") + ", "
+                + evaluations + " evaluations]";
     }
 }

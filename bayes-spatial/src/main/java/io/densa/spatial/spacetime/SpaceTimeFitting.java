@@ -120,7 +120,7 @@ public final class SpaceTimeFitting {
             }
         }
         return new SpaceTimeFit(m, options.method(), crit, Math.sqrt(sse / rows.length), rows.length,
-                List.of(p.names), p.parameters(best.x), at, best.fallback);
+                List.of(p.names), p.parameters(best.x), at, best.fallback, p.evaluations);
     }
 
     /** An optimiser end point. */
@@ -140,6 +140,7 @@ public final class SpaceTimeFitting {
         final double[] hi;
         double[] bestX;
         double bestValue;
+        int evaluations;
 
         Problem(SpaceTimeModel.Kind kind, SpaceTimeFitOptions opt, double[][] rows, double g, double h, double u) {
             this.kind = kind;
@@ -246,6 +247,7 @@ public final class SpaceTimeFitting {
         }
 
         private double tracked(double[] x) {
+            evaluations++;
             double v = criterion(x);
             if (v < bestValue) {
                 bestValue = v;
@@ -262,7 +264,7 @@ public final class SpaceTimeFitting {
             }
             double scale = bestValue > 0 ? bestValue : 1;
             try {
-                BOBYQAOptimizer o = new BOBYQAOptimizer(2 * x0.length + 1, 0.1, 1e-8);
+                BOBYQAOptimizer o = new BOBYQAOptimizer(2 * x0.length + 1, 0.1, 1e-6);
                 double[] x = o.optimize(new MaxEval(maxEval), new ObjectiveFunction(z -> tracked(z) / scale),
                         GoalType.MINIMIZE, new InitialGuess(x0), new SimpleBounds(lo, hi)).getPoint();
                 double v = criterion(x);
@@ -279,7 +281,7 @@ public final class SpaceTimeFitting {
             double fx = criterion(x);
             double step = 0.25;
             int evals = 0;
-            while (step > 1e-7 && evals < maxEval) {
+            while (step > 1e-6 && evals < maxEval) {
                 boolean moved = false;
                 for (int i = 0; i < x.length && evals < maxEval; i++) {
                     for (int sgn = -1; sgn <= 1; sgn += 2) {

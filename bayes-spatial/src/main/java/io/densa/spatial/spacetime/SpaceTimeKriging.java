@@ -282,22 +282,36 @@ public final class SpaceTimeKriging {
             return SpaceTimeCrossValidation.of(err, var);
         }
         Global g = global();
-        double[] inv = new double[n * n];
-        for (int i = 0; i < n; i++) {
-            inv[i * n + i] = 1;
-        }
-        Cholesky.solveColumns(g.l, n, inv, n);
-        for (int i = 0; i < n; i++) {
-            double qii = inv[i * n + i] - g.w1[i] * g.w1[i] / g.s;
-            double[] r = new double[k];
-            for (int j = 0; j < n; j++) {
-                double qij = inv[i * n + j] - g.w1[i] * g.w1[j] / g.s;
-                for (int q = 0; q < k; q++) {
-                    r[q] += qij * y[j * k + q];
-                }
+        // diag(C⁻¹)_c = Σ_{i ≥ c} (L⁻¹)_ic², one column of L⁻¹ at a time (O(n³/6))
+        double[] col = new double[n];
+        double[] qy = new double[n * k];
+        for (int c = 0; c < n; c++) {
+            Cholesky.invertLowerColumn(g.l, n, c, col);
+            double d = 0;
+            for (int i = c; i < n; i++) {
+                d += col[i] * col[i];
             }
+            var[c] = d - g.w1[c] * g.w1[c] / g.s; // Q_cc
+        }
+        // Q Y = C⁻¹Y − C⁻¹1 (1ᵀC⁻¹Y) / 1ᵀC⁻¹1, one coordinate at a time
+        double[] z = new double[n];
+        for (int q = 0; q < k; q++) {
+            double oneZ = 0;
+            for (int i = 0; i < n; i++) {
+                z[i] = y[i * k + q];
+            }
+            Cholesky.solve(g.l, n, n, z, 0);
+            for (int i = 0; i < n; i++) {
+                oneZ += z[i];
+            }
+            for (int i = 0; i < n; i++) {
+                qy[i * k + q] = z[i] - g.w1[i] * oneZ / g.s;
+            }
+        }
+        for (int i = 0; i < n; i++) {
+            double qii = var[i];
             for (int q = 0; q < k; q++) {
-                err[i][q] = r[q] / qii;
+                err[i][q] = qy[i * k + q] / qii;
             }
             var[i] = Math.scalb(1 / qii, exponent);
             if (!(var[i] > 0 && var[i] < Double.POSITIVE_INFINITY)) {
