@@ -4,7 +4,6 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import io.densa.spatial.Locations;
 import io.densa.spatial.variogram.VariogramModel;
 import java.util.List;
 import java.util.Random;
@@ -197,6 +196,5 @@ class SpaceTimeModelTest {
                 .gamma(-1, 0));
         assertThrows(IllegalArgumentException.class, () -> SpaceTimeModel.gneiting(1, 1, 1, 0.5, 0.5, 0.5, 0)
                 .covariance(0, Double.NaN));
-        Locations.planar(new double[] {0}, new double[] {0}); // module reads io.densa.spatial
     }
 }
