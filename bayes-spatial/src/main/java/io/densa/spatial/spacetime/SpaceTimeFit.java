@@ -22,7 +22,8 @@ import java.util.Objects;
  * @param atBound           names of the parameters that ended on a bound of the search box (a
  *                          nugget on 0 or β on 0 or 1 may be genuine; a range on its bound
  *                          means the lags observed cannot place it)
- * @param optimiserFallback true when BOBYQA failed and a compass search finished the fit
+ * @param optimiserFallback true when BOBYQA failed or used up its evaluation budget on the start that
+ *                          gave the fit, and a compass search finished it from the best point seen
  * @param evaluations       criterion evaluations by BOBYQA over all starting points
  */
 public record SpaceTimeFit(SpaceTimeModel model, VariogramFitOptions.Method method, double criterion, double rmse,

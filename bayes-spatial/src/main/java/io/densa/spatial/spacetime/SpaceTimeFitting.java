@@ -23,8 +23,8 @@ import org.apache.commons.math3.optim.nonlinear.scalar.noderiv.BOBYQAOptimizer;
  * squares, Math. Geol. 17(5) — the weights N/γ² of the spatial fit, applied per space–time class),
  * or ordinary least squares Σ_b [γ̂_b − γ_b]². The optimiser is Powell's BOBYQA (Commons Math;
  * Powell (2009), The BOBYQA algorithm for bound constrained optimization without derivatives,
- * DAMTP 2009/NA06 — from memory), run from a 3 × 3 grid of starting ranges; the best end point is
- * kept. If BOBYQA fails, a compass search (Kolda, Lewis &amp; Torczon (2003), Optimization by direct
+ * DAMTP 2009/NA06 — from memory), run from five starting pairs of ranges (the centre and the
+ * corners of [0.2, 1] × the largest mean lags); the best end point is kept. If BOBYQA fails, a compass search (Kolda, Lewis &amp; Torczon (2003), Optimization by direct
  * search, SIAM Rev. 45(3) — from memory) finishes from the best point evaluated and the fit says
  * so.
  *
@@ -49,6 +49,8 @@ public final class SpaceTimeFitting {
     private static final double RANGE_HI = 10;
     private static final double SILL_LO = 1e-6;
     private static final double SILL_HI = 10;
+    /** Starting ranges as fractions of the largest mean spatial and temporal lags. */
+    private static final double[][] STARTS = {{0.5, 0.5}, {0.2, 0.2}, {0.2, 1}, {1, 0.2}, {1, 1}};
 
     private SpaceTimeFitting() {
     }
@@ -90,15 +92,12 @@ public final class SpaceTimeFitting {
         }
         double nug0 = 0.5 * gmin;
         double sill0 = Math.max(0.9 * gmax - nug0, 0.1 * gmax);
-        double[] fr = {0.2, 0.5, 1.0};
         Run best = null;
-        for (double fs : fr) {
-            for (double ft : fr) {
-                double[] x = p.start(sill0, fs * hmax, ft * umax, nug0);
-                Run r = p.run(x, options.maxEvaluations());
-                if (r != null && (best == null || r.value < best.value)) {
-                    best = r;
-                }
+        for (double[] f : STARTS) {
+            double[] x = p.start(sill0, f[0] * hmax, f[1] * umax, nug0);
+            Run r = p.run(x, options.maxEvaluations());
+            if (r != null && (best == null || r.value < best.value)) {
+                best = r;
             }
         }
         if (best == null) {
