@@ -286,6 +286,9 @@ public final class SpaceTimeModel {
             }
             default: {
                 double psi = aScale * Math.pow(u, 2 * temporalShape) + 1;
+                if (psi == Double.POSITIVE_INFINITY) {
+                    return sigma2; // ψ^{−τ} = 0 and the exponential is at most 1 (avoids ∞/∞)
+                }
                 double arg = cScale * Math.pow(h, 2 * spatialShape) / Math.pow(psi, beta * spatialShape);
                 return sigma2 - sigma2 * Math.pow(psi, -TAU) * Math.exp(-arg);
             }

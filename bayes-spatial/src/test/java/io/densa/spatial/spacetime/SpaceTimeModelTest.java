@@ -181,6 +181,21 @@ class SpaceTimeModelTest {
     }
 
     @Test
+    void extremeLagsGiveFiniteValues() {
+        // nothing silent: every model is finite at every lag; far apart in space and time the
+        // covariance of each family tends to 0, so γ tends to the sill (the limit of each formula)
+        for (SpaceTimeModel m : MODELS) {
+            for (double[] hu : new double[][] {{1e300, 0}, {0, 1e300}, {1e300, 1e300}, {Double.MAX_VALUE,
+                Double.MAX_VALUE}, {Double.MIN_VALUE, Double.MIN_VALUE}}) {
+                double g = m.gamma(hu[0], hu[1]);
+                assertTrue(Double.isFinite(g) && g >= 0 && g <= m.sill() * (1 + 1e-15), m + " at " + hu[0] + ", "
+                        + hu[1] + ": " + g);
+            }
+            assertEquals(m.sill(), m.gamma(1e300, 1e300), 1e-12 * m.sill(), m.toString());
+        }
+    }
+
+    @Test
     void badParametersAreNamed() {
         VariogramModel v = VariogramModel.exponential(1, 1);
         assertThrows(IllegalArgumentException.class, () -> SpaceTimeModel.separable(VariogramModel.power(1, 1), v, 0));
