@@ -21,4 +21,5 @@ module io.densa.spatial {
     exports io.densa.spatial.uncertainty;
     exports io.densa.spatial.autocorrelation;
     exports io.densa.spatial.scan;
+    exports io.densa.spatial.spacetime;
 }
