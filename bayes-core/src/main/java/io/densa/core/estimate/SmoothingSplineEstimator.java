@@ -6,6 +6,7 @@ import io.densa.core.SolveDiagnostics;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
 import io.densa.core.internal.Cholesky;
+import io.densa.core.internal.GoldenSection;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.RoughnessPenalty;
@@ -497,33 +498,7 @@ public final class SmoothingSplineEstimator implements CountEstimator {
                 }
             }
             double lo = Math.max(gridLo, bestG - GRID_STEP), hi = Math.min(gridHi, bestG + GRID_STEP);
-            double ratio = 0.5 * (Math.sqrt(5) - 1);
-            double x1 = hi - ratio * (hi - lo), x2 = lo + ratio * (hi - lo);
-            double f1 = gcv(z, yy, scale * Math.pow(10, x1))[0], f2 = gcv(z, yy, scale * Math.pow(10, x2))[0];
-            for (int it = 0; it < 30; it++) {
-                if (f1 <= f2) {
-                    hi = x2;
-                    x2 = x1;
-                    f2 = f1;
-                    x1 = hi - ratio * (hi - lo);
-                    f1 = gcv(z, yy, scale * Math.pow(10, x1))[0];
-                } else {
-                    lo = x1;
-                    x1 = x2;
-                    f1 = f2;
-                    x2 = lo + ratio * (hi - lo);
-                    f2 = gcv(z, yy, scale * Math.pow(10, x2))[0];
-                }
-            }
-            double g = bestG;
-            double c = best;
-            if (f1 < c) {
-                g = x1;
-                c = f1;
-            }
-            if (f2 < c) {
-                g = x2;
-            }
+            double g = GoldenSection.minimise(x -> gcv(z, yy, scale * Math.pow(10, x))[0], lo, hi, 30, bestG, best);
             return scale * Math.pow(10, g);
         }
 
