@@ -319,15 +319,7 @@ final class PenalizedFit {
             System.arraycopy(row, 0, x, j * p + 1, k);
             off[j] = -Math.log((lay.edges[j + 1] - lay.edges[j]) * space.referenceDensity(mid));
         }
-        double[] a = new double[p * p];
-        for (int j = 0; j < d; j++) {
-            for (int r = 0; r < p; r++) {
-                double xr = x[j * p + r];
-                for (int c = 0; c < p; c++) {
-                    a[r * p + c] += xr * x[j * p + c];
-                }
-            }
-        }
+        double[] a = EstimationSupport.crossProduct(x, d, p);
         double trX = EstimationSupport.trace(a, p), trP = EstimationSupport.trace(rawPenalty, k);
         double mu = trP > 0 ? 1e-3 * trX / trP : 0.0;
         for (int r = 0; r < k; r++) {

@@ -155,54 +155,22 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
     public static final double DEFAULT_PRIOR_WEIGHT = 1.0;
 
     private final BayesSpace space;
-    private final int penaltyOrder;
-    private final double fixedLambda; // NaN: choose
-    private final SmoothingCriterion criterion;
-    private final int folds;
-    private final long seed;
-    private final double gridLo;
-    private final double gridHi;
-    private final double gridStep;
-    private final int maxIterations;
-    private final double tolerance;
-    private final int points;
-    private final ZeroTotalPolicy zeroTotal;
-    private final boolean fractional;
-    private final boolean parallel;
+    /** Every setting but the space and the progress listener. */
+    private final Settings settings;
     private final ProgressListener progress;
-    private final double priorWeight;
     /** The fitting machinery derived from these settings. */
     private final PenalizedFit fit;
 
-    private PenalizedLikelihoodEstimator(BayesSpace space, int penaltyOrder, double fixedLambda,
-            SmoothingCriterion criterion, int folds, long seed, double gridLo, double gridHi, double gridStep,
-            int maxIterations, double tolerance, int points, ZeroTotalPolicy zeroTotal, boolean fractional,
-            boolean parallel, ProgressListener progress, double priorWeight) {
+    private PenalizedLikelihoodEstimator(BayesSpace space, Settings settings, ProgressListener progress) {
         this.space = space;
-        this.priorWeight = priorWeight;
-        this.penaltyOrder = penaltyOrder;
-        this.fixedLambda = fixedLambda;
-        this.criterion = criterion;
-        this.folds = folds;
-        this.seed = seed;
-        this.gridLo = gridLo;
-        this.gridHi = gridHi;
-        this.gridStep = gridStep;
-        this.maxIterations = maxIterations;
-        this.tolerance = tolerance;
-        this.points = points;
-        this.zeroTotal = zeroTotal;
-        this.fractional = fractional;
-        this.parallel = parallel;
+        this.settings = settings;
         this.progress = progress;
-        this.fit = new PenalizedFit(space, settings(), progress);
+        this.fit = new PenalizedFit(space, settings, progress);
     }
 
-    private PenalizedLikelihoodEstimator copy(int order, double lambda, SmoothingCriterion crit, int nFolds,
-            long s, double lo, double hi, double st, int maxIt, double tol, int pts, ZeroTotalPolicy zt,
-            boolean frac, boolean par) {
-        return new PenalizedLikelihoodEstimator(space, order, lambda, crit, nFolds, s, lo, hi, st, maxIt, tol, pts,
-                zt, frac, par, progress, priorWeight);
+    /** This estimator with other settings (checked by the caller). */
+    private PenalizedLikelihoodEstimator with(Settings changed) {
+        return new PenalizedLikelihoodEstimator(space, changed, progress);
     }
 
     /**
@@ -217,9 +185,9 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
     public static PenalizedLikelihoodEstimator withDefaults(BayesSpace space) {
         Objects.requireNonNull(space, "space");
         int order = Math.min(2, RoughnessPenalty.maxOrder(EstimationSupport.rawBasis(space.basis())));
-        return new PenalizedLikelihoodEstimator(space, order, Double.NaN, SmoothingCriterion.MARGINAL_LIKELIHOOD, 5,
-                1L, -6, 3, 1,
-                100, 1e-12, 0, ZeroTotalPolicy.REJECT, false, true, ProgressListener.NONE, DEFAULT_PRIOR_WEIGHT);
+        return new PenalizedLikelihoodEstimator(space, new Settings(order, Double.NaN,
+                SmoothingCriterion.MARGINAL_LIKELIHOOD, 5, 1L, -6, 3, 1, 100, 1e-12, 0, ZeroTotalPolicy.REJECT, false,
+                true, DEFAULT_PRIOR_WEIGHT), ProgressListener.NONE);
     }
 
     /**
@@ -228,8 +196,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
      * @param l 1 ≤ l &lt; spline order (≤ degree for polynomials, &lt; number of bins for steps)
      */
     public PenalizedLikelihoodEstimator withPenaltyOrder(int l) {
-        return copy(l, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, maxIterations, tolerance,
-                points, zeroTotal, fractional, parallel);
+        return with(settings.withPenaltyOrder(l));
     }
 
     /**
@@ -240,15 +207,13 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         if (!(lambda >= 0 && Double.isFinite(lambda))) {
             throw new IllegalArgumentException("smoothing parameter must be finite and >= 0, got " + lambda);
         }
-        return copy(penaltyOrder, lambda, criterion, folds, seed, gridLo, gridHi, gridStep, maxIterations,
-                tolerance, points, zeroTotal, fractional, parallel);
+        return with(settings.withSmoothing(lambda));
     }
 
     /** Chooses λ per unit by the given criterion (undoes {@link #withSmoothing}). */
     public PenalizedLikelihoodEstimator withCriterion(SmoothingCriterion c) {
         Objects.requireNonNull(c, "criterion");
-        return copy(penaltyOrder, Double.NaN, c, folds, seed, gridLo, gridHi, gridStep, maxIterations, tolerance,
-                points, zeroTotal, fractional, parallel);
+        return with(settings.withSmoothing(Double.NaN).withCriterion(c));
     }
 
     /**
@@ -262,8 +227,8 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         if (!(k >= 2 && k <= 50)) {
             throw new IllegalArgumentException("number of folds must be in [2, 50], got " + k);
         }
-        return copy(penaltyOrder, Double.NaN, SmoothingCriterion.CROSS_VALIDATION, k, seed, gridLo, gridHi, gridStep,
-                maxIterations, tolerance, points, zeroTotal, fractional, parallel);
+        return with(settings.withSmoothing(Double.NaN).withCriterion(SmoothingCriterion.CROSS_VALIDATION)
+                .withFolds(k, seed));
     }
 
     /**
@@ -276,8 +241,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             throw new IllegalArgumentException("smoothing grid needs finite lo < hi and 0 < step <= hi - lo, got lo="
                     + log10Lo + ", hi=" + log10Hi + ", step=" + step);
         }
-        return copy(penaltyOrder, fixedLambda, criterion, folds, seed, log10Lo, log10Hi, step, maxIterations,
-                tolerance, points, zeroTotal, fractional, parallel);
+        return with(settings.withGrid(log10Lo, log10Hi, step));
     }
 
     /**
@@ -295,14 +259,12 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             throw new IllegalArgumentException("reference prior weight must be finite and >= 0 (in observations; 0"
                     + " removes the prior), got " + observations);
         }
-        return new PenalizedLikelihoodEstimator(space, penaltyOrder, fixedLambda, criterion, folds, seed, gridLo,
-                gridHi, gridStep, maxIterations, tolerance, points, zeroTotal, fractional, parallel, progress,
-                observations);
+        return with(settings.withReferencePriorWeight(observations));
     }
 
     /** The weight of the reference prior in observations (see {@link #withReferencePrior}). */
     public double referencePriorWeight() {
-        return priorWeight;
+        return settings.referencePriorWeight();
     }
 
     /** Largest accepted {@link #withMaxIterations} value. */
@@ -320,8 +282,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         if (n < 1 || n > MAX_ITERATIONS_LIMIT) {
             throw new IllegalArgumentException("max iterations must be in [1, " + MAX_ITERATIONS_LIMIT + "], got " + n);
         }
-        return copy(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, n, tolerance,
-                points, zeroTotal, fractional, parallel);
+        return with(settings.withMaxIterations(n));
     }
 
     /**
@@ -335,8 +296,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             throw new IllegalArgumentException("tolerance must be in [" + MIN_TOLERANCE + ", " + MAX_TOLERANCE
                     + "] (smaller values are below the rounding of the objective), got " + tol);
         }
-        return copy(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, maxIterations, tol,
-                points, zeroTotal, fractional, parallel);
+        return with(settings.withTolerance(tol));
     }
 
     /**
@@ -347,15 +307,13 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         if (!(m == 0 || m >= 2 && m <= 16)) {
             throw new IllegalArgumentException("quadrature points must be 0 (automatic) or in [2, 16], got " + m);
         }
-        return copy(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, maxIterations,
-                tolerance, m, zeroTotal, fractional, parallel);
+        return with(settings.withQuadraturePoints(m));
     }
 
     /** What to do with units without events. */
     public PenalizedLikelihoodEstimator withZeroTotal(ZeroTotalPolicy policy) {
         Objects.requireNonNull(policy, "policy");
-        return copy(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, maxIterations,
-                tolerance, points, policy, fractional, parallel);
+        return with(settings.withZeroTotal(policy));
     }
 
     /**
@@ -363,14 +321,12 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
      * needs whole counts.
      */
     public PenalizedLikelihoodEstimator withFractionalCounts(boolean allow) {
-        return copy(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, maxIterations,
-                tolerance, points, zeroTotal, allow, parallel);
+        return with(settings.withFractionalCounts(allow));
     }
 
     /** Whether {@code fitAll} may use the common pool (results are identical either way). */
     public PenalizedLikelihoodEstimator withParallel(boolean p) {
-        return copy(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, maxIterations,
-                tolerance, points, zeroTotal, fractional, p);
+        return with(settings.withParallel(p));
     }
 
     /**
@@ -381,8 +337,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
      */
     public PenalizedLikelihoodEstimator withProgressListener(ProgressListener listener) {
         Objects.requireNonNull(listener, "listener");
-        return new PenalizedLikelihoodEstimator(space, penaltyOrder, fixedLambda, criterion, folds, seed, gridLo,
-                gridHi, gridStep, maxIterations, tolerance, points, zeroTotal, fractional, parallel, listener, priorWeight);
+        return new PenalizedLikelihoodEstimator(space, settings, listener);
     }
 
     /**
@@ -409,12 +364,64 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             double gridLog10Lo, double gridLog10Hi, double gridStep, int maxIterations, double tolerance,
             int quadraturePoints, ZeroTotalPolicy zeroTotal, boolean fractionalCounts, boolean parallel,
             double referencePriorWeight) {
+        // package-private copies with one setting changed (the with… methods check the value first)
+        Settings withPenaltyOrder(int v) {
+            return new Settings(v, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
+                    maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel,
+                    referencePriorWeight);
+        }
+        Settings withSmoothing(double v) {
+            return new Settings(penaltyOrder, v, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
+                    maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel,
+                    referencePriorWeight);
+        }
+        Settings withCriterion(SmoothingCriterion v) {
+            return new Settings(penaltyOrder, smoothing, v, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
+                    maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel,
+                    referencePriorWeight);
+        }
+        Settings withFolds(int v, long s) {
+            return new Settings(penaltyOrder, smoothing, criterion, v, s, gridLog10Lo, gridLog10Hi, gridStep,
+                    maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel,
+                    referencePriorWeight);
+        }
+        Settings withGrid(double lo, double hi, double step) {
+            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, lo, hi, step, maxIterations,
+                    tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel, referencePriorWeight);
+        }
+        Settings withMaxIterations(int v) {
+            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
+                    v, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel, referencePriorWeight);
+        }
+        Settings withTolerance(double v) {
+            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
+                    maxIterations, v, quadraturePoints, zeroTotal, fractionalCounts, parallel, referencePriorWeight);
+        }
+        Settings withQuadraturePoints(int v) {
+            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
+                    maxIterations, tolerance, v, zeroTotal, fractionalCounts, parallel, referencePriorWeight);
+        }
+        Settings withZeroTotal(ZeroTotalPolicy v) {
+            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
+                    maxIterations, tolerance, quadraturePoints, v, fractionalCounts, parallel, referencePriorWeight);
+        }
+        Settings withFractionalCounts(boolean v) {
+            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
+                    maxIterations, tolerance, quadraturePoints, zeroTotal, v, parallel, referencePriorWeight);
+        }
+        Settings withParallel(boolean v) {
+            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
+                    maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, v, referencePriorWeight);
+        }
+        Settings withReferencePriorWeight(double v) {
+            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
+                    maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel, v);
+        }
     }
 
     /** The settings of this estimator (see {@link Settings}). */
     public Settings settings() {
-        return new Settings(penaltyOrder, fixedLambda, criterion, folds, seed, gridLo, gridHi, gridStep, maxIterations,
-                tolerance, points, zeroTotal, fractional, parallel, priorWeight);
+        return settings;
     }
 
     /**
@@ -437,10 +444,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         withTolerance(s.tolerance());
         withQuadraturePoints(s.quadraturePoints());
         withReferencePrior(s.referencePriorWeight());
-        return new PenalizedLikelihoodEstimator(space, s.penaltyOrder(), s.smoothing(), s.criterion(), s.folds(),
-                s.seed(), s.gridLog10Lo(), s.gridLog10Hi(), s.gridStep(), s.maxIterations(), s.tolerance(),
-                s.quadraturePoints(), s.zeroTotal(), s.fractionalCounts(), s.parallel(), progress,
-                s.referencePriorWeight());
+        return new PenalizedLikelihoodEstimator(space, s, progress);
     }
 
     /** The space. */
@@ -467,7 +471,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
      */
     public NewtonCost newtonCost(double[] edges) {
         double[] e = EstimationSupport.checkEdges(space, edges);
-        BinLayout lay = new BinLayout(space, e, points);
+        BinLayout lay = new BinLayout(space, e, settings.quadraturePoints());
         long w = lay.width;
         long q = lay.nodes;
         long flops = q * (6 * w + w * (w + 1) + 3);
@@ -561,7 +565,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
      */
     public BatchEstimate fitAllSamples(double[][] values, double[][] weights, String[] ids) {
         Objects.requireNonNull(values, "values");
-        if (criterion == SmoothingCriterion.GCV) {
+        if (settings.criterion() == SmoothingCriterion.GCV) {
             throw new IllegalArgumentException("GCV needs binned counts; for raw samples use SmoothingCriterion.AIC"
                     + " or CROSS_VALIDATION");
         }
@@ -571,12 +575,16 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
     /** The space and every setting, e.g. for a log or a JShell session. */
     @Override
     public String toString() {
-        return "PenalizedLikelihoodEstimator[" + space + ", penalty order " + penaltyOrder
-                + (Double.isNaN(fixedLambda) ? ", lambda by " + criterion + " over log10 in [" + gridLo + ", " + gridHi
-                        + "] step " + gridStep + (criterion == SmoothingCriterion.CROSS_VALIDATION ? ", " + folds
-                        + " folds, seed " + seed : "") : ", lambda " + fixedLambda)
-                + ", prior weight " + priorWeight + ", at most " + maxIterations + " iterations, tolerance " + tolerance
-                + ", " + (points == 0 ? "automatic" : String.valueOf(points)) + " quadrature points, zero totals "
-                + zeroTotal + (fractional ? ", fractional counts" : "") + (parallel ? ", parallel" : "") + "]";
+        Settings s = settings;
+        return "PenalizedLikelihoodEstimator[" + space + ", penalty order " + s.penaltyOrder()
+                + (Double.isNaN(s.smoothing()) ? ", lambda by " + s.criterion() + " over log10 in [" + s.gridLog10Lo()
+                        + ", " + s.gridLog10Hi() + "] step " + s.gridStep()
+                        + (s.criterion() == SmoothingCriterion.CROSS_VALIDATION ? ", " + s.folds() + " folds, seed "
+                                + s.seed() : "") : ", lambda " + s.smoothing())
+                + ", prior weight " + s.referencePriorWeight() + ", at most " + s.maxIterations()
+                + " iterations, tolerance " + s.tolerance() + ", "
+                + (s.quadraturePoints() == 0 ? "automatic" : String.valueOf(s.quadraturePoints()))
+                + " quadrature points, zero totals " + s.zeroTotal() + (s.fractionalCounts() ? ", fractional counts" : "")
+                + (s.parallel() ? ", parallel" : "") + "]";
     }
 }

@@ -302,35 +302,30 @@ final class PenalizedObjective {
         for (int i = 0; i < k; i++) {
             grad[i] += linear[i];
         }
-        symmetrize();
+        mirrorLower(hess, k1, k);
         if (!penalised) {
             return;
         }
         if (prior != null) {
-            for (int i = 0; i < k; i++) {
-                double r = 0;
-                int o = i * k;
-                int row = i * k1;
-                for (int j = 0; j < k; j++) {
-                    double p = prior[o + j];
-                    r += p * beta[j];
-                    hess[row + j] += 2 * p;
-                }
-                grad[i] -= 2 * r;
-            }
+            subtractQuadratic(prior, 1.0, beta);
         }
         if (lambda != 0.0) {
-            for (int i = 0; i < k; i++) {
-                double r = 0;
-                int o = i * k;
-                int row = i * k1;
-                for (int j = 0; j < k; j++) {
-                    double p = pen[o + j];
-                    r += p * beta[j];
-                    hess[row + j] += 2 * lambda * p;
-                }
-                grad[i] -= 2 * lambda * r;
+            subtractQuadratic(pen, lambda, beta);
+        }
+    }
+
+    /** Subtracts the term w β'Mβ from Φ: its gradient 2wMβ from grad, its curvature 2wM added to hess. */
+    private void subtractQuadratic(double[] m, double w, double[] beta) {
+        for (int i = 0; i < k; i++) {
+            double r = 0;
+            int o = i * k;
+            int row = i * k1;
+            for (int j = 0; j < k; j++) {
+                double p = m[o + j];
+                r += p * beta[j];
+                hess[row + j] += 2 * w * p;
             }
+            grad[i] -= 2 * w * r;
         }
     }
 
@@ -349,10 +344,11 @@ final class PenalizedObjective {
         hess[r3 + 3] += h33;
     }
 
-    private void symmetrize() {
+    /** Copies the lower triangle of the k × k block of a (row stride s) to its upper triangle. */
+    static void mirrorLower(double[] a, int s, int k) {
         for (int i = 0; i < k; i++) {
             for (int l = 0; l < i; l++) {
-                hess[l * k1 + i] = hess[i * k1 + l];
+                a[l * s + i] = a[i * s + l];
             }
         }
     }
@@ -414,11 +410,7 @@ final class PenalizedObjective {
             }
         }
         subtractOuter(meat, k, 1.0 / total, mvec, k);
-        for (int i = 0; i < k; i++) {
-            for (int l = 0; l < i; l++) {
-                meat[l * k + i] = meat[i * k + l];
-            }
-        }
+        mirrorLower(meat, k, k);
     }
 
     /**

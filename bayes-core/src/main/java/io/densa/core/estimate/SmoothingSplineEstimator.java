@@ -358,15 +358,7 @@ public final class SmoothingSplineEstimator implements CountEstimator {
                     x[j * p + c + 1] = e.get(j, c);
                 }
             }
-            double[] xtx = new double[p * p];
-            for (int j = 0; j < d; j++) {
-                for (int a = 0; a < p; a++) {
-                    double xa = x[j * p + a];
-                    for (int b = 0; b < p; b++) {
-                        xtx[a * p + b] += xa * x[j * p + b];
-                    }
-                }
-            }
+            double[] xtx = EstimationSupport.crossProduct(x, d, p);
             double trX = EstimationSupport.trace(xtx, p);
             if (Cholesky.factor(xtx, p, p, 0) >= 0) {
                 throw new IllegalArgumentException("the bin midpoints do not determine the " + k
@@ -383,27 +375,7 @@ public final class SmoothingSplineEstimator implements CountEstimator {
                 }
             }
             double trO = EstimationSupport.trace(om, p);
-            double[] tmp = new double[p * p];
-            for (int a = 0; a < p; a++) {
-                for (int b = 0; b < p; b++) {
-                    double s = 0;
-                    for (int q = 0; q <= a; q++) {
-                        s += linv[a * p + q] * om[q * p + b];
-                    }
-                    tmp[a * p + b] = s;
-                }
-            }
-            DMatrixRMaj bm = new DMatrixRMaj(p, p);
-            for (int a = 0; a < p; a++) {
-                for (int b = 0; b <= a; b++) {
-                    double s = 0;
-                    for (int q = 0; q <= b; q++) {
-                        s += tmp[a * p + q] * linv[b * p + q];
-                    }
-                    bm.set(a, b, s);
-                    bm.set(b, a, s);
-                }
-            }
+            DMatrixRMaj bm = new DMatrixRMaj(p, p, true, Cholesky.lowerCongruence(linv, om, p));
             EigenDecomposition_F64<DMatrixRMaj> eigd = DecompositionFactory_DDRM.eig(p, true, true);
             if (!eigd.decompose(bm)) {
                 throw new DensaException("eigen decomposition of the penalised design failed",
