@@ -21,8 +21,6 @@ final class NewtonCovariance {
     private final double[] meat;
     /** log det(F + 2λP) from the last {@link #sandwich} (NaN if singular). */
     private double logDetJ;
-    /** Whether the last covariance from {@link #sandwich} used the empirical information. */
-    private boolean robustUsed;
 
     NewtonCovariance(PenalizedObjective obj, int k, double[] rawPenalty, double[] prior) {
         this.obj = obj;
@@ -86,7 +84,6 @@ final class NewtonCovariance {
         if (cov == null) {
             return edf;
         }
-        robustUsed = false;
         double nEff = counts != null ? total : total * total / total2;
         if (robust && (counts != null || obj.hasSample()) && nEff > edf + 1) {
             if (counts != null) {
@@ -99,7 +96,6 @@ final class NewtonCovariance {
                 meat[i] *= f;
             }
             whiten(meat, linv, wm);
-            robustUsed = true;
         }
         double[] t1 = scratch1;
         // m = U L⁻ᵀ (upper): m_ij = Σ_{i ≤ p ≤ j} u_ip linv_jp ; stored in t1

@@ -38,9 +38,7 @@ final class PenalizedNewton {
     /** The objective's gradient and information matrix (stride k1). */
     private final double[] grad;
     private final double[] hess;
-    private double objective;
     private int iterations;
-    private boolean usedFisher;
     private String failure;
 
     PenalizedNewton(BinLayout lay, double[] rawPenalty) {
@@ -141,12 +139,10 @@ final class PenalizedNewton {
 
     private boolean solve(double lambda, int maxIter, double tol, boolean exact) {
         failure = null;
-        usedFisher = false;
         iterations = 0;
         double obj = lik.evaluate(beta, lambda);
         if (!(obj > Double.NEGATIVE_INFINITY)) {
             failure = "the starting coefficients give probability 0 to an occupied bin";
-            objective = obj;
             return false;
         }
         double stepTol = Math.sqrt(tol);
@@ -156,12 +152,10 @@ final class PenalizedNewton {
             iterations = it;
             lik.derivatives(lambda, false, true, beta);
             if (Cholesky.factor(hess, k, k1, 0) >= 0) {
-                usedFisher = true;
                 lik.derivatives(lambda, true, true, beta);
                 if (Cholesky.factor(hess, k, k1, 0) >= 0) {
                     failure = "penalised information matrix is singular at iteration " + it
                             + " (too few occupied bins for K = " + k + " without enough smoothing)";
-                    objective = obj;
                     return false;
                 }
             }
@@ -173,7 +167,6 @@ final class PenalizedNewton {
             }
             if (!(dec >= 0) || !Double.isFinite(dec)) {
                 failure = "non-finite Newton step at iteration " + it;
-                objective = obj;
                 return false;
             }
             double scale = 1 + Math.abs(obj);
@@ -181,7 +174,6 @@ final class PenalizedNewton {
             lastDec = dec / scale;
             lastStep = size;
             if (!exact && dec <= tol * scale) {
-                objective = obj;
                 return true;
             }
             double t = 1.0;
@@ -210,7 +202,6 @@ final class PenalizedNewton {
             }
             if (!accepted) {
                 lik.evaluate(beta, lambda);
-                objective = obj;
                 failure = "line search failed at iteration " + it + " (relative Newton decrement " + lastDec
                         + ", relative step " + lastStep + ")";
                 return false;
@@ -218,11 +209,9 @@ final class PenalizedNewton {
             System.arraycopy(trial, 0, beta, 0, k1);
             obj = o;
             if (t == 1.0 && dec <= tol * scale && size <= stepTol) {
-                objective = obj;
                 return true;
             }
         }
-        objective = obj;
         failure = "no convergence in " + maxIter + " Newton iterations (last relative Newton decrement " + lastDec
                 + ", relative coordinate step " + lastStep + ")";
         return false;
