@@ -25,7 +25,7 @@ final class CrossValidationFolds {
     final double fullTotal2;
     final double[] start;
 
-    CrossValidationFolds(PenalizedNewton eng, PenalizedLikelihoodEstimator.SampleData sample, int nf, long seed,
+    CrossValidationFolds(PenalizedNewton eng, SampleData sample, int nf, long seed,
             int index, int k, int maxIterations, double searchTolerance) {
         this.k = k;
         this.maxIterations = maxIterations;

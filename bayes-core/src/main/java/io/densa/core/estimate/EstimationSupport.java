@@ -227,6 +227,20 @@ final class EstimationSupport {
         return true;
     }
 
+    /** XᵀX (p × p, row-major) of a row-major n × p matrix X, accumulated row by row. */
+    static double[] crossProduct(double[] x, int n, int p) {
+        double[] a = new double[p * p];
+        for (int j = 0; j < n; j++) {
+            for (int r = 0; r < p; r++) {
+                double xr = x[j * p + r];
+                for (int c = 0; c < p; c++) {
+                    a[r * p + c] += xr * x[j * p + c];
+                }
+            }
+        }
+        return a;
+    }
+
     static double trace(double[] m, int k) {
         double s = 0;
         for (int i = 0; i < k; i++) {

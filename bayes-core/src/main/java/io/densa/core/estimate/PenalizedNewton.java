@@ -22,49 +22,23 @@ import java.util.Arrays;
  * under the density, m_j, S_j within bin j; expected (Fisher) information
  * F = N (Σ_j π_j m_j m_j' − m m'). The step solves (−ℓ'' + 2λP + 2Q) Δ = Φ'; when the observed matrix
  * is not positive definite the Fisher matrix is used (Fisher scoring). Steps are halved until
- * the Armijo condition Φ(β + tΔ) ≥ Φ(β) + 10⁻⁴ t Φ'·Δ holds.
+ * the Armijo condition Φ(β + tΔ) ≥ Φ(β) + 10⁻⁴ t Φ'·Δ holds. The objective and its derivatives
+ * are {@link PenalizedObjective}'s, the covariance {@link NewtonCovariance}'s; this class owns the
+ * coefficients and the iteration.
  */
 final class PenalizedNewton {
-    private final BinLayout lay;
+    private final PenalizedObjective lik;
+    private final NewtonCovariance covariance;
     private final int k;
     private final int k1;
-    private final double[] pen;
-    /** Fixed quadratic prior β'Qβ subtracted from Φ (raw K × K), or null. */
-    private final double[] prior;
-
-    // unit data
-    private double[] counts; // null: sample mode
-    private double total;
-    private double total2;
-    private final double[] linear;
-
     // state
     private final double[] beta;
     private final double[] trial;
+    private final double[] step;
+    /** The objective's gradient and information matrix (stride k1). */
     private final double[] grad;
     private final double[] hess;
-    private final double[] fisher;
-    private final double[] step;
-    private final double[] eta;
-    private final double[] ex;
-    private final double[] mass;
-    private final double[] mvec;
-    private final double[] uj;
-    private final double[] solveA;
-    private final double[] solveB;
-    private final double[] scratch1;
-    private final double[] scratch2;
-    private final double[] meat;
-    private double zScaled;
-    /** log det(F + 2λP) from the last {@link #sandwich} (NaN if singular). */
-    private double logDetJ;
-    /** Whether the last covariance from {@link #sandwich} used the empirical information. */
-    private boolean robustUsed;
-    private double shift;
-    private double loglik;
-    private double objective;
     private int iterations;
-    private boolean usedFisher;
     private String failure;
 
     PenalizedNewton(BinLayout lay, double[] rawPenalty) {
@@ -73,28 +47,15 @@ final class PenalizedNewton {
 
     /** With a fixed quadratic prior term β'Qβ (raw K × K, already weighted; null for none). */
     PenalizedNewton(BinLayout lay, double[] rawPenalty, double[] prior) {
-        this.prior = prior;
-        this.lay = lay;
+        this.lik = new PenalizedObjective(lay, rawPenalty, prior);
+        this.covariance = new NewtonCovariance(lik, lay.k, rawPenalty, prior);
         this.k = lay.k;
         this.k1 = k + 1;
-        this.pen = rawPenalty;
-        linear = new double[k1];
         beta = new double[k1];
         trial = new double[k1];
-        grad = new double[k1];
-        hess = new double[k1 * k1];
-        fisher = new double[k * k];
         step = new double[k1];
-        eta = new double[lay.nodes];
-        ex = new double[lay.nodes];
-        mass = new double[lay.bins];
-        mvec = new double[k1];
-        uj = new double[k1];
-        solveA = new double[k * k];
-        solveB = new double[k * k];
-        scratch1 = new double[k * k];
-        scratch2 = new double[k * k];
-        meat = new double[k * k];
+        grad = lik.grad;
+        hess = lik.hess;
     }
 
     /** Optional K × D map from log(n_j + 1/2) to starting coefficients, and its constant. */
@@ -106,11 +67,12 @@ final class PenalizedNewton {
      * histogram heights log((n_j + 1/2)/(h_j p(x_j))) (zero start when no map is set).
      */
     void startFromCounts() {
+        double[] counts = lik.counts();
         Arrays.fill(beta, 0.0);
         if (startMap == null || counts == null) {
             return;
         }
-        int d = lay.bins;
+        int d = lik.bins().bins;
         System.arraycopy(startConst, 0, beta, 0, k);
         for (int j = 0; j < d; j++) {
             double lj = Math.log(counts[j] + 0.5);
@@ -119,292 +81,6 @@ final class PenalizedNewton {
             }
         }
         beta[k] = 0.0;
-    }
-
-    /** β'Pβ over the first K coefficients. */
-    double penalty(double[] b) {
-        return quadratic(pen, b);
-    }
-
-    /** β'Qβ of the prior (0 without one). */
-    double priorPenalty(double[] b) {
-        return prior == null ? 0.0 : quadratic(prior, b);
-    }
-
-    private double quadratic(double[] m, double[] b) {
-        double s = 0;
-        for (int i = 0; i < k; i++) {
-            double r = 0;
-            int o = i * k;
-            for (int j = 0; j < k; j++) {
-                r += m[o + j] * b[j];
-            }
-            s += b[i] * r;
-        }
-        return s;
-    }
-
-    /** Evaluates Φ at b, filling eta, ex, mass, zScaled, shift and loglik. */
-    double evaluate(double[] b, double lambda) {
-        final int nq = lay.nodes, w = lay.width;
-        final double[] vals = lay.vals;
-        final int[] first = lay.first;
-        double max = Double.NEGATIVE_INFINITY;
-        for (int q = 0; q < nq; q++) {
-            int f = first[q], base = q * w;
-            double s = 0;
-            for (int i = 0; i < w; i++) {
-                s += vals[base + i] * b[f + i];
-            }
-            eta[q] = s;
-            if (s > max) {
-                max = s;
-            }
-        }
-        shift = max;
-        final double[] wt = lay.weight;
-        final int[] start = lay.binStart;
-        double z = 0;
-        for (int j = 0; j < lay.bins; j++) {
-            double s = 0;
-            for (int q = start[j]; q < start[j + 1]; q++) {
-                double e = wt[q] * Math.exp(eta[q] - max);
-                ex[q] = e;
-                s += e;
-            }
-            mass[j] = s;
-            z += s;
-        }
-        zScaled = z;
-        double ll;
-        if (counts != null) {
-            double logZ = Math.log(z);
-            ll = 0;
-            for (int j = 0; j < lay.bins; j++) {
-                double n = counts[j];
-                if (n > 0) {
-                    ll += n * (Math.log(mass[j]) - logZ);
-                }
-            }
-        } else {
-            double tb = 0;
-            for (int i = 0; i < k; i++) {
-                tb += linear[i] * b[i];
-            }
-            ll = tb - total * (max + Math.log(z));
-        }
-        loglik = ll;
-        if (Double.isNaN(ll)) {
-            ll = Double.NEGATIVE_INFINITY;
-        }
-        return ll - lambda * penalty(b) - priorPenalty(b);
-    }
-
-    /**
-     * The multinomial log-likelihood Σ_j n_j log(A_j / Z) of the counts at b, with a log-sum-exp
-     * shift per bin instead of one for the whole domain: finite whenever η is, also where a bin's
-     * mass underflows relative to the largest (for reporting; {@link #evaluate} is the fast path).
-     */
-    double logLikelihoodPerBinShift(double[] b) {
-        final int w = lay.width;
-        final double[] vals = lay.vals;
-        final int[] first = lay.first;
-        final double[] wt = lay.weight;
-        double[] logA = new double[lay.bins];
-        double top = Double.NEGATIVE_INFINITY;
-        for (int j = 0; j < lay.bins; j++) {
-            int q0 = lay.binStart[j], q1 = lay.binStart[j + 1];
-            double m = Double.NEGATIVE_INFINITY;
-            for (int q = q0; q < q1; q++) {
-                double s = 0;
-                for (int i = 0; i < w; i++) {
-                    s += vals[q * w + i] * b[first[q] + i];
-                }
-                eta[q] = s;
-                m = Math.max(m, s);
-            }
-            double sum = 0;
-            for (int q = q0; q < q1; q++) {
-                sum += wt[q] * Math.exp(eta[q] - m);
-            }
-            logA[j] = m + Math.log(sum);
-            top = Math.max(top, logA[j]);
-        }
-        double z = 0;
-        for (int j = 0; j < lay.bins; j++) {
-            z += Math.exp(logA[j] - top);
-        }
-        double logZ = top + Math.log(z);
-        double ll = 0;
-        for (int j = 0; j < lay.bins; j++) {
-            if (counts[j] > 0) {
-                ll += counts[j] * (logA[j] - logZ);
-            }
-        }
-        return ll;
-    }
-
-    /**
-     * Gradient of Φ and the information matrix (+ 2λP) at the last evaluated point (which must
-     * be beta), into grad and hess (full symmetric, stride k1).
-     */
-    void derivatives(double lambda, boolean expected) {
-        derivatives(lambda, expected, true);
-    }
-
-    /** As {@link #derivatives(double, boolean)}; without the penalty and prior when not penalised. */
-    void derivatives(double lambda, boolean expected, boolean penalised) {
-        Arrays.fill(grad, 0.0);
-        Arrays.fill(hess, 0.0);
-        Arrays.fill(mvec, 0.0);
-        final int w = lay.width;
-        final double[] vals = lay.vals;
-        final int[] first = lay.first;
-        final int[] start = lay.binStart;
-        final double z = zScaled;
-        final double nz = total / z;
-        final boolean countsMode = counts != null;
-        final boolean sTerm = !expected || !countsMode;
-        // running 4 × 4 block of the second-moment term for the current local index (W = 4)
-        int fcur = -1;
-        double h00 = 0, h10 = 0, h11 = 0, h20 = 0, h21 = 0, h22 = 0, h30 = 0, h31 = 0, h32 = 0, h33 = 0;
-        for (int j = 0; j < lay.bins; j++) {
-            double a = mass[j];
-            double nj = countsMode ? counts[j] : 0.0;
-            double cj = nj > 0 ? nj / a : 0.0;
-            double coefR = cj - nz; // r_q = e_q coefR
-            int lo = lay.binLo[j], hi = lay.binHi[j];
-            Arrays.fill(uj, lo, hi, 0.0);
-            int q0 = start[j], q1 = start[j + 1];
-            if (w == 4) {
-                for (int q = q0; q < q1; q++) {
-                    double e = ex[q];
-                    int f = first[q], base = q << 2;
-                    double v0 = vals[base], v1 = vals[base + 1], v2 = vals[base + 2], v3 = vals[base + 3];
-                    uj[f] += e * v0;
-                    uj[f + 1] += e * v1;
-                    uj[f + 2] += e * v2;
-                    uj[f + 3] += e * v3;
-                    if (sTerm) {
-                        if (f != fcur) {
-                            if (fcur >= 0) {
-                                flush4(fcur, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
-                            }
-                            fcur = f;
-                            h00 = h10 = h11 = h20 = h21 = h22 = h30 = h31 = h32 = h33 = 0;
-                        }
-                        double m0 = -e * coefR * v0, m1 = -e * coefR * v1, m2 = -e * coefR * v2;
-                        double m3 = -e * coefR * v3;
-                        h00 += m0 * v0;
-                        h10 += m1 * v0;
-                        h11 += m1 * v1;
-                        h20 += m2 * v0;
-                        h21 += m2 * v1;
-                        h22 += m2 * v2;
-                        h30 += m3 * v0;
-                        h31 += m3 * v1;
-                        h32 += m3 * v2;
-                        h33 += m3 * v3;
-                    }
-                }
-            } else {
-                for (int q = q0; q < q1; q++) {
-                    double e = ex[q];
-                    if (e == 0.0) {
-                        continue;
-                    }
-                    int f = first[q], base = q * w;
-                    for (int i = 0; i < w; i++) {
-                        uj[f + i] += e * vals[base + i];
-                    }
-                    if (sTerm) {
-                        double mr = -e * coefR;
-                        for (int i = 0; i < w; i++) {
-                            double vi = mr * vals[base + i];
-                            int row = (f + i) * k1 + f;
-                            for (int l = 0; l <= i; l++) {
-                                hess[row + l] += vi * vals[base + l];
-                            }
-                        }
-                    }
-                }
-            }
-            for (int i = lo; i < hi; i++) {
-                grad[i] += coefR * uj[i];
-                mvec[i] += uj[i];
-            }
-            boolean rank = countsMode && (expected ? a > 0 : nj > 0);
-            if (rank) {
-                double coef = expected ? total / (z * a) : nj / (a * a);
-                for (int i = lo; i < hi; i++) {
-                    double ui = coef * uj[i];
-                    int row = i * k1;
-                    for (int l = lo; l <= i; l++) {
-                        hess[row + l] += ui * uj[l];
-                    }
-                }
-            }
-        }
-        if (fcur >= 0) {
-            flush4(fcur, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
-        }
-        subtractOuter(hess, k1, total / (z * z), mvec, k);
-        for (int i = 0; i < k; i++) {
-            grad[i] += linear[i];
-        }
-        symmetrize();
-        if (!penalised) {
-            return;
-        }
-        if (prior != null) {
-            for (int i = 0; i < k; i++) {
-                double r = 0;
-                int o = i * k;
-                int row = i * k1;
-                for (int j = 0; j < k; j++) {
-                    double p = prior[o + j];
-                    r += p * beta[j];
-                    hess[row + j] += 2 * p;
-                }
-                grad[i] -= 2 * r;
-            }
-        }
-        if (lambda != 0.0) {
-            for (int i = 0; i < k; i++) {
-                double r = 0;
-                int o = i * k;
-                int row = i * k1;
-                for (int j = 0; j < k; j++) {
-                    double p = pen[o + j];
-                    r += p * beta[j];
-                    hess[row + j] += 2 * lambda * p;
-                }
-                grad[i] -= 2 * lambda * r;
-            }
-        }
-    }
-
-    private void flush4(int f, double h00, double h10, double h11, double h20, double h21, double h22, double h30,
-            double h31, double h32, double h33) {
-        int r0 = f * k1 + f, r1 = r0 + k1, r2 = r1 + k1, r3 = r2 + k1;
-        hess[r0] += h00;
-        hess[r1] += h10;
-        hess[r1 + 1] += h11;
-        hess[r2] += h20;
-        hess[r2 + 1] += h21;
-        hess[r2 + 2] += h22;
-        hess[r3] += h30;
-        hess[r3 + 1] += h31;
-        hess[r3 + 2] += h32;
-        hess[r3 + 3] += h33;
-    }
-
-    private void symmetrize() {
-        for (int i = 0; i < k; i++) {
-            for (int l = 0; l < i; l++) {
-                hess[l * k1 + i] = hess[i * k1 + l];
-            }
-        }
     }
 
     /**
@@ -463,12 +139,10 @@ final class PenalizedNewton {
 
     private boolean solve(double lambda, int maxIter, double tol, boolean exact) {
         failure = null;
-        usedFisher = false;
         iterations = 0;
-        double obj = evaluate(beta, lambda);
+        double obj = lik.evaluate(beta, lambda);
         if (!(obj > Double.NEGATIVE_INFINITY)) {
             failure = "the starting coefficients give probability 0 to an occupied bin";
-            objective = obj;
             return false;
         }
         double stepTol = Math.sqrt(tol);
@@ -476,14 +150,12 @@ final class PenalizedNewton {
         double lastStep = Double.NaN;
         for (int it = 1; it <= maxIter; it++) {
             iterations = it;
-            derivatives(lambda, false);
+            lik.derivatives(lambda, false, true, beta);
             if (Cholesky.factor(hess, k, k1, 0) >= 0) {
-                usedFisher = true;
-                derivatives(lambda, true);
+                lik.derivatives(lambda, true, true, beta);
                 if (Cholesky.factor(hess, k, k1, 0) >= 0) {
                     failure = "penalised information matrix is singular at iteration " + it
                             + " (too few occupied bins for K = " + k + " without enough smoothing)";
-                    objective = obj;
                     return false;
                 }
             }
@@ -495,7 +167,6 @@ final class PenalizedNewton {
             }
             if (!(dec >= 0) || !Double.isFinite(dec)) {
                 failure = "non-finite Newton step at iteration " + it;
-                objective = obj;
                 return false;
             }
             double scale = 1 + Math.abs(obj);
@@ -503,7 +174,6 @@ final class PenalizedNewton {
             lastDec = dec / scale;
             lastStep = size;
             if (!exact && dec <= tol * scale) {
-                objective = obj;
                 return true;
             }
             double t = 1.0;
@@ -514,7 +184,7 @@ final class PenalizedNewton {
                     trial[i] = beta[i] + step[i];
                 }
                 trial[k] = 0.0;
-                o = evaluate(trial, lambda);
+                o = lik.evaluate(trial, lambda);
                 // Φ cannot resolve the predicted gain; accept unless it clearly decreased
                 accepted = o >= obj - RESOLUTION * scale;
             }
@@ -523,7 +193,7 @@ final class PenalizedNewton {
                     trial[i] = beta[i] + t * step[i];
                 }
                 trial[k] = 0.0;
-                o = evaluate(trial, lambda);
+                o = lik.evaluate(trial, lambda);
                 if (o >= obj + 1e-4 * t * dec) {
                     accepted = true;
                     break;
@@ -531,8 +201,7 @@ final class PenalizedNewton {
                 t *= 0.5;
             }
             if (!accepted) {
-                evaluate(beta, lambda);
-                objective = obj;
+                lik.evaluate(beta, lambda);
                 failure = "line search failed at iteration " + it + " (relative Newton decrement " + lastDec
                         + ", relative step " + lastStep + ")";
                 return false;
@@ -540,15 +209,15 @@ final class PenalizedNewton {
             System.arraycopy(trial, 0, beta, 0, k1);
             obj = o;
             if (t == 1.0 && dec <= tol * scale && size <= stepTol) {
-                objective = obj;
                 return true;
             }
         }
-        objective = obj;
         failure = "no convergence in " + maxIter + " Newton iterations (last relative Newton decrement " + lastDec
                 + ", relative coordinate step " + lastStep + ")";
         return false;
     }
+
+    // ---------------------------------------------------------------- covariance (NewtonCovariance)
 
     /**
      * The unpenalised Fisher information F (K × K, row-major, into {@link #fisher}) at the last
@@ -556,319 +225,98 @@ final class PenalizedNewton {
      * observed information for samples.
      */
     void fisherInformation() {
-        derivatives(0.0, true, false);
-        double f = counts == null ? total2 / total : 1.0;
-        for (int i = 0; i < k; i++) {
-            for (int j = 0; j < k; j++) {
-                fisher[i * k + j] = f * hess[i * k1 + j];
-            }
-        }
+        lik.fisherInformation();
     }
 
-    /**
-     * The empirical (model-robust) information of the counts at the last evaluated point (beta):
-     * with m_j = ∫_{bin j} φ e^η dP / A_j the within-bin mean of the raw functions,
-     * M = Σ_j n_j m_j m_j' − t t'/N, t = Σ_j n_j m_j, i.e. N times the covariance of the per-event
-     * scores m_{j(i)} − m over the observed events (centred at their own mean, which absorbs the
-     * penalty gradient). Written into {@link #meat} (K × K, row-major).
-     */
-    void empiricalInformation() {
-        Arrays.fill(meat, 0.0);
-        Arrays.fill(mvec, 0.0);
-        final int w = lay.width;
-        final double[] vals = lay.vals;
-        final int[] first = lay.first;
-        final int[] start = lay.binStart;
-        for (int j = 0; j < lay.bins; j++) {
-            double nj = counts[j];
-            if (!(nj > 0)) {
-                continue;
-            }
-            int lo = lay.binLo[j], hi = Math.min(lay.binHi[j], k);
-            Arrays.fill(uj, lo, hi, 0.0);
-            for (int q = start[j]; q < start[j + 1]; q++) {
-                double e = ex[q];
-                int f = first[q], base = q * w;
-                for (int i = 0; i < w && f + i < k; i++) {
-                    uj[f + i] += e * vals[base + i];
-                }
-            }
-            double inv = 1.0 / mass[j];
-            for (int i = lo; i < hi; i++) {
-                uj[i] *= inv;
-                mvec[i] += nj * uj[i];
-            }
-            for (int i = lo; i < hi; i++) {
-                double ui = nj * uj[i];
-                int row = i * k;
-                for (int l = lo; l <= i; l++) {
-                    meat[row + l] += ui * uj[l];
-                }
-            }
-        }
-        subtractOuter(meat, k, 1.0 / total, mvec, k);
-        for (int i = 0; i < k; i++) {
-            for (int l = 0; l < i; l++) {
-                meat[l * k + i] = meat[i * k + l];
-            }
-        }
-    }
-
-    /** Sample mode: per-observation first raw index, local basis values (n × width) and weights. */
-    private int[] sampleFirst;
-    private double[] sampleVals;
-    private double[] sampleWeights;
-    private int sampleWidth;
-
-    /**
-     * The empirical information of a weighted sample (sample mode, arrays set): with φ_i the raw
-     * functions at x_i, M = (Σ w_i²/W) Σ_i w_i (φ_i − φ̄)(φ_i − φ̄)', φ̄ = Σ_i w_i φ_i / W — the
-     * score variance Σ w_i² Cov(φ) with Cov(φ) estimated from the sample instead of the fit.
-     * Written into {@link #meat}.
-     */
-    void empiricalInformationSample() {
-        Arrays.fill(meat, 0.0);
-        Arrays.fill(mvec, 0.0);
-        final int w = sampleWidth, n = sampleFirst.length;
-        for (int o = 0; o < n; o++) {
-            double wo = sampleWeights[o];
-            if (wo == 0.0) {
-                continue;
-            }
-            int f = sampleFirst[o], base = o * w;
-            for (int i = 0; i < w && f + i < k; i++) {
-                double vi = wo * sampleVals[base + i];
-                mvec[f + i] += vi;
-                int row = (f + i) * k + f;
-                for (int l = 0; l <= i; l++) {
-                    meat[row + l] += vi * sampleVals[base + l];
-                }
-            }
-        }
-        double c = 1.0 / total;
-        for (int i = 0; i < k; i++) {
-            double mi = c * mvec[i];
-            int row = i * k;
-            for (int l = 0; l <= i; l++) {
-                meat[row + l] -= mi * mvec[l];
-            }
-        }
-        double g = total2 / total;
-        for (int i = 0; i < k; i++) {
-            for (int l = 0; l <= i; l++) {
-                double v = g * meat[i * k + l];
-                meat[i * k + l] = v;
-                meat[l * k + i] = v;
-            }
-        }
-    }
-
-    /**
-     * After {@link #fisherInformation()}: factors J = F + 2λP = LL' (log det J into
-     * {@link #logDetJ}) and returns edf = tr(J⁻¹F) = tr(W), W = L⁻¹ F L⁻ᵀ, or NaN if J is singular.
-     * If cov != null, writes the sandwich covariance of the coordinates c = U β there:
-     * U J⁻¹ M J⁻¹ U' = G W_M G' with the upper triangular G = U L⁻ᵀ (K × K) and W_M = L⁻¹ M L⁻ᵀ,
-     * where the meat M is F, or, when {@code robust} is set, the empirical information
-     * ({@link #empiricalInformation()} for counts, {@link #empiricalInformationSample()} for a
-     * sample whose arrays are set) times n/(n − edf), n = N for counts and the effective sample
-     * size W²/Σw² for samples (falling back to F when n ≤ edf + 1).
-     */
+    /** See {@link NewtonCovariance#sandwich(double, double[], double[])}. */
     double sandwich(double lambda, double[] u, double[] cov) {
-        return sandwich(lambda, u, cov, false);
+        return covariance.sandwich(lambda, u, cov);
     }
 
-    /** See {@link #sandwich(double, double[], double[])}. */
+    /** See {@link NewtonCovariance#sandwich(double, double[], double[], boolean)}. */
     double sandwich(double lambda, double[] u, double[] cov, boolean robust) {
-        return sandwich(lambda, u, cov, robust, null);
+        return covariance.sandwich(lambda, u, cov, robust);
     }
 
-    /**
-     * See {@link #sandwich(double, double[], double[])}; extra (raw K × K, or null) is a quadratic
-     * term β'Eβ added to the prior in J = F + 2λP + 2Q + 2E (used to report a covariance where J is
-     * singular without it).
-     */
+    /** See {@link NewtonCovariance#sandwich(double, double[], double[], boolean, double[])}. */
     double sandwich(double lambda, double[] u, double[] cov, boolean robust, double[] extra) {
-        final int n = k;
-        for (int i = 0; i < n * n; i++) {
-            solveA[i] = fisher[i] + 2 * lambda * pen[i] + (prior == null ? 0.0 : 2 * prior[i])
-                    + (extra == null ? 0.0 : 2 * extra[i]);
-        }
-        if (Cholesky.factor(solveA, n, n, 0) >= 0) {
-            logDetJ = Double.NaN;
-            return Double.NaN;
-        }
-        double ld = 0;
-        for (int i = 0; i < n; i++) {
-            ld += Math.log(solveA[i * n + i]);
-        }
-        logDetJ = 2 * ld;
-        double[] linv = solveB;
-        Cholesky.invertLower(solveA, n, linv);
-        double[] wm = scratch2;
-        double edf = whiten(fisher, linv, wm);
-        if (cov == null) {
-            return edf;
-        }
-        robustUsed = false;
-        double nEff = counts != null ? total : total * total / total2;
-        if (robust && (counts != null || sampleFirst != null) && nEff > edf + 1) {
-            if (counts != null) {
-                empiricalInformation();
-            } else {
-                empiricalInformationSample();
-            }
-            double f = nEff / (nEff - edf);
-            for (int i = 0; i < n * n; i++) {
-                meat[i] *= f;
-            }
-            whiten(meat, linv, wm);
-            robustUsed = true;
-        }
-        double[] t1 = scratch1;
-        // m = U L⁻ᵀ (upper): m_ij = Σ_{i ≤ p ≤ j} u_ip linv_jp ; stored in t1
-        double[] m = t1;
-        Arrays.fill(m, 0.0);
-        for (int i = 0; i < n; i++) {
-            int ri = i * n;
-            for (int j = i; j < n; j++) {
-                double s = 0;
-                int rj = j * n;
-                for (int p = i; p <= j; p++) {
-                    s += u[ri + p] * linv[rj + p];
-                }
-                m[ri + j] = s;
-            }
-        }
-        // t2 = m w (into linv, no longer needed), cov = t2 m'
-        double[] t2 = linv;
-        for (int i = 0; i < n; i++) {
-            int ri = i * n;
-            Arrays.fill(t2, ri, ri + n, 0.0);
-            for (int p = i; p < n; p++) {
-                double mv = m[ri + p];
-                int rp = p * n;
-                for (int j = 0; j < n; j++) {
-                    t2[ri + j] += mv * wm[rp + j];
-                }
-            }
-        }
-        for (int i = 0; i < n; i++) {
-            int ri = i * n;
-            for (int j = 0; j <= i; j++) {
-                double s = 0;
-                int rj = j * n;
-                for (int p = j; p < n; p++) {
-                    s += t2[ri + p] * m[rj + p];
-                }
-                cov[ri + j] = s;
-                cov[rj + i] = s;
-            }
-        }
-        return edf;
+        return covariance.sandwich(lambda, u, cov, robust, extra);
     }
 
-    /** wm = L⁻¹ a L⁻ᵀ (symmetric, linv = L⁻¹ lower triangular); returns its trace. Uses scratch1. */
-    private double whiten(double[] a, double[] linv, double[] wm) {
-        final int n = k;
-        double[] t1 = scratch1;
-        for (int i = 0; i < n; i++) {
-            int ri = i * n;
-            Arrays.fill(t1, ri, ri + n, 0.0);
-            for (int p = 0; p <= i; p++) {
-                double l = linv[ri + p];
-                int rp = p * n;
-                for (int j = 0; j < n; j++) {
-                    t1[ri + j] += l * a[rp + j];
-                }
-            }
-        }
-        // w_ij = Σ_{p ≤ j} t1_ip linv_jp
-        double tr = 0;
-        for (int i = 0; i < n; i++) {
-            for (int j = 0; j <= i; j++) {
-                double s = 0;
-                int ri = i * n, rj = j * n;
-                for (int p = 0; p <= j; p++) {
-                    s += t1[ri + p] * linv[rj + p];
-                }
-                wm[ri + j] = s;
-                wm[rj + i] = s;
-            }
-            tr += wm[i * n + i];
-        }
-        return tr;
+    /** log det(F + 2λP) from the last {@link #sandwich} (NaN if singular). */
+    double logDetJ() {
+        return covariance.logDetJ();
     }
+
+    /** Solves (L Lᵀ) x = rhs in place with the information factor left by the last {@link #sandwich}. */
+    void solveWithInformationFactor(double[] rhs) {
+        covariance.solveWithInformationFactor(rhs);
+    }
+
+    /** Trace of the K × K Fisher information (after {@link #fisherInformation}). */
+    double fisherTrace() {
+        return lik.fisherTrace();
+    }
+
+    // ---------------------------------------------------------------- data (PenalizedObjective)
 
     // ---------------------------------------------------------------- state, owned here
 
     /** Counts mode: the unit's counts (not copied; not modified here) and total N, with Σw² = N and no sample. */
     void useCounts(double[] c, double n) {
-        setCounts(c, n);
-        total2 = n;
-        Arrays.fill(linear, 0.0);
+        lik.useCounts(c, n);
     }
 
     /** Replaces the counts and the total only (the training part of a fold, or a unit of the smoothing spline). */
     void setCounts(double[] c, double n) {
-        counts = c;
-        total = n;
+        lik.setCounts(c, n);
     }
 
     /** Sample mode: the sufficient statistic (K + 1 values, copied), the local basis values and weights, the totals. */
     void useSample(double[] lin, int[] first, double[] vals, double[] weights, int width, double n, double n2) {
-        counts = null;
-        total = n;
-        total2 = n2;
-        System.arraycopy(lin, 0, linear, 0, k + 1);
-        sampleFirst = first;
-        sampleVals = vals;
-        sampleWeights = weights;
-        sampleWidth = width;
+        lik.useSample(lin, first, vals, weights, width, n, n2);
     }
 
     /** Replaces the sample statistic (K + 1 values, copied) and the totals (a fold's training part). */
     void setSampleStatistics(double[] lin, double n, double n2) {
-        System.arraycopy(lin, 0, linear, 0, k + 1);
-        total = n;
-        total2 = n2;
+        lik.setSampleStatistics(lin, n, n2);
     }
 
     /** Restores counts (may be null), totals and the sample statistic (copied) saved before a cross-validation. */
     void restoreData(double[] c, double n, double n2, double[] lin) {
-        counts = c;
-        total = n;
-        total2 = n2;
-        System.arraycopy(lin, 0, linear, 0, k + 1);
+        lik.restoreData(c, n, n2, lin);
     }
 
     /** A fresh copy of the sample statistic (K + 1 values). */
     double[] sampleStatistics() {
-        return linear.clone();
+        return lik.sampleStatistics();
     }
 
     /** The current counts (null in sample mode); the array given to {@link #useCounts}, not to be modified. */
     double[] counts() {
-        return counts;
+        return lik.counts();
     }
 
     boolean hasCounts() {
-        return counts != null;
+        return lik.hasCounts();
     }
 
     /** Total weight N of the current data. */
     double total() {
-        return total;
+        return lik.total();
     }
 
     /** Σw² of the current data (N for counts). */
     double total2() {
-        return total2;
+        return lik.total2();
     }
 
     /** The bin layout of the unit. */
     BinLayout bins() {
-        return lay;
+        return lik.bins();
     }
+
+    // ---------------------------------------------------------------- coefficients and the last evaluation
 
     /** Map from raw coefficients to coordinates (c = U β), used by the convergence test; null for none. */
     void setCoordinateMap(double[] u) {
@@ -912,49 +360,44 @@ final class PenalizedNewton {
         EstimationSupport.toCoordinates(u, k, beta, out, off);
     }
 
-    /** Φ at the current β; see {@link #evaluate(double[], double)}. */
+    /** Φ at the current β; see {@link PenalizedObjective#evaluate(double[], double)}. */
     double evaluate(double lambda) {
-        return evaluate(beta, lambda);
+        return lik.evaluate(beta, lambda);
     }
 
     /** β'Pβ at the current β. */
     double penalty() {
-        return penalty(beta);
+        return lik.penalty(beta);
     }
 
     /** β'Qβ of the prior at the current β. */
     double priorPenalty() {
-        return priorPenalty(beta);
+        return lik.priorPenalty(beta);
     }
 
-    /** {@link #logLikelihoodPerBinShift(double[])} at the current β. */
+    /** {@link PenalizedObjective#logLikelihoodPerBinShift(double[])} at the current β. */
     double logLikelihoodPerBinShift() {
-        return logLikelihoodPerBinShift(beta);
+        return lik.logLikelihoodPerBinShift(beta);
     }
 
     /** Z / e^shift of the last evaluation. */
     double zScaled() {
-        return zScaled;
+        return lik.zScaled();
     }
 
     /** Bin mass A_j / e^shift of the last evaluation. */
     double mass(int j) {
-        return mass[j];
+        return lik.mass(j);
     }
 
     /** The log-sum-exp shift of the last evaluation. */
     double shift() {
-        return shift;
+        return lik.shift();
     }
 
     /** Log-likelihood at the last evaluated point. */
     double logLikelihood() {
-        return loglik;
-    }
-
-    /** log det(F + 2λP) from the last {@link #sandwich} (NaN if singular). */
-    double logDetJ() {
-        return logDetJ;
+        return lik.logLikelihood();
     }
 
     /** Newton iterations of the last solve. */
@@ -965,26 +408,5 @@ final class PenalizedNewton {
     /** Why the last solve failed ("" or null when it converged). */
     String failure() {
         return failure;
-    }
-
-    /** Trace of the K × K Fisher information (after {@link #fisherInformation}). */
-    double fisherTrace() {
-        return EstimationSupport.trace(fisher, k);
-    }
-
-    /** Solves (L Lᵀ) x = rhs in place with the information factor left by the last {@link #sandwich}. */
-    void solveWithInformationFactor(double[] rhs) {
-        io.densa.core.internal.Cholesky.solve(solveA, k, k, rhs, 0);
-    }
-
-    /** Lower triangle of the k × k block of a (row stride s) minus c·m mᵀ, entry by entry as (c m_i) m_l. */
-    private static void subtractOuter(double[] a, int s, double c, double[] m, int k) {
-        for (int i = 0; i < k; i++) {
-            double mi = c * m[i];
-            int row = i * s;
-            for (int l = 0; l <= i; l++) {
-                a[row + l] -= mi * m[l];
-            }
-        }
     }
 }

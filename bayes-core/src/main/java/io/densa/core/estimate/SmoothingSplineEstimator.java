@@ -6,6 +6,7 @@ import io.densa.core.SolveDiagnostics;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
 import io.densa.core.internal.Cholesky;
+import io.densa.core.internal.GoldenSection;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.RoughnessPenalty;
@@ -357,15 +358,7 @@ public final class SmoothingSplineEstimator implements CountEstimator {
                     x[j * p + c + 1] = e.get(j, c);
                 }
             }
-            double[] xtx = new double[p * p];
-            for (int j = 0; j < d; j++) {
-                for (int a = 0; a < p; a++) {
-                    double xa = x[j * p + a];
-                    for (int b = 0; b < p; b++) {
-                        xtx[a * p + b] += xa * x[j * p + b];
-                    }
-                }
-            }
+            double[] xtx = EstimationSupport.crossProduct(x, d, p);
             double trX = EstimationSupport.trace(xtx, p);
             if (Cholesky.factor(xtx, p, p, 0) >= 0) {
                 throw new IllegalArgumentException("the bin midpoints do not determine the " + k
@@ -382,27 +375,7 @@ public final class SmoothingSplineEstimator implements CountEstimator {
                 }
             }
             double trO = EstimationSupport.trace(om, p);
-            double[] tmp = new double[p * p];
-            for (int a = 0; a < p; a++) {
-                for (int b = 0; b < p; b++) {
-                    double s = 0;
-                    for (int q = 0; q <= a; q++) {
-                        s += linv[a * p + q] * om[q * p + b];
-                    }
-                    tmp[a * p + b] = s;
-                }
-            }
-            DMatrixRMaj bm = new DMatrixRMaj(p, p);
-            for (int a = 0; a < p; a++) {
-                for (int b = 0; b <= a; b++) {
-                    double s = 0;
-                    for (int q = 0; q <= b; q++) {
-                        s += tmp[a * p + q] * linv[b * p + q];
-                    }
-                    bm.set(a, b, s);
-                    bm.set(b, a, s);
-                }
-            }
+            DMatrixRMaj bm = new DMatrixRMaj(p, p, true, Cholesky.lowerCongruence(linv, om, p));
             EigenDecomposition_F64<DMatrixRMaj> eigd = DecompositionFactory_DDRM.eig(p, true, true);
             if (!eigd.decompose(bm)) {
                 throw new DensaException("eigen decomposition of the penalised design failed",
@@ -497,33 +470,7 @@ public final class SmoothingSplineEstimator implements CountEstimator {
                 }
             }
             double lo = Math.max(gridLo, bestG - GRID_STEP), hi = Math.min(gridHi, bestG + GRID_STEP);
-            double ratio = 0.5 * (Math.sqrt(5) - 1);
-            double x1 = hi - ratio * (hi - lo), x2 = lo + ratio * (hi - lo);
-            double f1 = gcv(z, yy, scale * Math.pow(10, x1))[0], f2 = gcv(z, yy, scale * Math.pow(10, x2))[0];
-            for (int it = 0; it < 30; it++) {
-                if (f1 <= f2) {
-                    hi = x2;
-                    x2 = x1;
-                    f2 = f1;
-                    x1 = hi - ratio * (hi - lo);
-                    f1 = gcv(z, yy, scale * Math.pow(10, x1))[0];
-                } else {
-                    lo = x1;
-                    x1 = x2;
-                    f1 = f2;
-                    x2 = lo + ratio * (hi - lo);
-                    f2 = gcv(z, yy, scale * Math.pow(10, x2))[0];
-                }
-            }
-            double g = bestG;
-            double c = best;
-            if (f1 < c) {
-                g = x1;
-                c = f1;
-            }
-            if (f2 < c) {
-                g = x2;
-            }
+            double g = GoldenSection.minimise(x -> gcv(z, yy, scale * Math.pow(10, x))[0], lo, hi, 30, bestG, best);
             return scale * Math.pow(10, g);
         }
 

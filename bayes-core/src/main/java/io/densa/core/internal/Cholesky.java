@@ -227,4 +227,33 @@ public final class Cholesky {
             }
         }
     }
+
+    /**
+     * L M Lᵀ for L lower triangular and M symmetric (both n × n, row-major): the product L M by
+     * rows, then its lower triangle times Lᵀ, mirrored. Returns a fresh symmetric n × n matrix.
+     */
+    public static double[] lowerCongruence(double[] l, double[] m, int n) {
+        double[] tmp = new double[n * n];
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j < n; j++) {
+                double s = 0;
+                for (int p = 0; p <= i; p++) {
+                    s += l[i * n + p] * m[p * n + j];
+                }
+                tmp[i * n + j] = s;
+            }
+        }
+        double[] out = new double[n * n];
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j <= i; j++) {
+                double s = 0;
+                for (int p = 0; p <= j; p++) {
+                    s += tmp[i * n + p] * l[j * n + p];
+                }
+                out[i * n + j] = s;
+                out[j * n + i] = s;
+            }
+        }
+        return out;
+    }
 }

@@ -67,28 +67,7 @@ public final class CountSampling {
             }
             return k;
         }
-        double smu = Math.sqrt(mean);
-        double b = 0.931 + 2.53 * smu;
-        double a = -0.059 + 0.02483 * b;
-        double invAlpha = 1.1239 + 1.1328 / (b - 3.4);
-        double vr = 0.9277 - 3.6224 / (b - 2);
-        double logMean = Math.log(mean);
-        while (true) {
-            double u = rng.nextDouble() - 0.5;
-            double v = rng.nextDouble();
-            double us = 0.5 - Math.abs(u);
-            long k = (long) Math.floor((2 * a / us + b) * u + mean + 0.43);
-            if (us >= 0.07 && v <= vr) {
-                return k;
-            }
-            if (k < 0 || (us < 0.013 && v > us)) {
-                continue;
-            }
-            if (Math.log(v) + Math.log(invAlpha) - Math.log(a / (us * us) + b)
-                    <= -mean + k * logMean - logFactorial(k)) {
-                return k;
-            }
-        }
+        return new Poisson(mean).sample(rng); // PTRS (the prepared sampler's draws)
     }
 
     /**

@@ -173,15 +173,7 @@ public final class RawBasis {
         if (x >= knots[hi]) {
             return hi;
         }
-        while (lo < hi) {
-            int mid = (lo + hi + 1) >>> 1;
-            if (knots[mid] <= x) {
-                lo = mid;
-            } else {
-                hi = mid - 1;
-            }
-        }
-        return lo;
+        return Sorted.lastAtMost(knots, lo, hi, x);
     }
 
     private int splineLocal(double x, double[] n) {
@@ -195,16 +187,7 @@ public final class RawBasis {
         } else if (x <= ext[p]) {
             s = p;
         } else {
-            int lo = p, hi = m - 1;
-            while (lo < hi) {
-                int mid = (lo + hi + 1) >>> 1;
-                if (ext[mid] <= x) {
-                    lo = mid;
-                } else {
-                    hi = mid - 1;
-                }
-            }
-            s = lo;
+            s = Sorted.lastAtMost(ext, p, m - 1, x);
         }
         // n[0..k) values, n[k..2k) left differences, n[2k..3k) right differences
         n[0] = 1.0;

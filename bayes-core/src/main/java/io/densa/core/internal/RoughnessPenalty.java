@@ -33,28 +33,7 @@ public final class RoughnessPenalty {
      * @return a fresh symmetric K × K matrix, row-major
      */
     public static double[] inCoordinates(double[] t, double[] m, int k) {
-        double[] tmp = new double[k * k];
-        for (int i = 0; i < k; i++) {
-            for (int j = 0; j < k; j++) {
-                double s = 0;
-                for (int p = 0; p <= i; p++) {
-                    s += t[i * k + p] * m[p * k + j];
-                }
-                tmp[i * k + j] = s;
-            }
-        }
-        double[] out = new double[k * k];
-        for (int i = 0; i < k; i++) {
-            for (int j = 0; j <= i; j++) {
-                double s = 0;
-                for (int p = 0; p <= j; p++) {
-                    s += tmp[i * k + p] * t[j * k + p];
-                }
-                out[i * k + j] = s;
-                out[j * k + i] = s;
-            }
-        }
-        return out;
+        return Cholesky.lowerCongruence(t, m, k);
     }
 
     /** Largest admissible derivative order for a basis. */

@@ -1,0 +1,184 @@
+package io.densa.core.estimate;
+
+import io.densa.core.internal.Cholesky;
+import java.util.Arrays;
+
+/**
+ * The covariance step of {@link PenalizedNewton}: the Cholesky factor of the penalised
+ * information J = F + 2λP + 2Q, log det J, edf = tr(J⁻¹F) and the sandwich covariance
+ * U J⁻¹ M J⁻¹ U' of the coordinates, with its working arrays (one instance per engine). Internal.
+ */
+final class NewtonCovariance {
+    private final PenalizedObjective obj;
+    private final int k;
+    private final double[] pen;
+    private final double[] prior;
+    private final double[] fisher;
+    private final double[] solveA;
+    private final double[] solveB;
+    private final double[] scratch1;
+    private final double[] scratch2;
+    private final double[] meat;
+    /** log det(F + 2λP) from the last {@link #sandwich} (NaN if singular). */
+    private double logDetJ;
+
+    NewtonCovariance(PenalizedObjective obj, int k, double[] rawPenalty, double[] prior) {
+        this.obj = obj;
+        this.k = k;
+        this.pen = rawPenalty;
+        this.prior = prior;
+        this.fisher = obj.fisher();
+        solveA = new double[k * k];
+        solveB = new double[k * k];
+        scratch1 = new double[k * k];
+        scratch2 = new double[k * k];
+        meat = new double[k * k];
+    }
+
+    /**
+     * After {@link PenalizedObjective#fisherInformation()}: factors J = F + 2λP = LL' (log det J into
+     * {@link #logDetJ}) and returns edf = tr(J⁻¹F) = tr(W), W = L⁻¹ F L⁻ᵀ, or NaN if J is singular.
+     * If cov != null, writes the sandwich covariance of the coordinates c = U β there:
+     * U J⁻¹ M J⁻¹ U' = G W_M G' with the upper triangular G = U L⁻ᵀ (K × K) and W_M = L⁻¹ M L⁻ᵀ,
+     * where the meat M is F, or, when {@code robust} is set, the empirical information
+     * ({@link PenalizedObjective#empiricalInformation} for counts,
+     * {@link PenalizedObjective#empiricalInformationSample} for a
+     * sample whose arrays are set) times n/(n − edf), n = N for counts and the effective sample
+     * size W²/Σw² for samples (falling back to F when n ≤ edf + 1).
+     */
+    double sandwich(double lambda, double[] u, double[] cov) {
+        return sandwich(lambda, u, cov, false);
+    }
+
+    /** See {@link #sandwich(double, double[], double[])}. */
+    double sandwich(double lambda, double[] u, double[] cov, boolean robust) {
+        return sandwich(lambda, u, cov, robust, null);
+    }
+
+    /**
+     * See {@link #sandwich(double, double[], double[])}; extra (raw K × K, or null) is a quadratic
+     * term β'Eβ added to the prior in J = F + 2λP + 2Q + 2E (used to report a covariance where J is
+     * singular without it).
+     */
+    double sandwich(double lambda, double[] u, double[] cov, boolean robust, double[] extra) {
+        final int n = k;
+        final double[] counts = obj.counts();
+        final double total = obj.total(), total2 = obj.total2();
+        for (int i = 0; i < n * n; i++) {
+            solveA[i] = fisher[i] + 2 * lambda * pen[i] + (prior == null ? 0.0 : 2 * prior[i])
+                    + (extra == null ? 0.0 : 2 * extra[i]);
+        }
+        if (Cholesky.factor(solveA, n, n, 0) >= 0) {
+            logDetJ = Double.NaN;
+            return Double.NaN;
+        }
+        double ld = 0;
+        for (int i = 0; i < n; i++) {
+            ld += Math.log(solveA[i * n + i]);
+        }
+        logDetJ = 2 * ld;
+        double[] linv = solveB;
+        Cholesky.invertLower(solveA, n, linv);
+        double[] wm = scratch2;
+        double edf = whiten(fisher, linv, wm);
+        if (cov == null) {
+            return edf;
+        }
+        double nEff = counts != null ? total : total * total / total2;
+        if (robust && (counts != null || obj.hasSample()) && nEff > edf + 1) {
+            if (counts != null) {
+                obj.empiricalInformation(meat);
+            } else {
+                obj.empiricalInformationSample(meat);
+            }
+            double f = nEff / (nEff - edf);
+            for (int i = 0; i < n * n; i++) {
+                meat[i] *= f;
+            }
+            whiten(meat, linv, wm);
+        }
+        double[] t1 = scratch1;
+        // m = U L⁻ᵀ (upper): m_ij = Σ_{i ≤ p ≤ j} u_ip linv_jp ; stored in t1
+        double[] m = t1;
+        Arrays.fill(m, 0.0);
+        for (int i = 0; i < n; i++) {
+            int ri = i * n;
+            for (int j = i; j < n; j++) {
+                double s = 0;
+                int rj = j * n;
+                for (int p = i; p <= j; p++) {
+                    s += u[ri + p] * linv[rj + p];
+                }
+                m[ri + j] = s;
+            }
+        }
+        // t2 = m w (into linv, no longer needed), cov = t2 m'
+        double[] t2 = linv;
+        for (int i = 0; i < n; i++) {
+            int ri = i * n;
+            Arrays.fill(t2, ri, ri + n, 0.0);
+            for (int p = i; p < n; p++) {
+                double mv = m[ri + p];
+                int rp = p * n;
+                for (int j = 0; j < n; j++) {
+                    t2[ri + j] += mv * wm[rp + j];
+                }
+            }
+        }
+        for (int i = 0; i < n; i++) {
+            int ri = i * n;
+            for (int j = 0; j <= i; j++) {
+                double s = 0;
+                int rj = j * n;
+                for (int p = j; p < n; p++) {
+                    s += t2[ri + p] * m[rj + p];
+                }
+                cov[ri + j] = s;
+                cov[rj + i] = s;
+            }
+        }
+        return edf;
+    }
+
+    /** wm = L⁻¹ a L⁻ᵀ (symmetric, linv = L⁻¹ lower triangular); returns its trace. Uses scratch1. */
+    private double whiten(double[] a, double[] linv, double[] wm) {
+        final int n = k;
+        double[] t1 = scratch1;
+        for (int i = 0; i < n; i++) {
+            int ri = i * n;
+            Arrays.fill(t1, ri, ri + n, 0.0);
+            for (int p = 0; p <= i; p++) {
+                double l = linv[ri + p];
+                int rp = p * n;
+                for (int j = 0; j < n; j++) {
+                    t1[ri + j] += l * a[rp + j];
+                }
+            }
+        }
+        // w_ij = Σ_{p ≤ j} t1_ip linv_jp
+        double tr = 0;
+        for (int i = 0; i < n; i++) {
+            for (int j = 0; j <= i; j++) {
+                double s = 0;
+                int ri = i * n, rj = j * n;
+                for (int p = 0; p <= j; p++) {
+                    s += t1[ri + p] * linv[rj + p];
+                }
+                wm[ri + j] = s;
+                wm[rj + i] = s;
+            }
+            tr += wm[i * n + i];
+        }
+        return tr;
+    }
+
+    /** log det(F + 2λP) from the last {@link #sandwich} (NaN if singular). */
+    double logDetJ() {
+        return logDetJ;
+    }
+
+    /** Solves (L Lᵀ) x = rhs in place with the information factor left by the last {@link #sandwich}. */
+    void solveWithInformationFactor(double[] rhs) {
+        Cholesky.solve(solveA, k, k, rhs, 0);
+    }
+}

@@ -1,0 +1,514 @@
+package io.densa.core.estimate;
+
+import io.densa.core.BayesSpace;
+import io.densa.core.DensaException;
+import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
+import io.densa.core.SolveDiagnostics;
+import io.densa.core.internal.Cholesky;
+import io.densa.core.internal.Kernels;
+import io.densa.core.internal.ProgressCounter;
+import io.densa.core.internal.RawBasis;
+import io.densa.core.internal.RoughnessPenalty;
+import java.util.Arrays;
+import org.ejml.data.DMatrixRMaj;
+import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DDRM;
+
+/**
+ * The fitting of {@link PenalizedLikelihoodEstimator} for one configuration: the raw penalty,
+ * coordinate map and reference prior derived from the settings, batches of counts and samples in
+ * blocks, and the fit of one unit with its covariance and diagnostics (the λ search is
+ * {@link SmoothingSearch}'s). Immutable and thread-safe; internal.
+ */
+final class PenalizedFit {
+    private static final int UNITS_PER_BLOCK = 32;
+    /** Half-width in decades of the central difference for the curvature of the marginal likelihood. */
+    private static final double SMOOTHING_STEP = 0.25;
+
+    private final BayesSpace space;
+    private final double fixedLambda; // NaN: choose
+    private final SmoothingCriterion criterion;
+    private final int folds;
+    private final long seed;
+    private final int maxIterations;
+    private final double tolerance;
+    private final int points;
+    private final ZeroTotalPolicy zeroTotal;
+    private final boolean fractional;
+    private final boolean parallel;
+    private final ProgressListener progress;
+    private final double priorWeight;
+
+    private final int k;
+    private final RawBasis raw;
+    private final double[] rawPenalty;
+    private final double[] t;
+    private final double[] u;
+    private final BinLayout domain;
+    private final double domainScale;
+    /** Raw K × K matrix Q of the reference prior β'Qβ = (w / (2 P(I))) ‖c‖², or null when w = 0. */
+    private final double[] prior;
+    /** The prior matrix of the default weight, for a covariance where J is singular without a prior. */
+    private final double[] unitPrior;
+    private final SmoothingSearch search;
+
+    PenalizedFit(BayesSpace space, PenalizedLikelihoodEstimator.Settings s, ProgressListener progress) {
+        this.space = space;
+        this.fixedLambda = s.smoothing();
+        this.criterion = s.criterion();
+        this.folds = s.folds();
+        this.seed = s.seed();
+        this.maxIterations = s.maxIterations();
+        this.tolerance = s.tolerance();
+        this.points = s.quadraturePoints();
+        this.zeroTotal = s.zeroTotal();
+        this.fractional = s.fractionalCounts();
+        this.parallel = s.parallel();
+        this.progress = progress;
+        this.priorWeight = s.referencePriorWeight();
+        this.k = space.dimension();
+        this.raw = EstimationSupport.rawBasis(space.basis());
+        this.rawPenalty = RoughnessPenalty.raw(raw, s.penaltyOrder());
+        this.t = space.basisTransform();
+        this.u = EstimationSupport.upperU(t, k);
+        this.domain = new BinLayout(space, new double[] {space.lower(), space.upper()}, points);
+        this.domainScale = scale(domain, false);
+        this.prior = priorWeight > 0 ? priorMatrix(priorWeight) : null;
+        this.unitPrior = priorMatrix(PenalizedLikelihoodEstimator.DEFAULT_PRIOR_WEIGHT);
+        this.search = new SmoothingSearch(s, k, u, rawPenalty, prior, rank(rawPenalty, k));
+    }
+
+    /** The penalty matrix Ω in the space's coordinates, K × K row-major. */
+    double[] penaltyInCoordinates() {
+        return RoughnessPenalty.inCoordinates(t, rawPenalty, k);
+    }
+
+    /** Fits units of whole counts (validated here; see {@link PenalizedLikelihoodEstimator#fitAll(double[], int[][], String[])}). */
+    BatchEstimate counts(double[] edges, int[][] counts, String[] ids) {
+        double[] e = EstimationSupport.checkEdges(space, edges);
+        EstimationSupport.checkIds(ids, counts.length);
+        double[] totals = new double[counts.length];
+        for (int i = 0; i < counts.length; i++) {
+            totals[i] = EstimationSupport.checkCounts(counts[i], e, EstimationSupport.unit(ids, i));
+            checkTotal(totals[i], ids, i);
+        }
+        return runCounts(e, counts.length, ids, totals, (i, dst) -> {
+            int[] r = counts[i];
+            for (int j = 0; j < r.length; j++) {
+                dst[j] = r[j];
+            }
+        });
+    }
+
+    /** Fits units of counts given as doubles (validated here). */
+    BatchEstimate counts(double[] edges, double[][] counts, String[] ids) {
+        double[] e = EstimationSupport.checkEdges(space, edges);
+        EstimationSupport.checkIds(ids, counts.length);
+        boolean whole = !fractional || criterion == SmoothingCriterion.CROSS_VALIDATION;
+        double[] totals = new double[counts.length];
+        for (int i = 0; i < counts.length; i++) {
+            totals[i] = EstimationSupport.checkCounts(counts[i], e, EstimationSupport.unit(ids, i), whole);
+            checkTotal(totals[i], ids, i);
+        }
+        return runCounts(e, counts.length, ids, totals, (i, dst) -> System.arraycopy(counts[i], 0, dst, 0, dst.length));
+    }
+
+    /** Raw K × K matrix of the reference prior of weight w: (w / (2 P(I))) c'c with c = U β, i.e. (w / (2 P(I))) U'U. */
+    private double[] priorMatrix(double w) {
+        double eps = w / (2 * space.referenceMass());
+        double[] q = new double[k * k];
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j < k; j++) {
+                double s = 0;
+                for (int m = 0; m <= Math.min(i, j); m++) {
+                    s += u[m * k + i] * u[m * k + j];
+                }
+                q[i * k + j] = eps * s;
+            }
+        }
+        return q;
+    }
+
+    /** Numerical rank of a symmetric positive semi-definite K × K matrix (eigenvalues above 10⁻⁹ max). */
+    private static int rank(double[] m, int k) {
+        SymmetricQRAlgorithmDecomposition_DDRM eig = new SymmetricQRAlgorithmDecomposition_DDRM(false);
+        if (!eig.decompose(new DMatrixRMaj(k, k, true, m))) {
+            return k;
+        }
+        double max = 0;
+        for (int i = 0; i < k; i++) {
+            max = Math.max(max, Math.abs(eig.getEigenvalue(i).getReal()));
+        }
+        int r = 0;
+        for (int i = 0; i < k; i++) {
+            if (eig.getEigenvalue(i).getReal() > 1e-9 * max) {
+                r++;
+            }
+        }
+        return r;
+    }
+
+    private void checkTotal(double total, String[] ids, int i) {
+        if (!(total > 0) && zeroTotal == ZeroTotalPolicy.REJECT) {
+            throw new IllegalArgumentException(EstimationSupport.unit(ids, i) + ": total count is 0 (every bin"
+                    + " empty); give the unit at least one event or choose ZeroTotalPolicy.REFERENCE");
+        }
+        checkEmptyWithoutPrior(total, EstimationSupport.unit(ids, i));
+    }
+
+    private void checkEmptyWithoutPrior(double total, String unit) {
+        if (!(total > 0) && prior == null) {
+            throw new IllegalArgumentException(unit + ": no events (zero total); without the reference prior"
+                    + " (withReferencePrior(0)) such a unit has no finite covariance; give it events or use a"
+                    + " reference prior weight > 0");
+        }
+    }
+
+    private interface RowSource {
+        void copy(int i, double[] dst);
+    }
+
+    private BatchEstimate runCounts(double[] edges, int n, String[] ids, double[] totals, RowSource rows) {
+        BinLayout lay = new BinLayout(space, edges, points);
+        double scale = scale(lay, true);
+        double[] startConst = new double[k];
+        double[] startMap = startMap(lay, startConst);
+        double[] out = new double[n * k];
+        EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
+        int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
+        ProgressCounter done = new ProgressCounter(progress, PenalizedLikelihoodEstimator.PROGRESS_TASK, n);
+        Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
+            PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
+            eng.setCoordinateMap(u);
+            eng.setStartMap(startMap, startConst);
+            double[] row = new double[lay.bins];
+            int i1 = Math.min(n, (blk + 1) * UNITS_PER_BLOCK);
+            for (int i = blk * UNITS_PER_BLOCK; i < i1; i++) {
+                rows.copy(i, row);
+                String id = EstimationSupport.id(ids, i);
+                if (!(totals[i] > 0)) {
+                    diag[i] = emptyUnit(id);
+                    continue;
+                }
+                eng.useCounts(row, totals[i]);
+                diag[i] = fitUnit(eng, scale, id, i, out, null);
+            }
+            done.advance(i1 - blk * UNITS_PER_BLOCK);
+        });
+        String[] idCopy = ids == null ? null : ids.clone();
+        return new BatchEstimate(DensitySet.ofRowMajor(space, out, n, idCopy), Arrays.asList(diag));
+    }
+
+    /** Fits many samples (validated here; see {@link PenalizedLikelihoodEstimator#fitAllSamples}). */
+    BatchEstimate samples(double[][] values, double[][] weights, String[] ids) {
+        int n = values.length;
+        EstimationSupport.checkIds(ids, n);
+        if (weights != null && weights.length != n) {
+            throw new IllegalArgumentException("weights has " + weights.length + " rows for " + n + " samples");
+        }
+        double a = space.lower(), b = space.upper();
+        double[] totals = new double[n];
+        double[] totals2 = new double[n];
+        for (int i = 0; i < n; i++) {
+            String unit = EstimationSupport.unit(ids, i);
+            double[] v = values[i];
+            if (v == null) {
+                throw new IllegalArgumentException(unit + ": sample is null");
+            }
+            double[] w = weights == null ? null : weights[i];
+            if (w != null && w.length != v.length) {
+                throw new IllegalArgumentException(unit + ": " + w.length + " weights for " + v.length + " values");
+            }
+            double s = 0, s2 = 0;
+            for (int j = 0; j < v.length; j++) {
+                if (!(v[j] >= a && v[j] <= b)) {
+                    throw new IllegalArgumentException(unit + ", value " + j + " = " + v[j]
+                            + " lies outside the domain [" + a + ", " + b + "]; values must be finite and inside it");
+                }
+                double wj = w == null ? 1.0 : w[j];
+                if (!(wj >= 0) || !Double.isFinite(wj)) {
+                    throw new IllegalArgumentException(unit + ", value " + j + ": weight " + wj
+                            + " is not allowed; weights must be finite and >= 0");
+                }
+                s += wj;
+                s2 += wj * wj;
+            }
+            EstimationSupport.checkTotalRange(s, unit, "total weight");
+            if (!(s > 0) && zeroTotal == ZeroTotalPolicy.REJECT) {
+                throw new IllegalArgumentException(unit + ": empty sample (" + v.length + " values, total weight "
+                        + s + "); at least one observation with positive weight is needed, or choose"
+                        + " ZeroTotalPolicy.REFERENCE");
+            }
+            checkEmptyWithoutPrior(s, unit);
+            totals[i] = s;
+            totals2[i] = s2;
+        }
+        double[] out = new double[n * k];
+        EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
+        int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
+        RawBasis basis = raw;
+        int width = basis.supportWidth();
+        ProgressCounter done = new ProgressCounter(progress, PenalizedLikelihoodEstimator.PROGRESS_TASK, n);
+        Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
+            PenalizedNewton eng = new PenalizedNewton(domain, rawPenalty, prior);
+            eng.setCoordinateMap(u);
+            double[] scratch = new double[basis.scratchSize()];
+            int i1 = Math.min(n, (blk + 1) * UNITS_PER_BLOCK);
+            for (int i = blk * UNITS_PER_BLOCK; i < i1; i++) {
+                String id = EstimationSupport.id(ids, i);
+                if (!(totals[i] > 0)) {
+                    diag[i] = emptyUnit(id);
+                    continue;
+                }
+                double[] v = values[i];
+                double[] w = weights == null ? null : weights[i];
+                SampleData sd = new SampleData(v, w, basis, width, k, scratch);
+                eng.useSample(sd.linear, sd.first, sd.vals, sd.w, sd.width, totals[i], totals2[i]);
+                diag[i] = fitUnit(eng, domainScale, id, i, out, sd);
+            }
+            done.advance(i1 - blk * UNITS_PER_BLOCK);
+        });
+        String[] idCopy = ids == null ? null : ids.clone();
+        return new BatchEstimate(DensitySet.ofRowMajor(space, out, n, idCopy), Arrays.asList(diag));
+    }
+
+    // ---------------------------------------------------------------- one unit
+
+    /**
+     * A unit without events: the reference density. With the reference prior the posterior is the
+     * prior, c ~ N(0, (P(I)/w) I), and −2 log of the marginal likelihood (of no data) is 0; without
+     * it no covariance exists and the unit is rejected (see {@link ZeroTotalPolicy#REFERENCE}).
+     */
+    private EstimationDiagnostics emptyUnit(String id) {
+        if (prior == null) { // rejected before fitting (checkEmptyWithoutPrior)
+            throw new IllegalStateException("unit " + id + ": no events and no reference prior");
+        }
+        double v = space.referenceMass() / priorWeight;
+        return new EstimationDiagnostics(id, EstimationDiagnostics.Status.EMPTY_UNIT_REFERENCE,
+                "no events (zero total); the reference density is returned with the reference prior's covariance"
+                + " (P(I)/w) I", 0.0, false, criterion, 0.0, 0.0, 0.0, 0.0, 0,
+                EstimationSupport.diagonalCovariance(k, v), k * v, 1.0);
+    }
+
+    /** Scale s with λ = N s 10^g: tr(F₁) / tr(P), F₁ the per-event information at the reference. */
+    private double scale(BinLayout lay, boolean countsMode) {
+        PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
+        eng.restoreData(countsMode ? new double[lay.bins] : null, 1.0, 1.0, new double[k + 1]);
+        eng.clearCoefficients();
+        eng.evaluate(0.0);
+        eng.fisherInformation();
+        double tf = eng.fisherTrace();
+        double tp = EstimationSupport.trace(rawPenalty, k);
+        return tf > 0 && tp > 0 ? tf / tp : 1.0;
+    }
+
+    /**
+     * K × D map (row-major) from log(n_j + 1/2) to starting raw coefficients, with the constant
+     * part for the bin widths and reference into constOut: the raw-coefficient part of the
+     * least-squares fit of [1, φ(x_j)] to the log heights with penalty 10⁻³ tr(X'X)/tr(P) · P.
+     */
+    private double[] startMap(BinLayout lay, double[] constOut) {
+        int d = lay.bins, p = k + 1;
+        double[] x = new double[d * p];
+        double[] off = new double[d];
+        double[] row = new double[k];
+        for (int j = 0; j < d; j++) {
+            double mid = 0.5 * (lay.edges[j] + lay.edges[j + 1]);
+            raw.evalDense(mid, row);
+            x[j * p] = 1.0;
+            System.arraycopy(row, 0, x, j * p + 1, k);
+            off[j] = -Math.log((lay.edges[j + 1] - lay.edges[j]) * space.referenceDensity(mid));
+        }
+        double[] a = EstimationSupport.crossProduct(x, d, p);
+        double trX = EstimationSupport.trace(a, p), trP = EstimationSupport.trace(rawPenalty, k);
+        double mu = trP > 0 ? 1e-3 * trX / trP : 0.0;
+        for (int r = 0; r < k; r++) {
+            for (int c = 0; c < k; c++) {
+                a[(r + 1) * p + c + 1] += mu * rawPenalty[r * k + c];
+            }
+        }
+        for (int r = 0; r < p; r++) {
+            a[r * p + r] += 1e-9 * trX / p;
+        }
+        if (Cholesky.factor(a, p, p, 0) >= 0) {
+            return null; // zero start
+        }
+        double[] map = new double[k * d];
+        double[] col = new double[p];
+        for (int j = 0; j < d; j++) {
+            System.arraycopy(x, j * p, col, 0, p);
+            Cholesky.solve(a, p, p, col, 0);
+            for (int i = 0; i < k; i++) {
+                map[i * d + j] = col[i + 1];
+                constOut[i] += col[i + 1] * off[j];
+            }
+        }
+        return map;
+    }
+
+    private EstimationDiagnostics fitUnit(PenalizedNewton eng, double scale, String id, int index, double[] out,
+            SampleData sample) {
+        eng.startFromCounts();
+        boolean choose = Double.isNaN(fixedLambda);
+        CrossValidationFolds cv = criterion == SmoothingCriterion.CROSS_VALIDATION ? new CrossValidationFolds(eng, sample, folds, seed, index, k,
+                maxIterations, Math.max(tolerance, SmoothingSearch.SEARCH_TOLERANCE)) : null;
+        double lambda;
+        if (!choose) {
+            lambda = fixedLambda;
+        } else {
+            lambda = search.choose(eng, scale, cv);
+        }
+        boolean ok = eng.solve(lambda, maxIterations, tolerance);
+        String reason = ok ? "" : eng.failure();
+        int iterations = eng.iterations();
+        double loglik = eng.logLikelihood();
+        double[] cov = new double[k * k];
+        eng.evaluate(lambda);
+        eng.fisherInformation();
+        double edf = eng.sandwich(lambda, u, cov, true);
+        if (Double.isNaN(edf) && prior != null) {
+            // J = F + 2λΩ + 2Q is positive definite in exact arithmetic; seen only with absurd fixed λ
+            // (1e167), where rounding of 2λΩ swamps the prior in Ω's null space
+            throw new DensaException("unit " + id + ": penalised information F + 2 lambda Omega + prior is"
+                    + " numerically singular at lambda = " + lambda + " (lambda too large for double precision"
+                    + " against the information of " + eng.total() + " events; use a smaller lambda)"
+                    + (reason.isEmpty() ? "" : "; " + reason),
+                    new SolveDiagnostics("penalised information F + 2 lambda Omega + prior", k, 0.0));
+        }
+        if (Double.isNaN(edf)) {
+            // without the reference prior: report the numbers the default prior would give, and say so
+            ok = false;
+            reason = (reason.isEmpty() ? "" : reason + "; ")
+                    + "penalised information F + 2 lambda Omega is singular (no reference prior): the data do not"
+                    + " determine every coordinate; edf, covariance and criterion are reported with the default"
+                    + " reference prior (weight " + PenalizedLikelihoodEstimator.DEFAULT_PRIOR_WEIGHT + ") added";
+            edf = eng.sandwich(lambda, u, cov, true, unitPrior);
+            if (Double.isNaN(edf)) {
+                throw new DensaException("unit " + id + ": penalised information is singular even with the"
+                        + " reference prior at lambda = " + lambda + " (" + reason + ")",
+                        new SolveDiagnostics("penalised information F + 2 lambda Omega + prior", k, 0.0));
+            }
+        }
+        double crit = search.criterionValue(eng, lambda, edf, loglik, cv);
+        SmoothingCriterion reported = criterion;
+        if (!Double.isFinite(crit) && ok && !choose && Double.isFinite(-2 * loglik + 2 * edf)) {
+            // at a fixed λ the criterion is only reported: report AIC, defined at every λ, and say so
+            reason = search.undefinedCriterion(eng, lambda, edf) + "; AIC is reported instead";
+            crit = -2 * loglik + 2 * edf;
+            reported = SmoothingCriterion.AIC;
+        }
+        if (!Double.isFinite(crit)) {
+            if (ok) {
+                throw new IllegalArgumentException("unit " + id + ": " + search.undefinedCriterion(eng, lambda, edf)
+                        + "; choose a criterion defined there (e.g. SmoothingCriterion.AIC), a reference prior > 0"
+                        + " or more events");
+            }
+            throw new DensaException("unit " + id + ": the fit did not converge and " + criterion
+                    + " cannot be evaluated at lambda = " + lambda + " (" + reason + ")",
+                    new EstimationDiagnostics(id, EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose,
+                            criterion, crit, edf, loglik, eng.total(), iterations, cov, Double.NaN, Double.NaN));
+        }
+        if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD) {
+            addSmoothingUncertainty(eng, lambda, crit, cv, cov);
+        }
+        EstimationSupport.projectPsd(cov, k);
+        edf = Math.max(0.0, edf); // tr(J⁻¹F) ≥ 0; rounding gives −1e-22 when F vanishes
+        eng.coordinatesInto(u, out, index * k);
+        for (int i = 0; i < k; i++) {
+            if (!Double.isFinite(out[index * k + i])) {
+                throw new DensaException("unit " + id + ": estimate is not finite (" + reason + ")",
+                        new EstimationDiagnostics(id, EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda,
+                                choose, reported, crit, edf, loglik, eng.total(), iterations, cov, Double.NaN, Double.NaN));
+            }
+        }
+        double normSq = 0;
+        for (int i = 0; i < k; i++) {
+            normSq += out[index * k + i] * out[index * k + i];
+        }
+        double share = eng.hasCounts() ? countsShare(eng, normSq) : sampleShare(sample, eng.coefficients(), normSq);
+        return new EstimationDiagnostics(id, ok ? EstimationDiagnostics.Status.CONVERGED
+                : EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose, reported, crit, edf, loglik,
+                eng.total(), iterations, cov, EstimationSupport.trace(cov, k), share);
+    }
+
+    /** Extrapolation share of a counts unit: the domain below its first and above its last bin with events. */
+    private double countsShare(PenalizedNewton eng, double normSq) {
+        double[] counts = eng.counts();
+        int first = 0, last = eng.bins().bins - 1;
+        while (first < last && !(counts[first] > 0)) {
+            first++;
+        }
+        while (last > first && !(counts[last] > 0)) {
+            last--;
+        }
+        return EstimationSupport.extrapolationShare(domain, eng.bins(), first, last, eng.coefficients(), normSq,
+                eng.total());
+    }
+
+    /** Extrapolation share of a sample: the domain below its smallest and above its largest value. */
+    private double sampleShare(SampleData sample, double[] beta, double normSq) {
+        double a = space.lower(), b = space.upper();
+        double lo = sample.min, hi = sample.max;
+        if (!(hi > lo)) {
+            return normSq > 0 ? 1.0 : 0.0; // a single distinct value: everything else is extrapolated
+        }
+        double[] e = new double[4];
+        int m = 0;
+        e[m] = a;
+        int first = 0;
+        if (lo > a) {
+            e[++m] = lo;
+            first = 1;
+        }
+        e[++m] = hi;
+        if (hi < b) {
+            e[++m] = b;
+        }
+        BinLayout lay = new BinLayout(space, Arrays.copyOf(e, m + 1), points);
+        return EstimationSupport.extrapolationShare(domain, lay, first, first, beta, normSq, sample.total);
+    }
+
+    /**
+     * Adds the first-order effect of the uncertainty of ρ = ln λ chosen by the marginal likelihood:
+     * cov += V_ρ (dc/dρ)(dc/dρ)', dc/dρ = −U J⁻¹ 2λPβ (implicit differentiation of the penalised
+     * score equation), V_ρ = 2 / V''(ρ) from a central difference of the criterion V = −2 log
+     * marginal likelihood over ±h decades (Wood, Pya &amp; Säfken (2016), Smoothing parameter and
+     * model selection for general smooth models, JASA 111, §3; from memory). Needs the Cholesky
+     * factor of J in the engine (left by the last sandwich); restores the engine state.
+     */
+    private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, CrossValidationFolds cv,
+            double[] cov) {
+        double[] dBeta = new double[k + 1];
+        double[] pb = new double[k];
+        double[] beta = eng.coefficients();
+        for (int i = 0; i < k; i++) {
+            double r = 0;
+            for (int j = 0; j < k; j++) {
+                r += rawPenalty[i * k + j] * beta[j];
+            }
+            pb[i] = -2 * lambda * r;
+        }
+        System.arraycopy(pb, 0, dBeta, 0, k);
+        eng.solveWithInformationFactor(dBeta);
+        double[] dc = new double[k];
+        EstimationSupport.toCoordinates(u, k, dBeta, dc, 0);
+        double[] saved = eng.coefficients();
+        double h = SMOOTHING_STEP;
+        double up = search.criterionAt(eng, lambda * Math.pow(10, h), cv);
+        eng.setCoefficients(saved);
+        double down = search.criterionAt(eng, lambda * Math.pow(10, -h), cv);
+        eng.setCoefficients(saved);
+        eng.evaluate(lambda);
+        double curvG = (up - 2 * crit + down) / (h * h);
+        if (!(curvG > 0) || !Double.isFinite(curvG)) {
+            return;
+        }
+        double ln10 = Math.log(10);
+        double varRho = 2 * ln10 * ln10 / curvG;
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j < k; j++) {
+                cov[i * k + j] += varRho * dc[i] * dc[j];
+            }
+        }
+    }
+}

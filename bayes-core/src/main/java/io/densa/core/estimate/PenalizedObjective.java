@@ -1,0 +1,575 @@
+package io.densa.core.estimate;
+
+import java.util.Arrays;
+
+/**
+ * The penalised log-likelihood that {@link PenalizedNewton} maximises, in raw basis coefficients:
+ * the unit's data (counts or a weighted sample), its value, gradient, observed and expected
+ * information, and the empirical information of the data, with their working arrays (one
+ * instance per engine; nothing is allocated in an evaluation). Internal.
+ *
+ * <p>With η(x) = φ(x)·β, A_j = ∫_{bin j} e^η dP and Z = Σ_j A_j (all by the layout's quadrature,
+ * shifted by max η for log-sum-exp):
+ * <ul>
+ * <li>binned counts: ℓ(β) = Σ_j n_j log(A_j / Z) (the multinomial log-likelihood of the counts
+ * given that an observation falls in the bins);</li>
+ * <li>raw samples: ℓ(β) = Σ_i w_i η(x_i) − W log Z = t·β − W log Z with t = Σ_i w_i φ(x_i),
+ * W = Σ_i w_i.</li>
+ * </ul>
+ * The objective is Φ(β) = ℓ(β) − λ β'Pβ − β'Qβ, Q the fixed reference prior (none when null).
+ * Gradient ℓ' = t + Σ_q r_q φ_q with
+ * r_q = w_q e^{η_q}(n_{j(q)}/A_{j(q)} − N/Z). Observed information (counts)
+ * −ℓ'' = N(S/Z − m m') − Σ_j n_j (S_j/A_j − m_j m_j'), m and S the mean and second moment of φ
+ * under the density, m_j, S_j within bin j; expected (Fisher) information
+ * F = N (Σ_j π_j m_j m_j' − m m').
+ */
+final class PenalizedObjective {
+    private final BinLayout lay;
+    private final int k;
+    private final int k1;
+    private final double[] pen;
+    /** Fixed quadratic prior β'Qβ subtracted from Φ (raw K × K), or null. */
+    private final double[] prior;
+
+    // unit data
+    // unit data
+    private double[] counts; // null: sample mode
+    private double total;
+    private double total2;
+    private final double[] linear;
+    /** Sample mode: per-observation first raw index, local basis values (n × width) and weights. */
+    private int[] sampleFirst;
+    private double[] sampleVals;
+    private double[] sampleWeights;
+    private int sampleWidth;
+
+    // the last evaluation and its derivatives
+    final double[] grad;
+    final double[] hess;
+    private final double[] fisher;
+    private final double[] eta;
+    private final double[] ex;
+    private final double[] mass;
+    private final double[] mvec;
+    private final double[] uj;
+    private double zScaled;
+    private double shift;
+    private double loglik;
+
+    /** With a fixed quadratic prior term β'Qβ (raw K × K, already weighted; null for none). */
+    PenalizedObjective(BinLayout lay, double[] rawPenalty, double[] prior) {
+        this.prior = prior;
+        this.lay = lay;
+        this.k = lay.k;
+        this.k1 = k + 1;
+        this.pen = rawPenalty;
+        linear = new double[k1];
+        grad = new double[k1];
+        hess = new double[k1 * k1];
+        fisher = new double[k * k];
+        eta = new double[lay.nodes];
+        ex = new double[lay.nodes];
+        mass = new double[lay.bins];
+        mvec = new double[k1];
+        uj = new double[k1];
+    }
+
+    /** β'Pβ over the first K coefficients. */
+    double penalty(double[] b) {
+        return quadratic(pen, b);
+    }
+
+    /** β'Qβ of the prior (0 without one). */
+    double priorPenalty(double[] b) {
+        return prior == null ? 0.0 : quadratic(prior, b);
+    }
+
+    private double quadratic(double[] m, double[] b) {
+        double s = 0;
+        for (int i = 0; i < k; i++) {
+            double r = 0;
+            int o = i * k;
+            for (int j = 0; j < k; j++) {
+                r += m[o + j] * b[j];
+            }
+            s += b[i] * r;
+        }
+        return s;
+    }
+
+    /** Evaluates Φ at b, filling eta, ex, mass, zScaled, shift and loglik. */
+    double evaluate(double[] b, double lambda) {
+        final int nq = lay.nodes, w = lay.width;
+        final double[] vals = lay.vals;
+        final int[] first = lay.first;
+        double max = Double.NEGATIVE_INFINITY;
+        for (int q = 0; q < nq; q++) {
+            int f = first[q], base = q * w;
+            double s = 0;
+            for (int i = 0; i < w; i++) {
+                s += vals[base + i] * b[f + i];
+            }
+            eta[q] = s;
+            if (s > max) {
+                max = s;
+            }
+        }
+        shift = max;
+        final double[] wt = lay.weight;
+        final int[] start = lay.binStart;
+        double z = 0;
+        for (int j = 0; j < lay.bins; j++) {
+            double s = 0;
+            for (int q = start[j]; q < start[j + 1]; q++) {
+                double e = wt[q] * Math.exp(eta[q] - max);
+                ex[q] = e;
+                s += e;
+            }
+            mass[j] = s;
+            z += s;
+        }
+        zScaled = z;
+        double ll;
+        if (counts != null) {
+            double logZ = Math.log(z);
+            ll = 0;
+            for (int j = 0; j < lay.bins; j++) {
+                double n = counts[j];
+                if (n > 0) {
+                    ll += n * (Math.log(mass[j]) - logZ);
+                }
+            }
+        } else {
+            double tb = 0;
+            for (int i = 0; i < k; i++) {
+                tb += linear[i] * b[i];
+            }
+            ll = tb - total * (max + Math.log(z));
+        }
+        loglik = ll;
+        if (Double.isNaN(ll)) {
+            ll = Double.NEGATIVE_INFINITY;
+        }
+        return ll - lambda * penalty(b) - priorPenalty(b);
+    }
+
+    /**
+     * The multinomial log-likelihood Σ_j n_j log(A_j / Z) of the counts at b, with a log-sum-exp
+     * shift per bin instead of one for the whole domain: finite whenever η is, also where a bin's
+     * mass underflows relative to the largest (for reporting; {@link #evaluate} is the fast path).
+     */
+    double logLikelihoodPerBinShift(double[] b) {
+        final int w = lay.width;
+        final double[] vals = lay.vals;
+        final int[] first = lay.first;
+        final double[] wt = lay.weight;
+        double[] logA = new double[lay.bins];
+        double top = Double.NEGATIVE_INFINITY;
+        for (int j = 0; j < lay.bins; j++) {
+            int q0 = lay.binStart[j], q1 = lay.binStart[j + 1];
+            double m = Double.NEGATIVE_INFINITY;
+            for (int q = q0; q < q1; q++) {
+                double s = 0;
+                for (int i = 0; i < w; i++) {
+                    s += vals[q * w + i] * b[first[q] + i];
+                }
+                eta[q] = s;
+                m = Math.max(m, s);
+            }
+            double sum = 0;
+            for (int q = q0; q < q1; q++) {
+                sum += wt[q] * Math.exp(eta[q] - m);
+            }
+            logA[j] = m + Math.log(sum);
+            top = Math.max(top, logA[j]);
+        }
+        double z = 0;
+        for (int j = 0; j < lay.bins; j++) {
+            z += Math.exp(logA[j] - top);
+        }
+        double logZ = top + Math.log(z);
+        double ll = 0;
+        for (int j = 0; j < lay.bins; j++) {
+            if (counts[j] > 0) {
+                ll += counts[j] * (logA[j] - logZ);
+            }
+        }
+        return ll;
+    }
+
+    /**
+     * Gradient of Φ and the information matrix (+ 2λP + 2Q) at the last evaluated point, which
+     * must be beta, into grad and hess (full symmetric, stride k1); observed information, or the
+     * expected (Fisher) one when {@code expected}; without the penalty and prior when not
+     * {@code penalised} (beta is then not read).
+     */
+    void derivatives(double lambda, boolean expected, boolean penalised, double[] beta) {
+        Arrays.fill(grad, 0.0);
+        Arrays.fill(hess, 0.0);
+        Arrays.fill(mvec, 0.0);
+        final int w = lay.width;
+        final double[] vals = lay.vals;
+        final int[] first = lay.first;
+        final int[] start = lay.binStart;
+        final double z = zScaled;
+        final double nz = total / z;
+        final boolean countsMode = counts != null;
+        final boolean sTerm = !expected || !countsMode;
+        // running 4 × 4 block of the second-moment term for the current local index (W = 4)
+        int fcur = -1;
+        double h00 = 0, h10 = 0, h11 = 0, h20 = 0, h21 = 0, h22 = 0, h30 = 0, h31 = 0, h32 = 0, h33 = 0;
+        for (int j = 0; j < lay.bins; j++) {
+            double a = mass[j];
+            double nj = countsMode ? counts[j] : 0.0;
+            double cj = nj > 0 ? nj / a : 0.0;
+            double coefR = cj - nz; // r_q = e_q coefR
+            int lo = lay.binLo[j], hi = lay.binHi[j];
+            Arrays.fill(uj, lo, hi, 0.0);
+            int q0 = start[j], q1 = start[j + 1];
+            if (w == 4) {
+                for (int q = q0; q < q1; q++) {
+                    double e = ex[q];
+                    int f = first[q], base = q << 2;
+                    double v0 = vals[base], v1 = vals[base + 1], v2 = vals[base + 2], v3 = vals[base + 3];
+                    uj[f] += e * v0;
+                    uj[f + 1] += e * v1;
+                    uj[f + 2] += e * v2;
+                    uj[f + 3] += e * v3;
+                    if (sTerm) {
+                        if (f != fcur) {
+                            if (fcur >= 0) {
+                                flush4(fcur, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
+                            }
+                            fcur = f;
+                            h00 = h10 = h11 = h20 = h21 = h22 = h30 = h31 = h32 = h33 = 0;
+                        }
+                        double m0 = -e * coefR * v0, m1 = -e * coefR * v1, m2 = -e * coefR * v2;
+                        double m3 = -e * coefR * v3;
+                        h00 += m0 * v0;
+                        h10 += m1 * v0;
+                        h11 += m1 * v1;
+                        h20 += m2 * v0;
+                        h21 += m2 * v1;
+                        h22 += m2 * v2;
+                        h30 += m3 * v0;
+                        h31 += m3 * v1;
+                        h32 += m3 * v2;
+                        h33 += m3 * v3;
+                    }
+                }
+            } else {
+                for (int q = q0; q < q1; q++) {
+                    double e = ex[q];
+                    if (e == 0.0) {
+                        continue;
+                    }
+                    int f = first[q], base = q * w;
+                    for (int i = 0; i < w; i++) {
+                        uj[f + i] += e * vals[base + i];
+                    }
+                    if (sTerm) {
+                        double mr = -e * coefR;
+                        for (int i = 0; i < w; i++) {
+                            double vi = mr * vals[base + i];
+                            int row = (f + i) * k1 + f;
+                            for (int l = 0; l <= i; l++) {
+                                hess[row + l] += vi * vals[base + l];
+                            }
+                        }
+                    }
+                }
+            }
+            for (int i = lo; i < hi; i++) {
+                grad[i] += coefR * uj[i];
+                mvec[i] += uj[i];
+            }
+            boolean rank = countsMode && (expected ? a > 0 : nj > 0);
+            if (rank) {
+                double coef = expected ? total / (z * a) : nj / (a * a);
+                for (int i = lo; i < hi; i++) {
+                    double ui = coef * uj[i];
+                    int row = i * k1;
+                    for (int l = lo; l <= i; l++) {
+                        hess[row + l] += ui * uj[l];
+                    }
+                }
+            }
+        }
+        if (fcur >= 0) {
+            flush4(fcur, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
+        }
+        subtractOuter(hess, k1, total / (z * z), mvec, k);
+        for (int i = 0; i < k; i++) {
+            grad[i] += linear[i];
+        }
+        mirrorLower(hess, k1, k);
+        if (!penalised) {
+            return;
+        }
+        if (prior != null) {
+            subtractQuadratic(prior, 1.0, beta);
+        }
+        if (lambda != 0.0) {
+            subtractQuadratic(pen, lambda, beta);
+        }
+    }
+
+    /** Subtracts the term w β'Mβ from Φ: its gradient 2wMβ from grad, its curvature 2wM added to hess. */
+    private void subtractQuadratic(double[] m, double w, double[] beta) {
+        for (int i = 0; i < k; i++) {
+            double r = 0;
+            int o = i * k;
+            int row = i * k1;
+            for (int j = 0; j < k; j++) {
+                double p = m[o + j];
+                r += p * beta[j];
+                hess[row + j] += 2 * w * p;
+            }
+            grad[i] -= 2 * w * r;
+        }
+    }
+
+    private void flush4(int f, double h00, double h10, double h11, double h20, double h21, double h22, double h30,
+            double h31, double h32, double h33) {
+        int r0 = f * k1 + f, r1 = r0 + k1, r2 = r1 + k1, r3 = r2 + k1;
+        hess[r0] += h00;
+        hess[r1] += h10;
+        hess[r1 + 1] += h11;
+        hess[r2] += h20;
+        hess[r2 + 1] += h21;
+        hess[r2 + 2] += h22;
+        hess[r3] += h30;
+        hess[r3 + 1] += h31;
+        hess[r3 + 2] += h32;
+        hess[r3 + 3] += h33;
+    }
+
+    /** Copies the lower triangle of the k × k block of a (row stride s) to its upper triangle. */
+    static void mirrorLower(double[] a, int s, int k) {
+        for (int i = 0; i < k; i++) {
+            for (int l = 0; l < i; l++) {
+                a[l * s + i] = a[i * s + l];
+            }
+        }
+    }
+
+    /**
+     * The unpenalised Fisher information F (K × K, row-major, into {@link #fisher}) at the last
+     * evaluated point: expected multinomial information for counts, (Σw²/W) times the
+     * observed information for samples.
+     */
+    void fisherInformation() {
+        derivatives(0.0, true, false, null);
+        double f = counts == null ? total2 / total : 1.0;
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j < k; j++) {
+                fisher[i * k + j] = f * hess[i * k1 + j];
+            }
+        }
+    }
+
+    /**
+     * The empirical (model-robust) information of the counts at the last evaluated point:
+     * with m_j = ∫_{bin j} φ e^η dP / A_j the within-bin mean of the raw functions,
+     * M = Σ_j n_j m_j m_j' − t t'/N, t = Σ_j n_j m_j, i.e. N times the covariance of the per-event
+     * scores m_{j(i)} − m over the observed events (centred at their own mean, which absorbs the
+     * penalty gradient). Written into meat (K × K, row-major).
+     */
+    void empiricalInformation(double[] meat) {
+        Arrays.fill(meat, 0.0);
+        Arrays.fill(mvec, 0.0);
+        final int w = lay.width;
+        final double[] vals = lay.vals;
+        final int[] first = lay.first;
+        final int[] start = lay.binStart;
+        for (int j = 0; j < lay.bins; j++) {
+            double nj = counts[j];
+            if (!(nj > 0)) {
+                continue;
+            }
+            int lo = lay.binLo[j], hi = Math.min(lay.binHi[j], k);
+            Arrays.fill(uj, lo, hi, 0.0);
+            for (int q = start[j]; q < start[j + 1]; q++) {
+                double e = ex[q];
+                int f = first[q], base = q * w;
+                for (int i = 0; i < w && f + i < k; i++) {
+                    uj[f + i] += e * vals[base + i];
+                }
+            }
+            double inv = 1.0 / mass[j];
+            for (int i = lo; i < hi; i++) {
+                uj[i] *= inv;
+                mvec[i] += nj * uj[i];
+            }
+            for (int i = lo; i < hi; i++) {
+                double ui = nj * uj[i];
+                int row = i * k;
+                for (int l = lo; l <= i; l++) {
+                    meat[row + l] += ui * uj[l];
+                }
+            }
+        }
+        subtractOuter(meat, k, 1.0 / total, mvec, k);
+        mirrorLower(meat, k, k);
+    }
+
+    /**
+     * The empirical information of a weighted sample (sample mode, arrays set): with φ_i the raw
+     * functions at x_i, M = (Σ w_i²/W) Σ_i w_i (φ_i − φ̄)(φ_i − φ̄)', φ̄ = Σ_i w_i φ_i / W — the
+     * score variance Σ w_i² Cov(φ) with Cov(φ) estimated from the sample instead of the fit.
+     * Written into meat (K × K, row-major).
+     */
+    void empiricalInformationSample(double[] meat) {
+        Arrays.fill(meat, 0.0);
+        Arrays.fill(mvec, 0.0);
+        final int w = sampleWidth, n = sampleFirst.length;
+        for (int o = 0; o < n; o++) {
+            double wo = sampleWeights[o];
+            if (wo == 0.0) {
+                continue;
+            }
+            int f = sampleFirst[o], base = o * w;
+            for (int i = 0; i < w && f + i < k; i++) {
+                double vi = wo * sampleVals[base + i];
+                mvec[f + i] += vi;
+                int row = (f + i) * k + f;
+                for (int l = 0; l <= i; l++) {
+                    meat[row + l] += vi * sampleVals[base + l];
+                }
+            }
+        }
+        double c = 1.0 / total;
+        for (int i = 0; i < k; i++) {
+            double mi = c * mvec[i];
+            int row = i * k;
+            for (int l = 0; l <= i; l++) {
+                meat[row + l] -= mi * mvec[l];
+            }
+        }
+        double g = total2 / total;
+        for (int i = 0; i < k; i++) {
+            for (int l = 0; l <= i; l++) {
+                double v = g * meat[i * k + l];
+                meat[i * k + l] = v;
+                meat[l * k + i] = v;
+            }
+        }
+    }
+
+    // ---------------------------------------------------------------- state, owned here
+
+    /** Counts mode: the unit's counts (not copied; not modified here) and total N, with Σw² = N and no sample. */
+    void useCounts(double[] c, double n) {
+        setCounts(c, n);
+        total2 = n;
+        Arrays.fill(linear, 0.0);
+    }
+
+    /** Replaces the counts and the total only (the training part of a fold, or a unit of the smoothing spline). */
+    void setCounts(double[] c, double n) {
+        counts = c;
+        total = n;
+    }
+
+    /** Sample mode: the sufficient statistic (K + 1 values, copied), the local basis values and weights, the totals. */
+    void useSample(double[] lin, int[] first, double[] vals, double[] weights, int width, double n, double n2) {
+        counts = null;
+        total = n;
+        total2 = n2;
+        System.arraycopy(lin, 0, linear, 0, k + 1);
+        sampleFirst = first;
+        sampleVals = vals;
+        sampleWeights = weights;
+        sampleWidth = width;
+    }
+
+    /** Replaces the sample statistic (K + 1 values, copied) and the totals (a fold's training part). */
+    void setSampleStatistics(double[] lin, double n, double n2) {
+        System.arraycopy(lin, 0, linear, 0, k + 1);
+        total = n;
+        total2 = n2;
+    }
+
+    /** Restores counts (may be null), totals and the sample statistic (copied) saved before a cross-validation. */
+    void restoreData(double[] c, double n, double n2, double[] lin) {
+        counts = c;
+        total = n;
+        total2 = n2;
+        System.arraycopy(lin, 0, linear, 0, k + 1);
+    }
+
+    /** A fresh copy of the sample statistic (K + 1 values). */
+    double[] sampleStatistics() {
+        return linear.clone();
+    }
+
+    /** The current counts (null in sample mode); the array given to {@link #useCounts}, not to be modified. */
+    double[] counts() {
+        return counts;
+    }
+
+    boolean hasCounts() {
+        return counts != null;
+    }
+
+    /** Whether a sample's per-observation arrays are set (for its empirical information). */
+    boolean hasSample() {
+        return sampleFirst != null;
+    }
+
+    /** Total weight N of the current data. */
+    double total() {
+        return total;
+    }
+
+    /** Σw² of the current data (N for counts). */
+    double total2() {
+        return total2;
+    }
+
+    /** The bin layout of the unit. */
+    BinLayout bins() {
+        return lay;
+    }
+
+    /** Z / e^shift of the last evaluation. */
+    double zScaled() {
+        return zScaled;
+    }
+
+    /** Bin mass A_j / e^shift of the last evaluation. */
+    double mass(int j) {
+        return mass[j];
+    }
+
+    /** The log-sum-exp shift of the last evaluation. */
+    double shift() {
+        return shift;
+    }
+
+    /** Log-likelihood at the last evaluated point. */
+    double logLikelihood() {
+        return loglik;
+    }
+
+    /** The K × K Fisher information of the last {@link #fisherInformation} (not a copy). */
+    double[] fisher() {
+        return fisher;
+    }
+
+    /** Trace of the K × K Fisher information (after {@link #fisherInformation}). */
+    double fisherTrace() {
+        return EstimationSupport.trace(fisher, k);
+    }
+
+    /** Lower triangle of the k × k block of a (row stride s) minus c·m mᵀ, entry by entry as (c m_i) m_l. */
+    static void subtractOuter(double[] a, int s, double c, double[] m, int k) {
+        for (int i = 0; i < k; i++) {
+            double mi = c * m[i];
+            int row = i * s;
+            for (int l = 0; l <= i; l++) {
+                a[row + l] -= mi * m[l];
+            }
+        }
+    }
+}

@@ -1,0 +1,263 @@
+package io.densa.core.estimate;
+
+import io.densa.core.internal.Cholesky;
+import io.densa.core.internal.GoldenSection;
+
+/**
+ * The smoothing-parameter search of {@link PenalizedLikelihoodEstimator}: the criteria (AIC, AICc,
+ * GCV, marginal likelihood, cross-validation) at a fit, and the choice of λ per unit on the grid
+ * λ = N s 10^g with its refinement. Immutable (the engine passed in holds the state); internal.
+ */
+final class SmoothingSearch {
+    private static final int GOLDEN_STEPS = 7;
+    /** Tolerance of the fits during the search (at least the configured one). */
+    static final double SEARCH_TOLERANCE = 1e-9;
+
+    private final SmoothingCriterion criterion;
+    private final double gridLo;
+    private final double gridHi;
+    private final double gridStep;
+    private final int maxIterations;
+    private final double tolerance;
+    private final int k;
+    private final double[] u;
+    private final double[] rawPenalty;
+    private final double[] prior;
+    private final int penaltyRank;
+
+    SmoothingSearch(PenalizedLikelihoodEstimator.Settings s, int k, double[] u, double[] rawPenalty, double[] prior,
+            int penaltyRank) {
+        this.criterion = s.criterion();
+        this.gridLo = s.gridLog10Lo();
+        this.gridHi = s.gridLog10Hi();
+        this.gridStep = s.gridStep();
+        this.maxIterations = s.maxIterations();
+        this.tolerance = s.tolerance();
+        this.k = k;
+        this.u = u;
+        this.rawPenalty = rawPenalty;
+        this.prior = prior;
+        this.penaltyRank = penaltyRank;
+    }
+
+    /**
+     * The λ of one unit chosen by the criterion (see the estimator's class documentation): the grid
+     * scan from strong to weak smoothing, stopped two rises after the best value, refined by
+     * successive parabolic interpolation or by golden-section search. Leaves the engine at the
+     * coefficients of the best fit found.
+     */
+    double choose(PenalizedNewton eng, double scale, CrossValidationFolds cv) {
+        int steps = (int) Math.floor((gridHi - gridLo) / gridStep + 1e-9);
+        double bestG = gridHi, bestC = Double.POSITIVE_INFINITY;
+        double[] bestBeta = new double[k + 1];
+        int rising = 0;
+        double prev = Double.POSITIVE_INFINITY;
+        double cAbove = Double.POSITIVE_INFINITY, cBelow = Double.POSITIVE_INFINITY;
+        for (int s = 0; s <= steps && rising < 2; s++) {
+            double g = gridHi - s * gridStep;
+            double c = criterionAt(eng, lambdaAt(eng.total(), scale, g), cv);
+            if (c < bestC) {
+                bestC = c;
+                bestG = g;
+                rising = 0;
+                cAbove = s > 0 ? prev : Double.POSITIVE_INFINITY;
+                cBelow = Double.POSITIVE_INFINITY;
+                eng.copyCoefficientsTo(bestBeta);
+            } else if (bestC < Double.POSITIVE_INFINITY) {
+                if (rising == 0) {
+                    cBelow = c;
+                }
+                rising++;
+            }
+            prev = c;
+        }
+        double denom = cAbove - 2 * bestC + cBelow;
+        if (Double.isFinite(denom) && denom > 0) {
+            // three steps of successive parabolic interpolation in g = log10(λ) (Brent 1973,
+            // Algorithms for Minimization without Derivatives, ch. 5; from memory)
+            double[] gs = {bestG - gridStep, bestG, bestG + gridStep, 0};
+            double[] cs = {cBelow, bestC, cAbove, 0};
+            int m = 3;
+            for (int pass = 0; pass < 3; pass++) {
+                int b = 0;
+                for (int i = 1; i < m; i++) {
+                    if (cs[i] < cs[b]) {
+                        b = i;
+                    }
+                }
+                // neighbours of the best point in g order
+                int left = -1, right = -1;
+                for (int i = 0; i < m; i++) {
+                    if (gs[i] < gs[b] && (left < 0 || gs[i] > gs[left])) {
+                        left = i;
+                    }
+                    if (gs[i] > gs[b] && (right < 0 || gs[i] < gs[right])) {
+                        right = i;
+                    }
+                }
+                if (left < 0 || right < 0) {
+                    break;
+                }
+                double x0 = gs[left], x1 = gs[b], x2 = gs[right];
+                double f0 = cs[left], f1 = cs[b], f2 = cs[right];
+                double num = (x1 - x0) * (x1 - x0) * (f1 - f2) - (x1 - x2) * (x1 - x2) * (f1 - f0);
+                double den = (x1 - x0) * (f1 - f2) - (x1 - x2) * (f1 - f0);
+                if (!(den != 0) || !Double.isFinite(num / den)) {
+                    break;
+                }
+                double x = x1 - 0.5 * num / den;
+                x = Math.max(x0, Math.min(x2, x));
+                if (Math.abs(x - x1) < 1e-3 * gridStep) {
+                    break;
+                }
+                eng.setCoefficients(bestBeta);
+                double c = criterionAt(eng, lambdaAt(eng.total(), scale, x), cv);
+                if (m == 3) {
+                    gs[3] = x;
+                    cs[3] = c;
+                    m = 4;
+                } else {
+                    // drop the point farthest from the best
+                    int far = 0;
+                    for (int i = 1; i < 4; i++) {
+                        if (Math.abs(gs[i] - gs[b]) > Math.abs(gs[far] - gs[b])) {
+                            far = i;
+                        }
+                    }
+                    gs[far] = x;
+                    cs[far] = c;
+                }
+                if (c < bestC) {
+                    bestC = c;
+                    bestG = x;
+                    eng.copyCoefficientsTo(bestBeta);
+                }
+            }
+            double lambda = lambdaAt(eng.total(), scale, bestG);
+            eng.setCoefficients(bestBeta);
+            return lambda;
+        } else {
+            return golden(eng, scale, cv, bestG, bestC, bestBeta);
+        }
+    }
+
+    /** Golden-section refinement of log10 λ on [bestG − step, bestG + step] (grid ends or flat spots). */
+    private double golden(PenalizedNewton eng, double scale, CrossValidationFolds cv, double bestG, double bestC,
+            double[] bestBeta) {
+        double lo = Math.max(gridLo, bestG - gridStep), hi = Math.min(gridHi, bestG + gridStep);
+        double gBest = GoldenSection.minimise(x -> {
+            eng.setCoefficients(bestBeta);
+            return criterionAt(eng, lambdaAt(eng.total(), scale, x), cv);
+        }, lo, hi, GOLDEN_STEPS, bestG, bestC);
+        eng.setCoefficients(bestBeta);
+        return lambdaAt(eng.total(), scale, gBest);
+    }
+
+    static double lambdaAt(double total, double scale, double g) {
+        return total * scale * Math.pow(10.0, g);
+    }
+
+    /** log det(2λP + 2Q) (raw coordinates), or NaN if not positive definite. */
+    private double logDetPrior(double lambda) {
+        double[] m = new double[k * k];
+        for (int i = 0; i < k * k; i++) {
+            m[i] = 2 * lambda * rawPenalty[i] + 2 * prior[i];
+        }
+        if (Cholesky.factor(m, k, k, 0) >= 0) {
+            return Double.NaN;
+        }
+        double ld = 0;
+        for (int i = 0; i < k; i++) {
+            ld += Math.log(m[i * k + i]);
+        }
+        return 2 * ld;
+    }
+
+    /** Fits at λ from the current beta and returns the criterion (+∞ on failure). */
+    double criterionAt(PenalizedNewton eng, double lambda, CrossValidationFolds cv) {
+        if (!eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE))) {
+            return Double.POSITIVE_INFINITY;
+        }
+        double loglik = eng.logLikelihood();
+        double edf = Double.NaN;
+        if (criterion != SmoothingCriterion.CROSS_VALIDATION) {
+            eng.fisherInformation();
+            edf = eng.sandwich(lambda, u, null);
+            if (Double.isNaN(edf)) {
+                return Double.POSITIVE_INFINITY;
+            }
+        }
+        double c = criterionValue(eng, lambda, edf, loglik, cv);
+        return Double.isNaN(c) ? Double.POSITIVE_INFINITY : c;
+    }
+
+    /** The criterion at the fitted beta (eng arrays must hold beta's evaluation for GCV). */
+    double criterionValue(PenalizedNewton eng, double lambda, double edf, double loglik, CrossValidationFolds cv) {
+        switch (criterion) {
+            case AIC:
+                return -2 * loglik + 2 * edf;
+            case MARGINAL_LIKELIHOOD: {
+                double ld = eng.logDetJ();
+                if (Double.isNaN(ld)) {
+                    return Double.POSITIVE_INFINITY;
+                }
+                if (prior != null) {
+                    // proper prior: defined at every λ ≥ 0
+                    double lp = logDetPrior(lambda);
+                    return Double.isNaN(lp) ? Double.POSITIVE_INFINITY : -2 * loglik + 2 * lambda * eng.penalty()
+                            + 2 * eng.priorPenalty() + ld - lp;
+                }
+                if (!(lambda > 0)) {
+                    return Double.POSITIVE_INFINITY; // improper prior without normalising constant at λ = 0
+                }
+                return -2 * loglik + 2 * lambda * eng.penalty() + ld - penaltyRank * Math.log(2 * lambda);
+            }
+            case AICC: {
+                double nEff = eng.total();
+                return nEff > edf + 1 ? -2 * loglik + 2 * edf * nEff / (nEff - edf - 1) : Double.POSITIVE_INFINITY;
+            }
+            case GCV: {
+                if (!eng.hasCounts()) {
+                    throw new IllegalArgumentException("GCV needs binned counts; for raw samples use"
+                            + " SmoothingCriterion.AIC or CROSS_VALIDATION");
+                }
+                eng.evaluate(lambda);
+                int d = eng.bins().bins;
+                double dev = 0;
+                double z = eng.zScaled();
+                for (int j = 0; j < d; j++) {
+                    double nj = eng.counts()[j];
+                    if (nj > 0) {
+                        dev += nj * Math.log(nj / (eng.total() * eng.mass(j) / z));
+                    }
+                }
+                dev = Math.max(0.0, 2 * dev); // ≥ 0 by Gibbs' inequality; rounding can give −1e-15
+                double den = d - edf;
+                return den > 0 ? d * dev / (den * den) : Double.POSITIVE_INFINITY;
+            }
+            default:
+                return cv.score(lambda);
+        }
+    }
+
+    /** Why the criterion cannot be evaluated at a converged fit (it is undefined there). */
+    String undefinedCriterion(PenalizedNewton eng, double lambda, double edf) {
+        switch (criterion) {
+            case MARGINAL_LIKELIHOOD:
+                if (prior == null && !(lambda > 0)) {
+                    return "the marginal likelihood is undefined at lambda = 0 without the reference prior (its"
+                            + " improper prior has no normalising constant)";
+                }
+                break;
+            case AICC:
+                return "AICc is undefined with N = " + eng.total() + " <= edf + 1 = " + (edf + 1)
+                        + " at lambda = " + lambda + " (it needs more than edf + 1 events)";
+            case GCV:
+                return "GCV is undefined with edf = " + edf + " >= number of bins " + eng.bins().bins
+                        + " at lambda = " + lambda;
+            default:
+                break;
+        }
+        return criterion + " could not be evaluated at lambda = " + lambda;
+    }
+}
