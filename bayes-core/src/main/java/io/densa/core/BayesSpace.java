@@ -3,6 +3,7 @@ package io.densa.core;
 import java.util.Objects;
 import java.util.function.DoubleUnaryOperator;
 import org.ejml.data.DMatrixRMaj;
+import io.densa.core.DistributionFunctions.Shape;
 
 /**
  * A Bayes Hilbert space B2(P) of densities on a bounded interval I = [a, b], with reference

@@ -2,6 +2,7 @@ package io.densa.core;
 
 import java.util.Arrays;
 import java.util.Objects;
+import io.densa.core.DistributionFunctions.Shape;
 
 /**
  * A probability density as a point of a {@link BayesSpace}: the space plus its K coordinates

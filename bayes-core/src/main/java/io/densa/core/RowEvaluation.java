@@ -3,6 +3,7 @@ package io.densa.core;
 import io.densa.core.internal.Kernels;
 import org.ejml.data.DMatrixRMaj;
 import java.util.Objects;
+import io.densa.core.DistributionFunctions.Shape;
 
 /**
  * Batch evaluation of every row of a {@link DensitySet}: log normalisers, pdfs on a grid (one

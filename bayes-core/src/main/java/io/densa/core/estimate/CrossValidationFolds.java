@@ -2,6 +2,7 @@ package io.densa.core.estimate;
 
 import io.densa.core.internal.Seeds;
 import java.util.SplittableRandom;
+import io.densa.core.estimate.PenalizedFit.SampleData;
 
 /**
  * The fold structure of one unit for the cross-validation criterion of

@@ -6,6 +6,7 @@ import io.densa.core.Reference;
 import io.densa.core.internal.RoughnessPenalty;
 import java.util.Objects;
 import org.ejml.data.DMatrixRMaj;
+import io.densa.core.estimate.BinLayout.CensoredCounts;
 
 /**
  * Penalised maximum-likelihood estimation of densities from binned counts or raw samples,
