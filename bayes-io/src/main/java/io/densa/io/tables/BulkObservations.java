@@ -182,10 +182,7 @@ public final class BulkObservations {
         Objects.requireNonNull(bins, "bins");
         Objects.requireNonNull(policy, "policy");
         Objects.requireNonNull(consumer, "consumer");
-        if (bins.count() > limits.maxBins()) {
-            throw new IllegalArgumentException("the layout has " + bins.count() + " bins, more than the limit of "
-                    + limits.maxBins() + " (ReadLimits.withMaxBins)");
-        }
+        RowCursor.checkBinCount(bins, limits);
         try (BulkEngine e = open(threads)) {
             return e.histograms(bins, policy, consumer);
         }

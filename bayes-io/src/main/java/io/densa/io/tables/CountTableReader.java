@@ -161,9 +161,8 @@ public final class CountTableReader {
         if (mode == Mode.NONE) {
             throw new IllegalStateException("choose how bins are given: withBinIndex, withBinLabel or withBinEdges");
         }
-        if (bins != null && bins.count() > limits.maxBins()) {
-            throw new IllegalArgumentException("the layout has " + bins.count() + " bins, more than the limit of "
-                    + limits.maxBins() + " (ReadLimits.withMaxBins)");
+        if (bins != null) {
+            RowCursor.checkBinCount(bins, limits);
         }
         try (RowCursor cur = RowCursor.open(source, limits)) {
             return read(cur);

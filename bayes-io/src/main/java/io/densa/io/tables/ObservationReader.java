@@ -108,10 +108,7 @@ public final class ObservationReader {
         Objects.requireNonNull(source, "source");
         Objects.requireNonNull(bins, "bins");
         Objects.requireNonNull(policy, "policy");
-        if (bins.count() > limits.maxBins()) {
-            throw new IllegalArgumentException("the layout has " + bins.count() + " bins, more than the limit of "
-                    + limits.maxBins() + " (ReadLimits.withMaxBins)");
-        }
+        RowCursor.checkBinCount(bins, limits);
         Acc acc = new Acc(false);
         acc.bins = bins;
         acc.maxCells = limits.maxCells();

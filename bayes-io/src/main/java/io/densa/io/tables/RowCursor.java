@@ -1,5 +1,6 @@
 package io.densa.io.tables;
 
+import io.densa.io.Bins;
 import io.densa.io.ReadLimits;
 import java.io.FilterReader;
 import java.io.IOException;
@@ -477,6 +478,14 @@ abstract class RowCursor implements AutoCloseable {
                     // the rows already read are complete
                 }
             }
+        }
+    }
+
+    /** Throws unless the bin layout is within the limits' bin count ({@link ReadLimits#maxBins()}). */
+    static void checkBinCount(Bins bins, ReadLimits limits) {
+        if (bins.count() > limits.maxBins()) {
+            throw new IllegalArgumentException("the layout has " + bins.count() + " bins, more than the limit of "
+                    + limits.maxBins() + " (ReadLimits.withMaxBins)");
         }
     }
 }
