@@ -22,5 +22,8 @@ module io.densa.io {
     requires json.simple;
 
     exports io.densa.io;
+    exports io.densa.io.geometry;
+    exports io.densa.io.raster;
+    exports io.densa.io.tables;
     exports io.densa.io.model;
 }

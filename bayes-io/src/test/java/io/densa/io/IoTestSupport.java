@@ -10,11 +10,11 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import org.junit.jupiter.api.function.Executable;
 
-final class IoTestSupport {
+public final class IoTestSupport {
     private IoTestSupport() {
     }
 
-    static Path write(Path dir, String name, String text) {
+    public static Path write(Path dir, String name, String text) {
         try {
             Path p = dir.resolve(name);
             Files.write(p, text.getBytes(StandardCharsets.UTF_8));
@@ -25,7 +25,7 @@ final class IoTestSupport {
     }
 
     /** Asserts an IllegalArgumentException whose message contains every fragment. */
-    static IllegalArgumentException rejects(Executable e, String... fragments) {
+    public static IllegalArgumentException rejects(Executable e, String... fragments) {
         IllegalArgumentException ex = assertThrows(IllegalArgumentException.class, e);
         for (String f : fragments) {
             assertTrue(ex.getMessage().contains(f), "message '" + ex.getMessage() + "' lacks '" + f + "'");

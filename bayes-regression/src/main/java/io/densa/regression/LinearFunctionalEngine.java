@@ -379,16 +379,8 @@ final class LinearFunctionalEngine {
             int my = c.responseComponents();
             if (vy != null && my < r) {
                 // β P + e_ic ȳᵀ (I − P), P = V_my V_myᵀ (intercept column 0)
-                double[] pm = new double[r * r];
-                for (int i = 0; i < r; i++) {
-                    for (int l = 0; l < r; l++) {
-                        double sum = 0;
-                        for (int h = 0; h < my; h++) {
-                            sum += vy[i * r + h] * vy[l * r + h];
-                        }
-                        pm[i * r + l] = sum;
-                    }
-                }
+                double[] vmy = DenseAlgebra.columns(vy, r, r, 0, my);
+                double[] pm = DenseAlgebra.multTransB(vmy, r, my, vmy, r);
                 double[] out = DenseAlgebra.mult(beta, pz, r, pm, r);
                 for (int l = 0; l < r; l++) {
                     double sum = ybar[l];

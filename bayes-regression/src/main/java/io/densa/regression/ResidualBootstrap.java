@@ -180,16 +180,6 @@ final class ResidualBootstrap {
             }
         }
         // B = B̃ Uᵀ
-        double[] b = new double[p * k];
-        for (int j = 0; j < p; j++) {
-            for (int c = 0; c < k; c++) {
-                double s = 0;
-                for (int l = 0; l < k; l++) {
-                    s += bt[j * k + l] * u[c * k + l];
-                }
-                b[j * k + c] = s;
-            }
-        }
-        return b;
+        return DenseAlgebra.multTransB(bt, p, k, u, k);
     }
 }

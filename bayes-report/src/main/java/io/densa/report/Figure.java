@@ -1,5 +1,8 @@
 package io.densa.report;
 
+import io.densa.report.chart.Chart;
+import io.densa.report.chart.ChartGrid;
+import io.densa.report.map.MapFigure;
 import java.awt.image.BufferedImage;
 
 /**

@@ -124,7 +124,7 @@ public final class Numbers {
     }
 
     /** The 1-2-5 step of {@link #ticks}. */
-    static double tickStep(double lo, double hi, int target) {
+    public static double tickStep(double lo, double hi, int target) {
         double raw = (hi - lo) / Math.max(1, target - 1);
         double mag = Math.pow(10, Math.floor(Math.log10(raw)));
         double f = raw / mag;
@@ -163,7 +163,7 @@ public final class Numbers {
     }
 
     /** The largest value 1, 2 or 5 times a power of ten that is at most v (v &gt; 0). */
-    static double roundDown125(double v) {
+    public static double roundDown125(double v) {
         double mag = Math.pow(10, Math.floor(Math.log10(v)));
         double f = v / mag;
         return new BigDecimal(f >= 5 - 1e-12 ? 5 : f >= 2 - 1e-12 ? 2 : 1).multiply(new BigDecimal(mag))
@@ -171,7 +171,7 @@ public final class Numbers {
     }
 
     /** The smallest value 1, 2 or 5 times a power of ten that is at least v (v &gt; 0). */
-    static double roundUp125(double v) {
+    public static double roundUp125(double v) {
         double mag = Math.pow(10, Math.floor(Math.log10(v)));
         double f = v / mag;
         return new BigDecimal(f <= 1 + 1e-12 ? 1 : f <= 2 + 1e-12 ? 2 : f <= 5 + 1e-12 ? 5 : 10)

@@ -1,7 +1,7 @@
 package io.densa.report;
 
-import io.densa.io.GeoJsonUnitWriter;
-import io.densa.io.UnitValues;
+import io.densa.io.geometry.GeoJsonUnitWriter;
+import io.densa.io.geometry.UnitValues;
 import java.awt.image.BufferedImage;
 import java.io.ByteArrayOutputStream;
 import java.io.IOException;

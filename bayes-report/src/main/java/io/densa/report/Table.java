@@ -1,6 +1,6 @@
 package io.densa.report;
 
-import io.densa.io.UnitValues;
+import io.densa.io.geometry.UnitValues;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.io.Writer;

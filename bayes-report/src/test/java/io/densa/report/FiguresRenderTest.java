@@ -1,5 +1,14 @@
 package io.densa.report;
 
+import io.densa.report.chart.Axis;
+import io.densa.report.chart.Chart;
+import io.densa.report.chart.Figures;
+import io.densa.report.chart.Observed;
+import io.densa.report.colour.ColourScale;
+import io.densa.report.colour.Palette;
+import io.densa.report.map.GridValues;
+import io.densa.report.map.MapFrame;
+import io.densa.report.map.Maps;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNotNull;
@@ -27,9 +36,9 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
 /**
- * Renders every figure type into a report and checks the files, then checks pixels: legend
- * swatches show the category colours, the probability scale stays 0–1 whatever the data, dashed
- * series are dashed on flat stretches, and log axes are labelled in the original unit.
+ * Renders every figure type into a report and checks the files, then checks pixels: dashed series
+ * are dashed on flat stretches, and log axes are labelled in the original unit (the maps' pixels:
+ * {@code io.densa.report.map.MapRenderTest}).
  *
  * <p>Set the environment variable {@code DENSA_GALLERY} to a folder to keep the rendered report
  * there for viewing.
@@ -111,63 +120,6 @@ class FiguresRenderTest {
         assertEquals(11, pngs);
         assertEquals(pngs, html.split("data:image/png;base64,", -1).length - 1, "every figure embedded once");
         assertTrue(!html.contains("src=\"fig_") && !html.contains("src=\"map_"), "HTML must not link files");
-    }
-
-    @Test
-    void legendSwatchesShowTheCategoryColoursWithCounts() {
-        int[] category = new int[F.frame().size()];
-        for (int i = 0; i < category.length; i++) {
-            category[i] = i % 3;
-        }
-        Color[] colours = {Palette.QUIET, Palette.BRICK, Palette.TEAL};
-        MapFigure.Drawn d = Maps.categories(F.frame(), category, new String[] {"a", "b", "c"}, colours, "Classes",
-                "Categories").draw();
-        List<Rectangle> swatches = d.layout().swatches();
-        assertEquals(3, swatches.size());
-        for (int k = 0; k < 3; k++) {
-            Rectangle r = swatches.get(k);
-            int rgb = d.image().getRGB((int) r.getCenterX(), (int) r.getCenterY()) & 0xffffff;
-            assertEquals(colours[k].getRGB() & 0xffffff, rgb, "swatch " + k);
-        }
-    }
-
-    @Test
-    void probabilityScaleIsFixedWhateverTheData() {
-        ColourScale p = ColourScale.probability("P(X > t)");
-        assertEquals(0, p.lower());
-        assertEquals(1, p.upper());
-        assertArrayEquals(new String[] {"0", "0.2", "0.4", "0.6", "0.8", "1"}, p.tickLabels());
-        MapFigure.Drawn low = Maps.grid(F.frame(), F.grid(45, 30, (x, y) -> 0.1 + 0.004 * x), p, "low").draw();
-        MapFigure.Drawn high = Maps.grid(F.frame(), F.grid(45, 30, (x, y) -> 0.6 + 0.008 * x), p, "high").draw();
-        Rectangle a = low.layout().colourBar();
-        Rectangle b = high.layout().colourBar();
-        assertEquals(a, b);
-        assertArrayEquals(low.layout().barTicks(), high.layout().barTicks());
-        int cx = (int) a.getCenterX();
-        for (int yy = a.y + 1; yy < a.y + a.height; yy++) {
-            assertEquals(low.image().getRGB(cx, yy), high.image().getRGB(cx, yy), "colour bar row " + yy);
-        }
-        // the top of the bar is probability 1, the bottom 0, and ticks are evenly spaced
-        assertTrue(Oklab.distance(ColourRamp.sequential().colour(1), new Color(low.image().getRGB(cx, a.y + 1)))
-                < 0.01, "top of the bar is probability 1");
-        assertTrue(Oklab.distance(ColourRamp.sequential().colour(0),
-                new Color(low.image().getRGB(cx, a.y + a.height - 2))) < 0.01, "bottom of the bar is probability 0");
-        int[] t = low.layout().barTicks();
-        for (int i = 2; i < t.length; i++) {
-            assertTrue(Math.abs((t[i - 1] - t[i]) - (t[0] - t[1])) <= 1, "ticks evenly spaced");
-        }
-        // a cell of probability 0.1 + 0.004 · 0.5 ≈ 0.102 keeps its own colour, not the darkest one of a
-        // scale stretched to the data
-        BufferedImage img = low.image();
-        Color expected = p.colour(0.1 + 0.004 * (0.5 * 45.0 / 45));
-        Color seen = pixelNear(img, 30, a);
-        assertTrue(Oklab.distance(expected, seen) < 0.03, "cell colour " + seen + " against " + expected);
-    }
-
-    /** The colour of the first map pixel right of the map's left edge at mid-height. */
-    private static Color pixelNear(BufferedImage img, int dx, Rectangle bar) {
-        int y = bar.y + bar.height / 2;
-        return new Color(img.getRGB(MapCanvas.LEFT + dx, Math.min(y, img.getHeight() / 2)));
     }
 
     /**

@@ -1,5 +1,7 @@
 package io.densa.report;
 
+import io.densa.report.map.GridValues;
+import io.densa.report.map.MapFrame;
 import io.densa.core.BayesSpace;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
@@ -27,7 +29,7 @@ import org.locationtech.jts.geom.GeometryFactory;
  * of 5 km square units whose age-like densities shift smoothly across the area, with a raised
  * corner, and the results Densa computes from them.
  */
-final class Fixtures {
+public final class Fixtures {
     static final GeometryFactory GEOMETRY = new GeometryFactory();
     static final int NX = 9;
     static final int NY = 6;
@@ -47,7 +49,7 @@ final class Fixtures {
     final LocalMoran.Result local;
     final MoranI.Result moran;
 
-    Fixtures(long seed) {
+    public Fixtures(long seed) {
         Random random = new Random(seed);
         int n = NX * NY;
         x = new double[n];
@@ -124,12 +126,12 @@ final class Fixtures {
             new Coordinate(x0 + w, y0 + h), new Coordinate(x0, y0 + h), new Coordinate(x0, y0)});
     }
 
-    MapFrame frame() {
+    public MapFrame frame() {
         return MapFrame.km(units, outline, "Invented test units in planar km.");
     }
 
     /** A grid over the area with values from a function of the cell centre. */
-    GridValues grid(int nx, int ny, java.util.function.DoubleBinaryOperator f) {
+    public GridValues grid(int nx, int ny, java.util.function.DoubleBinaryOperator f) {
         double w = NX * CELL;
         double h = NY * CELL;
         double[] v = new double[nx * ny];

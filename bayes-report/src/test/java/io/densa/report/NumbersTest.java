@@ -1,5 +1,8 @@
 package io.densa.report;
 
+import io.densa.report.colour.ColourScale;
+import io.densa.report.colour.Oklab;
+import io.densa.report.colour.Palette;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNotEquals;

@@ -47,7 +47,7 @@ public final class BaselineSpec implements Serializable {
     private final double fdr;
     private final double bandLevel;
     private final double[] grid;
-    private transient volatile Model model;
+    private final PerJvm<Model> model = new PerJvm<>();
 
     /** The fitted regression and the calibrated scorer. */
     public record Model(FunctionOnFunctionFit fit, AnomalyScoring.Calibrated calibrated, double fdr) {
@@ -100,17 +100,7 @@ public final class BaselineSpec implements Serializable {
 
     /** The fitted and calibrated model (built once per JVM). */
     public Model model() {
-        Model m = model;
-        if (m == null) {
-            synchronized (this) { // one build per JVM even when several tasks start at once
-                m = model;
-                if (m == null) {
-                    m = build();
-                    model = m;
-                }
-            }
-        }
-        return m;
+        return model.get(() -> build());
     }
 
     FunctionalRegression configuration() {

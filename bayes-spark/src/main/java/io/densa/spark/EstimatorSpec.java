@@ -33,7 +33,7 @@ public final class EstimatorSpec implements Serializable {
     private final double tolerance; // NaN: default
     private final int points; // -1: default
     private final ZeroTotalPolicy zeroTotal;
-    private transient volatile PenalizedLikelihoodEstimator estimator;
+    private final PerJvm<PenalizedLikelihoodEstimator> estimator = new PerJvm<>();
 
     private EstimatorSpec(SpaceSpec space, double[] edges, int penaltyOrder, double smoothing,
             SmoothingCriterion criterion, double[] grid, double priorWeight, int maxIterations, double tolerance,
@@ -157,17 +157,7 @@ public final class EstimatorSpec implements Serializable {
      * settings applied, fractional counts allowed (weighted events), no thread pool of its own.
      */
     public PenalizedLikelihoodEstimator estimator() {
-        PenalizedLikelihoodEstimator e = estimator;
-        if (e == null) {
-            synchronized (this) { // one build per JVM even when several tasks start at once
-                e = estimator;
-                if (e == null) {
-                    e = build();
-                    estimator = e;
-                }
-            }
-        }
-        return e;
+        return estimator.get(() -> build());
     }
 
     private PenalizedLikelihoodEstimator build() {

@@ -20,7 +20,7 @@ public final class FpcaSpec implements Serializable {
     private final long n;
     private final double[] mean;
     private final double[] covariance;
-    private transient volatile Fpca fpca;
+    private final PerJvm<Fpca> fpca = new PerJvm<>();
 
     FpcaSpec(SpaceSpec space, long n, double[] mean, double[] covariance) {
         this.space = Objects.requireNonNull(space, "space");
@@ -43,17 +43,7 @@ public final class FpcaSpec implements Serializable {
 
     /** The FPCA (built once per JVM). */
     public Fpca fpca() {
-        Fpca f = fpca;
-        if (f == null) {
-            synchronized (this) { // one build per JVM even when several tasks start at once
-                f = fpca;
-                if (f == null) {
-                    f = FpcaMoments.fit(space.space(), n, mean, covariance);
-                    fpca = f;
-                }
-            }
-        }
-        return f;
+        return fpca.get(() -> FpcaMoments.fit(space.space(), n, mean, covariance));
     }
 
     /** The space definition. */

@@ -34,8 +34,8 @@ public final class GridSpec implements Serializable {
     private final double[] probabilities;
     private final boolean means;
     private final boolean nearest;
-    private transient volatile Grid grid;
-    private transient volatile GridOptions options;
+    private final PerJvm<Grid> grid = new PerJvm<>();
+    private final PerJvm<GridOptions> options = new PerJvm<>();
 
     private GridSpec(double minX, double minY, double maxX, double maxY, int nx, int ny, byte[] mask, int tileSize,
             boolean variance, double[] thresholds, double[] probabilities, boolean means, boolean nearest) {
@@ -109,9 +109,8 @@ public final class GridSpec implements Serializable {
 
     /** The grid (built once per JVM). */
     public Grid grid() {
-        Grid g = grid;
-        if (g == null) {
-            g = Grid.over(minX, minY, maxX, maxY, nx, ny);
+        return grid.get(() -> {
+            Grid g = Grid.over(minX, minY, maxX, maxY, nx, ny);
             if (mask != null) {
                 try {
                     g = g.withMask((Polygon) new WKBReader().read(mask));
@@ -119,21 +118,15 @@ public final class GridSpec implements Serializable {
                     throw new IllegalStateException("the mask's WKB does not parse: " + e.getMessage(), e);
                 }
             }
-            grid = g;
-        }
-        return g;
+            return g;
+        });
     }
 
     /** The grid options (built once per JVM). */
     public GridOptions options() {
-        GridOptions o = options;
-        if (o == null) {
-            o = GridOptions.withDefaults().withTileSize(tileSize).withVariance(variance)
+        return options.get(() -> GridOptions.withDefaults().withTileSize(tileSize).withVariance(variance)
                     .withTailProbabilities(thresholds).withQuantiles(probabilities).withMeans(means)
-                    .withNearestDistances(nearest).withParallel(false);
-            options = o;
-        }
-        return o;
+                    .withNearestDistances(nearest).withParallel(false));
     }
 
     boolean variance() {

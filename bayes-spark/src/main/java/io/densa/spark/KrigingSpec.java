@@ -40,7 +40,7 @@ public final class KrigingSpec implements Serializable {
     private final double[] errorVariances;
     private final double coincidentNugget;
     private final double conditionLimit;
-    private transient volatile Kriging kriging;
+    private final PerJvm<Kriging> kriging = new PerJvm<>();
 
     private KrigingSpec(LocationData data, Kriging.Type type, double[] mean, int driftDegree, VariogramModel model,
             KrigingOptions options) {
@@ -141,17 +141,7 @@ public final class KrigingSpec implements Serializable {
 
     /** The kriging (built once per JVM). */
     public Kriging kriging() {
-        Kriging k = kriging;
-        if (k == null) {
-            synchronized (this) {
-                k = kriging;
-                if (k == null) {
-                    k = build();
-                    kriging = k;
-                }
-            }
-        }
-        return k;
+        return kriging.get(() -> build());
     }
 
     private Kriging build() {

@@ -21,8 +21,8 @@ public final class LocationData implements Serializable {
     private final SpaceSpec space;
     private final double[] coordinates;
     private final int n;
-    private transient volatile Locations locations;
-    private transient volatile DensitySet densities;
+    private final PerJvm<Locations> locations = new PerJvm<>();
+    private final PerJvm<DensitySet> densities = new PerJvm<>();
 
     private LocationData(double[] x, double[] y, boolean geographic, SpaceSpec space, double[] coordinates, int n) {
         this.x = x;
@@ -79,21 +79,11 @@ public final class LocationData implements Serializable {
 
     /** The locations (built once per JVM). */
     public Locations locations() {
-        Locations l = locations;
-        if (l == null) {
-            l = geographic ? Locations.geographic(x, y) : Locations.planar(x, y);
-            locations = l;
-        }
-        return l;
+        return locations.get(() -> geographic ? Locations.geographic(x, y) : Locations.planar(x, y));
     }
 
     /** The densities (built once per JVM). */
     public DensitySet densities() {
-        DensitySet d = densities;
-        if (d == null) {
-            d = DensitySet.ofRowMajor(space.space(), coordinates, n, null);
-            densities = d;
-        }
-        return d;
+        return densities.get(() -> DensitySet.ofRowMajor(space.space(), coordinates, n, null));
     }
 }

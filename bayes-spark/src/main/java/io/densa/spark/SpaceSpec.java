@@ -26,7 +26,7 @@ public final class SpaceSpec implements Serializable {
     private final Reference.Kind reference;
     private final double p1;
     private final double p2;
-    private transient volatile BayesSpace space;
+    private final PerJvm<BayesSpace> space = new PerJvm<>();
 
     private SpaceSpec(Basis.Kind kind, int order, double[] breakpoints, Reference.Kind reference, double p1, double p2) {
         this.kind = kind;
@@ -81,12 +81,7 @@ public final class SpaceSpec implements Serializable {
 
     /** The space (built once per JVM from the definition). */
     public BayesSpace space() {
-        BayesSpace s = space;
-        if (s == null) {
-            s = build();
-            space = s;
-        }
-        return s;
+        return space.get(() -> build());
     }
 
     /** Dimension K of the space. */

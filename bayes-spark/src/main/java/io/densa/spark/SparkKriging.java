@@ -1,9 +1,9 @@
 package io.densa.spark;
 
-import io.densa.io.Crs;
-import io.densa.io.GeoTiffOptions;
-import io.densa.io.GeoTiffWriter;
-import io.densa.io.RasterLayout;
+import io.densa.io.raster.Crs;
+import io.densa.io.raster.GeoTiffOptions;
+import io.densa.io.raster.GeoTiffWriter;
+import io.densa.io.raster.RasterLayout;
 import io.densa.spatial.kriging.Grid;
 import io.densa.spatial.kriging.GridOptions;
 import io.densa.spatial.kriging.GridTile;

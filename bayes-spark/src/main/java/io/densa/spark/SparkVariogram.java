@@ -116,7 +116,7 @@ public final class SparkVariogram {
         private static final long serialVersionUID = 1L;
         private final LocationData data;
         private final VariogramSpec options;
-        private transient volatile VariogramPairBlocks blocks;
+        private final PerJvm<VariogramPairBlocks> blocks = new PerJvm<>();
 
         Job(LocationData data, VariogramSpec options) {
             this.data = data;
@@ -124,17 +124,7 @@ public final class SparkVariogram {
         }
 
         VariogramPairBlocks blocks() {
-            VariogramPairBlocks b = blocks;
-            if (b == null) {
-                synchronized (this) {
-                    b = blocks;
-                    if (b == null) {
-                        b = VariogramPairBlocks.of(data.locations(), data.densities(), options.options());
-                        blocks = b;
-                    }
-                }
-            }
-            return b;
+            return blocks.get(() -> VariogramPairBlocks.of(data.locations(), data.densities(), options.options()));
         }
     }
 

@@ -8,7 +8,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
-import io.densa.io.GeoTiffOptions;
+import io.densa.io.raster.GeoTiffOptions;
 import io.densa.spatial.kriging.GridTile;
 import io.densa.spatial.kriging.KrigingOptions;
 import io.densa.spatial.Locations;

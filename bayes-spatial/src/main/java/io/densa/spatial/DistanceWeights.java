@@ -1,5 +1,6 @@
 package io.densa.spatial;
 
+import io.densa.spatial.internal.ByDistance;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -82,13 +83,7 @@ final class DistanceWeights {
             IntStream.range(0, n).parallel().forEach(i -> {
                 int[] c = new int[n - 1];
                 double[] d = new double[n - 1];
-                int m = 0;
-                for (int j = 0; j < n; j++) {
-                    if (j != i) {
-                        c[m] = j;
-                        d[m++] = locations.distance(i, j);
-                    }
-                }
+                ByDistance.others(n, i, j -> locations.distance(i, j), c, d);
                 nb[i] = c;
                 wt[i] = d;
             });
@@ -157,30 +152,13 @@ final class DistanceWeights {
         int n = loc.size();
         int[] idx = new int[n - 1];
         double[] dist = new double[n - 1];
-        int m = 0;
-        for (int j = 0; j < n; j++) {
-            if (j != i) {
-                idx[m] = j;
-                dist[m++] = loc.distance(i, j);
-            }
-        }
-        return smallest(idx, dist, m, k);
+        ByDistance.others(n, i, j -> loc.distance(i, j), idx, dist);
+        return smallest(idx, dist, n - 1, k);
     }
 
     /** The k entries of idx[0..m) with smallest (dist, idx), sorted by index. */
     private static int[] smallest(int[] idx, double[] dist, int m, int k) {
-        Integer[] order = new Integer[m];
-        for (int a = 0; a < m; a++) {
-            order[a] = a;
-        }
-        Arrays.sort(order, (a, b) -> {
-            int c = Double.compare(dist[a], dist[b]);
-            return c != 0 ? c : Integer.compare(idx[a], idx[b]);
-        });
-        int[] out = new int[Math.min(k, m)];
-        for (int a = 0; a < out.length; a++) {
-            out[a] = idx[order[a]];
-        }
+        int[] out = Arrays.copyOf(ByDistance.sorted(idx, dist, m), Math.min(k, m));
         Arrays.sort(out);
         return out;
     }

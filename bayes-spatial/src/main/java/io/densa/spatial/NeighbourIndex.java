@@ -1,5 +1,6 @@
 package io.densa.spatial;
 
+import io.densa.spatial.internal.ByDistance;
 import java.util.Arrays;
 import java.util.Objects;
 import org.locationtech.jts.geom.Envelope;
@@ -210,19 +211,7 @@ public final class NeighbourIndex {
         }
 
         int[] sortedIndices() {
-            Integer[] order = new Integer[count];
-            for (int q = 0; q < count; q++) {
-                order[q] = q;
-            }
-            Arrays.sort(order, (a, b) -> {
-                int cmp = Double.compare(dist[a], dist[b]);
-                return cmp != 0 ? cmp : Integer.compare(index[a], index[b]);
-            });
-            int[] out = new int[count];
-            for (int q = 0; q < count; q++) {
-                out[q] = index[order[q]];
-            }
-            return out;
+            return ByDistance.sorted(index, dist, count);
         }
     }
 

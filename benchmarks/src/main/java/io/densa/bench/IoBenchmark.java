@@ -1,14 +1,14 @@
 package io.densa.bench;
 
 import io.densa.io.Bins;
-import io.densa.io.BulkObservations;
-import io.densa.io.BulkSummary;
-import io.densa.io.Crs;
-import io.densa.io.GeoTiffOptions;
-import io.densa.io.GeoTiffWriter;
-import io.densa.io.OutsidePolicy;
-import io.densa.io.RasterLayout;
-import io.densa.io.RasterSummary;
+import io.densa.io.tables.BulkObservations;
+import io.densa.io.tables.BulkSummary;
+import io.densa.io.raster.Crs;
+import io.densa.io.raster.GeoTiffOptions;
+import io.densa.io.raster.GeoTiffWriter;
+import io.densa.io.tables.OutsidePolicy;
+import io.densa.io.raster.RasterLayout;
+import io.densa.io.raster.RasterSummary;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;

@@ -22,8 +22,8 @@ final class MonitorCodec {
                 .integer("window", c.window()).integer("calibrationPeriods", c.calibrationPeriods())
                 .real("fdr", c.fdr()).real("bandLevel", c.bandLevel()).real("ridge", c.ridge())
                 .integer("draws", c.draws()).int64("seed", c.seed()).end();
-        Codecs.space(o, "space", s.space());
-        Codecs.ids(o, "ids", Arrays.asList(s.ids()));
+        CoreCodecs.space(o, "space", s.space());
+        CoreCodecs.ids(o, "ids", Arrays.asList(s.ids()));
         o.integer("covariates", s.covariates());
         o.doubles("momentsZZ", s.momentsZZ()).doubles("momentsZY", s.momentsZY());
         o.integer("windowCount", s.windowCount()).doubles("windowZZ", s.windowZZ()).doubles("windowZY", s.windowZY());
@@ -66,7 +66,7 @@ final class MonitorCodec {
                     .withFdr(fdr).withBandLevel(bandLevel).withRidge(ridge).withDraws(draws, seed);
             return window > 0 ? r.withWindow(window) : r.withForgetting(forgetting);
         });
-        BayesSpace space = Codecs.readSpace(p.get("space"));
+        BayesSpace space = CoreCodecs.readSpace(p.get("space"));
         List<Node> idNodes = p.get("ids").list();
         int n = idNodes.size();
         String[] ids = new String[n];

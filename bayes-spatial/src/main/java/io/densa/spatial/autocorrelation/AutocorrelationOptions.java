@@ -13,24 +13,27 @@ import java.util.Objects;
  * Parallel and serial runs give bit-identical results: permutations are drawn in fixed blocks,
  * each with its own random generator seeded from (seed, block) (global statistics) or from
  * (seed, unit) (local statistics), and combined in order.
+ *
+ * <p>A record: the canonical constructor checks every component as the with-methods do.
+ *
+ * @param permutations     number of random permutations R, 0 (no permutation test) to 10,000,000
+ * @param seed             seed of the permutations
+ * @param islandPolicy     treatment of units without neighbours
+ * @param parallel         whether permutations may use the common ForkJoin pool
+ * @param progressListener the progress listener ({@link ProgressListener#NONE} by default)
  */
-public final class AutocorrelationOptions {
+public record AutocorrelationOptions(int permutations, long seed, IslandPolicy islandPolicy, boolean parallel,
+        ProgressListener progressListener) {
     private static final AutocorrelationOptions DEFAULTS =
             new AutocorrelationOptions(0, 0L, IslandPolicy.ERROR, true, ProgressListener.NONE);
 
-    private final int permutations;
-    private final long seed;
-    private final IslandPolicy islandPolicy;
-    private final boolean parallel;
-    private final ProgressListener progress;
-
-    private AutocorrelationOptions(int permutations, long seed, IslandPolicy islandPolicy,
-            boolean parallel, ProgressListener progress) {
-        this.permutations = permutations;
-        this.seed = seed;
-        this.islandPolicy = islandPolicy;
-        this.parallel = parallel;
-        this.progress = progress;
+    /** Checks every component. */
+    public AutocorrelationOptions {
+        if (!(permutations >= 0 && permutations <= 10_000_000)) {
+            throw new IllegalArgumentException("permutation count " + permutations + " must be in 0..10000000");
+        }
+        Objects.requireNonNull(islandPolicy, "policy");
+        Objects.requireNonNull(progressListener, "listener");
     }
 
     /** No permutations, {@link IslandPolicy#ERROR}, parallel. */
@@ -47,21 +50,17 @@ public final class AutocorrelationOptions {
      * @throws IllegalArgumentException if count is negative or too large
      */
     public AutocorrelationOptions withPermutations(int count, long seed) {
-        if (!(count >= 0 && count <= 10_000_000)) {
-            throw new IllegalArgumentException("permutation count " + count + " must be in 0..10000000");
-        }
-        return new AutocorrelationOptions(count, seed, islandPolicy, parallel, progress);
+        return new AutocorrelationOptions(count, seed, islandPolicy, parallel, progressListener);
     }
 
     /** With the given treatment of units without neighbours. */
     public AutocorrelationOptions withIslandPolicy(IslandPolicy policy) {
-        return new AutocorrelationOptions(permutations, seed, Objects.requireNonNull(policy, "policy"), parallel,
-                progress);
+        return new AutocorrelationOptions(permutations, seed, policy, parallel, progressListener);
     }
 
     /** Whether permutations may use the common ForkJoin pool (results do not depend on it). */
     public AutocorrelationOptions withParallel(boolean parallel) {
-        return new AutocorrelationOptions(permutations, seed, islandPolicy, parallel, progress);
+        return new AutocorrelationOptions(permutations, seed, islandPolicy, parallel, progressListener);
     }
 
     /**
@@ -75,39 +74,13 @@ public final class AutocorrelationOptions {
      * @param listener a thread-safe listener, or {@link ProgressListener#NONE}
      */
     public AutocorrelationOptions withProgressListener(ProgressListener listener) {
-        return new AutocorrelationOptions(permutations, seed, islandPolicy, parallel,
-                Objects.requireNonNull(listener, "listener"));
-    }
-
-    /** The progress listener ({@link ProgressListener#NONE} by default). */
-    public ProgressListener progressListener() {
-        return progress;
-    }
-
-    /** Number of permutations (0 = no permutation test). */
-    public int permutations() {
-        return permutations;
-    }
-
-    /** Seed of the permutations. */
-    public long seed() {
-        return seed;
-    }
-
-    /** Island policy. */
-    public IslandPolicy islandPolicy() {
-        return islandPolicy;
-    }
-
-    /** Whether parallel execution is allowed. */
-    public boolean parallel() {
-        return parallel;
+        return new AutocorrelationOptions(permutations, seed, islandPolicy, parallel, listener);
     }
 
     @Override
     public String toString() {
         return "AutocorrelationOptions[permutations=" + permutations + ", seed=" + seed + ", islands="
-                + islandPolicy + ", parallel=" + parallel + (progress == ProgressListener.NONE ? "" : ", with progress")
-                + "]";
+                + islandPolicy + ", parallel=" + parallel
+                + (progressListener == ProgressListener.NONE ? "" : ", with progress") + "]";
     }
 }

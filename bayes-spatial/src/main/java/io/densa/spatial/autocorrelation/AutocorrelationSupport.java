@@ -1,7 +1,6 @@
 package io.densa.spatial.autocorrelation;
 
 import io.densa.core.DensaException;
-import io.densa.core.NumericalDiagnostics;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.Seeds;
@@ -59,6 +58,44 @@ final class AutocorrelationSupport {
         return new ScalarField(p.weights(), p.kept(), z, scale, sumSq(z), kurtosis(z), p.excluded(), p.original());
     }
 
+    /**
+     * A global statistic of a scalar field with its exact null expectation and its variances under
+     * normality and randomisation, and the statistic of permuted values for the permutation test.
+     */
+    record GlobalStatistic(double value, double expectation, double varianceNormality,
+            double varianceRandomisation, PermutedStatistic permuted) {
+    }
+
+    /** A global test: the field analysed, the statistic, its moments under both nulls and the permutation test. */
+    record GlobalTest(ScalarField field, double statistic, AutocorrelationMoments normality,
+            AutocorrelationMoments randomisation, Optional<AutocorrelationPermutation> permutation) {
+    }
+
+    /**
+     * The test of a global statistic (Moran's I, Geary's c): the field after the island policy (at
+     * least 4 units), the statistic and its moments from {@code statistic}, the normal-approximation
+     * tests under normality and randomisation, and the permutation test if the options ask for one.
+     */
+    static GlobalTest globalTest(SpatialWeights weights, double[] values, AutocorrelationOptions options,
+            String name, java.util.function.Function<ScalarField, GlobalStatistic> statistic) {
+        Objects.requireNonNull(options, "options");
+        ScalarField f = scalarField(weights, values, options.islandPolicy(), 4, "the " + name + " test");
+        GlobalStatistic s = statistic.apply(f);
+        AutocorrelationMoments normal = moments(s.value(), s.expectation(), s.varianceNormality(), name, "normality",
+                f.size());
+        AutocorrelationMoments random = moments(s.value(), s.expectation(), s.varianceRandomisation(), name,
+                "randomisation", f.size());
+        Optional<AutocorrelationPermutation> perm = permutationTest(f, options, s.value(), s.expectation(), name,
+                s.permuted());
+        return new GlobalTest(f, s.value(), normal, random, perm);
+    }
+
+    /** How the p-value of a global test was obtained (see {@link GlobalTestResult#pValue()}). */
+    static String method(Optional<AutocorrelationPermutation> permutation) {
+        return permutation.map(p -> "permutation (" + p.permutations() + " permutations, seed " + p.seed()
+                + "), two-sided").orElse("randomisation (normal approximation), two-sided");
+    }
+
     /** The permutation test of a global statistic if the options ask for one. */
     static Optional<AutocorrelationPermutation> permutationTest(ScalarField f, AutocorrelationOptions o,
             double observed, double expectation, String what, PermutedStatistic stat) {
@@ -67,11 +104,6 @@ final class AutocorrelationSupport {
         }
         double[] sims = simulate(f.size(), o, f.weights().linkCount() + 2L * f.size(), what, stat);
         return Optional.of(summarise(observed, expectation, sims, o.seed()));
-    }
-
-    /** Degenerate-variance diagnostics. */
-    record VarianceDiagnostics(String statistic, String assumption, double variance, int units)
-            implements NumericalDiagnostics {
     }
 
     /** A statistic of the values permuted by perm (value of unit i is the original value of perm[i]). */
@@ -257,7 +289,7 @@ final class AutocorrelationSupport {
             throw new DensaException("the variance of " + what + " under " + assumption + " is " + variance
                     + " for these weights and values: the statistic's null distribution is degenerate"
                     + " (e.g. every pair of units linked with equal weight)",
-                    new VarianceDiagnostics(what, assumption, variance, n));
+                    new AutocorrelationDiagnostics(what, assumption, variance, n));
         }
         double z = (statistic - expectation) / Math.sqrt(variance);
         double upper = upperTail(z);

@@ -42,7 +42,7 @@ public final class GearyC {
      */
     public record Result(double statistic, int units, List<Integer> excludedUnits, double kurtosis,
             AutocorrelationMoments normality, AutocorrelationMoments randomisation,
-            Optional<AutocorrelationPermutation> permutation) {
+            Optional<AutocorrelationPermutation> permutation) implements GlobalTestResult {
     }
 
     /**
@@ -76,33 +76,32 @@ public final class GearyC {
      * @throws io.densa.core.DensaException if a null variance is not positive
      */
     public static Result test(SpatialWeights weights, double[] values, AutocorrelationOptions options) {
-        Objects.requireNonNull(options, "options");
-        AutocorrelationSupport.ScalarField f = AutocorrelationSupport.scalarField(weights, values,
-                options.islandPolicy(), 4, "the Geary's c test");
-        SpatialWeights w = f.weights();
-        double[] z = f.z();
-        int n = f.size();
-        double nn = n;
-        double m2 = f.sumSq();
-        double b2 = f.kurtosis();
-        double s0 = w.s0(), s1 = w.s1(), s2 = w.s2();
-        double scale = (nn - 1) / (2 * s0 * m2);
-        int[] rs = w.rowStarts();
-        int[] cs = w.columnIndices();
-        double[] vs = w.linkWeights();
-        double stat = scale * squaredDifferences(rs, cs, vs, z, AutocorrelationSupport.identity(n));
-        double s02 = s0 * s0;
-        double varN = ((2 * s1 + s2) * (nn - 1) - 4 * s02) / (2 * (nn + 1) * s02);
-        double varR = ((nn - 1) * s1 * (nn * nn - 3 * nn + 3 - (nn - 1) * b2)
-                - 0.25 * (nn - 1) * s2 * (nn * nn + 3 * nn - 6 - (nn * nn - nn + 2) * b2)
-                + s02 * (nn * nn - 3 - (nn - 1) * (nn - 1) * b2))
-                / (nn * (nn - 2) * (nn - 3) * s02);
-        AutocorrelationMoments normal = AutocorrelationSupport.moments(stat, 1.0, varN, "Geary's c", "normality", n);
-        AutocorrelationMoments random = AutocorrelationSupport.moments(stat, 1.0, varR, "Geary's c",
-                "randomisation", n);
-        Optional<AutocorrelationPermutation> perm = AutocorrelationSupport.permutationTest(f, options, stat, 1.0,
-                "Geary's c", pi -> scale * squaredDifferences(rs, cs, vs, z, pi));
-        return new Result(stat, n, f.excluded(), b2, normal, random, perm);
+        AutocorrelationSupport.GlobalTest t = AutocorrelationSupport.globalTest(weights, values, options, "Geary's c",
+                f -> {
+            SpatialWeights w = f.weights();
+            double[] z = f.z();
+            int n = f.size();
+            double nn = n;
+            double m2 = f.sumSq();
+            double b2 = f.kurtosis();
+            double s0 = w.s0(), s1 = w.s1(), s2 = w.s2();
+            double scale = (nn - 1) / (2 * s0 * m2);
+            int[] rs = w.rowStarts();
+            int[] cs = w.columnIndices();
+            double[] vs = w.linkWeights();
+            double stat = scale * squaredDifferences(rs, cs, vs, z, AutocorrelationSupport.identity(n));
+            double s02 = s0 * s0;
+            double varN = ((2 * s1 + s2) * (nn - 1) - 4 * s02) / (2 * (nn + 1) * s02);
+            double varR = ((nn - 1) * s1 * (nn * nn - 3 * nn + 3 - (nn - 1) * b2)
+                    - 0.25 * (nn - 1) * s2 * (nn * nn + 3 * nn - 6 - (nn * nn - nn + 2) * b2)
+                    + s02 * (nn * nn - 3 - (nn - 1) * (nn - 1) * b2))
+                    / (nn * (nn - 2) * (nn - 3) * s02);
+            return new AutocorrelationSupport.GlobalStatistic(stat, 1.0, varN, varR,
+                    pi -> scale * squaredDifferences(rs, cs, vs, z, pi));
+        });
+        AutocorrelationSupport.ScalarField f = t.field();
+        return new Result(t.statistic(), f.size(), f.excluded(), f.kurtosis(), t.normality(), t.randomisation(),
+                t.permutation());
     }
 
     /** Σ_i Σ_j w_ij (z_pi[i] − z_pi[j])², the weights in compressed-row form (rs, cs, vs). */

@@ -1,6 +1,7 @@
 package io.densa.spatial.autocorrelation;
 
 import io.densa.core.BenjaminiHochberg;
+import io.densa.core.TestResult;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.Seeds;
@@ -89,7 +90,17 @@ public final class LocalMoran {
      */
     public record Unit(int index, double statistic, double deviation, double lag, Quadrant quadrant,
             double expectation, double variance, double conditionalExpectation, double pTwoSided, double pGreater,
-            double pLess, double adjustedPValue) {
+            double pLess, double adjustedPValue) implements TestResult {
+        /** The two-sided conditional-permutation pseudo p-value, {@link #pTwoSided()} (not adjusted). */
+        @Override
+        public double pValue() {
+            return pTwoSided;
+        }
+
+        @Override
+        public String method() {
+            return "conditional permutation, two-sided (not adjusted for multiple testing)";
+        }
     }
 
     /**

@@ -1,6 +1,7 @@
 package io.densa.spatial.autocorrelation;
 
 import io.densa.core.DensitySet;
+import io.densa.core.TestResult;
 import io.densa.spatial.SpatialWeights;
 import io.densa.spatial.internal.Scaling;
 import java.util.List;
@@ -61,7 +62,7 @@ public final class MoranI {
      */
     public record Result(double statistic, int units, List<Integer> excludedUnits, double s0, double s1, double s2,
             double kurtosis, AutocorrelationMoments normality, AutocorrelationMoments randomisation,
-            Optional<AutocorrelationPermutation> permutation) {
+            Optional<AutocorrelationPermutation> permutation) implements GlobalTestResult {
     }
 
     /**
@@ -74,7 +75,24 @@ public final class MoranI {
      * @param permutation   permutation test, present when permutations were requested
      */
     public record DensityResult(double statistic, int units, List<Integer> excludedUnits, double expectation,
-            Optional<AutocorrelationPermutation> permutation) {
+            Optional<AutocorrelationPermutation> permutation) implements TestResult {
+        /**
+         * The two-sided permutation p-value (Moran's I of densities is tested by permutation only).
+         *
+         * @throws IllegalStateException if no permutations were requested
+         */
+        @Override
+        public double pValue() {
+            return permutation.orElseThrow(() -> new IllegalStateException("Moran's I of densities has a p-value"
+                    + " only from a permutation test; request one with AutocorrelationOptions.withPermutations"))
+                    .pTwoSided();
+        }
+
+        @Override
+        public String method() {
+            return permutation.isPresent() ? AutocorrelationSupport.method(permutation)
+                    : "none (no permutations requested)";
+        }
     }
 
     /**
@@ -110,44 +128,42 @@ public final class MoranI {
      *                                      weights such as every pair linked equally)
      */
     public static Result test(SpatialWeights weights, double[] values, AutocorrelationOptions options) {
-        Objects.requireNonNull(options, "options");
-        AutocorrelationSupport.ScalarField f = AutocorrelationSupport.scalarField(weights, values,
-                options.islandPolicy(), 4, "the Moran's I test");
-        SpatialWeights w = f.weights();
-        double[] z = f.z();
-        double m2 = f.sumSq();
-        double stat = statistic(w, z, m2);
-        int n = f.size();
-        double s0 = w.s0(), s1 = w.s1(), s2 = w.s2(); // of the normalised weights (scale-free formulas)
-        double b2 = f.kurtosis();
-        double nn = n;
-        double e = -1.0 / (nn - 1);
-        double s02 = s0 * s0;
-        double varN = (nn * nn * s1 - nn * s2 + 3 * s02) / ((nn * nn - 1) * s02) - e * e;
-        double varR = (nn * ((nn * nn - 3 * nn + 3) * s1 - nn * s2 + 3 * s02)
-                - b2 * ((nn * nn - nn) * s1 - 2 * nn * s2 + 6 * s02))
-                / ((nn - 1) * (nn - 2) * (nn - 3) * s02) - e * e;
-        AutocorrelationMoments normal = AutocorrelationSupport.moments(stat, e, varN, "Moran's I", "normality", n);
-        AutocorrelationMoments random = AutocorrelationSupport.moments(stat, e, varR, "Moran's I", "randomisation",
-                n);
-        int[] rs = w.rowStarts();
-        int[] cs = w.columnIndices();
-        double[] vs = w.linkWeights();
-        double scale = n / (s0 * m2);
-        Optional<AutocorrelationPermutation> perm = AutocorrelationSupport.permutationTest(f, options, stat, e,
-                "Moran's I", pi -> {
-            double s = 0;
-            for (int i = 0; i < n; i++) {
-                double lag = 0;
-                for (int q = rs[i]; q < rs[i + 1]; q++) {
-                    lag += vs[q] * z[pi[cs[q]]];
+        AutocorrelationSupport.GlobalTest t = AutocorrelationSupport.globalTest(weights, values, options, "Moran's I",
+                f -> {
+            SpatialWeights w = f.weights();
+            double[] z = f.z();
+            double m2 = f.sumSq();
+            double stat = statistic(w, z, m2);
+            int n = f.size();
+            double s0 = w.s0(), s1 = w.s1(), s2 = w.s2(); // of the normalised weights (scale-free formulas)
+            double b2 = f.kurtosis();
+            double nn = n;
+            double e = -1.0 / (nn - 1);
+            double s02 = s0 * s0;
+            double varN = (nn * nn * s1 - nn * s2 + 3 * s02) / ((nn * nn - 1) * s02) - e * e;
+            double varR = (nn * ((nn * nn - 3 * nn + 3) * s1 - nn * s2 + 3 * s02)
+                    - b2 * ((nn * nn - nn) * s1 - 2 * nn * s2 + 6 * s02))
+                    / ((nn - 1) * (nn - 2) * (nn - 3) * s02) - e * e;
+            int[] rs = w.rowStarts();
+            int[] cs = w.columnIndices();
+            double[] vs = w.linkWeights();
+            double scale = n / (s0 * m2);
+            return new AutocorrelationSupport.GlobalStatistic(stat, e, varN, varR, pi -> {
+                double s = 0;
+                for (int i = 0; i < n; i++) {
+                    double lag = 0;
+                    for (int q = rs[i]; q < rs[i + 1]; q++) {
+                        lag += vs[q] * z[pi[cs[q]]];
+                    }
+                    s += z[pi[i]] * lag;
                 }
-                s += z[pi[i]] * lag;
-            }
-            return scale * s;
+                return scale * s;
+            });
         });
+        AutocorrelationSupport.ScalarField f = t.field();
         SpatialWeights ow = f.original();
-        return new Result(stat, n, f.excluded(), ow.s0(), ow.s1(), ow.s2(), b2, normal, random, perm);
+        return new Result(t.statistic(), f.size(), f.excluded(), ow.s0(), ow.s1(), ow.s2(), f.kurtosis(),
+                t.normality(), t.randomisation(), t.permutation());
     }
 
     /** (n/S0) Σ w_ij z_i z_j / Σ z². */

@@ -1,6 +1,6 @@
 /**
  * Kernels shared by the spatial packages: great-circle distances from chords, overflow-free
- * norms and scale factors. Internal: not exported outside the Densa modules; may change without
+ * norms and scale factors, neighbour candidates ordered by distance. Internal: not exported outside the Densa modules; may change without
  * notice.
  */
 package io.densa.spatial.internal;

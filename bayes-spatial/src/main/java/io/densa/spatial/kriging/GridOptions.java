@@ -1,8 +1,8 @@
 package io.densa.spatial.kriging;
 
 import io.densa.core.ProgressListener;
+import io.densa.core.internal.RecordArrays;
 import java.util.ArrayList;
-import java.util.Collections;
 import java.util.List;
 import java.util.Objects;
 import java.util.function.ToDoubleFunction;
@@ -16,79 +16,82 @@ import java.util.function.ToDoubleFunction;
  *
  * <p>Defaults: tiles of 64 × 64 cells, variance on, no derived quantities, no nearest-station
  * distances, parallel, no progress reports ({@link ProgressListener#NONE}).
+ *
+ * <p>A record: the canonical constructor checks every component (as the with-methods do) and copies
+ * the arrays and the list; the array accessors return copies.
+ *
+ * @param tileSize         tile edge in cells, in [1, 1024]
+ * @param variance         whether to compute the kriging variance per cell
+ * @param thresholds       thresholds t of the tail probabilities P(X &gt; t) per cell (finite)
+ * @param probabilities    probabilities in (0, 1) of the quantiles per cell
+ * @param means            whether to compute the mean of each predicted density
+ * @param functions        caller functions of the predicted coordinates (thread-safe)
+ * @param parallel         whether tiles are computed on the common ForkJoin pool
+ * @param listener         the progress listener
+ * @param nearestDistances whether to report each cell's distance to the nearest data location
  */
-public final class GridOptions {
-    private final int tileSize;
-    private final boolean variance;
-    private final double[] thresholds;
-    private final double[] probabilities;
-    private final boolean means;
-    private final List<ToDoubleFunction<double[]>> functions;
-    private final boolean parallel;
-    private final ProgressListener listener;
-    private final boolean nearest;
+public record GridOptions(int tileSize, boolean variance, double[] thresholds, double[] probabilities, boolean means,
+        List<ToDoubleFunction<double[]>> functions, boolean parallel, ProgressListener listener,
+        boolean nearestDistances) {
 
-    private GridOptions(int tileSize, boolean variance, double[] thresholds, double[] probabilities, boolean means,
-            List<ToDoubleFunction<double[]>> functions, boolean parallel, ProgressListener listener) {
-        this(tileSize, variance, thresholds, probabilities, means, functions, parallel, listener, false);
-    }
-
-    private GridOptions(int tileSize, boolean variance, double[] thresholds, double[] probabilities, boolean means,
-            List<ToDoubleFunction<double[]>> functions, boolean parallel, ProgressListener listener, boolean nearest) {
-        this.nearest = nearest;
-        this.tileSize = tileSize;
-        this.variance = variance;
-        this.thresholds = thresholds;
-        this.probabilities = probabilities;
-        this.means = means;
-        this.functions = functions;
-        this.parallel = parallel;
-        this.listener = listener;
+    /** Checks every component and copies the arrays and the list (the caller keeps its own). */
+    public GridOptions {
+        if (tileSize < 1 || tileSize > 1024) {
+            throw new IllegalArgumentException("tile size must be in [1, 1024], got " + tileSize);
+        }
+        Objects.requireNonNull(thresholds, "thresholds");
+        for (int i = 0; i < thresholds.length; i++) {
+            if (!Double.isFinite(thresholds[i])) {
+                throw new IllegalArgumentException("threshold " + i + " is not finite: " + thresholds[i]);
+            }
+        }
+        Objects.requireNonNull(probabilities, "probabilities");
+        for (int i = 0; i < probabilities.length; i++) {
+            if (!(probabilities[i] > 0 && probabilities[i] < 1)) {
+                throw new IllegalArgumentException("quantile probability " + i + " must be in (0, 1), got "
+                        + probabilities[i]);
+            }
+        }
+        thresholds = thresholds.clone();
+        probabilities = probabilities.clone();
+        functions = List.copyOf(Objects.requireNonNull(functions, "functions"));
+        Objects.requireNonNull(listener, "listener");
     }
 
     /** The defaults described above. */
     public static GridOptions withDefaults() {
-        return new GridOptions(64, true, new double[0], new double[0], false, List.of(), true, ProgressListener.NONE);
+        return new GridOptions(64, true, new double[0], new double[0], false, List.of(), true, ProgressListener.NONE,
+                false);
     }
 
     /** Tile edge in cells (tiles are tileSize × tileSize), in [1, 1024]. */
     public GridOptions withTileSize(int cells) {
-        if (cells < 1 || cells > 1024) {
-            throw new IllegalArgumentException("tile size must be in [1, 1024], got " + cells);
-        }
-        return new GridOptions(cells, variance, thresholds, probabilities, means, functions, parallel, listener, nearest);
+        return new GridOptions(cells, variance, thresholds, probabilities, means, functions, parallel, listener,
+                nearestDistances);
     }
 
     /** Whether to compute the kriging variance per cell. */
     public GridOptions withVariance(boolean v) {
-        return new GridOptions(tileSize, v, thresholds, probabilities, means, functions, parallel, listener, nearest);
+        return new GridOptions(tileSize, v, thresholds, probabilities, means, functions, parallel, listener,
+                nearestDistances);
     }
 
     /** Tail probabilities P(X &gt; t) per cell for each threshold t (finite). */
     public GridOptions withTailProbabilities(double... t) {
-        Objects.requireNonNull(t, "thresholds");
-        for (int i = 0; i < t.length; i++) {
-            if (!Double.isFinite(t[i])) {
-                throw new IllegalArgumentException("threshold " + i + " is not finite: " + t[i]);
-            }
-        }
-        return new GridOptions(tileSize, variance, t.clone(), probabilities, means, functions, parallel, listener, nearest);
+        return new GridOptions(tileSize, variance, t, probabilities, means, functions, parallel, listener,
+                nearestDistances);
     }
 
     /** Quantiles per cell for each probability in (0, 1). */
     public GridOptions withQuantiles(double... probs) {
-        Objects.requireNonNull(probs, "probabilities");
-        for (int i = 0; i < probs.length; i++) {
-            if (!(probs[i] > 0 && probs[i] < 1)) {
-                throw new IllegalArgumentException("quantile probability " + i + " must be in (0, 1), got " + probs[i]);
-            }
-        }
-        return new GridOptions(tileSize, variance, thresholds, probs.clone(), means, functions, parallel, listener, nearest);
+        return new GridOptions(tileSize, variance, thresholds, probs, means, functions, parallel, listener,
+                nearestDistances);
     }
 
     /** Whether to compute the mean E[X] of each predicted density. */
     public GridOptions withMeans(boolean m) {
-        return new GridOptions(tileSize, variance, thresholds, probabilities, m, functions, parallel, listener, nearest);
+        return new GridOptions(tileSize, variance, thresholds, probabilities, m, functions, parallel, listener,
+                nearestDistances);
     }
 
     /**
@@ -99,13 +102,14 @@ public final class GridOptions {
         Objects.requireNonNull(f, "function");
         List<ToDoubleFunction<double[]>> l = new ArrayList<>(functions);
         l.add(f);
-        return new GridOptions(tileSize, variance, thresholds, probabilities, means, Collections.unmodifiableList(l),
-                parallel, listener, nearest);
+        return new GridOptions(tileSize, variance, thresholds, probabilities, means, l, parallel, listener,
+                nearestDistances);
     }
 
     /** Whether tiles are computed on the common ForkJoin pool (results are identical either way). */
     public GridOptions withParallel(boolean p) {
-        return new GridOptions(tileSize, variance, thresholds, probabilities, means, functions, p, listener, nearest);
+        return new GridOptions(tileSize, variance, thresholds, probabilities, means, functions, p, listener,
+                nearestDistances);
     }
 
     /**
@@ -119,7 +123,7 @@ public final class GridOptions {
      */
     public GridOptions withProgressListener(ProgressListener l) {
         return new GridOptions(tileSize, variance, thresholds, probabilities, means, functions, parallel,
-                Objects.requireNonNull(l, "listener"), nearest);
+                Objects.requireNonNull(l, "listener"), nearestDistances);
     }
 
     /**
@@ -131,47 +135,40 @@ public final class GridOptions {
         return new GridOptions(tileSize, variance, thresholds, probabilities, means, functions, parallel, listener, n);
     }
 
-    boolean nearestDistances() {
-        return nearest;
+    /** The thresholds of the tail probabilities (a copy). */
+    @Override
+    public double[] thresholds() {
+        return thresholds.clone();
     }
 
-    int tileSize() {
-        return tileSize;
+    /** The probabilities of the quantiles (a copy). */
+    @Override
+    public double[] probabilities() {
+        return probabilities.clone();
     }
 
-    boolean variance() {
-        return variance;
+    private Object[] parts() {
+        return new Object[] {tileSize, variance, thresholds, probabilities, means, functions, parallel, listener,
+            nearestDistances};
     }
 
-    double[] thresholds() {
-        return thresholds;
+    /** Equality by content of every component (arrays element by element). */
+    @Override
+    public boolean equals(Object o) {
+        return o instanceof GridOptions other && RecordArrays.equal(parts(), other.parts());
     }
 
-    double[] probabilities() {
-        return probabilities;
-    }
-
-    boolean means() {
-        return means;
-    }
-
-    List<ToDoubleFunction<double[]>> functions() {
-        return functions;
-    }
-
-    boolean parallel() {
-        return parallel;
-    }
-
-    ProgressListener listener() {
-        return listener;
+    /** Hash of the content of every component. */
+    @Override
+    public int hashCode() {
+        return RecordArrays.hash(parts());
     }
 
     @Override
     public String toString() {
         return "GridOptions[tileSize=" + tileSize + ", variance=" + variance + ", thresholds="
                 + java.util.Arrays.toString(thresholds) + ", probabilities=" + java.util.Arrays.toString(probabilities)
-                + ", means=" + means + ", functions=" + functions.size() + ", nearestDistances=" + nearest
+                + ", means=" + means + ", functions=" + functions.size() + ", nearestDistances=" + nearestDistances
                 + ", parallel=" + parallel + "]";
     }
 }

@@ -486,7 +486,7 @@ public final class Kriging {
 
     /**
      * Leave-one-out cross-validation: the fast formulas of Dubrule (1983) for the global
-     * neighbourhood ({@link #leaveOneOutFast()}), refitting per location otherwise.
+     * neighbourhood ({@link LeaveOneOut#fast}), refitting per location otherwise.
      */
     public CrossValidation crossValidate() {
         return crossValidate(ProgressListener.NONE);
@@ -502,24 +502,6 @@ public final class Kriging {
      */
     public CrossValidation crossValidate(ProgressListener listener) {
         return LeaveOneOut.crossValidate(this, listener);
-    }
-
-    /**
-     * Fast leave-one-out for the global neighbourhood (see {@link LeaveOneOut#fast}); package-private:
-     * {@link #crossValidate()} chooses it for the global neighbourhood.
-     *
-     * @throws IllegalArgumentException if the neighbourhood is not global
-     */
-    CrossValidation leaveOneOutFast() {
-        return LeaveOneOut.fast(this);
-    }
-
-    /**
-     * Leave-one-out by refitting for each location (see {@link LeaveOneOut#bruteForce}); package-private:
-     * {@link #crossValidate()} chooses it for local neighbourhoods.
-     */
-    CrossValidation leaveOneOutBruteForce() {
-        return LeaveOneOut.bruteForce(this, new ProgressCounter(ProgressListener.NONE, "cross-validation", n));
     }
 
     /**

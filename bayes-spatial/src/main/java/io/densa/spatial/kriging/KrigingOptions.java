@@ -1,5 +1,6 @@
 package io.densa.spatial.kriging;
 
+import io.densa.core.internal.RecordArrays;
 import java.util.Objects;
 
 /**
@@ -16,21 +17,39 @@ import java.util.Objects;
  *
  * <p>Defaults: global neighbourhood, no error variances, coincident locations rejected,
  * condition limit 10¹², parallel.
+ *
+ * <p>A record: the canonical constructor checks every component (as the with-methods do) and copies
+ * the error variances; equality is by content.
+ *
+ * @param neighbourhood    the neighbourhood
+ * @param errorVariances   known measurement-error variances v_i &gt;= 0, one per data location, or
+ *                         null for none
+ * @param coincidentNugget variance added to every diagonal entry to accept coincident locations
+ *                         (0 rejects them)
+ * @param conditionLimit   largest accepted condition estimate of a kriging system (&gt; 1)
+ * @param parallel         whether batch work uses the common ForkJoin pool
  */
-public final class KrigingOptions {
-    private final Neighbourhood neighbourhood;
-    private final double[] errorVariances;
-    private final double coincidentNugget;
-    private final double conditionLimit;
-    private final boolean parallel;
+public record KrigingOptions(Neighbourhood neighbourhood, double[] errorVariances, double coincidentNugget,
+        double conditionLimit, boolean parallel) {
 
-    private KrigingOptions(Neighbourhood neighbourhood, double[] errorVariances, double coincidentNugget,
-            double conditionLimit, boolean parallel) {
-        this.neighbourhood = neighbourhood;
-        this.errorVariances = errorVariances;
-        this.coincidentNugget = coincidentNugget;
-        this.conditionLimit = conditionLimit;
-        this.parallel = parallel;
+    /** Checks every component and copies the error variances (the caller keeps its array). */
+    public KrigingOptions {
+        Objects.requireNonNull(neighbourhood, "neighbourhood");
+        if (errorVariances != null) {
+            for (int i = 0; i < errorVariances.length; i++) {
+                if (!(errorVariances[i] >= 0) || Double.isInfinite(errorVariances[i])) {
+                    throw new IllegalArgumentException("error variance at location " + i
+                            + " must be finite and >= 0, got " + errorVariances[i]);
+                }
+            }
+            errorVariances = errorVariances.clone();
+        }
+        if (!(coincidentNugget >= 0) || Double.isInfinite(coincidentNugget)) {
+            throw new IllegalArgumentException("coincident nugget must be finite and >= 0, got " + coincidentNugget);
+        }
+        if (!(conditionLimit > 1)) {
+            throw new IllegalArgumentException("condition limit must be > 1, got " + conditionLimit);
+        }
     }
 
     /** The defaults described above. */
@@ -40,7 +59,6 @@ public final class KrigingOptions {
 
     /** The neighbourhood. */
     public KrigingOptions withNeighbourhood(Neighbourhood n) {
-        Objects.requireNonNull(n, "neighbourhood");
         return new KrigingOptions(n, errorVariances, coincidentNugget, conditionLimit, parallel);
     }
 
@@ -50,13 +68,7 @@ public final class KrigingOptions {
      */
     public KrigingOptions withErrorVariances(double... variances) {
         Objects.requireNonNull(variances, "variances");
-        for (int i = 0; i < variances.length; i++) {
-            if (!(variances[i] >= 0) || Double.isInfinite(variances[i])) {
-                throw new IllegalArgumentException("error variance at location " + i + " must be finite and >= 0, got "
-                        + variances[i]);
-            }
-        }
-        return new KrigingOptions(neighbourhood, variances.clone(), coincidentNugget, conditionLimit, parallel);
+        return new KrigingOptions(neighbourhood, variances, coincidentNugget, conditionLimit, parallel);
     }
 
     /**
@@ -64,17 +76,11 @@ public final class KrigingOptions {
      * a measurement-error variance common to all data); 0 (the default) rejects them.
      */
     public KrigingOptions withCoincidentNugget(double variance) {
-        if (!(variance >= 0) || Double.isInfinite(variance)) {
-            throw new IllegalArgumentException("coincident nugget must be finite and >= 0, got " + variance);
-        }
         return new KrigingOptions(neighbourhood, errorVariances, variance, conditionLimit, parallel);
     }
 
     /** Largest accepted condition estimate of a kriging system (&gt; 1). */
     public KrigingOptions withConditionLimit(double limit) {
-        if (!(limit > 1)) {
-            throw new IllegalArgumentException("condition limit must be > 1, got " + limit);
-        }
         return new KrigingOptions(neighbourhood, errorVariances, coincidentNugget, limit, parallel);
     }
 
@@ -83,29 +89,10 @@ public final class KrigingOptions {
         return new KrigingOptions(neighbourhood, errorVariances, coincidentNugget, conditionLimit, p);
     }
 
-    /** The neighbourhood. */
-    public Neighbourhood neighbourhood() {
-        return neighbourhood;
-    }
-
     /** Error variances (copy) or null. */
+    @Override
     public double[] errorVariances() {
         return errorVariances == null ? null : errorVariances.clone();
-    }
-
-    /** The coincident-location nugget. */
-    public double coincidentNugget() {
-        return coincidentNugget;
-    }
-
-    /** The condition limit. */
-    public double conditionLimit() {
-        return conditionLimit;
-    }
-
-    /** Whether parallel. */
-    public boolean parallel() {
-        return parallel;
     }
 
     /**
@@ -131,6 +118,22 @@ public final class KrigingOptions {
             }
         }
         return diagExtraRaw;
+    }
+
+    private Object[] parts() {
+        return new Object[] {neighbourhood, errorVariances, coincidentNugget, conditionLimit, parallel};
+    }
+
+    /** Equality by content of every component (the error variances element by element). */
+    @Override
+    public boolean equals(Object o) {
+        return o instanceof KrigingOptions other && RecordArrays.equal(parts(), other.parts());
+    }
+
+    /** Hash of the content of every component. */
+    @Override
+    public int hashCode() {
+        return RecordArrays.hash(parts());
     }
 
     @Override

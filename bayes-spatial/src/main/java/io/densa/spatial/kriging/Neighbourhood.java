@@ -120,6 +120,18 @@ public final class Neighbourhood {
         return nb;
     }
 
+    /** Equal when of the same kind with the same count and radius. */
+    @Override
+    public boolean equals(Object o) {
+        return o instanceof Neighbourhood other && kind == other.kind && count == other.count
+                && Double.compare(radius, other.radius) == 0;
+    }
+
+    @Override
+    public int hashCode() {
+        return 31 * (31 * kind.hashCode() + count) + Double.hashCode(radius);
+    }
+
     @Override
     public String toString() {
         return kind == Kind.GLOBAL ? "Neighbourhood[global]" : kind == Kind.NEAREST ? "Neighbourhood[nearest " + count

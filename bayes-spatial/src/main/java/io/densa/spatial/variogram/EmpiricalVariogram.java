@@ -62,13 +62,18 @@ public final class EmpiricalVariogram {
      *                                  or directions are requested for geographic locations
      */
     public static EmpiricalVariogram of(Locations locations, DensitySet densities, VariogramOptions options) {
+        checkSizes(locations, densities);
+        return of(locations, densities.coordinatesRowMajor(), densities.dimension(), options);
+    }
+
+    /** Checks that there is one density per location (neither null). */
+    static void checkSizes(Locations locations, DensitySet densities) {
         Objects.requireNonNull(densities, "densities");
         Objects.requireNonNull(locations, "locations");
         if (locations.size() != densities.size()) {
             throw new IllegalArgumentException("locations (" + locations.size() + ") and densities ("
                     + densities.size() + ") differ in number");
         }
-        return of(locations, densities.coordinatesRowMajor(), densities.dimension(), options);
     }
 
     /** The same from a row-major n × k coordinate array (not modified). */

@@ -10,8 +10,19 @@ import java.util.Objects;
  * 10⁻³ × the largest bin lag up to 3 × that lag, an upper bound that is widened while the fit ends
  * on it (up to 1000 ×; see {@link VariogramFitting}), power exponent in [0.01, 1.99], 4000
  * evaluations per optimiser run. Bounds set with {@link #withRangeBounds} are kept as given.
+ *
+ * <p>A record: the canonical constructor checks every component as the with-methods do.
+ *
+ * @param family         the family of the single structure to fit (not NUGGET)
+ * @param nugget         whether a nugget is fitted
+ * @param method         the criterion
+ * @param smoothness     the fixed Matérn smoothness ν in (0, 50]
+ * @param minRange       lower bound of the range parameter, or NaN (with maxRange) for the default
+ * @param maxRange       upper bound of the range parameter, or NaN (with minRange) for the default
+ * @param maxEvaluations the evaluation budget of each optimiser run (≥ 100)
  */
-public final class VariogramFitOptions {
+public record VariogramFitOptions(VariogramModel.Family family, boolean nugget, VariogramFitOptions.Method method,
+        double smoothness, double minRange, double maxRange, int maxEvaluations) {
     /** The fit criterion. */
     public enum Method {
         /**
@@ -23,23 +34,24 @@ public final class VariogramFitOptions {
         ORDINARY
     }
 
-    private final VariogramModel.Family family;
-    private final boolean nugget;
-    private final Method method;
-    private final double smoothness;
-    private final double minRange;
-    private final double maxRange;
-    private final int maxEvaluations;
-
-    private VariogramFitOptions(VariogramModel.Family family, boolean nugget, Method method, double smoothness,
-            double minRange, double maxRange, int maxEvaluations) {
-        this.family = family;
-        this.nugget = nugget;
-        this.method = method;
-        this.smoothness = smoothness;
-        this.minRange = minRange;
-        this.maxRange = maxRange;
-        this.maxEvaluations = maxEvaluations;
+    /** Checks every component. */
+    public VariogramFitOptions {
+        Objects.requireNonNull(family, "family");
+        if (family == VariogramModel.Family.NUGGET) {
+            throw new IllegalArgumentException("fit a structured family; the nugget is controlled by withNugget");
+        }
+        Objects.requireNonNull(method, "method");
+        if (!(smoothness > 0 && smoothness <= 50)) {
+            throw new IllegalArgumentException("Matern smoothness must be in (0, 50], got " + smoothness);
+        }
+        boolean unset = Double.isNaN(minRange) && Double.isNaN(maxRange);
+        if (!unset && (!(minRange > 0) || !(maxRange > minRange) || Double.isInfinite(maxRange))) {
+            throw new IllegalArgumentException("range bounds must satisfy 0 < min < max < inf, got [" + minRange
+                    + ", " + maxRange + "]");
+        }
+        if (maxEvaluations < 100) {
+            throw new IllegalArgumentException("evaluation budget must be >= 100, got " + maxEvaluations);
+        }
     }
 
     /** The defaults described above. */
@@ -50,10 +62,6 @@ public final class VariogramFitOptions {
 
     /** The family of the single structure to fit (not NUGGET). */
     public VariogramFitOptions withFamily(VariogramModel.Family f) {
-        Objects.requireNonNull(f, "family");
-        if (f == VariogramModel.Family.NUGGET) {
-            throw new IllegalArgumentException("fit a structured family; the nugget is controlled by withNugget");
-        }
         return new VariogramFitOptions(f, nugget, method, smoothness, minRange, maxRange, maxEvaluations);
     }
 
@@ -64,15 +72,11 @@ public final class VariogramFitOptions {
 
     /** The criterion. */
     public VariogramFitOptions withMethod(Method m) {
-        Objects.requireNonNull(m, "method");
         return new VariogramFitOptions(family, nugget, m, smoothness, minRange, maxRange, maxEvaluations);
     }
 
     /** The fixed Matérn smoothness ν in (0, 50]. */
     public VariogramFitOptions withSmoothness(double nu) {
-        if (!(nu > 0 && nu <= 50)) {
-            throw new IllegalArgumentException("Matern smoothness must be in (0, 50], got " + nu);
-        }
         return new VariogramFitOptions(family, nugget, method, nu, minRange, maxRange, maxEvaluations);
     }
 
@@ -82,7 +86,7 @@ public final class VariogramFitOptions {
      * warning.
      */
     public VariogramFitOptions withRangeBounds(double min, double max) {
-        if (!(min > 0) || !(max > min) || Double.isInfinite(max)) {
+        if (Double.isNaN(min) || Double.isNaN(max)) {
             throw new IllegalArgumentException("range bounds must satisfy 0 < min < max < inf, got [" + min + ", "
                     + max + "]");
         }
@@ -91,42 +95,7 @@ public final class VariogramFitOptions {
 
     /** The evaluation budget of each optimiser run (≥ 100). */
     public VariogramFitOptions withMaxEvaluations(int count) {
-        if (count < 100) {
-            throw new IllegalArgumentException("evaluation budget must be >= 100, got " + count);
-        }
         return new VariogramFitOptions(family, nugget, method, smoothness, minRange, maxRange, count);
-    }
-
-    /** The family. */
-    public VariogramModel.Family family() {
-        return family;
-    }
-
-    /** Whether a nugget is fitted. */
-    public boolean nugget() {
-        return nugget;
-    }
-
-    /** The criterion. */
-    public Method method() {
-        return method;
-    }
-
-    /** The Matérn smoothness. */
-    public double smoothness() {
-        return smoothness;
-    }
-
-    double minRange() {
-        return minRange;
-    }
-
-    double maxRange() {
-        return maxRange;
-    }
-
-    int maxEvaluations() {
-        return maxEvaluations;
     }
 
     @Override

@@ -1,7 +1,6 @@
 package io.densa.spatial.variogram;
 
 import io.densa.core.DensaException;
-import io.densa.core.NumericalDiagnostics;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
@@ -163,7 +162,7 @@ public final class VariogramFitting {
         double startVal = pr.criterion(pr.model(start));
         if (!Double.isFinite(startVal)) {
             throw new DensaException("variogram fit criterion is not finite at the starting values",
-                    new FitStart(fam, c, a, c0));
+                    new VariogramFitDiagnostics(fam, c, a, c0));
         }
         pr.normaliseBy(startVal);
         double[][] box = pr.bounds(rlo, rhi, cHi);
@@ -189,7 +188,7 @@ public final class VariogramFitting {
         VariogramModel m = pr.model(best.x);
         double crit = pr.criterion(m);
         if (!Double.isFinite(crit)) {
-            throw new DensaException("variogram fit found no finite criterion value", new FitStart(fam, c, a, c0));
+            throw new DensaException("variogram fit found no finite criterion value", new VariogramFitDiagnostics(fam, c, a, c0));
         }
         double[] par = pr.fromX(best.x);
         double[] fitted = new double[lag.length];
@@ -258,7 +257,7 @@ public final class VariogramFitting {
         if (!Double.isFinite(rmse)) {
             throw new DensaException("the root mean squared difference between the fitted and the empirical"
                     + " semivariances (" + rmse + ") exceeds the double range; rescale the densities' coordinates",
-                    new FitStart(fam, par[0], par[1], nug ? par[2] : 0));
+                    new VariogramFitDiagnostics(fam, par[0], par[1], nug ? par[2] : 0));
         }
         return new VariogramFit(m, options.method(), crit, rmse, fitted, used,
                 pr.evaluations, best.converged, lowRange || highRange, hmax, warnings);
@@ -279,11 +278,6 @@ public final class VariogramFitting {
             out[i] = Math.min(box[1][i], Math.max(box[0][i], out[i]));
         }
         return out;
-    }
-
-    /** Starting point at which the criterion failed. */
-    record FitStart(VariogramModel.Family family, double partialSill, double range, double nugget)
-            implements NumericalDiagnostics {
     }
 
     /** One optimiser run: end point, criterion, whether it converged, the fallback reason if any. */

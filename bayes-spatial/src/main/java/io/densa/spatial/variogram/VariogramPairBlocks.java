@@ -43,10 +43,7 @@ public final class VariogramPairBlocks {
         Objects.requireNonNull(locations, "locations");
         Objects.requireNonNull(densities, "densities");
         Objects.requireNonNull(options, "options");
-        if (locations.size() != densities.size()) {
-            throw new IllegalArgumentException("locations (" + locations.size() + ") and densities ("
-                    + densities.size() + ") differ in number");
-        }
+        EmpiricalVariogram.checkSizes(locations, densities);
         if (options.cloudPairs() > 0) {
             throw new IllegalArgumentException("the variogram cloud is not computed by pair blocks; estimate it with"
                     + " EmpiricalVariogram.of on a sample of the locations, or drop VariogramOptions.withCloud");

@@ -2,6 +2,7 @@ package io.densa.spatial.autocorrelation;
 
 import static io.densa.spatial.Lattices.rookLattice;
 import static io.densa.spatial.Lattices.squareLattice;
+import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -125,7 +126,10 @@ class AutocorrelationInputTest {
                 () -> MoranI.test(SpatialWeights.fromMatrix(all), new double[] {1, 2, 3, 5, 8, 13}));
         assertTrue(e.getMessage().matches("the variance of Moran's I under normality is .* degenerate.*"),
                 e.getMessage());
-        assertTrue(e.diagnostics() != null);
+        AutocorrelationDiagnostics d = e.diagnostics(AutocorrelationDiagnostics.class).orElseThrow();
+        assertEquals("Moran's I", d.statistic());
+        assertEquals("normality", d.assumption());
+        assertEquals(n, d.units());
     }
 
     @Test

@@ -95,7 +95,7 @@ class BadInputTest {
         DensaException e = assertThrows(DensaException.class, () -> k.predict(0.5, 0.5));
         assertTrue(e.getMessage().matches("kriging .*of 6 locations is (ill-conditioned \\(condition estimate .*|not"
                 + " positive definite).*"), e.getMessage());
-        KrigingDiagnostics d = (KrigingDiagnostics) e.diagnostics();
+        KrigingDiagnostics d = e.diagnostics(KrigingDiagnostics.class).orElseThrow();
         assertEquals(6, d.systemSize());
         assertTrue(d.conditionEstimate() > 1e12, "condition " + d.conditionEstimate());
         Kriging radius = Kriging.ordinary(TestData.uniformSquare(6, 1, 5), data, model,

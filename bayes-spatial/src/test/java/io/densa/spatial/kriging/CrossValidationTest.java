@@ -4,6 +4,8 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 
 import io.densa.core.DensitySet;
+import io.densa.core.ProgressListener;
+import io.densa.core.internal.ProgressCounter;
 import io.densa.spatial.Locations;
 import io.densa.spatial.TestData;
 import io.densa.spatial.variogram.VariogramModel;
@@ -43,7 +45,8 @@ class CrossValidationTest {
             Kriging.universal(loc, data, Drift.polynomial(1), model, o),
             Kriging.universal(loc, data, Drift.polynomial(1).withCovariates(covariate()), model, o)};
         for (Kriging k : ks) {
-            assertSame(k.leaveOneOutFast(), k.leaveOneOutBruteForce());
+            assertSame(LeaveOneOut.fast(k), LeaveOneOut.bruteForce(k,
+                    new ProgressCounter(ProgressListener.NONE, "cross-validation", k.locations().size())));
         }
     }
 
@@ -71,7 +74,7 @@ class CrossValidationTest {
         }
         assertEquals(ms / 40, cv.meanSquaredError(), 1e-12);
         assertEquals(mn / 40, cv.meanError(), 1e-12);
-        IllegalArgumentException e = assertThrows(IllegalArgumentException.class, k::leaveOneOutFast);
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> LeaveOneOut.fast(k));
         org.junit.jupiter.api.Assertions.assertTrue(e.getMessage().contains("Neighbourhood.global()"), e.getMessage());
         List<CrossValidation> cmp = Kriging.compareModels(loc, data,
                 List.of(model, VariogramModel.exponential(1, 0.3)), KrigingOptions.withDefaults());

@@ -66,7 +66,7 @@ class KrigingEdgesTest {
                             + " weights satisfy the unbiasedness constraints F'lambda = f\\(s0\\) only to a relative"
                             + " residual of \\S+ \\(accepted: 1e-06; the weights should sum to 1\\)\\. The target is \\S+"
                             + " from the nearest data location, .*use a lower drift degree", ex);
-                    KrigingDiagnostics d = (KrigingDiagnostics) ex.diagnostics();
+                    KrigingDiagnostics d = ex.diagnostics(KrigingDiagnostics.class).orElseThrow();
                     assertTrue(d.detail().startsWith("unbiasedness constraint residual "), d.detail());
                     assertEquals(30, d.systemSize());
                 }
