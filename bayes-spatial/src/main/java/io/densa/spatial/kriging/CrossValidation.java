@@ -77,6 +77,18 @@ public record CrossValidation(double[][] errors, double[] errorNorms, double[] k
     }
 
     /**
+     * The summaries of leave-one-out errors (n × K coordinates) and kriging variances of data
+     * without measurement error; what any leave-one-out predictor of densities reports (the
+     * space–time kriging of {@code io.densa.spatial.spacetime} uses it too).
+     *
+     * @throws DensaException naming the location when an error is not finite or a summary exceeds
+     *                        the double range
+     */
+    public static CrossValidation of(double[][] errors, double[] variances) {
+        return of(errors, variances, new double[errors.length]);
+    }
+
+    /**
      * The summaries of leave-one-out errors and variances (variances in the data's units).
      *
      * @throws DensaException naming the location when an error is not finite, or when a summary

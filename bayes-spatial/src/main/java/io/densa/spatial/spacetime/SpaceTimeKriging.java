@@ -4,6 +4,7 @@ import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
 import io.densa.core.internal.Cholesky;
 import io.densa.spatial.Locations;
+import io.densa.spatial.kriging.CrossValidation;
 import java.util.Objects;
 import org.ejml.data.DMatrixRMaj;
 
@@ -264,7 +265,7 @@ public final class SpaceTimeKriging {
      * @throws DensaException           if a covariance matrix is not positive definite
      * @throws IllegalArgumentException with fewer than 2 observations
      */
-    public SpaceTimeCrossValidation crossValidate() {
+    public CrossValidation crossValidate() {
         if (n < 2) {
             throw new IllegalArgumentException("cross-validation needs at least 2 observations, got " + n);
         }
@@ -279,7 +280,7 @@ public final class SpaceTimeKriging {
                 }
                 var[i] = p.variance();
             }
-            return SpaceTimeCrossValidation.of(err, var);
+            return CrossValidation.of(err, var);
         }
         Global g = global();
         // diag(C⁻¹)_c = Σ_{i ≥ c} (L⁻¹)_ic², one column of L⁻¹ at a time (O(n³/6))
@@ -320,7 +321,7 @@ public final class SpaceTimeKriging {
                         new SpaceTimeDiagnostics("leave-one-out variance", i, var[i]));
             }
         }
-        return SpaceTimeCrossValidation.of(err, var);
+        return CrossValidation.of(err, var);
     }
 
     /** The data. */

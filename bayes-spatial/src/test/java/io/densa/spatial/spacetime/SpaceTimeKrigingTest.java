@@ -5,6 +5,7 @@ import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.DensaException;
+import io.densa.spatial.kriging.CrossValidation;
 import io.densa.spatial.kriging.Kriging;
 import io.densa.spatial.kriging.KrigingPrediction;
 import io.densa.spatial.variogram.VariogramModel;
@@ -114,8 +115,8 @@ class SpaceTimeKrigingTest {
         // by a neighbourhood of n − 1 observations that leaves the target out
         SpaceTimeModel g = SpaceTimeModel.gneiting(1.5, 0.4, 3, 0.6, 0.5, 1, 0.1);
         SpaceTimeData d = field(12, 6, g, 41);
-        SpaceTimeCrossValidation fast = SpaceTimeKriging.ordinary(d, g).crossValidate();
-        SpaceTimeCrossValidation slow = SpaceTimeKriging.ordinary(d, g, d.size() - 1).crossValidate();
+        CrossValidation fast = SpaceTimeKriging.ordinary(d, g).crossValidate();
+        CrossValidation slow = SpaceTimeKriging.ordinary(d, g, d.size() - 1).crossValidate();
         double[][] ef = fast.errors(), es = slow.errors();
         for (int i = 0; i < d.size(); i++) {
             assertSameCoordinates(es[i], ef[i], 1e-8, "observation " + i);
@@ -131,13 +132,13 @@ class SpaceTimeKrigingTest {
         // squared error is near 1: with K = 10 each term has variance about 2/K = 0.2, over 600
         // observations the mean's standard deviation is below 0.05 even with correlation: tolerance 0.15
         SpaceTimeData d = field(40, 15, SEPARABLE, 51);
-        SpaceTimeCrossValidation cv = SpaceTimeKriging.ordinary(d, SEPARABLE).crossValidate();
+        CrossValidation cv = SpaceTimeKriging.ordinary(d, SEPARABLE).crossValidate();
         assertEquals(1, cv.meanStandardisedSquaredError(), 0.15, cv.toString());
         // scaling every covariance by 2 leaves the weights, so the errors, unchanged and doubles every
         // variance: the standardised error halves (exact up to rounding)
         SpaceTimeModel doubled = SpaceTimeModel.separable(VariogramModel.exponential(3, 0.4),
                 VariogramModel.exponential(1, 5), 0.2);
-        SpaceTimeCrossValidation cv2 = SpaceTimeKriging.ordinary(d, doubled).crossValidate();
+        CrossValidation cv2 = SpaceTimeKriging.ordinary(d, doubled).crossValidate();
         assertEquals(cv.meanSquaredError(), cv2.meanSquaredError(), 1e-10 * cv.meanSquaredError());
         assertEquals(cv.meanStandardisedSquaredError() / 2, cv2.meanStandardisedSquaredError(), 1e-10);
         // a model with ten times too short ranges ignores useful neighbours: larger errors
