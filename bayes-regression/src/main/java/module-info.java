@@ -1,6 +1,7 @@
 /**
  * Densa regression: functional principal components, function-on-scalar and functional
- * regression, anomaly scoring ({@code io.densa.regression}).
+ * regression ({@code io.densa.regression}); anomaly scoring and excess counts
+ * ({@code io.densa.regression.surveillance}).
  */
 module io.densa.regression {
     requires transitive io.densa.core;
@@ -8,4 +9,5 @@ module io.densa.regression {
     requires ejml.ddense;
 
     exports io.densa.regression;
+    exports io.densa.regression.surveillance;
 }

@@ -9,7 +9,7 @@ import io.densa.core.estimate.SmoothingCriterion;
 import io.densa.core.estimate.SmoothingSplineEstimator;
 import io.densa.core.estimate.ZeroReplacement;
 import io.densa.core.estimate.ZeroTotalPolicy;
-import io.densa.regression.AnomalyScoring;
+import io.densa.regression.surveillance.AnomalyScoring;
 import io.densa.regression.Design;
 import io.densa.regression.Fpca;
 import io.densa.regression.FunctionOnFunctionFit;
