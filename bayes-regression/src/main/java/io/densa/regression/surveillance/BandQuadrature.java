@@ -97,6 +97,87 @@ final class BandQuadrature {
     }
 
     /**
+     * {@link #bandProbabilities(double[], double[])} of n draws at once: draw d has log-density
+     * values v_q = base_q + Σ_c f[c·nq + q] z[c·width + d] at the nodes (f: K rows of nq values),
+     * and its band probabilities go to out[t·width + d]. The arithmetic of each draw is that of the
+     * one-draw method in the same order, except the exponential: {@link #expBlock}, within 3·10⁻¹⁰
+     * relative of the exact one (band probabilities to the same relative accuracy); the loops run
+     * over the draws so that the JIT vectorises them. v, shift and total are work arrays of nq ·
+     * width, width and width values.
+     */
+    void bandProbabilities(double[] base, double[] f, int k, double[] z, int n, int width, double[] v, double[] shift,
+            double[] total, double[] out) {
+        int nq = x.length;
+        // node by node (its row stays in the first-level cache), the K terms in order
+        for (int q = 0; q < nq; q++) {
+            int o = q * width;
+            java.util.Arrays.fill(v, o, o + n, base[q]);
+            for (int c = 0; c < k; c++) {
+                double fq = f[c * nq + q];
+                int zo = c * width;
+                for (int d = 0; d < n; d++) {
+                    v[o + d] += fq * z[zo + d];
+                }
+            }
+        }
+        java.util.Arrays.fill(shift, 0, n, Double.NEGATIVE_INFINITY);
+        for (int q = 0; q < nq; q++) {
+            int o = q * width;
+            double lw = logWeight[q];
+            for (int d = 0; d < n; d++) {
+                double t = v[o + d] + lw;
+                v[o + d] = t;
+                shift[d] = t > shift[d] ? t : shift[d];
+            }
+        }
+        for (int q = 0; q < nq; q++) {
+            int o = q * width;
+            for (int d = 0; d < n; d++) {
+                v[o + d] = v[o + d] - shift[d];
+            }
+        }
+        int all = nq * width;
+        for (int i = 0; i < all; i++) {
+            v[i] = expBlock(v[i]);
+        }
+        java.util.Arrays.fill(out, 0, bands * width, 0.0);
+        java.util.Arrays.fill(total, 0, n, 0.0);
+        for (int q = 0; q < nq; q++) {
+            int o = q * width, bo = band[q] * width;
+            for (int d = 0; d < n; d++) {
+                double e = v[o + d];
+                out[bo + d] += e;
+                total[d] += e;
+            }
+        }
+        for (int t = 0; t < bands; t++) {
+            int bo = t * width;
+            for (int d = 0; d < n; d++) {
+                out[bo + d] /= total[d];
+            }
+        }
+    }
+
+    /**
+     * exp(y) for y ≤ 0 as P(y/64)^64, P the Taylor polynomial of degree 12 (relative error below
+     * 3·10⁻¹⁰ on [−45, 0]); arguments below −45 give e^−45 ≈ 2.9·10⁻²⁰, negligible against the
+     * largest term 1 of the sums that use it (at most 2·10⁻¹⁸ relative with 75 nodes). Branch-free
+     * and without integer conversions, so loops over it vectorise.
+     */
+    static double expBlock(double y) {
+        double s = Math.max(y, -45.0) * (1.0 / 64);
+        double p = 1 + s * (1 + s * (1.0 / 2 + s * (1.0 / 6 + s * (1.0 / 24 + s * (1.0 / 120 + s * (1.0 / 720
+                + s * (1.0 / 5040 + s * (1.0 / 40320 + s * (1.0 / 362880 + s * (1.0 / 3628800 + s * (1.0 / 39916800
+                + s * (1.0 / 479001600))))))))))));
+        p *= p;
+        p *= p;
+        p *= p;
+        p *= p;
+        p *= p;
+        return p * p;
+    }
+
+    /**
      * Band probabilities of the density with coordinates c: ∫_B f for each band (Lebesgue density
      * f = exp(clr) · reference density, normalised).
      *

@@ -50,38 +50,39 @@ final class BootstrapPlan {
         for (int t = 0; t < nb; t++) {
             poisson[t] = new CountSampling.Poisson(obs[t]);
         }
-        for (int r = 0; r < draws; r++) {
-            double[] piDraw = b.piHat;
-            if (sd > 0) {
-                for (int c = 0; c < k; c++) {
-                    b.z[c] = rng.nextGaussian() * sd;
-                }
-                System.arraycopy(b.base, 0, b.v, 0, nq);
-                for (int c = 0; c < k; c++) {
-                    double zc = b.z[c];
-                    int off = c * nq;
-                    for (int q = 0; q < nq; q++) {
-                        b.v[q] += phiF[off + q] * zc;
+        int width = b.width;
+        for (int r0 = 0; r0 < draws; r0 += width) {
+            int n = Math.min(width, draws - r0);
+            // the random numbers in the order of one draw after the other: K normals, then the bands' counts
+            for (int rr = 0; rr < n; rr++) {
+                if (sd > 0) {
+                    for (int c = 0; c < k; c++) {
+                        b.z[c * width + rr] = rng.nextGaussian() * sd;
                     }
                 }
-                quad.bandProbabilities(b.v, b.pi);
-                piDraw = b.pi;
+                for (int t = 0; t < nb; t++) {
+                    sample[t][r0 + rr] = poisson[t].sample(rng);
+                }
             }
-            double nStar = 0;
-            for (int t = 0; t < nb; t++) {
-                double o = poisson[t].sample(rng);
-                sample[t][r] = o;
-                nStar += o;
+            if (sd > 0) {
+                quad.bandProbabilities(b.base, phiF, k, b.z, n, width, b.v, b.shift, b.total, b.pi);
             }
-            double tStar = own ? nStar : denominator;
-            double displaced = 0;
-            for (int t = 0; t < nb; t++) {
-                double e = sample[t][r] - tStar * piDraw[t];
-                sample[t][r] = e;
-                displaced += Math.max(0, e);
+            for (int rr = 0; rr < n; rr++) {
+                int r = r0 + rr;
+                double nStar = 0;
+                for (int t = 0; t < nb; t++) {
+                    nStar += sample[t][r];
+                }
+                double tStar = own ? nStar : denominator;
+                double displaced = 0;
+                for (int t = 0; t < nb; t++) {
+                    double e = sample[t][r] - tStar * (sd > 0 ? b.pi[t * width + rr] : b.piHat[t]);
+                    sample[t][r] = e;
+                    displaced += Math.max(0, e);
+                }
+                sample[nb][r] = nStar - tStar;
+                sample[nb + 1][r] = displaced;
             }
-            sample[nb][r] = nStar - tStar;
-            sample[nb + 1][r] = displaced;
         }
         double[][] ends = new double[nb + 2][2];
         for (int t = 0; t < nb + 2; t++) {
@@ -173,21 +174,30 @@ final class BootstrapPlan {
         return x[j];
     }
 
+    /** Draws whose quadrature is evaluated together (node-major arrays of nodes × block values). */
+    static final int BLOCK = 256;
+
     /** Per-thread work arrays. */
     static final class Buffers {
+        final int width;
         final double[] base;
-        final double[] v;
+        final double[] piHat;
         final double[] z;
         final double[] pi;
-        final double[] piHat;
+        final double[] v;
+        final double[] shift;
+        final double[] total;
         final double[][] sample;
 
         Buffers(int nq, int k, int nb, int draws) {
+            width = Math.min(draws, BLOCK);
             base = new double[nq];
-            v = new double[nq];
-            z = new double[k];
-            pi = new double[nb];
             piHat = new double[nb];
+            z = new double[k * width];
+            pi = new double[nb * width];
+            v = new double[nq * width];
+            shift = new double[width];
+            total = new double[width];
             sample = new double[nb + 2][draws];
         }
     }
