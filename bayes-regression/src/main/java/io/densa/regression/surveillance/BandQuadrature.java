@@ -98,62 +98,57 @@ final class BandQuadrature {
 
     /**
      * {@link #bandProbabilities(double[], double[])} of n draws at once: draw d has log-density
-     * values v_q = base_q + Σ_c f[c·nq + q] z[c·width + d] at the nodes (f: K rows of nq values),
-     * and its band probabilities go to out[t·width + d]. The arithmetic of each draw is that of the
-     * one-draw method in the same order, except the exponential: {@link #expBlock}, within 3·10⁻¹⁰
-     * relative of the exact one (band probabilities to the same relative accuracy); the loops run
-     * over the draws so that the JIT vectorises them. v, shift and total are work arrays of nq ·
-     * width, width and width values.
+     * values v_q = base_q + Σ_c f[c·nq + q] z[c][d] at the nodes (f: K rows of nq values), and its
+     * band probabilities go to out[t][d]. The arithmetic of each draw is that of the one-draw
+     * method in the same order, except the exponential: {@link #expBlock}, within 3·10⁻¹⁰ relative
+     * of the exact one (band probabilities to the same relative accuracy). The work is node by
+     * node in loops over the draws, each over whole rows indexed from 0 (v[q][d], z[c][d]): JDK
+     * 17's vectoriser handles those, not loops whose arrays carry different offsets (measured
+     * about five times slower). v is nq rows, shift and total one row, of at least n values.
      */
-    void bandProbabilities(double[] base, double[] f, int k, double[] z, int n, int width, double[] v, double[] shift,
-            double[] total, double[] out) {
+    void bandProbabilities(double[] base, double[] f, int k, double[][] z, int n, double[][] v, double[] shift,
+            double[] total, double[][] out) {
         int nq = x.length;
-        // node by node (its row stays in the first-level cache), the K terms in order
-        for (int q = 0; q < nq; q++) {
-            int o = q * width;
-            java.util.Arrays.fill(v, o, o + n, base[q]);
-            for (int c = 0; c < k; c++) {
-                double fq = f[c * nq + q];
-                int zo = c * width;
-                for (int d = 0; d < n; d++) {
-                    v[o + d] += fq * z[zo + d];
-                }
-            }
-        }
         java.util.Arrays.fill(shift, 0, n, Double.NEGATIVE_INFINITY);
         for (int q = 0; q < nq; q++) {
-            int o = q * width;
+            double[] vq = v[q];
+            java.util.Arrays.fill(vq, 0, n, base[q]);
+            for (int c = 0; c < k; c++) {
+                double fq = f[c * nq + q];
+                double[] zc = z[c];
+                for (int d = 0; d < n; d++) {
+                    vq[d] += fq * zc[d];
+                }
+            }
             double lw = logWeight[q];
             for (int d = 0; d < n; d++) {
-                double t = v[o + d] + lw;
-                v[o + d] = t;
-                shift[d] = t > shift[d] ? t : shift[d];
+                vq[d] = vq[d] + lw;
             }
-        }
-        for (int q = 0; q < nq; q++) {
-            int o = q * width;
             for (int d = 0; d < n; d++) {
-                v[o + d] = v[o + d] - shift[d];
-            }
-        }
-        int all = nq * width;
-        for (int i = 0; i < all; i++) {
-            v[i] = expBlock(v[i]);
-        }
-        java.util.Arrays.fill(out, 0, bands * width, 0.0);
-        java.util.Arrays.fill(total, 0, n, 0.0);
-        for (int q = 0; q < nq; q++) {
-            int o = q * width, bo = band[q] * width;
-            for (int d = 0; d < n; d++) {
-                double e = v[o + d];
-                out[bo + d] += e;
-                total[d] += e;
+                shift[d] = vq[d] > shift[d] ? vq[d] : shift[d];
             }
         }
         for (int t = 0; t < bands; t++) {
-            int bo = t * width;
+            java.util.Arrays.fill(out[t], 0, n, 0.0);
+        }
+        java.util.Arrays.fill(total, 0, n, 0.0);
+        for (int q = 0; q < nq; q++) {
+            double[] vq = v[q];
+            double[] ob = out[band[q]];
             for (int d = 0; d < n; d++) {
-                out[bo + d] /= total[d];
+                vq[d] = expBlock(vq[d] - shift[d]);
+            }
+            for (int d = 0; d < n; d++) {
+                ob[d] += vq[d];
+            }
+            for (int d = 0; d < n; d++) {
+                total[d] += vq[d];
+            }
+        }
+        for (int t = 0; t < bands; t++) {
+            double[] ob = out[t];
+            for (int d = 0; d < n; d++) {
+                ob[d] /= total[d];
             }
         }
     }

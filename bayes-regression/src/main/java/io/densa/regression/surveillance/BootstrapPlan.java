@@ -57,7 +57,7 @@ final class BootstrapPlan {
             for (int rr = 0; rr < n; rr++) {
                 if (sd > 0) {
                     for (int c = 0; c < k; c++) {
-                        b.z[c * width + rr] = rng.nextGaussian() * sd;
+                        b.z[c][rr] = rng.nextGaussian() * sd;
                     }
                 }
                 for (int t = 0; t < nb; t++) {
@@ -65,7 +65,7 @@ final class BootstrapPlan {
                 }
             }
             if (sd > 0) {
-                quad.bandProbabilities(b.base, phiF, k, b.z, n, width, b.v, b.shift, b.total, b.pi);
+                quad.bandProbabilities(b.base, phiF, k, b.z, n, b.v, b.shift, b.total, b.pi);
             }
             for (int rr = 0; rr < n; rr++) {
                 int r = r0 + rr;
@@ -76,7 +76,7 @@ final class BootstrapPlan {
                 double tStar = own ? nStar : denominator;
                 double displaced = 0;
                 for (int t = 0; t < nb; t++) {
-                    double e = sample[t][r] - tStar * (sd > 0 ? b.pi[t * width + rr] : b.piHat[t]);
+                    double e = sample[t][r] - tStar * (sd > 0 ? b.pi[t][rr] : b.piHat[t]);
                     sample[t][r] = e;
                     displaced += Math.max(0, e);
                 }
@@ -174,7 +174,7 @@ final class BootstrapPlan {
         return x[j];
     }
 
-    /** Draws whose quadrature is evaluated together (node-major arrays of nodes × block values). */
+    /** Draws whose quadrature is evaluated together (one row of block values per node). */
     static final int BLOCK = 256;
 
     /** Per-thread work arrays. */
@@ -182,9 +182,9 @@ final class BootstrapPlan {
         final int width;
         final double[] base;
         final double[] piHat;
-        final double[] z;
-        final double[] pi;
-        final double[] v;
+        final double[][] z;
+        final double[][] pi;
+        final double[][] v;
         final double[] shift;
         final double[] total;
         final double[][] sample;
@@ -193,9 +193,9 @@ final class BootstrapPlan {
             width = Math.min(draws, BLOCK);
             base = new double[nq];
             piHat = new double[nb];
-            z = new double[k * width];
-            pi = new double[nb * width];
-            v = new double[nq * width];
+            z = new double[k][width];
+            pi = new double[nb][width];
+            v = new double[nq][width];
             shift = new double[width];
             total = new double[width];
             sample = new double[nb + 2][draws];

@@ -43,8 +43,8 @@ import org.ejml.interfaces.decomposition.EigenDecomposition_F64;
  * error below 1e-6 on the tests' truncated normal and bimodal spline densities). The draws'
  * quadratures run a block of draws at a time with a polynomial exponential (relative error below
  * 3·10⁻¹⁰, so band probabilities agree with the one-draw computation to 10⁻⁹ relative; tested),
- * in loops over the draws that the JIT vectorises; the random numbers are drawn in the order of
- * one draw after the other, as before.
+ * in loops over whole rows of draws that the JIT vectorises; the random numbers are drawn in the
+ * order of one draw after the other, as before.
  *
  * <p>Immutable and thread-safe. Inputs are not modified.
  */

@@ -252,13 +252,14 @@ class ExcessCountsTest {
                 base[q] += phi[q * k + c] * coords[c];
             }
         }
-        double[] z = new double[k * width];
-        for (int i = 0; i < z.length; i++) {
-            z[i] = rng.nextGaussian();
+        double[][] z = new double[k][width];
+        for (double[] row : z) {
+            for (int d = 0; d < width; d++) {
+                row[d] = rng.nextGaussian();
+            }
         }
-        double[] out = new double[nb * width];
-        quad.bandProbabilities(base, f, k, z, n, width, new double[nq * width], new double[width], new double[width],
-                out);
+        double[][] out = new double[nb][width];
+        quad.bandProbabilities(base, f, k, z, n, new double[nq][width], new double[width], new double[width], out);
         double[] v = new double[nq];
         double[] one = new double[nb];
         for (int d = 0; d < n; d++) {
@@ -267,12 +268,12 @@ class ExcessCountsTest {
             }
             for (int c = 0; c < k; c++) {
                 for (int q = 0; q < nq; q++) {
-                    v[q] += f[c * nq + q] * z[c * width + d];
+                    v[q] += f[c * nq + q] * z[c][d];
                 }
             }
             quad.bandProbabilities(v, one);
             for (int t = 0; t < nb; t++) {
-                assertEquals(one[t], out[t * width + d], 1e-9 * one[t] + 1e-300, "draw " + d + ", band " + t);
+                assertEquals(one[t], out[t][d], 1e-9 * one[t] + 1e-300, "draw " + d + ", band " + t);
             }
         }
     }
