@@ -140,7 +140,12 @@ final class DrawEngine {
     /** Per-thread working storage. */
     final class Scratch {
         final double[] base = new double[rule.m];
-        final double[] z = new double[r * cols];
+        /** Scaled normals σ z, one row per direction. */
+        final double[][] z = new double[r][cols];
+        /** Row work arrays (length of a block): rows indexed from 0, which JDK 17 vectorises. */
+        final double[] row = new double[width];
+        final double[][] rows = new double[4][width];
+        final double[] zRow = new double[width];
         final double[] y = new double[rule.m * width];
         final double[] g = new double[rule.m * width];
         final double[] shift = new double[width];
@@ -180,14 +185,14 @@ final class DrawEngine {
     void evaluate(double[] c, int off, double variance, long stream, Scratch s) {
         double sigma = Math.sqrt(Math.max(0, variance));
         SplittableRandom rng = Seeds.stream(seed, stream);
-        double[] z = s.z;
+        double[][] z = s.z;
         for (int d = 0; d < draws; d++) {
             for (int l = 0; l < r; l++) {
-                z[l * cols + d] = sigma * rng.nextGaussian();
+                z[l][d] = sigma * rng.nextGaussian();
             }
         }
         for (int l = 0; l < r; l++) {
-            z[l * cols + draws] = 0;
+            z[l][draws] = 0;
         }
         s.exact = 0;
         if (exactOnly) {
@@ -212,32 +217,38 @@ final class DrawEngine {
     private void nodeBlock(double[] c, int off, int d0, int nc, double bound, Scratch s) {
         NodeRule nr = rule;
         int m = nr.m, q = nr.q, np = nr.panels;
-        double[] y = s.y, g = s.g, z = s.z, mx = s.shift, mass = s.mass, tot = s.total, err = s.err, rp = s.panelError;
+        double[] y = s.y, g = s.g, mx = s.shift, mass = s.mass, tot = s.total, err = s.err, rp = s.panelError;
+        // node by node in a row indexed from 0, copied into the node-major block
+        double[] row = s.row;
         for (int i = 0; i < m; i++) {
-            int o = i * nc;
             double bi = s.base[i];
             for (int d = 0; d < nc; d++) {
-                y[o + d] = bi;
+                row[d] = bi;
             }
             for (int l = 0; l < r; l++) {
                 double b = bt[l * m + i];
-                int zo = l * cols + d0;
+                double[] zl = s.z[l];
+                if (d0 > 0) {
+                    System.arraycopy(zl, d0, s.zRow, 0, nc);
+                    zl = s.zRow;
+                }
                 for (int d = 0; d < nc; d++) {
-                    y[o + d] += b * z[zo + d];
+                    row[d] += b * zl[d];
                 }
             }
-        }
-        System.arraycopy(y, 0, mx, 0, nc);
-        for (int i = 1; i < m; i++) {
-            int o = i * nc;
-            for (int d = 0; d < nc; d++) {
-                double v = y[o + d];
-                mx[d] = v > mx[d] ? v : mx[d];
+            if (i == 0) {
+                System.arraycopy(row, 0, mx, 0, nc);
+            } else {
+                for (int d = 0; d < nc; d++) {
+                    double v = row[d];
+                    mx[d] = v > mx[d] ? v : mx[d];
+                }
             }
+            System.arraycopy(row, 0, y, i * nc, nc);
         }
         boolean check = true;
         if (q == 4) {
-            exponentialsOfFour(y, mx, g, mass, nc);
+            exponentialsOfFour(y, mx, g, mass, nc, s);
             totals(mass, tot, nc);
             double least = Double.POSITIVE_INFINITY;
             for (int d = 0; d < nc; d++) {
@@ -341,26 +352,30 @@ final class DrawEngine {
      * 4-point panels: node exponentials exp(y − shift) into g and the panel masses; each loop is
      * short and unit-stride over the draws so that the JIT vectorises it.
      */
-    private void exponentialsOfFour(double[] y, double[] mx, double[] g, double[] mass, int nc) {
+    private void exponentialsOfFour(double[] y, double[] mx, double[] g, double[] mass, int nc, Scratch s) {
         NodeRule nr = rule;
-        int np = nr.panels, m = nr.m;
-        // (the JIT vectorises exp over one flat array, not with the per-draw shift indexed apart)
-        for (int i = 0; i < m; i++) {
-            int o = i * nc;
-            for (int d = 0; d < nc; d++) {
-                g[o + d] = y[o + d] - mx[d];
-            }
-        }
-        int all = m * nc;
-        for (int k = 0; k < all; k++) {
-            g[k] = NodeRule.exp(g[k]);
-        }
+        int np = nr.panels;
+        double[][] rows = s.rows;
+        double[] mrow = s.row;
         for (int j = 0; j < np; j++) {
-            int o0 = 4 * j * nc, o1 = o0 + nc, o2 = o1 + nc, o3 = o2 + nc, po = j * nc;
-            double w0 = nr.w[4 * j], w1 = nr.w[4 * j + 1], w2 = nr.w[4 * j + 2], w3 = nr.w[4 * j + 3];
-            for (int d = 0; d < nc; d++) {
-                mass[po + d] = w0 * g[o0 + d] + w1 * g[o1 + d] + w2 * g[o2 + d] + w3 * g[o3 + d];
+            for (int i = 0; i < 4; i++) {
+                double[] t = rows[i];
+                int o = (4 * j + i) * nc;
+                System.arraycopy(y, o, t, 0, nc);
+                for (int d = 0; d < nc; d++) {
+                    t[d] = t[d] - mx[d];
+                }
+                for (int d = 0; d < nc; d++) {
+                    t[d] = NodeRule.exp(t[d]);
+                }
+                System.arraycopy(t, 0, g, o, nc);
             }
+            double w0 = nr.w[4 * j], w1 = nr.w[4 * j + 1], w2 = nr.w[4 * j + 2], w3 = nr.w[4 * j + 3];
+            double[] g0 = rows[0], g1 = rows[1], g2 = rows[2], g3 = rows[3];
+            for (int d = 0; d < nc; d++) {
+                mrow[d] = w0 * g0[d] + w1 * g1[d] + w2 * g2[d] + w3 * g3[d];
+            }
+            System.arraycopy(mrow, 0, mass, j * nc, nc);
         }
     }
 
@@ -387,12 +402,12 @@ final class DrawEngine {
     double cellBound(Scratch s) {
         NodeRule nr = rule;
         int np = nr.panels, nc = cols, m = nr.m;
-        double[] z = s.z, base = s.base, sm = s.scaleMax;
+        double[] base = s.base, sm = s.scaleMax;
         for (int l = 0; l < r; l++) {
             double big = 0;
-            int zo = l * nc;
+            double[] zl = s.z[l];
             for (int d = 0; d < nc; d++) {
-                big = Math.max(big, Math.abs(z[zo + d]));
+                big = Math.max(big, Math.abs(zl[d]));
             }
             sm[l] = big;
         }
@@ -572,11 +587,11 @@ final class DrawEngine {
     /** Evaluates draw d (column) through the space's exact methods. */
     private void exactDraw(double[] c, int off, int d, Scratch s) {
         double[] cc = s.coords;
-        double[] z = s.z;
+        double[][] z = s.z;
         for (int j = 0; j < k; j++) {
             double v = c[off + j];
             for (int l = 0; l < r; l++) {
-                v += factor[j * r + l] * z[l * cols + d];
+                v += factor[j * r + l] * z[l][d];
             }
             cc[j] = v;
         }

@@ -381,9 +381,9 @@ final class NodeRule {
 
     /** Work arrays of {@link #quantiles} for n densities (one set per thread). */
     final class Work {
-        final double[] gn;
-        final double[] yn;
-        final double[] coef;
+        final double[][] gn;
+        final double[][] yn;
+        final double[][] coef;
         final double[] u;
         final double[] left;
         final double[] right;
@@ -398,9 +398,9 @@ final class NodeRule {
         final boolean[] empty;
 
         Work(int n) {
-            gn = new double[q * n];
-            yn = new double[q * n];
-            coef = new double[q * n];
+            gn = new double[q][n];
+            yn = new double[q][n];
+            coef = new double[q][n];
             u = new double[n];
             left = new double[n];
             right = new double[n];
@@ -426,7 +426,8 @@ final class NodeRule {
      */
     void quantiles(double p, double[] mass, double[] z, double[] g, double[] y, double[] shift, int n, Work w,
             double[] out) {
-        double[] gn = w.gn, yn = w.yn, a = w.coef, u = w.u, left = w.left, right = w.right, need = w.need, mjs = w.mj,
+        double[][] gn = w.gn, yn = w.yn, a = w.coef;
+        double[] u = w.u, left = w.left, right = w.right, need = w.need, mjs = w.mj,
                 hs = w.h, st = w.start;
         boolean[] active = w.active, empty = w.empty;
         for (int d = 0; d < n; d++) {
@@ -445,23 +446,23 @@ final class NodeRule {
             empty[d] = !(mj > 0);
             int base = j * q * n + d;
             for (int i = 0; i < q; i++) {
-                gn[i * n + d] = g[base + i * n];
-                yn[i * n + d] = y[base + i * n];
+                gn[i][d] = g[base + i * n];
+                yn[i][d] = y[base + i * n];
             }
         }
         // interpolant of g on the panel: G(u) = h Σ_i g_i ∫_0^u ℓ_i = h Σ_k a_k u^{k+1}
         for (int k = 0; k < q; k++) {
-            int ao = k * n;
-            java.util.Arrays.fill(a, ao, ao + n, 0.0);
+            double[] ak = a[k];
+            java.util.Arrays.fill(ak, 0, n, 0.0);
             for (int i = 0; i < q; i++) {
                 double t = anti[i * q + k];
-                int go = i * n;
+                double[] gi = gn[i];
                 for (int d = 0; d < n; d++) {
-                    a[ao + d] += gn[go + d] * t;
+                    ak[d] += gi[d] * t;
                 }
             }
             for (int d = 0; d < n; d++) {
-                a[ao + d] = hs[d] * a[ao + d];
+                ak[d] = hs[d] * ak[d];
             }
         }
         int live = 0;
@@ -481,7 +482,7 @@ final class NodeRule {
                 double ud = u[d];
                 double val = 0, der = 0;
                 for (int k = q - 1; k >= 0; k--) {
-                    double ak = a[k * n + d];
+                    double ak = a[k][d];
                     val = val * ud + ak;
                     der = der * ud + (k + 1) * ak;
                 }
@@ -504,15 +505,16 @@ final class NodeRule {
             }
         }
         // one Newton step on the exact partial integral (see quantile)
-        double[] gam = a, c = w.c, v = w.v, part = w.part;
+        double[][] gam = a;
+        double[] c = w.c, v = w.v, part = w.part;
         for (int k = 0; k < q; k++) {
-            int ko = k * n;
-            java.util.Arrays.fill(gam, ko, ko + n, 0.0);
+            double[] gk = gam[k];
+            java.util.Arrays.fill(gk, 0, n, 0.0);
             for (int i = 0; i < q; i++) {
                 double t = power[k * q + i];
-                int yo = i * n;
+                double[] yi = yn[i];
                 for (int d = 0; d < n; d++) {
-                    gam[ko + d] += t * yn[yo + d];
+                    gk[d] += t * yi[d];
                 }
             }
         }
@@ -524,9 +526,9 @@ final class NodeRule {
                 c[d] = 0;
             }
             for (int k = q - 1; k >= 0; k--) {
-                int ko = k * n;
+                double[] gk = gam[k];
                 for (int d = 0; d < n; d++) {
-                    c[d] = c[d] * v[d] + gam[ko + d];
+                    c[d] = c[d] * v[d] + gk[d];
                 }
             }
             double wi = uw[i];
@@ -538,9 +540,9 @@ final class NodeRule {
             c[d] = 0;
         }
         for (int k = q - 1; k >= 0; k--) {
-            int ko = k * n;
+            double[] gk = gam[k];
             for (int d = 0; d < n; d++) {
-                c[d] = c[d] * u[d] + gam[ko + d];
+                c[d] = c[d] * u[d] + gk[d];
             }
         }
         for (int d = 0; d < n; d++) {
