@@ -20,10 +20,10 @@ import java.util.function.DoubleUnaryOperator;
  * <p>The node rule works on all draws of a location at once in a node-major layout (node i, draw
  * d at i·C + d, C = draws + 1), so that the inner loops are unit-stride over the draws. Two
  * shortcuts leave every number unchanged (CellBoundTest): with 4-point panels, one bound per
- * location ({@link #cellBound}) shows that no draw's rule error estimate can exceed the tolerance,
+ * location ({@link CellBound}) shows that no draw's rule error estimate can exceed the tolerance,
  * and then the per-draw estimates are not computed (for the smooth draws of the study-2 space
  * this removed about a third of the work); and quantiles are searched for all draws of a block
- * together ({@link NodeRule#quantiles}), the same operations as one draw at a time but with the
+ * together ({@link QuantileSearch}), the same operations as one draw at a time but with the
  * draws' dependency chains overlapping.
  */
 final class DrawEngine {
@@ -56,21 +56,16 @@ final class DrawEngine {
     private final double[] meanWeights;
     private final boolean exactOnly;
     private final long seed;
-    /**
-     * 4-point panels only: per direction l and panel j, the Taylor coefficients β₁..β₃ of the
-     * direction's clr (dirBeta[(l·panels + j)·3 + m − 1]) and its value at the panel centre
-     * (dirCentre[l·panels + j]), for {@link #cellBound}.
-     */
-    private final double[] dirBeta;
+    /** The per-location bound of 4-point panels (null for other rules). */
+    private final CellBound cellBound;
     private final boolean useCellBound;
-    private final double[] dirCentre;
 
     DrawEngine(BayesSpace space, double[] factor, int r, UncertaintyOptions opt) {
         this(space, factor, r, opt, true);
     }
 
     /**
-     * @param useCellBound whether the per-location bound of {@link #cellBound} may skip the per-draw
+     * @param useCellBound whether the per-location bound of {@link CellBound} may skip the per-draw
      *                     error estimates (false: always compute them; the tests compare both)
      */
     DrawEngine(BayesSpace space, double[] factor, int r, UncertaintyOptions opt, boolean useCellBound) {
@@ -105,31 +100,7 @@ final class DrawEngine {
                 bt[l * m + i] = s;
             }
         }
-        if (rule.q == 4) {
-            int np = rule.panels;
-            dirBeta = new double[r * np * 3];
-            dirCentre = new double[r * np];
-            for (int l = 0; l < r; l++) {
-                for (int j = 0; j < np; j++) {
-                    int o = l * m + 4 * j;
-                    for (int mm = 0; mm < 3; mm++) {
-                        double t = 0;
-                        for (int i = 0; i < 4; i++) {
-                            t += rule.taylor[mm * 4 + i] * bt[o + i];
-                        }
-                        dirBeta[(l * np + j) * 3 + mm] = t;
-                    }
-                    double c = 0;
-                    for (int i = 0; i < 4; i++) {
-                        c += rule.centreWeights[i] * bt[o + i];
-                    }
-                    dirCentre[l * np + j] = c;
-                }
-            }
-        } else {
-            dirBeta = null;
-            dirCentre = null;
-        }
+        cellBound = rule.q == 4 ? new CellBound(rule, bt, r) : null;
         double[] u = units == null ? rule.x.clone() : rule.unitsAtNodes(units);
         meanWeights = new double[m];
         for (int i = 0; i < m; i++) {
@@ -164,11 +135,11 @@ final class DrawEngine {
         /** values[quantity][column]: quantiles, then exceedances, then the mean. */
         final double[][] values = new double[quantities][cols];
         final double[] sel = new double[draws];
-        final NodeRule.Work work = rule.new Work(width);
+        final QuantileSearch work = new QuantileSearch(rule, width);
         final double[] quantile = new double[width];
         final double[] scaleMax = new double[r];
         int exact;
-        /** Draws whose block passed the bound of {@link #cellBound}, summed over calls (for the tests). */
+        /** Draws whose block passed the bound of {@link CellBound}, summed over calls (for the tests). */
         long bounded;
     }
 
@@ -295,7 +266,7 @@ final class DrawEngine {
         int qi = 0;
         for (int p = 0; p < probs.length; p++, qi++) {
             double[] v = s.values[qi];
-            nr.quantiles(probs[p], mass, tot, g, y, mx, nc, s.work, s.quantile);
+            s.work.quantiles(probs[p], mass, tot, g, y, mx, nc, s.quantile);
             for (int d = 0; d < nc; d++) {
                 double xq = s.quantile[d];
                 v[d0 + d] = units == null ? xq : units.applyAsDouble(xq);
@@ -379,73 +350,9 @@ final class DrawEngine {
         }
     }
 
-    /** e_8 of exp(a t + b t² + c t³) for a, b, c ≥ 0: Σ_{i+2j+3k=8} a^i b^j c^k / (i! j! k!). */
-    private static double e8(double a, double b, double c) {
-        double aa = a * a, a4 = aa * aa, bb = b * b, cc = c * c;
-        return a4 * a4 * (1.0 / 40320) + a4 * aa * b * (1.0 / 720) + a4 * bb * (1.0 / 48) + aa * bb * b * (1.0 / 12)
-                + bb * bb * (1.0 / 24) + a4 * a * c * (1.0 / 120) + aa * a * b * c * (1.0 / 6) + a * bb * c * 0.5
-                + aa * cc * 0.25 + b * cc * 0.5;
-    }
-
-    /**
-     * 4-point panels: an upper bound, valid for every draw d of the location, of the draw's error
-     * estimate Σ_j rp[j·C + d] of {@link #errorsOfFour} relative to the same shift. With s_{ld} = σ
-     * z_{ld} and S_l = max_d |s_{ld}|, the draw's Taylor coefficients on panel j are β_m(ĉ) + Σ_l
-     * s_{ld} β_m(l), so |β_m| ≤ B_m = |β_m(ĉ)| + Σ_l S_l |β_m(l)|; e_8 increases in each |β_m|. Its
-     * centre value minus its largest node value is at most the same difference for the node i₀
-     * where the plug-in is largest, c(ĉ) − y_{i₀}(ĉ) + Σ_l S_l |c(l) − y_{i₀}(l)|, and exp(min(40,
-     * ·)) increases. So when the bound is at most the tolerance times the smallest total mass, no
-     * draw's estimate exceeds the tolerance and the estimates are skipped: the draws evaluated
-     * exactly, and every value, are the same as with the estimates. Costs O(panels · r) per
-     * location instead of O(panels · draws).
-     */
+    /** The bound of {@link CellBound} for the location in s (4-point panels only). */
     double cellBound(Scratch s) {
-        NodeRule nr = rule;
-        int np = nr.panels, nc = cols, m = nr.m;
-        double[] base = s.base, sm = s.scaleMax;
-        for (int l = 0; l < r; l++) {
-            double big = 0;
-            double[] zl = s.z[l];
-            for (int d = 0; d < nc; d++) {
-                big = Math.max(big, Math.abs(zl[d]));
-            }
-            sm[l] = big;
-        }
-        int top = 0;
-        for (int i = 1; i < m; i++) {
-            if (base[i] > base[top]) {
-                top = i;
-            }
-        }
-        double[] tw = nr.taylor;
-        double[] cw = nr.centreWeights;
-        double sum = 0;
-        for (int j = 0; j < np; j++) {
-            int o = 4 * j;
-            double b1 = 0, b2 = 0, b3 = 0, cen = 0;
-            for (int i = 0; i < 4; i++) {
-                double v = base[o + i];
-                b1 += tw[i] * v;
-                b2 += tw[4 + i] * v;
-                b3 += tw[8 + i] * v;
-                cen += cw[i] * v;
-            }
-            b1 = Math.abs(b1);
-            b2 = Math.abs(b2);
-            b3 = Math.abs(b3);
-            cen -= base[top];
-            for (int l = 0; l < r; l++) {
-                int bo = (l * np + j) * 3;
-                double sl = sm[l];
-                b1 += sl * Math.abs(dirBeta[bo]);
-                b2 += sl * Math.abs(dirBeta[bo + 1]);
-                b3 += sl * Math.abs(dirBeta[bo + 2]);
-                cen += sl * Math.abs(dirCentre[l * np + j] - bt[l * m + top]);
-            }
-            double lift = Math.min(40.0, cen + 0.5 * b1 + 0.25 * b2 + 0.125 * b3);
-            sum += nr.ruleConstant * nr.width[j] * e8(b1, b2, b3) * NodeRule.exp(lift);
-        }
-        return sum;
+        return cellBound.of(s.z, cols, s.base, s.scaleMax);
     }
 
     /**

@@ -123,7 +123,7 @@ class CellBoundTest {
         for (double spread : new double[] {0.2, 1, 4}) {
             e.evaluate(location(space, rnd), 0, spread * spread, 0, s);
             for (double p : new double[] {1e-6, 0.05, 0.5, 0.99, 1 - 1e-9}) {
-                nr.quantiles(p, s.mass, s.total, s.g, s.y, s.shift, n, s.work, out);
+                s.work.quantiles(p, s.mass, s.total, s.g, s.y, s.shift, n, out);
                 for (int d = 0; d < n; d++) {
                     double one = nr.quantile(p, s.mass, d, n, s.total[d], s.g, s.y, d, s.shift[d], lag);
                     assertEquals(one, out[d], 0.0, "p " + p + ", draw " + d);
