@@ -3,6 +3,7 @@
 import io.densa.core.*;
 import io.densa.core.estimate.*;
 import io.densa.regression.*;
+import io.densa.regression.surveillance.*;
 import io.densa.spatial.*;
 import io.densa.spatial.variogram.*;
 import io.densa.spatial.kriging.*;

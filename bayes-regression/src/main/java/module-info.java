@@ -1,7 +1,7 @@
 /**
  * Densa regression: functional principal components, function-on-scalar and functional
- * regression, anomaly scoring ({@code io.densa.regression}); surveillance period by period from a
- * rolling baseline ({@code io.densa.regression.surveillance}).
+ * regression ({@code io.densa.regression}); surveillance: anomaly scoring, excess counts and
+ * period-by-period monitoring from a rolling baseline ({@code io.densa.regression.surveillance}).
  */
 module io.densa.regression {
     requires transitive io.densa.core;

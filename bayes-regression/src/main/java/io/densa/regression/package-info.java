@@ -1,6 +1,7 @@
 /**
  * Models on densities: simplicial functional PCA, function-on-scalar, function-on-function and
- * scalar-on-function regression, anomaly scoring and excess counts.
+ * scalar-on-function regression. Anomaly scoring and excess counts are in
+ * {@link io.densa.regression.surveillance}.
  *
  * <h2>Semantics</h2>
  * Models take a {@link io.densa.core.DensitySet} (an n × K coordinate matrix in an orthonormal
@@ -20,11 +21,6 @@
  * {@link io.densa.regression.FunctionOnFunctionFit} and
  * {@link io.densa.regression.ScalarOnFunctionFit}: density predictors, by FPCA truncation or
  * ridge with cross-validated tuning.</li>
- * <li>{@link io.densa.regression.AnomalyScoring} and
- * {@link io.densa.core.BenjaminiHochberg}: split-conformal anomaly scores, FDR flags
- * and the parts of the domain where a unit departs (smoothed p-values on request).</li>
- * <li>{@link io.densa.regression.ExcessCounts}: events in excess of a baseline per band, overall
- * and displaced, with seeded parametric bootstrap intervals.</li>
  * </ul>
  *
  * <p>Random procedures (folds, bootstrap, permutations) take a seed and use

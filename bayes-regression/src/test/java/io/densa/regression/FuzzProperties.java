@@ -5,6 +5,7 @@ import static io.densa.regression.FuzzValues.vector;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.regression.surveillance.AnomalyScoring;
 import java.util.List;
 import java.util.Random;
 import net.jqwik.api.Arbitraries;

@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.regression.surveillance.AnomalyScoring;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Random;

@@ -1,7 +1,7 @@
 package io.densa.spark;
 
 import io.densa.core.DensitySet;
-import io.densa.regression.AnomalyScoring;
+import io.densa.regression.surveillance.AnomalyScoring;
 import io.densa.regression.Design;
 import io.densa.regression.FunctionOnFunctionFit;
 import io.densa.regression.FunctionalRegression;

@@ -2,7 +2,7 @@ package io.densa.spark;
 
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
-import io.densa.regression.AnomalyScoring;
+import io.densa.regression.surveillance.AnomalyScoring;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Iterator;

@@ -6,7 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import io.densa.core.BayesSpace;
 import io.densa.core.BenjaminiHochberg;
 import io.densa.core.DensitySet;
-import io.densa.regression.AnomalyScoring;
+import io.densa.regression.surveillance.AnomalyScoring;
 import io.densa.regression.Design;
 import java.util.ArrayList;
 import java.util.List;

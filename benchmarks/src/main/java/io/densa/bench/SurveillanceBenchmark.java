@@ -2,7 +2,7 @@ package io.densa.bench;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
-import io.densa.regression.ExcessCounts;
+import io.densa.regression.surveillance.ExcessCounts;
 import io.densa.spatial.Locations;
 import io.densa.spatial.scan.SpatialScan;
 import java.util.SplittableRandom;

@@ -36,7 +36,10 @@ import org.openjdk.jmh.annotations.Warmup;
  * <li>{@link #intervals}: {@code PredictiveDistribution.summariseGrid} of a gridSide² grid;</li>
  * <li>{@link #krigingOnly}: the same grid's kriging with variance (the baseline the intervals add to).</li>
  * </ul>
- * Sizes go through {@link BenchConfig#size} (quick mode shrinks them).
+ * Sizes go through {@link BenchConfig#size} (quick mode shrinks them). Give single shots of the
+ * full grid a longer JMH timeout ({@code -to 60m}): the default of 10 minutes per iteration ends a
+ * run on a loaded machine (a plain 10⁶-cell run in a 1 GB heap completed with at most 252 MB in
+ * use and about 40 MB live after each collection, so memory is not what stops it).
  */
 @State(Scope.Benchmark)
 @BenchmarkMode(Mode.AverageTime)

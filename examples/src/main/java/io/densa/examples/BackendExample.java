@@ -12,7 +12,7 @@ import io.densa.io.tables.TableSource;
 import io.densa.io.model.ModelBundle;
 import io.densa.io.model.ModelFile;
 import io.densa.io.model.ModelLimits;
-import io.densa.regression.AnomalyScoring;
+import io.densa.regression.surveillance.AnomalyScoring;
 import io.densa.regression.Design;
 import io.densa.regression.FunctionOnFunctionFit;
 import io.densa.regression.FunctionalRegression;

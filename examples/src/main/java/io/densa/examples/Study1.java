@@ -2,9 +2,9 @@ package io.densa.examples;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
-import io.densa.regression.AnomalyScoring;
+import io.densa.regression.surveillance.AnomalyScoring;
 import io.densa.regression.Design;
-import io.densa.regression.ExcessCounts;
+import io.densa.regression.surveillance.ExcessCounts;
 import io.densa.regression.Fpca;
 import io.densa.regression.Scores;
 import io.densa.regression.FunctionOnFunctionFit;

@@ -4,7 +4,7 @@ import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
 import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 import io.densa.core.estimate.SmoothingSplineEstimator;
-import io.densa.regression.AnomalyScoring;
+import io.densa.regression.surveillance.AnomalyScoring;
 import io.densa.regression.Design;
 import io.densa.regression.Fpca;
 import io.densa.regression.FunctionOnFunctionFit;

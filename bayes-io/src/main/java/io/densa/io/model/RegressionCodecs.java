@@ -2,7 +2,7 @@ package io.densa.io.model;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
-import io.densa.regression.AnomalyScoring;
+import io.densa.regression.surveillance.AnomalyScoring;
 import io.densa.regression.Design;
 import io.densa.regression.Fpca;
 import io.densa.regression.FunctionOnFunctionFit;

@@ -14,7 +14,7 @@ import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 import io.densa.core.estimate.SmoothingCriterion;
 import io.densa.core.estimate.SmoothingSplineEstimator;
 import io.densa.core.estimate.ZeroReplacement;
-import io.densa.regression.AnomalyScoring;
+import io.densa.regression.surveillance.AnomalyScoring;
 import io.densa.regression.Design;
 import io.densa.regression.Fpca;
 import io.densa.regression.FunctionOnFunctionFit;

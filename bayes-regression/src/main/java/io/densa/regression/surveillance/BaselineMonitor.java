@@ -6,8 +6,6 @@ import io.densa.core.DensitySet;
 import io.densa.core.SolveDiagnostics;
 import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.Seeds;
-import io.densa.regression.AnomalyScoring;
-import io.densa.regression.ExcessCounts;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;

@@ -1,8 +1,6 @@
 package io.densa.regression.surveillance;
 
 import io.densa.core.DensitySet;
-import io.densa.regression.AnomalyScoring;
-import io.densa.regression.ExcessCounts;
 
 /**
  * What a monitor says about one period, before absorbing it.

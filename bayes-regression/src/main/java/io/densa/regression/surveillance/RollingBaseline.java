@@ -35,11 +35,11 @@ import java.util.Objects;
  * that period was absorbed (out of sample); p-values are split-conformal ranks of the residual
  * norm among them (Vovk, Gammerman &amp; Shafer 2005, Algorithmic Learning in a Random World,
  * Springer), smoothed with seeded random tie-breaking, and flags come from the Benjamini–Hochberg
- * (1995) adjustment within the period (see {@link io.densa.regression.AnomalyScoring}). Periods
+ * (1995) adjustment within the period (see {@link AnomalyScoring}). Periods
  * with counts also get excess counts with parametric-bootstrap intervals that carry the counting
  * noise and the baseline's uncertainty, taken as the covariance of the calibration residuals (which
  * also holds the current period's estimation noise, so the intervals are on the wide side; see
- * {@link io.densa.regression.ExcessCounts}).
+ * {@link ExcessCounts}).
  *
  * <p>Defaults: 1 lag, no forgetting (φ = 1, every period weighs the same), 4 calibration periods,
  * FDR 0.05, 95 % pointwise bands, ridge 10⁻⁸, 999 bootstrap draws, seed 1. Immutable.

@@ -16,6 +16,9 @@ final class Selection {
      * out[off] and out[off + 1]; a is reordered.
      */
     static void centralInterval(double[] a, int n, double alpha, double[] out, int off) {
+        if (smallTails(a, n, alpha, out, off)) {
+            return;
+        }
         double hl = (n - 1) * alpha;
         int il = (int) Math.floor(hl);
         select(a, 0, n - 1, il);
@@ -30,6 +33,62 @@ final class Selection {
         double hi = a[ih];
         double hi1 = ih + 1 < n ? min(a, ih + 1, n) : hi;
         out[off + 1] = hi + (hh - ih) * (hi1 - hi);
+    }
+
+    /** Largest number of order statistics per tail that {@link #smallTails} keeps. */
+    private static final int TAIL_BUFFER = 24;
+
+    /**
+     * {@link #centralInterval} without reordering a, when each tail needs at most
+     * {@link #TAIL_BUFFER} order statistics: one pass keeps the ⌊h⌋ + 2 smallest and the n − ⌊h'⌋
+     * largest values in two sorted buffers (an insertion is rare after the first few values). The
+     * order statistics, and so the results, are those of the selection. Returns false (and does
+     * nothing) when a tail needs more values or a value is NaN.
+     */
+    static boolean smallTails(double[] a, int n, double alpha, double[] out, int off) {
+        double hl = (n - 1) * alpha;
+        int il = (int) Math.floor(hl);
+        double hh = (n - 1) * (1 - alpha);
+        int ih = Math.min(n - 1, (int) Math.floor(hh));
+        int nl = Math.min(n, il + 2);
+        int nh = n - ih;
+        if (nl > TAIL_BUFFER || nh > TAIL_BUFFER || ih <= il) {
+            return false;
+        }
+        double[] low = new double[nl];
+        double[] high = new double[nh];
+        // low ascending (low[nl-1] the largest kept), high descending (high[nh-1] the smallest kept)
+        int cl = 0, ch = 0;
+        for (int i = 0; i < n; i++) {
+            double v = a[i];
+            if (v != v) {
+                return false;
+            }
+            if (cl < nl || v < low[nl - 1]) {
+                int p = cl < nl ? cl++ : nl - 1;
+                while (p > 0 && low[p - 1] > v) {
+                    low[p] = low[p - 1];
+                    p--;
+                }
+                low[p] = v;
+            }
+            if (ch < nh || v > high[nh - 1]) {
+                int p = ch < nh ? ch++ : nh - 1;
+                while (p > 0 && high[p - 1] < v) {
+                    high[p] = high[p - 1];
+                    p--;
+                }
+                high[p] = v;
+            }
+        }
+        double lo = low[il];
+        double lo1 = il + 1 < n ? low[il + 1] : lo;
+        out[off] = lo + (hl - il) * (lo1 - lo);
+        // v_(ih) is the (n − 1 − ih)-th largest, v_(ih+1) the one above it
+        double hi = high[n - 1 - ih];
+        double hi1 = ih + 1 < n ? high[n - 2 - ih] : hi;
+        out[off + 1] = hi + (hh - ih) * (hi1 - hi);
+        return true;
     }
 
     /** The type-7 sample quantile of probability p of a[0..n) (a is reordered). */

@@ -1,4 +1,4 @@
-package io.densa.regression;
+package io.densa.regression.surveillance;
 
 import io.densa.core.BenjaminiHochberg;
 import io.densa.core.BayesSpace;

@@ -1,4 +1,4 @@
-package io.densa.regression;
+package io.densa.regression.surveillance;
 
 import io.densa.core.BenjaminiHochberg;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
@@ -9,6 +9,9 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.regression.Design;
+import io.densa.regression.FunctionOnScalarFit;
+import io.densa.regression.FunctionOnScalarRegression;
 import java.util.List;
 import java.util.Random;
 import org.apache.commons.math3.distribution.UniformRealDistribution;

@@ -1,4 +1,4 @@
-package io.densa.regression;
+package io.densa.regression.surveillance;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
@@ -55,7 +55,7 @@ class ExcessCountsTest {
     void bandProbabilitiesMatchTruncatedNormal() {
         double[] bands = {0, 1.5, 2, 4.25, 7, 10};
         for (double[] ms : new double[][] {{3, 1.2}, {6.5, 2.5}, {-1, 4}, {9.5, 0.8}}) {
-            double[] p = ExcessCounts.bandProbabilities(SPACE, truncatedNormal(ms[0], ms[1]), bands);
+            double[] p = BandQuadrature.bandProbabilities(SPACE, truncatedNormal(ms[0], ms[1]), bands);
             for (int t = 0; t + 1 < bands.length; t++) {
                 assertEquals(truncatedNormalProbability(ms[0], ms[1], bands[t], bands[t + 1]), p[t], 1e-8,
                         "mu " + ms[0] + " sd " + ms[1] + " band " + t);
@@ -71,7 +71,7 @@ class ExcessCountsTest {
         io.densa.core.Density f = splines.projectLogPdf(x -> Math.log(0.6 * Math.exp(-Math.pow((x - 8) / 5, 2))
                 + 0.4 * Math.exp(-Math.pow((x - 70) / 12, 2)) + 1e-3)).density();
         double[] bands = {0, 15, 25, 45, 65, 100};
-        double[] p = ExcessCounts.bandProbabilities(splines, f.coordinates(), bands);
+        double[] p = BandQuadrature.bandProbabilities(splines, f.coordinates(), bands);
         for (int t = 0; t + 1 < bands.length; t++) {
             double ref = f.cdf(bands[t + 1]) - f.cdf(bands[t]);
             assertEquals(ref, p[t], 1e-6 * ref, "band " + t);
@@ -195,7 +195,7 @@ class ExcessCountsTest {
                 java.util.Arrays.sort(sorted);
                 for (double p : new double[] {0, 0.05, 0.5, 0.95, 1}) {
                     assertEquals(io.densa.core.internal.SampleQuantiles.sorted(sorted, p),
-                            ExcessCounts.Plan.quantile(x.clone(), p), 0.0, "len " + len + " p " + p);
+                            BootstrapPlan.quantile(x.clone(), p), 0.0, "len " + len + " p " + p);
                 }
             }
         }
@@ -208,10 +208,74 @@ class ExcessCountsTest {
         for (int i = 0; i < 200_000; i++) {
             double y = i < 100 ? -i * 0.5 : -rng.nextDouble() * (i % 2 == 0 ? 50 : 700);
             double ref = Math.exp(y);
-            assertEquals(ref, ExcessCounts.expNonPositive(y), 1e-14 * ref, "y = " + y);
+            assertEquals(ref, BandQuadrature.expNonPositive(y), 1e-14 * ref, "y = " + y);
         }
-        assertEquals(1.0, ExcessCounts.expNonPositive(0), 1e-16);
-        assertTrue(ExcessCounts.expNonPositive(-1e6) < 1e-300);
+        assertEquals(1.0, BandQuadrature.expNonPositive(0), 1e-16);
+        assertTrue(BandQuadrature.expNonPositive(-1e6) < 1e-300);
+    }
+
+    @Test
+    void blockExponentialAgreesWithMathExp() {
+        // against java.lang.Math.exp (within 1 ulp by its specification): relative 3e-10 on [-45, 0]
+        SplittableRandom rng = new SplittableRandom(6);
+        for (int i = 0; i < 200_000; i++) {
+            double y = -rng.nextDouble() * 45;
+            double ref = Math.exp(y);
+            assertEquals(ref, BandQuadrature.expBlock(y), 3e-10 * ref, "y = " + y);
+        }
+        assertEquals(1.0, BandQuadrature.expBlock(0), 1e-15);
+        assertEquals(Math.exp(-45), BandQuadrature.expBlock(-1e6), 1e-9 * Math.exp(-45));
+    }
+
+    @Test
+    void blockOfDrawsMatchesOneDrawAtATime() {
+        // the draws' band probabilities (vectorised over draws, fast exponential) against the
+        // one-draw method with the exponential of Cody & Waite: relative 1e-9
+        BayesSpace splines = BayesSpace.splines(0, 100, 4, new double[] {2, 6, 12, 20, 30, 42, 55, 68, 80, 90});
+        int k = splines.dimension();
+        double[] bands = {0, 15, 25, 45, 65, 100};
+        BandQuadrature quad = BandQuadrature.of(splines, bands);
+        int nq = quad.x.length, nb = bands.length - 1, n = 37, width = 40;
+        double[] phi = splines.basisMatrix(quad.x).data;
+        SplittableRandom rng = new SplittableRandom(8);
+        double[] coords = new double[k];
+        for (int c = 0; c < k; c++) {
+            coords[c] = 1.5 * rng.nextGaussian() / (1 + c);
+        }
+        double[] f = new double[k * nq];
+        for (int i = 0; i < f.length; i++) {
+            f[i] = 0.3 * rng.nextGaussian();
+        }
+        double[] base = new double[nq];
+        for (int q = 0; q < nq; q++) {
+            for (int c = 0; c < k; c++) {
+                base[q] += phi[q * k + c] * coords[c];
+            }
+        }
+        double[][] z = new double[k][width];
+        for (double[] row : z) {
+            for (int d = 0; d < width; d++) {
+                row[d] = rng.nextGaussian();
+            }
+        }
+        double[][] out = new double[nb][width];
+        quad.bandProbabilities(base, f, k, z, n, new double[nq][width], new double[width], new double[width], out);
+        double[] v = new double[nq];
+        double[] one = new double[nb];
+        for (int d = 0; d < n; d++) {
+            for (int q = 0; q < nq; q++) {
+                v[q] = base[q];
+            }
+            for (int c = 0; c < k; c++) {
+                for (int q = 0; q < nq; q++) {
+                    v[q] += f[c * nq + q] * z[c][d];
+                }
+            }
+            quad.bandProbabilities(v, one);
+            for (int t = 0; t < nb; t++) {
+                assertEquals(one[t], out[t][d], 1e-9 * one[t] + 1e-300, "draw " + d + ", band " + t);
+            }
+        }
     }
 
     @Test

@@ -1,4 +1,4 @@
-package io.densa.regression;
+package io.densa.regression.surveillance;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;

@@ -1,0 +1,204 @@
+package io.densa.regression.surveillance;
+
+import io.densa.core.internal.CountSampling;
+import io.densa.core.internal.Seeds;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.SplittableRandom;
+
+/**
+ * The parametric bootstrap of {@link ExcessCounts}, one unit at a time: what every unit shares
+ * (quadrature, basis values, bands, draws) and the per-unit loop. Immutable; the work arrays are
+ * per thread ({@link Buffers}).
+ */
+final class BootstrapPlan {
+    final BandQuadrature quad;
+    final double[] phi;
+    final double[] phiF;
+    final int k;
+    final int nb;
+    final double[] bands;
+    final int draws;
+    final double lo;
+    final double hi;
+    final boolean own;
+    final long seed;
+
+    BootstrapPlan(BandQuadrature quad, double[] phi, double[] phiF, int k, int nb, double[] bands, int draws, double lo,
+            double hi, boolean own, long seed) {
+        this.quad = quad;
+        this.phi = phi;
+        this.phiF = phiF;
+        this.k = k;
+        this.nb = nb;
+        this.bands = bands;
+        this.draws = draws;
+        this.lo = lo;
+        this.hi = hi;
+        this.own = own;
+        this.seed = seed;
+    }
+
+    ExcessCounts.UnitExcess unit(int i, String id, double[] coords, double[] obs, double total, double denominator,
+            double sd, Buffers b) {
+        int nq = quad.x.length;
+        matVec(phi, nq, k, coords, i * k, b.base);
+        quad.bandProbabilities(b.base, b.piHat);
+        SplittableRandom rng = Seeds.stream(seed, i);
+        double[][] sample = b.sample;
+        CountSampling.Poisson[] poisson = new CountSampling.Poisson[nb];
+        for (int t = 0; t < nb; t++) {
+            poisson[t] = new CountSampling.Poisson(obs[t]);
+        }
+        int width = b.width;
+        for (int r0 = 0; r0 < draws; r0 += width) {
+            int n = Math.min(width, draws - r0);
+            // the random numbers in the order of one draw after the other: K normals, then the bands' counts
+            for (int rr = 0; rr < n; rr++) {
+                if (sd > 0) {
+                    for (int c = 0; c < k; c++) {
+                        b.z[c][rr] = rng.nextGaussian() * sd;
+                    }
+                }
+                for (int t = 0; t < nb; t++) {
+                    sample[t][r0 + rr] = poisson[t].sample(rng);
+                }
+            }
+            if (sd > 0) {
+                quad.bandProbabilities(b.base, phiF, k, b.z, n, b.v, b.shift, b.total, b.pi);
+            }
+            for (int rr = 0; rr < n; rr++) {
+                int r = r0 + rr;
+                double nStar = 0;
+                for (int t = 0; t < nb; t++) {
+                    nStar += sample[t][r];
+                }
+                double tStar = own ? nStar : denominator;
+                double displaced = 0;
+                for (int t = 0; t < nb; t++) {
+                    double e = sample[t][r] - tStar * (sd > 0 ? b.pi[t][rr] : b.piHat[t]);
+                    sample[t][r] = e;
+                    displaced += Math.max(0, e);
+                }
+                sample[nb][r] = nStar - tStar;
+                sample[nb + 1][r] = displaced;
+            }
+        }
+        double[][] ends = new double[nb + 2][2];
+        for (int t = 0; t < nb + 2; t++) {
+            ends[t][1] = quantile(sample[t], hi);
+            ends[t][0] = quantile(sample[t], lo);
+        }
+        List<ExcessCounts.BandExcess> list = new ArrayList<>(nb);
+        double displaced = 0;
+        for (int t = 0; t < nb; t++) {
+            double e = denominator * b.piHat[t];
+            double x = obs[t] - e;
+            displaced += Math.max(0, x);
+            list.add(new ExcessCounts.BandExcess(bands[t], bands[t + 1], obs[t], e, x, ends[t][0], ends[t][1]));
+        }
+        ExcessCounts.BandExcess overall = new ExcessCounts.BandExcess(bands[0], bands[nb], total, denominator, total - denominator,
+                ends[nb][0], ends[nb][1]);
+        ExcessCounts.Displaced disp = new ExcessCounts.Displaced(displaced, ends[nb + 1][0], ends[nb + 1][1]);
+        return new ExcessCounts.UnitExcess(i, id, overall, list, disp);
+    }
+
+    /** out = M x (M rows × k, x from offset off). */
+    private static void matVec(double[] m, int rows, int k, double[] x, int off, double[] out) {
+        for (int q = 0; q < rows; q++) {
+            double s = 0;
+            int base = q * k;
+            for (int c = 0; c < k; c++) {
+                s += m[base + c] * x[off + c];
+            }
+            out[q] = s;
+        }
+    }
+
+    /**
+     * The sample quantile at p of the values (reordered in place), definition 7 of Hyndman &amp;
+     * Fan (1996), Sample quantiles in statistical packages, Am. Stat. 50(4) (from memory): the
+     * two neighbouring order statistics by selection instead of a full sort.
+     */
+    static double quantile(double[] x, double p) {
+        int n = x.length;
+        double h = (n - 1) * p;
+        int j = (int) Math.floor(h);
+        double lo = select(x, j);
+        if (j + 1 >= n) {
+            return lo;
+        }
+        double next = Double.POSITIVE_INFINITY;
+        for (int i = j + 1; i < n; i++) {
+            next = Math.min(next, x[i]);
+        }
+        return lo + (h - j) * (next - lo);
+    }
+
+    /** Hoare's selection: the j-th smallest value, with x[..j] ≤ x[j] ≤ x[j+1..] afterwards. */
+    private static double select(double[] x, int j) {
+        int left = 0;
+        int right = x.length - 1;
+        while (right > left) {
+            int mid = (left + right) >>> 1;
+            // median of three as pivot
+            double a = x[left];
+            double b = x[mid];
+            double c = x[right];
+            double pivot = a < b ? (b < c ? b : Math.max(a, c)) : (a < c ? a : Math.max(b, c));
+            int i = left;
+            int k = right;
+            while (i <= k) {
+                while (x[i] < pivot) {
+                    i++;
+                }
+                while (x[k] > pivot) {
+                    k--;
+                }
+                if (i <= k) {
+                    double t = x[i];
+                    x[i] = x[k];
+                    x[k] = t;
+                    i++;
+                    k--;
+                }
+            }
+            if (j <= k) {
+                right = k;
+            } else if (j >= i) {
+                left = i;
+            } else {
+                return x[j];
+            }
+        }
+        return x[j];
+    }
+
+    /** Draws whose quadrature is evaluated together (one row of block values per node). */
+    static final int BLOCK = 256;
+
+    /** Per-thread work arrays. */
+    static final class Buffers {
+        final int width;
+        final double[] base;
+        final double[] piHat;
+        final double[][] z;
+        final double[][] pi;
+        final double[][] v;
+        final double[] shift;
+        final double[] total;
+        final double[][] sample;
+
+        Buffers(int nq, int k, int nb, int draws) {
+            width = Math.min(draws, BLOCK);
+            base = new double[nq];
+            piHat = new double[nb];
+            z = new double[k][width];
+            pi = new double[nb][width];
+            v = new double[nq][width];
+            shift = new double[width];
+            total = new double[width];
+            sample = new double[nb + 2][draws];
+        }
+    }
+}
