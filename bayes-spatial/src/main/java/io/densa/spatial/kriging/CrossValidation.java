@@ -81,7 +81,7 @@ public record CrossValidation(double[][] errors, double[] errorNorms, double[] k
      * without measurement error; what any leave-one-out predictor of densities reports (the
      * space–time kriging of {@code io.densa.spatial.spacetime} uses it too).
      *
-     * @throws DensaException naming the location when an error is not finite or a summary exceeds
+     * @throws io.densa.core.DensaException naming the location when an error is not finite or a summary exceeds
      *                        the double range
      */
     public static CrossValidation of(double[][] errors, double[] variances) {
