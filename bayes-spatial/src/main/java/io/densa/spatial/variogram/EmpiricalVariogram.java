@@ -179,7 +179,7 @@ public final class EmpiricalVariogram {
         boolean uniform = options.uniformBins() && e[0] == 0;
         // equal widths w = e_1 − e_0 (the last bin may be narrower when a width does not divide the
         // maximum lag): bin b = ⌈h/w⌉ − 1 holds (e_b, e_{b+1}] like the general search
-        double invWidth = uniform ? 1 / (e[1] - e[0]) : 0;
+        double invWidth = uniform ? 1 / (e[1] - e[0]) : nearlyEqualSpacing(e) ? (e.length - 1) / (e[e.length - 1] - e[0]) : 0;
         int tiles = (n + ITILE - 1) / ITILE;
         VariogramPass pass = new VariogramPass(n, k, y, yt, nsq, p, geo, max2, e, uniform, invWidth, ns, dcos, dsin, cosTol,
                 dirs != null);
@@ -330,6 +330,38 @@ public final class EmpiricalVariogram {
         double[] bb = loc.boundingBox();
         return Math.min(Math.PI * Locations.EARTH_RADIUS_KM, loc.distance(bb[0], bb[1], bb[2], bb[3])
                 + loc.distance(bb[0], bb[3], bb[2], bb[1]));
+    }
+
+    /** Whether explicit edges are equally spaced within 1 % (then {@link #binNear} finds bins directly). */
+    static boolean nearlyEqualSpacing(double[] e) {
+        double min = Double.POSITIVE_INFINITY;
+        double max = 0;
+        for (int b = 1; b < e.length; b++) {
+            double w = e[b] - e[b - 1];
+            min = Math.min(min, w);
+            max = Math.max(max, w);
+        }
+        return e.length > 2 && min > 0 && max <= 1.01 * min;
+    }
+
+    /**
+     * The same bin as {@link #bin(double[], double)} for nearly equally spaced edges, from the
+     * guess ⌊(h − e_0) / w⌋ corrected by comparisons with the neighbouring edges (so the result
+     * is exact, not a rounding of the guess); invWidth = B / (e_B − e_0).
+     */
+    static int binNear(double[] e, double h, double invWidth) {
+        int nb = e.length - 1;
+        if (h < e[0] || h > e[nb]) {
+            return -1;
+        }
+        int b = Math.max(0, Math.min(nb - 1, (int) ((h - e[0]) * invWidth)));
+        while (b < nb - 1 && h > e[b + 1]) {
+            b++;
+        }
+        while (b > 0 && h <= e[b]) {
+            b--;
+        }
+        return b;
     }
 
     /** Bin of lag h for edges e: (e_b, e_{b+1}], first bin closed at e_0; −1 outside. */

@@ -161,7 +161,8 @@ final class VariogramPass {
             if (h > e[nb]) {
                 continue;
             }
-            int b = uniform ? Math.max(0, Math.min(nb - 1, (int) Math.ceil(h * invWidth) - 1)) : EmpiricalVariogram.bin(e, h);
+            int b = uniform ? Math.max(0, Math.min(nb - 1, (int) Math.ceil(h * invWidth) - 1))
+                    : invWidth > 0 ? EmpiricalVariogram.binNear(e, h, invWidth) : EmpiricalVariogram.bin(e, h);
             if (b < 0) {
                 continue;
             }

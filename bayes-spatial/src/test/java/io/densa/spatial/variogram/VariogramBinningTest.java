@@ -200,4 +200,35 @@ class VariogramBinningTest {
         }
         return DensitySet.of(d.space(), c);
     }
+
+    /**
+     * Nearly equally spaced explicit edges take the direct bin index corrected against the
+     * neighbouring edges: the same bin as the binary search for every lag, including lags exactly
+     * on an edge and one ulp either side (the half-open rule (e_b, e_{b+1}] of the class comment).
+     */
+    @Test
+    void directBinIndexEqualsTheSearchOnAndAroundEveryEdge() {
+        double[][] layouts = {new double[31], new double[16], {0.25, 1.25, 2.248, 3.25, 4.252}};
+        for (int b = 0; b <= 30; b++) {
+            layouts[0][b] = 0.5 * b / 30;
+        }
+        for (int b = 0; b <= 15; b++) {
+            layouts[1][b] = 3 + 7.0 * b / 15;
+        }
+        java.util.Random r = new java.util.Random(5);
+        for (double[] e : layouts) {
+            assertTrue(EmpiricalVariogram.nearlyEqualSpacing(e));
+            double inv = (e.length - 1) / (e[e.length - 1] - e[0]);
+            for (double edge : e) {
+                for (double h : new double[] {edge, Math.nextUp(edge), Math.nextDown(edge)}) {
+                    assertEquals(EmpiricalVariogram.bin(e, h), EmpiricalVariogram.binNear(e, h, inv), "lag " + h);
+                }
+            }
+            for (int t = 0; t < 100_000; t++) {
+                double h = e[0] - 0.1 + (e[e.length - 1] - e[0] + 0.2) * r.nextDouble();
+                assertEquals(EmpiricalVariogram.bin(e, h), EmpiricalVariogram.binNear(e, h, inv), "lag " + h);
+            }
+        }
+        assertTrue(!EmpiricalVariogram.nearlyEqualSpacing(new double[] {0, 1, 3}));
+    }
 }
