@@ -2,6 +2,7 @@ package io.densa.regression;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.core.internal.Kernels;
 
 /** Argument checks shared by the regression models (package-private). */
 final class Arguments {
@@ -10,15 +11,7 @@ final class Arguments {
 
     /** Copies of grid points, each checked to be finite. */
     static double[] grid(double[] xs, String name) {
-        if (xs == null || xs.length == 0) {
-            throw new IllegalArgumentException(name + " must contain at least one point");
-        }
-        for (int i = 0; i < xs.length; i++) {
-            if (!Double.isFinite(xs[i])) {
-                throw new IllegalArgumentException(name + "[" + i + "] is not finite: " + xs[i]);
-            }
-        }
-        return xs.clone();
+        return Kernels.checkedPoints(xs, Double.NaN, Double.NaN, name);
     }
 
     /**
@@ -26,14 +19,7 @@ final class Arguments {
      * (naming the offending index).
      */
     static double[] grid(BayesSpace space, double[] xs, String name) {
-        double[] g = grid(xs, name);
-        for (int i = 0; i < g.length; i++) {
-            if (!(g[i] >= space.lower() && g[i] <= space.upper())) {
-                throw new IllegalArgumentException(name + "[" + i + "] = " + g[i] + " is outside the domain ["
-                        + space.lower() + ", " + space.upper() + "]; evaluation points must lie in the domain");
-            }
-        }
-        return g;
+        return Kernels.checkedPoints(xs, space.lower(), space.upper(), name);
     }
 
     /**

@@ -4,17 +4,18 @@ import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
 import java.util.Random;
 
-/** Seeded simulation helpers for the tests (invented data). */
-final class TestData {
+/** Seeded simulation helpers for the tests (invented data; public for the surveillance tests). */
+public final class TestData {
     private TestData() {
     }
 
     /** Cubic splines on [0, 1] with 5 interior knots: K = 8. */
-    static BayesSpace space8() {
+    public static BayesSpace space8() {
         return BayesSpace.splines(0, 1, 4, 5);
     }
 
-    static double[][] gaussian(Random r, int n, int k, double sd) {
+    /** n × k independent N(0, sd²) coordinates. */
+    public static double[][] gaussian(Random r, int n, int k, double sd) {
         double[][] x = new double[n][k];
         for (int i = 0; i < n; i++) {
             for (int j = 0; j < k; j++) {

@@ -261,4 +261,46 @@ public final class Kernels {
         }
         return out;
     }
+
+    /**
+     * exp(v) as P(v/64)^64 with P the degree-12 Taylor polynomial of exp: relative error below
+     * 3·10⁻¹⁰ on [−45, 0] (and below 10⁻¹⁰ up to v = 40, where the remainder of P at 40/64 is
+     * ≈ 4·10⁻¹³ per factor); arguments below −45 give e^−45 ≈ 2.9·10⁻²⁰, for sums whose largest
+     * term is 1. Branch-free and without integer conversions, so loops over it vectorise (used by
+     * the Monte Carlo intervals of kriged densities and by the excess-count bootstrap).
+     */
+    public static double expFast(double v) {
+        double s = Math.max(v, -45.0) * (1.0 / 64);
+        double p = 1 + s * (1 + s * (1.0 / 2 + s * (1.0 / 6 + s * (1.0 / 24 + s * (1.0 / 120 + s * (1.0 / 720
+                + s * (1.0 / 5040 + s * (1.0 / 40320 + s * (1.0 / 362880 + s * (1.0 / 3628800 + s * (1.0 / 39916800
+                + s * (1.0 / 479001600))))))))))));
+        p *= p;
+        p *= p;
+        p *= p;
+        p *= p;
+        p *= p;
+        return p * p;
+    }
+
+    /**
+     * A copy of grid points, each checked to be finite and, when lower ≤ upper, inside [lower,
+     * upper] (naming the offending index); pass NaN bounds for no domain check.
+     *
+     * @throws IllegalArgumentException for an empty or null array, a non-finite point or one outside
+     */
+    public static double[] checkedPoints(double[] xs, double lower, double upper, String name) {
+        if (xs == null || xs.length == 0) {
+            throw new IllegalArgumentException(name + " must contain at least one point");
+        }
+        for (int i = 0; i < xs.length; i++) {
+            if (!Double.isFinite(xs[i])) {
+                throw new IllegalArgumentException(name + "[" + i + "] is not finite: " + xs[i]);
+            }
+            if (lower <= upper && !(xs[i] >= lower && xs[i] <= upper)) {
+                throw new IllegalArgumentException(name + "[" + i + "] = " + xs[i] + " is outside the domain [" + lower
+                        + ", " + upper + "]; evaluation points must lie in the domain");
+            }
+        }
+        return xs.clone();
+    }
 }

@@ -2,7 +2,6 @@ package io.densa.io.model;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
-import io.densa.regression.surveillance.AnomalyScoring;
 import io.densa.regression.Design;
 import io.densa.regression.Fpca;
 import io.densa.regression.FunctionOnFunctionFit;
@@ -11,6 +10,7 @@ import io.densa.regression.FunctionOnScalarRegression;
 import io.densa.regression.FunctionalFitState;
 import io.densa.regression.FunctionalRegression;
 import io.densa.regression.ScalarOnFunctionFit;
+import io.densa.regression.surveillance.AnomalyScoring;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.OptionalDouble;

@@ -1,9 +1,10 @@
 package io.densa.regression.surveillance;
 
-import io.densa.core.BenjaminiHochberg;
 import io.densa.core.BayesSpace;
+import io.densa.core.BenjaminiHochberg;
 import io.densa.core.DensitySet;
 import io.densa.core.TestResult;
+import io.densa.core.internal.Kernels;
 import io.densa.core.internal.SampleQuantiles;
 import io.densa.core.internal.Seeds;
 import java.util.ArrayList;
@@ -129,7 +130,8 @@ public final class AnomalyScoring {
         if (calibrationResiduals.size() < 1) {
             throw new IllegalArgumentException("calibration set is empty");
         }
-        double[] g = Arguments.grid(calibrationResiduals.space(), grid, "grid");
+        BayesSpace space = calibrationResiduals.space();
+        double[] g = Kernels.checkedPoints(grid, space.lower(), space.upper(), "grid");
         for (int i = 1; i < g.length; i++) {
             if (!(g[i] > g[i - 1])) {
                 throw new IllegalArgumentException("grid must be strictly increasing; grid[" + i + "] = " + g[i]
@@ -200,7 +202,7 @@ public final class AnomalyScoring {
                         + " after " + g[q - 1]);
             }
         }
-        Arguments.grid(space, g, "band grid");
+        Kernels.checkedPoints(g, space.lower(), space.upper(), "band grid");
         return new Calibrated(this, space, sorted, g, lo, hi);
     }
 

@@ -2,6 +2,7 @@ package io.densa.regression.surveillance;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.internal.GaussLegendre;
+import io.densa.core.internal.Kernels;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -100,7 +101,7 @@ final class BandQuadrature {
      * {@link #bandProbabilities(double[], double[])} of n draws at once: draw d has log-density
      * values v_q = base_q + Σ_c f[c·nq + q] z[c][d] at the nodes (f: K rows of nq values), and its
      * band probabilities go to out[t][d]. The arithmetic of each draw is that of the one-draw
-     * method in the same order, except the exponential: {@link #expBlock}, within 3·10⁻¹⁰ relative
+     * method in the same order, except the exponential: {@code Kernels.expFast}, within 3·10⁻¹⁰ relative
      * of the exact one (band probabilities to the same relative accuracy). The work is node by
      * node in loops over the draws, each over whole rows indexed from 0 (v[q][d], z[c][d]): JDK
      * 17's vectoriser handles those, not loops whose arrays carry different offsets (measured
@@ -136,7 +137,7 @@ final class BandQuadrature {
             double[] vq = v[q];
             double[] ob = out[band[q]];
             for (int d = 0; d < n; d++) {
-                vq[d] = expBlock(vq[d] - shift[d]);
+                vq[d] = Kernels.expFast(vq[d] - shift[d]);
             }
             for (int d = 0; d < n; d++) {
                 ob[d] += vq[d];
@@ -151,25 +152,6 @@ final class BandQuadrature {
                 ob[d] /= total[d];
             }
         }
-    }
-
-    /**
-     * exp(y) for y ≤ 0 as P(y/64)^64, P the Taylor polynomial of degree 12 (relative error below
-     * 3·10⁻¹⁰ on [−45, 0]); arguments below −45 give e^−45 ≈ 2.9·10⁻²⁰, negligible against the
-     * largest term 1 of the sums that use it (at most 2·10⁻¹⁸ relative with 75 nodes). Branch-free
-     * and without integer conversions, so loops over it vectorise.
-     */
-    static double expBlock(double y) {
-        double s = Math.max(y, -45.0) * (1.0 / 64);
-        double p = 1 + s * (1 + s * (1.0 / 2 + s * (1.0 / 6 + s * (1.0 / 24 + s * (1.0 / 120 + s * (1.0 / 720
-                + s * (1.0 / 5040 + s * (1.0 / 40320 + s * (1.0 / 362880 + s * (1.0 / 3628800 + s * (1.0 / 39916800
-                + s * (1.0 / 479001600))))))))))));
-        p *= p;
-        p *= p;
-        p *= p;
-        p *= p;
-        p *= p;
-        return p * p;
     }
 
     /**

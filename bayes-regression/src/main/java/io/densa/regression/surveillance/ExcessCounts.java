@@ -312,7 +312,7 @@ public final class ExcessCounts {
             throw new IllegalArgumentException("counts has " + counts.length + " rows, expected " + n
                     + " (one per baseline row)");
         }
-        double[] edges = Arguments.grid(binEdges, "binEdges");
+        double[] edges = Kernels.checkedPoints(binEdges, Double.NaN, Double.NaN, "binEdges");
         int d = edges.length - 1;
         if (d < 1) {
             throw new IllegalArgumentException("binEdges needs at least 2 edges, got " + edges.length);
@@ -328,7 +328,7 @@ public final class ExcessCounts {
             throw new IllegalArgumentException("binEdges run from " + edges[0] + " to " + edges[d]
                     + "; they must cover the domain [" + space.lower() + ", " + space.upper() + "] exactly");
         }
-        double[] bands = Arguments.grid(bandEdges, "bandEdges");
+        double[] bands = Kernels.checkedPoints(bandEdges, Double.NaN, Double.NaN, "bandEdges");
         int nb = bands.length - 1;
         if (nb < 1) {
             throw new IllegalArgumentException("bandEdges needs at least 2 edges, got " + bands.length);

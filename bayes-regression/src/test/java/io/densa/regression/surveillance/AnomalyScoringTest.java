@@ -1,22 +1,22 @@
 package io.densa.regression.surveillance;
 
-import io.densa.core.BenjaminiHochberg;
-import static org.junit.jupiter.api.Assertions.assertArrayEquals;
-import static org.junit.jupiter.api.Assertions.assertEquals;
-import static org.junit.jupiter.api.Assertions.assertFalse;
-import static org.junit.jupiter.api.Assertions.assertThrows;
-import static org.junit.jupiter.api.Assertions.assertTrue;
-
 import io.densa.core.BayesSpace;
+import io.densa.core.BenjaminiHochberg;
 import io.densa.core.DensitySet;
 import io.densa.regression.Design;
 import io.densa.regression.FunctionOnScalarFit;
 import io.densa.regression.FunctionOnScalarRegression;
+import io.densa.regression.TestData;
 import java.util.List;
 import java.util.Random;
 import org.apache.commons.math3.distribution.UniformRealDistribution;
 import org.apache.commons.math3.stat.inference.KolmogorovSmirnovTest;
 import org.junit.jupiter.api.Test;
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 class AnomalyScoringTest {
     private final BayesSpace space = TestData.space8();

@@ -1,5 +1,7 @@
 package io.densa.spatial.uncertainty;
 
+import io.densa.core.internal.Kernels;
+
 /**
  * One bound per location of the node rule's error estimates of all its draws (package-private;
  * 4-point panels only), which lets {@link DrawEngine} skip the per-draw estimates.
@@ -110,7 +112,7 @@ final class CellBound {
                 cen += sl * Math.abs(dirCentre[l * np + j] - bt[l * m + top]);
             }
             double lift = Math.min(40.0, cen + 0.5 * b1 + 0.25 * b2 + 0.125 * b3);
-            sum += nr.ruleConstant * nr.width[j] * e8(b1, b2, b3) * NodeRule.exp(lift);
+            sum += nr.ruleConstant * nr.width[j] * e8(b1, b2, b3) * Kernels.expFast(lift);
         }
         return sum;
     }

@@ -3,6 +3,7 @@ package io.densa.spatial.uncertainty;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
 import io.densa.core.Density;
+import io.densa.core.internal.Kernels;
 import io.densa.core.internal.Seeds;
 import java.util.SplittableRandom;
 import java.util.function.DoubleUnaryOperator;
@@ -241,7 +242,7 @@ final class DrawEngine {
             for (int i = 0; i < m; i++) {
                 int o = i * nc;
                 for (int d = 0; d < nc; d++) {
-                    g[o + d] = NodeRule.exp(y[o + d] - mx[d]);
+                    g[o + d] = Kernels.expFast(y[o + d] - mx[d]);
                 }
             }
             java.util.Arrays.fill(mass, 0, np * nc, 0.0);
@@ -337,7 +338,7 @@ final class DrawEngine {
                     t[d] = t[d] - mx[d];
                 }
                 for (int d = 0; d < nc; d++) {
-                    t[d] = NodeRule.exp(t[d]);
+                    t[d] = Kernels.expFast(t[d]);
                 }
                 System.arraycopy(t, 0, g, o, nc);
             }
@@ -404,7 +405,7 @@ final class DrawEngine {
         }
         int pn = np * nc;
         for (int k = 0; k < pn; k++) {
-            rp[k] *= NodeRule.exp(top[k]);
+            rp[k] *= Kernels.expFast(top[k]);
         }
     }
 
@@ -464,7 +465,7 @@ final class DrawEngine {
                     double a2 = a * a, a3 = a2 * a, a4 = a2 * a2, b2 = b * b, c2 = c * c;
                     double e8 = a4 * a4 / 40320 + a4 * a2 * b / 720 + a4 * b2 / 48 + a2 * b2 * b / 12 + b2 * b2 / 24
                             + a4 * a * c / 120 + a3 * b * c / 6 + a * b2 * c / 2 + a2 * c2 / 4 + b * c2 / 2;
-                    rp[po + d] = cj * e8 * NodeRule.exp(Math.min(40.0, hi[d]));
+                    rp[po + d] = cj * e8 * Kernels.expFast(Math.min(40.0, hi[d]));
                 }
                 continue;
             }
@@ -486,7 +487,7 @@ final class DrawEngine {
             }
             int eo = two * nc;
             for (int d = 0; d < nc; d++) {
-                rp[po + d] = cj * ser[eo + d] * NodeRule.exp(Math.min(40.0, hi[d]));
+                rp[po + d] = cj * ser[eo + d] * Kernels.expFast(Math.min(40.0, hi[d]));
             }
         }
     }

@@ -2,6 +2,7 @@ package io.densa.spatial.uncertainty;
 
 import io.densa.core.Basis;
 import io.densa.core.BayesSpace;
+import io.densa.core.internal.Kernels;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -348,24 +349,6 @@ final class NodeRule {
         return out;
     }
 
-    /**
-     * exp(v) for v ≤ 0 as P(v/64)^64 with P the degree-12 Taylor polynomial of exp (relative error
-     * below 3·10⁻¹⁰ on [−45, 0]); arguments below −45 give e^−45 ≈ 2.9·10⁻²⁰ (used only relative
-     * to a largest term of 1). Branch-free, so loops over it vectorise.
-     */
-    static double exp(double v) {
-        double s = Math.max(v, -45.0) * (1.0 / 64);
-        double p = 1 + s * (1 + s * (1.0 / 2 + s * (1.0 / 6 + s * (1.0 / 24 + s * (1.0 / 120 + s * (1.0 / 720
-                + s * (1.0 / 5040 + s * (1.0 / 40320 + s * (1.0 / 362880 + s * (1.0 / 3628800 + s * (1.0 / 39916800
-                + s * (1.0 / 479001600))))))))))));
-        p *= p;
-        p *= p;
-        p *= p;
-        p *= p;
-        p *= p;
-        return p * p;
-    }
-
     /** ℓ_i(v) for i &lt; q into out. */
     private void lagrange(double v, double[] out) {
         for (int i = 0; i < q; i++) {
@@ -451,14 +434,14 @@ final class NodeRule {
             for (int mm = q - 1; mm >= 0; mm--) {
                 c = c * v + gam[mm];
             }
-            part += uw[i] * exp(c - shift);
+            part += uw[i] * Kernels.expFast(c - shift);
         }
         double cu = 0;
         for (int mm = q - 1; mm >= 0; mm--) {
             cu = cu * u + gam[mm];
         }
         double f = part * h * u - need;
-        double dens = h * exp(cu - shift);
+        double dens = h * Kernels.expFast(cu - shift);
         double nu = dens > 0 ? u - f / dens : Double.NaN;
         if (nu >= 0 && nu <= 1) {
             u = nu;

@@ -1,5 +1,7 @@
 package io.densa.spatial.uncertainty;
 
+import io.densa.core.internal.Kernels;
+
 /**
  * The quantile search of {@link NodeRule} for the draws of a block at once, with its work arrays
  * (package-private; one per thread).
@@ -162,7 +164,7 @@ final class QuantileSearch {
             }
             double wi = uw[i];
             for (int d = 0; d < n; d++) {
-                part[d] += wi * NodeRule.exp(c[d] - shift[d]);
+                part[d] += wi * Kernels.expFast(c[d] - shift[d]);
             }
         }
         for (int d = 0; d < n; d++) {
@@ -177,7 +179,7 @@ final class QuantileSearch {
         for (int d = 0; d < n; d++) {
             double h = hs[d], ud = u[d];
             double f = part[d] * h * ud - need[d];
-            double dens = h * NodeRule.exp(c[d] - shift[d]);
+            double dens = h * Kernels.expFast(c[d] - shift[d]);
             double nu = dens > 0 ? ud - f / dens : Double.NaN;
             if (nu >= 0 && nu <= 1) {
                 ud = nu;

@@ -1,12 +1,10 @@
 package io.densa.spatial.spacetime;
 
 import io.densa.core.BayesSpace;
-import io.densa.core.DensitySet;
 import io.densa.spatial.Locations;
+import io.densa.spatial.TestData;
 import java.util.Random;
 import org.ejml.data.DMatrixRMaj;
-import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
-import org.ejml.interfaces.decomposition.CholeskyDecomposition_F64;
 
 /** Seeded invented space–time data for tests (not reference values). */
 final class SpaceTimeFields {
@@ -55,7 +53,8 @@ final class SpaceTimeFields {
      */
     static SpaceTimeData field(BayesSpace space, double[][] panel, SpaceTimeModel model, long seed) {
         Locations loc = Locations.planar(panel[0], panel[1]);
-        int n = panel[2].length, k = space.dimension();
+        int n = panel[2].length;
+        int k = space.dimension();
         DMatrixRMaj c = covariance(model, loc, panel[2]);
         for (int i = 0; i < n * n; i++) {
             c.data[i] /= k;
@@ -63,26 +62,6 @@ final class SpaceTimeFields {
         for (int i = 0; i < n; i++) {
             c.add(i, i, 1e-10);
         }
-        CholeskyDecomposition_F64<DMatrixRMaj> chol = DecompositionFactory_DDRM.chol(n, true);
-        if (!chol.decompose(c)) {
-            throw new IllegalStateException("covariance not positive definite");
-        }
-        DMatrixRMaj l = chol.getT(null);
-        Random r = new Random(seed);
-        double[][] out = new double[n][k];
-        double[] z = new double[n];
-        for (int q = 0; q < k; q++) {
-            for (int i = 0; i < n; i++) {
-                z[i] = r.nextGaussian();
-            }
-            for (int i = 0; i < n; i++) {
-                double s = 0;
-                for (int j = 0; j <= i; j++) {
-                    s += l.get(i, j) * z[j];
-                }
-                out[i][q] = s;
-            }
-        }
-        return SpaceTimeData.of(loc, panel[2], DensitySet.of(space, out));
+        return SpaceTimeData.of(loc, panel[2], TestData.correlatedCoordinates(space, c, seed));
     }
 }
