@@ -277,11 +277,7 @@ public final class BaselineMonitor {
     public PeriodReport score(Period period) {
         check(period);
         double[] yhat = predictRowMajor(period);
-        double[] y = period.densities().coordinatesRowMajor();
-        double[] r = new double[n * k];
-        for (int j = 0; j < r.length; j++) {
-            r[j] = y[j] - yhat[j];
-        }
+        double[] r = residual(period, yhat);
         double[] x = xValues(period);
         double[] ab = ResidualCalibration.varianceLine(calibration, calibrationX, n, k);
         DensitySet cal = null;
@@ -303,7 +299,7 @@ public final class BaselineMonitor {
             double[] edges = period.binEdges();
             excess = ExcessCounts.withDefaults().withDraws(config.draws, Seeds.mix(config.seed, 2L * period.index() + 1))
                     .estimate(expected, period.counts(), edges, new double[] {edges[0], edges[edges.length - 1]},
-                            ExcessCounts.BaselineError.common(ResidualCalibration.covariance(calibration, n, k)));
+                            ExcessCounts.BaselineError.common(ResidualCalibration.covariance(space, calibration, n, k)));
         }
         return new PeriodReport(period.index(), expected, current, scores, excess);
     }
@@ -323,8 +319,10 @@ public final class BaselineMonitor {
 
     private BaselineMonitor next(Period period, boolean calibrate, boolean recordHistory) {
         List<AlertHistory> h = history;
+        double[] expected = null;
         if (recordHistory && !calibration.isEmpty()) {
             PeriodReport rep = score(period);
+            expected = rep.expected().coordinatesRowMajor();
             h = new ArrayList<>(n);
             for (int i = 0; i < n; i++) {
                 h.add(history.get(i).next(period.index(), rep.flagged(i), rep.overallExcess(i)));
@@ -333,13 +331,7 @@ public final class BaselineMonitor {
         List<double[]> cal = new ArrayList<>(calibration);
         List<double[]> calX = new ArrayList<>(calibrationX);
         if (calibrate) {
-            double[] yhat = predictRowMajor(period);
-            double[] y = period.densities().coordinatesRowMajor();
-            double[] r = new double[n * k];
-            for (int j = 0; j < r.length; j++) {
-                r[j] = y[j] - yhat[j];
-            }
-            cal.add(r);
+            cal.add(residual(period, expected != null ? expected : predictRowMajor(period)));
             calX.add(xValues(period));
             while (cal.size() > config.calibrationPeriods) {
                 cal.remove(0);
@@ -393,6 +385,15 @@ public final class BaselineMonitor {
         }
         return new BaselineMonitor(config, space, ids, q, nzz, nzy, wm, rec, period.estimationVariances(), cal, calX,
                 h, period.index(), absorbed + 1);
+    }
+
+    /** Raw residual coordinates y − ŷ (n × K row-major). */
+    private double[] residual(Period period, double[] yhat) {
+        double[] r = period.densities().coordinatesRowMajor();
+        for (int j = 0; j < r.length; j++) {
+            r[j] -= yhat[j];
+        }
+        return r;
     }
 
     private static void add(double[] a, double[] b, double s) {

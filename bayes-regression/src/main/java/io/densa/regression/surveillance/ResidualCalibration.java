@@ -4,6 +4,7 @@ import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
 import java.util.Arrays;
 import java.util.List;
+import org.ejml.data.DMatrixRMaj;
 
 /** The rolling calibration set's arithmetic: the variance line, standardisation, covariance. */
 final class ResidualCalibration {
@@ -70,33 +71,21 @@ final class ResidualCalibration {
         return DensitySet.ofRowMajor(space, s, n, rowIds);
     }
 
-    /** Covariance (K × K, divisor m − 1) of the raw calibration residuals. */
-    static double[][] covariance(List<double[]> calibration, int n, int k) {
+    /** Covariance (K × K, divisor m − 1, {@link DensitySet#covariance()}) of the raw calibration residuals. */
+    static double[][] covariance(BayesSpace space, List<double[]> calibration, int n, int k) {
         int m = calibration.size() * n;
-        double[] mean = new double[k];
-        for (double[] r : calibration) {
-            for (int i = 0; i < n; i++) {
-                for (int j = 0; j < k; j++) {
-                    mean[j] += r[i * k + j] / m;
-                }
-            }
+        if (m < 2) {
+            return new double[k][k];
         }
-        double[][] c = new double[k][k];
-        for (double[] r : calibration) {
-            for (int i = 0; i < n; i++) {
-                for (int a = 0; a < k; a++) {
-                    double ea = r[i * k + a] - mean[a];
-                    for (int b = 0; b <= a; b++) {
-                        c[a][b] += ea * (r[i * k + b] - mean[b]) / Math.max(1, m - 1);
-                    }
-                }
-            }
+        double[] all = new double[m * k];
+        for (int c = 0; c < calibration.size(); c++) {
+            System.arraycopy(calibration.get(c), 0, all, c * n * k, n * k);
         }
+        DMatrixRMaj cov = DensitySet.ofRowMajor(space, all, m, null).covariance();
+        double[][] out = new double[k][];
         for (int a = 0; a < k; a++) {
-            for (int b = 0; b < a; b++) {
-                c[b][a] = c[a][b];
-            }
+            out[a] = Arrays.copyOfRange(cov.data, a * k, (a + 1) * k);
         }
-        return c;
+        return out;
     }
 }
