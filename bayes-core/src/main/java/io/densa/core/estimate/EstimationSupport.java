@@ -173,10 +173,11 @@ final class EstimationSupport {
      * Makes a symmetric covariance positive semi-definite in place when it is not: cov = V Λ V' is
      * replaced by V Λ₊ V' (negative eigenvalues set to 0), the nearest positive semi-definite matrix
      * in the Frobenius norm (Higham (1988), Computing a nearest symmetric positive semidefinite
-     * matrix, Linear Algebra Appl. 103; from memory). A matrix whose eigenvalues are all ≥ 0 is left
-     * untouched (bit for bit). Sandwich covariances are positive semi-definite in exact arithmetic;
-     * when the data carry almost no information in some direction (e.g. identical observations)
-     * rounding can leave eigenvalues of −1e-20 and a diagonal entry slightly below 0.
+     * matrix, Linear Algebra Appl. 103; from memory). A matrix with a Cholesky factor (positive
+     * definite), or whose eigenvalues are all ≥ 0, is left untouched (bit for bit). Sandwich
+     * covariances are positive semi-definite in exact arithmetic; when the data carry almost no
+     * information in some direction (e.g. identical observations) rounding can leave eigenvalues of
+     * −1e-20 and a diagonal entry slightly below 0.
      *
      * @return true when the matrix was changed
      */
@@ -184,6 +185,11 @@ final class EstimationSupport {
         boolean negDiag = false;
         for (int i = 0; i < k; i++) {
             negDiag |= cov[i * k + i] < 0;
+        }
+        if (!negDiag && Cholesky.factor(cov.clone(), k, k, 0) < 0) {
+            // positive definite (a Cholesky factor with positive pivots exists): nothing to change,
+            // and the eigen-decomposition (about 60 times the work) is not needed
+            return false;
         }
         DMatrixRMaj m = new DMatrixRMaj(k, k, true, cov);
         org.ejml.interfaces.decomposition.EigenDecomposition_F64<DMatrixRMaj> eig =

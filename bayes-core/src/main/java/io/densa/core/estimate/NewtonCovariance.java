@@ -64,19 +64,9 @@ final class NewtonCovariance {
         final int n = k;
         final double[] counts = obj.counts();
         final double total = obj.total(), total2 = obj.total2();
-        for (int i = 0; i < n * n; i++) {
-            solveA[i] = fisher[i] + 2 * lambda * pen[i] + (prior == null ? 0.0 : 2 * prior[i])
-                    + (extra == null ? 0.0 : 2 * extra[i]);
-        }
-        if (Cholesky.factor(solveA, n, n, 0) >= 0) {
-            logDetJ = Double.NaN;
+        if (!factorInformation(lambda, extra)) {
             return Double.NaN;
         }
-        double ld = 0;
-        for (int i = 0; i < n; i++) {
-            ld += Math.log(solveA[i * n + i]);
-        }
-        logDetJ = 2 * ld;
         double[] linv = solveB;
         Cholesky.invertLower(solveA, n, linv);
         double[] wm = scratch2;
@@ -138,6 +128,30 @@ final class NewtonCovariance {
             }
         }
         return edf;
+    }
+
+    /**
+     * After {@link PenalizedObjective#fisherInformation()}: factors J = F + 2λP + 2Q (+ 2E) = LL'
+     * and sets {@link #logDetJ} (NaN, and false returned, when J is not positive definite); the
+     * first step of {@link #sandwich}, alone where only log det J is needed (the marginal
+     * likelihood during the smoothing search).
+     */
+    boolean factorInformation(double lambda, double[] extra) {
+        final int n = k;
+        for (int i = 0; i < n * n; i++) {
+            solveA[i] = fisher[i] + 2 * lambda * pen[i] + (prior == null ? 0.0 : 2 * prior[i])
+                    + (extra == null ? 0.0 : 2 * extra[i]);
+        }
+        if (Cholesky.factor(solveA, n, n, 0) >= 0) {
+            logDetJ = Double.NaN;
+            return false;
+        }
+        double ld = 0;
+        for (int i = 0; i < n; i++) {
+            ld += Math.log(solveA[i * n + i]);
+        }
+        logDetJ = 2 * ld;
+        return true;
     }
 
     /** wm = L⁻¹ a L⁻ᵀ (symmetric, linv = L⁻¹ lower triangular); returns its trace. Uses scratch1. */

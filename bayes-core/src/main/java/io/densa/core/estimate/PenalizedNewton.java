@@ -243,7 +243,12 @@ final class PenalizedNewton {
         return covariance.sandwich(lambda, u, cov, robust, extra);
     }
 
-    /** log det(F + 2λP) from the last {@link #sandwich} (NaN if singular). */
+    /** See {@link NewtonCovariance#factorInformation}: log det J only, without edf or covariance. */
+    boolean factorInformation(double lambda) {
+        return covariance.factorInformation(lambda, null);
+    }
+
+    /** log det(F + 2λP) from the last {@link #sandwich} or {@link #factorInformation} (NaN if singular). */
     double logDetJ() {
         return covariance.logDetJ();
     }

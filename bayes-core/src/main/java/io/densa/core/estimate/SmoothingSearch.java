@@ -180,7 +180,13 @@ final class SmoothingSearch {
         }
         double loglik = eng.logLikelihood();
         double edf = Double.NaN;
-        if (criterion != SmoothingCriterion.CROSS_VALIDATION) {
+        if (criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD) {
+            // needs log det J only (edf is not part of it): the factor without the whitening
+            eng.fisherInformation();
+            if (!eng.factorInformation(lambda)) {
+                return Double.POSITIVE_INFINITY;
+            }
+        } else if (criterion != SmoothingCriterion.CROSS_VALIDATION) {
             eng.fisherInformation();
             edf = eng.sandwich(lambda, u, null);
             if (Double.isNaN(edf)) {
