@@ -54,6 +54,7 @@ final class RowEvaluation {
             if (Double.isNaN(x)) {
                 throw new IllegalArgumentException("grid point " + j + " is NaN");
             }
+            x = set.space.wrap(x);
             inside[j] = Math.min(set.space.upper(), Math.max(set.space.lower(), x));
             ref[j] = set.space.referenceDensity(x);
         }

@@ -16,6 +16,11 @@ package io.densa.core.internal;
  * <li>Steps: the difference penalty Σ_i (Δ^l y)_i² on the bin clr values y = (b_1, …, b_{D−1}, 0)
  * (a difference penalty in the manner of Eilers &amp; Marx (1996), Flexible smoothing with
  * B-splines and penalties, Statistical Science 11(2), from memory).</li>
+ * <li>Periodic splines: the same integral over the whole circle, without boundary: the cardinal
+ * B-splines' derivatives on the integer knots (the same recurrence), scaled by h^−l, h = P/N,
+ * accumulated into periodic index i mod N per knot cell with a k-point rule (exact).</li>
+ * <li>Fourier: cos(jωx) and sin(jωx), ω = 2π/P, have l-th derivatives (jω)^l times a cos or sin of the
+ * same frequency, orthogonal over a period, so the penalty is diagonal with (jω)^{2l} P/2.</li>
  * </ul>
  * Because the basis is centred and orthonormalised by e = T(φ − φ̄), the penalty of coordinates c
  * is c'Ωc with Ω = T P T'.
@@ -38,7 +43,10 @@ public final class RoughnessPenalty {
 
     /** Largest admissible derivative order for a basis. */
     public static int maxOrder(RawBasis basis) {
-        if (basis.isSpline()) {
+        if (basis.isFourier()) {
+            return 6;
+        }
+        if (basis.isSpline() || basis.isPeriodicSpline()) {
             return basis.order() - 1;
         }
         return basis.isPolynomial() ? basis.order() : basis.size();
@@ -52,6 +60,12 @@ public final class RoughnessPenalty {
         }
         if (basis.isSpline()) {
             return spline(basis, l);
+        }
+        if (basis.isPeriodicSpline()) {
+            return periodicSpline(basis, l);
+        }
+        if (basis.isFourier()) {
+            return fourier(basis, l);
         }
         return basis.isPolynomial() ? polynomial(basis, l) : steps(basis, l);
     }
@@ -98,6 +112,57 @@ public final class RoughnessPenalty {
                     }
                 }
             }
+        }
+        return pen;
+    }
+
+    private static double[] periodicSpline(RawBasis basis, int l) {
+        int k = basis.order();
+        int p = k - 1;
+        int size = basis.size();
+        double[] br = basis.knotsView();
+        int n = br.length - 1; // knots on the circle
+        double h = (br[n] - br[0]) / n;
+        double[] u = new double[n + 2 * p + 1];
+        for (int i = 0; i < u.length; i++) {
+            u[i] = i - p;
+        }
+        double[] gx = GaussLegendre.nodes(k);
+        double[] gw = GaussLegendre.weights(k);
+        double scale = 0.5 * h * Math.pow(h, -2.0 * l); // half a unit cell, dx = h du, (d/dx)^l = h^−l (d/du)^l
+        double[] pen = new double[size * size];
+        double[][] ders = new double[l + 1][k];
+        for (int cell = 0; cell < n; cell++) {
+            for (int q = 0; q < k; q++) {
+                derivatives(cell + p, cell + 0.5 + 0.5 * gx[q], p, l, u, ders);
+                double w = scale * gw[q];
+                double[] d = ders[l];
+                for (int i = 0; i <= p; i++) {
+                    int ri = Math.floorMod(cell - p + i, n);
+                    if (ri >= size) {
+                        continue;
+                    }
+                    for (int j = 0; j <= p; j++) {
+                        int rj = Math.floorMod(cell - p + j, n);
+                        if (rj < size) {
+                            pen[ri * size + rj] += w * d[i] * d[j];
+                        }
+                    }
+                }
+            }
+        }
+        return pen;
+    }
+
+    private static double[] fourier(RawBasis basis, int l) {
+        int size = basis.size();
+        double[] br = basis.knotsView();
+        double period = br[1] - br[0];
+        double[] pen = new double[size * size];
+        for (int j = 1; 2 * j <= size; j++) {
+            double v = Math.pow(2 * Math.PI * j / period, 2.0 * l) * period / 2;
+            pen[(2 * j - 2) * size + 2 * j - 2] = v;
+            pen[(2 * j - 1) * size + 2 * j - 1] = v;
         }
         return pen;
     }

@@ -95,6 +95,18 @@ final class CoreCodecs {
         o.end();
     }
 
+    /**
+     * The period P with a + P == b exactly (b − a, or a neighbouring double when a + (b − a) rounds
+     * away from b), so that the restored circle ends at the stored upper end.
+     */
+    private static double period(double a, double b) {
+        double p = b - a;
+        for (int i = 0; i < 4 && a + p != b; i++) {
+            p = a + p < b ? Math.nextUp(p) : Math.nextDown(p);
+        }
+        return p;
+    }
+
     static BayesSpace readSpace(Node n) {
         double a = n.get("lower").real();
         double b = n.get("upper").real();
@@ -109,9 +121,16 @@ final class CoreCodecs {
             switch (kind) {
                 case SPLINE: return BayesSpace.splines(a, b, order, Arrays.copyOfRange(bp, 1, bp.length - 1));
                 case POLYNOMIAL: return BayesSpace.polynomials(a, b, order);
+                case PERIODIC_SPLINE: return BayesSpace.periodicSplines(a, period(a, b), order, bp.length - 1);
+                case FOURIER: return BayesSpace.fourier(a, period(a, b), order);
                 default: return BayesSpace.steps(bp);
             }
         });
+        if (s.isPeriodic() && !Arrays.equals(s.basis().breakpoints(), bp)) {
+            throw basis.get("breakpoints").error(kind == Basis.Kind.FOURIER ? "must be [" + a + ", " + b + "] for a"
+                    + " Fourier basis" : "must be the " + (bp.length - 1) + " equally spaced knots a + j(b − a)/"
+                    + (bp.length - 1) + " followed by b, as a periodic spline space writes them");
+        }
         Node ref = n.get("reference");
         Reference.Kind rk = ref.get("kind").enumValue(Reference.Kind.class);
         switch (rk) {
