@@ -21,7 +21,7 @@ import java.util.Objects;
  *   <li>{@link Kind#STEP}: indicators of bins [e_j, e_{j+1}) (the last bin closed), the last
  *   one dropped, K = D − 1;</li>
  *   <li>{@link Kind#PERIODIC_SPLINE}: on the circle [a, a + P), the N periodic B-splines of order k on
- *   N equally spaced knots a + jP/N (the cardinal B-spline wrapped around the circle); they sum to
+ *   N knots a = t_0 &lt; … &lt; t_{N−1} (equally spaced by default), continued around the circle; they sum to
  *   1 (partition of unity, de Boor (1978)), so the last one is dropped and K = N − 1;</li>
  *   <li>{@link Kind#FOURIER}: on the circle [a, a + P), cos(2πj(x − a)/P) and sin(2πj(x − a)/P),
  *   j = 1..H, K = 2H.</li>
@@ -126,6 +126,40 @@ public final class Basis {
     }
 
     static Basis periodicSpline(double a, double b, int order, int knotCount) {
+        checkPeriodicSpline(order, knotCount);
+        double[] k = new double[knotCount + 1];
+        for (int i = 0; i < knotCount; i++) {
+            k[i] = a + (b - a) * i / knotCount;
+        }
+        k[knotCount] = b;
+        return new Basis(Kind.PERIODIC_SPLINE, order, k);
+    }
+
+    /** Periodic splines on the knots a = knots[0] &lt; knots[1] &lt; … &lt; b (not modified). */
+    static Basis periodicSpline(double a, double b, int order, double[] knots) {
+        Objects.requireNonNull(knots, "knots");
+        checkPeriodicSpline(order, knots.length);
+        double[] k = Arrays.copyOf(knots, knots.length + 1);
+        k[knots.length] = b;
+        for (int i = 0; i < knots.length; i++) {
+            double t = knots[i];
+            if (i == 0 && Double.compare(t, a) != 0) {
+                throw new IllegalArgumentException("the first knot must be the cut point start = " + a + ", got " + t
+                        + "; choose the start of the circle at a knot");
+            }
+            if (!(t >= a && t < b)) {
+                throw new IllegalArgumentException("knot " + i + " = " + t + " lies outside the circle [" + a + ", " + b
+                        + "); knots must be finite and in [start, start + period)");
+            }
+            if (i > 0 && !(t > knots[i - 1])) {
+                throw new IllegalArgumentException("knots must be strictly increasing: knot " + i + " = " + t
+                        + " follows " + knots[i - 1]);
+            }
+        }
+        return new Basis(Kind.PERIODIC_SPLINE, order, k);
+    }
+
+    private static void checkPeriodicSpline(int order, int knotCount) {
         if (!(order >= 2 && order <= 12)) {
             throw new IllegalArgumentException("periodic spline order must be in [2, 12] (4 = cubic), got " + order);
         }
@@ -134,12 +168,6 @@ public final class Basis {
                     + Math.max(order, 3) + " and 100000 knots on the circle (at least the order, and 3), got "
                     + knotCount);
         }
-        double[] k = new double[knotCount + 1];
-        for (int i = 0; i < knotCount; i++) {
-            k[i] = a + (b - a) * i / knotCount;
-        }
-        k[knotCount] = b;
-        return new Basis(Kind.PERIODIC_SPLINE, order, k);
     }
 
     static Basis fourier(double a, double b, int harmonics) {
@@ -171,8 +199,8 @@ public final class Basis {
 
     /**
      * Breakpoints: the knots a, interior..., b of a spline basis, the bin edges of a step basis,
-     * {a, b} for polynomials and Fourier functions, the N equally spaced knots of periodic splines
-     * followed by a + P = b (a fresh copy).
+     * {a, b} for polynomials and Fourier functions, the N knots a = t_0 &lt; … &lt; t_{N−1} of periodic
+     * splines followed by a + P = b (a fresh copy).
      */
     public double[] breakpoints() {
         return knots.clone();

@@ -190,6 +190,19 @@ public final class BayesSpace {
     }
 
     /**
+     * Periodic splines as {@link #periodicSplines(double, double, int, int)} on the given knots of the
+     * circle (K = knots.length − 1).
+     *
+     * @param knots strictly increasing knots in [start, start + period), the first equal to start, at
+     *              least max(order, 3) of them (not modified)
+     */
+    public static BayesSpace periodicSplines(double start, double period, int order, double[] knots) {
+        double b = start + period;
+        QuadratureGrid.checkDomain(start, b);
+        return new BayesSpace(start, b, Reference.lebesgue(), Basis.periodicSpline(start, b, order, knots));
+    }
+
+    /**
      * Space on the circle [start, start + period) spanned by cos(2πj(x − start)/period) and
      * sin(2πj(x − start)/period), j = 1..harmonics (K = 2·harmonics), Lebesgue reference; with it the
      * orthonormal basis is √(2/P) times these functions. The von Mises family, an exponential family
@@ -336,20 +349,6 @@ public final class BayesSpace {
             System.arraycopy(row, 0, m.data, i * dim, dim);
         }
         return m;
-    }
-
-    /** The transposed basis matrix K × m (row k = e_k at every x), for batch products. */
-    double[] basisTransposed(double[] xs) {
-        double[] out = new double[dim * xs.length];
-        double[] raw = new double[dim];
-        double[] row = new double[dim];
-        for (int i = 0; i < xs.length; i++) {
-            basisAt(xs[i], row, raw);
-            for (int k = 0; k < dim; k++) {
-                out[k * xs.length + i] = row[k];
-            }
-        }
-        return out;
     }
 
     void checkPoint(double x) {

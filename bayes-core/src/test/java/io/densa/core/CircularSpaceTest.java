@@ -197,6 +197,67 @@ class CircularSpaceTest {
         }
     }
 
+    /**
+     * B-spline i of order k on knots t at x by the Cox–de Boor recursion from its definition
+     * (de Boor (1978), A Practical Guide to Splines, Springer, chapter IX), written independently of
+     * the library's triangular scheme.
+     */
+    private static double coxDeBoor(double[] t, int i, int k, double x) {
+        if (k == 1) {
+            return t[i] <= x && x < t[i + 1] ? 1 : 0;
+        }
+        double left = t[i + k - 1] > t[i] ? (x - t[i]) / (t[i + k - 1] - t[i]) * coxDeBoor(t, i, k - 1, x) : 0;
+        double right = t[i + k] > t[i + 1] ? (t[i + k] - x) / (t[i + k] - t[i + 1]) * coxDeBoor(t, i + 1, k - 1, x) : 0;
+        return left + right;
+    }
+
+    @Test
+    void periodicSplinesOnGivenKnotsAreTheWrappedBSplinesAndSumToOne() {
+        double start = -1, period = 10;
+        double[] knots = {-1, -0.2, 0.5, 2.5, 3, 4.8, 6, 8.1};
+        int n = knots.length;
+        for (int order : new int[] {2, 3, 4, 5}) {
+            BayesSpace s = BayesSpace.periodicSplines(start, period, order, knots);
+            assertEquals(n - 1, s.dimension());
+            RawBasis raw = s.basis().raw();
+            double[] vals = new double[raw.scratchSize()];
+            // the knots continued around the circle over three turns: B-spline j + n·turn is periodic function j
+            double[] t = new double[3 * n + 1];
+            for (int i = 0; i <= 3 * n; i++) {
+                t[i] = knots[i % n] + period * (i / n - 1);
+            }
+            SplittableRandom rnd = new SplittableRandom(order);
+            for (int rep = 0; rep < 300; rep++) {
+                double x = start + period * rnd.nextDouble();
+                raw.evalLocal(x + period * (rnd.nextInt(5) - 2), vals); // evaluated a few turns away
+                double total = 0;
+                for (int j = 0; j < n; j++) {
+                    double v = 0;
+                    for (int turn = 0; turn < 3; turn++) {
+                        int i = j + n * turn;
+                        if (i + order < t.length) {
+                            v += coxDeBoor(t, i, order, x);
+                        }
+                    }
+                    total += v;
+                    if (j < n - 1) {
+                        assertEquals(v, vals[j], 1e-12, "order " + order + ", function " + j + " at " + x);
+                    }
+                }
+                // partition of unity (de Boor (1978)): the n periodic B-splines sum to 1
+                assertEquals(1.0, total, 1e-12, "order " + order + " at " + x);
+            }
+        }
+        double[] equal = new double[8];
+        for (int i = 0; i < 8; i++) {
+            equal[i] = 2 + 12.0 * i / 8;
+        }
+        assertEquals(BayesSpace.periodicSplines(2, 12, 4, 8), BayesSpace.periodicSplines(2, 12, 4, equal));
+        assertThrows(IllegalArgumentException.class, () -> BayesSpace.periodicSplines(0, 10, 4, new double[] {1, 2, 3, 4}));
+        assertThrows(IllegalArgumentException.class, () -> BayesSpace.periodicSplines(0, 10, 4, new double[] {0, 2, 2, 4}));
+        assertThrows(IllegalArgumentException.class, () -> BayesSpace.periodicSplines(0, 10, 4, new double[] {0, 2, 4, 10}));
+    }
+
     @Test
     void periodicSplineSpaceIsInvariantUnderRotationByAKnotSpacing() {
         double start = 5, period = 12;

@@ -9,8 +9,8 @@ import java.util.Arrays;
  * recurrence); Legendre polynomials P_1..P_d of the variable mapped affinely onto [−1, 1]
  * (three-term recurrence, Abramowitz &amp; Stegun (1964), 22.7.10); indicators of the bins
  * [e_j, e_{j+1}) of a step basis (the last bin closed), the last one dropped; on a circle
- * [a, a + P): the N periodic B-splines of order k on N equally spaced knots (the cardinal B-spline
- * wrapped around the circle; they sum to 1, de Boor (1978), so the last one is dropped, K = N − 1) and
+ * [a, a + P): the N periodic B-splines of order k on N knots a = t_0 &lt; … &lt; t_{N−1} continued
+ * around the circle (they sum to 1, de Boor (1978), so the last one is dropped, K = N − 1) and
  * the Fourier functions cos(2πj(x − a)/P), sin(2πj(x − a)/P), j = 1..H (K = 2H). The periodic kinds
  * are evaluated densely (every function at every point, first index 0) and wrap x modulo P.
  *
@@ -48,7 +48,7 @@ public final class RawBasis {
             ext = null;
             size = order;
         } else if (kind == PERIODIC) {
-            ext = null;
+            ext = periodicKnots(order, knots);
             size = knots.length - 2;
         } else if (kind == FOURIER) {
             ext = null;
@@ -78,8 +78,9 @@ public final class RawBasis {
     }
 
     /**
-     * Periodic B-splines of the given order on the equally spaced knots a, a + P/N, …, a + P = b
-     * (copied; N = knots.length − 1 ≥ order, checked by the caller).
+     * Periodic B-splines of the given order on the knots a = t_0 &lt; t_1 &lt; … &lt; t_{N−1} of the
+     * circle, given with t_N = b = a + P appended (copied; strictly increasing, N = knots.length − 1 ≥
+     * order, checked by the caller).
      */
     public static RawBasis periodicSpline(int order, double[] knots) {
         return new RawBasis(PERIODIC, order, knots.clone());
@@ -251,23 +252,41 @@ public final class RawBasis {
     }
 
     /**
-     * Dense values of the periodic B-splines at y in [a, b): the cardinal B-splines of order k on the
-     * integer knots, evaluated at u = (y − a)/h (h = P/N) by de Boor's triangular recurrence (de Boor
-     * (1978)), B-spline i (support [i, i + k)) being periodic function i mod N; index N − 1 is dropped.
-     * Uses vals[K..K + 3k) as work space.
+     * The knots of a periodic spline continued around the circle: ext[i] = t_{(i − p) mod N} + P ⌊(i −
+     * p)/N⌋ for i = 0..N + 2p (p = order − 1), so ext[p] = a and ext[p + N] = b; B-spline i on
+     * ext[i..i + k] is periodic function (i − p) mod N.
+     */
+    public static double[] periodicKnots(int order, double[] knots) {
+        int p = order - 1;
+        int n = knots.length - 1;
+        double period = knots[n] - knots[0];
+        double[] e = new double[n + 2 * p + 1];
+        for (int i = 0; i < e.length; i++) {
+            int r = i - p;
+            e[i] = knots[Math.floorMod(r, n)] + period * Math.floorDiv(r, n);
+        }
+        for (int i = 0; i <= n; i++) {
+            e[p + i] = knots[i]; // the stored knots themselves, b included
+        }
+        return e;
+    }
+
+    /**
+     * Dense values of the periodic B-splines at y in [a, b): the B-splines of order k on the knots
+     * continued around the circle ({@link #periodicKnots}), evaluated by de Boor's triangular
+     * recurrence (de Boor (1978)), B-spline i being periodic function (i − p) mod N; function N − 1 is
+     * dropped. Uses vals[K..K + 3k) as work space.
      */
     private void periodicLocal(double y, double[] vals) {
         int k = order;
         int p = k - 1;
         int nk = knots.length - 1; // N
-        double u = (y - knots[0]) / (knots[nk] - knots[0]) * nk;
-        int s = Math.min(nk - 1, Math.max(0, (int) Math.floor(u)));
-        double t = u - s;
+        int s = Math.max(p, Sorted.lastAtMost(ext, p, p + nk - 1, y)); // ext[s] <= y < ext[s + 1]
         int o = size; // work space
         vals[o] = 1.0;
         for (int j = 1; j <= p; j++) {
-            vals[o + k + j] = t + j - 1; // u − (s + 1 − j)
-            vals[o + 2 * k + j] = j - t; // (s + j) − u
+            vals[o + k + j] = y - ext[s + 1 - j];
+            vals[o + 2 * k + j] = ext[s + j] - y;
             double saved = 0.0;
             for (int r = 0; r < j; r++) {
                 double temp = vals[o + r] / (vals[o + 2 * k + r + 1] + vals[o + k + j - r]);
@@ -278,7 +297,7 @@ public final class RawBasis {
         }
         Arrays.fill(vals, 0, size, 0.0);
         for (int i = 0; i <= p; i++) {
-            int j = Math.floorMod(s - p + i, nk);
+            int j = Math.floorMod(s - p + i - p, nk);
             if (j < size) {
                 vals[j] += vals[o + i];
             }

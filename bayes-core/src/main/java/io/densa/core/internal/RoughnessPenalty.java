@@ -16,9 +16,9 @@ package io.densa.core.internal;
  * <li>Steps: the difference penalty Σ_i (Δ^l y)_i² on the bin clr values y = (b_1, …, b_{D−1}, 0)
  * (a difference penalty in the manner of Eilers &amp; Marx (1996), Flexible smoothing with
  * B-splines and penalties, Statistical Science 11(2), from memory).</li>
- * <li>Periodic splines: the same integral over the whole circle, without boundary: the cardinal
- * B-splines' derivatives on the integer knots (the same recurrence), scaled by h^−l, h = P/N,
- * accumulated into periodic index i mod N per knot cell with a k-point rule (exact).</li>
+ * <li>Periodic splines: the same integral over the whole circle, without boundary: the derivatives
+ * of the B-splines on the knots continued around the circle (the same recurrence), accumulated into
+ * their periodic index per knot span with a k-point rule (exact).</li>
  * <li>Fourier: cos(jωx) and sin(jωx), ω = 2π/P, have l-th derivatives (jω)^l times a cos or sin of the
  * same frequency, orthogonal over a period, so the penalty is diagonal with (jω)^{2l} P/2.</li>
  * </ul>
@@ -120,30 +120,26 @@ public final class RoughnessPenalty {
         int k = basis.order();
         int p = k - 1;
         int size = basis.size();
-        double[] br = basis.knotsView();
-        int n = br.length - 1; // knots on the circle
-        double h = (br[n] - br[0]) / n;
-        double[] u = new double[n + 2 * p + 1];
-        for (int i = 0; i < u.length; i++) {
-            u[i] = i - p;
-        }
+        int n = basis.knotsView().length - 1; // knots on the circle
+        double[] u = RawBasis.periodicKnots(k, basis.knotsView());
         double[] gx = GaussLegendre.nodes(k);
         double[] gw = GaussLegendre.weights(k);
-        double scale = 0.5 * h * Math.pow(h, -2.0 * l); // half a unit cell, dx = h du, (d/dx)^l = h^−l (d/du)^l
         double[] pen = new double[size * size];
         double[][] ders = new double[l + 1][k];
-        for (int cell = 0; cell < n; cell++) {
+        for (int s = p; s < p + n; s++) {
+            double lo = u[s], hi = u[s + 1];
+            double h = 0.5 * (hi - lo), c = 0.5 * (hi + lo);
             for (int q = 0; q < k; q++) {
-                derivatives(cell + p, cell + 0.5 + 0.5 * gx[q], p, l, u, ders);
-                double w = scale * gw[q];
+                derivatives(s, c + h * gx[q], p, l, u, ders);
+                double w = h * gw[q];
                 double[] d = ders[l];
                 for (int i = 0; i <= p; i++) {
-                    int ri = Math.floorMod(cell - p + i, n);
+                    int ri = Math.floorMod(s - p + i - p, n);
                     if (ri >= size) {
                         continue;
                     }
                     for (int j = 0; j <= p; j++) {
-                        int rj = Math.floorMod(cell - p + j, n);
+                        int rj = Math.floorMod(s - p + j - p, n);
                         if (rj < size) {
                             pen[ri * size + rj] += w * d[i] * d[j];
                         }
