@@ -6,7 +6,8 @@ import org.ejml.data.DMatrixRMaj;
 import io.densa.core.DistributionFunctions.Shape;
 
 /**
- * A Bayes Hilbert space B2(P) of densities on a bounded interval I = [a, b], with reference
+ * A Bayes Hilbert space B2(P) of densities on a bounded interval I = [a, b] or on a circle
+ * [a, a + P) ({@link #periodicSplines}, {@link #fourier}; see {@link #isPeriodic()}), with reference
  * measure P and an orthonormal basis e_1..e_K of the clr subspace of L2(P) (functions with
  * zero P-integral). Every density f of the space is stored as its coordinates
  * c_k = ⟨clr f, e_k⟩_P, so that perturbation, powering, the B2 inner product, norms and distances
@@ -237,11 +238,10 @@ public final class BayesSpace {
     }
 
     /**
-     * Whether the domain is a circle ({@link #periodicSplines}, {@link #fourier}): then x outside
-     * [lower(), upper()) is taken modulo the period by clr, pdf, log pdf, cdf, tail probabilities and
-     * the basis, {@link Density#cdf} and {@link Density#quantile} measure from the cut point
-     * lower() (see {@link Density#cdfFrom} for another one), and the circular summaries
-     * {@link Density#circularMean()} and {@link Density#meanResultantLength()} are defined.
+     * Whether the domain is a circle: then clr, pdf, log pdf, cdf, tail probabilities and the basis take
+     * x modulo the period, {@link Density#cdf} and {@link Density#quantile} measure from the cut point
+     * lower() ({@link Density#cdfFrom} from another), and {@link Density#circularMean()} and
+     * {@link Density#meanResultantLength()} are defined.
      */
     public boolean isPeriodic() {
         return basis.isPeriodic();

@@ -168,6 +168,10 @@ final class BinLayout {
         static BatchEstimate fitAll(PenalizedLikelihoodEstimator est, double[] edges, int[][] counts, String[] ids,
                 DetectionLimits limits) {
             BayesSpace space = est.space();
+            if (space.isPeriodic()) {
+                throw new IllegalArgumentException("detection limits cut the domain at a lower or upper limit, but "
+                        + space + " is a circle, which has neither; fit the counts without limits");
+            }
             double[] e = EstimationSupport.checkEdges(space, edges);
             EstimationSupport.checkIds(ids, counts.length);
             if (limits.size() != counts.length) {

@@ -153,4 +153,108 @@ class CircularEstimationTest {
         // a bin layout well inside the period tolerance is accepted
         est.fit(new double[] {10, 100, 200, 375 + 1e-13}, new int[] {4, 5, 6});
     }
+
+    @Test
+    void samplesAreTakenModuloThePeriod() {
+        double kappa = 3, mu = 362;
+        double[] sample = vonMisesSample(1500, kappa, mu, 77L);
+        double[] turned = sample.clone();
+        SplittableRandom rnd = new SplittableRandom(3);
+        for (int i = 0; i < turned.length; i++) {
+            turned[i] += PERIOD * (rnd.nextInt(5) - 2); // the same days, some a year or two off
+        }
+        BayesSpace space = BayesSpace.periodicSplines(0, PERIOD, 4, 20);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space)
+                .withCriterion(SmoothingCriterion.AIC);
+        UnitEstimate f = est.fitSample(sample);
+        UnitEstimate g = est.fitSample(turned);
+        assertTrue(f.density().distance(g.density()) < 1e-8, "distance " + f.density().distance(g.density()));
+        assertEquals(0.0, f.diagnostics().extrapolationShare(), 0.0);
+        // mean direction within sampling error (Mardia & Jupp (2000), 4.8.2: about 1.3 days here), R = I1/I0 (3.5.4)
+        double m = f.density().circularMean();
+        assertTrue(Math.min(Math.abs(m - mu), PERIOD - Math.abs(m - mu)) < 5, "mean direction " + m);
+        assertEquals(besselRatio(kappa), f.density().meanResultantLength(), 0.03);
+    }
+
+    @Test
+    void smoothingSplineEstimatorAcceptsWrappingBins() {
+        double kappa = 4, mu = 2;
+        double[] sample = vonMisesSample(4000, kappa, mu, 20261204L);
+        BayesSpace space = BayesSpace.periodicSplines(0, PERIOD, 4, 12);
+        SmoothingSplineEstimator est = SmoothingSplineEstimator.withDefaults(space);
+        double[] e = edges(3, 5);
+        int[] counts = bin(sample, e);
+        Density f = est.fit(e, counts).density();
+        double m = f.circularMean();
+        assertTrue(Math.min(Math.abs(m - mu), PERIOD - Math.abs(m - mu)) < 4, "mean direction " + m);
+        assertEquals(besselRatio(kappa), f.meanResultantLength(), 0.05);
+        double[] e2 = edges(-2, 5);
+        Density g = est.fit(e2, bin(sample, e2)).density();
+        assertTrue(f.distance(g) < 1e-7 * (1 + f.norm()), "relabelled bins: distance " + f.distance(g));
+    }
+
+    @Test
+    void fourierPenaltyOfAVonMisesDensityIsItsClosedForm() {
+        // clr = κ cos(ω(x − μ)), ω = 2π/P: ∫_0^P (clr^{(l)})² dx = κ² ω^{2l} P/2 (direct integration
+        // of cos² over a period), with no boundary terms
+        BayesSpace space = BayesSpace.fourier(0, PERIOD, 3);
+        double kappa = 2.5, mu = 100, w = 2 * Math.PI / PERIOD;
+        double t = w * mu;
+        double[] c = {kappa * Math.sqrt(PERIOD / 2) * Math.cos(t), kappa * Math.sqrt(PERIOD / 2) * Math.sin(t), 0, 0, 0, 0};
+        for (int l = 1; l <= 3; l++) {
+            double[] om = PenalizedLikelihoodEstimator.withDefaults(space).withPenaltyOrder(l).penalty().data;
+            double q = quadratic(om, c);
+            double expected = kappa * kappa * Math.pow(w, 2 * l) * PERIOD / 2;
+            assertEquals(expected, q, 1e-10 * expected, "order " + l);
+        }
+    }
+
+    @Test
+    void periodicSplinePenaltyHasNoBoundary() {
+        // rotating a density by one knot spacing permutes the periodic B-splines, so a penalty without
+        // boundary (the integral over the whole circle) gives the rotated density the same roughness
+        BayesSpace space = BayesSpace.periodicSplines(0, 12, 4, 8);
+        double h = 1.5;
+        double[] om = PenalizedLikelihoodEstimator.withDefaults(space).penalty().data;
+        SplittableRandom rnd = new SplittableRandom(21);
+        for (int rep = 0; rep < 5; rep++) {
+            double[] c = new double[space.dimension()];
+            for (int k = 0; k < c.length; k++) {
+                c[k] = rnd.nextDouble(-1, 1);
+            }
+            Density f = space.density(c);
+            Density g = space.projectLogPdf(x -> f.logPdf(x - h)).density();
+            double qf = quadratic(om, c), qg = quadratic(om, g.coordinates());
+            assertEquals(qf, qg, 1e-9 * qf);
+            assertTrue(qf > 0);
+        }
+        // only constants have zero roughness on the circle: the penalty is positive definite on the clr subspace
+        org.ejml.data.DMatrixRMaj m = PenalizedLikelihoodEstimator.withDefaults(space).penalty();
+        var eig = org.ejml.dense.row.factory.DecompositionFactory_DDRM.eig(m.numRows, false, true);
+        assertTrue(eig.decompose(m.copy()));
+        double smallest = Double.POSITIVE_INFINITY;
+        for (int i = 0; i < m.numRows; i++) {
+            smallest = Math.min(smallest, eig.getEigenvalue(i).real);
+        }
+        assertTrue(smallest > 1e-8, "smallest eigenvalue " + smallest);
+    }
+
+    private static double quadratic(double[] m, double[] c) {
+        int k = c.length;
+        double s = 0;
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j < k; j++) {
+                s += c[i] * m[i * k + j] * c[j];
+            }
+        }
+        return s;
+    }
+
+    @Test
+    void detectionLimitsAreRefusedOnACircle() {
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(BayesSpace.fourier(0, PERIOD, 2));
+        IllegalArgumentException ex = assertThrows(IllegalArgumentException.class, () -> est.fitAll(edges(0, 73),
+                new int[][] {{1, 2, 3, 4, 5}}, null, DetectionLimits.lower(100)));
+        assertTrue(ex.getMessage().contains("circle"), ex.getMessage());
+    }
 }
