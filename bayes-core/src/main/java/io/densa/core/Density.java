@@ -387,7 +387,8 @@ public final class Density {
     }
 
     /**
-     * Mean E[X], in [a, b].
+     * Mean E[X], in [a, b] (on a periodic space, of the position measured from the cut point a; the
+     * summary that does not depend on the cut is {@link #circularMean()}).
      *
      * @throws DensaException if the coordinates are too large to evaluate
      */

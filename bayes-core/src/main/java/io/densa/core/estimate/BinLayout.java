@@ -60,10 +60,9 @@ final class BinLayout {
             for (int i = 0; i < edges.length; i++) {
                 edges[i] += shift;
             }
-            double[] twice = new double[2 * br.length];
-            for (int i = 0; i < br.length; i++) {
-                twice[i] = br[i];
-                twice[br.length + i] = br[i] + period;
+            double[] twice = Arrays.copyOf(br, 2 * br.length - 1); // the knots, then again one period on
+            for (int i = 1; i < br.length; i++) {
+                twice[br.length - 1 + i] = br[i] + period;
             }
             br = twice;
         }
