@@ -427,7 +427,7 @@ public final class Density {
     /**
      * Mean direction of a density on a circle (a {@link BayesSpace#isPeriodic() periodic} space): with
      * θ = 2π(x − a)/P, the angle μ of the first trigonometric moment E[cos θ] + i E[sin θ] = R e^{iμ}
-     * (Mardia &amp; Jupp (2000), Directional Statistics, Wiley, 2.2.1), returned as the position
+     * (Mardia &amp; Jupp (2000), Directional Statistics, Wiley, chapter 2, from memory), returned as the position
      * a + μP/(2π) in [a, a + P).
      *
      * @throws IllegalStateException if the space is not periodic, or if R &lt; 1e-12 (a density as
@@ -449,7 +449,7 @@ public final class Density {
     /**
      * Mean resultant length R = |E[e^{iθ}]| in [0, 1], θ = 2π(x − a)/P, of a density on a circle: 0
      * for the uniform density, near 1 for a concentrated one (Mardia &amp; Jupp (2000), Directional
-     * Statistics, Wiley, 2.3.1); for the von Mises density R = I₁(κ)/I₀(κ).
+     * Statistics, Wiley, chapter 2, from memory); for the von Mises density R = I₁(κ)/I₀(κ).
      *
      * @throws IllegalStateException if the space is not periodic
      * @throws DensaException        if the coordinates are too large to evaluate

@@ -278,7 +278,7 @@ final class DistributionFunctions {
 
     /**
      * The first trigonometric moment (∫ cos θ f dx, ∫ sin θ f dx) with θ = 2π(x − a)/(b − a) (Mardia &amp;
-     * Jupp (2000), Directional Statistics, Wiley, 3.4.1), by the panels' rules or adaptive leaves.
+     * Jupp (2000), Directional Statistics, Wiley, chapter 3, from memory), by the panels' rules or adaptive leaves.
      */
     double[] trigMoments(Shape sh, double[] clrNodes) {
         if (sh.isPointMass()) {

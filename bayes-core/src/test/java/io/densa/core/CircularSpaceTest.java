@@ -20,7 +20,7 @@ class CircularSpaceTest {
     /**
      * Modified Bessel function I_ν(z) of integer order by its power series
      * I_ν(z) = (z/2)^ν Σ_k (z²/4)^k / (k! (ν + k)!) (Abramowitz &amp; Stegun (1964), Handbook of
-     * Mathematical Functions, 9.6.10), summed until the terms no longer change the sum.
+     * Mathematical Functions, 9.6.10, equation number from memory), summed until the terms no longer change the sum.
      */
     static double besselI(int nu, double z) {
         double term = 1;
@@ -41,7 +41,7 @@ class CircularSpaceTest {
 
     @Test
     void besselSeriesMatchesTheIntegralRepresentation() {
-        // I_n(z) = (1/π) ∫_0^π e^{z cos t} cos(nt) dt (Abramowitz & Stegun (1964), 9.6.19), by
+        // I_n(z) = (1/π) ∫_0^π e^{z cos t} cos(nt) dt (Abramowitz & Stegun (1964), 9.6.19, from memory), by
         // Commons Math's Gauss–Legendre integration: an independent check of the series
         IterativeLegendreGaussIntegrator integ = new IterativeLegendreGaussIntegrator(16, 1e-15, 1e-15);
         for (int n = 0; n <= 1; n++) {
@@ -63,7 +63,7 @@ class CircularSpaceTest {
         return new double[] {s * Math.cos(t), s * Math.sin(t)};
     }
 
-    /** von Mises pdf on [start, start + P): exp(κ cos(θ − θμ)) / (P I0(κ)) (Mardia &amp; Jupp (2000), 3.5.4). */
+    /** von Mises pdf on [start, start + P): exp(κ cos(θ − θμ)) / (P I0(κ)) (Mardia &amp; Jupp (2000), Directional Statistics, Wiley, §3.5.4, section number from memory). */
     private static double vonMisesPdf(double start, double period, double kappa, double mu, double x) {
         double th = 2 * Math.PI * (x - mu) / period;
         return Math.exp(kappa * Math.cos(th)) / (period * besselI(0, kappa));
@@ -82,11 +82,11 @@ class CircularSpaceTest {
             for (int i = 0; i <= 200; i++) {
                 double x = start - period + 3 * period * i / 200.0; // three turns: wrapping included
                 double expected = vonMisesPdf(start, period, kappa, mu, x);
-                // closed form: Mardia & Jupp (2000), Directional Statistics, 3.5.4; A&S 9.6.10 for I0
+                // closed form: Mardia & Jupp (2000), Directional Statistics, §3.5.4 (from memory); A&S 9.6.10 for I0
                 assertEquals(expected, f.pdf(x), 1e-12 * expected, "pdf at " + x);
                 assertEquals(kappa * Math.cos(2 * Math.PI * (x - mu) / period), f.clr(x), 1e-12 * kappa);
             }
-            // mean resultant length I1(κ)/I0(κ) and mean direction μ (Mardia & Jupp (2000), 3.5.4)
+            // mean resultant length I1(κ)/I0(κ) and mean direction μ (Mardia & Jupp (2000), §3.5.4, from memory)
             assertEquals(besselI(1, kappa) / besselI(0, kappa), f.meanResultantLength(), 1e-12);
             double m = f.circularMean();
             assertTrue(m >= start && m < start + period, "mean direction " + m + " on [start, start + P)");
@@ -98,7 +98,7 @@ class CircularSpaceTest {
     @Test
     void perturbationAddsNaturalParameters() {
         // exponential family: perturbation multiplies the densities, so the natural parameters
-        // κ e^{iμ} add (Mardia & Jupp (2000), 3.5.4, the von Mises family in natural parameters)
+        // κ e^{iμ} add (Mardia & Jupp (2000), §3.5.4 from memory, the von Mises family in natural parameters)
         double start = 0, period = 24;
         BayesSpace s = BayesSpace.fourier(start, period, 1);
         double k1 = 1.5, m1 = 3, k2 = 2.5, m2 = 20;

@@ -20,7 +20,7 @@ class CircularEstimationTest {
     /**
      * A von Mises sample on [0, P) by rejection from the uniform: accept θ with probability
      * e^{κ(cos(θ − μ) − 1)} (von Neumann (1951), Various techniques used in connection with random
-     * digits, NBS Applied Math. Series 12; the target is Mardia &amp; Jupp (2000), 3.5.4).
+     * digits, NBS Applied Math. Series 12; the target is Mardia &amp; Jupp (2000), §3.5.4, from memory).
      */
     static double[] vonMisesSample(int n, double kappa, double mu, long seed) {
         SplittableRandom rnd = new SplittableRandom(seed);
@@ -67,7 +67,7 @@ class CircularEstimationTest {
         return e;
     }
 
-    /** Ratio I1(κ)/I0(κ) by the power series (Abramowitz &amp; Stegun (1964), 9.6.10). */
+    /** Ratio I1(κ)/I0(κ) by the power series (Abramowitz &amp; Stegun (1964), 9.6.10, from memory). */
     static double besselRatio(double kappa) {
         double i0 = 0, i1 = 0, t0 = 1, t1 = kappa / 2;
         for (int k = 0; k < 200; k++) {
@@ -90,11 +90,11 @@ class CircularEstimationTest {
                 BayesSpace.fourier(0, PERIOD, 3)}) {
             Density f = PenalizedLikelihoodEstimator.withDefaults(space).fit(e, counts).density();
             // sampling error of the mean direction: about 1/(κ R √n) rad ≈ 0.019 rad ≈ 1.1 days
-            // (Mardia & Jupp (2000), 4.8.2, the large-sample variance of the mean direction); 4 days allowed
+            // (Mardia & Jupp (2000), the large-sample variance of the mean direction; from memory); 4 days allowed
             double m = f.circularMean();
             double d = Math.min(Math.abs(m - mu), PERIOD - Math.abs(m - mu));
             assertTrue(d < 4, space + ": mean direction " + m + ", expected about " + mu);
-            // R = I1(κ)/I0(κ) = 0.8635 for κ = 4 (Mardia & Jupp (2000), 3.5.4); the sample R has a
+            // R = I1(κ)/I0(κ) = 0.8635 for κ = 4 (Mardia & Jupp (2000), §3.5.4, from memory); the sample R has a
             // standard error of about √((1 − R²)/(2n)) ≈ 0.006, bins and smoothing add a little
             double r = besselRatio(kappa);
             assertEquals(r, f.meanResultantLength(), 0.03, space.toString());
@@ -170,7 +170,7 @@ class CircularEstimationTest {
         UnitEstimate g = est.fitSample(turned);
         assertTrue(f.density().distance(g.density()) < 1e-8, "distance " + f.density().distance(g.density()));
         assertEquals(0.0, f.diagnostics().extrapolationShare(), 0.0);
-        // mean direction within sampling error (Mardia & Jupp (2000), 4.8.2: about 1.3 days here), R = I1/I0 (3.5.4)
+        // mean direction within sampling error (Mardia & Jupp (2000), from memory: about 1.3 days here), R = I1/I0
         double m = f.density().circularMean();
         assertTrue(Math.min(Math.abs(m - mu), PERIOD - Math.abs(m - mu)) < 5, "mean direction " + m);
         assertEquals(besselRatio(kappa), f.density().meanResultantLength(), 0.03);
