@@ -177,19 +177,19 @@ class CircularSpaceTest {
         assertEquals(n - 1, s.dimension());
         RawBasis raw = s.basis().raw();
         double h = period / n;
-        double[] vals = new double[raw.scratchSize()];
+        double[] vals = new double[raw.size()];
         SplittableRandom rnd = new SplittableRandom(7);
         for (int i = 0; i < 500; i++) {
             double x = start - 2 * period + 5 * period * rnd.nextDouble();
-            assertEquals(0, raw.evalLocal(x, vals));
+            raw.evalDense(x, vals);
             double u = (((x - start) % period) + period) % period / h;
             double total = 0;
             for (int j = 0; j < n; j++) {
                 // periodic B-spline j starts at knot j: the cardinal spline at u − j taken modulo N
                 double expected = cardinalCubic(((u - j) % n + n) % n);
                 total += expected;
-                if (j < n - 1) {
-                    assertEquals(expected, vals[j], 1e-13, "function " + j + " at x = " + x);
+                if (raw.periodicIndex(j) < n - 1) { // the function with raw index N − 1 is dropped
+                    assertEquals(expected, vals[raw.periodicIndex(j)], 1e-13, "function " + j + " at x = " + x);
                 }
             }
             // partition of unity (de Boor (1978)): the N periodic B-splines sum to 1
@@ -220,7 +220,7 @@ class CircularSpaceTest {
             BayesSpace s = BayesSpace.periodicSplines(start, period, order, knots);
             assertEquals(n - 1, s.dimension());
             RawBasis raw = s.basis().raw();
-            double[] vals = new double[raw.scratchSize()];
+            double[] vals = new double[raw.size()];
             // the knots continued around the circle over three turns: B-spline j + n·turn is periodic function j
             double[] t = new double[3 * n + 1];
             for (int i = 0; i <= 3 * n; i++) {
@@ -229,7 +229,7 @@ class CircularSpaceTest {
             SplittableRandom rnd = new SplittableRandom(order);
             for (int rep = 0; rep < 300; rep++) {
                 double x = start + period * rnd.nextDouble();
-                raw.evalLocal(x + period * (rnd.nextInt(5) - 2), vals); // evaluated a few turns away
+                raw.evalDense(x + period * (rnd.nextInt(5) - 2), vals); // evaluated a few turns away
                 double total = 0;
                 for (int j = 0; j < n; j++) {
                     double v = 0;
@@ -240,8 +240,8 @@ class CircularSpaceTest {
                         }
                     }
                     total += v;
-                    if (j < n - 1) {
-                        assertEquals(v, vals[j], 1e-12, "order " + order + ", function " + j + " at " + x);
+                    if (raw.periodicIndex(j) < n - 1) {
+                        assertEquals(v, vals[raw.periodicIndex(j)], 1e-12, "order " + order + ", function " + j + " at " + x);
                     }
                 }
                 // partition of unity (de Boor (1978)): the n periodic B-splines sum to 1
@@ -286,6 +286,28 @@ class CircularSpaceTest {
             // a shift by a fraction of the spacing is not held exactly (a check that can fail)
             Projection off = s.projectLogPdf(x -> f.logPdf(x - 0.37 * h));
             assertTrue(off.error() > 1e-6 * f.norm(), "residual " + off.error());
+        }
+    }
+
+    @Test
+    void localWindowHoldsEveryNonzeroFunction() {
+        // the local window (2k raw indices from the returned first) must hold every periodic B-spline
+        // that is nonzero at x: the dense values outside it are zero
+        for (int n : new int[] {4, 7, 8, 9, 16, 25}) {
+            RawBasis raw = BayesSpace.periodicSplines(0, 1, 4, n).basis().raw();
+            double[] local = new double[raw.scratchSize()];
+            double[] dense = new double[raw.size()];
+            for (int i = 0; i < 1000; i++) {
+                double x = (i + 0.5) / 1000;
+                int first = raw.evalLocal(x, local);
+                raw.evalDense(x, dense);
+                assertTrue(first >= 0 && first + raw.supportWidth() <= raw.size() + 1, "window at " + first);
+                for (int j = 0; j < raw.size(); j++) {
+                    boolean inside = j >= first && j < first + raw.supportWidth();
+                    assertEquals(inside ? local[j - first] : 0.0, dense[j], 0.0, "n " + n + ", index " + j + " at " + x);
+                }
+            }
+            assertEquals(Math.min(8, n), raw.supportWidth());
         }
     }
 

@@ -11,8 +11,13 @@ import java.util.Arrays;
  * [e_j, e_{j+1}) of a step basis (the last bin closed), the last one dropped; on a circle
  * [a, a + P): the N periodic B-splines of order k on N knots a = t_0 &lt; … &lt; t_{N−1} continued
  * around the circle (they sum to 1, de Boor (1978), so the last one is dropped, K = N − 1) and
- * the Fourier functions cos(2πj(x − a)/P), sin(2πj(x − a)/P), j = 1..H (K = 2H). The periodic kinds
- * are evaluated densely (every function at every point, first index 0) and wrap x modulo P.
+ * the Fourier functions cos(2πj(x − a)/P), sin(2πj(x − a)/P), j = 1..H (K = 2H). Both wrap x modulo P.
+ * The Fourier functions are evaluated densely (first index 0). The periodic B-splines keep local
+ * support although the circle has no ends: periodic function j (the one starting at knot t_j) has raw
+ * index {@link #periodicIndex(int) 2j} in the first half of the circle and 2(N − 1 − j) + 1 in the
+ * second (a zigzag), so the k functions nonzero at a point, consecutive around the circle, always lie
+ * within 2k consecutive raw indices: the local window is 2k wide (the whole basis when N &lt; 2k),
+ * and the function with raw index N − 1 is the dropped one.
  *
  * <p>Internal: not exported outside the Densa modules; may change without notice. The arguments are
  * validated by {@code io.densa.core.Basis}, which owns one instance; the factories here only copy.
@@ -30,11 +35,13 @@ public final class RawBasis {
     private final double[] knots; // spline: a, interior..., b; step: edges; poly: a, b
     private final double[] ext; // spline extended knot vector
     private final int size; // K
+    private final int window; // local support width of periodic splines
 
     private RawBasis(int kind, int order, double[] knots) {
         this.kind = kind;
         this.order = order;
         this.knots = knots;
+        window = kind == PERIODIC ? Math.min(2 * order, knots.length - 1) : 0;
         if (kind == SPLINE) {
             int g = knots.length - 2;
             ext = new double[g + 2 * order];
@@ -158,7 +165,10 @@ public final class RawBasis {
 
     /** Number of nonzero raw functions at a point (local support width). */
     public int supportWidth() {
-        if (kind == PERIODIC || kind == FOURIER) {
+        if (kind == PERIODIC) {
+            return window;
+        }
+        if (kind == FOURIER) {
             return size;
         }
         if (kind == SPLINE) {
@@ -170,7 +180,7 @@ public final class RawBasis {
     /** Length of the scratch array {@link #evalLocal} and {@link #combine} need. */
     public int scratchSize() {
         if (kind == PERIODIC) {
-            return size + 3 * order;
+            return window + 3 * order;
         }
         return kind == SPLINE ? 3 * order : supportWidth();
     }
@@ -190,8 +200,7 @@ public final class RawBasis {
             return j;
         }
         if (kind == PERIODIC) {
-            periodicLocal(wrap(x), vals);
-            return 0;
+            return periodicLocal(wrap(x), vals);
         }
         if (kind == FOURIER) {
             double a = knots[0], b = knots[1];
@@ -272,17 +281,27 @@ public final class RawBasis {
     }
 
     /**
-     * Dense values of the periodic B-splines at y in [a, b): the B-splines of order k on the knots
-     * continued around the circle ({@link #periodicKnots}), evaluated by de Boor's triangular
-     * recurrence (de Boor (1978)), B-spline i being periodic function (i − p) mod N; function N − 1 is
-     * dropped. Uses vals[K..K + 3k) as work space.
+     * Raw index of periodic B-spline j (the one starting at knot t_j, 0 ≤ j &lt; N): 2j for j &lt;
+     * ⌈N/2⌉, 2(N − 1 − j) + 1 otherwise; index N − 1 is the dropped function.
      */
-    private void periodicLocal(double y, double[] vals) {
+    public int periodicIndex(int j) {
+        int n = knots.length - 1;
+        return j < (n + 1) / 2 ? 2 * j : 2 * (n - 1 - j) + 1;
+    }
+
+    /**
+     * Values of the periodic B-splines at y in [a, b) in their local window: the B-splines of order k
+     * on the knots continued around the circle ({@link #periodicKnots}), evaluated by de Boor's
+     * triangular recurrence (de Boor (1978)), B-spline i being periodic function (i − p) mod N, placed
+     * at its {@link #periodicIndex raw index} minus the returned first index. Uses vals[W..W + 3k) as
+     * work space.
+     */
+    private int periodicLocal(double y, double[] vals) {
         int k = order;
         int p = k - 1;
         int nk = knots.length - 1; // N
         int s = Math.max(p, Sorted.lastAtMost(ext, p, p + nk - 1, y)); // ext[s] <= y < ext[s + 1]
-        int o = size; // work space
+        int o = window; // work space
         vals[o] = 1.0;
         for (int j = 1; j <= p; j++) {
             vals[o + k + j] = y - ext[s + 1 - j];
@@ -295,13 +314,16 @@ public final class RawBasis {
             }
             vals[o + j] = saved;
         }
-        Arrays.fill(vals, 0, size, 0.0);
+        int lo = Integer.MAX_VALUE;
         for (int i = 0; i <= p; i++) {
-            int j = Math.floorMod(s - p + i - p, nk);
-            if (j < size) {
-                vals[j] += vals[o + i];
-            }
+            lo = Math.min(lo, periodicIndex(Math.floorMod(s - 2 * p + i, nk)));
         }
+        int first = Math.max(0, Math.min(lo, nk - window));
+        Arrays.fill(vals, 0, window, 0.0);
+        for (int i = 0; i <= p; i++) {
+            vals[periodicIndex(Math.floorMod(s - 2 * p + i, nk)) - first] += vals[o + i];
+        }
+        return first;
     }
 
     private int splineLocal(double x, double[] n) {

@@ -18,7 +18,7 @@ package io.densa.core.internal;
  * B-splines and penalties, Statistical Science 11(2), from memory).</li>
  * <li>Periodic splines: the same integral over the whole circle, without boundary: the derivatives
  * of the B-splines on the knots continued around the circle (the same recurrence), accumulated into
- * their periodic index per knot span with a k-point rule (exact).</li>
+ * their raw index ({@link RawBasis#periodicIndex}) per knot span with a k-point rule (exact).</li>
  * <li>Fourier: cos(jωx) and sin(jωx), ω = 2π/P, have l-th derivatives (jω)^l times a cos or sin of the
  * same frequency, orthogonal over a period, so the penalty is diagonal with (jω)^{2l} P/2.</li>
  * </ul>
@@ -134,12 +134,12 @@ public final class RoughnessPenalty {
                 double w = h * gw[q];
                 double[] d = ders[l];
                 for (int i = 0; i <= p; i++) {
-                    int ri = Math.floorMod(s - p + i - p, n);
+                    int ri = basis.periodicIndex(Math.floorMod(s - p + i - p, n));
                     if (ri >= size) {
                         continue;
                     }
                     for (int j = 0; j <= p; j++) {
-                        int rj = Math.floorMod(s - p + j - p, n);
+                        int rj = basis.periodicIndex(Math.floorMod(s - p + j - p, n));
                         if (rj < size) {
                             pen[ri * size + rj] += w * d[i] * d[j];
                         }
