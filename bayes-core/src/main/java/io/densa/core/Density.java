@@ -324,7 +324,7 @@ public final class Density {
     }
 
     /**
-     * Natural log of the Lebesgue pdf at x.
+     * Natural log of the Lebesgue pdf at x (on a periodic space, any finite x, taken modulo the period).
      *
      * @throws IllegalArgumentException if x is outside the domain [a, b] or NaN (the log pdf is −∞
      *                                  outside the domain)
