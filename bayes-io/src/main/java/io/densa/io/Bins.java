@@ -168,13 +168,25 @@ public final class Bins {
 
     /**
      * Checks the layout against a space: every edge must lie in the domain [a, b] (the bins need not
-     * cover it; the estimators then condition on [e_0, e_D]).
+     * cover it; the estimators then condition on [e_0, e_D]). On a periodic space
+     * ({@link BayesSpace#isPeriodic()}) the edges must instead span one period, e_D − e_0 = P within a
+     * relative 1e-12, from any start, so that a bin may wrap around the cut point (as the estimators
+     * accept them).
      *
-     * @throws IllegalArgumentException naming the first edge outside the domain
+     * @throws IllegalArgumentException naming the first edge outside the domain, or the span on a circle
      */
     public Bins checkAgainst(BayesSpace space) {
         Objects.requireNonNull(space, "space");
         double a = space.lower(), b = space.upper();
+        if (space.isPeriodic()) {
+            double span = upper() - lower(), period = space.period();
+            if (!(Math.abs(span - period) <= 1e-12 * period)) {
+                throw new IllegalArgumentException("the bin layout [" + lower() + ", " + upper() + "] spans " + span
+                        + ", but on the circle of " + space + " it must span one period " + period + " (any start; a"
+                        + " bin may wrap around the cut point " + a + ")");
+            }
+            return this;
+        }
         for (int i = 0; i < edges.length; i++) {
             if (!(edges[i] >= a && edges[i] <= b)) {
                 throw new IllegalArgumentException("bin edge " + i + " = " + edges[i] + " lies outside the domain ["

@@ -9,7 +9,8 @@ import java.util.Objects;
 
 /**
  * The definition of a {@link BayesSpace} as primitives, to broadcast to Spark executors: the basis
- * kind, its order (spline order or polynomial degree) and breakpoints, and the reference measure
+ * kind, its order (spline order, polynomial degree or harmonics) and breakpoints (periodic spaces
+ * included), and the reference measure
  * (Lebesgue, uniform, normal or beta with its two parameters). {@link #space()} rebuilds the space
  * once per JVM (a transient lazy field); the space is built by the same factory from the same
  * numbers, so executors hold a space equal to the driver's and compute exactly what it computes.
@@ -89,6 +90,15 @@ public final class SpaceSpec implements Serializable {
         return space().dimension();
     }
 
+    /** The period P with a + P == b exactly, so that the rebuilt circle ends where the original did. */
+    private static double period(double a, double b) {
+        double p = b - a;
+        for (int i = 0; i < 4 && a + p != b; i++) {
+            p = a + p < b ? Math.nextUp(p) : Math.nextDown(p);
+        }
+        return p;
+    }
+
     private BayesSpace build() {
         double a = breakpoints[0];
         double b = breakpoints[breakpoints.length - 1];
@@ -99,6 +109,12 @@ public final class SpaceSpec implements Serializable {
                 break;
             case POLYNOMIAL:
                 s = BayesSpace.polynomials(a, b, order);
+                break;
+            case PERIODIC_SPLINE:
+                s = BayesSpace.periodicSplines(a, period(a, b), order, Arrays.copyOf(breakpoints, breakpoints.length - 1));
+                break;
+            case FOURIER:
+                s = BayesSpace.fourier(a, period(a, b), order);
                 break;
             default:
                 s = BayesSpace.steps(breakpoints.clone());

@@ -88,7 +88,9 @@ final class DrawEngine {
         }
         this.units = opt.dataUnits();
         this.seed = opt.seed();
-        this.exactOnly = opt.evaluation() == UncertaintyOptions.Evaluation.EXACT;
+        // the node rule's error bound needs a clr that is polynomial on each panel: not so for Fourier spaces
+        this.exactOnly = opt.evaluation() == UncertaintyOptions.Evaluation.EXACT
+                || space.basis().kind() == io.densa.core.Basis.Kind.FOURIER;
         this.rule = new NodeRule(space, thresholds);
         int m = rule.m;
         bt = new double[r * m];
