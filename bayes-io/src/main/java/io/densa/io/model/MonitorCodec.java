@@ -18,7 +18,8 @@ final class MonitorCodec {
         RollingBaseline c = m.configuration();
         MonitorState s = m.state();
         o.begin();
-        o.begin("configuration").integer("lags", c.lags()).real("forgetting", c.forgetting())
+        o.begin("configuration").integer("lags", c.longestLag()).ints("lagSet", c.lagSet())
+                .real("forgetting", c.forgetting())
                 .integer("window", c.window()).integer("calibrationPeriods", c.calibrationPeriods())
                 .real("fdr", c.fdr()).real("bandLevel", c.bandLevel()).real("ridge", c.ridge())
                 .integer("draws", c.draws()).int64("seed", c.seed()).end();
@@ -52,7 +53,9 @@ final class MonitorCodec {
 
     static BaselineMonitor read(Node p) {
         Node c = p.get("configuration");
-        int lags = c.get("lags").integer(1, 12);
+        Node lagSetNode = c.optional("lagSet");
+        int lags = c.get("lags").integer(1, lagSetNode == null ? 12 : RollingBaseline.MAX_LAG);
+        int[] lagSet = lagSetNode == null ? null : lagSetNode.ints();
         double forgetting = c.get("forgetting").real();
         int window = c.get("window").integer(0, Integer.MAX_VALUE);
         int calibrationPeriods = c.get("calibrationPeriods").integer(1, Integer.MAX_VALUE);
@@ -62,10 +65,14 @@ final class MonitorCodec {
         int draws = c.get("draws").integer(99, Integer.MAX_VALUE);
         long seed = c.get("seed").longValue();
         RollingBaseline config = Codecs.restoring(c, () -> {
-            RollingBaseline r = RollingBaseline.withDefaults().withLags(lags).withCalibrationPeriods(calibrationPeriods)
+            RollingBaseline r = (lagSet == null ? RollingBaseline.withDefaults().withLags(lags)
+                    : RollingBaseline.withDefaults().withLagSet(lagSet)).withCalibrationPeriods(calibrationPeriods)
                     .withFdr(fdr).withBandLevel(bandLevel).withRidge(ridge).withDraws(draws, seed);
             return window > 0 ? r.withWindow(window) : r.withForgetting(forgetting);
         });
+        if (config.longestLag() != lags) {
+            throw c.get("lags").error("is " + lags + " but the longest lag of lagSet is " + config.longestLag());
+        }
         BayesSpace space = CoreCodecs.readSpace(p.get("space"));
         List<Node> idNodes = p.get("ids").list();
         int n = idNodes.size();

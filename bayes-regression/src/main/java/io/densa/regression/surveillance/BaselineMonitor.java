@@ -31,7 +31,7 @@ public final class BaselineMonitor {
     private final double[] szy; // d × K
     private final List<double[][]> windowMoments; // per absorbed period {szz_t, szy_t}, oldest first (window only)
     private final double[] beta; // d × K coefficients
-    private final List<double[]> recent; // last L periods' coordinates (n × K row-major), most recent first
+    private final List<double[]> recent; // last L periods' coordinates (n × K row-major), most recent first; L the longest lag
     private final double[] recentVariances; // most recent period's estimation variances, or null
     private final List<double[]> calibration; // raw residuals (n × K) of the last C periods, oldest first
     private final List<double[]> calibrationX; // x_i = u_t + u_{t−1} per calibration period, or null entries
@@ -74,23 +74,24 @@ public final class BaselineMonitor {
         int q = first.covariateCount();
         List<double[]> recent = new ArrayList<>();
         int lags = config.lags;
-        for (int t = 0; t < lags; t++) {
+        int start = config.longest;
+        for (int t = 0; t < start; t++) {
             recent.add(0, past.get(t).densities().coordinatesRowMajor());
         }
         int d = 1 + lags * space.dimension() + q;
         BaselineMonitor m = new BaselineMonitor(config, space, ids, q, new double[d * d],
-                new double[d * space.dimension()], List.of(), recent, past.get(lags - 1).estimationVariances(),
-                List.of(), new ArrayList<>(), quietHistory(ids), past.get(lags - 1).index(), 0);
+                new double[d * space.dimension()], List.of(), recent, past.get(start - 1).estimationVariances(),
+                List.of(), new ArrayList<>(), quietHistory(ids), past.get(start - 1).index(), 0);
         int training = past.size() - config.calibrationPeriods;
-        for (int t = lags; t < past.size(); t++) {
+        for (int t = start; t < past.size(); t++) {
             Period p = past.get(t);
             m.check(p);
             m = m.next(p, t >= training, false);
         }
-        if ((long) n * (training - lags) < d) {
+        if ((long) n * (training - start) < d) {
             throw new IllegalArgumentException("the baseline has " + d + " coefficients per coordinate (intercept, "
                     + lags + " × " + space.dimension() + " lag coordinates, " + q + " covariates) but only "
-                    + (long) n * (training - lags) + " training rows; give more past periods or fewer lags");
+                    + (long) n * (training - start) + " training rows; give more past periods or fewer lags");
         }
         return m;
     }
@@ -161,7 +162,7 @@ public final class BaselineMonitor {
         }
         requireLength("windowZZ", s.windowZZ(), (long) w * d * d);
         requireLength("windowZY", s.windowZY(), (long) w * d * k);
-        requireLength("recent", s.recent(), (long) config.lags * n * k);
+        requireLength("recent", s.recent(), (long) config.longest * n * k);
         if (s.recentVariances().length != 0) {
             requireLength("recentVariances", s.recentVariances(), n);
         }
@@ -190,7 +191,7 @@ public final class BaselineMonitor {
         }
         List<double[]> rec = new ArrayList<>();
         double[] r = s.recent();
-        for (int l = 0; l < config.lags; l++) {
+        for (int l = 0; l < config.longest; l++) {
             rec.add(Arrays.copyOfRange(r, l * n * k, (l + 1) * n * k));
         }
         List<double[]> cal = new ArrayList<>();
@@ -250,7 +251,8 @@ public final class BaselineMonitor {
     }
 
     /**
-     * Coefficients B (d × K row-major: intercept, then lag 1's K rows, …, then the covariates),
+     * Coefficients B (d × K row-major: intercept, then the K rows of each lag of the lag set in
+     * ascending order, then the covariates),
      * a fresh copy.
      */
     public double[] coefficients() {
@@ -380,7 +382,7 @@ public final class BaselineMonitor {
         }
         List<double[]> rec = new ArrayList<>(recent);
         rec.add(0, y);
-        while (rec.size() > config.lags) {
+        while (rec.size() > config.longest) {
             rec.remove(rec.size() - 1);
         }
         return new BaselineMonitor(config, space, ids, q, nzz, nzy, wm, rec, period.estimationVariances(), cal, calX,
@@ -444,8 +446,8 @@ public final class BaselineMonitor {
     private void regressors(Period p, int i, double[] z) {
         z[0] = 1;
         int o = 1;
-        for (double[] lag : recent) {
-            System.arraycopy(lag, i * k, z, o, k);
+        for (int l : config.lagSet) {
+            System.arraycopy(recent.get(l - 1), i * k, z, o, k);
             o += k;
         }
         for (int j = 0; j < q; j++) {

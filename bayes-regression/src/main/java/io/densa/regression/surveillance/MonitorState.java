@@ -6,7 +6,8 @@ import java.util.List;
 /**
  * Everything a {@link BaselineMonitor} holds besides its configuration, as plain arrays, for
  * saving and loading ({@link BaselineMonitor#state()}, {@link BaselineMonitor#restore}). With
- * n units, K coordinates, q covariates, L lags and d = 1 + L K + q:
+ * n units, K coordinates, q covariates, m lags in the lag set, the longest lag L and d = 1 + m K + q
+ * (m = L for consecutive lags 1..L):
  *
  * @param space           the units' space
  * @param ids             the n unit ids
@@ -16,7 +17,7 @@ import java.util.List;
  * @param windowCount     periods held in the window (0 without a window)
  * @param windowZZ        windowCount × d × d per-period moments, oldest first
  * @param windowZY        windowCount × d × K per-period moments, oldest first
- * @param recent          L × n × K coordinates of the last L periods, most recent first
+ * @param recent          L × n × K coordinates of the last L periods, most recent first (L the longest lag)
  * @param recentVariances the latest period's n estimation variances, or an empty array
  * @param calibrationCount calibration periods held (≤ C)
  * @param calibration     calibrationCount × n × K raw residual coordinates, oldest first
