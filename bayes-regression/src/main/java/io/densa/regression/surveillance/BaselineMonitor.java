@@ -86,7 +86,7 @@ public final class BaselineMonitor {
         for (int t = start; t < past.size(); t++) {
             Period p = past.get(t);
             m.check(p);
-            m = m.next(p, t >= training, false);
+            m = m.next(p, t >= training, false, null);
         }
         if ((long) n * (training - start) < d) {
             throw new IllegalArgumentException("the baseline has " + d + " coefficients per coordinate (intercept, "
@@ -316,14 +316,38 @@ public final class BaselineMonitor {
      */
     public BaselineMonitor absorb(Period period) {
         check(period);
-        return next(period, true, true);
+        return next(period, true, true, null);
     }
 
-    private BaselineMonitor next(Period period, boolean calibrate, boolean recordHistory) {
+    /**
+     * What one week (or period) of prospective monitoring gives: the report of the period, scored
+     * before it was absorbed, and the monitor after absorbing it.
+     *
+     * @param report the period's report, as {@link #score} gives it (null before a calibration set
+     *               exists)
+     * @param next   the monitor after absorbing the period, as {@link #absorb} gives it
+     */
+    public record Step(PeriodReport report, BaselineMonitor next) {
+    }
+
+    /**
+     * Scores the period and absorbs it in one pass: the report equals {@link #score}'s and the
+     * monitor equals {@link #absorb}'s (both bit for bit), but the period is scored once instead of
+     * twice. This monitor is not changed.
+     *
+     * @throws IllegalArgumentException when the period does not match (see {@link #predict})
+     */
+    public Step step(Period period) {
+        check(period);
+        PeriodReport rep = calibration.isEmpty() ? null : score(period);
+        return new Step(rep, next(period, true, true, rep));
+    }
+
+    private BaselineMonitor next(Period period, boolean calibrate, boolean recordHistory, PeriodReport scored) {
         List<AlertHistory> h = history;
         double[] expected = null;
         if (recordHistory && !calibration.isEmpty()) {
-            PeriodReport rep = score(period);
+            PeriodReport rep = scored != null ? scored : score(period);
             expected = rep.expected().coordinatesRowMajor();
             h = new ArrayList<>(n);
             for (int i = 0; i < n; i++) {

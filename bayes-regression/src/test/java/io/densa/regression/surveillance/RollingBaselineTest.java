@@ -390,4 +390,27 @@ class RollingBaselineTest {
         }
         return beta;
     }
+
+    /** step gives score's report and absorb's monitor, bit for bit, over several periods. */
+    @Test
+    void stepEqualsScoreThenAbsorb() {
+        Panel p = panel(20, 0.3, 15, 14, 4, 2.5);
+        BaselineMonitor a = RollingBaseline.withDefaults().withCalibrationPeriods(6).fit(p.periods().subList(0, 12));
+        BaselineMonitor b = a;
+        int flags = 0;
+        for (int t = 12; t < 20; t++) {
+            PeriodReport r = a.score(p.periods().get(t));
+            a = a.absorb(p.periods().get(t));
+            BaselineMonitor.Step s = b.step(p.periods().get(t));
+            b = s.next();
+            for (int i = 0; i < UNITS; i++) {
+                assertEquals(r.scores().units().get(i).pValue(), s.report().scores().units().get(i).pValue(), 0);
+                assertEquals(r.flagged(i), s.report().flagged(i));
+                flags += r.flagged(i) ? 1 : 0;
+            }
+            assertArrayEquals(a.coefficients(), b.coefficients(), 0);
+            assertEquals(a.history(), b.history());
+        }
+        assertTrue(flags > 0, "the comparison must include flagged units");
+    }
 }
