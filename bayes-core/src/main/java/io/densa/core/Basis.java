@@ -19,8 +19,14 @@ import java.util.Objects;
  *   <li>{@link Kind#POLYNOMIAL}: Legendre polynomials P_1..P_d of the affinely mapped variable,
  *   K = d;</li>
  *   <li>{@link Kind#STEP}: indicators of bins [e_j, e_{j+1}) (the last bin closed), the last
- *   one dropped, K = D − 1.</li>
+ *   one dropped, K = D − 1;</li>
+ *   <li>{@link Kind#PERIODIC_SPLINE}: on the circle [a, a + P), the N periodic B-splines of order k on
+ *   N knots a = t_0 &lt; … &lt; t_{N−1} (equally spaced by default), continued around the circle; they sum to
+ *   1 (partition of unity, de Boor (1978)), so the last one is dropped and K = N − 1;</li>
+ *   <li>{@link Kind#FOURIER}: on the circle [a, a + P), cos(2πj(x − a)/P) and sin(2πj(x − a)/P),
+ *   j = 1..H, K = 2H.</li>
  * </ul>
+ * The two periodic kinds are evaluated at x modulo P.
  * Immutable; equality is exact on kind and parameters.
  */
 public final class Basis {
@@ -31,12 +37,16 @@ public final class Basis {
         /** Orthonormal polynomials of a given degree. */
         POLYNOMIAL,
         /** Step functions on given bin edges (Aitchison geometry of D-part compositions). */
-        STEP
+        STEP,
+        /** Periodic B-splines of a given order on equally spaced knots of a circle. */
+        PERIODIC_SPLINE,
+        /** Cosines and sines of the first H harmonics of a circle. */
+        FOURIER
     }
 
     private final Kind kind;
-    private final int order; // spline order, polynomial degree, or 0 for steps
-    private final double[] knots; // spline: a, interior..., b; step: edges; poly: a, b
+    private final int order; // spline order, polynomial degree, harmonics, or 0 for steps
+    private final double[] knots; // spline: a, interior..., b; step: edges; poly, fourier: a, b; periodic: all knots, b
     private final RawBasis raw;
     private final int size; // K
 
@@ -50,6 +60,12 @@ public final class Basis {
                 break;
             case POLYNOMIAL:
                 raw = RawBasis.polynomial(order, knots[0], knots[1]);
+                break;
+            case PERIODIC_SPLINE:
+                raw = RawBasis.periodicSpline(order, knots);
+                break;
+            case FOURIER:
+                raw = RawBasis.fourier(order, knots[0], knots[1]);
                 break;
             default:
                 raw = RawBasis.step(knots);
@@ -109,12 +125,69 @@ public final class Basis {
         return new Basis(Kind.STEP, 0, edges.clone());
     }
 
+    static Basis periodicSpline(double a, double b, int order, int knotCount) {
+        checkPeriodicSpline(order, knotCount);
+        double[] k = new double[knotCount + 1];
+        for (int i = 0; i < knotCount; i++) {
+            k[i] = a + (b - a) * i / knotCount;
+        }
+        k[knotCount] = b;
+        return new Basis(Kind.PERIODIC_SPLINE, order, k);
+    }
+
+    /** Periodic splines on the knots a = knots[0] &lt; knots[1] &lt; … &lt; b (not modified). */
+    static Basis periodicSpline(double a, double b, int order, double[] knots) {
+        Objects.requireNonNull(knots, "knots");
+        checkPeriodicSpline(order, knots.length);
+        double[] k = Arrays.copyOf(knots, knots.length + 1);
+        k[knots.length] = b;
+        for (int i = 0; i < knots.length; i++) {
+            double t = knots[i];
+            if (i == 0 && Double.compare(t, a) != 0) {
+                throw new IllegalArgumentException("the first knot must be the cut point start = " + a + ", got " + t
+                        + "; choose the start of the circle at a knot");
+            }
+            if (!(t >= a && t < b)) {
+                throw new IllegalArgumentException("knot " + i + " = " + t + " lies outside the circle [" + a + ", " + b
+                        + "); knots must be finite and in [start, start + period)");
+            }
+            if (i > 0 && !(t > knots[i - 1])) {
+                throw new IllegalArgumentException("knots must be strictly increasing: knot " + i + " = " + t
+                        + " follows " + knots[i - 1]);
+            }
+        }
+        return new Basis(Kind.PERIODIC_SPLINE, order, k);
+    }
+
+    private static void checkPeriodicSpline(int order, int knotCount) {
+        if (!(order >= 2 && order <= 12)) {
+            throw new IllegalArgumentException("periodic spline order must be in [2, 12] (4 = cubic), got " + order);
+        }
+        if (!(knotCount >= Math.max(order, 3) && knotCount <= 100_000)) {
+            throw new IllegalArgumentException("a periodic spline of order " + order + " needs between "
+                    + Math.max(order, 3) + " and 100000 knots on the circle (at least the order, and 3), got "
+                    + knotCount);
+        }
+    }
+
+    static Basis fourier(double a, double b, int harmonics) {
+        if (!(harmonics >= 1 && harmonics <= 200)) {
+            throw new IllegalArgumentException("the number of harmonics must be in [1, 200], got " + harmonics);
+        }
+        return new Basis(Kind.FOURIER, harmonics, new double[] {a, b});
+    }
+
+    /** True for the bases on a circle ({@link Kind#PERIODIC_SPLINE}, {@link Kind#FOURIER}). */
+    public boolean isPeriodic() {
+        return kind == Kind.PERIODIC_SPLINE || kind == Kind.FOURIER;
+    }
+
     /** The kind of basis. */
     public Kind kind() {
         return kind;
     }
 
-    /** Spline order (4 = cubic), polynomial degree, or 0 for steps. */
+    /** Spline order (4 = cubic, periodic splines too), polynomial degree, number of harmonics, or 0 for steps. */
     public int order() {
         return order;
     }
@@ -126,7 +199,8 @@ public final class Basis {
 
     /**
      * Breakpoints: the knots a, interior..., b of a spline basis, the bin edges of a step basis,
-     * or {a, b} for polynomials (a fresh copy).
+     * {a, b} for polynomials and Fourier functions, the N knots a = t_0 &lt; … &lt; t_{N−1} of periodic
+     * splines followed by a + P = b (a fresh copy).
      */
     public double[] breakpoints() {
         return knots.clone();
@@ -186,6 +260,9 @@ public final class Basis {
                 return "splines(order " + order + ", " + (knots.length - 2) + " interior knots, K=" + size + ")";
             case POLYNOMIAL:
                 return "polynomials(degree " + order + ", K=" + size + ")";
+            case PERIODIC_SPLINE:
+            case FOURIER:
+                return raw.toString();
             default:
                 return "steps(" + (knots.length - 1) + " bins, K=" + size + ")";
         }

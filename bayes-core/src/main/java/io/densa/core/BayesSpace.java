@@ -6,7 +6,8 @@ import org.ejml.data.DMatrixRMaj;
 import io.densa.core.DistributionFunctions.Shape;
 
 /**
- * A Bayes Hilbert space B2(P) of densities on a bounded interval I = [a, b], with reference
+ * A Bayes Hilbert space B2(P) of densities on a bounded interval I = [a, b] or on a circle
+ * [a, a + P) ({@link #periodicSplines}, {@link #fourier}; see {@link #isPeriodic()}), with reference
  * measure P and an orthonormal basis e_1..e_K of the clr subspace of L2(P) (functions with
  * zero P-integral). Every density f of the space is stored as its coordinates
  * c_k = ⟨clr f, e_k⟩_P, so that perturbation, powering, the B2 inner product, norms and distances
@@ -109,7 +110,7 @@ public final class BayesSpace {
      * @return the space, of dimension K = interiorKnotCount + order − 1
      */
     public static BayesSpace splines(double a, double b, int order, int interiorKnotCount) {
-        checkDomain(a, b);
+        QuadratureGrid.checkDomain(a, b);
         if (interiorKnotCount < 0) {
             throw new IllegalArgumentException("interior knot count must be >= 0, got " + interiorKnotCount);
         }
@@ -126,7 +127,7 @@ public final class BayesSpace {
      * @param interiorKnots strictly increasing knots inside (a, b) (not modified)
      */
     public static BayesSpace splines(double a, double b, int order, double[] interiorKnots) {
-        checkDomain(a, b);
+        QuadratureGrid.checkDomain(a, b);
         return new BayesSpace(a, b, Reference.lebesgue(), Basis.spline(a, b, order, interiorKnots));
     }
 
@@ -137,7 +138,7 @@ public final class BayesSpace {
      * exponential restricted to I) lie exactly in such a space.
      */
     public static BayesSpace polynomials(double a, double b, int degree) {
-        checkDomain(a, b);
+        QuadratureGrid.checkDomain(a, b);
         return new BayesSpace(a, b, Reference.lebesgue(), Basis.polynomial(a, b, degree));
     }
 
@@ -152,14 +153,14 @@ public final class BayesSpace {
         if (edges.length < 3) {
             throw new IllegalArgumentException("steps need at least 3 edges (2 bins), got " + edges.length);
         }
-        checkDomain(edges[0], edges[edges.length - 1]);
+        QuadratureGrid.checkDomain(edges[0], edges[edges.length - 1]);
         Basis basis = Basis.step(edges);
         return new BayesSpace(edges[0], edges[edges.length - 1], Reference.lebesgue(), basis);
     }
 
     /** Space of step densities on {@code bins} equal bins over [a, b]. */
     public static BayesSpace steps(double a, double b, int bins) {
-        checkDomain(a, b);
+        QuadratureGrid.checkDomain(a, b);
         if (bins < 2) {
             throw new IllegalArgumentException("steps need at least 2 bins, got " + bins);
         }
@@ -170,48 +171,58 @@ public final class BayesSpace {
         return new BayesSpace(a, b, Reference.lebesgue(), Basis.step(e));
     }
 
+    /**
+     * Space on the circle [start, start + period) spanned by the periodic B-splines of the given order
+     * on knotCount equally spaced knots start + j·period/knotCount, Lebesgue reference. The knotCount
+     * periodic B-splines sum to 1 (de Boor (1978), A Practical Guide to Splines, Springer), so the clr
+     * subspace has dimension K = knotCount − 1. Every function of the space, and so clr, pdf, cdf and
+     * the basis, is evaluated at x modulo the period (see {@link #isPeriodic()}); the estimators accept
+     * bins that wrap around the cut point {@code start}.
+     *
+     * @param start     the cut point: the domain is [start, start + period)
+     * @param period    the period P &gt; 0
+     * @param order     spline order (4 = cubic), 2..12
+     * @param knotCount number of knots on the circle, at least max(order, 3)
+     */
+    public static BayesSpace periodicSplines(double start, double period, int order, int knotCount) {
+        double b = start + period;
+        QuadratureGrid.checkDomain(start, b);
+        return new BayesSpace(start, b, Reference.lebesgue(), Basis.periodicSpline(start, b, order, knotCount));
+    }
+
+    /**
+     * Periodic splines as {@link #periodicSplines(double, double, int, int)} on the given knots of the
+     * circle (K = knots.length − 1).
+     *
+     * @param knots strictly increasing knots in [start, start + period), the first equal to start, at
+     *              least max(order, 3) of them (not modified)
+     */
+    public static BayesSpace periodicSplines(double start, double period, int order, double[] knots) {
+        double b = start + period;
+        QuadratureGrid.checkDomain(start, b);
+        return new BayesSpace(start, b, Reference.lebesgue(), Basis.periodicSpline(start, b, order, knots));
+    }
+
+    /**
+     * Space on the circle [start, start + period) spanned by cos(2πj(x − start)/period) and
+     * sin(2πj(x − start)/period), j = 1..harmonics (K = 2·harmonics), Lebesgue reference; with it the
+     * orthonormal basis is √(2/P) times these functions. The von Mises family, an exponential family
+     * with sufficient statistics cos and sin (Mardia &amp; Jupp (2000), Directional Statistics, Wiley),
+     * lies exactly in the space with one harmonic. Evaluation wraps modulo the period as in
+     * {@link #periodicSplines}.
+     *
+     * @param harmonics number of harmonics H, 1..200
+     */
+    public static BayesSpace fourier(double start, double period, int harmonics) {
+        double b = start + period;
+        QuadratureGrid.checkDomain(start, b);
+        return new BayesSpace(start, b, Reference.lebesgue(), Basis.fourier(start, b, harmonics));
+    }
+
     /** The same domain and basis with another reference measure (a new space). */
     public BayesSpace withReference(Reference newReference) {
         Objects.requireNonNull(newReference, "reference");
         return new BayesSpace(a, b, newReference, basis);
-    }
-
-    /** Largest accepted |a|, |b|: moments such as the variance, of order (b − a)², stay representable. */
-    static final double MAX_DOMAIN_END = 1e150;
-    /** Smallest accepted width b − a, for the same reason at the small end. */
-    static final double MIN_DOMAIN_WIDTH = 1e-150;
-    /**
-     * Smallest accepted width relative to max(|a|, |b|): a point of the domain is then known to
-     * about 2e-8 of the width (double spacing 2.2e-16 relative), enough to place the quadrature
-     * nodes and knots distinctly.
-     */
-    static final double MIN_RELATIVE_WIDTH = 1e-8;
-
-    private static void checkDomain(double a, double b) {
-        if (!Double.isFinite(a) || !Double.isFinite(b)) {
-            throw new IllegalArgumentException("domain ends must be finite, got [" + a + ", " + b + "]");
-        }
-        if (!(a < b)) {
-            throw new IllegalArgumentException("domain must satisfy a < b, got [" + a + ", " + b + "]");
-        }
-        double mag = Math.max(Math.abs(a), Math.abs(b));
-        if (!(mag <= MAX_DOMAIN_END)) {
-            throw new IllegalArgumentException("domain [" + a + ", " + b + "] reaches " + mag + "; ends up to "
-                    + MAX_DOMAIN_END + " in magnitude are accepted (so that moments such as the variance stay"
-                    + " representable): express the data in larger units");
-        }
-        double width = b - a;
-        if (!(width >= MIN_DOMAIN_WIDTH)) {
-            throw new IllegalArgumentException("domain [" + a + ", " + b + "] has width " + width
-                    + "; widths from " + MIN_DOMAIN_WIDTH + " are accepted: express the data in smaller units");
-        }
-        if (!(width >= MIN_RELATIVE_WIDTH * mag)) {
-            throw new IllegalArgumentException("domain [" + a + ", " + b + "] is too narrow relative to its"
-                    + " magnitude: width " + width + " is " + (width / mag) + " of max(|a|, |b|) = " + mag
-                    + ", and at least " + MIN_RELATIVE_WIDTH + " of it is accepted (points inside are then"
-                    + " resolved to about 2e-8 of the width); subtract an offset from the data first, e.g. use ["
-                    + 0.0 + ", " + width + "] for values minus " + a);
-        }
     }
 
     // ---------------------------------------------------------------- accessors
@@ -224,6 +235,38 @@ public final class BayesSpace {
     /** Upper end b of the domain. */
     public double upper() {
         return b;
+    }
+
+    /**
+     * Whether the domain is a circle: then clr, pdf, log pdf, cdf, tail probabilities and the basis take
+     * x modulo the period, {@link Density#cdf} and {@link Density#quantile} measure from the cut point
+     * lower() ({@link Density#cdfFrom} from another), and {@link Density#circularMean()} and
+     * {@link Density#meanResultantLength()} are defined.
+     */
+    public boolean isPeriodic() {
+        return basis.isPeriodic();
+    }
+
+    /**
+     * The period P = upper() − lower() of a periodic space.
+     *
+     * @throws IllegalStateException if the space is not periodic (its width is upper() − lower())
+     */
+    public double period() {
+        if (!isPeriodic()) {
+            throw new IllegalStateException(this + " is not periodic: it has no period (its width is upper() − lower() = "
+                    + (b - a) + "); periodic spaces come from BayesSpace.periodicSplines or BayesSpace.fourier");
+        }
+        return b - a;
+    }
+
+    /** x on a periodic space's circle, a + ((x − a) mod P) in [a, b) (x itself on a bounded space); finite x only. */
+    double wrap(double x) {
+        if (basis.isPeriodic() && Double.isInfinite(x)) {
+            throw new IllegalArgumentException("x = " + x + " cannot be placed on the circle of " + this
+                    + "; finite x are accepted (taken modulo the period " + (b - a) + ")");
+        }
+        return basis.raw().wrap(x);
     }
 
     /** Dimension K of the space (number of coordinates of a density). */
@@ -258,9 +301,10 @@ public final class BayesSpace {
 
     /**
      * Lebesgue density of the reference measure at x: 1 for Lebesgue, 1/(b − a) for uniform, the
-     * normalised weight otherwise; 0 outside the domain.
+     * normalised weight otherwise; 0 outside the domain (taken modulo the period on a periodic space).
      */
     public double referenceDensity(double x) {
+        x = wrap(x);
         if (!(x >= a && x <= b)) {
             return 0.0;
         }
@@ -277,7 +321,7 @@ public final class BayesSpace {
     /**
      * Values e_1(x)..e_K(x) of the orthonormal basis at x.
      *
-     * @throws IllegalArgumentException if x is outside [a, b] or NaN
+     * @throws IllegalArgumentException if x is outside [a, b] or NaN (any finite x on a periodic space)
      */
     public double[] basisAt(double x) {
         double[] out = new double[dim];
@@ -307,21 +351,10 @@ public final class BayesSpace {
         return m;
     }
 
-    /** The transposed basis matrix K × m (row k = e_k at every x), for batch products. */
-    double[] basisTransposed(double[] xs) {
-        double[] out = new double[dim * xs.length];
-        double[] raw = new double[dim];
-        double[] row = new double[dim];
-        for (int i = 0; i < xs.length; i++) {
-            basisAt(xs[i], row, raw);
-            for (int k = 0; k < dim; k++) {
-                out[k * xs.length + i] = row[k];
-            }
-        }
-        return out;
-    }
-
     void checkPoint(double x) {
+        if (basis.isPeriodic() && Double.isFinite(x)) {
+            return;
+        }
         if (!(x >= a && x <= b)) {
             throw new IllegalArgumentException("x = " + x + " is outside the domain [" + a + ", " + b + "]: the clr"
                     + " and the basis are defined on the domain only (pdf, cdf and tail probabilities accept"
@@ -361,21 +394,7 @@ public final class BayesSpace {
      *                                  node (negative or zero on a set of positive measure)
      */
     public Projection project(DoubleUnaryOperator pdf) {
-        Objects.requireNonNull(pdf, "pdf");
-        double[] h = new double[nodes.length];
-        for (int i = 0; i < nodes.length; i++) {
-            double x = nodes[i];
-            double v = pdf.applyAsDouble(x);
-            if (!Double.isFinite(v)) {
-                throw new IllegalArgumentException("pdf is not finite at x = " + x + ": " + v);
-            }
-            if (!(v > 0)) {
-                throw new IllegalArgumentException("pdf must be > 0 on the domain (Bayes-space densities have full"
-                        + " support), got " + v + " at x = " + x);
-            }
-            h[i] = Math.log(v / referenceDensity(x));
-        }
-        return projection.projectLogNodes(h);
+        return projection.projectFunction(Objects.requireNonNull(pdf, "pdf"), false);
     }
 
     /**
@@ -385,17 +404,7 @@ public final class BayesSpace {
      * @throws IllegalArgumentException if the log-pdf is not finite at a quadrature node
      */
     public Projection projectLogPdf(DoubleUnaryOperator logPdf) {
-        Objects.requireNonNull(logPdf, "logPdf");
-        double[] h = new double[nodes.length];
-        for (int i = 0; i < nodes.length; i++) {
-            double x = nodes[i];
-            double v = logPdf.applyAsDouble(x);
-            if (!Double.isFinite(v)) {
-                throw new IllegalArgumentException("log-pdf is not finite at x = " + x + ": " + v);
-            }
-            h[i] = v - Math.log(referenceDensity(x));
-        }
-        return projection.projectLogNodes(h);
+        return projection.projectFunction(Objects.requireNonNull(logPdf, "logPdf"), true);
     }
 
     /** Re-expresses a density of another space in this one (projection of its clr). */
@@ -432,22 +441,7 @@ public final class BayesSpace {
      * @throws IllegalArgumentException if a value is not finite and positive
      */
     public Density fromGrid(double[] xs, double[] pdfValues) {
-        Objects.requireNonNull(xs, "xs");
-        Objects.requireNonNull(pdfValues, "pdfValues");
-        if (xs.length != pdfValues.length) {
-            throw new IllegalArgumentException("xs has " + xs.length + " points but pdfValues has " + pdfValues.length);
-        }
-        double[] h = new double[xs.length];
-        for (int i = 0; i < xs.length; i++) {
-            double v = pdfValues[i];
-            if (!(v > 0 && Double.isFinite(v))) {
-                throw new IllegalArgumentException("pdf value " + i + " at x = " + xs[i]
-                        + " must be finite and > 0, got " + v);
-            }
-            checkPoint(xs[i]);
-            h[i] = Math.log(v / referenceDensity(xs[i]));
-        }
-        return fromClr(xs, h);
+        return projection.fromGrid(xs, pdfValues);
     }
 
     /**
@@ -558,17 +552,20 @@ public final class BayesSpace {
         return functions.variance(sh, clrNodes);
     }
 
-    /** Requires a cdf evaluation point that is not NaN (any other x is accepted). */
+    /** Trigonometric moments (∫ cos θ f dx, ∫ sin θ f dx), θ = 2π(x − a)/(b − a) (see {@link DistributionFunctions#trigMoments}). */
+    double[] trigMoments(Shape sh, double[] clrNodes) {
+        return functions.trigMoments(sh, clrNodes);
+    }
+
+    /** Requires a cdf point / tail threshold that is not NaN, and a probability in [0, 1] (quantile(0) = a, quantile(1) = b). */
     void checkCdfPoint(double x) {
         functions.checkCdfPoint(x);
     }
 
-    /** Requires a tail-probability threshold that is not NaN (any other t is accepted). */
     void checkThreshold(double t) {
         functions.checkThreshold(t);
     }
 
-    /** Requires a probability in [0, 1] (quantile(0) = a, quantile(1) = b). */
     void checkProbability(double p) {
         functions.checkProbability(p);
     }

@@ -287,7 +287,7 @@ public final class Density {
     // ------------------------------------------------------------- evaluation
 
     /**
-     * The clr function at x.
+     * The clr function at x (on a periodic space, any finite x, taken modulo the period).
      *
      * @throws IllegalArgumentException if x is outside the domain [a, b] or NaN (the clr is
      *                                  defined on the domain only), or if the value is beyond the
@@ -336,7 +336,7 @@ public final class Density {
     }
 
     /**
-     * Lebesgue pdf at x: 0 outside the domain.
+     * Lebesgue pdf at x: 0 outside the domain (on a periodic space, x is taken modulo the period).
      *
      * @throws IllegalArgumentException if x is NaN
      * @throws DensaException           if the value exceeds the largest double ({@link #logPdf} gives
@@ -363,7 +363,8 @@ public final class Density {
 
     /**
      * Cumulative distribution function P(X ≤ x): 0 for x ≤ a, 1 for x ≥ b (x may be ±∞),
-     * non-decreasing.
+     * non-decreasing. On a periodic space it is measured from the cut point a, and x outside
+     * [a, b] is taken modulo the period (see {@link #cdfFrom} for another cut point).
      *
      * @throws IllegalArgumentException if x is NaN
      * @throws DensaException           if the coordinates are too large to evaluate
@@ -418,6 +419,112 @@ public final class Density {
      */
     public double tailProbability(double t) {
         return space.tail(shape(), t, new double[space.scratchSize()]);
+    }
+
+    // ------------------------------------------------------------- circular summaries
+
+    /**
+     * Mean direction of a density on a circle (a {@link BayesSpace#isPeriodic() periodic} space): with
+     * θ = 2π(x − a)/P, the angle μ of the first trigonometric moment E[cos θ] + i E[sin θ] = R e^{iμ}
+     * (Mardia &amp; Jupp (2000), Directional Statistics, Wiley, 2.2.1), returned as the position
+     * a + μP/(2π) in [a, a + P).
+     *
+     * @throws IllegalStateException if the space is not periodic, or if R &lt; 1e-12 (a density as
+     *                               flat as the uniform one has no mean direction)
+     * @throws DensaException        if the coordinates are too large to evaluate
+     */
+    public double circularMean() {
+        double[] m = trigMoments("circularMean");
+        double r = Math.hypot(m[0], m[1]);
+        if (!(r >= 1e-12)) {
+            throw new IllegalStateException("the mean resultant length of " + this + " is " + r + " (below 1e-12):"
+                    + " the density is uniform on the circle to rounding and has no mean direction; check"
+                    + " meanResultantLength() first");
+        }
+        double theta = Math.atan2(m[1], m[0]);
+        return space.wrap(space.lower() + (theta < 0 ? theta + 2 * Math.PI : theta) / (2 * Math.PI) * space.period());
+    }
+
+    /**
+     * Mean resultant length R = |E[e^{iθ}]| in [0, 1], θ = 2π(x − a)/P, of a density on a circle: 0
+     * for the uniform density, near 1 for a concentrated one (Mardia &amp; Jupp (2000), Directional
+     * Statistics, Wiley, 2.3.1); for the von Mises density R = I₁(κ)/I₀(κ).
+     *
+     * @throws IllegalStateException if the space is not periodic
+     * @throws DensaException        if the coordinates are too large to evaluate
+     */
+    public double meanResultantLength() {
+        double[] m = trigMoments("meanResultantLength");
+        return Math.min(1.0, Math.hypot(m[0], m[1]));
+    }
+
+    private double[] trigMoments(String what) {
+        requirePeriodic(what);
+        Shape s = shape();
+        double[] nodesClr = new double[space.nodeCount()];
+        space.clrAtNodes(c, 0, nodesClr);
+        return space.trigMoments(s, nodesClr);
+    }
+
+    private void requirePeriodic(String what) {
+        if (!space.isPeriodic()) {
+            throw new IllegalStateException(what + " needs a density on a circle, but " + space + " is not periodic;"
+                    + " periodic spaces come from BayesSpace.periodicSplines or BayesSpace.fourier");
+        }
+    }
+
+    /**
+     * Probability of the arc from the cut point going forward around the circle to x: with c and y
+     * the positions of cut and x in [a, a + P), F(y) − F(c) if y ≥ c, else P(X &gt; c) + F(y) (F =
+     * {@link #cdf}, measured from a). x = cut gives 0, x a whole number of turns after cut gives 1.
+     *
+     * @throws IllegalStateException    if the space is not periodic
+     * @throws IllegalArgumentException if cut or x is NaN or infinite
+     */
+    public double cdfFrom(double cut, double x) {
+        requirePeriodic("cdfFrom");
+        checkFinite(cut, "cut point");
+        checkFinite(x, "x");
+        double c0 = space.wrap(cut), y = space.wrap(x);
+        Shape s = shape();
+        double[] scratch = new double[space.scratchSize()];
+        if (y == c0) {
+            return x > cut ? 1.0 : 0.0;
+        }
+        double v = y > c0 ? space.cdf(s, y, scratch) - space.cdf(s, c0, scratch)
+                : space.tail(s, c0, scratch) + space.cdf(s, y, scratch);
+        return Math.min(1.0, Math.max(0.0, v));
+    }
+
+    /**
+     * The position x in [a, a + P) with {@link #cdfFrom cdfFrom(cut, x)} = p: the quantile measured
+     * from the cut point. quantileFrom(cut, 0) and quantileFrom(cut, 1) are the cut point itself (its
+     * position in [a, a + P)).
+     *
+     * @throws IllegalStateException    if the space is not periodic
+     * @throws IllegalArgumentException if cut is NaN or infinite, or p is not in [0, 1]
+     */
+    public double quantileFrom(double cut, double p) {
+        requirePeriodic("quantileFrom");
+        checkFinite(cut, "cut point");
+        space.checkProbability(p);
+        double c0 = space.wrap(cut);
+        if (p == 0 || p == 1) {
+            return c0;
+        }
+        Shape s = shape();
+        double[] scratch = new double[space.scratchSize()];
+        double above = space.tail(s, c0, scratch); // mass of [c0, b)
+        double x = p <= above ? space.quantile(s, Math.min(1.0, space.cdf(s, c0, scratch) + p), scratch)
+                : space.quantile(s, p - above, scratch);
+        return space.wrap(x);
+    }
+
+    private static void checkFinite(double v, String what) {
+        if (!Double.isFinite(v)) {
+            throw new IllegalArgumentException("the " + what + " is " + v + "; finite values are accepted (taken"
+                    + " modulo the period)");
+        }
     }
 
     // ------------------------------------------------------------- identity

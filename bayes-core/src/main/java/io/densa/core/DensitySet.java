@@ -526,7 +526,7 @@ public final class DensitySet {
      *                                  double range (naming row and point)
      */
     public DMatrixRMaj clr(double... grid) {
-        double[] et = space.basisTransposed(grid);
+        double[] et = RowEvaluation.basisTransposed(space, grid);
         DMatrixRMaj out = new DMatrixRMaj(n, grid.length);
         Kernels.multiply(data, n, k, et, grid.length, out.data, true);
         for (int i = 0; i < out.data.length; i++) { // one pass, against n·K per entry for the product

@@ -48,6 +48,7 @@ final class DistributionFunctions {
      *                                  point mass below the double resolution
      */
     double pdf(Shape sh, double x, double[] scratch) {
+        x = space.wrap(x);
         if (!(x >= a && x <= b)) {
             if (Double.isNaN(x)) {
                 throw new IllegalArgumentException("x is NaN; pdf accepts any other x (0 outside the domain ["
@@ -82,6 +83,7 @@ final class DistributionFunctions {
      * @throws DensaException           if the shape is a point mass below the double resolution
      */
     double logPdf(Shape sh, double x, double[] scratch) {
+        x = space.wrap(x);
         if (!(x >= a && x <= b)) {
             throw new IllegalArgumentException("logPdf accepts x in the domain [" + a + ", " + b + "] only (the pdf is 0"
                     + " outside it, its log −∞), got x = " + x);
@@ -155,6 +157,7 @@ final class DistributionFunctions {
      */
     double cdf(Shape sh, double x, double[] scratch) {
         checkCdfPoint(x);
+        x = x == b ? x : space.wrap(x);
         if (x <= a) {
             return 0.0;
         }
@@ -175,6 +178,7 @@ final class DistributionFunctions {
      */
     double tail(Shape sh, double t, double[] scratch) {
         checkThreshold(t);
+        t = t == b ? t : space.wrap(t);
         if (t <= a) {
             return 1.0;
         }
@@ -270,6 +274,18 @@ final class DistributionFunctions {
             return sh.atom;
         }
         return Math.min(b, Math.max(a, integration.moment(sh, clrNodes, 1, 0.0)));
+    }
+
+    /**
+     * The first trigonometric moment (∫ cos θ f dx, ∫ sin θ f dx) with θ = 2π(x − a)/(b − a) (Mardia &amp;
+     * Jupp (2000), Directional Statistics, Wiley, 3.4.1), by the panels' rules or adaptive leaves.
+     */
+    double[] trigMoments(Shape sh, double[] clrNodes) {
+        if (sh.isPointMass()) {
+            double t = 2 * Math.PI * (sh.atom - a) / (b - a);
+            return new double[] {Math.cos(t), Math.sin(t)};
+        }
+        return new double[] {integration.moment(sh, clrNodes, 3, a), integration.moment(sh, clrNodes, 4, a)};
     }
 
     /** Variance ∫ (x − mean)² f(x) dx (≥ 0). */

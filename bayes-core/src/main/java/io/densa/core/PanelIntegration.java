@@ -388,11 +388,13 @@ final class PanelIntegration {
     }
 
     /**
-     * ∫ (x − center)^power f(x) dx for power 1 (center 0: the mean) or 2, sharp panels summed over
+     * ∫ (x − center)^power f(x) dx for power 1 (center 0: the mean) or 2, or ∫ cos(ω(x − center)) f dx
+     * (power 3) and ∫ sin(ω(x − center)) f dx (power 4) with ω = 2π/(b − a), sharp panels summed over
      * their adaptive leaves.
      */
     double moment(Shape sh, double[] clrNodes, int power, double center) {
         int np = panelLo.length;
+        double omega = 2 * Math.PI / (space.upper() - space.lower());
         AdaptiveIntegrand g = sh.leafEdges == null ? null
                 : new AdaptiveIntegrand(space, grid, basis, sh.rawCoef, sh.offset, sh.shift, sh.logTotal, power, center);
         double s = 0;
@@ -407,7 +409,7 @@ final class PanelIntegration {
             for (int i = j * pts; i < (j + 1) * pts; i++) {
                 double d = nodes[i] - center;
                 double f = weights[i] * Math.exp(sh.logRelative(clrNodes[i]));
-                s += power == 1 ? f * d : f * d * d;
+                s += power == 1 ? f * d : power == 2 ? f * d * d : AdaptiveIntegrand.trig(power, f, d, omega);
             }
         }
         return s;
@@ -449,6 +451,7 @@ final class PanelIntegration {
         private final double logScale;
         private final int power;
         private final double center;
+        private final double omega;
         private final double[] scratch;
         private int budget = ADAPT_BUDGET;
         private double[] leafBuf;
@@ -468,6 +471,7 @@ final class PanelIntegration {
             this.logScale = logScale;
             this.power = power;
             this.center = center;
+            this.omega = 2 * Math.PI / (space.upper() - space.lower());
             this.scratch = new double[basis.scratchSize()];
         }
 
@@ -485,7 +489,12 @@ final class PanelIntegration {
             ruleHi = Math.max(ruleHi, clr);
             double f = space.referenceDensity(y) * Math.exp((clr - shift) - logScale);
             double d = y - center;
-            return power == 0 ? f : power == 1 ? f * d : f * d * d;
+            return power == 0 ? f : power == 1 ? f * d : power == 2 ? f * d * d : trig(power, f, d, omega);
+        }
+
+        /** f cos(ω d) for power 3, f sin(ω d) for power 4. */
+        static double trig(int power, double f, double d, double omega) {
+            return power == 3 ? f * Math.cos(omega * d) : f * Math.sin(omega * d);
         }
 
         /** The panel's Gauss–Legendre rule mapped to [u, v]. */

@@ -38,10 +38,14 @@ final class QuadratureGrid {
             pts = 2;
             perSpan = 1;
         } else {
-            int minPts = basis.kind() == Basis.Kind.SPLINE ? basis.order()
-                    : basis.kind() == Basis.Kind.POLYNOMIAL ? basis.order() + 1 : 1;
+            Basis.Kind kind = basis.kind();
+            int minPts = kind == Basis.Kind.SPLINE || kind == Basis.Kind.PERIODIC_SPLINE ? basis.order()
+                    : kind == Basis.Kind.POLYNOMIAL ? basis.order() + 1 : 1;
             pts = Math.max(POINTS, minPts);
-            perSpan = (MIN_PANELS + spans - 1) / spans;
+            // Fourier: 16 panels per period of the highest harmonic (8 per period of a product of two
+            // basis functions), so that each 8-point panel rule integrates such products to rounding
+            int minPanels = kind == Basis.Kind.FOURIER ? Math.max(MIN_PANELS, 16 * basis.order()) : MIN_PANELS;
+            perSpan = (minPanels + spans - 1) / spans;
         }
         glx = GaussLegendre.nodes(pts);
         glw = GaussLegendre.weights(pts);
@@ -104,5 +108,43 @@ final class QuadratureGrid {
     /** The panel that holds x (the first for x below the domain, the last for x above it). */
     int panelOf(double x) {
         return Sorted.lastAtMost(panelLo, 0, panelLo.length - 1, x);
+    }
+
+    /** Largest accepted |a|, |b|: moments such as the variance, of order (b − a)², stay representable. */
+    static final double MAX_DOMAIN_END = 1e150;
+    /** Smallest accepted width b − a, for the same reason at the small end. */
+    static final double MIN_DOMAIN_WIDTH = 1e-150;
+    /**
+     * Smallest accepted width relative to max(|a|, |b|): a point of the domain is then known to
+     * about 2e-8 of the width (double spacing 2.2e-16 relative), enough to place the quadrature
+     * nodes and knots distinctly.
+     */
+    static final double MIN_RELATIVE_WIDTH = 1e-8;
+
+    static void checkDomain(double a, double b) {
+        if (!Double.isFinite(a) || !Double.isFinite(b)) {
+            throw new IllegalArgumentException("domain ends must be finite, got [" + a + ", " + b + "]");
+        }
+        if (!(a < b)) {
+            throw new IllegalArgumentException("domain must satisfy a < b, got [" + a + ", " + b + "]");
+        }
+        double mag = Math.max(Math.abs(a), Math.abs(b));
+        if (!(mag <= MAX_DOMAIN_END)) {
+            throw new IllegalArgumentException("domain [" + a + ", " + b + "] reaches " + mag + "; ends up to "
+                    + MAX_DOMAIN_END + " in magnitude are accepted (so that moments such as the variance stay"
+                    + " representable): express the data in larger units");
+        }
+        double width = b - a;
+        if (!(width >= MIN_DOMAIN_WIDTH)) {
+            throw new IllegalArgumentException("domain [" + a + ", " + b + "] has width " + width
+                    + "; widths from " + MIN_DOMAIN_WIDTH + " are accepted: express the data in smaller units");
+        }
+        if (!(width >= MIN_RELATIVE_WIDTH * mag)) {
+            throw new IllegalArgumentException("domain [" + a + ", " + b + "] is too narrow relative to its"
+                    + " magnitude: width " + width + " is " + (width / mag) + " of max(|a|, |b|) = " + mag
+                    + ", and at least " + MIN_RELATIVE_WIDTH + " of it is accepted (points inside are then"
+                    + " resolved to about 2e-8 of the width); subtract an offset from the data first, e.g. use ["
+                    + 0.0 + ", " + width + "] for values minus " + a);
+        }
     }
 }

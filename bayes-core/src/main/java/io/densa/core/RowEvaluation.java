@@ -54,10 +54,11 @@ final class RowEvaluation {
             if (Double.isNaN(x)) {
                 throw new IllegalArgumentException("grid point " + j + " is NaN");
             }
+            x = set.space.wrap(x);
             inside[j] = Math.min(set.space.upper(), Math.max(set.space.lower(), x));
             ref[j] = set.space.referenceDensity(x);
         }
-        double[] et = set.space.basisTransposed(inside);
+        double[] et = basisTransposed(set.space, inside);
         double[] z = set.logNormalisers();
         for (int i = 0; i < set.n; i++) {
             if (Double.isNaN(z[3 * i + 1])) {
@@ -193,5 +194,19 @@ final class RowEvaluation {
             }
         }
         return true;
+    }
+
+    /** The transposed basis matrix K × m (row k = e_k at every x), for batch products. */
+    static double[] basisTransposed(BayesSpace space, double[] xs) {
+        double[] out = new double[space.dimension() * xs.length];
+        double[] raw = new double[space.dimension()];
+        double[] row = new double[space.dimension()];
+        for (int i = 0; i < xs.length; i++) {
+            space.basisAt(xs[i], row, raw);
+            for (int k = 0; k < space.dimension(); k++) {
+                out[k * xs.length + i] = row[k];
+            }
+        }
+        return out;
     }
 }

@@ -28,6 +28,48 @@ final class SpaceProjection {
         this.basisT = ob.basisT;
     }
 
+    /** {@link BayesSpace#project(java.util.function.DoubleUnaryOperator)} (log false) and {@link BayesSpace#projectLogPdf} (log true). */
+    Projection projectFunction(java.util.function.DoubleUnaryOperator f, boolean log) {
+        double[] h = new double[nodes.length];
+        for (int i = 0; i < nodes.length; i++) {
+            double x = nodes[i];
+            double v = f.applyAsDouble(x);
+            if (!Double.isFinite(v)) {
+                throw new IllegalArgumentException((log ? "log-pdf" : "pdf") + " is not finite at x = " + x + ": " + v);
+            }
+            if (log) {
+                h[i] = v - Math.log(space.referenceDensity(x));
+                continue;
+            }
+            if (!(v > 0)) {
+                throw new IllegalArgumentException("pdf must be > 0 on the domain (Bayes-space densities have full"
+                        + " support), got " + v + " at x = " + x);
+            }
+            h[i] = Math.log(v / space.referenceDensity(x));
+        }
+        return projectLogNodes(h);
+    }
+
+    /** {@link BayesSpace#fromGrid}. */
+    Density fromGrid(double[] xs, double[] pdfValues) {
+        Objects.requireNonNull(xs, "xs");
+        Objects.requireNonNull(pdfValues, "pdfValues");
+        if (xs.length != pdfValues.length) {
+            throw new IllegalArgumentException("xs has " + xs.length + " points but pdfValues has " + pdfValues.length);
+        }
+        double[] h = new double[xs.length];
+        for (int i = 0; i < xs.length; i++) {
+            double v = pdfValues[i];
+            if (!(v > 0 && Double.isFinite(v))) {
+                throw new IllegalArgumentException("pdf value " + i + " at x = " + xs[i]
+                        + " must be finite and > 0, got " + v);
+            }
+            space.checkPoint(xs[i]);
+            h[i] = Math.log(v / space.referenceDensity(xs[i]));
+        }
+        return fromClr(xs, h);
+    }
+
     Projection projectLogNodes(double[] h) {
         // scaled by the largest |h| (a power of two, exact) so that log-pdf values near the double
         // limit neither overflow the weighted sums nor the residual's squares

@@ -70,6 +70,16 @@ public final class Penalties {
             case POLYNOMIAL:
                 raw = RawBasis.polynomial(basis.order(), bp[0], bp[bp.length - 1]);
                 break;
+            case PERIODIC_SPLINE:
+                if (basis.order() < 3) {
+                    throw new IllegalArgumentException("the second-derivative penalty needs periodic splines of order"
+                            + " >= 3; order " + basis.order() + " is piecewise linear (use order 4 or Penalties.ridge)");
+                }
+                raw = RawBasis.periodicSpline(basis.order(), bp);
+                break;
+            case FOURIER:
+                raw = RawBasis.fourier(basis.order(), bp[0], bp[1]);
+                break;
             default:
                 throw new IllegalArgumentException("the second-derivative penalty is undefined for the step space "
                         + space + ": its clr functions jump at the bin edges; use Penalties.ridge or a spline or"

@@ -21,11 +21,17 @@ import java.util.List;
  * Σ_{q ∈ bin j} w_q exp(η(x_q)) ≈ ∫_{bin j} exp(η) dP, and the W = support-width raw basis values
  * that may be nonzero at x_q with the index of the first (local support of B-splines). Raw index
  * K (the basis function the space drops) is a sink: its coefficient is held at 0.
+ *
+ * <p>On a periodic space the edges e_0 &lt; … &lt; e_m span one period (e_m − e_0 = P) and may start
+ * anywhere: they are shifted by a whole number of periods so that e_0 lies in [a, b), a bin that
+ * reaches past b is cut at the knots shifted by P as well, and every node is evaluated modulo P
+ * (the raw basis and the reference wrap), so a bin may wrap around the cut point a.
  */
 final class BinLayout {
     private static final int MAX_PIECE_FRACTION = 64;
 
     final int bins;
+    final boolean periodic;
     final int nodes;
     final int width;
     final int k;
@@ -45,7 +51,23 @@ final class BinLayout {
      */
     BinLayout(BayesSpace space, double[] edges, int points) {
         RawBasis basis = EstimationSupport.rawBasis(space.basis());
-        this.edges = edges.clone();
+        this.periodic = space.isPeriodic();
+        edges = edges.clone();
+        double[] br = basis.knotsView();
+        if (periodic) {
+            double period = space.period();
+            double shift = basis.wrap(edges[0]) - edges[0];
+            for (int i = 0; i < edges.length; i++) {
+                edges[i] += shift;
+            }
+            double[] twice = new double[2 * br.length];
+            for (int i = 0; i < br.length; i++) {
+                twice[i] = br[i];
+                twice[br.length + i] = br[i] + period;
+            }
+            br = twice;
+        }
+        this.edges = edges;
         this.bins = edges.length - 1;
         this.k = space.dimension();
         this.width = basis.supportWidth();
@@ -56,7 +78,6 @@ final class BinLayout {
             gxs[m] = GaussLegendre.nodes(m);
             gws[m] = GaussLegendre.weights(m);
         }
-        double[] br = basis.knotsView();
         double maxPiece = (space.upper() - space.lower()) / MAX_PIECE_FRACTION;
         // count pieces
         int total = 0;
@@ -147,6 +168,10 @@ final class BinLayout {
         static BatchEstimate fitAll(PenalizedLikelihoodEstimator est, double[] edges, int[][] counts, String[] ids,
                 DetectionLimits limits) {
             BayesSpace space = est.space();
+            if (space.isPeriodic()) {
+                throw new IllegalArgumentException("detection limits cut the domain at a lower or upper limit, but "
+                        + space + " is a circle, which has neither; fit the counts without limits");
+            }
             double[] e = EstimationSupport.checkEdges(space, edges);
             EstimationSupport.checkIds(ids, counts.length);
             if (limits.size() != counts.length) {

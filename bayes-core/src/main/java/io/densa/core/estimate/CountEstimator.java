@@ -15,7 +15,8 @@ public sealed interface CountEstimator permits PenalizedLikelihoodEstimator, Smo
     /**
      * Fits many units sharing bin edges.
      *
-     * @param edges  D + 1 strictly increasing bin edges inside the domain (not modified)
+     * @param edges  D + 1 strictly increasing bin edges inside the domain, or spanning one period from any
+     *               start on a periodic space (a bin may wrap around the cut point) (not modified)
      * @param counts n rows of D whole-number counts ≥ 0 (not modified)
      * @param ids    n ids, or null
      * @return the densities (ids kept) and per-unit diagnostics, in input order

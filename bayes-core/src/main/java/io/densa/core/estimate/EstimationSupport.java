@@ -47,6 +47,9 @@ final class EstimationSupport {
             throw new IllegalArgumentException("need at least 2 bin edges (1 bin), got " + edges.length);
         }
         double a = space.lower(), b = space.upper();
+        if (space.isPeriodic()) {
+            return checkCircularEdges(space, edges);
+        }
         for (int i = 0; i < edges.length; i++) {
             double e = edges[i];
             if (!(e >= a && e <= b)) {
@@ -57,6 +60,33 @@ final class EstimationSupport {
                 throw new IllegalArgumentException("bin edges must be strictly increasing: edge " + i + " = " + e
                         + " does not exceed edge " + (i - 1) + " = " + edges[i - 1]);
             }
+        }
+        return edges.clone();
+    }
+
+    /**
+     * Edges on a circle: finite, strictly increasing, spanning one period (e_m − e_0 = P within a
+     * relative 1e-12), starting anywhere; a copy.
+     */
+    private static double[] checkCircularEdges(BayesSpace space, double[] edges) {
+        double period = space.period();
+        for (int i = 0; i < edges.length; i++) {
+            double e = edges[i];
+            if (!Double.isFinite(e)) {
+                throw new IllegalArgumentException("bin edge " + i + " = " + e + " is not finite; edges on the circle of "
+                        + space + " must be finite");
+            }
+            if (i > 0 && !(e > edges[i - 1])) {
+                throw new IllegalArgumentException("bin edges must be strictly increasing: edge " + i + " = " + e
+                        + " does not exceed edge " + (i - 1) + " = " + edges[i - 1]);
+            }
+        }
+        double span = edges[edges.length - 1] - edges[0];
+        if (!(Math.abs(span - period) <= 1e-12 * period)) {
+            throw new IllegalArgumentException("bin edges " + edges[0] + " … " + edges[edges.length - 1] + " span "
+                    + span + ", but on the circle of " + space + " they must span exactly one period " + period
+                    + " (e.g. " + edges[0] + " … " + (edges[0] + period) + "; the last bin may wrap around the cut point "
+                    + space.lower() + ")");
         }
         return edges.clone();
     }
@@ -134,6 +164,12 @@ final class EstimationSupport {
             case POLYNOMIAL: {
                 double[] ab = b.breakpoints();
                 return RawBasis.polynomial(b.order(), ab[0], ab[1]);
+            }
+            case PERIODIC_SPLINE:
+                return RawBasis.periodicSpline(b.order(), b.breakpoints());
+            case FOURIER: {
+                double[] ab = b.breakpoints();
+                return RawBasis.fourier(b.order(), ab[0], ab[1]);
             }
             default:
                 return RawBasis.step(b.breakpoints());
@@ -313,7 +349,7 @@ final class EstimationSupport {
                 mass += bins.weight[q];
             }
             for (int q = 0; q < nq; q++) {
-                if (side == 0 ? domain.x[q] < lo : domain.x[q] > hi) {
+                if (!bins.periodic && (side == 0 ? domain.x[q] < lo : domain.x[q] > hi)) {
                     mass += domain.weight[q];
                 }
             }
@@ -328,7 +364,7 @@ final class EstimationSupport {
                 }
             }
             for (int q = 0; q < nq; q++) {
-                if (side == 0 ? domain.x[q] < lo : domain.x[q] > hi) {
+                if (!bins.periodic && (side == 0 ? domain.x[q] < lo : domain.x[q] > hi)) {
                     double d = level - (eta[q] - m);
                     if (d > 0) {
                         deep += domain.weight[q] * d * d;

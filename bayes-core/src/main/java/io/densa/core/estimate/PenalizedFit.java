@@ -207,6 +207,7 @@ final class PenalizedFit {
             throw new IllegalArgumentException("weights has " + weights.length + " rows for " + n + " samples");
         }
         double a = space.lower(), b = space.upper();
+        boolean circle = space.isPeriodic();
         double[] totals = new double[n];
         double[] totals2 = new double[n];
         for (int i = 0; i < n; i++) {
@@ -221,9 +222,10 @@ final class PenalizedFit {
             }
             double s = 0, s2 = 0;
             for (int j = 0; j < v.length; j++) {
-                if (!(v[j] >= a && v[j] <= b)) {
+                if (!(v[j] >= a && v[j] <= b) && !(circle && Double.isFinite(v[j]))) {
                     throw new IllegalArgumentException(unit + ", value " + j + " = " + v[j]
-                            + " lies outside the domain [" + a + ", " + b + "]; values must be finite and inside it");
+                            + " lies outside the domain [" + a + ", " + b + "]; values must be finite and inside it"
+                            + (circle ? " (or anywhere, taken modulo the period, on this circle)" : ""));
                 }
                 double wj = w == null ? 1.0 : w[j];
                 if (!(wj >= 0) || !Double.isFinite(wj)) {
@@ -447,6 +449,9 @@ final class PenalizedFit {
 
     /** Extrapolation share of a sample: the domain below its smallest and above its largest value. */
     private double sampleShare(SampleData sample, double[] beta, double normSq) {
+        if (space.isPeriodic()) {
+            return 0.0; // a circle has no range beyond the sample to extrapolate into
+        }
         double a = space.lower(), b = space.upper();
         double lo = sample.min, hi = sample.max;
         if (!(hi > lo)) {

@@ -32,6 +32,13 @@ import io.densa.core.estimate.BinLayout.CensoredCounts;
  * density function by the maximum penalized likelihood method, Ann. Statist. 10(3) (from memory),
  * written in Bayes-space coordinates.
  *
+ * <h2>On a circle</h2>
+ * On a {@link BayesSpace#isPeriodic() periodic} space the edges e_0 &lt; … &lt; e_D must span one period
+ * (e_D − e_0 = P within a relative 1e-12) and may start anywhere, so a bin may wrap around the cut
+ * point (start 0, period 365, edges 10, 20, …, 375: the last bin is [365, 375) ≡ [0, 10)); sample
+ * values are taken modulo P; the penalty integrates over the whole circle (no boundary), so only
+ * constant clr functions are unpenalised; detection limits are refused.
+ *
  * <h2>Reference prior: regions without events</h2>
  * Where a unit has no events (a run of empty bins at one end, as when values below a detection
  * limit are not reported or are set to the limit), the likelihood says only that the density is
@@ -487,8 +494,6 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
 
     // ---------------------------------------------------------------- binned counts
 
-    // ---------------------------------------------------------------- binned counts
-
     /**
      * Fits many units sharing bin edges.
      *
@@ -533,12 +538,11 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
 
     // ---------------------------------------------------------------- raw samples
 
-    // ---------------------------------------------------------------- raw samples
-
     /**
      * Fits one unweighted sample.
      *
-     * @param values observations in [a, b] (not modified)
+     * @param values observations in [a, b], or any finite values on a periodic space (taken modulo the
+     *               period) (not modified)
      * @throws IllegalArgumentException for values outside the domain or NaN (naming the index), or
      *                                  an empty sample under {@link ZeroTotalPolicy#REJECT}
      */

@@ -8,7 +8,11 @@ import java.util.Arrays;
  * last one dropped (de Boor (1978), A Practical Guide to Splines, Springer, the triangular
  * recurrence); Legendre polynomials P_1..P_d of the variable mapped affinely onto [−1, 1]
  * (three-term recurrence, Abramowitz &amp; Stegun (1964), 22.7.10); indicators of the bins
- * [e_j, e_{j+1}) of a step basis (the last bin closed), the last one dropped.
+ * [e_j, e_{j+1}) of a step basis (the last bin closed), the last one dropped; on a circle
+ * [a, a + P): the N periodic B-splines of order k on N knots a = t_0 &lt; … &lt; t_{N−1} continued
+ * around the circle (they sum to 1, de Boor (1978), so the last one is dropped, K = N − 1) and
+ * the Fourier functions cos(2πj(x − a)/P), sin(2πj(x − a)/P), j = 1..H (K = 2H). The periodic kinds
+ * are evaluated densely (every function at every point, first index 0) and wrap x modulo P.
  *
  * <p>Internal: not exported outside the Densa modules; may change without notice. The arguments are
  * validated by {@code io.densa.core.Basis}, which owns one instance; the factories here only copy.
@@ -18,6 +22,8 @@ public final class RawBasis {
     private static final int SPLINE = 0;
     private static final int POLYNOMIAL = 1;
     private static final int STEP = 2;
+    private static final int PERIODIC = 3;
+    private static final int FOURIER = 4;
 
     private final int kind;
     private final int order; // spline order, polynomial degree, or 0 for steps
@@ -41,6 +47,12 @@ public final class RawBasis {
         } else if (kind == POLYNOMIAL) {
             ext = null;
             size = order;
+        } else if (kind == PERIODIC) {
+            ext = periodicKnots(order, knots);
+            size = knots.length - 2;
+        } else if (kind == FOURIER) {
+            ext = null;
+            size = 2 * order;
         } else {
             ext = null;
             size = knots.length - 2;
@@ -63,6 +75,50 @@ public final class RawBasis {
     /** Indicators of the bins between the given edges (copied; at least 3, strictly increasing). */
     public static RawBasis step(double[] edges) {
         return new RawBasis(STEP, 0, edges.clone());
+    }
+
+    /**
+     * Periodic B-splines of the given order on the knots a = t_0 &lt; t_1 &lt; … &lt; t_{N−1} of the
+     * circle, given with t_N = b = a + P appended (copied; strictly increasing, N = knots.length − 1 ≥
+     * order, checked by the caller).
+     */
+    public static RawBasis periodicSpline(int order, double[] knots) {
+        return new RawBasis(PERIODIC, order, knots.clone());
+    }
+
+    /** cos and sin of 2πj(x − a)/(b − a), j = 1..harmonics, on the circle [a, b). */
+    public static RawBasis fourier(int harmonics, double a, double b) {
+        return new RawBasis(FOURIER, harmonics, new double[] {a, b});
+    }
+
+    /** True for periodic B-splines. */
+    public boolean isPeriodicSpline() {
+        return kind == PERIODIC;
+    }
+
+    /** True for the Fourier functions. */
+    public boolean isFourier() {
+        return kind == FOURIER;
+    }
+
+    /** True for the bases on a circle (periodic B-splines, Fourier). */
+    public boolean isPeriodic() {
+        return kind == PERIODIC || kind == FOURIER;
+    }
+
+    /**
+     * x wrapped onto the circle [a, b) of a periodic basis: a + ((x − a) mod (b − a)); x itself
+     * when it already lies in [a, b) or the basis is not periodic.
+     */
+    public double wrap(double x) {
+        double a = knots[0], b = knots[knots.length - 1];
+        if (!isPeriodic() || x >= a && x < b) {
+            return x;
+        }
+        double p = b - a;
+        double r = (x - a) - p * Math.floor((x - a) / p);
+        double y = a + r;
+        return y >= b || y < a ? a : y;
     }
 
     /** True for B-splines. */
@@ -102,6 +158,9 @@ public final class RawBasis {
 
     /** Number of nonzero raw functions at a point (local support width). */
     public int supportWidth() {
+        if (kind == PERIODIC || kind == FOURIER) {
+            return size;
+        }
         if (kind == SPLINE) {
             return order;
         }
@@ -110,6 +169,9 @@ public final class RawBasis {
 
     /** Length of the scratch array {@link #evalLocal} and {@link #combine} need. */
     public int scratchSize() {
+        if (kind == PERIODIC) {
+            return size + 3 * order;
+        }
         return kind == SPLINE ? 3 * order : supportWidth();
     }
 
@@ -126,6 +188,19 @@ public final class RawBasis {
             int j = bin(x);
             vals[0] = 1.0;
             return j;
+        }
+        if (kind == PERIODIC) {
+            periodicLocal(wrap(x), vals);
+            return 0;
+        }
+        if (kind == FOURIER) {
+            double a = knots[0], b = knots[1];
+            double u = 2 * Math.PI * ((wrap(x) - a) / (b - a));
+            for (int j = 1; j <= order; j++) {
+                vals[2 * j - 2] = Math.cos(j * u);
+                vals[2 * j - 1] = Math.sin(j * u);
+            }
+            return 0;
         }
         double a = knots[0], b = knots[1];
         double t = (2 * x - a - b) / (b - a);
@@ -174,6 +249,59 @@ public final class RawBasis {
             return hi;
         }
         return Sorted.lastAtMost(knots, lo, hi, x);
+    }
+
+    /**
+     * The knots of a periodic spline continued around the circle: ext[i] = t_{(i − p) mod N} + P ⌊(i −
+     * p)/N⌋ for i = 0..N + 2p (p = order − 1), so ext[p] = a and ext[p + N] = b; B-spline i on
+     * ext[i..i + k] is periodic function (i − p) mod N.
+     */
+    public static double[] periodicKnots(int order, double[] knots) {
+        int p = order - 1;
+        int n = knots.length - 1;
+        double period = knots[n] - knots[0];
+        double[] e = new double[n + 2 * p + 1];
+        for (int i = 0; i < e.length; i++) {
+            int r = i - p;
+            e[i] = knots[Math.floorMod(r, n)] + period * Math.floorDiv(r, n);
+        }
+        for (int i = 0; i <= n; i++) {
+            e[p + i] = knots[i]; // the stored knots themselves, b included
+        }
+        return e;
+    }
+
+    /**
+     * Dense values of the periodic B-splines at y in [a, b): the B-splines of order k on the knots
+     * continued around the circle ({@link #periodicKnots}), evaluated by de Boor's triangular
+     * recurrence (de Boor (1978)), B-spline i being periodic function (i − p) mod N; function N − 1 is
+     * dropped. Uses vals[K..K + 3k) as work space.
+     */
+    private void periodicLocal(double y, double[] vals) {
+        int k = order;
+        int p = k - 1;
+        int nk = knots.length - 1; // N
+        int s = Math.max(p, Sorted.lastAtMost(ext, p, p + nk - 1, y)); // ext[s] <= y < ext[s + 1]
+        int o = size; // work space
+        vals[o] = 1.0;
+        for (int j = 1; j <= p; j++) {
+            vals[o + k + j] = y - ext[s + 1 - j];
+            vals[o + 2 * k + j] = ext[s + j] - y;
+            double saved = 0.0;
+            for (int r = 0; r < j; r++) {
+                double temp = vals[o + r] / (vals[o + 2 * k + r + 1] + vals[o + k + j - r]);
+                vals[o + r] = saved + vals[o + 2 * k + r + 1] * temp;
+                saved = vals[o + k + j - r] * temp;
+            }
+            vals[o + j] = saved;
+        }
+        Arrays.fill(vals, 0, size, 0.0);
+        for (int i = 0; i <= p; i++) {
+            int j = Math.floorMod(s - p + i - p, nk);
+            if (j < size) {
+                vals[j] += vals[o + i];
+            }
+        }
     }
 
     private int splineLocal(double x, double[] n) {
@@ -230,6 +358,13 @@ public final class RawBasis {
         }
         if (kind == POLYNOMIAL) {
             return "polynomials(degree " + order + ", K=" + size + ")";
+        }
+        if (kind == PERIODIC) {
+            return "periodic splines(order " + order + ", " + (knots.length - 1) + " knots, period "
+                    + (knots[knots.length - 1] - knots[0]) + ", K=" + size + ")";
+        }
+        if (kind == FOURIER) {
+            return "fourier(" + order + " harmonics, period " + (knots[1] - knots[0]) + ", K=" + size + ")";
         }
         return "steps(" + (knots.length - 1) + " bins, K=" + size + ")";
     }

@@ -16,6 +16,11 @@ package io.densa.core.internal;
  * <li>Steps: the difference penalty Σ_i (Δ^l y)_i² on the bin clr values y = (b_1, …, b_{D−1}, 0)
  * (a difference penalty in the manner of Eilers &amp; Marx (1996), Flexible smoothing with
  * B-splines and penalties, Statistical Science 11(2), from memory).</li>
+ * <li>Periodic splines: the same integral over the whole circle, without boundary: the derivatives
+ * of the B-splines on the knots continued around the circle (the same recurrence), accumulated into
+ * their periodic index per knot span with a k-point rule (exact).</li>
+ * <li>Fourier: cos(jωx) and sin(jωx), ω = 2π/P, have l-th derivatives (jω)^l times a cos or sin of the
+ * same frequency, orthogonal over a period, so the penalty is diagonal with (jω)^{2l} P/2.</li>
  * </ul>
  * Because the basis is centred and orthonormalised by e = T(φ − φ̄), the penalty of coordinates c
  * is c'Ωc with Ω = T P T'.
@@ -38,7 +43,10 @@ public final class RoughnessPenalty {
 
     /** Largest admissible derivative order for a basis. */
     public static int maxOrder(RawBasis basis) {
-        if (basis.isSpline()) {
+        if (basis.isFourier()) {
+            return 6;
+        }
+        if (basis.isSpline() || basis.isPeriodicSpline()) {
             return basis.order() - 1;
         }
         return basis.isPolynomial() ? basis.order() : basis.size();
@@ -52,6 +60,12 @@ public final class RoughnessPenalty {
         }
         if (basis.isSpline()) {
             return spline(basis, l);
+        }
+        if (basis.isPeriodicSpline()) {
+            return periodicSpline(basis, l);
+        }
+        if (basis.isFourier()) {
+            return fourier(basis, l);
         }
         return basis.isPolynomial() ? polynomial(basis, l) : steps(basis, l);
     }
@@ -98,6 +112,53 @@ public final class RoughnessPenalty {
                     }
                 }
             }
+        }
+        return pen;
+    }
+
+    private static double[] periodicSpline(RawBasis basis, int l) {
+        int k = basis.order();
+        int p = k - 1;
+        int size = basis.size();
+        int n = basis.knotsView().length - 1; // knots on the circle
+        double[] u = RawBasis.periodicKnots(k, basis.knotsView());
+        double[] gx = GaussLegendre.nodes(k);
+        double[] gw = GaussLegendre.weights(k);
+        double[] pen = new double[size * size];
+        double[][] ders = new double[l + 1][k];
+        for (int s = p; s < p + n; s++) {
+            double lo = u[s], hi = u[s + 1];
+            double h = 0.5 * (hi - lo), c = 0.5 * (hi + lo);
+            for (int q = 0; q < k; q++) {
+                derivatives(s, c + h * gx[q], p, l, u, ders);
+                double w = h * gw[q];
+                double[] d = ders[l];
+                for (int i = 0; i <= p; i++) {
+                    int ri = Math.floorMod(s - p + i - p, n);
+                    if (ri >= size) {
+                        continue;
+                    }
+                    for (int j = 0; j <= p; j++) {
+                        int rj = Math.floorMod(s - p + j - p, n);
+                        if (rj < size) {
+                            pen[ri * size + rj] += w * d[i] * d[j];
+                        }
+                    }
+                }
+            }
+        }
+        return pen;
+    }
+
+    private static double[] fourier(RawBasis basis, int l) {
+        int size = basis.size();
+        double[] br = basis.knotsView();
+        double period = br[1] - br[0];
+        double[] pen = new double[size * size];
+        for (int j = 1; 2 * j <= size; j++) {
+            double v = Math.pow(2 * Math.PI * j / period, 2.0 * l) * period / 2;
+            pen[(2 * j - 2) * size + 2 * j - 2] = v;
+            pen[(2 * j - 1) * size + 2 * j - 1] = v;
         }
         return pen;
     }

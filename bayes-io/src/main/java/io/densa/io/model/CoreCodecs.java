@@ -95,6 +95,18 @@ final class CoreCodecs {
         o.end();
     }
 
+    /**
+     * The period P with a + P == b exactly (b − a, or a neighbouring double when a + (b − a) rounds
+     * away from b), so that the restored circle ends at the stored upper end.
+     */
+    private static double period(double a, double b) {
+        double p = b - a;
+        for (int i = 0; i < 4 && a + p != b; i++) {
+            p = a + p < b ? Math.nextUp(p) : Math.nextDown(p);
+        }
+        return p;
+    }
+
     static BayesSpace readSpace(Node n) {
         double a = n.get("lower").real();
         double b = n.get("upper").real();
@@ -109,9 +121,15 @@ final class CoreCodecs {
             switch (kind) {
                 case SPLINE: return BayesSpace.splines(a, b, order, Arrays.copyOfRange(bp, 1, bp.length - 1));
                 case POLYNOMIAL: return BayesSpace.polynomials(a, b, order);
+                case PERIODIC_SPLINE:
+                    return BayesSpace.periodicSplines(a, period(a, b), order, Arrays.copyOf(bp, bp.length - 1));
+                case FOURIER: return BayesSpace.fourier(a, period(a, b), order);
                 default: return BayesSpace.steps(bp);
             }
         });
+        if (kind == Basis.Kind.FOURIER && bp.length != 2) {
+            throw basis.get("breakpoints").error("must be [" + a + ", " + b + "] for a Fourier basis");
+        }
         Node ref = n.get("reference");
         Reference.Kind rk = ref.get("kind").enumValue(Reference.Kind.class);
         switch (rk) {

@@ -106,7 +106,10 @@ class ModelFileRoundTripTest {
     void spacesOfEveryBasisAndReference() throws Exception {
         List<BayesSpace> spaces = List.of(SPACE, BayesSpace.splines(-1, 3, 2, new double[] {-0.5, 0.25, 2}),
                 BayesSpace.polynomials(0, 1, 4).withReference(Reference.uniform()),
-                BayesSpace.steps(0, 1, 2.5, 7).withReference(Reference.beta(2, 3)));
+                BayesSpace.steps(0, 1, 2.5, 7).withReference(Reference.beta(2, 3)),
+                // circles, one with an end that does not round-trip through a + (b − a) naively
+                BayesSpace.periodicSplines(0.1, 0.2, 4, 6), BayesSpace.periodicSplines(0.7, 0.1, 3, 5),
+                BayesSpace.fourier(-3, 365, 2).withReference(Reference.uniform()));
         for (BayesSpace s : spaces) {
             BayesSpace back = roundTrip(s);
             assertEquals(s, back);
