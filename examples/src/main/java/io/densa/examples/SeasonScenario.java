@@ -47,7 +47,7 @@ record SeasonScenario(Region region, int[][] counts, double[] peaks, double[] ye
     static final double FIELD_SD_DAYS = 8;
     static final double SHIFT_QUANTILE = 0.93;
     static final int ONSET_DAY_OF_YEAR = 275;
-    static final double SHIFT_DAYS = 25;
+    static final double SHIFT_DAYS = 30;
 
     /** Generates the scenario with about {@code n} districts. */
     static SeasonScenario generate(long seed, int n) {

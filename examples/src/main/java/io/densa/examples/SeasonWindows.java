@@ -20,6 +20,8 @@ import java.util.List;
  */
 final class SeasonWindows {
     static final int BIN_DAYS = 5;
+    /** Harmonics of the Fourier basis on the circle of days. */
+    static final int HARMONICS = 3;
     static final int BINS = SeasonScenario.DAYS_PER_YEAR / BIN_DAYS;
     static final double[] EDGES = new double[BINS + 1];
 
@@ -34,19 +36,16 @@ final class SeasonWindows {
 
     /** The Bayes space of the day of the year: the one place where it is chosen. */
     static BayesSpace space() {
-        return BayesSpace.cubicSplines(0, SeasonScenario.DAYS_PER_YEAR, 6);
+        return BayesSpace.fourier(0, SeasonScenario.DAYS_PER_YEAR, HARMONICS);
     }
 
     /** How the space is described in the report. */
     static String describeSpace() {
-        return "the interval [0, 365) of days of the year with cubic B-splines (6 equally spaced interior knots, "
-                + space().dimension() + " clr coordinates); the bins of 5 days do not wrap around the cut at "
-                + "1 January in this space, so a season straddling it is one density on an interval cut there";
-    }
-
-    /** Whether the space is a circle (periodic basis). */
-    static boolean periodic() {
-        return false;
+        return "the circle of days of the year (period 365, day 0 = 1 January) with the Fourier basis of " + HARMONICS
+                + " harmonics (" + space().dimension() + " clr coordinates: cos and sin of 2πjd/365, j = 1.." + HARMONICS
+                + "): 31 December and 1 January are neighbours, so a season that straddles the turn of the year is "
+                + "one smooth density. A von Mises season lies exactly in the first harmonic (Mardia & Jupp 2000); "
+                + "the flat background of the invented seasons adds small higher harmonics";
     }
 
     /** First week whose trailing 365 days lie inside the record. */
@@ -147,28 +146,14 @@ final class SeasonWindows {
     }
 
     /**
-     * The circular mean day of each density, in [0, 365): atan2(∫ f sin θ, ∫ f cos θ) with
-     * θ = 2π d / 365 (Mardia &amp; Jupp (2000), Directional Statistics, Wiley, §2.2.1; from memory),
-     * by the midpoint rule on the 365 days.
+     * The circular mean day of each density, in [0, 365): the mean direction of the density on the
+     * circle of days ({@link io.densa.core.Density#circularMean()}; Mardia &amp; Jupp (2000),
+     * Directional Statistics, Wiley, §2.2.1).
      */
     static double[] timing(DensitySet d) {
-        int days = SeasonScenario.DAYS_PER_YEAR;
-        double[] grid = new double[days];
-        for (int g = 0; g < days; g++) {
-            grid[g] = g + 0.5;
-        }
-        org.ejml.data.DMatrixRMaj pdf = d.pdf(grid);
         double[] out = new double[d.size()];
         for (int i = 0; i < d.size(); i++) {
-            double s = 0;
-            double c = 0;
-            for (int g = 0; g < days; g++) {
-                double f = pdf.get(i, g);
-                s += f * Math.sin(2 * Math.PI * grid[g] / days);
-                c += f * Math.cos(2 * Math.PI * grid[g] / days);
-            }
-            double a = Math.atan2(s, c) * days / (2 * Math.PI);
-            out[i] = a < 0 ? a + days : a;
+            out[i] = d.get(i).circularMean();
         }
         return out;
     }

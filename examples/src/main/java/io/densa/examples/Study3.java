@@ -68,9 +68,10 @@ import org.locationtech.jts.geom.prep.PreparedGeometryFactory;
  * next week on a grid, and the circular mean day of each kriged density is mapped.
  */
 final class Study3 {
-    static final double FDR = 0.05;
+    static final double FDR = 0.02;
     static final int CALIBRATION = 26;
     static final int SEASONAL_LAG = 52;
+    static final int[] LAGS = {SEASONAL_LAG, 2 * SEASONAL_LAG, 3 * SEASONAL_LAG};
     static final int KRIGING_WEEKS = 6;
     static final int NEIGHBOURS = 40;
 
@@ -141,8 +142,9 @@ final class Study3 {
 
         // ---------------------------------------------------------------- baseline, saved and loaded
         int split = monitorFrom - first;
-        RollingBaseline config = RollingBaseline.withDefaults().withLagSet(SEASONAL_LAG)
-                .withCalibrationPeriods(CALIBRATION).withFdr(FDR).withDraws(199, options.seed());
+        RollingBaseline config = RollingBaseline.withDefaults().withLagSet(LAGS)
+                .withCalibrationPeriods(CALIBRATION).withFdr(FDR).withFlaggedKeptOutOfCalibration(true)
+                .withDraws(199, options.seed());
         BaselineMonitor fitted = config.fit(periods.subList(0, split));
         BaselineMonitor monitor;
         long fileBytes;

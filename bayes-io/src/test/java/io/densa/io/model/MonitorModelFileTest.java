@@ -78,7 +78,9 @@ class MonitorModelFileTest {
         for (RollingBaseline cfg : List.of(RollingBaseline.withDefaults().withDraws(199, 3),
                 RollingBaseline.withDefaults().withWindow(4).withLags(2).withDraws(199, 4),
                 RollingBaseline.withDefaults().withForgetting(0.9).withCalibrationPeriods(3).withDraws(199, 5),
-                RollingBaseline.withDefaults().withLagSet(4, 1).withCalibrationPeriods(2).withDraws(199, 6))) {
+                RollingBaseline.withDefaults().withLagSet(4, 1).withCalibrationPeriods(2).withDraws(199, 6),
+                RollingBaseline.withDefaults().withFlaggedKeptOutOfCalibration(true).withCalibrationPeriods(3)
+                        .withDraws(199, 8))) {
             BaselineMonitor m = cfg.fit(all.subList(0, 10)).absorb(all.get(10)).absorb(all.get(11));
             BaselineMonitor back = ModelFile.fromBytes(ModelFile.toBytes(m), BaselineMonitor.class, ModelLimits.defaults(),
                     "test");
@@ -98,9 +100,10 @@ class MonitorModelFileTest {
     }
 
     /**
-     * A file written before lag sets existed (no {@code lagSet} member) reads as lags 1..L, as
-     * docs/model-format.md specifies; a {@code lags} that is not the longest lag of {@code lagSet} is
-     * refused.
+     * A file written before lag sets and left-out calibration residuals existed (no {@code lagSet},
+     * {@code flaggedKeptOutOfCalibration} or {@code calibrationKept} member) reads as lags 1..L with
+     * every calibration residual used, as docs/model-format.md specifies; a {@code lags} that is not
+     * the longest lag of {@code lagSet} is refused.
      */
     @Test
     void lagSetMemberIsOptionalAndChecked() throws Exception {
@@ -108,8 +111,10 @@ class MonitorModelFileTest {
         BaselineMonitor m = RollingBaseline.withDefaults().withLags(2).withDraws(199, 7).fit(all.subList(0, 10));
         String payload = new String(HostileModelFileTest.payloadOf(ModelFile.toBytes(m)), StandardCharsets.UTF_8);
         assertTrue(payload.contains("\"lags\":2,\"lagSet\":{"), payload.substring(0, 200));
-        String old = payload.replaceFirst("\"lagSet\":\\{[^}]*\\},", "");
-        assertTrue(!old.contains("lagSet"));
+        String old = payload.replaceFirst("\"lagSet\":\\{[^}]*\\},", "")
+                .replaceFirst(",\"flaggedKeptOutOfCalibration\":false", "")
+                .replaceFirst(",\"calibrationKept\":\\{[^}]*\\}", "");
+        assertTrue(!old.contains("lagSet") && !old.contains("Kept"), old.substring(0, 300));
         BaselineMonitor back = ModelFile.fromBytes(HostileModelFileTest.envelope("baseline-monitor", old),
                 BaselineMonitor.class, ModelLimits.defaults(), "test");
         assertArrayEquals(new int[] {1, 2}, back.configuration().lagSet());

@@ -35,14 +35,15 @@ public final class BaselineMonitor {
     private final double[] recentVariances; // most recent period's estimation variances, or null
     private final List<double[]> calibration; // raw residuals (n × K) of the last C periods, oldest first
     private final List<double[]> calibrationX; // x_i = u_t + u_{t−1} per calibration period, or null entries
+    private final List<int[]> calibrationKept; // per calibration period 1 (kept) / 0 (flagged, left out), or null: all kept
     private final List<AlertHistory> history;
     private final int lastPeriod;
     private final int absorbed;
 
     private BaselineMonitor(RollingBaseline config, BayesSpace space, String[] ids, int q, double[] szz,
             double[] szy, List<double[][]> windowMoments, List<double[]> recent, double[] recentVariances,
-            List<double[]> calibration, List<double[]> calibrationX, List<AlertHistory> history, int lastPeriod,
-            int absorbed) {
+            List<double[]> calibration, List<double[]> calibrationX, List<int[]> calibrationKept,
+            List<AlertHistory> history, int lastPeriod, int absorbed) {
         this.config = config;
         this.space = space;
         this.ids = ids;
@@ -57,6 +58,7 @@ public final class BaselineMonitor {
         this.recentVariances = recentVariances;
         this.calibration = List.copyOf(calibration);
         this.calibrationX = calibrationX;
+        this.calibrationKept = calibrationKept;
         this.history = List.copyOf(history);
         this.lastPeriod = lastPeriod;
         this.absorbed = absorbed;
@@ -81,7 +83,7 @@ public final class BaselineMonitor {
         int d = 1 + lags * space.dimension() + q;
         BaselineMonitor m = new BaselineMonitor(config, space, ids, q, new double[d * d],
                 new double[d * space.dimension()], List.of(), recent, past.get(start - 1).estimationVariances(),
-                List.of(), new ArrayList<>(), quietHistory(ids), past.get(start - 1).index(), 0);
+                List.of(), new ArrayList<>(), new ArrayList<>(), quietHistory(ids), past.get(start - 1).index(), 0);
         int training = past.size() - config.calibrationPeriods;
         for (int t = start; t < past.size(); t++) {
             Period p = past.get(t);
@@ -121,7 +123,12 @@ public final class BaselineMonitor {
         double[] cal = new double[c * n * k];
         double[] calX = new double[c * n];
         int[] hasX = new int[c];
+        int[] kept = new int[c * n];
+        java.util.Arrays.fill(kept, 1);
         for (int t = 0; t < c; t++) {
+            if (calibrationKept.get(t) != null) {
+                System.arraycopy(calibrationKept.get(t), 0, kept, t * n, n);
+            }
             System.arraycopy(calibration.get(t), 0, cal, t * n * k, n * k);
             if (calibrationX.get(t) != null) {
                 hasX[t] = 1;
@@ -129,8 +136,8 @@ public final class BaselineMonitor {
             }
         }
         return new MonitorState(space, ids, q, szz, szy, w, wzz, wzy, rec,
-                recentVariances == null ? new double[0] : recentVariances, c, cal, calX, hasX, history, lastPeriod,
-                absorbed);
+                recentVariances == null ? new double[0] : recentVariances, c, cal, calX, hasX, kept, history,
+                lastPeriod, absorbed);
     }
 
     /**
@@ -196,15 +203,31 @@ public final class BaselineMonitor {
         }
         List<double[]> cal = new ArrayList<>();
         List<double[]> calX = new ArrayList<>();
+        List<int[]> calKept = new ArrayList<>();
         double[] cr = s.calibration();
         double[] cx = s.calibrationX();
+        int[] ck = s.calibrationKept();
+        if (ck.length != c * n) {
+            throw new IllegalArgumentException("monitor state member calibrationKept has " + ck.length
+                    + " values, expected " + (long) c * n);
+        }
         for (int t = 0; t < c; t++) {
             cal.add(Arrays.copyOfRange(cr, t * n * k, (t + 1) * n * k));
             calX.add(s.hasX()[t] == 1 ? Arrays.copyOfRange(cx, t * n, (t + 1) * n) : null);
+            int[] kept = Arrays.copyOfRange(ck, t * n, (t + 1) * n);
+            boolean all = true;
+            for (int i = 0; i < n; i++) {
+                if (kept[i] != 0 && kept[i] != 1) {
+                    throw new IllegalArgumentException("monitor state member calibrationKept[" + (t * n + i) + "] is "
+                            + kept[i] + "; 0 or 1 are accepted");
+                }
+                all &= kept[i] == 1;
+            }
+            calKept.add(all ? null : kept);
         }
         return new BaselineMonitor(config, space, ids, q, s.momentsZZ(), s.momentsZY(), wm, rec,
-                s.recentVariances().length == 0 ? null : s.recentVariances(), cal, calX, s.history(), s.lastPeriod(),
-                s.absorbed());
+                s.recentVariances().length == 0 ? null : s.recentVariances(), cal, calX, calKept, s.history(),
+                s.lastPeriod(), s.absorbed());
     }
 
     private static void requireLength(String what, double[] a, long expected) {
@@ -240,9 +263,45 @@ public final class BaselineMonitor {
         return absorbed;
     }
 
-    /** Number of calibration residuals (units × calibration periods). */
+    /** Number of calibration residuals (units × calibration periods, less the flagged ones left out). */
     public int calibrationSize() {
-        return calibration.size() * n;
+        int m = 0;
+        for (int[] kept : calibrationKept) {
+            m += kept == null ? n : Arrays.stream(kept).sum();
+        }
+        return m;
+    }
+
+    /** The calibration residuals and x values of the kept rows only, per calibration period. */
+    private List<double[][]> keptCalibration() {
+        List<double[][]> out = new ArrayList<>(calibration.size());
+        for (int c = 0; c < calibration.size(); c++) {
+            int[] kept = calibrationKept.get(c);
+            double[] r = calibration.get(c);
+            double[] x = calibrationX.get(c);
+            if (kept == null) {
+                out.add(new double[][] {r, x});
+                continue;
+            }
+            int m = Arrays.stream(kept).sum();
+            if (m == 0) {
+                continue;
+            }
+            double[] rr = new double[m * k];
+            double[] xx = x == null ? null : new double[m];
+            int o = 0;
+            for (int i = 0; i < n; i++) {
+                if (kept[i] == 1) {
+                    System.arraycopy(r, i * k, rr, o * k, k);
+                    if (xx != null) {
+                        xx[o] = x[i];
+                    }
+                    o++;
+                }
+            }
+            out.add(new double[][] {rr, xx});
+        }
+        return out;
     }
 
     /** Each unit's alert history, in unit order. */
@@ -281,13 +340,24 @@ public final class BaselineMonitor {
         double[] yhat = predictRowMajor(period);
         double[] r = residual(period, yhat);
         double[] x = xValues(period);
-        double[] ab = ResidualCalibration.varianceLine(calibration, calibrationX, n, k);
+        List<double[][]> kept = keptCalibration();
+        List<double[]> keptR = new ArrayList<>(kept.size());
+        List<double[]> keptX = new ArrayList<>(kept.size());
+        for (double[][] c : kept) {
+            keptR.add(c[0]);
+            keptX.add(c[1]);
+        }
+        double[] ab = ResidualCalibration.varianceLine(keptR, keptX, k);
         DensitySet cal = null;
-        for (int c = 0; c < calibration.size(); c++) {
-            DensitySet s = ResidualCalibration.standardised(space, calibration.get(c), calibrationX.get(c), ab, n, k, null);
+        for (int c = 0; c < kept.size(); c++) {
+            DensitySet s = ResidualCalibration.standardised(space, keptR.get(c), keptX.get(c), ab, k, null);
             cal = cal == null ? s : cal.concat(s);
         }
-        DensitySet current = ResidualCalibration.standardised(space, r, x, ab, n, k, idsOrNull());
+        if (cal == null) {
+            throw new IllegalStateException("every unit was flagged in every calibration period, so no calibration "
+                    + "residual is left; monitor with withFlaggedKeptOutOfCalibration(false) or more calibration periods");
+        }
+        DensitySet current = ResidualCalibration.standardised(space, r, x, ab, k, idsOrNull());
         double[] grid = new double[101];
         for (int g = 0; g < grid.length; g++) {
             grid[g] = space.lower() + (space.upper() - space.lower()) * (g + 0.5) / grid.length;
@@ -301,7 +371,7 @@ public final class BaselineMonitor {
             double[] edges = period.binEdges();
             excess = ExcessCounts.withDefaults().withDraws(config.draws, Seeds.mix(config.seed, 2L * period.index() + 1))
                     .estimate(expected, period.counts(), edges, new double[] {edges[0], edges[edges.length - 1]},
-                            ExcessCounts.BaselineError.common(ResidualCalibration.covariance(space, calibration, n, k)));
+                            ExcessCounts.BaselineError.common(ResidualCalibration.covariance(space, keptR, k)));
         }
         return new PeriodReport(period.index(), expected, current, scores, excess);
     }
@@ -346,9 +416,16 @@ public final class BaselineMonitor {
     private BaselineMonitor next(Period period, boolean calibrate, boolean recordHistory, PeriodReport scored) {
         List<AlertHistory> h = history;
         double[] expected = null;
+        int[] keptNow = null;
         if (recordHistory && !calibration.isEmpty()) {
             PeriodReport rep = scored != null ? scored : score(period);
             expected = rep.expected().coordinatesRowMajor();
+            if (config.excludeFlagged && rep.scores().flaggedCount() > 0) {
+                keptNow = new int[n];
+                for (int i = 0; i < n; i++) {
+                    keptNow[i] = rep.flagged(i) ? 0 : 1;
+                }
+            }
             h = new ArrayList<>(n);
             for (int i = 0; i < n; i++) {
                 h.add(history.get(i).next(period.index(), rep.flagged(i), rep.overallExcess(i)));
@@ -356,12 +433,15 @@ public final class BaselineMonitor {
         }
         List<double[]> cal = new ArrayList<>(calibration);
         List<double[]> calX = new ArrayList<>(calibrationX);
+        List<int[]> calKept = new ArrayList<>(calibrationKept);
         if (calibrate) {
             cal.add(residual(period, expected != null ? expected : predictRowMajor(period)));
             calX.add(xValues(period));
+            calKept.add(keptNow);
             while (cal.size() > config.calibrationPeriods) {
                 cal.remove(0);
                 calX.remove(0);
+                calKept.remove(0);
             }
         }
         // the period's moments
@@ -410,7 +490,7 @@ public final class BaselineMonitor {
             rec.remove(rec.size() - 1);
         }
         return new BaselineMonitor(config, space, ids, q, nzz, nzy, wm, rec, period.estimationVariances(), cal, calX,
-                h, period.index(), absorbed + 1);
+                calKept, h, period.index(), absorbed + 1);
     }
 
     /** Raw residual coordinates y − ŷ (n × K row-major). */

@@ -23,16 +23,20 @@ import java.util.List;
  * @param calibration     calibrationCount × n × K raw residual coordinates, oldest first
  * @param calibrationX    calibrationCount × n values x_i (0 where {@code hasX} is 0)
  * @param hasX            per calibration period, 1 when it carried estimation variances, else 0
+ * @param calibrationKept calibrationCount × n: 1 where a calibration residual is used, 0 where it was
+ *                        left out because its unit was flagged in that period
+ *                        ({@link RollingBaseline#withFlaggedKeptOutOfCalibration})
  * @param history         the n alert histories
  * @param lastPeriod      index of the latest absorbed period
  * @param absorbed        number of absorbed periods
  */
 public record MonitorState(BayesSpace space, String[] ids, int covariates, double[] momentsZZ, double[] momentsZY,
         int windowCount, double[] windowZZ, double[] windowZY, double[] recent, double[] recentVariances,
-        int calibrationCount, double[] calibration, double[] calibrationX, int[] hasX, List<AlertHistory> history,
-        int lastPeriod, int absorbed) {
+        int calibrationCount, double[] calibration, double[] calibrationX, int[] hasX, int[] calibrationKept,
+        List<AlertHistory> history, int lastPeriod, int absorbed) {
     /** Copies every array and the history list. */
     public MonitorState {
+        calibrationKept = calibrationKept.clone();
         ids = ids.clone();
         momentsZZ = momentsZZ.clone();
         momentsZY = momentsZY.clone();
@@ -94,6 +98,30 @@ public record MonitorState(BayesSpace space, String[] ids, int covariates, doubl
     @Override
     public int[] hasX() {
         return hasX.clone();
+    }
+
+    @Override
+    public int[] calibrationKept() {
+        return calibrationKept.clone();
+    }
+
+    /**
+     * A state in which every calibration residual is used (what a monitor saved before flagged
+     * residuals could be left out holds).
+     */
+    public MonitorState(BayesSpace space, String[] ids, int covariates, double[] momentsZZ, double[] momentsZY,
+            int windowCount, double[] windowZZ, double[] windowZY, double[] recent, double[] recentVariances,
+            int calibrationCount, double[] calibration, double[] calibrationX, int[] hasX, List<AlertHistory> history,
+            int lastPeriod, int absorbed) {
+        this(space, ids, covariates, momentsZZ, momentsZY, windowCount, windowZZ, windowZY, recent, recentVariances,
+                calibrationCount, calibration, calibrationX, hasX, ones(Math.max(0, calibrationCount) * ids.length),
+                history, lastPeriod, absorbed);
+    }
+
+    private static int[] ones(int length) {
+        int[] a = new int[length];
+        java.util.Arrays.fill(a, 1);
+        return a;
     }
 
     @Override

@@ -12,10 +12,10 @@ final class ResidualCalibration {
     }
 
     /**
-     * (a, b) ≥ 0 minimising Σ (‖r‖² − a x − b)² over the calibration residuals, or null when a
-     * calibration period lacks estimation variances.
+     * (a, b) ≥ 0 minimising Σ (‖r‖² − a x − b)² over the calibration residuals (rows × K per period,
+     * the rows a period keeps), or null when a calibration period lacks estimation variances.
      */
-    static double[] varianceLine(List<double[]> calibration, List<double[]> calibrationX, int n, int k) {
+    static double[] varianceLine(List<double[]> calibration, List<double[]> calibrationX, int k) {
         double sw = 0;
         double sx = 0;
         double sxx = 0;
@@ -27,6 +27,7 @@ final class ResidualCalibration {
                 return null;
             }
             double[] r = calibration.get(c);
+            int n = r.length / k;
             for (int i = 0; i < n; i++) {
                 double s = 0;
                 for (int j = 0; j < k; j++) {
@@ -49,15 +50,15 @@ final class ResidualCalibration {
             b = 0;
             a = sxx > 0 ? sxy / sxx : 0;
         }
-        if (!(a * (sx / sw) + b > 0)) {
+        if (!(sw > 0) || !(a * (sx / sw) + b > 0)) {
             return null;
         }
         return new double[] {a, b};
     }
 
     /** Residual rows powered by 1/√(a x_i + b) (unchanged without the line). */
-    static DensitySet standardised(BayesSpace space, double[] r, double[] x, double[] ab, int n, int k,
-            String[] rowIds) {
+    static DensitySet standardised(BayesSpace space, double[] r, double[] x, double[] ab, int k, String[] rowIds) {
+        int n = r.length / k;
         double[] s = r.clone();
         if (ab != null && x != null) {
             double floor = 1e-12 * (ab[1] + ab[0] * Arrays.stream(x).average().orElse(0));
@@ -72,14 +73,19 @@ final class ResidualCalibration {
     }
 
     /** Covariance (K × K, divisor m − 1, {@link DensitySet#covariance()}) of the raw calibration residuals. */
-    static double[][] covariance(BayesSpace space, List<double[]> calibration, int n, int k) {
-        int m = calibration.size() * n;
+    static double[][] covariance(BayesSpace space, List<double[]> calibration, int k) {
+        int m = 0;
+        for (double[] r : calibration) {
+            m += r.length / k;
+        }
         if (m < 2) {
             return new double[k][k];
         }
         double[] all = new double[m * k];
-        for (int c = 0; c < calibration.size(); c++) {
-            System.arraycopy(calibration.get(c), 0, all, c * n * k, n * k);
+        int o = 0;
+        for (double[] r : calibration) {
+            System.arraycopy(r, 0, all, o, r.length);
+            o += r.length;
         }
         DMatrixRMaj cov = DensitySet.ofRowMajor(space, all, m, null).covariance();
         double[][] out = new double[k][];

@@ -71,9 +71,11 @@ public final class RollingBaseline {
     final double ridge;
     final int draws;
     final long seed;
+    /** Whether a unit's residual leaves the calibration set in a period in which it was flagged. */
+    final boolean excludeFlagged;
 
     private RollingBaseline(int[] lagSet, double forgetting, int window, int calibrationPeriods, double fdr,
-            double bandLevel, double ridge, int draws, long seed) {
+            double bandLevel, double ridge, int draws, long seed, boolean excludeFlagged) {
         this.lagSet = lagSet;
         this.lags = lagSet.length;
         this.longest = lagSet[lagSet.length - 1];
@@ -85,11 +87,12 @@ public final class RollingBaseline {
         this.ridge = ridge;
         this.draws = draws;
         this.seed = seed;
+        this.excludeFlagged = excludeFlagged;
     }
 
     /** The defaults described above. */
     public static RollingBaseline withDefaults() {
-        return new RollingBaseline(new int[] {1}, 1, 0, 4, 0.05, 0.95, 1e-8, 999, 1);
+        return new RollingBaseline(new int[] {1}, 1, 0, 4, 0.05, 0.95, 1e-8, 999, 1, false);
     }
 
     /** Number of previous periods L ≥ 1 whose densities predict the next: the lags 1..L (L ≤ 12). */
@@ -101,7 +104,7 @@ public final class RollingBaseline {
         for (int j = 0; j < l; j++) {
             set[j] = j + 1;
         }
-        return new RollingBaseline(set, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, draws, seed);
+        return new RollingBaseline(set, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, draws, seed, excludeFlagged);
     }
 
     /**
@@ -129,7 +132,21 @@ public final class RollingBaseline {
                         + java.util.Arrays.toString(lags));
             }
         }
-        return new RollingBaseline(set, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, draws, seed);
+        return new RollingBaseline(set, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, draws, seed, excludeFlagged);
+    }
+
+    /**
+     * Whether the residual of a unit flagged in a period is kept out of the calibration set when the
+     * period is absorbed (default false: every unit's residual enters it). A change that lasts
+     * (an early season, a trend) otherwise enters the calibration set with the flagged units' own
+     * large residuals, which raises the conformal p-values of the units still changing and masks them
+     * after a few periods; keeping flagged residuals out follows the common practice of leaving
+     * past outbreaks out of a surveillance baseline. The units' densities still enter the
+     * regression moments.
+     */
+    public RollingBaseline withFlaggedKeptOutOfCalibration(boolean exclude) {
+        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, draws, seed,
+                exclude);
     }
 
     /** Forgetting factor φ ∈ (0, 1] (1: none); replaces a window. */
@@ -137,7 +154,7 @@ public final class RollingBaseline {
         if (!(phi > 0 && phi <= 1)) {
             throw new IllegalArgumentException("forgetting factor must be in (0, 1], got " + phi);
         }
-        return new RollingBaseline(lagSet, phi, 0, calibrationPeriods, fdr, bandLevel, ridge, draws, seed);
+        return new RollingBaseline(lagSet, phi, 0, calibrationPeriods, fdr, bandLevel, ridge, draws, seed, excludeFlagged);
     }
 
     /** A moving window of the last w ≥ 1 periods' moments; replaces a forgetting factor. */
@@ -145,7 +162,7 @@ public final class RollingBaseline {
         if (w < 1) {
             throw new IllegalArgumentException("window must be at least 1 period, got " + w);
         }
-        return new RollingBaseline(lagSet, 1, w, calibrationPeriods, fdr, bandLevel, ridge, draws, seed);
+        return new RollingBaseline(lagSet, 1, w, calibrationPeriods, fdr, bandLevel, ridge, draws, seed, excludeFlagged);
     }
 
     /** Number C ≥ 1 of recent periods whose out-of-sample residuals calibrate the p-values. */
@@ -153,7 +170,7 @@ public final class RollingBaseline {
         if (c < 1) {
             throw new IllegalArgumentException("calibration periods must be at least 1, got " + c);
         }
-        return new RollingBaseline(lagSet, forgetting, window, c, fdr, bandLevel, ridge, draws, seed);
+        return new RollingBaseline(lagSet, forgetting, window, c, fdr, bandLevel, ridge, draws, seed, excludeFlagged);
     }
 
     /** False discovery rate q ∈ (0, 1). */
@@ -161,7 +178,7 @@ public final class RollingBaseline {
         if (!(q > 0 && q < 1)) {
             throw new IllegalArgumentException("FDR must be in (0, 1), got " + q);
         }
-        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, q, bandLevel, ridge, draws, seed);
+        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, q, bandLevel, ridge, draws, seed, excludeFlagged);
     }
 
     /** Pointwise band level ∈ (0, 1) of the residual excursions. */
@@ -169,7 +186,7 @@ public final class RollingBaseline {
         if (!(level > 0 && level < 1)) {
             throw new IllegalArgumentException("band level must be in (0, 1), got " + level);
         }
-        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, level, ridge, draws, seed);
+        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, level, ridge, draws, seed, excludeFlagged);
     }
 
     /** Relative ridge ρ ≥ 0 (finite). */
@@ -177,7 +194,7 @@ public final class RollingBaseline {
         if (!(rho >= 0) || Double.isInfinite(rho)) {
             throw new IllegalArgumentException("ridge must be finite and >= 0, got " + rho);
         }
-        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, bandLevel, rho, draws, seed);
+        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, bandLevel, rho, draws, seed, excludeFlagged);
     }
 
     /** Bootstrap draws (≥ 99) of the excess-count intervals and the seed of all random choices. */
@@ -186,7 +203,7 @@ public final class RollingBaseline {
             throw new IllegalArgumentException("at least 99 bootstrap draws are needed, got " + count);
         }
         return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, count,
-                randomSeed);
+                randomSeed, excludeFlagged);
     }
 
     /** Number of lagged densities among the regressors (L for {@link #withLags}(L)). */
@@ -249,6 +266,11 @@ public final class RollingBaseline {
         return seed;
     }
 
+    /** Whether flagged units' residuals are kept out of the calibration set. */
+    public boolean flaggedKeptOutOfCalibration() {
+        return excludeFlagged;
+    }
+
     /**
      * Fits the baseline on past periods, oldest first: the first L periods (L the longest lag) start the lags, the
      * following ones up to the last C are absorbed as training periods, and the last C periods are
@@ -274,6 +296,7 @@ public final class RollingBaseline {
         return "RollingBaseline[lags " + (consecutiveLags() ? String.valueOf(lags) : java.util.Arrays.toString(lagSet))
                 + (window > 0 ? ", window " + window : ", forgetting " + forgetting)
                 + ", calibration periods " + calibrationPeriods + ", FDR " + fdr + ", band level " + bandLevel
-                + ", ridge " + ridge + ", draws " + draws + ", seed " + seed + "]";
+                + ", ridge " + ridge + ", draws " + draws + ", seed " + seed
+                + (excludeFlagged ? ", flagged residuals kept out of calibration" : "") + "]";
     }
 }

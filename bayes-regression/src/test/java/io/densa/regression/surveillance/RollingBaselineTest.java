@@ -413,4 +413,42 @@ class RollingBaselineTest {
         }
         assertTrue(flags > 0, "the comparison must include flagged units");
     }
+
+    /**
+     * Flagged residuals kept out of the calibration set: the set shrinks by exactly the flags of the
+     * periods it holds, and a lasting shift keeps being flagged at least as often as when every
+     * residual enters the set (where the shifted units' own residuals mask them).
+     */
+    @Test
+    void flaggedResidualsKeptOutOfCalibration() {
+        Panel p = panel(30, 0.3, 16, 16, 6, 1.5);
+        RollingBaseline base = RollingBaseline.withDefaults().withCalibrationPeriods(6);
+        BaselineMonitor plain = base.fit(p.periods().subList(0, 12));
+        BaselineMonitor kept = base.withFlaggedKeptOutOfCalibration(true).fit(p.periods().subList(0, 12));
+        assertTrue(kept.configuration().flaggedKeptOutOfCalibration());
+        List<Integer> flagsPerPeriod = new ArrayList<>();
+        int plainShiftedFlags = 0;
+        int keptShiftedFlags = 0;
+        for (int t = 12; t < 30; t++) {
+            BaselineMonitor.Step a = plain.step(p.periods().get(t));
+            BaselineMonitor.Step b = kept.step(p.periods().get(t));
+            plain = a.next();
+            kept = b.next();
+            flagsPerPeriod.add(b.report().scores().flaggedCount());
+            int window = Math.min(6, flagsPerPeriod.size());
+            int left = 0;
+            for (int j = flagsPerPeriod.size() - window; j < flagsPerPeriod.size(); j++) {
+                left += flagsPerPeriod.get(j);
+            }
+            assertEquals(6 * UNITS - left, kept.calibrationSize(), "period " + t);
+            assertEquals(6 * UNITS, plain.calibrationSize());
+            for (int i = 0; i < 6; i++) {
+                plainShiftedFlags += a.report().flagged(i) ? 1 : 0;
+                keptShiftedFlags += b.report().flagged(i) ? 1 : 0;
+            }
+        }
+        assertTrue(flagsPerPeriod.stream().mapToInt(Integer::intValue).sum() > 0, "some flags are needed");
+        assertTrue(keptShiftedFlags >= plainShiftedFlags, keptShiftedFlags + " < " + plainShiftedFlags);
+        assertTrue(keptShiftedFlags > 0);
+    }
 }
