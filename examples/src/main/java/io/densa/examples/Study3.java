@@ -1,38 +1,15 @@
 package io.densa.examples;
 
 import io.densa.core.BayesSpace;
-import io.densa.core.DensitySet;
 import io.densa.io.model.ModelFile;
-import io.densa.regression.surveillance.AlertHistory;
 import io.densa.regression.surveillance.BaselineMonitor;
 import io.densa.regression.surveillance.DetectionSummary;
-import io.densa.regression.surveillance.ExcessCounts;
 import io.densa.regression.surveillance.Period;
 import io.densa.regression.surveillance.PeriodReport;
 import io.densa.regression.surveillance.RollingBaseline;
 import io.densa.report.Report;
 import io.densa.report.ReportFiles;
-import io.densa.report.Table;
-import io.densa.report.chart.Axis;
-import io.densa.report.chart.Chart;
-import io.densa.report.chart.ChartGrid;
-import io.densa.report.chart.Observed;
-import io.densa.report.colour.ColourScale;
-import io.densa.report.colour.Palette;
-import io.densa.report.map.GridValues;
 import io.densa.report.map.MapFrame;
-import io.densa.report.map.Maps;
-import io.densa.spatial.Locations;
-import io.densa.spatial.kriging.CrossValidation;
-import io.densa.spatial.spacetime.LagBins;
-import io.densa.spatial.spacetime.SpaceTimeData;
-import io.densa.spatial.spacetime.SpaceTimeFit;
-import io.densa.spatial.spacetime.SpaceTimeFitOptions;
-import io.densa.spatial.spacetime.SpaceTimeFitting;
-import io.densa.spatial.spacetime.SpaceTimeKriging;
-import io.densa.spatial.spacetime.SpaceTimeModel;
-import io.densa.spatial.spacetime.SpaceTimeVariogram;
-import java.awt.Color;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
@@ -43,29 +20,30 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
-import org.locationtech.jts.geom.Envelope;
-import org.locationtech.jts.geom.prep.PreparedGeometry;
-import org.locationtech.jts.geom.prep.PreparedGeometryFactory;
 
 /**
  * Study 3: prospective week-by-week surveillance of the timing of a season, on the invented
  * scenario of {@link SeasonScenario}.
  *
  * <p>Pipeline: (1) each week t the district's events of the trailing 365 days are binned by day of
- * the year (5-day bins) and turned into a density on the days of the year ({@link SeasonWindows};
- * one smoothing parameter for all, the median of the default criterion's choices over the largest
- * districts of the first week). (2) A rolling baseline ({@link RollingBaseline}) is fitted on the
- * first five years with the seasonal lag set {52}: a week's density is predicted from the same
- * district's density 52 weeks earlier (with a trailing window, lag 1 would predict each week by the
- * previous one, which differs by one week's events only and absorbs a gradual shift). The residuals
- * are standardised by the estimation variances, calibrated by the last {@value #CALIBRATION} weeks'
- * out-of-sample residuals (split-conformal p-values) and flagged at FDR {@value #FDR}
- * (Benjamini–Hochberg within a week). (3) The fitted baseline is saved through bayes-io's
- * {@link ModelFile}, loaded back, and the last year is monitored week by week: each week is scored,
- * then absorbed. (4) Detection delay and false alerts per unit-year are computed against the
- * injected truth ({@link DetectionSummary}). (5) The last {@value #KRIGING_WEEKS} weeks' densities are
- * kriged in space and time (product-sum model fitted to the empirical space–time trace-variogram) to
- * next week on a grid, and the circular mean day of each kriged density is mapped.
+ * the year (5-day bins) and turned into a density on the circle of days ({@link SeasonWindows}: a
+ * Fourier Bayes space of period 365, so a season straddling 1 January is one density; one smoothing
+ * parameter for all, the median of the default criterion's choices over the largest districts of
+ * the first week). (2) A rolling baseline ({@link RollingBaseline}) is fitted on the first five
+ * years with the seasonal lag set {52, 104, 156}: a week's density is predicted from the same
+ * district's densities of the same week one, two and three years earlier (with a trailing window,
+ * lag 1 would predict each week by the previous one, which differs by one week's events only and
+ * absorbs a gradual shift; three years average the counting noise of the years before). The
+ * residuals are standardised by the estimation variances, calibrated by the last
+ * {@value #CALIBRATION} weeks' out-of-sample residuals (split-conformal p-values, flagged
+ * residuals kept out of the calibration set so a lasting shift does not mask itself) and flagged at
+ * FDR {@value #FDR} (Benjamini–Hochberg within a week). (3) The fitted baseline is saved through
+ * bayes-io's {@link ModelFile}, loaded back, and the last year is monitored week by week: each week
+ * is scored, then absorbed ({@link BaselineMonitor#step}). (4) Detection delay and false alerts per
+ * unit-year are computed against the injected truth ({@link DetectionSummary}). (5) The last
+ * {@value #KRIGING_WEEKS} weeks' densities are kriged in space and time (the best of three
+ * space–time models fitted to the empirical space–time trace-variogram) to next week on a grid, and
+ * the circular mean day of each kriged density is mapped.
  */
 final class Study3 {
     static final double FDR = 0.02;
@@ -169,19 +147,22 @@ final class Study3 {
         }
         report.heading("The baseline").paragraph(String.format(Locale.ROOT, "A rolling baseline on the first five "
                 + "years (weeks %d–%d): in clr coordinates, each district's density in week t is predicted from its "
-                + "own density in week t − %d (the same week a year earlier; a seasonal lag set {%d}) by a linear "
-                + "function-on-function model with a full coordinate kernel and an intercept, fitted by least squares "
-                + "over every district and week (%d coefficients per coordinate). Each residual is standardised by "
-                + "the estimation variances of the two densities it compares, so small districts are not flagged for "
-                + "their counting noise; the residuals of the last %d weeks, each computed before its week was "
-                + "absorbed, calibrate split-conformal p-values, and a district is flagged when its "
-                + "Benjamini–Hochberg adjusted p-value within the week is at most %.2f. With a trailing window the "
-                + "lag-1 prediction would differ from the observation by one week's events only, so a slow shift "
-                + "would be absorbed week after week; the seasonal lag compares the whole year so far with the year "
-                + "before. The fitted baseline was saved as a Densa model file (%,d bytes, `baseline-monitor` "
-                + "format), read back, and the loaded monitor (coefficients %s to the fitted ones) ran the last year, "
-                + "as a backend would between weekly runs.", first, monitorFrom - 1, SEASONAL_LAG, SEASONAL_LAG,
-                1 + space.dimension(), CALIBRATION, FDR, fileBytes, same ? "bit-identical" : "NOT identical"));
+                + "own densities in weeks t − 52, t − 104 and t − 156 (the same week one, two and three years "
+                + "earlier; the seasonal lag set {52, 104, 156}) by a linear function-on-function model with a full "
+                + "coordinate kernel per lag and an intercept, fitted by least squares over every district and week "
+                + "(%d coefficients per coordinate). Each residual is standardised by the estimation variances of the "
+                + "densities it compares, so small districts are not flagged for their counting noise; the residuals "
+                + "of the last %d weeks, each computed before its week was absorbed, calibrate split-conformal "
+                + "p-values, and a district is flagged when its Benjamini–Hochberg adjusted p-value within the week "
+                + "is at most %.2f. A flagged district's residual is kept out of the calibration set: otherwise a "
+                + "lasting change (an early season goes on for weeks) fills the calibration set with its own large "
+                + "residuals and masks itself after a few weeks. With a trailing window the lag-1 prediction would "
+                + "differ from the observation by one week's events only, so a slow shift would be absorbed week "
+                + "after week; the seasonal lags compare the year so far with the years before. The fitted baseline "
+                + "was saved as a Densa model file (%,d bytes, `baseline-monitor` format), read back, and the loaded "
+                + "monitor (coefficients %s to the fitted ones) ran the last year, as a backend would between weekly "
+                + "runs.", first, monitorFrom - 1, 1 + LAGS.length * space.dimension(), CALIBRATION, FDR, fileBytes,
+                same ? "bit-identical" : "NOT identical"));
 
         // ---------------------------------------------------------------- monitoring
         List<PeriodReport> reports = new ArrayList<>();
@@ -216,7 +197,8 @@ final class Study3 {
         metrics.put("falseAlerts", (double) summary.falseAlerts());
         metrics.put("falseAlertsPerUnitYear", summary.falseAlertsPerUnitYear());
         report.keyNumber(String.format(Locale.ROOT, "Detected %d of %d shifted districts, median delay %s weeks after "
-                + "the onset; %d false alerts in %.1f unit-years at risk (%.3f per unit-year).", summary.detected(),
+                + "the onset; %d false alert(s) (flagged district-weeks) in %.1f unit-years at risk (%.3f per "
+                + "unit-year).", summary.detected(),
                 shiftedCount, Double.isNaN(summary.medianDelay()) ? "–" : Study3Report.weeks(summary.medianDelay()),
                 summary.falseAlerts(), summary.unitYearsAtRisk(), summary.falseAlertsPerUnitYear()));
         Study3Report.monitoring(report, sc, codes, names, frame, periods, weekly[weekly.length - 1], reports, monitor, summary,

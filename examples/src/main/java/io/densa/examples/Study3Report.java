@@ -1,6 +1,5 @@
 package io.densa.examples;
 
-import io.densa.core.BayesSpace;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
 import io.densa.regression.surveillance.AlertHistory;
@@ -57,7 +56,7 @@ final class Study3Report {
     }
 
     static Axis dayAxis() {
-        return Axis.linear("days from 1 January (cut at day 180, 30 June)", "days");
+        return Axis.linear("day relative to 1 January, circle cut at 30 June", "days");
     }
 
     /** Points −185 … 179 of the unrolled axis and the days of the year they stand for. */
@@ -136,8 +135,9 @@ final class Study3Report {
                 .verticalLine("onset of the early season", onsetWeek), "Districts flagged at FDR " + Study3.FDR
                 + " each monitored week, split by the injected truth; the dashed vertical line is the onset week.");
         report.paragraph(String.format(Locale.ROOT, "Against the injected truth: %d of %d shifted districts were "
-                + "flagged at or after the onset (median detection delay %s weeks, delays %s), %d were not; %d flags "
-                + "fell on districts that were not (yet) shifted, in %.1f unit-years at risk: %.3f false alerts per "
+                + "flagged at or after the onset (median detection delay %s weeks, delays %s), %d were not; flags "
+                + "in %d district-weeks fell on districts that were not (yet) shifted, in %.1f unit-years at risk: "
+                + "%.3f false alerts per "
                 + "unit-year. The delay counts weeks from the onset week to the first flag (0: flagged in the onset "
                 + "week).", summary.detected(), summary.detected() + summary.missed(),
                 Double.isNaN(summary.medianDelay()) ? "–" : weeks(summary.medianDelay()),
@@ -157,7 +157,8 @@ final class Study3Report {
                 + "generator did.");
         double lim = Math.max(5, Arrays.stream(change).map(Math::abs).max().orElse(5));
         report.figure("map_timing_change.png", Maps.choropleth(frame, change, ColourScale.diverging(lim,
-                "circular mean day, observed − baseline prediction", "days"), "Change of timing in week " + last),
+                "circular mean day, observed − baseline prediction", "days"), "Change of timing in week " + last)
+                .withFlagged(sc.shifted(), "early-season group (injected truth)"),
                 "Circular mean day of each district's trailing-year density in the last week minus that of the "
                 + "baseline's prediction for it; negative: earlier than expected. The early-season group is outlined.");
 
@@ -170,8 +171,8 @@ final class Study3Report {
         }
         report.figure("fig_densities.png", ChartGrid.of("Trailing-year densities of the day of the year, week " + last,
                 charts, 2).withCellSize(560, 380), "Densities of the day of the year of the events in the 365 days "
-                + "ending with week " + last + " (solid), the baseline's prediction from the same week a year "
-                + "earlier (dashed), and the events per 5-day bin on the density scale (points). The circle of days "
+                + "ending with week " + last + " (solid), the baseline's prediction from the same week in the three "
+                + "years before (dashed), and the events per 5-day bin on the density scale (points). The circle of days "
                 + "is drawn unrolled, cut at day 180 (30 June): negative days are the second half of the year before "
                 + "1 January.");
 
@@ -238,6 +239,19 @@ final class Study3Report {
                 .table(table.select(rows).columns("code", "name", "early_season", "first_flagged_week", "flagged_weeks",
                         "consecutive_at_end", "detection_delay_weeks", "timing_change_days", "displaced_events",
                         "displaced_lo90", "displaced_hi90"));
+    }
+
+    /** A fitted space–time model in words (distances in km, time lags in weeks). */
+    static String describe(SpaceTimeModel m) {
+        String nugget = "space–time nugget " + io.densa.report.Numbers.significant(m.nugget(), 3);
+        return switch (m.kind()) {
+            case SEPARABLE -> "separable: " + io.densa.report.Describe.variogram(m.spatial(), "km") + " in space × "
+                    + io.densa.report.Describe.variogram(m.temporal(), "weeks") + " in time, " + nugget;
+            case PRODUCT_SUM -> "product-sum: " + io.densa.report.Describe.variogram(m.spatial(), "km")
+                    + " in space, " + io.densa.report.Describe.variogram(m.temporal(), "weeks") + " in time, k = "
+                    + io.densa.report.Numbers.significant(m.productSumK(), 3) + ", " + nugget;
+            case GNEITING -> "Gneiting class: sill " + io.densa.report.Numbers.significant(m.sill(), 3) + ", " + nugget;
+        };
     }
 
     static int firstAt(List<PeriodReport> reports, int i, int from) {
@@ -322,9 +336,11 @@ final class Study3Report {
         List<String> fits = new ArrayList<>();
         for (SpaceTimeModel.Kind kind : SpaceTimeModel.Kind.values()) {
             try {
-                SpaceTimeFit f = SpaceTimeFitting.fit(empirical, kind, SpaceTimeFitOptions.withDefaults().withMaxEvaluations(600));
-                fits.add(String.format(Locale.ROOT, "%s: weighted criterion %.4g, RMSE %.3g%s", kind, f.criterion(),
-                        f.rmse(), f.atBound().isEmpty() ? "" : " (on a bound: " + String.join(", ", f.atBound()) + ")"));
+                SpaceTimeFit f = SpaceTimeFitting.fit(empirical, kind,
+                        SpaceTimeFitOptions.withDefaults().withMaxEvaluations(600));
+                fits.add(String.format(Locale.ROOT, "%s: weighted criterion %.4g, RMSE %.3g%s",
+                        kind.name().toLowerCase(Locale.ROOT).replace('_', '-'), f.criterion(), f.rmse(),
+                        f.atBound().isEmpty() ? "" : " (on a bound: " + String.join(", ", f.atBound()) + ")"));
                 if (best == null || f.criterion() < best.criterion()) {
                     best = f;
                 }
@@ -414,10 +430,13 @@ final class Study3Report {
                 + "Leave-one-out cross-validation: mean squared B2 error %.4g, against %.4g for the regional mean "
                 + "density and %.4g for carrying each district's density of the week before forward — better at the "
                 + "district sites, because consecutive trailing-year windows share 51 of their 52 weeks; kriging is "
-                + "what gives a density between the sites and for the week to come. Each grid cell inside the region (cells of %.2f "
+                + "what gives a density between the sites and for the week to come. Over six weeks the trailing-year "
+                + "densities hardly change (the temporal part of the fitted model is small against the spatial one), "
+                + "so the prediction for next week is close to a spatial smoothing of the current densities. Each grid cell inside the region (cells of %.2f "
                 + "km) gets the kriged density for week %d, and the map shows its circular mean day — the expected "
                 + "timing of the trailing year's events.", weeks, data.size(), spatial.width(), spatial.maxLag(),
-                String.join("; ", fits), best.model(), Study3.NEIGHBOURS, mse, meanDensity, persistence, cw, last + 1));
+                String.join("; ", fits), describe(best.model()), Study3.NEIGHBOURS, mse, meanDensity, persistence, cw,
+                last + 1));
         report.figure("map_expected_timing.png", Maps.grid(frame, GridValues.of(minX, minY, maxX, maxY2, SIDE, rowsY,
                 values), ColourScale.of(values, "circular mean day of the kriged density", "days from 1 January"),
                 "Expected timing in week " + (last + 1)).withUnitBorders().withFlagged(sc.shifted(),

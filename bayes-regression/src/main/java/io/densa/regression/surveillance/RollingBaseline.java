@@ -104,7 +104,8 @@ public final class RollingBaseline {
         for (int j = 0; j < l; j++) {
             set[j] = j + 1;
         }
-        return new RollingBaseline(set, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, draws, seed, excludeFlagged);
+        return new RollingBaseline(set, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge,
+                draws, seed, excludeFlagged);
     }
 
     /**
@@ -132,7 +133,8 @@ public final class RollingBaseline {
                         + java.util.Arrays.toString(lags));
             }
         }
-        return new RollingBaseline(set, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, draws, seed, excludeFlagged);
+        return new RollingBaseline(set, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge,
+                draws, seed, excludeFlagged);
     }
 
     /**
@@ -154,7 +156,8 @@ public final class RollingBaseline {
         if (!(phi > 0 && phi <= 1)) {
             throw new IllegalArgumentException("forgetting factor must be in (0, 1], got " + phi);
         }
-        return new RollingBaseline(lagSet, phi, 0, calibrationPeriods, fdr, bandLevel, ridge, draws, seed, excludeFlagged);
+        return new RollingBaseline(lagSet, phi, 0, calibrationPeriods, fdr, bandLevel, ridge,
+                draws, seed, excludeFlagged);
     }
 
     /** A moving window of the last w ≥ 1 periods' moments; replaces a forgetting factor. */
@@ -162,7 +165,8 @@ public final class RollingBaseline {
         if (w < 1) {
             throw new IllegalArgumentException("window must be at least 1 period, got " + w);
         }
-        return new RollingBaseline(lagSet, 1, w, calibrationPeriods, fdr, bandLevel, ridge, draws, seed, excludeFlagged);
+        return new RollingBaseline(lagSet, 1, w, calibrationPeriods, fdr, bandLevel, ridge,
+                draws, seed, excludeFlagged);
     }
 
     /** Number C ≥ 1 of recent periods whose out-of-sample residuals calibrate the p-values. */
@@ -178,7 +182,8 @@ public final class RollingBaseline {
         if (!(q > 0 && q < 1)) {
             throw new IllegalArgumentException("FDR must be in (0, 1), got " + q);
         }
-        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, q, bandLevel, ridge, draws, seed, excludeFlagged);
+        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, q, bandLevel, ridge,
+                draws, seed, excludeFlagged);
     }
 
     /** Pointwise band level ∈ (0, 1) of the residual excursions. */
@@ -186,7 +191,8 @@ public final class RollingBaseline {
         if (!(level > 0 && level < 1)) {
             throw new IllegalArgumentException("band level must be in (0, 1), got " + level);
         }
-        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, level, ridge, draws, seed, excludeFlagged);
+        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, level, ridge,
+                draws, seed, excludeFlagged);
     }
 
     /** Relative ridge ρ ≥ 0 (finite). */
@@ -194,7 +200,8 @@ public final class RollingBaseline {
         if (!(rho >= 0) || Double.isInfinite(rho)) {
             throw new IllegalArgumentException("ridge must be finite and >= 0, got " + rho);
         }
-        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, bandLevel, rho, draws, seed, excludeFlagged);
+        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, bandLevel, rho,
+                draws, seed, excludeFlagged);
     }
 
     /** Bootstrap draws (≥ 99) of the excess-count intervals and the seed of all random choices. */
