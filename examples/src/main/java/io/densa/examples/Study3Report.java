@@ -165,15 +165,19 @@ final class Study3Report {
         // densities: two flagged shifted districts, the quiet district with the earliest and one with the latest timing
         int[] pick = pickDistricts(sc, history, tObs);
         List<Chart> charts = new ArrayList<>();
-        for (int i : pick) {
-            charts.add(densityChart(codes[i] + " " + names[i] + (sc.shifted()[i] ? " (early season)" : ""),
-                    observed.get(i), expected.get(i), lastCounts[i]));
+        for (int k = 0; k < pick.length; k++) {
+            int i = pick[k];
+            String role = sc.shifted()[i] ? " (early season)" : k == pick.length - 1 && pick.length == 4
+                    ? " (quiet, latest season)" : " (quiet, earliest season)";
+            charts.add(densityChart(codes[i] + " " + names[i] + role, observed.get(i), expected.get(i),
+                    lastCounts[i]));
         }
         report.figure("fig_densities.png", ChartGrid.of("Trailing-year densities of the day of the year, week " + last,
                 charts, 2).withCellSize(560, 380), "Densities of the day of the year of the events in the 365 days "
                 + "ending with week " + last + " (solid), the baseline's prediction from the same week in the three "
-                + "years before (dashed), and the events per 5-day bin on the density scale (points). The circle of days "
-                + "is drawn unrolled, cut at day 180 (30 June): negative days are the second half of the year before "
+                + "years before (dashed), and the events per 5-day bin on the density scale (points): two districts of "
+                + "the early-season group, and the quiet districts (never flagged) with the earliest and the latest "
+                + "season. The circle of days is drawn unrolled, cut at day 180 (30 June): negative days are the second half of the year before "
                 + "1 January.");
 
         // alert history table and displaced events in the last week
