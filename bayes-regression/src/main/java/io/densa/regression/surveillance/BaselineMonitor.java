@@ -214,16 +214,7 @@ public final class BaselineMonitor {
         for (int t = 0; t < c; t++) {
             cal.add(Arrays.copyOfRange(cr, t * n * k, (t + 1) * n * k));
             calX.add(s.hasX()[t] == 1 ? Arrays.copyOfRange(cx, t * n, (t + 1) * n) : null);
-            int[] kept = Arrays.copyOfRange(ck, t * n, (t + 1) * n);
-            boolean all = true;
-            for (int i = 0; i < n; i++) {
-                if (kept[i] != 0 && kept[i] != 1) {
-                    throw new IllegalArgumentException("monitor state member calibrationKept[" + (t * n + i) + "] is "
-                            + kept[i] + "; 0 or 1 are accepted");
-                }
-                all &= kept[i] == 1;
-            }
-            calKept.add(all ? null : kept);
+            calKept.add(ResidualCalibration.keptFlags(ck, t, n));
         }
         return new BaselineMonitor(config, space, ids, q, s.momentsZZ(), s.momentsZY(), wm, rec,
                 s.recentVariances().length == 0 ? null : s.recentVariances(), cal, calX, calKept, s.history(),
@@ -272,38 +263,6 @@ public final class BaselineMonitor {
         return m;
     }
 
-    /** The calibration residuals and x values of the kept rows only, per calibration period. */
-    private List<double[][]> keptCalibration() {
-        List<double[][]> out = new ArrayList<>(calibration.size());
-        for (int c = 0; c < calibration.size(); c++) {
-            int[] kept = calibrationKept.get(c);
-            double[] r = calibration.get(c);
-            double[] x = calibrationX.get(c);
-            if (kept == null) {
-                out.add(new double[][] {r, x});
-                continue;
-            }
-            int m = Arrays.stream(kept).sum();
-            if (m == 0) {
-                continue;
-            }
-            double[] rr = new double[m * k];
-            double[] xx = x == null ? null : new double[m];
-            int o = 0;
-            for (int i = 0; i < n; i++) {
-                if (kept[i] == 1) {
-                    System.arraycopy(r, i * k, rr, o * k, k);
-                    if (xx != null) {
-                        xx[o] = x[i];
-                    }
-                    o++;
-                }
-            }
-            out.add(new double[][] {rr, xx});
-        }
-        return out;
-    }
-
     /** Each unit's alert history, in unit order. */
     public List<AlertHistory> history() {
         return history;
@@ -340,7 +299,7 @@ public final class BaselineMonitor {
         double[] yhat = predictRowMajor(period);
         double[] r = residual(period, yhat);
         double[] x = xValues(period);
-        List<double[][]> kept = keptCalibration();
+        List<double[][]> kept = ResidualCalibration.kept(calibration, calibrationX, calibrationKept, n, k);
         List<double[]> keptR = new ArrayList<>(kept.size());
         List<double[]> keptX = new ArrayList<>(kept.size());
         for (double[][] c : kept) {

@@ -94,4 +94,59 @@ final class ResidualCalibration {
         }
         return out;
     }
+
+    /**
+     * The calibration residuals and x values of the kept rows only, per calibration period (periods
+     * with no kept row are left out); {@code kept} holds per period 1/0 flags, or null for all kept.
+     */
+    static List<double[][]> kept(List<double[]> calibration, List<double[]> calibrationX, List<int[]> kept, int n,
+            int k) {
+        List<double[][]> out = new java.util.ArrayList<>(calibration.size());
+        for (int c = 0; c < calibration.size(); c++) {
+            int[] flags = kept.get(c);
+            double[] r = calibration.get(c);
+            double[] x = calibrationX.get(c);
+            if (flags == null) {
+                out.add(new double[][] {r, x});
+                continue;
+            }
+            int m = Arrays.stream(flags).sum();
+            if (m == 0) {
+                continue;
+            }
+            double[] rr = new double[m * k];
+            double[] xx = x == null ? null : new double[m];
+            int o = 0;
+            for (int i = 0; i < n; i++) {
+                if (flags[i] == 1) {
+                    System.arraycopy(r, i * k, rr, o * k, k);
+                    if (xx != null) {
+                        xx[o] = x[i];
+                    }
+                    o++;
+                }
+            }
+            out.add(new double[][] {rr, xx});
+        }
+        return out;
+    }
+
+    /**
+     * The kept flags of calibration period t from a saved state (n values from t·n), checked to be 0
+     * or 1; null when all are 1.
+     *
+     * @throws IllegalArgumentException on a value other than 0 or 1, naming its index
+     */
+    static int[] keptFlags(int[] all, int t, int n) {
+        int[] flags = Arrays.copyOfRange(all, t * n, (t + 1) * n);
+        boolean every = true;
+        for (int i = 0; i < n; i++) {
+            if (flags[i] != 0 && flags[i] != 1) {
+                throw new IllegalArgumentException("monitor state member calibrationKept[" + (t * n + i) + "] is "
+                        + flags[i] + "; 0 or 1 are accepted");
+            }
+            every &= flags[i] == 1;
+        }
+        return every ? null : flags;
+    }
 }

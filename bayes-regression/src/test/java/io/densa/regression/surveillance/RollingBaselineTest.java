@@ -448,6 +448,19 @@ class RollingBaselineTest {
             }
         }
         assertTrue(flagsPerPeriod.stream().mapToInt(Integer::intValue).sum() > 0, "some flags are needed");
+        // the state carries the left-out residuals; a restored monitor has the same calibration set
+        MonitorState st = kept.state();
+        assertEquals(kept.calibrationSize(), BaselineMonitor.restore(kept.configuration(), st).calibrationSize());
+        int[] bad = st.calibrationKept();
+        bad[0] = 2;
+        MonitorState broken = new MonitorState(st.space(), st.ids(), st.covariates(), st.momentsZZ(), st.momentsZY(),
+                st.windowCount(), st.windowZZ(), st.windowZY(), st.recent(), st.recentVariances(),
+                st.calibrationCount(), st.calibration(), st.calibrationX(), st.hasX(), bad, st.history(),
+                st.lastPeriod(), st.absorbed());
+        RollingBaseline cfg = kept.configuration();
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+                () -> BaselineMonitor.restore(cfg, broken));
+        assertTrue(e.getMessage().contains("calibrationKept[0] is 2"), e.getMessage());
         assertTrue(keptShiftedFlags >= plainShiftedFlags, keptShiftedFlags + " < " + plainShiftedFlags);
         assertTrue(keptShiftedFlags > 0);
     }
