@@ -10,11 +10,12 @@ import java.util.Locale;
  * Command-line entry point of the examples.
  *
  * <pre>
- * java -jar examples/target/densa-all.jar [study1|study2] [--out DIR] [--seed N] [--size small|medium|full|N]
+ * java -jar examples/target/densa-all.jar [study1|study2|study3] [--out DIR] [--seed N] [--size small|medium|full|N]
  * </pre>
  *
  * <p>study1 (the default) is age-profile surveillance in an invented region; study2 concentration
- * distributions from an invented monitor network. Each writes a report folder (summary.md,
+ * distributions from an invented monitor network; study3 week-by-week surveillance of seasonal
+ * timing (densities on the days of the year) with a persisted baseline and space–time kriging. Each writes a report folder (summary.md,
  * summary.html, CSV, GeoJSON, PNG) through bayes-report and prints progress lines. The folder must
  * be new, empty or hold an earlier Densa report (whose files are replaced); {@code --help} prints
  * the usage on standard output.
@@ -30,11 +31,11 @@ public final class Main {
     /**
      * Parsed command line.
      *
-     * @param study  {@code study1} or {@code study2}
+     * @param study  {@code study1}, {@code study2} or {@code study3}
      * @param out    report folder
      * @param seed   seed of the scenario generator
      * @param size   size name ({@code small}, {@code medium}, {@code full}) or {@code custom}
-     * @param units  number of districts (study 1) or monitors (study 2); 0 for the size's default
+     * @param units  number of districts (studies 1 and 3) or monitors (study 2); 0 for the size's default
      */
     public record Options(String study, Path out, long seed, String size, int units) {
         /** The default seed. */
@@ -50,7 +51,7 @@ public final class Main {
             for (int i = 0; i < args.length; i++) {
                 String a = args[i];
                 switch (a) {
-                    case "study1", "study2" -> study = a;
+                    case "study1", "study2", "study3" -> study = a;
                     case "--out" -> out = Path.of(value(args, ++i, a));
                     case "--seed" -> {
                         String v = value(args, ++i, a);
@@ -117,17 +118,20 @@ public final class Main {
     }
 
     static final String USAGE = """
-            usage: java -jar densa-all.jar [study1|study2] [--out DIR] [--seed N] [--size small|medium|full|N]
+            usage: java -jar densa-all.jar [study1|study2|study3] [--out DIR] [--seed N] [--size small|medium|full|N]
               study1   age-profile surveillance in invented districts (default)
               study2   fine-particle concentration distributions from invented monitors
+              study3   week-by-week surveillance of seasonal timing in invented districts
               --out    report folder (default densa-report-<study>); it is created if missing and must be
                        empty or hold an earlier Densa report, whose files are replaced (other files are
                        never touched)
               --seed   seed of the invented scenario (default 20261201)
               --size   how large the invented scenario is:
-                         small    study1 120 districts; study2 30 monitors, 120 x 120 grid (seconds)
-                         medium   study1 200 districts; study2 50 monitors, 250 x 250 grid
-                         full     study1 300 districts; study2 80 monitors, 500 x 500 grid (default)
+                         small    study1 120 districts; study2 30 monitors, 120 x 120 grid; study3 100
+                                  districts (seconds)
+                         medium   study1 200 districts; study2 50 monitors, 250 x 250 grid; study3 150
+                         full     study1 300 districts; study2 80 monitors, 500 x 500 grid; study3 200
+                                  districts (default)
                          N        N districts or monitors, 12 <= N <= 5000 (study2 grid 500 x 500)
               -h, --help  this text
             """;
@@ -187,8 +191,11 @@ public final class Main {
         System.setProperty("java.awt.headless", "true");
         Report.checkFolder(options.out());
         Progress progress = new Progress(options.study(), log);
-        StudyResult result = options.study().equals("study2") ? Study2.run(options, progress)
-                : Study1.run(options, progress);
+        StudyResult result = switch (options.study()) {
+            case "study2" -> Study2.run(options, progress);
+            case "study3" -> Study3.run(options, progress);
+            default -> Study1.run(options, progress);
+        };
         progress.line("report written to " + options.out().toAbsolutePath().resolve("summary.html"));
         return result;
     }

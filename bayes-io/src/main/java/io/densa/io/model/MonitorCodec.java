@@ -18,10 +18,12 @@ final class MonitorCodec {
         RollingBaseline c = m.configuration();
         MonitorState s = m.state();
         o.begin();
-        o.begin("configuration").integer("lags", c.lags()).real("forgetting", c.forgetting())
+        o.begin("configuration").integer("lags", c.longestLag()).ints("lagSet", c.lagSet())
+                .real("forgetting", c.forgetting())
                 .integer("window", c.window()).integer("calibrationPeriods", c.calibrationPeriods())
                 .real("fdr", c.fdr()).real("bandLevel", c.bandLevel()).real("ridge", c.ridge())
-                .integer("draws", c.draws()).int64("seed", c.seed()).end();
+                .integer("draws", c.draws()).int64("seed", c.seed())
+                .bool("flaggedKeptOutOfCalibration", c.flaggedKeptOutOfCalibration()).end();
         CoreCodecs.space(o, "space", s.space());
         CoreCodecs.ids(o, "ids", Arrays.asList(s.ids()));
         o.integer("covariates", s.covariates());
@@ -29,7 +31,8 @@ final class MonitorCodec {
         o.integer("windowCount", s.windowCount()).doubles("windowZZ", s.windowZZ()).doubles("windowZY", s.windowZY());
         o.doubles("recent", s.recent()).doubles("recentVariances", s.recentVariances());
         o.integer("calibrationCount", s.calibrationCount()).doubles("calibration", s.calibration())
-                .doubles("calibrationX", s.calibrationX()).ints("hasX", s.hasX());
+                .doubles("calibrationX", s.calibrationX()).ints("hasX", s.hasX())
+                .ints("calibrationKept", s.calibrationKept());
         int n = s.history().size();
         int[] first = new int[n];
         int[] last = new int[n];
@@ -52,7 +55,9 @@ final class MonitorCodec {
 
     static BaselineMonitor read(Node p) {
         Node c = p.get("configuration");
-        int lags = c.get("lags").integer(1, 12);
+        Node lagSetNode = c.optional("lagSet");
+        int lags = c.get("lags").integer(1, lagSetNode == null ? 12 : RollingBaseline.MAX_LAG);
+        int[] lagSet = lagSetNode == null ? null : lagSetNode.ints();
         double forgetting = c.get("forgetting").real();
         int window = c.get("window").integer(0, Integer.MAX_VALUE);
         int calibrationPeriods = c.get("calibrationPeriods").integer(1, Integer.MAX_VALUE);
@@ -61,11 +66,18 @@ final class MonitorCodec {
         double ridge = c.get("ridge").real();
         int draws = c.get("draws").integer(99, Integer.MAX_VALUE);
         long seed = c.get("seed").longValue();
+        Node excludeNode = c.optional("flaggedKeptOutOfCalibration");
+        boolean exclude = excludeNode != null && excludeNode.bool();
         RollingBaseline config = Codecs.restoring(c, () -> {
-            RollingBaseline r = RollingBaseline.withDefaults().withLags(lags).withCalibrationPeriods(calibrationPeriods)
+            RollingBaseline r = (lagSet == null ? RollingBaseline.withDefaults().withLags(lags)
+                    : RollingBaseline.withDefaults().withLagSet(lagSet)).withCalibrationPeriods(calibrationPeriods)
                     .withFdr(fdr).withBandLevel(bandLevel).withRidge(ridge).withDraws(draws, seed);
+            r = r.withFlaggedKeptOutOfCalibration(exclude);
             return window > 0 ? r.withWindow(window) : r.withForgetting(forgetting);
         });
+        if (config.longestLag() != lags) {
+            throw c.get("lags").error("is " + lags + " but the longest lag of lagSet is " + config.longestLag());
+        }
         BayesSpace space = CoreCodecs.readSpace(p.get("space"));
         List<Node> idNodes = p.get("ids").list();
         int n = idNodes.size();
@@ -83,12 +95,23 @@ final class MonitorCodec {
         for (int i = 0; i < n; i++) {
             history.add(new AlertHistory(ids[i], first[i], last[i], consecutive[i], flagged[i], excess[i]));
         }
+        int calibrationCount = p.get("calibrationCount").integer(0, Integer.MAX_VALUE);
+        double[] calibrationX = p.get("calibrationX").doubles();
+        Node keptNode = p.optional("calibrationKept");
+        int[] kept;
+        if (keptNode != null) {
+            kept = keptNode.ints();
+        } else {
+            // written before flagged residuals could be left out: every one is used (one flag per x value,
+            // whose count the monitor checks against calibrationCount × n)
+            kept = new int[calibrationX.length];
+            Arrays.fill(kept, 1);
+        }
         MonitorState s = new MonitorState(space, ids, p.get("covariates").integer(0, Integer.MAX_VALUE),
                 p.get("momentsZZ").doubles(), p.get("momentsZY").doubles(),
                 p.get("windowCount").integer(0, Integer.MAX_VALUE), p.get("windowZZ").doubles(),
                 p.get("windowZY").doubles(), p.get("recent").doubles(), p.get("recentVariances").doubles(),
-                p.get("calibrationCount").integer(0, Integer.MAX_VALUE), p.get("calibration").doubles(),
-                p.get("calibrationX").doubles(), p.get("hasX").ints(), history,
+                calibrationCount, p.get("calibration").doubles(), calibrationX, p.get("hasX").ints(), kept, history,
                 p.get("lastPeriod").integer(Integer.MIN_VALUE, Integer.MAX_VALUE),
                 p.get("absorbed").integer(1, Integer.MAX_VALUE));
         return Codecs.restoring(p, () -> BaselineMonitor.restore(config, s));

@@ -1,5 +1,6 @@
 package io.densa.io.model;
 
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -76,7 +77,10 @@ class MonitorModelFileTest {
         List<Period> all = periods(16, 11, true);
         for (RollingBaseline cfg : List.of(RollingBaseline.withDefaults().withDraws(199, 3),
                 RollingBaseline.withDefaults().withWindow(4).withLags(2).withDraws(199, 4),
-                RollingBaseline.withDefaults().withForgetting(0.9).withCalibrationPeriods(3).withDraws(199, 5))) {
+                RollingBaseline.withDefaults().withForgetting(0.9).withCalibrationPeriods(3).withDraws(199, 5),
+                RollingBaseline.withDefaults().withLagSet(4, 1).withCalibrationPeriods(2).withDraws(199, 6),
+                RollingBaseline.withDefaults().withFlaggedKeptOutOfCalibration(true).withCalibrationPeriods(3)
+                        .withDraws(199, 8))) {
             BaselineMonitor m = cfg.fit(all.subList(0, 10)).absorb(all.get(10)).absorb(all.get(11));
             BaselineMonitor back = ModelFile.fromBytes(ModelFile.toBytes(m), BaselineMonitor.class, ModelLimits.defaults(),
                     "test");
@@ -93,6 +97,33 @@ class MonitorModelFileTest {
                 assertEquals(Double.doubleToRawLongBits(a[j]), Double.doubleToRawLongBits(b[j]));
             }
         }
+    }
+
+    /**
+     * A file written before lag sets and left-out calibration residuals existed (no {@code lagSet},
+     * {@code flaggedKeptOutOfCalibration} or {@code calibrationKept} member) reads as lags 1..L with
+     * every calibration residual used, as docs/model-format.md specifies; a {@code lags} that is not
+     * the longest lag of {@code lagSet} is refused.
+     */
+    @Test
+    void lagSetMemberIsOptionalAndChecked() throws Exception {
+        List<Period> all = periods(12, 13, true);
+        BaselineMonitor m = RollingBaseline.withDefaults().withLags(2).withDraws(199, 7).fit(all.subList(0, 10));
+        String payload = new String(HostileModelFileTest.payloadOf(ModelFile.toBytes(m)), StandardCharsets.UTF_8);
+        assertTrue(payload.contains("\"lags\":2,\"lagSet\":{"), payload.substring(0, 200));
+        String old = payload.replaceFirst("\"lagSet\":\\{[^}]*\\},", "")
+                .replaceFirst(",\"flaggedKeptOutOfCalibration\":false", "")
+                .replaceFirst(",\"calibrationKept\":\\{[^}]*\\}", "");
+        assertTrue(!old.contains("lagSet") && !old.contains("Kept"), old.substring(0, 300));
+        BaselineMonitor back = ModelFile.fromBytes(HostileModelFileTest.envelope("baseline-monitor", old),
+                BaselineMonitor.class, ModelLimits.defaults(), "test");
+        assertArrayEquals(new int[] {1, 2}, back.configuration().lagSet());
+        assertSameReport(m.score(all.get(10)), back.score(all.get(10)));
+        String bad = payload.replaceFirst("\"lags\":2,", "\"lags\":3,");
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+                () -> ModelFile.fromBytes(HostileModelFileTest.envelope("baseline-monitor", bad), BaselineMonitor.class,
+                        ModelLimits.defaults(), "test"));
+        assertTrue(e.getMessage().contains("longest lag"), e.getMessage());
     }
 
     /** A re-signed file whose members do not fit together is refused, naming the problem. */

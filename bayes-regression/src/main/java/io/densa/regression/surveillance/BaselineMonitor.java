@@ -31,18 +31,19 @@ public final class BaselineMonitor {
     private final double[] szy; // d × K
     private final List<double[][]> windowMoments; // per absorbed period {szz_t, szy_t}, oldest first (window only)
     private final double[] beta; // d × K coefficients
-    private final List<double[]> recent; // last L periods' coordinates (n × K row-major), most recent first
+    private final List<double[]> recent; // last L periods' coordinates (n × K row-major), most recent first; L the longest lag
     private final double[] recentVariances; // most recent period's estimation variances, or null
     private final List<double[]> calibration; // raw residuals (n × K) of the last C periods, oldest first
     private final List<double[]> calibrationX; // x_i = u_t + u_{t−1} per calibration period, or null entries
+    private final List<int[]> calibrationKept; // per calibration period 1 (kept) / 0 (flagged, left out), or null: all kept
     private final List<AlertHistory> history;
     private final int lastPeriod;
     private final int absorbed;
 
     private BaselineMonitor(RollingBaseline config, BayesSpace space, String[] ids, int q, double[] szz,
             double[] szy, List<double[][]> windowMoments, List<double[]> recent, double[] recentVariances,
-            List<double[]> calibration, List<double[]> calibrationX, List<AlertHistory> history, int lastPeriod,
-            int absorbed) {
+            List<double[]> calibration, List<double[]> calibrationX, List<int[]> calibrationKept,
+            List<AlertHistory> history, int lastPeriod, int absorbed) {
         this.config = config;
         this.space = space;
         this.ids = ids;
@@ -57,6 +58,7 @@ public final class BaselineMonitor {
         this.recentVariances = recentVariances;
         this.calibration = List.copyOf(calibration);
         this.calibrationX = calibrationX;
+        this.calibrationKept = calibrationKept;
         this.history = List.copyOf(history);
         this.lastPeriod = lastPeriod;
         this.absorbed = absorbed;
@@ -74,23 +76,24 @@ public final class BaselineMonitor {
         int q = first.covariateCount();
         List<double[]> recent = new ArrayList<>();
         int lags = config.lags;
-        for (int t = 0; t < lags; t++) {
+        int start = config.longest;
+        for (int t = 0; t < start; t++) {
             recent.add(0, past.get(t).densities().coordinatesRowMajor());
         }
         int d = 1 + lags * space.dimension() + q;
         BaselineMonitor m = new BaselineMonitor(config, space, ids, q, new double[d * d],
-                new double[d * space.dimension()], List.of(), recent, past.get(lags - 1).estimationVariances(),
-                List.of(), new ArrayList<>(), quietHistory(ids), past.get(lags - 1).index(), 0);
+                new double[d * space.dimension()], List.of(), recent, past.get(start - 1).estimationVariances(),
+                List.of(), new ArrayList<>(), new ArrayList<>(), quietHistory(ids), past.get(start - 1).index(), 0);
         int training = past.size() - config.calibrationPeriods;
-        for (int t = lags; t < past.size(); t++) {
+        for (int t = start; t < past.size(); t++) {
             Period p = past.get(t);
             m.check(p);
-            m = m.next(p, t >= training, false);
+            m = m.next(p, t >= training, false, null);
         }
-        if ((long) n * (training - lags) < d) {
+        if ((long) n * (training - start) < d) {
             throw new IllegalArgumentException("the baseline has " + d + " coefficients per coordinate (intercept, "
                     + lags + " × " + space.dimension() + " lag coordinates, " + q + " covariates) but only "
-                    + (long) n * (training - lags) + " training rows; give more past periods or fewer lags");
+                    + (long) n * (training - start) + " training rows; give more past periods or fewer lags");
         }
         return m;
     }
@@ -120,7 +123,12 @@ public final class BaselineMonitor {
         double[] cal = new double[c * n * k];
         double[] calX = new double[c * n];
         int[] hasX = new int[c];
+        int[] kept = new int[c * n];
+        java.util.Arrays.fill(kept, 1);
         for (int t = 0; t < c; t++) {
+            if (calibrationKept.get(t) != null) {
+                System.arraycopy(calibrationKept.get(t), 0, kept, t * n, n);
+            }
             System.arraycopy(calibration.get(t), 0, cal, t * n * k, n * k);
             if (calibrationX.get(t) != null) {
                 hasX[t] = 1;
@@ -128,8 +136,8 @@ public final class BaselineMonitor {
             }
         }
         return new MonitorState(space, ids, q, szz, szy, w, wzz, wzy, rec,
-                recentVariances == null ? new double[0] : recentVariances, c, cal, calX, hasX, history, lastPeriod,
-                absorbed);
+                recentVariances == null ? new double[0] : recentVariances, c, cal, calX, hasX, kept, history,
+                lastPeriod, absorbed);
     }
 
     /**
@@ -161,7 +169,7 @@ public final class BaselineMonitor {
         }
         requireLength("windowZZ", s.windowZZ(), (long) w * d * d);
         requireLength("windowZY", s.windowZY(), (long) w * d * k);
-        requireLength("recent", s.recent(), (long) config.lags * n * k);
+        requireLength("recent", s.recent(), (long) config.longest * n * k);
         if (s.recentVariances().length != 0) {
             requireLength("recentVariances", s.recentVariances(), n);
         }
@@ -190,20 +198,27 @@ public final class BaselineMonitor {
         }
         List<double[]> rec = new ArrayList<>();
         double[] r = s.recent();
-        for (int l = 0; l < config.lags; l++) {
+        for (int l = 0; l < config.longest; l++) {
             rec.add(Arrays.copyOfRange(r, l * n * k, (l + 1) * n * k));
         }
         List<double[]> cal = new ArrayList<>();
         List<double[]> calX = new ArrayList<>();
+        List<int[]> calKept = new ArrayList<>();
         double[] cr = s.calibration();
         double[] cx = s.calibrationX();
+        int[] ck = s.calibrationKept();
+        if (ck.length != c * n) {
+            throw new IllegalArgumentException("monitor state member calibrationKept has " + ck.length
+                    + " values, expected " + (long) c * n);
+        }
         for (int t = 0; t < c; t++) {
             cal.add(Arrays.copyOfRange(cr, t * n * k, (t + 1) * n * k));
             calX.add(s.hasX()[t] == 1 ? Arrays.copyOfRange(cx, t * n, (t + 1) * n) : null);
+            calKept.add(ResidualCalibration.keptFlags(ck, t, n));
         }
         return new BaselineMonitor(config, space, ids, q, s.momentsZZ(), s.momentsZY(), wm, rec,
-                s.recentVariances().length == 0 ? null : s.recentVariances(), cal, calX, s.history(), s.lastPeriod(),
-                s.absorbed());
+                s.recentVariances().length == 0 ? null : s.recentVariances(), cal, calX, calKept, s.history(),
+                s.lastPeriod(), s.absorbed());
     }
 
     private static void requireLength(String what, double[] a, long expected) {
@@ -239,9 +254,13 @@ public final class BaselineMonitor {
         return absorbed;
     }
 
-    /** Number of calibration residuals (units × calibration periods). */
+    /** Number of calibration residuals (units × calibration periods, less the flagged ones left out). */
     public int calibrationSize() {
-        return calibration.size() * n;
+        int m = 0;
+        for (int[] kept : calibrationKept) {
+            m += kept == null ? n : Arrays.stream(kept).sum();
+        }
+        return m;
     }
 
     /** Each unit's alert history, in unit order. */
@@ -250,7 +269,8 @@ public final class BaselineMonitor {
     }
 
     /**
-     * Coefficients B (d × K row-major: intercept, then lag 1's K rows, …, then the covariates),
+     * Coefficients B (d × K row-major: intercept, then the K rows of each lag of the lag set in
+     * ascending order, then the covariates),
      * a fresh copy.
      */
     public double[] coefficients() {
@@ -279,13 +299,24 @@ public final class BaselineMonitor {
         double[] yhat = predictRowMajor(period);
         double[] r = residual(period, yhat);
         double[] x = xValues(period);
-        double[] ab = ResidualCalibration.varianceLine(calibration, calibrationX, n, k);
+        List<double[][]> kept = ResidualCalibration.kept(calibration, calibrationX, calibrationKept, n, k);
+        List<double[]> keptR = new ArrayList<>(kept.size());
+        List<double[]> keptX = new ArrayList<>(kept.size());
+        for (double[][] c : kept) {
+            keptR.add(c[0]);
+            keptX.add(c[1]);
+        }
+        double[] ab = ResidualCalibration.varianceLine(keptR, keptX, k);
         DensitySet cal = null;
-        for (int c = 0; c < calibration.size(); c++) {
-            DensitySet s = ResidualCalibration.standardised(space, calibration.get(c), calibrationX.get(c), ab, n, k, null);
+        for (int c = 0; c < kept.size(); c++) {
+            DensitySet s = ResidualCalibration.standardised(space, keptR.get(c), keptX.get(c), ab, k, null);
             cal = cal == null ? s : cal.concat(s);
         }
-        DensitySet current = ResidualCalibration.standardised(space, r, x, ab, n, k, idsOrNull());
+        if (cal == null) {
+            throw new IllegalStateException("every unit was flagged in every calibration period, so no calibration "
+                    + "residual is left; monitor with withFlaggedKeptOutOfCalibration(false) or more calibration periods");
+        }
+        DensitySet current = ResidualCalibration.standardised(space, r, x, ab, k, idsOrNull());
         double[] grid = new double[101];
         for (int g = 0; g < grid.length; g++) {
             grid[g] = space.lower() + (space.upper() - space.lower()) * (g + 0.5) / grid.length;
@@ -299,7 +330,7 @@ public final class BaselineMonitor {
             double[] edges = period.binEdges();
             excess = ExcessCounts.withDefaults().withDraws(config.draws, Seeds.mix(config.seed, 2L * period.index() + 1))
                     .estimate(expected, period.counts(), edges, new double[] {edges[0], edges[edges.length - 1]},
-                            ExcessCounts.BaselineError.common(ResidualCalibration.covariance(space, calibration, n, k)));
+                            ExcessCounts.BaselineError.common(ResidualCalibration.covariance(space, keptR, k)));
         }
         return new PeriodReport(period.index(), expected, current, scores, excess);
     }
@@ -314,15 +345,46 @@ public final class BaselineMonitor {
      */
     public BaselineMonitor absorb(Period period) {
         check(period);
-        return next(period, true, true);
+        return next(period, true, true, null);
     }
 
-    private BaselineMonitor next(Period period, boolean calibrate, boolean recordHistory) {
+    /**
+     * What one week (or period) of prospective monitoring gives: the report of the period, scored
+     * before it was absorbed, and the monitor after absorbing it.
+     *
+     * @param report the period's report, as {@link #score} gives it (null before a calibration set
+     *               exists)
+     * @param next   the monitor after absorbing the period, as {@link #absorb} gives it
+     */
+    public record Step(PeriodReport report, BaselineMonitor next) {
+    }
+
+    /**
+     * Scores the period and absorbs it in one pass: the report equals {@link #score}'s and the
+     * monitor equals {@link #absorb}'s (both bit for bit), but the period is scored once instead of
+     * twice. This monitor is not changed.
+     *
+     * @throws IllegalArgumentException when the period does not match (see {@link #predict})
+     */
+    public Step step(Period period) {
+        check(period);
+        PeriodReport rep = calibration.isEmpty() ? null : score(period);
+        return new Step(rep, next(period, true, true, rep));
+    }
+
+    private BaselineMonitor next(Period period, boolean calibrate, boolean recordHistory, PeriodReport scored) {
         List<AlertHistory> h = history;
         double[] expected = null;
+        int[] keptNow = null;
         if (recordHistory && !calibration.isEmpty()) {
-            PeriodReport rep = score(period);
+            PeriodReport rep = scored != null ? scored : score(period);
             expected = rep.expected().coordinatesRowMajor();
+            if (config.excludeFlagged && rep.scores().flaggedCount() > 0) {
+                keptNow = new int[n];
+                for (int i = 0; i < n; i++) {
+                    keptNow[i] = rep.flagged(i) ? 0 : 1;
+                }
+            }
             h = new ArrayList<>(n);
             for (int i = 0; i < n; i++) {
                 h.add(history.get(i).next(period.index(), rep.flagged(i), rep.overallExcess(i)));
@@ -330,12 +392,15 @@ public final class BaselineMonitor {
         }
         List<double[]> cal = new ArrayList<>(calibration);
         List<double[]> calX = new ArrayList<>(calibrationX);
+        List<int[]> calKept = new ArrayList<>(calibrationKept);
         if (calibrate) {
             cal.add(residual(period, expected != null ? expected : predictRowMajor(period)));
             calX.add(xValues(period));
+            calKept.add(keptNow);
             while (cal.size() > config.calibrationPeriods) {
                 cal.remove(0);
                 calX.remove(0);
+                calKept.remove(0);
             }
         }
         // the period's moments
@@ -380,11 +445,11 @@ public final class BaselineMonitor {
         }
         List<double[]> rec = new ArrayList<>(recent);
         rec.add(0, y);
-        while (rec.size() > config.lags) {
+        while (rec.size() > config.longest) {
             rec.remove(rec.size() - 1);
         }
         return new BaselineMonitor(config, space, ids, q, nzz, nzy, wm, rec, period.estimationVariances(), cal, calX,
-                h, period.index(), absorbed + 1);
+                calKept, h, period.index(), absorbed + 1);
     }
 
     /** Raw residual coordinates y − ŷ (n × K row-major). */
@@ -444,8 +509,8 @@ public final class BaselineMonitor {
     private void regressors(Period p, int i, double[] z) {
         z[0] = 1;
         int o = 1;
-        for (double[] lag : recent) {
-            System.arraycopy(lag, i * k, z, o, k);
+        for (int l : config.lagSet) {
+            System.arraycopy(recent.get(l - 1), i * k, z, o, k);
             o += k;
         }
         for (int j = 0; j < q; j++) {

@@ -12,10 +12,10 @@ final class ResidualCalibration {
     }
 
     /**
-     * (a, b) ≥ 0 minimising Σ (‖r‖² − a x − b)² over the calibration residuals, or null when a
-     * calibration period lacks estimation variances.
+     * (a, b) ≥ 0 minimising Σ (‖r‖² − a x − b)² over the calibration residuals (rows × K per period,
+     * the rows a period keeps), or null when a calibration period lacks estimation variances.
      */
-    static double[] varianceLine(List<double[]> calibration, List<double[]> calibrationX, int n, int k) {
+    static double[] varianceLine(List<double[]> calibration, List<double[]> calibrationX, int k) {
         double sw = 0;
         double sx = 0;
         double sxx = 0;
@@ -27,6 +27,7 @@ final class ResidualCalibration {
                 return null;
             }
             double[] r = calibration.get(c);
+            int n = r.length / k;
             for (int i = 0; i < n; i++) {
                 double s = 0;
                 for (int j = 0; j < k; j++) {
@@ -49,15 +50,15 @@ final class ResidualCalibration {
             b = 0;
             a = sxx > 0 ? sxy / sxx : 0;
         }
-        if (!(a * (sx / sw) + b > 0)) {
+        if (!(sw > 0) || !(a * (sx / sw) + b > 0)) {
             return null;
         }
         return new double[] {a, b};
     }
 
     /** Residual rows powered by 1/√(a x_i + b) (unchanged without the line). */
-    static DensitySet standardised(BayesSpace space, double[] r, double[] x, double[] ab, int n, int k,
-            String[] rowIds) {
+    static DensitySet standardised(BayesSpace space, double[] r, double[] x, double[] ab, int k, String[] rowIds) {
+        int n = r.length / k;
         double[] s = r.clone();
         if (ab != null && x != null) {
             double floor = 1e-12 * (ab[1] + ab[0] * Arrays.stream(x).average().orElse(0));
@@ -72,14 +73,19 @@ final class ResidualCalibration {
     }
 
     /** Covariance (K × K, divisor m − 1, {@link DensitySet#covariance()}) of the raw calibration residuals. */
-    static double[][] covariance(BayesSpace space, List<double[]> calibration, int n, int k) {
-        int m = calibration.size() * n;
+    static double[][] covariance(BayesSpace space, List<double[]> calibration, int k) {
+        int m = 0;
+        for (double[] r : calibration) {
+            m += r.length / k;
+        }
         if (m < 2) {
             return new double[k][k];
         }
         double[] all = new double[m * k];
-        for (int c = 0; c < calibration.size(); c++) {
-            System.arraycopy(calibration.get(c), 0, all, c * n * k, n * k);
+        int o = 0;
+        for (double[] r : calibration) {
+            System.arraycopy(r, 0, all, o, r.length);
+            o += r.length;
         }
         DMatrixRMaj cov = DensitySet.ofRowMajor(space, all, m, null).covariance();
         double[][] out = new double[k][];
@@ -87,5 +93,60 @@ final class ResidualCalibration {
             out[a] = Arrays.copyOfRange(cov.data, a * k, (a + 1) * k);
         }
         return out;
+    }
+
+    /**
+     * The calibration residuals and x values of the kept rows only, per calibration period (periods
+     * with no kept row are left out); {@code kept} holds per period 1/0 flags, or null for all kept.
+     */
+    static List<double[][]> kept(List<double[]> calibration, List<double[]> calibrationX, List<int[]> kept, int n,
+            int k) {
+        List<double[][]> out = new java.util.ArrayList<>(calibration.size());
+        for (int c = 0; c < calibration.size(); c++) {
+            int[] flags = kept.get(c);
+            double[] r = calibration.get(c);
+            double[] x = calibrationX.get(c);
+            if (flags == null) {
+                out.add(new double[][] {r, x});
+                continue;
+            }
+            int m = Arrays.stream(flags).sum();
+            if (m == 0) {
+                continue;
+            }
+            double[] rr = new double[m * k];
+            double[] xx = x == null ? null : new double[m];
+            int o = 0;
+            for (int i = 0; i < n; i++) {
+                if (flags[i] == 1) {
+                    System.arraycopy(r, i * k, rr, o * k, k);
+                    if (xx != null) {
+                        xx[o] = x[i];
+                    }
+                    o++;
+                }
+            }
+            out.add(new double[][] {rr, xx});
+        }
+        return out;
+    }
+
+    /**
+     * The kept flags of calibration period t from a saved state (n values from t·n), checked to be 0
+     * or 1; null when all are 1.
+     *
+     * @throws IllegalArgumentException on a value other than 0 or 1, naming its index
+     */
+    static int[] keptFlags(int[] all, int t, int n) {
+        int[] flags = Arrays.copyOfRange(all, t * n, (t + 1) * n);
+        boolean every = true;
+        for (int i = 0; i < n; i++) {
+            if (flags[i] != 0 && flags[i] != 1) {
+                throw new IllegalArgumentException("monitor state member calibrationKept[" + (t * n + i) + "] is "
+                        + flags[i] + "; 0 or 1 are accepted");
+            }
+            every &= flags[i] == 1;
+        }
+        return every ? null : flags;
     }
 }

@@ -41,6 +41,13 @@ import java.util.Objects;
  * also holds the current period's estimation noise, so the intervals are on the wide side; see
  * {@link ExcessCounts}).
  *
+ * <h2>Seasonal lags</h2>
+ * The lags need not be 1..L: {@link #withLagSet} takes any set of up to 12 lags, each at most
+ * {@value #MAX_LAG} periods, for example {52} for weekly periods predicted from the same week a year
+ * earlier, or {1, 52}. The regressors are then z = (1, y_{t−l_1}, …, y_{t−l_m}, u) for the lags
+ * l_1 &lt; … &lt; l_m of the set, so d = 1 + m K + q, and the monitor keeps the densities of the last
+ * l_m periods to form them (the first l_m past periods only start the lags).
+ *
  * <p>Defaults: 1 lag, no forgetting (φ = 1, every period weighs the same), 4 calibration periods,
  * FDR 0.05, 95 % pointwise bands, ridge 10⁻⁸, 999 bootstrap draws, seed 1. Immutable.
  *
@@ -48,7 +55,14 @@ import java.util.Objects;
  * responsible public-health authorities.
  */
 public final class RollingBaseline {
+    /** The longest lag a lag set may hold (ten years of weeks). */
+    public static final int MAX_LAG = 520;
+    /** The lags l_1 &lt; … &lt; l_m, ascending. */
+    final int[] lagSet;
+    /** Number m of lagged densities among the regressors. */
     final int lags;
+    /** Longest lag l_m: periods of densities the monitor keeps. */
+    final int longest;
     final double forgetting;
     final int window;
     final int calibrationPeriods;
@@ -57,10 +71,14 @@ public final class RollingBaseline {
     final double ridge;
     final int draws;
     final long seed;
+    /** Whether a unit's residual leaves the calibration set in a period in which it was flagged. */
+    final boolean excludeFlagged;
 
-    private RollingBaseline(int lags, double forgetting, int window, int calibrationPeriods, double fdr,
-            double bandLevel, double ridge, int draws, long seed) {
-        this.lags = lags;
+    private RollingBaseline(int[] lagSet, double forgetting, int window, int calibrationPeriods, double fdr,
+            double bandLevel, double ridge, int draws, long seed, boolean excludeFlagged) {
+        this.lagSet = lagSet;
+        this.lags = lagSet.length;
+        this.longest = lagSet[lagSet.length - 1];
         this.forgetting = forgetting;
         this.window = window;
         this.calibrationPeriods = calibrationPeriods;
@@ -69,19 +87,68 @@ public final class RollingBaseline {
         this.ridge = ridge;
         this.draws = draws;
         this.seed = seed;
+        this.excludeFlagged = excludeFlagged;
     }
 
     /** The defaults described above. */
     public static RollingBaseline withDefaults() {
-        return new RollingBaseline(1, 1, 0, 4, 0.05, 0.95, 1e-8, 999, 1);
+        return new RollingBaseline(new int[] {1}, 1, 0, 4, 0.05, 0.95, 1e-8, 999, 1, false);
     }
 
-    /** Number of previous periods L ≥ 1 whose densities predict the next. */
+    /** Number of previous periods L ≥ 1 whose densities predict the next: the lags 1..L (L ≤ 12). */
     public RollingBaseline withLags(int l) {
         if (l < 1 || l > 12) {
             throw new IllegalArgumentException("lags must be in [1, 12], got " + l);
         }
-        return new RollingBaseline(l, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, draws, seed);
+        int[] set = new int[l];
+        for (int j = 0; j < l; j++) {
+            set[j] = j + 1;
+        }
+        return new RollingBaseline(set, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge,
+                draws, seed, excludeFlagged);
+    }
+
+    /**
+     * The lags whose densities predict the next period, in any order (see "Seasonal lags" above):
+     * for weekly periods {@code withLagSet(52)} predicts a week from the same week a year earlier.
+     * Replaces {@link #withLags}. The array is not modified.
+     *
+     * @param lags 1 to 12 distinct lags, each in [1, {@value #MAX_LAG}]
+     * @throws IllegalArgumentException for no lags, more than 12, a repeated lag or one out of range
+     */
+    public RollingBaseline withLagSet(int... lags) {
+        java.util.Objects.requireNonNull(lags, "lags");
+        if (lags.length < 1 || lags.length > 12) {
+            throw new IllegalArgumentException("a lag set needs 1 to 12 lags, got " + lags.length);
+        }
+        int[] set = lags.clone();
+        java.util.Arrays.sort(set);
+        for (int j = 0; j < set.length; j++) {
+            if (set[j] < 1 || set[j] > MAX_LAG) {
+                throw new IllegalArgumentException("lag " + set[j] + " is out of range; lags must be in [1, " + MAX_LAG
+                        + "]");
+            }
+            if (j > 0 && set[j] == set[j - 1]) {
+                throw new IllegalArgumentException("lag " + set[j] + " appears twice in the lag set "
+                        + java.util.Arrays.toString(lags));
+            }
+        }
+        return new RollingBaseline(set, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge,
+                draws, seed, excludeFlagged);
+    }
+
+    /**
+     * Whether the residual of a unit flagged in a period is kept out of the calibration set when the
+     * period is absorbed (default false: every unit's residual enters it). A change that lasts
+     * (an early season, a trend) otherwise enters the calibration set with the flagged units' own
+     * large residuals, which raises the conformal p-values of the units still changing and masks them
+     * after a few periods; keeping flagged residuals out follows the common practice of leaving
+     * past outbreaks out of a surveillance baseline. The units' densities still enter the
+     * regression moments.
+     */
+    public RollingBaseline withFlaggedKeptOutOfCalibration(boolean exclude) {
+        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, draws, seed,
+                exclude);
     }
 
     /** Forgetting factor φ ∈ (0, 1] (1: none); replaces a window. */
@@ -89,7 +156,8 @@ public final class RollingBaseline {
         if (!(phi > 0 && phi <= 1)) {
             throw new IllegalArgumentException("forgetting factor must be in (0, 1], got " + phi);
         }
-        return new RollingBaseline(lags, phi, 0, calibrationPeriods, fdr, bandLevel, ridge, draws, seed);
+        return new RollingBaseline(lagSet, phi, 0, calibrationPeriods, fdr, bandLevel, ridge,
+                draws, seed, excludeFlagged);
     }
 
     /** A moving window of the last w ≥ 1 periods' moments; replaces a forgetting factor. */
@@ -97,7 +165,8 @@ public final class RollingBaseline {
         if (w < 1) {
             throw new IllegalArgumentException("window must be at least 1 period, got " + w);
         }
-        return new RollingBaseline(lags, 1, w, calibrationPeriods, fdr, bandLevel, ridge, draws, seed);
+        return new RollingBaseline(lagSet, 1, w, calibrationPeriods, fdr, bandLevel, ridge,
+                draws, seed, excludeFlagged);
     }
 
     /** Number C ≥ 1 of recent periods whose out-of-sample residuals calibrate the p-values. */
@@ -105,7 +174,7 @@ public final class RollingBaseline {
         if (c < 1) {
             throw new IllegalArgumentException("calibration periods must be at least 1, got " + c);
         }
-        return new RollingBaseline(lags, forgetting, window, c, fdr, bandLevel, ridge, draws, seed);
+        return new RollingBaseline(lagSet, forgetting, window, c, fdr, bandLevel, ridge, draws, seed, excludeFlagged);
     }
 
     /** False discovery rate q ∈ (0, 1). */
@@ -113,7 +182,8 @@ public final class RollingBaseline {
         if (!(q > 0 && q < 1)) {
             throw new IllegalArgumentException("FDR must be in (0, 1), got " + q);
         }
-        return new RollingBaseline(lags, forgetting, window, calibrationPeriods, q, bandLevel, ridge, draws, seed);
+        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, q, bandLevel, ridge,
+                draws, seed, excludeFlagged);
     }
 
     /** Pointwise band level ∈ (0, 1) of the residual excursions. */
@@ -121,7 +191,8 @@ public final class RollingBaseline {
         if (!(level > 0 && level < 1)) {
             throw new IllegalArgumentException("band level must be in (0, 1), got " + level);
         }
-        return new RollingBaseline(lags, forgetting, window, calibrationPeriods, fdr, level, ridge, draws, seed);
+        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, level, ridge,
+                draws, seed, excludeFlagged);
     }
 
     /** Relative ridge ρ ≥ 0 (finite). */
@@ -129,7 +200,8 @@ public final class RollingBaseline {
         if (!(rho >= 0) || Double.isInfinite(rho)) {
             throw new IllegalArgumentException("ridge must be finite and >= 0, got " + rho);
         }
-        return new RollingBaseline(lags, forgetting, window, calibrationPeriods, fdr, bandLevel, rho, draws, seed);
+        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, bandLevel, rho,
+                draws, seed, excludeFlagged);
     }
 
     /** Bootstrap draws (≥ 99) of the excess-count intervals and the seed of all random choices. */
@@ -137,13 +209,28 @@ public final class RollingBaseline {
         if (count < 99) {
             throw new IllegalArgumentException("at least 99 bootstrap draws are needed, got " + count);
         }
-        return new RollingBaseline(lags, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, count,
-                randomSeed);
+        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, count,
+                randomSeed, excludeFlagged);
     }
 
-    /** Lags L. */
+    /** Number of lagged densities among the regressors (L for {@link #withLags}(L)). */
     public int lags() {
         return lags;
+    }
+
+    /** The lags, ascending (a fresh copy; {1, …, L} for {@link #withLags}(L)). */
+    public int[] lagSet() {
+        return lagSet.clone();
+    }
+
+    /** The longest lag: how many past periods' densities the monitor keeps. */
+    public int longestLag() {
+        return longest;
+    }
+
+    /** Whether the lags are 1..L without gaps (what {@link #withLags} gives). */
+    public boolean consecutiveLags() {
+        return longest == lags;
     }
 
     /** Forgetting factor φ (1 with a window). */
@@ -186,21 +273,26 @@ public final class RollingBaseline {
         return seed;
     }
 
+    /** Whether flagged units' residuals are kept out of the calibration set. */
+    public boolean flaggedKeptOutOfCalibration() {
+        return excludeFlagged;
+    }
+
     /**
-     * Fits the baseline on past periods, oldest first: the first L periods start the lags, the
+     * Fits the baseline on past periods, oldest first: the first L periods (L the longest lag) start the lags, the
      * following ones up to the last C are absorbed as training periods, and the last C periods are
      * absorbed one by one after their out-of-sample residuals have been computed, so that they form
      * the first calibration set. No alert history is kept for past periods.
      *
-     * @param past at least L + C + 1 consecutive periods of the same units (increasing indices)
+     * @param past at least L + C + 1 consecutive periods (L the longest lag) of the same units (increasing indices)
      * @throws IllegalArgumentException when there are too few periods or too few training rows for
      *                                  the coefficients, or the periods do not match (naming the period)
      */
     public BaselineMonitor fit(List<Period> past) {
         Objects.requireNonNull(past, "past");
-        if (past.size() < lags + calibrationPeriods + 1) {
-            throw new IllegalArgumentException("the baseline needs at least " + (lags + calibrationPeriods + 1)
-                    + " past periods (" + lags + " lags, 1 training and " + calibrationPeriods
+        if (past.size() < longest + calibrationPeriods + 1) {
+            throw new IllegalArgumentException("the baseline needs at least " + (longest + calibrationPeriods + 1)
+                    + " past periods (" + longest + " to start the lags, 1 training and " + calibrationPeriods
                     + " calibration periods), got " + past.size());
         }
         return BaselineMonitor.fit(this, past);
@@ -208,8 +300,10 @@ public final class RollingBaseline {
 
     @Override
     public String toString() {
-        return "RollingBaseline[lags " + lags + (window > 0 ? ", window " + window : ", forgetting " + forgetting)
+        return "RollingBaseline[lags " + (consecutiveLags() ? String.valueOf(lags) : java.util.Arrays.toString(lagSet))
+                + (window > 0 ? ", window " + window : ", forgetting " + forgetting)
                 + ", calibration periods " + calibrationPeriods + ", FDR " + fdr + ", band level " + bandLevel
-                + ", ridge " + ridge + ", draws " + draws + ", seed " + seed + "]";
+                + ", ridge " + ridge + ", draws " + draws + ", seed " + seed
+                + (excludeFlagged ? ", flagged residuals kept out of calibration" : "") + "]";
     }
 }

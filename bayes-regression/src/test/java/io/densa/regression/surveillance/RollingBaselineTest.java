@@ -243,4 +243,225 @@ class RollingBaselineTest {
         assertTrue(e.getMessage().contains("covariates"), e.getMessage());
         assertThrows(IllegalArgumentException.class, () -> RollingBaseline.withDefaults().fit(p.periods().subList(0, 4)));
     }
+
+    /**
+     * Invented seasonal panel: y_t = b0 + A y_{t−S} + g u (+ noise) for t ≥ S, the first S periods
+     * drawn freely; with noise 0 the relation is exact.
+     */
+    static Panel seasonalPanel(int periods, int season, double noise, long seed) {
+        Random r = new Random(seed);
+        double[][] a = {{0.6, 0.1, 0}, {0, -0.5, 0.2}, {0.1, 0, 0.4}};
+        double[] b0 = {0.2, -0.1, 0.3};
+        double[] g = {-0.4, 0.3, 0.1};
+        double[][] u = new double[UNITS][1];
+        for (double[] row : u) {
+            row[0] = r.nextGaussian();
+        }
+        String[] ids = new String[UNITS];
+        Arrays.setAll(ids, i -> "unit" + i);
+        List<Period> out = new ArrayList<>();
+        double[][] all = new double[periods][];
+        for (int t = 0; t < periods; t++) {
+            double[][] y = new double[UNITS][K];
+            for (int i = 0; i < UNITS; i++) {
+                for (int j = 0; j < K; j++) {
+                    double v;
+                    if (t < season) {
+                        v = r.nextGaussian();
+                    } else {
+                        v = b0[j] + g[j] * u[i][0] + noise * r.nextGaussian();
+                        for (int m = 0; m < K; m++) {
+                            v += a[j][m] * all[t - season][i * K + m];
+                        }
+                    }
+                    y[i][j] = v;
+                }
+            }
+            out.add(new Period(t, DensitySet.of(SPACE, y, ids), u, null, null, null));
+            all[t] = Arrays.stream(y).flatMapToDouble(Arrays::stream).toArray();
+        }
+        return new Panel(out, all);
+    }
+
+    /**
+     * A seasonal lag set {S}: with an exact relation y_t = b0 + A y_{t−S} + g u the coefficients are
+     * recovered exactly and the next period is predicted exactly (closed form: the generating
+     * coefficients); with noise they equal ordinary least squares on the rows (y_t; 1, y_{t−S}, u)
+     * by Commons Math's OLSMultipleLinearRegression, also after absorbing more periods.
+     */
+    @Test
+    void seasonalLagRecoversTheGeneratingModel() {
+        int season = 6;
+        Panel exact = seasonalPanel(20, season, 0, 11);
+        BaselineMonitor m = RollingBaseline.withDefaults().withLagSet(season).withRidge(0).withCalibrationPeriods(2)
+                .fit(exact.periods().subList(0, 16));
+        double[] expected = {0.2, -0.1, 0.3, 0.6, 0, 0.1, 0.1, -0.5, 0, 0, 0.2, 0.4, -0.4, 0.3, 0.1};
+        assertArrayEquals(expected, m.coefficients(), 1e-9);
+        assertArrayEquals(exact.y()[16], m.predict(exact.periods().get(16)).coordinatesRowMajor(), 1e-9);
+        assertEquals(season, m.configuration().longestLag());
+        assertArrayEquals(new int[] {season}, m.configuration().lagSet());
+
+        Panel noisy = seasonalPanel(24, season, 0.3, 12);
+        BaselineMonitor n = RollingBaseline.withDefaults().withLagSet(season).withRidge(0).fit(noisy.periods()
+                .subList(0, 20));
+        assertArrayEquals(seasonalOls(noisy, season, 20), n.coefficients(), 1e-10);
+        n = n.absorb(noisy.periods().get(20)).absorb(noisy.periods().get(21));
+        assertArrayEquals(seasonalOls(noisy, season, 22), n.coefficients(), 1e-10);
+    }
+
+    /** OLS of y_t on (1, y_{t−1}, y_{t−S}, u) for a lag set {1, S} (Commons Math) equals the monitor's moments. */
+    @Test
+    void lagSetWithAGapEqualsLeastSquares() {
+        int season = 5;
+        Panel p = seasonalPanel(18, season, 0.4, 13);
+        BaselineMonitor m = RollingBaseline.withDefaults().withLagSet(season, 1).withRidge(0).fit(p.periods());
+        int rows = (18 - season) * UNITS;
+        int d = 1 + 2 * K + 1;
+        double[][] x = new double[rows][d];
+        double[] beta = new double[d * K];
+        for (int c = 0; c < K; c++) {
+            double[] yy = new double[rows];
+            int row = 0;
+            for (int t = season; t < 18; t++) {
+                for (int i = 0; i < UNITS; i++) {
+                    x[row][0] = 1;
+                    for (int q = 0; q < K; q++) {
+                        x[row][1 + q] = p.y()[t - 1][i * K + q];
+                        x[row][1 + K + q] = p.y()[t - season][i * K + q];
+                    }
+                    x[row][1 + 2 * K] = p.periods().get(t).covariates()[i][0];
+                    yy[row++] = p.y()[t][i * K + c];
+                }
+            }
+            OLSMultipleLinearRegression ols = new OLSMultipleLinearRegression();
+            ols.setNoIntercept(true);
+            ols.newSampleData(yy, x);
+            double[] b = ols.estimateRegressionParameters();
+            for (int j = 0; j < d; j++) {
+                beta[j * K + c] = b[j];
+            }
+        }
+        assertArrayEquals(beta, m.coefficients(), 1e-10);
+        assertEquals(2, m.configuration().lags());
+    }
+
+    /** Lag sets out of range, repeated or empty are refused; too few past periods for the longest lag too. */
+    @Test
+    void badLagSetsAreRefused() {
+        assertThrows(IllegalArgumentException.class, () -> RollingBaseline.withDefaults().withLagSet());
+        assertThrows(IllegalArgumentException.class, () -> RollingBaseline.withDefaults().withLagSet(0));
+        assertThrows(IllegalArgumentException.class,
+                () -> RollingBaseline.withDefaults().withLagSet(RollingBaseline.MAX_LAG + 1));
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+                () -> RollingBaseline.withDefaults().withLagSet(52, 1, 52));
+        assertTrue(e.getMessage().contains("twice"), e.getMessage());
+        Panel p = seasonalPanel(10, 3, 0.3, 14);
+        e = assertThrows(IllegalArgumentException.class,
+                () -> RollingBaseline.withDefaults().withLagSet(8).fit(p.periods()));
+        assertTrue(e.getMessage().contains("at least 13"), e.getMessage());
+    }
+
+    /** Weighted least squares of y_t on (1, y_{t−S}, u) over t = S..to−1 (Commons Math OLS). */
+    static double[] seasonalOls(Panel p, int season, int to) {
+        int rows = (to - season) * UNITS;
+        int d = 1 + K + 1;
+        double[][] x = new double[rows][d];
+        double[] beta = new double[d * K];
+        for (int c = 0; c < K; c++) {
+            double[] yy = new double[rows];
+            int row = 0;
+            for (int t = season; t < to; t++) {
+                for (int i = 0; i < UNITS; i++) {
+                    x[row][0] = 1;
+                    for (int q = 0; q < K; q++) {
+                        x[row][1 + q] = p.y()[t - season][i * K + q];
+                    }
+                    x[row][1 + K] = p.periods().get(t).covariates()[i][0];
+                    yy[row++] = p.y()[t][i * K + c];
+                }
+            }
+            OLSMultipleLinearRegression ols = new OLSMultipleLinearRegression();
+            ols.setNoIntercept(true);
+            ols.newSampleData(yy, x);
+            double[] b = ols.estimateRegressionParameters();
+            for (int j = 0; j < d; j++) {
+                beta[j * K + c] = b[j];
+            }
+        }
+        return beta;
+    }
+
+    /** step gives score's report and absorb's monitor, bit for bit, over several periods. */
+    @Test
+    void stepEqualsScoreThenAbsorb() {
+        Panel p = panel(20, 0.3, 15, 14, 4, 2.5);
+        BaselineMonitor a = RollingBaseline.withDefaults().withCalibrationPeriods(6).fit(p.periods().subList(0, 12));
+        BaselineMonitor b = a;
+        int flags = 0;
+        for (int t = 12; t < 20; t++) {
+            PeriodReport r = a.score(p.periods().get(t));
+            a = a.absorb(p.periods().get(t));
+            BaselineMonitor.Step s = b.step(p.periods().get(t));
+            b = s.next();
+            for (int i = 0; i < UNITS; i++) {
+                assertEquals(r.scores().units().get(i).pValue(), s.report().scores().units().get(i).pValue(), 0);
+                assertEquals(r.flagged(i), s.report().flagged(i));
+                flags += r.flagged(i) ? 1 : 0;
+            }
+            assertArrayEquals(a.coefficients(), b.coefficients(), 0);
+            assertEquals(a.history(), b.history());
+        }
+        assertTrue(flags > 0, "the comparison must include flagged units");
+    }
+
+    /**
+     * Flagged residuals kept out of the calibration set: the set shrinks by exactly the flags of the
+     * periods it holds, and a lasting shift keeps being flagged at least as often as when every
+     * residual enters the set (where the shifted units' own residuals mask them).
+     */
+    @Test
+    void flaggedResidualsKeptOutOfCalibration() {
+        Panel p = panel(30, 0.3, 16, 16, 6, 1.5);
+        RollingBaseline base = RollingBaseline.withDefaults().withCalibrationPeriods(6);
+        BaselineMonitor plain = base.fit(p.periods().subList(0, 12));
+        BaselineMonitor kept = base.withFlaggedKeptOutOfCalibration(true).fit(p.periods().subList(0, 12));
+        assertTrue(kept.configuration().flaggedKeptOutOfCalibration());
+        List<Integer> flagsPerPeriod = new ArrayList<>();
+        int plainShiftedFlags = 0;
+        int keptShiftedFlags = 0;
+        for (int t = 12; t < 30; t++) {
+            BaselineMonitor.Step a = plain.step(p.periods().get(t));
+            BaselineMonitor.Step b = kept.step(p.periods().get(t));
+            plain = a.next();
+            kept = b.next();
+            flagsPerPeriod.add(b.report().scores().flaggedCount());
+            int window = Math.min(6, flagsPerPeriod.size());
+            int left = 0;
+            for (int j = flagsPerPeriod.size() - window; j < flagsPerPeriod.size(); j++) {
+                left += flagsPerPeriod.get(j);
+            }
+            assertEquals(6 * UNITS - left, kept.calibrationSize(), "period " + t);
+            assertEquals(6 * UNITS, plain.calibrationSize());
+            for (int i = 0; i < 6; i++) {
+                plainShiftedFlags += a.report().flagged(i) ? 1 : 0;
+                keptShiftedFlags += b.report().flagged(i) ? 1 : 0;
+            }
+        }
+        assertTrue(flagsPerPeriod.stream().mapToInt(Integer::intValue).sum() > 0, "some flags are needed");
+        // the state carries the left-out residuals; a restored monitor has the same calibration set
+        MonitorState st = kept.state();
+        assertEquals(kept.calibrationSize(), BaselineMonitor.restore(kept.configuration(), st).calibrationSize());
+        int[] bad = st.calibrationKept();
+        bad[0] = 2;
+        MonitorState broken = new MonitorState(st.space(), st.ids(), st.covariates(), st.momentsZZ(), st.momentsZY(),
+                st.windowCount(), st.windowZZ(), st.windowZY(), st.recent(), st.recentVariances(),
+                st.calibrationCount(), st.calibration(), st.calibrationX(), st.hasX(), bad, st.history(),
+                st.lastPeriod(), st.absorbed());
+        RollingBaseline cfg = kept.configuration();
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+                () -> BaselineMonitor.restore(cfg, broken));
+        assertTrue(e.getMessage().contains("calibrationKept[0] is 2"), e.getMessage());
+        assertTrue(keptShiftedFlags >= plainShiftedFlags, keptShiftedFlags + " < " + plainShiftedFlags);
+        assertTrue(keptShiftedFlags > 0);
+    }
 }

@@ -1,0 +1,54 @@
+package io.densa.examples;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/**
+ * Runs study 3 end to end at its small size with the default seed and checks the report folder
+ * (as {@link StudiesTest} does for the other studies) and the monitor against the injected truth:
+ * the early season must be detected in most shifted districts, and false alerts must stay rare.
+ * The bounds are our own acceptance bounds for the demo, not published values.
+ */
+class Study3Test {
+    /** Lowest share of the shifted districts that must be flagged at or after the onset. */
+    static final double DETECTED_SHARE = 0.6;
+    /** Longest acceptable median detection delay, in weeks. */
+    static final double MEDIAN_DELAY_WEEKS = 8;
+    /**
+     * Highest acceptable rate of false alerts per unit-year: with FDR 0.05 per week and 52 weeks a
+     * year, a monitor that flagged each non-shifted district independently at the FDR level would
+     * raise 2.6 per unit-year; we ask for 25 times fewer.
+     */
+    static final double FALSE_ALERTS_PER_UNIT_YEAR = 0.1;
+
+    @Test
+    void study3DetectsTheInjectedEarlySeason(@TempDir Path dir) throws IOException {
+        StudyResult r = StudiesTest.run(dir, "study3");
+        StudiesTest.checkFolder(r);
+        assertEquals(List.of(), r.missing(), "every step ran");
+        double shifted = r.metrics().get("shifted");
+        double detected = r.metrics().get("detected");
+        assertTrue(shifted >= 3, "the scenario must shift a group of districts: " + r.metrics());
+        assertEquals(shifted, detected + r.metrics().get("missed"), 0, "every shifted district is counted once");
+        assertTrue(detected >= DETECTED_SHARE * shifted, "detected " + detected + " of " + shifted + ": " + r.metrics());
+        assertTrue(r.metrics().get("medianDelayWeeks") <= MEDIAN_DELAY_WEEKS, "median delay: " + r.metrics());
+        assertTrue(r.metrics().get("falseAlertsPerUnitYear") < FALSE_ALERTS_PER_UNIT_YEAR,
+                "false alerts per unit-year: " + r.metrics());
+        // space–time kriging predicts held-out district-weeks better than the regional mean density
+        assertTrue(r.metrics().get("spaceTimeLooMse") < r.metrics().get("meanDensityMse"), "kriging: " + r.metrics());
+        assertTrue(r.metrics().get("krigingCells") > 500, "grid prediction missing: " + r.metrics());
+        String md = Files.readString(r.folder().resolve("summary.md"));
+        assertTrue(md.contains("bit-identical"), "the persisted baseline must read back identically");
+        for (String png : new String[] {"fig_densities.png", "fig_alerts_per_week.png", "map_alerts.png",
+            "map_timing_change.png", "map_expected_timing.png"}) {
+            assertTrue(r.files().contains(png), png + " missing: " + r.files());
+        }
+    }
+}
