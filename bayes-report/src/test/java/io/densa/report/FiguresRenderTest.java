@@ -211,6 +211,30 @@ class FiguresRenderTest {
     }
 
     @Test
+    void countAxesTickAtWholeNumbersOnly() {
+        // counts of 0..3 on a tall axis: a linear axis would tick at halves (0.5, 1.5, ...); a count axis must not
+        for (boolean count : new boolean[] {true, false}) {
+            Axis y = count ? Axis.count("districts flagged", "") : Axis.linear("districts flagged", "");
+            Chart chart = Chart.of("Counts", Axis.count("week", "weeks"), y)
+                    .line("flags", new double[] {1, 2, 3, 4}, new double[] {0, 3, 1, 2});
+            ValueAxis axis = ((XYPlot) chart.toJFreeChart().getPlot()).getRangeAxis();
+            BufferedImage img = new BufferedImage(10, 10, BufferedImage.TYPE_INT_RGB);
+            Graphics2D g = img.createGraphics();
+            @SuppressWarnings("unchecked")
+            List<NumberTick> ticks = axis.refreshTicks(g, new AxisState(), new Rectangle2D.Double(0, 0, 800, 600),
+                    RectangleEdge.LEFT);
+            g.dispose();
+            boolean fractional = false;
+            for (NumberTick t : ticks) {
+                if (!t.getText().isEmpty()) { // labelled ticks (minor ticks carry no label)
+                    fractional |= t.getValue() != Math.rint(t.getValue());
+                }
+            }
+            assertEquals(!count, fractional, (count ? "count" : "linear") + " axis ticks " + ticks);
+        }
+    }
+
+    @Test
     void logAxesAreLabelledInTheOriginalUnit() {
         Chart chart = Chart.of("Logged", Axis.loggedData("daily mean", "µg/m³"), Axis.linear("density", ""))
                 .line("curve", new double[] {Math.log(1.5), Math.log(150)}, new double[] {0, 1});

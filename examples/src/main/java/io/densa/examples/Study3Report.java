@@ -128,8 +128,8 @@ final class Study3Report {
             ys[w] = flaggedShifted[w];
             yo[w] = flaggedOther[w];
         }
-        report.figure("fig_alerts_per_week.png", Chart.of("Districts flagged per week", Axis.linear("week of the "
-                + "record", "weeks"), Axis.linear("districts flagged", "")).yFromZero()
+        report.figure("fig_alerts_per_week.png", Chart.of("Districts flagged per week", Axis.count("week of the "
+                + "record", "weeks"), Axis.count("districts flagged", "")).yFromZero()
                 .with(new Chart.Series("districts of the early-season group", wx, ys, Chart.Style.LINE, Palette.BRICK))
                 .with(new Chart.Series("other districts (false alerts)", wx, yo, Chart.Style.DASHED, Palette.INK))
                 .verticalLine("onset of the early season", onsetWeek), "Districts flagged at FDR " + Study3.FDR

@@ -16,6 +16,8 @@ public record Axis(String quantity, String unit, Scale scale) {
     public enum Scale {
         /** Linear in the values given. */
         LINEAR,
+        /** Linear, for whole numbers (counts of districts, events, weeks): ticks at whole numbers only. */
+        COUNT,
         /** The values given are positive amounts, placed on a logarithmic scale. */
         LOG,
         /**
@@ -37,6 +39,11 @@ public record Axis(String quantity, String unit, Scale scale) {
         return new Axis(quantity, unit, Scale.LINEAR);
     }
 
+    /** A linear axis for whole numbers (counts), ticked at whole numbers only. */
+    public static Axis count(String quantity, String unit) {
+        return new Axis(quantity, unit, Scale.COUNT);
+    }
+
     /** A logarithmic axis for positive amounts given as they are. */
     public static Axis log(String quantity, String unit) {
         return new Axis(quantity, unit, Scale.LOG);
@@ -50,7 +57,7 @@ public record Axis(String quantity, String unit, Scale scale) {
     /** "quantity (unit)", with "log scale" added for the logarithmic scales. */
     public String title() {
         String u = unit;
-        if (scale != Scale.LINEAR) {
+        if (logarithmic()) {
             u = u.isEmpty() ? "log scale" : u + ", log scale";
         }
         return u.isEmpty() ? quantity : quantity + " (" + u + ")";
@@ -58,7 +65,7 @@ public record Axis(String quantity, String unit, Scale scale) {
 
     /** Whether ticks are placed at logarithms of round amounts. */
     boolean logarithmic() {
-        return scale != Scale.LINEAR;
+        return scale == Scale.LOG || scale == Scale.LOGGED_DATA;
     }
 
     /** Position on the drawn axis of a value given in this axis's convention (NaN if it cannot be drawn). */

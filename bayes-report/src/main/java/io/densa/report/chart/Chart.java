@@ -245,7 +245,8 @@ public final class Chart implements Figure {
 
     private static NumberAxis axis(Axis a) {
         NumberAxis axis = a.logarithmic() ? new RoundLogAxis(a.title()) : new NumberAxis(a.title());
-        axis.setStandardTickUnits(NumberAxis.createStandardTickUnits(Locale.ROOT));
+        axis.setStandardTickUnits(a.scale() == Axis.Scale.COUNT ? NumberAxis.createIntegerTickUnits(Locale.ROOT)
+                : NumberAxis.createStandardTickUnits(Locale.ROOT));
         axis.setAutoRangeIncludesZero(false);
         axis.setLabelFont(AXIS);
         axis.setTickLabelFont(TICKS);

@@ -47,7 +47,7 @@ public final class Figures {
      */
     public static Axis densityAxis(Axis x) {
         String unit = switch (x.scale()) {
-            case LINEAR -> x.unit().isEmpty() ? "" : "per " + singular(x.unit());
+            case LINEAR, COUNT -> x.unit().isEmpty() ? "" : "per " + singular(x.unit());
             case LOG, LOGGED_DATA -> "per unit of ln(" + (x.unit().isEmpty() ? x.quantity() : x.unit()) + ")";
         };
         return Axis.linear("density", unit);
