@@ -22,10 +22,12 @@ public final class SpaceTimeFitOptions {
     private final double spatialShape;
     private final double temporalShape;
     private final int maxEvaluations;
+    private final boolean spatialNugget;
 
     private SpaceTimeFitOptions(VariogramFitOptions.Method method, VariogramModel.Family spatialFamily,
             VariogramModel.Family temporalFamily, double spatialSmoothness, double temporalSmoothness,
-            double spatialShape, double temporalShape, int maxEvaluations) {
+            double spatialShape, double temporalShape, int maxEvaluations, boolean spatialNugget) {
+        this.spatialNugget = spatialNugget;
         this.method = method;
         this.spatialFamily = spatialFamily;
         this.temporalFamily = temporalFamily;
@@ -39,14 +41,33 @@ public final class SpaceTimeFitOptions {
     /** The defaults described above. */
     public static SpaceTimeFitOptions withDefaults() {
         return new SpaceTimeFitOptions(VariogramFitOptions.Method.WEIGHTED_CRESSIE, VariogramModel.Family.EXPONENTIAL,
-                VariogramModel.Family.EXPONENTIAL, Double.NaN, Double.NaN, 0.5, 0.5, 4000);
+                VariogramModel.Family.EXPONENTIAL, Double.NaN, Double.NaN, 0.5, 0.5, 4000, false);
+    }
+
+    /**
+     * Whether the separable and product-sum fits add a nugget to the spatial margin (default off):
+     * γ_s(h) = n_s + structured for h &gt; 0, a jump between distinct locations that persists in
+     * time, as when each unit (a district, a monitor) carries an effect of its own that lasts from
+     * period to period. The space–time nugget c0 is noise at (0, 0) only; without n_s a fit to
+     * such data must put the jump into c0, and then γ(0, u) = c0 + … overstates how much a unit
+     * changes from one period to the next, so that space–time kriging underuses a unit's own other
+     * periods. The Gneiting class has no separate spatial margin and ignores the flag.
+     */
+    public SpaceTimeFitOptions withSpatialNugget(boolean fit) {
+        return new SpaceTimeFitOptions(method, spatialFamily, temporalFamily, spatialSmoothness, temporalSmoothness,
+                spatialShape, temporalShape, maxEvaluations, fit);
+    }
+
+    /** Whether the spatial margin gets a nugget of its own (see {@link #withSpatialNugget}). */
+    public boolean spatialNugget() {
+        return spatialNugget;
     }
 
     /** The criterion (Cressie's weighted or ordinary least squares). */
     public SpaceTimeFitOptions withMethod(VariogramFitOptions.Method m) {
         Objects.requireNonNull(m, "method");
         return new SpaceTimeFitOptions(m, spatialFamily, temporalFamily, spatialSmoothness, temporalSmoothness,
-                spatialShape, temporalShape, maxEvaluations);
+                spatialShape, temporalShape, maxEvaluations, spatialNugget);
     }
 
     private static void family(VariogramModel.Family f, double nu, String what) {
@@ -69,14 +90,14 @@ public final class SpaceTimeFitOptions {
     public SpaceTimeFitOptions withSpatialFamily(VariogramModel.Family f, double smoothness) {
         family(f, smoothness, "spatial");
         return new SpaceTimeFitOptions(method, f, temporalFamily, smoothness, temporalSmoothness, spatialShape,
-                temporalShape, maxEvaluations);
+                temporalShape, maxEvaluations, spatialNugget);
     }
 
     /** The temporal family and its Matérn smoothness, as {@link #withSpatialFamily}. */
     public SpaceTimeFitOptions withTemporalFamily(VariogramModel.Family f, double smoothness) {
         family(f, smoothness, "temporal");
         return new SpaceTimeFitOptions(method, spatialFamily, f, spatialSmoothness, smoothness, spatialShape,
-                temporalShape, maxEvaluations);
+                temporalShape, maxEvaluations, spatialNugget);
     }
 
     /**
@@ -92,7 +113,7 @@ public final class SpaceTimeFitOptions {
             throw new IllegalArgumentException("temporal shape alpha must be in (0, 1], got " + alpha);
         }
         return new SpaceTimeFitOptions(method, spatialFamily, temporalFamily, spatialSmoothness, temporalSmoothness,
-                gamma, alpha, maxEvaluations);
+                gamma, alpha, maxEvaluations, spatialNugget);
     }
 
     /**
@@ -105,7 +126,7 @@ public final class SpaceTimeFitOptions {
             throw new IllegalArgumentException("evaluation budget must be at least 100, got " + count);
         }
         return new SpaceTimeFitOptions(method, spatialFamily, temporalFamily, spatialSmoothness, temporalSmoothness,
-                spatialShape, temporalShape, count);
+                spatialShape, temporalShape, count, spatialNugget);
     }
 
     /** The criterion. */
@@ -151,6 +172,7 @@ public final class SpaceTimeFitOptions {
     @Override
     public String toString() {
         return "SpaceTimeFitOptions[" + method + ", spatial " + spatialFamily + ", temporal " + temporalFamily
-                + ", gamma " + spatialShape + ", alpha " + temporalShape + ", maxEvaluations " + maxEvaluations + "]";
+                + ", gamma " + spatialShape + ", alpha " + temporalShape + ", maxEvaluations " + maxEvaluations
+                + (spatialNugget ? ", spatial nugget" : "") + "]";
     }
 }

@@ -37,7 +37,9 @@ import org.apache.commons.math3.optim.nonlinear.scalar.noderiv.BOBYQAOptimizer;
  * <li>Gneiting: σ², the spatial and temporal practical ranges and β ∈ [0, 1] (shapes fixed by the
  *     options).</li>
  * </ul>
- * The optimiser works on ln(sill / max γ̂), ln(range / largest mean lag) on that axis, c0 / max γ̂
+ * With {@link SpaceTimeFitOptions#withSpatialNugget} the separable and product-sum fits add the
+ * spatial margin's nugget n_s ∈ [0, 2 max γ̂] (named "spatial nugget"; in the product-sum model
+ * k_max uses the spatial sill including it). The optimiser works on ln(sill / max γ̂), ln(range / largest mean lag) on that axis, c0 / max γ̂
  * and the unit-free β and k / k_max. Bounds: sills in [10⁻⁶, 10] max γ̂, ranges in [10⁻³, 10] ×
  * the largest mean lag of the axis, nugget in [0, 2 max γ̂]. Parameters that end on a bound are
  * named in {@link SpaceTimeFit#atBound()}.
@@ -134,9 +136,11 @@ public final class SpaceTimeFitting {
         final double g;
         final double h;
         final double u;
-        final String[] names;
-        final double[] lo;
-        final double[] hi;
+        String[] names;
+        double[] lo;
+        double[] hi;
+        /** Whether the last parameter is the spatial margin's nugget (separable and product-sum only). */
+        final boolean spatialNugget;
         double[] bestX;
         double bestValue;
         int evaluations;
@@ -166,6 +170,24 @@ public final class SpaceTimeFitting {
                     lo = new double[] {ls0, lr0, lr0, 0, 0};
                     hi = new double[] {ls1, lr1, lr1, 1, 2};
             }
+            spatialNugget = opt.spatialNugget() && kind != SpaceTimeModel.Kind.GNEITING;
+            if (spatialNugget) {
+                names = append(names, "spatial nugget");
+                lo = append(lo, 0);
+                hi = append(hi, 2);
+            }
+        }
+
+        private static String[] append(String[] a, String v) {
+            String[] out = java.util.Arrays.copyOf(a, a.length + 1);
+            out[a.length] = v;
+            return out;
+        }
+
+        private static double[] append(double[] a, double v) {
+            double[] out = java.util.Arrays.copyOf(a, a.length + 1);
+            out[a.length] = v;
+            return out;
         }
 
         double[] start(double sill, double rs, double rt, double nug) {
@@ -182,6 +204,11 @@ public final class SpaceTimeFitting {
                 default:
                     x = new double[] {Math.log(sill / g), Math.log(rs / h), Math.log(rt / u), 0.5, nug / g};
             }
+            if (spatialNugget) {
+                // the starting nugget split evenly between the space–time and the spatial nugget
+                x[x.length - 1] = 0.5 * nug / g;
+                x = append(x, 0.5 * nug / g);
+            }
             for (int i = 0; i < x.length; i++) {
                 x[i] = Math.min(hi[i], Math.max(lo[i], x[i]));
             }
@@ -190,6 +217,12 @@ public final class SpaceTimeFitting {
 
         /** The parameters in model units. */
         double[] parameters(double[] x) {
+            double[] q = structured(x);
+            return spatialNugget ? append(q, g * x[x.length - 1]) : q;
+        }
+
+        /** The parameters of the family itself (without the spatial nugget). */
+        private double[] structured(double[] x) {
             switch (kind) {
                 case SEPARABLE:
                     return new double[] {g * Math.exp(x[0]), h * Math.exp(x[1]), u * Math.exp(x[2]), g * x[3]};
@@ -202,15 +235,17 @@ public final class SpaceTimeFitting {
         }
 
         SpaceTimeModel model(double[] x) {
-            double[] q = parameters(x);
+            double[] q = structured(x);
+            double ns = spatialNugget ? g * x[x.length - 1] : 0;
             switch (kind) {
                 case SEPARABLE:
-                    return SpaceTimeModel.separable(marginal(opt.spatialFamily(), q[0], q[1], opt.spatialSmoothness()),
-                            marginal(opt.temporalFamily(), 1, q[2], opt.temporalSmoothness()), q[3]);
+                    return SpaceTimeModel.separable(marginal(opt.spatialFamily(), q[0], q[1], opt.spatialSmoothness())
+                            .withNugget(ns), marginal(opt.temporalFamily(), 1, q[2], opt.temporalSmoothness()), q[3]);
                 case PRODUCT_SUM: {
-                    double k = q[4] * SpaceTimeModel.maxProductSumK(q[0], q[2]);
-                    return SpaceTimeModel.productSum(marginal(opt.spatialFamily(), q[0], q[1], opt.spatialSmoothness()),
-                            marginal(opt.temporalFamily(), q[2], q[3], opt.temporalSmoothness()), k, q[5]);
+                    double k = q[4] * SpaceTimeModel.maxProductSumK(q[0] + ns, q[2]);
+                    return SpaceTimeModel.productSum(marginal(opt.spatialFamily(), q[0], q[1], opt.spatialSmoothness())
+                            .withNugget(ns), marginal(opt.temporalFamily(), q[2], q[3], opt.temporalSmoothness()), k,
+                            q[5]);
                 }
                 default:
                     return SpaceTimeModel.gneiting(q[0], q[1], q[2], q[3], opt.spatialShape(), opt.temporalShape(),
