@@ -9,7 +9,9 @@ import static org.apache.spark.sql.functions.sum;
 
 import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.estimate.EstimationDiagnostics;
+import io.densa.core.BayesSpace;
 import io.densa.io.Bins;
+import io.densa.io.CircularValues;
 import java.io.Serializable;
 import java.util.ArrayList;
 import java.util.Iterator;
@@ -37,7 +39,10 @@ import org.apache.spark.storage.StorageLevel;
  * <ol>
  * <li>Each input row is checked (a null unit id, a value outside the bin layout, a negative or
  * non-finite count or weight, a bin outside [0, D) fail the job with a message naming the unit)
- * and events are binned ({@link Bins#indexOf}: e_j ≤ x &lt; e_{j+1}, the last bin closed).</li>
+ * and events are binned ({@link Bins#indexOf}: e_j ≤ x &lt; e_{j+1}, the last bin closed). On a periodic
+ * space every finite value is first reduced modulo the period into [e_0, e_0 + P)
+ * ({@link CircularValues#binOf}), so a value is never outside the layout there and a bin that wraps
+ * around the cut point receives values from both sides of it; NaN and ±∞ still fail.</li>
  * <li>A Spark aggregation sums counts per (unit, period, bin) — a unit with 10⁸ events becomes at
  * most D numbers before any unit is fitted, so a skewed unit cannot sink a task — and then gathers
  * each unit's D totals into one row.</li>
@@ -156,7 +161,9 @@ public final class SparkDensities implements Serializable {
         boolean weighted = weight != null;
         Dataset<Row> rows = raw.mapPartitions((MapPartitionsFunction<Row, Row>) it -> {
             Bins bins = bs.value().layout();
-            return map(it, r -> binEvent(r, bins, weighted));
+            BayesSpace space = bs.value().estimator().space();
+            double circle = space.isPeriodic() ? space.period() : 0;
+            return map(it, r -> binEvent(r, bins, circle, weighted));
         }, Encoders.row(binned));
         Dataset<Row> counts = weighted
                 ? rows.groupBy("unit", "period", "bin").agg(sum("weight").as("count"))
@@ -199,7 +206,8 @@ public final class SparkDensities implements Serializable {
         return "unit '" + unit + "'" + (period == null ? "" : " (period '" + period + "')");
     }
 
-    private static Row binEvent(Row r, Bins bins, boolean weighted) {
+    /** circle: the period on a periodic space (values are wrapped onto the circle), 0 on a bounded one. */
+    private static Row binEvent(Row r, Bins bins, double circle, boolean weighted) {
         String u = r.isNullAt(0) ? null : r.getString(0);
         String p = r.isNullAt(1) ? null : r.getString(1);
         Double v = r.isNullAt(2) ? null : r.getDouble(2);
@@ -211,7 +219,11 @@ public final class SparkDensities implements Serializable {
             throw new IllegalArgumentException(where(u, p) + ": an event has a null value; values must be finite and"
                     + " inside the bin layout [" + bins.lower() + ", " + bins.upper() + "]");
         }
-        int j = bins.indexOf(v);
+        if (circle > 0 && !Double.isFinite(v)) {
+            throw new IllegalArgumentException(where(u, p) + ": value " + v + " cannot be placed on the circle of"
+                    + " period " + circle + "; values must be finite (any finite value is taken modulo the period)");
+        }
+        int j = circle > 0 ? CircularValues.binOf(bins, v, circle) : bins.indexOf(v);
         if (j < 0 || j >= bins.count()) {
             throw new IllegalArgumentException(where(u, p) + ": value " + v + " lies outside the bin layout ["
                     + bins.lower() + ", " + bins.upper() + "]; values must be finite and inside it");

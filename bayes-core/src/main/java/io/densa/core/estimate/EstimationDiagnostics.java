@@ -69,7 +69,14 @@ import org.ejml.data.DMatrixRMaj;
  *                                  without events. (The plain share of ‖f‖²_B over empty bins does
  *                                  not single such units out: on a simulated network it was
  *                                  0.45–0.65 for ordinary units whose normal tails had no events and
- *                                  0.6–0.85 for units whose clr dived to −70.) See
+ *                                  0.6–0.85 for units whose clr dived to −70.) On a periodic
+ *                                  space the bins span the whole circle, so nothing lies beyond
+ *                                  them, and the two regions become one: the arc the data leave
+ *                                  out, i.e. the longest circular run of bins without events (by
+ *                                  reference mass), or the largest gap between circularly
+ *                                  consecutive observations (taken modulo the period) for samples;
+ *                                  shorter runs and gaps lie between events and do not count. It
+ *                                  does not depend on where the bins start. See
  *                                  {@link #extrapolated()}
  */
 public record EstimationDiagnostics(String id, Status status, String reason, double smoothing,

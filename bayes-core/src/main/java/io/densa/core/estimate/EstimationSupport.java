@@ -329,22 +329,8 @@ final class EstimationSupport {
         }
         int nq = domain.nodes;
         double[] eta = new double[nq];
-        double sw = 0, se = 0;
-        for (int q = 0; q < nq; q++) {
-            eta[q] = eta(domain, q, beta);
-            sw += domain.weight[q];
-            se += domain.weight[q] * eta[q];
-        }
-        double m = se / sw;
-        double max = Double.NEGATIVE_INFINITY;
-        for (int q = 0; q < nq; q++) {
-            max = Math.max(max, eta[q]);
-        }
-        double z = 0;
-        for (int q = 0; q < nq; q++) {
-            z += domain.weight[q] * Math.exp(eta[q] - max);
-        }
-        double logZ = max - m + Math.log(z); // log ∫ e^{clr} dP
+        double[] ml = centreAndLogZ(domain, beta, eta);
+        double m = ml[0], logZ = ml[1];
         double lo = bins.edges[0], hi = bins.edges[bins.edges.length - 1];
         double deep = 0;
         for (int side = 0; side < 2; side++) {
@@ -375,6 +361,108 @@ final class EstimationSupport {
                     if (d > 0) {
                         deep += domain.weight[q] * d * d;
                     }
+                }
+            }
+        }
+        return Math.max(0.0, Math.min(1.0, deep / normSq));
+    }
+
+    /**
+     * The P-mean m of φ·β over the domain and log Z = log ∫ e^{clr} dP (log-sum-exp), with η = φ·β at the
+     * domain layout's nodes written into eta; returns {m, log Z}.
+     */
+    private static double[] centreAndLogZ(BinLayout domain, double[] beta, double[] eta) {
+        int nq = domain.nodes;
+        double sw = 0, se = 0;
+        for (int q = 0; q < nq; q++) {
+            eta[q] = eta(domain, q, beta);
+            sw += domain.weight[q];
+            se += domain.weight[q] * eta[q];
+        }
+        double m = se / sw;
+        double max = Double.NEGATIVE_INFINITY;
+        for (int q = 0; q < nq; q++) {
+            max = Math.max(max, eta[q]);
+        }
+        double z = 0;
+        for (int q = 0; q < nq; q++) {
+            z += domain.weight[q] * Math.exp(eta[q] - max);
+        }
+        return new double[] {m, max - m + Math.log(z)}; // log ∫ e^{clr} dP
+    }
+
+    /**
+     * The extrapolation share on a circle, whose bins span the whole period: there is nothing beyond
+     * the bins, and the region beyond the data is the one arc the events leave out — the complement of
+     * the smallest arc that holds every event (the circular range of Mardia &amp; Jupp (2000),
+     * Directional Statistics, Wiley, from memory). Over the bins that is the longest circular run of
+     * bins without events, by reference mass (the first such run from the first bin with events on a
+     * tie); its detection level and share are those of {@link #extrapolationShare} with this single
+     * region E. Other runs of empty bins lie between events and are interpolated, as on an interval.
+     * 0 when every bin has events, or for the reference density; 1 (for ‖c‖ &gt; 0) when no bin has
+     * any.
+     *
+     * @param domain layout of the circle (one bin)
+     * @param bins   layout of the bins, spanning one period
+     * @param counts count (or weight) per bin
+     */
+    static double circularExtrapolationShare(BinLayout domain, BinLayout bins, double[] counts, double[] beta,
+            double normSq, double total) {
+        if (!(normSq > 0)) {
+            return 0.0;
+        }
+        int d = bins.bins;
+        int start = -1;
+        for (int j = 0; j < d && start < 0; j++) {
+            if (counts[j] > 0) {
+                start = j;
+            }
+        }
+        if (start < 0) {
+            return 1.0;
+        }
+        double[] mass = new double[d];
+        for (int j = 0; j < d; j++) {
+            for (int q = bins.binStart[j]; q < bins.binStart[j + 1]; q++) {
+                mass[j] += bins.weight[q];
+            }
+        }
+        int bestFrom = -1, bestLength = 0;
+        double bestMass = 0;
+        int from = -1, length = 0;
+        double run = 0;
+        for (int s = 1; s <= d; s++) { // once round the circle from the first bin with events, back to it
+            int j = (start + s) % d;
+            if (!(counts[j] > 0)) {
+                if (length == 0) {
+                    from = j;
+                }
+                length++;
+                run += mass[j];
+            } else if (length > 0) {
+                if (run > bestMass) {
+                    bestMass = run;
+                    bestFrom = from;
+                    bestLength = length;
+                }
+                length = 0;
+                run = 0;
+            }
+        }
+        if (bestLength == 0) {
+            return 0.0;
+        }
+        double[] eta = new double[domain.nodes];
+        double[] ml = centreAndLogZ(domain, beta, eta);
+        double m = ml[0];
+        double level = ml[1] - Math.log(total * bestMass);
+        double deep = 0;
+        for (int r = 0; r < bestLength; r++) {
+            int j = (bestFrom + r) % d;
+            for (int q = bins.binStart[j]; q < bins.binStart[j + 1]; q++) {
+                double dq = level - (eta(bins, q, beta) - m);
+                if (dq > 0) {
+                    deep += bins.weight[q] * dq * dq;
                 }
             }
         }

@@ -433,9 +433,16 @@ final class PenalizedFit {
                 eng.total(), iterations, cov, EstimationSupport.trace(cov, k), share);
     }
 
-    /** Extrapolation share of a counts unit: the domain below its first and above its last bin with events. */
+    /**
+     * Extrapolation share of a counts unit: the domain below its first and above its last bin with events;
+     * on a circle the longest circular run of bins without events.
+     */
     private double countsShare(PenalizedNewton eng, double normSq) {
         double[] counts = eng.counts();
+        if (space.isPeriodic()) {
+            return EstimationSupport.circularExtrapolationShare(domain, eng.bins(), counts, eng.coefficients(),
+                    normSq, eng.total());
+        }
         int first = 0, last = eng.bins().bins - 1;
         while (first < last && !(counts[first] > 0)) {
             first++;
@@ -447,10 +454,21 @@ final class PenalizedFit {
                 eng.total());
     }
 
-    /** Extrapolation share of a sample: the domain below its smallest and above its largest value. */
+    /**
+     * Extrapolation share of a sample: the domain below its smallest and above its largest value; on a
+     * circle the largest gap between circularly consecutive values (the arc the sample leaves out).
+     */
     private double sampleShare(SampleData sample, double[] beta, double normSq) {
         if (space.isPeriodic()) {
-            return 0.0; // a circle has no range beyond the sample to extrapolate into
+            if (!(sample.gapLength < space.period())) {
+                return normSq > 0 ? 1.0 : 0.0; // a single distinct value: everything else is extrapolated
+            }
+            // two bins spanning one period from the end of the gap: the arc holding the sample, then the gap
+            double[] e = {sample.gapEnd, sample.gapEnd + (space.period() - sample.gapLength),
+                sample.gapEnd + space.period()};
+            BinLayout lay = new BinLayout(space, e, points);
+            return EstimationSupport.circularExtrapolationShare(domain, lay, new double[] {1, 0}, beta, normSq,
+                    sample.total);
         }
         double a = space.lower(), b = space.upper();
         double lo = sample.min, hi = sample.max;
@@ -531,6 +549,13 @@ final class PenalizedFit {
         /** Smallest and largest value with positive weight. */
         final double min;
         final double max;
+        /**
+         * On a circle: the largest gap between circularly consecutive values with positive weight (taken
+         * modulo the period), as its length (the period for a single distinct value) and the value that
+         * ends it; 0 and NaN on an interval.
+         */
+        final double gapLength;
+        final double gapEnd;
         /** Total weight. */
         final double total;
 
@@ -545,6 +570,14 @@ final class PenalizedFit {
             }
             min = lo;
             max = hi;
+            if (basis.isPeriodic()) {
+                double[] gap = largestGap(v, weights, basis);
+                gapLength = gap[0];
+                gapEnd = gap[1];
+            } else {
+                gapLength = 0;
+                gapEnd = Double.NaN;
+            }
             double tw = 0;
             for (int i = 0; i < n; i++) {
                 tw += weights == null ? 1.0 : weights[i];
@@ -565,6 +598,34 @@ final class PenalizedFit {
                     linear[f + j] += w[i] * val;
                 }
             }
+        }
+
+        /**
+         * {length, end} of the largest gap between circularly consecutive values with positive weight,
+         * taken modulo the period; {period, v} for a single distinct value v, {period, NaN} for none.
+         */
+        private static double[] largestGap(double[] v, double[] weights, RawBasis basis) {
+            double[] knots = basis.knotsView();
+            double a = knots[0], period = knots[knots.length - 1] - a;
+            double[] x = new double[v.length];
+            int m = 0;
+            for (int i = 0; i < v.length; i++) {
+                if (weights == null || weights[i] > 0) {
+                    x[m++] = basis.wrap(v[i]);
+                }
+            }
+            if (m == 0) {
+                return new double[] {period, Double.NaN};
+            }
+            Arrays.sort(x, 0, m);
+            double length = x[0] + period - x[m - 1], end = x[0]; // the gap across the cut point
+            for (int i = 1; i < m; i++) {
+                if (x[i] - x[i - 1] > length) {
+                    length = x[i] - x[i - 1];
+                    end = x[i];
+                }
+            }
+            return new double[] {x[0] == x[m - 1] ? period : length, end};
         }
     }
 }

@@ -313,8 +313,11 @@ public final class SmoothingSplineEstimator implements CountEstimator {
                 for (int c = 0; c < k; c++) {
                     normSq += out[i * k + c] * out[i * k + c];
                 }
-                double share = EstimationSupport.extrapolationShare(whole, lay, first, last, eng.coefficients(), normSq,
-                        totals[i]);
+                double share = lay.periodic
+                        ? EstimationSupport.circularExtrapolationShare(whole, lay, counts[i], eng.coefficients(), normSq,
+                                totals[i])
+                        : EstimationSupport.extrapolationShare(whole, lay, first, last, eng.coefficients(), normSq,
+                                totals[i]);
                 diag[i] = new EstimationDiagnostics(id, EstimationDiagnostics.Status.CONVERGED, "", lambda, choose,
                         SmoothingCriterion.GCV, g[0], g[2], loglik, totals[i], 0, cov,
                         EstimationSupport.trace(cov, k), share);

@@ -33,6 +33,8 @@ final class BulkEngine implements AutoCloseable {
     private String value;
     private String weight;
     private String period;
+    /** On a circle: values are reduced into [wrapLo, wrapHi) and then capped at wrapTop; NaN when bounded. */
+    private double wrapLo = Double.NaN, wrapHi = Double.NaN, wrapTop = Double.NaN;
 
     BulkEngine(BulkObservations owner, Path path, int nThreads) {
         this.owner = owner;
@@ -169,9 +171,39 @@ final class BulkEngine implements AutoCloseable {
         }
     }
 
-    /** Value expression: the value column as DOUBLE. */
+    /**
+     * Value expression: the value column as DOUBLE; on a circle ({@link #onCircle}) a finite value
+     * reduced modulo P = wrapHi − wrapLo into [wrapLo, wrapHi) by the arithmetic of
+     * {@link io.densa.io.CircularValues#wrap} and capped at wrapTop (a value in the sliver between e_D
+     * and e_0 + P goes to the last bin), while NULL, NaN and ±∞ pass unchanged for the checks to name.
+     */
     private String v() {
-        return "CAST(" + BulkObservations.ident(value) + " AS DOUBLE)";
+        String r = "CAST(" + BulkObservations.ident(value) + " AS DOUBLE)";
+        if (Double.isNaN(wrapLo)) {
+            return r;
+        }
+        String lo = BulkObservations.dbl(wrapLo), hi = BulkObservations.dbl(wrapHi);
+        String p = "(" + hi + " - " + lo + ")";
+        String y = "(" + lo + " + ((" + r + " - " + lo + ") - " + p + " * floor((" + r + " - " + lo + ") / " + p
+                + ")))";
+        return "(CASE WHEN " + r + " IS NULL OR isnan(" + r + ") OR isinf(" + r + ") THEN " + r + " ELSE least(CASE WHEN "
+                + r + " >= " + lo + " AND " + r + " < " + hi + " THEN " + r + " WHEN " + y + " >= " + hi + " OR " + y
+                + " < " + lo + " THEN " + lo + " ELSE " + y + " END, " + BulkObservations.dbl(wrapTop) + ") END)";
+    }
+
+    /** Values are taken modulo the period from now on: into [lo, lo + period), capped at top. */
+    private void onCircle(double lo, double hi, double top) {
+        wrapLo = lo;
+        wrapHi = hi;
+        wrapTop = top;
+    }
+
+    /** On a circle only ±∞ can lie outside the range: an error whatever the policy. */
+    private void checkCircle(long outside, double periodLength) {
+        if (!Double.isNaN(wrapLo) && outside > 0) {
+            fail("value", "isinf(v)", "the value is infinite (" + outside + " such values in the file); on the circle"
+                    + " of period " + periodLength + " every finite value is accepted (taken modulo the period)");
+        }
     }
 
     private String w() {
@@ -191,9 +223,13 @@ final class BulkEngine implements AutoCloseable {
         return "coalesce(NOT (w >= 0 AND isfinite(w)), true)";
     }
 
-    BulkSummary histograms(Bins bins, OutsidePolicy policy, Consumer<CountTable> consumer) {
+    /** circle: the period on a periodic space (values taken modulo it into [e_0, e_0 + P)), 0 when bounded. */
+    BulkSummary histograms(Bins bins, double circle, OutsidePolicy policy, Consumer<CountTable> consumer) {
         int d = bins.count();
         double[] e = bins.edges();
+        if (circle > 0) {
+            onCircle(e[0], e[0] + circle, e[d]);
+        }
         String inner = projection("");
         String inside;
         if (uniform(e)) {
@@ -229,6 +265,7 @@ final class BulkEngine implements AutoCloseable {
                         s[i] = rs.getLong(i + 1);
                     }
                 });
+        checkCircle(s[3] + s[4], circle);
         checkSummary(s, policy, bins.lower(), bins.upper(), "the range of the bins");
         long below = s[3], above = s[4], total = s[6];
         OutsideReport rep = policy == OutsidePolicy.DROP
@@ -370,7 +407,11 @@ final class BulkEngine implements AutoCloseable {
         throw new IllegalArgumentException(owner.source() + at + ": " + what);
     }
 
-    BulkSummary samples(double lo, double hi, OutsidePolicy policy, Consumer<SampleTable> consumer) {
+    /** circle: the period on a periodic space (values taken modulo it into [lo, hi)), 0 when bounded. */
+    BulkSummary samples(double lo, double hi, double circle, OutsidePolicy policy, Consumer<SampleTable> consumer) {
+        if (circle > 0) {
+            onCircle(lo, hi, hi);
+        }
         String inner = projection("");
         String keep = policy == OutsidePolicy.DROP ? "v >= " + BulkObservations.dbl(lo) + " AND v <= " + BulkObservations.dbl(hi) : "true";
         long[] s = new long[10];
@@ -386,6 +427,7 @@ final class BulkEngine implements AutoCloseable {
                         s[i] = rs.getLong(i + 1);
                     }
                 });
+        checkCircle(s[3] + s[4], circle);
         checkSummary(s, policy, lo, hi, "the domain of the space");
         if (s[9] > owner.limits.maxRows()) {
             throw new IllegalArgumentException(owner.source() + ": one unit has " + s[9] + " observations, more than"

@@ -29,7 +29,12 @@ import java.util.function.Consumer;
  * missing or NaN value and a missing, negative or non-finite weight are errors whatever the policy.
  * Units (unit–period pairs) are delivered in ascending order of the unit column (numeric order for
  * numeric columns, binary string order for text), then of the period; ids are the column values as
- * text. A unit all of whose values were dropped is not delivered. Samples are delivered sorted by
+ * text. A unit all of whose values were dropped is not delivered. On a periodic space
+ * ({@link BayesSpace#isPeriodic()}: {@link #samples}, {@link #fitSamples}, {@link #fitHistograms} and
+ * {@link #histograms(Bins, BayesSpace, OutsidePolicy, Consumer)}) every finite value is reduced modulo
+ * the period — into [a, a + P) for samples, into [e_0, e_0 + P) before binning, by the arithmetic of
+ * {@link io.densa.io.CircularValues} — so the policy never applies there; an infinite value is then an
+ * error. Samples are delivered sorted by
  * value (then weight), so results do not depend on the file's row order or the engine's threads.
  *
  * <p><b>All or nothing.</b> The whole file is checked before the first batch is delivered; a
@@ -168,7 +173,9 @@ public final class BulkObservations {
     /**
      * Bins every observation and delivers the per-unit counts in batches of at most
      * {@link #withBatchUnits} units, in unit order; every batch carries the whole file's
-     * {@link OutsideReport}.
+     * {@link OutsideReport}. The bins are taken as a bounded layout (values outside [e_0, e_D] follow
+     * the policy); for bins on a periodic space give the space
+     * ({@link #histograms(Bins, BayesSpace, OutsidePolicy, Consumer)}).
      *
      * @param bins     the bin layout
      * @param policy   what to do with values outside [e_0, e_D]
@@ -182,9 +189,30 @@ public final class BulkObservations {
         Objects.requireNonNull(bins, "bins");
         Objects.requireNonNull(policy, "policy");
         Objects.requireNonNull(consumer, "consumer");
+        return histograms(bins, 0, policy, consumer);
+    }
+
+    /**
+     * {@link #histograms(Bins, OutsidePolicy, Consumer)} for the given space: the same on a bounded
+     * space; on a periodic space (bins spanning one period from any start, {@link Bins#checkAgainst})
+     * every finite value is reduced modulo the period into [e_0, e_0 + P) before binning, so a bin that
+     * wraps around the cut point receives values from both sides of it, and the policy never applies.
+     *
+     * @throws IllegalArgumentException if the bins do not fit the space, for an infinite value on a
+     *                                  circle, or as {@link #histograms(Bins, OutsidePolicy, Consumer)}
+     */
+    public BulkSummary histograms(Bins bins, BayesSpace space, OutsidePolicy policy, Consumer<CountTable> consumer) {
+        Objects.requireNonNull(bins, "bins").checkAgainst(Objects.requireNonNull(space, "space"));
+        return histograms(bins, space.isPeriodic() ? space.period() : 0, policy, consumer);
+    }
+
+    private BulkSummary histograms(Bins bins, double circle, OutsidePolicy policy, Consumer<CountTable> consumer) {
+        Objects.requireNonNull(bins, "bins");
+        Objects.requireNonNull(policy, "policy");
+        Objects.requireNonNull(consumer, "consumer");
         RowCursor.checkBinCount(bins, limits);
         try (BulkEngine e = open(threads)) {
-            return e.histograms(bins, policy, consumer);
+            return e.histograms(bins, circle, policy, consumer);
         }
     }
 
@@ -196,8 +224,7 @@ public final class BulkObservations {
             BiConsumer<CountTable, BatchEstimate> consumer) {
         Objects.requireNonNull(estimator, "estimator");
         Objects.requireNonNull(consumer, "consumer");
-        Objects.requireNonNull(bins, "bins").checkAgainst(estimator.space());
-        return histograms(bins, policy, t -> consumer.accept(t, t.fit(estimator)));
+        return histograms(bins, estimator.space(), policy, t -> consumer.accept(t, t.fit(estimator)));
     }
 
     // ------------------------------------------------------------------ samples
@@ -214,7 +241,7 @@ public final class BulkObservations {
         Objects.requireNonNull(policy, "policy");
         Objects.requireNonNull(consumer, "consumer");
         try (BulkEngine e = open(threads)) {
-            return e.samples(space.lower(), space.upper(), policy, consumer);
+            return e.samples(space.lower(), space.upper(), space.isPeriodic() ? space.period() : 0, policy, consumer);
         }
     }
 

@@ -1,6 +1,7 @@
 package io.densa.io.tables;
 
 import io.densa.io.Bins;
+import io.densa.io.CircularValues;
 import io.densa.io.ReadLimits;
 import io.densa.core.BayesSpace;
 import java.util.Arrays;
@@ -16,6 +17,13 @@ import java.util.Objects;
  * range [e_0, e_D] for counts — is handled by the {@link OutsidePolicy}, and the result reports how
  * many were dropped or clamped. Weights must be finite and ≥ 0; binned counts are then sums of
  * weights. Units (unit–period pairs) are in order of first appearance.
+ *
+ * <p>On a periodic space ({@link BayesSpace#isPeriodic()}: {@link #samples}, and {@link #counts(TableSource,
+ * Bins, BayesSpace, OutsidePolicy)} given the space) every finite value is a point of the circle: it is
+ * reduced modulo the period into [a, a + P) for samples, into [e_0, e_0 + P) before binning (so a bin
+ * that wraps around the cut point receives both 2 and 367 on a circle of period 365), by
+ * {@link CircularValues}. The outside-range policy then never applies (the report counts no value
+ * outside); a value that is missing or not a finite number is still an error naming the line and column.
  *
  * <p>All or nothing: the first bad row ends the read with an {@link IllegalArgumentException}
  * naming the source, line or row, column, the value and the accepted form (for a value outside the
@@ -71,7 +79,8 @@ public final class ObservationReader {
     }
 
     /**
-     * Reads the observations as samples inside the space's domain.
+     * Reads the observations as samples inside the space's domain; on a periodic space every finite
+     * value, reduced modulo the period into [a, a + P) (the policy then never applies).
      *
      * @throws IllegalArgumentException for a missing column, a bad row, a value outside the domain
      *                                  under {@link OutsidePolicy#REJECT}, or a limit exceeded
@@ -83,7 +92,7 @@ public final class ObservationReader {
         Acc acc = new Acc(weightColumn != null);
         try (RowCursor cur = RowCursor.open(source, limits)) {
             OutsideReport rep = scan(cur, space.lower(), space.upper(), policy, "the domain of the space", acc,
-                    null);
+                    null, space.isPeriodic() ? space.period() : 0);
             int n = acc.keys.size();
             double[][] v = new double[n][];
             double[][] w = weightColumn == null ? null : new double[n][];
@@ -99,12 +108,34 @@ public final class ObservationReader {
 
     /**
      * Reads the observations and bins them: counts (sums of weights with a weight column) per unit
-     * and bin.
+     * and bin. The bins are taken as a bounded layout: a value outside [e_0, e_D] follows the policy,
+     * also when the bins are meant for a periodic space; for those give the space
+     * ({@link #counts(TableSource, Bins, BayesSpace, OutsidePolicy)}).
      *
      * @throws IllegalArgumentException for a missing column, a bad row, a value outside the bins'
      *                                  range under {@link OutsidePolicy#REJECT}, or a limit exceeded
      */
     public CountTable counts(TableSource source, Bins bins, OutsidePolicy policy) {
+        return counts(source, bins, 0, policy);
+    }
+
+    /**
+     * Reads the observations and bins them for the given space: on a bounded space exactly as
+     * {@link #counts(TableSource, Bins, OutsidePolicy)}; on a periodic space (bins spanning one period
+     * from any start, {@link Bins#checkAgainst}) every finite value is reduced modulo the period into
+     * [e_0, e_0 + P) before binning, so −3, 362 and 727 land in one bin on a circle of period 365 and a
+     * bin that wraps around the cut point receives values on both sides of it; the policy then never
+     * applies.
+     *
+     * @throws IllegalArgumentException if the bins do not fit the space, or as
+     *                                  {@link #counts(TableSource, Bins, OutsidePolicy)}
+     */
+    public CountTable counts(TableSource source, Bins bins, BayesSpace space, OutsidePolicy policy) {
+        Objects.requireNonNull(bins, "bins").checkAgainst(Objects.requireNonNull(space, "space"));
+        return counts(source, bins, space.isPeriodic() ? space.period() : 0, policy);
+    }
+
+    private CountTable counts(TableSource source, Bins bins, double period, OutsidePolicy policy) {
         Objects.requireNonNull(source, "source");
         Objects.requireNonNull(bins, "bins");
         Objects.requireNonNull(policy, "policy");
@@ -113,15 +144,17 @@ public final class ObservationReader {
         acc.bins = bins;
         acc.maxCells = limits.maxCells();
         try (RowCursor cur = RowCursor.open(source, limits)) {
-            OutsideReport rep = scan(cur, bins.lower(), bins.upper(), policy, "the range of the bins", acc, bins);
+            OutsideReport rep = scan(cur, bins.lower(), bins.upper(), policy, "the range of the bins", acc, bins,
+                    period);
             int n = acc.keys.size();
             double[][] c = Arrays.copyOf(acc.counts, n);
             return new CountTable(bins, acc.keys.idArray(), acc.keys.periodArray(), c, rep, cur.source);
         }
     }
 
+    /** circle &gt; 0, the period: values are wrapped onto the circle (samples into [lo, hi), bins from e_0); 0: bounded. */
     private OutsideReport scan(RowCursor cur, double lo, double hi, OutsidePolicy policy, String range, Acc acc,
-            Bins bins) {
+            Bins bins, double circle) {
         int cu = cur.column(unitColumn, "unit");
         int cv = cur.column(valueColumn, "value");
         int cw = weightColumn == null ? -1 : cur.column(weightColumn, "weight");
@@ -141,6 +174,15 @@ public final class ObservationReader {
                 }
             }
             seen++;
+            if (circle > 0) {
+                int u = acc.keys.indexOf(id, period);
+                if (bins != null) {
+                    acc.addCount(u, CircularValues.binOf(bins, x, circle), w, cur.source);
+                } else {
+                    acc.addValue(u, CircularValues.wrap(x, lo, hi), w);
+                }
+                continue;
+            }
             if (!(x >= lo && x <= hi)) {
                 switch (policy) {
                     case REJECT:

@@ -5,6 +5,9 @@ package io.densa.io.tables;
  * domain [a, b] of the space for samples, the range [e_0, e_D] of the bins for histograms. A
  * missing or non-numeric value is always an error, whatever the policy. The count of values the
  * policy touched is reported in an {@link OutsideReport}.
+ *
+ * <p>On a periodic space the policy never applies: every finite value is a point of the circle and is
+ * reduced modulo the period ({@link io.densa.io.CircularValues}) when the reader is given the space.
  */
 public enum OutsidePolicy {
     /** Fail with an IllegalArgumentException naming the source, row, unit and value (the default). */

@@ -67,7 +67,10 @@ public final class Figures {
     }
 
     /**
-     * A unit's estimated density (line) with its data (points).
+     * A unit's estimated density (line) with its data (points). On a periodic space the curve spans one
+     * period from the space's start and the data's positions are taken modulo the period into it (the
+     * midpoint of a bin that wraps around the cut point, e.g. 367.5 for [360, 375) on a year of 365
+     * days from 0, is drawn at 2.5).
      *
      * @param title    chart title, e.g. the unit's name and size
      * @param estimate the estimated density
@@ -76,10 +79,19 @@ public final class Figures {
      */
     public static Chart density(String title, Density estimate, Observed data, Axis x) {
         Objects.requireNonNull(estimate, "estimate");
-        double[] g = grid(estimate.space());
+        BayesSpace space = estimate.space();
+        double[] g = grid(space);
         Chart c = Chart.of(title, x, densityAxis(x));
         if (data != null) {
-            c = c.points(data.name(), data.x(), data.density());
+            double[] px = data.x();
+            if (space.isPeriodic()) {
+                double a = space.lower(), p = space.period();
+                for (int i = 0; i < px.length; i++) {
+                    double y = a + ((px[i] - a) - p * Math.floor((px[i] - a) / p));
+                    px[i] = y >= a + p || y < a ? a : y;
+                }
+            }
+            c = c.points(data.name(), px, data.density());
         }
         return c.with(new Chart.Series("estimated density", g, estimate.pdf(g), Chart.Style.LINE, Palette.INK));
     }
