@@ -28,12 +28,27 @@ final class BandQuadrature {
         this.bands = bands;
     }
 
+    /**
+     * Nodes over the bands' span: the domain [a, b] of a bounded space; on a circle the period from
+     * the first band edge, which may start anywhere (a band may wrap around the cut point; the
+     * space evaluates positions modulo the period, and the breakpoints are continued around it).
+     */
     static BandQuadrature of(BayesSpace space, double[] bandEdges) {
-        double a = space.lower();
-        double b = space.upper();
+        boolean circle = space.isPeriodic();
+        double a = circle ? bandEdges[0] : space.lower();
+        double b = circle ? bandEdges[bandEdges.length - 1] : space.upper();
         TreeSet<Double> cuts = new TreeSet<>();
         for (double t : space.basis().breakpoints()) {
-            cuts.add(t);
+            if (circle) {
+                for (int turn = -1; turn <= 1; turn++) {
+                    double s = t + turn * space.period();
+                    if (s > a && s < b) {
+                        cuts.add(s);
+                    }
+                }
+            } else {
+                cuts.add(t);
+            }
         }
         for (double t : bandEdges) {
             cuts.add(Math.max(a, Math.min(b, t)));

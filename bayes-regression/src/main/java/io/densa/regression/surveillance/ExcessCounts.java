@@ -283,7 +283,8 @@ public final class ExcessCounts {
      * @param baseline   baseline density per unit (n rows)
      * @param counts     n rows of non-negative counts per bin (not modified)
      * @param binEdges   D + 1 strictly increasing edges of the count bins, from the domain's lower to
-     *                   its upper end
+     *                   its upper end (on a periodic space: spanning one period from any start, so
+     *                   that a bin or a band may wrap around the cut point)
      * @param bandEdges  strictly increasing band edges, each one of the bin edges, the first and last
      *                   equal to the first and last bin edge
      * @param error      baseline uncertainty ({@link BaselineError#none()} for none)
@@ -324,7 +325,14 @@ public final class ExcessCounts {
             }
         }
         double tol = 1e-9 * (space.upper() - space.lower());
-        if (Math.abs(edges[0] - space.lower()) > tol || Math.abs(edges[d] - space.upper()) > tol) {
+        if (space.isPeriodic()) {
+            // on a circle the bins span one period from any start (a bin may wrap around the cut point)
+            if (Math.abs(edges[d] - edges[0] - space.period()) > tol) {
+                throw new IllegalArgumentException("binEdges run from " + edges[0] + " to " + edges[d] + " (a span of "
+                        + (edges[d] - edges[0]) + "); on a circle of period " + space.period()
+                        + " they must span exactly one period, from any start");
+            }
+        } else if (Math.abs(edges[0] - space.lower()) > tol || Math.abs(edges[d] - space.upper()) > tol) {
             throw new IllegalArgumentException("binEdges run from " + edges[0] + " to " + edges[d]
                     + "; they must cover the domain [" + space.lower() + ", " + space.upper() + "] exactly");
         }
