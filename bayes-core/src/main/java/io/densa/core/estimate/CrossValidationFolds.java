@@ -2,7 +2,7 @@ package io.densa.core.estimate;
 
 import io.densa.core.internal.Seeds;
 import java.util.SplittableRandom;
-import io.densa.core.estimate.PenalizedFit.SampleData;
+import io.densa.core.estimate.EstimationSupport.SampleData;
 
 /**
  * The fold structure of one unit for the cross-validation criterion of

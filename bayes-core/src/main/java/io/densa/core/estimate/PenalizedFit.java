@@ -5,6 +5,7 @@ import io.densa.core.DensaException;
 import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
 import io.densa.core.SolveDiagnostics;
+import io.densa.core.estimate.EstimationSupport.SampleData;
 import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.ProgressCounter;
@@ -532,100 +533,6 @@ final class PenalizedFit {
             for (int j = 0; j < k; j++) {
                 cov[i * k + j] += varRho * dc[i] * dc[j];
             }
-        }
-    }
-
-    /**
-     * Per-observation local basis values of one sample and its sufficient statistic, for the
-     * penalised-likelihood fit of raw samples. Internal.
-     */
-    static final class SampleData {
-        final int n;
-        final int[] first;
-        final double[] vals;
-        final double[] w;
-        final double[] linear;
-        final int width;
-        /** Smallest and largest value with positive weight. */
-        final double min;
-        final double max;
-        /**
-         * On a circle: the largest gap between circularly consecutive values with positive weight (taken
-         * modulo the period), as its length (the period for a single distinct value) and the value that
-         * ends it; 0 and NaN on an interval.
-         */
-        final double gapLength;
-        final double gapEnd;
-        /** Total weight. */
-        final double total;
-
-        SampleData(double[] v, double[] weights, RawBasis basis, int width, int k, double[] scratch) {
-            n = v.length;
-            double lo = Double.POSITIVE_INFINITY, hi = Double.NEGATIVE_INFINITY;
-            for (int i = 0; i < n; i++) {
-                if (weights == null || weights[i] > 0) {
-                    lo = Math.min(lo, v[i]);
-                    hi = Math.max(hi, v[i]);
-                }
-            }
-            min = lo;
-            max = hi;
-            if (basis.isPeriodic()) {
-                double[] gap = largestGap(v, weights, basis);
-                gapLength = gap[0];
-                gapEnd = gap[1];
-            } else {
-                gapLength = 0;
-                gapEnd = Double.NaN;
-            }
-            double tw = 0;
-            for (int i = 0; i < n; i++) {
-                tw += weights == null ? 1.0 : weights[i];
-            }
-            total = tw;
-            this.width = width;
-            first = new int[n];
-            vals = new double[n * width];
-            w = new double[n];
-            linear = new double[k + 1];
-            for (int i = 0; i < n; i++) {
-                int f = basis.evalLocal(v[i], scratch);
-                first[i] = f;
-                w[i] = weights == null ? 1.0 : weights[i];
-                for (int j = 0; j < width; j++) {
-                    double val = f + j < k ? scratch[j] : 0.0;
-                    vals[i * width + j] = val;
-                    linear[f + j] += w[i] * val;
-                }
-            }
-        }
-
-        /**
-         * {length, end} of the largest gap between circularly consecutive values with positive weight,
-         * taken modulo the period; {period, v} for a single distinct value v, {period, NaN} for none.
-         */
-        private static double[] largestGap(double[] v, double[] weights, RawBasis basis) {
-            double[] knots = basis.knotsView();
-            double a = knots[0], period = knots[knots.length - 1] - a;
-            double[] x = new double[v.length];
-            int m = 0;
-            for (int i = 0; i < v.length; i++) {
-                if (weights == null || weights[i] > 0) {
-                    x[m++] = basis.wrap(v[i]);
-                }
-            }
-            if (m == 0) {
-                return new double[] {period, Double.NaN};
-            }
-            Arrays.sort(x, 0, m);
-            double length = x[0] + period - x[m - 1], end = x[0]; // the gap across the cut point
-            for (int i = 1; i < m; i++) {
-                if (x[i] - x[i - 1] > length) {
-                    length = x[i] - x[i - 1];
-                    end = x[i];
-                }
-            }
-            return new double[] {x[0] == x[m - 1] ? period : length, end};
         }
     }
 }

@@ -232,16 +232,17 @@ final class BulkEngine implements AutoCloseable {
         }
         String inner = projection("");
         String inside;
-        if (uniform(e)) {
+        if (BulkObservations.uniformEdges(e)) {
             // j0 = floor((v - e0) D / (eD - e0)) is the bin up to rounding; one comparison with each
             // neighbouring edge, computed by the same formula as Bins.uniform, makes it exact
             String range = "(" + BulkObservations.dbl(e[d]) + " - " + BulkObservations.dbl(e[0]) + ")";
             inner = "(SELECT *, least(greatest(floor((v - " + BulkObservations.dbl(e[0]) + ") * (" + d + " / " + range
                     + "))::INTEGER, 0), " + (d - 1) + ") AS j0 FROM " + inner + ")";
-            inside = "CASE WHEN v < " + edge(e[0], range, d, "j0") + " THEN j0 - 1 WHEN j0 < " + (d - 1)
-                    + " AND v >= " + edge(e[0], range, d, "j0 + 1") + " THEN j0 + 1 ELSE j0 END";
+            inside = "CASE WHEN v < " + BulkObservations.edgeSql(e[0], range, d, "j0") + " THEN j0 - 1 WHEN j0 < "
+                    + (d - 1) + " AND v >= " + BulkObservations.edgeSql(e[0], range, d, "j0 + 1")
+                    + " THEN j0 + 1 ELSE j0 END";
         } else {
-            inside = tree(e, 0, d);
+            inside = BulkObservations.binTree(e, 0, d);
         }
         String binExpr = "CASE WHEN v IS NULL OR isnan(v) THEN " + (d + 2) + " WHEN v < " + BulkObservations.dbl(e[0]) + " THEN " + d
                 + " WHEN v > " + BulkObservations.dbl(e[d]) + " THEN " + (d + 1) + " ELSE " + inside + " END";
@@ -322,31 +323,6 @@ final class BulkEngine implements AutoCloseable {
             periods.clear();
         }
         consumer.accept(t);
-    }
-
-    /** Whether the edges are exactly those of Bins.uniform(e0, eD, D). */
-    private boolean uniform(double[] e) {
-        int d = e.length - 1;
-        for (int j = 1; j < d; j++) {
-            if (e[j] != e[0] + j * (e[d] - e[0]) / d) {
-                return false;
-            }
-        }
-        return true;
-    }
-
-    /** Edge k of a uniform layout in SQL, by the same operations as Bins.uniform: e0 + (k (eD − e0)) / D. */
-    private String edge(double e0, String range, int d, String k) {
-        return "(" + BulkObservations.dbl(e0) + " + ((" + k + ")::DOUBLE * " + range + ") / " + d + ")";
-    }
-
-    /** Nested CASE: binary search for the bin of v in [e[lo], e[hi]]. */
-    private String tree(double[] e, int lo, int hi) {
-        if (hi - lo == 1) {
-            return Integer.toString(lo);
-        }
-        int m = (lo + hi) >>> 1;
-        return "CASE WHEN v < " + BulkObservations.dbl(e[m]) + " THEN " + tree(e, lo, m) + " ELSE " + tree(e, m, hi) + " END";
     }
 
     /**

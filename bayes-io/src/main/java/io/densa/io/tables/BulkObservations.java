@@ -290,4 +290,28 @@ public final class BulkObservations {
         return "CAST('" + Double.toString(x) + "' AS DOUBLE)";
     }
 
+    /** Whether the edges are exactly those of Bins.uniform(e0, eD, D). */
+    static boolean uniformEdges(double[] e) {
+        int d = e.length - 1;
+        for (int j = 1; j < d; j++) {
+            if (e[j] != e[0] + j * (e[d] - e[0]) / d) {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    /** Edge k of a uniform layout in SQL, by the same operations as Bins.uniform: e0 + (k (eD − e0)) / D. */
+    static String edgeSql(double e0, String range, int d, String k) {
+        return "(" + dbl(e0) + " + ((" + k + ")::DOUBLE * " + range + ") / " + d + ")";
+    }
+
+    /** Nested CASE: binary search for the bin of v in [e[lo], e[hi]]. */
+    static String binTree(double[] e, int lo, int hi) {
+        if (hi - lo == 1) {
+            return Integer.toString(lo);
+        }
+        int m = (lo + hi) >>> 1;
+        return "CASE WHEN v < " + dbl(e[m]) + " THEN " + binTree(e, lo, m) + " ELSE " + binTree(e, m, hi) + " END";
+    }
 }
