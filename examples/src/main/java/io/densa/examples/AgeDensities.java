@@ -25,11 +25,11 @@ final class AgeDensities {
     static String describe() {
         return "Densa's penalised-likelihood estimator (multinomial likelihood of the 100 one-year bins, roughness "
                 + "penalty on the second derivative of the clr) with one common smoothing parameter for all "
-                + "district-seasons: the median of the AIC choices of the largest quarter of the districts in the first "
-                + "season, where AIC is reliable. With a common λ the penalty weighs relatively more for small districts,"
-                + " which then keep a smooth profile instead of chasing single visits (AIC per unit undersmooths a few "
-                + "dozen counts and gives near-zero densities between them, whose log-ratios would dominate the B2 "
-                + "geometry)";
+                + "district-seasons: the median of the per-unit marginal-likelihood choices (the estimator's default) of "
+                + "the largest quarter of the districts in the first season, where the counts determine λ well. With a "
+                + "common λ the penalty weighs relatively more for small districts, which then keep a smooth profile "
+                + "instead of chasing single visits (a choice per unit from a few dozen counts can undersmooth and give "
+                + "near-zero densities between them, whose log-ratios would dominate the B2 geometry)";
     }
 
     static String varianceSource() {
@@ -37,11 +37,16 @@ final class AgeDensities {
     }
 
     /**
-     * A common smoothing parameter: the median of the AIC choices of the largest quarter of the
-     * units (where AIC is reliable). With one λ for all, the penalty weighs relatively more for
+     * A common smoothing parameter: the median of the estimator's default per-unit choices
+     * (marginal likelihood) over the largest quarter of the units. With one λ for all, the penalty weighs relatively more for
      * small units, which then borrow the smooth shape instead of chasing single events.
      */
     static double commonSmoothing(BayesSpace space, int[][] counts) {
+        return commonSmoothing(space, EDGES, counts);
+    }
+
+    /** {@link #commonSmoothing(BayesSpace, int[][])} for counts over the given bin edges. */
+    static double commonSmoothing(BayesSpace space, double[] edges, int[][] counts) {
         int n = counts.length;
         Integer[] order = new Integer[n];
         long[] totals = new long[n];
@@ -57,7 +62,7 @@ final class AgeDensities {
         for (int k = 0; k < top; k++) {
             big[k] = counts[order[k]];
         }
-        BatchEstimate est = PenalizedLikelihoodEstimator.withDefaults(space).fitAll(EDGES, big, null);
+        BatchEstimate est = PenalizedLikelihoodEstimator.withDefaults(space).fitAll(edges, big, null);
         double[] lambda = est.diagnostics().stream().mapToDouble(EstimationDiagnostics::smoothing).sorted().toArray();
         return lambda[lambda.length / 2];
     }

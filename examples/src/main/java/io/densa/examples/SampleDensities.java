@@ -7,7 +7,7 @@ import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 
 /**
  * Densities from samples with Densa's penalised-likelihood estimator: roughness penalty on the
- * third derivative of the clr and one common smoothing parameter (the median of the AIC choices).
+ * third derivative of the clr and one common smoothing parameter (the median of the per-monitor marginal-likelihood choices).
  */
 final class SampleDensities {
     private SampleDensities() {
@@ -16,7 +16,7 @@ final class SampleDensities {
     static String describe() {
         return "Densa's penalised-likelihood estimator with a roughness penalty on the third derivative of the clr "
                 + "(whose null space holds the normal densities, a natural default for log concentrations) and one "
-                + "common smoothing parameter, the median of the per-monitor AIC choices";
+                + "common smoothing parameter, the median of the per-monitor marginal-likelihood choices (the estimator's default)";
     }
 
     static Estimates estimate(BayesSpace space, double[][] values, String[] ids) {

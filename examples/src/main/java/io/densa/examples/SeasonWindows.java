@@ -102,22 +102,7 @@ final class SeasonWindows {
      * likelihood per unit) over the largest quarter of the districts in the first week.
      */
     static double commonSmoothing(BayesSpace space, int[][] counts) {
-        int n = counts.length;
-        Integer[] order = new Integer[n];
-        long[] totals = new long[n];
-        for (int i = 0; i < n; i++) {
-            order[i] = i;
-            totals[i] = Arrays.stream(counts[i]).asLongStream().sum();
-        }
-        Arrays.sort(order, (a, b) -> Long.compare(totals[b], totals[a]));
-        int top = Math.max(3, n / 4);
-        int[][] big = new int[top][];
-        for (int k = 0; k < top; k++) {
-            big[k] = counts[order[k]];
-        }
-        BatchEstimate est = PenalizedLikelihoodEstimator.withDefaults(space).fitAll(EDGES, big, null);
-        double[] lambda = est.diagnostics().stream().mapToDouble(EstimationDiagnostics::smoothing).sorted().toArray();
-        return lambda[lambda.length / 2];
+        return AgeDensities.commonSmoothing(space, EDGES, counts);
     }
 
     /**

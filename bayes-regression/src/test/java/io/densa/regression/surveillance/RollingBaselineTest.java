@@ -94,15 +94,20 @@ class RollingBaselineTest {
                     row++;
                 }
             }
-            OLSMultipleLinearRegression ols = new OLSMultipleLinearRegression();
-            ols.setNoIntercept(true);
-            ols.newSampleData(yy, x);
-            double[] b = ols.estimateRegressionParameters();
-            for (int j = 0; j < d; j++) {
-                beta[j * K + c] = b[j];
-            }
+            leastSquaresInto(beta, c, yy, x, d);
         }
         return beta;
+    }
+
+    /** Commons Math least squares (no added intercept) of yy on x into column c of beta (d rows of K). */
+    private static void leastSquaresInto(double[] beta, int c, double[] yy, double[][] x, int d) {
+        OLSMultipleLinearRegression ols = new OLSMultipleLinearRegression();
+        ols.setNoIntercept(true);
+        ols.newSampleData(yy, x);
+        double[] b = ols.estimateRegressionParameters();
+        for (int j = 0; j < d; j++) {
+            beta[j * K + c] = b[j];
+        }
     }
 
     /** No forgetting: the moment-updated coefficients equal least squares on every transition. */
@@ -333,13 +338,7 @@ class RollingBaselineTest {
                     yy[row++] = p.y()[t][i * K + c];
                 }
             }
-            OLSMultipleLinearRegression ols = new OLSMultipleLinearRegression();
-            ols.setNoIntercept(true);
-            ols.newSampleData(yy, x);
-            double[] b = ols.estimateRegressionParameters();
-            for (int j = 0; j < d; j++) {
-                beta[j * K + c] = b[j];
-            }
+            leastSquaresInto(beta, c, yy, x, d);
         }
         assertArrayEquals(beta, m.coefficients(), 1e-10);
         assertEquals(2, m.configuration().lags());
@@ -380,13 +379,7 @@ class RollingBaselineTest {
                     yy[row++] = p.y()[t][i * K + c];
                 }
             }
-            OLSMultipleLinearRegression ols = new OLSMultipleLinearRegression();
-            ols.setNoIntercept(true);
-            ols.newSampleData(yy, x);
-            double[] b = ols.estimateRegressionParameters();
-            for (int j = 0; j < d; j++) {
-                beta[j * K + c] = b[j];
-            }
+            leastSquaresInto(beta, c, yy, x, d);
         }
         return beta;
     }

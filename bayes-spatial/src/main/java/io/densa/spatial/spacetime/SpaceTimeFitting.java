@@ -136,9 +136,9 @@ public final class SpaceTimeFitting {
         final double g;
         final double h;
         final double u;
-        String[] names;
-        double[] lo;
-        double[] hi;
+        final String[] names;
+        final double[] lo;
+        final double[] hi;
         /** Whether the last parameter is the spatial margin's nugget (separable and product-sum only). */
         final boolean spatialNugget;
         double[] bestX;
@@ -153,29 +153,31 @@ public final class SpaceTimeFitting {
             this.h = h;
             this.u = u;
             double ls0 = Math.log(SILL_LO), ls1 = Math.log(SILL_HI), lr0 = Math.log(RANGE_LO), lr1 = Math.log(RANGE_HI);
+            String[] named;
+            double[] low;
+            double[] high;
             switch (kind) {
                 case SEPARABLE:
-                    names = new String[] {"partial sill", "spatial range", "temporal range", "nugget"};
-                    lo = new double[] {ls0, lr0, lr0, 0};
-                    hi = new double[] {ls1, lr1, lr1, 2};
+                    named = new String[] {"partial sill", "spatial range", "temporal range", "nugget"};
+                    low = new double[] {ls0, lr0, lr0, 0};
+                    high = new double[] {ls1, lr1, lr1, 2};
                     break;
                 case PRODUCT_SUM:
-                    names = new String[] {"spatial sill", "spatial range", "temporal sill", "temporal range",
+                    named = new String[] {"spatial sill", "spatial range", "temporal sill", "temporal range",
                         "k fraction", "nugget"};
-                    lo = new double[] {ls0, lr0, ls0, lr0, 1e-3, 0};
-                    hi = new double[] {ls1, lr1, ls1, lr1, 1, 2};
+                    low = new double[] {ls0, lr0, ls0, lr0, 1e-3, 0};
+                    high = new double[] {ls1, lr1, ls1, lr1, 1, 2};
                     break;
                 default:
-                    names = new String[] {"sill", "spatial range", "temporal range", "beta", "nugget"};
-                    lo = new double[] {ls0, lr0, lr0, 0, 0};
-                    hi = new double[] {ls1, lr1, lr1, 1, 2};
+                    named = new String[] {"sill", "spatial range", "temporal range", "beta", "nugget"};
+                    low = new double[] {ls0, lr0, lr0, 0, 0};
+                    high = new double[] {ls1, lr1, lr1, 1, 2};
             }
             spatialNugget = opt.spatialNugget() && kind != SpaceTimeModel.Kind.GNEITING;
-            if (spatialNugget) {
-                names = append(names, "spatial nugget");
-                lo = append(lo, 0);
-                hi = append(hi, 2);
-            }
+            // the spatial margin's nugget, when fitted, is the last parameter, in [0, 2] max γ̂
+            names = spatialNugget ? append(named, "spatial nugget") : named;
+            lo = spatialNugget ? append(low, 0) : low;
+            hi = spatialNugget ? append(high, 2) : high;
         }
 
         private static String[] append(String[] a, String v) {
