@@ -11,6 +11,8 @@ module io.densa.core {
     requires ejml.ddense;
     // the binomial split of counts into cross-validation folds (PenalizedLikelihoodEstimator)
     requires commons.math3;
+    // optional SIMD kernels (KernelPath), linked only when the JVM runs with --add-modules jdk.incubator.vector
+    requires static jdk.incubator.vector;
 
     exports io.densa.core;
     exports io.densa.core.estimate;

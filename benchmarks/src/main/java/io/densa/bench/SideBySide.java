@@ -105,7 +105,8 @@ public final class SideBySide {
             usePeer = false;
         }
         System.out.println("INFO machine: " + machineLine() + "; java " + System.getProperty("java.version")
-                + "; heap " + Runtime.getRuntime().maxMemory() / (1 << 20) + " MiB");
+                + "; heap " + Runtime.getRuntime().maxMemory() / (1 << 20) + " MiB; kernels "
+                + io.densa.core.internal.KernelPath.active().describe());
         warmUp();
         for (Map.Entry<String, Integer> w : work.entrySet()) {
             String name = w.getKey();

@@ -1,6 +1,5 @@
 package io.densa.core.internal;
 
-import java.util.Arrays;
 import java.util.stream.IntStream;
 
 /**
@@ -12,15 +11,17 @@ import java.util.stream.IntStream;
  * independently and combine partials in block order, so results are bit-identical whatever the
  * number of threads (and equal to the serial path, which uses the same blocks).
  *
- * <p>Speed: innermost loops are unit-stride over a
- * {@code double[]} so that the JIT vectorises them; outer loops are blocked so that each output
- * element is loaded and stored once per eight inputs ({@link #multiplyRows},
- * {@link #crossProduct}).
+ * <p>Speed: the innermost loops of {@link #multiplyRows} and {@link #crossProduct} are those of
+ * the active {@link KernelPath} (plain Java by default; explicit SIMD vectors when the JVM runs
+ * with the incubating vector module). Within one path, results do not depend on the number of
+ * threads.
  */
 public final class Kernels {
     /** Rows per block in blocked kernels. */
     public static final int BLOCK = 4096;
     private static final long PARALLEL_WORK = 1L << 18;
+    /** The implementation of the hot inner loops, chosen once (see {@link KernelPath}). */
+    private static final KernelPath PATH = KernelPath.active();
 
     private Kernels() {
     }
@@ -46,8 +47,6 @@ public final class Kernels {
 
     /** Rows per parallel block in {@link #multiply}. */
     private static final int MULT_ROWS = 32;
-    /** Output columns per tile: a k × TILE slice of B stays in the L1 cache while a row block uses it. */
-    private static final int TILE = 256;
 
     /**
      * out (n × m) = A (n × k) · B where B is given row-major k × m (row j = j-th row of B).
@@ -65,46 +64,12 @@ public final class Kernels {
     }
 
     /**
-     * Serial kernel: out[outOff + i·m + q] = Σ_j a[aOff + i·k + j] b[j·m + q] for i &lt; rows. Output
-     * columns are tiled so that the slice of B in use stays in cache, and eight rows of B are
-     * combined per pass so that each output element is loaded and stored k/8 times; the innermost
-     * loop is unit-stride over the tile (auto-vectorised by C2).
+     * Serial kernel: out[outOff + i·m + q] = Σ_j a[aOff + i·k + j] b[j·m + q] for i &lt; rows, by the
+     * active {@link KernelPath} (output columns tiled so that the slice of B in use stays in cache).
      */
     public static void multiplyRows(double[] a, int aOff, int rows, int k, double[] b, int m, double[] out,
             int outOff) {
-        for (int q0 = 0; q0 < m; q0 += TILE) {
-            int q1 = Math.min(m, q0 + TILE);
-            for (int i = 0; i < rows; i++) {
-                int ai = aOff + i * k;
-                int o = outOff + i * m;
-                Arrays.fill(out, o + q0, o + q1, 0.0);
-                int j = 0;
-                for (; j + 8 <= k; j += 8) {
-                    double c0 = a[ai + j], c1 = a[ai + j + 1], c2 = a[ai + j + 2], c3 = a[ai + j + 3];
-                    double c4 = a[ai + j + 4], c5 = a[ai + j + 5], c6 = a[ai + j + 6], c7 = a[ai + j + 7];
-                    int b0 = j * m, b1 = b0 + m, b2 = b1 + m, b3 = b2 + m, b4 = b3 + m, b5 = b4 + m, b6 = b5 + m,
-                            b7 = b6 + m;
-                    for (int q = q0; q < q1; q++) {
-                        out[o + q] += c0 * b[b0 + q] + c1 * b[b1 + q] + c2 * b[b2 + q] + c3 * b[b3 + q]
-                                + c4 * b[b4 + q] + c5 * b[b5 + q] + c6 * b[b6 + q] + c7 * b[b7 + q];
-                    }
-                }
-                for (; j + 4 <= k; j += 4) {
-                    double c0 = a[ai + j], c1 = a[ai + j + 1], c2 = a[ai + j + 2], c3 = a[ai + j + 3];
-                    int b0 = j * m, b1 = b0 + m, b2 = b1 + m, b3 = b2 + m;
-                    for (int q = q0; q < q1; q++) {
-                        out[o + q] += c0 * b[b0 + q] + c1 * b[b1 + q] + c2 * b[b2 + q] + c3 * b[b3 + q];
-                    }
-                }
-                for (; j < k; j++) {
-                    double c0 = a[ai + j];
-                    int b0 = j * m;
-                    for (int q = q0; q < q1; q++) {
-                        out[o + q] += c0 * b[b0 + q];
-                    }
-                }
-            }
-        }
+        PATH.multiplyRows(a, aOff, rows, k, b, m, out, outOff);
     }
 
     /**
@@ -153,10 +118,8 @@ public final class Kernels {
     /**
      * Cross-product matrix Σ_i (a_i − c)(a_i − c)ᵀ (k × k, row-major, symmetric) of the rows of A
      * about a centre c (null for none), in fixed blocks of {@link #BLOCK} rows combined in order.
-     * Within a block eight (centred) rows are folded into the matrix per pass, so each entry is
-     * loaded and stored once per eight rows; the innermost loop runs unit-stride over the upper
-     * part (l ≥ j) of a row, and the lower triangle is a copy of the upper, so the result is
-     * exactly symmetric.
+     * Each block's upper triangle is summed by the active {@link KernelPath}; the lower triangle is a
+     * copy of the upper, so the result is exactly symmetric.
      */
     public static double[] crossProduct(double[] a, int n, int k, double[] center, boolean parallel) {
         return crossProductOfRows(a, k, null, 0, n, center, parallel);
@@ -174,11 +137,8 @@ public final class Kernels {
         double[][] partial = new double[blocks][];
         forEachBlock(blocks, parallel && parallelWorth((long) n * k * k), blk -> {
             double[] s = new double[k * k];
-            double[] r = new double[8 * k];
             int r0 = from + blk * BLOCK, r1 = Math.min(to, r0 + BLOCK);
-            for (int i = r0; i < r1; i += 8) {
-                addEightRows(a, k, rows, i, Math.min(8, r1 - i), center, r, s);
-            }
+            PATH.addCrossProduct(a, k, rows, r0, r1, center, s);
             partial[blk] = s;
         });
         double[] sum = new double[k * k];
@@ -193,28 +153,6 @@ public final class Kernels {
             }
         }
         return sum;
-    }
-
-    /** Folds up to eight (centred) rows, positions i..i+count−1 of the row list, into the upper triangle of s. */
-    private static void addEightRows(double[] a, int k, int[] rows, int i, int count, double[] center, double[] r,
-            double[] s) {
-        for (int t = 0; t < 8; t++) {
-            int o = t >= count ? 0 : (rows == null ? i + t : rows[i + t]) * k;
-            for (int j = 0; j < k; j++) {
-                r[t * k + j] = t >= count ? 0.0 : center == null ? a[o + j] : a[o + j] - center[j];
-            }
-        }
-        int k1 = k, k2 = 2 * k, k3 = 3 * k, k4 = 4 * k, k5 = 5 * k, k6 = 6 * k, k7 = 7 * k;
-        for (int j = 0; j < k; j++) {
-            double x0 = r[j], x1 = r[k1 + j], x2 = r[k2 + j], x3 = r[k3 + j];
-            double x4 = r[k4 + j], x5 = r[k5 + j], x6 = r[k6 + j], x7 = r[k7 + j];
-            int so = j * k;
-            // upper triangle only (l ≥ j): half the arithmetic; mirrored after the sum
-            for (int l = j; l < k; l++) {
-                s[so + l] += x0 * r[l] + x1 * r[k1 + l] + x2 * r[k2 + l] + x3 * r[k3 + l]
-                        + x4 * r[k4 + l] + x5 * r[k5 + l] + x6 * r[k6 + l] + x7 * r[k7 + l];
-            }
-        }
     }
 
     /**

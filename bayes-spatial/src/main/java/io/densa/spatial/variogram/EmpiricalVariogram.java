@@ -159,11 +159,21 @@ public final class EmpiricalVariogram {
         for (int i = 0; i < y.length; i++) {
             y[i] *= yInv;
         }
-        double[] nsq = Kernels.rowNormsSq(y, n, k);
+        // the pass visits the locations in Z order (Morton 1966), so that each block of 256 is
+        // compact in space and whole blocks beyond the largest lag from a location are skipped;
+        // the pairs and bins are the same, only the order of the sums changes
+        int[] order = zOrder(p, n, dim);
+        double[] pz = new double[n * dim];
+        double[] yz = new double[n * k];
+        for (int i = 0; i < n; i++) {
+            System.arraycopy(p, order[i] * dim, pz, i * dim, dim);
+            System.arraycopy(y, order[i] * k, yz, i * k, k);
+        }
+        double[] nsq = Kernels.rowNormsSq(yz, n, k);
         double[] yt = new double[k * n];
         for (int i = 0; i < n; i++) {
             for (int c = 0; c < k; c++) {
-                yt[c * n + i] = y[i * k + c];
+                yt[c * n + i] = yz[i * k + c];
             }
         }
         double[] dcos = new double[ns];
@@ -181,9 +191,48 @@ public final class EmpiricalVariogram {
         // maximum lag): bin b = ⌈h/w⌉ − 1 holds (e_b, e_{b+1}] like the general search
         double invWidth = uniform ? 1 / (e[1] - e[0]) : nearlyEqualSpacing(e) ? (e.length - 1) / (e[e.length - 1] - e[0]) : 0;
         int tiles = (n + ITILE - 1) / ITILE;
-        VariogramPass pass = new VariogramPass(n, k, y, yt, nsq, p, geo, max2, e, uniform, invWidth, ns, dcos, dsin, cosTol,
+        VariogramPass pass = new VariogramPass(n, k, yz, yt, nsq, pz, geo, max2, e, uniform, invWidth, ns, dcos, dsin, cosTol,
                 dirs != null);
         return new Prepared(pass, n, k, e, dirs, yScale, y, tiles);
+    }
+
+    /**
+     * The locations' indices sorted by their Z-order (Morton) key: each of the dim coordinates of
+     * p (n × dim) scaled to 21-bit integers over its range and the bits interleaved; ties keep
+     * the input order, so the order is a function of the coordinates alone.
+     */
+    static int[] zOrder(double[] p, int n, int dim) {
+        double[] lo = new double[dim];
+        double[] scale = new double[dim];
+        for (int c = 0; c < dim; c++) {
+            double mn = Double.POSITIVE_INFINITY, mx = Double.NEGATIVE_INFINITY;
+            for (int i = 0; i < n; i++) {
+                mn = Math.min(mn, p[i * dim + c]);
+                mx = Math.max(mx, p[i * dim + c]);
+            }
+            lo[c] = mn;
+            double range = mx - mn;
+            scale[c] = range > 0 && Double.isFinite(range) ? ((1 << 21) - 1) / range : 0;
+        }
+        long[] keys = new long[n];
+        Integer[] idx = new Integer[n];
+        for (int i = 0; i < n; i++) {
+            long key = 0;
+            for (int c = 0; c < dim; c++) {
+                long v = (long) Math.min((1 << 21) - 1, Math.max(0, (p[i * dim + c] - lo[c]) * scale[c]));
+                for (int bit = 0; bit < 21; bit++) {
+                    key |= ((v >>> bit) & 1L) << (bit * dim + c);
+                }
+            }
+            keys[i] = key;
+            idx[i] = i;
+        }
+        java.util.Arrays.sort(idx, (a, b) -> keys[a] != keys[b] ? Long.compare(keys[a], keys[b]) : Integer.compare(a, b));
+        int[] out = new int[n];
+        for (int i = 0; i < n; i++) {
+            out[i] = idx[i];
+        }
+        return out;
     }
 
     /**

@@ -1,14 +1,15 @@
 package io.densa.spatial.variogram;
 
+import io.densa.core.internal.KernelPath;
 import io.densa.spatial.Locations;
 import io.densa.spatial.internal.GreatCircle;
 import io.densa.spatial.internal.Scaling;
-import java.util.Arrays;
 
 /** One estimation pass of {@link EmpiricalVariogram}: the inputs shared by all tiles (read-only; package-private). */
 final class VariogramPass {
     private static final int JTILE = 256;
     private static final int LANES = 4;
+    private static final KernelPath PATH = KernelPath.active();
 
     /** Per-tile bin totals: sums of squared B2 distances, sums of lags, pair counts. */
     record TileSums(double[] gamma, double[] lag, long[] count) {
@@ -60,79 +61,135 @@ final class VariogramPass {
     TileSums tile(int i0, int i1) {
         // LANES interleaved accumulator copies break the store-to-load dependency chains when
         // consecutive pairs fall in the same bin; copies are combined in fixed order below
-        double[] sg = new double[LANES * stride];
-        double[] sh = new double[LANES * stride];
-        long[] sc = new long[LANES * stride];
+        // each copy has one extra slot (index stride) that collects the pairs out of range in the
+        // branch-free loop (never read)
+        int lw = stride + 1;
+        double[] sg = new double[LANES * lw];
+        double[] sh = new double[LANES * lw];
+        long[] sc = new long[LANES * lw];
         double[] da = new double[JTILE];
         double[] db = new double[JTILE];
+        int dim = geo ? 3 : 2;
+        double[] box = new double[2 * dim];
         for (int j0 = i0; j0 < n; j0 += JTILE) {
             int j1 = Math.min(n, j0 + JTILE);
+            boundingBox(j0, j1, box);
             for (int i = i0; i < i1; i += 2) {
                 boolean two = i + 1 < i1;
                 int js = Math.max(j0, i + 1);
                 if (js >= j1) {
                     continue;
                 }
-                int len = j1 - js;
-                dots(i, two, js, len, da, db);
-                pairs(i, js, len, da, 0, sg, sh, sc);
-                if (two) {
+                // rows farther than the largest lag from every location of the block have no pair in it
+                boolean nearA = near(i, box);
+                boolean nearB = two && near(i + 1, box);
+                if (nearA && nearB) {
+                    int len = j1 - js;
+                    dots(i, true, js, len, da, db);
+                    bin(i, js, len, da, 0, sg, sh, sc);
                     int js2 = Math.max(j0, i + 2);
                     if (js2 < j1) {
-                        pairs(i + 1, js2, j1 - js2, db, js2 - js, sg, sh, sc);
+                        bin(i + 1, js2, j1 - js2, db, js2 - js, sg, sh, sc);
+                    }
+                } else if (nearA || nearB) {
+                    int r = nearA ? i : i + 1;
+                    int jr = Math.max(j0, r + 1);
+                    if (jr < j1) {
+                        dots(r, false, jr, j1 - jr, da, db);
+                        bin(r, jr, j1 - jr, da, 0, sg, sh, sc);
                     }
                 }
             }
         }
         for (int l = 1; l < LANES; l++) {
             for (int o = 0; o < stride; o++) {
-                sg[o] += sg[l * stride + o];
-                sh[o] += sh[l * stride + o];
-                sc[o] += sc[l * stride + o];
+                sg[o] += sg[l * lw + o];
+                sh[o] += sh[l * lw + o];
+                sc[o] += sc[l * lw + o];
             }
         }
         return new TileSums(sg, sh, sc);
     }
 
+    /** The smallest and largest coordinates (box[0..dim) and box[dim..2 dim)) of the locations j0..j1−1. */
+    private void boundingBox(int j0, int j1, double[] box) {
+        int dim = box.length / 2;
+        for (int c = 0; c < dim; c++) {
+            box[c] = Double.POSITIVE_INFINITY;
+            box[dim + c] = Double.NEGATIVE_INFINITY;
+        }
+        for (int j = j0; j < j1; j++) {
+            for (int c = 0; c < dim; c++) {
+                double v = p[dim * j + c];
+                box[c] = Math.min(box[c], v);
+                box[dim + c] = Math.max(box[dim + c], v);
+            }
+        }
+    }
+
     /**
-     * da[q] = y_i · y_{js+q} (and db for row i + 1), q &lt; len: four coordinates per sweep and
-     * two rows sharing each load, so each pass over da/db carries eight multiply-adds per element.
+     * Whether location i may lie within the largest lag of some location in the box: the squared
+     * distance from p_i to the box (a lower bound of the squared spatial or chord distance to each
+     * location in it) does not exceed the prefilter bound max2, which every pair that is binned
+     * satisfies. A conservative test: it never drops a pair that the bins would keep.
      */
+    private boolean near(int i, double[] box) {
+        int dim = box.length / 2;
+        double d2 = 0;
+        for (int c = 0; c < dim; c++) {
+            double v = p[dim * i + c];
+            double gap = Math.max(0, Math.max(box[c] - v, v - box[dim + c]));
+            d2 += gap * gap;
+        }
+        return !(d2 > max2);
+    }
+
+    /** da[q] = y_i · y_{js+q} (and db for row i + 1), q &lt; len, by the active {@link KernelPath}. */
     private void dots(int i, boolean two, int js, int len, double[] da, double[] db) {
-        Arrays.fill(da, 0, len, 0.0);
-        if (two) {
-            Arrays.fill(db, 0, len, 0.0);
+        PATH.rowDots(y, yt, n, k, i, two ? i + 1 : -1, js, len, da, db);
+    }
+
+    private void bin(int i, int js, int len, double[] dot, int dotOff, double[] sg, double[] sh, long[] sc) {
+        if (!geo && uniform && !directional) {
+            pairsPlanarUniform(i, js, len, dot, dotOff, sg, sh, sc);
+        } else {
+            pairs(i, js, len, dot, dotOff, sg, sh, sc);
         }
-        int ia = i * k, ib = (i + 1) * k;
-        int c = 0;
-        for (; c + 3 < k; c += 4) {
-            double a0 = y[ia + c], a1 = y[ia + c + 1], a2 = y[ia + c + 2], a3 = y[ia + c + 3];
-            int o0 = c * n + js, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
-            if (two) {
-                double b0 = y[ib + c], b1 = y[ib + c + 1], b2 = y[ib + c + 2], b3 = y[ib + c + 3];
-                for (int q = 0; q < len; q++) {
-                    double y0 = yt[o0 + q], y1 = yt[o1 + q], y2 = yt[o2 + q], y3 = yt[o3 + q];
-                    da[q] += a0 * y0 + a1 * y1 + a2 * y2 + a3 * y3;
-                    db[q] += b0 * y0 + b1 * y1 + b2 * y2 + b3 * y3;
-                }
-            } else {
-                for (int q = 0; q < len; q++) {
-                    da[q] += a0 * yt[o0 + q] + a1 * yt[o1 + q] + a2 * yt[o2 + q] + a3 * yt[o3 + q];
-                }
+    }
+
+    /**
+     * {@link #pairs} for the common case (planar, equal-width bins, all directions) without
+     * data-dependent branches: a pair out of range goes to the extra slot of its accumulator copy
+     * instead of being skipped, so the loop does not pay a mispredicted branch for the roughly half
+     * of all pairs that lie beyond the largest lag. Same arithmetic, same bins, same sums.
+     */
+    private void pairsPlanarUniform(int i, int js, int len, double[] dot, int dotOff, double[] sg, double[] sh,
+            long[] sc) {
+        double ni = nsq[i];
+        double xi = p[2 * i], yi = p[2 * i + 1];
+        double top = e[nb];
+        int lw = stride + 1;
+        int last = nb - 1;
+        for (int q = 0; q < len; q++) {
+            int j = js + q;
+            double dx = p[2 * j] - xi;
+            double dy = p[2 * j + 1] - yi;
+            double d2 = dx * dx + dy * dy;
+            double h = Math.sqrt(d2);
+            if (!(d2 <= 0x1p960 && d2 >= 0x1p-960)) {
+                h = Scaling.planarNorm(dx, dy); // outside the plain square root's safe range (rare)
             }
-        }
-        for (; c < k; c++) {
-            double a = y[ia + c];
-            double b = two ? y[ib + c] : 0;
-            int o = c * n + js;
-            for (int q = 0; q < len; q++) {
-                da[q] += a * yt[o + q];
-            }
-            if (two) {
-                for (int q = 0; q < len; q++) {
-                    db[q] += b * yt[o + q];
-                }
-            }
+            // ⌈x⌉ − 1 for x = h/width ≥ 0 without Math.ceil: truncation, minus one on an exact integer
+            double x = h * invWidth;
+            int t = (int) x;
+            int b = Math.max(0, Math.min(last, (double) t == x ? t - 1 : t));
+            b = d2 > max2 || h > top ? stride : b;
+            double g = ni + nsq[j] - 2 * dot[dotOff + q];
+            g = g < 0 ? 0 : g;
+            int o = (q & (LANES - 1)) * lw + b;
+            sg[o] += g;
+            sh[o] += h;
+            sc[o]++;
         }
     }
 
@@ -170,7 +227,7 @@ final class VariogramPass {
             if (g < 0) {
                 g = 0;
             }
-            int lane = (q & (LANES - 1)) * stride;
+            int lane = (q & (LANES - 1)) * (stride + 1);
             if (!directional) {
                 sg[lane + b] += g;
                 sh[lane + b] += h;

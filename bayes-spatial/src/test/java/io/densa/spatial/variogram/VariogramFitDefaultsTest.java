@@ -165,9 +165,10 @@ class VariogramFitDefaultsTest {
     void whenBobyqaFailsTheFitContinuesAndSaysSo() {
         // inputs on which Commons Math's BOBYQA throws MathIllegalStateException ("trust region step
         // has failed to reduce Q"), found by a seeded sweep of the generator above (Matérn: seed 73
-        // since the Matérn range is a practical range)
-        Object[][] cases = {{2L, VariogramModel.Family.EXPONENTIAL}, {70L, VariogramModel.Family.POWER},
-            {121L, VariogramModel.Family.GAUSSIAN}, {144L, VariogramModel.Family.SPHERICAL},
+        // since the Matérn range is a practical range; re-swept when the variogram pass began summing
+        // its pairs in Z order, which moves the estimates in their last digits)
+        Object[][] cases = {{2L, VariogramModel.Family.EXPONENTIAL}, {111L, VariogramModel.Family.POWER},
+            {94L, VariogramModel.Family.GAUSSIAN}, {144L, VariogramModel.Family.SPHERICAL},
             {73L, VariogramModel.Family.MATERN}};
         for (Object[] cs : cases) {
             EmpiricalVariogram ev = stepSpaceVariogram((Long) cs[0]);

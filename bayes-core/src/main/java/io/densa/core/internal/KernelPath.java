@@ -1,0 +1,85 @@
+package io.densa.core.internal;
+
+import java.util.Locale;
+
+/**
+ * The few hot inner kernels of {@link Kernels} and of the variogram pass, in two implementations:
+ * {@link ScalarPath} (plain Java, vectorised by the JIT where it can) and, only when the JVM was
+ * started with the incubating vector module ({@code --add-modules jdk.incubator.vector}), a path
+ * written with explicit SIMD vectors ({@code VectorPath}). Internal.
+ *
+ * <p>The choice is made once, when this class is initialised: the vector path when the module is
+ * in the boot layer, its preferred vector holds at least four doubles and the system property
+ * {@code densa.vector} is not {@code false}; the scalar path otherwise. The vector class is loaded
+ * by name only in the first case, so users who add no flag never link against the incubating
+ * module and get exactly the scalar arithmetic. The two paths compute the same sums with the same
+ * blocking but may round differently (fused multiply-add, another order inside a block); they
+ * agree to about 1e-14 relative on sums of products (checked by KernelPathTest, run in a second
+ * test execution with the flag).
+ */
+public abstract class KernelPath {
+    private static final KernelPath SCALAR = new ScalarPath();
+    private static final KernelPath VECTOR = loadVector();
+    private static final KernelPath ACTIVE =
+            VECTOR != null && !"false".equalsIgnoreCase(System.getProperty("densa.vector", "")) ? VECTOR : SCALAR;
+
+    KernelPath() {
+    }
+
+    /** The path in use. */
+    public static KernelPath active() {
+        return ACTIVE;
+    }
+
+    /** The plain-Java path. */
+    public static KernelPath scalar() {
+        return SCALAR;
+    }
+
+    /** The SIMD path when the JVM offers it (null otherwise), whatever {@code densa.vector} says. */
+    public static KernelPath vector() {
+        return VECTOR;
+    }
+
+    private static KernelPath loadVector() {
+        if (ModuleLayer.boot().findModule("jdk.incubator.vector").isEmpty()) {
+            return null;
+        }
+        try {
+            KernelPath p = (KernelPath) Class.forName("io.densa.core.internal.VectorPath")
+                    .getDeclaredConstructor().newInstance();
+            return p.lanes() >= 4 ? p : null;
+        } catch (ReflectiveOperationException | LinkageError | SecurityException e) {
+            return null;
+        }
+    }
+
+    /** Doubles per SIMD vector (1 for the scalar path). */
+    public abstract int lanes();
+
+    /** A short description for benchmark output, e.g. "vector (8 doubles)". */
+    public String describe() {
+        return lanes() == 1 ? "scalar" : String.format(Locale.ROOT, "vector (%d doubles)", lanes());
+    }
+
+    /**
+     * Adds Σ_i (a_i − c)(a_i − c)ᵀ over the rows {@code rows[r0..r1)} of A (k columns; the rows
+     * r0..r1−1 themselves when {@code rows} is null; c = 0 when {@code center} is null) to the
+     * upper triangle (l ≥ j) of s (k × k row-major); the lower triangle is left undefined.
+     */
+    public abstract void addCrossProduct(double[] a, int k, int[] rows, int r0, int r1, double[] center, double[] s);
+
+    /**
+     * out[outOff + i·m + q] = Σ_j a[aOff + i·k + j] b[j·m + q] for i &lt; rows, q &lt; m (B row-major
+     * k × m; out overwritten, must not alias a or b).
+     */
+    public abstract void multiplyRows(double[] a, int aOff, int rows, int k, double[] b, int m, double[] out,
+            int outOff);
+
+    /**
+     * da[q] = Σ_c y[ia·k + c] yt[c·n + js + q] for q &lt; len (row ia of Y against the columns
+     * js..js+len−1 of Yᵀ, stored k × n), and the same for row ib into db when ib ≥ 0.
+     */
+    public abstract void rowDots(double[] y, double[] yt, int n, int k, int ia, int ib, int js, int len, double[] da,
+            double[] db);
+}

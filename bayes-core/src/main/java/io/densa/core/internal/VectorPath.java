@@ -1,0 +1,222 @@
+package io.densa.core.internal;
+
+import jdk.incubator.vector.DoubleVector;
+import jdk.incubator.vector.VectorOperators;
+import jdk.incubator.vector.VectorSpecies;
+
+/**
+ * The kernels of {@link KernelPath} written with the incubating SIMD vectors of
+ * {@code jdk.incubator.vector} (loaded by name, only when the JVM runs with that module; never
+ * referenced otherwise). Register-blocked: each kernel keeps a small tile of its output in vector
+ * registers across the whole inner loop and combines one vector load with several fused
+ * multiply-adds, which the auto-vectoriser does not do for these loop shapes.
+ */
+final class VectorPath extends KernelPath {
+    private static final VectorSpecies<Double> S = DoubleVector.SPECIES_PREFERRED;
+    private static final int L = S.length();
+    /** Rows gathered per pass of the cross product (64 KB at k = 32, so they stay in the L2 cache). */
+    private static final int SUB = 256;
+
+    @Override
+    public int lanes() {
+        return L;
+    }
+
+    /**
+     * The (centred) rows are gathered SUB at a time into a buffer padded to a multiple of the
+     * vector length; the padded upper triangle is accumulated four matrix rows at a time (four
+     * accumulators per column vector, one load and four broadcasts per data row), then added to s.
+     */
+    @Override
+    public void addCrossProduct(double[] a, int k, int[] rows, int r0, int r1, double[] center, double[] s) {
+        int kp = (k + L - 1) / L * L;
+        double[] buf = new double[SUB * kp];
+        double[] acc = new double[kp * kp];
+        for (int i0 = r0; i0 < r1; i0 += SUB) {
+            int cnt = Math.min(SUB, r1 - i0);
+            for (int t = 0; t < cnt; t++) {
+                int o = (rows == null ? i0 + t : rows[i0 + t]) * k;
+                int bo = t * kp;
+                if (center == null) {
+                    System.arraycopy(a, o, buf, bo, k);
+                } else {
+                    for (int j = 0; j < k; j++) {
+                        buf[bo + j] = a[o + j] - center[j];
+                    }
+                }
+            }
+            for (int j0 = 0; j0 < k; j0 += 4) {
+                int a0 = j0 * kp, a1 = a0 + kp, a2 = a1 + kp, a3 = a2 + kp;
+                for (int v = j0 / L * L; v < kp; v += L) {
+                    DoubleVector c0 = DoubleVector.fromArray(S, acc, a0 + v);
+                    DoubleVector c1 = DoubleVector.fromArray(S, acc, a1 + v);
+                    DoubleVector c2 = DoubleVector.fromArray(S, acc, a2 + v);
+                    DoubleVector c3 = DoubleVector.fromArray(S, acc, a3 + v);
+                    for (int t = 0, bo = 0; t < cnt; t++, bo += kp) {
+                        DoubleVector x = DoubleVector.fromArray(S, buf, bo + v);
+                        c0 = x.lanewise(VectorOperators.FMA, buf[bo + j0], c0);
+                        c1 = x.lanewise(VectorOperators.FMA, buf[bo + j0 + 1], c1);
+                        c2 = x.lanewise(VectorOperators.FMA, buf[bo + j0 + 2], c2);
+                        c3 = x.lanewise(VectorOperators.FMA, buf[bo + j0 + 3], c3);
+                    }
+                    c0.intoArray(acc, a0 + v);
+                    c1.intoArray(acc, a1 + v);
+                    c2.intoArray(acc, a2 + v);
+                    c3.intoArray(acc, a3 + v);
+                }
+            }
+        }
+        for (int j = 0; j < k; j++) {
+            for (int l = j; l < k; l++) {
+                s[j * k + l] += acc[j * kp + l];
+            }
+        }
+    }
+
+    /**
+     * Two output rows and four column vectors per tile (eight accumulators; per term four loads of
+     * B and two broadcasts of A feed eight fused multiply-adds); remaining columns one vector at a
+     * time, then scalar.
+     */
+    @Override
+    public void multiplyRows(double[] a, int aOff, int rows, int k, double[] b, int m, double[] out, int outOff) {
+        int w4 = 4 * L;
+        int mv = m / L * L;
+        int i = 0;
+        for (; i + 2 <= rows; i += 2) {
+            int ai = aOff + i * k, aj = ai + k;
+            int o = outOff + i * m, o2 = o + m;
+            int q = 0;
+            for (; q + w4 <= mv; q += w4) {
+                DoubleVector x0 = DoubleVector.zero(S), x1 = x0, x2 = x0, x3 = x0;
+                DoubleVector y0 = x0, y1 = x0, y2 = x0, y3 = x0;
+                for (int j = 0, bj = q; j < k; j++, bj += m) {
+                    DoubleVector b0 = DoubleVector.fromArray(S, b, bj);
+                    DoubleVector b1 = DoubleVector.fromArray(S, b, bj + L);
+                    DoubleVector b2 = DoubleVector.fromArray(S, b, bj + 2 * L);
+                    DoubleVector b3 = DoubleVector.fromArray(S, b, bj + 3 * L);
+                    double p = a[ai + j], r = a[aj + j];
+                    x0 = b0.lanewise(VectorOperators.FMA, p, x0);
+                    x1 = b1.lanewise(VectorOperators.FMA, p, x1);
+                    x2 = b2.lanewise(VectorOperators.FMA, p, x2);
+                    x3 = b3.lanewise(VectorOperators.FMA, p, x3);
+                    y0 = b0.lanewise(VectorOperators.FMA, r, y0);
+                    y1 = b1.lanewise(VectorOperators.FMA, r, y1);
+                    y2 = b2.lanewise(VectorOperators.FMA, r, y2);
+                    y3 = b3.lanewise(VectorOperators.FMA, r, y3);
+                }
+                x0.intoArray(out, o + q);
+                x1.intoArray(out, o + q + L);
+                x2.intoArray(out, o + q + 2 * L);
+                x3.intoArray(out, o + q + 3 * L);
+                y0.intoArray(out, o2 + q);
+                y1.intoArray(out, o2 + q + L);
+                y2.intoArray(out, o2 + q + 2 * L);
+                y3.intoArray(out, o2 + q + 3 * L);
+            }
+            for (; q < mv; q += L) {
+                DoubleVector x0 = DoubleVector.zero(S), y0 = x0;
+                for (int j = 0, bj = q; j < k; j++, bj += m) {
+                    DoubleVector b0 = DoubleVector.fromArray(S, b, bj);
+                    x0 = b0.lanewise(VectorOperators.FMA, a[ai + j], x0);
+                    y0 = b0.lanewise(VectorOperators.FMA, a[aj + j], y0);
+                }
+                x0.intoArray(out, o + q);
+                y0.intoArray(out, o2 + q);
+            }
+            scalarColumns(a, ai, k, b, m, mv, out, o);
+            scalarColumns(a, aj, k, b, m, mv, out, o2);
+        }
+        for (; i < rows; i++) {
+            int ai = aOff + i * k;
+            int o = outOff + i * m;
+            int q = 0;
+            for (; q < mv; q += L) {
+                DoubleVector x0 = DoubleVector.zero(S);
+                for (int j = 0, bj = q; j < k; j++, bj += m) {
+                    x0 = DoubleVector.fromArray(S, b, bj).lanewise(VectorOperators.FMA, a[ai + j], x0);
+                }
+                x0.intoArray(out, o + q);
+            }
+            scalarColumns(a, ai, k, b, m, mv, out, o);
+        }
+    }
+
+    /** out[o + q] = Σ_j a[ai + j] b[j·m + q] for q in [from, m). */
+    private static void scalarColumns(double[] a, int ai, int k, double[] b, int m, int from, double[] out, int o) {
+        for (int q = from; q < m; q++) {
+            double sum = 0;
+            for (int j = 0; j < k; j++) {
+                sum = Math.fma(a[ai + j], b[j * m + q], sum);
+            }
+            out[o + q] = sum;
+        }
+    }
+
+    /**
+     * Four column vectors per tile and both rows at once (eight accumulators; per coordinate four
+     * loads of Yᵀ and two broadcasts feed eight fused multiply-adds); the rest one vector, then
+     * scalar.
+     */
+    @Override
+    public void rowDots(double[] y, double[] yt, int n, int k, int ia, int ib, int js, int len, double[] da,
+            double[] db) {
+        boolean two = ib >= 0;
+        int oa = ia * k, ob = two ? ib * k : oa;
+        int lv = len / L * L;
+        int w4 = 4 * L;
+        int q = 0;
+        for (; q + w4 <= lv; q += w4) {
+            DoubleVector x0 = DoubleVector.zero(S), x1 = x0, x2 = x0, x3 = x0;
+            DoubleVector z0 = x0, z1 = x0, z2 = x0, z3 = x0;
+            for (int c = 0, o = js + q; c < k; c++, o += n) {
+                DoubleVector v0 = DoubleVector.fromArray(S, yt, o);
+                DoubleVector v1 = DoubleVector.fromArray(S, yt, o + L);
+                DoubleVector v2 = DoubleVector.fromArray(S, yt, o + 2 * L);
+                DoubleVector v3 = DoubleVector.fromArray(S, yt, o + 3 * L);
+                double p = y[oa + c], r = y[ob + c];
+                x0 = v0.lanewise(VectorOperators.FMA, p, x0);
+                x1 = v1.lanewise(VectorOperators.FMA, p, x1);
+                x2 = v2.lanewise(VectorOperators.FMA, p, x2);
+                x3 = v3.lanewise(VectorOperators.FMA, p, x3);
+                z0 = v0.lanewise(VectorOperators.FMA, r, z0);
+                z1 = v1.lanewise(VectorOperators.FMA, r, z1);
+                z2 = v2.lanewise(VectorOperators.FMA, r, z2);
+                z3 = v3.lanewise(VectorOperators.FMA, r, z3);
+            }
+            x0.intoArray(da, q);
+            x1.intoArray(da, q + L);
+            x2.intoArray(da, q + 2 * L);
+            x3.intoArray(da, q + 3 * L);
+            if (two) {
+                z0.intoArray(db, q);
+                z1.intoArray(db, q + L);
+                z2.intoArray(db, q + 2 * L);
+                z3.intoArray(db, q + 3 * L);
+            }
+        }
+        for (; q < lv; q += L) {
+            DoubleVector x0 = DoubleVector.zero(S), z0 = x0;
+            for (int c = 0, o = js + q; c < k; c++, o += n) {
+                DoubleVector v0 = DoubleVector.fromArray(S, yt, o);
+                x0 = v0.lanewise(VectorOperators.FMA, y[oa + c], x0);
+                z0 = v0.lanewise(VectorOperators.FMA, y[ob + c], z0);
+            }
+            x0.intoArray(da, q);
+            if (two) {
+                z0.intoArray(db, q);
+            }
+        }
+        for (; q < len; q++) {
+            double sa = 0, sb = 0;
+            for (int c = 0, o = js + q; c < k; c++, o += n) {
+                sa = Math.fma(y[oa + c], yt[o], sa);
+                sb = Math.fma(y[ob + c], yt[o], sb);
+            }
+            da[q] = sa;
+            if (two) {
+                db[q] = sb;
+            }
+        }
+    }
+}

@@ -1,0 +1,202 @@
+package io.densa.core.internal;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertNotNull;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.util.Random;
+import org.ejml.data.DMatrixRMaj;
+import org.ejml.dense.row.CommonOps_DDRM;
+import org.junit.jupiter.api.Assumptions;
+import org.junit.jupiter.api.Test;
+
+/**
+ * Both kernel paths against EJML's general dense products (CommonOps_DDRM.multTransA / mult, a
+ * general-purpose reference library) and against each other. The SIMD path exists only when the
+ * JVM runs with {@code --add-modules jdk.incubator.vector}; the build runs this module's tests a
+ * second time with that flag and {@code densa.vector.required=true}, where its absence fails.
+ */
+class KernelPathTest {
+    private static final int[] WIDTHS = {1, 3, 4, 7, 8, 9, 13, 16, 24, 31, 32, 33, 40};
+
+    private static KernelPath vectorPath() {
+        KernelPath v = KernelPath.vector();
+        if (Boolean.getBoolean("densa.vector.required")) {
+            assertNotNull(v, "densa.vector.required is set but the SIMD path did not load");
+        }
+        Assumptions.assumeTrue(v != null, "JVM without jdk.incubator.vector");
+        return v;
+    }
+
+    @Test
+    void activePathFollowsTheModuleAndTheSwitch() {
+        boolean module = ModuleLayer.boot().findModule("jdk.incubator.vector").isPresent();
+        if (!module) {
+            assertEquals(1, KernelPath.active().lanes());
+            assertEquals("scalar", KernelPath.active().describe());
+        } else if (!"false".equalsIgnoreCase(System.getProperty("densa.vector", ""))) {
+            assertTrue(KernelPath.active().lanes() >= 4, KernelPath.active().describe());
+        }
+        assertEquals(1, KernelPath.scalar().lanes());
+    }
+
+    /** Σ_i (a_i − c)(a_i − c)ᵀ by EJML: (A − 1cᵀ)ᵀ(A − 1cᵀ). */
+    private static double[] ejmlCross(double[] a, int k, int[] rows, int r0, int r1, double[] c) {
+        int n = r1 - r0;
+        DMatrixRMaj m = new DMatrixRMaj(n, k);
+        for (int t = 0; t < n; t++) {
+            int o = (rows == null ? r0 + t : rows[r0 + t]) * k;
+            for (int j = 0; j < k; j++) {
+                m.set(t, j, a[o + j] - (c == null ? 0 : c[j]));
+            }
+        }
+        DMatrixRMaj out = new DMatrixRMaj(k, k);
+        CommonOps_DDRM.multTransA(m, m, out);
+        return out.data;
+    }
+
+    private static void assertUpperClose(double[] expected, double[] actual, int k, double rel, String what) {
+        for (int j = 0; j < k; j++) {
+            for (int l = j; l < k; l++) {
+                double scale = Math.sqrt(Math.abs(expected[j * k + j] * expected[l * k + l])) + 1e-300;
+                assertEquals(expected[j * k + l], actual[j * k + l], rel * scale, what + " (" + j + "," + l + ")");
+            }
+        }
+    }
+
+    private static void checkCross(KernelPath path) {
+        Random rnd = new Random(11);
+        for (int k : WIDTHS) {
+            int n = 700;
+            double[] a = new double[n * k];
+            for (int i = 0; i < a.length; i++) {
+                a[i] = 3 + rnd.nextGaussian();
+            }
+            double[] c = new double[k];
+            for (int j = 0; j < k; j++) {
+                c[j] = 3 + 0.1 * rnd.nextGaussian();
+            }
+            int[] rows = new int[900];
+            for (int i = 0; i < rows.length; i++) {
+                rows[i] = rnd.nextInt(n);
+            }
+            double[] s = new double[k * k];
+            path.addCrossProduct(a, k, null, 5, 650, c, s);
+            assertUpperClose(ejmlCross(a, k, null, 5, 650, c), s, k, 1e-13, path.describe() + " k=" + k);
+            double[] s2 = new double[k * k];
+            path.addCrossProduct(a, k, rows, 17, 883, null, s2);
+            assertUpperClose(ejmlCross(a, k, rows, 17, 883, null), s2, k, 1e-13, path.describe() + " rows k=" + k);
+            // accumulates: a second call doubles the sums
+            path.addCrossProduct(a, k, rows, 17, 883, null, s2);
+            double[] twice = ejmlCross(a, k, rows, 17, 883, null);
+            for (int i = 0; i < twice.length; i++) {
+                twice[i] *= 2;
+            }
+            assertUpperClose(twice, s2, k, 1e-13, path.describe() + " accumulated k=" + k);
+        }
+    }
+
+    private static void checkMultiply(KernelPath path) {
+        Random rnd = new Random(12);
+        for (int k : WIDTHS) {
+            for (int m : new int[] {1, 5, 8, 31, 32, 33, 64, 70, 300}) {
+                int rows = 7;
+                double[] a = new double[3 + rows * k];
+                double[] b = new double[k * m];
+                for (int i = 0; i < a.length; i++) {
+                    a[i] = rnd.nextGaussian();
+                }
+                for (int i = 0; i < b.length; i++) {
+                    b[i] = rnd.nextGaussian();
+                }
+                double[] out = new double[2 + rows * m];
+                java.util.Arrays.fill(out, Double.NaN);
+                path.multiplyRows(a, 3, rows, k, b, m, out, 2);
+                DMatrixRMaj am = new DMatrixRMaj(rows, k);
+                System.arraycopy(a, 3, am.data, 0, rows * k);
+                DMatrixRMaj ref = new DMatrixRMaj(rows, m);
+                CommonOps_DDRM.mult(am, DMatrixRMaj.wrap(k, m, b), ref);
+                assertTrue(Double.isNaN(out[0]) && Double.isNaN(out[1]), "writes only its block");
+                for (int i = 0; i < rows * m; i++) {
+                    assertEquals(ref.data[i], out[2 + i], 1e-13 * Math.sqrt(k) * 4,
+                            path.describe() + " k=" + k + " m=" + m + " at " + i);
+                }
+            }
+        }
+    }
+
+    private static void checkRowDots(KernelPath path) {
+        Random rnd = new Random(13);
+        int n = 300;
+        for (int k : WIDTHS) {
+            double[] y = new double[n * k];
+            for (int i = 0; i < y.length; i++) {
+                y[i] = rnd.nextGaussian();
+            }
+            double[] yt = new double[k * n];
+            for (int i = 0; i < n; i++) {
+                for (int c = 0; c < k; c++) {
+                    yt[c * n + i] = y[i * k + c];
+                }
+            }
+            for (int len : new int[] {1, 7, 8, 31, 32, 33, 64, 100, 256}) {
+                int js = n - len - 3;
+                double[] da = new double[256];
+                double[] db = new double[256];
+                path.rowDots(y, yt, n, k, 4, 5, js, len, da, db);
+                double[] da1 = new double[256];
+                path.rowDots(y, yt, n, k, 4, -1, js, len, da1, null);
+                for (int q = 0; q < len; q++) {
+                    DMatrixRMaj yi = DMatrixRMaj.wrap(1, k, java.util.Arrays.copyOfRange(y, 4 * k, 5 * k));
+                    DMatrixRMaj yj = DMatrixRMaj.wrap(k, 1, java.util.Arrays.copyOfRange(y, (js + q) * k,
+                            (js + q + 1) * k));
+                    DMatrixRMaj yi2 = DMatrixRMaj.wrap(1, k, java.util.Arrays.copyOfRange(y, 5 * k, 6 * k));
+                    double ra = CommonOps_DDRM.dot(yi, DMatrixRMaj.wrap(1, k, yj.data));
+                    double rb = CommonOps_DDRM.dot(yi2, DMatrixRMaj.wrap(1, k, yj.data));
+                    String what = path.describe() + " k=" + k + " len=" + len + " q=" + q;
+                    assertEquals(ra, da[q], 1e-13 * k, what);
+                    assertEquals(rb, db[q], 1e-13 * k, what);
+                    assertEquals(da[q], da1[q], 0.0, "one row alone gives the same sums");
+                }
+            }
+        }
+    }
+
+    @Test
+    void scalarPathMatchesEjml() {
+        KernelPath p = KernelPath.scalar();
+        checkCross(p);
+        checkMultiply(p);
+        checkRowDots(p);
+    }
+
+    @Test
+    void vectorPathMatchesEjml() {
+        KernelPath p = vectorPath();
+        checkCross(p);
+        checkMultiply(p);
+        checkRowDots(p);
+    }
+
+    /** The agreement bound between the paths: 1e-12 relative on the sums of products. */
+    @Test
+    void pathsAgreeOnLargeSums() {
+        KernelPath v = vectorPath();
+        Random rnd = new Random(14);
+        int n = 20_000;
+        int k = 32;
+        double[] a = new double[n * k];
+        for (int i = 0; i < a.length; i++) {
+            a[i] = 5 + rnd.nextGaussian();
+        }
+        double[] mean = Kernels.columnSums(a, n, k, false);
+        for (int j = 0; j < k; j++) {
+            mean[j] /= n;
+        }
+        double[] s1 = new double[k * k];
+        double[] s2 = new double[k * k];
+        KernelPath.scalar().addCrossProduct(a, k, null, 0, n, mean, s1);
+        v.addCrossProduct(a, k, null, 0, n, mean, s2);
+        assertUpperClose(s1, s2, k, 1e-12, "scalar vs vector");
+    }
+}
