@@ -100,6 +100,24 @@ public final class Cholesky {
         }
     }
 
+    /**
+     * Back substitution Lᵀ x = b in place, b in x[off..off+n), by rows of L: once x_i is known its
+     * multiples L_{i,p} x_i (p &lt; i, row i of L, unit stride) are subtracted from the remaining
+     * right-hand sides. The same operations as {@link #backward} in another order (so results
+     * differ by rounding), without its chain of dependent subtractions per unknown: for the small
+     * systems solved once per target (kriging), where that chain's latency dominates.
+     */
+    public static void backwardByRows(double[] l, int n, int s, double[] x, int off) {
+        for (int i = n - 1; i >= 0; i--) {
+            int ri = i * s;
+            double xi = x[off + i] / l[ri + i];
+            x[off + i] = xi;
+            for (int p = 0; p < i; p++) {
+                x[off + p] -= l[ri + p] * xi;
+            }
+        }
+    }
+
     /** Back substitution Lᵀ x = b in place, b in x[off..off+n). */
     public static void backward(double[] l, int n, int s, double[] x, int off) {
         for (int i = n - 1; i >= 0; i--) {

@@ -140,6 +140,14 @@ class CholeskyTest {
         for (int i = 0; i < n; i++) {
             assertEquals(x.get(i, 0), one[2 + i], 1e-10 * Math.max(1, Math.abs(x.get(i, 0))));
         }
+        // the back substitution by rows of L solves the same system
+        double[] byRows = new double[n + 2];
+        System.arraycopy(first, 0, byRows, 2, n);
+        Cholesky.forward(l, n, n, byRows, 2);
+        Cholesky.backwardByRows(l, n, n, byRows, 2);
+        for (int i = 0; i < n; i++) {
+            assertEquals(x.get(i, 0), byRows[2 + i], 1e-10 * Math.max(1, Math.abs(x.get(i, 0))));
+        }
         // L⁻¹ and its columns, L X = B row by row, and (Lᵀ)⁻¹ read through strides
         DMatrixRMaj lm = DMatrixRMaj.wrap(n, n, lowerOf(l, n));
         DMatrixRMaj linvE = new DMatrixRMaj(n, n);

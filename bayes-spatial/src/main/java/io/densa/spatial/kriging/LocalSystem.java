@@ -2,6 +2,7 @@ package io.densa.spatial.kriging;
 
 import io.densa.core.DensaException;
 import io.densa.core.internal.Cholesky;
+import io.densa.core.internal.Kernels;
 import java.util.function.IntFunction;
 import org.ejml.data.DMatrixRMaj;
 
@@ -9,7 +10,7 @@ import org.ejml.data.DMatrixRMaj;
  * A factorised kriging system for one neighbour set (package-private). With C the m × m data
  * covariance (plus error variances on the diagonal), C = L Lᵀ, drift matrix F (m × p), it keeps
  * G = L⁻¹F, S⁻¹ = (GᵀG)⁻¹ = (FᵀC⁻¹F)⁻¹ and L⁻¹Y (Y the data coordinates, centred by the known mean
- * for simple kriging). A target with covariance vector c0 and drift vector f0 then needs one
+ * for simple kriging; small systems keep Y instead, see {@link #KEEP_DATA_LIMIT}). A target with covariance vector c0 and drift vector f0 then needs one
  * forward solve v = L⁻¹c0 and gives, with r = Gᵀv − f0 and μ = S⁻¹r,
  * prediction (v − Gμ)ᵀ L⁻¹Y, variance C(0) − vᵀv + rᵀμ and weights λ = L⁻ᵀ(v − Gμ).
  * These are the universal kriging equations Cλ + Fμ = c0, Fᵀλ = f0,
@@ -33,10 +34,23 @@ final class LocalSystem {
     private final double[] l;   // m × m lower
     private final double[] g;   // m × p
     private final double[] sInv; // p × p
-    private final double[] ly;  // m × k
+    /** L⁻¹Y (m × k) for large systems; null for small ones, which keep Y itself. */
+    private final double[] ly;
+    /** Y, the centred data rows (m × k), kept for small systems (null when ly is kept). */
+    private final double[] y;
     private final double condition;
 
-    private LocalSystem(int[] idx, int p, int k, double[] l, double[] g, double[] sInv, double[] ly, double condition) {
+    /**
+     * Systems of at most this many stations keep Y and predict through the weights λ = L⁻ᵀz
+     * (λᵀY: one extra triangular solve of m² / 2 per target) instead of transforming Y once
+     * (m² k / 2 at factorisation): a neighbourhood system serves few targets (about ten grid cells
+     * on average in a dense grid, one in leave-one-out), so not transforming Y saves work whenever
+     * a system serves fewer than K targets; the global system serves every target and transforms.
+     */
+    static final int KEEP_DATA_LIMIT = 96;
+
+    private LocalSystem(int[] idx, int p, int k, double[] l, double[] g, double[] sInv, double[] ly, double[] y,
+            double condition) {
         this.idx = idx;
         this.m = idx.length;
         this.p = p;
@@ -45,6 +59,7 @@ final class LocalSystem {
         this.g = g;
         this.sInv = sInv;
         this.ly = ly;
+        this.y = y;
         this.condition = condition;
     }
 
@@ -97,9 +112,22 @@ final class LocalSystem {
             }
             sInv = inverseSpd(s, p, idx);
         }
+        if (m <= KEEP_DATA_LIMIT) {
+            return new LocalSystem(idx, p, k, l, g, sInv, null, dataRows, cond);
+        }
         double[] ly = dataRows;
         Cholesky.forwardRows(l, m, ly, k);
-        return new LocalSystem(idx, p, k, l, g, sInv, ly, cond);
+        return new LocalSystem(idx, p, k, l, g, sInv, ly, null, cond);
+    }
+
+    /** L⁻¹Y: the kept one, or computed from Y (small systems). */
+    private double[] transformedData() {
+        if (ly != null) {
+            return ly;
+        }
+        double[] t = y.clone();
+        Cholesky.forwardRows(l, m, t, k);
+        return t;
     }
 
     /** Number of stations m. */
@@ -119,6 +147,7 @@ final class LocalSystem {
 
     /** β̂ = S⁻¹ Gᵀ L⁻¹Y = (FᵀC⁻¹F)⁻¹FᵀC⁻¹Y, row-major p × k. */
     double[] driftCoefficients() {
+        double[] ly = transformedData();
         double[] gty = new double[p * k];
         for (int r = 0; r < m; r++) {
             for (int j = 0; j < p; j++) {
@@ -145,6 +174,7 @@ final class LocalSystem {
      * is centre + c0ᵀα + f0ᵀβ.
      */
     double[] dualWeights(double[] beta) {
+        double[] ly = transformedData();
         double[] a = new double[m * k];
         double[] col = new double[m];
         for (int c = 0; c < k; c++) {
@@ -284,9 +314,19 @@ final class LocalSystem {
         /** Relative residual of the unbiasedness constraints of the last {@link #predict} (0 if p = 0). */
         double residual;
 
+        private double[] row = new double[0];
+
         Scratch(int p) {
             r = new double[Math.max(1, p)];
             mu = new double[Math.max(1, p)];
+        }
+
+        /** A work row of at least k entries. */
+        double[] row(int k) {
+            if (row.length < k) {
+                row = new double[k];
+            }
+            return row;
         }
     }
 
@@ -312,7 +352,7 @@ final class LocalSystem {
     }
 
     /**
-     * Predicts at a target. c0 (length m) is overwritten with z = v − Gμ; f0 the drift at the target;
+     * Predicts at a target. c0 (length m) is a working array (overwritten); f0 the drift at the target;
      * c00 the covariance at lag 0. Writes centre + zᵀL⁻¹Y into out[off..off+k) and returns the
      * variance (rounding below zero reported as 0). If weights is non-null, writes λ into it. The
      * relative residual of the unbiasedness constraints goes to scratch.residual (after one step of
@@ -380,16 +420,29 @@ final class LocalSystem {
         for (int c = 0; c < k; c++) {
             out[off + c] = centre[c];
         }
-        for (int r = 0; r < m; r++) {
-            double z = c0[r];
-            int o = r * k;
-            for (int c = 0; c < k; c++) {
-                out[off + c] += z * ly[o + c];
+        if (ly != null) {
+            for (int r = 0; r < m; r++) {
+                double z = c0[r];
+                int o = r * k;
+                for (int c = 0; c < k; c++) {
+                    out[off + c] += z * ly[o + c];
+                }
             }
-        }
-        if (weights != null) {
-            System.arraycopy(c0, 0, weights, 0, m);
-            Cholesky.backward(l, m, m, weights, 0);
+            if (weights != null) {
+                System.arraycopy(c0, 0, weights, 0, m);
+                Cholesky.backward(l, m, m, weights, 0);
+            }
+        } else {
+            // λ = L⁻ᵀz, then the prediction λᵀY (a 1 × m by m × K product)
+            Cholesky.backwardByRows(l, m, m, c0, 0);
+            double[] t = scratch.row(k);
+            Kernels.multiplyRows(c0, 0, 1, m, y, k, t, 0);
+            for (int c = 0; c < k; c++) {
+                out[off + c] += t[c];
+            }
+            if (weights != null) {
+                System.arraycopy(c0, 0, weights, 0, m);
+            }
         }
         double var = c00 - vv + rmu;
         return var > 0 ? var : 0;
