@@ -154,6 +154,12 @@ public final class SideBySide {
                 }
             } else {
                 System.out.printf(Locale.ROOT, "BEST %s size=%d densa %.3f s%n", name, size, densaBest);
+                extra.forEach((k, v) -> {
+                    if (k.startsWith("densa ")) {
+                        System.out.printf(Locale.ROOT, "BEST %s size=%d densa %.3f s%n", k.substring(6), size,
+                                v.stream().mapToDouble(Double::doubleValue).min().orElse(Double.NaN));
+                    }
+                });
             }
         }
     }

@@ -24,8 +24,9 @@ final class VectorPath extends KernelPath {
 
     /**
      * The (centred) rows are gathered SUB at a time into a buffer padded to a multiple of the
-     * vector length; the padded upper triangle is accumulated four matrix rows at a time (four
-     * accumulators per column vector, one load and four broadcasts per data row), then added to s.
+     * vector length; the padded upper triangle is accumulated four matrix rows by two column
+     * vectors at a time (eight independent accumulators; per data row two loads and four
+     * broadcasts feed eight fused multiply-adds), then added to s.
      */
     @Override
     public void addCrossProduct(double[] a, int k, int[] rows, int r0, int r1, double[] center, double[] s) {
@@ -47,7 +48,41 @@ final class VectorPath extends KernelPath {
             }
             for (int j0 = 0; j0 < k; j0 += 4) {
                 int a0 = j0 * kp, a1 = a0 + kp, a2 = a1 + kp, a3 = a2 + kp;
-                for (int v = j0 / L * L; v < kp; v += L) {
+                int v = j0 / L * L;
+                // two column vectors per pass: eight independent accumulator chains
+                for (; v + 2 * L <= kp; v += 2 * L) {
+                    int w = v + L;
+                    DoubleVector c0 = DoubleVector.fromArray(S, acc, a0 + v);
+                    DoubleVector c1 = DoubleVector.fromArray(S, acc, a1 + v);
+                    DoubleVector c2 = DoubleVector.fromArray(S, acc, a2 + v);
+                    DoubleVector c3 = DoubleVector.fromArray(S, acc, a3 + v);
+                    DoubleVector d0 = DoubleVector.fromArray(S, acc, a0 + w);
+                    DoubleVector d1 = DoubleVector.fromArray(S, acc, a1 + w);
+                    DoubleVector d2 = DoubleVector.fromArray(S, acc, a2 + w);
+                    DoubleVector d3 = DoubleVector.fromArray(S, acc, a3 + w);
+                    for (int t = 0, bo = 0; t < cnt; t++, bo += kp) {
+                        DoubleVector x = DoubleVector.fromArray(S, buf, bo + v);
+                        DoubleVector y = DoubleVector.fromArray(S, buf, bo + w);
+                        double b0 = buf[bo + j0], b1 = buf[bo + j0 + 1], b2 = buf[bo + j0 + 2], b3 = buf[bo + j0 + 3];
+                        c0 = x.lanewise(VectorOperators.FMA, b0, c0);
+                        c1 = x.lanewise(VectorOperators.FMA, b1, c1);
+                        c2 = x.lanewise(VectorOperators.FMA, b2, c2);
+                        c3 = x.lanewise(VectorOperators.FMA, b3, c3);
+                        d0 = y.lanewise(VectorOperators.FMA, b0, d0);
+                        d1 = y.lanewise(VectorOperators.FMA, b1, d1);
+                        d2 = y.lanewise(VectorOperators.FMA, b2, d2);
+                        d3 = y.lanewise(VectorOperators.FMA, b3, d3);
+                    }
+                    c0.intoArray(acc, a0 + v);
+                    c1.intoArray(acc, a1 + v);
+                    c2.intoArray(acc, a2 + v);
+                    c3.intoArray(acc, a3 + v);
+                    d0.intoArray(acc, a0 + w);
+                    d1.intoArray(acc, a1 + w);
+                    d2.intoArray(acc, a2 + w);
+                    d3.intoArray(acc, a3 + w);
+                }
+                for (; v < kp; v += L) {
                     DoubleVector c0 = DoubleVector.fromArray(S, acc, a0 + v);
                     DoubleVector c1 = DoubleVector.fromArray(S, acc, a1 + v);
                     DoubleVector c2 = DoubleVector.fromArray(S, acc, a2 + v);
