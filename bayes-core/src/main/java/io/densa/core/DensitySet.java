@@ -38,6 +38,8 @@ public final class DensitySet {
     private volatile double[] logZ;
     /** Largest |coordinate| (NaN until computed): decides whether sums can overflow. */
     private volatile double maxAbs = Double.NaN;
+    /** Column means (null until computed; never handed out, callers get copies). */
+    private volatile double[] columnMeans;
 
     private DensitySet(BayesSpace space, int n, double[] data, String[] ids) {
         this.space = space;
@@ -256,11 +258,34 @@ public final class DensitySet {
     }
 
     /**
-     * Column means. The plain column sums cannot overflow when n·max|c| is below the largest
+     * Column means (computed once per set, which is immutable; FPCA asks for them twice: for the
+     * centred cross-products and for the mean density). The plain column sums cannot overflow when n·max|c| is below the largest
      * double (the usual case, one check); otherwise every value is scaled by a power of two first
      * (exact), so that rows near 1e308 still give their (representable) mean.
      */
     private double[] meanCoordinates() {
+        double[] m = columnMeans;
+        if (m == null) {
+            m = computeMeans();
+            columnMeans = m;
+        }
+        return m.clone();
+    }
+
+    /** The column means of {@link #meanCoordinates} (one pass over the coordinates). */
+    private double[] computeMeans() {
+        if (Double.isNaN(maxAbs)) {
+            // largest |coordinate| not known yet: one pass gives the plain sums and it
+            double[] sm = Kernels.columnSumsAndMaxAbs(data, n, k, true);
+            maxAbs = sm[k];
+            if (sm[k] * n < Double.MAX_VALUE) {
+                double[] s = java.util.Arrays.copyOf(sm, k);
+                for (int j = 0; j < k; j++) {
+                    s[j] = s[j] / n;
+                }
+                return s;
+            }
+        }
         double big = maxAbs();
         double scale = 1.0;
         if (!(big * n < Double.MAX_VALUE)) {

@@ -186,6 +186,40 @@ public final class Kernels {
         return sum;
     }
 
+    /**
+     * {@link #columnSums} (the same sums, bit for bit) and, in the same pass, the largest absolute
+     * entry of A.
+     *
+     * @return a fresh (k + 1)-vector: the k column sums, then max |a_ij| (0 for n = 0)
+     */
+    public static double[] columnSumsAndMaxAbs(double[] a, int n, int k, boolean parallel) {
+        int blocks = (n + BLOCK - 1) / BLOCK;
+        double[][] partial = new double[blocks][];
+        forEachBlock(blocks, parallel && parallelWorth((long) n * k), blk -> {
+            double[] s = new double[k + 1];
+            double big = 0;
+            int r0 = blk * BLOCK, r1 = Math.min(n, r0 + BLOCK);
+            for (int i = r0; i < r1; i++) {
+                int o = i * k;
+                for (int j = 0; j < k; j++) {
+                    double v = a[o + j];
+                    s[j] += v;
+                    big = Math.max(big, Math.abs(v));
+                }
+            }
+            s[k] = big;
+            partial[blk] = s;
+        });
+        double[] sum = new double[k + 1];
+        for (double[] p : partial) {
+            for (int j = 0; j < k; j++) {
+                sum[j] += p[j];
+            }
+            sum[k] = Math.max(sum[k], p[k]);
+        }
+        return sum;
+    }
+
     /** Squared Euclidean norms of the rows of A (n × k). */
     public static double[] rowNormsSq(double[] a, int n, int k) {
         double[] out = new double[n];

@@ -82,4 +82,22 @@ class KernelsTest {
         }
         close(sums, Kernels.columnSums(a, n, k, false));
     }
+
+    /** The fused pass gives columnSums' sums bit for bit, and the largest |entry| found by a plain loop. */
+    @org.junit.jupiter.api.Test
+    void columnSumsAndMaxAbsInOnePass() {
+        Random r = new Random(21);
+        for (int n : new int[] {0, 1, 17, 4096, 4097, 30_000}) {
+            int k = 7;
+            double[] a = new double[n * k];
+            double big = 0;
+            for (int i = 0; i < a.length; i++) {
+                a[i] = r.nextGaussian() * Math.exp(4 * r.nextGaussian());
+                big = Math.max(big, Math.abs(a[i]));
+            }
+            double[] fused = Kernels.columnSumsAndMaxAbs(a, n, k, true);
+            assertArrayEquals(Kernels.columnSums(a, n, k, false), java.util.Arrays.copyOf(fused, k), 0.0);
+            assertEquals(big, fused[k], 0.0);
+        }
+    }
 }
