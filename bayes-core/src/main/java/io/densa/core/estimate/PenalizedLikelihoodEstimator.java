@@ -204,7 +204,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
      * @param l 1 ≤ l &lt; spline order (≤ degree for polynomials, &lt; number of bins for steps)
      */
     public PenalizedLikelihoodEstimator withPenaltyOrder(int l) {
-        return with(settings.withPenaltyOrder(l));
+        return with(settings.change(c -> c.penaltyOrder = l));
     }
 
     /**
@@ -215,13 +215,16 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         if (!(lambda >= 0 && Double.isFinite(lambda))) {
             throw new IllegalArgumentException("smoothing parameter must be finite and >= 0, got " + lambda);
         }
-        return with(settings.withSmoothing(lambda));
+        return with(settings.change(c -> c.smoothing = lambda));
     }
 
     /** Chooses λ per unit by the given criterion (undoes {@link #withSmoothing}). */
     public PenalizedLikelihoodEstimator withCriterion(SmoothingCriterion c) {
         Objects.requireNonNull(c, "criterion");
-        return with(settings.withSmoothing(Double.NaN).withCriterion(c));
+        return with(settings.change(d -> {
+            d.smoothing = Double.NaN;
+            d.criterion = c;
+        }));
     }
 
     /**
@@ -235,8 +238,12 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         if (!(k >= 2 && k <= 50)) {
             throw new IllegalArgumentException("number of folds must be in [2, 50], got " + k);
         }
-        return with(settings.withSmoothing(Double.NaN).withCriterion(SmoothingCriterion.CROSS_VALIDATION)
-                .withFolds(k, seed));
+        return with(settings.change(c -> {
+            c.smoothing = Double.NaN;
+            c.criterion = SmoothingCriterion.CROSS_VALIDATION;
+            c.folds = k;
+            c.seed = seed;
+        }));
     }
 
     /**
@@ -249,7 +256,11 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             throw new IllegalArgumentException("smoothing grid needs finite lo < hi and 0 < step <= hi - lo, got lo="
                     + log10Lo + ", hi=" + log10Hi + ", step=" + step);
         }
-        return with(settings.withGrid(log10Lo, log10Hi, step));
+        return with(settings.change(c -> {
+            c.gridLog10Lo = log10Lo;
+            c.gridLog10Hi = log10Hi;
+            c.gridStep = step;
+        }));
     }
 
     /**
@@ -267,7 +278,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             throw new IllegalArgumentException("reference prior weight must be finite and >= 0 (in observations; 0"
                     + " removes the prior), got " + observations);
         }
-        return with(settings.withReferencePriorWeight(observations));
+        return with(settings.change(c -> c.referencePriorWeight = observations));
     }
 
     /** The weight of the reference prior in observations (see {@link #withReferencePrior}). */
@@ -290,7 +301,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         if (n < 1 || n > MAX_ITERATIONS_LIMIT) {
             throw new IllegalArgumentException("max iterations must be in [1, " + MAX_ITERATIONS_LIMIT + "], got " + n);
         }
-        return with(settings.withMaxIterations(n));
+        return with(settings.change(c -> c.maxIterations = n));
     }
 
     /**
@@ -304,7 +315,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             throw new IllegalArgumentException("tolerance must be in [" + MIN_TOLERANCE + ", " + MAX_TOLERANCE
                     + "] (smaller values are below the rounding of the objective), got " + tol);
         }
-        return with(settings.withTolerance(tol));
+        return with(settings.change(c -> c.tolerance = tol));
     }
 
     /**
@@ -315,13 +326,13 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         if (!(m == 0 || m >= 2 && m <= 16)) {
             throw new IllegalArgumentException("quadrature points must be 0 (automatic) or in [2, 16], got " + m);
         }
-        return with(settings.withQuadraturePoints(m));
+        return with(settings.change(c -> c.quadraturePoints = m));
     }
 
     /** What to do with units without events. */
     public PenalizedLikelihoodEstimator withZeroTotal(ZeroTotalPolicy policy) {
         Objects.requireNonNull(policy, "policy");
-        return with(settings.withZeroTotal(policy));
+        return with(settings.change(c -> c.zeroTotal = policy));
     }
 
     /**
@@ -329,12 +340,12 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
      * needs whole counts.
      */
     public PenalizedLikelihoodEstimator withFractionalCounts(boolean allow) {
-        return with(settings.withFractionalCounts(allow));
+        return with(settings.change(c -> c.fractionalCounts = allow));
     }
 
     /** Whether {@code fitAll} may use the common pool (results are identical either way). */
     public PenalizedLikelihoodEstimator withParallel(boolean p) {
-        return with(settings.withParallel(p));
+        return with(settings.change(c -> c.parallel = p));
     }
 
     /**
@@ -372,58 +383,45 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             double gridLog10Lo, double gridLog10Hi, double gridStep, int maxIterations, double tolerance,
             int quadraturePoints, ZeroTotalPolicy zeroTotal, boolean fractionalCounts, boolean parallel,
             double referencePriorWeight) {
-        // package-private copies with one setting changed (the with… methods check the value first)
-        Settings withPenaltyOrder(int v) {
-            return new Settings(v, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
-                    maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel,
-                    referencePriorWeight);
+        /** A copy with the components that edit sets (the estimator's with… methods check the values first). */
+        Settings change(java.util.function.Consumer<Draft> edit) {
+            Draft d = new Draft(this);
+            edit.accept(d);
+            return d.settings();
         }
-        Settings withSmoothing(double v) {
-            return new Settings(penaltyOrder, v, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
-                    maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel,
-                    referencePriorWeight);
-        }
-        Settings withCriterion(SmoothingCriterion v) {
-            return new Settings(penaltyOrder, smoothing, v, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
-                    maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel,
-                    referencePriorWeight);
-        }
-        Settings withFolds(int v, long s) {
-            return new Settings(penaltyOrder, smoothing, criterion, v, s, gridLog10Lo, gridLog10Hi, gridStep,
-                    maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel,
-                    referencePriorWeight);
-        }
-        Settings withGrid(double lo, double hi, double step) {
-            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, lo, hi, step, maxIterations,
-                    tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel, referencePriorWeight);
-        }
-        Settings withMaxIterations(int v) {
-            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
-                    v, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel, referencePriorWeight);
-        }
-        Settings withTolerance(double v) {
-            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
-                    maxIterations, v, quadraturePoints, zeroTotal, fractionalCounts, parallel, referencePriorWeight);
-        }
-        Settings withQuadraturePoints(int v) {
-            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
-                    maxIterations, tolerance, v, zeroTotal, fractionalCounts, parallel, referencePriorWeight);
-        }
-        Settings withZeroTotal(ZeroTotalPolicy v) {
-            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
-                    maxIterations, tolerance, quadraturePoints, v, fractionalCounts, parallel, referencePriorWeight);
-        }
-        Settings withFractionalCounts(boolean v) {
-            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
-                    maxIterations, tolerance, quadraturePoints, zeroTotal, v, parallel, referencePriorWeight);
-        }
-        Settings withParallel(boolean v) {
-            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
-                    maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, v, referencePriorWeight);
-        }
-        Settings withReferencePriorWeight(double v) {
-            return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi, gridStep,
-                    maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel, v);
+
+        /** A mutable copy of every component: the one place that lists them all for {@link #change}. */
+        static final class Draft {
+            int penaltyOrder, folds, maxIterations, quadraturePoints;
+            long seed;
+            double smoothing, gridLog10Lo, gridLog10Hi, gridStep, tolerance, referencePriorWeight;
+            SmoothingCriterion criterion;
+            ZeroTotalPolicy zeroTotal;
+            boolean fractionalCounts, parallel;
+
+            Draft(Settings s) {
+                penaltyOrder = s.penaltyOrder;
+                smoothing = s.smoothing;
+                criterion = s.criterion;
+                folds = s.folds;
+                seed = s.seed;
+                gridLog10Lo = s.gridLog10Lo;
+                gridLog10Hi = s.gridLog10Hi;
+                gridStep = s.gridStep;
+                maxIterations = s.maxIterations;
+                tolerance = s.tolerance;
+                quadraturePoints = s.quadraturePoints;
+                zeroTotal = s.zeroTotal;
+                fractionalCounts = s.fractionalCounts;
+                parallel = s.parallel;
+                referencePriorWeight = s.referencePriorWeight;
+            }
+
+            Settings settings() {
+                return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi,
+                        gridStep, maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel,
+                        referencePriorWeight);
+            }
         }
     }
 

@@ -406,4 +406,41 @@ class PenalizedLikelihoodEstimatorTest {
         double mass = f.density().cdf(0.8) - f.density().cdf(0.2);
         assertTrue(mass > 0.5 && mass <= 1, "mass on the binned range " + mass);
     }
+
+    /** Each with… method changes its own settings and nothing else (the record's components compared one by one). */
+    @org.junit.jupiter.api.Test
+    void eachWithMethodChangesOnlyItsSettings() {
+        PenalizedLikelihoodEstimator e = PenalizedLikelihoodEstimator.withDefaults(BayesSpace.splines(0, 1, 4, 5));
+        PenalizedLikelihoodEstimator.Settings d = e.settings();
+        java.util.Map<String, PenalizedLikelihoodEstimator> changed = new java.util.LinkedHashMap<>();
+        changed.put("penaltyOrder", e.withPenaltyOrder(1));
+        changed.put("smoothing", e.withSmoothing(3.5));
+        changed.put("tolerance", e.withTolerance(1e-9));
+        changed.put("maxIterations", e.withMaxIterations(17));
+        changed.put("quadraturePoints", e.withQuadraturePoints(9));
+        changed.put("zeroTotal", e.withZeroTotal(ZeroTotalPolicy.REFERENCE));
+        changed.put("fractionalCounts", e.withFractionalCounts(true));
+        changed.put("parallel", e.withParallel(false));
+        changed.put("referencePriorWeight", e.withReferencePrior(2.5));
+        changed.put("gridLog10Lo gridLog10Hi gridStep", e.withSmoothingGrid(-3, 2, 0.5));
+        changed.put("criterion folds seed", e.withCrossValidation(7, 99));
+        // choosing λ undoes a fixed λ
+        assertTrue(Double.isNaN(e.withSmoothing(2).withCrossValidation(7, 99).settings().smoothing()));
+        assertTrue(Double.isNaN(e.withSmoothing(2).withCriterion(SmoothingCriterion.GCV).settings().smoothing()));
+        for (java.util.Map.Entry<String, PenalizedLikelihoodEstimator> c : changed.entrySet()) {
+            java.util.Set<String> names = java.util.Set.of(c.getKey().split(" "));
+            PenalizedLikelihoodEstimator.Settings s = c.getValue().settings();
+            for (java.lang.reflect.RecordComponent rc : PenalizedLikelihoodEstimator.Settings.class.getRecordComponents()) {
+                Object before, after;
+                try {
+                    before = rc.getAccessor().invoke(d);
+                    after = rc.getAccessor().invoke(s);
+                } catch (ReflectiveOperationException ex) {
+                    throw new AssertionError(ex);
+                }
+                assertEquals(!names.contains(rc.getName()), java.util.Objects.equals(before, after),
+                        c.getKey() + ": component " + rc.getName() + " " + before + " -> " + after);
+            }
+        }
+    }
 }
