@@ -307,14 +307,9 @@ public final class Kriging {
     LocalSystem system(int[] idx) {
         int m = idx.length;
         double[] a = new double[m * m];
+        covariances.block(idx, m, a);
         for (int r = 0; r < m; r++) {
-            int ir = idx[r];
-            for (int c = 0; c <= r; c++) {
-                double v = covariances.station(ir, idx[c]);
-                a[r * m + c] = v;
-                a[c * m + r] = v;
-            }
-            a[r * m + r] += diagExtra[ir];
+            a[r * m + r] += diagExtra[idx[r]];
         }
         double[] f = new double[m * p];
         for (int r = 0; r < m; r++) {

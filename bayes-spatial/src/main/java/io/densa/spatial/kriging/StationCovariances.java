@@ -107,10 +107,22 @@ final class StationCovariances {
         unitModel.pseudoCovariances(dist, m, pseudoSill, out);
     }
 
-    /** Covariance between stations i and j (C(0) if i = j). */
-    double station(int i, int j) {
+    /**
+     * The m × m block of covariances between the stations idx[0..m) into a (row-major, both
+     * triangles; C(0) on the diagonal): from the station matrix when there is one (up to
+     * {@code STATION_MATRIX_LIMIT} stations), otherwise from the distances.
+     */
+    void block(int[] idx, int m, double[] a) {
         double[] sc = stationMatrix();
-        return sc != null ? sc[i * n + j] : cov(loc.distance(i, j));
+        for (int r = 0; r < m; r++) {
+            int ir = idx[r];
+            int ro = ir * n;
+            for (int c = 0; c <= r; c++) {
+                double v = sc != null ? sc[ro + idx[c]] : cov(loc.distance(ir, idx[c]));
+                a[r * m + c] = v;
+                a[c * m + r] = v;
+            }
+        }
     }
 
     private double[] stationMatrix() {
