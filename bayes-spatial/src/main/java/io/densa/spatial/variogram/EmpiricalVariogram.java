@@ -28,8 +28,13 @@ import java.util.Objects;
  * root, and lags are computed by the same operations as {@link Locations#distance(int, int)}
  * (which neither overflow nor underflow); the centred coordinates are divided by the power of two
  * of their largest magnitude (exact) so that squared B2 distances neither overflow nor underflow
- * for coordinates far from 1, and γ̂ is scaled back at the end. Tiles of locations are processed in parallel, each into its own bin totals, and totals are
- * combined in tile order, so the result is bit-identical to the serial run.
+ * for coordinates far from 1, and γ̂ is scaled back at the end. The locations are visited in Z
+ * (Morton) order, so that each block of 256 is compact in space, and a location skips every block
+ * whose bounding box lies beyond the maximum lag from it (a lower bound of the same squared
+ * distance the pair filter uses, so no pair is lost). Tiles of locations are processed in
+ * parallel, each into its own bin totals, and totals are combined in tile order, so the result is
+ * bit-identical to the serial run (and independent of how the locations are numbered, up to
+ * locations with equal Z keys).
  *
  * <p>Immutable; accessors return copies.
  */

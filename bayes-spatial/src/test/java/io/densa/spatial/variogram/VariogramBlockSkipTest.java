@@ -14,7 +14,7 @@ import org.junit.jupiter.api.Test;
  * largest lag from a location; the skip must never lose a pair. Checked on uneven networks (tight
  * clusters far apart, a few isolated sites, coincident sites) with short lags, where most blocks
  * are skipped, against the textbook pair loop γ̂(h) = (1/2|N(h)|) Σ ‖X_i ⊖ X_j‖²_B (Matheron
- * (1962), Traité de géostatistique appliquée; {@link EmpiricalVariogramTest#naive}) on every
+ * (1962), Traité de géostatistique appliquée — from memory; {@link EmpiricalVariogramTest#naive}) on every
  * pair, and for invariance under relabelling of the locations.
  */
 class VariogramBlockSkipTest {
