@@ -108,149 +108,89 @@ final class VectorPath extends KernelPath {
         }
     }
 
-    /**
-     * Two output rows and four column vectors per tile (eight accumulators; per term four loads of
-     * B and two broadcasts of A feed eight fused multiply-adds); remaining columns one vector at a
-     * time, then scalar.
-     */
     @Override
     public void multiplyRows(double[] a, int aOff, int rows, int k, double[] b, int m, double[] out, int outOff) {
-        int w4 = 4 * L;
-        int mv = m / L * L;
         int i = 0;
         for (; i + 2 <= rows; i += 2) {
-            int ai = aOff + i * k, aj = ai + k;
-            int o = outOff + i * m, o2 = o + m;
-            int q = 0;
-            for (; q + w4 <= mv; q += w4) {
-                DoubleVector x0 = DoubleVector.zero(S), x1 = x0, x2 = x0, x3 = x0;
-                DoubleVector y0 = x0, y1 = x0, y2 = x0, y3 = x0;
-                for (int j = 0, bj = q; j < k; j++, bj += m) {
-                    DoubleVector b0 = DoubleVector.fromArray(S, b, bj);
-                    DoubleVector b1 = DoubleVector.fromArray(S, b, bj + L);
-                    DoubleVector b2 = DoubleVector.fromArray(S, b, bj + 2 * L);
-                    DoubleVector b3 = DoubleVector.fromArray(S, b, bj + 3 * L);
-                    double p = a[ai + j], r = a[aj + j];
-                    x0 = b0.lanewise(VectorOperators.FMA, p, x0);
-                    x1 = b1.lanewise(VectorOperators.FMA, p, x1);
-                    x2 = b2.lanewise(VectorOperators.FMA, p, x2);
-                    x3 = b3.lanewise(VectorOperators.FMA, p, x3);
-                    y0 = b0.lanewise(VectorOperators.FMA, r, y0);
-                    y1 = b1.lanewise(VectorOperators.FMA, r, y1);
-                    y2 = b2.lanewise(VectorOperators.FMA, r, y2);
-                    y3 = b3.lanewise(VectorOperators.FMA, r, y3);
-                }
-                x0.intoArray(out, o + q);
-                x1.intoArray(out, o + q + L);
-                x2.intoArray(out, o + q + 2 * L);
-                x3.intoArray(out, o + q + 3 * L);
-                y0.intoArray(out, o2 + q);
-                y1.intoArray(out, o2 + q + L);
-                y2.intoArray(out, o2 + q + 2 * L);
-                y3.intoArray(out, o2 + q + 3 * L);
-            }
-            for (; q < mv; q += L) {
-                DoubleVector x0 = DoubleVector.zero(S), y0 = x0;
-                for (int j = 0, bj = q; j < k; j++, bj += m) {
-                    DoubleVector b0 = DoubleVector.fromArray(S, b, bj);
-                    x0 = b0.lanewise(VectorOperators.FMA, a[ai + j], x0);
-                    y0 = b0.lanewise(VectorOperators.FMA, a[aj + j], y0);
-                }
-                x0.intoArray(out, o + q);
-                y0.intoArray(out, o2 + q);
-            }
-            scalarColumns(a, ai, k, b, m, mv, out, o);
-            scalarColumns(a, aj, k, b, m, mv, out, o2);
+            int ai = aOff + i * k, o = outOff + i * m;
+            rowsTimes(a, ai, ai + k, true, k, b, 0, m, m, out, o, out, o + m);
         }
-        for (; i < rows; i++) {
+        if (i < rows) {
             int ai = aOff + i * k;
-            int o = outOff + i * m;
-            int q = 0;
-            for (; q < mv; q += L) {
-                DoubleVector x0 = DoubleVector.zero(S);
-                for (int j = 0, bj = q; j < k; j++, bj += m) {
-                    x0 = DoubleVector.fromArray(S, b, bj).lanewise(VectorOperators.FMA, a[ai + j], x0);
-                }
-                x0.intoArray(out, o + q);
-            }
-            scalarColumns(a, ai, k, b, m, mv, out, o);
+            rowsTimes(a, ai, ai, false, k, b, 0, m, m, out, outOff + i * m, null, 0);
         }
     }
 
-    /** out[o + q] = Σ_j a[ai + j] b[j·m + q] for q in [from, m). */
-    private static void scalarColumns(double[] a, int ai, int k, double[] b, int m, int from, double[] out, int o) {
-        for (int q = from; q < m; q++) {
-            double sum = 0;
-            for (int j = 0; j < k; j++) {
-                sum = Math.fma(a[ai + j], b[j * m + q], sum);
-            }
-            out[o + q] = sum;
-        }
-    }
-
-    /**
-     * Four column vectors per tile and both rows at once (eight accumulators; per coordinate four
-     * loads of Yᵀ and two broadcasts feed eight fused multiply-adds); the rest one vector, then
-     * scalar.
-     */
     @Override
     public void rowDots(double[] y, double[] yt, int n, int k, int ia, int ib, int js, int len, double[] da,
             double[] db) {
         boolean two = ib >= 0;
-        int oa = ia * k, ob = two ? ib * k : oa;
-        int lv = len / L * L;
+        rowsTimes(y, ia * k, (two ? ib : ia) * k, two, k, yt, js, n, len, da, 0, db, 0);
+    }
+
+    /**
+     * The one product kernel of this path: out0[o0 + q] = Σ_j a[a0 + j] b[bOff + j·bStride + q] and,
+     * when {@code two}, out1[o1 + q] = Σ_j a[a1 + j] b[bOff + j·bStride + q], for q &lt; width (one or
+     * two rows of A, k entries each, times k rows of B). Register-blocked: two output rows by four
+     * column vectors per tile (eight accumulators; per term four loads of B and two broadcasts of A
+     * feed eight fused multiply-adds), remaining columns one vector at a time, then scalar fused
+     * multiply-adds; with one row the second accumulator set repeats the first and is not stored.
+     */
+    private static void rowsTimes(double[] a, int a0, int a1, boolean two, int k, double[] b, int bOff, int bStride,
+            int width, double[] out0, int o0, double[] out1, int o1) {
+        int wv = width / L * L;
         int w4 = 4 * L;
         int q = 0;
-        for (; q + w4 <= lv; q += w4) {
+        for (; q + w4 <= wv; q += w4) {
             DoubleVector x0 = DoubleVector.zero(S), x1 = x0, x2 = x0, x3 = x0;
-            DoubleVector z0 = x0, z1 = x0, z2 = x0, z3 = x0;
-            for (int c = 0, o = js + q; c < k; c++, o += n) {
-                DoubleVector v0 = DoubleVector.fromArray(S, yt, o);
-                DoubleVector v1 = DoubleVector.fromArray(S, yt, o + L);
-                DoubleVector v2 = DoubleVector.fromArray(S, yt, o + 2 * L);
-                DoubleVector v3 = DoubleVector.fromArray(S, yt, o + 3 * L);
-                double p = y[oa + c], r = y[ob + c];
-                x0 = v0.lanewise(VectorOperators.FMA, p, x0);
-                x1 = v1.lanewise(VectorOperators.FMA, p, x1);
-                x2 = v2.lanewise(VectorOperators.FMA, p, x2);
-                x3 = v3.lanewise(VectorOperators.FMA, p, x3);
-                z0 = v0.lanewise(VectorOperators.FMA, r, z0);
-                z1 = v1.lanewise(VectorOperators.FMA, r, z1);
-                z2 = v2.lanewise(VectorOperators.FMA, r, z2);
-                z3 = v3.lanewise(VectorOperators.FMA, r, z3);
+            DoubleVector y0 = x0, y1 = x0, y2 = x0, y3 = x0;
+            for (int j = 0, bj = bOff + q; j < k; j++, bj += bStride) {
+                DoubleVector b0 = DoubleVector.fromArray(S, b, bj);
+                DoubleVector b1 = DoubleVector.fromArray(S, b, bj + L);
+                DoubleVector b2 = DoubleVector.fromArray(S, b, bj + 2 * L);
+                DoubleVector b3 = DoubleVector.fromArray(S, b, bj + 3 * L);
+                double p = a[a0 + j], r = a[a1 + j];
+                x0 = b0.lanewise(VectorOperators.FMA, p, x0);
+                x1 = b1.lanewise(VectorOperators.FMA, p, x1);
+                x2 = b2.lanewise(VectorOperators.FMA, p, x2);
+                x3 = b3.lanewise(VectorOperators.FMA, p, x3);
+                y0 = b0.lanewise(VectorOperators.FMA, r, y0);
+                y1 = b1.lanewise(VectorOperators.FMA, r, y1);
+                y2 = b2.lanewise(VectorOperators.FMA, r, y2);
+                y3 = b3.lanewise(VectorOperators.FMA, r, y3);
             }
-            x0.intoArray(da, q);
-            x1.intoArray(da, q + L);
-            x2.intoArray(da, q + 2 * L);
-            x3.intoArray(da, q + 3 * L);
+            x0.intoArray(out0, o0 + q);
+            x1.intoArray(out0, o0 + q + L);
+            x2.intoArray(out0, o0 + q + 2 * L);
+            x3.intoArray(out0, o0 + q + 3 * L);
             if (two) {
-                z0.intoArray(db, q);
-                z1.intoArray(db, q + L);
-                z2.intoArray(db, q + 2 * L);
-                z3.intoArray(db, q + 3 * L);
+                y0.intoArray(out1, o1 + q);
+                y1.intoArray(out1, o1 + q + L);
+                y2.intoArray(out1, o1 + q + 2 * L);
+                y3.intoArray(out1, o1 + q + 3 * L);
             }
         }
-        for (; q < lv; q += L) {
-            DoubleVector x0 = DoubleVector.zero(S), z0 = x0;
-            for (int c = 0, o = js + q; c < k; c++, o += n) {
-                DoubleVector v0 = DoubleVector.fromArray(S, yt, o);
-                x0 = v0.lanewise(VectorOperators.FMA, y[oa + c], x0);
-                z0 = v0.lanewise(VectorOperators.FMA, y[ob + c], z0);
+        for (; q < wv; q += L) {
+            DoubleVector x0 = DoubleVector.zero(S), y0 = x0;
+            for (int j = 0, bj = bOff + q; j < k; j++, bj += bStride) {
+                DoubleVector b0 = DoubleVector.fromArray(S, b, bj);
+                x0 = b0.lanewise(VectorOperators.FMA, a[a0 + j], x0);
+                y0 = b0.lanewise(VectorOperators.FMA, a[a1 + j], y0);
             }
-            x0.intoArray(da, q);
+            x0.intoArray(out0, o0 + q);
             if (two) {
-                z0.intoArray(db, q);
+                y0.intoArray(out1, o1 + q);
             }
         }
-        for (; q < len; q++) {
-            double sa = 0, sb = 0;
-            for (int c = 0, o = js + q; c < k; c++, o += n) {
-                sa = Math.fma(y[oa + c], yt[o], sa);
-                sb = Math.fma(y[ob + c], yt[o], sb);
+        for (; q < width; q++) {
+            double sx = 0, sy = 0;
+            for (int j = 0, bj = bOff + q; j < k; j++, bj += bStride) {
+                sx = Math.fma(a[a0 + j], b[bj], sx);
+                sy = Math.fma(a[a1 + j], b[bj], sy);
             }
-            da[q] = sa;
+            out0[o0 + q] = sx;
             if (two) {
-                db[q] = sb;
+                out1[o1 + q] = sy;
             }
         }
     }
