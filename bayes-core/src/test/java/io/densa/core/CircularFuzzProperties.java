@@ -50,9 +50,7 @@ class CircularFuzzProperties {
         Random r = new Random(seed);
         FuzzCheck.context(() -> "circularEvaluation seed=" + seed);
         BayesSpace s = SPACES.get(r.nextInt(SPACES.size()));
-        int kind = r.nextInt(10);
-        double scale = kind < 6 ? 1 : kind < 8 ? Math.pow(10, 2 + r.nextInt(13)) : Math.abs(extreme(r));
-        double[] x = vector(r, s.dimension(), q -> scale * mild(q));
+        double[] x = FuzzValues.evaluationCoordinates(r, s.dimension());
         Density f = CHECK.run("density", () -> s.density(x), x);
         if (f == null) {
             return;

@@ -1,7 +1,6 @@
 package io.densa.core;
 
 import static io.densa.core.FuzzValues.extreme;
-import static io.densa.core.FuzzValues.mild;
 import static io.densa.core.FuzzValues.nonNegative;
 import static io.densa.core.FuzzValues.vector;
 
@@ -116,11 +115,7 @@ class FuzzProperties {
         Random r = new Random(seed);
         FuzzCheck.context(() -> "evaluation seed=" + seed);
         BayesSpace s = space(r);
-        // one scale per density: mostly moderate, sometimes sharp (up to 1e14, where evaluation is
-        // rejected as unresolvable), tiny or huge
-        int kind = r.nextInt(10);
-        double scale = kind < 6 ? 1 : kind < 8 ? Math.pow(10, 2 + r.nextInt(13)) : Math.abs(extreme(r));
-        double[] x = vector(r, s.dimension(), q -> scale * mild(q));
+        double[] x = FuzzValues.evaluationCoordinates(r, s.dimension());
         Density f = CHECK.run("density", () -> s.density(x), x);
         if (f == null) {
             return;

@@ -60,6 +60,17 @@ final class FuzzValues {
         double next(Random r);
     }
 
+    /**
+     * Coordinates of one density for the evaluation properties: one scale per density, mostly
+     * moderate, sometimes sharp (up to 1e14, where evaluation is rejected as unresolvable), tiny or
+     * huge, times {@link #mild} values.
+     */
+    static double[] evaluationCoordinates(Random r, int length) {
+        int kind = r.nextInt(10);
+        double scale = kind < 6 ? 1 : kind < 8 ? Math.pow(10, 2 + r.nextInt(13)) : Math.abs(extreme(r));
+        return vector(r, length, q -> scale * mild(q));
+    }
+
     /** An array: independent values, a constant, or values from a pool of one to three (ties). */
     static double[] vector(Random r, int length, Draw d) {
         double[] a = new double[length];
