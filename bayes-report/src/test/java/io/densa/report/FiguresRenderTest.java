@@ -218,12 +218,7 @@ class FiguresRenderTest {
             Chart chart = Chart.of("Counts", Axis.count("week", "weeks"), y)
                     .line("flags", new double[] {1, 2, 3, 4}, new double[] {0, 3, 1, 2});
             ValueAxis axis = ((XYPlot) chart.toJFreeChart().getPlot()).getRangeAxis();
-            BufferedImage img = new BufferedImage(10, 10, BufferedImage.TYPE_INT_RGB);
-            Graphics2D g = img.createGraphics();
-            @SuppressWarnings("unchecked")
-            List<NumberTick> ticks = axis.refreshTicks(g, new AxisState(), new Rectangle2D.Double(0, 0, 800, 600),
-                    RectangleEdge.LEFT);
-            g.dispose();
+            List<NumberTick> ticks = ticks(axis, 800, 600, RectangleEdge.LEFT);
             boolean fractional = false;
             for (NumberTick t : ticks) {
                 if (!t.getText().isEmpty()) { // labelled ticks (minor ticks carry no label)
@@ -241,17 +236,24 @@ class FiguresRenderTest {
         XYPlot plot = (XYPlot) chart.toJFreeChart().getPlot();
         ValueAxis axis = plot.getDomainAxis();
         assertEquals("daily mean (µg/m³, log scale)", axis.getLabel());
-        BufferedImage img = new BufferedImage(10, 10, BufferedImage.TYPE_INT_RGB);
-        Graphics2D g = img.createGraphics();
-        @SuppressWarnings("unchecked")
-        List<NumberTick> ticks = axis.refreshTicks(g, new AxisState(), new Rectangle2D.Double(0, 0, 800, 400),
-                RectangleEdge.BOTTOM);
-        g.dispose();
+        List<NumberTick> ticks = ticks(axis, 800, 400, RectangleEdge.BOTTOM);
         List<String> labels = new ArrayList<>();
         for (NumberTick t : ticks) {
             labels.add(t.getText());
             assertEquals(Math.log(Double.parseDouble(t.getText())), t.getValue(), 1e-12, "tick at the log of its label");
         }
         assertTrue(labels.containsAll(List.of("2", "5", "10", "20", "50", "100")), "labels " + labels);
+    }
+
+    /** The ticks JFreeChart lays out for an axis drawn along one edge of a width × height data area. */
+    @SuppressWarnings("unchecked")
+    private static List<NumberTick> ticks(ValueAxis axis, double width, double height, RectangleEdge edge) {
+        BufferedImage img = new BufferedImage(10, 10, BufferedImage.TYPE_INT_RGB);
+        Graphics2D g = img.createGraphics();
+        try {
+            return axis.refreshTicks(g, new AxisState(), new Rectangle2D.Double(0, 0, width, height), edge);
+        } finally {
+            g.dispose();
+        }
     }
 }
