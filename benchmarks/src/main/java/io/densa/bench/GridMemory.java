@@ -1,13 +1,8 @@
 package io.densa.bench;
 
-import io.densa.core.BayesSpace;
-import io.densa.spatial.Locations;
 import io.densa.spatial.kriging.Grid;
 import io.densa.spatial.kriging.GridOptions;
 import io.densa.spatial.kriging.Kriging;
-import io.densa.spatial.kriging.KrigingOptions;
-import io.densa.spatial.kriging.Neighbourhood;
-import io.densa.spatial.variogram.VariogramModel;
 import java.lang.management.ManagementFactory;
 import java.lang.management.MemoryPoolMXBean;
 import java.lang.management.MemoryType;
@@ -30,19 +25,7 @@ public final class GridMemory {
 
     public static void main(String[] args) {
         int side = args.length > 0 ? Integer.parseInt(args[0]) : 1000;
-        int stations = 2000;
-        int k = 32;
-        double[][] sc = SideBySide.synth(1, stations, k);
-        double[] x = new double[stations];
-        double[] y = new double[stations];
-        for (int i = 0; i < stations; i++) {
-            x[i] = sc[0][2 * i];
-            y[i] = sc[0][2 * i + 1];
-        }
-        BayesSpace space = BayesSpace.splines(0, 1, 4, k - 3);
-        Kriging kr = Kriging.ordinary(Locations.planar(x, y), SideBySide.asDensities(space, sc[1], stations),
-                VariogramModel.exponential(1, 0.3).withNugget(0.1),
-                KrigingOptions.withDefaults().withNeighbourhood(Neighbourhood.nearest(32)));
+        Kriging kr = SideBySide.gridKriging(SideBySide.gridStations());
         int cells = side * side;
         double[] variance = new double[cells];
         double[] mean = new double[cells];

@@ -264,8 +264,13 @@ public final class SideBySide {
         return DensitySet.ofRowMajor(space, c, n, null);
     }
 
-    static Run grid(int side) {
-        double[][] sc = synth(1, STATIONS, K);
+    /** The grid workload's stations: locations and coordinates from the peer's recipe (seed 1). */
+    static double[][] gridStations() {
+        return synth(1, STATIONS, K);
+    }
+
+    /** The grid workload's kriging (ordinary, exponential + nugget, 32 nearest) of {@link #gridStations}. */
+    static Kriging gridKriging(double[][] sc) {
         double[] x = new double[STATIONS];
         double[] y = new double[STATIONS];
         for (int i = 0; i < STATIONS; i++) {
@@ -273,10 +278,15 @@ public final class SideBySide {
             y[i] = sc[0][2 * i + 1];
         }
         BayesSpace space = BayesSpace.splines(0, 1, 4, K - 3);
-        long t0 = System.nanoTime();
-        Kriging kr = Kriging.ordinary(Locations.planar(x, y), asDensities(space, sc[1], STATIONS),
+        return Kriging.ordinary(Locations.planar(x, y), asDensities(space, sc[1], STATIONS),
                 VariogramModel.exponential(1, 0.3).withNugget(0.1),
                 KrigingOptions.withDefaults().withNeighbourhood(Neighbourhood.nearest(32)));
+    }
+
+    static Run grid(int side) {
+        double[][] sc = gridStations();
+        long t0 = System.nanoTime();
+        Kriging kr = gridKriging(sc);
         double[] sums = new double[2];
         double[] corners = new double[4];
         kr.predictGrid(Grid.over(0, 0, 1, 1, side, side), GridOptions.withDefaults(), t -> {
