@@ -259,9 +259,10 @@ public final class DensitySet {
 
     /**
      * Column means (computed once per set, which is immutable; FPCA asks for them twice: for the
-     * centred cross-products and for the mean density). The plain column sums cannot overflow when n·max|c| is below the largest
-     * double (the usual case, one check); otherwise every value is scaled by a power of two first
-     * (exact), so that rows near 1e308 still give their (representable) mean.
+     * centred cross-products and for the mean density). The plain column sums cannot overflow when
+     * n·max|c| is below the largest double (the usual case, one check); otherwise every value is
+     * scaled by a power of two first (exact), so that rows near 1e308 still give their
+     * (representable) mean.
      */
     private double[] meanCoordinates() {
         double[] m = columnMeans;

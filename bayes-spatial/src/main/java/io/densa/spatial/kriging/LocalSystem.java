@@ -10,8 +10,9 @@ import org.ejml.data.DMatrixRMaj;
  * A factorised kriging system for one neighbour set (package-private). With C the m × m data
  * covariance (plus error variances on the diagonal), C = L Lᵀ, drift matrix F (m × p), it keeps
  * G = L⁻¹F, S⁻¹ = (GᵀG)⁻¹ = (FᵀC⁻¹F)⁻¹ and L⁻¹Y (Y the data coordinates, centred by the known mean
- * for simple kriging; small systems keep Y instead, see {@link #KEEP_DATA_LIMIT}). A target with covariance vector c0 and drift vector f0 then needs one
- * forward solve v = L⁻¹c0 and gives, with r = Gᵀv − f0 and μ = S⁻¹r,
+ * for simple kriging; small systems keep Y instead, see {@link #KEEP_DATA_LIMIT}). A target with
+ * covariance vector c0 and drift vector f0 then needs one forward solve v = L⁻¹c0 and gives, with
+ * r = Gᵀv − f0 and μ = S⁻¹r,
  * prediction (v − Gμ)ᵀ L⁻¹Y, variance C(0) − vᵀv + rᵀμ and weights λ = L⁻ᵀ(v − Gμ).
  * These are the universal kriging equations Cλ + Fμ = c0, Fᵀλ = f0,
  * σ² = C(0) − λᵀc0 − μᵀf0 ("A Universal Kriging predictor for spatially dependent functional data
@@ -120,13 +121,20 @@ final class LocalSystem {
         return new LocalSystem(idx, p, k, l, g, sInv, ly, null, cond);
     }
 
-    /** L⁻¹Y: the kept one, or computed from Y (small systems). */
+    /** L⁻¹Y of a small system, computed on first use (drift coefficients, dual weights). */
+    private volatile double[] lyLater;
+
+    /** L⁻¹Y: the kept one, or computed once from Y (small systems). */
     private double[] transformedData() {
         if (ly != null) {
             return ly;
         }
-        double[] t = y.clone();
-        Cholesky.forwardRows(l, m, t, k);
+        double[] t = lyLater;
+        if (t == null) {
+            t = y.clone();
+            Cholesky.forwardRows(l, m, t, k);
+            lyLater = t;
+        }
         return t;
     }
 

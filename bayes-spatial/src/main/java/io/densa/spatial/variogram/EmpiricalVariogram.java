@@ -196,8 +196,8 @@ public final class EmpiricalVariogram {
         // maximum lag): bin b = ⌈h/w⌉ − 1 holds (e_b, e_{b+1}] like the general search
         double invWidth = uniform ? 1 / (e[1] - e[0]) : nearlyEqualSpacing(e) ? (e.length - 1) / (e[e.length - 1] - e[0]) : 0;
         int tiles = (n + ITILE - 1) / ITILE;
-        VariogramPass pass = new VariogramPass(n, k, yz, yt, nsq, pz, geo, max2, e, uniform, invWidth, ns, dcos, dsin, cosTol,
-                dirs != null);
+        VariogramPass pass = new VariogramPass(n, k, yz, yt, nsq, pz, geo, max2, e, uniform, invWidth, ns, dcos, dsin,
+                cosTol, dirs != null);
         return new Prepared(pass, n, k, e, dirs, yScale, y, tiles);
     }
 
@@ -232,7 +232,8 @@ public final class EmpiricalVariogram {
             keys[i] = key;
             idx[i] = i;
         }
-        java.util.Arrays.sort(idx, (a, b) -> keys[a] != keys[b] ? Long.compare(keys[a], keys[b]) : Integer.compare(a, b));
+        java.util.Arrays.sort(idx, (a, b) -> keys[a] != keys[b] ? Long.compare(keys[a], keys[b])
+                : Integer.compare(a, b));
         int[] out = new int[n];
         for (int i = 0; i < n; i++) {
             out[i] = idx[i];
