@@ -366,7 +366,7 @@ final class PenalizedFit {
         int iterations = eng.iterations();
         double loglik = eng.logLikelihood();
         double[] cov = new double[k * k];
-        eng.evaluate(lambda);
+        // solve leaves the objective evaluated at the final β: no second quadrature pass
         eng.fisherInformation();
         double edf = eng.sandwich(lambda, u, cov, true);
         if (Double.isNaN(edf) && prior != null) {
@@ -503,23 +503,16 @@ final class PenalizedFit {
     private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, CrossValidationFolds cv,
             double[] cov) {
         double[] dBeta = new double[k + 1];
-        double[] pb = new double[k];
-        double[] beta = eng.coefficients();
-        for (int i = 0; i < k; i++) {
-            double r = 0;
-            for (int j = 0; j < k; j++) {
-                r += rawPenalty[i * k + j] * beta[j];
-            }
-            pb[i] = -2 * lambda * r;
-        }
-        System.arraycopy(pb, 0, dBeta, 0, k);
-        eng.solveWithInformationFactor(dBeta);
+        eng.smoothingTangent(lambda, dBeta);
         double[] dc = new double[k];
         EstimationSupport.toCoordinates(u, k, dBeta, dc, 0);
         double[] saved = eng.coefficients();
         double h = SMOOTHING_STEP;
+        double dRho = h * Math.log(10);
+        // each side's fit starts from the first-order prediction β ± dRho dβ/dρ
+        eng.setCoefficientsAlong(saved, dRho, dBeta);
         double up = search.criterionAt(eng, lambda * Math.pow(10, h), cv);
-        eng.setCoefficients(saved);
+        eng.setCoefficientsAlong(saved, -dRho, dBeta);
         double down = search.criterionAt(eng, lambda * Math.pow(10, -h), cv);
         eng.setCoefficients(saved);
         eng.evaluate(lambda);

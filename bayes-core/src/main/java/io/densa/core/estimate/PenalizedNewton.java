@@ -31,6 +31,7 @@ final class PenalizedNewton {
     private final NewtonCovariance covariance;
     private final int k;
     private final int k1;
+    private final double[] rawPenalty;
     // state
     private final double[] beta;
     private final double[] trial;
@@ -51,6 +52,7 @@ final class PenalizedNewton {
         this.covariance = new NewtonCovariance(lik, lay.k, rawPenalty, prior);
         this.k = lay.k;
         this.k1 = k + 1;
+        this.rawPenalty = rawPenalty;
         beta = new double[k1];
         trial = new double[k1];
         step = new double[k1];
@@ -120,6 +122,9 @@ final class PenalizedNewton {
      * low curvature, and because the last step is taken, the remaining error is of the order of
      * its square (quadratic convergence of Newton's method; Nocedal &amp; Wright (2006), Numerical
      * Optimization, 2nd ed., Springer, Thm. 3.5; from memory).
+     *
+     * <p>On every return the objective's last evaluation is at the final β (its quadrature state,
+     * log-likelihood and derivatives can be read without evaluating again).
      *
      * @return true on convergence; otherwise {@link #failure} says why
      */
@@ -256,6 +261,33 @@ final class PenalizedNewton {
     /** Solves (L Lᵀ) x = rhs in place with the information factor left by the last {@link #sandwich}. */
     void solveWithInformationFactor(double[] rhs) {
         covariance.solveWithInformationFactor(rhs);
+    }
+
+    /**
+     * The path of the estimate in ρ = ln λ at the current β: dβ/dρ = −J⁻¹ 2λPβ, by implicit
+     * differentiation of the penalised score equation ℓ'(β) − 2λPβ − 2Qβ = 0, with J the
+     * information factor left by the last {@link #sandwich} or {@link #factorInformation} (expected
+     * information: the exact derivative where observed and expected information agree, a close
+     * first-order approximation otherwise). Into out (K + 1 values, out[K] = 0).
+     */
+    void smoothingTangent(double lambda, double[] out) {
+        for (int i = 0; i < k; i++) {
+            double r = 0;
+            for (int j = 0; j < k; j++) {
+                r += rawPenalty[i * k + j] * beta[j];
+            }
+            out[i] = -2 * lambda * r;
+        }
+        out[k] = 0.0;
+        covariance.solveWithInformationFactor(out);
+    }
+
+    /** Sets β = from + t · direction (K + 1 values; β_K = 0). */
+    void setCoefficientsAlong(double[] from, double t, double[] direction) {
+        for (int i = 0; i < k; i++) {
+            beta[i] = from[i] + t * direction[i];
+        }
+        beta[k] = 0.0;
     }
 
     /** Trace of the K × K Fisher information (after {@link #fisherInformation}). */
