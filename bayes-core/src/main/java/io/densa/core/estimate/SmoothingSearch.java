@@ -43,8 +43,12 @@ final class SmoothingSearch {
     /**
      * The λ of one unit chosen by the criterion (see the estimator's class documentation): the grid
      * scan from strong to weak smoothing, stopped two rises after the best value, refined by
-     * successive parabolic interpolation or by golden-section search. Leaves the engine at the
-     * coefficients of the best fit found.
+     * successive parabolic interpolation or by golden-section search. When the best grid value is
+     * the strongest smoothing on the grid and the criterion still falls towards it (a fit
+     * {@link #EDGE_STEP} decades inside gives a value at least as large), that end is the choice
+     * without the golden-section search, which would end there too for a criterion monotone on the
+     * last step; otherwise the search runs as before. Leaves the engine at the coefficients of the
+     * best fit found.
      */
     double choose(PenalizedNewton eng, double scale, CrossValidationFolds cv) {
         int steps = (int) Math.floor((gridHi - gridLo) / gridStep + 1e-9);
@@ -140,9 +144,25 @@ final class SmoothingSearch {
             eng.setCoefficients(bestBeta);
             return lambda;
         } else {
+            if (bestG >= gridHi && bestC < Double.POSITIVE_INFINITY) {
+                path.startNearBest(eng, bestBeta, bestG, bestG - EDGE_STEP);
+                double inside = criterionAt(eng, lambdaAt(eng.total(), scale, bestG - EDGE_STEP), cv, null);
+                if (inside >= bestC) {
+                    eng.setCoefficients(bestBeta);
+                    return lambdaAt(eng.total(), scale, bestG);
+                }
+            }
             return golden(eng, scale, cv, bestG, bestC, bestBeta, path);
         }
     }
+
+    /**
+     * How far inside the strongest smoothing of the grid (decades) the criterion is checked before
+     * that end is taken: below the golden-section search's resolution on one grid step
+     * (0.618⁹ ≈ 0.013 decades for 7 steps) and well above the criterion's error at the search
+     * tolerance.
+     */
+    static final double EDGE_STEP = 0.01;
 
     /** Golden-section refinement of log10 λ on [bestG − step, bestG + step] (grid ends or flat spots). */
     private double golden(PenalizedNewton eng, double scale, CrossValidationFolds cv, double bestG, double bestC,
