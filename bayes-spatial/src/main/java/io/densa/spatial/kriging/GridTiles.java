@@ -6,9 +6,7 @@ import io.densa.core.internal.Kernels;
 import io.densa.spatial.Locations;
 import io.densa.spatial.NeighbourIndex;
 import java.util.Arrays;
-import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Map;
 import java.util.Objects;
 import java.util.function.Consumer;
 import java.util.function.Function;
@@ -30,8 +28,10 @@ import org.locationtech.jts.geom.prep.PreparedGeometry;
  * with centre t and half-diagonal δ, the k nearest data locations of any cell c lie within
  * d_k(t) + 2δ of t (triangle inequality: d_k(c) ≤ d_k(t) + δ), so one radius query per 16 × 16
  * sub-block of a tile gives a candidate list, and each cell selects its k nearest from it exactly (ties by index, as {@link NeighbourIndex#nearest}). Factorised systems are kept per
- * tile in a least-recently-used cache of 256 neighbour sets, so adjacent cells that share their
- * neighbours share one factorisation and memory stays bounded by the tile;
+ * tile in a cache of 512 neighbour sets (direct-mapped by an order-free hash of the set, each hit
+ * confirmed station by station), so adjacent cells that share their neighbours share one
+ * factorisation and memory stays bounded by the tile; a system depends only on its set, so the
+ * cache changes the work done, never a result;
  * station–station covariances come from the kriging's station matrix. Global neighbourhood
  * without variance uses the dual form: predictions = C0 α + F0 β for the tile's m × n covariance
  * block C0, with α, β from one factorisation (O(nK) per cell after the covariances).
@@ -39,7 +39,8 @@ import org.locationtech.jts.geom.prep.PreparedGeometry;
  * <p>Stateless; the kriging is shared read-only (it is safe to share between threads).
  */
 public final class GridTiles {
-    private static final int CACHE_LIMIT = 256;
+    /** Slots of a tile's cache of factorised systems (a power of two). */
+    private static final int CACHE_SLOTS = 512;
     /**
      * Tiles computed (in parallel) before they are handed to the consumer in order: fixed, so that
      * the memory held and the progress granularity do not depend on the machine (16 tiles keep a
@@ -141,26 +142,6 @@ public final class GridTiles {
             LocalSystem g = kr.globalSystem();
             beta = g.driftCoefficients();
             alpha = g.dualWeights(beta);
-        }
-    }
-
-    private static final class Key {
-        final int[] idx;
-        final int hash;
-
-        Key(int[] idx) {
-            this.idx = idx;
-            this.hash = Arrays.hashCode(idx);
-        }
-
-        @Override
-        public boolean equals(Object o) {
-            return o instanceof Key && Arrays.equals(idx, ((Key) o).idx);
-        }
-
-        @Override
-        public int hashCode() {
-            return hash;
         }
     }
 
@@ -336,14 +317,7 @@ public final class GridTiles {
         for (int q = 0; q < m; q++) {
             order[fill[sub[q]]++] = q;
         }
-        Map<Key, LocalSystem> cache = new LinkedHashMap<>(2 * CACHE_LIMIT, 0.75f, true) {
-            private static final long serialVersionUID = 1L;
-
-            @Override
-            protected boolean removeEldestEntry(Map.Entry<Key, LocalSystem> eldest) {
-                return size() > CACHE_LIMIT;
-            }
-        };
+        SystemCache cache = new SystemCache();
         LocalSystem.Scratch sc = new LocalSystem.Scratch(kr.driftSize());
         for (int gI = 0; gI < groups; gI++) {
             if (start[gI + 1] > start[gI]) {
@@ -355,7 +329,7 @@ public final class GridTiles {
 
     /** Predicts the cells order[from..to) sharing one candidate query. */
     private static void localCells(Kriging kr, Grid grid, int[] cols, int[] rows, int[] order, int from, int to,
-            double[] coords, double[] var, double[] near, Map<Key, LocalSystem> cache, LocalSystem.Scratch sc,
+            double[] coords, double[] var, double[] near, SystemCache cache, LocalSystem.Scratch sc,
             CovariateGrid cg) {
         int k = kr.dimension(), p = kr.driftSize();
         Neighbourhood hood = kr.options().neighbourhood();
@@ -401,21 +375,23 @@ public final class GridTiles {
                 }
                 heap.offer(dd, cand[a]);
             }
-            int[] nb = heap.sortedIndices();
-            if (nb.length < Math.min(need, kr.size())) {
+            int mm = heap.size();
+            if (mm < Math.min(need, kr.size())) {
                 // fall back to the exact per-target path, which reports the failure with diagnostics
                 kr.neighbours(x, y, -1);
             }
-            Key key = new Key(nb);
+            // the set, not its order, names the system: look it up by an order-free hash and check
+            // it station by station; only a new set is sorted (the system's canonical order)
+            long key = heap.setHash();
             LocalSystem sys = cache.get(key);
-            if (sys == null) {
-                sys = kr.system(nb);
+            if (sys == null || !heap.sameSet(sys)) {
+                sys = kr.system(heap.sortedIndices());
                 cache.put(key, sys);
             }
-            int mm = nb.length;
             double[] cv = mm == c0.length ? c0 : new double[mm];
             double[] dv = mm == nd.length ? nd : new double[mm];
-            kr.covariances().targets(nb, mm, x, y, dv, cv);
+            heap.distancesInOrderOf(sys, dv);
+            kr.covariances().atDistances(dv, mm, cv);
             kr.design().driftAt(x, y, covariates(cg, cols[q], rows[q], cov), f0);
             double v = sys.predict(cv, f0, kr.covariances().pseudoSill(), kr.centre(), coords, q * k, null, sc);
             if (sc.residual > LocalSystem.CONSTRAINT_TOLERANCE) {
@@ -430,6 +406,24 @@ public final class GridTiles {
         }
     }
 
+    /** Direct-mapped cache of factorised systems by the hash of their station set. */
+    private static final class SystemCache {
+        private final long[] keys = new long[CACHE_SLOTS];
+        private final LocalSystem[] systems = new LocalSystem[CACHE_SLOTS];
+
+        /** The system stored under this hash, or null (another hash may have taken its slot). */
+        LocalSystem get(long key) {
+            int s = (int) key & (CACHE_SLOTS - 1);
+            return systems[s] != null && keys[s] == key ? systems[s] : null;
+        }
+
+        void put(long key, LocalSystem sys) {
+            int s = (int) key & (CACHE_SLOTS - 1);
+            keys[s] = key;
+            systems[s] = sys;
+        }
+    }
+
     /** Bounded max-heap of (distance, index) keeping the smallest entries, ordered by (distance, index). */
     static final class Heap {
         private final double[] d;
@@ -441,6 +435,9 @@ public final class GridTiles {
             this.cap = cap;
             d = new double[cap];
             ix = new int[cap];
+            table = new int[Integer.highestOneBit(Math.max(4, cap) * 4 - 1) << 1];
+            stamp = new int[table.length];
+            mask = table.length - 1;
         }
 
         void clear() {
@@ -502,6 +499,88 @@ public final class GridTiles {
             int[] out = Arrays.copyOf(ix, size);
             Arrays.sort(out);
             return out;
+        }
+
+        int size() {
+            return size;
+        }
+
+        /**
+         * A hash of the set of indices held, independent of their order: the wrapping sum of a
+         * 64-bit mix of each (SplitMix64's finaliser; Steele, Lea &amp; Flood (2014), Fast
+         * splittable pseudorandom number generators, OOPSLA; from memory). Equal sets hash equal;
+         * a lookup by it is confirmed by {@link #sameSet}.
+         */
+        long setHash() {
+            long h = size;
+            for (int a = 0; a < size; a++) {
+                long z = ix[a] * 0x9E3779B97F4A7C15L;
+                z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9L;
+                z = (z ^ (z >>> 27)) * 0x94D049BB133111EBL;
+                h += z ^ (z >>> 31);
+            }
+            fillTable();
+            return h;
+        }
+
+        /** Whether the system's stations are exactly the indices held (after {@link #setHash}). */
+        boolean sameSet(LocalSystem sys) {
+            if (sys.size() != size) {
+                return false;
+            }
+            for (int j = 0; j < size; j++) {
+                if (slot(sys.station(j)) < 0) {
+                    return false;
+                }
+            }
+            return true;
+        }
+
+        /** The held distances in the order of the system's stations (the same set; after {@link #setHash}). */
+        void distancesInOrderOf(LocalSystem sys, double[] out) {
+            for (int j = 0; j < size; j++) {
+                out[j] = d[slot(sys.station(j))];
+            }
+        }
+
+        // open addressing from index to heap position, rebuilt by setHash; a slot is filled only
+        // if its stamp is the current generation (no clearing between cells)
+        private final int[] table;
+        private final int[] stamp;
+        private final int mask;
+        private int generation;
+
+        private void fillTable() {
+            if (++generation == 0) {
+                Arrays.fill(stamp, 0);
+                generation = 1;
+            }
+            for (int a = 0; a < size; a++) {
+                int s = spread(ix[a]) & mask;
+                while (stamp[s] == generation) {
+                    s = (s + 1) & mask;
+                }
+                stamp[s] = generation;
+                table[s] = a;
+            }
+        }
+
+        /** Heap position of index i, or −1 if it is not held. */
+        private int slot(int i) {
+            int s = spread(i) & mask;
+            while (stamp[s] == generation) {
+                int a = table[s];
+                if (ix[a] == i) {
+                    return a;
+                }
+                s = (s + 1) & mask;
+            }
+            return -1;
+        }
+
+        private static int spread(int i) {
+            int h = i * 0x9E3779B9;
+            return h ^ (h >>> 16);
         }
     }
 

@@ -139,6 +139,11 @@ final class LocalSystem {
     }
 
     /** Number of stations m. */
+    /** Station j of the system (its stations in increasing index order). */
+    int station(int j) {
+        return idx[j];
+    }
+
     int size() {
         return m;
     }

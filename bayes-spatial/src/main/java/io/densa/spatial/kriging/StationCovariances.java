@@ -104,6 +104,11 @@ final class StationCovariances {
     /** Covariances from (x, y) to stations idx[0..m) (all if idx is null) into out; dist is scratch. */
     void targets(int[] idx, int m, double x, double yy, double[] dist, double[] out) {
         distances(idx, m, x, yy, dist);
+        atDistances(dist, m, out);
+    }
+
+    /** Covariances at the distances dist[0..m) (from {@link #distances}) into out. */
+    void atDistances(double[] dist, int m, double[] out) {
         unitModel.pseudoCovariances(dist, m, pseudoSill, out);
     }
 
