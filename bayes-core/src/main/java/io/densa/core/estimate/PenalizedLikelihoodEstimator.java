@@ -100,8 +100,10 @@ import io.densa.core.estimate.BinLayout.CensoredCounts;
  * point is refined within one grid step by three steps of successive parabolic interpolation in
  * log λ through the neighbouring grid values (Brent (1973), Algorithms for Minimization without
  * Derivatives, ch. 5; from memory), or by golden-section search at the ends of the grid or where
- * the criterion is not convex (fits during the search use the tolerance max(tol, 10⁻⁹), the final
- * fit tol). With very sparse
+ * the criterion is not convex; when the best grid point is the strongest smoothing of the grid and
+ * a fit 0.01 decades inside is no better, that end is itself the local minimum with the largest λ
+ * and is taken as it is. Refinement fits start on the tangent of the solution path β(log λ) at the
+ * best fit (fits during the search use the tolerance max(tol, 10⁻⁹), the final fit tol). With very sparse
  * counts the criteria may decrease all the way down to the end of the grid (undersmoothing);
  * {@link #withSmoothingGrid} sets a floor.
  *

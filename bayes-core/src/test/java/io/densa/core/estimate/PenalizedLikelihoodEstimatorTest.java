@@ -206,6 +206,36 @@ class PenalizedLikelihoodEstimatorTest {
         }
     }
 
+    /**
+     * A grid that ends below the criterion's optimum: the marginal likelihood still falls into the
+     * strongest smoothing of the grid, so that end is the local minimum with the largest λ and is
+     * chosen exactly (no refinement inside the last step). Checked against fixed-λ fits of the same
+     * criterion inside the end (brute force, as above) and against the same unit on a grid reaching
+     * further, whose choice lies above the end.
+     */
+    @Test
+    void criterionFallingIntoTheGridEndTakesTheEnd() {
+        BayesSpace space = BayesSpace.splines(0, 1, 4, 8);
+        double[] e = edges(0, 1, 40);
+        int[] counts = EstimationTestSupport.mixture().counts(3000, 40, rng(77));
+        PenalizedLikelihoodEstimator wide = PenalizedLikelihoodEstimator.withDefaults(space);
+        double optimum = Math.log10(wide.fit(e, counts).diagnostics().smoothing());
+        // grids whose top lies decades below the optimum: each choice is its grid's end, a grid
+        // point log10 λ = log10(N s) + top, so ends one decade apart give choices one decade apart
+        PenalizedLikelihoodEstimator narrow = wide.withSmoothingGrid(-9, -5, 1);
+        EstimationDiagnostics chosen = narrow.fit(e, counts).diagnostics();
+        double end = Math.log10(chosen.smoothing());
+        assertTrue(optimum > end + 1, "optimum " + optimum + " vs end " + end);
+        double below = Math.log10(wide.withSmoothingGrid(-9, -6, 1).fit(e, counts).diagnostics().smoothing());
+        assertEquals(end - 1, below, 1e-9);
+        for (int j = 1; j <= 10; j++) {
+            double g = end - 0.1 * j;
+            EstimationDiagnostics d = narrow.withSmoothing(Math.pow(10, g)).fit(e, counts).diagnostics();
+            assertTrue(d.criterionValue() >= chosen.criterionValue() - 1e-9 * Math.abs(chosen.criterionValue()),
+                    "criterion at log10 lambda " + g + ": " + d.criterionValue() + " < " + chosen.criterionValue());
+        }
+    }
+
     /** Units without events: rejected by default, or the reference density flagged in the diagnostics. */
     @Test
     void zeroTotalUnitGivesFlaggedReference() {
