@@ -54,13 +54,13 @@ final class SmoothingSearch {
         int steps = (int) Math.floor((gridHi - gridLo) / gridStep + 1e-9);
         double bestG = gridHi, bestC = Double.POSITIVE_INFINITY;
         double[] bestBeta = new double[k + 1];
-        Path path = new Path(k);
+        Path path = new Path(k, criterion != SmoothingCriterion.CROSS_VALIDATION);
         int rising = 0;
         double prev = Double.POSITIVE_INFINITY;
         double cAbove = Double.POSITIVE_INFINITY, cBelow = Double.POSITIVE_INFINITY;
         for (int s = 0; s <= steps && rising < 2; s++) {
             double g = gridHi - s * gridStep;
-            double c = criterionAt(eng, lambdaAt(eng.total(), scale, g), cv, path);
+            double c = criterionAt(eng, lambdaAt(eng.total(), scale, g), cv);
             if (c < bestC) {
                 bestC = c;
                 bestG = g;
@@ -68,7 +68,7 @@ final class SmoothingSearch {
                 cAbove = s > 0 ? prev : Double.POSITIVE_INFINITY;
                 cBelow = Double.POSITIVE_INFINITY;
                 eng.copyCoefficientsTo(bestBeta);
-                path.keepBest();
+                path.keepBest(eng, lambdaAt(eng.total(), scale, g));
             } else if (bestC < Double.POSITIVE_INFINITY) {
                 if (rising == 0) {
                     cBelow = c;
@@ -117,7 +117,7 @@ final class SmoothingSearch {
                     break;
                 }
                 path.startNearBest(eng, bestBeta, bestG, x);
-                double c = criterionAt(eng, lambdaAt(eng.total(), scale, x), cv, path);
+                double c = criterionAt(eng, lambdaAt(eng.total(), scale, x), cv);
                 if (m == 3) {
                     gs[3] = x;
                     cs[3] = c;
@@ -137,7 +137,7 @@ final class SmoothingSearch {
                     bestC = c;
                     bestG = x;
                     eng.copyCoefficientsTo(bestBeta);
-                    path.keepBest();
+                    path.keepBest(eng, lambdaAt(eng.total(), scale, x));
                 }
             }
             double lambda = lambdaAt(eng.total(), scale, bestG);
@@ -146,7 +146,7 @@ final class SmoothingSearch {
         } else {
             if (bestG >= gridHi && bestC < Double.POSITIVE_INFINITY) {
                 path.startNearBest(eng, bestBeta, bestG, bestG - EDGE_STEP);
-                double inside = criterionAt(eng, lambdaAt(eng.total(), scale, bestG - EDGE_STEP), cv, null);
+                double inside = criterionAt(eng, lambdaAt(eng.total(), scale, bestG - EDGE_STEP), cv);
                 if (inside >= bestC) {
                     eng.setCoefficients(bestBeta);
                     return lambdaAt(eng.total(), scale, bestG);
@@ -170,7 +170,7 @@ final class SmoothingSearch {
         double lo = Math.max(gridLo, bestG - gridStep), hi = Math.min(gridHi, bestG + gridStep);
         double gBest = GoldenSection.minimise(x -> {
             path.startNearBest(eng, bestBeta, bestG, x);
-            return criterionAt(eng, lambdaAt(eng.total(), scale, x), cv, null);
+            return criterionAt(eng, lambdaAt(eng.total(), scale, x), cv);
         }, lo, hi, GOLDEN_STEPS, bestG, bestC);
         eng.setCoefficients(bestBeta);
         return lambdaAt(eng.total(), scale, gBest);
@@ -206,29 +206,28 @@ final class SmoothingSearch {
      * Per call of {@link #choose}.
      */
     private static final class Path {
-        final double[] tangent;
         final double[] bestTangent;
-        boolean known;
+        /** Whether the criterion leaves the information factor in the engine (all but cross-validation). */
+        final boolean factored;
         boolean bestKnown;
 
-        Path(int k) {
-            tangent = new double[k + 1];
+        Path(int k, boolean factored) {
             bestTangent = new double[k + 1];
+            this.factored = factored;
         }
 
-        /** After a successful fit whose information factor is in the engine. */
-        void record(PenalizedNewton eng, double lambda) {
-            eng.smoothingTangent(lambda, tangent);
-            known = true;
-            for (double v : tangent) {
-                known &= Double.isFinite(v);
+        /**
+         * The fit just evaluated (at λ, its information factor still in the engine) is the best so
+         * far: keeps its tangent.
+         */
+        void keepBest(PenalizedNewton eng, double lambda) {
+            bestKnown = factored;
+            if (factored) {
+                eng.smoothingTangent(lambda, bestTangent);
+                for (double v : bestTangent) {
+                    bestKnown &= Double.isFinite(v);
+                }
             }
-        }
-
-        /** The last recorded fit is the best so far. */
-        void keepBest() {
-            bestKnown = known;
-            System.arraycopy(tangent, 0, bestTangent, 0, tangent.length);
         }
 
         /** Starts the engine at the prediction for log10 λ = g from the best fit (at bestG). */
@@ -245,17 +244,6 @@ final class SmoothingSearch {
 
     /** Fits at λ from the current beta and returns the criterion (+∞ on failure). */
     double criterionAt(PenalizedNewton eng, double lambda, CrossValidationFolds cv) {
-        return criterionAt(eng, lambda, cv, null);
-    }
-
-    /**
-     * As {@link #criterionAt(PenalizedNewton, double, CrossValidationFolds)}; records the fit and its
-     * tangent in path (when not null and the criterion leaves an information factor).
-     */
-    private double criterionAt(PenalizedNewton eng, double lambda, CrossValidationFolds cv, Path path) {
-        if (path != null) {
-            path.known = false;
-        }
         if (!eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE))) {
             return Double.POSITIVE_INFINITY;
         }
@@ -273,9 +261,6 @@ final class SmoothingSearch {
             if (Double.isNaN(edf)) {
                 return Double.POSITIVE_INFINITY;
             }
-        }
-        if (path != null && criterion != SmoothingCriterion.CROSS_VALIDATION) {
-            path.record(eng, lambda);
         }
         double c = criterionValue(eng, lambda, edf, loglik, cv);
         return Double.isNaN(c) ? Double.POSITIVE_INFINITY : c;

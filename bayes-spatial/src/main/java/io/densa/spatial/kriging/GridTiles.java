@@ -382,15 +382,15 @@ public final class GridTiles {
             }
             // the set, not its order, names the system: look it up by an order-free hash and check
             // it station by station; only a new set is sorted (the system's canonical order)
-            long key = heap.setHash();
-            LocalSystem sys = cache.get(key);
-            if (sys == null || !heap.sameSet(sys)) {
-                sys = kr.system(heap.sortedIndices());
-                cache.put(key, sys);
-            }
             double[] cv = mm == c0.length ? c0 : new double[mm];
             double[] dv = mm == nd.length ? nd : new double[mm];
-            heap.distancesInOrderOf(sys, dv);
+            long key = heap.indexSet();
+            LocalSystem sys = cache.get(key);
+            if (sys == null || !heap.distancesInOrderOf(sys, dv)) {
+                sys = kr.system(heap.sortedIndices());
+                cache.put(key, sys);
+                heap.distancesInOrderOf(sys, dv);
+            }
             kr.covariances().atDistances(dv, mm, cv);
             kr.design().driftAt(x, y, covariates(cg, cols[q], rows[q], cov), f0);
             double v = sys.predict(cv, f0, kr.covariances().pseudoSill(), kr.centre(), coords, q * k, null, sc);
@@ -506,12 +506,13 @@ public final class GridTiles {
         }
 
         /**
-         * A hash of the set of indices held, independent of their order: the wrapping sum of a
-         * 64-bit mix of each (SplitMix64's finaliser; Steele, Lea &amp; Flood (2014), Fast
-         * splittable pseudorandom number generators, OOPSLA; from memory). Equal sets hash equal;
-         * a lookup by it is confirmed by {@link #sameSet}.
+         * Indexes the entries held (for {@link #distancesInOrderOf}) and returns a hash of their
+         * set, independent of their order: the wrapping sum of a 64-bit mix of each index
+         * (SplitMix64's finaliser; Steele, Lea &amp; Flood (2014), Fast splittable pseudorandom
+         * number generators, OOPSLA; from memory). Equal sets hash equal; a lookup by it is
+         * confirmed by {@link #distancesInOrderOf}.
          */
-        long setHash() {
+        long indexSet() {
             long h = size;
             for (int a = 0; a < size; a++) {
                 long z = ix[a] * 0x9E3779B97F4A7C15L;
@@ -523,27 +524,26 @@ public final class GridTiles {
             return h;
         }
 
-        /** Whether the system's stations are exactly the indices held (after {@link #setHash}). */
-        boolean sameSet(LocalSystem sys) {
+        /**
+         * If the system's stations are exactly the indices held (after {@link #indexSet}), writes
+         * the held distances in the order of its stations into out and returns true; otherwise
+         * returns false (out partly written).
+         */
+        boolean distancesInOrderOf(LocalSystem sys, double[] out) {
             if (sys.size() != size) {
                 return false;
             }
             for (int j = 0; j < size; j++) {
-                if (slot(sys.station(j)) < 0) {
+                int a = slot(sys.station(j));
+                if (a < 0) {
                     return false;
                 }
+                out[j] = d[a];
             }
             return true;
         }
 
-        /** The held distances in the order of the system's stations (the same set; after {@link #setHash}). */
-        void distancesInOrderOf(LocalSystem sys, double[] out) {
-            for (int j = 0; j < size; j++) {
-                out[j] = d[slot(sys.station(j))];
-            }
-        }
-
-        // open addressing from index to heap position, rebuilt by setHash; a slot is filled only
+        // open addressing from index to heap position, rebuilt by indexSet; a slot is filled only
         // if its stamp is the current generation (no clearing between cells)
         private final int[] table;
         private final int[] stamp;

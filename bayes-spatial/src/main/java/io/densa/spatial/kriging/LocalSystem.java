@@ -138,12 +138,12 @@ final class LocalSystem {
         return t;
     }
 
-    /** Number of stations m. */
     /** Station j of the system (its stations in increasing index order). */
     int station(int j) {
         return idx[j];
     }
 
+    /** Number of stations m. */
     int size() {
         return m;
     }
