@@ -238,14 +238,8 @@ public final class Basis {
 
     @Override
     public boolean equals(Object o) {
-        if (this == o) {
-            return true;
-        }
-        if (!(o instanceof Basis)) {
-            return false;
-        }
-        Basis other = (Basis) o;
-        return kind == other.kind && order == other.order && Arrays.equals(knots, other.knots);
+        return this == o || o instanceof Basis other
+                && kind == other.kind && order == other.order && Arrays.equals(knots, other.knots);
     }
 
     @Override

@@ -574,14 +574,8 @@ public final class BayesSpace {
 
     @Override
     public boolean equals(Object o) {
-        if (this == o) {
-            return true;
-        }
-        if (!(o instanceof BayesSpace)) {
-            return false;
-        }
-        BayesSpace s = (BayesSpace) o;
-        return Double.compare(a, s.a) == 0 && Double.compare(b, s.b) == 0 && reference.equals(s.reference)
+        return this == o || o instanceof BayesSpace s
+                && Double.compare(a, s.a) == 0 && Double.compare(b, s.b) == 0 && reference.equals(s.reference)
                 && basis.equals(s.basis);
     }
 

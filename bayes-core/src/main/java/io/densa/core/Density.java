@@ -545,14 +545,8 @@ public final class Density {
     /** Exact equality: equal spaces and bit-identical coordinates. */
     @Override
     public boolean equals(Object o) {
-        if (this == o) {
-            return true;
-        }
-        if (!(o instanceof Density)) {
-            return false;
-        }
-        Density d = (Density) o;
-        return space.equals(d.space) && Arrays.equals(c, d.c);
+        return this == o || o instanceof Density d
+                && space.equals(d.space) && Arrays.equals(c, d.c);
     }
 
     @Override

@@ -145,14 +145,8 @@ public final class Reference {
 
     @Override
     public boolean equals(Object o) {
-        if (this == o) {
-            return true;
-        }
-        if (!(o instanceof Reference)) {
-            return false;
-        }
-        Reference r = (Reference) o;
-        return kind == r.kind && Double.compare(p1, r.p1) == 0 && Double.compare(p2, r.p2) == 0
+        return this == o || o instanceof Reference r
+                && kind == r.kind && Double.compare(p1, r.p1) == 0 && Double.compare(p2, r.p2) == 0
                 && name.equals(r.name) && weight == r.weight;
     }
 

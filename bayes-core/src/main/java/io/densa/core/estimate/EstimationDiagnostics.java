@@ -1,7 +1,7 @@
 package io.densa.core.estimate;
 
 import io.densa.core.NumericalDiagnostics;
-import java.util.Arrays;
+import io.densa.core.internal.RecordArrays;
 import java.util.Objects;
 import org.ejml.data.DMatrixRMaj;
 
@@ -142,28 +142,16 @@ public record EstimationDiagnostics(String id, Status status, String reason, dou
         return new DMatrixRMaj(k, k, true, covariance);
     }
 
+    /** Equality by content of every component (the covariance element by element). */
     @Override
     public boolean equals(Object o) {
-        if (this == o) {
-            return true;
-        }
-        if (!(o instanceof EstimationDiagnostics)) {
-            return false;
-        }
-        EstimationDiagnostics d = (EstimationDiagnostics) o;
-        return id.equals(d.id) && status == d.status && reason.equals(d.reason)
-                && Double.compare(smoothing, d.smoothing) == 0 && smoothingChosen == d.smoothingChosen
-                && criterion == d.criterion && Double.compare(criterionValue, d.criterionValue) == 0
-                && Double.compare(effectiveDegreesOfFreedom, d.effectiveDegreesOfFreedom) == 0
-                && Double.compare(logLikelihood, d.logLikelihood) == 0 && Double.compare(total, d.total) == 0
-                && iterations == d.iterations && Arrays.equals(covariance, d.covariance)
-                && Double.compare(estimationVariance, d.estimationVariance) == 0
-                && Double.compare(extrapolationShare, d.extrapolationShare) == 0;
+        return RecordArrays.equal(this, o);
     }
 
+    /** Hash of the content of every component. */
     @Override
     public int hashCode() {
-        return Objects.hash(id, status, smoothing, criterionValue, iterations, Arrays.hashCode(covariance));
+        return RecordArrays.hash(this);
     }
 
     @Override

@@ -357,14 +357,8 @@ public final class RawBasis {
 
     @Override
     public boolean equals(Object o) {
-        if (this == o) {
-            return true;
-        }
-        if (!(o instanceof RawBasis)) {
-            return false;
-        }
-        RawBasis other = (RawBasis) o;
-        return kind == other.kind && order == other.order && Arrays.equals(knots, other.knots);
+        return this == o || o instanceof RawBasis other
+                && kind == other.kind && order == other.order && Arrays.equals(knots, other.knots);
     }
 
     @Override

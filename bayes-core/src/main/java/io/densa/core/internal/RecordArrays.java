@@ -1,5 +1,6 @@
 package io.densa.core.internal;
 
+import java.lang.reflect.RecordComponent;
 import java.util.Arrays;
 
 /**
@@ -31,14 +32,47 @@ public final class RecordArrays {
         return out;
     }
 
-    /** Content equality of the components of two records of the same type. */
-    public static boolean equal(Object[] a, Object[] b) {
-        return Arrays.deepEquals(a, b);
+    /**
+     * Content equality of two records of the same class: every component compared through its
+     * accessor, arrays (nested too) element by element. One rule for every result record with
+     * array components, so that a new component cannot be forgotten in equals.
+     */
+    public static boolean equal(Record self, Object other) {
+        return other != null && other.getClass() == self.getClass()
+                && Arrays.deepEquals(components(self), components((Record) other));
     }
 
-    /** Content hash of a record's components. */
-    public static int hash(Object[] parts) {
-        return Arrays.deepHashCode(parts);
+    /** Content hash of a record's components (arrays by content), consistent with {@link #equal}. */
+    public static int hash(Record self) {
+        return Arrays.deepHashCode(components(self));
+    }
+
+    /**
+     * "Name[c1=v1, c2=v2, ...]" as {@link Record#toString()} prints it, but with arrays printed by
+     * content and abbreviated as {@link #describe(String, String[], Object[])} does.
+     */
+    public static String describe(Record self) {
+        RecordComponent[] rc = self.getClass().getRecordComponents();
+        String[] names = new String[rc.length];
+        for (int i = 0; i < rc.length; i++) {
+            names[i] = rc[i].getName();
+        }
+        return describe(self.getClass().getSimpleName(), names, components(self));
+    }
+
+    /** The values of a record's components in declaration order, read through their public accessors. */
+    private static Object[] components(Record r) {
+        RecordComponent[] rc = r.getClass().getRecordComponents();
+        Object[] out = new Object[rc.length];
+        for (int i = 0; i < rc.length; i++) {
+            try {
+                out[i] = rc[i].getAccessor().invoke(r);
+            } catch (ReflectiveOperationException e) {
+                throw new IllegalStateException("record component " + rc[i].getName() + " of "
+                        + r.getClass().getName() + " is not readable", e);
+            }
+        }
+        return out;
     }
 
     /** Array elements printed by {@link #describe} before it abbreviates. */

@@ -54,26 +54,23 @@ public record CrossValidation(double[][] errors, double[] errorNorms, double[] k
         return RecordArrays.copy(standardisedErrors);
     }
 
-    private Object[] parts() {
-        return new Object[] {errors, errorNorms, krigingVariances, standardisedErrors, meanError, meanSquaredError, meanStandardisedSquaredError, biasNorm};
-    }
 
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {
-        return o instanceof CrossValidation other && RecordArrays.equal(parts(), other.parts());
+        return RecordArrays.equal(this, o);
     }
 
     /** Hash of the content of every component. */
     @Override
     public int hashCode() {
-        return RecordArrays.hash(parts());
+        return RecordArrays.hash(this);
     }
 
     /** The components, arrays printed by content. */
     @Override
     public String toString() {
-        return RecordArrays.describe("CrossValidation", new String[] {"errors", "errorNorms", "krigingVariances", "standardisedErrors", "meanError", "meanSquaredError", "meanStandardisedSquaredError", "biasNorm"}, parts());
+        return RecordArrays.describe(this);
     }
 
     /**

@@ -147,21 +147,17 @@ public record GridOptions(int tileSize, boolean variance, double[] thresholds, d
         return probabilities.clone();
     }
 
-    private Object[] parts() {
-        return new Object[] {tileSize, variance, thresholds, probabilities, means, functions, parallel, listener,
-            nearestDistances};
-    }
 
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {
-        return o instanceof GridOptions other && RecordArrays.equal(parts(), other.parts());
+        return RecordArrays.equal(this, o);
     }
 
     /** Hash of the content of every component. */
     @Override
     public int hashCode() {
-        return RecordArrays.hash(parts());
+        return RecordArrays.hash(this);
     }
 
     @Override

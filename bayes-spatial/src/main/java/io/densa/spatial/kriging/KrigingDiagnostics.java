@@ -29,25 +29,22 @@ public record KrigingDiagnostics(int systemSize, double conditionEstimate, int[]
         return RecordArrays.copy(locations);
     }
 
-    private Object[] parts() {
-        return new Object[] {systemSize, conditionEstimate, locations, detail};
-    }
 
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {
-        return o instanceof KrigingDiagnostics other && RecordArrays.equal(parts(), other.parts());
+        return RecordArrays.equal(this, o);
     }
 
     /** Hash of the content of every component. */
     @Override
     public int hashCode() {
-        return RecordArrays.hash(parts());
+        return RecordArrays.hash(this);
     }
 
     /** The components, arrays printed by content. */
     @Override
     public String toString() {
-        return RecordArrays.describe("KrigingDiagnostics", new String[] {"systemSize", "conditionEstimate", "locations", "detail"}, parts());
+        return RecordArrays.describe(this);
     }
 }

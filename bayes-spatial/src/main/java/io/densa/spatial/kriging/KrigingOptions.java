@@ -120,20 +120,17 @@ public record KrigingOptions(Neighbourhood neighbourhood, double[] errorVariance
         return diagExtraRaw;
     }
 
-    private Object[] parts() {
-        return new Object[] {neighbourhood, errorVariances, coincidentNugget, conditionLimit, parallel};
-    }
 
     /** Equality by content of every component (the error variances element by element). */
     @Override
     public boolean equals(Object o) {
-        return o instanceof KrigingOptions other && RecordArrays.equal(parts(), other.parts());
+        return RecordArrays.equal(this, o);
     }
 
     /** Hash of the content of every component. */
     @Override
     public int hashCode() {
-        return RecordArrays.hash(parts());
+        return RecordArrays.hash(this);
     }
 
     @Override

@@ -39,26 +39,22 @@ public record KrigingPrediction(Density density, double variance, int[] neighbou
         return RecordArrays.copy(weights);
     }
 
-    private Object[] parts() {
-        return new Object[] {density, variance, neighbours, weights, nearestStationDistance};
-    }
 
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {
-        return o instanceof KrigingPrediction other && RecordArrays.equal(parts(), other.parts());
+        return RecordArrays.equal(this, o);
     }
 
     /** Hash of the content of every component. */
     @Override
     public int hashCode() {
-        return RecordArrays.hash(parts());
+        return RecordArrays.hash(this);
     }
 
     /** The components, arrays printed by content. */
     @Override
     public String toString() {
-        return RecordArrays.describe("KrigingPrediction", new String[] {"density", "variance", "neighbours", "weights",
-            "nearestStationDistance"}, parts());
+        return RecordArrays.describe(this);
     }
 }

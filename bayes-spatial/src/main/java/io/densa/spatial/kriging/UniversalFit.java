@@ -47,26 +47,23 @@ public record UniversalFit(Kriging kriging, VariogramFit fit, EmpiricalVariogram
         return RecordArrays.copy(driftCoefficients);
     }
 
-    private Object[] parts() {
-        return new Object[] {kriging, fit, residualVariogram, driftCoefficients, iterations, converged};
-    }
 
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {
-        return o instanceof UniversalFit other && RecordArrays.equal(parts(), other.parts());
+        return RecordArrays.equal(this, o);
     }
 
     /** Hash of the content of every component. */
     @Override
     public int hashCode() {
-        return RecordArrays.hash(parts());
+        return RecordArrays.hash(this);
     }
 
     /** The components, arrays printed by content. */
     @Override
     public String toString() {
-        return RecordArrays.describe("UniversalFit", new String[] {"kriging", "fit", "residualVariogram", "driftCoefficients", "iterations", "converged"}, parts());
+        return RecordArrays.describe(this);
     }
 
     /**

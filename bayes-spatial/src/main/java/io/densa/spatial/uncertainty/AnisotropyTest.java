@@ -87,28 +87,23 @@ public record AnisotropyTest(double[] directions, double[] relativeSemivariances
         return pValue <= alpha;
     }
 
-    private Object[] parts() {
-        return new Object[] {directions, relativeSemivariances, statistic, pValue, replicates, majorDirection,
-            minorDirection, variogram};
-    }
 
     /** Equality by content of every component. */
     @Override
     public boolean equals(Object o) {
-        return o instanceof AnisotropyTest other && RecordArrays.equal(parts(), other.parts());
+        return RecordArrays.equal(this, o);
     }
 
     /** Hash of the content of every component. */
     @Override
     public int hashCode() {
-        return RecordArrays.hash(parts());
+        return RecordArrays.hash(this);
     }
 
     /** The components, arrays printed by content. */
     @Override
     public String toString() {
-        return RecordArrays.describe("AnisotropyTest", new String[] {"directions", "relativeSemivariances",
-            "statistic", "pValue", "replicates", "majorDirection", "minorDirection", "variogram"}, parts());
+        return RecordArrays.describe(this);
     }
 
     /**

@@ -31,25 +31,22 @@ public record CoordinateLaw(KrigingPrediction prediction, double[][] covariance)
         return prediction.density().coordinates();
     }
 
-    private Object[] parts() {
-        return new Object[] {prediction, covariance};
-    }
 
     /** Equality by content of every component. */
     @Override
     public boolean equals(Object o) {
-        return o instanceof CoordinateLaw other && RecordArrays.equal(parts(), other.parts());
+        return RecordArrays.equal(this, o);
     }
 
     /** Hash of the content of every component. */
     @Override
     public int hashCode() {
-        return RecordArrays.hash(parts());
+        return RecordArrays.hash(this);
     }
 
     /** The components, arrays printed by content. */
     @Override
     public String toString() {
-        return RecordArrays.describe("CoordinateLaw", new String[] {"prediction", "covariance"}, parts());
+        return RecordArrays.describe(this);
     }
 }

@@ -84,27 +84,23 @@ public record ProportionalityCheck(double[] shares, double[] lags, double[][] ra
         return pValue <= alpha;
     }
 
-    private Object[] parts() {
-        return new Object[] {shares, lags, ratios, directionStatistics, statistic, pValue, replicates};
-    }
 
     /** Equality by content of every component. */
     @Override
     public boolean equals(Object o) {
-        return o instanceof ProportionalityCheck other && RecordArrays.equal(parts(), other.parts());
+        return RecordArrays.equal(this, o);
     }
 
     /** Hash of the content of every component. */
     @Override
     public int hashCode() {
-        return RecordArrays.hash(parts());
+        return RecordArrays.hash(this);
     }
 
     /** The components, arrays printed by content. */
     @Override
     public String toString() {
-        return RecordArrays.describe("ProportionalityCheck", new String[] {"shares", "lags", "ratios",
-            "directionStatistics", "statistic", "pValue", "replicates"}, parts());
+        return RecordArrays.describe(this);
     }
 
     static ProportionalityCheck run(PredictiveDistribution pd, VariogramOptions options, int directions,

@@ -48,26 +48,23 @@ public record VariogramCloud(int[] first, int[] second, double[] distance, doubl
         return RecordArrays.copy(semivariance);
     }
 
-    private Object[] parts() {
-        return new Object[] {first, second, distance, semivariance, truncated};
-    }
 
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {
-        return o instanceof VariogramCloud other && RecordArrays.equal(parts(), other.parts());
+        return RecordArrays.equal(this, o);
     }
 
     /** Hash of the content of every component. */
     @Override
     public int hashCode() {
-        return RecordArrays.hash(parts());
+        return RecordArrays.hash(this);
     }
 
     /** The components, arrays printed by content. */
     @Override
     public String toString() {
-        return RecordArrays.describe("VariogramCloud", new String[] {"first", "second", "distance", "semivariance", "truncated"}, parts());
+        return RecordArrays.describe(this);
     }
     /** Number of pairs listed. */
     public int size() {

@@ -84,27 +84,22 @@ public record VariogramFit(VariogramModel model, VariogramFitOptions.Method meth
         return false;
     }
 
-    private Object[] parts() {
-        return new Object[] {model, method, criterion, rmse, fitted, binsUsed, evaluations, converged, rangeAtBound,
-            largestLag, warnings};
-    }
 
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {
-        return o instanceof VariogramFit other && RecordArrays.equal(parts(), other.parts());
+        return RecordArrays.equal(this, o);
     }
 
     /** Hash of the content of every component. */
     @Override
     public int hashCode() {
-        return RecordArrays.hash(parts());
+        return RecordArrays.hash(this);
     }
 
     /** The components, arrays printed by content. */
     @Override
     public String toString() {
-        return RecordArrays.describe("VariogramFit", new String[] {"model", "method", "criterion", "rmse", "fitted",
-            "binsUsed", "evaluations", "converged", "rangeAtBound", "largestLag", "warnings"}, parts());
+        return RecordArrays.describe(this);
     }
 }
