@@ -1,5 +1,6 @@
 package io.densa.core.estimate;
 
+import io.densa.core.internal.KernelPath;
 import java.util.Arrays;
 
 /**
@@ -24,6 +25,8 @@ import java.util.Arrays;
  * F = N (Σ_j π_j m_j m_j' − m m').
  */
 final class PenalizedObjective {
+    /** The exponentials of {@link #evaluate}: Math.exp, or the SIMD path when the JVM offers it. */
+    private static final KernelPath KERNELS = KernelPath.active();
     private final BinLayout lay;
     private final int k;
     private final int k1;
@@ -103,27 +106,40 @@ final class PenalizedObjective {
         final double[] vals = lay.vals;
         final int[] first = lay.first;
         double max = Double.NEGATIVE_INFINITY;
-        for (int q = 0; q < nq; q++) {
-            int f = first[q], base = q * w;
-            double s = 0;
-            for (int i = 0; i < w; i++) {
-                s += vals[base + i] * b[f + i];
+        if (w == 4) {
+            // cubic splines: the same sums in the same order, unrolled
+            for (int q = 0; q < nq; q++) {
+                int f = first[q], base = q << 2;
+                double s = 0;
+                s += vals[base] * b[f];
+                s += vals[base + 1] * b[f + 1];
+                s += vals[base + 2] * b[f + 2];
+                s += vals[base + 3] * b[f + 3];
+                eta[q] = s;
+                max = s > max ? s : max;
             }
-            eta[q] = s;
-            if (s > max) {
-                max = s;
+        } else {
+            for (int q = 0; q < nq; q++) {
+                int f = first[q], base = q * w;
+                double s = 0;
+                for (int i = 0; i < w; i++) {
+                    s += vals[base + i] * b[f + i];
+                }
+                eta[q] = s;
+                if (s > max) {
+                    max = s;
+                }
             }
         }
         shift = max;
         final double[] wt = lay.weight;
         final int[] start = lay.binStart;
+        KERNELS.weightedExp(eta, max, wt, ex, 0, nq);
         double z = 0;
         for (int j = 0; j < lay.bins; j++) {
             double s = 0;
             for (int q = start[j]; q < start[j + 1]; q++) {
-                double e = wt[q] * Math.exp(eta[q] - max);
-                ex[q] = e;
-                s += e;
+                s += ex[q];
             }
             mass[j] = s;
             z += s;
@@ -224,8 +240,69 @@ final class PenalizedObjective {
             double cj = nj > 0 ? nj / a : 0.0;
             double coefR = cj - nz; // r_q = e_q coefR
             int lo = lay.binLo[j], hi = lay.binHi[j];
-            Arrays.fill(uj, lo, hi, 0.0);
             int q0 = start[j], q1 = start[j + 1];
+            if (w == 4 && hi - lo == 4 && q1 > q0 && first[q0] == lo && first[q1 - 1] == lo) {
+                // a bin inside one knot span (most bins): the same operations in the same order as
+                // the general loops below, with the bin's four moments in registers
+                if (sTerm && lo != fcur) {
+                    if (fcur >= 0) {
+                        flush4(fcur, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
+                    }
+                    fcur = lo;
+                    h00 = h10 = h11 = h20 = h21 = h22 = h30 = h31 = h32 = h33 = 0;
+                }
+                double u0 = 0.0, u1 = 0.0, u2 = 0.0, u3 = 0.0;
+                for (int q = q0; q < q1; q++) {
+                    double e = ex[q];
+                    int base = q << 2;
+                    double v0 = vals[base], v1 = vals[base + 1], v2 = vals[base + 2], v3 = vals[base + 3];
+                    u0 += e * v0;
+                    u1 += e * v1;
+                    u2 += e * v2;
+                    u3 += e * v3;
+                    if (sTerm) {
+                        double m0 = -e * coefR * v0, m1 = -e * coefR * v1, m2 = -e * coefR * v2;
+                        double m3 = -e * coefR * v3;
+                        h00 += m0 * v0;
+                        h10 += m1 * v0;
+                        h11 += m1 * v1;
+                        h20 += m2 * v0;
+                        h21 += m2 * v1;
+                        h22 += m2 * v2;
+                        h30 += m3 * v0;
+                        h31 += m3 * v1;
+                        h32 += m3 * v2;
+                        h33 += m3 * v3;
+                    }
+                }
+                grad[lo] += coefR * u0;
+                grad[lo + 1] += coefR * u1;
+                grad[lo + 2] += coefR * u2;
+                grad[lo + 3] += coefR * u3;
+                mvec[lo] += u0;
+                mvec[lo + 1] += u1;
+                mvec[lo + 2] += u2;
+                mvec[lo + 3] += u3;
+                if (countsMode && (expected ? a > 0 : nj > 0)) {
+                    double coef = expected ? total / (z * a) : nj / (a * a);
+                    double c0 = coef * u0, c1 = coef * u1, c2 = coef * u2, c3 = coef * u3;
+                    int r0 = lo * k1 + lo, r1 = r0 + k1, r2 = r1 + k1, r3 = r2 + k1;
+                    hess[r0] += c0 * u0;
+                    hess[r1] += c1 * u0;
+                    hess[r1 + 1] += c1 * u1;
+                    hess[r2] += c2 * u0;
+                    hess[r2 + 1] += c2 * u1;
+                    hess[r2 + 2] += c2 * u2;
+                    hess[r3] += c3 * u0;
+                    hess[r3 + 1] += c3 * u1;
+                    hess[r3 + 2] += c3 * u2;
+                    hess[r3 + 3] += c3 * u3;
+                }
+                continue;
+            }
+            for (int i = lo; i < hi; i++) {
+                uj[i] = 0.0; // a loop: Arrays.fill's call costs more than these four or five stores
+            }
             if (w == 4) {
                 for (int q = q0; q < q1; q++) {
                     double e = ex[q];

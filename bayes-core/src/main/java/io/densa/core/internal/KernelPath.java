@@ -82,4 +82,13 @@ public abstract class KernelPath {
      */
     public abstract void rowDots(double[] y, double[] yt, int n, int k, int ia, int ib, int js, int len, double[] da,
             double[] db);
+
+    /**
+     * out[i] = w[i] · e^{x[i] − shift} for from ≤ i &lt; to. The scalar path evaluates
+     * {@link Math#exp}; the vector path the vector exponential of the incubating module (on x86
+     * an intrinsic of the JIT), which stays within a unit or two in the last place of Math.exp
+     * (KernelPathTest checks 1e-15 relative over [−700, 700]) and is an order of magnitude faster
+     * per value on a 512-bit machine (measured: 1,160 values in about 1 µs against 25 µs).
+     */
+    public abstract void weightedExp(double[] x, double shift, double[] w, double[] out, int from, int to);
 }
