@@ -43,6 +43,13 @@ final class BinLayout {
     final double[] vals; // nodes × width
     final int[] binLo; // first raw index touched by bin j
     final int[] binHi; // one past the last raw index touched by bin j
+    /**
+     * Runs of consecutive nodes with the same first index: run r holds the nodes runStart[r] to
+     * runStart[r + 1] − 1 (runs + 1 values).
+     */
+    final int[] runStart;
+    /** The basis values column by column: column[i][q] = vals[q · width + i]. */
+    final double[][] column;
 
     /**
      * @param space  the space
@@ -132,6 +139,23 @@ final class BinLayout {
             binHi[j] = hi;
         }
         binStart[bins] = q;
+        int runs = 0;
+        for (int n = 0; n < nodes; n++) {
+            runs += n == 0 || first[n] != first[n - 1] ? 1 : 0;
+        }
+        runStart = new int[runs + 1];
+        for (int n = 0, r = 0; n < nodes; n++) {
+            if (n == 0 || first[n] != first[n - 1]) {
+                runStart[r++] = n;
+            }
+        }
+        runStart[runs] = nodes;
+        column = new double[width][nodes];
+        for (int n = 0; n < nodes; n++) {
+            for (int i = 0; i < width; i++) {
+                column[i][n] = vals[n * width + i];
+            }
+        }
     }
 
     private static int pointsFor(double width, int points, double narrow) {

@@ -2,6 +2,8 @@ package io.densa.core.estimate;
 
 import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.GoldenSection;
+import org.ejml.data.DMatrixRMaj;
+import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DDRM;
 
 /**
  * The smoothing-parameter search of {@link PenalizedLikelihoodEstimator}: the criteria (AIC, AICc,
@@ -24,6 +26,14 @@ final class SmoothingSearch {
     private final double[] rawPenalty;
     private final double[] prior;
     private final int penaltyRank;
+    /** log det(2Q) of the reference prior (with {@link #pencil}; unused without it). */
+    private final double priorLogDet;
+    /**
+     * The eigenvalues μ_i ≥ 0 of L⁻¹(2P)L⁻ᵀ, 2Q = L Lᵀ, so that
+     * log det(2λP + 2Q) = log det(2Q) + Σ_i log(1 + λ μ_i) at every λ without a factorisation;
+     * null without a prior or when these could not be computed (then {@link #logDetPrior} factors).
+     */
+    private final double[] pencil;
 
     SmoothingSearch(PenalizedLikelihoodEstimator.Settings s, int k, double[] u, double[] rawPenalty, double[] prior,
             int penaltyRank) {
@@ -38,6 +48,36 @@ final class SmoothingSearch {
         this.rawPenalty = rawPenalty;
         this.prior = prior;
         this.penaltyRank = penaltyRank;
+        double[] mu = null;
+        double ld = Double.NaN;
+        if (prior != null) {
+            double[] l = new double[k * k];
+            for (int i = 0; i < k * k; i++) {
+                l[i] = 2 * prior[i];
+            }
+            if (Cholesky.factor(l, k, k, 0) < 0) {
+                ld = 0;
+                for (int i = 0; i < k; i++) {
+                    ld += Math.log(l[i * k + i]);
+                }
+                ld *= 2;
+                double[] linv = new double[k * k];
+                Cholesky.invertLower(l, k, linv);
+                double[] twoP = new double[k * k];
+                for (int i = 0; i < k * k; i++) {
+                    twoP[i] = 2 * rawPenalty[i];
+                }
+                SymmetricQRAlgorithmDecomposition_DDRM eig = new SymmetricQRAlgorithmDecomposition_DDRM(false);
+                if (eig.decompose(new DMatrixRMaj(k, k, true, Cholesky.lowerCongruence(linv, twoP, k)))) {
+                    mu = new double[k];
+                    for (int i = 0; i < k; i++) {
+                        mu[i] = Math.max(0.0, eig.getEigenvalue(i).getReal()); // P is PSD: −1e-17 is rounding
+                    }
+                }
+            }
+        }
+        this.pencil = mu;
+        this.priorLogDet = ld;
     }
 
     /**
@@ -180,8 +220,18 @@ final class SmoothingSearch {
         return total * scale * Math.pow(10.0, g);
     }
 
-    /** log det(2λP + 2Q) (raw coordinates), or NaN if not positive definite. */
+    /**
+     * log det(2λP + 2Q) (raw coordinates), or NaN if not positive definite: from the eigenvalues of
+     * the pencil (computed once per estimator), else by a Cholesky factorisation at this λ.
+     */
     private double logDetPrior(double lambda) {
+        if (pencil != null) {
+            double s = priorLogDet;
+            for (double mu : pencil) {
+                s += Math.log1p(lambda * mu);
+            }
+            return s;
+        }
         double[] m = new double[k * k];
         for (int i = 0; i < k * k; i++) {
             m[i] = 2 * lambda * rawPenalty[i] + 2 * prior[i];
