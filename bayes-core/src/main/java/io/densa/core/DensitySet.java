@@ -321,17 +321,6 @@ public final class DensitySet {
         return m;
     }
 
-    /** Fails when a result of the set's arithmetic left the double range (checked only when it could). */
-    private static void requireFinite(double[] values, String what, String hint) {
-        for (int i = 0; i < values.length; i++) {
-            if (!Double.isFinite(values[i])) {
-                throw new IllegalArgumentException(what + " has entry " + i + " = " + values[i]
-                        + ": beyond the double range (largest " + Double.MAX_VALUE + ") for these coordinates; "
-                        + hint);
-            }
-        }
-    }
-
     /**
      * Every density ⊖ the ⊕-mean (ids kept).
      *
@@ -343,7 +332,7 @@ public final class DensitySet {
         double[] out = new double[data.length];
         Kernels.subtractRow(data, n, k, m, out, true);
         if (!(maxAbs() * 2 < Double.MAX_VALUE)) {
-            requireFinite(out, "the centred coordinate array", "coordinates up to about 8.9e307 are accepted");
+            RowEvaluation.requireFinite(out, "the centred coordinate array", "coordinates up to about 8.9e307 are accepted");
         }
         return new DensitySet(space, n, out, ids);
     }
@@ -364,7 +353,7 @@ public final class DensitySet {
         double[] out = new double[data.length];
         Kernels.subtractRow(data, n, k, neg, out, true);
         if (!(maxAbs() + dMax < Double.MAX_VALUE)) {
-            requireFinite(out, "the perturbed coordinate array", "sums of coordinates up to "
+            RowEvaluation.requireFinite(out, "the perturbed coordinate array", "sums of coordinates up to "
                     + Double.MAX_VALUE + " are accepted");
         }
         return new DensitySet(space, n, out, ids);
@@ -385,7 +374,7 @@ public final class DensitySet {
         double[] out = Kernels.crossProduct(data, n, k, center, true);
         double big = centred ? 2 * maxAbs() : maxAbs();
         if (!(big * big * n < Double.MAX_VALUE)) {
-            requireFinite(out, "the K × K cross-product matrix", "its entries are sums of n products of"
+            RowEvaluation.requireFinite(out, "the K × K cross-product matrix", "its entries are sums of n products of"
                     + " coordinates: coordinates up to about 1e154 / √n are accepted");
         }
         return DMatrixRMaj.wrap(k, k, out);
@@ -421,7 +410,7 @@ public final class DensitySet {
         Kernels.gram(data, n, k, g, true);
         double big = maxAbs();
         if (!(big * big * k < Double.MAX_VALUE)) {
-            requireFinite(g, "the n × n Gram matrix", "its entries are inner products of K coordinates:"
+            RowEvaluation.requireFinite(g, "the n × n Gram matrix", "its entries are inner products of K coordinates:"
                     + " coordinates up to about 1e154 / √K are accepted (distances() and norms() accept more)");
         }
         return DMatrixRMaj.wrap(n, n, g);
@@ -552,18 +541,7 @@ public final class DensitySet {
      *                                  double range (naming row and point)
      */
     public DMatrixRMaj clr(double... grid) {
-        double[] et = RowEvaluation.basisTransposed(space, grid);
-        DMatrixRMaj out = new DMatrixRMaj(n, grid.length);
-        Kernels.multiply(data, n, k, et, grid.length, out.data, true);
-        for (int i = 0; i < out.data.length; i++) { // one pass, against n·K per entry for the product
-            if (!Double.isFinite(out.data[i])) {
-                int row = i / grid.length;
-                throw new IllegalArgumentException("the clr of row " + row + " (" + id(row) + ") at x = "
-                        + grid[i % grid.length] + " is " + out.data[i] + ": beyond the double range for its"
-                        + " coordinates");
-            }
-        }
-        return out;
+        return RowEvaluation.clr(this, grid);
     }
 
     /**

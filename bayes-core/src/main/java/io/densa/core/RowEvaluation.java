@@ -209,4 +209,32 @@ final class RowEvaluation {
         }
         return out;
     }
+
+    /** {@link DensitySet#clr(double...)}: one matrix product, then one pass checking the range. */
+    static DMatrixRMaj clr(DensitySet set, double[] grid) {
+        double[] et = basisTransposed(set.space(), grid);
+        int n = set.size();
+        DMatrixRMaj out = new DMatrixRMaj(n, grid.length);
+        Kernels.multiply(set.dataInternal(), n, set.dimension(), et, grid.length, out.data, true);
+        for (int i = 0; i < out.data.length; i++) { // one pass, against n·K per entry for the product
+            if (!Double.isFinite(out.data[i])) {
+                int row = i / grid.length;
+                throw new IllegalArgumentException("the clr of row " + row + " (" + set.id(row) + ") at x = "
+                        + grid[i % grid.length] + " is " + out.data[i] + ": beyond the double range for its"
+                        + " coordinates");
+            }
+        }
+        return out;
+    }
+
+    /** Fails when a result of a set's arithmetic left the double range (checked only when it could). */
+    static void requireFinite(double[] values, String what, String hint) {
+        for (int i = 0; i < values.length; i++) {
+            if (!Double.isFinite(values[i])) {
+                throw new IllegalArgumentException(what + " has entry " + i + " = " + values[i]
+                        + ": beyond the double range (largest " + Double.MAX_VALUE + ") for these coordinates; "
+                        + hint);
+            }
+        }
+    }
 }

@@ -301,4 +301,47 @@ final class BinLayout {
             return Math.min(j, d - 1);
         }
     }
+
+    /**
+     * The multinomial log-likelihood Σ_j n_j log(A_j / Z) of the counts at b, with a log-sum-exp
+     * shift per bin instead of one for the whole domain: finite whenever η is, also where a bin's
+     * mass underflows relative to the largest (raw coefficients b, K + 1 values; counts per bin).
+     */
+    double countsLogLikelihood(double[] b, double[] counts) {
+        final int w = width;
+        final double[] wt = weight;
+        double[] eta = new double[nodes];
+        double[] logA = new double[bins];
+        double top = Double.NEGATIVE_INFINITY;
+        for (int j = 0; j < bins; j++) {
+            int q0 = binStart[j], q1 = binStart[j + 1];
+            double m = Double.NEGATIVE_INFINITY;
+            for (int q = q0; q < q1; q++) {
+                double s = 0;
+                for (int i = 0; i < w; i++) {
+                    s += vals[q * w + i] * b[first[q] + i];
+                }
+                eta[q] = s;
+                m = Math.max(m, s);
+            }
+            double sum = 0;
+            for (int q = q0; q < q1; q++) {
+                sum += wt[q] * Math.exp(eta[q] - m);
+            }
+            logA[j] = m + Math.log(sum);
+            top = Math.max(top, logA[j]);
+        }
+        double z = 0;
+        for (int j = 0; j < bins; j++) {
+            z += Math.exp(logA[j] - top);
+        }
+        double logZ = top + Math.log(z);
+        double ll = 0;
+        for (int j = 0; j < bins; j++) {
+            if (counts[j] > 0) {
+                ll += counts[j] * (logA[j] - logZ);
+            }
+        }
+        return ll;
+    }
 }

@@ -562,4 +562,24 @@ final class EstimationSupport {
             return new double[] {x[0] == x[m - 1] ? period : length, end};
         }
     }
+
+    /** Copies the lower triangle of the k × k block of a (row stride s) to its upper triangle. */
+    static void mirrorLower(double[] a, int s, int k) {
+        for (int i = 0; i < k; i++) {
+            for (int l = 0; l < i; l++) {
+                a[l * s + i] = a[i * s + l];
+            }
+        }
+    }
+
+    /** Lower triangle of the k × k block of a (row stride s) minus c·m mᵀ, entry by entry as (c m_i) m_l. */
+    static void subtractOuter(double[] a, int s, double c, double[] m, int k) {
+        for (int i = 0; i < k; i++) {
+            double mi = c * m[i];
+            int row = i * s;
+            for (int l = 0; l <= i; l++) {
+                a[row + l] -= mi * m[l];
+            }
+        }
+    }
 }

@@ -135,9 +135,7 @@ final class PenalizedObjective {
                     s += vals[base + i] * b[f + i];
                 }
                 eta[q] = s;
-                if (s > max) {
-                    max = s;
-                }
+                max = s > max ? s : max;
             }
         }
         shift = max;
@@ -178,48 +176,9 @@ final class PenalizedObjective {
         return ll - lambda * penalty(b) - priorPenalty(b);
     }
 
-    /**
-     * The multinomial log-likelihood Σ_j n_j log(A_j / Z) of the counts at b, with a log-sum-exp
-     * shift per bin instead of one for the whole domain: finite whenever η is, also where a bin's
-     * mass underflows relative to the largest (for reporting; {@link #evaluate} is the fast path).
-     */
+    /** {@link BinLayout#countsLogLikelihood} of the counts at b (for reporting; {@link #evaluate} is the fast path). */
     double logLikelihoodPerBinShift(double[] b) {
-        final int w = lay.width;
-        final double[] vals = lay.vals;
-        final int[] first = lay.first;
-        final double[] wt = lay.weight;
-        double[] logA = new double[lay.bins];
-        double top = Double.NEGATIVE_INFINITY;
-        for (int j = 0; j < lay.bins; j++) {
-            int q0 = lay.binStart[j], q1 = lay.binStart[j + 1];
-            double m = Double.NEGATIVE_INFINITY;
-            for (int q = q0; q < q1; q++) {
-                double s = 0;
-                for (int i = 0; i < w; i++) {
-                    s += vals[q * w + i] * b[first[q] + i];
-                }
-                eta[q] = s;
-                m = Math.max(m, s);
-            }
-            double sum = 0;
-            for (int q = q0; q < q1; q++) {
-                sum += wt[q] * Math.exp(eta[q] - m);
-            }
-            logA[j] = m + Math.log(sum);
-            top = Math.max(top, logA[j]);
-        }
-        double z = 0;
-        for (int j = 0; j < lay.bins; j++) {
-            z += Math.exp(logA[j] - top);
-        }
-        double logZ = top + Math.log(z);
-        double ll = 0;
-        for (int j = 0; j < lay.bins; j++) {
-            if (counts[j] > 0) {
-                ll += counts[j] * (logA[j] - logZ);
-            }
-        }
-        return ll;
+        return lay.countsLogLikelihood(b, counts);
     }
 
     /**
@@ -384,11 +343,11 @@ final class PenalizedObjective {
         if (fcur >= 0) {
             flush4(fcur, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
         }
-        subtractOuter(hess, k1, total / (z * z), mvec, k);
+        EstimationSupport.subtractOuter(hess, k1, total / (z * z), mvec, k);
         for (int i = 0; i < k; i++) {
             grad[i] += linear[i];
         }
-        mirrorLower(hess, k1, k);
+        EstimationSupport.mirrorLower(hess, k1, k);
         if (!penalised) {
             return;
         }
@@ -428,15 +387,6 @@ final class PenalizedObjective {
         hess[r3 + 1] += h31;
         hess[r3 + 2] += h32;
         hess[r3 + 3] += h33;
-    }
-
-    /** Copies the lower triangle of the k × k block of a (row stride s) to its upper triangle. */
-    static void mirrorLower(double[] a, int s, int k) {
-        for (int i = 0; i < k; i++) {
-            for (int l = 0; l < i; l++) {
-                a[l * s + i] = a[i * s + l];
-            }
-        }
     }
 
     /**
@@ -495,8 +445,8 @@ final class PenalizedObjective {
                 }
             }
         }
-        subtractOuter(meat, k, 1.0 / total, mvec, k);
-        mirrorLower(meat, k, k);
+        EstimationSupport.subtractOuter(meat, k, 1.0 / total, mvec, k);
+        EstimationSupport.mirrorLower(meat, k, k);
     }
 
     /**
@@ -646,16 +596,5 @@ final class PenalizedObjective {
     /** Trace of the K × K Fisher information (after {@link #fisherInformation}). */
     double fisherTrace() {
         return EstimationSupport.trace(fisher, k);
-    }
-
-    /** Lower triangle of the k × k block of a (row stride s) minus c·m mᵀ, entry by entry as (c m_i) m_l. */
-    static void subtractOuter(double[] a, int s, double c, double[] m, int k) {
-        for (int i = 0; i < k; i++) {
-            double mi = c * m[i];
-            int row = i * s;
-            for (int l = 0; l <= i; l++) {
-                a[row + l] -= mi * m[l];
-            }
-        }
     }
 }

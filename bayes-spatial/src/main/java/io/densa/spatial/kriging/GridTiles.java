@@ -5,6 +5,7 @@ import io.densa.core.ProgressListener;
 import io.densa.core.internal.Kernels;
 import io.densa.spatial.Locations;
 import io.densa.spatial.NeighbourIndex;
+import io.densa.spatial.internal.NearestHeap;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Objects;
@@ -357,7 +358,7 @@ public final class GridTiles {
         }
         int nc = cand.length;
         double[] dist = new double[nc];
-        Heap heap = new Heap(want);
+        NearestHeap heap = new NearestHeap(want);
         double[] f0 = new double[p];
         int need = Math.max(1, p + 1);
         double[] c0 = new double[want];
@@ -386,10 +387,10 @@ public final class GridTiles {
             double[] dv = mm == nd.length ? nd : new double[mm];
             long key = heap.indexSet();
             LocalSystem sys = cache.get(key);
-            if (sys == null || !heap.distancesInOrderOf(sys, dv)) {
+            if (sys == null || !heap.distancesInOrderOf(sys.stationsView(), sys.size(), dv)) {
                 sys = kr.system(heap.sortedIndices());
                 cache.put(key, sys);
-                heap.distancesInOrderOf(sys, dv);
+                heap.distancesInOrderOf(sys.stationsView(), sys.size(), dv);
             }
             kr.covariances().atDistances(dv, mm, cv);
             kr.design().driftAt(x, y, covariates(cg, cols[q], rows[q], cov), f0);
@@ -421,166 +422,6 @@ public final class GridTiles {
             int s = (int) key & (CACHE_SLOTS - 1);
             keys[s] = key;
             systems[s] = sys;
-        }
-    }
-
-    /** Bounded max-heap of (distance, index) keeping the smallest entries, ordered by (distance, index). */
-    static final class Heap {
-        private final double[] d;
-        private final int[] ix;
-        private final int cap;
-        private int size;
-
-        Heap(int cap) {
-            this.cap = cap;
-            d = new double[cap];
-            ix = new int[cap];
-            table = new int[Integer.highestOneBit(Math.max(4, cap) * 4 - 1) << 1];
-            stamp = new int[table.length];
-            mask = table.length - 1;
-        }
-
-        void clear() {
-            size = 0;
-        }
-
-        private boolean greater(int a, int b) {
-            return d[a] > d[b] || (d[a] == d[b] && ix[a] > ix[b]);
-        }
-
-        void offer(double dist, int index) {
-            if (size < cap) {
-                d[size] = dist;
-                ix[size] = index;
-                int c = size++;
-                while (c > 0) {
-                    int par = (c - 1) >> 1;
-                    if (greater(c, par)) {
-                        swap(c, par);
-                        c = par;
-                    } else {
-                        break;
-                    }
-                }
-                return;
-            }
-            if (dist > d[0] || (dist == d[0] && index > ix[0])) {
-                return;
-            }
-            d[0] = dist;
-            ix[0] = index;
-            int c = 0;
-            while (true) {
-                int l = 2 * c + 1, r = l + 1, big = c;
-                if (l < size && greater(l, big)) {
-                    big = l;
-                }
-                if (r < size && greater(r, big)) {
-                    big = r;
-                }
-                if (big == c) {
-                    break;
-                }
-                swap(c, big);
-                c = big;
-            }
-        }
-
-        private void swap(int a, int b) {
-            double td = d[a];
-            d[a] = d[b];
-            d[b] = td;
-            int ti = ix[a];
-            ix[a] = ix[b];
-            ix[b] = ti;
-        }
-
-        int[] sortedIndices() {
-            int[] out = Arrays.copyOf(ix, size);
-            Arrays.sort(out);
-            return out;
-        }
-
-        int size() {
-            return size;
-        }
-
-        /**
-         * Indexes the entries held (for {@link #distancesInOrderOf}) and returns a hash of their
-         * set, independent of their order: the wrapping sum of a 64-bit mix of each index
-         * (SplitMix64's finaliser; Steele, Lea &amp; Flood (2014), Fast splittable pseudorandom
-         * number generators, OOPSLA; from memory). Equal sets hash equal; a lookup by it is
-         * confirmed by {@link #distancesInOrderOf}.
-         */
-        long indexSet() {
-            long h = size;
-            for (int a = 0; a < size; a++) {
-                long z = ix[a] * 0x9E3779B97F4A7C15L;
-                z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9L;
-                z = (z ^ (z >>> 27)) * 0x94D049BB133111EBL;
-                h += z ^ (z >>> 31);
-            }
-            fillTable();
-            return h;
-        }
-
-        /**
-         * If the system's stations are exactly the indices held (after {@link #indexSet}), writes
-         * the held distances in the order of its stations into out and returns true; otherwise
-         * returns false (out partly written).
-         */
-        boolean distancesInOrderOf(LocalSystem sys, double[] out) {
-            if (sys.size() != size) {
-                return false;
-            }
-            for (int j = 0; j < size; j++) {
-                int a = slot(sys.station(j));
-                if (a < 0) {
-                    return false;
-                }
-                out[j] = d[a];
-            }
-            return true;
-        }
-
-        // open addressing from index to heap position, rebuilt by indexSet; a slot is filled only
-        // if its stamp is the current generation (no clearing between cells)
-        private final int[] table;
-        private final int[] stamp;
-        private final int mask;
-        private int generation;
-
-        private void fillTable() {
-            if (++generation == 0) {
-                Arrays.fill(stamp, 0);
-                generation = 1;
-            }
-            for (int a = 0; a < size; a++) {
-                int s = spread(ix[a]) & mask;
-                while (stamp[s] == generation) {
-                    s = (s + 1) & mask;
-                }
-                stamp[s] = generation;
-                table[s] = a;
-            }
-        }
-
-        /** Heap position of index i, or −1 if it is not held. */
-        private int slot(int i) {
-            int s = spread(i) & mask;
-            while (stamp[s] == generation) {
-                int a = table[s];
-                if (ix[a] == i) {
-                    return a;
-                }
-                s = (s + 1) & mask;
-            }
-            return -1;
-        }
-
-        private static int spread(int i) {
-            int h = i * 0x9E3779B9;
-            return h ^ (h >>> 16);
         }
     }
 

@@ -143,6 +143,11 @@ final class LocalSystem {
         return idx[j];
     }
 
+    /** The station indices of the system in its order, the first {@link #size} entries (not a copy). */
+    int[] stationsView() {
+        return idx;
+    }
+
     /** Number of stations m. */
     int size() {
         return m;
