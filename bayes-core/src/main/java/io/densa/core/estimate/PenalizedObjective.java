@@ -1,6 +1,5 @@
 package io.densa.core.estimate;
 
-import io.densa.core.internal.KernelPath;
 import java.util.Arrays;
 
 /**
@@ -25,8 +24,6 @@ import java.util.Arrays;
  * F = N (Σ_j π_j m_j m_j' − m m').
  */
 final class PenalizedObjective {
-    /** The exponentials of {@link #evaluate}: Math.exp, or the SIMD path when the JVM offers it. */
-    private static final KernelPath KERNELS = KernelPath.active();
     private final BinLayout lay;
     private final int k;
     private final int k1;
@@ -141,12 +138,13 @@ final class PenalizedObjective {
         shift = max;
         final double[] wt = lay.weight;
         final int[] start = lay.binStart;
-        KERNELS.weightedExp(eta, max, wt, ex, 0, nq);
         double z = 0;
         for (int j = 0; j < lay.bins; j++) {
             double s = 0;
             for (int q = start[j]; q < start[j + 1]; q++) {
-                s += ex[q];
+                double e = wt[q] * Math.exp(eta[q] - max);
+                ex[q] = e;
+                s += e;
             }
             mass[j] = s;
             z += s;

@@ -224,7 +224,7 @@ final class SmoothingSearch {
      * log det(2λP + 2Q) (raw coordinates), or NaN if not positive definite: from the eigenvalues of
      * the pencil (computed once per estimator), else by a Cholesky factorisation at this λ.
      */
-    private double logDetPrior(double lambda) {
+    double logDetPrior(double lambda) {
         if (pencil != null) {
             double s = priorLogDet;
             for (double mu : pencil) {

@@ -3,8 +3,7 @@ package io.densa.core.internal;
 import java.util.Locale;
 
 /**
- * The few hot inner kernels of {@link Kernels}, of the variogram pass and of the penalised
- * likelihood's evaluation (the exponentials at the quadrature nodes), in two implementations:
+ * The few hot inner kernels of {@link Kernels} and of the variogram pass, in two implementations:
  * {@link ScalarPath} (plain Java, vectorised by the JIT where it can) and, only when the JVM was
  * started with the incubating vector module ({@code --add-modules jdk.incubator.vector}), a path
  * written with explicit SIMD vectors ({@code VectorPath}). Internal.
@@ -15,8 +14,11 @@ import java.util.Locale;
  * by name only in the first case, so users who add no flag never link against the incubating
  * module and get exactly the scalar arithmetic. The two paths compute the same sums with the same
  * blocking but may round differently (fused multiply-add, another order inside a block); they
- * agree to about 1e-14 relative on sums of products and 1e-15 on exponentials (checked by
- * KernelPathTest, run in a second test execution with the flag).
+ * agree to about 1e-14 relative on sums of products (checked by KernelPathTest, run in a second
+ * test execution with the flag). Transcendental vector operators (e.g. the vector exponential) are
+ * not used: the JIT compiles them to intrinsics that may round differently from their interpreted
+ * fallback, so a result would depend on warm-up (measured: a parallel fit then differed from the
+ * serial one in the 14th digit).
  */
 public abstract class KernelPath {
     private static final KernelPath SCALAR = new ScalarPath();
@@ -83,13 +85,4 @@ public abstract class KernelPath {
      */
     public abstract void rowDots(double[] y, double[] yt, int n, int k, int ia, int ib, int js, int len, double[] da,
             double[] db);
-
-    /**
-     * out[i] = w[i] · e^{x[i] − shift} for from ≤ i &lt; to. The scalar path evaluates
-     * {@link Math#exp}; the vector path the vector exponential of the incubating module (on x86
-     * an intrinsic of the JIT), which stays within a unit or two in the last place of Math.exp
-     * (KernelPathTest checks 1e-15 relative over [−700, 700]) and is an order of magnitude faster
-     * per value on a 512-bit machine (measured: 1,160 values in about 1 µs against 25 µs).
-     */
-    public abstract void weightedExp(double[] x, double shift, double[] w, double[] out, int from, int to);
 }

@@ -129,11 +129,4 @@ final class ScalarPath extends KernelPath {
             }
         }
     }
-
-    @Override
-    public void weightedExp(double[] x, double shift, double[] w, double[] out, int from, int to) {
-        for (int i = from; i < to; i++) {
-            out[i] = w[i] * Math.exp(x[i] - shift);
-        }
-    }
 }

@@ -194,16 +194,4 @@ final class VectorPath extends KernelPath {
             }
         }
     }
-
-    @Override
-    public void weightedExp(double[] x, double shift, double[] w, double[] out, int from, int to) {
-        int i = from;
-        for (int end = from + S.loopBound(to - from); i < end; i += L) {
-            DoubleVector.fromArray(S, x, i).sub(shift).lanewise(VectorOperators.EXP)
-                    .mul(DoubleVector.fromArray(S, w, i)).intoArray(out, i);
-        }
-        for (; i < to; i++) {
-            out[i] = w[i] * Math.exp(x[i] - shift);
-        }
-    }
 }

@@ -199,45 +199,4 @@ class KernelPathTest {
         v.addCrossProduct(a, k, null, 0, n, mean, s2);
         assertUpperClose(s1, s2, k, 1e-12, "scalar vs vector");
     }
-
-    /**
-     * The weighted exponential against StrictMath.exp (the fdlibm algorithm, within one unit in the
-     * last place by the Java SE API specification): the scalar path is Math.exp itself (identical
-     * to w·Math.exp), the vector path within 1e-15 relative, over [−700, 700] with a shift and a
-     * range that starts and ends off the vector length.
-     */
-    private static void checkWeightedExp(KernelPath path, boolean identicalToMathExp) {
-        Random rnd = new Random(15);
-        int n = 1_163;
-        double[] x = new double[n];
-        double[] w = new double[n];
-        for (int i = 0; i < n; i++) {
-            x[i] = -690 + 1390.0 * rnd.nextDouble();
-            w[i] = 0.5 + rnd.nextDouble();
-        }
-        double shift = 10.0;
-        double[] out = new double[n];
-        out[2] = -1;
-        out[n - 2] = -1;
-        path.weightedExp(x, shift, w, out, 3, n - 2);
-        assertEquals(-1, out[2], "left of the range untouched");
-        assertEquals(-1, out[n - 2], "right of the range untouched");
-        for (int i = 3; i < n - 2; i++) {
-            double ref = w[i] * StrictMath.exp(x[i] - shift);
-            assertEquals(ref, out[i], 1e-15 * ref, "value " + i + " at " + (x[i] - shift));
-            if (identicalToMathExp) {
-                assertEquals(w[i] * Math.exp(x[i] - shift), out[i], 0.0, "scalar path is Math.exp");
-            }
-        }
-    }
-
-    @Test
-    void scalarWeightedExpIsMathExp() {
-        checkWeightedExp(KernelPath.scalar(), true);
-    }
-
-    @Test
-    void vectorWeightedExpWithinAnUlpOrTwo() {
-        checkWeightedExp(vectorPath(), false);
-    }
 }

@@ -54,7 +54,6 @@ public record CrossValidation(double[][] errors, double[] errorNorms, double[] k
         return RecordArrays.copy(standardisedErrors);
     }
 
-
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {

@@ -147,7 +147,6 @@ public record GridOptions(int tileSize, boolean variance, double[] thresholds, d
         return probabilities.clone();
     }
 
-
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {

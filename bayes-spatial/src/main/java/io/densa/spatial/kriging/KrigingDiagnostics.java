@@ -29,7 +29,6 @@ public record KrigingDiagnostics(int systemSize, double conditionEstimate, int[]
         return RecordArrays.copy(locations);
     }
 
-
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {

@@ -120,7 +120,6 @@ public record KrigingOptions(Neighbourhood neighbourhood, double[] errorVariance
         return diagExtraRaw;
     }
 
-
     /** Equality by content of every component (the error variances element by element). */
     @Override
     public boolean equals(Object o) {

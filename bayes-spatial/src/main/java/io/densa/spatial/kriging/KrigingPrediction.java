@@ -39,7 +39,6 @@ public record KrigingPrediction(Density density, double variance, int[] neighbou
         return RecordArrays.copy(weights);
     }
 
-
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {

@@ -47,7 +47,6 @@ public record UniversalFit(Kriging kriging, VariogramFit fit, EmpiricalVariogram
         return RecordArrays.copy(driftCoefficients);
     }
 
-
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {

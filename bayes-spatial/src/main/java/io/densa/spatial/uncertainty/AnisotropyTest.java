@@ -87,7 +87,6 @@ public record AnisotropyTest(double[] directions, double[] relativeSemivariances
         return pValue <= alpha;
     }
 
-
     /** Equality by content of every component. */
     @Override
     public boolean equals(Object o) {

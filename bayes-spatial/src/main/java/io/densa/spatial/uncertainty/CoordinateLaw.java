@@ -31,7 +31,6 @@ public record CoordinateLaw(KrigingPrediction prediction, double[][] covariance)
         return prediction.density().coordinates();
     }
 
-
     /** Equality by content of every component. */
     @Override
     public boolean equals(Object o) {

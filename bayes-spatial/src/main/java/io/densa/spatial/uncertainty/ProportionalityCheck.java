@@ -84,7 +84,6 @@ public record ProportionalityCheck(double[] shares, double[] lags, double[][] ra
         return pValue <= alpha;
     }
 
-
     /** Equality by content of every component. */
     @Override
     public boolean equals(Object o) {

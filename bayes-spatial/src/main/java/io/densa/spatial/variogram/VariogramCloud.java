@@ -48,7 +48,6 @@ public record VariogramCloud(int[] first, int[] second, double[] distance, doubl
         return RecordArrays.copy(semivariance);
     }
 
-
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {

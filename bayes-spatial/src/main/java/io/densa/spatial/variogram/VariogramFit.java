@@ -84,7 +84,6 @@ public record VariogramFit(VariogramModel model, VariogramFitOptions.Method meth
         return false;
     }
 
-
     /** Equality by content of every component (arrays element by element). */
     @Override
     public boolean equals(Object o) {
