@@ -49,7 +49,7 @@ public final class RecordArrays {
 
     /**
      * "Name[c1=v1, c2=v2, ...]" as {@link Record#toString()} prints it, but with arrays printed by
-     * content and abbreviated as {@link #describe(String, String[], Object[])} does.
+     * content, each array (and each nested row) abbreviated after {@value #SHOWN} elements.
      */
     public static String describe(Record self) {
         RecordComponent[] rc = self.getClass().getRecordComponents();
@@ -83,7 +83,7 @@ public final class RecordArrays {
      * abbreviated after {@value #SHOWN} elements as "[a, b, …, f, … (length n)]", so that a large
      * result prints readably (in JShell, for example).
      */
-    public static String describe(String name, String[] names, Object[] parts) {
+    private static String describe(String name, String[] names, Object[] parts) {
         StringBuilder sb = new StringBuilder(name).append('[');
         for (int i = 0; i < parts.length; i++) {
             if (i > 0) {

@@ -138,12 +138,7 @@ final class LocalSystem {
         return t;
     }
 
-    /** Station j of the system (its stations in increasing index order). */
-    int station(int j) {
-        return idx[j];
-    }
-
-    /** The station indices of the system in its order, the first {@link #size} entries (not a copy). */
+    /** The system's station indices, increasing, in the first {@link #size} entries (not a copy). */
     int[] stationsView() {
         return idx;
     }
