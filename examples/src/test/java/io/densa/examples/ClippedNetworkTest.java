@@ -57,24 +57,25 @@ import org.junit.jupiter.api.Test;
  * geometry: leave-one-out ordinary kriging (exponential model fitted by Cressie WLS on the default
  * empirical trace-variogram) is no better than the mean density of the other units on three
  * networks, and the FPCA first-component share moves away from that of the true densities.
- * Measured, seeds 1–10: MSE ratio 0.69–1.00 (mean 0.84), share deviation −0.129 … +0.134 (mean
- * |·| 0.049), lowest clr of a clipped unit −24 … −268 (below −50 on six networks).
+ * Measured, seeds 1–10: MSE ratio 0.69–0.98 (mean 0.80), share deviation −0.129 … +0.134 (mean
+ * |·| 0.048), lowest clr of a clipped unit −24 … −267 (below −50 on six networks).
  *
  * <p>With every default (unit-information reference prior), the detection limits NOT declared and
  * the FPCA corrected for estimation error ({@link Fpca#fit(BatchEstimate)}): MSE ratio 0.33–0.75
- * (mean 0.49), within 0.75 on every network; share deviation −0.038 … +0.001 (mean |·| 0.020),
+ * (mean 0.48), within 0.75 on every network; share deviation −0.038 … +0.001 (mean |·| 0.020),
  * within 0.02 on 6 of the 10; lowest clr of a clipped unit −6.7 … −10.8. The clipped units'
  * values below the limit are recorded at the limit, a spike the true law does not have, and no
  * estimator can tell that from the counts alone.
  *
  * <p>With every default and the clipped units' detection limits declared
  * ({@link DetectionLimits}; the censored counts enter the likelihood as "at most the limit"), FPCA
- * corrected for estimation error: share deviation −0.012 … +0.015 (mean |·| 0.009), within 0.02 on
+ * corrected for estimation error: share deviation −0.013 … +0.013 (mean |·| 0.009), within 0.02 on
  * all ten networks (the issue's bound); MSE ratio 0.32–0.76 (mean 0.47), within 0.75 on nine: on
- * seed 8 it is 0.759 (0.749 without declared limits), although the kriging MSE itself fell by 14 %
- * there (the clipped units' leave-one-out errors fell from 117 to 50 in squared B2 norm, summed):
+ * seed 8 it is 0.759 (0.748 without declared limits), although the kriging MSE itself fell by 14 %
+ * there (the clipped units' leave-one-out errors fell from 117 to 50 in squared B2 norm, summed;
+ * these two figures measured with the expected-information criterion, before 2026-12-03):
  * the mean-density baseline gained more, because declared limits make the clipped units less
- * extreme. No unit is flagged as extrapolated and the lowest clr of a clipped unit is −5.1 … −6.9.
+ * extreme. No unit is flagged as extrapolated and the lowest clr of a clipped unit is −5.1 … −7.0.
  * (Sampling noise alone: the true densities plus Gaussian noise with each unit's reported
  * covariance give share deviations of −0.006 … −0.014 without the correction.)
  *

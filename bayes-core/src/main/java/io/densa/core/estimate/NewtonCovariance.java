@@ -5,7 +5,7 @@ import java.util.Arrays;
 
 /**
  * The covariance step of {@link PenalizedNewton}: the Cholesky factor of the penalised
- * information J = F + 2λP + 2Q, log det J, edf = tr(J⁻¹F) and the sandwich covariance
+ * information J = F + 2λP + 2Q, edf = tr(J⁻¹F) and the sandwich covariance
  * U J⁻¹ M J⁻¹ U' of the coordinates, with its working arrays (one instance per engine). Internal.
  */
 final class NewtonCovariance {
@@ -19,8 +19,6 @@ final class NewtonCovariance {
     private final double[] scratch1;
     private final double[] scratch2;
     private final double[] meat;
-    /** log det(F + 2λP) from the last {@link #sandwich} (NaN if singular). */
-    private double logDetJ;
 
     NewtonCovariance(PenalizedObjective obj, int k, double[] rawPenalty, double[] prior) {
         this.obj = obj;
@@ -36,8 +34,7 @@ final class NewtonCovariance {
     }
 
     /**
-     * After {@link PenalizedObjective#fisherInformation()}: factors J = F + 2λP = LL' (log det J into
-     * {@link #logDetJ}) and returns edf = tr(J⁻¹F) = tr(W), W = L⁻¹ F L⁻ᵀ, or NaN if J is singular.
+     * After {@link PenalizedObjective#fisherInformation()}: factors J = F + 2λP = LL' and returns edf = tr(J⁻¹F) = tr(W), W = L⁻¹ F L⁻ᵀ, or NaN if J is singular.
      * If cov != null, writes the sandwich covariance of the coordinates c = U β there:
      * U J⁻¹ M J⁻¹ U' = G W_M G' with the upper triangular G = U L⁻ᵀ (K × K) and W_M = L⁻¹ M L⁻ᵀ,
      * where the meat M is F, or, when {@code robust} is set, the empirical information
@@ -132,26 +129,15 @@ final class NewtonCovariance {
 
     /**
      * After {@link PenalizedObjective#fisherInformation()}: factors J = F + 2λP + 2Q (+ 2E) = LL'
-     * and sets {@link #logDetJ} (NaN, and false returned, when J is not positive definite); the
-     * first step of {@link #sandwich}, alone where only log det J is needed (the marginal
-     * likelihood during the smoothing search).
+     * into solveA; false when J is not positive definite.
      */
-    boolean factorInformation(double lambda, double[] extra) {
+    private boolean factorInformation(double lambda, double[] extra) {
         final int n = k;
         for (int i = 0; i < n * n; i++) {
             solveA[i] = fisher[i] + 2 * lambda * pen[i] + (prior == null ? 0.0 : 2 * prior[i])
                     + (extra == null ? 0.0 : 2 * extra[i]);
         }
-        if (Cholesky.factor(solveA, n, n, 0) >= 0) {
-            logDetJ = Double.NaN;
-            return false;
-        }
-        double ld = 0;
-        for (int i = 0; i < n; i++) {
-            ld += Math.log(solveA[i * n + i]);
-        }
-        logDetJ = 2 * ld;
-        return true;
+        return Cholesky.factor(solveA, n, n, 0) < 0;
     }
 
     /** wm = L⁻¹ a L⁻ᵀ (symmetric, linv = L⁻¹ lower triangular); returns its trace. Uses scratch1. */
@@ -184,15 +170,5 @@ final class NewtonCovariance {
             tr += wm[i * n + i];
         }
         return tr;
-    }
-
-    /** log det(F + 2λP) from the last {@link #sandwich} (NaN if singular). */
-    double logDetJ() {
-        return logDetJ;
-    }
-
-    /** Solves (L Lᵀ) x = rhs in place with the information factor left by the last {@link #sandwich}. */
-    void solveWithInformationFactor(double[] rhs) {
-        Cholesky.solve(solveA, k, k, rhs, 0);
     }
 }

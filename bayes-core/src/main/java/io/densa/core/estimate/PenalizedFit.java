@@ -494,11 +494,11 @@ final class PenalizedFit {
 
     /**
      * Adds the first-order effect of the uncertainty of ρ = ln λ chosen by the marginal likelihood:
-     * cov += V_ρ (dc/dρ)(dc/dρ)', dc/dρ = −U J⁻¹ 2λPβ (implicit differentiation of the penalised
-     * score equation), V_ρ = 2 / V''(ρ) from a central difference of the criterion V = −2 log
+     * cov += V_ρ (dc/dρ)(dc/dρ)', dc/dρ = −U H⁻¹ 2λPβ (implicit differentiation of the penalised
+     * score equation, H the Newton matrix of the final fit, {@link PenalizedNewton#smoothingTangent}),
+     * V_ρ = 2 / V''(ρ) from a central difference of the criterion V = −2 log
      * marginal likelihood over ±h decades (Wood, Pya &amp; Säfken (2016), Smoothing parameter and
-     * model selection for general smooth models, JASA 111, §3; from memory). Needs the Cholesky
-     * factor of J in the engine (left by the last sandwich); restores the engine state.
+     * model selection for general smooth models, JASA 111, §3; from memory). Restores the engine state.
      */
     private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, CrossValidationFolds cv,
             double[] cov) {

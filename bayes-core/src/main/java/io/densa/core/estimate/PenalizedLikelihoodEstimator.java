@@ -135,7 +135,8 @@ import io.densa.core.estimate.BinLayout.CensoredCounts;
  * </ul>
  * With a fixed λ it is conditional on λ. With λ chosen per unit by
  * {@link SmoothingCriterion#MARGINAL_LIKELIHOOD} (the default) the first-order effect of the
- * uncertainty of ρ = ln λ̂ is added, V_ρ (dĉ/dρ)(dĉ/dρ)' with dĉ/dρ = −J⁻¹ 2λΩĉ (implicit
+ * uncertainty of ρ = ln λ̂ is added, V_ρ (dĉ/dρ)(dĉ/dρ)' with dĉ/dρ = −H⁻¹ 2λΩĉ, H the
+ * observed penalised information of the fit's last Newton iteration (implicit
  * differentiation of the penalised score equation) and V_ρ = 2/V''(ρ) from a
  * central difference of the criterion over ±0.25 decade (two more warm-started fits per unit;
  * Wood, Pya &amp; Säfken (2016), Smoothing parameter and model selection for general smooth

@@ -41,6 +41,11 @@ final class PenalizedNewton {
     private final double[] hess;
     private int iterations;
     private String failure;
+    /** Whether {@link #hess} holds the Cholesky factor of the current Newton iteration. */
+    private boolean newtonFactored;
+    /** The last Newton factor (lower triangle, K × K) and its log determinant, kept when a fit returns. */
+    private final double[] newtonFactor;
+    private double newtonLogDet = Double.NaN;
 
     PenalizedNewton(BinLayout lay, double[] rawPenalty) {
         this(lay, rawPenalty, null);
@@ -58,6 +63,7 @@ final class PenalizedNewton {
         step = new double[k1];
         grad = lik.grad;
         hess = lik.hess;
+        newtonFactor = new double[k * k];
     }
 
     /** Optional K × D map from log(n_j + 1/2) to starting coefficients, and its constant. */
@@ -143,8 +149,27 @@ final class PenalizedNewton {
     }
 
     private boolean solve(double lambda, int maxIter, double tol, boolean exact) {
+        boolean ok = iterate(lambda, maxIter, tol, exact);
+        if (newtonFactored) {
+            // keep the last Newton factor: the Fisher information and the covariance reuse hess
+            for (int i = 0; i < k; i++) {
+                System.arraycopy(hess, i * k1, newtonFactor, i * k, i + 1);
+            }
+            double ld = 0;
+            for (int i = 0; i < k; i++) {
+                ld += Math.log(newtonFactor[i * k + i]);
+            }
+            newtonLogDet = 2 * ld;
+        } else {
+            newtonLogDet = Double.NaN;
+        }
+        return ok;
+    }
+
+    private boolean iterate(double lambda, int maxIter, double tol, boolean exact) {
         failure = null;
         iterations = 0;
+        newtonFactored = false;
         double obj = lik.evaluate(beta, lambda);
         if (!(obj > Double.NEGATIVE_INFINITY)) {
             failure = "the starting coefficients give probability 0 to an occupied bin";
@@ -155,6 +180,7 @@ final class PenalizedNewton {
         double lastStep = Double.NaN;
         for (int it = 1; it <= maxIter; it++) {
             iterations = it;
+            newtonFactored = false;
             lik.derivatives(lambda, false, true, beta);
             if (Cholesky.factor(hess, k, k1, 0) >= 0) {
                 lik.derivatives(lambda, true, true, beta);
@@ -164,6 +190,7 @@ final class PenalizedNewton {
                     return false;
                 }
             }
+            newtonFactored = true;
             System.arraycopy(grad, 0, step, 0, k);
             Cholesky.solve(hess, k, k1, step, 0);
             double dec = 0;
@@ -248,29 +275,29 @@ final class PenalizedNewton {
         return covariance.sandwich(lambda, u, cov, robust, extra);
     }
 
-    /** See {@link NewtonCovariance#factorInformation}: log det J only, without edf or covariance. */
-    boolean factorInformation(double lambda) {
-        return covariance.factorInformation(lambda, null);
-    }
-
-    /** log det(F + 2λP) from the last {@link #sandwich} or {@link #factorInformation} (NaN if singular). */
-    double logDetJ() {
-        return covariance.logDetJ();
-    }
-
-    /** Solves (L Lᵀ) x = rhs in place with the information factor left by the last {@link #sandwich}. */
-    void solveWithInformationFactor(double[] rhs) {
-        covariance.solveWithInformationFactor(rhs);
+    /**
+     * log det H of the Newton matrix of the last iteration of {@link #solve} or
+     * {@link #solveForSearch}: H = −∇²Φ, the observed information plus 2λP (and the reference
+     * prior's 2Q), at the coefficients where that iteration started (the returned β for
+     * {@link #solveForSearch}; for {@link #solve} the point before the final full step, which is
+     * at most √tol relative in size); the expected information in place of the observed one where
+     * the observed matrix was not positive definite (Fisher scoring). NaN if no iteration factored it.
+     */
+    double newtonLogDet() {
+        return newtonLogDet;
     }
 
     /**
-     * The path of the estimate in ρ = ln λ at the current β: dβ/dρ = −J⁻¹ 2λPβ, by implicit
-     * differentiation of the penalised score equation ℓ'(β) − 2λPβ − 2Qβ = 0, with J the
-     * information factor left by the last {@link #sandwich} or {@link #factorInformation} (expected
-     * information: the exact derivative where observed and expected information agree, a close
-     * first-order approximation otherwise). Into out (K + 1 values, out[K] = 0).
+     * The path of the estimate in ρ = ln λ at the current β: dβ/dρ = −H⁻¹ 2λPβ, by implicit
+     * differentiation of the penalised score equation ℓ'(β) − 2λPβ − 2Qβ = 0, with H the Newton
+     * matrix of the last iteration ({@link #newtonLogDet}): the exact derivative when H is the
+     * observed information at β. Into out (K + 1 values, out[K] = 0); NaN if no iteration factored H.
      */
     void smoothingTangent(double lambda, double[] out) {
+        if (Double.isNaN(newtonLogDet)) {
+            java.util.Arrays.fill(out, Double.NaN);
+            return;
+        }
         for (int i = 0; i < k; i++) {
             double r = 0;
             for (int j = 0; j < k; j++) {
@@ -279,7 +306,7 @@ final class PenalizedNewton {
             out[i] = -2 * lambda * r;
         }
         out[k] = 0.0;
-        covariance.solveWithInformationFactor(out);
+        Cholesky.solve(newtonFactor, k, k, out, 0);
     }
 
     /** Sets β = from + t · direction (K + 1 values; β_K = 0). */

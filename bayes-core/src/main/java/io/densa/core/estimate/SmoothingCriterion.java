@@ -26,10 +26,16 @@ public enum SmoothingCriterion {
      * penalty's null space (the clr polynomials of degree below the penalty order), and λ
      * minimises
      * <pre>
-     *   V(λ) = −2ℓ(ĉ) + 2λ ĉ'Ωĉ + log det(F + 2λΩ) − r log(2λ),
+     *   V(λ) = −2ℓ(ĉ) + 2λ ĉ'Ωĉ + log det(I(ĉ) + 2λΩ) − r log(2λ),
      * </pre>
-     * r = rank Ω, F the Fisher information at the estimate ĉ(λ): minus twice the Laplace
-     * approximation of log ∫ L(c) p(c | λ) dc up to a constant. Wahba (1985), A comparison of GCV and
+     * r = rank Ω, I(ĉ) = −∇²ℓ(ĉ) the observed information at the estimate ĉ(λ), so that
+     * I(ĉ) + 2λΩ is minus the Hessian of the log integrand at its mode: minus twice the Laplace
+     * approximation of log ∫ L(c) p(c | λ) dc up to a constant (Tierney &amp; Kadane (1986),
+     * Accurate approximations for posterior moments and marginal densities, JASA 81; from memory).
+     * The factor of that Hessian is the one the last Newton iteration of each fit computed, so the
+     * criterion costs no pass over the data beyond the fit; where the observed matrix is not
+     * positive definite the fit takes Fisher-scoring steps and the expected information stands in
+     * for it. Wahba (1985), A comparison of GCV and
      * GML for choosing the smoothing parameter in the generalized spline smoothing problem, Ann.
      * Statist. 13(4); Wood (2011), Fast stable restricted maximum likelihood and marginal likelihood
      * estimation of semiparametric generalized linear models, J. R. Stat. Soc. B 73(1) (both from
@@ -38,7 +44,7 @@ public enum SmoothingCriterion {
      * (weight w &gt; 0, the default) the prior on c is the proper N(0, (2λΩ + (w/P(I)) I)⁻¹) and the
      * criterion is
      * <pre>
-     *   V(λ) = −2ℓ(ĉ) + 2λ ĉ'Ωĉ + (w/P(I)) ‖ĉ‖² + log det(F + 2λΩ + (w/P(I)) I)
+     *   V(λ) = −2ℓ(ĉ) + 2λ ĉ'Ωĉ + (w/P(I)) ‖ĉ‖² + log det(I(ĉ) + 2λΩ + (w/P(I)) I)
      *          − log det(2λΩ + (w/P(I)) I),
      * </pre>
      * the same Laplace approximation with the prior's exact normalising constant in place of

@@ -257,7 +257,10 @@ final class SmoothingSearch {
      */
     private static final class Path {
         final double[] bestTangent;
-        /** Whether the criterion leaves the information factor in the engine (all but cross-validation). */
+        /**
+         * Whether the criterion leaves the full-data fit's Newton factor in the engine (all but
+         * cross-validation, whose last fits are on folds).
+         */
         final boolean factored;
         boolean bestKnown;
 
@@ -267,7 +270,7 @@ final class SmoothingSearch {
         }
 
         /**
-         * The fit just evaluated (at λ, its information factor still in the engine) is the best so
+         * The fit just evaluated (at λ, its Newton factor still in the engine) is the best so
          * far: keeps its tangent.
          */
         void keepBest(PenalizedNewton eng, double lambda) {
@@ -299,13 +302,8 @@ final class SmoothingSearch {
         }
         double loglik = eng.logLikelihood();
         double edf = Double.NaN;
-        if (criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD) {
-            // needs log det J only (edf is not part of it): the factor without the whitening
-            eng.fisherInformation();
-            if (!eng.factorInformation(lambda)) {
-                return Double.POSITIVE_INFINITY;
-            }
-        } else if (criterion != SmoothingCriterion.CROSS_VALIDATION) {
+        // the marginal likelihood needs log det H only, from the factor the last Newton iteration left
+        if (criterion != SmoothingCriterion.MARGINAL_LIKELIHOOD && criterion != SmoothingCriterion.CROSS_VALIDATION) {
             eng.fisherInformation();
             edf = eng.sandwich(lambda, u, null);
             if (Double.isNaN(edf)) {
@@ -322,7 +320,7 @@ final class SmoothingSearch {
             case AIC:
                 return -2 * loglik + 2 * edf;
             case MARGINAL_LIKELIHOOD: {
-                double ld = eng.logDetJ();
+                double ld = eng.newtonLogDet();
                 if (Double.isNaN(ld)) {
                     return Double.POSITIVE_INFINITY;
                 }
