@@ -35,7 +35,10 @@ public enum SmoothingCriterion {
      * The factor of that Hessian is the one the last Newton iteration of each fit computed, so the
      * criterion costs no pass over the data beyond the fit; where the observed matrix is not
      * positive definite the fit takes Fisher-scoring steps and the expected information stands in
-     * for it. Wahba (1985), A comparison of GCV and
+     * for it. For binned counts the observed and expected information differ by O(N^½) against
+     * O(N); for a sample with weights w_i the Hessian is that of Σ w_i log f(x_i), W Cov_f(e) with
+     * W = Σ w_i (the weights act as frequency weights here; equal to the Fisher information for
+     * unit weights, the model being an exponential family in c). Wahba (1985), A comparison of GCV and
      * GML for choosing the smoothing parameter in the generalized spline smoothing problem, Ann.
      * Statist. 13(4); Wood (2011), Fast stable restricted maximum likelihood and marginal likelihood
      * estimation of semiparametric generalized linear models, J. R. Stat. Soc. B 73(1) (both from
