@@ -34,7 +34,8 @@ final class NewtonCovariance {
     }
 
     /**
-     * After {@link PenalizedObjective#fisherInformation()}: factors J = F + 2λP = LL' and returns edf = tr(J⁻¹F) = tr(W), W = L⁻¹ F L⁻ᵀ, or NaN if J is singular.
+     * After {@link PenalizedObjective#fisherInformation()}: factors J = F + 2λP = LL' and returns
+     * edf = tr(J⁻¹F) = tr(W), W = L⁻¹ F L⁻ᵀ, or NaN if J is singular.
      * If cov != null, writes the sandwich covariance of the coordinates c = U β there:
      * U J⁻¹ M J⁻¹ U' = G W_M G' with the upper triangular G = U L⁻ᵀ (K × K) and W_M = L⁻¹ M L⁻ᵀ,
      * where the meat M is F, or, when {@code robust} is set, the empirical information
