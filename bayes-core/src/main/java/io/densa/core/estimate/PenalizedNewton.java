@@ -155,11 +155,7 @@ final class PenalizedNewton {
             for (int i = 0; i < k; i++) {
                 System.arraycopy(hess, i * k1, newtonFactor, i * k, i + 1);
             }
-            double ld = 0;
-            for (int i = 0; i < k; i++) {
-                ld += Math.log(newtonFactor[i * k + i]);
-            }
-            newtonLogDet = 2 * ld;
+            newtonLogDet = Cholesky.logDeterminant(newtonFactor, k, k);
         } else {
             newtonLogDet = Double.NaN;
         }

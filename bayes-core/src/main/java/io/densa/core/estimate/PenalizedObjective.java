@@ -209,7 +209,8 @@ final class PenalizedObjective {
             int q0 = start[j], q1 = start[j + 1];
             if (w == 4 && hi - lo == 4 && q1 > q0 && first[q0] == lo && first[q1 - 1] == lo) {
                 // a bin inside one knot span (most bins): the same operations in the same order as
-                // the general loops below, with the bin's four moments in registers
+                // the general loops below, with the bin's four moments in registers (the 10-term
+                // block repeats the one below on purpose: one loop for both measured 3–8 % slower)
                 if (sTerm && lo != fcur) {
                     if (fcur >= 0) {
                         flush4(fcur, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);

@@ -56,11 +56,7 @@ final class SmoothingSearch {
                 l[i] = 2 * prior[i];
             }
             if (Cholesky.factor(l, k, k, 0) < 0) {
-                ld = 0;
-                for (int i = 0; i < k; i++) {
-                    ld += Math.log(l[i * k + i]);
-                }
-                ld *= 2;
+                ld = Cholesky.logDeterminant(l, k, k);
                 double[] linv = new double[k * k];
                 Cholesky.invertLower(l, k, linv);
                 double[] twoP = new double[k * k];
@@ -239,11 +235,7 @@ final class SmoothingSearch {
         if (Cholesky.factor(m, k, k, 0) >= 0) {
             return Double.NaN;
         }
-        double ld = 0;
-        for (int i = 0; i < k; i++) {
-            ld += Math.log(m[i * k + i]);
-        }
-        return 2 * ld;
+        return Cholesky.logDeterminant(m, k, k);
     }
 
     /**

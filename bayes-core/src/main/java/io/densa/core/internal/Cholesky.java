@@ -82,6 +82,18 @@ public final class Cholesky {
         return chol.getT(null).data;
     }
 
+    /**
+     * log det(L Lᵀ) = 2 Σ_i log L_ii of the factor left by {@link #factor} (n × n, row stride s),
+     * the diagonal summed in order.
+     */
+    public static double logDeterminant(double[] l, int n, int s) {
+        double ld = 0;
+        for (int i = 0; i < n; i++) {
+            ld += Math.log(l[i * s + i]);
+        }
+        return 2 * ld;
+    }
+
     /** Solves L Lᵀ x = b in place, b in x[off..off+n) (L lower in l, row stride s). */
     public static void solve(double[] l, int n, int s, double[] x, int off) {
         forward(l, n, s, x, off);

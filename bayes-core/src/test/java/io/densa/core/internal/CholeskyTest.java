@@ -61,6 +61,24 @@ class CholeskyTest {
         }
     }
 
+    /** log det from the factor (also on a strided block) against the log of EJML's determinant. */
+    @ParameterizedTest
+    @ValueSource(ints = {1, 2, 7, 24})
+    void logDeterminantAgreesWithEjml(int n) {
+        double[] a = spd(n, 300 + n);
+        double expected = Math.log(CommonOps_DDRM.det(new DMatrixRMaj(n, n, true, a)));
+        double[] l = a.clone();
+        assertEquals(-1, Cholesky.factor(l, n, n, 0));
+        assertEquals(expected, Cholesky.logDeterminant(l, n, n), 1e-12 * Math.max(1, Math.abs(expected)));
+        int s = n + 1;
+        double[] strided = new double[n * s];
+        for (int i = 0; i < n; i++) {
+            System.arraycopy(a, i * n, strided, i * s, n);
+        }
+        assertEquals(-1, Cholesky.factor(strided, n, s, 0));
+        assertEquals(Cholesky.logDeterminant(l, n, n), Cholesky.logDeterminant(strided, n, s), 0.0);
+    }
+
     @ParameterizedTest
     @ValueSource(ints = {1, 2, 3, 7, 16, 41})
     void factorEqualsEjmlInnerCholeskyBitForBit(int n) {
