@@ -356,10 +356,12 @@ final class PenalizedFit {
         CrossValidationFolds cv = criterion == SmoothingCriterion.CROSS_VALIDATION ? new CrossValidationFolds(eng, sample, folds, seed, index, k,
                 maxIterations, Math.max(tolerance, SmoothingSearch.SEARCH_TOLERANCE)) : null;
         double lambda;
+        double[] plausible = {Double.NaN};
         if (!choose) {
             lambda = fixedLambda;
         } else {
-            lambda = search.choose(eng, scale, cv);
+            lambda = search.choose(eng, scale, cv,
+                    criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD ? plausible : null);
         }
         boolean ok = eng.solve(lambda, maxIterations, tolerance);
         String reason = ok ? "" : eng.failure();
@@ -412,7 +414,7 @@ final class PenalizedFit {
                             criterion, crit, edf, loglik, eng.total(), iterations, cov, Double.NaN, Double.NaN));
         }
         if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD) {
-            addSmoothingUncertainty(eng, lambda, crit, cv, cov);
+            addSmoothingUncertainty(eng, lambda, crit, cv, cov, plausible[0]);
         }
         EstimationSupport.projectPsd(cov, k);
         edf = Math.max(0.0, edf); // tr(J⁻¹F) ≥ 0; rounding gives −1e-22 when F vanishes
@@ -498,10 +500,15 @@ final class PenalizedFit {
      * score equation, H the Newton matrix of the final fit, {@link PenalizedNewton#smoothingTangent}),
      * V_ρ = 2 / V''(ρ) from a central difference of the criterion V = −2 log
      * marginal likelihood over ±h decades (Wood, Pya &amp; Säfken (2016), Smoothing parameter and
-     * model selection for general smooth models, JASA 111, §3; from memory). Restores the engine state.
+     * model selection for general smooth models, JASA 111, §3; from memory), at most W²/4 for the
+     * plausible range of width W ({@link SmoothingSearch#plausibleWidth}, in ρ units): no law on an
+     * interval of width W has a larger variance (Popoviciu (1935), Sur les équations algébriques
+     * ayant toutes leurs racines réelles, Mathematica (Cluj) 9; from memory, and elementary:
+     * Var X ≤ E(X − m)² ≤ (W/2)² for m the interval's midpoint). The bound also stands in where V
+     * is not convex at λ̂. Restores the engine state.
      */
     private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, CrossValidationFolds cv,
-            double[] cov) {
+            double[] cov, double plausibleWidth) {
         double[] dBeta = new double[k + 1];
         eng.smoothingTangent(lambda, dBeta);
         double[] dc = new double[k];
@@ -517,11 +524,16 @@ final class PenalizedFit {
         eng.setCoefficients(saved);
         eng.evaluate(lambda);
         double curvG = (up - 2 * crit + down) / (h * h);
-        if (!(curvG > 0) || !Double.isFinite(curvG)) {
+        // in decades²: the local value where V is convex at λ̂, within the bound of the plausible range
+        double varG = curvG > 0 && Double.isFinite(curvG) ? 2 / curvG : Double.POSITIVE_INFINITY;
+        if (plausibleWidth > 0) {
+            varG = Math.min(varG, 0.25 * plausibleWidth * plausibleWidth);
+        }
+        if (!(varG > 0) || !Double.isFinite(varG)) {
             return;
         }
         double ln10 = Math.log(10);
-        double varRho = 2 * ln10 * ln10 / curvG;
+        double varRho = ln10 * ln10 * varG;
         for (int i = 0; i < k; i++) {
             for (int j = 0; j < k; j++) {
                 cov[i * k + j] += varRho * dc[i] * dc[j];

@@ -14,6 +14,11 @@ final class SmoothingSearch {
     private static final int GOLDEN_STEPS = 7;
     /** Tolerance of the fits during the search (at least the configured one). */
     static final double SEARCH_TOLERANCE = 1e-9;
+    /**
+     * Rise of the criterion V = −2 log marginal likelihood above its best that bounds the plausible
+     * range of λ (a likelihood ratio of e⁻³ ≈ 0.05).
+     */
+    static final double PLAUSIBLE_RISE = 6;
 
     private final SmoothingCriterion criterion;
     private final double gridLo;
@@ -87,16 +92,35 @@ final class SmoothingSearch {
      * best fit found.
      */
     double choose(PenalizedNewton eng, double scale, CrossValidationFolds cv) {
+        return choose(eng, scale, cv, null);
+    }
+
+    /**
+     * As {@link #choose(PenalizedNewton, double, CrossValidationFolds)}; when plausible is not
+     * null, plausible[0] receives {@link #plausibleWidth} of the grid values the scan computed. For
+     * that the scan goes on towards weaker smoothing while the criterion keeps rising and stays
+     * within {@link #PLAUSIBLE_RISE} of its best (flat criteria only; those fits do not change the
+     * choice).
+     */
+    double choose(PenalizedNewton eng, double scale, CrossValidationFolds cv, double[] plausible) {
         int steps = (int) Math.floor((gridHi - gridLo) / gridStep + 1e-9);
+        double[] scanG = plausible == null ? null : new double[steps + 1];
+        double[] scanC = plausible == null ? null : new double[steps + 1];
+        int scanned = 0;
         double bestG = gridHi, bestC = Double.POSITIVE_INFINITY;
         double[] bestBeta = new double[k + 1];
         Path path = new Path(k, criterion != SmoothingCriterion.CROSS_VALIDATION);
         int rising = 0;
         double prev = Double.POSITIVE_INFINITY;
         double cAbove = Double.POSITIVE_INFINITY, cBelow = Double.POSITIVE_INFINITY;
-        for (int s = 0; s <= steps && rising < 2; s++) {
+        int s = 0;
+        for (; s <= steps && rising < 2; s++) {
             double g = gridHi - s * gridStep;
             double c = criterionAt(eng, lambdaAt(eng.total(), scale, g), cv);
+            if (scanG != null) {
+                scanG[scanned] = g;
+                scanC[scanned++] = c;
+            }
             if (c < bestC) {
                 bestC = c;
                 bestG = g;
@@ -112,6 +136,19 @@ final class SmoothingSearch {
                 rising++;
             }
             prev = c;
+        }
+        if (plausible != null) {
+            for (double last = prev; s <= steps && last - bestC < PLAUSIBLE_RISE; s++) {
+                double g = gridHi - s * gridStep;
+                double c = criterionAt(eng, lambdaAt(eng.total(), scale, g), cv);
+                if (!(c >= last)) {
+                    break; // another mode at weaker smoothing: not the chosen one's
+                }
+                scanG[scanned] = g;
+                scanC[scanned++] = c;
+                last = c;
+            }
+            plausible[0] = plausibleWidth(scanG, scanC, scanned, gridStep);
         }
         double denom = cAbove - 2 * bestC + cBelow;
         if (Double.isFinite(denom) && denom > 0) {
@@ -190,6 +227,30 @@ final class SmoothingSearch {
             }
             return golden(eng, scale, cv, bestG, bestC, bestBeta, path);
         }
+    }
+
+    /**
+     * Width (decades) of the plausible range of log10 λ: from the smallest to the largest scanned
+     * grid point whose criterion V = −2 log marginal likelihood is within {@link #PLAUSIBLE_RISE} of
+     * the best, plus one grid step (each point standing for a cell one step wide); NaN when no
+     * value is finite.
+     */
+    static double plausibleWidth(double[] g, double[] c, int n, double step) {
+        double best = Double.POSITIVE_INFINITY;
+        for (int i = 0; i < n; i++) {
+            best = Math.min(best, c[i]);
+        }
+        if (!Double.isFinite(best)) {
+            return Double.NaN;
+        }
+        double lo = Double.POSITIVE_INFINITY, hi = Double.NEGATIVE_INFINITY;
+        for (int i = 0; i < n; i++) {
+            if (c[i] - best < PLAUSIBLE_RISE) {
+                lo = Math.min(lo, g[i]);
+                hi = Math.max(hi, g[i]);
+            }
+        }
+        return hi - lo + step;
     }
 
     /**
