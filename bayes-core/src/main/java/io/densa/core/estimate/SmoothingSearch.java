@@ -97,10 +97,9 @@ final class SmoothingSearch {
 
     /**
      * As {@link #choose(PenalizedNewton, double, CrossValidationFolds)}; when plausible is not
-     * null, plausible[0] receives {@link #plausibleWidth} of the grid values the scan computed. For
-     * that the scan goes on towards weaker smoothing while the criterion keeps rising and stays
-     * within {@link #PLAUSIBLE_RISE} of its best (flat criteria only; those fits do not change the
-     * choice).
+     * null, plausible[0] receives {@link #plausibleWidth} of the grid values the scan computed (no
+     * further fits: scanning on until the criterion had risen by {@link #PLAUSIBLE_RISE} changed
+     * the replicate study's ratios by at most 0.02 and cost 6 % more time).
      */
     double choose(PenalizedNewton eng, double scale, CrossValidationFolds cv, double[] plausible) {
         int steps = (int) Math.floor((gridHi - gridLo) / gridStep + 1e-9);
@@ -113,8 +112,7 @@ final class SmoothingSearch {
         int rising = 0;
         double prev = Double.POSITIVE_INFINITY;
         double cAbove = Double.POSITIVE_INFINITY, cBelow = Double.POSITIVE_INFINITY;
-        int s = 0;
-        for (; s <= steps && rising < 2; s++) {
+        for (int s = 0; s <= steps && rising < 2; s++) {
             double g = gridHi - s * gridStep;
             double c = criterionAt(eng, lambdaAt(eng.total(), scale, g), cv);
             if (scanG != null) {
@@ -138,16 +136,6 @@ final class SmoothingSearch {
             prev = c;
         }
         if (plausible != null) {
-            for (double last = prev; s <= steps && last - bestC < PLAUSIBLE_RISE; s++) {
-                double g = gridHi - s * gridStep;
-                double c = criterionAt(eng, lambdaAt(eng.total(), scale, g), cv);
-                if (!(c >= last)) {
-                    break; // another mode at weaker smoothing: not the chosen one's
-                }
-                scanG[scanned] = g;
-                scanC[scanned++] = c;
-                last = c;
-            }
             plausible[0] = plausibleWidth(scanG, scanC, scanned, gridStep);
         }
         double denom = cAbove - 2 * bestC + cBelow;
@@ -233,7 +221,7 @@ final class SmoothingSearch {
      * Width (decades) of the plausible range of log10 λ: from the smallest to the largest scanned
      * grid point whose criterion V = −2 log marginal likelihood is within {@link #PLAUSIBLE_RISE} of
      * the best, plus one grid step (each point standing for a cell one step wide); NaN when no
-     * value is finite.
+     * value is finite. The scan stops two rises after the best, so the range may end there.
      */
     static double plausibleWidth(double[] g, double[] c, int n, double step) {
         double best = Double.POSITIVE_INFINITY;

@@ -104,7 +104,7 @@ class EstimationCalibrationTest {
      * plausible-range bound (see {@link PenalizedLikelihoodEstimator}). Asserted, for 50 and 20
      * events from two smooth seasonal truths (300 replicates each): every replicate's reported
      * trace at most 6 times the empirical trace, and their mean within [0.7, 1.3] of it. Measured:
-     * 50 events mean 0.91, largest 3.7; 20 events 1.02 and 3.6 (without the bound 1.01 and 7.1,
+     * 50 events mean 0.91, largest 3.7; 20 events 1.01 and 3.6 (without the bound 1.01 and 7.1,
      * 1.24 and 15.2: the test fails there).
      */
     @Test
