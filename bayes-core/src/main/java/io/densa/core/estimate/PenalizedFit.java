@@ -501,8 +501,8 @@ final class PenalizedFit {
      * V_ρ = 2 / V''(ρ) from a central difference of the criterion V = −2 log
      * marginal likelihood over ±h decades (Wood, Pya &amp; Säfken (2016), Smoothing parameter and
      * model selection for general smooth models, JASA 111, §3; from memory), at most W²/4 for the
-     * plausible range of width W ({@link SmoothingSearch#plausibleWidth}, in ρ units): no law on an
-     * interval of width W has a larger variance (Popoviciu (1935), Sur les équations algébriques
+     * plausible range of ρ, of width W ({@link SmoothingSearch#plausibleWidth} decades times ln 10):
+     * no law on an interval of width W has a larger variance (Popoviciu (1935), Sur les équations algébriques
      * ayant toutes leurs racines réelles, Mathematica (Cluj) 9; from memory, and elementary:
      * Var X ≤ E(X − m)² ≤ (W/2)² for m the interval's midpoint). The bound also stands in where V
      * is not convex at λ̂. Restores the engine state.
