@@ -30,7 +30,11 @@ import org.ejml.data.DMatrixRMaj;
  *                                  that the requested criterion is undefined at the user's fixed λ
  *                                  (AICc with N ≤ edf + 1, GCV with edf ≥ the number of bins, the
  *                                  marginal likelihood at λ = 0 without the reference prior) and
- *                                  AIC is reported instead (see {@link #criterion()}); when the
+ *                                  AIC is reported instead (see {@link #criterion()}), or a note
+ *                                  that the chosen λ is weakly determined by the data (the
+ *                                  marginal likelihood flat or not convex there; the covariance's
+ *                                  λ-uncertainty term then comes from the bound of the plausible
+ *                                  range of λ, see {@code PenalizedLikelihoodEstimator}); when the
  *                                  penalised information is singular (possible only without the
  *                                  reference prior) the status is {@link Status#NOT_CONVERGED} and
  *                                  the reason says that edf, covariance and criterion were computed

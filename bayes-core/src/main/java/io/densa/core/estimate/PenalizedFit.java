@@ -413,8 +413,12 @@ final class PenalizedFit {
                     new EstimationDiagnostics(id, EstimationDiagnostics.Status.NOT_CONVERGED, reason, lambda, choose,
                             criterion, crit, edf, loglik, eng.total(), iterations, cov, Double.NaN, Double.NaN));
         }
-        if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD) {
-            addSmoothingUncertainty(eng, lambda, crit, cv, cov, plausible[0]);
+        if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD
+                && addSmoothingUncertainty(eng, lambda, crit, cv, cov, plausible[0])) {
+            reason = (reason.isEmpty() ? "" : reason + "; ") + String.format(java.util.Locale.ROOT,
+                    "lambda weakly determined by the data (marginal likelihood flat or not convex at the"
+                    + " choice): its uncertainty term is bounded by the plausible range of lambda, %.1f decades",
+                    plausible[0]);
         }
         EstimationSupport.projectPsd(cov, k);
         edf = Math.max(0.0, edf); // tr(J⁻¹F) ≥ 0; rounding gives −1e-22 when F vanishes
@@ -506,8 +510,10 @@ final class PenalizedFit {
      * ayant toutes leurs racines réelles, Mathematica (Cluj) 9; from memory, and elementary:
      * Var X ≤ E(X − m)² ≤ (W/2)² for m the interval's midpoint). The bound also stands in where V
      * is not convex at λ̂. Restores the engine state.
+     *
+     * @return whether the bound, not the local value, gave V_ρ
      */
-    private void addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, CrossValidationFolds cv,
+    private boolean addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, CrossValidationFolds cv,
             double[] cov, double plausibleWidth) {
         double[] dBeta = new double[k + 1];
         eng.smoothingTangent(lambda, dBeta);
@@ -526,11 +532,12 @@ final class PenalizedFit {
         double curvG = (up - 2 * crit + down) / (h * h);
         // in decades²: the local value where V is convex at λ̂, within the bound of the plausible range
         double varG = curvG > 0 && Double.isFinite(curvG) ? 2 / curvG : Double.POSITIVE_INFINITY;
-        if (plausibleWidth > 0) {
-            varG = Math.min(varG, 0.25 * plausibleWidth * plausibleWidth);
+        boolean bounded = plausibleWidth > 0 && 0.25 * plausibleWidth * plausibleWidth < varG;
+        if (bounded) {
+            varG = 0.25 * plausibleWidth * plausibleWidth;
         }
         if (!(varG > 0) || !Double.isFinite(varG)) {
-            return;
+            return false;
         }
         double ln10 = Math.log(10);
         double varRho = ln10 * ln10 * varG;
@@ -539,5 +546,6 @@ final class PenalizedFit {
                 cov[i * k + j] += varRho * dc[i] * dc[j];
             }
         }
+        return bounded;
     }
 }
