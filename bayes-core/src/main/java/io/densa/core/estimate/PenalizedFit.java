@@ -360,8 +360,7 @@ final class PenalizedFit {
         if (!choose) {
             lambda = fixedLambda;
         } else {
-            lambda = search.choose(eng, scale, cv,
-                    criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD ? plausible : null);
+            lambda = search.choose(eng, scale, cv, plausible);
         }
         boolean ok = eng.solve(lambda, maxIterations, tolerance);
         String reason = ok ? "" : eng.failure();
@@ -531,11 +530,10 @@ final class PenalizedFit {
         eng.evaluate(lambda);
         double curvG = (up - 2 * crit + down) / (h * h);
         // in decades²: the local value where V is convex at λ̂, within the bound of the plausible range
-        double varG = curvG > 0 && Double.isFinite(curvG) ? 2 / curvG : Double.POSITIVE_INFINITY;
-        boolean bounded = plausibleWidth > 0 && 0.25 * plausibleWidth * plausibleWidth < varG;
-        if (bounded) {
-            varG = 0.25 * plausibleWidth * plausibleWidth;
-        }
+        double local = curvG > 0 && Double.isFinite(curvG) ? 2 / curvG : Double.POSITIVE_INFINITY;
+        double bound = plausibleWidth > 0 ? 0.25 * plausibleWidth * plausibleWidth : Double.POSITIVE_INFINITY;
+        boolean bounded = bound < local;
+        double varG = Math.min(local, bound);
         if (!(varG > 0) || !Double.isFinite(varG)) {
             return false;
         }

@@ -89,22 +89,15 @@ final class SmoothingSearch {
      * {@link #EDGE_STEP} decades inside gives a value at least as large), that end is the choice
      * without the golden-section search, which would end there too for a criterion monotone on the
      * last step; otherwise the search runs as before. Leaves the engine at the coefficients of the
-     * best fit found.
-     */
-    double choose(PenalizedNewton eng, double scale, CrossValidationFolds cv) {
-        return choose(eng, scale, cv, null);
-    }
-
-    /**
-     * As {@link #choose(PenalizedNewton, double, CrossValidationFolds)}; when plausible is not
-     * null, plausible[0] receives {@link #plausibleWidth} of the grid values the scan computed (no
-     * further fits: scanning on until the criterion had risen by {@link #PLAUSIBLE_RISE} changed
-     * the replicate study's ratios by at most 0.02 and cost 6 % more time).
+     * best fit found; plausible[0] receives {@link #plausibleWidth} of the grid values the scan
+     * computed (no further fits: scanning on until the criterion had risen by
+     * {@link #PLAUSIBLE_RISE} changed the replicate study's ratios by at most 0.02 and cost 6 % more
+     * time).
      */
     double choose(PenalizedNewton eng, double scale, CrossValidationFolds cv, double[] plausible) {
         int steps = (int) Math.floor((gridHi - gridLo) / gridStep + 1e-9);
-        double[] scanG = plausible == null ? null : new double[steps + 1];
-        double[] scanC = plausible == null ? null : new double[steps + 1];
+        double[] scanG = new double[steps + 1];
+        double[] scanC = new double[steps + 1];
         int scanned = 0;
         double bestG = gridHi, bestC = Double.POSITIVE_INFINITY;
         double[] bestBeta = new double[k + 1];
@@ -115,10 +108,8 @@ final class SmoothingSearch {
         for (int s = 0; s <= steps && rising < 2; s++) {
             double g = gridHi - s * gridStep;
             double c = criterionAt(eng, lambdaAt(eng.total(), scale, g), cv);
-            if (scanG != null) {
-                scanG[scanned] = g;
-                scanC[scanned++] = c;
-            }
+            scanG[scanned] = g;
+            scanC[scanned++] = c;
             if (c < bestC) {
                 bestC = c;
                 bestG = g;
@@ -135,9 +126,7 @@ final class SmoothingSearch {
             }
             prev = c;
         }
-        if (plausible != null) {
-            plausible[0] = plausibleWidth(scanG, scanC, scanned, gridStep);
-        }
+        plausible[0] = plausibleWidth(scanG, scanC, scanned, gridStep);
         double denom = cAbove - 2 * bestC + cBelow;
         if (Double.isFinite(denom) && denom > 0) {
             // three steps of successive parabolic interpolation in g = log10(λ) (Brent 1973,
