@@ -22,7 +22,7 @@ import java.util.Locale;
  *
  * <pre>
  * java [--add-modules jdk.incubator.vector] -cp NEW.jar io.densa.bench.AlternatingJars OLD.jar NEW.jar \
- *      UNITS fixed|chosen|fixed:chosen ROUNDS
+ *      UNITS fixed|chosen|fixed:chosen|intervals|intervals-parallel ROUNDS
  * </pre>
  *
  * With {@code fixed:chosen} (the same jar twice) A runs λ fixed and B λ chosen: the cost of the
@@ -34,6 +34,10 @@ import java.util.Locale;
  * minimum, first quartile and median CPU seconds, a checksum of the estimates (sum of coordinates,
  * log10 λ and estimation variances: equal checksums mean equal numbers to the digits shown) and the
  * per-round ratios A/B.
+ *
+ * <p>With {@code intervals} the workload is instead {@link UncertaintyBenchmark#intervals} on a UNITS ×
+ * UNITS grid, its tiles computed serially (so that the thread's CPU time is the whole work); with
+ * {@code intervals-parallel} in parallel, timed by the wall clock.
  */
 public final class AlternatingJars {
     private AlternatingJars() {
@@ -45,8 +49,24 @@ public final class AlternatingJars {
         private final double[] edges;
         private final String[] ids;
         private final PenalizedLikelihoodEstimator estimator;
+        private final UncertaintyBenchmark grid;
 
         public Workload(int units, String mode) {
+            if (mode.startsWith("intervals")) {
+                grid = new UncertaintyBenchmark();
+                grid.gridSide = units;
+                grid.stations = 1000;
+                grid.neighbours = 16;
+                grid.draws = 200;
+                grid.serial = !mode.endsWith("parallel");
+                grid.setup();
+                counts = null;
+                edges = null;
+                ids = null;
+                estimator = null;
+                return;
+            }
+            grid = null;
             counts = SideBySide.histograms(7, units);
             edges = new double[366];
             for (int j = 0; j <= 365; j++) {
@@ -63,6 +83,12 @@ public final class AlternatingJars {
         public double[] run() {
             ThreadMXBean mx = ManagementFactory.getThreadMXBean();
             long t0 = mx.getCurrentThreadCpuTime();
+            if (grid != null) {
+                long w0 = System.nanoTime();
+                double sum = grid.intervals();
+                return new double[] {(grid.serial ? mx.getCurrentThreadCpuTime() - t0 : System.nanoTime() - w0) / 1e9,
+                    sum};
+            }
             BatchEstimate b = estimator.fitAll(edges, counts, ids);
             long t1 = mx.getCurrentThreadCpuTime();
             double s = 0;
@@ -79,8 +105,10 @@ public final class AlternatingJars {
     public static void main(String[] args) throws Exception {
         String[] modes = args.length == 5 && "fixed:chosen".equals(args[3]) ? new String[] {"fixed", "chosen"}
                 : args.length == 5 ? new String[] {args[3], args[3]} : null;
-        if (modes == null || !("fixed".equals(modes[0]) || "chosen".equals(modes[0]))) {
-            System.err.println("usage: AlternatingJars OLD.jar NEW.jar UNITS fixed|chosen|fixed:chosen ROUNDS");
+        if (modes == null || !("fixed".equals(modes[0]) || "chosen".equals(modes[0])
+                || "intervals".equals(modes[0]) || "intervals-parallel".equals(modes[0]))) {
+            System.err.println("usage: AlternatingJars OLD.jar NEW.jar UNITS fixed|chosen|fixed:chosen|intervals"
+                    + "|intervals-parallel ROUNDS");
             System.exit(2);
         }
         int units = Integer.parseInt(args[2]);

@@ -60,6 +60,9 @@ public class UncertaintyBenchmark {
     @Param({"200"})
     public int draws;
 
+    /** Tiles one after the other on the calling thread (for {@link AlternatingJars}; JMH runs them in parallel). */
+    public boolean serial;
+
     private PredictiveDistribution pd;
     private int side;
     private UncertaintyOptions options;
@@ -91,7 +94,7 @@ public class UncertaintyBenchmark {
     @Benchmark
     public double intervals() {
         double[] sum = {0};
-        pd.summariseGrid(Grid.over(0, 0, 1, 1, side, side), GridOptions.withDefaults(), options, t -> {
+        pd.summariseGrid(Grid.over(0, 0, 1, 1, side, side), GridOptions.withDefaults().withParallel(!serial), options, t -> {
             for (int q = 0; q < t.size(); q++) {
                 sum[0] += t.quantiles().get(0).uppers()[q] + t.exceedances().get(0).lowers()[q]
                         + t.quantiles().get(1).sds()[q];

@@ -119,12 +119,15 @@ final class DrawEngine {
         /** Row work arrays (length of a block): rows indexed from 0, which JDK 17 vectorises. */
         final double[] row = new double[width];
         final double[][] rows = new double[4][width];
-        final double[] zRow = new double[width];
+        /** The normals of a block that does not start at draw 0, rows indexed from 0. */
+        final double[][] zBlock = new double[r][width];
         final double[] y = new double[rule.m * width];
         final double[] g = new double[rule.m * width];
         final double[] shift = new double[width];
         final double[] mass = new double[rule.panels * width];
         final double[] total = new double[width];
+        /** Cumulative panel masses, (panels + 1) × block. */
+        final double[] prefix = new double[(rule.panels + 1) * width];
         final double[] err = new double[width];
         final double[] panelError = new double[rule.panels * width];
         final double[] lag = new double[rule.q];
@@ -192,20 +195,48 @@ final class DrawEngine {
         NodeRule nr = rule;
         int m = nr.m, q = nr.q, np = nr.panels;
         double[] y = s.y, g = s.g, mx = s.shift, mass = s.mass, tot = s.total, err = s.err, rp = s.panelError;
-        // node by node in a row indexed from 0, copied into the node-major block
+        // node by node in a row indexed from 0, copied into the node-major block; the block's normals
+        // in rows indexed from 0 too, and four of them per pass over the row (same order of operations)
         double[] row = s.row;
+        double[][] zb = s.z;
+        if (d0 > 0) {
+            zb = s.zBlock;
+            for (int l = 0; l < r; l++) {
+                System.arraycopy(s.z[l], d0, zb[l], 0, nc);
+            }
+        }
         for (int i = 0; i < m; i++) {
             double bi = s.base[i];
             for (int d = 0; d < nc; d++) {
                 row[d] = bi;
             }
-            for (int l = 0; l < r; l++) {
-                double b = bt[l * m + i];
-                double[] zl = s.z[l];
-                if (d0 > 0) {
-                    System.arraycopy(zl, d0, s.zRow, 0, nc);
-                    zl = s.zRow;
+            int l = 0;
+            for (; l + 3 < r; l += 4) {
+                double b0 = bt[l * m + i], b1 = bt[(l + 1) * m + i], b2 = bt[(l + 2) * m + i], b3 = bt[(l + 3) * m + i];
+                double[] z0 = zb[l], z1 = zb[l + 1], z2 = zb[l + 2], z3 = zb[l + 3];
+                for (int d = 0; d < nc; d++) {
+                    row[d] = row[d] + b0 * z0[d] + b1 * z1[d] + b2 * z2[d] + b3 * z3[d];
                 }
+            }
+            if (r - l == 3) {
+                double b0 = bt[l * m + i], b1 = bt[(l + 1) * m + i], b2 = bt[(l + 2) * m + i];
+                double[] z0 = zb[l], z1 = zb[l + 1], z2 = zb[l + 2];
+                for (int d = 0; d < nc; d++) {
+                    row[d] = row[d] + b0 * z0[d] + b1 * z1[d] + b2 * z2[d];
+                }
+                l = r;
+            }
+            if (r - l == 2) {
+                double b0 = bt[l * m + i], b1 = bt[(l + 1) * m + i];
+                double[] z0 = zb[l], z1 = zb[l + 1];
+                for (int d = 0; d < nc; d++) {
+                    row[d] = row[d] + b0 * z0[d] + b1 * z1[d];
+                }
+                l = r;
+            }
+            if (l < r) {
+                double b = bt[l * m + i];
+                double[] zl = zb[l];
                 for (int d = 0; d < nc; d++) {
                     row[d] += b * zl[d];
                 }
@@ -214,8 +245,7 @@ final class DrawEngine {
                 System.arraycopy(row, 0, mx, 0, nc);
             } else {
                 for (int d = 0; d < nc; d++) {
-                    double v = row[d];
-                    mx[d] = v > mx[d] ? v : mx[d];
+                    mx[d] = Math.max(mx[d], row[d]);
                 }
             }
             System.arraycopy(row, 0, y, i * nc, nc);
@@ -223,7 +253,7 @@ final class DrawEngine {
         boolean check = true;
         if (q == 4) {
             exponentialsOfFour(y, mx, g, mass, nc, s);
-            totals(mass, tot, nc);
+            totals(mass, s.prefix, tot, nc);
             double least = Double.POSITIVE_INFINITY;
             for (int d = 0; d < nc; d++) {
                 least = Math.min(least, tot[d]);
@@ -255,7 +285,7 @@ final class DrawEngine {
                     mass[mo + d] += wi * g[o + d];
                 }
             }
-            totals(mass, tot, nc);
+            totals(mass, s.prefix, tot, nc);
         }
         if (check) {
             java.util.Arrays.fill(err, 0, nc, 0.0);
@@ -269,7 +299,7 @@ final class DrawEngine {
         int qi = 0;
         for (int p = 0; p < probs.length; p++, qi++) {
             double[] v = s.values[qi];
-            s.work.quantiles(probs[p], mass, tot, g, y, mx, nc, s.quantile);
+            s.work.quantiles(probs[p], mass, s.prefix, g, y, mx, nc, s.quantile);
             for (int d = 0; d < nc; d++) {
                 double xq = s.quantile[d];
                 v[d0 + d] = units == null ? xq : units.applyAsDouble(xq);
@@ -311,15 +341,19 @@ final class DrawEngine {
         }
     }
 
-    /** tot[d] = Σ_j mass[j·C + d], panels in order. */
-    private void totals(double[] mass, double[] tot, int nc) {
-        java.util.Arrays.fill(tot, 0);
+    /**
+     * The cumulative panel masses, prefix[j·C + d] = Σ_{i&lt;j} mass[i·C + d] summed in panel order
+     * (j = 0..panels), and the totals tot[d] = prefix[panels·C + d].
+     */
+    private void totals(double[] mass, double[] prefix, double[] tot, int nc) {
+        java.util.Arrays.fill(prefix, 0, nc, 0.0);
         for (int j = 0; j < rule.panels; j++) {
-            int mo = j * nc;
+            int mo = j * nc, po = mo + nc;
             for (int d = 0; d < nc; d++) {
-                tot[d] += mass[mo + d];
+                prefix[po + d] = prefix[mo + d] + mass[mo + d];
             }
         }
+        System.arraycopy(prefix, rule.panels * nc, tot, 0, nc);
     }
 
     /**
@@ -337,10 +371,7 @@ final class DrawEngine {
                 int o = (4 * j + i) * nc;
                 System.arraycopy(y, o, t, 0, nc);
                 for (int d = 0; d < nc; d++) {
-                    t[d] = t[d] - mx[d];
-                }
-                for (int d = 0; d < nc; d++) {
-                    t[d] = Kernels.expFast(t[d]);
+                    t[d] = Kernels.expFast(t[d] - mx[d]);
                 }
                 System.arraycopy(t, 0, g, o, nc);
             }

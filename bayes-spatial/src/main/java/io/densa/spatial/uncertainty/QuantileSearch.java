@@ -13,8 +13,6 @@ final class QuantileSearch {
     private final double[][] yn;
     private final double[][] coef;
     private final double[] u;
-    private final double[] left;
-    private final double[] right;
     private final double[] need;
     private final double[] mj;
     private final double[] h;
@@ -22,18 +20,31 @@ final class QuantileSearch {
     private final double[] c;
     private final double[] v;
     private final double[] part;
-    private final boolean[] active;
     private final boolean[] empty;
+
+    /** Unguarded Newton steps on the interpolant before the tolerance is checked. */
+    static final int NEWTON_STEPS = 6;
+    /** Largest last Newton step (in the panel fraction) accepted without the guarded search. */
+    static final double TOLERANCE = 1e-7;
+
+    /**
+     * q × q: the Bernstein coefficients (degree q − 1 on the panel) of the polynomial that
+     * interpolates the node exponentials, bern[i q + j] the weight of node j in coefficient i.
+     */
+    private final double[] bern;
+    private final double[] least;
+    private final double[] tmp;
 
     QuantileSearch(NodeRule rule, int n) {
         this.rule = rule;
         int q = rule.q;
+        bern = bernsteinWeights(rule.power, q);
+        least = new double[n];
+        tmp = new double[n];
         gn = new double[q][n];
         yn = new double[q][n];
         coef = new double[q][n];
         u = new double[n];
-        left = new double[n];
-        right = new double[n];
         need = new double[n];
         mj = new double[n];
         h = new double[n];
@@ -41,34 +52,40 @@ final class QuantileSearch {
         c = new double[n];
         v = new double[n];
         part = new double[n];
-        active = new boolean[n];
         empty = new boolean[n];
     }
 
     /**
      * {@link NodeRule#quantile} of probability p for the n densities of a node-major block (density d at
-     * column d, stride n: panel masses mass[j·n + d], totals z[d], node exponentials g and node
-     * values y at (j·q + i)·n + d, shifts shift[d]) into out[0..n). The same operations as
-     * {@link NodeRule#quantile}, density by density, so the results are identical; the steps are
-     * interleaved over the densities (each loop runs over all of them) so that their dependency
-     * chains overlap instead of running one after the other.
+     * column d, stride n: panel masses mass[j·n + d], cumulative masses prefix[j·n + d] (j = 0..panels,
+     * the last row the totals), node exponentials g and node values y at (j·q + i)·n + d, shifts
+     * shift[d]) into out[0..n). The same panel, interpolant and final exact Newton step as
+     * {@link NodeRule#quantile}; the root of the interpolant is found by {@link #NEWTON_STEPS}
+     * unguarded Newton steps from the linear guess, every loop running over all densities (unit
+     * stride, so that the JIT vectorises them and the densities' dependency chains overlap). They are
+     * kept only where the root is unique (all Bernstein coefficients of the interpolant of the node
+     * exponentials positive, so that the interpolant is positive on the panel and G increasing) and
+     * the last step is within {@link #TOLERANCE}; any other density is searched again with the
+     * guarded steps of {@link NodeRule#quantile}. Both searches stop within the tolerance of the same
+     * root, and the exact step squares what is left, so the two agree to rounding (CellBoundTest).
      */
-    void quantiles(double p, double[] mass, double[] z, double[] g, double[] y, double[] shift, int n, double[] out) {
+    void quantiles(double p, double[] mass, double[] prefix, double[] g, double[] y, double[] shift, int n, double[] out) {
         QuantileSearch w = this;
         int panels = rule.panels, q = rule.q;
         double[] width = rule.width, lo = rule.lo, anti = rule.anti, power = rule.power, un = rule.un, uw = rule.uw;
         double[][] gn = w.gn, yn = w.yn, a = w.coef;
-        double[] u = w.u, left = w.left, right = w.right, need = w.need, mjs = w.mj,
+        double[] u = w.u, need = w.need, mjs = w.mj,
                 hs = w.h, st = w.start;
-        boolean[] active = w.active, empty = w.empty;
+        boolean[] empty = w.empty;
+        int last = panels * n;
         for (int d = 0; d < n; d++) {
-            double target = p * z[d];
-            double cum = 0;
+            double target = p * prefix[last + d];
+            // the prefix sums add the masses in panel order: the same cumulative values as a running sum
             int j = 0;
-            while (j < panels - 1 && cum + mass[j * n + d] < target) {
-                cum += mass[j * n + d];
+            while (j < panels - 1 && prefix[(j + 1) * n + d] < target) {
                 j++;
             }
+            double cum = prefix[j * n + d];
             double mj = mass[j * n + d];
             need[d] = Math.min(mj, Math.max(0, target - cum));
             mjs[d] = mj;
@@ -79,6 +96,25 @@ final class QuantileSearch {
             for (int i = 0; i < q; i++) {
                 gn[i][d] = g[base + i * n];
                 yn[i][d] = y[base + i * n];
+            }
+        }
+        // the smallest Bernstein coefficient of the interpolant of g: when positive, the interpolant is
+        // positive on the panel, G increases and its root is unique
+        for (int i = 0; i < q; i++) {
+            java.util.Arrays.fill(tmp, 0, n, 0.0);
+            for (int j = 0; j < q; j++) {
+                double t = bern[i * q + j];
+                double[] gj = gn[j];
+                for (int d = 0; d < n; d++) {
+                    tmp[d] += t * gj[d];
+                }
+            }
+            if (i == 0) {
+                System.arraycopy(tmp, 0, least, 0, n);
+            } else {
+                for (int d = 0; d < n; d++) {
+                    least[d] = Math.min(least[d], tmp[d]);
+                }
             }
         }
         // interpolant of g on the panel: G(u) = h Σ_i g_i ∫_0^u ℓ_i = h Σ_k a_k u^{k+1}
@@ -96,43 +132,37 @@ final class QuantileSearch {
                 ak[d] = hs[d] * ak[d];
             }
         }
-        int live = 0;
+        // Newton on the interpolant from the linear guess, a fixed number of unguarded steps on all
+        // densities at once (each loop unit-stride over them); a density whose last step is not below
+        // the tolerance (or not finite) is searched again with the guarded search of NodeRule
+        double[] val = w.c, der = w.v, step = w.part;
         for (int d = 0; d < n; d++) {
             u[d] = need[d] / mjs[d];
-            left[d] = 0;
-            right[d] = 1;
-            active[d] = !empty[d];
-            live += active[d] ? 1 : 0;
         }
-        for (int it = 0; it < 12 && live > 0; it++) {
-            live = 0;
+        for (int it = 0; it < NEWTON_STEPS; it++) {
+            java.util.Arrays.fill(val, 0, n, 0.0);
+            java.util.Arrays.fill(der, 0, n, 0.0);
+            for (int k = q - 1; k >= 0; k--) {
+                double[] ak = a[k];
+                double kk = k + 1;
+                for (int d = 0; d < n; d++) {
+                    der[d] = der[d] * u[d] + kk * ak[d];
+                }
+                for (int d = 0; d < n; d++) {
+                    val[d] = val[d] * u[d] + ak[d];
+                }
+            }
             for (int d = 0; d < n; d++) {
-                if (!active[d]) {
-                    continue;
-                }
                 double ud = u[d];
-                double val = 0, der = 0;
-                for (int k = q - 1; k >= 0; k--) {
-                    double ak = a[k][d];
-                    val = val * ud + ak;
-                    der = der * ud + (k + 1) * ak;
-                }
-                val *= ud;
-                double f = val - need[d];
-                if (f > 0) {
-                    right[d] = ud;
-                } else {
-                    left[d] = ud;
-                }
-                double nu = der > 0 ? ud - f / der : Double.NaN;
-                nu = nu > left[d] && nu < right[d] ? nu : 0.5 * (left[d] + right[d]);
-                boolean done = Math.abs(nu - ud) <= 1e-7;
+                double nu = ud - (val[d] * ud - need[d]) / der[d];
+                nu = Math.max(0.0, Math.min(1.0, nu));
+                step[d] = Math.abs(nu - ud);
                 u[d] = nu;
-                if (done || right[d] - left[d] <= 1e-7) {
-                    active[d] = false;
-                } else {
-                    live++;
-                }
+            }
+        }
+        for (int d = 0; d < n; d++) {
+            if (!empty[d] && !(step[d] <= TOLERANCE && least[d] > 0)) {
+                u[d] = guarded(d, a, need[d], mjs[d]);
             }
         }
         // one Newton step on the exact partial integral (see NodeRule.quantile)
@@ -162,9 +192,12 @@ final class QuantileSearch {
                     c[d] = c[d] * v[d] + gk[d];
                 }
             }
+            for (int d = 0; d < n; d++) {
+                c[d] = Kernels.expFast(c[d] - shift[d]);
+            }
             double wi = uw[i];
             for (int d = 0; d < n; d++) {
-                part[d] += wi * Kernels.expFast(c[d] - shift[d]);
+                part[d] += wi * c[d];
             }
         }
         for (int d = 0; d < n; d++) {
@@ -177,14 +210,79 @@ final class QuantileSearch {
             }
         }
         for (int d = 0; d < n; d++) {
+            c[d] = Kernels.expFast(c[d] - shift[d]);
+        }
+        for (int d = 0; d < n; d++) {
             double h = hs[d], ud = u[d];
             double f = part[d] * h * ud - need[d];
-            double dens = h * Kernels.expFast(c[d] - shift[d]);
+            double dens = h * c[d];
             double nu = dens > 0 ? ud - f / dens : Double.NaN;
             if (nu >= 0 && nu <= 1) {
                 ud = nu;
             }
             out[d] = empty[d] ? st[d] + 0.5 * h : st[d] + ud * h;
         }
+    }
+
+    /**
+     * Weights from node values to the Bernstein coefficients of their interpolating polynomial of
+     * degree n = q − 1 on [0, 1]: with power coefficients c_m (rows of {@code power}), b_i = Σ_{m ≤ i}
+     * C(i, m)/C(n, m) c_m (Farouki &amp; Rajan (1988), Algorithms for polynomials in Bernstein form,
+     * Comput. Aided Geom. Des. 5 — from memory; the tests check the positivity it certifies).
+     */
+    static double[] bernsteinWeights(double[] power, int q) {
+        int n = q - 1;
+        double[] out = new double[q * q];
+        for (int i = 0; i < q; i++) {
+            for (int m = 0; m <= i; m++) {
+                double f = binomial(i, m) / binomial(n, m);
+                for (int j = 0; j < q; j++) {
+                    out[i * q + j] += f * power[m * q + j];
+                }
+            }
+        }
+        return out;
+    }
+
+    private static double binomial(int a, int b) {
+        double r = 1;
+        for (int i = 1; i <= b; i++) {
+            r = r * (a - b + i) / i;
+        }
+        return r;
+    }
+
+    /**
+     * The guarded search of {@link NodeRule#quantile} for density d: Newton steps on the interpolant
+     * G(u) = Σ_k a_k[d] u^{k+1} = need kept inside a bisection bracket, from the linear guess, until
+     * a step or the bracket is below {@link #TOLERANCE}.
+     */
+    private double guarded(int d, double[][] a, double need, double mj) {
+        int q = rule.q;
+        double u = need / mj;
+        double left = 0, right = 1;
+        for (int it = 0; it < 12; it++) {
+            double val = 0, der = 0;
+            for (int k = q - 1; k >= 0; k--) {
+                double ak = a[k][d];
+                val = val * u + ak;
+                der = der * u + (k + 1) * ak;
+            }
+            val *= u;
+            double f = val - need;
+            if (f > 0) {
+                right = u;
+            } else {
+                left = u;
+            }
+            double nu = der > 0 ? u - f / der : Double.NaN;
+            nu = nu > left && nu < right ? nu : 0.5 * (left + right);
+            boolean done = Math.abs(nu - u) <= TOLERANCE;
+            u = nu;
+            if (done || right - left <= TOLERANCE) {
+                break;
+            }
+        }
+        return u;
     }
 }

@@ -108,8 +108,10 @@ class CellBoundTest {
     }
 
     @Test
-    void interleavedQuantilesEqualTheOneDensitySearch() {
+    void blockQuantilesAgreeWithTheOneDensitySearch() {
         BayesSpace space = BayesSpace.splines(0, Math.log(150), 4, 8);
+        double len = space.upper() - space.lower();
+        double worst = 0;
         Random rnd = new Random(8);
         double[] f = factor(space, rnd);
         int k = space.dimension();
@@ -123,11 +125,60 @@ class CellBoundTest {
         for (double spread : new double[] {0.2, 1, 4}) {
             e.evaluate(location(space, rnd), 0, spread * spread, 0, s);
             for (double p : new double[] {1e-6, 0.05, 0.5, 0.99, 1 - 1e-9}) {
-                s.work.quantiles(p, s.mass, s.total, s.g, s.y, s.shift, n, out);
+                s.work.quantiles(p, s.mass, s.prefix, s.g, s.y, s.shift, n, out);
                 for (int d = 0; d < n; d++) {
                     double one = nr.quantile(p, s.mass, d, n, s.total[d], s.g, s.y, d, s.shift[d], lag);
-                    assertEquals(one, out[d], 0.0, "p " + p + ", draw " + d);
+                    assertEquals(one, out[d], 1e-10 * len, "p " + p + ", draw " + d);
+                    worst = Math.max(worst, Math.abs(one - out[d]) / len);
                 }
+            }
+        }
+        System.out.println("block against one-density quantile search: largest difference " + worst + " of the domain");
+    }
+
+    /**
+     * The Bernstein weights reproduce the interpolating polynomial: Σ_i b_i C(n, i) u^i (1 − u)^{n−i}
+     * equals the Lagrange interpolant of the node values at random points (the Bernstein basis
+     * identity; Farouki &amp; Rajan (1988), Comput. Aided Geom. Des. 5), for the node counts in use.
+     */
+    @Test
+    void bernsteinWeightsReproduceTheInterpolant() {
+        Random rnd = new Random(3);
+        for (BayesSpace space : new BayesSpace[] {BayesSpace.splines(0, 1, 4, 6), BayesSpace.polynomials(0, 1, 5),
+            BayesSpace.splines(0, 1, 6, 4)}) {
+            NodeRule nr = new NodeRule(space, new double[0]);
+            int q = nr.q, n = q - 1;
+            double[] w = QuantileSearch.bernsteinWeights(nr.power, q);
+            for (int rep = 0; rep < 50; rep++) {
+                double[] g = new double[q];
+                for (int i = 0; i < q; i++) {
+                    g[i] = Math.exp(3 * rnd.nextGaussian());
+                }
+                double u = rnd.nextDouble();
+                double lagrange = 0;
+                for (int i = 0; i < q; i++) {
+                    double l = 1;
+                    for (int j = 0; j < q; j++) {
+                        if (j != i) {
+                            l *= (u - nr.un[j]) / (nr.un[i] - nr.un[j]);
+                        }
+                    }
+                    lagrange += g[i] * l;
+                }
+                double bern = 0, scale = 0;
+                for (int i = 0; i <= n; i++) {
+                    double b = 0;
+                    for (int j = 0; j < q; j++) {
+                        b += w[i * q + j] * g[j];
+                    }
+                    double c = 1;
+                    for (int t = 1; t <= i; t++) {
+                        c = c * (n - i + t) / t;
+                    }
+                    bern += b * c * Math.pow(u, i) * Math.pow(1 - u, n - i);
+                    scale = Math.max(scale, g[i]);
+                }
+                assertEquals(lagrange, bern, 1e-10 * scale, space + ", u " + u);
             }
         }
     }
