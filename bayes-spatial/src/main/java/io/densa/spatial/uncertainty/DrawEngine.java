@@ -141,6 +141,7 @@ final class DrawEngine {
         /** values[quantity][column]: quantiles, then exceedances, then the mean. */
         final double[][] values = new double[quantities][cols];
         final double[] sel = new double[draws];
+        final double[] tails = new double[Selection.sampledWork(draws)];
         final QuantileSearch work = new QuantileSearch(rule, width);
         final double[] quantile = new double[width];
         final double[] scaleMax = new double[r];
@@ -573,6 +574,6 @@ final class DrawEngine {
         out[0] = v[draws];
         out[1] = mu;
         out[2] = Math.sqrt(ss / (draws - 1));
-        Selection.centralInterval(s.sel, draws, a, out, 3);
+        Selection.centralInterval(s.sel, draws, a, out, 3, s.tails);
     }
 }

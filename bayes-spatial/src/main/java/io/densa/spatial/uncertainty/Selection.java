@@ -16,7 +16,15 @@ final class Selection {
      * out[off] and out[off + 1]; a is reordered.
      */
     static void centralInterval(double[] a, int n, double alpha, double[] out, int off) {
-        if (smallTails(a, n, alpha, out, off)) {
+        centralInterval(a, n, alpha, out, off, null);
+    }
+
+    /**
+     * {@link #centralInterval(double[], int, double, double[], int)} with work storage for
+     * {@link #sampledTails} (null: allocated when needed).
+     */
+    static void centralInterval(double[] a, int n, double alpha, double[] out, int off, double[] work) {
+        if (sampledTails(a, n, alpha, out, off, work)) {
             return;
         }
         double hl = (n - 1) * alpha;
@@ -35,61 +43,89 @@ final class Selection {
         out[off + 1] = hi + (hh - ih) * (hi1 - hi);
     }
 
-    /** Largest number of order statistics per tail that {@link #smallTails} keeps. */
-    private static final int TAIL_BUFFER = 24;
+    /** Values per sampled value in {@link #sampledTails}, and the least n it is used for. */
+    private static final int SAMPLE_STRIDE = 8;
+    private static final int SAMPLED_MIN = 64;
+
+    /** Length of the work array of {@link #sampledTails} for n values. */
+    static int sampledWork(int n) {
+        return 2 * n + n / SAMPLE_STRIDE;
+    }
 
     /**
-     * {@link #centralInterval} without reordering a, when each tail needs at most
-     * {@link #TAIL_BUFFER} order statistics: one pass keeps the ⌊h⌋ + 2 smallest and the n − ⌊h'⌋
-     * largest values in two sorted buffers (an insertion is rare after the first few values). The
-     * order statistics, and so the results, are those of the selection. Returns false (and does
-     * nothing) when a tail needs more values or a value is NaN.
+     * {@link #centralInterval} without reordering a, by two cut-offs: every eighth value is sorted,
+     * and the values of that sample at ranks where about twice the needed order statistics lie
+     * beyond them become the cut-offs; one branch-free pass copies the values strictly below the
+     * low cut-off and strictly above the high one into two buffers, which are sorted. Every value
+     * not copied lies between the cut-offs, so when each buffer holds at least the order statistics
+     * its tail needs, they are those of the whole array and the results are those of the selection;
+     * otherwise (or for n &lt; 64, a NaN among the values, or work too short) returns false and
+     * does nothing.
      */
-    static boolean smallTails(double[] a, int n, double alpha, double[] out, int off) {
+    static boolean sampledTails(double[] a, int n, double alpha, double[] out, int off, double[] work) {
         double hl = (n - 1) * alpha;
         int il = (int) Math.floor(hl);
         double hh = (n - 1) * (1 - alpha);
         int ih = Math.min(n - 1, (int) Math.floor(hh));
         int nl = Math.min(n, il + 2);
         int nh = n - ih;
-        if (nl > TAIL_BUFFER || nh > TAIL_BUFFER || ih <= il) {
+        int ns = n / SAMPLE_STRIDE;
+        if (n < SAMPLED_MIN || ih <= il) {
             return false;
         }
-        double[] low = new double[nl];
-        double[] high = new double[nh];
-        // low ascending (low[nl-1] the largest kept), high descending (high[nh-1] the smallest kept)
+        double[] w = work != null && work.length >= sampledWork(n) ? work : new double[sampledWork(n)];
+        double sum = 0;
+        for (int i = 0; i < n; i++) {
+            sum += a[i];
+        }
+        if (sum != sum) {
+            return false;
+        }
+        int so = 2 * n;
+        for (int k = 0; k < ns; k++) {
+            w[so + k] = a[k * SAMPLE_STRIDE];
+        }
+        insertionSort(w, so, so + ns);
+        int kl = Math.min(ns - 1, (int) Math.ceil(2.0 * nl * (ns + 1) / n));
+        int kh = Math.max(0, ns - 1 - (int) Math.ceil(2.0 * nh * (ns + 1) / n));
+        double lowCut = w[so + kl], highCut = w[so + kh];
+        // the sign bit of v − cut is 1 exactly when v < cut (finite values; no NaN here)
         int cl = 0, ch = 0;
         for (int i = 0; i < n; i++) {
             double v = a[i];
-            if (v != v) {
-                return false;
-            }
-            if (cl < nl || v < low[nl - 1]) {
-                int p = cl < nl ? cl++ : nl - 1;
-                while (p > 0 && low[p - 1] > v) {
-                    low[p] = low[p - 1];
-                    p--;
-                }
-                low[p] = v;
-            }
-            if (ch < nh || v > high[nh - 1]) {
-                int p = ch < nh ? ch++ : nh - 1;
-                while (p > 0 && high[p - 1] < v) {
-                    high[p] = high[p - 1];
-                    p--;
-                }
-                high[p] = v;
-            }
+            w[cl] = v;
+            cl += (int) (Double.doubleToRawLongBits(v - lowCut) >>> 63);
+            w[n + ch] = v;
+            ch += (int) (Double.doubleToRawLongBits(highCut - v) >>> 63);
         }
-        double lo = low[il];
-        double lo1 = il + 1 < n ? low[il + 1] : lo;
+        if (cl < nl || ch < nh) {
+            return false;
+        }
+        insertionSort(w, 0, cl);
+        insertionSort(w, n, n + ch);
+        double lo = w[il];
+        double lo1 = il + 1 < n ? w[il + 1] : lo;
         out[off] = lo + (hl - il) * (lo1 - lo);
-        // v_(ih) is the (n − 1 − ih)-th largest, v_(ih+1) the one above it
-        double hi = high[n - 1 - ih];
-        double hi1 = ih + 1 < n ? high[n - 2 - ih] : hi;
+        // the buffer holds the ch largest values ascending: v_(ih) is at ch − nh
+        double hi = w[n + ch - nh];
+        double hi1 = ih + 1 < n ? w[n + ch - nh + 1] : hi;
         out[off + 1] = hi + (hh - ih) * (hi1 - hi);
         return true;
     }
+
+    /** Sorts w[from..to) ascending (no NaN; for the few tens of values of {@link #sampledTails}). */
+    private static void insertionSort(double[] w, int from, int to) {
+        for (int i = from + 1; i < to; i++) {
+            double v = w[i];
+            int j = i - 1;
+            while (j >= from && w[j] > v) {
+                w[j + 1] = w[j];
+                j--;
+            }
+            w[j + 1] = v;
+        }
+    }
+
 
     /** The type-7 sample quantile of probability p of a[0..n) (a is reordered). */
     static double quantile(double[] a, int n, double p) {
