@@ -23,7 +23,7 @@ final class QuantileSearch {
     private final boolean[] empty;
 
     /** Unguarded Newton steps on the interpolant before the tolerance is checked. */
-    static final int NEWTON_STEPS = 6;
+    static final int NEWTON_STEPS = 4;
     /** Largest last Newton step (in the panel fraction) accepted without the guarded search. */
     static final double TOLERANCE = 1e-7;
 
@@ -32,6 +32,8 @@ final class QuantileSearch {
      * interpolates the node exponentials, bern[i q + j] the weight of node j in coefficient i.
      */
     private final double[] bern;
+    /** Densities searched again by the guarded search, summed over calls (for the tests). */
+    long fallbacks;
     private final double[] least;
     private final double[] tmp;
 
@@ -61,7 +63,7 @@ final class QuantileSearch {
      * the last row the totals), node exponentials g and node values y at (j·q + i)·n + d, shifts
      * shift[d]) into out[0..n). The same panel, interpolant and final exact Newton step as
      * {@link NodeRule#quantile}; the root of the interpolant is found by {@link #NEWTON_STEPS}
-     * unguarded Newton steps from the linear guess, every loop running over all densities (unit
+     * unguarded Newton steps from an inverse quadratic start, every loop running over all densities (unit
      * stride, so that the JIT vectorises them and the densities' dependency chains overlap). They are
      * kept only where the root is unique (all Bernstein coefficients of the interpolant of the node
      * exponentials positive, so that the interpolant is positive on the panel and G increasing) and
@@ -132,12 +134,22 @@ final class QuantileSearch {
                 ak[d] = hs[d] * ak[d];
             }
         }
-        // Newton on the interpolant from the linear guess, a fixed number of unguarded steps on all
+        // Newton on the interpolant, a fixed number of unguarded steps on all
         // densities at once (each loop unit-stride over them); a density whose last step is not below
         // the tolerance (or not finite) is searched again with the guarded search of NodeRule
         double[] val = w.c, der = w.v, step = w.part;
+        // start: inverse quadratic interpolation through (0, 0), (G(½), ½) and (m_j, 1), kept in [0, 1]
+        java.util.Arrays.fill(val, 0, n, 0.0);
+        for (int k = q - 1; k >= 0; k--) {
+            double[] ak = a[k];
+            for (int d = 0; d < n; d++) {
+                val[d] = val[d] * 0.5 + ak[d];
+            }
+        }
         for (int d = 0; d < n; d++) {
-            u[d] = need[d] / mjs[d];
+            double gh = 0.5 * val[d], m = mjs[d], t = need[d];
+            double guess = t * (0.5 * (t - m) / (gh * (gh - m)) + (t - gh) / (m * (m - gh)));
+            u[d] = Math.max(0.0, Math.min(1.0, guess));
         }
         for (int it = 0; it < NEWTON_STEPS; it++) {
             java.util.Arrays.fill(val, 0, n, 0.0);
@@ -163,6 +175,7 @@ final class QuantileSearch {
         for (int d = 0; d < n; d++) {
             if (!empty[d] && !(step[d] <= TOLERANCE && least[d] > 0)) {
                 u[d] = guarded(d, a, need[d], mjs[d]);
+                fallbacks++;
             }
         }
         // one Newton step on the exact partial integral (see NodeRule.quantile)
