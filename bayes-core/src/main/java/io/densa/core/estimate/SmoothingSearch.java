@@ -123,6 +123,11 @@ final class SmoothingSearch {
                     cBelow = c;
                 }
                 rising++;
+                // a first rise that is already implausible (V at least PLAUSIBLE_RISE above the best)
+                // ends the scan: the second would not add to the plausible range
+                if (rising == 1 && c - bestC >= PLAUSIBLE_RISE) {
+                    rising = 2;
+                }
             }
             prev = c;
         }
