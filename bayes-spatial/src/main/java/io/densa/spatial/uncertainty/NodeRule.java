@@ -362,6 +362,42 @@ final class NodeRule {
         }
     }
 
+    /** Step (in the panel fraction) below which the search for the interpolant's root stops. */
+    static final double ROOT_TOLERANCE = 1e-7;
+
+    /**
+     * The root u ∈ [0, 1] of G(u) = Σ_k a_k u^{k+1} = need (a[0..q), G(1) = mj), by Newton steps
+     * from the linear guess need/mj kept inside a bisection bracket, until a step or the bracket is
+     * below {@link #ROOT_TOLERANCE} (at most 12 steps).
+     */
+    double interpolantRoot(double[] a, double need, double mj) {
+        double u = need / mj;
+        double left = 0, right = 1;
+        for (int it = 0; it < 12; it++) {
+            double val = 0, der = 0;
+            for (int d = q - 1; d >= 0; d--) {
+                val = val * u + a[d];
+                der = der * u + (d + 1) * a[d];
+            }
+            val *= u;
+            double f = val - need;
+            if (f > 0) {
+                right = u;
+            } else {
+                left = u;
+            }
+            double nu = der > 0 ? u - f / der : Double.NaN;
+            nu = nu > left && nu < right ? nu : 0.5 * (left + right);
+            // the exact Newton step of the quantile search squares this error
+            boolean done = Math.abs(nu - u) <= ROOT_TOLERANCE;
+            u = nu;
+            if (done || right - left <= ROOT_TOLERANCE) {
+                break;
+            }
+        }
+        return u;
+    }
+
     /**
      * The quantile of probability p of one density, from its panel masses (mass[j·stride + col],
      * total z), node exponentials g and node values y (both at yOff + i·stride) and shift (the
@@ -392,30 +428,7 @@ final class NodeRule {
             }
             a[d] = h * s;
         }
-        double u = need / mj;
-        double left = 0, right = 1;
-        for (int it = 0; it < 12; it++) {
-            double val = 0, der = 0;
-            for (int d = q - 1; d >= 0; d--) {
-                val = val * u + a[d];
-                der = der * u + (d + 1) * a[d];
-            }
-            val *= u;
-            double f = val - need;
-            if (f > 0) {
-                right = u;
-            } else {
-                left = u;
-            }
-            double nu = der > 0 ? u - f / der : Double.NaN;
-            nu = nu > left && nu < right ? nu : 0.5 * (left + right);
-            // the exact Newton step below squares this error
-            boolean done = Math.abs(nu - u) <= 1e-7;
-            u = nu;
-            if (done || right - left <= 1e-7) {
-                break;
-            }
-        }
+        double u = interpolantRoot(a, need, mj);
         // one Newton step on the exact partial integral ∫_0^u exp(clr) (the clr interpolated exactly,
         // in power form); the interpolant's root is within about 10⁻⁴ of the panel, so the step
         // leaves an error of order its square (measured in the tests)

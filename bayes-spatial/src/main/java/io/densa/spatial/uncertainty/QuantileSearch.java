@@ -25,7 +25,7 @@ final class QuantileSearch {
     /** Unguarded Newton steps on the interpolant before the tolerance is checked. */
     static final int NEWTON_STEPS = 4;
     /** Largest last Newton step (in the panel fraction) accepted without the guarded search. */
-    static final double TOLERANCE = 1e-7;
+    static final double TOLERANCE = NodeRule.ROOT_TOLERANCE;
 
     /**
      * q × q: the Bernstein coefficients (degree q − 1 on the panel) of the polynomial that
@@ -36,6 +36,7 @@ final class QuantileSearch {
     long fallbacks;
     private final double[] least;
     private final double[] tmp;
+    private final double[] root;
 
     QuantileSearch(NodeRule rule, int n) {
         this.rule = rule;
@@ -43,6 +44,7 @@ final class QuantileSearch {
         bern = bernsteinWeights(rule.power, q);
         least = new double[n];
         tmp = new double[n];
+        root = new double[q];
         gn = new double[q][n];
         yn = new double[q][n];
         coef = new double[q][n];
@@ -265,37 +267,12 @@ final class QuantileSearch {
         return r;
     }
 
-    /**
-     * The guarded search of {@link NodeRule#quantile} for density d: Newton steps on the interpolant
-     * G(u) = Σ_k a_k[d] u^{k+1} = need kept inside a bisection bracket, from the linear guess, until
-     * a step or the bracket is below {@link #TOLERANCE}.
-     */
+    /** The guarded search of {@link NodeRule#interpolantRoot} for density d. */
     private double guarded(int d, double[][] a, double need, double mj) {
-        int q = rule.q;
-        double u = need / mj;
-        double left = 0, right = 1;
-        for (int it = 0; it < 12; it++) {
-            double val = 0, der = 0;
-            for (int k = q - 1; k >= 0; k--) {
-                double ak = a[k][d];
-                val = val * u + ak;
-                der = der * u + (k + 1) * ak;
-            }
-            val *= u;
-            double f = val - need;
-            if (f > 0) {
-                right = u;
-            } else {
-                left = u;
-            }
-            double nu = der > 0 ? u - f / der : Double.NaN;
-            nu = nu > left && nu < right ? nu : 0.5 * (left + right);
-            boolean done = Math.abs(nu - u) <= TOLERANCE;
-            u = nu;
-            if (done || right - left <= TOLERANCE) {
-                break;
-            }
+        double[] one = root;
+        for (int k = 0; k < rule.q; k++) {
+            one[k] = a[k][d];
         }
-        return u;
+        return rule.interpolantRoot(one, need, mj);
     }
 }
