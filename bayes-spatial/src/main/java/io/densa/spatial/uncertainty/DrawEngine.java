@@ -19,13 +19,14 @@ import java.util.function.DoubleUnaryOperator;
  * not depend on threads or tiling. One extra column, z = 0, gives the plug-in value at ĉ.
  *
  * <p>The node rule works on all draws of a location at once in a node-major layout (node i, draw
- * d at i·C + d, C = draws + 1), so that the inner loops are unit-stride over the draws. Two
- * shortcuts leave every number unchanged (CellBoundTest): with 4-point panels, one bound per
- * location ({@link CellBound}) shows that no draw's rule error estimate can exceed the tolerance,
- * and then the per-draw estimates are not computed (for the smooth draws of the study-2 space
- * this removed about a third of the work); and quantiles are searched for all draws of a block
- * together ({@link QuantileSearch}), the same operations as one draw at a time but with the
- * draws' dependency chains overlapping.
+ * d at i·C + d, C = draws + 1), so that the inner loops are unit-stride over the draws. With
+ * 4-point panels, one bound per location ({@link CellBound}) shows that no draw's rule error
+ * estimate can exceed the tolerance, and then the per-draw estimates are not computed (every
+ * number unchanged, CellBoundTest; for the smooth draws of the study-2 space this removed about a
+ * third of the work). Quantiles are searched for all draws of a block together
+ * ({@link QuantileSearch}: vectorised Newton steps, the one-draw guarded search where the root is
+ * not certified; the two agree to rounding, CellBoundTest), and the central intervals of the draws
+ * come from sampled cut-offs ({@link Selection}).
  */
 final class DrawEngine {
     /** A draw whose estimated rule error exceeds this share of its mass is evaluated exactly. */
