@@ -82,13 +82,20 @@ final class QuantileSearch {
                 hs = w.h, st = w.start;
         boolean[] empty = w.empty;
         int last = panels * n;
+        int jp = 0;
         for (int d = 0; d < n; d++) {
             double target = p * prefix[last + d];
-            // the prefix sums add the masses in panel order: the same cumulative values as a running sum
-            int j = 0;
+            // the panel: the first j whose cumulative mass prefix[j + 1] reaches the target (the prefix
+            // sums add the masses in panel order, the same values as a running sum), searched up or
+            // down from the previous draw's panel (the cumulative masses never decrease)
+            int j = jp;
             while (j < panels - 1 && prefix[(j + 1) * n + d] < target) {
                 j++;
             }
+            while (j > 0 && prefix[j * n + d] >= target) {
+                j--;
+            }
+            jp = j;
             double cum = prefix[j * n + d];
             double mj = mass[j * n + d];
             need[d] = Math.min(mj, Math.max(0, target - cum));
