@@ -250,7 +250,8 @@ final class QuantileSearch {
      * Weights from node values to the Bernstein coefficients of their interpolating polynomial of
      * degree n = q − 1 on [0, 1]: with power coefficients c_m (rows of {@code power}), b_i = Σ_{m ≤ i}
      * C(i, m)/C(n, m) c_m (Farouki &amp; Rajan (1988), Algorithms for polynomials in Bernstein form,
-     * Comput. Aided Geom. Des. 5 — from memory; the tests check the positivity it certifies).
+     * Comput. Aided Geom. Des. 5 — from memory; CellBoundTest checks that the coefficients reproduce the
+     * interpolant).
      */
     static double[] bernsteinWeights(double[] power, int q) {
         int n = q - 1;

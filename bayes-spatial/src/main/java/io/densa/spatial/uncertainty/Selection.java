@@ -59,8 +59,8 @@ final class Selection {
      * low cut-off and strictly above the high one into two buffers, which are sorted. Every value
      * not copied lies between the cut-offs, so when each buffer holds at least the order statistics
      * its tail needs, they are those of the whole array and the results are those of the selection;
-     * otherwise (or for n &lt; 64, a NaN among the values, or work too short) returns false and
-     * does nothing.
+     * otherwise (or for n &lt; 64, a NaN among the values, or alpha = ½) returns false and does
+     * nothing. work, when null or too short, is allocated.
      */
     static boolean sampledTails(double[] a, int n, double alpha, double[] out, int off, double[] work) {
         double hl = (n - 1) * alpha;
@@ -113,8 +113,15 @@ final class Selection {
         return true;
     }
 
-    /** Sorts w[from..to) ascending (no NaN; for the few tens of values of {@link #sampledTails}). */
+    /**
+     * Sorts w[from..to) ascending (no NaN): by insertion for the few tens of values
+     * {@link #sampledTails} usually has, else by {@link java.util.Arrays#sort(double[], int, int)}.
+     */
     private static void insertionSort(double[] w, int from, int to) {
+        if (to - from > 64) {
+            java.util.Arrays.sort(w, from, to);
+            return;
+        }
         for (int i = from + 1; i < to; i++) {
             double v = w[i];
             int j = i - 1;
