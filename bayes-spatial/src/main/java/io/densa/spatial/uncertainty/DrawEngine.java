@@ -198,7 +198,7 @@ final class DrawEngine {
         int m = nr.m, q = nr.q, np = nr.panels;
         double[] y = s.y, g = s.g, mx = s.shift, mass = s.mass, tot = s.total, err = s.err, rp = s.panelError;
         // node by node in a row indexed from 0, copied into the node-major block; the block's normals
-        // in rows indexed from 0 too, and four of them per pass over the row (same order of operations)
+        // in rows indexed from 0 too
         double[] row = s.row;
         double[][] zb = s.z;
         if (d0 > 0) {
@@ -212,31 +212,7 @@ final class DrawEngine {
             for (int d = 0; d < nc; d++) {
                 row[d] = bi;
             }
-            int l = 0;
-            for (; l + 3 < r; l += 4) {
-                double b0 = bt[l * m + i], b1 = bt[(l + 1) * m + i], b2 = bt[(l + 2) * m + i], b3 = bt[(l + 3) * m + i];
-                double[] z0 = zb[l], z1 = zb[l + 1], z2 = zb[l + 2], z3 = zb[l + 3];
-                for (int d = 0; d < nc; d++) {
-                    row[d] = row[d] + b0 * z0[d] + b1 * z1[d] + b2 * z2[d] + b3 * z3[d];
-                }
-            }
-            if (r - l == 3) {
-                double b0 = bt[l * m + i], b1 = bt[(l + 1) * m + i], b2 = bt[(l + 2) * m + i];
-                double[] z0 = zb[l], z1 = zb[l + 1], z2 = zb[l + 2];
-                for (int d = 0; d < nc; d++) {
-                    row[d] = row[d] + b0 * z0[d] + b1 * z1[d] + b2 * z2[d];
-                }
-                l = r;
-            }
-            if (r - l == 2) {
-                double b0 = bt[l * m + i], b1 = bt[(l + 1) * m + i];
-                double[] z0 = zb[l], z1 = zb[l + 1];
-                for (int d = 0; d < nc; d++) {
-                    row[d] = row[d] + b0 * z0[d] + b1 * z1[d];
-                }
-                l = r;
-            }
-            if (l < r) {
+            for (int l = 0; l < r; l++) {
                 double b = bt[l * m + i];
                 double[] zl = zb[l];
                 for (int d = 0; d < nc; d++) {
