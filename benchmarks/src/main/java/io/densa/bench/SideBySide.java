@@ -50,6 +50,9 @@ import java.util.Map;
  * and sin), so both sides see the same numbers; the CHECK lines must agree (sums over 10⁶ values
  * to about 12 digits, since summation order differs; sin may differ by one ulp).
  *
+ * <p>The peer's Python is {@code --python EXE}, else {@code /usr/bin/python3} when it has numpy and
+ * scipy, else the first {@code python3} on the PATH when that has them.
+ *
  * <p>When the peer's Python and numpy are present the runner alternates peer, Densa, peer, Densa
  * ({@code --rounds} times each) and prints, per workload, the best time of each side and the ratio
  * peer / Densa; otherwise it runs Densa alone and says so. JMH in this module stays the record of
@@ -69,7 +72,7 @@ public final class SideBySide {
     public static void main(String[] args) throws Exception {
         Map<String, Integer> work = new LinkedHashMap<>();
         String peerDir = System.getenv().getOrDefault("DENSA_PEER", "../shared/peer");
-        String python = "/usr/bin/python3";
+        String python = null;
         int rounds = 2;
         boolean usePeer = true;
         for (int i = 0; i < args.length; i++) {
@@ -99,6 +102,10 @@ public final class SideBySide {
             work.put("est", 100_000);
         }
         Path peer = Path.of(peerDir);
+        if (python == null) {
+            // the system interpreter, else the first python3 on the PATH, whichever has numpy and scipy
+            python = numpyPresent("/usr/bin/python3") || !numpyPresent("python3") ? "/usr/bin/python3" : "python3";
+        }
         if (usePeer && !(Files.isRegularFile(peer.resolve("peer_run.py")) && numpyPresent(python))) {
             System.out.println("INFO peer not run: " + peer.resolve("peer_run.py") + " or numpy for " + python
                     + " is missing (install python3-numpy python3-scipy); Densa alone");
