@@ -112,14 +112,7 @@ final class QuantileSearch {
         // the smallest Bernstein coefficient of the interpolant of g: when positive, the interpolant is
         // positive on the panel, G increases and its root is unique
         for (int i = 0; i < q; i++) {
-            java.util.Arrays.fill(tmp, 0, n, 0.0);
-            for (int j = 0; j < q; j++) {
-                double t = bern[i * q + j];
-                double[] gj = gn[j];
-                for (int d = 0; d < n; d++) {
-                    tmp[d] += t * gj[d];
-                }
-            }
+            combine(bern, i * q, 1, gn, q, n, tmp);
             if (i == 0) {
                 System.arraycopy(tmp, 0, least, 0, n);
             } else {
@@ -131,14 +124,7 @@ final class QuantileSearch {
         // interpolant of g on the panel: G(u) = h Σ_i g_i ∫_0^u ℓ_i = h Σ_k a_k u^{k+1}
         for (int k = 0; k < q; k++) {
             double[] ak = a[k];
-            java.util.Arrays.fill(ak, 0, n, 0.0);
-            for (int i = 0; i < q; i++) {
-                double t = anti[i * q + k];
-                double[] gi = gn[i];
-                for (int d = 0; d < n; d++) {
-                    ak[d] += gi[d] * t;
-                }
-            }
+            combine(anti, k, q, gn, q, n, ak);
             for (int d = 0; d < n; d++) {
                 ak[d] = hs[d] * ak[d];
             }
@@ -191,15 +177,7 @@ final class QuantileSearch {
         double[][] gam = a;
         double[] c = w.c, v = w.v, part = w.part;
         for (int k = 0; k < q; k++) {
-            double[] gk = gam[k];
-            java.util.Arrays.fill(gk, 0, n, 0.0);
-            for (int i = 0; i < q; i++) {
-                double t = power[k * q + i];
-                double[] yi = yn[i];
-                for (int d = 0; d < n; d++) {
-                    gk[d] += t * yi[d];
-                }
-            }
+            combine(power, k * q, 1, yn, q, n, gam[k]);
         }
         java.util.Arrays.fill(part, 0, n, 0.0);
         for (int i = 0; i < q; i++) {
@@ -243,6 +221,21 @@ final class QuantileSearch {
                 ud = nu;
             }
             out[d] = empty[d] ? st[d] + 0.5 * h : st[d] + ud * h;
+        }
+    }
+
+    /**
+     * out[0..n) = Σ_{i&lt;q} w[off + i·stride] rows[i][0..n), summed in order of i from 0 (a row of a
+     * q × q weight matrix applied to the q node rows of the densities).
+     */
+    private static void combine(double[] w, int off, int stride, double[][] rows, int q, int n, double[] out) {
+        java.util.Arrays.fill(out, 0, n, 0.0);
+        for (int i = 0; i < q; i++) {
+            double t = w[off + i * stride];
+            double[] ri = rows[i];
+            for (int d = 0; d < n; d++) {
+                out[d] += t * ri[d];
+            }
         }
     }
 
