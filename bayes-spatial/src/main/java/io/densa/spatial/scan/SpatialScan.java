@@ -1,5 +1,6 @@
 package io.densa.spatial.scan;
 
+import io.densa.core.TestResult;
 import io.densa.core.internal.CountSampling;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.Seeds;
@@ -152,7 +153,18 @@ public final class SpatialScan {
      * @param totalExpected sum of the expected counts as given
      */
     public record Result(Cluster mostLikely, double pValue, int replicates, long seed, double maxShare, long zones,
-            long totalObserved, double totalExpected) {
+            long totalObserved, double totalExpected) implements TestResult {
+        /** The test statistic: the most likely cluster's log-likelihood ratio (0 when no zone has raised counts). */
+        @Override
+        public double statistic() {
+            return mostLikely.logLikelihoodRatio();
+        }
+
+        /** "Monte Carlo (B replicates, seed S), upper tail". */
+        @Override
+        public String method() {
+            return "Monte Carlo (" + replicates + " replicates, seed " + seed + "), upper tail";
+        }
     }
 
     /**

@@ -1,5 +1,6 @@
 package io.densa.spatial.uncertainty;
 
+import io.densa.core.TestResult;
 import io.densa.spatial.kriging.FieldSimulator;
 import io.densa.spatial.kriging.Kriging;
 import io.densa.core.internal.RecordArrays;
@@ -52,7 +53,8 @@ import java.util.Objects;
  * @param variogram              the directional empirical trace-variogram of the residuals
  */
 public record AnisotropyTest(double[] directions, double[] relativeSemivariances, double statistic, double pValue,
-        int replicates, double majorDirection, double minorDirection, EmpiricalVariogram variogram) {
+        int replicates, double majorDirection, double minorDirection, EmpiricalVariogram variogram)
+        implements TestResult {
 
     /**
      * Share of the sill that bounds the lags compared: 1 − e⁻¹, the lag of an exponential model's
@@ -81,10 +83,13 @@ public record AnisotropyTest(double[] directions, double[] relativeSemivariances
 
     /** Whether the variogram is anisotropic at level alpha (p ≤ alpha). */
     public boolean anisotropic(double alpha) {
-        if (!(alpha > 0 && alpha < 1)) {
-            throw new IllegalArgumentException("level must be in (0, 1), got " + alpha);
-        }
-        return pValue <= alpha;
+        return significantAt(alpha);
+    }
+
+    /** "Monte Carlo (B simulated fields), upper tail". */
+    @Override
+    public String method() {
+        return "Monte Carlo (" + replicates + " simulated fields), upper tail";
     }
 
     /** Equality by content of every component. */

@@ -1,5 +1,6 @@
 package io.densa.spatial.uncertainty;
 
+import io.densa.core.TestResult;
 import io.densa.spatial.kriging.FieldSimulator;
 import io.densa.spatial.kriging.Kriging;
 import io.densa.core.internal.RecordArrays;
@@ -42,7 +43,7 @@ import java.util.Objects;
  * @param replicates          B
  */
 public record ProportionalityCheck(double[] shares, double[] lags, double[][] ratios, double[] directionStatistics,
-        double statistic, double pValue, int replicates) {
+        double statistic, double pValue, int replicates) implements TestResult {
 
     /** Copies the array components. */
     public ProportionalityCheck {
@@ -78,10 +79,13 @@ public record ProportionalityCheck(double[] shares, double[] lags, double[][] ra
 
     /** Whether the proportional covariance model is rejected at level alpha (p ≤ alpha). */
     public boolean rejects(double alpha) {
-        if (!(alpha > 0 && alpha < 1)) {
-            throw new IllegalArgumentException("level must be in (0, 1), got " + alpha);
-        }
-        return pValue <= alpha;
+        return significantAt(alpha);
+    }
+
+    /** "Monte Carlo (B simulated fields), upper tail". */
+    @Override
+    public String method() {
+        return "Monte Carlo (" + replicates + " simulated fields), upper tail";
     }
 
     /** Equality by content of every component. */

@@ -2,6 +2,7 @@ package io.densa.spatial.scan;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -48,6 +49,13 @@ class SpatialScanTest {
         // 38 of 50 events where 20 are expected: under the null (binomial(50, 0.4) for one fixed zone,
         // P(≥ 38) ≈ 1e-7) no replicate reaches it
         assertEquals(0.001, r.pValue(), 1e-12);
+        // the result is a TestResult: statistic = the cluster's LLR, p ≤ alpha decides
+        assertEquals(c.logLikelihoodRatio(), r.statistic());
+        assertEquals("Monte Carlo (999 replicates, seed 4), upper tail", r.method());
+        assertTrue(r.significantAt(0.001));
+        assertFalse(r.significantAt(0.000999));
+        assertThrows(IllegalArgumentException.class, () -> r.significantAt(0));
+        assertThrows(IllegalArgumentException.class, () -> r.significantAt(Double.NaN));
         assertEquals(kulldorff(20, 10, 50), SpatialScan.llr(20, 10, 50), 1e-12);
         assertEquals(5.232481, SpatialScan.llr(20, 10, 50), 1e-6);
     }

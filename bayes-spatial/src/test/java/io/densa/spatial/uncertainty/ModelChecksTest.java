@@ -54,6 +54,8 @@ class ModelChecksTest {
             ProportionalityCheck pc = PredictiveDistribution.of(kr).checkProportionality(
                     VariogramOptions.withDefaults().withBinCount(8), 2, 39, 700 + s);
             rejected += pc.rejects(0.1) ? 1 : 0;
+            assertEquals(pc.significantAt(0.1), pc.rejects(0.1));
+            assertEquals("Monte Carlo (39 simulated fields), upper tail", pc.method());
         }
         System.out.println("proportionality check under the model: " + rejected + " of " + sets + " rejected at 0.1");
         // Binomial(30, 0.1): P(X >= 9) < 0.002
@@ -105,6 +107,8 @@ class ModelChecksTest {
             Kriging kr = Kriging.ordinary(loc, DensitySet.of(SPACE, c), model, KrigingOptions.withDefaults());
             AnisotropyTest t = AnisotropyTest.of(kr, sectors(), 39, 1400 + s);
             rejected += t.anisotropic(0.1) ? 1 : 0;
+            assertEquals(t.significantAt(0.1), t.anisotropic(0.1));
+            assertEquals("Monte Carlo (39 simulated fields), upper tail", t.method());
         }
         System.out.println("anisotropy test on isotropic fields: " + rejected + " of " + sets + " rejected at 0.1");
         assertTrue(rejected <= 8, "rejected " + rejected + " of " + sets);
