@@ -18,8 +18,10 @@ import java.util.function.DoubleUnaryOperator;
  * ({@link SplittableRandom#nextGaussian()}, draws in order, components in order), so the draws do
  * not depend on threads or tiling. One extra column, z = 0, gives the plug-in value at ĉ.
  *
- * <p>The node rule works on all draws of a location at once in a node-major layout (node i, draw
- * d at i·C + d, C = draws + 1), so that the inner loops are unit-stride over the draws. With
+ * <p>The node rule works on all draws of a location at once, one row per node (draw d at column d
+ * of every row), so that the inner loops are unit-stride over the draws and index their rows from
+ * 0 (which JDK 17 vectorises; copying through such rows from one flat node-major array cost
+ * about 10 % of the work). With
  * 4-point panels, one bound per location ({@link CellBound}) shows that no draw's rule error
  * estimate can exceed the tolerance, and then the per-draw estimates are not computed (every
  * number unchanged, CellBoundTest; for the smooth draws of the study-2 space this removed about a
@@ -117,27 +119,27 @@ final class DrawEngine {
         final double[] base = new double[rule.m];
         /** Scaled normals σ z, one row per direction. */
         final double[][] z = new double[r][cols];
-        /** Row work arrays (length of a block): rows indexed from 0, which JDK 17 vectorises. */
-        final double[] row = new double[width];
-        final double[][] rows = new double[4][width];
         /** The normals of a block that does not start at draw 0, rows indexed from 0. */
         final double[][] zBlock = new double[r][width];
-        final double[] y = new double[rule.m * width];
-        final double[] g = new double[rule.m * width];
+        /**
+         * Node values and node exponentials, one row per node (draws of the block at 0..nc): every
+         * loop over draws indexes its rows from 0, which JDK 17 vectorises.
+         */
+        final double[][] y = new double[rule.m][width];
+        final double[][] g = new double[rule.m][width];
         final double[] shift = new double[width];
-        final double[] mass = new double[rule.panels * width];
+        /** Panel masses, one row per panel. */
+        final double[][] mass = new double[rule.panels][width];
         final double[] total = new double[width];
-        /** Cumulative panel masses, (panels + 1) × block. */
-        final double[] prefix = new double[(rule.panels + 1) * width];
+        /** Cumulative panel masses, rows j = 0..panels. */
+        final double[][] prefix = new double[rule.panels + 1][width];
         final double[] err = new double[width];
-        final double[] panelError = new double[rule.panels * width];
+        final double[][] panelError = new double[rule.panels][width];
         final double[] lag = new double[rule.q];
         final double[] beta = new double[Math.max(1, rule.q - 1) * width];
         final double[] series = new double[(2 * rule.q + 1) * width];
         final double[] hi = new double[width];
-        final double[] panelTop = new double[rule.panels * width];
-        final double[] shiftTmp = new double[width];
-        final double[] errTmp = new double[width];
+        final double[][] panelTop = new double[rule.panels][width];
         final double[] coords = new double[k];
         /** values[quantity][column]: quantiles, then exceedances, then the mean. */
         final double[][] values = new double[quantities][cols];
@@ -196,10 +198,9 @@ final class DrawEngine {
     private void nodeBlock(double[] c, int off, int d0, int nc, double bound, Scratch s) {
         NodeRule nr = rule;
         int m = nr.m, q = nr.q, np = nr.panels;
-        double[] y = s.y, g = s.g, mx = s.shift, mass = s.mass, tot = s.total, err = s.err, rp = s.panelError;
-        // node by node in a row indexed from 0, copied into the node-major block; the block's normals
-        // in rows indexed from 0 too
-        double[] row = s.row;
+        double[][] y = s.y, g = s.g, mass = s.mass, rp = s.panelError;
+        double[] mx = s.shift, tot = s.total, err = s.err;
+        // node by node, the block's normals in rows indexed from 0 too
         double[][] zb = s.z;
         if (d0 > 0) {
             zb = s.zBlock;
@@ -208,17 +209,8 @@ final class DrawEngine {
             }
         }
         for (int i = 0; i < m; i++) {
-            double bi = s.base[i];
-            for (int d = 0; d < nc; d++) {
-                row[d] = bi;
-            }
-            for (int l = 0; l < r; l++) {
-                double b = bt[l * m + i];
-                double[] zl = zb[l];
-                for (int d = 0; d < nc; d++) {
-                    row[d] += b * zl[d];
-                }
-            }
+            double[] row = y[i];
+            nodeRow(s.base[i], i, zb, row, nc);
             if (i == 0) {
                 System.arraycopy(row, 0, mx, 0, nc);
             } else {
@@ -226,11 +218,10 @@ final class DrawEngine {
                     mx[d] = Math.max(mx[d], row[d]);
                 }
             }
-            System.arraycopy(row, 0, y, i * nc, nc);
         }
         boolean check = true;
         if (q == 4) {
-            exponentialsOfFour(y, mx, g, mass, nc, s);
+            exponentialsOfFour(y, mx, g, mass, nc);
             totals(mass, s.prefix, tot, nc);
             double least = Double.POSITIVE_INFINITY;
             for (int d = 0; d < nc; d++) {
@@ -245,22 +236,27 @@ final class DrawEngine {
             }
         } else {
             // per-panel error estimate h C e_{2q}(|β|) exp(c_max − shift) (see NodeRule), vectorised over draws
-            java.util.Arrays.fill(rp, 0, np * nc, 0.0);
+            for (double[] row : rp) {
+                java.util.Arrays.fill(row, 0, nc, 0.0);
+            }
             if (nr.ruleConstant > 0) {
                 panelErrors(y, mx, rp, s, nc);
             }
             for (int i = 0; i < m; i++) {
-                int o = i * nc;
+                double[] yi = y[i], gi = g[i];
                 for (int d = 0; d < nc; d++) {
-                    g[o + d] = Kernels.expFast(y[o + d] - mx[d]);
+                    gi[d] = Kernels.expFast(yi[d] - mx[d]);
                 }
             }
-            java.util.Arrays.fill(mass, 0, np * nc, 0.0);
-            for (int i = 0; i < m; i++) {
-                int o = i * nc, mo = (i / q) * nc;
-                double wi = nr.w[i];
-                for (int d = 0; d < nc; d++) {
-                    mass[mo + d] += wi * g[o + d];
+            for (int j = 0; j < np; j++) {
+                double[] mj = mass[j];
+                java.util.Arrays.fill(mj, 0, nc, 0.0);
+                for (int i = j * q; i < (j + 1) * q; i++) {
+                    double wi = nr.w[i];
+                    double[] gi = g[i];
+                    for (int d = 0; d < nc; d++) {
+                        mj[d] += wi * gi[d];
+                    }
                 }
             }
             totals(mass, s.prefix, tot, nc);
@@ -268,9 +264,9 @@ final class DrawEngine {
         if (check) {
             java.util.Arrays.fill(err, 0, nc, 0.0);
             for (int j = 0; j < np; j++) {
-                int mo = j * nc;
+                double[] rj = rp[j];
                 for (int d = 0; d < nc; d++) {
-                    err[d] += rp[mo + d];
+                    err[d] += rj[d];
                 }
             }
         }
@@ -287,9 +283,9 @@ final class DrawEngine {
             double[] v = s.values[qi];
             java.util.Arrays.fill(v, d0, d0 + nc, 0.0);
             for (int j = nr.tailPanel[t]; j < np; j++) {
-                int mo = j * nc;
+                double[] mj = mass[j];
                 for (int d = 0; d < nc; d++) {
-                    v[d0 + d] += mass[mo + d];
+                    v[d0 + d] += mj[d];
                 }
             }
             for (int d = 0; d < nc; d++) {
@@ -300,10 +296,10 @@ final class DrawEngine {
             double[] v = s.values[qi];
             java.util.Arrays.fill(v, d0, d0 + nc, 0.0);
             for (int i = 0; i < m; i++) {
-                int o = i * nc;
                 double wi = meanWeights[i];
+                double[] gi = g[i];
                 for (int d = 0; d < nc; d++) {
-                    v[d0 + d] += wi * g[o + d];
+                    v[d0 + d] += wi * gi[d];
                 }
             }
             for (int d = 0; d < nc; d++) {
@@ -320,45 +316,77 @@ final class DrawEngine {
     }
 
     /**
-     * The cumulative panel masses, prefix[j·C + d] = Σ_{i&lt;j} mass[i·C + d] summed in panel order
-     * (j = 0..panels), and the totals tot[d] = prefix[panels·C + d].
+     * row[0..nc) = base + Σ_l bt[l·m + i] zb[l][d], added in order of l (the same sums, rounded
+     * the same way, as one pass per direction), with two directions per pass.
      */
-    private void totals(double[] mass, double[] prefix, double[] tot, int nc) {
-        java.util.Arrays.fill(prefix, 0, nc, 0.0);
-        for (int j = 0; j < rule.panels; j++) {
-            int mo = j * nc, po = mo + nc;
+    private void nodeRow(double base, int i, double[][] zb, double[] row, int nc) {
+        int m = rule.m;
+        int l = 0;
+        if (r >= 2) {
+            double b0 = bt[i], b1 = bt[m + i];
+            double[] z0 = zb[0], z1 = zb[1];
             for (int d = 0; d < nc; d++) {
-                prefix[po + d] = prefix[mo + d] + mass[mo + d];
+                row[d] = base + b0 * z0[d] + b1 * z1[d];
+            }
+            l = 2;
+        } else {
+            double b0 = bt[i];
+            double[] z0 = zb[0];
+            for (int d = 0; d < nc; d++) {
+                row[d] = base + b0 * z0[d];
+            }
+            l = 1;
+        }
+        for (; l + 1 < r; l += 2) {
+            double b0 = bt[l * m + i], b1 = bt[(l + 1) * m + i];
+            double[] z0 = zb[l], z1 = zb[l + 1];
+            for (int d = 0; d < nc; d++) {
+                row[d] = row[d] + b0 * z0[d] + b1 * z1[d];
             }
         }
-        System.arraycopy(prefix, rule.panels * nc, tot, 0, nc);
+        if (l < r) {
+            double b0 = bt[l * m + i];
+            double[] z0 = zb[l];
+            for (int d = 0; d < nc; d++) {
+                row[d] = row[d] + b0 * z0[d];
+            }
+        }
+    }
+
+    /**
+     * The cumulative panel masses, prefix[j][d] = Σ_{i&lt;j} mass[i][d] summed in panel order
+     * (j = 0..panels), and the totals tot[d] = prefix[panels][d].
+     */
+    private void totals(double[][] mass, double[][] prefix, double[] tot, int nc) {
+        java.util.Arrays.fill(prefix[0], 0, nc, 0.0);
+        for (int j = 0; j < rule.panels; j++) {
+            double[] pj = prefix[j], mj = mass[j], next = prefix[j + 1];
+            for (int d = 0; d < nc; d++) {
+                next[d] = pj[d] + mj[d];
+            }
+        }
+        System.arraycopy(prefix[rule.panels], 0, tot, 0, nc);
     }
 
     /**
      * 4-point panels: node exponentials exp(y − shift) into g and the panel masses; each loop is
      * short and unit-stride over the draws so that the JIT vectorises it.
      */
-    private void exponentialsOfFour(double[] y, double[] mx, double[] g, double[] mass, int nc, Scratch s) {
+    private void exponentialsOfFour(double[][] y, double[] mx, double[][] g, double[][] mass, int nc) {
         NodeRule nr = rule;
         int np = nr.panels;
-        double[][] rows = s.rows;
-        double[] mrow = s.row;
         for (int j = 0; j < np; j++) {
-            for (int i = 0; i < 4; i++) {
-                double[] t = rows[i];
-                int o = (4 * j + i) * nc;
-                System.arraycopy(y, o, t, 0, nc);
+            for (int i = 4 * j; i < 4 * j + 4; i++) {
+                double[] yi = y[i], gi = g[i];
                 for (int d = 0; d < nc; d++) {
-                    t[d] = Kernels.expFast(t[d] - mx[d]);
+                    gi[d] = Kernels.expFast(yi[d] - mx[d]);
                 }
-                System.arraycopy(t, 0, g, o, nc);
             }
             double w0 = nr.w[4 * j], w1 = nr.w[4 * j + 1], w2 = nr.w[4 * j + 2], w3 = nr.w[4 * j + 3];
-            double[] g0 = rows[0], g1 = rows[1], g2 = rows[2], g3 = rows[3];
+            double[] g0 = g[4 * j], g1 = g[4 * j + 1], g2 = g[4 * j + 2], g3 = g[4 * j + 3], mj = mass[j];
             for (int d = 0; d < nc; d++) {
-                mrow[d] = w0 * g0[d] + w1 * g1[d] + w2 * g2[d] + w3 * g3[d];
+                mj[d] = w0 * g0[d] + w1 * g1[d] + w2 * g2[d] + w3 * g3[d];
             }
-            System.arraycopy(mrow, 0, mass, j * nc, nc);
         }
     }
 
@@ -371,7 +399,7 @@ final class DrawEngine {
      * 4-point panels: the error estimate of {@link #panelErrors} with e_8 in closed form into rp;
      * each loop is short and unit-stride over the draws so that the JIT vectorises it.
      */
-    private void errorsOfFour(double[] y, double[] mx, double[] rp, Scratch s, int nc) {
+    private void errorsOfFour(double[][] y, double[] mx, double[][] rp, Scratch s, int nc) {
         NodeRule nr = rule;
         int np = nr.panels;
         double[] tw = nr.taylor;
@@ -380,52 +408,45 @@ final class DrawEngine {
         double a0 = tw[0], a1 = tw[1], a2 = tw[2], a3 = tw[3];
         double b0 = tw[4], b1 = tw[5], b2 = tw[6], b3 = tw[7];
         double c0 = tw[8], c1 = tw[9], c2 = tw[10], c3 = tw[11];
-        double[] top = s.panelTop;
-        double[] ta = s.beta, tb = s.series, tc = s.hi, tt = s.shiftTmp, te = s.errTmp;
+        double[] ta = s.beta, tb = s.series, tc = s.hi;
         for (int j = 0; j < np; j++) {
-            int o0 = 4 * j * nc, o1 = o0 + nc, o2 = o1 + nc, o3 = o2 + nc, po = j * nc;
+            double[] y0 = y[4 * j], y1 = y[4 * j + 1], y2 = y[4 * j + 2], y3 = y[4 * j + 3], rj = rp[j], tt = s.panelTop[j];
             double cj = nr.ruleConstant * nr.width[j];
             // |β₁|, |β₂|, |β₃| and the largest clr value (nodes and ends), in separate short loops
             for (int d = 0; d < nc; d++) {
-                ta[d] = Math.abs(a0 * y[o0 + d] + a1 * y[o1 + d] + a2 * y[o2 + d] + a3 * y[o3 + d]);
+                ta[d] = Math.abs(a0 * y0[d] + a1 * y1[d] + a2 * y2[d] + a3 * y3[d]);
             }
             for (int d = 0; d < nc; d++) {
-                tb[d] = Math.abs(b0 * y[o0 + d] + b1 * y[o1 + d] + b2 * y[o2 + d] + b3 * y[o3 + d]);
+                tb[d] = Math.abs(b0 * y0[d] + b1 * y1[d] + b2 * y2[d] + b3 * y3[d]);
             }
             for (int d = 0; d < nc; d++) {
-                tc[d] = Math.abs(c0 * y[o0 + d] + c1 * y[o1 + d] + c2 * y[o2 + d] + c3 * y[o3 + d]);
+                tc[d] = Math.abs(c0 * y0[d] + c1 * y1[d] + c2 * y2[d] + c3 * y3[d]);
             }
             // the largest clr value on the panel is at most c(½) + |β₁|/2 + |β₂|/4 + |β₃|/8 (exact for a cubic)
             for (int d = 0; d < nc; d++) {
-                tt[d] = m0 * y[o0 + d] + m1 * y[o1 + d] + m2 * y[o2 + d] + m3 * y[o3 + d] + 0.5 * ta[d] + 0.25 * tb[d]
-                        + 0.125 * tc[d] - mx[d];
+                tt[d] = Math.min(40.0, m0 * y0[d] + m1 * y1[d] + m2 * y2[d] + m3 * y3[d] + 0.5 * ta[d] + 0.25 * tb[d]
+                        + 0.125 * tc[d] - mx[d]);
             }
             // e_8 of exp(a t + b t² + c t³): Σ_{i+2j+3k=8} a^i b^j c^k / (i! j! k!)
             for (int d = 0; d < nc; d++) {
                 double a = ta[d], b = tb[d], c = tc[d];
                 double aa = a * a, a4 = aa * aa, bb = b * b, cc = c * c;
-                te[d] = cj * (a4 * a4 * (1.0 / 40320) + a4 * aa * b * (1.0 / 720) + a4 * bb * (1.0 / 48)
+                rj[d] = cj * (a4 * a4 * (1.0 / 40320) + a4 * aa * b * (1.0 / 720) + a4 * bb * (1.0 / 48)
                         + aa * bb * b * (1.0 / 12) + bb * bb * (1.0 / 24) + a4 * a * c * (1.0 / 120)
                         + aa * a * b * c * (1.0 / 6) + a * bb * c * 0.5 + aa * cc * 0.25 + b * cc * 0.5);
             }
-            System.arraycopy(te, 0, rp, po, nc);
             for (int d = 0; d < nc; d++) {
-                tt[d] = Math.min(40.0, tt[d]);
+                rj[d] *= Kernels.expFast(tt[d]);
             }
-            System.arraycopy(tt, 0, top, po, nc);
-        }
-        int pn = np * nc;
-        for (int k = 0; k < pn; k++) {
-            rp[k] *= Kernels.expFast(top[k]);
         }
     }
 
     /**
-     * Error estimates of every panel and draw into rp (j·C + d). A panel whose clr stays more than
+     * Error estimates of every panel and draw into rp[j][d]. A panel whose clr stays more than
      * 60 below every draw's largest node value (nodes and ends) is skipped: its estimate carries
      * the factor e^−60 ≈ 10⁻²⁶.
      */
-    private void panelErrors(double[] y, double[] mx, double[] rp, Scratch s, int nc) {
+    private void panelErrors(double[][] y, double[] mx, double[][] rp, Scratch s, int nc) {
         NodeRule nr = rule;
         int q = nr.q, np = nr.panels;
         double[] ew = nr.endWeights;
@@ -436,14 +457,14 @@ final class DrawEngine {
         int nb = q - 1;
         int two = 2 * q;
         for (int j = 0; j < np; j++) {
-            int o = j * q * nc, po = j * nc;
-            System.arraycopy(y, o, hi, 0, nc);
+            double[] rj = rp[j];
+            System.arraycopy(y[j * q], 0, hi, 0, nc);
             java.util.Arrays.fill(ser, 0, 2 * nc, 0.0);
             for (int i = 0; i < q; i++) {
-                int yo = o + i * nc;
+                double[] yi = y[j * q + i];
                 double w0 = ew[i], w1 = ew[q + i];
                 for (int d = 0; d < nc; d++) {
-                    double v = y[yo + d];
+                    double v = yi[d];
                     hi[d] = Math.max(hi[d], v);
                     ser[d] += w0 * v;
                     ser[nc + d] += w1 * v;
@@ -459,12 +480,12 @@ final class DrawEngine {
             }
             java.util.Arrays.fill(beta, 0);
             for (int i = 0; i < q; i++) {
-                int yo = o + i * nc;
+                double[] yi = y[j * q + i];
                 for (int mm = 0; mm < nb; mm++) {
                     double t = tw[mm * q + i];
                     int bo = mm * nc;
                     for (int d = 0; d < nc; d++) {
-                        beta[bo + d] += t * y[yo + d];
+                        beta[bo + d] += t * yi[d];
                     }
                 }
             }
@@ -476,7 +497,7 @@ final class DrawEngine {
                     double a2 = a * a, a3 = a2 * a, a4 = a2 * a2, b2 = b * b, c2 = c * c;
                     double e8 = a4 * a4 / 40320 + a4 * a2 * b / 720 + a4 * b2 / 48 + a2 * b2 * b / 12 + b2 * b2 / 24
                             + a4 * a * c / 120 + a3 * b * c / 6 + a * b2 * c / 2 + a2 * c2 / 4 + b * c2 / 2;
-                    rp[po + d] = cj * e8 * Kernels.expFast(Math.min(40.0, hi[d]));
+                    rj[d] = cj * e8 * Kernels.expFast(Math.min(40.0, hi[d]));
                 }
                 continue;
             }
@@ -498,7 +519,7 @@ final class DrawEngine {
             }
             int eo = two * nc;
             for (int d = 0; d < nc; d++) {
-                rp[po + d] = cj * ser[eo + d] * Kernels.expFast(Math.min(40.0, hi[d]));
+                rj[d] = cj * ser[eo + d] * Kernels.expFast(Math.min(40.0, hi[d]));
             }
         }
     }

@@ -60,10 +60,10 @@ final class QuantileSearch {
     }
 
     /**
-     * {@link NodeRule#quantile} of probability p for the n densities of a node-major block (density d at
-     * column d, stride n: panel masses mass[j·n + d], cumulative masses prefix[j·n + d] (j = 0..panels,
-     * the last row the totals), node exponentials g and node values y at (j·q + i)·n + d, shifts
-     * shift[d]) into out[0..n). The same panel, interpolant and final exact Newton step as
+     * {@link NodeRule#quantile} of probability p for the n densities of a block (density d at column d
+     * of every row: panel masses mass[j][d], cumulative masses prefix[j][d] (j = 0..panels, the last
+     * row the totals), node exponentials g and node values y in row j·q + i, shifts shift[d]) into
+     * out[0..n). The same panel, interpolant and final exact Newton step as
      * {@link NodeRule#quantile}; the root of the interpolant is found by {@link #NEWTON_STEPS}
      * unguarded Newton steps from an inverse quadratic start, every loop running over all densities (unit
      * stride, so that the JIT vectorises them and the densities' dependency chains overlap). They are
@@ -73,7 +73,8 @@ final class QuantileSearch {
      * guarded steps of {@link NodeRule#quantile}. Both searches stop within the tolerance of the same
      * root, and the exact step squares what is left, so the two agree to rounding (CellBoundTest).
      */
-    void quantiles(double p, double[] mass, double[] prefix, double[] g, double[] y, double[] shift, int n, double[] out) {
+    void quantiles(double p, double[][] mass, double[][] prefix, double[][] g, double[][] y, double[] shift, int n,
+            double[] out) {
         QuantileSearch w = this;
         int panels = rule.panels, q = rule.q;
         double[] width = rule.width, lo = rule.lo, anti = rule.anti, power = rule.power, un = rule.un, uw = rule.uw;
@@ -81,32 +82,32 @@ final class QuantileSearch {
         double[] u = w.u, need = w.need, mjs = w.mj,
                 hs = w.h, st = w.start;
         boolean[] empty = w.empty;
-        int last = panels * n;
+        double[] totals = prefix[panels];
         int jp = 0;
         for (int d = 0; d < n; d++) {
-            double target = p * prefix[last + d];
+            double target = p * totals[d];
             // the panel: the first j whose cumulative mass prefix[j + 1] reaches the target (the prefix
             // sums add the masses in panel order, the same values as a running sum), searched up or
             // down from the previous draw's panel (the cumulative masses never decrease)
             int j = jp;
-            while (j < panels - 1 && prefix[(j + 1) * n + d] < target) {
+            while (j < panels - 1 && prefix[j + 1][d] < target) {
                 j++;
             }
-            while (j > 0 && prefix[j * n + d] >= target) {
+            while (j > 0 && prefix[j][d] >= target) {
                 j--;
             }
             jp = j;
-            double cum = prefix[j * n + d];
-            double mj = mass[j * n + d];
+            double cum = prefix[j][d];
+            double mj = mass[j][d];
             need[d] = Math.min(mj, Math.max(0, target - cum));
             mjs[d] = mj;
             hs[d] = width[j];
             st[d] = lo[j];
             empty[d] = !(mj > 0);
-            int base = j * q * n + d;
+            int base = j * q;
             for (int i = 0; i < q; i++) {
-                gn[i][d] = g[base + i * n];
-                yn[i][d] = y[base + i * n];
+                gn[i][d] = g[base + i][d];
+                yn[i][d] = y[base + i][d];
             }
         }
         // the smallest Bernstein coefficient of the interpolant of g: when positive, the interpolant is

@@ -132,8 +132,9 @@ class CellBoundTest {
                     typical += n;
                     guarded += s.work.fallbacks - before;
                 }
+                double[] mass = flat(s.mass, n), g = flat(s.g, n), y = flat(s.y, n);
                 for (int d = 0; d < n; d++) {
-                    double one = nr.quantile(p, s.mass, d, n, s.total[d], s.g, s.y, d, s.shift[d], lag);
+                    double one = nr.quantile(p, mass, d, n, s.total[d], g, y, d, s.shift[d], lag);
                     assertEquals(one, out[d], 1e-10 * len, "p " + p + ", draw " + d);
                     worst = Math.max(worst, Math.abs(one - out[d]) / len);
                 }
@@ -143,6 +144,15 @@ class CellBoundTest {
                 + " of the domain; guarded search for " + guarded + " of " + typical + " searches at p in [0.05, 0.99]");
         // the unguarded steps are the fast path: they settle nearly every search of the usual probabilities
         assertTrue(guarded <= 0.02 * typical, guarded + " of " + typical);
+    }
+
+    /** The first n columns of the rows, row after row (the node-major layout of the one-density search). */
+    private static double[] flat(double[][] rows, int n) {
+        double[] out = new double[rows.length * n];
+        for (int i = 0; i < rows.length; i++) {
+            System.arraycopy(rows[i], 0, out, i * n, n);
+        }
+        return out;
     }
 
     /**
