@@ -28,7 +28,7 @@ import java.util.function.DoubleUnaryOperator;
  * third of the work). Quantiles are searched for all draws of a block together
  * ({@link QuantileSearch}: vectorised Newton steps, the one-draw guarded search where the root is
  * not certified; the two agree to rounding, CellBoundTest), and the central intervals of the draws
- * come from sampled cut-offs ({@link Selection}).
+ * come from bucketed order statistics ({@link Selection}).
  */
 final class DrawEngine {
     /** A draw whose estimated rule error exceeds this share of its mass is evaluated exactly. */
@@ -144,7 +144,7 @@ final class DrawEngine {
         /** values[quantity][column]: quantiles, then exceedances, then the mean. */
         final double[][] values = new double[quantities][cols];
         final double[] sel = new double[draws];
-        final double[] tails = new double[Selection.sampledWork(draws)];
+        final double[] tails = new double[Selection.workLength(draws)];
         final QuantileSearch work = new QuantileSearch(rule, width);
         final double[] quantile = new double[width];
         final double[] scaleMax = new double[r];

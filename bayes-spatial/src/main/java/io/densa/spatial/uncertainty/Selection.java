@@ -21,10 +21,10 @@ final class Selection {
 
     /**
      * {@link #centralInterval(double[], int, double, double[], int)} with work storage for
-     * {@link #sampledTails} (null: allocated when needed).
+     * {@link #bucketTails} (null: allocated when needed).
      */
     static void centralInterval(double[] a, int n, double alpha, double[] out, int off, double[] work) {
-        if (sampledTails(a, n, alpha, out, off, work)) {
+        if (bucketTails(a, n, alpha, out, off, work)) {
             return;
         }
         double hl = (n - 1) * alpha;
@@ -43,79 +43,138 @@ final class Selection {
         out[off + 1] = hi + (hh - ih) * (hi1 - hi);
     }
 
-    /** Values per sampled value in {@link #sampledTails}, and the least n it is used for. */
-    private static final int SAMPLE_STRIDE = 8;
-    private static final int SAMPLED_MIN = 64;
+    /** Buckets of {@link #bucketTails}, the least n it is used for, and the count sorted directly. */
+    private static final int BUCKETS = 32;
+    private static final int BUCKETED_MIN = 64;
+    private static final int FEW = 24;
 
-    /** Length of the work array of {@link #sampledTails} for n values. */
-    static int sampledWork(int n) {
-        return 2 * n + n / SAMPLE_STRIDE;
+    /** Length of the work array of {@link #bucketTails} for n values. */
+    static int workLength(int n) {
+        return BUCKETS + 2 * n + 2;
     }
 
     /**
-     * {@link #centralInterval} without reordering a, by two cut-offs: every eighth value is sorted,
-     * and the values of that sample at ranks where about twice the needed order statistics lie
-     * beyond them become the cut-offs; one branch-free pass copies the values strictly below the
-     * low cut-off and strictly above the high one into two buffers, which are sorted. Every value
-     * not copied lies between the cut-offs, so when each buffer holds at least the order statistics
-     * its tail needs, they are those of the whole array and the results are those of the selection;
-     * otherwise (or for n &lt; 64, a NaN among the values, or alpha = ½) returns false and does
-     * nothing. work, when null or too short, is allocated.
+     * {@link #centralInterval} without reordering a, by buckets: the values' range [min, max] is cut
+     * into 32 equal buckets, the values counted per bucket, and only those in the buckets that hold
+     * the needed order statistics (v_(⌊h⌋) and v_(⌊h⌋+1) of each tail) are kept, the rank of the
+     * first kept value known from the counts below it; the kept values are bucketed again over their
+     * own range until at most 24 remain (or all are equal), which are sorted. The bucket of a value,
+     * ⌊(v − min) · 32/(max − min)⌋ capped at 31, never decreases as v grows (each operation is
+     * monotone in floating point), so the kept values are exactly those of the ranks in between and
+     * the results are those of the selection. For the roughly normal values of Monte Carlo draws one
+     * pass leaves a few values per tail, where sorting buffers of about 30 values by insertion spent
+     * most of the time on mispredicted branches. Returns false and does nothing for n &lt; 64, a NaN
+     * among the values, or tails that share their order statistics (alpha near ½). work, when null
+     * or too short, is allocated.
      */
-    static boolean sampledTails(double[] a, int n, double alpha, double[] out, int off, double[] work) {
+    static boolean bucketTails(double[] a, int n, double alpha, double[] out, int off, double[] work) {
         double hl = (n - 1) * alpha;
         int il = (int) Math.floor(hl);
         double hh = (n - 1) * (1 - alpha);
         int ih = Math.min(n - 1, (int) Math.floor(hh));
-        int nl = Math.min(n, il + 2);
-        int nh = n - ih;
-        int ns = n / SAMPLE_STRIDE;
-        if (n < SAMPLED_MIN || ih <= il) {
+        if (n < BUCKETED_MIN || ih <= il + 1) {
             return false;
         }
-        double[] w = work != null && work.length >= sampledWork(n) ? work : new double[sampledWork(n)];
-        double sum = 0;
-        for (int i = 0; i < n; i++) {
-            sum += a[i];
+        double[] w = work != null && work.length >= workLength(n) ? work : new double[workLength(n)];
+        double lo = a[0], hi = a[0];
+        for (int i = 1; i < n; i++) {
+            lo = Math.min(lo, a[i]);
+            hi = Math.max(hi, a[i]);
         }
-        if (sum != sum) {
-            return false;
+        if (!(lo <= hi)) {
+            return false; // a NaN (Math.min and Math.max propagate it)
         }
-        int so = 2 * n;
-        for (int k = 0; k < ns; k++) {
-            w[so + k] = a[k * SAMPLE_STRIDE];
-        }
-        insertionSort(w, so, so + ns);
-        int kl = Math.min(ns - 1, (int) Math.ceil(2.0 * nl * (ns + 1) / n));
-        int kh = Math.max(0, ns - 1 - (int) Math.ceil(2.0 * nh * (ns + 1) / n));
-        double lowCut = w[so + kl], highCut = w[so + kh];
-        // the sign bit of v − cut is 1 exactly when v < cut (finite values; no NaN here)
-        int cl = 0, ch = 0;
-        for (int i = 0; i < n; i++) {
-            double v = a[i];
-            w[cl] = v;
-            cl += (int) (Double.doubleToRawLongBits(v - lowCut) >>> 63);
-            w[n + ch] = v;
-            ch += (int) (Double.doubleToRawLongBits(highCut - v) >>> 63);
-        }
-        if (cl < nl || ch < nh) {
-            return false;
-        }
-        insertionSort(w, 0, cl);
-        insertionSort(w, n, n + ch);
-        double lo = w[il];
-        double lo1 = il + 1 < n ? w[il + 1] : lo;
-        out[off] = lo + (hl - il) * (lo1 - lo);
-        // the buffer holds the ch largest values ascending: v_(ih) is at ch − nh
-        double hi = w[n + ch - nh];
-        double hi1 = ih + 1 < n ? w[n + ch - nh + 1] : hi;
-        out[off + 1] = hi + (hh - ih) * (hi1 - hi);
+        int res = BUCKETS + 2 * n;
+        orderPair(a, n, il, lo, hi, w, res);
+        out[off] = w[res] + (hl - il) * (w[res + 1] - w[res]);
+        orderPair(a, n, ih, lo, hi, w, res);
+        out[off + 1] = w[res] + (hh - ih) * (w[res + 1] - w[res]);
         return true;
     }
 
     /**
-     * Sorts w[from..to) ascending (no NaN): by insertion for the few tens of values
-     * {@link #sampledTails} usually has, else by {@link java.util.Arrays#sort(double[], int, int)}.
+     * v_(r) and v_(min(r + 1, n − 1)) of a[0..n) (no NaN; lo and hi its least and largest value) into
+     * w[res] and w[res + 1], by the buckets of {@link #bucketTails}; a is not modified, w has
+     * {@link #workLength}(n) values (counts, two buffers of n, the result).
+     */
+    private static void orderPair(double[] a, int n, int r, double lo, double hi, double[] w, int res) {
+        double[] src = a;
+        int srcOff = 0, len = n, base = 0, r2 = Math.min(r + 1, n - 1);
+        int buf = BUCKETS;
+        while (true) {
+            double scale = BUCKETS / (hi - lo);
+            if (!(lo < hi)) {
+                w[res] = lo; // every remaining value equals lo
+                w[res + 1] = lo;
+                return;
+            }
+            if (len <= FEW || !(scale < Double.POSITIVE_INFINITY) || !(scale > 0)) {
+                if (src != w || srcOff != buf) {
+                    System.arraycopy(src, srcOff, w, buf, len);
+                }
+                insertionSort(w, buf, buf + len);
+                w[res] = w[buf + r - base];
+                w[res + 1] = w[buf + r2 - base];
+                return;
+            }
+            java.util.Arrays.fill(w, 0, BUCKETS, 0.0);
+            for (int i = srcOff; i < srcOff + len; i++) {
+                w[bucket(src[i], lo, scale)] += 1;
+            }
+            int b1 = -1, b2 = -1, below = 0;
+            double cum = 0;
+            for (int b = 0; b < BUCKETS && b2 < 0; b++) {
+                double next = cum + w[b];
+                if (b1 < 0 && next > r - base) {
+                    b1 = b;
+                    below = (int) cum;
+                }
+                if (next > r2 - base) {
+                    b2 = b;
+                }
+                cum = next;
+            }
+            // keep the values of buckets b1..b2 (branch-free: the sign bit says whether b − b1 or
+            // b2 − b is negative), in the other half of the buffer space
+            int dst = buf == BUCKETS ? BUCKETS + n : BUCKETS;
+            int kept = 0;
+            double klo = Double.POSITIVE_INFINITY, khi = Double.NEGATIVE_INFINITY;
+            for (int i = srcOff; i < srcOff + len; i++) {
+                double v = src[i];
+                int b = bucket(v, lo, scale);
+                w[dst + kept] = v;
+                kept += 1 - (((b - b1) | (b2 - b)) >>> 31);
+            }
+            for (int i = dst; i < dst + kept; i++) {
+                klo = Math.min(klo, w[i]);
+                khi = Math.max(khi, w[i]);
+            }
+            if (kept == len) {
+                // no bucket left out (say all values at the two ends of the range): sort them
+                System.arraycopy(src, srcOff, w, dst, len);
+                java.util.Arrays.sort(w, dst, dst + len);
+                w[res] = w[dst + r - base];
+                w[res + 1] = w[dst + r2 - base];
+                return;
+            }
+            src = w;
+            srcOff = dst;
+            buf = dst;
+            len = kept;
+            base += below;
+            lo = klo;
+            hi = khi;
+        }
+    }
+
+    /** The bucket ⌊(v − lo) · scale⌋, capped at BUCKETS − 1 (v ≥ lo). */
+    private static int bucket(double v, double lo, double scale) {
+        return Math.min(BUCKETS - 1, (int) ((v - lo) * scale));
+    }
+
+    /**
+     * Sorts w[from..to) ascending (no NaN): by insertion for the few values {@link #bucketTails}
+     * usually keeps, else by {@link java.util.Arrays#sort(double[], int, int)}.
      */
     private static void insertionSort(double[] w, int from, int to) {
         if (to - from > 64) {
