@@ -557,16 +557,36 @@ final class DrawEngine {
      */
     void summary(Scratch s, int qi, double level, double[] out) {
         double[] v = s.values[qi];
-        double sum = 0;
-        for (int d = 0; d < draws; d++) {
-            sum += v[d];
+        // four running sums each (draws d ≡ 0, 1, 2, 3 mod 4): one sum's chain of dependent additions
+        // held the loop to the adder's latency
+        double s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+        int d4 = draws & ~3;
+        for (int d = 0; d < d4; d += 4) {
+            s0 += v[d];
+            s1 += v[d + 1];
+            s2 += v[d + 2];
+            s3 += v[d + 3];
         }
-        double mu = sum / draws;
-        double ss = 0;
-        for (int d = 0; d < draws; d++) {
+        for (int d = d4; d < draws; d++) {
+            s0 += v[d];
+        }
+        double mu = ((s0 + s1) + (s2 + s3)) / draws;
+        s0 = 0;
+        s1 = 0;
+        s2 = 0;
+        s3 = 0;
+        for (int d = 0; d < d4; d += 4) {
+            double e0 = v[d] - mu, e1 = v[d + 1] - mu, e2 = v[d + 2] - mu, e3 = v[d + 3] - mu;
+            s0 += e0 * e0;
+            s1 += e1 * e1;
+            s2 += e2 * e2;
+            s3 += e3 * e3;
+        }
+        for (int d = d4; d < draws; d++) {
             double e = v[d] - mu;
-            ss += e * e;
+            s0 += e * e;
         }
+        double ss = (s0 + s1) + (s2 + s3);
         System.arraycopy(v, 0, s.sel, 0, draws);
         double a = 0.5 * (1 - level);
         out[0] = v[draws];
