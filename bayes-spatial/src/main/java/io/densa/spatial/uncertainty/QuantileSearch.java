@@ -75,13 +75,21 @@ final class QuantileSearch {
      */
     void quantiles(double p, double[][] mass, double[][] prefix, double[][] g, double[][] y, double[] shift, int n,
             double[] out) {
-        QuantileSearch w = this;
+        // in four methods, each small enough to compile quickly (and to recompile alone when a rare
+        // branch is first taken)
+        gather(p, mass, prefix, g, y, n);
+        interpolant(n);
+        newton(n);
+        exactStep(shift, n, out);
+    }
+
+    /** Each density's panel, the mass it needs there, and its node exponentials and values. */
+    private void gather(double p, double[][] mass, double[][] prefix, double[][] g, double[][] y, int n) {
         int panels = rule.panels, q = rule.q;
-        double[] width = rule.width, lo = rule.lo, anti = rule.anti, power = rule.power, un = rule.un, uw = rule.uw;
-        double[][] gn = w.gn, yn = w.yn, a = w.coef;
-        double[] u = w.u, need = w.need, mjs = w.mj,
-                hs = w.h, st = w.start;
-        boolean[] empty = w.empty;
+        double[] width = rule.width, lo = rule.lo;
+        double[][] gn = this.gn, yn = this.yn;
+        double[] need = this.need, mjs = this.mj, hs = this.h, st = this.start;
+        boolean[] empty = this.empty;
         double[] totals = prefix[panels];
         int jp = 0;
         for (int d = 0; d < n; d++) {
@@ -110,6 +118,14 @@ final class QuantileSearch {
                 yn[i][d] = y[base + i][d];
             }
         }
+    }
+
+    /** The smallest Bernstein coefficient and the power coefficients of the interpolant. */
+    private void interpolant(int n) {
+        int q = rule.q;
+        double[] anti = rule.anti;
+        double[][] gn = this.gn, a = this.coef;
+        double[] hs = this.h;
         // the smallest Bernstein coefficient of the interpolant of g: when positive, the interpolant is
         // positive on the panel, G increases and its root is unique
         for (int i = 0; i < q; i++) {
@@ -130,6 +146,15 @@ final class QuantileSearch {
                 ak[d] = hs[d] * ak[d];
             }
         }
+    }
+
+    /** The root of the interpolant: the unguarded Newton steps, the guarded search where needed. */
+    private void newton(int n) {
+        QuantileSearch w = this;
+        int q = rule.q;
+        double[][] a = w.coef;
+        double[] u = w.u, need = w.need, mjs = w.mj;
+        boolean[] empty = w.empty;
         // Newton on the interpolant, a fixed number of unguarded steps on all
         // densities at once (each loop unit-stride over them); a density whose last step is not below
         // the tolerance (or not finite) is searched again with the guarded search of NodeRule
@@ -174,8 +199,16 @@ final class QuantileSearch {
                 fallbacks++;
             }
         }
-        // one Newton step on the exact partial integral (see NodeRule.quantile)
-        double[][] gam = a;
+    }
+
+    /** One Newton step on the exact partial integral (see NodeRule.quantile), the quantiles into out. */
+    private void exactStep(double[] shift, int n, double[] out) {
+        QuantileSearch w = this;
+        int q = rule.q;
+        double[] power = rule.power, un = rule.un, uw = rule.uw;
+        double[][] yn = w.yn, gam = w.coef;
+        double[] u = w.u, need = w.need, hs = w.h, st = w.start;
+        boolean[] empty = w.empty;
         double[] c = w.c, v = w.v, part = w.part;
         for (int k = 0; k < q; k++) {
             combine(power, k * q, 1, yn, q, n, gam[k]);
