@@ -196,10 +196,35 @@ final class DrawEngine {
 
     /** Draws d0 .. d0 + nc − 1 of the location (block-local arrays at column d − d0). */
     private void nodeBlock(double[] c, int off, int d0, int nc, double bound, Scratch s) {
-        NodeRule nr = rule;
-        int m = nr.m, q = nr.q, np = nr.panels;
-        double[][] y = s.y, g = s.g, mass = s.mass, rp = s.panelError;
-        double[] mx = s.shift, tot = s.total, err = s.err;
+        // in steps of their own, each method small enough to compile quickly
+        nodeValues(d0, nc, s);
+        boolean check = rule.q == 4 ? panelsOfFour(nc, bound, s) : panels(nc, s);
+        if (check) {
+            double[] err = s.err;
+            java.util.Arrays.fill(err, 0, nc, 0.0);
+            for (int j = 0; j < rule.panels; j++) {
+                double[] rj = s.panelError[j];
+                for (int d = 0; d < nc; d++) {
+                    err[d] += rj[d];
+                }
+            }
+        }
+        quantities(d0, nc, s);
+        if (check) {
+            double[] err = s.err, tot = s.total;
+            for (int d = 0; d < nc; d++) {
+                if (!(err[d] <= RULE_TOLERANCE * tot[d])) {
+                    exactDraw(c, off, d0 + d, s);
+                }
+            }
+        }
+    }
+
+    /** The node values of draws d0 .. d0 + nc − 1 into s.y and their largest into s.shift. */
+    private void nodeValues(int d0, int nc, Scratch s) {
+        int m = rule.m;
+        double[][] y = s.y;
+        double[] mx = s.shift;
         // node by node, the block's normals in rows indexed from 0 too
         double[][] zb = s.z;
         if (d0 > 0) {
@@ -219,57 +244,71 @@ final class DrawEngine {
                 }
             }
         }
-        boolean check = true;
-        if (q == 4) {
-            exponentialsOfFour(y, mx, g, mass, nc);
-            totals(mass, s.prefix, tot, nc);
-            double least = Double.POSITIVE_INFINITY;
-            for (int d = 0; d < nc; d++) {
-                least = Math.min(least, tot[d]);
-            }
-            // every draw's estimate is at most the bound: the per-draw estimates are not needed
-            check = !(bound * (1 + 1e-6) <= RULE_TOLERANCE * least);
-            if (check) {
-                errorsOfFour(y, mx, rp, s, nc);
-            } else {
-                s.bounded += nc;
-            }
-        } else {
-            // per-panel error estimate h C e_{2q}(|β|) exp(c_max − shift) (see NodeRule), vectorised over draws
-            for (double[] row : rp) {
-                java.util.Arrays.fill(row, 0, nc, 0.0);
-            }
-            if (nr.ruleConstant > 0) {
-                panelErrors(y, mx, rp, s, nc);
-            }
-            for (int i = 0; i < m; i++) {
-                double[] yi = y[i], gi = g[i];
-                for (int d = 0; d < nc; d++) {
-                    gi[d] = Kernels.expFast(yi[d] - mx[d]);
-                }
-            }
-            for (int j = 0; j < np; j++) {
-                double[] mj = mass[j];
-                java.util.Arrays.fill(mj, 0, nc, 0.0);
-                for (int i = j * q; i < (j + 1) * q; i++) {
-                    double wi = nr.w[i];
-                    double[] gi = g[i];
-                    for (int d = 0; d < nc; d++) {
-                        mj[d] += wi * gi[d];
-                    }
-                }
-            }
-            totals(mass, s.prefix, tot, nc);
+    }
+
+    /**
+     * 4-point panels: node exponentials, panel masses and totals; the per-draw error estimates into
+     * s.panelError unless the location's bound shows them below the tolerance. Returns whether they
+     * were computed (and must be checked).
+     */
+    private boolean panelsOfFour(int nc, double bound, Scratch s) {
+        double[] tot = s.total;
+        exponentialsOfFour(s.y, s.shift, s.g, s.mass, nc);
+        totals(s.mass, s.prefix, tot, nc);
+        double least = Double.POSITIVE_INFINITY;
+        for (int d = 0; d < nc; d++) {
+            least = Math.min(least, tot[d]);
         }
+        // every draw's estimate is at most the bound: the per-draw estimates are not needed
+        boolean check = !(bound * (1 + 1e-6) <= RULE_TOLERANCE * least);
         if (check) {
-            java.util.Arrays.fill(err, 0, nc, 0.0);
-            for (int j = 0; j < np; j++) {
-                double[] rj = rp[j];
+            errorsOfFour(s.y, s.shift, s.panelError, s, nc);
+        } else {
+            s.bounded += nc;
+        }
+        return check;
+    }
+
+    /** Other rules: error estimates, node exponentials, panel masses and totals; returns true. */
+    private boolean panels(int nc, Scratch s) {
+        NodeRule nr = rule;
+        int m = nr.m, q = nr.q, np = nr.panels;
+        double[][] y = s.y, g = s.g, mass = s.mass, rp = s.panelError;
+        double[] mx = s.shift, tot = s.total;
+        // per-panel error estimate h C e_{2q}(|β|) exp(c_max − shift) (see NodeRule), vectorised over draws
+        for (double[] row : rp) {
+            java.util.Arrays.fill(row, 0, nc, 0.0);
+        }
+        if (nr.ruleConstant > 0) {
+            panelErrors(y, mx, rp, s, nc);
+        }
+        for (int i = 0; i < m; i++) {
+            double[] yi = y[i], gi = g[i];
+            for (int d = 0; d < nc; d++) {
+                gi[d] = Kernels.expFast(yi[d] - mx[d]);
+            }
+        }
+        for (int j = 0; j < np; j++) {
+            double[] mj = mass[j];
+            java.util.Arrays.fill(mj, 0, nc, 0.0);
+            for (int i = j * q; i < (j + 1) * q; i++) {
+                double wi = nr.w[i];
+                double[] gi = g[i];
                 for (int d = 0; d < nc; d++) {
-                    err[d] += rj[d];
+                    mj[d] += wi * gi[d];
                 }
             }
         }
+        totals(mass, s.prefix, tot, nc);
+        return true;
+    }
+
+    /** The quantiles, exceedance probabilities and mean of draws d0 .. d0 + nc − 1 into s.values. */
+    private void quantities(int d0, int nc, Scratch s) {
+        NodeRule nr = rule;
+        int m = nr.m, np = nr.panels;
+        double[][] y = s.y, g = s.g, mass = s.mass;
+        double[] mx = s.shift, tot = s.total;
         int qi = 0;
         for (int p = 0; p < probs.length; p++, qi++) {
             double[] v = s.values[qi];
@@ -304,13 +343,6 @@ final class DrawEngine {
             }
             for (int d = 0; d < nc; d++) {
                 v[d0 + d] /= tot[d];
-            }
-        }
-        if (check) {
-            for (int d = 0; d < nc; d++) {
-                if (!(err[d] <= RULE_TOLERANCE * tot[d])) {
-                    exactDraw(c, off, d0 + d, s);
-                }
             }
         }
     }
