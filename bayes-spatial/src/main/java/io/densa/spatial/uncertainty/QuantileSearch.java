@@ -173,16 +173,20 @@ final class QuantileSearch {
             u[d] = Math.max(0.0, Math.min(1.0, guess));
         }
         for (int it = 0; it < NEWTON_STEPS; it++) {
-            java.util.Arrays.fill(val, 0, n, 0.0);
-            java.util.Arrays.fill(der, 0, n, 0.0);
-            for (int k = q - 1; k >= 0; k--) {
+            // Horner for G(u)/u = Σ a_k u^k and its derivative's Σ (k + 1) a_k u^k, both in each pass
+            double[] top = a[q - 1];
+            double kq = q;
+            for (int d = 0; d < n; d++) {
+                der[d] = kq * top[d];
+                val[d] = top[d];
+            }
+            for (int k = q - 2; k >= 0; k--) {
                 double[] ak = a[k];
                 double kk = k + 1;
                 for (int d = 0; d < n; d++) {
-                    der[d] = der[d] * u[d] + kk * ak[d];
-                }
-                for (int d = 0; d < n; d++) {
-                    val[d] = val[d] * u[d] + ak[d];
+                    double ud = u[d], c = ak[d];
+                    der[d] = der[d] * ud + kk * c;
+                    val[d] = val[d] * ud + c;
                 }
             }
             for (int d = 0; d < n; d++) {
@@ -214,30 +218,27 @@ final class QuantileSearch {
             combine(power, k * q, 1, yn, q, n, gam[k]);
         }
         java.util.Arrays.fill(part, 0, n, 0.0);
+        double[] top = gam[q - 1];
         for (int i = 0; i < q; i++) {
             double ui = un[i];
+            // Horner from the highest coefficient
             for (int d = 0; d < n; d++) {
                 v[d] = u[d] * ui;
-                c[d] = 0;
+                c[d] = top[d];
             }
-            for (int k = q - 1; k >= 0; k--) {
+            for (int k = q - 2; k >= 0; k--) {
                 double[] gk = gam[k];
                 for (int d = 0; d < n; d++) {
                     c[d] = c[d] * v[d] + gk[d];
                 }
             }
-            for (int d = 0; d < n; d++) {
-                c[d] = Kernels.expFast(c[d] - shift[d]);
-            }
             double wi = uw[i];
             for (int d = 0; d < n; d++) {
-                part[d] += wi * c[d];
+                part[d] += wi * Kernels.expFast(c[d] - shift[d]);
             }
         }
-        for (int d = 0; d < n; d++) {
-            c[d] = 0;
-        }
-        for (int k = q - 1; k >= 0; k--) {
+        System.arraycopy(top, 0, c, 0, n);
+        for (int k = q - 2; k >= 0; k--) {
             double[] gk = gam[k];
             for (int d = 0; d < n; d++) {
                 c[d] = c[d] * u[d] + gk[d];
@@ -263,8 +264,12 @@ final class QuantileSearch {
      * q × q weight matrix applied to the q node rows of the densities).
      */
     private static void combine(double[] w, int off, int stride, double[][] rows, int q, int n, double[] out) {
-        java.util.Arrays.fill(out, 0, n, 0.0);
-        for (int i = 0; i < q; i++) {
+        double t0 = w[off];
+        double[] r0 = rows[0];
+        for (int d = 0; d < n; d++) {
+            out[d] = t0 * r0[d];
+        }
+        for (int i = 1; i < q; i++) {
             double t = w[off + i * stride];
             double[] ri = rows[i];
             for (int d = 0; d < n; d++) {
