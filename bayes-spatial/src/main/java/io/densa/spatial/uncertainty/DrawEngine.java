@@ -148,6 +148,9 @@ final class DrawEngine {
         final QuantileSearch work = new QuantileSearch(rule, width);
         final double[] quantile = new double[width];
         final double[] scaleMax = new double[r];
+        /** S_l, the largest |z_l| of a block's draws, and per node Σ_l S_l |bt_li|. */
+        final double[] blockScale = new double[r];
+        final double[] reach = new double[rule.m];
         int exact;
         /** Draws whose block passed the bound of {@link CellBound}, summed over calls (for the tests). */
         long bounded;
@@ -234,13 +237,43 @@ final class DrawEngine {
             }
         }
         for (int i = 0; i < m; i++) {
-            double[] row = y[i];
-            nodeRow(s.base[i], i, zb, row, nc);
-            if (i == 0) {
-                System.arraycopy(row, 0, mx, 0, nc);
-            } else {
-                for (int d = 0; d < nc; d++) {
-                    mx[d] = Math.max(mx[d], row[d]);
+            nodeRow(s.base[i], i, zb, y[i], nc);
+        }
+        // the largest node value of each draw, over the nodes that can hold it: with S_l the largest
+        // |z_l| of the block, node i's values lie within base_i ± Σ_l S_l |bt_li|, so a node whose
+        // upper end is below the largest lower end is never the largest (margin for rounding); max is
+        // exact, so the result is that of all nodes
+        double[] base = s.base, sc = s.blockScale;
+        for (int l = 0; l < r; l++) {
+            double big = 0;
+            double[] zl = zb[l];
+            for (int d = 0; d < nc; d++) {
+                big = Math.max(big, Math.abs(zl[d]));
+            }
+            sc[l] = big;
+        }
+        double floor = Double.NEGATIVE_INFINITY;
+        double[] reach = s.reach;
+        for (int i = 0; i < m; i++) {
+            double e = 0;
+            for (int l = 0; l < r; l++) {
+                e += sc[l] * Math.abs(bt[l * m + i]);
+            }
+            reach[i] = e;
+            floor = Math.max(floor, base[i] - e);
+        }
+        floor -= 1e-9 * (1 + Math.abs(floor));
+        boolean first = true;
+        for (int i = 0; i < m; i++) {
+            if (!(base[i] + reach[i] < floor)) {
+                double[] row = y[i];
+                if (first) {
+                    System.arraycopy(row, 0, mx, 0, nc);
+                    first = false;
+                } else {
+                    for (int d = 0; d < nc; d++) {
+                        mx[d] = Math.max(mx[d], row[d]);
+                    }
                 }
             }
         }

@@ -160,6 +160,32 @@ class CellBoundTest {
      * equals the Lagrange interpolant of the node values at random points (the Bernstein basis
      * identity; Farouki &amp; Rajan (1988), Comput. Aided Geom. Des. 5), for the node counts in use.
      */
+    /**
+     * The shift of each draw (its largest node value, taken over the nodes that can hold it) equals
+     * the largest of all its node values, at small and large kriging variances.
+     */
+    @Test
+    void shiftIsTheLargestNodeValue() {
+        BayesSpace space = BayesSpace.splines(0, Math.log(150), 4, 8);
+        Random rnd = new Random(12);
+        DrawEngine e = new DrawEngine(space, factor(space, rnd), space.dimension(),
+                UncertaintyOptions.withSeed(3).withDraws(150).withQuantiles(0.5));
+        DrawEngine.Scratch s = e.scratch();
+        int n = e.cols;
+        for (double spread : new double[] {0.05, 0.5, 3, 20}) {
+            for (int rep = 0; rep < 5; rep++) {
+                e.evaluate(location(space, rnd), 0, spread * spread, rep, s);
+                for (int d = 0; d < n; d++) {
+                    double big = Double.NEGATIVE_INFINITY;
+                    for (double[] row : s.y) {
+                        big = Math.max(big, row[d]);
+                    }
+                    assertEquals(big, s.shift[d], 0.0, "spread " + spread + ", draw " + d);
+                }
+            }
+        }
+    }
+
     @Test
     void bernsteinWeightsReproduceTheInterpolant() {
         Random rnd = new Random(3);
