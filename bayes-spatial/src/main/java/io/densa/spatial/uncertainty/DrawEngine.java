@@ -34,7 +34,7 @@ final class DrawEngine {
     /** A draw whose estimated rule error exceeds this share of its mass is evaluated exactly. */
     static final double RULE_TOLERANCE = 1e-4;
     /**
-     * Most draws evaluated together (node-major work arrays of m × block values); more draws are
+     * Most draws evaluated together (work rows of this length, one per node and per panel); more draws are
      * evaluated in blocks so that the work arrays stay bounded. With 200 draws one block: blocks
      * of 16 to 64 draws were measured 30–50 % slower (the per-loop overhead outweighs the cache).
      */
