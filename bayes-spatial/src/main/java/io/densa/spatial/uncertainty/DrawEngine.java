@@ -21,8 +21,7 @@ import java.util.function.DoubleUnaryOperator;
  * <p>The node rule works on all draws of a location at once, one row per node (draw d at column d
  * of every row), so that the inner loops are unit-stride over the draws and index their rows from
  * 0 (which JDK 17 vectorises; copying through such rows from one flat node-major array cost
- * about 10 % of the work). With
- * 4-point panels, one bound per location ({@link CellBound}) shows that no draw's rule error
+ * about 10 % of the work). With 4-point panels, one bound per location ({@link CellBound}) shows that no draw's rule error
  * estimate can exceed the tolerance, and then the per-draw estimates are not computed (every
  * number unchanged, CellBoundTest; for the smooth draws of the study-2 space this removed about a
  * third of the work). Quantiles are searched for all draws of a block together
@@ -34,8 +33,8 @@ final class DrawEngine {
     /** A draw whose estimated rule error exceeds this share of its mass is evaluated exactly. */
     static final double RULE_TOLERANCE = 1e-4;
     /**
-     * Most draws evaluated together (work rows of this length, one per node and per panel); more draws are
-     * evaluated in blocks so that the work arrays stay bounded. With 200 draws one block: blocks
+     * Most draws evaluated together (work rows of this length, one per node and per panel); more
+     * draws are evaluated in blocks so that the work arrays stay bounded. With 200 draws one block: blocks
      * of 16 to 64 draws were measured 30–50 % slower (the per-loop overhead outweighs the cache).
      */
     static final int BLOCK = 256;
