@@ -160,8 +160,8 @@ final class QuantileSearch {
         // the tolerance (or not finite) is searched again with the guarded search of NodeRule
         double[] val = w.c, der = w.v, step = w.part;
         // start: inverse quadratic interpolation through (0, 0), (G(½), ½) and (m_j, 1), kept in [0, 1]
-        java.util.Arrays.fill(val, 0, n, 0.0);
-        for (int k = q - 1; k >= 0; k--) {
+        System.arraycopy(a[q - 1], 0, val, 0, n);
+        for (int k = q - 2; k >= 0; k--) {
             double[] ak = a[k];
             for (int d = 0; d < n; d++) {
                 val[d] = val[d] * 0.5 + ak[d];
