@@ -54,7 +54,7 @@ final class CellBound {
 
     /**
      * 4-point panels: an upper bound, valid for every draw d of the location, of the draw's error
-     * estimate Σ_j rp[j·C + d] of {@code DrawEngine.errorsOfFour} relative to the same shift. With s_{ld} = σ
+     * estimate Σ_j rp[j][d] of {@link PanelErrors#four} relative to the same shift. With s_{ld} = σ
      * z_{ld} and S_l = max_d |s_{ld}|, the draw's Taylor coefficients on panel j are β_m(ĉ) + Σ_l
      * s_{ld} β_m(l), so |β_m| ≤ B_m = |β_m(ĉ)| + Σ_l S_l |β_m(l)|; e_8 increases in each |β_m|. Its
      * centre value minus its largest node value is at most the same difference for the node i₀
