@@ -44,6 +44,18 @@ final class CellBound {
         }
     }
 
+    /** out[l] = max_{d &lt; nc} |z[l][d]| for the r rows (0 for nc = 0). */
+    static void largestMagnitudes(double[][] z, int r, int nc, double[] out) {
+        for (int l = 0; l < r; l++) {
+            double big = 0;
+            double[] zl = z[l];
+            for (int d = 0; d < nc; d++) {
+                big = Math.max(big, Math.abs(zl[d]));
+            }
+            out[l] = big;
+        }
+    }
+
     /** e_8 of exp(a t + b t² + c t³) for a, b, c ≥ 0: Σ_{i+2j+3k=8} a^i b^j c^k / (i! j! k!). */
     private static double e8(double a, double b, double c) {
         double aa = a * a, a4 = aa * aa, bb = b * b, cc = c * c;
@@ -72,14 +84,7 @@ final class CellBound {
     double of(double[][] z, int nc, double[] base, double[] sm) {
         NodeRule nr = rule;
         int np = nr.panels, m = nr.m;
-        for (int l = 0; l < r; l++) {
-            double big = 0;
-            double[] zl = z[l];
-            for (int d = 0; d < nc; d++) {
-                big = Math.max(big, Math.abs(zl[d]));
-            }
-            sm[l] = big;
-        }
+        largestMagnitudes(z, r, nc, sm);
         int top = 0;
         for (int i = 1; i < m; i++) {
             if (base[i] > base[top]) {

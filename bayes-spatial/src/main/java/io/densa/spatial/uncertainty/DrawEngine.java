@@ -240,14 +240,7 @@ final class DrawEngine {
         // upper end is below the largest lower end is never the largest (margin for rounding); max is
         // exact, so the result is that of all nodes
         double[] base = s.base, sc = s.blockScale;
-        for (int l = 0; l < r; l++) {
-            double big = 0;
-            double[] zl = zb[l];
-            for (int d = 0; d < nc; d++) {
-                big = Math.max(big, Math.abs(zl[d]));
-            }
-            sc[l] = big;
-        }
+        CellBound.largestMagnitudes(zb, r, nc, sc);
         double floor = Double.NEGATIVE_INFINITY;
         double[] reach = s.reach;
         for (int i = 0; i < m; i++) {
