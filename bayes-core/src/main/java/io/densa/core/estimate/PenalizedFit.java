@@ -508,7 +508,7 @@ final class PenalizedFit {
      * no law on an interval of width W has a larger variance (Popoviciu (1935), Sur les équations algébriques
      * ayant toutes leurs racines réelles, Mathematica (Cluj) 9; from memory, and elementary:
      * Var X ≤ E(X − m)² ≤ (W/2)² for m the interval's midpoint). The bound also stands in where V
-     * is not convex at λ̂. Restores the engine state.
+     * is not convex at λ̂. Restores β (not the evaluation at β, which the caller no longer reads).
      *
      * @return whether the bound, not the local value, gave V_ρ
      */
@@ -526,8 +526,7 @@ final class PenalizedFit {
         double up = search.criterionAt(eng, lambda * Math.pow(10, h), cv);
         eng.setCoefficientsAlong(saved, -dRho, dBeta);
         double down = search.criterionAt(eng, lambda * Math.pow(10, -h), cv);
-        eng.setCoefficients(saved);
-        eng.evaluate(lambda);
+        eng.setCoefficients(saved); // the caller reads only β from here on: no re-evaluation
         double curvG = (up - 2 * crit + down) / (h * h);
         // in decades²: the local value where V is convex at λ̂, within the bound of the plausible range
         double local = curvG > 0 && Double.isFinite(curvG) ? 2 / curvG : Double.POSITIVE_INFINITY;

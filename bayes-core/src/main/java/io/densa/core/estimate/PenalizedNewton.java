@@ -46,6 +46,20 @@ final class PenalizedNewton {
     /** The last Newton factor (lower triangle, K × K) and its log determinant, kept when a fit returns. */
     private final double[] newtonFactor;
     private double newtonLogDet = Double.NaN;
+    /**
+     * Set when {@link #solveForSearch} returned converged and nothing has touched the engine since:
+     * the objective is evaluated at β, {@link #hess} holds the Newton factor at β and {@link #step}
+     * the Newton step, both at {@link #resumeLambda}, with objective {@link #resumeObjective} and
+     * decrement {@link #resumeDecrement}. The next fit then starts without evaluating β again (the
+     * quadrature terms do not depend on λ; only the penalty is recomputed), and a {@link #solve} at
+     * the same λ starts by taking that step instead of recomputing it: the same numbers, one
+     * evaluation (and one derivative pass) fewer. Cleared by every method that changes β, the data,
+     * the evaluation or the matrices.
+     */
+    private boolean resumable;
+    private double resumeLambda;
+    private double resumeObjective;
+    private double resumeDecrement;
 
     PenalizedNewton(BinLayout lay, double[] rawPenalty) {
         this(lay, rawPenalty, null);
@@ -75,6 +89,7 @@ final class PenalizedNewton {
      * histogram heights log((n_j + 1/2)/(h_j p(x_j))) (zero start when no map is set).
      */
     void startFromCounts() {
+        resumable = false;
         double[] counts = lik.counts();
         Arrays.fill(beta, 0.0);
         if (startMap == null || counts == null) {
@@ -163,10 +178,14 @@ final class PenalizedNewton {
     }
 
     private boolean iterate(double lambda, int maxIter, double tol, boolean exact) {
+        boolean resume = exact && resumable && lambda == resumeLambda;
+        boolean evaluated = resumable;
+        resumable = false;
         failure = null;
         iterations = 0;
-        newtonFactored = false;
-        double obj = lik.evaluate(beta, lambda);
+        newtonFactored = resume;
+        double obj = resume ? resumeObjective : evaluated ? lik.objectiveAtLastEvaluation(beta, lambda)
+                : lik.evaluate(beta, lambda);
         if (!(obj > Double.NEGATIVE_INFINITY)) {
             failure = "the starting coefficients give probability 0 to an occupied bin";
             return false;
@@ -176,32 +195,42 @@ final class PenalizedNewton {
         double lastStep = Double.NaN;
         for (int it = 1; it <= maxIter; it++) {
             iterations = it;
-            newtonFactored = false;
-            lik.derivatives(lambda, false, true, beta);
-            if (Cholesky.factor(hess, k, k1, 0) >= 0) {
-                lik.derivatives(lambda, true, true, beta);
+            double dec;
+            if (resume && it == 1) {
+                dec = resumeDecrement; // hess and step as the search's last iteration left them at β
+            } else {
+                newtonFactored = false;
+                lik.derivatives(lambda, false, true, beta);
                 if (Cholesky.factor(hess, k, k1, 0) >= 0) {
-                    failure = "penalised information matrix is singular at iteration " + it
-                            + " (too few occupied bins for K = " + k + " without enough smoothing)";
+                    lik.derivatives(lambda, true, true, beta);
+                    if (Cholesky.factor(hess, k, k1, 0) >= 0) {
+                        failure = "penalised information matrix is singular at iteration " + it
+                                + " (too few occupied bins for K = " + k + " without enough smoothing)";
+                        return false;
+                    }
+                }
+                newtonFactored = true;
+                System.arraycopy(grad, 0, step, 0, k);
+                Cholesky.solve(hess, k, k1, step, 0);
+                dec = 0;
+                for (int i = 0; i < k; i++) {
+                    dec += grad[i] * step[i];
+                }
+                if (!(dec >= 0) || !Double.isFinite(dec)) {
+                    failure = "non-finite Newton step at iteration " + it;
                     return false;
                 }
             }
-            newtonFactored = true;
-            System.arraycopy(grad, 0, step, 0, k);
-            Cholesky.solve(hess, k, k1, step, 0);
-            double dec = 0;
-            for (int i = 0; i < k; i++) {
-                dec += grad[i] * step[i];
-            }
-            if (!(dec >= 0) || !Double.isFinite(dec)) {
-                failure = "non-finite Newton step at iteration " + it;
-                return false;
-            }
             double scale = 1 + Math.abs(obj);
-            double size = coordinateNorm(step) / (1 + coordinateNorm(beta));
+            // the step size enters the exact stopping rule; a search fit needs it for messages only
+            double size = exact || it == maxIter ? coordinateNorm(step) / (1 + coordinateNorm(beta)) : Double.NaN;
             lastDec = dec / scale;
             lastStep = size;
             if (!exact && dec <= tol * scale) {
+                resumable = true;
+                resumeLambda = lambda;
+                resumeObjective = obj;
+                resumeDecrement = dec;
                 return true;
             }
             double t = 1.0;
@@ -229,6 +258,9 @@ final class PenalizedNewton {
                 t *= 0.5;
             }
             if (!accepted) {
+                if (Double.isNaN(lastStep)) {
+                    lastStep = coordinateNorm(step) / (1 + coordinateNorm(beta));
+                }
                 lik.evaluate(beta, lambda);
                 failure = "line search failed at iteration " + it + " (relative Newton decrement " + lastDec
                         + ", relative step " + lastStep + ")";
@@ -253,21 +285,25 @@ final class PenalizedNewton {
      * observed information for samples.
      */
     void fisherInformation() {
+        resumable = false;
         lik.fisherInformation();
     }
 
     /** See {@link NewtonCovariance#sandwich(double, double[], double[])}. */
     double sandwich(double lambda, double[] u, double[] cov) {
+        resumable = false;
         return covariance.sandwich(lambda, u, cov);
     }
 
     /** See {@link NewtonCovariance#sandwich(double, double[], double[], boolean)}. */
     double sandwich(double lambda, double[] u, double[] cov, boolean robust) {
+        resumable = false;
         return covariance.sandwich(lambda, u, cov, robust);
     }
 
     /** See {@link NewtonCovariance#sandwich(double, double[], double[], boolean, double[])}. */
     double sandwich(double lambda, double[] u, double[] cov, boolean robust, double[] extra) {
+        resumable = false;
         return covariance.sandwich(lambda, u, cov, robust, extra);
     }
 
@@ -307,6 +343,7 @@ final class PenalizedNewton {
 
     /** Sets β = from + t · direction (K + 1 values; β_K = 0). */
     void setCoefficientsAlong(double[] from, double t, double[] direction) {
+        resumable = false;
         for (int i = 0; i < k; i++) {
             beta[i] = from[i] + t * direction[i];
         }
@@ -324,26 +361,31 @@ final class PenalizedNewton {
 
     /** Counts mode: the unit's counts (not copied; not modified here) and total N, with Σw² = N and no sample. */
     void useCounts(double[] c, double n) {
+        resumable = false;
         lik.useCounts(c, n);
     }
 
     /** Replaces the counts and the total only (the training part of a fold, or a unit of the smoothing spline). */
     void setCounts(double[] c, double n) {
+        resumable = false;
         lik.setCounts(c, n);
     }
 
     /** Sample mode: the sufficient statistic (K + 1 values, copied), the local basis values and weights, the totals. */
     void useSample(double[] lin, int[] first, double[] vals, double[] weights, int width, double n, double n2) {
+        resumable = false;
         lik.useSample(lin, first, vals, weights, width, n, n2);
     }
 
     /** Replaces the sample statistic (K + 1 values, copied) and the totals (a fold's training part). */
     void setSampleStatistics(double[] lin, double n, double n2) {
+        resumable = false;
         lik.setSampleStatistics(lin, n, n2);
     }
 
     /** Restores counts (may be null), totals and the sample statistic (copied) saved before a cross-validation. */
     void restoreData(double[] c, double n, double n2, double[] lin) {
+        resumable = false;
         lik.restoreData(c, n, n2, lin);
     }
 
@@ -380,11 +422,13 @@ final class PenalizedNewton {
 
     /** Map from raw coefficients to coordinates (c = U β), used by the convergence test; null for none. */
     void setCoordinateMap(double[] u) {
+        resumable = false;
         coordinateMap = u;
     }
 
     /** Optional K × D map from log(n_j + 1/2) to starting coefficients and its constant (both null: zero start). */
     void setStartMap(double[] map, double[] constant) {
+        resumable = false;
         startMap = map;
         startConst = constant;
     }
@@ -399,19 +443,24 @@ final class PenalizedNewton {
         return beta.clone();
     }
 
-    /** Sets the K + 1 coefficients β from src. */
+    /** Sets the K + 1 coefficients β from src (the same values keep the last search fit resumable). */
     void setCoefficients(double[] src) {
+        if (resumable && !Arrays.equals(src, 0, k + 1, beta, 0, k + 1)) {
+            resumable = false;
+        }
         System.arraycopy(src, 0, beta, 0, k + 1);
     }
 
     /** Sets β to K raw coefficients and β_K = 0. */
     void setRawCoefficients(double[] raw) {
+        resumable = false;
         System.arraycopy(raw, 0, beta, 0, k);
         beta[k] = 0;
     }
 
     /** β = 0. */
     void clearCoefficients() {
+        resumable = false;
         Arrays.fill(beta, 0.0);
     }
 
@@ -422,6 +471,7 @@ final class PenalizedNewton {
 
     /** Φ at the current β; see {@link PenalizedObjective#evaluate(double[], double)}. */
     double evaluate(double lambda) {
+        resumable = false;
         return lik.evaluate(beta, lambda);
     }
 

@@ -174,6 +174,15 @@ final class PenalizedObjective {
         return ll - lambda * penalty(b) - priorPenalty(b);
     }
 
+    /**
+     * Φ at b at another λ, when the last {@link #evaluate} was at b for the current data: the value
+     * {@link #evaluate} would return (the same expression), without the quadrature pass.
+     */
+    double objectiveAtLastEvaluation(double[] b, double lambda) {
+        double ll = Double.isNaN(loglik) ? Double.NEGATIVE_INFINITY : loglik;
+        return ll - lambda * penalty(b) - priorPenalty(b);
+    }
+
     /** {@link BinLayout#countsLogLikelihood} of the counts at b (for reporting; {@link #evaluate} is the fast path). */
     double logLikelihoodPerBinShift(double[] b) {
         return lay.countsLogLikelihood(b, counts);
