@@ -55,6 +55,9 @@ final class PenalizedObjective {
     private double zScaled;
     private double shift;
     private double loglik;
+    /** Column ranges of the nonzero entries of each row of the penalty and the prior ({@link #rowSupport}). */
+    private final int[] penRows;
+    private final int[] priorRows;
 
     /** With a fixed quadratic prior term β'Qβ (raw K × K, already weighted; null for none). */
     PenalizedObjective(BinLayout lay, double[] rawPenalty, double[] prior) {
@@ -72,24 +75,47 @@ final class PenalizedObjective {
         mass = new double[lay.bins];
         mvec = new double[k1];
         uj = new double[k1];
+        penRows = rowSupport(rawPenalty, k);
+        priorRows = prior == null ? null : rowSupport(prior, k);
+    }
+
+    /**
+     * For each row i of a K × K matrix, the first and one past the last column of its nonzero
+     * entries ({2i, 2i + 1}): the roughness penalty of B-splines is banded (|i − j| &lt; order), so
+     * its products skip the zeros; the sums are those of the full loops (a zero term adds nothing).
+     */
+    private static int[] rowSupport(double[] m, int k) {
+        int[] r = new int[2 * k];
+        for (int i = 0; i < k; i++) {
+            int lo = 0, hi = k;
+            while (lo < hi && m[i * k + lo] == 0.0) {
+                lo++;
+            }
+            while (hi > lo && m[i * k + hi - 1] == 0.0) {
+                hi--;
+            }
+            r[2 * i] = lo;
+            r[2 * i + 1] = hi;
+        }
+        return r;
     }
 
     /** β'Pβ over the first K coefficients. */
     double penalty(double[] b) {
-        return quadratic(pen, b);
+        return quadratic(pen, penRows, b);
     }
 
     /** β'Qβ of the prior (0 without one). */
     double priorPenalty(double[] b) {
-        return prior == null ? 0.0 : quadratic(prior, b);
+        return prior == null ? 0.0 : quadratic(prior, priorRows, b);
     }
 
-    private double quadratic(double[] m, double[] b) {
+    private double quadratic(double[] m, int[] rows, double[] b) {
         double s = 0;
         for (int i = 0; i < k; i++) {
             double r = 0;
             int o = i * k;
-            for (int j = 0; j < k; j++) {
+            for (int j = rows[2 * i], hi = rows[2 * i + 1]; j < hi; j++) {
                 r += m[o + j] * b[j];
             }
             s += b[i] * r;
@@ -360,20 +386,20 @@ final class PenalizedObjective {
             return;
         }
         if (prior != null) {
-            subtractQuadratic(prior, 1.0, beta);
+            subtractQuadratic(prior, priorRows, 1.0, beta);
         }
         if (lambda != 0.0) {
-            subtractQuadratic(pen, lambda, beta);
+            subtractQuadratic(pen, penRows, lambda, beta);
         }
     }
 
     /** Subtracts the term w β'Mβ from Φ: its gradient 2wMβ from grad, its curvature 2wM added to hess. */
-    private void subtractQuadratic(double[] m, double w, double[] beta) {
+    private void subtractQuadratic(double[] m, int[] rows, double w, double[] beta) {
         for (int i = 0; i < k; i++) {
             double r = 0;
             int o = i * k;
             int row = i * k1;
-            for (int j = 0; j < k; j++) {
+            for (int j = rows[2 * i], hi = rows[2 * i + 1]; j < hi; j++) {
                 double p = m[o + j];
                 r += p * beta[j];
                 hess[row + j] += 2 * w * p;
