@@ -56,7 +56,25 @@ public final class Cholesky {
             d = Math.sqrt(d);
             a[rj + j] = d;
             double inv = 1.0 / d;
-            for (int i = j + 1; i < n; i++) {
+            int i = j + 1;
+            // four rows at a time: four independent sums share the loads of row j (each entry's
+            // terms in the same order as one row at a time, so the factor is the same bit for bit)
+            for (; i + 3 < n; i += 4) {
+                int r0 = i * s, r1 = r0 + s, r2 = r1 + s, r3 = r2 + s;
+                double v0 = a[r0 + j], v1 = a[r1 + j], v2 = a[r2 + j], v3 = a[r3 + j];
+                for (int p = 0; p < j; p++) {
+                    double b = a[rj + p];
+                    v0 -= a[r0 + p] * b;
+                    v1 -= a[r1 + p] * b;
+                    v2 -= a[r2 + p] * b;
+                    v3 -= a[r3 + p] * b;
+                }
+                a[r0 + j] = v0 * inv;
+                a[r1 + j] = v1 * inv;
+                a[r2 + j] = v2 * inv;
+                a[r3 + j] = v3 * inv;
+            }
+            for (; i < n; i++) {
                 int ri = i * s;
                 double v = a[ri + j];
                 for (int p = 0; p < j; p++) {
@@ -102,7 +120,34 @@ public final class Cholesky {
 
     /** Forward substitution L x = b in place, b in x[off..off+n). */
     public static void forward(double[] l, int n, int s, double[] x, int off) {
-        for (int i = 0; i < n; i++) {
+        int i = 0;
+        // four rows at a time: their sums over the unknowns already solved run side by side, then
+        // the four finish in turn (each row's terms in the same order as one row at a time)
+        for (; i + 3 < n; i += 4) {
+            int r0 = i * s, r1 = r0 + s, r2 = r1 + s, r3 = r2 + s;
+            double v0 = x[off + i], v1 = x[off + i + 1], v2 = x[off + i + 2], v3 = x[off + i + 3];
+            for (int p = 0; p < i; p++) {
+                double xp = x[off + p];
+                v0 -= l[r0 + p] * xp;
+                v1 -= l[r1 + p] * xp;
+                v2 -= l[r2 + p] * xp;
+                v3 -= l[r3 + p] * xp;
+            }
+            double x0 = v0 / l[r0 + i];
+            v1 -= l[r1 + i] * x0;
+            v2 -= l[r2 + i] * x0;
+            v3 -= l[r3 + i] * x0;
+            double x1 = v1 / l[r1 + i + 1];
+            v2 -= l[r2 + i + 1] * x1;
+            v3 -= l[r3 + i + 1] * x1;
+            double x2 = v2 / l[r2 + i + 2];
+            v3 -= l[r3 + i + 2] * x2;
+            x[off + i] = x0;
+            x[off + i + 1] = x1;
+            x[off + i + 2] = x2;
+            x[off + i + 3] = v3 / l[r3 + i + 3];
+        }
+        for (; i < n; i++) {
             double v = x[off + i];
             int ri = i * s;
             for (int p = 0; p < i; p++) {
@@ -120,7 +165,34 @@ public final class Cholesky {
      * systems solved once per target (kriging), where that chain's latency dominates.
      */
     public static void backwardByRows(double[] l, int n, int s, double[] x, int off) {
-        for (int i = n - 1; i >= 0; i--) {
+        int i = n - 1;
+        // four rows at a time: the 4 × 4 corner in turn, then each remaining unknown loses the four
+        // multiples in the order one row at a time would subtract them (one load and store for four)
+        for (; i >= 3; i -= 4) {
+            int r0 = i * s, r1 = r0 - s, r2 = r1 - s, r3 = r2 - s;
+            double x0 = x[off + i] / l[r0 + i];
+            double x1 = (x[off + i - 1] - l[r0 + i - 1] * x0) / l[r1 + i - 1];
+            double v2 = x[off + i - 2] - l[r0 + i - 2] * x0;
+            v2 -= l[r1 + i - 2] * x1;
+            double x2 = v2 / l[r2 + i - 2];
+            double v3 = x[off + i - 3] - l[r0 + i - 3] * x0;
+            v3 -= l[r1 + i - 3] * x1;
+            v3 -= l[r2 + i - 3] * x2;
+            double x3 = v3 / l[r3 + i - 3];
+            x[off + i] = x0;
+            x[off + i - 1] = x1;
+            x[off + i - 2] = x2;
+            x[off + i - 3] = x3;
+            for (int p = 0; p < i - 3; p++) {
+                double v = x[off + p];
+                v -= l[r0 + p] * x0;
+                v -= l[r1 + p] * x1;
+                v -= l[r2 + p] * x2;
+                v -= l[r3 + p] * x3;
+                x[off + p] = v;
+            }
+        }
+        for (; i >= 0; i--) {
             int ri = i * s;
             double xi = x[off + i] / l[ri + i];
             x[off + i] = xi;

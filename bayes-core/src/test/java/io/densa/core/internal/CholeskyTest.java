@@ -79,6 +79,43 @@ class CholeskyTest {
         assertEquals(Cholesky.logDeterminant(l, n, n), Cholesky.logDeterminant(strided, n, s), 0.0);
     }
 
+    /**
+     * The substitutions work four rows at a time; each unknown must receive the same terms in
+     * the same order as in the one-row-at-a-time loops written out here, so the results are equal
+     * bit for bit (sizes cover the blocks and every remainder).
+     */
+    @ParameterizedTest
+    @ValueSource(ints = {1, 2, 3, 4, 5, 6, 7, 8, 9, 24, 33, 41})
+    void substitutionsEqualTheRowByRowLoopsBitForBit(int n) {
+        double[] l = spd(n, 70 + n);
+        assertEquals(-1, Cholesky.factor(l, n, n, 0));
+        Random r = new Random(n);
+        double[] b = new double[n + 3];
+        for (int i = 0; i < b.length; i++) {
+            b[i] = r.nextGaussian();
+        }
+        double[] expected = b.clone();
+        for (int i = 0; i < n; i++) { // forward, one row at a time
+            double v = expected[3 + i];
+            for (int p = 0; p < i; p++) {
+                v -= l[i * n + p] * expected[3 + p];
+            }
+            expected[3 + i] = v / l[i * n + i];
+        }
+        double[] x = b.clone();
+        Cholesky.forward(l, n, n, x, 3);
+        assertArrayEquals(expected, x);
+        for (int i = n - 1; i >= 0; i--) { // back substitution by rows, one row at a time
+            double xi = expected[3 + i] / l[i * n + i];
+            expected[3 + i] = xi;
+            for (int p = 0; p < i; p++) {
+                expected[3 + p] -= l[i * n + p] * xi;
+            }
+        }
+        Cholesky.backwardByRows(l, n, n, x, 3);
+        assertArrayEquals(expected, x);
+    }
+
     @ParameterizedTest
     @ValueSource(ints = {1, 2, 3, 7, 16, 41})
     void factorEqualsEjmlInnerCholeskyBitForBit(int n) {
