@@ -99,7 +99,11 @@ final class LocalSystem {
                     "dependent drift function " + dep));
         }
         double[] g = driftRows;
-        Cholesky.forwardRows(l, m, g, p);
+        if (p == 1) {
+            Cholesky.forward(l, m, m, g, 0); // the same operations for one column (finite drift values)
+        } else {
+            Cholesky.forwardRows(l, m, g, p);
+        }
         double[] sInv = new double[p * p];
         if (p > 0) {
             double[] s = new double[p * p];
@@ -349,6 +353,16 @@ final class LocalSystem {
      * Gᵀz − f0 into rr and returns max_j |rr_j| / max(1, |f0_j|).
      */
     private double constraintResidual(double[] z, double[] f0, double[] rr) {
+        if (p == 1) {
+            double r0 = 0;
+            for (int r = 0; r < m; r++) {
+                r0 += g[r] * z[r];
+            }
+            r0 -= f0[0];
+            rr[0] = r0;
+            double worst = Math.max(0, Math.abs(r0) / Math.max(1, Math.abs(f0[0])));
+            return Double.isNaN(worst) ? Double.POSITIVE_INFINITY : worst;
+        }
         java.util.Arrays.fill(rr, 0, p, 0.0);
         for (int r = 0; r < m; r++) {
             double zr = z[r];
@@ -382,30 +396,50 @@ final class LocalSystem {
         if (p > 0) {
             double[] rr = scratch.r;
             double[] mu = scratch.mu;
-            java.util.Arrays.fill(rr, 0, p, 0.0);
-            for (int r = 0; r < m; r++) {
-                double vr = c0[r];
-                for (int j = 0; j < p; j++) {
-                    rr[j] += g[r * p + j] * vr;
+            if (p == 1) {
+                // ordinary kriging: the loops below with their one-column inner loops written out
+                // (the same operations in the same order)
+                double r0 = 0;
+                for (int r = 0; r < m; r++) {
+                    r0 += g[r] * c0[r];
                 }
-            }
-            for (int j = 0; j < p; j++) {
-                rr[j] -= f0[j];
-            }
-            for (int i = 0; i < p; i++) {
+                r0 -= f0[0];
+                rr[0] = r0;
                 double s = 0;
-                for (int j = 0; j < p; j++) {
-                    s += sInv[i * p + j] * rr[j];
+                s += sInv[0] * r0;
+                mu[0] = s;
+                rmu += r0 * s;
+                for (int r = 0; r < m; r++) {
+                    double t = 0;
+                    t += g[r] * s;
+                    c0[r] -= t;
                 }
-                mu[i] = s;
-                rmu += rr[i] * s;
-            }
-            for (int r = 0; r < m; r++) {
-                double s = 0;
-                for (int j = 0; j < p; j++) {
-                    s += g[r * p + j] * mu[j];
+            } else {
+                java.util.Arrays.fill(rr, 0, p, 0.0);
+                for (int r = 0; r < m; r++) {
+                    double vr = c0[r];
+                    for (int j = 0; j < p; j++) {
+                        rr[j] += g[r * p + j] * vr;
+                    }
                 }
-                c0[r] -= s;
+                for (int j = 0; j < p; j++) {
+                    rr[j] -= f0[j];
+                }
+                for (int i = 0; i < p; i++) {
+                    double s = 0;
+                    for (int j = 0; j < p; j++) {
+                        s += sInv[i * p + j] * rr[j];
+                    }
+                    mu[i] = s;
+                    rmu += rr[i] * s;
+                }
+                for (int r = 0; r < m; r++) {
+                    double s = 0;
+                    for (int j = 0; j < p; j++) {
+                        s += g[r * p + j] * mu[j];
+                    }
+                    c0[r] -= s;
+                }
             }
             double res = constraintResidual(c0, f0, rr);
             if (res > CONSTRAINT_TOLERANCE) {
