@@ -344,4 +344,81 @@ final class BinLayout {
         }
         return ll;
     }
+
+    /**
+     * The empirical (model-robust) information of counts at evaluated node weights ex and bin
+     * masses (see {@link PenalizedObjective#empiricalInformation}); uj and mvec are scratch (K + 1).
+     */
+    void empiricalInformation(double[] ex, double[] mass, double[] counts, double total, int k, double[] uj,
+            double[] mvec, double[] meat) {
+        Arrays.fill(meat, 0.0);
+        Arrays.fill(mvec, 0.0);
+        final int w = width;
+        final int[] start = binStart;
+        for (int j = 0; j < bins; j++) {
+            double nj = counts[j];
+            if (!(nj > 0)) {
+                continue;
+            }
+            int lo = binLo[j], hi = Math.min(binHi[j], k);
+            int q0 = start[j], q1 = start[j + 1];
+            if (w == 4 && hi - lo == 4 && q1 > q0 && first[q0] == lo && first[q1 - 1] == lo) {
+                // a bin inside one knot span: the loops below with its four moments in registers
+                // (the same operations in the same order)
+                double u0 = 0.0, u1 = 0.0, u2 = 0.0, u3 = 0.0;
+                for (int q = q0; q < q1; q++) {
+                    double e = ex[q];
+                    int base = q << 2;
+                    u0 += e * vals[base];
+                    u1 += e * vals[base + 1];
+                    u2 += e * vals[base + 2];
+                    u3 += e * vals[base + 3];
+                }
+                double inv = 1.0 / mass[j];
+                u0 *= inv;
+                u1 *= inv;
+                u2 *= inv;
+                u3 *= inv;
+                mvec[lo] += nj * u0;
+                mvec[lo + 1] += nj * u1;
+                mvec[lo + 2] += nj * u2;
+                mvec[lo + 3] += nj * u3;
+                double c0 = nj * u0, c1 = nj * u1, c2 = nj * u2, c3 = nj * u3;
+                int r0 = lo * k + lo, r1 = r0 + k, r2 = r1 + k, r3 = r2 + k;
+                meat[r0] += c0 * u0;
+                meat[r1] += c1 * u0;
+                meat[r1 + 1] += c1 * u1;
+                meat[r2] += c2 * u0;
+                meat[r2 + 1] += c2 * u1;
+                meat[r2 + 2] += c2 * u2;
+                meat[r3] += c3 * u0;
+                meat[r3 + 1] += c3 * u1;
+                meat[r3 + 2] += c3 * u2;
+                meat[r3 + 3] += c3 * u3;
+                continue;
+            }
+            Arrays.fill(uj, lo, hi, 0.0);
+            for (int q = q0; q < q1; q++) {
+                double e = ex[q];
+                int f = first[q], base = q * w;
+                for (int i = 0; i < w && f + i < k; i++) {
+                    uj[f + i] += e * vals[base + i];
+                }
+            }
+            double inv = 1.0 / mass[j];
+            for (int i = lo; i < hi; i++) {
+                uj[i] *= inv;
+                mvec[i] += nj * uj[i];
+            }
+            for (int i = lo; i < hi; i++) {
+                double ui = nj * uj[i];
+                int row = i * k;
+                for (int l = lo; l <= i; l++) {
+                    meat[row + l] += ui * uj[l];
+                }
+            }
+        }
+        EstimationSupport.subtractOuter(meat, k, 1.0 / total, mvec, k);
+        EstimationSupport.mirrorLower(meat, k, k);
+    }
 }

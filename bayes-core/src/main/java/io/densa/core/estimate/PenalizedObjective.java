@@ -1,5 +1,6 @@
 package io.densa.core.estimate;
 
+import io.densa.core.internal.Kernels;
 import java.util.Arrays;
 
 /**
@@ -55,7 +56,7 @@ final class PenalizedObjective {
     private double zScaled;
     private double shift;
     private double loglik;
-    /** Column ranges of the nonzero entries of each row of the penalty and the prior ({@link #rowSupport}). */
+    /** Column ranges of the nonzero entries of each row of the penalty and the prior ({@link Kernels#rowSupport}: the roughness penalty of B-splines is banded). */
     private final int[] penRows;
     private final int[] priorRows;
 
@@ -75,53 +76,21 @@ final class PenalizedObjective {
         mass = new double[lay.bins];
         mvec = new double[k1];
         uj = new double[k1];
-        penRows = rowSupport(rawPenalty, k);
-        priorRows = prior == null ? null : rowSupport(prior, k);
+        penRows = Kernels.rowSupport(rawPenalty, k);
+        priorRows = prior == null ? null : Kernels.rowSupport(prior, k);
     }
 
-    /**
-     * For each row i of a K × K matrix, the first and one past the last column of its nonzero
-     * entries ({2i, 2i + 1}): the roughness penalty of B-splines is banded (|i − j| &lt; order), so
-     * its products skip the zeros; the sums are those of the full loops (a zero term adds nothing).
-     */
-    private static int[] rowSupport(double[] m, int k) {
-        int[] r = new int[2 * k];
-        for (int i = 0; i < k; i++) {
-            int lo = 0, hi = k;
-            while (lo < hi && m[i * k + lo] == 0.0) {
-                lo++;
-            }
-            while (hi > lo && m[i * k + hi - 1] == 0.0) {
-                hi--;
-            }
-            r[2 * i] = lo;
-            r[2 * i + 1] = hi;
-        }
-        return r;
-    }
 
     /** β'Pβ over the first K coefficients. */
     double penalty(double[] b) {
-        return quadratic(pen, penRows, b);
+        return Kernels.quadraticForm(pen, penRows, b, k);
     }
 
     /** β'Qβ of the prior (0 without one). */
     double priorPenalty(double[] b) {
-        return prior == null ? 0.0 : quadratic(prior, priorRows, b);
+        return prior == null ? 0.0 : Kernels.quadraticForm(prior, priorRows, b, k);
     }
 
-    private double quadratic(double[] m, int[] rows, double[] b) {
-        double s = 0;
-        for (int i = 0; i < k; i++) {
-            double r = 0;
-            int o = i * k;
-            for (int j = rows[2 * i], hi = rows[2 * i + 1]; j < hi; j++) {
-                r += m[o + j] * b[j];
-            }
-            s += b[i] * r;
-        }
-        return s;
-    }
 
     /** Evaluates Φ at b, filling eta, ex, mass, zScaled, shift and loglik. */
     double evaluate(double[] b, double lambda) {
@@ -446,77 +415,7 @@ final class PenalizedObjective {
      * penalty gradient). Written into meat (K × K, row-major).
      */
     void empiricalInformation(double[] meat) {
-        Arrays.fill(meat, 0.0);
-        Arrays.fill(mvec, 0.0);
-        final int w = lay.width;
-        final double[] vals = lay.vals;
-        final int[] first = lay.first;
-        final int[] start = lay.binStart;
-        for (int j = 0; j < lay.bins; j++) {
-            double nj = counts[j];
-            if (!(nj > 0)) {
-                continue;
-            }
-            int lo = lay.binLo[j], hi = Math.min(lay.binHi[j], k);
-            int q0 = start[j], q1 = start[j + 1];
-            if (w == 4 && hi - lo == 4 && q1 > q0 && first[q0] == lo && first[q1 - 1] == lo) {
-                // a bin inside one knot span: the loops below with its four moments in registers
-                // (the same operations in the same order)
-                double u0 = 0.0, u1 = 0.0, u2 = 0.0, u3 = 0.0;
-                for (int q = q0; q < q1; q++) {
-                    double e = ex[q];
-                    int base = q << 2;
-                    u0 += e * vals[base];
-                    u1 += e * vals[base + 1];
-                    u2 += e * vals[base + 2];
-                    u3 += e * vals[base + 3];
-                }
-                double inv = 1.0 / mass[j];
-                u0 *= inv;
-                u1 *= inv;
-                u2 *= inv;
-                u3 *= inv;
-                mvec[lo] += nj * u0;
-                mvec[lo + 1] += nj * u1;
-                mvec[lo + 2] += nj * u2;
-                mvec[lo + 3] += nj * u3;
-                double c0 = nj * u0, c1 = nj * u1, c2 = nj * u2, c3 = nj * u3;
-                int r0 = lo * k + lo, r1 = r0 + k, r2 = r1 + k, r3 = r2 + k;
-                meat[r0] += c0 * u0;
-                meat[r1] += c1 * u0;
-                meat[r1 + 1] += c1 * u1;
-                meat[r2] += c2 * u0;
-                meat[r2 + 1] += c2 * u1;
-                meat[r2 + 2] += c2 * u2;
-                meat[r3] += c3 * u0;
-                meat[r3 + 1] += c3 * u1;
-                meat[r3 + 2] += c3 * u2;
-                meat[r3 + 3] += c3 * u3;
-                continue;
-            }
-            Arrays.fill(uj, lo, hi, 0.0);
-            for (int q = q0; q < q1; q++) {
-                double e = ex[q];
-                int f = first[q], base = q * w;
-                for (int i = 0; i < w && f + i < k; i++) {
-                    uj[f + i] += e * vals[base + i];
-                }
-            }
-            double inv = 1.0 / mass[j];
-            for (int i = lo; i < hi; i++) {
-                uj[i] *= inv;
-                mvec[i] += nj * uj[i];
-            }
-            for (int i = lo; i < hi; i++) {
-                double ui = nj * uj[i];
-                int row = i * k;
-                for (int l = lo; l <= i; l++) {
-                    meat[row + l] += ui * uj[l];
-                }
-            }
-        }
-        EstimationSupport.subtractOuter(meat, k, 1.0 / total, mvec, k);
-        EstimationSupport.mirrorLower(meat, k, k);
+        lay.empiricalInformation(ex, mass, counts, total, k, uj, mvec, meat);
     }
 
     /**

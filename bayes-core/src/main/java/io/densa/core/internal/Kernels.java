@@ -290,4 +290,40 @@ public final class Kernels {
         }
         return xs.clone();
     }
+
+    /**
+     * For each row i of a k × k matrix, the first and one past the last column of its nonzero
+     * entries (at {2i, 2i + 1}): for banded matrices such as the roughness penalty of B-splines
+     * (|i − j| &lt; order), whose products can then skip the zeros with the sums of the full loops
+     * (a zero term adds nothing).
+     */
+    public static int[] rowSupport(double[] m, int k) {
+        int[] r = new int[2 * k];
+        for (int i = 0; i < k; i++) {
+            int lo = 0, hi = k;
+            while (lo < hi && m[i * k + lo] == 0.0) {
+                lo++;
+            }
+            while (hi > lo && m[i * k + hi - 1] == 0.0) {
+                hi--;
+            }
+            r[2 * i] = lo;
+            r[2 * i + 1] = hi;
+        }
+        return r;
+    }
+
+    /** bᵀMb over the first k entries of b, row i summed over the columns of {@link #rowSupport}. */
+    public static double quadraticForm(double[] m, int[] rows, double[] b, int k) {
+        double s = 0;
+        for (int i = 0; i < k; i++) {
+            double r = 0;
+            int o = i * k;
+            for (int j = rows[2 * i], hi = rows[2 * i + 1]; j < hi; j++) {
+                r += m[o + j] * b[j];
+            }
+            s += b[i] * r;
+        }
+        return s;
+    }
 }
