@@ -88,6 +88,8 @@ public final class Kriging {
     private final int p;
     private final DriftDesign design;
     private final double[] centre;
+    /** y − centre row by row (y itself when the centre is 0: ordinary and universal kriging). */
+    private final double[] centred;
     private final double[] diagExtra; // in units of 2^unitExponent
     private final double[] diagExtraRaw; // in the data's units
     private final KrigingOptions options;
@@ -140,6 +142,14 @@ public final class Kriging {
             Objects.requireNonNull(mean, "mean");
             space.requireSame(mean.space(), "the mean density");
             System.arraycopy(mean.coordinates(), 0, centre, 0, k);
+            centred = new double[n * k];
+            for (int i = 0; i < n; i++) {
+                for (int c = 0; c < k; c++) {
+                    centred[i * k + c] = y[i * k + c] - centre[c];
+                }
+            }
+        } else {
+            centred = y; // y − 0 = y, bit for bit
         }
         this.index = NeighbourIndex.of(loc);
         this.allStations = new int[n];
@@ -317,10 +327,7 @@ public final class Kriging {
         }
         double[] ly = new double[m * k];
         for (int r = 0; r < m; r++) {
-            int o = idx[r] * k;
-            for (int c = 0; c < k; c++) {
-                ly[r * k + c] = y[o + c] - centre[c];
-            }
+            System.arraycopy(centred, idx[r] * k, ly, r * k, k);
         }
         return LocalSystem.factor(idx, a, f, ly, p, k, options.conditionLimit(), dep -> design.dependentMessage(dep, m));
     }
