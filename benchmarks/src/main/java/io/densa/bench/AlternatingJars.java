@@ -22,7 +22,7 @@ import java.util.Locale;
  *
  * <pre>
  * java [--add-modules jdk.incubator.vector] -cp NEW.jar io.densa.bench.AlternatingJars OLD.jar NEW.jar \
- *      UNITS fixed|chosen|fixed:chosen|intervals|intervals-parallel ROUNDS
+ *      UNITS fixed|chosen|fixed:chosen|intervals|intervals-parallel|grid ROUNDS
  * </pre>
  *
  * With {@code fixed:chosen} (the same jar twice) A runs λ fixed and B λ chosen: the cost of the
@@ -37,10 +37,42 @@ import java.util.Locale;
  *
  * <p>With {@code intervals} the workload is instead {@link UncertaintyBenchmark#intervals} on a UNITS ×
  * UNITS grid, its tiles computed serially (so that the thread's CPU time is the whole work); with
- * {@code intervals-parallel} in parallel, timed by the wall clock.
+ * {@code intervals-parallel} in parallel, timed by the wall clock. With {@code grid} it is the
+ * side-by-side grid kriging ({@link SideBySide#gridKriging}: 2,000 stations, K = 32, 32 nearest,
+ * prediction + variance) on a UNITS × UNITS grid of the unit square, tiles computed serially; the
+ * checksum is the sum of the predicted coordinates and variances. (Its workload class is new, so a
+ * build older than it runs it from this jar against its own library classes.)
  */
 public final class AlternatingJars {
     private AlternatingJars() {
+    }
+
+    /** The grid workload (loaded once per class loader; see the class documentation). */
+    public static final class GridWorkload {
+        private final io.densa.spatial.kriging.Kriging kriging;
+        private final int side;
+
+        public GridWorkload(int side) {
+            this.side = side;
+            this.kriging = SideBySide.gridKriging(SideBySide.gridStations());
+        }
+
+        /** {CPU seconds, checksum}. */
+        public double[] run() {
+            ThreadMXBean mx = ManagementFactory.getThreadMXBean();
+            long t0 = mx.getCurrentThreadCpuTime();
+            double[] sum = new double[1];
+            kriging.predictGrid(io.densa.spatial.kriging.Grid.over(0, 0, 1, 1, side, side),
+                    io.densa.spatial.kriging.GridOptions.withDefaults().withParallel(false), t -> {
+                        for (int q = 0; q < t.size(); q++) {
+                            for (int j = 0; j < t.predictions().dimension(); j++) {
+                                sum[0] += t.predictions().coordinate(q, j);
+                            }
+                            sum[0] += t.variances()[q];
+                        }
+                    });
+            return new double[] {(mx.getCurrentThreadCpuTime() - t0) / 1e9, sum[0]};
+        }
     }
 
     /** One build's workload (loaded once per class loader). */
@@ -106,9 +138,9 @@ public final class AlternatingJars {
         String[] modes = args.length == 5 && "fixed:chosen".equals(args[3]) ? new String[] {"fixed", "chosen"}
                 : args.length == 5 ? new String[] {args[3], args[3]} : null;
         if (modes == null || !("fixed".equals(modes[0]) || "chosen".equals(modes[0])
-                || "intervals".equals(modes[0]) || "intervals-parallel".equals(modes[0]))) {
+                || "intervals".equals(modes[0]) || "intervals-parallel".equals(modes[0]) || "grid".equals(modes[0]))) {
             System.err.println("usage: AlternatingJars OLD.jar NEW.jar UNITS fixed|chosen|fixed:chosen|intervals"
-                    + "|intervals-parallel ROUNDS");
+                    + "|intervals-parallel|grid ROUNDS");
             System.exit(2);
         }
         int units = Integer.parseInt(args[2]);
@@ -120,6 +152,12 @@ public final class AlternatingJars {
             // the build's own classes first; this class's workload from the running jar when the build lacks it
             URLClassLoader cl = new URLClassLoader(new URL[] {Path.of(args[i]).toUri().toURL(), self},
                     ClassLoader.getPlatformClassLoader());
+            if ("grid".equals(modes[i])) {
+                Class<?> c = cl.loadClass(GridWorkload.class.getName());
+                work[i] = c.getConstructor(int.class).newInstance(units);
+                run[i] = c.getMethod("run");
+                continue;
+            }
             Class<?> c = cl.loadClass(Workload.class.getName());
             work[i] = c.getConstructor(int.class, String.class).newInstance(units, modes[i]);
             run[i] = c.getMethod("run");
