@@ -227,23 +227,23 @@ final class PenalizedObjective {
                     double e = ex[q];
                     int base = q << 2;
                     double v0 = vals[base], v1 = vals[base + 1], v2 = vals[base + 2], v3 = vals[base + 3];
-                    u0 += e * v0;
-                    u1 += e * v1;
-                    u2 += e * v2;
-                    u3 += e * v3;
+                    u0 = Math.fma(e, v0, u0);
+                    u1 = Math.fma(e, v1, u1);
+                    u2 = Math.fma(e, v2, u2);
+                    u3 = Math.fma(e, v3, u3);
                     if (sTerm) {
                         double m0 = -e * coefR * v0, m1 = -e * coefR * v1, m2 = -e * coefR * v2;
                         double m3 = -e * coefR * v3;
-                        h00 += m0 * v0;
-                        h10 += m1 * v0;
-                        h11 += m1 * v1;
-                        h20 += m2 * v0;
-                        h21 += m2 * v1;
-                        h22 += m2 * v2;
-                        h30 += m3 * v0;
-                        h31 += m3 * v1;
-                        h32 += m3 * v2;
-                        h33 += m3 * v3;
+                        h00 = Math.fma(m0, v0, h00);
+                        h10 = Math.fma(m1, v0, h10);
+                        h11 = Math.fma(m1, v1, h11);
+                        h20 = Math.fma(m2, v0, h20);
+                        h21 = Math.fma(m2, v1, h21);
+                        h22 = Math.fma(m2, v2, h22);
+                        h30 = Math.fma(m3, v0, h30);
+                        h31 = Math.fma(m3, v1, h31);
+                        h32 = Math.fma(m3, v2, h32);
+                        h33 = Math.fma(m3, v3, h33);
                     }
                 }
                 grad[lo] += coefR * u0;
@@ -279,10 +279,10 @@ final class PenalizedObjective {
                     double e = ex[q];
                     int f = first[q], base = q << 2;
                     double v0 = vals[base], v1 = vals[base + 1], v2 = vals[base + 2], v3 = vals[base + 3];
-                    uj[f] += e * v0;
-                    uj[f + 1] += e * v1;
-                    uj[f + 2] += e * v2;
-                    uj[f + 3] += e * v3;
+                    uj[f] = Math.fma(e, v0, uj[f]);
+                    uj[f + 1] = Math.fma(e, v1, uj[f + 1]);
+                    uj[f + 2] = Math.fma(e, v2, uj[f + 2]);
+                    uj[f + 3] = Math.fma(e, v3, uj[f + 3]);
                     if (sTerm) {
                         if (f != fcur) {
                             if (fcur >= 0) {
@@ -293,16 +293,16 @@ final class PenalizedObjective {
                         }
                         double m0 = -e * coefR * v0, m1 = -e * coefR * v1, m2 = -e * coefR * v2;
                         double m3 = -e * coefR * v3;
-                        h00 += m0 * v0;
-                        h10 += m1 * v0;
-                        h11 += m1 * v1;
-                        h20 += m2 * v0;
-                        h21 += m2 * v1;
-                        h22 += m2 * v2;
-                        h30 += m3 * v0;
-                        h31 += m3 * v1;
-                        h32 += m3 * v2;
-                        h33 += m3 * v3;
+                        h00 = Math.fma(m0, v0, h00);
+                        h10 = Math.fma(m1, v0, h10);
+                        h11 = Math.fma(m1, v1, h11);
+                        h20 = Math.fma(m2, v0, h20);
+                        h21 = Math.fma(m2, v1, h21);
+                        h22 = Math.fma(m2, v2, h22);
+                        h30 = Math.fma(m3, v0, h30);
+                        h31 = Math.fma(m3, v1, h31);
+                        h32 = Math.fma(m3, v2, h32);
+                        h33 = Math.fma(m3, v3, h33);
                     }
                 }
             } else {
