@@ -383,18 +383,7 @@ final class BinLayout {
                 mvec[lo + 1] += nj * u1;
                 mvec[lo + 2] += nj * u2;
                 mvec[lo + 3] += nj * u3;
-                double c0 = nj * u0, c1 = nj * u1, c2 = nj * u2, c3 = nj * u3;
-                int r0 = lo * k + lo, r1 = r0 + k, r2 = r1 + k, r3 = r2 + k;
-                meat[r0] += c0 * u0;
-                meat[r1] += c1 * u0;
-                meat[r1 + 1] += c1 * u1;
-                meat[r2] += c2 * u0;
-                meat[r2 + 1] += c2 * u1;
-                meat[r2 + 2] += c2 * u2;
-                meat[r3] += c3 * u0;
-                meat[r3 + 1] += c3 * u1;
-                meat[r3 + 2] += c3 * u2;
-                meat[r3 + 3] += c3 * u3;
+                addRankOne4(meat, lo * k + lo, k, nj * u0, nj * u1, nj * u2, nj * u3, u0, u1, u2, u3);
                 continue;
             }
             Arrays.fill(uj, lo, hi, 0.0);
@@ -420,5 +409,24 @@ final class BinLayout {
         }
         EstimationSupport.subtractOuter(meat, k, 1.0 / total, mvec, k);
         EstimationSupport.mirrorLower(meat, k, k);
+    }
+
+    /**
+     * Adds the lower triangle of c uᵀ (c, u of length 4) to the 4 × 4 block of a at r0 (row stride
+     * s), entry (i, l) as c_i u_l: a bin's rank-one term in the information matrices.
+     */
+    static void addRankOne4(double[] a, int r0, int s, double c0, double c1, double c2, double c3, double u0,
+            double u1, double u2, double u3) {
+        int r1 = r0 + s, r2 = r1 + s, r3 = r2 + s;
+        a[r0] += c0 * u0;
+        a[r1] += c1 * u0;
+        a[r1 + 1] += c1 * u1;
+        a[r2] += c2 * u0;
+        a[r2 + 1] += c2 * u1;
+        a[r2 + 2] += c2 * u2;
+        a[r3] += c3 * u0;
+        a[r3 + 1] += c3 * u1;
+        a[r3 + 2] += c3 * u2;
+        a[r3 + 3] += c3 * u3;
     }
 }

@@ -256,18 +256,8 @@ final class PenalizedObjective {
                 mvec[lo + 3] += u3;
                 if (countsMode && (expected ? a > 0 : nj > 0)) {
                     double coef = expected ? total / (z * a) : nj / (a * a);
-                    double c0 = coef * u0, c1 = coef * u1, c2 = coef * u2, c3 = coef * u3;
-                    int r0 = lo * k1 + lo, r1 = r0 + k1, r2 = r1 + k1, r3 = r2 + k1;
-                    hess[r0] += c0 * u0;
-                    hess[r1] += c1 * u0;
-                    hess[r1 + 1] += c1 * u1;
-                    hess[r2] += c2 * u0;
-                    hess[r2 + 1] += c2 * u1;
-                    hess[r2 + 2] += c2 * u2;
-                    hess[r3] += c3 * u0;
-                    hess[r3 + 1] += c3 * u1;
-                    hess[r3 + 2] += c3 * u2;
-                    hess[r3 + 3] += c3 * u3;
+                    BinLayout.addRankOne4(hess, lo * k1 + lo, k1, coef * u0, coef * u1, coef * u2, coef * u3, u0, u1,
+                            u2, u3);
                 }
                 continue;
             }

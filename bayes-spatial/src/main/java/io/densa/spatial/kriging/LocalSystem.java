@@ -347,6 +347,15 @@ final class LocalSystem {
         }
     }
 
+    /** gᵀz − f for one drift column g (ordinary kriging), summed in row order. */
+    private double oneColumnResidual(double[] z, double f) {
+        double r0 = 0;
+        for (int r = 0; r < m; r++) {
+            r0 += g[r] * z[r];
+        }
+        return r0 - f;
+    }
+
     /**
      * The unbiasedness constraints in the factorised form: the weights λ = L⁻ᵀz satisfy
      * Fᵀλ = (LG)ᵀL⁻ᵀz = Gᵀz, and the prediction zᵀL⁻¹Y has exactly these effective weights. Writes
@@ -354,11 +363,7 @@ final class LocalSystem {
      */
     private double constraintResidual(double[] z, double[] f0, double[] rr) {
         if (p == 1) {
-            double r0 = 0;
-            for (int r = 0; r < m; r++) {
-                r0 += g[r] * z[r];
-            }
-            r0 -= f0[0];
+            double r0 = oneColumnResidual(z, f0[0]);
             rr[0] = r0;
             double worst = Math.max(0, Math.abs(r0) / Math.max(1, Math.abs(f0[0])));
             return Double.isNaN(worst) ? Double.POSITIVE_INFINITY : worst;
@@ -399,11 +404,7 @@ final class LocalSystem {
             if (p == 1) {
                 // ordinary kriging: the loops below with their one-column inner loops written out
                 // (the same operations in the same order)
-                double r0 = 0;
-                for (int r = 0; r < m; r++) {
-                    r0 += g[r] * c0[r];
-                }
-                r0 -= f0[0];
+                double r0 = oneColumnResidual(c0, f0[0]);
                 rr[0] = r0;
                 double s = 0;
                 s += sInv[0] * r0;
