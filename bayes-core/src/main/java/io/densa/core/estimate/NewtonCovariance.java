@@ -69,7 +69,8 @@ final class NewtonCovariance {
         Cholesky.invertLower(solveA, n, linv);
         double[] wm = scratch2;
         // edf = tr(L⁻¹FL⁻ᵀ) needs only the diagonal; the rest of L⁻¹FL⁻ᵀ only when F is the meat
-        double edf = whitenLeft(fisher, linv);
+        whitenLeft(fisher, linv);
+        double edf = whitenedTrace(linv);
         if (cov == null) {
             return edf;
         }
@@ -176,22 +177,27 @@ final class NewtonCovariance {
         }
     }
 
-    /** wm = L⁻¹ a L⁻ᵀ (symmetric, linv = L⁻¹ lower triangular); returns its trace. Uses scratch1. */
-    private double whiten(double[] a, double[] linv, double[] wm) {
+    /** wm = L⁻¹ a L⁻ᵀ (symmetric, linv = L⁻¹ lower triangular). Uses scratch1. */
+    private void whiten(double[] a, double[] linv, double[] wm) {
         whitenLeft(a, linv);
-        return whitenRight(linv, wm);
+        whitenRight(linv, wm);
+    }
+
+    /** The first half of {@link #whiten}: scratch1 = L⁻¹a. */
+    private void whitenLeft(double[] a, double[] linv) {
+        final int n = k;
+        for (int i = 0; i < n; i++) {
+            combineRows(linv, i * n, 0, i + 1, a, n, scratch1, i * n);
+        }
     }
 
     /**
-     * The first half of {@link #whiten}: scratch1 = L⁻¹a; returns tr(L⁻¹aL⁻ᵀ) = Σ_i Σ_{p ≤ i}
-     * (L⁻¹a)_ip (L⁻¹)_ip, the same sums in the same order as the diagonal of {@link #whitenRight}.
+     * tr(L⁻¹aL⁻ᵀ) = Σ_i Σ_{p ≤ i} (L⁻¹a)_ip (L⁻¹)_ip after {@link #whitenLeft}: the same sums in the
+     * same order as the diagonal of {@link #whitenRight}, without the rest of the product.
      */
-    private double whitenLeft(double[] a, double[] linv) {
+    private double whitenedTrace(double[] linv) {
         final int n = k;
         double[] t1 = scratch1;
-        for (int i = 0; i < n; i++) {
-            combineRows(linv, i * n, 0, i + 1, a, n, t1, i * n);
-        }
         double tr = 0;
         for (int i = 0; i < n; i++) {
             double s = 0;
@@ -204,12 +210,11 @@ final class NewtonCovariance {
         return tr;
     }
 
-    /** The second half of {@link #whiten}: wm = (scratch1) L⁻ᵀ, symmetric; returns its trace. */
-    private double whitenRight(double[] linv, double[] wm) {
+    /** The second half of {@link #whiten}: wm = (scratch1) L⁻ᵀ, symmetric. */
+    private void whitenRight(double[] linv, double[] wm) {
         final int n = k;
         double[] t1 = scratch1;
         // w_ij = Σ_{p ≤ j} t1_ip linv_jp
-        double tr = 0;
         for (int i = 0; i < n; i++) {
             for (int j = 0; j <= i; j++) {
                 double s = 0;
@@ -220,8 +225,6 @@ final class NewtonCovariance {
                 wm[ri + j] = s;
                 wm[rj + i] = s;
             }
-            tr += wm[i * n + i];
         }
-        return tr;
     }
 }

@@ -237,9 +237,15 @@ public final class Cholesky {
 
     /**
      * Forward substitution L X = B in place for B row-major n × w (rows of length w; L row stride
-     * n), row by row; zero entries of L are skipped.
+     * n), row by row; zero entries of L are skipped. One column (w = 1) goes to {@link #forward},
+     * whose loops are blocked for it: the same operations, so the same results for finite B (a
+     * skipped zero entry would instead turn an infinite b into NaN there).
      */
     public static void forwardRows(double[] l, int n, double[] b, int w) {
+        if (w == 1) {
+            forward(l, n, n, b, 0);
+            return;
+        }
         for (int r = 0; r < n; r++) {
             int ro = r * w;
             int lo = r * n;

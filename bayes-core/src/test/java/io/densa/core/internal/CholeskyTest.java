@@ -105,6 +105,9 @@ class CholeskyTest {
         double[] x = b.clone();
         Cholesky.forward(l, n, n, x, 3);
         assertArrayEquals(expected, x);
+        double[] column = java.util.Arrays.copyOfRange(b, 3, 3 + n); // one right-hand side by rows
+        Cholesky.forwardRows(l, n, column, 1);
+        assertArrayEquals(java.util.Arrays.copyOfRange(expected, 3, 3 + n), column);
         for (int i = n - 1; i >= 0; i--) { // back substitution by rows, one row at a time
             double xi = expected[3 + i] / l[i * n + i];
             expected[3 + i] = xi;

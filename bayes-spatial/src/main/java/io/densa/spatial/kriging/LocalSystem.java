@@ -99,11 +99,7 @@ final class LocalSystem {
                     "dependent drift function " + dep));
         }
         double[] g = driftRows;
-        if (p == 1) {
-            Cholesky.forward(l, m, m, g, 0); // the same operations for one column (finite drift values)
-        } else {
-            Cholesky.forwardRows(l, m, g, p);
-        }
+        Cholesky.forwardRows(l, m, g, p);
         double[] sInv = new double[p * p];
         if (p > 0) {
             double[] s = new double[p * p];
