@@ -379,7 +379,7 @@ final class PenalizedFit {
                     + (reason.isEmpty() ? "" : "; " + reason),
                     new SolveDiagnostics("penalised information F + 2 lambda Omega + prior", k, 0.0));
         }
-        if (Double.isNaN(edf)) {
+        if (Double.isNaN(edf) || prior == null && eng.singularInformation()) {
             // without the reference prior: report the numbers the default prior would give, and say so
             ok = false;
             reason = (reason.isEmpty() ? "" : reason + "; ")

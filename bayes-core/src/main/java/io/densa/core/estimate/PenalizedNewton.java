@@ -41,6 +41,8 @@ final class PenalizedNewton {
     private final double[] hess;
     private int iterations;
     private String failure;
+    /** Whether the last solve stopped because the penalised information was numerically singular. */
+    private boolean singular;
     /** Whether {@link #hess} holds the Cholesky factor of the current Newton iteration. */
     private boolean newtonFactored;
     /** The last Newton factor (lower triangle, K × K) and its log determinant, kept when a fit returns. */
@@ -112,6 +114,15 @@ final class PenalizedNewton {
      * without the Armijo test, which would only compare rounding errors.
      */
     private static final double RESOLUTION = 1e-11;
+    /**
+     * A Newton factorisation fails (the information is called singular) when a pivot falls below
+     * this fraction of its column's diagonal: the information then has a direction about 10¹⁴ times
+     * weaker than its diagonal, along which a Newton step is rounding error (a few units of double
+     * precision's 2.2·10⁻¹⁶ per entry, the usual numerical-rank threshold K·ε; Golub &amp; Van Loan
+     * (2013), Matrix Computations, 4th ed., on numerical rank, from memory). Exact zeros, which only came from
+     * exponentials underflowing far out along such a direction, are no longer needed to say so.
+     */
+    private static final double SINGULAR_PIVOT = 1e-14;
 
     /** Optional K × K upper triangular map from raw coefficients to coordinates (c = U β). */
     private double[] coordinateMap;
@@ -182,6 +193,7 @@ final class PenalizedNewton {
         boolean evaluated = resumable;
         resumable = false;
         failure = null;
+        singular = false;
         iterations = 0;
         newtonFactored = resume;
         double obj = resume ? resumeObjective : evaluated ? lik.objectiveAtLastEvaluation(beta, lambda)
@@ -201,9 +213,10 @@ final class PenalizedNewton {
             } else {
                 newtonFactored = false;
                 lik.derivatives(lambda, false, true, beta);
-                if (Cholesky.factor(hess, k, k1, 0) >= 0) {
+                if (Cholesky.factor(hess, k, k1, SINGULAR_PIVOT) >= 0) {
                     lik.derivatives(lambda, true, true, beta);
-                    if (Cholesky.factor(hess, k, k1, 0) >= 0) {
+                    if (Cholesky.factor(hess, k, k1, SINGULAR_PIVOT) >= 0) {
+                        singular = true;
                         failure = "penalised information matrix is singular at iteration " + it
                                 + " (too few occupied bins for K = " + k + " without enough smoothing)";
                         return false;
@@ -518,5 +531,10 @@ final class PenalizedNewton {
     /** Why the last solve failed ("" or null when it converged). */
     String failure() {
         return failure;
+    }
+
+    /** Whether the last solve stopped because the penalised information was numerically singular. */
+    boolean singularInformation() {
+        return singular;
     }
 }
