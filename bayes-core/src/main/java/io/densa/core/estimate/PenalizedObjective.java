@@ -1,5 +1,6 @@
 package io.densa.core.estimate;
 
+import io.densa.core.internal.KernelPath;
 import io.densa.core.internal.Kernels;
 import java.util.Arrays;
 
@@ -131,15 +132,13 @@ final class PenalizedObjective {
             }
         }
         shift = max;
-        final double[] wt = lay.weight;
         final int[] start = lay.binStart;
+        KernelPath.active().weightedExp(eta, max, lay.weight, ex, nq);
         double z = 0;
         for (int j = 0; j < lay.bins; j++) {
             double s = 0;
             for (int q = start[j]; q < start[j + 1]; q++) {
-                double e = wt[q] * Math.exp(eta[q] - max);
-                ex[q] = e;
-                s += e;
+                s += ex[q];
             }
             mass[j] = s;
             z += s;

@@ -85,4 +85,12 @@ public abstract class KernelPath {
      */
     public abstract void rowDots(double[] y, double[] yt, int n, int k, int ia, int ib, int js, int len, double[] da,
             double[] db);
+
+    /**
+     * out[q] = w[q]·exp(x[q] − shift) for q &lt; n (the node weights of a quadrature of exp). The
+     * scalar path computes exactly that expression with {@link Math#exp}; the SIMD path evaluates
+     * exp with its own polynomial (within one unit in the last place of {@link Math#exp}) and gives
+     * the same bits on every run, JIT or not.
+     */
+    public abstract void weightedExp(double[] x, double shift, double[] w, double[] out, int n);
 }

@@ -129,4 +129,11 @@ final class ScalarPath extends KernelPath {
             }
         }
     }
+
+    @Override
+    public void weightedExp(double[] x, double shift, double[] w, double[] out, int n) {
+        for (int q = 0; q < n; q++) {
+            out[q] = w[q] * Math.exp(x[q] - shift);
+        }
+    }
 }

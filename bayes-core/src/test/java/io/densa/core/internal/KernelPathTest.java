@@ -199,4 +199,62 @@ class KernelPathTest {
         v.addCrossProduct(a, k, null, 0, n, mean, s2);
         assertUpperClose(s1, s2, k, 1e-12, "scalar vs vector");
     }
+
+    /**
+     * w·exp(x − shift) on both paths against {@link StrictMath#exp}, which the Java platform
+     * specifies as the fdlibm algorithm (Sun Microsystems, fdlibm 5.3, e_exp.c: error below one
+     * unit in the last place): within two units of StrictMath's result (so within three of the
+     * exact value), over arguments spanning the whole range, the fallback's edges (±708), underflow
+     * to subnormals and zero, NaN and infinities, and lengths that are not multiples of the vector.
+     */
+    private static void checkWeightedExp(KernelPath path) {
+        Random rnd = new Random(2026);
+        double[] special = {0, -0.0, 1e-300, -1e-300, -0.34657359027997264, 0.34657359027997264, -707.9999, -708,
+            -708.0001, -709.7, -744.4, -746, -1e4, 707.9, 708.2, Double.NaN, Double.NEGATIVE_INFINITY, -1e-17};
+        for (int n : new int[] {1, 7, 8, 9, 33, 1159}) {
+            double[] x = new double[n];
+            double[] w = new double[n];
+            double[] out = new double[n];
+            for (int rep = 0; rep < 40; rep++) {
+                double shift = rep % 3 == 0 ? 0 : 10 * rnd.nextGaussian();
+                for (int q = 0; q < n; q++) {
+                    double u = rnd.nextDouble();
+                    double v = rep % 4 == 0 ? -745 * u : rep % 4 == 1 ? -40 * u : rep % 4 == 2 ? 1400 * u - 700 : 2 * u - 1;
+                    x[q] = rnd.nextInt(20) == 0 ? special[rnd.nextInt(special.length)] + shift : v + shift;
+                    w[q] = rep % 2 == 0 ? 1.0 : 0.5 + rnd.nextDouble();
+                }
+                double[] xs = x.clone();
+                double[] ws = w.clone();
+                path.weightedExp(x, shift, w, out, n);
+                for (int q = 0; q < n; q++) {
+                    double expected = w[q] * StrictMath.exp(x[q] - shift);
+                    if (Double.isNaN(expected) || expected == 0 || Double.isInfinite(expected)) {
+                        assertEquals(expected, out[q], 0.0, "x − shift = " + (x[q] - shift));
+                    } else {
+                        assertEquals(expected, out[q], 2 * Math.ulp(expected), path.describe() + ": x − shift = "
+                                + (x[q] - shift) + ", w = " + w[q]);
+                    }
+                }
+                org.junit.jupiter.api.Assertions.assertArrayEquals(xs, x, "x modified");
+                org.junit.jupiter.api.Assertions.assertArrayEquals(ws, w, "w modified");
+            }
+        }
+    }
+
+    @Test
+    void weightedExpScalarPathIsTheMathExpExpression() {
+        checkWeightedExp(KernelPath.scalar());
+        double[] x = {-3.5, 0.25, -700, 12};
+        double[] w = {2, 0.5, 1, 3};
+        double[] out = new double[4];
+        KernelPath.scalar().weightedExp(x, 1.5, w, out, 4);
+        for (int q = 0; q < 4; q++) {
+            assertEquals(w[q] * Math.exp(x[q] - 1.5), out[q], 0.0);
+        }
+    }
+
+    @Test
+    void weightedExpVectorPathWithinTwoUlps() {
+        checkWeightedExp(vectorPath());
+    }
 }
