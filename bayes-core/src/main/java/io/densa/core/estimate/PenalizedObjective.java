@@ -133,7 +133,7 @@ final class PenalizedObjective {
         }
         shift = max;
         final int[] start = lay.binStart;
-        KernelPath.active().weightedExp(eta, max, lay.weight, ex, nq);
+        KernelPath.active().weightedExp(eta, 1.0, max, lay.weight, ex, nq);
         double z = 0;
         for (int j = 0; j < lay.bins; j++) {
             double s = 0;

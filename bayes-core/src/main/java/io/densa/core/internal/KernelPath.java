@@ -87,10 +87,11 @@ public abstract class KernelPath {
             double[] db);
 
     /**
-     * out[q] = w[q]·exp(x[q] − shift) for q &lt; n (the node weights of a quadrature of exp). The
-     * scalar path computes exactly that expression with {@link Math#exp}; the SIMD path evaluates
-     * exp with its own polynomial (within one unit in the last place of {@link Math#exp}) and gives
-     * the same bits on every run, JIT or not.
+     * out[q] = w[q]·exp(a·x[q] − shift) for q &lt; n (w null: weights 1): the node weights of a
+     * quadrature of exp, or exponential covariances. The scalar path computes exactly that
+     * expression with {@link Math#exp}; the SIMD path evaluates exp with its own polynomial (within
+     * one unit in the last place of {@link Math#exp}) and gives the same bits on every run, JIT or
+     * not.
      */
-    public abstract void weightedExp(double[] x, double shift, double[] w, double[] out, int n);
+    public abstract void weightedExp(double[] x, double a, double shift, double[] w, double[] out, int n);
 }

@@ -131,9 +131,15 @@ final class ScalarPath extends KernelPath {
     }
 
     @Override
-    public void weightedExp(double[] x, double shift, double[] w, double[] out, int n) {
+    public void weightedExp(double[] x, double a, double shift, double[] w, double[] out, int n) {
+        if (w == null) {
+            for (int q = 0; q < n; q++) {
+                out[q] = Math.exp(a * x[q] - shift);
+            }
+            return;
+        }
         for (int q = 0; q < n; q++) {
-            out[q] = w[q] * Math.exp(x[q] - shift);
+            out[q] = w[q] * Math.exp(a * x[q] - shift);
         }
     }
 }

@@ -230,15 +230,15 @@ final class VectorPath extends KernelPath {
      * subnormals and zero, overflow and NaN are those of the scalar path.
      */
     @Override
-    public void weightedExp(double[] x, double shift, double[] w, double[] out, int n) {
+    public void weightedExp(double[] x, double a, double shift, double[] w, double[] out, int n) {
         double[] c = INV_FACTORIAL;
         int q = 0;
         for (; q + L <= n; q += L) {
-            DoubleVector v = DoubleVector.fromArray(S, x, q).sub(shift);
+            DoubleVector v = DoubleVector.fromArray(S, x, q).mul(a).sub(shift);
             VectorMask<Double> inside = v.abs().compare(VectorOperators.LE, RANGE);
             if (!inside.allTrue()) {
                 for (int i = q; i < q + L; i++) {
-                    out[i] = w[i] * Math.exp(x[i] - shift);
+                    out[i] = (w == null ? 1.0 : w[i]) * Math.exp(a * x[i] - shift);
                 }
                 continue;
             }
@@ -252,10 +252,14 @@ final class VectorPath extends KernelPath {
             }
             DoubleVector scale = (DoubleVector) ((LongVector) t.reinterpretAsLongs()).sub(ROUND_BITS - 1023L)
                     .lanewise(VectorOperators.LSHL, 52).reinterpretAsDoubles();
-            p.mul(scale).mul(DoubleVector.fromArray(S, w, q)).intoArray(out, q);
+            p = p.mul(scale);
+            if (w != null) {
+                p = p.mul(DoubleVector.fromArray(S, w, q));
+            }
+            p.intoArray(out, q);
         }
         for (; q < n; q++) {
-            out[q] = w[q] * Math.exp(x[q] - shift);
+            out[q] = (w == null ? 1.0 : w[q]) * Math.exp(a * x[q] - shift);
         }
     }
 }

@@ -201,7 +201,7 @@ class KernelPathTest {
     }
 
     /**
-     * w·exp(x − shift) on both paths against {@link StrictMath#exp}, which the Java platform
+     * w·exp(a·x − shift) on both paths (also a ≠ 1 and w null) against {@link StrictMath#exp}, which the Java platform
      * specifies as the fdlibm algorithm (Sun Microsystems, fdlibm 5.3, e_exp.c: error below one
      * unit in the last place): within two units of StrictMath's result (so within three of the
      * exact value), over arguments spanning the whole range, the fallback's edges (±708), underflow
@@ -225,14 +225,16 @@ class KernelPathTest {
                 }
                 double[] xs = x.clone();
                 double[] ws = w.clone();
-                path.weightedExp(x, shift, w, out, n);
+                double a = rep % 5 == 0 ? 1.0 : rep % 5 == 1 ? -0.37 : 1.0 + 0.5 * rnd.nextGaussian();
+                boolean unweighted = rep % 7 == 3;
+                path.weightedExp(x, a, shift, unweighted ? null : w, out, n);
                 for (int q = 0; q < n; q++) {
-                    double expected = w[q] * StrictMath.exp(x[q] - shift);
+                    double expected = (unweighted ? 1.0 : w[q]) * StrictMath.exp(a * x[q] - shift);
                     if (Double.isNaN(expected) || expected == 0 || Double.isInfinite(expected)) {
-                        assertEquals(expected, out[q], 0.0, "x − shift = " + (x[q] - shift));
+                        assertEquals(expected, out[q], 0.0, "a x − shift = " + (a * x[q] - shift));
                     } else {
-                        assertEquals(expected, out[q], 2 * Math.ulp(expected), path.describe() + ": x − shift = "
-                                + (x[q] - shift) + ", w = " + w[q]);
+                        assertEquals(expected, out[q], 2 * Math.ulp(expected), path.describe() + ": a x − shift = "
+                                + (a * x[q] - shift) + ", w = " + w[q]);
                     }
                 }
                 org.junit.jupiter.api.Assertions.assertArrayEquals(xs, x, "x modified");
@@ -247,9 +249,13 @@ class KernelPathTest {
         double[] x = {-3.5, 0.25, -700, 12};
         double[] w = {2, 0.5, 1, 3};
         double[] out = new double[4];
-        KernelPath.scalar().weightedExp(x, 1.5, w, out, 4);
+        KernelPath.scalar().weightedExp(x, 1.0, 1.5, w, out, 4);
         for (int q = 0; q < 4; q++) {
             assertEquals(w[q] * Math.exp(x[q] - 1.5), out[q], 0.0);
+        }
+        KernelPath.scalar().weightedExp(x, -0.25, 0.0, null, out, 4);
+        for (int q = 0; q < 4; q++) {
+            assertEquals(Math.exp(-0.25 * x[q]), out[q], 0.0);
         }
     }
 

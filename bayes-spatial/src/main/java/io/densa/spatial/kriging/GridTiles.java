@@ -358,6 +358,12 @@ public final class GridTiles {
         }
         int nc = cand.length;
         double[] dist = new double[nc];
+        boolean planar = kr.locations().kind() == Locations.Kind.PLANAR;
+        double[] candX = planar ? new double[nc] : null, candY = planar ? new double[nc] : null;
+        double[] sq = planar ? new double[nc] : null;
+        if (planar) {
+            kr.covariances().gather(cand, nc, candX, candY);
+        }
         NearestHeap heap = new NearestHeap(want);
         double[] f0 = new double[p];
         int need = Math.max(1, p + 1);
@@ -368,7 +374,11 @@ public final class GridTiles {
             int q = order[o];
             double x = grid.x(cols[q]), y = grid.y(rows[q]);
             heap.clear();
-            kr.covariances().distances(cand, nc, x, y, dist);
+            if (planar) {
+                StationCovariances.planarDistances(candX, candY, nc, x, y, sq, dist);
+            } else {
+                kr.covariances().distances(cand, nc, x, y, dist);
+            }
             for (int a = 0; a < nc; a++) {
                 double dd = dist[a];
                 if (hood.kind() == Neighbourhood.Kind.RADIUS && dd > hood.radius()) {

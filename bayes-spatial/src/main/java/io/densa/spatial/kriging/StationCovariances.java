@@ -101,6 +101,39 @@ final class StationCovariances {
         }
     }
 
+    /**
+     * The coordinates of stations idx[0..m) gathered into xs and ys (planar locations), for
+     * {@link #planarDistances}, which then reads them with unit stride.
+     */
+    void gather(int[] idx, int m, double[] xs, double[] ys) {
+        for (int r = 0; r < m; r++) {
+            xs[r] = sx[idx[r]];
+            ys[r] = sy[idx[r]];
+        }
+    }
+
+    /**
+     * {@link #distances} for planar locations whose coordinates were gathered by {@link #gather}:
+     * the same numbers (the plain square root of the sum of squares wherever {@link
+     * Scaling#planarNorm} takes it, that method elsewhere), in two short loops without branches
+     * or indirection, which the JIT vectorises; sq is scratch.
+     */
+    static void planarDistances(double[] xs, double[] ys, int m, double x, double yy, double[] sq, double[] out) {
+        for (int r = 0; r < m; r++) {
+            double dx = xs[r] - x, dy = ys[r] - yy;
+            sq[r] = dx * dx + dy * dy;
+        }
+        for (int r = 0; r < m; r++) {
+            out[r] = Math.sqrt(sq[r]);
+        }
+        for (int r = 0; r < m; r++) {
+            double s = sq[r];
+            if (!(s <= 0x1p960 && s >= 0x1p-960)) {
+                out[r] = Scaling.planarNorm(xs[r] - x, ys[r] - yy);
+            }
+        }
+    }
+
     /** Covariances from (x, y) to stations idx[0..m) (all if idx is null) into out; dist is scratch. */
     void targets(int[] idx, int m, double x, double yy, double[] dist, double[] out) {
         distances(idx, m, x, yy, dist);

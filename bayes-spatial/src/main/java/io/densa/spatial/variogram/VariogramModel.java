@@ -1,5 +1,6 @@
 package io.densa.spatial.variogram;
 
+import io.densa.core.internal.KernelPath;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Collections;
@@ -381,8 +382,10 @@ public final class VariogramModel {
                         guarded(p, lags, count, out);
                         break;
                     }
+                    double[] e = new double[count];
+                    KernelPath.active().weightedExp(lags, r, 0.0, null, e, count);
                     for (int i = 0; i < count; i++) {
-                        out[i] -= c * (1 - Math.exp(r * lags[i]));
+                        out[i] -= c * (1 - e[i]);
                     }
                     break;
                 }
