@@ -54,6 +54,10 @@ final class PenalizedObjective {
     private final double[] mass;
     private final double[] mvec;
     private final double[] uj;
+    /** Bins with a positive count (increasing; the first occupiedCount entries) and their log masses. */
+    private final int[] occupied;
+    private int occupiedCount;
+    private final double[] logMass;
     private double zScaled;
     private double shift;
     private double loglik;
@@ -77,6 +81,8 @@ final class PenalizedObjective {
         mass = new double[lay.bins];
         mvec = new double[k1];
         uj = new double[k1];
+        occupied = new int[lay.bins];
+        logMass = new double[lay.bins];
         penRows = Kernels.rowSupport(rawPenalty, k);
         priorRows = prior == null ? null : Kernels.rowSupport(prior, k);
     }
@@ -148,10 +154,21 @@ final class PenalizedObjective {
         if (counts != null) {
             double logZ = Math.log(z);
             ll = 0;
-            for (int j = 0; j < lay.bins; j++) {
-                double n = counts[j];
-                if (n > 0) {
-                    ll += n * (Math.log(mass[j]) - logZ);
+            final int[] occ = occupied;
+            if (KernelPath.active().lanes() == 1) {
+                // the plain path as it was: this loop (an index list or a separate pass of
+                // logarithms measured 4 % slower there)
+                for (int j = 0; j < lay.bins; j++) {
+                    double n = counts[j];
+                    if (n > 0) {
+                        ll += n * (Math.log(mass[j]) - logZ);
+                    }
+                }
+            } else {
+                final double[] lm = logMass;
+                KernelPath.active().logs(mass, occ, occupiedCount, lm);
+                for (int i = 0; i < occupiedCount; i++) {
+                    ll += counts[occ[i]] * (lm[i] - logZ);
                 }
             }
         } else {
@@ -459,10 +476,28 @@ final class PenalizedObjective {
         Arrays.fill(linear, 0.0);
     }
 
-    /** Replaces the counts and the total only (the training part of a fold, or a unit of the smoothing spline). */
+    /**
+     * Replaces the counts and the total only (the training part of a fold, or a unit of the
+     * smoothing spline). The occupied bins (count &gt; 0) are read here: the array must not change
+     * while it is in use.
+     */
     void setCounts(double[] c, double n) {
         counts = c;
         total = n;
+        findOccupied();
+    }
+
+    /** The bins with a positive count, increasing, into {@link #occupied}. */
+    private void findOccupied() {
+        int m = 0;
+        if (counts != null) {
+            for (int j = 0; j < lay.bins; j++) {
+                if (counts[j] > 0) {
+                    occupied[m++] = j;
+                }
+            }
+        }
+        occupiedCount = m;
     }
 
     /** Sample mode: the sufficient statistic (K + 1 values, copied), the local basis values and weights, the totals. */
@@ -487,6 +522,7 @@ final class PenalizedObjective {
     /** Restores counts (may be null), totals and the sample statistic (copied) saved before a cross-validation. */
     void restoreData(double[] c, double n, double n2, double[] lin) {
         counts = c;
+        findOccupied();
         total = n;
         total2 = n2;
         System.arraycopy(lin, 0, linear, 0, k + 1);

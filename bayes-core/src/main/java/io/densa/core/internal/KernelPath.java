@@ -94,4 +94,12 @@ public abstract class KernelPath {
      * not.
      */
     public abstract void weightedExp(double[] x, double a, double shift, double[] w, double[] out, int n);
+
+    /**
+     * out[i] = ln x[idx[i]] for i &lt; n (the logarithms of a gathered subset, e.g. of the occupied
+     * bins' masses). The scalar path computes {@link Math#log}; the SIMD path its own series (within
+     * two units in the last place of {@link StrictMath#log} where x is a positive normal number, the
+     * same bits on every run), {@link Math#log} elsewhere (0, subnormal, ∞, negative, NaN).
+     */
+    public abstract void logs(double[] x, int[] idx, int n, double[] out);
 }

@@ -142,4 +142,11 @@ final class ScalarPath extends KernelPath {
             out[q] = w[q] * Math.exp(a * x[q] - shift);
         }
     }
+
+    @Override
+    public void logs(double[] x, int[] idx, int n, double[] out) {
+        for (int i = 0; i < n; i++) {
+            out[i] = Math.log(x[idx[i]]);
+        }
+    }
 }

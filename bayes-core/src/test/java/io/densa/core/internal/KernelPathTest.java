@@ -263,4 +263,64 @@ class KernelPathTest {
     void weightedExpVectorPathWithinTwoUlps() {
         checkWeightedExp(vectorPath());
     }
+
+    /**
+     * ln x of gathered entries on both paths against {@link StrictMath#log} (fdlibm 5.3, e_log.c:
+     * error below one unit in the last place): within two units of StrictMath's result, for x over
+     * the whole positive range, next to 1 (where ln x is small and relative accuracy is hardest),
+     * next to √2 and powers of two (the reduction's switch points), and for 0, subnormals, ∞,
+     * negative numbers and NaN, whose logarithms must be those of {@link Math#log} exactly.
+     */
+    private static void checkLogs(KernelPath path) {
+        Random rnd = new Random(77);
+        double[] special = {0.0, -0.0, Double.MIN_VALUE, 1e-310, Double.MIN_NORMAL, 1.0, 2.0, 0.5, 1.4142135623730951,
+            1.4142135623730950, 0.7071067811865476, 1 + 1e-15, 1 - 1e-16, Double.MAX_VALUE, Double.POSITIVE_INFINITY,
+            -1.0, Double.NaN, 1e300, 1e-300};
+        for (int n : new int[] {1, 5, 8, 13, 300, 365}) {
+            double[] x = new double[2 * n + 3];
+            int[] idx = new int[n];
+            double[] out = new double[n];
+            for (int rep = 0; rep < 60; rep++) {
+                for (int j = 0; j < x.length; j++) {
+                    double u = rnd.nextDouble();
+                    int kind = rep % 4;
+                    x[j] = kind == 0 ? Math.exp(1400 * u - 700) : kind == 1 ? 1 + (u - 0.5) * 1e-3
+                            : kind == 2 ? Math.scalb(0.7 + 0.75 * u, rnd.nextInt(200) - 100) : 1e-20 + u;
+                    if (rnd.nextInt(25) == 0) {
+                        x[j] = special[rnd.nextInt(special.length)];
+                    }
+                }
+                for (int i = 0; i < n; i++) {
+                    idx[i] = rnd.nextInt(x.length);
+                }
+                double[] xs = x.clone();
+                path.logs(x, idx, n, out);
+                for (int i = 0; i < n; i++) {
+                    double xi = x[idx[i]];
+                    double expected = StrictMath.log(xi);
+                    if (!(xi >= Double.MIN_NORMAL && xi <= Double.MAX_VALUE)) {
+                        assertEquals(Math.log(xi), out[i], 0.0, "x = " + xi);
+                    } else {
+                        assertEquals(expected, out[i], 2 * Math.ulp(expected), path.describe() + ": x = " + xi);
+                    }
+                }
+                org.junit.jupiter.api.Assertions.assertArrayEquals(xs, x, "x modified");
+            }
+        }
+    }
+
+    @Test
+    void logsScalarPathIsMathLog() {
+        checkLogs(KernelPath.scalar());
+        double[] x = {3.5, 0.25, 1e-200};
+        double[] out = new double[2];
+        KernelPath.scalar().logs(x, new int[] {2, 0}, 2, out);
+        assertEquals(Math.log(1e-200), out[0], 0.0);
+        assertEquals(Math.log(3.5), out[1], 0.0);
+    }
+
+    @Test
+    void logsVectorPathWithinTwoUlps() {
+        checkLogs(vectorPath());
+    }
 }
