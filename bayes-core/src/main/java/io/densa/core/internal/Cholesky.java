@@ -120,6 +120,17 @@ public final class Cholesky {
 
     /** Forward substitution L x = b in place, b in x[off..off+n). */
     public static void forward(double[] l, int n, int s, double[] x, int off) {
+        forward(l, null, n, s, x, off);
+    }
+
+    /**
+     * Forward substitution L x = b in place, b in x[off..off+n); with {@code inverseDiagonal}
+     * (1/L_ii, see {@link #inverseDiagonal}) each unknown is a product by it instead of a division
+     * by L_ii (within one rounding of the quotient: for many right-hand sides solved one at a time,
+     * where the divisions, each waiting for the last, set the pace); null: divisions.
+     */
+    public static void forward(double[] l, double[] inverseDiagonal, int n, int s, double[] x, int off) {
+        final double[] rd = inverseDiagonal;
         int i = 0;
         // four rows at a time: their sums over the unknowns already solved run side by side, then
         // the four finish in turn (each row's terms in the same order as one row at a time)
@@ -133,19 +144,19 @@ public final class Cholesky {
                 v2 -= l[r2 + p] * xp;
                 v3 -= l[r3 + p] * xp;
             }
-            double x0 = v0 / l[r0 + i];
+            double x0 = rd == null ? v0 / l[r0 + i] : v0 * rd[i];
             v1 -= l[r1 + i] * x0;
             v2 -= l[r2 + i] * x0;
             v3 -= l[r3 + i] * x0;
-            double x1 = v1 / l[r1 + i + 1];
+            double x1 = rd == null ? v1 / l[r1 + i + 1] : v1 * rd[i + 1];
             v2 -= l[r2 + i + 1] * x1;
             v3 -= l[r3 + i + 1] * x1;
-            double x2 = v2 / l[r2 + i + 2];
+            double x2 = rd == null ? v2 / l[r2 + i + 2] : v2 * rd[i + 2];
             v3 -= l[r3 + i + 2] * x2;
             x[off + i] = x0;
             x[off + i + 1] = x1;
             x[off + i + 2] = x2;
-            x[off + i + 3] = v3 / l[r3 + i + 3];
+            x[off + i + 3] = rd == null ? v3 / l[r3 + i + 3] : v3 * rd[i + 3];
         }
         for (; i < n; i++) {
             double v = x[off + i];
@@ -153,8 +164,17 @@ public final class Cholesky {
             for (int p = 0; p < i; p++) {
                 v -= l[ri + p] * x[off + p];
             }
-            x[off + i] = v / l[ri + i];
+            x[off + i] = rd == null ? v / l[ri + i] : v * rd[i];
         }
+    }
+
+    /** 1/L_ii for i &lt; n (a new array), for the substitutions that multiply instead of dividing. */
+    public static double[] inverseDiagonal(double[] l, int n, int s) {
+        double[] rd = new double[n];
+        for (int i = 0; i < n; i++) {
+            rd[i] = 1.0 / l[i * s + i];
+        }
+        return rd;
     }
 
     /**
@@ -165,20 +185,27 @@ public final class Cholesky {
      * systems solved once per target (kriging), where that chain's latency dominates.
      */
     public static void backwardByRows(double[] l, int n, int s, double[] x, int off) {
+        backwardByRows(l, null, n, s, x, off);
+    }
+
+    /** {@link #backwardByRows(double[], int, int, double[], int)} with products by 1/L_ii as in {@link #forward(double[], double[], int, int, double[], int)}. */
+    public static void backwardByRows(double[] l, double[] inverseDiagonal, int n, int s, double[] x, int off) {
+        final double[] rd = inverseDiagonal;
         int i = n - 1;
         // four rows at a time: the 4 × 4 corner in turn, then each remaining unknown loses the four
         // multiples in the order one row at a time would subtract them (one load and store for four)
         for (; i >= 3; i -= 4) {
             int r0 = i * s, r1 = r0 - s, r2 = r1 - s, r3 = r2 - s;
-            double x0 = x[off + i] / l[r0 + i];
-            double x1 = (x[off + i - 1] - l[r0 + i - 1] * x0) / l[r1 + i - 1];
+            double x0 = rd == null ? x[off + i] / l[r0 + i] : x[off + i] * rd[i];
+            double v1 = x[off + i - 1] - l[r0 + i - 1] * x0;
+            double x1 = rd == null ? v1 / l[r1 + i - 1] : v1 * rd[i - 1];
             double v2 = x[off + i - 2] - l[r0 + i - 2] * x0;
             v2 -= l[r1 + i - 2] * x1;
-            double x2 = v2 / l[r2 + i - 2];
+            double x2 = rd == null ? v2 / l[r2 + i - 2] : v2 * rd[i - 2];
             double v3 = x[off + i - 3] - l[r0 + i - 3] * x0;
             v3 -= l[r1 + i - 3] * x1;
             v3 -= l[r2 + i - 3] * x2;
-            double x3 = v3 / l[r3 + i - 3];
+            double x3 = rd == null ? v3 / l[r3 + i - 3] : v3 * rd[i - 3];
             x[off + i] = x0;
             x[off + i - 1] = x1;
             x[off + i - 2] = x2;
@@ -194,7 +221,7 @@ public final class Cholesky {
         }
         for (; i >= 0; i--) {
             int ri = i * s;
-            double xi = x[off + i] / l[ri + i];
+            double xi = rd == null ? x[off + i] / l[ri + i] : x[off + i] * rd[i];
             x[off + i] = xi;
             for (int p = 0; p < i; p++) {
                 x[off + p] -= l[ri + p] * xi;

@@ -119,6 +119,64 @@ class CholeskyTest {
         assertArrayEquals(expected, x);
     }
 
+    /**
+     * The substitutions that multiply by 1/L_ii: the same loops as one row at a time written out
+     * here with a product by the reciprocal in place of each division (bit for bit), and within a
+     * few units in the last place of the dividing form.
+     */
+    @ParameterizedTest
+    @ValueSource(ints = {1, 2, 3, 4, 5, 6, 7, 8, 9, 24, 33, 41})
+    void substitutionsWithInverseDiagonalMultiplyInsteadOfDividing(int n) {
+        double[] l = spd(n, 170 + n);
+        assertEquals(-1, Cholesky.factor(l, n, n, 0));
+        double[] rd = Cholesky.inverseDiagonal(l, n, n);
+        for (int i = 0; i < n; i++) {
+            assertEquals(1.0 / l[i * n + i], rd[i], 0.0);
+        }
+        Random r = new Random(n + 5);
+        double[] b = new double[n + 2];
+        for (int i = 0; i < b.length; i++) {
+            b[i] = r.nextGaussian();
+        }
+        double[] expected = b.clone();
+        for (int i = 0; i < n; i++) {
+            double v = expected[2 + i];
+            for (int p = 0; p < i; p++) {
+                v -= l[i * n + p] * expected[2 + p];
+            }
+            expected[2 + i] = v * rd[i];
+        }
+        double[] x = b.clone();
+        Cholesky.forward(l, rd, n, n, x, 2);
+        assertArrayEquals(expected, x);
+        double[] divided = b.clone();
+        Cholesky.forward(l, n, n, divided, 2);
+        for (int i = 2; i < n + 2; i++) {
+            assertEquals(divided[i], x[i], 8 * Math.ulp(Math.abs(divided[i]) + 1e-300) + 1e-13 * maxAbs(divided));
+        }
+        for (int i = n - 1; i >= 0; i--) {
+            double xi = expected[2 + i] * rd[i];
+            expected[2 + i] = xi;
+            for (int p = 0; p < i; p++) {
+                expected[2 + p] -= l[i * n + p] * xi;
+            }
+        }
+        Cholesky.backwardByRows(l, rd, n, n, x, 2);
+        assertArrayEquals(expected, x);
+        Cholesky.backwardByRows(l, n, n, divided, 2);
+        for (int i = 2; i < n + 2; i++) {
+            assertEquals(divided[i], x[i], 1e-12 * maxAbs(divided));
+        }
+    }
+
+    private static double maxAbs(double[] v) {
+        double m = 0;
+        for (double d : v) {
+            m = Math.max(m, Math.abs(d));
+        }
+        return m;
+    }
+
     @ParameterizedTest
     @ValueSource(ints = {1, 2, 3, 7, 16, 41})
     void factorEqualsEjmlInnerCholeskyBitForBit(int n) {

@@ -33,6 +33,8 @@ final class LocalSystem {
     private final int p;
     private final int k;
     private final double[] l;   // m × m lower
+    /** 1/L_ii: each target's substitutions multiply by it instead of dividing (no chain of divisions). */
+    private final double[] inverseDiagonal;
     private final double[] g;   // m × p
     private final double[] sInv; // p × p
     /** L⁻¹Y (m × k) for large systems; null for small ones, which keep Y itself. */
@@ -57,6 +59,7 @@ final class LocalSystem {
         this.p = p;
         this.k = k;
         this.l = l;
+        this.inverseDiagonal = Cholesky.inverseDiagonal(l, m, m);
         this.g = g;
         this.sInv = sInv;
         this.ly = ly;
@@ -388,7 +391,7 @@ final class LocalSystem {
      */
     double predict(double[] c0, double[] f0, double c00, double[] centre, double[] out, int off, double[] weights,
             Scratch scratch) {
-        Cholesky.forward(l, m, m, c0, 0);
+        Cholesky.forward(l, inverseDiagonal, m, m, c0, 0);
         double vv = 0;
         for (int r = 0; r < m; r++) {
             vv += c0[r] * c0[r];
@@ -478,7 +481,7 @@ final class LocalSystem {
             }
         } else {
             // λ = L⁻ᵀz, then the prediction λᵀY (a 1 × m by m × K product)
-            Cholesky.backwardByRows(l, m, m, c0, 0);
+            Cholesky.backwardByRows(l, inverseDiagonal, m, m, c0, 0);
             double[] t = scratch.row(k);
             Kernels.multiplyRows(c0, 0, 1, m, y, k, t, 0);
             for (int c = 0; c < k; c++) {
