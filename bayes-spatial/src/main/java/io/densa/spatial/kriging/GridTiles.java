@@ -319,19 +319,23 @@ public final class GridTiles {
             order[fill[sub[q]]++] = q;
         }
         SystemCache cache = new SystemCache();
+        int[] candidatePosition = new int[kr.size()];
         LocalSystem.Scratch sc = new LocalSystem.Scratch(kr.driftSize());
         for (int gI = 0; gI < groups; gI++) {
             if (start[gI + 1] > start[gI]) {
                 localCells(kr, grid, cols, rows, order, start[gI], start[gI + 1], coords, var, near, cache, sc,
-                        cg);
+                        cg, candidatePosition);
             }
         }
     }
 
-    /** Predicts the cells order[from..to) sharing one candidate query. */
+    /**
+     * Predicts the cells order[from..to) sharing one candidate query; candidatePosition is scratch
+     * indexed by station (one entry per station, filled for the group's candidates).
+     */
     private static void localCells(Kriging kr, Grid grid, int[] cols, int[] rows, int[] order, int from, int to,
             double[] coords, double[] var, double[] near, SystemCache cache, LocalSystem.Scratch sc,
-            CovariateGrid cg) {
+            CovariateGrid cg, int[] candidatePosition) {
         int k = kr.dimension(), p = kr.driftSize();
         Neighbourhood hood = kr.options().neighbourhood();
         // centre and half-diagonal of the group's cells
@@ -370,38 +374,80 @@ public final class GridTiles {
         double[] c0 = new double[want];
         double[] nd = new double[want];
         double[] cov = cg == null ? null : new double[cg.count()];
+        // k nearest: the last cell's system, with its stations' positions among the candidates
+        boolean nearest = hood.kind() == Neighbourhood.Kind.NEAREST;
+        LocalSystem last = null;
+        double[] inside = nearest ? new double[nc] : null, outside = nearest ? new double[nc] : null;
+        if (nearest) {
+            Arrays.fill(inside, Double.NEGATIVE_INFINITY);
+        }
+        int[] lastPos = nearest ? new int[want] : null;
+        if (nearest) {
+            for (int a = 0; a < nc; a++) {
+                candidatePosition[cand[a]] = a;
+            }
+        }
         for (int o = from; o < to; o++) {
             int q = order[o];
             double x = grid.x(cols[q]), y = grid.y(rows[q]);
-            heap.clear();
             if (planar) {
                 StationCovariances.planarDistances(candX, candY, nc, x, y, sq, dist);
             } else {
                 kr.covariances().distances(cand, nc, x, y, dist);
             }
-            for (int a = 0; a < nc; a++) {
-                double dd = dist[a];
-                if (hood.kind() == Neighbourhood.Kind.RADIUS && dd > hood.radius()) {
-                    continue;
+            LocalSystem sys;
+            int mm;
+            double[] dv;
+            if (last != null && separates(dist, inside, outside, nc)) {
+                // every station of the last cell's set is strictly nearer than every other
+                // candidate: the heap would select the same set (most neighbouring cells)
+                sys = last;
+                mm = sys.size();
+                dv = mm == nd.length ? nd : new double[mm];
+                for (int t = 0; t < mm; t++) {
+                    dv[t] = dist[lastPos[t]];
                 }
-                heap.offer(dd, cand[a]);
+            } else {
+                heap.clear();
+                for (int a = 0; a < nc; a++) {
+                    double dd = dist[a];
+                    if (hood.kind() == Neighbourhood.Kind.RADIUS && dd > hood.radius()) {
+                        continue;
+                    }
+                    heap.offer(dd, cand[a]);
+                }
+                mm = heap.size();
+                if (mm < Math.min(need, kr.size())) {
+                    // fall back to the exact per-target path, which reports the failure with diagnostics
+                    kr.neighbours(x, y, -1);
+                }
+                // the set, not its order, names the system: look it up by an order-free hash and
+                // check it station by station; only a new set is sorted (the system's canonical order)
+                dv = mm == nd.length ? nd : new double[mm];
+                long key = heap.indexSet();
+                sys = cache.get(key);
+                if (sys == null || !heap.distancesInOrderOf(sys.stationsView(), sys.size(), dv)) {
+                    sys = kr.system(heap.sortedIndices());
+                    cache.put(key, sys);
+                    heap.distancesInOrderOf(sys.stationsView(), sys.size(), dv);
+                }
+                if (nearest && sys != last) {
+                    if (last != null) {
+                        for (int t = 0; t < last.size(); t++) {
+                            inside[lastPos[t]] = Double.NEGATIVE_INFINITY;
+                            outside[lastPos[t]] = 0.0;
+                        }
+                    }
+                    int[] st = sys.stationsView();
+                    for (int t = 0; t < sys.size(); t++) {
+                        lastPos[t] = candidatePosition[st[t]];
+                        inside[lastPos[t]] = 0.0;
+                        outside[lastPos[t]] = Double.POSITIVE_INFINITY;
+                    }
+                    last = sys;
+                }
             }
-            int mm = heap.size();
-            if (mm < Math.min(need, kr.size())) {
-                // fall back to the exact per-target path, which reports the failure with diagnostics
-                kr.neighbours(x, y, -1);
-            }
-            // the set, not its order, names the system: look it up by an order-free hash and check
-            // it station by station; only a new set is sorted (the system's canonical order)
             double[] cv = mm == c0.length ? c0 : new double[mm];
-            double[] dv = mm == nd.length ? nd : new double[mm];
-            long key = heap.indexSet();
-            LocalSystem sys = cache.get(key);
-            if (sys == null || !heap.distancesInOrderOf(sys.stationsView(), sys.size(), dv)) {
-                sys = kr.system(heap.sortedIndices());
-                cache.put(key, sys);
-                heap.distancesInOrderOf(sys.stationsView(), sys.size(), dv);
-            }
             kr.covariances().atDistances(dv, mm, cv);
             kr.design().driftAt(x, y, covariates(cg, cols[q], rows[q], cov), f0);
             double v = sys.predict(cv, f0, kr.covariances().pseudoSill(), kr.centre(), coords, q * k, null, sc);
@@ -415,6 +461,23 @@ public final class GridTiles {
                 near[q] = StationCovariances.nearest(dv, mm);
             }
         }
+    }
+
+    /**
+     * Whether the marked candidates are all strictly nearer than all the others (NaN fails): then
+     * they are the nearest ones whatever the ties among the others. A candidate is marked by
+     * inside[a] = 0, outside[a] = +∞ (otherwise −∞ and 0): two reductions without branches.
+     */
+    private static boolean separates(double[] dist, double[] inside, double[] outside, int nc) {
+        double farthestIn = Double.NEGATIVE_INFINITY;
+        for (int a = 0; a < nc; a++) {
+            farthestIn = Math.max(farthestIn, dist[a] + inside[a]);
+        }
+        double nearestOut = Double.POSITIVE_INFINITY;
+        for (int a = 0; a < nc; a++) {
+            nearestOut = Math.min(nearestOut, dist[a] + outside[a]);
+        }
+        return farthestIn < nearestOut;
     }
 
     /** Direct-mapped cache of factorised systems by the hash of their station set. */
