@@ -355,6 +355,10 @@ final class BinLayout {
         Arrays.fill(mvec, 0.0);
         final int w = width;
         final int[] start = binStart;
+        // one-span bins: the span's sums in registers, added once per span (as in the derivative pass)
+        int fcur = -1;
+        double s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+        double h00 = 0, h10 = 0, h11 = 0, h20 = 0, h21 = 0, h22 = 0, h30 = 0, h31 = 0, h32 = 0, h33 = 0;
         for (int j = 0; j < bins; j++) {
             double nj = counts[j];
             if (!(nj > 0)) {
@@ -363,8 +367,16 @@ final class BinLayout {
             int lo = binLo[j], hi = Math.min(binHi[j], k);
             int q0 = start[j], q1 = start[j + 1];
             if (w == 4 && hi - lo == 4 && q1 > q0 && first[q0] == lo && first[q1 - 1] == lo) {
-                // a bin inside one knot span: the loops below with its four moments in registers
-                // (the same operations in the same order)
+                // a bin inside one knot span: the loops below with its four moments and the span's
+                // sums in registers
+                if (lo != fcur) {
+                    if (fcur >= 0) {
+                        addSpan(meat, mvec, k, fcur, s0, s1, s2, s3, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
+                    }
+                    fcur = lo;
+                    s0 = s1 = s2 = s3 = 0;
+                    h00 = h10 = h11 = h20 = h21 = h22 = h30 = h31 = h32 = h33 = 0;
+                }
                 double u0 = 0.0, u1 = 0.0, u2 = 0.0, u3 = 0.0;
                 for (int q = q0; q < q1; q++) {
                     double e = ex[q];
@@ -379,11 +391,21 @@ final class BinLayout {
                 u1 *= inv;
                 u2 *= inv;
                 u3 *= inv;
-                mvec[lo] += nj * u0;
-                mvec[lo + 1] += nj * u1;
-                mvec[lo + 2] += nj * u2;
-                mvec[lo + 3] += nj * u3;
-                addRankOne4(meat, lo * k + lo, k, nj * u0, nj * u1, nj * u2, nj * u3, u0, u1, u2, u3);
+                double c0 = nj * u0, c1 = nj * u1, c2 = nj * u2, c3 = nj * u3;
+                s0 += c0;
+                s1 += c1;
+                s2 += c2;
+                s3 += c3;
+                h00 = Math.fma(c0, u0, h00);
+                h10 = Math.fma(c1, u0, h10);
+                h11 = Math.fma(c1, u1, h11);
+                h20 = Math.fma(c2, u0, h20);
+                h21 = Math.fma(c2, u1, h21);
+                h22 = Math.fma(c2, u2, h22);
+                h30 = Math.fma(c3, u0, h30);
+                h31 = Math.fma(c3, u1, h31);
+                h32 = Math.fma(c3, u2, h32);
+                h33 = Math.fma(c3, u3, h33);
                 continue;
             }
             Arrays.fill(uj, lo, hi, 0.0);
@@ -407,26 +429,32 @@ final class BinLayout {
                 }
             }
         }
+        if (fcur >= 0) {
+            addSpan(meat, mvec, k, fcur, s0, s1, s2, s3, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
+        }
         EstimationSupport.subtractOuter(meat, k, 1.0 / total, mvec, k);
         EstimationSupport.mirrorLower(meat, k, k);
     }
 
-    /**
-     * Adds the lower triangle of c uᵀ (c, u of length 4) to the 4 × 4 block of a at r0 (row stride
-     * s), entry (i, l) as c_i u_l: a bin's rank-one term in the information matrices.
-     */
-    static void addRankOne4(double[] a, int r0, int s, double c0, double c1, double c2, double c3, double u0,
-            double u1, double u2, double u3) {
-        int r1 = r0 + s, r2 = r1 + s, r3 = r2 + s;
-        a[r0] += c0 * u0;
-        a[r1] += c1 * u0;
-        a[r1 + 1] += c1 * u1;
-        a[r2] += c2 * u0;
-        a[r2 + 1] += c2 * u1;
-        a[r2 + 2] += c2 * u2;
-        a[r3] += c3 * u0;
-        a[r3 + 1] += c3 * u1;
-        a[r3 + 2] += c3 * u2;
-        a[r3 + 3] += c3 * u3;
+    /** Adds a span's four moment sums to m and its 4 × 4 block (lower triangle) to a (stride s), from index f. */
+    static void addSpan(double[] a, double[] m, int s, int f, double s0, double s1, double s2, double s3,
+            double h00, double h10, double h11, double h20, double h21, double h22, double h30, double h31,
+            double h32, double h33) {
+        m[f] += s0;
+        m[f + 1] += s1;
+        m[f + 2] += s2;
+        m[f + 3] += s3;
+        int r0 = f * s + f, r1 = r0 + s, r2 = r1 + s, r3 = r2 + s;
+        a[r0] += h00;
+        a[r1] += h10;
+        a[r1 + 1] += h11;
+        a[r2] += h20;
+        a[r2 + 1] += h21;
+        a[r2 + 2] += h22;
+        a[r3] += h30;
+        a[r3 + 1] += h31;
+        a[r3 + 2] += h32;
+        a[r3 + 3] += h33;
     }
+
 }
