@@ -368,7 +368,8 @@ final class BinLayout {
             int q0 = start[j], q1 = start[j + 1];
             if (w == 4 && hi - lo == 4 && q1 > q0 && first[q0] == lo && first[q1 - 1] == lo) {
                 // a bin inside one knot span: the loops below with its four moments and the span's
-                // sums in registers
+                // sums in registers (the ten-term block repeats the derivative pass's on purpose: a
+                // shared helper would have to return the ten sums through memory)
                 if (lo != fcur) {
                     if (fcur >= 0) {
                         addSpan(meat, mvec, k, fcur, s0, s1, s2, s3, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
