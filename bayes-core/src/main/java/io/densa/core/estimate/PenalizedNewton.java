@@ -98,15 +98,51 @@ final class PenalizedNewton {
             return;
         }
         int d = lik.bins().bins;
-        System.arraycopy(startConst, 0, beta, 0, k);
+        double[] logs = startLogs.length == d ? startLogs : (startLogs = new double[d]);
         for (int j = 0; j < d; j++) {
-            double lj = Math.log(counts[j] + 0.5);
-            for (int i = 0; i < k; i++) {
-                beta[i] += startMap[i * d + j] * lj;
+            double n = counts[j];
+            int c = (int) n;
+            logs[j] = c == n && c >= 0 && c < LOG_HALF.length ? LOG_HALF[c] : Math.log(n + 0.5);
+        }
+        // four coefficients at a time, each summed in registers over the bins in order (the same
+        // sums as bin by bin into β, without a store and reload per bin)
+        int i = 0;
+        for (; i + 3 < k; i += 4) {
+            int o0 = i * d, o1 = o0 + d, o2 = o1 + d, o3 = o2 + d;
+            double b0 = startConst[i], b1 = startConst[i + 1], b2 = startConst[i + 2], b3 = startConst[i + 3];
+            for (int j = 0; j < d; j++) {
+                double lj = logs[j];
+                b0 += startMap[o0 + j] * lj;
+                b1 += startMap[o1 + j] * lj;
+                b2 += startMap[o2 + j] * lj;
+                b3 += startMap[o3 + j] * lj;
             }
+            beta[i] = b0;
+            beta[i + 1] = b1;
+            beta[i + 2] = b2;
+            beta[i + 3] = b3;
+        }
+        for (; i < k; i++) {
+            double b = startConst[i];
+            for (int j = 0, o = i * d; j < d; j++) {
+                b += startMap[o + j] * logs[j];
+            }
+            beta[i] = b;
         }
         beta[k] = 0.0;
     }
+
+    /** log(n + 1/2) for the counts n = 0 … 4095 (the same values as computing them each time). */
+    private static final double[] LOG_HALF = new double[4096];
+
+    static {
+        for (int n = 0; n < LOG_HALF.length; n++) {
+            LOG_HALF[n] = Math.log(n + 0.5);
+        }
+    }
+
+    /** log(n_j + 1/2) of the current unit (scratch of {@link #startFromCounts}). */
+    private double[] startLogs = new double[0];
 
     /**
      * Relative size of a predicted gain Φ'·Δ below which Φ can no longer rank two points (sums of
