@@ -154,7 +154,6 @@ final class PenalizedObjective {
         if (counts != null) {
             double logZ = Math.log(z);
             ll = 0;
-            final int[] occ = occupied;
             if (KernelPath.active().lanes() == 1) {
                 // the plain path as it was: this loop (an index list or a separate pass of
                 // logarithms measured 4 % slower there)
@@ -165,6 +164,7 @@ final class PenalizedObjective {
                     }
                 }
             } else {
+                final int[] occ = occupied;
                 final double[] lm = logMass;
                 KernelPath.active().logs(mass, occ, occupiedCount, lm);
                 for (int i = 0; i < occupiedCount; i++) {

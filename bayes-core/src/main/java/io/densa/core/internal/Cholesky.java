@@ -188,7 +188,10 @@ public final class Cholesky {
         backwardByRows(l, null, n, s, x, off);
     }
 
-    /** {@link #backwardByRows(double[], int, int, double[], int)} with products by 1/L_ii as in {@link #forward(double[], double[], int, int, double[], int)}. */
+    /**
+     * {@link #backwardByRows(double[], int, int, double[], int)} with products by 1/L_ii as in
+     * {@link #forward(double[], double[], int, int, double[], int)} (null: divisions).
+     */
     public static void backwardByRows(double[] l, double[] inverseDiagonal, int n, int s, double[] x, int off) {
         final double[] rd = inverseDiagonal;
         int i = n - 1;

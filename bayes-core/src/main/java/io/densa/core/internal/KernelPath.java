@@ -3,7 +3,8 @@ package io.densa.core.internal;
 import java.util.Locale;
 
 /**
- * The few hot inner kernels of {@link Kernels} and of the variogram pass, in two implementations:
+ * The few hot inner kernels of {@link Kernels}, the variogram pass, the density estimator and
+ * kriging's exponential covariances, in two implementations:
  * {@link ScalarPath} (plain Java, vectorised by the JIT where it can) and, only when the JVM was
  * started with the incubating vector module ({@code --add-modules jdk.incubator.vector}), a path
  * written with explicit SIMD vectors ({@code VectorPath}). Internal.
@@ -15,10 +16,13 @@ import java.util.Locale;
  * module and get exactly the scalar arithmetic. The two paths compute the same sums with the same
  * blocking but may round differently (fused multiply-add, another order inside a block); they
  * agree to about 1e-14 relative on sums of products (checked by KernelPathTest, run in a second
- * test execution with the flag). Transcendental vector operators (e.g. the vector exponential) are
- * not used: the JIT compiles them to intrinsics that may round differently from their interpreted
- * fallback, so a result would depend on warm-up (measured: a parallel fit then differed from the
- * serial one in the 14th digit).
+ * test execution with the flag). The incubating module's transcendental operators (its vector
+ * exponential) are not used: the JIT compiles them to intrinsics that may round differently from
+ * their interpreted fallback, so a result would depend on warm-up (measured: a parallel fit then
+ * differed from the serial one in the 14th digit). The exponential and logarithm kernels here
+ * ({@link #weightedExp}, {@link #logs}) are instead Densa's own polynomials written with lane-wise
+ * IEEE operations only, within one or two units in the last place of {@link StrictMath}'s and the
+ * same bits compiled or interpreted; the scalar path keeps {@link Math#exp} and {@link Math#log}.
  */
 public abstract class KernelPath {
     private static final KernelPath SCALAR = new ScalarPath();

@@ -201,7 +201,8 @@ class KernelPathTest {
     }
 
     /**
-     * w·exp(a·x − shift) on both paths (also a ≠ 1 and w null) against {@link StrictMath#exp}, which the Java platform
+     * w·exp(a·x − shift) on both paths (also a ≠ 1 and w null) against {@link StrictMath#exp},
+     * which the Java platform
      * specifies as the fdlibm algorithm (Sun Microsystems, fdlibm 5.3, e_exp.c: error below one
      * unit in the last place): within two units of StrictMath's result (so within three of the
      * exact value), over arguments spanning the whole range, the fallback's edges (±708), underflow
@@ -219,7 +220,8 @@ class KernelPathTest {
                 double shift = rep % 3 == 0 ? 0 : 10 * rnd.nextGaussian();
                 for (int q = 0; q < n; q++) {
                     double u = rnd.nextDouble();
-                    double v = rep % 4 == 0 ? -745 * u : rep % 4 == 1 ? -40 * u : rep % 4 == 2 ? 1400 * u - 700 : 2 * u - 1;
+                    double v = rep % 4 == 0 ? -745 * u : rep % 4 == 1 ? -40 * u
+                            : rep % 4 == 2 ? 1400 * u - 700 : 2 * u - 1;
                     x[q] = rnd.nextInt(20) == 0 ? special[rnd.nextInt(special.length)] + shift : v + shift;
                     w[q] = rep % 2 == 0 ? 1.0 : 0.5 + rnd.nextDouble();
                 }
