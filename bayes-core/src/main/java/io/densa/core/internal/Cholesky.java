@@ -41,13 +41,17 @@ public final class Cholesky {
      * @return -1 on success, or the first failing column j; its d is left in {@code a[j*s+j]}
      */
     public static int factor(double[] a, int n, int s, double minRelativePivot) {
+        // pivot[i] = a_ii − Σ_{p<j} L_ip², its terms subtracted as each L_ip is formed (in the same
+        // order as the dot product over row i would, so the same bits), which takes that dot
+        // product off the chain from one column's pivot to the next
+        double[] pivot = new double[n];
+        for (int i = 0; i < n; i++) {
+            pivot[i] = a[i * s + i];
+        }
         for (int j = 0; j < n; j++) {
             int rj = j * s;
             double ajj = a[rj + j];
-            double d = ajj;
-            for (int p = 0; p < j; p++) {
-                d -= a[rj + p] * a[rj + p];
-            }
+            double d = pivot[j];
             double floor = minRelativePivot == 0 ? 0.0 : minRelativePivot * Math.abs(ajj);
             if (!(d > floor) || d == Double.POSITIVE_INFINITY) {
                 a[rj + j] = d;
@@ -69,10 +73,15 @@ public final class Cholesky {
                     v2 -= a[r2 + p] * b;
                     v3 -= a[r3 + p] * b;
                 }
-                a[r0 + j] = v0 * inv;
-                a[r1 + j] = v1 * inv;
-                a[r2 + j] = v2 * inv;
-                a[r3 + j] = v3 * inv;
+                double l0 = v0 * inv, l1 = v1 * inv, l2 = v2 * inv, l3 = v3 * inv;
+                a[r0 + j] = l0;
+                a[r1 + j] = l1;
+                a[r2 + j] = l2;
+                a[r3 + j] = l3;
+                pivot[i] -= l0 * l0;
+                pivot[i + 1] -= l1 * l1;
+                pivot[i + 2] -= l2 * l2;
+                pivot[i + 3] -= l3 * l3;
             }
             for (; i < n; i++) {
                 int ri = i * s;
@@ -80,7 +89,9 @@ public final class Cholesky {
                 for (int p = 0; p < j; p++) {
                     v -= a[ri + p] * a[rj + p];
                 }
-                a[ri + j] = v * inv;
+                double l = v * inv;
+                a[ri + j] = l;
+                pivot[i] -= l * l;
             }
         }
         return -1;
