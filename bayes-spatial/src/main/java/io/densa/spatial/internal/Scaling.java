@@ -17,10 +17,18 @@ public final class Scaling {
      */
     public static double planarNorm(double dx, double dy) {
         double s = dx * dx + dy * dy;
-        if (s <= 0x1p960 && s >= 0x1p-960) {
+        if (plainSquareInRange(s)) {
             return Math.sqrt(s);
         }
         return scaledNorm(dx, dy);
+    }
+
+    /**
+     * Whether dx² + dy² = s, computed plainly, is within [2⁻⁹⁶⁰, 2⁹⁶⁰], where {@link #planarNorm}
+     * takes √s (false for NaN); for loops that take √s of many sums first and then repair the rest.
+     */
+    public static boolean plainSquareInRange(double s) {
+        return s <= 0x1p960 && s >= 0x1p-960;
     }
 
     private static double scaledNorm(double dx, double dy) {

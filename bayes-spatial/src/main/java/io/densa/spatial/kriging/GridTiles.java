@@ -378,11 +378,9 @@ public final class GridTiles {
         boolean nearest = hood.kind() == Neighbourhood.Kind.NEAREST;
         LocalSystem last = null;
         double[] inside = nearest ? new double[nc] : null, outside = nearest ? new double[nc] : null;
-        if (nearest) {
-            Arrays.fill(inside, Double.NEGATIVE_INFINITY);
-        }
         int[] lastPos = nearest ? new int[want] : null;
         if (nearest) {
+            Arrays.fill(inside, Double.NEGATIVE_INFINITY);
             for (int a = 0; a < nc; a++) {
                 candidatePosition[cand[a]] = a;
             }

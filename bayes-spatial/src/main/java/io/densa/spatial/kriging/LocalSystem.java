@@ -402,17 +402,14 @@ final class LocalSystem {
             double[] mu = scratch.mu;
             if (p == 1) {
                 // ordinary kriging: the loops below with their one-column inner loops written out
-                // (the same operations in the same order)
+                // (the same products and sums, up to the sign of a zero)
                 double r0 = oneColumnResidual(c0, f0[0]);
                 rr[0] = r0;
-                double s = 0;
-                s += sInv[0] * r0;
+                double s = sInv[0] * r0;
                 mu[0] = s;
                 rmu += r0 * s;
                 for (int r = 0; r < m; r++) {
-                    double t = 0;
-                    t += g[r] * s;
-                    c0[r] -= t;
+                    c0[r] -= g[r] * s;
                 }
             } else {
                 java.util.Arrays.fill(rr, 0, p, 0.0);

@@ -127,8 +127,7 @@ final class StationCovariances {
             out[r] = Math.sqrt(sq[r]);
         }
         for (int r = 0; r < m; r++) {
-            double s = sq[r];
-            if (!(s <= 0x1p960 && s >= 0x1p-960)) {
+            if (!Scaling.plainSquareInRange(sq[r])) {
                 out[r] = Scaling.planarNorm(xs[r] - x, ys[r] - yy);
             }
         }
