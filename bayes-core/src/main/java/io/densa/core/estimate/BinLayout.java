@@ -50,6 +50,12 @@ final class BinLayout {
     final int[] runStart;
     /** The basis values column by column: column[i][q] = vals[q · width + i]. */
     final double[][] column;
+    /**
+     * Whether bin j lies inside one knot span of a cubic spline basis: width 4, binHi − binLo = 4
+     * and every node with first index binLo (the bins whose four moments the passes keep in
+     * registers).
+     */
+    final boolean[] oneSpan;
 
     /**
      * @param space  the space
@@ -155,6 +161,11 @@ final class BinLayout {
             for (int i = 0; i < width; i++) {
                 column[i][n] = vals[n * width + i];
             }
+        }
+        oneSpan = new boolean[bins];
+        for (int j = 0; j < bins; j++) {
+            int lo = binLo[j], q0 = binStart[j], q1 = binStart[j + 1];
+            oneSpan[j] = width == 4 && binHi[j] - lo == 4 && q1 > q0 && first[q0] == lo && first[q1 - 1] == lo;
         }
     }
 
@@ -366,7 +377,7 @@ final class BinLayout {
             }
             int lo = binLo[j], hi = Math.min(binHi[j], k);
             int q0 = start[j], q1 = start[j + 1];
-            if (w == 4 && hi - lo == 4 && q1 > q0 && first[q0] == lo && first[q1 - 1] == lo) {
+            if (oneSpan[j] && lo + 4 <= k) {
                 // a bin inside one knot span: the loops below with its four moments and the span's
                 // sums in registers (the ten-term block repeats the derivative pass's on purpose: a
                 // shared helper would have to return the ten sums through memory)

@@ -213,6 +213,7 @@ final class PenalizedObjective {
         final double[] vals = lay.vals;
         final int[] first = lay.first;
         final int[] start = lay.binStart;
+        final boolean[] oneSpan = lay.oneSpan;
         final double z = zScaled;
         final double nz = total / z;
         final boolean countsMode = counts != null;
@@ -232,7 +233,7 @@ final class PenalizedObjective {
             double coefR = cj - nz; // r_q = e_q coefR
             int lo = lay.binLo[j], hi = lay.binHi[j];
             int q0 = start[j], q1 = start[j + 1];
-            if (w == 4 && hi - lo == 4 && q1 > q0 && first[q0] == lo && first[q1 - 1] == lo) {
+            if (oneSpan[j]) {
                 // a bin inside one knot span (most bins): the general loops below, with the bin's
                 // four moments and the span's sums in registers (the 10-term second-moment block
                 // repeats the one below on purpose: one loop for both measured 3–8 % slower)
