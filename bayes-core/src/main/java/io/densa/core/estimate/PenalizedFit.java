@@ -356,11 +356,11 @@ final class PenalizedFit {
         CrossValidationFolds cv = criterion == SmoothingCriterion.CROSS_VALIDATION ? new CrossValidationFolds(eng, sample, folds, seed, index, k,
                 maxIterations, Math.max(tolerance, SmoothingSearch.SEARCH_TOLERANCE)) : null;
         double lambda;
-        double[] plausible = {Double.NaN};
+        double[] found = {Double.NaN, Double.NaN};
         if (!choose) {
             lambda = fixedLambda;
         } else {
-            lambda = search.choose(eng, scale, cv, plausible);
+            lambda = search.choose(eng, scale, cv, found);
         }
         boolean ok = eng.solve(lambda, maxIterations, tolerance);
         String reason = ok ? "" : eng.failure();
@@ -413,11 +413,11 @@ final class PenalizedFit {
                             criterion, crit, edf, loglik, eng.total(), iterations, cov, Double.NaN, Double.NaN));
         }
         if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD
-                && addSmoothingUncertainty(eng, lambda, crit, cv, cov, plausible[0])) {
+                && addSmoothingUncertainty(eng, lambda, crit, cv, cov, found[0], found[1])) {
             reason = (reason.isEmpty() ? "" : reason + "; ") + String.format(java.util.Locale.ROOT,
                     "lambda weakly determined by the data (marginal likelihood flat or not convex at the"
                     + " choice): its uncertainty term is bounded by the plausible range of lambda, %.1f decades",
-                    plausible[0]);
+                    found[0]);
         }
         EstimationSupport.projectPsd(cov, k);
         edf = Math.max(0.0, edf); // tr(J⁻¹F) ≥ 0; rounding gives −1e-22 when F vanishes
@@ -501,33 +501,44 @@ final class PenalizedFit {
      * Adds the first-order effect of the uncertainty of ρ = ln λ chosen by the marginal likelihood:
      * cov += V_ρ (dc/dρ)(dc/dρ)', dc/dρ = −U H⁻¹ 2λPβ (implicit differentiation of the penalised
      * score equation, H the Newton matrix of the final fit, {@link PenalizedNewton#smoothingTangent}),
-     * V_ρ = 2 / V''(ρ) from a central difference of the criterion V = −2 log
-     * marginal likelihood over ±h decades (Wood, Pya &amp; Säfken (2016), Smoothing parameter and
-     * model selection for general smooth models, JASA 111, §3; from memory), at most W²/4 for the
-     * plausible range of ρ, of width W ({@link SmoothingSearch#plausibleWidth} decades times ln 10):
-     * no law on an interval of width W has a larger variance (Popoviciu (1935), Sur les équations algébriques
-     * ayant toutes leurs racines réelles, Mathematica (Cluj) 9; from memory, and elementary:
-     * Var X ≤ E(X − m)² ≤ (W/2)² for m the interval's midpoint). The bound also stands in where V
-     * is not convex at λ̂. Restores β (not the evaluation at β, which the caller no longer reads).
+     * V_ρ = 2 / V''(ρ) for the criterion V = −2 log marginal likelihood (Wood, Pya &amp; Säfken
+     * (2016), Smoothing parameter and model selection for general smooth models, JASA 111, §3; from
+     * memory), at most W²/4 for the plausible range of ρ, of width W
+     * ({@link SmoothingSearch#plausibleWidth} decades times ln 10): no law on an interval of width W
+     * has a larger variance (Popoviciu (1935), Sur les équations algébriques ayant toutes leurs
+     * racines réelles, Mathematica (Cluj) 9; from memory, and elementary: Var X ≤ E(X − m)² ≤ (W/2)²
+     * for m the interval's midpoint). The bound also stands in where V is not convex at λ̂. V'' is
+     * the search's own (the cubic through its four values nearest to the choice, which bracket it:
+     * no further fit) and otherwise a central difference over ±h decades from two more fits. On
+     * 500 seasonal units (the benchmark's histograms; 407 had a bracketing search) the search's value
+     * was within 0.96–1.03 of the central difference for 90 % of the units, and the λ-uncertainty
+     * term within 0.78–1.17 of the central difference's (median 1.001); the replicate study's
+     * reported / empirical traces moved by at most 0.003 in the mean; the two fits had cost 16 %
+     * of the λ choice (measured 2026-12-04). Restores β
+     * (not the evaluation at β, which the caller no longer reads).
      *
+     * @param searchCurvature V''(log10 λ) from the search, or NaN
      * @return whether the bound, not the local value, gave V_ρ
      */
     private boolean addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, CrossValidationFolds cv,
-            double[] cov, double plausibleWidth) {
+            double[] cov, double plausibleWidth, double searchCurvature) {
         double[] dBeta = new double[k + 1];
         eng.smoothingTangent(lambda, dBeta);
         double[] dc = new double[k];
         EstimationSupport.toCoordinates(u, k, dBeta, dc, 0);
-        double[] saved = eng.coefficients();
-        double h = SMOOTHING_STEP;
-        double dRho = h * Math.log(10);
-        // each side's fit starts from the first-order prediction β ± dRho dβ/dρ
-        eng.setCoefficientsAlong(saved, dRho, dBeta);
-        double up = search.criterionAt(eng, lambda * Math.pow(10, h), cv);
-        eng.setCoefficientsAlong(saved, -dRho, dBeta);
-        double down = search.criterionAt(eng, lambda * Math.pow(10, -h), cv);
-        eng.setCoefficients(saved); // the caller reads only β from here on: no re-evaluation
-        double curvG = (up - 2 * crit + down) / (h * h);
+        double curvG = searchCurvature;
+        if (!Double.isFinite(curvG)) {
+            double[] saved = eng.coefficients();
+            double h = SMOOTHING_STEP;
+            double dRho = h * Math.log(10);
+            // each side's fit starts from the first-order prediction β ± dRho dβ/dρ
+            eng.setCoefficientsAlong(saved, dRho, dBeta);
+            double up = search.criterionAt(eng, lambda * Math.pow(10, h), cv);
+            eng.setCoefficientsAlong(saved, -dRho, dBeta);
+            double down = search.criterionAt(eng, lambda * Math.pow(10, -h), cv);
+            eng.setCoefficients(saved); // the caller reads only β from here on: no re-evaluation
+            curvG = (up - 2 * crit + down) / (h * h);
+        }
         // in decades²: the local value where V is convex at λ̂, within the bound of the plausible range
         double local = curvG > 0 && Double.isFinite(curvG) ? 2 / curvG : Double.POSITIVE_INFINITY;
         double bound = plausibleWidth > 0 ? 0.25 * plausibleWidth * plausibleWidth : Double.POSITIVE_INFINITY;

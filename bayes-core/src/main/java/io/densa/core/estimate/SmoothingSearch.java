@@ -89,12 +89,13 @@ final class SmoothingSearch {
      * {@link #EDGE_STEP} decades inside gives a value at least as large), that end is the choice
      * without the golden-section search, which would end there too for a criterion monotone on the
      * last step; otherwise the search runs as before. Leaves the engine at the coefficients of the
-     * best fit found; plausible[0] receives {@link #plausibleWidth} of the grid values the scan
+     * best fit found; found[0] receives {@link #plausibleWidth} of the grid values the scan
      * computed (no further fits: scanning on until the criterion had risen by
      * {@link #PLAUSIBLE_RISE} changed the replicate study's ratios by at most 0.02 and cost 6 % more
-     * time).
+     * time), found[1] the curvature of the criterion at the choice from the values the search
+     * computed ({@link Evaluations#curvatureAt}; NaN where they do not determine it).
      */
-    double choose(PenalizedNewton eng, double scale, CrossValidationFolds cv, double[] plausible) {
+    double choose(PenalizedNewton eng, double scale, CrossValidationFolds cv, double[] found) {
         int steps = (int) Math.floor((gridHi - gridLo) / gridStep + 1e-9);
         double[] scanG = new double[steps + 1];
         double[] scanC = new double[steps + 1];
@@ -102,6 +103,8 @@ final class SmoothingSearch {
         double bestG = gridHi, bestC = Double.POSITIVE_INFINITY;
         double[] bestBeta = new double[k + 1];
         Path path = new Path(k, criterion != SmoothingCriterion.CROSS_VALIDATION);
+        Evaluations evaluated = new Evaluations(steps + 1 + 4 + GOLDEN_STEPS + 2);
+        found[1] = Double.NaN;
         int rising = 0;
         double prev = Double.POSITIVE_INFINITY;
         double cAbove = Double.POSITIVE_INFINITY, cBelow = Double.POSITIVE_INFINITY;
@@ -110,6 +113,7 @@ final class SmoothingSearch {
             double c = criterionAt(eng, lambdaAt(eng.total(), scale, g), cv);
             scanG[scanned] = g;
             scanC[scanned++] = c;
+            evaluated.add(g, c);
             if (c < bestC) {
                 bestC = c;
                 bestG = g;
@@ -131,7 +135,7 @@ final class SmoothingSearch {
             }
             prev = c;
         }
-        plausible[0] = plausibleWidth(scanG, scanC, scanned, gridStep);
+        found[0] = plausibleWidth(scanG, scanC, scanned, gridStep);
         double denom = cAbove - 2 * bestC + cBelow;
         if (Double.isFinite(denom) && denom > 0) {
             // three steps of successive parabolic interpolation in g = log10(λ) (Brent 1973,
@@ -173,6 +177,7 @@ final class SmoothingSearch {
                 }
                 path.startNearBest(eng, bestBeta, bestG, x);
                 double c = criterionAt(eng, lambdaAt(eng.total(), scale, x), cv);
+                evaluated.add(x, c);
                 if (m == 3) {
                     gs[3] = x;
                     cs[3] = c;
@@ -197,17 +202,21 @@ final class SmoothingSearch {
             }
             double lambda = lambdaAt(eng.total(), scale, bestG);
             eng.setCoefficients(bestBeta);
+            found[1] = evaluated.curvatureAt(bestG);
             return lambda;
         } else {
             if (bestG >= gridHi && bestC < Double.POSITIVE_INFINITY) {
                 path.startNearBest(eng, bestBeta, bestG, bestG - EDGE_STEP);
                 double inside = criterionAt(eng, lambdaAt(eng.total(), scale, bestG - EDGE_STEP), cv);
+                evaluated.add(bestG - EDGE_STEP, inside);
                 if (inside >= bestC) {
                     eng.setCoefficients(bestBeta);
                     return lambdaAt(eng.total(), scale, bestG);
                 }
             }
-            return golden(eng, scale, cv, bestG, bestC, bestBeta, path);
+            double g = golden(eng, scale, cv, bestG, bestC, bestBeta, path, evaluated);
+            found[1] = evaluated.curvatureAt(g);
+            return lambdaAt(eng.total(), scale, g);
         }
     }
 
@@ -243,16 +252,107 @@ final class SmoothingSearch {
      */
     static final double EDGE_STEP = 0.01;
 
-    /** Golden-section refinement of log10 λ on [bestG − step, bestG + step] (grid ends or flat spots). */
+    /**
+     * Golden-section refinement of log10 λ on [bestG − step, bestG + step] (grid ends or flat spots);
+     * returns the chosen log10 λ.
+     */
     private double golden(PenalizedNewton eng, double scale, CrossValidationFolds cv, double bestG, double bestC,
-            double[] bestBeta, Path path) {
+            double[] bestBeta, Path path, Evaluations evaluated) {
         double lo = Math.max(gridLo, bestG - gridStep), hi = Math.min(gridHi, bestG + gridStep);
         double gBest = GoldenSection.minimise(x -> {
             path.startNearBest(eng, bestBeta, bestG, x);
-            return criterionAt(eng, lambdaAt(eng.total(), scale, x), cv);
+            double c = criterionAt(eng, lambdaAt(eng.total(), scale, x), cv);
+            evaluated.add(x, c);
+            return c;
         }, lo, hi, GOLDEN_STEPS, bestG, bestC);
         eng.setCoefficients(bestBeta);
-        return lambdaAt(eng.total(), scale, gBest);
+        return gBest;
+    }
+
+    /**
+     * The criterion values one search computed, in log10 λ, and the curvature they give at the choice.
+     * Per call of {@link #choose}.
+     */
+    static final class Evaluations {
+        /**
+         * Closest spacing (decades) of two values used together: below it their difference would
+         * be mostly the error of the search fits (10⁻⁹ relative in the penalised log-likelihood).
+         */
+        static final double MIN_SPACING = 0.01;
+        final double[] g;
+        final double[] c;
+        int n;
+
+        Evaluations(int capacity) {
+            g = new double[capacity];
+            c = new double[capacity];
+        }
+
+        void add(double x, double v) {
+            if (n < g.length && Double.isFinite(v)) {
+                g[n] = x;
+                c[n++] = v;
+            }
+        }
+
+        /**
+         * V''(x0) in decades⁻² from the cubic through x0's value, the nearest value on each side and
+         * the next nearest, no two closer than {@link #MIN_SPACING}: the second derivative of the
+         * interpolating polynomial at an interior node (divided differences; Burden &amp; Faires
+         * (2011), Numerical Analysis, 9th ed., §3.3 and §4.1; from memory, and elementary: exact
+         * for cubics, checked so in {@code SmoothingSearchTest}). NaN when x0 was not evaluated or
+         * the values do not bracket it.
+         */
+        double curvatureAt(double x0) {
+            double[] t = new double[4];
+            double[] y = new double[4];
+            int self = -1, below = -1, above = -1;
+            for (int i = 0; i < n; i++) {
+                double d = g[i] - x0;
+                if (d == 0) {
+                    self = i;
+                } else if (d <= -MIN_SPACING && (below < 0 || d > g[below] - x0)) {
+                    below = i;
+                } else if (d >= MIN_SPACING && (above < 0 || d < g[above] - x0)) {
+                    above = i;
+                }
+            }
+            if (self < 0 || below < 0 || above < 0) {
+                return Double.NaN;
+            }
+            int fourth = -1;
+            for (int i = 0; i < n; i++) {
+                double d = Math.abs(g[i] - x0);
+                if (d >= MIN_SPACING && Math.abs(g[i] - g[below]) >= MIN_SPACING
+                        && Math.abs(g[i] - g[above]) >= MIN_SPACING && (fourth < 0 || d < Math.abs(g[fourth] - x0))) {
+                    fourth = i;
+                }
+            }
+            if (fourth < 0) {
+                return Double.NaN;
+            }
+            int[] pick = {self, below, above, fourth};
+            for (int j = 0; j < 4; j++) {
+                t[j] = g[pick[j]] - x0;
+                y[j] = c[pick[j]];
+            }
+            return cubicSecondDerivativeAtZero(t, y);
+        }
+    }
+
+    /**
+     * p''(0) of the cubic p through (t_i, y_i), i = 0..3 (distinct t): Newton's divided differences
+     * p(t) = y0 + d1 (t − t0) + d2 (t − t0)(t − t1) + d3 (t − t0)(t − t1)(t − t2).
+     */
+    static double cubicSecondDerivativeAtZero(double[] t, double[] y) {
+        double[] d = y.clone();
+        for (int level = 1; level < 4; level++) {
+            for (int i = 3; i >= level; i--) {
+                d[i] = (d[i] - d[i - 1]) / (t[i] - t[i - level]);
+            }
+        }
+        // p''(t) = 2 d2 + d3 (6t − 2(t0 + t1 + t2))
+        return 2 * d[2] - 2 * d[3] * (t[0] + t[1] + t[2]);
     }
 
     static double lambdaAt(double total, double scale, double g) {
