@@ -1,8 +1,8 @@
 package io.densa.core.estimate;
 
+import io.densa.core.estimate.EstimationSupport.SampleData;
 import io.densa.core.internal.Seeds;
 import java.util.SplittableRandom;
-import io.densa.core.estimate.EstimationSupport.SampleData;
 
 /**
  * The fold structure of one unit for the cross-validation criterion of

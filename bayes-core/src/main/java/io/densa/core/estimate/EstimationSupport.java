@@ -2,12 +2,8 @@ package io.densa.core.estimate;
 
 import io.densa.core.Basis;
 import io.densa.core.BayesSpace;
-import io.densa.core.DensaException;
-import io.densa.core.SolveDiagnostics;
 import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.RawBasis;
-import org.ejml.data.DMatrixRMaj;
-import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
 
 /** Validation and coordinate transforms shared by the estimators. Internal. */
 final class EstimationSupport {
@@ -203,70 +199,6 @@ final class EstimationSupport {
             c[i * k + i] = v;
         }
         return c;
-    }
-
-    /**
-     * Makes a symmetric covariance positive semi-definite in place when it is not: cov = V Λ V' is
-     * replaced by V Λ₊ V' (negative eigenvalues set to 0), the nearest positive semi-definite matrix
-     * in the Frobenius norm (Higham (1988), Computing a nearest symmetric positive semidefinite
-     * matrix, Linear Algebra Appl. 103; from memory). A matrix with a Cholesky factor (positive
-     * definite), or whose eigenvalues are all ≥ 0, is left untouched (bit for bit). Sandwich
-     * covariances are positive semi-definite in exact arithmetic; when the data carry almost no
-     * information in some direction (e.g. identical observations) rounding can leave eigenvalues of
-     * −1e-20 and a diagonal entry slightly below 0.
-     *
-     * @return true when the matrix was changed
-     */
-    static boolean projectPsd(double[] cov, int k) {
-        boolean negDiag = false;
-        for (int i = 0; i < k; i++) {
-            negDiag |= cov[i * k + i] < 0;
-        }
-        if (!negDiag && Cholesky.factor(cov.clone(), k, k, 0) < 0) {
-            // positive definite (a Cholesky factor with positive pivots exists): nothing to change,
-            // and the eigen-decomposition (about 60 times the work) is not needed
-            return false;
-        }
-        DMatrixRMaj m = new DMatrixRMaj(k, k, true, cov);
-        org.ejml.interfaces.decomposition.EigenDecomposition_F64<DMatrixRMaj> eig =
-                DecompositionFactory_DDRM.eig(k, true, true);
-        if (!eig.decompose(m)) {
-            if (negDiag) {
-                throw new DensaException("covariance eigen-decomposition failed (" + k + " x " + k + ")",
-                        new SolveDiagnostics("eigen-decomposition of a covariance", k, Double.NaN));
-            }
-            return false;
-        }
-        boolean neg = false;
-        for (int i = 0; i < k; i++) {
-            neg |= eig.getEigenvalue(i).getReal() < 0;
-        }
-        if (!neg && !negDiag) {
-            return false;
-        }
-        double[] out = new double[k * k];
-        for (int e = 0; e < k; e++) {
-            double l = eig.getEigenvalue(e).getReal();
-            DMatrixRMaj v = eig.getEigenVector(e);
-            if (!(l > 0) || v == null) {
-                continue;
-            }
-            for (int i = 0; i < k; i++) {
-                double vi = l * v.data[i];
-                for (int j = 0; j < k; j++) {
-                    out[i * k + j] += vi * v.data[j];
-                }
-            }
-        }
-        for (int i = 0; i < k; i++) { // exact symmetry
-            for (int j = 0; j < i; j++) {
-                double a = 0.5 * (out[i * k + j] + out[j * k + i]);
-                out[i * k + j] = a;
-                out[j * k + i] = a;
-            }
-        }
-        System.arraycopy(out, 0, cov, 0, k * k);
-        return true;
     }
 
     /** XᵀX (p × p, row-major) of a row-major n × p matrix X, accumulated row by row. */
@@ -560,6 +492,49 @@ final class EstimationSupport {
                 }
             }
             return new double[] {x[0] == x[m - 1] ? period : length, end};
+        }
+
+        /**
+         * The empirical information of a weighted sample: with φ_i the raw
+         * functions at x_i, M = (Σ w_i²/W) Σ_i w_i (φ_i − φ̄)(φ_i − φ̄)', φ̄ = Σ_i w_i φ_i / W — the
+         * score variance Σ w_i² Cov(φ) with Cov(φ) estimated from the sample instead of the fit.
+         * Written into meat (K × K, row-major); mvec (K) is scratch.
+         */
+        void empiricalInformation(int k, double total, double total2, double[] mvec, double[] meat) {
+            java.util.Arrays.fill(meat, 0.0);
+            java.util.Arrays.fill(mvec, 0.0);
+            final int n = first.length;
+            for (int o = 0; o < n; o++) {
+                double wo = w[o];
+                if (wo == 0.0) {
+                    continue;
+                }
+                int f = first[o], base = o * width;
+                for (int i = 0; i < width && f + i < k; i++) {
+                    double vi = wo * vals[base + i];
+                    mvec[f + i] += vi;
+                    int row = (f + i) * k + f;
+                    for (int l = 0; l <= i; l++) {
+                        meat[row + l] += vi * vals[base + l];
+                    }
+                }
+            }
+            double c = 1.0 / total;
+            for (int i = 0; i < k; i++) {
+                double mi = c * mvec[i];
+                int row = i * k;
+                for (int l = 0; l <= i; l++) {
+                    meat[row + l] -= mi * mvec[l];
+                }
+            }
+            double g = total2 / total;
+            for (int i = 0; i < k; i++) {
+                for (int l = 0; l <= i; l++) {
+                    double v = g * meat[i * k + l];
+                    meat[i * k + l] = v;
+                    meat[l * k + i] = v;
+                }
+            }
         }
     }
 

@@ -1,7 +1,11 @@
 package io.densa.core.estimate;
 
+import io.densa.core.DensaException;
+import io.densa.core.SolveDiagnostics;
 import io.densa.core.internal.Cholesky;
 import java.util.Arrays;
+import org.ejml.data.DMatrixRMaj;
+import org.ejml.dense.row.factory.DecompositionFactory_DDRM;
 
 /**
  * The covariance step of {@link PenalizedNewton}: the Cholesky factor of the penalised
@@ -226,5 +230,69 @@ final class NewtonCovariance {
                 wm[rj + i] = s;
             }
         }
+    }
+
+    /**
+     * Makes a symmetric covariance positive semi-definite in place when it is not: cov = V Λ V' is
+     * replaced by V Λ₊ V' (negative eigenvalues set to 0), the nearest positive semi-definite matrix
+     * in the Frobenius norm (Higham (1988), Computing a nearest symmetric positive semidefinite
+     * matrix, Linear Algebra Appl. 103; from memory). A matrix with a Cholesky factor (positive
+     * definite), or whose eigenvalues are all ≥ 0, is left untouched (bit for bit). Sandwich
+     * covariances are positive semi-definite in exact arithmetic; when the data carry almost no
+     * information in some direction (e.g. identical observations) rounding can leave eigenvalues of
+     * −1e-20 and a diagonal entry slightly below 0.
+     *
+     * @return true when the matrix was changed
+     */
+    static boolean projectPsd(double[] cov, int k) {
+        boolean negDiag = false;
+        for (int i = 0; i < k; i++) {
+            negDiag |= cov[i * k + i] < 0;
+        }
+        if (!negDiag && Cholesky.factor(cov.clone(), k, k, 0) < 0) {
+            // positive definite (a Cholesky factor with positive pivots exists): nothing to change,
+            // and the eigen-decomposition (about 60 times the work) is not needed
+            return false;
+        }
+        DMatrixRMaj m = new DMatrixRMaj(k, k, true, cov);
+        org.ejml.interfaces.decomposition.EigenDecomposition_F64<DMatrixRMaj> eig =
+                DecompositionFactory_DDRM.eig(k, true, true);
+        if (!eig.decompose(m)) {
+            if (negDiag) {
+                throw new DensaException("covariance eigen-decomposition failed (" + k + " x " + k + ")",
+                        new SolveDiagnostics("eigen-decomposition of a covariance", k, Double.NaN));
+            }
+            return false;
+        }
+        boolean neg = false;
+        for (int i = 0; i < k; i++) {
+            neg |= eig.getEigenvalue(i).getReal() < 0;
+        }
+        if (!neg && !negDiag) {
+            return false;
+        }
+        double[] out = new double[k * k];
+        for (int e = 0; e < k; e++) {
+            double l = eig.getEigenvalue(e).getReal();
+            DMatrixRMaj v = eig.getEigenVector(e);
+            if (!(l > 0) || v == null) {
+                continue;
+            }
+            for (int i = 0; i < k; i++) {
+                double vi = l * v.data[i];
+                for (int j = 0; j < k; j++) {
+                    out[i * k + j] += vi * v.data[j];
+                }
+            }
+        }
+        for (int i = 0; i < k; i++) { // exact symmetry
+            for (int j = 0; j < i; j++) {
+                double a = 0.5 * (out[i * k + j] + out[j * k + i]);
+                out[i * k + j] = a;
+                out[j * k + i] = a;
+            }
+        }
+        System.arraycopy(out, 0, cov, 0, k * k);
+        return true;
     }
 }

@@ -266,7 +266,7 @@ final class PenalizedFit {
                 double[] v = values[i];
                 double[] w = weights == null ? null : weights[i];
                 SampleData sd = new SampleData(v, w, basis, width, k, scratch);
-                eng.useSample(sd.linear, sd.first, sd.vals, sd.w, sd.width, totals[i], totals2[i]);
+                eng.useSample(sd, totals[i], totals2[i]);
                 diag[i] = fitUnit(eng, domainScale, id, i, out, sd);
             }
             done.advance(i1 - blk * UNITS_PER_BLOCK);
@@ -419,7 +419,7 @@ final class PenalizedFit {
                     + " choice): its uncertainty term is bounded by the plausible range of lambda, %.1f decades",
                     found[0]);
         }
-        EstimationSupport.projectPsd(cov, k);
+        NewtonCovariance.projectPsd(cov, k);
         edf = Math.max(0.0, edf); // tr(J⁻¹F) ≥ 0; rounding gives −1e-22 when F vanishes
         eng.coordinatesInto(u, out, index * k);
         for (int i = 0; i < k; i++) {

@@ -135,12 +135,11 @@ import io.densa.core.estimate.BinLayout.CensoredCounts;
  * </ul>
  * With a fixed λ it is conditional on λ. With λ chosen per unit by
  * {@link SmoothingCriterion#MARGINAL_LIKELIHOOD} (the default) the first-order effect of the
- * uncertainty of ρ = ln λ̂ is added, V_ρ (dĉ/dρ)(dĉ/dρ)' with dĉ/dρ = −H⁻¹ 2λΩĉ, H the
- * observed penalised information of the fit's last Newton iteration (implicit
- * differentiation of the penalised score equation) and V_ρ = 2/V''(ρ), V'' from the cubic
- * through the search's own criterion values nearest to λ̂ where they bracket it (no further
- * fit), otherwise from a central difference over ±0.25 decade (two more warm-started fits;
- * Wood, Pya &amp; Säfken (2016), Smoothing parameter and model selection for general smooth
+ * uncertainty of ρ = ln λ̂ is added, V_ρ (dĉ/dρ)(dĉ/dρ)' with dĉ/dρ = −H⁻¹ 2λΩĉ, H the observed
+ * penalised information of the fit's last Newton iteration (implicit differentiation of the
+ * penalised score equation) and V_ρ = 2/V''(ρ), V'' from the cubic through the search's criterion
+ * values nearest to λ̂ where they bracket it, else from a central difference over ±0.25 decade (two
+ * more fits; Wood, Pya &amp; Säfken (2016), Smoothing parameter and model selection for general smooth
  * models, JASA 111, §3; from memory); without it, reported / empirical traces over replicates with
  * their own λ̂ were 0.92, 0.74 and 0.51 at 2,000, 100 and 40 events (normal truth), with it 0.98,
  * 0.91 and 0.81 (mixture truth: 0.93, 0.79, 0.74); these figures are from before the reference

@@ -1,5 +1,6 @@
 package io.densa.core.estimate;
 
+import io.densa.core.estimate.EstimationSupport.SampleData;
 import io.densa.core.internal.Cholesky;
 import java.util.Arrays;
 
@@ -426,10 +427,10 @@ final class PenalizedNewton {
         lik.setCounts(c, n);
     }
 
-    /** Sample mode: the sufficient statistic (K + 1 values, copied), the local basis values and weights, the totals. */
-    void useSample(double[] lin, int[] first, double[] vals, double[] weights, int width, double n, double n2) {
+    /** Sample mode: the sample (its sufficient statistic copied) and the totals. */
+    void useSample(SampleData s, double n, double n2) {
         resumable = false;
-        lik.useSample(lin, first, vals, weights, width, n, n2);
+        lik.useSample(s, n, n2);
     }
 
     /** Replaces the sample statistic (K + 1 values, copied) and the totals (a fold's training part). */

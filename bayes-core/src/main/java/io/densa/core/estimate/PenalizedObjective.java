@@ -1,5 +1,6 @@
 package io.densa.core.estimate;
 
+import io.densa.core.estimate.EstimationSupport.SampleData;
 import io.densa.core.internal.KernelPath;
 import io.densa.core.internal.Kernels;
 import java.util.Arrays;
@@ -39,11 +40,8 @@ final class PenalizedObjective {
     private double total;
     private double total2;
     private final double[] linear;
-    /** Sample mode: per-observation first raw index, local basis values (n × width) and weights. */
-    private int[] sampleFirst;
-    private double[] sampleVals;
-    private double[] sampleWeights;
-    private int sampleWidth;
+    /** Sample mode: the per-observation local basis values and weights (for the empirical information). */
+    private SampleData sample;
 
     // the last evaluation and its derivatives
     final double[] grad;
@@ -442,49 +440,6 @@ final class PenalizedObjective {
         lay.empiricalInformation(ex, mass, counts, total, k, uj, mvec, meat);
     }
 
-    /**
-     * The empirical information of a weighted sample (sample mode, arrays set): with φ_i the raw
-     * functions at x_i, M = (Σ w_i²/W) Σ_i w_i (φ_i − φ̄)(φ_i − φ̄)', φ̄ = Σ_i w_i φ_i / W — the
-     * score variance Σ w_i² Cov(φ) with Cov(φ) estimated from the sample instead of the fit.
-     * Written into meat (K × K, row-major).
-     */
-    void empiricalInformationSample(double[] meat) {
-        Arrays.fill(meat, 0.0);
-        Arrays.fill(mvec, 0.0);
-        final int w = sampleWidth, n = sampleFirst.length;
-        for (int o = 0; o < n; o++) {
-            double wo = sampleWeights[o];
-            if (wo == 0.0) {
-                continue;
-            }
-            int f = sampleFirst[o], base = o * w;
-            for (int i = 0; i < w && f + i < k; i++) {
-                double vi = wo * sampleVals[base + i];
-                mvec[f + i] += vi;
-                int row = (f + i) * k + f;
-                for (int l = 0; l <= i; l++) {
-                    meat[row + l] += vi * sampleVals[base + l];
-                }
-            }
-        }
-        double c = 1.0 / total;
-        for (int i = 0; i < k; i++) {
-            double mi = c * mvec[i];
-            int row = i * k;
-            for (int l = 0; l <= i; l++) {
-                meat[row + l] -= mi * mvec[l];
-            }
-        }
-        double g = total2 / total;
-        for (int i = 0; i < k; i++) {
-            for (int l = 0; l <= i; l++) {
-                double v = g * meat[i * k + l];
-                meat[i * k + l] = v;
-                meat[l * k + i] = v;
-            }
-        }
-    }
-
     // ---------------------------------------------------------------- state, owned here
 
     /** Counts mode: the unit's counts (not copied; not modified here) and total N, with Σw² = N and no sample. */
@@ -518,16 +473,18 @@ final class PenalizedObjective {
         occupiedCount = m;
     }
 
-    /** Sample mode: the sufficient statistic (K + 1 values, copied), the local basis values and weights, the totals. */
-    void useSample(double[] lin, int[] first, double[] vals, double[] weights, int width, double n, double n2) {
+    /** Sample mode: the sample (its sufficient statistic copied) and the totals. */
+    void useSample(SampleData s, double n, double n2) {
         counts = null;
         total = n;
         total2 = n2;
-        System.arraycopy(lin, 0, linear, 0, k + 1);
-        sampleFirst = first;
-        sampleVals = vals;
-        sampleWeights = weights;
-        sampleWidth = width;
+        System.arraycopy(s.linear, 0, linear, 0, k + 1);
+        sample = s;
+    }
+
+    /** The empirical information of the sample ({@link SampleData#empiricalInformation}) into meat. */
+    void empiricalInformationSample(double[] meat) {
+        sample.empiricalInformation(k, total, total2, mvec, meat);
     }
 
     /** Replaces the sample statistic (K + 1 values, copied) and the totals (a fold's training part). */
@@ -562,7 +519,7 @@ final class PenalizedObjective {
 
     /** Whether a sample's per-observation arrays are set (for its empirical information). */
     boolean hasSample() {
-        return sampleFirst != null;
+        return sample != null;
     }
 
     /** Total weight N of the current data. */

@@ -295,7 +295,7 @@ public final class SmoothingSplineEstimator implements CountEstimator {
                 double lambda = choose ? des.choose(z, yy) : fixedLambda;
                 double[] g = des.gcv(z, yy, lambda);
                 double[] cov = des.fitted(z, lambda, g[1], coef);
-                EstimationSupport.projectPsd(cov, k);
+                NewtonCovariance.projectPsd(cov, k);
                 System.arraycopy(coef, 1, out, i * k, k);
                 // multinomial log-likelihood of the counts under the fit
                 Cholesky.transposeTimes(t, k, out, i * k, raw);
