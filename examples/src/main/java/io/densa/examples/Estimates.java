@@ -17,9 +17,11 @@ import io.densa.core.estimate.EstimationDiagnostics;
  *                            ({@link EstimationDiagnostics#extrapolationShare()})
  * @param extrapolated        ids of the units whose estimate is carried by extrapolation
  *                            ({@link EstimationDiagnostics#extrapolated()})
+ * @param batch               the estimator's result itself (for intervals of derived quantities)
  */
 record Estimates(DensitySet densities, double[] variances, int notConverged, double minEdf, double maxEdf,
-        java.util.List<String> problems, double[] extrapolationShares, java.util.List<String> extrapolated) {
+        java.util.List<String> problems, double[] extrapolationShares, java.util.List<String> extrapolated,
+        BatchEstimate batch) {
 
     /** Summarises a batch from the estimator. */
     static Estimates of(BatchEstimate est) {
@@ -34,6 +36,6 @@ record Estimates(DensitySet densities, double[] variances, int notConverged, dou
             }
         }
         return new Estimates(est.densities(), est.estimationVariances(), est.flaggedRows().size(), lo, hi,
-                java.util.List.copyOf(problems), est.extrapolationShares(), est.extrapolatedIds());
+                java.util.List.copyOf(problems), est.extrapolationShares(), est.extrapolatedIds(), est);
     }
 }

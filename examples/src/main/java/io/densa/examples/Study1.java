@@ -2,6 +2,7 @@ package io.densa.examples;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.core.estimate.BatchEstimate;
 import io.densa.regression.surveillance.AnomalyScoring;
 import io.densa.regression.Design;
 import io.densa.regression.surveillance.ExcessCounts;
@@ -25,6 +26,9 @@ import io.densa.spatial.variogram.VariogramOptions;
 import io.densa.spatial.autocorrelation.LocalMoran;
 import io.densa.spatial.autocorrelation.MoranI;
 import io.densa.spatial.scan.SpatialScan;
+import io.densa.spatial.uncertainty.EstimateUncertainty;
+import io.densa.spatial.uncertainty.UncertaintyOptions;
+import io.densa.spatial.uncertainty.UnitUncertainty;
 import io.densa.spatial.SpatialWeights;
 import io.densa.report.chart.Axis;
 import io.densa.report.chart.Chart;
@@ -90,6 +94,8 @@ final class Study1 {
         String clustering;
         BayesSpace space;
         DensitySet[] seasons;
+        /** The latest season's estimates with their covariances (for the median's interval). */
+        BatchEstimate latestEstimate;
         double[][] estimationVariance;
 
         Run(Main.Options options, Progress progress, AgeScenario sc) {
@@ -223,6 +229,7 @@ final class Study1 {
             }
             Estimates est = AgeDensities.estimate(run.space, counts, ids, lambda);
             run.seasons[s] = est.densities();
+            run.latestEstimate = est.batch();
             run.estimationVariance[s] = est.variances();
             problems.addAll(est.problems());
             notConverged += est.notConverged();
@@ -911,12 +918,30 @@ final class Study1 {
 
     // ------------------------------------------------------------------ output
 
+    /**
+     * 90 % intervals of each district's median age from its estimate's covariance
+     * ({@link EstimateUncertainty}, 1,000 draws): {lower, upper}.
+     */
+    static double[][] medianIntervals(BatchEstimate latest, long seed) {
+        List<UnitUncertainty> u = EstimateUncertainty.summarise(latest, UncertaintyOptions.withSeed(seed)
+                .withQuantiles(0.5).withDraws(1000));
+        double[][] out = new double[2][u.size()];
+        for (int i = 0; i < u.size(); i++) {
+            out[0][i] = u.get(i).quantiles().get(0).lower();
+            out[1][i] = u.get(i).quantiles().get(0).upper();
+        }
+        return out;
+    }
+
     static void writeTables(Run run, Baseline b, Flags f, Excess ex) {
         AgeScenario sc = run.sc;
         int n = run.n;
         double[] median = run.seasons[sc.seasons() - 1].quantiles(0.5);
+        double[][] medianInterval = medianIntervals(run.latestEstimate, run.options.seed());
         double[] expectedMedian = b.predictedLatest().quantiles(0.5);
         run.table = run.table.number("median_age", "median age (years)", median, 1)
+                .number("median_age_lo90", "median age, 90 % interval from", medianInterval[0], 1)
+                .number("median_age_hi90", "median age, 90 % interval to", medianInterval[1], 1)
                 .number("expected_median_age", "expected median age (years)", expectedMedian, 1)
                 .number("residual_norm", "residual norm", b.normLatest(), 3)
                 .number("anomaly_score", "anomaly score", b.scoreLatest(), 3)
@@ -974,6 +999,8 @@ final class Study1 {
         run.report.csv("counts.csv", counts);
         run.report.heading("Files").bullets(List.of(
                 "`districts.csv` and `districts.geojson` — one row / feature per district: covariates, visits, "
+                        + "median age with its 90 % interval (`median_age_lo90`, `median_age_hi90`: 1,000 draws "
+                        + "from the estimate's coordinate covariance, which carries the counting noise), expected "
                         + "median age, residual norm, anomaly score, conformal p-value, BH q-value, flag, the age "
                         + "ranges of excess and of deficit (columns `excess_ages` and `deficit_ages`), local pattern, "
                         + "residual FPCA scores, the injected truth, and the excess visits per age band and the "

@@ -5,6 +5,8 @@ import io.densa.core.DensaException;
 import io.densa.core.Density;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.Seeds;
+import java.util.ArrayList;
+import java.util.List;
 import java.util.SplittableRandom;
 import java.util.function.DoubleUnaryOperator;
 
@@ -48,6 +50,8 @@ final class DrawEngine {
     /** r × m: column-space perturbation per unit normal, bt[l m + i] = (E F)_{il}. */
     private final double[] bt;
     final int draws;
+    /** The central level of the intervals. */
+    final double level;
     final int cols;
     /** Columns of a block, min(cols, BLOCK). */
     final int width;
@@ -78,6 +82,7 @@ final class DrawEngine {
         this.r = r;
         this.factor = factor;
         this.draws = opt.draws();
+        this.level = opt.level();
         this.cols = draws + 1;
         this.width = Math.min(cols, BLOCK);
         this.probs = opt.probabilitiesInternal();
@@ -474,6 +479,17 @@ final class DrawEngine {
                     xx -> units.applyAsDouble(xx) * dd.pdf(xx) / space.referenceDensity(xx));
         }
         s.exact++;
+    }
+
+    /** Summaries of quantities from, …, from + count − 1 of the last evaluated location at the options' level. */
+    List<DerivedInterval> intervals(Scratch s, int from, int count) {
+        double[] v = new double[5];
+        List<DerivedInterval> out = new ArrayList<>(count);
+        for (int q = from; q < from + count; q++) {
+            summary(s, q, level, v);
+            out.add(new DerivedInterval(v[0], v[1], v[2], v[3], v[4], level, draws));
+        }
+        return out;
     }
 
     /**

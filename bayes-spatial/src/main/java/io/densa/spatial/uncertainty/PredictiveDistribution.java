@@ -12,7 +12,6 @@ import io.densa.spatial.variogram.VariogramOptions;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
 import io.densa.core.internal.Kernels;
-import java.util.ArrayList;
 import java.util.List;
 import java.util.Objects;
 import java.util.function.Consumer;
@@ -254,32 +253,16 @@ public final class PredictiveDistribution {
                     throw new DensaException("location " + i + " (" + xs[i] + ", " + ys[i] + "): " + e.getMessage(),
                             e.diagnostics());
                 }
-                out[i] = result(law(pr), engine, s, options);
+                out[i] = result(law(pr), engine, s);
             }
         });
         return List.of(out);
     }
 
-    private static LocationUncertainty result(CoordinateLaw law, DrawEngine engine, DrawEngine.Scratch s,
-            UncertaintyOptions o) {
-        double[] v = new double[5];
-        List<DerivedInterval> qs = new ArrayList<>();
-        List<DerivedInterval> ts = new ArrayList<>();
-        DerivedInterval mean = null;
-        int qi = 0;
-        for (int i = 0; i < engine.probs.length; i++, qi++) {
-            engine.summary(s, qi, o.level(), v);
-            qs.add(new DerivedInterval(v[0], v[1], v[2], v[3], v[4], o.level(), o.draws()));
-        }
-        for (int i = 0; i < engine.thresholds.length; i++, qi++) {
-            engine.summary(s, qi, o.level(), v);
-            ts.add(new DerivedInterval(v[0], v[1], v[2], v[3], v[4], o.level(), o.draws()));
-        }
-        if (engine.mean) {
-            engine.summary(s, qi, o.level(), v);
-            mean = new DerivedInterval(v[0], v[1], v[2], v[3], v[4], o.level(), o.draws());
-        }
-        return new LocationUncertainty(law, qs, ts, mean, s.exact);
+    private static LocationUncertainty result(CoordinateLaw law, DrawEngine engine, DrawEngine.Scratch s) {
+        int p = engine.probs.length, t = engine.thresholds.length;
+        return new LocationUncertainty(law, engine.intervals(s, 0, p), engine.intervals(s, p, t),
+                engine.mean ? engine.intervals(s, p + t, 1).get(0) : null, s.exact);
     }
 
     private DrawEngine engine(UncertaintyOptions options) {

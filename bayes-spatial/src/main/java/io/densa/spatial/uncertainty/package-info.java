@@ -1,5 +1,6 @@
 /**
- * Uncertainty of kriged densities in the data's units, and checks of the model behind it.
+ * Uncertainty of kriged and of estimated densities in the data's units, and checks of the model
+ * behind it.
  *
  * <h2>Semantics</h2>
  * {@link io.densa.spatial.uncertainty.PredictiveDistribution} gives the Gaussian law of the
@@ -8,7 +9,10 @@
  * seeded Monte Carlo summaries of quantiles, exceedance probabilities and means at locations
  * ({@link io.densa.spatial.uncertainty.LocationUncertainty}) or per grid cell in the tile stream
  * ({@link io.densa.spatial.uncertainty.UncertaintyTile}, {@link io.densa.spatial.uncertainty.IntervalLayer}),
- * configured by {@link io.densa.spatial.uncertainty.UncertaintyOptions}. Checks of the model:
+ * configured by {@link io.densa.spatial.uncertainty.UncertaintyOptions}. The same summaries for
+ * densities estimated from counts or samples, from each estimate's reported covariance:
+ * {@link io.densa.spatial.uncertainty.EstimateUncertainty} ({@link
+ * io.densa.spatial.uncertainty.UnitUncertainty}). Checks of the model:
  * {@link io.densa.spatial.uncertainty.ProportionalityCheck} (principal-direction variograms against
  * the trace-variogram) and {@link io.densa.spatial.uncertainty.AnisotropyTest} (directional
  * trace-variogram levels), both with Monte Carlo p-values from fields simulated under the model.
