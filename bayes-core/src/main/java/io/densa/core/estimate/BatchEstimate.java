@@ -11,12 +11,20 @@ import java.util.List;
  * @param diagnostics one record per unit, same order (unmodifiable)
  */
 public record BatchEstimate(DensitySet densities, List<EstimationDiagnostics> diagnostics) {
-    /** Copies the list into an unmodifiable one. */
+    /**
+     * Copies the list into an unmodifiable one.
+     *
+     * @throws IllegalArgumentException unless there is one diagnostics record per density
+     */
     public BatchEstimate {
+        java.util.Objects.requireNonNull(densities, "densities");
         diagnostics = List.copyOf(diagnostics);
+        if (diagnostics.size() != densities.size()) {
+            throw new IllegalArgumentException(densities.size() + " densities but " + diagnostics.size()
+                    + " diagnostics records: one per unit, in the same order");
+        }
     }
 
-    /** Number of units. */
     /** The count, the space and the first few units' diagnostics. */
     @Override
     public String toString() {
@@ -31,6 +39,7 @@ public record BatchEstimate(DensitySet densities, List<EstimationDiagnostics> di
         return sb.toString();
     }
 
+    /** Number of units. */
     public int size() {
         return densities.size();
     }

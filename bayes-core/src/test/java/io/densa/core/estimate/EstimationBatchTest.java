@@ -68,4 +68,16 @@ class EstimationBatchTest {
             }
         }
     }
+
+    /** A batch has one diagnostics record per density (a hand-made mismatch is refused, naming both counts). */
+    @Test
+    void batchNeedsOneDiagnosticsRecordPerDensity() {
+        BayesSpace space = BayesSpace.splines(0, 1, 4, 4);
+        BatchEstimate b = PenalizedLikelihoodEstimator.withDefaults(space).fitAll(edges(0, 1, 10),
+                new int[][] {{3, 1, 4, 1, 5, 9, 2, 6, 5, 3}, {2, 7, 1, 8, 2, 8, 1, 8, 2, 8}}, null);
+        IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> new BatchEstimate(b.densities(), b.diagnostics().subList(0, 1)));
+        assertTrue(e.getMessage().contains("2 densities but 1 diagnostics"), e.getMessage());
+        assertEquals(b, new BatchEstimate(b.densities(), b.diagnostics()));
+    }
 }
