@@ -110,7 +110,8 @@ final class SeasonWindows {
      * caller, since the excess over the whole year is zero by construction) and the units that did
      * not converge.
      */
-    record Periods(List<Period> periods, List<String> notConverged) {
+    /** The weekly periods, the fits that did not converge, and the last week's estimates (with covariances). */
+    record Periods(List<Period> periods, List<String> notConverged, BatchEstimate last) {
     }
 
     static Periods estimate(BayesSpace space, int[][][] weekly, String[] ids, double lambda) {
@@ -118,8 +119,9 @@ final class SeasonWindows {
         List<Period> out = new ArrayList<>(weekly.length);
         List<String> problems = new ArrayList<>();
         int first = firstWeek();
+        BatchEstimate b = null;
         for (int w = 0; w < weekly.length; w++) {
-            BatchEstimate b = est.fitAll(EDGES, weekly[w], ids);
+            b = est.fitAll(EDGES, weekly[w], ids);
             for (EstimationDiagnostics d : b.diagnostics()) {
                 if (!d.converged()) {
                     problems.add("week " + (first + w) + ", " + d.id() + ": " + d.reason());
@@ -127,7 +129,7 @@ final class SeasonWindows {
             }
             out.add(new Period(first + w, b.densities(), null, b.estimationVariances(), null, null));
         }
-        return new Periods(out, problems);
+        return new Periods(out, problems, b);
     }
 
     /**

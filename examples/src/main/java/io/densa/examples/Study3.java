@@ -201,8 +201,8 @@ final class Study3 {
                 + "unit-year).", summary.detected(),
                 shiftedCount, Double.isNaN(summary.medianDelay()) ? "–" : Study3Report.weeks(summary.medianDelay()),
                 summary.falseAlerts(), summary.unitYearsAtRisk(), summary.falseAlertsPerUnitYear()));
-        Study3Report.monitoring(report, sc, codes, names, frame, periods, weekly[weekly.length - 1], reports, monitor, summary,
-                flaggedPerWeekShifted, flaggedPerWeekOther, monitorFrom, onsetWeek, first);
+        Study3Report.monitoring(report, sc, codes, names, frame, periods, est.last(), weekly[weekly.length - 1], reports,
+                monitor, summary, flaggedPerWeekShifted, flaggedPerWeekOther, monitorFrom, onsetWeek, first);
 
         // ---------------------------------------------------------------- space–time kriging
         Study3Report.kriging(report, sc, frame, periods, last, first, metrics, progress, missing);

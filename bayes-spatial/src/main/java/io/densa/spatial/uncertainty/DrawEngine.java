@@ -61,6 +61,12 @@ final class DrawEngine {
     final int quantities;
     private final DoubleUnaryOperator units;
     private final double[] meanWeights;
+    /**
+     * On a periodic space the mean is the circular mean: weights w_i cos θ_i and w_i sin θ_i of the
+     * nodes, θ = 2π (x − lower) / P (null on an interval).
+     */
+    private final double[] cosWeights;
+    private final double[] sinWeights;
     private final boolean exactOnly;
     private final long seed;
     /** The per-location bound of 4-point panels (null for other rules). */
@@ -116,6 +122,28 @@ final class DrawEngine {
         for (int i = 0; i < m; i++) {
             meanWeights[i] = rule.w[i] * u[i];
         }
+        if (space.isPeriodic()) {
+            cosWeights = new double[m];
+            sinWeights = new double[m];
+            for (int i = 0; i < m; i++) {
+                double theta = 2 * Math.PI * (rule.x[i] - space.lower()) / space.period();
+                cosWeights[i] = rule.w[i] * Math.cos(theta);
+                sinWeights[i] = rule.w[i] * Math.sin(theta);
+            }
+        } else {
+            cosWeights = null;
+            sinWeights = null;
+        }
+    }
+
+    /**
+     * The direction lower + P·atan2(s, c)/(2π) in [lower, lower + P) of the mean resultant (c, s)
+     * (Mardia &amp; Jupp (2000), Directional Statistics, §2.2.1), as {@link Density#circularMean()}.
+     */
+    private double direction(double c, double s) {
+        double p = space.period();
+        double x = p * Math.atan2(s, c) / (2 * Math.PI);
+        return space.lower() + (x < 0 ? x + p : x);
     }
 
     /** Per-thread working storage. */
@@ -358,7 +386,17 @@ final class DrawEngine {
                 v[d0 + d] = Math.min(1, v[d0 + d] / tot[d]);
             }
         }
-        if (mean) {
+        if (mean && cosWeights != null) {
+            double[] v = s.values[qi];
+            for (int d = 0; d < nc; d++) {
+                double c = 0, sn = 0;
+                for (int i = 0; i < m; i++) {
+                    c += cosWeights[i] * g[i][d];
+                    sn += sinWeights[i] * g[i][d];
+                }
+                v[d0 + d] = direction(c, sn);
+            }
+        } else if (mean) {
             double[] v = s.values[qi];
             java.util.Arrays.fill(v, d0, d0 + nc, 0.0);
             for (int i = 0; i < m; i++) {
@@ -474,7 +512,10 @@ final class DrawEngine {
         for (double t : thresholds) {
             s.values[qi++][d] = dd.tailProbability(t);
         }
-        if (mean) {
+        if (mean && cosWeights != null) {
+            // no mean direction for a uniform draw: lower(), as atan2(0, 0) gives in the node rule
+            s.values[qi][d] = dd.meanResultantLength() >= 1e-12 ? dd.circularMean() : space.lower();
+        } else if (mean) {
             s.values[qi][d] = units == null ? dd.mean() : space.integrate(
                     xx -> units.applyAsDouble(xx) * dd.pdf(xx) / space.referenceDensity(xx));
         }
@@ -498,6 +539,13 @@ final class DrawEngine {
      */
     void summary(Scratch s, int qi, double level, double[] out) {
         double[] v = s.values[qi];
+        if (cosWeights != null && mean && qi == quantities - 1) {
+            // a circular mean: the draws unrolled around the plug-in value (within half a period of it)
+            double p = space.period(), at = v[draws];
+            for (int d = 0; d < draws; d++) {
+                v[d] = at + (v[d] - at - p * Math.rint((v[d] - at) / p));
+            }
+        }
         // four running sums each (draws d ≡ 0, 1, 2, 3 mod 4): one sum's chain of dependent additions
         // held the loop to the adder's latency
         double s0 = 0, s1 = 0, s2 = 0, s3 = 0;

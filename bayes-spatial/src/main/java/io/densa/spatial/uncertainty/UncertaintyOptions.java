@@ -16,7 +16,10 @@ import java.util.function.DoubleUnaryOperator;
  *     value of the space's variable (for densities of a log concentration, the log of the
  *     limit); {@link DerivedInterval#scaled} turns P into expected counts such as days per
  *     year above the limit;</li>
- * <li>the mean E[u(X)] ({@link #withMean}).</li>
+ * <li>the mean E[u(X)] ({@link #withMean}); on a periodic space the circular mean
+ * ({@link io.densa.core.Density#circularMean()}) in the space's own units, its draws unrolled
+ * around the estimate (within half a period of it), so that an interval may cross the cut point
+ * and extend below lower() or beyond lower() + P.</li>
  * </ul>
  * With {@link #withDataUnits} an increasing function u maps the space's variable to the units in
  * which results are reported (for example {@code Math::exp} for log concentrations): quantiles
@@ -125,7 +128,10 @@ public final class UncertaintyOptions {
                 parallel);
     }
 
-    /** Whether to summarise the mean E[u(X)] (u from {@link #withDataUnits}, the identity by default). */
+    /**
+     * Whether to summarise the mean E[u(X)] (u from {@link #withDataUnits}, the identity by default);
+     * on a periodic space the circular mean (see the class documentation).
+     */
     public UncertaintyOptions withMean(boolean m) {
         return new UncertaintyOptions(draws, seed, level, probabilities, thresholds, m, units, evaluation, parallel);
     }

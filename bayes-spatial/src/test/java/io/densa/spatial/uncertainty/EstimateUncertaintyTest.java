@@ -203,6 +203,58 @@ class EstimateUncertaintyTest {
         assertTrue(ratio > 2 && ratio < 5, "SD ratio " + ratio);
     }
 
+    /**
+     * The circular mean on a circle of 365 days: counts of a wrapped normal law (mean direction μ,
+     * Mardia &amp; Jupp (2000), Directional Statistics, §3.5.7: the wrapped normal's mean direction is
+     * μ), half of the replicates with μ = 2 days so that intervals cross the cut point at day 0:
+     * nominal 90 % intervals cover μ (unrolled around each estimate) within the binomial tolerance,
+     * and the node rule agrees with the exact evaluation ({@link Density#circularMean()} per draw).
+     */
+    @Test
+    void circularMeanIntervalsCoverTheTrueMeanDirectionAcrossTheCut() {
+        BayesSpace circle = BayesSpace.periodicSplines(0, 365, 4, 12);
+        double[] edges = new double[53];
+        for (int j = 0; j <= 52; j++) {
+            edges[j] = 365.0 * j / 52;
+        }
+        int reps = 200;
+        double[] mu = new double[reps];
+        SplittableRandom rng = new SplittableRandom(23);
+        int[][] counts = new int[reps][52];
+        for (int u = 0; u < reps; u++) {
+            mu[u] = u % 2 == 0 ? 2 : 200;
+            for (int e = 0; e < 300; e++) {
+                double day = ((mu[u] + 40 * rng.nextGaussian()) % 365 + 365) % 365;
+                counts[u][(int) Math.min(51, day / (365.0 / 52))]++;
+            }
+        }
+        String[] ids = new String[reps];
+        Arrays.setAll(ids, i -> "r" + i);
+        BatchEstimate est = PenalizedLikelihoodEstimator.withDefaults(circle).fitAll(edges, counts, ids);
+        UncertaintyOptions o = UncertaintyOptions.withSeed(8).withMean(true).withDraws(400);
+        List<UnitUncertainty> u = EstimateUncertainty.summarise(est, o);
+        int cover = 0, crossing = 0;
+        for (int i = 0; i < reps; i++) {
+            DerivedInterval m = u.get(i).mean();
+            double truth = m.estimate() + Math.IEEEremainder(mu[i] - m.estimate(), 365);
+            cover += m.lower() <= truth && truth <= m.upper() ? 1 : 0;
+            crossing += m.lower() < 0 || m.upper() >= 365 ? 1 : 0;
+            assertEquals(est.densities().get(i).circularMean(), m.estimate(), 1e-6, "plug-in of " + ids[i]);
+        }
+        System.out.printf("circular mean: coverage of nominal 90 %% %.3f (%d intervals cross the cut)%n",
+                cover / (double) reps, crossing);
+        assertTrue(Math.abs(cover / (double) reps - 0.9) <= 0.064, "coverage " + cover);
+        assertTrue(crossing > 10, "intervals across the cut: " + crossing);
+        BatchEstimate few = new BatchEstimate(est.densities().subset(0, 1), est.diagnostics().subList(0, 2));
+        List<UnitUncertainty> rule = EstimateUncertainty.summarise(few, o);
+        List<UnitUncertainty> exact = EstimateUncertainty.summarise(few, o.withEvaluation(
+                UncertaintyOptions.Evaluation.EXACT));
+        for (int i = 0; i < 2; i++) {
+            assertEquals(exact.get(i).mean().mean(), rule.get(i).mean().mean(), 1e-6);
+            assertEquals(exact.get(i).mean().sd(), rule.get(i).mean().sd(), 1e-6);
+        }
+    }
+
     static EstimationDiagnostics withCovariance(EstimationDiagnostics d, double[] cov) {
         return new EstimationDiagnostics(d.id(), d.status(), d.reason(), d.smoothing(), d.smoothingChosen(), d.criterion(),
                 d.criterionValue(), d.effectiveDegreesOfFreedom(), d.logLikelihood(), d.total(), d.iterations(), cov,
