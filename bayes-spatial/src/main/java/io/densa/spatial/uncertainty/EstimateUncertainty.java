@@ -2,9 +2,11 @@ package io.densa.spatial.uncertainty;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
+import io.densa.core.Density;
 import io.densa.core.DensitySet;
 import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.estimate.EstimationDiagnostics;
+import io.densa.core.estimate.UnitEstimate;
 import io.densa.core.internal.Kernels;
 import java.util.List;
 import java.util.Objects;
@@ -81,6 +83,19 @@ public final class EstimateUncertainty {
             }
         });
         return List.of(out);
+    }
+
+    /**
+     * Summaries for one estimate (stream 0 of the seed: the same as the first unit of a batch).
+     *
+     * @throws IllegalArgumentException as {@link #summarise(BatchEstimate, UncertaintyOptions)}
+     * @throws DensaException           when a draw cannot be evaluated
+     */
+    public static UnitUncertainty summarise(UnitEstimate estimate, UncertaintyOptions options) {
+        Objects.requireNonNull(estimate, "estimate");
+        Density d = estimate.density();
+        return summarise(new BatchEstimate(DensitySet.of(d.space(), new double[][] {d.coordinates()},
+                new String[] {estimate.diagnostics().id()}), List.of(estimate.diagnostics())), options).get(0);
     }
 
     /** F with F Fᵀ = Σ̂ (K × r row-major; one zero column for a zero covariance). */

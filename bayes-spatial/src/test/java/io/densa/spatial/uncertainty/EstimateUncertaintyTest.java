@@ -149,11 +149,12 @@ class EstimateUncertaintyTest {
     }
 
     @Test
-    void parallelAndSerialRunsAgree() {
+    void parallelAndSerialRunsAgreeAndOneUnitIsTheFirstOfABatch() {
         BatchEstimate est = estimate(20, 200, 9L);
         UncertaintyOptions o = UncertaintyOptions.withSeed(5).withQuantiles(0.25, 0.5).withExceedances(60).withMean(true);
-        assertEquals(EstimateUncertainty.summarise(est, o.withParallel(false)),
-                EstimateUncertainty.summarise(est, o.withParallel(true)));
+        List<UnitUncertainty> all = EstimateUncertainty.summarise(est, o.withParallel(false));
+        assertEquals(all, EstimateUncertainty.summarise(est, o.withParallel(true)));
+        assertEquals(all.get(0), EstimateUncertainty.summarise(est.unit(0), o));
     }
 
     /**
