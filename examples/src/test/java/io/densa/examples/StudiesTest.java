@@ -35,6 +35,26 @@ class StudiesTest {
      */
     static final double RECALL_BOUND = 0.5;
 
+    /** The rows of a report's CSV table, by column name (Commons CSV; the first line is the header). */
+    static List<org.apache.commons.csv.CSVRecord> rows(Path csv) throws IOException {
+        try (var parser = org.apache.commons.csv.CSVFormat.DEFAULT.builder().setHeader().setSkipHeaderRecord(true)
+                .build().parse(Files.newBufferedReader(csv, StandardCharsets.UTF_8))) {
+            return parser.getRecords();
+        }
+    }
+
+    /** Every row's value lies in its 90 % interval, all three finite. */
+    static void valuesInTheirIntervals(Path csv, String value) throws IOException {
+        for (org.apache.commons.csv.CSVRecord r : rows(csv)) {
+            double v = Double.parseDouble(r.get(value));
+            double lo = Double.parseDouble(r.get(value + "_lo90"));
+            double hi = Double.parseDouble(r.get(value + "_hi90"));
+            assertTrue(Double.isFinite(lo) && lo <= v && v <= hi && Double.isFinite(hi),
+                    csv.getFileName() + " row " + r.getRecordNumber() + ": " + value + " " + v + " not in [" + lo + ", "
+                            + hi + "]");
+        }
+    }
+
     static StudyResult run(Path dir, String... args) {
         ByteArrayOutputStream buffer = new ByteArrayOutputStream();
         String[] all = Stream.concat(Stream.of(args), Stream.of("--out", dir.toString(), "--size", "small"))
@@ -131,6 +151,9 @@ class StudiesTest {
         assertTrue(header.contains(",excess_ages,deficit_ages,"), header);
         assertTrue(header.contains(",excess_0_14,excess_0_14_lo90,excess_0_14_hi90,") && header.contains(
                 ",displaced,displaced_lo90,displaced_hi90"), header);
+        // every district's median age comes with its interval
+        valuesInTheirIntervals(r.folder().resolve("districts.csv"), "median_age");
+        assertTrue(r.files().contains("map_median_age_sd.png"), "uncertainty map: " + r.files());
         // the scan's cluster statement follows its Monte Carlo test at the study's level
         boolean cluster = r.metrics().get("scanP") <= Study1.ALPHA;
         assertEquals(cluster, md.contains("Visits at ages 0–24 against the baseline: a cluster of raised counts"));
@@ -172,6 +195,9 @@ class StudiesTest {
         assertTrue(warnings == 0 ? quiet == 2 : quiet <= 1, "each fit without warnings says so (" + quiet + ")");
         // no real organisation is named; the threshold is cited beside the number
         assertTrue(md.contains("guideline level published in *Global air quality guidelines"), "threshold citation");
+        // per monitor, the exceedance probability and the median come with their intervals
+        valuesInTheirIntervals(r.folder().resolve("monitors.csv"), "density_p_over_15");
+        valuesInTheirIntervals(r.folder().resolve("monitors.csv"), "density_median");
     }
 
     @Test
