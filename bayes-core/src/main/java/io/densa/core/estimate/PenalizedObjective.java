@@ -199,9 +199,11 @@ final class PenalizedObjective {
 
     /**
      * Gradient of Φ and the information matrix (+ 2λP + 2Q) at the last evaluated point, which
-     * must be beta, into grad and hess (full symmetric, stride k1); observed information, or the
-     * expected (Fisher) one when {@code expected}; without the penalty and prior when not
-     * {@code penalised} (beta is then not read).
+     * must be beta, into grad and hess (stride k1); observed information, or the expected (Fisher)
+     * one when {@code expected}; without the penalty and prior when not {@code penalised} (beta is
+     * then not read). The lower triangle is the matrix (what the Cholesky factor reads); the upper
+     * triangle holds only the penalty's band, except without the penalty, where hess is full
+     * symmetric (for {@link #fisherInformation}).
      */
     void derivatives(double lambda, boolean expected, boolean penalised, double[] beta) {
         Arrays.fill(grad, 0.0);
@@ -373,8 +375,8 @@ final class PenalizedObjective {
         for (int i = 0; i < k; i++) {
             grad[i] += linear[i];
         }
-        EstimationSupport.mirrorLower(hess, k1, k);
         if (!penalised) {
+            EstimationSupport.mirrorLower(hess, k1, k);
             return;
         }
         if (prior != null) {
