@@ -167,10 +167,7 @@ class EstimateUncertaintyTest {
     @Test
     void circularAndSampleEstimates() {
         BayesSpace circle = BayesSpace.periodicSplines(0, 365, 4, 12);
-        double[] edges = new double[53];
-        for (int j = 0; j <= 52; j++) {
-            edges[j] = 365.0 * j / 52;
-        }
+        double[] edges = weeks();
         SplittableRandom rng = new SplittableRandom(17);
         int[][] counts = new int[3][52];
         for (int[] c : counts) {
@@ -214,10 +211,7 @@ class EstimateUncertaintyTest {
     @Test
     void circularMeanIntervalsCoverTheTrueMeanDirectionAcrossTheCut() {
         BayesSpace circle = BayesSpace.periodicSplines(0, 365, 4, 12);
-        double[] edges = new double[53];
-        for (int j = 0; j <= 52; j++) {
-            edges[j] = 365.0 * j / 52;
-        }
+        double[] edges = weeks();
         int reps = 200;
         double[] mu = new double[reps];
         SplittableRandom rng = new SplittableRandom(23);
@@ -254,6 +248,15 @@ class EstimateUncertaintyTest {
             assertEquals(exact.get(i).mean().mean(), rule.get(i).mean().mean(), 1e-6);
             assertEquals(exact.get(i).mean().sd(), rule.get(i).mean().sd(), 1e-6);
         }
+    }
+
+    /** Edges of 52 equal bins of the circle of 365 days. */
+    static double[] weeks() {
+        double[] edges = new double[53];
+        for (int j = 0; j <= 52; j++) {
+            edges[j] = 365.0 * j / 52;
+        }
+        return edges;
     }
 
     static EstimationDiagnostics withCovariance(EstimationDiagnostics d, double[] cov) {
