@@ -17,15 +17,25 @@ import org.junit.jupiter.api.Test;
  * The layout rules of DEVELOPERS.md, kept by the build: in every library module ({@code bayes-*}),
  * no package holds more than 20 source files and no main source file more than 600 lines (our own
  * rule; a newcomer should be able to read a package and a file in one sitting). Reads the sibling
- * modules' sources from the checkout (tests run in the module's directory).
+ * modules' sources from the checkout (the repository root found from the working directory up).
  */
 class LayoutRulesTest {
     static final int MAX_FILES = 20;
     static final int MAX_LINES = 600;
 
+    /** The repository root: the nearest directory, from the working directory up, holding bayes-core. */
+    static Path root() {
+        for (Path p = Path.of("").toAbsolutePath(); p != null; p = p.getParent()) {
+            if (Files.isDirectory(p.resolve("bayes-core"))) {
+                return p;
+            }
+        }
+        throw new IllegalStateException("no bayes-core directory above " + Path.of("").toAbsolutePath());
+    }
+
     static List<Path> mainSources() throws IOException {
         List<Path> out = new ArrayList<>();
-        try (Stream<Path> modules = Files.list(Path.of("..").toAbsolutePath().normalize())) {
+        try (Stream<Path> modules = Files.list(root())) {
             for (Path m : modules.filter(p -> p.getFileName().toString().startsWith("bayes-")).sorted().toList()) {
                 Path src = m.resolve("src/main/java");
                 if (Files.isDirectory(src)) {
