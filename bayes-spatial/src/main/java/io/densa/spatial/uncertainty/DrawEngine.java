@@ -78,6 +78,20 @@ final class DrawEngine {
     }
 
     /**
+     * The number of quantities the options ask for (quantiles, then exceedances, then the mean).
+     *
+     * @throws IllegalArgumentException when they ask for none
+     */
+    static int quantities(UncertaintyOptions opt) {
+        int q = opt.quantiles().length + opt.exceedances().length + (opt.mean() ? 1 : 0);
+        if (q == 0) {
+            throw new IllegalArgumentException("no quantity to summarise: add quantiles, exceedances or the mean to"
+                    + " the uncertainty options");
+        }
+        return q;
+    }
+
+    /**
      * @param useCellBound whether the per-location bound of {@link CellBound} may skip the per-draw
      *                     error estimates (false: always compute them; the tests compare both)
      */
@@ -94,11 +108,7 @@ final class DrawEngine {
         this.probs = opt.probabilitiesInternal();
         this.thresholds = opt.thresholdsInternal();
         this.mean = opt.mean();
-        this.quantities = probs.length + thresholds.length + (mean ? 1 : 0);
-        if (quantities == 0) {
-            throw new IllegalArgumentException("no quantity to summarise: add quantiles, exceedances or the mean to"
-                    + " the uncertainty options");
-        }
+        this.quantities = quantities(opt);
         this.units = opt.dataUnits();
         this.seed = opt.seed();
         // the node rule's error bound needs a clr that is polynomial on each panel: not so for Fourier spaces

@@ -62,8 +62,7 @@ public final class EstimateUncertainty {
         for (int i = 0; i < n; i++) {
             factors[i] = factor(diagnostics.get(i), k);
         }
-        // checks the options (a quantity requested) before any work
-        new DrawEngine(space, new double[k], 1, options);
+        DrawEngine.quantities(options); // a quantity is requested: checked before any work
         UnitUncertainty[] out = new UnitUncertainty[n];
         int block = 8;
         int blocks = (n + block - 1) / block;
