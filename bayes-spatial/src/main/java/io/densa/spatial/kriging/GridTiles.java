@@ -553,4 +553,18 @@ public final class GridTiles {
         Objects.requireNonNull(work, "work");
         run(kriging, grid, options, covariates, work, consumer);
     }
+
+    /**
+     * {@link #map(Kriging, Grid, CovariateGrid, GridOptions, Function, Consumer)} for tiles [from, to)
+     * only (numbered as by {@link #predict}); each tile is the one the whole-grid call computes.
+     *
+     * @throws IllegalArgumentException if the range is not within [0, {@link #tileCount}), or as
+     *                                  {@link Kriging#predictGrid}
+     */
+    public static <T> void map(Kriging kriging, Grid grid, CovariateGrid covariates, GridOptions options, int from,
+            int to, Function<GridTile, T> work, Consumer<T> consumer) {
+        Objects.requireNonNull(kriging, "kriging");
+        Objects.requireNonNull(work, "work");
+        runRange(kriging, grid, options, covariates, work, from, to, consumer);
+    }
 }

@@ -295,13 +295,31 @@ public final class PredictiveDistribution {
      */
     public void summariseGrid(Grid grid, CovariateGrid covariates, GridOptions gridOptions,
             UncertaintyOptions options, Consumer<UncertaintyTile> consumer) {
+        Objects.requireNonNull(gridOptions, "gridOptions");
+        summariseTiles(grid, covariates, gridOptions, options, 0, GridTiles.tileCount(grid, gridOptions), consumer);
+    }
+
+    /**
+     * {@link #summariseGrid(Grid, CovariateGrid, GridOptions, UncertaintyOptions, Consumer)} for tiles
+     * [from, to) only, numbered as by {@link GridTiles#predict}: tile t at tile column
+     * t mod {@link GridTiles#tilesAcross}, tile row t / tilesAcross. A cell's draws depend only on its
+     * column and row, so every tile is bit for bit the one the whole-grid call delivers, however the
+     * grid is split (over threads, processes or machines).
+     *
+     * @param covariates the drift's covariates at every cell, or null when the drift has none
+     * @throws IllegalArgumentException if the range is not within [0, {@link GridTiles#tileCount}), as
+     *                                  {@link Kriging#predictGrid}, or with no quantity
+     * @throws DensaException           naming the cell when a draw's evaluation fails
+     */
+    public void summariseTiles(Grid grid, CovariateGrid covariates, GridOptions gridOptions,
+            UncertaintyOptions options, int from, int to, Consumer<UncertaintyTile> consumer) {
         Objects.requireNonNull(grid, "grid");
         Objects.requireNonNull(gridOptions, "gridOptions");
         Objects.requireNonNull(options, "options");
         Objects.requireNonNull(consumer, "consumer");
         DrawEngine engine = engine(options);
         long columns = grid.columns();
-        GridTiles.map(kriging, grid, covariates, gridOptions.withVariance(true), tile -> {
+        GridTiles.map(kriging, grid, covariates, gridOptions.withVariance(true), from, to, tile -> {
             DrawEngine.Scratch s = engine.scratch();
             int m = tile.size();
             int nq = engine.probs.length, nt = engine.thresholds.length;

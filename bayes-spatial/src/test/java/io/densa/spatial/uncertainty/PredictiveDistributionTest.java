@@ -54,27 +54,52 @@ class PredictiveDistributionTest {
 
     static List<double[]> collect(PredictiveDistribution pd, Grid grid, GridOptions go, UncertaintyOptions o) {
         List<double[]> cells = new ArrayList<>();
-        pd.summariseGrid(grid, go, o, t -> {
-            List<IntervalLayer> all = new ArrayList<>(t.quantiles());
-            all.addAll(t.exceedances());
-            all.add(t.mean());
-            for (int q = 0; q < t.size(); q++) {
-                double[] row = new double[2 + 5 * all.size()];
-                row[0] = t.tile().columns()[q];
-                row[1] = t.tile().rows()[q];
-                int o2 = 2;
-                for (IntervalLayer l : all) {
-                    row[o2++] = l.estimates()[q];
-                    row[o2++] = l.means()[q];
-                    row[o2++] = l.sds()[q];
-                    row[o2++] = l.lowers()[q];
-                    row[o2++] = l.uppers()[q];
-                }
-                cells.add(row);
-            }
-        });
+        pd.summariseGrid(grid, go, o, t -> add(cells, t));
         cells.sort((x, y) -> x[1] != y[1] ? Double.compare(x[1], y[1]) : Double.compare(x[0], y[0]));
         return cells;
+    }
+
+    /** The tile's cells as rows: column, row, then estimate, mean, sd, lower, upper of each layer. */
+    static void add(List<double[]> cells, UncertaintyTile t) {
+        List<IntervalLayer> all = new ArrayList<>(t.quantiles());
+        all.addAll(t.exceedances());
+        all.add(t.mean());
+        for (int q = 0; q < t.size(); q++) {
+            double[] row = new double[2 + 5 * all.size()];
+            row[0] = t.tile().columns()[q];
+            row[1] = t.tile().rows()[q];
+            int o2 = 2;
+            for (IntervalLayer l : all) {
+                row[o2++] = l.estimates()[q];
+                row[o2++] = l.means()[q];
+                row[o2++] = l.sds()[q];
+                row[o2++] = l.lowers()[q];
+                row[o2++] = l.uppers()[q];
+            }
+            cells.add(row);
+        }
+    }
+
+    @Test
+    void tileRangesReproduceTheWholeGridBitForBit() {
+        PredictiveDistribution pd = PredictiveDistribution.of(kriging(Neighbourhood.nearest(12)));
+        Grid grid = Grid.over(0, 0, 1, 1, 17, 13);
+        GridOptions go = GridOptions.withDefaults().withTileSize(5);
+        List<double[]> whole = collect(pd, grid, go, options());
+        int tiles = io.densa.spatial.kriging.GridTiles.tileCount(grid, go);
+        assertEquals(12, tiles);
+        List<double[]> parts = new ArrayList<>();
+        for (int[] r : new int[][] {{0, 5}, {5, 6}, {6, 12}}) {
+            pd.summariseTiles(grid, null, go, options(), r[0], r[1], t -> add(parts, t));
+        }
+        parts.sort((x, y) -> x[1] != y[1] ? Double.compare(x[1], y[1]) : Double.compare(x[0], y[0]));
+        assertEquals(whole.size(), parts.size());
+        for (int i = 0; i < whole.size(); i++) {
+            assertArrayEquals(whole.get(i), parts.get(i), 0.0, "cell " + i);
+        }
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+                () -> pd.summariseTiles(grid, null, go, options(), 3, 13, t -> { }));
+        assertTrue(e.getMessage().contains("tile range [3, 13)"), e.getMessage());
     }
 
     @Test
