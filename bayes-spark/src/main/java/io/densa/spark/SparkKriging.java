@@ -5,10 +5,13 @@ import io.densa.io.raster.GeoTiffOptions;
 import io.densa.io.raster.GeoTiffWriter;
 import io.densa.io.raster.RasterLayout;
 import io.densa.spatial.kriging.Grid;
-import io.densa.spatial.kriging.GridOptions;
 import io.densa.spatial.kriging.GridTile;
 import io.densa.spatial.kriging.GridTiles;
 import io.densa.spatial.kriging.Kriging;
+import io.densa.spatial.uncertainty.IntervalLayer;
+import io.densa.spatial.uncertainty.PredictiveDistribution;
+import io.densa.spatial.uncertainty.UncertaintyOptions;
+import io.densa.spatial.uncertainty.UncertaintyTile;
 import java.io.Serializable;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -26,6 +29,7 @@ import org.apache.spark.sql.Encoders;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.RowFactory;
 import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.types.ArrayType;
 import org.apache.spark.sql.types.DataTypes;
 import org.apache.spark.sql.types.StructType;
 
@@ -62,11 +66,29 @@ public final class SparkKriging {
      */
     public static Dataset<Row> cells(SparkSession spark, KrigingSpec model, GridSpec grid, int tasks,
             boolean withCoordinates) {
+        return cells(spark, model, grid, null, tasks, withCoordinates);
+    }
+
+    /**
+     * {@link #cells(SparkSession, KrigingSpec, GridSpec, int, boolean)} with the Monte Carlo interval
+     * of every quantile, tail probability and mean the grid spec asks for
+     * ({@link PredictiveDistribution#summariseTiles}; bit for bit {@link PredictiveDistribution#summariseGrid}
+     * on one machine). Further columns, after those of the plain call: {@code quantile_lower},
+     * {@code quantile_upper}, {@code tail_probability_lower}, {@code tail_probability_upper} (arrays,
+     * in the order of the grid spec), {@code mean_lower}, {@code mean_upper}, as the spec asks.
+     *
+     * @param intervals the draws' settings, or null for no intervals
+     * @throws IllegalArgumentException if intervals are asked for and the grid spec has no quantity, or
+     *                                  the covariance shape cannot be built (checked on the driver)
+     */
+    public static Dataset<Row> cells(SparkSession spark, KrigingSpec model, GridSpec grid, IntervalSpec intervals,
+            int tasks, boolean withCoordinates) {
         Objects.requireNonNull(spark, "spark");
         Objects.requireNonNull(model, "model");
         Objects.requireNonNull(grid, "grid");
-        StructType schema = schema(grid, withCoordinates);
-        Broadcast<Job> job = JavaSparkContext.fromSparkContext(spark.sparkContext()).broadcast(new Job(model, grid));
+        Job j = new Job(model, grid, intervals);
+        StructType schema = schema(grid, intervals != null, withCoordinates);
+        Broadcast<Job> job = JavaSparkContext.fromSparkContext(spark.sparkContext()).broadcast(j);
         JavaRDD<int[]> ranges = ranges(spark, grid, tasks);
         JavaRDD<Row> rows = ranges.mapPartitions(it -> new TileRows(it, job.value(), withCoordinates));
         return spark.createDataFrame(rows, schema);
@@ -74,6 +96,10 @@ public final class SparkKriging {
 
     /** The schema of {@link #cells}. */
     static StructType schema(GridSpec grid, boolean withCoordinates) {
+        return schema(grid, false, withCoordinates);
+    }
+
+    private static StructType schema(GridSpec grid, boolean intervals, boolean withCoordinates) {
         StructType s = new StructType().add("tile_column", DataTypes.IntegerType, false)
                 .add("tile_row", DataTypes.IntegerType, false).add("column", DataTypes.IntegerType, false)
                 .add("row", DataTypes.IntegerType, false).add("x", DataTypes.DoubleType, false)
@@ -95,6 +121,18 @@ public final class SparkKriging {
         }
         if (grid.nearest()) {
             s = s.add("nearest_distance", DataTypes.DoubleType, false);
+        }
+        if (intervals) {
+            ArrayType values = DataTypes.createArrayType(DataTypes.DoubleType, false);
+            if (grid.probabilities().length > 0) {
+                s = s.add("quantile_lower", values, false).add("quantile_upper", values, false);
+            }
+            if (grid.thresholds().length > 0) {
+                s = s.add("tail_probability_lower", values, false).add("tail_probability_upper", values, false);
+            }
+            if (grid.means()) {
+                s = s.add("mean_lower", DataTypes.DoubleType, false).add("mean_upper", DataTypes.DoubleType, false);
+            }
         }
         return s;
     }
@@ -140,9 +178,26 @@ public final class SparkKriging {
      */
     public static List<TileFile> writeGeoTiffTiles(SparkSession spark, KrigingSpec model, GridSpec grid, int tasks,
             String directory, int crs, boolean geographic, GeoTiffOptions.Compression compression) {
+        return writeGeoTiffTiles(spark, model, grid, null, tasks, directory, crs, geographic, compression);
+    }
+
+    /**
+     * {@link #writeGeoTiffTiles(SparkSession, KrigingSpec, GridSpec, int, String, int, boolean,
+     * GeoTiffOptions.Compression)} with, after the plain call's bands, the two ends of each interval
+     * ({@link #cells(SparkSession, KrigingSpec, GridSpec, IntervalSpec, int, boolean)}):
+     * {@code quantile_<p>_lower}, {@code quantile_<p>_upper} per quantile, {@code p_above_<t>_lower},
+     * {@code p_above_<t>_upper} per threshold, {@code mean_lower}, {@code mean_upper}.
+     *
+     * @param intervals the draws' settings, or null for no intervals
+     */
+    public static List<TileFile> writeGeoTiffTiles(SparkSession spark, KrigingSpec model, GridSpec grid,
+            IntervalSpec intervals, int tasks, String directory, int crs, boolean geographic,
+            GeoTiffOptions.Compression compression) {
         Objects.requireNonNull(directory, "directory");
         Objects.requireNonNull(compression, "compression");
-        List<String> bands = bands(grid);
+        Objects.requireNonNull(model, "model");
+        Objects.requireNonNull(grid, "grid");
+        List<String> bands = bands(grid, intervals != null);
         if (bands.isEmpty()) {
             throw new IllegalArgumentException("the grid spec derives no map to write: ask for the variance, means,"
                     + " quantiles, tail probabilities or nearest distances");
@@ -152,7 +207,8 @@ public final class SparkKriging {
         } else {
             Crs.projected(crs);
         }
-        Broadcast<Job> job = JavaSparkContext.fromSparkContext(spark.sparkContext()).broadcast(new Job(model, grid));
+        Job driver = new Job(model, grid, intervals);
+        Broadcast<Job> job = JavaSparkContext.fromSparkContext(spark.sparkContext()).broadcast(driver);
         JavaRDD<int[]> ranges = ranges(spark, grid, tasks);
         return SparkErrors.run(() -> ranges.mapPartitions(it -> {
             Job j = job.value();
@@ -161,8 +217,8 @@ public final class SparkKriging {
             while (it.hasNext()) {
                 int[] r = it.next();
                 for (int s = r[0]; s < r[1]; s += TILE_BATCH) {
-                    GridTiles.predict(j.model.kriging(), j.grid.grid(), j.grid.options(), s, Math.min(r[1],
-                            s + TILE_BATCH), t -> out.add(write(t, j.grid, directory, c, compression, bands)));
+                    j.tiles(s, Math.min(r[1], s + TILE_BATCH),
+                            (t, u) -> out.add(write(t, u, j.grid, directory, c, compression, bands)));
                 }
             }
             return out.iterator();
@@ -170,6 +226,10 @@ public final class SparkKriging {
     }
 
     static List<String> bands(GridSpec grid) {
+        return bands(grid, false);
+    }
+
+    private static List<String> bands(GridSpec grid, boolean intervals) {
         List<String> b = new ArrayList<>();
         if (grid.variance()) {
             b.add("kriging_variance");
@@ -186,10 +246,24 @@ public final class SparkKriging {
         if (grid.nearest()) {
             b.add("nearest_distance");
         }
+        if (intervals) {
+            for (double p : grid.probabilities()) {
+                b.add("quantile_" + p + "_lower");
+                b.add("quantile_" + p + "_upper");
+            }
+            for (double t : grid.thresholds()) {
+                b.add("p_above_" + t + "_lower");
+                b.add("p_above_" + t + "_upper");
+            }
+            if (grid.means()) {
+                b.add("mean_lower");
+                b.add("mean_upper");
+            }
+        }
         return b;
     }
 
-    private static TileFile write(GridTile t, GridSpec spec, String directory, Crs crs,
+    private static TileFile write(GridTile t, UncertaintyTile u, GridSpec spec, String directory, Crs crs,
             GeoTiffOptions.Compression compression, List<String> bands) {
         Grid g = spec.grid();
         int ts = GridTiles.tileSize(spec.options());
@@ -225,6 +299,17 @@ public final class SparkKriging {
         if (spec.nearest()) {
             values[b++] = t.nearestDistances();
         }
+        if (u != null) {
+            List<IntervalLayer> layers = new ArrayList<>(u.quantiles());
+            layers.addAll(u.exceedances());
+            if (u.mean() != null) {
+                layers.add(u.mean());
+            }
+            for (IntervalLayer l : layers) {
+                values[b++] = l.lowers();
+                values[b++] = l.uppers();
+            }
+        }
         Path file = Paths.get(directory, "tile_r" + t.tileRow() + "_c" + t.tileColumn() + ".tif");
         try {
             Files.createDirectories(file.getParent());
@@ -241,15 +326,47 @@ public final class SparkKriging {
         return new TileFile(t.tileColumn(), t.tileRow(), n, file.toString());
     }
 
+    /** What a tile's result is handed to: the kriged tile and its intervals (null without). */
+    private interface TileSink {
+        void accept(GridTile tile, UncertaintyTile intervals);
+    }
+
     /** What the tasks need. */
     private static final class Job implements Serializable {
         private static final long serialVersionUID = 1L;
         final KrigingSpec model;
         final GridSpec grid;
+        final IntervalSpec intervals;
+        private final PerJvm<PredictiveDistribution> predictive = new PerJvm<>();
+        private final PerJvm<UncertaintyOptions> options = new PerJvm<>();
 
-        Job(KrigingSpec model, GridSpec grid) {
+        /** Checks on the driver what the tasks will build (the intervals' quantities and shape). */
+        Job(KrigingSpec model, GridSpec grid, IntervalSpec intervals) {
             this.model = model;
             this.grid = grid;
+            this.intervals = intervals;
+            if (intervals != null) {
+                options();
+                predictive();
+            }
+        }
+
+        private UncertaintyOptions options() {
+            return options.get(() -> intervals.options(grid));
+        }
+
+        private PredictiveDistribution predictive() {
+            return predictive.get(() -> intervals.predictive(model.kriging()));
+        }
+
+        /** Tiles [from, to) in tile order into the sink, with their intervals when asked for. */
+        void tiles(int from, int to, TileSink sink) {
+            if (intervals == null) {
+                GridTiles.predict(model.kriging(), grid.grid(), grid.options(), from, to, t -> sink.accept(t, null));
+            } else {
+                predictive().summariseTiles(grid.grid(), null, grid.options(), options(), from, to,
+                        u -> sink.accept(u.tile(), u));
+            }
         }
     }
 
@@ -285,20 +402,20 @@ public final class SparkKriging {
                 }
                 int end = Math.min(to, from + TILE_BATCH);
                 Grid g = job.grid.grid();
-                GridOptions o = job.grid.options();
-                GridTiles.predict(job.model.kriging(), g, o, from, end, t -> rows(t, g));
+                job.tiles(from, end, (t, u) -> rows(t, u, g));
                 from = end;
             }
             return true;
         }
 
-        private void rows(GridTile t, Grid g) {
+        private void rows(GridTile t, UncertaintyTile u, Grid g) {
             int k = t.predictions().dimension();
             double[] c = coordinates ? t.predictions().coordinatesRowMajor() : null;
             int nq = t.quantiles().length;
             int nt = t.tailProbabilities().length;
+            GridSpec spec = job.grid;
             for (int i = 0; i < t.size(); i++) {
-                List<Object> v = new ArrayList<>(12);
+                List<Object> v = new ArrayList<>(18);
                 v.add(t.tileColumn());
                 v.add(t.tileRow());
                 v.add(t.columns()[i]);
@@ -308,10 +425,10 @@ public final class SparkKriging {
                 if (coordinates) {
                     v.add(java.util.Arrays.copyOfRange(c, i * k, i * k + k));
                 }
-                if (t.variances() != null) {
+                if (spec.variance()) {
                     v.add(t.variances()[i]);
                 }
-                if (t.means() != null) {
+                if (spec.means()) {
                     v.add(t.means()[i]);
                 }
                 if (nq > 0) {
@@ -328,11 +445,33 @@ public final class SparkKriging {
                     }
                     v.add(p);
                 }
-                if (t.nearestDistances() != null) {
+                if (spec.nearest()) {
                     v.add(t.nearestDistances()[i]);
+                }
+                if (u != null) {
+                    if (nq > 0) {
+                        v.add(ends(u.quantiles(), i, true));
+                        v.add(ends(u.quantiles(), i, false));
+                    }
+                    if (nt > 0) {
+                        v.add(ends(u.exceedances(), i, true));
+                        v.add(ends(u.exceedances(), i, false));
+                    }
+                    if (spec.means()) {
+                        v.add(u.mean().lowers()[i]);
+                        v.add(u.mean().uppers()[i]);
+                    }
                 }
                 ready.add(RowFactory.create(v.toArray()));
             }
+        }
+
+        private static double[] ends(List<IntervalLayer> layers, int cell, boolean lower) {
+            double[] out = new double[layers.size()];
+            for (int j = 0; j < out.length; j++) {
+                out[j] = lower ? layers.get(j).lowers()[cell] : layers.get(j).uppers()[cell];
+            }
+            return out;
         }
 
         @Override

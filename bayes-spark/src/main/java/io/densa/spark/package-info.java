@@ -17,7 +17,8 @@
  * ({@link io.densa.spatial.variogram.VariogramPairBlocks});</li>
  * <li>{@link io.densa.spark.SparkKriging}: grid kriging by tiles on tasks
  * ({@link io.densa.spatial.kriging.GridTiles}), as Parquet-ready cell rows or GeoTIFF tiles written by the
- * tasks; the grid never reaches the driver.</li>
+ * tasks, with Monte Carlo intervals of the derived maps when an {@link io.densa.spark.IntervalSpec} is
+ * given; the grid never reaches the driver.</li>
  * </ul>
  *
  * <h2>Semantics</h2>
@@ -25,7 +26,7 @@
  * specs of primitive arrays ({@link io.densa.spark.SpaceSpec}, {@link io.densa.spark.EstimatorSpec},
  * {@link io.densa.spark.FpcaSpec}, {@link io.densa.spark.BaselineSpec},
  * {@link io.densa.spark.LocationData}, {@link io.densa.spark.VariogramSpec},
- * {@link io.densa.spark.KrigingSpec}, {@link io.densa.spark.GridSpec}); each rebuilds its Densa
+ * {@link io.densa.spark.KrigingSpec}, {@link io.densa.spark.GridSpec}, {@link io.densa.spark.IntervalSpec}); each rebuilds its Densa
  * objects once per executor JVM (a transient lazy field) through the public factories. The rebuild
  * is deterministic, so executors compute exactly what the driver would: per-unit estimation,
  * scores, scoring, variogram and per-cell kriging results are bit-identical to the single-machine

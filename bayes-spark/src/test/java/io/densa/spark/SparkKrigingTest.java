@@ -25,6 +25,9 @@ import java.util.SplittableRandom;
 import javax.imageio.ImageIO;
 import javax.imageio.ImageReader;
 import javax.imageio.stream.ImageInputStream;
+import io.densa.spatial.uncertainty.PredictiveDistribution;
+import io.densa.spatial.uncertainty.UncertaintyOptions;
+import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
@@ -142,6 +145,70 @@ class SparkKrigingTest {
                 assertEquals((float) v[1], raster.getSampleFloat(fc, fr, 1), 0.0f);
             }
         }
+    }
+
+    /**
+     * Intervals of the derived maps on tasks against {@link PredictiveDistribution#summariseGrid} on one
+     * machine, bit for bit (a cell's draws depend only on its column and row), with the grid's variance
+     * map off (the intervals' pass computes it but the column stays out), and the interval ends as
+     * GeoTIFF bands after the plain maps.
+     */
+    @Test
+    void intervalsOnTasksGiveTheSingleMachineIntervalsBitForBit(@TempDir Path dir) throws Exception {
+        KrigingSpec model = KrigingSpec.ordinary(stations(), VariogramModel.exponential(0.3, 15).withNugget(0.01),
+                KrigingOptions.withDefaults().withNeighbourhood(Neighbourhood.nearest(12)));
+        GridSpec grid = GridSpec.over(0, 0, 50, 30, 40, 24).withTileSize(16).withVariance(false).withMeans(true)
+                .withQuantiles(0.5, 0.9).withTailProbabilities(6.0);
+        IntervalSpec intervals = IntervalSpec.withSeed(11).withDraws(40).withLevel(0.8);
+        Map<String, double[]> local = new HashMap<>();
+        UncertaintyOptions uo = UncertaintyOptions.withSeed(11).withDraws(40).withLevel(0.8).withQuantiles(0.5, 0.9)
+                .withExceedances(6.0).withMean(true);
+        PredictiveDistribution.of(model.kriging()).summariseGrid(grid.grid(), grid.options(), uo, u -> {
+            for (int i = 0; i < u.size(); i++) {
+                local.put(key(u.tile().columns()[i], u.tile().rows()[i]), new double[] {u.tile().means()[i],
+                    u.quantiles().get(0).lowers()[i], u.quantiles().get(1).lowers()[i],
+                    u.quantiles().get(0).uppers()[i], u.quantiles().get(1).uppers()[i],
+                    u.exceedances().get(0).lowers()[i], u.exceedances().get(0).uppers()[i],
+                    u.mean().lowers()[i], u.mean().uppers()[i]});
+            }
+        });
+        Dataset<Row> cells = SparkKriging.cells(SparkTestSession.get(), model, grid, intervals, 3, false);
+        assertEquals(List.of("tile_column", "tile_row", "column", "row", "x", "y", "mean", "quantiles",
+                "tail_probabilities", "quantile_lower", "quantile_upper", "tail_probability_lower",
+                "tail_probability_upper", "mean_lower", "mean_upper"), List.of(cells.columns()));
+        List<Row> rows = SparkErrors.run(cells::collectAsList);
+        assertEquals(40 * 24, rows.size());
+        int ordered = 0;
+        for (Row r : rows) {
+            double[] v = local.get(key(r.getInt(2), r.getInt(3)));
+            assertEquals(v[0], r.getDouble(6), 0.0);
+            assertArrayEquals(new double[] {v[1], v[2]}, SparkRows.doubles(r, 9), 0.0);
+            assertArrayEquals(new double[] {v[3], v[4]}, SparkRows.doubles(r, 10), 0.0);
+            assertEquals(v[5], SparkRows.doubles(r, 11)[0], 0.0);
+            assertEquals(v[6], SparkRows.doubles(r, 12)[0], 0.0);
+            assertEquals(v[7], r.getDouble(13), 0.0);
+            assertEquals(v[8], r.getDouble(14), 0.0);
+            ordered += v[1] <= v[3] && v[5] <= v[6] && v[7] <= v[8] ? 1 : 0;
+        }
+        assertEquals(rows.size(), ordered, "every interval's lower end at most its upper end");
+
+        List<SparkKriging.TileFile> files = SparkKriging.writeGeoTiffTiles(SparkTestSession.get(), model, grid,
+                intervals, 2, dir.resolve("tiles").toString(), 32633, false, GeoTiffOptions.Compression.NONE);
+        assertEquals(3 * 2, files.size());
+        Raster raster = read(new File(dir.resolve("tiles").toFile(), "tile_r1_c2.tif"));
+        assertEquals(1 + 2 + 1 + 2 * 4, raster.getNumBands(), "mean, 2 quantiles, 1 tail probability, 4 intervals");
+        for (int fr = 0; fr < 8; fr++) {
+            for (int fc = 0; fc < 8; fc++) {
+                double[] v = local.get(key(32 + fc, 23 - fr));
+                assertEquals((float) v[1], raster.getSampleFloat(fc, fr, 4), 0.0f, "quantile_0.5_lower");
+                assertEquals((float) v[4], raster.getSampleFloat(fc, fr, 7), 0.0f, "quantile_0.9_upper");
+                assertEquals((float) v[6], raster.getSampleFloat(fc, fr, 9), 0.0f, "p_above_6.0_upper");
+                assertEquals((float) v[8], raster.getSampleFloat(fc, fr, 11), 0.0f, "mean_upper");
+            }
+        }
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> SparkKriging.cells(
+                SparkTestSession.get(), model, GridSpec.over(0, 0, 50, 30, 4, 4), intervals, 1, false));
+        assertTrue(e.getMessage().startsWith("intervals need a quantity"), e.getMessage());
     }
 
     static Raster read(File f) throws Exception {
