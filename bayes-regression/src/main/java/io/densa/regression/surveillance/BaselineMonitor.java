@@ -325,14 +325,38 @@ public final class BaselineMonitor {
                 .withBandLevel(config.bandLevel).withRandomisedTies(Seeds.mix(config.seed, 2L * period.index()))
                 .fit(cal, grid).score(current);
         DensitySet expected = DensitySet.ofRowMajor(space, yhat, n, idsOrNull());
+        double[][] rawCovariance = ResidualCalibration.covariance(space, keptR, k);
         ExcessCounts.Result excess = null;
         if (period.counts() != null) {
             double[] edges = period.binEdges();
             excess = ExcessCounts.withDefaults().withDraws(config.draws, Seeds.mix(config.seed, 2L * period.index() + 1))
                     .estimate(expected, period.counts(), edges, new double[] {edges[0], edges[edges.length - 1]},
-                            ExcessCounts.BaselineError.common(ResidualCalibration.covariance(space, keptR, k)));
+                            ExcessCounts.BaselineError.common(rawCovariance));
         }
-        return new PeriodReport(period.index(), expected, current, scores, excess);
+        double[] scales = new double[n];
+        double[][] shape;
+        if (ab != null && x != null) {
+            shape = cal.size() >= 2 ? covarianceRows(cal.covariance().data, k) : new double[k][k];
+            for (int i = 0; i < n; i++) {
+                scales[i] = Math.max(ab[0] * x[i] + ab[1], 0.0);
+            }
+        } else {
+            double tr = 0;
+            for (int a = 0; a < k; a++) {
+                tr += rawCovariance[a][a];
+            }
+            shape = covarianceRows(Arrays.stream(rawCovariance).flatMapToDouble(Arrays::stream).toArray(), k);
+            Arrays.fill(scales, 1.0);
+            if (tr > 0) {
+                for (double[] row : shape) {
+                    for (int b = 0; b < k; b++) {
+                        row[b] /= tr;
+                    }
+                }
+                Arrays.fill(scales, tr);
+            }
+        }
+        return new PeriodReport(period.index(), expected, current, scores, excess, scales, shape);
     }
 
     /**
@@ -453,6 +477,14 @@ public final class BaselineMonitor {
     }
 
     /** Raw residual coordinates y − ŷ (n × K row-major). */
+    private static double[][] covarianceRows(double[] flat, int k) {
+        double[][] out = new double[k][];
+        for (int a = 0; a < k; a++) {
+            out[a] = Arrays.copyOfRange(flat, a * k, (a + 1) * k);
+        }
+        return out;
+    }
+
     private double[] residual(Period period, double[] yhat) {
         double[] r = period.densities().coordinatesRowMajor();
         for (int j = 0; j < r.length; j++) {

@@ -11,9 +11,38 @@ import io.densa.core.DensitySet;
  * @param scores    conformal p-values, Benjamini–Hochberg adjusted p-values and flags per unit,
  *                  against the monitor's rolling calibration set
  * @param excess    excess counts with intervals per unit, or null when the period has no counts
+ * @param residualScales per unit, the modelled squared norm E‖r_i‖² = a x_i + b of its raw residual
+ *                  (see {@link RollingBaseline}), or the trace of the calibration residuals'
+ *                  covariance for every unit when the periods carry no estimation variances
+ * @param residualShape K × K: the covariance of the calibration residuals, standardised as they are
+ *                  for scoring (so that unit i's residual covariance is {@code residualScales[i]}
+ *                  times it); the raw residuals' covariance over its trace without estimation
+ *                  variances. Arrays of the report, not copied
  */
 public record PeriodReport(int period, DensitySet expected, DensitySet residuals, AnomalyScoring.Report scores,
-        ExcessCounts.Result excess) {
+        ExcessCounts.Result excess, double[] residualScales, double[][] residualShape) {
+
+    /**
+     * The covariance Σ_i = s_i S (K × K, a fresh array) of unit i's raw residual r_i = y_i ⊖ ŷ_i in a
+     * period without change, from the rolling calibration set: the spread of the observed density
+     * around the baseline's prediction that counting noise and the baseline's own error make
+     * together (the calibration residuals are out of sample). Draws of the observed density with
+     * this covariance ({@code EstimateUncertainty.summarise(observed, covariances, options)} in
+     * bayes-spatial) give intervals for the change of any quantity read off the density relative to
+     * the prediction — a shift of the median or of the timing of a season — that carry both. With
+     * few calibration periods the covariance is rough (it is estimated from units × C residuals).
+     */
+    public double[][] residualCovariance(int i) {
+        double s = residualScales[i];
+        int k = residualShape.length;
+        double[][] out = new double[k][k];
+        for (int a = 0; a < k; a++) {
+            for (int b = 0; b < k; b++) {
+                out[a][b] = s * residualShape[a][b];
+            }
+        }
+        return out;
+    }
     /** Whether unit i is flagged. */
     public boolean flagged(int i) {
         return scores.units().get(i).flagged();

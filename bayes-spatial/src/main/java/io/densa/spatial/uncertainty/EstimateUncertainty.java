@@ -54,30 +54,81 @@ public final class EstimateUncertainty {
         Objects.requireNonNull(estimates, "estimates");
         Objects.requireNonNull(options, "options");
         DensitySet d = estimates.densities();
+        int k = d.space().dimension();
+        List<EstimationDiagnostics> diagnostics = estimates.diagnostics();
+        double[][] factors = new double[d.size()][];
+        String[] ids = new String[d.size()];
+        for (int i = 0; i < factors.length; i++) {
+            ids[i] = diagnostics.get(i).id();
+            factors[i] = factor(diagnostics.get(i).covariance(), "unit " + ids[i], "the reported covariance", k);
+        }
+        return summarise(d, factors, ids, options);
+    }
+
+    /**
+     * Summaries for densities whose coordinates have the given Gaussian laws N(c_i, Σ_i), c_i the
+     * coordinates of row i of {@code centres} — for example an observed density with the covariance
+     * of its residual against a baseline's prediction — drawn and summarised as
+     * {@link #summarise(BatchEstimate, UncertaintyOptions)} does (row i with stream i of the seed; the
+     * same results as an estimate with those densities and covariances).
+     *
+     * @param covariances one K × K symmetric positive semi-definite matrix per row (not modified)
+     * @throws IllegalArgumentException with no quantity in the options, on a count or shape mismatch, or
+     *                                  naming a row whose covariance is not finite
+     * @throws DensaException           naming the row when a draw cannot be evaluated
+     */
+    public static List<UnitUncertainty> summarise(DensitySet centres, List<double[][]> covariances,
+            UncertaintyOptions options) {
+        Objects.requireNonNull(centres, "centres");
+        Objects.requireNonNull(covariances, "covariances");
+        Objects.requireNonNull(options, "options");
+        int n = centres.size();
+        int k = centres.space().dimension();
+        if (covariances.size() != n) {
+            throw new IllegalArgumentException(n + " densities but " + covariances.size() + " covariances");
+        }
+        double[][] factors = new double[n][];
+        String[] ids = new String[n];
+        for (int i = 0; i < n; i++) {
+            ids[i] = centres.id(i);
+            double[][] c = Objects.requireNonNull(covariances.get(i), "covariance " + i);
+            double[] flat = new double[k * k];
+            if (c.length != k) {
+                throw new IllegalArgumentException("row " + ids[i] + ": covariance has " + c.length
+                        + " rows, the space's dimension is " + k);
+            }
+            for (int a = 0; a < k; a++) {
+                if (c[a] == null || c[a].length != k) {
+                    throw new IllegalArgumentException("row " + ids[i] + ": covariance row " + a + " must have " + k
+                            + " entries");
+                }
+                System.arraycopy(c[a], 0, flat, a * k, k);
+            }
+            factors[i] = factor(flat, "row " + ids[i], "the covariance", k);
+        }
+        return summarise(centres, factors, ids, options);
+    }
+
+    private static List<UnitUncertainty> summarise(DensitySet d, double[][] factors, String[] ids,
+            UncertaintyOptions options) {
         BayesSpace space = d.space();
         int n = d.size();
         int k = space.dimension();
-        List<EstimationDiagnostics> diagnostics = estimates.diagnostics();
-        double[][] factors = new double[n][];
-        for (int i = 0; i < n; i++) {
-            factors[i] = factor(diagnostics.get(i), k);
-        }
         DrawEngine.quantities(options); // a quantity is requested: checked before any work
         UnitUncertainty[] out = new UnitUncertainty[n];
         int block = 8;
         int blocks = (n + block - 1) / block;
         Kernels.forEachBlock(blocks, options.parallel() && n > 1, b -> {
             for (int i = b * block; i < Math.min(n, b * block + block); i++) {
-                String id = diagnostics.get(i).id();
                 DrawEngine engine = new DrawEngine(space, factors[i], factors[i].length / k, options);
                 DrawEngine.Scratch s = engine.scratch();
                 try {
                     engine.evaluate(d.get(i).coordinates(), 0, 1.0, i, s);
                 } catch (DensaException e) {
-                    throw new DensaException("unit " + id + ": " + e.getMessage(), e.diagnostics());
+                    throw new DensaException("unit " + ids[i] + ": " + e.getMessage(), e.diagnostics());
                 }
                 int p = engine.probs.length, t = engine.thresholds.length;
-                out[i] = new UnitUncertainty(id, engine.intervals(s, 0, p), engine.intervals(s, p, t),
+                out[i] = new UnitUncertainty(ids[i], engine.intervals(s, 0, p), engine.intervals(s, p, t),
                         engine.mean ? engine.intervals(s, p + t, 1).get(0) : null, s.exact);
             }
         });
@@ -97,17 +148,18 @@ public final class EstimateUncertainty {
                 new String[] {estimate.diagnostics().id()}), List.of(estimate.diagnostics())), options).get(0);
     }
 
-    /** F with F Fᵀ = Σ̂ (K × r row-major; one zero column for a zero covariance). */
-    static double[] factor(EstimationDiagnostics diag, int k) {
-        double[] cov = diag.covariance();
+    /**
+     * F with F Fᵀ = Σ (K × r row-major; one zero column for a zero covariance) from Σ row-major;
+     * {@code who} and {@code what} name the unit and the matrix in messages.
+     */
+    static double[] factor(double[] cov, String who, String what, int k) {
         if (cov.length != k * k) {
-            throw new IllegalArgumentException("unit " + diag.id() + ": covariance has " + cov.length
+            throw new IllegalArgumentException(who + ": covariance has " + cov.length
                     + " entries, the space's dimension is " + k);
         }
         for (double v : cov) {
             if (!Double.isFinite(v)) {
-                throw new IllegalArgumentException("unit " + diag.id() + ": the reported covariance is not finite ("
-                        + v + ")");
+                throw new IllegalArgumentException(who + ": " + what + " is not finite (" + v + ")");
             }
         }
         double[] f = SymmetricEigen.of(cov, k).factor();

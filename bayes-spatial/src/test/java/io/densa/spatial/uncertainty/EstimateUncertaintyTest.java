@@ -158,6 +158,41 @@ class EstimateUncertaintyTest {
     }
 
     /**
+     * Densities with given covariances (e.g. a residual's against a baseline) give what an estimate
+     * with those densities and covariances gives, bit for bit; counts and shapes are checked.
+     */
+    @Test
+    void givenCovariancesGiveTheEstimatePath() {
+        BatchEstimate est = estimate(6, 200, 13L);
+        int k = est.densities().space().dimension();
+        UncertaintyOptions o = UncertaintyOptions.withSeed(3).withQuantiles(0.5).withExceedances(60).withMean(true);
+        List<double[][]> cov = new java.util.ArrayList<>();
+        for (EstimationDiagnostics d : est.diagnostics()) {
+            double[][] c = new double[k][k];
+            for (int a = 0; a < k; a++) {
+                for (int b = 0; b < k; b++) {
+                    c[a][b] = d.covariance()[a * k + b];
+                }
+            }
+            cov.add(c);
+        }
+        List<UnitUncertainty> given = EstimateUncertainty.summarise(est.densities(), cov, o);
+        List<UnitUncertainty> fromEstimate = EstimateUncertainty.summarise(est, o);
+        for (int i = 0; i < given.size(); i++) {
+            assertEquals(fromEstimate.get(i).quantiles(), given.get(i).quantiles());
+            assertEquals(fromEstimate.get(i).exceedances(), given.get(i).exceedances());
+            assertEquals(fromEstimate.get(i).mean(), given.get(i).mean());
+        }
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+                () -> EstimateUncertainty.summarise(est.densities(), cov.subList(0, 5), o));
+        assertTrue(e.getMessage().contains("6 densities but 5 covariances"), e.getMessage());
+        List<double[][]> bad = new java.util.ArrayList<>(cov);
+        bad.set(2, new double[k][k - 1]);
+        e = assertThrows(IllegalArgumentException.class, () -> EstimateUncertainty.summarise(est.densities(), bad, o));
+        assertTrue(e.getMessage().contains("covariance row 0 must have " + k), e.getMessage());
+    }
+
+    /**
      * Circular and sample estimates go through the same path: on a circle of 365 days (periodic
      * cubic splines, counts of a seasonal law) and for raw samples (a normal sample on [0, 100]),
      * every interval holds its plug-in value, probabilities stay in [0, 1] and the intervals narrow
