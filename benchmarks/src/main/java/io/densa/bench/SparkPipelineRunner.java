@@ -46,7 +46,7 @@ public final class SparkPipelineRunner {
     }
 
     public static void main(String[] args) {
-        if (args.length > 0 && (args[0].equals("grid") || args[0].equals("variogram"))) {
+        if (args.length > 0 && (args[0].equals("grid") || args[0].equals("intervals") || args[0].equals("variogram"))) {
             spatial(args);
             return;
         }
@@ -150,8 +150,11 @@ public final class SparkPipelineRunner {
      * Per-task rates of the spatial operations: {@code grid master side stations} kriges a side × side
      * grid (ordinary, exponential model, 32 nearest, variance and P(X &gt; t) per cell, tiles of 64) from
      * invented stations into Spark's no-op sink, and the same grid with {@code Kriging.predictGrid}
-     * on one machine; {@code variogram master n} the variogram of n invented locations by pair blocks
-     * and on one machine. K = 11 in both.
+     * on one machine; {@code intervals master side stations} the same grid with the median, P(X &gt; t)
+     * and the mean, each with its 90 % Monte Carlo interval from 200 draws per cell
+     * ({@code SparkKriging.cells} with an {@code IntervalSpec}; on one machine
+     * {@code PredictiveDistribution.summariseGrid}); {@code variogram master n} the variogram of n
+     * invented locations by pair blocks and on one machine. K = 11 in all.
      */
     private static void spatial(String[] args) {
         String master = args[1];
@@ -161,7 +164,8 @@ public final class SparkPipelineRunner {
                 .config("spark.driver.bindAddress", "127.0.0.1").getOrCreate();
         spark.sparkContext().setLogLevel("ERROR");
         BayesSpace space = BayesSpace.splines(0, 10, 4, 8);
-        int n = Integer.parseInt(args[args[0].equals("grid") ? 3 : 2]);
+        boolean gridLike = args[0].equals("grid") || args[0].equals("intervals");
+        int n = Integer.parseInt(args[gridLike ? 3 : 2]);
         java.util.SplittableRandom rnd = new java.util.SplittableRandom(5);
         double[] x = new double[n];
         double[] y = new double[n];
@@ -178,7 +182,32 @@ public final class SparkPipelineRunner {
         io.densa.spark.LocationData data = io.densa.spark.LocationData.of(loc, set);
         System.out.printf(Locale.ROOT, "machine: %s; master %s; %s%n", BenchConfig.machine(), master,
                 String.join(" ", args));
-        if (args[0].equals("grid")) {
+        if (args[0].equals("intervals")) {
+            int side = Integer.parseInt(args[2]);
+            io.densa.spark.KrigingSpec model = io.densa.spark.KrigingSpec.ordinary(data,
+                    io.densa.spatial.variogram.VariogramModel.exponential(0.5, 30).withNugget(0.02),
+                    io.densa.spatial.kriging.KrigingOptions.withDefaults().withNeighbourhood(
+                            io.densa.spatial.kriging.Neighbourhood.nearest(32)));
+            io.densa.spark.GridSpec grid = io.densa.spark.GridSpec.over(0, 0, 100, 100, side, side)
+                    .withVariance(false).withQuantiles(0.5).withTailProbabilities(5.0).withMeans(true);
+            io.densa.spark.IntervalSpec intervals = io.densa.spark.IntervalSpec.withSeed(3);
+            long c0 = cpu();
+            long t0 = System.nanoTime();
+            io.densa.spark.SparkKriging.cells(spark, model, grid, intervals, 4 * cores, false).write().format("noop")
+                    .mode("overwrite").save();
+            long t1 = System.nanoTime();
+            long c1 = cpu();
+            long[] cells = new long[1];
+            io.densa.spatial.uncertainty.PredictiveDistribution.of(model.kriging()).summariseGrid(grid.grid(),
+                    grid.options().withParallel(cores > 1), io.densa.spatial.uncertainty.UncertaintyOptions.withSeed(3)
+                            .withQuantiles(0.5).withExceedances(5.0).withMean(true), t -> cells[0] += t.size());
+            long t2 = System.nanoTime();
+            long c2 = cpu();
+            double cellsTotal = (double) side * side;
+            System.out.printf(Locale.ROOT, "intervals %d x %d: spark %.2f s (%.0f cells/s; CPU %.2f s), single machine"
+                    + " %.2f s (%.0f cells/s; CPU %.2f s)%n", side, side, s(t1 - t0), cellsTotal / s(t1 - t0),
+                    s(c1 - c0), s(t2 - t1), cells[0] / s(t2 - t1), s(c2 - c1));
+        } else if (args[0].equals("grid")) {
             int side = Integer.parseInt(args[2]);
             io.densa.spark.KrigingSpec model = io.densa.spark.KrigingSpec.ordinary(data,
                     io.densa.spatial.variogram.VariogramModel.exponential(0.5, 30).withNugget(0.02),

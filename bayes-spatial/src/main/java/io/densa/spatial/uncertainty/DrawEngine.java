@@ -32,8 +32,22 @@ import java.util.function.DoubleUnaryOperator;
  * come from bucketed order statistics ({@link Selection}).
  */
 final class DrawEngine {
-    /** A draw whose estimated rule error exceeds this share of its mass is evaluated exactly. */
+    /**
+     * A draw whose estimated rule error exceeds this share of its mass is evaluated on the refined
+     * rules, and exactly when it fails those too.
+     */
     static final double RULE_TOLERANCE = 1e-4;
+    /**
+     * Panels of the refined rule per panel: a draw whose error estimate fails the tolerance on the
+     * rule is evaluated on the rule with every panel cut into this many (the q-point error falls
+     * as the (2q+1)-th power of the panel width: 4⁹ ≈ 2.6·10⁵ for q = 4), and only when that fails
+     * too by the space's exact methods, about a hundred times slower.
+     */
+    static final int REFINE = 4;
+    /** Refined rules tried before the exact methods: panels cut into 4, then 16. */
+    static final int LEVELS = 2;
+    /** The finest refinement tried before the exact methods. */
+    static final int MAX_REFINE = REFINE * REFINE;
     /**
      * Most draws evaluated together (work rows of this length, one per node and per panel); more
      * draws are evaluated in blocks so that the work arrays stay bounded. With 200 draws one block: blocks
@@ -68,6 +82,11 @@ final class DrawEngine {
     private final double[] cosWeights;
     private final double[] sinWeights;
     private final boolean exactOnly;
+    private final UncertaintyOptions options;
+    /** Panels of the rule per panel of the first rule: 1, or {@link #REFINE} for the fallback rule. */
+    private final int refine;
+    /** The refined engine for draws the rule cannot take (built on first need; null in a refined engine). */
+    private volatile DrawEngine fine;
     private final long seed;
     /** The per-location bound of 4-point panels (null for other rules). */
     private final CellBound cellBound;
@@ -96,6 +115,13 @@ final class DrawEngine {
      *                     error estimates (false: always compute them; the tests compare both)
      */
     DrawEngine(BayesSpace space, double[] factor, int r, UncertaintyOptions opt, boolean useCellBound) {
+        this(space, factor, r, opt, useCellBound, 1);
+    }
+
+    private DrawEngine(BayesSpace space, double[] factor, int r, UncertaintyOptions opt, boolean useCellBound,
+            int refine) {
+        this.options = opt;
+        this.refine = refine;
         this.useCellBound = useCellBound;
         this.space = space;
         this.k = space.dimension();
@@ -114,7 +140,7 @@ final class DrawEngine {
         // the node rule's error bound needs a clr that is polynomial on each panel: not so for Fourier spaces
         this.exactOnly = opt.evaluation() == UncertaintyOptions.Evaluation.EXACT
                 || space.basis().kind() == io.densa.core.Basis.Kind.FOURIER;
-        this.rule = new NodeRule(space, thresholds);
+        this.rule = new NodeRule(space, thresholds, refine);
         int m = rule.m;
         bt = new double[r * m];
         for (int i = 0; i < m; i++) {
@@ -191,6 +217,13 @@ final class DrawEngine {
         final double[] blockScale = new double[r];
         final double[] reach = new double[rule.m];
         int exact;
+        /** Draws of the location evaluated on the refined rule. */
+        int refined;
+        /** Per refinement level, its engine's scratch (on first need) and whether its node values of the location are set. */
+        final Scratch[] fine = new Scratch[LEVELS];
+        final boolean[] fineBase = new boolean[LEVELS];
+        /** Block columns that failed the rule's check. */
+        final int[] failed = new int[width];
         /** Draws whose block passed the bound of {@link CellBound}, summed over calls (for the tests). */
         long bounded;
     }
@@ -201,7 +234,8 @@ final class DrawEngine {
 
     /**
      * Draws and evaluates one location: c[off..off+K) the kriged coordinates, variance σ², stream
-     * s. Values go to s.values; s.exact counts the draws evaluated exactly.
+     * s. Values go to s.values; s.exact counts the draws evaluated exactly, s.refined those taken by
+     * a refined rule.
      *
      * @throws DensaException if a draw cannot be evaluated (coordinates beyond what double precision resolves)
      */
@@ -218,6 +252,8 @@ final class DrawEngine {
             z[l][draws] = 0;
         }
         s.exact = 0;
+        s.refined = 0;
+        java.util.Arrays.fill(s.fineBase, false);
         if (exactOnly) {
             for (int d = 0; d < cols; d++) {
                 exactDraw(c, off, d, s);
@@ -254,12 +290,90 @@ final class DrawEngine {
         quantities(d0, nc, s);
         if (check) {
             double[] err = s.err, tot = s.total;
+            int nf = 0;
             for (int d = 0; d < nc; d++) {
                 if (!(err[d] <= RULE_TOLERANCE * tot[d])) {
-                    exactDraw(c, off, d0 + d, s);
+                    s.failed[nf++] = d0 + d;
+                }
+            }
+            if (nf > 0) {
+                fallback(c, off, nf, s);
+            }
+        }
+    }
+
+    /**
+     * Draws s.failed[0..nf) of the location on the refined rules in turn (panels cut into 4, then
+     * 16), each draw taken by the first whose error estimate passes; the rest through the exact
+     * methods.
+     */
+    private void fallback(double[] c, int off, int nf, Scratch s) {
+        int[] pending = s.failed;
+        int np = nf;
+        DrawEngine f = this;
+        for (int level = 0; np > 0 && f.refine < MAX_REFINE; level++) {
+            f = f.fineEngine();
+            if (s.fine[level] == null) {
+                s.fine[level] = f.scratch();
+            }
+            Scratch fs = s.fine[level];
+            if (!s.fineBase[level]) {
+                f.rule.nodeValues(c, off, fs.base);
+                s.fineBase[level] = true;
+            }
+            for (int l = 0; l < r; l++) {
+                double[] from = s.z[l], to = fs.z[l];
+                for (int j = 0; j < np; j++) {
+                    to[j] = from[pending[j]];
+                }
+            }
+            f.nodeValues(0, np, fs);
+            if (f.rule.q == 4) {
+                f.panelsOfFour(np, Double.NaN, fs);
+            } else {
+                f.panels(np, fs);
+            }
+            double[] err = fs.err, tot = fs.total;
+            java.util.Arrays.fill(err, 0, np, 0.0);
+            for (int j = 0; j < f.rule.panels; j++) {
+                double[] rj = fs.panelError[j];
+                for (int d = 0; d < np; d++) {
+                    err[d] += rj[d];
+                }
+            }
+            f.quantities(0, np, fs);
+            int left = 0;
+            for (int j = 0; j < np; j++) {
+                int d = pending[j];
+                if (err[j] <= RULE_TOLERANCE * tot[j]) {
+                    for (int qi = 0; qi < quantities; qi++) {
+                        s.values[qi][d] = fs.values[qi][j];
+                    }
+                    s.refined++;
+                } else {
+                    pending[left++] = d; // in place: left ≤ j
+                }
+            }
+            np = left;
+        }
+        for (int j = 0; j < np; j++) {
+            exactDraw(c, off, pending[j], s);
+        }
+    }
+
+    /** The refined engine, built by the first thread that needs it. */
+    private DrawEngine fineEngine() {
+        DrawEngine f = fine;
+        if (f == null) {
+            synchronized (this) {
+                f = fine;
+                if (f == null) {
+                    f = new DrawEngine(space, factor, r, options, false, refine * REFINE);
+                    fine = f;
                 }
             }
         }
+        return f;
     }
 
     /** The node values of draws d0 .. d0 + nc − 1 into s.y and their largest into s.shift. */

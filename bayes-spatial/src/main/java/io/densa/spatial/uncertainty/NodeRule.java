@@ -43,7 +43,8 @@ import org.apache.commons.math3.analysis.integration.gauss.GaussIntegratorFactor
  * q there), times a safety factor of 4; over 3,000 random cubic clr on one panel this estimate was
  * never below the true error (at worst 0.42 of it before the factor 4: a committed check in the
  * tests). The panel estimates are added, and the engine evaluates a density exactly when their
- * total exceeds its tolerance (10⁻⁴ of the mass). Exponentials are computed by {@link #exp},
+ * total exceeds its tolerance (10⁻⁴ of the mass) — first on this rule with every panel cut into 4,
+ * then 16 ({@link #NodeRule(BayesSpace, double[], int)}). Exponentials are computed by {@link #exp},
  * relative error below 3·10⁻¹⁰.
  */
 final class NodeRule {
@@ -87,6 +88,14 @@ final class NodeRule {
     final int[] tailPanel;
 
     NodeRule(BayesSpace space, double[] thresholds) {
+        this(space, thresholds, 1);
+    }
+
+    /**
+     * The rule with every panel of {@link #NodeRule(BayesSpace, double[])} cut into {@code refine}
+     * equal panels (the refined rule a draw falls back to before the exact methods).
+     */
+    NodeRule(BayesSpace space, double[] thresholds, int refine) {
         this.space = space;
         this.k = space.dimension();
         Basis basis = space.basis();
@@ -111,6 +120,7 @@ final class NodeRule {
                 q = Math.max(4, basis.order());
                 break;
         }
+        per *= refine;
         List<Double> edges = new ArrayList<>();
         for (int s = 0; s + 1 < bp.length; s++) {
             for (int j = 0; j < per; j++) {

@@ -55,8 +55,13 @@ import java.util.function.Consumer;
  * <p><b>Evaluation error.</b> With {@link UncertaintyOptions.Evaluation#NODE_RULE} (the default)
  * each draw is evaluated on a fixed Gauss–Legendre node set whose panels end at the basis
  * breakpoints and at the thresholds; a draw whose estimated rule error exceeds 10⁻⁴ of its mass
- * is evaluated with the space's exact methods instead (counted in
- * {@link LocationUncertainty#exactDraws()}). Measured against the exact methods on the same draws
+ * is evaluated again with every panel cut into 4, then 16 (the error of a q-point panel falls as
+ * the (2q+1)-th power of its width), and only a draw that fails those too with the space's exact
+ * methods, about a hundred times slower (counted in {@link LocationUncertainty#exactDraws()}; with
+ * peaked predictions — K = 11 cubic splines, kriged clr ranging over ten and more — the refined
+ * rules made a grid 7.9 times faster, and at a prediction spread of 5 B2 units on study 2's space
+ * they left 23 of 1,020 draws to the exact methods, against 549 with the rule alone). Measured
+ * against the exact methods on the same draws
  * (cubic splines with 8 and 29 interior knots, quadratic splines, polynomials, steps, uniform and
  * normal references; kriging standard deviations up to 5 B2 units; see the tests), quantiles
  * agreed to within 10⁻⁴ of the domain's length and exceedance probabilities and means to within

@@ -37,7 +37,8 @@ public final class UncertaintyOptions {
          * breakpoints and the thresholds are panel edges), normalising constant and tail masses by
          * the panel sums, quantiles by inverting the panel's interpolated cumulative mass with one
          * exact Newton step; draws whose estimated rule error exceeds 10⁻⁴ of the total mass are
-         * evaluated {@link #EXACT}ly (see {@link PredictiveDistribution} for the error). On a Fourier
+         * evaluated on the rule with its panels cut into 4, then 16, and only those that fail there
+         * too {@link #EXACT}ly (see {@link PredictiveDistribution} for the error). On a Fourier
          * space, whose clr is not piecewise polynomial, every draw is evaluated exactly.
          */
         NODE_RULE,

@@ -97,9 +97,11 @@ class NodeRuleAccuracyTest {
             double[] w = compare(s, new double[] {0.05, 0.5, 0.99}, new double[] {Math.log(15)}, spread, 0.05, 1, 20,
                     count);
             assertAccurate(s, w, 3);
-            if (spread <= 1) {
-                assertTrue(count[0] < 0.05 * count[1], "the node rule handles smooth draws itself: " + count[0]);
-            }
+            // the rule and its refinements take almost every draw, peaked ones too (spread 5: 23 of
+            // 1,020 exact; 549 with the unrefined rule alone, 96 at spread 2); the differences above
+            // include the refined draws
+            assertTrue(count[0] < 0.05 * count[1], "draws left to the exact methods: " + count[0] + " of "
+                    + count[1]);
         }
     }
 
