@@ -1,6 +1,8 @@
 package io.densa.spark;
 
 import io.densa.core.DensaException;
+import io.densa.core.NumericalDiagnostics;
+import java.util.Objects;
 import java.util.function.Supplier;
 
 /**
@@ -17,6 +19,19 @@ public final class SparkErrors {
         DensaException.class.getName() + ": "};
 
     private SparkErrors() {
+    }
+
+    /**
+     * Diagnostics of a Densa failure that reached the driver only as the text of a Spark error (the
+     * executor's exception object, with its own diagnostics, was not passed on).
+     *
+     * @param text the failure's message as Spark reported it
+     */
+    public record RemoteFailure(String text) implements NumericalDiagnostics {
+        /** Validates. */
+        public RemoteFailure {
+            Objects.requireNonNull(text, "text");
+        }
     }
 
     /** Runs the action, rethrowing a Densa exception from a failed job as described above. */

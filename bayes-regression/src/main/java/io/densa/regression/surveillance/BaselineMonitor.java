@@ -334,28 +334,7 @@ public final class BaselineMonitor {
                             ExcessCounts.BaselineError.common(rawCovariance));
         }
         double[] scales = new double[n];
-        double[][] shape;
-        if (ab != null && x != null) {
-            shape = cal.size() >= 2 ? covarianceRows(cal.covariance().data, k) : new double[k][k];
-            for (int i = 0; i < n; i++) {
-                scales[i] = Math.max(ab[0] * x[i] + ab[1], 0.0);
-            }
-        } else {
-            double tr = 0;
-            for (int a = 0; a < k; a++) {
-                tr += rawCovariance[a][a];
-            }
-            shape = covarianceRows(Arrays.stream(rawCovariance).flatMapToDouble(Arrays::stream).toArray(), k);
-            Arrays.fill(scales, 1.0);
-            if (tr > 0) {
-                for (double[] row : shape) {
-                    for (int b = 0; b < k; b++) {
-                        row[b] /= tr;
-                    }
-                }
-                Arrays.fill(scales, tr);
-            }
-        }
+        double[][] shape = ResidualCalibration.residualLaw(cal, ab, x, rawCovariance, scales);
         return new PeriodReport(period.index(), expected, current, scores, excess, scales, shape);
     }
 
@@ -477,14 +456,6 @@ public final class BaselineMonitor {
     }
 
     /** Raw residual coordinates y − ŷ (n × K row-major). */
-    private static double[][] covarianceRows(double[] flat, int k) {
-        double[][] out = new double[k][];
-        for (int a = 0; a < k; a++) {
-            out[a] = Arrays.copyOfRange(flat, a * k, (a + 1) * k);
-        }
-        return out;
-    }
-
     private double[] residual(Period period, double[] yhat) {
         double[] r = period.densities().coordinatesRowMajor();
         for (int j = 0; j < r.length; j++) {

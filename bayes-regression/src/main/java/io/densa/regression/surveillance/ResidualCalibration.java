@@ -72,6 +72,43 @@ final class ResidualCalibration {
         return DensitySet.ofRowMajor(space, s, n, rowIds);
     }
 
+    /**
+     * The residual law of {@link PeriodReport#residualCovariance}: returns the shape S (K × K) and
+     * writes the per-unit scales into {@code scales} (n) — with the variance line (ab) and the
+     * period's x values, S the covariance of the standardised calibration residuals {@code cal} and
+     * scale a x_i + b; otherwise S the raw covariance over its trace and every scale that trace.
+     */
+    static double[][] residualLaw(DensitySet cal, double[] ab, double[] x, double[][] rawCovariance, double[] scales) {
+        int k = rawCovariance.length;
+        if (ab != null && x != null) {
+            for (int i = 0; i < scales.length; i++) {
+                scales[i] = Math.max(ab[0] * x[i] + ab[1], 0.0);
+            }
+            return cal.size() >= 2 ? rows(cal.covariance().data, k) : new double[k][k];
+        }
+        double tr = 0;
+        for (int a = 0; a < k; a++) {
+            tr += rawCovariance[a][a];
+        }
+        double[][] shape = new double[k][];
+        for (int a = 0; a < k; a++) {
+            shape[a] = rawCovariance[a].clone();
+            for (int b = 0; b < k && tr > 0; b++) {
+                shape[a][b] /= tr;
+            }
+        }
+        Arrays.fill(scales, tr > 0 ? tr : 1.0);
+        return shape;
+    }
+
+    private static double[][] rows(double[] flat, int k) {
+        double[][] out = new double[k][];
+        for (int a = 0; a < k; a++) {
+            out[a] = Arrays.copyOfRange(flat, a * k, (a + 1) * k);
+        }
+        return out;
+    }
+
     /** Covariance (K × K, divisor m − 1, {@link DensitySet#covariance()}) of the raw calibration residuals. */
     static double[][] covariance(BayesSpace space, List<double[]> calibration, int k) {
         int m = 0;
@@ -88,11 +125,7 @@ final class ResidualCalibration {
             o += r.length;
         }
         DMatrixRMaj cov = DensitySet.ofRowMajor(space, all, m, null).covariance();
-        double[][] out = new double[k][];
-        for (int a = 0; a < k; a++) {
-            out[a] = Arrays.copyOfRange(cov.data, a * k, (a + 1) * k);
-        }
-        return out;
+        return rows(cov.data, k);
     }
 
     /**

@@ -38,17 +38,6 @@ final class DrawEngine {
      */
     static final double RULE_TOLERANCE = 1e-4;
     /**
-     * Panels of the refined rule per panel: a draw whose error estimate fails the tolerance on the
-     * rule is evaluated on the rule with every panel cut into this many (the q-point error falls
-     * as the (2q+1)-th power of the panel width: 4⁹ ≈ 2.6·10⁵ for q = 4), and only when that fails
-     * too by the space's exact methods, about a hundred times slower.
-     */
-    static final int REFINE = 4;
-    /** Refined rules tried before the exact methods: panels cut into 4, then 16. */
-    static final int LEVELS = 2;
-    /** The finest refinement tried before the exact methods. */
-    static final int MAX_REFINE = REFINE * REFINE;
-    /**
      * Most draws evaluated together (work rows of this length, one per node and per panel); more
      * draws are evaluated in blocks so that the work arrays stay bounded. With 200 draws one block: blocks
      * of 16 to 64 draws were measured 30–50 % slower (the per-loop overhead outweighs the cache).
@@ -82,11 +71,9 @@ final class DrawEngine {
     private final double[] cosWeights;
     private final double[] sinWeights;
     private final boolean exactOnly;
-    private final UncertaintyOptions options;
-    /** Panels of the rule per panel of the first rule: 1, or {@link #REFINE} for the fallback rule. */
-    private final int refine;
-    /** The refined engine for draws the rule cannot take (built on first need; null in a refined engine). */
-    private volatile DrawEngine fine;
+    final UncertaintyOptions options;
+    /** The refined rules for draws the rule cannot take (null in a refined engine). */
+    private final RefinedRules refined;
     private final long seed;
     /** The per-location bound of 4-point panels (null for other rules). */
     private final CellBound cellBound;
@@ -118,10 +105,10 @@ final class DrawEngine {
         this(space, factor, r, opt, useCellBound, 1);
     }
 
-    private DrawEngine(BayesSpace space, double[] factor, int r, UncertaintyOptions opt, boolean useCellBound,
-            int refine) {
+    /** With the rule's panels cut into {@code refine} (1: the rule itself, with its refined rules). */
+    DrawEngine(BayesSpace space, double[] factor, int r, UncertaintyOptions opt, boolean useCellBound, int refine) {
         this.options = opt;
-        this.refine = refine;
+        this.refined = refine == 1 ? new RefinedRules(this) : null;
         this.useCellBound = useCellBound;
         this.space = space;
         this.k = space.dimension();
@@ -220,8 +207,8 @@ final class DrawEngine {
         /** Draws of the location evaluated on the refined rule. */
         int refined;
         /** Per refinement level, its engine's scratch (on first need) and whether its node values of the location are set. */
-        final Scratch[] fine = new Scratch[LEVELS];
-        final boolean[] fineBase = new boolean[LEVELS];
+        final Scratch[] fine = new Scratch[RefinedRules.LEVELS];
+        final boolean[] fineBase = new boolean[RefinedRules.LEVELS];
         /** Block columns that failed the rule's check. */
         final int[] failed = new int[width];
         /** Draws whose block passed the bound of {@link CellBound}, summed over calls (for the tests). */
@@ -297,87 +284,13 @@ final class DrawEngine {
                 }
             }
             if (nf > 0) {
-                fallback(c, off, nf, s);
+                refined.evaluate(c, off, nf, s);
             }
         }
-    }
-
-    /**
-     * Draws s.failed[0..nf) of the location on the refined rules in turn (panels cut into 4, then
-     * 16), each draw taken by the first whose error estimate passes; the rest through the exact
-     * methods.
-     */
-    private void fallback(double[] c, int off, int nf, Scratch s) {
-        int[] pending = s.failed;
-        int np = nf;
-        DrawEngine f = this;
-        for (int level = 0; np > 0 && f.refine < MAX_REFINE; level++) {
-            f = f.fineEngine();
-            if (s.fine[level] == null) {
-                s.fine[level] = f.scratch();
-            }
-            Scratch fs = s.fine[level];
-            if (!s.fineBase[level]) {
-                f.rule.nodeValues(c, off, fs.base);
-                s.fineBase[level] = true;
-            }
-            for (int l = 0; l < r; l++) {
-                double[] from = s.z[l], to = fs.z[l];
-                for (int j = 0; j < np; j++) {
-                    to[j] = from[pending[j]];
-                }
-            }
-            f.nodeValues(0, np, fs);
-            if (f.rule.q == 4) {
-                f.panelsOfFour(np, Double.NaN, fs);
-            } else {
-                f.panels(np, fs);
-            }
-            double[] err = fs.err, tot = fs.total;
-            java.util.Arrays.fill(err, 0, np, 0.0);
-            for (int j = 0; j < f.rule.panels; j++) {
-                double[] rj = fs.panelError[j];
-                for (int d = 0; d < np; d++) {
-                    err[d] += rj[d];
-                }
-            }
-            f.quantities(0, np, fs);
-            int left = 0;
-            for (int j = 0; j < np; j++) {
-                int d = pending[j];
-                if (err[j] <= RULE_TOLERANCE * tot[j]) {
-                    for (int qi = 0; qi < quantities; qi++) {
-                        s.values[qi][d] = fs.values[qi][j];
-                    }
-                    s.refined++;
-                } else {
-                    pending[left++] = d; // in place: left ≤ j
-                }
-            }
-            np = left;
-        }
-        for (int j = 0; j < np; j++) {
-            exactDraw(c, off, pending[j], s);
-        }
-    }
-
-    /** The refined engine, built by the first thread that needs it. */
-    private DrawEngine fineEngine() {
-        DrawEngine f = fine;
-        if (f == null) {
-            synchronized (this) {
-                f = fine;
-                if (f == null) {
-                    f = new DrawEngine(space, factor, r, options, false, refine * REFINE);
-                    fine = f;
-                }
-            }
-        }
-        return f;
     }
 
     /** The node values of draws d0 .. d0 + nc − 1 into s.y and their largest into s.shift. */
-    private void nodeValues(int d0, int nc, Scratch s) {
+    void nodeValues(int d0, int nc, Scratch s) {
         int m = rule.m;
         double[][] y = s.y;
         double[] mx = s.shift;
@@ -430,7 +343,7 @@ final class DrawEngine {
      * s.panelError unless the location's bound shows them below the tolerance. Returns whether they
      * were computed (and must be checked).
      */
-    private boolean panelsOfFour(int nc, double bound, Scratch s) {
+    boolean panelsOfFour(int nc, double bound, Scratch s) {
         double[] tot = s.total;
         exponentialsOfFour(s.y, s.shift, s.g, s.mass, nc);
         totals(s.mass, s.prefix, tot, nc);
@@ -449,7 +362,7 @@ final class DrawEngine {
     }
 
     /** Other rules: error estimates, node exponentials, panel masses and totals; returns true. */
-    private boolean panels(int nc, Scratch s) {
+    boolean panels(int nc, Scratch s) {
         NodeRule nr = rule;
         int m = nr.m, q = nr.q, np = nr.panels;
         double[][] y = s.y, g = s.g, mass = s.mass, rp = s.panelError;
@@ -483,7 +396,7 @@ final class DrawEngine {
     }
 
     /** The quantiles, exceedance probabilities and mean of draws d0 .. d0 + nc − 1 into s.values. */
-    private void quantities(int d0, int nc, Scratch s) {
+    void quantities(int d0, int nc, Scratch s) {
         NodeRule nr = rule;
         int m = nr.m, np = nr.panels;
         double[][] y = s.y, g = s.g, mass = s.mass;
@@ -617,7 +530,7 @@ final class DrawEngine {
     }
 
     /** Evaluates draw d (column) through the space's exact methods. */
-    private void exactDraw(double[] c, int off, int d, Scratch s) {
+    void exactDraw(double[] c, int off, int d, Scratch s) {
         double[] cc = s.coords;
         double[][] z = s.z;
         for (int j = 0; j < k; j++) {
@@ -659,52 +572,11 @@ final class DrawEngine {
 
     /**
      * Summary of quantity qi of the last evaluated location: writes estimate (plug-in), mean, sd,
-     * lower and upper (central interval at level) into out[0..5).
+     * lower and upper (central interval at level) into out[0..5); a circular mean's draws are
+     * unrolled around the plug-in value first (within half a period of it).
      */
     void summary(Scratch s, int qi, double level, double[] out) {
-        double[] v = s.values[qi];
-        if (cosWeights != null && mean && qi == quantities - 1) {
-            // a circular mean: the draws unrolled around the plug-in value (within half a period of it)
-            double p = space.period(), at = v[draws];
-            for (int d = 0; d < draws; d++) {
-                v[d] = at + (v[d] - at - p * Math.rint((v[d] - at) / p));
-            }
-        }
-        // four running sums each (draws d ≡ 0, 1, 2, 3 mod 4): one sum's chain of dependent additions
-        // held the loop to the adder's latency
-        double s0 = 0, s1 = 0, s2 = 0, s3 = 0;
-        int d4 = draws & ~3;
-        for (int d = 0; d < d4; d += 4) {
-            s0 += v[d];
-            s1 += v[d + 1];
-            s2 += v[d + 2];
-            s3 += v[d + 3];
-        }
-        for (int d = d4; d < draws; d++) {
-            s0 += v[d];
-        }
-        double mu = ((s0 + s1) + (s2 + s3)) / draws;
-        s0 = 0;
-        s1 = 0;
-        s2 = 0;
-        s3 = 0;
-        for (int d = 0; d < d4; d += 4) {
-            double e0 = v[d] - mu, e1 = v[d + 1] - mu, e2 = v[d + 2] - mu, e3 = v[d + 3] - mu;
-            s0 += e0 * e0;
-            s1 += e1 * e1;
-            s2 += e2 * e2;
-            s3 += e3 * e3;
-        }
-        for (int d = d4; d < draws; d++) {
-            double e = v[d] - mu;
-            s0 += e * e;
-        }
-        double ss = (s0 + s1) + (s2 + s3);
-        System.arraycopy(v, 0, s.sel, 0, draws);
-        double a = 0.5 * (1 - level);
-        out[0] = v[draws];
-        out[1] = mu;
-        out[2] = Math.sqrt(ss / (draws - 1));
-        Selection.centralInterval(s.sel, draws, a, out, 3, s.tails);
+        boolean circular = cosWeights != null && mean && qi == quantities - 1;
+        Selection.summarise(s.values[qi], draws, level, circular ? space.period() : Double.NaN, s.sel, s.tails, out);
     }
 }

@@ -1,7 +1,7 @@
 package io.densa.spatial.uncertainty;
 
 /**
- * Sample quantiles by selection (package-private): the quantile of probability p of n values is
+ * Sample quantiles by selection, and the summary of a quantity's draws (package-private): the quantile of probability p of n values is
  * (1 − f) v_(⌊h⌋) + f v_(⌊h⌋+1) with h = (n − 1) p, f = h − ⌊h⌋ and v_(i) the order statistics
  * (0-based): the linear interpolation that Hyndman &amp; Fan (1996), Sample quantiles in statistical
  * packages, Am. Stat. 50(4), call type 7 (from memory). Order statistics are found by Hoare's
@@ -254,5 +254,62 @@ final class Selection {
         double t = a[i];
         a[i] = a[j];
         a[j] = t;
+    }
+
+    /**
+     * The summary of one quantity's draws at a location: writes estimate (plug-in, v[draws]), mean, sd, lower and upper (central interval at level) of
+     * v[0..draws) into out[0..5).
+     *
+     * @param v      the draws' values then the plug-in value; a circular quantity's draws are unrolled
+     *               in place around the plug-in value (within half a period of it)
+     * @param period the period of a circular quantity, NaN for a linear one
+     * @param sel    working storage of at least draws values
+     * @param tails  working storage of {@link Selection#workLength}(draws) values
+     */
+    static void summarise(double[] v, int draws, double level, double period, double[] sel, double[] tails,
+            double[] out) {
+        if (!Double.isNaN(period)) {
+            // a circular mean: the draws unrolled around the plug-in value (within half a period of it)
+            double p = period, at = v[draws];
+            for (int d = 0; d < draws; d++) {
+                v[d] = at + (v[d] - at - p * Math.rint((v[d] - at) / p));
+            }
+        }
+        // four running sums each (draws d ≡ 0, 1, 2, 3 mod 4): one sum's chain of dependent additions
+        // held the loop to the adder's latency
+        double s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+        int d4 = draws & ~3;
+        for (int d = 0; d < d4; d += 4) {
+            s0 += v[d];
+            s1 += v[d + 1];
+            s2 += v[d + 2];
+            s3 += v[d + 3];
+        }
+        for (int d = d4; d < draws; d++) {
+            s0 += v[d];
+        }
+        double mu = ((s0 + s1) + (s2 + s3)) / draws;
+        s0 = 0;
+        s1 = 0;
+        s2 = 0;
+        s3 = 0;
+        for (int d = 0; d < d4; d += 4) {
+            double e0 = v[d] - mu, e1 = v[d + 1] - mu, e2 = v[d + 2] - mu, e3 = v[d + 3] - mu;
+            s0 += e0 * e0;
+            s1 += e1 * e1;
+            s2 += e2 * e2;
+            s3 += e3 * e3;
+        }
+        for (int d = d4; d < draws; d++) {
+            double e = v[d] - mu;
+            s0 += e * e;
+        }
+        double ss = (s0 + s1) + (s2 + s3);
+        System.arraycopy(v, 0, sel, 0, draws);
+        double a = 0.5 * (1 - level);
+        out[0] = v[draws];
+        out[1] = mu;
+        out[2] = Math.sqrt(ss / (draws - 1));
+        Selection.centralInterval(sel, draws, a, out, 3, tails);
     }
 }
