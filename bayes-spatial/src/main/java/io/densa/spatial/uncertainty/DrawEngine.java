@@ -263,17 +263,7 @@ final class DrawEngine {
     private void nodeBlock(double[] c, int off, int d0, int nc, double bound, Scratch s) {
         // in steps of their own, each method small enough to compile quickly
         nodeValues(d0, nc, s);
-        boolean check = rule.q == 4 ? panelsOfFour(nc, bound, s) : panels(nc, s);
-        if (check) {
-            double[] err = s.err;
-            java.util.Arrays.fill(err, 0, nc, 0.0);
-            for (int j = 0; j < rule.panels; j++) {
-                double[] rj = s.panelError[j];
-                for (int d = 0; d < nc; d++) {
-                    err[d] += rj[d];
-                }
-            }
-        }
+        boolean check = massesAndErrors(nc, bound, s);
         quantities(d0, nc, s);
         if (check) {
             double[] err = s.err, tot = s.total;
@@ -287,6 +277,26 @@ final class DrawEngine {
                 refined.evaluate(c, off, nf, s);
             }
         }
+    }
+
+    /**
+     * After {@link #nodeValues}: the panel masses and totals of draws 0 .. nc − 1 of the block, and,
+     * unless the location's bound (NaN: none) shows them below the tolerance, each draw's error
+     * estimate into s.err; returns whether the estimates were computed (and must be checked).
+     */
+    boolean massesAndErrors(int nc, double bound, Scratch s) {
+        boolean check = rule.q == 4 ? panelsOfFour(nc, bound, s) : panels(nc, s);
+        if (check) {
+            double[] err = s.err;
+            java.util.Arrays.fill(err, 0, nc, 0.0);
+            for (int j = 0; j < rule.panels; j++) {
+                double[] rj = s.panelError[j];
+                for (int d = 0; d < nc; d++) {
+                    err[d] += rj[d];
+                }
+            }
+        }
+        return check;
     }
 
     /** The node values of draws d0 .. d0 + nc − 1 into s.y and their largest into s.shift. */
@@ -343,7 +353,7 @@ final class DrawEngine {
      * s.panelError unless the location's bound shows them below the tolerance. Returns whether they
      * were computed (and must be checked).
      */
-    boolean panelsOfFour(int nc, double bound, Scratch s) {
+    private boolean panelsOfFour(int nc, double bound, Scratch s) {
         double[] tot = s.total;
         exponentialsOfFour(s.y, s.shift, s.g, s.mass, nc);
         totals(s.mass, s.prefix, tot, nc);
@@ -362,7 +372,7 @@ final class DrawEngine {
     }
 
     /** Other rules: error estimates, node exponentials, panel masses and totals; returns true. */
-    boolean panels(int nc, Scratch s) {
+    private boolean panels(int nc, Scratch s) {
         NodeRule nr = rule;
         int m = nr.m, q = nr.q, np = nr.panels;
         double[][] y = s.y, g = s.g, mass = s.mass, rp = s.panelError;

@@ -45,20 +45,9 @@ final class RefinedRules {
                 }
             }
             f.nodeValues(0, np, fs);
-            if (f.rule.q == 4) {
-                f.panelsOfFour(np, Double.NaN, fs);
-            } else {
-                f.panels(np, fs);
-            }
-            double[] err = fs.err, tot = fs.total;
-            java.util.Arrays.fill(err, 0, np, 0.0);
-            for (int j = 0; j < f.rule.panels; j++) {
-                double[] rj = fs.panelError[j];
-                for (int d = 0; d < np; d++) {
-                    err[d] += rj[d];
-                }
-            }
+            f.massesAndErrors(np, Double.NaN, fs);
             f.quantities(0, np, fs);
+            double[] err = fs.err, tot = fs.total;
             int left = 0;
             for (int j = 0; j < np; j++) {
                 int d = pending[j];
