@@ -182,32 +182,8 @@ public final class SparkPipelineRunner {
         io.densa.spark.LocationData data = io.densa.spark.LocationData.of(loc, set);
         System.out.printf(Locale.ROOT, "machine: %s; master %s; %s%n", BenchConfig.machine(), master,
                 String.join(" ", args));
-        if (args[0].equals("intervals")) {
-            int side = Integer.parseInt(args[2]);
-            io.densa.spark.KrigingSpec model = io.densa.spark.KrigingSpec.ordinary(data,
-                    io.densa.spatial.variogram.VariogramModel.exponential(0.5, 30).withNugget(0.02),
-                    io.densa.spatial.kriging.KrigingOptions.withDefaults().withNeighbourhood(
-                            io.densa.spatial.kriging.Neighbourhood.nearest(32)));
-            io.densa.spark.GridSpec grid = io.densa.spark.GridSpec.over(0, 0, 100, 100, side, side)
-                    .withVariance(false).withQuantiles(0.5).withTailProbabilities(5.0).withMeans(true);
-            io.densa.spark.IntervalSpec intervals = io.densa.spark.IntervalSpec.withSeed(3);
-            long c0 = cpu();
-            long t0 = System.nanoTime();
-            io.densa.spark.SparkKriging.cells(spark, model, grid, intervals, 4 * cores, false).write().format("noop")
-                    .mode("overwrite").save();
-            long t1 = System.nanoTime();
-            long c1 = cpu();
-            long[] cells = new long[1];
-            io.densa.spatial.uncertainty.PredictiveDistribution.of(model.kriging()).summariseGrid(grid.grid(),
-                    grid.options().withParallel(cores > 1), io.densa.spatial.uncertainty.UncertaintyOptions.withSeed(3)
-                            .withQuantiles(0.5).withExceedances(5.0).withMean(true), t -> cells[0] += t.size());
-            long t2 = System.nanoTime();
-            long c2 = cpu();
-            double cellsTotal = (double) side * side;
-            System.out.printf(Locale.ROOT, "intervals %d x %d: spark %.2f s (%.0f cells/s; CPU %.2f s), single machine"
-                    + " %.2f s (%.0f cells/s; CPU %.2f s)%n", side, side, s(t1 - t0), cellsTotal / s(t1 - t0),
-                    s(c1 - c0), s(t2 - t1), cells[0] / s(t2 - t1), s(c2 - c1));
-        } else if (args[0].equals("grid")) {
+        if (gridLike) {
+            boolean withIntervals = args[0].equals("intervals");
             int side = Integer.parseInt(args[2]);
             io.densa.spark.KrigingSpec model = io.densa.spark.KrigingSpec.ordinary(data,
                     io.densa.spatial.variogram.VariogramModel.exponential(0.5, 30).withNugget(0.02),
@@ -215,20 +191,31 @@ public final class SparkPipelineRunner {
                             io.densa.spatial.kriging.Neighbourhood.nearest(32)));
             io.densa.spark.GridSpec grid = io.densa.spark.GridSpec.over(0, 0, 100, 100, side, side)
                     .withTailProbabilities(5.0);
+            if (withIntervals) {
+                grid = grid.withVariance(false).withQuantiles(0.5).withMeans(true);
+            }
+            io.densa.spark.IntervalSpec intervals = withIntervals ? io.densa.spark.IntervalSpec.withSeed(3) : null;
             long c0 = cpu();
             long t0 = System.nanoTime();
-            io.densa.spark.SparkKriging.cells(spark, model, grid, 4 * cores, false).write().format("noop")
+            io.densa.spark.SparkKriging.cells(spark, model, grid, intervals, 4 * cores, false).write().format("noop")
                     .mode("overwrite").save();
             long t1 = System.nanoTime();
             long c1 = cpu();
             long[] cells = new long[1];
-            model.kriging().predictGrid(grid.grid(), grid.options().withParallel(cores > 1), t -> cells[0] += t.size());
+            io.densa.spatial.kriging.GridOptions go = grid.options().withParallel(cores > 1);
+            if (withIntervals) {
+                io.densa.spatial.uncertainty.PredictiveDistribution.of(model.kriging()).summariseGrid(grid.grid(), go,
+                        io.densa.spatial.uncertainty.UncertaintyOptions.withSeed(3).withQuantiles(0.5)
+                                .withExceedances(5.0).withMean(true), t -> cells[0] += t.size());
+            } else {
+                model.kriging().predictGrid(grid.grid(), go, t -> cells[0] += t.size());
+            }
             long t2 = System.nanoTime();
             long c2 = cpu();
             double cellsTotal = (double) side * side;
-            System.out.printf(Locale.ROOT, "grid %d x %d: spark %.2f s (%.0f cells/s; CPU %.2f s), single machine %.2f s"
-                    + " (%.0f cells/s; CPU %.2f s)%n", side, side, s(t1 - t0), cellsTotal / s(t1 - t0), s(c1 - c0),
-                    s(t2 - t1), cells[0] / s(t2 - t1), s(c2 - c1));
+            System.out.printf(Locale.ROOT, "%s %d x %d: spark %.2f s (%.0f cells/s; CPU %.2f s), single machine %.2f s"
+                    + " (%.0f cells/s; CPU %.2f s)%n", args[0], side, side, s(t1 - t0), cellsTotal / s(t1 - t0),
+                    s(c1 - c0), s(t2 - t1), cells[0] / s(t2 - t1), s(c2 - c1));
         } else {
             io.densa.spark.VariogramSpec opt = io.densa.spark.VariogramSpec.withDefaults();
             long c0 = cpu();
