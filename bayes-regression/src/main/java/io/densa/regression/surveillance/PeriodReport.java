@@ -21,7 +21,6 @@ import io.densa.core.DensitySet;
  */
 public record PeriodReport(int period, DensitySet expected, DensitySet residuals, AnomalyScoring.Report scores,
         ExcessCounts.Result excess, double[] residualScales, double[][] residualShape) {
-
     /**
      * The covariance Σ_i = s_i S (K × K, a fresh array) of unit i's raw residual r_i = y_i ⊖ ŷ_i in a
      * period without change, from the rolling calibration set: the spread of the observed density
@@ -43,6 +42,7 @@ public record PeriodReport(int period, DensitySet expected, DensitySet residuals
         }
         return out;
     }
+
     /** Whether unit i is flagged. */
     public boolean flagged(int i) {
         return scores.units().get(i).flagged();
