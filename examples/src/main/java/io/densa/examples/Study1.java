@@ -497,10 +497,12 @@ final class Study1 {
 
         int[] flaggedRows = Arrays.stream(ex.result().rankByDisplaced()).filter(i -> flagged[i]).toArray();
         String[] displacedText = new String[n];
+        double[] displacedNoise = new double[n];
         String[][] bandText = new String[2][n];
         for (int i = 0; i < n; i++) {
             ExcessCounts.UnitExcess u = ex.result().units().get(i);
             displacedText[i] = withInterval(u.displaced().value(), u.displaced().lower(), u.displaced().upper(), false);
+            displacedNoise[i] = u.displaced().noiseMean();
             for (int t = 0; t < 2; t++) {
                 ExcessCounts.BandExcess e = u.bands().get(t);
                 bandText[t][i] = withInterval(e.excess(), e.lower(), e.upper(), true);
@@ -510,6 +512,7 @@ final class Study1 {
                 .integer("visits", "visits", latestTotals(run)).probability("p", "smoothed conformal p", p)
                 .probability("q", "BH q", q)
                 .text("displaced", "visits displaced (90 % interval)", displacedText)
+                .number("displaced_noise", "displaced by counting noise alone (mean)", displacedNoise, 0)
                 .text("excess_0_14", "excess ages 0–14", bandText[0])
                 .text("excess_15_24", "excess ages 15–24", bandText[1])
                 .text("excess_ages", "excess at ages", excess)
@@ -517,14 +520,16 @@ final class Study1 {
         if (flaggedRows.length > 0) {
             ExcessCounts.UnitExcess top = ex.result().units().get(flaggedRows[0]);
             run.report.keyNumber(String.format(Locale.ROOT, "Largest departure among the flags: %s %s, %s visits "
-                    + "displaced between age bands (90 %% interval %s to %s) of %d.", codes(run.region)[flaggedRows[0]],
+                    + "displaced between age bands (90 %% interval %s to %s; counting noise alone would displace "
+                    + "about %s) of %d.", codes(run.region)[flaggedRows[0]],
                     names(run.region)[flaggedRows[0]], Numbers.fixed(top.displaced().value(), 0),
                     Numbers.fixed(top.displaced().lower(), 0), Numbers.fixed(top.displaced().upper(), 0),
-                    run.sc.total(flaggedRows[0], latest)));
+                    Numbers.fixed(top.displaced().noiseMean(), 0), run.sc.total(flaggedRows[0], latest)));
         }
         run.report.subheading("Flagged districts").paragraph("Where each flagged district departs, in visits: the "
                 + "visits displaced between the age bands " + ex.bandNames() + " against the baseline (see "
-                + "\"Excess visits\" above), the excess (observed − expected) at ages 0–14 and 15–24, each with its 90 % "
+                + "\"Excess visits\" above) with what counting noise alone would displace against the same baseline "
+                + "(a sum of positive parts is never 0), the excess (observed − expected) at ages 0–14 and 15–24, each with its 90 % "
                 + "bootstrap interval, and the age ranges where the standardised residual clr leaves the calibration "
                 + "set's central 95 % pointwise band (more visits at those ages than the baseline expects). Ranked by "
                 + "displaced visits, largest first.");
@@ -623,8 +628,10 @@ final class Study1 {
                 + String.format(Locale.ROOT, "(its coordinates redrawn from a normal law whose size, a·u_previous + b "
                 + "with a = %.3g and b = %.3g from the residual model above, leaves out the current season's counting "
                 + "noise, and whose shape is that of the calibration residuals). ", b.varianceA(), b.varianceB())
-                + "Counting noise alone makes displaced visits positive, so compare a district's interval with those "
-                + "of unflagged districts of its size rather than with zero.");
+                + "Counting noise alone makes displaced visits positive, so each district also gets what counting "
+                + "noise alone would displace against the same baseline (the closed-form mean of de Moivre's absolute "
+                + "deviation, bands multinomial with the district's total) and a Monte Carlo p-value against it: "
+                + "read a district's interval against that, not against zero.");
         run.report.paragraph(String.format(Locale.ROOT, "Across all %d districts %,.0f visits are displaced between "
                 + "bands in the latest season; at ages 0–24 the districts have %,d visits against %,.0f expected.",
                 n, displacedAll, Arrays.stream(youngObs).sum(), Arrays.stream(youngExp).sum()));

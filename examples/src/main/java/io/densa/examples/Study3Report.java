@@ -235,6 +235,8 @@ final class Study3Report {
         double[] displaced = new double[n];
         double[] dispLo = new double[n];
         double[] dispHi = new double[n];
+        double[] dispNoise = new double[n];
+        double[] dispP = new double[n];
         double[] pLast = new double[n];
         for (int i = 0; i < n; i++) {
             AlertHistory h = history.get(i);
@@ -247,6 +249,8 @@ final class Study3Report {
             displaced[i] = d.value();
             dispLo[i] = d.lower();
             dispHi[i] = d.upper();
+            dispNoise[i] = d.noiseMean();
+            dispP[i] = d.pValue();
             pLast[i] = lastReport.scores().units().get(i).adjustedPValue();
         }
         Table table = Table.of(n).text("code", codes).text("name", names)
@@ -264,6 +268,8 @@ final class Study3Report {
                 .number("timing_change_days_hi90", "change of timing, 90 % interval to", timingInterval[3], 1)
                 .number("displaced_events", "displaced events, last week", displaced, 0)
                 .number("displaced_lo90", "displaced 5 %", dispLo, 0).number("displaced_hi90", "displaced 95 %", dispHi, 0)
+                .number("displaced_noise", "displaced by counting noise alone (mean)", dispNoise, 0)
+                .probability("displaced_p", "p, displaced against counting noise alone", dispP)
                 .probability("adjusted_p_last_week", "BH-adjusted p, last week", pLast)
                 .number("yearly_events_expected", "expected events per year", sc.yearly(), 0)
                 .number("peak_day_truth", "peak day of the season (truth; before any shift)", sc.peaks(), 1);
@@ -283,7 +289,9 @@ final class Study3Report {
                 + "week of their first flag (" + ever.length + " in all; at most 25 shown, every district in "
                 + "`districts.csv`). Displaced events: how many of the trailing year's events would have to move to "
                 + "another 30-day band of the year for the observed band counts to match the baseline's prediction, "
-                + "with a 90 % parametric-bootstrap interval (Poisson counting noise). The change of timing (days) "
+                + "with a 90 % parametric-bootstrap interval (Poisson counting noise); a sum of positive parts, it is "
+                + "never 0, so `districts.csv` also gives what counting noise alone would displace against the same "
+                + "baseline (`displaced_noise`) and a p-value against that (`displaced_p`). The change of timing (days) "
                 + "comes with a 90 % interval from 1,000 draws of the observed density with the covariance of the "
                 + "district's residual against the baseline in weeks without change (from the monitor's rolling "
                 + "calibration residuals, scaled by the district's estimation variance): it carries the counting "
@@ -296,7 +304,8 @@ final class Study3Report {
                 + "counts use each district's own total, and an early season moves events in time without adding any.")
                 .table(table.select(rows).columns("code", "name", "early_season", "first_flagged_week", "flagged_weeks",
                         "consecutive_at_end", "detection_delay_weeks", "timing_change_days", "timing_change_days_lo90",
-                        "timing_change_days_hi90", "displaced_events", "displaced_lo90", "displaced_hi90"));
+                        "timing_change_days_hi90", "displaced_events", "displaced_lo90", "displaced_hi90",
+                        "displaced_noise"));
     }
 
     /** A fitted space–time model in words (distances in km, time lags in weeks). */

@@ -99,8 +99,67 @@ final class BootstrapPlan {
         }
         ExcessCounts.BandExcess overall = new ExcessCounts.BandExcess(bands[0], bands[nb], total, denominator, total - denominator,
                 ends[nb][0], ends[nb][1]);
-        ExcessCounts.Displaced disp = new ExcessCounts.Displaced(displaced, ends[nb + 1][0], ends[nb + 1][1]);
+        double scale = own ? total : denominator;
+        double noiseMean = 0;
+        for (int t = 0; t < nb; t++) {
+            noiseMean += own ? binomialPositivePart((long) total, b.piHat[t])
+                    : poissonPositivePart(denominator * b.piHat[t]);
+        }
+        // counting noise alone against the baseline as given, on a stream of its own
+        SplittableRandom nullRng = Seeds.stream(Seeds.mix(seed, NULL_STREAM), i);
+        int beyond = 0;
+        for (int r = 0; r < draws; r++) {
+            double d0 = 0;
+            long left = (long) total;
+            double rest = 1;
+            for (int t = 0; t < nb; t++) {
+                double e = scale * b.piHat[t];
+                double o;
+                if (own) {
+                    double p = rest > 0 ? Math.min(1, b.piHat[t] / rest) : 0;
+                    long x = t == nb - 1 ? left : CountSampling.binomial(left, p, nullRng);
+                    left -= x;
+                    rest -= b.piHat[t];
+                    o = x;
+                } else {
+                    o = CountSampling.poisson(e, nullRng);
+                }
+                d0 += Math.max(0, o - e);
+            }
+            beyond += d0 >= displaced ? 1 : 0;
+        }
+        ExcessCounts.Displaced disp = new ExcessCounts.Displaced(displaced, ends[nb + 1][0], ends[nb + 1][1], noiseMean,
+                (1.0 + beyond) / (1.0 + draws));
         return new ExcessCounts.UnitExcess(i, id, overall, list, disp);
+    }
+
+    /** Index mixed into the seed for the noise-only draws of the displaced events. */
+    static final long NULL_STREAM = 0x6e6f697365L;
+
+    /**
+     * E max(0, X − np) for X ~ Binomial(n, p): ν (1 − p) P(X = ν), ν = ⌊np⌋ + 1 (see
+     * {@link ExcessCounts.Displaced}).
+     */
+    static double binomialPositivePart(long n, double p) {
+        if (!(p > 0) || !(p < 1) || n <= 0) {
+            return 0;
+        }
+        long nu = (long) Math.floor(n * p) + 1;
+        if (nu > n) {
+            return 0;
+        }
+        double logPmf = CountSampling.logFactorial(n) - CountSampling.logFactorial(nu)
+                - CountSampling.logFactorial(n - nu) + nu * Math.log(p) + (n - nu) * Math.log1p(-p);
+        return nu * (1 - p) * Math.exp(logPmf);
+    }
+
+    /** E max(0, X − λ) for X ~ Poisson(λ): λ P(X = ⌊λ⌋) (see {@link ExcessCounts.Displaced}). */
+    static double poissonPositivePart(double lambda) {
+        if (!(lambda > 0)) {
+            return 0;
+        }
+        long m = (long) Math.floor(lambda);
+        return lambda * Math.exp(-lambda + m * Math.log(lambda) - CountSampling.logFactorial(m));
     }
 
     /** out = M x (M rows × k, x from offset off). */

@@ -223,15 +223,29 @@ public final class ExcessCounts {
     }
 
     /**
-     * Displaced events Σ_B max(0, O(B) − E(B)) with its bootstrap interval. A sum of positive parts:
-     * counting noise alone makes it positive, so compare the interval with that of a unit without
-     * excess rather than with 0.
+     * Displaced events Σ_B max(0, O(B) − E(B)) with its bootstrap interval, and what counting noise
+     * alone would give against the same baseline. A sum of positive parts: counting noise alone
+     * makes it positive (a quiet unit of a few hundred events displaces some tens), so its interval
+     * does not reach 0 even without any change; read it against {@code noiseMean}, and
+     * {@code pValue} for whether it is beyond noise.
      *
-     * @param value point estimate
-     * @param lower lower end of the interval
-     * @param upper upper end
+     * <p>The noise reference takes the baseline as exact: band counts O(B) ~ Binomial(N, π(B))
+     * (multinomial given the unit's own total N) or Poisson(T π(B)) (a given total T).
+     * {@code noiseMean} is then Σ_B E max(0, O(B) − E(B)) in closed form: ν q P(X = ν) with
+     * ν = ⌊Np⌋ + 1 for a binomial (the mean absolute deviation of de Moivre, halved), λ P(X = ⌊λ⌋)
+     * for a Poisson variate of mean λ (Diaconis &amp; Zabell (1991), Closed form summation for
+     * classical distributions: variations on a theme of de Moivre, Statist. Sci. 6(3); from memory,
+     * checked in the tests against sums over Commons Math's probability mass functions).
+     * {@code pValue} is (1 + #{D₀ ≥ D}) / (1 + B) over B draws D₀ of that law (its own stream of the
+     * seed; the intervals' draws are unchanged).
+     *
+     * @param value     point estimate
+     * @param lower     lower end of the interval
+     * @param upper     upper end
+     * @param noiseMean displaced events expected from counting noise alone, the baseline exact
+     * @param pValue    Monte Carlo p-value of the displaced events against counting noise alone
      */
-    public record Displaced(double value, double lower, double upper) {
+    public record Displaced(double value, double lower, double upper, double noiseMean, double pValue) {
     }
 
     /**

@@ -166,6 +166,82 @@ class ExcessCountsTest {
         }
     }
 
+    /**
+     * The closed forms of E max(0, X − mean) (de Moivre's mean absolute deviation, halved) against
+     * direct sums over Commons Math's binomial and Poisson probability mass functions.
+     */
+    @Test
+    void noiseMeanClosedFormsMatchSumsOverTheMassFunctions() {
+        for (long n : new long[] {1, 7, 40, 333, 5000}) {
+            for (double p : new double[] {0.001, 0.05, 0.3, 0.5, 0.77, 0.999}) {
+                org.apache.commons.math3.distribution.BinomialDistribution bd =
+                        new org.apache.commons.math3.distribution.BinomialDistribution(null, (int) n, p);
+                double sum = 0;
+                for (int x = 0; x <= n; x++) {
+                    sum += Math.max(0, x - n * p) * bd.probability(x);
+                }
+                assertEquals(sum, BootstrapPlan.binomialPositivePart(n, p), 1e-10 * (1 + sum), "n " + n + ", p " + p);
+            }
+        }
+        for (double lambda : new double[] {0.01, 0.7, 1, 3.5, 42, 900.25}) {
+            PoissonDistribution pd = new PoissonDistribution(lambda);
+            double sum = 0;
+            for (int x = 0; x <= lambda + 40 * Math.sqrt(lambda) + 40; x++) {
+                sum += Math.max(0, x - lambda) * pd.probability(x);
+            }
+            assertEquals(sum, BootstrapPlan.poissonPositivePart(lambda), 1e-10 * (1 + sum), "lambda " + lambda);
+        }
+    }
+
+    /**
+     * Units whose counts follow the baseline exactly (multinomial with their own totals): the mean of
+     * their displaced events matches the noise mean, and the p-values are uniform (P(p ≤ 0.1) ≈ 0.1);
+     * a unit with a real shift has a small p-value.
+     */
+    @Test
+    void displacedEventsAgainstCountingNoiseAlone() {
+        double[] c0 = truncatedNormal(4, 2);
+        double[] pi = {truncatedNormalProbability(4, 2, 0, 2), truncatedNormalProbability(4, 2, 2, 5),
+            truncatedNormalProbability(4, 2, 5, 10)};
+        int n = 400;
+        long total = 300;
+        SplittableRandom rng = new SplittableRandom(91);
+        double[][] c = new double[n][];
+        long[][] cnt = new long[n][];
+        for (int i = 0; i < n; i++) {
+            c[i] = c0;
+            double[] band = new double[3];
+            for (long e = 0; e < total; e++) {
+                double u = rng.nextDouble();
+                band[u < pi[0] ? 0 : u < pi[0] + pi[1] ? 1 : 2]++;
+            }
+            cnt[i] = counts(band);
+        }
+        ExcessCounts.Result r = ExcessCounts.withDefaults().withDraws(199, 5).estimate(DensitySet.of(SPACE, c), cnt,
+                BIN_EDGES, BANDS, ExcessCounts.BaselineError.none());
+        double mean = 0;
+        int small = 0;
+        for (ExcessCounts.UnitExcess u : r.units()) {
+            mean += u.displaced().value() / n;
+            small += u.displaced().pValue() <= 0.1 ? 1 : 0;
+        }
+        double noise = r.units().get(0).displaced().noiseMean();
+        double expected = 0;
+        for (double q : pi) {
+            expected += BootstrapPlan.binomialPositivePart(total, q);
+        }
+        assertEquals(expected, noise, 1e-9 * expected); // band probabilities by quadrature, to about 1e-12
+        // the displaced events' SD is about 0.6 of their mean here: standard error of the mean ≈ 0.03 of it
+        assertEquals(noise, mean, 0.1 * noise, "mean displaced " + mean + " against the noise mean " + noise);
+        // 400 p-values: binomial SD of the share at 0.1 is 0.015
+        assertEquals(0.1, small / (double) n, 0.05, "share of p <= 0.1");
+        double[] shifted = {0.5 * total, 0.3 * total, 0.2 * total};
+        ExcessCounts.Displaced d = ExcessCounts.withDefaults().withDraws(199, 5).estimate(
+                DensitySet.of(SPACE, new double[][] {c0}), new long[][] {counts(shifted)}, BIN_EDGES, BANDS,
+                ExcessCounts.BaselineError.none()).units().get(0).displaced();
+        assertTrue(d.pValue() <= 0.01 && d.value() > 3 * d.noiseMean(), d.toString());
+    }
+
     @Test
     void baselineErrorWidensTheInterval() {
         double[] c = truncatedNormal(4, 2);
