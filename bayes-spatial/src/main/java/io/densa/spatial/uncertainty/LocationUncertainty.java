@@ -12,7 +12,8 @@ import java.util.List;
  *                    {@link UncertaintyOptions#exceedances()}
  * @param mean        the summary of E[u(X)], or null when not requested
  * @param exactDraws  draws (of n + 1, the plug-in included) evaluated by the exact methods because
- *                    the node rule's error bound exceeded its tolerance (all of them with
+ *                    the node rule's error bound exceeded its tolerance on the rule and on its
+ *                    two refinements (all of them with
  *                    {@link UncertaintyOptions.Evaluation#EXACT})
  */
 public record LocationUncertainty(CoordinateLaw law, List<DerivedInterval> quantiles,

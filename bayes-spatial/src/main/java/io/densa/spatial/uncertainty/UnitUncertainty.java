@@ -13,7 +13,8 @@ import java.util.List;
  *                    {@link UncertaintyOptions#exceedances()}
  * @param mean        the summary of E[u(X)], or null when not requested
  * @param exactDraws  draws (of n + 1, the plug-in included) evaluated by the exact methods because
- *                    the node rule's error bound exceeded its tolerance
+ *                    the node rule's error bound exceeded its tolerance on the rule and on its
+ *                    two refinements
  */
 public record UnitUncertainty(String id, List<DerivedInterval> quantiles, List<DerivedInterval> exceedances,
         DerivedInterval mean, int exactDraws) {
