@@ -42,6 +42,15 @@ class ExcessCountsTest {
                 / (nd.cumulativeProbability(B) - nd.cumulativeProbability(A));
     }
 
+    /** P(X in band) of the three bands for a normal(mu, sd) truncated to [A, B]. */
+    private static double[] bandProbabilities(double mu, double sd) {
+        double[] p = new double[BANDS.length - 1];
+        for (int t = 0; t < p.length; t++) {
+            p[t] = truncatedNormalProbability(mu, sd, BANDS[t], BANDS[t + 1]);
+        }
+        return p;
+    }
+
     private static long[] counts(double[] bandCounts) {
         // spread each band's count over its first bin (band totals are all that matter)
         long[] c = new long[10];
@@ -83,8 +92,7 @@ class ExcessCountsTest {
         // O(B) − N π(B) under independent Poisson band counts: variance O(1 − π)² + π²(N − O), the delta
         // method (common practice); with thousands of events the percentile interval must match the normal one.
         double[] c = truncatedNormal(4, 2);
-        double[] pi = {truncatedNormalProbability(4, 2, 0, 2), truncatedNormalProbability(4, 2, 2, 5),
-            truncatedNormalProbability(4, 2, 5, 10)};
+        double[] pi = bandProbabilities(4, 2);
         double[] band = {3000, 9000, 8000};
         double n = band[0] + band[1] + band[2];
         DensitySet baseline = DensitySet.of(SPACE, new double[][] {c});
@@ -125,8 +133,7 @@ class ExcessCountsTest {
         // band; the baseline given to the method is c0 + F z with Σ = diag(0.2, 0.1). Target quantity:
         // λ(p(B) − π(B)). 300 units = 300 replicates, 299 draws each.
         double[] c0 = truncatedNormal(4, 2);
-        double[] pi = {truncatedNormalProbability(4, 2, 0, 2), truncatedNormalProbability(4, 2, 2, 5),
-            truncatedNormalProbability(4, 2, 5, 10)};
+        double[] pi = bandProbabilities(4, 2);
         double share = 0.25;
         double[] p = new double[3];
         double[][] young = {{0, 2}, {2, 5}, {5, 10}};
@@ -201,8 +208,7 @@ class ExcessCountsTest {
     @Test
     void displacedEventsAgainstCountingNoiseAlone() {
         double[] c0 = truncatedNormal(4, 2);
-        double[] pi = {truncatedNormalProbability(4, 2, 0, 2), truncatedNormalProbability(4, 2, 2, 5),
-            truncatedNormalProbability(4, 2, 5, 10)};
+        double[] pi = bandProbabilities(4, 2);
         int n = 400;
         long total = 300;
         SplittableRandom rng = new SplittableRandom(91);
