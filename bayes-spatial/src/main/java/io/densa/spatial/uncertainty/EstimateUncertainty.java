@@ -104,6 +104,7 @@ public final class EstimateUncertainty {
                 }
                 System.arraycopy(c[a], 0, flat, a * k, k);
             }
+            requireSymmetricSemidefinite(flat, k, "row " + ids[i]);
             factors[i] = factor(flat, "row " + ids[i], "the covariance", k);
         }
         return summarise(centres, factors, ids, options);
@@ -146,6 +147,34 @@ public final class EstimateUncertainty {
         Density d = estimate.density();
         return summarise(new BatchEstimate(DensitySet.of(d.space(), new double[][] {d.coordinates()},
                 new String[] {estimate.diagnostics().id()}), List.of(estimate.diagnostics())), options).get(0);
+    }
+
+    /**
+     * Checks a caller's covariance: finite, symmetric to 10⁻¹⁰ of its largest entry and positive
+     * semi-definite to 10⁻¹⁰ of its largest eigenvalue (as {@link PredictiveDistribution#of(
+     * io.densa.spatial.kriging.Kriging, double[][])} does).
+     */
+    private static void requireSymmetricSemidefinite(double[] s, int k, String who) {
+        double big = 0;
+        for (double v : s) {
+            if (!Double.isFinite(v)) {
+                throw new IllegalArgumentException(who + ": the covariance is not finite (" + v + ")");
+            }
+            big = Math.max(big, Math.abs(v));
+        }
+        for (int a = 0; a < k; a++) {
+            for (int b = 0; b < a; b++) {
+                if (Math.abs(s[a * k + b] - s[b * k + a]) > 1e-10 * big) {
+                    throw new IllegalArgumentException(who + ": the covariance is not symmetric: entries (" + a + ", "
+                            + b + ") and (" + b + ", " + a + ") are " + s[a * k + b] + " and " + s[b * k + a]);
+                }
+            }
+        }
+        double[] values = SymmetricEigen.of(s, k).values();
+        if (values[k - 1] < -1e-10 * Math.max(values[0], 0)) {
+            throw new IllegalArgumentException(who + ": the covariance is not positive semi-definite (eigenvalues "
+                    + values[0] + " to " + values[k - 1] + ")");
+        }
     }
 
     /**

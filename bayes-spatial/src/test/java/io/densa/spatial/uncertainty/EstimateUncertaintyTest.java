@@ -190,6 +190,17 @@ class EstimateUncertaintyTest {
         bad.set(2, new double[k][k - 1]);
         e = assertThrows(IllegalArgumentException.class, () -> EstimateUncertainty.summarise(est.densities(), bad, o));
         assertTrue(e.getMessage().contains("covariance row 0 must have " + k), e.getMessage());
+        double[][] asym = new double[k][k];
+        asym[0][1] = 1;
+        bad.set(2, asym);
+        e = assertThrows(IllegalArgumentException.class, () -> EstimateUncertainty.summarise(est.densities(), bad, o));
+        assertTrue(e.getMessage().contains("not symmetric"), e.getMessage());
+        double[][] indefinite = new double[k][k];
+        indefinite[0][0] = 1;
+        indefinite[1][1] = -0.5;
+        bad.set(2, indefinite);
+        e = assertThrows(IllegalArgumentException.class, () -> EstimateUncertainty.summarise(est.densities(), bad, o));
+        assertTrue(e.getMessage().contains("not positive semi-definite"), e.getMessage());
     }
 
     /**
