@@ -52,6 +52,7 @@
  * GridExport.of(GridBand.median(), GridBand.exceedance(15), GridBand.krigingSd())
  *         .toGeoTiff(Path.of("map.tif"), Crs.projected(32633), GeoTiffOptions.defaults())
  *         .toCsv(Path.of("cells.csv"))
+ *         .withIntervals(UncertaintyOptions.withSeed(7))   // optional: median_lower, median_upper, …
  *         .run(kriging, grid);
  * }</pre>
  *     or any raster cell by cell with {@link io.densa.io.raster.GeoTiffWriter}.</li>

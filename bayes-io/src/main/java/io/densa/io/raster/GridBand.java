@@ -93,6 +93,11 @@ public final class GridBand {
         return name;
     }
 
+    /** v passed through the band's function (v itself without one). */
+    double map(double v) {
+        return map == null ? v : map.applyAsDouble(v);
+    }
+
     /** The value of cell q of a tile, given where this band's quantity sits in the tile's arrays. */
     double value(GridTile t, int q, int index) {
         double v;

@@ -5,6 +5,10 @@ import io.densa.spatial.kriging.Grid;
 import io.densa.spatial.kriging.GridOptions;
 import io.densa.spatial.kriging.GridTile;
 import io.densa.spatial.kriging.Kriging;
+import io.densa.spatial.uncertainty.IntervalLayer;
+import io.densa.spatial.uncertainty.PredictiveDistribution;
+import io.densa.spatial.uncertainty.UncertaintyOptions;
+import io.densa.spatial.uncertainty.UncertaintyTile;
 import java.io.BufferedWriter;
 import java.io.IOException;
 import java.io.UncheckedIOException;
@@ -18,7 +22,6 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Objects;
-import java.util.function.Consumer;
 import org.apache.commons.csv.CSVFormat;
 import org.apache.commons.csv.CSVPrinter;
 
@@ -44,6 +47,10 @@ import org.apache.commons.csv.CSVPrinter;
  *         .run(kriging, grid);
  * }</pre>
  *
+ * <p>With {@link #withIntervals}, every quantile, exceedance and mean band also gets the two ends of
+ * its Monte Carlo interval as bands {@code <name>_lower} and {@code <name>_upper}, after all the
+ * plain bands, from {@link PredictiveDistribution#summariseGrid} in the same streaming pass.
+ *
  * <p>Immutable; {@link #run} may be called again (it overwrites the files).
  */
 public final class GridExport {
@@ -54,9 +61,10 @@ public final class GridExport {
     private final Path csv;
     private final boolean parallel;
     private final ProgressListener listener;
+    private final UncertaintyOptions intervals;
 
     private GridExport(List<GridBand> bands, Path tiff, Crs crs, GeoTiffOptions tiffOptions, Path csv,
-            boolean parallel, ProgressListener listener) {
+            boolean parallel, ProgressListener listener, UncertaintyOptions intervals) {
         this.bands = bands;
         this.tiff = tiff;
         this.crs = crs;
@@ -64,6 +72,7 @@ public final class GridExport {
         this.csv = csv;
         this.parallel = parallel;
         this.listener = listener;
+        this.intervals = intervals;
     }
 
     /** An export of these bands (names distinct), to targets still to be chosen. */
@@ -81,29 +90,49 @@ public final class GridExport {
             names.add(b.name());
         }
         return new GridExport(List.of(bands), null, null, GeoTiffOptions.defaults(), null, true,
-                ProgressListener.NONE);
+                ProgressListener.NONE, null);
     }
 
     /** Also write a GeoTIFF. */
     public GridExport toGeoTiff(Path file, Crs c, GeoTiffOptions options) {
         return new GridExport(bands, Objects.requireNonNull(file, "file"), Objects.requireNonNull(c, "crs"),
-                Objects.requireNonNull(options, "options"), csv, parallel, listener);
+                Objects.requireNonNull(options, "options"), csv, parallel, listener, intervals);
     }
 
     /** Also write a CSV cell table. */
     public GridExport toCsv(Path file) {
         return new GridExport(bands, tiff, crs, tiffOptions, Objects.requireNonNull(file, "file"), parallel,
-                listener);
+                listener, intervals);
     }
 
     /** Whether prediction tiles are computed in parallel (the files are identical either way). */
     public GridExport withParallel(boolean p) {
-        return new GridExport(bands, tiff, crs, tiffOptions, csv, p, listener);
+        return new GridExport(bands, tiff, crs, tiffOptions, csv, p, listener, intervals);
     }
 
     /** With a progress listener for the prediction ({@link GridOptions#withProgressListener}). */
     public GridExport withProgressListener(ProgressListener l) {
-        return new GridExport(bands, tiff, crs, tiffOptions, csv, parallel, Objects.requireNonNull(l, "listener"));
+        return new GridExport(bands, tiff, crs, tiffOptions, csv, parallel, Objects.requireNonNull(l, "listener"),
+                intervals);
+    }
+
+    /**
+     * Also writes, for every quantile, exceedance and mean band, the two ends of its Monte Carlo
+     * interval ({@link PredictiveDistribution#of(Kriging)}: the coordinate covariance shape from the
+     * kriging data's drift residuals) as bands {@code <name>_lower} and {@code <name>_upper} after the
+     * plain bands; a band's function maps both ends (their order kept for a decreasing one). The
+     * options give the seed, draws, level and evaluation; their quantities are replaced by the
+     * bands'. The plain bands keep their values.
+     */
+    public GridExport withIntervals(UncertaintyOptions options) {
+        return new GridExport(bands, tiff, crs, tiffOptions, csv, parallel, listener,
+                Objects.requireNonNull(options, "options"));
+    }
+
+    /** Whether band b has an interval (with {@link #withIntervals}). */
+    private boolean hasInterval(GridBand b) {
+        return intervals != null && (b.kind == GridBand.Kind.QUANTILE || b.kind == GridBand.Kind.EXCEEDANCE
+                || b.kind == GridBand.Kind.MEAN);
     }
 
     /** The prediction options this export uses, with the index of each band's quantity. */
@@ -143,7 +172,8 @@ public final class GridExport {
     /**
      * Predicts the grid with the kriging and writes the targets.
      *
-     * @throws IllegalStateException    if no target was chosen, or on an I/O error
+     * @throws IllegalStateException    if no target was chosen, if intervals are asked for without a
+     *                                  quantile, exceedance or mean band, or on an I/O error
      * @throws IllegalArgumentException as {@link Kriging#predictGrid} and {@link GeoTiffWriter} do (for
      *                                  example a band value that is not finite, naming the cell)
      */
@@ -159,6 +189,23 @@ public final class GridExport {
         for (GridBand b : bands) {
             names.add(b.name());
         }
+        List<Integer> withInterval = new ArrayList<>();
+        for (int b = 0; b < bands.size(); b++) {
+            if (hasInterval(bands.get(b))) {
+                withInterval.add(b);
+                names.add(bands.get(b).name() + "_lower");
+                names.add(bands.get(b).name() + "_upper");
+            }
+        }
+        if (intervals != null && withInterval.isEmpty()) {
+            throw new IllegalStateException("intervals need a quantile, exceedance or mean band");
+        }
+        for (int i = 0; i < names.size(); i++) {
+            if (names.subList(0, i).contains(names.get(i))) {
+                throw new IllegalArgumentException("band name '" + names.get(i) + "' is used twice (an interval"
+                        + " end's name is the band's name + _lower or _upper); rename one (named)");
+            }
+        }
         RasterLayout layout = tiff == null ? null : RasterLayout.of(grid, crs, names);
         GeoTiffWriter w = tiff == null ? null : GeoTiffWriter.create(tiff, layout, tiffOptions);
         Path csvPart = csv == null ? null : csv.toAbsolutePath().resolveSibling(csv.getFileName() + ".part");
@@ -171,8 +218,14 @@ public final class GridExport {
                 header.addAll(names);
                 printer = CSVFormat.RFC4180.builder().setHeader(header.toArray(new String[0])).get().print(out);
             }
-            Sink sink = new Sink(grid, opt, index, w, printer, tiffOptions.tileSize());
-            kriging.predictGrid(grid, opt, sink);
+            Sink sink = new Sink(grid, index, withInterval, names, w, printer, tiffOptions.tileSize());
+            if (intervals == null) {
+                kriging.predictGrid(grid, opt, t -> sink.accept(t, null));
+            } else {
+                UncertaintyOptions uo = intervals.withQuantiles(opt.probabilities())
+                        .withExceedances(opt.thresholds()).withMean(opt.means());
+                PredictiveDistribution.of(kriging).summariseGrid(grid, opt, uo, u -> sink.accept(u.tile(), u));
+            }
             RasterSummary rs = w == null ? null : w.finish();
             if (printer != null) {
                 printer.close(true);
@@ -201,9 +254,12 @@ public final class GridExport {
     }
 
     /** Receives tiles in delivery order and feeds the writers. */
-    private final class Sink implements Consumer<GridTile> {
+    private final class Sink {
         private final Grid grid;
         private final int[] index;
+        private final List<Integer> withInterval;
+        private final int columns;
+        private final List<String> names;
         private final GeoTiffWriter writer;
         private final CSVPrinter printer;
         private final int tileSize;
@@ -211,16 +267,31 @@ public final class GridExport {
         int tiles;
         private double[][] values = new double[0][];
 
-        Sink(Grid grid, GridOptions opt, int[] index, GeoTiffWriter writer, CSVPrinter printer, int tileSize) {
+        Sink(Grid grid, int[] index, List<Integer> withInterval, List<String> names, GeoTiffWriter writer,
+                CSVPrinter printer, int tileSize) {
             this.grid = grid;
             this.index = index;
+            this.withInterval = withInterval;
+            this.names = names;
+            this.columns = names.size();
             this.writer = writer;
             this.printer = printer;
             this.tileSize = tileSize;
         }
 
-        @Override
-        public void accept(GridTile t) {
+        /** The interval layer of band b in the tile's intervals. */
+        private IntervalLayer layer(UncertaintyTile u, GridBand band, int b) {
+            switch (band.kind) {
+                case QUANTILE:
+                    return u.quantiles().get(index[b]);
+                case EXCEEDANCE:
+                    return u.exceedances().get(index[b]);
+                default:
+                    return u.mean();
+            }
+        }
+
+        void accept(GridTile t, UncertaintyTile u) {
             int n = t.size();
             int r0 = t.tileRow() * tileSize;
             int[] rows = t.rows();
@@ -231,14 +302,25 @@ public final class GridExport {
                             + tileSize);
                 }
             }
-            if (values.length != bands.size() || (values.length > 0 && values[0].length < n)) {
-                values = new double[bands.size()][Math.max(n, tileSize * tileSize)];
+            if (values.length != columns || (values.length > 0 && values[0].length < n)) {
+                values = new double[columns][Math.max(n, tileSize * tileSize)];
             }
             for (int b = 0; b < bands.size(); b++) {
                 GridBand band = bands.get(b);
                 for (int q = 0; q < n; q++) {
                     values[b][q] = band.value(t, q, index[b]);
                 }
+            }
+            int col = bands.size();
+            for (int b : withInterval) {
+                GridBand band = bands.get(b);
+                IntervalLayer l = layer(u, band, b);
+                for (int q = 0; q < n; q++) {
+                    double lo = band.map(l.lowers()[q]), hi = band.map(l.uppers()[q]);
+                    values[col][q] = Math.min(lo, hi);
+                    values[col + 1][q] = Math.max(lo, hi);
+                }
+                col += 2;
             }
             if (writer != null) {
                 writer.finishRowsBelow(r0);
@@ -252,11 +334,11 @@ public final class GridExport {
                         printer.print(j);
                         printer.print(Double.toString(grid.x(c)));
                         printer.print(Double.toString(grid.y(j)));
-                        for (int b = 0; b < bands.size(); b++) {
+                        for (int b = 0; b < columns; b++) {
                             double v = values[b][q];
                             if (!Double.isFinite(v)) {
                                 throw new IllegalArgumentException("cell (column " + c + ", row " + j + "), band '"
-                                        + bands.get(b).name() + "': value " + v + " is not finite");
+                                        + names.get(b) + "': value " + v + " is not finite");
                             }
                             printer.print(Double.toString(v));
                         }

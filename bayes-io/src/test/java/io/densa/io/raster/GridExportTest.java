@@ -155,4 +155,55 @@ class GridExportTest {
         assertFalse(Files.exists(dir.resolve("bad.csv.part")));
         rejects(() -> GridExport.of(GridBand.median(), GridBand.quantile(0.5).named("median")), "used twice");
     }
+
+    /**
+     * With intervals: the CSV's plain bands are those of the export without intervals, and each
+     * interval end equals the layer {@code PredictiveDistribution.summariseGrid} gives for the same
+     * cell (a band's function applied to both ends, a decreasing one swapping them).
+     */
+    @Test
+    void intervalBandsAreTheSummariesOfTheSameCells() throws Exception {
+        Kriging k = kriging();
+        Grid grid = Grid.over(0, 0, 1000, 800, 20, 15);
+        Path plain = dir.resolve("plain.csv");
+        Path withIv = dir.resolve("intervals.csv");
+        GridBand[] bands = {GridBand.median(), GridBand.exceedance(0.6).map(v -> 1 - v).named("p_below"),
+            GridBand.krigingSd()};
+        io.densa.spatial.uncertainty.UncertaintyOptions uo = io.densa.spatial.uncertainty.UncertaintyOptions
+                .withSeed(5).withDraws(50);
+        GridExport.of(bands).withParallel(false).toCsv(plain).run(k, grid);
+        GridExport.of(bands).withIntervals(uo).toCsv(withIv).run(k, grid);
+        List<String> a = Files.readAllLines(plain, StandardCharsets.UTF_8);
+        List<String> b = Files.readAllLines(withIv, StandardCharsets.UTF_8);
+        assertEquals("column,row,x,y,median,p_below,kriging_sd,median_lower,median_upper,p_below_lower,p_below_upper",
+                b.get(0));
+        assertEquals(a.size(), b.size());
+        java.util.Map<String, double[]> layers = new java.util.HashMap<>();
+        io.densa.spatial.uncertainty.PredictiveDistribution.of(k).summariseGrid(grid,
+                io.densa.spatial.kriging.GridOptions.withDefaults(), uo.withQuantiles(0.5).withExceedances(0.6), u -> {
+                    for (int q = 0; q < u.size(); q++) {
+                        layers.put(u.tile().columns()[q] + "," + u.tile().rows()[q], new double[] {
+                            u.quantiles().get(0).lowers()[q], u.quantiles().get(0).uppers()[q],
+                            u.exceedances().get(0).lowers()[q], u.exceedances().get(0).uppers()[q]});
+                    }
+                });
+        for (int i = 1; i < b.size(); i++) {
+            String[] pa = a.get(i).split(",");
+            String[] pb = b.get(i).split(",");
+            for (int c = 0; c < 7; c++) {
+                assertEquals(pa[c], pb[c], "line " + i + ", column " + c);
+            }
+            double[] l = layers.get(pb[0] + "," + pb[1]);
+            assertEquals(l[0], Double.parseDouble(pb[7]), 0.0);
+            assertEquals(l[1], Double.parseDouble(pb[8]), 0.0);
+            assertEquals(1 - l[3], Double.parseDouble(pb[9]), 0.0);
+            assertEquals(1 - l[2], Double.parseDouble(pb[10]), 0.0);
+            assertTrue(Double.parseDouble(pb[7]) <= Double.parseDouble(pb[8]));
+        }
+        IllegalStateException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalStateException.class,
+                () -> GridExport.of(GridBand.krigingSd()).withIntervals(uo).toCsv(withIv).run(k, grid));
+        assertTrue(e.getMessage().contains("intervals need a quantile, exceedance or mean band"), e.getMessage());
+        rejects(() -> GridExport.of(GridBand.median(), GridBand.mean().named("median_lower")).withIntervals(uo)
+                .toCsv(withIv).run(k, grid), "used twice");
+    }
 }
