@@ -101,9 +101,10 @@ final class BootstrapPlan {
                 ends[nb][0], ends[nb][1]);
         double scale = own ? total : denominator;
         double noiseMean = 0;
+        double[] expected = new double[nb];
         for (int t = 0; t < nb; t++) {
-            noiseMean += own ? binomialPositivePart((long) total, b.piHat[t])
-                    : poissonPositivePart(denominator * b.piHat[t]);
+            expected[t] = scale * b.piHat[t];
+            noiseMean += own ? binomialPositivePart((long) total, b.piHat[t]) : poissonPositivePart(expected[t]);
         }
         // counting noise alone against the baseline as given, on a stream of its own
         SplittableRandom nullRng = Seeds.stream(Seeds.mix(seed, NULL_STREAM), i);
@@ -113,7 +114,7 @@ final class BootstrapPlan {
             long left = (long) total;
             double rest = 1;
             for (int t = 0; t < nb; t++) {
-                double e = scale * b.piHat[t];
+                double e = expected[t];
                 double o;
                 if (own) {
                     double p = rest > 0 ? Math.min(1, b.piHat[t] / rest) : 0;

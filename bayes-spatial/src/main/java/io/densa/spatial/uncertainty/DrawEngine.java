@@ -139,7 +139,8 @@ final class DrawEngine {
                 bt[l * m + i] = s;
             }
         }
-        cellBound = rule.q == 4 ? new CellBound(rule, bt, r) : null;
+        // the refined rules (refine > 1) check every draw: no per-location bound
+        cellBound = rule.q == 4 && refine == 1 ? new CellBound(rule, bt, r) : null;
         double[] u = units == null ? rule.x.clone() : rule.unitsAtNodes(units);
         meanWeights = new double[m];
         for (int i = 0; i < m; i++) {
@@ -204,9 +205,10 @@ final class DrawEngine {
         final double[] blockScale = new double[r];
         final double[] reach = new double[rule.m];
         int exact;
-        /** Draws of the location evaluated on the refined rule. */
-        int refined;
-        /** Per refinement level, its engine's scratch (on first need) and whether its node values of the location are set. */
+        /**
+         * Per refinement level, its engine's scratch (on first need) and whether its node values of
+         * the location are set.
+         */
         final Scratch[] fine = new Scratch[RefinedRules.LEVELS];
         final boolean[] fineBase = new boolean[RefinedRules.LEVELS];
         /** Block columns that failed the rule's check. */
@@ -221,8 +223,7 @@ final class DrawEngine {
 
     /**
      * Draws and evaluates one location: c[off..off+K) the kriged coordinates, variance σ², stream
-     * s. Values go to s.values; s.exact counts the draws evaluated exactly, s.refined those taken by
-     * a refined rule.
+     * s. Values go to s.values; s.exact counts the draws evaluated exactly.
      *
      * @throws DensaException if a draw cannot be evaluated (coordinates beyond what double precision resolves)
      */
@@ -239,7 +240,6 @@ final class DrawEngine {
             z[l][draws] = 0;
         }
         s.exact = 0;
-        s.refined = 0;
         java.util.Arrays.fill(s.fineBase, false);
         if (exactOnly) {
             for (int d = 0; d < cols; d++) {

@@ -60,7 +60,8 @@ public final class EstimateUncertainty {
         String[] ids = new String[d.size()];
         for (int i = 0; i < factors.length; i++) {
             ids[i] = diagnostics.get(i).id();
-            factors[i] = factor(diagnostics.get(i).covariance(), "unit " + ids[i], "the reported covariance", k);
+            factors[i] = factor(diagnostics.get(i).covariance(), "unit " + ids[i], "the reported covariance", k,
+                    false);
         }
         return summarise(d, factors, ids, options);
     }
@@ -104,8 +105,7 @@ public final class EstimateUncertainty {
                 }
                 System.arraycopy(c[a], 0, flat, a * k, k);
             }
-            requireSymmetricSemidefinite(flat, k, "row " + ids[i]);
-            factors[i] = factor(flat, "row " + ids[i], "the covariance", k);
+            factors[i] = factor(flat, "row " + ids[i], "the covariance", k, true);
         }
         return summarise(centres, factors, ids, options);
     }
@@ -150,48 +150,39 @@ public final class EstimateUncertainty {
     }
 
     /**
-     * Checks a caller's covariance: finite, symmetric to 10⁻¹⁰ of its largest entry and positive
-     * semi-definite to 10⁻¹⁰ of its largest eigenvalue (as {@link PredictiveDistribution#of(
-     * io.densa.spatial.kriging.Kriging, double[][])} does).
-     */
-    private static void requireSymmetricSemidefinite(double[] s, int k, String who) {
-        double big = 0;
-        for (double v : s) {
-            if (!Double.isFinite(v)) {
-                throw new IllegalArgumentException(who + ": the covariance is not finite (" + v + ")");
-            }
-            big = Math.max(big, Math.abs(v));
-        }
-        for (int a = 0; a < k; a++) {
-            for (int b = 0; b < a; b++) {
-                if (Math.abs(s[a * k + b] - s[b * k + a]) > 1e-10 * big) {
-                    throw new IllegalArgumentException(who + ": the covariance is not symmetric: entries (" + a + ", "
-                            + b + ") and (" + b + ", " + a + ") are " + s[a * k + b] + " and " + s[b * k + a]);
-                }
-            }
-        }
-        double[] values = SymmetricEigen.of(s, k).values();
-        if (values[k - 1] < -1e-10 * Math.max(values[0], 0)) {
-            throw new IllegalArgumentException(who + ": the covariance is not positive semi-definite (eigenvalues "
-                    + values[0] + " to " + values[k - 1] + ")");
-        }
-    }
-
-    /**
      * F with F Fᵀ = Σ (K × r row-major; one zero column for a zero covariance) from Σ row-major;
-     * {@code who} and {@code what} name the unit and the matrix in messages.
+     * {@code who} and {@code what} name the unit and the matrix in messages. A caller's covariance
+     * ({@code strict}) must also be symmetric to 10⁻¹⁰ of its largest entry and positive
+     * semi-definite to 10⁻¹⁰ of its largest eigenvalue (as {@link PredictiveDistribution#of(
+     * io.densa.spatial.kriging.Kriging, double[][])} requires); an estimator's is so by construction.
      */
-    static double[] factor(double[] cov, String who, String what, int k) {
+    static double[] factor(double[] cov, String who, String what, int k, boolean strict) {
         if (cov.length != k * k) {
             throw new IllegalArgumentException(who + ": covariance has " + cov.length
                     + " entries, the space's dimension is " + k);
         }
+        double big = 0;
         for (double v : cov) {
             if (!Double.isFinite(v)) {
                 throw new IllegalArgumentException(who + ": " + what + " is not finite (" + v + ")");
             }
+            big = Math.max(big, Math.abs(v));
         }
-        double[] f = SymmetricEigen.of(cov, k).factor();
+        for (int a = 0; strict && a < k; a++) {
+            for (int b = 0; b < a; b++) {
+                if (Math.abs(cov[a * k + b] - cov[b * k + a]) > 1e-10 * big) {
+                    throw new IllegalArgumentException(who + ": " + what + " is not symmetric: entries (" + a + ", "
+                            + b + ") and (" + b + ", " + a + ") are " + cov[a * k + b] + " and " + cov[b * k + a]);
+                }
+            }
+        }
+        SymmetricEigen eig = SymmetricEigen.of(cov, k);
+        double[] values = eig.values();
+        if (strict && values[k - 1] < -1e-10 * Math.max(values[0], 0)) {
+            throw new IllegalArgumentException(who + ": " + what + " is not positive semi-definite (eigenvalues "
+                    + values[0] + " to " + values[k - 1] + ")");
+        }
+        double[] f = eig.factor();
         return f.length == 0 ? new double[k] : f;
     }
 }

@@ -23,7 +23,7 @@ final class RefinedRules {
 
     /**
      * Evaluates draws s.failed[0..nf) of the location (kriged coordinates c[off..off+K)) into
-     * s.values, counting those taken by a refined rule in s.refined (the exact ones count in s.exact).
+     * s.values (those left to the exact methods count in s.exact).
      */
     void evaluate(double[] c, int off, int nf, DrawEngine.Scratch s) {
         int[] pending = s.failed;
@@ -55,7 +55,6 @@ final class RefinedRules {
                     for (int qi = 0; qi < coarse.quantities; qi++) {
                         s.values[qi][d] = fs.values[qi][j];
                     }
-                    s.refined++;
                 } else {
                     pending[left++] = d; // in place: left ≤ j
                 }
