@@ -512,7 +512,7 @@ final class Study1 {
                 .integer("visits", "visits", latestTotals(run)).probability("p", "smoothed conformal p", p)
                 .probability("q", "BH q", q)
                 .text("displaced", "visits displaced (90 % interval)", displacedText)
-                .number("displaced_noise", "displaced by counting noise alone (mean)", displacedNoise, 0)
+                .number("displaced_noise", "displaced without change (mean)", displacedNoise, 0)
                 .text("excess_0_14", "excess ages 0–14", bandText[0])
                 .text("excess_15_24", "excess ages 15–24", bandText[1])
                 .text("excess_ages", "excess at ages", excess)
@@ -520,7 +520,7 @@ final class Study1 {
         if (flaggedRows.length > 0) {
             ExcessCounts.UnitExcess top = ex.result().units().get(flaggedRows[0]);
             run.report.keyNumber(String.format(Locale.ROOT, "Largest departure among the flags: %s %s, %s visits "
-                    + "displaced between age bands (90 %% interval %s to %s; counting noise alone would displace "
+                    + "displaced between age bands (90 %% interval %s to %s; a season without change would displace "
                     + "about %s) of %d.", codes(run.region)[flaggedRows[0]],
                     names(run.region)[flaggedRows[0]], Numbers.fixed(top.displaced().value(), 0),
                     Numbers.fixed(top.displaced().lower(), 0), Numbers.fixed(top.displaced().upper(), 0),
@@ -528,7 +528,7 @@ final class Study1 {
         }
         run.report.subheading("Flagged districts").paragraph("Where each flagged district departs, in visits: the "
                 + "visits displaced between the age bands " + ex.bandNames() + " against the baseline (see "
-                + "\"Excess visits\" above) with what counting noise alone would displace against the same baseline "
+                + "\"Excess visits\" above) with what a season without change would displace against the same baseline "
                 + "(a sum of positive parts is never 0), the excess (observed − expected) at ages 0–14 and 15–24, each with its 90 % "
                 + "bootstrap interval, and the age ranges where the standardised residual clr leaves the calibration "
                 + "set's central 95 % pointwise band (more visits at those ages than the baseline expects). Ranked by "
@@ -559,7 +559,9 @@ final class Study1 {
      * carries the counting noise (Poisson band counts) and the baseline's prediction uncertainty
      * (Gaussian coordinates with covariance (a·u_previous + b)·S/tr S: the part of the residual
      * variance model not due to the current season's counting noise, shaped like the calibration
-     * residuals' second moments S).
+     * residuals' second moments S), and a p-value
+     * of the displaced visits against a season without change (counting noise and the baseline's
+     * error).
      */
     static Excess excessCounts(Run run, Baseline b) {
         AgeScenario sc = run.sc;
@@ -628,10 +630,11 @@ final class Study1 {
                 + String.format(Locale.ROOT, "(its coordinates redrawn from a normal law whose size, a·u_previous + b "
                 + "with a = %.3g and b = %.3g from the residual model above, leaves out the current season's counting "
                 + "noise, and whose shape is that of the calibration residuals). ", b.varianceA(), b.varianceB())
-                + "Counting noise alone makes displaced visits positive, so each district also gets what counting "
-                + "noise alone would displace against the same baseline (the closed-form mean of de Moivre's absolute "
-                + "deviation, bands multinomial with the district's total) and a Monte Carlo p-value against it: "
-                + "read a district's interval against that, not against zero.");
+                + "Counting noise alone makes displaced visits positive, so each district also gets what a season "
+                + "without change would displace against the same baseline — band counts drawn multinomially with "
+                + "the district's total from a baseline redrawn from that normal law, a Monte Carlo mean — and a Monte "
+                + "Carlo p-value against it (`displaced_noise`, `displaced_p` in `districts.csv`): read a district's "
+                + "interval against that, not against zero.");
         run.report.paragraph(String.format(Locale.ROOT, "Across all %d districts %,.0f visits are displaced between "
                 + "bands in the latest season; at ages 0–24 the districts have %,d visits against %,.0f expected.",
                 n, displacedAll, Arrays.stream(youngObs).sum(), Arrays.stream(youngExp).sum()));
@@ -987,7 +990,7 @@ final class Study1 {
                 .flag("truth_shifted", "shifted (truth)", sc.shifted())
                 .number("truth_shift_fraction", "shifted share of visits (truth)", sc.shiftFraction(), 3);
         int nb = BANDS.length - 1;
-        double[][] bandValues = new double[3 * nb + 3][n];
+        double[][] bandValues = new double[3 * nb + 5][n];
         for (int i = 0; i < n; i++) {
             ExcessCounts.UnitExcess u = ex.result().units().get(i);
             for (int t = 0; t < nb; t++) {
@@ -999,6 +1002,8 @@ final class Study1 {
             bandValues[3 * nb][i] = u.displaced().value();
             bandValues[3 * nb + 1][i] = u.displaced().lower();
             bandValues[3 * nb + 2][i] = u.displaced().upper();
+            bandValues[3 * nb + 3][i] = u.displaced().noiseMean();
+            bandValues[3 * nb + 4][i] = u.displaced().pValue();
         }
         for (int t = 0; t < nb; t++) {
             String band = (int) BANDS[t] + "_" + ((int) BANDS[t + 1] - 1);
@@ -1009,7 +1014,9 @@ final class Study1 {
         }
         run.table = run.table.number("displaced", "visits displaced", bandValues[3 * nb], 1)
                 .number("displaced_lo90", "visits displaced, 90 % interval from", bandValues[3 * nb + 1], 1)
-                .number("displaced_hi90", "visits displaced, 90 % interval to", bandValues[3 * nb + 2], 1);
+                .number("displaced_hi90", "visits displaced, 90 % interval to", bandValues[3 * nb + 2], 1)
+                .number("displaced_noise", "visits displaced without change (mean)", bandValues[3 * nb + 3], 1)
+                .probability("displaced_p", "p, visits displaced against no change", bandValues[3 * nb + 4]);
         run.report.csv("districts.csv", run.table);
         run.report.geoJson("districts.geojson", shapes(run.region).stream().map(run.region.projection()::toLonLat)
                 .toList(), run.table.unitValues("code"));

@@ -227,7 +227,7 @@ final class Study3Report {
             counts[i] = Arrays.stream(lastCounts[i]).asLongStream().toArray();
         }
         ExcessCounts.Result excess = ExcessCounts.withDefaults().withDraws(199, 7).estimate(expected,
-                counts, SeasonWindows.EDGES, BANDS, ExcessCounts.BaselineError.none());
+                counts, SeasonWindows.EDGES, BANDS, lastReport.baselineError());
         int[] firstF = new int[n];
         int[] flaggedWeeks = new int[n];
         int[] consecutive = new int[n];
@@ -268,8 +268,8 @@ final class Study3Report {
                 .number("timing_change_days_hi90", "change of timing, 90 % interval to", timingInterval[3], 1)
                 .number("displaced_events", "displaced events, last week", displaced, 0)
                 .number("displaced_lo90", "displaced 5 %", dispLo, 0).number("displaced_hi90", "displaced 95 %", dispHi, 0)
-                .number("displaced_noise", "displaced by counting noise alone (mean)", dispNoise, 0)
-                .probability("displaced_p", "p, displaced against counting noise alone", dispP)
+                .number("displaced_noise", "displaced without change (mean: counting noise and baseline error)", dispNoise, 0)
+                .probability("displaced_p", "p, displaced against no change (counting noise and baseline error)", dispP)
                 .probability("adjusted_p_last_week", "BH-adjusted p, last week", pLast)
                 .number("yearly_events_expected", "expected events per year", sc.yearly(), 0)
                 .number("peak_day_truth", "peak day of the season (truth; before any shift)", sc.peaks(), 1);
@@ -289,9 +289,11 @@ final class Study3Report {
                 + "week of their first flag (" + ever.length + " in all; at most 25 shown, every district in "
                 + "`districts.csv`). Displaced events: how many of the trailing year's events would have to move to "
                 + "another 30-day band of the year for the observed band counts to match the baseline's prediction, "
-                + "with a 90 % parametric-bootstrap interval (Poisson counting noise); a sum of positive parts, it is "
-                + "never 0, so `districts.csv` also gives what counting noise alone would displace against the same "
-                + "baseline (`displaced_noise`) and a p-value against that (`displaced_p`). The change of timing (days) "
+                + "with a 90 % parametric-bootstrap interval (Poisson counting noise and the baseline's own error, "
+                + "the monitor's law of it); a sum of positive parts, it is never 0, so `districts.csv` also gives "
+                + "what a district without change would displace against the same baseline — counting noise and the "
+                + "baseline's error together (`displaced_noise`, a mean) — and a p-value against that "
+                + "(`displaced_p`). The change of timing (days) "
                 + "comes with a 90 % interval from 1,000 draws of the observed density with the covariance of the "
                 + "district's residual against the baseline in weeks without change (from the monitor's rolling "
                 + "calibration residuals, scaled by the district's estimation variance): it carries the counting "
@@ -299,9 +301,10 @@ final class Study3Report {
                 + "estimate). The observed mean day's interval in `districts.csv` carries the counting noise "
                 + "alone. Against the invented truth: " + coverage[0] + " of " + coverage[2] + " districts without a "
                 + "shift have 0 inside the change's interval and " + coverage[1] + " their true peak day inside the "
-                + "observed day's interval (nominal 90 %). The monitor's own cumulative "
-                + "excess (observed − expected events over flagged weeks) is zero here by construction: the expected "
-                + "counts use each district's own total, and an early season moves events in time without adding any.")
+                + "observed day's interval (nominal 90 %). The monitor's weekly periods carry densities only, so its "
+                + "own excess counts are not computed; the displaced events above are those of the last week's "
+                + "trailing year against the monitor's prediction and its law of the baseline's error. Counted "
+                + "against each district's own total, an early season moves events in time without adding any.")
                 .table(table.select(rows).columns("code", "name", "early_season", "first_flagged_week", "flagged_weeks",
                         "consecutive_at_end", "detection_delay_weeks", "timing_change_days", "timing_change_days_lo90",
                         "timing_change_days_hi90", "displaced_events", "displaced_lo90", "displaced_hi90",

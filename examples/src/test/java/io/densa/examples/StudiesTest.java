@@ -153,6 +153,25 @@ class StudiesTest {
                 ",displaced,displaced_lo90,displaced_hi90"), header);
         // every district's median age comes with its interval
         valuesInTheirIntervals(r.folder().resolve("districts.csv"), "median_age");
+        // displaced visits against a season without change (counting noise and the baseline's error): a valid
+        // p-value, P(p <= 0.1) <= 0.1 up to sampling (about 110 quiet districts: binomial SD 0.03), for the
+        // districts the invented truth leaves alone; the shifted ones stand out
+        int quiet = 0;
+        int quietSmall = 0;
+        int shifted = 0;
+        int shiftedFound = 0;
+        for (org.apache.commons.csv.CSVRecord row : rows(r.folder().resolve("districts.csv"))) {
+            double p = Double.parseDouble(row.get("displaced_p"));
+            if (Boolean.parseBoolean(row.get("truth_shifted"))) {
+                shifted++;
+                shiftedFound += p <= 0.05 ? 1 : 0;
+            } else {
+                quiet++;
+                quietSmall += p <= 0.1 ? 1 : 0;
+            }
+        }
+        assertTrue(quietSmall <= 0.16 * quiet, quietSmall + " of " + quiet + " quiet districts with p <= 0.1");
+        assertTrue(shiftedFound >= 0.8 * shifted, shiftedFound + " of " + shifted + " shifted districts with p <= 0.05");
         assertTrue(r.files().contains("map_median_age_sd.png"), "uncertainty map: " + r.files());
         // the scan's cluster statement follows its Monte Carlo test at the study's level
         boolean cluster = r.metrics().get("scanP") <= Study1.ALPHA;

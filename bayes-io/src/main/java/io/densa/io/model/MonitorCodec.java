@@ -23,7 +23,14 @@ final class MonitorCodec {
                 .integer("window", c.window()).integer("calibrationPeriods", c.calibrationPeriods())
                 .real("fdr", c.fdr()).real("bandLevel", c.bandLevel()).real("ridge", c.ridge())
                 .integer("draws", c.draws()).int64("seed", c.seed())
-                .bool("flaggedKeptOutOfCalibration", c.flaggedKeptOutOfCalibration()).end();
+                .bool("flaggedKeptOutOfCalibration", c.flaggedKeptOutOfCalibration());
+        double[] bands = c.excessBands();
+        if (bands == null) {
+            o.nul("excessBands");
+        } else {
+            o.doubles("excessBands", bands);
+        }
+        o.end();
         CoreCodecs.space(o, "space", s.space());
         CoreCodecs.ids(o, "ids", Arrays.asList(s.ids()));
         o.integer("covariates", s.covariates());
@@ -38,17 +45,17 @@ final class MonitorCodec {
         int[] last = new int[n];
         int[] consecutive = new int[n];
         int[] flagged = new int[n];
-        double[] excess = new double[n];
+        double[] displaced = new double[n];
         for (int i = 0; i < n; i++) {
             AlertHistory h = s.history().get(i);
             first[i] = h.firstFlagged();
             last[i] = h.lastFlagged();
             consecutive[i] = h.consecutive();
             flagged[i] = h.flaggedPeriods();
-            excess[i] = h.cumulativeExcess();
+            displaced[i] = h.cumulativeDisplaced();
         }
         o.begin("history").ints("firstFlagged", first).ints("lastFlagged", last).ints("consecutive", consecutive)
-                .ints("flaggedPeriods", flagged).doubles("cumulativeExcess", excess).end();
+                .ints("flaggedPeriods", flagged).doubles("cumulativeDisplaced", displaced).end();
         o.integer("lastPeriod", s.lastPeriod()).integer("absorbed", s.absorbed());
         o.end();
     }
@@ -68,11 +75,13 @@ final class MonitorCodec {
         long seed = c.get("seed").longValue();
         Node excludeNode = c.optional("flaggedKeptOutOfCalibration");
         boolean exclude = excludeNode != null && excludeNode.bool();
+        Node bandsNode = c.optional("excessBands");
+        double[] bands = bandsNode == null ? new double[0] : bandsNode.doubles();
         RollingBaseline config = Codecs.restoring(c, () -> {
             RollingBaseline r = (lagSet == null ? RollingBaseline.withDefaults().withLags(lags)
                     : RollingBaseline.withDefaults().withLagSet(lagSet)).withCalibrationPeriods(calibrationPeriods)
                     .withFdr(fdr).withBandLevel(bandLevel).withRidge(ridge).withDraws(draws, seed);
-            r = r.withFlaggedKeptOutOfCalibration(exclude);
+            r = r.withFlaggedKeptOutOfCalibration(exclude).withExcessBands(bands);
             return window > 0 ? r.withWindow(window) : r.withForgetting(forgetting);
         });
         if (config.longestLag() != lags) {
@@ -90,10 +99,13 @@ final class MonitorCodec {
         int[] last = h.get("lastFlagged").ints(n);
         int[] consecutive = h.get("consecutive").ints(n);
         int[] flagged = h.get("flaggedPeriods").ints(n);
-        double[] excess = h.get("cumulativeExcess").doubles(n);
+        // written before displaced events were kept: the overall excess against each unit's own total,
+        // which is 0 (read as such)
+        Node displacedNode = h.optional("cumulativeDisplaced");
+        double[] displaced = displacedNode != null ? displacedNode.doubles(n) : h.get("cumulativeExcess").doubles(n);
         List<AlertHistory> history = new ArrayList<>(n);
         for (int i = 0; i < n; i++) {
-            history.add(new AlertHistory(ids[i], first[i], last[i], consecutive[i], flagged[i], excess[i]));
+            history.add(new AlertHistory(ids[i], first[i], last[i], consecutive[i], flagged[i], displaced[i]));
         }
         int calibrationCount = p.get("calibrationCount").integer(0, Integer.MAX_VALUE);
         double[] calibrationX = p.get("calibrationX").doubles();

@@ -63,7 +63,10 @@ class MonitorModelFileTest {
             assertEquals(Double.doubleToRawLongBits(a.scores().units().get(i).pValue()),
                     Double.doubleToRawLongBits(b.scores().units().get(i).pValue()), "p-value " + i);
             assertEquals(a.flagged(i), b.flagged(i));
-            assertEquals(Double.doubleToRawLongBits(a.overallExcess(i)), Double.doubleToRawLongBits(b.overallExcess(i)));
+            assertEquals(Double.doubleToRawLongBits(a.displacedEvents(i)), Double.doubleToRawLongBits(b.displacedEvents(i)));
+            if (a.excess() != null) {
+                assertEquals(a.excess().units().get(i), b.excess().units().get(i), "excess counts " + i);
+            }
         }
         double[] ea = a.expected().coordinatesRowMajor();
         double[] eb = b.expected().coordinatesRowMajor();
@@ -80,11 +83,13 @@ class MonitorModelFileTest {
                 RollingBaseline.withDefaults().withForgetting(0.9).withCalibrationPeriods(3).withDraws(199, 5),
                 RollingBaseline.withDefaults().withLagSet(4, 1).withCalibrationPeriods(2).withDraws(199, 6),
                 RollingBaseline.withDefaults().withFlaggedKeptOutOfCalibration(true).withCalibrationPeriods(3)
-                        .withDraws(199, 8))) {
+                        .withDraws(199, 8),
+                RollingBaseline.withDefaults().withExcessBands(0, 0.5, 1).withDraws(199, 9))) {
             BaselineMonitor m = cfg.fit(all.subList(0, 10)).absorb(all.get(10)).absorb(all.get(11));
             BaselineMonitor back = ModelFile.fromBytes(ModelFile.toBytes(m), BaselineMonitor.class, ModelLimits.defaults(),
                     "test");
             assertEquals(m.history(), back.history());
+            assertEquals(m.configuration().toString(), back.configuration().toString());
             for (int t = 12; t < 16; t++) {
                 assertSameReport(m.score(all.get(t)), back.score(all.get(t)));
                 m = m.absorb(all.get(t));
@@ -100,10 +105,12 @@ class MonitorModelFileTest {
     }
 
     /**
-     * A file written before lag sets and left-out calibration residuals existed (no {@code lagSet},
-     * {@code flaggedKeptOutOfCalibration} or {@code calibrationKept} member) reads as lags 1..L with
-     * every calibration residual used, as docs/model-format.md specifies; a {@code lags} that is not
-     * the longest lag of {@code lagSet} is refused.
+     * A file written before lag sets, left-out calibration residuals, excess bands and displaced
+     * events existed (no {@code lagSet}, {@code flaggedKeptOutOfCalibration}, {@code excessBands},
+     * {@code calibrationKept} member; {@code cumulativeExcess} in place of {@code cumulativeDisplaced})
+     * reads as lags 1..L with every calibration residual used, one excess band per bin and the old
+     * history's values, as docs/model-format.md specifies; a {@code lags} that is not the longest lag
+     * of {@code lagSet} is refused.
      */
     @Test
     void lagSetMemberIsOptionalAndChecked() throws Exception {
@@ -112,12 +119,16 @@ class MonitorModelFileTest {
         String payload = new String(HostileModelFileTest.payloadOf(ModelFile.toBytes(m)), StandardCharsets.UTF_8);
         assertTrue(payload.contains("\"lags\":2,\"lagSet\":{"), payload.substring(0, 200));
         String old = payload.replaceFirst("\"lagSet\":\\{[^}]*\\},", "")
-                .replaceFirst(",\"flaggedKeptOutOfCalibration\":false", "")
+                .replaceFirst(",\"flaggedKeptOutOfCalibration\":false", "").replaceFirst(",\"excessBands\":null", "")
+                .replaceFirst("\"cumulativeDisplaced\"", "\"cumulativeExcess\"")
                 .replaceFirst(",\"calibrationKept\":\\{[^}]*\\}", "");
-        assertTrue(!old.contains("lagSet") && !old.contains("Kept"), old.substring(0, 300));
+        assertTrue(!old.contains("lagSet") && !old.contains("Kept") && !old.contains("excessBands")
+                && old.contains("cumulativeExcess") && !old.contains("Displaced"), old.substring(0, 300));
         BaselineMonitor back = ModelFile.fromBytes(HostileModelFileTest.envelope("baseline-monitor", old),
                 BaselineMonitor.class, ModelLimits.defaults(), "test");
         assertArrayEquals(new int[] {1, 2}, back.configuration().lagSet());
+        assertEquals(null, back.configuration().excessBands());
+        assertEquals(m.history(), back.history());
         assertSameReport(m.score(all.get(10)), back.score(all.get(10)));
         String bad = payload.replaceFirst("\"lags\":2,", "\"lags\":3,");
         IllegalArgumentException e = assertThrows(IllegalArgumentException.class,

@@ -9,22 +9,23 @@ package io.densa.regression.surveillance;
  * @param consecutive      number of consecutive flagged periods ending at the latest absorbed period
  *                         (0 when the latest period was not flagged)
  * @param flaggedPeriods   number of flagged periods in all
- * @param cumulativeExcess sum of the overall excess counts (observed − expected) over the flagged
- *                         periods that carried counts; 0 without counts
+ * @param cumulativeDisplaced displaced events ({@link PeriodReport#displacedEvents}) summed over the
+ *                         flagged periods that carried counts; 0 without counts (periods that
+ *                         overlap, such as trailing windows, count their shared events again)
  */
 public record AlertHistory(String id, int firstFlagged, int lastFlagged, int consecutive, int flaggedPeriods,
-        double cumulativeExcess) {
+        double cumulativeDisplaced) {
     /** A unit never flagged. */
     static AlertHistory quiet(String id) {
         return new AlertHistory(id, -1, -1, 0, 0, 0);
     }
 
     /** This history after one more period. */
-    AlertHistory next(int period, boolean flagged, double excess) {
+    AlertHistory next(int period, boolean flagged, double displaced) {
         if (!flagged) {
-            return new AlertHistory(id, firstFlagged, lastFlagged, 0, flaggedPeriods, cumulativeExcess);
+            return new AlertHistory(id, firstFlagged, lastFlagged, 0, flaggedPeriods, cumulativeDisplaced);
         }
         return new AlertHistory(id, firstFlagged < 0 ? period : firstFlagged, period, consecutive + 1,
-                flaggedPeriods + 1, cumulativeExcess + (Double.isFinite(excess) ? excess : 0));
+                flaggedPeriods + 1, cumulativeDisplaced + (Double.isFinite(displaced) ? displaced : 0));
     }
 }

@@ -326,16 +326,19 @@ public final class BaselineMonitor {
                 .fit(cal, grid).score(current);
         DensitySet expected = DensitySet.ofRowMajor(space, yhat, n, idsOrNull());
         double[][] rawCovariance = ResidualCalibration.covariance(space, keptR, k);
+        double[] scales = new double[n];
+        double[] baselineScales = new double[n];
+        double[][] shape = ResidualCalibration.residualLaw(cal, ab, x, recentVariances, rawCovariance, scales,
+                baselineScales);
         ExcessCounts.Result excess = null;
         if (period.counts() != null) {
             double[] edges = period.binEdges();
+            double[] bands = config.excessBands != null ? config.excessBands : edges;
             excess = ExcessCounts.withDefaults().withDraws(config.draws, Seeds.mix(config.seed, 2L * period.index() + 1))
-                    .estimate(expected, period.counts(), edges, new double[] {edges[0], edges[edges.length - 1]},
-                            ExcessCounts.BaselineError.common(rawCovariance));
+                    .estimate(expected, period.counts(), edges, bands,
+                            ExcessCounts.BaselineError.scaled(shape, baselineScales));
         }
-        double[] scales = new double[n];
-        double[][] shape = ResidualCalibration.residualLaw(cal, ab, x, rawCovariance, scales);
-        return new PeriodReport(period.index(), expected, current, scores, excess, scales, shape);
+        return new PeriodReport(period.index(), expected, current, scores, excess, scales, shape, baselineScales);
     }
 
     /**
@@ -390,7 +393,7 @@ public final class BaselineMonitor {
             }
             h = new ArrayList<>(n);
             for (int i = 0; i < n; i++) {
-                h.add(history.get(i).next(period.index(), rep.flagged(i), rep.overallExcess(i)));
+                h.add(history.get(i).next(period.index(), rep.flagged(i), rep.displacedEvents(i)));
             }
         }
         List<double[]> cal = new ArrayList<>(calibration);

@@ -100,34 +100,55 @@ final class BootstrapPlan {
         ExcessCounts.BandExcess overall = new ExcessCounts.BandExcess(bands[0], bands[nb], total, denominator, total - denominator,
                 ends[nb][0], ends[nb][1]);
         double scale = own ? total : denominator;
-        double noiseMean = 0;
         double[] expected = new double[nb];
         for (int t = 0; t < nb; t++) {
             expected[t] = scale * b.piHat[t];
-            noiseMean += own ? binomialPositivePart((long) total, b.piHat[t]) : poissonPositivePart(expected[t]);
         }
-        // counting noise alone against the baseline as given, on a stream of its own
+        // the null: counting noise (and the baseline's error, when given) against the baseline as
+        // given, on streams of their own
         SplittableRandom nullRng = Seeds.stream(Seeds.mix(seed, NULL_STREAM), i);
+        SplittableRandom nullBaseline = sd > 0 ? Seeds.stream(Seeds.mix(seed, NULL_BASELINE_STREAM), i) : null;
         int beyond = 0;
-        for (int r = 0; r < draws; r++) {
-            double d0 = 0;
-            long left = (long) total;
-            double rest = 1;
-            for (int t = 0; t < nb; t++) {
-                double e = expected[t];
-                double o;
-                if (own) {
-                    double p = rest > 0 ? Math.min(1, b.piHat[t] / rest) : 0;
-                    long x = t == nb - 1 ? left : CountSampling.binomial(left, p, nullRng);
-                    left -= x;
-                    rest -= b.piHat[t];
-                    o = x;
-                } else {
-                    o = CountSampling.poisson(e, nullRng);
+        double nullSum = 0;
+        for (int r0 = 0; r0 < draws; r0 += width) {
+            int n = Math.min(width, draws - r0);
+            if (sd > 0) {
+                for (int rr = 0; rr < n; rr++) {
+                    for (int c = 0; c < k; c++) {
+                        b.z[c][rr] = nullBaseline.nextGaussian() * sd;
+                    }
                 }
-                d0 += Math.max(0, o - e);
+                quad.bandProbabilities(b.base, phiF, k, b.z, n, b.v, b.shift, b.total, b.pi);
             }
-            beyond += d0 >= displaced ? 1 : 0;
+            for (int rr = 0; rr < n; rr++) {
+                double d0 = 0;
+                long left = (long) total;
+                double rest = 1;
+                for (int t = 0; t < nb; t++) {
+                    double p = sd > 0 ? b.pi[t][rr] : b.piHat[t];
+                    double o;
+                    if (own) {
+                        double share = rest > 0 ? Math.min(1, p / rest) : 0;
+                        long x = t == nb - 1 ? left : CountSampling.binomial(left, share, nullRng);
+                        left -= x;
+                        rest -= p;
+                        o = x;
+                    } else {
+                        o = CountSampling.poisson(scale * p, nullRng);
+                    }
+                    d0 += Math.max(0, o - expected[t]);
+                }
+                beyond += d0 >= displaced ? 1 : 0;
+                nullSum += d0;
+            }
+        }
+        double noiseMean = 0;
+        if (sd > 0) {
+            noiseMean = nullSum / draws;
+        } else {
+            for (int t = 0; t < nb; t++) {
+                noiseMean += own ? binomialPositivePart((long) total, b.piHat[t]) : poissonPositivePart(expected[t]);
+            }
         }
         ExcessCounts.Displaced disp = new ExcessCounts.Displaced(displaced, ends[nb + 1][0], ends[nb + 1][1], noiseMean,
                 (1.0 + beyond) / (1.0 + draws));
@@ -136,6 +157,8 @@ final class BootstrapPlan {
 
     /** Index mixed into the seed for the noise-only draws of the displaced events. */
     static final long NULL_STREAM = 0x6e6f697365L;
+    /** Index mixed into the seed for the baseline draws of that null, when a baseline error is given. */
+    static final long NULL_BASELINE_STREAM = 0x6e6f697362L;
 
     /**
      * E max(0, X − np) for X ~ Binomial(n, p): ν (1 − p) P(X = ν), ν = ⌊np⌋ + 1 (see

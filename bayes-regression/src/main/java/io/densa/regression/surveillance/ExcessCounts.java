@@ -223,27 +223,34 @@ public final class ExcessCounts {
     }
 
     /**
-     * Displaced events Σ_B max(0, O(B) − E(B)) with its bootstrap interval, and what counting noise
-     * alone would give against the same baseline. A sum of positive parts: counting noise alone
+     * Displaced events Σ_B max(0, O(B) − E(B)) with its bootstrap interval, and what the null of no
+     * change would give against the same baseline. A sum of positive parts: counting noise alone
      * makes it positive (a quiet unit of a few hundred events displaces some tens), so its interval
      * does not reach 0 even without any change; read it against {@code noiseMean}, and
-     * {@code pValue} for whether it is beyond noise.
+     * {@code pValue} for whether it is beyond the null.
      *
-     * <p>The noise reference takes the baseline as exact: band counts O(B) ~ Binomial(N, π(B))
-     * (multinomial given the unit's own total N) or Poisson(T π(B)) (a given total T).
-     * {@code noiseMean} is then Σ_B E max(0, O(B) − E(B)) in closed form: ν q P(X = ν) with
-     * ν = ⌊Np⌋ + 1 for a binomial (the mean absolute deviation of de Moivre, halved), λ P(X = ⌊λ⌋)
-     * for a Poisson variate of mean λ (Diaconis &amp; Zabell (1991), Closed form summation for
-     * classical distributions: variations on a theme of de Moivre, Statist. Sci. 6(3); from memory,
-     * checked in the tests against sums over Commons Math's probability mass functions).
-     * {@code pValue} is (1 + #{D₀ ≥ D}) / (1 + B) over B draws D₀ of that law (its own stream of the
-     * seed; the intervals' draws are unchanged).
+     * <p>The null: the unit's band shares are those of a baseline drawn from its error law
+     * (coordinates c* ~ N(ĉ, s Σ), {@link BaselineError}; the baseline itself with
+     * {@link BaselineError#none()}), and its band counts are drawn from them — O(B) ~ multinomial
+     * (N, π*(B)) given the unit's own total N, or Poisson(T π*(B)) for a given total T — while the
+     * statistic is always taken against the baseline as given, E(B) = T π̂(B): in a unit without
+     * change the observed counts differ from the baseline both by counting noise and by the
+     * baseline's own error, and a null without the latter gives too many small p-values (the
+     * tests measure both). {@code pValue} is (1 + #{D₀ ≥ D}) / (1 + B) over B draws D₀ of that law
+     * (a Monte Carlo test: Davison &amp; Hinkley (1997), Bootstrap Methods and their Application,
+     * Cambridge UP, ch. 4; from memory; streams of their own, the intervals' draws are unchanged). {@code noiseMean} is the mean of D₀: with a baseline taken
+     * as exact it is Σ_B E max(0, O(B) − E(B)) in closed form, ν q P(X = ν) with ν = ⌊Np⌋ + 1 for a
+     * binomial (the mean absolute deviation of de Moivre, halved) and λ P(X = ⌊λ⌋) for a Poisson
+     * variate of mean λ (Diaconis &amp; Zabell (1991), Closed form summation for classical
+     * distributions: variations on a theme of de Moivre, Statist. Sci. 6(3); from memory, checked in
+     * the tests against sums over Commons Math's probability mass functions); with a baseline
+     * error, the average of the B draws (Monte Carlo).
      *
      * @param value     point estimate
      * @param lower     lower end of the interval
      * @param upper     upper end
-     * @param noiseMean displaced events expected from counting noise alone, the baseline exact
-     * @param pValue    Monte Carlo p-value of the displaced events against counting noise alone
+     * @param noiseMean displaced events expected under the null of no change (see above)
+     * @param pValue    Monte Carlo p-value of the displaced events against that null
      */
     public record Displaced(double value, double lower, double upper, double noiseMean, double pValue) {
     }

@@ -77,12 +77,17 @@ final class ResidualCalibration {
      * writes the per-unit scales into {@code scales} (n) — with the variance line (ab) and the
      * period's x values, S the covariance of the standardised calibration residuals {@code cal} and
      * scale a x_i + b; otherwise S the raw covariance over its trace and every scale that trace.
+     * The baseline's own part of each scale goes into {@code baselineScales} (n): a u_i + b with u_i
+     * the previous period's estimation variance ({@code previous}, the x values' second term), the
+     * line without the current period's counting noise; without the variance line, the whole scale.
      */
-    static double[][] residualLaw(DensitySet cal, double[] ab, double[] x, double[][] rawCovariance, double[] scales) {
+    static double[][] residualLaw(DensitySet cal, double[] ab, double[] x, double[] previous,
+            double[][] rawCovariance, double[] scales, double[] baselineScales) {
         int k = rawCovariance.length;
         if (ab != null && x != null) {
             for (int i = 0; i < scales.length; i++) {
                 scales[i] = Math.max(ab[0] * x[i] + ab[1], 0.0);
+                baselineScales[i] = Math.max(ab[0] * previous[i] + ab[1], 0.0);
             }
             return cal.size() >= 2 ? rows(cal.covariance().data, k) : new double[k][k];
         }
@@ -98,6 +103,7 @@ final class ResidualCalibration {
             }
         }
         Arrays.fill(scales, tr > 0 ? tr : 1.0);
+        Arrays.fill(baselineScales, tr > 0 ? tr : 1.0);
         return shape;
     }
 

@@ -35,11 +35,20 @@ import java.util.Objects;
  * that period was absorbed (out of sample); p-values are split-conformal ranks of the residual
  * norm among them (Vovk, Gammerman &amp; Shafer 2005, Algorithmic Learning in a Random World,
  * Springer), smoothed with seeded random tie-breaking, and flags come from the Benjamini–Hochberg
- * (1995) adjustment within the period (see {@link AnomalyScoring}). Periods
- * with counts also get excess counts with parametric-bootstrap intervals that carry the counting
- * noise and the baseline's uncertainty, taken as the covariance of the calibration residuals (which
- * also holds the current period's estimation noise, so the intervals are on the wide side; see
- * {@link ExcessCounts}).
+ * (1995) adjustment within the period (see {@link AnomalyScoring}).
+ *
+ * <h2>Excess counts</h2>
+ * Periods with counts also get excess counts ({@link ExcessCounts}, with each unit's own total as
+ * the denominator): per band (by default one band per count bin; {@link #withExcessBands} groups
+ * bins, e.g. into age groups or months) the observed minus the expected events, and the events
+ * displaced between bands, with parametric-bootstrap intervals and a p-value against the null of no
+ * change. Both carry the counting noise and the baseline's own error: unit i's prediction error is
+ * taken as N(0, s_i S) in coordinates, with S the shape of the calibration residuals and
+ * s_i = a u_{i,t−1} + b the part of the variance line that is not the current period's counting
+ * noise (a u_{i,t}); without estimation variances, the calibration residuals' covariance for every
+ * unit, which also holds the current period's counting noise. The p-values are then valid but on
+ * the cautious side (measured on invented panels: 4–6 % of unit-periods without change at p ≤ 0.1;
+ * against counting noise alone 27 %). See {@link PeriodReport#baselineError()}.
  *
  * <h2>Seasonal lags</h2>
  * The lags need not be 1..L: {@link #withLagSet} takes any set of up to 12 lags, each at most
@@ -49,7 +58,8 @@ import java.util.Objects;
  * l_m periods to form them (the first l_m past periods only start the lags).
  *
  * <p>Defaults: 1 lag, no forgetting (φ = 1, every period weighs the same), 4 calibration periods,
- * FDR 0.05, 95 % pointwise bands, ridge 10⁻⁸, 999 bootstrap draws, seed 1. Immutable.
+ * FDR 0.05, 95 % pointwise bands, ridge 10⁻⁸, 999 bootstrap draws, seed 1, one excess band per count
+ * bin. Immutable.
  *
  * <p>These are statistical signals for trained analysts, not diagnoses; decisions rest with the
  * responsible public-health authorities.
@@ -74,25 +84,64 @@ public final class RollingBaseline {
     /** Whether a unit's residual leaves the calibration set in a period in which it was flagged. */
     final boolean excludeFlagged;
 
-    private RollingBaseline(int[] lagSet, double forgetting, int window, int calibrationPeriods, double fdr,
-            double bandLevel, double ridge, int draws, long seed, boolean excludeFlagged) {
-        this.lagSet = lagSet;
+    /**
+     * The bands of the excess counts (strictly increasing edges, each one of every period's bin
+     * edges), or null for one band per count bin.
+     */
+    final double[] excessBands;
+
+    private RollingBaseline(Draft d) {
+        this.lagSet = d.lagSet;
         this.lags = lagSet.length;
         this.longest = lagSet[lagSet.length - 1];
-        this.forgetting = forgetting;
-        this.window = window;
-        this.calibrationPeriods = calibrationPeriods;
-        this.fdr = fdr;
-        this.bandLevel = bandLevel;
-        this.ridge = ridge;
-        this.draws = draws;
-        this.seed = seed;
-        this.excludeFlagged = excludeFlagged;
+        this.forgetting = d.forgetting;
+        this.window = d.window;
+        this.calibrationPeriods = d.calibrationPeriods;
+        this.fdr = d.fdr;
+        this.bandLevel = d.bandLevel;
+        this.ridge = d.ridge;
+        this.draws = d.draws;
+        this.seed = d.seed;
+        this.excludeFlagged = d.excludeFlagged;
+        this.excessBands = d.excessBands;
+    }
+
+    /** The settings while a with-method changes one of them. */
+    private static final class Draft {
+        int[] lagSet = {1};
+        double forgetting = 1;
+        int window;
+        int calibrationPeriods = 4;
+        double fdr = 0.05;
+        double bandLevel = 0.95;
+        double ridge = 1e-8;
+        int draws = 999;
+        long seed = 1;
+        boolean excludeFlagged;
+        double[] excessBands;
+    }
+
+    /** A copy of this configuration with one change. */
+    private RollingBaseline with(java.util.function.Consumer<Draft> change) {
+        Draft d = new Draft();
+        d.lagSet = lagSet;
+        d.forgetting = forgetting;
+        d.window = window;
+        d.calibrationPeriods = calibrationPeriods;
+        d.fdr = fdr;
+        d.bandLevel = bandLevel;
+        d.ridge = ridge;
+        d.draws = draws;
+        d.seed = seed;
+        d.excludeFlagged = excludeFlagged;
+        d.excessBands = excessBands;
+        change.accept(d);
+        return new RollingBaseline(d);
     }
 
     /** The defaults described above. */
     public static RollingBaseline withDefaults() {
-        return new RollingBaseline(new int[] {1}, 1, 0, 4, 0.05, 0.95, 1e-8, 999, 1, false);
+        return new RollingBaseline(new Draft());
     }
 
     /** Number of previous periods L ≥ 1 whose densities predict the next: the lags 1..L (L ≤ 12). */
@@ -104,8 +153,7 @@ public final class RollingBaseline {
         for (int j = 0; j < l; j++) {
             set[j] = j + 1;
         }
-        return new RollingBaseline(set, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge,
-                draws, seed, excludeFlagged);
+        return with(d -> d.lagSet = set);
     }
 
     /**
@@ -133,8 +181,7 @@ public final class RollingBaseline {
                         + java.util.Arrays.toString(lags));
             }
         }
-        return new RollingBaseline(set, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge,
-                draws, seed, excludeFlagged);
+        return with(d -> d.lagSet = set);
     }
 
     /**
@@ -147,8 +194,7 @@ public final class RollingBaseline {
      * regression moments.
      */
     public RollingBaseline withFlaggedKeptOutOfCalibration(boolean exclude) {
-        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, draws, seed,
-                exclude);
+        return with(d -> d.excludeFlagged = exclude);
     }
 
     /** Forgetting factor φ ∈ (0, 1] (1: none); replaces a window. */
@@ -156,8 +202,10 @@ public final class RollingBaseline {
         if (!(phi > 0 && phi <= 1)) {
             throw new IllegalArgumentException("forgetting factor must be in (0, 1], got " + phi);
         }
-        return new RollingBaseline(lagSet, phi, 0, calibrationPeriods, fdr, bandLevel, ridge,
-                draws, seed, excludeFlagged);
+        return with(d -> {
+            d.forgetting = phi;
+            d.window = 0;
+        });
     }
 
     /** A moving window of the last w ≥ 1 periods' moments; replaces a forgetting factor. */
@@ -165,8 +213,10 @@ public final class RollingBaseline {
         if (w < 1) {
             throw new IllegalArgumentException("window must be at least 1 period, got " + w);
         }
-        return new RollingBaseline(lagSet, 1, w, calibrationPeriods, fdr, bandLevel, ridge,
-                draws, seed, excludeFlagged);
+        return with(d -> {
+            d.forgetting = 1;
+            d.window = w;
+        });
     }
 
     /** Number C ≥ 1 of recent periods whose out-of-sample residuals calibrate the p-values. */
@@ -174,7 +224,7 @@ public final class RollingBaseline {
         if (c < 1) {
             throw new IllegalArgumentException("calibration periods must be at least 1, got " + c);
         }
-        return new RollingBaseline(lagSet, forgetting, window, c, fdr, bandLevel, ridge, draws, seed, excludeFlagged);
+        return with(d -> d.calibrationPeriods = c);
     }
 
     /** False discovery rate q ∈ (0, 1). */
@@ -182,8 +232,7 @@ public final class RollingBaseline {
         if (!(q > 0 && q < 1)) {
             throw new IllegalArgumentException("FDR must be in (0, 1), got " + q);
         }
-        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, q, bandLevel, ridge,
-                draws, seed, excludeFlagged);
+        return with(d -> d.fdr = q);
     }
 
     /** Pointwise band level ∈ (0, 1) of the residual excursions. */
@@ -191,8 +240,7 @@ public final class RollingBaseline {
         if (!(level > 0 && level < 1)) {
             throw new IllegalArgumentException("band level must be in (0, 1), got " + level);
         }
-        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, level, ridge,
-                draws, seed, excludeFlagged);
+        return with(d -> d.bandLevel = level);
     }
 
     /** Relative ridge ρ ≥ 0 (finite). */
@@ -200,8 +248,7 @@ public final class RollingBaseline {
         if (!(rho >= 0) || Double.isInfinite(rho)) {
             throw new IllegalArgumentException("ridge must be finite and >= 0, got " + rho);
         }
-        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, bandLevel, rho,
-                draws, seed, excludeFlagged);
+        return with(d -> d.ridge = rho);
     }
 
     /** Bootstrap draws (≥ 99) of the excess-count intervals and the seed of all random choices. */
@@ -209,8 +256,43 @@ public final class RollingBaseline {
         if (count < 99) {
             throw new IllegalArgumentException("at least 99 bootstrap draws are needed, got " + count);
         }
-        return new RollingBaseline(lagSet, forgetting, window, calibrationPeriods, fdr, bandLevel, ridge, count,
-                randomSeed, excludeFlagged);
+        return with(d -> {
+            d.draws = count;
+            d.seed = randomSeed;
+        });
+    }
+
+    /**
+     * The bands of the excess counts: strictly increasing edges, each one of the periods' bin edges,
+     * the first and the last equal to the first and the last bin edge (checked when a period with
+     * counts is scored). With no edges (the default), each count bin is a band. Coarser bands (age
+     * groups, months) give excess counts that are easier to read and cost less: the bootstrap
+     * integrates every band in each of its draws. The array is copied.
+     *
+     * @throws IllegalArgumentException for fewer than two edges, or edges that are not finite and
+     *                                  strictly increasing
+     */
+    public RollingBaseline withExcessBands(double... edges) {
+        Objects.requireNonNull(edges, "edges");
+        double[] e = edges.clone();
+        if (e.length == 0) {
+            return with(d -> d.excessBands = null);
+        }
+        if (e.length < 2) {
+            throw new IllegalArgumentException("excess bands need at least 2 edges, got " + e.length);
+        }
+        for (int j = 0; j < e.length; j++) {
+            if (!Double.isFinite(e[j]) || (j > 0 && !(e[j] > e[j - 1]))) {
+                throw new IllegalArgumentException("excess band edges must be finite and strictly increasing; edge " + j
+                        + " is " + e[j] + (j > 0 ? " after " + e[j - 1] : ""));
+            }
+        }
+        return with(d -> d.excessBands = e);
+    }
+
+    /** The bands of the excess counts (a fresh copy), or null for one band per count bin. */
+    public double[] excessBands() {
+        return excessBands == null ? null : excessBands.clone();
     }
 
     /** Number of lagged densities among the regressors (L for {@link #withLags}(L)). */
@@ -304,6 +386,7 @@ public final class RollingBaseline {
                 + (window > 0 ? ", window " + window : ", forgetting " + forgetting)
                 + ", calibration periods " + calibrationPeriods + ", FDR " + fdr + ", band level " + bandLevel
                 + ", ridge " + ridge + ", draws " + draws + ", seed " + seed
-                + (excludeFlagged ? ", flagged residuals kept out of calibration" : "") + "]";
+                + (excludeFlagged ? ", flagged residuals kept out of calibration" : "")
+                + (excessBands != null ? ", excess bands " + java.util.Arrays.toString(excessBands) : "") + "]";
     }
 }

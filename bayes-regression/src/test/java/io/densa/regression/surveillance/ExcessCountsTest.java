@@ -60,6 +60,16 @@ class ExcessCountsTest {
         return c;
     }
 
+    /** Counts of {@code total} events drawn one by one into the three bands with probabilities pi. */
+    private static long[] multinomial(double[] pi, long total, SplittableRandom rng) {
+        double[] band = new double[3];
+        for (long e = 0; e < total; e++) {
+            double u = rng.nextDouble();
+            band[u < pi[0] ? 0 : u < pi[0] + pi[1] ? 1 : 2]++;
+        }
+        return counts(band);
+    }
+
     @Test
     void bandProbabilitiesMatchTruncatedNormal() {
         double[] bands = {0, 1.5, 2, 4.25, 7, 10};
@@ -216,12 +226,7 @@ class ExcessCountsTest {
         long[][] cnt = new long[n][];
         for (int i = 0; i < n; i++) {
             c[i] = c0;
-            double[] band = new double[3];
-            for (long e = 0; e < total; e++) {
-                double u = rng.nextDouble();
-                band[u < pi[0] ? 0 : u < pi[0] + pi[1] ? 1 : 2]++;
-            }
-            cnt[i] = counts(band);
+            cnt[i] = multinomial(pi, total, rng);
         }
         ExcessCounts.Result r = ExcessCounts.withDefaults().withDraws(199, 5).estimate(DensitySet.of(SPACE, c), cnt,
                 BIN_EDGES, BANDS, ExcessCounts.BaselineError.none());
@@ -246,6 +251,60 @@ class ExcessCountsTest {
                 DensitySet.of(SPACE, new double[][] {c0}), new long[][] {counts(shifted)}, BIN_EDGES, BANDS,
                 ExcessCounts.BaselineError.none()).units().get(0).displaced();
         assertTrue(d.pValue() <= 0.01 && d.value() > 3 * d.noiseMean(), d.toString());
+    }
+
+    /**
+     * Units without change whose true density differs from the baseline by the baseline's error:
+     * truncated normals N(μ_i, 2²) on [0, 10] with μ_i ~ N(4, 0.5²), counted multinomially (300
+     * events, band probabilities from Commons Math's normal CDF), against the baseline μ = 4. In the
+     * polynomial space of degree 2 the coordinates are linear in μ (clr = xμ/σ² + terms without μ),
+     * so the error law is exactly Gaussian: c_i = ĉ + (μ_i − 4) v with v = c(5) − c(4), Σ = 0.25 v vᵀ.
+     * With that law given, the displaced events' p-values are uniform (P(p ≤ 0.1) ≈ 0.1, the
+     * definition of a p-value); against counting noise alone they are too small.
+     */
+    @Test
+    void displacedEventsAgainstTheBaselinesErrorToo() {
+        double[] c4 = truncatedNormal(4, 2);
+        double[] c5 = truncatedNormal(5, 2);
+        double[][] sigma = new double[c4.length][c4.length];
+        for (int a = 0; a < c4.length; a++) {
+            for (int b = 0; b < c4.length; b++) {
+                sigma[a][b] = 0.25 * (c5[a] - c4[a]) * (c5[b] - c4[b]);
+            }
+        }
+        int n = 400;
+        long total = 300;
+        SplittableRandom rng = new SplittableRandom(17);
+        double[][] c = new double[n][];
+        long[][] cnt = new long[n][];
+        for (int i = 0; i < n; i++) {
+            c[i] = c4;
+            cnt[i] = multinomial(bandProbabilities(4 + 0.5 * rng.nextGaussian(), 2), total, rng);
+        }
+        ExcessCounts ex = ExcessCounts.withDefaults().withDraws(199, 5);
+        ExcessCounts.Result withError = ex.estimate(DensitySet.of(SPACE, c), cnt, BIN_EDGES, BANDS,
+                ExcessCounts.BaselineError.common(sigma));
+        ExcessCounts.Result noiseOnly = ex.estimate(DensitySet.of(SPACE, c), cnt, BIN_EDGES, BANDS,
+                ExcessCounts.BaselineError.none());
+        int small = 0;
+        int smallNoiseOnly = 0;
+        double mean = 0;
+        for (int i = 0; i < n; i++) {
+            small += withError.units().get(i).displaced().pValue() <= 0.1 ? 1 : 0;
+            smallNoiseOnly += noiseOnly.units().get(i).displaced().pValue() <= 0.1 ? 1 : 0;
+            mean += withError.units().get(i).displaced().value() / n;
+        }
+        double noise = withError.units().get(0).displaced().noiseMean();
+        System.out.printf(java.util.Locale.ROOT, "displaced events under the baseline's error: P(p <= 0.1) %.3f (noise"
+                + " alone %.3f), null mean %.2f (noise alone %.2f), mean displaced %.2f%n", small / (double) n,
+                smallNoiseOnly / (double) n, noise, noiseOnly.units().get(0).displaced().noiseMean(), mean);
+        // 400 p-values: binomial SD of the share at 0.1 is 0.015
+        assertEquals(0.1, small / (double) n, 0.05, "share of p <= 0.1 against noise and baseline error");
+        assertTrue(smallNoiseOnly / (double) n >= 0.2, "share of p <= 0.1 against counting noise alone: "
+                + smallNoiseOnly / (double) n);
+        // the null's mean (Monte Carlo, 199 draws per unit) matches the displaced events' mean over the units
+        assertEquals(mean, noise, 0.1 * mean, "null mean " + noise + " against the mean displaced " + mean);
+        assertTrue(noise > 1.3 * noiseOnly.units().get(0).displaced().noiseMean(), "null mean with the error " + noise);
     }
 
     @Test
