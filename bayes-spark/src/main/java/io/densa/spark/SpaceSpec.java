@@ -39,23 +39,24 @@ public final class SpaceSpec implements Serializable {
     }
 
     /**
-     * The definition of a space with a Lebesgue or uniform reference.
+     * The definition of a space: its basis and its reference measure (Lebesgue, uniform, normal or
+     * beta, each described by its parameters).
      *
-     * @throws IllegalArgumentException for a normal, beta or custom reference (use
-     *                                  {@link #withNormalReference} or {@link #withBetaReference} on
-     *                                  the definition of the Lebesgue space instead)
+     * @throws IllegalArgumentException for a custom weight-function reference, which cannot be
+     *                                  shipped as numbers
      */
     public static SpaceSpec of(BayesSpace space) {
         Objects.requireNonNull(space, "space");
         Reference.Kind r = space.reference().kind();
-        if (r != Reference.Kind.LEBESGUE && r != Reference.Kind.UNIFORM) {
-            throw new IllegalArgumentException("space " + space + " has the reference " + space.reference()
-                    + "; SpaceSpec.of takes Lebesgue or uniform references: describe the space with the Lebesgue"
-                    + " reference and add withNormalReference(mean, sd) or withBetaReference(alpha, beta) (custom"
-                    + " weight functions cannot be shipped as numbers)");
+        if (r == Reference.Kind.CUSTOM) {
+            throw new IllegalArgumentException("space " + space + " has the custom reference " + space.reference()
+                    + "; a weight function cannot be shipped to executors as numbers: use a Lebesgue, uniform, normal"
+                    + " (withNormalReference(mean, sd)) or beta (withBetaReference(alpha, beta)) reference");
         }
+        double[] q = space.reference().parameters();
         Basis basis = space.basis();
-        SpaceSpec spec = new SpaceSpec(basis.kind(), basis.order(), basis.breakpoints(), r, 0, 0);
+        SpaceSpec spec = new SpaceSpec(basis.kind(), basis.order(), basis.breakpoints(), r, q.length > 0 ? q[0] : 0,
+                q.length > 0 ? q[1] : 0);
         spec.check(space);
         return spec;
     }

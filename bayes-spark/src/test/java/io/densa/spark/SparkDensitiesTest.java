@@ -164,4 +164,62 @@ class SparkDensitiesTest {
         assertTrue(bin.getMessage().startsWith("unit 'd9': bin 20 lies outside the layout; its 20 bins are numbered"
                 + " 0..19"), bin.getMessage());
     }
+
+    static final StructType NAMED_EVENTS = new StructType().add("district", DataTypes.StringType, true)
+            .add("age", DataTypes.DoubleType, true).add("w", DataTypes.DoubleType, true);
+    static final StructType NAMED_COUNTS = new StructType().add("district", DataTypes.StringType, true)
+            .add("age_band", DataTypes.IntegerType, true).add("n", DataTypes.LongType, true);
+
+    /**
+     * Columns named as the caller's table names them, and event weights: the weighted bin sums
+     * (weights 0.5, 1, 1.5, 2, whose sums are exact in any order) fitted on one machine are the
+     * Spark fits bit for bit; counts under other column names likewise; a negative weight fails
+     * naming the unit.
+     */
+    @Test
+    void namedColumnsAndWeightsGiveTheSingleMachineFits() {
+        List<Row> plain = events(14);
+        List<Row> rows = new ArrayList<>();
+        Bins bins = Bins.of(EDGES);
+        TreeMap<String, double[]> weighted = new TreeMap<>();
+        for (int i = 0; i < plain.size(); i++) {
+            Row r = plain.get(i);
+            double w = 0.5 * (1 + i % 4);
+            rows.add(RowFactory.create(r.getString(0), r.getDouble(1), w));
+            weighted.computeIfAbsent(r.getString(0), k -> new double[bins.count()])[bins.indexOf(r.getDouble(1))] += w;
+        }
+        EstimatorSpec spec = EstimatorSpec.of(SpaceSpec.of(SPACE), EDGES);
+        String[] ids = weighted.keySet().toArray(new String[0]);
+        BatchEstimate local = spec.estimator().fitAll(EDGES, weighted.values().toArray(new double[0][]), ids);
+        SparkDensities named = SparkDensities.of(spec).withUnitColumn("district").withValueColumn("age")
+                .withWeightColumn("w");
+        List<Row> out = named.fromEvents(frame(rows, NAMED_EVENTS, 3)).orderBy("unit").collectAsList();
+        assertEquals(ids.length, out.size());
+        for (int i = 0; i < ids.length; i++) {
+            assertEquals(ids[i], out.get(i).getString(0));
+            assertArrayEquals(local.densities().get(i).coordinates(), SparkRows.doubles(out.get(i), 1), 0.0, ids[i]);
+            assertEquals(local.diagnostics().get(i).total(), out.get(i).getDouble(8), 0.0);
+        }
+
+        TreeMap<String, double[]> counts = counts(plain);
+        List<Row> countRows = new ArrayList<>();
+        for (var e : counts.entrySet()) {
+            for (int j = 0; j < e.getValue().length; j++) {
+                countRows.add(RowFactory.create(e.getKey(), j, (long) e.getValue()[j]));
+            }
+        }
+        BatchEstimate localCounts = spec.estimator().fitAll(EDGES, counts.values().toArray(new double[0][]), ids);
+        List<Row> fromCounts = SparkDensities.of(spec).withUnitColumn("district").withCountColumns("age_band", "n")
+                .fromCounts(frame(countRows, NAMED_COUNTS, 2)).orderBy("unit").collectAsList();
+        for (int i = 0; i < ids.length; i++) {
+            assertArrayEquals(localCounts.densities().get(i).coordinates(), SparkRows.doubles(fromCounts.get(i), 1), 0.0,
+                    ids[i]);
+        }
+
+        IllegalArgumentException negative = assertThrows(IllegalArgumentException.class, () -> named.fromEvents(
+                SparkTestSession.get().createDataFrame(List.of(RowFactory.create("a", 1.0, 1.0),
+                        RowFactory.create("e5", 2.0, -1.0)), NAMED_EVENTS)));
+        assertTrue(negative.getMessage().startsWith("unit 'e5': event with value 2.0 has weight -1.0"),
+                negative.getMessage());
+    }
 }

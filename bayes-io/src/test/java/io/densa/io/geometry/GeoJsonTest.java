@@ -126,6 +126,41 @@ class GeoJsonTest {
         assertFalse(Files.exists(dir.resolve("x.geojson")));
     }
 
+    /**
+     * Fewer decimals round every coordinate to that many (RFC 7946 §11.2 on coordinate precision:
+     * six decimals of a degree are about 10 cm; from memory): with two, each written position has at
+     * most two decimals and lies within 0.005 of an input coordinate; out-of-range settings are
+     * refused.
+     */
+    @Test
+    void decimalsRoundTheCoordinates() throws Exception {
+        UnitGeometries g = UnitGeometries.read(write(dir, "fine.geojson", "{\"type\":\"FeatureCollection\","
+                + "\"features\":[\n" + square("A", 10.123456, 50.987654, 1) + ",\n" + square("C", 10.223456, 50.987654, 2)
+                + "]}"), "code");
+        Path out = dir.resolve("two.geojson");
+        GeoJsonUnitWriter.withDefaults().withDecimals(2).write(out, g, UnitValues.of("C", "A"));
+        assertTrue(!Files.readString(out, StandardCharsets.UTF_8).contains("10.123"), "coordinates not rounded");
+        String text = Files.readString(out, StandardCharsets.UTF_8);
+        JsonArray fs = JsonParser.parseString(text).getAsJsonObject().getAsJsonArray("features");
+        for (int f = 0; f < fs.size(); f++) {
+            JsonArray ring = fs.get(f).getAsJsonObject().getAsJsonObject("geometry").getAsJsonArray("coordinates")
+                    .get(0).getAsJsonArray();
+            Geometry orig = g.geometry(fs.get(f).getAsJsonObject().get("id").getAsString());
+            for (int k = 0; k < ring.size(); k++) {
+                for (int a = 0; a < 2; a++) {
+                    double v = ring.get(k).getAsJsonArray().get(a).getAsDouble();
+                    assertEquals(Math.round(v * 100) / 100.0, v, 1e-12, "not rounded to 2 decimals: " + v);
+                    double nearest = Double.POSITIVE_INFINITY;
+                    for (org.locationtech.jts.geom.Coordinate c : orig.getCoordinates()) {
+                        nearest = Math.min(nearest, Math.abs((a == 0 ? c.x : c.y) - v));
+                    }
+                    assertTrue(nearest <= 0.005 + 1e-12, "position " + v + " is not an input coordinate rounded");
+                }
+            }
+        }
+        rejects(() -> GeoJsonUnitWriter.withDefaults().withDecimals(16), "decimals must be in [0, 15], got 16");
+    }
+
     @Test
     void malformedAndAdversarialFilesFailClearlyAndQuickly() {
         Duration quick = Duration.ofSeconds(10);

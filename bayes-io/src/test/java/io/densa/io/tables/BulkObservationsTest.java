@@ -117,6 +117,20 @@ class BulkObservationsTest {
         assertEquals(0, s.outside().clampedBelow());
     }
 
+    /** The smallest accepted engine memory limit gives the same counts; a smaller one is refused. */
+    @Test
+    void memoryLimitChangesNothingButIsChecked() {
+        List<CountTable> got = new ArrayList<>();
+        BulkObservations.of(csv, "unit", "value").withWeight("w").withMemoryLimitMiB(64)
+                .histograms(BINS, OutsidePolicy.CLAMP, got::add);
+        Map<String, double[]> want = expected(true, OutsidePolicy.CLAMP);
+        Map<String, double[]> have = collect(got);
+        want.forEach((k, v) -> assertArrayEquals(v, have.get(k), k));
+        IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> BulkObservations.of(csv, "unit", "value").withMemoryLimitMiB(63));
+        assertTrue(e.getMessage().contains("at least 64 MiB"), e.getMessage());
+    }
+
     @Test
     void periodsSplitUnits() {
         List<CountTable> got = new ArrayList<>();

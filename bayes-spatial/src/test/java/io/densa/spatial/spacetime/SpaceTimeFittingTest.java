@@ -44,6 +44,28 @@ class SpaceTimeFittingTest {
         assertTrue(f.rmse() < 0.1 * f.model().sill(), f.toString());
     }
 
+    /**
+     * A temporal margin of another family, asked for: the fitted temporal structure has that family,
+     * its range is recovered, and the curve follows the classes more closely than with the default
+     * (exponential) temporal family (measured once: range 4.89 for 5, rmse 0.048 against 0.086).
+     */
+    @Test
+    void aGaussianTemporalMarginIsFittedWhenAskedFor() {
+        SpaceTimeModel truth = SpaceTimeModel.separable(VariogramModel.exponential(1.5, 0.4),
+                VariogramModel.gaussian(1, 5), 0.1);
+        double[][] p = SpaceTimeFields.panel(40, 15, 103);
+        SpaceTimeVariogram ev = SpaceTimeVariogram.of(SpaceTimeFields.field(SpaceTimeFields.K10, p, truth, 203), SPACE,
+                TIME);
+        SpaceTimeFit gaussian = SpaceTimeFitting.fit(ev, SpaceTimeModel.Kind.SEPARABLE,
+                SpaceTimeFitOptions.withDefaults().withTemporalFamily(VariogramModel.Family.GAUSSIAN, 0));
+        SpaceTimeFit exponential = SpaceTimeFitting.fit(ev, SpaceTimeModel.Kind.SEPARABLE,
+                SpaceTimeFitOptions.withDefaults());
+        assertEquals(VariogramModel.Family.GAUSSIAN, gaussian.model().temporal().structures().get(0).family());
+        assertEquals(VariogramModel.Family.EXPONENTIAL, exponential.model().temporal().structures().get(0).family());
+        assertEquals(5, gaussian.parameter("temporal range"), 1.5, gaussian.toString());
+        assertTrue(gaussian.rmse() < exponential.rmse(), gaussian + " against " + exponential);
+    }
+
     @Test
     void gneitingParametersAreRecovered() {
         SpaceTimeModel truth = SpaceTimeModel.gneiting(1.5, 0.4, 5, 0.8, 0.5, 0.5, 0.1);
