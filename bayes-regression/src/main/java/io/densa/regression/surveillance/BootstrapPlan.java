@@ -44,7 +44,20 @@ final class BootstrapPlan {
         int nq = quad.x.length;
         matVec(phi, nq, k, coords, i * k, b.base);
         quad.bandProbabilities(b.base, b.piHat);
+        double scale = own ? total : denominator;
+        double[] expected = new double[nb];
+        double displaced = 0;
+        for (int t = 0; t < nb; t++) {
+            expected[t] = scale * b.piHat[t];
+            displaced += Math.max(0, obs[t] - denominator * b.piHat[t]);
+        }
         SplittableRandom rng = Seeds.stream(seed, i);
+        // the null of no change, on a stream of its own: band counts from the baseline (drawn from its
+        // error law when one is given: the same baselines as the interval's draws), against the
+        // baseline as given
+        SplittableRandom nullRng = Seeds.stream(Seeds.mix(seed, NULL_STREAM), i);
+        int beyond = 0;
+        double nullSum = 0;
         double[][] sample = b.sample;
         CountSampling.Poisson[] poisson = new CountSampling.Poisson[nb];
         for (int t = 0; t < nb; t++) {
@@ -74,14 +87,17 @@ final class BootstrapPlan {
                     nStar += sample[t][r];
                 }
                 double tStar = own ? nStar : denominator;
-                double displaced = 0;
+                double dStar = 0;
                 for (int t = 0; t < nb; t++) {
                     double e = sample[t][r] - tStar * (sd > 0 ? b.pi[t][rr] : b.piHat[t]);
                     sample[t][r] = e;
-                    displaced += Math.max(0, e);
+                    dStar += Math.max(0, e);
                 }
                 sample[nb][r] = nStar - tStar;
-                sample[nb + 1][r] = displaced;
+                sample[nb + 1][r] = dStar;
+                double d0 = nullDisplaced(sd > 0 ? b.pi : null, rr, b.piHat, total, scale, expected, nullRng);
+                beyond += d0 >= displaced ? 1 : 0;
+                nullSum += d0;
             }
         }
         double[][] ends = new double[nb + 2][2];
@@ -90,58 +106,12 @@ final class BootstrapPlan {
             ends[t][0] = quantile(sample[t], lo);
         }
         List<ExcessCounts.BandExcess> list = new ArrayList<>(nb);
-        double displaced = 0;
         for (int t = 0; t < nb; t++) {
             double e = denominator * b.piHat[t];
-            double x = obs[t] - e;
-            displaced += Math.max(0, x);
-            list.add(new ExcessCounts.BandExcess(bands[t], bands[t + 1], obs[t], e, x, ends[t][0], ends[t][1]));
+            list.add(new ExcessCounts.BandExcess(bands[t], bands[t + 1], obs[t], e, obs[t] - e, ends[t][0], ends[t][1]));
         }
         ExcessCounts.BandExcess overall = new ExcessCounts.BandExcess(bands[0], bands[nb], total, denominator, total - denominator,
                 ends[nb][0], ends[nb][1]);
-        double scale = own ? total : denominator;
-        double[] expected = new double[nb];
-        for (int t = 0; t < nb; t++) {
-            expected[t] = scale * b.piHat[t];
-        }
-        // the null: counting noise (and the baseline's error, when given) against the baseline as
-        // given, on streams of their own
-        SplittableRandom nullRng = Seeds.stream(Seeds.mix(seed, NULL_STREAM), i);
-        SplittableRandom nullBaseline = sd > 0 ? Seeds.stream(Seeds.mix(seed, NULL_BASELINE_STREAM), i) : null;
-        int beyond = 0;
-        double nullSum = 0;
-        for (int r0 = 0; r0 < draws; r0 += width) {
-            int n = Math.min(width, draws - r0);
-            if (sd > 0) {
-                for (int rr = 0; rr < n; rr++) {
-                    for (int c = 0; c < k; c++) {
-                        b.z[c][rr] = nullBaseline.nextGaussian() * sd;
-                    }
-                }
-                quad.bandProbabilities(b.base, phiF, k, b.z, n, b.v, b.shift, b.total, b.pi);
-            }
-            for (int rr = 0; rr < n; rr++) {
-                double d0 = 0;
-                long left = (long) total;
-                double rest = 1;
-                for (int t = 0; t < nb; t++) {
-                    double p = sd > 0 ? b.pi[t][rr] : b.piHat[t];
-                    double o;
-                    if (own) {
-                        double share = rest > 0 ? Math.min(1, p / rest) : 0;
-                        long x = t == nb - 1 ? left : CountSampling.binomial(left, share, nullRng);
-                        left -= x;
-                        rest -= p;
-                        o = x;
-                    } else {
-                        o = CountSampling.poisson(scale * p, nullRng);
-                    }
-                    d0 += Math.max(0, o - expected[t]);
-                }
-                beyond += d0 >= displaced ? 1 : 0;
-                nullSum += d0;
-            }
-        }
         double noiseMean = 0;
         if (sd > 0) {
             noiseMean = nullSum / draws;
@@ -155,10 +125,35 @@ final class BootstrapPlan {
         return new ExcessCounts.UnitExcess(i, id, overall, list, disp);
     }
 
+    /**
+     * One draw of the null's displaced events: band counts with shares pi[t][rr] (a drawn baseline)
+     * or piHat (pi null), multinomial with the unit's total or Poisson with mean scale × share,
+     * against the expected counts.
+     */
+    private double nullDisplaced(double[][] pi, int rr, double[] piHat, double total, double scale, double[] expected,
+            SplittableRandom nullRng) {
+        double d0 = 0;
+        long left = (long) total;
+        double rest = 1;
+        for (int t = 0; t < nb; t++) {
+            double p = pi != null ? pi[t][rr] : piHat[t];
+            double o;
+            if (own) {
+                double share = rest > 0 ? Math.min(1, p / rest) : 0;
+                long x = t == nb - 1 ? left : CountSampling.binomial(left, share, nullRng);
+                left -= x;
+                rest -= p;
+                o = x;
+            } else {
+                o = CountSampling.poisson(scale * p, nullRng);
+            }
+            d0 += Math.max(0, o - expected[t]);
+        }
+        return d0;
+    }
+
     /** Index mixed into the seed for the noise-only draws of the displaced events. */
     static final long NULL_STREAM = 0x6e6f697365L;
-    /** Index mixed into the seed for the baseline draws of that null, when a baseline error is given. */
-    static final long NULL_BASELINE_STREAM = 0x6e6f697362L;
 
     /**
      * E max(0, X − np) for X ~ Binomial(n, p): ν (1 − p) P(X = ν), ν = ⌊np⌋ + 1 (see

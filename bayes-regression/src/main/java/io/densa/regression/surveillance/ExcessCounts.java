@@ -238,7 +238,9 @@ public final class ExcessCounts {
      * baseline's own error, and a null without the latter gives too many small p-values (the
      * tests measure both). {@code pValue} is (1 + #{D₀ ≥ D}) / (1 + B) over B draws D₀ of that law
      * (a Monte Carlo test: Davison &amp; Hinkley (1997), Bootstrap Methods and their Application,
-     * Cambridge UP, ch. 4; from memory; streams of their own, the intervals' draws are unchanged). {@code noiseMean} is the mean of D₀: with a baseline taken
+     * Cambridge UP, ch. 4; from memory). The null's counts come from a stream of their own; with a
+     * baseline error its drawn baselines are those of the interval's draws (one quadrature per
+     * draw serves both), so the intervals are as they were without the null. {@code noiseMean} is the mean of D₀: with a baseline taken
      * as exact it is Σ_B E max(0, O(B) − E(B)) in closed form, ν q P(X = ν) with ν = ⌊Np⌋ + 1 for a
      * binomial (the mean absolute deviation of de Moivre, halved) and λ P(X = ⌊λ⌋) for a Poisson
      * variate of mean λ (Diaconis &amp; Zabell (1991), Closed form summation for classical

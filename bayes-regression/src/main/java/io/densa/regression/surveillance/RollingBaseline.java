@@ -47,7 +47,7 @@ import java.util.Objects;
  * s_i = a u_{i,t−1} + b the part of the variance line that is not the current period's counting
  * noise (a u_{i,t}); without estimation variances, the calibration residuals' covariance for every
  * unit, which also holds the current period's counting noise. The p-values are then valid but on
- * the cautious side (measured on invented panels: 4–6 % of unit-periods without change at p ≤ 0.1;
+ * the cautious side (measured on invented panels: 3–6 % of unit-periods without change at p ≤ 0.1;
  * against counting noise alone 27 %). See {@link PeriodReport#baselineError()}.
  *
  * <h2>Seasonal lags</h2>

@@ -132,7 +132,7 @@ class MonitorExcessTest {
                 found, shiftedTotal);
         // a valid p-value has P(p <= 0.1) <= 0.1; 840 quiet unit-periods, correlated through the shared
         // baseline and calibration set (the binomial SD of the share at 0.1 alone is 0.010). The error law
-        // is a model (a variance line and one shape for every unit), on the cautious side here (about 0.06);
+        // is a model (a variance line and one shape for every unit), on the cautious side here (about 0.05);
         // against counting noise alone the p-values are not valid
         assertTrue(share <= 0.13 && share >= 0.03, "share of quiet unit-periods with p <= 0.1: " + share);
         assertTrue(shareNoiseOnly >= 0.18, "counting noise alone: " + shareNoiseOnly + " against " + share);
