@@ -333,7 +333,7 @@ public final class BaselineMonitor {
         ExcessCounts.Result excess = null;
         if (period.counts() != null) {
             double[] edges = period.binEdges();
-            double[] bands = config.excessBands != null ? config.excessBands : edges;
+            double[] bands = config.excessBandsFor(edges, period.index());
             excess = ExcessCounts.withDefaults().withDraws(config.draws, Seeds.mix(config.seed, 2L * period.index() + 1))
                     .estimate(expected, period.counts(), edges, bands,
                             ExcessCounts.BaselineError.scaled(shape, baselineScales));

@@ -290,6 +290,34 @@ public final class RollingBaseline {
         return with(d -> d.excessBands = e);
     }
 
+    /**
+     * The excess bands for a period's bin edges: the configured ones (each must be one of the bin
+     * edges, the first and last the layout's ends) or the bin edges themselves.
+     *
+     * @throws IllegalArgumentException naming the period and the band edge that does not fit
+     */
+    double[] excessBandsFor(double[] binEdges, int period) {
+        if (excessBands == null) {
+            return binEdges;
+        }
+        double tol = 1e-9 * (binEdges[binEdges.length - 1] - binEdges[0]);
+        for (int t = 0; t < excessBands.length; t++) {
+            boolean found = false;
+            for (double e : binEdges) {
+                found |= Math.abs(e - excessBands[t]) <= tol;
+            }
+            boolean end = t == 0 || t == excessBands.length - 1;
+            double want = t == 0 ? binEdges[0] : binEdges[binEdges.length - 1];
+            if (!found || (end && Math.abs(excessBands[t] - want) > tol)) {
+                throw new IllegalArgumentException("period " + period + ": excess band edge " + excessBands[t]
+                        + " (withExcessBands) " + (found ? "must be the layout's " + (t == 0 ? "first" : "last")
+                        + " bin edge " + want : "is not one of the period's bin edges "
+                        + java.util.Arrays.toString(binEdges)));
+            }
+        }
+        return excessBands;
+    }
+
     /** The bands of the excess counts (a fresh copy), or null for one band per count bin. */
     public double[] excessBands() {
         return excessBands == null ? null : excessBands.clone();

@@ -1,6 +1,7 @@
 package io.densa.regression.surveillance;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.BayesSpace;
@@ -147,5 +148,23 @@ class MonitorExcessTest {
             }
         }
         assertTrue(flaggedUnits > 0, "no unit flagged, so the alert history's displaced events went untested");
+    }
+
+    /** Excess bands that do not fit a period's bins are refused when the period is scored, naming both. */
+    @Test
+    void bandsThatDoNotFitTheBinsAreNamed() {
+        List<Period> all = panel(12, 99, new boolean[UNITS], 6);
+        BaselineMonitor m = RollingBaseline.withDefaults().withCalibrationPeriods(2).withDraws(99, 1)
+                .withExcessBands(0, 0.35, 1).fit(all.subList(0, 11));
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+                () -> m.score(all.get(11)));
+        assertTrue(e.getMessage().startsWith("period 11: excess band edge 0.35 (withExcessBands) is not one of the"
+                + " period's bin edges"), e.getMessage());
+        BaselineMonitor ending = RollingBaseline.withDefaults().withCalibrationPeriods(2).withDraws(99, 1)
+                .withExcessBands(0, 0.5, 0.9).fit(all.subList(0, 11));
+        e = assertThrows(IllegalArgumentException.class, () -> ending.score(all.get(11)));
+        assertTrue(e.getMessage().contains("must be the layout's last bin edge 1.0"), e.getMessage());
+        assertThrows(IllegalArgumentException.class, () -> RollingBaseline.withDefaults().withExcessBands(0.5));
+        assertThrows(IllegalArgumentException.class, () -> RollingBaseline.withDefaults().withExcessBands(0, 0.5, 0.5));
     }
 }
