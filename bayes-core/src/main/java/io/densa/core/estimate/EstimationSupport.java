@@ -260,11 +260,8 @@ final class EstimationSupport {
             return 0.0;
         }
         int nq = domain.nodes;
-        double[] eta = new double[nq];
-        double[] ml = centreAndLogZ(domain, beta, eta);
-        double m = ml[0], logZ = ml[1];
         double lo = bins.edges[0], hi = bins.edges[bins.edges.length - 1];
-        double deep = 0;
+        double[] sideMass = new double[2];
         for (int side = 0; side < 2; side++) {
             int b0 = side == 0 ? 0 : last + 1;
             int b1 = side == 0 ? first : bins.bins; // bins [b0, b1) without events on this side
@@ -277,6 +274,19 @@ final class EstimationSupport {
                     mass += domain.weight[q];
                 }
             }
+            sideMass[side] = mass;
+        }
+        if (!(sideMass[0] > 0) && !(sideMass[1] > 0)) {
+            return 0.0; // events at both ends of a layout that covers the domain: nothing is extrapolated
+        }
+        double[] eta = new double[nq];
+        double[] ml = centreAndLogZ(domain, beta, eta);
+        double m = ml[0], logZ = ml[1];
+        double deep = 0;
+        for (int side = 0; side < 2; side++) {
+            int b0 = side == 0 ? 0 : last + 1;
+            int b1 = side == 0 ? first : bins.bins;
+            double mass = sideMass[side];
             if (!(mass > 0)) {
                 continue;
             }
