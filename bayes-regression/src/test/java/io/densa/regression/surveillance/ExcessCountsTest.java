@@ -307,6 +307,55 @@ class ExcessCountsTest {
         assertTrue(noise > 1.3 * noiseOnly.units().get(0).displaced().noiseMean(), "null mean with the error " + noise);
     }
 
+    /**
+     * The same with known expected totals T (Poisson band counts of mean T π(B), Commons Math's
+     * Poisson sampler): against the baseline's error law the p-values are uniform, against counting
+     * noise alone too small.
+     */
+    @Test
+    void displacedEventsWithGivenTotalsAgainstTheBaselinesError() {
+        double[] c4 = truncatedNormal(4, 2);
+        double[] c5 = truncatedNormal(5, 2);
+        double[][] sigma = new double[c4.length][c4.length];
+        for (int a = 0; a < c4.length; a++) {
+            for (int b = 0; b < c4.length; b++) {
+                sigma[a][b] = 0.25 * (c5[a] - c4[a]) * (c5[b] - c4[b]);
+            }
+        }
+        int n = 400;
+        double total = 300;
+        SplittableRandom rng = new SplittableRandom(23);
+        double[][] c = new double[n][];
+        long[][] cnt = new long[n][];
+        double[] totals = new double[n];
+        for (int i = 0; i < n; i++) {
+            c[i] = c4;
+            totals[i] = total;
+            double[] pi = bandProbabilities(4 + 0.5 * rng.nextGaussian(), 2);
+            double[] band = new double[3];
+            for (int t = 0; t < 3; t++) {
+                band[t] = new PoissonDistribution(new Well19937c(rng.nextLong()), total * pi[t],
+                        PoissonDistribution.DEFAULT_EPSILON, PoissonDistribution.DEFAULT_MAX_ITERATIONS).sample();
+            }
+            cnt[i] = counts(band);
+        }
+        ExcessCounts ex = ExcessCounts.withDefaults().withDraws(199, 6);
+        ExcessCounts.Result withError = ex.estimate(DensitySet.of(SPACE, c), cnt, BIN_EDGES, BANDS,
+                ExcessCounts.BaselineError.common(sigma), totals);
+        ExcessCounts.Result noiseOnly = ex.estimate(DensitySet.of(SPACE, c), cnt, BIN_EDGES, BANDS,
+                ExcessCounts.BaselineError.none(), totals);
+        int small = 0;
+        int smallNoiseOnly = 0;
+        for (int i = 0; i < n; i++) {
+            small += withError.units().get(i).displaced().pValue() <= 0.1 ? 1 : 0;
+            smallNoiseOnly += noiseOnly.units().get(i).displaced().pValue() <= 0.1 ? 1 : 0;
+        }
+        System.out.printf(java.util.Locale.ROOT, "displaced events, given totals, under the baseline's error: P(p <= 0.1)"
+                + " %.3f (noise alone %.3f)%n", small / (double) n, smallNoiseOnly / (double) n);
+        assertEquals(0.1, small / (double) n, 0.05, "share of p <= 0.1 against noise and baseline error");
+        assertTrue(smallNoiseOnly / (double) n >= 0.2, "counting noise alone: " + smallNoiseOnly / (double) n);
+    }
+
     @Test
     void baselineErrorWidensTheInterval() {
         double[] c = truncatedNormal(4, 2);
