@@ -1,6 +1,7 @@
 package io.densa.report;
 
 import io.densa.core.estimate.BatchEstimate;
+import io.densa.core.estimate.DetectionLimits;
 import io.densa.core.estimate.EstimationDiagnostics;
 import io.densa.spatial.autocorrelation.AutocorrelationPermutation;
 import io.densa.spatial.autocorrelation.MoranI;
@@ -192,6 +193,40 @@ public final class Findings {
     /** {@link #extrapolated(List, int, int)} for a batch. */
     public static String extrapolated(BatchEstimate estimate, int listed) {
         return extrapolated(estimate.extrapolatedIds(), estimate.size(), listed);
+    }
+
+    /**
+     * The units whose counts look clipped at a detection limit ({@link DetectionLimits#suggested}),
+     * naming at most {@code listed} with the suggested limit, or that none does; a suggestion for
+     * the analyst to check against how the data were recorded.
+     *
+     * @param suggested the suggestions for the units, in the order of {@code ids}
+     * @param ids       the units' ids
+     */
+    public static String clippedUnits(DetectionLimits suggested, List<String> ids, int listed) {
+        Objects.requireNonNull(suggested, "suggested");
+        Objects.requireNonNull(ids, "ids");
+        if (ids.size() != suggested.size()) {
+            throw new IllegalArgumentException(ids.size() + " ids for " + suggested.size() + " units");
+        }
+        double[] lo = suggested.lower();
+        double[] hi = suggested.upper();
+        List<String> named = new ArrayList<>();
+        for (int i = 0; i < ids.size(); i++) {
+            if (suggested.censored(i)) {
+                named.add(ids.get(i) + " (" + (lo[i] == lo[i] ? "below " + Numbers.significant(lo[i], 4) : "")
+                        + (lo[i] == lo[i] && hi[i] == hi[i] ? ", " : "")
+                        + (hi[i] == hi[i] ? "above " + Numbers.significant(hi[i], 4) : "") + ")");
+            }
+        }
+        if (named.isEmpty()) {
+            return "No unit's counts look clipped at a detection limit (a run of empty bins at an end of the range"
+                    + " followed by a spike).";
+        }
+        return named.size() + " of " + ids.size() + " units' counts look clipped at a detection limit (a run of empty"
+                + " bins at an end of the range followed by a spike): " + list(named, listed) + ". If their values"
+                + " were recorded at the limit there, declare the limits (DetectionLimits) so that those counts enter"
+                + " the estimate as censored; a quantity with a hard bound of its own looks the same.";
     }
 
     /**

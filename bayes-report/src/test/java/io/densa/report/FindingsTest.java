@@ -105,4 +105,19 @@ class FindingsTest {
         assertTrue(c.contains("B (iteration budget spent)") && c.contains("1 unit had no events"), c);
         assertTrue(Findings.convergence(d.subList(0, 1), 5).startsWith("All 1 density fits with data converged"));
     }
+
+    @Test
+    void clippedUnitsAreNamedWithTheirLimits() {
+        // unit b: three empty bins, then 40 events against 5 one bin further in (binomial tail ≈ 2e-8);
+        // unit a: a smooth rise; unit c: a spike at the top
+        double[] edges = {0, 1, 2, 3, 4, 5, 6, 7, 8};
+        double[][] counts = {{1, 3, 6, 9, 9, 6, 3, 1}, {0, 0, 0, 40, 5, 8, 6, 2}, {1, 4, 8, 9, 5, 30, 0, 0}};
+        io.densa.core.estimate.DetectionLimits s = io.densa.core.estimate.DetectionLimits.suggested(edges, counts);
+        String text = Findings.clippedUnits(s, List.of("a", "b", "c"), 5);
+        assertTrue(text.startsWith("2 of 3 units' counts look clipped at a detection limit"), text);
+        assertTrue(text.contains("b (below 3)") && text.contains("c (above 5)") && !text.contains("a ("), text);
+        String none = Findings.clippedUnits(io.densa.core.estimate.DetectionLimits.suggested(edges,
+                new double[][] {counts[0]}), List.of("a"), 5);
+        assertTrue(none.startsWith("No unit's counts look clipped"), none);
+    }
 }
