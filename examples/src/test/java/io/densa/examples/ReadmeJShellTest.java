@@ -71,6 +71,30 @@ class ReadmeJShellTest {
         return out;
     }
 
+    /**
+     * Evaluates the source snippet by snippet ({@link #snippets}) in the shell: none may throw or be
+     * rejected, and a numeric value must be finite. Returns the number of snippets.
+     */
+    static int evalAll(JShell shell, String source) {
+        int count = 0;
+        for (String snippet : snippets(shell, source)) {
+            for (SnippetEvent event : shell.eval(snippet)) {
+                String where = "snippet: " + snippet.strip();
+                assertNull(event.exception(), () -> where + " threw " + event.exception());
+                if (event.snippet() != null && event.causeSnippet() == null) {
+                    assertEquals(Snippet.Status.VALID, event.status(), () -> where + " is " + event.status()
+                            + ": " + shell.diagnostics(event.snippet()).map(d -> d.getMessage(null)).toList());
+                    String value = event.value();
+                    if (value != null && value.matches("-?[0-9.]+(E-?[0-9]+)?|NaN|-?Infinity")) {
+                        assertTrue(Double.isFinite(Double.parseDouble(value)), where + " gave " + value);
+                    }
+                }
+            }
+            count++;
+        }
+        return count;
+    }
+
     @Test
     void readmeSessionRunsAfterTheStartupScript() throws IOException {
         String readme = Files.readString(ROOT.resolve("README.md"));
@@ -83,25 +107,10 @@ class ReadmeJShellTest {
             for (String entry : System.getProperty("java.class.path").split(File.pathSeparator)) {
                 shell.addToClasspath(entry);
             }
-            int count = 0;
             // the README's paths are relative to the repository root; this JVM runs in examples/
             String session = String.join("\n", blocks).replace("Path.of(\"data\"", "Path.of(\""
                     + ROOT.resolve("data").toString().replace("\\", "/") + "\"");
-            for (String snippet : snippets(shell, startup + "\n" + session)) {
-                for (SnippetEvent event : shell.eval(snippet)) {
-                    String where = "snippet: " + snippet.strip();
-                    assertNull(event.exception(), () -> where + " threw " + event.exception());
-                    if (event.snippet() != null && event.causeSnippet() == null) {
-                        assertEquals(Snippet.Status.VALID, event.status(), () -> where + " is " + event.status()
-                                + ": " + shell.diagnostics(event.snippet()).map(d -> d.getMessage(null)).toList());
-                        String value = event.value();
-                        if (value != null && value.matches("-?[0-9.]+(E-?[0-9]+)?|NaN|-?Infinity")) {
-                            assertTrue(Double.isFinite(Double.parseDouble(value)), where + " gave " + value);
-                        }
-                    }
-                }
-                count++;
-            }
+            int count = evalAll(shell, startup + "\n" + session);
             assertTrue(count >= 5 + 3, "expected the imports and at least five session lines, ran " + count);
         }
     }

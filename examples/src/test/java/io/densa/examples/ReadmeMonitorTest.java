@@ -1,9 +1,7 @@
 package io.densa.examples;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
-import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertTrue;
-import static org.junit.jupiter.api.Assertions.fail;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.estimate.BatchEstimate;
@@ -16,9 +14,6 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
 import jdk.jshell.JShell;
-import jdk.jshell.Snippet;
-import jdk.jshell.SnippetEvent;
-import jdk.jshell.SourceCodeAnalysis;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -84,21 +79,6 @@ public class ReadmeMonitorTest {
         return markdown.substring(open + 8, close + 1);
     }
 
-    static List<String> snippets(JShell shell, String source) {
-        List<String> out = new ArrayList<>();
-        SourceCodeAnalysis analysis = shell.sourceCodeAnalysis();
-        String remaining = source;
-        while (!remaining.isBlank()) {
-            SourceCodeAnalysis.CompletionInfo info = analysis.analyzeCompletion(remaining);
-            if (!info.completeness().isComplete()) {
-                fail("incomplete snippet in the README block: " + remaining);
-            }
-            out.add(info.source());
-            remaining = info.remaining();
-        }
-        return out;
-    }
-
     @Test
     void readmeMonitorExampleSavesScoresAndUpdates(@TempDir Path dir) throws Exception {
         String code = monitorBlock(Files.readString(ROOT.resolve("README.md")));
@@ -113,18 +93,7 @@ public class ReadmeMonitorTest {
             for (String entry : System.getProperty("java.class.path").split(File.pathSeparator)) {
                 shell.addToClasspath(entry);
             }
-            int count = 0;
-            for (String snippet : snippets(shell, setup + code)) {
-                for (SnippetEvent event : shell.eval(snippet)) {
-                    String where = "snippet: " + snippet.strip();
-                    assertNull(event.exception(), () -> where + " threw " + event.exception());
-                    if (event.snippet() != null && event.causeSnippet() == null) {
-                        assertEquals(Snippet.Status.VALID, event.status(), () -> where + " is " + event.status()
-                                + ": " + shell.diagnostics(event.snippet()).map(d -> d.getMessage(null)).toList());
-                    }
-                }
-                count++;
-            }
+            int count = ReadmeJShellTest.evalAll(shell, setup + code);
             assertTrue(count >= 11, "expected the setup and the example's statements, ran " + count);
             assertEquals("4", shell.eval("first.bands().size()").get(0).value());
             assertEquals("true", shell.eval("first.displaced().lower() <= first.displaced().value()"

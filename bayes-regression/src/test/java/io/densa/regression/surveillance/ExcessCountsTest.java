@@ -60,6 +60,23 @@ class ExcessCountsTest {
         return c;
     }
 
+    /**
+     * The coordinates' law of truncated normals N(μ, 2²) with μ ~ N(4, 0.5²): the coordinates are
+     * linear in μ in the quadratic space, c(μ) = c(4) + (μ − 4) v with v = c(5) − c(4), so the law is
+     * N(c(4), 0.25 v vᵀ).
+     */
+    private static double[][] shiftLaw() {
+        double[] c4 = truncatedNormal(4, 2);
+        double[] c5 = truncatedNormal(5, 2);
+        double[][] sigma = new double[c4.length][c4.length];
+        for (int a = 0; a < c4.length; a++) {
+            for (int b = 0; b < c4.length; b++) {
+                sigma[a][b] = 0.25 * (c5[a] - c4[a]) * (c5[b] - c4[b]);
+            }
+        }
+        return sigma;
+    }
+
     /** Counts of {@code total} events drawn one by one into the three bands with probabilities pi. */
     private static long[] multinomial(double[] pi, long total, SplittableRandom rng) {
         double[] band = new double[3];
@@ -265,13 +282,7 @@ class ExcessCountsTest {
     @Test
     void displacedEventsAgainstTheBaselinesErrorToo() {
         double[] c4 = truncatedNormal(4, 2);
-        double[] c5 = truncatedNormal(5, 2);
-        double[][] sigma = new double[c4.length][c4.length];
-        for (int a = 0; a < c4.length; a++) {
-            for (int b = 0; b < c4.length; b++) {
-                sigma[a][b] = 0.25 * (c5[a] - c4[a]) * (c5[b] - c4[b]);
-            }
-        }
+        double[][] sigma = shiftLaw();
         int n = 400;
         long total = 300;
         SplittableRandom rng = new SplittableRandom(17);
@@ -315,13 +326,7 @@ class ExcessCountsTest {
     @Test
     void displacedEventsWithGivenTotalsAgainstTheBaselinesError() {
         double[] c4 = truncatedNormal(4, 2);
-        double[] c5 = truncatedNormal(5, 2);
-        double[][] sigma = new double[c4.length][c4.length];
-        for (int a = 0; a < c4.length; a++) {
-            for (int b = 0; b < c4.length; b++) {
-                sigma[a][b] = 0.25 * (c5[a] - c4[a]) * (c5[b] - c4[b]);
-            }
-        }
+        double[][] sigma = shiftLaw();
         int n = 400;
         double total = 300;
         SplittableRandom rng = new SplittableRandom(23);
