@@ -3,6 +3,8 @@ package io.densa.spark;
 import io.densa.core.Density;
 import io.densa.core.DensitySet;
 import io.densa.regression.surveillance.AnomalyScoring;
+import io.densa.regression.surveillance.ExcessCounts;
+import java.io.Serializable;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Iterator;
@@ -39,6 +41,12 @@ import org.apache.spark.storage.StorageLevel;
  * {@code adjusted_p_value}, {@code flagged} and {@code excursions} (array of struct from, to,
  * direction EXCESS or DEFICIT, extreme; empty unless flagged). The call runs the jobs at once and
  * returns the result persisted; {@code unpersist()} it when done.
+ *
+ * <h2>Excess counts</h2>
+ * {@link #excessCounts} adds {@link ExcessCounts} to every row (a unit's counts against its baseline
+ * coordinates: excess per band and displaced events with intervals and a p-value), each unit on
+ * streams of its own seed ({@link #unitSeed}), so the numbers do not depend on the partitioning and
+ * equal those of the unit alone on one machine.
  */
 public final class SparkScoring {
     static final int BATCH = 1024;
@@ -109,6 +117,214 @@ public final class SparkScoring {
         } finally {
             pass1.unpersist();
         }
+    }
+
+    /**
+     * What {@link #excessCounts} computes: the space of the baseline coordinates, the count bins and
+     * the bands, the interval level, the draws, the seed and optionally a common covariance of the
+     * baseline's error ({@link ExcessCounts.BaselineError#common}). Immutable and serialisable
+     * (numbers only).
+     */
+    public static final class Excess implements Serializable {
+        private static final long serialVersionUID = 1L;
+        private final SpaceSpec space;
+        private final double[] binEdges;
+        private final double[] bandEdges;
+        private final double level;
+        private final int draws;
+        private final long seed;
+        private final double[][] covariance;
+
+        private Excess(SpaceSpec space, double[] binEdges, double[] bandEdges, double level, int draws, long seed,
+                double[][] covariance) {
+            this.space = space;
+            this.binEdges = binEdges;
+            this.bandEdges = bandEdges;
+            this.level = level;
+            this.draws = draws;
+            this.seed = seed;
+            this.covariance = covariance;
+        }
+
+        /**
+         * Excess counts in the bands over the count bins (both as {@link ExcessCounts#estimate}
+         * takes them; the arrays are copied), 90 % intervals from 999 draws, seed 1, the baseline
+         * taken as exact.
+         */
+        public static Excess of(SpaceSpec space, double[] binEdges, double[] bandEdges) {
+            return new Excess(Objects.requireNonNull(space, "space"), binEdges.clone(), bandEdges.clone(), 0.9, 999, 1,
+                    null);
+        }
+
+        /** The interval level in (0, 1). */
+        public Excess withLevel(double l) {
+            ExcessCounts.withDefaults().withLevel(l); // validates
+            return new Excess(space, binEdges, bandEdges, l, draws, seed, covariance);
+        }
+
+        /** The draws per unit (at least 99) and the seed of every unit's streams. */
+        public Excess withDraws(int count, long randomSeed) {
+            ExcessCounts.withDefaults().withDraws(count, randomSeed); // validates
+            return new Excess(space, binEdges, bandEdges, level, count, randomSeed, covariance);
+        }
+
+        /** A covariance of the baseline's error, the same for every unit (K × K, copied; checked as ExcessCounts does). */
+        public Excess withBaselineCovariance(double[][] cov) {
+            ExcessCounts.BaselineError.common(cov); // validates
+            double[][] c = new double[cov.length][];
+            for (int i = 0; i < c.length; i++) {
+                c[i] = cov[i].clone();
+            }
+            return new Excess(space, binEdges, bandEdges, level, draws, seed, c);
+        }
+
+        ExcessCounts.BaselineError error() {
+            return covariance == null ? ExcessCounts.BaselineError.none() : ExcessCounts.BaselineError.common(covariance);
+        }
+
+        /** The bootstrap of one unit: its own seed (see {@link #unitSeed}), so partitions do not matter. */
+        ExcessCounts.UnitExcess unit(String id, long[] counts, double[] coordinates, ExcessCounts.BaselineError error) {
+            DensitySet one = DensitySet.of(space.space(), new double[][] {coordinates}, new String[] {id});
+            return ExcessCounts.withDefaults().withLevel(level).withDraws(draws, unitSeed(seed, id))
+                    .estimate(one, new long[][] {counts}, binEdges, bandEdges, error).units().get(0);
+        }
+    }
+
+    /**
+     * The seed of a unit's streams in {@link #excessCounts}: a 64-bit FNV-1a hash (Fowler, Noll &amp;
+     * Vo; common practice) of the seed's eight bytes and the unit id's UTF-16 code units, finished by
+     * the 64-bit mixer of MurmurHash3 (common practice), so that a unit's draws depend on its id and
+     * the seed only. {@code ExcessCounts.withDraws(draws, unitSeed(seed, id))} on that unit alone
+     * gives the same numbers on one machine.
+     */
+    public static long unitSeed(long seed, String id) {
+        Objects.requireNonNull(id, "id");
+        long h = 0xcbf29ce484222325L;
+        for (int b = 0; b < 8; b++) {
+            h ^= (seed >>> (8 * b)) & 0xff;
+            h *= 0x100000001b3L;
+        }
+        for (int i = 0; i < id.length(); i++) {
+            h ^= id.charAt(i);
+            h *= 0x100000001b3L;
+        }
+        h ^= h >>> 33;
+        h *= 0xff51afd7ed558ccdL;
+        h ^= h >>> 33;
+        h *= 0xc4ceb9fe1a85ec53L;
+        h ^= h >>> 33;
+        return h;
+    }
+
+    /**
+     * Excess counts of every row against its baseline ({@link ExcessCounts}, each unit's own total as
+     * the denominator): per band the observed and expected events and the excess with its interval,
+     * and the displaced events with their interval, their mean under no change and a p-value.
+     * A row's numbers depend on its id, counts and baseline only (its own seed, {@link #unitSeed}).
+     *
+     * <p>Columns added: {@code band_observed}, {@code band_expected}, {@code band_excess},
+     * {@code band_excess_lower}, {@code band_excess_upper} (array&lt;double&gt;, one entry per band),
+     * {@code displaced}, {@code displaced_lower}, {@code displaced_upper}, {@code displaced_noise},
+     * {@code displaced_p}.
+     *
+     * @param data     rows, one per unit (and period)
+     * @param spec     bins, bands and bootstrap settings
+     * @param unit     name of the unit id column (any type; its string form is the id)
+     * @param counts   name of the counts column (array of numbers, one whole count per bin)
+     * @param baseline name of the baseline coordinates column (array&lt;double&gt;)
+     * @throws IllegalArgumentException for missing columns or bad settings, or with Densa's message
+     *                                  naming the unit for a bad row
+     */
+    public static Dataset<Row> excessCounts(Dataset<Row> data, Excess spec, String unit, String counts,
+            String baseline) {
+        Objects.requireNonNull(data, "data");
+        Objects.requireNonNull(spec, "spec");
+        List<String> cols = Arrays.asList(data.columns());
+        int ui = index(cols, unit);
+        int ci = index(cols, counts);
+        int bi = index(cols, baseline);
+        // the settings on the driver first: a unit without events against the reference density
+        spec.unit("check", new long[spec.binEdges.length - 1], new double[spec.space.dimension()], spec.error());
+        StructType out = data.schema();
+        for (String name : new String[] {"band_observed", "band_expected", "band_excess", "band_excess_lower",
+            "band_excess_upper"}) {
+            out = out.add(name, DataTypes.createArrayType(DataTypes.DoubleType, false), false);
+        }
+        for (String name : new String[] {"displaced", "displaced_lower", "displaced_upper", "displaced_noise",
+            "displaced_p"}) {
+            out = out.add(name, DataTypes.DoubleType, false);
+        }
+        Broadcast<Excess> b = data.sparkSession().sparkContext().broadcast(spec,
+                scala.reflect.ClassTag$.MODULE$.apply(Excess.class));
+        Dataset<Row> result = data.mapPartitions((MapPartitionsFunction<Row, Row>) it -> {
+            Excess e = b.value();
+            ExcessCounts.BaselineError error = e.error();
+            return SparkDensities.map(it, r -> excessRow(r, e, error, ui, ci, bi));
+        }, Encoders.row(out)).persist(StorageLevel.MEMORY_AND_DISK());
+        try {
+            SparkErrors.run(result::count);
+        } catch (RuntimeException ex) {
+            result.unpersist();
+            throw ex;
+        }
+        return result;
+    }
+
+    private static Row excessRow(Row r, Excess spec, ExcessCounts.BaselineError error, int ui, int ci, int bi) {
+        if (r.isNullAt(ui)) {
+            throw new IllegalArgumentException("a row has a null unit id; every row needs one");
+        }
+        String id = String.valueOf(r.get(ui));
+        double[] c;
+        double[] coords;
+        try {
+            c = SparkRows.doubles(r, ci);
+            coords = SparkRows.doubles(r, bi);
+        } catch (IllegalArgumentException e) {
+            throw new IllegalArgumentException("unit '" + id + "': " + e.getMessage(), e);
+        }
+        long[] n = new long[c.length];
+        for (int j = 0; j < c.length; j++) {
+            if (!(c[j] >= 0) || c[j] != Math.rint(c[j]) || c[j] > Long.MAX_VALUE / 2) {
+                throw new IllegalArgumentException("unit '" + id + "', bin " + j + ": count " + c[j]
+                        + " is not a whole number >= 0");
+            }
+            n[j] = (long) c[j];
+        }
+        if (coords.length != spec.space.dimension()) {
+            throw new IllegalArgumentException("unit '" + id + "': baseline coordinates have " + coords.length
+                    + " entries; the space has dimension " + spec.space.dimension());
+        }
+        ExcessCounts.UnitExcess u;
+        try {
+            u = spec.unit(id, n, coords, error);
+        } catch (IllegalArgumentException e) {
+            throw new IllegalArgumentException("unit '" + id + "': " + e.getMessage(), e);
+        }
+        int nb = u.bands().size();
+        double[][] band = new double[5][nb];
+        for (int t = 0; t < nb; t++) {
+            ExcessCounts.BandExcess x = u.bands().get(t);
+            band[0][t] = x.observed();
+            band[1][t] = x.expected();
+            band[2][t] = x.excess();
+            band[3][t] = x.lower();
+            band[4][t] = x.upper();
+        }
+        Object[] v = new Object[r.length() + 10];
+        for (int j = 0; j < r.length(); j++) {
+            v[j] = r.get(j);
+        }
+        for (int q = 0; q < 5; q++) {
+            v[r.length() + q] = band[q];
+        }
+        ExcessCounts.Displaced d = u.displaced();
+        v[r.length() + 5] = d.value();
+        v[r.length() + 6] = d.lower();
+        v[r.length() + 7] = d.upper();
+        v[r.length() + 8] = d.noiseMean();
+        v[r.length() + 9] = d.pValue();
+        return RowFactory.create(v);
     }
 
     private static int index(List<String> cols, String name) {
