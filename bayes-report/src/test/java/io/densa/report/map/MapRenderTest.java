@@ -40,6 +40,20 @@ class MapRenderTest {
         }
     }
 
+    /** A wider panel makes a wider figure with the same content scaled; widths outside [200, 3000] are refused. */
+    @Test
+    void panelWidthSetsTheFigureWidth() {
+        ColourScale p = ColourScale.probability("P(X > t)");
+        MapFigure base = Maps.grid(F.frame(), F.grid(45, 30, (x, y) -> 0.1 + 0.004 * x), p, "grid");
+        int normal = base.draw().image().getWidth();
+        int wide = base.withPanelWidth(1200).draw().image().getWidth();
+        int narrow = base.withPanelWidth(400).draw().image().getWidth();
+        assertTrue(narrow < normal && normal < wide, narrow + " < " + normal + " < " + wide);
+        // the panel is most of the figure: its width follows the setting (the legend column is fixed)
+        assertEquals(800, wide - narrow, 40.0);
+        org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class, () -> base.withPanelWidth(199));
+    }
+
     @Test
     void probabilityScaleIsFixedWhateverTheData() {
         ColourScale p = ColourScale.probability("P(X > t)");
