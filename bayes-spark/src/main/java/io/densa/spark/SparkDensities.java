@@ -28,7 +28,6 @@ import org.apache.spark.sql.SparkSession;
 import org.apache.spark.sql.types.DataTypes;
 import org.apache.spark.sql.types.StructField;
 import org.apache.spark.sql.types.StructType;
-import org.apache.spark.storage.StorageLevel;
 
 /**
  * Density estimation in a Spark job: raw events (unit, value[, weight][, period]) or counts (unit, bin,
@@ -273,14 +272,7 @@ public final class SparkDensities implements Serializable {
         if (period == null) {
             out = out.drop("period");
         }
-        Dataset<Row> result = out.persist(StorageLevel.MEMORY_AND_DISK());
-        try {
-            SparkErrors.run(result::count);
-        } catch (RuntimeException e) {
-            result.unpersist();
-            throw e;
-        }
-        return result;
+        return SparkErrors.materialise(out);
     }
 
     /** The output schema (with the period column). */

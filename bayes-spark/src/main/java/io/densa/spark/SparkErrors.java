@@ -43,6 +43,21 @@ public final class SparkErrors {
         }
     }
 
+    /**
+     * Persists the dataset (memory and disk) and runs its job now, so that bad input fails here
+     * with Densa's message ({@link #run}); on failure the dataset is unpersisted again.
+     */
+    static <T> org.apache.spark.sql.Dataset<T> materialise(org.apache.spark.sql.Dataset<T> data) {
+        org.apache.spark.sql.Dataset<T> kept = data.persist(org.apache.spark.storage.StorageLevel.MEMORY_AND_DISK());
+        try {
+            run(kept::count);
+        } catch (RuntimeException e) {
+            kept.unpersist();
+            throw e;
+        }
+        return kept;
+    }
+
     @SuppressWarnings("unchecked")
     private static <E extends Throwable> E sneaky(Throwable t) throws E {
         throw (E) t;

@@ -104,16 +104,8 @@ public final class SparkScoring {
                     .add("flagged", DataTypes.BooleanType, false)
                     .add("excursions", DataTypes.createArrayType(excursion, false), false);
             int pcol = first.fieldIndex("p_value");
-            Dataset<Row> out = pass1.mapPartitions((MapPartitionsFunction<Row, Row>) it -> SparkDensities.map(it,
-                    r -> flag(r, b.value(), t.value(), pcol, ri, pi, zi)), Encoders.row(second))
-                    .persist(StorageLevel.MEMORY_AND_DISK());
-            try {
-                SparkErrors.run(out::count);
-            } catch (RuntimeException e) {
-                out.unpersist();
-                throw e;
-            }
-            return out;
+            return SparkErrors.materialise(pass1.mapPartitions((MapPartitionsFunction<Row, Row>) it ->
+                    SparkDensities.map(it, r -> flag(r, b.value(), t.value(), pcol, ri, pi, zi)), Encoders.row(second)));
         } finally {
             pass1.unpersist();
         }
@@ -260,14 +252,8 @@ public final class SparkScoring {
             Excess e = b.value();
             ExcessCounts.BaselineError error = e.error();
             return SparkDensities.map(it, r -> excessRow(r, e, error, ui, ci, bi));
-        }, Encoders.row(out)).persist(StorageLevel.MEMORY_AND_DISK());
-        try {
-            SparkErrors.run(result::count);
-        } catch (RuntimeException ex) {
-            result.unpersist();
-            throw ex;
-        }
-        return result;
+        }, Encoders.row(out));
+        return SparkErrors.materialise(result);
     }
 
     private static Row excessRow(Row r, Excess spec, ExcessCounts.BaselineError error, int ui, int ci, int bi) {
