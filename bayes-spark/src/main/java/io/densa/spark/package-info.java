@@ -12,7 +12,9 @@
  * column;</li>
  * <li>{@link io.densa.spark.SparkScoring}: residual norms, conformal p-values, Benjamini–Hochberg
  * adjusted p-values over the whole dataset, flags and excursions against a broadcast
- * {@link io.densa.spark.BaselineSpec};</li>
+ * {@link io.densa.spark.BaselineSpec}; and excess counts per band with intervals and the displaced
+ * events' p-value of each unit against its baseline ({@link io.densa.spark.SparkScoring.Excess},
+ * each unit on its own seed);</li>
  * <li>{@link io.densa.spark.SparkVariogram}: the trace-variogram by pair blocks on tasks
  * ({@link io.densa.spatial.variogram.VariogramPairBlocks});</li>
  * <li>{@link io.densa.spark.SparkKriging}: grid kriging by tiles on tasks
@@ -26,7 +28,8 @@
  * specs of primitive arrays ({@link io.densa.spark.SpaceSpec}, {@link io.densa.spark.EstimatorSpec},
  * {@link io.densa.spark.FpcaSpec}, {@link io.densa.spark.BaselineSpec},
  * {@link io.densa.spark.LocationData}, {@link io.densa.spark.VariogramSpec},
- * {@link io.densa.spark.KrigingSpec}, {@link io.densa.spark.GridSpec}, {@link io.densa.spark.IntervalSpec}); each rebuilds its Densa
+ * {@link io.densa.spark.KrigingSpec}, {@link io.densa.spark.GridSpec}, {@link io.densa.spark.IntervalSpec},
+ * {@link io.densa.spark.SparkScoring.Excess}); each rebuilds its Densa
  * objects once per executor JVM (a transient lazy field) through the public factories. The rebuild
  * is deterministic, so executors compute exactly what the driver would: per-unit estimation,
  * scores, scoring, variogram and per-cell kriging results are bit-identical to the single-machine
