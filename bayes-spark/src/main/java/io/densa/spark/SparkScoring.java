@@ -144,8 +144,8 @@ public final class SparkScoring {
          * taken as exact.
          */
         public static Excess of(SpaceSpec space, double[] binEdges, double[] bandEdges) {
-            return new Excess(Objects.requireNonNull(space, "space"), binEdges.clone(), bandEdges.clone(), 0.9, 999, 1,
-                    null);
+            return new Excess(Objects.requireNonNull(space, "space"), Objects.requireNonNull(binEdges, "binEdges").clone(),
+                    Objects.requireNonNull(bandEdges, "bandEdges").clone(), 0.9, 999, 1, null);
         }
 
         /** The interval level in (0, 1). */
@@ -162,7 +162,7 @@ public final class SparkScoring {
 
         /** A covariance of the baseline's error, the same for every unit (K × K, copied; checked as ExcessCounts does). */
         public Excess withBaselineCovariance(double[][] cov) {
-            ExcessCounts.BaselineError.common(cov); // validates
+            ExcessCounts.BaselineError.common(Objects.requireNonNull(cov, "cov")); // validates
             double[][] c = new double[cov.length][];
             for (int i = 0; i < c.length; i++) {
                 c[i] = cov[i].clone();
