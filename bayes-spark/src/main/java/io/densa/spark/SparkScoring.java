@@ -236,7 +236,8 @@ public final class SparkScoring {
         int ci = index(cols, counts);
         int bi = index(cols, baseline);
         // the settings on the driver first: a unit without events against the reference density
-        spec.unit("check", new long[spec.binEdges.length - 1], new double[spec.space.dimension()], spec.error());
+        spec.unit("check", new long[Math.max(0, spec.binEdges.length - 1)], new double[spec.space.dimension()],
+                spec.error());
         StructType out = data.schema();
         for (String name : new String[] {"band_observed", "band_expected", "band_excess", "band_excess_lower",
             "band_excess_upper"}) {

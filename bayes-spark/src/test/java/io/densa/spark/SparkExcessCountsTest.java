@@ -131,5 +131,9 @@ class SparkExcessCountsTest {
         assertTrue(bands.getMessage().contains("bandEdges[1] = 3.5 is not one of the bin edges"), bands.getMessage());
         assertThrows(IllegalArgumentException.class, () -> SparkScoring.excessCounts(
                 SparkTestSession.get().createDataFrame(rows(2, 5), SCHEMA), spec, "unit", "counts", "baseline"));
+        IllegalArgumentException edges = assertThrows(IllegalArgumentException.class, () -> SparkScoring.excessCounts(
+                SparkTestSession.get().createDataFrame(rows(2, 5), SCHEMA), SparkScoring.Excess.of(SpaceSpec.of(SPACE),
+                        new double[] {0}, BANDS), "district", "counts", "baseline"));
+        assertTrue(edges.getMessage().contains("binEdges needs at least 2 edges"), edges.getMessage());
     }
 }
