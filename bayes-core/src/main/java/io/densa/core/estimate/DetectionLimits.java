@@ -153,19 +153,29 @@ public record DetectionLimits(double[] lower, double[] upper) {
         return suggested(edges, c);
     }
 
+    /** Above this many events in the two bins the spike test uses the normal approximation. */
+    static final double EXACT_LIMIT = 1e5;
+
     /**
      * Whether an edge bin with {@code edge} events holds significantly more than its inner neighbour
      * with {@code inner}: P(X ≥ edge) ≤ {@link #SPIKE_LEVEL} for X ~ Binomial(edge + inner, ½), by
      * the regularised incomplete beta function, P(X ≥ k) = I_½(k, m − k + 1) (counts rounded to
-     * whole events).
+     * whole events); above {@link #EXACT_LIMIT} events by the normal approximation with continuity
+     * correction, P ≈ ½ erfc(z / √2), z = (k − inner − 1) / √(k + inner) (where the continued
+     * fraction of the beta function fails to converge, e.g. at 10³⁰⁰ events, and the approximation's
+     * error is far below the level).
      */
     static boolean spike(double edge, double inner) {
         double k = Math.rint(edge);
-        double m = k + Math.rint(inner);
-        if (k < 1) {
+        double in = Math.rint(inner);
+        if (!(k >= 1)) {
             return false;
         }
-        return org.apache.commons.math3.special.Beta.regularizedBeta(0.5, k, m - k + 1) <= SPIKE_LEVEL;
+        if (k + in <= EXACT_LIMIT) {
+            return org.apache.commons.math3.special.Beta.regularizedBeta(0.5, k, in + 1) <= SPIKE_LEVEL;
+        }
+        double z = (k - in - 1) / (Math.sqrt(k) * Math.sqrt(1 + in / k)); // √(k + in) without overflow
+        return 0.5 * org.apache.commons.math3.special.Erf.erfc(z / Math.sqrt(2)) <= SPIKE_LEVEL;
     }
 
     /** Number of units. */

@@ -40,6 +40,30 @@ class SuggestedLimitsTest {
         assertTrue(!DetectionLimits.spike(9, 0));
     }
 
+    /**
+     * Above {@link DetectionLimits#EXACT_LIMIT} events the test's normal approximation decides as the
+     * exact binomial tail (Commons Math) a few events away from the level's quantile, and extreme
+     * counts give an answer, not an exception from the beta function's continued fraction.
+     */
+    @Test
+    void largeCountsUseTheNormalApproximationAndExtremesStayQuiet() {
+        int m = 200_000;
+        BinomialDistribution b = new BinomialDistribution(null, m, 0.5);
+        int q = b.inverseCumulativeProbability(1 - DetectionLimits.SPIKE_LEVEL); // P(X <= q) >= 1 - level
+        for (int k : new int[] {q - 40, q - 10, q + 10, q + 40}) {
+            boolean exact = 1 - b.cumulativeProbability(k - 1) <= DetectionLimits.SPIKE_LEVEL;
+            assertEquals(exact, DetectionLimits.spike(k, m - k), "k " + k + " of " + m + " (quantile " + q + ")");
+        }
+        assertTrue(DetectionLimits.spike(1e300, 0));
+        assertTrue(!DetectionLimits.spike(1e300, 1e300));
+        assertTrue(!DetectionLimits.spike(Double.MAX_VALUE, Double.MAX_VALUE));
+        assertTrue(!DetectionLimits.spike(4.9e-324, 0));
+        DetectionLimits d = DetectionLimits.suggested(new double[] {0, 1, 2, 3, 4, 5},
+                new double[][] {{0, 0, 1e300, 1e300, 1}, {0, 0, 1e18, 0, 1}});
+        assertTrue(!d.censored(0));
+        assertEquals(2.0, d.lower()[1], 0.0);
+    }
+
     /** Counts of n normal(mu, sd) values on [0, 5]; values below limit (when finite) recorded at it. */
     static double[] unit(double mu, double sd, int n, double limit, SplittableRandom rng) {
         double[] c = new double[BINS];
