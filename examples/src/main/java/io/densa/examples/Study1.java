@@ -1016,7 +1016,8 @@ final class Study1 {
                 .number("displaced_lo90", "visits displaced, 90 % interval from", bandValues[3 * nb + 1], 1)
                 .number("displaced_hi90", "visits displaced, 90 % interval to", bandValues[3 * nb + 2], 1)
                 .number("displaced_noise", "visits displaced without change (mean)", bandValues[3 * nb + 3], 1)
-                .probability("displaced_p", "p, visits displaced against no change", bandValues[3 * nb + 4]);
+                .probability("displaced_p", "p, visits displaced against no change", bandValues[3 * nb + 4])
+                .probability("displaced_q", "BH-adjusted p, visits displaced", ex.result().displacedAdjustedPValues());
         run.report.csv("districts.csv", run.table);
         run.report.geoJson("districts.geojson", shapes(run.region).stream().map(run.region.projection()::toLonLat)
                 .toList(), run.table.unitValues("code"));

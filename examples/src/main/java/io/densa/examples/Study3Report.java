@@ -270,6 +270,7 @@ final class Study3Report {
                 .number("displaced_lo90", "displaced 5 %", dispLo, 0).number("displaced_hi90", "displaced 95 %", dispHi, 0)
                 .number("displaced_noise", "displaced without change (mean: counting noise and baseline error)", dispNoise, 0)
                 .probability("displaced_p", "p, displaced against no change (counting noise and baseline error)", dispP)
+                .probability("displaced_q", "BH-adjusted p, displaced", excess.displacedAdjustedPValues())
                 .probability("adjusted_p_last_week", "BH-adjusted p, last week", pLast)
                 .number("yearly_events_expected", "expected events per year", sc.yearly(), 0)
                 .number("peak_day_truth", "peak day of the season (truth; before any shift)", sc.peaks(), 1);

@@ -298,6 +298,19 @@ public final class ExcessCounts {
                         return c != 0 ? c : Integer.compare(a, b);
                     }).mapToInt(Integer::intValue).toArray();
         }
+
+        /**
+         * The displaced events' p-values adjusted for testing every unit
+         * ({@link io.densa.core.BenjaminiHochberg#adjust}, Benjamini &amp; Hochberg 1995): a unit
+         * whose value is at most q is a discovery at false discovery rate q. In input order.
+         */
+        public double[] displacedAdjustedPValues() {
+            double[] p = new double[units.size()];
+            for (int i = 0; i < p.length; i++) {
+                p[i] = units.get(i).displaced().pValue();
+            }
+            return io.densa.core.BenjaminiHochberg.adjust(p);
+        }
     }
 
     /**

@@ -359,6 +359,20 @@ class ExcessCountsTest {
                 + " %.3f (noise alone %.3f)%n", small / (double) n, smallNoiseOnly / (double) n);
         assertEquals(0.1, small / (double) n, 0.05, "share of p <= 0.1 against noise and baseline error");
         assertTrue(smallNoiseOnly / (double) n >= 0.2, "counting noise alone: " + smallNoiseOnly / (double) n);
+        // adjusted for testing 400 units without change: hardly any discovery at FDR 0.1 with the error law
+        // (Benjamini & Hochberg 1995: the expected share of false discoveries is at most q), many without it
+        double[] q = withError.displacedAdjustedPValues();
+        double[] p = new double[n];
+        for (int i = 0; i < n; i++) {
+            p[i] = withError.units().get(i).displaced().pValue();
+        }
+        org.junit.jupiter.api.Assertions.assertArrayEquals(io.densa.core.BenjaminiHochberg.adjust(p), q, 0.0);
+        long found = java.util.Arrays.stream(q).filter(v -> v <= 0.1).count();
+        long foundNoiseOnly = java.util.Arrays.stream(noiseOnly.displacedAdjustedPValues()).filter(v -> v <= 0.1).count();
+        System.out.println("displaced events, FDR 0.1 discoveries among 400 units without change: " + found
+                + " (against counting noise alone " + foundNoiseOnly + ")");
+        assertTrue(found <= 4, found + " discoveries with the law");
+        assertTrue(foundNoiseOnly >= 20, foundNoiseOnly + " discoveries against counting noise alone");
     }
 
     @Test
