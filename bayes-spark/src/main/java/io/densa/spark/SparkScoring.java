@@ -217,7 +217,9 @@ public final class SparkScoring {
      * <p>Columns added: {@code band_observed}, {@code band_expected}, {@code band_excess},
      * {@code band_excess_lower}, {@code band_excess_upper} (array&lt;double&gt;, one entry per band),
      * {@code displaced}, {@code displaced_lower}, {@code displaced_upper}, {@code displaced_noise},
-     * {@code displaced_p}.
+     * {@code displaced_p} and {@code displaced_q}, the p-value adjusted over all rows (Benjamini–Hochberg,
+     * distributed as for scoring above; equal to {@link ExcessCounts.Result#displacedAdjustedPValues} of
+     * all rows on one machine).
      *
      * @param data     rows, one per unit (and period)
      * @param spec     bins, bands and bootstrap settings
@@ -249,12 +251,37 @@ public final class SparkScoring {
         }
         Broadcast<Excess> b = data.sparkSession().sparkContext().broadcast(spec,
                 scala.reflect.ClassTag$.MODULE$.apply(Excess.class));
-        Dataset<Row> result = data.mapPartitions((MapPartitionsFunction<Row, Row>) it -> {
+        Dataset<Row> pass1 = SparkErrors.materialise(data.mapPartitions((MapPartitionsFunction<Row, Row>) it -> {
             Excess e = b.value();
             ExcessCounts.BaselineError error = e.error();
             return SparkDensities.map(it, r -> excessRow(r, e, error, ui, ci, bi));
-        }, Encoders.row(out));
-        return SparkErrors.materialise(result);
+        }, Encoders.row(out)));
+        try {
+            // Monte Carlo p-values take at most draws + 1 values: the Benjamini–Hochberg table as for scoring
+            double[][] table = adjustment(SparkErrors.run(() -> pass1.groupBy("displaced_p").count().collectAsList()));
+            Broadcast<double[][]> t = data.sparkSession().sparkContext().broadcast(table,
+                    scala.reflect.ClassTag$.MODULE$.apply(double[][].class));
+            int pcol = out.fieldIndex("displaced_p");
+            StructType second = out.add("displaced_q", DataTypes.DoubleType, false);
+            return SparkErrors.materialise(pass1.mapPartitions((MapPartitionsFunction<Row, Row>) it ->
+                    SparkDensities.map(it, r -> withAdjusted(r, t.value(), pcol)), Encoders.row(second)));
+        } finally {
+            pass1.unpersist();
+        }
+    }
+
+    /** The row with the adjusted value of its p-value (column pcol) from the table appended. */
+    private static Row withAdjusted(Row r, double[][] table, int pcol) {
+        int at = Arrays.binarySearch(table[0], r.getDouble(pcol));
+        if (at < 0) {
+            throw new IllegalStateException("p-value " + r.getDouble(pcol) + " is missing from the adjustment table");
+        }
+        Object[] v = new Object[r.length() + 1];
+        for (int j = 0; j < r.length(); j++) {
+            v[j] = r.get(j);
+        }
+        v[r.length()] = table[1][at];
+        return RowFactory.create(v);
     }
 
     private static Row excessRow(Row r, Excess spec, ExcessCounts.BaselineError error, int ui, int ci, int bi) {

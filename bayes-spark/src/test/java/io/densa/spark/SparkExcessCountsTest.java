@@ -112,6 +112,15 @@ class SparkExcessCountsTest {
             }
             // the moved units (every fifth) stand out against their baselines
             assertTrue(small >= 6, small + " of 8 moved units with p <= 0.05");
+            // the adjusted p-values over all rows are those of Benjamini–Hochberg on one machine
+            double[] p = new double[40];
+            for (int r = 0; r < 40; r++) {
+                p[r] = four.get(r).getDouble(12);
+            }
+            double[] q = io.densa.core.BenjaminiHochberg.adjust(p);
+            for (int r = 0; r < 40; r++) {
+                assertEquals(q[r], four.get(r).getDouble(13), 0.0, four.get(r).getString(0));
+            }
         }
         assertNotEquals(SparkScoring.unitSeed(11, "d1"), SparkScoring.unitSeed(11, "d2"));
         assertNotEquals(SparkScoring.unitSeed(11, "d1"), SparkScoring.unitSeed(12, "d1"));
