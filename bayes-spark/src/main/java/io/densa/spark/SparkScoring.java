@@ -44,9 +44,9 @@ import org.apache.spark.storage.StorageLevel;
  *
  * <h2>Excess counts</h2>
  * {@link #excessCounts} adds {@link ExcessCounts} to every row (a unit's counts against its baseline
- * coordinates: excess per band and displaced events with intervals and a p-value), each unit on
- * streams of its own seed ({@link #unitSeed}), so the numbers do not depend on the partitioning and
- * equal those of the unit alone on one machine.
+ * coordinates: excess per band and displaced events with intervals and a p-value, adjusted over all
+ * rows as above), each unit on streams of its own seed ({@link #unitSeed}), so the numbers do not
+ * depend on the partitioning and equal those of the unit alone on one machine.
  */
 public final class SparkScoring {
     static final int BATCH = 1024;
