@@ -39,7 +39,7 @@ public record PeriodReport(int period, DensitySet expected, DensitySet residuals
      * few calibration periods the covariance is rough (it is estimated from units × C residuals).
      */
     public double[][] residualCovariance(int i) {
-        double s = residualScales[i];
+        double s = residualScales[unit(i)];
         int k = residualShape.length;
         double[][] out = new double[k][k];
         for (int a = 0; a < k; a++) {
@@ -52,7 +52,7 @@ public record PeriodReport(int period, DensitySet expected, DensitySet residuals
 
     /** Whether unit i is flagged. */
     public boolean flagged(int i) {
-        return scores.units().get(i).flagged();
+        return scores.units().get(unit(i)).flagged();
     }
 
     /**
@@ -70,7 +70,17 @@ public record PeriodReport(int period, DensitySet expected, DensitySet residuals
      * without counts.
      */
     public double displacedEvents(int i) {
-        return excess == null ? Double.NaN : excess.units().get(i).displaced().value();
+        return excess == null ? Double.NaN : excess.units().get(unit(i)).displaced().value();
+    }
+
+    /** The unit index, checked against the report's units. */
+    private int unit(int i) {
+        int n = residualScales.length;
+        if (i < 0 || i >= n) {
+            throw new IllegalArgumentException("unit index " + i + " is out of range: accepted are 0.." + (n - 1) + " ("
+                    + n + " units)");
+        }
+        return i;
     }
 
     @Override

@@ -164,6 +164,12 @@ class MonitorExcessTest {
                 .withExcessBands(0, 0.5, 0.9).fit(all.subList(0, 11));
         e = assertThrows(IllegalArgumentException.class, () -> ending.score(all.get(11)));
         assertTrue(e.getMessage().contains("must be the layout's last bin edge 1.0"), e.getMessage());
+        PeriodReport rep = RollingBaseline.withDefaults().withCalibrationPeriods(2).withDraws(99, 1).fit(all.subList(0, 11))
+                .score(all.get(11));
+        e = assertThrows(IllegalArgumentException.class, () -> rep.displacedEvents(UNITS));
+        assertTrue(e.getMessage().equals("unit index 48 is out of range: accepted are 0..47 (48 units)"), e.getMessage());
+        assertThrows(IllegalArgumentException.class, () -> rep.residualCovariance(-1));
+        assertThrows(IllegalArgumentException.class, () -> rep.flagged(UNITS));
         assertThrows(IllegalArgumentException.class, () -> RollingBaseline.withDefaults().withExcessBands(0.5));
         assertThrows(IllegalArgumentException.class, () -> RollingBaseline.withDefaults().withExcessBands(0, 0.5, 0.5));
     }
