@@ -633,8 +633,9 @@ final class Study1 {
                 + "Counting noise alone makes displaced visits positive, so each district also gets what a season "
                 + "without change would displace against the same baseline — band counts drawn multinomially with "
                 + "the district's total from a baseline redrawn from that normal law, a Monte Carlo mean — and a Monte "
-                + "Carlo p-value against it (`displaced_noise`, `displaced_p` in `districts.csv`): read a district's "
-                + "interval against that, not against zero.");
+                + "Carlo p-value against it (`displaced_noise`, `displaced_p` in `districts.csv`; `displaced_q` adjusts "
+                + "it for testing every district, Benjamini–Hochberg): read a district's interval against that, not "
+                + "against zero.");
         run.report.paragraph(String.format(Locale.ROOT, "Across all %d districts %,.0f visits are displaced between "
                 + "bands in the latest season; at ages 0–24 the districts have %,d visits against %,.0f expected.",
                 n, displacedAll, Arrays.stream(youngObs).sum(), Arrays.stream(youngExp).sum()));
