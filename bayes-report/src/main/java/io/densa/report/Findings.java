@@ -3,6 +3,7 @@ package io.densa.report;
 import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.estimate.DetectionLimits;
 import io.densa.core.estimate.EstimationDiagnostics;
+import io.densa.regression.surveillance.ExcessCounts;
 import io.densa.spatial.autocorrelation.AutocorrelationPermutation;
 import io.densa.spatial.autocorrelation.MoranI;
 import io.densa.spatial.scan.SpatialScan;
@@ -193,6 +194,45 @@ public final class Findings {
     /** {@link #extrapolated(List, int, int)} for a batch. */
     public static String extrapolated(BatchEstimate estimate, int listed) {
         return extrapolated(estimate.extrapolatedIds(), estimate.size(), listed);
+    }
+
+    /**
+     * Which units displace more events between the bands than a period without change would, at a
+     * false discovery rate q ({@link ExcessCounts.Result#displacedAdjustedPValues}, Benjamini–Hochberg
+     * over all units), largest displacement first, naming at most {@code listed}; or that none does.
+     *
+     * @param result    excess counts of the units
+     * @param unitNames display names in the result's unit order
+     * @param units     what the units are, plural, e.g. "districts"
+     * @param events    what is counted, plural, e.g. "visits"
+     * @param q         the false discovery rate, in (0, 1)
+     */
+    public static String displaced(ExcessCounts.Result result, String[] unitNames, String units, String events,
+            double q, int listed) {
+        Objects.requireNonNull(result, "result");
+        Objects.requireNonNull(unitNames, "unitNames");
+        Objects.requireNonNull(units, "units");
+        Objects.requireNonNull(events, "events");
+        checkLevel(q);
+        int n = result.units().size();
+        if (unitNames.length != n) {
+            throw new IllegalArgumentException(unitNames.length + " unit names for " + n + " units");
+        }
+        double[] adjusted = result.displacedAdjustedPValues();
+        List<String> found = new ArrayList<>();
+        for (int i : result.rankByDisplaced()) {
+            if (adjusted[i] <= q) {
+                found.add(unitNames[i] + " (" + Numbers.fixed(result.units().get(i).displaced().value(), 0) + ")");
+            }
+        }
+        String level = Numbers.significant(q, 3);
+        if (found.isEmpty()) {
+            return "At a false discovery rate of " + level + ", none of the " + n + " " + units + " displaces more " + events
+                    + " between the bands than a period without change would (counting noise and the baseline's error).";
+        }
+        return "At a false discovery rate of " + level + ", " + found.size() + " of " + n + " " + units + " displace more "
+                + events + " between the bands than a period without change would (counting noise and the baseline's"
+                + " error): " + list(found, listed) + ".";
     }
 
     /**

@@ -120,4 +120,44 @@ class FindingsTest {
                 new double[][] {counts[0]}), List.of("a"), 5);
         assertTrue(none.startsWith("No unit's counts look clipped"), none);
     }
+
+    @Test
+    void displacedUnitsAreNamedAtTheFalseDiscoveryRate() {
+        io.densa.core.BayesSpace space = io.densa.core.BayesSpace.polynomials(0, 10, 2);
+        double[] base = space.projectLogPdf(x -> -(x - 5) * (x - 5) / 8).density().coordinates();
+        double[] edges = {0, 2, 4, 6, 8, 10};
+        // band shares of the baseline, by the space's own cdf; quiet units follow them, units 3 and 7 do not
+        io.densa.core.Density f = space.density(base);
+        double[] pi = new double[5];
+        for (int t = 0; t < 5; t++) {
+            pi[t] = f.cdf(edges[t + 1]) - f.cdf(edges[t]);
+        }
+        int n = 20;
+        double[][] c = new double[n][];
+        long[][] counts = new long[n][5];
+        String[] names = new String[n];
+        for (int i = 0; i < n; i++) {
+            c[i] = base;
+            names[i] = "U" + i;
+            for (int t = 0; t < 5; t++) {
+                counts[i][t] = Math.round(1000 * pi[t]);
+            }
+            if (i == 3 || i == 7) {
+                counts[i][0] += 300;
+                counts[i][4] += 200;
+            }
+        }
+        io.densa.regression.surveillance.ExcessCounts.Result r = io.densa.regression.surveillance.ExcessCounts
+                .withDefaults().withDraws(199, 2).estimate(io.densa.core.DensitySet.of(space, c), counts, edges, edges,
+                        io.densa.regression.surveillance.ExcessCounts.BaselineError.none());
+        String text = Findings.displaced(r, names, "districts", "visits", 0.1, 5);
+        assertTrue(text.startsWith("At a false discovery rate of 0.1, 2 of 20 districts displace more visits"), text);
+        assertTrue(text.contains("U3 (") && text.contains("U7 ("), text);
+        io.densa.regression.surveillance.ExcessCounts.Result quiet = io.densa.regression.surveillance.ExcessCounts
+                .withDefaults().withDraws(199, 2).estimate(io.densa.core.DensitySet.of(space, new double[][] {base}),
+                        new long[][] {counts[0]}, edges, edges,
+                        io.densa.regression.surveillance.ExcessCounts.BaselineError.none());
+        assertTrue(Findings.displaced(quiet, new String[] {"U0"}, "districts", "visits", 0.1, 5).startsWith(
+                "At a false discovery rate of 0.1, none of the 1 districts displaces more visits"));
+    }
 }
