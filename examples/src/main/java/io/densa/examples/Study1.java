@@ -639,9 +639,10 @@ final class Study1 {
         run.report.paragraph(String.format(Locale.ROOT, "Across all %d districts %,.0f visits are displaced between "
                 + "bands in the latest season; at ages 0–24 the districts have %,d visits against %,.0f expected.",
                 n, displacedAll, Arrays.stream(youngObs).sum(), Arrays.stream(youngExp).sum()));
-        String[] labels = new String[n];
+        String[] labels = codes(run.region);
+        String[] unitNames = names(run.region);
         for (int i = 0; i < n; i++) {
-            labels[i] = codes(run.region)[i] + " " + names(run.region)[i];
+            labels[i] += " " + unitNames[i];
         }
         run.report.paragraph(io.densa.report.Findings.displaced(r, labels, "districts", "visits", FDR, 12));
         return ex;

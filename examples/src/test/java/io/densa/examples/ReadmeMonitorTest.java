@@ -59,14 +59,24 @@ public class ReadmeMonitorTest {
         return out;
     }
 
+    private static List<Period> eleven;
+
+    /** The eleven invented weeks, estimated once per class loader. */
+    private static synchronized List<Period> eleven() {
+        if (eleven == null) {
+            eleven = weeks(11);
+        }
+        return eleven;
+    }
+
     /** The weeks before the scored one. */
     public static List<Period> pastWeeks() {
-        return weeks(11).subList(0, 10);
+        return eleven().subList(0, 10);
     }
 
     /** The week to score. */
     public static Period thisWeek() {
-        return weeks(11).get(10);
+        return eleven().get(10);
     }
 
     static String monitorBlock(String markdown) {

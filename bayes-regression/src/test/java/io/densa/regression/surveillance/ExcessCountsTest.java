@@ -77,6 +77,15 @@ class ExcessCountsTest {
         return sigma;
     }
 
+    /** Units whose displaced events' p-value is at most level. */
+    private static int below(ExcessCounts.Result r, double level) {
+        int c = 0;
+        for (ExcessCounts.UnitExcess u : r.units()) {
+            c += u.displaced().pValue() <= level ? 1 : 0;
+        }
+        return c;
+    }
+
     /** Counts of {@code total} events drawn one by one into the three bands with probabilities pi. */
     private static long[] multinomial(double[] pi, long total, SplittableRandom rng) {
         double[] band = new double[3];
@@ -297,12 +306,10 @@ class ExcessCountsTest {
                 ExcessCounts.BaselineError.common(sigma));
         ExcessCounts.Result noiseOnly = ex.estimate(DensitySet.of(SPACE, c), cnt, BIN_EDGES, BANDS,
                 ExcessCounts.BaselineError.none());
-        int small = 0;
-        int smallNoiseOnly = 0;
+        int small = below(withError, 0.1);
+        int smallNoiseOnly = below(noiseOnly, 0.1);
         double mean = 0;
         for (int i = 0; i < n; i++) {
-            small += withError.units().get(i).displaced().pValue() <= 0.1 ? 1 : 0;
-            smallNoiseOnly += noiseOnly.units().get(i).displaced().pValue() <= 0.1 ? 1 : 0;
             mean += withError.units().get(i).displaced().value() / n;
         }
         double noise = withError.units().get(0).displaced().noiseMean();
@@ -349,12 +356,8 @@ class ExcessCountsTest {
                 ExcessCounts.BaselineError.common(sigma), totals);
         ExcessCounts.Result noiseOnly = ex.estimate(DensitySet.of(SPACE, c), cnt, BIN_EDGES, BANDS,
                 ExcessCounts.BaselineError.none(), totals);
-        int small = 0;
-        int smallNoiseOnly = 0;
-        for (int i = 0; i < n; i++) {
-            small += withError.units().get(i).displaced().pValue() <= 0.1 ? 1 : 0;
-            smallNoiseOnly += noiseOnly.units().get(i).displaced().pValue() <= 0.1 ? 1 : 0;
-        }
+        int small = below(withError, 0.1);
+        int smallNoiseOnly = below(noiseOnly, 0.1);
         System.out.printf(java.util.Locale.ROOT, "displaced events, given totals, under the baseline's error: P(p <= 0.1)"
                 + " %.3f (noise alone %.3f)%n", small / (double) n, smallNoiseOnly / (double) n);
         assertEquals(0.1, small / (double) n, 0.05, "share of p <= 0.1 against noise and baseline error");
