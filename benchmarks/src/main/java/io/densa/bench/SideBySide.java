@@ -396,7 +396,8 @@ public final class SideBySide {
         String[] ids = new String[units];
         Arrays.setAll(ids, i -> "u" + i);
         PenalizedLikelihoodEstimator e = PenalizedLikelihoodEstimator.withDefaults(BayesSpace.splines(0, 365, 4, 21))
-                .withSmoothing(5e4).withReferencePrior(0).withTolerance(1e-12);
+                .withSmoothing(5e4).withReferencePrior(0).withTolerance(1e-12)
+                .withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.COUNTED); // the peer's model: every bin as recorded
         long t0 = System.nanoTime();
         BatchEstimate b = e.fitAll(edges, counts, ids);
         double s = (System.nanoTime() - t0) * 1e-9;

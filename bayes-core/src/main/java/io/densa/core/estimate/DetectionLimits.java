@@ -1,7 +1,15 @@
 package io.densa.core.estimate;
 
+import io.densa.core.BayesSpace;
+import io.densa.core.DensitySet;
+import io.densa.core.internal.Kernels;
+import java.util.ArrayList;
 import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
 import java.util.Objects;
+import java.util.function.IntFunction;
 
 /**
  * Per-unit detection limits of binned data: a unit with a lower limit L recorded every value below
@@ -54,16 +62,14 @@ public record DetectionLimits(double[] lower, double[] upper) {
     /** Lower limits only (NaN: none for that unit). */
     public static DetectionLimits lower(double... limits) {
         Objects.requireNonNull(limits, "limits");
-        double[] none = new double[limits.length];
-        Arrays.fill(none, Double.NaN);
+        double[] none = nans(limits.length);
         return new DetectionLimits(limits, none);
     }
 
     /** Upper limits only (NaN: none for that unit). */
     public static DetectionLimits upper(double... limits) {
         Objects.requireNonNull(limits, "limits");
-        double[] none = new double[limits.length];
-        Arrays.fill(none, Double.NaN);
+        double[] none = nans(limits.length);
         return new DetectionLimits(none, limits);
     }
 
@@ -94,6 +100,93 @@ public record DetectionLimits(double[] lower, double[] upper) {
      *                                  of another length or a negative or non-finite count (naming the row)
      */
     public static DetectionLimits suggested(double[] edges, double[][] counts) {
+        return ends(edges, counts, true);
+    }
+
+    /**
+     * Shortest run of empty bins at an end of the layout that {@link #emptyEnds} reads as hiding
+     * censored values: 2, as {@link #suggested} requires (a single empty edge bin is common
+     * sampling noise at any density's tail).
+     */
+    public static final int EMPTY_END_RUN = 2;
+
+    /**
+     * Events per bin, on average over the layout, from which
+     * {@link PenalizedLikelihoodEstimator.EmptyEnds#CENSORED_IF_DENSE} reads a unit's empty end
+     * runs as censored: 10. Below it runs of empty bins are the routine sampling noise of sparse
+     * units, where reading every bin as recorded gives calibrated covariances and the censored
+     * reading over-reports them (measured, normal law over 50 bins, 400 replicates, λ fixed: reported
+     * / empirical trace 1.27 at 2 events per bin against 0.96 counted, 1.16 against 0.95 at 4, 1.13
+     * against 1.03 at 10, 1.10 against 1.08 at 40).
+     */
+    public static final double DENSE_EVENTS_PER_BIN = 10;
+
+    /**
+     * The limits under which every run of at least {@link #EMPTY_END_RUN} empty bins at an end of the
+     * layout is read as censored: for a unit whose first occupied bin j has at least two empty bins
+     * below it, the lower limit e_j (the lower edge of that bin), so the bins up to j form one cell
+     * [a, e_{j+1}) whose count says only "this many values at or below e_{j+1}"; likewise an upper
+     * limit at the lower edge of the last occupied bin when at least two empty bins lie above it.
+     * A unit with a single occupied bin gets no limit. This is what
+     * {@link PenalizedLikelihoodEstimator.EmptyEnds#CENSORED} (the estimator's default) applies
+     * where no limit is declared: counts alone cannot tell a density that falls to nothing beyond
+     * its last events from values beyond a limit recorded at the limit (see
+     * {@link PenalizedLikelihoodEstimator#withEmptyEnds}). Unlike {@link #suggested}, no spike test.
+     *
+     * @param edges  D + 1 strictly increasing bin edges (not modified)
+     * @param counts n rows of D non-negative counts (not modified)
+     * @throws IllegalArgumentException as {@link #suggested}
+     */
+    public static DetectionLimits emptyEnds(double[] edges, double[][] counts) {
+        return ends(edges, counts, false);
+    }
+
+    /** Whether bin j of unit i holds events (for {@link #emptyEndsOrNull}). */
+    @FunctionalInterface
+    interface Occupied {
+        boolean test(int i, int j);
+    }
+
+    /**
+     * {@link #emptyEnds} for the units among n with at least minTotal events whose counts the caller
+     * has validated against the checked edges e; null if no such unit has an empty end run.
+     */
+    static DetectionLimits emptyEndsOrNull(double[] e, int n, Occupied occupied, double[] totals, double minTotal) {
+        int d = e.length - 1;
+        double[] lo = null;
+        double[] hi = null;
+        for (int i = 0; i < n; i++) {
+            if (!(totals[i] >= minTotal)) {
+                continue;
+            }
+            int first = 0;
+            while (first < d && !occupied.test(i, first)) {
+                first++;
+            }
+            int last = d - 1;
+            while (last >= 0 && !occupied.test(i, last)) {
+                last--;
+            }
+            if (first < last && (first >= EMPTY_END_RUN || d - 1 - last >= EMPTY_END_RUN)) {
+                if (lo == null) {
+                    lo = nans(n);
+                    hi = nans(n);
+                }
+                lo[i] = first >= EMPTY_END_RUN ? e[first] : Double.NaN;
+                hi[i] = d - 1 - last >= EMPTY_END_RUN ? e[last] : Double.NaN;
+            }
+        }
+        return lo == null ? null : new DetectionLimits(lo, hi);
+    }
+
+    private static double[] nans(int n) {
+        double[] a = new double[n];
+        Arrays.fill(a, Double.NaN);
+        return a;
+    }
+
+    /** {@link #suggested} (spikeTest) or {@link #emptyEnds}. */
+    private static DetectionLimits ends(double[] edges, double[][] counts, boolean spikeTest) {
         Objects.requireNonNull(edges, "edges");
         Objects.requireNonNull(counts, "counts");
         int d = edges.length - 1;
@@ -128,6 +221,12 @@ public record DetectionLimits(double[] lower, double[] upper) {
             int last = d - 1;
             while (last >= 0 && !(c[last] > 0)) {
                 last--;
+            }
+            if (!spikeTest) {
+                boolean two = first < last;
+                lo[i] = two && first >= EMPTY_END_RUN ? edges[first] : Double.NaN;
+                hi[i] = two && d - 1 - last >= EMPTY_END_RUN ? edges[last] : Double.NaN;
+                continue;
             }
             lo[i] = first >= 2 && first + 1 < d && spike(c[first], c[first + 1]) ? edges[first] : Double.NaN;
             hi[i] = last >= 1 && last <= d - 3 && spike(c[last], c[last - 1]) ? edges[last] : Double.NaN;
@@ -215,5 +314,253 @@ public record DetectionLimits(double[] lower, double[] upper) {
             c += censored(i) ? 1 : 0;
         }
         return "DetectionLimits[" + lower.length + " units, " + c + " with a limit]";
+    }
+
+    /**
+     * Counts with detection limits: the censored cells of a unit are merged into one cell that
+     * reaches the end of the domain, so the multinomial likelihood uses P(X ≤ e) for the mass below
+     * the upper edge e of the bin holding the lower limit (and P(X ≥ e') above the lower edge e' of the
+     * bin holding the upper limit) — the likelihood of interval-censored data (Turnbull (1976), The
+     * empirical distribution function with arbitrarily grouped, censored and truncated data, J. R.
+     * Stat. Soc. B 38(3)). Units without a limit are fitted together on the shared edges exactly as
+     * without limits.
+     */
+    static final class CensoredCounts {
+        private CensoredCounts() {
+        }
+
+        /** Fits the plain rows (given by index) every bin as recorded, in one batch. */
+        @FunctionalInterface
+        private interface PlainFit {
+            BatchEstimate fit(double[] e, int[] rows, String[] ids);
+        }
+
+        /** Units with empty end runs read as censored where the estimator's setting says so. */
+        static BatchEstimate emptyEnds(PenalizedLikelihoodEstimator est, PenalizedFit fit, double[] edges, int[][] counts,
+                String[] ids) {
+            double[] e = EstimationSupport.checkEdges(est.space(), edges);
+            double[] totals = fit.checkCounts(e, counts, ids);
+            DetectionLimits runs = DetectionLimits.emptyEndsOrNull(e, counts.length, (i, j) -> counts[i][j] != 0, totals,
+                    est.emptyEndMinTotal(e.length - 1));
+            return runs == null ? fit.counts(edges, counts, ids) : fitAll(est, e, counts, ids, runs);
+        }
+
+        /** See {@link #emptyEnds(PenalizedLikelihoodEstimator, PenalizedFit, double[], int[][], String[])}. */
+        static BatchEstimate emptyEnds(PenalizedLikelihoodEstimator est, PenalizedFit fit, double[] edges,
+                double[][] counts, String[] ids) {
+            double[] e = EstimationSupport.checkEdges(est.space(), edges);
+            double[] totals = fit.checkCounts(e, counts, ids);
+            DetectionLimits runs = DetectionLimits.emptyEndsOrNull(e, counts.length, (i, j) -> counts[i][j] > 0, totals,
+                    est.emptyEndMinTotal(e.length - 1));
+            return runs == null ? fit.counts(edges, counts, ids) : fitAll(est, e, counts, ids, runs);
+        }
+
+        /** Units of whole-number counts, with declared limits (or the limits of their empty ends). */
+        static BatchEstimate fitAll(PenalizedLikelihoodEstimator est, double[] edges, int[][] counts, String[] ids,
+                DetectionLimits limits) {
+            return fit(est, edges, counts.length, ids, limits, i -> {
+                int[] r = counts[i];
+                if (r == null) {
+                    return null;
+                }
+                double[] c = new double[r.length];
+                for (int j = 0; j < r.length; j++) {
+                    c[j] = r[j];
+                }
+                return c;
+            }, (e, rows, sub) -> {
+                int[][] part = new int[rows.length][];
+                for (int r = 0; r < rows.length; r++) {
+                    part[r] = counts[rows[r]];
+                }
+                return est.penalizedFit().counts(e, part, sub);
+            });
+        }
+
+        /** Units of counts given as doubles; see {@link #fitAll(PenalizedLikelihoodEstimator, double[], int[][], String[], DetectionLimits)}. */
+        static BatchEstimate fitAll(PenalizedLikelihoodEstimator est, double[] edges, double[][] counts, String[] ids,
+                DetectionLimits limits) {
+            return fit(est, edges, counts.length, ids, limits, i -> counts[i], (e, rows, sub) -> {
+                double[][] part = new double[rows.length][];
+                for (int r = 0; r < rows.length; r++) {
+                    part[r] = counts[rows[r]];
+                }
+                return est.penalizedFit().counts(e, part, sub);
+            });
+        }
+
+        private static BatchEstimate fit(PenalizedLikelihoodEstimator est, double[] edges, int n, String[] ids,
+                DetectionLimits limits, IntFunction<double[]> row, PlainFit plain) {
+            PenalizedFit fit = est.penalizedFit();
+            BayesSpace space = est.space();
+            if (space.isPeriodic()) {
+                throw new IllegalArgumentException("detection limits cut the domain at a lower or upper limit, but "
+                        + space + " is a circle, which has neither; fit the counts without limits");
+            }
+            double[] e = EstimationSupport.checkEdges(space, edges);
+            EstimationSupport.checkIds(ids, n);
+            if (limits.size() != n) {
+                throw new IllegalArgumentException("detection limits for " + limits.size() + " units but counts for "
+                        + n);
+            }
+            int d = e.length - 1;
+            double[] lower = limits.lower();
+            double[] upper = limits.upper();
+            double minTotal = est.emptyEndMinTotal(d);
+            // per unit: the censored cells' bins lo and hi (-1 and d: none), grouped by (lo, hi)
+            Map<Long, List<Integer>> groups = new LinkedHashMap<>();
+            List<Integer> plainRows = new ArrayList<>();
+            double[][] rows = new double[n][];
+            for (int i = 0; i < n; i++) {
+                boolean declared = limits.censored(i);
+                if (!declared && !(minTotal < Double.POSITIVE_INFINITY)) {
+                    plainRows.add(i);
+                    continue;
+                }
+                String unit = EstimationSupport.unit(ids, i);
+                double[] c = row.apply(i);
+                if (c == null || c.length != d) {
+                    throw new IllegalArgumentException(unit + ": " + (c == null ? "counts are null" : c.length
+                            + " counts for " + d + " bins"));
+                }
+                for (int j = 0; j < d; j++) {
+                    if (!(c[j] >= 0)) {
+                        throw new IllegalArgumentException(unit + ": count " + c[j] + " in bin " + EstimationSupport.bin(e, j)
+                                + " is negative; counts must be ≥ 0");
+                    }
+                }
+                int lo = Double.isNaN(lower[i]) ? -1 : binHolding(e, lower[i], unit, "lower");
+                int hi = Double.isNaN(upper[i]) ? d : binHolding(e, upper[i], unit, "upper");
+                double total = 0;
+                for (double v : c) {
+                    total += v;
+                }
+                boolean runs = total >= minTotal;
+                if (declared && lo >= 0 && hi < d && lo >= hi) {
+                    throw new IllegalArgumentException(unit + ": with the detection limits (lower " + lower[i] + ", upper "
+                            + upper[i] + ") every bin is censored into one cell: no bin is left to estimate a density from");
+                }
+                if (runs) {
+                    int first = 0;
+                    while (first < d && !(c[first] > 0)) {
+                        first++;
+                    }
+                    int last = d - 1;
+                    while (last >= 0 && !(c[last] > 0)) {
+                        last--;
+                    }
+                    if (lo < 0 && first >= DetectionLimits.EMPTY_END_RUN && first < last && first < hi) {
+                        lo = first;
+                    }
+                    if (hi >= d && d - 1 - last >= DetectionLimits.EMPTY_END_RUN && first < last && last > lo) {
+                        hi = last;
+                    }
+                }
+                if (lo < 0 && hi >= d) {
+                    plainRows.add(i);
+                    continue;
+                }
+                rows[i] = c;
+                groups.computeIfAbsent((long) (lo + 1) * (d + 2) + hi, g -> new ArrayList<>()).add(i);
+            }
+            int k = space.dimension();
+            double[] out = new double[n * k];
+            EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
+            PenalizedFit.Prepared shared = groups.isEmpty() ? null : fit.prepare(e);
+            if (!plainRows.isEmpty()) {
+                int[] idx = plainRows.stream().mapToInt(Integer::intValue).toArray();
+                String[] subIds = new String[idx.length];
+                for (int r = 0; r < idx.length; r++) {
+                    subIds[r] = EstimationSupport.id(ids, idx[r]);
+                }
+                collect(plain.fit(e, idx, subIds), idx, k, out, diag);
+            }
+            // groups in parallel (each writes its own rows), each group's batch as the plain batch
+            List<Map.Entry<Long, List<Integer>>> list = new ArrayList<>(groups.entrySet());
+            Kernels.forEachBlock(list.size(), est.settings().parallel(), gi -> {
+                Map.Entry<Long, List<Integer>> g = list.get(gi);
+                int lo = (int) (g.getKey() / (d + 2)) - 1;
+                int hi = (int) (g.getKey() % (d + 2));
+                // cells: [a, e_{lo+1}) if lo >= 0, bins lo+1 .. hi-1, [e_hi, b] if hi < d; open ends reach the domain
+                int from = Math.max(lo, 0);
+                int to = Math.min(hi, d - 1);
+                double[] me = new double[to - from + 2];
+                me[0] = lo >= 0 ? space.lower() : e[0];
+                me[me.length - 1] = hi < d ? space.upper() : e[d];
+                for (int j = from + 1; j <= to; j++) {
+                    me[j - from] = e[j];
+                }
+                int[] idx = g.getValue().stream().mapToInt(Integer::intValue).toArray();
+                double[][] cells = new double[idx.length][];
+                String[] subIds = new String[idx.length];
+                for (int r = 0; r < idx.length; r++) {
+                    double[] c = rows[idx[r]];
+                    double[] mc = new double[to - from + 1];
+                    for (int j = 0; j < d; j++) {
+                        mc[Math.min(Math.max(j, from), to) - from] += c[j];
+                    }
+                    cells[r] = mc;
+                    subIds[r] = EstimationSupport.id(ids, idx[r]);
+                }
+                // the merged cells of the shared layout where its bins reach the censored ends, else own cells
+                boolean view = (lo < 0 || e[0] == space.lower()) && (hi >= d || e[d] == space.upper());
+                collect(view ? fit.countsOn(merged(shared, k, lo, hi, me), cells, subIds) : est.penalizedFit().counts(me, cells, subIds),
+                        idx, k, out, diag);
+            });
+            String[] idCopy = ids == null ? null : ids.clone();
+            return new BatchEstimate(DensitySet.ofRowMajor(space, out, n, idCopy), Arrays.asList(diag));
+        }
+
+        /**
+         * p's layout with bins merged ({@link BinLayout#merged}); the start map keeps the column of
+         * the bin holding the limit (lo, hi) for its merged cell and folds the other merged bins' columns
+         * into the constant at log ½, the start of an empty bin: a censored unit whose merged bins
+         * beyond that one are empty starts where it would without the merge (the same sums, in
+         * another order).
+         */
+        static PenalizedFit.Prepared merged(PenalizedFit.Prepared p, int k, int lo, int hi, double[] cellEdges) {
+            BinLayout m = p.lay().merged(lo, hi, cellEdges);
+            double[] map = p.startMap();
+            if (map == null) {
+                return new PenalizedFit.Prepared(m, null, p.startConst());
+            }
+            int d = p.lay().bins, cells = m.bins;
+            int from = Math.max(lo, 0);
+            double half = Math.log(0.5);
+            double[] startConst = p.startConst().clone();
+            double[] cellMap = new double[k * cells];
+            for (int i = 0; i < k; i++) {
+                for (int j = 0; j < d; j++) {
+                    int c = Math.min(Math.max(j, from), from + cells - 1) - from;
+                    if (j >= lo && j <= hi) { // lo = −1, hi = D: no merge at that end
+                        cellMap[i * cells + c] = map[i * d + j];
+                    } else {
+                        startConst[i] += map[i * d + j] * half;
+                    }
+                }
+            }
+            return new PenalizedFit.Prepared(m, cellMap, startConst);
+        }
+
+        /** Copies the batch's coordinates and diagnostics to the rows idx of out and diag. */
+        private static void collect(BatchEstimate b, int[] idx, int k, double[] out, EstimationDiagnostics[] diag) {
+            double[] c = b.densities().coordinatesRowMajor();
+            for (int r = 0; r < idx.length; r++) {
+                System.arraycopy(c, r * k, out, idx[r] * k, k);
+                diag[idx[r]] = b.diagnostics().get(r);
+            }
+        }
+
+        /** The bin j with e_j ≤ limit < e_{j+1} (the last bin for limit = e_D). */
+        private static int binHolding(double[] e, double limit, String unit, String which) {
+            int d = e.length - 1;
+            if (!(limit >= e[0] && limit <= e[d])) {
+                throw new IllegalArgumentException(unit + ": the " + which + " detection limit " + limit + " is outside the"
+                        + " binned range [" + e[0] + ", " + e[d] + "]; give a limit inside it or NaN for none");
+            }
+            int j = Arrays.binarySearch(e, limit);
+            j = j >= 0 ? j : -j - 2;
+            return Math.min(j, d - 1);
+        }
     }
 }

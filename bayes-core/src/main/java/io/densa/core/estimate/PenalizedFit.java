@@ -87,12 +87,7 @@ final class PenalizedFit {
     /** Fits units of whole counts (validated here; see {@link PenalizedLikelihoodEstimator#fitAll(double[], int[][], String[])}). */
     BatchEstimate counts(double[] edges, int[][] counts, String[] ids) {
         double[] e = EstimationSupport.checkEdges(space, edges);
-        EstimationSupport.checkIds(ids, counts.length);
-        double[] totals = new double[counts.length];
-        for (int i = 0; i < counts.length; i++) {
-            totals[i] = EstimationSupport.checkCounts(counts[i], e, EstimationSupport.unit(ids, i));
-            checkTotal(totals[i], ids, i);
-        }
+        double[] totals = checkCounts(e, counts, ids);
         return runCounts(e, counts.length, ids, totals, (i, dst) -> {
             int[] r = counts[i];
             for (int j = 0; j < r.length; j++) {
@@ -104,13 +99,7 @@ final class PenalizedFit {
     /** Fits units of counts given as doubles (validated here). */
     BatchEstimate counts(double[] edges, double[][] counts, String[] ids) {
         double[] e = EstimationSupport.checkEdges(space, edges);
-        EstimationSupport.checkIds(ids, counts.length);
-        boolean whole = !fractional || criterion == SmoothingCriterion.CROSS_VALIDATION;
-        double[] totals = new double[counts.length];
-        for (int i = 0; i < counts.length; i++) {
-            totals[i] = EstimationSupport.checkCounts(counts[i], e, EstimationSupport.unit(ids, i), whole);
-            checkTotal(totals[i], ids, i);
-        }
+        double[] totals = checkCounts(e, counts, ids);
         return runCounts(e, counts.length, ids, totals, (i, dst) -> System.arraycopy(counts[i], 0, dst, 0, dst.length));
     }
 
@@ -149,6 +138,29 @@ final class PenalizedFit {
         return r;
     }
 
+    /** Checks the ids and every row of whole-number counts against the checked edges e; the totals. */
+    double[] checkCounts(double[] e, int[][] counts, String[] ids) {
+        EstimationSupport.checkIds(ids, counts.length);
+        double[] totals = new double[counts.length];
+        for (int i = 0; i < counts.length; i++) {
+            totals[i] = EstimationSupport.checkCounts(counts[i], e, EstimationSupport.unit(ids, i));
+            checkTotal(totals[i], ids, i);
+        }
+        return totals;
+    }
+
+    /** Checks the ids and every row of counts given as doubles against the checked edges e; the totals. */
+    double[] checkCounts(double[] e, double[][] counts, String[] ids) {
+        EstimationSupport.checkIds(ids, counts.length);
+        boolean whole = !fractional || criterion == SmoothingCriterion.CROSS_VALIDATION;
+        double[] totals = new double[counts.length];
+        for (int i = 0; i < counts.length; i++) {
+            totals[i] = EstimationSupport.checkCounts(counts[i], e, EstimationSupport.unit(ids, i), whole);
+            checkTotal(totals[i], ids, i);
+        }
+        return totals;
+    }
+
     private void checkTotal(double total, String[] ids, int i) {
         if (!(total > 0) && zeroTotal == ZeroTotalPolicy.REJECT) {
             throw new IllegalArgumentException(EstimationSupport.unit(ids, i) + ": total count is 0 (every bin"
@@ -169,11 +181,39 @@ final class PenalizedFit {
         void copy(int i, double[] dst);
     }
 
-    private BatchEstimate runCounts(double[] edges, int n, String[] ids, double[] totals, RowSource rows) {
-        BinLayout lay = new BinLayout(space, edges, points);
-        double scale = scale(lay, true);
+    /** A quadrature layout with the start map (K × bins, row-major) and constant of its fits. */
+    record Prepared(BinLayout lay, double[] startMap, double[] startConst) {
+    }
+
+    /** The layout of checked edges with this fit's points, and its start map. */
+    Prepared prepare(double[] e) {
+        BinLayout lay = new BinLayout(space, e, points);
         double[] startConst = new double[k];
-        double[] startMap = startMap(lay, startConst);
+        return new Prepared(lay, startMap(lay, startConst), startConst);
+    }
+
+    /** Fits units of counts validated by the caller (or censored cells' sums of them), one per bin of p's layout. */
+    BatchEstimate countsOn(Prepared p, double[][] counts, String[] ids) {
+        double[] totals = new double[counts.length];
+        for (int i = 0; i < counts.length; i++) {
+            double t = 0;
+            for (double c : counts[i]) {
+                t += c;
+            }
+            totals[i] = t;
+        }
+        return runCounts(p, counts.length, ids, totals, (i, dst) -> System.arraycopy(counts[i], 0, dst, 0, dst.length));
+    }
+
+    private BatchEstimate runCounts(double[] edges, int n, String[] ids, double[] totals, RowSource rows) {
+        return runCounts(prepare(edges), n, ids, totals, rows);
+    }
+
+    private BatchEstimate runCounts(Prepared p, int n, String[] ids, double[] totals, RowSource rows) {
+        BinLayout lay = p.lay();
+        double scale = scale(lay, true);
+        double[] startConst = p.startConst();
+        double[] startMap = p.startMap();
         double[] out = new double[n * k];
         EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;

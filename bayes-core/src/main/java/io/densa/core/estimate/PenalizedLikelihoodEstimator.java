@@ -6,7 +6,7 @@ import io.densa.core.Reference;
 import io.densa.core.internal.RoughnessPenalty;
 import java.util.Objects;
 import org.ejml.data.DMatrixRMaj;
-import io.densa.core.estimate.BinLayout.CensoredCounts;
+import io.densa.core.estimate.DetectionLimits.CensoredCounts;
 
 /**
  * Penalised maximum-likelihood estimation of densities from binned counts or raw samples,
@@ -39,39 +39,12 @@ import io.densa.core.estimate.BinLayout.CensoredCounts;
  * values are taken modulo P; the penalty integrates over the whole circle (no boundary), so only
  * constant clr functions are unpenalised; detection limits are refused.
  *
- * <h2>Reference prior: regions without events</h2>
- * Where a unit has no events (a run of empty bins at one end, as when values below a detection
- * limit are not reported or are set to the limit), the likelihood says only that the density is
- * small there, not how small. With the roughness penalty alone the estimate there is pure
- * extrapolation: a second-derivative penalty continues the slope at the edge of the data, and when
- * the data end abruptly the criterion picks a small λ and the clr dives far below anything the
- * data support (−24 to −268 on the simulated networks of the examples' clipped-network test);
- * those units then rule every B2 distance, FPCA and kriging. The term
- * (w / (2 P(I))) ‖c‖² is a Gaussian prior c ~ N(0, (P(I)/w) I) centred at the reference density,
- * the neutral element of B2(P), and isotropic in its geometry (van den Boogaart, Egozcue &amp;
- * Pawlowsky-Glahn (2014), Bayes Hilbert spaces, Aust. N. Z. J. Stat. 56(2); from memory). Its
- * precision is the Fisher information of w observations drawn from the reference (the
- * per-observation information of the coordinates there is Cov(e) = I / P(I), e orthonormal with
- * zero P-integral), so with w = 1 it is the unit-information prior of Kass &amp; Wasserman (1995), A
- * reference Bayesian test for nested hypotheses and its relationship to the Schwarz criterion,
- * JASA 90(431) (from memory): where there are N events it weighs as one observation among N (a
- * change of order 1/N); where there are none it sets the level, balancing N f(x) ≈ (w / P(I))
- * |clr(x)| for the P-density f, i.e. the clr settles where the expected number of events in the
- * empty region is of order one instead of diving without limit. It also makes the penalised
- * information positive definite in every direction. On ten simulated clipped networks (56 units,
- * 1,000–4,000 events over 40 bins, up to eight clipped at a detection limit with 10–15 empty low
- * bins) it brought the lowest clr of a clipped unit to −6.7 … −10.8, the leave-one-out
- * ordinary-kriging MSE from 0.69–1.00 (mean 0.84) of the mean-density baseline to 0.33–0.74 (mean
- * 0.48), and the deviation of the FPCA first-component share from that of the true densities from a
- * mean of 0.049 (up to 0.134) to 0.030 (up to 0.047; about 0.01 of it is the sampling noise any
- * estimate from these counts has). Measured alternatives that did less: a penalty that also damps the
- * slope (adding κ ∫ clr'², κ up to 100/(b − a)²: no change); one pseudo-event spread over the bins
- * like the reference (the conjugate prior of Diaconis &amp; Ylvisaker (1979), Conjugate priors for
- * exponential families, Ann. Statist. 7(2); from memory), whose cost grows only linearly with the
- * depth of the dive (dives to −30 remained); a floor on λ (g ≥ −1), which oversmoothed the units
- * with data. A reference measure weighted towards where the network's data lie (B2(P) with P the
- * pooled histogram; a choice of the space, {@link BayesSpace#withReference}) also helped and
- * combines with the prior. {@link #withReferencePrior}(0) restores the plain penalised likelihood.
+ * <h2>Regions without events</h2>
+ * Two settings decide what a unit's estimate does where it has no events; the package
+ * documentation gives the reasoning and the measurements: the reference prior
+ * ({@link #withReferencePrior}, weight 1) and the reading of empty bins at an end of the layout as
+ * censored ({@link #withEmptyEnds}). {@code withReferencePrior(0).withEmptyEnds(EmptyEnds.COUNTED)}
+ * is the plain penalised likelihood.
  *
  * <h2>Algorithm</h2>
  * Damped Newton on the K raw B-spline coefficients (local support: O(Q W²) per iteration for Q
@@ -108,52 +81,8 @@ import io.densa.core.estimate.BinLayout.CensoredCounts;
  * {@link #withSmoothingGrid} sets a floor.
  *
  * <h2>Covariance</h2>
- * The reported coordinate covariance is the sandwich J⁻¹ M J⁻¹ of the first-order (Newton)
- * linearisation ĉ − c_λ ≈ J⁻¹ ∇ℓ(c_λ) around the penalised target c_λ, with J = F + 2λΩ +
- * (w / P(I)) I (the reference prior's precision included), F the
- * expected Fisher information of the unpenalised log-likelihood at the estimate (multinomial:
- * F = N(Σ_j π_j m_j m_j' − m m'), m_j the mean of the basis functions over bin j under the fit;
- * samples: (Σ w_i²) Cov_f(e)) and edf = tr(J⁻¹F). The meat M estimates the variance of the score
- * under the distribution that generated the data:
- * <ul>
- * <li>binned counts: the empirical (model-robust) information M = N/(N − edf) · Σ_j n_j (m_j −
- * m̄)(m_j − m̄)', m̄ = Σ_j n_j m_j / N, the variance of the per-event scores over the observed
- * events (Huber (1967), The behavior of maximum likelihood estimates
- * under nonstandard conditions, Proc. 5th Berkeley Symp. 1; small-sample factor as HC1 in
- * MacKinnon &amp; White (1985), J. Econometrics 29; both from memory), or F when N ≤ edf + 1. The
- * model-based choice M = F describes the variance only if the data came from the smoothed fit
- * π(ĉ); a strongly penalised fit of a few tens of events is far from the truth (smoothing bias),
- * and F then over-reports: in our simulations (normal truth, 50 bins, K = 11, λ fixed) F gave a
- * reported / empirical trace of 1.31 at 100 events and 1.37 at 40 (1.7–1.9 at ten times the λ),
- * while the exact first-order variance J⁻¹ Var_true(∇ℓ) J⁻¹ at c_λ matched within 6 %: the
- * mismatch was the meat, not nonlinearity, not the multinomial constraint (the basis functions
- * integrate to zero, so F has full rank K when the bins resolve the space);</li>
- * <li>raw samples x_i with weights w_i: likewise M = n/(n − edf) · (Σ w_i²/W) Σ_i w_i (e(x_i) −
- * ē)(e(x_i) − ē)', ē the weighted sample mean of the basis functions, n = W²/Σ w_i² (Kish's
- * effective sample size), or F when n ≤ edf + 1 (with M = F: reported / empirical 1.26 at 40
- * and 1.23 at 100 observations);</li>
- * </ul>
- * With a fixed λ it is conditional on λ. With λ chosen per unit by
- * {@link SmoothingCriterion#MARGINAL_LIKELIHOOD} (the default) the first-order effect of the
- * uncertainty of ρ = ln λ̂ is added, V_ρ (dĉ/dρ)(dĉ/dρ)' with dĉ/dρ = −H⁻¹ 2λΩĉ, H the observed
- * penalised information of the fit's last Newton iteration (implicit differentiation of the
- * penalised score equation) and V_ρ = 2/V''(ρ), V'' from the cubic through the search's criterion
- * values nearest to λ̂ where they bracket it, else from a central difference over ±0.25 decade (two
- * more fits; Wood, Pya &amp; Säfken (2016), Smoothing parameter and model selection for general smooth
- * models, JASA 111, §3; from memory); without it, reported / empirical traces over replicates with
- * their own λ̂ were 0.92, 0.74 and 0.51 at 2,000, 100 and 40 events (normal truth), with it 0.98,
- * 0.91 and 0.81 (mixture truth: 0.93, 0.79, 0.74); these figures are from before the reference
- * prior, with which the same normal-truth replicates gave 0.98, 0.95 and 0.91. With the other
- * criteria the variability of λ̂
- * is not included (AICc picks λ over five decades on such replicates; reported / empirical
- * 0.2–0.3). With strong undersmoothing (λ far below the chosen one) the linearisation itself
- * under-reports. V_ρ is at most W²/4 (also where V is not convex at λ̂), W the width of the range
- * of ρ whose grid criterion is within 6 of the best, plus a grid step: no law on an interval of width
- * W has a larger variance (Popoviciu 1935). Where the data hardly determine λ (20–50 events, K = 24:
- * V may vary by under 0.1 over two decades) V''(ρ) is near 0 and the local value alone reported up to
- * 816 times the empirical variance over replicates; with the bound at most 14 (see the CHANGELOG).
- * It describes the sampling variability of the estimate, not its smoothing bias; its trace is the
- * unit's B2 estimation variance.
+ * Each unit's diagnostics carry the sandwich covariance of its coordinates, with the uncertainty
+ * of a chosen λ added; the package documentation gives its form, its sources and how it was checked.
  *
  * <p>Immutable and thread-safe; arrays passed in are not modified. {@code fitAll} runs units in
  * parallel on the common pool (fixed blocks, each unit independent), bit-identical to the serial
@@ -193,7 +122,9 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
      * linear splines or step bases with two bins), smoothing chosen by the restricted marginal
      * likelihood ({@link SmoothingCriterion#MARGINAL_LIKELIHOOD}) on the grid g = 3, 2, …, −6
      * (step 1), at most 100 Newton iterations, tolerance 10⁻¹², automatic Gauss–Legendre points per
-     * piece, zero-total units rejected, whole-number counts required, parallel batches.
+     * piece, zero-total units rejected, whole-number counts required, parallel batches, the reference
+     * prior of one observation, runs of empty bins at an end of dense units read as censored
+     * ({@link EmptyEnds#CENSORED_IF_DENSE}).
      *
      * @param space the space the densities belong to
      */
@@ -202,7 +133,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         int order = Math.min(2, RoughnessPenalty.maxOrder(EstimationSupport.rawBasis(space.basis())));
         return new PenalizedLikelihoodEstimator(space, new Settings(order, Double.NaN,
                 SmoothingCriterion.MARGINAL_LIKELIHOOD, 5, 1L, -6, 3, 1, 100, 1e-12, 0, ZeroTotalPolicy.REJECT, false,
-                true, DEFAULT_PRIOR_WEIGHT), ProgressListener.NONE);
+                true, DEFAULT_PRIOR_WEIGHT, EmptyEnds.CENSORED_IF_DENSE), ProgressListener.NONE);
     }
 
     /**
@@ -286,6 +217,49 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
                     + " removes the prior), got " + observations);
         }
         return with(settings.change(c -> c.referencePriorWeight = observations));
+    }
+
+    /** How binned counts with a run of empty bins at an end of the layout are read ({@link #withEmptyEnds}). */
+    public enum EmptyEnds {
+        /**
+         * As {@link #CENSORED} for units with at least {@link DetectionLimits#DENSE_EVENTS_PER_BIN}
+         * events per bin on average, as {@link #COUNTED} for sparser units (the default).
+         */
+        CENSORED_IF_DENSE,
+        /** Such a run and the first occupied bin after it form one censored cell. */
+        CENSORED,
+        /** Every bin as recorded (the plain multinomial likelihood; the only reading before this setting). */
+        COUNTED
+    }
+
+    /**
+     * How runs of empty bins at an end of the layout are read. Counts alone cannot tell a density
+     * that falls to nothing beyond a unit's outermost events from values beyond a limit recorded at
+     * the limit (a detection limit, an instrument's range, a register that files everything above
+     * an age in its last class): both give empty bins at the end, then an occupied bin, the second
+     * with the clipped values piled into it. Where a unit has at least
+     * {@link DetectionLimits#EMPTY_END_RUN} empty bins at an end and no declared limit there,
+     * {@link EmptyEnds#CENSORED} makes those bins and the first occupied one one cell reaching the end
+     * of the domain, whose count says only "this many values at or beyond the far edge of that bin"
+     * (interval censoring, Turnbull (1976), J. R. Stat. Soc. B 38(3); exactly the reading of the
+     * limits {@link DetectionLimits#emptyEnds}): clipped data are read correctly without their
+     * limits, and the estimate beyond a unit's outermost events no longer rests on where in the edge
+     * bin those few events fell; what is given up is that location, and for sparse units, whose empty
+     * end bins are mostly sampling noise, calibration: the reported covariance over-states the
+     * variance of an estimate whose cells follow the data (see
+     * {@link DetectionLimits#DENSE_EVENTS_PER_BIN}). The default
+     * {@link EmptyEnds#CENSORED_IF_DENSE} therefore censors only units with at least that many events
+     * per bin. A circle ({@link BayesSpace#isPeriodic()}) has no ends. The package documentation gives
+     * what each reading did on simulated networks.
+     */
+    public PenalizedLikelihoodEstimator withEmptyEnds(EmptyEnds reading) {
+        Objects.requireNonNull(reading, "reading");
+        return with(settings.change(c -> c.emptyEnds = reading));
+    }
+
+    /** How runs of empty bins at an end are read (see {@link #withEmptyEnds}). */
+    public EmptyEnds emptyEnds() {
+        return settings.emptyEnds();
     }
 
     /** The weight of the reference prior in observations (see {@link #withReferencePrior}). */
@@ -385,11 +359,12 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
      * @param fractionalCounts     whether fractional counts are accepted
      * @param parallel             whether batches use the common pool
      * @param referencePriorWeight weight of the reference prior in observations
+     * @param emptyEnds            how runs of empty bins at an end are read
      */
     public record Settings(int penaltyOrder, double smoothing, SmoothingCriterion criterion, int folds, long seed,
             double gridLog10Lo, double gridLog10Hi, double gridStep, int maxIterations, double tolerance,
             int quadraturePoints, ZeroTotalPolicy zeroTotal, boolean fractionalCounts, boolean parallel,
-            double referencePriorWeight) {
+            double referencePriorWeight, EmptyEnds emptyEnds) {
         /** A copy with the components that edit sets (the estimator's with… methods check the values first). */
         Settings change(java.util.function.Consumer<Draft> edit) {
             Draft d = new Draft(this);
@@ -405,6 +380,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
             SmoothingCriterion criterion;
             ZeroTotalPolicy zeroTotal;
             boolean fractionalCounts, parallel;
+            EmptyEnds emptyEnds;
 
             Draft(Settings s) {
                 penaltyOrder = s.penaltyOrder;
@@ -422,12 +398,13 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
                 fractionalCounts = s.fractionalCounts;
                 parallel = s.parallel;
                 referencePriorWeight = s.referencePriorWeight;
+                emptyEnds = s.emptyEnds;
             }
 
             Settings settings() {
                 return new Settings(penaltyOrder, smoothing, criterion, folds, seed, gridLog10Lo, gridLog10Hi,
                         gridStep, maxIterations, tolerance, quadraturePoints, zeroTotal, fractionalCounts, parallel,
-                        referencePriorWeight);
+                        referencePriorWeight, emptyEnds);
             }
         }
     }
@@ -448,6 +425,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         Objects.requireNonNull(s, "settings");
         Objects.requireNonNull(s.criterion(), "settings.criterion");
         Objects.requireNonNull(s.zeroTotal(), "settings.zeroTotal");
+        Objects.requireNonNull(s.emptyEnds(), "settings.emptyEnds");
         if (!Double.isNaN(s.smoothing())) {
             withSmoothing(s.smoothing());
         }
@@ -471,36 +449,18 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
         return new DMatrixRMaj(space.dimension(), space.dimension(), true, fit.penaltyInCoordinates());
     }
 
-    /**
-     * Cost of one Newton iteration for one unit with these bin edges, every bin occupied (the upper
-     * bound; an empty bin saves its rank-one update), counted from the loops with a multiply and an
-     * add as one flop each and one line-search trial per iteration (the usual case near the
-     * optimum): per quadrature node 2W (bin moments) + 2W + W(W + 1) (second-moment block, lower
-     * triangle) + 2W + 3 (η, weight and sum at the trial point) for W raw functions nonzero at a
-     * point; per bin 3R + R(R + 1) (R raw functions touching it); per iteration K²/2 + 4K² (rank-one
-     * update and penalty) + K³/3 + 2K² (Cholesky and solve) + 2K; one {@code exp} per node.
-     * Multiply flops by the iterations a unit takes (its diagnostics report them) and add the final
-     * covariance, about 2.5 K³.
-     */
+    /** Cost of one Newton iteration for one unit with these bin edges ({@link NewtonCost#of}). */
     public NewtonCost newtonCost(double[] edges) {
-        double[] e = EstimationSupport.checkEdges(space, edges);
-        BinLayout lay = new BinLayout(space, e, settings.quadraturePoints());
-        long w = lay.width;
-        long q = lay.nodes;
-        long flops = q * (6 * w + w * (w + 1) + 3);
-        for (int j = 0; j < lay.bins; j++) {
-            long r = lay.binHi[j] - lay.binLo[j];
-            flops += 3 * r + r * (r + 1);
-        }
-        long kk = space.dimension();
-        flops += kk * kk / 2 + 4 * kk * kk + kk * kk * kk / 3 + 2 * kk * kk + 2 * kk;
-        return new NewtonCost(lay.nodes, lay.width, space.dimension(), flops, q);
+        return NewtonCost.of(space, edges, settings.quadraturePoints());
     }
 
     // ---------------------------------------------------------------- binned counts
 
     /**
-     * Fits many units sharing bin edges.
+     * Fits many units sharing bin edges; runs of empty bins at an end as {@link #withEmptyEnds} says
+     * (by default read as censored: such units are fitted as with
+     * {@link #fitAll(double[], int[][], String[], DetectionLimits)} and the limits of
+     * {@link DetectionLimits#emptyEnds}).
      *
      * @param counts n rows of D counts (not modified)
      * @param ids    n ids, or null
@@ -510,7 +470,23 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
     @Override
     public BatchEstimate fitAll(double[] edges, int[][] counts, String[] ids) {
         Objects.requireNonNull(counts, "counts");
-        return fit.counts(edges, counts, ids);
+        return readsEmptyEnds() ? CensoredCounts.emptyEnds(this, fit, edges, counts, ids) : fit.counts(edges, counts, ids);
+    }
+
+    /** Whether runs of empty bins at an end may be read as censored (the setting, on a space with ends). */
+    boolean readsEmptyEnds() {
+        return settings.emptyEnds() != EmptyEnds.COUNTED && !space.isPeriodic();
+    }
+
+    /** The fewest events with which a unit's empty end runs are read as censored over d bins (∞: never). */
+    double emptyEndMinTotal(int d) {
+        return !readsEmptyEnds() ? Double.POSITIVE_INFINITY
+                : settings.emptyEnds() == EmptyEnds.CENSORED ? 0 : DetectionLimits.DENSE_EVENTS_PER_BIN * d;
+    }
+
+    /** The fitting machinery: {@code counts} reads every bin as recorded, whatever {@link #withEmptyEnds} says. */
+    PenalizedFit penalizedFit() {
+        return fit;
     }
 
     /**
@@ -520,8 +496,10 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
      * the domain, and its likelihood uses the probability of that cell (interval censoring): the
      * values piled at the limit say "at most L", not "exactly here", and the empty bins below say
      * nothing. Units without a limit are fitted exactly as by
-     * {@link #fitAll(double[], int[][], String[])}, in one batch; each censored unit is fitted on its
-     * own cells (the progress listener sees these batches separately).
+     * {@link #fitAll(double[], int[][], String[])}, in one batch; censored units are fitted in
+     * batches of units that share their cells (the progress listener sees these batches
+     * separately). Under {@link EmptyEnds#CENSORED} (the default) an end without a declared limit
+     * is read as {@link #fitAll(double[], int[][], String[])} reads it.
      *
      * @param limits one entry per unit (NaN: no limit)
      * @throws IllegalArgumentException as {@link #fitAll(double[], int[][], String[])}, or for a
@@ -531,6 +509,9 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
     public BatchEstimate fitAll(double[] edges, int[][] counts, String[] ids, DetectionLimits limits) {
         Objects.requireNonNull(counts, "counts");
         Objects.requireNonNull(limits, "limits");
+        if (readsEmptyEnds()) {
+            fit.checkCounts(EstimationSupport.checkEdges(space, edges), counts, ids);
+        }
         return CensoredCounts.fitAll(this, edges, counts, ids, limits);
     }
 
@@ -538,7 +519,7 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
     @Override
     public BatchEstimate fitAll(double[] edges, double[][] counts, String[] ids) {
         Objects.requireNonNull(counts, "counts");
-        return fit.counts(edges, counts, ids);
+        return readsEmptyEnds() ? CensoredCounts.emptyEnds(this, fit, edges, counts, ids) : fit.counts(edges, counts, ids);
     }
 
     // ---------------------------------------------------------------- raw samples
@@ -594,7 +575,8 @@ public final class PenalizedLikelihoodEstimator implements CountEstimator {
                 + ", prior weight " + s.referencePriorWeight() + ", at most " + s.maxIterations()
                 + " iterations, tolerance " + s.tolerance() + ", "
                 + (s.quadraturePoints() == 0 ? "automatic" : String.valueOf(s.quadraturePoints()))
-                + " quadrature points, zero totals " + s.zeroTotal() + (s.fractionalCounts() ? ", fractional counts" : "")
+                + " quadrature points, zero totals " + s.zeroTotal() + ", empty ends " + s.emptyEnds()
+                + (s.fractionalCounts() ? ", fractional counts" : "")
                 + (s.parallel() ? ", parallel" : "") + "]";
     }
 }

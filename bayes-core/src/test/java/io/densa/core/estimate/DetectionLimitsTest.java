@@ -19,10 +19,11 @@ class DetectionLimitsTest {
         int[] counts = {3, 9, 20, 31, 40, 31, 20, 9, 0, 12};
         PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(SPACE);
         BatchEstimate b = est.fitAll(EDGES, new int[][] {counts}, null, DetectionLimits.upper(8.5));
-        // the same as fitting the merged cells directly: [0,1) … [7,8) and [8, 10]
+        // the same as fitting the merged cells directly: [0,1) … [7,8) and [8, 10] (to rounding: the
+        // merged cell integrates over the nodes of its two bins, the direct fit over its own)
         int[] merged = {3, 9, 20, 31, 40, 31, 20, 9, 12};
         double[] cells = {0, 1, 2, 3, 4, 5, 6, 7, 8, 10};
-        assertArrayEquals(est.fit(cells, merged).density().coordinates(), b.densities().get(0).coordinates());
+        assertArrayEquals(est.fit(cells, merged).density().coordinates(), b.densities().get(0).coordinates(), 1e-12);
         assertEquals("#0", b.diagnostics().get(0).id());
         assertTrue(b.densities().ids().isEmpty(), "no ids given, none invented");
     }
@@ -65,5 +66,60 @@ class DetectionLimitsTest {
         int[] copy = counts[0].clone();
         PenalizedLikelihoodEstimator.withDefaults(SPACE).fitAll(EDGES, counts, null, d);
         assertArrayEquals(copy, counts[0]);
+    }
+
+    /**
+     * The limits of empty end runs: a run of at least two empty bins at an end gives a limit at the
+     * lower edge of the first occupied bin from that end; a single empty bin, a single occupied bin
+     * or no events give none.
+     */
+    @Test
+    void emptyEndsNameTheFirstOccupiedBinFromEachEnd() {
+        double[][] counts = {
+            {0, 0, 0, 30, 40, 31, 20, 9, 0, 0}, // both ends: lower e_3, upper e_7
+            {0, 9, 20, 31, 40, 31, 20, 9, 2, 0}, // single empty bins: none
+            {0, 0, 0, 0, 50, 0, 0, 0, 0, 0}, // one occupied bin: none
+            {0, 0, 0, 0, 0, 0, 0, 0, 0, 0}, // no events: none
+            {0, 0, 5, 31, 40, 31, 20, 9, 2, 1}}; // lower only, e_2
+        DetectionLimits d = DetectionLimits.emptyEnds(EDGES, counts);
+        assertArrayEquals(new double[] {3, Double.NaN, Double.NaN, Double.NaN, 2}, d.lower());
+        assertArrayEquals(new double[] {7, Double.NaN, Double.NaN, Double.NaN, Double.NaN}, d.upper());
+        assertThrows(IllegalArgumentException.class, () -> DetectionLimits.emptyEnds(EDGES, new double[][] {{1, 2}}));
+    }
+
+    /**
+     * The default reading ({@code CENSORED_IF_DENSE}): a unit with at least 10 events per bin and
+     * empty end runs is fitted as with the limits of {@link DetectionLimits#emptyEnds} declared (the
+     * same bits); a sparser unit as with every bin as recorded; {@code CENSORED} censors both; a
+     * circle has no ends; counts given as doubles read as whole-number counts.
+     */
+    @Test
+    void theDefaultCensorsTheEmptyEndsOfDenseUnits() {
+        int[] dense = {0, 0, 0, 300, 400, 310, 200, 90, 0, 0}; // 1,300 events over 10 bins
+        int[] sparse = {0, 0, 0, 3, 4, 3, 2, 1, 0, 0}; // 13 events
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(SPACE);
+        PenalizedLikelihoodEstimator counted = est.withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.COUNTED);
+        PenalizedLikelihoodEstimator censored = est.withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.CENSORED);
+        assertEquals(PenalizedLikelihoodEstimator.EmptyEnds.CENSORED_IF_DENSE, est.emptyEnds());
+        DetectionLimits runs = new DetectionLimits(new double[] {3}, new double[] {7});
+        double[] declared = counted.fitAll(EDGES, new int[][] {dense}, null, runs).densities().get(0).coordinates();
+        BatchEstimate both = est.fitAll(EDGES, new int[][] {dense, sparse}, null);
+        assertArrayEquals(declared, both.densities().get(0).coordinates(), 0.0);
+        assertArrayEquals(counted.fit(EDGES, sparse).density().coordinates(), both.densities().get(1).coordinates(), 0.0);
+        double[] notCensored = counted.fit(EDGES, dense).density().coordinates();
+        double gap = 0;
+        for (int k = 0; k < declared.length; k++) {
+            gap = Math.max(gap, Math.abs(declared[k] - notCensored[k]));
+        }
+        assertTrue(gap > 0.1, "the censored reading changed the dense unit's coordinates by only " + gap);
+        assertArrayEquals(counted.fitAll(EDGES, new int[][] {sparse}, null, runs).densities().get(0).coordinates(),
+                censored.fit(EDGES, sparse).density().coordinates(), 0.0);
+        double[] asDoubles = java.util.Arrays.stream(dense).asDoubleStream().toArray();
+        assertArrayEquals(declared, est.fit(EDGES, asDoubles).density().coordinates(), 0.0);
+        // a circle has no ends: the default reads every bin as recorded
+        BayesSpace circle = BayesSpace.periodicSplines(0, 10, 4, 6);
+        assertArrayEquals(PenalizedLikelihoodEstimator.withDefaults(circle)
+                .withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.COUNTED).fit(EDGES, dense).density().coordinates(),
+                PenalizedLikelihoodEstimator.withDefaults(circle).fit(EDGES, dense).density().coordinates(), 0.0);
     }
 }

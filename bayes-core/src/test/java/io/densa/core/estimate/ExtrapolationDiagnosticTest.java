@@ -66,7 +66,9 @@ class ExtrapolationDiagnosticTest {
     void countsShareMatchesTheDefinition() {
         int[] counts = clippedCounts();
         for (double w : new double[] {0, 1}) {
-            UnitEstimate e = PenalizedLikelihoodEstimator.withDefaults(SPACE).withReferencePrior(w).fit(EDGES, counts);
+            // every bin as recorded: the share's regions are those beyond the first and last occupied bins
+            UnitEstimate e = PenalizedLikelihoodEstimator.withDefaults(SPACE).withReferencePrior(w)
+                    .withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.COUNTED).fit(EDGES, counts);
             int first = 0;
             int last = 39;
             while (counts[first] == 0) {
@@ -95,8 +97,9 @@ class ExtrapolationDiagnosticTest {
     }
 
     /**
-     * A unit clipped at a detection limit is flagged by the plain penalised likelihood (its clr dives
-     * below −15 where it has no events) and not with the default reference prior; the batch names it.
+     * A unit clipped at a detection limit is flagged by the plain penalised likelihood (no reference
+     * prior, every bin as recorded: its clr dives below −15 where it has no events) and not with the
+     * defaults; the batch names it.
      */
     @Test
     void clippedUnitIsFlaggedWithoutThePrior() {
@@ -104,7 +107,8 @@ class ExtrapolationDiagnosticTest {
         int[] full = EstimationTestSupport.normal().counts(3000, 40, rng(7));
         int[][] rows = {full, clipped};
         String[] ids = {"full", "clipped"};
-        BatchEstimate plain = PenalizedLikelihoodEstimator.withDefaults(SPACE).withReferencePrior(0).fitAll(EDGES, rows, ids);
+        BatchEstimate plain = PenalizedLikelihoodEstimator.withDefaults(SPACE).withReferencePrior(0)
+                .withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.COUNTED).fitAll(EDGES, rows, ids);
         double low = Double.POSITIVE_INFINITY;
         for (int i = 0; i <= 100; i++) {
             low = Math.min(low, plain.densities().get(1).clr(i / 100.0));

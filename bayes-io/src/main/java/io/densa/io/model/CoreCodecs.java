@@ -72,7 +72,8 @@ final class CoreCodecs {
                 .real("gridStep", s.gridStep()).integer("maxIterations", s.maxIterations())
                 .real("tolerance", s.tolerance()).integer("quadraturePoints", s.quadraturePoints())
                 .text("zeroTotal", s.zeroTotal().name()).bool("fractionalCounts", s.fractionalCounts())
-                .bool("parallel", s.parallel()).real("referencePriorWeight", s.referencePriorWeight()).end();
+                .bool("parallel", s.parallel()).real("referencePriorWeight", s.referencePriorWeight())
+                .text("emptyEnds", s.emptyEnds().name()).end();
         o.end();
     }
 
@@ -175,6 +176,7 @@ final class CoreCodecs {
     static PenalizedLikelihoodEstimator readPenalized(Node p) {
         BayesSpace s = readSpace(p.get("space"));
         Node t = p.get("settings");
+        Node ends = t.optional("emptyEnds");
         PenalizedLikelihoodEstimator.Settings st = new PenalizedLikelihoodEstimator.Settings(
                 t.get("penaltyOrder").integer(1, 64), t.get("smoothing").real(),
                 t.get("criterion").enumValue(SmoothingCriterion.class), t.get("folds").integer(2, 50),
@@ -182,7 +184,10 @@ final class CoreCodecs {
                 t.get("gridStep").real(), t.get("maxIterations").integer(1, PenalizedLikelihoodEstimator.MAX_ITERATIONS_LIMIT),
                 t.get("tolerance").real(), t.get("quadraturePoints").integer(0, 16),
                 t.get("zeroTotal").enumValue(ZeroTotalPolicy.class), t.get("fractionalCounts").bool(),
-                t.get("parallel").bool(), t.get("referencePriorWeight").real());
+                t.get("parallel").bool(), t.get("referencePriorWeight").real(),
+                // files written before the setting existed read every bin as recorded, as they were fitted
+                ends == null ? PenalizedLikelihoodEstimator.EmptyEnds.COUNTED
+                        : ends.enumValue(PenalizedLikelihoodEstimator.EmptyEnds.class));
         return Codecs.restoring(t, () -> PenalizedLikelihoodEstimator.withDefaults(s).withSettings(st));
     }
 
