@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.BayesSpace;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 import io.densa.core.DensitySet;
 import io.densa.regression.surveillance.BaselineMonitor;
 import io.densa.regression.surveillance.Period;
@@ -135,6 +136,31 @@ class MonitorModelFileTest {
                 () -> ModelFile.fromBytes(HostileModelFileTest.envelope("baseline-monitor", bad), BaselineMonitor.class,
                         ModelLimits.defaults(), "test"));
         assertTrue(e.getMessage().contains("longest lag"), e.getMessage());
+    }
+
+    /**
+     * The estimator's reading of empty ends is stored; a file written before the setting existed
+     * (no {@code emptyEnds} member) reads as {@code COUNTED}, the reading it was fitted with, as
+     * docs/model-format.md specifies.
+     */
+    @Test
+    void emptyEndsMemberIsOptional() throws Exception {
+        BayesSpace space = BayesSpace.splines(0, 10, 4, 6);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space)
+                .withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.CENSORED);
+        String payload = new String(HostileModelFileTest.payloadOf(ModelFile.toBytes(est)), StandardCharsets.UTF_8);
+        assertTrue(payload.contains("\"emptyEnds\":\"CENSORED\""), payload);
+        PenalizedLikelihoodEstimator back = ModelFile.fromBytes(
+                HostileModelFileTest.envelope("penalized-likelihood-estimator", payload),
+                PenalizedLikelihoodEstimator.class, ModelLimits.defaults(), "test");
+        assertEquals(est.settings(), back.settings());
+        String old = payload.replaceFirst(",\"emptyEnds\":\"CENSORED\"", "");
+        assertTrue(!old.contains("emptyEnds"), old);
+        PenalizedLikelihoodEstimator before = ModelFile.fromBytes(
+                HostileModelFileTest.envelope("penalized-likelihood-estimator", old),
+                PenalizedLikelihoodEstimator.class, ModelLimits.defaults(), "test");
+        assertEquals(PenalizedLikelihoodEstimator.EmptyEnds.COUNTED, before.emptyEnds());
+        assertEquals(est.withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.COUNTED).settings(), before.settings());
     }
 
     /** A re-signed file whose members do not fit together is refused, naming the problem. */
