@@ -7,8 +7,6 @@ import io.densa.core.internal.RecordArrays;
 import io.densa.spatial.variogram.VariogramOptions;
 import io.densa.spatial.variogram.VariogramModel;
 import io.densa.spatial.variogram.EmpiricalVariogram;
-import io.densa.core.internal.Kernels;
-import io.densa.core.internal.Seeds;
 import java.util.Objects;
 
 /**
@@ -146,17 +144,10 @@ public record AnisotropyTest(double[] directions, double[] relativeSemivariances
         double reach = reach(model, ev);
         double[] level = levels(ev, model, reach);
         double t = spread(level);
-        double[] sims = new double[replicates];
-        Kernels.forEachBlock(replicates, options.parallel() && replicates > 1, b -> {
-            double[] e = sim.simulate(factor, r, Seeds.stream(seed, b));
-            sim.simulatedResiduals(e);
+        double p = PredictiveDistribution.monteCarloPValue(sim, factor, r, replicates, seed, options.parallel(), e -> {
             EmpiricalVariogram evb = EmpiricalVariogram.of(kriging.locations(), e, kriging.dimension(), options);
-            sims[b] = spread(levels(evb, model, reach));
-        });
-        int above = 0;
-        for (double v : sims) {
-            above += v >= t ? 1 : 0;
-        }
+            return spread(levels(evb, model, reach));
+        }, t);
         double mean = 0;
         for (double l : level) {
             mean += l / level.length;
@@ -172,7 +163,7 @@ public record AnisotropyTest(double[] directions, double[] relativeSemivariances
                 hi = s;
             }
         }
-        return new AnisotropyTest(dirs, rel, t, (1.0 + above) / (1.0 + replicates), replicates, dirs[lo], dirs[hi], ev);
+        return new AnisotropyTest(dirs, rel, t, p, replicates, dirs[lo], dirs[hi], ev);
     }
 
     /** The first lag at which the model reaches {@link #REACH_SHARE} of its sill (+∞ if unbounded or beyond the bins). */

@@ -12,9 +12,11 @@ import io.densa.spatial.variogram.VariogramOptions;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensaException;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.Seeds;
 import java.util.List;
 import java.util.Objects;
 import java.util.function.Consumer;
+import java.util.function.ToDoubleFunction;
 
 /**
  * The predictive distribution of the densities kriged by a {@link Kriging}: a Gaussian law of the
@@ -375,5 +377,27 @@ public final class PredictiveDistribution {
 
     double[] factorInternal() {
         return factor;
+    }
+
+    /**
+     * The Monte Carlo p-value (1 + #{T* ≥ observed}) / (1 + B) of the model checks: B fields
+     * simulated at the data locations with the shape factor (K × r, row-major), replicate b from
+     * stream b of the seed, each reduced to its drift residuals in place and given to the statistic.
+     *
+     * @param parallel whether the replicates may run in the common pool (the result does not depend on it)
+     */
+    static double monteCarloPValue(FieldSimulator sim, double[] factor, int r, int replicates, long seed,
+            boolean parallel, ToDoubleFunction<double[]> statistic, double observed) {
+        double[] sims = new double[replicates];
+        Kernels.forEachBlock(replicates, parallel && replicates > 1, b -> {
+            double[] e = sim.simulate(factor, r, Seeds.stream(seed, b));
+            sim.simulatedResiduals(e);
+            sims[b] = statistic.applyAsDouble(e);
+        });
+        int above = 0;
+        for (double t : sims) {
+            above += t >= observed ? 1 : 0;
+        }
+        return (1.0 + above) / (1.0 + replicates);
     }
 }

@@ -7,8 +7,6 @@ import io.densa.core.internal.RecordArrays;
 import io.densa.spatial.variogram.VariogramOptions;
 import io.densa.spatial.Locations;
 import io.densa.spatial.variogram.EmpiricalVariogram;
-import io.densa.core.internal.Kernels;
-import io.densa.core.internal.Seeds;
 import java.util.Objects;
 
 /**
@@ -123,20 +121,11 @@ public record ProportionalityCheck(double[] shares, double[] lags, double[][] ra
         Kriging kr = pd.kriging();
         FieldSimulator sim = FieldSimulator.of(kr);
         Stat observed = statistic(kr.locations(), sim.dataResiduals(), kr.dimension(), options, directions);
-        double[] factor = pd.factorInternal();
-        int r = pd.rank();
-        double[] sims = new double[replicates];
-        Kernels.forEachBlock(replicates, options.parallel() && replicates > 1, b -> {
-            double[] e = sim.simulate(factor, r, Seeds.stream(seed, b));
-            sim.simulatedResiduals(e);
-            sims[b] = statistic(kr.locations(), e, kr.dimension(), options, directions).total;
-        });
-        int above = 0;
-        for (double t : sims) {
-            above += t >= observed.total ? 1 : 0;
-        }
+        double p = PredictiveDistribution.monteCarloPValue(sim, pd.factorInternal(), pd.rank(), replicates, seed,
+                options.parallel(), e -> statistic(kr.locations(), e, kr.dimension(), options, directions).total,
+                observed.total);
         return new ProportionalityCheck(observed.shares, observed.lags, observed.ratios, observed.terms,
-                observed.total, (1.0 + above) / (1.0 + replicates), replicates);
+                observed.total, p, replicates);
     }
 
     private record Stat(double[] shares, double[] lags, double[][] ratios, double[] terms, double total) {
