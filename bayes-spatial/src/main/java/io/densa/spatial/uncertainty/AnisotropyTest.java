@@ -127,9 +127,7 @@ public record AnisotropyTest(double[] directions, double[] relativeSemivariances
                     + " direction sectors (VariogramOptions.withDirections), got "
                     + (dirs == null ? "none" : dirs.length));
         }
-        if (replicates < 1 || replicates > 100_000) {
-            throw new IllegalArgumentException("replicates must be in [1, 100000], got " + replicates);
-        }
+        PredictiveDistribution.checkReplicates(replicates);
         FieldSimulator sim = FieldSimulator.of(kriging);
         double[] res = sim.dataResiduals();
         double[] shape = SymmetricEigen.shape(res, kriging.size(), kriging.dimension());

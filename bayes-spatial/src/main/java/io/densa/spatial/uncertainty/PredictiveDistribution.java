@@ -379,6 +379,13 @@ public final class PredictiveDistribution {
         return factor;
     }
 
+    /** Checks the number B of simulated fields of a model check: in [1, 100000]. */
+    static void checkReplicates(int replicates) {
+        if (replicates < 1 || replicates > 100_000) {
+            throw new IllegalArgumentException("replicates must be in [1, 100000], got " + replicates);
+        }
+    }
+
     /**
      * The Monte Carlo p-value (1 + #{T* ≥ observed}) / (1 + B) of the model checks: B fields
      * simulated at the data locations with the shape factor (K × r, row-major), replicate b from

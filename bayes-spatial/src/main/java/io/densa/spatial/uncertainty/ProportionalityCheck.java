@@ -115,9 +115,7 @@ public record ProportionalityCheck(double[] shares, double[] lags, double[][] ra
             throw new IllegalArgumentException("directions must be in [1, " + pd.rank() + "] (the shape's rank), got "
                     + directions);
         }
-        if (replicates < 1 || replicates > 100_000) {
-            throw new IllegalArgumentException("replicates must be in [1, 100000], got " + replicates);
-        }
+        PredictiveDistribution.checkReplicates(replicates);
         Kriging kr = pd.kriging();
         FieldSimulator sim = FieldSimulator.of(kr);
         Stat observed = statistic(kr.locations(), sim.dataResiduals(), kr.dimension(), options, directions);
