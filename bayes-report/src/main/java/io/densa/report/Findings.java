@@ -266,7 +266,9 @@ public final class Findings {
         return named.size() + " of " + ids.size() + " units' counts look clipped at a detection limit (a run of empty"
                 + " bins at an end of the range followed by a spike): " + list(named, listed) + ". If their values"
                 + " were recorded at the limit there, declare the limits (DetectionLimits) so that those counts enter"
-                + " the estimate as censored; a quantity with a hard bound of its own looks the same.";
+                + " the estimate as censored (by default the estimator already reads the empty ends of units with at"
+                + " least " + Numbers.significant(DetectionLimits.DENSE_EVENTS_PER_BIN, 3) + " events per bin so); a"
+                + " quantity with a hard bound of its own looks the same.";
     }
 
     /**
