@@ -33,11 +33,12 @@ public final class EstimatorSpec implements Serializable {
     private final double tolerance; // NaN: default
     private final int points; // -1: default
     private final ZeroTotalPolicy zeroTotal;
+    private final PenalizedLikelihoodEstimator.EmptyEnds emptyEnds; // null: default
     private final PerJvm<PenalizedLikelihoodEstimator> estimator = new PerJvm<>();
 
     private EstimatorSpec(SpaceSpec space, double[] edges, int penaltyOrder, double smoothing,
             SmoothingCriterion criterion, double[] grid, double priorWeight, int maxIterations, double tolerance,
-            int points, ZeroTotalPolicy zeroTotal) {
+            int points, ZeroTotalPolicy zeroTotal, PenalizedLikelihoodEstimator.EmptyEnds emptyEnds) {
         this.space = space;
         this.edges = edges;
         this.penaltyOrder = penaltyOrder;
@@ -49,6 +50,7 @@ public final class EstimatorSpec implements Serializable {
         this.tolerance = tolerance;
         this.points = points;
         this.zeroTotal = zeroTotal;
+        this.emptyEnds = emptyEnds;
         build(); // validates on the driver
     }
 
@@ -64,12 +66,12 @@ public final class EstimatorSpec implements Serializable {
         Objects.requireNonNull(edges, "edges");
         Bins.of(edges).checkAgainst(space.space());
         return new EstimatorSpec(space, edges.clone(), 0, Double.NaN, null, null,
-                PenalizedLikelihoodEstimator.DEFAULT_PRIOR_WEIGHT, 0, Double.NaN, -1, null);
+                PenalizedLikelihoodEstimator.DEFAULT_PRIOR_WEIGHT, 0, Double.NaN, -1, null, null);
     }
 
     private EstimatorSpec copy(int order, double lambda, SmoothingCriterion c, double[] g, double prior, int maxIt,
             double tol, int pts, ZeroTotalPolicy zt) {
-        return new EstimatorSpec(space, edges, order, lambda, c, g, prior, maxIt, tol, pts, zt);
+        return new EstimatorSpec(space, edges, order, lambda, c, g, prior, maxIt, tol, pts, zt, emptyEnds);
     }
 
     /** See {@link PenalizedLikelihoodEstimator#withPenaltyOrder}. */
@@ -126,6 +128,13 @@ public final class EstimatorSpec implements Serializable {
     public EstimatorSpec withZeroTotal(ZeroTotalPolicy policy) {
         Objects.requireNonNull(policy, "policy");
         return copy(penaltyOrder, smoothing, criterion, grid, priorWeight, maxIterations, tolerance, points, policy);
+    }
+
+    /** See {@link PenalizedLikelihoodEstimator#withEmptyEnds}. */
+    public EstimatorSpec withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds reading) {
+        Objects.requireNonNull(reading, "reading");
+        return new EstimatorSpec(space, edges, penaltyOrder, smoothing, criterion, grid, priorWeight, maxIterations,
+                tolerance, points, zeroTotal, reading);
     }
 
     /** The space definition. */
@@ -188,6 +197,9 @@ public final class EstimatorSpec implements Serializable {
         }
         if (zeroTotal != null) {
             e = e.withZeroTotal(zeroTotal);
+        }
+        if (emptyEnds != null) {
+            e = e.withEmptyEnds(emptyEnds);
         }
         return e.withFractionalCounts(true).withParallel(false);
     }

@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.estimate.BatchEstimate;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator;
 import io.densa.core.BayesSpace;
 import io.densa.core.estimate.EstimationDiagnostics;
 import io.densa.io.Bins;
@@ -137,6 +138,45 @@ class SparkDensitiesTest {
         for (int i = 0; i < ids.length; i++) {
             assertArrayEquals(local.densities().get(i).coordinates(), SparkRows.doubles(out.get(i), 1), 0.0, ids[i]);
         }
+    }
+
+    /**
+     * The reading of empty end runs travels with the spec: a dense unit with empty ends (censored by
+     * default) and a sparse one, bit for bit the single-machine fits under the default and under
+     * {@code COUNTED}, and the two readings differ for the dense unit.
+     */
+    @Test
+    void emptyEndsReadingTravelsWithTheSpec() {
+        double[][] c = new double[2][20];
+        for (int j = 4; j < 15; j++) {
+            c[0][j] = 100 + 40 * (j % 3); // 1,540 events, 4 empty bins below and 5 above
+            c[1][j] = j % 2; // 5 events: sparse
+        }
+        String[] ids = {"dense", "sparse"};
+        List<Row> rows = new ArrayList<>();
+        for (int u = 0; u < 2; u++) {
+            for (int j = 0; j < 20; j++) {
+                if (c[u][j] > 0) {
+                    rows.add(RowFactory.create(ids[u], j, (long) c[u][j]));
+                }
+            }
+        }
+        EstimatorSpec byDefault = EstimatorSpec.of(SpaceSpec.of(SPACE), EDGES).withSmoothing(0.5);
+        EstimatorSpec counted = byDefault.withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.COUNTED);
+        double[][] got = new double[2][];
+        for (EstimatorSpec spec : new EstimatorSpec[] {byDefault, counted}) {
+            BatchEstimate local = spec.estimator().fitAll(EDGES, c, ids);
+            List<Row> out = SparkDensities.of(spec).fromCounts(frame(rows, COUNTS, 2)).orderBy("unit").collectAsList();
+            for (int i = 0; i < 2; i++) {
+                assertArrayEquals(local.densities().get(i).coordinates(), SparkRows.doubles(out.get(i), 1), 0.0, ids[i]);
+            }
+            got[spec == byDefault ? 0 : 1] = local.densities().get(0).coordinates();
+        }
+        double gap = 0;
+        for (int k = 0; k < got[0].length; k++) {
+            gap = Math.max(gap, Math.abs(got[0][k] - got[1][k]));
+        }
+        org.junit.jupiter.api.Assertions.assertTrue(gap > 0.01, "the readings differ for the dense unit by " + gap);
     }
 
     @Test
