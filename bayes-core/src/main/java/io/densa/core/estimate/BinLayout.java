@@ -1,6 +1,7 @@
 package io.densa.core.estimate;
 
 import io.densa.core.BayesSpace;
+import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.GaussLegendre;
 import io.densa.core.internal.RawBasis;
 import java.util.Arrays;
@@ -214,6 +215,50 @@ final class BinLayout {
         }
         cellStart[to - from + 1] = bins;
         return new BinLayout(this, cellEdges, cellStart);
+    }
+
+    /**
+     * K × D map (row-major) from log(n_j + 1/2) to starting raw coefficients, with the constant
+     * part for the bin widths and reference into constOut: the raw-coefficient part of the
+     * least-squares fit of [1, φ(x_j)] to the log heights with penalty 10⁻³ tr(X'X)/tr(P) · P.
+     */
+    double[] startMap(BayesSpace space, RawBasis raw, double[] rawPenalty, double[] constOut) {
+        int d = bins, p = k + 1;
+        double[] x = new double[d * p];
+        double[] off = new double[d];
+        double[] row = new double[k];
+        for (int j = 0; j < d; j++) {
+            double mid = 0.5 * (edges[j] + edges[j + 1]);
+            raw.evalDense(mid, row);
+            x[j * p] = 1.0;
+            System.arraycopy(row, 0, x, j * p + 1, k);
+            off[j] = -Math.log((edges[j + 1] - edges[j]) * space.referenceDensity(mid));
+        }
+        double[] a = EstimationSupport.crossProduct(x, d, p);
+        double trX = EstimationSupport.trace(a, p), trP = EstimationSupport.trace(rawPenalty, k);
+        double mu = trP > 0 ? 1e-3 * trX / trP : 0.0;
+        for (int r = 0; r < k; r++) {
+            for (int c = 0; c < k; c++) {
+                a[(r + 1) * p + c + 1] += mu * rawPenalty[r * k + c];
+            }
+        }
+        for (int r = 0; r < p; r++) {
+            a[r * p + r] += 1e-9 * trX / p;
+        }
+        if (Cholesky.factor(a, p, p, 0) >= 0) {
+            return null; // zero start
+        }
+        double[] map = new double[k * d];
+        double[] col = new double[p];
+        for (int j = 0; j < d; j++) {
+            System.arraycopy(x, j * p, col, 0, p);
+            Cholesky.solve(a, p, p, col, 0);
+            for (int i = 0; i < k; i++) {
+                map[i * d + j] = col[i + 1];
+                constOut[i] += col[i + 1] * off[j];
+            }
+        }
+        return map;
     }
 
     private static int pointsFor(double width, int points, double narrow) {

@@ -3,6 +3,7 @@ package io.densa.core.estimate;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
 import io.densa.core.internal.Kernels;
+import io.densa.core.internal.ProgressCounter;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.LinkedHashMap;
@@ -332,7 +333,7 @@ public record DetectionLimits(double[] lower, double[] upper) {
         /** Fits the plain rows (given by index) every bin as recorded, in one batch. */
         @FunctionalInterface
         private interface PlainFit {
-            BatchEstimate fit(double[] e, int[] rows, String[] ids);
+            BatchEstimate fit(double[] e, int[] rows, String[] ids, ProgressCounter done);
         }
 
         /** Units with empty end runs read as censored where the estimator's setting says so. */
@@ -368,24 +369,24 @@ public record DetectionLimits(double[] lower, double[] upper) {
                     c[j] = r[j];
                 }
                 return c;
-            }, (e, rows, sub) -> {
+            }, (e, rows, sub, done) -> {
                 int[][] part = new int[rows.length][];
                 for (int r = 0; r < rows.length; r++) {
                     part[r] = counts[rows[r]];
                 }
-                return est.penalizedFit().counts(e, part, sub);
+                return est.penalizedFit().counts(e, part, sub, done);
             });
         }
 
         /** Units of counts given as doubles; see {@link #fitAll(PenalizedLikelihoodEstimator, double[], int[][], String[], DetectionLimits)}. */
         static BatchEstimate fitAll(PenalizedLikelihoodEstimator est, double[] edges, double[][] counts, String[] ids,
                 DetectionLimits limits) {
-            return fit(est, edges, counts.length, ids, limits, i -> counts[i], (e, rows, sub) -> {
+            return fit(est, edges, counts.length, ids, limits, i -> counts[i], (e, rows, sub, done) -> {
                 double[][] part = new double[rows.length][];
                 for (int r = 0; r < rows.length; r++) {
                     part[r] = counts[rows[r]];
                 }
-                return est.penalizedFit().counts(e, part, sub);
+                return est.penalizedFit().counts(e, part, sub, done);
             });
         }
 
@@ -467,13 +468,14 @@ public record DetectionLimits(double[] lower, double[] upper) {
             double[] out = new double[n * k];
             EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
             PenalizedFit.Prepared shared = groups.isEmpty() ? null : fit.prepare(e);
+            ProgressCounter done = fit.progressOf(n); // one task over every batch
             if (!plainRows.isEmpty()) {
                 int[] idx = plainRows.stream().mapToInt(Integer::intValue).toArray();
                 String[] subIds = new String[idx.length];
                 for (int r = 0; r < idx.length; r++) {
                     subIds[r] = EstimationSupport.id(ids, idx[r]);
                 }
-                collect(plain.fit(e, idx, subIds), idx, k, out, diag);
+                collect(plain.fit(e, idx, subIds, done), idx, k, out, diag);
             }
             // groups in parallel (each writes its own rows), each group's batch as the plain batch
             List<Map.Entry<Long, List<Integer>>> list = new ArrayList<>(groups.entrySet());
@@ -504,7 +506,8 @@ public record DetectionLimits(double[] lower, double[] upper) {
                 }
                 // the merged cells of the shared layout where its bins reach the censored ends, else own cells
                 boolean view = (lo < 0 || e[0] == space.lower()) && (hi >= d || e[d] == space.upper());
-                collect(view ? fit.countsOn(merged(shared, k, lo, hi, me), cells, subIds) : est.penalizedFit().counts(me, cells, subIds),
+                collect(view ? fit.countsOn(merged(shared, k, lo, hi, me), cells, subIds, done)
+                        : fit.counts(me, cells, subIds, done),
                         idx, k, out, diag);
             });
             String[] idCopy = ids == null ? null : ids.clone();

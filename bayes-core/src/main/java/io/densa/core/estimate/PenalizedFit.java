@@ -6,7 +6,6 @@ import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
 import io.densa.core.SolveDiagnostics;
 import io.densa.core.estimate.EstimationSupport.SampleData;
-import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.RawBasis;
@@ -86,9 +85,14 @@ final class PenalizedFit {
 
     /** Fits units of whole counts (validated here; see {@link PenalizedLikelihoodEstimator#fitAll(double[], int[][], String[])}). */
     BatchEstimate counts(double[] edges, int[][] counts, String[] ids) {
+        return counts(edges, counts, ids, null);
+    }
+
+    /** {@link #counts(double[], int[][], String[])} reporting to a shared counter (null: its own). */
+    BatchEstimate counts(double[] edges, int[][] counts, String[] ids, ProgressCounter shared) {
         double[] e = EstimationSupport.checkEdges(space, edges);
         double[] totals = checkCounts(e, counts, ids);
-        return runCounts(e, counts.length, ids, totals, (i, dst) -> {
+        return runCounts(prepare(e), counts.length, ids, totals, shared, (i, dst) -> {
             int[] r = counts[i];
             for (int j = 0; j < r.length; j++) {
                 dst[j] = r[j];
@@ -98,9 +102,15 @@ final class PenalizedFit {
 
     /** Fits units of counts given as doubles (validated here). */
     BatchEstimate counts(double[] edges, double[][] counts, String[] ids) {
+        return counts(edges, counts, ids, null);
+    }
+
+    /** {@link #counts(double[], double[][], String[])} reporting to a shared counter (null: its own). */
+    BatchEstimate counts(double[] edges, double[][] counts, String[] ids, ProgressCounter shared) {
         double[] e = EstimationSupport.checkEdges(space, edges);
         double[] totals = checkCounts(e, counts, ids);
-        return runCounts(e, counts.length, ids, totals, (i, dst) -> System.arraycopy(counts[i], 0, dst, 0, dst.length));
+        return runCounts(prepare(e), counts.length, ids, totals, shared,
+                (i, dst) -> System.arraycopy(counts[i], 0, dst, 0, dst.length));
     }
 
     /** Raw K × K matrix of the reference prior of weight w: (w / (2 P(I))) c'c with c = U β, i.e. (w / (2 P(I))) U'U. */
@@ -189,11 +199,11 @@ final class PenalizedFit {
     Prepared prepare(double[] e) {
         BinLayout lay = new BinLayout(space, e, points);
         double[] startConst = new double[k];
-        return new Prepared(lay, startMap(lay, startConst), startConst);
+        return new Prepared(lay, lay.startMap(space, raw, rawPenalty, startConst), startConst);
     }
 
     /** Fits units of counts validated by the caller (or censored cells' sums of them), one per bin of p's layout. */
-    BatchEstimate countsOn(Prepared p, double[][] counts, String[] ids) {
+    BatchEstimate countsOn(Prepared p, double[][] counts, String[] ids, ProgressCounter shared) {
         double[] totals = new double[counts.length];
         for (int i = 0; i < counts.length; i++) {
             double t = 0;
@@ -202,14 +212,17 @@ final class PenalizedFit {
             }
             totals[i] = t;
         }
-        return runCounts(p, counts.length, ids, totals, (i, dst) -> System.arraycopy(counts[i], 0, dst, 0, dst.length));
+        return runCounts(p, counts.length, ids, totals, shared,
+                (i, dst) -> System.arraycopy(counts[i], 0, dst, 0, dst.length));
     }
 
-    private BatchEstimate runCounts(double[] edges, int n, String[] ids, double[] totals, RowSource rows) {
-        return runCounts(prepare(edges), n, ids, totals, rows);
+    /** A progress counter of n units of this fit's task, to share among batches. */
+    ProgressCounter progressOf(int n) {
+        return new ProgressCounter(progress, PenalizedLikelihoodEstimator.PROGRESS_TASK, n);
     }
 
-    private BatchEstimate runCounts(Prepared p, int n, String[] ids, double[] totals, RowSource rows) {
+    private BatchEstimate runCounts(Prepared p, int n, String[] ids, double[] totals, ProgressCounter shared,
+            RowSource rows) {
         BinLayout lay = p.lay();
         double scale = scale(lay, true);
         double[] startConst = p.startConst();
@@ -217,7 +230,7 @@ final class PenalizedFit {
         double[] out = new double[n * k];
         EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
-        ProgressCounter done = new ProgressCounter(progress, PenalizedLikelihoodEstimator.PROGRESS_TASK, n);
+        ProgressCounter done = shared != null ? shared : progressOf(n);
         Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
             PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
             eng.setCoordinateMap(u);
@@ -343,50 +356,6 @@ final class PenalizedFit {
         double tf = eng.fisherTrace();
         double tp = EstimationSupport.trace(rawPenalty, k);
         return tf > 0 && tp > 0 ? tf / tp : 1.0;
-    }
-
-    /**
-     * K × D map (row-major) from log(n_j + 1/2) to starting raw coefficients, with the constant
-     * part for the bin widths and reference into constOut: the raw-coefficient part of the
-     * least-squares fit of [1, φ(x_j)] to the log heights with penalty 10⁻³ tr(X'X)/tr(P) · P.
-     */
-    private double[] startMap(BinLayout lay, double[] constOut) {
-        int d = lay.bins, p = k + 1;
-        double[] x = new double[d * p];
-        double[] off = new double[d];
-        double[] row = new double[k];
-        for (int j = 0; j < d; j++) {
-            double mid = 0.5 * (lay.edges[j] + lay.edges[j + 1]);
-            raw.evalDense(mid, row);
-            x[j * p] = 1.0;
-            System.arraycopy(row, 0, x, j * p + 1, k);
-            off[j] = -Math.log((lay.edges[j + 1] - lay.edges[j]) * space.referenceDensity(mid));
-        }
-        double[] a = EstimationSupport.crossProduct(x, d, p);
-        double trX = EstimationSupport.trace(a, p), trP = EstimationSupport.trace(rawPenalty, k);
-        double mu = trP > 0 ? 1e-3 * trX / trP : 0.0;
-        for (int r = 0; r < k; r++) {
-            for (int c = 0; c < k; c++) {
-                a[(r + 1) * p + c + 1] += mu * rawPenalty[r * k + c];
-            }
-        }
-        for (int r = 0; r < p; r++) {
-            a[r * p + r] += 1e-9 * trX / p;
-        }
-        if (Cholesky.factor(a, p, p, 0) >= 0) {
-            return null; // zero start
-        }
-        double[] map = new double[k * d];
-        double[] col = new double[p];
-        for (int j = 0; j < d; j++) {
-            System.arraycopy(x, j * p, col, 0, p);
-            Cholesky.solve(a, p, p, col, 0);
-            for (int i = 0; i < k; i++) {
-                map[i * d + j] = col[i + 1];
-                constOut[i] += col[i + 1] * off[j];
-            }
-        }
-        return map;
     }
 
     private EstimationDiagnostics fitUnit(PenalizedNewton eng, double scale, String id, int index, double[] out,

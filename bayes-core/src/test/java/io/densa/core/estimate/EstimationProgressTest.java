@@ -71,6 +71,20 @@ class EstimationProgressTest {
             assertArrayEquals(plain.densities().coordinatesRowMajor(), withListener.densities().coordinatesRowMajor());
             assertEquals(plain.diagnostics(), withListener.diagnostics());
         }
+        // dense units with empty ends, read as censored in batches of their own: still one task to n
+        int[][] dense = new int[40][25];
+        for (int i = 0; i < dense.length; i++) {
+            for (int j = 3 + i % 4; j < 22; j++) {
+                dense[i][j] = 20 + (i * 7 + j * 13) % 30;
+            }
+        }
+        for (boolean par : new boolean[] {true, false}) {
+            Recorder rec = new Recorder();
+            BatchEstimate withListener = est.withParallel(par).withProgressListener(rec).fitAll(edges(0, 1, 25), dense, null);
+            rec.check(PenalizedLikelihoodEstimator.PROGRESS_TASK, dense.length);
+            assertArrayEquals(est.fitAll(edges(0, 1, 25), dense, null).densities().coordinatesRowMajor(),
+                    withListener.densities().coordinatesRowMajor());
+        }
         // raw samples
         Truth truth = EstimationTestSupport.normal();
         RandomGenerator r = rng(4);
