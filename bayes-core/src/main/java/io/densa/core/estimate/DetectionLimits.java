@@ -11,6 +11,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.Objects;
 import java.util.function.IntFunction;
+import java.util.function.IntToDoubleFunction;
 
 /**
  * Per-unit detection limits of binned data: a unit with a lower limit L recorded every value below
@@ -157,27 +158,38 @@ public record DetectionLimits(double[] lower, double[] upper) {
         double[] lo = null;
         double[] hi = null;
         for (int i = 0; i < n; i++) {
-            if (!(totals[i] >= minTotal)) {
-                continue;
-            }
-            int first = 0;
-            while (first < d && !occupied.test(i, first)) {
-                first++;
-            }
-            int last = d - 1;
-            while (last >= 0 && !occupied.test(i, last)) {
-                last--;
-            }
-            if (first < last && (first >= EMPTY_END_RUN || d - 1 - last >= EMPTY_END_RUN)) {
+            int[] run = totals[i] >= minTotal ? runBins(occupied, i, d) : null;
+            if (run != null) {
                 if (lo == null) {
                     lo = nans(n);
                     hi = nans(n);
                 }
-                lo[i] = first >= EMPTY_END_RUN ? e[first] : Double.NaN;
-                hi[i] = d - 1 - last >= EMPTY_END_RUN ? e[last] : Double.NaN;
+                lo[i] = run[0] >= 0 ? e[run[0]] : Double.NaN;
+                hi[i] = run[1] < d ? e[run[1]] : Double.NaN;
             }
         }
         return lo == null ? null : new DetectionLimits(lo, hi);
+    }
+
+    /**
+     * The bins holding the limits of unit i's empty end runs over d bins, {lo, hi}: lo the first
+     * occupied bin if at least {@link #EMPTY_END_RUN} empty bins lie below it, else −1; hi the last
+     * occupied bin if at least that many lie above it, else d. Null when neither end has a run or
+     * the unit has fewer than two occupied bins.
+     */
+    static int[] runBins(Occupied occupied, int i, int d) {
+        int first = 0;
+        while (first < d && !occupied.test(i, first)) {
+            first++;
+        }
+        int last = d - 1;
+        while (last >= 0 && !occupied.test(i, last)) {
+            last--;
+        }
+        boolean two = first < last;
+        int lo = two && first >= EMPTY_END_RUN ? first : -1;
+        int hi = two && d - 1 - last >= EMPTY_END_RUN ? last : d;
+        return lo < 0 && hi >= d ? null : new int[] {lo, hi};
     }
 
     private static double[] nans(int n) {
@@ -215,6 +227,12 @@ public record DetectionLimits(double[] lower, double[] upper) {
                             + "; counts must be finite and >= 0");
                 }
             }
+            if (!spikeTest) {
+                int[] run = runBins((u, j) -> c[j] > 0, i, d);
+                lo[i] = run != null && run[0] >= 0 ? edges[run[0]] : Double.NaN;
+                hi[i] = run != null && run[1] < d ? edges[run[1]] : Double.NaN;
+                continue;
+            }
             int first = 0;
             while (first < d && !(c[first] > 0)) {
                 first++;
@@ -222,12 +240,6 @@ public record DetectionLimits(double[] lower, double[] upper) {
             int last = d - 1;
             while (last >= 0 && !(c[last] > 0)) {
                 last--;
-            }
-            if (!spikeTest) {
-                boolean two = first < last;
-                lo[i] = two && first >= EMPTY_END_RUN ? edges[first] : Double.NaN;
-                hi[i] = two && d - 1 - last >= EMPTY_END_RUN ? edges[last] : Double.NaN;
-                continue;
             }
             lo[i] = first >= 2 && first + 1 < d && spike(c[first], c[first + 1]) ? edges[first] : Double.NaN;
             hi[i] = last >= 1 && last <= d - 3 && spike(c[last], c[last - 1]) ? edges[last] : Double.NaN;
@@ -369,7 +381,13 @@ public record DetectionLimits(double[] lower, double[] upper) {
                     c[j] = r[j];
                 }
                 return c;
-            }, (e, rows, sub, done) -> {
+            }, i -> {
+                long t = 0;
+                for (int v : counts[i]) {
+                    t += v;
+                }
+                return t;
+            }, (i, j) -> counts[i][j] != 0, (e, rows, sub, done) -> {
                 int[][] part = new int[rows.length][];
                 for (int r = 0; r < rows.length; r++) {
                     part[r] = counts[rows[r]];
@@ -381,7 +399,13 @@ public record DetectionLimits(double[] lower, double[] upper) {
         /** Units of counts given as doubles; see {@link #fitAll(PenalizedLikelihoodEstimator, double[], int[][], String[], DetectionLimits)}. */
         static BatchEstimate fitAll(PenalizedLikelihoodEstimator est, double[] edges, double[][] counts, String[] ids,
                 DetectionLimits limits) {
-            return fit(est, edges, counts.length, ids, limits, i -> counts[i], (e, rows, sub, done) -> {
+            return fit(est, edges, counts.length, ids, limits, i -> counts[i], i -> {
+                double t = 0;
+                for (double v : counts[i]) {
+                    t += v;
+                }
+                return t;
+            }, (i, j) -> counts[i][j] > 0, (e, rows, sub, done) -> {
                 double[][] part = new double[rows.length][];
                 for (int r = 0; r < rows.length; r++) {
                     part[r] = counts[rows[r]];
@@ -390,8 +414,15 @@ public record DetectionLimits(double[] lower, double[] upper) {
             });
         }
 
+        /**
+         * row(i): unit i's counts as doubles (a copy for integer counts; called for units with a
+         * declared limit and for censored units only); totalOf and occupied: its total and whether a
+         * bin holds events, read only for rows already checked (every row when empty ends may be
+         * censored: the estimator checks them all first).
+         */
         private static BatchEstimate fit(PenalizedLikelihoodEstimator est, double[] edges, int n, String[] ids,
-                DetectionLimits limits, IntFunction<double[]> row, PlainFit plain) {
+                DetectionLimits limits, IntFunction<double[]> row, IntToDoubleFunction totalOf, Occupied occupied,
+                PlainFit plain) {
             PenalizedFit fit = est.penalizedFit();
             BayesSpace space = est.space();
             if (space.isPeriodic()) {
@@ -414,54 +445,33 @@ public record DetectionLimits(double[] lower, double[] upper) {
             double[][] rows = new double[n][];
             for (int i = 0; i < n; i++) {
                 boolean declared = limits.censored(i);
-                if (!declared && !(minTotal < Double.POSITIVE_INFINITY)) {
+                if (!declared && minTotal == Double.POSITIVE_INFINITY) {
                     plainRows.add(i);
                     continue;
                 }
                 String unit = EstimationSupport.unit(ids, i);
-                double[] c = row.apply(i);
-                if (c == null || c.length != d) {
-                    throw new IllegalArgumentException(unit + ": " + (c == null ? "counts are null" : c.length
-                            + " counts for " + d + " bins"));
-                }
-                for (int j = 0; j < d; j++) {
-                    if (!(c[j] >= 0)) {
-                        throw new IllegalArgumentException(unit + ": count " + c[j] + " in bin " + EstimationSupport.bin(e, j)
-                                + " is negative; counts must be ≥ 0");
-                    }
+                double[] c = declared ? row.apply(i) : null;
+                if (declared) {
+                    checkRow(c, d, e, unit);
                 }
                 int lo = Double.isNaN(lower[i]) ? -1 : binHolding(e, lower[i], unit, "lower");
                 int hi = Double.isNaN(upper[i]) ? d : binHolding(e, upper[i], unit, "upper");
-                double total = 0;
-                for (double v : c) {
-                    total += v;
-                }
-                boolean runs = total >= minTotal;
                 if (declared && lo >= 0 && hi < d && lo >= hi) {
                     throw new IllegalArgumentException(unit + ": with the detection limits (lower " + lower[i] + ", upper "
                             + upper[i] + ") every bin is censored into one cell: no bin is left to estimate a density from");
                 }
-                if (runs) {
-                    int first = 0;
-                    while (first < d && !(c[first] > 0)) {
-                        first++;
-                    }
-                    int last = d - 1;
-                    while (last >= 0 && !(c[last] > 0)) {
-                        last--;
-                    }
-                    if (lo < 0 && first >= DetectionLimits.EMPTY_END_RUN && first < last && first < hi) {
-                        lo = first;
-                    }
-                    if (hi >= d && d - 1 - last >= DetectionLimits.EMPTY_END_RUN && first < last && last > lo) {
-                        hi = last;
-                    }
+                int[] run = totalOf.applyAsDouble(i) >= minTotal ? runBins(occupied, i, d) : null;
+                if (run != null && lo < 0 && run[0] >= 0 && run[0] < hi) {
+                    lo = run[0]; // an end without a declared limit, read as the setting says
+                }
+                if (run != null && hi >= d && run[1] < d && run[1] > lo) {
+                    hi = run[1];
                 }
                 if (lo < 0 && hi >= d) {
                     plainRows.add(i);
                     continue;
                 }
-                rows[i] = c;
+                rows[i] = c != null ? c : row.apply(i);
                 groups.computeIfAbsent((long) (lo + 1) * (d + 2) + hi, g -> new ArrayList<>()).add(i);
             }
             int k = space.dimension();
@@ -543,6 +553,20 @@ public record DetectionLimits(double[] lower, double[] upper) {
                 }
             }
             return new PenalizedFit.Prepared(m, cellMap, startConst);
+        }
+
+        /** A declared unit's row: D counts ≥ 0. */
+        private static void checkRow(double[] c, int d, double[] e, String unit) {
+            if (c == null || c.length != d) {
+                throw new IllegalArgumentException(unit + ": " + (c == null ? "counts are null" : c.length
+                        + " counts for " + d + " bins"));
+            }
+            for (int j = 0; j < d; j++) {
+                if (!(c[j] >= 0)) {
+                    throw new IllegalArgumentException(unit + ": count " + c[j] + " in bin " + EstimationSupport.bin(e, j)
+                            + " is negative; counts must be ≥ 0");
+                }
+            }
         }
 
         /** Copies the batch's coordinates and diagnostics to the rows idx of out and diag. */
