@@ -307,7 +307,12 @@ class FuzzProperties {
             int c = q.nextInt(8);
             return c < 5 ? q.nextInt(31) : c < 6 ? nonNegative(q) : new double[] {0, 4.9e-324, 6e7, 1e308, 0.5}[q.nextInt(5)];
         });
-        int option = r.nextInt(6);
+        if (r.nextInt(3) == 0) { // an empty run at an end (read as censored under option 6)
+            int from = r.nextBoolean() ? 0 : counts.length - 2;
+            counts[from] = 0;
+            counts[from + 1] = 0;
+        }
+        int option = r.nextInt(7);
         double setting = extreme(r);
         FuzzCheck.context(() -> "estimatorsOnCounts seed=" + seed + " space=" + s + " option=" + option + " setting=" + setting);
         PenalizedLikelihoodEstimator pl = CHECK.run("PL options", () -> configure(
@@ -339,6 +344,8 @@ class FuzzProperties {
                 return e.withTolerance(Math.abs(v)).withMaxIterations(5);
             case 5:
                 return e.withZeroTotal(ZeroTotalPolicy.values()[(int) (Math.abs(v) % ZeroTotalPolicy.values().length)]);
+            case 6:
+                return e.withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.CENSORED);
             default:
                 return e;
         }
