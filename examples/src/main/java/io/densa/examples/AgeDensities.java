@@ -4,6 +4,7 @@ import io.densa.core.BayesSpace;
 import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.estimate.EstimationDiagnostics;
 import io.densa.core.estimate.PenalizedLikelihoodEstimator;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator.EmptyEnds;
 
 /**
  * Age densities from counts by single year of age with Densa's penalised-likelihood estimator
@@ -62,13 +63,14 @@ final class AgeDensities {
         for (int k = 0; k < top; k++) {
             big[k] = counts[order[k]];
         }
-        BatchEstimate est = PenalizedLikelihoodEstimator.withDefaults(space).fitAll(edges, big, null);
+        BatchEstimate est = PenalizedLikelihoodEstimator.withDefaults(space).withEmptyEnds(EmptyEnds.COUNTED).fitAll(edges, big, null);
         double[] lambda = est.diagnostics().stream().mapToDouble(EstimationDiagnostics::smoothing).sorted().toArray();
         return lambda[lambda.length / 2];
     }
 
     static Estimates estimate(BayesSpace space, int[][] counts, String[] ids, double lambda) {
-        BatchEstimate est = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(lambda).fitAll(EDGES, counts, ids);
+        BatchEstimate est = PenalizedLikelihoodEstimator.withDefaults(space).withEmptyEnds(EmptyEnds.COUNTED).withSmoothing(lambda)
+                .fitAll(EDGES, counts, ids);
         return Estimates.of(est);
     }
 }

@@ -3,6 +3,7 @@ package io.densa.examples;
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
 import io.densa.core.estimate.PenalizedLikelihoodEstimator;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator.EmptyEnds;
 import io.densa.io.Bins;
 import io.densa.io.tables.BulkObservations;
 import io.densa.io.tables.CountTable;
@@ -73,7 +74,8 @@ public final class BackendExample {
             }
         }
         double lambda = AgeDensities.commonSmoothing(space, bySeason[0]);
-        PenalizedLikelihoodEstimator estimator = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(lambda);
+        PenalizedLikelihoodEstimator estimator = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(lambda)
+                .withEmptyEnds(EmptyEnds.COUNTED); // event counts: every bin as recorded, the same every period
         DensitySet[] seasons = new DensitySet[SEASONS - 1];
         for (int s = 0; s < SEASONS - 1; s++) {
             seasons[s] = estimator.fitAll(AgeDensities.EDGES, bySeason[s], ids).densities();

@@ -5,6 +5,7 @@ import io.densa.core.DensitySet;
 import io.densa.core.estimate.BatchEstimate;
 import io.densa.core.estimate.EstimationDiagnostics;
 import io.densa.core.estimate.PenalizedLikelihoodEstimator;
+import io.densa.core.estimate.PenalizedLikelihoodEstimator.EmptyEnds;
 import io.densa.regression.surveillance.Period;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -115,7 +116,8 @@ final class SeasonWindows {
     }
 
     static Periods estimate(BayesSpace space, int[][][] weekly, String[] ids, double lambda) {
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(lambda);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(lambda)
+                .withEmptyEnds(EmptyEnds.COUNTED); // event counts: every bin as recorded, the same every week
         List<Period> out = new ArrayList<>(weekly.length);
         List<String> problems = new ArrayList<>();
         int first = firstWeek();

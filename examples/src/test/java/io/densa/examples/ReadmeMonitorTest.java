@@ -41,7 +41,8 @@ public class ReadmeMonitorTest {
             ids[i] = "D" + i;
             centre[i] = 30 + 20 * rng.nextDouble();
         }
-        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(AGES);
+        PenalizedLikelihoodEstimator est = PenalizedLikelihoodEstimator.withDefaults(AGES)
+                .withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.COUNTED);
         List<Period> out = new ArrayList<>();
         for (int t = 0; t < count; t++) {
             int[][] counts = new int[30][18];

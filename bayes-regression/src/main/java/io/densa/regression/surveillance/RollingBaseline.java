@@ -57,6 +57,14 @@ import java.util.Objects;
  * l_1 &lt; … &lt; l_m of the set, so d = 1 + m K + q, and the monitor keeps the densities of the last
  * l_m periods to form them (the first l_m past periods only start the lags).
  *
+ * <h2>Estimating the periods</h2>
+ * Estimate every period's densities with the same estimator settings, and for event counts with
+ * an explicit reading of empty end bins ({@code withEmptyEnds(EmptyEnds.COUNTED)} on the
+ * penalised-likelihood estimator): its default censors the empty ends of units with at least 10
+ * events per bin only, so a unit that crosses that line between periods would change reading, and
+ * its estimate would move by a sizeable fraction of its standard error (0.4–0.8 on average on
+ * invented age profiles of 180–220 events) with nothing changed in the data.
+ *
  * <p>Defaults: 1 lag, no forgetting (φ = 1, every period weighs the same), 4 calibration periods,
  * FDR 0.05, 95 % pointwise bands, ridge 10⁻⁸, 999 bootstrap draws, seed 1, one excess band per count
  * bin. Immutable.
