@@ -519,6 +519,12 @@ public record DetectionLimits(double[] lower, double[] upper) {
                 collect(view ? fit.countsOn(merged(shared, k, lo, hi, me), cells, subIds, done)
                         : fit.counts(me, cells, subIds, done),
                         idx, k, out, diag);
+                String note = "counts read as censored in " + (lo >= 0 ? "[" + me[0] + ", " + me[1] + ")" : "")
+                        + (lo >= 0 && hi < d ? " and " : "") + (hi < d ? "[" + me[me.length - 2] + ", "
+                        + me[me.length - 1] + "]" : "") + " (a detection limit or a run of empty end bins)";
+                for (int i : idx) {
+                    diag[i] = noted(diag[i], note);
+                }
             });
             String[] idCopy = ids == null ? null : ids.clone();
             return new BatchEstimate(DensitySet.ofRowMajor(space, out, n, idCopy), Arrays.asList(diag));
@@ -567,6 +573,14 @@ public record DetectionLimits(double[] lower, double[] upper) {
                             + " is negative; counts must be ≥ 0");
                 }
             }
+        }
+
+        /** d with the note added to its reason (after a "; " when it has one). */
+        private static EstimationDiagnostics noted(EstimationDiagnostics d, String note) {
+            return new EstimationDiagnostics(d.id(), d.status(), d.reason().isEmpty() ? note : d.reason() + "; " + note,
+                    d.smoothing(), d.smoothingChosen(), d.criterion(), d.criterionValue(), d.effectiveDegreesOfFreedom(),
+                    d.logLikelihood(), d.total(), d.iterations(), d.covariance(), d.estimationVariance(),
+                    d.extrapolationShare());
         }
 
         /** Copies the batch's coordinates and diagnostics to the rows idx of out and diag. */

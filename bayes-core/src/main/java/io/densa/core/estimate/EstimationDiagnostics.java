@@ -38,7 +38,10 @@ import org.ejml.data.DMatrixRMaj;
  *                                  penalised information is singular (possible only without the
  *                                  reference prior) the status is {@link Status#NOT_CONVERGED} and
  *                                  the reason says that edf, covariance and criterion were computed
- *                                  with the default reference prior added
+ *                                  with the default reference prior added; a unit whose counts were
+ *                                  read as censored (a declared detection limit, or a run of empty end
+ *                                  bins under the estimator's reading of empty ends) says so and
+ *                                  names the censored cells
  * @param smoothing                 the smoothing parameter λ used (0 for a unit without events)
  * @param smoothingChosen           whether λ was chosen by the criterion (false: fixed by the
  *                                  user, or a unit without events)

@@ -106,6 +106,10 @@ class DetectionLimitsTest {
         BatchEstimate both = est.fitAll(EDGES, new int[][] {dense, sparse}, null);
         assertArrayEquals(declared, both.densities().get(0).coordinates(), 0.0);
         assertArrayEquals(counted.fit(EDGES, sparse).density().coordinates(), both.densities().get(1).coordinates(), 0.0);
+        // the diagnostics say which units were read as censored, and where
+        assertEquals("counts read as censored in [0.0, 4.0) and [7.0, 10.0] (a detection limit or a run of empty end"
+                + " bins)", both.diagnostics().get(0).reason());
+        assertEquals("", both.diagnostics().get(1).reason());
         double[] notCensored = counted.fit(EDGES, dense).density().coordinates();
         double gap = 0;
         for (int k = 0; k < declared.length; k++) {
