@@ -523,7 +523,7 @@ public record DetectionLimits(double[] lower, double[] upper) {
                         + (lo >= 0 && hi < d ? " and " : "") + (hi < d ? "[" + me[me.length - 2] + ", "
                         + me[me.length - 1] + "]" : "") + " (a detection limit or a run of empty end bins)";
                 for (int i : idx) {
-                    diag[i] = noted(diag[i], note);
+                    diag[i] = diag[i].withNote(note);
                 }
             });
             String[] idCopy = ids == null ? null : ids.clone();
@@ -573,14 +573,6 @@ public record DetectionLimits(double[] lower, double[] upper) {
                             + " is negative; counts must be ≥ 0");
                 }
             }
-        }
-
-        /** d with the note added to its reason (after a "; " when it has one). */
-        private static EstimationDiagnostics noted(EstimationDiagnostics d, String note) {
-            return new EstimationDiagnostics(d.id(), d.status(), d.reason().isEmpty() ? note : d.reason() + "; " + note,
-                    d.smoothing(), d.smoothingChosen(), d.criterion(), d.criterionValue(), d.effectiveDegreesOfFreedom(),
-                    d.logLikelihood(), d.total(), d.iterations(), d.covariance(), d.estimationVariance(),
-                    d.extrapolationShare());
         }
 
         /** Copies the batch's coordinates and diagnostics to the rows idx of out and diag. */

@@ -168,4 +168,11 @@ public record EstimationDiagnostics(String id, Status status, String reason, dou
                 + "=" + criterionValue + ", edf=" + effectiveDegreesOfFreedom + ", iterations=" + iterations
                 + ", variance=" + estimationVariance + ", extrapolationShare=" + extrapolationShare + "]";
     }
+
+    /** These diagnostics with the note added to the reason (after a "; " when it has one). */
+    EstimationDiagnostics withNote(String note) {
+        return new EstimationDiagnostics(id, status, reason.isEmpty() ? note : reason + "; " + note, smoothing,
+                smoothingChosen, criterion, criterionValue, effectiveDegreesOfFreedom, logLikelihood, total, iterations,
+                covariance, estimationVariance, extrapolationShare);
+    }
 }
