@@ -355,7 +355,7 @@ public record DetectionLimits(double[] lower, double[] upper) {
             double[] totals = fit.checkCounts(e, counts, ids);
             DetectionLimits runs = DetectionLimits.emptyEndsOrNull(e, counts.length, (i, j) -> counts[i][j] != 0, totals,
                     est.emptyEndMinTotal(e.length - 1));
-            return runs == null ? fit.counts(edges, counts, ids) : fitAll(est, e, counts, ids, runs);
+            return runs == null ? fit.checked(fit.prepare(e), counts, ids, totals, null) : fitAll(est, e, counts, ids, runs);
         }
 
         /** See {@link #emptyEnds(PenalizedLikelihoodEstimator, PenalizedFit, double[], int[][], String[])}. */
@@ -365,7 +365,7 @@ public record DetectionLimits(double[] lower, double[] upper) {
             double[] totals = fit.checkCounts(e, counts, ids);
             DetectionLimits runs = DetectionLimits.emptyEndsOrNull(e, counts.length, (i, j) -> counts[i][j] > 0, totals,
                     est.emptyEndMinTotal(e.length - 1));
-            return runs == null ? fit.counts(edges, counts, ids) : fitAll(est, e, counts, ids, runs);
+            return runs == null ? fit.checked(fit.prepare(e), counts, ids, totals, null) : fitAll(est, e, counts, ids, runs);
         }
 
         /** Units of whole-number counts, with declared limits (or the limits of their empty ends). */

@@ -91,8 +91,12 @@ final class PenalizedFit {
     /** {@link #counts(double[], int[][], String[])} reporting to a shared counter (null: its own). */
     BatchEstimate counts(double[] edges, int[][] counts, String[] ids, ProgressCounter shared) {
         double[] e = EstimationSupport.checkEdges(space, edges);
-        double[] totals = checkCounts(e, counts, ids);
-        return runCounts(prepare(e), counts.length, ids, totals, shared, (i, dst) -> {
+        return checked(prepare(e), counts, ids, checkCounts(e, counts, ids), shared);
+    }
+
+    /** Fits units of whole counts already checked ({@link #checkCounts}) against p's layout, with their totals. */
+    BatchEstimate checked(Prepared p, int[][] counts, String[] ids, double[] totals, ProgressCounter shared) {
+        return runCounts(p, counts.length, ids, totals, shared, (i, dst) -> {
             int[] r = counts[i];
             for (int j = 0; j < r.length; j++) {
                 dst[j] = r[j];
@@ -108,8 +112,12 @@ final class PenalizedFit {
     /** {@link #counts(double[], double[][], String[])} reporting to a shared counter (null: its own). */
     BatchEstimate counts(double[] edges, double[][] counts, String[] ids, ProgressCounter shared) {
         double[] e = EstimationSupport.checkEdges(space, edges);
-        double[] totals = checkCounts(e, counts, ids);
-        return runCounts(prepare(e), counts.length, ids, totals, shared,
+        return checked(prepare(e), counts, ids, checkCounts(e, counts, ids), shared);
+    }
+
+    /** Fits units of counts given as doubles already checked against p's layout, with their totals. */
+    BatchEstimate checked(Prepared p, double[][] counts, String[] ids, double[] totals, ProgressCounter shared) {
+        return runCounts(p, counts.length, ids, totals, shared,
                 (i, dst) -> System.arraycopy(counts[i], 0, dst, 0, dst.length));
     }
 
@@ -212,8 +220,7 @@ final class PenalizedFit {
             }
             totals[i] = t;
         }
-        return runCounts(p, counts.length, ids, totals, shared,
-                (i, dst) -> System.arraycopy(counts[i], 0, dst, 0, dst.length));
+        return checked(p, counts, ids, totals, shared);
     }
 
     /** A progress counter of n units of this fit's task, to share among batches. */
