@@ -434,4 +434,59 @@ final class BinLayout {
         a[r3 + 3] += h33;
     }
 
+
+    /** The arrays the passes of {@link io.densa.core.internal.UnitLanes} read (cubic splines: width 4). */
+    io.densa.core.internal.UnitLanes.Layout lanes() {
+        return new io.densa.core.internal.UnitLanes.Layout(nodes, bins, k + 1, column, runStart, first, weight,
+                binStart, binLo, binHi, oneSpan);
+    }
+
+    /**
+     * Starting coefficients from counts (d bins): β = c + M log(n + 1/2), M (K × d) and c the
+     * start map and constant of {@link #startMap}, into beta (K + 1 values, β_K = 0); logs is
+     * scratch of d values.
+     */
+    static void start(double[] counts, double[] map, double[] constant, int k, double[] logs, double[] beta) {
+        int d = logs.length;
+        for (int j = 0; j < d; j++) {
+            double n = counts[j];
+            int c = (int) n;
+            logs[j] = c == n && c >= 0 && c < LOG_HALF.length ? LOG_HALF[c] : Math.log(n + 0.5);
+        }
+        // four coefficients at a time, each summed in registers over the bins in order (the same
+        // sums as bin by bin into β, without a store and reload per bin)
+        int i = 0;
+        for (; i + 3 < k; i += 4) {
+            int o0 = i * d, o1 = o0 + d, o2 = o1 + d, o3 = o2 + d;
+            double b0 = constant[i], b1 = constant[i + 1], b2 = constant[i + 2], b3 = constant[i + 3];
+            for (int j = 0; j < d; j++) {
+                double lj = logs[j];
+                b0 += map[o0 + j] * lj;
+                b1 += map[o1 + j] * lj;
+                b2 += map[o2 + j] * lj;
+                b3 += map[o3 + j] * lj;
+            }
+            beta[i] = b0;
+            beta[i + 1] = b1;
+            beta[i + 2] = b2;
+            beta[i + 3] = b3;
+        }
+        for (; i < k; i++) {
+            double b = constant[i];
+            for (int j = 0, o = i * d; j < d; j++) {
+                b += map[o + j] * logs[j];
+            }
+            beta[i] = b;
+        }
+        beta[k] = 0.0;
+    }
+
+    /** log(n + 1/2) for the counts n = 0 … 4095 (the same values as computing them each time). */
+    private static final double[] LOG_HALF = new double[4096];
+
+    static {
+        for (int n = 0; n < LOG_HALF.length; n++) {
+            LOG_HALF[n] = Math.log(n + 0.5);
+        }
+    }
 }

@@ -84,11 +84,11 @@ final class CrossValidationFolds {
                 eng.setCounts(train, fullTotal - testTotal[f]);
                 eng.solveForSearch(lambda, maxIterations, searchTolerance);
                 eng.evaluate(lambda);
-                double logZ = Math.log(eng.zScaled());
+                double logZ = Math.log(eng.objective().zScaled());
                 for (int j = 0; j < train.length; j++) {
                     double c = test[f][j];
                     if (c > 0) {
-                        sum -= c * (Math.log(eng.mass(j)) - logZ);
+                        sum -= c * (Math.log(eng.objective().mass(j)) - logZ);
                     }
                 }
             } else {
@@ -103,7 +103,7 @@ final class CrossValidationFolds {
                 for (int j = 0; j < k; j++) {
                     tb += test[f][j] * beta[j];
                 }
-                sum -= tb - testTotal[f] * (eng.shift() + Math.log(eng.zScaled()));
+                sum -= tb - testTotal[f] * (eng.objective().shift() + Math.log(eng.objective().zScaled()));
             }
         }
         // restore the full data and the full fit

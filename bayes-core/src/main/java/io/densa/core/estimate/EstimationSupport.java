@@ -567,4 +567,23 @@ final class EstimationSupport {
             }
         }
     }
+
+    /** ‖U v‖∞ over the first K entries of v (‖v‖∞ when the coordinate map U is null). */
+    static double coordinateNorm(double[] coordinateMap, double[] v, int k) {
+        double m = 0;
+        for (int i = 0; i < k; i++) {
+            double s;
+            if (coordinateMap == null) {
+                s = v[i];
+            } else {
+                s = 0;
+                int o = i * k;
+                for (int j = i; j < k; j++) {
+                    s += coordinateMap[o + j] * v[j];
+                }
+            }
+            m = Math.max(m, Math.abs(s));
+        }
+        return m;
+    }
 }

@@ -9,10 +9,9 @@ import io.densa.core.estimate.EstimationSupport.SampleData;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.RawBasis;
+import io.densa.core.internal.UnitLanes;
 import io.densa.core.internal.RoughnessPenalty;
 import java.util.Arrays;
-import org.ejml.data.DMatrixRMaj;
-import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DDRM;
 
 /**
  * The fitting of {@link PenalizedLikelihoodEstimator} for one configuration: the raw penalty,
@@ -75,7 +74,7 @@ final class PenalizedFit {
         this.domainScale = scale(domain, false);
         this.prior = priorWeight > 0 ? priorMatrix(priorWeight) : null;
         this.unitPrior = priorMatrix(PenalizedLikelihoodEstimator.DEFAULT_PRIOR_WEIGHT);
-        this.search = new SmoothingSearch(s, k, u, rawPenalty, prior, rank(rawPenalty, k));
+        this.search = new SmoothingSearch(s, k, u, rawPenalty, prior, SmoothingSearch.rank(rawPenalty, k));
     }
 
     /** The penalty matrix Ω in the space's coordinates, K × K row-major. */
@@ -135,25 +134,6 @@ final class PenalizedFit {
             }
         }
         return q;
-    }
-
-    /** Numerical rank of a symmetric positive semi-definite K × K matrix (eigenvalues above 10⁻⁹ max). */
-    private static int rank(double[] m, int k) {
-        SymmetricQRAlgorithmDecomposition_DDRM eig = new SymmetricQRAlgorithmDecomposition_DDRM(false);
-        if (!eig.decompose(new DMatrixRMaj(k, k, true, m))) {
-            return k;
-        }
-        double max = 0;
-        for (int i = 0; i < k; i++) {
-            max = Math.max(max, Math.abs(eig.getEigenvalue(i).getReal()));
-        }
-        int r = 0;
-        for (int i = 0; i < k; i++) {
-            if (eig.getEigenvalue(i).getReal() > 1e-9 * max) {
-                r++;
-            }
-        }
-        return r;
     }
 
     /** Checks the ids and every row of whole-number counts against the checked edges e; the totals. */
@@ -238,10 +218,46 @@ final class PenalizedFit {
         EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
         int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
         ProgressCounter done = shared != null ? shared : progressOf(n);
-        Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
+        // at a fixed λ on the vector path, units share the lanes of the quadrature passes (NewtonLanes)
+        UnitLanes lanes = Double.isNaN(fixedLambda) || criterion == SmoothingCriterion.CROSS_VALIDATION
+                || lay.width != 4 ? null : UnitLanes.active();
+        java.util.function.Supplier<PenalizedNewton> engines = () -> {
             PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
             eng.setCoordinateMap(u);
             eng.setStartMap(startMap, startConst);
+            return eng;
+        };
+        if (lanes != null) {
+            int perBlock = UNITS_PER_BLOCK * lanes.lanes();
+            Kernels.forEachBlock((n + perBlock - 1) / perBlock, parallel && n > 1, blk -> {
+                int i0 = blk * perBlock, i1 = Math.min(n, i0 + perBlock);
+                new NewtonLanes(lanes, lay, engines).fit(i0, i1, fixedLambda, maxIterations, tolerance,
+                        new NewtonLanes.Units() {
+                            @Override
+                            public boolean load(int i, PenalizedNewton eng, double[] row) {
+                                if (!(totals[i] > 0)) {
+                                    diag[i] = emptyUnit(EstimationSupport.id(ids, i));
+                                    return false;
+                                }
+                                rows.copy(i, row);
+                                eng.useCounts(row, totals[i]);
+                                eng.startFromCounts();
+                                return true;
+                            }
+
+                            @Override
+                            public void finish(int i, PenalizedNewton eng, boolean converged) {
+                                diag[i] = finishUnit(eng, fixedLambda, converged, false, null,
+                                        new double[] {Double.NaN, Double.NaN}, EstimationSupport.id(ids, i), i, out, null);
+                            }
+                        });
+                done.advance(i1 - i0);
+            });
+            return new BatchEstimate(DensitySet.ofRowMajor(space, out, n, ids == null ? null : ids.clone()),
+                    Arrays.asList(diag));
+        }
+        Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
+            PenalizedNewton eng = engines.get();
             double[] row = new double[lay.bins];
             int i1 = Math.min(n, (blk + 1) * UNITS_PER_BLOCK);
             for (int i = blk * UNITS_PER_BLOCK; i < i1; i++) {
@@ -360,7 +376,7 @@ final class PenalizedFit {
         eng.clearCoefficients();
         eng.evaluate(0.0);
         eng.fisherInformation();
-        double tf = eng.fisherTrace();
+        double tf = eng.objective().fisherTrace();
         double tp = EstimationSupport.trace(rawPenalty, k);
         return tf > 0 && tp > 0 ? tf / tp : 1.0;
     }
@@ -378,14 +394,20 @@ final class PenalizedFit {
         } else {
             lambda = search.choose(eng, scale, cv, found);
         }
-        boolean ok = eng.solve(lambda, maxIterations, tolerance);
+        return finishUnit(eng, lambda, eng.solve(lambda, maxIterations, tolerance), choose, cv, found, id, index, out,
+                sample);
+    }
+
+    /** A unit's fit after its last Newton iteration at λ: covariance, criterion, diagnostics and coordinates. */
+    private EstimationDiagnostics finishUnit(PenalizedNewton eng, double lambda, boolean ok, boolean choose,
+            CrossValidationFolds cv, double[] found, String id, int index, double[] out, SampleData sample) {
         String reason = ok ? "" : eng.failure();
         int iterations = eng.iterations();
         double loglik = eng.logLikelihood();
         double[] cov = new double[k * k];
         // solve leaves the objective evaluated at the final β: no second quadrature pass
         eng.fisherInformation();
-        double edf = eng.sandwich(lambda, u, cov, true);
+        double edf = eng.sandwich(lambda, u, cov, true, null);
         if (Double.isNaN(edf) && prior != null) {
             // J = F + 2λΩ + 2Q is positive definite in exact arithmetic; seen only with absurd fixed λ
             // (1e167), where rounding of 2λΩ swamps the prior in Ω's null space

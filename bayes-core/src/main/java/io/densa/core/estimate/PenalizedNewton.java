@@ -5,27 +5,15 @@ import io.densa.core.internal.Cholesky;
 import java.util.Arrays;
 
 /**
- * Damped Newton maximisation of a penalised log-likelihood in raw basis coefficients, with its
- * working arrays (one instance per thread; nothing is allocated inside the iteration). Internal.
- *
- * <p>With η(x) = φ(x)·β, A_j = ∫_{bin j} e^η dP and Z = Σ_j A_j (all by the layout's quadrature,
- * shifted by max η for log-sum-exp):
- * <ul>
- * <li>binned counts: ℓ(β) = Σ_j n_j log(A_j / Z) (the multinomial log-likelihood of the counts
- * given that an observation falls in the bins);</li>
- * <li>raw samples: ℓ(β) = Σ_i w_i η(x_i) − W log Z = t·β − W log Z with t = Σ_i w_i φ(x_i),
- * W = Σ_i w_i.</li>
- * </ul>
- * The objective is Φ(β) = ℓ(β) − λ β'Pβ − β'Qβ, Q the fixed reference prior (none when null).
- * Gradient ℓ' = t + Σ_q r_q φ_q with
- * r_q = w_q e^{η_q}(n_{j(q)}/A_{j(q)} − N/Z). Observed information (counts)
- * −ℓ'' = N(S/Z − m m') − Σ_j n_j (S_j/A_j − m_j m_j'), m and S the mean and second moment of φ
- * under the density, m_j, S_j within bin j; expected (Fisher) information
- * F = N (Σ_j π_j m_j m_j' − m m'). The step solves (−ℓ'' + 2λP + 2Q) Δ = Φ'; when the observed matrix
- * is not positive definite the Fisher matrix is used (Fisher scoring). Steps are halved until
- * the Armijo condition Φ(β + tΔ) ≥ Φ(β) + 10⁻⁴ t Φ'·Δ holds. The objective and its derivatives
- * are {@link PenalizedObjective}'s, the covariance {@link NewtonCovariance}'s; this class owns the
- * coefficients and the iteration.
+ * Damped Newton maximisation of a penalised log-likelihood Φ(β) = ℓ(β) − λ β'Pβ − β'Qβ in raw
+ * basis coefficients ({@link PenalizedObjective} defines ℓ, its gradient and its observed and
+ * expected information), with its working arrays (one instance per thread; nothing is allocated
+ * inside the iteration). Internal. The step solves (−ℓ'' + 2λP + 2Q) Δ = Φ'; when the observed
+ * matrix is not positive definite the Fisher matrix is used (Fisher scoring). Steps are halved
+ * until the Armijo condition Φ(β + tΔ) ≥ Φ(β) + 10⁻⁴ t Φ'·Δ holds. This class owns the
+ * coefficients and the iteration, which runs as steps ({@link #begin}) that ask for an
+ * evaluation or derivatives, answered by the objective here or, for units carried in vector
+ * lanes, by {@link NewtonLanes}; the covariance is {@link NewtonCovariance}'s.
  */
 final class PenalizedNewton {
     private final PenalizedObjective lik;
@@ -86,9 +74,8 @@ final class PenalizedNewton {
         newtonFactor = new double[k * k];
     }
 
-    /** Optional K × D map from log(n_j + 1/2) to starting coefficients, and its constant. */
-    private double[] startMap;
-    private double[] startConst;
+    /** See {@link #setStartMap}. */
+    private double[] startMap, startConst;
 
     /**
      * Starting coefficients from the counts: a lightly penalised least-squares fit of the log
@@ -103,50 +90,10 @@ final class PenalizedNewton {
         }
         int d = lik.bins().bins;
         double[] logs = startLogs.length == d ? startLogs : (startLogs = new double[d]);
-        for (int j = 0; j < d; j++) {
-            double n = counts[j];
-            int c = (int) n;
-            logs[j] = c == n && c >= 0 && c < LOG_HALF.length ? LOG_HALF[c] : Math.log(n + 0.5);
-        }
-        // four coefficients at a time, each summed in registers over the bins in order (the same
-        // sums as bin by bin into β, without a store and reload per bin)
-        int i = 0;
-        for (; i + 3 < k; i += 4) {
-            int o0 = i * d, o1 = o0 + d, o2 = o1 + d, o3 = o2 + d;
-            double b0 = startConst[i], b1 = startConst[i + 1], b2 = startConst[i + 2], b3 = startConst[i + 3];
-            for (int j = 0; j < d; j++) {
-                double lj = logs[j];
-                b0 += startMap[o0 + j] * lj;
-                b1 += startMap[o1 + j] * lj;
-                b2 += startMap[o2 + j] * lj;
-                b3 += startMap[o3 + j] * lj;
-            }
-            beta[i] = b0;
-            beta[i + 1] = b1;
-            beta[i + 2] = b2;
-            beta[i + 3] = b3;
-        }
-        for (; i < k; i++) {
-            double b = startConst[i];
-            for (int j = 0, o = i * d; j < d; j++) {
-                b += startMap[o + j] * logs[j];
-            }
-            beta[i] = b;
-        }
-        beta[k] = 0.0;
+        BinLayout.start(counts, startMap, startConst, k, logs, beta);
     }
 
-    /** log(n + 1/2) for the counts n = 0 … 4095 (the same values as computing them each time). */
-    private static final double[] LOG_HALF = new double[4096];
-
-    static {
-        for (int n = 0; n < LOG_HALF.length; n++) {
-            LOG_HALF[n] = Math.log(n + 0.5);
-        }
-    }
-
-    /** log(n_j + 1/2) of the current unit (scratch of {@link #startFromCounts}). */
-    private double[] startLogs = new double[0];
+    private double[] startLogs = new double[0]; // log(n_j + 1/2), scratch of startFromCounts
 
     /**
      * Relative size of a predicted gain Φ'·Δ below which Φ can no longer rank two points (sums of
@@ -169,25 +116,6 @@ final class PenalizedNewton {
 
     /** Optional K × K upper triangular map from raw coefficients to coordinates (c = U β). */
     private double[] coordinateMap;
-
-    /** ‖U v‖∞ over the first K entries (‖v‖∞ without a map). */
-    private double coordinateNorm(double[] v) {
-        double m = 0;
-        for (int i = 0; i < k; i++) {
-            double s;
-            if (coordinateMap == null) {
-                s = v[i];
-            } else {
-                s = 0;
-                int o = i * k;
-                for (int j = i; j < k; j++) {
-                    s += coordinateMap[o + j] * v[j];
-                }
-            }
-            m = Math.max(m, Math.abs(s));
-        }
-        return m;
-    }
 
     /**
      * Newton iterations from the current beta at smoothing λ. Every accepted step is taken; the
@@ -219,6 +147,12 @@ final class PenalizedNewton {
 
     private boolean solve(double lambda, int maxIter, double tol, boolean exact) {
         boolean ok = iterate(lambda, maxIter, tol, exact);
+        keepFactor();
+        return ok;
+    }
+
+    /** After an iteration: keeps its last Newton factor and log determinant (NaN without one). */
+    void keepFactor() {
         if (newtonFactored) {
             // keep the last Newton factor: the Fisher information and the covariance reuse hess
             for (int i = 0; i < k; i++) {
@@ -228,109 +162,224 @@ final class PenalizedNewton {
         } else {
             newtonLogDet = Double.NaN;
         }
-        return ok;
+    }
+
+    /** The relative pivot floor of the Newton factorisation ({@link Cholesky#factor}). */
+    double pivotFloor() {
+        return pivotFloor;
+    }
+
+    /** The objective (its arrays are where {@link NewtonLanes} puts a lane's passes). */
+    PenalizedObjective objective() {
+        return lik;
+    }
+
+    /** The K + 1 coefficients β (not a copy; not to be modified). */
+    double[] betaView() {
+        return beta;
     }
 
     private boolean iterate(double lambda, int maxIter, double tol, boolean exact) {
+        int need = begin(lambda, maxIter, tol, exact);
+        while (need != FINISHED) {
+            if (need == EVALUATE) {
+                need = evaluated(lik.evaluate(evaluationPoint, lambda));
+            } else {
+                lik.derivatives(lambda, need == DIFFERENTIATE_EXPECTED, true, beta);
+                need = differentiated();
+            }
+        }
+        return converged;
+    }
+
+    // ------------------------------------------------ the iteration as steps (driven here or by NewtonLanes)
+
+    /** What the iteration asks for next: Φ at {@link #evaluationPoint}, Φ' and the observed or expected information at β, or nothing. */
+    static final int EVALUATE = 0, DIFFERENTIATE = 1, DIFFERENTIATE_EXPECTED = 2, FINISHED = 3;
+    /** Which evaluation or derivatives the iteration waits for. */
+    private static final int START = 0, OBSERVED = 1, EXPECTED = 2, FULL_STEP = 3, ARMIJO = 4, RESTORE = 5;
+    private int phase;
+    private double[] evaluationPoint;
+    private boolean converged, iterExact, iterResume;
+    private int iterMax, lineSteps;
+    private double iterLambda, iterTol, obj, dec, scale, size, t, lastDec, lastStep;
+
+    /**
+     * Starts Newton iterations from the current β at λ (see {@link #solve}); the caller then
+     * answers each request with {@link #evaluated} or {@link #differentiated} until
+     * {@link #FINISHED}, when {@link #converged()} and {@link #failure()} tell the outcome.
+     */
+    int begin(double lambda, int maxIter, double tol, boolean exact) {
         boolean resume = exact && resumable && lambda == resumeLambda;
         boolean evaluated = resumable;
-        resumable = false;
+        resumable = singular = converged = false;
         failure = null;
-        singular = false;
         iterations = 0;
-        newtonFactored = resume;
-        double obj = resume ? resumeObjective : evaluated ? lik.objectiveAtLastEvaluation(beta, lambda)
-                : lik.evaluate(beta, lambda);
-        if (!(obj > Double.NEGATIVE_INFINITY)) {
-            failure = "the starting coefficients give probability 0 to an occupied bin";
-            return false;
+        newtonFactored = iterResume = resume;
+        iterExact = exact;
+        iterLambda = lambda;
+        iterMax = maxIter;
+        iterTol = tol;
+        lastDec = lastStep = Double.NaN;
+        if (resume || evaluated) {
+            return started(resume ? resumeObjective : lik.objectiveAtLastEvaluation(beta, lambda));
         }
-        double stepTol = Math.sqrt(tol);
-        double lastDec = Double.NaN;
-        double lastStep = Double.NaN;
-        for (int it = 1; it <= maxIter; it++) {
-            iterations = it;
-            double dec;
-            if (resume && it == 1) {
-                dec = resumeDecrement; // hess and step as the search's last iteration left them at β
-            } else {
-                newtonFactored = false;
-                lik.derivatives(lambda, false, true, beta);
-                if (Cholesky.factor(hess, k, k1, pivotFloor) >= 0) {
-                    lik.derivatives(lambda, true, true, beta);
-                    if (Cholesky.factor(hess, k, k1, pivotFloor) >= 0) {
-                        singular = true;
-                        failure = "penalised information matrix is singular at iteration " + it
-                                + " (too few occupied bins for K = " + k + " without enough smoothing)";
-                        return false;
-                    }
-                }
-                newtonFactored = true;
-                System.arraycopy(grad, 0, step, 0, k);
-                Cholesky.solve(hess, k, k1, step, 0);
-                dec = 0;
-                for (int i = 0; i < k; i++) {
-                    dec += grad[i] * step[i];
-                }
-                if (!(dec >= 0) || !Double.isFinite(dec)) {
-                    failure = "non-finite Newton step at iteration " + it;
-                    return false;
-                }
+        return evaluate(START, beta);
+    }
+
+    /** The coefficients the requested evaluation is at (β or the trial point; K + 1 values, not a copy). */
+    double[] evaluationPoint() {
+        return evaluationPoint;
+    }
+
+    /** Whether the iteration {@link #begin} started has converged (read after {@link #FINISHED}). */
+    boolean converged() {
+        return converged;
+    }
+
+    private int evaluate(int next, double[] at) {
+        phase = next;
+        evaluationPoint = at;
+        return EVALUATE;
+    }
+
+    private int started(double o) {
+        if (!(o > Double.NEGATIVE_INFINITY)) {
+            failure = "the starting coefficients give probability 0 to an occupied bin";
+            return FINISHED;
+        }
+        obj = o;
+        return nextIteration();
+    }
+
+    private int nextIteration() {
+        if (iterations >= iterMax) {
+            failure = "no convergence in " + iterMax + " Newton iterations (last relative Newton decrement "
+                    + lastDec + ", relative coordinate step " + lastStep + ")";
+            return FINISHED;
+        }
+        iterations++;
+        if (iterResume && iterations == 1) {
+            dec = resumeDecrement; // hess and step as the search's last iteration left them at β
+            return stepFound();
+        }
+        newtonFactored = false;
+        phase = OBSERVED;
+        return DIFFERENTIATE;
+    }
+
+    /** Takes the gradient and information at β (in grad and hess): the Newton step, or Fisher scoring when the observed information is not positive definite. */
+    int differentiated() {
+        return factored(Cholesky.factor(hess, k, k1, pivotFloor));
+    }
+
+    /**
+     * As {@link #differentiated} when hess already holds {@link Cholesky#factor}'s result at this
+     * engine's {@link #pivotFloor()}: the lower factor, or the first failing column (hess then
+     * as it was before the factorisation is not needed: a failure asks for new derivatives or ends).
+     */
+    int factored(int failedColumn) {
+        if (failedColumn >= 0) {
+            if (phase == OBSERVED) {
+                phase = EXPECTED;
+                return DIFFERENTIATE_EXPECTED;
             }
-            double scale = 1 + Math.abs(obj);
-            // the step size enters the exact stopping rule; a search fit needs it for messages only
-            double size = exact || it == maxIter ? coordinateNorm(step) / (1 + coordinateNorm(beta)) : Double.NaN;
-            lastDec = dec / scale;
-            lastStep = size;
-            if (!exact && dec <= tol * scale) {
-                resumable = true;
-                resumeLambda = lambda;
-                resumeObjective = obj;
-                resumeDecrement = dec;
-                return true;
+            singular = true;
+            failure = "penalised information matrix is singular at iteration " + iterations
+                    + " (too few occupied bins for K = " + k + " without enough smoothing)";
+            return FINISHED;
+        }
+        newtonFactored = true;
+        System.arraycopy(grad, 0, step, 0, k);
+        Cholesky.solve(hess, k, k1, step, 0);
+        double d = 0;
+        for (int i = 0; i < k; i++) {
+            d += grad[i] * step[i];
+        }
+        if (!(d >= 0) || !Double.isFinite(d)) {
+            failure = "non-finite Newton step at iteration " + iterations;
+            return FINISHED;
+        }
+        dec = d;
+        return stepFound();
+    }
+
+    private int stepFound() {
+        scale = 1 + Math.abs(obj);
+        // the step size enters the exact stopping rule; a search fit needs it for messages only
+        size = iterExact || iterations == iterMax ? relativeStep() : Double.NaN;
+        lastDec = dec / scale;
+        lastStep = size;
+        if (!iterExact && dec <= iterTol * scale) {
+            resumable = true;
+            resumeLambda = iterLambda;
+            resumeObjective = obj;
+            resumeDecrement = dec;
+            converged = true;
+            return FINISHED;
+        }
+        t = 1.0;
+        lineSteps = 0;
+        if (dec <= RESOLUTION * scale) {
+            for (int i = 0; i < k; i++) {
+                trial[i] = beta[i] + step[i];
             }
-            double t = 1.0;
-            boolean accepted = false;
-            double o = obj;
-            if (dec <= RESOLUTION * scale) {
-                for (int i = 0; i < k; i++) {
-                    trial[i] = beta[i] + step[i];
-                }
-                trial[k] = 0.0;
-                o = lik.evaluate(trial, lambda);
+            trial[k] = 0.0;
+            return evaluate(FULL_STEP, trial);
+        }
+        return armijoTrial();
+    }
+
+    /** ‖UΔ‖∞ / (1 + ‖Uβ‖∞): the size of the Newton step relative to the coordinates. */
+    private double relativeStep() {
+        return EstimationSupport.coordinateNorm(coordinateMap, step, k)
+                / (1 + EstimationSupport.coordinateNorm(coordinateMap, beta, k));
+    }
+
+    private int armijoTrial() {
+        if (lineSteps >= 60) {
+            if (Double.isNaN(lastStep)) {
+                lastStep = relativeStep();
+            }
+            return evaluate(RESTORE, beta);
+        }
+        for (int i = 0; i < k; i++) {
+            trial[i] = beta[i] + t * step[i];
+        }
+        trial[k] = 0.0;
+        return evaluate(ARMIJO, trial);
+    }
+
+    /** Takes Φ at {@link #evaluationPoint} (the objective evaluated there): the next request. */
+    int evaluated(double o) {
+        switch (phase) {
+            case START:
+                return started(o);
+            case FULL_STEP:
                 // Φ cannot resolve the predicted gain; accept unless it clearly decreased
-                accepted = o >= obj - RESOLUTION * scale;
-            }
-            for (int ls = 0; ls < 60 && !accepted; ls++) {
-                for (int i = 0; i < k; i++) {
-                    trial[i] = beta[i] + t * step[i];
-                }
-                trial[k] = 0.0;
-                o = lik.evaluate(trial, lambda);
+                return o >= obj - RESOLUTION * scale ? accepted(o) : armijoTrial();
+            case ARMIJO:
                 if (o >= obj + 1e-4 * t * dec) {
-                    accepted = true;
-                    break;
+                    return accepted(o);
                 }
                 t *= 0.5;
-            }
-            if (!accepted) {
-                if (Double.isNaN(lastStep)) {
-                    lastStep = coordinateNorm(step) / (1 + coordinateNorm(beta));
-                }
-                lik.evaluate(beta, lambda);
-                failure = "line search failed at iteration " + it + " (relative Newton decrement " + lastDec
+                lineSteps++;
+                return armijoTrial();
+            default: // RESTORE: the evaluation is back at β
+                failure = "line search failed at iteration " + iterations + " (relative Newton decrement " + lastDec
                         + ", relative step " + lastStep + ")";
-                return false;
-            }
-            System.arraycopy(trial, 0, beta, 0, k1);
-            obj = o;
-            if (t == 1.0 && dec <= tol * scale && size <= stepTol) {
-                return true;
-            }
+                return FINISHED;
         }
-        failure = "no convergence in " + maxIter + " Newton iterations (last relative Newton decrement " + lastDec
-                + ", relative coordinate step " + lastStep + ")";
-        return false;
+    }
+
+    private int accepted(double o) {
+        System.arraycopy(trial, 0, beta, 0, k1);
+        obj = o;
+        if (t == 1.0 && dec <= iterTol * scale && size <= Math.sqrt(iterTol)) {
+            converged = true;
+            return FINISHED;
+        }
+        return nextIteration();
     }
 
     // ---------------------------------------------------------------- covariance (NewtonCovariance)
@@ -343,18 +392,6 @@ final class PenalizedNewton {
     void fisherInformation() {
         resumable = false;
         lik.fisherInformation();
-    }
-
-    /** See {@link NewtonCovariance#sandwich(double, double[], double[])}. */
-    double sandwich(double lambda, double[] u, double[] cov) {
-        resumable = false;
-        return covariance.sandwich(lambda, u, cov);
-    }
-
-    /** See {@link NewtonCovariance#sandwich(double, double[], double[], boolean)}. */
-    double sandwich(double lambda, double[] u, double[] cov, boolean robust) {
-        resumable = false;
-        return covariance.sandwich(lambda, u, cov, robust);
     }
 
     /** See {@link NewtonCovariance#sandwich(double, double[], double[], boolean, double[])}. */
@@ -405,13 +442,6 @@ final class PenalizedNewton {
         }
         beta[k] = 0.0;
     }
-
-    /** Trace of the K × K Fisher information (after {@link #fisherInformation}). */
-    double fisherTrace() {
-        return lik.fisherTrace();
-    }
-
-    // ---------------------------------------------------------------- data (PenalizedObjective)
 
     // ---------------------------------------------------------------- state, owned here
 
@@ -539,26 +569,6 @@ final class PenalizedNewton {
     /** β'Qβ of the prior at the current β. */
     double priorPenalty() {
         return lik.priorPenalty(beta);
-    }
-
-    /** {@link PenalizedObjective#logLikelihoodPerBinShift(double[])} at the current β. */
-    double logLikelihoodPerBinShift() {
-        return lik.logLikelihoodPerBinShift(beta);
-    }
-
-    /** Z / e^shift of the last evaluation. */
-    double zScaled() {
-        return lik.zScaled();
-    }
-
-    /** Bin mass A_j / e^shift of the last evaluation. */
-    double mass(int j) {
-        return lik.mass(j);
-    }
-
-    /** The log-sum-exp shift of the last evaluation. */
-    double shift() {
-        return lik.shift();
     }
 
     /** Log-likelihood at the last evaluated point. */

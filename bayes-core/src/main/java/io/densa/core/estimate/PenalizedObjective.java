@@ -48,9 +48,9 @@ final class PenalizedObjective {
     final double[] hess;
     private final double[] fisher;
     private final double[] eta;
-    private final double[] ex;
-    private final double[] mass;
-    private final double[] mvec;
+    final double[] ex;
+    final double[] mass;
+    final double[] mvec;
     private final double[] uj;
     /** Bins with a positive count (increasing; the first occupiedCount entries) and their log masses. */
     private final int[] occupied;
@@ -135,7 +135,6 @@ final class PenalizedObjective {
                 max = s > max ? s : max;
             }
         }
-        shift = max;
         final int[] start = lay.binStart;
         KernelPath.active().weightedExp(eta, 1.0, max, lay.weight, ex, nq);
         double z = 0;
@@ -147,7 +146,6 @@ final class PenalizedObjective {
             mass[j] = s;
             z += s;
         }
-        zScaled = z;
         double ll;
         if (counts != null) {
             double logZ = Math.log(z);
@@ -176,6 +174,17 @@ final class PenalizedObjective {
             }
             ll = tb - total * (max + Math.log(z));
         }
+        return accept(z, max, ll, b, lambda);
+    }
+
+    /**
+     * Records an evaluation at b (Z and the shift of its exponentials, its log-likelihood ℓ) and
+     * returns Φ(b) at λ. {@link NewtonLanes} calls it with a lane's values after writing the lane's
+     * exponentials and masses into {@link #ex} and {@link #mass}.
+     */
+    double accept(double z, double shift, double ll, double[] b, double lambda) {
+        zScaled = z;
+        this.shift = shift;
         loglik = ll;
         if (Double.isNaN(ll)) {
             ll = Double.NEGATIVE_INFINITY;
@@ -371,6 +380,16 @@ final class PenalizedObjective {
         if (fcur >= 0) {
             flushSpan(fcur, g0, g1, g2, g3, s0, s1, s2, s3, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
         }
+        finishDerivatives(lambda, penalised, beta);
+    }
+
+    /**
+     * The rest of {@link #derivatives} after its node pass (grad, hess and mvec hold the pass's
+     * sums): the rank-one term, the sample's linear term, and the penalty and prior, or the mirror
+     * of hess when not penalised. {@link NewtonLanes} calls it after copying a lane's pass in.
+     */
+    void finishDerivatives(double lambda, boolean penalised, double[] beta) {
+        final double z = zScaled;
         EstimationSupport.subtractOuter(hess, k1, total / (z * z), mvec, k);
         for (int i = 0; i < k; i++) {
             grad[i] += linear[i];

@@ -4,6 +4,8 @@ import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.GoldenSection;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DDRM;
+import org.ejml.data.DMatrixRMaj;
+import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DDRM;
 
 /**
  * The smoothing-parameter search of {@link PenalizedLikelihoodEstimator}: the criteria (AIC, AICc,
@@ -440,7 +442,7 @@ final class SmoothingSearch {
         // the marginal likelihood needs log det H only, from the factor the last Newton iteration left
         if (criterion != SmoothingCriterion.MARGINAL_LIKELIHOOD && criterion != SmoothingCriterion.CROSS_VALIDATION) {
             eng.fisherInformation();
-            edf = eng.sandwich(lambda, u, null);
+            edf = eng.sandwich(lambda, u, null, false, null);
             if (Double.isNaN(edf)) {
                 return Double.POSITIVE_INFINITY;
             }
@@ -482,11 +484,11 @@ final class SmoothingSearch {
                 eng.evaluate(lambda);
                 int d = eng.bins().bins;
                 double dev = 0;
-                double z = eng.zScaled();
+                double z = eng.objective().zScaled();
                 for (int j = 0; j < d; j++) {
                     double nj = eng.counts()[j];
                     if (nj > 0) {
-                        dev += nj * Math.log(nj / (eng.total() * eng.mass(j) / z));
+                        dev += nj * Math.log(nj / (eng.total() * eng.objective().mass(j) / z));
                     }
                 }
                 dev = Math.max(0.0, 2 * dev); // ≥ 0 by Gibbs' inequality; rounding can give −1e-15
@@ -517,5 +519,24 @@ final class SmoothingSearch {
                 break;
         }
         return criterion + " could not be evaluated at lambda = " + lambda;
+    }
+
+    /** Numerical rank of a symmetric positive semi-definite K × K matrix (eigenvalues above 10⁻⁹ max). */
+    static int rank(double[] m, int k) {
+        SymmetricQRAlgorithmDecomposition_DDRM eig = new SymmetricQRAlgorithmDecomposition_DDRM(false);
+        if (!eig.decompose(new DMatrixRMaj(k, k, true, m))) {
+            return k;
+        }
+        double max = 0;
+        for (int i = 0; i < k; i++) {
+            max = Math.max(max, Math.abs(eig.getEigenvalue(i).getReal()));
+        }
+        int r = 0;
+        for (int i = 0; i < k; i++) {
+            if (eig.getEigenvalue(i).getReal() > 1e-9 * max) {
+                r++;
+            }
+        }
+        return r;
     }
 }

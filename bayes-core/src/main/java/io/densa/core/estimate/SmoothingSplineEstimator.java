@@ -301,7 +301,7 @@ public final class SmoothingSplineEstimator implements CountEstimator {
                 Cholesky.transposeTimes(t, k, out, i * k, raw);
                 eng.setRawCoefficients(raw);
                 eng.setCounts(counts[i], totals[i]);
-                double loglik = eng.logLikelihoodPerBinShift();
+                double loglik = eng.objective().logLikelihoodPerBinShift(eng.betaView());
                 int first = 0, last = lay.bins - 1;
                 while (first < last && !(counts[i][first] > 0)) {
                     first++;

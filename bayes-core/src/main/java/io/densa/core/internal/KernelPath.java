@@ -61,6 +61,11 @@ public abstract class KernelPath {
         }
     }
 
+    /** The estimator's passes with one unit per lane ({@link UnitLanes}), or null on the scalar path. */
+    UnitLanes unitLanes() {
+        return null;
+    }
+
     /** Doubles per SIMD vector (1 for the scalar path). */
     public abstract int lanes();
 

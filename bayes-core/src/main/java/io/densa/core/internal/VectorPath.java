@@ -19,9 +19,16 @@ final class VectorPath extends KernelPath {
     /** Rows gathered per pass of the cross product (64 KB at k = 32, so they stay in the L2 cache). */
     private static final int SUB = 256;
 
+    private static final UnitLanes UNIT_LANES = new VectorLanes();
+
     @Override
     public int lanes() {
         return L;
+    }
+
+    @Override
+    UnitLanes unitLanes() {
+        return UNIT_LANES;
     }
 
     /**
@@ -225,42 +232,75 @@ final class VectorPath extends KernelPath {
      * Elementary Functions, ch. 6), exp(r) by its degree-13 Taylor polynomial (remainder below
      * 4·10⁻¹⁸ relative at |r| = ln 2 / 2) in Horner's form, and 2^k built in the exponent bits.
      * Every step is a lane-wise IEEE operation, so the result does not depend on the JIT; measured
-     * within one unit in the last place of {@link StrictMath#exp} (fdlibm). A vector with a lane
-     * outside [−708, 708] (or NaN) is computed with {@link Math#exp} instead, so underflow to
-     * subnormals and zero, overflow and NaN are those of the scalar path.
+     * within one unit in the last place of {@link StrictMath#exp} (fdlibm). A value outside
+     * [−708, 708] (or NaN) is computed with {@link Math#exp} instead, so underflow to subnormals
+     * and zero, overflow and NaN are those of the scalar path. Each output is a function of its own
+     * input only (the tail after the last full vector runs the same operations one by one), so the
+     * units carried in the lanes of {@code VectorLanes} get the same bits as one unit here.
      */
     @Override
     public void weightedExp(double[] x, double a, double shift, double[] w, double[] out, int n) {
-        double[] c = INV_FACTORIAL;
         int q = 0;
         for (; q + L <= n; q += L) {
             DoubleVector v = DoubleVector.fromArray(S, x, q).mul(a).sub(shift);
-            VectorMask<Double> inside = v.abs().compare(VectorOperators.LE, RANGE);
-            if (!inside.allTrue()) {
-                for (int i = q; i < q + L; i++) {
-                    out[i] = (w == null ? 1.0 : w[i]) * Math.exp(a * x[i] - shift);
-                }
-                continue;
-            }
-            DoubleVector t = v.lanewise(VectorOperators.FMA, LOG2E, ROUND);
-            DoubleVector kk = t.sub(ROUND);
-            DoubleVector r = kk.lanewise(VectorOperators.FMA, -LN2_HI, v);
-            r = kk.lanewise(VectorOperators.FMA, -LN2_LO, r);
-            DoubleVector p = DoubleVector.broadcast(S, c[13]);
-            for (int i = 12; i >= 0; i--) {
-                p = p.lanewise(VectorOperators.FMA, r, DoubleVector.broadcast(S, c[i]));
-            }
-            DoubleVector scale = (DoubleVector) ((LongVector) t.reinterpretAsLongs()).sub(ROUND_BITS - 1023L)
-                    .lanewise(VectorOperators.LSHL, 52).reinterpretAsDoubles();
-            p = p.mul(scale);
+            DoubleVector p = exp(v);
             if (w != null) {
                 p = p.mul(DoubleVector.fromArray(S, w, q));
             }
             p.intoArray(out, q);
+            VectorMask<Double> inside = v.abs().compare(VectorOperators.LE, RANGE);
+            if (!inside.allTrue()) {
+                for (int i = q; i < q + L; i++) {
+                    if (!inside.laneIsSet(i - q)) {
+                        out[i] = (w == null ? 1.0 : w[i]) * Math.exp(a * x[i] - shift);
+                    }
+                }
+            }
         }
         for (; q < n; q++) {
-            out[q] = (w == null ? 1.0 : w[q]) * Math.exp(a * x[q] - shift);
+            out[q] = (w == null ? 1.0 : w[q]) * exp(a * x[q] - shift);
         }
+    }
+
+    /**
+     * The polynomial exponential of {@link #weightedExp} lane by lane; lanes outside [−708, 708]
+     * (or NaN) hold no meaningful value and must be replaced by {@link Math#exp} of theirs.
+     */
+    static DoubleVector exp(DoubleVector v) {
+        double[] c = INV_FACTORIAL;
+        DoubleVector t = v.lanewise(VectorOperators.FMA, LOG2E, ROUND);
+        DoubleVector kk = t.sub(ROUND);
+        DoubleVector r = kk.lanewise(VectorOperators.FMA, -LN2_HI, v);
+        r = kk.lanewise(VectorOperators.FMA, -LN2_LO, r);
+        DoubleVector p = DoubleVector.broadcast(S, c[13]);
+        for (int i = 12; i >= 0; i--) {
+            p = p.lanewise(VectorOperators.FMA, r, DoubleVector.broadcast(S, c[i]));
+        }
+        DoubleVector scale = (DoubleVector) ((LongVector) t.reinterpretAsLongs()).sub(ROUND_BITS - 1023L)
+                .lanewise(VectorOperators.LSHL, 52).reinterpretAsDoubles();
+        return p.mul(scale);
+    }
+
+    /**
+     * exp(v): the same operations as one lane of {@link #exp(DoubleVector)} (so the same bits)
+     * where |v| ≤ 708, {@link Math#exp} elsewhere: the exponential of every node is a function of
+     * that node's value alone, wherever the node falls in the blocks of vectors.
+     */
+    static double exp(double v) {
+        if (!(Math.abs(v) <= RANGE)) {
+            return Math.exp(v);
+        }
+        double[] c = INV_FACTORIAL;
+        double t = Math.fma(v, LOG2E, ROUND);
+        double kk = t - ROUND;
+        double r = Math.fma(kk, -LN2_HI, v);
+        r = Math.fma(kk, -LN2_LO, r);
+        double p = c[13];
+        for (int i = 12; i >= 0; i--) {
+            p = Math.fma(p, r, c[i]);
+        }
+        double scale = Double.longBitsToDouble((Double.doubleToRawLongBits(t) - (ROUND_BITS - 1023L)) << 52);
+        return p * scale;
     }
 
     private static final long MANTISSA = 0x000f_ffff_ffff_ffffL;
@@ -285,43 +325,82 @@ final class VectorPath extends KernelPath {
      * rounded part is at most a sixth of it; |s| ≤ 0.1716, so the series' remainder is below 10⁻¹⁷
      * relative. e ln 2 enters by one fused multiply-add with ln 2 in two parts. Measured within two
      * units in the last place of {@link StrictMath#log} (two where e ln 2 and ln m nearly cancel,
-     * x in (1/2, 1/√2); one elsewhere). Lanes outside the positive normal numbers use {@link Math#log}.
+     * x in (1/2, 1/√2); one elsewhere). Values outside the positive normal numbers use {@link Math#log}.
+     * As for the exponential, each output depends on its own input only.
      */
     @Override
     public void logs(double[] x, int[] idx, int n, double[] out) {
-        double[] c = ATANH;
         int i = 0;
         for (; i + L <= n; i += L) {
             DoubleVector v = DoubleVector.fromArray(S, x, 0, idx, i);
+            log(v).intoArray(out, i);
             VectorMask<Double> normal = v.compare(VectorOperators.GE, Double.MIN_NORMAL)
                     .and(v.compare(VectorOperators.LE, Double.MAX_VALUE));
             if (!normal.allTrue()) {
                 for (int t = i; t < i + L; t++) {
-                    out[t] = Math.log(x[idx[t]]);
+                    if (!normal.laneIsSet(t - i)) {
+                        out[t] = Math.log(x[idx[t]]);
+                    }
                 }
-                continue;
             }
-            LongVector bits = (LongVector) v.reinterpretAsLongs();
-            DoubleVector e = (DoubleVector) bits.lanewise(VectorOperators.LSHR, 52).sub(1023L)
-                    .convert(jdk.incubator.vector.VectorOperators.L2D, 0);
-            DoubleVector m = (DoubleVector) bits.and(MANTISSA).or(ONE_BITS).reinterpretAsDoubles();
-            VectorMask<Double> big = m.compare(VectorOperators.GT, SQRT2);
-            m = m.blend(m.mul(0.5), big);
-            e = e.blend(e.add(1.0), big);
-            DoubleVector f = m.sub(1.0);
-            DoubleVector sv = f.div(f.add(2.0));
-            DoubleVector z = sv.mul(sv);
-            DoubleVector r = DoubleVector.broadcast(S, c[10]);
-            for (int t = 9; t >= 1; t--) {
-                r = r.lanewise(VectorOperators.FMA, z, DoubleVector.broadcast(S, c[t]));
-            }
-            r = r.mul(z);
-            DoubleVector lnm = f.sub(sv.mul(f.sub(r)));
-            DoubleVector rest = e.lanewise(VectorOperators.FMA, LN2_LO, lnm);
-            e.lanewise(VectorOperators.FMA, LN2_HI, rest).intoArray(out, i);
         }
         for (; i < n; i++) {
-            out[i] = Math.log(x[idx[i]]);
+            out[i] = log(x[idx[i]]);
         }
+    }
+
+    /**
+     * The series logarithm of {@link #logs} lane by lane; lanes outside the positive normal
+     * numbers hold no meaningful value and must be replaced by {@link Math#log} of theirs.
+     */
+    static DoubleVector log(DoubleVector v) {
+        double[] c = ATANH;
+        LongVector bits = (LongVector) v.reinterpretAsLongs();
+        DoubleVector e = (DoubleVector) bits.lanewise(VectorOperators.LSHR, 52).sub(1023L)
+                .convert(VectorOperators.L2D, 0);
+        DoubleVector m = (DoubleVector) bits.and(MANTISSA).or(ONE_BITS).reinterpretAsDoubles();
+        VectorMask<Double> big = m.compare(VectorOperators.GT, SQRT2);
+        m = m.blend(m.mul(0.5), big);
+        e = e.blend(e.add(1.0), big);
+        DoubleVector f = m.sub(1.0);
+        DoubleVector sv = f.div(f.add(2.0));
+        DoubleVector z = sv.mul(sv);
+        DoubleVector r = DoubleVector.broadcast(S, c[10]);
+        for (int t = 9; t >= 1; t--) {
+            r = r.lanewise(VectorOperators.FMA, z, DoubleVector.broadcast(S, c[t]));
+        }
+        r = r.mul(z);
+        DoubleVector lnm = f.sub(sv.mul(f.sub(r)));
+        DoubleVector rest = e.lanewise(VectorOperators.FMA, LN2_LO, lnm);
+        return e.lanewise(VectorOperators.FMA, LN2_HI, rest);
+    }
+
+    /**
+     * ln x: the same operations as one lane of {@link #log(DoubleVector)} (so the same bits) where
+     * x is a positive normal number, {@link Math#log} elsewhere.
+     */
+    static double log(double x) {
+        if (!(x >= Double.MIN_NORMAL && x <= Double.MAX_VALUE)) {
+            return Math.log(x);
+        }
+        double[] c = ATANH;
+        long bits = Double.doubleToRawLongBits(x);
+        double e = (double) ((bits >>> 52) - 1023L);
+        double m = Double.longBitsToDouble((bits & MANTISSA) | ONE_BITS);
+        if (m > SQRT2) {
+            m = m * 0.5;
+            e = e + 1.0;
+        }
+        double f = m - 1.0;
+        double sv = f / (f + 2.0);
+        double z = sv * sv;
+        double r = c[10];
+        for (int t = 9; t >= 1; t--) {
+            r = Math.fma(r, z, c[t]);
+        }
+        r = r * z;
+        double lnm = f - sv * (f - r);
+        double rest = Math.fma(e, LN2_LO, lnm);
+        return Math.fma(e, LN2_HI, rest);
     }
 }

@@ -1,0 +1,228 @@
+package io.densa.core.estimate;
+
+import io.densa.core.internal.UnitLanes;
+import java.util.function.Supplier;
+
+/**
+ * Fits at a fixed λ of units of counts on one cubic-spline layout, {@link UnitLanes#lanes()} units
+ * at a time: each lane has its own {@link PenalizedNewton} (coefficients, iteration, Cholesky
+ * factor, and afterwards the covariance), while the quadrature passes, the evaluation and the node
+ * pass of the observed information, run for all lanes together, one unit per lane of a SIMD
+ * vector. The passes give each lane the bits the one-unit passes give, and each engine answers
+ * the same requests in the same order as its own {@link PenalizedNewton#solve}, so a unit's fit
+ * is the same to the bit as alone, whichever units share the lanes. A lane whose unit has
+ * finished takes the next unit at once. Internal.
+ *
+ * <p>A round: the lanes that asked for derivatives get them from one pass (a lane whose observed
+ * information is not positive definite gets the expected one from its own engine), then every
+ * lane that asked for an evaluation (after the round's derivatives, all of them) gets it from one
+ * pass.
+ */
+final class NewtonLanes {
+    /** The unit-by-unit side of a batch: loading a unit into an engine and finishing it. */
+    interface Units {
+        /**
+         * Loads unit i's counts into row and the engine (useCounts with row) and sets its start;
+         * false when the unit needs no fit (it has been handled).
+         */
+        boolean load(int i, PenalizedNewton eng, double[] row);
+
+        /** Finishes unit i after its iteration (covariance, diagnostics, output). */
+        void finish(int i, PenalizedNewton eng, boolean converged);
+    }
+
+    private final UnitLanes kern;
+    private final int lanes;
+    private final UnitLanes.Layout lay;
+    private final int k1;
+    private final PenalizedNewton[] eng;
+    private final double[][] rows;
+    private final int[] unit;
+    private final int[] need;
+    private final double[] beta, counts, totals, zs, eta, ex, mass, res, grad, hess, mvec, uj, factor;
+    private final int[] failed;
+    /** Lowest column of row i that a node pass can touch (the band of the information). */
+    private final int[] bandLo;
+
+    NewtonLanes(UnitLanes kern, BinLayout layout, Supplier<PenalizedNewton> engines) {
+        this.kern = kern;
+        this.lanes = kern.lanes();
+        this.lay = layout.lanes();
+        this.k1 = lay.k1();
+        int l = lanes;
+        eng = new PenalizedNewton[l];
+        rows = new double[l][lay.bins()];
+        for (int i = 0; i < l; i++) {
+            eng[i] = engines.get();
+        }
+        unit = new int[l];
+        need = new int[l];
+        beta = new double[k1 * l];
+        counts = new double[lay.bins() * l];
+        totals = new double[l];
+        zs = new double[l];
+        eta = new double[lay.nodes() * l];
+        ex = new double[lay.nodes() * l];
+        mass = new double[lay.bins() * l];
+        res = new double[3 * l];
+        grad = new double[k1 * l];
+        hess = new double[k1 * k1 * l];
+        mvec = new double[k1 * l];
+        uj = new double[k1 * l];
+        factor = new double[k1 * k1 * l];
+        failed = new int[l];
+        bandLo = new int[k1];
+        for (int i = 0; i < k1; i++) {
+            bandLo[i] = i;
+        }
+        for (int j = 0; j < lay.bins(); j++) {
+            for (int i = lay.binLo()[j]; i < lay.binHi()[j]; i++) {
+                bandLo[i] = Math.min(bandLo[i], lay.binLo()[j]);
+            }
+        }
+        for (int q = 0; q < lay.nodes(); q++) {
+            int f = lay.first()[q];
+            for (int i = f; i < f + 4; i++) {
+                bandLo[i] = Math.min(bandLo[i], f);
+            }
+        }
+    }
+
+    /** Fits units from..to−1 at λ with the engines' {@link PenalizedNewton#solve} settings. */
+    void fit(int from, int to, double lambda, int maxIter, double tol, Units units) {
+        int next = from;
+        for (int l = 0; l < lanes; l++) {
+            next = load(l, next, to, lambda, maxIter, tol, units);
+        }
+        while (true) {
+            boolean differentiate = false;
+            for (int l = 0; l < lanes; l++) {
+                differentiate |= unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE;
+            }
+            if (differentiate) {
+                kern.derivatives(lay, counts, totals, ex, mass, zs, grad, hess, mvec, uj);
+                int k = k1 - 1;
+                for (int l = 0; l < lanes; l++) {
+                    if (unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE) {
+                        PenalizedObjective lik = eng[l].objective();
+                        copyDerivatives(l, lik);
+                        lik.finishDerivatives(lambda, true, eng[l].betaView());
+                        double[] h = lik.hess;
+                        for (int i = 0; i < k; i++) {
+                            for (int c = i * k1, end = c + i; c <= end; c++) {
+                                factor[c * lanes + l] = h[c];
+                            }
+                        }
+                    }
+                }
+                kern.cholesky(factor, k, k1, eng[0].pivotFloor(), failed);
+                for (int l = 0; l < lanes; l++) {
+                    if (unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE) {
+                        PenalizedNewton e = eng[l];
+                        PenalizedObjective lik = e.objective();
+                        if (failed[l] < 0) {
+                            double[] h = lik.hess;
+                            for (int i = 0; i < k; i++) {
+                                for (int c = i * k1, end = c + i; c <= end; c++) {
+                                    h[c] = factor[c * lanes + l];
+                                }
+                            }
+                            need[l] = e.factored(-1);
+                        } else {
+                            need[l] = e.differentiated(); // its own factorisation of the intact matrix
+                        }
+                        if (need[l] == PenalizedNewton.DIFFERENTIATE_EXPECTED) {
+                            copyEvaluation(l, lik); // Fisher scoring: this engine's own pass
+                            lik.derivatives(lambda, true, true, e.betaView());
+                            need[l] = e.differentiated();
+                        }
+                        if (need[l] == PenalizedNewton.FINISHED) {
+                            next = complete(l, next, to, lambda, maxIter, tol, units);
+                        }
+                    }
+                }
+            }
+            boolean any = false;
+            for (int l = 0; l < lanes; l++) {
+                if (unit[l] >= 0) {
+                    any = true;
+                    double[] at = eng[l].evaluationPoint();
+                    for (int i = 0; i < k1; i++) {
+                        beta[i * lanes + l] = at[i];
+                    }
+                }
+            }
+            if (!any) {
+                return;
+            }
+            kern.evaluate(lay, beta, counts, eta, ex, mass, res);
+            for (int l = 0; l < lanes; l++) {
+                if (unit[l] >= 0) {
+                    PenalizedNewton e = eng[l];
+                    zs[l] = res[l];
+                    double o = e.objective().accept(res[l], res[lanes + l], res[2 * lanes + l], e.evaluationPoint(),
+                            lambda);
+                    need[l] = e.evaluated(o);
+                    if (need[l] == PenalizedNewton.FINISHED) {
+                        next = complete(l, next, to, lambda, maxIter, tol, units);
+                    }
+                }
+            }
+        }
+    }
+
+    /** Puts the next unit that needs a fit into lane l (none: the lane idles); the next unit index. */
+    private int load(int l, int next, int to, double lambda, int maxIter, double tol, Units units) {
+        unit[l] = -1;
+        while (next < to) {
+            int i = next++;
+            if (units.load(i, eng[l], rows[l])) {
+                double[] r = rows[l];
+                for (int j = 0; j < r.length; j++) {
+                    counts[j * lanes + l] = r[j];
+                }
+                totals[l] = eng[l].total();
+                unit[l] = i;
+                need[l] = eng[l].begin(lambda, maxIter, tol, true);
+                if (need[l] != PenalizedNewton.EVALUATE) {
+                    throw new IllegalStateException("a fresh start asks for an evaluation first");
+                }
+                return next;
+            }
+        }
+        return next;
+    }
+
+    /** Lane l's unit has finished: its engine takes the lane's last evaluation and finishes; the lane takes the next unit. */
+    private int complete(int l, int next, int to, double lambda, int maxIter, double tol, Units units) {
+        PenalizedNewton e = eng[l];
+        copyEvaluation(l, e.objective());
+        e.keepFactor();
+        units.finish(unit[l], e, e.converged());
+        return load(l, next, to, lambda, maxIter, tol, units);
+    }
+
+    private void copyEvaluation(int l, PenalizedObjective lik) {
+        double[] x = lik.ex;
+        for (int q = 0; q < x.length; q++) {
+            x[q] = ex[q * lanes + l];
+        }
+        double[] a = lik.mass;
+        for (int j = 0; j < a.length; j++) {
+            a[j] = mass[j * lanes + l];
+        }
+    }
+
+    private void copyDerivatives(int l, PenalizedObjective lik) {
+        double[] g = lik.grad, h = lik.hess, m = lik.mvec;
+        java.util.Arrays.fill(h, 0.0);
+        for (int i = 0; i < k1; i++) {
+            g[i] = grad[i * lanes + l];
+            m[i] = mvec[i * lanes + l];
+            int row = i * k1;
+            for (int c = bandLo[i]; c <= i; c++) {
+                h[row + c] = hess[(row + c) * lanes + l];
+            }
+        }
+    }
+}

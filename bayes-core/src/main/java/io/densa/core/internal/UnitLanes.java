@@ -1,0 +1,82 @@
+package io.densa.core.internal;
+
+/**
+ * The density estimator's quadrature passes for several units at once, one unit in each lane of a
+ * SIMD vector (eight doubles with AVX-512): the evaluation of the multinomial log-likelihood and
+ * the node pass of its observed information, for cubic splines on a bin layout shared by the
+ * units. Every lane performs the operations of the one-unit passes on the vector path in the same
+ * order ({@code PenalizedObjective}'s loops, {@link KernelPath#weightedExp} and
+ * {@link KernelPath#logs} of the vector path), so a unit gets the same bits in a lane as alone,
+ * whatever the other lanes hold. Available only on the vector path ({@link #active()} is null
+ * otherwise). Internal.
+ *
+ * <p>Arrays hold one value per lane side by side: entry x of lane l at {@code x · lanes() + l}.
+ */
+public abstract class UnitLanes {
+
+    UnitLanes() {
+    }
+
+    /** The lanes of the active kernel path, or null when it is the scalar path. */
+    public static UnitLanes active() {
+        return KernelPath.active().unitLanes();
+    }
+
+    /** Units carried at once. */
+    public abstract int lanes();
+
+    /**
+     * A cubic-spline bin layout (the arrays of {@code BinLayout}, not copied).
+     *
+     * @param nodes    quadrature nodes
+     * @param bins     bins
+     * @param k1       raw basis functions
+     * @param column   column[i][q]: the i-th nonzero basis function at node q (i &lt; 4)
+     * @param runStart runs of nodes sharing their first basis index
+     * @param first    first nonzero basis index at each node
+     * @param weight   quadrature weight of each node
+     * @param binStart first node of each bin (bins + 1 values)
+     * @param binLo    first basis index touched by each bin
+     * @param binHi    one past the last basis index touched by each bin
+     * @param oneSpan  whether each bin lies inside one knot span
+     */
+    public record Layout(int nodes, int bins, int k1, double[][] column, int[] runStart, int[] first,
+            double[] weight, int[] binStart, int[] binLo, int[] binHi, boolean[] oneSpan) {
+    }
+
+    /**
+     * Evaluates every lane at its coefficients: η at the nodes, the shift max η, the weighted
+     * exponentials e_q, the bin masses A_j, Z = Σ A_j and ℓ = Σ_{n_j &gt; 0} n_j (ln A_j − ln Z)
+     * (all of the shifted exponentials).
+     *
+     * @param beta   k1 coefficients per lane
+     * @param counts counts per bin per lane
+     * @param eta    scratch, nodes per lane
+     * @param ex     out: e_q per lane
+     * @param mass   out: A_j per lane
+     * @param res    out: Z, shift and ℓ of lane l at l, lanes() + l and 2 lanes() + l
+     */
+    public abstract void evaluate(Layout lay, double[] beta, double[] counts, double[] eta, double[] ex,
+            double[] mass, double[] res);
+
+    /**
+     * The node pass of the observed information and the gradient at the last evaluation of every
+     * lane: the sums over bins and nodes before the rank-one term −(N/Z²) m m' and the penalty.
+     *
+     * @param totals N per lane
+     * @param z      Z per lane (the evaluation's)
+     * @param grad   out: k1 per lane (overwritten)
+     * @param hess   out: k1 × k1 per lane, lower triangle (overwritten)
+     * @param mvec   out: k1 per lane (overwritten)
+     * @param uj     scratch, k1 per lane
+     */
+    public abstract void derivatives(Layout lay, double[] counts, double[] totals, double[] ex, double[] mass,
+            double[] z, double[] grad, double[] hess, double[] mvec, double[] uj);
+
+    /**
+     * {@link Cholesky#factor} of every lane's matrix (n × n, row stride s, lower triangle read and
+     * overwritten), with the same operations in the same order per lane. A lane whose pivot fails
+     * gets its column in {@code failed} (−1 where the factor is complete) and a meaningless matrix.
+     */
+    public abstract void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed);
+}

@@ -1,0 +1,418 @@
+package io.densa.core.internal;
+
+import java.util.Arrays;
+import jdk.incubator.vector.DoubleVector;
+import jdk.incubator.vector.VectorMask;
+import jdk.incubator.vector.VectorOperators;
+import jdk.incubator.vector.VectorSpecies;
+
+/**
+ * {@link UnitLanes} with the incubating SIMD vectors (loaded by {@link VectorPath} only). Each
+ * statement below is the statement of the one-unit loop with every scalar replaced by the vector
+ * of the lanes' values: the same operations in the same order, fused where the one-unit loop uses
+ * {@link Math#fma} and unfused where it multiplies and adds; a branch on a unit's value becomes a
+ * blend that keeps the old value in the lanes that do not take it.
+ */
+final class VectorLanes extends UnitLanes {
+    private static final VectorSpecies<Double> S = DoubleVector.SPECIES_PREFERRED;
+    private static final int L = S.length();
+    private static final double RANGE = 708.0;
+
+    @Override
+    public int lanes() {
+        return L;
+    }
+
+    @Override
+    public void evaluate(Layout lay, double[] beta, double[] counts, double[] eta, double[] ex, double[] mass,
+            double[] res) {
+        etaAndMax(lay, beta, eta, res);
+        exponentials(lay, eta, res, ex);
+        massesAndLogLikelihood(lay, counts, ex, mass, res);
+    }
+
+    /** η at every node (the one-unit pass's sums run by run) and its maximum, into res[L..2L). */
+    private static void etaAndMax(Layout lay, double[] beta, double[] eta, double[] res) {
+        final double[] c0 = lay.column()[0], c1 = lay.column()[1], c2 = lay.column()[2], c3 = lay.column()[3];
+        final int[] runs = lay.runStart();
+        final int[] first = lay.first();
+        final DoubleVector zero = DoubleVector.zero(S);
+        DoubleVector max = DoubleVector.broadcast(S, Double.NEGATIVE_INFINITY);
+        for (int r = 0; r + 1 < runs.length; r++) {
+            int q0 = runs[r], q1 = runs[r + 1], f = first[q0];
+            DoubleVector b0 = DoubleVector.fromArray(S, beta, f * L), b1 = DoubleVector.fromArray(S, beta, (f + 1) * L), b2 = DoubleVector.fromArray(S, beta, (f + 2) * L), b3 = DoubleVector.fromArray(S, beta, (f + 3) * L);
+            for (int q = q0; q < q1; q++) {
+                DoubleVector s = zero.add(b0.mul(DoubleVector.broadcast(S, c0[q])))
+                        .add(b1.mul(DoubleVector.broadcast(S, c1[q]))).add(b2.mul(DoubleVector.broadcast(S, c2[q])))
+                        .add(b3.mul(DoubleVector.broadcast(S, c3[q])));
+                s.intoArray(eta, q * L);
+            }
+        }
+        for (int q = 0; q < lay.nodes(); q++) {
+            max = max.max(DoubleVector.fromArray(S, eta, q * L));
+        }
+        max.intoArray(res, L);
+        // the one-unit pass keeps the first of equal values and passes over NaN (s > max); MAX
+        // differs only for ±0 and NaN: those lanes again by that rule
+        VectorMask<Double> exact = max.compare(VectorOperators.NE, 0.0).and(max.compare(VectorOperators.EQ, max));
+        if (!exact.allTrue()) {
+            for (int l = 0; l < L; l++) {
+                if (!exact.laneIsSet(l)) {
+                    double m = Double.NEGATIVE_INFINITY;
+                    for (int q = 0; q < lay.nodes(); q++) {
+                        double v = eta[q * L + l];
+                        m = v > m ? v : m;
+                    }
+                    res[L + l] = m;
+                }
+            }
+        }
+    }
+
+    /** e_q = w_q exp(η_q − max η), exactly as {@link VectorPath#weightedExp} for each lane. */
+    private static void exponentials(Layout lay, double[] eta, double[] res, double[] ex) {
+        final double[] w = lay.weight();
+        final DoubleVector max = DoubleVector.fromArray(S, res, L);
+        for (int q = 0; q < lay.nodes(); q++) {
+            DoubleVector v = DoubleVector.fromArray(S, eta, q * L).sub(max);
+            VectorPath.exp(v).mul(w[q]).intoArray(ex, q * L);
+            VectorMask<Double> inside = v.abs().compare(VectorOperators.LE, RANGE);
+            if (!inside.allTrue()) {
+                for (int l = 0; l < L; l++) {
+                    if (!inside.laneIsSet(l)) {
+                        ex[q * L + l] = w[q] * Math.exp(1.0 * eta[q * L + l] - res[L + l]);
+                    }
+                }
+            }
+        }
+    }
+
+    /** The bin masses, Z into res[0..L) and ℓ into res[2L..3L). */
+    private static void massesAndLogLikelihood(Layout lay, double[] counts, double[] ex, double[] mass,
+            double[] res) {
+        final int[] start = lay.binStart();
+        final int bins = lay.bins();
+        final DoubleVector zero = DoubleVector.zero(S);
+        DoubleVector z = zero;
+        for (int j = 0; j < bins; j++) {
+            DoubleVector s = zero;
+            for (int q = start[j]; q < start[j + 1]; q++) {
+                s = s.add(DoubleVector.fromArray(S, ex, q * L));
+            }
+            s.intoArray(mass, j * L);
+            z = z.add(s);
+        }
+        z.intoArray(res, 0);
+        double[] logZ = new double[L];
+        for (int l = 0; l < L; l++) {
+            logZ[l] = Math.log(res[l]);
+        }
+        DoubleVector lz = DoubleVector.fromArray(S, logZ, 0);
+        double[] logMass = new double[bins * L];
+        for (int j = 0; j < bins; j++) {
+            logs(mass, j * L, logMass);
+        }
+        DoubleVector ll = zero;
+        for (int j = 0; j < bins; j++) {
+            int o = j * L;
+            DoubleVector n = DoubleVector.fromArray(S, counts, o);
+            VectorMask<Double> occupied = n.compare(VectorOperators.GT, 0.0);
+            DoubleVector term = n.mul(DoubleVector.fromArray(S, logMass, o).sub(lz));
+            ll = ll.blend(ll.add(term), occupied);
+        }
+        ll.intoArray(res, 2 * L);
+    }
+
+    /** ln of the L values at a[o..o+L) into out[o..o+L), exactly as {@link VectorPath#logs} for each. */
+    private static void logs(double[] a, int o, double[] out) {
+        DoubleVector x = DoubleVector.fromArray(S, a, o);
+        VectorPath.log(x).intoArray(out, o);
+        VectorMask<Double> normal = x.compare(VectorOperators.GE, Double.MIN_NORMAL)
+                .and(x.compare(VectorOperators.LE, Double.MAX_VALUE));
+        if (!normal.allTrue()) {
+            for (int l = 0; l < L; l++) {
+                out[o + l] = VectorPath.log(a[o + l]);
+            }
+        }
+    }
+
+    @Override
+    public void derivatives(Layout lay, double[] counts, double[] totals, double[] ex, double[] mass, double[] zs,
+            double[] grad, double[] hess, double[] mvec, double[] uj) {
+        final int k1 = lay.k1();
+        Arrays.fill(grad, 0, k1 * L, 0.0);
+        Arrays.fill(hess, 0, k1 * k1 * L, 0.0);
+        Arrays.fill(mvec, 0, k1 * L, 0.0);
+        // the current knot span's sums (the one-unit pass keeps them in registers): its 4 × 4 block
+        // (10 entries), four gradient entries and four moments, ACC vectors side by side
+        double[] acc = new double[ACC * L];
+        double[] coefs = new double[2 * L];
+        DoubleVector nz = DoubleVector.fromArray(S, totals, 0).div(DoubleVector.fromArray(S, zs, 0));
+        int fcur = -1;
+        final int bins = lay.bins();
+        final int[] binLo = lay.binLo();
+        final boolean[] oneSpan = lay.oneSpan();
+        for (int j = 0; j < bins; ) {
+            int lo = binLo[j];
+            if (oneSpan[j]) {
+                if (lo != fcur) {
+                    if (fcur >= 0) {
+                        flush(fcur, k1, grad, hess, mvec, acc);
+                    }
+                    fcur = lo;
+                    Arrays.fill(acc, 0.0);
+                }
+                int j1 = j + 1;
+                while (j1 < bins && oneSpan[j1] && binLo[j1] == lo) {
+                    j1++;
+                }
+                spanBins(lay, j, j1, counts, mass, nz, ex, acc);
+                j = j1;
+            } else {
+                DoubleVector a = DoubleVector.fromArray(S, mass, j * L);
+                DoubleVector nj = DoubleVector.fromArray(S, counts, j * L);
+                VectorMask<Double> occupied = nj.compare(VectorOperators.GT, 0.0);
+                DoubleVector.zero(S).blend(nj.div(a), occupied).sub(nz).intoArray(coefs, 0);
+                nj.div(a.mul(a)).intoArray(coefs, L);
+                fcur = generalBin(lay, j, fcur, ex, coefs, occupied.anyTrue() ? nj : null, grad, hess, mvec, uj, acc);
+                j++;
+            }
+        }
+        if (fcur >= 0) {
+            flush(fcur, k1, grad, hess, mvec, acc);
+        }
+    }
+
+    /** Vectors of the span's running sums: h00, h10, h11, h20, h21, h22, h30, h31, h32, h33, g0..g3, s0..s3. */
+    private static final int ACC = 18;
+
+    /**
+     * Bins j0..j1−1, inside the current span: their nodes' terms and rank-one terms added to the
+     * span's sums (read from acc, kept in registers, written back).
+     */
+    private static void spanBins(Layout lay, int j0, int j1, double[] counts, double[] mass, DoubleVector nz,
+            double[] ex, double[] acc) {
+        final double[] c0 = lay.column()[0], c1 = lay.column()[1], c2 = lay.column()[2], c3 = lay.column()[3];
+        final int[] start = lay.binStart();
+        DoubleVector h00 = fromAcc(acc, 0), h10 = fromAcc(acc, 1), h11 = fromAcc(acc, 2), h20 = fromAcc(acc, 3);
+        DoubleVector h21 = fromAcc(acc, 4), h22 = fromAcc(acc, 5), h30 = fromAcc(acc, 6), h31 = fromAcc(acc, 7);
+        DoubleVector h32 = fromAcc(acc, 8), h33 = fromAcc(acc, 9), g0 = fromAcc(acc, 10), g1 = fromAcc(acc, 11);
+        DoubleVector g2 = fromAcc(acc, 12), g3 = fromAcc(acc, 13), s0 = fromAcc(acc, 14), s1 = fromAcc(acc, 15);
+        DoubleVector s2 = fromAcc(acc, 16), s3 = fromAcc(acc, 17);
+        final DoubleVector zero = DoubleVector.zero(S);
+        for (int j = j0; j < j1; j++) {
+            DoubleVector a = DoubleVector.fromArray(S, mass, j * L);
+            DoubleVector nj = DoubleVector.fromArray(S, counts, j * L);
+            VectorMask<Double> occupied = nj.compare(VectorOperators.GT, 0.0);
+            DoubleVector coefR = zero.blend(nj.div(a), occupied).sub(nz);
+            DoubleVector u0 = zero, u1 = zero, u2 = zero, u3 = zero;
+            for (int q = start[j]; q < start[j + 1]; q++) {
+                DoubleVector e = DoubleVector.fromArray(S, ex, q * L);
+                DoubleVector v0 = DoubleVector.broadcast(S, c0[q]), v1 = DoubleVector.broadcast(S, c1[q]);
+                DoubleVector v2 = DoubleVector.broadcast(S, c2[q]), v3 = DoubleVector.broadcast(S, c3[q]);
+                u0 = e.fma(v0, u0);
+                u1 = e.fma(v1, u1);
+                u2 = e.fma(v2, u2);
+                u3 = e.fma(v3, u3);
+                DoubleVector r = e.neg().mul(coefR);
+                DoubleVector m0 = r.mul(v0), m1 = r.mul(v1), m2 = r.mul(v2), m3 = r.mul(v3);
+                h00 = m0.fma(v0, h00);
+                h10 = m1.fma(v0, h10);
+                h11 = m1.fma(v1, h11);
+                h20 = m2.fma(v0, h20);
+                h21 = m2.fma(v1, h21);
+                h22 = m2.fma(v2, h22);
+                h30 = m3.fma(v0, h30);
+                h31 = m3.fma(v1, h31);
+                h32 = m3.fma(v2, h32);
+                h33 = m3.fma(v3, h33);
+            }
+            g0 = coefR.fma(u0, g0);
+            g1 = coefR.fma(u1, g1);
+            g2 = coefR.fma(u2, g2);
+            g3 = coefR.fma(u3, g3);
+            s0 = s0.add(u0);
+            s1 = s1.add(u1);
+            s2 = s2.add(u2);
+            s3 = s3.add(u3);
+            DoubleVector coef = nj.div(a.mul(a));
+            DoubleVector x0 = coef.mul(u0), x1 = coef.mul(u1), x2 = coef.mul(u2), x3 = coef.mul(u3);
+            h00 = h00.blend(x0.fma(u0, h00), occupied);
+            h10 = h10.blend(x1.fma(u0, h10), occupied);
+            h11 = h11.blend(x1.fma(u1, h11), occupied);
+            h20 = h20.blend(x2.fma(u0, h20), occupied);
+            h21 = h21.blend(x2.fma(u1, h21), occupied);
+            h22 = h22.blend(x2.fma(u2, h22), occupied);
+            h30 = h30.blend(x3.fma(u0, h30), occupied);
+            h31 = h31.blend(x3.fma(u1, h31), occupied);
+            h32 = h32.blend(x3.fma(u2, h32), occupied);
+            h33 = h33.blend(x3.fma(u3, h33), occupied);
+        }
+        h00.intoArray(acc, 0);
+        h10.intoArray(acc, L);
+        h11.intoArray(acc, 2 * L);
+        h20.intoArray(acc, 3 * L);
+        h21.intoArray(acc, 4 * L);
+        h22.intoArray(acc, 5 * L);
+        h30.intoArray(acc, 6 * L);
+        h31.intoArray(acc, 7 * L);
+        h32.intoArray(acc, 8 * L);
+        h33.intoArray(acc, 9 * L);
+        g0.intoArray(acc, 10 * L);
+        g1.intoArray(acc, 11 * L);
+        g2.intoArray(acc, 12 * L);
+        g3.intoArray(acc, 13 * L);
+        s0.intoArray(acc, 14 * L);
+        s1.intoArray(acc, 15 * L);
+        s2.intoArray(acc, 16 * L);
+        s3.intoArray(acc, 17 * L);
+    }
+
+    private static DoubleVector fromAcc(double[] acc, int v) {
+        return DoubleVector.fromArray(S, acc, v * L);
+    }
+
+    /** A bin across knots: node by node into its own moments uj, the span's sums flushed where the span changes; the current span. */
+    private static int generalBin(Layout lay, int j, int fcur, double[] ex, double[] coefs, DoubleVector nj,
+            double[] grad, double[] hess, double[] mvec, double[] uj, double[] acc) {
+        final double[] c0 = lay.column()[0], c1 = lay.column()[1], c2 = lay.column()[2], c3 = lay.column()[3];
+        final int k1 = lay.k1();
+        int lo = lay.binLo()[j], hi = lay.binHi()[j];
+        DoubleVector coefR = DoubleVector.fromArray(S, coefs, 0);
+        Arrays.fill(uj, lo * L, hi * L, 0.0);
+        for (int q = lay.binStart()[j]; q < lay.binStart()[j + 1]; q++) {
+            DoubleVector e = DoubleVector.fromArray(S, ex, q * L);
+            int f = lay.first()[q];
+            DoubleVector v0 = DoubleVector.broadcast(S, c0[q]), v1 = DoubleVector.broadcast(S, c1[q]);
+            DoubleVector v2 = DoubleVector.broadcast(S, c2[q]), v3 = DoubleVector.broadcast(S, c3[q]);
+            e.fma(v0, DoubleVector.fromArray(S, uj, f * L)).intoArray(uj, f * L);
+            e.fma(v1, DoubleVector.fromArray(S, uj, (f + 1) * L)).intoArray(uj, (f + 1) * L);
+            e.fma(v2, DoubleVector.fromArray(S, uj, (f + 2) * L)).intoArray(uj, (f + 2) * L);
+            e.fma(v3, DoubleVector.fromArray(S, uj, (f + 3) * L)).intoArray(uj, (f + 3) * L);
+            if (f != fcur) {
+                if (fcur >= 0) {
+                    flush(fcur, k1, grad, hess, mvec, acc);
+                }
+                fcur = f;
+                Arrays.fill(acc, 0.0);
+            }
+            DoubleVector r = e.neg().mul(coefR);
+            DoubleVector m0 = r.mul(v0), m1 = r.mul(v1), m2 = r.mul(v2), m3 = r.mul(v3);
+            m0.fma(v0, DoubleVector.fromArray(S, acc, 0 * L)).intoArray(acc, 0);
+            m1.fma(v0, DoubleVector.fromArray(S, acc, 1 * L)).intoArray(acc, L);
+            m1.fma(v1, DoubleVector.fromArray(S, acc, 2 * L)).intoArray(acc, 2 * L);
+            m2.fma(v0, DoubleVector.fromArray(S, acc, 3 * L)).intoArray(acc, 3 * L);
+            m2.fma(v1, DoubleVector.fromArray(S, acc, 4 * L)).intoArray(acc, 4 * L);
+            m2.fma(v2, DoubleVector.fromArray(S, acc, 5 * L)).intoArray(acc, 5 * L);
+            m3.fma(v0, DoubleVector.fromArray(S, acc, 6 * L)).intoArray(acc, 6 * L);
+            m3.fma(v1, DoubleVector.fromArray(S, acc, 7 * L)).intoArray(acc, 7 * L);
+            m3.fma(v2, DoubleVector.fromArray(S, acc, 8 * L)).intoArray(acc, 8 * L);
+            m3.fma(v3, DoubleVector.fromArray(S, acc, 9 * L)).intoArray(acc, 9 * L);
+        }
+        for (int i = lo; i < hi; i++) {
+            DoubleVector u = DoubleVector.fromArray(S, uj, i * L);
+            DoubleVector.fromArray(S, grad, i * L).add(coefR.mul(u)).intoArray(grad, i * L);
+            DoubleVector.fromArray(S, mvec, i * L).add(u).intoArray(mvec, i * L);
+        }
+        if (nj != null) {
+            VectorMask<Double> occupied = nj.compare(VectorOperators.GT, 0.0);
+            DoubleVector coef = DoubleVector.fromArray(S, coefs, L);
+            for (int i = lo; i < hi; i++) {
+                DoubleVector ui = coef.mul(DoubleVector.fromArray(S, uj, i * L));
+                for (int l = lo; l <= i; l++) {
+                    int o = i * k1 + l;
+                    DoubleVector h = DoubleVector.fromArray(S, hess, o * L);
+                    h.blend(h.add(ui.mul(DoubleVector.fromArray(S, uj, l * L))), occupied).intoArray(hess, o * L);
+                }
+            }
+        }
+        return fcur;
+    }
+
+    
+    /** The span's sums added in the order of the one-unit pass (gradient, moments, then the block). */
+    private static void flush(int f, int k1, double[] grad, double[] hess, double[] mvec, double[] acc) {
+        for (int i = 0; i < 4; i++) {
+            add(grad, f + i, acc, 10 + i);
+        }
+        for (int i = 0; i < 4; i++) {
+            add(mvec, f + i, acc, 14 + i);
+        }
+        int r0 = f * k1 + f, r1 = r0 + k1, r2 = r1 + k1, r3 = r2 + k1;
+        add(hess, r0, acc, 0);
+        add(hess, r1, acc, 1);
+        add(hess, r1 + 1, acc, 2);
+        add(hess, r2, acc, 3);
+        add(hess, r2 + 1, acc, 4);
+        add(hess, r2 + 2, acc, 5);
+        add(hess, r3, acc, 6);
+        add(hess, r3 + 1, acc, 7);
+        add(hess, r3 + 2, acc, 8);
+        add(hess, r3 + 3, acc, 9);
+    }
+
+    private static void add(double[] a, int i, double[] acc, int v) {
+        DoubleVector.fromArray(S, a, i * L).add(DoubleVector.fromArray(S, acc, v * L)).intoArray(a, i * L);
+    }
+
+    @Override
+    public void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed) {
+        Arrays.fill(failed, 0, L, -1);
+        double[] pivot = new double[n * L];
+        for (int i = 0; i < n; i++) {
+            System.arraycopy(a, (i * s + i) * L, pivot, i * L, L);
+        }
+        for (int j = 0; j < n; j++) {
+            int rj = j * s;
+            DoubleVector ajj = DoubleVector.fromArray(S, a, (rj + j) * L);
+            DoubleVector d = DoubleVector.fromArray(S, pivot, j * L);
+            DoubleVector floor = minRelativePivot == 0 ? DoubleVector.zero(S) : ajj.abs().mul(minRelativePivot);
+            VectorMask<Double> ok = d.compare(VectorOperators.GT, floor)
+                    .and(d.compare(VectorOperators.NE, Double.POSITIVE_INFINITY));
+            if (!ok.allTrue()) {
+                for (int l = 0; l < L; l++) {
+                    if (!ok.laneIsSet(l) && failed[l] < 0) {
+                        failed[l] = j;
+                    }
+                }
+            }
+            d = d.sqrt();
+            d.intoArray(a, (rj + j) * L);
+            DoubleVector inv = DoubleVector.broadcast(S, 1.0).div(d);
+            int i = j + 1;
+            for (; i + 3 < n; i += 4) {
+                int r0 = i * s, r1 = r0 + s, r2 = r1 + s, r3 = r2 + s;
+                DoubleVector v0 = DoubleVector.fromArray(S, a, (r0 + j) * L);
+                DoubleVector v1 = DoubleVector.fromArray(S, a, (r1 + j) * L);
+                DoubleVector v2 = DoubleVector.fromArray(S, a, (r2 + j) * L);
+                DoubleVector v3 = DoubleVector.fromArray(S, a, (r3 + j) * L);
+                for (int p = 0; p < j; p++) {
+                    DoubleVector b = DoubleVector.fromArray(S, a, (rj + p) * L);
+                    v0 = v0.sub(DoubleVector.fromArray(S, a, (r0 + p) * L).mul(b));
+                    v1 = v1.sub(DoubleVector.fromArray(S, a, (r1 + p) * L).mul(b));
+                    v2 = v2.sub(DoubleVector.fromArray(S, a, (r2 + p) * L).mul(b));
+                    v3 = v3.sub(DoubleVector.fromArray(S, a, (r3 + p) * L).mul(b));
+                }
+                DoubleVector l0 = v0.mul(inv), l1 = v1.mul(inv), l2 = v2.mul(inv), l3 = v3.mul(inv);
+                l0.intoArray(a, (r0 + j) * L);
+                l1.intoArray(a, (r1 + j) * L);
+                l2.intoArray(a, (r2 + j) * L);
+                l3.intoArray(a, (r3 + j) * L);
+                DoubleVector.fromArray(S, pivot, i * L).sub(l0.mul(l0)).intoArray(pivot, i * L);
+                DoubleVector.fromArray(S, pivot, (i + 1) * L).sub(l1.mul(l1)).intoArray(pivot, (i + 1) * L);
+                DoubleVector.fromArray(S, pivot, (i + 2) * L).sub(l2.mul(l2)).intoArray(pivot, (i + 2) * L);
+                DoubleVector.fromArray(S, pivot, (i + 3) * L).sub(l3.mul(l3)).intoArray(pivot, (i + 3) * L);
+            }
+            for (; i < n; i++) {
+                int ri = i * s;
+                DoubleVector v = DoubleVector.fromArray(S, a, (ri + j) * L);
+                for (int p = 0; p < j; p++) {
+                    v = v.sub(DoubleVector.fromArray(S, a, (ri + p) * L).mul(DoubleVector.fromArray(S, a, (rj + p) * L)));
+                }
+                DoubleVector l = v.mul(inv);
+                l.intoArray(a, (ri + j) * L);
+                DoubleVector.fromArray(S, pivot, i * L).sub(l.mul(l)).intoArray(pivot, i * L);
+            }
+        }
+    }
+}

@@ -1,0 +1,223 @@
+package io.densa.core.estimate;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+import static org.junit.jupiter.api.Assumptions.assumeTrue;
+
+import io.densa.core.BayesSpace;
+import io.densa.core.DensitySet;
+import io.densa.core.internal.RawBasis;
+import io.densa.core.internal.RoughnessPenalty;
+import io.densa.core.internal.UnitLanes;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Random;
+import org.junit.jupiter.api.Test;
+
+/**
+ * Units carried in the lanes of one vector ({@link NewtonLanes}) must be fitted exactly as one
+ * unit alone by {@link PenalizedNewton#solve}: the same bits in every number the engine hands on
+ * (coefficients, iterations, failure message, log-likelihood, quadrature state, Newton factor's
+ * log determinant), whatever the other lanes hold. The reference is the one-unit engine on the
+ * same (vector) kernel path; the check is exact equality. Runs on the vector path only (the
+ * test execution with {@code --add-modules jdk.incubator.vector}).
+ */
+class NewtonLanesTest {
+
+    /** Counts of many shapes: dense and sparse, empty ends, a spike, a single occupied bin, none at all. */
+    private static double[][] units(int n, long seed) {
+        Random r = new Random(seed);
+        double[][] c = new double[n][365];
+        for (int i = 0; i < n; i++) {
+            int kind = i % 7;
+            double centre = 40 + 280 * r.nextDouble(), width = 5 + 80 * r.nextDouble();
+            double level = kind == 0 ? 0.05 : kind == 1 ? 40 : 1 + 5 * r.nextDouble();
+            for (int j = 0; j < 365; j++) {
+                double x = (j + 0.5 - centre) / width;
+                double mean = level * Math.exp(-0.5 * x * x) * (kind == 2 && j > 300 ? 0 : 1);
+                c[i][j] = Math.floor(mean + r.nextDouble() * Math.sqrt(mean + 0.1));
+            }
+            if (kind == 3) {
+                c[i][(int) centre] += 400; // a spike
+            }
+            if (kind == 4 && i % 2 == 0) {
+                java.util.Arrays.fill(c[i], 0);
+                c[i][100 + i % 50] = 3; // one occupied bin
+            }
+            if (kind == 5 && i % 3 == 0) {
+                java.util.Arrays.fill(c[i], 0); // no events: not fitted
+            }
+        }
+        return c;
+    }
+
+    /** Daily counts summed into the given number of equal bins. */
+    private static double[][] coarse(double[][] daily, int bins) {
+        double[][] c = new double[daily.length][bins];
+        for (int i = 0; i < daily.length; i++) {
+            for (int j = 0; j < 365; j++) {
+                c[i][(int) ((long) j * bins / 365)] += daily[i][j];
+            }
+        }
+        return c;
+    }
+
+    private record Fit(double[] beta, int iterations, String failure, double loglik, double logDet, double z,
+            double shift, double[] ex, double[] mass) {
+        static Fit of(PenalizedNewton e) {
+            PenalizedObjective lik = e.objective();
+            return new Fit(e.coefficients(), e.iterations(), e.failure(), e.logLikelihood(), e.newtonLogDet(),
+                    lik.zScaled(), lik.shift(), lik.ex.clone(), lik.mass.clone());
+        }
+
+        void assertSame(Fit o, String where) {
+            assertEquals(bits(beta), bits(o.beta), where + ": coefficients");
+            assertEquals(iterations, o.iterations, where + ": iterations");
+            assertEquals(failure, o.failure, where + ": failure");
+            assertEquals(Double.doubleToLongBits(loglik), Double.doubleToLongBits(o.loglik), where + ": loglik");
+            assertEquals(Double.doubleToLongBits(logDet), Double.doubleToLongBits(o.logDet), where + ": log det");
+            assertEquals(Double.doubleToLongBits(z), Double.doubleToLongBits(o.z), where + ": Z");
+            assertEquals(Double.doubleToLongBits(shift), Double.doubleToLongBits(o.shift), where + ": shift");
+            assertEquals(bits(ex), bits(o.ex), where + ": exponentials");
+            assertEquals(bits(mass), bits(o.mass), where + ": masses");
+        }
+
+        private static List<Long> bits(double[] a) {
+            List<Long> out = new ArrayList<>();
+            for (double v : a) {
+                out.add(Double.doubleToLongBits(v));
+            }
+            return out;
+        }
+    }
+
+    private static void check(double lambda, double[] prior, long seed, int maxIter, int bins) {
+        UnitLanes lanes = UnitLanes.active();
+        assumeTrue(lanes != null, "the vector path is not active (no --add-modules jdk.incubator.vector)");
+        BayesSpace space = BayesSpace.cubicSplines(0, 365, 21);
+        double[] edges = new double[bins + 1];
+        for (int j = 0; j <= bins; j++) {
+            edges[j] = 365.0 * j / bins;
+        }
+        BinLayout lay = new BinLayout(space, edges, 0);
+        RawBasis raw = EstimationSupport.rawBasis(space.basis());
+        double[] pen = RoughnessPenalty.raw(raw, 2);
+        double[] startConst = new double[space.dimension()];
+        double[] startMap = lay.startMap(space, raw, pen, startConst);
+        double[] u = EstimationSupport.upperU(space.basisTransform(), space.dimension());
+        java.util.function.Supplier<PenalizedNewton> engines = () -> {
+            PenalizedNewton e = new PenalizedNewton(lay, pen, prior);
+            e.setCoordinateMap(u);
+            e.setStartMap(startMap, startConst);
+            return e;
+        };
+        double[][] counts = coarse(units(61, seed), bins);
+        double[] totals = new double[counts.length];
+        Fit[] alone = new Fit[counts.length];
+        PenalizedNewton one = engines.get();
+        for (int i = 0; i < counts.length; i++) {
+            for (double v : counts[i]) {
+                totals[i] += v;
+            }
+            if (totals[i] > 0) {
+                one.useCounts(counts[i].clone(), totals[i]);
+                one.startFromCounts();
+                one.solve(lambda, maxIter, 1e-12);
+                alone[i] = Fit.of(one);
+            }
+        }
+        Fit[] laned = new Fit[counts.length];
+        boolean[] seen = new boolean[counts.length];
+        new NewtonLanes(lanes, lay, engines).fit(0, counts.length, lambda, maxIter, 1e-12, new NewtonLanes.Units() {
+            @Override
+            public boolean load(int i, PenalizedNewton eng, double[] row) {
+                seen[i] = true;
+                if (!(totals[i] > 0)) {
+                    return false;
+                }
+                System.arraycopy(counts[i], 0, row, 0, row.length);
+                eng.useCounts(row, totals[i]);
+                eng.startFromCounts();
+                return true;
+            }
+
+            @Override
+            public void finish(int i, PenalizedNewton eng, boolean converged) {
+                assertEquals(eng.failure() == null, converged, "unit " + i);
+                laned[i] = Fit.of(eng);
+            }
+        });
+        int fitted = 0;
+        for (int i = 0; i < counts.length; i++) {
+            assertTrue(seen[i], "unit " + i + " offered");
+            if (alone[i] == null) {
+                assertEquals(null, laned[i], "unit " + i + " without events is not fitted");
+                continue;
+            }
+            alone[i].assertSame(laned[i], "lambda " + lambda + ", unit " + i);
+            fitted++;
+        }
+        assertTrue(fitted > 40, "units fitted: " + fitted);
+
+    }
+
+    @Test
+    void lanesGiveTheBitsOfOneUnitAlone() {
+        check(5e4, null, 11, 100, 365);
+        check(30, null, 12, 100, 365); // little smoothing: more iterations, line searches
+        check(30, null, 16, 3, 365); // stopped after three iterations
+    }
+
+    /** Bins wider than the knot spans: most bins in the general loop, observed information often not positive definite. */
+    @Test
+    void lanesGiveTheBitsOfOneUnitAloneOnWideBins() {
+        check(1e-2, null, 17, 100, 40);
+        check(1e-4, null, 18, 100, 15);
+        check(0.0, null, 20, 100, 15); // fewer bins than coordinates, no penalty: singular information
+    }
+
+    @Test
+    void lanesGiveTheBitsOfOneUnitAloneWithAPrior() {
+        int k = BayesSpace.cubicSplines(0, 365, 21).dimension();
+        double[] prior = new double[k * k];
+        for (int i = 0; i < k; i++) {
+            prior[i * k + i] = 1e-3;
+        }
+        check(300, prior, 13, 100, 365);
+        check(3, prior, 19, 100, 40);
+    }
+
+    /** The public batch: one call for many units against one call per unit (other units in the lanes, or none). */
+    @Test
+    void batchEqualsUnitByUnit() {
+        assumeTrue(UnitLanes.active() != null, "the vector path is not active");
+        BayesSpace space = BayesSpace.cubicSplines(0, 365, 21);
+        double[] edges = new double[366];
+        for (int j = 0; j <= 365; j++) {
+            edges[j] = j;
+        }
+        double[][] c = units(23, 14);
+        int[][] counts = new int[c.length][];
+        for (int i = 0; i < c.length; i++) {
+            counts[i] = new int[365];
+            for (int j = 0; j < 365; j++) {
+                counts[i][j] = (int) c[i][j];
+            }
+            counts[i][200] += 1; // every unit has events
+        }
+        PenalizedLikelihoodEstimator e = PenalizedLikelihoodEstimator.withDefaults(space).withSmoothing(2e3)
+                .withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.COUNTED);
+        String[] ids = new String[c.length];
+        java.util.Arrays.setAll(ids, i -> "u" + i);
+        BatchEstimate all = e.fitAll(edges, counts, ids);
+        DensitySet d = all.densities();
+        for (int i = 0; i < c.length; i++) {
+            UnitEstimate one = e.fitAll(edges, new int[][] {counts[i]}, new String[] {ids[i]}).unit(0);
+            double[] a = d.get(i).coordinates(), b = one.density().coordinates();
+            for (int j = 0; j < a.length; j++) {
+                assertEquals(Double.doubleToLongBits(a[j]), Double.doubleToLongBits(b[j]), "unit " + i + ", " + j);
+            }
+            assertEquals(one.diagnostics(), all.diagnostics().get(i), "unit " + i);
+        }
+    }
+}
