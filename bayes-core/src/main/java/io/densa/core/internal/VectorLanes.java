@@ -28,7 +28,7 @@ final class VectorLanes extends UnitLanes {
             double[] res) {
         etaAndMax(lay, beta, eta, res);
         exponentials(lay, eta, res, ex);
-        massesAndLogLikelihood(lay, counts, ex, mass, res);
+        massesAndLogLikelihood(lay, counts, ex, mass, eta, res); // η no longer needed: its array takes the log masses
     }
 
     /** η at every node (the one-unit pass's sums run by run) and its maximum, into res[L..2L). */
@@ -89,7 +89,7 @@ final class VectorLanes extends UnitLanes {
 
     /** The bin masses, Z into res[0..L) and ℓ into res[2L..3L). */
     private static void massesAndLogLikelihood(Layout lay, double[] counts, double[] ex, double[] mass,
-            double[] res) {
+            double[] logMass, double[] res) {
         final int[] start = lay.binStart();
         final int bins = lay.bins();
         final DoubleVector zero = DoubleVector.zero(S);
@@ -108,7 +108,6 @@ final class VectorLanes extends UnitLanes {
             logZ[l] = Math.log(res[l]);
         }
         DoubleVector lz = DoubleVector.fromArray(S, logZ, 0);
-        double[] logMass = new double[bins * L];
         for (int j = 0; j < bins; j++) {
             logs(mass, j * L, logMass);
         }
