@@ -11,7 +11,10 @@ import java.util.function.Supplier;
  * vector. The passes give each lane the bits the one-unit passes give, and each engine answers
  * the same requests in the same order as its own {@link PenalizedNewton#solve}, so a unit's fit
  * is the same to the bit as alone, whichever units share the lanes. A lane whose unit has
- * finished takes the next unit at once. Internal.
+ * finished takes the next unit at once (with a fresh engine); the finished engines wait until as
+ * many as there are lanes have finished, and their sandwich covariances are computed together,
+ * one unit per lane again ({@link UnitLanes#covarianceStart}, the same bits as
+ * {@link NewtonCovariance#sandwich}). Internal.
  *
  * <p>A round: the lanes that asked for derivatives get them from one pass (a lane whose observed
  * information is not positive definite gets the expected one from its own engine), then every
@@ -27,8 +30,11 @@ final class NewtonLanes {
          */
         boolean load(int i, PenalizedNewton eng, double[] row);
 
-        /** Finishes unit i after its iteration (covariance, diagnostics, output). */
-        void finish(int i, PenalizedNewton eng, boolean converged);
+        /**
+         * Finishes unit i after its iteration (diagnostics, output) with its robust sandwich
+         * covariance and edf, or computes them when cov is null.
+         */
+        void finish(int i, PenalizedNewton eng, boolean converged, double[] cov, double edf);
     }
 
     private final UnitLanes kern;
@@ -36,7 +42,20 @@ final class NewtonLanes {
     private final UnitLanes.Layout lay;
     private final int k1;
     private final PenalizedNewton[] eng;
-    private final double[][] rows;
+    /** Engines not in a lane (free, or finished and waiting for the covariance batch), and each engine's counts row. */
+    private final java.util.ArrayDeque<PenalizedNewton> free = new java.util.ArrayDeque<>();
+    private final java.util.IdentityHashMap<PenalizedNewton, double[]> rows = new java.util.IdentityHashMap<>();
+    private final PenalizedNewton[] waiting;
+    private final int[] waitingUnit;
+    private final boolean[] waitingConverged;
+    private int waitingCount;
+    /** The covariance batch: λ, penalty, prior (or null), coordinate map, and the lanes' matrices. */
+    private final double lambda;
+    private final double[] pen, prior, u;
+    private final double[] jm, fm, linv, t1, edf, meat, wm, mm, t2, cov;
+    private final int[] covFailed;
+    /** The expected-information pass of the waiting engines, one per lane. */
+    private final double[] fEx, fMass, fTotals, fZ, fHess, fMvec, fUj;
     private final int[] unit;
     private final int[] need;
     private final double[] beta, counts, totals, zs, eta, ex, mass, res, grad, hess, mvec, uj, factor;
@@ -44,17 +63,52 @@ final class NewtonLanes {
     /** Lowest column of row i that a node pass can touch (the band of the information). */
     private final int[] bandLo;
 
-    NewtonLanes(UnitLanes kern, BinLayout layout, Supplier<PenalizedNewton> engines) {
+    /**
+     * For units of counts on layout at λ; engines makes an engine (coordinate map and start map
+     * set), pen, prior and u are the engines' penalty, prior (or null) and coordinate map.
+     */
+    NewtonLanes(UnitLanes kern, BinLayout layout, Supplier<PenalizedNewton> engines, double lambda, double[] pen,
+            double[] prior, double[] u) {
         this.kern = kern;
         this.lanes = kern.lanes();
         this.lay = layout.lanes();
         this.k1 = lay.k1();
         int l = lanes;
         eng = new PenalizedNewton[l];
-        rows = new double[l][lay.bins()];
-        for (int i = 0; i < l; i++) {
-            eng[i] = engines.get();
+        for (int i = 0; i < 2 * l; i++) {
+            PenalizedNewton e = engines.get();
+            rows.put(e, new double[lay.bins()]);
+            free.add(e);
         }
+        for (int i = 0; i < l; i++) {
+            eng[i] = free.poll();
+        }
+        waiting = new PenalizedNewton[l];
+        waitingUnit = new int[l];
+        waitingConverged = new boolean[l];
+        this.lambda = lambda;
+        this.pen = pen;
+        this.prior = prior;
+        this.u = u;
+        int kk = (k1 - 1) * (k1 - 1) * l;
+        jm = new double[kk];
+        fm = new double[kk];
+        linv = new double[kk];
+        t1 = new double[kk];
+        meat = new double[kk];
+        wm = new double[kk];
+        mm = new double[kk];
+        t2 = new double[kk];
+        cov = new double[kk];
+        edf = new double[l];
+        covFailed = new int[l];
+        fEx = new double[lay.nodes() * l];
+        fMass = new double[lay.bins() * l];
+        fTotals = new double[l];
+        fZ = new double[l];
+        fHess = new double[k1 * k1 * l];
+        fMvec = new double[k1 * l];
+        fUj = new double[k1 * l];
         unit = new int[l];
         need = new int[l];
         beta = new double[k1 * l];
@@ -105,7 +159,7 @@ final class NewtonLanes {
                 for (int l = 0; l < lanes; l++) {
                     if (unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE) {
                         PenalizedObjective lik = eng[l].objective();
-                        copyDerivatives(l, lik);
+                        copyDerivatives(l, lik, grad, hess, mvec);
                         lik.finishDerivatives(lambda, true, eng[l].betaView());
                         double[] h = lik.hess;
                         for (int i = 0; i < k; i++) {
@@ -153,6 +207,7 @@ final class NewtonLanes {
                 }
             }
             if (!any) {
+                finishWaiting(units);
                 return;
             }
             kern.evaluate(lay, beta, counts, eta, ex, mass, res);
@@ -176,8 +231,8 @@ final class NewtonLanes {
         unit[l] = -1;
         while (next < to) {
             int i = next++;
-            if (units.load(i, eng[l], rows[l])) {
-                double[] r = rows[l];
+            double[] r = rows.get(eng[l]);
+            if (units.load(i, eng[l], r)) {
                 for (int j = 0; j < r.length; j++) {
                     counts[j * lanes + l] = r[j];
                 }
@@ -193,13 +248,89 @@ final class NewtonLanes {
         return next;
     }
 
-    /** Lane l's unit has finished: its engine takes the lane's last evaluation and finishes; the lane takes the next unit. */
+    /**
+     * Lane l's unit has finished: its engine takes the lane's last evaluation and waits for the
+     * covariance batch; the lane takes a free engine and the next unit.
+     */
     private int complete(int l, int next, int to, double lambda, int maxIter, double tol, Units units) {
         PenalizedNewton e = eng[l];
         copyEvaluation(l, e.objective());
         e.keepFactor();
-        units.finish(unit[l], e, e.converged());
+        waiting[waitingCount] = e;
+        waitingUnit[waitingCount] = unit[l];
+        waitingConverged[waitingCount++] = e.converged();
+        if (waitingCount == lanes) {
+            finishWaiting(units);
+        }
+        eng[l] = free.poll();
         return load(l, next, to, lambda, maxIter, tol, units);
+    }
+
+    /**
+     * The waiting engines' robust sandwich covariances, one engine per lane (lanes whose J is not
+     * positive definite are left to the engine's own {@link NewtonCovariance#sandwich}, which
+     * reports it), then each unit's finish; the engines become free.
+     */
+    private void finishWaiting(Units units) {
+        int n = k1 - 1, w = waitingCount;
+        if (w == 0) {
+            return;
+        }
+        for (int s = 0; s < w; s++) {
+            PenalizedObjective lik = waiting[s].objective();
+            for (int q = 0; q < lik.ex.length; q++) {
+                fEx[q * lanes + s] = lik.ex[q];
+            }
+            for (int j = 0; j < lik.mass.length; j++) {
+                fMass[j * lanes + s] = lik.mass[j];
+            }
+            fTotals[s] = lik.total();
+            fZ[s] = lik.zScaled();
+        }
+        kern.expectedInformation(lay, fTotals, fEx, fMass, fZ, fHess, fMvec, fUj);
+        for (int s = 0; s < w; s++) {
+            PenalizedObjective lik = waiting[s].objective();
+            copyDerivatives(s, lik, null, fHess, fMvec);
+            lik.finishDerivatives(0.0, false, null); // the rest of PenalizedObjective.fisherInformation
+            lik.fisherFromPass();
+            double[] f = lik.fisher();
+            NewtonCovariance.information(f, lambda, pen, prior, null, n, jm, s, lanes);
+            for (int i = 0; i < n * n; i++) {
+                fm[i * lanes + s] = f[i];
+            }
+        }
+        kern.covarianceStart(n, jm, fm, linv, t1, edf, covFailed);
+        double[] own = new double[n * n];
+        for (int s = 0; s < w; s++) {
+            PenalizedNewton e = waiting[s];
+            double total = e.total();
+            double[] m = e.objective().fisher();
+            if (covFailed[s] < 0 && total > edf[s] + 1) { // the robust meat, as NewtonCovariance.sandwich
+                e.objective().empiricalInformation(own);
+                double f = total / (total - edf[s]);
+                for (int i = 0; i < n * n; i++) {
+                    own[i] *= f;
+                }
+                m = own;
+            }
+            for (int i = 0; i < n * n; i++) {
+                meat[i * lanes + s] = m[i];
+            }
+        }
+        kern.covarianceFinish(n, linv, meat, u, t1, wm, mm, t2, cov);
+        for (int s = 0; s < w; s++) {
+            double[] c = null;
+            if (covFailed[s] < 0) {
+                c = new double[n * n];
+                for (int i = 0; i < n * n; i++) {
+                    c[i] = cov[i * lanes + s];
+                }
+            }
+            units.finish(waitingUnit[s], waiting[s], waitingConverged[s], c, edf[s]);
+            free.add(waiting[s]);
+            waiting[s] = null;
+        }
+        waitingCount = 0;
     }
 
     private void copyEvaluation(int l, PenalizedObjective lik) {
@@ -213,15 +344,16 @@ final class NewtonLanes {
         }
     }
 
-    private void copyDerivatives(int l, PenalizedObjective lik) {
+    /** Lane l's node pass (band of hess, mvec, and grad unless null) into the objective's arrays. */
+    private void copyDerivatives(int l, PenalizedObjective lik, double[] gradL, double[] hessL, double[] mvecL) {
         double[] g = lik.grad, h = lik.hess, m = lik.mvec;
         java.util.Arrays.fill(h, 0.0);
         for (int i = 0; i < k1; i++) {
-            g[i] = grad[i * lanes + l];
-            m[i] = mvec[i * lanes + l];
+            g[i] = gradL == null ? 0.0 : gradL[i * lanes + l];
+            m[i] = mvecL[i * lanes + l];
             int row = i * k1;
             for (int c = bandLo[i]; c <= i; c++) {
-                h[row + c] = hess[(row + c) * lanes + l];
+                h[row + c] = hessL[(row + c) * lanes + l];
             }
         }
     }

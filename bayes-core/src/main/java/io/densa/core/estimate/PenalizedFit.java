@@ -82,7 +82,7 @@ final class PenalizedFit {
         return RoughnessPenalty.inCoordinates(t, rawPenalty, k);
     }
 
-    /** Fits units of whole counts (validated here; see {@link PenalizedLikelihoodEstimator#fitAll(double[], int[][], String[])}). */
+    /** Fits units of whole counts (validated here; see {@link PenalizedLikelihoodEstimator#fitAll}). */
     BatchEstimate counts(double[] edges, int[][] counts, String[] ids) {
         return counts(edges, counts, ids, null);
     }
@@ -216,7 +216,6 @@ final class PenalizedFit {
         double[] startMap = p.startMap();
         double[] out = new double[n * k];
         EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
-        int blocks = (n + UNITS_PER_BLOCK - 1) / UNITS_PER_BLOCK;
         ProgressCounter done = shared != null ? shared : progressOf(n);
         // at a fixed λ on the vector path, units share the lanes of the quadrature passes (NewtonLanes)
         UnitLanes lanes = Double.isNaN(fixedLambda) || criterion == SmoothingCriterion.CROSS_VALIDATION
@@ -227,12 +226,12 @@ final class PenalizedFit {
             eng.setStartMap(startMap, startConst);
             return eng;
         };
-        if (lanes != null) {
-            int perBlock = UNITS_PER_BLOCK * lanes.lanes();
-            Kernels.forEachBlock((n + perBlock - 1) / perBlock, parallel && n > 1, blk -> {
-                int i0 = blk * perBlock, i1 = Math.min(n, i0 + perBlock);
-                new NewtonLanes(lanes, lay, engines).fit(i0, i1, fixedLambda, maxIterations, tolerance,
-                        new NewtonLanes.Units() {
+        int perBlock = lanes == null ? UNITS_PER_BLOCK : UNITS_PER_BLOCK * lanes.lanes();
+        Kernels.forEachBlock((n + perBlock - 1) / perBlock, parallel && n > 1, blk -> {
+            int i0 = blk * perBlock, i1 = Math.min(n, i0 + perBlock);
+            if (lanes != null) {
+                new NewtonLanes(lanes, lay, engines, fixedLambda, rawPenalty, prior, u).fit(i0, i1, fixedLambda,
+                        maxIterations, tolerance, new NewtonLanes.Units() {
                             @Override
                             public boolean load(int i, PenalizedNewton eng, double[] row) {
                                 if (!(totals[i] > 0)) {
@@ -246,31 +245,26 @@ final class PenalizedFit {
                             }
 
                             @Override
-                            public void finish(int i, PenalizedNewton eng, boolean converged) {
-                                diag[i] = finishUnit(eng, fixedLambda, converged, false, null,
-                                        new double[] {Double.NaN, Double.NaN}, EstimationSupport.id(ids, i), i, out, null);
+                            public void finish(int i, PenalizedNewton eng, boolean ok, double[] cov, double edf) {
+                                diag[i] = finishUnit(eng, fixedLambda, ok, false, null, new double[] {Double.NaN,
+                                    Double.NaN}, EstimationSupport.id(ids, i), i, out, null, cov, edf);
                             }
                         });
-                done.advance(i1 - i0);
-            });
-            return new BatchEstimate(DensitySet.ofRowMajor(space, out, n, ids == null ? null : ids.clone()),
-                    Arrays.asList(diag));
-        }
-        Kernels.forEachBlock(blocks, parallel && n > 1, blk -> {
-            PenalizedNewton eng = engines.get();
-            double[] row = new double[lay.bins];
-            int i1 = Math.min(n, (blk + 1) * UNITS_PER_BLOCK);
-            for (int i = blk * UNITS_PER_BLOCK; i < i1; i++) {
-                rows.copy(i, row);
-                String id = EstimationSupport.id(ids, i);
-                if (!(totals[i] > 0)) {
-                    diag[i] = emptyUnit(id);
-                    continue;
+            } else {
+                PenalizedNewton eng = engines.get();
+                double[] row = new double[lay.bins];
+                for (int i = i0; i < i1; i++) {
+                    rows.copy(i, row);
+                    String id = EstimationSupport.id(ids, i);
+                    if (!(totals[i] > 0)) {
+                        diag[i] = emptyUnit(id);
+                        continue;
+                    }
+                    eng.useCounts(row, totals[i]);
+                    diag[i] = fitUnit(eng, scale, id, i, out, null);
                 }
-                eng.useCounts(row, totals[i]);
-                diag[i] = fitUnit(eng, scale, id, i, out, null);
             }
-            done.advance(i1 - blk * UNITS_PER_BLOCK);
+            done.advance(i1 - i0);
         });
         String[] idCopy = ids == null ? null : ids.clone();
         return new BatchEstimate(DensitySet.ofRowMajor(space, out, n, idCopy), Arrays.asList(diag));
@@ -395,19 +389,25 @@ final class PenalizedFit {
             lambda = search.choose(eng, scale, cv, found);
         }
         return finishUnit(eng, lambda, eng.solve(lambda, maxIterations, tolerance), choose, cv, found, id, index, out,
-                sample);
+                sample, null, Double.NaN);
     }
 
-    /** A unit's fit after its last Newton iteration at λ: covariance, criterion, diagnostics and coordinates. */
+    /**
+     * A unit's fit after its last Newton iteration at λ: covariance, criterion, diagnostics and
+     * coordinates; with the robust sandwich covariance and its edf when given (else computed here).
+     */
     private EstimationDiagnostics finishUnit(PenalizedNewton eng, double lambda, boolean ok, boolean choose,
-            CrossValidationFolds cv, double[] found, String id, int index, double[] out, SampleData sample) {
+            CrossValidationFolds cv, double[] found, String id, int index, double[] out, SampleData sample,
+            double[] given, double givenEdf) {
         String reason = ok ? "" : eng.failure();
         int iterations = eng.iterations();
         double loglik = eng.logLikelihood();
-        double[] cov = new double[k * k];
-        // solve leaves the objective evaluated at the final β: no second quadrature pass
-        eng.fisherInformation();
-        double edf = eng.sandwich(lambda, u, cov, true, null);
+        double[] cov = given != null ? given : new double[k * k];
+        double edf = givenEdf;
+        if (given == null) { // solve leaves the objective evaluated at the final β: no second quadrature pass
+            eng.fisherInformation();
+            edf = eng.sandwich(lambda, u, cov, true, null);
+        }
         if (Double.isNaN(edf) && prior != null) {
             // J = F + 2λΩ + 2Q is positive definite in exact arithmetic; seen only with absurd fixed λ
             // (1e167), where rounding of 2λΩ swamps the prior in Ω's null space

@@ -74,9 +74,33 @@ public abstract class UnitLanes {
             double[] z, double[] grad, double[] hess, double[] mvec, double[] uj);
 
     /**
+     * The node pass of the expected (Fisher) information at the last evaluation of every lane, as
+     * {@link #derivatives} for the observed one: hess and mvec as the one-unit pass leaves them
+     * before the rank-one term (grad is not computed).
+     */
+    public abstract void expectedInformation(Layout lay, double[] totals, double[] ex, double[] mass, double[] z,
+            double[] hess, double[] mvec, double[] uj);
+
+    /**
      * {@link Cholesky#factor} of every lane's matrix (n × n, row stride s, lower triangle read and
      * overwritten), with the same operations in the same order per lane. A lane whose pivot fails
      * gets its column in {@code failed} (−1 where the factor is complete) and a meaningless matrix.
      */
     public abstract void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed);
+
+    /**
+     * The first half of the sandwich covariance of every lane ({@code NewtonCovariance.sandwich},
+     * the same operations in the same order): the Cholesky factor L of J (n × n, overwritten; a lane
+     * whose factorisation fails gets its column in {@code failed}, else −1), L⁻¹ into linv,
+     * L⁻¹F into t1 and edf = tr(L⁻¹FL⁻ᵀ).
+     */
+    public abstract void covarianceStart(int n, double[] j, double[] fisher, double[] linv, double[] t1,
+            double[] edf, int[] failed);
+
+    /**
+     * The second half: W = L⁻¹ M L⁻ᵀ for each lane's meat M, then cov = (U L⁻ᵀ) W (U L⁻ᵀ)ᵀ with the
+     * coordinate map U (n × n upper triangular, shared by the lanes, one value per entry).
+     */
+    public abstract void covarianceFinish(int n, double[] linv, double[] meat, double[] u, double[] t1,
+            double[] wm, double[] m, double[] t2, double[] cov);
 }

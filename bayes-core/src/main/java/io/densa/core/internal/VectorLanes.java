@@ -40,7 +40,10 @@ final class VectorLanes extends UnitLanes {
         DoubleVector max = DoubleVector.broadcast(S, Double.NEGATIVE_INFINITY);
         for (int r = 0; r + 1 < runs.length; r++) {
             int q0 = runs[r], q1 = runs[r + 1], f = first[q0];
-            DoubleVector b0 = DoubleVector.fromArray(S, beta, f * L), b1 = DoubleVector.fromArray(S, beta, (f + 1) * L), b2 = DoubleVector.fromArray(S, beta, (f + 2) * L), b3 = DoubleVector.fromArray(S, beta, (f + 3) * L);
+            DoubleVector b0 = DoubleVector.fromArray(S, beta, f * L);
+            DoubleVector b1 = DoubleVector.fromArray(S, beta, (f + 1) * L);
+            DoubleVector b2 = DoubleVector.fromArray(S, beta, (f + 2) * L);
+            DoubleVector b3 = DoubleVector.fromArray(S, beta, (f + 3) * L);
             for (int q = q0; q < q1; q++) {
                 DoubleVector s = zero.add(b0.mul(DoubleVector.broadcast(S, c0[q])))
                         .add(b1.mul(DoubleVector.broadcast(S, c1[q]))).add(b2.mul(DoubleVector.broadcast(S, c2[q])))
@@ -182,6 +185,132 @@ final class VectorLanes extends UnitLanes {
         }
     }
 
+    @Override
+    public void expectedInformation(Layout lay, double[] totals, double[] ex, double[] mass, double[] zs,
+            double[] hess, double[] mvec, double[] uj) {
+        final int k1 = lay.k1();
+        Arrays.fill(hess, 0, k1 * k1 * L, 0.0);
+        Arrays.fill(mvec, 0, k1 * L, 0.0);
+        final DoubleVector tot = DoubleVector.fromArray(S, totals, 0), z = DoubleVector.fromArray(S, zs, 0);
+        double[] acc = new double[ACC * L];
+        double[] unused = new double[k1 * L]; // the gradient's sums (not computed: zero)
+        final int bins = lay.bins();
+        final int[] binLo = lay.binLo();
+        final boolean[] oneSpan = lay.oneSpan();
+        int fcur = -1;
+        for (int j = 0; j < bins; ) {
+            int lo = binLo[j];
+            if (oneSpan[j]) {
+                if (lo != fcur) {
+                    if (fcur >= 0) {
+                        flush(fcur, k1, unused, hess, mvec, acc);
+                    }
+                    fcur = lo;
+                    Arrays.fill(acc, 0.0);
+                }
+                int j1 = j + 1;
+                while (j1 < bins && oneSpan[j1] && binLo[j1] == lo) {
+                    j1++;
+                }
+                expectedSpanBins(lay, j, j1, mass, tot, z, ex, acc);
+                j = j1;
+                continue;
+            }
+            expectedGeneralBin(lay, j, mass, tot, z, ex, hess, mvec, uj);
+            j++;
+        }
+        if (fcur >= 0) {
+            flush(fcur, k1, unused, hess, mvec, acc);
+        }
+    }
+
+    /** Bins j0..j1−1 inside the current span: moments and rank-one terms of the expected information. */
+    private static void expectedSpanBins(Layout lay, int j0, int j1, double[] mass, DoubleVector tot,
+            DoubleVector z, double[] ex, double[] acc) {
+        final double[] c0 = lay.column()[0], c1 = lay.column()[1], c2 = lay.column()[2], c3 = lay.column()[3];
+        final int[] start = lay.binStart();
+        DoubleVector h00 = fromAcc(acc, 0), h10 = fromAcc(acc, 1), h11 = fromAcc(acc, 2), h20 = fromAcc(acc, 3);
+        DoubleVector h21 = fromAcc(acc, 4), h22 = fromAcc(acc, 5), h30 = fromAcc(acc, 6), h31 = fromAcc(acc, 7);
+        DoubleVector h32 = fromAcc(acc, 8), h33 = fromAcc(acc, 9), s0 = fromAcc(acc, 14), s1 = fromAcc(acc, 15);
+        DoubleVector s2 = fromAcc(acc, 16), s3 = fromAcc(acc, 17);
+        final DoubleVector zero = DoubleVector.zero(S);
+        for (int j = j0; j < j1; j++) {
+            DoubleVector a = DoubleVector.fromArray(S, mass, j * L);
+            VectorMask<Double> positive = a.compare(VectorOperators.GT, 0.0);
+            DoubleVector u0 = zero, u1 = zero, u2 = zero, u3 = zero;
+            for (int q = start[j]; q < start[j + 1]; q++) {
+                DoubleVector e = DoubleVector.fromArray(S, ex, q * L);
+                u0 = e.fma(DoubleVector.broadcast(S, c0[q]), u0);
+                u1 = e.fma(DoubleVector.broadcast(S, c1[q]), u1);
+                u2 = e.fma(DoubleVector.broadcast(S, c2[q]), u2);
+                u3 = e.fma(DoubleVector.broadcast(S, c3[q]), u3);
+            }
+            s0 = s0.add(u0);
+            s1 = s1.add(u1);
+            s2 = s2.add(u2);
+            s3 = s3.add(u3);
+            DoubleVector coef = tot.div(z.mul(a));
+            DoubleVector x0 = coef.mul(u0), x1 = coef.mul(u1), x2 = coef.mul(u2), x3 = coef.mul(u3);
+            h00 = h00.blend(x0.fma(u0, h00), positive);
+            h10 = h10.blend(x1.fma(u0, h10), positive);
+            h11 = h11.blend(x1.fma(u1, h11), positive);
+            h20 = h20.blend(x2.fma(u0, h20), positive);
+            h21 = h21.blend(x2.fma(u1, h21), positive);
+            h22 = h22.blend(x2.fma(u2, h22), positive);
+            h30 = h30.blend(x3.fma(u0, h30), positive);
+            h31 = h31.blend(x3.fma(u1, h31), positive);
+            h32 = h32.blend(x3.fma(u2, h32), positive);
+            h33 = h33.blend(x3.fma(u3, h33), positive);
+        }
+        h00.intoArray(acc, 0);
+        h10.intoArray(acc, L);
+        h11.intoArray(acc, 2 * L);
+        h20.intoArray(acc, 3 * L);
+        h21.intoArray(acc, 4 * L);
+        h22.intoArray(acc, 5 * L);
+        h30.intoArray(acc, 6 * L);
+        h31.intoArray(acc, 7 * L);
+        h32.intoArray(acc, 8 * L);
+        h33.intoArray(acc, 9 * L);
+        s0.intoArray(acc, 14 * L);
+        s1.intoArray(acc, 15 * L);
+        s2.intoArray(acc, 16 * L);
+        s3.intoArray(acc, 17 * L);
+    }
+
+    /** A bin across knots for the expected information: its moments uj, added to mvec, and its rank-one term. */
+    private static void expectedGeneralBin(Layout lay, int j, double[] mass, DoubleVector tot, DoubleVector z,
+            double[] ex, double[] hess, double[] mvec, double[] uj) {
+        final double[] c0 = lay.column()[0], c1 = lay.column()[1], c2 = lay.column()[2], c3 = lay.column()[3];
+        final int k1 = lay.k1();
+        int lo = lay.binLo()[j], hi = lay.binHi()[j];
+        DoubleVector a = DoubleVector.fromArray(S, mass, j * L);
+        VectorMask<Double> positive = a.compare(VectorOperators.GT, 0.0);
+        DoubleVector coef = tot.div(z.mul(a));
+        Arrays.fill(uj, lo * L, hi * L, 0.0);
+        for (int q = lay.binStart()[j]; q < lay.binStart()[j + 1]; q++) {
+            DoubleVector e = DoubleVector.fromArray(S, ex, q * L);
+            int o = lay.first()[q] * L;
+            e.fma(DoubleVector.broadcast(S, c0[q]), DoubleVector.fromArray(S, uj, o)).intoArray(uj, o);
+            e.fma(DoubleVector.broadcast(S, c1[q]), DoubleVector.fromArray(S, uj, o + L)).intoArray(uj, o + L);
+            e.fma(DoubleVector.broadcast(S, c2[q]), DoubleVector.fromArray(S, uj, o + 2 * L))
+                    .intoArray(uj, o + 2 * L);
+            e.fma(DoubleVector.broadcast(S, c3[q]), DoubleVector.fromArray(S, uj, o + 3 * L))
+                    .intoArray(uj, o + 3 * L);
+        }
+        for (int i = lo; i < hi; i++) {
+            DoubleVector.fromArray(S, mvec, i * L).add(DoubleVector.fromArray(S, uj, i * L)).intoArray(mvec, i * L);
+        }
+        for (int i = lo; i < hi; i++) {
+            DoubleVector ui = coef.mul(DoubleVector.fromArray(S, uj, i * L));
+            for (int l = lo; l <= i; l++) {
+                int o = (i * k1 + l) * L;
+                DoubleVector h = DoubleVector.fromArray(S, hess, o);
+                h.blend(h.add(ui.mul(DoubleVector.fromArray(S, uj, l * L))), positive).intoArray(hess, o);
+            }
+        }
+    }
+
     /** Vectors of the span's running sums: h00, h10, h11, h20, h21, h22, h30, h31, h32, h33, g0..g3, s0..s3. */
     private static final int ACC = 18;
 
@@ -271,7 +400,10 @@ final class VectorLanes extends UnitLanes {
         return DoubleVector.fromArray(S, acc, v * L);
     }
 
-    /** A bin across knots: node by node into its own moments uj, the span's sums flushed where the span changes; the current span. */
+    /**
+     * A bin across knots: node by node into its own moments uj, the span's sums flushed where the
+     * span changes; returns the current span.
+     */
     private static int generalBin(Layout lay, int j, int fcur, double[] ex, double[] coefs, DoubleVector nj,
             double[] grad, double[] hess, double[] mvec, double[] uj, double[] acc) {
         final double[] c0 = lay.column()[0], c1 = lay.column()[1], c2 = lay.column()[2], c3 = lay.column()[3];
@@ -332,86 +464,36 @@ final class VectorLanes extends UnitLanes {
     /** The span's sums added in the order of the one-unit pass (gradient, moments, then the block). */
     private static void flush(int f, int k1, double[] grad, double[] hess, double[] mvec, double[] acc) {
         for (int i = 0; i < 4; i++) {
-            add(grad, f + i, acc, 10 + i);
+            int o = (f + i) * L;
+            DoubleVector.fromArray(S, grad, o).add(DoubleVector.fromArray(S, acc, (10 + i) * L)).intoArray(grad, o);
         }
         for (int i = 0; i < 4; i++) {
-            add(mvec, f + i, acc, 14 + i);
+            int o = (f + i) * L;
+            DoubleVector.fromArray(S, mvec, o).add(DoubleVector.fromArray(S, acc, (14 + i) * L)).intoArray(mvec, o);
         }
         int r0 = f * k1 + f, r1 = r0 + k1, r2 = r1 + k1, r3 = r2 + k1;
-        add(hess, r0, acc, 0);
-        add(hess, r1, acc, 1);
-        add(hess, r1 + 1, acc, 2);
-        add(hess, r2, acc, 3);
-        add(hess, r2 + 1, acc, 4);
-        add(hess, r2 + 2, acc, 5);
-        add(hess, r3, acc, 6);
-        add(hess, r3 + 1, acc, 7);
-        add(hess, r3 + 2, acc, 8);
-        add(hess, r3 + 3, acc, 9);
+        int[] block = {r0, r1, r1 + 1, r2, r2 + 1, r2 + 2, r3, r3 + 1, r3 + 2, r3 + 3};
+        for (int v = 0; v < 10; v++) {
+            int o = block[v] * L;
+            DoubleVector.fromArray(S, hess, o).add(DoubleVector.fromArray(S, acc, v * L)).intoArray(hess, o);
+        }
     }
 
-    private static void add(double[] a, int i, double[] acc, int v) {
-        DoubleVector.fromArray(S, a, i * L).add(DoubleVector.fromArray(S, acc, v * L)).intoArray(a, i * L);
-    }
 
     @Override
     public void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed) {
-        Arrays.fill(failed, 0, L, -1);
-        double[] pivot = new double[n * L];
-        for (int i = 0; i < n; i++) {
-            System.arraycopy(a, (i * s + i) * L, pivot, i * L, L);
-        }
-        for (int j = 0; j < n; j++) {
-            int rj = j * s;
-            DoubleVector ajj = DoubleVector.fromArray(S, a, (rj + j) * L);
-            DoubleVector d = DoubleVector.fromArray(S, pivot, j * L);
-            DoubleVector floor = minRelativePivot == 0 ? DoubleVector.zero(S) : ajj.abs().mul(minRelativePivot);
-            VectorMask<Double> ok = d.compare(VectorOperators.GT, floor)
-                    .and(d.compare(VectorOperators.NE, Double.POSITIVE_INFINITY));
-            if (!ok.allTrue()) {
-                for (int l = 0; l < L; l++) {
-                    if (!ok.laneIsSet(l) && failed[l] < 0) {
-                        failed[l] = j;
-                    }
-                }
-            }
-            d = d.sqrt();
-            d.intoArray(a, (rj + j) * L);
-            DoubleVector inv = DoubleVector.broadcast(S, 1.0).div(d);
-            int i = j + 1;
-            for (; i + 3 < n; i += 4) {
-                int r0 = i * s, r1 = r0 + s, r2 = r1 + s, r3 = r2 + s;
-                DoubleVector v0 = DoubleVector.fromArray(S, a, (r0 + j) * L);
-                DoubleVector v1 = DoubleVector.fromArray(S, a, (r1 + j) * L);
-                DoubleVector v2 = DoubleVector.fromArray(S, a, (r2 + j) * L);
-                DoubleVector v3 = DoubleVector.fromArray(S, a, (r3 + j) * L);
-                for (int p = 0; p < j; p++) {
-                    DoubleVector b = DoubleVector.fromArray(S, a, (rj + p) * L);
-                    v0 = v0.sub(DoubleVector.fromArray(S, a, (r0 + p) * L).mul(b));
-                    v1 = v1.sub(DoubleVector.fromArray(S, a, (r1 + p) * L).mul(b));
-                    v2 = v2.sub(DoubleVector.fromArray(S, a, (r2 + p) * L).mul(b));
-                    v3 = v3.sub(DoubleVector.fromArray(S, a, (r3 + p) * L).mul(b));
-                }
-                DoubleVector l0 = v0.mul(inv), l1 = v1.mul(inv), l2 = v2.mul(inv), l3 = v3.mul(inv);
-                l0.intoArray(a, (r0 + j) * L);
-                l1.intoArray(a, (r1 + j) * L);
-                l2.intoArray(a, (r2 + j) * L);
-                l3.intoArray(a, (r3 + j) * L);
-                DoubleVector.fromArray(S, pivot, i * L).sub(l0.mul(l0)).intoArray(pivot, i * L);
-                DoubleVector.fromArray(S, pivot, (i + 1) * L).sub(l1.mul(l1)).intoArray(pivot, (i + 1) * L);
-                DoubleVector.fromArray(S, pivot, (i + 2) * L).sub(l2.mul(l2)).intoArray(pivot, (i + 2) * L);
-                DoubleVector.fromArray(S, pivot, (i + 3) * L).sub(l3.mul(l3)).intoArray(pivot, (i + 3) * L);
-            }
-            for (; i < n; i++) {
-                int ri = i * s;
-                DoubleVector v = DoubleVector.fromArray(S, a, (ri + j) * L);
-                for (int p = 0; p < j; p++) {
-                    v = v.sub(DoubleVector.fromArray(S, a, (ri + p) * L).mul(DoubleVector.fromArray(S, a, (rj + p) * L)));
-                }
-                DoubleVector l = v.mul(inv);
-                l.intoArray(a, (ri + j) * L);
-                DoubleVector.fromArray(S, pivot, i * L).sub(l.mul(l)).intoArray(pivot, i * L);
-            }
-        }
+        LaneAlgebra.cholesky(a, n, s, minRelativePivot, failed);
+    }
+
+    @Override
+    public void covarianceStart(int n, double[] j, double[] fisher, double[] linv, double[] t1, double[] edf,
+            int[] failed) {
+        LaneAlgebra.covarianceStart(n, j, fisher, linv, t1, edf, failed);
+    }
+
+    @Override
+    public void covarianceFinish(int n, double[] linv, double[] meat, double[] u, double[] t1, double[] wm,
+            double[] m, double[] t2, double[] cov) {
+        LaneAlgebra.covarianceFinish(n, linv, meat, u, t1, wm, m, t2, cov);
     }
 }

@@ -18,7 +18,7 @@ import org.junit.jupiter.api.Test;
  * Units carried in the lanes of one vector ({@link NewtonLanes}) must be fitted exactly as one
  * unit alone by {@link PenalizedNewton#solve}: the same bits in every number the engine hands on
  * (coefficients, iterations, failure message, log-likelihood, quadrature state, Newton factor's
- * log determinant), whatever the other lanes hold. The reference is the one-unit engine on the
+ * log determinant, robust sandwich covariance and edf), whatever the other lanes hold. The reference is the one-unit engine on the
  * same (vector) kernel path; the check is exact equality. Runs on the vector path only (the
  * test execution with {@code --add-modules jdk.incubator.vector}).
  */
@@ -63,11 +63,19 @@ class NewtonLanesTest {
     }
 
     private record Fit(double[] beta, int iterations, String failure, double loglik, double logDet, double z,
-            double shift, double[] ex, double[] mass) {
-        static Fit of(PenalizedNewton e) {
+            double shift, double[] ex, double[] mass, double[] cov, double edf) {
+        /** The engine's state, and its robust sandwich covariance (given, or computed by the engine). */
+        static Fit of(PenalizedNewton e, double lambda, double[] u, double[] cov, double edf) {
             PenalizedObjective lik = e.objective();
-            return new Fit(e.coefficients(), e.iterations(), e.failure(), e.logLikelihood(), e.newtonLogDet(),
-                    lik.zScaled(), lik.shift(), lik.ex.clone(), lik.mass.clone());
+            double[] beta = e.coefficients(), ex = lik.ex.clone(), mass = lik.mass.clone();
+            double z = lik.zScaled(), shift = lik.shift();
+            if (cov == null) {
+                cov = new double[u.length];
+                e.fisherInformation();
+                edf = e.sandwich(lambda, u, cov, true, null);
+            }
+            return new Fit(beta, e.iterations(), e.failure(), e.logLikelihood(), e.newtonLogDet(), z, shift, ex, mass,
+                    cov, edf);
         }
 
         void assertSame(Fit o, String where) {
@@ -80,6 +88,8 @@ class NewtonLanesTest {
             assertEquals(Double.doubleToLongBits(shift), Double.doubleToLongBits(o.shift), where + ": shift");
             assertEquals(bits(ex), bits(o.ex), where + ": exponentials");
             assertEquals(bits(mass), bits(o.mass), where + ": masses");
+            assertEquals(bits(cov), bits(o.cov), where + ": covariance");
+            assertEquals(Double.doubleToLongBits(edf), Double.doubleToLongBits(o.edf), where + ": edf");
         }
 
         private static List<Long> bits(double[] a) {
@@ -123,12 +133,13 @@ class NewtonLanesTest {
                 one.useCounts(counts[i].clone(), totals[i]);
                 one.startFromCounts();
                 one.solve(lambda, maxIter, 1e-12);
-                alone[i] = Fit.of(one);
+                alone[i] = Fit.of(one, lambda, u, null, Double.NaN);
             }
         }
         Fit[] laned = new Fit[counts.length];
         boolean[] seen = new boolean[counts.length];
-        new NewtonLanes(lanes, lay, engines).fit(0, counts.length, lambda, maxIter, 1e-12, new NewtonLanes.Units() {
+        new NewtonLanes(lanes, lay, engines, lambda, pen, prior, u).fit(0, counts.length, lambda, maxIter, 1e-12,
+                new NewtonLanes.Units() {
             @Override
             public boolean load(int i, PenalizedNewton eng, double[] row) {
                 seen[i] = true;
@@ -142,9 +153,9 @@ class NewtonLanesTest {
             }
 
             @Override
-            public void finish(int i, PenalizedNewton eng, boolean converged) {
+            public void finish(int i, PenalizedNewton eng, boolean converged, double[] cov, double edf) {
                 assertEquals(eng.failure() == null, converged, "unit " + i);
-                laned[i] = Fit.of(eng);
+                laned[i] = Fit.of(eng, lambda, u, cov, edf);
             }
         });
         int fitted = 0;

@@ -1,0 +1,175 @@
+package io.densa.core.internal;
+
+import java.util.Arrays;
+import jdk.incubator.vector.DoubleVector;
+import jdk.incubator.vector.VectorMask;
+import jdk.incubator.vector.VectorOperators;
+import jdk.incubator.vector.VectorSpecies;
+
+/**
+ * The K × K algebra of {@link VectorLanes}: Cholesky factors and the sandwich covariance, one
+ * matrix per lane (entry x of lane l at {@code x · L + l}), each lane with the operations of the
+ * one-unit code ({@link Cholesky#factor}, {@link Cholesky#invertLower} and
+ * {@code NewtonCovariance.sandwich}) in the same order.
+ */
+final class LaneAlgebra {
+    private static final VectorSpecies<Double> S = DoubleVector.SPECIES_PREFERRED;
+    private static final int L = S.length();
+
+    private LaneAlgebra() {
+    }
+
+    static void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed) {
+        Arrays.fill(failed, 0, L, -1);
+        double[] pivot = new double[n * L];
+        for (int i = 0; i < n; i++) {
+            System.arraycopy(a, (i * s + i) * L, pivot, i * L, L);
+        }
+        for (int j = 0; j < n; j++) {
+            int rj = j * s;
+            DoubleVector ajj = DoubleVector.fromArray(S, a, (rj + j) * L);
+            DoubleVector d = DoubleVector.fromArray(S, pivot, j * L);
+            DoubleVector floor = minRelativePivot == 0 ? DoubleVector.zero(S) : ajj.abs().mul(minRelativePivot);
+            VectorMask<Double> ok = d.compare(VectorOperators.GT, floor)
+                    .and(d.compare(VectorOperators.NE, Double.POSITIVE_INFINITY));
+            if (!ok.allTrue()) {
+                for (int l = 0; l < L; l++) {
+                    if (!ok.laneIsSet(l) && failed[l] < 0) {
+                        failed[l] = j;
+                    }
+                }
+            }
+            d = d.sqrt();
+            d.intoArray(a, (rj + j) * L);
+            DoubleVector inv = DoubleVector.broadcast(S, 1.0).div(d);
+            int i = j + 1;
+            for (; i + 3 < n; i += 4) {
+                int r0 = i * s, r1 = r0 + s, r2 = r1 + s, r3 = r2 + s;
+                DoubleVector v0 = DoubleVector.fromArray(S, a, (r0 + j) * L);
+                DoubleVector v1 = DoubleVector.fromArray(S, a, (r1 + j) * L);
+                DoubleVector v2 = DoubleVector.fromArray(S, a, (r2 + j) * L);
+                DoubleVector v3 = DoubleVector.fromArray(S, a, (r3 + j) * L);
+                for (int p = 0; p < j; p++) {
+                    DoubleVector b = DoubleVector.fromArray(S, a, (rj + p) * L);
+                    v0 = v0.sub(DoubleVector.fromArray(S, a, (r0 + p) * L).mul(b));
+                    v1 = v1.sub(DoubleVector.fromArray(S, a, (r1 + p) * L).mul(b));
+                    v2 = v2.sub(DoubleVector.fromArray(S, a, (r2 + p) * L).mul(b));
+                    v3 = v3.sub(DoubleVector.fromArray(S, a, (r3 + p) * L).mul(b));
+                }
+                DoubleVector l0 = v0.mul(inv), l1 = v1.mul(inv), l2 = v2.mul(inv), l3 = v3.mul(inv);
+                l0.intoArray(a, (r0 + j) * L);
+                l1.intoArray(a, (r1 + j) * L);
+                l2.intoArray(a, (r2 + j) * L);
+                l3.intoArray(a, (r3 + j) * L);
+                DoubleVector.fromArray(S, pivot, i * L).sub(l0.mul(l0)).intoArray(pivot, i * L);
+                DoubleVector.fromArray(S, pivot, (i + 1) * L).sub(l1.mul(l1)).intoArray(pivot, (i + 1) * L);
+                DoubleVector.fromArray(S, pivot, (i + 2) * L).sub(l2.mul(l2)).intoArray(pivot, (i + 2) * L);
+                DoubleVector.fromArray(S, pivot, (i + 3) * L).sub(l3.mul(l3)).intoArray(pivot, (i + 3) * L);
+            }
+            for (; i < n; i++) {
+                int ri = i * s;
+                DoubleVector v = DoubleVector.fromArray(S, a, (ri + j) * L);
+                for (int p = 0; p < j; p++) {
+                    v = v.sub(DoubleVector.fromArray(S, a, (ri + p) * L)
+                            .mul(DoubleVector.fromArray(S, a, (rj + p) * L)));
+                }
+                DoubleVector l = v.mul(inv);
+                l.intoArray(a, (ri + j) * L);
+                DoubleVector.fromArray(S, pivot, i * L).sub(l.mul(l)).intoArray(pivot, i * L);
+            }
+        }
+    }
+
+    static void covarianceStart(int n, double[] j, double[] fisher, double[] linv, double[] t1, double[] edf,
+            int[] failed) {
+        cholesky(j, n, n, 0.0, failed);
+        // L⁻¹ column by column (Cholesky.invertLower)
+        Arrays.fill(linv, 0, n * n * L, 0.0);
+        for (int c = 0; c < n; c++) {
+            for (int i = c; i < n; i++) {
+                DoubleVector s = DoubleVector.broadcast(S, i == c ? 1.0 : 0.0);
+                for (int p = c; p < i; p++) {
+                    s = s.sub(DoubleVector.fromArray(S, j, (i * n + p) * L)
+                            .mul(DoubleVector.fromArray(S, linv, (p * n + c) * L)));
+                }
+                s.div(DoubleVector.fromArray(S, j, (i * n + i) * L)).intoArray(linv, (i * n + c) * L);
+            }
+        }
+        whitenLeft(n, fisher, linv, t1);
+        DoubleVector tr = DoubleVector.zero(S);
+        for (int i = 0; i < n; i++) {
+            DoubleVector s = DoubleVector.zero(S);
+            for (int p = 0; p <= i; p++) {
+                s = s.add(DoubleVector.fromArray(S, t1, (i * n + p) * L)
+                        .mul(DoubleVector.fromArray(S, linv, (i * n + p) * L)));
+            }
+            tr = tr.add(s);
+        }
+        tr.intoArray(edf, 0);
+    }
+
+    static void covarianceFinish(int n, double[] linv, double[] meat, double[] u, double[] t1, double[] wm,
+            double[] m, double[] t2, double[] cov) {
+        whitenLeft(n, meat, linv, t1);
+        // w_ij = Σ_{p ≤ j} t1_ip linv_jp, symmetric
+        for (int i = 0; i < n; i++) {
+            for (int c = 0; c <= i; c++) {
+                DoubleVector s = DoubleVector.zero(S);
+                for (int p = 0; p <= c; p++) {
+                    s = s.add(DoubleVector.fromArray(S, t1, (i * n + p) * L)
+                            .mul(DoubleVector.fromArray(S, linv, (c * n + p) * L)));
+                }
+                s.intoArray(wm, (i * n + c) * L);
+                s.intoArray(wm, (c * n + i) * L);
+            }
+        }
+        // m = U L⁻ᵀ (upper): m_ij = Σ_{i ≤ p ≤ j} u_ip linv_jp
+        Arrays.fill(m, 0, n * n * L, 0.0);
+        for (int i = 0; i < n; i++) {
+            for (int c = i; c < n; c++) {
+                DoubleVector s = DoubleVector.zero(S);
+                for (int p = i; p <= c; p++) {
+                    s = s.add(DoubleVector.fromArray(S, linv, (c * n + p) * L).mul(u[i * n + p]));
+                }
+                s.intoArray(m, (i * n + c) * L);
+            }
+        }
+        // t2 = m W: t2_ij = Σ_{p ≥ i} m_ip w_pj
+        for (int i = 0; i < n; i++) {
+            for (int c = 0; c < n; c++) {
+                DoubleVector s = DoubleVector.zero(S);
+                for (int p = i; p < n; p++) {
+                    s = s.add(DoubleVector.fromArray(S, m, (i * n + p) * L)
+                            .mul(DoubleVector.fromArray(S, wm, (p * n + c) * L)));
+                }
+                s.intoArray(t2, (i * n + c) * L);
+            }
+        }
+        // cov = t2 mᵀ: cov_ij = Σ_{p ≥ j} t2_ip m_jp, symmetric
+        for (int i = 0; i < n; i++) {
+            for (int c = 0; c <= i; c++) {
+                DoubleVector s = DoubleVector.zero(S);
+                for (int p = c; p < n; p++) {
+                    s = s.add(DoubleVector.fromArray(S, t2, (i * n + p) * L)
+                            .mul(DoubleVector.fromArray(S, m, (c * n + p) * L)));
+                }
+                s.intoArray(cov, (i * n + c) * L);
+                s.intoArray(cov, (c * n + i) * L);
+            }
+        }
+    }
+
+    /** t1 = L⁻¹ a: t1_ij = Σ_{p ≤ i} linv_ip a_pj (NewtonCovariance.whitenLeft). */
+    private static void whitenLeft(int n, double[] a, double[] linv, double[] t1) {
+        for (int i = 0; i < n; i++) {
+            for (int c = 0; c < n; c++) {
+                DoubleVector s = DoubleVector.zero(S);
+                for (int p = 0; p <= i; p++) {
+                    s = s.add(DoubleVector.fromArray(S, linv, (i * n + p) * L)
+                            .mul(DoubleVector.fromArray(S, a, (p * n + c) * L)));
+                }
+                s.intoArray(t1, (i * n + c) * L);
+            }
+        }
+    }
+}
