@@ -224,7 +224,11 @@ final class VectorLanes extends UnitLanes {
         }
     }
 
-    /** Bins j0..j1−1 inside the current span: moments and rank-one terms of the expected information. */
+    /**
+     * Bins j0..j1−1 inside the current span: moments and rank-one terms of the expected information.
+     * Its own method on purpose: {@link #spanBins} with a flag for both passes measured 1.8× slower
+     * (the JIT then boxed the vectors).
+     */
     private static void expectedSpanBins(Layout lay, int j0, int j1, double[] mass, DoubleVector tot,
             DoubleVector z, double[] ex, double[] acc) {
         final double[] c0 = lay.column()[0], c1 = lay.column()[1], c2 = lay.column()[2], c3 = lay.column()[3];
