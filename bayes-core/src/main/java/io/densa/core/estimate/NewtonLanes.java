@@ -42,7 +42,13 @@ final class NewtonLanes {
     private final UnitLanes.Layout lay;
     private final int k1;
     private final PenalizedNewton[] eng;
-    /** Engines not in a lane (free, or finished and waiting for the covariance batch), and each engine's counts row. */
+    private final Supplier<PenalizedNewton> engines;
+    /** The engines' Newton pivot floor (the same for all: it depends on the prior only). */
+    private final double pivotFloor;
+    /**
+     * Engines not in a lane (free, or finished and waiting for the covariance batch), made as
+     * needed (at most twice the lanes), and each engine's counts row.
+     */
     private final java.util.ArrayDeque<PenalizedNewton> free = new java.util.ArrayDeque<>();
     private final java.util.IdentityHashMap<PenalizedNewton, double[]> rows = new java.util.IdentityHashMap<>();
     private final PenalizedNewton[] waiting;
@@ -75,14 +81,10 @@ final class NewtonLanes {
         this.k1 = lay.k1();
         int l = lanes;
         eng = new PenalizedNewton[l];
-        for (int i = 0; i < 2 * l; i++) {
-            PenalizedNewton e = engines.get();
-            rows.put(e, new double[lay.bins()]);
-            free.add(e);
-        }
-        for (int i = 0; i < l; i++) {
-            eng[i] = free.poll();
-        }
+        this.engines = engines;
+        PenalizedNewton first = take();
+        free.add(first);
+        pivotFloor = first.pivotFloor();
         waiting = new PenalizedNewton[l];
         waitingUnit = new int[l];
         waitingConverged = new boolean[l];
@@ -169,7 +171,7 @@ final class NewtonLanes {
                         }
                     }
                 }
-                kern.cholesky(factor, k, k1, eng[0].pivotFloor(), failed);
+                kern.cholesky(factor, k, k1, pivotFloor, failed);
                 for (int l = 0; l < lanes; l++) {
                     if (unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE) {
                         PenalizedNewton e = eng[l];
@@ -231,6 +233,9 @@ final class NewtonLanes {
         unit[l] = -1;
         while (next < to) {
             int i = next++;
+            if (eng[l] == null) {
+                eng[l] = take();
+            }
             double[] r = rows.get(eng[l]);
             if (units.load(i, eng[l], r)) {
                 for (int j = 0; j < r.length; j++) {
@@ -248,6 +253,16 @@ final class NewtonLanes {
         return next;
     }
 
+    /** A free engine, or a new one. */
+    private PenalizedNewton take() {
+        PenalizedNewton e = free.poll();
+        if (e == null) {
+            e = engines.get();
+            rows.put(e, new double[lay.bins()]);
+        }
+        return e;
+    }
+
     /**
      * Lane l's unit has finished: its engine takes the lane's last evaluation and waits for the
      * covariance batch; the lane takes a free engine and the next unit.
@@ -262,7 +277,7 @@ final class NewtonLanes {
         if (waitingCount == lanes) {
             finishWaiting(units);
         }
-        eng[l] = free.poll();
+        eng[l] = null;
         return load(l, next, to, lambda, maxIter, tol, units);
     }
 

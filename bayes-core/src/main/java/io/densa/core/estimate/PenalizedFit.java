@@ -219,7 +219,8 @@ final class PenalizedFit {
         ProgressCounter done = shared != null ? shared : progressOf(n);
         // at a fixed λ on the vector path, units share the lanes of the quadrature passes (NewtonLanes)
         UnitLanes lanes = Double.isNaN(fixedLambda) || criterion == SmoothingCriterion.CROSS_VALIDATION
-                || lay.width != 4 ? null : UnitLanes.active();
+                || lay.width != 4 || UnitLanes.active() == null || n < UnitLanes.active().lanes() ? null
+                : UnitLanes.active();
         java.util.function.Supplier<PenalizedNewton> engines = () -> {
             PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
             eng.setCoordinateMap(u);

@@ -198,7 +198,10 @@ class NewtonLanesTest {
         check(3, prior, 19, 100, 40);
     }
 
-    /** The public batch: one call for many units against one call per unit (other units in the lanes, or none). */
+    /**
+     * The public batch: one call for many units (through the lanes) against one call per unit (a
+     * single unit is fitted on its own engine, without the lanes): the same bits and diagnostics.
+     */
     @Test
     void batchEqualsUnitByUnit() {
         assumeTrue(UnitLanes.active() != null, "the vector path is not active");
