@@ -12,9 +12,10 @@ import java.util.function.Supplier;
  * the same requests in the same order as its own {@link PenalizedNewton#solve}, so a unit's fit
  * is the same to the bit as alone, whichever units share the lanes. A lane whose unit has
  * finished takes the next unit at once (with a fresh engine); the finished engines wait until as
- * many as there are lanes have finished, and their sandwich covariances are computed together,
- * one unit per lane again ({@link UnitLanes#covarianceStart}, the same bits as
- * {@link NewtonCovariance#sandwich}). Internal.
+ * many as there are lanes have finished, and their Fisher information and robust sandwich
+ * covariances are computed together, one unit per lane again
+ * ({@link UnitLanes#expectedInformation}, {@link UnitLanes#covarianceStart}: the same bits as
+ * {@link PenalizedObjective#fisherInformation} and {@link NewtonCovariance#sandwich}). Internal.
  *
  * <p>A round: the lanes that asked for derivatives get them from one pass (a lane whose observed
  * information is not positive definite gets the expected one from its own engine), then every
@@ -55,7 +56,7 @@ final class NewtonLanes {
     private final int[] waitingUnit;
     private final boolean[] waitingConverged;
     private int waitingCount;
-    /** The covariance batch: λ, penalty, prior (or null), coordinate map, and the lanes' matrices. */
+    /** The smoothing parameter; the covariance batch's penalty, prior (or null), coordinate map and matrices. */
     private final double lambda;
     private final double[] pen, prior, u;
     private final double[] jm, fm, linv, t1, edf, meat, wm, mm, t2, cov;
@@ -144,11 +145,11 @@ final class NewtonLanes {
         }
     }
 
-    /** Fits units from..to−1 at λ with the engines' {@link PenalizedNewton#solve} settings. */
-    void fit(int from, int to, double lambda, int maxIter, double tol, Units units) {
+    /** Fits units from..to−1 at this batch's λ with the engines' {@link PenalizedNewton#solve} settings. */
+    void fit(int from, int to, int maxIter, double tol, Units units) {
         int next = from;
         for (int l = 0; l < lanes; l++) {
-            next = load(l, next, to, lambda, maxIter, tol, units);
+            next = load(l, next, to, maxIter, tol, units);
         }
         while (true) {
             boolean differentiate = false;
@@ -193,7 +194,7 @@ final class NewtonLanes {
                             need[l] = e.differentiated();
                         }
                         if (need[l] == PenalizedNewton.FINISHED) {
-                            next = complete(l, next, to, lambda, maxIter, tol, units);
+                            next = complete(l, next, to, maxIter, tol, units);
                         }
                     }
                 }
@@ -221,7 +222,7 @@ final class NewtonLanes {
                             lambda);
                     need[l] = e.evaluated(o);
                     if (need[l] == PenalizedNewton.FINISHED) {
-                        next = complete(l, next, to, lambda, maxIter, tol, units);
+                        next = complete(l, next, to, maxIter, tol, units);
                     }
                 }
             }
@@ -229,7 +230,7 @@ final class NewtonLanes {
     }
 
     /** Puts the next unit that needs a fit into lane l (none: the lane idles); the next unit index. */
-    private int load(int l, int next, int to, double lambda, int maxIter, double tol, Units units) {
+    private int load(int l, int next, int to, int maxIter, double tol, Units units) {
         unit[l] = -1;
         while (next < to) {
             int i = next++;
@@ -267,7 +268,7 @@ final class NewtonLanes {
      * Lane l's unit has finished: its engine takes the lane's last evaluation and waits for the
      * covariance batch; the lane takes a free engine and the next unit.
      */
-    private int complete(int l, int next, int to, double lambda, int maxIter, double tol, Units units) {
+    private int complete(int l, int next, int to, int maxIter, double tol, Units units) {
         PenalizedNewton e = eng[l];
         copyEvaluation(l, e.objective());
         e.keepFactor();
@@ -278,7 +279,7 @@ final class NewtonLanes {
             finishWaiting(units);
         }
         eng[l] = null;
-        return load(l, next, to, lambda, maxIter, tol, units);
+        return load(l, next, to, maxIter, tol, units);
     }
 
     /**

@@ -231,8 +231,8 @@ final class PenalizedFit {
         Kernels.forEachBlock((n + perBlock - 1) / perBlock, parallel && n > 1, blk -> {
             int i0 = blk * perBlock, i1 = Math.min(n, i0 + perBlock);
             if (lanes != null) {
-                new NewtonLanes(lanes, lay, engines, fixedLambda, rawPenalty, prior, u).fit(i0, i1, fixedLambda,
-                        maxIterations, tolerance, new NewtonLanes.Units() {
+                new NewtonLanes(lanes, lay, engines, fixedLambda, rawPenalty, prior, u).fit(i0, i1, maxIterations,
+                        tolerance, new NewtonLanes.Units() {
                             @Override
                             public boolean load(int i, PenalizedNewton eng, double[] row) {
                                 if (!(totals[i] > 0)) {

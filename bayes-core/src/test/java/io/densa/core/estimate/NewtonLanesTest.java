@@ -138,7 +138,7 @@ class NewtonLanesTest {
         }
         Fit[] laned = new Fit[counts.length];
         boolean[] seen = new boolean[counts.length];
-        new NewtonLanes(lanes, lay, engines, lambda, pen, prior, u).fit(0, counts.length, lambda, maxIter, 1e-12,
+        new NewtonLanes(lanes, lay, engines, lambda, pen, prior, u).fit(0, counts.length, maxIter, 1e-12,
                 new NewtonLanes.Units() {
             @Override
             public boolean load(int i, PenalizedNewton eng, double[] row) {
