@@ -439,7 +439,7 @@ public final class SideBySide {
         grid(60);
         vario(800);
         fpca(5000);
-        est(300);
+        est(5000); // enough calls for the lanes code (eight units per call) to be compiled
     }
 
     // ------------------------------------------------------------------ the peer's side
