@@ -58,8 +58,17 @@ public final class LanesKernels {
             hi[j] = first[binStart[j + 1] - 1] + 4;
             oneSpan[j] = hi[j] - lo[j] == 4;
         }
+        int[] bandLo = new int[k1];
+        for (int i = 0; i < k1; i++) {
+            bandLo[i] = i;
+        }
+        for (int j = 0; j < bins; j++) {
+            for (int i = lo[j]; i < hi[j]; i++) {
+                bandLo[i] = Math.min(bandLo[i], lo[j]);
+            }
+        }
         UnitLanes.Layout lay = new UnitLanes.Layout(nodes, bins, k1, col, runStart, first, w, binStart, lo, hi,
-                oneSpan);
+                oneSpan, bandLo);
         double[] beta = new double[k1 * lanes];
         for (int i = 0; i < beta.length; i++) {
             beta[i] = r.nextGaussian();

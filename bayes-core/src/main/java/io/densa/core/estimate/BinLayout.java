@@ -437,8 +437,22 @@ final class BinLayout {
 
     /** The arrays the passes of {@link io.densa.core.internal.UnitLanes} read (cubic splines: width 4). */
     io.densa.core.internal.UnitLanes.Layout lanes() {
+        int[] bandLo = new int[k + 1];
+        for (int i = 0; i <= k; i++) {
+            bandLo[i] = i;
+        }
+        for (int j = 0; j < bins; j++) {
+            for (int i = binLo[j]; i < binHi[j]; i++) {
+                bandLo[i] = Math.min(bandLo[i], binLo[j]);
+            }
+        }
+        for (int q = 0; q < nodes; q++) {
+            for (int i = first[q]; i < first[q] + 4; i++) {
+                bandLo[i] = Math.min(bandLo[i], first[q]);
+            }
+        }
         return new io.densa.core.internal.UnitLanes.Layout(nodes, bins, k + 1, column, runStart, first, weight,
-                binStart, binLo, binHi, oneSpan);
+                binStart, binLo, binHi, oneSpan, bandLo);
     }
 
     /**

@@ -67,7 +67,7 @@ final class NewtonLanes {
     private final int[] need;
     private final double[] beta, counts, totals, zs, eta, ex, mass, res, grad, hess, mvec, uj, factor;
     private final int[] failed;
-    /** Lowest column of row i that a node pass can touch (the band of the information). */
+    /** Lowest column of row i that a node pass touches (the band of the information; the layout's). */
     private final int[] bandLo;
 
     /**
@@ -128,21 +128,7 @@ final class NewtonLanes {
         uj = new double[k1 * l];
         factor = new double[k1 * k1 * l];
         failed = new int[l];
-        bandLo = new int[k1];
-        for (int i = 0; i < k1; i++) {
-            bandLo[i] = i;
-        }
-        for (int j = 0; j < lay.bins(); j++) {
-            for (int i = lay.binLo()[j]; i < lay.binHi()[j]; i++) {
-                bandLo[i] = Math.min(bandLo[i], lay.binLo()[j]);
-            }
-        }
-        for (int q = 0; q < lay.nodes(); q++) {
-            int f = lay.first()[q];
-            for (int i = f; i < f + 4; i++) {
-                bandLo[i] = Math.min(bandLo[i], f);
-            }
-        }
+        bandLo = lay.bandLo();
     }
 
     /** Fits units from..to−1 at this batch's λ with the engines' {@link PenalizedNewton#solve} settings. */

@@ -39,9 +39,11 @@ public abstract class UnitLanes {
      * @param binLo    first basis index touched by each bin
      * @param binHi    one past the last basis index touched by each bin
      * @param oneSpan  whether each bin lies inside one knot span
+     * @param bandLo   the lowest column of each row of the information that a node pass touches
+     *                 (its band: the passes write, and their callers read, row i from bandLo[i] to i)
      */
     public record Layout(int nodes, int bins, int k1, double[][] column, int[] runStart, int[] first,
-            double[] weight, int[] binStart, int[] binLo, int[] binHi, boolean[] oneSpan) {
+            double[] weight, int[] binStart, int[] binLo, int[] binHi, boolean[] oneSpan, int[] bandLo) {
     }
 
     /**

@@ -143,7 +143,7 @@ final class VectorLanes extends UnitLanes {
             double[] grad, double[] hess, double[] mvec, double[] uj) {
         final int k1 = lay.k1();
         Arrays.fill(grad, 0, k1 * L, 0.0);
-        Arrays.fill(hess, 0, k1 * k1 * L, 0.0);
+        zeroBand(lay, hess);
         Arrays.fill(mvec, 0, k1 * L, 0.0);
         // the current knot span's sums (the one-unit pass keeps them in registers): its 4 × 4 block
         // (10 entries), four gradient entries and four moments, ACC vectors side by side
@@ -189,7 +189,7 @@ final class VectorLanes extends UnitLanes {
     public void expectedInformation(Layout lay, double[] totals, double[] ex, double[] mass, double[] zs,
             double[] hess, double[] mvec, double[] uj) {
         final int k1 = lay.k1();
-        Arrays.fill(hess, 0, k1 * k1 * L, 0.0);
+        zeroBand(lay, hess);
         Arrays.fill(mvec, 0, k1 * L, 0.0);
         final DoubleVector tot = DoubleVector.fromArray(S, totals, 0), z = DoubleVector.fromArray(S, zs, 0);
         double[] acc = new double[ACC * L];
@@ -312,6 +312,15 @@ final class VectorLanes extends UnitLanes {
                 DoubleVector h = DoubleVector.fromArray(S, hess, o);
                 h.blend(h.add(ui.mul(DoubleVector.fromArray(S, uj, l * L))), positive).intoArray(hess, o);
             }
+        }
+    }
+
+    /** Zeroes the band of every lane's information (the entries a pass writes and its caller reads). */
+    private static void zeroBand(Layout lay, double[] hess) {
+        final int k1 = lay.k1();
+        final int[] bandLo = lay.bandLo();
+        for (int i = 0; i < k1; i++) {
+            Arrays.fill(hess, (i * k1 + bandLo[i]) * L, (i * k1 + i + 1) * L, 0.0);
         }
     }
 
