@@ -269,9 +269,10 @@ final class NewtonLanes {
     }
 
     /**
-     * The waiting engines' robust sandwich covariances, one engine per lane (lanes whose J is not
-     * positive definite are left to the engine's own {@link NewtonCovariance#sandwich}, which
-     * reports it), then each unit's finish; the engines become free.
+     * The waiting engines' Fisher information and robust sandwich covariances, one engine per lane
+     * (lanes whose J is not positive definite are left to the engine's own
+     * {@link NewtonCovariance#sandwich}, which reports it), then each unit's finish; the engines
+     * become free.
      */
     private void finishWaiting(Units units) {
         int n = k1 - 1, w = waitingCount;
