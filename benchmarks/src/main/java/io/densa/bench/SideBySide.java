@@ -37,6 +37,7 @@ import java.util.Map;
  * mvn -q -DskipTests package -pl benchmarks -am
  * java -Xmx6g -cp benchmarks/target/benchmarks.jar io.densa.bench.SideBySide \
  *      [grid=1000] [vario=20000] [fpca=1000000] [est=100000] [--peer DIR] [--python EXE] [--rounds 2] [--no-peer]
+ *      [--no-warm-up]
  * </pre>
  *
  * Workloads and sizes follow the peer's README (its folder is given with {@code --peer}, default
@@ -55,7 +56,9 @@ import java.util.Map;
  *
  * <p>When the peer's Python and numpy are present the runner alternates peer, Densa, peer, Densa
  * ({@code --rounds} times each) and prints, per workload, the best time of each side and the ratio
- * peer / Densa; otherwise it runs Densa alone and says so. JMH in this module stays the record of
+ * peer / Densa; otherwise it runs Densa alone and says so. Before the timed rounds every workload
+ * runs once at a small size (compiled code in the first round); {@code --no-warm-up} skips that, for
+ * a process that runs one workload only, as a service does (its first round includes compilation). JMH in this module stays the record of
  * Densa's own numbers; this runner is for the ratio measured in one run on one machine.
  */
 public final class SideBySide {
@@ -75,6 +78,7 @@ public final class SideBySide {
         String python = null;
         int rounds = 2;
         boolean usePeer = true;
+        boolean warm = true;
         for (int i = 0; i < args.length; i++) {
             String a = args[i];
             if (a.equals("--peer")) {
@@ -85,6 +89,8 @@ public final class SideBySide {
                 rounds = Integer.parseInt(args[++i]);
             } else if (a.equals("--no-peer")) {
                 usePeer = false;
+            } else if (a.equals("--no-warm-up")) {
+                warm = false;
             } else if (a.contains("=")) {
                 String[] kv = a.split("=", 2);
                 if (!List.of("grid", "vario", "fpca", "est").contains(kv[0])) {
@@ -114,7 +120,9 @@ public final class SideBySide {
         System.out.println("INFO machine: " + machineLine() + "; java " + System.getProperty("java.version")
                 + "; heap " + Runtime.getRuntime().maxMemory() / (1 << 20) + " MiB; kernels "
                 + io.densa.core.internal.KernelPath.active().describe());
-        warmUp();
+        if (warm) {
+            warmUp();
+        }
         for (Map.Entry<String, Integer> w : work.entrySet()) {
             String name = w.getKey();
             int size = w.getValue();
