@@ -79,12 +79,16 @@ final class VectorPath extends KernelPath {
         }
     }
 
-    /** Runs one priming operation; an operator the element type does not support is skipped. */
+    /**
+     * Runs one priming operation. An operator the element type does not support throws and is
+     * skipped; so is any other failure: priming only saves time and must never keep the vector
+     * path from loading.
+     */
     private static void prime(Runnable op) {
         try {
             op.run();
-        } catch (UnsupportedOperationException | IllegalArgumentException | ArithmeticException e) {
-            // not defined for this element type: nothing to prime
+        } catch (RuntimeException e) {
+            // not defined for this element type (or not primable here): nothing to prime
         }
     }
 
