@@ -58,8 +58,9 @@ import java.util.Map;
  * ({@code --rounds} times each) and prints, per workload, the best time of each side and the ratio
  * peer / Densa; otherwise it runs Densa alone and says so. Before the timed rounds every workload
  * runs once at a small size (compiled code in the first round); {@code --no-warm-up} skips that, for
- * a process that runs one workload only, as a service does (its first round includes compilation). JMH in this module stays the record of
- * Densa's own numbers; this runner is for the ratio measured in one run on one machine.
+ * a process that runs one workload only, as a service does (its first round includes compilation).
+ * JMH in this module stays the record of Densa's own numbers; this runner is for the ratio
+ * measured in one run on one machine.
  */
 public final class SideBySide {
     private static final int STATIONS = 2000;

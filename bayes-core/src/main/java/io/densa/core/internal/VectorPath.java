@@ -22,7 +22,11 @@ final class VectorPath extends KernelPath {
     private static final UnitLanes UNIT_LANES = new VectorLanes();
 
     static {
-        primeOperatorTables();
+        try {
+            primeOperatorTables();
+        } catch (RuntimeException e) {
+            // priming only saves time; it must never keep the vector path from loading
+        }
     }
 
     /**
@@ -36,8 +40,8 @@ final class VectorPath extends KernelPath {
      * call behind every type guard, the vector shapes are no longer constants, those operations
      * are not intrinsified and their vectors are allocated on the heap. Measured on the
      * estimator's node pass (48 inlined lookups): 2 recorded traps per lookup gave a sum of 96 and
-     * a fast kernel, 4 gave 192 and 1.6–1.8× slower estimation with about 8 GB/s of allocation,
-     * in about half of the runs (the count depends on which thread first uses which operator).
+     * a fast kernel, 4 gave 192 and 1.4–1.9× slower estimation with about 8 GB/s of allocation,
+     * in 4 of 10 runs (the count depends on which thread first uses which operator).
      * With the tables primed here no lookup misses in compiled code. The cost is about 70 ms once
      * per JVM (loading the vector path: 20 ms before, 85–92 ms with it, measured 2026-12-05).
      */
