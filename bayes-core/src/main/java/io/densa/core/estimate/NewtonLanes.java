@@ -8,8 +8,9 @@ import java.util.function.Supplier;
  * at a time: each lane has its own {@link PenalizedNewton} (coefficients, iteration, Cholesky
  * factor, and afterwards the covariance), while the quadrature passes, the evaluation and the node
  * pass of the observed information, run for all lanes together, one unit per lane of a SIMD
- * vector. The passes give each lane the bits the one-unit passes give, and each engine answers
- * the same requests in the same order as its own {@link PenalizedNewton#solve}, so a unit's fit
+ * vector, and so do the Newton factorisation and solve. The passes give each lane the bits the
+ * one-unit passes give, and each engine answers the same requests in the same order as its own
+ * {@link PenalizedNewton#solve}, so a unit's fit
  * is the same to the bit as alone, whichever units share the lanes. A lane whose unit has
  * finished takes the next unit at once (with a fresh engine); the finished engines wait until as
  * many as there are lanes have finished, and their Fisher information and robust sandwich
@@ -65,7 +66,7 @@ final class NewtonLanes {
     private final double[] fEx, fMass, fTotals, fZ, fHess, fMvec, fUj;
     private final int[] unit;
     private final int[] need;
-    private final double[] beta, counts, totals, zs, eta, ex, mass, res, grad, hess, mvec, uj, factor;
+    private final double[] beta, counts, totals, zs, eta, ex, mass, res, grad, hess, mvec, uj, factor, steps;
     private final int[] failed;
     /** Lowest column of row i that a node pass touches (the band of the information; the layout's). */
     private final int[] bandLo;
@@ -127,6 +128,7 @@ final class NewtonLanes {
         mvec = new double[k1 * l];
         uj = new double[k1 * l];
         factor = new double[k1 * k1 * l];
+        steps = new double[k1 * l];
         failed = new int[l];
         bandLo = lay.bandLo();
     }
@@ -160,6 +162,13 @@ final class NewtonLanes {
                 }
                 kern.cholesky(factor, k, k1, pivotFloor, failed);
                 for (int l = 0; l < lanes; l++) {
+                    double[] g = eng[l] == null ? null : eng[l].objective().grad;
+                    for (int i = 0; i < k; i++) {
+                        steps[i * lanes + l] = g == null ? 0.0 : g[i];
+                    }
+                }
+                kern.solve(factor, k, k1, steps); // the Newton steps (used where the factor exists)
+                for (int l = 0; l < lanes; l++) {
                     if (unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE) {
                         PenalizedNewton e = eng[l];
                         PenalizedObjective lik = e.objective();
@@ -170,7 +179,7 @@ final class NewtonLanes {
                                     h[c] = factor[c * lanes + l];
                                 }
                             }
-                            need[l] = e.factored(-1);
+                            need[l] = e.factoredWithStep(steps, l, lanes);
                         } else {
                             need[l] = e.differentiated(); // its own factorisation of the intact matrix
                         }

@@ -289,9 +289,26 @@ final class PenalizedNewton {
                     + " (too few occupied bins for K = " + k + " without enough smoothing)";
             return FINISHED;
         }
-        newtonFactored = true;
         System.arraycopy(grad, 0, step, 0, k);
         Cholesky.solve(hess, k, k1, step, 0);
+        return solved();
+    }
+
+    /**
+     * As {@link #factored} with no failed column when the Newton step (the solution of
+     * {@link Cholesky#solve} with hess's factor and grad, the same bits) is lane {@code lane} of x,
+     * {@code lanes} values per coordinate: the next request.
+     */
+    int factoredWithStep(double[] x, int lane, int lanes) {
+        for (int i = 0; i < k; i++) {
+            step[i] = x[i * lanes + lane];
+        }
+        return solved();
+    }
+
+    /** The step is in {@link #step}: its decrement, then the line search or the end. */
+    private int solved() {
+        newtonFactored = true;
         double d = 0;
         for (int i = 0; i < k; i++) {
             d += grad[i] * step[i];

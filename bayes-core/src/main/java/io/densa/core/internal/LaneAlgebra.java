@@ -19,6 +19,30 @@ final class LaneAlgebra {
     private LaneAlgebra() {
     }
 
+    /**
+     * L Lᵀ x = b for every lane, in place: forward substitution row by row (each row's terms in
+     * increasing order, as {@link Cholesky#forward}'s blocks of four do), then back substitution
+     * as {@link Cholesky#backward}; each product rounded before its subtraction, as in Java's
+     * scalar arithmetic.
+     */
+    static void solve(double[] a, int n, int s, double[] x) {
+        for (int i = 0; i < n; i++) {
+            int ri = i * s;
+            DoubleVector v = DoubleVector.fromArray(S, x, i * L);
+            for (int p = 0; p < i; p++) {
+                v = v.sub(DoubleVector.fromArray(S, a, (ri + p) * L).mul(DoubleVector.fromArray(S, x, p * L)));
+            }
+            v.div(DoubleVector.fromArray(S, a, (ri + i) * L)).intoArray(x, i * L);
+        }
+        for (int i = n - 1; i >= 0; i--) {
+            DoubleVector v = DoubleVector.fromArray(S, x, i * L);
+            for (int p = i + 1; p < n; p++) {
+                v = v.sub(DoubleVector.fromArray(S, a, (p * s + i) * L).mul(DoubleVector.fromArray(S, x, p * L)));
+            }
+            v.div(DoubleVector.fromArray(S, a, (i * s + i) * L)).intoArray(x, i * L);
+        }
+    }
+
     static void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed) {
         Arrays.fill(failed, 0, L, -1);
         double[] pivot = new double[n * L];

@@ -91,6 +91,13 @@ public abstract class UnitLanes {
     public abstract void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed);
 
     /**
+     * Solves L Lᵀ x = b for every lane in place (b in x, {@code x[i·L + l]}), L the lower factor
+     * {@link #cholesky} left in a (row stride s): the same operations in the same order as
+     * {@link Cholesky#solve} on each lane, so the same bits.
+     */
+    public abstract void solve(double[] a, int n, int s, double[] x);
+
+    /**
      * The first half of the sandwich covariance of every lane ({@code NewtonCovariance.sandwich},
      * the same operations in the same order): the Cholesky factor L of J (n × n, overwritten; a lane
      * whose factorisation fails gets its column in {@code failed}, else −1), L⁻¹ into linv,

@@ -499,6 +499,11 @@ final class VectorLanes extends UnitLanes {
     }
 
     @Override
+    public void solve(double[] a, int n, int s, double[] x) {
+        LaneAlgebra.solve(a, n, s, x);
+    }
+
+    @Override
     public void covarianceStart(int n, double[] j, double[] fisher, double[] linv, double[] t1, double[] edf,
             int[] failed) {
         LaneAlgebra.covarianceStart(n, j, fisher, linv, t1, edf, failed);
