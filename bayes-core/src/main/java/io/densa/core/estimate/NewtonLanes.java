@@ -10,13 +10,13 @@ import java.util.function.Supplier;
  * pass of the observed information, run for all lanes together, one unit per lane of a SIMD
  * vector, and so do the Newton factorisation and solve. The passes give each lane the bits the
  * one-unit passes give, and each engine answers the same requests in the same order as its own
- * {@link PenalizedNewton#solve}, so a unit's fit
- * is the same to the bit as alone, whichever units share the lanes. A lane whose unit has
- * finished takes the next unit at once (with a fresh engine); the finished engines wait until as
- * many as there are lanes have finished, and their Fisher information and robust sandwich
- * covariances are computed together, one unit per lane again
- * ({@link UnitLanes#expectedInformation}, {@link UnitLanes#covarianceStart}: the same bits as
- * {@link PenalizedObjective#fisherInformation} and {@link NewtonCovariance#sandwich}). Internal.
+ * {@link PenalizedNewton#solve}, so a unit's fit is the same to the bit as alone, whichever units
+ * share the lanes. A lane whose unit has finished takes the next unit at once (with a fresh
+ * engine); the finished engines wait until as many as there are lanes have finished, and their
+ * Fisher information and robust sandwich covariances are computed together, one unit per lane
+ * again ({@link UnitLanes#expectedInformation}, {@link UnitLanes#covarianceStart}: the same bits
+ * as {@link PenalizedObjective#fisherInformation} and {@link NewtonCovariance#sandwich}).
+ * Internal.
  *
  * <p>A round: the lanes that asked for derivatives get them from one pass (a lane whose observed
  * information is not positive definite gets the expected one from its own engine), then every

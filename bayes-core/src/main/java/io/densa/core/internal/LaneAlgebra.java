@@ -7,10 +7,10 @@ import jdk.incubator.vector.VectorOperators;
 import jdk.incubator.vector.VectorSpecies;
 
 /**
- * The K × K algebra of {@link VectorLanes}: Cholesky factors and the sandwich covariance, one
- * matrix per lane (entry x of lane l at {@code x · L + l}), each lane with the operations of the
- * one-unit code ({@link Cholesky#factor}, {@link Cholesky#invertLower} and
- * {@code NewtonCovariance.sandwich}) in the same order.
+ * The K × K algebra of {@link VectorLanes}: Cholesky factors, solves and the sandwich covariance,
+ * one matrix per lane (entry x of lane l at {@code x · L + l}), each lane with the operations of
+ * the one-unit code ({@link Cholesky#factor}, {@link Cholesky#solve}, {@link Cholesky#invertLower}
+ * and {@code NewtonCovariance.sandwich}) in the same order.
  */
 final class LaneAlgebra {
     private static final VectorSpecies<Double> S = DoubleVector.SPECIES_PREFERRED;
