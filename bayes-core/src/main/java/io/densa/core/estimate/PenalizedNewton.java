@@ -270,16 +270,7 @@ final class PenalizedNewton {
 
     /** Takes the gradient and information at β (in grad and hess): the Newton step, or Fisher scoring when the observed information is not positive definite. */
     int differentiated() {
-        return factored(Cholesky.factor(hess, k, k1, pivotFloor));
-    }
-
-    /**
-     * As {@link #differentiated} when hess already holds {@link Cholesky#factor}'s result at this
-     * engine's {@link #pivotFloor()}: the lower factor, or the first failing column (hess then
-     * as it was before the factorisation is not needed: a failure asks for new derivatives or ends).
-     */
-    int factored(int failedColumn) {
-        if (failedColumn >= 0) {
+        if (Cholesky.factor(hess, k, k1, pivotFloor) >= 0) {
             if (phase == OBSERVED) {
                 phase = EXPECTED;
                 return DIFFERENTIATE_EXPECTED;
@@ -295,9 +286,8 @@ final class PenalizedNewton {
     }
 
     /**
-     * As {@link #factored} with no failed column when the Newton step (the solution of
-     * {@link Cholesky#solve} with hess's factor and grad, the same bits) is lane {@code lane} of x,
-     * {@code lanes} values per coordinate: the next request.
+     * As {@link #differentiated} when hess holds its successful factorisation and the Newton step
+     * (the same bits as {@link Cholesky#solve}) is lane {@code lane} of x, {@code lanes} per entry.
      */
     int factoredWithStep(double[] x, int lane, int lanes) {
         for (int i = 0; i < k; i++) {
