@@ -162,12 +162,14 @@ final class NewtonLanes {
                 }
                 kern.cholesky(factor, k, k1, pivotFloor, failed);
                 for (int l = 0; l < lanes; l++) {
-                    double[] g = eng[l] == null ? null : eng[l].objective().grad;
-                    for (int i = 0; i < k; i++) {
-                        steps[i * lanes + l] = g == null ? 0.0 : g[i];
+                    if (unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE) {
+                        double[] g = eng[l].objective().grad;
+                        for (int i = 0; i < k; i++) {
+                            steps[i * lanes + l] = g[i];
+                        }
                     }
                 }
-                kern.solve(factor, k, k1, steps); // the Newton steps (used where the factor exists)
+                kern.solve(factor, k, k1, steps); // the Newton steps (read only where the factor exists)
                 for (int l = 0; l < lanes; l++) {
                     if (unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE) {
                         PenalizedNewton e = eng[l];
