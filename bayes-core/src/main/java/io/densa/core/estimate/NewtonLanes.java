@@ -4,8 +4,8 @@ import io.densa.core.internal.UnitLanes;
 import java.util.function.Supplier;
 
 /**
- * Fits at a fixed λ of units of counts on one cubic-spline layout, {@link UnitLanes#lanes()} units
- * at a time: each lane has its own {@link PenalizedNewton} (coefficients, iteration, Cholesky
+ * Fits of units of counts on one cubic-spline layout, at a fixed λ or at the λ each unit's
+ * {@link SmoothingSearch} chooses, {@link UnitLanes#lanes()} units at a time: each lane has its own {@link PenalizedNewton} (coefficients, iteration, Cholesky
  * factor, and afterwards the covariance), while the quadrature passes, the evaluation and the node
  * pass of the observed information, run for all lanes together, one unit per lane of a SIMD
  * vector, and so do the Newton factorisation and solve. The passes give each lane the bits the
@@ -16,12 +16,15 @@ import java.util.function.Supplier;
  * Fisher information and robust sandwich covariances are computed together, one unit per lane
  * again ({@link UnitLanes#expectedInformation}, {@link UnitLanes#covarianceStart}: the same bits
  * as {@link PenalizedObjective#fisherInformation} and {@link NewtonCovariance#sandwich}).
- * Internal.
+ * With a search, each lane's unit runs its search's fits ({@link SmoothingSearch.Steps}: the same
+ * fits from the same starts, each at its own λ) and then its final fit at the chosen λ in its lane,
+ * and its choice is the one {@link SmoothingSearch#choose} makes alone. Internal.
  *
  * <p>A round: the lanes that asked for derivatives get them from one pass (a lane whose observed
- * information is not positive definite gets the expected one from its own engine), then every
- * lane that asked for an evaluation (after the round's derivatives, all of them) gets it from one
- * pass.
+ * information is not positive definite gets the expected one from its own engine), then the lanes
+ * that asked for an evaluation get it from one pass. That pass computes every lane; a lane that
+ * waits for derivatives (a search fit resumed at the last point it evaluated) gets the same
+ * evaluation again, at the point its lane still holds, so its passes' arrays do not change.
  */
 final class NewtonLanes {
     /** The unit-by-unit side of a batch: loading a unit into an engine and finishing it. */
@@ -33,10 +36,12 @@ final class NewtonLanes {
         boolean load(int i, PenalizedNewton eng, double[] row);
 
         /**
-         * Finishes unit i after its iteration (diagnostics, output) with its robust sandwich
-         * covariance and edf, or computes them when cov is null.
+         * Finishes unit i after its iteration at λ (diagnostics, output) with its robust sandwich
+         * covariance and edf, or computes them when cov is null; found holds the search's two
+         * values ({@link SmoothingSearch#choose}; NaN at a fixed λ).
          */
-        void finish(int i, PenalizedNewton eng, boolean converged, double[] cov, double edf);
+        void finish(int i, PenalizedNewton eng, double lambda, double[] found, boolean converged, double[] cov,
+                double edf);
     }
 
     private final UnitLanes kern;
@@ -56,9 +61,28 @@ final class NewtonLanes {
     private final PenalizedNewton[] waiting;
     private final int[] waitingUnit;
     private final boolean[] waitingConverged;
+    private final double[] waitingLambda;
+    private final double[][] waitingFound;
     private int waitingCount;
-    /** The smoothing parameter; the covariance batch's penalty, prior (or null), coordinate map and matrices. */
-    private final double lambda;
+    /** The fixed λ (NaN with a search), or the search and its scale; each lane's search and fit. */
+    private final double fixedLambda;
+    private final SmoothingSearch search;
+    private final double scale;
+    private final SmoothingSearch.Steps[] plans;
+    private final double[][] found;
+    /** Each lane's λ and whether its fit is one of its search's. */
+    private final double[] lam;
+    private final boolean[] searching;
+    /**
+     * Whether the derivative pass's arrays hold lane l's derivatives at its last evaluation (a pass
+     * has run since: it computes every lane, each at the evaluation its lane holds).
+     */
+    private final boolean[] current;
+    /** The fit's settings and units and the next unit to load (per {@link #fit}). */
+    private int maxIter, next, to;
+    private double tol;
+    private Units units;
+    /** The covariance batch's penalty, prior (or null), coordinate map and matrices. */
     private final double[] pen, prior, u;
     private final double[] jm, fm, linv, t1, edf, meat, wm, mm, t2, cov;
     private final int[] covFailed;
@@ -72,11 +96,13 @@ final class NewtonLanes {
     private final int[] bandLo;
 
     /**
-     * For units of counts on layout at λ; engines makes an engine (coordinate map and start map
-     * set), pen, prior and u are the engines' penalty, prior (or null) and coordinate map.
+     * For units of counts on layout at a fixed λ (search null) or at the λ search chooses (λ NaN;
+     * scale: the search's, see {@link SmoothingSearch#choose}); engines makes an engine (coordinate
+     * map and start map set), pen, prior and u are the engines' penalty, prior (or null) and
+     * coordinate map.
      */
-    NewtonLanes(UnitLanes kern, BinLayout layout, Supplier<PenalizedNewton> engines, double lambda, double[] pen,
-            double[] prior, double[] u) {
+    NewtonLanes(UnitLanes kern, BinLayout layout, Supplier<PenalizedNewton> engines, double lambda,
+            SmoothingSearch search, double scale, double[] pen, double[] prior, double[] u) {
         this.kern = kern;
         this.lanes = kern.lanes();
         this.lay = layout.lanes();
@@ -90,7 +116,16 @@ final class NewtonLanes {
         waiting = new PenalizedNewton[l];
         waitingUnit = new int[l];
         waitingConverged = new boolean[l];
-        this.lambda = lambda;
+        waitingLambda = new double[l];
+        waitingFound = new double[l][];
+        this.fixedLambda = lambda;
+        this.search = search;
+        this.scale = scale;
+        plans = new SmoothingSearch.Steps[l];
+        found = new double[l][];
+        lam = new double[l];
+        searching = new boolean[l];
+        current = new boolean[l];
         this.pen = pen;
         this.prior = prior;
         this.u = u;
@@ -133,25 +168,32 @@ final class NewtonLanes {
         bandLo = lay.bandLo();
     }
 
-    /** Fits units from..to−1 at this batch's λ with the engines' {@link PenalizedNewton#solve} settings. */
+    /** Fits units from..to−1 with the engines' {@link PenalizedNewton#solve} settings. */
     void fit(int from, int to, int maxIter, double tol, Units units) {
-        int next = from;
+        this.next = from;
+        this.to = to;
+        this.maxIter = maxIter;
+        this.tol = tol;
+        this.units = units;
+        boolean[] differentiate = new boolean[lanes], evaluate = new boolean[lanes];
         for (int l = 0; l < lanes; l++) {
-            next = load(l, next, to, maxIter, tol, units);
+            load(l);
         }
         while (true) {
-            boolean differentiate = false;
+            boolean any = false;
             for (int l = 0; l < lanes; l++) {
-                differentiate |= unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE;
+                differentiate[l] = unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE;
+                any |= differentiate[l];
             }
-            if (differentiate) {
+            if (any) {
                 kern.derivatives(lay, counts, totals, ex, mass, zs, grad, hess, mvec, uj);
+                java.util.Arrays.fill(current, true);
                 int k = k1 - 1;
                 for (int l = 0; l < lanes; l++) {
-                    if (unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE) {
+                    if (differentiate[l]) {
                         PenalizedObjective lik = eng[l].objective();
                         copyDerivatives(l, lik, grad, hess, mvec);
-                        lik.finishDerivatives(lambda, true, eng[l].betaView());
+                        lik.finishDerivatives(lam[l], true, eng[l].betaView());
                         double[] h = lik.hess;
                         for (int i = 0; i < k; i++) {
                             for (int c = i * k1, end = c + i; c <= end; c++) {
@@ -162,7 +204,7 @@ final class NewtonLanes {
                 }
                 kern.cholesky(factor, k, k1, pivotFloor, failed);
                 for (int l = 0; l < lanes; l++) {
-                    if (unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE) {
+                    if (differentiate[l]) {
                         double[] g = eng[l].objective().grad;
                         for (int i = 0; i < k; i++) {
                             steps[i * lanes + l] = g[i];
@@ -171,7 +213,7 @@ final class NewtonLanes {
                 }
                 kern.solve(factor, k, k1, steps); // the Newton steps (read only where the factor exists)
                 for (int l = 0; l < lanes; l++) {
-                    if (unit[l] >= 0 && need[l] == PenalizedNewton.DIFFERENTIATE) {
+                    if (differentiate[l]) {
                         PenalizedNewton e = eng[l];
                         PenalizedObjective lik = e.objective();
                         if (failed[l] < 0) {
@@ -185,20 +227,17 @@ final class NewtonLanes {
                         } else {
                             need[l] = e.differentiated(); // its own factorisation of the intact matrix
                         }
-                        if (need[l] == PenalizedNewton.DIFFERENTIATE_EXPECTED) {
-                            copyEvaluation(l, lik); // Fisher scoring: this engine's own pass
-                            lik.derivatives(lambda, true, true, e.betaView());
-                            need[l] = e.differentiated();
-                        }
-                        if (need[l] == PenalizedNewton.FINISHED) {
-                            next = complete(l, next, to, maxIter, tol, units);
-                        }
+                        scoreIfNeeded(l);
+                        finished(l);
                     }
                 }
             }
-            boolean any = false;
+            boolean active = false;
+            any = false;
             for (int l = 0; l < lanes; l++) {
-                if (unit[l] >= 0) {
+                active |= unit[l] >= 0;
+                evaluate[l] = unit[l] >= 0 && need[l] == PenalizedNewton.EVALUATE;
+                if (evaluate[l]) {
                     any = true;
                     double[] at = eng[l].evaluationPoint();
                     for (int i = 0; i < k1; i++) {
@@ -206,28 +245,30 @@ final class NewtonLanes {
                     }
                 }
             }
-            if (!any) {
-                finishWaiting(units);
+            if (!active) {
+                finishWaiting();
                 return;
+            }
+            if (!any) {
+                continue;
             }
             kern.evaluate(lay, beta, counts, eta, ex, mass, res);
             for (int l = 0; l < lanes; l++) {
-                if (unit[l] >= 0) {
+                if (evaluate[l]) {
+                    current[l] = false;
                     PenalizedNewton e = eng[l];
                     zs[l] = res[l];
                     double o = e.objective().accept(res[l], res[lanes + l], res[2 * lanes + l], e.evaluationPoint(),
-                            lambda);
+                            lam[l]);
                     need[l] = e.evaluated(o);
-                    if (need[l] == PenalizedNewton.FINISHED) {
-                        next = complete(l, next, to, maxIter, tol, units);
-                    }
+                    finished(l);
                 }
             }
         }
     }
 
-    /** Puts the next unit that needs a fit into lane l (none: the lane idles); the next unit index. */
-    private int load(int l, int next, int to, int maxIter, double tol, Units units) {
+    /** Puts the next unit that needs a fit into lane l and begins its first fit (none left: the lane idles). */
+    private void load(int l) {
         unit[l] = -1;
         while (next < to) {
             int i = next++;
@@ -241,14 +282,67 @@ final class NewtonLanes {
                 }
                 totals[l] = eng[l].total();
                 unit[l] = i;
-                need[l] = eng[l].begin(lambda, maxIter, tol, true);
-                if (need[l] != PenalizedNewton.EVALUATE) {
-                    throw new IllegalStateException("a fresh start asks for an evaluation first");
+                current[l] = false;
+                if (search != null) {
+                    found[l] = new double[2];
+                    plans[l] = search.new Steps(eng[l], scale, found[l]);
                 }
-                return next;
+                begin(l);
+                return;
             }
         }
-        return next;
+    }
+
+    /** Lane l's engine begins its next fit: its search's next one, else the final fit at the chosen or fixed λ. */
+    private void begin(int l) {
+        PenalizedNewton e = eng[l];
+        searching[l] = search != null && plans[l].next();
+        if (searching[l]) {
+            lam[l] = plans[l].lambda();
+            need[l] = e.begin(lam[l], maxIter, search.searchTolerance(), false);
+        } else {
+            lam[l] = search != null ? plans[l].chosen() : fixedLambda;
+            need[l] = e.begin(lam[l], maxIter, tol, true);
+        }
+        if (need[l] == PenalizedNewton.DIFFERENTIATE && current[l]) {
+            // a fit resumed where the last one stopped: its derivative pass is still in the lanes
+            PenalizedObjective lik = e.objective();
+            copyDerivatives(l, lik, grad, hess, mvec);
+            lik.finishDerivatives(lam[l], true, e.betaView());
+            need[l] = e.differentiated();
+            scoreIfNeeded(l);
+        }
+        finished(l);
+    }
+
+    /** Fisher scoring where lane l's observed information was not positive definite: its engine's own pass. */
+    private void scoreIfNeeded(int l) {
+        if (need[l] == PenalizedNewton.DIFFERENTIATE_EXPECTED) {
+            PenalizedNewton e = eng[l];
+            copyEvaluation(l, e.objective());
+            e.objective().derivatives(lam[l], true, true, e.betaView());
+            need[l] = e.differentiated();
+        }
+    }
+
+    /**
+     * If lane l's fit has finished: a search fit gives its criterion to the search, as
+     * {@link SmoothingSearch#criterionAt} after its fit, and the next fit begins; a final fit
+     * completes its unit.
+     */
+    private void finished(int l) {
+        if (need[l] != PenalizedNewton.FINISHED) {
+            return;
+        }
+        PenalizedNewton e = eng[l];
+        if (searching[l]) {
+            e.keepFactor();
+            copyEvaluation(l, e.objective());
+            plans[l].accept(search.criterionAfter(e, lam[l], null, e.converged()));
+            begin(l);
+        } else {
+            complete(l);
+        }
     }
 
     /** A free engine, or a new one. */
@@ -265,18 +359,21 @@ final class NewtonLanes {
      * Lane l's unit has finished: its engine takes the lane's last evaluation and waits for the
      * covariance batch; the lane takes a free engine and the next unit.
      */
-    private int complete(int l, int next, int to, int maxIter, double tol, Units units) {
+    private void complete(int l) {
         PenalizedNewton e = eng[l];
         copyEvaluation(l, e.objective());
         e.keepFactor();
         waiting[waitingCount] = e;
         waitingUnit[waitingCount] = unit[l];
+        waitingLambda[waitingCount] = lam[l];
+        waitingFound[waitingCount] = search != null ? found[l] : new double[] {Double.NaN, Double.NaN};
         waitingConverged[waitingCount++] = e.converged();
         if (waitingCount == lanes) {
-            finishWaiting(units);
+            finishWaiting();
         }
         eng[l] = null;
-        return load(l, next, to, maxIter, tol, units);
+        plans[l] = null;
+        load(l);
     }
 
     /**
@@ -285,7 +382,7 @@ final class NewtonLanes {
      * {@link NewtonCovariance#sandwich}, which reports it), then each unit's finish; the engines
      * become free.
      */
-    private void finishWaiting(Units units) {
+    private void finishWaiting() {
         int n = k1 - 1, w = waitingCount;
         if (w == 0) {
             return;
@@ -308,7 +405,7 @@ final class NewtonLanes {
             lik.finishDerivatives(0.0, false, null); // the rest of PenalizedObjective.fisherInformation
             lik.fisherFromPass();
             double[] f = lik.fisher();
-            NewtonCovariance.information(f, lambda, pen, prior, null, n, jm, s, lanes);
+            NewtonCovariance.information(f, waitingLambda[s], pen, prior, null, n, jm, s, lanes);
             for (int i = 0; i < n * n; i++) {
                 fm[i * lanes + s] = f[i];
             }
@@ -340,9 +437,10 @@ final class NewtonLanes {
                     c[i] = cov[i * lanes + s];
                 }
             }
-            units.finish(waitingUnit[s], waiting[s], waitingConverged[s], c, edf[s]);
+            units.finish(waitingUnit[s], waiting[s], waitingLambda[s], waitingFound[s], waitingConverged[s], c, edf[s]);
             free.add(waiting[s]);
             waiting[s] = null;
+            waitingFound[s] = null;
         }
         waitingCount = 0;
     }

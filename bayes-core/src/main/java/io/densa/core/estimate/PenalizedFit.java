@@ -217,10 +217,10 @@ final class PenalizedFit {
         double[] out = new double[n * k];
         EstimationDiagnostics[] diag = new EstimationDiagnostics[n];
         ProgressCounter done = shared != null ? shared : progressOf(n);
-        // at a fixed λ on the vector path, units share the lanes of the quadrature passes (NewtonLanes)
-        UnitLanes lanes = Double.isNaN(fixedLambda) || criterion == SmoothingCriterion.CROSS_VALIDATION
-                || lay.width != 4 || UnitLanes.active() == null || n < UnitLanes.active().lanes() ? null
-                : UnitLanes.active();
+        // on the vector path, units share the lanes of the quadrature passes (NewtonLanes)
+        UnitLanes lanes = criterion == SmoothingCriterion.CROSS_VALIDATION || lay.width != 4
+                || UnitLanes.active() == null || n < UnitLanes.active().lanes() ? null : UnitLanes.active();
+        boolean choose = Double.isNaN(fixedLambda);
         java.util.function.Supplier<PenalizedNewton> engines = () -> {
             PenalizedNewton eng = new PenalizedNewton(lay, rawPenalty, prior);
             eng.setCoordinateMap(u);
@@ -231,8 +231,8 @@ final class PenalizedFit {
         Kernels.forEachBlock((n + perBlock - 1) / perBlock, parallel && n > 1, blk -> {
             int i0 = blk * perBlock, i1 = Math.min(n, i0 + perBlock);
             if (lanes != null) {
-                new NewtonLanes(lanes, lay, engines, fixedLambda, rawPenalty, prior, u).fit(i0, i1, maxIterations,
-                        tolerance, new NewtonLanes.Units() {
+                new NewtonLanes(lanes, lay, engines, fixedLambda, choose ? search : null, scale, rawPenalty, prior, u)
+                        .fit(i0, i1, maxIterations, tolerance, new NewtonLanes.Units() {
                             @Override
                             public boolean load(int i, PenalizedNewton eng, double[] row) {
                                 if (!(totals[i] > 0)) {
@@ -246,9 +246,10 @@ final class PenalizedFit {
                             }
 
                             @Override
-                            public void finish(int i, PenalizedNewton eng, boolean ok, double[] cov, double edf) {
-                                diag[i] = finishUnit(eng, fixedLambda, ok, false, null, new double[] {Double.NaN,
-                                    Double.NaN}, EstimationSupport.id(ids, i), i, out, null, cov, edf);
+                            public void finish(int i, PenalizedNewton eng, double lambda, double[] found, boolean ok,
+                                    double[] cov, double edf) {
+                                diag[i] = finishUnit(eng, lambda, ok, choose, null, found, EstimationSupport.id(ids, i),
+                                        i, out, null, cov, edf);
                             }
                         });
             } else {

@@ -59,9 +59,9 @@ final class PenalizedObjective {
     private double zScaled;
     private double shift;
     private double loglik;
-    /** Column ranges of the nonzero entries of each row of the penalty and the prior ({@link Kernels#rowSupport}: the roughness penalty of B-splines is banded). */
-    private final int[] penRows;
-    private final int[] priorRows;
+    /** The penalty and the prior (null without one) with their row sums at the last coefficients (the penalty is banded). */
+    private final Kernels.RowSums penSums;
+    private final Kernels.RowSums priorSums;
 
     /** With a fixed quadratic prior term β'Qβ (raw K × K, already weighted; null for none). */
     PenalizedObjective(BinLayout lay, double[] rawPenalty, double[] prior) {
@@ -81,19 +81,18 @@ final class PenalizedObjective {
         uj = new double[k1];
         occupied = new int[lay.bins];
         logMass = new double[lay.bins];
-        penRows = Kernels.rowSupport(rawPenalty, k);
-        priorRows = prior == null ? null : Kernels.rowSupport(prior, k);
+        penSums = new Kernels.RowSums(rawPenalty, k);
+        priorSums = prior == null ? null : new Kernels.RowSums(prior, k);
     }
-
 
     /** β'Pβ over the first K coefficients. */
     double penalty(double[] b) {
-        return Kernels.quadraticForm(pen, penRows, b, k);
+        return penSums.form(b);
     }
 
     /** β'Qβ of the prior (0 without one). */
     double priorPenalty(double[] b) {
-        return prior == null ? 0.0 : Kernels.quadraticForm(prior, priorRows, b, k);
+        return prior == null ? 0.0 : priorSums.form(b);
     }
 
 
@@ -399,25 +398,24 @@ final class PenalizedObjective {
             return;
         }
         if (prior != null) {
-            subtractQuadratic(prior, priorRows, 1.0, beta);
+            subtractQuadratic(priorSums, 1.0, beta);
         }
         if (lambda != 0.0) {
-            subtractQuadratic(pen, penRows, lambda, beta);
+            subtractQuadratic(penSums, lambda, beta);
         }
     }
 
     /** Subtracts the term w β'Mβ from Φ: its gradient 2wMβ from grad, its curvature 2wM added to hess. */
-    private void subtractQuadratic(double[] m, int[] rows, double w, double[] beta) {
+    private void subtractQuadratic(Kernels.RowSums q, double w, double[] beta) {
+        double[] m = q.matrix(), r = q.of(beta);
+        int[] rows = q.rows();
         for (int i = 0; i < k; i++) {
-            double r = 0;
             int o = i * k;
             int row = i * k1;
             for (int j = rows[2 * i], hi = rows[2 * i + 1]; j < hi; j++) {
-                double p = m[o + j];
-                r += p * beta[j];
-                hess[row + j] += 2 * w * p;
+                hess[row + j] += 2 * w * m[o + j];
             }
-            grad[i] -= 2 * w * r;
+            grad[i] -= 2 * w * r[i];
         }
     }
 

@@ -2,8 +2,7 @@ package io.densa.core.estimate;
 
 import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.GoldenSection;
-import org.ejml.data.DMatrixRMaj;
-import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DDRM;
+import io.densa.core.internal.ScatteredCurvature;
 import org.ejml.data.DMatrixRMaj;
 import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DDRM;
 
@@ -95,58 +94,206 @@ final class SmoothingSearch {
      * computed (no further fits: scanning on until the criterion had risen by
      * {@link #PLAUSIBLE_RISE} changed the replicate study's ratios by at most 0.02 and cost 6 % more
      * time), found[1] the curvature of the criterion at the choice from the values the search
-     * computed ({@link Evaluations#curvatureAt}; NaN where they do not determine it).
+     * computed ({@link ScatteredCurvature#curvatureAt}; NaN where they do not determine it).
      */
     double choose(PenalizedNewton eng, double scale, CrossValidationFolds cv, double[] found) {
-        int steps = (int) Math.floor((gridHi - gridLo) / gridStep + 1e-9);
-        double[] scanG = new double[steps + 1];
-        double[] scanC = new double[steps + 1];
-        int scanned = 0;
-        double bestG = gridHi, bestC = Double.POSITIVE_INFINITY;
-        double[] bestBeta = new double[k + 1];
-        Path path = new Path(k, criterion != SmoothingCriterion.CROSS_VALIDATION);
-        Evaluations evaluated = new Evaluations(steps + 1 + 4 + GOLDEN_STEPS + 2);
-        found[1] = Double.NaN;
-        int rising = 0;
-        double prev = Double.POSITIVE_INFINITY;
-        double cAbove = Double.POSITIVE_INFINITY, cBelow = Double.POSITIVE_INFINITY;
-        for (int s = 0; s <= steps && rising < 2; s++) {
-            double g = gridHi - s * gridStep;
-            double c = criterionAt(eng, lambdaAt(eng.total(), scale, g), cv);
-            scanG[scanned] = g;
-            scanC[scanned++] = c;
-            evaluated.add(g, c);
-            if (c < bestC) {
-                bestC = c;
-                bestG = g;
-                rising = 0;
-                cAbove = s > 0 ? prev : Double.POSITIVE_INFINITY;
-                cBelow = Double.POSITIVE_INFINITY;
-                eng.copyCoefficientsTo(bestBeta);
-                path.keepBest(eng, lambdaAt(eng.total(), scale, g));
-            } else if (bestC < Double.POSITIVE_INFINITY) {
-                if (rising == 0) {
-                    cBelow = c;
-                }
-                rising++;
-                // a first rise that is already implausible (V at least PLAUSIBLE_RISE above the best)
-                // ends the scan: the second would not add to the plausible range
-                if (rising == 1 && c - bestC >= PLAUSIBLE_RISE) {
-                    rising = 2;
-                }
-            }
-            prev = c;
+        Steps st = new Steps(eng, scale, found);
+        while (st.next()) {
+            st.accept(criterionAt(eng, st.lambda(), cv));
         }
-        found[0] = plausibleWidth(scanG, scanC, scanned, gridStep);
-        double denom = cAbove - 2 * bestC + cBelow;
-        if (Double.isFinite(denom) && denom > 0) {
-            // three steps of successive parabolic interpolation in g = log10(λ) (Brent 1973,
-            // Algorithms for Minimization without Derivatives, ch. 5; from memory)
-            double[] gs = {bestG - gridStep, bestG, bestG + gridStep, 0};
-            double[] cs = {cBelow, bestC, cAbove, 0};
-            int m = 3;
-            for (int pass = 0; pass < 3; pass++) {
-                int b = 0;
+        return st.chosen();
+    }
+
+    /**
+     * One unit's {@link #choose} as steps, so that several units' searches can share the lanes of
+     * their fits ({@link NewtonLanes}): while {@link #next} asks for a fit (it has set the engine's
+     * start), the criterion of the engine's fit at {@link #lambda} goes to {@link #accept}; then
+     * {@link #chosen} is the choice, the engine holds its coefficients and found its two values.
+     */
+    final class Steps {
+        private static final int SCAN = 0, PARABOLA = 1, EDGE = 2, GOLDEN = 3, DONE = 4;
+        private final PenalizedNewton eng;
+        private final double scale;
+        private final double[] found;
+        private final int steps;
+        private final double[] scanG, scanC;
+        private final double[] bestBeta;
+        private final Path path;
+        private final ScatteredCurvature evaluated;
+        private int phase = SCAN, scanned, s, rising;
+        private double bestG = gridHi, bestC = Double.POSITIVE_INFINITY, prev = Double.POSITIVE_INFINITY;
+        private double cAbove = Double.POSITIVE_INFINITY, cBelow = Double.POSITIVE_INFINITY;
+        /** The successive parabolic interpolation's points, their number, its passes and the best one's index. */
+        private double[] gs, cs;
+        private int m, pass, b;
+        private GoldenSection.Steps golden;
+        /** log10 λ of the fit asked for, and of the choice. */
+        private double x, chosenG;
+
+        /** found: receives the plausible width and the curvature (see {@link #choose}). */
+        Steps(PenalizedNewton eng, double scale, double[] found) {
+            this.eng = eng;
+            this.scale = scale;
+            this.found = found;
+            steps = (int) Math.floor((gridHi - gridLo) / gridStep + 1e-9);
+            scanG = new double[steps + 1];
+            scanC = new double[steps + 1];
+            bestBeta = new double[k + 1];
+            path = new Path(k, criterion != SmoothingCriterion.CROSS_VALIDATION);
+            evaluated = new ScatteredCurvature(steps + 1 + 4 + GOLDEN_STEPS + 2);
+            found[1] = Double.NaN;
+        }
+
+        /** The λ of the fit asked for. */
+        double lambda() {
+            return lambdaAt(eng.total(), scale, x);
+        }
+
+        /** The chosen λ (once {@link #next} has returned false). */
+        double chosen() {
+            return lambdaAt(eng.total(), scale, chosenG);
+        }
+
+        /** Whether a fit is wanted (at {@link #lambda}, from the start set in the engine); false: done. */
+        boolean next() {
+            switch (phase) {
+                case SCAN:
+                    // the grid scan from strong to weak smoothing, stopped two rises after the best
+                    if (s <= steps && rising < 2) {
+                        x = gridHi - s * gridStep;
+                        return true;
+                    }
+                    endScan();
+                    return next();
+                case PARABOLA:
+                    return parabola();
+                case EDGE:
+                    x = bestG - EDGE_STEP;
+                    path.startNearBest(eng, bestBeta, bestG, x);
+                    return true;
+                case GOLDEN:
+                    if (!golden.done()) {
+                        x = golden.point();
+                        path.startNearBest(eng, bestBeta, bestG, x);
+                        return true;
+                    }
+                    eng.setCoefficients(bestBeta);
+                    chosenG = golden.result();
+                    found[1] = evaluated.curvatureAt(chosenG);
+                    phase = DONE;
+                    return false;
+                default:
+                    return false;
+            }
+        }
+
+        /** The criterion at the fit {@link #next} asked for. */
+        void accept(double c) {
+            evaluated.add(x, c);
+            switch (phase) {
+                case SCAN:
+                    scanG[scanned] = x;
+                    scanC[scanned++] = c;
+                    if (c < bestC) {
+                        bestC = c;
+                        bestG = x;
+                        rising = 0;
+                        cAbove = s > 0 ? prev : Double.POSITIVE_INFINITY;
+                        cBelow = Double.POSITIVE_INFINITY;
+                        keepBest();
+                    } else if (bestC < Double.POSITIVE_INFINITY) {
+                        if (rising == 0) {
+                            cBelow = c;
+                        }
+                        rising++;
+                        // a first rise that is already implausible (V at least PLAUSIBLE_RISE above the best)
+                        // ends the scan: the second would not add to the plausible range
+                        if (rising == 1 && c - bestC >= PLAUSIBLE_RISE) {
+                            rising = 2;
+                        }
+                    }
+                    prev = c;
+                    s++;
+                    break;
+                case PARABOLA:
+                    if (m == 3) {
+                        gs[3] = x;
+                        cs[3] = c;
+                        m = 4;
+                    } else {
+                        // drop the point farthest from the best
+                        int far = 0;
+                        for (int i = 1; i < 4; i++) {
+                            if (Math.abs(gs[i] - gs[b]) > Math.abs(gs[far] - gs[b])) {
+                                far = i;
+                            }
+                        }
+                        gs[far] = x;
+                        cs[far] = c;
+                    }
+                    if (c < bestC) {
+                        bestC = c;
+                        bestG = x;
+                        keepBest();
+                    }
+                    pass++;
+                    break;
+                case EDGE:
+                    if (c >= bestC) {
+                        eng.setCoefficients(bestBeta);
+                        chosenG = bestG;
+                        phase = DONE;
+                    } else {
+                        startGolden();
+                    }
+                    break;
+                case GOLDEN:
+                    golden.accept(c);
+                    break;
+                default:
+                    throw new IllegalStateException("the search is done");
+            }
+        }
+
+        private void keepBest() {
+            eng.copyCoefficientsTo(bestBeta);
+            path.keepBest(eng, lambda());
+        }
+
+        /**
+         * After the scan: successive parabolic interpolation where the best grid value is bracketed
+         * by larger ones; else the strongest smoothing if the criterion still falls towards it (a
+         * fit {@link #EDGE_STEP} decades inside is no better), else golden-section search.
+         */
+        private void endScan() {
+            found[0] = plausibleWidth(scanG, scanC, scanned, gridStep);
+            double denom = cAbove - 2 * bestC + cBelow;
+            if (Double.isFinite(denom) && denom > 0) {
+                gs = new double[] {bestG - gridStep, bestG, bestG + gridStep, 0};
+                cs = new double[] {cBelow, bestC, cAbove, 0};
+                m = 3;
+                phase = PARABOLA;
+            } else if (bestG >= gridHi && bestC < Double.POSITIVE_INFINITY) {
+                phase = EDGE;
+            } else {
+                startGolden();
+            }
+        }
+
+        /** Golden-section refinement of log10 λ on [bestG − step, bestG + step] (grid ends or flat spots). */
+        private void startGolden() {
+            double lo = Math.max(gridLo, bestG - gridStep), hi = Math.min(gridHi, bestG + gridStep);
+            golden = new GoldenSection.Steps(lo, hi, GOLDEN_STEPS, bestG, bestC);
+            phase = GOLDEN;
+        }
+
+        /**
+         * The next of three steps of successive parabolic interpolation in g = log10(λ) (Brent 1973,
+         * Algorithms for Minimization without Derivatives, ch. 5; from memory), or the end.
+         */
+        private boolean parabola() {
+            if (pass < 3) {
+                b = 0;
                 for (int i = 1; i < m; i++) {
                     if (cs[i] < cs[b]) {
                         b = i;
@@ -162,63 +309,26 @@ final class SmoothingSearch {
                         right = i;
                     }
                 }
-                if (left < 0 || right < 0) {
-                    break;
-                }
-                double x0 = gs[left], x1 = gs[b], x2 = gs[right];
-                double f0 = cs[left], f1 = cs[b], f2 = cs[right];
-                double num = (x1 - x0) * (x1 - x0) * (f1 - f2) - (x1 - x2) * (x1 - x2) * (f1 - f0);
-                double den = (x1 - x0) * (f1 - f2) - (x1 - x2) * (f1 - f0);
-                if (!(den != 0) || !Double.isFinite(num / den)) {
-                    break;
-                }
-                double x = x1 - 0.5 * num / den;
-                x = Math.max(x0, Math.min(x2, x));
-                if (Math.abs(x - x1) < 1e-3 * gridStep) {
-                    break;
-                }
-                path.startNearBest(eng, bestBeta, bestG, x);
-                double c = criterionAt(eng, lambdaAt(eng.total(), scale, x), cv);
-                evaluated.add(x, c);
-                if (m == 3) {
-                    gs[3] = x;
-                    cs[3] = c;
-                    m = 4;
-                } else {
-                    // drop the point farthest from the best
-                    int far = 0;
-                    for (int i = 1; i < 4; i++) {
-                        if (Math.abs(gs[i] - gs[b]) > Math.abs(gs[far] - gs[b])) {
-                            far = i;
+                if (left >= 0 && right >= 0) {
+                    double x0 = gs[left], x1 = gs[b], x2 = gs[right];
+                    double f0 = cs[left], f1 = cs[b], f2 = cs[right];
+                    double num = (x1 - x0) * (x1 - x0) * (f1 - f2) - (x1 - x2) * (x1 - x2) * (f1 - f0);
+                    double den = (x1 - x0) * (f1 - f2) - (x1 - x2) * (f1 - f0);
+                    if (den != 0 && Double.isFinite(num / den)) {
+                        double xn = Math.max(x0, Math.min(x2, x1 - 0.5 * num / den));
+                        if (Math.abs(xn - x1) >= 1e-3 * gridStep) {
+                            x = xn;
+                            path.startNearBest(eng, bestBeta, bestG, x);
+                            return true;
                         }
                     }
-                    gs[far] = x;
-                    cs[far] = c;
-                }
-                if (c < bestC) {
-                    bestC = c;
-                    bestG = x;
-                    eng.copyCoefficientsTo(bestBeta);
-                    path.keepBest(eng, lambdaAt(eng.total(), scale, x));
                 }
             }
-            double lambda = lambdaAt(eng.total(), scale, bestG);
+            chosenG = bestG;
             eng.setCoefficients(bestBeta);
             found[1] = evaluated.curvatureAt(bestG);
-            return lambda;
-        } else {
-            if (bestG >= gridHi && bestC < Double.POSITIVE_INFINITY) {
-                path.startNearBest(eng, bestBeta, bestG, bestG - EDGE_STEP);
-                double inside = criterionAt(eng, lambdaAt(eng.total(), scale, bestG - EDGE_STEP), cv);
-                evaluated.add(bestG - EDGE_STEP, inside);
-                if (inside >= bestC) {
-                    eng.setCoefficients(bestBeta);
-                    return lambdaAt(eng.total(), scale, bestG);
-                }
-            }
-            double g = golden(eng, scale, cv, bestG, bestC, bestBeta, path, evaluated);
-            found[1] = evaluated.curvatureAt(g);
-            return lambdaAt(eng.total(), scale, g);
+            phase = DONE;
+            return false;
         }
     }
 
@@ -253,109 +363,6 @@ final class SmoothingSearch {
      * tolerance.
      */
     static final double EDGE_STEP = 0.01;
-
-    /**
-     * Golden-section refinement of log10 λ on [bestG − step, bestG + step] (grid ends or flat spots);
-     * returns the chosen log10 λ.
-     */
-    private double golden(PenalizedNewton eng, double scale, CrossValidationFolds cv, double bestG, double bestC,
-            double[] bestBeta, Path path, Evaluations evaluated) {
-        double lo = Math.max(gridLo, bestG - gridStep), hi = Math.min(gridHi, bestG + gridStep);
-        double gBest = GoldenSection.minimise(x -> {
-            path.startNearBest(eng, bestBeta, bestG, x);
-            double c = criterionAt(eng, lambdaAt(eng.total(), scale, x), cv);
-            evaluated.add(x, c);
-            return c;
-        }, lo, hi, GOLDEN_STEPS, bestG, bestC);
-        eng.setCoefficients(bestBeta);
-        return gBest;
-    }
-
-    /**
-     * The criterion values one search computed, in log10 λ, and the curvature they give at the choice.
-     * Per call of {@link #choose}.
-     */
-    static final class Evaluations {
-        /**
-         * Closest spacing (decades) of two values used together: below it their difference would
-         * be mostly the error of the search fits (10⁻⁹ relative in the penalised log-likelihood).
-         */
-        static final double MIN_SPACING = 0.01;
-        final double[] g;
-        final double[] c;
-        int n;
-
-        Evaluations(int capacity) {
-            g = new double[capacity];
-            c = new double[capacity];
-        }
-
-        void add(double x, double v) {
-            if (n < g.length && Double.isFinite(v)) {
-                g[n] = x;
-                c[n++] = v;
-            }
-        }
-
-        /**
-         * V''(x0) in decades⁻² from the cubic through x0's value, the nearest value on each side and
-         * the next nearest, no two closer than {@link #MIN_SPACING}: the second derivative of the
-         * interpolating polynomial at an interior node (divided differences; Burden &amp; Faires
-         * (2011), Numerical Analysis, 9th ed., §3.3 and §4.1; from memory, and elementary: exact
-         * for cubics, checked so in {@code SmoothingSearchTest}). NaN when x0 was not evaluated or
-         * the values do not bracket it.
-         */
-        double curvatureAt(double x0) {
-            double[] t = new double[4];
-            double[] y = new double[4];
-            int self = -1, below = -1, above = -1;
-            for (int i = 0; i < n; i++) {
-                double d = g[i] - x0;
-                if (d == 0) {
-                    self = i;
-                } else if (d <= -MIN_SPACING && (below < 0 || d > g[below] - x0)) {
-                    below = i;
-                } else if (d >= MIN_SPACING && (above < 0 || d < g[above] - x0)) {
-                    above = i;
-                }
-            }
-            if (self < 0 || below < 0 || above < 0) {
-                return Double.NaN;
-            }
-            int fourth = -1;
-            for (int i = 0; i < n; i++) {
-                double d = Math.abs(g[i] - x0);
-                if (d >= MIN_SPACING && Math.abs(g[i] - g[below]) >= MIN_SPACING
-                        && Math.abs(g[i] - g[above]) >= MIN_SPACING && (fourth < 0 || d < Math.abs(g[fourth] - x0))) {
-                    fourth = i;
-                }
-            }
-            if (fourth < 0) {
-                return Double.NaN;
-            }
-            int[] pick = {self, below, above, fourth};
-            for (int j = 0; j < 4; j++) {
-                t[j] = g[pick[j]] - x0;
-                y[j] = c[pick[j]];
-            }
-            return cubicSecondDerivativeAtZero(t, y);
-        }
-    }
-
-    /**
-     * p''(0) of the cubic p through (t_i, y_i), i = 0..3 (distinct t): Newton's divided differences
-     * p(t) = y0 + d1 (t − t0) + d2 (t − t0)(t − t1) + d3 (t − t0)(t − t1)(t − t2).
-     */
-    static double cubicSecondDerivativeAtZero(double[] t, double[] y) {
-        double[] d = y.clone();
-        for (int level = 1; level < 4; level++) {
-            for (int i = 3; i >= level; i--) {
-                d[i] = (d[i] - d[i - 1]) / (t[i] - t[i - level]);
-            }
-        }
-        // p''(t) = 2 d2 + d3 (6t − 2(t0 + t1 + t2))
-        return 2 * d[2] - 2 * d[3] * (t[0] + t[1] + t[2]);
-    }
 
     static double lambdaAt(double total, double scale, double g) {
         return total * scale * Math.pow(10.0, g);
@@ -434,7 +441,20 @@ final class SmoothingSearch {
 
     /** Fits at λ from the current beta and returns the criterion (+∞ on failure). */
     double criterionAt(PenalizedNewton eng, double lambda, CrossValidationFolds cv) {
-        if (!eng.solveForSearch(lambda, maxIterations, Math.max(tolerance, SEARCH_TOLERANCE))) {
+        return criterionAfter(eng, lambda, cv, eng.solveForSearch(lambda, maxIterations, searchTolerance()));
+    }
+
+    /** The tolerance of the search's fits: the configured one, at least {@link #SEARCH_TOLERANCE}. */
+    double searchTolerance() {
+        return Math.max(tolerance, SEARCH_TOLERANCE);
+    }
+
+    /**
+     * The criterion after the engine's search fit at λ (+∞ unless converged): what
+     * {@link #criterionAt} returns after its fit.
+     */
+    double criterionAfter(PenalizedNewton eng, double lambda, CrossValidationFolds cv, boolean converged) {
+        if (!converged) {
             return Double.POSITIVE_INFINITY;
         }
         double loglik = eng.logLikelihood();

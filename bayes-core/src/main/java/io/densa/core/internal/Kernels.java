@@ -297,7 +297,7 @@ public final class Kernels {
      * (|i − j| &lt; order), whose products can then skip the zeros with the sums of the full loops
      * (a zero term adds nothing).
      */
-    public static int[] rowSupport(double[] m, int k) {
+    static int[] rowSupport(double[] m, int k) {
         int[] r = new int[2 * k];
         for (int i = 0; i < k; i++) {
             int lo = 0, hi = k;
@@ -313,17 +313,65 @@ public final class Kernels {
         return r;
     }
 
-    /** bᵀMb over the first k entries of b, row i summed over the columns of {@link #rowSupport}. */
-    public static double quadraticForm(double[] m, int[] rows, double[] b, int k) {
-        double s = 0;
-        for (int i = 0; i < k; i++) {
-            double r = 0;
-            int o = i * k;
-            for (int j = rows[2 * i], hi = rows[2 * i + 1]; j < hi; j++) {
-                r += m[o + j] * b[j];
-            }
-            s += b[i] * r;
+    /**
+     * A K × K matrix M with its {@link #rowSupport}, and its row sums (M b)_i for the last b given,
+     * kept: the penalised objective asks for b'Mb at a point and then, once the point is accepted,
+     * for its gradient term M b at the same point: one computation of the sums serves both. One
+     * per thread.
+     */
+    public static final class RowSums {
+        private final double[] m;
+        private final int[] rows;
+        private final int k;
+        private final double[] sums;
+        private final double[] at;
+        private boolean known;
+
+        /** For m (K × K, row-major; not copied, not modified). */
+        public RowSums(double[] m, int k) {
+            this.m = m;
+            this.k = k;
+            this.rows = rowSupport(m, k);
+            sums = new double[k];
+            at = new double[k];
         }
-        return s;
+
+        /** The matrix (not a copy). */
+        public double[] matrix() {
+            return m;
+        }
+
+        /** Row i's nonzero columns: from {@code rows()[2i]} to before {@code rows()[2i + 1]} (not a copy). */
+        public int[] rows() {
+            return rows;
+        }
+
+        /** (M b)_i for i &lt; K (the first K entries of b; the array is reused by the next call). */
+        public double[] of(double[] b) {
+            if (known && java.util.Arrays.equals(at, 0, k, b, 0, k)) {
+                return sums;
+            }
+            for (int i = 0; i < k; i++) {
+                double r = 0;
+                int o = i * k;
+                for (int j = rows[2 * i], hi = rows[2 * i + 1]; j < hi; j++) {
+                    r += m[o + j] * b[j];
+                }
+                sums[i] = r;
+            }
+            System.arraycopy(b, 0, at, 0, k);
+            known = true;
+            return sums;
+        }
+
+        /** b'Mb: Σ_i b_i (M b)_i, each row summed over its nonzero columns in order. */
+        public double form(double[] b) {
+            double[] r = of(b);
+            double s = 0;
+            for (int i = 0; i < k; i++) {
+                s += b[i] * r[i];
+            }
+            return s;
+        }
     }
 }
