@@ -337,7 +337,9 @@ final class NewtonLanes {
         PenalizedNewton e = eng[l];
         if (searching[l]) {
             e.keepFactor();
-            copyEvaluation(l, e.objective());
+            if (search.criterionReadsEvaluation()) {
+                copyEvaluation(l, e.objective());
+            }
             plans[l].accept(search.criterionAfter(e, lam[l], null, e.converged()));
             begin(l);
         } else {

@@ -444,6 +444,15 @@ final class SmoothingSearch {
         return criterionAfter(eng, lambda, cv, eng.solveForSearch(lambda, maxIterations, searchTolerance()));
     }
 
+    /**
+     * Whether {@link #criterionAfter} reads the objective's quadrature state (exponentials and bin
+     * masses) beyond Φ's parts: the criteria with an edf do (its Fisher information); the marginal
+     * likelihood reads the log-likelihood and the Newton factor only.
+     */
+    boolean criterionReadsEvaluation() {
+        return criterion != SmoothingCriterion.MARGINAL_LIKELIHOOD;
+    }
+
     /** The tolerance of the search's fits: the configured one, at least {@link #SEARCH_TOLERANCE}. */
     double searchTolerance() {
         return Math.max(tolerance, SEARCH_TOLERANCE);
