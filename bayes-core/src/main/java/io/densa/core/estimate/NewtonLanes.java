@@ -8,7 +8,7 @@ import java.util.function.Supplier;
  * {@link SmoothingSearch} chooses, {@link UnitLanes#lanes()} units at a time: each lane has its own {@link PenalizedNewton} (coefficients, iteration, Cholesky
  * factor, and afterwards the covariance), while the quadrature passes, the evaluation and the node
  * pass of the observed information, run for all lanes together, one unit per lane of a SIMD
- * vector, and so do the Newton factorisation and solve. The passes give each lane the bits the
+ * vector, and so do the penalised Newton matrices, their factorisation and the solve. The passes give each lane the bits the
  * one-unit passes give, and each engine answers the same requests in the same order as its own
  * {@link PenalizedNewton#solve}, so a unit's fit is the same to the bit as alone, whichever units
  * share the lanes. A lane whose unit has finished takes the next unit at once (with a fresh
@@ -94,6 +94,9 @@ final class NewtonLanes {
     private final int[] failed;
     /** Lowest column of row i that a node pass touches (the band of the information; the layout's). */
     private final int[] bandLo;
+    /** The penalised derivatives in lanes: β, 2λ, N/Z² and the gradient per lane; the rows' column ranges of P and Q. */
+    private final double[] bd, twoLambda, rankOne, gl;
+    private final int[] penRows, priorRows;
 
     /**
      * For units of counts on layout at a fixed λ (search null) or at the λ search chooses (λ NaN;
@@ -166,6 +169,12 @@ final class NewtonLanes {
         steps = new double[k1 * l];
         failed = new int[l];
         bandLo = lay.bandLo();
+        bd = new double[k1 * l];
+        twoLambda = new double[l];
+        rankOne = new double[l];
+        gl = new double[k1 * l];
+        penRows = new io.densa.core.internal.Kernels.RowSums(pen, k1 - 1).rows();
+        priorRows = prior == null ? null : new io.densa.core.internal.Kernels.RowSums(prior, k1 - 1).rows();
     }
 
     /** Fits units from..to−1 with the engines' {@link PenalizedNewton#solve} settings. */
@@ -189,42 +198,60 @@ final class NewtonLanes {
                 kern.derivatives(lay, counts, totals, ex, mass, zs, grad, hess, mvec, uj);
                 java.util.Arrays.fill(current, true);
                 int k = k1 - 1;
+                // the penalised matrices and gradients in lanes (λ = 0, where the penalty is skipped: per engine)
+                boolean inLanes = true;
                 for (int l = 0; l < lanes; l++) {
                     if (differentiate[l]) {
-                        PenalizedObjective lik = eng[l].objective();
-                        copyDerivatives(l, lik, grad, hess, mvec);
-                        lik.finishDerivatives(lam[l], true, eng[l].betaView());
-                        double[] h = lik.hess;
+                        inLanes &= lam[l] != 0.0;
+                        double[] b = eng[l].betaView();
                         for (int i = 0; i < k; i++) {
-                            for (int c = i * k1, end = c + i; c <= end; c++) {
-                                factor[c * lanes + l] = h[c];
+                            bd[i * lanes + l] = b[i];
+                        }
+                        twoLambda[l] = 2 * lam[l];
+                        rankOne[l] = totals[l] / (zs[l] * zs[l]);
+                    }
+                }
+                if (inLanes) {
+                    kern.finishDerivatives(k, k1, bandLo, grad, hess, mvec, rankOne, bd, prior, priorRows, pen,
+                            penRows, twoLambda, factor, gl);
+                    System.arraycopy(gl, 0, steps, 0, k * lanes);
+                } else {
+                    for (int l = 0; l < lanes; l++) {
+                        if (differentiate[l]) {
+                            finishOwn(l);
+                            double[] h = eng[l].objective().hess, g = eng[l].objective().grad;
+                            for (int i = 0; i < k; i++) {
+                                for (int c = i * k1, end = c + i; c <= end; c++) {
+                                    factor[c * lanes + l] = h[c];
+                                }
+                                steps[i * lanes + l] = g[i];
                             }
                         }
                     }
                 }
                 kern.cholesky(factor, k, k1, pivotFloor, failed);
-                for (int l = 0; l < lanes; l++) {
-                    if (differentiate[l]) {
-                        double[] g = eng[l].objective().grad;
-                        for (int i = 0; i < k; i++) {
-                            steps[i * lanes + l] = g[i];
-                        }
-                    }
-                }
                 kern.solve(factor, k, k1, steps); // the Newton steps (read only where the factor exists)
                 for (int l = 0; l < lanes; l++) {
                     if (differentiate[l]) {
                         PenalizedNewton e = eng[l];
                         PenalizedObjective lik = e.objective();
                         if (failed[l] < 0) {
-                            double[] h = lik.hess;
+                            double[] h = lik.hess, g = lik.grad;
                             for (int i = 0; i < k; i++) {
                                 for (int c = i * k1, end = c + i; c <= end; c++) {
                                     h[c] = factor[c * lanes + l];
                                 }
                             }
+                            if (inLanes) { // the gradient (the step's right-hand side before the solve)
+                                for (int i = 0; i < k; i++) {
+                                    g[i] = gl[i * lanes + l];
+                                }
+                            }
                             need[l] = e.factoredWithStep(steps, l, lanes);
                         } else {
+                            if (inLanes) {
+                                finishOwn(l);
+                            }
                             need[l] = e.differentiated(); // its own factorisation of the intact matrix
                         }
                         scoreIfNeeded(l);
@@ -265,6 +292,13 @@ final class NewtonLanes {
                 }
             }
         }
+    }
+
+    /** Lane l's penalised derivatives from the node pass by its engine's own code (into its objective). */
+    private void finishOwn(int l) {
+        PenalizedObjective lik = eng[l].objective();
+        copyDerivatives(l, lik, grad, hess, mvec);
+        lik.finishDerivatives(lam[l], true, eng[l].betaView());
     }
 
     /** Puts the next unit that needs a fit into lane l and begins its first fit (none left: the lane idles). */

@@ -43,6 +43,46 @@ final class LaneAlgebra {
         }
     }
 
+    /** See {@link UnitLanes#finishDerivatives}. */
+    static void finishDerivatives(int k, int k1, int[] bandLo, double[] grad, double[] hess, double[] mvec,
+            double[] c, double[] beta, double[] prior, int[] priorRows, double[] pen, int[] penRows,
+            double[] twoLambda, double[] factor, double[] rhs) {
+        DoubleVector cv = DoubleVector.fromArray(S, c, 0);
+        DoubleVector tl = DoubleVector.fromArray(S, twoLambda, 0);
+        for (int i = 0; i < k; i++) {
+            // the rank-one term (its factor c·m_i rounded first), then the prior's and the penalty's curvature
+            DoubleVector mi = cv.mul(DoubleVector.fromArray(S, mvec, i * L));
+            int row = i * k1, o = i * k, lo = bandLo[i];
+            int qLo = prior == null ? 0 : priorRows[2 * i], qHi = prior == null ? 0 : priorRows[2 * i + 1];
+            int pLo = penRows[2 * i], pHi = penRows[2 * i + 1];
+            for (int j = 0; j <= i; j++) {
+                DoubleVector h = j < lo ? DoubleVector.zero(S) : DoubleVector.fromArray(S, hess, (row + j) * L);
+                h = h.sub(mi.mul(DoubleVector.fromArray(S, mvec, j * L)));
+                if (j >= qLo && j < qHi) {
+                    h = h.add(2.0 * prior[o + j]);
+                }
+                if (j >= pLo && j < pHi) {
+                    h = h.add(tl.mul(pen[o + j]));
+                }
+                h.intoArray(factor, (row + j) * L);
+            }
+            // the gradient: + the linear term (0 for counts), − 2 (Qβ)_i, − 2λ (Pβ)_i, each sum in column order
+            DoubleVector g = DoubleVector.fromArray(S, grad, i * L).add(0.0);
+            if (prior != null) {
+                DoubleVector r = DoubleVector.zero(S);
+                for (int j = qLo; j < qHi; j++) {
+                    r = r.add(DoubleVector.fromArray(S, beta, j * L).mul(prior[o + j]));
+                }
+                g = g.sub(r.mul(2.0));
+            }
+            DoubleVector r = DoubleVector.zero(S);
+            for (int j = pLo; j < pHi; j++) {
+                r = r.add(DoubleVector.fromArray(S, beta, j * L).mul(pen[o + j]));
+            }
+            g.sub(tl.mul(r)).intoArray(rhs, i * L);
+        }
+    }
+
     static void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed) {
         Arrays.fill(failed, 0, L, -1);
         double[] pivot = new double[n * L];

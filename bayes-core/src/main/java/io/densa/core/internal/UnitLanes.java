@@ -84,6 +84,25 @@ public abstract class UnitLanes {
             double[] hess, double[] mvec, double[] uj);
 
     /**
+     * The rest of the penalised derivatives after the observed-information node pass (as the
+     * one-unit objective's {@code finishDerivatives} for counts, per lane with the same operations
+     * in the same order): the Newton matrix's lower triangle (the pass's band, zero outside it,
+     * minus c m_i m_j, plus 2Q, plus 2λP where those rows have entries) into factor (stride k1), and
+     * the penalised gradient g_i + 0 − 2 (Qβ)_i − 2λ (Pβ)_i, i &lt; k, into rhs.
+     *
+     * @param bandLo    lowest column of row i the pass touches
+     * @param grad      the pass's gradient, hess its information (band), mvec its moments (per lane)
+     * @param c         per lane N / Z² (the rank-one term's factor)
+     * @param beta      per lane β (the coefficients the pass is at)
+     * @param prior     the prior Q (K × K, one for all lanes) or null; priorRows its rows' column ranges
+     * @param pen       the penalty P (K × K), penRows its rows' column ranges
+     * @param twoLambda per lane 2λ (no lane with λ = 0: there the one-unit code skips the penalty)
+     */
+    public abstract void finishDerivatives(int k, int k1, int[] bandLo, double[] grad, double[] hess,
+            double[] mvec, double[] c, double[] beta, double[] prior, int[] priorRows, double[] pen, int[] penRows,
+            double[] twoLambda, double[] factor, double[] rhs);
+
+    /**
      * {@link Cholesky#factor} of every lane's matrix (n × n, row stride s, lower triangle read and
      * overwritten), with the same operations in the same order per lane. A lane whose pivot fails
      * gets its column in {@code failed} (−1 where the factor is complete) and a meaningless matrix.

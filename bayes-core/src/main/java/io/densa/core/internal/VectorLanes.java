@@ -495,6 +495,14 @@ final class VectorLanes extends UnitLanes {
 
 
     @Override
+    public void finishDerivatives(int k, int k1, int[] bandLo, double[] grad, double[] hess, double[] mvec,
+            double[] c, double[] beta, double[] prior, int[] priorRows, double[] pen, int[] penRows,
+            double[] twoLambda, double[] factor, double[] rhs) {
+        LaneAlgebra.finishDerivatives(k, k1, bandLo, grad, hess, mvec, c, beta, prior, priorRows, pen, penRows,
+                twoLambda, factor, rhs);
+    }
+
+    @Override
     public void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed) {
         LaneAlgebra.cholesky(a, n, s, minRelativePivot, failed);
     }
