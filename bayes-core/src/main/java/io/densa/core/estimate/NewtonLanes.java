@@ -4,21 +4,22 @@ import io.densa.core.internal.UnitLanes;
 import java.util.function.Supplier;
 
 /**
- * Fits of units of counts on one cubic-spline layout, at a fixed λ or at the λ each unit's
- * {@link SmoothingSearch} chooses, {@link UnitLanes#lanes()} units at a time: each lane has its own {@link PenalizedNewton} (coefficients, iteration, Cholesky
- * factor, and afterwards the covariance), while the quadrature passes, the evaluation and the node
- * pass of the observed information, run for all lanes together, one unit per lane of a SIMD
- * vector, and so do the penalised Newton matrices, their factorisation and the solve. The passes give each lane the bits the
- * one-unit passes give, and each engine answers the same requests in the same order as its own
- * {@link PenalizedNewton#solve}, so a unit's fit is the same to the bit as alone, whichever units
- * share the lanes. A lane whose unit has finished takes the next unit at once (with a fresh
- * engine); the finished engines wait until as many as there are lanes have finished, and their
- * Fisher information and robust sandwich covariances are computed together, one unit per lane
- * again ({@link UnitLanes#expectedInformation}, {@link UnitLanes#covarianceStart}: the same bits
- * as {@link PenalizedObjective#fisherInformation} and {@link NewtonCovariance#sandwich}).
- * With a search, each lane's unit runs its search's fits ({@link SmoothingSearch.Steps}: the same
- * fits from the same starts, each at its own λ) and then its final fit at the chosen λ in its lane,
- * and its choice is the one {@link SmoothingSearch#choose} makes alone. Internal.
+ * Fits of units of counts on one cubic-spline layout, at a fixed λ or at the λ each unit's {@link
+ * SmoothingSearch} chooses, {@link UnitLanes#lanes()} units at a time: each lane has its own {@link
+ * PenalizedNewton} (coefficients, iteration, Cholesky factor, and afterwards the covariance), while
+ * the quadrature passes, the evaluation and the node pass of the observed information, run for all
+ * lanes together, one unit per lane of a SIMD vector, and so do the penalised Newton matrices,
+ * their factorisation and the solve. The passes give each lane the bits the one-unit passes give,
+ * and each engine answers the same requests in the same order as its own {@link
+ * PenalizedNewton#solve}, so a unit's fit is the same to the bit as alone, whichever units share
+ * the lanes. A lane whose unit has finished takes the next unit at once (with a fresh engine); the
+ * finished engines wait until as many as there are lanes have finished, and their Fisher
+ * information and robust sandwich covariances are computed together, one unit per lane again
+ * ({@link UnitLanes#expectedInformation}, {@link UnitLanes#covarianceStart}: the same bits as
+ * {@link PenalizedObjective#fisherInformation} and {@link NewtonCovariance#sandwich}). With a
+ * search, each lane's unit runs its search's fits ({@link SmoothingSearch.Steps}: the same fits
+ * from the same starts, each at its own λ) and then its final fit at the chosen λ in its lane, and
+ * its choice is the one {@link SmoothingSearch#choose} makes alone. Internal.
  *
  * <p>A round: the lanes that asked for derivatives get them from one pass (a lane whose observed
  * information is not positive definite gets the expected one from its own engine), then the lanes
@@ -94,7 +95,7 @@ final class NewtonLanes {
     private final int[] failed;
     /** Lowest column of row i that a node pass touches (the band of the information; the layout's). */
     private final int[] bandLo;
-    /** The penalised derivatives in lanes: β, 2λ, N/Z² and the gradient per lane; the rows' column ranges of P and Q. */
+    /** The penalised derivatives in lanes: β, 2λ, N/Z² and the gradient per lane; P's and Q's row ranges. */
     private final double[] bd, twoLambda, rankOne, gl;
     private final int[] penRows, priorRows;
 

@@ -59,7 +59,7 @@ final class PenalizedObjective {
     private double zScaled;
     private double shift;
     private double loglik;
-    /** The penalty and the prior (null without one) with their row sums at the last coefficients (the penalty is banded). */
+    /** The penalty (banded) and the prior (null without one), with their row sums at the last coefficients. */
     private final Kernels.RowSums penSums;
     private final Kernels.RowSums priorSums;
 
