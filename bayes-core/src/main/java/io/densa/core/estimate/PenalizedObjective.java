@@ -59,6 +59,13 @@ final class PenalizedObjective {
     private double zScaled;
     private double shift;
     private double loglik;
+    /**
+     * The last observed pass's sums (grad, mvec, hess) while {@link #passKept}: at this evaluation
+     * and data; a fit resumed where the last one stopped needs the pass again at another λ (it does
+     * not depend on λ). Cleared by every evaluation and change of the data.
+     */
+    private final double[] keptPass;
+    private boolean passKept;
     /** The penalty (banded) and the prior (null without one), with their row sums at the last coefficients. */
     private final Kernels.RowSums penSums;
     private final Kernels.RowSums priorSums;
@@ -73,6 +80,7 @@ final class PenalizedObjective {
         linear = new double[k1];
         grad = new double[k1];
         hess = new double[k1 * k1];
+        keptPass = new double[k1 * (k1 + 2)];
         fisher = new double[k * k];
         eta = new double[lay.nodes];
         ex = new double[lay.nodes];
@@ -185,6 +193,7 @@ final class PenalizedObjective {
         zScaled = z;
         this.shift = shift;
         loglik = ll;
+        passKept = false;
         if (Double.isNaN(ll)) {
             ll = Double.NEGATIVE_INFINITY;
         }
@@ -214,6 +223,13 @@ final class PenalizedObjective {
      * symmetric (for {@link #fisherInformation}).
      */
     void derivatives(double lambda, boolean expected, boolean penalised, double[] beta) {
+        if (!expected && passKept) { // the observed pass at this evaluation is kept: its sums, not the pass again
+            System.arraycopy(keptPass, 0, grad, 0, k1);
+            System.arraycopy(keptPass, k1, mvec, 0, k1);
+            System.arraycopy(keptPass, 2 * k1, hess, 0, k1 * k1);
+            finishDerivatives(lambda, penalised, beta);
+            return;
+        }
         Arrays.fill(grad, 0.0);
         Arrays.fill(hess, 0.0);
         Arrays.fill(mvec, 0.0);
@@ -379,6 +395,12 @@ final class PenalizedObjective {
         if (fcur >= 0) {
             flushSpan(fcur, g0, g1, g2, g3, s0, s1, s2, s3, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
         }
+        if (!expected) {
+            System.arraycopy(grad, 0, keptPass, 0, k1);
+            System.arraycopy(mvec, 0, keptPass, k1, k1);
+            System.arraycopy(hess, 0, keptPass, 2 * k1, k1 * k1);
+            passKept = true;
+        }
         finishDerivatives(lambda, penalised, beta);
     }
 
@@ -398,24 +420,10 @@ final class PenalizedObjective {
             return;
         }
         if (prior != null) {
-            subtractQuadratic(priorSums, 1.0, beta);
+            priorSums.subtractTerm(1.0, beta, grad, hess, k1);
         }
         if (lambda != 0.0) {
-            subtractQuadratic(penSums, lambda, beta);
-        }
-    }
-
-    /** Subtracts the term w β'Mβ from Φ: its gradient 2wMβ from grad, its curvature 2wM added to hess. */
-    private void subtractQuadratic(Kernels.RowSums q, double w, double[] beta) {
-        double[] m = q.matrix(), r = q.of(beta);
-        int[] rows = q.rows();
-        for (int i = 0; i < k; i++) {
-            int o = i * k;
-            int row = i * k1;
-            for (int j = rows[2 * i], hi = rows[2 * i + 1]; j < hi; j++) {
-                hess[row + j] += 2 * w * m[o + j];
-            }
-            grad[i] -= 2 * w * r[i];
+            penSums.subtractTerm(lambda, beta, grad, hess, k1);
         }
     }
 
@@ -475,17 +483,13 @@ final class PenalizedObjective {
 
     /**
      * Replaces the counts and the total only (the training part of a fold, or a unit of the
-     * smoothing spline). The occupied bins (count &gt; 0) are read here: the array must not change
-     * while it is in use.
+     * smoothing spline). The occupied bins (count &gt; 0) are read here, increasing, into
+     * {@link #occupied}: the array must not change while it is in use.
      */
     void setCounts(double[] c, double n) {
+        passKept = false;
         counts = c;
         total = n;
-        findOccupied();
-    }
-
-    /** The bins with a positive count, increasing, into {@link #occupied}. */
-    private void findOccupied() {
         int m = 0;
         if (counts != null) {
             for (int j = 0; j < lay.bins; j++) {
@@ -499,6 +503,7 @@ final class PenalizedObjective {
 
     /** Sample mode: the sample (its sufficient statistic copied) and the totals. */
     void useSample(SampleData s, double n, double n2) {
+        passKept = false;
         counts = null;
         total = n;
         total2 = n2;
@@ -513,6 +518,7 @@ final class PenalizedObjective {
 
     /** Replaces the sample statistic (K + 1 values, copied) and the totals (a fold's training part). */
     void setSampleStatistics(double[] lin, double n, double n2) {
+        passKept = false;
         System.arraycopy(lin, 0, linear, 0, k + 1);
         total = n;
         total2 = n2;
@@ -520,9 +526,7 @@ final class PenalizedObjective {
 
     /** Restores counts (may be null), totals and the sample statistic (copied) saved before a cross-validation. */
     void restoreData(double[] c, double n, double n2, double[] lin) {
-        counts = c;
-        findOccupied();
-        total = n;
+        setCounts(c, n);
         total2 = n2;
         System.arraycopy(lin, 0, linear, 0, k + 1);
     }

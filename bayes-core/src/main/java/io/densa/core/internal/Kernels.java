@@ -336,14 +336,26 @@ public final class Kernels {
             at = new double[k];
         }
 
-        /** The matrix (not a copy). */
-        public double[] matrix() {
-            return m;
-        }
-
         /** Row i's nonzero columns: from {@code rows()[2i]} to before {@code rows()[2i + 1]} (not a copy). */
         public int[] rows() {
             return rows;
+        }
+
+        /**
+         * Subtracts the term w b'Mb from a function whose gradient and Hessian's negative are
+         * grad and hess (K × K in a row stride s): 2w (M b)_i from grad_i, 2w M_ij added to hess
+         * over each row's nonzero columns.
+         */
+        public void subtractTerm(double w, double[] b, double[] grad, double[] hess, int s) {
+            double[] r = of(b);
+            for (int i = 0; i < k; i++) {
+                int o = i * k;
+                int row = i * s;
+                for (int j = rows[2 * i], hi = rows[2 * i + 1]; j < hi; j++) {
+                    hess[row + j] += 2 * w * m[o + j];
+                }
+                grad[i] -= 2 * w * r[i];
+            }
         }
 
         /** (M b)_i for i &lt; K (the first K entries of b; the array is reused by the next call). */
