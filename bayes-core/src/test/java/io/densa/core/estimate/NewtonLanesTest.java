@@ -256,6 +256,10 @@ class NewtonLanesTest {
         }
         // AICc is undefined for the sparsest units, and without the prior one unit's information is singular
         assertTrue(compared >= 5, "batches compared: " + compared);
+        // on a circle (periodic cubic splines: the same lanes, the nodes wrapping around)
+        BayesSpace circle = BayesSpace.periodicSplines(0, 365, 4, 14);
+        assertTrue(assertBatchEqualsUnits(PenalizedLikelihoodEstimator.withDefaults(circle), edges, counts, "circle"),
+                "the circle's batch compared");
     }
 
     /**
