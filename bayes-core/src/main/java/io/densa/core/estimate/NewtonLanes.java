@@ -341,9 +341,7 @@ final class NewtonLanes {
         }
         if (need[l] == PenalizedNewton.DIFFERENTIATE && current[l]) {
             // a fit resumed where the last one stopped: its derivative pass is still in the lanes
-            PenalizedObjective lik = e.objective();
-            copyDerivatives(l, lik, grad, hess, mvec);
-            lik.finishDerivatives(lam[l], true, e.betaView());
+            finishOwn(l);
             need[l] = e.differentiated();
             scoreIfNeeded(l);
         }

@@ -100,4 +100,48 @@ class KernelsTest {
             assertEquals(big, fused[k], 0.0);
         }
     }
+
+    /**
+     * {@link Kernels.RowSums} against EJML's matrix-vector product and inner product (the same
+     * products, another summation order: 1e-13 relative) on a banded and a dense matrix, and its
+     * kept sums follow the coefficients' values, not the array: changed in place, they are
+     * recomputed; the subtracted term is 2w(Mb) from the gradient and 2wM added to the matrix.
+     */
+    @org.junit.jupiter.api.Test
+    void rowSumsAgreeWithEjmlAndFollowTheCoefficients() {
+        int k = 11;
+        double[] dense = random(k * k, 41);
+        double[] band = dense.clone();
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j < k; j++) {
+                if (Math.abs(i - j) > 3) {
+                    band[i * k + j] = 0.0;
+                }
+            }
+        }
+        for (double[] m : new double[][] {dense, band}) {
+            Kernels.RowSums q = new Kernels.RowSums(m, k);
+            double[] b = random(k + 1, 42); // one coefficient more than the matrix: ignored
+            for (int round = 0; round < 2; round++) {
+                DMatrixRMaj mb = new DMatrixRMaj(k, 1);
+                DMatrixRMaj bv = new DMatrixRMaj(k, 1, true, java.util.Arrays.copyOf(b, k));
+                CommonOps_DDRM.mult(new DMatrixRMaj(k, k, true, m), bv, mb);
+                double[] r = q.of(b);
+                for (int i = 0; i < k; i++) {
+                    assertEquals(mb.get(i), r[i], 1e-13 * (1 + Math.abs(mb.get(i))));
+                }
+                double form = CommonOps_DDRM.dot(bv, mb);
+                assertEquals(form, q.form(b), 1e-13 * (1 + Math.abs(form)));
+                double[] grad = new double[k], hess = new double[(k + 1) * (k + 1)];
+                q.subtractTerm(0.5, b, grad, hess, k + 1);
+                for (int i = 0; i < k; i++) {
+                    assertEquals(-mb.get(i), grad[i], 1e-13 * (1 + Math.abs(mb.get(i))));
+                    for (int j = 0; j < k; j++) {
+                        assertEquals(m[i * k + j], hess[i * (k + 1) + j], 0.0);
+                    }
+                }
+                b[3] += 1.5; // the same array, another value
+            }
+        }
+    }
 }
