@@ -256,6 +256,12 @@ class NewtonLanesTest {
         }
         // AICc is undefined for the sparsest units, and without the prior one unit's information is singular
         assertTrue(compared >= 5, "batches compared: " + compared);
+        // empty end runs read as censored cells (merged bins on the shared quadrature, in lanes too)
+        PenalizedLikelihoodEstimator censored = PenalizedLikelihoodEstimator.withDefaults(space)
+                .withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.CENSORED);
+        assertTrue(assertBatchEqualsUnits(censored, edges, counts, "censored ends"), "the censored batch compared");
+        assertTrue(censored.fitAll(edges, counts, null).diagnostics().stream().filter(d -> d.reason().contains("censor"))
+                .count() > 3, "units read as censored");
         // on a circle (periodic cubic splines: the same lanes, the nodes wrapping around)
         BayesSpace circle = BayesSpace.periodicSplines(0, 365, 4, 14);
         assertTrue(assertBatchEqualsUnits(PenalizedLikelihoodEstimator.withDefaults(circle), edges, counts, "circle"),
