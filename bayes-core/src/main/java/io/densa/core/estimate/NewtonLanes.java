@@ -79,6 +79,13 @@ final class NewtonLanes {
      * has run since: it computes every lane, each at the evaluation its lane holds).
      */
     private final boolean[] current;
+    /**
+     * The error of the first unit, in input order, whose finish threw (units are finished in the
+     * order their fits end): no later unit is loaded, the units in the lanes are finished, then it
+     * is thrown, so that the batch names the unit a unit-by-unit loop would have named.
+     */
+    private RuntimeException error;
+    private int errorUnit;
     /** The fit's settings and units and the next unit to load (per {@link #fit}). */
     private int maxIter, next, to;
     private double tol;
@@ -275,6 +282,9 @@ final class NewtonLanes {
             }
             if (!active) {
                 finishWaiting();
+                if (error != null) {
+                    throw error;
+                }
                 return;
             }
             if (!any) {
@@ -305,7 +315,7 @@ final class NewtonLanes {
     /** Puts the next unit that needs a fit into lane l and begins its first fit (none left: the lane idles). */
     private void load(int l) {
         unit[l] = -1;
-        while (next < to) {
+        while (next < to && (error == null || next < errorUnit)) {
             int i = next++;
             if (eng[l] == null) {
                 eng[l] = take();
@@ -472,7 +482,15 @@ final class NewtonLanes {
                     c[i] = cov[i * lanes + s];
                 }
             }
-            units.finish(waitingUnit[s], waiting[s], waitingLambda[s], waitingFound[s], waitingConverged[s], c, edf[s]);
+            try {
+                units.finish(waitingUnit[s], waiting[s], waitingLambda[s], waitingFound[s], waitingConverged[s], c,
+                        edf[s]);
+            } catch (RuntimeException ex) {
+                if (error == null || waitingUnit[s] < errorUnit) {
+                    error = ex;
+                    errorUnit = waitingUnit[s];
+                }
+            }
             free.add(waiting[s]);
             waiting[s] = null;
             waitingFound[s] = null;

@@ -33,11 +33,25 @@ public final class Kernels {
 
     /**
      * Runs body(block) for block = 0..blocks−1, in parallel on the common pool when
-     * {@code parallel}; each block must write only its own outputs.
+     * {@code parallel}; each block must write only its own outputs. If blocks throw, the exception
+     * of the lowest such block is thrown (in parallel after every block has run), as the serial
+     * loop would: the error a batch reports does not depend on the threads.
      */
     public static void forEachBlock(int blocks, boolean parallel, java.util.function.IntConsumer body) {
         if (parallel && blocks > 1) {
-            IntStream.range(0, blocks).parallel().forEach(body);
+            RuntimeException[] thrown = new RuntimeException[blocks];
+            IntStream.range(0, blocks).parallel().forEach(b -> {
+                try {
+                    body.accept(b);
+                } catch (RuntimeException e) {
+                    thrown[b] = e;
+                }
+            });
+            for (RuntimeException e : thrown) {
+                if (e != null) {
+                    throw e;
+                }
+            }
         } else {
             for (int i = 0; i < blocks; i++) {
                 body.accept(i);

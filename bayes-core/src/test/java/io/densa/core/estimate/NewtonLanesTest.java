@@ -270,8 +270,9 @@ class NewtonLanesTest {
 
     /**
      * A batch of the units against one call per unit (a single unit is fitted without the lanes):
-     * the same bits and diagnostics, or the batch throws, and then so does one of its units alone
-     * (nothing differs silently). Returns whether the batch was compared (false: it threw).
+     * the same bits and diagnostics, or the batch throws what the first of its units (in input
+     * order) that throws alone throws (nothing differs silently, and the batch names the unit a
+     * unit-by-unit loop names). Returns whether the batch was compared (false: it threw).
      */
     private static boolean assertBatchEqualsUnits(PenalizedLikelihoodEstimator e, double[] edges, int[][] counts,
             String where) {
@@ -282,16 +283,16 @@ class NewtonLanesTest {
         try {
             all = e.fitAll(edges, counts, ids);
         } catch (RuntimeException batch) {
-            boolean alone = false;
-            for (int i = 0; i < n && !alone; i++) {
+            for (int i = 0; i < n; i++) {
                 try {
                     e.fitAll(edges, new int[][] {counts[i]}, new String[] {ids[i]});
                 } catch (RuntimeException one) {
-                    alone = one.getClass() == batch.getClass() && one.getMessage().equals(batch.getMessage());
+                    assertEquals(one.getClass(), batch.getClass(), where + ": unit " + i + " alone");
+                    assertEquals(one.getMessage(), batch.getMessage(), where + ": unit " + i + " alone");
+                    return false;
                 }
             }
-            assertTrue(alone, where + ": the batch threw " + batch + " but no unit alone does");
-            return false;
+            throw new AssertionError(where + ": the batch threw " + batch + " but no unit alone does", batch);
         }
         DensitySet d = all.densities();
         for (int i = 0; i < counts.length; i++) {
@@ -316,7 +317,7 @@ class NewtonLanesTest {
     void batchEqualsUnitByUnitOnRandomLayouts() {
         assumeTrue(UnitLanes.active() != null, "the vector path is not active");
         Random r = new Random(21);
-        for (int t = 0; t < 8; t++) {
+        for (int t = 0; t < 12; t++) {
             int bins = 5 + r.nextInt(400);
             BayesSpace space = BayesSpace.cubicSplines(0, 100, 2 + r.nextInt(30));
             double[] edges = new double[bins + 1];
@@ -340,8 +341,10 @@ class NewtonLanesTest {
             }
             PenalizedLikelihoodEstimator e = PenalizedLikelihoodEstimator.withDefaults(space).withReferencePrior(t % 2)
                     .withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.COUNTED);
-            // every other layout with λ chosen per unit (the default criterion)
-            e = t % 4 < 2 ? e.withSmoothing(Math.pow(10, -3 + 10 * r.nextDouble())) : e;
+            // every other layout with λ chosen per unit: by the default criterion, or by AICc, undefined
+            // for the sparsest units (the batch must then name the first such unit in input order)
+            e = t % 4 < 2 ? e.withSmoothing(Math.pow(10, -3 + 10 * r.nextDouble()))
+                    : t % 4 == 3 ? e.withCriterion(SmoothingCriterion.AICC) : e;
             assertBatchEqualsUnits(e, edges, counts, "layout " + t);
         }
     }

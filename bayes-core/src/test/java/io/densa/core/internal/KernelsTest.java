@@ -144,4 +144,20 @@ class KernelsTest {
             }
         }
     }
+
+    /** Parallel blocks that throw: the lowest block's exception, as the serial loop, every time. */
+    @org.junit.jupiter.api.Test
+    void forEachBlockThrowsTheLowestBlocksException() {
+        for (int run = 0; run < 20; run++) {
+            for (boolean parallel : new boolean[] {true, false}) {
+                IllegalStateException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalStateException.class,
+                        () -> Kernels.forEachBlock(64, parallel, b -> {
+                            if (b == 5 || b == 40 || b == 63) {
+                                throw new IllegalStateException("block " + b);
+                            }
+                        }));
+                assertEquals("block 5", e.getMessage());
+            }
+        }
+    }
 }
