@@ -61,8 +61,44 @@ public final class Cholesky {
             a[rj + j] = d;
             double inv = 1.0 / d;
             int i = j + 1;
-            // four rows at a time: four independent sums share the loads of row j (each entry's
-            // terms in the same order as one row at a time, so the factor is the same bit for bit)
+            // eight, then four rows at a time: independent sums share the loads of row j (each
+            // entry's terms in the same order as one row at a time, so the factor is the same bit
+            // for bit)
+            for (; i + 7 < n; i += 8) {
+                int r0 = i * s, r1 = r0 + s, r2 = r1 + s, r3 = r2 + s, r4 = r3 + s, r5 = r4 + s, r6 = r5 + s,
+                        r7 = r6 + s;
+                double v0 = a[r0 + j], v1 = a[r1 + j], v2 = a[r2 + j], v3 = a[r3 + j];
+                double v4 = a[r4 + j], v5 = a[r5 + j], v6 = a[r6 + j], v7 = a[r7 + j];
+                for (int p = 0; p < j; p++) {
+                    double b = a[rj + p];
+                    v0 -= a[r0 + p] * b;
+                    v1 -= a[r1 + p] * b;
+                    v2 -= a[r2 + p] * b;
+                    v3 -= a[r3 + p] * b;
+                    v4 -= a[r4 + p] * b;
+                    v5 -= a[r5 + p] * b;
+                    v6 -= a[r6 + p] * b;
+                    v7 -= a[r7 + p] * b;
+                }
+                double l0 = v0 * inv, l1 = v1 * inv, l2 = v2 * inv, l3 = v3 * inv;
+                double l4 = v4 * inv, l5 = v5 * inv, l6 = v6 * inv, l7 = v7 * inv;
+                a[r0 + j] = l0;
+                a[r1 + j] = l1;
+                a[r2 + j] = l2;
+                a[r3 + j] = l3;
+                a[r4 + j] = l4;
+                a[r5 + j] = l5;
+                a[r6 + j] = l6;
+                a[r7 + j] = l7;
+                pivot[i] -= l0 * l0;
+                pivot[i + 1] -= l1 * l1;
+                pivot[i + 2] -= l2 * l2;
+                pivot[i + 3] -= l3 * l3;
+                pivot[i + 4] -= l4 * l4;
+                pivot[i + 5] -= l5 * l5;
+                pivot[i + 6] -= l6 * l6;
+                pivot[i + 7] -= l7 * l7;
+            }
             for (; i + 3 < n; i += 4) {
                 int r0 = i * s, r1 = r0 + s, r2 = r1 + s, r3 = r2 + s;
                 double v0 = a[r0 + j], v1 = a[r1 + j], v2 = a[r2 + j], v3 = a[r3 + j];

@@ -178,7 +178,7 @@ class CholeskyTest {
     }
 
     @ParameterizedTest
-    @ValueSource(ints = {1, 2, 3, 7, 16, 41})
+    @ValueSource(ints = {1, 2, 3, 7, 9, 12, 16, 24, 41})
     void factorEqualsEjmlInnerCholeskyBitForBit(int n) {
         double[] a = spd(n, n);
         DMatrixRMaj ej = DMatrixRMaj.wrap(n, n, a.clone());
