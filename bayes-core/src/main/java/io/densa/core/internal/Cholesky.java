@@ -61,9 +61,8 @@ public final class Cholesky {
             a[rj + j] = d;
             double inv = 1.0 / d;
             int i = j + 1;
-            // eight, then four rows at a time: independent sums share the loads of row j (each
-            // entry's terms in the same order as one row at a time, so the factor is the same bit
-            // for bit)
+            // eight rows at a time: independent sums share the loads of row j (each entry's terms
+            // in the same order as one row at a time, so the factor is the same bit for bit)
             for (; i + 7 < n; i += 8) {
                 int r0 = i * s, r1 = r0 + s, r2 = r1 + s, r3 = r2 + s, r4 = r3 + s, r5 = r4 + s, r6 = r5 + s,
                         r7 = r6 + s;
@@ -98,26 +97,6 @@ public final class Cholesky {
                 pivot[i + 5] -= l5 * l5;
                 pivot[i + 6] -= l6 * l6;
                 pivot[i + 7] -= l7 * l7;
-            }
-            for (; i + 3 < n; i += 4) {
-                int r0 = i * s, r1 = r0 + s, r2 = r1 + s, r3 = r2 + s;
-                double v0 = a[r0 + j], v1 = a[r1 + j], v2 = a[r2 + j], v3 = a[r3 + j];
-                for (int p = 0; p < j; p++) {
-                    double b = a[rj + p];
-                    v0 -= a[r0 + p] * b;
-                    v1 -= a[r1 + p] * b;
-                    v2 -= a[r2 + p] * b;
-                    v3 -= a[r3 + p] * b;
-                }
-                double l0 = v0 * inv, l1 = v1 * inv, l2 = v2 * inv, l3 = v3 * inv;
-                a[r0 + j] = l0;
-                a[r1 + j] = l1;
-                a[r2 + j] = l2;
-                a[r3 + j] = l3;
-                pivot[i] -= l0 * l0;
-                pivot[i + 1] -= l1 * l1;
-                pivot[i + 2] -= l2 * l2;
-                pivot[i + 3] -= l3 * l3;
             }
             for (; i < n; i++) {
                 int ri = i * s;
