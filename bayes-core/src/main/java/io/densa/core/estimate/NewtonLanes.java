@@ -71,6 +71,8 @@ final class NewtonLanes {
     private final double scale;
     private final SmoothingSearch.Steps[] plans;
     private final double[][] found;
+    /** The search's two values at a fixed λ (read only). */
+    private static final double[] NO_SEARCH = {Double.NaN, Double.NaN};
     /** Each lane's λ and whether its fit is one of its search's. */
     private final double[] lam;
     private final boolean[] searching;
@@ -181,8 +183,8 @@ final class NewtonLanes {
         twoLambda = new double[l];
         rankOne = new double[l];
         gl = new double[k1 * l];
-        penRows = new io.densa.core.internal.Kernels.RowSums(pen, k1 - 1).rows();
-        priorRows = prior == null ? null : new io.densa.core.internal.Kernels.RowSums(prior, k1 - 1).rows();
+        penRows = io.densa.core.internal.Kernels.rowSupport(pen, k1 - 1);
+        priorRows = prior == null ? null : io.densa.core.internal.Kernels.rowSupport(prior, k1 - 1);
     }
 
     /** Fits units from..to−1 with the engines' {@link PenalizedNewton#solve} settings. */
@@ -411,7 +413,7 @@ final class NewtonLanes {
         waiting[waitingCount] = e;
         waitingUnit[waitingCount] = unit[l];
         waitingLambda[waitingCount] = lam[l];
-        waitingFound[waitingCount] = search != null ? found[l] : new double[] {Double.NaN, Double.NaN};
+        waitingFound[waitingCount] = search != null ? found[l] : NO_SEARCH;
         waitingConverged[waitingCount++] = e.converged();
         if (waitingCount == lanes) {
             finishWaiting();

@@ -311,7 +311,7 @@ public final class Kernels {
      * (|i − j| &lt; order), whose products can then skip the zeros with the sums of the full loops
      * (a zero term adds nothing).
      */
-    static int[] rowSupport(double[] m, int k) {
+    public static int[] rowSupport(double[] m, int k) {
         int[] r = new int[2 * k];
         for (int i = 0; i < k; i++) {
             int lo = 0, hi = k;
@@ -348,11 +348,6 @@ public final class Kernels {
             this.rows = rowSupport(m, k);
             sums = new double[k];
             at = new double[k];
-        }
-
-        /** Row i's nonzero columns: from {@code rows()[2i]} to before {@code rows()[2i + 1]} (not a copy). */
-        public int[] rows() {
-            return rows;
         }
 
         /**
