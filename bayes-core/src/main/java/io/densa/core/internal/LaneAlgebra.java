@@ -175,19 +175,33 @@ final class LaneAlgebra {
     static void covarianceFinish(int n, double[] linv, double[] meat, double[] u, double[] t1, double[] wm,
             double[] m, double[] t2, double[] cov) {
         whitenLeft(n, meat, linv, t1);
-        // w_ij = Σ_{p ≤ j} t1_ip linv_jp, symmetric
-        for (int i = 0; i < n; i++) {
-            for (int c = 0; c <= i; c++) {
+        // w_ic = Σ_{p ≤ c} t1_ip linv_cp for c ≤ i, symmetric: four rows at a time share linv_cp
+        for (int c = 0; c < n; c++) {
+            int i = c;
+            for (; i + 3 < n; i += 4) {
+                DoubleVector s0 = DoubleVector.zero(S), s1 = s0, s2 = s0, s3 = s0;
+                for (int p = 0; p <= c; p++) {
+                    DoubleVector b = DoubleVector.fromArray(S, linv, (c * n + p) * L);
+                    s0 = s0.add(DoubleVector.fromArray(S, t1, (i * n + p) * L).mul(b));
+                    s1 = s1.add(DoubleVector.fromArray(S, t1, ((i + 1) * n + p) * L).mul(b));
+                    s2 = s2.add(DoubleVector.fromArray(S, t1, ((i + 2) * n + p) * L).mul(b));
+                    s3 = s3.add(DoubleVector.fromArray(S, t1, ((i + 3) * n + p) * L).mul(b));
+                }
+                storeSymmetric(wm, n, i, c, s0);
+                storeSymmetric(wm, n, i + 1, c, s1);
+                storeSymmetric(wm, n, i + 2, c, s2);
+                storeSymmetric(wm, n, i + 3, c, s3);
+            }
+            for (; i < n; i++) {
                 DoubleVector s = DoubleVector.zero(S);
                 for (int p = 0; p <= c; p++) {
                     s = s.add(DoubleVector.fromArray(S, t1, (i * n + p) * L)
                             .mul(DoubleVector.fromArray(S, linv, (c * n + p) * L)));
                 }
-                s.intoArray(wm, (i * n + c) * L);
-                s.intoArray(wm, (c * n + i) * L);
+                storeSymmetric(wm, n, i, c, s);
             }
         }
-        // m = U L⁻ᵀ (upper): m_ij = Σ_{i ≤ p ≤ j} u_ip linv_jp
+        // m = U L⁻ᵀ (upper): m_ic = Σ_{i ≤ p ≤ c} u_ip linv_cp
         Arrays.fill(m, 0, n * n * L, 0.0);
         for (int i = 0; i < n; i++) {
             for (int c = i; c < n; c++) {
@@ -198,9 +212,26 @@ final class LaneAlgebra {
                 s.intoArray(m, (i * n + c) * L);
             }
         }
-        // t2 = m W: t2_ij = Σ_{p ≥ i} m_ip w_pj
+        // t2 = m W: t2_ic = Σ_{p ≥ i} m_ip w_pc, four columns at a time share m_ip
         for (int i = 0; i < n; i++) {
-            for (int c = 0; c < n; c++) {
+            int c = 0;
+            for (; c + 3 < n; c += 4) {
+                DoubleVector s0 = DoubleVector.zero(S), s1 = s0, s2 = s0, s3 = s0;
+                for (int p = i; p < n; p++) {
+                    DoubleVector a = DoubleVector.fromArray(S, m, (i * n + p) * L);
+                    int o = (p * n + c) * L;
+                    s0 = s0.add(a.mul(DoubleVector.fromArray(S, wm, o)));
+                    s1 = s1.add(a.mul(DoubleVector.fromArray(S, wm, o + L)));
+                    s2 = s2.add(a.mul(DoubleVector.fromArray(S, wm, o + 2 * L)));
+                    s3 = s3.add(a.mul(DoubleVector.fromArray(S, wm, o + 3 * L)));
+                }
+                int o = (i * n + c) * L;
+                s0.intoArray(t2, o);
+                s1.intoArray(t2, o + L);
+                s2.intoArray(t2, o + 2 * L);
+                s3.intoArray(t2, o + 3 * L);
+            }
+            for (; c < n; c++) {
                 DoubleVector s = DoubleVector.zero(S);
                 for (int p = i; p < n; p++) {
                     s = s.add(DoubleVector.fromArray(S, m, (i * n + p) * L)
@@ -209,24 +240,61 @@ final class LaneAlgebra {
                 s.intoArray(t2, (i * n + c) * L);
             }
         }
-        // cov = t2 mᵀ: cov_ij = Σ_{p ≥ j} t2_ip m_jp, symmetric
-        for (int i = 0; i < n; i++) {
-            for (int c = 0; c <= i; c++) {
+        // cov = t2 mᵀ: cov_ic = Σ_{p ≥ c} t2_ip m_cp for c ≤ i, symmetric: four rows at a time share m_cp
+        for (int c = 0; c < n; c++) {
+            int i = c;
+            for (; i + 3 < n; i += 4) {
+                DoubleVector s0 = DoubleVector.zero(S), s1 = s0, s2 = s0, s3 = s0;
+                for (int p = c; p < n; p++) {
+                    DoubleVector b = DoubleVector.fromArray(S, m, (c * n + p) * L);
+                    s0 = s0.add(DoubleVector.fromArray(S, t2, (i * n + p) * L).mul(b));
+                    s1 = s1.add(DoubleVector.fromArray(S, t2, ((i + 1) * n + p) * L).mul(b));
+                    s2 = s2.add(DoubleVector.fromArray(S, t2, ((i + 2) * n + p) * L).mul(b));
+                    s3 = s3.add(DoubleVector.fromArray(S, t2, ((i + 3) * n + p) * L).mul(b));
+                }
+                storeSymmetric(cov, n, i, c, s0);
+                storeSymmetric(cov, n, i + 1, c, s1);
+                storeSymmetric(cov, n, i + 2, c, s2);
+                storeSymmetric(cov, n, i + 3, c, s3);
+            }
+            for (; i < n; i++) {
                 DoubleVector s = DoubleVector.zero(S);
                 for (int p = c; p < n; p++) {
                     s = s.add(DoubleVector.fromArray(S, t2, (i * n + p) * L)
                             .mul(DoubleVector.fromArray(S, m, (c * n + p) * L)));
                 }
-                s.intoArray(cov, (i * n + c) * L);
-                s.intoArray(cov, (c * n + i) * L);
+                storeSymmetric(cov, n, i, c, s);
             }
         }
     }
 
-    /** t1 = L⁻¹ a: t1_ij = Σ_{p ≤ i} linv_ip a_pj (NewtonCovariance.whitenLeft). */
+    /** v into entries (i, c) and (c, i) of the lanes' n × n matrices a. */
+    private static void storeSymmetric(double[] a, int n, int i, int c, DoubleVector v) {
+        v.intoArray(a, (i * n + c) * L);
+        v.intoArray(a, (c * n + i) * L);
+    }
+
+    /** t1 = L⁻¹ a: t1_ic = Σ_{p ≤ i} linv_ip a_pc (NewtonCovariance.whitenLeft), four columns at a time share linv_ip. */
     private static void whitenLeft(int n, double[] a, double[] linv, double[] t1) {
         for (int i = 0; i < n; i++) {
-            for (int c = 0; c < n; c++) {
+            int c = 0;
+            for (; c + 3 < n; c += 4) {
+                DoubleVector s0 = DoubleVector.zero(S), s1 = s0, s2 = s0, s3 = s0;
+                for (int p = 0; p <= i; p++) {
+                    DoubleVector b = DoubleVector.fromArray(S, linv, (i * n + p) * L);
+                    int o = (p * n + c) * L;
+                    s0 = s0.add(b.mul(DoubleVector.fromArray(S, a, o)));
+                    s1 = s1.add(b.mul(DoubleVector.fromArray(S, a, o + L)));
+                    s2 = s2.add(b.mul(DoubleVector.fromArray(S, a, o + 2 * L)));
+                    s3 = s3.add(b.mul(DoubleVector.fromArray(S, a, o + 3 * L)));
+                }
+                int o = (i * n + c) * L;
+                s0.intoArray(t1, o);
+                s1.intoArray(t1, o + L);
+                s2.intoArray(t1, o + 2 * L);
+                s3.intoArray(t1, o + 3 * L);
+            }
+            for (; c < n; c++) {
                 DoubleVector s = DoubleVector.zero(S);
                 for (int p = 0; p <= i; p++) {
                     s = s.add(DoubleVector.fromArray(S, linv, (i * n + p) * L)
