@@ -337,15 +337,14 @@ final class BinLayout {
         double h00 = 0, h10 = 0, h11 = 0, h20 = 0, h21 = 0, h22 = 0, h30 = 0, h31 = 0, h32 = 0, h33 = 0;
         for (int j = 0; j < bins; j++) {
             double nj = counts[j];
-            if (!(nj > 0)) {
-                continue;
-            }
             int lo = binLo[j], hi = Math.min(binHi[j], k);
             int q0 = start[j], q1 = start[j + 1];
             if (oneSpan[j] && lo + 4 <= k) {
                 // a bin inside one knot span: the loops below with its four moments and the span's
                 // sums in registers (the ten-term block repeats the derivative pass's on purpose: a
-                // shared helper would have to return the ten sums through memory)
+                // shared helper would have to return the ten sums through memory). The sums are
+                // added where the layout's span changes, occupied bin or not (adding a span without
+                // events adds zeros), so that the lanes (UnitLanes#empiricalInformation) add in this order
                 if (lo != fcur) {
                     if (fcur >= 0) {
                         addSpan(meat, mvec, k, fcur, s0, s1, s2, s3, h00, h10, h11, h20, h21, h22, h30, h31, h32, h33);
@@ -353,6 +352,9 @@ final class BinLayout {
                     fcur = lo;
                     s0 = s1 = s2 = s3 = 0;
                     h00 = h10 = h11 = h20 = h21 = h22 = h30 = h31 = h32 = h33 = 0;
+                }
+                if (!(nj > 0)) {
+                    continue;
                 }
                 double u0 = 0.0, u1 = 0.0, u2 = 0.0, u3 = 0.0;
                 for (int q = q0; q < q1; q++) {
@@ -383,6 +385,9 @@ final class BinLayout {
                 h31 = Math.fma(c3, u1, h31);
                 h32 = Math.fma(c3, u2, h32);
                 h33 = Math.fma(c3, u3, h33);
+                continue;
+            }
+            if (!(nj > 0)) {
                 continue;
             }
             Arrays.fill(uj, lo, hi, 0.0);

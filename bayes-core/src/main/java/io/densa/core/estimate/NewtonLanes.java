@@ -96,8 +96,9 @@ final class NewtonLanes {
     private final double[] pen, prior, u;
     private final double[] jm, fm, linv, t1, edf, meat, wm, mm, t2, cov;
     private final int[] covFailed;
+    private final boolean[] robust;
     /** The expected-information pass of the waiting engines, one per lane. */
-    private final double[] fEx, fMass, fTotals, fZ, fHess, fMvec, fUj;
+    private final double[] fEx, fMass, fCounts, fTotals, fZ, fHess, fMvec, fUj;
     private final int[] unit;
     private final int[] need;
     private final double[] beta, counts, totals, zs, eta, ex, mass, res, grad, hess, mvec, uj, factor, steps;
@@ -154,8 +155,10 @@ final class NewtonLanes {
         cov = new double[kk];
         edf = new double[l];
         covFailed = new int[l];
+        robust = new boolean[l];
         fEx = new double[lay.nodes() * l];
         fMass = new double[lay.bins() * l];
+        fCounts = new double[lay.bins() * l];
         fTotals = new double[l];
         fZ = new double[l];
         fHess = new double[k1 * k1 * l];
@@ -458,21 +461,33 @@ final class NewtonLanes {
             }
         }
         kern.covarianceStart(n, jm, fm, linv, t1, edf, covFailed);
-        double[] own = new double[n * n];
+        boolean anyRobust = false;
+        for (int s = 0; s < w; s++) {
+            robust[s] = covFailed[s] < 0 && waiting[s].total() > edf[s] + 1; // as NewtonCovariance.sandwich
+            anyRobust |= robust[s];
+        }
+        if (anyRobust) { // the robust meat of every lane, then scaled or replaced by F lane by lane
+            for (int s = 0; s < w; s++) {
+                double[] c = waiting[s].objective().counts();
+                for (int j = 0; j < c.length; j++) {
+                    fCounts[j * lanes + s] = c[j];
+                }
+            }
+            kern.empiricalInformation(lay, fCounts, fTotals, fEx, fMass, fMvec, fUj, meat);
+        }
         for (int s = 0; s < w; s++) {
             PenalizedNewton e = waiting[s];
-            double total = e.total();
-            double[] m = e.objective().fisher();
-            if (covFailed[s] < 0 && total > edf[s] + 1) { // the robust meat, as NewtonCovariance.sandwich
-                e.objective().empiricalInformation(own);
+            if (robust[s]) {
+                double total = e.total();
                 double f = total / (total - edf[s]);
                 for (int i = 0; i < n * n; i++) {
-                    own[i] *= f;
+                    meat[i * lanes + s] *= f;
                 }
-                m = own;
-            }
-            for (int i = 0; i < n * n; i++) {
-                meat[i * lanes + s] = m[i];
+            } else {
+                double[] m = e.objective().fisher();
+                for (int i = 0; i < n * n; i++) {
+                    meat[i * lanes + s] = m[i];
+                }
             }
         }
         kern.covarianceFinish(n, linv, meat, u, t1, wm, mm, t2, cov);

@@ -187,10 +187,14 @@ final class LaneAlgebra {
                     s2 = s2.add(DoubleVector.fromArray(S, t1, ((i + 2) * n + p) * L).mul(b));
                     s3 = s3.add(DoubleVector.fromArray(S, t1, ((i + 3) * n + p) * L).mul(b));
                 }
-                storeSymmetric(wm, n, i, c, s0);
-                storeSymmetric(wm, n, i + 1, c, s1);
-                storeSymmetric(wm, n, i + 2, c, s2);
-                storeSymmetric(wm, n, i + 3, c, s3);
+                s0.intoArray(wm, (i * n + c) * L);
+                s0.intoArray(wm, (c * n + i) * L);
+                s1.intoArray(wm, ((i + 1) * n + c) * L);
+                s1.intoArray(wm, (c * n + i + 1) * L);
+                s2.intoArray(wm, ((i + 2) * n + c) * L);
+                s2.intoArray(wm, (c * n + i + 2) * L);
+                s3.intoArray(wm, ((i + 3) * n + c) * L);
+                s3.intoArray(wm, (c * n + i + 3) * L);
             }
             for (; i < n; i++) {
                 DoubleVector s = DoubleVector.zero(S);
@@ -198,7 +202,8 @@ final class LaneAlgebra {
                     s = s.add(DoubleVector.fromArray(S, t1, (i * n + p) * L)
                             .mul(DoubleVector.fromArray(S, linv, (c * n + p) * L)));
                 }
-                storeSymmetric(wm, n, i, c, s);
+                s.intoArray(wm, (i * n + c) * L);
+                s.intoArray(wm, (c * n + i) * L);
             }
         }
         // m = U L⁻ᵀ (upper): m_ic = Σ_{i ≤ p ≤ c} u_ip linv_cp
@@ -252,10 +257,14 @@ final class LaneAlgebra {
                     s2 = s2.add(DoubleVector.fromArray(S, t2, ((i + 2) * n + p) * L).mul(b));
                     s3 = s3.add(DoubleVector.fromArray(S, t2, ((i + 3) * n + p) * L).mul(b));
                 }
-                storeSymmetric(cov, n, i, c, s0);
-                storeSymmetric(cov, n, i + 1, c, s1);
-                storeSymmetric(cov, n, i + 2, c, s2);
-                storeSymmetric(cov, n, i + 3, c, s3);
+                s0.intoArray(cov, (i * n + c) * L);
+                s0.intoArray(cov, (c * n + i) * L);
+                s1.intoArray(cov, ((i + 1) * n + c) * L);
+                s1.intoArray(cov, (c * n + i + 1) * L);
+                s2.intoArray(cov, ((i + 2) * n + c) * L);
+                s2.intoArray(cov, (c * n + i + 2) * L);
+                s3.intoArray(cov, ((i + 3) * n + c) * L);
+                s3.intoArray(cov, (c * n + i + 3) * L);
             }
             for (; i < n; i++) {
                 DoubleVector s = DoubleVector.zero(S);
@@ -263,15 +272,10 @@ final class LaneAlgebra {
                     s = s.add(DoubleVector.fromArray(S, t2, (i * n + p) * L)
                             .mul(DoubleVector.fromArray(S, m, (c * n + p) * L)));
                 }
-                storeSymmetric(cov, n, i, c, s);
+                s.intoArray(cov, (i * n + c) * L);
+                s.intoArray(cov, (c * n + i) * L);
             }
         }
-    }
-
-    /** v into entries (i, c) and (c, i) of the lanes' n × n matrices a. */
-    private static void storeSymmetric(double[] a, int n, int i, int c, DoubleVector v) {
-        v.intoArray(a, (i * n + c) * L);
-        v.intoArray(a, (c * n + i) * L);
     }
 
     /** t1 = L⁻¹ a: t1_ic = Σ_{p ≤ i} linv_ip a_pc (NewtonCovariance.whitenLeft), four columns at a time share linv_ip. */

@@ -84,6 +84,19 @@ public abstract class UnitLanes {
             double[] hess, double[] mvec, double[] uj);
 
     /**
+     * The empirical (model-robust) information of every lane's counts at its last evaluation, as
+     * the one-unit {@code BinLayout.empiricalInformation} with the same operations in the same
+     * order: M = Σ_j n_j m_j m_jᵀ − t tᵀ/N over the occupied bins (m_j the bin's mean of the raw
+     * functions, t = Σ_j n_j m_j), K × K per lane (K = k1 − 1), both triangles.
+     *
+     * @param mvec scratch, k1 per lane
+     * @param uj   scratch, k1 per lane
+     * @param meat out: K × K per lane
+     */
+    public abstract void empiricalInformation(Layout lay, double[] counts, double[] totals, double[] ex,
+            double[] mass, double[] mvec, double[] uj, double[] meat);
+
+    /**
      * The rest of the penalised derivatives after the observed-information node pass (as the
      * one-unit objective's {@code finishDerivatives} for counts, per lane with the same operations
      * in the same order): the Newton matrix's lower triangle (the pass's band, zero outside it,
