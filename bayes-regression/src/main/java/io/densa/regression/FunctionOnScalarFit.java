@@ -6,7 +6,7 @@ import io.densa.core.DensitySet;
 import io.densa.core.ProgressListener;
 import io.densa.core.TestResult;
 import io.densa.core.SolveDiagnostics;
-import io.densa.core.internal.SampleQuantiles;
+import io.densa.core.internal.Sorted;
 import io.densa.core.internal.Seeds;
 import java.util.ArrayList;
 import java.util.Arrays;

@@ -2,7 +2,7 @@ package io.densa.regression;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.ProgressListener;
-import io.densa.core.internal.SampleQuantiles;
+import io.densa.core.internal.Sorted;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -119,8 +119,8 @@ final class ResidualBootstrap {
                 double mean = s / replicates;
                 sd[q] = Math.sqrt(Math.max(0, (s2 - replicates * mean * mean) / (replicates - 1)));
                 Arrays.sort(col);
-                pl[q] = e[q] - f * SampleQuantiles.sorted(col, 1 - alpha / 2);
-                pu[q] = e[q] - f * SampleQuantiles.sorted(col, alpha / 2);
+                pl[q] = e[q] - f * Sorted.quantile(col, 1 - alpha / 2);
+                pu[q] = e[q] - f * Sorted.quantile(col, alpha / 2);
             }
             double[] maxDev = new double[replicates];
             for (int b = 0; b < replicates; b++) {
@@ -133,7 +133,7 @@ final class ResidualBootstrap {
                 maxDev[b] = mx;
             }
             Arrays.sort(maxDev);
-            double c = SampleQuantiles.sorted(maxDev, level);
+            double c = Sorted.quantile(maxDev, level);
             double[] sl = new double[m];
             double[] su = new double[m];
             for (int q = 0; q < m; q++) {

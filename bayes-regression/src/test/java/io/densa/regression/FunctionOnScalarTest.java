@@ -6,7 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
-import io.densa.core.internal.SampleQuantiles;
+import io.densa.core.internal.Sorted;
 import java.util.List;
 import java.util.Random;
 import org.apache.commons.math3.stat.regression.OLSMultipleLinearRegression;
@@ -378,9 +378,9 @@ class FunctionOnScalarTest {
                 java.util.Arrays.sort(d);
                 double scale = 1e-9 * (1 + Math.abs(band.estimate()[q]));
                 assertEquals(Math.sqrt(ss / (reps - 1)), band.standardError()[q], scale);
-                assertEquals(band.estimate()[q] - SampleQuantiles.sorted(d, 1 - (1 - level) / 2),
+                assertEquals(band.estimate()[q] - Sorted.quantile(d, 1 - (1 - level) / 2),
                         band.pointwiseLower()[q], scale);
-                assertEquals(band.estimate()[q] - SampleQuantiles.sorted(d, (1 - level) / 2),
+                assertEquals(band.estimate()[q] - Sorted.quantile(d, (1 - level) / 2),
                         band.pointwiseUpper()[q], scale);
             }
         }

@@ -5,7 +5,7 @@ import io.densa.core.BenjaminiHochberg;
 import io.densa.core.DensitySet;
 import io.densa.core.TestResult;
 import io.densa.core.internal.Kernels;
-import io.densa.core.internal.SampleQuantiles;
+import io.densa.core.internal.Sorted;
 import io.densa.core.internal.Seeds;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -151,8 +151,8 @@ public final class AnomalyScoring {
                 col[i] = clr.data[i * m + q];
             }
             Arrays.sort(col);
-            lo[q] = SampleQuantiles.sorted(col, (1 - bandLevel) / 2);
-            hi[q] = SampleQuantiles.sorted(col, (1 + bandLevel) / 2);
+            lo[q] = Sorted.quantile(col, (1 - bandLevel) / 2);
+            hi[q] = Sorted.quantile(col, (1 + bandLevel) / 2);
         }
         return new Calibrated(this, calibrationResiduals.space(), norms, g, lo, hi);
     }

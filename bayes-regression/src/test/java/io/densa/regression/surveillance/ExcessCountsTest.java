@@ -406,7 +406,7 @@ class ExcessCountsTest {
                 double[] sorted = x.clone();
                 java.util.Arrays.sort(sorted);
                 for (double p : new double[] {0, 0.05, 0.5, 0.95, 1}) {
-                    assertEquals(io.densa.core.internal.SampleQuantiles.sorted(sorted, p),
+                    assertEquals(io.densa.core.internal.Sorted.quantile(sorted, p),
                             BootstrapPlan.quantile(x.clone(), p), 0.0, "len " + len + " p " + p);
                 }
             }
