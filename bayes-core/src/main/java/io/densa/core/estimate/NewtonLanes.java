@@ -98,7 +98,7 @@ final class NewtonLanes {
     private final int[] covFailed;
     private final boolean[] robust;
     /** The expected-information pass of the waiting engines, one per lane. */
-    private final double[] fEx, fMass, fCounts, fTotals, fZ, fHess, fMvec, fUj;
+    private final double[] fEx, fMass, fCounts, fTotals, fTwoLambda, fZ, fHess, fMvec, fUj, meatScale;
     private final int[] unit;
     private final int[] need;
     private final double[] beta, counts, totals, zs, eta, ex, mass, res, grad, hess, mvec, uj, factor, steps;
@@ -160,6 +160,8 @@ final class NewtonLanes {
         fMass = new double[lay.bins() * l];
         fCounts = new double[lay.bins() * l];
         fTotals = new double[l];
+        fTwoLambda = new double[l];
+        meatScale = new double[l];
         fZ = new double[l];
         fHess = new double[k1 * k1 * l];
         fMvec = new double[k1 * l];
@@ -450,16 +452,11 @@ final class NewtonLanes {
         }
         kern.expectedInformation(lay, fTotals, fEx, fMass, fZ, fHess, fMvec, fUj);
         for (int s = 0; s < w; s++) {
-            PenalizedObjective lik = waiting[s].objective();
-            copyDerivatives(s, lik, null, fHess, fMvec);
-            lik.finishDerivatives(0.0, false, null); // the rest of PenalizedObjective.fisherInformation
-            lik.fisherFromPass();
-            double[] f = lik.fisher();
-            NewtonCovariance.information(f, waitingLambda[s], pen, prior, null, n, jm, s, lanes);
-            for (int i = 0; i < n * n; i++) {
-                fm[i * lanes + s] = f[i];
-            }
+            fTwoLambda[s] = 2 * waitingLambda[s];
         }
+        // F and J = F + 2λP (+ 2Q) in the lanes (the rest of PenalizedObjective.fisherInformation, then
+        // NewtonCovariance.information); the engines' own arrays are not needed for them
+        kern.fisherInformation(k1, bandLo, fHess, fMvec, fTotals, fZ, fTwoLambda, pen, prior, fm, jm);
         kern.covarianceStart(n, jm, fm, linv, t1, edf, covFailed);
         boolean anyRobust = false;
         for (int s = 0; s < w; s++) {
@@ -475,21 +472,11 @@ final class NewtonLanes {
             }
             kern.empiricalInformation(lay, fCounts, fTotals, fEx, fMass, fMvec, fUj, meat);
         }
-        for (int s = 0; s < w; s++) {
-            PenalizedNewton e = waiting[s];
-            if (robust[s]) {
-                double total = e.total();
-                double f = total / (total - edf[s]);
-                for (int i = 0; i < n * n; i++) {
-                    meat[i * lanes + s] *= f;
-                }
-            } else {
-                double[] m = e.objective().fisher();
-                for (int i = 0; i < n * n; i++) {
-                    meat[i * lanes + s] = m[i];
-                }
-            }
+        for (int s = 0; s < lanes; s++) {
+            double total = s < w ? waiting[s].total() : 0.0;
+            meatScale[s] = s < w && robust[s] ? total / (total - edf[s]) : Double.NaN;
         }
+        kern.meat(n, meat, fm, meatScale);
         kern.covarianceFinish(n, linv, meat, u, t1, wm, mm, t2, cov);
         for (int s = 0; s < w; s++) {
             double[] c = null;

@@ -83,6 +83,39 @@ final class LaneAlgebra {
         }
     }
 
+    /** See {@link UnitLanes#fisherInformation}. */
+    static void fisherInformation(int k1, int[] bandLo, double[] hess, double[] mvec, double[] totals, double[] zs,
+            double[] twoLambda, double[] pen, double[] prior, double[] fisher, double[] jm) {
+        final int n = k1 - 1;
+        final DoubleVector zero = DoubleVector.zero(S);
+        DoubleVector z = DoubleVector.fromArray(S, zs, 0);
+        DoubleVector c = DoubleVector.fromArray(S, totals, 0).div(z.mul(z));
+        DoubleVector tl = DoubleVector.fromArray(S, twoLambda, 0);
+        for (int i = 0; i < n; i++) {
+            DoubleVector mi = c.mul(DoubleVector.fromArray(S, mvec, i * L));
+            int lo = bandLo[i];
+            for (int l = 0; l <= i; l++) {
+                DoubleVector h = l < lo ? zero : DoubleVector.fromArray(S, hess, (i * k1 + l) * L);
+                DoubleVector f = h.sub(mi.mul(DoubleVector.fromArray(S, mvec, l * L)));
+                int a = i * n + l, b = l * n + i;
+                f.intoArray(fisher, a * L);
+                f.intoArray(fisher, b * L);
+                f.add(tl.mul(pen[a])).add(prior == null ? 0.0 : 2 * prior[a]).add(0.0).intoArray(jm, a * L);
+                f.add(tl.mul(pen[b])).add(prior == null ? 0.0 : 2 * prior[b]).add(0.0).intoArray(jm, b * L);
+            }
+        }
+    }
+
+    /** See {@link UnitLanes#meat}. */
+    static void meat(int n, double[] meat, double[] fisher, double[] scale) {
+        DoubleVector sc = DoubleVector.fromArray(S, scale, 0);
+        VectorMask<Double> robust = sc.test(VectorOperators.IS_FINITE);
+        for (int o = 0; o < n * n * L; o += L) {
+            DoubleVector f = DoubleVector.fromArray(S, fisher, o);
+            f.blend(DoubleVector.fromArray(S, meat, o).mul(sc), robust).intoArray(meat, o);
+        }
+    }
+
     static void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed) {
         Arrays.fill(failed, 0, L, -1);
         double[] pivot = new double[n * L];

@@ -116,6 +116,27 @@ public abstract class UnitLanes {
             double[] twoLambda, double[] factor, double[] rhs);
 
     /**
+     * The Fisher information F and the penalised information J of every lane after the
+     * expected-information node pass, with the operations of the one-unit code in the same order
+     * ({@code PenalizedObjective.finishDerivatives} unpenalised and {@code fisherFromPass} for
+     * counts, then {@code NewtonCovariance.information}): F_ij = h_ij − (c m_i) m_j on the lower
+     * triangle (h zero outside the pass's band), c = N/Z², mirrored; J_ij = ((F_ij + 2λ P_ij) + 2 Q_ij) + 0
+     * (Q's term 0 without a prior). Both n × n per lane, n = k1 − 1.
+     *
+     * @param hess      the pass's band (k1 × k1 per lane), mvec its moments (k1 per lane)
+     * @param twoLambda per lane 2λ
+     * @param pen       the penalty P (n × n, one for all lanes); prior Q likewise, or null
+     */
+    public abstract void fisherInformation(int k1, int[] bandLo, double[] hess, double[] mvec, double[] totals,
+            double[] z, double[] twoLambda, double[] pen, double[] prior, double[] fisher, double[] j);
+
+    /**
+     * The sandwich's meat of every lane: M·scale where scale is finite (the robust meat M, scaled
+     * by N/(N − edf)), else F (n × n per lane; meat overwritten).
+     */
+    public abstract void meat(int n, double[] meat, double[] fisher, double[] scale);
+
+    /**
      * {@link Cholesky#factor} of every lane's matrix (n × n, row stride s, lower triangle read and
      * overwritten), with the same operations in the same order per lane. A lane whose pivot fails
      * gets its column in {@code failed} (−1 where the factor is complete) and a meaningless matrix.

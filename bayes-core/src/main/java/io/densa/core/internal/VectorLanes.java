@@ -384,6 +384,17 @@ final class VectorLanes extends UnitLanes {
     }
 
     @Override
+    public void fisherInformation(int k1, int[] bandLo, double[] hess, double[] mvec, double[] totals, double[] z,
+            double[] twoLambda, double[] pen, double[] prior, double[] fisher, double[] j) {
+        LaneAlgebra.fisherInformation(k1, bandLo, hess, mvec, totals, z, twoLambda, pen, prior, fisher, j);
+    }
+
+    @Override
+    public void meat(int n, double[] meat, double[] fisher, double[] scale) {
+        LaneAlgebra.meat(n, meat, fisher, scale);
+    }
+
+    @Override
     public void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed) {
         LaneAlgebra.cholesky(a, n, s, minRelativePivot, failed);
     }
