@@ -395,8 +395,8 @@ final class PenalizedFit {
     }
 
     /**
-     * A unit's fit after its last Newton iteration at λ: covariance, criterion, diagnostics and
-     * coordinates; with the robust sandwich covariance and its edf when given (else computed here).
+     * A unit's fit after its last Newton iteration at λ: covariance (given with its edf, else computed
+     * here), criterion, diagnostics and coordinates.
      */
     private EstimationDiagnostics finishUnit(PenalizedNewton eng, double lambda, boolean ok, boolean choose,
             CrossValidationFolds cv, double[] found, String id, int index, double[] out, SampleData sample,
@@ -426,6 +426,7 @@ final class PenalizedFit {
                     + "penalised information F + 2 lambda Omega is singular (no reference prior): the data do not"
                     + " determine every coordinate; edf, covariance and criterion are reported with the default"
                     + " reference prior (weight " + PenalizedLikelihoodEstimator.DEFAULT_PRIOR_WEIGHT + ") added";
+            eng.fisherInformation(); // F from the engine's own pass (the lanes leave it in theirs; the same bits)
             edf = eng.sandwich(lambda, u, cov, true, unitPrior);
             if (Double.isNaN(edf)) {
                 throw new DensaException("unit " + id + ": penalised information is singular even with the"

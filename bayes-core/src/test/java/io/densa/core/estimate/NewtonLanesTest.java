@@ -226,6 +226,41 @@ class NewtonLanesTest {
     }
 
     /**
+     * Without the reference prior and with fewer bins than coordinates at λ = 0 the penalised
+     * information is singular: such a unit's edf and covariance are computed again with the default
+     * prior added (from its own Fisher information, not the lanes'). The batch against one call per
+     * unit: the same bits and diagnostics, and at least one unit took that path.
+     */
+    @Test
+    void batchEqualsUnitByUnitWithSingularInformation() {
+        assumeTrue(UnitLanes.active() != null, "the vector path is not active");
+        BayesSpace space = BayesSpace.cubicSplines(0, 365, 21);
+        int bins = 5;
+        double[] edges = new double[bins + 1];
+        for (int j = 0; j <= bins; j++) {
+            edges[j] = 365.0 * j / bins;
+        }
+        double[][] c = coarse(units(19, 31), bins);
+        int[][] counts = new int[c.length][];
+        for (int i = 0; i < c.length; i++) {
+            counts[i] = new int[bins];
+            for (int j = 0; j < bins; j++) {
+                counts[i][j] = (int) c[i][j];
+            }
+            counts[i][2] += 1;
+        }
+        PenalizedLikelihoodEstimator e = PenalizedLikelihoodEstimator.withDefaults(space)
+                .withCriterion(SmoothingCriterion.AIC).withSmoothing(0).withReferencePrior(0).withMaxIterations(5)
+                .withEmptyEnds(PenalizedLikelihoodEstimator.EmptyEnds.COUNTED);
+        assertTrue(assertBatchEqualsUnits(e, edges, counts, "singular information"), "the batch compared");
+        String[] ids = new String[counts.length];
+        java.util.Arrays.setAll(ids, i -> "u" + i);
+        long singular = e.fitAll(edges, counts, ids).diagnostics().stream()
+                .filter(d -> d.reason().contains("reported with the default reference prior")).count();
+        assertTrue(singular > 0, "units on the singular path: " + singular);
+    }
+
+    /**
      * With λ chosen per unit (each unit's search runs its fits in its lane): the batch against one
      * call per unit, for every criterion the lanes carry (cross-validation is fitted unit by unit),
      * with and without the reference prior: the same λ, the same bits, the same diagnostics.
