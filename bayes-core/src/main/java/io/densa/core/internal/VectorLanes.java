@@ -76,16 +76,29 @@ final class VectorLanes extends UnitLanes {
     private static void exponentials(Layout lay, double[] eta, double[] res, double[] ex) {
         final double[] w = lay.weight();
         final DoubleVector max = DoubleVector.fromArray(S, res, L);
-        for (int q = 0; q < lay.nodes(); q++) {
+        final int nodes = lay.nodes();
+        int q = 0;
+        for (; q + 3 < nodes; q += 4) { // four nodes at a time: their exponentials interleaved
+            if (!VectorPath.exp4(eta, q * L, res, L, w, q, ex)) {
+                for (int p = q; p < q + 4; p++) {
+                    outside(p, w, eta, res, ex);
+                }
+            }
+        }
+        for (; q < nodes; q++) {
             DoubleVector v = DoubleVector.fromArray(S, eta, q * L).sub(max);
             VectorPath.exp(v).mul(w[q]).intoArray(ex, q * L);
-            VectorMask<Double> inside = v.abs().compare(VectorOperators.LE, RANGE);
-            if (!inside.allTrue()) {
-                for (int l = 0; l < L; l++) {
-                    if (!inside.laneIsSet(l)) {
-                        ex[q * L + l] = w[q] * Math.exp(1.0 * eta[q * L + l] - res[L + l]);
-                    }
-                }
+            if (!v.abs().compare(VectorOperators.LE, RANGE).allTrue()) {
+                outside(q, w, eta, res, ex);
+            }
+        }
+    }
+
+    /** Node q's lanes whose shifted η lies outside [−708, 708] or is NaN: {@link Math#exp}, as the one-unit pass. */
+    private static void outside(int q, double[] w, double[] eta, double[] res, double[] ex) {
+        for (int l = 0; l < L; l++) {
+            if (!(Math.abs(eta[q * L + l] - res[L + l]) <= RANGE)) {
+                ex[q * L + l] = w[q] * Math.exp(1.0 * eta[q * L + l] - res[L + l]);
             }
         }
     }
