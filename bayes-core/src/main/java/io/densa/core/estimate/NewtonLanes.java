@@ -39,10 +39,11 @@ final class NewtonLanes {
         /**
          * Finishes unit i after its iteration at λ (diagnostics, output) with its robust sandwich
          * covariance and edf, or computes them when cov is null; found holds the search's two
-         * values ({@link SmoothingSearch#choose}; NaN at a fixed λ).
+         * values ({@link SmoothingSearch#choose}; NaN at a fixed λ); definite: cov has a Cholesky
+         * factor ({@link io.densa.core.internal.Cholesky#factor} with no pivot floor), so it is positive definite.
          */
         void finish(int i, PenalizedNewton eng, double lambda, double[] found, boolean converged, double[] cov,
-                double edf);
+                double edf, boolean definite);
     }
 
     private final UnitLanes kern;
@@ -95,7 +96,7 @@ final class NewtonLanes {
     /** The covariance batch's penalty, prior (or null), coordinate map and matrices. */
     private final double[] pen, prior, u;
     private final double[] jm, fm, linv, t1, edf, meat, wm, mm, t2, cov;
-    private final int[] covFailed;
+    private final int[] covFailed, psdFailed;
     private final boolean[] robust;
     /** The expected-information pass of the waiting engines, one per lane. */
     private final double[] fEx, fMass, fCounts, fTotals, fTwoLambda, fZ, fHess, fMvec, fUj, meatScale;
@@ -155,6 +156,7 @@ final class NewtonLanes {
         cov = new double[kk];
         edf = new double[l];
         covFailed = new int[l];
+        psdFailed = new int[l];
         robust = new boolean[l];
         fEx = new double[lay.nodes() * l];
         fMass = new double[lay.bins() * l];
@@ -478,6 +480,8 @@ final class NewtonLanes {
         }
         kern.meat(n, meat, fm, meatScale);
         kern.covarianceFinish(n, linv, meat, u, t1, wm, mm, t2, cov);
+        System.arraycopy(cov, 0, wm, 0, n * n * lanes); // which covariances have a Cholesky factor
+        kern.cholesky(wm, n, n, 0.0, psdFailed);
         for (int s = 0; s < w; s++) {
             double[] c = null;
             if (covFailed[s] < 0) {
@@ -488,7 +492,7 @@ final class NewtonLanes {
             }
             try {
                 units.finish(waitingUnit[s], waiting[s], waitingLambda[s], waitingFound[s], waitingConverged[s], c,
-                        edf[s]);
+                        edf[s], c != null && psdFailed[s] < 0);
             } catch (RuntimeException ex) {
                 if (error == null || waitingUnit[s] < errorUnit) {
                     error = ex;

@@ -247,9 +247,9 @@ final class PenalizedFit {
 
                             @Override
                             public void finish(int i, PenalizedNewton eng, double lambda, double[] found, boolean ok,
-                                    double[] cov, double edf) {
+                                    double[] cov, double edf, boolean definite) {
                                 diag[i] = finishUnit(eng, lambda, ok, choose, null, found, EstimationSupport.id(ids, i),
-                                        i, out, null, cov, edf);
+                                        i, out, null, cov, edf, definite);
                             }
                         });
             } else {
@@ -383,24 +383,19 @@ final class PenalizedFit {
         boolean choose = Double.isNaN(fixedLambda);
         CrossValidationFolds cv = criterion == SmoothingCriterion.CROSS_VALIDATION ? new CrossValidationFolds(eng, sample, folds, seed, index, k,
                 maxIterations, Math.max(tolerance, SmoothingSearch.SEARCH_TOLERANCE)) : null;
-        double lambda;
         double[] found = {Double.NaN, Double.NaN};
-        if (!choose) {
-            lambda = fixedLambda;
-        } else {
-            lambda = search.choose(eng, scale, cv, found);
-        }
+        double lambda = choose ? search.choose(eng, scale, cv, found) : fixedLambda;
         return finishUnit(eng, lambda, eng.solve(lambda, maxIterations, tolerance), choose, cv, found, id, index, out,
-                sample, null, Double.NaN);
+                sample, null, Double.NaN, false);
     }
 
     /**
      * A unit's fit after its last Newton iteration at λ: covariance (given with its edf, else computed
-     * here), criterion, diagnostics and coordinates.
+     * here; definite when given with a Cholesky factor), criterion, diagnostics and coordinates.
      */
     private EstimationDiagnostics finishUnit(PenalizedNewton eng, double lambda, boolean ok, boolean choose,
             CrossValidationFolds cv, double[] found, String id, int index, double[] out, SampleData sample,
-            double[] given, double givenEdf) {
+            double[] given, double givenEdf, boolean definite) {
         String reason = ok ? "" : eng.failure();
         int iterations = eng.iterations();
         double loglik = eng.logLikelihood();
@@ -460,7 +455,9 @@ final class PenalizedFit {
                     + " choice): its uncertainty term is bounded by the plausible range of lambda, %.1f decades",
                     found[0]);
         }
-        NewtonCovariance.projectPsd(cov, k);
+        if (!definite) { // a matrix with a Cholesky factor is left as it is (NewtonCovariance.projectPsd)
+            NewtonCovariance.projectPsd(cov, k);
+        }
         edf = Math.max(0.0, edf); // tr(J⁻¹F) ≥ 0; rounding gives −1e-22 when F vanishes
         eng.coordinatesInto(u, out, index * k);
         for (int i = 0; i < k; i++) {

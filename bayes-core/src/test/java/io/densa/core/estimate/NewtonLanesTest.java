@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assumptions.assumeTrue;
 
 import io.densa.core.BayesSpace;
 import io.densa.core.DensitySet;
+import io.densa.core.internal.Cholesky;
 import io.densa.core.internal.RawBasis;
 import io.densa.core.internal.RoughnessPenalty;
 import io.densa.core.internal.UnitLanes;
@@ -154,8 +155,11 @@ class NewtonLanesTest {
 
             @Override
             public void finish(int i, PenalizedNewton eng, double lam, double[] found, boolean converged, double[] cov,
-                    double edf) {
+                    double edf, boolean definite) {
                 assertEquals(eng.failure() == null, converged, "unit " + i);
+                // definite: the one-unit Cholesky of the covariance succeeds
+                int k = space.dimension();
+                assertEquals(cov != null && Cholesky.factor(cov.clone(), k, k, 0) < 0, definite, "unit " + i);
                 laned[i] = Fit.of(eng, lambda, u, cov, edf);
             }
         });
