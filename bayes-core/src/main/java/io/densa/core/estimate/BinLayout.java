@@ -468,9 +468,7 @@ final class BinLayout {
     static void start(double[] counts, double[] map, double[] constant, int k, double[] logs, double[] beta) {
         int d = logs.length;
         for (int j = 0; j < d; j++) {
-            double n = counts[j];
-            int c = (int) n;
-            logs[j] = c == n && c >= 0 && c < LOG_HALF.length ? LOG_HALF[c] : Math.log(n + 0.5);
+            logs[j] = logHalf(counts[j]);
         }
         // four coefficients at a time, each summed in registers over the bins in order (the same
         // sums as bin by bin into β, without a store and reload per bin)
@@ -498,6 +496,12 @@ final class BinLayout {
             beta[i] = b;
         }
         beta[k] = 0.0;
+    }
+
+    /** log(n + 1/2), the start's transform of a count. */
+    static double logHalf(double n) {
+        int c = (int) n;
+        return c == n && c >= 0 && c < LOG_HALF.length ? LOG_HALF[c] : Math.log(n + 0.5);
     }
 
     /** log(n + 1/2) for the counts n = 0 … 4095 (the same values as computing them each time). */

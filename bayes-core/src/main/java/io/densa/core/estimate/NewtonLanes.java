@@ -31,8 +31,9 @@ final class NewtonLanes {
     /** The unit-by-unit side of a batch: loading a unit into an engine and finishing it. */
     interface Units {
         /**
-         * Loads unit i's counts into row and the engine (useCounts with row) and sets its start;
-         * false when the unit needs no fit (it has been handled).
+         * Loads unit i's counts into row and the engine (useCounts with row); false when the unit
+         * needs no fit (it has been handled). The start is set here, from the engine's start map
+         * in the lanes (as {@link PenalizedNewton#startFromCounts}, the same bits).
          */
         boolean load(int i, PenalizedNewton eng, double[] row);
 
@@ -97,6 +98,11 @@ final class NewtonLanes {
     private final double[] pen, prior, u;
     private final double[] jm, fm, linv, t1, edf, meat, wm, mm, t2, cov;
     private final int[] covFailed, psdFailed;
+    /** Units loaded ahead of the lanes with their starts ({@link #fillQueue}). */
+    private final PenalizedNewton[] queued;
+    private final int[] queuedUnit;
+    private int queuedCount, queuedNext;
+    private final double[] startLogs, startBeta;
     private final boolean[] robust;
     /** The expected-information pass of the waiting engines, one per lane. */
     private final double[] fEx, fMass, fCounts, fTotals, fTwoLambda, fZ, fHess, fMvec, fUj, meatScale;
@@ -157,6 +163,10 @@ final class NewtonLanes {
         edf = new double[l];
         covFailed = new int[l];
         psdFailed = new int[l];
+        queued = new PenalizedNewton[l];
+        queuedUnit = new int[l];
+        startLogs = new double[lay.bins() * l];
+        startBeta = new double[k1 * l];
         robust = new boolean[l];
         fEx = new double[lay.nodes() * l];
         fMass = new double[lay.bins() * l];
@@ -201,6 +211,7 @@ final class NewtonLanes {
         this.maxIter = maxIter;
         this.tol = tol;
         this.units = units;
+        queuedCount = queuedNext = 0;
         boolean[] differentiate = new boolean[lanes], evaluate = new boolean[lanes];
         for (int l = 0; l < lanes; l++) {
             load(l);
@@ -324,27 +335,73 @@ final class NewtonLanes {
     /** Puts the next unit that needs a fit into lane l and begins its first fit (none left: the lane idles). */
     private void load(int l) {
         unit[l] = -1;
-        while (next < to && (error == null || next < errorUnit)) {
-            int i = next++;
-            if (eng[l] == null) {
-                eng[l] = take();
-            }
-            double[] r = rows.get(eng[l]);
-            if (units.load(i, eng[l], r)) {
-                for (int j = 0; j < r.length; j++) {
-                    counts[j * lanes + l] = r[j];
-                }
-                totals[l] = eng[l].total();
-                unit[l] = i;
-                current[l] = false;
-                if (search != null) {
-                    found[l] = new double[2];
-                    plans[l] = search.new Steps(eng[l], scale, found[l]);
-                }
-                begin(l);
+        if (eng[l] != null) {
+            free.add(eng[l]);
+            eng[l] = null;
+        }
+        while (true) {
+            if (queuedNext == queuedCount && !fillQueue()) {
                 return;
             }
+            int i = queuedUnit[queuedNext];
+            PenalizedNewton e = queued[queuedNext];
+            queued[queuedNext++] = null;
+            if (error != null && i > errorUnit) { // loading stops after a failure (see fit)
+                free.add(e);
+                continue;
+            }
+            eng[l] = e;
+            double[] r = rows.get(e);
+            for (int j = 0; j < r.length; j++) {
+                counts[j * lanes + l] = r[j];
+            }
+            totals[l] = e.total();
+            unit[l] = i;
+            current[l] = false;
+            if (search != null) {
+                found[l] = new double[2];
+                plans[l] = search.new Steps(e, scale, found[l]);
+            }
+            begin(l);
+            return;
         }
+    }
+
+    /**
+     * Loads the next units that need a fit, up to one per lane, each into a free engine, and sets
+     * their starts in one pass of the lanes; false when none is left.
+     */
+    private boolean fillQueue() {
+        queuedCount = queuedNext = 0;
+        while (queuedCount < lanes && next < to && (error == null || next < errorUnit)) {
+            int i = next++;
+            PenalizedNewton e = take();
+            double[] r = rows.get(e);
+            if (!units.load(i, e, r)) {
+                free.add(e);
+                continue;
+            }
+            for (int j = 0; j < r.length; j++) {
+                startLogs[j * lanes + queuedCount] = BinLayout.logHalf(r[j]);
+            }
+            queued[queuedCount] = e;
+            queuedUnit[queuedCount++] = i;
+        }
+        if (queuedCount == 0) {
+            return false;
+        }
+        double[] map = queued[0].startMap();
+        if (map != null) {
+            kern.start(map, queued[0].startConstant(), k1 - 1, startLogs, startBeta);
+        }
+        for (int s = 0; s < queuedCount; s++) {
+            if (map != null) {
+                queued[s].setStart(startBeta, s, lanes);
+            } else {
+                queued[s].startFromCounts(); // the zero start
+            }
+        }
+        return true;
     }
 
     /** Lane l's engine begins its next fit: its search's next one, else the final fit at the chosen or fixed λ. */

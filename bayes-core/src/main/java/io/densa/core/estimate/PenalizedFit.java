@@ -240,8 +240,7 @@ final class PenalizedFit {
                                     return false;
                                 }
                                 rows.copy(i, row);
-                                eng.useCounts(row, totals[i]);
-                                eng.startFromCounts();
+                                eng.useCounts(row, totals[i]); // the start: NewtonLanes's, in lanes
                                 return true;
                             }
 

@@ -95,6 +95,24 @@ final class PenalizedNewton {
 
     private double[] startLogs = new double[0]; // log(n_j + 1/2), scratch of startFromCounts
 
+    /** The start map and its constant ({@link #setStartMap}; null for the zero start). */
+    double[] startMap() {
+        return startMap;
+    }
+
+    double[] startConstant() {
+        return startConst;
+    }
+
+    /** Starting coefficients computed elsewhere ({@link NewtonLanes}): lane {@code lane} of x, β_K = 0. */
+    void setStart(double[] x, int lane, int lanes) {
+        resumable = false;
+        for (int i = 0; i < k; i++) {
+            beta[i] = x[i * lanes + lane];
+        }
+        beta[k] = 0.0;
+    }
+
     /**
      * Relative size of a predicted gain Φ'·Δ below which Φ can no longer rank two points (sums of
      * many logarithms carry rounding errors of this order): the full Newton step is then taken

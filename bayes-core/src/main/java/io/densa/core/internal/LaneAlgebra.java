@@ -83,6 +83,36 @@ final class LaneAlgebra {
         }
     }
 
+    /** See {@link UnitLanes#start}: four coefficients at a time, each summed over the bins in order. */
+    static void start(double[] map, double[] constant, int k, double[] logs, double[] beta) {
+        final int d = logs.length / L;
+        int i = 0;
+        for (; i + 3 < k; i += 4) {
+            int o0 = i * d, o1 = o0 + d, o2 = o1 + d, o3 = o2 + d;
+            DoubleVector b0 = DoubleVector.broadcast(S, constant[i]), b1 = DoubleVector.broadcast(S, constant[i + 1]);
+            DoubleVector b2 = DoubleVector.broadcast(S, constant[i + 2]), b3 = DoubleVector.broadcast(S, constant[i + 3]);
+            for (int j = 0; j < d; j++) {
+                DoubleVector lj = DoubleVector.fromArray(S, logs, j * L);
+                b0 = b0.add(lj.mul(map[o0 + j]));
+                b1 = b1.add(lj.mul(map[o1 + j]));
+                b2 = b2.add(lj.mul(map[o2 + j]));
+                b3 = b3.add(lj.mul(map[o3 + j]));
+            }
+            b0.intoArray(beta, i * L);
+            b1.intoArray(beta, (i + 1) * L);
+            b2.intoArray(beta, (i + 2) * L);
+            b3.intoArray(beta, (i + 3) * L);
+        }
+        for (; i < k; i++) {
+            DoubleVector b = DoubleVector.broadcast(S, constant[i]);
+            for (int j = 0, o = i * d; j < d; j++) {
+                b = b.add(DoubleVector.fromArray(S, logs, j * L).mul(map[o + j]));
+            }
+            b.intoArray(beta, i * L);
+        }
+        Arrays.fill(beta, k * L, (k + 1) * L, 0.0);
+    }
+
     /** See {@link UnitLanes#fisherInformation}. */
     static void fisherInformation(int k1, int[] bandLo, double[] hess, double[] mvec, double[] totals, double[] zs,
             double[] twoLambda, double[] pen, double[] prior, double[] fisher, double[] jm) {

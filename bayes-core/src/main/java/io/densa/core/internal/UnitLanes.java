@@ -137,6 +137,17 @@ public abstract class UnitLanes {
     public abstract void meat(int n, double[] meat, double[] fisher, double[] scale);
 
     /**
+     * Starting coefficients of every lane, as the one-unit {@code BinLayout.start} (the same
+     * operations in the same order): β_i = c_i + Σ_j M_ij l_j, summed over the bins in order, and
+     * β_K = 0.
+     *
+     * @param map      M, K × D row-major (one for all lanes); constant c (K values)
+     * @param logs     l_j = log(n_j + 1/2), D per lane
+     * @param beta     out: K + 1 per lane
+     */
+    public abstract void start(double[] map, double[] constant, int k, double[] logs, double[] beta);
+
+    /**
      * {@link Cholesky#factor} of every lane's matrix (n × n, row stride s, lower triangle read and
      * overwritten), with the same operations in the same order per lane. A lane whose pivot fails
      * gets its column in {@code failed} (−1 where the factor is complete) and a meaningless matrix.

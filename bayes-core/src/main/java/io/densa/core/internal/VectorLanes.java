@@ -408,6 +408,11 @@ final class VectorLanes extends UnitLanes {
     }
 
     @Override
+    public void start(double[] map, double[] constant, int k, double[] logs, double[] beta) {
+        LaneAlgebra.start(map, constant, k, logs, beta);
+    }
+
+    @Override
     public void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed) {
         LaneAlgebra.cholesky(a, n, s, minRelativePivot, failed);
     }

@@ -148,8 +148,7 @@ class NewtonLanesTest {
                     return false;
                 }
                 System.arraycopy(counts[i], 0, row, 0, row.length);
-                eng.useCounts(row, totals[i]);
-                eng.startFromCounts();
+                eng.useCounts(row, totals[i]); // the start is the lanes' (the reference: startFromCounts)
                 return true;
             }
 
