@@ -98,6 +98,7 @@ final class NewtonLanes {
     private final double[] pen, prior, u;
     private final double[] jm, fm, linv, t1, edf, meat, wm, mm, t2, cov;
     private final int[] covFailed, psdFailed;
+    private final double[] norms;
     /** Units loaded ahead of the lanes with their starts ({@link #fillQueue}). */
     private final PenalizedNewton[] queued;
     private final int[] queuedUnit;
@@ -163,6 +164,7 @@ final class NewtonLanes {
         edf = new double[l];
         covFailed = new int[l];
         psdFailed = new int[l];
+        norms = new double[2 * l];
         queued = new PenalizedNewton[l];
         queuedUnit = new int[l];
         startLogs = new double[lay.bins() * l];
@@ -259,6 +261,10 @@ final class NewtonLanes {
                 }
                 kern.cholesky(factor, k, k1, pivotFloor, failed);
                 kern.solve(factor, k, k1, steps); // the Newton steps (read only where the factor exists)
+                if (u != null) { // their coordinate norms and the coefficients' (the engines' stopping rule)
+                    kern.coordinateNorm(u, k, steps, norms, 0);
+                    kern.coordinateNorm(u, k, bd, norms, lanes);
+                }
                 for (int l = 0; l < lanes; l++) {
                     if (differentiate[l]) {
                         PenalizedNewton e = eng[l];
@@ -275,7 +281,7 @@ final class NewtonLanes {
                                     g[i] = gl[i * lanes + l];
                                 }
                             }
-                            need[l] = e.factoredWithStep(steps, l, lanes);
+                            need[l] = e.factoredWithStep(steps, l, lanes, u != null ? norms : null);
                         } else {
                             if (inLanes) {
                                 finishOwn(l);

@@ -305,14 +305,25 @@ final class PenalizedNewton {
 
     /**
      * As {@link #differentiated} when hess holds its successful factorisation and the Newton step
-     * (the same bits as {@link Cholesky#solve}) is lane {@code lane} of x, {@code lanes} per entry.
+     * (the same bits as {@link Cholesky#solve}) is lane {@code lane} of x, {@code lanes} per entry;
+     * norms: every lane's ‖UΔ‖∞ (at lane) and ‖Uβ‖∞ (at lanes + lane), or null.
      */
-    int factoredWithStep(double[] x, int lane, int lanes) {
+    int factoredWithStep(double[] x, int lane, int lanes, double[] norms) {
         for (int i = 0; i < k; i++) {
             step[i] = x[i * lanes + lane];
         }
-        return solved();
+        if (norms != null) { // ‖UΔ‖∞ and ‖Uβ‖∞ from the lanes (the same bits as relativeStep's)
+            givenStepNorm = norms[lane];
+            givenBetaNorm = norms[lanes + lane];
+            normsGiven = true;
+        }
+        int next = solved();
+        normsGiven = false;
+        return next;
     }
+
+    private boolean normsGiven;
+    private double givenStepNorm, givenBetaNorm;
 
     /** The step is in {@link #step}: its decrement, then the line search or the end. */
     private int solved() {
@@ -357,6 +368,9 @@ final class PenalizedNewton {
 
     /** ‖UΔ‖∞ / (1 + ‖Uβ‖∞): the size of the Newton step relative to the coordinates. */
     private double relativeStep() {
+        if (normsGiven) {
+            return givenStepNorm / (1 + givenBetaNorm);
+        }
         return EstimationSupport.coordinateNorm(coordinateMap, step, k)
                 / (1 + EstimationSupport.coordinateNorm(coordinateMap, beta, k));
     }

@@ -113,6 +113,19 @@ final class LaneAlgebra {
         Arrays.fill(beta, k * L, (k + 1) * L, 0.0);
     }
 
+    /** See {@link UnitLanes#coordinateNorm}: row by row, each row's sum over its columns in order. */
+    static void coordinateNorm(double[] u, int k, double[] v, double[] out, int o) {
+        DoubleVector m = DoubleVector.zero(S);
+        for (int i = 0; i < k; i++) {
+            DoubleVector s = DoubleVector.zero(S);
+            for (int j = i, r = i * k; j < k; j++) {
+                s = s.add(DoubleVector.fromArray(S, v, j * L).mul(u[r + j]));
+            }
+            m = m.max(s.abs());
+        }
+        m.intoArray(out, o);
+    }
+
     /** See {@link UnitLanes#fisherInformation}. */
     static void fisherInformation(int k1, int[] bandLo, double[] hess, double[] mvec, double[] totals, double[] zs,
             double[] twoLambda, double[] pen, double[] prior, double[] fisher, double[] jm) {

@@ -148,6 +148,13 @@ public abstract class UnitLanes {
     public abstract void start(double[] map, double[] constant, int k, double[] logs, double[] beta);
 
     /**
+     * ‖U v‖∞ of every lane's first K entries of v into out[o + l], with the operations of the
+     * one-unit {@code EstimationSupport.coordinateNorm} in the same order (U: K × K upper
+     * triangular, row-major, one for all lanes).
+     */
+    public abstract void coordinateNorm(double[] u, int k, double[] v, double[] out, int o);
+
+    /**
      * {@link Cholesky#factor} of every lane's matrix (n × n, row stride s, lower triangle read and
      * overwritten), with the same operations in the same order per lane. A lane whose pivot fails
      * gets its column in {@code failed} (−1 where the factor is complete) and a meaningless matrix.

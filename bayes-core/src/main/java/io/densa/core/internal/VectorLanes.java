@@ -413,6 +413,11 @@ final class VectorLanes extends UnitLanes {
     }
 
     @Override
+    public void coordinateNorm(double[] u, int k, double[] v, double[] out, int o) {
+        LaneAlgebra.coordinateNorm(u, k, v, out, o);
+    }
+
+    @Override
     public void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed) {
         LaneAlgebra.cholesky(a, n, s, minRelativePivot, failed);
     }
