@@ -37,8 +37,8 @@ final class CrossValidationFolds {
         testTotal = new double[nf];
         testTotal2 = new double[nf];
         fullTotal = eng.total();
-        fullTotal2 = eng.total2();
-        fullLinear = eng.sampleStatistics();
+        fullTotal2 = eng.objective().total2();
+        fullLinear = eng.objective().sampleStatistics();
         start = new double[k + 1];
         if (eng.hasCounts()) {
             int d = eng.bins().bins;

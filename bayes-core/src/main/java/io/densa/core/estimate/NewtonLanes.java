@@ -281,7 +281,8 @@ final class NewtonLanes {
                                     g[i] = gl[i * lanes + l];
                                 }
                             }
-                            need[l] = e.factoredWithStep(steps, l, lanes, u != null ? norms : null);
+                            double rel = u == null ? Double.NaN : norms[l] / (1 + norms[lanes + l]);
+                            need[l] = e.factoredWithStep(steps, l, lanes, rel); // rel as relativeStep's
                         } else {
                             if (inLanes) {
                                 finishOwn(l);
@@ -396,16 +397,16 @@ final class NewtonLanes {
         if (queuedCount == 0) {
             return false;
         }
-        double[] map = queued[0].startMap();
-        if (map != null) {
-            kern.start(map, queued[0].startConstant(), k1 - 1, startLogs, startBeta);
+        double[][] map = queued[0].startMap();
+        if (map[0] != null) {
+            kern.start(map[0], map[1], k1 - 1, startLogs, startBeta);
         }
+        double[] b = new double[k1 - 1]; // zero without a map
         for (int s = 0; s < queuedCount; s++) {
-            if (map != null) {
-                queued[s].setStart(startBeta, s, lanes);
-            } else {
-                queued[s].startFromCounts(); // the zero start
+            for (int i = 0; i < b.length && map[0] != null; i++) {
+                b[i] = startBeta[i * lanes + s];
             }
+            queued[s].setRawCoefficients(b); // as startFromCounts would (β_K = 0)
         }
         return true;
     }

@@ -95,22 +95,9 @@ final class PenalizedNewton {
 
     private double[] startLogs = new double[0]; // log(n_j + 1/2), scratch of startFromCounts
 
-    /** The start map and its constant ({@link #setStartMap}; null for the zero start). */
-    double[] startMap() {
-        return startMap;
-    }
-
-    double[] startConstant() {
-        return startConst;
-    }
-
-    /** Starting coefficients computed elsewhere ({@link NewtonLanes}): lane {@code lane} of x, β_K = 0. */
-    void setStart(double[] x, int lane, int lanes) {
-        resumable = false;
-        for (int i = 0; i < k; i++) {
-            beta[i] = x[i * lanes + lane];
-        }
-        beta[k] = 0.0;
+    /** The start map and its constant of {@link #setStartMap}, {map, constant} (nulls: the zero start). */
+    double[][] startMap() {
+        return new double[][] {startMap, startConst};
     }
 
     /**
@@ -306,24 +293,19 @@ final class PenalizedNewton {
     /**
      * As {@link #differentiated} when hess holds its successful factorisation and the Newton step
      * (the same bits as {@link Cholesky#solve}) is lane {@code lane} of x, {@code lanes} per entry;
-     * norms: every lane's ‖UΔ‖∞ (at lane) and ‖Uβ‖∞ (at lanes + lane), or null.
+     * relativeStep: ‖UΔ‖∞ / (1 + ‖Uβ‖∞) computed in the lanes (the same bits), or NaN.
      */
-    int factoredWithStep(double[] x, int lane, int lanes, double[] norms) {
+    int factoredWithStep(double[] x, int lane, int lanes, double relativeStep) {
         for (int i = 0; i < k; i++) {
             step[i] = x[i * lanes + lane];
         }
-        if (norms != null) { // ‖UΔ‖∞ and ‖Uβ‖∞ from the lanes (the same bits as relativeStep's)
-            givenStepNorm = norms[lane];
-            givenBetaNorm = norms[lanes + lane];
-            normsGiven = true;
-        }
+        givenStep = relativeStep;
         int next = solved();
-        normsGiven = false;
+        givenStep = Double.NaN;
         return next;
     }
 
-    private boolean normsGiven;
-    private double givenStepNorm, givenBetaNorm;
+    private double givenStep = Double.NaN; // the step's relative size from the lanes, during factoredWithStep
 
     /** The step is in {@link #step}: its decrement, then the line search or the end. */
     private int solved() {
@@ -368,8 +350,8 @@ final class PenalizedNewton {
 
     /** ‖UΔ‖∞ / (1 + ‖Uβ‖∞): the size of the Newton step relative to the coordinates. */
     private double relativeStep() {
-        if (normsGiven) {
-            return givenStepNorm / (1 + givenBetaNorm);
+        if (!Double.isNaN(givenStep)) {
+            return givenStep;
         }
         return EstimationSupport.coordinateNorm(coordinateMap, step, k)
                 / (1 + EstimationSupport.coordinateNorm(coordinateMap, beta, k));
@@ -514,11 +496,6 @@ final class PenalizedNewton {
         lik.restoreData(c, n, n2, lin);
     }
 
-    /** A fresh copy of the sample statistic (K + 1 values). */
-    double[] sampleStatistics() {
-        return lik.sampleStatistics();
-    }
-
     /** The current counts (null in sample mode); the array given to {@link #useCounts}, not to be modified. */
     double[] counts() {
         return lik.counts();
@@ -531,11 +508,6 @@ final class PenalizedNewton {
     /** Total weight N of the current data. */
     double total() {
         return lik.total();
-    }
-
-    /** Σw² of the current data (N for counts). */
-    double total2() {
-        return lik.total2();
     }
 
     /** The bin layout of the unit. */
@@ -603,11 +575,6 @@ final class PenalizedNewton {
     /** β'Pβ at the current β. */
     double penalty() {
         return lik.penalty(beta);
-    }
-
-    /** β'Qβ of the prior at the current β. */
-    double priorPenalty() {
-        return lik.priorPenalty(beta);
     }
 
     /** Log-likelihood at the last evaluated point. */

@@ -494,7 +494,7 @@ final class SmoothingSearch {
                     // proper prior: defined at every λ ≥ 0
                     double lp = logDetPrior(lambda);
                     return Double.isNaN(lp) ? Double.POSITIVE_INFINITY : -2 * loglik + 2 * lambda * eng.penalty()
-                            + 2 * eng.priorPenalty() + ld - lp;
+                            + 2 * eng.objective().priorPenalty(eng.betaView()) + ld - lp;
                 }
                 if (!(lambda > 0)) {
                     return Double.POSITIVE_INFINITY; // improper prior without normalising constant at λ = 0

@@ -19,6 +19,10 @@ final class CovarianceLanes {
     private CovarianceLanes() {
     }
 
+    private static DoubleVector fromAcc(double[] acc, int v) {
+        return DoubleVector.fromArray(S, acc, v * L);
+    }
+
     static void expectedInformation(Layout lay, double[] totals, double[] ex, double[] mass, double[] zs,
             double[] hess, double[] mvec, double[] uj) {
         final int k1 = lay.k1();
@@ -67,10 +71,10 @@ final class CovarianceLanes {
             DoubleVector z, double[] ex, double[] acc) {
         final double[] c0 = lay.column()[0], c1 = lay.column()[1], c2 = lay.column()[2], c3 = lay.column()[3];
         final int[] start = lay.binStart();
-        DoubleVector h00 = VectorLanes.fromAcc(acc, 0), h10 = VectorLanes.fromAcc(acc, 1), h11 = VectorLanes.fromAcc(acc, 2), h20 = VectorLanes.fromAcc(acc, 3);
-        DoubleVector h21 = VectorLanes.fromAcc(acc, 4), h22 = VectorLanes.fromAcc(acc, 5), h30 = VectorLanes.fromAcc(acc, 6), h31 = VectorLanes.fromAcc(acc, 7);
-        DoubleVector h32 = VectorLanes.fromAcc(acc, 8), h33 = VectorLanes.fromAcc(acc, 9), s0 = VectorLanes.fromAcc(acc, 14), s1 = VectorLanes.fromAcc(acc, 15);
-        DoubleVector s2 = VectorLanes.fromAcc(acc, 16), s3 = VectorLanes.fromAcc(acc, 17);
+        DoubleVector h00 = fromAcc(acc, 0), h10 = fromAcc(acc, 1), h11 = fromAcc(acc, 2), h20 = fromAcc(acc, 3);
+        DoubleVector h21 = fromAcc(acc, 4), h22 = fromAcc(acc, 5), h30 = fromAcc(acc, 6), h31 = fromAcc(acc, 7);
+        DoubleVector h32 = fromAcc(acc, 8), h33 = fromAcc(acc, 9), s0 = fromAcc(acc, 14), s1 = fromAcc(acc, 15);
+        DoubleVector s2 = fromAcc(acc, 16), s3 = fromAcc(acc, 17);
         final DoubleVector zero = DoubleVector.zero(S);
         for (int j = j0; j < j1; j++) {
             DoubleVector a = DoubleVector.fromArray(S, mass, j * L);
@@ -208,10 +212,10 @@ final class CovarianceLanes {
             double[] acc) {
         final double[] c0 = lay.column()[0], c1 = lay.column()[1], c2 = lay.column()[2], c3 = lay.column()[3];
         final int[] start = lay.binStart();
-        DoubleVector h00 = VectorLanes.fromAcc(acc, 0), h10 = VectorLanes.fromAcc(acc, 1), h11 = VectorLanes.fromAcc(acc, 2), h20 = VectorLanes.fromAcc(acc, 3);
-        DoubleVector h21 = VectorLanes.fromAcc(acc, 4), h22 = VectorLanes.fromAcc(acc, 5), h30 = VectorLanes.fromAcc(acc, 6), h31 = VectorLanes.fromAcc(acc, 7);
-        DoubleVector h32 = VectorLanes.fromAcc(acc, 8), h33 = VectorLanes.fromAcc(acc, 9), s0 = VectorLanes.fromAcc(acc, 10), s1 = VectorLanes.fromAcc(acc, 11);
-        DoubleVector s2 = VectorLanes.fromAcc(acc, 12), s3 = VectorLanes.fromAcc(acc, 13);
+        DoubleVector h00 = fromAcc(acc, 0), h10 = fromAcc(acc, 1), h11 = fromAcc(acc, 2), h20 = fromAcc(acc, 3);
+        DoubleVector h21 = fromAcc(acc, 4), h22 = fromAcc(acc, 5), h30 = fromAcc(acc, 6), h31 = fromAcc(acc, 7);
+        DoubleVector h32 = fromAcc(acc, 8), h33 = fromAcc(acc, 9), s0 = fromAcc(acc, 10), s1 = fromAcc(acc, 11);
+        DoubleVector s2 = fromAcc(acc, 12), s3 = fromAcc(acc, 13);
         final DoubleVector zero = DoubleVector.zero(S), one = DoubleVector.broadcast(S, 1.0);
         for (int j = j0; j < j1; j++) {
             DoubleVector nj = DoubleVector.fromArray(S, counts, j * L);
@@ -261,7 +265,7 @@ final class CovarianceLanes {
         s3.intoArray(acc, 13 * L);
     }
 
-    /** A bin across knots (or touching the last raw function) for the empirical information, straight into mvec and meat. */
+    /** A bin across knots (or touching the last raw function) for the empirical information, into mvec and meat. */
     private static void empiricalGeneralBin(Layout lay, int j, int k, double[] counts, double[] mass, double[] ex,
             double[] mvec, double[] uj, double[] meat) {
         DoubleVector nj = DoubleVector.fromArray(S, counts, j * L);

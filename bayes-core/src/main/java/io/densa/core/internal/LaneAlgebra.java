@@ -90,7 +90,8 @@ final class LaneAlgebra {
         for (; i + 3 < k; i += 4) {
             int o0 = i * d, o1 = o0 + d, o2 = o1 + d, o3 = o2 + d;
             DoubleVector b0 = DoubleVector.broadcast(S, constant[i]), b1 = DoubleVector.broadcast(S, constant[i + 1]);
-            DoubleVector b2 = DoubleVector.broadcast(S, constant[i + 2]), b3 = DoubleVector.broadcast(S, constant[i + 3]);
+            DoubleVector b2 = DoubleVector.broadcast(S, constant[i + 2]);
+            DoubleVector b3 = DoubleVector.broadcast(S, constant[i + 3]);
             for (int j = 0; j < d; j++) {
                 DoubleVector lj = DoubleVector.fromArray(S, logs, j * L);
                 b0 = b0.add(lj.mul(map[o0 + j]));
@@ -354,7 +355,7 @@ final class LaneAlgebra {
         }
     }
 
-    /** t1 = L⁻¹ a: t1_ic = Σ_{p ≤ i} linv_ip a_pc (NewtonCovariance.whitenLeft), four columns at a time share linv_ip. */
+    /** t1 = L⁻¹ a: t1_ic = Σ_{p ≤ i} linv_ip a_pc (NewtonCovariance.whitenLeft), four columns sharing linv_ip. */
     private static void whitenLeft(int n, double[] a, double[] linv, double[] t1) {
         for (int i = 0; i < n; i++) {
             int c = 0;

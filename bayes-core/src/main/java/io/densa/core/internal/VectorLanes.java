@@ -304,7 +304,7 @@ final class VectorLanes extends UnitLanes {
         s3.intoArray(acc, 17 * L);
     }
 
-    static DoubleVector fromAcc(double[] acc, int v) {
+    private static DoubleVector fromAcc(double[] acc, int v) {
         return DoubleVector.fromArray(S, acc, v * L);
     }
 
