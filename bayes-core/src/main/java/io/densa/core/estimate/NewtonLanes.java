@@ -98,7 +98,7 @@ final class NewtonLanes {
     private final double[] pen, prior, u;
     private final double[] jm, fm, linv, t1, edf, meat, wm, mm, t2, cov;
     private final int[] covFailed, psdFailed;
-    private final double[] norms;
+    private final double[] norms, forms;
     /** Units loaded ahead of the lanes with their starts ({@link #fillQueue}). */
     private final PenalizedNewton[] queued;
     private final int[] queuedUnit;
@@ -165,6 +165,7 @@ final class NewtonLanes {
         covFailed = new int[l];
         psdFailed = new int[l];
         norms = new double[2 * l];
+        forms = new double[2 * l];
         queued = new PenalizedNewton[l];
         queuedUnit = new int[l];
         startLogs = new double[lay.bins() * l];
@@ -318,13 +319,17 @@ final class NewtonLanes {
                 continue;
             }
             kern.evaluate(lay, beta, counts, eta, ex, mass, res);
+            kern.quadraticForm(pen, penRows, k1 - 1, beta, forms, 0); // β'Pβ and β'Qβ of every lane
+            if (prior != null) {
+                kern.quadraticForm(prior, priorRows, k1 - 1, beta, forms, lanes);
+            }
             for (int l = 0; l < lanes; l++) {
                 if (evaluate[l]) {
                     current[l] = false;
                     PenalizedNewton e = eng[l];
                     zs[l] = res[l];
-                    double o = e.objective().accept(res[l], res[lanes + l], res[2 * lanes + l], e.evaluationPoint(),
-                            lam[l]);
+                    double o = e.objective().accept(res[l], res[lanes + l], res[2 * lanes + l], forms[l],
+                            prior == null ? 0.0 : forms[lanes + l], lam[l]);
                     need[l] = e.evaluated(o);
                     finished(l);
                 }
@@ -332,10 +337,19 @@ final class NewtonLanes {
         }
     }
 
-    /** Lane l's penalised derivatives from the node pass by its engine's own code (into its objective). */
+    /** Lane l's node pass (band of hess, mvec, grad) into its objective, then its engine's penalised derivatives. */
     private void finishOwn(int l) {
         PenalizedObjective lik = eng[l].objective();
-        copyDerivatives(l, lik, grad, hess, mvec);
+        double[] g = lik.grad, h = lik.hess, m = lik.mvec;
+        java.util.Arrays.fill(h, 0.0);
+        for (int i = 0; i < k1; i++) {
+            g[i] = grad[i * lanes + l];
+            m[i] = mvec[i * lanes + l];
+            int row = i * k1;
+            for (int c = bandLo[i]; c <= i; c++) {
+                h[row + c] = hess[(row + c) * lanes + l];
+            }
+        }
         lik.finishDerivatives(lam[l], true, eng[l].betaView());
     }
 
@@ -581,17 +595,4 @@ final class NewtonLanes {
         }
     }
 
-    /** Lane l's node pass (band of hess, mvec, and grad unless null) into the objective's arrays. */
-    private void copyDerivatives(int l, PenalizedObjective lik, double[] gradL, double[] hessL, double[] mvecL) {
-        double[] g = lik.grad, h = lik.hess, m = lik.mvec;
-        java.util.Arrays.fill(h, 0.0);
-        for (int i = 0; i < k1; i++) {
-            g[i] = gradL == null ? 0.0 : gradL[i * lanes + l];
-            m[i] = mvecL[i * lanes + l];
-            int row = i * k1;
-            for (int c = bandLo[i]; c <= i; c++) {
-                h[row + c] = hessL[(row + c) * lanes + l];
-            }
-        }
-    }
 }

@@ -103,7 +103,6 @@ final class PenalizedObjective {
         return prior == null ? 0.0 : priorSums.form(b);
     }
 
-
     /** Evaluates Φ at b, filling eta, ex, mass, zScaled, shift and loglik. */
     double evaluate(double[] b, double lambda) {
         final int nq = lay.nodes, w = lay.width;
@@ -181,15 +180,16 @@ final class PenalizedObjective {
             }
             ll = tb - total * (max + Math.log(z));
         }
-        return accept(z, max, ll, b, lambda);
+        return accept(z, max, ll, penalty(b), priorPenalty(b), lambda);
     }
 
     /**
      * Records an evaluation at b (Z and the shift of its exponentials, its log-likelihood ℓ) and
-     * returns Φ(b) at λ. {@link NewtonLanes} calls it with a lane's values after writing the lane's
-     * exponentials and masses into {@link #ex} and {@link #mass}.
+     * returns Φ(b) at λ from b'Pb and b'Qb ({@link #penalty}, {@link #priorPenalty}). {@link NewtonLanes}
+     * calls it with a lane's values after writing the lane's exponentials and masses into
+     * {@link #ex} and {@link #mass}.
      */
-    double accept(double z, double shift, double ll, double[] b, double lambda) {
+    double accept(double z, double shift, double ll, double pen, double priorPen, double lambda) {
         zScaled = z;
         this.shift = shift;
         loglik = ll;
@@ -197,7 +197,7 @@ final class PenalizedObjective {
         if (Double.isNaN(ll)) {
             ll = Double.NEGATIVE_INFINITY;
         }
-        return ll - lambda * penalty(b) - priorPenalty(b);
+        return ll - lambda * pen - priorPen;
     }
 
     /**

@@ -127,6 +127,19 @@ final class LaneAlgebra {
         m.intoArray(out, o);
     }
 
+    /** See {@link UnitLanes#quadraticForm}. */
+    static void quadraticForm(double[] m, int[] rows, int k, double[] b, double[] out, int o) {
+        DoubleVector s = DoubleVector.zero(S);
+        for (int i = 0; i < k; i++) {
+            DoubleVector r = DoubleVector.zero(S);
+            for (int j = rows[2 * i], hi = rows[2 * i + 1], r0 = i * k; j < hi; j++) {
+                r = r.add(DoubleVector.fromArray(S, b, j * L).mul(m[r0 + j]));
+            }
+            s = s.add(DoubleVector.fromArray(S, b, i * L).mul(r));
+        }
+        s.intoArray(out, o);
+    }
+
     /** See {@link UnitLanes#fisherInformation}. */
     static void fisherInformation(int k1, int[] bandLo, double[] hess, double[] mvec, double[] totals, double[] zs,
             double[] twoLambda, double[] pen, double[] prior, double[] fisher, double[] jm) {

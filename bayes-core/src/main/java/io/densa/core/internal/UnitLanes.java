@@ -155,6 +155,12 @@ public abstract class UnitLanes {
     public abstract void coordinateNorm(double[] u, int k, double[] v, double[] out, int o);
 
     /**
+     * b'Mb of every lane's first K coefficients into out[o + l], as {@link Kernels.RowSums#form} (the
+     * same operations in the same order: each row's sum over its columns rows[2i] … rows[2i+1] − 1).
+     */
+    public abstract void quadraticForm(double[] m, int[] rows, int k, double[] b, double[] out, int o);
+
+    /**
      * {@link Cholesky#factor} of every lane's matrix (n × n, row stride s, lower triangle read and
      * overwritten), with the same operations in the same order per lane. A lane whose pivot fails
      * gets its column in {@code failed} (−1 where the factor is complete) and a meaningless matrix.

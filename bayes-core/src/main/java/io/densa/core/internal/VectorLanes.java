@@ -418,6 +418,11 @@ final class VectorLanes extends UnitLanes {
     }
 
     @Override
+    public void quadraticForm(double[] m, int[] rows, int k, double[] b, double[] out, int o) {
+        LaneAlgebra.quadraticForm(m, rows, k, b, out, o);
+    }
+
+    @Override
     public void cholesky(double[] a, int n, int s, double minRelativePivot, int[] failed) {
         LaneAlgebra.cholesky(a, n, s, minRelativePivot, failed);
     }
