@@ -133,20 +133,12 @@ final class NewtonCovariance {
      * into solveA; false when J is not positive definite.
      */
     private boolean factorInformation(double lambda, double[] extra) {
-        information(fisher, lambda, pen, prior, extra, k, solveA, 0, 1);
-        return Cholesky.factor(solveA, k, k, 0) < 0;
-    }
-
-    /**
-     * J = F + 2λP + 2Q + 2E (n × n; prior Q and extra E may be null) into entry i of lane {@code lane}
-     * of out, at {@code i · lanes + lane} ({@link NewtonLanes} fills the lanes the same way).
-     */
-    static void information(double[] fisher, double lambda, double[] pen, double[] prior, double[] extra, int n,
-            double[] out, int lane, int lanes) {
-        for (int i = 0; i < n * n; i++) {
-            out[i * lanes + lane] = fisher[i] + 2 * lambda * pen[i] + (prior == null ? 0.0 : 2 * prior[i])
+        // J = F + 2λP + 2Q + 2E (prior Q and extra E may be null; UnitLanes.fisherInformation the same)
+        for (int i = 0; i < k * k; i++) {
+            solveA[i] = fisher[i] + 2 * lambda * pen[i] + (prior == null ? 0.0 : 2 * prior[i])
                     + (extra == null ? 0.0 : 2 * extra[i]);
         }
+        return Cholesky.factor(solveA, k, k, 0) < 0;
     }
 
     /**

@@ -32,8 +32,8 @@ final class NewtonLanes {
     interface Units {
         /**
          * Loads unit i's counts into row and the engine (useCounts with row); false when the unit
-         * needs no fit (it has been handled). The start is set here, from the engine's start map
-         * in the lanes (as {@link PenalizedNewton#startFromCounts}, the same bits).
+         * needs no fit (it has been handled). NewtonLanes then sets the start, from the engine's
+         * start map in the lanes (as {@link PenalizedNewton#startFromCounts}, the same bits).
          */
         boolean load(int i, PenalizedNewton eng, double[] row);
 
@@ -41,7 +41,8 @@ final class NewtonLanes {
          * Finishes unit i after its iteration at λ (diagnostics, output) with its robust sandwich
          * covariance and edf, or computes them when cov is null; found holds the search's two
          * values ({@link SmoothingSearch#choose}; NaN at a fixed λ); definite: cov has a Cholesky
-         * factor ({@link io.densa.core.internal.Cholesky#factor} with no pivot floor), so it is positive definite.
+         * factor ({@link io.densa.core.internal.Cholesky#factor} with no pivot floor), so it is
+         * positive definite.
          */
         void finish(int i, PenalizedNewton eng, double lambda, double[] found, boolean converged, double[] cov,
                 double edf, boolean definite);
@@ -535,7 +536,7 @@ final class NewtonLanes {
             fTwoLambda[s] = 2 * waitingLambda[s];
         }
         // F and J = F + 2λP (+ 2Q) in the lanes (the rest of PenalizedObjective.fisherInformation, then
-        // NewtonCovariance.information); the engines' own arrays are not needed for them
+        // NewtonCovariance's J); the engines' own arrays are not needed for them
         kern.fisherInformation(k1, bandLo, fHess, fMvec, fTotals, fZ, fTwoLambda, pen, prior, fm, jm);
         kern.covarianceStart(n, jm, fm, linv, t1, edf, covFailed);
         boolean anyRobust = false;

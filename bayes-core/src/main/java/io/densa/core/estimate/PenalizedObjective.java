@@ -447,12 +447,7 @@ final class PenalizedObjective {
      * observed information for samples.
      */
     void fisherInformation() {
-        derivatives(0.0, true, false, null);
-        fisherFromPass();
-    }
-
-    /** F from hess after the unpenalised expected-information pass ({@link NewtonLanes} runs it in lanes). */
-    void fisherFromPass() {
+        derivatives(0.0, true, false, null); // (the lanes: UnitLanes.fisherInformation, the same bits)
         double f = counts == null ? total2 / total : 1.0;
         for (int i = 0; i < k; i++) {
             for (int j = 0; j < k; j++) {

@@ -118,10 +118,10 @@ public abstract class UnitLanes {
     /**
      * The Fisher information F and the penalised information J of every lane after the
      * expected-information node pass, with the operations of the one-unit code in the same order
-     * ({@code PenalizedObjective.finishDerivatives} unpenalised and {@code fisherFromPass} for
-     * counts, then {@code NewtonCovariance.information}): F_ij = h_ij − (c m_i) m_j on the lower
-     * triangle (h zero outside the pass's band), c = N/Z², mirrored; J_ij = ((F_ij + 2λ P_ij) + 2 Q_ij) + 0
-     * (Q's term 0 without a prior). Both n × n per lane, n = k1 − 1.
+     * ({@code PenalizedObjective.fisherInformation} for counts, then {@code NewtonCovariance}'s
+     * J): F_ij = h_ij − (c m_i) m_j on the lower triangle (h zero outside the pass's band), c =
+     * N/Z², mirrored; J_ij = ((F_ij + 2λ P_ij) + 2 Q_ij) + 0 (Q's term 0 without a prior). Both
+     * n × n per lane, n = k1 − 1.
      *
      * @param hess      the pass's band (k1 × k1 per lane), mvec its moments (k1 per lane)
      * @param twoLambda per lane 2λ
