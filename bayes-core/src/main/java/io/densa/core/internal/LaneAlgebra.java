@@ -265,37 +265,7 @@ final class LaneAlgebra {
     static void covarianceFinish(int n, double[] linv, double[] meat, double[] u, double[] t1, double[] wm,
             double[] m, double[] t2, double[] cov) {
         whitenLeft(n, meat, linv, t1);
-        // w_ic = Σ_{p ≤ c} t1_ip linv_cp for c ≤ i, symmetric: four rows at a time share linv_cp
-        for (int c = 0; c < n; c++) {
-            int i = c;
-            for (; i + 3 < n; i += 4) {
-                DoubleVector s0 = DoubleVector.zero(S), s1 = s0, s2 = s0, s3 = s0;
-                for (int p = 0; p <= c; p++) {
-                    DoubleVector b = DoubleVector.fromArray(S, linv, (c * n + p) * L);
-                    s0 = s0.add(DoubleVector.fromArray(S, t1, (i * n + p) * L).mul(b));
-                    s1 = s1.add(DoubleVector.fromArray(S, t1, ((i + 1) * n + p) * L).mul(b));
-                    s2 = s2.add(DoubleVector.fromArray(S, t1, ((i + 2) * n + p) * L).mul(b));
-                    s3 = s3.add(DoubleVector.fromArray(S, t1, ((i + 3) * n + p) * L).mul(b));
-                }
-                s0.intoArray(wm, (i * n + c) * L);
-                s0.intoArray(wm, (c * n + i) * L);
-                s1.intoArray(wm, ((i + 1) * n + c) * L);
-                s1.intoArray(wm, (c * n + i + 1) * L);
-                s2.intoArray(wm, ((i + 2) * n + c) * L);
-                s2.intoArray(wm, (c * n + i + 2) * L);
-                s3.intoArray(wm, ((i + 3) * n + c) * L);
-                s3.intoArray(wm, (c * n + i + 3) * L);
-            }
-            for (; i < n; i++) {
-                DoubleVector s = DoubleVector.zero(S);
-                for (int p = 0; p <= c; p++) {
-                    s = s.add(DoubleVector.fromArray(S, t1, (i * n + p) * L)
-                            .mul(DoubleVector.fromArray(S, linv, (c * n + p) * L)));
-                }
-                s.intoArray(wm, (i * n + c) * L);
-                s.intoArray(wm, (c * n + i) * L);
-            }
-        }
+        symmetricProduct(n, t1, linv, false, wm); // w_ic = Σ_{p ≤ c} t1_ip linv_cp
         // m = U L⁻ᵀ (upper): m_ic = Σ_{i ≤ p ≤ c} u_ip linv_cp
         Arrays.fill(m, 0, n * n * L, 0.0);
         for (int i = 0; i < n; i++) {
@@ -307,94 +277,84 @@ final class LaneAlgebra {
                 s.intoArray(m, (i * n + c) * L);
             }
         }
-        // t2 = m W: t2_ic = Σ_{p ≥ i} m_ip w_pc, four columns at a time share m_ip
-        for (int i = 0; i < n; i++) {
-            int c = 0;
-            for (; c + 3 < n; c += 4) {
-                DoubleVector s0 = DoubleVector.zero(S), s1 = s0, s2 = s0, s3 = s0;
-                for (int p = i; p < n; p++) {
-                    DoubleVector a = DoubleVector.fromArray(S, m, (i * n + p) * L);
-                    int o = (p * n + c) * L;
-                    s0 = s0.add(a.mul(DoubleVector.fromArray(S, wm, o)));
-                    s1 = s1.add(a.mul(DoubleVector.fromArray(S, wm, o + L)));
-                    s2 = s2.add(a.mul(DoubleVector.fromArray(S, wm, o + 2 * L)));
-                    s3 = s3.add(a.mul(DoubleVector.fromArray(S, wm, o + 3 * L)));
-                }
-                int o = (i * n + c) * L;
-                s0.intoArray(t2, o);
-                s1.intoArray(t2, o + L);
-                s2.intoArray(t2, o + 2 * L);
-                s3.intoArray(t2, o + 3 * L);
-            }
-            for (; c < n; c++) {
-                DoubleVector s = DoubleVector.zero(S);
-                for (int p = i; p < n; p++) {
-                    s = s.add(DoubleVector.fromArray(S, m, (i * n + p) * L)
-                            .mul(DoubleVector.fromArray(S, wm, (p * n + c) * L)));
-                }
-                s.intoArray(t2, (i * n + c) * L);
-            }
-        }
-        // cov = t2 mᵀ: cov_ic = Σ_{p ≥ c} t2_ip m_cp for c ≤ i, symmetric: four rows at a time share m_cp
+        rowProduct(n, m, wm, true, t2); // t2 = m W: t2_ic = Σ_{p ≥ i} m_ip w_pc
+        symmetricProduct(n, t2, m, true, cov); // cov = t2 mᵀ: cov_ic = Σ_{p ≥ c} t2_ip m_cp
+    }
+
+    /**
+     * out_ic = out_ci = Σ_p a_ip b_cp for c ≤ i (n × n per lane), each sum over p in increasing order:
+     * p ≤ c, or p ≥ c when fromC; four rows at a time share b_cp.
+     */
+    private static void symmetricProduct(int n, double[] a, double[] b, boolean fromC, double[] out) {
         for (int c = 0; c < n; c++) {
+            int lo = fromC ? c : 0, hi = fromC ? n : c + 1;
             int i = c;
             for (; i + 3 < n; i += 4) {
                 DoubleVector s0 = DoubleVector.zero(S), s1 = s0, s2 = s0, s3 = s0;
-                for (int p = c; p < n; p++) {
-                    DoubleVector b = DoubleVector.fromArray(S, m, (c * n + p) * L);
-                    s0 = s0.add(DoubleVector.fromArray(S, t2, (i * n + p) * L).mul(b));
-                    s1 = s1.add(DoubleVector.fromArray(S, t2, ((i + 1) * n + p) * L).mul(b));
-                    s2 = s2.add(DoubleVector.fromArray(S, t2, ((i + 2) * n + p) * L).mul(b));
-                    s3 = s3.add(DoubleVector.fromArray(S, t2, ((i + 3) * n + p) * L).mul(b));
+                for (int p = lo; p < hi; p++) {
+                    DoubleVector bc = DoubleVector.fromArray(S, b, (c * n + p) * L);
+                    s0 = s0.add(DoubleVector.fromArray(S, a, (i * n + p) * L).mul(bc));
+                    s1 = s1.add(DoubleVector.fromArray(S, a, ((i + 1) * n + p) * L).mul(bc));
+                    s2 = s2.add(DoubleVector.fromArray(S, a, ((i + 2) * n + p) * L).mul(bc));
+                    s3 = s3.add(DoubleVector.fromArray(S, a, ((i + 3) * n + p) * L).mul(bc));
                 }
-                s0.intoArray(cov, (i * n + c) * L);
-                s0.intoArray(cov, (c * n + i) * L);
-                s1.intoArray(cov, ((i + 1) * n + c) * L);
-                s1.intoArray(cov, (c * n + i + 1) * L);
-                s2.intoArray(cov, ((i + 2) * n + c) * L);
-                s2.intoArray(cov, (c * n + i + 2) * L);
-                s3.intoArray(cov, ((i + 3) * n + c) * L);
-                s3.intoArray(cov, (c * n + i + 3) * L);
+                s0.intoArray(out, (i * n + c) * L);
+                s0.intoArray(out, (c * n + i) * L);
+                s1.intoArray(out, ((i + 1) * n + c) * L);
+                s1.intoArray(out, (c * n + i + 1) * L);
+                s2.intoArray(out, ((i + 2) * n + c) * L);
+                s2.intoArray(out, (c * n + i + 2) * L);
+                s3.intoArray(out, ((i + 3) * n + c) * L);
+                s3.intoArray(out, (c * n + i + 3) * L);
             }
             for (; i < n; i++) {
-                DoubleVector s = DoubleVector.zero(S);
-                for (int p = c; p < n; p++) {
-                    s = s.add(DoubleVector.fromArray(S, t2, (i * n + p) * L)
-                            .mul(DoubleVector.fromArray(S, m, (c * n + p) * L)));
+                DoubleVector sum = DoubleVector.zero(S);
+                for (int p = lo; p < hi; p++) {
+                    sum = sum.add(DoubleVector.fromArray(S, a, (i * n + p) * L)
+                            .mul(DoubleVector.fromArray(S, b, (c * n + p) * L)));
                 }
-                s.intoArray(cov, (i * n + c) * L);
-                s.intoArray(cov, (c * n + i) * L);
+                sum.intoArray(out, (i * n + c) * L);
+                sum.intoArray(out, (c * n + i) * L);
             }
         }
     }
 
-    /** t1 = L⁻¹ a: t1_ic = Σ_{p ≤ i} linv_ip a_pc (NewtonCovariance.whitenLeft), four columns sharing linv_ip. */
+    /** t1 = L⁻¹ a: t1_ic = Σ_{p ≤ i} linv_ip a_pc (NewtonCovariance.whitenLeft). */
     private static void whitenLeft(int n, double[] a, double[] linv, double[] t1) {
+        rowProduct(n, linv, a, false, t1);
+    }
+
+    /**
+     * out_ic = Σ_p a_ip b_pc (n × n per lane), each sum over p in increasing order: p ≤ i, or p ≥ i
+     * when fromI; four columns at a time share a_ip.
+     */
+    private static void rowProduct(int n, double[] a, double[] b, boolean fromI, double[] out) {
         for (int i = 0; i < n; i++) {
+            int lo = fromI ? i : 0, hi = fromI ? n : i + 1;
             int c = 0;
             for (; c + 3 < n; c += 4) {
                 DoubleVector s0 = DoubleVector.zero(S), s1 = s0, s2 = s0, s3 = s0;
-                for (int p = 0; p <= i; p++) {
-                    DoubleVector b = DoubleVector.fromArray(S, linv, (i * n + p) * L);
+                for (int p = lo; p < hi; p++) {
+                    DoubleVector ai = DoubleVector.fromArray(S, a, (i * n + p) * L);
                     int o = (p * n + c) * L;
-                    s0 = s0.add(b.mul(DoubleVector.fromArray(S, a, o)));
-                    s1 = s1.add(b.mul(DoubleVector.fromArray(S, a, o + L)));
-                    s2 = s2.add(b.mul(DoubleVector.fromArray(S, a, o + 2 * L)));
-                    s3 = s3.add(b.mul(DoubleVector.fromArray(S, a, o + 3 * L)));
+                    s0 = s0.add(ai.mul(DoubleVector.fromArray(S, b, o)));
+                    s1 = s1.add(ai.mul(DoubleVector.fromArray(S, b, o + L)));
+                    s2 = s2.add(ai.mul(DoubleVector.fromArray(S, b, o + 2 * L)));
+                    s3 = s3.add(ai.mul(DoubleVector.fromArray(S, b, o + 3 * L)));
                 }
                 int o = (i * n + c) * L;
-                s0.intoArray(t1, o);
-                s1.intoArray(t1, o + L);
-                s2.intoArray(t1, o + 2 * L);
-                s3.intoArray(t1, o + 3 * L);
+                s0.intoArray(out, o);
+                s1.intoArray(out, o + L);
+                s2.intoArray(out, o + 2 * L);
+                s3.intoArray(out, o + 3 * L);
             }
             for (; c < n; c++) {
-                DoubleVector s = DoubleVector.zero(S);
-                for (int p = 0; p <= i; p++) {
-                    s = s.add(DoubleVector.fromArray(S, linv, (i * n + p) * L)
-                            .mul(DoubleVector.fromArray(S, a, (p * n + c) * L)));
+                DoubleVector sum = DoubleVector.zero(S);
+                for (int p = lo; p < hi; p++) {
+                    sum = sum.add(DoubleVector.fromArray(S, a, (i * n + p) * L)
+                            .mul(DoubleVector.fromArray(S, b, (p * n + c) * L)));
                 }
-                s.intoArray(t1, (i * n + c) * L);
+                sum.intoArray(out, (i * n + c) * L);
             }
         }
     }
