@@ -231,10 +231,11 @@ final class NewtonLanes {
                 java.util.Arrays.fill(current, true);
                 int k = k1 - 1;
                 // the penalised matrices and gradients in lanes (λ = 0, where the penalty is skipped: per engine)
-                boolean inLanes = true;
+                boolean inLanes = true, exact = false; // exact: a lane's fit reads its step's size
                 for (int l = 0; l < lanes; l++) {
                     if (differentiate[l]) {
                         inLanes &= lam[l] != 0.0;
+                        exact |= !searching[l];
                         double[] b = eng[l].betaView();
                         for (int i = 0; i < k; i++) {
                             bd[i * lanes + l] = b[i];
@@ -263,7 +264,7 @@ final class NewtonLanes {
                 }
                 kern.cholesky(factor, k, k1, pivotFloor, failed);
                 kern.solve(factor, k, k1, steps); // the Newton steps (read only where the factor exists)
-                if (u != null) { // their coordinate norms and the coefficients' (the engines' stopping rule)
+                if (u != null && exact) { // their coordinate norms and the coefficients' (the stopping rule)
                     kern.coordinateNorm(u, k, steps, norms, 0);
                     kern.coordinateNorm(u, k, bd, norms, lanes);
                 }
@@ -283,7 +284,7 @@ final class NewtonLanes {
                                     g[i] = gl[i * lanes + l];
                                 }
                             }
-                            double rel = u == null ? Double.NaN : norms[l] / (1 + norms[lanes + l]);
+                            double rel = u == null || !exact ? Double.NaN : norms[l] / (1 + norms[lanes + l]);
                             need[l] = e.factoredWithStep(steps, l, lanes, rel); // rel as relativeStep's
                         } else {
                             if (inLanes) {

@@ -420,7 +420,9 @@ final class PenalizedFit {
                     + "penalised information F + 2 lambda Omega is singular (no reference prior): the data do not"
                     + " determine every coordinate; edf, covariance and criterion are reported with the default"
                     + " reference prior (weight " + PenalizedLikelihoodEstimator.DEFAULT_PRIOR_WEIGHT + ") added";
-            eng.fisherInformation(); // F from the engine's own pass (the lanes leave it in theirs; the same bits)
+            if (given != null) { // the lanes left F in theirs: the engine's own pass (the same bits)
+                eng.fisherInformation();
+            }
             edf = eng.sandwich(lambda, u, cov, true, unitPrior);
             if (Double.isNaN(edf)) {
                 throw new DensaException("unit " + id + ": penalised information is singular even with the"
