@@ -434,6 +434,8 @@ final class VectorPath extends KernelPath {
     private static final long MANTISSA = 0x000f_ffff_ffff_ffffL;
     private static final long ONE_BITS = Double.doubleToRawLongBits(1.0);
     private static final double SQRT2 = 1.4142135623730951;
+    private static final double EXPONENT_BASE = 0x1p52;
+    private static final long EXPONENT_BASE_BITS = Double.doubleToRawLongBits(EXPONENT_BASE);
     /** 2/(2i + 1) for i = 1..10: 2 atanh(s) = 2s + s·Σ_i (2/(2i + 1)) s^(2i). */
     private static final double[] ATANH = atanhCoefficients(10);
 
@@ -484,8 +486,11 @@ final class VectorPath extends KernelPath {
     static DoubleVector log(DoubleVector v) {
         double[] c = ATANH;
         LongVector bits = (LongVector) v.reinterpretAsLongs();
-        DoubleVector e = (DoubleVector) bits.lanewise(VectorOperators.LSHR, 52).sub(1023L)
-                .convert(VectorOperators.L2D, 0);
+        // the biased exponent k (0..4095 with the sign bit) as the double 2^52 + k, less 2^52 + 1023: every
+        // term an integer below 2^53, so e = k − 1023 exactly, the value of the one-lane (double) conversion;
+        // a long-to-double conversion has no instruction before AVX-512 and would run lane by lane in Java
+        DoubleVector e = ((DoubleVector) bits.lanewise(VectorOperators.LSHR, 52).or(EXPONENT_BASE_BITS)
+                .reinterpretAsDoubles()).sub(EXPONENT_BASE + 1023.0);
         DoubleVector m = (DoubleVector) bits.and(MANTISSA).or(ONE_BITS).reinterpretAsDoubles();
         VectorMask<Double> big = m.compare(VectorOperators.GT, SQRT2);
         m = m.blend(m.mul(0.5), big);
