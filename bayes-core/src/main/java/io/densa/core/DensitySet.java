@@ -417,6 +417,39 @@ public final class DensitySet {
     }
 
     /**
+     * n × m matrix of B2 inner products ⟨f_i, g_j⟩_B of this set's densities (rows) with those of
+     * {@code other} (columns): the coordinates' n × K by K × m product (for example FPCA scores:
+     * the centred data against the eigenfunctions). A fresh matrix; neither set is copied.
+     *
+     * @throws IllegalArgumentException if the sets are of different spaces, n·m exceeds the
+     *                                  largest array, or an inner product is beyond the double
+     *                                  range (it is never returned as ±∞ or NaN)
+     */
+    public DMatrixRMaj innerProducts(DensitySet other) {
+        Objects.requireNonNull(other, "other");
+        space.requireSame(other.space, "density set");
+        int m = other.n;
+        if ((long) n * m > Integer.MAX_VALUE - 8) {
+            throw new IllegalArgumentException("innerProducts of " + n + " by " + m + " densities: " + ((long) n * m)
+                    + " entries exceed the largest array; split either set");
+        }
+        double[] t = new double[k * m];
+        for (int j = 0; j < m; j++) {
+            for (int i = 0; i < k; i++) {
+                t[i * m + j] = other.data[j * k + i];
+            }
+        }
+        double[] out = new double[n * m];
+        Kernels.multiply(data, n, k, t, m, out, true);
+        double big = maxAbs() * other.maxAbs();
+        if (!(big * k < Double.MAX_VALUE)) {
+            RowEvaluation.requireFinite(out, "the n × m inner products", "they are sums of K products of coordinates:"
+                    + " coordinates up to about 1e154 / √K are accepted");
+        }
+        return DMatrixRMaj.wrap(n, m, out);
+    }
+
+    /**
      * n × n matrix of B2 distances ‖f_i ⊖ f_j‖_B, computed as ‖a‖² + ‖b‖² − 2 a·b with negative
      * rounding clipped to 0, and exact zeros on the diagonal.
      */

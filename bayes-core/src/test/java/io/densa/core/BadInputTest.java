@@ -114,6 +114,8 @@ class BadInputTest {
         fails("density 1" + both, () -> DensitySet.of(List.of(S.neutral(), other.neutral())));
         fails("density set" + both,
                 () -> DensitySet.of(List.of(S.neutral())).concat(DensitySet.of(List.of(other.neutral()))));
+        fails("density set" + both,
+                () -> DensitySet.of(List.of(S.neutral())).innerProducts(DensitySet.of(List.of(other.neutral()))));
     }
 
     @Test

@@ -90,6 +90,19 @@ class DensitySetTest {
         for (int i = 0; i < gram.data.length; i++) {
             close(gram.data[i], g.data[i], "gram");
         }
+        // inner products with another set: EJML's C Dᵀ, and each entry Density.inner of the pair
+        DensitySet other = randomSet(s, 7, 34);
+        DMatrixRMaj cross = new DMatrixRMaj(60, 7);
+        CommonOps_DDRM.multTransB(m, other.coordinateMatrix(), cross);
+        DMatrixRMaj ip = set.innerProducts(other);
+        assertEquals(60, ip.numRows);
+        assertEquals(7, ip.numCols);
+        for (int i = 0; i < 60; i++) {
+            for (int j = 0; j < 7; j++) {
+                close(cross.get(i, j), ip.get(i, j), "innerProducts");
+                close(set.get(i).inner(other.get(j)), ip.get(i, j), "innerProducts");
+            }
+        }
     }
 
     @ParameterizedTest(name = "{0}")

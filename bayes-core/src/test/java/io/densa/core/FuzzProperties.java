@@ -234,6 +234,7 @@ class FuzzProperties {
         CHECK.run("crossProducts(uncentred)", () -> set.crossProducts(false));
         CHECK.run("covariance", set::covariance);
         CHECK.run("gram", set::gram);
+        CHECK.run("innerProducts", () -> set.innerProducts(set));
         CHECK.run("distances", set::distances);
         CHECK.run("norms", set::norms);
         int[] idx = {n - 1, 0, n};

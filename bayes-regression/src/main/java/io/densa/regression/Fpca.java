@@ -285,8 +285,15 @@ public final class Fpca {
         checkCount(m);
         int rows = data.size();
         double[] v = loadings(m);
-        double[] out = new double[rows * m];
-        Kernels.multiply(data.coordinatesRowMajor(), rows, k, v, m, out, true);
+        double[] directions = new double[m * k]; // component j's coordinates in row j
+        for (int j = 0; j < m; j++) {
+            for (int i = 0; i < k; i++) {
+                directions[j * k + i] = v[i * m + j];
+            }
+        }
+        // the data are not copied and the shift is subtracted in place: at 10⁶ × 32 each copy of the
+        // n × K or n × m values is a fresh 256 MB array
+        double[] out = data.innerProducts(DensitySet.ofRowMajor(space, directions, m, null)).data;
         double[] shift = new double[m];
         for (int j = 0; j < m; j++) {
             double s = 0;
@@ -295,9 +302,8 @@ public final class Fpca {
             }
             shift[j] = s;
         }
-        double[] res = new double[rows * m];
-        Kernels.subtractRow(out, rows, m, shift, res, true);
-        return res;
+        Kernels.subtractRow(out, rows, m, shift, out, true);
+        return out;
     }
 
     /**

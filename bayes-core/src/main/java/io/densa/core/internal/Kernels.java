@@ -114,7 +114,7 @@ public final class Kernels {
     /**
      * out = A − 1 vᵀ (subtract v from every row).
      *
-     * @param out n·k array, may be a fresh array (not a)
+     * @param out n·k array: a fresh array or {@code a} itself (each entry is read before it is written)
      */
     public static void subtractRow(double[] a, int n, int k, double[] v, double[] out, boolean parallel) {
         int blocks = (n + BLOCK - 1) / BLOCK;
