@@ -96,6 +96,40 @@ public abstract class KernelPath {
             double[] db);
 
     /**
+     * Planar lags from one point to a run of points: d2[q] = dx² + dy² with dx = xs[from + q] − x0,
+     * dy = ys[from + q] − y0 (products rounded, then their sum: no fused multiply-add), and
+     * h[q] = √d2[q], for q &lt; len. Both paths compute exactly these operations (the same bits);
+     * where d2 lies outside [2⁻⁹⁶⁰, 2⁹⁶⁰] the caller replaces h by a scaled form.
+     */
+    public abstract void planarLags(double[] xs, double[] ys, double x0, double y0, int from, int len, double[] d2,
+            double[] h);
+
+    /**
+     * Squared distances from dot products, in place: dot[off + q] becomes
+     * ni + nsq[from + q] − 2·dot[off + q] (‖a‖² + ‖b‖² − 2 a·b), negative rounding set to 0, for
+     * q &lt; len. Both paths compute exactly these operations.
+     */
+    public abstract void squaredDistances(double ni, double[] nsq, int from, double[] dot, int off, int len);
+
+    /**
+     * Equal-width lag bins of a run of pairs (squared distances d2[q], distances h[q], q &lt; len):
+     * bin[q] = ⌈h·invWidth⌉ − 1 clamped to [0, last], or {@code beyond} where d2 &gt; max2 or
+     * h &gt; top, stored as a double (a small integer, exact). Both paths give the same bins.
+     */
+    public abstract void lagBins(double[] d2, double[] h, int len, double invWidth, int last, int beyond, double max2,
+            double top, double[] bin);
+
+    /**
+     * The bin of {@link #lagBins} for one pair: ⌈x⌉ − 1 for x = h/width ≥ 0 by truncation,
+     * minus one on an exact integer (a truncation past the int range saturates and clamps to last).
+     */
+    public static int lagBin(double d2, double h, double invWidth, int last, int beyond, double max2, double top) {
+        double x = h * invWidth;
+        int t = (int) x;
+        int b = Math.max(0, Math.min(last, (double) t == x ? t - 1 : t));
+        return d2 > max2 || h > top ? beyond : b;
+    }
+    /**
      * out[q] = w[q]·exp(a·x[q] − shift) for q &lt; n (w null: weights 1): the node weights of a
      * quadrature of exp, or exponential covariances. The scalar path computes exactly that
      * expression with {@link Math#exp}; the SIMD path evaluates exp with its own polynomial (within

@@ -90,6 +90,35 @@ final class ScalarPath extends KernelPath {
 
     /** Four coordinates per sweep and two rows sharing each load: eight multiply-adds per element and pass. */
     @Override
+    public void planarLags(double[] xs, double[] ys, double x0, double y0, int from, int len, double[] d2,
+            double[] h) {
+        for (int q = 0; q < len; q++) {
+            double dx = xs[from + q] - x0;
+            double dy = ys[from + q] - y0;
+            double s = dx * dx + dy * dy;
+            d2[q] = s;
+            h[q] = Math.sqrt(s);
+        }
+    }
+
+    @Override
+    public void squaredDistances(double ni, double[] nsq, int from, double[] dot, int off, int len) {
+        for (int q = 0; q < len; q++) {
+            double g = ni + nsq[from + q] - 2 * dot[off + q];
+            dot[off + q] = g < 0 ? 0 : g;
+        }
+    }
+
+    @Override
+    public void lagBins(double[] d2, double[] h, int len, double invWidth, int last, int beyond, double max2,
+            double top, double[] bin) {
+        for (int q = 0; q < len; q++) {
+            bin[q] = lagBin(d2[q], h[q], invWidth, last, beyond, max2, top);
+        }
+    }
+
+
+    @Override
     public void rowDots(double[] y, double[] yt, int n, int k, int ia, int ib, int js, int len, double[] da,
             double[] db) {
         boolean two = ib >= 0;

@@ -206,6 +206,67 @@ final class VectorPath extends KernelPath {
     }
 
     @Override
+    public void planarLags(double[] xs, double[] ys, double x0, double y0, int from, int len, double[] d2,
+            double[] h) {
+        int q = 0;
+        for (; q + L <= len; q += L) {
+            DoubleVector dx = DoubleVector.fromArray(S, xs, from + q).sub(x0);
+            DoubleVector dy = DoubleVector.fromArray(S, ys, from + q).sub(y0);
+            DoubleVector s = dx.mul(dx).add(dy.mul(dy));
+            s.intoArray(d2, q);
+            s.lanewise(VectorOperators.SQRT).intoArray(h, q);
+        }
+        for (; q < len; q++) {
+            double dx = xs[from + q] - x0;
+            double dy = ys[from + q] - y0;
+            double s = dx * dx + dy * dy;
+            d2[q] = s;
+            h[q] = Math.sqrt(s);
+        }
+    }
+
+    @Override
+    public void squaredDistances(double ni, double[] nsq, int from, double[] dot, int off, int len) {
+        int q = 0;
+        DoubleVector n0 = DoubleVector.broadcast(S, ni);
+        DoubleVector zero = DoubleVector.zero(S);
+        for (; q + L <= len; q += L) {
+            DoubleVector g = n0.add(DoubleVector.fromArray(S, nsq, from + q))
+                    .sub(DoubleVector.fromArray(S, dot, off + q).mul(2.0));
+            g.blend(zero, g.compare(VectorOperators.LT, 0.0)).intoArray(dot, off + q);
+        }
+        for (; q < len; q++) {
+            double g = ni + nsq[from + q] - 2 * dot[off + q];
+            dot[off + q] = g < 0 ? 0 : g;
+        }
+    }
+
+    /**
+     * ⌈x⌉ as round(x) plus one where that lies below x, round(x) = (x + 2⁵²) − 2⁵² (exact for
+     * 0 ≤ x &lt; 2⁵²; from there on x is beyond every bin and both forms clamp to last), so the bins
+     * of {@link KernelPath#lagBin} without a double-to-int conversion per lane.
+     */
+    @Override
+    public void lagBins(double[] d2, double[] h, int len, double invWidth, int last, int beyond, double max2,
+            double top, double[] bin) {
+        int q = 0;
+        DoubleVector zero = DoubleVector.zero(S);
+        for (; q + L <= len; q += L) {
+            DoubleVector hv = DoubleVector.fromArray(S, h, q);
+            DoubleVector x = hv.mul(invWidth);
+            DoubleVector r = x.add(EXPONENT_BASE).sub(EXPONENT_BASE);
+            DoubleVector c = r.blend(r.add(1.0), r.compare(VectorOperators.LT, x));
+            DoubleVector b = c.sub(1.0).min((double) last).max(zero);
+            VectorMask<Double> out = DoubleVector.fromArray(S, d2, q).compare(VectorOperators.GT, max2)
+                    .or(hv.compare(VectorOperators.GT, top));
+            b.blend((double) beyond, out).intoArray(bin, q);
+        }
+        for (; q < len; q++) {
+            bin[q] = lagBin(d2[q], h[q], invWidth, last, beyond, max2, top);
+        }
+    }
+
+    @Override
     public void rowDots(double[] y, double[] yt, int n, int k, int ia, int ib, int js, int len, double[] da,
             double[] db) {
         boolean two = ib >= 0;

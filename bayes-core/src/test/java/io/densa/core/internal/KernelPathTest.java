@@ -325,4 +325,75 @@ class KernelPathTest {
     void logsVectorPathWithinTwoUlps() {
         checkLogs(vectorPath());
     }
+
+    /**
+     * The variogram's pair kernels against their definitions, on runs of every length around the
+     * vector width: d² = dx² + dy² and h = √d² (Math.sqrt, correctly rounded: IEEE 754-2019 §5.4.1,
+     * so one right answer), the bin ⌈h/w⌉ − 1 (Math.ceil) clamped to [0, last] or "beyond" past the
+     * largest lag, and ‖a‖² + ‖b‖² − 2 a·b with negative rounding set to 0. Lags are drawn on and
+     * next to bin edges (where the ceiling's integer case decides), at 0 and far beyond the bins.
+     */
+    private static void checkPairKernels(KernelPath path) {
+        Random rnd = new Random(91);
+        double width = 0.5 / 30;
+        double inv = 1 / width;
+        int last = 29;
+        int beyond = 30;
+        double top = 0.5;
+        double max2 = top * top * (1 + 1e-12);
+        for (int len : new int[] {1, 3, 4, 5, 8, 9, 17, 256}) {
+            double[] xs = new double[len + 5], ys = new double[len + 5];
+            for (int rep = 0; rep < 40; rep++) {
+                for (int j = 0; j < xs.length; j++) {
+                    int kind = rnd.nextInt(4);
+                    double r = kind == 0 ? rnd.nextInt(40) * width : kind == 1 ? Math.nextUp(rnd.nextInt(40) * width)
+                            : kind == 2 ? 0.0 : rnd.nextDouble() * (rnd.nextBoolean() ? 0.7 : 1e9);
+                    double a = rnd.nextDouble() * 2 * Math.PI;
+                    boolean axis = rnd.nextBoolean(); // along an axis the lag is r itself, edges included
+                    xs[j] = 0.25 + (axis ? r : r * Math.cos(a));
+                    ys[j] = -0.5 + (axis ? 0 : r * Math.sin(a));
+                }
+                double x0 = 0.25, y0 = -0.5;
+                int from = rnd.nextInt(5);
+                double[] d2 = new double[len], h = new double[len], bin = new double[len];
+                path.planarLags(xs, ys, x0, y0, from, len, d2, h);
+                path.lagBins(d2, h, len, inv, last, beyond, max2, top, bin);
+                for (int q = 0; q < len; q++) {
+                    double dx = xs[from + q] - x0, dy = ys[from + q] - y0;
+                    double e2 = dx * dx + dy * dy;
+                    String what = path.describe() + " len=" + len + " q=" + q;
+                    assertEquals(e2, d2[q], 0.0, what);
+                    assertEquals(Math.sqrt(e2), h[q], 0.0, what);
+                    double b = e2 > max2 || h[q] > top ? beyond
+                            : Math.max(0, Math.min(last, Math.ceil(h[q] * inv) - 1));
+                    assertEquals(b, bin[q], 0.0, what + " h/w=" + h[q] * inv);
+                }
+                double[] nsq = new double[len + 5], dot = new double[len + 3];
+                for (int j = 0; j < nsq.length; j++) {
+                    nsq[j] = rnd.nextDouble() * 4;
+                }
+                for (int j = 0; j < dot.length; j++) {
+                    dot[j] = (rnd.nextDouble() - 0.3) * 4;
+                }
+                double ni = rnd.nextDouble() * 4;
+                double[] before = dot.clone();
+                path.squaredDistances(ni, nsq, from, dot, 2, len);
+                for (int q = 0; q < dot.length; q++) {
+                    double expect = q < 2 || q >= 2 + len ? before[q]
+                            : Math.max(0.0, ni + nsq[from + q - 2] - 2 * before[q]);
+                    assertEquals(expect, dot[q], 0.0, path.describe() + " squaredDistances len=" + len + " at " + q);
+                }
+            }
+        }
+    }
+
+    @Test
+    void pairKernelsScalarPath() {
+        checkPairKernels(KernelPath.scalar());
+    }
+
+    @Test
+    void pairKernelsVectorPath() {
+        checkPairKernels(vectorPath());
+    }
 }

@@ -33,6 +33,9 @@ final class VariogramPass {
     final double cosT;
     final boolean directional;
     final int stride;
+    /** Planar x and y coordinates apart (the lags' kernel reads them as runs), or null on the sphere. */
+    private final double[] xs;
+    private final double[] ys;
 
     VariogramPass(int n, int k, double[] y, double[] yt, double[] nsq, double[] p, boolean geo, double max2, double[] e,
             boolean uniform, double invWidth, int ns, double[] dcos, double[] dsin, double cosT,
@@ -55,6 +58,12 @@ final class VariogramPass {
         this.cosT = cosT;
         this.directional = directional;
         this.stride = ns * nb;
+        this.xs = geo ? null : new double[n];
+        this.ys = geo ? null : new double[n];
+        for (int i = 0; !geo && i < n; i++) {
+            xs[i] = p[2 * i];
+            ys[i] = p[2 * i + 1];
+        }
     }
 
     /** Bin totals of all pairs (i, j), i in [i0, i1), j &gt; i (first stride entries are valid). */
@@ -69,6 +78,7 @@ final class VariogramPass {
         long[] sc = new long[LANES * lw];
         double[] da = new double[JTILE];
         double[] db = new double[JTILE];
+        double[][] buf = new double[3][JTILE]; // a run's squared distances, distances and bins
         int dim = geo ? 3 : 2;
         double[] box = new double[2 * dim];
         for (int j0 = i0; j0 < n; j0 += JTILE) {
@@ -86,17 +96,17 @@ final class VariogramPass {
                 if (nearA && nearB) {
                     int len = j1 - js;
                     dots(i, true, js, len, da, db);
-                    bin(i, js, len, da, 0, sg, sh, sc);
+                    bin(i, js, len, da, 0, buf, sg, sh, sc);
                     int js2 = Math.max(j0, i + 2);
                     if (js2 < j1) {
-                        bin(i + 1, js2, j1 - js2, db, js2 - js, sg, sh, sc);
+                        bin(i + 1, js2, j1 - js2, db, js2 - js, buf, sg, sh, sc);
                     }
                 } else if (nearA || nearB) {
                     int r = nearA ? i : i + 1;
                     int jr = Math.max(j0, r + 1);
                     if (jr < j1) {
                         dots(r, false, jr, j1 - jr, da, db);
-                        bin(r, jr, j1 - jr, da, 0, sg, sh, sc);
+                        bin(r, jr, j1 - jr, da, 0, buf, sg, sh, sc);
                     }
                 }
             }
@@ -149,9 +159,10 @@ final class VariogramPass {
         PATH.rowDots(y, yt, n, k, i, two ? i + 1 : -1, js, len, da, db);
     }
 
-    private void bin(int i, int js, int len, double[] dot, int dotOff, double[] sg, double[] sh, long[] sc) {
+    private void bin(int i, int js, int len, double[] dot, int dotOff, double[][] buf, double[] sg, double[] sh,
+            long[] sc) {
         if (!geo && uniform && !directional) {
-            pairsPlanarUniform(i, js, len, dot, dotOff, sg, sh, sc);
+            pairsPlanarUniform(i, js, len, dot, dotOff, buf, sg, sh, sc);
         } else {
             pairs(i, js, len, dot, dotOff, sg, sh, sc);
         }
@@ -163,31 +174,29 @@ final class VariogramPass {
      * instead of being skipped, so the loop does not pay a mispredicted branch for the roughly half
      * of all pairs that lie beyond the largest lag. Same arithmetic, same bins, same sums.
      */
-    private void pairsPlanarUniform(int i, int js, int len, double[] dot, int dotOff, double[] sg, double[] sh,
-            long[] sc) {
+    private void pairsPlanarUniform(int i, int js, int len, double[] dot, int dotOff, double[][] buf, double[] sg,
+            double[] sh, long[] sc) {
         double ni = nsq[i];
-        double xi = p[2 * i], yi = p[2 * i + 1];
+        double xi = xs[i], yi = ys[i];
         double top = e[nb];
         int lw = stride + 1;
         int last = nb - 1;
+        double[] d2s = buf[0], lag = buf[1], bins = buf[2];
+        // the squared spatial distances, their roots and the bins, as runs
+        PATH.planarLags(xs, ys, xi, yi, js, len, d2s, lag);
+        PATH.lagBins(d2s, lag, len, invWidth, last, stride, max2, top, bins);
+        PATH.squaredDistances(ni, nsq, js, dot, dotOff, len); // the dot products become squared B2 distances
         for (int q = 0; q < len; q++) {
             int j = js + q;
-            double dx = p[2 * j] - xi;
-            double dy = p[2 * j + 1] - yi;
-            double d2 = dx * dx + dy * dy;
-            double h = Math.sqrt(d2);
+            double d2 = d2s[q];
+            double h = lag[q];
+            int b = (int) bins[q];
             if (!(d2 <= 0x1p960 && d2 >= 0x1p-960)) {
-                h = Scaling.planarNorm(dx, dy); // outside the plain square root's safe range (rare)
+                h = Scaling.planarNorm(xs[j] - xi, ys[j] - yi); // outside the plain square root's safe range (rare)
+                b = KernelPath.lagBin(d2, h, invWidth, last, stride, max2, top);
             }
-            // ⌈x⌉ − 1 for x = h/width ≥ 0 without Math.ceil: truncation, minus one on an exact integer
-            double x = h * invWidth;
-            int t = (int) x;
-            int b = Math.max(0, Math.min(last, (double) t == x ? t - 1 : t));
-            b = d2 > max2 || h > top ? stride : b;
-            double g = ni + nsq[j] - 2 * dot[dotOff + q];
-            g = g < 0 ? 0 : g;
             int o = (q & (LANES - 1)) * lw + b;
-            sg[o] += g;
+            sg[o] += dot[dotOff + q];
             sh[o] += h;
             sc[o]++;
         }
