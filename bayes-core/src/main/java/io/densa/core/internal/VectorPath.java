@@ -31,19 +31,12 @@ final class VectorPath extends KernelPath {
 
     /**
      * Applies every lane-wise operator of the double and long vectors once, before any kernel
-     * runs, so that the incubator's per-operator tables (each entry filled on the operator's first
-     * use) are complete before the JIT compiles a kernel. Why: HotSpot inlines the table lookup
-     * into every operation of a kernel; a first use of an operator inside compiled code misses the
-     * table and records a type-check trap in that shared lookup method, and the C2 compiler adds
-     * the lookup's traps up over all its inlined copies. Once the sum reaches its per-method limit
-     * (PerMethodTrapLimit, 100 on HotSpot 17), the rest of the kernel is compiled with a virtual
-     * call behind every type guard, the vector shapes are no longer constants, those operations
-     * are not intrinsified and their vectors are allocated on the heap. Measured on the
-     * estimator's node pass (48 inlined lookups): 2 recorded traps per lookup gave a sum of 96 and
-     * a fast kernel, 4 gave 192 and 1.4–1.9× slower estimation with about 8 GB/s of allocation,
-     * in 4 of 10 runs (the count depends on which thread first uses which operator).
-     * With the tables primed here no lookup misses in compiled code. The cost is about 70 ms once
-     * per JVM (loading the vector path: 20 ms before, 85–92 ms with it, measured 2026-12-05).
+     * runs, so that the incubator's per-operator tables are complete before the JIT compiles a
+     * kernel: a first use inside compiled code records a type-check trap in the shared lookup,
+     * C2 adds the traps of all its inlined copies, and past the per-method limit (100 on HotSpot
+     * 17) it compiles the kernel without vector intrinsics and with its vectors on the heap
+     * (1.4–1.9× slower estimation in 4 of 10 runs before; DEVELOPERS.md has the story). About
+     * 70 ms once per JVM.
      */
     private static void primeOperatorTables() {
         DoubleVector d = DoubleVector.broadcast(S, 1.5);
@@ -81,12 +74,19 @@ final class VectorPath extends KernelPath {
                 prime(() -> l.reduceLanes(a, lm));
             }
         }
+        // operators of four kinds through the shared operator-kind check 3,000 times (about 25 ms), so that its
+        // type profile holds several classes before anything inlining it is compiled: with one or two, C2 built a
+        // generic operation that trapped on the next class, the same failure (AVX2: 1 JVM in 4, then 0 in 16)
+        DoubleVector acc = d;
+        for (int i = 0; i < 3000; i++) {
+            acc = acc.lanewise(VectorOperators.NEG).lanewise(VectorOperators.SUB, d).lanewise(VectorOperators.ADD, d)
+                    .lanewise(VectorOperators.FMA, d, d).blend(d, acc.compare(VectorOperators.LT, d));
+        }
     }
 
     /**
-     * Runs one priming operation. An operator the element type does not support throws and is
-     * skipped; so is any other failure: priming only saves time and must never keep the vector
-     * path from loading.
+     * Runs one priming operation: an operator the element type does not support throws and is
+     * skipped, as is any other failure (priming must never keep the vector path from loading).
      */
     private static void prime(Runnable op) {
         try {
