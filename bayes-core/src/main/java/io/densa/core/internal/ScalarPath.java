@@ -92,7 +92,13 @@ final class ScalarPath extends KernelPath {
     @Override
     public void planarLags(double[] xs, double[] ys, double x0, double y0, int from, int len, double[] d2,
             double[] h) {
-        for (int q = 0; q < len; q++) {
+        planarLags(xs, ys, x0, y0, from, 0, len, d2, h);
+    }
+
+    /** {@link KernelPath#planarLags} for q in [q0, len) (also the vector path's tail). */
+    static void planarLags(double[] xs, double[] ys, double x0, double y0, int from, int q0, int len, double[] d2,
+            double[] h) {
+        for (int q = q0; q < len; q++) {
             double dx = xs[from + q] - x0;
             double dy = ys[from + q] - y0;
             double s = dx * dx + dy * dy;

@@ -216,13 +216,7 @@ final class VectorPath extends KernelPath {
             s.intoArray(d2, q);
             s.lanewise(VectorOperators.SQRT).intoArray(h, q);
         }
-        for (; q < len; q++) {
-            double dx = xs[from + q] - x0;
-            double dy = ys[from + q] - y0;
-            double s = dx * dx + dy * dy;
-            d2[q] = s;
-            h[q] = Math.sqrt(s);
-        }
+        ScalarPath.planarLags(xs, ys, x0, y0, from, q, len, d2, h);
     }
 
     @Override
