@@ -129,6 +129,7 @@ public abstract class KernelPath {
         int b = Math.max(0, Math.min(last, (double) t == x ? t - 1 : t));
         return d2 > max2 || h > top ? beyond : b;
     }
+
     /**
      * out[q] = w[q]·exp(a·x[q] − shift) for q &lt; n (w null: weights 1): the node weights of a
      * quadrature of exp, or exponential covariances. The scalar path computes exactly that

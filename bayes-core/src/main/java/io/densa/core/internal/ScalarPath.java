@@ -88,7 +88,6 @@ final class ScalarPath extends KernelPath {
         }
     }
 
-    /** Four coordinates per sweep and two rows sharing each load: eight multiply-adds per element and pass. */
     @Override
     public void planarLags(double[] xs, double[] ys, double x0, double y0, int from, int len, double[] d2,
             double[] h) {
@@ -123,7 +122,7 @@ final class ScalarPath extends KernelPath {
         }
     }
 
-
+    /** Four coordinates per sweep and two rows sharing each load: eight multiply-adds per element and pass. */
     @Override
     public void rowDots(double[] y, double[] yt, int n, int k, int ia, int ib, int js, int len, double[] da,
             double[] db) {

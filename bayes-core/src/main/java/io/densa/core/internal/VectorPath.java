@@ -76,7 +76,7 @@ final class VectorPath extends KernelPath {
         }
         // operators of four kinds through the shared operator-kind check 3,000 times (about 25 ms), so that its
         // type profile holds several classes before anything inlining it is compiled: with one or two, C2 built a
-        // generic operation that trapped on the next class, the same failure (AVX2: 1 JVM in 4, then 0 in 16)
+        // generic operation that trapped on the next class, the same failure (AVX2: 11 JVMs in 48, then 0 in 30)
         DoubleVector acc = d;
         for (int i = 0; i < 3000; i++) {
             acc = acc.lanewise(VectorOperators.NEG).lanewise(VectorOperators.SUB, d).lanewise(VectorOperators.ADD, d)
