@@ -405,48 +405,18 @@ public final class DensitySet {
      *                                  near 1e154 and above): it is never returned as ±∞ or NaN
      */
     public DMatrixRMaj gram() {
-        RowEvaluation.checkSquare(n, "gram");
-        double[] g = new double[n * n];
-        Kernels.gram(data, n, k, g, true);
-        double big = maxAbs();
-        if (!(big * big * k < Double.MAX_VALUE)) {
-            RowEvaluation.requireFinite(g, "the n × n Gram matrix", "its entries are inner products of K coordinates:"
-                    + " coordinates up to about 1e154 / √K are accepted (distances() and norms() accept more)");
-        }
-        return DMatrixRMaj.wrap(n, n, g);
+        return RowEvaluation.gram(this);
     }
 
     /**
-     * n × m matrix of B2 inner products ⟨f_i, g_j⟩_B of this set's densities (rows) with those of
-     * {@code other} (columns): the coordinates' n × K by K × m product (for example FPCA scores:
-     * the centred data against the eigenfunctions). A fresh matrix; neither set is copied.
+     * n × m matrix of B2 inner products ⟨f_i, g_j⟩_B of these densities with those of {@code other}
+     * (for example FPCA scores: the data against the eigenfunctions); a fresh matrix, no copies.
      *
-     * @throws IllegalArgumentException if the sets are of different spaces, n·m exceeds the
-     *                                  largest array, or an inner product is beyond the double
-     *                                  range (it is never returned as ±∞ or NaN)
+     * @throws IllegalArgumentException for sets of different spaces, n·m beyond the largest array,
+     *                                  or an inner product beyond the double range (never ±∞ or NaN)
      */
     public DMatrixRMaj innerProducts(DensitySet other) {
-        Objects.requireNonNull(other, "other");
-        space.requireSame(other.space, "density set");
-        int m = other.n;
-        if ((long) n * m > Integer.MAX_VALUE - 8) {
-            throw new IllegalArgumentException("innerProducts of " + n + " by " + m + " densities: " + ((long) n * m)
-                    + " entries exceed the largest array; split either set");
-        }
-        double[] t = new double[k * m];
-        for (int j = 0; j < m; j++) {
-            for (int i = 0; i < k; i++) {
-                t[i * m + j] = other.data[j * k + i];
-            }
-        }
-        double[] out = new double[n * m];
-        Kernels.multiply(data, n, k, t, m, out, true);
-        double big = maxAbs() * other.maxAbs();
-        if (!(big * k < Double.MAX_VALUE)) {
-            RowEvaluation.requireFinite(out, "the n × m inner products", "they are sums of K products of coordinates:"
-                    + " coordinates up to about 1e154 / √K are accepted");
-        }
-        return DMatrixRMaj.wrap(n, m, out);
+        return RowEvaluation.innerProducts(this, other);
     }
 
     /**

@@ -8,9 +8,50 @@ import io.densa.core.DistributionFunctions.Shape;
 /**
  * Batch evaluation of every row of a {@link DensitySet}: log normalisers, pdfs on a grid (one
  * matrix product, then one pass), per-row functionals (cdf, tails, quantiles, means) in fixed
- * blocks of rows, norms and pairwise distances (with their scaled paths for extreme coordinates). Package-private; the public entry points are on DensitySet.
+ * blocks of rows, the Gram matrix and inner products with another set, norms and pairwise distances
+ * (with their scaled paths for extreme coordinates). Package-private; the public entry points are on
+ * DensitySet.
  */
 final class RowEvaluation {
+    /** {@link DensitySet#gram()}. */
+    static DMatrixRMaj gram(DensitySet set) {
+        int n = set.n;
+        checkSquare(n, "gram");
+        double[] g = new double[n * n];
+        Kernels.gram(set.data, n, set.k, g, true);
+        double big = set.maxAbs();
+        if (!(big * big * set.k < Double.MAX_VALUE)) {
+            requireFinite(g, "the n × n Gram matrix", "its entries are inner products of K coordinates:"
+                    + " coordinates up to about 1e154 / √K are accepted (distances() and norms() accept more)");
+        }
+        return DMatrixRMaj.wrap(n, n, g);
+    }
+
+    /** {@link DensitySet#innerProducts}: B's rows transposed once, then the n × K by K × m product. */
+    static DMatrixRMaj innerProducts(DensitySet set, DensitySet other) {
+        Objects.requireNonNull(other, "other");
+        set.space().requireSame(other.space(), "density set");
+        int n = set.n, k = set.k, m = other.n;
+        if ((long) n * m > Integer.MAX_VALUE - 8) {
+            throw new IllegalArgumentException("innerProducts of " + n + " by " + m + " densities: " + ((long) n * m)
+                    + " entries exceed the largest array; split either set");
+        }
+        double[] t = new double[k * m];
+        for (int j = 0; j < m; j++) {
+            for (int i = 0; i < k; i++) {
+                t[i * m + j] = other.data[j * k + i];
+            }
+        }
+        double[] out = new double[n * m];
+        Kernels.multiply(set.data, n, k, t, m, out, true);
+        double big = set.maxAbs() * other.maxAbs();
+        if (!(big * k < Double.MAX_VALUE)) {
+            requireFinite(out, "the n × m inner products", "they are sums of K products of coordinates:"
+                    + " coordinates up to about 1e154 / √K are accepted");
+        }
+        return DMatrixRMaj.wrap(n, m, out);
+    }
+
     /** Largest n × n result (entries) that gram() and distances() build. */
     private static final long MAX_SQUARE = 150_000_000L;
 
