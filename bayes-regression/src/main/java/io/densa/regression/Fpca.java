@@ -284,24 +284,19 @@ public final class Fpca {
         space.requireSame(data.space(), "data");
         checkCount(m);
         int rows = data.size();
-        double[] v = loadings(m);
-        double[] directions = new double[m * k]; // component j's coordinates in row j
+        double[] directions = new double[m * k]; // component j's coordinates v_j in row j
+        double[] shift = new double[m];          // c̄ᵀ v_j
         for (int j = 0; j < m; j++) {
+            double s = 0;
             for (int i = 0; i < k; i++) {
-                directions[j * k + i] = v[i * m + j];
+                directions[j * k + i] = vectors[i * k + j];
+                s += mean[i] * vectors[i * k + j];
             }
+            shift[j] = s;
         }
         // the data are not copied and the shift is subtracted in place: at 10⁶ × 32 each copy of the
         // n × K or n × m values is a fresh 256 MB array
         double[] out = data.innerProducts(DensitySet.ofRowMajor(space, directions, m, null)).data;
-        double[] shift = new double[m];
-        for (int j = 0; j < m; j++) {
-            double s = 0;
-            for (int i = 0; i < k; i++) {
-                s += mean[i] * v[i * m + j];
-            }
-            shift[j] = s;
-        }
         Kernels.subtractRow(out, rows, m, shift, out, true);
         return out;
     }

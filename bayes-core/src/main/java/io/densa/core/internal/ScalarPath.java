@@ -108,7 +108,12 @@ final class ScalarPath extends KernelPath {
 
     @Override
     public void squaredDistances(double ni, double[] nsq, int from, double[] dot, int off, int len) {
-        for (int q = 0; q < len; q++) {
+        squaredDistances(ni, nsq, from, dot, off, 0, len);
+    }
+
+    /** {@link KernelPath#squaredDistances} for q in [q0, len) (also the vector path's tail). */
+    static void squaredDistances(double ni, double[] nsq, int from, double[] dot, int off, int q0, int len) {
+        for (int q = q0; q < len; q++) {
             double g = ni + nsq[from + q] - 2 * dot[off + q];
             dot[off + q] = g < 0 ? 0 : g;
         }

@@ -229,10 +229,7 @@ final class VectorPath extends KernelPath {
                     .sub(DoubleVector.fromArray(S, dot, off + q).mul(2.0));
             g.blend(zero, g.compare(VectorOperators.LT, 0.0)).intoArray(dot, off + q);
         }
-        for (; q < len; q++) {
-            double g = ni + nsq[from + q] - 2 * dot[off + q];
-            dot[off + q] = g < 0 ? 0 : g;
-        }
+        ScalarPath.squaredDistances(ni, nsq, from, dot, off, q, len);
     }
 
     /**
