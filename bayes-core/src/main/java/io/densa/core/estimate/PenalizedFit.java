@@ -9,8 +9,8 @@ import io.densa.core.estimate.EstimationSupport.SampleData;
 import io.densa.core.internal.Kernels;
 import io.densa.core.internal.ProgressCounter;
 import io.densa.core.internal.RawBasis;
-import io.densa.core.internal.UnitLanes;
 import io.densa.core.internal.RoughnessPenalty;
+import io.densa.core.internal.UnitLanes;
 import java.util.Arrays;
 
 /**
@@ -21,8 +21,6 @@ import java.util.Arrays;
  */
 final class PenalizedFit {
     private static final int UNITS_PER_BLOCK = 32;
-    /** Half-width in decades of the central difference for the curvature of the marginal likelihood. */
-    private static final double SMOOTHING_STEP = 0.25;
 
     private final BayesSpace space;
     private final double fixedLambda; // NaN: choose
@@ -74,7 +72,7 @@ final class PenalizedFit {
         this.domainScale = scale(domain, false);
         this.prior = priorWeight > 0 ? priorMatrix(priorWeight) : null;
         this.unitPrior = priorMatrix(PenalizedLikelihoodEstimator.DEFAULT_PRIOR_WEIGHT);
-        this.search = new SmoothingSearch(s, k, u, rawPenalty, prior, SmoothingSearch.rank(rawPenalty, k));
+        this.search = new SmoothingSearch(s, k, u, rawPenalty, prior, RoughnessPenalty.rank(rawPenalty, k));
     }
 
     /** The penalty matrix Ω in the space's coordinates, K × K row-major. */
@@ -450,7 +448,7 @@ final class PenalizedFit {
                             criterion, crit, edf, loglik, eng.total(), iterations, cov, Double.NaN, Double.NaN));
         }
         if (choose && ok && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD
-                && addSmoothingUncertainty(eng, lambda, crit, cv, cov, found[0], found[1])) {
+                && addSmoothingUncertainty(eng, lambda, cov, found[0], found[1])) {
             reason = (reason.isEmpty() ? "" : reason + "; ") + String.format(java.util.Locale.ROOT,
                     "lambda weakly determined by the data (marginal likelihood flat or not convex at the"
                     + " choice): its uncertainty term is bounded by the plausible range of lambda, %.1f decades",
@@ -547,37 +545,23 @@ final class PenalizedFit {
      * has a larger variance (Popoviciu (1935), Sur les équations algébriques ayant toutes leurs
      * racines réelles, Mathematica (Cluj) 9; from memory, and elementary: Var X ≤ E(X − m)² ≤ (W/2)²
      * for m the interval's midpoint). The bound also stands in where V is not convex at λ̂. V'' is
-     * the search's own (the cubic through its four values nearest to the choice, which bracket it:
-     * no further fit) and otherwise a central difference over ±h decades from two more fits. On
-     * 500 seasonal units (the benchmark's histograms; 407 had a bracketing search) the search's value
-     * was within 0.96–1.03 of the central difference for 90 % of the units, and the λ-uncertainty
-     * term within 0.78–1.17 of the central difference's (median 1.001); the replicate study's
-     * reported / empirical traces moved by at most 0.003 in the mean; the two fits had cost 16 %
-     * of the λ choice (measured 2026-12-04). Restores β
-     * (not the evaluation at β, which the caller no longer reads).
+     * the search's ({@link SmoothingSearch.Steps}): the cubic through its four values nearest to the
+     * choice where they bracket it, otherwise a central difference over ±
+     * {@link SmoothingSearch#CURVATURE_STEP} decades from two more of its fits. On 500 seasonal
+     * units (the benchmark's histograms; 407 had a bracketing search) the cubic's value was within
+     * 0.96–1.03 of the central difference for 90 % of the units, and the λ-uncertainty term within
+     * 0.78–1.17 of the central difference's (median 1.001); the replicate study's reported /
+     * empirical traces moved by at most 0.003 in the mean (measured 2026-12-04).
      *
-     * @param searchCurvature V''(log10 λ) from the search, or NaN
+     * @param curvG V''(log10 λ) from the search, or NaN (then the bound)
      * @return whether the bound, not the local value, gave V_ρ
      */
-    private boolean addSmoothingUncertainty(PenalizedNewton eng, double lambda, double crit, CrossValidationFolds cv,
-            double[] cov, double plausibleWidth, double searchCurvature) {
+    private boolean addSmoothingUncertainty(PenalizedNewton eng, double lambda, double[] cov, double plausibleWidth,
+            double curvG) {
         double[] dBeta = new double[k + 1];
         eng.smoothingTangent(lambda, dBeta);
         double[] dc = new double[k];
         EstimationSupport.toCoordinates(u, k, dBeta, dc, 0);
-        double curvG = searchCurvature;
-        if (!Double.isFinite(curvG)) {
-            double[] saved = eng.coefficients();
-            double h = SMOOTHING_STEP;
-            double dRho = h * Math.log(10);
-            // each side's fit starts from the first-order prediction β ± dRho dβ/dρ
-            eng.setCoefficientsAlong(saved, dRho, dBeta);
-            double up = search.criterionAt(eng, lambda * Math.pow(10, h), cv);
-            eng.setCoefficientsAlong(saved, -dRho, dBeta);
-            double down = search.criterionAt(eng, lambda * Math.pow(10, -h), cv);
-            eng.setCoefficients(saved); // the caller reads only β from here on: no re-evaluation
-            curvG = (up - 2 * crit + down) / (h * h);
-        }
         // in decades²: the local value where V is convex at λ̂, within the bound of the plausible range
         double local = curvG > 0 && Double.isFinite(curvG) ? 2 / curvG : Double.POSITIVE_INFINITY;
         double bound = plausibleWidth > 0 ? 0.25 * plausibleWidth * plausibleWidth : Double.POSITIVE_INFINITY;

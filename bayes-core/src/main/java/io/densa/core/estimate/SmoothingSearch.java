@@ -93,8 +93,9 @@ final class SmoothingSearch {
      * best fit found; found[0] receives {@link #plausibleWidth} of the grid values the scan
      * computed (no further fits: scanning on until the criterion had risen by
      * {@link #PLAUSIBLE_RISE} changed the replicate study's ratios by at most 0.02 and cost 6 % more
-     * time), found[1] the curvature of the criterion at the choice from the values the search
-     * computed ({@link ScatteredCurvature#curvatureAt}; NaN where they do not determine it).
+     * time), found[1] the curvature of the criterion (per decade²) at the choice from the values the
+     * search computed ({@link ScatteredCurvature#curvatureAt}); where they do not determine it, with
+     * the marginal likelihood, from two more fits ({@link #CURVATURE_STEP}), else NaN.
      */
     double choose(PenalizedNewton eng, double scale, CrossValidationFolds cv, double[] found) {
         Steps st = new Steps(eng, scale, found);
@@ -111,7 +112,7 @@ final class SmoothingSearch {
      * {@link #chosen} is the choice, the engine holds its coefficients and found its two values.
      */
     final class Steps {
-        private static final int SCAN = 0, PARABOLA = 1, EDGE = 2, GOLDEN = 3, DONE = 4;
+        private static final int SCAN = 0, PARABOLA = 1, EDGE = 2, GOLDEN = 3, CURVATURE = 4, DONE = 5;
         private final PenalizedNewton eng;
         private final double scale;
         private final double[] found;
@@ -129,6 +130,9 @@ final class SmoothingSearch {
         private GoldenSection.Steps golden;
         /** log10 λ of the fit asked for, and of the choice. */
         private double x, chosenG;
+        /** The criterion at the choice and at {@link #CURVATURE_STEP} decades above it (its fits). */
+        private double chosenC, upC;
+        private int curvatureFits;
 
         /** found: receives the plausible width and the curvature (see {@link #choose}). */
         Steps(PenalizedNewton eng, double scale, double[] found) {
@@ -177,10 +181,15 @@ final class SmoothingSearch {
                         path.startNearBest(eng, bestBeta, bestG, x);
                         return true;
                     }
-                    eng.setCoefficients(bestBeta);
-                    chosenG = golden.result();
-                    found[1] = evaluated.curvatureAt(chosenG);
-                    phase = DONE;
+                    choice(golden.result());
+                    return next();
+                case CURVATURE:
+                    if (curvatureFits < 2) {
+                        x = chosenG + (curvatureFits == 0 ? CURVATURE_STEP : -CURVATURE_STEP);
+                        path.startNearBest(eng, bestBeta, bestG, x);
+                        return true;
+                    }
+                    done();
                     return false;
                 default:
                     return false;
@@ -189,7 +198,9 @@ final class SmoothingSearch {
 
         /** The criterion at the fit {@link #next} asked for. */
         void accept(double c) {
-            evaluated.add(x, c);
+            if (phase != CURVATURE) {
+                evaluated.add(x, c);
+            }
             switch (phase) {
                 case SCAN:
                     scanG[scanned] = x;
@@ -240,15 +251,20 @@ final class SmoothingSearch {
                     break;
                 case EDGE:
                     if (c >= bestC) {
-                        eng.setCoefficients(bestBeta);
-                        chosenG = bestG;
-                        phase = DONE;
+                        choice(bestG);
                     } else {
                         startGolden();
                     }
                     break;
                 case GOLDEN:
                     golden.accept(c);
+                    break;
+                case CURVATURE:
+                    if (curvatureFits++ == 0) {
+                        upC = c;
+                    } else { // the central difference (NaN or ±∞ where a fit failed)
+                        found[1] = (upC - 2 * chosenC + c) / (CURVATURE_STEP * CURVATURE_STEP);
+                    }
                     break;
                 default:
                     throw new IllegalStateException("the search is done");
@@ -324,13 +340,43 @@ final class SmoothingSearch {
                     }
                 }
             }
-            chosenG = bestG;
+            choice(bestG);
+            return next();
+        }
+
+        /**
+         * The search has chosen log10 λ = g: its curvature there from the values it computed, else
+         * (marginal likelihood: the λ-uncertainty term reads it) from two more fits, ±
+         * {@link #CURVATURE_STEP} decades from the choice, which start from the best fit's tangent
+         * prediction as the refinement's do and take the criterion at the choice from the search;
+         * then done.
+         */
+        private void choice(double g) {
+            chosenG = g;
+            found[1] = evaluated.curvatureAt(g);
+            chosenC = evaluated.valueAt(g);
+            if (Double.isNaN(found[1]) && criterion == SmoothingCriterion.MARGINAL_LIKELIHOOD
+                    && Double.isFinite(chosenC)) {
+                phase = CURVATURE;
+            } else {
+                done();
+            }
+        }
+
+        /** The engine back at the best fit's coefficients (where the final fit starts). */
+        private void done() {
             eng.setCoefficients(bestBeta);
-            found[1] = evaluated.curvatureAt(bestG);
             phase = DONE;
-            return false;
         }
     }
+
+    /**
+     * Half-width (decades of λ) of the central difference of the criterion where the search's own
+     * values do not determine its curvature at the choice ({@link Steps}): wide enough that the
+     * criterion's error at the search tolerance (about 10⁻⁹ of the penalised log-likelihood) stays
+     * far below the second difference.
+     */
+    static final double CURVATURE_STEP = 0.25;
 
     /**
      * Width (decades) of the plausible range of log10 λ: from the smallest to the largest scanned
@@ -548,24 +594,5 @@ final class SmoothingSearch {
                 break;
         }
         return criterion + " could not be evaluated at lambda = " + lambda;
-    }
-
-    /** Numerical rank of a symmetric positive semi-definite K × K matrix (eigenvalues above 10⁻⁹ max). */
-    static int rank(double[] m, int k) {
-        SymmetricQRAlgorithmDecomposition_DDRM eig = new SymmetricQRAlgorithmDecomposition_DDRM(false);
-        if (!eig.decompose(new DMatrixRMaj(k, k, true, m))) {
-            return k;
-        }
-        double max = 0;
-        for (int i = 0; i < k; i++) {
-            max = Math.max(max, Math.abs(eig.getEigenvalue(i).getReal()));
-        }
-        int r = 0;
-        for (int i = 0; i < k; i++) {
-            if (eig.getEigenvalue(i).getReal() > 1e-9 * max) {
-                r++;
-            }
-        }
-        return r;
     }
 }

@@ -1,5 +1,8 @@
 package io.densa.core.internal;
 
+import org.ejml.data.DMatrixRMaj;
+import org.ejml.dense.row.decomposition.eig.SymmetricQRAlgorithmDecomposition_DDRM;
+
 /**
  * Roughness penalty matrices of a basis, in raw (pre-orthonormalisation) coefficients b with
  * clr(x) = φ(x)·b − const. Internal.
@@ -287,5 +290,24 @@ public final class RoughnessPenalty {
             }
         }
         return pen;
+    }
+
+    /** Numerical rank of a symmetric positive semi-definite K × K matrix (eigenvalues above 10⁻⁹ max). */
+    public static int rank(double[] m, int k) {
+        SymmetricQRAlgorithmDecomposition_DDRM eig = new SymmetricQRAlgorithmDecomposition_DDRM(false);
+        if (!eig.decompose(new DMatrixRMaj(k, k, true, m))) {
+            return k;
+        }
+        double max = 0;
+        for (int i = 0; i < k; i++) {
+            max = Math.max(max, Math.abs(eig.getEigenvalue(i).getReal()));
+        }
+        int r = 0;
+        for (int i = 0; i < k; i++) {
+            if (eig.getEigenvalue(i).getReal() > 1e-9 * max) {
+                r++;
+            }
+        }
+        return r;
     }
 }

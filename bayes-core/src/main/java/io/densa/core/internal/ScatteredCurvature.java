@@ -30,6 +30,16 @@ public final class ScatteredCurvature {
         }
     }
 
+    /** The value kept at x0 (the first, if several), or NaN if none. */
+    public double valueAt(double x0) {
+        for (int i = 0; i < n; i++) {
+            if (g[i] == x0) {
+                return c[i];
+            }
+        }
+        return Double.NaN;
+    }
+
     /**
      * V''(x0) from the cubic through x0's value, the nearest value on each side and the next
      * nearest, no two closer than {@link #MIN_SPACING}: the second derivative of the interpolating

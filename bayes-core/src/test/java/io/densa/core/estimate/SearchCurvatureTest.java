@@ -3,6 +3,8 @@ package io.densa.core.estimate;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import io.densa.core.BayesSpace;
+import io.densa.core.internal.RoughnessPenalty;
 import io.densa.core.internal.ScatteredCurvature;
 import org.junit.jupiter.api.Test;
 
@@ -72,5 +74,61 @@ class SearchCurvatureTest {
             h.add(g, cubic(g));
         }
         assertTrue(Double.isNaN(h.curvatureAt(1)));
+    }
+
+    /**
+     * Where the search's values do not bracket its choice (here the strongest smoothing of the grid,
+     * nothing above it), the marginal likelihood's curvature comes from two more fits of the search:
+     * the central second difference (V(g + h) − 2 V(g) + V(g − h)) / h², h =
+     * {@link SmoothingSearch#CURVATURE_STEP} (elementary; Burden &amp; Faires (2011), Numerical
+     * Analysis, 9th ed., §4.1). The reference recomputes the three values from fresh fits to a
+     * tolerance of 1e-12 (the search's fits stop at 1e-9 of the penalised log-likelihood, about
+     * 1e-6 here, so the difference quotient agrees to about 1e-4).
+     */
+    @Test
+    void centralDifferenceWhereTheSearchDoesNotBracketTheChoice() {
+        BayesSpace space = BayesSpace.cubicSplines(0, 365, 21);
+        double[] edges = new double[366];
+        double[] counts = new double[365];
+        double total = 0;
+        for (int j = 0; j <= 365; j++) {
+            edges[j] = j;
+        }
+        for (int j = 0; j < 365; j++) {
+            // a log-linear profile (its clr has no curvature: the penalty's null space), rounded
+            counts[j] = Math.floor(6 * Math.exp(-(j + 0.5) / 150.0) + 0.5 * (1 + Math.sin(3.7 * j)));
+            total += counts[j];
+        }
+        BinLayout lay = new BinLayout(space, edges, 0);
+        int k = space.dimension();
+        double[] pen = RoughnessPenalty.raw(EstimationSupport.rawBasis(space.basis()), 2);
+        double[] u = EstimationSupport.upperU(space.basisTransform(), k);
+        PenalizedLikelihoodEstimator.Settings settings = PenalizedLikelihoodEstimator.withDefaults(space).settings();
+        SmoothingSearch search = new SmoothingSearch(settings, k, u, pen, null, RoughnessPenalty.rank(pen, k));
+        double scale = 0.01;
+        PenalizedNewton eng = engine(lay, pen, u, counts, total);
+        double[] found = {Double.NaN, Double.NaN};
+        double chosen = search.choose(eng, scale, null, found);
+        assertEquals(SmoothingSearch.lambdaAt(total, scale, settings.gridLog10Hi()), chosen, 0.0,
+                "the choice is the strongest smoothing of the grid");
+        double h = SmoothingSearch.CURVATURE_STEP;
+        double[] v = new double[3];
+        for (int i = 0; i < 3; i++) {
+            PenalizedNewton fresh = engine(lay, pen, u, counts, total);
+            double lambda = chosen * Math.pow(10, (i - 1) * h);
+            assertTrue(fresh.solve(lambda, 100, 1e-12), fresh.failure());
+            v[i] = search.criterionAfter(fresh, lambda, null, true);
+        }
+        double reference = (v[2] - 2 * v[1] + v[0]) / (h * h);
+        assertTrue(Double.isFinite(reference) && Math.abs(reference) > 0.01, "reference " + reference);
+        assertEquals(reference, found[1], 1e-3 * Math.max(1, Math.abs(reference)));
+    }
+
+    private static PenalizedNewton engine(BinLayout lay, double[] pen, double[] u, double[] counts, double total) {
+        PenalizedNewton eng = new PenalizedNewton(lay, pen, null);
+        eng.setCoordinateMap(u);
+        eng.useCounts(counts, total);
+        eng.clearCoefficients();
+        return eng;
     }
 }
