@@ -105,6 +105,8 @@ final class NewtonLanes {
     private final int[] queuedUnit;
     private int queuedCount, queuedNext;
     private final double[] startLogs, startBeta;
+    /** The queued units' starts (coefficients, counts) and their evaluation (scratch: eta), one unit per lane. */
+    private final double[] qBeta, qCounts, qEx, qMass, qRes, qForms;
     private final boolean[] robust;
     /** The expected-information pass of the waiting engines, one per lane. */
     private final double[] fEx, fMass, fCounts, fTotals, fTwoLambda, fZ, fHess, fMvec, fUj, meatScale;
@@ -171,6 +173,12 @@ final class NewtonLanes {
         queuedUnit = new int[l];
         startLogs = new double[lay.bins() * l];
         startBeta = new double[k1 * l];
+        qBeta = new double[k1 * l];
+        qCounts = new double[lay.bins() * l];
+        qEx = new double[lay.nodes() * l];
+        qMass = new double[lay.bins() * l];
+        qRes = new double[3 * l];
+        qForms = new double[2 * l];
         robust = new boolean[l];
         fEx = new double[lay.nodes() * l];
         fMass = new double[lay.bins() * l];
@@ -237,9 +245,7 @@ final class NewtonLanes {
                         inLanes &= lam[l] != 0.0;
                         exact |= !searching[l];
                         double[] b = eng[l].betaView();
-                        for (int i = 0; i < k; i++) {
-                            bd[i * lanes + l] = b[i];
-                        }
+                        UnitLanes.setLane(b, k, bd, lanes, l);
                         twoLambda[l] = 2 * lam[l];
                         rankOne[l] = totals[l] / (zs[l] * zs[l]);
                     }
@@ -280,9 +286,7 @@ final class NewtonLanes {
                                 }
                             }
                             if (inLanes) { // the gradient (the step's right-hand side before the solve)
-                                for (int i = 0; i < k; i++) {
-                                    g[i] = gl[i * lanes + l];
-                                }
+                                UnitLanes.lane(gl, lanes, l, g, k);
                             }
                             double rel = u == null || !exact ? Double.NaN : norms[l] / (1 + norms[lanes + l]);
                             need[l] = e.factoredWithStep(steps, l, lanes, rel); // rel as relativeStep's
@@ -305,9 +309,7 @@ final class NewtonLanes {
                 if (evaluate[l]) {
                     any = true;
                     double[] at = eng[l].evaluationPoint();
-                    for (int i = 0; i < k1; i++) {
-                        beta[i * lanes + l] = at[i];
-                    }
+                    UnitLanes.setLane(at, k1, beta, lanes, l);
                 }
             }
             if (!active) {
@@ -327,31 +329,29 @@ final class NewtonLanes {
             }
             for (int l = 0; l < lanes; l++) {
                 if (evaluate[l]) {
-                    current[l] = false;
-                    PenalizedNewton e = eng[l];
-                    zs[l] = res[l];
-                    double o = e.objective().accept(res[l], res[lanes + l], res[2 * lanes + l], forms[l],
-                            prior == null ? 0.0 : forms[lanes + l], lam[l]);
-                    need[l] = e.evaluated(o);
-                    finished(l);
+                    evaluated(l, res, forms, l);
                 }
             }
         }
     }
 
+    /**
+     * Lane l's evaluation to its engine (Z, shift and ℓ at r[s], r[lanes + s], r[2 lanes + s],
+     * β'Pβ and β'Qβ at f[s], f[lanes + s]), then what the engine asks next.
+     */
+    private void evaluated(int l, double[] r, double[] f, int s) {
+        current[l] = false;
+        zs[l] = r[s];
+        double o = eng[l].objective().accept(r[s], r[lanes + s], r[2 * lanes + s], f[s],
+                prior == null ? 0.0 : f[lanes + s], lam[l]);
+        need[l] = eng[l].evaluated(o);
+        finished(l);
+    }
+
     /** Lane l's node pass (band of hess, mvec, grad) into its objective, then its engine's penalised derivatives. */
     private void finishOwn(int l) {
         PenalizedObjective lik = eng[l].objective();
-        double[] g = lik.grad, h = lik.hess, m = lik.mvec;
-        java.util.Arrays.fill(h, 0.0);
-        for (int i = 0; i < k1; i++) {
-            g[i] = grad[i * lanes + l];
-            m[i] = mvec[i * lanes + l];
-            int row = i * k1;
-            for (int c = bandLo[i]; c <= i; c++) {
-                h[row + c] = hess[(row + c) * lanes + l];
-            }
-        }
+        UnitLanes.nodePassLane(grad, mvec, hess, bandLo, k1, lanes, l, lik.grad, lik.mvec, lik.hess);
         lik.finishDerivatives(lam[l], true, eng[l].betaView());
     }
 
@@ -367,6 +367,7 @@ final class NewtonLanes {
                 return;
             }
             int i = queuedUnit[queuedNext];
+            int slot = queuedNext;
             PenalizedNewton e = queued[queuedNext];
             queued[queuedNext++] = null;
             if (error != null && i > errorUnit) { // loading stops after a failure (see fit)
@@ -375,9 +376,7 @@ final class NewtonLanes {
             }
             eng[l] = e;
             double[] r = rows.get(e);
-            for (int j = 0; j < r.length; j++) {
-                counts[j * lanes + l] = r[j];
-            }
+            UnitLanes.setLane(r, r.length, counts, lanes, l);
             totals[l] = e.total();
             unit[l] = i;
             current[l] = false;
@@ -386,13 +385,21 @@ final class NewtonLanes {
                 plans[l] = search.new Steps(e, scale, found[l]);
             }
             begin(l);
+            if (need[l] == PenalizedNewton.EVALUATE) { // at its start: evaluated with the queue (fillQueue)
+                UnitLanes.copyLane(qBeta, slot, beta, l, lanes, k1); // the point an evaluation pass repeats
+                UnitLanes.copyLane(qEx, slot, ex, l, lanes, lay.nodes());
+                UnitLanes.copyLane(qMass, slot, mass, l, lanes, lay.bins());
+                evaluated(l, qRes, qForms, slot);
+            }
             return;
         }
     }
 
     /**
-     * Loads the next units that need a fit, up to one per lane, each into a free engine, and sets
-     * their starts in one pass of the lanes; false when none is left.
+     * Loads the next units that need a fit, up to one per lane, each into a free engine, sets their
+     * starts in one pass of the lanes and evaluates them in another (a unit's first request, which
+     * {@link #load} answers from it: in a lane, a new unit's first evaluation would come after its
+     * lane's derivative pass of that round had run without it); false when none is left.
      */
     private boolean fillQueue() {
         queuedCount = queuedNext = 0;
@@ -419,10 +426,17 @@ final class NewtonLanes {
         }
         double[] b = new double[k1 - 1]; // zero without a map
         for (int s = 0; s < queuedCount; s++) {
-            for (int i = 0; i < b.length && map[0] != null; i++) {
-                b[i] = startBeta[i * lanes + s];
+            if (map[0] != null) {
+                UnitLanes.lane(startBeta, lanes, s, b, b.length);
             }
             queued[s].setRawCoefficients(b); // as startFromCounts would (β_K = 0)
+            UnitLanes.setLane(queued[s].betaView(), k1, qBeta, lanes, s);
+            UnitLanes.setLane(rows.get(queued[s]), lay.bins(), qCounts, lanes, s);
+        }
+        kern.evaluate(lay, qBeta, qCounts, eta, qEx, qMass, qRes); // eta: scratch of every evaluation
+        kern.quadraticForm(pen, penRows, k1 - 1, qBeta, qForms, 0);
+        if (prior != null) {
+            kern.quadraticForm(prior, priorRows, k1 - 1, qBeta, qForms, lanes);
         }
         return true;
     }
@@ -523,12 +537,8 @@ final class NewtonLanes {
         }
         for (int s = 0; s < w; s++) {
             PenalizedObjective lik = waiting[s].objective();
-            for (int q = 0; q < lik.ex.length; q++) {
-                fEx[q * lanes + s] = lik.ex[q];
-            }
-            for (int j = 0; j < lik.mass.length; j++) {
-                fMass[j * lanes + s] = lik.mass[j];
-            }
+            UnitLanes.setLane(lik.ex, lik.ex.length, fEx, lanes, s);
+            UnitLanes.setLane(lik.mass, lik.mass.length, fMass, lanes, s);
             fTotals[s] = lik.total();
             fZ[s] = lik.zScaled();
         }
@@ -548,9 +558,7 @@ final class NewtonLanes {
         if (anyRobust) { // the robust meat of every lane, then scaled or replaced by F lane by lane
             for (int s = 0; s < w; s++) {
                 double[] c = waiting[s].objective().counts();
-                for (int j = 0; j < c.length; j++) {
-                    fCounts[j * lanes + s] = c[j];
-                }
+                UnitLanes.setLane(c, c.length, fCounts, lanes, s);
             }
             kern.empiricalInformation(lay, fCounts, fTotals, fEx, fMass, fMvec, fUj, meat);
         }
@@ -566,9 +574,7 @@ final class NewtonLanes {
             double[] c = null;
             if (covFailed[s] < 0) {
                 c = new double[n * n];
-                for (int i = 0; i < n * n; i++) {
-                    c[i] = cov[i * lanes + s];
-                }
+                UnitLanes.lane(cov, lanes, s, c, n * n);
             }
             try {
                 units.finish(waitingUnit[s], waiting[s], waitingLambda[s], waitingFound[s], waitingConverged[s], c,
@@ -587,14 +593,8 @@ final class NewtonLanes {
     }
 
     private void copyEvaluation(int l, PenalizedObjective lik) {
-        double[] x = lik.ex;
-        for (int q = 0; q < x.length; q++) {
-            x[q] = ex[q * lanes + l];
-        }
-        double[] a = lik.mass;
-        for (int j = 0; j < a.length; j++) {
-            a[j] = mass[j * lanes + l];
-        }
+        UnitLanes.lane(ex, lanes, l, lik.ex, lik.ex.length);
+        UnitLanes.lane(mass, lanes, l, lik.mass, lik.mass.length);
     }
 
 }

@@ -25,6 +25,44 @@ public abstract class UnitLanes {
     /** Units carried at once. */
     public abstract int lanes();
 
+    /** Lane l of n entries of a lanes array a (stride lanes) into out[0..n). */
+    public static void lane(double[] a, int lanes, int l, double[] out, int n) {
+        for (int x = 0; x < n; x++) {
+            out[x] = a[x * lanes + l];
+        }
+    }
+
+    /** v[0..n) into lane l of the lanes array a (stride lanes). */
+    public static void setLane(double[] v, int n, double[] a, int lanes, int l) {
+        for (int x = 0; x < n; x++) {
+            a[x * lanes + l] = v[x];
+        }
+    }
+
+    /**
+     * Lane l of a node pass ({@link #derivatives}: gradient, mvec and the band of the information)
+     * into one unit's g, m and h (k1 × k1 row-major, zero outside the band).
+     */
+    public static void nodePassLane(double[] grad, double[] mvec, double[] hess, int[] bandLo, int k1, int lanes,
+            int l, double[] g, double[] m, double[] h) {
+        java.util.Arrays.fill(h, 0.0);
+        for (int i = 0; i < k1; i++) {
+            g[i] = grad[i * lanes + l];
+            m[i] = mvec[i * lanes + l];
+            int row = i * k1;
+            for (int c = bandLo[i]; c <= i; c++) {
+                h[row + c] = hess[(row + c) * lanes + l];
+            }
+        }
+    }
+
+    /** Lane from of n entries of the lanes array src into lane to of dst (both stride lanes). */
+    public static void copyLane(double[] src, int from, double[] dst, int to, int lanes, int n) {
+        for (int x = 0; x < n; x++) {
+            dst[x * lanes + to] = src[x * lanes + from];
+        }
+    }
+
     /**
      * A cubic-spline bin layout (the arrays of {@code BinLayout}, not copied).
      *
