@@ -14,16 +14,7 @@ import org.ejml.interfaces.decomposition.QRDecomposition;
  * residuals permuted as whole functions, F recomputed through orthonormal bases of the full and
  * reduced weighted designs. Holds only the sizes n, p, K.
  */
-final class FreedmanLaneTest {
-    private final int n;
-    private final int p;
-    private final int k;
-
-    private FreedmanLaneTest(int n, int p, int k) {
-        this.n = n;
-        this.p = p;
-        this.k = k;
-    }
+record FreedmanLaneTest(int n, int p, int k) {
 
     static FunctionOnScalarFit.PermutationTest test(FunctionOnScalarFit fit, String term, int permutations, long seed,
             ProgressListener listener) {
