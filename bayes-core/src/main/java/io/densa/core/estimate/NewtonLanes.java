@@ -385,7 +385,8 @@ final class NewtonLanes {
                 plans[l] = search.new Steps(e, scale, found[l]);
             }
             begin(l);
-            if (need[l] == PenalizedNewton.EVALUATE) { // at its start: evaluated with the queue (fillQueue)
+            // at its start, evaluated with the queue (fillQueue)
+            if (need[l] == PenalizedNewton.EVALUATE && UnitLanes.isLane(e.evaluationPoint(), k1, qBeta, lanes, slot)) {
                 UnitLanes.copyLane(qBeta, slot, beta, l, lanes, k1); // the point an evaluation pass repeats
                 UnitLanes.copyLane(qEx, slot, ex, l, lanes, lay.nodes());
                 UnitLanes.copyLane(qMass, slot, mass, l, lanes, lay.bins());
@@ -596,5 +597,4 @@ final class NewtonLanes {
         UnitLanes.lane(ex, lanes, l, lik.ex, lik.ex.length);
         UnitLanes.lane(mass, lanes, l, lik.mass, lik.mass.length);
     }
-
 }

@@ -57,7 +57,7 @@
  * penalised information of the fit's last Newton iteration (implicit differentiation of the
  * penalised score equation) and V_ρ = 2/V''(ρ), V'' from the cubic through the search's criterion
  * values nearest to λ̂ where they bracket it, else from a central difference over ±0.25 decade (two
- * more fits; Wood, Pya &amp; Säfken (2016), Smoothing parameter and model selection for general smooth
+ * more fits of the search; Wood, Pya &amp; Säfken (2016), Smoothing parameter and model selection for general smooth
  * models, JASA 111, §3; from memory); without it, reported / empirical traces over replicates with
  * their own λ̂ were 0.92, 0.74 and 0.51 at 2,000, 100 and 40 events (normal truth), with it 0.98,
  * 0.91 and 0.81 (mixture truth: 0.93, 0.79, 0.74); these figures are from before the reference

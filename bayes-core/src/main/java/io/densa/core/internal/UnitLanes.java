@@ -56,6 +56,16 @@ public abstract class UnitLanes {
         }
     }
 
+    /** Whether v[0..n) equals lane l of the lanes array a (stride lanes), value for value. */
+    public static boolean isLane(double[] v, int n, double[] a, int lanes, int l) {
+        for (int x = 0; x < n; x++) {
+            if (Double.doubleToLongBits(v[x]) != Double.doubleToLongBits(a[x * lanes + l])) {
+                return false;
+            }
+        }
+        return true;
+    }
+
     /** Lane from of n entries of the lanes array src into lane to of dst (both stride lanes). */
     public static void copyLane(double[] src, int from, double[] dst, int to, int lanes, int n) {
         for (int x = 0; x < n; x++) {
