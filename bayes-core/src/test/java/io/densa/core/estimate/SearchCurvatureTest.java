@@ -88,12 +88,9 @@ class SearchCurvatureTest {
     @Test
     void centralDifferenceWhereTheSearchDoesNotBracketTheChoice() {
         BayesSpace space = BayesSpace.cubicSplines(0, 365, 21);
-        double[] edges = new double[366];
+        double[] edges = EstimationTestSupport.edges(0, 365, 365);
         double[] counts = new double[365];
         double total = 0;
-        for (int j = 0; j <= 365; j++) {
-            edges[j] = j;
-        }
         for (int j = 0; j < 365; j++) {
             // a log-linear profile (its clr has no curvature: the penalty's null space), rounded
             counts[j] = Math.floor(6 * Math.exp(-(j + 0.5) / 150.0) + 0.5 * (1 + Math.sin(3.7 * j)));
