@@ -75,6 +75,12 @@ public abstract class KernelPath {
     }
 
     /**
+     * Adds the rows r0..r1−1 of A (k columns) to s[0..k), each column's entries in row order, and
+     * raises s[k] to the largest |entry| (NaN once an entry is NaN, as {@link Math#max}).
+     */
+    public abstract void addColumnSumsAndMaxAbs(double[] a, int k, int r0, int r1, double[] s);
+
+    /**
      * Adds Σ_i (a_i − c)(a_i − c)ᵀ over the rows {@code rows[r0..r1)} of A (k columns; the rows
      * r0..r1−1 themselves when {@code rows} is null; c = 0 when {@code center} is null) to the
      * upper triangle (l ≥ j) of s (k × k row-major); the lower triangle is left undefined.

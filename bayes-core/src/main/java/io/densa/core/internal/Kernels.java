@@ -211,17 +211,8 @@ public final class Kernels {
         double[][] partial = new double[blocks][];
         forEachBlock(blocks, parallel && parallelWorth((long) n * k), blk -> {
             double[] s = new double[k + 1];
-            double big = 0;
-            int r0 = blk * BLOCK, r1 = Math.min(n, r0 + BLOCK);
-            for (int i = r0; i < r1; i++) {
-                int o = i * k;
-                for (int j = 0; j < k; j++) {
-                    double v = a[o + j];
-                    s[j] += v;
-                    big = Math.max(big, Math.abs(v));
-                }
-            }
-            s[k] = big;
+            int r0 = blk * BLOCK;
+            PATH.addColumnSumsAndMaxAbs(a, k, r0, Math.min(n, r0 + BLOCK), s);
             partial[blk] = s;
         });
         double[] sum = new double[k + 1];

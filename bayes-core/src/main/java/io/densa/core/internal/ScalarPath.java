@@ -12,6 +12,20 @@ final class ScalarPath extends KernelPath {
         return 1;
     }
 
+    @Override
+    public void addColumnSumsAndMaxAbs(double[] a, int k, int r0, int r1, double[] s) {
+        double big = s[k];
+        for (int i = r0; i < r1; i++) {
+            int o = i * k;
+            for (int j = 0; j < k; j++) {
+                double v = a[o + j];
+                s[j] += v;
+                big = Math.max(big, Math.abs(v));
+            }
+        }
+        s[k] = big;
+    }
+
     /**
      * Eight (centred) rows are folded into the matrix per pass, so each entry is loaded and stored
      * once per eight rows; the innermost loop runs unit-stride over the upper part (l ≥ j) of a row.

@@ -1,5 +1,6 @@
 package io.densa.core.internal;
 
+import java.util.Arrays;
 import jdk.incubator.vector.DoubleVector;
 import jdk.incubator.vector.LongVector;
 import jdk.incubator.vector.VectorMask;
@@ -104,6 +105,36 @@ final class VectorPath extends KernelPath {
     @Override
     UnitLanes unitLanes() {
         return UNIT_LANES;
+    }
+
+    /**
+     * Whole vectors of columns through running sums and maxima kept in a small array (each column's
+     * sum in row order, as the scalar loop: the same bits), the remaining columns one by one.
+     */
+    @Override
+    public void addColumnSumsAndMaxAbs(double[] a, int k, int r0, int r1, double[] s) {
+        int kv = k / L * L;
+        double[] acc = new double[2 * kv];
+        System.arraycopy(s, 0, acc, 0, kv);
+        Arrays.fill(acc, kv, 2 * kv, s[k]);
+        double big = s[k];
+        for (int i = r0; i < r1; i++) {
+            int o = i * k;
+            for (int v = 0; v < kv; v += L) {
+                DoubleVector x = DoubleVector.fromArray(S, a, o + v);
+                DoubleVector.fromArray(S, acc, v).add(x).intoArray(acc, v);
+                DoubleVector.fromArray(S, acc, kv + v).max(x.abs()).intoArray(acc, kv + v);
+            }
+            for (int j = kv; j < k; j++) {
+                s[j] += a[o + j];
+                big = Math.max(big, Math.abs(a[o + j]));
+            }
+        }
+        System.arraycopy(acc, 0, s, 0, kv);
+        for (int j = 0; j < kv; j++) {
+            big = Math.max(big, acc[kv + j]);
+        }
+        s[k] = big;
     }
 
     /**
@@ -332,16 +363,16 @@ final class VectorPath extends KernelPath {
     }
 
     /** log2(e), and ln 2 split as the double nearest ln 2 plus the rest (Cody &amp; Waite 1980). */
-    private static final double LOG2E = 1.4426950408889634;
-    private static final double LN2_HI = 0.6931471805599453;
-    private static final double LN2_LO = 2.3190468138462996e-17;
+    static final double LOG2E = 1.4426950408889634;
+    static final double LN2_HI = 0.6931471805599453;
+    static final double LN2_LO = 2.3190468138462996e-17;
     /** 1.5·2⁵²: adding it rounds a double of magnitude below 2⁵¹ to an integer held in the low mantissa bits. */
-    private static final double ROUND = 0x1.8p52;
-    private static final long ROUND_BITS = Double.doubleToRawLongBits(ROUND);
+    static final double ROUND = 0x1.8p52;
+    static final long ROUND_BITS = Double.doubleToRawLongBits(ROUND);
     /** The largest |x − shift| the vector form serves; beyond it (under- or overflow ahead) Math.exp does. */
     private static final double RANGE = 708.0;
     /** 1/i! for i = 0..13. */
-    private static final double[] INV_FACTORIAL = inverseFactorials(13);
+    static final double[] INV_FACTORIAL = inverseFactorials(13);
 
     private static double[] inverseFactorials(int degree) {
         double[] c = new double[degree + 1];
@@ -406,59 +437,6 @@ final class VectorPath extends KernelPath {
         DoubleVector scale = (DoubleVector) ((LongVector) t.reinterpretAsLongs()).sub(ROUND_BITS - 1023L)
                 .lanewise(VectorOperators.LSHL, 52).reinterpretAsDoubles();
         return p.mul(scale);
-    }
-
-    /**
-     * w[q + i]·exp(x_{q+i} − shift) into out[o + iL..o + (i+1)L) for i = 0..3, x_{q+i} at
-     * x[o + iL..) and the shift at shift[so..so+L): the operations of {@link #exp(DoubleVector)} and
-     * the weight's product for each, the four chains interleaved (the same bits; each chain of
-     * dependent multiply-adds hides the others' latency: 1.15× on the lanes' evaluation against one
-     * at a time, 1.06× against two). Arrays in and out, so that a call the JIT does not inline
-     * passes no vectors. Returns false when a shifted value lies outside [−708, 708] or is NaN (its
-     * lanes then hold no meaningful value).
-     */
-    static boolean exp4(double[] x, int o, double[] shift, int so, double[] w, int q, double[] out) {
-        double[] c = INV_FACTORIAL;
-        DoubleVector s = DoubleVector.fromArray(S, shift, so);
-        DoubleVector a = DoubleVector.fromArray(S, x, o).sub(s), b = DoubleVector.fromArray(S, x, o + L).sub(s);
-        DoubleVector a2 = DoubleVector.fromArray(S, x, o + 2 * L).sub(s);
-        DoubleVector b2 = DoubleVector.fromArray(S, x, o + 3 * L).sub(s);
-        DoubleVector ta = a.lanewise(VectorOperators.FMA, LOG2E, ROUND);
-        DoubleVector tb = b.lanewise(VectorOperators.FMA, LOG2E, ROUND);
-        DoubleVector ta2 = a2.lanewise(VectorOperators.FMA, LOG2E, ROUND);
-        DoubleVector tb2 = b2.lanewise(VectorOperators.FMA, LOG2E, ROUND);
-        DoubleVector ka = ta.sub(ROUND), kb = tb.sub(ROUND), ka2 = ta2.sub(ROUND), kb2 = tb2.sub(ROUND);
-        DoubleVector ra = ka.lanewise(VectorOperators.FMA, -LN2_HI, a);
-        DoubleVector rb = kb.lanewise(VectorOperators.FMA, -LN2_HI, b);
-        DoubleVector ra2 = ka2.lanewise(VectorOperators.FMA, -LN2_HI, a2);
-        DoubleVector rb2 = kb2.lanewise(VectorOperators.FMA, -LN2_HI, b2);
-        ra = ka.lanewise(VectorOperators.FMA, -LN2_LO, ra);
-        rb = kb.lanewise(VectorOperators.FMA, -LN2_LO, rb);
-        ra2 = ka2.lanewise(VectorOperators.FMA, -LN2_LO, ra2);
-        rb2 = kb2.lanewise(VectorOperators.FMA, -LN2_LO, rb2);
-        DoubleVector pa = DoubleVector.broadcast(S, c[13]), pb = pa, pa2 = pa, pb2 = pa;
-        for (int i = 12; i >= 0; i--) {
-            DoubleVector ci = DoubleVector.broadcast(S, c[i]);
-            pa = pa.lanewise(VectorOperators.FMA, ra, ci);
-            pb = pb.lanewise(VectorOperators.FMA, rb, ci);
-            pa2 = pa2.lanewise(VectorOperators.FMA, ra2, ci);
-            pb2 = pb2.lanewise(VectorOperators.FMA, rb2, ci);
-        }
-        DoubleVector sa = (DoubleVector) ((LongVector) ta.reinterpretAsLongs()).sub(ROUND_BITS - 1023L)
-                .lanewise(VectorOperators.LSHL, 52).reinterpretAsDoubles();
-        DoubleVector sb = (DoubleVector) ((LongVector) tb.reinterpretAsLongs()).sub(ROUND_BITS - 1023L)
-                .lanewise(VectorOperators.LSHL, 52).reinterpretAsDoubles();
-        DoubleVector sa2 = (DoubleVector) ((LongVector) ta2.reinterpretAsLongs()).sub(ROUND_BITS - 1023L)
-                .lanewise(VectorOperators.LSHL, 52).reinterpretAsDoubles();
-        DoubleVector sb2 = (DoubleVector) ((LongVector) tb2.reinterpretAsLongs()).sub(ROUND_BITS - 1023L)
-                .lanewise(VectorOperators.LSHL, 52).reinterpretAsDoubles();
-        pa.mul(sa).mul(w[q]).intoArray(out, o);
-        pb.mul(sb).mul(w[q + 1]).intoArray(out, o + L);
-        pa2.mul(sa2).mul(w[q + 2]).intoArray(out, o + 2 * L);
-        pb2.mul(sb2).mul(w[q + 3]).intoArray(out, o + 3 * L);
-        return a.abs().compare(VectorOperators.LE, RANGE).and(b.abs().compare(VectorOperators.LE, RANGE))
-                .and(a2.abs().compare(VectorOperators.LE, RANGE))
-                .and(b2.abs().compare(VectorOperators.LE, RANGE)).allTrue();
     }
 
     /**

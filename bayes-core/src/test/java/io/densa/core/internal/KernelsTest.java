@@ -2,6 +2,7 @@ package io.densa.core.internal;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.Random;
 import org.ejml.data.DMatrixRMaj;
@@ -87,17 +88,24 @@ class KernelsTest {
     @org.junit.jupiter.api.Test
     void columnSumsAndMaxAbsInOnePass() {
         Random r = new Random(21);
-        for (int n : new int[] {0, 1, 17, 4096, 4097, 30_000}) {
-            int k = 7;
-            double[] a = new double[n * k];
-            double big = 0;
-            for (int i = 0; i < a.length; i++) {
-                a[i] = r.nextGaussian() * Math.exp(4 * r.nextGaussian());
-                big = Math.max(big, Math.abs(a[i]));
+        for (int k : new int[] {7, 32}) { // on the vector path: vectors and a remainder, vectors only
+            for (int n : new int[] {0, 1, 17, 4096, 4097, 30_000}) {
+                double[] a = new double[n * k];
+                double big = 0;
+                for (int i = 0; i < a.length; i++) {
+                    a[i] = r.nextGaussian() * Math.exp(4 * r.nextGaussian());
+                    big = Math.max(big, Math.abs(a[i]));
+                }
+                double[] fused = Kernels.columnSumsAndMaxAbs(a, n, k, true);
+                assertArrayEquals(Kernels.columnSums(a, n, k, false), java.util.Arrays.copyOf(fused, k), 0.0);
+                assertEquals(big, fused[k], 0.0);
+                if (n > 1) { // a NaN entry: its column's sum and the maximum are NaN (Math.max), nothing else
+                    a[n * k - 2] = Double.NaN;
+                    fused = Kernels.columnSumsAndMaxAbs(a, n, k, true);
+                    assertArrayEquals(Kernels.columnSums(a, n, k, false), java.util.Arrays.copyOf(fused, k), 0.0);
+                    assertTrue(Double.isNaN(fused[k - 2]) && Double.isNaN(fused[k]) && !Double.isNaN(fused[0]));
+                }
             }
-            double[] fused = Kernels.columnSumsAndMaxAbs(a, n, k, true);
-            assertArrayEquals(Kernels.columnSums(a, n, k, false), java.util.Arrays.copyOf(fused, k), 0.0);
-            assertEquals(big, fused[k], 0.0);
         }
     }
 
