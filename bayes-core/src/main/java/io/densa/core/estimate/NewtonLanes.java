@@ -375,8 +375,7 @@ final class NewtonLanes {
                 continue;
             }
             eng[l] = e;
-            double[] r = rows.get(e);
-            UnitLanes.setLane(r, r.length, counts, lanes, l);
+            UnitLanes.copyLane(qCounts, slot, counts, l, lanes, lay.bins());
             totals[l] = e.total();
             unit[l] = i;
             current[l] = false;
@@ -415,6 +414,7 @@ final class NewtonLanes {
             for (int j = 0; j < r.length; j++) {
                 startLogs[j * lanes + queuedCount] = BinLayout.logHalf(r[j]);
             }
+            UnitLanes.setLane(r, r.length, qCounts, lanes, queuedCount);
             queued[queuedCount] = e;
             queuedUnit[queuedCount++] = i;
         }
@@ -432,7 +432,6 @@ final class NewtonLanes {
             }
             queued[s].setRawCoefficients(b); // as startFromCounts would (β_K = 0)
             UnitLanes.setLane(queued[s].betaView(), k1, qBeta, lanes, s);
-            UnitLanes.setLane(rows.get(queued[s]), lay.bins(), qCounts, lanes, s);
         }
         kern.evaluate(lay, qBeta, qCounts, eta, qEx, qMass, qRes); // eta: scratch of every evaluation
         kern.quadraticForm(pen, penRows, k1 - 1, qBeta, qForms, 0);

@@ -136,7 +136,13 @@ final class ScalarPath extends KernelPath {
     @Override
     public void lagBins(double[] d2, double[] h, int len, double invWidth, int last, int beyond, double max2,
             double top, double[] bin) {
-        for (int q = 0; q < len; q++) {
+        lagBins(d2, h, 0, len, invWidth, last, beyond, max2, top, bin);
+    }
+
+    /** {@link KernelPath#lagBins} for q in [q0, len) (also the vector path's tail). */
+    static void lagBins(double[] d2, double[] h, int q0, int len, double invWidth, int last, int beyond, double max2,
+            double top, double[] bin) {
+        for (int q = q0; q < len; q++) {
             bin[q] = lagBin(d2[q], h[q], invWidth, last, beyond, max2, top);
         }
     }

@@ -283,9 +283,7 @@ final class VectorPath extends KernelPath {
                     .or(hv.compare(VectorOperators.GT, top));
             b.blend((double) beyond, out).intoArray(bin, q);
         }
-        for (; q < len; q++) {
-            bin[q] = lagBin(d2[q], h[q], invWidth, last, beyond, max2, top);
-        }
+        ScalarPath.lagBins(d2, h, q, len, invWidth, last, beyond, max2, top, bin);
     }
 
     @Override
